@@ -1,0 +1,29 @@
+import type { Metadata } from 'next';
+import Link from 'next/link';
+import { SignInForm } from './sign-in-form';
+
+export const metadata: Metadata = { title: 'Sign in' };
+
+const ERRORS: Record<string, string> = {
+  Verification: 'That sign-in link has expired or was already used. Ask for a new one.',
+  AccessDenied: 'That address has no Tropopass account. Sign up first or ask your workspace owner for an invitation.',
+  EmailSignin: 'The sign-in link could not be sent. Try again in a moment.',
+};
+
+export default async function SignInPage({ searchParams }: { searchParams: Promise<Record<string, string | undefined>> }) {
+  const sp = await searchParams;
+  const callbackUrl = sp.callbackUrl?.startsWith('/') ? sp.callbackUrl : '/start';
+  const notice = sp.error ? (ERRORS[sp.error] ?? 'Sign-in did not work. Try again.') : sp.reset === '1' ? 'Your password was changed. Sign in with the new one.' : undefined;
+  return (
+    <>
+      <h1 className="text-xl font-semibold">Sign in</h1>
+      <p className="mt-1 text-sm text-ink-soft">
+        New here?{' '}
+        <Link className="text-accent underline" href="/signup">
+          Create an account
+        </Link>
+      </p>
+      <SignInForm callbackUrl={callbackUrl} initialNotice={notice} />
+    </>
+  );
+}

@@ -1,0 +1,36 @@
+import 'server-only';
+import { db, nowIso, writeTx } from './client';
+import { randomToken, sha256Hex } from '@/lib/auth/tokens';
+import { normaliseEmail, updateUserPassword } from './users';
+import { createAuditEntry } from './audit';
+
+export const RESET_MINUTES = 30;
+
+/** A single-use password-reset token; only its hash is stored. */
+export async function createResetToken(email: string): Promise<string> {
+  const token = randomToken();
+  await db()('verification_tokens').insert({
+    identifier: normaliseEmail(email),
+    token: sha256Hex(token),
+    purpose: 'reset',
+    expires: new Date(Date.now() + RESET_MINUTES * 60_000).toISOString(),
+  });
+  return token;
+}
+
+export type ResetOutcome = 'ok' | 'invalid' | 'expired';
+
+/** Consumes the token and sets the new password in one transaction; old sessions end. */
+export async function consumeResetToken(token: string, passwordHash: string): Promise<ResetOutcome> {
+  return writeTx(async (trx) => {
+    const row = await trx('verification_tokens').where({ token: sha256Hex(token), purpose: 'reset' }).first();
+    if (!row) return 'invalid';
+    await trx('verification_tokens').where({ identifier: row.identifier, token: row.token, purpose: 'reset' }).delete();
+    if (row.expires <= nowIso()) return 'expired';
+    const user = await trx('users').where({ email: row.identifier }).first();
+    if (!user) return 'invalid';
+    await updateUserPassword(Number(user.id), passwordHash, trx);
+    await createAuditEntry({ userId: Number(user.id), actor: user.email, action: 'password.reset' }, trx);
+    return 'ok';
+  });
+}

@@ -1,0 +1,62 @@
+/**
+ * The one table of who may do what inside a workspace. Guards, pages, navigation and the
+ * authorisation tests all read it; nothing else decides permissions.
+ */
+export const ROLES = ['owner', 'planner', 'analyst', 'viewer', 'billing'] as const;
+export type Role = (typeof ROLES)[number];
+
+export const PERMISSIONS = [
+  'workspace:read', // see the workspace exists, its name and your role
+  'flights:read', // screenings, flights, fleets, reports, routes, engines, soundings
+  'screenings:create',
+  'imports:create',
+  'imports:delete',
+  'library:write', // saved routes, engines, aircraft types, soundings
+  'fleets:write',
+  'reports:create',
+  'reports:send',
+  'members:manage',
+  'apikeys:manage',
+  'usage:read',
+  'billing:read',
+  'billing:manage',
+  'audit:read',
+] as const;
+export type Permission = (typeof PERMISSIONS)[number];
+
+export const POLICY: Record<Role, readonly Permission[]> = {
+  owner: PERMISSIONS,
+  planner: ['workspace:read', 'flights:read', 'screenings:create', 'imports:create', 'library:write'],
+  analyst: [
+    'workspace:read',
+    'flights:read',
+    'screenings:create',
+    'imports:create',
+    'imports:delete',
+    'library:write',
+    'fleets:write',
+    'reports:create',
+    'reports:send',
+  ],
+  viewer: ['workspace:read', 'flights:read'],
+  billing: ['workspace:read', 'usage:read', 'billing:read', 'billing:manage'],
+};
+
+/** Roles an API key may carry (DESIGN.md: planner by default, or analyst / viewer). */
+export const API_KEY_ROLES = ['planner', 'analyst', 'viewer'] as const satisfies readonly Role[];
+
+export function can(role: Role, permission: Permission): boolean {
+  return POLICY[role].includes(permission);
+}
+
+export function isRole(value: unknown): value is Role {
+  return typeof value === 'string' && (ROLES as readonly string[]).includes(value);
+}
+
+export const ROLE_LABELS: Record<Role, string> = {
+  owner: 'Owner',
+  planner: 'Flight planner',
+  analyst: 'Sustainability analyst',
+  viewer: 'Read-only',
+  billing: 'Finance admin',
+};

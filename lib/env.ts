@@ -1,0 +1,72 @@
+import { z } from 'zod';
+
+/**
+ * The only reader of `process.env`. Parsed once, on first use; `instrumentation.ts` calls
+ * `env()` at server start so a bad environment stops the server with a message naming the variable.
+ */
+const bool = z
+  .enum(['0', '1', 'true', 'false', ''])
+  .optional()
+  .transform((v) => v === '1' || v === 'true');
+
+const int = (fallback: number) => z.coerce.number().int().positive().default(fallback);
+
+const envSchema = z.object({
+  NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
+  DATABASE_URL: z.string().optional(),
+  SQLITE_FILE: z.string().default('.data/tropopass.sqlite'),
+  NEXTAUTH_URL: z.string().url().default('http://127.0.0.1:3000'),
+  NEXTAUTH_SECRET: z.string().min(16, 'NEXTAUTH_SECRET must be at least 16 characters'),
+  SESSION_MAX_HOURS: int(12),
+  SMTP_HOST: z.string().default('127.0.0.1'),
+  SMTP_PORT: int(2525),
+  MAIL_FROM: z.string().default('Tropopass <no-reply@tropopass.test>'),
+  MAIL_OUTBOX: bool,
+  MAIL_FAKE_HTTP_URL: z.string().url().default('http://127.0.0.1:2580'),
+  STRIPE_SECRET_KEY: z.string().default('sk_test_tropopass_local'),
+  STRIPE_API_HOST: z.string().default('127.0.0.1'),
+  STRIPE_API_PORT: int(12111),
+  STRIPE_API_PROTOCOL: z.enum(['http', 'https']).default('http'),
+  STRIPE_API_VERSION: z.string().default('2025-11-17.clover'),
+  STRIPE_WEBHOOK_SECRET: z.string().default('whsec_tropopass_local_fake'),
+  RATE_LIMIT_SIGNIN_PER_15MIN: int(10),
+  RATE_LIMIT_EMAIL_PER_HOUR: int(5),
+  RATE_LIMIT_PREVIEW_PER_MIN: int(120),
+  RATE_LIMIT_API_PER_MIN: int(600),
+  BODY_LIMIT_BYTES: int(1_000_000),
+  LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+  DEMO_TODAY: z
+    .string()
+    .regex(/^\d{4}-\d{2}-\d{2}$/, 'DEMO_TODAY must be YYYY-MM-DD')
+    .optional(),
+  BILLING_SENDER: bool,
+  IMPORT_WORKER: z.enum(['0', '1', 'true', 'false', '']).optional().transform((v) => v !== '0' && v !== 'false'),
+});
+
+export type Env = z.infer<typeof envSchema>;
+
+let cached: Env | undefined;
+
+export function env(): Env {
+  if (cached) return cached;
+  const parsed = envSchema.safeParse(process.env);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join('.') || '(env)'}: ${i.message}`);
+    throw new Error(`Tropopass cannot start: the environment is invalid.\n${lines.join('\n')}`);
+  }
+  cached = parsed.data;
+  return cached;
+}
+
+/** Tests change the environment between files; this forgets the parsed copy. */
+export function resetEnvForTests(): void {
+  cached = undefined;
+}
+
+export function appUrl(): URL {
+  return new URL(env().NEXTAUTH_URL);
+}
+
+export function isHttpsApp(): boolean {
+  return appUrl().protocol === 'https:';
+}

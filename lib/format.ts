@@ -1,0 +1,53 @@
+import type { UnitSystem } from '@/db/users';
+
+/**
+ * Display formatting with the user's unit preference. Stored and computed values are always SI
+ * (km, m, kg); only display converts.
+ */
+export const KM_PER_NM = 1.852;
+export const M_PER_FT = 0.3048;
+export const KG_PER_LB = 0.45359237;
+
+const nf = (digits: number) => new Intl.NumberFormat('en-GB', { maximumFractionDigits: digits, minimumFractionDigits: digits });
+
+export function formatNumber(v: number, digits = 0): string {
+  return Number.isFinite(v) ? nf(digits).format(v) : '–';
+}
+
+export function formatDistance(km: number, units: UnitSystem, digits = 0): string {
+  return units === 'imperial' ? `${formatNumber(km / KM_PER_NM, digits)} NM` : `${formatNumber(km, digits)} km`;
+}
+
+export function formatAltitude(m: number, units: UnitSystem): string {
+  return units === 'imperial' ? `${formatNumber(m / M_PER_FT, 0)} ft` : `${formatNumber(m, 0)} m`;
+}
+
+/** Masses: kg below 10 t, tonnes above; pounds in the imperial preference. */
+export function formatMass(kg: number, units: UnitSystem, digits?: number): string {
+  if (units === 'imperial') {
+    const lb = kg / KG_PER_LB;
+    return `${formatNumber(lb, digits ?? (lb < 10 ? 2 : 0))} lb`;
+  }
+  if (Math.abs(kg) >= 10_000) return `${formatNumber(kg / 1000, digits ?? 1)} t`;
+  return `${formatNumber(kg, digits ?? (Math.abs(kg) < 10 ? 2 : 0))} kg`;
+}
+
+export function formatPercent(fraction: number, digits = 0): string {
+  return Number.isFinite(fraction) ? `${formatNumber(fraction * 100, digits)} %` : '–';
+}
+
+export function formatMoney(cents: number, currency = 'USD'): string {
+  return new Intl.NumberFormat('en-US', { style: 'currency', currency }).format(cents / 100);
+}
+
+export function formatDate(iso: string | null | undefined): string {
+  if (!iso) return '–';
+  const d = new Date(iso);
+  return Number.isNaN(d.getTime()) ? iso : d.toISOString().slice(0, 10);
+}
+
+export function formatDateTime(iso: string | null | undefined): string {
+  if (!iso) return '–';
+  const d = new Date(iso);
+  return Number.isNaN(d.getTime()) ? iso : `${d.toISOString().slice(0, 16).replace('T', ' ')} UTC`;
+}

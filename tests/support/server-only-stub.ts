@@ -1,0 +1,2 @@
+// Vitest runs outside the React server environment; the real `server-only` module throws there.
+export {};
