@@ -15,6 +15,7 @@ export default defineConfig({
   test: {
     execArgv: ['--import', 'tsx'],
     pool: 'forks',
+    env: { LOG_LEVEL: 'silent' },
     testTimeout: 30_000,
     hookTimeout: 60_000,
     projects: [
