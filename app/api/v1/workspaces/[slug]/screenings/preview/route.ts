@@ -1,0 +1,14 @@
+import { json, readJson, workspaceRoute } from '@/lib/api/route';
+import { parseScreeningBody, runScreening, runWhatIf } from '@/lib/screenings/service';
+import { limitPreview } from '@/lib/auth/throttle';
+import { z } from 'zod';
+
+/** Screens without saving (not billed, throttled) and adds the what-if cruise levels. */
+export const POST = workspaceRoute<{ slug: string }>('screenings:create', async ({ req, member, principal }) => {
+  await limitPreview(principal.kind === 'user' ? `u:${principal.user.id}` : `k:${principal.key.keyId}`);
+  const raw = await readJson(req, z.unknown());
+  const parsed = await parseScreeningBody(raw, { workspaceId: member.workspace.id });
+  const result = runScreening(parsed.input);
+  const levels = runWhatIf(parsed.input, parsed.whatIf);
+  return json({ input: parsed.input, aircraft: parsed.aircraftCode, result, levels });
+});

@@ -1,0 +1,87 @@
+import 'server-only';
+import { z } from 'zod';
+import {
+  compareCruiseLevels,
+  screenFlight,
+  ScreeningInputError,
+  validateScreeningInput,
+  type CruiseLevelRow,
+  type ScreeningInput,
+  type ScreeningResult,
+} from '@/lib/screening';
+import { getAircraftForScreening } from '@/db/aircraft-lookup';
+import { badRequest, invalidFields, type FieldProblem } from '@/lib/errors';
+
+/** Fields a saved screening carries beside the engine input (DESIGN.md: the input plus an optional name). */
+const extrasSchema = z.object({
+  name: z.string({ error: 'The name must be text.' }).trim().max(160, 'Use at most 160 characters.').optional(),
+  aircraft: z
+    .string({ error: 'The aircraft type must be a code, such as SK-LR1.' })
+    .trim()
+    .min(1, 'Give an aircraft type code.')
+    .max(16, 'An aircraft type code has at most 16 characters.')
+    .optional(),
+  whatIf: z.unknown().optional(),
+});
+
+export interface ParsedScreeningBody {
+  name?: string;
+  aircraftCode: string | null;
+  input: ScreeningInput;
+  whatIf?: unknown;
+}
+
+/**
+ * Splits a request body into our extras (`name`, `aircraft`, `whatIf`) and the engine input, fills
+ * the emission (and Mach) from the workspace's aircraft type when the body names one and gives no
+ * emission, and validates everything: problems from both parts come back together, by path.
+ */
+export async function parseScreeningBody(raw: unknown, scope: { workspaceId: number }): Promise<ParsedScreeningBody> {
+  if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) throw badRequest('The body must be a JSON object.');
+  const { name, aircraft, whatIf, ...engineRaw } = raw as Record<string, unknown>;
+  const problems: FieldProblem[] = [];
+  const extras = extrasSchema.safeParse({ name, aircraft, whatIf });
+  if (!extras.success) for (const i of extras.error.issues) problems.push({ path: i.path.join('.'), message: i.message });
+  let aircraftCode: string | null = null;
+  if (extras.success && extras.data.aircraft) {
+    const type = await getAircraftForScreening(scope, extras.data.aircraft);
+    if (!type) problems.push({ path: 'aircraft', message: `No aircraft type “${extras.data.aircraft}” in this workspace. Add it under Engines & aircraft.` });
+    else {
+      aircraftCode = type.code;
+      if (engineRaw.emission === undefined) {
+        if (type.emission) engineRaw.emission = type.emission;
+        else problems.push({ path: 'aircraft', message: `Aircraft type ${type.code} has neither an engine nor a direct EI NOx.` });
+      }
+      if (engineRaw.mach === undefined) engineRaw.mach = type.typicalMach;
+    }
+  }
+  let input: ScreeningInput | undefined;
+  try {
+    input = validateScreeningInput(engineRaw);
+  } catch (err) {
+    if (err instanceof ScreeningInputError) problems.push(...err.fields);
+    else throw err;
+  }
+  if (problems.length || !input) throw invalidFields(problems);
+  return { name: extras.success ? extras.data.name : undefined, aircraftCode, input, whatIf: extras.success ? extras.data.whatIf : undefined };
+}
+
+/** Screens the validated input; airport and sounding problems found by the engine come back as 422. */
+export function runScreening(input: ScreeningInput): ScreeningResult {
+  return screenFlight(input);
+}
+
+export function runWhatIf(input: ScreeningInput, whatIf: unknown): CruiseLevelRow[] {
+  const options = whatIf === undefined ? {} : whatIf;
+  if (typeof options !== 'object' || options === null || Array.isArray(options)) {
+    throw invalidFields([{ path: 'whatIf', message: 'whatIf must be an object { deltasFt?, fuelPenaltyPctPer1000Ft?, maxFuelPenaltyPct? }.' }]);
+  }
+  try {
+    return compareCruiseLevels(input, options as Record<string, number[] | number>);
+  } catch (err) {
+    if (err instanceof ScreeningInputError) {
+      throw invalidFields(err.fields.map((f) => ({ path: f.path.replace(/^options\b/, 'whatIf'), message: f.message })));
+    }
+    throw err;
+  }
+}

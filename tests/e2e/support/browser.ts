@@ -1,0 +1,75 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import { afterAll, beforeAll } from 'vitest';
+
+export const BASE_URL = process.env.E2E_BASE_URL ?? 'http://127.0.0.1:3000';
+export const MAIL_URL = process.env.E2E_MAIL_URL ?? 'http://127.0.0.1:2580';
+export const DEMO_PASSWORD = 'tropopass-demo';
+const OUTPUT = path.resolve(process.cwd(), 'tests/e2e/output');
+
+/** One Chromium per test file, launched with the flags this closed network needs. */
+export function useBrowser(): { browser: () => Browser } {
+  let browser: Browser;
+  let dataDir = '';
+  beforeAll(async () => {
+    dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'tropopass-chromium-'));
+    browser = await chromium.launch({
+      executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+      headless: true,
+      args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', `--user-data-dir=${dataDir}`],
+    });
+  });
+  afterAll(async () => {
+    await browser?.close();
+    fs.rmSync(dataDir, { recursive: true, force: true });
+  });
+  return { browser: () => browser };
+}
+
+export interface TrackedPage {
+  context: BrowserContext;
+  page: Page;
+  /** Console errors and uncaught page errors seen so far. */
+  errors: string[];
+}
+
+export async function newPage(browser: Browser, viewport = { width: 1280, height: 900 }): Promise<TrackedPage> {
+  const context = await browser.newContext({ baseURL: BASE_URL, viewport });
+  const page = await context.newPage();
+  const errors: string[] = [];
+  page.on('console', (m) => {
+    if (m.type() === 'error') errors.push(m.text());
+  });
+  page.on('pageerror', (e) => errors.push(e.message));
+  return { context, page, errors };
+}
+
+export async function signIn(page: Page, email: string, password = DEMO_PASSWORD): Promise<void> {
+  await page.goto('/signin');
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL((u) => !u.pathname.startsWith('/signin') && u.pathname !== '/start', { timeout: 20_000 });
+}
+
+export async function screenshot(page: Page, name: string): Promise<string> {
+  fs.mkdirSync(OUTPUT, { recursive: true });
+  const file = path.join(OUTPUT, `${name}.png`);
+  await page.screenshot({ path: file, fullPage: true });
+  return file;
+}
+
+export interface MailItem {
+  id: number;
+  to: string[];
+  subject: string;
+  text: string;
+  attachments: { filename: string; contentType: string; size: number }[];
+}
+
+export async function mailTo(address: string): Promise<MailItem[]> {
+  const res = await fetch(`${MAIL_URL}/messages?to=${encodeURIComponent(address)}`);
+  return ((await res.json()) as { items: MailItem[] }).items;
+}
