@@ -1,0 +1,108 @@
+/**
+ * What-if cruise levels: the same flight screened at other levels with a fuel penalty for leaving
+ * the planned level (SCIENCE.md s.2), and the lowest-impact level within the planner's limit marked.
+ */
+import { screenValidated } from './screen-flight';
+import { validateCompareOptions, validateScreeningInput } from './validate';
+import { SCREENING_LIMITS, type ScreeningInput } from '../validation/screening';
+
+/** Default level changes, ft: -4000 to +4000 in 2000 ft steps. */
+export const DEFAULT_LEVEL_DELTAS_FT: readonly number[] = Object.freeze([-4000, -2000, 0, 2000, 4000]);
+/**
+ * Default fuel penalty, % more fuel per 1000 ft away from the planned (taken as optimum) level: a
+ * rule of thumb (common practice, from memory).
+ */
+export const DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT = 1;
+/** Default planner's limit on the fuel penalty, %. */
+export const DEFAULT_MAX_FUEL_PENALTY_PCT = 2;
+
+/** One what-if level. Masses in kg (NOx as NO2). */
+export interface CruiseLevelRow {
+  /** First (or only) flight level of the shifted profile. */
+  flightLevel: number;
+  /** All step levels of the shifted profile, in route order. */
+  flightLevels: number[];
+  deltaFt: number;
+  fuelKg: number;
+  fuelPenaltyPct: number;
+  noxTotalKg: number;
+  noxAboveTropopauseKg: number;
+  ozoneLoss: { centralKg: number; lowKg: number; highKg: number; o3PerNox: number };
+  withinLimit: boolean;
+  lowestImpact: boolean;
+}
+
+/**
+ * Screens the flight at its planned cruise shifted by each of `deltasFt` (default -4000..+4000 ft in
+ * 2000 ft steps; every step of a step climb shifts together; shifts leaving FL0-FL660 are skipped).
+ * Fuel = planned fuel x (1 + penalty/100), penalty = `fuelPenaltyPctPer1000Ft` (default 1 %, rule
+ * of thumb) x |delta| / 1000 ft, added before NOx is computed. Marks exactly one row
+ * `lowestImpact`: among rows within `maxFuelPenaltyPct` (default 2 %), the least central ozone
+ * figure, then the least NOx above the tropopause, then the smallest |delta|, then the lower level.
+ * Throws ScreeningInputError for a bad input (paths as `screenFlight`) or bad options (`options.*`).
+ */
+export function compareCruiseLevels(
+  input: unknown,
+  options: { deltasFt?: number[]; fuelPenaltyPctPer1000Ft?: number; maxFuelPenaltyPct?: number } = {},
+): CruiseLevelRow[] {
+  const base = validateScreeningInput(input);
+  const opts = validateCompareOptions(options);
+  return compareValidated(base, opts);
+}
+
+/** As `compareCruiseLevels` for an already-validated input and options. */
+export function compareValidated(
+  base: ScreeningInput,
+  opts: { deltasFt?: readonly number[]; fuelPenaltyPctPer1000Ft?: number; maxFuelPenaltyPct?: number },
+): CruiseLevelRow[] {
+  const deltas = [...new Set(opts.deltasFt ?? DEFAULT_LEVEL_DELTAS_FT)].sort((a, b) => a - b);
+  const perK = opts.fuelPenaltyPctPer1000Ft ?? DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT;
+  const limit = opts.maxFuelPenaltyPct ?? DEFAULT_MAX_FUEL_PENALTY_PCT;
+  const steps = 'steps' in base.cruise ? base.cruise.steps : [{ fromKm: 0, flightLevel: base.cruise.flightLevel }];
+  const rows: CruiseLevelRow[] = [];
+  for (const deltaFt of deltas) {
+    const dFl = deltaFt / 100;
+    const shifted = steps.map((s) => ({ fromKm: s.fromKm, flightLevel: s.flightLevel + dFl }));
+    if (shifted.some((s) => s.flightLevel < SCREENING_LIMITS.minFlightLevel || s.flightLevel > SCREENING_LIMITS.maxFlightLevel)) {
+      continue;
+    }
+    const fuelPenaltyPct = (perK * Math.abs(deltaFt)) / 1000;
+    const fuelKg = base.fuelBurnKg * (1 + fuelPenaltyPct / 100);
+    const r = screenValidated({
+      ...base,
+      cruise: 'steps' in base.cruise ? { steps: shifted } : { flightLevel: shifted[0].flightLevel },
+      fuelBurnKg: fuelKg,
+    });
+    rows.push({
+      flightLevel: shifted[0].flightLevel,
+      flightLevels: shifted.map((s) => s.flightLevel),
+      deltaFt,
+      fuelKg,
+      fuelPenaltyPct,
+      noxTotalKg: r.noxTotalKg,
+      noxAboveTropopauseKg: r.noxAboveTropopauseKg,
+      ozoneLoss: {
+        centralKg: r.ozoneLoss.centralKg,
+        lowKg: r.ozoneLoss.lowKg,
+        highKg: r.ozoneLoss.highKg,
+        o3PerNox: r.ozoneLoss.o3PerNox,
+      },
+      withinLimit: fuelPenaltyPct <= limit + 1e-12,
+      lowestImpact: false,
+    });
+  }
+  let best: CruiseLevelRow | null = null;
+  for (const row of rows) {
+    if (!row.withinLimit) continue;
+    if (best === null || better(row, best)) best = row;
+  }
+  if (best !== null) best.lowestImpact = true;
+  return rows;
+}
+
+function better(a: CruiseLevelRow, b: CruiseLevelRow): boolean {
+  if (a.ozoneLoss.centralKg !== b.ozoneLoss.centralKg) return a.ozoneLoss.centralKg < b.ozoneLoss.centralKg;
+  if (a.noxAboveTropopauseKg !== b.noxAboveTropopauseKg) return a.noxAboveTropopauseKg < b.noxAboveTropopauseKg;
+  if (Math.abs(a.deltaFt) !== Math.abs(b.deltaFt)) return Math.abs(a.deltaFt) < Math.abs(b.deltaFt);
+  return a.deltaFt < b.deltaFt;
+}

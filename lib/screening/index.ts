@@ -1,0 +1,70 @@
+/**
+ * Tropopass screening engine: pure functions, plain typed objects in and out. The names and shapes
+ * here are the public contract of DESIGN.md "The engine contract"; the `/api/v1` handlers wrap them.
+ */
+export {
+  isa,
+  pressureAltitudeM,
+  flightLevelToMetres,
+  geopotentialFromGeometricM,
+  geometricFromGeopotentialM,
+  ISA_MIN_ALTITUDE_M,
+  ISA_MAX_ALTITUDE_M,
+  ISA_MIN_PRESSURE_PA,
+  ISA_MAX_PRESSURE_PA,
+  type IsaState,
+} from './atmosphere';
+export {
+  climatologicalTropopauseM,
+  climatologicalTropopauseForDayM,
+  tropopauseFromSounding,
+  type SoundingTropopause,
+} from './tropopause';
+export { rateConstant, JPL_19_5, type Reaction } from './kinetics';
+export {
+  bffm2EiNox,
+  dlrEiNox,
+  buildEiCurve,
+  goffGratchSaturationPressurePa,
+  BFFM2_INSTALLATION_FACTORS,
+  DEFAULT_RELATIVE_HUMIDITY,
+  type EngineCertData,
+  type EiCurve,
+  type EiConditions,
+  type EiEstimate,
+} from './emission-index';
+export {
+  DEFAULT_OZONE_INPUTS,
+  AFGL_O3_PPMV,
+  AFGL_ALTITUDE_KM,
+  FLEET_STUDIES,
+  fleetOzoneColumnContext,
+  type FleetContextEntry,
+  type OddOxygenBudget,
+} from './ozone-loss';
+export { findAirport, searchAirports, type Airport } from './airports';
+export { routeDistanceKm, MAX_SEGMENT_KM } from './route';
+export {
+  screenFlight,
+  screenValidated,
+  ENGINE_VERSION,
+  DEFAULT_MACH,
+  type ScreeningResult,
+  type ScreeningSegment,
+  type ScreeningLevel,
+  type OzoneLoss,
+  type OzoneAssumptionsUsed,
+  type TropopauseSource,
+  type TropopauseUsed,
+} from './screen-flight';
+export {
+  compareCruiseLevels,
+  compareValidated,
+  DEFAULT_LEVEL_DELTAS_FT,
+  DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT,
+  DEFAULT_MAX_FUEL_PENALTY_PCT,
+  type CruiseLevelRow,
+} from './compare-levels';
+export { validateScreeningInput, problemsFromZod } from './validate';
+export { ScreeningInputError } from './errors';
+export type { ScreeningInput, ScreeningInputRaw, FieldProblem } from '../validation/screening';

@@ -1,0 +1,523 @@
+import { z } from 'zod';
+
+/**
+ * Input limits of a single-flight screening. Shared by the schema, forms and the engine so the
+ * numbers live in one place. Masses in kg, flight levels in hundreds of feet, altitudes in metres.
+ */
+export const SCREENING_LIMITS = {
+  minWaypoints: 2,
+  maxWaypoints: 500,
+  maxSteps: 50,
+  minFlightLevel: 0,
+  maxFlightLevel: 660,
+  maxStepFromKm: 40_000,
+  minFuelKg: 1,
+  maxFuelKg: 500_000,
+  minMach: 0.1,
+  maxMach: 3,
+  maxEiNoxGPerKg: 200,
+  minEngineCount: 1,
+  maxEngineCount: 8,
+  maxCertFuelFlowKgS: 50,
+  minSoundingLevels: 3,
+  maxSoundingLevels: 500,
+  minSoundingTemperatureK: 100,
+  maxSoundingTemperatureK: 350,
+  minSoundingAltitudeM: -500,
+  maxSoundingAltitudeM: 50_000,
+  maxSoundingPressureHpa: 1100,
+  minTropopauseAltitudeM: 3000,
+  maxTropopauseAltitudeM: 25_000,
+  minTropopausePressureHpa: 25,
+  maxTropopausePressureHpa: 700,
+} as const;
+
+/** One problem with one input field: `path` is dotted (`route.waypoints.3.lat`). */
+export interface FieldProblem {
+  path: string;
+  message: string;
+}
+
+type IssueLike = { input?: unknown };
+
+function numberField(label: string) {
+  return z.number({
+    error: (issue: IssueLike) =>
+      issue.input === undefined ? `${label} is required.` : `${label} must be a number.`,
+  });
+}
+
+function between(label: string, min: number, max: number, unit: string) {
+  const message = `${label} must be between ${min} and ${max}${unit ? ` ${unit}` : ''}.`;
+  return numberField(label).min(min, { error: message }).max(max, { error: message });
+}
+
+function wholeBetween(label: string, min: number, max: number, unit: string) {
+  return between(label, min, max, unit).int({ error: `${label} must be a whole number.` });
+}
+
+const latitudeSchema = between('Latitude', -90, 90, 'degrees');
+const longitudeSchema = between('Longitude', -180, 180, 'degrees');
+
+/** A route point given by coordinates, degrees (WGS-84 latitude -90..90, longitude -180..180). */
+export const coordinateWaypointSchema = z.strictObject({ lat: latitudeSchema, lon: longitudeSchema });
+
+/** A route point given by an airport's ICAO (4 characters) or IATA (3 letters) code. */
+export const airportWaypointSchema = z.strictObject({
+  airport: z
+    .string({ error: 'An airport code must be text, such as EGLL or LHR.' })
+    .trim()
+    .regex(/^[A-Za-z0-9]{3,4}$/, {
+      error: 'An airport code has 3 letters (IATA, such as LHR) or 4 characters (ICAO, such as EGLL).',
+    }),
+});
+
+/** A waypoint: `{ lat, lon }` in degrees or `{ airport }` (ICAO or IATA code). */
+export const waypointSchema = z.union([airportWaypointSchema, coordinateWaypointSchema], {
+  error: 'Give each waypoint either as lat and lon, or as an airport code.',
+});
+
+/** Flight level: pressure altitude in hundreds of feet on 1013.25 hPa, whole number 0-660. */
+export const flightLevelSchema = wholeBetween(
+  'The flight level',
+  SCREENING_LIMITS.minFlightLevel,
+  SCREENING_LIMITS.maxFlightLevel,
+  '',
+);
+
+/** One step of a step climb: from `fromKm` along the route (km) the aircraft cruises at `flightLevel`. */
+export const cruiseStepSchema = z.strictObject({
+  fromKm: between('The step start', 0, SCREENING_LIMITS.maxStepFromKm, 'km along the route'),
+  flightLevel: flightLevelSchema,
+});
+
+const stepsSchema = z
+  .array(cruiseStepSchema, { error: 'Steps must be a list of { fromKm, flightLevel }.' })
+  .min(1, { error: 'Give at least one cruise step.' })
+  .max(SCREENING_LIMITS.maxSteps, { error: `Give at most ${SCREENING_LIMITS.maxSteps} cruise steps.` })
+  .superRefine((steps, ctx) => {
+    if (steps.length > 0 && steps[0].fromKm !== 0) {
+      ctx.addIssue({
+        code: 'custom',
+        path: [0, 'fromKm'],
+        message: 'The first cruise step must start at 0 km.',
+      });
+    }
+    for (let i = 1; i < steps.length; i++) {
+      if (!(steps[i].fromKm > steps[i - 1].fromKm)) {
+        ctx.addIssue({
+          code: 'custom',
+          path: [i, 'fromKm'],
+          message: 'Each cruise step must start further along the route than the one before.',
+        });
+      }
+    }
+  });
+
+/** Cruise: one `flightLevel` for the whole route, or `steps` (first at 0 km, increasing). */
+export const cruiseSchema = z.union(
+  [z.strictObject({ flightLevel: flightLevelSchema }), z.strictObject({ steps: stepsSchema })],
+  { error: 'Give the cruise either as one flight level or as a list of steps.' },
+);
+
+const certFuelFlowSchema = numberField('A certification fuel flow')
+  .gt(0, { error: 'A certification fuel flow must be above 0 kg/s.' })
+  .max(SCREENING_LIMITS.maxCertFuelFlowKgS, {
+    error: `A certification fuel flow must be at most ${SCREENING_LIMITS.maxCertFuelFlowKgS} kg/s.`,
+  });
+const certEiSchema = numberField('A certification EI NOx')
+  .gt(0, { error: 'A certification EI NOx must be above 0 g/kg (the fit works on its logarithm).' })
+  .max(SCREENING_LIMITS.maxEiNoxGPerKg, {
+    error: `A certification EI NOx must be at most ${SCREENING_LIMITS.maxEiNoxGPerKg} g/kg.`,
+  });
+
+const MODE_NAMES = ['idle', 'approach', 'climb-out', 'take-off'] as const;
+
+/**
+ * ICAO Annex 16 Vol II engine certification data, modes in the order [idle 7 %, approach 30 %,
+ * climb-out 85 %, take-off 100 %]: fuel flow per engine in kg/s (positive, rising idle -> take-off)
+ * and EI NOx in g NO2 per kg fuel (above 0, at most 200).
+ */
+export const engineCertSchema = z
+  .strictObject({
+    fuelFlowKgS: z.tuple([certFuelFlowSchema, certFuelFlowSchema, certFuelFlowSchema, certFuelFlowSchema], {
+      error: 'Give four fuel flows in kg/s: idle, approach, climb-out, take-off.',
+    }),
+    eiNoxGPerKg: z.tuple([certEiSchema, certEiSchema, certEiSchema, certEiSchema], {
+      error: 'Give four EI NOx values in g/kg: idle, approach, climb-out, take-off.',
+    }),
+  })
+  .superRefine((engine, ctx) => {
+    const flows = engine.fuelFlowKgS;
+    for (let i = 1; i < 4; i++) {
+      if (!(flows[i] > flows[i - 1])) {
+        ctx.addIssue({
+          code: 'custom',
+          path: ['fuelFlowKgS', i],
+          message: `The ${MODE_NAMES[i]} fuel flow must be higher than the ${MODE_NAMES[i - 1]} fuel flow.`,
+        });
+      }
+    }
+  });
+
+/** Direct cruise EI NOx, g NO2 per kg fuel, 0-200. */
+export const directEmissionSchema = z.strictObject({
+  eiNoxGPerKg: between('The EI NOx', 0, SCREENING_LIMITS.maxEiNoxGPerKg, 'g/kg'),
+});
+
+/** Engine certification data with engine count, optional Mach for the correction and method. */
+export const engineEmissionSchema = z.strictObject({
+  engine: engineCertSchema,
+  engineCount: wholeBetween('The engine count', SCREENING_LIMITS.minEngineCount, SCREENING_LIMITS.maxEngineCount, ''),
+  mach: between('The Mach number', SCREENING_LIMITS.minMach, SCREENING_LIMITS.maxMach, '').optional(),
+  method: z.enum(['bffm2', 'dlr'], { error: 'The method must be bffm2 or dlr.' }).optional(),
+});
+
+/** Emission: a direct `eiNoxGPerKg`, or `{ engine, engineCount, mach?, method? }`. */
+export const emissionSchema = z.union([engineEmissionSchema, directEmissionSchema], {
+  error: 'Give the emission either as an EI NOx in g/kg, or as engine certification data with an engine count.',
+});
+
+/**
+ * One sounding level: temperature in K (above 100, below 350) and an altitude (geopotential m,
+ * -500..50 000) or a pressure (hPa, above 0, at most 1100), or both.
+ */
+export const soundingLevelSchema = z
+  .strictObject({
+    altitudeM: between(
+      'The altitude',
+      SCREENING_LIMITS.minSoundingAltitudeM,
+      SCREENING_LIMITS.maxSoundingAltitudeM,
+      'm',
+    ).optional(),
+    pressureHpa: numberField('The pressure')
+      .gt(0, { error: 'The pressure must be above 0 hPa.' })
+      .max(SCREENING_LIMITS.maxSoundingPressureHpa, {
+        error: `The pressure must be at most ${SCREENING_LIMITS.maxSoundingPressureHpa} hPa.`,
+      })
+      .optional(),
+    temperatureK: numberField('The temperature')
+      .gt(SCREENING_LIMITS.minSoundingTemperatureK, {
+        error: `The temperature must be above ${SCREENING_LIMITS.minSoundingTemperatureK} K: is it in kelvin?`,
+      })
+      .lt(SCREENING_LIMITS.maxSoundingTemperatureK, {
+        error: `The temperature must be below ${SCREENING_LIMITS.maxSoundingTemperatureK} K: is it in kelvin?`,
+      }),
+  })
+  .superRefine((level, ctx) => {
+    if (level.altitudeM === undefined && level.pressureHpa === undefined) {
+      ctx.addIssue({ code: 'custom', path: [], message: 'Give each sounding level an altitude or a pressure.' });
+    }
+  });
+
+/** A sounding level as the engine reads it (altitude geopotential m, pressure hPa, temperature K). */
+export interface SoundingLevelInput {
+  altitudeM?: number;
+  pressureHpa?: number;
+  temperatureK: number;
+}
+
+function isFiniteNumber(x: unknown): x is number {
+  return typeof x === 'number' && Number.isFinite(x);
+}
+
+/**
+ * Field problems of one sounding level given as any value (used by the engine for inputs that did
+ * not pass through the schema). Same rules and messages as `soundingLevelSchema`.
+ */
+export function soundingLevelProblems(level: unknown, path: string): FieldProblem[] {
+  const out: FieldProblem[] = [];
+  if (typeof level !== 'object' || level === null || Array.isArray(level)) {
+    out.push({ path, message: 'Each sounding level must be { altitudeM?, pressureHpa?, temperatureK }.' });
+    return out;
+  }
+  const l = level as Record<string, unknown>;
+  const L = SCREENING_LIMITS;
+  if (!isFiniteNumber(l.temperatureK)) {
+    out.push({
+      path: `${path}.temperatureK`,
+      message: l.temperatureK === undefined ? 'The temperature is required.' : 'The temperature must be a number.',
+    });
+  } else if (!(l.temperatureK > L.minSoundingTemperatureK)) {
+    out.push({
+      path: `${path}.temperatureK`,
+      message: `The temperature must be above ${L.minSoundingTemperatureK} K: is it in kelvin?`,
+    });
+  } else if (!(l.temperatureK < L.maxSoundingTemperatureK)) {
+    out.push({
+      path: `${path}.temperatureK`,
+      message: `The temperature must be below ${L.maxSoundingTemperatureK} K: is it in kelvin?`,
+    });
+  }
+  if (l.altitudeM !== undefined) {
+    if (!isFiniteNumber(l.altitudeM)) out.push({ path: `${path}.altitudeM`, message: 'The altitude must be a number.' });
+    else if (l.altitudeM < L.minSoundingAltitudeM || l.altitudeM > L.maxSoundingAltitudeM) {
+      out.push({
+        path: `${path}.altitudeM`,
+        message: `The altitude must be between ${L.minSoundingAltitudeM} and ${L.maxSoundingAltitudeM} m.`,
+      });
+    }
+  }
+  if (l.pressureHpa !== undefined) {
+    if (!isFiniteNumber(l.pressureHpa)) out.push({ path: `${path}.pressureHpa`, message: 'The pressure must be a number.' });
+    else if (!(l.pressureHpa > 0)) out.push({ path: `${path}.pressureHpa`, message: 'The pressure must be above 0 hPa.' });
+    else if (l.pressureHpa > L.maxSoundingPressureHpa) {
+      out.push({ path: `${path}.pressureHpa`, message: `The pressure must be at most ${L.maxSoundingPressureHpa} hPa.` });
+    }
+  }
+  if (l.altitudeM === undefined && l.pressureHpa === undefined) {
+    out.push({ path, message: 'Give each sounding level an altitude or a pressure.' });
+  }
+  for (const key of Object.keys(l)) {
+    if (key !== 'altitudeM' && key !== 'pressureHpa' && key !== 'temperatureK') {
+      out.push({ path: `${path}.${key}`, message: `A sounding level has no field "${key}".` });
+    }
+  }
+  return out;
+}
+
+/**
+ * Problems of a sounding as a whole: fewer than 3 levels, more than 500, two levels at the same
+ * altitude or pressure, and pressures that do not fall as altitude rises. Levels that are themselves
+ * invalid are skipped here (their own problems are reported per level).
+ */
+export function soundingSetProblems(levels: readonly unknown[], path: string): FieldProblem[] {
+  const out: FieldProblem[] = [];
+  const L = SCREENING_LIMITS;
+  if (levels.length < L.minSoundingLevels) {
+    out.push({ path, message: `A sounding needs at least ${L.minSoundingLevels} levels.` });
+  }
+  if (levels.length > L.maxSoundingLevels) {
+    out.push({ path, message: `A sounding may have at most ${L.maxSoundingLevels} levels.` });
+  }
+  const seenAltitude = new Map<number, number>();
+  const seenPressure = new Map<number, number>();
+  const both: { i: number; z: number; p: number }[] = [];
+  for (let i = 0; i < levels.length; i++) {
+    const l = levels[i] as Partial<Record<string, unknown>> | null;
+    if (typeof l !== 'object' || l === null) continue;
+    const z = l.altitudeM;
+    const p = l.pressureHpa;
+    if (isFiniteNumber(z)) {
+      const j = seenAltitude.get(z);
+      if (j !== undefined) {
+        out.push({ path: `${path}.${i}.altitudeM`, message: `This level repeats the altitude of level ${j + 1}.` });
+      } else seenAltitude.set(z, i);
+    }
+    if (isFiniteNumber(p)) {
+      const j = seenPressure.get(p);
+      if (j !== undefined) {
+        out.push({ path: `${path}.${i}.pressureHpa`, message: `This level repeats the pressure of level ${j + 1}.` });
+      } else seenPressure.set(p, i);
+    }
+    if (isFiniteNumber(z) && isFiniteNumber(p)) both.push({ i, z, p });
+  }
+  both.sort((a, b) => a.z - b.z);
+  for (let k = 1; k < both.length; k++) {
+    if (both[k].z !== both[k - 1].z && !(both[k].p < both[k - 1].p)) {
+      out.push({
+        path: `${path}.${both[k].i}.pressureHpa`,
+        message: 'Pressure must fall as altitude rises: check this level against the one below it.',
+      });
+    }
+  }
+  return out;
+}
+
+/** A sounding: 3..500 levels in any order, no duplicates, pressure falling with altitude. */
+export const soundingSchema = z
+  .array(soundingLevelSchema, { error: 'A sounding must be a list of levels.' })
+  .superRefine((levels, ctx) => {
+    for (const p of soundingSetProblems(levels, '')) {
+      ctx.addIssue({ code: 'custom', path: p.path.split('.').filter(Boolean).map(toPathKey), message: p.message });
+    }
+  });
+
+function toPathKey(segment: string): string | number {
+  return /^\d+$/.test(segment) ? Number(segment) : segment;
+}
+
+/**
+ * Per-flight tropopause override: `{ altitudeM }` (ISA pressure altitude, 3000-25 000 m),
+ * `{ pressureHpa }` (25-700 hPa) or `{ sounding }` (levels, WMO 1957 lapse-rate tropopause).
+ */
+export const tropopauseOverrideSchema = z.union(
+  [
+    z.strictObject({
+      altitudeM: between(
+        'The tropopause altitude',
+        SCREENING_LIMITS.minTropopauseAltitudeM,
+        SCREENING_LIMITS.maxTropopauseAltitudeM,
+        'm',
+      ),
+    }),
+    z.strictObject({
+      pressureHpa: between(
+        'The tropopause pressure',
+        SCREENING_LIMITS.minTropopausePressureHpa,
+        SCREENING_LIMITS.maxTropopausePressureHpa,
+        'hPa',
+      ),
+    }),
+    z.strictObject({ sounding: soundingSchema }),
+  ],
+  { error: 'Give the tropopause as an altitude in m, a pressure in hPa, or a sounding.' },
+);
+
+/** A screening input with a low-central-high band: one number (used for all three) or the three. */
+function rangeSchema(label: string, min: number, max: number, unit: string) {
+  const value = between(label, min, max, unit);
+  return z.union(
+    [
+      value,
+      z
+        .strictObject({ central: value, low: value, high: value })
+        .superRefine((r, ctx) => {
+          if (!(r.low <= r.central && r.central <= r.high)) {
+            ctx.addIssue({ code: 'custom', path: [], message: `${label}: low must not exceed central, nor central exceed high.` });
+          }
+        }),
+    ],
+    { error: `${label} must be a number or { central, low, high }.` },
+  );
+}
+
+/** Names of the embedded AFGL 1986 ozone profiles. */
+export const OZONE_PROFILE_NAMES = [
+  'tropical',
+  'midlatitude-summer',
+  'midlatitude-winter',
+  'subarctic-summer',
+  'subarctic-winter',
+] as const;
+
+const increasingList = (label: string, min: number, max: number, unit: string) =>
+  z
+    .array(between(label, min, max, unit))
+    .min(2, { error: `${label}: give at least 2 values.` })
+    .max(200, { error: `${label}: give at most 200 values.` })
+    .superRefine((xs, ctx) => {
+      for (let i = 1; i < xs.length; i++) {
+        if (!(xs[i] > xs[i - 1])) ctx.addIssue({ code: 'custom', path: [i], message: `${label} must increase.` });
+      }
+    });
+
+/** A user ozone profile: geometric altitudes in km (increasing) and O3 volume mixing ratios in ppmv. */
+export const customOzoneProfileSchema = z
+  .strictObject({
+    altitudeKm: increasingList('The ozone profile altitudes', 0, 60, 'km'),
+    ppmv: z.array(between('An ozone mixing ratio', 0, 20, 'ppmv')),
+  })
+  .superRefine((p, ctx) => {
+    if (p.ppmv.length !== p.altitudeKm.length) {
+      ctx.addIssue({ code: 'custom', path: ['ppmv'], message: 'Give one ozone mixing ratio per altitude.' });
+    }
+  });
+
+/** Residence time above the tropopause by depth: nodes in km (first 0) and years, with band factors. */
+export const residenceTimeSchema = z
+  .strictObject({
+    depthKm: increasingList('The residence-time depths', 0, 40, 'km'),
+    years: z.array(between('A residence time', 0.001, 20, 'years')),
+    lowFactor: between('The low residence-time factor', 0.01, 1, '').optional(),
+    highFactor: between('The high residence-time factor', 1, 100, '').optional(),
+  })
+  .superRefine((r, ctx) => {
+    if (r.years.length !== r.depthKm.length) {
+      ctx.addIssue({ code: 'custom', path: ['years'], message: 'Give one residence time per depth.' });
+    }
+    if (r.depthKm.length > 0 && r.depthKm[0] !== 0) {
+      ctx.addIssue({ code: 'custom', path: ['depthKm', 0], message: 'The first residence-time depth must be 0 km.' });
+    }
+  });
+
+/**
+ * Overrides of the ozone-figure and emission-index inputs (SCIENCE.md section 5); anything left out
+ * keeps its documented default. J values in s^-1 at noon, densities in molecule cm^-3.
+ */
+export const assumptionsSchema = z.strictObject({
+  jO3NoonPerS: rangeSchema('J(O3 -> O)', 1e-6, 1e-2, 's^-1').optional(),
+  jNo2NoonPerS: rangeSchema('J(NO2)', 1e-4, 1e-1, 's^-1').optional(),
+  daylightFactor: rangeSchema('The daylight-average factor', 0.01, 1, '').optional(),
+  noxToNoyFraction: rangeSchema('The NOx/NOy fraction', 0.001, 1, '').optional(),
+  residenceTime: residenceTimeSchema.optional(),
+  ohCm3: between('The OH density', 1e3, 1e8, 'molecules per cm^3').optional(),
+  ho2Cm3: between('The HO2 density', 1e3, 1e9, 'molecules per cm^3').optional(),
+  relativeHumidity: between('The relative humidity', 0, 1, '(a fraction, 0.6 for 60 %)').optional(),
+  ozoneProfile: z
+    .union([z.enum(OZONE_PROFILE_NAMES), customOzoneProfileSchema], {
+      error: `The ozone profile must be one of ${OZONE_PROFILE_NAMES.join(', ')}, or { altitudeKm, ppmv }.`,
+    })
+    .optional(),
+});
+
+function isRealDate(s: string): boolean {
+  const y = Number(s.slice(0, 4));
+  const m = Number(s.slice(5, 7));
+  const d = Number(s.slice(8, 10));
+  if (y < 1900 || y > 2200 || m < 1 || m > 12 || d < 1) return false;
+  const t = new Date(Date.UTC(y, m - 1, d));
+  return t.getUTCFullYear() === y && t.getUTCMonth() === m - 1 && t.getUTCDate() === d;
+}
+
+/**
+ * The `screenFlight` input (DESIGN.md "The engine contract"): route, cruise, Mach (timing, default
+ * 0.80), cruise fuel (kg, 1-500 000), emission, month (1-12) or flight date (YYYY-MM-DD, UTC),
+ * optional tropopause override and assumption overrides. Client-safe (no Node imports).
+ */
+export const screeningInputSchema = z.object({
+  route: z.object(
+    {
+      waypoints: z
+        .array(waypointSchema, { error: 'The waypoints must be a list.' })
+        .min(SCREENING_LIMITS.minWaypoints, { error: 'A route needs at least 2 waypoints.' })
+        .max(SCREENING_LIMITS.maxWaypoints, { error: `A route may have at most ${SCREENING_LIMITS.maxWaypoints} waypoints.` }),
+    },
+    { error: 'The route is required, as { waypoints: [...] }.' },
+  ),
+  cruise: cruiseSchema,
+  mach: between('The Mach number', SCREENING_LIMITS.minMach, SCREENING_LIMITS.maxMach, '').optional(),
+  fuelBurnKg: between('The fuel burn', SCREENING_LIMITS.minFuelKg, SCREENING_LIMITS.maxFuelKg, 'kg'),
+  emission: emissionSchema,
+  month: wholeBetween('The month', 1, 12, '').optional(),
+  flightDate: z
+    .string({ error: 'The flight date must be text as YYYY-MM-DD.' })
+    .regex(/^\d{4}-\d{2}-\d{2}$/, { error: 'The flight date must be written YYYY-MM-DD.' })
+    .refine(isRealDate, { error: 'The flight date is not a real calendar date.' })
+    .optional(),
+  tropopause: tropopauseOverrideSchema.optional(),
+  assumptions: assumptionsSchema.optional(),
+}, { error: 'The screening input must be an object.' });
+
+/** A validated screening input (the schema's output). */
+export type ScreeningInput = z.output<typeof screeningInputSchema>;
+/** A screening input as sent by a client (the schema's input). */
+export type ScreeningInputRaw = z.input<typeof screeningInputSchema>;
+export type Waypoint = z.output<typeof waypointSchema>;
+export type Cruise = z.output<typeof cruiseSchema>;
+export type CruiseStep = z.output<typeof cruiseStepSchema>;
+export type EngineCert = z.output<typeof engineCertSchema>;
+export type Emission = z.output<typeof emissionSchema>;
+export type SoundingLevel = z.output<typeof soundingLevelSchema>;
+export type TropopauseOverride = z.output<typeof tropopauseOverrideSchema>;
+export type Assumptions = z.output<typeof assumptionsSchema>;
+export type OzoneProfileName = (typeof OZONE_PROFILE_NAMES)[number];
+
+/**
+ * Options of `compareCruiseLevels`: level changes in feet (multiples of 100, -10 000..10 000, at
+ * most 21), fuel penalty in % per 1000 ft of deviation (0-10) and the planner's limit in % (0-50).
+ */
+export const compareCruiseLevelsOptionsSchema = z.strictObject({
+  deltasFt: z
+    .array(
+      wholeBetween('A level change', -10_000, 10_000, 'ft').refine((d) => d % 100 === 0, {
+        error: 'A level change must be a whole number of hundreds of feet.',
+      }),
+    )
+    .min(1, { error: 'Give at least one level change.' })
+    .max(21, { error: 'Give at most 21 level changes.' })
+    .optional(),
+  fuelPenaltyPctPer1000Ft: between('The fuel penalty', 0, 10, '% per 1000 ft').optional(),
+  maxFuelPenaltyPct: between('The fuel-penalty limit', 0, 50, '%').optional(),
+});
+export type CompareCruiseLevelsOptions = z.input<typeof compareCruiseLevelsOptionsSchema>;
