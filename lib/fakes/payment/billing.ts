@@ -453,20 +453,21 @@ function settleInvoice(
 }
 
 /**
- * Closes the subscription's open period now: bills it, charges it, then either starts the next
- * period or, when `cancel_at_period_end` (or `cancelAfter`) is set, cancels. Mutates `sub` and saves
- * it; the caller emits the subscription event.
+ * Closes the subscription's open period now: bills it with the unbilled usage stamped up to
+ * `usageUpTo`, charges it, then either starts the next period or, when `cancel_at_period_end` (or
+ * `cancelAfter`) is set, cancels. Mutates `sub` and saves it; the caller emits the subscription event.
  */
 function closePeriodInPlace(
   ctx: ApiContext,
   sub: FakeSubscription,
   cancelAfter: boolean,
+  usageUpTo: number,
 ): { invoice: FakeInvoice; canceled: boolean } {
   const customer = requireCustomer(ctx, sub.customer);
   const { start } = periodOf(sub);
   const end = Math.max(ctx.now, start);
   const trial = sub.status === 'trialing';
-  const { invoice, billedEventIds } = buildInvoice(ctx, sub, customer, { start, end }, { trial, preview: false, usageUpTo: end });
+  const { invoice, billedEventIds } = buildInvoice(ctx, sub, customer, { start, end }, { trial, preview: false, usageUpTo });
   ctx.store.insert('invoice', invoice, {});
   ctx.store.markMeterEventsBilled(billedEventIds, invoice.id);
   customer.next_invoice_sequence += 1;
@@ -491,15 +492,26 @@ function closePeriodInPlace(
   return { invoice, canceled };
 }
 
-/** `POST /_fake/advance`: closes the current period of a subscription. */
+/**
+ * `POST /_fake/advance`: closes the current period of a subscription at `ctx.now`, which becomes the
+ * next period's start. Usage stamped before `ctx.now` is billed now; usage stamped `ctx.now` or later
+ * belongs to the next period, as event summaries over the periods show. The caller makes sure no
+ * event of this customer is already stamped `ctx.now` (see `needsSecondBoundary`).
+ */
 export function advanceSubscription(ctx: ApiContext, id: string): { subscription: FakeSubscription; invoice: FakeInvoice } {
   const sub = requireSubscription(ctx, id, 'subscription');
   if (sub.status === 'canceled') throw invalidRequest(`Subscription ${id} is canceled; there is no period to close.`, 'subscription');
   const before = clone(sub);
-  const { invoice, canceled } = closePeriodInPlace(ctx, sub, false);
+  const { invoice, canceled } = closePeriodInPlace(ctx, sub, false, ctx.now - 1);
   if (canceled) ctx.emit('customer.subscription.deleted', sub);
   else ctx.emit('customer.subscription.updated', sub, previousAttributes(before, sub));
   return { subscription: sub, invoice: requireInvoice(ctx, invoice.id) };
+}
+
+/** Whether closing this subscription's period right now would split a second that already has usage. */
+export function needsSecondBoundary(ctx: Pick<ApiContext, 'store'>, id: string, now: number): boolean {
+  const sub = ctx.store.get('subscription', id);
+  return sub !== undefined && ctx.store.hasMeterEventAt(sub.customer, now);
 }
 
 /** After an invoice of a past-due subscription is paid, the subscription is active again. */
@@ -600,7 +612,7 @@ export function updateSubscription(ctx: ApiContext, params: Params, id: string):
     }
     if (trialEndRaw === 'now') {
       ctx.store.save('subscription', sub);
-      closePeriodInPlace(ctx, sub, false);
+      closePeriodInPlace(ctx, sub, false, ctx.now);
       invoiceClosed = true;
     } else {
       const t = params.requireInt('trial_end');
@@ -639,7 +651,7 @@ export function cancelSubscription(ctx: ApiContext, params: Params, id: string):
   const details = params.obj('cancellation_details');
   details?.allowOnly(['comment', 'feedback']);
   if (params.bool('invoice_now')) {
-    closePeriodInPlace(ctx, sub, true);
+    closePeriodInPlace(ctx, sub, true, ctx.now);
   } else {
     sub.status = 'canceled';
     sub.canceled_at = ctx.now;

@@ -4,7 +4,7 @@ import type { AddressInfo } from 'node:net';
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import Stripe from 'stripe';
-import { advanceSubscription, requireInvoice } from './billing';
+import { advanceSubscription, needsSecondBoundary } from './billing';
 import { ensureCatalogue } from './catalogue';
 import { Reply, applyExpand, clone, decorate, type ApiContext } from './common';
 import { FakeApiError, authenticationError, invalidRequest, unknownRoute, type ApiErrorBody } from './errors';
@@ -29,7 +29,8 @@ import { WebhookDispatcher, type DeliveryResult, type WebhookTarget } from './we
 
 export const DEFAULT_PORT = 12111;
 export const DEFAULT_DB_FILE = '.data/payment-fake.sqlite';
-const DEFAULT_RETRY_DELAYS_MS = [500, 1_000, 2_000, 4_000];
+// Long enough to ride out a dev server that is still compiling its webhook route.
+const DEFAULT_RETRY_DELAYS_MS = [1_000, 2_000, 4_000, 8_000, 16_000, 30_000];
 const BODY_LIMIT_BYTES = 1_000_000;
 const IDEMPOTENCY_TTL_SECONDS = 86_400;
 
@@ -43,7 +44,7 @@ export interface PaymentFakeOptions {
   webhookSecret?: string | null;
   /** The one secret key accepted; without it any `sk_test_...` key is. */
   apiKey?: string;
-  /** Waits between webhook retries; its length is the number of retries. Default 0.5, 1, 2, 4 s. */
+  /** Waits between webhook retries; its length is the number of retries. Default 1, 2, 4, 8, 16, 30 s. */
   webhookRetryDelaysMs?: number[];
   webhookTimeoutMs?: number;
   /** The fake's clock in seconds since the epoch (meter-event windows, periods). Default: real time. */
@@ -84,7 +85,7 @@ export interface PaymentFake {
   setFaults(config: Partial<FaultConfig>): FaultConfig;
   clearFaults(): void;
   /** Same as `POST /_fake/advance`. */
-  advance(subscriptionId: string): { subscription: FakeSubscription; invoice: FakeInvoice };
+  advance(subscriptionId: string): Promise<{ subscription: FakeSubscription; invoice: FakeInvoice }>;
   resendWebhook(eventId: string): Promise<DeliveryResult>;
   setWebhookTarget(target: Partial<WebhookTarget>): void;
   /** Resolves when every webhook attempt so far has finished and no retry is waiting. */
@@ -198,7 +199,7 @@ export async function startPaymentFake(options: PaymentFakeOptions = {}): Promis
   const dispatcher = new WebhookDispatcher(
     store,
     { url: options.webhookUrl ?? null, secret: options.webhookSecret ?? null },
-    { retryDelaysMs: options.webhookRetryDelaysMs ?? DEFAULT_RETRY_DELAYS_MS, timeoutMs: options.webhookTimeoutMs ?? 5_000, log },
+    { retryDelaysMs: options.webhookRetryDelaysMs ?? DEFAULT_RETRY_DELAYS_MS, timeoutMs: options.webhookTimeoutMs ?? 10_000, log },
   );
   let baseUrl = '';
 
@@ -319,7 +320,7 @@ export async function startPaymentFake(options: PaymentFakeOptions = {}): Promis
         return {
           status: existing.status,
           body: decorate(JSON.parse(existing.response) as unknown, baseUrl),
-          headers: { ...common, 'Idempotent-Replayed': 'true', 'Original-Request': requestId },
+          headers: { ...common, 'Idempotent-Replayed': 'true' },
         };
       }
     }
@@ -373,7 +374,13 @@ export async function startPaymentFake(options: PaymentFakeOptions = {}): Promis
     };
   }
 
-  function advance(subscription: string): { subscription: FakeSubscription; invoice: FakeInvoice } {
+  async function advance(subscription: string): Promise<{ subscription: FakeSubscription; invoice: FakeInvoice }> {
+    // Meter timestamps are whole seconds: when usage is already stamped with the current second, close
+    // at the next one so that second's usage lands wholly in the period being closed.
+    const waitUntil = Date.now() + 1_200;
+    for (let t = clock(); needsSecondBoundary({ store }, subscription, t) && Date.now() < waitUntil; t = clock()) {
+      while (clock() === t && Date.now() < waitUntil) await sleep(15);
+    }
     return inTransaction({ requestId: null, idempotencyKey: null, apiVersion: defaultApiVersion() }, (ctx) => {
       const result = advanceSubscription(ctx, subscription);
       return decorate(result, baseUrl);
@@ -435,7 +442,7 @@ export async function startPaymentFake(options: PaymentFakeOptions = {}): Promis
       case 'POST /_fake/advance': {
         const body = jsonObject(raw);
         onlyKeys(body, ['subscription', 'wait']);
-        const result = advance(requiredString(body, 'subscription'));
+        const result = await advance(requiredString(body, 'subscription'));
         if (body.wait === true) await dispatcher.idle();
         return { status: 200, body: result };
       }
@@ -557,6 +564,21 @@ function isMain(): boolean {
   return entry !== undefined && import.meta.url === pathToFileURL(path.resolve(entry)).href;
 }
 
+/**
+ * `PAYMENT_FAKE_TODAY=YYYY-MM-DD` shifts the fake's clock by whole days so that date is "today" and time
+ * keeps running, for a demo whose app pins its own date.
+ */
+function clockFromEnv(today: string | undefined): (() => number) | undefined {
+  if (!today) return undefined;
+  if (!/^\d{4}-\d{2}-\d{2}$/.test(today)) {
+    console.error('payment fake: PAYMENT_FAKE_TODAY must be YYYY-MM-DD');
+    process.exit(1);
+  }
+  const realMidnight = Math.floor(Date.now() / 86_400_000) * 86_400;
+  const offset = Date.parse(`${today}T00:00:00Z`) / 1000 - realMidnight;
+  return () => Math.floor(Date.now() / 1000) + offset;
+}
+
 if (isMain()) {
   const port = Number(process.env.PAYMENT_FAKE_PORT ?? DEFAULT_PORT);
   const webhookUrl = process.env.PAYMENT_WEBHOOK_URL || null;
@@ -571,6 +593,7 @@ if (isMain()) {
     webhookUrl,
     webhookSecret,
     apiKey: process.env.PAYMENT_FAKE_API_KEY || undefined,
+    now: clockFromEnv(process.env.PAYMENT_FAKE_TODAY),
     log: (message) => console.error(message),
   });
   console.log(

@@ -364,6 +364,13 @@ export class FakeStore {
     return rows.map((row) => this.toStoredMeterEvent(row));
   }
 
+  hasMeterEventAt(customer: string, timestamp: number): boolean {
+    return (
+      this.db.prepare(`SELECT 1 FROM meter_events WHERE customer = ? AND timestamp = ? LIMIT 1`).get(customer, timestamp) !==
+      undefined
+    );
+  }
+
   markMeterEventsBilled(identifiers: string[], invoice: string): void {
     const stmt = this.db.prepare(`UPDATE meter_events SET invoice = ? WHERE identifier = ?`);
     for (const id of identifiers) stmt.run(invoice, id);

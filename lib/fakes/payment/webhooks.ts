@@ -105,7 +105,7 @@ export class WebhookDispatcher {
       this.store.setDeliveryStatus(eventId, 'delivered');
       return;
     }
-    if (result.error === 'no webhook target') return;
+    if (result.error === 'no webhook target' || result.error === 'no such event') return;
     const delay = this.options.retryDelaysMs[attempt - 1];
     if (delay === undefined) {
       this.store.setDeliveryStatus(eventId, 'failed');

@@ -158,6 +158,28 @@ describe('subscriptions', () => {
     expect(listedAll.data.map((s) => s.status)).toEqual(['canceled']);
   });
 
+  it('trial_end=now ends the trial: a $0 invoice and an active subscription', async () => {
+    const { customer } = await customerWithCard(h.stripe, 'pm_card_visa');
+    const sub = await h.stripe.subscriptions.create({ customer: customer.id, items: planItems('crew'), trial_period_days: TRIAL_DAYS });
+    const ended = await h.stripe.subscriptions.update(sub.id, { trial_end: 'now', expand: ['latest_invoice'] });
+    expect(ended.status).toBe('active');
+    expect(ended.trial_end).toBeLessThan(sub.trial_end!);
+    expect(ended.latest_invoice).toMatchObject({ object: 'invoice', amount_due: 0, status: 'paid' });
+    const event = await h.receiver.waitFor(
+      (e) => e.type === 'customer.subscription.updated' && (e.data.object as Stripe.Subscription).id === sub.id,
+    );
+    expect(event.data.previous_attributes).toMatchObject({ status: 'trialing' });
+  });
+
+  it('lists expand through data.*', async () => {
+    const { customer } = await customerWithCard(h.stripe, 'pm_card_visa', 'expand@example.test');
+    await h.stripe.subscriptions.create({ customer: customer.id, items: planItems('fleet') });
+    const list = await h.stripe.subscriptions.list({ customer: customer.id, expand: ['data.customer', 'data.default_payment_method'] });
+    expect((list.data[0].customer as Stripe.Customer).email).toBe('expand@example.test');
+    const bad = await h.stripe.subscriptions.list({ customer: customer.id, expand: ['data.status'] }).catch((e: unknown) => e);
+    expect(bad).toBeInstanceOf(Stripe.errors.StripeInvalidRequestError);
+  });
+
   it('cancelling with DELETE ends it now and sends customer.subscription.deleted', async () => {
     const { customer } = await customerWithCard(h.stripe, 'pm_card_visa');
     const sub = await h.stripe.subscriptions.create({ customer: customer.id, items: planItems('crew') });
