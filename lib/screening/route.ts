@@ -1,14 +1,22 @@
 /**
- * Routes: waypoints resolved to coordinates, great-circle legs on geolib's sphere (radius
- * 6 378 137 m, the radius geolib's getDistance uses) and positions along them. SCIENCE.md s.6.
+ * Routes: waypoints resolved to coordinates, great-circle legs by geolib (spherical) and positions
+ * along them. SCIENCE.md s.6.
  */
 import { earthRadius, getDistance } from 'geolib';
 import { findAirport } from './airports';
 import { ScreeningInputError } from './errors';
 import type { FieldProblem, Waypoint } from '../validation/screening';
 
-/** Sphere radius of all great-circle work, m: geolib's `earthRadius`. */
-export const EARTH_RADIUS_M: number = earthRadius;
+/**
+ * Sphere radius of all great-circle work, m: the IUGG mean Earth radius R1. geolib's getDistance
+ * works on its equatorial `earthRadius` (6 378 137 m), which overstates meridional distances near
+ * the equator by up to 0.7 % against the WGS-84 geodesic; on the mean sphere the difference stays
+ * within about 0.56 %. Leg lengths are geolib's distances rescaled to this radius.
+ */
+export const EARTH_RADIUS_M = 6_371_008.8;
+const GEOLIB_TO_MEAN_SPHERE = EARTH_RADIUS_M / earthRadius;
+// Chord length (unit sphere) below which two waypoints are the same place (about 6 mm).
+const SAME_PLACE_CHORD = 1e-9;
 /** Longest segment the engine screens, km. */
 export const MAX_SEGMENT_KM = 50;
 
@@ -68,11 +76,17 @@ export function resolveWaypoints(
   return { lat, lon };
 }
 
+/** Great-circle distance (km) between two points (degrees): geolib's getDistance on the mean sphere. */
+export function legDistanceKm(lat1: number, lon1: number, lat2: number, lon2: number): number {
+  const m = getDistance({ latitude: lat1, longitude: lon1 }, { latitude: lat2, longitude: lon2 }, 0.001);
+  return (m * GEOLIB_TO_MEAN_SPHERE) / 1000;
+}
+
 /**
  * Builds the great-circle plan of resolved waypoints (degrees). Leg lengths from geolib's
- * `getDistance` (spherical, to the millimetre). Throws ScreeningInputError when the route has no
- * length or when two consecutive waypoints are (nearly) antipodal, which leaves the great circle
- * undefined.
+ * `getDistance` (spherical, to the millimetre) on the mean sphere. Throws ScreeningInputError when
+ * the route has no length or when two consecutive waypoints are antipodal (within millimetres),
+ * which leaves the great circle undefined.
  */
 export function planRoute(lat: Float64Array, lon: Float64Array, basePath = 'route.waypoints'): RoutePlan {
   const legs = lat.length - 1;
@@ -91,15 +105,6 @@ export function planRoute(lat: Float64Array, lon: Float64Array, basePath = 'rout
   };
   let total = 0;
   for (let i = 0; i < legs; i++) {
-    const m = getDistance(
-      { latitude: lat[i], longitude: lon[i] },
-      { latitude: lat[i + 1], longitude: lon[i + 1] },
-      0.001,
-    );
-    const km = m / 1000;
-    plan.legStartKm[i] = total;
-    plan.legKm[i] = km;
-    total += km;
     const p1 = lat[i] * DEG;
     const l1 = lon[i] * DEG;
     const p2 = lat[i + 1] * DEG;
@@ -113,13 +118,10 @@ export function planRoute(lat: Float64Array, lon: Float64Array, basePath = 'rout
     plan.ax[i] = ax;
     plan.ay[i] = ay;
     plan.az[i] = az;
-    if (km === 0) continue;
-    const dot = ax * bx + ay * by + az * bz;
-    let tx = bx - dot * ax;
-    let ty = by - dot * ay;
-    let tz = bz - dot * az;
-    const norm = Math.sqrt(tx * tx + ty * ty + tz * tz);
-    if (norm < 1e-9) {
+    plan.legStartKm[i] = total;
+    // geolib's acos formula leaves about 0.1 m of noise for coincident points: decide those here.
+    if (Math.hypot(bx - ax, by - ay, bz - az) < SAME_PLACE_CHORD) continue;
+    if (Math.hypot(bx + ax, by + ay, bz + az) < SAME_PLACE_CHORD) {
       throw new ScreeningInputError([
         {
           path: `${basePath}.${i + 1}`,
@@ -127,6 +129,14 @@ export function planRoute(lat: Float64Array, lon: Float64Array, basePath = 'rout
         },
       ]);
     }
+    const km = legDistanceKm(lat[i], lon[i], lat[i + 1], lon[i + 1]);
+    plan.legKm[i] = km;
+    total += km;
+    const dot = ax * bx + ay * by + az * bz;
+    let tx = bx - dot * ax;
+    let ty = by - dot * ay;
+    let tz = bz - dot * az;
+    const norm = Math.sqrt(tx * tx + ty * ty + tz * tz);
     tx /= norm;
     ty /= norm;
     tz /= norm;
@@ -159,14 +169,12 @@ export function pointOnLeg(plan: RoutePlan, leg: number, kmAlong: number, out: F
 }
 
 /**
- * Great-circle length (km) of a route of waypoints, on geolib's sphere. Throws ScreeningInputError
+ * Great-circle length (km) of a route of waypoints (geolib, mean sphere). Throws ScreeningInputError
  * for unknown airports.
  */
 export function routeDistanceKm(waypoints: readonly Waypoint[]): number {
   const { lat, lon } = resolveWaypoints(waypoints);
   let total = 0;
-  for (let i = 0; i + 1 < lat.length; i++) {
-    total += getDistance({ latitude: lat[i], longitude: lon[i] }, { latitude: lat[i + 1], longitude: lon[i + 1] }, 0.001);
-  }
-  return total / 1000;
+  for (let i = 0; i + 1 < lat.length; i++) total += legDistanceKm(lat[i], lon[i], lat[i + 1], lon[i + 1]);
+  return total;
 }

@@ -683,7 +683,7 @@ export function screenValidated(input: ScreeningInput): ScreeningResult {
 
   const assumptions: string[] = [
     `The entered fuel (${fmt(input.fuelBurnKg)} kg) is the cruise fuel along the entered track, spread over the segments in proportion to time; time = distance / true airspeed, true airspeed = Mach ${fmt(machTiming, 2)} x ISA speed of sound at each level. Climb and descent are not modelled.`,
-    `Great circles on a sphere of radius ${R} m (geolib), split into segments of at most ${MAX_SEGMENT_KM} km; each segment is evaluated at its midpoint.`,
+    `Great circles by geolib on the mean Earth sphere (radius ${R} m), split into segments of at most ${MAX_SEGMENT_KM} km; each segment is evaluated at its midpoint.`,
     'Flight levels are ISA pressure altitudes (FL x 30.48 m); aircraft and tropopause are compared in pressure through the ICAO standard atmosphere (ICAO Doc 7488/3).',
     TROPOPAUSE_SOURCE_TEXT[tpSource] +
       (climatology ? (input.month !== undefined ? ` Month ${month} (mid-month day ${doy}).` : input.flightDate !== undefined ? ` Day of year ${doy} of ${input.flightDate}.` : ' No month or date: annual mean.') : ''),

@@ -15,7 +15,7 @@ import {
   type ScreeningInput,
   type ScreeningInputRaw,
 } from '../../lib/screening/index';
-import { MAX_SEGMENT_KM, planRoute, resolveWaypoints } from '../../lib/screening/route';
+import { EARTH_RADIUS_M, MAX_SEGMENT_KM, planRoute, resolveWaypoints } from '../../lib/screening/route';
 import { MATEUS_2022_NORTH, MATEUS_2022_SOUTH, mateusSeasonalKm, MID_MONTH_DAY_OF_YEAR } from '../../lib/screening/tropopause';
 import { BFFM2_INSTALLATION_FACTORS, buildEiCurve, humidityTerm } from '../../lib/screening/emission-index';
 import { isaTemperatureAt } from '../../lib/screening/atmosphere';
@@ -199,7 +199,7 @@ function prepareFloor(inputs: readonly ScreeningInput[]): FloorData {
 
 /** The floor: same segment boundaries as the engine, only the irreducible math, no allocation. */
 function floorLoop(data: FloorData): { checksum: number; segments: number } {
-  const R = 6_378_137;
+  const R = EARTH_RADIUS_M;
   const RAD = 180 / Math.PI;
   const P = data.pool;
   let checksum = 0;

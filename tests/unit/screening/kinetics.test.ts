@@ -1,0 +1,81 @@
+import { describe, expect, it } from 'vitest';
+import { JPL_19_5, rateConstant, type Reaction } from '@/lib/screening';
+
+const R_J_PER_MOL_K = 8.314462618;
+
+describe('JPL Publication 19-5 rate constants', () => {
+  // JPL 19-5 Table 1 lists k(298 K) to two significant figures beside A and E/R; the engine computes
+  // k from A and E/R, so agreement within 5 % checks the parameters and the Arrhenius form.
+  it.each([
+    { r: 'NO+O3', k298: 1.9e-14, source: 'JPL 19-5 Table 1: NO + O3 k(298) = 1.9e-14' },
+    { r: 'NO2+O', k298: 1.0e-11, source: 'JPL 15-10 Table 1 (bimolecular form): NO2 + O k(298) = 1.0e-11' },
+    { r: 'O+O3', k298: 8.0e-15, source: 'JPL 19-5 Table 1: O + O3 k(298) = 8.0e-15' },
+    { r: 'OH+O3', k298: 7.3e-14, source: 'JPL 19-5 Table 1: OH + O3 k(298) = 7.3e-14' },
+    { r: 'HO2+O', k298: 5.9e-11, source: 'JPL 19-5 Table 1: HO2 + O k(298) = 5.9e-11' },
+    { r: 'HO2+O3', k298: 1.9e-15, source: 'JPL 19-5 Table 1: HO2 + O3 k(298) = 1.9e-15' },
+    { r: 'HO2+NO', k298: 8.0e-12, source: 'JPL 19-5 Table 1: HO2 + NO k(298) = 8.0e-12' },
+  ] as { r: Reaction; k298: number; source: string }[])('$source', ({ r, k298 }) => {
+    const k = rateConstant(r, 298);
+    expect(Math.abs(k - k298) / k298).toBeLessThan(0.05);
+  });
+
+  it('O + O2 + M: k0(298 K) is the JPL 19-5 Table 2 value 6.1e-34 cm^6 molecule^-2 s^-1 (reference temperature 298 K)', () => {
+    expect(rateConstant('O+O2+M', 298)).toBeCloseTo(6.1e-34, 40);
+  });
+
+  it('O + O2 + M agrees with the IUPAC recommendation for air, 5.7e-34 (T/300)^-2.6 (from memory), within 15 % at 200-300 K', () => {
+    for (const t of [200, 220, 250, 280, 300]) {
+      const iupac = 5.7e-34 * Math.pow(t / 300, -2.6);
+      expect(Math.abs(rateConstant('O+O2+M', t) - iupac) / iupac).toBeLessThan(0.15);
+    }
+  });
+
+  it('OH + NO2 + M tends to k0 [M] at low density and to kinf = 2.8e-11 at high density (JPL 19-5 Table 2)', () => {
+    const m = 1e12;
+    expect(Math.abs(rateConstant('OH+NO2+M', 298, m) / m - 1.8e-30) / 1.8e-30).toBeLessThan(0.01);
+    expect(Math.abs(rateConstant('OH+NO2+M', 298, 1e26) - 2.8e-11) / 2.8e-11).toBeLessThan(0.05);
+  });
+
+  it('OH + NO2 + M at 298 K and 1 atm (2.46e19 cm^-3) is about 1.1e-11 (from memory), within 20 %', () => {
+    const k = rateConstant('OH+NO2+M', 298, 2.46e19);
+    expect(k).toBeGreaterThan(0.88e-11);
+    expect(k).toBeLessThan(1.32e-11);
+  });
+
+  it('OH + NO2 + M needs the air density and says so', () => {
+    expect(() => rateConstant('OH+NO2+M', 220)).toThrow(/airDensityCm3/);
+    expect(() => rateConstant('OH+NO2+M', 220, 0)).toThrow(RangeError);
+  });
+
+  it('rejects unknown reactions and non-physical temperatures', () => {
+    expect(() => rateConstant('CH4+OH' as Reaction, 250)).toThrow(RangeError);
+    expect(() => rateConstant('NO+O3', -5)).toThrow(RangeError);
+    expect(() => rateConstant('NO+O3', Number.NaN)).toThrow(RangeError);
+  });
+});
+
+describe('rules of thumb on the parameters', () => {
+  // Common practice: radical + molecule reactions have activation energies of about 0-60 kJ/mol.
+  it.each(['NO+O3', 'O+O3', 'OH+O3', 'HO2+O3'] as const)(
+    'radical + molecule %s: Ea = R x E/R within 0-60 kJ/mol (common practice)',
+    (r) => {
+      const p = JPL_19_5[r];
+      if (p.kind !== 'arrhenius') throw new Error('expected Arrhenius');
+      const ea = (R_J_PER_MOL_K * p.eOverRK) / 1000;
+      expect(ea).toBeGreaterThanOrEqual(0);
+      expect(ea).toBeLessThanOrEqual(60);
+    },
+  );
+
+  // Common practice: radical + radical reactions have little or a slightly negative temperature
+  // dependence, |Ea| of a few kJ/mol.
+  it.each(['NO2+O', 'HO2+O', 'HO2+NO'] as const)('radical + radical %s: |Ea| below 5 kJ/mol (common practice)', (r) => {
+    const p = JPL_19_5[r];
+    if (p.kind !== 'arrhenius') throw new Error('expected Arrhenius');
+    expect(Math.abs((R_J_PER_MOL_K * p.eOverRK) / 1000)).toBeLessThan(5);
+  });
+
+  it('NO + O3 is slower in the cold lower stratosphere than at 298 K (positive E/R)', () => {
+    expect(rateConstant('NO+O3', 217)).toBeLessThan(rateConstant('NO+O3', 298));
+  });
+});
