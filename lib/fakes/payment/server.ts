@@ -33,6 +33,7 @@ export const DEFAULT_DB_FILE = '.data/payment-fake.sqlite';
 const DEFAULT_RETRY_DELAYS_MS = [1_000, 2_000, 4_000, 8_000, 16_000, 30_000];
 const BODY_LIMIT_BYTES = 1_000_000;
 const IDEMPOTENCY_TTL_SECONDS = 86_400;
+const LOCAL_WEBHOOK_SECRET = 'whsec_tropopass_local_fake';
 
 export interface PaymentFakeOptions {
   /** 0 picks a free port. Default 12111. */
@@ -582,10 +583,10 @@ function clockFromEnv(today: string | undefined): (() => number) | undefined {
 if (isMain()) {
   const port = Number(process.env.PAYMENT_FAKE_PORT ?? DEFAULT_PORT);
   const webhookUrl = process.env.PAYMENT_WEBHOOK_URL || null;
-  const webhookSecret = process.env.STRIPE_WEBHOOK_SECRET || null;
-  if (webhookUrl && !webhookSecret) {
-    console.error('payment fake: PAYMENT_WEBHOOK_URL is set but STRIPE_WEBHOOK_SECRET is not; webhooks need both.');
-    process.exit(1);
+  // Same fallback as the app's lib/env.ts, so a demo that sets neither side still verifies.
+  const webhookSecret = process.env.STRIPE_WEBHOOK_SECRET || LOCAL_WEBHOOK_SECRET;
+  if (webhookUrl && !process.env.STRIPE_WEBHOOK_SECRET) {
+    console.error(`payment fake: STRIPE_WEBHOOK_SECRET unset; signing webhooks with the local default ${LOCAL_WEBHOOK_SECRET}`);
   }
   const fake = await startPaymentFake({
     port,
