@@ -1,0 +1,195 @@
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import { isa, rateConstant } from '@/lib/screening';
+import {
+  AFGL_ALTITUDE_KM,
+  AFGL_O3_PPMV,
+  DEFAULT_OZONE_INPUTS,
+  PROFILE_SLOTS,
+  SECONDS_PER_YEAR,
+  airNumberDensityCm3,
+  fleetOzoneColumnContext,
+  oddOxygenBudget,
+  ozoneLossCoefficients,
+  ozonePpmv,
+  profileSlotFor,
+  residenceTimeYears,
+} from '@/lib/screening/ozone-loss';
+
+const slot = (name: (typeof PROFILE_SLOTS)[number]) => PROFILE_SLOTS.indexOf(name);
+
+describe('residence time above the tropopause (SCIENCE.md s.5 table)', () => {
+  it.each([
+    [0, 0.1],
+    [1, 0.25],
+    [2, 0.5],
+    [4, 1.0],
+    [6, 1.5],
+    [9, 2.0],
+    [0.5, 0.175],
+    [5, 1.25],
+    [12, 2.0],
+    [-1, 0.1],
+  ])('%s km above -> %s yr (band values at the band lower edges, linear between, flat beyond)', (depth, years) => {
+    expect(residenceTimeYears(depth, DEFAULT_OZONE_INPUTS.residenceTime)).toBeCloseTo(years, 12);
+  });
+
+  it('never falls below the tabulated value of the band it is in (conservative)', () => {
+    const bands = [
+      [0, 1, 0.1],
+      [1, 2, 0.25],
+      [2, 4, 0.5],
+      [4, 6, 1.0],
+      [6, 9, 1.5],
+      [9, 30, 2.0],
+    ];
+    fc.assert(
+      fc.property(fc.double({ min: 0, max: 29.99, noNaN: true }), (d) => {
+        const band = bands.find(([lo, hi]) => d >= lo && d < hi)!;
+        expect(residenceTimeYears(d, DEFAULT_OZONE_INPUTS.residenceTime)).toBeGreaterThanOrEqual(band[2] - 1e-12);
+      }),
+    );
+  });
+});
+
+describe('ozone profile choice (SCIENCE.md s.5)', () => {
+  it.each([
+    { lat: 10, month: 1, want: 'tropical' },
+    { lat: -20, month: 7, want: 'tropical' },
+    { lat: 40, month: 7, want: 'midlatitude-summer' },
+    { lat: 40, month: 1, want: 'midlatitude-winter' },
+    { lat: -40, month: 7, want: 'midlatitude-winter' },
+    { lat: -40, month: 1, want: 'midlatitude-summer' },
+    { lat: 23.5, month: 4, want: 'midlatitude-summer' },
+    { lat: 60, month: 9, want: 'subarctic-summer' },
+    { lat: 60, month: 10, want: 'subarctic-winter' },
+    { lat: -70, month: 12, want: 'subarctic-summer' },
+    { lat: 50, month: null, want: 'subarctic-annual-mean' },
+    { lat: 30, month: null, want: 'midlatitude-annual-mean' },
+  ] as const)('$lat deg, month $month -> $want', ({ lat, month, want }) => {
+    expect(PROFILE_SLOTS[profileSlotFor(lat, month)]).toBe(want);
+  });
+
+  it('annual-mean slots average summer and winter', () => {
+    expect(ozonePpmv(slot('midlatitude-annual-mean'), 15)).toBeCloseTo(0.5 * (ozonePpmv(1, 15) + ozonePpmv(2, 15)), 12);
+  });
+});
+
+describe('embedded AFGL 1986 O3 profiles (transcribed from memory; shape checks against common knowledge)', () => {
+  const names = Object.keys(AFGL_O3_PPMV) as (keyof typeof AFGL_O3_PPMV)[];
+  it.each(names)('%s: one value per grid altitude, 20-100 ppbv in the lower troposphere, rising from 12 to 30 km, 5-10 ppmv at 30 km', (name) => {
+    const p = AFGL_O3_PPMV[name];
+    expect(p.length).toBe(AFGL_ALTITUDE_KM.length);
+    for (let i = 0; i <= 5; i++) {
+      expect(p[i]).toBeGreaterThan(0.015);
+      expect(p[i]).toBeLessThan(0.1);
+    }
+    const i12 = AFGL_ALTITUDE_KM.indexOf(12);
+    const i30 = AFGL_ALTITUDE_KM.indexOf(30);
+    for (let i = i12; i < i30; i++) expect(p[i + 1]).toBeGreaterThan(p[i]);
+    expect(p[i30]).toBeGreaterThan(5);
+    expect(p[i30]).toBeLessThan(10);
+  });
+
+  it('tropical ozone stays tropospheric (below 0.2 ppmv) up to 16 km, the tropical tropopause (common knowledge)', () => {
+    const i16 = AFGL_ALTITUDE_KM.indexOf(16);
+    for (let i = 0; i <= i16; i++) expect(AFGL_O3_PPMV.tropical[i]).toBeLessThan(0.2);
+  });
+});
+
+describe('loss coefficients', () => {
+  it('follow the SCIENCE.md s.5 formula built from the JPL 19-5 rate constants', () => {
+    const s = isa(16_000);
+    const m = airNumberDensityCm3(s.pressurePa, s.temperatureK);
+    const ppmv = 1.0;
+    const out = new Float64Array(4);
+    ozoneLossCoefficients(s.temperatureK, m, ppmv, DEFAULT_OZONE_INPUTS, out);
+    const t = s.temperatureK;
+    const o3 = ppmv * 1e-6 * m;
+    const o = (o3 * 4.5e-4) / (rateConstant('O+O2+M', t) * 0.2095 * m * m);
+    const r = (rateConstant('NO+O3', t) * o3) / (1.0e-2 + rateConstant('NO2+O', t) * o);
+    const fNo2 = r / (1 + r);
+    const expected = 2 * rateConstant('NO2+O', t) * o * 0.4 * fNo2 * 0.2 * SECONDS_PER_YEAR;
+    expect(out[0]).toBeCloseTo(expected, 12);
+    const chain = (rateConstant('NO2+O', t) * o) / (rateConstant('OH+NO2+M', t, m) * 1e6);
+    expect(out[3]).toBeCloseTo(chain, 12);
+  });
+
+  it('low <= central <= high for any level (property)', () => {
+    const out = new Float64Array(4);
+    fc.assert(
+      fc.property(
+        fc.double({ min: 190, max: 250, noNaN: true }),
+        fc.double({ min: 1e17, max: 2e19, noNaN: true }),
+        fc.double({ min: 0.01, max: 10, noNaN: true }),
+        (t, m, ppmv) => {
+          ozoneLossCoefficients(t, m, ppmv, DEFAULT_OZONE_INPUTS, out);
+          expect(out[1]).toBeLessThanOrEqual(out[0]);
+          expect(out[0]).toBeLessThanOrEqual(out[2]);
+          expect(out[1]).toBeGreaterThan(0);
+        },
+      ),
+    );
+  });
+});
+
+describe('local odd-oxygen loss budget', () => {
+  const at = (h: number) => {
+    const s = isa(h);
+    return oddOxygenBudget({
+      altitudeM: h,
+      latitudeDeg: 45,
+      profileSlot: slot('midlatitude-summer'),
+      aboveTropopause: true,
+      temperatureK: s.temperatureK,
+      airDensityCm3: s.numberDensityCm3,
+      o3Ppmv: ozonePpmv(slot('midlatitude-summer'), h / 1000),
+      inputs: DEFAULT_OZONE_INPUTS,
+    });
+  };
+
+  it('HOx cycles outweigh the Chapman loss in the lowermost stratosphere, 11-18 km (common knowledge, from memory: Wennberg et al. 1994)', () => {
+    for (const h of [11_000, 14_000, 18_000]) {
+      const b = at(h);
+      expect(b.hoxLossCm3S).toBeGreaterThan(b.chapmanLossCm3S);
+    }
+  });
+
+  it('the Chapman share grows with altitude (common knowledge)', () => {
+    const low = at(12_000);
+    const high = at(20_000);
+    expect(high.chapmanLossCm3S / high.hoxLossCm3S).toBeGreaterThan(low.chapmanLossCm3S / low.hoxLossCm3S);
+  });
+
+  it('shares are fractions', () => {
+    const b = at(17_000);
+    expect(b.addedNoxShareAt1Ppbv).toBeGreaterThan(0);
+    expect(b.addedNoxShareAt1Ppbv).toBeLessThan(1);
+  });
+});
+
+describe('fleet-scale column context (Eastham et al. 2022; Zhang et al. 2023)', () => {
+  it('reproduces Eastham et al. 2022 at its own point: 170 Gg NOx/yr at 15-17 km -> -0.046 % column, +/-50 %', () => {
+    const [eastham, zhang] = fleetOzoneColumnContext([{ geometricAltitudeKm: 16, noxKgPerYear: 170e6 }]);
+    expect(eastham.applicable).toBe(true);
+    expect(eastham.columnChangePct!.central).toBeCloseTo(-0.046, 9);
+    expect(eastham.columnChangePct!.low).toBeCloseTo(-0.023, 9);
+    expect(eastham.columnChangePct!.high).toBeCloseTo(-0.069, 9);
+    expect(zhang.applicable).toBe(false);
+    expect(zhang.columnChangePct).toBeNull();
+  });
+
+  it('reproduces Zhang et al. 2023 at its own point: 1.78 Tg NOx/yr at 17-20 km -> -0.74 %', () => {
+    const [, zhang] = fleetOzoneColumnContext([{ geometricAltitudeKm: 18.5, noxKgPerYear: 1.78e9 }]);
+    expect(zhang.columnChangePct!.central).toBeCloseTo(-0.74, 9);
+  });
+
+  it('is not applicable outside the studies altitudes and never extrapolates', () => {
+    const ctx = fleetOzoneColumnContext([{ geometricAltitudeKm: 11, noxKgPerYear: 1e9 }]);
+    for (const c of ctx) {
+      expect(c.applicable).toBe(false);
+      expect(c.columnChangePct).toBeNull();
+      expect(c.note).toMatch(/Not applicable/);
+    }
+  });
+});

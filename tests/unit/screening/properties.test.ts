@@ -1,0 +1,140 @@
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import { ScreeningInputError, screenFlight } from '@/lib/screening';
+
+const coord = fc.record({
+  lat: fc.double({ min: -85, max: 85, noNaN: true }),
+  lon: fc.double({ min: -180, max: 180, noNaN: true }),
+});
+
+const directFlight = fc.record({
+  waypoints: fc.array(coord, { minLength: 2, maxLength: 5 }),
+  flightLevel: fc.integer({ min: 0, max: 660 }),
+  fuelBurnKg: fc.double({ min: 1, max: 500_000, noNaN: true }),
+  ei: fc.double({ min: 0, max: 200, noNaN: true }),
+  month: fc.option(fc.integer({ min: 1, max: 12 }), { nil: undefined }),
+  mach: fc.double({ min: 0.1, max: 3, noNaN: true }),
+});
+
+function screenOrNull(input: unknown) {
+  try {
+    return screenFlight(input);
+  } catch (e) {
+    // Random routes can land on coincident or antipodal points: that is a validation error too.
+    if (e instanceof ScreeningInputError) return null;
+    throw e;
+  }
+}
+
+type DirectFlight = typeof directFlight extends fc.Arbitrary<infer T> ? T : never;
+
+const toInput = (f: DirectFlight) => ({
+  route: { waypoints: f.waypoints },
+  cruise: { flightLevel: f.flightLevel },
+  fuelBurnKg: f.fuelBurnKg,
+  emission: { eiNoxGPerKg: f.ei },
+  month: f.month,
+  mach: f.mach,
+});
+
+describe('engine properties (fast-check)', () => {
+  it('NOx = fuel x EI for a direct EI; segments sum to the totals; fraction in [0, 1]', () => {
+    fc.assert(
+      fc.property(directFlight, (f) => {
+        const r = screenOrNull(toInput(f));
+        if (r === null) return;
+        const tol = 1e-9 * Math.max(1, r.noxTotalKg);
+        expect(Math.abs(r.noxTotalKg - (f.fuelBurnKg * f.ei) / 1000)).toBeLessThan(tol + 1e-9 * f.fuelBurnKg);
+        const fuel = r.segments.reduce((a, s) => a + s.fuelKg, 0);
+        const nox = r.segments.reduce((a, s) => a + s.noxKg, 0);
+        const above = r.segments.reduce((a, s) => a + (s.aboveTropopause ? s.noxKg : 0), 0);
+        expect(Math.abs(fuel - r.fuelKg)).toBeLessThan(1e-9 * r.fuelKg);
+        expect(Math.abs(nox - r.noxTotalKg)).toBeLessThan(tol);
+        expect(Math.abs(above - r.noxAboveTropopauseKg)).toBeLessThan(tol);
+        expect(r.fractionAboveTropopause).toBeGreaterThanOrEqual(0);
+        expect(r.fractionAboveTropopause).toBeLessThanOrEqual(1);
+        expect(r.ozoneLoss.lowKg).toBeLessThanOrEqual(r.ozoneLoss.centralKg);
+        expect(r.ozoneLoss.centralKg).toBeLessThanOrEqual(r.ozoneLoss.highKg);
+      }),
+      { numRuns: 150 },
+    );
+  });
+
+  it('with a direct EI and the same fuel, a higher level never has less NOx above the tropopause', () => {
+    fc.assert(
+      fc.property(directFlight, fc.integer({ min: 1, max: 200 }), (f, up) => {
+        const low = screenOrNull(toInput(f));
+        if (low === null) return;
+        const high = screenFlight(toInput({ ...f, flightLevel: Math.min(660, f.flightLevel + up) }));
+        expect(high.noxAboveTropopauseKg).toBeGreaterThanOrEqual(low.noxAboveTropopauseKg * (1 - 1e-12));
+      }),
+      { numRuns: 150 },
+    );
+  });
+
+  it('any value as input: a result or a ScreeningInputError, never another exception', () => {
+    fc.assert(
+      fc.property(fc.anything({ withObjectString: true, withNullPrototype: true, withBigInt: true, withDate: true }), (x) => {
+        try {
+          screenFlight(x);
+        } catch (e) {
+          expect(e).toBeInstanceOf(ScreeningInputError);
+          expect((e as ScreeningInputError).fields.length).toBeGreaterThan(0);
+        }
+      }),
+      { numRuns: 300 },
+    );
+  });
+
+  it('a valid input with one field replaced by junk: a result or a ScreeningInputError naming fields', () => {
+    const junk = fc.oneof(
+      fc.anything(),
+      fc.double(),
+      fc.constantFrom(Number.NaN, Number.POSITIVE_INFINITY, -1, 0, 1e12, '', 'EGLL', [], {}, null),
+    );
+    const paths = [
+      ['route'], ['route', 'waypoints'], ['route', 'waypoints', 0], ['route', 'waypoints', 1, 'lat'], ['cruise'], ['cruise', 'flightLevel'],
+      ['cruise', 'steps'], ['fuelBurnKg'], ['mach'], ['emission'], ['emission', 'eiNoxGPerKg'], ['emission', 'engine'],
+      ['emission', 'engine', 'fuelFlowKgS', 2], ['emission', 'engineCount'], ['month'], ['flightDate'], ['tropopause'],
+      ['tropopause', 'sounding'], ['tropopause', 'sounding', 1], ['tropopause', 'sounding', 1, 'pressureHpa'], ['assumptions'],
+      ['assumptions', 'residenceTime'], ['assumptions', 'ozoneProfile'],
+    ] as (string | number)[][];
+    const base = () => ({
+      route: { waypoints: [{ airport: 'EGLL' }, { lat: 50, lon: -30 }, { airport: 'KJFK' }] },
+      cruise: { flightLevel: 370 } as Record<string, unknown>,
+      fuelBurnKg: 30_000,
+      mach: 0.84,
+      emission: { engine: { fuelFlowKgS: [0.2, 0.6, 1.8, 2.2], eiNoxGPerKg: [5, 11, 28, 36] }, engineCount: 2 } as Record<string, unknown>,
+      month: 5,
+      flightDate: '2026-05-04',
+      tropopause: {
+        sounding: [
+          { altitudeM: 8000, pressureHpa: 356, temperatureK: 236 },
+          { altitudeM: 10_000, pressureHpa: 264, temperatureK: 223 },
+          { altitudeM: 12_000, pressureHpa: 193, temperatureK: 218 },
+          { altitudeM: 14_000, pressureHpa: 141, temperatureK: 218 },
+        ],
+      } as Record<string, unknown>,
+      assumptions: { residenceTime: { depthKm: [0, 5], years: [0.2, 1] }, ozoneProfile: 'midlatitude-summer' } as Record<string, unknown>,
+    });
+    fc.assert(
+      fc.property(fc.constantFrom(...paths), junk, (path, value) => {
+        const input = base() as unknown as Record<string | number, unknown>;
+        let node = input;
+        for (const k of path.slice(0, -1)) {
+          const next = node[k];
+          if (typeof next !== 'object' || next === null) return;
+          node = next as Record<string | number, unknown>;
+        }
+        node[path[path.length - 1]] = value;
+        try {
+          screenFlight(input);
+        } catch (e) {
+          expect(e).toBeInstanceOf(ScreeningInputError);
+          expect((e as ScreeningInputError).fields.length).toBeGreaterThan(0);
+        }
+      }),
+      { numRuns: 500 },
+    );
+  });
+});
