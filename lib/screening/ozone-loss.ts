@@ -8,9 +8,11 @@ import { AVOGADRO, BOLTZMANN_J_K } from './atmosphere';
 import { JPL_19_5, arrhenius, lowPressureLimit, ohNo2Rate, type ArrheniusParameters, type TermolecularParameters } from './kinetics';
 import type { Assumptions, OzoneProfileName } from '../validation/screening';
 
-/** Molar masses, g/mol (SCIENCE.md s.4). */
+/** Molar mass of O3, g/mol (SCIENCE.md s.4). */
 export const MOLAR_MASS_O3 = 47.998;
+/** Molar mass of NO2, g/mol: NOx mass is NO2-equivalent throughout (SCIENCE.md s.4). */
 export const MOLAR_MASS_NO2 = 46.0055;
+/** Molar mass of N, g/mol (SCIENCE.md s.4). */
 export const MOLAR_MASS_N = 14.0067;
 /** O2 volume fraction of dry air (SCIENCE.md s.4). */
 export const O2_FRACTION = 0.2095;
@@ -53,8 +55,9 @@ export const AFGL_O3_PPMV: Readonly<Record<OzoneProfileName, readonly number[]>>
   ],
 });
 
-/** Latitude limits of the profile bands, degrees: tropical below 23.5, subarctic from 50. */
+/** |Latitude| (degrees) below which the tropical profile is used all year (SCIENCE.md s.5). */
 export const TROPICAL_BAND_MAX_LAT = 23.5;
+/** |Latitude| (degrees) from which the subarctic profiles are used (SCIENCE.md s.5). */
 export const SUBARCTIC_BAND_MIN_LAT = 50;
 
 /** Profile slots the engine caches by: the five AFGL profiles, two annual means, one custom. */
@@ -68,7 +71,9 @@ export const PROFILE_SLOTS = [
   'subarctic-annual-mean',
   'custom',
 ] as const;
+/** Name of a profile slot. */
 export type ProfileSlotName = (typeof PROFILE_SLOTS)[number];
+/** Index of the user-supplied profile in PROFILE_SLOTS. */
 export const CUSTOM_PROFILE_SLOT = 7;
 
 /**

@@ -493,14 +493,23 @@ export const screeningInputSchema = z.object({
 export type ScreeningInput = z.output<typeof screeningInputSchema>;
 /** A screening input as sent by a client (the schema's input). */
 export type ScreeningInputRaw = z.input<typeof screeningInputSchema>;
+/** A validated waypoint: `{ lat, lon }` in degrees or `{ airport }` code. */
 export type Waypoint = z.output<typeof waypointSchema>;
+/** A validated cruise: `{ flightLevel }` or `{ steps }`. */
 export type Cruise = z.output<typeof cruiseSchema>;
+/** A validated cruise step: `fromKm` (km along the route) and `flightLevel`. */
 export type CruiseStep = z.output<typeof cruiseStepSchema>;
+/** Validated certification data (kg/s and g/kg per mode, idle -> take-off). */
 export type EngineCert = z.output<typeof engineCertSchema>;
+/** A validated emission: direct EI (g/kg) or engine data. */
 export type Emission = z.output<typeof emissionSchema>;
+/** A validated sounding level (geopotential m, hPa, K). */
 export type SoundingLevel = z.output<typeof soundingLevelSchema>;
+/** A validated tropopause override. */
 export type TropopauseOverride = z.output<typeof tropopauseOverrideSchema>;
+/** Validated assumption overrides of the ozone figure and the EI humidity. */
 export type Assumptions = z.output<typeof assumptionsSchema>;
+/** Name of an embedded AFGL 1986 ozone profile. */
 export type OzoneProfileName = (typeof OZONE_PROFILE_NAMES)[number];
 
 /**
@@ -520,4 +529,5 @@ export const compareCruiseLevelsOptionsSchema = z.strictObject({
   fuelPenaltyPctPer1000Ft: between('The fuel penalty', 0, 10, '% per 1000 ft').optional(),
   maxFuelPenaltyPct: between('The fuel-penalty limit', 0, 50, '%').optional(),
 });
+/** `compareCruiseLevels` options as a client sends them. */
 export type CompareCruiseLevelsOptions = z.input<typeof compareCruiseLevelsOptionsSchema>;

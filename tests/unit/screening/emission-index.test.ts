@@ -11,8 +11,8 @@ import {
 } from '@/lib/screening';
 import { evaluateEiCurve, humidityTerm, specificHumidityKgKg } from '@/lib/screening/emission-index';
 
-// A plausible mid-size turbofan (invented; values of the order of a CFM56-7B class engine in the
-// ICAO emissions databank, from memory).
+// A plausible mid-size turbofan (invented; values of the order of mid-size turbofans in the ICAO
+// engine emissions databank, from memory).
 const TURBOFAN: EngineCertData = {
   fuelFlowKgS: [0.11, 0.33, 0.99, 1.21],
   eiNoxGPerKg: [4.6, 10.0, 22.5, 28.8],
