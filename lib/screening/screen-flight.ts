@@ -19,7 +19,6 @@ import {
   humidityTerm,
   type CurvePosition,
 } from './emission-index';
-import { ScreeningInputError } from './errors';
 import {
   AFGL_SOURCE,
   CUSTOM_PROFILE_SLOT,
