@@ -27,11 +27,12 @@ const env = {
   PAYMENT_FAKE_PORT: process.env.PAYMENT_FAKE_PORT ?? '12111',
   STRIPE_API_PORT: process.env.PAYMENT_FAKE_PORT ?? '12111',
   PAYMENT_WEBHOOK_URL: `${url}/api/webhooks/stripe`,
+  STRIPE_WEBHOOK_SECRET: process.env.STRIPE_WEBHOOK_SECRET ?? 'whsec_tropopass_demo_local',
 };
 
 const commands = [
   { name: 'mail', command: 'tsx lib/fakes/smtp/server.ts', env },
-  ...(fs.existsSync(path.join(root, 'lib/fakes/payment/server.ts')) ? [{ name: 'payments', command: 'tsx lib/fakes/payment/server.ts', env }] : []),
+  { name: 'payments', command: 'tsx lib/fakes/payment/server.ts', env },
   { name: 'app', command: `next start -H 127.0.0.1 -p ${port}`, env },
 ];
 

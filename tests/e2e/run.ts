@@ -72,6 +72,7 @@ async function main(): Promise<number> {
     PAYMENT_FAKE_DB: path.join(work, 'payment-fake.sqlite'),
     STRIPE_API_PORT: String(payPort),
     PAYMENT_WEBHOOK_URL: `${baseUrl}/api/webhooks/stripe`,
+    STRIPE_WEBHOOK_SECRET: 'whsec_e2e_local_fake_secret',
     RATE_LIMIT_SIGNIN_PER_15MIN: '1000',
     RATE_LIMIT_PREVIEW_PER_MIN: '100000',
     RATE_LIMIT_API_PER_MIN: '100000',
@@ -79,14 +80,15 @@ async function main(): Promise<number> {
   };
   const knexCli = ['--import', 'tsx', 'node_modules/knex/bin/cli.js', '--knexfile', 'knexfile.ts'];
   if (process.env.E2E_SKIP_BUILD !== '1' || !fs.existsSync(path.join(root, '.next', 'BUILD_ID'))) {
-    run('npx', ['next', 'build'], { ...env, NODE_ENV: 'production' }, 'next build');
+    run(process.execPath, ['node_modules/next/dist/bin/next', 'build'], env, 'next build');
   }
   run(process.execPath, [...knexCli, 'migrate:latest'], env, 'migrate');
   run(process.execPath, [...knexCli, 'seed:run'], env, 'seed');
 
   const children: ChildProcess[] = [];
+  // Each child leads its own process group, so stopping it also stops whatever it started.
   const start = (args: string[], label: string) => {
-    const c = spawn(args[0], args.slice(1), { cwd: root, env, stdio: ['ignore', 'inherit', 'inherit'] });
+    const c = spawn(args[0], args.slice(1), { cwd: root, env, stdio: ['ignore', 'inherit', 'inherit'], detached: true });
     c.on('exit', (code) => {
       if (code && code !== 0 && !stopping) console.error(`[e2e] ${label} exited with ${code}`);
     });
@@ -95,12 +97,12 @@ async function main(): Promise<number> {
   };
   let stopping = false;
   try {
-    start(['npx', 'tsx', 'lib/fakes/smtp/server.ts'], 'mail fake');
-    if (fs.existsSync(path.join(root, 'lib/fakes/payment/server.ts'))) start(['npx', 'tsx', 'lib/fakes/payment/server.ts'], 'payment fake');
-    const app = start(['npx', 'next', 'start', '-H', '127.0.0.1', '-p', String(appPort)], 'app');
+    start([process.execPath, '--import', 'tsx', 'lib/fakes/smtp/server.ts'], 'mail fake');
+    start([process.execPath, '--import', 'tsx', 'lib/fakes/payment/server.ts'], 'payment fake');
+    const app = start([process.execPath, 'node_modules/next/dist/bin/next', 'start', '-H', '127.0.0.1', '-p', String(appPort)], 'app');
     await waitFor(`${baseUrl}/signin`, app);
     await waitFor(`http://127.0.0.1:${mailHttpPort}/messages`, app);
-    const r = spawnSync('npx', ['vitest', 'run', '--config', 'tests/e2e/vitest.config.ts', ...process.argv.slice(2)], {
+    const r = spawnSync(process.execPath, ['node_modules/vitest/vitest.mjs', 'run', '--config', 'tests/e2e/vitest.config.ts', ...process.argv.slice(2)], {
       cwd: root,
       env: { ...env, E2E_BASE_URL: baseUrl, E2E_MAIL_URL: `http://127.0.0.1:${mailHttpPort}`, E2E_PAYMENT_URL: `http://127.0.0.1:${payPort}`, CHROMIUM_PATH: chromium, NODE_ENV: 'test' },
       stdio: 'inherit',
@@ -108,9 +110,16 @@ async function main(): Promise<number> {
     return r.status ?? 1;
   } finally {
     stopping = true;
-    for (const c of children) c.kill('SIGTERM');
-    await new Promise((r) => setTimeout(r, 300));
-    for (const c of children) if (c.exitCode === null) c.kill('SIGKILL');
+    const signal = (c: ChildProcess, sig: NodeJS.Signals) => {
+      try {
+        if (c.pid) process.kill(-c.pid, sig);
+      } catch {
+        /* already gone */
+      }
+    };
+    for (const c of children) signal(c, 'SIGTERM');
+    await new Promise((r) => setTimeout(r, 500));
+    for (const c of children) if (c.exitCode === null) signal(c, 'SIGKILL');
     fs.rmSync(work, { recursive: true, force: true });
   }
 }

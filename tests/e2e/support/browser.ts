@@ -1,5 +1,4 @@
 import fs from 'node:fs';
-import os from 'node:os';
 import path from 'node:path';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 import { afterAll, beforeAll } from 'vitest';
@@ -12,18 +11,16 @@ const OUTPUT = path.resolve(process.cwd(), 'tests/e2e/output');
 /** One Chromium per test file, launched with the flags this closed network needs. */
 export function useBrowser(): { browser: () => Browser } {
   let browser: Browser;
-  let dataDir = '';
   beforeAll(async () => {
-    dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'tropopass-chromium-'));
+    // playwright-core gives every launch a fresh, empty profile directory of its own.
     browser = await chromium.launch({
       executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
       headless: true,
-      args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', `--user-data-dir=${dataDir}`],
+      args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
     });
   });
   afterAll(async () => {
     await browser?.close();
-    fs.rmSync(dataDir, { recursive: true, force: true });
   });
   return { browser: () => browser };
 }
