@@ -2,7 +2,7 @@ import 'server-only';
 import { z } from 'zod';
 import {
   compareCruiseLevels,
-  screenFlight,
+  screenValidated,
   ScreeningInputError,
   validateScreeningInput,
   type CruiseLevelRow,
@@ -66,9 +66,9 @@ export async function parseScreeningBody(raw: unknown, scope: { workspaceId: num
   return { name: extras.success ? extras.data.name : undefined, aircraftCode, input, whatIf: extras.success ? extras.data.whatIf : undefined };
 }
 
-/** Screens the validated input; airport and sounding problems found by the engine come back as 422. */
+/** Screens an input `parseScreeningBody` validated; airports unknown to the data still come back as 422. */
 export function runScreening(input: ScreeningInput): ScreeningResult {
-  return screenFlight(input);
+  return screenValidated(input);
 }
 
 export function runWhatIf(input: ScreeningInput, whatIf: unknown): CruiseLevelRow[] {

@@ -1,0 +1,16 @@
+/**
+ * `npm run bench`: every benchmark in turn, each in its own process so one's memory does not colour
+ * the next. Figures only; nothing here passes or fails on speed.
+ */
+import { spawnSync } from 'node:child_process';
+import fs from 'node:fs';
+import path from 'node:path';
+
+const benches = ['engine.ts', 'import.ts'].map((f) => path.join('tests/bench', f)).filter((f) => fs.existsSync(f));
+let failed = false;
+for (const file of benches) {
+  console.log(`\n=== ${file} ===`);
+  const r = spawnSync(process.execPath, ['--import', 'tsx', file, ...process.argv.slice(2)], { stdio: 'inherit' });
+  if (r.status !== 0) failed = true;
+}
+process.exit(failed ? 1 : 0);
