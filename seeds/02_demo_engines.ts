@@ -15,9 +15,9 @@ interface EngineSeed {
 }
 
 const ENGINES: EngineSeed[] = [
-  { slug: 'skarn-polar', name: 'TPX-71 demo turbofan', ff: [0.105, 0.34, 1.02, 1.27], ei: [5.1, 11.6, 24.3, 31.2] },
-  { slug: 'skarn-polar', name: 'TPX-84 demo turbofan', ff: [0.118, 0.39, 1.19, 1.47], ei: [4.7, 10.9, 26.4, 35.1] },
-  { slug: 'velloway-jets', name: 'TBJ-19 demo business-jet turbofan', ff: [0.036, 0.102, 0.281, 0.342], ei: [3.9, 8.4, 16.8, 21.7] },
+  { slug: 'skarn-polar', name: 'TPX-71 demo turbofan', ff: [0.29, 0.93, 2.78, 3.42], ei: [5.2, 12.1, 29.6, 43.8] },
+  { slug: 'skarn-polar', name: 'TPX-84 demo turbofan', ff: [0.26, 0.83, 2.46, 3.02], ei: [4.9, 11.4, 27.3, 38.9] },
+  { slug: 'velloway-jets', name: 'TBJ-19 demo business-jet turbofan', ff: [0.062, 0.185, 0.55, 0.68], ei: [3.9, 8.4, 16.8, 21.7] },
 ];
 
 const FLEETS: { slug: string; name: string; description: string }[] = [
