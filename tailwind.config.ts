@@ -7,7 +7,7 @@ const config: Config = {
   theme: {
     extend: {
       colors: {
-        ink: { DEFAULT: '#16233b', soft: '#3d4a63', faint: '#6b7487' },
+        ink: { DEFAULT: '#16233b', soft: '#3d4a63', faint: '#5f6879' },
         paper: { DEFAULT: '#f6f6f2', raised: '#ffffff', sunk: '#ecece6' },
         line: { DEFAULT: '#d8d8cf', strong: '#b9b9ad' },
         strato: { DEFAULT: '#6a3d9a', soft: '#ece4f5', strong: '#4b2574' },

@@ -1,4 +1,5 @@
 import type { Metadata } from 'next';
+import { connection } from 'next/server';
 import './globals.css';
 import { inter } from './fonts';
 import { Providers } from '@/components/shell/providers';
@@ -8,7 +9,9 @@ export const metadata: Metadata = {
   description: 'NOx above the tropopause and a catalytic ozone-loss screening figure for flight planning and fleet reporting.',
 };
 
-export default function RootLayout({ children }: { children: React.ReactNode }) {
+export default async function RootLayout({ children }: { children: React.ReactNode }) {
+  // Every page is rendered per request so that Next.js can put the proxy's CSP nonce on its scripts.
+  await connection();
   return (
     <html lang="en" className={inter.variable}>
       <body className="min-h-screen bg-paper text-ink antialiased">

@@ -6,8 +6,9 @@ import { signOut } from 'next-auth/react';
 export function UserMenu({ email, name }: { email: string; name: string }) {
   return (
     <details className="relative">
-      <summary className="cursor-pointer list-none rounded-md px-2 py-1 text-sm text-ink-soft hover:bg-paper-sunk" aria-label="Account menu">
+      <summary className="cursor-pointer list-none rounded-md px-2 py-1 text-sm text-ink-soft hover:bg-paper-sunk">
         {name || email}
+        <span className="sr-only"> (account menu)</span>
       </summary>
       <div className="absolute right-0 z-20 mt-1 w-56 rounded-md border border-line bg-paper-raised p-1 text-sm shadow-lg">
         <p className="truncate px-3 py-2 text-xs text-ink-faint">{email}</p>

@@ -35,12 +35,16 @@ async function authenticate(req: Request): Promise<Principal> {
     const m = /^Bearer\s+(\S+)$/i.exec(auth);
     if (!m) throw unauthenticated('The Authorization header must be "Bearer <key>".');
     const key = await findApiKey(m[1]);
-    if (!key) throw unauthenticated('That API key is unknown or revoked.');
+    if (!key) {
+      log.warn({ event: 'auth.rejected', reason: 'api_key', path: new URL(req.url).pathname }, 'unknown or revoked API key');
+      throw unauthenticated('That API key is unknown or revoked.');
+    }
     return { kind: 'key', key };
   }
   const user = await userFromRequest(req);
   if (!user) throw unauthenticated();
   if (MUTATING.has(req.method) && !isAllowedOrigin(req.headers.get('origin'), req.headers.get('host'))) {
+    log.warn({ event: 'csrf.refused', origin: req.headers.get('origin'), userId: user.id, path: new URL(req.url).pathname }, 'cross-site request refused');
     throw forbidden('This request came from another site and was refused.');
   }
   return { kind: 'user', user };
@@ -52,11 +56,17 @@ function principalLabel(p: Principal): string {
 
 async function resolveMember(p: Principal, slug: string): Promise<{ workspace: WorkspaceDto; role: Role }> {
   if (p.kind === 'key') {
-    if (p.key.workspace.slug !== slug) throw notFound();
+    if (p.key.workspace.slug !== slug) {
+      log.warn({ event: 'authz.not_member', apiKeyId: p.key.keyId, workspace: slug }, 'API key used outside its workspace');
+      throw notFound();
+    }
     return { workspace: { ...p.key.workspace, createdAt: '' }, role: p.key.role };
   }
   const m = await getMembership({ userId: p.user.id, slug });
-  if (!m) throw notFound();
+  if (!m) {
+    log.warn({ event: 'authz.not_member', userId: p.user.id, workspace: slug }, 'not a member of this workspace');
+    throw notFound();
+  }
   return m;
 }
 
@@ -108,7 +118,9 @@ function withNoStore(res: Response): Response {
 
 function failure(req: Request, err: unknown): Response {
   const res = toResponse(err);
-  if (res.status === 422 || res.status === 400) log.info({ event: 'input.rejected', path: new URL(req.url).pathname, status: res.status }, 'input rejected');
+  const path = new URL(req.url).pathname;
+  if (res.status === 422 || res.status === 400 || res.status === 413) log.info({ event: 'input.rejected', path, status: res.status }, 'input rejected');
+  else if (res.status === 429) log.warn({ event: 'throttled', path }, 'request throttled');
   return res;
 }
 

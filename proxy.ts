@@ -1,0 +1,31 @@
+import { NextResponse, type NextRequest } from 'next/server';
+import { env } from '@/lib/env';
+import { baseSecurityHeaders, contentSecurityPolicy, createNonce, hasSessionCookie, mustNotStore, wantsHsts } from '@/lib/security/headers';
+
+/**
+ * Security headers on every response, and a per-request CSP nonce that Next.js applies to its own
+ * scripts (it reads the nonce back from the request's Content-Security-Policy header). This is not an
+ * access gate: pages, handlers and actions check the session and the role themselves.
+ */
+export function proxy(request: NextRequest): NextResponse {
+  const e = env();
+  const nonce = createNonce();
+  const csp = contentSecurityPolicy(nonce, { development: e.NODE_ENV === 'development' });
+
+  const requestHeaders = new Headers(request.headers);
+  requestHeaders.set('x-nonce', nonce);
+  requestHeaders.set('content-security-policy', csp);
+
+  const res = NextResponse.next({ request: { headers: requestHeaders } });
+  res.headers.set('content-security-policy', csp);
+  const hsts = wantsHsts(e.NODE_ENV, e.NEXTAUTH_URL, request.headers.get('x-forwarded-proto'));
+  for (const [k, v] of Object.entries(baseSecurityHeaders({ hsts }))) res.headers.set(k, v);
+  const signedIn = hasSessionCookie(request.cookies.getAll().map((c) => c.name));
+  if (mustNotStore(request.nextUrl.pathname, signedIn)) res.headers.set('cache-control', 'no-store');
+  return res;
+}
+
+export const config = {
+  // Static build assets carry no session data and need no nonce.
+  matcher: ['/((?!_next/static|_next/image|icon.svg).*)'],
+};
