@@ -44,6 +44,9 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   '/workspaces/{slug}/screenings/{id}': {
     get: { summary: 'One saved screening', permission: 'flights:read', responses: { '200': '{ id, name, createdAt, input, result }' } },
   },
+  '/workspaces/{slug}/screenings/{id}/export': {
+    get: { summary: 'One saved screening as a download: CSV (headline figures, then one row per segment) or JSON { id, name, createdAt, input, result }', permission: 'flights:read', query: { format: 'csv (default) or json' }, responses: { '200': 'Attachment (text/csv or application/json)' } },
+  },
   '/workspaces/{slug}/screenings/preview': {
     post: { summary: 'Screen without saving (not billed, throttled), with the what-if cruise levels; optional whatIf options', permission: 'screenings:create', requestBody: screeningInputSchema, responses: { '200': '{ input, result, levels }' } },
   },

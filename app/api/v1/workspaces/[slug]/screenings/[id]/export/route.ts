@@ -1,0 +1,122 @@
+import { idParam, workspaceRoute } from '@/lib/api/route';
+import { getScreening, routeLabel, type ScreeningRecord } from '@/db/screenings';
+import { invalidFields } from '@/lib/errors';
+
+type Cell = string | number | boolean | null;
+
+/** Text that a spreadsheet would read as a formula gets a leading apostrophe (OWASP "CSV injection"). */
+function neutralise(text: string): string {
+  return /^[=+\-@\t\r]/.test(text) ? `'${text}` : text;
+}
+
+/** One RFC 4180 field: numbers as written, text neutralised and quoted when it holds , " CR or LF. */
+function field(cell: Cell): string {
+  if (cell === null) return '';
+  if (typeof cell === 'number') return Number.isFinite(cell) ? String(cell) : '';
+  if (typeof cell === 'boolean') return cell ? 'yes' : 'no';
+  const text = neutralise(cell);
+  return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
+}
+
+const round = (n: number, digits: number): number => Number(n.toFixed(digits));
+
+const SEGMENT_HEADER = [
+  'Segment',
+  'Start (km)',
+  'End (km)',
+  'Latitude (deg)',
+  'Longitude (deg)',
+  'Flight level',
+  'Pressure altitude (m)',
+  'Tropopause (m)',
+  'Tropopause source',
+  'Above tropopause',
+  'Depth above tropopause (km)',
+  'Fuel (kg)',
+  'NOx (kg NO2)',
+  'Ozone-loss figure (kg O3)',
+];
+
+/**
+ * A header block of the headline figures (label, value), a separating row, then one row per
+ * segment. Every record carries the same number of fields (RFC 4180 s.2.4) and ends in CRLF.
+ */
+function toCsv(r: ScreeningRecord): string {
+  const res = r.result;
+  const rows: Cell[][] = [
+    ['Tropopass screening export', 'Screening estimate for planning and reporting support; not a certified emissions inventory or a regulatory method.'],
+    ['Screening', r.name],
+    ['Screening id', r.id],
+    ['Saved at (UTC)', r.createdAt],
+    ['Route', routeLabel(r.input)],
+    ['Aircraft type', r.aircraftCode],
+    ['Flight date', r.input.flightDate ?? null],
+    ['Month for the climatology', res.month],
+    ['Engine version', res.engineVersion],
+    ['Distance (km)', round(res.distanceKm, 3)],
+    ['Cruise fuel (kg)', round(res.fuelKg, 3)],
+    ['NOx total (kg NO2)', round(res.noxTotalKg, 4)],
+    ['NOx above the tropopause (kg NO2)', round(res.noxAboveTropopauseKg, 4)],
+    ['NOx above the tropopause (kg N)', round(res.noxAboveTropopauseKgN, 4)],
+    ['Share of NOx above the tropopause', round(res.fractionAboveTropopause, 6)],
+    ['Mean depth above the tropopause (km)', round(res.meanDepthAboveTropopauseKm, 4)],
+    ['EI method', res.eiMethod],
+    ['Mean cruise EI NOx (g/kg)', round(res.meanCruiseEiNoxGPerKg, 4)],
+    ['EI NOx by BFFM2 (g/kg)', res.eiComparison ? round(res.eiComparison.bffm2, 4) : null],
+    ['EI NOx by DLR (g/kg)', res.eiComparison ? round(res.eiComparison.dlr, 4) : null],
+    ['Ozone-loss figure, central (kg O3)', round(res.ozoneLoss.centralKg, 4)],
+    ['Ozone-loss figure, low (kg O3)', round(res.ozoneLoss.lowKg, 4)],
+    ['Ozone-loss figure, high (kg O3)', round(res.ozoneLoss.highKg, 4)],
+    ['Tropopause', res.tropopause.description],
+    ...res.cautions.map((c): Cell[] => ['Caution', c]),
+    [],
+    SEGMENT_HEADER,
+    ...res.segments.map((s, i): Cell[] => [
+      i + 1,
+      round(s.startKm, 3),
+      round(s.endKm, 3),
+      round(s.lat, 5),
+      round(s.lon, 5),
+      s.flightLevel,
+      round(s.altitudeM, 1),
+      round(s.tropopauseM, 1),
+      s.tropopauseSource,
+      s.aboveTropopause,
+      round(s.depthAboveTropopauseKm, 4),
+      round(s.fuelKg, 4),
+      round(s.noxKg, 5),
+      round(s.ozoneLossKg, 5),
+    ]),
+  ];
+  const width = SEGMENT_HEADER.length;
+  return rows.map((row) => [...row, ...Array<Cell>(Math.max(0, width - row.length)).fill(null)].map(field).join(',')).join('\r\n') + '\r\n';
+}
+
+function fileStem(r: ScreeningRecord): string {
+  const label = routeLabel(r.input)
+    .normalize('NFKD')
+    .replace(/[^A-Za-z0-9]+/g, '-')
+    .replace(/^-+|-+$/g, '')
+    .toLowerCase()
+    .slice(0, 60);
+  return label ? `screening-${r.id}-${label}` : `screening-${r.id}`;
+}
+
+/** The saved screening as a download: `?format=csv` (default) or `?format=json`. */
+export const GET = workspaceRoute<{ slug: string; id: string }>('flights:read', async ({ req, params, member }) => {
+  const format = new URL(req.url).searchParams.get('format') ?? 'csv';
+  if (format !== 'csv' && format !== 'json') throw invalidFields([{ path: 'format', message: 'The format must be csv or json.' }]);
+  const record = await getScreening({ workspaceId: member.workspace.id }, idParam(params.id));
+  const stem = fileStem(record);
+  if (format === 'json') {
+    const body = JSON.stringify({ id: record.id, name: record.name, createdAt: record.createdAt, input: record.input, result: record.result }, null, 2);
+    return new Response(body, {
+      status: 200,
+      headers: { 'content-type': 'application/json; charset=utf-8', 'content-disposition': `attachment; filename="${stem}.json"` },
+    });
+  }
+  return new Response(`\ufeff${toCsv(record)}`, {
+    status: 200,
+    headers: { 'content-type': 'text/csv; charset=utf-8; header=present', 'content-disposition': `attachment; filename="${stem}.csv"` },
+  });
+});
