@@ -1,6 +1,11 @@
 import 'server-only';
 import type { Knex } from 'knex';
-import { db } from './client';
+import { db, insertId, nowIso, writeTx } from './client';
+import { createAuditEntry } from './audit';
+import type { LibraryActor } from './engines';
+import { notFound } from '@/lib/errors';
+import { tropopauseFromSounding } from '@/lib/screening';
+import type { SoundingCreate } from '@/lib/validation/library';
 
 export interface SoundingLevelDto {
   altitudeM?: number;
@@ -14,11 +19,13 @@ export interface SoundingDto {
   station: string;
   observedAt: string | null;
   levels: SoundingLevelDto[];
+  /** WMO (1957) first lapse-rate tropopause, or null when the sounding has none. */
   tropopause: { altitudeM: number; pressureHpa: number; temperatureK: number } | null;
   createdAt: string;
 }
 
 type Row = Record<string, unknown>;
+type Db = Knex | Knex.Transaction;
 
 export const soundingOf = (r: Row): SoundingDto => ({
   id: Number(r.id),
@@ -38,7 +45,55 @@ export const soundingOf = (r: Row): SoundingDto => ({
 });
 
 /** Soundings of a workspace, newest first. */
-export async function listSoundings(scope: { workspaceId: number }, trx: Knex | Knex.Transaction = db()): Promise<SoundingDto[]> {
+export async function listSoundings(scope: { workspaceId: number }, trx: Db = db()): Promise<SoundingDto[]> {
   const rows = await trx('soundings').where({ workspace_id: scope.workspaceId }).orderBy('created_at', 'desc').orderBy('id', 'desc');
   return rows.map(soundingOf);
+}
+
+export async function getSounding(scope: { workspaceId: number }, id: number, trx: Db = db()): Promise<SoundingDto> {
+  const row = await trx('soundings').where({ workspace_id: scope.workspaceId, id }).first();
+  if (!row) throw notFound('No sounding with that id in this workspace.');
+  return soundingOf(row);
+}
+
+/**
+ * Stores a sounding with its WMO tropopause, found once here. Levels that do not fit together
+ * (altitudes not rising as pressures fall) are a 422 at `levels.N`, nothing saved.
+ */
+export async function createSounding(scope: { workspaceId: number }, input: SoundingCreate, by: LibraryActor): Promise<SoundingDto> {
+  const levels: SoundingLevelDto[] = input.levels.map((l) => ({
+    ...(l.altitudeM !== undefined ? { altitudeM: l.altitudeM } : {}),
+    ...(l.pressureHpa !== undefined ? { pressureHpa: l.pressureHpa } : {}),
+    temperatureK: l.temperatureK,
+  }));
+  const tropopause = tropopauseFromSounding(levels);
+  return writeTx(async (trx) => {
+    const id = await insertId(
+      trx('soundings').insert(
+        {
+          workspace_id: scope.workspaceId,
+          name: input.name,
+          station: input.station,
+          observed_at: input.observedAt,
+          levels_json: JSON.stringify(levels),
+          tropopause_altitude_m: tropopause?.altitudeM ?? null,
+          tropopause_pressure_hpa: tropopause?.pressureHpa ?? null,
+          tropopause_temperature_k: tropopause?.temperatureK ?? null,
+          created_by: by.userId,
+          created_at: nowIso(),
+        },
+        ['id'],
+      ),
+    );
+    await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'sounding.create', target: `sounding:${id}`, detail: { name: input.name, levels: levels.length } }, trx);
+    return getSounding(scope, id, trx);
+  });
+}
+
+export async function deleteSounding(scope: { workspaceId: number }, id: number, by: LibraryActor): Promise<void> {
+  await writeTx(async (trx) => {
+    const s = await getSounding(scope, id, trx);
+    await trx('soundings').where({ workspace_id: scope.workspaceId, id }).delete();
+    await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'sounding.delete', target: `sounding:${id}`, detail: { name: s.name } }, trx);
+  });
 }

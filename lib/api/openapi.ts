@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { screeningInputSchema, soundingLevelSchema, compareCruiseLevelsOptionsSchema } from '@/lib/validation/screening';
 import { workspaceCreateSchema, apiKeyCreateSchema } from '@/lib/validation/workspaces';
+import { aircraftTypeSaveSchema, engineSaveSchema, routeSaveSchema, soundingCreateSchema } from '@/lib/validation/library';
 
 /**
  * The OpenAPI 3.1 document of /api/v1, with request schemas generated from the same zod schemas the
@@ -49,6 +50,58 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   },
   '/workspaces/{slug}/screenings/preview': {
     post: { summary: 'Screen without saving (not billed, throttled), with the what-if cruise levels; optional whatIf options', permission: 'screenings:create', requestBody: screeningInputSchema, responses: { '200': '{ input, result, levels }' } },
+  },
+  '/workspaces/{slug}/routes': {
+    get: { summary: 'Saved routes, by name, each with its great-circle distanceKm', permission: 'flights:read', responses: { '200': '{ items }' } },
+    post: { summary: 'Save a route: name (unique in the workspace), waypoints ({ airport } or { lat, lon }), notes', permission: 'library:write', requestBody: routeSaveSchema, responses: { '201': 'The route with distanceKm', '409': 'Name taken' } },
+  },
+  '/workspaces/{slug}/routes/{id}': {
+    get: { summary: 'One saved route', permission: 'flights:read', responses: { '200': 'The route with distanceKm' } },
+    patch: { summary: 'Change any of name, waypoints, notes', permission: 'library:write', requestBody: routeSaveSchema.partial(), responses: { '200': 'The route', '409': 'Name taken' } },
+    delete: { summary: 'Delete a saved route', permission: 'library:write', responses: { '204': 'Deleted' } },
+  },
+  '/workspaces/{slug}/engines': {
+    get: { summary: 'Engines (ICAO LTO certification fuel flows kg/s and EI NOx g/kg, idle, approach, climb-out, take-off)', permission: 'flights:read', responses: { '200': '{ items }' } },
+    post: { summary: 'Add an engine: four fuel flows rising idle to take-off, four EI NOx above 0 and at most 200 g/kg, source note', permission: 'library:write', requestBody: engineSaveSchema, responses: { '201': 'The engine', '409': 'Name taken' } },
+  },
+  '/workspaces/{slug}/engines/{id}': {
+    get: { summary: 'One engine', permission: 'flights:read', responses: { '200': 'The engine' } },
+    patch: { summary: 'Change any of name, fuelFlowKgS, eiNoxGPerKg, source', permission: 'library:write', requestBody: engineSaveSchema, responses: { '200': 'The engine', '409': 'Name taken' } },
+    delete: { summary: 'Delete an engine', permission: 'library:write', responses: { '204': 'Deleted', '409': 'An aircraft type uses it' } },
+  },
+  '/workspaces/{slug}/engines/import': {
+    get: { summary: 'The engines CSV template', permission: 'flights:read', responses: { '200': 'text/csv' } },
+    post: {
+      summary: 'Import engines from CSV (name, idle_ff_kg_s, approach_ff_kg_s, climb_out_ff_kg_s, take_off_ff_kg_s, idle_ei, approach_ei, climb_out_ei, take_off_ei, source), all or nothing',
+      permission: 'library:write',
+      requestBody: { multipart: { file: 'The CSV, UTF-8, header row first' } },
+      responses: { '201': '{ items, warnings }', '413': 'File too large', '422': '{ error, problems: { line, column, message }[], warnings }' },
+    },
+  },
+  '/workspaces/{slug}/aircraft-types': {
+    get: { summary: 'Aircraft types, by code', permission: 'flights:read', responses: { '200': '{ items }' } },
+    post: { summary: 'Add an aircraft type: code (unique), engine or direct EI NOx, engine count, typical Mach and flight level, default fleet', permission: 'library:write', requestBody: aircraftTypeSaveSchema, responses: { '201': 'The type', '409': 'Code taken' } },
+  },
+  '/workspaces/{slug}/aircraft-types/{id}': {
+    get: { summary: 'One aircraft type', permission: 'flights:read', responses: { '200': 'The type' } },
+    patch: { summary: 'Change any field of a type', permission: 'library:write', requestBody: aircraftTypeSaveSchema, responses: { '200': 'The type', '409': 'Code taken' } },
+    delete: { summary: 'Delete an aircraft type', permission: 'library:write', responses: { '204': 'Deleted' } },
+  },
+  '/workspaces/{slug}/soundings': {
+    get: { summary: 'Soundings, newest first, each with its levels and WMO tropopause (or null)', permission: 'flights:read', responses: { '200': '{ items }' } },
+    post: { summary: 'Store a sounding { name, station?, observedAt?, levels }; its WMO (1957) tropopause is found and stored', permission: 'library:write', requestBody: soundingCreateSchema, responses: { '201': 'The sounding' } },
+  },
+  '/workspaces/{slug}/soundings/upload': {
+    post: {
+      summary: 'A sounding from a CSV of levels (altitude_m and/or pressure_hpa; temperature_k or temperature_c); form fields name, station, observedAt',
+      permission: 'library:write',
+      requestBody: { multipart: { file: 'The CSV of levels', name: 'Sounding name', station: 'Station (optional)', observedAt: 'YYYY-MM-DDTHH:MMZ (optional)' } },
+      responses: { '201': 'The sounding', '413': 'File too large', '422': '{ error, problems: { line, column, message }[], warnings }' },
+    },
+  },
+  '/workspaces/{slug}/soundings/{id}': {
+    get: { summary: 'One sounding', permission: 'flights:read', responses: { '200': 'The sounding' } },
+    delete: { summary: 'Delete a sounding', permission: 'library:write', responses: { '204': 'Deleted' } },
   },
   '/atmosphere': {
     get: { summary: 'ICAO standard atmosphere at a flight level or altitude', query: { flightLevel: 'number', altitudeM: 'geopotential m' }, responses: { '200': '{ temperatureK, pressurePa, densityKgM3, speedOfSoundMs, ... }' } },

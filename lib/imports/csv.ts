@@ -1,0 +1,224 @@
+import Papa from 'papaparse';
+import { badRequest, tooLarge } from '@/lib/errors';
+
+/**
+ * A small, generic CSV reader for the product's imports (DESIGN.md "Import formats"): UTF-8 with or
+ * without a BOM, comma-separated, a header row, header names case-insensitive and trimmed, CRLF or
+ * LF line ends, quoted values (which may span lines). It only reads the table; each import checks
+ * its own values.
+ *
+ * Line numbers count the header as line 1 and are physical lines of the file, so a quoted value
+ * spanning lines moves the rows after it down, as a spreadsheet or text editor would show them.
+ */
+
+/** One problem with one place in a CSV: `line` (header = 1), `column` (a header name, or '' for the whole line). */
+export interface CsvProblem {
+  line: number;
+  column: string;
+  message: string;
+}
+
+/** A column the import knows; `name` is lower-case, as written in the header (snake_case). */
+export interface CsvColumnSpec {
+  name: string;
+  required?: boolean;
+}
+
+/** A data row: its line number and its values by (lower-case) column name, trimmed. Unknown columns are left out. */
+export interface CsvRow {
+  line: number;
+  values: Record<string, string>;
+}
+
+export interface CsvTable {
+  /** The line the header was found on (1 unless the file starts with blank lines); null for an empty file. */
+  headerLine: number | null;
+  /** Known columns present in the header, lower-case, in file order. */
+  columns: string[];
+  rows: CsvRow[];
+  /** Problems that make the file unusable as it stands (missing columns, ragged or broken lines, too many rows). */
+  problems: CsvProblem[];
+  /** Notes that do not block the import: unknown columns, which are ignored. */
+  warnings: CsvProblem[];
+}
+
+export interface ParseCsvOptions {
+  columns: readonly CsvColumnSpec[];
+  /** Most data rows accepted; the first row beyond it is a problem and reading stops. */
+  maxRows?: number;
+}
+
+/** Decodes uploaded bytes as UTF-8 (BOM dropped); a file that is not UTF-8 is a 400 naming the fix. */
+export function decodeCsvBytes(bytes: Uint8Array): string {
+  try {
+    return new TextDecoder('utf-8', { fatal: true, ignoreBOM: false }).decode(bytes);
+  } catch {
+    throw badRequest('The file is not UTF-8 text. Save it from your spreadsheet as "CSV UTF-8" and upload it again.');
+  }
+}
+
+/** Reads a CSV text into rows keyed by column name, with problems and warnings by line and column. */
+export function parseCsv(input: string, options: ParseCsvOptions): CsvTable {
+  const text = input.replace(/^\uFEFF/, '').replace(/\r\n?/g, '\n');
+  const known = new Map(options.columns.map((c) => [c.name.toLowerCase(), c]));
+  const problems: CsvProblem[] = [];
+  const warnings: CsvProblem[] = [];
+  const rows: CsvRow[] = [];
+  let header: (string | null)[] | null = null;
+  let headerWidth = 0;
+  let headerLine: number | null = null;
+  const columns: string[] = [];
+
+  let scanned = 0;
+  let newlines = 0;
+  const lineAt = (offset: number): number => {
+    for (; scanned < offset && scanned < text.length; scanned++) if (text.charCodeAt(scanned) === 10) newlines++;
+    return newlines + 1;
+  };
+
+  let start = 0;
+  let stopped = false;
+  Papa.parse<string[]>(text, {
+    delimiter: ',',
+    newline: '\n',
+    quoteChar: '"',
+    skipEmptyLines: false,
+    step: (result, parser) => {
+      const line = lineAt(start);
+      const cursor = result.meta.cursor;
+      start = cursor + 1;
+      if (stopped) return;
+      const cells = result.data;
+      for (const e of result.errors) {
+        problems.push({ line, column: '', message: e.type === 'Quotes' ? 'A quoted value on this line is not closed (a " is missing).' : `This line cannot be read: ${e.message}.` });
+      }
+      if (cells.every((c) => c.trim() === '')) return;
+      if (!header) {
+        headerWidth = cells.length;
+        headerLine = line;
+        const seen = new Set<string>();
+        header = cells.map((raw, i) => {
+          const name = raw.trim().toLowerCase();
+          if (!name) {
+            warnings.push({ line, column: `(column ${i + 1})`, message: `Column ${i + 1} has no name in the header and was ignored.` });
+            return null;
+          }
+          if (!known.has(name)) {
+            warnings.push({ line, column: name, message: `The column "${raw.trim()}" is not one this import reads; it was ignored.` });
+            return null;
+          }
+          if (seen.has(name)) {
+            problems.push({ line, column: name, message: `The column "${name}" appears twice in the header.` });
+            return null;
+          }
+          seen.add(name);
+          columns.push(name);
+          return name;
+        });
+        for (const spec of options.columns) {
+          if (spec.required && !seen.has(spec.name.toLowerCase())) {
+            problems.push({ line, column: spec.name, message: `The header has no "${spec.name}" column.` });
+          }
+        }
+        return;
+      }
+      if (options.maxRows !== undefined && rows.length >= options.maxRows) {
+        problems.push({ line, column: '', message: `A file may have at most ${options.maxRows} rows; this one has more. Split it and import the parts.` });
+        stopped = true;
+        parser.abort();
+        return;
+      }
+      if (cells.length !== headerWidth) {
+        problems.push({ line, column: '', message: `This line has ${cells.length} value${cells.length === 1 ? '' : 's'}; the header has ${headerWidth}. Check for a missing or extra comma.` });
+        return;
+      }
+      const values: Record<string, string> = {};
+      header.forEach((name, i) => {
+        if (name) values[name] = (cells[i] ?? '').trim();
+      });
+      rows.push({ line, values });
+    },
+  });
+  if (!header) problems.push({ line: 1, column: '', message: 'The file is empty: its first line must be the header row.' });
+  return { headerLine, columns, rows, problems, warnings };
+}
+
+/**
+ * A number cell: `null` when empty, `NaN` when it is not a plain decimal number (a comma as decimal
+ * separator or a unit suffix is refused rather than guessed).
+ */
+export function parseNumberCell(value: string | undefined): number | null {
+  const v = (value ?? '').trim();
+  if (v === '') return null;
+  return /^[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?$/.test(v) ? Number(v) : Number.NaN;
+}
+
+/** Quotes a value for CSV output when it needs it. */
+export function csvCell(value: string | number): string {
+  const s = String(value);
+  return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+}
+
+export interface CsvUpload {
+  text: string;
+  fileName: string;
+  /** The other (text) fields of the form, trimmed. */
+  fields: Record<string, string>;
+}
+
+/**
+ * Reads a multipart/form-data upload with the CSV in `field` (default `file`): 413 above `maxBytes`
+ * (checked while reading, before any parsing), 400 when the body is not multipart or has no file.
+ */
+export async function readCsvUpload(req: Request, options: { maxBytes: number; field?: string }): Promise<CsvUpload> {
+  const field = options.field ?? 'file';
+  const type = req.headers.get('content-type') ?? '';
+  if (!/^multipart\/form-data/i.test(type)) throw badRequest(`Send the CSV as multipart/form-data, in the field "${field}".`);
+  const limitKb = Math.round(options.maxBytes / 1000);
+  // The multipart envelope adds a little around the file; allow for it so the limit reads as a file size.
+  const envelope = 16_384;
+  const declared = Number(req.headers.get('content-length') ?? '0');
+  if (declared > options.maxBytes + envelope) throw tooLarge(`The file is larger than ${limitKb} kB.`);
+  const chunks: Uint8Array[] = [];
+  let size = 0;
+  if (req.body) {
+    const reader = req.body.getReader();
+    for (;;) {
+      const { done, value } = await reader.read();
+      if (done) break;
+      size += value.byteLength;
+      if (size > options.maxBytes + envelope) {
+        await reader.cancel();
+        throw tooLarge(`The file is larger than ${limitKb} kB.`);
+      }
+      chunks.push(value);
+    }
+  }
+  let form: FormData;
+  try {
+    form = await new Response(Buffer.concat(chunks), { headers: { 'content-type': type } }).formData();
+  } catch {
+    throw badRequest('The upload could not be read as a form. Send the CSV as multipart/form-data.');
+  }
+  const file = form.get(field);
+  if (!file || typeof file === 'string') throw badRequest(`Attach the CSV file in the field "${field}".`);
+  if (file.size > options.maxBytes) throw tooLarge(`The file is larger than ${limitKb} kB.`);
+  const fields: Record<string, string> = {};
+  for (const [k, v] of form.entries()) if (k !== field && typeof v === 'string') fields[k] = v.trim();
+  return { text: decodeCsvBytes(new Uint8Array(await file.arrayBuffer())), fileName: file.name || 'upload.csv', fields };
+}
+
+/**
+ * The 422 of an import that had problems (DESIGN.md): `{ error, problems: { line, column, message }[] }`,
+ * plus `warnings` and, when form fields beside the file were wrong too, `error.fields`.
+ */
+export function csvRejection(problems: readonly CsvProblem[], warnings: readonly CsvProblem[] = [], fields: readonly { path: string; message: string }[] = []): Response {
+  const n = problems.length;
+  const message = n
+    ? `The file has ${n} problem${n === 1 ? '' : 's'}; nothing was saved. Fix ${n === 1 ? 'it' : 'them'} and upload the whole file again.`
+    : 'Some fields need attention; nothing was saved.';
+  return Response.json(
+    { error: { code: 'invalid_fields', message, ...(fields.length ? { fields } : {}) }, problems, warnings },
+    { status: 422, headers: { 'cache-control': 'no-store' } },
+  );
+}
