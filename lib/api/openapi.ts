@@ -1,6 +1,8 @@
 import { z } from 'zod';
 import { screeningInputSchema, soundingLevelSchema, compareCruiseLevelsOptionsSchema } from '@/lib/validation/screening';
 import { workspaceCreateSchema, apiKeyCreateSchema } from '@/lib/validation/workspaces';
+import { reportCreateSchema, reportSendSchema } from '@/lib/validation/reports';
+import { fleetCreateSchema, fleetUpdateSchema } from '@/lib/validation/fleets';
 import { aircraftTypeSaveSchema, engineSaveSchema, routeSaveSchema, soundingCreateSchema } from '@/lib/validation/library';
 
 /**
@@ -111,6 +113,39 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   },
   '/airports': {
     get: { summary: 'Airport type-ahead by ICAO/IATA code or name (at most 20)', query: { q: 'text', limit: '1-20' }, responses: { '200': '{ items: { icao, iata, name, country, lat, lon }[] }' } },
+  },
+  '/workspaces/{slug}/fleets': {
+    get: { summary: 'Fleets, each with the aircraft types that default to it and its screened flights', permission: 'flights:read', responses: { '200': '{ items }' } },
+    post: { summary: 'Create a fleet', permission: 'fleets:write', requestBody: fleetCreateSchema, responses: { '201': 'The fleet', '409': 'Name taken' } },
+  },
+  '/workspaces/{slug}/fleets/{id}': {
+    get: { summary: 'One fleet', permission: 'flights:read', responses: { '200': 'The fleet' } },
+    patch: { summary: 'Rename or describe a fleet, or set exactly which aircraft types default to it (aircraftTypeIds)', permission: 'fleets:write', requestBody: fleetUpdateSchema, responses: { '200': 'The fleet', '409': 'Name taken' } },
+    delete: { summary: "Delete a fleet; its flights fall back to their aircraft type's default fleet", permission: 'fleets:write', responses: { '204': 'Deleted' } },
+  },
+  '/workspaces/{slug}/fleets/compare': {
+    get: {
+      summary: "Fleet comparison of screened flights (SI units): rows per fleet (and month or aircraft type), totals with ratios from sums, monthly series per fleet, fleet-scale context, cautions. A flight's fleet is its own (CSV fleet column), else its aircraft type's default.",
+      permission: 'flights:read',
+      query: { from: 'YYYY-MM-DD (default: first day of the month two months before `to`)', to: 'YYYY-MM-DD (default: today)', aircraft: 'aircraft type code', route: 'airport codes, e.g. EGLL or EGLL-KSFO (origin or destination)', minFl: 'level band bottom, 0-660', maxFl: 'level band top, 0-660', groupBy: 'fleet | month | aircraft', fleets: 'comma-separated fleet ids' },
+      responses: { '200': '{ period, groupBy, filters, rows, totals, months, series, context, notes, cautions }' },
+    },
+  },
+  '/workspaces/{slug}/reports': {
+    get: { summary: 'Stored fleet reports, newest first', permission: 'flights:read', query: { cursor: 'id from nextCursor', limit: '1-200' }, responses: { '200': '{ items, nextCursor }' } },
+    post: { summary: "Build and store a fleet report (PDF in the builder's units, CSV in SI units) for a period and fleets", permission: 'reports:create', requestBody: reportCreateSchema, responses: { '201': 'The report with links to pdf and csv' } },
+  },
+  '/workspaces/{slug}/reports/{id}': {
+    get: { summary: 'One report with its summary and e-mail send history', permission: 'flights:read', responses: { '200': 'The report' } },
+  },
+  '/workspaces/{slug}/reports/{id}/pdf': {
+    get: { summary: 'The report PDF as an attachment', permission: 'flights:read', responses: { '200': 'application/pdf' } },
+  },
+  '/workspaces/{slug}/reports/{id}/csv': {
+    get: { summary: 'The report CSV (RFC 4180, formula cells neutralised) as an attachment', permission: 'flights:read', responses: { '200': 'text/csv' } },
+  },
+  '/workspaces/{slug}/reports/{id}/send': {
+    post: { summary: 'E-mail the report PDF to up to 20 recipients; every attempt is recorded', permission: 'reports:send', requestBody: reportSendSchema, responses: { '201': '{ id, recipients, status, messageId, sentAt }', '503': 'The mail server refused; the attempt is recorded' } },
   },
   '/openapi.json': {
     get: { summary: 'This document', responses: { '200': 'OpenAPI 3.1' } },

@@ -1,0 +1,11 @@
+import { idParam, json, workspaceRoute } from '@/lib/api/route';
+import { getReport, listReportSends } from '@/db/reports';
+import { reportJson } from '@/lib/reports/json';
+
+/** One report: metadata, summary (SI units), its e-mail sends and download links. */
+export const GET = workspaceRoute<{ slug: string; id: string }>('flights:read', async ({ params, member }) => {
+  const scope = { workspaceId: member.workspace.id };
+  const id = idParam(params.id);
+  const [report, sends] = await Promise.all([getReport(scope, id), listReportSends(scope, id)]);
+  return json({ ...reportJson(member.workspace.slug, report), sendHistory: sends });
+});

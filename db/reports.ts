@@ -1,0 +1,186 @@
+import 'server-only';
+import { db, insertId, nowIso, writeTx } from './client';
+import { createAuditEntry } from './audit';
+import { notFound } from '@/lib/errors';
+import type { ReportSummary } from '@/lib/reports/model';
+
+export interface ReportListItem {
+  id: number;
+  name: string;
+  periodFrom: string;
+  periodTo: string;
+  fleetIds: number[];
+  fleetNames: string[];
+  createdAt: string;
+  createdBy: string | null;
+  pdfBytes: number;
+  sends: number;
+  lastSentAt: string | null;
+}
+
+export interface ReportRecord extends ReportListItem {
+  summary: ReportSummary;
+}
+
+export interface ReportSendDto {
+  id: number;
+  recipients: string[];
+  sentBy: string | null;
+  status: 'sent' | 'failed';
+  messageId: string | null;
+  error: string | null;
+  sentAt: string;
+}
+
+type Row = Record<string, unknown>;
+
+function parseSummary(r: Row): ReportSummary {
+  return JSON.parse(String(r.summary_json)) as ReportSummary;
+}
+
+function itemOf(r: Row): ReportListItem {
+  const summary = parseSummary(r);
+  return {
+    id: Number(r.id),
+    name: String(r.name),
+    periodFrom: String(r.period_from),
+    periodTo: String(r.period_to),
+    fleetIds: JSON.parse(String(r.fleet_ids_json)) as number[],
+    fleetNames: summary.fleets.map((f) => f.name),
+    createdAt: String(r.created_at),
+    createdBy: (r.created_by_name as string | null) || (r.created_by_email as string | null) || null,
+    pdfBytes: Number(r.pdf_bytes ?? 0),
+    sends: Number(r.sends ?? 0),
+    lastSentAt: (r.last_sent_at as string | null) ?? null,
+  };
+}
+
+function reportQuery(workspaceId: number) {
+  const k = db();
+  return k('reports as r')
+    .leftJoin('users as u', 'u.id', 'r.created_by')
+    .where('r.workspace_id', workspaceId)
+    .select(
+      'r.id',
+      'r.name',
+      'r.period_from',
+      'r.period_to',
+      'r.fleet_ids_json',
+      'r.summary_json',
+      'r.created_at',
+      'u.name as created_by_name',
+      'u.email as created_by_email',
+      k.raw('length(r.pdf) as pdf_bytes'),
+      k.raw("(select count(*) from report_sends s where s.report_id = r.id and s.status = 'sent') as sends"),
+      k.raw("(select max(s.sent_at) from report_sends s where s.report_id = r.id and s.status = 'sent') as last_sent_at"),
+    );
+}
+
+export async function createReport(
+  scope: { workspaceId: number },
+  input: { name: string; summary: ReportSummary; fleetIds: number[]; pdf: Uint8Array; csv: string; createdBy: number | null; actor: string },
+): Promise<ReportRecord> {
+  const id = await writeTx(async (trx) => {
+    const newId = await insertId(
+      trx('reports')
+        .insert({
+          workspace_id: scope.workspaceId,
+          name: input.name.slice(0, 160),
+          period_from: input.summary.period.from,
+          period_to: input.summary.period.to,
+          fleet_ids_json: JSON.stringify(input.fleetIds),
+          summary_json: JSON.stringify(input.summary),
+          pdf: Buffer.from(input.pdf),
+          csv: input.csv,
+          created_by: input.createdBy,
+          created_at: nowIso(),
+        })
+        .returning('id'),
+    );
+    await createAuditEntry(
+      { workspaceId: scope.workspaceId, userId: input.createdBy, actor: input.actor, action: 'report.create', target: `report:${newId}`, detail: { name: input.name, from: input.summary.period.from, to: input.summary.period.to } },
+      trx,
+    );
+    return newId;
+  });
+  return getReport(scope, id);
+}
+
+/** Newest first, keyset-paged by id. */
+export async function listReports(scope: { workspaceId: number }, opts: { cursor?: number; limit?: number } = {}): Promise<{ items: ReportListItem[]; nextCursor: string | null }> {
+  const limit = Math.min(Math.max(opts.limit ?? 50, 1), 200);
+  const q = reportQuery(scope.workspaceId).orderBy('r.id', 'desc').limit(limit + 1);
+  if (opts.cursor) q.andWhere('r.id', '<', opts.cursor);
+  const rows = (await q) as Row[];
+  const items = rows.slice(0, limit).map(itemOf);
+  return { items, nextCursor: rows.length > limit ? String(items[items.length - 1].id) : null };
+}
+
+export async function getReport(scope: { workspaceId: number }, id: number): Promise<ReportRecord> {
+  const row = (await reportQuery(scope.workspaceId).andWhere('r.id', id).first()) as Row | undefined;
+  if (!row) throw notFound('No report with that id in this workspace.');
+  return { ...itemOf(row), summary: parseSummary(row) };
+}
+
+export async function getReportPdf(scope: { workspaceId: number }, id: number): Promise<{ name: string; pdf: Buffer }> {
+  const row = (await db()('reports').where({ workspace_id: scope.workspaceId, id }).select('name', 'pdf').first()) as Row | undefined;
+  if (!row) throw notFound('No report with that id in this workspace.');
+  const pdf = row.pdf;
+  return { name: String(row.name), pdf: Buffer.isBuffer(pdf) ? pdf : Buffer.from(pdf as Uint8Array) };
+}
+
+export async function getReportCsv(scope: { workspaceId: number }, id: number): Promise<{ name: string; csv: string }> {
+  const row = (await db()('reports').where({ workspace_id: scope.workspaceId, id }).select('name', 'csv').first()) as Row | undefined;
+  if (!row) throw notFound('No report with that id in this workspace.');
+  return { name: String(row.name), csv: String(row.csv) };
+}
+
+export async function recordReportSend(
+  scope: { workspaceId: number },
+  input: { reportId: number; recipients: string[]; sentBy: number | null; status: 'sent' | 'failed'; messageId: string | null; error: string | null; actor: string },
+): Promise<ReportSendDto> {
+  const id = await writeTx(async (trx) => {
+    const report = await trx('reports').where({ workspace_id: scope.workspaceId, id: input.reportId }).first();
+    if (!report) throw notFound('No report with that id in this workspace.');
+    const newId = await insertId(
+      trx('report_sends')
+        .insert({
+          report_id: input.reportId,
+          recipients: JSON.stringify(input.recipients),
+          sent_by: input.sentBy,
+          status: input.status,
+          message_id: input.messageId,
+          error: input.error ? input.error.slice(0, 500) : null,
+          sent_at: nowIso(),
+        })
+        .returning('id'),
+    );
+    await createAuditEntry(
+      { workspaceId: scope.workspaceId, userId: input.sentBy, actor: input.actor, action: input.status === 'sent' ? 'report.send' : 'report.send_failed', target: `report:${input.reportId}`, detail: { recipients: input.recipients.length } },
+      trx,
+    );
+    return newId;
+  });
+  const sends = await listReportSends(scope, input.reportId);
+  const found = sends.find((s) => s.id === id);
+  if (!found) throw notFound();
+  return found;
+}
+
+export async function listReportSends(scope: { workspaceId: number }, reportId: number): Promise<ReportSendDto[]> {
+  const rows = (await db()('report_sends as s')
+    .join('reports as r', 'r.id', 's.report_id')
+    .leftJoin('users as u', 'u.id', 's.sent_by')
+    .where({ 'r.workspace_id': scope.workspaceId, 's.report_id': reportId })
+    .orderBy('s.id', 'desc')
+    .select('s.*', 'u.name as sent_by_name', 'u.email as sent_by_email')) as Row[];
+  return rows.map((r) => ({
+    id: Number(r.id),
+    recipients: JSON.parse(String(r.recipients)) as string[],
+    sentBy: (r.sent_by_name as string | null) || (r.sent_by_email as string | null) || null,
+    status: r.status === 'sent' ? 'sent' : 'failed',
+    messageId: (r.message_id as string | null) ?? null,
+    error: (r.error as string | null) ?? null,
+    sentAt: String(r.sent_at),
+  }));
+}

@@ -1,0 +1,61 @@
+import type { GroupBy } from '@/lib/validation/fleets';
+
+/** One row of the fleet comparison. Masses in kg (NOx as NO2), distances in km; ratios from sums. */
+export interface CompareRow {
+  /** Stable key: fleet id (or "none"), plus month or aircraft when grouped. */
+  key: string;
+  fleetId: number | null;
+  fleetName: string;
+  month: string | null;
+  aircraftCode: string | null;
+  flights: number;
+  distanceKm: number;
+  fuelKg: number;
+  co2Kg: number;
+  noxTotalKg: number;
+  noxAboveKg: number;
+  /** NOx above the tropopause / NOx total, from the sums; null when there is no NOx. */
+  shareAbove: number | null;
+  /** NOx above the tropopause per 1000 km flown, kg; null when there is no distance. */
+  noxAbovePer1000KmKg: number | null;
+  ozone: { centralKg: number; lowKg: number; highKg: number };
+}
+
+export interface FleetSeries {
+  fleetId: number | null;
+  fleetName: string;
+  /** Per month of `months`: NOx above the tropopause, kg. */
+  noxAboveKg: number[];
+  /** Per month of `months`: share above, null for a month without NOx. */
+  shareAbove: (number | null)[];
+}
+
+export interface FleetContextRow {
+  fleetId: number | null;
+  fleetName: string;
+  /** NOx above the tropopause scaled from the period to a year, kg per year. */
+  annualNoxAboveKg: number;
+  studies: {
+    study: string;
+    citation: string;
+    altitudeKm: readonly [number, number];
+    applicable: boolean;
+    noxInBandKgPerYear: number;
+    /** Global column ozone change, % (negative is a loss): central and the +/-50 % band. */
+    columnChangePct: { central: number; low: number; high: number } | null;
+    note: string;
+  }[];
+}
+
+export interface FleetComparison {
+  period: { from: string; to: string; days: number };
+  groupBy: GroupBy;
+  filters: { aircraft: string | null; route: string | null; minFl: number | null; maxFl: number | null; fleets: number[] | null };
+  rows: CompareRow[];
+  totals: CompareRow;
+  months: string[];
+  series: FleetSeries[];
+  context: { fleets: FleetContextRow[]; total: FleetContextRow; method: string };
+  notes: { co2: string; ratios: string; ozone: string; levelBand: string };
+  cautions: string[];
+}

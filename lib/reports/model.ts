@@ -1,0 +1,74 @@
+import type { UnitSystem } from '@/db/users';
+import type { CompareRow, FleetContextRow, FleetSeries } from '@/lib/fleets/types';
+import type { CsvCell } from './csv';
+import { toCsv } from './csv';
+
+/** What a stored report holds besides its PDF and CSV (`reports.summary_json`). SI units. */
+export interface ReportSummary {
+  version: 1;
+  title: string;
+  workspaceName: string;
+  period: { from: string; to: string; days: number };
+  fleets: { id: number; name: string }[];
+  generatedAt: string;
+  generatedBy: string;
+  /** The unit preference the PDF was drawn in. */
+  units: UnitSystem;
+  engineVersions: string[];
+  totals: CompareRow;
+  perFleet: CompareRow[];
+  perFleetMonth: CompareRow[];
+  months: string[];
+  series: FleetSeries[];
+  context: { fleets: FleetContextRow[]; total: FleetContextRow; method: string };
+  notes: { co2: string; ratios: string; ozone: string; levelBand: string };
+  cautions: string[];
+}
+
+export const CSV_HEADER = [
+  'fleet',
+  'month',
+  'flights',
+  'distance_km',
+  'fuel_kg',
+  'co2_kg',
+  'nox_kg',
+  'nox_above_tropopause_kg',
+  'share_above',
+  'nox_above_per_1000_km_kg',
+  'ozone_loss_central_kg',
+  'ozone_loss_low_kg',
+  'ozone_loss_high_kg',
+] as const;
+
+function csvRow(r: CompareRow, month: string): CsvCell[] {
+  return [
+    r.fleetName,
+    month,
+    r.flights,
+    r.distanceKm,
+    r.fuelKg,
+    r.co2Kg,
+    r.noxTotalKg,
+    r.noxAboveKg,
+    r.shareAbove,
+    r.noxAbovePer1000KmKg,
+    r.ozone.centralKg,
+    r.ozone.lowKg,
+    r.ozone.highKg,
+  ];
+}
+
+/**
+ * The report's CSV: one row per fleet and month (months without flights are left out), each fleet's
+ * total (month "total"), then the grand total. SI units, named in the header.
+ */
+export function reportCsv(s: Pick<ReportSummary, 'perFleet' | 'perFleetMonth' | 'totals'>): string {
+  const rows: CsvCell[][] = [];
+  for (const f of s.perFleet) {
+    for (const m of s.perFleetMonth.filter((x) => x.fleetId === f.fleetId)) rows.push(csvRow(m, m.month ?? ''));
+    rows.push(csvRow(f, 'total'));
+  }
+  rows.push(csvRow(s.totals, 'total'));
+  return toCsv(CSV_HEADER, rows);
+}
