@@ -38,6 +38,11 @@ const REPLACEMENTS: Record<string, string> = {
   '⁸': '8',
   '⁹': '9',
   '⁻': '-',
+  'Ł': 'L',
+  'ł': 'l',
+  'Đ': 'D',
+  'đ': 'd',
+  'ı': 'i',
   '✓': 'yes',
   '✗': 'no',
 };
