@@ -83,6 +83,7 @@ export function parseEnginesCsv(text: string, options: { existingNames: Readonly
     }
     problems.push(...rowProblems);
   }
-  problems.sort((a, b) => a.line - b.line);
+  const order = (c: string) => (ENGINE_CSV_COLUMNS as readonly string[]).indexOf(c);
+  problems.sort((a, b) => a.line - b.line || order(a.column) - order(b.column));
   return { engines: problems.length ? [] : engines, problems, warnings: table.warnings };
 }

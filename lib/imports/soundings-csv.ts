@@ -108,6 +108,7 @@ export function parseSoundingCsv(text: string): SoundingCsvResult {
   }
   problems.push(...levelProblems);
   problems.push(...levelProblemsToCsv(soundingSetProblems(raw, 'levels'), lines, temperatureColumn));
-  problems.sort((a, b) => a.line - b.line);
+  const order = (c: string) => (SOUNDING_CSV_COLUMNS as readonly string[]).indexOf(c);
+  problems.sort((a, b) => a.line - b.line || order(a.column) - order(b.column));
   return { levels: problems.length ? [] : levels, lines, temperatureColumn, problems, warnings: table.warnings };
 }
