@@ -7,6 +7,7 @@ import { isRole } from '@/lib/auth/policy';
 import { conflict, notFound } from '@/lib/errors';
 import { randomToken, sha256Hex } from '@/lib/auth/tokens';
 import { normaliseEmail } from './users';
+import { startTrialBilling } from './billing';
 
 export interface WorkspaceDto {
   id: number;
@@ -74,6 +75,9 @@ const createdHooks: Hook[] = [];
 export function onWorkspaceCreated(hook: Hook): void {
   if (!createdHooks.includes(hook)) createdHooks.push(hook);
 }
+
+// Every new workspace starts on a free trial (billing state written in the creating transaction).
+onWorkspaceCreated(startTrialBilling);
 
 export async function createWorkspace(input: {
   name: string;

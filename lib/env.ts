@@ -27,7 +27,8 @@ const envSchema = z.object({
   STRIPE_API_HOST: z.string().default('127.0.0.1'),
   STRIPE_API_PORT: int(12111),
   STRIPE_API_PROTOCOL: z.enum(['http', 'https']).default('http'),
-  STRIPE_API_VERSION: z.string().default('2025-11-17.clover'),
+  STRIPE_API_VERSION: z.string().default('2026-10-28.endive'),
+  STRIPE_TIMEOUT_MS: int(8_000),
   STRIPE_WEBHOOK_SECRET: z.string().default('whsec_tropopass_local_fake'),
   RATE_LIMIT_SIGNIN_PER_15MIN: int(10),
   RATE_LIMIT_EMAIL_PER_HOUR: int(5),
@@ -39,7 +40,8 @@ const envSchema = z.object({
     .string()
     .regex(/^\d{4}-\d{2}-\d{2}$/, 'DEMO_TODAY must be YYYY-MM-DD')
     .optional(),
-  BILLING_SENDER: bool,
+  BILLING_SENDER: z.enum(['0', '1', 'true', 'false', '']).optional().transform((v) => v !== '0' && v !== 'false'),
+  BILLING_SENDER_INTERVAL_MS: int(2_000),
   IMPORT_WORKER: z.enum(['0', '1', 'true', 'false', '']).optional().transform((v) => v !== '0' && v !== 'false'),
 });
 

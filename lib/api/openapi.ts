@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { screeningInputSchema, soundingLevelSchema, compareCruiseLevelsOptionsSchema } from '@/lib/validation/screening';
 import { workspaceCreateSchema, apiKeyCreateSchema } from '@/lib/validation/workspaces';
+import { billingEmailSchema, cardChoiceSchema, subscribeSchema, subscriptionUpdateSchema } from '@/lib/validation/billing';
 import { reportCreateSchema, reportSendSchema } from '@/lib/validation/reports';
 import { fleetCreateSchema, fleetUpdateSchema } from '@/lib/validation/fleets';
 import { aircraftTypeSaveSchema, engineSaveSchema, routeSaveSchema, soundingCreateSchema } from '@/lib/validation/library';
@@ -34,6 +35,30 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   },
   '/workspaces/{slug}/api-keys/{id}': {
     delete: { summary: 'Revoke a key', permission: 'apikeys:manage', responses: { '204': 'Revoked' } },
+  },
+  '/workspaces/{slug}/usage': {
+    get: {
+      summary: "The current billing period's metered usage (one unit per screened flight) and estimated charge (base fee + units x per-flight price, 0 in a free trial), with how many units the payment service has counted and the ledger-versus-provider reconciliation over the period's minute-aligned window",
+      permission: 'usage:read',
+      responses: { '200': '{ units, periodStart, periodEnd, estimatedChargeCents, planId, status, sentUnits, pendingUnits, reconciliation: { ledgerUnits, providerUnits, difference, checkedAt } | null, ... }' },
+    },
+  },
+  '/workspaces/{slug}/billing': {
+    get: { summary: 'Plan, status, trial or period end, cancel-at-period-end, billing e-mail, test card on file, and invoices (null while the payment service is unreachable)', permission: 'billing:read', responses: { '200': 'The billing state with invoices' } },
+    patch: { summary: 'Set the billing e-mail (empty string: payment problems go to owners and finance admins only)', permission: 'billing:manage', requestBody: billingEmailSchema, responses: { '200': 'The billing state', '503': 'The payment service did not answer; nothing changed' } },
+  },
+  '/workspaces/{slug}/billing/subscription': {
+    post: { summary: 'Subscribe from a trial (the rest of the trial stays free) or after a cancellation, with a test card on file', permission: 'billing:manage', requestBody: subscribeSchema, responses: { '201': 'The billing state', '409': 'Already subscribed', '503': 'The payment service did not answer; nothing changed' } },
+    patch: { summary: 'Change plan (applies to the whole open period) and/or cancel at period end (true) or resume (false)', permission: 'billing:manage', requestBody: subscriptionUpdateSchema, responses: { '200': 'The billing state', '409': 'No running subscription', '503': 'The payment service did not answer; nothing changed' } },
+  },
+  '/workspaces/{slug}/billing/payment-method': {
+    put: { summary: 'Put a test card on file for future invoices: "succeeds" or "declined"', permission: 'billing:manage', requestBody: cardChoiceSchema, responses: { '200': 'The billing state', '503': 'The payment service did not answer; nothing changed' } },
+  },
+  '/workspaces/{slug}/billing/invoices/pay': {
+    post: { summary: 'Charge the open invoices with the card on file; screening resumes once they are paid', permission: 'billing:manage', responses: { '200': '{ paid, billing }', '402': 'The card was declined again', '503': 'The payment service did not answer' } },
+  },
+  '/workspaces/{slug}/invoices/{id}/pdf': {
+    get: { summary: "An invoice's PDF, fetched from the payment service for members who may read billing", permission: 'billing:read', responses: { '200': 'application/pdf', '503': 'The payment service did not answer' } },
   },
   '/workspaces/{slug}/screenings': {
     post: {

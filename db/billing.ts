@@ -1,0 +1,308 @@
+import 'server-only';
+import type { Knex } from 'knex';
+import { db, nowIso, writeTx } from './client';
+import type { WorkspaceDto } from './workspaces';
+import { DEFAULT_PLAN_ID, TRIAL_DAYS, isPlanId, type PlanId } from '@/lib/billing/plans';
+
+export const BILLING_STATUSES = ['trialing', 'active', 'past_due', 'canceled'] as const;
+export type BillingStatus = (typeof BILLING_STATUSES)[number];
+
+export function isBillingStatus(value: unknown): value is BillingStatus {
+  return typeof value === 'string' && (BILLING_STATUSES as readonly string[]).includes(value);
+}
+
+export interface ReconciliationDto {
+  windowStart: string;
+  windowEnd: string;
+  ledgerUnits: number;
+  providerUnits: number;
+  difference: number;
+  checkedAt: string;
+}
+
+export interface BillingDto {
+  workspaceId: number;
+  planId: PlanId;
+  status: BillingStatus;
+  trialEndsAt: string | null;
+  customerId: string | null;
+  subscriptionId: string | null;
+  currentPeriodStart: string | null;
+  currentPeriodEnd: string | null;
+  cancelAtPeriodEnd: boolean;
+  billingEmail: string | null;
+  paymentMethodLabel: string | null;
+  /** Usage from this instant on is sent to the payment service; earlier units (a free trial) are not billed. */
+  meteredSince: string | null;
+  paymentFailedAt: string | null;
+  reconciliation: ReconciliationDto | null;
+  updatedAt: string;
+}
+
+type Row = Record<string, unknown>;
+type Trx = Knex | Knex.Transaction;
+
+const str = (v: unknown): string | null => (v === null || v === undefined ? null : String(v));
+
+function toDto(r: Row): BillingDto {
+  const status = isBillingStatus(r.status) ? r.status : 'canceled';
+  const planId = isPlanId(r.plan_id) ? r.plan_id : DEFAULT_PLAN_ID;
+  const checkedAt = str(r.recon_checked_at);
+  const ledger = r.recon_ledger_units === null || r.recon_ledger_units === undefined ? null : Number(r.recon_ledger_units);
+  const provider = r.recon_provider_units === null || r.recon_provider_units === undefined ? null : Number(r.recon_provider_units);
+  return {
+    workspaceId: Number(r.workspace_id),
+    planId,
+    status,
+    trialEndsAt: str(r.trial_ends_at),
+    customerId: str(r.customer_id),
+    subscriptionId: str(r.subscription_id),
+    currentPeriodStart: str(r.current_period_start),
+    currentPeriodEnd: str(r.current_period_end),
+    cancelAtPeriodEnd: Boolean(r.cancel_at_period_end),
+    billingEmail: str(r.billing_email),
+    paymentMethodLabel: str(r.payment_method_label),
+    meteredSince: str(r.metered_since),
+    paymentFailedAt: str(r.payment_failed_at),
+    reconciliation:
+      checkedAt && ledger !== null && provider !== null
+        ? {
+            windowStart: String(r.recon_window_start),
+            windowEnd: String(r.recon_window_end),
+            ledgerUnits: ledger,
+            providerUnits: provider,
+            difference: ledger - provider,
+            checkedAt,
+          }
+        : null,
+    updatedAt: String(r.updated_at),
+  };
+}
+
+function trialEnd(startIso: string): string {
+  return new Date(Date.parse(startIso) + TRIAL_DAYS * 86_400_000).toISOString();
+}
+
+/** The `onWorkspaceCreated` hook: every new workspace starts a free trial of the default plan. */
+export async function startTrialBilling(workspace: WorkspaceDto, trx: Knex.Transaction): Promise<void> {
+  await trx('workspace_billing')
+    .insert({
+      workspace_id: workspace.id,
+      plan_id: DEFAULT_PLAN_ID,
+      status: 'trialing',
+      trial_ends_at: trialEnd(workspace.createdAt),
+      cancel_at_period_end: false,
+      updated_at: nowIso(),
+    })
+    .onConflict('workspace_id')
+    .ignore();
+}
+
+export async function getBilling(scope: { workspaceId: number }, trx: Trx = db()): Promise<BillingDto | null> {
+  const r = await trx('workspace_billing').where({ workspace_id: scope.workspaceId }).first();
+  return r ? toDto(r) : null;
+}
+
+/**
+ * The workspace's billing state; a workspace made before billing existed gets the trial it would have
+ * had, counted from its creation.
+ */
+export async function ensureBilling(scope: { workspaceId: number }): Promise<BillingDto> {
+  const existing = await getBilling(scope);
+  if (existing) return existing;
+  return writeTx(async (trx) => {
+    const w = await trx('workspaces').where({ id: scope.workspaceId }).first();
+    if (w) {
+      await startTrialBilling({ id: Number(w.id), slug: w.slug, name: w.name, createdAt: String(w.created_at) }, trx);
+    }
+    const row = await getBilling(scope, trx);
+    if (!row) throw new Error(`workspace ${scope.workspaceId} has no billing row`);
+    return row;
+  });
+}
+
+export interface BillingPatch {
+  planId?: PlanId;
+  status?: BillingStatus;
+  trialEndsAt?: string | null;
+  customerId?: string | null;
+  subscriptionId?: string | null;
+  currentPeriodStart?: string | null;
+  currentPeriodEnd?: string | null;
+  cancelAtPeriodEnd?: boolean;
+  billingEmail?: string | null;
+  paymentMethodLabel?: string | null;
+  meteredSince?: string | null;
+  paymentFailedAt?: string | null;
+}
+
+const COLUMNS: Record<keyof BillingPatch, string> = {
+  planId: 'plan_id',
+  status: 'status',
+  trialEndsAt: 'trial_ends_at',
+  customerId: 'customer_id',
+  subscriptionId: 'subscription_id',
+  currentPeriodStart: 'current_period_start',
+  currentPeriodEnd: 'current_period_end',
+  cancelAtPeriodEnd: 'cancel_at_period_end',
+  billingEmail: 'billing_email',
+  paymentMethodLabel: 'payment_method_label',
+  meteredSince: 'metered_since',
+  paymentFailedAt: 'payment_failed_at',
+};
+
+export async function updateBilling(scope: { workspaceId: number }, patch: BillingPatch, trx: Trx = db()): Promise<void> {
+  const values: Record<string, unknown> = { updated_at: nowIso() };
+  for (const [key, column] of Object.entries(COLUMNS) as [keyof BillingPatch, string][]) {
+    if (patch[key] !== undefined) values[column] = patch[key];
+  }
+  await trx('workspace_billing').where({ workspace_id: scope.workspaceId }).update(values);
+}
+
+export async function findBillingByCustomer(customerId: string, trx: Trx = db()): Promise<BillingDto | null> {
+  const r = await trx('workspace_billing').where({ customer_id: customerId }).first();
+  return r ? toDto(r) : null;
+}
+
+/**
+ * Billing rows the payment service does not fully know yet: no customer, or marked subscribed (the demo
+ * seed) without a subscription. With the workspace's slug and name.
+ */
+export async function listBillingToProvision(limit = 20): Promise<(BillingDto & { slug: string; name: string })[]> {
+  const rows = await db()('workspace_billing as b')
+    .join('workspaces as w', 'w.id', 'b.workspace_id')
+    .where((q) => q.whereNull('b.customer_id').orWhere((a) => a.where('b.status', 'active').whereNull('b.subscription_id')))
+    .select('b.*', 'w.slug', 'w.name')
+    .orderBy('b.workspace_id')
+    .limit(limit);
+  return rows.map((r: Row) => ({ ...toDto(r), slug: String(r.slug), name: String(r.name) }));
+}
+
+/** Who hears about billing problems: the billing e-mail, finance admins and owners, each once. */
+export async function listBillingContacts(scope: { workspaceId: number }, trx: Trx = db()): Promise<string[]> {
+  const [billing, members] = await Promise.all([
+    trx('workspace_billing').where({ workspace_id: scope.workspaceId }).first('billing_email'),
+    trx('memberships as m')
+      .join('users as u', 'u.id', 'm.user_id')
+      .where('m.workspace_id', scope.workspaceId)
+      .whereIn('m.role', ['billing', 'owner'])
+      .orderBy('u.email')
+      .select('u.email'),
+  ]);
+  const all = [billing?.billing_email, ...members.map((m: { email: string }) => m.email)].filter((e): e is string => typeof e === 'string' && e !== '');
+  return [...new Set(all.map((e) => e.trim().toLowerCase()))];
+}
+
+// The usage ledger, from billing's side.
+
+export interface UsageCounts {
+  units: number;
+  sentUnits: number;
+  pendingUnits: number;
+}
+
+/** Ledger units with `occurred_at` in [from, to), optionally only those at or after `billableSince`. */
+export async function countLedgerUnits(
+  scope: { workspaceId: number },
+  range: { from: string; to: string; billableSince?: string | null },
+): Promise<UsageCounts> {
+  const base = () => {
+    const q = db()('usage_events')
+      .where({ workspace_id: scope.workspaceId })
+      .where('occurred_at', '>=', range.from)
+      .where('occurred_at', '<', range.to);
+    if (range.billableSince) q.where('occurred_at', '>=', range.billableSince);
+    return q;
+  };
+  const sum = (rows: unknown): number => Number((rows as { n: number | string | null }[])[0]?.n ?? 0);
+  const [all, sent] = await Promise.all([base().sum({ n: 'quantity' }), base().whereNotNull('sent_at').sum({ n: 'quantity' })]);
+  const units = sum(all);
+  const sentUnits = sum(sent);
+  const pendingUnits = units - sentUnits;
+  return { units, sentUnits, pendingUnits };
+}
+
+export interface DueUsageRow {
+  id: number;
+  workspaceId: number;
+  customerId: string;
+  idempotencyKey: string;
+  quantity: number;
+  occurredAt: string;
+  sendAttempts: number;
+}
+
+/**
+ * Ledger rows to deliver now: not sent, due by `asOf`, of a workspace with a subscription, and
+ * recorded since its metering started.
+ */
+export async function listDueUsage(input: { asOf: string; limit: number; workspaceId?: number }): Promise<DueUsageRow[]> {
+  const q = db()('usage_events as u')
+    .join('workspace_billing as b', 'b.workspace_id', 'u.workspace_id')
+    .whereNull('u.sent_at')
+    .whereNotNull('b.customer_id')
+    .whereNotNull('b.subscription_id')
+    .whereNotNull('b.metered_since')
+    .whereRaw('u.occurred_at >= b.metered_since')
+    .where((w) => w.whereNull('u.next_attempt_at').orWhere('u.next_attempt_at', '<=', input.asOf))
+    .orderBy('u.id')
+    .limit(input.limit)
+    .select('u.id', 'u.workspace_id', 'b.customer_id', 'u.idempotency_key', 'u.quantity', 'u.occurred_at', 'u.send_attempts');
+  if (input.workspaceId !== undefined) q.where('u.workspace_id', input.workspaceId);
+  const rows = (await q) as Row[];
+  return rows.map((r) => ({
+    id: Number(r.id),
+    workspaceId: Number(r.workspace_id),
+    customerId: String(r.customer_id),
+    idempotencyKey: String(r.idempotency_key),
+    quantity: Number(r.quantity),
+    occurredAt: String(r.occurred_at),
+    sendAttempts: Number(r.send_attempts),
+  }));
+}
+
+export async function markUsageSent(id: number, at: string = nowIso()): Promise<void> {
+  await db()('usage_events').where({ id }).whereNull('sent_at').update({ sent_at: at, next_attempt_at: null, last_error: null });
+}
+
+export async function markUsageFailed(id: number, input: { attempts: number; nextAttemptAt: string; error: string }): Promise<void> {
+  await db()('usage_events')
+    .where({ id })
+    .whereNull('sent_at')
+    .update({ send_attempts: input.attempts, next_attempt_at: input.nextAttemptAt, last_error: input.error.slice(0, 500) });
+}
+
+/** The oldest delivery problem of a workspace's unsent units, for the billing page (no provider text). */
+export async function getUsageDeliveryProblem(scope: { workspaceId: number }): Promise<{ failingUnits: number; since: string | null; nextAttemptAt: string | null } | null> {
+  const r = (await db()('usage_events')
+    .where({ workspace_id: scope.workspaceId })
+    .whereNull('sent_at')
+    .where('send_attempts', '>', 0)
+    .count({ n: '*' })
+    .min({ since: 'occurred_at' })
+    .min({ next: 'next_attempt_at' })
+    .first()) as { n: number | string; since: string | null; next: string | null } | undefined;
+  const n = Number(r?.n ?? 0);
+  return n > 0 ? { failingUnits: n, since: r?.since ?? null, nextAttemptAt: r?.next ?? null } : null;
+}
+
+export async function saveReconciliation(
+  scope: { workspaceId: number },
+  rec: { windowStart: string; windowEnd: string; ledgerUnits: number; providerUnits: number; checkedAt: string },
+): Promise<void> {
+  await db()('workspace_billing').where({ workspace_id: scope.workspaceId }).update({
+    recon_window_start: rec.windowStart,
+    recon_window_end: rec.windowEnd,
+    recon_ledger_units: rec.ledgerUnits,
+    recon_provider_units: rec.providerUnits,
+    recon_checked_at: rec.checkedAt,
+  });
+}
+
+/** Records a payment-service event id; false when it was already processed (a replay). */
+export async function recordWebhookEvent(trx: Knex.Transaction, event: { id: string; type: string }): Promise<boolean> {
+  const seen = await trx('webhook_events').where({ id: event.id }).first();
+  if (seen) return false;
+  await trx('webhook_events').insert({ id: event.id, type: event.type.slice(0, 64), received_at: nowIso() });
+  return true;
+}

@@ -1,0 +1,23 @@
+import type { OutgoingMail } from '@/lib/mail/mailer';
+import { formatUsd } from './plans';
+
+const esc = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
+
+/** To the billing contacts when the payment service could not collect an invoice. */
+export function paymentFailedMail(
+  to: string,
+  input: { workspaceName: string; invoiceNumber: string | null; amountDueCents: number; billingUrl: string },
+): OutgoingMail {
+  const invoice = input.invoiceNumber ? `invoice ${input.invoiceNumber}` : 'the latest invoice';
+  const lines = [
+    `The payment of ${formatUsd(input.amountDueCents)} for ${invoice} of the Tropopass workspace “${input.workspaceName}” did not go through: the card on file was declined.`,
+    'Until it is paid, nobody in the workspace can save new screenings or import flights. Everything already there stays readable.',
+    'What to do: open Billing in the workspace settings, put a card that works on file, then choose “Pay the open invoice”. Screening resumes as soon as the payment succeeds.',
+    'You get this message as the billing e-mail, a finance admin or an owner of the workspace.',
+  ];
+  const text = [...lines, '', `Billing settings: ${input.billingUrl}`, '', '— Tropopass'].join('\n');
+  const html = `<div style="font-family:sans-serif;max-width:560px">${lines.map((l) => `<p>${esc(l)}</p>`).join('')}<p><a href="${esc(
+    input.billingUrl,
+  )}">Open billing settings</a></p><p style="color:#667">— Tropopass</p></div>`;
+  return { to, subject: `Payment failed for ${input.workspaceName}: screening is paused`, text, html };
+}
