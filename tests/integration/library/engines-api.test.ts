@@ -105,7 +105,7 @@ describe('engines API', () => {
 
 describe('engines CSV import', () => {
   const HEADER = 'name,idle_ff_kg_s,approach_ff_kg_s,climb_out_ff_kg_s,take_off_ff_kg_s,idle_ei,approach_ei,climb_out_ei,take_off_ei,source';
-  const upload = (slug: string, cookie: string, csv: string | Uint8Array) => call<Problems & { items: EngineBody[] }>(importRoute.POST, multipartRequest(`${engines(slug)}/import`, { cookie, csv, fileName: 'engines.csv' }), { slug });
+  const upload = (slug: string, cookie: string, csv: string | Uint8Array<ArrayBuffer>) => call<Problems & { items: EngineBody[] }>(importRoute.POST, multipartRequest(`${engines(slug)}/import`, { cookie, csv, fileName: 'engines.csv' }), { slug });
 
   it('201 imports every row, with a BOM, upper-case headers and an unknown column reported', async () => {
     const ws = await makeWorkspace(['planner']);
