@@ -78,6 +78,30 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   '/workspaces/{slug}/screenings/preview': {
     post: { summary: 'Screen without saving (not billed, throttled), with the what-if cruise levels; optional whatIf options', permission: 'screenings:create', requestBody: screeningInputSchema, responses: { '200': '{ input, result, levels }' } },
   },
+  '/workspaces/{slug}/imports': {
+    post: {
+      summary: 'Upload a flight-schedule CSV (10 MB, 100 000 rows at most). Every row is checked first: any problem refuses the whole file (nothing saved); otherwise the import is queued and its flights are screened in the background, one billable unit per screened flight.',
+      permission: 'imports:create',
+      requestBody: { multipart: { file: 'the schedule CSV' } },
+      responses: { '202': '{ id, status: queued, rows, rowsDone, problems (unknown-column warnings, line 1), ... }', '402': 'Billing blocks new screenings', '409': 'The same file (SHA-256) was already imported; names the earlier import', '413': 'Larger than 10 MB or more than 100 000 rows', '422': '{ error, problems: { line, column, message }[], problemCount }' },
+    },
+    get: { summary: 'Imports, newest first, with their progress', permission: 'flights:read', query: { cursor: 'id from nextCursor', limit: '1-100' }, responses: { '200': '{ items, nextCursor }' } },
+  },
+  '/workspaces/{slug}/imports/{id}': {
+    get: { summary: 'One import: status (queued, screening, complete, failed), rows, rowsDone, rowsPerSecond, secondsLeft, problems, failureReason', permission: 'flights:read', responses: { '200': 'The import' } },
+    delete: { summary: 'Delete an import and its flights; units already billed for screened flights stay billed', permission: 'imports:delete', responses: { '200': '{ id, fileName, flightsDeleted, billedUnitsKept, message }' } },
+  },
+  '/workspaces/{slug}/imports/template': {
+    get: { summary: 'A schedule CSV template with example rows using this workspace\'s aircraft types and fleets', permission: 'flights:read', responses: { '200': 'text/csv' } },
+  },
+  '/workspaces/{slug}/flights': {
+    get: {
+      summary: 'Flights, newest date first, each with flight, date, origin, destination, aircraft, fleet, cruiseFl, status and summary figures (distanceKm, fuelKg, noxTotalKg, noxAboveTropopauseKg, fractionAboveTropopause, ozoneLoss)',
+      permission: 'flights:read',
+      query: { import: 'import id', from: 'YYYY-MM-DD', to: 'YYYY-MM-DD', fleet: 'fleet id', aircraft: 'type code', cursor: 'from nextCursor', limit: '1-200' },
+      responses: { '200': '{ items, nextCursor }' },
+    },
+  },
   '/workspaces/{slug}/routes': {
     get: { summary: 'Saved routes, by name, each with its great-circle distanceKm', permission: 'flights:read', responses: { '200': '{ items }' } },
     post: { summary: 'Save a route: name (unique in the workspace), waypoints ({ airport } or { lat, lon }), notes', permission: 'library:write', requestBody: routeSaveSchema, responses: { '201': 'The route with distanceKm', '409': 'Name taken' } },

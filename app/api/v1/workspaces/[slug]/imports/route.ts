@@ -1,0 +1,38 @@
+import { json, workspaceRoute } from '@/lib/api/route';
+import { listImports } from '@/db/imports';
+import { acceptScheduleUpload, readUploadedFile } from '@/lib/imports/schedule-service';
+import { importListQuerySchema } from '@/lib/validation/imports';
+import { fromZod } from '@/lib/errors';
+
+/**
+ * Uploads a flight-schedule CSV (multipart, field `file`). 202 with the queued import once every row
+ * is good; 422 `{ error, problems: { line, column, message }[] }` and nothing saved otherwise.
+ */
+export const POST = workspaceRoute<{ slug: string }>('imports:create', async ({ req, member, userId, actorLabel }) => {
+  const file = await readUploadedFile(req);
+  const outcome = await acceptScheduleUpload({ workspaceId: member.workspace.id }, { userId, label: actorLabel }, file);
+  if (!outcome.accepted) {
+    const rows = new Set(outcome.problems.map((p) => p.line)).size;
+    const listed = outcome.problemCount > outcome.problems.length ? ` The first ${outcome.problems.length} of ${outcome.problemCount} problems are listed.` : '';
+    return json(
+      {
+        error: {
+          code: 'invalid_fields',
+          message: `${outcome.problemCount} problem${outcome.problemCount === 1 ? '' : 's'} on ${rows} line${rows === 1 ? '' : 's'}; nothing was imported. Fix the file and upload it again.${listed}`,
+        },
+        problems: outcome.problems,
+        problemCount: outcome.problemCount,
+        warnings: outcome.warnings,
+      },
+      422,
+    );
+  }
+  return json(outcome.import, 202, { location: `/api/v1/workspaces/${member.workspace.slug}/imports/${outcome.import.id}` });
+});
+
+/** `{ items, nextCursor }`, newest first. */
+export const GET = workspaceRoute<{ slug: string }>('flights:read', async ({ req, member }) => {
+  const q = importListQuerySchema.safeParse(Object.fromEntries(new URL(req.url).searchParams));
+  if (!q.success) throw fromZod(q.error);
+  return json(await listImports({ workspaceId: member.workspace.id }, q.data));
+});

@@ -1,0 +1,333 @@
+import 'server-only';
+import type { Knex } from 'knex';
+import { db, insertId, nowIso, writeTx } from './client';
+import { recordUsage } from './usage';
+import { createAuditEntry } from './audit';
+import { assertBillingAllows } from '@/lib/billing/gate';
+import { AppError, notFound } from '@/lib/errors';
+import type { ScreeningResult } from '@/lib/screening';
+import type { ImportProblem, ImportStatus } from '@/lib/validation/imports';
+import type { PreparedFlight } from '@/lib/imports/schedule';
+
+/** An import as the API and the pages show it. */
+export interface ImportDto {
+  id: number;
+  fileName: string;
+  status: ImportStatus;
+  rows: number;
+  /** Flights screened or failed so far. */
+  rowsDone: number;
+  rowsScreened: number;
+  rowsFailed: number;
+  rowsPerSecond: number | null;
+  secondsLeft: number | null;
+  /** Warnings kept with an accepted file (unknown columns) and flights that could not be screened. */
+  problems: ImportProblem[];
+  problemCount: number;
+  failureReason: string | null;
+  createdAt: string;
+  createdBy: string | null;
+  startedAt: string | null;
+  finishedAt: string | null;
+  heartbeatAt: string | null;
+}
+
+type Row = Record<string, unknown>;
+
+const FLIGHT_BATCH = 1000;
+const PROBLEMS_SHOWN = 200;
+
+function isUniqueViolation(err: unknown): boolean {
+  const e = err as { code?: string; message?: string };
+  return e?.code === 'SQLITE_CONSTRAINT_UNIQUE' || e?.code === '23505' || /UNIQUE constraint failed/.test(e?.message ?? '');
+}
+
+function rate(r: Row): { rowsPerSecond: number | null; secondsLeft: number | null } {
+  const status = r.status as ImportStatus;
+  const since = r.rate_since ? Date.parse(String(r.rate_since)) : Number.NaN;
+  const until = Date.parse(String((status === 'screening' ? r.heartbeat_at : r.finished_at) ?? ''));
+  const done = Number(r.rows_done) - Number(r.rate_base_rows ?? 0);
+  const seconds = (until - since) / 1000;
+  const rowsPerSecond = Number.isFinite(seconds) && seconds >= 0.2 && done > 0 ? done / seconds : null;
+  if (status === 'complete') return { rowsPerSecond, secondsLeft: 0 };
+  if (status !== 'screening' || rowsPerSecond === null) return { rowsPerSecond, secondsLeft: null };
+  return { rowsPerSecond, secondsLeft: Math.max(0, (Number(r.rows) - Number(r.rows_done)) / rowsPerSecond) };
+}
+
+function toDto(r: Row, counts: { screened: number; failed: number }, problems: ImportProblem[], problemCount: number): ImportDto {
+  return {
+    id: Number(r.id),
+    fileName: String(r.file_name),
+    status: r.status as ImportStatus,
+    rows: Number(r.rows),
+    rowsDone: Number(r.rows_done),
+    rowsScreened: counts.screened,
+    rowsFailed: counts.failed,
+    ...rate(r),
+    problems,
+    problemCount,
+    failureReason: (r.failure_reason as string | null) ?? null,
+    createdAt: String(r.created_at),
+    createdBy: (r.created_by_name as string | null) ?? null,
+    startedAt: (r.started_at as string | null) ?? null,
+    finishedAt: (r.finished_at as string | null) ?? null,
+    heartbeatAt: (r.heartbeat_at as string | null) ?? null,
+  };
+}
+
+async function describe(rows: Row[]): Promise<ImportDto[]> {
+  if (!rows.length) return [];
+  const ids = rows.map((r) => Number(r.id));
+  const k = db();
+  const [counts, problemCounts, problems] = await Promise.all([
+    k('flights').whereIn('import_id', ids).whereIn('status', ['screened', 'failed']).groupBy('import_id', 'status').select('import_id', 'status').count({ n: '*' }),
+    k('import_problems').whereIn('import_id', ids).groupBy('import_id').select('import_id').count({ n: '*' }),
+    k('import_problems').whereIn('import_id', ids).orderBy(['import_id', 'line', 'id']).select('import_id', 'line', 'column', 'message'),
+  ]);
+  const byImport = new Map<number, { screened: number; failed: number }>();
+  for (const c of counts as Row[]) {
+    const e = byImport.get(Number(c.import_id)) ?? { screened: 0, failed: 0 };
+    if (c.status === 'screened') e.screened = Number(c.n);
+    else e.failed = Number(c.n);
+    byImport.set(Number(c.import_id), e);
+  }
+  const problemTotal = new Map((problemCounts as Row[]).map((c) => [Number(c.import_id), Number(c.n)]));
+  const listed = new Map<number, ImportProblem[]>();
+  for (const p of problems as Row[]) {
+    const list = listed.get(Number(p.import_id)) ?? [];
+    if (list.length < PROBLEMS_SHOWN) list.push({ line: Number(p.line), column: String(p.column), message: String(p.message) });
+    listed.set(Number(p.import_id), list);
+  }
+  return rows.map((r) => toDto(r, byImport.get(Number(r.id)) ?? { screened: 0, failed: 0 }, listed.get(Number(r.id)) ?? [], problemTotal.get(Number(r.id)) ?? 0));
+}
+
+const importQuery = (k: Knex | Knex.Transaction) => k('imports as i').leftJoin('users as u', 'u.id', 'i.created_by').select('i.*', k.raw('coalesce(u.name, u.email) as created_by_name'));
+
+export async function getImport(scope: { workspaceId: number }, id: number): Promise<ImportDto> {
+  const row = (await importQuery(db()).where({ 'i.workspace_id': scope.workspaceId, 'i.id': id }).first()) as Row | undefined;
+  if (!row) throw notFound('No import with that id in this workspace.');
+  return (await describe([row]))[0];
+}
+
+/** Newest first, keyset-paged by id. */
+export async function listImports(scope: { workspaceId: number }, opts: { cursor?: number; limit?: number } = {}): Promise<{ items: ImportDto[]; nextCursor: string | null }> {
+  const limit = Math.min(Math.max(opts.limit ?? 20, 1), 100);
+  const q = importQuery(db()).where('i.workspace_id', scope.workspaceId).orderBy('i.id', 'desc').limit(limit + 1);
+  if (opts.cursor) q.andWhere('i.id', '<', opts.cursor);
+  const rows = (await q) as Row[];
+  const items = await describe(rows.slice(0, limit));
+  return { items, nextCursor: rows.length > limit && items.length ? String(items[items.length - 1].id) : null };
+}
+
+function duplicateFile(prior: Row): AppError {
+  const when = String(prior.created_at).slice(0, 10);
+  return new AppError('conflict', `This file was already imported on ${when} as import #${prior.id} (“${prior.file_name}”). Its flights are in the workspace; delete that import first to import the file again.`, {
+    extra: { import: { id: Number(prior.id), fileName: String(prior.file_name), createdAt: String(prior.created_at) } },
+  });
+}
+
+/** The import of this exact file (by SHA-256), if the workspace has one. */
+export async function findImportByHash(scope: { workspaceId: number }, fileHash: string): Promise<AppError | null> {
+  const prior = (await db()('imports').where({ workspace_id: scope.workspaceId, file_hash: fileHash }).first()) as Row | undefined;
+  return prior ? duplicateFile(prior) : null;
+}
+
+/**
+ * Saves an accepted schedule: the import (queued), its warnings and every flight (pending, with its
+ * screening input) in one write transaction, flights inserted in batches. Nothing is billed here; the
+ * worker bills each flight when it screens it.
+ */
+export async function createImport(
+  scope: { workspaceId: number },
+  input: { fileName: string; fileHash: string; createdBy: number | null; actor: string; flights: PreparedFlight[]; warnings: ImportProblem[] },
+): Promise<ImportDto> {
+  let id = 0;
+  try {
+    await writeTx(async (trx) => {
+      await assertBillingAllows(scope, trx);
+      const prior = (await trx('imports').where({ workspace_id: scope.workspaceId, file_hash: input.fileHash }).first()) as Row | undefined;
+      if (prior) throw duplicateFile(prior);
+      const now = nowIso();
+      id = await insertId(
+        trx('imports')
+          .insert({
+            workspace_id: scope.workspaceId,
+            kind: 'schedule',
+            file_name: input.fileName.slice(0, 255),
+            file_hash: input.fileHash,
+            status: 'queued',
+            rows: input.flights.length,
+            rows_done: 0,
+            rate_base_rows: 0,
+            created_by: input.createdBy,
+            created_at: now,
+          })
+          .returning('id'),
+      );
+      if (input.warnings.length) {
+        await trx('import_problems').insert(input.warnings.map((w) => ({ import_id: id, line: w.line, column: w.column.slice(0, 64), message: w.message.slice(0, 1000) })));
+      }
+      for (let i = 0; i < input.flights.length; i += FLIGHT_BATCH) {
+        await trx('flights').insert(
+          input.flights.slice(i, i + FLIGHT_BATCH).map((f) => ({
+            workspace_id: scope.workspaceId,
+            import_id: id,
+            date: f.date,
+            flight: f.flight,
+            origin: f.origin,
+            destination: f.destination,
+            aircraft_type_id: f.aircraftTypeId,
+            aircraft_code: f.aircraftCode,
+            fleet_id: f.fleetId,
+            cruise_fl: f.cruiseFl,
+            max_fl: f.maxFl,
+            input_json: f.inputJson,
+            status: 'pending',
+            fuel_kg: f.fuelKg,
+            source_line: f.line,
+            created_at: now,
+          })),
+        );
+      }
+      await createAuditEntry({ workspaceId: scope.workspaceId, userId: input.createdBy, actor: input.actor, action: 'import.created', target: `import:${id}`, detail: { fileName: input.fileName, flights: input.flights.length } }, trx);
+    });
+  } catch (err) {
+    if (isUniqueViolation(err)) {
+      throw new AppError('conflict', 'Another upload added this file or some of these flights a moment ago. Nothing from this upload was saved; upload it again to see which rows are already in the workspace.');
+    }
+    throw err;
+  }
+  return getImport(scope, id);
+}
+
+/**
+ * Deletes an import and its flights. Units already billed for its screened flights stay in the usage
+ * ledger (they were billed when screened); the result says how many.
+ */
+export async function deleteImport(scope: { workspaceId: number }, id: number, actor: { userId: number | null; label: string }): Promise<{ id: number; fileName: string; flightsDeleted: number; billedUnitsKept: number }> {
+  return writeTx(async (trx) => {
+    const imp = (await trx('imports').where({ workspace_id: scope.workspaceId, id }).first()) as Row | undefined;
+    if (!imp) throw notFound('No import with that id in this workspace.');
+    const flightIds = trx('flights').where({ workspace_id: scope.workspaceId, import_id: id }).select('id');
+    const units = (await trx('usage_events').where({ workspace_id: scope.workspaceId, kind: 'imported_flight' }).whereIn('source_id', flightIds).sum({ n: 'quantity' }).first()) as Row | undefined;
+    const flightsDeleted = await trx('flights').where({ workspace_id: scope.workspaceId, import_id: id }).delete();
+    await trx('import_problems').where({ import_id: id }).delete();
+    await trx('imports').where({ workspace_id: scope.workspaceId, id }).delete();
+    const billedUnitsKept = Number(units?.n ?? 0);
+    await createAuditEntry({ workspaceId: scope.workspaceId, userId: actor.userId, actor: actor.label, action: 'import.deleted', target: `import:${id}`, detail: { fileName: imp.file_name, flightsDeleted, billedUnitsKept } }, trx);
+    return { id, fileName: String(imp.file_name), flightsDeleted, billedUnitsKept };
+  });
+}
+
+/* The worker's side: it works across workspaces, always by import id, and writes each flight's unit with its result. */
+
+export interface PendingFlight {
+  id: number;
+  workspaceId: number;
+  line: number | null;
+  inputJson: string;
+}
+
+export type ScreenedOutcome = { id: number; workspaceId: number; line: number | null } & ({ result: ScreeningResult } | { error: string });
+
+/** Imports waiting for the worker or left mid-way (a restart resumes them), oldest first. */
+export async function listActiveImports(): Promise<{ id: number; workspaceId: number }[]> {
+  const rows = (await db()('imports').whereIn('status', ['queued', 'screening']).orderBy('id').select('id', 'workspace_id')) as Row[];
+  return rows.map((r) => ({ id: Number(r.id), workspaceId: Number(r.workspace_id) }));
+}
+
+/** Marks the import as screening and restarts its rate measurement from the rows already done. */
+export async function claimImport(importId: number): Promise<boolean> {
+  return writeTx(async (trx) => {
+    const now = nowIso();
+    const n = await trx('imports')
+      .where('id', importId)
+      .whereIn('status', ['queued', 'screening'])
+      .update({ status: 'screening', started_at: trx.raw('coalesce(started_at, ?)', [now]), rate_since: now, rate_base_rows: trx.raw('rows_done'), heartbeat_at: now });
+    return n > 0;
+  });
+}
+
+export async function listPendingFlights(importId: number, limit: number): Promise<PendingFlight[]> {
+  const rows = (await db()('flights').where({ import_id: importId, status: 'pending' }).orderBy('id').limit(limit).select('id', 'workspace_id', 'source_line', 'input_json')) as Row[];
+  return rows.map((r) => ({ id: Number(r.id), workspaceId: Number(r.workspace_id), line: r.source_line === null ? null : Number(r.source_line), inputJson: String(r.input_json) }));
+}
+
+/**
+ * Writes a chunk of outcomes in one transaction: each screened flight's figures with its usage unit,
+ * each failure with its reason (and a problem on the import). Only flights still pending are touched,
+ * so a replayed chunk changes and bills nothing twice.
+ */
+export async function saveScreenedChunk(importId: number, outcomes: ScreenedOutcome[]): Promise<number> {
+  return writeTx(async (trx) => {
+    const now = nowIso();
+    let saved = 0;
+    for (const o of outcomes) {
+      if ('result' in o) {
+        const r = o.result;
+        const n = await trx('flights').where({ id: o.id, status: 'pending' }).update({
+          status: 'screened',
+          failure_reason: null,
+          distance_km: r.distanceKm,
+          nox_total_kg: r.noxTotalKg,
+          nox_above_kg: r.noxAboveTropopauseKg,
+          fraction_above: r.fractionAboveTropopause,
+          mean_depth_above_km: r.meanDepthAboveTropopauseKm,
+          ozone_central_kg: r.ozoneLoss.centralKg,
+          ozone_low_kg: r.ozoneLoss.lowKg,
+          ozone_high_kg: r.ozoneLoss.highKg,
+          engine_version: r.engineVersion,
+          screened_at: now,
+        });
+        if (n > 0) {
+          await recordUsage(trx, { workspaceId: o.workspaceId, kind: 'imported_flight', sourceId: o.id, occurredAt: now });
+          saved += 1;
+        }
+      } else {
+        const reason = o.error.slice(0, 500);
+        const n = await trx('flights').where({ id: o.id, status: 'pending' }).update({ status: 'failed', failure_reason: reason, screened_at: now });
+        if (n > 0) {
+          await trx('import_problems').insert({ import_id: importId, line: o.line ?? 0, column: '', message: `Not screened: ${reason}`.slice(0, 1000) });
+          saved += 1;
+        }
+      }
+    }
+    const done = trx('flights').where('import_id', importId).whereNot('status', 'pending').count({ n: '*' });
+    await trx('imports').where('id', importId).update({ rows_done: done, heartbeat_at: now });
+    return saved;
+  });
+}
+
+/**
+ * Ends an import once no flight is pending: complete (failed flights, if any, are listed as problems),
+ * or failed when not one flight could be screened. Returns null while flights are still pending.
+ */
+export async function finishImport(importId: number): Promise<ImportStatus | null> {
+  return writeTx(async (trx) => {
+    const counts = (await trx('flights').where('import_id', importId).groupBy('status').select('status').count({ n: '*' })) as Row[];
+    const by = new Map(counts.map((c) => [String(c.status), Number(c.n)]));
+    if ((by.get('pending') ?? 0) > 0) return null;
+    const screened = by.get('screened') ?? 0;
+    const failed = by.get('failed') ?? 0;
+    const status: ImportStatus = failed > 0 && screened === 0 ? 'failed' : 'complete';
+    let reason: string | null = null;
+    if (status === 'failed') {
+      const first = (await trx('flights').where({ import_id: importId, status: 'failed' }).orderBy('id').first('source_line', 'failure_reason')) as Row | undefined;
+      reason = `None of the ${failed} flights could be screened. First problem (line ${first?.source_line ?? '?'}): ${first?.failure_reason ?? 'unknown'}`.slice(0, 1000);
+    }
+    const now = nowIso();
+    await trx('imports')
+      .where('id', importId)
+      .whereIn('status', ['queued', 'screening'])
+      .update({ status, failure_reason: reason, rows_done: screened + failed, finished_at: now, heartbeat_at: now });
+    return status;
+  });
+}
+
+/** Stops an import that cannot go on, with the reason shown to the uploader. */
+export async function failImport(importId: number, reason: string): Promise<void> {
+  const now = nowIso();
+  await writeTx((trx) =>
+    trx('imports').where('id', importId).whereIn('status', ['queued', 'screening']).update({ status: 'failed', failure_reason: reason.slice(0, 1000), finished_at: now, heartbeat_at: now }),
+  );
+}

@@ -1,0 +1,320 @@
+import { Readable } from 'node:stream';
+import type { ReadableStream as NodeReadableStream } from 'node:stream/web';
+import Papa from 'papaparse';
+import { findAirport, ScreeningInputError, validateScreeningInput, type ScreeningInput } from '@/lib/screening';
+import { tooLarge } from '@/lib/errors';
+import {
+  IMPORT_LIMITS,
+  SCHEDULE_COLUMNS,
+  SCHEDULE_REQUIRED_COLUMNS,
+  isScheduleColumn,
+  scheduleRowSchema,
+  type ImportProblem,
+  type ScheduleCells,
+  type ScheduleColumn,
+  type ScheduleRow,
+} from '@/lib/validation/imports';
+import type { AircraftForScreening } from '@/db/aircraft-lookup';
+
+/**
+ * Reading a flight-schedule CSV (DESIGN.md "Import formats"): streamed through papaparse, every row
+ * checked (its cells, the workspace's aircraft types and fleets, the airports, repeats inside the
+ * file, and the screening input it makes, whose problems are reported by CSV column). Nothing here
+ * touches the database: the caller passes what the workspace holds.
+ */
+
+export interface ScheduleContext {
+  /** The workspace's aircraft types by upper-case code. */
+  aircraft: Map<string, AircraftForScreening>;
+  /** The workspace's fleets by lower-case name. */
+  fleets: Map<string, { id: number; name: string }>;
+}
+
+/** A row that passed every check, ready to be stored as a pending flight. */
+export interface PreparedFlight {
+  line: number;
+  date: string;
+  flight: string;
+  origin: string;
+  destination: string;
+  aircraftTypeId: number;
+  aircraftCode: string;
+  fleetId: number | null;
+  /** The first cruise level (the cruise_fl column, or the first step). */
+  cruiseFl: number;
+  maxFl: number;
+  fuelKg: number;
+  /** The validated screening input, as JSON (kept as text: 100 000 of them must fit in memory). */
+  inputJson: string;
+}
+
+export interface ParsedSchedule {
+  flights: PreparedFlight[];
+  /** Problems that refuse the file. */
+  problems: ImportProblem[];
+  /** Unknown or unnamed columns: reported, the file is still accepted. */
+  warnings: ImportProblem[];
+  /** Data rows read (blank lines not counted). */
+  dataRows: number;
+}
+
+/** The key that makes a flight unique in a workspace (date, flight, origin, destination). */
+export function flightKey(f: { date: string; flight: string; origin: string; destination: string }): string {
+  return `${f.date}|${f.flight}|${f.origin}|${f.destination}`;
+}
+
+const PLACEHOLDER_EMISSION = { eiNoxGPerKg: 1 } as const;
+
+/** Where a screening-input problem sits in the CSV. */
+function columnOf(path: string, row: ScheduleRow, emissionFromRow: boolean): ScheduleColumn | '' | null {
+  if (path.startsWith('route.waypoints.0')) return 'origin';
+  if (path.startsWith('route.waypoints.1')) return 'destination';
+  if (path === 'cruise.flightLevel') return 'cruise_fl';
+  if (path.startsWith('cruise')) return row.steps?.length ? 'steps' : 'cruise_fl';
+  if (path === 'fuelBurnKg') return 'fuel_kg';
+  if (path.startsWith('emission')) return emissionFromRow ? 'ei_nox_g_per_kg' : 'aircraft';
+  if (path === 'mach') return row.mach !== undefined ? 'mach' : 'aircraft';
+  if (path === 'flightDate') return 'date';
+  return '';
+}
+
+function stepLabel(path: string, row: ScheduleRow): string {
+  const m = /^cruise\.steps\.(\d+)/.exec(path);
+  if (!m || !row.steps) return '';
+  const i = Number(m[1]);
+  const s = row.steps[i];
+  return s ? `Step ${i + 1} (${s.flightLevel}@${s.fromKm}): ` : '';
+}
+
+/** Checks one data row; returns its problems and, when there are none, the flight. */
+function checkRow(
+  line: number,
+  cells: ScheduleCells,
+  ctx: ScheduleContext,
+  seen: Map<string, number>,
+): { problems: ImportProblem[]; flight?: PreparedFlight } {
+  const problems: ImportProblem[] = [];
+  const add = (column: string, message: string) => problems.push({ line, column, message });
+  const parsed = scheduleRowSchema.safeParse(cells);
+  if (!parsed.success) {
+    for (const issue of parsed.error.issues) add(String(issue.path[0] ?? ''), issue.message);
+    return { problems };
+  }
+  const row = parsed.data;
+
+  const type = ctx.aircraft.get(row.aircraft);
+  if (!type) add('aircraft', `No aircraft type “${row.aircraft}” in this workspace. Add it under Engines & aircraft, or correct the code.`);
+  let fleetId: number | null = type?.defaultFleetId ?? null;
+  if (row.fleet !== undefined) {
+    const fleet = ctx.fleets.get(row.fleet.toLowerCase());
+    if (!fleet) add('fleet', `No fleet “${row.fleet}” in this workspace. Create it under Fleets, or leave the cell empty for the aircraft type’s default fleet.`);
+    else fleetId = fleet.id;
+  }
+  const resolve = (code: string, column: 'origin' | 'destination'): string | null => {
+    const airport = findAirport(code);
+    if (!airport) {
+      add(column, `Unknown airport “${code}”: give the ICAO or IATA code of a medium or large airport.`);
+      return null;
+    }
+    if (!airport.icao) {
+      add(column, `${airport.name} (${code}) has no ICAO code in our airport data; it cannot be stored.`);
+      return null;
+    }
+    return airport.icao;
+  };
+  const origin = resolve(row.origin, 'origin');
+  const destination = resolve(row.destination, 'destination');
+  if (origin && destination && origin === destination) {
+    add('destination', `The destination is the origin airport (${origin}); a schedule row needs two different airports.`);
+  }
+
+  const emissionFromRow = row.ei_nox_g_per_kg !== undefined;
+  const emission = emissionFromRow ? { eiNoxGPerKg: row.ei_nox_g_per_kg } : type?.emission;
+  if (type && !emission) {
+    add('aircraft', `Aircraft type ${type.code} has neither engine data nor a direct EI NOx. Add one under Engines & aircraft, or give ei_nox_g_per_kg.`);
+  }
+  const cruise = row.steps?.length ? { steps: row.steps } : { flightLevel: row.cruise_fl };
+  const raw = {
+    route: { waypoints: [{ airport: origin ?? row.origin }, { airport: destination ?? row.destination }] },
+    cruise,
+    mach: row.mach ?? type?.typicalMach,
+    fuelBurnKg: row.fuel_kg,
+    emission: emission ?? PLACEHOLDER_EMISSION,
+    flightDate: row.date,
+  };
+  let input: ScreeningInput | undefined;
+  try {
+    input = validateScreeningInput(raw);
+  } catch (err) {
+    if (!(err instanceof ScreeningInputError)) throw err;
+    for (const f of err.fields) {
+      const column = columnOf(f.path, row, emissionFromRow);
+      // The placeholder emission stands in only so the other fields are still checked.
+      if (column === 'aircraft' && !emission) continue;
+      if (column === null) continue;
+      add(column, `${stepLabel(f.path, row)}${f.message}`);
+    }
+  }
+
+  if (origin && destination) {
+    const key = flightKey({ date: row.date, flight: row.flight, origin, destination });
+    const first = seen.get(key);
+    if (first !== undefined) add('flight', `This flight is already on line ${first} (same date, flight, origin and destination).`);
+    else seen.set(key, line);
+  }
+
+  if (problems.length || !input || !type || !origin || !destination) return { problems };
+  const levels = 'steps' in input.cruise ? input.cruise.steps.map((s) => s.flightLevel) : [input.cruise.flightLevel];
+  return {
+    problems,
+    flight: {
+      line,
+      date: row.date,
+      flight: row.flight,
+      origin,
+      destination,
+      aircraftTypeId: type.id,
+      aircraftCode: type.code,
+      fleetId,
+      cruiseFl: levels[0],
+      maxFl: Math.max(...levels),
+      fuelKg: input.fuelBurnKg,
+      inputJson: JSON.stringify(input),
+    },
+  };
+}
+
+interface HeaderMap {
+  /** Column index -> known column, or null for an ignored one. */
+  byIndex: (ScheduleColumn | null)[];
+  problems: ImportProblem[];
+  warnings: ImportProblem[];
+}
+
+function readHeader(cells: string[]): HeaderMap {
+  const byIndex: (ScheduleColumn | null)[] = [];
+  const problems: ImportProblem[] = [];
+  const warnings: ImportProblem[] = [];
+  const firstAt = new Map<ScheduleColumn, number>();
+  cells.forEach((raw, i) => {
+    const name = (i === 0 ? raw.replace(/^\uFEFF/, '') : raw).trim().toLowerCase();
+    if (name === '') {
+      byIndex.push(null);
+      warnings.push({ line: 1, column: `(column ${i + 1})`, message: `Column ${i + 1} has no name; its cells were ignored.` });
+      return;
+    }
+    if (!isScheduleColumn(name)) {
+      byIndex.push(null);
+      warnings.push({ line: 1, column: raw.trim(), message: `Unknown column “${raw.trim()}”: it was ignored. Known columns: ${SCHEDULE_COLUMNS.join(', ')}.` });
+      return;
+    }
+    const earlier = firstAt.get(name);
+    if (earlier !== undefined) {
+      byIndex.push(null);
+      problems.push({ line: 1, column: name, message: `The column ${name} appears twice (columns ${earlier + 1} and ${i + 1}); keep one.` });
+      return;
+    }
+    firstAt.set(name, i);
+    byIndex.push(name);
+  });
+  for (const required of SCHEDULE_REQUIRED_COLUMNS) {
+    if (!firstAt.has(required)) problems.push({ line: 1, column: required, message: `The required column ${required} is missing from the header row.` });
+  }
+  return { byIndex, problems, warnings };
+}
+
+const NOT_UTF8: ImportProblem = {
+  line: 0,
+  column: '',
+  message: 'The file is not UTF-8 text. Save it as “CSV UTF-8 (comma delimited)” and upload it again.',
+};
+
+/**
+ * Streams the CSV through papaparse and checks every row as it is parsed. Throws a 413 AppError past
+ * IMPORT_LIMITS.maxRows data rows. Line numbers count the header as line 1 (a quoted cell that
+ * spans lines counts as one).
+ */
+export async function parseSchedule(source: ReadableStream<Uint8Array>, ctx: ScheduleContext): Promise<ParsedSchedule> {
+  const decoder = new TextDecoderStream('utf-8', { fatal: true }) as unknown as ReadableWritablePair<string, Uint8Array>;
+  const text = Readable.fromWeb(source.pipeThrough(decoder) as unknown as NodeReadableStream<string>);
+
+  const out: ParsedSchedule = { flights: [], problems: [], warnings: [], dataRows: 0 };
+  const seen = new Map<string, number>();
+  let header: HeaderMap | null = null;
+  let line = 0;
+  let stop: Error | null = null;
+
+  const onRow = (record: string[], parser: Papa.Parser): void => {
+    line += 1;
+    if (header === null) {
+      header = readHeader(record);
+      out.problems.push(...header.problems);
+      out.warnings.push(...header.warnings);
+      if (header.problems.length) parser.abort();
+      return;
+    }
+    if (record.every((c) => c.trim() === '')) return;
+    out.dataRows += 1;
+    if (out.dataRows > IMPORT_LIMITS.maxRows) {
+      stop = tooLarge(`The file has more than ${IMPORT_LIMITS.maxRows.toLocaleString('en-GB')} flights. Split it into files of at most ${IMPORT_LIMITS.maxRows.toLocaleString('en-GB')} rows and upload them one by one.`);
+      parser.abort();
+      return;
+    }
+    const cells: ScheduleCells = {};
+    for (let i = 0; i < record.length; i++) {
+      const value = record[i].trim();
+      if (i >= header.byIndex.length) {
+        if (value !== '') {
+          out.problems.push({ line, column: '', message: `This line has ${record.length} cells but the header has ${header.byIndex.length} columns: check for an unquoted comma.` });
+          return;
+        }
+        continue;
+      }
+      const column = header.byIndex[i];
+      if (column && value !== '') cells[column] = value;
+    }
+    const checked = checkRow(line, cells, ctx, seen);
+    if (checked.problems.length) out.problems.push(...checked.problems);
+    else if (checked.flight) out.flights.push(checked.flight);
+  };
+
+  let decodeFailed = false;
+  await new Promise<void>((resolve) => {
+    text.on('error', () => {
+      decodeFailed = true;
+      resolve();
+    });
+    Papa.parse(text, {
+      delimiter: ',',
+      header: false,
+      skipEmptyLines: false,
+      step: (results: Papa.ParseStepResult<string[]>, parser: Papa.Parser) => {
+        try {
+          onRow(results.data, parser);
+        } catch (err) {
+          stop = err instanceof Error ? err : new Error(String(err));
+          parser.abort();
+        }
+      },
+      complete: () => resolve(),
+      error: () => {
+        decodeFailed = true;
+        resolve();
+      },
+    });
+  });
+  text.destroy();
+  if (stop) throw stop;
+  if (decodeFailed) return { flights: [], problems: [NOT_UTF8], warnings: out.warnings, dataRows: out.dataRows };
+  if (header === null) {
+    out.problems.push({ line: 1, column: '', message: `The file is empty. The first line must name the columns: ${SCHEDULE_REQUIRED_COLUMNS.join(', ')}.` });
+  } else if (!out.problems.length && out.dataRows === 0) {
+    out.problems.push({ line: 2, column: '', message: 'The file has a header row but no flights.' });
+  }
+  return out;
+}
+
+/** Problems sorted by line, then column. */
+export function sortProblems(problems: ImportProblem[]): ImportProblem[] {
+  return problems.sort((a, b) => a.line - b.line || a.column.localeCompare(b.column));
+}

@@ -1,0 +1,181 @@
+import 'server-only';
+import { setImmediate as yieldToEventLoop } from 'node:timers/promises';
+import { screenValidated, ScreeningInputError, type ScreeningInput } from '@/lib/screening';
+import { claimImport, failImport, finishImport, listActiveImports, listPendingFlights, saveScreenedChunk, type ScreenedOutcome } from '@/db/imports';
+import { log } from '@/lib/log';
+
+/**
+ * The background screening of imported flights, in the server process. It polls for imports that
+ * are queued or were left mid-way (status screening: a restart resumes them), screens their pending
+ * flights in chunks, and writes each chunk (figures, status, one usage unit per screened flight) in
+ * one transaction. A chunk only touches flights still pending, so a chunk replayed after a crash
+ * can neither lose a flight nor bill one twice.
+ *
+ * Failure policy: a flight whose screening throws is marked failed with its reason and listed as a
+ * problem of its import; the import still completes with the others (and shows how many failed). An
+ * import ends failed only when not one of its flights could be screened, or when the database keeps
+ * refusing its results; it is never complete while any flight is pending.
+ */
+
+export const IMPORT_CHUNK_SIZE = 500;
+const IDLE_POLL_MS = 1000;
+const RETRY_MS = 2000;
+const MAX_CONSECUTIVE_ERRORS = 5;
+
+export interface ChunkProgress {
+  importId: number;
+  saved: number;
+}
+
+export interface RunOptions {
+  chunkSize?: number;
+  /** Called after each chunk is committed (tests use it to crash a worker mid-way). */
+  onChunk?: (p: ChunkProgress) => void | Promise<void>;
+}
+
+export interface RunSummary {
+  imports: number;
+  flights: number;
+}
+
+interface WorkerState {
+  started: boolean;
+  stopping: boolean;
+  timer: NodeJS.Timeout | null;
+  /** Serialises every pass in this process (the background loop and explicit runs). */
+  chain: Promise<unknown>;
+  errors: Map<number, number>;
+}
+
+const g = globalThis as unknown as { tropopassImportWorker?: WorkerState };
+
+function state(): WorkerState {
+  g.tropopassImportWorker ??= { started: false, stopping: false, timer: null, chain: Promise.resolve(), errors: new Map() };
+  return g.tropopassImportWorker;
+}
+
+function reasonOf(err: unknown): string {
+  if (err instanceof ScreeningInputError) return err.fields.map((f) => `${f.path}: ${f.message}`).join('; ') || err.message;
+  if (err instanceof Error) return err.message;
+  return 'the screening engine could not screen this flight';
+}
+
+function screenChunk(pending: Awaited<ReturnType<typeof listPendingFlights>>): ScreenedOutcome[] {
+  return pending.map((p) => {
+    try {
+      const input = JSON.parse(p.inputJson) as ScreeningInput;
+      return { id: p.id, workspaceId: p.workspaceId, line: p.line, result: screenValidated(input) };
+    } catch (err) {
+      return { id: p.id, workspaceId: p.workspaceId, line: p.line, error: reasonOf(err) };
+    }
+  });
+}
+
+async function processImport(importId: number, opts: RunOptions): Promise<number> {
+  const chunkSize = opts.chunkSize ?? IMPORT_CHUNK_SIZE;
+  if (!(await claimImport(importId))) return 0;
+  let flights = 0;
+  for (;;) {
+    if (state().stopping) return flights;
+    const pending = await listPendingFlights(importId, chunkSize);
+    if (pending.length === 0) {
+      const status = await finishImport(importId);
+      if (status !== null) {
+        log.info({ event: 'import.finished', importId, status }, 'import finished');
+        return flights;
+      }
+      continue;
+    }
+    const outcomes = screenChunk(pending);
+    const saved = await saveScreenedChunk(importId, outcomes);
+    flights += saved;
+    state().errors.delete(importId);
+    await opts.onChunk?.({ importId, saved });
+    await yieldToEventLoop();
+  }
+}
+
+async function pass(opts: RunOptions): Promise<RunSummary> {
+  const summary: RunSummary = { imports: 0, flights: 0 };
+  for (;;) {
+    const active = await listActiveImports();
+    if (active.length === 0 || state().stopping) return summary;
+    let progressed = false;
+    for (const imp of active) {
+      try {
+        summary.flights += await processImport(imp.id, opts);
+        summary.imports += 1;
+        progressed = true;
+      } catch (err) {
+        const count = (state().errors.get(imp.id) ?? 0) + 1;
+        state().errors.set(imp.id, count);
+        log.error({ err, event: 'import.chunk_failed', importId: imp.id, attempt: count }, 'import screening chunk failed');
+        if (count >= MAX_CONSECUTIVE_ERRORS) {
+          state().errors.delete(imp.id);
+          await failImport(imp.id, 'Screening stopped: the results could not be saved after several attempts. Flights already screened keep their figures; delete this import and upload the file again to screen the rest.');
+          progressed = true;
+        }
+      }
+    }
+    if (!progressed) throw new Error('no import could make progress');
+  }
+}
+
+function enqueue<T>(fn: () => Promise<T>): Promise<T> {
+  const s = state();
+  const next = s.chain.then(fn, fn);
+  s.chain = next.catch(() => undefined);
+  return next;
+}
+
+/**
+ * Screens every queued or unfinished import to the end, then returns (tests, the benchmark, scripts).
+ * Runs after any pass already going in this process.
+ */
+export function runImportsToCompletion(opts: RunOptions = {}): Promise<RunSummary> {
+  return enqueue(() => pass(opts));
+}
+
+function schedule(delayMs: number): void {
+  const s = state();
+  if (!s.started || s.stopping) return;
+  if (s.timer) clearTimeout(s.timer);
+  s.timer = setTimeout(() => {
+    s.timer = null;
+    enqueue(() => pass({})).then(
+      () => schedule(IDLE_POLL_MS),
+      (err: unknown) => {
+        log.error({ err, event: 'import.worker_pass_failed' }, 'import worker pass failed; retrying');
+        schedule(RETRY_MS);
+      },
+    );
+  }, delayMs);
+  s.timer.unref();
+}
+
+/** Starts the in-process worker (idempotent). On start it resumes imports left in screening. */
+export function startImportWorker(): void {
+  const s = state();
+  if (s.started) return;
+  s.started = true;
+  s.stopping = false;
+  log.info({ event: 'import.worker_started' }, 'import worker started');
+  schedule(0);
+}
+
+/** Asks a started worker to look for work now (after an upload), instead of at its next poll. */
+export function wakeImportWorker(): void {
+  const s = state();
+  if (s.started && !s.stopping && s.timer) schedule(0);
+}
+
+/** Stops the background loop after its current chunk. */
+export async function stopImportWorker(): Promise<void> {
+  const s = state();
+  s.stopping = true;
+  if (s.timer) clearTimeout(s.timer);
+  s.timer = null;
+  s.started = false;
+  await s.chain;
+  s.stopping = false;
+}
