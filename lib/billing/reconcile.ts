@@ -33,14 +33,14 @@ export async function reconcileUsage(
   const now = opts.now ?? new Date();
   const window = reconciliationWindow(billing.currentPeriodStart, now);
   const windowStart = isoFromSeconds(window.start);
+  const windowEnd = isoFromSeconds(window.end);
+  const countLedger = () => countLedgerUnits(scope, { from: windowStart, to: windowEnd, billableSince: billing.meteredSince });
   const stored = billing.reconciliation;
-  if (
-    stored &&
-    stored.windowStart === windowStart &&
-    opts.maxAgeMs !== undefined &&
-    now.getTime() - Date.parse(stored.checkedAt) < opts.maxAgeMs
-  ) {
-    return stored;
+  if (stored && stored.windowStart === windowStart && opts.maxAgeMs !== undefined && now.getTime() - Date.parse(stored.checkedAt) < opts.maxAgeMs) {
+    // Reuse a fresh check only while the ledger still says what it said then: every unit sent since
+    // would make the stored figures look like a difference that is not there.
+    const current = await countLedger();
+    if (current.units === stored.ledgerUnits && current.sentUnits === stored.providerUnits) return stored;
   }
 
   const meter = await meterId();
@@ -53,8 +53,7 @@ export async function reconcileUsage(
   })) {
     providerUnits += summary.aggregated_value;
   }
-  const windowEnd = isoFromSeconds(window.end);
-  const ledger = await countLedgerUnits(scope, { from: windowStart, to: windowEnd, billableSince: billing.meteredSince });
+  const ledger = await countLedger();
   const result = {
     windowStart,
     windowEnd,
