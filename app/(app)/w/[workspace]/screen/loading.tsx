@@ -1,0 +1,5 @@
+import { PageSkeleton } from '@/components/screening/skeletons';
+
+export default function Loading() {
+  return <PageSkeleton title="the form" />;
+}

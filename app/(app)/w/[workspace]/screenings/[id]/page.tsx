@@ -1,0 +1,151 @@
+import Form from 'next/form';
+import { notFound } from 'next/navigation';
+import { requireMember } from '@/lib/auth/guards';
+import { can } from '@/lib/auth/policy';
+import { getScreening, routeLabel } from '@/db/screenings';
+import {
+  compareValidated,
+  DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT,
+  DEFAULT_MAX_FUEL_PENALTY_PCT,
+  type CruiseLevelRow,
+} from '@/lib/screening';
+import { compareCruiseLevelsOptionsSchema } from '@/lib/validation/screening';
+import { AppError } from '@/lib/errors';
+import { formatDate, formatDateTime } from '@/lib/format';
+import { Card, PageHeader } from '@/components/ui/card';
+import { ButtonLink, buttonClass } from '@/components/ui/button';
+import { Field, TextInput } from '@/components/ui/field';
+import { Notice } from '@/components/ui/notice';
+import { HeadlineFigures } from '@/components/screening/headline-figures';
+import { ScreeningCautions } from '@/components/screening/cautions';
+import { WhatIfTable } from '@/components/screening/what-if-table';
+import { SegmentTable } from '@/components/screening/segment-table';
+import { AssumptionsList } from '@/components/screening/assumptions-list';
+import { profileSeries } from '@/components/screening/profile-series';
+import { cruiseLabel, mapPointsFor } from '@/components/screening/describe';
+import { VerticalProfileChart } from '@/components/charts/vertical-profile-chart';
+import { RouteMap } from '@/components/maps/route-map';
+
+export const metadata = { title: 'Screening result' };
+
+type Search = Record<string, string | string[] | undefined>;
+
+const one = (v: string | string[] | undefined): string | undefined => (Array.isArray(v) ? v[0] : v);
+
+function readWhatIf(search: Search): { limit: number; rate: number; problems: Record<string, string>; raw: { limit: string; rate: string } } {
+  const raw = { limit: one(search.limit) ?? '', rate: one(search.rate) ?? '' };
+  const problems: Record<string, string> = {};
+  const candidate: Record<string, number> = {};
+  if (raw.limit.trim() !== '') candidate.maxFuelPenaltyPct = Number(raw.limit);
+  if (raw.rate.trim() !== '') candidate.fuelPenaltyPctPer1000Ft = Number(raw.rate);
+  const parsed = compareCruiseLevelsOptionsSchema.safeParse(candidate);
+  if (!parsed.success) {
+    for (const issue of parsed.error.issues) {
+      const key = issue.path[0] === 'maxFuelPenaltyPct' ? 'limit' : 'rate';
+      problems[key] = issue.message;
+    }
+  }
+  const ok = parsed.success ? parsed.data : {};
+  return {
+    limit: problems.limit ? DEFAULT_MAX_FUEL_PENALTY_PCT : (ok.maxFuelPenaltyPct ?? DEFAULT_MAX_FUEL_PENALTY_PCT),
+    rate: problems.rate ? DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT : (ok.fuelPenaltyPctPer1000Ft ?? DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT),
+    problems,
+    raw,
+  };
+}
+
+export default async function ScreeningResultPage({ params, searchParams }: { params: Promise<{ workspace: string; id: string }>; searchParams: Promise<Search> }) {
+  const [{ workspace: slug, id }, search] = await Promise.all([params, searchParams]);
+  const { workspace, user, role } = await requireMember(slug, 'flights:read');
+  if (!/^\d{1,12}$/.test(id)) notFound();
+  let record;
+  try {
+    record = await getScreening({ workspaceId: workspace.id }, Number(id));
+  } catch (err) {
+    if (err instanceof AppError && err.status === 404) notFound();
+    throw err;
+  }
+  const { input, result } = record;
+  const units = user.units;
+  const whatIf = readWhatIf(search);
+  let levels: CruiseLevelRow[] | null = null;
+  try {
+    levels = compareValidated(input, { maxFuelPenaltyPct: whatIf.limit, fuelPenaltyPctPer1000Ft: whatIf.rate });
+  } catch {
+    levels = null;
+  }
+  const series = profileSeries(result.segments, units);
+  const points = mapPointsFor(input);
+  const label = routeLabel(input);
+  const exportBase = `/api/v1/workspaces/${slug}/screenings/${record.id}/export`;
+  const keep = Object.entries(search).filter(([k]) => k === 'seg_sort' || k === 'seg_page');
+  const facts = [
+    label,
+    record.aircraftCode ? `aircraft ${record.aircraftCode}` : null,
+    cruiseLabel(input),
+    input.flightDate ? `flight date ${formatDate(input.flightDate)}` : result.month ? `month ${result.month}` : 'annual-mean tropopause',
+    `saved ${formatDateTime(record.createdAt)}`,
+  ].filter(Boolean);
+
+  return (
+    <>
+      <PageHeader
+        title={record.name}
+        lead={facts.join(' · ')}
+        actions={
+          <>
+            <a className={buttonClass('secondary')} href={`${exportBase}?format=csv`} download>
+              Export CSV
+            </a>
+            <a className={buttonClass('secondary')} href={`${exportBase}?format=json`} download>
+              Export JSON
+            </a>
+            {can(role, 'screenings:create') ? <ButtonLink href={`/w/${slug}/screen`}>Screen another flight</ButtonLink> : null}
+          </>
+        }
+      />
+      <div className="space-y-6">
+        <ScreeningCautions cautions={result.cautions} />
+        <HeadlineFigures result={result} units={units} />
+        <div className="grid gap-6 xl:grid-cols-2">
+          <Card title="Vertical profile">
+            <VerticalProfileChart series={series} label={`Cruise altitude and tropopause along ${label}`} />
+          </Card>
+          <Card title="Route">
+            <RouteMap points={points} segments={result.segments} title={`Map of ${label}, coloured by position against the tropopause`} />
+          </Card>
+        </div>
+        <Card title="Other cruise levels">
+          <Form action="" className="mb-4 flex flex-wrap items-end gap-3" scroll={false}>
+            {keep.map(([k, v]) => (
+              <input key={k} type="hidden" name={k} value={one(v) ?? ''} />
+            ))}
+            <Field id="limit" label="Fuel-penalty limit (%)" error={whatIf.problems.limit} className="w-48">
+              <TextInput id="limit" name="limit" inputMode="decimal" defaultValue={whatIf.raw.limit || String(whatIf.limit)} invalid={!!whatIf.problems.limit} />
+            </Field>
+            <Field id="rate" label="Penalty per 1000 ft (%)" error={whatIf.problems.rate} className="w-48">
+              <TextInput id="rate" name="rate" inputMode="decimal" defaultValue={whatIf.raw.rate || String(whatIf.rate)} invalid={!!whatIf.problems.rate} />
+            </Field>
+            <button type="submit" className={buttonClass('secondary')}>
+              Compare levels
+            </button>
+          </Form>
+          {levels ? (
+            <WhatIfTable rows={levels} units={units} limitPct={whatIf.limit} ratePctPer1000Ft={whatIf.rate} />
+          ) : (
+            <Notice tone="danger">The other levels could not be worked out for this saved input with the current methods.</Notice>
+          )}
+          <p className="mt-2 text-xs text-ink-soft">Worked out now from the saved input; the figures above are as saved (engine version {result.engineVersion}).</p>
+        </Card>
+        <Card title="Segments">
+          <div id="segments">
+            <SegmentTable segments={result.segments} units={units} />
+          </div>
+        </Card>
+        <Card title="How these figures were made">
+          <AssumptionsList result={result} />
+        </Card>
+      </div>
+    </>
+  );
+}

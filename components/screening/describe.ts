@@ -1,0 +1,22 @@
+import 'server-only';
+import { findAirport } from '@/lib/screening';
+import type { ScreeningInput } from '@/lib/validation/screening';
+import type { MapPoint } from '@/components/maps/route-map';
+
+/** The route's points for the map: airports by their ICAO code (IATA when it has none), coordinates as given. */
+export function mapPointsFor(input: ScreeningInput): MapPoint[] {
+  const out: MapPoint[] = [];
+  for (const w of input.route.waypoints) {
+    if ('airport' in w) {
+      const a = findAirport(w.airport);
+      if (a) out.push({ lat: a.lat, lon: a.lon, label: a.icao ?? a.iata ?? w.airport.toUpperCase() });
+    } else out.push({ lat: w.lat, lon: w.lon, label: null });
+  }
+  return out;
+}
+
+/** "FL350" or "FL350 → FL390 at 4 000 km" style summary of the cruise. */
+export function cruiseLabel(input: ScreeningInput): string {
+  if ('flightLevel' in input.cruise) return `FL${input.cruise.flightLevel}`;
+  return input.cruise.steps.map((s) => `FL${s.flightLevel}`).join(' → ');
+}

@@ -1,0 +1,65 @@
+import type { ScreeningResult } from '@/lib/screening';
+import type { UnitSystem } from '@/lib/validation/screen-form';
+import { Stat } from '@/components/ui/card';
+import { formatAltitude, formatDistance, formatMass, formatNumber, formatPercent } from '@/lib/format';
+
+export const EI_METHOD_LABELS: Record<ScreeningResult['eiMethod'], string> = {
+  direct: 'EI NOx given directly',
+  bffm2: 'Boeing Fuel Flow Method 2',
+  dlr: 'DLR fuel-flow method',
+};
+
+export type HeadlineResult = Pick<
+  ScreeningResult,
+  | 'distanceKm'
+  | 'fuelKg'
+  | 'noxTotalKg'
+  | 'noxAboveTropopauseKg'
+  | 'noxAboveTropopauseKgN'
+  | 'fractionAboveTropopause'
+  | 'meanDepthAboveTropopauseKm'
+  | 'eiMethod'
+  | 'meanCruiseEiNoxGPerKg'
+  | 'eiComparison'
+> & { ozoneLoss: Pick<ScreeningResult['ozoneLoss'], 'centralKg' | 'lowKg' | 'highKg'> };
+
+/** The headline figures of one screening, in the user's units. */
+export function HeadlineFigures({ result, units, compact = false }: { result: HeadlineResult; units: UnitSystem; compact?: boolean }) {
+  const r = result;
+  const grid = compact ? 'grid gap-3 sm:grid-cols-2 xl:grid-cols-3' : 'grid gap-3 sm:grid-cols-2 lg:grid-cols-4';
+  return (
+    <div className={grid} data-testid="headline-figures">
+      <Stat label="Distance" value={formatDistance(r.distanceKm, units)} sub="great circle along the waypoints" />
+      <Stat label="Cruise fuel" value={formatMass(r.fuelKg, units)} />
+      <Stat label="NOx emitted" value={formatMass(r.noxTotalKg, units)} sub="as NO2" />
+      <Stat
+        label="NOx above tropopause"
+        value={<span data-testid="nox-above">{formatMass(r.noxAboveTropopauseKg, units)}</span>}
+        sub={`as NO2 · ${formatMass(r.noxAboveTropopauseKgN, units)} as N`}
+        tone="strato"
+      />
+      <Stat label="Share above" value={<span data-testid="share-above">{formatPercent(r.fractionAboveTropopause, 1)}</span>} sub="of the flight's NOx mass" tone="strato" />
+      <Stat
+        label="Mean depth above"
+        value={r.noxAboveTropopauseKg > 0 ? formatAltitude(r.meanDepthAboveTropopauseKm * 1000, units) : '–'}
+        sub="NOx-weighted, over the part above"
+        tone="strato"
+      />
+      <Stat
+        label="Ozone-loss figure"
+        value={<span data-testid="ozone-central">{formatMass(r.ozoneLoss.centralKg, units)}</span>}
+        sub={`O3, range ${formatMass(r.ozoneLoss.lowKg, units)} – ${formatMass(r.ozoneLoss.highKg, units)}; gross catalytic loss`}
+        tone="strato"
+      />
+      <Stat
+        label="EI NOx"
+        value={`${formatNumber(r.meanCruiseEiNoxGPerKg, 1)} g/kg`}
+        sub={
+          r.eiComparison
+            ? `${EI_METHOD_LABELS[r.eiMethod]}; BFFM2 ${formatNumber(r.eiComparison.bffm2, 1)} vs DLR ${formatNumber(r.eiComparison.dlr, 1)} g/kg`
+            : EI_METHOD_LABELS[r.eiMethod]
+        }
+      />
+    </div>
+  );
+}

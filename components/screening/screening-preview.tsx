@@ -1,0 +1,89 @@
+'use client';
+
+import type { CruiseLevelRow, ScreeningResult } from '@/lib/screening';
+import type { UnitSystem } from '@/lib/validation/screen-form';
+import { Card } from '@/components/ui/card';
+import { Field, TextInput } from '@/components/ui/field';
+import { Notice } from '@/components/ui/notice';
+import { VerticalProfileChart } from '@/components/charts/vertical-profile-chart';
+import { HeadlineFigures } from './headline-figures';
+import { WhatIfTable } from './what-if-table';
+import { ScreeningCautions } from './cautions';
+import { profileSeries } from './profile-series';
+
+export interface PreviewResponse {
+  input: unknown;
+  aircraft: string | null;
+  result: ScreeningResult;
+  levels: CruiseLevelRow[];
+}
+
+interface Props {
+  units: UnitSystem;
+  data: PreviewResponse | undefined;
+  /** What keeps the preview from running, in the form's words (first few problems). */
+  waitingFor: string[];
+  fetching: boolean;
+  stale: boolean;
+  error: string | null;
+  limit: string;
+  limitError: string | null;
+  limitPct: number;
+  ratePct: number;
+  onLimitChange: (value: string) => void;
+}
+
+/** The live preview beside the form: headline figures, a small profile and the other levels. */
+export function ScreeningPreview({ units, data, waitingFor, fetching, stale, error, limit, limitError, limitPct, ratePct, onLimitChange }: Props) {
+  let status: string;
+  if (waitingFor.length) status = 'Waiting for the fields below';
+  else if (error) status = 'Preview not updated';
+  else if (fetching || stale) status = 'Updating…';
+  else if (data) status = 'Up to date';
+  else status = 'Preview';
+  return (
+    <Card
+      title="Preview"
+      actions={
+        <span role="status" aria-live="polite" data-testid="preview-status" className="text-xs font-medium text-ink-soft">
+          {status}
+        </span>
+      }
+    >
+      <div className="space-y-4">
+        {waitingFor.length ? (
+          <Notice tone="info" title="To see a preview">
+            <ul className="list-disc pl-5">
+              {waitingFor.map((w) => (
+                <li key={w}>{w}</li>
+              ))}
+            </ul>
+          </Notice>
+        ) : null}
+        {error ? (
+          <Notice tone="danger" role="alert">
+            {error}
+          </Notice>
+        ) : null}
+        {data ? (
+          <div className={`space-y-4 transition-opacity ${fetching || stale || waitingFor.length ? 'opacity-60' : ''}`} data-testid="preview-figures">
+            <HeadlineFigures result={data.result} units={units} compact />
+            <VerticalProfileChart series={profileSeries(data.result.segments, units)} label="Preview of the cruise altitude and tropopause" height={220} />
+            <div>
+              <div className="mb-2 flex flex-wrap items-end justify-between gap-3">
+                <h3 className="text-sm font-semibold text-ink">Other cruise levels</h3>
+                <Field id="preview-limit" label="Fuel-penalty limit (%)" error={limitError ?? undefined} className="w-44">
+                  <TextInput id="preview-limit" inputMode="decimal" value={limit} onChange={(e) => onLimitChange(e.target.value)} invalid={!!limitError} />
+                </Field>
+              </div>
+              <WhatIfTable rows={data.levels} units={units} limitPct={limitPct} ratePctPer1000Ft={ratePct} />
+            </div>
+            <ScreeningCautions cautions={data.result.cautions} />
+          </div>
+        ) : !waitingFor.length && !error ? (
+          <p className="text-sm text-ink-soft">Working out the first figures…</p>
+        ) : null}
+      </div>
+    </Card>
+  );
+}

@@ -1,0 +1,34 @@
+/** Placeholders shown while a screening page loads. */
+export function PageSkeleton({ title, blocks = 3 }: { title: string; blocks?: number }) {
+  return (
+    <div aria-busy="true" aria-live="polite">
+      <p className="sr-only">Loading {title}…</p>
+      <div className="mb-6 space-y-2">
+        <div className="h-7 w-72 animate-pulse rounded bg-paper-sunk" />
+        <div className="h-4 w-[28rem] max-w-full animate-pulse rounded bg-paper-sunk" />
+      </div>
+      <div className="mb-6 grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
+        {Array.from({ length: 4 }, (_, i) => (
+          <div key={i} className="h-20 animate-pulse rounded-card border border-line bg-paper-raised" />
+        ))}
+      </div>
+      <div className="space-y-6">
+        {Array.from({ length: blocks }, (_, i) => (
+          <div key={i} className="h-64 animate-pulse rounded-card border border-line bg-paper-raised" />
+        ))}
+      </div>
+    </div>
+  );
+}
+
+export function SegmentError({ what, reset }: { what: string; reset: () => void }) {
+  return (
+    <div role="alert" className="rounded-card border border-danger/40 bg-danger-soft p-6">
+      <h1 className="text-lg font-semibold text-ink">{what} could not be shown</h1>
+      <p className="mt-1 text-sm text-ink-soft">Nothing you saved was lost. Try again; if it keeps happening, note the time and tell your administrator.</p>
+      <button type="button" onClick={reset} className="mt-4 rounded-md bg-accent px-3.5 py-2 text-sm font-medium text-white hover:bg-accent-strong">
+        Try again
+      </button>
+    </div>
+  );
+}

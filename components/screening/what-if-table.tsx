@@ -1,0 +1,74 @@
+import type { CruiseLevelRow } from '@/lib/screening';
+import type { UnitSystem } from '@/lib/validation/screen-form';
+import { formatMass, formatNumber } from '@/lib/format';
+
+function levelsLabel(row: Pick<CruiseLevelRow, 'flightLevels'>): string {
+  return row.flightLevels.map((fl) => `FL${fl}`).join(' → ');
+}
+
+function deltaLabel(deltaFt: number): string {
+  if (deltaFt === 0) return 'as planned';
+  return `${deltaFt > 0 ? '+' : '−'}${formatNumber(Math.abs(deltaFt))} ft`;
+}
+
+/**
+ * Other cruise levels for the same flight: fuel with the penalty for leaving the planned level, the
+ * NOx above the tropopause and the ozone figure; the lowest-impact level within the limit marked.
+ */
+export function WhatIfTable({ rows, units, limitPct, ratePctPer1000Ft }: { rows: readonly CruiseLevelRow[]; units: UnitSystem; limitPct: number; ratePctPer1000Ft: number }) {
+  const best = rows.find((r) => r.lowestImpact);
+  return (
+    <div>
+      <div className="overflow-x-auto">
+        <table className="w-full min-w-[640px] text-sm" data-testid="what-if-table">
+          <caption className="sr-only">Cruise levels compared, with a fuel-penalty limit of {formatNumber(limitPct, 1)} %</caption>
+          <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
+            <tr>
+              <th scope="col" className="py-2 pr-3">Cruise</th>
+              <th scope="col" className="py-2 pr-3">Change</th>
+              <th scope="col" className="py-2 pr-3 text-right">Fuel</th>
+              <th scope="col" className="py-2 pr-3 text-right">Fuel penalty</th>
+              <th scope="col" className="py-2 pr-3 text-right">NOx above tropopause</th>
+              <th scope="col" className="py-2 pr-3 text-right">Ozone-loss figure</th>
+              <th scope="col" className="py-2">Within limit</th>
+            </tr>
+          </thead>
+          <tbody className="figure">
+            {rows.map((r) => (
+              <tr
+                key={r.deltaFt}
+                data-lowest-impact={r.lowestImpact ? 'true' : undefined}
+                className={`border-t border-line ${r.lowestImpact ? 'bg-tropo-soft font-medium' : ''} ${r.withinLimit ? '' : 'text-ink-faint'}`}
+              >
+                <th scope="row" className="py-2 pr-3 text-left font-medium">
+                  {levelsLabel(r)}
+                  {r.lowestImpact ? (
+                    <span className="ml-2 rounded bg-tropo px-1.5 py-0.5 text-[11px] font-semibold uppercase tracking-wide text-white">lowest impact</span>
+                  ) : null}
+                </th>
+                <td className="py-2 pr-3">{deltaLabel(r.deltaFt)}</td>
+                <td className="py-2 pr-3 text-right">{formatMass(r.fuelKg, units)}</td>
+                <td className="py-2 pr-3 text-right">{formatNumber(r.fuelPenaltyPct, 1)} %</td>
+                <td className="py-2 pr-3 text-right">{formatMass(r.noxAboveTropopauseKg, units)}</td>
+                <td className="py-2 pr-3 text-right">
+                  {formatMass(r.ozoneLoss.centralKg, units)}
+                  <span className="block text-xs font-normal text-ink-faint">
+                    {formatMass(r.ozoneLoss.lowKg, units)} – {formatMass(r.ozoneLoss.highKg, units)}
+                  </span>
+                </td>
+                <td className="py-2">{r.withinLimit ? 'yes' : 'no'}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+      <p className="mt-2 text-xs text-ink-soft">
+        {best
+          ? `Within a ${formatNumber(limitPct, 1)} % fuel penalty, ${levelsLabel(best)} gives the smallest ozone-loss figure.`
+          : `No level stays within a ${formatNumber(limitPct, 1)} % fuel penalty.`}{' '}
+        The fuel penalty ({formatNumber(ratePctPer1000Ft, 1)} % per 1000 ft away from the planned level) is a rule of thumb (common practice), not
+        a performance calculation: check any level against the flight plan, performance data and ATC constraints.
+      </p>
+    </div>
+  );
+}
