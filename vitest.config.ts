@@ -26,6 +26,15 @@ export default defineConfig({
       {
         extends: true,
         test: {
+          name: 'fuzz',
+          include: ['tests/fuzz/**/*.test.ts'],
+          environment: 'node',
+          globalSetup: ['tests/support/global-setup.ts'],
+        },
+      },
+      {
+        extends: true,
+        test: {
           name: 'integration',
           include: ['tests/integration/**/*.test.ts'],
           environment: 'node',

@@ -1,7 +1,6 @@
 import { apiRequest, call, sessionCookie } from '../../support/test-db';
 import { db, nowIso } from '@/db/client';
 import { createApiKey } from '@/db/api-keys';
-import * as screeningsRoute from '@/app/api/v1/workspaces/[slug]/screenings/route';
 
 /** A small valid flight (DESIGN.md's screenFlight input). */
 export const FLIGHT = {
@@ -12,6 +11,14 @@ export const FLIGHT = {
   month: 1,
 };
 
+export const SOUNDING_LEVELS = [
+  { altitudeM: 8000, temperatureK: 236 },
+  { altitudeM: 9000, temperatureK: 229 },
+  { altitudeM: 10500, temperatureK: 219 },
+  { altitudeM: 12000, temperatureK: 217 },
+  { altitudeM: 14000, temperatureK: 217 },
+];
+
 export interface Ws {
   id: number;
   slug: string;
@@ -19,6 +26,21 @@ export interface Ws {
 }
 
 type Maker = (ws: Ws) => Promise<number>;
+type Handler = (req: Request, ctx: { params: Promise<Record<string, string>> }) => Promise<Response>;
+
+const unique = () => `${Date.now().toString(36)}${Math.random().toString(36).slice(2, 7)}`;
+
+/** Creates a row through the route's own POST handler, as the workspace owner, and returns its id. */
+async function viaPost(ws: Ws, handler: Handler, resource: string, body: unknown): Promise<number> {
+  const r = await call<{ id: number }>(handler, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/${resource}`, { cookie: await sessionCookie(ws.owner.id), body }), { slug: ws.slug });
+  if (r.status !== 201 || typeof r.body.id !== 'number') throw new Error(`fixture ${resource}: ${r.status} ${JSON.stringify(r.body).slice(0, 300)}`);
+  return r.body.id;
+}
+
+async function fleet(ws: Ws): Promise<number> {
+  const [row] = await db()('fleets').insert({ workspace_id: ws.id, name: `Fixture fleet ${unique()}`, description: '', created_at: nowIso() }).returning('id');
+  return Number(typeof row === 'object' ? row.id : row);
+}
 
 /**
  * Makes one row of the right workspace for a route's `[id]`, keyed by the path segment before it.
@@ -26,14 +48,20 @@ type Maker = (ws: Ws) => Promise<number>;
  * ambiguous (the matrix reports those routes).
  */
 export const ID_FIXTURES: Record<string, Maker> = {
-  screenings: async (ws) => {
-    const r = await call<{ id: number }>(screeningsRoute.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings`, { cookie: await sessionCookie(ws.owner.id), body: FLIGHT }), { slug: ws.slug });
-    if (r.status !== 201) throw new Error(`fixture screening: ${r.status} ${JSON.stringify(r.body)}`);
-    return r.body.id;
-  },
-  'api-keys': async (ws) => (await createApiKey({ workspaceId: ws.id }, { name: `fixture-${Date.now()}`, role: 'viewer', createdBy: ws.owner.id, actor: 'fixture' })).id,
-  fleets: async (ws) => {
-    const [row] = await db()('fleets').insert({ workspace_id: ws.id, name: `Fixture fleet ${Math.random().toString(36).slice(2)}`, description: '', created_at: nowIso() }).returning('id');
+  screenings: async (ws) => viaPost(ws, (await import('@/app/api/v1/workspaces/[slug]/screenings/route')).POST, 'screenings', FLIGHT),
+  'api-keys': async (ws) => (await createApiKey({ workspaceId: ws.id }, { name: `fixture-${unique()}`, role: 'viewer', createdBy: ws.owner.id, actor: 'fixture' })).id,
+  fleets: fleet,
+  engines: async (ws) =>
+    viaPost(ws, (await import('@/app/api/v1/workspaces/[slug]/engines/route')).POST, 'engines', { name: `Fixture engine ${unique()}`, fuelFlowKgS: [0.1, 0.3, 0.9, 1.1], eiNoxGPerKg: [5, 11, 23, 30], source: 'fixture' }),
+  'aircraft-types': async (ws) =>
+    viaPost(ws, (await import('@/app/api/v1/workspaces/[slug]/aircraft-types/route')).POST, 'aircraft-types', { code: `FX-${unique()}`.slice(0, 16), name: 'Fixture', directEiGPerKg: 14, engineCount: 2, typicalMach: 0.8, typicalFlightLevel: 370 }),
+  routes: async (ws) => viaPost(ws, (await import('@/app/api/v1/workspaces/[slug]/routes/route')).POST, 'routes', { name: `Fixture route ${unique()}`, waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] }),
+  soundings: async (ws) => viaPost(ws, (await import('@/app/api/v1/workspaces/[slug]/soundings/route')).POST, 'soundings', { name: `Fixture sounding ${unique()}`, levels: SOUNDING_LEVELS }),
+  reports: async (ws) => viaPost(ws, (await import('@/app/api/v1/workspaces/[slug]/reports/route')).POST, 'reports', { name: `Fixture report ${unique()}`, from: '2026-09-01', to: '2026-11-30', fleetIds: [await fleet(ws)] }),
+  imports: async (ws) => {
+    const [row] = await db()('imports')
+      .insert({ workspace_id: ws.id, kind: 'schedule', file_name: 'fixture.csv', file_hash: unique().padEnd(64, '0').slice(0, 64), status: 'complete', rows: 0, rows_done: 0, created_by: ws.owner.id, created_at: nowIso(), finished_at: nowIso() })
+      .returning('id');
     return Number(typeof row === 'object' ? row.id : row);
   },
 };
