@@ -26,12 +26,11 @@ export interface Ws {
 }
 
 type Maker = (ws: Ws) => Promise<number>;
-type Handler = (req: Request, ctx: { params: Promise<Record<string, string>> }) => Promise<Response>;
 
 const unique = () => `${Date.now().toString(36)}${Math.random().toString(36).slice(2, 7)}`;
 
 /** Creates a row through the route's own POST handler, as the workspace owner, and returns its id. */
-async function viaPost(ws: Ws, handler: Handler, resource: string, body: unknown): Promise<number> {
+async function viaPost(ws: Ws, handler: unknown, resource: string, body: unknown): Promise<number> {
   const r = await call<{ id: number }>(handler, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/${resource}`, { cookie: await sessionCookie(ws.owner.id), body }), { slug: ws.slug });
   if (r.status !== 201 || typeof r.body.id !== 'number') throw new Error(`fixture ${resource}: ${r.status} ${JSON.stringify(r.body).slice(0, 300)}`);
   return r.body.id;
