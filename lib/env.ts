@@ -43,6 +43,8 @@ const envSchema = z.object({
   BILLING_SENDER: z.enum(['0', '1', 'true', 'false', '']).optional().transform((v) => v !== '0' && v !== 'false'),
   BILLING_SENDER_INTERVAL_MS: int(2_000),
   IMPORT_WORKER: z.enum(['0', '1', 'true', 'false', '']).optional().transform((v) => v !== '0' && v !== 'false'),
+  /** Set by Next while it builds; background work does not start then. */
+  NEXT_PHASE: z.string().optional(),
 });
 
 export type Env = z.infer<typeof envSchema>;
