@@ -114,7 +114,7 @@ export const scheduleRowSchema = z
   .object({
     date: z
       .string({ error: 'Give the date as YYYY-MM-DD (UTC).' })
-      .regex(DATE_RE, { error: 'Write the date as YYYY-MM-DD (UTC), such as 2026-11-03.' })
+      .regex(DATE_RE, { error: 'Write the date as YYYY-MM-DD (UTC), such as 2026-11-03.', abort: true })
       .refine(isRealDate, { error: 'This date does not exist in the calendar.' }),
     flight: text(16, 'Give the flight number.', 'A flight number has at most 16 characters.').transform((s) => s.toUpperCase()),
     origin: airport('origin'),
@@ -138,7 +138,7 @@ export type ScheduleRow = z.output<typeof scheduleRowSchema>;
 /** Trimmed cells of one CSV row by column; empty cells are left out. */
 export type ScheduleCells = Partial<Record<ScheduleColumn, string>>;
 
-const day = z.string().regex(DATE_RE, { error: 'Use a date as YYYY-MM-DD.' }).refine(isRealDate, { error: 'This date does not exist in the calendar.' });
+const day = z.string().regex(DATE_RE, { error: 'Use a date as YYYY-MM-DD.', abort: true }).refine(isRealDate, { error: 'This date does not exist in the calendar.' });
 const positiveId = (what: string) => z.coerce.number({ error: `The ${what} must be a number.` }).int({ error: `The ${what} must be a whole number.` }).positive({ error: `The ${what} must be a whole number.` });
 const emptyToUndefined = (v: unknown) => (v === '' ? undefined : v);
 

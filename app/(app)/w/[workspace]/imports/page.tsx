@@ -1,0 +1,71 @@
+import { requireMember } from '@/lib/auth/guards';
+import { can } from '@/lib/auth/policy';
+import { listImports } from '@/db/imports';
+import { listAircraftForScreening } from '@/db/aircraft-lookup';
+import { listFleetsByName } from '@/db/flights';
+import { scheduleTemplateCsv } from '@/lib/imports/schedule-template';
+import { todayIso } from '@/lib/clock';
+import { Card, EmptyState, PageHeader } from '@/components/ui/card';
+import { ButtonLink } from '@/components/ui/button';
+import { Notice } from '@/components/ui/notice';
+import { FormatGuide } from '@/components/imports/format-guide';
+import { UploadForm } from '@/components/imports/upload-form';
+import { ImportList } from '@/components/imports/import-list';
+import { deleteImportAction } from './actions';
+
+export const metadata = { title: 'Imports' };
+
+export default async function ImportsPage({ params }: { params: Promise<{ workspace: string }> }) {
+  const { workspace: slug } = await params;
+  const { workspace, role } = await requireMember(slug, 'flights:read');
+  const scope = { workspaceId: workspace.id };
+  const [imports, types, fleets] = await Promise.all([listImports(scope, { limit: 50 }), listAircraftForScreening(scope), listFleetsByName(scope)]);
+  const canUpload = can(role, 'imports:create');
+  const canDelete = can(role, 'imports:delete');
+  const codes = [...types.values()].filter((t) => t.emission !== null).map((t) => t.code).sort();
+  const example = scheduleTemplateCsv({ aircraft: codes, fleets: [...fleets.values()].map((f) => f.name).sort(), day: todayIso() }).trim().replace(/\r/g, '');
+  const templateHref = `/api/v1/workspaces/${slug}/imports/template`;
+
+  return (
+    <>
+      <PageHeader
+        title="Schedule imports"
+        lead="Upload a flight schedule as CSV. Every row is checked before anything is saved; accepted flights are screened in the background, and each screened flight is one billable unit."
+        actions={<ButtonLink href={`/w/${slug}/flights`} variant="secondary">Flights</ButtonLink>}
+      />
+      <div className="grid items-start gap-6 lg:grid-cols-[2fr_3fr]">
+        <Card title="Upload a schedule">
+          {canUpload ? (
+            codes.length ? (
+              <UploadForm slug={slug} />
+            ) : (
+              <Notice tone="caution" title="Add an aircraft type first">
+                Each row names an aircraft type of this workspace, which supplies its EI NOx and typical Mach. Add one with engine data or a
+                direct EI NOx under Engines &amp; aircraft, then upload.
+              </Notice>
+            )
+          ) : (
+            <p className="text-sm text-ink-soft">Your role can read imports but not upload them. A flight planner, analyst or owner uploads schedules.</p>
+          )}
+        </Card>
+        <Card title="File format">
+          <FormatGuide example={example} templateHref={templateHref} />
+        </Card>
+      </div>
+      <Card title="Imports" className="mt-6">
+        {imports.items.length === 0 ? (
+          <EmptyState title="No schedule imported yet">
+            {canUpload ? 'Download the template, fill in your flights and upload it above; progress shows here while the flights are screened.' : 'Imports appear here once a planner, analyst or owner uploads a schedule.'}
+          </EmptyState>
+        ) : (
+          <>
+            <ImportList slug={slug} imports={imports.items} canDelete={canDelete} onDelete={deleteImportAction.bind(null, slug)} />
+            {canDelete ? (
+              <p className="mt-2 text-xs text-ink-soft">Deleting an import removes its flights. Units already billed for flights it screened stay billed.</p>
+            ) : null}
+          </>
+        )}
+      </Card>
+    </>
+  );
+}

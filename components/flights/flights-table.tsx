@@ -1,0 +1,77 @@
+import type { FlightDto } from '@/db/flights';
+import type { UnitSystem } from '@/db/users';
+import { formatDistance, formatMass, formatPercent } from '@/lib/format';
+
+function cruise(f: FlightDto): string {
+  return f.cruiseFl === f.maxFl ? `FL${f.cruiseFl}` : `FL${f.cruiseFl}–${f.maxFl}`;
+}
+
+const num = 'px-2 py-2 text-right figure whitespace-nowrap';
+
+/** One page of flights with their screening figures in the user's units; pending and failed flights say so. */
+export function FlightsTable({ flights, units }: { flights: FlightDto[]; units: UnitSystem }) {
+  return (
+    <div className="overflow-x-auto">
+      <table className="w-full text-sm">
+        <caption className="sr-only">Flights and their screening figures</caption>
+        <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
+          <tr className="border-b border-line">
+            <th scope="col" className="px-2 py-2">Date</th>
+            <th scope="col" className="px-2 py-2">Flight</th>
+            <th scope="col" className="px-2 py-2">Route</th>
+            <th scope="col" className="px-2 py-2">Aircraft · fleet</th>
+            <th scope="col" className="px-2 py-2">Cruise</th>
+            <th scope="col" className="px-2 py-2 text-right">Distance</th>
+            <th scope="col" className="px-2 py-2 text-right">Fuel</th>
+            <th scope="col" className="px-2 py-2 text-right">NOx</th>
+            <th scope="col" className="px-2 py-2 text-right">NOx above</th>
+            <th scope="col" className="px-2 py-2 text-right">Share above</th>
+            <th scope="col" className="px-2 py-2 text-right">Ozone figure (range)</th>
+          </tr>
+        </thead>
+        <tbody>
+          {flights.map((f) => (
+            <tr key={f.id} className="border-b border-line align-top last:border-0">
+              <td className="whitespace-nowrap px-2 py-2">{f.date}</td>
+              <td className="whitespace-nowrap px-2 py-2 font-medium">{f.flight}</td>
+              <td className="whitespace-nowrap px-2 py-2">
+                {f.origin} → {f.destination}
+              </td>
+              <td className="px-2 py-2">
+                {f.aircraft}
+                {f.fleet ? <span className="block text-xs text-ink-faint">{f.fleet}</span> : null}
+              </td>
+              <td className="whitespace-nowrap px-2 py-2">
+                {cruise(f)}
+                {f.cruiseFl !== f.maxFl ? <span className="block text-xs text-ink-faint">step climb</span> : null}
+              </td>
+              {f.status === 'screened' ? (
+                <>
+                  <td className={num}>{formatDistance(f.distanceKm ?? 0, units)}</td>
+                  <td className={num}>{formatMass(f.fuelKg, units)}</td>
+                  <td className={num}>{formatMass(f.noxTotalKg ?? 0, units)}</td>
+                  <td className={`${num} text-strato-strong`}>{formatMass(f.noxAboveTropopauseKg ?? 0, units)}</td>
+                  <td className={`${num} text-strato-strong`}>{formatPercent(f.fractionAboveTropopause ?? 0, 0)}</td>
+                  <td className={num}>
+                    {formatMass(f.ozoneLoss?.centralKg ?? 0, units)}
+                    <span className="block text-xs text-ink-faint">
+                      {formatMass(f.ozoneLoss?.lowKg ?? 0, units)}–{formatMass(f.ozoneLoss?.highKg ?? 0, units)}
+                    </span>
+                  </td>
+                </>
+              ) : (
+                <>
+                  <td className={num}>–</td>
+                  <td className={num}>{formatMass(f.fuelKg, units)}</td>
+                  <td colSpan={4} className={`px-2 py-2 text-xs ${f.status === 'failed' ? 'text-danger' : 'text-ink-soft'}`}>
+                    {f.status === 'failed' ? `Not screened: ${f.failureReason ?? 'the engine refused this flight'}` : 'Waiting to be screened…'}
+                  </td>
+                </>
+              )}
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}

@@ -1,0 +1,35 @@
+import type { ImportProblem } from '@/lib/validation/imports';
+
+/** Problems of a schedule file by line and column (line 1 is the header; line 0 is the file as a whole). */
+export function ImportProblemsTable({ problems, caption, total }: { problems: readonly ImportProblem[]; caption: string; total?: number }) {
+  return (
+    <div>
+      <div className="max-h-80 overflow-auto rounded-md border border-line">
+        <table className="w-full text-sm">
+          <caption className="sr-only">{caption}</caption>
+          <thead className="sticky top-0 bg-paper-sunk text-left text-xs uppercase tracking-wide text-ink-soft">
+            <tr>
+              <th scope="col" className="w-16 px-3 py-1.5">Line</th>
+              <th scope="col" className="w-40 px-3 py-1.5">Column</th>
+              <th scope="col" className="px-3 py-1.5">What to fix</th>
+            </tr>
+          </thead>
+          <tbody>
+            {problems.map((p, i) => (
+              <tr key={`${p.line}-${p.column}-${i}`} className="border-t border-line align-top">
+                <td className="figure px-3 py-1.5">{p.line === 0 ? 'file' : p.line}</td>
+                <td className="px-3 py-1.5 font-mono text-xs">{p.column || '—'}</td>
+                <td className="px-3 py-1.5">{p.message}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+      {total !== undefined && total > problems.length ? (
+        <p className="mt-1 text-xs text-ink-soft">
+          Showing the first {problems.length} of {total} problems; fix these and upload again to see the rest.
+        </p>
+      ) : null}
+    </div>
+  );
+}

@@ -1,0 +1,296 @@
+import { createHash } from 'node:crypto';
+import type { Knex } from 'knex';
+import { findAirport, screenValidated, validateScreeningInput, type ScreeningInput } from '../lib/screening/index';
+import { todayIso } from '../lib/clock';
+
+/**
+ * Demo flights (invented schedules of the invented demo operators) over the three calendar months
+ * up to "today" (todayIso(), pinned by DEMO_TODAY), already screened, with one usage unit each, so
+ * the flights, fleets and reports pages have data right after `npm run demo`. Each month's flights
+ * come as one completed schedule import. Deterministic for a given day: every figure derives from
+ * the flight's own key. Idempotent: flights are unique by (workspace, date, flight, origin,
+ * destination) and imports by their file hash, so a re-run leaves the same rows.
+ */
+
+interface RouteSeed {
+  flight: string;
+  origin: string;
+  destination: string;
+  aircraft: string;
+  /** The route flies on days where (day number + offset) % every === 0. */
+  every: number;
+  offset: number;
+  /** Initial cruise level and the levels of later steps (fractions of the route). */
+  levels: number[];
+  /** Cruise fuel per great-circle km (demo values sized for each invented type). */
+  fuelKgPerKm: number;
+}
+
+const SCHEDULES: Record<string, RouteSeed[]> = {
+  'skarn-polar': [
+    { flight: 'SKP101', origin: 'EFHK', destination: 'RJAA', aircraft: 'SK-LR1', every: 3, offset: 0, levels: [350, 370, 390], fuelKgPerKm: 6.3 },
+    { flight: 'SKP102', origin: 'RJAA', destination: 'EFHK', aircraft: 'SK-LR1', every: 3, offset: 1, levels: [340, 360, 380], fuelKgPerKm: 6.4 },
+    { flight: 'SKP211', origin: 'EGLL', destination: 'KSEA', aircraft: 'SK-LR2', every: 4, offset: 0, levels: [350, 370, 390, 410], fuelKgPerKm: 7.0 },
+    { flight: 'SKP212', origin: 'KSEA', destination: 'EGLL', aircraft: 'SK-LR2', every: 4, offset: 2, levels: [360, 380, 400], fuelKgPerKm: 7.0 },
+    { flight: 'SKP305', origin: 'ENGM', destination: 'CYVR', aircraft: 'SK-LR1', every: 5, offset: 1, levels: [330, 350, 370], fuelKgPerKm: 6.2 },
+    { flight: 'SKP306', origin: 'CYVR', destination: 'ENGM', aircraft: 'SK-LR1', every: 5, offset: 3, levels: [340, 360, 380], fuelKgPerKm: 6.2 },
+    { flight: 'SKP417', origin: 'BIKF', destination: 'PANC', aircraft: 'SK-LR2', every: 6, offset: 2, levels: [370, 390], fuelKgPerKm: 7.2 },
+    { flight: 'SKP418', origin: 'PANC', destination: 'BIKF', aircraft: 'SK-LR2', every: 6, offset: 5, levels: [380, 400], fuelKgPerKm: 7.2 },
+    { flight: 'SKP521', origin: 'ESSA', destination: 'RJTT', aircraft: 'SK-LR2', every: 7, offset: 4, levels: [350, 370, 390, 410], fuelKgPerKm: 7.1 },
+  ],
+  'velloway-jets': [
+    { flight: 'VWJ10', origin: 'KTEB', destination: 'EGGW', aircraft: 'VJ-50', every: 6, offset: 0, levels: [430, 470, 490], fuelKgPerKm: 1.85 },
+    { flight: 'VWJ11', origin: 'EGGW', destination: 'KTEB', aircraft: 'VJ-50', every: 6, offset: 3, levels: [430, 450, 470], fuelKgPerKm: 1.9 },
+    { flight: 'VWJ22', origin: 'LFPB', destination: 'KVNY', aircraft: 'VJ-50', every: 9, offset: 2, levels: [450, 490, 510], fuelKgPerKm: 1.8 },
+    { flight: 'VWJ23', origin: 'KVNY', destination: 'LFPB', aircraft: 'VJ-50', every: 9, offset: 6, levels: [450, 470, 490], fuelKgPerKm: 1.8 },
+    { flight: 'VWJ31', origin: 'KPBI', destination: 'KTEB', aircraft: 'VJ-50', every: 5, offset: 1, levels: [450], fuelKgPerKm: 2.1 },
+    { flight: 'VWJ40', origin: 'LSGG', destination: 'OMDB', aircraft: 'VJ-50', every: 8, offset: 4, levels: [430, 470], fuelKgPerKm: 1.95 },
+    { flight: 'VWJ41', origin: 'OMDB', destination: 'LSGG', aircraft: 'VJ-50', every: 8, offset: 7, levels: [450, 490], fuelKgPerKm: 1.95 },
+  ],
+  'kestrel-mach': [
+    { flight: 'KMS1', origin: 'EGLL', destination: 'KJFK', aircraft: 'KM-SST', every: 7, offset: 0, levels: [550, 580, 600], fuelKgPerKm: 9.2 },
+    { flight: 'KMS2', origin: 'KJFK', destination: 'EGLL', aircraft: 'KM-SST', every: 7, offset: 2, levels: [550, 570, 590], fuelKgPerKm: 9.2 },
+    { flight: 'KMS5', origin: 'KSFO', destination: 'PHNL', aircraft: 'KM-SST', every: 10, offset: 3, levels: [560, 600], fuelKgPerKm: 9.0 },
+    { flight: 'KMS6', origin: 'PHNL', destination: 'KSFO', aircraft: 'KM-SST', every: 10, offset: 6, levels: [560, 590], fuelKgPerKm: 9.0 },
+  ],
+};
+
+const CSV_HEADER = 'date,flight,origin,destination,aircraft,cruise_fl,fuel_kg,steps,fleet,ei_nox_g_per_kg,mach';
+
+/** A small deterministic generator (mulberry32) seeded from the flight's key. */
+function random(key: string): () => number {
+  let a = createHash('sha256').update(key).digest().readUInt32LE(0);
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4_294_967_296;
+  };
+}
+
+function greatCircleKm(a: { lat: number; lon: number }, b: { lat: number; lon: number }): number {
+  const r = Math.PI / 180;
+  const s = Math.sin(((b.lat - a.lat) * r) / 2) ** 2 + Math.cos(a.lat * r) * Math.cos(b.lat * r) * Math.sin(((b.lon - a.lon) * r) / 2) ** 2;
+  return 2 * 6371.0088 * Math.asin(Math.sqrt(s));
+}
+
+const addDays = (day: string, n: number): string => new Date(Date.parse(`${day}T00:00:00Z`) + n * 86_400_000).toISOString().slice(0, 10);
+
+/** The first day of the month two months before `today`, so the period covers three calendar months. */
+function periodStart(today: string): string {
+  const [y, m] = today.split('-').map(Number);
+  const d = new Date(Date.UTC(y, m - 3, 1));
+  return d.toISOString().slice(0, 10);
+}
+
+interface TypeRow {
+  id: number;
+  code: string;
+  typicalMach: number;
+  defaultFleetId: number | null;
+  fleetName: string | null;
+  emission: ScreeningInput['emission'] | null;
+}
+
+async function aircraftTypes(trx: Knex.Transaction, workspaceId: number): Promise<Map<string, TypeRow>> {
+  const rows = await trx('aircraft_types as a')
+    .leftJoin('engines as e', 'e.id', 'a.engine_id')
+    .leftJoin('fleets as f', 'f.id', 'a.default_fleet_id')
+    .where('a.workspace_id', workspaceId)
+    .select('a.*', 'f.name as fleet_name', 'e.id as eid', 'e.ff_idle_kg_s', 'e.ff_approach_kg_s', 'e.ff_climb_out_kg_s', 'e.ff_take_off_kg_s', 'e.ei_idle_g_kg', 'e.ei_approach_g_kg', 'e.ei_climb_out_g_kg', 'e.ei_take_off_g_kg');
+  const out = new Map<string, TypeRow>();
+  for (const r of rows) {
+    let emission: TypeRow['emission'] = null;
+    if (r.eid) {
+      emission = {
+        engine: {
+          fuelFlowKgS: [Number(r.ff_idle_kg_s), Number(r.ff_approach_kg_s), Number(r.ff_climb_out_kg_s), Number(r.ff_take_off_kg_s)],
+          eiNoxGPerKg: [Number(r.ei_idle_g_kg), Number(r.ei_approach_g_kg), Number(r.ei_climb_out_g_kg), Number(r.ei_take_off_g_kg)],
+        },
+        engineCount: Number(r.engine_count),
+        mach: Number(r.typical_mach),
+      };
+    } else if (r.direct_ei_g_kg !== null) {
+      emission = { eiNoxGPerKg: Number(r.direct_ei_g_kg) };
+    }
+    out.set(String(r.code), {
+      id: Number(r.id),
+      code: String(r.code),
+      typicalMach: Number(r.typical_mach),
+      defaultFleetId: r.default_fleet_id === null ? null : Number(r.default_fleet_id),
+      fleetName: r.fleet_name ?? null,
+      emission,
+    });
+  }
+  return out;
+}
+
+interface DemoFlight {
+  date: string;
+  flight: string;
+  origin: string;
+  destination: string;
+  type: TypeRow;
+  cruiseFl: number;
+  maxFl: number;
+  fuelKg: number;
+  steps: { fromKm: number; flightLevel: number }[];
+  input: ScreeningInput;
+}
+
+function buildFlights(slug: string, types: Map<string, TypeRow>, from: string, to: string): DemoFlight[] {
+  const out: DemoFlight[] = [];
+  const epoch = Date.parse('2026-01-01T00:00:00Z');
+  for (let day = from; day <= to; day = addDays(day, 1)) {
+    const dayNumber = Math.round((Date.parse(`${day}T00:00:00Z`) - epoch) / 86_400_000);
+    for (const r of SCHEDULES[slug] ?? []) {
+      if ((dayNumber + r.offset) % r.every !== 0) continue;
+      const type = types.get(r.aircraft);
+      const a = findAirport(r.origin);
+      const b = findAirport(r.destination);
+      if (!type?.emission || !a || !b) continue;
+      const rnd = random(`${slug}|${day}|${r.flight}`);
+      const km = greatCircleKm(a, b);
+      // On some days the flight is cleared straight to its second level.
+      const skip = rnd() < 0.2 ? 1 : 0;
+      const levels = r.levels.slice(skip === 1 && r.levels.length > 2 ? 1 : 0);
+      const steps = levels.map((fl, i) => ({ fromKm: i === 0 ? 0 : Math.round((km * (i / levels.length) * (0.85 + 0.3 * rnd())) / 10) * 10, flightLevel: fl }));
+      const fuelKg = Math.round((km * r.fuelKgPerKm * (0.95 + 0.1 * rnd())) / 10) * 10;
+      const raw = {
+        route: { waypoints: [{ airport: r.origin }, { airport: r.destination }] },
+        cruise: steps.length > 1 ? { steps } : { flightLevel: steps[0].flightLevel },
+        mach: type.typicalMach,
+        fuelBurnKg: fuelKg,
+        emission: type.emission,
+        flightDate: day,
+      };
+      out.push({
+        date: day,
+        flight: r.flight,
+        origin: r.origin,
+        destination: r.destination,
+        type,
+        cruiseFl: steps[0].flightLevel,
+        maxFl: Math.max(...steps.map((s) => s.flightLevel)),
+        fuelKg,
+        steps,
+        input: validateScreeningInput(raw),
+      });
+    }
+  }
+  return out;
+}
+
+function csvOf(flights: DemoFlight[]): string {
+  const lines = flights.map((f) =>
+    [f.date, f.flight, f.origin, f.destination, f.type.code, String(f.cruiseFl), String(f.fuelKg), f.steps.length > 1 ? f.steps.map((s) => `${s.flightLevel}@${s.fromKm}`).join(' ') : '', '', '', ''].join(','),
+  );
+  return [CSV_HEADER, ...lines].join('\r\n') + '\r\n';
+}
+
+export async function seed(knex: Knex): Promise<void> {
+  const today = todayIso();
+  const from = periodStart(today);
+  await knex.transaction(async (trx) => {
+    for (const slug of Object.keys(SCHEDULES)) {
+      const ws = await trx('workspaces').where({ slug }).first('id');
+      if (!ws) continue;
+      const workspaceId = Number(ws.id);
+      const uploader = await trx('memberships as m')
+        .join('users as u', 'u.id', 'm.user_id')
+        .where('m.workspace_id', workspaceId)
+        .whereIn('m.role', ['analyst', 'owner'])
+        .orderByRaw("case when m.role = 'analyst' then 0 else 1 end")
+        .first('u.id');
+      const types = await aircraftTypes(trx, workspaceId);
+      const flights = buildFlights(slug, types, from, today);
+      const months = [...new Set(flights.map((f) => f.date.slice(0, 7)))].sort();
+      for (const month of months) {
+        const batch = flights.filter((f) => f.date.startsWith(month));
+        const csv = csvOf(batch);
+        const fileHash = createHash('sha256').update(csv).digest('hex');
+        const last = batch[batch.length - 1].date;
+        const stamp = `${last}T18:00:00.000Z`;
+        let imp = await trx('imports').where({ workspace_id: workspaceId, file_hash: fileHash }).first('id');
+        if (!imp) {
+          const [id] = await trx('imports')
+            .insert({
+              workspace_id: workspaceId,
+              kind: 'schedule',
+              file_name: `${slug}-schedule-${month}.csv`,
+              file_hash: fileHash,
+              status: 'queued',
+              rows: batch.length,
+              rows_done: 0,
+              rate_base_rows: 0,
+              created_by: uploader ? uploader.id : null,
+              created_at: stamp,
+            })
+            .returning('id');
+          imp = { id: typeof id === 'object' ? id.id : id };
+        }
+        const importId = Number(imp.id);
+        for (let i = 0; i < batch.length; i += 200) {
+          await trx('flights')
+            .insert(
+              batch.slice(i, i + 200).map((f, j) => ({
+                workspace_id: workspaceId,
+                import_id: importId,
+                date: f.date,
+                flight: f.flight,
+                origin: f.origin,
+                destination: f.destination,
+                aircraft_type_id: f.type.id,
+                aircraft_code: f.type.code,
+                fleet_id: f.type.defaultFleetId,
+                cruise_fl: f.cruiseFl,
+                max_fl: f.maxFl,
+                input_json: JSON.stringify(f.input),
+                status: 'pending',
+                fuel_kg: f.fuelKg,
+                source_line: i + j + 2,
+                created_at: stamp,
+              })),
+            )
+            .onConflict(['workspace_id', 'date', 'flight', 'origin', 'destination'])
+            .ignore();
+        }
+        const pending = await trx('flights').where({ import_id: importId, status: 'pending' }).select('id', 'date', 'input_json');
+        for (const p of pending) {
+          const r = screenValidated(JSON.parse(p.input_json) as ScreeningInput);
+          const screenedAt = `${p.date}T12:00:00.000Z`;
+          await trx('flights').where({ id: p.id }).update({
+            status: 'screened',
+            distance_km: r.distanceKm,
+            nox_total_kg: r.noxTotalKg,
+            nox_above_kg: r.noxAboveTropopauseKg,
+            fraction_above: r.fractionAboveTropopause,
+            mean_depth_above_km: r.meanDepthAboveTropopauseKm,
+            ozone_central_kg: r.ozoneLoss.centralKg,
+            ozone_low_kg: r.ozoneLoss.lowKg,
+            ozone_high_kg: r.ozoneLoss.highKg,
+            engine_version: r.engineVersion,
+            screened_at: screenedAt,
+          });
+          // The same ledger row db/usage.ts recordUsage writes (seeds cannot import server-only modules).
+          await trx('usage_events')
+            .insert({ workspace_id: workspaceId, kind: 'imported_flight', source_id: p.id, idempotency_key: `tp-imported_flight-${p.id}`, quantity: 1, occurred_at: screenedAt })
+            .onConflict(['kind', 'source_id'])
+            .ignore();
+        }
+        const done = Number(((await trx('flights').where({ import_id: importId }).count({ n: '*' }).first()) as { n: number }).n);
+        await trx('imports').where({ id: importId }).update({
+          status: 'complete',
+          rows: done,
+          rows_done: done,
+          started_at: stamp,
+          finished_at: stamp,
+          heartbeat_at: stamp,
+          rate_since: stamp,
+          rate_base_rows: 0,
+        });
+      }
+    }
+  });
+}
