@@ -1,0 +1,136 @@
+/**
+ * `npm run bench:load`: the built app under load, on 127.0.0.1 only. A fresh demo database, raised
+ * rate limits and a workspace API key; then autocannon at 32 connections for 30 s each against a
+ * trivial JSON route (this machine's reference), a single-flight preview, a save and a list. Prints
+ * requests/s, p50/p99 latency, errors, non-2xx and the SQLITE_BUSY count seen in the server's output,
+ * and the targets: preview >= half the reference's requests/s with p99 < 50 ms; save >= 150/s; no errors.
+ *
+ * Env: BENCH_SECONDS (default 30), BENCH_CONNECTIONS (default 32), BENCH_BUILD=1 to rebuild first.
+ * It takes the checkout's e2e lock itself for the whole run (no build can replace .next meanwhile).
+ */
+import { createRequire } from 'node:module';
+import fs from 'node:fs';
+import Database from 'better-sqlite3';
+import { appEnv, build, freePort, hasBuild, insertApiKey, prepareDatabase, reexecUnderLock, startApp, tempDir } from '../soak/app-process';
+
+const require = createRequire(import.meta.url);
+
+interface Histogram {
+  average: number;
+  p50: number;
+  p99: number;
+}
+interface Result {
+  requests: Histogram;
+  latency: Histogram;
+  errors: number;
+  timeouts: number;
+  non2xx: number;
+  duration: number;
+  statusCodeStats: Record<string, { count: number }>;
+}
+type Autocannon = (opts: Record<string, unknown>) => Promise<Result>;
+const autocannon = require('autocannon') as Autocannon;
+
+const SECONDS = Number(process.env.BENCH_SECONDS ?? 30);
+const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 32);
+const SLUG = 'skarn-polar';
+
+const FLIGHT = {
+  route: { waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] },
+  cruise: { flightLevel: 370 },
+  fuelBurnKg: 52_000,
+  emission: { eiNoxGPerKg: 14 },
+  month: 1,
+};
+
+interface Row {
+  name: string;
+  rps: number;
+  p50: number;
+  p99: number;
+  errors: number;
+  non2xx: number;
+  total: number;
+  statuses: string;
+}
+
+async function measure(name: string, opts: Record<string, unknown>): Promise<Row> {
+  const r = await autocannon({ connections: CONNECTIONS, duration: SECONDS, ...opts });
+  const total = Object.values(r.statusCodeStats ?? {}).reduce((a, s) => a + Number(s.count), 0);
+  return {
+    name,
+    rps: r.requests.average,
+    p50: r.latency.p50,
+    p99: r.latency.p99,
+    errors: r.errors + r.timeouts,
+    non2xx: r.non2xx,
+    total,
+    statuses: Object.entries(r.statusCodeStats ?? {}).map(([k, v]) => `${k}:${v.count}`).join(' '),
+  };
+}
+
+async function main(): Promise<number> {
+  const locked = reexecUnderLock('tests/bench/load.ts');
+  if (locked !== null) return locked;
+  if (process.env.BENCH_BUILD === '1' || !hasBuild()) build();
+  const dir = tempDir('tropopass-load-');
+  const port = await freePort();
+  const env = appEnv({ dir, port });
+  prepareDatabase(env);
+  const file = String(env.SQLITE_FILE);
+  const key = insertApiKey(file, SLUG, 'analyst');
+  const app = await startApp(env, port);
+  const auth = { authorization: `Bearer ${key}`, 'content-type': 'application/json' };
+  const base = app.baseUrl;
+  const rows: Row[] = [];
+  try {
+    // Warm up each route (first requests load and compile the route's modules).
+    for (let i = 0; i < 20; i++) {
+      await fetch(`${base}/api/health`);
+      await fetch(`${base}/api/v1/workspaces/${SLUG}/screenings/preview`, { method: 'POST', headers: auth, body: JSON.stringify(FLIGHT) });
+      await fetch(`${base}/api/v1/workspaces/${SLUG}/screenings?limit=20`, { headers: auth });
+    }
+    console.log(`load: ${CONNECTIONS} connections, ${SECONDS} s per route, ${base}`);
+    rows.push(await measure('reference GET /api/health', { url: `${base}/api/health` }));
+    rows.push(await measure('preview POST .../screenings/preview', { url: `${base}/api/v1/workspaces/${SLUG}/screenings/preview`, method: 'POST', headers: auth, body: JSON.stringify(FLIGHT) }));
+    rows.push(await measure('save POST .../screenings', { url: `${base}/api/v1/workspaces/${SLUG}/screenings`, method: 'POST', headers: auth, body: JSON.stringify({ ...FLIGHT, name: 'load' }) }));
+    rows.push(await measure('list GET .../screenings?limit=20', { url: `${base}/api/v1/workspaces/${SLUG}/screenings?limit=20`, headers: auth }));
+  } finally {
+    await app.stop();
+  }
+  const busy = (app.output().match(/SQLITE_BUSY/g) ?? []).length;
+  const conn = new Database(file, { readonly: true });
+  const saved = (conn.prepare("select count(*) as n from screenings where name = 'load'").get() as { n: number }).n;
+  const units = (conn.prepare("select count(*) as n from usage_events where kind = 'screening' and source_id in (select id from screenings where name = 'load')").get() as { n: number }).n;
+  const integrity = String(conn.pragma('integrity_check', { simple: true }));
+  conn.close();
+
+  const pad = (s: string, n: number) => s.padEnd(n);
+  const num = (v: number, d = 0) => v.toFixed(d).padStart(9);
+  console.log(`\n${pad('route', 38)}${'req/s'.padStart(9)}${'p50 ms'.padStart(9)}${'p99 ms'.padStart(9)}${'errors'.padStart(9)}${'non-2xx'.padStart(9)}  statuses`);
+  for (const r of rows) console.log(`${pad(r.name, 38)}${num(r.rps)}${num(r.p50, 1)}${num(r.p99, 1)}${num(r.errors)}${num(r.non2xx)}  ${r.statuses}`);
+  console.log(`SQLITE_BUSY in server output: ${busy}; saved screenings: ${saved}, their usage units: ${units}; integrity_check: ${integrity}`);
+
+  const [ref, preview, save] = rows;
+  const checks: [string, boolean][] = [
+    [`preview >= half the reference (${preview.rps.toFixed(0)} vs ${(ref.rps / 2).toFixed(0)} req/s)`, preview.rps >= ref.rps / 2],
+    [`preview p99 < 50 ms (${preview.p99.toFixed(1)} ms)`, preview.p99 < 50],
+    [`save >= 150 req/s (${save.rps.toFixed(0)})`, save.rps >= 150],
+    [`zero errors and non-2xx (${rows.reduce((a, r) => a + r.errors + r.non2xx, 0)})`, rows.every((r) => r.errors === 0 && r.non2xx === 0)],
+    [`one unit per saved screening (${saved} / ${units})`, saved === units],
+    [`no SQLITE_BUSY (${busy})`, busy === 0],
+  ];
+  console.log('\ntargets:');
+  for (const [label, ok] of checks) console.log(`  ${ok ? 'met   ' : 'MISSED'} ${label}`);
+  fs.rmSync(dir, { recursive: true, force: true });
+  return process.env.BENCH_STRICT === '1' && checks.some(([, ok]) => !ok) ? 1 : 0;
+}
+
+main().then(
+  (code) => process.exit(code),
+  (err: Error) => {
+    console.error(`bench:load failed: ${err.stack ?? err.message}`);
+    process.exit(1);
+  },
+);
