@@ -37,7 +37,7 @@ export function FlightsTable({ flights, units }: { flights: FlightDto[]; units: 
               <td className="whitespace-nowrap px-2 py-2">
                 {f.origin} → {f.destination}
               </td>
-              <td className="px-2 py-2">
+              <td className="whitespace-nowrap px-2 py-2">
                 {f.aircraft}
                 {f.fleet ? <span className="block text-xs text-ink-faint">{f.fleet}</span> : null}
               </td>

@@ -68,7 +68,7 @@ function Summary({ imp }: { imp: ImportDto }) {
     return (
       <p className="text-sm text-ink">
         {formatNumber(imp.rowsScreened)} flight{imp.rowsScreened === 1 ? '' : 's'} screened
-        {took !== null ? ` in ${durationText(took).replace('about ', '')}` : ''}
+        {took !== null && took > 0 ? ` in ${durationText(took).replace('about ', '')}` : ''}
         {imp.rowsPerSecond ? ` (${formatNumber(imp.rowsPerSecond)} rows/s)` : ''}
         {imp.rowsFailed ? `; ${formatNumber(imp.rowsFailed)} could not be screened and are not billed (see the notes).` : '.'}
       </p>

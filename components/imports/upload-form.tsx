@@ -1,6 +1,6 @@
 'use client';
 
-import { useRef, useState } from 'react';
+import { useRef, useState, type ReactNode } from 'react';
 import { useRouter } from 'next/navigation';
 import { useMutation } from '@tanstack/react-query';
 import type { ImportDto } from '@/db/imports';
@@ -40,7 +40,7 @@ async function upload(slug: string, file: File): Promise<Outcome> {
 }
 
 /** Upload a schedule: the whole file is checked first; on refusal the problems are listed by line and column. */
-export function UploadForm({ slug }: { slug: string }) {
+export function UploadForm({ slug, aside }: { slug: string; aside?: ReactNode }) {
   const router = useRouter();
   const formRef = useRef<HTMLFormElement>(null);
   const [file, setFile] = useState<File | null>(null);
@@ -70,25 +70,30 @@ export function UploadForm({ slug }: { slug: string }) {
         mutation.mutate(file);
       }}
     >
-      <Field id="schedule-file" label="Schedule file (CSV)" hint="Every row is checked before anything is saved." error={missing ? 'Choose a CSV file first.' : undefined}>
-        <input
-          id="schedule-file"
-          name="file"
-          type="file"
-          accept=".csv,text/csv"
-          aria-invalid={missing || undefined}
-          aria-describedby={missing ? 'schedule-file-error' : 'schedule-file-hint'}
-          onChange={(e) => {
-            setFile(e.target.files?.[0] ?? null);
-            setMissing(false);
-            mutation.reset();
-          }}
-          className="block w-full text-sm text-ink file:mr-3 file:rounded-md file:border file:border-line-strong file:bg-paper-raised file:px-3 file:py-1.5 file:text-sm file:font-medium file:text-ink hover:file:bg-paper-sunk"
-        />
-      </Field>
-      <Button type="submit" disabled={mutation.isPending}>
-        {mutation.isPending ? 'Checking every row…' : 'Check and import'}
-      </Button>
+      <div className="grid gap-6 md:grid-cols-2">
+        <div className="space-y-4">
+          <Field id="schedule-file" label="Schedule file (CSV)" hint="Every row is checked before anything is saved." error={missing ? 'Choose a CSV file first.' : undefined}>
+            <input
+              id="schedule-file"
+              name="file"
+              type="file"
+              accept=".csv,text/csv"
+              aria-invalid={missing || undefined}
+              aria-describedby={missing ? 'schedule-file-error' : 'schedule-file-hint'}
+              onChange={(e) => {
+                setFile(e.target.files?.[0] ?? null);
+                setMissing(false);
+                mutation.reset();
+              }}
+              className="block w-full text-sm text-ink file:mr-3 file:rounded-md file:border file:border-line-strong file:bg-paper-raised file:px-3 file:py-1.5 file:text-sm file:font-medium file:text-ink hover:file:bg-paper-sunk"
+            />
+          </Field>
+          <Button type="submit" disabled={mutation.isPending}>
+            {mutation.isPending ? 'Checking every row…' : 'Check and import'}
+          </Button>
+        </div>
+        {aside ? <div className="min-w-0 border-line md:border-l md:pl-6">{aside}</div> : null}
+      </div>
       <div aria-live="polite" className="space-y-3">
         {outcome?.kind === 'accepted' ? (
           <Notice tone="success" role="status" title={`Accepted: ${outcome.imp.rows.toLocaleString('en-GB')} flight${outcome.imp.rows === 1 ? '' : 's'} queued for screening`}>

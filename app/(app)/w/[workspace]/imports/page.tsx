@@ -8,7 +8,7 @@ import { todayIso } from '@/lib/clock';
 import { Card, EmptyState, PageHeader } from '@/components/ui/card';
 import { ButtonLink } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
-import { FormatGuide } from '@/components/imports/format-guide';
+import { FormatReference, FormatSummary } from '@/components/imports/format-guide';
 import { UploadForm } from '@/components/imports/upload-form';
 import { ImportList } from '@/components/imports/import-list';
 import { deleteImportAction } from './actions';
@@ -33,25 +33,23 @@ export default async function ImportsPage({ params }: { params: Promise<{ worksp
         lead="Upload a flight schedule as CSV. Every row is checked before anything is saved; accepted flights are screened in the background, and each screened flight is one billable unit."
         actions={<ButtonLink href={`/w/${slug}/flights`} variant="secondary">Flights</ButtonLink>}
       />
-      <div className="grid items-start gap-6 lg:grid-cols-[2fr_3fr]">
-        <Card title="Upload a schedule">
-          {canUpload ? (
-            codes.length ? (
-              <UploadForm slug={slug} />
-            ) : (
-              <Notice tone="caution" title="Add an aircraft type first">
-                Each row names an aircraft type of this workspace, which supplies its EI NOx and typical Mach. Add one with engine data or a
-                direct EI NOx under Engines &amp; aircraft, then upload.
-              </Notice>
-            )
+      <Card title="Upload a schedule">
+        {canUpload ? (
+          codes.length ? (
+            <UploadForm slug={slug} aside={<FormatSummary templateHref={templateHref} />} />
           ) : (
+            <Notice tone="caution" title="Add an aircraft type first">
+              Each row names an aircraft type of this workspace, which supplies its EI NOx and typical Mach. Add one with engine data or a direct EI
+              NOx under Engines &amp; aircraft, then upload.
+            </Notice>
+          )
+        ) : (
+          <div className="grid gap-6 md:grid-cols-2">
             <p className="text-sm text-ink-soft">Your role can read imports but not upload them. A flight planner, analyst or owner uploads schedules.</p>
-          )}
-        </Card>
-        <Card title="File format">
-          <FormatGuide example={example} templateHref={templateHref} />
-        </Card>
-      </div>
+            <FormatSummary templateHref={templateHref} />
+          </div>
+        )}
+      </Card>
       <Card title="Imports" className="mt-6">
         {imports.items.length === 0 ? (
           <EmptyState title="No schedule imported yet">
@@ -60,12 +58,18 @@ export default async function ImportsPage({ params }: { params: Promise<{ worksp
         ) : (
           <>
             <ImportList slug={slug} imports={imports.items} canDelete={canDelete} onDelete={deleteImportAction.bind(null, slug)} />
+            {imports.nextCursor ? <p className="mt-2 text-xs text-ink-soft">Showing the 50 newest imports; older ones stay listed in the Import filter of Flights.</p> : null}
             {canDelete ? (
               <p className="mt-2 text-xs text-ink-soft">Deleting an import removes its flights. Units already billed for flights it screened stay billed.</p>
             ) : null}
           </>
         )}
       </Card>
+      <section id="format" className="mt-6 scroll-mt-6">
+        <Card title="Column reference">
+          <FormatReference example={example} />
+        </Card>
+      </section>
     </>
   );
 }
