@@ -227,6 +227,29 @@ describe('POST /workspaces/{slug}/imports', () => {
     expect(await count('flights', { workspace_id: ws.id })).toBe(0);
   });
 
+  it('GET reports progress while screening: rows done, rows per second and time left', async () => {
+    const { ws, cookie } = await analystWorkspace();
+    const r = await call<ImportDto>(importsRoute.POST, uploadRequest(ws.slug, csv(HEADER, ...goodRows(60, 'P')), { cookie }), { slug: ws.slug });
+    const seen: ImportDto[] = [];
+    await runImportsToCompletion({
+      chunkSize: 20,
+      onChunk: async () => {
+        // Give the rate a measurable time base between chunks.
+        await new Promise((done) => setTimeout(done, 300));
+        const p = await call<ImportDto>(importRoute.GET, apiRequest('GET', `/api/v1/workspaces/${ws.slug}/imports/${r.body.id}`, { cookie }), { slug: ws.slug, id: String(r.body.id) });
+        seen.push(p.body);
+      },
+    });
+    expect(seen.map((p) => p.rowsDone)).toEqual([20, 40, 60]);
+    const mid = seen[1];
+    expect(mid.status).toBe('screening');
+    expect(mid.rowsPerSecond).toBeGreaterThan(0);
+    // Time left is the rows still to do at the measured rate.
+    expect(mid.secondsLeft).toBeCloseTo((60 - 40) / (mid.rowsPerSecond ?? 1), 6);
+    const end = await call<ImportDto>(importRoute.GET, apiRequest('GET', `/api/v1/workspaces/${ws.slug}/imports/${r.body.id}`, { cookie }), { slug: ws.slug, id: String(r.body.id) });
+    expect(end.body).toMatchObject({ status: 'complete', rowsDone: 60, secondsLeft: 0 });
+  });
+
   it('a flight the engine cannot screen is marked failed and listed; the import completes with the others', async () => {
     const { ws, cookie } = await analystWorkspace();
     const r = await call<ImportDto>(importsRoute.POST, uploadRequest(ws.slug, csv(HEADER, ...goodRows(3)), { cookie }), { slug: ws.slug });

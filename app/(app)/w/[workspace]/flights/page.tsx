@@ -76,7 +76,7 @@ export default async function FlightsPage({ params, searchParams }: { params: Pr
         lead={
           importName
             ? `Flights of import #${filters.import} (${importName}), newest first, with the NOx each put above the tropopause.`
-            : 'Imported and seeded flights, newest first, with the NOx each put above the tropopause.'
+            : 'Flights from schedule imports, newest first, with the NOx each put above the tropopause.'
         }
         actions={can(role, 'imports:create') ? <ButtonLink href={`/w/${slug}/imports`}>Import a schedule</ButtonLink> : undefined}
       />
