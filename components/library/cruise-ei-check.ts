@@ -1,4 +1,6 @@
-import { BFFM2_INSTALLATION_FACTORS, bffm2EiNox, buildEiCurve, flightLevelToMetres, isa } from '@/lib/screening';
+// Imported from the modules themselves (not the engine's index) so the engine form can run the check in the browser.
+import { flightLevelToMetres, isa } from '@/lib/screening/atmosphere';
+import { BFFM2_INSTALLATION_FACTORS, bffm2EiNox, buildEiCurve } from '@/lib/screening/emission-index';
 
 /**
  * A plausibility check of an engine's certification data: the BFFM2 cruise EI NOx at FL350,

@@ -1,0 +1,172 @@
+import Link from 'next/link';
+import { requireMember } from '@/lib/auth/guards';
+import { can } from '@/lib/auth/policy';
+import { listAircraftTypes, listEngines, listFleetChoices } from '@/db/engines';
+import { Card, EmptyState, PageHeader } from '@/components/ui/card';
+import { Notice } from '@/components/ui/notice';
+import { formatNumber } from '@/lib/format';
+import { DemoBadge } from '@/components/library/badges';
+import { CruiseCheckTag } from '@/components/library/cruise-check-tag';
+import { CRUISE_CHECK, cruiseEiCheck } from '@/components/library/cruise-ei-check';
+import { formatFuelFlow, fuelFlowUnit } from '@/components/library/format';
+import { EngineForm } from '@/components/library/engine-form';
+import { EngineImportForm } from '@/components/library/engine-import-form';
+import { AircraftTypeForm } from '@/components/library/aircraft-type-form';
+import { saveAircraftTypeAction, saveEngineAction } from './actions';
+
+export const metadata = { title: 'Engines & aircraft' };
+
+const th = 'py-2 pr-3 text-left text-xs font-medium uppercase tracking-wide text-ink-soft';
+
+export default async function EnginesPage({ params }: { params: Promise<{ workspace: string }> }) {
+  const { workspace: slug } = await params;
+  const { workspace, user, role } = await requireMember(slug, 'flights:read');
+  const scope = { workspaceId: workspace.id };
+  const [engines, types, fleets] = await Promise.all([listEngines(scope), listAircraftTypes(scope), listFleetChoices(scope)]);
+  const canWrite = can(role, 'library:write');
+  const units = user.units;
+  return (
+    <>
+      <PageHeader
+        title="Engines & aircraft"
+        lead="The certification data behind every screening: engines with their four LTO-mode fuel flows and EI NOx, and the aircraft types that fly them."
+      />
+
+      <section aria-labelledby="types-heading" className="mb-10 space-y-6">
+        <Card title={<span id="types-heading">Aircraft types</span>}>
+          {types.length === 0 ? (
+            <EmptyState title="No aircraft types yet">
+              {canWrite ? 'Add a type below: choose its engine (or give a direct EI NOx), the engine count and its usual cruise. Schedules and screenings refer to types by code.' : 'A planner in this workspace can add aircraft types here.'}
+            </EmptyState>
+          ) : (
+            <div className="overflow-x-auto">
+              <table className="w-full text-sm">
+                <thead>
+                  <tr>
+                    <th scope="col" className={th}>Code</th>
+                    <th scope="col" className={th}>Name</th>
+                    <th scope="col" className={th}>Emission</th>
+                    <th scope="col" className={`${th} text-right`}>Typical cruise</th>
+                    <th scope="col" className={th}>Default fleet</th>
+                  </tr>
+                </thead>
+                <tbody>
+                  {types.map((t) => (
+                    <tr key={t.id} className="border-t border-line">
+                      <td className="py-2 pr-3 font-mono text-xs">
+                        <Link href={`/w/${slug}/engines/aircraft/${t.id}`} className="font-semibold text-accent hover:underline">
+                          {t.code}
+                        </Link>
+                      </td>
+                      <td className="py-2 pr-3">{t.name || <span className="text-ink-faint">—</span>}</td>
+                      <td className="py-2 pr-3">
+                        {t.engineName ? (
+                          <>
+                            {t.engineCount} × {t.engineName}
+                          </>
+                        ) : t.directEiGPerKg !== null ? (
+                          <>Direct EI NOx {formatNumber(t.directEiGPerKg, 1)} g/kg ({t.engineCount} engines)</>
+                        ) : (
+                          <span className="text-caution">No emission data</span>
+                        )}
+                      </td>
+                      <td className="figure py-2 pr-3 text-right whitespace-nowrap">
+                        FL{String(t.typicalFlightLevel).padStart(3, '0')}, M{formatNumber(t.typicalMach, 2)}
+                      </td>
+                      <td className="py-2 pr-3">{t.defaultFleetName ?? <span className="text-ink-faint">—</span>}</td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </div>
+          )}
+        </Card>
+        {canWrite ? (
+          <Card title="New aircraft type" className="max-w-3xl">
+            <AircraftTypeForm
+              action={saveAircraftTypeAction.bind(null, slug, null)}
+              engines={engines.map((e) => ({ id: e.id, name: e.name }))}
+              fleets={fleets}
+              fleetsHref={`/w/${slug}/fleets`}
+            />
+          </Card>
+        ) : null}
+      </section>
+
+      <section aria-labelledby="engines-heading" className="space-y-6">
+        <Card title={<span id="engines-heading">Engines</span>}>
+          {engines.length === 0 ? (
+            <EmptyState title="No engines yet">
+              {canWrite ? 'Add an engine from its certification data sheet with the form below, or import several at once from a CSV.' : 'A planner in this workspace can add engines here.'}
+            </EmptyState>
+          ) : (
+            <div className="overflow-x-auto">
+              <table className="w-full text-sm">
+                <thead>
+                  <tr>
+                    <th scope="col" className={`${th} min-w-[11rem]`}>Engine</th>
+                    <th scope="col" className={`${th} text-right`}>
+                      Fuel flow per engine, {fuelFlowUnit(units)}
+                      <span className="block font-normal normal-case tracking-normal text-ink-faint">idle · app · c/o · t/o</span>
+                    </th>
+                    <th scope="col" className={`${th} text-right`}>
+                      EI NOx, g/kg
+                      <span className="block font-normal normal-case tracking-normal text-ink-faint">idle · app · c/o · t/o</span>
+                    </th>
+                    <th scope="col" className={th}>
+                      Cruise check
+                      <span className="block font-normal normal-case tracking-normal text-ink-faint">
+                        FL{CRUISE_CHECK.flightLevel}, M{CRUISE_CHECK.mach.toFixed(2)}, ISA
+                      </span>
+                    </th>
+                    <th scope="col" className={`${th} whitespace-nowrap`}>Used by</th>
+                  </tr>
+                </thead>
+                <tbody>
+                  {engines.map((e) => {
+                    const usedBy = types.filter((t) => t.engineId === e.id).map((t) => t.code);
+                    return (
+                      <tr key={e.id} id={`engine-${e.id}`} className="border-t border-line align-top">
+                        <td className="py-2 pr-3">
+                          <Link href={`/w/${slug}/engines/${e.id}`} className="font-medium text-accent hover:underline">
+                            {e.name}
+                          </Link>
+                          {e.isDemo ? <DemoBadge /> : null}
+                          {e.source ? <div className="mt-0.5 max-w-xs text-xs text-ink-soft">{e.source}</div> : null}
+                        </td>
+                        <td className="figure py-2 pr-3 text-right whitespace-nowrap">{e.fuelFlowKgS.map((v) => formatFuelFlow(v, units)).join(' · ')}</td>
+                        <td className="figure py-2 pr-3 text-right whitespace-nowrap">{e.eiNoxGPerKg.map((v) => formatNumber(v, 1)).join(' · ')}</td>
+                        <td className="py-2 pr-3">
+                          <CruiseCheckTag check={cruiseEiCheck(e)} />
+                        </td>
+                        <td className="py-2 pr-3 font-mono text-xs whitespace-nowrap">{usedBy.length ? usedBy.join(', ') : <span className="font-sans text-ink-faint">—</span>}</td>
+                      </tr>
+                    );
+                  })}
+                </tbody>
+              </table>
+            </div>
+          )}
+          <div className="mt-4">
+            <Notice tone="caution" title="About the cruise check">
+              Boeing Fuel Flow Method 2 at FL{CRUISE_CHECK.flightLevel}, Mach {CRUISE_CHECK.mach.toFixed(2)}, ISA and 60 % relative humidity, at a cruise fuel flow of{' '}
+              {Math.round(CRUISE_CHECK.takeOffFraction * 100)} % of the take-off fuel flow (our rule of thumb for this check only). Modern subsonic turbofans usually sit near 10–20 g/kg at
+              cruise (common practice). It tells you whether the numbers look plausible, not what a flight emits: fuel-flow correlations are calibrated on subsonic engines, so at
+              Mach above 1 prefer a measured cruise EI. A screening is an estimate for planning and reporting support, not a certified inventory.
+            </Notice>
+          </div>
+        </Card>
+        {canWrite ? (
+          <div className="grid gap-6 lg:grid-cols-2">
+            <Card title="New engine">
+              <EngineForm action={saveEngineAction.bind(null, slug, null)} />
+            </Card>
+            <Card title="Import engines from CSV">
+              <EngineImportForm slug={slug} />
+            </Card>
+          </div>
+        ) : null}
+      </section>
+    </>
+  );
+}

@@ -1,0 +1,17 @@
+'use server';
+
+import { revalidatePath } from 'next/cache';
+import { requireActionMember } from '@/lib/auth/guards';
+import { deleteSounding } from '@/db/soundings';
+import { toActionState, type ActionState } from '@/lib/errors';
+
+export async function deleteSoundingAction(slug: string, id: number): Promise<ActionState> {
+  try {
+    const ctx = await requireActionMember(slug, 'library:write');
+    await deleteSounding({ workspaceId: ctx.workspace.id }, id, { userId: ctx.user.id, actor: ctx.user.email });
+    revalidatePath(`/w/${slug}/soundings`);
+    return { ok: true };
+  } catch (err) {
+    return toActionState(err);
+  }
+}
