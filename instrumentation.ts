@@ -6,4 +6,8 @@ export async function register(): Promise<void> {
     const { startImportWorker } = await import('./lib/imports/worker');
     startImportWorker();
   }
+  if (e.BILLING_SENDER && e.NEXT_PHASE !== 'phase-production-build') {
+    const { startBillingLoop } = await import('./lib/billing/runner');
+    startBillingLoop();
+  }
 }

@@ -1,0 +1,247 @@
+'use client';
+
+import { useState, useTransition } from 'react';
+import { useForm } from 'react-hook-form';
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useQueryClient } from '@tanstack/react-query';
+import { Button } from '@/components/ui/button';
+import { Field, SelectInput, TextInput } from '@/components/ui/field';
+import { Notice } from '@/components/ui/notice';
+import { applyServerErrors } from '@/components/ui/server-errors';
+import { CARD_CHOICES, TEST_CARDS, type CardChoice } from '@/lib/billing/cards';
+import { PLANS, PLAN_IDS, breakEvenUnits, type PlanId } from '@/lib/billing/plans';
+import type { ActionState } from '@/lib/errors';
+import { formatMoney } from '@/lib/format';
+import { billingEmailSchema, cardChoiceSchema, subscribeSchema, type BillingEmailInput, type CardChoiceInput, type SubscribeInput } from '@/lib/validation/billing';
+import { cancelAtPeriodEndAction, changePlanAction, payOpenInvoicesAction, setCardAction, subscribeAction, updateBillingEmailAction } from './actions';
+
+type Message = { tone: 'success' | 'danger'; text: string } | undefined;
+
+function useAfterAction(slug: string) {
+  const queryClient = useQueryClient();
+  return () => queryClient.invalidateQueries({ queryKey: ['usage', slug] });
+}
+
+function Result({ message }: { message: Message }) {
+  if (!message) return null;
+  return (
+    <Notice tone={message.tone} role={message.tone === 'danger' ? 'alert' : 'status'}>
+      {message.text}
+    </Notice>
+  );
+}
+
+function messageOf(state: ActionState): Message {
+  if (!state) return undefined;
+  return state.ok ? { tone: 'success', text: state.message ?? 'Saved.' } : { tone: 'danger', text: state.error.message };
+}
+
+function PlanOptions({ selected, current, register }: { selected: PlanId; current: PlanId | null; register: ReturnType<typeof useForm<SubscribeInput>>['register'] }) {
+  return (
+    <fieldset>
+      <legend className="mb-2 text-sm font-medium text-ink">Plan</legend>
+      <div className="grid gap-3 sm:grid-cols-2">
+        {PLAN_IDS.map((id) => {
+          const plan = PLANS[id];
+          const checked = selected === id;
+          return (
+            <label
+              key={id}
+              className={`block cursor-pointer rounded-card border p-4 focus-within:ring-2 focus-within:ring-accent ${checked ? 'border-accent bg-accent-soft' : 'border-line bg-paper-raised hover:border-line-strong'}`}
+            >
+              <span className="flex items-center gap-2">
+                <input type="radio" value={id} className="accent-accent" {...register('planId')} />
+                <span className="font-semibold text-ink">{plan.name}</span>
+                {current === id ? <span className="rounded bg-paper-sunk px-1.5 py-0.5 text-xs text-ink-soft">current</span> : null}
+              </span>
+              <span className="figure mt-1 block text-sm text-ink">
+                {formatMoney(plan.baseFeeCents)} a month + {formatMoney(plan.perFlightCents)} per screened flight
+              </span>
+              <span className="mt-1 block text-xs text-ink-soft">{plan.description}</span>
+            </label>
+          );
+        })}
+      </div>
+      <p className="mt-2 text-xs text-ink-faint">
+        {PLANS.fleet.name} costs less than {PLANS.crew.name} from {breakEvenUnits().toLocaleString('en-GB')} screened flights in a month.
+      </p>
+    </fieldset>
+  );
+}
+
+/** Subscribe from a trial or after a cancellation: plan and card together. */
+export function SubscribeForm({ slug, planId, card, trialLeft }: { slug: string; planId: PlanId; card: CardChoice | null; trialLeft: boolean }) {
+  const [message, setMessage] = useState<Message>();
+  const after = useAfterAction(slug);
+  const form = useForm<SubscribeInput>({ resolver: zodResolver(subscribeSchema), defaultValues: { planId, card: card ?? 'succeeds' } });
+  const { errors, isSubmitting } = form.formState;
+  const selected = form.watch('planId');
+  const onSubmit = form.handleSubmit(async (values) => {
+    setMessage(undefined);
+    const state = await subscribeAction(slug, values);
+    const text = applyServerErrors(state, form.setError, ['planId', 'card']);
+    setMessage(state?.ok ? messageOf(state) : text ? { tone: 'danger', text } : undefined);
+    await after();
+  });
+  return (
+    <form onSubmit={onSubmit} noValidate className="space-y-4">
+      <Result message={message} />
+      <PlanOptions selected={selected} current={null} register={form.register} />
+      {errors.planId ? <p role="alert" className="text-xs font-medium text-danger">{errors.planId.message}</p> : null}
+      <Field id="subscribe-card" label="Card on file" hint="A test card of the local payment service, shown by its label only." error={errors.card?.message}>
+        <SelectInput id="subscribe-card" invalid={!!errors.card} {...form.register('card')}>
+          {CARD_CHOICES.map((c) => (
+            <option key={c} value={c}>
+              {TEST_CARDS[c].label}
+            </option>
+          ))}
+        </SelectInput>
+      </Field>
+      <div className="flex flex-wrap items-center gap-3">
+        <Button type="submit" disabled={isSubmitting}>
+          {isSubmitting ? 'Subscribing…' : `Subscribe to ${PLANS[selected].name}`}
+        </Button>
+        <span className="text-xs text-ink-soft">
+          {trialLeft ? 'The rest of the free trial stays free; the first paid period starts when it ends.' : 'The first period starts today and is invoiced when it closes.'}
+        </span>
+      </div>
+    </form>
+  );
+}
+
+/** Switch plan on a running subscription (or choose the plan a trial will subscribe to). */
+export function ChangePlanForm({ slug, planId, subscribed }: { slug: string; planId: PlanId; subscribed: boolean }) {
+  const [message, setMessage] = useState<Message>();
+  const after = useAfterAction(slug);
+  const form = useForm<SubscribeInput>({ defaultValues: { planId, card: 'succeeds' } });
+  const selected = form.watch('planId');
+  const onSubmit = form.handleSubmit(async (values) => {
+    setMessage(undefined);
+    const state = await changePlanAction(slug, { planId: values.planId });
+    setMessage(messageOf(state));
+    await after();
+  });
+  return (
+    <form onSubmit={onSubmit} noValidate className="space-y-4">
+      <Result message={message} />
+      <PlanOptions selected={selected} current={planId} register={form.register} />
+      <div className="flex flex-wrap items-center gap-3">
+        <Button type="submit" disabled={form.formState.isSubmitting || selected === planId}>
+          {form.formState.isSubmitting ? 'Changing…' : selected === planId ? `On ${PLANS[planId].name}` : `Change to ${PLANS[selected].name}`}
+        </Button>
+        {subscribed ? <span className="text-xs text-ink-soft">No proration: the new prices apply to the whole current period.</span> : null}
+      </div>
+    </form>
+  );
+}
+
+export function CancelResume({ slug, cancelAtPeriodEnd, periodEnd }: { slug: string; cancelAtPeriodEnd: boolean; periodEnd: string | null }) {
+  const [pending, start] = useTransition();
+  const [message, setMessage] = useState<Message>();
+  const after = useAfterAction(slug);
+  const run = (cancel: boolean) =>
+    start(async () => {
+      setMessage(undefined);
+      setMessage(messageOf(await cancelAtPeriodEndAction(slug, { cancel })));
+      await after();
+    });
+  return (
+    <div className="space-y-3">
+      <Result message={message} />
+      {cancelAtPeriodEnd ? (
+        <Button variant="primary" disabled={pending} onClick={() => run(false)}>
+          Resume the subscription
+        </Button>
+      ) : (
+        <Button
+          variant="secondary"
+          disabled={pending}
+          onClick={() => {
+            if (confirm(`Cancel at the end of the period${periodEnd ? ` (${periodEnd.slice(0, 10)})` : ''}? Screening continues until then.`)) run(true);
+          }}
+        >
+          Cancel at period end
+        </Button>
+      )}
+    </div>
+  );
+}
+
+export function PaymentCardForm({ slug, card, pastDue }: { slug: string; card: CardChoice | null; pastDue: boolean }) {
+  const [message, setMessage] = useState<Message>();
+  const [paying, startPaying] = useTransition();
+  const after = useAfterAction(slug);
+  const form = useForm<CardChoiceInput>({ resolver: zodResolver(cardChoiceSchema), defaultValues: { card: card ?? 'succeeds' } });
+  const { errors, isSubmitting } = form.formState;
+  const onSubmit = form.handleSubmit(async (values) => {
+    setMessage(undefined);
+    const state = await setCardAction(slug, values);
+    const text = applyServerErrors(state, form.setError, ['card']);
+    setMessage(state?.ok ? messageOf(state) : text ? { tone: 'danger', text } : undefined);
+    await after();
+  });
+  return (
+    <div className="space-y-4">
+      <Result message={message} />
+      <form onSubmit={onSubmit} noValidate className="space-y-4">
+        <Field id="card-choice" label="Card on file" hint="Used for every invoice from now on." error={errors.card?.message}>
+          <SelectInput id="card-choice" invalid={!!errors.card} {...form.register('card')}>
+            {CARD_CHOICES.map((c) => (
+              <option key={c} value={c}>
+                {TEST_CARDS[c].label}
+              </option>
+            ))}
+          </SelectInput>
+        </Field>
+        <Button type="submit" variant="secondary" disabled={isSubmitting}>
+          Save card
+        </Button>
+      </form>
+      {pastDue ? (
+        <div className="border-t border-line pt-4">
+          <p className="mb-2 text-sm text-ink-soft">Once a card that works is on file, pay the open invoice to reopen screening.</p>
+          <Button
+            disabled={paying}
+            onClick={() =>
+              startPaying(async () => {
+                setMessage(undefined);
+                setMessage(messageOf(await payOpenInvoicesAction(slug)));
+                await after();
+              })
+            }
+          >
+            {paying ? 'Paying…' : 'Pay the open invoice'}
+          </Button>
+        </div>
+      ) : null}
+    </div>
+  );
+}
+
+export function BillingEmailForm({ slug, billingEmail }: { slug: string; billingEmail: string | null }) {
+  const [message, setMessage] = useState<Message>();
+  const form = useForm<BillingEmailInput>({ resolver: zodResolver(billingEmailSchema), defaultValues: { billingEmail: billingEmail ?? '' } });
+  const { errors, isSubmitting } = form.formState;
+  const onSubmit = form.handleSubmit(async (values) => {
+    setMessage(undefined);
+    const state = await updateBillingEmailAction(slug, values);
+    const text = applyServerErrors(state, form.setError, ['billingEmail']);
+    setMessage(state?.ok ? messageOf(state) : text ? { tone: 'danger', text } : undefined);
+  });
+  return (
+    <form onSubmit={onSubmit} noValidate className="space-y-4">
+      <Result message={message} />
+      <Field
+        id="billing-email"
+        label="Billing e-mail"
+        hint="Invoices are addressed here, and payment problems are sent here as well as to owners and finance admins. Leave empty to use only them."
+        error={errors.billingEmail?.message}
+      >
+        <TextInput id="billing-email" type="email" autoComplete="email" invalid={!!errors.billingEmail} {...form.register('billingEmail')} />
+      </Field>
+      <Button type="submit" variant="secondary" disabled={isSubmitting}>
+        Save e-mail
+      </Button>
+    </form>
+  );
+}
