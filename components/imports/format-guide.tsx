@@ -55,7 +55,7 @@ export function FormatReference({ example }: { example: string }) {
               <th scope="col" className="py-1.5 pr-4">Column</th>
               <th scope="col" className="py-1.5 pr-4">Unit or form</th>
               <th scope="col" className="py-1.5 pr-4">Meaning</th>
-              <th scope="col" className="py-1.5">Example</th>
+              <th scope="col" className="hidden py-1.5 lg:table-cell">Example</th>
             </tr>
           </thead>
           <tbody>
@@ -63,11 +63,17 @@ export function FormatReference({ example }: { example: string }) {
               <tr key={c.name} className="border-t border-line align-top">
                 <td className="whitespace-nowrap py-1.5 pr-4">
                   <code className="font-mono text-xs">{c.name}</code>
-                  <span className={`ml-1.5 text-xs ${c.required ? 'text-ink' : 'text-ink-faint'}`}>{c.required ? 'required' : 'optional'}</span>
+                  <span className={`block text-xs lg:ml-1.5 lg:inline ${c.required ? 'text-ink' : 'text-ink-faint'}`}>{c.required ? 'required' : 'optional'}</span>
                 </td>
                 <td className="py-1.5 pr-4 text-ink-soft">{c.unit}</td>
-                <td className="py-1.5 pr-4">{c.description}</td>
-                <td className="py-1.5">
+                <td className="py-1.5 pr-4">
+                  {c.description}
+                  <span className="mt-0.5 block lg:hidden">
+                    <span className="text-ink-faint">e.g. </span>
+                    <code className="font-mono text-xs">{c.example}</code>
+                  </span>
+                </td>
+                <td className="hidden py-1.5 lg:table-cell">
                   <code className="whitespace-nowrap font-mono text-xs">{c.example}</code>
                 </td>
               </tr>
