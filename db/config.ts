@@ -1,6 +1,7 @@
 import path from 'node:path';
 import fs from 'node:fs';
 import { Knex } from 'knex';
+import { createRequire } from 'node:module';
 import { createSqliteClient } from './sqlite-client';
 
 /**
@@ -22,6 +23,7 @@ export function knexConfig(overrides: { sqliteFile?: string; databaseUrl?: strin
   const seeds: Knex.SeederConfig = { directory: path.join(/*turbopackIgnore: true*/ root, 'seeds'), loadExtensions: ['.ts'] };
   const databaseUrl = overrides.databaseUrl ?? process.env.DATABASE_URL;
   if (isPostgres(databaseUrl)) {
+    usePlainNumbersFromPostgres();
     return { client: 'pg', connection: databaseUrl, pool: { min: 0, max: 10 }, migrations, seeds };
   }
   const file = path.resolve(/*turbopackIgnore: true*/ root, overrides.sqliteFile ?? process.env.SQLITE_FILE ?? '.data/tropopass.sqlite');
@@ -55,4 +57,17 @@ export function knexConfig(overrides: { sqliteFile?: string; databaseUrl?: strin
 
 interface SqlitePragmaConnection {
   pragma(source: string): unknown;
+}
+
+/**
+ * PostgreSQL returns `count(*)` and `sum()` of integers as int8 and `avg()` as numeric, which the
+ * driver hands over as strings; SQLite gives numbers. Parse them as numbers on both (counts and
+ * ledger sums stay far below 2^53).
+ */
+function usePlainNumbersFromPostgres(): void {
+  const pg = createRequire(import.meta.url)('pg') as { types: { setTypeParser(oid: number, parse: (v: string) => unknown): void } };
+  const INT8 = 20;
+  const NUMERIC = 1700;
+  pg.types.setTypeParser(INT8, (v) => Number.parseInt(v, 10));
+  pg.types.setTypeParser(NUMERIC, (v) => Number.parseFloat(v));
 }

@@ -1,14 +1,17 @@
 import 'server-only';
 import path from 'node:path';
 import Database from 'better-sqlite3';
-import { RateLimiterMemory, RateLimiterRes, RateLimiterSQLite, type RateLimiterAbstract } from 'rate-limiter-flexible';
+import { RateLimiterMemory, RateLimiterPostgres, RateLimiterRes, RateLimiterSQLite, type RateLimiterAbstract } from 'rate-limiter-flexible';
 import { env } from '@/lib/env';
 import { isPostgres } from '@/db/config';
+import { db } from '@/db/client';
 import { throttled } from '@/lib/errors';
 
 const g = globalThis as unknown as { tropopassLimiters?: Limiters };
 
 interface Limiters {
+  /** Settles once the persistent limiters' tables exist. */
+  ready: Promise<void>;
   signInAccount: RateLimiterAbstract;
   signInAddress: RateLimiterAbstract;
   email: RateLimiterMemory;
@@ -18,9 +21,15 @@ interface Limiters {
 
 const WINDOW_S = 15 * 60;
 
-function persistent(keyPrefix: string, points: number): RateLimiterAbstract {
+function persistent(keyPrefix: string, points: number, pending: Promise<void>[]): RateLimiterAbstract {
   const opts = { keyPrefix, points, duration: WINDOW_S, blockDuration: WINDOW_S };
-  if (isPostgres()) return new RateLimiterMemory(opts);
+  if (isPostgres()) {
+    // Stored through the app's own pool; each limiter creates its own table on start (one table
+    // each, so two concurrent CREATE TABLE IF NOT EXISTS cannot collide).
+    let done: (err?: Error) => void = () => undefined;
+    pending.push(new Promise<void>((resolve, reject) => (done = (err) => (err ? reject(err) : resolve()))));
+    return new RateLimiterPostgres({ ...opts, storeClient: db(), storeType: 'knex', tableName: `throttle_signin_${keyPrefix}` }, (err?: Error) => done(err));
+  }
   // Sign-in counters live in the database file so a restart does not reset them; the limiter
   // keeps its own table through its own connection.
   const file = path.resolve(/*turbopackIgnore: true*/ process.cwd(), env().SQLITE_FILE);
@@ -33,13 +42,23 @@ function persistent(keyPrefix: string, points: number): RateLimiterAbstract {
 function limiters(): Limiters {
   if (!g.tropopassLimiters) {
     const e = env();
+    const pending: Promise<void>[] = [];
     g.tropopassLimiters = {
-      signInAccount: persistent('acct', e.RATE_LIMIT_SIGNIN_PER_15MIN),
-      signInAddress: persistent('addr', e.RATE_LIMIT_SIGNIN_PER_15MIN * 5),
+      ready: Promise.resolve(),
+      signInAccount: persistent('acct', e.RATE_LIMIT_SIGNIN_PER_15MIN, pending),
+      signInAddress: persistent('addr', e.RATE_LIMIT_SIGNIN_PER_15MIN * 5, pending),
       email: new RateLimiterMemory({ keyPrefix: 'mail', points: e.RATE_LIMIT_EMAIL_PER_HOUR, duration: 3600 }),
       preview: new RateLimiterMemory({ keyPrefix: 'preview', points: e.RATE_LIMIT_PREVIEW_PER_MIN, duration: 60 }),
       api: new RateLimiterMemory({ keyPrefix: 'api', points: e.RATE_LIMIT_API_PER_MIN, duration: 60 }),
     };
+    g.tropopassLimiters.ready = Promise.all(pending).then(
+      () => undefined,
+      (err: unknown) => {
+        // Try again on the next sign-in rather than refusing every one until a restart.
+        g.tropopassLimiters = undefined;
+        throw err;
+      },
+    );
   }
   return g.tropopassLimiters;
 }
@@ -64,6 +83,7 @@ export class SignInLockedError extends Error {
 /** Refuses a sign-in attempt while the account or the address is soft-locked. */
 export async function assertSignInAllowed(email: string, ip: string): Promise<void> {
   const l = limiters();
+  await l.ready;
   const [a, b] = await Promise.all([l.signInAccount.get(email), l.signInAddress.get(ip)]);
   const blocked = [a, b].filter((r): r is RateLimiterRes => !!r && r.remainingPoints <= 0 && r.msBeforeNext > 0);
   if (blocked.length) throw new SignInLockedError(Math.max(...blocked.map((r) => r.msBeforeNext)) / 1000);
@@ -71,6 +91,7 @@ export async function assertSignInAllowed(email: string, ip: string): Promise<vo
 
 export async function recordSignInFailure(email: string, ip: string): Promise<void> {
   const l = limiters();
+  await l.ready;
   await Promise.all([
     l.signInAccount.consume(email).catch(() => undefined),
     l.signInAddress.consume(ip).catch(() => undefined),
@@ -78,7 +99,9 @@ export async function recordSignInFailure(email: string, ip: string): Promise<vo
 }
 
 export async function recordSignInSuccess(email: string): Promise<void> {
-  await limiters().signInAccount.delete(email);
+  const l = limiters();
+  await l.ready;
+  await l.signInAccount.delete(email);
 }
 
 export function limitEmailSend(kind: 'signin' | 'reset' | 'invite', to: string): Promise<void> {

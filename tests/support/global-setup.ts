@@ -8,6 +8,8 @@ import type { TestProject } from 'vitest/node';
 declare module 'vitest' {
   export interface ProvidedContext {
     templateDb: string;
+    /** PostgreSQL mode (`npm run test:pg`): the migrated template database each test file copies; '' otherwise. */
+    pgTemplate: string;
   }
 }
 
@@ -25,5 +27,35 @@ export default function setup(project: TestProject): () => void {
   conn.pragma('journal_mode = DELETE');
   conn.close();
   project.provide('templateDb', file);
-  return () => fs.rmSync(dir, { recursive: true, force: true });
+  const pgTemplate = setupPostgresTemplate();
+  project.provide('pgTemplate', pgTemplate);
+  return () => {
+    fs.rmSync(dir, { recursive: true, force: true });
+    if (pgTemplate) dropPostgresDatabase(pgTemplate);
+  };
+}
+
+/** With TEST_PG_ADMIN_URL (set by tests/pg/run.ts), one migrated PostgreSQL template database. */
+function setupPostgresTemplate(): string {
+  const admin = process.env.TEST_PG_ADMIN_URL;
+  if (!admin) return '';
+  const name = `tropopass_tpl_${process.pid}`;
+  psql(admin, `DROP DATABASE IF EXISTS ${name}`);
+  psql(admin, `CREATE DATABASE ${name}`);
+  const url = new URL(admin);
+  url.pathname = `/${name}`;
+  execFileSync(process.execPath, ['--import', 'tsx', 'node_modules/knex/bin/cli.js', '--knexfile', 'knexfile.ts', 'migrate:latest'], {
+    env: { ...process.env, DATABASE_URL: url.toString() },
+    stdio: 'pipe',
+  });
+  return name;
+}
+
+function dropPostgresDatabase(name: string): void {
+  const admin = process.env.TEST_PG_ADMIN_URL;
+  if (admin) psql(admin, `DROP DATABASE IF EXISTS ${name} WITH (FORCE)`);
+}
+
+function psql(url: string, sql: string): void {
+  execFileSync('psql', [url, '-v', 'ON_ERROR_STOP=1', '-q', '-c', sql], { stdio: 'pipe' });
 }

@@ -1,3 +1,4 @@
+import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
@@ -18,13 +19,16 @@ export const TEST_ORIGIN = 'http://127.0.0.1:3999';
  */
 export function useTestDatabase(extraEnv: Record<string, string> = {}): { file: () => string } {
   let file = '';
+  let pgDatabase = '';
   beforeAll(async () => {
     const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'tropopass-it-'));
     file = path.join(dir, 'db.sqlite');
     fs.copyFileSync(inject('templateDb'), file);
+    const pgTemplate = inject('pgTemplate');
+    if (pgTemplate) pgDatabase = createPostgresDatabase(pgTemplate);
     Object.assign(process.env, {
       SQLITE_FILE: file,
-      DATABASE_URL: '',
+      DATABASE_URL: pgDatabase ? postgresUrl(pgDatabase) : '',
       NEXTAUTH_SECRET: TEST_SECRET,
       NEXTAUTH_URL: TEST_ORIGIN,
       LOG_LEVEL: 'silent',
@@ -36,8 +40,25 @@ export function useTestDatabase(extraEnv: Record<string, string> = {}): { file: 
   });
   afterAll(async () => {
     await closeDb();
+    if (pgDatabase) execFileSync('psql', [postgresUrl('postgres'), '-q', '-c', `DROP DATABASE IF EXISTS ${pgDatabase} WITH (FORCE)`], { stdio: 'pipe' });
   });
   return { file: () => file };
+}
+
+/** PostgreSQL mode: true while `npm run test:pg` runs the suite (DATABASE_URL is then postgres://). */
+export const onPostgres = (): boolean => !!process.env.TEST_PG_ADMIN_URL;
+
+function postgresUrl(database: string): string {
+  const url = new URL(String(process.env.TEST_PG_ADMIN_URL));
+  url.pathname = `/${database}`;
+  return url.toString();
+}
+
+/** A fresh database for this test file, copied from the migrated template (CREATE DATABASE ... TEMPLATE). */
+function createPostgresDatabase(template: string): string {
+  const name = `tropopass_t_${process.pid}_${Math.random().toString(36).slice(2, 8)}`;
+  execFileSync('psql', [postgresUrl('postgres'), '-v', 'ON_ERROR_STOP=1', '-q', '-c', `CREATE DATABASE ${name} TEMPLATE ${template}`], { stdio: 'pipe' });
+  return name;
 }
 
 let counter = 0;
