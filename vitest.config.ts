@@ -34,6 +34,10 @@ export default defineConfig({
       },
       {
         extends: true,
+        test: { name: 'soak', include: ['tests/soak/**/*.soak.test.ts'], environment: 'node' },
+      },
+      {
+        extends: true,
         test: {
           name: 'integration',
           include: ['tests/integration/**/*.test.ts'],
