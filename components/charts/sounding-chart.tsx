@@ -157,13 +157,12 @@ export function SoundingChart({ levels, isa, tropopause, units }: Props) {
   const tp = tropopause ? `; WMO tropopause at ${fmtHeight(heightOf(tropopause))}, ${celsius(tropopause.temperatureK).toFixed(1)} °C` : '; no WMO tropopause found';
   return (
     <div>
-      <div role="radiogroup" aria-label="Height axis" className="mb-3 inline-flex rounded-md border border-line-strong p-0.5 text-sm">
+      <div role="group" aria-label="Height axis" className="mb-3 inline-flex rounded-md border border-line-strong p-0.5 text-sm">
         {(['altitude', 'pressure'] as const).map((a) => (
           <button
             key={a}
             type="button"
-            role="radio"
-            aria-checked={axis === a}
+            aria-pressed={axis === a}
             onClick={() => setAxis(a)}
             className={`rounded px-3 py-1 ${axis === a ? 'bg-accent text-white' : 'text-ink-soft hover:bg-paper-sunk'}`}
           >

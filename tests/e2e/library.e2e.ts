@@ -70,7 +70,7 @@ describe('the planner keeps the library', () => {
     expect(await tropopause.textContent()).toContain('11,000 m');
     await page.getByRole('link', { name: 'Use in a screening' }).waitFor();
     await screenshot(page, 'library-sounding');
-    await page.getByRole('radio', { name: 'Against pressure' }).click();
+    await page.getByRole('button', { name: 'Against pressure' }).click();
     await screenshot(page, 'library-sounding-pressure');
 
     await page.goto('/w/skarn-polar/routes');
@@ -107,6 +107,57 @@ describe('the planner keeps the library', () => {
     expect(await waypointError.textContent()).toContain('Waypoint 2');
     await screenshot(page, 'library-route-error');
     expect(errors.filter((e) => !/status of 422/.test(e))).toEqual([]);
+    await context.close();
+  });
+
+  it('in aviation units a new owner sees feet on the sounding, nautical miles on routes and lb/h on engines', async () => {
+    const { page, context, errors } = await newPage(browser());
+    const slug = `units-${stamp.toLowerCase()}`;
+    await page.goto('/signup');
+    await page.getByLabel('Your name').fill('Units Tester');
+    await page.getByLabel('Work e-mail').fill(`units-${stamp.toLowerCase()}@example.test`);
+    await page.getByLabel('Password').fill('long-enough-password');
+    await page.getByLabel('First workspace (optional)').fill(slug);
+    await page.getByRole('button', { name: 'Create account' }).click();
+    await page.waitForURL(`**/w/${slug}`, { timeout: 20_000 });
+    await page.goto('/account');
+    await page.getByLabel('Aviation: nautical miles, feet, pounds').check();
+    await page.getByRole('status').filter({ hasText: 'Saved' }).waitFor();
+
+    await page.goto(`/w/${slug}/soundings`);
+    await page.getByText('No soundings yet').waitFor();
+    await page.getByLabel('Name').fill('Feet check');
+    await page.setInputFiles('#sounding-file', { name: 's.csv', mimeType: 'text/csv', buffer: Buffer.from(SOUNDING_CSV) });
+    await page.getByRole('button', { name: 'Upload sounding' }).click();
+    await page.waitForURL(/\/soundings\/\d+$/);
+    // 11 000 m / 0.3048 m per ft = 36 089 ft (the international foot, exactly 0.3048 m).
+    expect(await page.getByText('WMO tropopause', { exact: true }).locator('..').textContent()).toContain('36,089 ft');
+    await page.locator('canvas').first().waitFor();
+    await screenshot(page, 'library-sounding-imperial');
+
+    await page.goto(`/w/${slug}/routes`);
+    await page.getByText('No saved routes yet').waitFor();
+    await page.getByLabel('Route name').fill('Quarter meridian');
+    await page.getByLabel('Waypoints, in order').fill('0, 0\n90, 0');
+    await page.getByRole('button', { name: 'Save route' }).click();
+    await page.waitForURL(/\/routes\/\d+$/);
+    // pi/2 x 6371.0088 km (IUGG mean radius) = 10 007.6 km = 5 403.7 NM at 1.852 km per NM.
+    await page.getByText('5,404 NM').first().waitFor();
+
+    await page.goto(`/w/${slug}/engines`);
+    await page.getByText('No engines yet').waitFor();
+    await page.getByLabel('Engine name').fill('Pounds check');
+    for (const [mode, ff, ei] of [['Idle', '0.1', '4.5'], ['Approach', '0.3', '10.2'], ['Climb-out', '0.9', '22.8'], ['Take-off', '1.1', '30.5']] as const) {
+      await page.getByLabel(`${mode} fuel flow (kg/s)`).fill(ff);
+      await page.getByLabel(`${mode} EI NOx (g/kg)`).fill(ei);
+    }
+    await page.getByRole('button', { name: 'Add engine' }).click();
+    await page.getByRole('link', { name: 'Pounds check' }).waitFor();
+    // 1.1 kg/s x 3600 s/h / 0.45359237 kg/lb = 8 730 lb/h.
+    expect(await page.locator('tr', { hasText: 'Pounds check' }).textContent()).toContain('8,730');
+    await page.getByText('Fuel flow per engine, lb/h').waitFor();
+    await screenshot(page, 'library-engines-imperial');
+    expect(errors).toEqual([]);
     await context.close();
   });
 

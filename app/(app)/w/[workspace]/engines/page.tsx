@@ -9,6 +9,7 @@ import { DemoBadge } from '@/components/library/badges';
 import { CruiseCheckTag } from '@/components/library/cruise-check-tag';
 import { CRUISE_CHECK, cruiseEiCheck } from '@/components/library/cruise-ei-check';
 import { formatFuelFlow, fuelFlowUnit } from '@/components/library/format';
+import { LTO_MODES } from '@/lib/validation/library';
 import { EngineForm } from '@/components/library/engine-form';
 import { EngineImportForm } from '@/components/library/engine-import-form';
 import { AircraftTypeForm } from '@/components/library/aircraft-type-form';
@@ -53,7 +54,7 @@ export default async function EnginesPage({ params }: { params: Promise<{ worksp
                 <tbody>
                   {types.map((t) => (
                     <tr key={t.id} className="border-t border-line">
-                      <td className="py-2 pr-3 font-mono text-xs">
+                      <td className="py-2 pr-3 font-mono text-xs whitespace-nowrap">
                         <Link href={`/w/${slug}/engines/aircraft/${t.id}`} className="font-semibold text-accent hover:underline">
                           {t.code}
                         </Link>
@@ -100,7 +101,48 @@ export default async function EnginesPage({ params }: { params: Promise<{ worksp
               {canWrite ? 'Add an engine from its certification data sheet with the form below, or import several at once from a CSV.' : 'A planner in this workspace can add engines here.'}
             </EmptyState>
           ) : (
-            <div className="overflow-x-auto">
+            <>
+            <ul className="divide-y divide-line lg:hidden">
+              {engines.map((e) => {
+                const usedBy = types.filter((t) => t.engineId === e.id).map((t) => t.code);
+                return (
+                  <li key={e.id} className="py-3">
+                    <Link href={`/w/${slug}/engines/${e.id}`} className="font-medium text-accent hover:underline">
+                      {e.name}
+                    </Link>
+                    {e.isDemo ? <DemoBadge /> : null}
+                    {e.source ? <div className="mt-0.5 text-xs text-ink-soft">{e.source}</div> : null}
+                    <table className="mt-2 w-full max-w-md text-sm">
+                      <thead className="text-left text-xs text-ink-soft">
+                        <tr>
+                          <th scope="col" className="py-0.5 pr-3 font-medium">Mode</th>
+                          <th scope="col" className="py-0.5 pr-3 text-right font-medium">Fuel flow, {fuelFlowUnit(units)}</th>
+                          <th scope="col" className="py-0.5 text-right font-medium">EI NOx, g/kg</th>
+                        </tr>
+                      </thead>
+                      <tbody>
+                        {LTO_MODES.map((m, i) => (
+                          <tr key={m.key}>
+                            <td className="py-0.5 pr-3">{m.label}</td>
+                            <td className="figure py-0.5 pr-3 text-right">{formatFuelFlow(e.fuelFlowKgS[i], units)}</td>
+                            <td className="figure py-0.5 text-right">{formatNumber(e.eiNoxGPerKg[i], 1)}</td>
+                          </tr>
+                        ))}
+                      </tbody>
+                    </table>
+                    <div className="mt-2 flex flex-wrap items-center gap-x-4 gap-y-1 text-sm">
+                      <span>
+                        <span className="text-ink-soft">Cruise check (FL{CRUISE_CHECK.flightLevel}, M{CRUISE_CHECK.mach.toFixed(2)}, ISA):</span> <CruiseCheckTag check={cruiseEiCheck(e)} />
+                      </span>
+                      <span>
+                        <span className="text-ink-soft">Used by:</span> <span className="font-mono text-xs">{usedBy.length ? usedBy.join(', ') : '—'}</span>
+                      </span>
+                    </div>
+                  </li>
+                );
+              })}
+            </ul>
+            <div className="hidden overflow-x-auto lg:block">
               <table className="w-full text-sm">
                 <thead>
                   <tr>
@@ -146,6 +188,7 @@ export default async function EnginesPage({ params }: { params: Promise<{ worksp
                 </tbody>
               </table>
             </div>
+            </>
           )}
           <div className="mt-4">
             <Notice tone="caution" title="About the cruise check">
