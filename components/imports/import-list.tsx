@@ -100,7 +100,14 @@ function DeleteImport({ imp, onDelete }: { imp: ImportDto; onDelete: (id: number
     );
   }
   return (
-    <div role="group" aria-label={`Confirm deleting import #${imp.id}`} className="mt-3 w-full rounded-md border border-danger/40 bg-danger-soft p-3 text-sm">
+    <div
+      role="group"
+      aria-label={`Confirm deleting import #${imp.id}`}
+      className="mt-3 w-full rounded-md border border-danger/40 bg-danger-soft p-3 text-sm"
+      onKeyDown={(e) => {
+        if (e.key === 'Escape' && !pending) setOpen(false);
+      }}
+    >
       <p>
         Delete import #{imp.id} and its {formatNumber(imp.rows)} flight{imp.rows === 1 ? '' : 's'}? They leave the flight list, fleet figures and new reports.{' '}
         <strong>
