@@ -277,7 +277,7 @@ const BASE_CAUTIONS: readonly string[] = Object.freeze([
 const OZONE_NOTE =
   'Gross catalytic odd-oxygen destruction by the NOx emitted above the tropopause, not a net column change; below about 13-20 km the NOx also produces ozone.';
 
-const SOURCE_DEFAULT = 'default: screening value of the right order of magnitude, from memory (SCIENCE.md s.5)';
+const SOURCE_DEFAULT = 'default: screening value of the right order of magnitude, given from memory; override it with a published value where one is adopted';
 const SOURCE_INPUT = 'given with the flight';
 
 function describeBand(v: unknown, b: Band): Band & { source: string } {
