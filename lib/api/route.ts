@@ -6,7 +6,7 @@ import { getMembership, type WorkspaceDto } from '@/db/workspaces';
 import { can, type Permission, type Role } from '@/lib/auth/policy';
 import { isAllowedOrigin } from '@/lib/auth/origin';
 import { limitApi } from '@/lib/auth/throttle';
-import { badRequest, forbidden, fromZod, notFound, toResponse, tooLarge, unauthenticated } from '@/lib/errors';
+import { badRequest, forbidden, fromZod, invalidFields, notFound, toResponse, tooLarge, unauthenticated } from '@/lib/errors';
 import { env } from '@/lib/env';
 import { log } from '@/lib/log';
 
@@ -116,8 +116,20 @@ function withNoStore(res: Response): Response {
   return res;
 }
 
+/**
+ * PostgreSQL refuses a number outside its column's range (22003) or text where a number belongs
+ * (22P02); SQLite stores either. Such a value can only have come from the request, so it is bad
+ * input, not a server fault.
+ */
+function fromDatabaseInputError(req: Request, err: unknown): unknown {
+  const code = err instanceof Error ? (err as Error & { code?: unknown }).code : undefined;
+  if (code !== '22003' && code !== '22P02') return err;
+  const where = req.method === 'GET' || req.method === 'DELETE' ? '(query)' : '(body)';
+  return invalidFields([{ path: where, message: 'A number in this request is out of range (ids, cursors and counts are whole numbers up to 2147483647).' }]);
+}
+
 function failure(req: Request, err: unknown): Response {
-  const res = toResponse(err);
+  const res = toResponse(fromDatabaseInputError(req, err));
   const path = new URL(req.url).pathname;
   if (res.status === 422 || res.status === 400 || res.status === 413) log.info({ event: 'input.rejected', path, status: res.status }, 'input rejected');
   else if (res.status === 429) log.warn({ event: 'throttled', path }, 'request throttled');
@@ -164,8 +176,13 @@ export function json(data: unknown, status = 200, headers?: Record<string, strin
   return Response.json(data, { status, headers });
 }
 
-/** Parses an integer path parameter; anything else is simply not found. */
+/** The largest id a row can have (PostgreSQL `integer`, the type of every id column). */
+export const MAX_ID = 2_147_483_647;
+
+/** Parses an integer path parameter; anything else (or anything larger than an id can be) is simply not found. */
 export function idParam(value: string): number {
-  if (!/^\d{1,12}$/.test(value)) throw notFound();
-  return Number(value);
+  if (!/^\d{1,10}$/.test(value)) throw notFound();
+  const id = Number(value);
+  if (id > MAX_ID) throw notFound();
+  return id;
 }

@@ -111,7 +111,7 @@ function caseArbitrary(t: Target): fc.Arbitrary<Case> {
   const query = queryString(queryKeys);
   const hasId = t.route.params.some((p) => p !== 'slug');
   // Mostly a real row of the workspace (so the body is what gets fuzzed), sometimes a hostile id.
-  const hostileId = fc.oneof(fc.constantFrom('0', '-1', '1e3', '9'.repeat(20), '%00', 'NaN', '１', '1.5', '00001'), fc.string({ maxLength: 12 }));
+  const hostileId = fc.oneof(fc.constantFrom('0', '-1', '1e3', '9'.repeat(20), '2147483648', '999999999999', '%00', 'NaN', '１', '1.5', '00001'), fc.string({ maxLength: 12 }));
   const id = hasId ? fc.oneof({ arbitrary: fc.constant(null), weight: 4 }, { arbitrary: hostileId, weight: 1 }) : fc.constant(null);
   const multipart = t.op?.requestBody && 'multipart' in t.op.requestBody ? t.op.requestBody.multipart : undefined;
   if (t.method === 'GET' || t.method === 'DELETE') return fc.record({ query, id }).map(({ query: q, id: i }) => ({ query: q, id: i ?? undefined }));
