@@ -120,8 +120,9 @@ class Writer {
     this.y -= o.gap ?? 4;
   }
 
-  heading(s: string): void {
-    this.ensure(48);
+  /** A section heading, moved to the next page unless `keepWith` points of its content fit below it. */
+  heading(s: string, keepWith = 90): void {
+    this.ensure(34 + keepWith);
     this.y -= 8;
     this.at(s, MARGIN, this.y - 12, { size: 12, bold: true });
     this.y -= 18;
@@ -424,7 +425,7 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
   w.table([{ label: 'Figure', width: 300 }, { label: 'All fleets in the report', width: 199, align: 'right' }], totalsRows, { size: 8.5 });
   w.paragraph(s.notes.ratios, { size: 7.5, color: INK_SOFT });
 
-  w.heading('Per fleet');
+  w.heading('Per fleet', 120);
   const perFleetRows = [...s.perFleet.map((r) => figureRow(r, units, r.fleetName)), figureRow(t, units, 'All fleets')];
   w.table(FIGURE_COLUMNS(units), perFleetRows, { strong: new Set([perFleetRows.length - 1]) });
   const ozoneRows = [...s.perFleet, t].map((r, i) => [
@@ -445,7 +446,7 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
     { strong: new Set([ozoneRows.length - 1]) },
   );
 
-  w.heading('By month');
+  w.heading('By month', 240);
   const maxMonthly = Math.max(0, ...s.series.flatMap((x) => x.noxAboveKg));
   const axis = massAxisUnit(maxMonthly, units);
   const colours = s.series.map((_, i) => hex(FLEET_COLOURS[i % FLEET_COLOURS.length]));
