@@ -2,7 +2,7 @@ import fs from 'node:fs';
 import { createRequire } from 'node:module';
 import { describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
-import { newPage, screenshot, signIn, useBrowser } from './support/browser';
+import { mailTo, newPage, screenshot, signIn, useBrowser } from './support/browser';
 
 const { browser } = useBrowser();
 const PAYMENT_URL = process.env.E2E_PAYMENT_URL ?? 'http://127.0.0.1:12111';
@@ -42,8 +42,8 @@ async function demoSubscription(): Promise<string> {
 
 type Usage = { units: number; pendingUnits: number; estimatedChargeCents: number; planId: string };
 
-async function usageOf(page: Page): Promise<Usage> {
-  const res = await page.request.get(`/api/v1/workspaces/${SLUG}/usage`);
+async function usageOf(page: Page, slug = SLUG): Promise<Usage> {
+  const res = await page.request.get(`/api/v1/workspaces/${slug}/usage`);
   expect(res.status()).toBe(200);
   return (await res.json()) as Usage;
 }
@@ -165,5 +165,62 @@ describe('finance admin: usage, invoice, plan', () => {
     await signIn(again.page, 'planner@tropopass.test');
     expect((await again.page.goto(`/w/${SLUG}/settings/billing`))?.status()).toBe(403);
     await again.context.close();
+  });
+});
+
+describe('owner of a new workspace: trial, subscribe, a declined card and its recovery', () => {
+  it('subscribes from the trial, goes past due on a declined card, is told by e-mail, pays and screens again', async () => {
+    const { page, context, errors } = await newPage(browser());
+    await signIn(page, 'consultant@tropopass.test');
+    const name = `Billing journey ${Date.now()}`;
+    const created = await page.request.post('/api/v1/workspaces', { data: { name } });
+    expect(created.status()).toBe(201);
+    const { slug } = (await created.json()) as { slug: string };
+
+    await page.goto(`/w/${slug}/settings/billing`);
+    expect(await page.getByTestId('billing-status').textContent()).toBe('Free trial');
+    await page.getByText(/Free trial: 14 days left/).waitFor();
+    await screenshot(page, 'billing-trial');
+
+    await page.getByLabel('Card on file').selectOption({ label: 'Test card that is declined' });
+    await page.getByRole('radio', { name: /Crew/ }).check();
+    await page.getByRole('button', { name: 'Subscribe to Crew' }).click();
+    await page.getByRole('status').filter({ hasText: 'Subscribed to Crew' }).waitFor();
+    await page.getByRole('heading', { name: 'Change plan' }).waitFor();
+
+    // Close the free trial ($0), then a paid period with two screened flights on the declined card.
+    const state = (await (await fetch(`${PAYMENT_URL}/_fake/state`)).json()) as FakeState;
+    const customer = state.customers.find((c) => c.metadata.workspace === slug)!;
+    const subscription = state.subscriptions.find((s) => s.customer === customer.id)!.id;
+    const advance = async () => {
+      const r = await fetch(`${PAYMENT_URL}/_fake/advance`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ subscription, wait: true }) });
+      expect(r.status).toBe(200);
+      return ((await r.json()) as { invoice: { amount_due: number; status: string } }).invoice;
+    };
+    expect(await advance()).toMatchObject({ amount_due: 0, status: 'paid' });
+    for (let i = 0; i < 2; i++) expect((await page.request.post(`/api/v1/workspaces/${slug}/screenings`, { data: FLIGHT })).status()).toBe(201);
+    await until(async () => (await usageOf(page, slug)).pendingUnits === 0 || null, 'usage delivered');
+    const failed = await advance();
+    expect(failed.status).toBe('open');
+
+    await page.reload();
+    expect(await page.getByTestId('billing-status').textContent()).toBe('Payment failed');
+    await page.getByRole('alert').filter({ hasText: 'new screenings and imports are paused' }).waitFor();
+    const blocked = await page.request.post(`/api/v1/workspaces/${slug}/screenings`, { data: FLIGHT });
+    expect(blocked.status()).toBe(402);
+    const mail = await until(async () => (await mailTo('consultant@tropopass.test')).find((m) => m.subject === `Payment failed for ${name}: screening is paused`), 'the payment-failed e-mail');
+    expect(mail.text).toContain(usd(failed.amount_due));
+    await screenshot(page, 'billing-past-due');
+
+    await page.getByLabel('Card on file').selectOption({ label: 'Test card that succeeds' });
+    await page.getByRole('button', { name: 'Save card' }).click();
+    await page.getByRole('status').filter({ hasText: 'Test card that succeeds is on file' }).waitFor();
+    await page.getByRole('button', { name: 'Pay the open invoice' }).click();
+    await page.getByRole('status').filter({ hasText: 'Paid. Screening and imports are open again.' }).waitFor();
+    await until(async () => (await page.getByTestId('billing-status').textContent()) === 'Active', 'the status to show Active');
+    expect((await page.request.post(`/api/v1/workspaces/${slug}/screenings`, { data: FLIGHT })).status()).toBe(201);
+    await screenshot(page, 'billing-recovered');
+    expect(errors.filter((e) => !e.includes('402'))).toEqual([]);
+    await context.close();
   });
 });

@@ -170,7 +170,14 @@ export default async function BillingPage({ params }: { params: Promise<{ worksp
             </Card>
             <div className="space-y-6">
               <Card title="Payment method">
-                <PaymentCardForm slug={slug} card={card} pastDue={billing.status === 'past_due'} />
+                {subscribed ? (
+                  <PaymentCardForm slug={slug} card={card} pastDue={billing.status === 'past_due'} />
+                ) : (
+                  <p className="text-sm text-ink-soft">
+                    {billing.paymentMethodLabel ? `${billing.paymentMethodLabel} is on file. ` : ''}Choose the card when you subscribe; it pays every invoice after
+                    that and can be changed here at any time.
+                  </p>
+                )}
               </Card>
               <Card title="Billing contacts">
                 <BillingEmailForm slug={slug} billingEmail={billing.billingEmail} />
