@@ -14,6 +14,7 @@ import {
 } from 'chart.js';
 import { Line } from 'react-chartjs-2';
 import type { ProfileSeries } from '@/components/screening/profile-series';
+import { formatNumber } from '@/lib/format';
 
 ChartJS.register(LineController, LineElement, PointElement, LinearScale, Filler, Tooltip);
 
@@ -75,6 +76,7 @@ export function VerticalProfileChart({ series, label, height = 320, yMax }: Prop
         min: 0,
         max: series.x.length ? series.x[series.x.length - 1] : undefined,
         title: { display: true, text: series.distanceLabel },
+        ticks: { callback: (v) => formatNumber(Number(v)) },
         grid: { color: GRID },
       },
       y: {
@@ -82,6 +84,7 @@ export function VerticalProfileChart({ series, label, height = 320, yMax }: Prop
         min: 0,
         suggestedMax: top * 1.08,
         title: { display: true, text: series.altitudeLabel },
+        ticks: { callback: (v) => formatNumber(Number(v)) },
         grid: { color: GRID },
       },
     },

@@ -111,7 +111,7 @@ export function RouteMap({ points, segments, title }: { points: readonly MapPoin
               d={path({ type: 'LineString', coordinates: r.line }) ?? ''}
               fill="none"
               stroke={r.above ? STRATO : TROPO}
-              strokeWidth={3.5}
+              strokeWidth={5}
               strokeLinecap="round"
               strokeLinejoin="round"
               data-above={r.above ? 'true' : 'false'}
@@ -120,24 +120,24 @@ export function RouteMap({ points, segments, title }: { points: readonly MapPoin
           {points.map((p, i) => {
             const xy = projection([p.lon, p.lat]);
             if (!xy) return null;
-            return <circle key={`pt-${i}`} cx={xy[0]} cy={xy[1]} r={p.label ? 5 : 3.5} fill="#ffffff" stroke={INK} strokeWidth={2} />;
+            return <circle key={`pt-${i}`} cx={xy[0]} cy={xy[1]} r={p.label ? 7 : 5} fill="#ffffff" stroke={INK} strokeWidth={2.5} />;
           })}
           {labelled.map((p, i) => {
             const xy = projection([p.lon, p.lat]);
             if (!xy) return null;
             const text = p.label ?? `${p.lat.toFixed(1)}°, ${p.lon.toFixed(1)}°`;
-            const anchor = xy[0] > WIDTH - 120 ? 'end' : 'start';
+            const anchor = xy[0] > WIDTH - 140 ? 'end' : 'start';
             return (
               <text
                 key={`label-${i}`}
-                x={xy[0] + (anchor === 'end' ? -9 : 9)}
-                y={xy[1] - 8}
+                x={xy[0] + (anchor === 'end' ? -12 : 12)}
+                y={xy[1] - 10}
                 textAnchor={anchor}
-                fontSize={15}
-                fontWeight={600}
+                fontSize={24}
+                fontWeight={700}
                 fill={INK}
                 stroke="#ffffff"
-                strokeWidth={4}
+                strokeWidth={6}
                 paintOrder="stroke"
               >
                 {text}

@@ -13,7 +13,7 @@ export function sci(n: number): string {
 }
 
 /** How the figures were made: the method notes of the result and the ozone-figure inputs with their sources. */
-export function AssumptionsList({ result }: { result: Pick<ScreeningResult, 'assumptions' | 'ozoneLoss' | 'tropopause' | 'engineVersion'> }) {
+export function AssumptionsList({ result }: { result: Pick<ScreeningResult, 'assumptions' | 'ozoneLoss' | 'engineVersion'> }) {
   const a = result.ozoneLoss.assumptions;
   const bands: [string, { low: number; central: number; high: number; source: string }][] = [
     ['J(O3 → O(3P)) at noon, s⁻¹', a.jO3NoonPerS],
@@ -27,7 +27,6 @@ export function AssumptionsList({ result }: { result: Pick<ScreeningResult, 'ass
         {result.assumptions.map((line) => (
           <li key={line}>{line}</li>
         ))}
-        <li>{result.tropopause.description}</li>
       </ul>
       <div className="overflow-x-auto">
         <table className="w-full min-w-[600px]">

@@ -39,7 +39,10 @@ export function SegmentTable({ segments, units }: { segments: readonly Screening
   const pathname = usePathname();
   const params = useSearchParams();
   const data = useMemo(() => segments.map((s, index) => ({ ...s, index: index + 1 })), [segments]);
-  const { sorting, pageIndex } = readSegmentTableState(new URLSearchParams(params.toString()), data.length);
+  const query = params.toString();
+  // One state object per URL value: fresh objects each render would make the table recompute on every render.
+  const { sorting, pageIndex } = useMemo(() => readSegmentTableState(new URLSearchParams(query), data.length), [query, data.length]);
+  const pagination = useMemo(() => ({ pageIndex, pageSize: SEGMENT_PAGE_SIZE }), [pageIndex]);
 
   const push = (next: { sorting?: SortingState; pageIndex?: number }) => {
     const q = new URLSearchParams(params.toString());
@@ -82,7 +85,7 @@ export function SegmentTable({ segments, units }: { segments: readonly Screening
   const table = useReactTable({
     data,
     columns,
-    state: { sorting, pagination: { pageIndex, pageSize: SEGMENT_PAGE_SIZE } },
+    state: { sorting, pagination },
     onSortingChange: (updater) => push({ sorting: typeof updater === 'function' ? updater(sorting) : updater, pageIndex: 0 }),
     onPaginationChange: (updater) => {
       const next = typeof updater === 'function' ? updater({ pageIndex, pageSize: SEGMENT_PAGE_SIZE }) : updater;
@@ -108,7 +111,7 @@ export function SegmentTable({ segments, units }: { segments: readonly Screening
                 {hg.headers.map((h) => {
                   const sorted = h.column.getIsSorted();
                   return (
-                    <th key={h.id} scope="col" className="py-2 pr-3" aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined}>
+                    <th key={h.id} scope="col" className="whitespace-nowrap py-2 pr-3" aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined}>
                       {h.column.getCanSort() ? (
                         <button type="button" onClick={h.column.getToggleSortingHandler()} className="inline-flex items-center gap-1 uppercase hover:text-ink">
                           {flexRender(h.column.columnDef.header, h.getContext())}
@@ -127,7 +130,7 @@ export function SegmentTable({ segments, units }: { segments: readonly Screening
             {table.getRowModel().rows.map((row) => (
               <tr key={row.id} className={`border-t border-line ${row.original.aboveTropopause ? 'bg-strato-soft/40' : ''}`}>
                 {row.getVisibleCells().map((cell) => (
-                  <td key={cell.id} className="py-1.5 pr-3">
+                  <td key={cell.id} className="whitespace-nowrap py-1.5 pr-3">
                     {flexRender(cell.column.columnDef.cell, cell.getContext())}
                   </td>
                 ))}

@@ -32,3 +32,27 @@ export function SegmentError({ what, reset }: { what: string; reset: () => void 
     </div>
   );
 }
+
+/** The form's two columns while the workspace's aircraft, routes and soundings are read. */
+export function FormSkeleton() {
+  return (
+    <div aria-busy="true" className="grid gap-6 xl:grid-cols-2">
+      <p className="sr-only">Loading the form…</p>
+      <div className="space-y-5">
+        {Array.from({ length: 4 }, (_, i) => (
+          <div key={i} className="h-40 animate-pulse rounded-card border border-line bg-paper-raised" />
+        ))}
+      </div>
+      <div className="h-96 animate-pulse rounded-card border border-line bg-paper-raised" />
+    </div>
+  );
+}
+
+/** One card's placeholder inside a page. */
+export function CardSkeleton({ label, height = 'h-64' }: { label: string; height?: string }) {
+  return (
+    <div aria-busy="true" className={`${height} animate-pulse rounded-card border border-line bg-paper-raised`}>
+      <p className="sr-only">Loading {label}…</p>
+    </div>
+  );
+}

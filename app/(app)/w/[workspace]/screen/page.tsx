@@ -8,6 +8,9 @@ import { todayIso } from '@/lib/clock';
 import type { AssumptionDefaults } from '@/lib/validation/screen-form';
 import { PageHeader } from '@/components/ui/card';
 import { ScreeningCaution } from '@/components/ui/notice';
+import { Suspense } from 'react';
+import { FormSkeleton } from '@/components/screening/skeletons';
+import type { UnitSystem } from '@/lib/validation/screen-form';
 import { ScreenFormIsland } from './screen-form-island';
 
 export const metadata = { title: 'Screen a flight' };
@@ -17,7 +20,25 @@ const band = (b: { low: number; central: number; high: number }) => ({ low: b.lo
 export default async function ScreenPage({ params }: { params: Promise<{ workspace: string }> }) {
   const { workspace: slug } = await params;
   const { workspace, user } = await requireMember(slug, 'screenings:create');
-  const scope = { workspaceId: workspace.id };
+  return (
+    <>
+      <PageHeader
+        title="Screen a flight"
+        lead="How much of this flight's NOx goes above the tropopause, and the ozone-loss screening figure. The preview updates as you type; Save keeps the screening."
+      />
+      <div className="mb-6">
+        <ScreeningCaution />
+      </div>
+      <Suspense fallback={<FormSkeleton />}>
+        <ScreenFormLoader slug={slug} workspaceId={workspace.id} units={user.units} />
+      </Suspense>
+    </>
+  );
+}
+
+/** The workspace's aircraft, engines, routes and soundings for the form, read after the permission check. */
+async function ScreenFormLoader({ slug, workspaceId, units }: { slug: string; workspaceId: number; units: UnitSystem }) {
+  const scope = { workspaceId };
   const [types, lookup, engines, routes, soundings] = await Promise.all([
     listAircraftTypes(scope),
     listAircraftForScreening(scope),
@@ -42,44 +63,35 @@ export default async function ScreenPage({ params }: { params: Promise<{ workspa
     },
   };
   return (
-    <>
-      <PageHeader
-        title="Screen a flight"
-        lead="How much of this flight's NOx goes above the tropopause, and the ozone-loss screening figure. The preview updates as you type; Save keeps the screening."
-      />
-      <div className="mb-6">
-        <ScreeningCaution />
-      </div>
-      <ScreenFormIsland
-        slug={slug}
-        units={user.units}
-        defaults={defaults}
-        defaultDate={todayIso()}
-        whatIfDefaults={{ limitPct: DEFAULT_MAX_FUEL_PENALTY_PCT, ratePct: DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT }}
-        aircraft={types.map((t) => ({
-          code: t.code,
-          name: t.name,
-          engineName: t.engineName,
-          engineCount: t.engineCount,
-          typicalMach: t.typicalMach,
-          typicalFlightLevel: t.typicalFlightLevel,
-          directEiGPerKg: t.directEiGPerKg,
-          emission: lookup.get(t.code.toUpperCase())?.emission ?? null,
-        }))}
-        engines={engines.map((e) => ({ id: e.id, name: e.name, fuelFlowKgS: e.fuelFlowKgS, eiNoxGPerKg: e.eiNoxGPerKg }))}
-        routes={routes.map((r) => ({
-          id: r.id,
-          name: r.name,
-          notes: r.notes,
-          waypoints: r.waypoints,
-          coordinates: r.waypoints.map((w) => {
-            if (!('airport' in w)) return { lat: w.lat, lon: w.lon };
-            const a = findAirport(w.airport);
-            return a ? { lat: a.lat, lon: a.lon } : null;
-          }),
-        }))}
-        soundings={soundings.map((s) => ({ id: s.id, name: s.name, station: s.station, observedAt: s.observedAt, levels: s.levels, tropopause: s.tropopause }))}
-      />
-    </>
+    <ScreenFormIsland
+      slug={slug}
+      units={units}
+      defaults={defaults}
+      defaultDate={todayIso()}
+      whatIfDefaults={{ limitPct: DEFAULT_MAX_FUEL_PENALTY_PCT, ratePct: DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT }}
+      aircraft={types.map((t) => ({
+        code: t.code,
+        name: t.name,
+        engineName: t.engineName,
+        engineCount: t.engineCount,
+        typicalMach: t.typicalMach,
+        typicalFlightLevel: t.typicalFlightLevel,
+        directEiGPerKg: t.directEiGPerKg,
+        emission: lookup.get(t.code.toUpperCase())?.emission ?? null,
+      }))}
+      engines={engines.map((e) => ({ id: e.id, name: e.name, fuelFlowKgS: e.fuelFlowKgS, eiNoxGPerKg: e.eiNoxGPerKg }))}
+      routes={routes.map((r) => ({
+        id: r.id,
+        name: r.name,
+        notes: r.notes,
+        waypoints: r.waypoints,
+        coordinates: r.waypoints.map((w) => {
+          if (!('airport' in w)) return { lat: w.lat, lon: w.lon };
+          const a = findAirport(w.airport);
+          return a ? { lat: a.lat, lon: a.lon } : null;
+        }),
+      }))}
+      soundings={soundings.map((s) => ({ id: s.id, name: s.name, station: s.station, observedAt: s.observedAt, levels: s.levels, tropopause: s.tropopause }))}
+    />
   );
 }

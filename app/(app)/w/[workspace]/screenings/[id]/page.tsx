@@ -1,3 +1,4 @@
+import { Suspense } from 'react';
 import Form from 'next/form';
 import { notFound } from 'next/navigation';
 import { requireMember } from '@/lib/auth/guards';
@@ -25,6 +26,9 @@ import { profileSeries } from '@/components/screening/profile-series';
 import { cruiseLabel, mapPointsFor } from '@/components/screening/describe';
 import { VerticalProfileChart } from '@/components/charts/vertical-profile-chart';
 import { RouteMap } from '@/components/maps/route-map';
+import { CardSkeleton } from '@/components/screening/skeletons';
+import type { ScreeningInput } from '@/lib/validation/screening';
+import type { UnitSystem } from '@/lib/validation/screen-form';
 
 export const metadata = { title: 'Screening result' };
 
@@ -67,18 +71,10 @@ export default async function ScreeningResultPage({ params, searchParams }: { pa
   }
   const { input, result } = record;
   const units = user.units;
-  const whatIf = readWhatIf(search);
-  let levels: CruiseLevelRow[] | null = null;
-  try {
-    levels = compareValidated(input, { maxFuelPenaltyPct: whatIf.limit, fuelPenaltyPctPer1000Ft: whatIf.rate });
-  } catch {
-    levels = null;
-  }
   const series = profileSeries(result.segments, units);
   const points = mapPointsFor(input);
   const label = routeLabel(input);
   const exportBase = `/api/v1/workspaces/${slug}/screenings/${record.id}/export`;
-  const keep = Object.entries(search).filter(([k]) => k === 'seg_sort' || k === 'seg_page');
   const facts = [
     label,
     record.aircraftCode ? `aircraft ${record.aircraftCode}` : null,
@@ -115,28 +111,9 @@ export default async function ScreeningResultPage({ params, searchParams }: { pa
             <RouteMap points={points} segments={result.segments} title={`Map of ${label}, coloured by position against the tropopause`} />
           </Card>
         </div>
-        <Card title="Other cruise levels">
-          <Form action="" className="mb-4 flex flex-wrap items-end gap-3" scroll={false}>
-            {keep.map(([k, v]) => (
-              <input key={k} type="hidden" name={k} value={one(v) ?? ''} />
-            ))}
-            <Field id="limit" label="Fuel-penalty limit (%)" error={whatIf.problems.limit} className="w-48">
-              <TextInput id="limit" name="limit" inputMode="decimal" defaultValue={whatIf.raw.limit || String(whatIf.limit)} invalid={!!whatIf.problems.limit} />
-            </Field>
-            <Field id="rate" label="Penalty per 1000 ft (%)" error={whatIf.problems.rate} className="w-48">
-              <TextInput id="rate" name="rate" inputMode="decimal" defaultValue={whatIf.raw.rate || String(whatIf.rate)} invalid={!!whatIf.problems.rate} />
-            </Field>
-            <button type="submit" className={buttonClass('secondary')}>
-              Compare levels
-            </button>
-          </Form>
-          {levels ? (
-            <WhatIfTable rows={levels} units={units} limitPct={whatIf.limit} ratePctPer1000Ft={whatIf.rate} />
-          ) : (
-            <Notice tone="danger">The other levels could not be worked out for this saved input with the current methods.</Notice>
-          )}
-          <p className="mt-2 text-xs text-ink-soft">Worked out now from the saved input; the figures above are as saved (engine version {result.engineVersion}).</p>
-        </Card>
+        <Suspense fallback={<CardSkeleton label="the other cruise levels" />}>
+          <WhatIfSection input={input} search={search} units={units} engineVersion={result.engineVersion} />
+        </Suspense>
         <Card title="Segments">
           <div id="segments">
             <SegmentTable segments={result.segments} units={units} />
@@ -147,5 +124,41 @@ export default async function ScreeningResultPage({ params, searchParams }: { pa
         </Card>
       </div>
     </>
+  );
+}
+
+/** The what-if levels, worked out now from the saved input with the planner's fuel-penalty limit from the URL. */
+async function WhatIfSection({ input, search, units, engineVersion }: { input: ScreeningInput; search: Search; units: UnitSystem; engineVersion: string }) {
+  const whatIf = readWhatIf(search);
+  let levels: CruiseLevelRow[] | null = null;
+  try {
+    levels = compareValidated(input, { maxFuelPenaltyPct: whatIf.limit, fuelPenaltyPctPer1000Ft: whatIf.rate });
+  } catch {
+    levels = null;
+  }
+  const keep = Object.entries(search).filter(([k]) => k === 'seg_sort' || k === 'seg_page');
+  return (
+    <Card title="Other cruise levels">
+      <Form action="" className="mb-4 flex flex-wrap items-end gap-3" scroll={false}>
+        {keep.map(([k, v]) => (
+          <input key={k} type="hidden" name={k} value={one(v) ?? ''} />
+        ))}
+        <Field id="limit" label="Fuel-penalty limit (%)" error={whatIf.problems.limit} className="w-48">
+          <TextInput id="limit" name="limit" inputMode="decimal" defaultValue={whatIf.raw.limit || String(whatIf.limit)} invalid={!!whatIf.problems.limit} />
+        </Field>
+        <Field id="rate" label="Penalty per 1000 ft (%)" error={whatIf.problems.rate} className="w-48">
+          <TextInput id="rate" name="rate" inputMode="decimal" defaultValue={whatIf.raw.rate || String(whatIf.rate)} invalid={!!whatIf.problems.rate} />
+        </Field>
+        <button type="submit" className={buttonClass('secondary')}>
+          Compare levels
+        </button>
+      </Form>
+      {levels ? (
+        <WhatIfTable rows={levels} units={units} limitPct={whatIf.limit} ratePctPer1000Ft={whatIf.rate} />
+      ) : (
+        <Notice tone="danger">The other levels could not be worked out for this saved input with the current methods.</Notice>
+      )}
+      <p className="mt-2 text-xs text-ink-soft">Worked out now from the saved input; the figures above are as saved (engine version {engineVersion}).</p>
+    </Card>
   );
 }

@@ -1,5 +1,0 @@
-import { PageSkeleton } from '@/components/screening/skeletons';
-
-export default function Loading() {
-  return <PageSkeleton title="the comparison" />;
-}
