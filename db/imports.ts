@@ -1,7 +1,6 @@
 import 'server-only';
 import type { Knex } from 'knex';
 import { db, insertId, nowIso, writeTx } from './client';
-import { recordUsage } from './usage';
 import { createAuditEntry } from './audit';
 import { assertBillingAllows } from '@/lib/billing/gate';
 import { AppError, notFound } from '@/lib/errors';
@@ -267,9 +266,7 @@ export async function saveScreenedChunk(importId: number, outcomes: ScreenedOutc
     const workspaceOf = new Map(screened.map((o) => [o.id, o.workspaceId]));
     for (let i = 0; i < screened.length; i += SCREENED_BATCH) {
       const ids = await markScreened(trx, screened.slice(i, i + SCREENED_BATCH), now);
-      for (const id of ids) {
-        await recordUsage(trx, { workspaceId: workspaceOf.get(id) ?? 0, kind: 'imported_flight', sourceId: id, occurredAt: now });
-      }
+      await recordImportedFlightUnits(trx, ids.map((id) => ({ workspaceId: workspaceOf.get(id) ?? 0, sourceId: id })), now);
       saved += ids.length;
     }
     for (const o of outcomes) {
@@ -287,6 +284,20 @@ export async function saveScreenedChunk(importId: number, outcomes: ScreenedOutc
 }
 
 const SCREENED_BATCH = 500;
+
+/**
+ * The usage units of a batch of screened flights in one INSERT: the same ledger rows as
+ * db/usage.ts recordUsage (kind imported_flight, key tp-imported_flight-<flight id>, quantity 1),
+ * and like it a no-op for a flight already billed, since (kind, source_id) is unique. One statement
+ * per batch instead of one per flight: at 100 000 flights the per-row inserts alone cost seconds.
+ */
+async function recordImportedFlightUnits(trx: Knex.Transaction, units: { workspaceId: number; sourceId: number }[], occurredAt: string): Promise<void> {
+  if (!units.length) return;
+  const bindings: (number | string)[] = [];
+  for (const u of units) bindings.push(u.workspaceId, 'imported_flight', u.sourceId, `tp-imported_flight-${u.sourceId}`, 1, occurredAt);
+  const values = units.map(() => '(?, ?, ?, ?, ?, ?)').join(', ');
+  await trx.raw(`INSERT INTO usage_events (workspace_id, kind, source_id, idempotency_key, quantity, occurred_at) VALUES ${values} ON CONFLICT (kind, source_id) DO NOTHING`, bindings);
+}
 const FIGURE_COLUMNS = ['distance_km', 'nox_total_kg', 'nox_above_kg', 'fraction_above', 'mean_depth_above_km', 'ozone_central_kg', 'ozone_low_kg', 'ozone_high_kg'] as const;
 
 /**

@@ -129,6 +129,8 @@ async function main(): Promise<void> {
     NEXTAUTH_URL: baseUrl,
     NEXTAUTH_SECRET: SECRET,
     IMPORT_WORKER: '1',
+    // The payment fake is not started here: the usage sender would only retry, and it is not part of the import figure.
+    BILLING_SENDER: '0',
     RATE_LIMIT_API_PER_MIN: '100000',
     LOG_LEVEL: 'warn',
   };
@@ -161,6 +163,7 @@ async function main(): Promise<void> {
     const t0 = performance.now();
     const res = await fetch(`${baseUrl}/api/v1/workspaces/skarn-polar/imports`, { method: 'POST', headers: { cookie }, body: form });
     const t1 = performance.now();
+    const acceptPeakKb = Math.max(peakKb, groupRssKb(server.pid ?? 0));
     const accepted = (await res.json()) as { id?: number; status?: string; error?: { message: string } };
     if (res.status !== 202 || !accepted.id) throw new Error(`upload refused (${res.status}): ${JSON.stringify(accepted).slice(0, 500)}`);
 
@@ -185,7 +188,7 @@ async function main(): Promise<void> {
     console.log(`validate + import (202)    ${accept.toFixed(2)} s  (${Math.round(ROWS / accept)} rows/s)`);
     console.log(`screening (worker)         ${screen.toFixed(2)} s  (${Math.round(ROWS / screen)} rows/s; the import reported up to ${Math.round(maxRate)} rows/s)`);
     console.log(`end to end                 ${total.toFixed(2)} s  (${Math.round(ROWS / total)} rows/s)  target < 30 s`);
-    console.log(`server RSS                 idle ${Math.round(idleKb / 1024)} MB, peak ${Math.round(peakKb / 1024)} MB (process group, sampled every 100 ms)  target < 600 MB`);
+    console.log(`server RSS                 idle ${Math.round(idleKb / 1024)} MB, peak ${Math.round(peakKb / 1024)} MB (up to the 202: ${Math.round(acceptPeakKb / 1024)} MB; process group, sampled every 100 ms)  target < 600 MB`);
     console.log(`checks                     status ${status}, ${screened} flights screened, ${units} usage units`);
     if (status !== 'complete' || screened !== ROWS || units !== ROWS) throw new Error('the import did not screen and bill every row exactly once');
   } finally {

@@ -233,7 +233,8 @@ describe('POST /workspaces/{slug}/imports', () => {
     const seen: ImportDto[] = [];
     await runImportsToCompletion({
       chunkSize: 20,
-      onChunk: async () => {
+      onChunk: async ({ importId }) => {
+        if (importId !== r.body.id) return;
         // Give the rate a measurable time base between chunks.
         await new Promise((done) => setTimeout(done, 300));
         const p = await call<ImportDto>(importRoute.GET, apiRequest('GET', `/api/v1/workspaces/${ws.slug}/imports/${r.body.id}`, { cookie }), { slug: ws.slug, id: String(r.body.id) });
