@@ -227,10 +227,10 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
       <Card title="Filters">
         <form key={apiQuery} onSubmit={onFilter} noValidate className="space-y-4" aria-label="Comparison filters">
           <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
-            <Field id="f-from" label="From" error={fieldErrors.from} hint={data ? `Now ${data.period.from}` : undefined}>
+            <Field id="f-from" label="From" error={fieldErrors.from}>
               <TextInput id="f-from" name="from" type="date" defaultValue={current.from ?? data?.period.from ?? ''} invalid={!!fieldErrors.from} />
             </Field>
-            <Field id="f-to" label="To" error={fieldErrors.to} hint={data ? `Now ${data.period.to}` : undefined}>
+            <Field id="f-to" label="To" error={fieldErrors.to}>
               <TextInput id="f-to" name="to" type="date" defaultValue={current.to ?? data?.period.to ?? ''} invalid={!!fieldErrors.to} />
             </Field>
             <Field id="f-aircraft" label="Aircraft type" error={fieldErrors.aircraft}>
