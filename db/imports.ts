@@ -6,7 +6,7 @@ import { assertBillingAllows } from '@/lib/billing/gate';
 import { AppError, notFound } from '@/lib/errors';
 import type { ScreeningResult } from '@/lib/screening';
 import type { ImportProblem, ImportStatus } from '@/lib/validation/imports';
-import type { PreparedFlight } from '@/lib/imports/schedule';
+import { screeningInputOf, type PreparedFlight } from '@/lib/imports/schedule';
 
 /** An import as the API and the pages show it. */
 export interface ImportDto {
@@ -33,8 +33,24 @@ export interface ImportDto {
 
 type Row = Record<string, unknown>;
 
-// SQLite caps a compound SELECT (how knex writes a multi-row insert there) at 500 terms.
-const FLIGHT_BATCH = 400;
+/** 16 bindings a row: 1500 rows stay under SQLite's 32 766 and PostgreSQL's 65 535 bound parameters. */
+const FLIGHT_BATCH = 1500;
+const FLIGHT_COLUMNS = ['workspace_id', 'import_id', 'date', 'flight', 'origin', 'destination', 'aircraft_type_id', 'aircraft_code', 'fleet_id', 'cruise_fl', 'max_fl', 'input_json', 'status', 'fuel_kg', 'source_line', 'created_at'] as const;
+
+/**
+ * One multi-row INSERT ... VALUES per batch of pending flights, written by hand: knex writes a
+ * multi-row insert on SQLite as a compound SELECT (at most 500 terms) and its query builder is the
+ * slow part at 100 000 rows.
+ */
+async function insertFlights(trx: Knex.Transaction, ctx: { workspaceId: number; importId: number; createdAt: string }, flights: PreparedFlight[]): Promise<void> {
+  if (!flights.length) return;
+  const row = `(${FLIGHT_COLUMNS.map(() => '?').join(', ')})`;
+  const bindings: (string | number | null)[] = [];
+  for (const f of flights) {
+    bindings.push(ctx.workspaceId, ctx.importId, f.date, f.flight, f.origin, f.destination, f.aircraftTypeId, f.aircraftCode, f.fleetId, f.cruiseFl, f.maxFl, JSON.stringify(screeningInputOf(f)), 'pending', f.fuelKg, f.line, ctx.createdAt);
+  }
+  await trx.raw(`INSERT INTO flights (${FLIGHT_COLUMNS.join(', ')}) VALUES ${flights.map(() => row).join(', ')}`, bindings);
+}
 const PROBLEMS_SHOWN = 200;
 
 function isUniqueViolation(err: unknown): boolean {
@@ -168,26 +184,7 @@ export async function createImport(
         await trx('import_problems').insert(input.warnings.map((w) => ({ import_id: id, line: w.line, column: w.column.slice(0, 64), message: w.message.slice(0, 1000) })));
       }
       for (let i = 0; i < input.flights.length; i += FLIGHT_BATCH) {
-        await trx('flights').insert(
-          input.flights.slice(i, i + FLIGHT_BATCH).map((f) => ({
-            workspace_id: scope.workspaceId,
-            import_id: id,
-            date: f.date,
-            flight: f.flight,
-            origin: f.origin,
-            destination: f.destination,
-            aircraft_type_id: f.aircraftTypeId,
-            aircraft_code: f.aircraftCode,
-            fleet_id: f.fleetId,
-            cruise_fl: f.cruiseFl,
-            max_fl: f.maxFl,
-            input_json: f.inputJson,
-            status: 'pending',
-            fuel_kg: f.fuelKg,
-            source_line: f.line,
-            created_at: now,
-          })),
-        );
+        await insertFlights(trx, { workspaceId: scope.workspaceId, importId: id, createdAt: now }, input.flights.slice(i, i + FLIGHT_BATCH));
       }
       await createAuditEntry({ workspaceId: scope.workspaceId, userId: input.createdBy, actor: input.actor, action: 'import.created', target: `import:${id}`, detail: { fileName: input.fileName, flights: input.flights.length } }, trx);
     });
@@ -228,7 +225,34 @@ export interface PendingFlight {
   inputJson: string;
 }
 
-export type ScreenedOutcome = { id: number; workspaceId: number; line: number | null } & ({ result: ScreeningResult } | { error: string });
+/** What a flight row keeps of its screening result. */
+export interface FlightFigures {
+  distanceKm: number;
+  noxTotalKg: number;
+  noxAboveTropopauseKg: number;
+  fractionAboveTropopause: number;
+  meanDepthAboveTropopauseKm: number;
+  ozoneCentralKg: number;
+  ozoneLowKg: number;
+  ozoneHighKg: number;
+  engineVersion: string;
+}
+
+export function figuresOf(r: ScreeningResult): FlightFigures {
+  return {
+    distanceKm: r.distanceKm,
+    noxTotalKg: r.noxTotalKg,
+    noxAboveTropopauseKg: r.noxAboveTropopauseKg,
+    fractionAboveTropopause: r.fractionAboveTropopause,
+    meanDepthAboveTropopauseKm: r.meanDepthAboveTropopauseKm,
+    ozoneCentralKg: r.ozoneLoss.centralKg,
+    ozoneLowKg: r.ozoneLoss.lowKg,
+    ozoneHighKg: r.ozoneLoss.highKg,
+    engineVersion: r.engineVersion,
+  };
+}
+
+export type ScreenedOutcome = { id: number; workspaceId: number; line: number | null } & ({ figures: FlightFigures } | { error: string });
 
 /** Imports waiting for the worker or left mid-way (a restart resumes them), oldest first. */
 export async function listActiveImports(): Promise<{ id: number; workspaceId: number }[]> {
@@ -262,7 +286,7 @@ export async function saveScreenedChunk(importId: number, outcomes: ScreenedOutc
   return writeTx(async (trx) => {
     const now = nowIso();
     let saved = 0;
-    const screened = outcomes.filter((o): o is ScreenedOutcome & { result: ScreeningResult } => 'result' in o);
+    const screened = outcomes.filter((o): o is ScreenedOutcome & { figures: FlightFigures } => 'figures' in o);
     const workspaceOf = new Map(screened.map((o) => [o.id, o.workspaceId]));
     for (let i = 0; i < screened.length; i += SCREENED_BATCH) {
       const ids = await markScreened(trx, screened.slice(i, i + SCREENED_BATCH), now);
@@ -270,7 +294,7 @@ export async function saveScreenedChunk(importId: number, outcomes: ScreenedOutc
       saved += ids.length;
     }
     for (const o of outcomes) {
-      if ('result' in o) continue;
+      if ('figures' in o) continue;
       const reason = o.error.slice(0, 500);
       const n = await trx('flights').where({ id: o.id, status: 'pending' }).update({ status: 'failed', failure_reason: reason, screened_at: now });
       if (n > 0) {
@@ -305,14 +329,14 @@ const FIGURE_COLUMNS = ['distance_km', 'nox_total_kg', 'nox_above_kg', 'fraction
  * alike), touching only flights still pending; returns the ids it changed. One statement per batch
  * instead of one per flight keeps a 100 000-flight import within its time budget.
  */
-async function markScreened(trx: Knex.Transaction, batch: (ScreenedOutcome & { result: ScreeningResult })[], now: string): Promise<number[]> {
+async function markScreened(trx: Knex.Transaction, batch: (ScreenedOutcome & { figures: FlightFigures })[], now: string): Promise<number[]> {
   if (!batch.length) return [];
   const cast = `CAST(? AS INTEGER), ${FIGURE_COLUMNS.map(() => 'CAST(? AS DOUBLE PRECISION)').join(', ')}, CAST(? AS VARCHAR(32))`;
   const values = batch.map(() => `(${cast})`).join(', ');
   const bindings: (number | string)[] = [];
   for (const o of batch) {
-    const r = o.result;
-    bindings.push(o.id, r.distanceKm, r.noxTotalKg, r.noxAboveTropopauseKg, r.fractionAboveTropopause, r.meanDepthAboveTropopauseKm, r.ozoneLoss.centralKg, r.ozoneLoss.lowKg, r.ozoneLoss.highKg, r.engineVersion);
+    const f = o.figures;
+    bindings.push(o.id, f.distanceKm, f.noxTotalKg, f.noxAboveTropopauseKg, f.fractionAboveTropopause, f.meanDepthAboveTropopauseKm, f.ozoneCentralKg, f.ozoneLowKg, f.ozoneHighKg, f.engineVersion);
   }
   const sets = FIGURE_COLUMNS.map((c, i) => `${c} = v.column${i + 2}`).join(', ');
   const sql = `UPDATE flights SET status = 'screened', failure_reason = NULL, ${sets}, engine_version = v.column${FIGURE_COLUMNS.length + 2}, screened_at = ? FROM (VALUES ${values}) AS v WHERE flights.id = v.column1 AND flights.status = 'pending' RETURNING flights.id`;

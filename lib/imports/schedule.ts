@@ -44,8 +44,23 @@ export interface PreparedFlight {
   cruiseFl: number;
   maxFl: number;
   fuelKg: number;
-  /** The validated screening input, as JSON (kept as text: 100 000 of them must fit in memory). */
-  inputJson: string;
+  /** The validated cruise, Mach and emission; the rest of the screening input is in the fields above. */
+  cruise: ScreeningInput['cruise'];
+  mach: number | undefined;
+  /** Shared by every row of an aircraft type: 100 000 rows must fit in the server's memory. */
+  emission: ScreeningInput['emission'];
+}
+
+/** The screening input of a prepared flight: its great-circle route, cruise, fuel, emission, Mach and date. */
+export function screeningInputOf(f: PreparedFlight): ScreeningInput {
+  return {
+    route: { waypoints: [{ airport: f.origin }, { airport: f.destination }] },
+    cruise: f.cruise,
+    ...(f.mach === undefined ? {} : { mach: f.mach }),
+    fuelBurnKg: f.fuelKg,
+    emission: f.emission,
+    flightDate: f.date,
+  };
 }
 
 export interface ParsedSchedule {
@@ -129,7 +144,7 @@ function checkRow(
   }
 
   const emissionFromRow = row.ei_nox_g_per_kg !== undefined;
-  const emission = emissionFromRow ? { eiNoxGPerKg: row.ei_nox_g_per_kg } : type?.emission;
+  const emission: ScreeningInput['emission'] | null | undefined = row.ei_nox_g_per_kg !== undefined ? { eiNoxGPerKg: row.ei_nox_g_per_kg } : type?.emission;
   if (type && !emission) {
     add('aircraft', `Aircraft type ${type.code} has neither engine data nor a direct EI NOx. Add one under Engines & aircraft, or give ei_nox_g_per_kg.`);
   }
@@ -163,7 +178,7 @@ function checkRow(
     else seen.set(key, line);
   }
 
-  if (problems.length || !input || !type || !origin || !destination) return { problems };
+  if (problems.length || !input || !type || !origin || !destination || !emission) return { problems };
   const levels = 'steps' in input.cruise ? input.cruise.steps.map((s) => s.flightLevel) : [input.cruise.flightLevel];
   return {
     problems,
@@ -179,7 +194,9 @@ function checkRow(
       cruiseFl: levels[0],
       maxFl: Math.max(...levels),
       fuelKg: input.fuelBurnKg,
-      inputJson: JSON.stringify(input),
+      cruise: input.cruise,
+      mach: input.mach,
+      emission,
     },
   };
 }

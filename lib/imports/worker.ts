@@ -1,7 +1,7 @@
 import 'server-only';
 import { setImmediate as yieldToEventLoop } from 'node:timers/promises';
 import { screenValidated, ScreeningInputError, type ScreeningInput } from '@/lib/screening';
-import { claimImport, failImport, finishImport, listActiveImports, listPendingFlights, saveScreenedChunk, type ScreenedOutcome } from '@/db/imports';
+import { claimImport, failImport, finishImport, figuresOf, listActiveImports, listPendingFlights, saveScreenedChunk, type ScreenedOutcome } from '@/db/imports';
 import { log } from '@/lib/log';
 
 /**
@@ -64,7 +64,8 @@ function screenChunk(pending: Awaited<ReturnType<typeof listPendingFlights>>): S
   return pending.map((p) => {
     try {
       const input = JSON.parse(p.inputJson) as ScreeningInput;
-      return { id: p.id, workspaceId: p.workspaceId, line: p.line, result: screenValidated(input) };
+      // Only the summary figures leave this function: the full result (its segments) dies young.
+      return { id: p.id, workspaceId: p.workspaceId, line: p.line, figures: figuresOf(screenValidated(input)) };
     } catch (err) {
       return { id: p.id, workspaceId: p.workspaceId, line: p.line, error: reasonOf(err) };
     }

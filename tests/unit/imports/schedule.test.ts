@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { parseSchedule, type ScheduleContext } from '@/lib/imports/schedule';
+import { parseSchedule, screeningInputOf, type ScheduleContext } from '@/lib/imports/schedule';
+import { validateScreeningInput } from '@/lib/screening';
 import { scheduleTemplateCsv } from '@/lib/imports/schedule-template';
 import type { AircraftForScreening } from '@/db/aircraft-lookup';
 
@@ -44,7 +45,9 @@ describe('parseSchedule: reading the file', () => {
     expect(r.flights).toHaveLength(1);
     const f = r.flights[0];
     expect(f).toMatchObject({ line: 2, date: '2026-11-03', flight: 'SK 1', origin: 'EFHK', destination: 'RJAA', aircraftCode: 'T-LR', fleetId: 10, cruiseFl: 350, maxFl: 390, fuelKg: 52_400 });
-    const input = JSON.parse(f.inputJson);
+    const input = screeningInputOf(f);
+    // What is stored is a valid screening input as it stands.
+    expect(validateScreeningInput(JSON.parse(JSON.stringify(input)))).toEqual(input);
     expect(input.cruise).toEqual({ steps: [{ flightLevel: 350, fromKm: 0 }, { flightLevel: 370, fromKm: 2600 }, { flightLevel: 390, fromKm: 5200 }] });
     expect(input.route.waypoints).toEqual([{ airport: 'EFHK' }, { airport: 'RJAA' }]);
     expect(input.mach).toBe(0.82);
@@ -55,7 +58,7 @@ describe('parseSchedule: reading the file', () => {
   it('takes the EI and Mach of the aircraft type unless the row gives its own; the fleet column wins over the default', async () => {
     const r = await parse([`${HEADER},fleet,ei_nox_g_per_kg,mach`, '2026-11-03,A1,KEF,ANC,T-SST,560,36200,,,', '2026-11-03,A2,KEF,ANC,T-LR,370,36200,study,13.8,'].join('\n'));
     expect(r.problems).toEqual([]);
-    const [a, b] = r.flights.map((f) => ({ ...f, input: JSON.parse(f.inputJson) }));
+    const [a, b] = r.flights.map((f) => ({ ...f, input: screeningInputOf(f) }));
     expect(a.input).toMatchObject({ emission: { eiNoxGPerKg: 11.5 }, mach: 1.7 });
     expect(a.fleetId).toBeNull();
     expect(b.input).toMatchObject({ emission: { eiNoxGPerKg: 13.8 }, mach: 0.84 });
