@@ -81,7 +81,7 @@ export function flightKey(f: { date: string; flight: string; origin: string; des
 const PLACEHOLDER_EMISSION = { eiNoxGPerKg: 1 } as const;
 
 /** Where a screening-input problem sits in the CSV. */
-function columnOf(path: string, row: ScheduleRow, emissionFromRow: boolean): ScheduleColumn | '' | null {
+function columnOf(path: string, row: ScheduleRow, emissionFromRow: boolean): ScheduleColumn | '' {
   if (path.startsWith('route.waypoints.0')) return 'origin';
   if (path.startsWith('route.waypoints.1')) return 'destination';
   if (path === 'cruise.flightLevel') return 'cruise_fl';
@@ -166,7 +166,6 @@ function checkRow(
       const column = columnOf(f.path, row, emissionFromRow);
       // The placeholder emission stands in only so the other fields are still checked.
       if (column === 'aircraft' && !emission) continue;
-      if (column === null) continue;
       add(column, `${stepLabel(f.path, row)}${f.message}`);
     }
   }
