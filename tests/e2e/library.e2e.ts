@@ -18,7 +18,7 @@ describe('the planner keeps the library', () => {
 
     await page.goto('/w/skarn-polar/engines');
     await page.getByRole('heading', { level: 1, name: 'Engines & aircraft' }).waitFor();
-    await page.getByText('demo data').first().waitFor();
+    await page.getByText('demo data').filter({ visible: true }).first().waitFor();
     await screenshot(page, 'library-engines');
 
     const engineName = `Journey turbofan ${stamp}`;
@@ -41,7 +41,7 @@ describe('the planner keeps the library', () => {
 
     await page.getByLabel('Approach fuel flow (kg/s)').fill('0.3');
     await page.getByLabel('Climb-out fuel flow (kg/s)').fill('0.9');
-    await page.getByText(/g\/kg/).filter({ hasText: 'typical' }).first().waitFor();
+    await page.locator('div[aria-live="polite"]', { hasText: 'Cruise check' }).getByText('typical', { exact: true }).waitFor();
     await page.getByRole('button', { name: 'Add engine' }).click();
     await page.getByRole('status').filter({ hasText: `Added “${engineName}”` }).waitFor();
     await page.getByRole('link', { name: engineName }).waitFor();
@@ -80,6 +80,22 @@ describe('the planner keeps the library', () => {
     await page.waitForURL(/\/w\/skarn-polar\/routes\/\d+$/);
     await page.getByRole('link', { name: 'Screen this route' }).waitFor();
     await screenshot(page, 'library-route');
+    await page.goto('/w/skarn-polar/routes');
+    await page.getByRole('link', { name: `Polar ${stamp}` }).waitFor();
+    await screenshot(page, 'library-routes');
+
+    await page.goto('/w/skarn-polar/engines');
+    await page.getByRole('link', { name: code }).click();
+    await page.waitForURL(/\/engines\/aircraft\/\d+$/);
+    await page.getByRole('heading', { level: 1, name: code }).waitFor();
+    await screenshot(page, 'library-aircraft-type');
+    await page.getByRole('link', { name: engineName }).first().click();
+    await page.waitForURL(/\/engines\/\d+$/);
+    await page.getByRole('button', { name: 'Delete engine' }).waitFor();
+    page.once('dialog', (d) => void d.accept());
+    await page.getByRole('button', { name: 'Delete engine' }).click();
+    await page.getByRole('alert').filter({ hasText: code }).waitFor();
+    await screenshot(page, 'library-engine-in-use');
 
     expect(errors).toEqual([]);
     await context.close();
@@ -97,6 +113,16 @@ describe('the planner keeps the library', () => {
     expect(await table.locator('tbody tr').count()).toBe(2);
     expect(await table.locator('tbody tr').first().textContent()).toContain('3');
     await screenshot(page, 'library-sounding-problems');
+
+    await page.goto('/w/skarn-polar/engines');
+    const header = 'name,idle_ff_kg_s,approach_ff_kg_s,climb_out_ff_kg_s,take_off_ff_kg_s,idle_ei,approach_ei,climb_out_ei,take_off_ei,source';
+    await page.setInputFiles('#engines-csv', { name: 'engines.csv', mimeType: 'text/csv', buffer: Buffer.from(`${header}\nGood ${stamp},0.1,0.3,0.9,1.1,4,10,22,30,\nBackwards ${stamp},0.1,0.9,0.3,1.1,4,10,22,30,\n`) });
+    await page.getByRole('button', { name: 'Import engines' }).click();
+    const engineProblems = page.getByRole('table', { name: 'Problems in the engines file' });
+    await engineProblems.waitFor();
+    expect(await engineProblems.locator('tbody tr').first().textContent()).toMatch(/^3climb_out_ff_kg_s/);
+    expect(await page.getByRole('link', { name: `Good ${stamp}` }).count()).toBe(0);
+    await screenshot(page, 'library-engine-import-problems');
 
     await page.goto('/w/skarn-polar/routes');
     await page.getByLabel('Route name').fill('Nowhere');
