@@ -71,6 +71,52 @@ function runsOf(points: readonly MapPoint[], segments: readonly MapSegment[]): {
   return runs;
 }
 
+type Projection = ReturnType<typeof geoAzimuthalEqualArea>;
+
+/**
+ * Puts a label on the side of its point away from the route, so its halo never hides the line:
+ * opposite the mean direction towards the neighbouring route points, kept inside the frame.
+ */
+function labelPlacement(projection: Projection, line: readonly LonLat[], at: LonLat, xy: [number, number]): { dx: number; dy: number; anchor: 'start' | 'middle' | 'end' } {
+  let vx = 0;
+  let vy = 0;
+  let nearest = 0;
+  let best = Infinity;
+  line.forEach((q, i) => {
+    const d = Math.abs(q[0] - at[0]) + Math.abs(q[1] - at[1]);
+    if (d < best) {
+      best = d;
+      nearest = i;
+    }
+  });
+  for (const j of [nearest - 3, nearest + 3]) {
+    const q = line[Math.max(0, Math.min(line.length - 1, j))];
+    const pq = q ? projection(q) : null;
+    if (!pq) continue;
+    const len = Math.hypot(pq[0] - xy[0], pq[1] - xy[1]);
+    if (len > 0) {
+      vx += (pq[0] - xy[0]) / len;
+      vy += (pq[1] - xy[1]) / len;
+    }
+  }
+  let ux = -vx;
+  let uy = -vy;
+  const len = Math.hypot(ux, uy);
+  if (len < 0.2) {
+    ux = -vy;
+    uy = vx;
+  }
+  const n = Math.hypot(ux, uy) || 1;
+  ux /= n;
+  uy /= n;
+  if (xy[0] < 120 && ux < 0) ux = Math.abs(ux);
+  if (xy[0] > WIDTH - 120 && ux > 0) ux = -Math.abs(ux);
+  if (xy[1] < 40 && uy < 0) uy = Math.abs(uy);
+  if (xy[1] > HEIGHT - 40 && uy > 0) uy = -Math.abs(uy);
+  const anchor = ux > 0.35 ? 'start' : ux < -0.35 ? 'end' : 'middle';
+  return { dx: ux * 14, dy: uy * 22, anchor };
+}
+
 /**
  * The route on an azimuthal equal-area projection centred on the route, fitted with padding: polar
  * and transpolar great circles stay readable, unlike on a cylindrical map. Drawn on the server.
@@ -126,13 +172,14 @@ export function RouteMap({ points, segments, title }: { points: readonly MapPoin
             const xy = projection([p.lon, p.lat]);
             if (!xy) return null;
             const text = p.label ?? `${p.lat.toFixed(1)}°, ${p.lon.toFixed(1)}°`;
-            const anchor = xy[0] > WIDTH - 140 ? 'end' : 'start';
+            const place = labelPlacement(projection, all, [p.lon, p.lat], xy);
             return (
               <text
                 key={`label-${i}`}
-                x={xy[0] + (anchor === 'end' ? -12 : 12)}
-                y={xy[1] - 10}
-                textAnchor={anchor}
+                x={xy[0] + place.dx}
+                y={xy[1] + place.dy}
+                textAnchor={place.anchor}
+                dominantBaseline="middle"
                 fontSize={24}
                 fontWeight={700}
                 fill={INK}

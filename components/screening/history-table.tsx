@@ -114,14 +114,14 @@ export function HistoryTable({ slug, rows, units }: { slug: string; rows: Histor
         )}
       </div>
       <div className="overflow-x-auto">
-        <table className="w-full min-w-[900px] text-sm" data-testid="history-table">
+        <table className="w-full min-w-[960px] text-sm" data-testid="history-table">
           <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
             {table.getHeaderGroups().map((hg) => (
               <tr key={hg.id}>
                 {hg.headers.map((h) => {
                   const sorted = h.column.getIsSorted();
                   return (
-                    <th key={h.id} scope="col" className="py-2 pr-3" aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined}>
+                    <th key={h.id} scope="col" className="whitespace-nowrap py-2 pr-3" aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined}>
                       {h.column.getCanSort() ? (
                         <button type="button" onClick={h.column.getToggleSortingHandler()} className="inline-flex items-center gap-1 uppercase hover:text-ink">
                           {flexRender(h.column.columnDef.header, h.getContext())}
@@ -140,7 +140,7 @@ export function HistoryTable({ slug, rows, units }: { slug: string; rows: Histor
             {table.getRowModel().rows.map((row) => (
               <tr key={row.id} className={`border-t border-line ${picked.includes(row.original.id) ? 'bg-accent-soft' : ''}`}>
                 {row.getVisibleCells().map((cell) => (
-                  <td key={cell.id} className="py-2 pr-3 align-top">
+                  <td key={cell.id} className={`py-2 pr-3 align-top ${cell.column.id === 'name' ? 'min-w-[12rem]' : 'whitespace-nowrap'}`}>
                     {flexRender(cell.column.columnDef.cell, cell.getContext())}
                   </td>
                 ))}

@@ -76,7 +76,7 @@ export function ScreeningPreview({ units, data, waitingFor, fetching, stale, err
                   <TextInput id="preview-limit" inputMode="decimal" value={limit} onChange={(e) => onLimitChange(e.target.value)} invalid={!!limitError} />
                 </Field>
               </div>
-              <WhatIfTable rows={data.levels} units={units} limitPct={limitPct} ratePctPer1000Ft={ratePct} />
+              <WhatIfTable rows={data.levels} units={units} limitPct={limitPct} ratePctPer1000Ft={ratePct} compact />
             </div>
             <ScreeningCautions cautions={data.result.cautions} />
           </div>

@@ -60,7 +60,7 @@ export function SegmentTable({ segments, units }: { segments: readonly Screening
     () => [
       col.accessor('index', { header: '#', cell: (c) => c.getValue() }),
       col.accessor('startKm', {
-        header: 'Along the route',
+        header: 'Along route',
         cell: (c) => `${formatDistance(c.row.original.startKm, units)} – ${formatDistance(c.row.original.endKm, units)}`,
       }),
       col.accessor('flightLevel', { header: 'Flight level', cell: (c) => `FL${c.getValue()}` }),
@@ -77,7 +77,7 @@ export function SegmentTable({ segments, units }: { segments: readonly Screening
       col.accessor('fuelKg', { header: 'Fuel', cell: (c) => formatMass(c.getValue(), units) }),
       col.accessor('noxKg', { header: 'NOx (as NO2)', cell: (c) => formatMass(c.getValue(), units) }),
       col.accessor('ozoneLossKg', { header: 'Ozone-loss figure', cell: (c) => formatMass(c.getValue(), units) }),
-      col.display({ id: 'position', header: 'Midpoint', cell: (c) => `${formatNumber(c.row.original.lat, 2)}°, ${formatNumber(c.row.original.lon, 2)}°` }),
+      col.display({ id: 'position', header: 'Midpoint', cell: (c) => `${formatNumber(c.row.original.lat, 1)}°, ${formatNumber(c.row.original.lon, 1)}°` }),
     ],
     [units],
   );
@@ -111,7 +111,7 @@ export function SegmentTable({ segments, units }: { segments: readonly Screening
                 {hg.headers.map((h) => {
                   const sorted = h.column.getIsSorted();
                   return (
-                    <th key={h.id} scope="col" className="whitespace-nowrap py-2 pr-3" aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined}>
+                    <th key={h.id} scope="col" className="whitespace-nowrap py-2 pr-2.5" aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined}>
                       {h.column.getCanSort() ? (
                         <button type="button" onClick={h.column.getToggleSortingHandler()} className="inline-flex items-center gap-1 uppercase hover:text-ink">
                           {flexRender(h.column.columnDef.header, h.getContext())}
@@ -130,7 +130,7 @@ export function SegmentTable({ segments, units }: { segments: readonly Screening
             {table.getRowModel().rows.map((row) => (
               <tr key={row.id} className={`border-t border-line ${row.original.aboveTropopause ? 'bg-strato-soft/40' : ''}`}>
                 {row.getVisibleCells().map((cell) => (
-                  <td key={cell.id} className="whitespace-nowrap py-1.5 pr-3">
+                  <td key={cell.id} className="whitespace-nowrap py-1.5 pr-2.5">
                     {flexRender(cell.column.columnDef.cell, cell.getContext())}
                   </td>
                 ))}

@@ -15,22 +15,36 @@ function deltaLabel(deltaFt: number): string {
  * Other cruise levels for the same flight: fuel with the penalty for leaving the planned level, the
  * NOx above the tropopause and the ozone figure; the lowest-impact level within the limit marked.
  */
-export function WhatIfTable({ rows, units, limitPct, ratePctPer1000Ft }: { rows: readonly CruiseLevelRow[]; units: UnitSystem; limitPct: number; ratePctPer1000Ft: number }) {
+export function WhatIfTable({
+  rows,
+  units,
+  limitPct,
+  ratePctPer1000Ft,
+  compact = false,
+}: {
+  rows: readonly CruiseLevelRow[];
+  units: UnitSystem;
+  limitPct: number;
+  ratePctPer1000Ft: number;
+  /** Fewer columns for a narrow panel: change and fuel go under the level, the limit shows as shading. */
+  compact?: boolean;
+}) {
   const best = rows.find((r) => r.lowestImpact);
+  const badge = <span className="ml-2 whitespace-nowrap rounded bg-tropo px-1.5 py-0.5 text-[11px] font-semibold uppercase tracking-wide text-white">lowest impact</span>;
   return (
     <div>
       <div className="overflow-x-auto">
-        <table className="w-full min-w-[640px] text-sm" data-testid="what-if-table">
+        <table className={`w-full text-sm ${compact ? '' : 'min-w-[640px]'}`} data-testid="what-if-table">
           <caption className="sr-only">Cruise levels compared, with a fuel-penalty limit of {formatNumber(limitPct, 1)} %</caption>
           <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
             <tr>
               <th scope="col" className="py-2 pr-3">Cruise</th>
-              <th scope="col" className="py-2 pr-3">Change</th>
-              <th scope="col" className="py-2 pr-3 text-right">Fuel</th>
+              {compact ? null : <th scope="col" className="py-2 pr-3">Change</th>}
+              {compact ? null : <th scope="col" className="py-2 pr-3 text-right">Fuel</th>}
               <th scope="col" className="py-2 pr-3 text-right">Fuel penalty</th>
               <th scope="col" className="py-2 pr-3 text-right">NOx above tropopause</th>
               <th scope="col" className="py-2 pr-3 text-right">Ozone-loss figure</th>
-              <th scope="col" className="py-2">Within limit</th>
+              {compact ? null : <th scope="col" className="py-2">Within limit</th>}
             </tr>
           </thead>
           <tbody className="figure">
@@ -41,22 +55,26 @@ export function WhatIfTable({ rows, units, limitPct, ratePctPer1000Ft }: { rows:
                 className={`border-t border-line ${r.lowestImpact ? 'bg-tropo-soft font-medium' : ''} ${r.withinLimit ? '' : 'text-ink-faint'}`}
               >
                 <th scope="row" className="py-2 pr-3 text-left font-medium">
-                  {levelsLabel(r)}
-                  {r.lowestImpact ? (
-                    <span className="ml-2 rounded bg-tropo px-1.5 py-0.5 text-[11px] font-semibold uppercase tracking-wide text-white">lowest impact</span>
+                  <span className="whitespace-nowrap">{levelsLabel(r)}</span>
+                  {r.lowestImpact ? badge : null}
+                  {compact ? (
+                    <span className="block text-xs font-normal text-ink-faint">
+                      {deltaLabel(r.deltaFt)}, fuel {formatMass(r.fuelKg, units)}
+                      {r.withinLimit ? '' : ', over the limit'}
+                    </span>
                   ) : null}
                 </th>
-                <td className="py-2 pr-3">{deltaLabel(r.deltaFt)}</td>
-                <td className="py-2 pr-3 text-right">{formatMass(r.fuelKg, units)}</td>
-                <td className="py-2 pr-3 text-right">{formatNumber(r.fuelPenaltyPct, 1)} %</td>
-                <td className="py-2 pr-3 text-right">{formatMass(r.noxAboveTropopauseKg, units)}</td>
-                <td className="py-2 pr-3 text-right">
+                {compact ? null : <td className="whitespace-nowrap py-2 pr-3">{deltaLabel(r.deltaFt)}</td>}
+                {compact ? null : <td className="whitespace-nowrap py-2 pr-3 text-right">{formatMass(r.fuelKg, units)}</td>}
+                <td className="whitespace-nowrap py-2 pr-3 text-right">{formatNumber(r.fuelPenaltyPct, 1)} %</td>
+                <td className="whitespace-nowrap py-2 pr-3 text-right">{formatMass(r.noxAboveTropopauseKg, units)}</td>
+                <td className="whitespace-nowrap py-2 pr-3 text-right">
                   {formatMass(r.ozoneLoss.centralKg, units)}
                   <span className="block text-xs font-normal text-ink-faint">
                     {formatMass(r.ozoneLoss.lowKg, units)} – {formatMass(r.ozoneLoss.highKg, units)}
                   </span>
                 </td>
-                <td className="py-2">{r.withinLimit ? 'yes' : 'no'}</td>
+                {compact ? null : <td className="py-2">{r.withinLimit ? 'yes' : 'no'}</td>}
               </tr>
             ))}
           </tbody>

@@ -11,8 +11,8 @@ const MINE = /\/w\/[^/]+\/(screen|screenings)(\/|\?|$)|\/api\/v1\//;
  * this journey does not open (another part of the workspace still being built) is reported in the
  * failure message but is not this journey's error; anything on the screening pages or the API is.
  */
-async function tracked(b: Browser): Promise<TrackedPage & { missing: string[]; ownErrors: () => string[] }> {
-  const t = await newPage(b);
+async function tracked(b: Browser, viewport?: { width: number; height: number }): Promise<TrackedPage & { missing: string[]; ownErrors: () => string[] }> {
+  const t = await newPage(b, viewport);
   const missing: string[] = [];
   t.page.on('response', (r) => {
     if (r.status() === 404) missing.push(r.url());
@@ -139,7 +139,7 @@ describe('a flight planner screens a polar flight', () => {
     await page.waitForURL(/route=RJAA/);
     await page.getByRole('link', { name: 'EGLL-RJAA comparison, FL370' }).waitFor();
     expect(await page.getByRole('link', { name: 'EGLL-PANC polar, FL410' }).count()).toBe(0);
-    await page.getByLabel('Share above, from (%)').fill('150');
+    await page.getByLabel('Min. share above (%)').fill('150');
     await page.getByRole('button', { name: 'Filter' }).click();
     await page.locator('#minAbove-error').filter({ hasText: 'between 0 and 100' }).waitFor();
     await page.goto('/w/skarn-polar/screenings');
@@ -156,6 +156,36 @@ describe('a flight planner screens a polar flight', () => {
     expect(await page.locator('canvas').count()).toBe(2);
     await screenshot(page, 'planner-compare');
     expect(ownErrors()).toEqual([]);
+    await context.close();
+  });
+
+  it('in aviation units at tablet width the result and the form speak NM, ft and lb', async () => {
+    const { page, context, ownErrors } = await tracked(browser(), { width: 820, height: 1180 });
+    await signIn(page, 'planner@tropopass.test');
+    const setUnits = async (label: string) => {
+      await page.goto('/account');
+      await page.getByLabel(label).check();
+      await page.getByRole('status').filter({ hasText: 'Saved.' }).waitFor();
+    };
+    await setUnits('Aviation: nautical miles, feet, pounds');
+    try {
+      await page.goto(`/w/skarn-polar/screenings/${savedId}`);
+      const figures = (await page.getByTestId('headline-figures').textContent()) ?? '';
+      expect(figures).toMatch(/\d NM/);
+      expect(figures).toMatch(/\d lb/);
+      expect(figures).not.toMatch(/\d (km|kg)\b/);
+      expect(await page.getByTestId('segment-table').textContent()).toMatch(/\d ft/);
+      await page.locator('canvas').first().waitFor();
+      await screenshot(page, 'planner-result-tablet-aviation');
+      await page.goto('/w/skarn-polar/screen');
+      await page.getByLabel('Cruise fuel burn (lb)').waitFor();
+      await page.getByText('Step climbs', { exact: true }).click();
+      await page.getByLabel('Step 1 from (NM along the route)').waitFor();
+      await screenshot(page, 'planner-screen-tablet-aviation');
+      expect(ownErrors()).toEqual([]);
+    } finally {
+      await setUnits('Metric: km, m, kg');
+    }
     await context.close();
   });
 

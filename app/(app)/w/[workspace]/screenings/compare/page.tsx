@@ -150,7 +150,7 @@ async function ComparePanel({ slug, workspaceId, units, ...ids }: { slug: string
                     <th scope="row" className="py-2 pr-3 text-left font-normal">{r.label}</th>
                     <td className="py-2 pr-3 text-right">{r.show(r.a)}</td>
                     <td className="py-2 pr-3 text-right">{r.show(r.b)}</td>
-                    <td className="py-2 text-right text-ink-soft">{r.diff ? r.diff(r.b - r.a) : ''}</td>
+                    <td className="whitespace-nowrap py-2 text-right text-ink-soft">{r.diff ? r.diff(r.b - r.a) : ''}</td>
                   </tr>
                 ))}
               </tbody>
