@@ -354,7 +354,7 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
                         key={h.id}
                         scope="col"
                         aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : 'none'}
-                        className={`px-2 py-2 align-bottom font-medium ${isFigure ? 'text-right' : ''}`}
+                        className={`px-2 py-2 align-bottom font-medium ${isFigure ? 'text-right' : ''} ${h.column.id === 'fleetName' ? 'sticky left-0 bg-paper-raised' : ''}`}
                       >
                         <button type="button" onClick={h.column.getToggleSortingHandler()} className="inline-flex items-center gap-1 uppercase hover:text-ink">
                           {flexRender(h.column.columnDef.header, h.getContext())}
@@ -376,9 +376,9 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
                       const r = row.original;
                       const isFigure = (HIDEABLE as readonly string[]).includes(id);
                       return (
-                        <td key={cell.id} className={`px-2 py-2 align-top ${isFigure ? 'whitespace-nowrap text-right' : ''} ${id === 'noxAboveKg' || id === 'shareAbove' ? 'text-strato-strong' : ''}`}>
+                        <td key={cell.id} className={`px-2 py-2 align-top ${id === 'fleetName' ? 'sticky left-0 bg-paper-raised' : ''} ${isFigure ? 'whitespace-nowrap text-right' : 'whitespace-nowrap'} ${id === 'noxAboveKg' || id === 'shareAbove' ? 'text-strato-strong' : ''}`}>
                           {id === 'fleetName' ? (
-                            <span className={r.fleetId === null ? 'italic text-ink-soft' : 'font-medium text-ink'}>{r.fleetName}</span>
+                            <span className={`whitespace-nowrap ${r.fleetId === null ? 'italic text-ink-soft' : 'font-medium text-ink'}`}>{r.fleetName}</span>
                           ) : id === 'month' ? (
                             r.month ? monthLabel(r.month) : '–'
                           ) : id === 'aircraftCode' ? (
@@ -397,7 +397,7 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
                   {table.getVisibleLeafColumns().map((c, i) => {
                     const isFigure = (HIDEABLE as readonly string[]).includes(c.id);
                     return (
-                      <td key={c.id} className={`px-2 py-2 align-top ${isFigure ? 'whitespace-nowrap text-right' : ''}`}>
+                      <td key={c.id} className={`px-2 py-2 align-top ${i === 0 ? 'sticky left-0 bg-paper-sunk' : ''} ${isFigure ? 'whitespace-nowrap text-right' : 'whitespace-nowrap'}`}>
                         {i === 0 ? 'All fleets' : isFigure ? render(c.id as FigureColumn, data.totals, units) : ''}
                       </td>
                     );

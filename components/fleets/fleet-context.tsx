@@ -36,8 +36,8 @@ export function FleetContext({ context, cautions, units }: { context: FleetCompa
           <tbody>
             {rows.map((c, i) => (
               <tr key={`${c.fleetId ?? 'none'}-${i}`} className={`border-b border-line align-top ${i === rows.length - 1 ? 'bg-paper-sunk font-semibold' : ''}`}>
-                <td className="px-2 py-2">{c.fleetName}</td>
-                <td className="px-2 py-2 text-right">{formatMass(c.annualNoxAboveKg, units)}</td>
+                <td className="whitespace-nowrap px-2 py-2">{c.fleetName}</td>
+                <td className="whitespace-nowrap px-2 py-2 text-right">{formatMass(c.annualNoxAboveKg, units)}</td>
                 {c.studies.map((s) => (
                   <td key={s.study} className="px-2 py-2">
                     {s.applicable && s.columnChangePct ? (

@@ -135,6 +135,12 @@ describe('sustainability analyst: compare fleets, build, download and send a rep
     await screenshot(page, 'planner-fleets-tablet');
     await page.goto(`/w/${SLUG}/reports`);
     expect(await page.getByRole('button', { name: 'Build report' }).count()).toBe(0);
+    // The report the analyst built is readable, but a planner may not e-mail it.
+    await page.getByRole('link', { name: 'Polar fleets, autumn 2026' }).first().click();
+    await page.getByRole('heading', { level: 1, name: 'Polar fleets, autumn 2026' }).waitFor();
+    expect(await page.getByRole('button', { name: 'Send the PDF' }).count()).toBe(0);
+    await page.getByRole('link', { name: 'Download PDF' }).waitFor();
+    await screenshot(page, 'planner-report-tablet');
     await context.close();
   });
 });

@@ -87,7 +87,7 @@ export default async function ReportsPage({ params, searchParams }: { params: Pr
                       {formatDateTime(r.createdAt)}
                       {r.createdBy ? <span className="block text-xs text-ink-faint">by {r.createdBy}</span> : null}
                     </td>
-                    <td className="px-2 py-2 text-ink-soft">{r.sends ? `${r.sends}×, last ${formatDateTime(r.lastSentAt)}` : 'Not yet'}</td>
+                    <td className="px-2 py-2 text-ink-soft">{r.sends ? `${r.sends === 1 ? 'Once' : `${r.sends} times`}, last ${formatDateTime(r.lastSentAt)}` : 'Not yet'}</td>
                     <td className="px-2 py-2 whitespace-nowrap">
                       <a href={`${base}/${r.id}/pdf`} download className="text-accent underline-offset-2 hover:underline" aria-label={`Download the PDF of ${r.name}`}>
                         PDF

@@ -60,10 +60,10 @@ export default async function ReportPage({ params }: { params: Promise<{ workspa
         <ScreeningCaution />
       </div>
 
-      <div className="mt-6 grid gap-6 xl:grid-cols-[3fr_2fr]">
+      <div className="mt-6">
         <Card title="Per fleet">
           <div className="overflow-x-auto">
-            <table className="figure w-full min-w-[560px] text-sm">
+            <table className="figure w-full min-w-[640px] text-sm">
               <thead className="border-b border-line-strong text-left text-xs uppercase tracking-wide text-ink-soft">
                 <tr>
                   <th scope="col" className="px-2 py-2 font-medium">Fleet</th>
@@ -77,12 +77,12 @@ export default async function ReportPage({ params }: { params: Promise<{ workspa
               <tbody>
                 {[...s.perFleet, t].map((r, i) => (
                   <tr key={r.key} className={`border-b border-line ${i === s.perFleet.length ? 'bg-paper-sunk font-semibold' : ''}`}>
-                    <td className="px-2 py-2">{i === s.perFleet.length ? 'All fleets' : r.fleetName}</td>
-                    <td className="px-2 py-2 text-right">{formatNumber(r.flights)}</td>
-                    <td className="px-2 py-2 text-right">{formatMass(r.co2Kg, u)}</td>
-                    <td className="px-2 py-2 text-right text-strato-strong">{formatMass(r.noxAboveKg, u)}</td>
-                    <td className="px-2 py-2 text-right">{share(r)}</td>
-                    <td className="px-2 py-2 text-right">
+                    <td className="whitespace-nowrap px-2 py-2">{i === s.perFleet.length ? 'All fleets' : r.fleetName}</td>
+                    <td className="whitespace-nowrap px-2 py-2 text-right">{formatNumber(r.flights)}</td>
+                    <td className="whitespace-nowrap px-2 py-2 text-right">{formatMass(r.co2Kg, u)}</td>
+                    <td className="whitespace-nowrap px-2 py-2 text-right text-strato-strong">{formatMass(r.noxAboveKg, u)}</td>
+                    <td className="whitespace-nowrap px-2 py-2 text-right">{share(r)}</td>
+                    <td className="whitespace-nowrap px-2 py-2 text-right">
                       {formatMass(r.ozone.centralKg, u)}
                       <span className="block text-xs font-normal text-ink-faint">
                         {formatMass(r.ozone.lowKg, u)} – {formatMass(r.ozone.highKg, u)}
@@ -101,30 +101,30 @@ export default async function ReportPage({ params }: { params: Promise<{ workspa
             </div>
           ) : null}
         </Card>
-        <div className="space-y-6">
-          {can(role, 'reports:send') ? (
-            <Card title="Send by e-mail">
-              <ReportSendForm slug={slug} reportId={report.id} action={sendReportAction} />
-            </Card>
-          ) : null}
-          <Card title="E-mail history">
-            {sends.length === 0 ? (
-              <p className="text-sm text-ink-soft">Not sent yet.{can(role, 'reports:send') ? ' Enter recipients above to send the PDF.' : ''}</p>
-            ) : (
-              <ul className="divide-y divide-line text-sm">
-                {sends.map((x) => (
-                  <li key={x.id} className="py-2">
-                    <span className={x.status === 'sent' ? 'font-medium text-tropo-strong' : 'font-medium text-danger'}>{x.status === 'sent' ? 'Sent' : 'Failed'}</span>{' '}
-                    {formatDateTime(x.sentAt)}
-                    {x.sentBy ? ` by ${x.sentBy}` : ''}
-                    <span className="block text-xs text-ink-soft">To {x.recipients.join(', ')}</span>
-                    {x.error ? <span className="block text-xs text-danger">{x.error}</span> : null}
-                  </li>
-                ))}
-              </ul>
-            )}
+      </div>
+      <div className="mt-6 grid gap-6 lg:grid-cols-2">
+        {can(role, 'reports:send') ? (
+          <Card title="Send by e-mail">
+            <ReportSendForm slug={slug} reportId={report.id} action={sendReportAction} />
           </Card>
-        </div>
+        ) : null}
+        <Card title="E-mail history">
+          {sends.length === 0 ? (
+            <p className="text-sm text-ink-soft">Not sent yet.{can(role, 'reports:send') ? ' Use the form to send the PDF.' : ''}</p>
+          ) : (
+            <ul className="divide-y divide-line text-sm">
+              {sends.map((x) => (
+                <li key={x.id} className="py-2">
+                  <span className={x.status === 'sent' ? 'font-medium text-tropo-strong' : 'font-medium text-danger'}>{x.status === 'sent' ? 'Sent' : 'Failed'}</span>{' '}
+                  {formatDateTime(x.sentAt)}
+                  {x.sentBy ? ` by ${x.sentBy}` : ''}
+                  <span className="block text-xs text-ink-soft">To {x.recipients.join(', ')}</span>
+                  {x.error ? <span className="block text-xs text-danger">{x.error}</span> : null}
+                </li>
+              ))}
+            </ul>
+          )}
+        </Card>
       </div>
       <div className="mt-6">
         <FleetContext context={s.context} cautions={s.cautions} units={u} />
