@@ -30,13 +30,14 @@ interface Props {
   onBlur: () => void;
   error?: string;
   name?: string;
+  placeholder?: string;
 }
 
 /**
  * An airport code field with suggestions by code or name (ARIA combobox with a listbox): arrows move
  * through the suggestions, Enter takes one, Escape closes the list; a typed code is kept as typed.
  */
-export function AirportCombobox({ id, label, value, onChange, onBlur, error, name }: Props) {
+export function AirportCombobox({ id, label, value, onChange, onBlur, error, name, placeholder = 'EGLL' }: Props) {
   const listId = useId();
   const [open, setOpen] = useState(false);
   const [active, setActive] = useState(-1);
@@ -115,7 +116,7 @@ export function AirportCombobox({ id, label, value, onChange, onBlur, error, nam
         }}
         onKeyDown={onKeyDown}
         className={`${inputClass} uppercase placeholder:normal-case`}
-        placeholder="EGLL"
+        placeholder={placeholder}
       />
       <ul
         id={listId}

@@ -75,7 +75,7 @@ export function HistoryTable({ slug, rows, units }: { slug: string; rows: Histor
       col.accessor('noxAboveTropopauseKg', { header: 'NOx above', cell: (c) => formatMass(c.getValue(), units) }),
       col.accessor('fractionAboveTropopause', { header: 'Share above', cell: (c) => formatPercent(c.getValue(), 1) }),
       col.accessor('ozoneCentralKg', { header: 'Ozone figure', cell: (c) => formatMass(c.getValue(), units) }),
-      col.accessor('createdAt', { header: 'Saved', cell: (c) => formatDateTime(c.getValue()) }),
+      col.accessor('createdAt', { header: 'Saved', cell: (c) => <time dateTime={c.getValue()} title={formatDateTime(c.getValue())}>{formatDate(c.getValue())}</time> }),
     ],
     [picked, slug, units],
   );
@@ -114,7 +114,7 @@ export function HistoryTable({ slug, rows, units }: { slug: string; rows: Histor
         )}
       </div>
       <div className="overflow-x-auto">
-        <table className="w-full min-w-[960px] text-sm" data-testid="history-table">
+        <table className="w-full min-w-[880px] text-sm" data-testid="history-table">
           <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
             {table.getHeaderGroups().map((hg) => (
               <tr key={hg.id}>

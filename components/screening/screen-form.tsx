@@ -340,6 +340,7 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
                           onChange={field.onChange}
                           onBlur={field.onBlur}
                           name={field.name}
+                          placeholder={i === 0 ? 'EGLL' : i === airports.fields.length - 1 ? 'RJAA' : 'BIKF'}
                           error={errorAt(`airports.${i}.code`)}
                         />
                       )}
@@ -425,7 +426,8 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
                       <p className="py-2 text-sm text-ink-soft">departure (0 {u.distance})</p>
                     </div>
                   ) : (
-                    <Field id={`steps-${i}-from`} label={`Step ${i} from (${u.distance} along the route)`} error={errorAt(`steps.${i}.from`)} className="flex-1">
+                    <Field id={`steps-${i}-from`} label={`Step ${i} starts at (${u.distance})`}
+                      hint={`Distance from departure in ${u.distance}.`} error={errorAt(`steps.${i}.from`)} className="flex-1">
                       <TextInput id={`steps-${i}-from`} inputMode="decimal" invalid={!!errorAt(`steps.${i}.from`)} {...register(`steps.${i}.from`)} />
                     </Field>
                   )}

@@ -36,7 +36,7 @@ interface Props {
 /** The live preview beside the form: headline figures, a small profile and the other levels. */
 export function ScreeningPreview({ units, data, waitingFor, fetching, stale, error, limit, limitError, limitPct, ratePct, onLimitChange }: Props) {
   let status: string;
-  if (waitingFor.length) status = 'Waiting for the fields below';
+  if (waitingFor.length) status = 'Waiting for complete input';
   else if (error) status = 'Preview not updated';
   else if (fetching || stale) status = 'Updating…';
   else if (data) status = 'Up to date';

@@ -180,7 +180,7 @@ describe('a flight planner screens a polar flight', () => {
       await page.goto('/w/skarn-polar/screen');
       await page.getByLabel('Cruise fuel burn (lb)').waitFor();
       await page.getByText('Step climbs', { exact: true }).click();
-      await page.getByLabel('Step 1 from (NM along the route)').waitFor();
+      await page.getByLabel('Step 1 starts at (NM)').waitFor();
       await screenshot(page, 'planner-screen-tablet-aviation');
       expect(ownErrors()).toEqual([]);
     } finally {

@@ -87,12 +87,12 @@ describe('Screen a flight form', () => {
     expect(rows()).toHaveLength(2);
     expect(within(rows()[0]).getByText('departure (0 km)')).toBeTruthy();
     expect(within(rows()[0]).queryByRole('button', { name: /Remove/ })).toBeNull();
-    fireEvent.change(screen.getByLabelText('Step 1 from (km along the route)'), { target: { value: '3000' } });
+    fireEvent.change(screen.getByLabelText('Step 1 starts at (km)'), { target: { value: '3000' } });
     fireEvent.change(screen.getByLabelText('Step 1 flight level'), { target: { value: '390' } });
     fireEvent.click(screen.getByRole('button', { name: 'Add a step climb' }));
     expect(rows()).toHaveLength(3);
     expect((screen.getByLabelText('Step 2 flight level') as HTMLInputElement).value).toBe('410');
-    fireEvent.change(screen.getByLabelText('Step 2 from (km along the route)'), { target: { value: '2000' } });
+    fireEvent.change(screen.getByLabelText('Step 2 starts at (km)'), { target: { value: '2000' } });
     save();
     await waitFor(() => expect(errorOf('steps-2-from')).toBe('Each cruise step must start further along the route than the one before.'));
     fireEvent.click(screen.getByRole('button', { name: 'Remove step 2' }));
@@ -128,6 +128,30 @@ describe('Screen a flight form', () => {
     expect(screen.getByLabelText('Stop 1')).toBeTruthy();
     fireEvent.click(screen.getByRole('button', { name: 'Remove stop 1' }));
     expect(screen.queryByLabelText('Stop 1')).toBeNull();
+  });
+
+  it('a saved route fills the airports, or the coordinates when it has points that are not airports', () => {
+    renderForm({
+      routes: [
+        { id: 1, name: 'North Atlantic via Keflavik', notes: 'winter track', waypoints: [{ airport: 'egll' }, { airport: 'BIKF' }, { airport: 'KSEA' }], coordinates: [null, null, null] },
+        {
+          id: 2,
+          name: 'Polar points',
+          notes: '',
+          waypoints: [{ airport: 'EGLL' }, { lat: 78.2, lon: 15.6 }, { airport: 'PANC' }],
+          coordinates: [{ lat: 51.47, lon: -0.46 }, { lat: 78.2, lon: 15.6 }, { lat: 61.17, lon: -150 }],
+        },
+      ],
+    });
+    fireEvent.change(screen.getByLabelText('Start from a saved route'), { target: { value: '1' } });
+    expect((screen.getByLabelText('From') as HTMLInputElement).value).toBe('EGLL');
+    expect((screen.getByLabelText('Stop 1') as HTMLInputElement).value).toBe('BIKF');
+    expect((screen.getByLabelText('To') as HTMLInputElement).value).toBe('KSEA');
+    expect(screen.getByText(/North Atlantic via Keflavik: 3 points\. winter track/)).toBeTruthy();
+    fireEvent.change(screen.getByLabelText('Start from a saved route'), { target: { value: '2' } });
+    expect(screen.getAllByTestId('point-row')).toHaveLength(3);
+    expect((screen.getByLabelText('Point 2 latitude') as HTMLInputElement).value).toBe('78.2');
+    expect((document.getElementById('points-2-lon') as HTMLInputElement).value).toBe('-150');
   });
 
   it('choosing an aircraft type fills its typical flight level unless the planner has set one', () => {

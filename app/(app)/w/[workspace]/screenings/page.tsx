@@ -89,17 +89,17 @@ export default async function ScreeningsPage({ params, searchParams }: { params:
         actions={canScreen ? <ButtonLink href={`/w/${slug}/screen`}>Screen a flight</ButtonLink> : undefined}
       />
       <Card className="mb-6">
-        <Form action={`/w/${slug}/screenings`} className="flex flex-wrap items-start gap-3" aria-label="Filter the screenings">
-          <Field id="from" label="Saved from" error={problems.from} className="w-44">
+        <Form action={`/w/${slug}/screenings`} className="grid items-start gap-3 sm:grid-cols-2 md:grid-cols-3 xl:grid-cols-6" aria-label="Filter the screenings">
+          <Field id="from" label="Saved from" error={problems.from}>
             <TextInput id="from" name="from" type="date" defaultValue={text.from} invalid={!!problems.from} />
           </Field>
-          <Field id="to" label="Saved until" error={problems.to} className="w-44">
+          <Field id="to" label="Saved until" error={problems.to}>
             <TextInput id="to" name="to" type="date" defaultValue={text.to} invalid={!!problems.to} />
           </Field>
-          <Field id="route" label="Route contains" error={problems.route} className="w-40">
+          <Field id="route" label="Route contains" error={problems.route}>
             <TextInput id="route" name="route" placeholder="EGLL" defaultValue={text.route} invalid={!!problems.route} />
           </Field>
-          <Field id="aircraft" label="Aircraft type" className="w-36">
+          <Field id="aircraft" label="Aircraft type">
             <SelectInput id="aircraft" name="aircraft" defaultValue={text.aircraft}>
               <option value="">Any</option>
               {types.map((t) => (
@@ -109,13 +109,13 @@ export default async function ScreeningsPage({ params, searchParams }: { params:
               ))}
             </SelectInput>
           </Field>
-          <Field id="minAbove" label="Min. share above (%)" error={problems.minAbove} className="w-44">
+          <Field id="minAbove" label="Min. share above (%)" error={problems.minAbove}>
             <TextInput id="minAbove" name="minAbove" inputMode="decimal" defaultValue={text.minAbove} invalid={!!problems.minAbove} />
           </Field>
-          <Field id="maxAbove" label="Max. share above (%)" error={problems.maxAbove} className="w-44">
+          <Field id="maxAbove" label="Max. share above (%)" error={problems.maxAbove}>
             <TextInput id="maxAbove" name="maxAbove" inputMode="decimal" defaultValue={text.maxAbove} invalid={!!problems.maxAbove} />
           </Field>
-          <div className="flex gap-2 pt-6">
+          <div className="flex gap-2 sm:col-span-2 md:col-span-3 xl:col-span-6">
             <button type="submit" className={buttonClass('secondary')}>
               Filter
             </button>
