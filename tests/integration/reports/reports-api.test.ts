@@ -17,12 +17,13 @@ import { insertFleet, insertFlight, insertType } from '../fleets/flight-fixtures
 
 const mailEnv: Record<string, string> = {};
 let fake: SmtpFake;
+let fakeClosed = false;
 beforeAll(async () => {
   fake = await startSmtpFake({ smtpPort: 0, httpPort: 0 });
   mailEnv.SMTP_PORT = String(fake.smtpPort);
 });
 afterAll(async () => {
-  await fake?.close();
+  if (fake && !fakeClosed) await fake.close();
 });
 useTestDatabase(mailEnv);
 
@@ -245,6 +246,7 @@ describe('reports: send by e-mail', () => {
   it('a mail server that refuses is recorded as a failed send and answered with 503', async () => {
     const r = await build();
     await fake.close();
+    fakeClosed = true;
     const res = await call(sendRoute.POST, apiRequest('POST', `${base()}/${r.body.id}/send`, { cookie: analyst, body: { recipients: ['late@example.test'] } }), { slug: ws.slug, id: String(r.body.id) });
     expect(res.status).toBe(503);
     expect(res.body.error?.message).toMatch(/attempt is recorded/);
