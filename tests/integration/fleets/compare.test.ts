@@ -13,7 +13,7 @@ let fleetA: number;
 let fleetB: number;
 let cookie: string;
 let ids: Record<string, number>;
-let flights: (FlightFixture & { id: number })[];
+let flights: (FlightFixture & { id: number; name: string })[];
 
 beforeAll(async () => {
   ws = await makeWorkspace(['analyst', 'viewer', 'billing']);
