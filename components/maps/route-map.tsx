@@ -135,7 +135,11 @@ export function RouteMap({ points, segments, title }: { points: readonly MapPoin
         [WIDTH - PAD, HEIGHT - PAD],
       ],
       { type: 'FeatureCollection', features: [routeLine, frame] },
-    );
+    )
+    .clipExtent([
+      [0, 0],
+      [WIDTH, HEIGHT],
+    ]);
   const path = geoPath(projection).digits(1);
   const labelled = points.filter((p, i) => p.label !== null || i === 0 || i === points.length - 1);
   return (

@@ -241,6 +241,15 @@ describe('a read-only member reads a screening', () => {
     expect(ownErrors()).toEqual([]);
     const form = await page.goto('/w/velloway-jets/screen');
     expect(form?.status()).toBe(403);
+    expect((await page.goto('/w/velloway-jets/screenings/999999'))?.status()).toBe(404);
+    expect((await page.goto(`/w/velloway-jets/screenings/compare?a=${id}&b=${id}`))?.status()).toBe(200);
+    expect((await page.goto('/w/skarn-polar/screenings'))?.status()).toBe(404);
+    const exported = await page.evaluate(async (id) => {
+      const r = await fetch(`/api/v1/workspaces/velloway-jets/screenings/${id}/export?format=csv`);
+      return { status: r.status, disposition: r.headers.get('content-disposition') };
+    }, id);
+    expect(exported.status).toBe(200);
+    expect(exported.disposition).toMatch(/^attachment; filename="screening-/);
     const preview = await page.evaluate(async () => {
       const r = await fetch('/api/v1/workspaces/velloway-jets/screenings/preview', { method: 'POST', headers: { 'content-type': 'application/json' }, body: '{}' });
       return r.status;
