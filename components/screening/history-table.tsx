@@ -68,8 +68,10 @@ export function HistoryTable({ slug, rows, units }: { slug: string; rows: Histor
         ),
       }),
       col.accessor('routeLabel', { header: 'Route' }),
-      col.accessor('aircraftCode', { header: 'Aircraft', cell: (c) => c.getValue() ?? '–', enableSorting: false }),
-      col.accessor('flightLevel', { header: 'Cruise', cell: (c) => (c.getValue() === null ? '–' : `FL${c.getValue()}`) }),
+      col.accessor('flightLevel', {
+        header: 'Aircraft, cruise',
+        cell: (c) => `${c.row.original.aircraftCode ?? '–'} · ${c.getValue() === null ? '–' : `FL${c.getValue()}`}`,
+      }),
       col.accessor('flightDate', { header: 'Flight date', cell: (c) => formatDate(c.getValue()), enableSorting: false }),
       col.accessor('distanceKm', { header: 'Distance', cell: (c) => formatDistance(c.getValue(), units) }),
       col.accessor('noxAboveTropopauseKg', { header: 'NOx above', cell: (c) => formatMass(c.getValue(), units) }),
@@ -114,7 +116,7 @@ export function HistoryTable({ slug, rows, units }: { slug: string; rows: Histor
         )}
       </div>
       <div className="overflow-x-auto">
-        <table className="w-full min-w-[880px] text-sm" data-testid="history-table">
+        <table className="w-full min-w-[840px] text-sm" data-testid="history-table">
           <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
             {table.getHeaderGroups().map((hg) => (
               <tr key={hg.id}>
