@@ -1,4 +1,5 @@
 import type { ScreeningResult } from '@/lib/screening';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 const SUPERSCRIPT: Record<string, string> = { '-': '⁻', '0': '⁰', '1': '¹', '2': '²', '3': '³', '4': '⁴', '5': '⁵', '6': '⁶', '7': '⁷', '8': '⁸', '9': '⁹' };
 
@@ -28,7 +29,7 @@ export function AssumptionsList({ result }: { result: Pick<ScreeningResult, 'ass
           <li key={line}>{line}</li>
         ))}
       </ul>
-      <div className="overflow-x-auto">
+      <ScrollRegion label="Ozone-figure inputs">
         <table className="w-full min-w-[600px]">
           <caption className="mb-2 text-left font-medium text-ink">Ozone-figure inputs (low – central – high)</caption>
           <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
@@ -72,7 +73,7 @@ export function AssumptionsList({ result }: { result: Pick<ScreeningResult, 'ass
             </tr>
           </tbody>
         </table>
-      </div>
+      </ScrollRegion>
       <p className="text-xs text-ink-soft">
         {a.band} Rate constants: {a.rateConstants}. Engine version {result.engineVersion}.
       </p>

@@ -7,6 +7,7 @@ import { createColumnHelper, flexRender, getCoreRowModel, getSortedRowModel, use
 import type { UnitSystem } from '@/lib/validation/screen-form';
 import { formatDate, formatDateTime, formatDistance, formatMass, formatPercent } from '@/lib/format';
 import { ButtonLink } from '@/components/ui/button';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 export interface HistoryRow {
   id: number;
@@ -115,7 +116,7 @@ export function HistoryTable({ slug, rows, units }: { slug: string; rows: Histor
           </span>
         )}
       </div>
-      <div className="overflow-x-auto">
+      <ScrollRegion label="Saved screenings">
         <table className="w-full min-w-[840px] text-sm" data-testid="history-table">
           <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
             {table.getHeaderGroups().map((hg) => (
@@ -150,7 +151,7 @@ export function HistoryTable({ slug, rows, units }: { slug: string; rows: Histor
             ))}
           </tbody>
         </table>
-      </div>
+      </ScrollRegion>
     </div>
   );
 }

@@ -15,6 +15,7 @@ import type { ScreeningSegment } from '@/lib/screening';
 import type { UnitSystem } from '@/lib/validation/screen-form';
 import { formatAltitude, formatDistance, formatMass, formatNumber } from '@/lib/format';
 import { Button } from '@/components/ui/button';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 export const SEGMENT_PAGE_SIZE = 25;
 const SORTABLE = ['index', 'startKm', 'flightLevel', 'tropopauseM', 'depthAboveTropopauseKm', 'fuelKg', 'noxKg', 'ozoneLossKg'] as const;
@@ -103,7 +104,7 @@ export function SegmentTable({ segments, units }: { segments: readonly Screening
   const last = Math.min(data.length, first + SEGMENT_PAGE_SIZE - 1);
   return (
     <div>
-      <div className="overflow-x-auto">
+      <ScrollRegion label="Segments of the route">
         <table className="w-full min-w-[760px] text-sm" data-testid="segment-table">
           <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
             {table.getHeaderGroups().map((hg) => (
@@ -138,7 +139,7 @@ export function SegmentTable({ segments, units }: { segments: readonly Screening
             ))}
           </tbody>
         </table>
-      </div>
+      </ScrollRegion>
       <div className="mt-3 flex flex-wrap items-center justify-between gap-3 text-sm">
         <p className="text-ink-soft">
           Segments {first}–{last} of {data.length} (at most 50 km each)

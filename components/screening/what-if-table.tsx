@@ -1,6 +1,7 @@
 import type { CruiseLevelRow } from '@/lib/screening';
 import type { UnitSystem } from '@/lib/validation/screen-form';
 import { formatMass, formatNumber } from '@/lib/format';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 function levelsLabel(row: Pick<CruiseLevelRow, 'flightLevels'>): string {
   return row.flightLevels.map((fl) => `FL${fl}`).join(' → ');
@@ -30,10 +31,10 @@ export function WhatIfTable({
   compact?: boolean;
 }) {
   const best = rows.find((r) => r.lowestImpact);
-  const badge = <span className="ml-2 whitespace-nowrap rounded bg-tropo px-1.5 py-0.5 text-[11px] font-semibold uppercase tracking-wide text-white">lowest impact</span>;
+  const badge = <span className="ml-2 whitespace-nowrap rounded bg-tropo-strong px-1.5 py-0.5 text-[11px] font-semibold uppercase tracking-wide text-white">lowest impact</span>;
   return (
     <div>
-      <div className="overflow-x-auto">
+      <ScrollRegion label="Other cruise levels">
         <table className={`w-full text-sm ${compact ? '' : 'min-w-[640px]'}`} data-testid="what-if-table">
           <caption className="sr-only">Cruise levels compared, with a fuel-penalty limit of {formatNumber(limitPct, 1)} %</caption>
           <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
@@ -79,7 +80,7 @@ export function WhatIfTable({
             ))}
           </tbody>
         </table>
-      </div>
+      </ScrollRegion>
       <p className="mt-2 text-xs text-ink-soft">
         {best
           ? `Within a ${formatNumber(limitPct, 1)} % fuel penalty, ${levelsLabel(best)} gives the smallest ozone-loss figure.`

@@ -13,6 +13,7 @@ import { profileSeries } from '@/components/screening/profile-series';
 import { cruiseLabel } from '@/components/screening/describe';
 import { VerticalProfileChart } from '@/components/charts/vertical-profile-chart';
 import { PageSkeleton } from '@/components/screening/skeletons';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 export const metadata = { title: 'Compare screenings' };
 
@@ -112,7 +113,7 @@ async function ComparePanel({ slug, workspaceId, units, ...ids }: { slug: string
       <div className="space-y-6">
         <ScreeningCautions cautions={cautions} />
         <Card title="Headline figures">
-          <div className="overflow-x-auto">
+          <ScrollRegion label="Headline figures of both screenings">
             <table className="w-full min-w-[640px] text-sm" data-testid="compare-table">
               <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
                 <tr>
@@ -155,7 +156,7 @@ async function ComparePanel({ slug, workspaceId, units, ...ids }: { slug: string
                 ))}
               </tbody>
             </table>
-          </div>
+          </ScrollRegion>
         </Card>
         <div className="grid gap-6 xl:grid-cols-2">
           <Card title={`A: ${a.name}`}>
