@@ -187,7 +187,7 @@ function ImportItem({ slug, initial, canDelete, onDelete }: { slug: string; init
               {imp.problemCount} note{imp.problemCount === 1 ? '' : 's'} on this import
             </summary>
             <div className="mt-2">
-              <ImportProblemsTable problems={imp.problems} total={imp.problemCount} caption={`Notes on import ${imp.id}`} />
+              <ImportProblemsTable problems={imp.problems} total={imp.problemCount} caption={`Notes on import ${imp.id}`} heading="Note" />
             </div>
           </details>
         ) : null}

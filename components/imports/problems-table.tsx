@@ -1,7 +1,7 @@
 import type { ImportProblem } from '@/lib/validation/imports';
 
 /** Problems of a schedule file by line and column (line 1 is the header; line 0 is the file as a whole). */
-export function ImportProblemsTable({ problems, caption, total }: { problems: readonly ImportProblem[]; caption: string; total?: number }) {
+export function ImportProblemsTable({ problems, caption, total, heading = 'What to fix' }: { problems: readonly ImportProblem[]; caption: string; total?: number; heading?: string }) {
   return (
     <div>
       <div className="max-h-80 overflow-auto rounded-md border border-line">
@@ -11,7 +11,7 @@ export function ImportProblemsTable({ problems, caption, total }: { problems: re
             <tr>
               <th scope="col" className="w-16 px-3 py-1.5">Line</th>
               <th scope="col" className="w-40 px-3 py-1.5">Column</th>
-              <th scope="col" className="px-3 py-1.5">What to fix</th>
+              <th scope="col" className="px-3 py-1.5">{heading}</th>
             </tr>
           </thead>
           <tbody>

@@ -101,7 +101,7 @@ export function UploadForm({ slug, aside }: { slug: string; aside?: ReactNode })
             {outcome.imp.problems.length ? (
               <div className="mt-3">
                 <p className="mb-1 font-medium">Noted, not refused:</p>
-                <ImportProblemsTable problems={outcome.imp.problems} caption="Notes on the accepted file" />
+                <ImportProblemsTable problems={outcome.imp.problems} caption="Notes on the accepted file" heading="Note" />
               </div>
             ) : null}
           </Notice>
@@ -115,7 +115,7 @@ export function UploadForm({ slug, aside }: { slug: string; aside?: ReactNode })
             {outcome.warnings.length ? (
               <div>
                 <p className="mb-1 text-sm font-medium">Also noted:</p>
-                <ImportProblemsTable problems={outcome.warnings} caption="Notes on the uploaded file" />
+                <ImportProblemsTable problems={outcome.warnings} caption="Notes on the uploaded file" heading="Note" />
               </div>
             ) : null}
           </div>
