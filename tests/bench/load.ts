@@ -10,6 +10,7 @@
  */
 import { createRequire } from 'node:module';
 import fs from 'node:fs';
+import os from 'node:os';
 import Database from 'better-sqlite3';
 import { appEnv, build, freePort, hasBuild, insertApiKey, prepareDatabase, reexecUnderLock, startApp, tempDir } from '../soak/app-process';
 
@@ -91,7 +92,7 @@ async function main(): Promise<number> {
       await fetch(`${base}/api/v1/workspaces/${SLUG}/screenings/preview`, { method: 'POST', headers: auth, body: JSON.stringify(FLIGHT) });
       await fetch(`${base}/api/v1/workspaces/${SLUG}/screenings?limit=20`, { headers: auth });
     }
-    console.log(`load: ${CONNECTIONS} connections, ${SECONDS} s per route, ${base}`);
+    console.log(`load: ${CONNECTIONS} connections, ${SECONDS} s per route, ${base}; ${os.cpus().length} cores, load average ${os.loadavg().map((l) => l.toFixed(1)).join(' ')} before`);
     rows.push(await measure('reference GET /api/health', { url: `${base}/api/health` }));
     rows.push(await measure('preview POST .../screenings/preview', { url: `${base}/api/v1/workspaces/${SLUG}/screenings/preview`, method: 'POST', headers: auth, body: JSON.stringify(FLIGHT) }));
     rows.push(await measure('save POST .../screenings', { url: `${base}/api/v1/workspaces/${SLUG}/screenings`, method: 'POST', headers: auth, body: JSON.stringify({ ...FLIGHT, name: 'load' }) }));
@@ -99,6 +100,7 @@ async function main(): Promise<number> {
   } finally {
     await app.stop();
   }
+  console.log(`load average ${os.loadavg().map((l) => l.toFixed(1)).join(' ')} after (other work on the machine skews every figure)`);
   const busy = (app.output().match(/SQLITE_BUSY/g) ?? []).length;
   const conn = new Database(file, { readonly: true });
   const saved = (conn.prepare("select count(*) as n from screenings where name = 'load'").get() as { n: number }).n;
