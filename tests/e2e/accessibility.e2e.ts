@@ -36,6 +36,7 @@ async function axe(page: Page): Promise<AxeViolation[]> {
 const REPORTED: Record<string, string> = {
   'screening-result color-contrast': 'components/screening/what-if-table.tsx: white 11 px text on bg-tropo (#23867a) is 4.4:1; needs 4.5:1 (use bg-tropo-strong)',
   'billing aria-prohibited-attr': 'app/(app)/w/[workspace]/settings/billing/page.tsx:193: the invoices Suspense fallback is a <div> with aria-label and no role (add role="status")',
+  'billing-finance-admin aria-prohibited-attr': 'the same invoices Suspense fallback, seen by the finance admin',
   '* scrollable-region-focusable': 'tables and code samples in overflow-x-auto boxes cannot be reached by keyboard at tablet width; wrap them in components/ui/scroll-region.tsx (ScrollRegion)',
   'imports link-in-text-block': 'components/imports/format-guide.tsx: the "column reference" link in running text is told apart by colour alone (underline it)',
 };
@@ -113,6 +114,24 @@ describe('accessibility and CSP on the main pages', () => {
         data: { name: 'Accessibility check', route: { waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] }, cruise: { flightLevel: 370 }, fuelBurnKg: 50_000, emission: { eiNoxGPerKg: 14 }, month: 1 },
       });
       const screeningId = created.ok() ? ((await created.json()) as { id: number }).id : null;
+      // Detail screens of rows the demo scenario holds (skipped when a list is empty).
+      const firstId = async (resource: string): Promise<number | null> => {
+        const r = await page.request.get(`${BASE_URL}/api/v1/workspaces/${slug}/${resource}`);
+        if (!r.ok()) return null;
+        const items = ((await r.json()) as { items?: { id: number }[] }).items ?? [];
+        return items[0]?.id ?? null;
+      };
+      const details: [string, string][] = [];
+      for (const [resource, route, name] of [
+        ['reports', 'reports', 'report'],
+        ['routes', 'routes', 'route'],
+        ['soundings', 'soundings', 'sounding'],
+        ['engines', 'engines', 'engine'],
+        ['aircraft-types', 'engines/aircraft', 'aircraft-type'],
+      ] as const) {
+        const id = await firstId(resource);
+        if (id) details.push([`/w/${slug}/${route}/${id}`, name]);
+      }
       const pages: [string, string][] = [
         ['/workspaces', 'workspaces'],
         [`/w/${slug}`, 'overview'],
@@ -129,6 +148,8 @@ describe('accessibility and CSP on the main pages', () => {
         [`/w/${slug}/engines`, 'engines'],
         [`/w/${slug}/routes`, 'routes'],
         [`/w/${slug}/soundings`, 'soundings'],
+        [`/w/${slug}/screenings/compare`, 'screenings-compare'],
+        ...details,
         [`/w/${slug}/settings/audit`, 'audit'],
         ['/account', 'account'],
       ];
@@ -144,6 +165,24 @@ describe('accessibility and CSP on the main pages', () => {
       expect(findings, `at ${viewport.width} px`).toEqual([]);
       await context.close();
     }
+  });
+
+  it('a finance admin and a read-only member see their own screens without serious findings', async () => {
+    const findings: string[] = [];
+    for (const [email, pages] of [
+      ['billing@tropopass.test', [['/w/skarn-polar/settings/billing', 'billing-finance-admin']]],
+      ['viewer@tropopass.test', [['/w/velloway-jets', 'overview-viewer'], ['/w/velloway-jets/screenings', 'screenings-viewer'], ['/w/velloway-jets/fleets', 'fleets-viewer']]],
+    ] as const) {
+      const { page, context, errors } = await newPage(browser());
+      await signIn(page, email);
+      for (const [path, name] of pages) {
+        const r = await check(page, errors, path, name);
+        expect(r, path).not.toBe('absent');
+        if (r !== 'absent') findings.push(...r);
+      }
+      await context.close();
+    }
+    expect(findings).toEqual([]);
   });
 
   it('signed-in pages are not stored by the browser (Cache-Control: no-store)', async () => {
