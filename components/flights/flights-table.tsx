@@ -1,6 +1,7 @@
 import type { FlightDto } from '@/db/flights';
 import type { UnitSystem } from '@/db/users';
 import { formatDistance, formatMass, formatPercent } from '@/lib/format';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 function cruise(f: FlightDto): string {
   return f.cruiseFl === f.maxFl ? `FL${f.cruiseFl}` : `FL${f.cruiseFl}–${f.maxFl}`;
@@ -11,7 +12,7 @@ const num = 'px-2 py-2 text-right figure whitespace-nowrap';
 /** One page of flights with their screening figures in the user's units; pending and failed flights say so. */
 export function FlightsTable({ flights, units }: { flights: FlightDto[]; units: UnitSystem }) {
   return (
-    <div className="overflow-x-auto">
+    <ScrollRegion label="Flights and their screening figures, scrollable">
       <table className="w-full text-sm">
         <caption className="sr-only">Flights and their screening figures</caption>
         <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
@@ -72,6 +73,6 @@ export function FlightsTable({ flights, units }: { flights: FlightDto[]; units: 
           ))}
         </tbody>
       </table>
-    </div>
+    </ScrollRegion>
   );
 }

@@ -1,4 +1,5 @@
 import { IMPORT_LIMITS, SCHEDULE_COLUMN_DOCS } from '@/lib/validation/imports';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 const MB = 1024 * 1024;
 
@@ -30,7 +31,7 @@ export function FormatSummary({ templateHref }: { templateHref: string }) {
       </p>
       <p className="text-ink-soft">
         CSV in UTF-8 with a header row, up to {IMPORT_LIMITS.maxRows.toLocaleString('en-GB')} flights and {IMPORT_LIMITS.maxBytes / MB} MB per file. Units and
-        examples are in the <a href="#format" className="text-accent hover:underline">column reference</a> below.
+        examples are in the <a href="#format" className="text-accent underline underline-offset-2">column reference</a> below.
       </p>
       <a href={templateHref} download className="inline-flex items-center gap-2 rounded-md border border-line-strong bg-paper-raised px-3.5 py-2 text-sm font-medium text-ink hover:bg-paper-sunk">
         Download the template (CSV)
@@ -47,7 +48,7 @@ export function FormatReference({ example }: { example: string }) {
         CSV, UTF-8 (a byte-order mark is fine), comma-separated, one flight per row after a header row. Header names are not case sensitive and
         columns may come in any order.
       </p>
-      <div className="overflow-x-auto">
+      <ScrollRegion label="Columns of a schedule file">
         <table className="w-full text-left text-sm">
           <caption className="sr-only">Columns of a schedule file</caption>
           <thead className="text-xs uppercase tracking-wide text-ink-soft">
@@ -80,7 +81,7 @@ export function FormatReference({ example }: { example: string }) {
             ))}
           </tbody>
         </table>
-      </div>
+      </ScrollRegion>
       <ul className="list-disc space-y-1 pl-5 text-ink-soft">
         <li>Line numbers in problems count the header as line 1.</li>
         <li>Columns we do not know are listed and ignored; the file is still accepted.</li>
@@ -90,7 +91,9 @@ export function FormatReference({ example }: { example: string }) {
       </ul>
       <div className="min-w-0">
         <p className="mb-1 font-medium text-ink">Example</p>
-        <pre className="overflow-x-auto whitespace-pre rounded-md border border-line bg-paper-sunk p-3 font-mono text-xs leading-relaxed">{example}</pre>
+        <ScrollRegion label="Example schedule" className="rounded-md border border-line bg-paper-sunk">
+          <pre className="whitespace-pre p-3 font-mono text-xs leading-relaxed">{example}</pre>
+        </ScrollRegion>
       </div>
     </div>
   );

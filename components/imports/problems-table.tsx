@@ -1,10 +1,11 @@
 import type { ImportProblem } from '@/lib/validation/imports';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 /** Problems of a schedule file by line and column (line 1 is the header; line 0 is the file as a whole). */
 export function ImportProblemsTable({ problems, caption, total, heading = 'What to fix' }: { problems: readonly ImportProblem[]; caption: string; total?: number; heading?: string }) {
   return (
     <div>
-      <div className="max-h-80 overflow-auto rounded-md border border-line">
+      <ScrollRegion label={caption} className="max-h-80 overflow-y-auto rounded-md border border-line">
         <table className="w-full text-sm">
           <caption className="sr-only">{caption}</caption>
           <thead className="sticky top-0 bg-paper-sunk text-left text-xs uppercase tracking-wide text-ink-soft">
@@ -24,7 +25,7 @@ export function ImportProblemsTable({ problems, caption, total, heading = 'What 
             ))}
           </tbody>
         </table>
-      </div>
+      </ScrollRegion>
       {total !== undefined && total > problems.length ? (
         <p className="mt-1 text-xs text-ink-soft">
           Showing the first {problems.length} of {total} problems; fix these and upload again to see the rest.
