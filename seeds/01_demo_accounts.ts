@@ -2,7 +2,7 @@ import type { Knex } from 'knex';
 import { hash } from '@node-rs/argon2';
 
 /**
- * The invented demo scenario (DESIGN.md): a consultancy owning three client workspaces, and one
+ * The invented demo scenario: a consultancy owning three client workspaces, and one
  * account per role. Idempotent: re-running leaves the same rows. Demo only.
  */
 export const DEMO_PASSWORD = 'tropopass-demo';

@@ -10,7 +10,7 @@ import { BFFM2_INSTALLATION_FACTORS, bffm2EiNox, buildEiCurve } from '@/lib/scre
  */
 export const CRUISE_CHECK = { flightLevel: 350, mach: 0.8, takeOffFraction: 0.3 } as const;
 
-/** Typical cruise EI NOx of modern subsonic turbofans, g/kg (common practice, SCIENCE.md s.2). */
+/** Typical cruise EI NOx of modern subsonic turbofans, g/kg (common practice). */
 export const TYPICAL_CRUISE_EI_G_PER_KG = { low: 10, high: 20 } as const;
 
 export interface CruiseEiCheck {

@@ -42,7 +42,7 @@ export const POLICY: Record<Role, readonly Permission[]> = {
   billing: ['workspace:read', 'usage:read', 'billing:read', 'billing:manage'],
 };
 
-/** Roles an API key may carry (DESIGN.md: planner by default, or analyst / viewer). */
+/** Roles an API key may carry (planner by default, or analyst / viewer). */
 export const API_KEY_ROLES = ['planner', 'analyst', 'viewer'] as const satisfies readonly Role[];
 
 export function can(role: Role, permission: Permission): boolean {

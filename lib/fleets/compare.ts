@@ -9,7 +9,7 @@ import type { CompareRow, FleetComparison, FleetContextRow, FleetSeries } from '
 
 export const NO_FLEET_NAME = 'No fleet';
 
-/** Cautions shown beside every fleet figure (DESIGN.md "Cautions shown in the product"). */
+/** Cautions shown beside every fleet figure. */
 export const FLEET_CAUTIONS: readonly string[] = Object.freeze([
   'Screening estimates for planning and reporting support: not a certified emissions inventory and not a regulatory method.',
   'The ozone figure is a gross catalytic loss by the added NOx, not a net change of the ozone column; below about 13-20 km the same NOx also makes ozone.',

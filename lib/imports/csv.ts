@@ -2,7 +2,7 @@ import Papa from 'papaparse';
 import { badRequest, tooLarge } from '@/lib/errors';
 
 /**
- * A small, generic CSV reader for the product's imports (DESIGN.md "Import formats"): UTF-8 with or
+ * A small, generic CSV reader for the product's imports (the documented import format): UTF-8 with or
  * without a BOM, comma-separated, a header row, header names case-insensitive and trimmed, CRLF or
  * LF line ends, quoted values (which may span lines). It only reads the table; each import checks
  * its own values.
@@ -209,7 +209,7 @@ export async function readCsvUpload(req: Request, options: { maxBytes: number; f
 }
 
 /**
- * The 422 of an import that had problems (DESIGN.md): `{ error, problems: { line, column, message }[] }`,
+ * The 422 of an import that had problems: `{ error, problems: { line, column, message }[] }`,
  * plus `warnings` and, when form fields beside the file were wrong too, `error.fields`.
  */
 export function csvRejection(problems: readonly CsvProblem[], warnings: readonly CsvProblem[] = [], fields: readonly { path: string; message: string }[] = []): Response {

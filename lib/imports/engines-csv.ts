@@ -2,7 +2,7 @@ import { engineSaveSchema, ENGINE_CSV_MAX_ROWS, type EngineSave } from '@/lib/va
 import { csvCell, parseCsv, parseNumberCell, type CsvProblem } from './csv';
 
 /**
- * The engines CSV (DESIGN.md "Import formats"): `name, idle_ff_kg_s, approach_ff_kg_s,
+ * The engines CSV (the documented import format): `name, idle_ff_kg_s, approach_ff_kg_s,
  * climb_out_ff_kg_s, take_off_ff_kg_s, idle_ei, approach_ei, climb_out_ei, take_off_ei, source`,
  * fuel flows in kg/s per engine and EI NOx in g/kg at the ICAO LTO modes; `source` may be left out.
  */

@@ -2,7 +2,7 @@ import { SCREENING_LIMITS, soundingLevelProblems, soundingSetProblems, type Fiel
 import { csvCell, parseCsv, parseNumberCell, type CsvProblem } from './csv';
 
 /**
- * The soundings CSV (DESIGN.md "Import formats"): one level per line with `altitude_m`
+ * The soundings CSV (the documented import format): one level per line with `altitude_m`
  * (geopotential m) and/or `pressure_hpa`, and `temperature_k` or `temperature_c`. Levels may come
  * in any order. Celsius is converted to kelvin (T[K] = T[°C] + 273.15).
  */

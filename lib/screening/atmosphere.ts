@@ -96,7 +96,7 @@ function checkAltitude(h: number, name: string): void {
 /**
  * ICAO standard atmosphere at geopotential altitude `altitudeM` (m, -500..32 000): temperature K,
  * pressure Pa, density kg m^-3, speed of sound m s^-1, air number density cm^-3. Source: ICAO Doc
- * 7488/3 layer equations (SCIENCE.md s.1). RangeError outside the range or for a non-number.
+ * 7488/3 layer equations. RangeError outside the range or for a non-number.
  */
 export function isa(altitudeM: number): IsaState {
   checkAltitude(altitudeM, 'The altitude');

@@ -1,6 +1,6 @@
 /**
  * What-if cruise levels: the same flight screened at other levels with a fuel penalty for leaving
- * the planned level (SCIENCE.md s.2), and the lowest-impact level within the planner's limit marked.
+ * the planned level, and the lowest-impact level within the planner's limit marked.
  */
 import { screenValidated } from './screen-flight';
 import { validateCompareOptions, validateScreeningInput } from './validate';

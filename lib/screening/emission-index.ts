@@ -1,7 +1,7 @@
 /**
  * Cruise EI NOx from engine certification data: Boeing Fuel Flow Method 2 (DuBois & Paynter 2006,
  * SAE 2006-01-1987; Baughcum et al. 1996, NASA CR-4700 App. D) and the DLR fuel-flow method
- * (Deidewig, Doepelheuer & Lecht 1996, ICAS-96-4.1.2; Schaefer & Bartosch 2013). SCIENCE.md s.2.
+ * (Deidewig, Doepelheuer & Lecht 1996, ICAS-96-4.1.2; Schaefer & Bartosch 2013).
  * EI in g NO2 per kg fuel, fuel flow in kg/s per engine, pressure Pa, temperature K.
  */
 import { P0_PA, T0_K } from './atmosphere';

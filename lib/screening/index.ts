@@ -1,6 +1,6 @@
 /**
  * Tropopass screening engine: pure functions, plain typed objects in and out. The names and shapes
- * here are the public contract of DESIGN.md "The engine contract"; the `/api/v1` handlers wrap them.
+ * here are the public engine contract; the `/api/v1` handlers wrap them.
  */
 export {
   isa,

@@ -1,6 +1,6 @@
 /**
  * Gas-phase rate constants from JPL Publication 19-5 (Burkholder et al. 2019), as listed in
- * SCIENCE.md s.4. Bimolecular: k = A exp(-(E/R)/T). Termolecular: k0(T) = k0_298 (T/298)^-n,
+ * Bimolecular: k = A exp(-(E/R)/T). Termolecular: k0(T) = k0_298 (T/298)^-n,
  * kinf(T) = kinf_298 (T/298)^-m, JPL fall-off form with broadening factor Fc = 0.6.
  */
 
@@ -32,11 +32,11 @@ export interface TermolecularParameters {
   m: number;
 }
 
-/** JPL 19-5 parameters per reaction (SCIENCE.md s.4). */
+/** JPL 19-5 parameters per reaction. */
 export const JPL_19_5: Readonly<Record<Reaction, ArrheniusParameters | TermolecularParameters>> = Object.freeze({
   'NO+O3': { kind: 'arrhenius', a: 3.0e-12, eOverRK: 1500 },
   // JPL 15-10 bimolecular form; 19-5's chemical-activation form agrees within 1 % at
-  // stratospheric pressures (SCIENCE.md s.4).
+  // stratospheric pressures.
   'NO2+O': { kind: 'arrhenius', a: 5.1e-12, eOverRK: -210 },
   'O+O3': { kind: 'arrhenius', a: 8.0e-12, eOverRK: 2060 },
   'OH+O3': { kind: 'arrhenius', a: 1.7e-12, eOverRK: 940 },

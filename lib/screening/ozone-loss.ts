@@ -1,5 +1,5 @@
 /**
- * The ozone-loss screening figure (SCIENCE.md s.5): gross catalytic odd-oxygen destruction by NOx
+ * The ozone-loss screening figure: gross catalytic odd-oxygen destruction by NOx
  * injected above the tropopause, with a deliberately wide low-high band, a local chain length, a
  * local odd-oxygen loss budget and the fleet-scale column context of published supersonic studies.
  * Number densities in molecule cm^-3, J in s^-1, residence times in years, masses in kg.
@@ -8,13 +8,13 @@ import { AVOGADRO, BOLTZMANN_J_K } from './atmosphere';
 import { JPL_19_5, arrhenius, lowPressureLimit, ohNo2Rate, type ArrheniusParameters, type TermolecularParameters } from './kinetics';
 import type { Assumptions, OzoneProfileName } from '../validation/screening';
 
-/** Molar mass of O3, g/mol (SCIENCE.md s.4). */
+/** Molar mass of O3, g/mol. */
 export const MOLAR_MASS_O3 = 47.998;
-/** Molar mass of NO2, g/mol: NOx mass is NO2-equivalent throughout (SCIENCE.md s.4). */
+/** Molar mass of NO2, g/mol: NOx mass is NO2-equivalent throughout. */
 export const MOLAR_MASS_NO2 = 46.0055;
-/** Molar mass of N, g/mol (SCIENCE.md s.4). */
+/** Molar mass of N, g/mol. */
 export const MOLAR_MASS_N = 14.0067;
-/** O2 volume fraction of dry air (SCIENCE.md s.4). */
+/** O2 volume fraction of dry air. */
 export const O2_FRACTION = 0.2095;
 /** Seconds in a Julian year. */
 export const SECONDS_PER_YEAR = 365.25 * 86_400;
@@ -55,9 +55,9 @@ export const AFGL_O3_PPMV: Readonly<Record<OzoneProfileName, readonly number[]>>
   ],
 });
 
-/** |Latitude| (degrees) below which the tropical profile is used all year (SCIENCE.md s.5). */
+/** |Latitude| (degrees) below which the tropical profile is used all year. */
 export const TROPICAL_BAND_MAX_LAT = 23.5;
-/** |Latitude| (degrees) from which the subarctic profiles are used (SCIENCE.md s.5). */
+/** |Latitude| (degrees) from which the subarctic profiles are used. */
 export const SUBARCTIC_BAND_MIN_LAT = 50;
 
 /** Profile slots the engine caches by: the five AFGL profiles, two annual means, one custom. */
@@ -142,7 +142,7 @@ export interface OzoneInputs {
 }
 
 /**
- * Defaults (SCIENCE.md s.5 table): screening values of the right order of magnitude, given from
+ * Defaults: screening values of the right order of magnitude, given from
  * memory; each is overridable through `input.assumptions`. [HO2] is 5 x [OH] (from memory, lower
  * stratosphere daytime) and only used by the local budget. Relative humidity 0.6 (BFFM2 default).
  */
@@ -197,7 +197,7 @@ export function resolveOzoneInputs(a: Assumptions | undefined): OzoneInputs {
 
 /**
  * Residence time above the tropopause (years, central) at `depthKm` above it: linear between the
- * nodes, which sit at the lower edge of each depth band of SCIENCE.md s.5 (0, 1, 2, 4, 6, 9 km ->
+ * nodes, which sit at the lower edge of each depth band (0, 1, 2, 4, 6, 9 km ->
  * 0.1, 0.25, 0.5, 1, 1.5, 2 yr), flat beyond the last node and at the first value below 0 km.
  * Putting nodes at the lower edges never gives less than a band's value inside it (conservative).
  */
@@ -361,7 +361,7 @@ export interface FleetStudy {
   columnChangePct: number;
 }
 
-/** Eastham et al. 2022 and Zhang et al. 2023 as summarised in SCIENCE.md s.5. */
+/** Eastham et al. 2022 and Zhang et al. 2023: published fleet-scale column-ozone results. */
 export const FLEET_STUDIES: readonly FleetStudy[] = Object.freeze([
   {
     id: 'eastham-2022',

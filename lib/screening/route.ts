@@ -1,6 +1,6 @@
 /**
  * Routes: waypoints resolved to coordinates, great-circle legs by geolib (spherical) and positions
- * along them. SCIENCE.md s.6.
+ * along them.
  */
 import { earthRadius, getDistance } from 'geolib';
 import { findAirport } from './airports';

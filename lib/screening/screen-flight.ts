@@ -1,6 +1,6 @@
 /**
  * `screenFlight`: one flight's cruise NOx, the NOx above the tropopause and the ozone-loss screening
- * figure, segment by segment (SCIENCE.md; DESIGN.md "The engine contract").
+ * figure, segment by segment (the public engine contract).
  */
 import {
   GAMMA_AIR,
@@ -58,7 +58,7 @@ import { OZONE_PROFILE_NAMES, type ScreeningInput } from '../validation/screenin
 /** Version of the methods; saved results carry it so they can be told apart and recomputed. */
 export const ENGINE_VERSION = '2026.12.1';
 
-/** Default cruise Mach used for timing (DESIGN.md). */
+/** Default cruise Mach used for timing. */
 export const DEFAULT_MACH = 0.8;
 
 /** kg CO2 per kg of Jet A/A-1 (ICAO CORSIA). */
@@ -159,7 +159,7 @@ export interface TropopauseUsed {
   sounding: SoundingTropopause | null;
 }
 
-/** Result of `screenFlight` (DESIGN.md contract fields plus extras). */
+/** Result of `screenFlight` (the public contract fields plus extras). */
 export interface ScreeningResult {
   engineVersion: string;
   distanceKm: number;
@@ -740,7 +740,7 @@ export function screenValidated(input: ScreeningInput): ScreeningResult {
 }
 
 /**
- * Screens one flight (DESIGN.md "The engine contract"). `input` is validated with
+ * Screens one flight (the public engine contract). `input` is validated with
  * `screeningInputSchema`; every bad field throws ScreeningInputError with its dotted path. Result
  * units: km, kg (NOx as NO2), geopotential m, g/kg.
  */

@@ -1,6 +1,6 @@
 /**
  * Tropopause height: a latitude-season climatology (Mateus, Mendes & Pires 2022) and the WMO (1957)
- * lapse-rate tropopause of a sounding. SCIENCE.md s.3. Altitudes in geopotential m.
+ * lapse-rate tropopause of a sounding. Altitudes in geopotential m.
  */
 import {
   G0,
@@ -19,7 +19,7 @@ import {
 
 /**
  * Mateus, Mendes & Pires (2022), Remote Sensing 14, 4303 (doi:10.3390/rs14174303), 3.5 PVU blend,
- * coefficients (a0..a5) as transcribed from the authors' published code (SCIENCE.md s.3; confirm
+ * coefficients (a0..a5) as transcribed from the authors' published code (confirm
  * against the paper). Northern hemisphere (lat > 0).
  */
 export const MATEUS_2022_NORTH = Object.freeze([8.499, 7.8229, 26.7284, -1.5804, 0.098, -0.1257] as const);
@@ -47,7 +47,7 @@ export function mateusTropopauseM(latDeg: number, seasonalNorthKm: number, seaso
   const a = latDeg > 0 ? MATEUS_2022_NORTH : MATEUS_2022_SOUTH;
   const s = latDeg > 0 ? seasonalNorthKm : seasonalSouthKm;
   const zKm = a[0] + a[1] / Math.pow(1 + Math.exp(-(latDeg - a[2]) / a[3]), a[4]) + s;
-  // The model gives geometric height; the engine works in geopotential altitude (DESIGN.md).
+  // The model gives geometric height; the engine works in geopotential altitude.
   const zM = zKm * 1000;
   return geopotentialFromGeometricM(zM);
 }

@@ -12,7 +12,7 @@ import {
 import { getAircraftForScreening } from '@/db/aircraft-lookup';
 import { badRequest, invalidFields, type FieldProblem } from '@/lib/errors';
 
-/** Fields a saved screening carries beside the engine input (DESIGN.md: the input plus an optional name). */
+/** Fields a saved screening carries beside the engine input (the input plus an optional name). */
 const extrasSchema = z.object({
   name: z.string({ error: 'The name must be text.' }).trim().max(160, 'Use at most 160 characters.').optional(),
   aircraft: z

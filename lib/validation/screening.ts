@@ -432,7 +432,7 @@ export const residenceTimeSchema = z
   });
 
 /**
- * Overrides of the ozone-figure and emission-index inputs (SCIENCE.md section 5); anything left out
+ * Overrides of the ozone-figure and emission-index inputs; anything left out
  * keeps its documented default. J values in s^-1 at noon, densities in molecule cm^-3.
  */
 export const assumptionsSchema = z.strictObject({
@@ -461,7 +461,7 @@ function isRealDate(s: string): boolean {
 }
 
 /**
- * The `screenFlight` input (DESIGN.md "The engine contract"): route, cruise, Mach (timing, default
+ * The `screenFlight` input (the public engine contract): route, cruise, Mach (timing, default
  * 0.80), cruise fuel (kg, 1-500 000), emission, month (1-12) or flight date (YYYY-MM-DD, UTC),
  * optional tropopause override and assumption overrides. Client-safe (no Node imports).
  */

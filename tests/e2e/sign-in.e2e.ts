@@ -3,7 +3,7 @@ import { newPage, screenshot, signIn, useBrowser, mailTo } from './support/brows
 
 const { browser } = useBrowser();
 
-// Where each demo account lands after signing in through the form (DESIGN.md).
+// Where each demo account lands after signing in through the form.
 const LANDINGS: [string, string][] = [
   ['consultant@tropopass.test', '/workspaces'],
   ['planner@tropopass.test', '/w/skarn-polar'],

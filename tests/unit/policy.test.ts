@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { POLICY, PERMISSIONS, ROLES, can } from '@/lib/auth/policy';
 import { landingPath } from '@/lib/auth/landing';
 
-describe('role -> permission table (DESIGN.md)', () => {
+describe('role -> permission table', () => {
   it.each([
     ['owner', 'members:manage', true],
     ['planner', 'screenings:create', true],

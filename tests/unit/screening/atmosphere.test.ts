@@ -53,7 +53,7 @@ describe('flight levels', () => {
     expect(flightLevelToMetres(660)).toBeCloseTo(20_116.8, 9);
   });
 
-  it('the ISA tropopause (11 000 m) is about FL361 (SCIENCE.md s.1)', () => {
+  it('the ISA tropopause (11 000 m) is about FL361 (ICAO Doc 7488/3 layer base; FL = ft / 100)', () => {
     expect(flightLevelToMetres(360)).toBeLessThan(11_000);
     expect(flightLevelToMetres(361)).toBeGreaterThan(11_000);
   });

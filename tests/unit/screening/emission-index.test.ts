@@ -61,7 +61,7 @@ describe('log-log certification curve', () => {
     expect(evaluateEiCurve(curve, 2 * w3)).toBeCloseTo(28.8 * Math.pow(2, slope), 9);
   });
 
-  it('installation factors are BFFM2 1.100 / 1.020 / 1.013 / 1.010 (idle, approach, climb-out, take-off; SCIENCE.md s.2)', () => {
+  it('installation factors are BFFM2 1.100 / 1.020 / 1.013 / 1.010 (idle, approach, climb-out, take-off; DuBois & Paynter 2006, SAE 2006-01-1987)', () => {
     expect(BFFM2_INSTALLATION_FACTORS).toEqual([1.1, 1.02, 1.013, 1.01]);
   });
 });
@@ -78,7 +78,7 @@ describe('cruise EI NOx', () => {
     expect(ei).toBeLessThan(20);
   });
 
-  it('the DLR method also gives 10-20 g/kg and differs from BFFM2 by less than 30 % (SCIENCE.md: commonly 10-25 %)', () => {
+  it('the DLR method also gives 10-20 g/kg and differs from BFFM2 by less than 30 % (commonly 10-25 %, common practice, from memory)', () => {
     const b = bffm2EiNox(bCurve, c).eiNoxGPerKg;
     const d = dlrEiNox(dCurve, c).eiNoxGPerKg;
     expect(d).toBeGreaterThan(10);

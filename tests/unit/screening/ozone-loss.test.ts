@@ -18,7 +18,7 @@ import {
 
 const slot = (name: (typeof PROFILE_SLOTS)[number]) => PROFILE_SLOTS.indexOf(name);
 
-describe('residence time above the tropopause (SCIENCE.md s.5 table)', () => {
+describe('residence time above the tropopause', () => {
   it.each([
     [0, 0.1],
     [1, 0.25],
@@ -52,7 +52,7 @@ describe('residence time above the tropopause (SCIENCE.md s.5 table)', () => {
   });
 });
 
-describe('ozone profile choice (SCIENCE.md s.5)', () => {
+describe('ozone profile choice', () => {
   it.each([
     { lat: 10, month: 1, want: 'tropical' },
     { lat: -20, month: 7, want: 'tropical' },
@@ -98,7 +98,7 @@ describe('embedded AFGL 1986 O3 profiles (transcribed from memory; shape checks 
 });
 
 describe('loss coefficients', () => {
-  it('follow the SCIENCE.md s.5 formula built from the JPL 19-5 rate constants', () => {
+  it('follow the screening formula (2 k(NO2+O) [O] per NOx molecule) built from the JPL 19-5 rate constants (Burkholder et al. 2019)', () => {
     const s = isa(16_000);
     const m = airNumberDensityCm3(s.pressurePa, s.temperatureK);
     const ppmv = 1.0;

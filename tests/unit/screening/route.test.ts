@@ -9,7 +9,7 @@ const wgs84Km = (a: { lat: number; lon: number }, b: { lat: number; lon: number 
   Geodesic.WGS84.Inverse(a.lat, a.lon, b.lat, b.lon).s12! / 1000;
 
 describe('great-circle distances against the WGS-84 geodesic (GeographicLib)', () => {
-  // SCIENCE.md s.6: the sphere differs from the WGS-84 geodesic by up to about 0.5 %; 0.6 % allowed.
+  // The sphere differs from the WGS-84 geodesic by up to about 0.5 %; 0.6 % allowed.
   it.each([
     ['EGLL', 'KJFK'],
     ['YSSY', 'SCEL'],

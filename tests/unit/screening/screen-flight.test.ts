@@ -28,7 +28,7 @@ const transatlantic = (over: Record<string, unknown> = {}) => ({
 const sum = (r: ScreeningResult, f: (s: ScreeningResult['segments'][number]) => number) =>
   r.segments.reduce((a, s) => a + f(s), 0);
 
-describe('the DESIGN.md result contract', () => {
+describe('the public result contract', () => {
   const r = screenFlight(transatlantic());
 
   it('carries every contract field', () => {
@@ -89,7 +89,7 @@ describe('the DESIGN.md result contract', () => {
   });
 });
 
-describe('cautions (DESIGN.md "Cautions shown in the product"; issue 3 item 8)', () => {
+describe('cautions shown with every result', () => {
   it('every result says: screening estimate, not certified/regulatory; gross not net; net production below 13-20 km; defer to approved methods', () => {
     const c = screenFlight(transatlantic()).cautions.join(' ');
     expect(c).toMatch(/not a certified emissions inventory/);
@@ -150,7 +150,7 @@ describe('engine certification data', () => {
   });
 });
 
-describe('fuel spread in proportion to time (SCIENCE.md s.2)', () => {
+describe('fuel spread in proportion to time', () => {
   it('fuel per km at each level is inversely proportional to Mach x ISA speed of sound', () => {
     const r = screenFlight(
       transatlantic({ cruise: { steps: [{ fromKm: 0, flightLevel: 200 }, { fromKm: 2000, flightLevel: 300 }] } }),
@@ -243,7 +243,7 @@ describe('season and tropopause source', () => {
 describe('assumption overrides', () => {
   const base = screenFlight(transatlantic());
 
-  it('the ozone figure is linear in the NOx/NOy fraction (SCIENCE.md s.5 formula)', () => {
+  it('the ozone figure is linear in the NOx/NOy fraction (screening formula)', () => {
     const doubled = screenFlight(transatlantic({ assumptions: { noxToNoyFraction: { central: 0.4, low: 0.1, high: 0.4 } } }));
     expect(doubled.ozoneLoss.centralKg / base.ozoneLoss.centralKg).toBeCloseTo(2, 9);
     expect(doubled.ozoneLoss.assumptions.noxToNoyFraction.source).toBe('given with the flight');

@@ -54,7 +54,7 @@ describe('climatological tropopause (Mateus, Mendes & Pires 2022)', () => {
   });
 
   it('converts the geometric model height to geopotential: H = r0 Z / (r0 + Z), about Z^2 / r0 lower (ICAO Doc 7488/3 r0)', () => {
-    // The model as written in SCIENCE.md s.3, annual mean, evaluated independently here.
+    // The Mateus, Mendes & Pires (2022) model, annual mean, evaluated independently here.
     const a = [8.499, 7.8229, 26.7284, -1.5804, 0.098];
     const zKm = a[0] + a[1] / Math.pow(1 + Math.exp(-(30 - a[2]) / a[3]), a[4]);
     const z = zKm * 1000;
