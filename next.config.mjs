@@ -7,6 +7,17 @@ const nextConfig = {
   experimental: { authInterrupts: true },
   outputFileTracingRoot: import.meta.dirname,
   turbopack: { root: import.meta.dirname },
+  // The JSON API, health and webhook routes skip proxy.ts (a nonce is of no use to JSON, and the proxy
+  // costs about 0.75 ms a request); they get these fixed headers instead, and the handler spine
+  // marks every /api/v1 answer no-store.
+  async headers() {
+    const api = [
+      { key: 'Content-Security-Policy', value: "default-src 'none'; frame-ancestors 'none'" },
+      { key: 'X-Content-Type-Options', value: 'nosniff' },
+      { key: 'Referrer-Policy', value: 'strict-origin-when-cross-origin' },
+    ];
+    return ['/api/v1/:path*', '/api/health', '/api/webhooks/:path*'].map((source) => ({ source, headers: api }));
+  },
 };
 
 export default nextConfig;

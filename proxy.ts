@@ -26,6 +26,7 @@ export function proxy(request: NextRequest): NextResponse {
 }
 
 export const config = {
-  // Static build assets carry no session data and need no nonce.
-  matcher: ['/((?!_next/static|_next/image|icon.svg).*)'],
+  // Static build assets carry no session data and need no nonce; the JSON API, health and webhook
+  // routes get fixed headers from next.config.mjs instead (no HTML, so no nonce to hand out).
+  matcher: ['/((?!_next/static|_next/image|icon.svg|api/v1/|api/v1$|api/health|api/webhooks/).*)'],
 };

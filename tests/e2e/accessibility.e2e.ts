@@ -192,6 +192,11 @@ describe('accessibility and CSP on the main pages', () => {
     expect(res?.headers()['cache-control']).toContain('no-store');
     const api = await page.request.get(`${BASE_URL}/api/v1/workspaces`);
     expect(api.headers()['cache-control']).toContain('no-store');
+    // The JSON API skips the proxy and gets fixed headers from next.config.mjs.
+    expect(api.headers()['x-content-type-options']).toBe('nosniff');
+    expect(api.headers()['content-security-policy']).toBe("default-src 'none'; frame-ancestors 'none'");
+    const auth = await page.request.get(`${BASE_URL}/api/auth/session`);
+    expect(auth.headers()['cache-control']).toContain('no-store');
     // next-auth's session cookie: HttpOnly, SameSite=Lax; Secure only when the app URL is https (here it is http).
     const session = (await context.cookies()).find((c) => c.name.endsWith('next-auth.session-token'));
     expect(session).toMatchObject({ httpOnly: true, sameSite: 'Lax', secure: BASE_URL.startsWith('https:') });

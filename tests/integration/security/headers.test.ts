@@ -2,7 +2,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 import { createRequire } from 'node:module';
 import path from 'node:path';
 import { NextRequest } from 'next/server';
-import { proxy } from '@/proxy';
+import { config as proxyConfig, proxy } from '@/proxy';
 import { resetEnvForTests } from '@/lib/env';
 import { contentSecurityPolicy, hasSessionCookie, wantsHsts } from '@/lib/security/headers';
 
@@ -66,6 +66,13 @@ describe('proxy security headers', () => {
     expect(proxy(req('/signin')).headers.get('strict-transport-security')).toBeNull();
     expect(wantsHsts('production', 'http://10.0.0.1', 'https')).toBe(true);
   });
+});
+
+describe('which paths the proxy runs for', () => {
+  // Next.js compiles a matcher string as a path regular expression anchored at both ends.
+  const matches = (path: string) => proxyConfig.matcher.some((m) => new RegExp(`^${m}$`).test(path));
+  it.each(['/', '/signin', '/w/skarn-polar/screen', '/api/auth/session', '/api/auth/callback/credentials', '/account'])('runs for %s', (p) => expect(matches(p)).toBe(true));
+  it.each(['/_next/static/chunks/a.js', '/icon.svg', '/api/v1/workspaces', '/api/v1/workspaces/x/screenings/preview', '/api/health', '/api/webhooks/stripe'])('skips %s', (p) => expect(matches(p)).toBe(false));
 });
 
 describe('session cookie options (next-auth defaults, not overridden)', () => {
