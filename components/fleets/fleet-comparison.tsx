@@ -22,6 +22,7 @@ import { formatDistance, formatMass, formatNumber, formatPercent } from '@/lib/f
 import { Button, ButtonLink } from '@/components/ui/button';
 import { Field, SelectInput, TextInput } from '@/components/ui/field';
 import { Card, EmptyState } from '@/components/ui/card';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 import { Notice, ScreeningCaution } from '@/components/ui/notice';
 import { FleetNoxChart } from '@/components/charts/fleet-nox-chart';
 import { FleetShareChart } from '@/components/charts/fleet-share-chart';
@@ -342,7 +343,7 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
             Widen the period or clear a filter. Flights count once their import has been screened.
           </EmptyState>
         ) : (
-          <div className="overflow-x-auto">
+          <ScrollRegion label="Fleet comparison table">
             <table className="figure w-full min-w-[760px] text-sm">
               <thead className="border-b border-line-strong text-left text-xs uppercase tracking-wide text-ink-soft">
                 <tr>
@@ -413,7 +414,7 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
               <li>{data.notes.ozone}</li>
               <li>NOx is NO2-equivalent mass. Screened flights only; a flight counts in the fleet named in its schedule row, else in its aircraft type&apos;s default fleet.</li>
             </ul>
-          </div>
+          </ScrollRegion>
         )}
         <div className="mt-4">
           <ScreeningCaution />

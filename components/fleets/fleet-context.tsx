@@ -1,3 +1,4 @@
+import { ScrollRegion } from '@/components/ui/scroll-region';
 import type { UnitSystem } from '@/db/users';
 import type { FleetComparison } from '@/lib/fleets/types';
 import { formatMass } from '@/lib/format';
@@ -15,7 +16,7 @@ export function FleetContext({ context, cautions, units }: { context: FleetCompa
   return (
     <Card title="Fleet-scale context">
       <p className="text-sm text-ink-soft">{context.method}</p>
-      <div className="mt-4 overflow-x-auto">
+      <ScrollRegion label="Fleet-scale context table" className="mt-4">
         <table className="figure w-full min-w-[680px] text-sm">
           <thead className="border-b border-line-strong text-left text-xs uppercase tracking-wide text-ink-soft">
             <tr>
@@ -59,7 +60,7 @@ export function FleetContext({ context, cautions, units }: { context: FleetCompa
             ))}
           </tbody>
         </table>
-      </div>
+      </ScrollRegion>
       <p className="mt-3 text-xs text-ink-soft">
         Sources: {context.total.studies.map((s) => s.citation).join('; ')}. These are fleet-scale model results scaled linearly, not a property of these flights; check each
         study&apos;s NOx mass basis before quoting a figure.

@@ -82,7 +82,9 @@ describe('sign up', () => {
     await page.getByRole('button', { name: 'Create account' }).click();
     await page.waitForURL('**/w/aurora-test-air', { timeout: 20_000 });
     await page.goto('/w/aurora-test-air/settings/members');
-    await page.getByRole('cell', { name: new RegExp(email) }).waitFor();
+    const row = page.getByRole('row').filter({ hasText: email });
+    await row.first().waitFor();
+    await expect(row.first().getByRole('combobox').inputValue()).resolves.toBe('owner');
     await context.close();
   });
 });

@@ -190,7 +190,7 @@ export default async function BillingPage({ params }: { params: Promise<{ worksp
         ) : null}
 
         <Card title="Invoices">
-          <Suspense fallback={<div className="h-24 animate-pulse rounded bg-paper-sunk" aria-label="Loading invoices" />}>
+          <Suspense fallback={<div className="h-24 animate-pulse rounded bg-paper-sunk" role="status" aria-label="Loading invoices" />}>
             <InvoiceList slug={slug} billing={billing} />
           </Suspense>
         </Card>
