@@ -5,6 +5,7 @@ import { can, type Permission, type Role } from './policy';
 import { getMembership, type WorkspaceDto } from '@/db/workspaces';
 import { AppError, forbidden as forbiddenError, notFound as notFoundError, unauthenticated } from '@/lib/errors';
 import { assertSameOrigin } from './origin';
+import { log } from '@/lib/log';
 
 export interface MemberContext {
   user: SessionUser;
@@ -42,8 +43,14 @@ export async function requireActionUser(): Promise<SessionUser> {
 export async function requireActionMember(slug: string, permission: Permission): Promise<MemberContext> {
   const user = await requireActionUser();
   const m = await getMembership({ userId: user.id, slug });
-  if (!m) throw notFoundError();
-  if (!can(m.role, permission)) throw forbiddenError();
+  if (!m) {
+    log.warn({ event: 'authz.not_member', via: 'action', userId: user.id, workspace: slug }, 'not a member');
+    throw notFoundError();
+  }
+  if (!can(m.role, permission)) {
+    log.warn({ event: 'authz.denied', via: 'action', userId: user.id, permission, role: m.role, workspace: slug }, 'permission denied');
+    throw forbiddenError();
+  }
   return { user, workspace: m.workspace, role: m.role };
 }
 

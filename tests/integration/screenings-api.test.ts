@@ -9,7 +9,7 @@ import * as atmosphereRoute from '@/app/api/v1/atmosphere/route';
 import * as tropopauseRoute from '@/app/api/v1/tropopause/route';
 import * as airportsRoute from '@/app/api/v1/airports/route';
 import * as openapiRoute from '@/app/api/v1/openapi.json/route';
-import { db } from '@/db/client';
+import { db, insertId } from '@/db/client';
 import { createApiKey } from '@/db/api-keys';
 
 useTestDatabase();
@@ -58,10 +58,14 @@ describe('POST /workspaces/{slug}/screenings', () => {
   it('an aircraft type of the workspace supplies emission and Mach', async () => {
     const ws = await makeWorkspace();
     const now = new Date().toISOString();
-    const [engineId] = await db()('engines').insert({
-      workspace_id: ws.id, name: 'E', ff_idle_kg_s: 0.1, ff_approach_kg_s: 0.3, ff_climb_out_kg_s: 0.9, ff_take_off_kg_s: 1.1,
-      ei_idle_g_kg: 5, ei_approach_g_kg: 11, ei_climb_out_g_kg: 23, ei_take_off_g_kg: 30, created_at: now, updated_at: now,
-    });
+    const engineId = await insertId(
+      db()('engines')
+        .insert({
+          workspace_id: ws.id, name: 'E', ff_idle_kg_s: 0.1, ff_approach_kg_s: 0.3, ff_climb_out_kg_s: 0.9, ff_take_off_kg_s: 1.1,
+          ei_idle_g_kg: 5, ei_approach_g_kg: 11, ei_climb_out_g_kg: 23, ei_take_off_g_kg: 30, created_at: now, updated_at: now,
+        })
+        .returning('id'),
+    );
     await db()('aircraft_types').insert({ workspace_id: ws.id, code: 'T-1', engine_id: engineId, engine_count: 2, typical_mach: 0.82, typical_flight_level: 370, created_at: now, updated_at: now });
     const { emission: _e, ...noEmission } = FLIGHT;
     const r = await call<Saved & { aircraft: string; result: { eiMethod: string } }>(screeningsRoute.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings`, { cookie: await sessionCookie(ws.owner.id), body: { ...noEmission, aircraft: 't-1' } }), { slug: ws.slug });

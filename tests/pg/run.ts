@@ -14,22 +14,6 @@ import path from 'node:path';
 
 const ROOT = process.cwd();
 
-/**
- * Tests that cannot yet run on PostgreSQL, each with the reason and the fix its owner needs to make.
- * They are listed on every run; remove a line once the test is portable.
- */
-const NOT_YET_PORTABLE_FILES: Record<string, string> = {
-  'tests/integration/imports/imports-api.test.ts': 'fixtures in tests/integration/imports/support.ts read ids as `const [id] = await db()(t).insert(...)`; on PostgreSQL add `.returning(\'id\')` (insertId from db/client.ts)',
-  'tests/integration/imports/crash-and-volume.test.ts': 'same fixtures (tests/integration/imports/support.ts)',
-};
-const NOT_YET_PORTABLE_TESTS: Record<string, string> = {
-  'SQLite connection settings': 'checks SQLite pragmas; should be skipped on PostgreSQL (onPostgres() from tests/support/test-db.ts)',
-  'an aircraft type of the workspace supplies emission and Mach': 'tests/integration/screenings-api.test.ts inserts an engine with `const [engineId] = await ...insert()`; add .returning(\'id\')',
-  '201 with an engine and a default fleet': 'tests/integration/library/engines-api.test.ts: insert without .returning(\'id\')',
-  '422 by field: neither engine nor EI': 'tests/integration/library/engines-api.test.ts: insert without .returning(\'id\')',
-};
-const escapeRegex = (t: string) => t.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
-
 function freePort(): Promise<number> {
   return new Promise((resolve, reject) => {
     const srv = net.createServer();
@@ -95,11 +79,7 @@ async function main(): Promise<number> {
     knex(migEnv, 'migrate:latest');
     knex({ ...migEnv, DEMO_TODAY: '2026-11-20' }, 'seed:run');
     const args = process.argv.slice(2);
-    for (const [f, why] of Object.entries(NOT_YET_PORTABLE_FILES)) console.warn(`[pg] NOT YET PORTABLE, skipped: ${f}: ${why}`);
-    for (const [t, why] of Object.entries(NOT_YET_PORTABLE_TESTS)) console.warn(`[pg] NOT YET PORTABLE, skipped: "${t}": ${why}`);
-    const skipFiles = Object.keys(NOT_YET_PORTABLE_FILES).flatMap((f) => ['--exclude', f]);
-    const skipTests = ['-t', `^(?!.*(${Object.keys(NOT_YET_PORTABLE_TESTS).map(escapeRegex).join('|')}))`];
-    const r = spawnSync(process.execPath, ['node_modules/vitest/vitest.mjs', 'run', '--project', 'integration', ...skipFiles, ...skipTests, ...args], {
+    const r = spawnSync(process.execPath, ['node_modules/vitest/vitest.mjs', 'run', '--project', 'integration', ...args], {
       cwd: ROOT,
       env: { ...process.env, TEST_PG_ADMIN_URL: admin, DATABASE_URL: '' },
       stdio: 'inherit',

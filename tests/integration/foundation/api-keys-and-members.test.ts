@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { apiRequest, call, makeUser, makeWorkspace, sessionCookie, useTestDatabase } from '../../support/test-db';
+import { apiRequest, call, makeUser, makeWorkspace, onPostgres, sessionCookie, useTestDatabase } from '../../support/test-db';
 import * as keysRoute from '@/app/api/v1/workspaces/[slug]/api-keys/route';
 import * as keyRoute from '@/app/api/v1/workspaces/[slug]/api-keys/[id]/route';
 import * as workspacesRoute from '@/app/api/v1/workspaces/route';
@@ -137,7 +137,7 @@ describe('sessions', () => {
   });
 });
 
-describe('SQLite connection settings', () => {
+describe.skipIf(onPostgres())('SQLite connection settings', () => {
   it('runs with WAL, FULL sync, foreign keys and a busy timeout', async () => {
     const pragma = async (name: string) => Object.values((await db().raw(`PRAGMA ${name}`))[0] as Record<string, unknown>)[0];
     expect(await pragma('journal_mode')).toBe('wal');

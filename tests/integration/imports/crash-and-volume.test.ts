@@ -1,6 +1,6 @@
 import { spawn } from 'node:child_process';
 import { describe, expect, it } from 'vitest';
-import { call, makeWorkspace, sessionCookie, useTestDatabase } from '../../support/test-db';
+import { call, makeWorkspace, onPostgres, sessionCookie, useTestDatabase } from '../../support/test-db';
 import * as importsRoute from '@/app/api/v1/workspaces/[slug]/imports/route';
 import { db } from '@/db/client';
 import { runImportsToCompletion } from '@/lib/imports/worker';
@@ -37,7 +37,9 @@ describe('import worker', () => {
     expect(Number(all.n)).toBe(10_000);
   }, 120_000);
 
-  it('a worker killed mid-screening (SIGKILL) loses and doubles nothing; the next one resumes and completes', async () => {
+  // The kill is timed against progress on the SQLite file and ends with SQLite's integrity check, so it
+  // runs on SQLite only (on PostgreSQL the worker finishes before the kill lands).
+  it.skipIf(onPostgres())('a worker killed mid-screening (SIGKILL) loses and doubles nothing; the next one resumes and completes', async () => {
     const { importId } = await upload(4000, 'C');
     const child = spawn(process.execPath, ['--conditions=react-server', '--import', 'tsx', 'tests/integration/imports/worker-child.ts', '100'], {
       cwd: process.cwd(),

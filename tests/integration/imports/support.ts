@@ -1,4 +1,4 @@
-import { db } from '@/db/client';
+import { db, insertId } from '@/db/client';
 import { TEST_ORIGIN } from '../../support/test-db';
 
 /** An invented engine (plausible certification-style values, not a real engine) for the test types. */
@@ -16,9 +16,9 @@ const ENGINE = {
 /** Gives a workspace two fleets, an engine-backed type T-LR (fleet "Long haul") and a direct-EI type T-SST. */
 export async function addScheduleLibrary(workspaceId: number): Promise<{ longHaulFleetId: number; studyFleetId: number }> {
   const now = new Date().toISOString();
-  const [engineId] = await db()('engines').insert({ workspace_id: workspaceId, name: 'Test turbofan', ...ENGINE, created_at: now, updated_at: now });
-  const [longHaulFleetId] = await db()('fleets').insert({ workspace_id: workspaceId, name: 'Long haul', created_at: now });
-  const [studyFleetId] = await db()('fleets').insert({ workspace_id: workspaceId, name: 'Study', created_at: now });
+  const engineId = await insertId(db()('engines').insert({ workspace_id: workspaceId, name: 'Test turbofan', ...ENGINE, created_at: now, updated_at: now }).returning('id'));
+  const longHaulFleetId = await insertId(db()('fleets').insert({ workspace_id: workspaceId, name: 'Long haul', created_at: now }).returning('id'));
+  const studyFleetId = await insertId(db()('fleets').insert({ workspace_id: workspaceId, name: 'Study', created_at: now }).returning('id'));
   await db()('aircraft_types').insert([
     { workspace_id: workspaceId, code: 'T-LR', engine_id: engineId, engine_count: 2, typical_mach: 0.84, typical_flight_level: 370, default_fleet_id: longHaulFleetId, created_at: now, updated_at: now },
     { workspace_id: workspaceId, code: 'T-SST', engine_id: null, engine_count: 4, typical_mach: 1.7, typical_flight_level: 580, direct_ei_g_kg: 11.5, default_fleet_id: studyFleetId, created_at: now, updated_at: now },

@@ -6,7 +6,7 @@ import * as engineRoute from '@/app/api/v1/workspaces/[slug]/engines/[id]/route'
 import * as importRoute from '@/app/api/v1/workspaces/[slug]/engines/import/route';
 import * as typesRoute from '@/app/api/v1/workspaces/[slug]/aircraft-types/route';
 import * as typeRoute from '@/app/api/v1/workspaces/[slug]/aircraft-types/[id]/route';
-import { db } from '@/db/client';
+import { db, insertId } from '@/db/client';
 import { engineCsvTemplate } from '@/lib/imports/engines-csv';
 
 useTestDatabase();
@@ -189,7 +189,7 @@ describe('aircraft types API', () => {
     const ws = await makeWorkspace(['planner']);
     const cookie = await sessionCookie(ws.members.planner.id);
     const e = await postEngine(ws.slug, cookie, ENGINE);
-    const [fleetId] = await db()('fleets').insert({ workspace_id: ws.id, name: 'Long-haul', created_at: new Date().toISOString() });
+    const fleetId = await insertId(db()('fleets').insert({ workspace_id: ws.id, name: 'Long-haul', created_at: new Date().toISOString() }).returning('id'));
     const t = await postType(ws.slug, cookie, { code: 'lr-9', name: 'Long-range', engineId: e.body.id, engineCount: 2, typicalMach: 0.84, typicalFlightLevel: 390, defaultFleetId: Number(fleetId) });
     expect(t.status).toBe(201);
     expect(t.body).toMatchObject({ code: 'LR-9', engineName: 'Test turbofan', defaultFleetName: 'Long-haul', directEiGPerKg: null });
@@ -213,7 +213,7 @@ describe('aircraft types API', () => {
     const ranges = await postType(ws.slug, cookie, { code: 'a b', directEiGPerKg: 250, engineCount: 9, typicalMach: 0, typicalFlightLevel: 355.5 });
     expect(ranges.body.error?.fields?.map((f) => f.path).sort()).toEqual(['code', 'directEiGPerKg', 'engineCount', 'typicalFlightLevel', 'typicalMach']);
     const theirs = await postEngine(other.slug, await sessionCookie(other.owner.id), ENGINE);
-    const [theirFleet] = await db()('fleets').insert({ workspace_id: other.id, name: 'Theirs', created_at: new Date().toISOString() });
+    const theirFleet = await insertId(db()('fleets').insert({ workspace_id: other.id, name: 'Theirs', created_at: new Date().toISOString() }).returning('id'));
     const foreign = await postType(ws.slug, cookie, { code: 'A1', engineId: theirs.body.id, engineCount: 2, typicalMach: 0.8, typicalFlightLevel: 350, defaultFleetId: Number(theirFleet) });
     expect(foreign.status).toBe(422);
     expect(foreign.body.error?.fields?.map((f) => f.path)).toEqual(['engineId', 'defaultFleetId']);
