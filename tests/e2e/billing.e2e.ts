@@ -185,7 +185,9 @@ describe('owner of a new workspace: trial, subscribe, a declined card and its re
     await page.getByLabel('Card on file').selectOption({ label: 'Test card that is declined' });
     await page.getByRole('radio', { name: /Crew/ }).check();
     await page.getByRole('button', { name: 'Subscribe to Crew' }).click();
-    await page.getByRole('status').filter({ hasText: 'Subscribed to Crew' }).waitFor();
+    // The action's confirmation and the refreshed page's notice both say so; the refresh can replace the
+    // form (and its confirmation) before the confirmation is seen.
+    await page.getByText(/Subscribed to Crew/).first().waitFor();
     await page.getByRole('heading', { name: 'Change plan' }).waitFor();
 
     // Close the free trial ($0), then a paid period with two screened flights on the declined card.
