@@ -1,5 +1,6 @@
 import Form from 'next/form';
 import Link from 'next/link';
+import { PagerLinks } from '@/components/ui/pager-links';
 import { requireMember } from '@/lib/auth/guards';
 import { can } from '@/lib/auth/policy';
 import { listFlightFilterOptions, listFlights, summariseFlights, type FlightFilters } from '@/db/flights';
@@ -170,18 +171,7 @@ export default async function FlightsPage({ params, searchParams }: { params: Pr
               <p className="text-ink-soft">
                 {formatNumber(page.items.length)} of {formatNumber(totals.flights)} flight{totals.flights === 1 ? '' : 's'} on this page. The ozone figure is a gross catalytic loss, not a net column change.
               </p>
-              <div className="flex gap-2">
-                {newerHref ? (
-                  <Link href={newerHref} className={buttonClass('secondary')}>
-                    Newer
-                  </Link>
-                ) : null}
-                {olderHref ? (
-                  <Link href={olderHref} className={buttonClass('secondary')}>
-                    Older
-                  </Link>
-                ) : null}
-              </div>
+              <PagerLinks newerHref={newerHref} olderHref={olderHref} />
             </div>
           </Card>
         </>

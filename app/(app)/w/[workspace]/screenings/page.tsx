@@ -1,6 +1,7 @@
 import { Suspense } from 'react';
 import Form from 'next/form';
 import Link from 'next/link';
+import { PagerLinks } from '@/components/ui/pager-links';
 import { requireMember } from '@/lib/auth/guards';
 import { can } from '@/lib/auth/policy';
 import { listScreenings, type ScreeningFilters } from '@/db/screenings';
@@ -218,18 +219,7 @@ async function HistoryResults({
             <p className="text-ink-soft">
               {rows.length} screening{rows.length === 1 ? '' : 's'} on this page{one(search.sort) ? '; sorting orders this page' : ''}.
             </p>
-            <div className="flex gap-2">
-              {newerHref ? (
-                <Link href={newerHref} className={buttonClass('secondary')}>
-                  Newer
-                </Link>
-              ) : null}
-              {olderHref ? (
-                <Link href={olderHref} className={buttonClass('secondary')}>
-                  Older
-                </Link>
-              ) : null}
-            </div>
+            <PagerLinks newerHref={newerHref} olderHref={olderHref} />
           </div>
         </Card>
       )}
