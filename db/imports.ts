@@ -4,7 +4,7 @@ import { db, insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
 import { assertBillingAllows } from '@/lib/billing/gate';
 import { AppError, notFound } from '@/lib/errors';
-import type { ScreeningResult } from '@/lib/screening';
+import type { ScreeningTotals } from '@/lib/screening';
 import type { ImportProblem, ImportStatus } from '@/lib/validation/imports';
 import { screeningInputOf, type PreparedFlight } from '@/lib/imports/schedule';
 
@@ -238,7 +238,7 @@ export interface FlightFigures {
   engineVersion: string;
 }
 
-export function figuresOf(r: ScreeningResult): FlightFigures {
+export function figuresOf(r: ScreeningTotals): FlightFigures {
   return {
     distanceKm: r.distanceKm,
     noxTotalKg: r.noxTotalKg,

@@ -1,6 +1,6 @@
 import 'server-only';
 import { setImmediate as yieldToEventLoop } from 'node:timers/promises';
-import { screenValidated, ScreeningInputError, type ScreeningInput } from '@/lib/screening';
+import { screenTotals, ScreeningInputError, type ScreeningInput } from '@/lib/screening';
 import { claimImport, failImport, finishImport, figuresOf, listActiveImports, listPendingFlights, saveScreenedChunk, type ScreenedOutcome } from '@/db/imports';
 import { log } from '@/lib/log';
 
@@ -65,7 +65,7 @@ function screenChunk(pending: Awaited<ReturnType<typeof listPendingFlights>>): S
     try {
       const input = JSON.parse(p.inputJson) as ScreeningInput;
       // Only the summary figures leave this function: the full result (its segments) dies young.
-      return { id: p.id, workspaceId: p.workspaceId, line: p.line, figures: figuresOf(screenValidated(input)) };
+      return { id: p.id, workspaceId: p.workspaceId, line: p.line, figures: figuresOf(screenTotals(input)) };
     } catch (err) {
       return { id: p.id, workspaceId: p.workspaceId, line: p.line, error: reasonOf(err) };
     }

@@ -2,7 +2,7 @@
  * What-if cruise levels: the same flight screened at other levels with a fuel penalty for leaving
  * the planned level, and the lowest-impact level within the planner's limit marked.
  */
-import { screenValidated } from './screen-flight';
+import { screenTotals, type ScreeningTotals } from './screen-flight';
 import { validateCompareOptions, validateScreeningInput } from './validate';
 import { SCREENING_LIMITS, type ScreeningInput } from '../validation/screening';
 
@@ -50,10 +50,15 @@ export function compareCruiseLevels(
   return compareValidated(base, opts);
 }
 
-/** As `compareCruiseLevels` for an already-validated input and options. */
+/**
+ * As `compareCruiseLevels` for an already-validated input and options. `planned`, when given, is
+ * the screening of `base` itself (for example the result shown beside the rows) and stands in for
+ * the unshifted level instead of screening it again.
+ */
 export function compareValidated(
   base: ScreeningInput,
   opts: { deltasFt?: readonly number[]; fuelPenaltyPctPer1000Ft?: number; maxFuelPenaltyPct?: number },
+  planned?: ScreeningTotals,
 ): CruiseLevelRow[] {
   const deltas = [...new Set(opts.deltasFt ?? DEFAULT_LEVEL_DELTAS_FT)].sort((a, b) => a - b);
   const perK = opts.fuelPenaltyPctPer1000Ft ?? DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT;
@@ -68,11 +73,14 @@ export function compareValidated(
     }
     const fuelPenaltyPct = (perK * Math.abs(deltaFt)) / 1000;
     const fuelKg = base.fuelBurnKg * (1 + fuelPenaltyPct / 100);
-    const r = screenValidated({
-      ...base,
-      cruise: 'steps' in base.cruise ? { steps: shifted } : { flightLevel: shifted[0].flightLevel },
-      fuelBurnKg: fuelKg,
-    });
+    const r =
+      deltaFt === 0 && planned !== undefined
+        ? planned
+        : screenTotals({
+            ...base,
+            cruise: 'steps' in base.cruise ? { steps: shifted } : { flightLevel: shifted[0].flightLevel },
+            fuelBurnKg: fuelKg,
+          });
     rows.push({
       flightLevel: shifted[0].flightLevel,
       flightLevels: shifted.map((s) => s.flightLevel),

@@ -47,9 +47,11 @@ export { routeDistanceKm, MAX_SEGMENT_KM } from './route';
 export {
   screenFlight,
   screenValidated,
+  screenTotals,
   ENGINE_VERSION,
   DEFAULT_MACH,
   type ScreeningResult,
+  type ScreeningTotals,
   type ScreeningSegment,
   type ScreeningLevel,
   type OzoneLoss,
@@ -65,6 +67,6 @@ export {
   DEFAULT_MAX_FUEL_PENALTY_PCT,
   type CruiseLevelRow,
 } from './compare-levels';
-export { validateScreeningInput, problemsFromZod } from './validate';
+export { validateScreeningInput, validateCompareOptions, problemsFromZod } from './validate';
 export { ScreeningInputError } from './errors';
 export type { ScreeningInput, ScreeningInputRaw, FieldProblem } from '../validation/screening';

@@ -340,12 +340,38 @@ function fmt(x: number, digits = 0): string {
 }
 
 /**
+ * The figures of a screening without its per-segment and descriptive parts: what a what-if level
+ * row or an imported flight keeps. Equal to the same fields of `screenValidated` for the same input.
+ */
+export interface ScreeningTotals {
+  engineVersion: string;
+  distanceKm: number;
+  fuelKg: number;
+  noxTotalKg: number;
+  noxAboveTropopauseKg: number;
+  fractionAboveTropopause: number;
+  meanDepthAboveTropopauseKm: number;
+  ozoneLoss: Pick<OzoneLoss, 'centralKg' | 'lowKg' | 'highKg' | 'o3PerNox' | 'chainLength'>;
+}
+
+/**
  * Screens one flight from an already-validated input (the output of `validateScreeningInput` or
  * `screeningInputSchema.parse`), skipping schema validation. Throws ScreeningInputError only for
  * what the schema cannot know: unknown airports, a route with no length or antipodal legs, and a
  * sounding whose levels contradict each other.
  */
 export function screenValidated(input: ScreeningInput): ScreeningResult {
+  return screenCore(input, true);
+}
+
+/** As `screenValidated`, returning only the totals: no segments, texts, local budget or fleet context. */
+export function screenTotals(input: ScreeningInput): ScreeningTotals {
+  return screenCore(input, false);
+}
+
+function screenCore(input: ScreeningInput, full: true): ScreeningResult;
+function screenCore(input: ScreeningInput, full: false): ScreeningTotals;
+function screenCore(input: ScreeningInput, full: boolean): ScreeningResult | ScreeningTotals {
   const cautions: string[] = BASE_CAUTIONS.slice();
   const { lat: wLat, lon: wLon } = resolveWaypoints(input.route.waypoints);
   const plan = planRoute(wLat, wLon);
@@ -582,7 +608,7 @@ export function screenValidated(input: ScreeningInput): ScreeningResult {
             level.noxAboveBySlot[slot] += nox;
             slotsUsed |= 1 << slot;
           }
-          segments.push({
+          if (full) segments.push({
             startKm: a,
             endKm: e,
             lat,
@@ -605,6 +631,29 @@ export function screenValidated(input: ScreeningInput): ScreeningResult {
         }
       }
     }
+  }
+
+  const noxAboveMolecules = noxMolecules(noxAbove);
+  const ozoneFigures: ScreeningTotals['ozoneLoss'] = {
+    centralKg: ozoneKg(o3Central),
+    lowKg: ozoneKg(o3Low),
+    highKg: ozoneKg(o3High),
+    o3PerNox: noxAboveMolecules > 0 ? o3Central / noxAboveMolecules : 0,
+    chainLength: noxAbove > 0 ? chainNox / noxAbove : 0,
+  };
+  const fractionAbove = noxTotal > 0 ? Math.min(1, noxAbove / noxTotal) : 0;
+  const meanDepth = noxAbove > 0 ? depthNox / noxAbove : 0;
+  if (!full) {
+    return {
+      engineVersion: ENGINE_VERSION,
+      distanceKm: totalKm,
+      fuelKg: input.fuelBurnKg,
+      noxTotalKg: noxTotal,
+      noxAboveTropopauseKg: noxAbove,
+      fractionAboveTropopause: fractionAbove,
+      meanDepthAboveTropopauseKm: meanDepth,
+      ozoneLoss: ozoneFigures,
+    };
   }
 
   // Local budget at the level and profile carrying the most NOx above the tropopause (else the
@@ -649,7 +698,6 @@ export function screenValidated(input: ScreeningInput): ScreeningResult {
     levels.map((l) => ({ geometricAltitudeKm: l.isa.geometricKm, noxKgPerYear: l.noxAboveKg * 365 })),
   );
 
-  const noxAboveMolecules = noxMolecules(noxAbove);
   let fuelB = 0;
   let fuelBN = 0;
   let fuelDN = 0;
@@ -702,8 +750,8 @@ export function screenValidated(input: ScreeningInput): ScreeningResult {
     noxTotalKg: noxTotal,
     noxAboveTropopauseKg: noxAbove,
     noxAboveTropopauseKgN: (noxAbove * MOLAR_MASS_N) / MOLAR_MASS_NO2,
-    fractionAboveTropopause: noxTotal > 0 ? Math.min(1, noxAbove / noxTotal) : 0,
-    meanDepthAboveTropopauseKm: noxAbove > 0 ? depthNox / noxAbove : 0,
+    fractionAboveTropopause: fractionAbove,
+    meanDepthAboveTropopauseKm: meanDepth,
     eiMethod,
     meanCruiseEiNoxGPerKg: (noxTotal * 1000) / fuelKg,
     month,
@@ -718,11 +766,7 @@ export function screenValidated(input: ScreeningInput): ScreeningResult {
     tropopauseSource: tpSource,
     levels: levelRows,
     ozoneLoss: {
-      centralKg: ozoneKg(o3Central),
-      lowKg: ozoneKg(o3Low),
-      highKg: ozoneKg(o3High),
-      o3PerNox: noxAboveMolecules > 0 ? o3Central / noxAboveMolecules : 0,
-      chainLength: noxAbove > 0 ? chainNox / noxAbove : 0,
+      ...ozoneFigures,
       assumptions: describeAssumptions(input.assumptions, inputs, slotsUsed),
       localBudget,
       fleetContext: {

@@ -1,10 +1,11 @@
 import 'server-only';
 import { z } from 'zod';
 import {
-  compareCruiseLevels,
+  compareValidated,
   screenValidated,
   ScreeningInputError,
   validateScreeningInput,
+  validateCompareOptions,
   type CruiseLevelRow,
   type ScreeningInput,
   type ScreeningResult,
@@ -71,13 +72,17 @@ export function runScreening(input: ScreeningInput): ScreeningResult {
   return screenValidated(input);
 }
 
-export function runWhatIf(input: ScreeningInput, whatIf: unknown): CruiseLevelRow[] {
+/**
+ * The what-if levels of an input `parseScreeningBody` validated; `planned` is that input's own
+ * screening when the caller already has it (it then is not screened again).
+ */
+export function runWhatIf(input: ScreeningInput, whatIf: unknown, planned?: ScreeningResult): CruiseLevelRow[] {
   const options = whatIf === undefined ? {} : whatIf;
   if (typeof options !== 'object' || options === null || Array.isArray(options)) {
     throw invalidFields([{ path: 'whatIf', message: 'whatIf must be an object { deltasFt?, fuelPenaltyPctPer1000Ft?, maxFuelPenaltyPct? }.' }]);
   }
   try {
-    return compareCruiseLevels(input, options as Record<string, number[] | number>);
+    return compareValidated(input, validateCompareOptions(options), planned);
   } catch (err) {
     if (err instanceof ScreeningInputError) {
       throw invalidFields(err.fields.map((f) => ({ path: f.path.replace(/^options\b/, 'whatIf'), message: f.message })));

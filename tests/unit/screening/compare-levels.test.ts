@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { ScreeningInputError, compareCruiseLevels, screenFlight } from '@/lib/screening';
+import { ScreeningInputError, compareCruiseLevels, compareValidated, screenFlight, validateScreeningInput } from '@/lib/screening';
 
 const flight = (cruise: unknown = { flightLevel: 350 }) => ({
   route: { waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] },
@@ -28,6 +28,18 @@ describe('compareCruiseLevels', () => {
     const r = screenFlight(flight());
     expect(planned.noxAboveTropopauseKg).toBe(r.noxAboveTropopauseKg);
     expect(planned.ozoneLoss.centralKg).toBe(r.ozoneLoss.centralKg);
+  });
+
+  it('given the planned screening, uses it for the unshifted row and gives the same rows as without it', () => {
+    const input = validateScreeningInput(flight({ steps: [{ fromKm: 0, flightLevel: 340 }, { fromKm: 2500, flightLevel: 380 }] }));
+    const planned = screenFlight(flight({ steps: [{ fromKm: 0, flightLevel: 340 }, { fromKm: 2500, flightLevel: 380 }] }));
+    const alone = compareValidated(input, {});
+    expect(compareValidated(input, {}, planned)).toEqual(alone);
+    // The planned screening really is what the unshifted row reads: a different one shows through.
+    const other = { ...planned, noxAboveTropopauseKg: planned.noxAboveTropopauseKg + 1 };
+    const rows = compareValidated(input, {}, other);
+    expect(rows.find((r) => r.deltaFt === 0)!.noxAboveTropopauseKg).toBe(planned.noxAboveTropopauseKg + 1);
+    expect(rows.find((r) => r.deltaFt === 2000)!.noxAboveTropopauseKg).toBe(alone.find((r) => r.deltaFt === 2000)!.noxAboveTropopauseKg);
   });
 
   it('marks exactly one lowest-impact row, within the limit, with the least central ozone figure', () => {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { ScreeningInputError, screenFlight } from '@/lib/screening';
+import { ScreeningInputError, screenFlight, screenTotals, validateScreeningInput } from '@/lib/screening';
 
 const coord = fc.record({
   lat: fc.double({ min: -85, max: 85, noNaN: true }),
@@ -38,6 +38,53 @@ const toInput = (f: DirectFlight) => ({
 });
 
 describe('engine properties (fast-check)', () => {
+  it('screenTotals gives exactly the totals of the full screening (direct EI, engine data, step climbs, soundings)', () => {
+    // Invented certification-style curve (four LTO points), not a real engine.
+    const engine = { fuelFlowKgS: [0.11, 0.33, 0.99, 1.21], eiNoxGPerKg: [4.6, 10.0, 22.5, 28.8] };
+    const emission = fc.oneof(
+      fc.record({ eiNoxGPerKg: fc.double({ min: 0, max: 200, noNaN: true }) }),
+      fc.record({ engine: fc.constant(engine), engineCount: fc.integer({ min: 1, max: 4 }), method: fc.constantFrom('bffm2', 'dlr') }),
+    );
+    const cruise = fc.oneof(
+      fc.record({ flightLevel: fc.integer({ min: 0, max: 660 }) }),
+      fc.tuple(fc.integer({ min: 250, max: 450 }), fc.integer({ min: 1, max: 3000 }), fc.integer({ min: 10, max: 80 })).map(([fl, km, up]) => ({
+        steps: [
+          { fromKm: 0, flightLevel: fl },
+          { fromKm: km, flightLevel: fl + up },
+        ],
+      })),
+    );
+    const tropopause = fc.oneof(
+      fc.constant(undefined),
+      fc.record({ altitudeM: fc.integer({ min: 6000, max: 18000 }) }),
+    );
+    fc.assert(
+      fc.property(directFlight, emission, cruise, tropopause, (f, em, cr, tp) => {
+        const raw = { ...toInput(f), emission: em, cruise: cr, ...(tp ? { tropopause: tp } : {}) };
+        const full = screenOrNull(raw);
+        if (full === null) return;
+        const t = screenTotals(validateScreeningInput(raw));
+        expect(t).toEqual({
+          engineVersion: full.engineVersion,
+          distanceKm: full.distanceKm,
+          fuelKg: full.fuelKg,
+          noxTotalKg: full.noxTotalKg,
+          noxAboveTropopauseKg: full.noxAboveTropopauseKg,
+          fractionAboveTropopause: full.fractionAboveTropopause,
+          meanDepthAboveTropopauseKm: full.meanDepthAboveTropopauseKm,
+          ozoneLoss: {
+            centralKg: full.ozoneLoss.centralKg,
+            lowKg: full.ozoneLoss.lowKg,
+            highKg: full.ozoneLoss.highKg,
+            o3PerNox: full.ozoneLoss.o3PerNox,
+            chainLength: full.ozoneLoss.chainLength,
+          },
+        });
+      }),
+      { numRuns: 150 },
+    );
+  });
+
   it('NOx = fuel x EI for a direct EI; segments sum to the totals; fraction in [0, 1]', () => {
     fc.assert(
       fc.property(directFlight, (f) => {

@@ -9,6 +9,6 @@ export const POST = workspaceRoute<{ slug: string }>('screenings:create', async 
   const raw = await readJson(req, z.unknown());
   const parsed = await parseScreeningBody(raw, { workspaceId: member.workspace.id });
   const result = runScreening(parsed.input);
-  const levels = runWhatIf(parsed.input, parsed.whatIf);
+  const levels = runWhatIf(parsed.input, parsed.whatIf, result);
   return json({ input: parsed.input, aircraft: parsed.aircraftCode, result, levels });
 });
