@@ -167,6 +167,27 @@ export async function recordReportSend(
   return found;
 }
 
+/** Deletes a stored report with its files and e-mail history; the audit log keeps that it existed. */
+export async function deleteReport(scope: { workspaceId: number }, id: number, by: { userId: number | null; actor: string }): Promise<void> {
+  await writeTx(async (trx) => {
+    const report = await trx('reports').where({ workspace_id: scope.workspaceId, id }).first('id', 'name', 'period_from', 'period_to');
+    if (!report) throw notFound('No report with that id in this workspace.');
+    const sends = await trx('report_sends').where({ report_id: id }).delete();
+    await trx('reports').where({ workspace_id: scope.workspaceId, id }).delete();
+    await createAuditEntry(
+      {
+        workspaceId: scope.workspaceId,
+        userId: by.userId,
+        actor: by.actor,
+        action: 'report.delete',
+        target: `report:${id}`,
+        detail: { name: report.name, period: `${report.period_from} to ${report.period_to}`, sends },
+      },
+      trx,
+    );
+  });
+}
+
 export async function listReportSends(scope: { workspaceId: number }, reportId: number): Promise<ReportSendDto[]> {
   const rows = (await db()('report_sends as s')
     .join('reports as r', 'r.id', 's.report_id')

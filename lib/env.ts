@@ -32,6 +32,7 @@ const envSchema = z.object({
   STRIPE_WEBHOOK_SECRET: z.string().default('whsec_tropopass_local_fake'),
   RATE_LIMIT_SIGNIN_PER_15MIN: int(10),
   RATE_LIMIT_EMAIL_PER_HOUR: int(5),
+  RATE_LIMIT_REPORT_SENDS_PER_HOUR: int(20),
   RATE_LIMIT_PREVIEW_PER_MIN: int(120),
   RATE_LIMIT_API_PER_MIN: int(600),
   BODY_LIMIT_BYTES: int(1_000_000),

@@ -186,6 +186,7 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   },
   '/workspaces/{slug}/reports/{id}': {
     get: { summary: 'One report with its summary and e-mail send history', permission: 'flights:read', responses: { '200': 'The report' } },
+    delete: { summary: 'Delete the report, its stored files and its e-mail history (the audit log keeps a record)', permission: 'reports:delete', responses: { '204': 'Deleted' } },
   },
   '/workspaces/{slug}/reports/{id}/pdf': {
     get: { summary: 'The report PDF as an attachment', permission: 'flights:read', responses: { '200': 'application/pdf' } },
@@ -194,7 +195,7 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
     get: { summary: 'The report CSV (RFC 4180, formula cells neutralised) as an attachment', permission: 'flights:read', responses: { '200': 'text/csv' } },
   },
   '/workspaces/{slug}/reports/{id}/send': {
-    post: { summary: 'E-mail the report PDF to up to 20 recipients; every attempt is recorded', permission: 'reports:send', requestBody: reportSendSchema, responses: { '201': '{ id, recipients, status, messageId, sentAt }', '503': 'The mail server refused; the attempt is recorded' } },
+    post: { summary: 'E-mail the report PDF to up to 20 recipients; every attempt is recorded', permission: 'reports:send', requestBody: reportSendSchema, responses: { '201': '{ id, recipients, status, messageId, sentAt }', '429': 'Too many report e-mails from this workspace in the last hour', '503': 'The mail server refused; the attempt is recorded' } },
   },
   '/openapi.json': {
     get: { summary: 'This document', responses: { '200': 'OpenAPI 3.1' } },

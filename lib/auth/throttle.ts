@@ -15,6 +15,7 @@ interface Limiters {
   signInAccount: RateLimiterAbstract;
   signInAddress: RateLimiterAbstract;
   email: RateLimiterMemory;
+  reportSends: RateLimiterMemory;
   preview: RateLimiterMemory;
   api: RateLimiterMemory;
 }
@@ -48,6 +49,7 @@ function limiters(): Limiters {
       signInAccount: persistent('acct', e.RATE_LIMIT_SIGNIN_PER_15MIN, pending),
       signInAddress: persistent('addr', e.RATE_LIMIT_SIGNIN_PER_15MIN * 5, pending),
       email: new RateLimiterMemory({ keyPrefix: 'mail', points: e.RATE_LIMIT_EMAIL_PER_HOUR, duration: 3600 }),
+      reportSends: new RateLimiterMemory({ keyPrefix: 'report-mail', points: e.RATE_LIMIT_REPORT_SENDS_PER_HOUR, duration: 3600 }),
       preview: new RateLimiterMemory({ keyPrefix: 'preview', points: e.RATE_LIMIT_PREVIEW_PER_MIN, duration: 60 }),
       api: new RateLimiterMemory({ keyPrefix: 'api', points: e.RATE_LIMIT_API_PER_MIN, duration: 60 }),
     };
@@ -106,6 +108,11 @@ export async function recordSignInSuccess(email: string): Promise<void> {
 
 export function limitEmailSend(kind: 'signin' | 'reset' | 'invite', to: string): Promise<void> {
   return consume(limiters().email, `${kind}:${to}`, 'Too many e-mails were requested for this address. Try again later.');
+}
+
+/** Report e-mails per workspace per hour (each send, whatever its number of recipients). */
+export function limitReportSend(workspaceId: number): Promise<void> {
+  return consume(limiters().reportSends, `ws:${workspaceId}`, 'This workspace has sent many report e-mails in the last hour. Try again later.');
 }
 
 export function limitPreview(key: string): Promise<void> {

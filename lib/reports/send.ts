@@ -4,6 +4,7 @@ import { sendMail, type OutgoingMail } from '@/lib/mail/mailer';
 import { formatMass, formatNumber, formatPercent } from '@/lib/format';
 import { AppError } from '@/lib/errors';
 import { log } from '@/lib/log';
+import { limitReportSend } from '@/lib/auth/throttle';
 import type { ReportSummary } from './model';
 import { fileStem } from './text';
 
@@ -32,13 +33,15 @@ export function reportMail(to: string[], s: ReportSummary, input: { senderName: 
 
 /**
  * E-mails a stored report with its PDF to the recipients and records the attempt (sent or failed).
- * A mail-server failure is recorded and comes back as 503 with a plain message.
+ * A mail-server failure is recorded and comes back as 503 with a plain message. Sends are limited
+ * per workspace (`RATE_LIMIT_REPORT_SENDS_PER_HOUR`): beyond it, 429 and nothing is sent.
  */
 export async function sendReport(
   scope: { workspaceId: number },
   input: { reportId: number; recipients: string[]; note?: string; sentBy: number | null; senderName: string; actor: string },
 ): Promise<ReportSendDto> {
   const [report, file] = await Promise.all([getReport(scope, input.reportId), getReportPdf(scope, input.reportId)]);
+  await limitReportSend(scope.workspaceId);
   const mail = reportMail(input.recipients, report.summary, { senderName: input.senderName, note: input.note, pdf: file.pdf });
   let messageId: string | null = null;
   let failure: string | null = null;

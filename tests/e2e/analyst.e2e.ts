@@ -139,8 +139,38 @@ describe('sustainability analyst: compare fleets, build, download and send a rep
     await page.getByRole('link', { name: 'Polar fleets, autumn 2026' }).first().click();
     await page.getByRole('heading', { level: 1, name: 'Polar fleets, autumn 2026' }).waitFor();
     expect(await page.getByRole('button', { name: 'Send the PDF' }).count()).toBe(0);
+    expect(await page.getByRole('button', { name: 'Delete report' }).count()).toBe(0);
     await page.getByRole('link', { name: 'Download PDF' }).waitFor();
     await screenshot(page, 'planner-report-tablet');
+    await context.close();
+  });
+
+  it('an analyst deletes a report after confirming; the list no longer shows it', async () => {
+    const { page, context } = await newPage(browser());
+    await signIn(page, 'analyst@tropopass.test');
+    await page.goto(`/w/${SLUG}/reports`);
+    await page.getByLabel('Period from').fill('2026-10-01');
+    await page.getByLabel('Period to').fill('2026-10-31');
+    await page.getByLabel('Name (optional)').fill('Draft to discard');
+    await page.getByRole('button', { name: 'Build report' }).click();
+    await page.waitForURL(/\/reports\/\d+$/, { timeout: 30_000 });
+    const url = page.url();
+    // Dismissing the confirmation keeps it; accepting deletes it.
+    page.once('dialog', (d) => void d.dismiss());
+    await page.getByRole('button', { name: 'Delete report' }).click();
+    await page.reload();
+    await page.getByRole('heading', { level: 1, name: 'Draft to discard' }).waitFor();
+    page.once('dialog', (d) => {
+      expect(d.message()).toMatch(/Delete the report “Draft to discard”/);
+      void d.accept();
+    });
+    await page.getByRole('button', { name: 'Delete report' }).click();
+    await page.waitForURL(/\/reports$/, { timeout: 30_000 });
+    await page.getByRole('link', { name: 'Polar fleets, autumn 2026' }).first().waitFor();
+    expect(await page.getByRole('link', { name: 'Draft to discard' }).count()).toBe(0);
+    // The page streams behind its loading state, so the answer is the not-found screen rather than a 404 status.
+    await page.goto(url);
+    await page.getByRole('heading', { level: 1, name: 'Not found' }).waitFor();
     await context.close();
   });
 });

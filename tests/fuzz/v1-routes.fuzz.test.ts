@@ -25,7 +25,7 @@ function freePort(): Promise<number> {
 
 const smtpPort = await freePort();
 const smtpHttpPort = await freePort();
-useTestDatabase({ RATE_LIMIT_API_PER_MIN: '1000000000', RATE_LIMIT_PREVIEW_PER_MIN: '1000000000', RATE_LIMIT_EMAIL_PER_HOUR: '1000000000', SMTP_PORT: String(smtpPort) });
+useTestDatabase({ RATE_LIMIT_API_PER_MIN: '1000000000', RATE_LIMIT_PREVIEW_PER_MIN: '1000000000', RATE_LIMIT_EMAIL_PER_HOUR: '1000000000', RATE_LIMIT_REPORT_SENDS_PER_HOUR: '1000000000', SMTP_PORT: String(smtpPort) });
 
 // Sized so the suite stays near 20 s inside `npm test` on this 2-core machine.
 const TOTAL_DEFAULT_CASES = 6_000;

@@ -25,6 +25,7 @@ beforeAll(async () => {
 afterAll(async () => {
   if (fake && !fakeClosed) await fake.close();
 });
+mailEnv.RATE_LIMIT_REPORT_SENDS_PER_HOUR = '4';
 useTestDatabase(mailEnv);
 
 let ws: Awaited<ReturnType<typeof makeWorkspace>>;
@@ -243,6 +244,31 @@ describe('reports: send by e-mail', () => {
     expect(fake.messages().some((m) => m.to.includes('x@example.test'))).toBe(false);
   });
 
+  it('report e-mails are limited per workspace per hour: 429 with Retry-After, nothing sent or recorded; other workspaces unaffected', async () => {
+    const busy = await makeWorkspace(['analyst']);
+    const cookie = await sessionCookie(busy.members.analyst.id);
+    const fleet = await insertFleet(busy.id, 'Busy fleet');
+    const built = await call<ReportJson>(reportsRoute.POST, apiRequest('POST', `/api/v1/workspaces/${busy.slug}/reports`, { cookie, body: { ...BODY(), fleetIds: [fleet] } }), { slug: busy.slug });
+    expect(built.status).toBe(201);
+    const url = `/api/v1/workspaces/${busy.slug}/reports/${built.body.id}/send`;
+    const p = { slug: busy.slug, id: String(built.body.id) };
+    // The limit is 4 sends an hour in this file.
+    for (let i = 0; i < 4; i++) {
+      expect((await call(sendRoute.POST, apiRequest('POST', url, { cookie, body: { recipients: [`burst${i}@example.test`] } }), p)).status).toBe(201);
+    }
+    const before = fake.messages().length;
+    const refused = await sendRoute.POST(apiRequest('POST', url, { cookie, body: { recipients: ['one-more@example.test'] } }), { params: Promise.resolve(p) });
+    expect(refused.status).toBe(429);
+    expect(Number(refused.headers.get('retry-after'))).toBeGreaterThan(0);
+    expect(((await refused.json()) as { error: { message: string } }).error.message).toMatch(/report e-mails/);
+    expect(fake.messages().length).toBe(before);
+    expect(Number((await db()('report_sends').where({ report_id: built.body.id }).count({ n: '*' }).first())?.n)).toBe(4);
+    // Another workspace still sends.
+    const r = await build();
+    const ok = await call(sendRoute.POST, apiRequest('POST', `${base()}/${r.body.id}/send`, { cookie: analyst, body: { recipients: ['elsewhere@example.test'] } }), { slug: ws.slug, id: String(r.body.id) });
+    expect(ok.status).toBe(201);
+  });
+
   it('a mail server that refuses is recorded as a failed send and answered with 503', async () => {
     const r = await build();
     await fake.close();
@@ -253,5 +279,40 @@ describe('reports: send by e-mail', () => {
     const row = await db()('report_sends').where({ report_id: r.body.id }).first();
     expect(row).toMatchObject({ status: 'failed', message_id: null });
     expect(row.error).toMatch(/did not accept/);
+  });
+});
+
+describe('reports: delete', () => {
+  it('an analyst deletes a report: 204, then 404 everywhere; its files and e-mail history go; the audit log records it', async () => {
+    const r = await build();
+    const id = r.body.id;
+    const p = { slug: ws.slug, id: String(id) };
+    await db()('report_sends').insert({ report_id: id, recipients: JSON.stringify(['kept@example.test']), sent_by: ws.members.analyst.id, status: 'sent', message_id: 'm-1', error: null, sent_at: new Date().toISOString() });
+    const keep = await build();
+    const res = await reportRoute.DELETE(apiRequest('DELETE', `${base()}/${id}`, { cookie: analyst }), { params: Promise.resolve(p) });
+    expect(res.status).toBe(204);
+    expect((await call(reportRoute.GET, apiRequest('GET', `${base()}/${id}`, { cookie: analyst }), p)).status).toBe(404);
+    expect((await download(pdfRoute.GET, id, 'pdf')).status).toBe(404);
+    expect((await download(csvRoute.GET, id, 'csv')).status).toBe(404);
+    expect(await db()('reports').where({ id }).first()).toBeUndefined();
+    expect(await db()('report_sends').where({ report_id: id }).first()).toBeUndefined();
+    const audit = await db()('audit_log').where({ workspace_id: ws.id, action: 'report.delete', target: `report:${id}` }).first();
+    expect(audit).toBeDefined();
+    expect(JSON.parse(String(audit.detail))).toMatchObject({ name: 'Q4 polar fleets', sends: 1 });
+    // The other report is untouched; deleting again is 404.
+    expect((await call(reportRoute.GET, apiRequest('GET', `${base()}/${keep.body.id}`, { cookie: analyst }), { slug: ws.slug, id: String(keep.body.id) })).status).toBe(200);
+    expect((await reportRoute.DELETE(apiRequest('DELETE', `${base()}/${id}`, { cookie: analyst }), { params: Promise.resolve(p) })).status).toBe(404);
+  });
+
+  it('a planner or viewer cannot delete (403), a stranger gets 404, and the report stays', async () => {
+    const r = await build();
+    const p = { slug: ws.slug, id: String(r.body.id) };
+    const url = `${base()}/${r.body.id}`;
+    for (const who of [ws.members.planner.id, ws.members.viewer.id]) {
+      expect((await reportRoute.DELETE(apiRequest('DELETE', url, { cookie: await sessionCookie(who) }), { params: Promise.resolve(p) })).status).toBe(403);
+    }
+    const other = await makeWorkspace();
+    expect((await reportRoute.DELETE(apiRequest('DELETE', url, { cookie: await sessionCookie(other.owner.id) }), { params: Promise.resolve(p) })).status).toBe(404);
+    expect(await db()('reports').where({ id: r.body.id }).first()).toBeDefined();
   });
 });

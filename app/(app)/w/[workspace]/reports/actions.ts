@@ -4,6 +4,7 @@ import { revalidatePath } from 'next/cache';
 import { requireActionMember } from '@/lib/auth/guards';
 import { buildFleetReport } from '@/lib/reports/build';
 import { sendReport } from '@/lib/reports/send';
+import { deleteReport } from '@/db/reports';
 import { reportCreateSchema, reportSendFormSchema, reportSendSchema, splitRecipients } from '@/lib/validation/reports';
 import { fromZod, invalidFields, toActionState, type ActionState } from '@/lib/errors';
 import { z } from 'zod';
@@ -44,6 +45,19 @@ export async function sendReportAction(slug: string, reportId: unknown, raw: unk
     return { ok: true, message: `Sent to ${send.recipients.join(', ')}.` };
   } catch (err) {
     revalidatePath(`/w/${slug}/reports`);
+    return toActionState(err);
+  }
+}
+
+export async function deleteReportAction(slug: string, reportId: unknown): Promise<ActionState> {
+  try {
+    const ctx = await requireActionMember(slug, 'reports:delete');
+    const id = reportIdSchema.safeParse(reportId);
+    if (!id.success) throw invalidFields([{ path: 'reportId', message: 'Choose a report.' }]);
+    await deleteReport({ workspaceId: ctx.workspace.id }, id.data, { userId: ctx.user.id, actor: ctx.user.email });
+    revalidatePath(`/w/${slug}/reports`);
+    return { ok: true, message: 'Report deleted.' };
+  } catch (err) {
     return toActionState(err);
   }
 }

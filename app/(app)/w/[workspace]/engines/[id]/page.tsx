@@ -12,7 +12,7 @@ import { CruiseCheckTag } from '@/components/library/cruise-check-tag';
 import { CRUISE_CHECK, cruiseEiCheck } from '@/components/library/cruise-ei-check';
 import { formatFuelFlow, fuelFlowUnit } from '@/components/library/format';
 import { EngineForm } from '@/components/library/engine-form';
-import { DeleteButton } from '@/components/library/delete-button';
+import { DeleteButton } from '@/components/ui/delete-button';
 import { deleteEngineAction, saveEngineAction } from '../actions';
 
 export const metadata = { title: 'Engine' };

@@ -11,7 +11,8 @@ import { ScreeningCaution } from '@/components/ui/notice';
 import { FleetContext } from '@/components/fleets/fleet-context';
 import { FleetNoxChart } from '@/components/charts/fleet-nox-chart';
 import { ReportSendForm } from '@/components/reports/send-form';
-import { sendReportAction } from '../actions';
+import { DeleteButton } from '@/components/ui/delete-button';
+import { deleteReportAction, sendReportAction } from '../actions';
 
 export const metadata = { title: 'Fleet report' };
 
@@ -129,6 +130,16 @@ export default async function ReportPage({ params }: { params: Promise<{ workspa
       <div className="mt-6">
         <FleetContext context={s.context} cautions={s.cautions} units={u} />
       </div>
+      {can(role, 'reports:delete') ? (
+        <div className="mt-6 max-w-xl">
+          <Card title="Delete">
+            <p className="mb-3 text-sm text-ink-soft">
+              Removes the stored PDF and CSV and the e-mail history. Copies already downloaded or e-mailed are not affected; the audit log keeps a record of the deletion.
+            </p>
+            <DeleteButton action={deleteReportAction.bind(null, slug, report.id)} confirmText={`Delete the report “${report.name}” with its files and e-mail history?`} label="Delete report" after={`/w/${slug}/reports`} />
+          </Card>
+        </div>
+      ) : null}
     </>
   );
 }

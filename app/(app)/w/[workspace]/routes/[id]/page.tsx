@@ -9,7 +9,7 @@ import { ButtonLink } from '@/components/ui/button';
 import { formatDateTime, formatDistance } from '@/lib/format';
 import { formatWaypointLines } from '@/lib/validation/library';
 import { RouteForm } from '@/components/library/route-form';
-import { DeleteButton } from '@/components/library/delete-button';
+import { DeleteButton } from '@/components/ui/delete-button';
 import { waypointLabel } from '@/components/library/format';
 import { deleteRouteAction, saveRouteAction } from '../actions';
 

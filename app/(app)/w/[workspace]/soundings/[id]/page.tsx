@@ -9,7 +9,7 @@ import { ButtonLink } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { formatAltitude, formatDateTime, formatNumber } from '@/lib/format';
 import { SoundingChart, type ProfilePoint } from '@/components/charts/sounding-chart';
-import { DeleteButton } from '@/components/library/delete-button';
+import { DeleteButton } from '@/components/ui/delete-button';
 import { flightLevelAtPressure } from '@/components/library/format';
 import { deleteSoundingAction } from '../actions';
 

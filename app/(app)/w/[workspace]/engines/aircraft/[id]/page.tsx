@@ -6,7 +6,7 @@ import { aircraftTypeSaveOf, getAircraftType, listEngines, listFleetChoices } fr
 import { Card, PageHeader, Stat } from '@/components/ui/card';
 import { formatNumber } from '@/lib/format';
 import { AircraftTypeForm } from '@/components/library/aircraft-type-form';
-import { DeleteButton } from '@/components/library/delete-button';
+import { DeleteButton } from '@/components/ui/delete-button';
 import { deleteAircraftTypeAction, saveAircraftTypeAction } from '../../actions';
 
 export const metadata = { title: 'Aircraft type' };
