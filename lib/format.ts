@@ -32,6 +32,23 @@ export function formatMass(kg: number, units: UnitSystem, digits?: number): stri
   return `${formatNumber(kg, digits ?? (Math.abs(kg) < 10 ? 2 : 0))} kg`;
 }
 
+/**
+ * A low-high band in one unit, the one the larger end would be shown in ("5.2 – 399.0 t", not
+ * "5,169 kg – 399.0 t"), so the two ends read against each other.
+ */
+export function formatMassRange(lowKg: number, highKg: number, units: UnitSystem, separator = ' – '): string {
+  if (units === 'imperial') {
+    const lo = lowKg / KG_PER_LB;
+    const hi = highKg / KG_PER_LB;
+    const d = Math.max(Math.abs(lo), Math.abs(hi)) < 10 ? 2 : 0;
+    return `${formatNumber(lo, d)}${separator}${formatNumber(hi, d)} lb`;
+  }
+  const top = Math.max(Math.abs(lowKg), Math.abs(highKg));
+  if (top >= 10_000) return `${formatNumber(lowKg / 1000, 1)}${separator}${formatNumber(highKg / 1000, 1)} t`;
+  const d = top < 10 ? 2 : 0;
+  return `${formatNumber(lowKg, d)}${separator}${formatNumber(highKg, d)} kg`;
+}
+
 export function formatPercent(fraction: number, digits = 0): string {
   return Number.isFinite(fraction) ? `${formatNumber(fraction * 100, digits)} %` : '–';
 }

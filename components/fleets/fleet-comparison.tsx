@@ -18,7 +18,7 @@ import type { CompareRow, FleetComparison as Comparison } from '@/lib/fleets/typ
 import { compareQueryObject, compareQueryString } from '@/lib/fleets/url';
 import { monthLabel } from '@/lib/fleets/units';
 import { fleetCompareQuerySchema, GROUP_BY, type GroupBy } from '@/lib/validation/fleets';
-import { formatDistance, formatMass, formatNumber, formatPercent } from '@/lib/format';
+import { formatDistance, formatMass, formatMassRange, formatNumber, formatPercent } from '@/lib/format';
 import { Button, ButtonLink } from '@/components/ui/button';
 import { Field, SelectInput, TextInput } from '@/components/ui/field';
 import { Card, EmptyState } from '@/components/ui/card';
@@ -92,7 +92,7 @@ function render(col: FigureColumn, r: CompareRow, units: UnitSystem): ReactNode 
         <>
           {formatMass(r.ozone.centralKg, units)}
           <span className="block text-xs font-normal text-ink-faint">
-            {formatMass(r.ozone.lowKg, units)} – {formatMass(r.ozone.highKg, units)}
+            {formatMassRange(r.ozone.lowKg, r.ozone.highKg, units)}
           </span>
         </>
       );

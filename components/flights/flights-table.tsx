@@ -1,6 +1,6 @@
 import type { FlightDto } from '@/db/flights';
 import type { UnitSystem } from '@/db/users';
-import { formatDistance, formatMass, formatPercent } from '@/lib/format';
+import { formatDistance, formatMass, formatMassRange, formatPercent } from '@/lib/format';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 
 function cruise(f: FlightDto): string {
@@ -56,7 +56,7 @@ export function FlightsTable({ flights, units }: { flights: FlightDto[]; units: 
                   <td className={num}>
                     {formatMass(f.ozoneLoss?.centralKg ?? 0, units)}
                     <span className="block text-xs text-ink-faint">
-                      {formatMass(f.ozoneLoss?.lowKg ?? 0, units)}–{formatMass(f.ozoneLoss?.highKg ?? 0, units)}
+                      {formatMassRange(f.ozoneLoss?.lowKg ?? 0, f.ozoneLoss?.highKg ?? 0, units, '–')}
                     </span>
                   </td>
                 </>

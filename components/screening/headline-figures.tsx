@@ -1,7 +1,7 @@
 import type { ScreeningResult } from '@/lib/screening';
 import type { UnitSystem } from '@/lib/validation/screen-form';
 import { Stat } from '@/components/ui/card';
-import { formatAltitude, formatDistance, formatMass, formatNumber, formatPercent } from '@/lib/format';
+import { formatAltitude, formatDistance, formatMass, formatMassRange, formatNumber, formatPercent } from '@/lib/format';
 
 export const EI_METHOD_LABELS: Record<ScreeningResult['eiMethod'], string> = {
   direct: 'EI NOx given directly',
@@ -48,7 +48,7 @@ export function HeadlineFigures({ result, units, compact = false }: { result: He
       <Stat
         label="Ozone-loss figure"
         value={<span data-testid="ozone-central">{formatMass(r.ozoneLoss.centralKg, units)}</span>}
-        sub={`O3, range ${formatMass(r.ozoneLoss.lowKg, units)} – ${formatMass(r.ozoneLoss.highKg, units)}; gross catalytic loss`}
+        sub={`O3, range ${formatMassRange(r.ozoneLoss.lowKg, r.ozoneLoss.highKg, units)}; gross catalytic loss`}
         tone="strato"
       />
       <Stat

@@ -1,6 +1,6 @@
 import type { CruiseLevelRow } from '@/lib/screening';
 import type { UnitSystem } from '@/lib/validation/screen-form';
-import { formatMass, formatNumber } from '@/lib/format';
+import { formatMass, formatMassRange, formatNumber } from '@/lib/format';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 
 function levelsLabel(row: Pick<CruiseLevelRow, 'flightLevels'>): string {
@@ -72,7 +72,7 @@ export function WhatIfTable({
                 <td className="whitespace-nowrap py-2 pr-3 text-right">
                   {formatMass(r.ozoneLoss.centralKg, units)}
                   <span className="block text-xs font-normal text-ink-faint">
-                    {formatMass(r.ozoneLoss.lowKg, units)} – {formatMass(r.ozoneLoss.highKg, units)}
+                    {formatMassRange(r.ozoneLoss.lowKg, r.ozoneLoss.highKg, units)}
                   </span>
                 </td>
                 {compact ? null : <td className="py-2">{r.withinLimit ? 'yes' : 'no'}</td>}

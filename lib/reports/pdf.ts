@@ -1,6 +1,6 @@
 import { PDFDocument, StandardFonts, degrees, rgb, type PDFFont, type PDFPage, type RGB } from 'pdf-lib';
 import type { UnitSystem } from '@/db/users';
-import { formatDistance, formatMass, formatNumber, formatPercent } from '@/lib/format';
+import { formatDistance, formatMass, formatMassRange, formatNumber, formatPercent } from '@/lib/format';
 import { FLEET_COLOURS, massAxisUnit, monthLabel, niceTicks } from '@/lib/fleets/units';
 import type { CompareRow, FleetContextRow } from '@/lib/fleets/types';
 import type { ReportSummary } from './model';
@@ -420,7 +420,7 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
     ['Share of NOx above the tropopause', pct(t.shareAbove)],
     ['NOx above the tropopause per 1000 km', t.noxAbovePer1000KmKg === null ? '-' : formatMass(t.noxAbovePer1000KmKg, units, 2)],
     ['Ozone-loss figure, central (gross)', formatMass(t.ozone.centralKg, units)],
-    ['Ozone-loss figure, low-high range', `${formatMass(t.ozone.lowKg, units)} to ${formatMass(t.ozone.highKg, units)}`],
+    ['Ozone-loss figure, low-high range', formatMassRange(t.ozone.lowKg, t.ozone.highKg, units, ' to ')],
   ];
   w.table([{ label: 'Figure', width: 300 }, { label: 'All fleets in the report', width: 199, align: 'right' }], totalsRows, { size: 8.5 });
   w.paragraph(s.notes.ratios, { size: 7.5, color: INK_SOFT });

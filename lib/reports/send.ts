@@ -1,7 +1,7 @@
 import 'server-only';
 import { getReport, getReportPdf, recordReportSend, type ReportSendDto } from '@/db/reports';
 import { sendMail, type OutgoingMail } from '@/lib/mail/mailer';
-import { formatMass, formatNumber, formatPercent } from '@/lib/format';
+import { formatMass, formatMassRange, formatNumber, formatPercent } from '@/lib/format';
 import { AppError } from '@/lib/errors';
 import { log } from '@/lib/log';
 import { limitReportSend } from '@/lib/auth/throttle';
@@ -18,7 +18,7 @@ export function reportMail(to: string[], s: ReportSummary, input: { senderName: 
     `${input.senderName} sent you the fleet report “${s.title}” for ${s.workspaceName}, ${s.period.from} to ${s.period.to}.`,
     ...(input.note ? [`Note: ${input.note}`] : []),
     `Fleets: ${s.fleets.map((f) => f.name).join(', ')}.`,
-    `Flights screened: ${formatNumber(t.flights)}. NOx: ${formatMass(t.noxTotalKg, u)}, of which above the tropopause ${formatMass(t.noxAboveKg, u)} (${t.shareAbove === null ? '-' : formatPercent(t.shareAbove, 1)}). Ozone-loss screening figure: ${formatMass(t.ozone.centralKg, u)} (${formatMass(t.ozone.lowKg, u)} to ${formatMass(t.ozone.highKg, u)}).`,
+    `Flights screened: ${formatNumber(t.flights)}. NOx: ${formatMass(t.noxTotalKg, u)}, of which above the tropopause ${formatMass(t.noxAboveKg, u)} (${t.shareAbove === null ? '-' : formatPercent(t.shareAbove, 1)}). Ozone-loss screening figure: ${formatMass(t.ozone.centralKg, u)} (${formatMassRange(t.ozone.lowKg, t.ozone.highKg, u, ' to ')}).`,
     'Screening estimate for planning and reporting support, not a certified emissions inventory or a regulatory method; the ozone figure is a gross catalytic loss, not a net column change. Follow the operator’s approved methods and applicable regulation.',
     'The full report, with its method, assumptions and data sources, is attached as a PDF.',
   ];

@@ -3,7 +3,7 @@ import { requireMember } from '@/lib/auth/guards';
 import { can } from '@/lib/auth/policy';
 import { getReport, listReportSends } from '@/db/reports';
 import { AppError } from '@/lib/errors';
-import { formatDateTime, formatDistance, formatMass, formatNumber, formatPercent } from '@/lib/format';
+import { formatDateTime, formatDistance, formatMass, formatMassRange, formatNumber, formatPercent } from '@/lib/format';
 import type { CompareRow } from '@/lib/fleets/types';
 import { Card, PageHeader, Stat } from '@/components/ui/card';
 import { buttonClass } from '@/components/ui/button';
@@ -55,7 +55,7 @@ export default async function ReportPage({ params }: { params: Promise<{ workspa
         <Stat label="Flights screened" value={formatNumber(t.flights)} sub={formatDistance(t.distanceKm, u)} />
         <Stat label="NOx emitted" value={formatMass(t.noxTotalKg, u)} sub={`as NO2 · fuel ${formatMass(t.fuelKg, u)}`} />
         <Stat label="NOx above tropopause" value={formatMass(t.noxAboveKg, u)} sub={`${share(t)} of NOx`} tone="strato" />
-        <Stat label="Ozone-loss figure (gross)" value={formatMass(t.ozone.centralKg, u)} sub={`${formatMass(t.ozone.lowKg, u)} – ${formatMass(t.ozone.highKg, u)}`} tone="strato" />
+        <Stat label="Ozone-loss figure (gross)" value={formatMass(t.ozone.centralKg, u)} sub={formatMassRange(t.ozone.lowKg, t.ozone.highKg, u)} tone="strato" />
       </div>
       <div className="mt-4">
         <ScreeningCaution />
@@ -86,7 +86,7 @@ export default async function ReportPage({ params }: { params: Promise<{ workspa
                     <td className="whitespace-nowrap px-2 py-2 text-right">
                       {formatMass(r.ozone.centralKg, u)}
                       <span className="block text-xs font-normal text-ink-faint">
-                        {formatMass(r.ozone.lowKg, u)} – {formatMass(r.ozone.highKg, u)}
+                        {formatMassRange(r.ozone.lowKg, r.ozone.highKg, u)}
                       </span>
                     </td>
                   </tr>

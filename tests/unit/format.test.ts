@@ -1,0 +1,20 @@
+import { describe, expect, it } from 'vitest';
+import { formatMass, formatMassRange } from '@/lib/format';
+
+describe('formatMassRange', () => {
+  it('shows both ends in the unit of the larger one', () => {
+    expect(formatMassRange(5_169, 399_000, 'metric')).toBe('5.2 – 399.0 t');
+    expect(formatMassRange(46.1, 3_569.8, 'metric')).toBe('46 – 3,570 kg');
+    expect(formatMassRange(0.12, 4.5, 'metric')).toBe('0.12 – 4.50 kg');
+    expect(formatMassRange(12_000, 80_000, 'metric', ' to ')).toBe('12.0 to 80.0 t');
+  });
+
+  it('in aviation units, pounds at both ends', () => {
+    // 1 lb = 0.45359237 kg exactly (international avoirdupois pound).
+    expect(formatMassRange(0.45359237, 45.359237, 'imperial')).toBe('1 – 100 lb');
+  });
+
+  it('agrees with formatMass where both ends fall in the same unit', () => {
+    expect(formatMassRange(20_000, 30_000, 'metric')).toBe(`${formatMass(20_000, 'metric').replace(' t', '')} – ${formatMass(30_000, 'metric')}`);
+  });
+});
