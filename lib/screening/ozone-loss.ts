@@ -21,17 +21,17 @@ export const SECONDS_PER_YEAR = 365.25 * 86_400;
 
 /** Source line of the embedded ozone profiles. */
 export const AFGL_SOURCE =
-  'AFGL 1986 constituent profiles (Anderson et al. 1986, AFGL-TR-86-0110), O3 in ppmv; values transcribed from memory, to be confirmed against the report';
+  'AFGL 1986 constituent profiles (Anderson et al. 1986, AFGL-TR-86-0110, tables 1a-1e), O3 in ppmv, 0-35 km';
 
 /** Geometric altitudes (km) of the embedded AFGL O3 grid: 0-25 km by 1 km, then 27.5-35 km. */
 export const AFGL_ALTITUDE_KM: readonly number[] = Object.freeze([
   0, 1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12, 13, 14, 15, 16, 17, 18, 19, 20, 21, 22, 23, 24, 25, 27.5, 30, 32.5, 35,
 ]);
 
-// Transcribed from memory of Anderson et al. (1986), AFGL-TR-86-0110, the O3 column (ppmv) of the
-// six model atmospheres on their 0-120 km grid; only 0-35 km is kept. These must be confirmed
-// against AFGL-TR-86-0110 before any figure is relied on; the assumptions of every result say so.
-/** O3 volume mixing ratio (ppmv) on AFGL_ALTITUDE_KM for each embedded profile (from memory). */
+// The O3 column (ppmv) of five of the six model atmospheres of Anderson et al. (1986),
+// AFGL-TR-86-0110, tables 1a-1e, on their grid up to 35 km. Checked value by value against two
+// machine-readable transcriptions of the report (see tests/unit/screening/ozone-loss.test.ts).
+/** O3 volume mixing ratio (ppmv) on AFGL_ALTITUDE_KM for each embedded profile. */
 export const AFGL_O3_PPMV: Readonly<Record<OzoneProfileName, readonly number[]>> = Object.freeze({
   tropical: [
     0.02869, 0.0315, 0.03342, 0.03504, 0.03561, 0.03767, 0.03989, 0.04223, 0.04471, 0.05, 0.05595, 0.06613, 0.07815,
@@ -42,8 +42,8 @@ export const AFGL_O3_PPMV: Readonly<Record<OzoneProfileName, readonly number[]>>
     0.44, 0.5, 0.6, 0.7, 1.0, 1.5, 2.0, 2.4, 2.9, 3.4, 4.0, 4.8, 6.0, 7.0, 8.1, 8.9,
   ],
   'midlatitude-winter': [
-    0.02778, 0.028, 0.02849, 0.032, 0.03574, 0.04115, 0.04819, 0.05709, 0.07, 0.1153, 0.1578, 0.2564, 0.369, 0.4959,
-    0.6199, 0.7393, 0.891, 1.071, 1.296, 1.58, 1.832, 2.052, 2.385, 2.712, 3.069, 3.403, 4.502, 5.463, 6.294, 6.862,
+    0.02778, 0.028, 0.02849, 0.032, 0.03567, 0.0472, 0.05837, 0.07891, 0.1039, 0.1567, 0.237, 0.3624, 0.5232, 0.7036, 0.8,
+    0.9, 1.1, 1.4, 1.8, 2.3, 2.9, 3.5, 3.9, 4.3, 4.7, 5.1, 5.6, 6.1, 6.8, 7.1,
   ],
   'subarctic-summer': [
     0.02412, 0.0294, 0.03379, 0.03887, 0.04478, 0.05328, 0.06564, 0.07738, 0.09114, 0.142, 0.189, 0.305, 0.41, 0.5, 0.6,

@@ -56,7 +56,7 @@ import { validateScreeningInput } from './validate';
 import { OZONE_PROFILE_NAMES, type ScreeningInput } from '../validation/screening';
 
 /** Version of the methods; saved results carry it so they can be told apart and recomputed. */
-export const ENGINE_VERSION = '2026.12.1';
+export const ENGINE_VERSION = '2026.12.2';
 
 /** Default cruise Mach used for timing. */
 export const DEFAULT_MACH = 0.8;

@@ -41,7 +41,7 @@ describe('the public result contract', () => {
       expect(r.segments[0]).toHaveProperty(k);
     }
     expect(r.engineVersion).toBe(ENGINE_VERSION);
-    expect(ENGINE_VERSION).toBe('2026.12.1');
+    expect(ENGINE_VERSION).toBe('2026.12.2');
   });
 
   it('NOx = fuel x EI for a direct EI; N mass = 0.30446 x NO2 mass (molar masses 14.0067 / 46.0055); CO2 = 3.16 x fuel (ICAO CORSIA)', () => {
@@ -81,7 +81,7 @@ describe('the public result contract', () => {
     expect(r.ozoneLoss.o3PerNox).toBeGreaterThan(0);
     expect(r.ozoneLoss.chainLength).toBeGreaterThan(0);
     expect(r.ozoneLoss.assumptions.ozoneProfile.source).toMatch(/AFGL-TR-86-0110/);
-    expect(r.ozoneLoss.assumptions.ozoneProfile.source).toMatch(/from memory/);
+    expect(r.ozoneLoss.assumptions.ozoneProfile.source).toMatch(/tables 1a-1e/);
   });
 
   it('states the fuel assumption (cruise fuel spread in proportion to time)', () => {
