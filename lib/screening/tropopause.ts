@@ -18,9 +18,10 @@ import {
 } from '../validation/screening';
 
 /**
- * Mateus, Mendes & Pires (2022), Remote Sensing 14, 4303 (doi:10.3390/rs14174303), 3.5 PVU blend,
- * coefficients (a0..a5) as transcribed from the authors' published code (confirm
- * against the paper). Northern hemisphere (lat > 0).
+ * Mateus, Mendes & Pires (2022), Remote Sensing 14, 4303 (doi:10.3390/rs14174303), sigmoid model
+ * (STH), 3.5 PVU blend, coefficients (a0..a5) as in the authors' published code (`sth_model.py`,
+ * checked value by value). Northern hemisphere (lat > 0). That code applies the seasonal cosine with
+ * the same phase (day 28) in both hemispheres, each with its own small a5; so does this engine.
  */
 export const MATEUS_2022_NORTH = Object.freeze([8.499, 7.8229, 26.7284, -1.5804, 0.098, -0.1257] as const);
 /** Southern hemisphere and equator (lat <= 0) coefficients, same source. */

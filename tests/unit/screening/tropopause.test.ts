@@ -61,6 +61,24 @@ describe('climatological tropopause (Mateus, Mendes & Pires 2022)', () => {
     expect(climatologicalTropopauseM(30, null)).toBeCloseTo((6_356_766 * z) / (6_356_766 + z), 6);
   });
 
+  it("equals the authors' published code (sth_model.py, 3.5 PVU rows) in both hemispheres, with the seasonal term", () => {
+    // Source: Mateus, Mendes & Pires (2022), Remote Sens. 14, 4303; coefficients and formula as in the
+    // authors' released sth_model.py: z = a0 + a1 / (1 + exp(-(lat - a2) / a3))^a4 + a5 cos(2 pi (doy - 28) / 365.25),
+    // southern set for lat <= 0. Geometric km, converted here to geopotential (ICAO Doc 7488/3 r0).
+    const NH = [8.499, 7.8229, 26.7284, -1.5804, 0.098, -0.1257];
+    const SH = [8.7796, 7.5417, -26.73, 1.1474, 0.087, -0.1255];
+    const sth = (lat: number, doy: number) => {
+      const a = lat <= 0 ? SH : NH;
+      return a[0] + a[1] / Math.pow(1 + Math.exp(-(lat - a[2]) / a[3]), a[4]) + a[5] * Math.cos(((2 * Math.PI) / 365.25) * (doy - 28));
+    };
+    for (const lat of [-85, -60, -38.7, -20, 0, 15, 38.5519, 52, 75]) {
+      for (const doy of [1, 28, 150, 210, 366]) {
+        const z = sth(lat, doy) * 1000;
+        expect(climatologicalTropopauseForDayM(lat, doy), `${lat}° day ${doy}`).toBeCloseTo((6_356_766 * z) / (6_356_766 + z), 6);
+      }
+    }
+  });
+
   it('annual mean equals the mean over the twelve months to within 10 m (the cosine term averages out)', () => {
     for (const lat of [-60, -20, 0, 35, 70]) {
       let s = 0;
