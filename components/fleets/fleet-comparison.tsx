@@ -5,7 +5,6 @@ import Link from 'next/link';
 import { usePathname, useSearchParams } from 'next/navigation';
 import { keepPreviousData, useQuery } from '@tanstack/react-query';
 import {
-  flexRender,
   getCoreRowModel,
   getSortedRowModel,
   useReactTable,
@@ -27,6 +26,7 @@ import { Notice, ScreeningCaution } from '@/components/ui/notice';
 import { FleetNoxChart } from '@/components/charts/fleet-nox-chart';
 import { FleetShareChart } from '@/components/charts/fleet-share-chart';
 import { FleetContext } from './fleet-context';
+import { SortableHeader } from '@/components/ui/sortable-header';
 
 interface Props {
   slug: string;
@@ -347,26 +347,14 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
             <table className="figure w-full min-w-[760px] text-sm">
               <thead className="border-b border-line-strong text-left text-xs uppercase tracking-wide text-ink-soft">
                 <tr>
-                  {headerCells.map((h) => {
-                    const sorted = h.column.getIsSorted();
-                    const isFigure = (HIDEABLE as readonly string[]).includes(h.column.id);
-                    return (
-                      <th
-                        key={h.id}
-                        scope="col"
-                        aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : 'none'}
-                        className={`px-2 py-2 align-bottom font-medium ${isFigure ? 'text-right' : ''} ${h.column.id === 'fleetName' ? 'sticky left-0 bg-paper-raised' : ''}`}
-                      >
-                        <button type="button" onClick={h.column.getToggleSortingHandler()} className="inline-flex items-center gap-1 uppercase hover:text-ink">
-                          {flexRender(h.column.columnDef.header, h.getContext())}
-                          {h.column.id === 'co2Kg' ? <sup aria-hidden>1</sup> : null}
-                          <span aria-hidden className="text-ink-faint">
-                            {sorted === 'asc' ? '▲' : sorted === 'desc' ? '▼' : '↕'}
-                          </span>
-                        </button>
-                      </th>
-                    );
-                  })}
+                  {headerCells.map((h) => (
+                    <SortableHeader
+                      key={h.id}
+                      header={h}
+                      className={`px-2 py-2 align-bottom font-medium ${(HIDEABLE as readonly string[]).includes(h.column.id) ? 'text-right' : ''} ${h.column.id === 'fleetName' ? 'sticky left-0 bg-paper-raised' : ''}`}
+                      after={h.column.id === 'co2Kg' ? <sup aria-hidden>1</sup> : null}
+                    />
+                  ))}
                 </tr>
               </thead>
               <tbody>

@@ -8,6 +8,7 @@ import type { UnitSystem } from '@/lib/validation/screen-form';
 import { formatDate, formatDateTime, formatDistance, formatMass, formatPercent } from '@/lib/format';
 import { ButtonLink } from '@/components/ui/button';
 import { ScrollRegion } from '@/components/ui/scroll-region';
+import { SortableHeader } from '@/components/ui/sortable-header';
 
 export interface HistoryRow {
   id: number;
@@ -121,21 +122,9 @@ export function HistoryTable({ slug, rows, units }: { slug: string; rows: Histor
           <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
             {table.getHeaderGroups().map((hg) => (
               <tr key={hg.id}>
-                {hg.headers.map((h) => {
-                  const sorted = h.column.getIsSorted();
-                  return (
-                    <th key={h.id} scope="col" className="whitespace-nowrap py-2 pr-3" aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined}>
-                      {h.column.getCanSort() ? (
-                        <button type="button" onClick={h.column.getToggleSortingHandler()} className="inline-flex items-center gap-1 uppercase hover:text-ink">
-                          {flexRender(h.column.columnDef.header, h.getContext())}
-                          <span aria-hidden>{sorted === 'asc' ? '▲' : sorted === 'desc' ? '▼' : '↕'}</span>
-                        </button>
-                      ) : (
-                        flexRender(h.column.columnDef.header, h.getContext())
-                      )}
-                    </th>
-                  );
-                })}
+                {hg.headers.map((h) => (
+                  <SortableHeader key={h.id} header={h} className="whitespace-nowrap py-2 pr-3" />
+                ))}
               </tr>
             ))}
           </thead>

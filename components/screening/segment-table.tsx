@@ -16,6 +16,7 @@ import type { UnitSystem } from '@/lib/validation/screen-form';
 import { formatAltitude, formatDistance, formatMass, formatNumber } from '@/lib/format';
 import { Button } from '@/components/ui/button';
 import { ScrollRegion } from '@/components/ui/scroll-region';
+import { SortableHeader } from '@/components/ui/sortable-header';
 
 export const SEGMENT_PAGE_SIZE = 25;
 const SORTABLE = ['index', 'startKm', 'flightLevel', 'tropopauseM', 'depthAboveTropopauseKm', 'fuelKg', 'noxKg', 'ozoneLossKg'] as const;
@@ -109,21 +110,9 @@ export function SegmentTable({ segments, units }: { segments: readonly Screening
           <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
             {table.getHeaderGroups().map((hg) => (
               <tr key={hg.id}>
-                {hg.headers.map((h) => {
-                  const sorted = h.column.getIsSorted();
-                  return (
-                    <th key={h.id} scope="col" className="whitespace-nowrap py-2 pr-2.5" aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined}>
-                      {h.column.getCanSort() ? (
-                        <button type="button" onClick={h.column.getToggleSortingHandler()} className="inline-flex items-center gap-1 uppercase hover:text-ink">
-                          {flexRender(h.column.columnDef.header, h.getContext())}
-                          <span aria-hidden>{sorted === 'asc' ? '▲' : sorted === 'desc' ? '▼' : '↕'}</span>
-                        </button>
-                      ) : (
-                        flexRender(h.column.columnDef.header, h.getContext())
-                      )}
-                    </th>
-                  );
-                })}
+                {hg.headers.map((h) => (
+                  <SortableHeader key={h.id} header={h} className="whitespace-nowrap py-2 pr-2.5" />
+                ))}
               </tr>
             ))}
           </thead>

@@ -246,9 +246,19 @@ function legend(w: Writer, series: ChartSeries[], x0: number, top: number): numb
   return top - y + 12;
 }
 
-/** Grouped bars per month with axes, ticks, labels and a legend, drawn with pdf-lib's vector operators. */
-function barChart(w: Writer, title: string, months: string[], series: ChartSeries[], unit: string): void {
-  const plotH = 150;
+interface ChartFrame {
+  left: number;
+  right: number;
+  top: number;
+  bottom: number;
+  yOf: (v: number) => number;
+}
+
+/**
+ * A chart's title, value grid with tick labels and rotated unit, for `plotH` points of height;
+ * `plainZero` prints the zero tick without decimals.
+ */
+function chartFrame(w: Writer, title: string, series: ChartSeries[], unit: string, plotH: number, plainZero: boolean): ChartFrame {
   w.ensure(plotH + 80);
   w.at(title, MARGIN, w.y - 10, { size: 9.5, bold: true });
   w.y -= 18;
@@ -263,53 +273,46 @@ function barChart(w: Writer, title: string, months: string[], series: ChartSerie
   for (const t of ticks) {
     const y = yOf(t);
     w.page.drawLine({ start: { x: left, y }, end: { x: right, y }, thickness: 0.3, color: LINE });
-    const label = formatNumber(t, t !== 0 && yMax < 10 ? 1 : 0);
+    const label = formatNumber(t, (t !== 0 || !plainZero) && yMax < 10 ? 1 : 0);
     w.at(label, left - 4 - w.width(label, 7), y - 2.5, { size: 7, color: INK_SOFT });
   }
   w.at(unit, MARGIN + 6, bottom + plotH / 2 - w.width(unit, 7) / 2, { size: 7, color: INK_SOFT, rotate: 90 });
-  const groupW = (right - left) / Math.max(1, months.length);
+  return { left, right, top, bottom, yOf };
+}
+
+/** The chart's axes over what was drawn, then its legend; moves the writer below it. */
+function finishChart(w: Writer, series: ChartSeries[], f: ChartFrame): void {
+  w.page.drawLine({ start: { x: f.left, y: f.bottom }, end: { x: f.right, y: f.bottom }, thickness: 0.8, color: INK_SOFT });
+  w.page.drawLine({ start: { x: f.left, y: f.bottom }, end: { x: f.left, y: f.top }, thickness: 0.8, color: INK_SOFT });
+  const used = legend(w, series, f.left, f.bottom - 20);
+  w.y = f.bottom - 20 - used - 6;
+}
+
+/** Grouped bars per month with axes, ticks, labels and a legend, drawn with pdf-lib's vector operators. */
+function barChart(w: Writer, title: string, months: string[], series: ChartSeries[], unit: string): void {
+  const f = chartFrame(w, title, series, unit, 150, true);
+  const groupW = (f.right - f.left) / Math.max(1, months.length);
   const barW = Math.min(26, (groupW * 0.78) / Math.max(1, series.length));
   months.forEach((m, i) => {
-    const gx = left + i * groupW + (groupW - barW * series.length) / 2;
+    const gx = f.left + i * groupW + (groupW - barW * series.length) / 2;
     series.forEach((s, j) => {
       const v = s.values[i] ?? 0;
-      if (v > 0) w.page.drawRectangle({ x: gx + j * barW, y: bottom, width: barW - 1, height: yOf(v) - bottom, color: s.colour });
+      if (v > 0) w.page.drawRectangle({ x: gx + j * barW, y: f.bottom, width: barW - 1, height: f.yOf(v) - f.bottom, color: s.colour });
     });
     const label = monthLabel(m);
-    w.at(label, left + i * groupW + groupW / 2 - w.width(label, 7) / 2, bottom - 11, { size: 7, color: INK_SOFT });
+    w.at(label, f.left + i * groupW + groupW / 2 - w.width(label, 7) / 2, f.bottom - 11, { size: 7, color: INK_SOFT });
   });
-  w.page.drawLine({ start: { x: left, y: bottom }, end: { x: right, y: bottom }, thickness: 0.8, color: INK_SOFT });
-  w.page.drawLine({ start: { x: left, y: bottom }, end: { x: left, y: top }, thickness: 0.8, color: INK_SOFT });
-  const used = legend(w, series, left, bottom - 20);
-  w.y = bottom - 20 - used - 6;
+  finishChart(w, series, f);
 }
 
 /** Lines per fleet by month (gaps where a month has no NOx), same axes and legend. */
 function lineChart(w: Writer, title: string, months: string[], series: ChartSeries[], unit: string): void {
-  const plotH = 120;
-  w.ensure(plotH + 80);
-  w.at(title, MARGIN, w.y - 10, { size: 9.5, bold: true });
-  w.y -= 18;
-  const left = MARGIN + 46;
-  const right = MARGIN + CONTENT_W - 4;
-  const top = w.y - 6;
-  const bottom = top - plotH;
-  const max = Math.max(0, ...series.flatMap((s) => s.values.map((v) => v ?? 0)));
-  const ticks = niceTicks(max);
-  const yMax = ticks[ticks.length - 1];
-  const yOf = (v: number) => bottom + (v / yMax) * plotH;
-  for (const t of ticks) {
-    const y = yOf(t);
-    w.page.drawLine({ start: { x: left, y }, end: { x: right, y }, thickness: 0.3, color: LINE });
-    const label = formatNumber(t, yMax < 10 ? 1 : 0);
-    w.at(label, left - 4 - w.width(label, 7), y - 2.5, { size: 7, color: INK_SOFT });
-  }
-  w.at(unit, MARGIN + 6, bottom + plotH / 2 - w.width(unit, 7) / 2, { size: 7, color: INK_SOFT, rotate: 90 });
-  const step = (right - left) / Math.max(1, months.length);
-  const xOf = (i: number) => left + step * (i + 0.5);
+  const f = chartFrame(w, title, series, unit, 120, false);
+  const step = (f.right - f.left) / Math.max(1, months.length);
+  const xOf = (i: number) => f.left + step * (i + 0.5);
   months.forEach((m, i) => {
     const label = monthLabel(m);
-    w.at(label, xOf(i) - w.width(label, 7) / 2, bottom - 11, { size: 7, color: INK_SOFT });
+    w.at(label, xOf(i) - w.width(label, 7) / 2, f.bottom - 11, { size: 7, color: INK_SOFT });
   });
   for (const s of series) {
     let prev: { x: number; y: number } | null = null;
@@ -318,16 +321,13 @@ function lineChart(w: Writer, title: string, months: string[], series: ChartSeri
         prev = null;
         return;
       }
-      const p = { x: xOf(i), y: yOf(v) };
+      const p = { x: xOf(i), y: f.yOf(v) };
       if (prev) w.page.drawLine({ start: prev, end: p, thickness: 1.4, color: s.colour });
       w.page.drawCircle({ x: p.x, y: p.y, size: 2.2, color: s.colour });
       prev = p;
     });
   }
-  w.page.drawLine({ start: { x: left, y: bottom }, end: { x: right, y: bottom }, thickness: 0.8, color: INK_SOFT });
-  w.page.drawLine({ start: { x: left, y: bottom }, end: { x: left, y: top }, thickness: 0.8, color: INK_SOFT });
-  const used = legend(w, series, left, bottom - 20);
-  w.y = bottom - 20 - used - 6;
+  finishChart(w, series, f);
 }
 
 const pct = (v: number | null, d = 1) => (v === null ? '-' : formatPercent(v, d));

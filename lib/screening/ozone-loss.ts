@@ -30,7 +30,7 @@ export const AFGL_ALTITUDE_KM: readonly number[] = Object.freeze([
 
 // The O3 column (ppmv) of five of the six model atmospheres of Anderson et al. (1986),
 // AFGL-TR-86-0110, tables 1a-1e, on their grid up to 35 km. Checked value by value against two
-// machine-readable transcriptions of the report (see tests/unit/screening/ozone-loss.test.ts).
+// machine-readable transcriptions of those tables (see tests/unit/screening/ozone-loss.test.ts).
 /** O3 volume mixing ratio (ppmv) on AFGL_ALTITUDE_KM for each embedded profile. */
 export const AFGL_O3_PPMV: Readonly<Record<OzoneProfileName, readonly number[]>> = Object.freeze({
   tropical: [

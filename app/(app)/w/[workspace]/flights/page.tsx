@@ -7,10 +7,11 @@ import { listFlightFilterOptions, listFlights, summariseFlights, type FlightFilt
 import { flightListQuerySchema } from '@/lib/validation/imports';
 import { formatDistance, formatMass, formatNumber, formatPercent } from '@/lib/format';
 import { Card, EmptyState, PageHeader, Stat } from '@/components/ui/card';
-import { ButtonLink, buttonClass } from '@/components/ui/button';
+import { ButtonLink } from '@/components/ui/button';
 import { Field, SelectInput, TextInput } from '@/components/ui/field';
 import { ScreeningCaution } from '@/components/ui/notice';
 import { FlightsTable } from '@/components/flights/flights-table';
+import { FilterActions } from '@/components/ui/filter-actions';
 
 export const metadata = { title: 'Flights' };
 
@@ -119,16 +120,7 @@ export default async function FlightsPage({ params, searchParams }: { params: Pr
               ))}
             </SelectInput>
           </Field>
-          <div className="flex gap-2 pt-6">
-            <button type="submit" className={buttonClass('secondary')}>
-              Filter
-            </button>
-            {filtered || Object.keys(problems).length ? (
-              <Link href={`/w/${slug}/flights`} className={buttonClass('ghost')}>
-                Clear
-              </Link>
-            ) : null}
-          </div>
+          <FilterActions clearHref={`/w/${slug}/flights`} showClear={filtered || Object.keys(problems).length > 0} className="pt-6" />
         </Form>
       </Card>
 

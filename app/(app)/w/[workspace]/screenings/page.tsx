@@ -1,6 +1,5 @@
 import { Suspense } from 'react';
 import Form from 'next/form';
-import Link from 'next/link';
 import { PagerLinks } from '@/components/ui/pager-links';
 import { requireMember } from '@/lib/auth/guards';
 import { can } from '@/lib/auth/policy';
@@ -8,12 +7,13 @@ import { listScreenings, type ScreeningFilters } from '@/db/screenings';
 import { listAircraftTypes } from '@/db/engines';
 import { screeningListQuerySchema } from '@/lib/validation/screening-api';
 import { Card, EmptyState, PageHeader } from '@/components/ui/card';
-import { ButtonLink, buttonClass } from '@/components/ui/button';
+import { ButtonLink } from '@/components/ui/button';
 import { Field, SelectInput, TextInput } from '@/components/ui/field';
 import { ScreeningCaution } from '@/components/ui/notice';
 import { HistoryTable, type HistoryRow } from '@/components/screening/history-table';
 import { CardSkeleton } from '@/components/screening/skeletons';
 import type { UnitSystem } from '@/lib/validation/screen-form';
+import { FilterActions } from '@/components/ui/filter-actions';
 
 export const metadata = { title: 'Screenings' };
 
@@ -116,16 +116,7 @@ export default async function ScreeningsPage({ params, searchParams }: { params:
           <Field id="maxAbove" label="Max. share above (%)" error={problems.maxAbove}>
             <TextInput id="maxAbove" name="maxAbove" inputMode="decimal" defaultValue={text.maxAbove} invalid={!!problems.maxAbove} />
           </Field>
-          <div className="flex gap-2 sm:col-span-2 md:col-span-3 xl:col-span-6">
-            <button type="submit" className={buttonClass('secondary')}>
-              Filter
-            </button>
-            {filtered || Object.keys(problems).length ? (
-              <Link href={`/w/${slug}/screenings`} className={buttonClass('ghost')}>
-                Clear
-              </Link>
-            ) : null}
-          </div>
+          <FilterActions clearHref={`/w/${slug}/screenings`} showClear={filtered || Object.keys(problems).length > 0} className="sm:col-span-2 md:col-span-3 xl:col-span-6" />
         </Form>
       </Card>
       <Suspense key={JSON.stringify([filters, one(search.cursor)])} fallback={<CardSkeleton label="the screenings" height="h-96" />}>
