@@ -2,7 +2,7 @@
  * What-if cruise levels: the same flight screened at other levels with a fuel penalty for leaving
  * the planned level, and the lowest-impact level within the planner's limit marked.
  */
-import { screenTotals, type ScreeningTotals } from './screen-flight';
+import { CO2_PER_KG_FUEL, screenTotals, type ScreeningTotals } from './screen-flight';
 import { validateCompareOptions, validateScreeningInput } from './validate';
 import { SCREENING_LIMITS, type ScreeningInput } from '../validation/screening';
 
@@ -16,6 +16,20 @@ export const DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT = 1;
 /** Default planner's limit on the fuel penalty, %. */
 export const DEFAULT_MAX_FUEL_PENALTY_PCT = 2;
 
+/**
+ * What the lowest-impact mark minimises: the NOx emitted above the tropopause, or the central
+ * gross ozone-loss figure (which ignores the extra fuel and the likely net ozone production below
+ * about 13-20 km).
+ */
+export type MinimiseCriterion = 'nox-above-tropopause' | 'ozone-figure';
+/** Default criterion of the mark. */
+export const DEFAULT_MINIMISE: MinimiseCriterion = 'ozone-figure';
+/** The name of the mark for each criterion, as shown beside it. */
+export const MARK_NAMES: Readonly<Record<MinimiseCriterion, string>> = Object.freeze({
+  'nox-above-tropopause': 'Least NOx above the tropopause',
+  'ozone-figure': 'Least ozone figure',
+});
+
 /** One what-if level. Masses in kg (NOx as NO2). */
 export interface CruiseLevelRow {
   /** First (or only) flight level of the shifted profile. */
@@ -25,11 +39,17 @@ export interface CruiseLevelRow {
   deltaFt: number;
   fuelKg: number;
   fuelPenaltyPct: number;
+  /** Fuel and CO2 beside the planned level (+ more), kg; CO2 = 3.16 x fuel (ICAO CORSIA). */
+  fuelChangeKg: number;
+  co2ChangeKg: number;
   noxTotalKg: number;
   noxAboveTropopauseKg: number;
   ozoneLoss: { centralKg: number; lowKg: number; highKg: number; o3PerNox: number };
   withinLimit: boolean;
   lowestImpact: boolean;
+  /** What the mark minimises, and its name. */
+  minimise: MinimiseCriterion;
+  markName: string;
 }
 
 /**
@@ -37,13 +57,15 @@ export interface CruiseLevelRow {
  * 2000 ft steps; every step of a step climb shifts together; shifts leaving FL0-FL660 are skipped).
  * Fuel = planned fuel x (1 + penalty/100), penalty = `fuelPenaltyPctPer1000Ft` (default 1 %, rule
  * of thumb) x |delta| / 1000 ft, added before NOx is computed. Marks exactly one row
- * `lowestImpact`: among rows within `maxFuelPenaltyPct` (default 2 %), the least central ozone
- * figure, then the least NOx above the tropopause, then the smallest |delta|, then the lower level.
+ * `lowestImpact`: among rows within `maxFuelPenaltyPct` (default 2 %), the least of what `minimise`
+ * names (default the central ozone figure; or the NOx above the tropopause), then the other, then
+ * the smallest |delta|, then the lower level. Each row carries the fuel and CO2 change beside the
+ * planned level and the name of the mark.
  * Throws ScreeningInputError for a bad input (paths as `screenFlight`) or bad options (`options.*`).
  */
 export function compareCruiseLevels(
   input: unknown,
-  options: { deltasFt?: number[]; fuelPenaltyPctPer1000Ft?: number; maxFuelPenaltyPct?: number } = {},
+  options: { deltasFt?: number[]; fuelPenaltyPctPer1000Ft?: number; maxFuelPenaltyPct?: number; minimise?: MinimiseCriterion } = {},
 ): CruiseLevelRow[] {
   const base = validateScreeningInput(input);
   const opts = validateCompareOptions(options);
@@ -57,12 +79,13 @@ export function compareCruiseLevels(
  */
 export function compareValidated(
   base: ScreeningInput,
-  opts: { deltasFt?: readonly number[]; fuelPenaltyPctPer1000Ft?: number; maxFuelPenaltyPct?: number },
+  opts: { deltasFt?: readonly number[]; fuelPenaltyPctPer1000Ft?: number; maxFuelPenaltyPct?: number; minimise?: MinimiseCriterion },
   planned?: ScreeningTotals,
 ): CruiseLevelRow[] {
   const deltas = [...new Set(opts.deltasFt ?? DEFAULT_LEVEL_DELTAS_FT)].sort((a, b) => a - b);
   const perK = opts.fuelPenaltyPctPer1000Ft ?? DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT;
   const limit = opts.maxFuelPenaltyPct ?? DEFAULT_MAX_FUEL_PENALTY_PCT;
+  const minimise = opts.minimise ?? DEFAULT_MINIMISE;
   const steps = 'steps' in base.cruise ? base.cruise.steps : [{ fromKm: 0, flightLevel: base.cruise.flightLevel }];
   const rows: CruiseLevelRow[] = [];
   for (const deltaFt of deltas) {
@@ -87,6 +110,8 @@ export function compareValidated(
       deltaFt,
       fuelKg,
       fuelPenaltyPct,
+      fuelChangeKg: fuelKg - base.fuelBurnKg,
+      co2ChangeKg: (fuelKg - base.fuelBurnKg) * CO2_PER_KG_FUEL,
       noxTotalKg: r.noxTotalKg,
       noxAboveTropopauseKg: r.noxAboveTropopauseKg,
       ozoneLoss: {
@@ -97,20 +122,23 @@ export function compareValidated(
       },
       withinLimit: fuelPenaltyPct <= limit + 1e-12,
       lowestImpact: false,
+      minimise,
+      markName: MARK_NAMES[minimise],
     });
   }
   let best: CruiseLevelRow | null = null;
   for (const row of rows) {
     if (!row.withinLimit) continue;
-    if (best === null || better(row, best)) best = row;
+    if (best === null || better(row, best, minimise)) best = row;
   }
   if (best !== null) best.lowestImpact = true;
   return rows;
 }
 
-function better(a: CruiseLevelRow, b: CruiseLevelRow): boolean {
-  if (a.ozoneLoss.centralKg !== b.ozoneLoss.centralKg) return a.ozoneLoss.centralKg < b.ozoneLoss.centralKg;
-  if (a.noxAboveTropopauseKg !== b.noxAboveTropopauseKg) return a.noxAboveTropopauseKg < b.noxAboveTropopauseKg;
+function better(a: CruiseLevelRow, b: CruiseLevelRow, minimise: MinimiseCriterion): boolean {
+  const keys: ((r: CruiseLevelRow) => number)[] = [(r) => r.noxAboveTropopauseKg, (r) => r.ozoneLoss.centralKg];
+  if (minimise === 'ozone-figure') keys.reverse();
+  for (const k of keys) if (k(a) !== k(b)) return k(a) < k(b);
   if (Math.abs(a.deltaFt) !== Math.abs(b.deltaFt)) return Math.abs(a.deltaFt) < Math.abs(b.deltaFt);
   return a.deltaFt < b.deltaFt;
 }

@@ -20,14 +20,18 @@ export const BFFM2_INSTALLATION_FACTORS = [1.1, 1.02, 1.013, 1.01] as const;
 /** Default relative humidity (fraction) for the humidity correction: the usual BFFM2 default 0.6. */
 export const DEFAULT_RELATIVE_HUMIDITY = 0.6;
 
-/** Reference specific humidity of the BFFM2 humidity correction, kg/kg. */
-export const REFERENCE_SPECIFIC_HUMIDITY = 0.00634;
+/**
+ * Reference humidity ratio of the humidity correction, kg water per kg dry air: DuBois & Paynter
+ * (2006) write H = -19.0 (omega - 0.0063) with omega a mixing ratio (0.00634 is the ICAO reference
+ * humidity; this engine uses the paper's 0.0063).
+ */
+export const REFERENCE_HUMIDITY_RATIO = 0.0063;
 
 /**
  * A log-log EI curve through the four certification points: ln(fuel flow) and ln(EI) per point,
- * increasing in fuel flow. Evaluated piecewise linearly in ln-ln space; outside the four points
- * the end segment (idle-approach below, climb-out-take-off above) is extended with its own slope,
- * i.e. a power law, and the result says it was extrapolated.
+ * increasing in fuel flow. Evaluated piecewise linearly in ln-ln space between the points; outside
+ * them the EI of the end point holds (the correlation is valid from idle to take-off only), and the
+ * result says where the fuel flow fell.
  */
 export interface EiCurve {
   lnFuelFlow: Float64Array;
@@ -65,11 +69,13 @@ export function buildEiCurve(engine: EngineCertData, factors: readonly number[] 
 /** Where a fuel flow fell on the curve: -1 below the first point, +1 above the last, 0 inside. */
 export type CurvePosition = -1 | 0 | 1;
 
-/** EI (g/kg) on the curve at fuel flow `wf` (kg/s); no allocation. */
+/** EI (g/kg) on the curve at fuel flow `wf` (kg/s), held at the end points beyond them; no allocation. */
 export function evaluateEiCurve(curve: EiCurve, wf: number): number {
-  const x = Math.log(wf);
   const xs = curve.lnFuelFlow;
   const n = xs.length;
+  let x = Math.log(wf);
+  if (!(x > xs[0])) x = xs[0];
+  else if (x > xs[n - 1]) x = xs[n - 1];
   let i = 0;
   while (i < n - 2 && x > xs[i + 1]) i++;
   return Math.exp(curve.lnEi[i] + curve.slope[i] * (x - xs[i]));
@@ -102,17 +108,18 @@ export function goffGratchSaturationPressurePa(temperatureK: number): number {
 }
 
 /**
- * Specific humidity (kg/kg) from relative humidity (fraction) as the BFFM2 humidity correction
- * writes it: omega = 0.62198 phi Pv / (p - phi Pv), Pv the Goff-Gratch saturation pressure.
+ * Humidity ratio (mixing ratio, kg water per kg dry air) from relative humidity (fraction) as the
+ * BFFM2 humidity correction writes it: omega = 0.62198 phi Pv / (p - phi Pv), Pv the Goff-Gratch
+ * saturation pressure.
  */
-export function specificHumidityKgKg(relativeHumidity: number, pressurePa: number, temperatureK: number): number {
+export function humidityRatioKgKg(relativeHumidity: number, pressurePa: number, temperatureK: number): number {
   const pv = relativeHumidity * goffGratchSaturationPressurePa(temperatureK);
   return (0.62198 * pv) / Math.max(pressurePa - pv, 1e-9);
 }
 
-/** The humidity term H = -19.0 (omega - 0.00634) of BFFM2 and the DLR method (dimensionless). */
+/** The humidity term H = -19.0 (omega - 0.0063) of BFFM2 (DuBois & Paynter 2006) and the DLR method. */
 export function humidityTerm(relativeHumidity: number, pressurePa: number, temperatureK: number): number {
-  return -19.0 * (specificHumidityKgKg(relativeHumidity, pressurePa, temperatureK) - REFERENCE_SPECIFIC_HUMIDITY);
+  return -19.0 * (humidityRatioKgKg(relativeHumidity, pressurePa, temperatureK) - REFERENCE_HUMIDITY_RATIO);
 }
 
 /** Ambient state for a fuel-flow correction. */
@@ -139,7 +146,7 @@ export interface EiEstimate {
   referredFuelFlowKgS: number;
   /** exp(H), the humidity factor. */
   humidityFactor: number;
-  /** -1 / +1 when the referred fuel flow lies below idle / above take-off (power-law extension). */
+  /** -1 / +1 when the referred fuel flow lies below idle / above take-off (end EI held). */
   curvePosition: CurvePosition;
 }
 

@@ -17,9 +17,12 @@ export {
 export {
   climatologicalTropopauseM,
   climatologicalTropopauseForDayM,
+  climatologicalTropopause,
   tropopauseFromSounding,
   type SoundingTropopause,
 } from './tropopause';
+export { BTH_35PVU_KM, BTH_BANDS_DEG, BTH_DAYS, AFGL_PT, type ClimatologicalTropopause } from './climatology';
+export { daySunlight, windowSunlight, solarDeclinationRad, type DaySunlight, type WindowSunlight } from './sunlight';
 export { rateConstant, JPL_19_5, type Reaction } from './kinetics';
 export {
   bffm2EiNox,
@@ -35,6 +38,7 @@ export {
 } from './emission-index';
 export {
   DEFAULT_OZONE_INPUTS,
+  DAYLIGHT_FACTOR_EQUINOX,
   AFGL_O3_PPMV,
   AFGL_ALTITUDE_KM,
   FLEET_STUDIES,
@@ -65,7 +69,10 @@ export {
   DEFAULT_LEVEL_DELTAS_FT,
   DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT,
   DEFAULT_MAX_FUEL_PENALTY_PCT,
+  DEFAULT_MINIMISE,
+  MARK_NAMES,
   type CruiseLevelRow,
+  type MinimiseCriterion,
 } from './compare-levels';
 export { validateScreeningInput, validateCompareOptions, problemsFromZod } from './validate';
 export { ScreeningInputError } from './errors';

@@ -1,7 +1,10 @@
 /**
- * Gas-phase rate constants from JPL Publication 19-5 (Burkholder et al. 2019), as listed in
- * Bimolecular: k = A exp(-(E/R)/T). Termolecular: k0(T) = k0_298 (T/298)^-n,
- * kinf(T) = kinf_298 (T/298)^-m, JPL fall-off form with broadening factor Fc = 0.6.
+ * Gas-phase rate constants from JPL Publication 19-5 (Burkholder et al. 2019), parameters as listed
+ * in its tables 1 (bimolecular) and 2 (termolecular) and its chemical-activation entry for O + NO2.
+ * Bimolecular: k = A exp(-(E/R)/T). Termolecular: k0(T) = k0_300 (T/300)^-n, kinf(T) = kinf_300
+ * (T/300)^-m (JPL tabulates both at 300 K), JPL fall-off form with broadening factor Fc = 0.6.
+ * Chemical activation (JPL 19-5 section 2): k_ca = kca_inf(T) (1 - k_f([M],T) / kinf(T)), k_f the
+ * fall-off rate of the competing association channel.
  */
 
 /** Reactions the engine knows. */
@@ -23,29 +26,49 @@ export interface ArrheniusParameters {
   eOverRK: number;
 }
 
-/** Termolecular parameters: k0 at 298 K (cm^6 molecule^-2 s^-1) with exponent n; kinf likewise. */
+/** Termolecular parameters: k0 at 300 K (cm^6 molecule^-2 s^-1) with exponent n; kinf likewise. */
 export interface TermolecularParameters {
   kind: 'termolecular';
-  k0At298: number;
+  k0At300: number;
   n: number;
-  kInfAt298: number | null;
+  kInfAt300: number | null;
   m: number;
 }
 
-/** JPL 19-5 parameters per reaction. */
-export const JPL_19_5: Readonly<Record<Reaction, ArrheniusParameters | TermolecularParameters>> = Object.freeze({
-  'NO+O3': { kind: 'arrhenius', a: 3.0e-12, eOverRK: 1500 },
-  // JPL 15-10 bimolecular form; 19-5's chemical-activation form agrees within 1 % at
-  // stratospheric pressures.
-  'NO2+O': { kind: 'arrhenius', a: 5.1e-12, eOverRK: -210 },
-  'O+O3': { kind: 'arrhenius', a: 8.0e-12, eOverRK: 2060 },
-  'OH+O3': { kind: 'arrhenius', a: 1.7e-12, eOverRK: 940 },
-  'HO2+O': { kind: 'arrhenius', a: 3.0e-11, eOverRK: -200 },
-  'HO2+O3': { kind: 'arrhenius', a: 1.0e-14, eOverRK: 490 },
-  'HO2+NO': { kind: 'arrhenius', a: 3.44e-12, eOverRK: -260 },
-  'O+O2+M': { kind: 'termolecular', k0At298: 6.1e-34, n: 2.4, kInfAt298: null, m: 0 },
-  'OH+NO2+M': { kind: 'termolecular', k0At298: 1.8e-30, n: 3.0, kInfAt298: 2.8e-11, m: 0 },
-});
+/**
+ * Chemical-activation parameters: the bimolecular channel's high-pressure Arrhenius form (A, E/R)
+ * and the termolecular parameters of the association channel it competes with.
+ */
+export interface ChemicalActivationParameters {
+  kind: 'chemical-activation';
+  a: number;
+  eOverRK: number;
+  association: TermolecularParameters;
+}
+
+/** Reference temperature of the JPL termolecular parameters, K. */
+export const JPL_TERMOLECULAR_REFERENCE_K = 300;
+
+/** JPL 19-5 parameters per reaction (values as listed in its tables, from memory: confirm there). */
+export const JPL_19_5: Readonly<Record<Reaction, ArrheniusParameters | TermolecularParameters | ChemicalActivationParameters>> =
+  Object.freeze({
+    'NO+O3': { kind: 'arrhenius', a: 3.0e-12, eOverRK: 1500 },
+    // O + NO2 -> NO + O2 competes with O + NO2 + M -> NO3 (k0 3.4e-31, n 1.6, kinf 2.3e-11, m 0.2).
+    'NO2+O': {
+      kind: 'chemical-activation',
+      a: 5.3e-12,
+      eOverRK: -200,
+      association: { kind: 'termolecular', k0At300: 3.4e-31, n: 1.6, kInfAt300: 2.3e-11, m: 0.2 },
+    },
+    'O+O3': { kind: 'arrhenius', a: 8.0e-12, eOverRK: 2060 },
+    'OH+O3': { kind: 'arrhenius', a: 1.7e-12, eOverRK: 940 },
+    'HO2+O': { kind: 'arrhenius', a: 3.0e-11, eOverRK: -200 },
+    'HO2+O3': { kind: 'arrhenius', a: 1.0e-14, eOverRK: 490 },
+    // One line of JPL 19-5 table 1: A and E/R as listed; k(298) = 8.2e-12 follows from them.
+    'HO2+NO': { kind: 'arrhenius', a: 3.44e-12, eOverRK: -260 },
+    'O+O2+M': { kind: 'termolecular', k0At300: 6.1e-34, n: 2.4, kInfAt300: null, m: 0 },
+    'OH+NO2+M': { kind: 'termolecular', k0At300: 1.8e-30, n: 3.0, kInfAt300: 2.8e-11, m: 0 },
+  });
 
 /** Broadening factor of the JPL fall-off expression. */
 export const JPL_FALLOFF_FC = 0.6;
@@ -55,9 +78,9 @@ export function arrhenius(a: number, eOverRK: number, temperatureK: number): num
   return a * Math.exp(-eOverRK / temperatureK);
 }
 
-/** JPL low-pressure limit k0(T) = k0_298 (T/298)^-n, no checks. */
-export function lowPressureLimit(k0At298: number, n: number, temperatureK: number): number {
-  return k0At298 * Math.pow(temperatureK / 298, -n);
+/** JPL low-pressure limit k0(T) = k0_300 (T/300)^-n, no checks. */
+export function lowPressureLimit(k0At300: number, n: number, temperatureK: number): number {
+  return k0At300 * Math.pow(temperatureK / JPL_TERMOLECULAR_REFERENCE_K, -n);
 }
 
 /**
@@ -71,34 +94,49 @@ export function fallOff(k0: number, kInf: number, airDensityCm3: number): number
   return (k0m / (1 + r)) * Math.pow(JPL_FALLOFF_FC, 1 / (1 + lg * lg));
 }
 
+function termolecularRate(p: TermolecularParameters, temperatureK: number, airDensityCm3: number): number {
+  const k0 = lowPressureLimit(p.k0At300, p.n, temperatureK);
+  const kInf = (p.kInfAt300 as number) * Math.pow(temperatureK / JPL_TERMOLECULAR_REFERENCE_K, -p.m);
+  return fallOff(k0, kInf, airDensityCm3);
+}
+
 /** k(OH + NO2 + M) effective bimolecular rate, cm^3 molecule^-1 s^-1, no checks. */
 export function ohNo2Rate(temperatureK: number, airDensityCm3: number): number {
-  const p = JPL_19_5['OH+NO2+M'] as TermolecularParameters;
-  const k0 = lowPressureLimit(p.k0At298, p.n, temperatureK);
-  const kInf = (p.kInfAt298 as number) * Math.pow(temperatureK / 298, -p.m);
-  return fallOff(k0, kInf, airDensityCm3);
+  return termolecularRate(JPL_19_5['OH+NO2+M'] as TermolecularParameters, temperatureK, airDensityCm3);
+}
+
+/**
+ * k(O + NO2 -> NO + O2) in JPL 19-5's chemical-activation form, cm^3 molecule^-1 s^-1, no checks:
+ * kca_inf(T) (1 - k_f([M],T) / kinf(T)) with k_f the O + NO2 + M -> NO3 fall-off rate.
+ */
+export function no2ORate(temperatureK: number, airDensityCm3: number): number {
+  const p = JPL_19_5['NO2+O'] as ChemicalActivationParameters;
+  const assoc = p.association;
+  const kInf = (assoc.kInfAt300 as number) * Math.pow(temperatureK / JPL_TERMOLECULAR_REFERENCE_K, -assoc.m);
+  const kf = termolecularRate(assoc, temperatureK, airDensityCm3);
+  return arrhenius(p.a, p.eOverRK, temperatureK) * (1 - kf / kInf);
 }
 
 /**
  * Rate constant of `reaction` at `temperatureK` (K, 100..400) from JPL Publication 19-5:
  * bimolecular reactions in cm^3 molecule^-1 s^-1; 'O+O2+M' the low-pressure limit k0 in
- * cm^6 molecule^-2 s^-1; 'OH+NO2+M' the effective fall-off rate in cm^3 molecule^-1 s^-1, which
- * needs the air number density `airDensityCm3` (molecule cm^-3). RangeError on bad arguments.
+ * cm^6 molecule^-2 s^-1; 'OH+NO2+M' the effective fall-off rate and 'NO2+O' the chemical-activation
+ * rate, both in cm^3 molecule^-1 s^-1 and both needing the air number density `airDensityCm3`
+ * (molecule cm^-3). RangeError on bad arguments.
  */
 export function rateConstant(reaction: Reaction, temperatureK: number, airDensityCm3?: number): number {
-  const p = (JPL_19_5 as Record<string, ArrheniusParameters | TermolecularParameters>)[reaction];
+  const p = (JPL_19_5 as Record<string, ArrheniusParameters | TermolecularParameters | ChemicalActivationParameters>)[reaction];
   if (p === undefined) throw new RangeError(`Unknown reaction "${String(reaction)}".`);
   if (!Number.isFinite(temperatureK) || temperatureK < 100 || temperatureK > 400) {
     throw new RangeError(`The temperature must be between 100 and 400 K (got ${temperatureK}).`);
   }
   if (p.kind === 'arrhenius') return arrhenius(p.a, p.eOverRK, temperatureK);
-  const k0 = lowPressureLimit(p.k0At298, p.n, temperatureK);
-  if (p.kInfAt298 === null) return k0;
+  if (p.kind === 'termolecular' && p.kInfAt300 === null) return lowPressureLimit(p.k0At300, p.n, temperatureK);
   if (airDensityCm3 === undefined || !Number.isFinite(airDensityCm3) || airDensityCm3 <= 0) {
     throw new RangeError(
       `${reaction} is pressure dependent: give the air number density airDensityCm3 (molecule cm^-3, above 0).`,
     );
   }
-  const kInf = p.kInfAt298 * Math.pow(temperatureK / 298, -p.m);
-  return fallOff(k0, kInf, airDensityCm3);
+  if (p.kind === 'chemical-activation') return no2ORate(temperatureK, airDensityCm3);
+  return termolecularRate(p, temperatureK, airDensityCm3);
 }

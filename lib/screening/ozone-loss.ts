@@ -5,7 +5,7 @@
  * Number densities in molecule cm^-3, J in s^-1, residence times in years, masses in kg.
  */
 import { AVOGADRO, BOLTZMANN_J_K } from './atmosphere';
-import { JPL_19_5, arrhenius, lowPressureLimit, ohNo2Rate, type ArrheniusParameters, type TermolecularParameters } from './kinetics';
+import { JPL_19_5, arrhenius, lowPressureLimit, no2ORate, ohNo2Rate, type ArrheniusParameters, type TermolecularParameters } from './kinetics';
 import type { Assumptions, OzoneProfileName } from '../validation/screening';
 
 /** Molar mass of O3, g/mol. */
@@ -129,11 +129,14 @@ export interface Band {
 
 /** The inputs of the ozone figure after defaults and overrides are merged. */
 export interface OzoneInputs {
+  /** J(O3 -> O(3P)) with the sun overhead, s^-1; scaled by the daytime-mean cos zenith. */
   jO3NoonPerS: Band;
+  /** J(NO2) with the sun overhead, s^-1; scaled likewise. */
   jNo2NoonPerS: Band;
-  daylightFactor: Band;
+  /** Daylight factor D given with the flight, or null: derived from solar geometry. */
+  daylightFactor: Band | null;
   noxToNoyFraction: Band;
-  residenceTime: { depthKm: readonly number[]; years: readonly number[]; lowFactor: number; highFactor: number };
+  residenceTime: ResidenceTimeTable;
   ohCm3: number;
   ho2Cm3: number;
   relativeHumidity: number;
@@ -142,18 +145,45 @@ export interface OzoneInputs {
 }
 
 /**
- * Defaults: screening values of the right order of magnitude, given from
- * memory; each is overridable through `input.assumptions`. [HO2] is 5 x [OH] (from memory, lower
- * stratosphere daytime) and only used by the local budget. Relative humidity 0.6 (BFFM2 default).
+ * Residence time above the tropopause by depth (nodes in km, first 0) for the extratropics
+ * (`years`) and the tropics (`tropicalYears`, null: the extratropical values everywhere), with the
+ * band factors of the low and high figures.
+ */
+export interface ResidenceTimeTable {
+  depthKm: readonly number[];
+  years: readonly number[];
+  tropicalYears: readonly number[] | null;
+  lowFactor: number;
+  highFactor: number;
+}
+
+/** The sunlit fraction of the day at an equinox, everywhere: a placeholder for forms, not a default. */
+export const DAYLIGHT_FACTOR_EQUINOX: Readonly<Band> = Object.freeze({ central: 0.5, low: 0.5, high: 0.5 });
+
+/** |Latitude| up to which the tropical residence times apply in full, degrees. */
+export const TROPICAL_RESIDENCE_FULL_LAT = 20;
+/** |Latitude| from which the extratropical residence times apply in full (linear between), degrees. */
+export const EXTRATROPICAL_RESIDENCE_FULL_LAT = 30;
+
+/** Sources of the residence-time defaults, shown beside the values. */
+export const RESIDENCE_SOURCE =
+  'Extratropics: flushed within weeks to months just above the tropopause, 1-2 years at 16-20 km (IPCC 1999, Aviation and the Global Atmosphere, ch. 2 and 4; Holton et al. 1995, Rev. Geophys. 33, 403). Tropics: lofted by the Brewer-Dobson upwelling, mean age of air 1-3 years in the tropical lower and middle stratosphere (Waugh & Hall 2002, Rev. Geophys. 40, 1010). Node values are screening values read from that picture, from memory: override them with a published table where one is adopted.';
+
+/**
+ * Defaults: screening values of the right order of magnitude, given from memory; each is
+ * overridable through `input.assumptions`. The J values are overhead-sun references scaled by the
+ * daytime-mean cos of the zenith angle (a screening approximation). [HO2] is 5 x [OH] (from memory,
+ * lower stratosphere daytime) and only used by the local budget. Relative humidity 0.6 (BFFM2 default).
  */
 export const DEFAULT_OZONE_INPUTS: Readonly<OzoneInputs> = Object.freeze({
   jO3NoonPerS: Object.freeze({ central: 4.5e-4, low: 3e-4, high: 6e-4 }),
   jNo2NoonPerS: Object.freeze({ central: 1.0e-2, low: 0.8e-2, high: 1.5e-2 }),
-  daylightFactor: Object.freeze({ central: 0.4, low: 0.3, high: 0.5 }),
+  daylightFactor: null,
   noxToNoyFraction: Object.freeze({ central: 0.2, low: 0.1, high: 0.4 }),
   residenceTime: Object.freeze({
     depthKm: Object.freeze([0, 1, 2, 4, 6, 9]),
     years: Object.freeze([0.1, 0.25, 0.5, 1.0, 1.5, 2.0]),
+    tropicalYears: Object.freeze([1.0, 1.5, 2.0, 2.5, 3.0, 3.0]),
     lowFactor: 0.5,
     highFactor: 2,
   }),
@@ -177,7 +207,7 @@ export function resolveOzoneInputs(a: Assumptions | undefined): OzoneInputs {
   return {
     jO3NoonPerS: band(a.jO3NoonPerS, d.jO3NoonPerS),
     jNo2NoonPerS: band(a.jNo2NoonPerS, d.jNo2NoonPerS),
-    daylightFactor: band(a.daylightFactor, d.daylightFactor),
+    daylightFactor: a.daylightFactor === undefined ? null : band(a.daylightFactor, { central: 0, low: 0, high: 0 }),
     noxToNoyFraction: band(a.noxToNoyFraction, d.noxToNoyFraction),
     residenceTime:
       rt === undefined
@@ -185,6 +215,7 @@ export function resolveOzoneInputs(a: Assumptions | undefined): OzoneInputs {
         : {
             depthKm: rt.depthKm,
             years: rt.years,
+            tropicalYears: rt.tropicalYears ?? null,
             lowFactor: rt.lowFactor ?? d.residenceTime.lowFactor,
             highFactor: rt.highFactor ?? d.residenceTime.highFactor,
           },
@@ -195,25 +226,33 @@ export function resolveOzoneInputs(a: Assumptions | undefined): OzoneInputs {
   };
 }
 
-/**
- * Residence time above the tropopause (years, central) at `depthKm` above it: linear between the
- * nodes, which sit at the lower edge of each depth band (0, 1, 2, 4, 6, 9 km ->
- * 0.1, 0.25, 0.5, 1, 1.5, 2 yr), flat beyond the last node and at the first value below 0 km.
- * Putting nodes at the lower edges never gives less than a band's value inside it (conservative).
- */
-export function residenceTimeYears(depthKm: number, r: OzoneInputs['residenceTime']): number {
-  const xs = r.depthKm;
-  const ys = r.years;
+function interpolateNodes(xs: readonly number[], ys: readonly number[], x: number): number {
   const n = xs.length;
-  if (depthKm <= xs[0]) return ys[0];
-  if (depthKm >= xs[n - 1]) return ys[n - 1];
+  if (x <= xs[0]) return ys[0];
+  if (x >= xs[n - 1]) return ys[n - 1];
   let i = 0;
-  while (depthKm > xs[i + 1]) i++;
-  return ys[i] + ((depthKm - xs[i]) / (xs[i + 1] - xs[i])) * (ys[i + 1] - ys[i]);
+  while (x > xs[i + 1]) i++;
+  return ys[i] + ((x - xs[i]) / (xs[i + 1] - xs[i])) * (ys[i + 1] - ys[i]);
+}
+
+/**
+ * Residence time above the tropopause (years, central) at `depthKm` above it and latitude
+ * `latDeg`: linear in depth between the nodes (at the lower edge of each depth band, flat beyond
+ * the last node and at the first value below 0 km, so never less than a band's value inside it);
+ * the tropical table up to 20 degrees, the extratropical one from 30 degrees, linear between.
+ */
+export function residenceTimeYears(depthKm: number, r: ResidenceTimeTable, latDeg = 90): number {
+  const extra = interpolateNodes(r.depthKm, r.years, depthKm);
+  if (r.tropicalYears === null) return extra;
+  const a = latDeg < 0 ? -latDeg : latDeg;
+  if (a >= EXTRATROPICAL_RESIDENCE_FULL_LAT) return extra;
+  const trop = interpolateNodes(r.depthKm, r.tropicalYears, depthKm);
+  if (a <= TROPICAL_RESIDENCE_FULL_LAT) return trop;
+  const w = (a - TROPICAL_RESIDENCE_FULL_LAT) / (EXTRATROPICAL_RESIDENCE_FULL_LAT - TROPICAL_RESIDENCE_FULL_LAT);
+  return trop + w * (extra - trop);
 }
 
 const K_NO_O3 = JPL_19_5['NO+O3'] as ArrheniusParameters;
-const K_NO2_O = JPL_19_5['NO2+O'] as ArrheniusParameters;
 const K_O_O3 = JPL_19_5['O+O3'] as ArrheniusParameters;
 const K_OH_O3 = JPL_19_5['OH+O3'] as ArrheniusParameters;
 const K_HO2_O = JPL_19_5['HO2+O'] as ArrheniusParameters;
@@ -225,14 +264,18 @@ export function airNumberDensityCm3(pressurePa: number, temperatureK: number): n
   return (pressurePa / (BOLTZMANN_J_K * temperatureK)) * 1e-6;
 }
 
+/** Length of the coefficient block `ozoneLossCoefficients` writes. */
+export const COEFFICIENT_COUNT = 7;
+
 /**
- * Per-NOx-molecule loss coefficients at one level, written into `out`:
- * out[0..2] = O3 molecules destroyed per NOx molecule per year of residence (central, low, high),
- * i.e. 2 k(NO2+O) [O] D f_NO2 f_NOx/NOy x seconds per year, with the low/high band applied
- * (including the residence-time factors); out[3] = local daytime chain length
- * k(NO2+O)[O] / (k(OH+NO2+M)[OH]) (central). The low figure takes J(O3), D, f_NOx/NOy and the
- * residence time at their low values and J(NO2) at its high value (more NO2 photolysis, less NO2,
- * less loss); the high figure the reverse, so low <= central <= high always holds.
+ * Per-NOx-molecule loss coefficients at one level, written into `out` (length COEFFICIENT_COUNT),
+ * for a daytime-mean cos zenith s and daylight factor D supplied later by `lossPerNoxYear`:
+ * out[0..2] = B (central, low, high) and out[3..5] = r0 such that the O3 molecules destroyed per NOx
+ * molecule per year of residence are B s D / (s + r0). With [O] = s J(O3) [O3] / (k(O+O2+M) [O2] [M])
+ * and [NO2]/[NO] = k(NO+O3)[O3] / (s J(NO2) + k(NO2+O)[O]) = r0 / s, the loss 2 k(NO2+O) [O] D f_NO2
+ * f_NOx/NOy x seconds per year takes that form. The low case takes J(O3), f_NOx/NOy and the residence
+ * factor low and J(NO2) high; the high case the reverse, so low <= central <= high.
+ * out[6] = local daytime chain length per unit s, k(NO2+O)[O] / (k(OH+NO2+M)[OH]) at s = 1.
  */
 export function ozoneLossCoefficients(
   temperatureK: number,
@@ -243,25 +286,30 @@ export function ozoneLossCoefficients(
 ): void {
   const m = airDensityCm3;
   const o3 = o3Ppmv * 1e-6 * m;
-  const kNo2O = arrhenius(K_NO2_O.a, K_NO2_O.eOverRK, temperatureK);
+  const kNo2O = no2ORate(temperatureK, m);
   const kNoO3 = arrhenius(K_NO_O3.a, K_NO_O3.eOverRK, temperatureK);
-  const k0 = lowPressureLimit(K_O_O2_M.k0At298, K_O_O2_M.n, temperatureK);
+  const k0 = lowPressureLimit(K_O_O2_M.k0At300, K_O_O2_M.n, temperatureK);
   const oPerJ = o3 / (k0 * O2_FRACTION * m * m);
   const j = inputs.jO3NoonPerS;
   const jn = inputs.jNo2NoonPerS;
-  const d = inputs.daylightFactor;
   const f = inputs.noxToNoyFraction;
   const rt = inputs.residenceTime;
-  const caseValue = (jO3: number, jNo2: number, dd: number, ff: number): number => {
-    const o = oPerJ * jO3;
-    const ratio = (kNoO3 * o3) / (jNo2 + kNo2O * o);
-    const fNo2 = ratio / (1 + ratio);
-    return 2 * kNo2O * o * dd * fNo2 * ff * SECONDS_PER_YEAR;
+  const write = (k: number, jO3: number, jNo2: number, ff: number, factor: number): void => {
+    const r0 = (kNoO3 * o3) / (jNo2 + kNo2O * oPerJ * jO3);
+    out[k] = 2 * kNo2O * oPerJ * jO3 * r0 * ff * SECONDS_PER_YEAR * factor;
+    out[k + 3] = r0;
   };
-  out[0] = caseValue(j.central, jn.central, d.central, f.central);
-  out[1] = caseValue(j.low, jn.high, d.low, f.low) * rt.lowFactor;
-  out[2] = caseValue(j.high, jn.low, d.high, f.high) * rt.highFactor;
-  out[3] = (kNo2O * oPerJ * j.central) / (ohNo2Rate(temperatureK, m) * inputs.ohCm3);
+  write(0, j.central, jn.central, f.central, 1);
+  write(1, j.low, jn.high, f.low, rt.lowFactor);
+  write(2, j.high, jn.low, f.high, rt.highFactor);
+  out[6] = (kNo2O * oPerJ * j.central) / (ohNo2Rate(temperatureK, m) * inputs.ohCm3);
+}
+
+/** O3 molecules destroyed per NOx molecule per year of residence for one case of the coefficients. */
+export function lossPerNoxYear(c: Float64Array, k: 0 | 1 | 2, sunCos: number, daylight: number): number {
+  const r0 = c[k + 3];
+  const den = sunCos + r0;
+  return den > 0 ? (c[k] * sunCos * daylight) / den : 0;
 }
 
 /** NOx molecules in `kg` of NO2-equivalent NOx. */
@@ -274,7 +322,7 @@ export function ozoneKg(molecules: number): number {
   return ((molecules / AVOGADRO) * MOLAR_MASS_O3) / 1000;
 }
 
-/** The local odd-oxygen loss budget at one level (daytime, noon photolysis), molecule cm^-3 s^-1. */
+/** The local odd-oxygen loss budget at one level (daytime photolysis), molecule cm^-3 s^-1. */
 export interface OddOxygenBudget {
   altitudeM: number;
   latitudeDeg: number;
@@ -312,14 +360,18 @@ export function oddOxygenBudget(args: {
   airDensityCm3: number;
   o3Ppmv: number;
   inputs: OzoneInputs;
+  /** Daytime-mean cos zenith the overhead-sun J values are scaled by (default 1). */
+  sunCos?: number;
 }): OddOxygenBudget {
   const { temperatureK: t, airDensityCm3: m, inputs } = args;
+  const s = args.sunCos ?? 1;
   const o3 = args.o3Ppmv * 1e-6 * m;
-  const k0 = lowPressureLimit(K_O_O2_M.k0At298, K_O_O2_M.n, t);
-  const o = (o3 * inputs.jO3NoonPerS.central) / (k0 * O2_FRACTION * m * m);
-  const kNo2O = arrhenius(K_NO2_O.a, K_NO2_O.eOverRK, t);
+  const k0 = lowPressureLimit(K_O_O2_M.k0At300, K_O_O2_M.n, t);
+  const o = (o3 * inputs.jO3NoonPerS.central * s) / (k0 * O2_FRACTION * m * m);
+  const kNo2O = no2ORate(t, m);
   const kNoO3 = arrhenius(K_NO_O3.a, K_NO_O3.eOverRK, t);
-  const ratio = (kNoO3 * o3) / (inputs.jNo2NoonPerS.central + kNo2O * o);
+  const jNo2 = inputs.jNo2NoonPerS.central * s;
+  const ratio = jNo2 + kNo2O * o > 0 ? (kNoO3 * o3) / (jNo2 + kNo2O * o) : 0;
   const fNo2 = ratio / (1 + ratio);
   const chapman = 2 * arrhenius(K_O_O3.a, K_O_O3.eOverRK, t) * o * o3;
   const oh = inputs.ohCm3;
@@ -343,9 +395,9 @@ export function oddOxygenBudget(args: {
     chapmanLossCm3S: chapman,
     hoxLossCm3S: hox,
     noxLossPer1PpbvCm3S: nox,
-    addedNoxShareAt1Ppbv: nox / (nox + chapman + hox),
+    addedNoxShareAt1Ppbv: nox + chapman + hox > 0 ? nox / (nox + chapman + hox) : 0,
     note:
-      'Daytime (noon photolysis) rates at the level carrying the most NOx above the tropopause; 1 ppbv of added NOx is a yardstick, not the plume concentration. Background NOx and halogen cycles are not included.',
+      'Daytime rates (overhead-sun J values scaled by the daytime-mean cos zenith of the flight date and place) at the level carrying the most NOx above the tropopause; 1 ppbv of added NOx is a yardstick, not the plume concentration. Background NOx and halogen cycles are not included.',
   };
 }
 
@@ -365,7 +417,7 @@ export interface FleetStudy {
 export const FLEET_STUDIES: readonly FleetStudy[] = Object.freeze([
   {
     id: 'eastham-2022',
-    citation: 'Eastham et al. 2022, Environ. Sci.: Atmos. 2, 388',
+    citation: "Eastham et al. 2022, Environ. Sci.: Atmos. 2, 388 (response to all of the fleet's emissions: NOx, water, sulfur, soot; not NOx alone)",
     altitudeKm: [15, 17] as const,
     noxTgPerYear: 0.17,
     columnChangePct: -0.046,

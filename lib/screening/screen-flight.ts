@@ -11,6 +11,7 @@ import {
   isaTemperatureAt,
   METRES_PER_FLIGHT_LEVEL,
 } from './atmosphere';
+import { AFGL_COLUMN_SOURCE, BTH_SOURCE, COLUMNS, bthHeightKm, bthRowForDay, columnAtPressure, columnPressurePa } from './climatology';
 import {
   BFFM2_INSTALLATION_FACTORS,
   bffm2EiNox,
@@ -18,16 +19,21 @@ import {
   dlrEiNox,
   humidityTerm,
   type CurvePosition,
+  type EiCurve,
 } from './emission-index';
+import { ScreeningInputError } from './errors';
 import {
   AFGL_SOURCE,
+  COEFFICIENT_COUNT,
   CUSTOM_PROFILE_SLOT,
   DEFAULT_OZONE_INPUTS,
   MOLAR_MASS_N,
   MOLAR_MASS_NO2,
   PROFILE_SLOTS,
+  RESIDENCE_SOURCE,
   airNumberDensityCm3,
   fleetOzoneColumnContext,
+  lossPerNoxYear,
   noxMolecules,
   oddOxygenBudget,
   ozoneKg,
@@ -42,21 +48,21 @@ import {
   type OzoneInputs,
   type ProfileSlotName,
 } from './ozone-loss';
-import { EARTH_RADIUS_M, MAX_SEGMENT_KM, planRoute, resolveWaypoints } from './route';
+import { EARTH_RADIUS_M, MAX_SEGMENT_KM, planRoute, resolveWaypoints, type RoutePlan } from './route';
+import { windowSunlight, type WindowSunlight } from './sunlight';
 import {
   MID_MONTH_DAY_OF_YEAR,
   completeSounding,
-  mateusSeasonalKm,
-  mateusTropopauseM,
   soundingTemperatureAtPressure,
   wmoTropopause,
+  type SoundingProfile,
   type SoundingTropopause,
 } from './tropopause';
 import { validateScreeningInput } from './validate';
-import { OZONE_PROFILE_NAMES, type ScreeningInput } from '../validation/screening';
+import { OZONE_PROFILE_NAMES, SCREENING_LIMITS, type ScreeningInput } from '../validation/screening';
 
 /** Version of the methods; saved results carry it so they can be told apart and recomputed. */
-export const ENGINE_VERSION = '2026.12.2';
+export const ENGINE_VERSION = '2026.12.3';
 
 /** Default cruise Mach used for timing. */
 export const DEFAULT_MACH = 0.8;
@@ -77,8 +83,10 @@ export interface ScreeningSegment {
   flightLevel: number;
   /** Pressure altitude of the flight level, m. */
   altitudeM: number;
-  /** Tropopause as ISA pressure altitude, m (comparisons are made in pressure). */
+  /** Tropopause as ISA pressure altitude, m, comparable with `altitudeM` (comparisons are made in pressure). */
   tropopauseM: number;
+  /** Tropopause pressure, hPa. */
+  tropopausePressureHpa: number;
   tropopauseSource: TropopauseSource;
   fuelKg: number;
   /** NOx, kg NO2-equivalent. */
@@ -112,11 +120,21 @@ export interface OzoneAssumptionsUsed {
   ozoneProfile: { choice: string; profilesUsed: ProfileSlotName[]; source: string };
   jO3NoonPerS: Band & { source: string };
   jNo2NoonPerS: Band & { source: string };
+  /** Daylight factor used: given with the flight, or the NOx-weighted value derived from solar geometry. */
   daylightFactor: Band & { source: string };
+  /** Solar geometry behind the J scaling and the daylight factor (NOx-weighted over the segments). */
+  sunlight: {
+    dayFraction: number;
+    meanCosZenith: number;
+    daytimeCosZenith: number;
+    residenceWindowYears: number;
+    source: string;
+  };
   noxToNoyFraction: Band & { source: string };
   residenceTime: {
     depthKm: readonly number[];
     years: readonly number[];
+    tropicalYears: readonly number[] | null;
     lowFactor: number;
     highFactor: number;
     interpolation: string;
@@ -131,7 +149,7 @@ export interface OzoneAssumptionsUsed {
 
 /** The ozone-loss screening figure of a flight. */
 export interface OzoneLoss {
-  /** Gross catalytic O3 destroyed, kg: central, low and high (all inputs low / high together). */
+  /** Gross catalytic O3 destroyed, kg: central, low and high (every input at its low / high end together: a screening range, not a confidence interval). */
   centralKg: number;
   lowKg: number;
   highKg: number;
@@ -191,8 +209,8 @@ interface IsaLevel {
   pressurePa: number;
   temperatureK: number;
   speedOfSoundMs: number;
-  airDensityCm3: number;
   geometricKm: number;
+  airDensityCm3: number;
   humidityDefault: number;
 }
 
@@ -214,8 +232,8 @@ function isaLevel(fl: number): IsaLevel {
     pressurePa: p,
     temperatureK: t,
     speedOfSoundMs: Math.sqrt(GAMMA_AIR * R_AIR * t),
-    airDensityCm3: airNumberDensityCm3(p, t),
     geometricKm: geometricFromGeopotentialM(h) / 1000,
+    airDensityCm3: airNumberDensityCm3(p, t),
     humidityDefault: humidityTerm(DEFAULT_OZONE_INPUTS.relativeHumidity, p, t),
   };
   if (cacheable) ISA_LEVEL_CACHE[fl] = lvl;
@@ -225,9 +243,9 @@ function isaLevel(fl: number): IsaLevel {
 interface LevelContext {
   fl: number;
   isa: IsaLevel;
+  /** Temperature for the EI correction: ISA, or the sounding where it covers the level. */
   temperatureK: number;
   temperatureSource: 'isa' | 'sounding';
-  airDensityCm3: number;
   tasMs: number;
   ei: number;
   eiBffm2: number;
@@ -244,6 +262,20 @@ interface LevelContext {
   noxAboveKg: number;
 }
 
+/** The chemistry state at a level in the column of an ozone slot: T, [M] and the geometric height for O3. */
+function chemistryState(level: LevelContext, slot: number): { t: number; m: number; zKm: number } {
+  const p = level.isa.pressurePa;
+  if (slot === CUSTOM_PROFILE_SLOT) {
+    const t = level.temperatureK;
+    return { t, m: airNumberDensityCm3(p, t), zKm: level.isa.geometricKm };
+  }
+  const c = columnAtPressure(COLUMNS[slot], p);
+  if (level.temperatureSource === 'sounding') {
+    return { t: level.temperatureK, m: airNumberDensityCm3(p, level.temperatureK), zKm: c.heightKm };
+  }
+  return { t: c.temperatureK, m: c.airDensityCm3, zKm: c.heightKm };
+}
+
 function levelCoefficients(level: LevelContext, slot: number, inputs: OzoneInputs): Float64Array {
   const own = level.coef[slot];
   if (own !== undefined) return own;
@@ -251,9 +283,10 @@ function levelCoefficients(level: LevelContext, slot: number, inputs: OzoneInput
   const key = level.fl * SLOT_COUNT + slot;
   if (level.cacheable) c = DEFAULT_COEF_CACHE[key];
   if (c === undefined) {
-    c = new Float64Array(4);
+    c = new Float64Array(COEFFICIENT_COUNT);
     const custom = typeof inputs.ozoneProfile === 'object' && inputs.ozoneProfile !== null ? inputs.ozoneProfile : undefined;
-    ozoneLossCoefficients(level.temperatureK, level.airDensityCm3, ozonePpmv(slot, level.isa.geometricKm, custom), inputs, c);
+    const st = chemistryState(level, slot);
+    ozoneLossCoefficients(st.t, st.m, ozonePpmv(slot, st.zKm, custom), inputs, c);
     if (level.cacheable) DEFAULT_COEF_CACHE[key] = c;
   }
   level.coef[slot] = c;
@@ -261,10 +294,9 @@ function levelCoefficients(level: LevelContext, slot: number, inputs: OzoneInput
 }
 
 const TROPOPAUSE_SOURCE_TEXT: Record<TropopauseSource, string> = {
-  climatology:
-    'Climatological tropopause by latitude and season: Mateus, Mendes & Pires (2022), Remote Sensing 14, 4303, 3.5 PVU blend (RMSE about 0.9 km), geometric height converted to geopotential.',
-  'override-altitude': 'Tropopause altitude given with the flight (taken as ISA pressure altitude).',
-  'override-pressure': 'Tropopause pressure given with the flight, converted to ISA pressure altitude.',
+  climatology: `Climatological tropopause by latitude and season: ${BTH_SOURCE}. Its geometric height is placed in pressure through the climatological column of the segment's band and season (${AFGL_COLUMN_SOURCE}) and compared with the flight level's ISA pressure.`,
+  'override-altitude': 'Tropopause altitude given with the flight, taken as an ISA pressure altitude and compared in pressure.',
+  'override-pressure': 'Tropopause pressure given with the flight, compared with the flight level\'s ISA pressure.',
   sounding: 'WMO (1957) lapse-rate tropopause of the sounding given with the flight, compared in pressure.',
 };
 
@@ -275,25 +307,41 @@ const BASE_CAUTIONS: readonly string[] = Object.freeze([
 ]);
 
 const OZONE_NOTE =
-  'Gross catalytic odd-oxygen destruction by the NOx emitted above the tropopause, not a net column change; below about 13-20 km the NOx also produces ozone.';
+  'Gross catalytic odd-oxygen destruction by the NOx emitted above the tropopause, not a net column change; below about 13-20 km the NOx also produces ozone. Low and high take every input at its low (high) end together: a screening range, not a confidence interval.';
 
 const SOURCE_DEFAULT = 'default: screening value of the right order of magnitude, given from memory; override it with a published value where one is adopted';
+const SOURCE_J =
+  'default: overhead-sun reference, given from memory, scaled by the daytime-mean cos of the solar zenith angle (a screening approximation: J falls more slowly than cos zenith)';
 const SOURCE_INPUT = 'given with the flight';
-
-function describeBand(v: unknown, b: Band): Band & { source: string } {
-  return { central: b.central, low: b.low, high: b.high, source: v === undefined ? SOURCE_DEFAULT : SOURCE_INPUT };
-}
+const SUN_SOURCE =
+  'Solar declination by Cooper (1969), daily-mean cos zenith and day length from the sunset hour angle, for each segment\'s latitude, averaged over the residence window that starts on the flight date (the whole year without a date)';
 
 const FORMULA =
-  'O3 destroyed = N_NOx x 2 k(NO2+O)(T) [O] x D x f_NO2 x f_NOx/NOy x tau(depth); [O] = [O3] J(O3) / (k(O+O2+M) [O2] [M]); f_NO2 from [NO2]/[NO] = k(NO+O3)[O3] / (J(NO2) + k(NO2+O)[O]).';
+  'O3 destroyed = N_NOx x 2 k(NO2+O)(T,[M]) [O] x D x f_NO2 x f_NOx/NOy x tau(latitude, depth); [O] = [O3] s J(O3) / (k(O+O2+M) [O2] [M]); f_NO2 from [NO2]/[NO] = k(NO+O3)[O3] / (s J(NO2) + k(NO2+O)[O]); s the daytime-mean cos zenith and D the sunlit fraction over the residence window; T, [M] and [O3] at the flight level\'s height in the climatological column.';
 const BAND_TEXT =
-  'Low: J(O3), D, f_NOx/NOy and residence time low together, J(NO2) high; high: the reverse. A deliberately wide screening band.';
+  'Low and high: every input at its low (high) end together (J(O3), f_NOx/NOy and residence time low with J(NO2) high, and the reverse): a deliberately wide screening range, not a confidence interval.';
 const TAU_TEXT =
-  'Linear in depth between nodes at the lower edge of each depth band, flat beyond the last node (conservative: never below a band value inside the band).';
-const TAU_SOURCE =
-  'default: IPCC 1999 "Aviation and the Global Atmosphere" ch. 2 and 4 picture (weeks to months just above the extratropical tropopause, 1-2 years at 16-20 km), values from memory';
+  'Linear in depth between nodes at the lower edge of each depth band, flat beyond the last node (never below a band value inside the band); tropical table up to 20 degrees, extratropical from 30 degrees, linear between.';
 
-function describeAssumptions(a: ScreeningInput['assumptions'], inputs: OzoneInputs, slotsUsed: number): OzoneAssumptionsUsed {
+function describeBand(v: unknown, b: Band, source = SOURCE_DEFAULT): Band & { source: string } {
+  return { central: b.central, low: b.low, high: b.high, source: v === undefined ? source : SOURCE_INPUT };
+}
+
+/** NOx-weighted sunlight sums of a flight, for the assumptions. */
+interface SunSums {
+  nox: number;
+  dayFraction: number;
+  meanCos: number;
+  daytimeCos: number;
+  tauYears: number;
+}
+
+function describeAssumptions(
+  a: ScreeningInput['assumptions'],
+  inputs: OzoneInputs,
+  slotsUsed: number,
+  sun: SunSums,
+): OzoneAssumptionsUsed {
   const profilesUsed: ProfileSlotName[] = [];
   for (let s = 0; s < SLOT_COUNT; s++) if (slotsUsed & (1 << s)) profilesUsed.push(PROFILE_SLOTS[s]);
   const p = inputs.ozoneProfile;
@@ -302,27 +350,42 @@ function describeAssumptions(a: ScreeningInput['assumptions'], inputs: OzoneInpu
       ? 'AFGL profile by latitude band (tropical |lat| < 23.5, mid-latitude 23.5-50, subarctic > 50) and season (summer April-September in the north, October-March in the south; annual mean of summer and winter without a month)'
       : typeof p === 'string'
         ? `AFGL ${p} profile for every segment (given with the flight)`
-        : 'Ozone profile given with the flight';
+        : 'Ozone profile given with the flight (temperature and height from the ISA at each level)';
+  const w = sun.nox > 0 ? 1 / sun.nox : 0;
+  const d = sun.dayFraction * w;
+  const dl = inputs.daylightFactor;
   return {
     ozoneProfile: { choice, profilesUsed, source: p !== null && typeof p === 'object' ? SOURCE_INPUT : AFGL_SOURCE },
-    jO3NoonPerS: describeBand(a?.jO3NoonPerS, inputs.jO3NoonPerS),
-    jNo2NoonPerS: describeBand(a?.jNo2NoonPerS, inputs.jNo2NoonPerS),
-    daylightFactor: describeBand(a?.daylightFactor, inputs.daylightFactor),
+    jO3NoonPerS: describeBand(a?.jO3NoonPerS, inputs.jO3NoonPerS, SOURCE_J),
+    jNo2NoonPerS: describeBand(a?.jNo2NoonPerS, inputs.jNo2NoonPerS, SOURCE_J),
+    daylightFactor:
+      dl === null
+        ? { central: d, low: d, high: d, source: `derived: sunlit fraction of the day from solar geometry (${SUN_SOURCE})` }
+        : describeBand(a?.daylightFactor, dl),
+    sunlight: {
+      dayFraction: d,
+      meanCosZenith: sun.meanCos * w,
+      daytimeCosZenith: sun.daytimeCos * w,
+      residenceWindowYears: sun.tauYears * w,
+      source: SUN_SOURCE,
+    },
     noxToNoyFraction: describeBand(a?.noxToNoyFraction, inputs.noxToNoyFraction),
     residenceTime: {
       depthKm: inputs.residenceTime.depthKm,
       years: inputs.residenceTime.years,
+      tropicalYears: inputs.residenceTime.tropicalYears,
       lowFactor: inputs.residenceTime.lowFactor,
       highFactor: inputs.residenceTime.highFactor,
       interpolation: TAU_TEXT,
-      source: a?.residenceTime === undefined ? TAU_SOURCE : SOURCE_INPUT,
+      source: a?.residenceTime === undefined ? RESIDENCE_SOURCE : SOURCE_INPUT,
     },
     ohCm3: { value: inputs.ohCm3, source: a?.ohCm3 === undefined ? `${SOURCE_DEFAULT}; daytime, for the chain length` : SOURCE_INPUT },
     ho2Cm3: {
       value: inputs.ho2Cm3,
       source: a?.ho2Cm3 === undefined ? 'default: 5 x [OH], lower-stratosphere daytime ratio from memory; local budget only' : SOURCE_INPUT,
     },
-    rateConstants: 'JPL Publication 19-5 (Burkholder et al. 2019); NO2 + O in the JPL 15-10 bimolecular form',
+    rateConstants:
+      'JPL Publication 19-5 (Burkholder et al. 2019): Arrhenius and termolecular parameters (k0, kinf at 300 K), NO2 + O in the chemical-activation form with [M]',
     band: BAND_TEXT,
     formula: FORMULA,
   };
@@ -357,8 +420,9 @@ export interface ScreeningTotals {
 /**
  * Screens one flight from an already-validated input (the output of `validateScreeningInput` or
  * `screeningInputSchema.parse`), skipping schema validation. Throws ScreeningInputError only for
- * what the schema cannot know: unknown airports, a route with no length or antipodal legs, and a
- * sounding whose levels contradict each other.
+ * what the schema cannot know: unknown airports, a route with no length or antipodal legs, a
+ * sounding whose levels contradict each other, and a fuel burn that implies a fuel flow per engine
+ * far outside what the engine does.
  */
 export function screenValidated(input: ScreeningInput): ScreeningResult {
   return screenCore(input, true);
@@ -369,69 +433,75 @@ export function screenTotals(input: ScreeningInput): ScreeningTotals {
   return screenCore(input, false);
 }
 
-function screenCore(input: ScreeningInput, full: true): ScreeningResult;
-function screenCore(input: ScreeningInput, full: false): ScreeningTotals;
-function screenCore(input: ScreeningInput, full: boolean): ScreeningResult | ScreeningTotals {
-  const cautions: string[] = BASE_CAUTIONS.slice();
-  const { lat: wLat, lon: wLon } = resolveWaypoints(input.route.waypoints);
-  const plan = planRoute(wLat, wLon);
-  const totalKm = plan.totalKm;
+/** Season of a flight: month wins over flight date; neither gives the annual mean. */
+interface Season {
+  month: number | null;
+  doy: number | null;
+}
 
-  // Season: month wins over flight date; neither gives the annual mean.
-  let month: number | null = null;
-  let doy: number | null = null;
-  if (input.month !== undefined) {
-    month = input.month;
-    doy = MID_MONTH_DAY_OF_YEAR[month - 1];
-  } else if (input.flightDate !== undefined) {
-    month = Number(input.flightDate.slice(5, 7));
-    doy = dayOfYear(input.flightDate);
-  }
-  const seasonalN = mateusSeasonalKm(true, doy);
-  const seasonalS = mateusSeasonalKm(false, doy);
+function resolveSeason(input: ScreeningInput): Season {
+  if (input.month !== undefined) return { month: input.month, doy: MID_MONTH_DAY_OF_YEAR[input.month - 1] };
+  if (input.flightDate !== undefined) return { month: Number(input.flightDate.slice(5, 7)), doy: dayOfYear(input.flightDate) };
+  return { month: null, doy: null };
+}
 
-  const emission = input.emission;
-  const machTiming = input.mach ?? ('engine' in emission ? emission.mach : undefined) ?? DEFAULT_MACH;
-  const machEi = ('engine' in emission ? emission.mach : undefined) ?? input.mach ?? DEFAULT_MACH;
-  const inputs = resolveOzoneInputs(input.assumptions);
-  const rh = inputs.relativeHumidity;
+/** The tropopause source of a flight; for overrides and soundings a constant pressure. */
+interface TropopauseSetup {
+  source: TropopauseSource;
+  constM: number;
+  constPa: number;
+  constHpa: number | null;
+  soundingTp: SoundingTropopause | null;
+  sounding: SoundingProfile | null;
+}
 
-  // Tropopause source and, with a sounding, its temperatures.
-  let tpSource: TropopauseSource = 'climatology';
-  let tpConstM = Number.NaN;
-  let tpConstHpa: number | null = null;
-  let soundingTp: SoundingTropopause | null = null;
-  let sounding: ReturnType<typeof completeSounding> | null = null;
+function resolveTropopause(input: ScreeningInput, cautions: string[]): TropopauseSetup {
+  const tp: TropopauseSetup = { source: 'climatology', constM: Number.NaN, constPa: Number.NaN, constHpa: null, soundingTp: null, sounding: null };
   const tpo = input.tropopause;
-  if (tpo !== undefined) {
-    if ('altitudeM' in tpo) {
-      tpSource = 'override-altitude';
-      tpConstM = tpo.altitudeM;
-      tpConstHpa = isaPressureAt(tpConstM) / 100;
-    } else if ('pressureHpa' in tpo) {
-      tpSource = 'override-pressure';
-      tpConstM = isaPressureAltitudeAt(tpo.pressureHpa * 100);
-      tpConstHpa = tpo.pressureHpa;
-    } else {
-      sounding = completeSounding(tpo.sounding, 'tropopause.sounding');
-      soundingTp = wmoTropopause(sounding);
-      if (soundingTp === null) {
-        cautions.push('The sounding has no WMO lapse-rate tropopause above 500 hPa: the climatological tropopause is used instead.');
-      } else {
-        tpSource = 'sounding';
-        tpConstM = isaPressureAltitudeAt(soundingTp.pressureHpa * 100);
-        tpConstHpa = soundingTp.pressureHpa;
-      }
+  if (tpo === undefined) return tp;
+  if ('altitudeM' in tpo) {
+    tp.source = 'override-altitude';
+    tp.constM = tpo.altitudeM;
+    tp.constPa = isaPressureAt(tpo.altitudeM);
+  } else if ('pressureHpa' in tpo) {
+    tp.source = 'override-pressure';
+    tp.constM = isaPressureAltitudeAt(tpo.pressureHpa * 100);
+    tp.constPa = tpo.pressureHpa * 100;
+  } else {
+    tp.sounding = completeSounding(tpo.sounding, 'tropopause.sounding');
+    tp.soundingTp = wmoTropopause(tp.sounding);
+    if (tp.soundingTp === null) {
+      cautions.push(
+        'The sounding has no WMO lapse-rate tropopause above 500 hPa with 2 km of sounding above it: the climatological tropopause is used instead.',
+      );
+      return tp;
     }
+    tp.source = 'sounding';
+    tp.constPa = tp.soundingTp.pressureHpa * 100;
+    tp.constM = isaPressureAltitudeAt(tp.constPa);
   }
-  const climatology = tpSource === 'climatology';
+  tp.constHpa = tp.constPa / 100;
+  return tp;
+}
 
-  // Cruise steps that start on the route.
+/** The cruise levels of a flight and the steps that use them. */
+interface CruisePlan {
+  levels: LevelContext[];
+  stepFrom: number[];
+  stepLevel: number[];
+}
+
+function buildLevels(
+  input: ScreeningInput,
+  totalKm: number,
+  sounding: SoundingProfile | null,
+  inputs: OzoneInputs,
+  machTiming: number,
+  cautions: string[],
+): CruisePlan {
   const cruise = input.cruise;
   const rawSteps = 'steps' in cruise ? cruise.steps : [{ fromKm: 0, flightLevel: cruise.flightLevel }];
-  const stepFrom: number[] = [];
-  const stepLevel: number[] = [];
-  const levels: LevelContext[] = [];
+  const plan: CruisePlan = { levels: [], stepFrom: [], stepLevel: [] };
   const levelByFl = new Map<number, number>();
   for (let s = 0; s < rawSteps.length; s++) {
     const st = rawSteps[s];
@@ -443,7 +513,7 @@ function screenCore(input: ScreeningInput, full: boolean): ScreeningResult | Scr
     }
     let li = levelByFl.get(st.flightLevel);
     if (li === undefined) {
-      li = levels.length;
+      li = plan.levels.length;
       levelByFl.set(st.flightLevel, li);
       const isa = isaLevel(st.flightLevel);
       let t = isa.temperatureK;
@@ -457,12 +527,11 @@ function screenCore(input: ScreeningInput, full: boolean): ScreeningResult | Scr
           tSource = 'sounding';
         }
       }
-      levels.push({
+      plan.levels.push({
         fl: st.flightLevel,
         isa,
         temperatureK: t,
         temperatureSource: tSource,
-        airDensityCm3: tSource === 'isa' ? isa.airDensityCm3 : airNumberDensityCm3(isa.pressurePa, t),
         tasMs: machTiming * isa.speedOfSoundMs,
         ei: 0,
         eiBffm2: Number.NaN,
@@ -479,110 +548,190 @@ function screenCore(input: ScreeningInput, full: boolean): ScreeningResult | Scr
         noxAboveKg: 0,
       });
     }
-    stepFrom.push(st.fromKm);
-    stepLevel.push(li);
+    plan.stepFrom.push(st.fromKm);
+    plan.stepLevel.push(li);
   }
-  const nSteps = stepFrom.length;
+  return plan;
+}
 
-  // Fuel spread in proportion to time; time = distance / (Mach x ISA speed of sound).
+/** Fuel spread in proportion to time; time = distance / (Mach x ISA speed of sound). */
+function spreadFuel(fuelBurnKg: number, totalKm: number, cp: CruisePlan): { totalTimeS: number; fuelKgPerS: number; fuelPerKm: number[] } {
+  const n = cp.stepFrom.length;
   let totalTimeS = 0;
-  for (let s = 0; s < nSteps; s++) {
-    const end = s + 1 < nSteps ? stepFrom[s + 1] : totalKm;
-    totalTimeS += ((end - stepFrom[s]) * 1000) / levels[stepLevel[s]].tasMs;
+  for (let s = 0; s < n; s++) {
+    const end = s + 1 < n ? cp.stepFrom[s + 1] : totalKm;
+    totalTimeS += ((end - cp.stepFrom[s]) * 1000) / cp.levels[cp.stepLevel[s]].tasMs;
   }
-  const fuelKgPerS = input.fuelBurnKg / totalTimeS;
-  const fuelPerKm: number[] = new Array<number>(nSteps);
-  for (let s = 0; s < nSteps; s++) fuelPerKm[s] = (fuelKgPerS * 1000) / levels[stepLevel[s]].tasMs;
+  const fuelKgPerS = fuelBurnKg / totalTimeS;
+  const fuelPerKm: number[] = new Array<number>(n);
+  for (let s = 0; s < n; s++) fuelPerKm[s] = (fuelKgPerS * 1000) / cp.levels[cp.stepLevel[s]].tasMs;
+  return { totalTimeS, fuelKgPerS, fuelPerKm };
+}
 
-  // Emission index per level.
-  let eiMethod: ScreeningResult['eiMethod'] = 'direct';
-  const direct = 'eiNoxGPerKg' in emission;
+/**
+ * Implied cruise fuel flow per engine beyond which a fuel burn is refused: this many times the
+ * engine's certified take-off fuel flow (no engine cruises there), or below this share of its idle flow.
+ */
+export const MAX_CRUISE_FLOW_TIMES_TAKE_OFF = 3;
+export const MIN_CRUISE_FLOW_SHARE_OF_IDLE = 0.2;
+
+function checkImpliedFuelFlow(perEngine: number, engine: { fuelFlowKgS: readonly number[] }): void {
+  const idle = engine.fuelFlowKgS[0];
+  const takeOff = engine.fuelFlowKgS[3];
+  const far =
+    perEngine > MAX_CRUISE_FLOW_TIMES_TAKE_OFF * takeOff
+      ? `more than ${MAX_CRUISE_FLOW_TIMES_TAKE_OFF} times the engine's take-off fuel flow (${takeOff} kg/s)`
+      : perEngine < MIN_CRUISE_FLOW_SHARE_OF_IDLE * idle
+        ? `less than ${MIN_CRUISE_FLOW_SHARE_OF_IDLE} of the engine's idle fuel flow (${idle} kg/s)`
+        : null;
+  if (far === null) return;
+  throw new ScreeningInputError([
+    {
+      path: 'fuelBurnKg',
+      message: `This fuel burn implies ${perEngine.toPrecision(3)} kg/s per engine at cruise, ${far}: no engine cruises there. Check the fuel (kg, cruise only), the route length, the Mach number and the engine count.`,
+    },
+  ]);
+}
+
+/** Sets each level's EI; returns the method. Throws for a fuel flow far outside the engine's. */
+function applyEmissionIndex(
+  input: ScreeningInput,
+  levels: LevelContext[],
+  fuelKgPerS: number,
+  rh: number,
+  machEi: number,
+  cautions: string[],
+): ScreeningResult['eiMethod'] {
+  const emission = input.emission;
   if ('eiNoxGPerKg' in emission) {
     for (const l of levels) l.ei = emission.eiNoxGPerKg;
-  } else {
-    eiMethod = emission.method ?? 'bffm2';
-    const curveB = buildEiCurve(emission.engine, BFFM2_INSTALLATION_FACTORS);
-    const curveD = buildEiCurve(emission.engine);
-    const perEngine = fuelKgPerS / emission.engineCount;
-    for (const l of levels) {
-      const h = l.temperatureSource === 'isa' && rh === DEFAULT_OZONE_INPUTS.relativeHumidity
+    return 'direct';
+  }
+  const eiMethod = emission.method ?? 'bffm2';
+  const perEngine = fuelKgPerS / emission.engineCount;
+  checkImpliedFuelFlow(perEngine, emission.engine);
+  const curveB: EiCurve = buildEiCurve(emission.engine, BFFM2_INSTALLATION_FACTORS);
+  const curveD: EiCurve = buildEiCurve(emission.engine);
+  const cap = SCREENING_LIMITS.maxEiNoxGPerKg;
+  for (const l of levels) {
+    const h =
+      l.temperatureSource === 'isa' && rh === DEFAULT_OZONE_INPUTS.relativeHumidity
         ? l.isa.humidityDefault
         : humidityTerm(rh, l.isa.pressurePa, l.temperatureK);
-      const c = { fuelFlowPerEngineKgS: perEngine, pressurePa: l.isa.pressurePa, temperatureK: l.temperatureK, mach: machEi };
-      const b = bffm2EiNox(curveB, c, h);
-      const d = dlrEiNox(curveD, c, h);
-      l.eiBffm2 = b.eiNoxGPerKg;
-      l.eiDlr = d.eiNoxGPerKg;
-      const chosen = eiMethod === 'bffm2' ? b : d;
-      l.ei = chosen.eiNoxGPerKg;
-      l.curvePosition = chosen.curvePosition;
-      if (chosen.curvePosition !== 0) {
-        cautions.push(
-          `At FL${l.fl} the referred fuel flow (${chosen.referredFuelFlowKgS.toFixed(3)} kg/s) lies ${chosen.curvePosition > 0 ? 'above the take-off' : 'below the idle'} certification point: the EI curve is extended as a power law beyond the certified range.`,
-        );
-      }
+    const c = { fuelFlowPerEngineKgS: perEngine, pressurePa: l.isa.pressurePa, temperatureK: l.temperatureK, mach: machEi };
+    const b = bffm2EiNox(curveB, c, h);
+    const d = dlrEiNox(curveD, c, h);
+    l.eiBffm2 = Math.min(cap, b.eiNoxGPerKg);
+    l.eiDlr = Math.min(cap, d.eiNoxGPerKg);
+    const chosen = eiMethod === 'bffm2' ? b : d;
+    l.ei = eiMethod === 'bffm2' ? l.eiBffm2 : l.eiDlr;
+    l.curvePosition = chosen.curvePosition;
+    if (chosen.curvePosition !== 0) {
+      cautions.push(
+        `At FL${l.fl} the referred fuel flow (${chosen.referredFuelFlowKgS.toFixed(3)} kg/s) lies ${chosen.curvePosition > 0 ? 'above the take-off' : 'below the idle'} certification point: the correlation is valid from idle to take-off only, so the EI of that end point is held.`,
+      );
+    }
+    if (chosen.eiNoxGPerKg > cap) {
+      cautions.push(`At FL${l.fl} the corrected EI NOx exceeded ${cap} g/kg, the most an EI may be; it is held at ${cap} g/kg.`);
     }
   }
-  if (machTiming > 1 || machEi > 1) {
-    cautions.push(
-      direct
-        ? `Mach ${fmt(Math.max(machTiming, machEi), 2)}: the EI NOx is used as entered; fuel-flow correlations are calibrated on subsonic engines, so a measured cruise EI is the right input here.`
-        : `Mach ${fmt(Math.max(machTiming, machEi), 2)}: fuel-flow correlations (BFFM2, DLR) are calibrated on subsonic engines; prefer a measured cruise EI for supersonic cruise.`,
-    );
-  }
+  return eiMethod;
+}
 
-  // Ozone profile: fixed by the user, or by band and season per segment.
-  const op = inputs.ozoneProfile;
-  const fixedSlot = op === null ? -1 : typeof op === 'string' ? OZONE_PROFILE_NAMES.indexOf(op) : CUSTOM_PROFILE_SLOT;
-  const rt = inputs.residenceTime;
+/** Running sums of the segment walk. */
+interface Totals {
+  noxTotal: number;
+  noxAbove: number;
+  depthNox: number;
+  chainNox: number;
+  o3Central: number;
+  o3Low: number;
+  o3High: number;
+  slotsUsed: number;
+  sun: SunSums;
+}
 
-  // Segments.
-  const segments: ScreeningSegment[] = [];
+/** Everything the segment walk reads. */
+interface WalkContext {
+  plan: RoutePlan;
+  cp: CruisePlan;
+  fuelPerKm: number[];
+  tp: TropopauseSetup;
+  bthRow: Float64Array;
+  season: Season;
+  inputs: OzoneInputs;
+  fixedSlot: number;
+  full: boolean;
+}
+
+const SUN_SCRATCH: WindowSunlight = { dayFraction: 0, meanCosZenith: 0, daytimeCosZenith: 0 };
+
+/** Ozone loss and sunlight of one segment above the tropopause, added to the totals; returns kg O3 (central). */
+function segmentOzone(ctx: WalkContext, t: Totals, level: LevelContext, slot: number, lat: number, depth: number, nox: number): number {
+  const inputs = ctx.inputs;
+  const c = levelCoefficients(level, slot, inputs);
+  const tau = residenceTimeYears(depth, inputs.residenceTime, lat);
+  const sun = windowSunlight(lat, ctx.season.doy, tau, SUN_SCRATCH);
+  const s = sun.daytimeCosZenith;
+  const dl = inputs.daylightFactor;
+  const mol = noxMolecules(nox) * tau;
+  const central = mol * lossPerNoxYear(c, 0, s, dl === null ? sun.dayFraction : dl.central);
+  t.o3Central += central;
+  t.o3Low += mol * lossPerNoxYear(c, 1, s, dl === null ? sun.dayFraction : dl.low);
+  t.o3High += mol * lossPerNoxYear(c, 2, s, dl === null ? sun.dayFraction : dl.high);
+  t.chainNox += nox * c[6] * s;
+  t.sun.nox += nox;
+  t.sun.dayFraction += nox * sun.dayFraction;
+  t.sun.meanCos += nox * sun.meanCosZenith;
+  t.sun.daytimeCos += nox * s;
+  t.sun.tauYears += nox * tau;
+  return ozoneKg(central);
+}
+
+/** Walks the route in segments of at most MAX_SEGMENT_KM, split at step starts. */
+function walkSegments(ctx: WalkContext, segments: ScreeningSegment[]): Totals {
+  const t: Totals = {
+    noxTotal: 0, noxAbove: 0, depthNox: 0, chainNox: 0, o3Central: 0, o3Low: 0, o3High: 0, slotsUsed: 0,
+    sun: { nox: 0, dayFraction: 0, meanCos: 0, daytimeCos: 0, tauYears: 0 },
+  };
+  const { plan, cp, tp, fixedSlot } = ctx;
+  const climatology = tp.source === 'climatology';
+  const columnFixed = fixedSlot >= 0 && fixedSlot !== CUSTOM_PROFILE_SLOT;
+  const nSteps = cp.stepFrom.length;
   const R = EARTH_RADIUS_M;
   const RAD = 180 / Math.PI;
   let step = 0;
-  let nextStepKm = nSteps > 1 ? stepFrom[1] : Number.POSITIVE_INFINITY;
-  let noxTotal = 0;
-  let noxAbove = 0;
-  let depthNox = 0;
-  let chainNox = 0;
-  let o3Central = 0;
-  let o3Low = 0;
-  let o3High = 0;
-  let slotsUsed = 0;
+  let nextStepKm = nSteps > 1 ? cp.stepFrom[1] : Number.POSITIVE_INFINITY;
   for (let leg = 0; leg < plan.legKm.length; leg++) {
     const legKm = plan.legKm[leg];
     if (legKm === 0) continue;
     const legStart = plan.legStartKm[leg];
     const n = Math.ceil(legKm / MAX_SEGMENT_KM);
     const piece = legKm / n;
-    const ax = plan.ax[leg];
-    const ay = plan.ay[leg];
-    const az = plan.az[leg];
-    const tx = plan.tx[leg];
-    const ty = plan.ty[leg];
-    const tz = plan.tz[leg];
     for (let j = 0; j < n; j++) {
       const b = j === n - 1 ? legStart + legKm : legStart + (j + 1) * piece;
       let a = legStart + j * piece;
       while (a < b) {
         const e = nextStepKm < b ? nextStepKm : b;
         if (e > a) {
-          const mid = 0.5 * (a + e) - legStart;
-          const sAng = (mid * 1000) / R;
+          const sAng = ((0.5 * (a + e) - legStart) * 1000) / R;
           const cs = Math.cos(sAng);
           const sn = Math.sin(sAng);
-          const z = az * cs + tz * sn;
+          const z = plan.az[leg] * cs + plan.tz[leg] * sn;
           const lat = Math.asin(z > 1 ? 1 : z < -1 ? -1 : z) * RAD;
-          const lon = Math.atan2(ay * cs + ty * sn, ax * cs + tx * sn) * RAD;
-          const tpM = climatology ? mateusTropopauseM(lat, seasonalN, seasonalS) : tpConstM;
-          const level = levels[stepLevel[step]];
-          const alt = level.isa.altitudeM;
+          const level = cp.levels[cp.stepLevel[step]];
+          const bandSlot = profileSlotFor(lat, ctx.season.month);
+          const slot = fixedSlot >= 0 ? fixedSlot : bandSlot;
+          let tpPa = tp.constPa;
+          let tpM = tp.constM;
+          if (climatology) {
+            tpPa = columnPressurePa(COLUMNS[columnFixed ? fixedSlot : bandSlot], bthHeightKm(ctx.bthRow, lat));
+          }
+          const above = level.isa.pressurePa < tpPa;
+          if (climatology && (above || ctx.full)) tpM = isaPressureAltitudeAt(tpPa);
           const lenKm = e - a;
-          const fuel = fuelPerKm[step] * lenKm;
+          const fuel = ctx.fuelPerKm[step] * lenKm;
           const nox = (fuel * level.ei) / 1000;
-          const above = alt > tpM;
-          const slot = fixedSlot >= 0 ? fixedSlot : profileSlotFor(lat, month);
           let depth = 0;
           let o3 = 0;
           level.distanceKm += lenKm;
@@ -590,77 +739,109 @@ function screenCore(input: ScreeningInput, full: boolean): ScreeningResult | Scr
           level.noxKg += nox;
           level.noxBySlot[slot] += nox;
           level.latNoxBySlot[slot] += nox * lat;
-          noxTotal += nox;
+          t.noxTotal += nox;
           if (above) {
-            depth = (alt - tpM) / 1000;
-            const c = levelCoefficients(level, slot, inputs);
-            const tau = residenceTimeYears(depth, rt);
-            const mol = noxMolecules(nox) * tau;
-            const central = mol * c[0];
-            o3Central += central;
-            o3Low += mol * c[1];
-            o3High += mol * c[2];
-            o3 = ozoneKg(central);
-            chainNox += nox * c[3];
-            noxAbove += nox;
-            depthNox += nox * depth;
+            depth = (level.isa.altitudeM - tpM) / 1000;
+            o3 = segmentOzone(ctx, t, level, slot, lat, depth, nox);
+            t.noxAbove += nox;
+            t.depthNox += nox * depth;
             level.noxAboveKg += nox;
             level.noxAboveBySlot[slot] += nox;
-            slotsUsed |= 1 << slot;
+            t.slotsUsed |= 1 << slot;
           }
-          if (full) segments.push({
-            startKm: a,
-            endKm: e,
-            lat,
-            lon,
-            flightLevel: level.fl,
-            altitudeM: alt,
-            tropopauseM: tpM,
-            tropopauseSource: tpSource,
-            fuelKg: fuel,
-            noxKg: nox,
-            aboveTropopause: above,
-            depthAboveTropopauseKm: depth,
-            ozoneLossKg: o3,
-          });
+          if (ctx.full) {
+            segments.push({
+              startKm: a,
+              endKm: e,
+              lat,
+              lon: Math.atan2(plan.ay[leg] * cs + plan.ty[leg] * sn, plan.ax[leg] * cs + plan.tx[leg] * sn) * RAD,
+              flightLevel: level.fl,
+              altitudeM: level.isa.altitudeM,
+              tropopauseM: tpM,
+              tropopausePressureHpa: tpPa / 100,
+              tropopauseSource: tp.source,
+              fuelKg: fuel,
+              noxKg: nox,
+              aboveTropopause: above,
+              depthAboveTropopauseKm: depth,
+              ozoneLossKg: o3,
+            });
+          }
         }
         a = e;
         if (a === nextStepKm) {
           step++;
-          nextStepKm = step + 1 < nSteps ? stepFrom[step + 1] : Number.POSITIVE_INFINITY;
+          nextStepKm = step + 1 < nSteps ? cp.stepFrom[step + 1] : Number.POSITIVE_INFINITY;
         }
       }
     }
   }
+  return t;
+}
 
-  const noxAboveMolecules = noxMolecules(noxAbove);
-  const ozoneFigures: ScreeningTotals['ozoneLoss'] = {
-    centralKg: ozoneKg(o3Central),
-    lowKg: ozoneKg(o3Low),
-    highKg: ozoneKg(o3High),
-    o3PerNox: noxAboveMolecules > 0 ? o3Central / noxAboveMolecules : 0,
-    chainLength: noxAbove > 0 ? chainNox / noxAbove : 0,
+function screenCore(input: ScreeningInput, full: true): ScreeningResult;
+function screenCore(input: ScreeningInput, full: false): ScreeningTotals;
+function screenCore(input: ScreeningInput, full: boolean): ScreeningResult | ScreeningTotals {
+  const cautions: string[] = BASE_CAUTIONS.slice();
+  const { lat: wLat, lon: wLon } = resolveWaypoints(input.route.waypoints);
+  const plan = planRoute(wLat, wLon);
+  const season = resolveSeason(input);
+  const emission = input.emission;
+  const machTiming = input.mach ?? ('engine' in emission ? emission.mach : undefined) ?? DEFAULT_MACH;
+  const machEi = ('engine' in emission ? emission.mach : undefined) ?? input.mach ?? DEFAULT_MACH;
+  const inputs = resolveOzoneInputs(input.assumptions);
+  const tp = resolveTropopause(input, cautions);
+  const cp = buildLevels(input, plan.totalKm, tp.sounding, inputs, machTiming, cautions);
+  const fuel = spreadFuel(input.fuelBurnKg, plan.totalKm, cp);
+  const eiMethod = applyEmissionIndex(input, cp.levels, fuel.fuelKgPerS, inputs.relativeHumidity, machEi, cautions);
+  const op = inputs.ozoneProfile;
+  const ctx: WalkContext = {
+    plan,
+    cp,
+    fuelPerKm: fuel.fuelPerKm,
+    tp,
+    bthRow: bthRowForDay(season.doy),
+    season,
+    inputs,
+    fixedSlot: op === null ? -1 : typeof op === 'string' ? OZONE_PROFILE_NAMES.indexOf(op) : CUSTOM_PROFILE_SLOT,
+    full,
   };
-  const fractionAbove = noxTotal > 0 ? Math.min(1, noxAbove / noxTotal) : 0;
-  const meanDepth = noxAbove > 0 ? depthNox / noxAbove : 0;
-  if (!full) {
-    return {
-      engineVersion: ENGINE_VERSION,
-      distanceKm: totalKm,
-      fuelKg: input.fuelBurnKg,
-      noxTotalKg: noxTotal,
-      noxAboveTropopauseKg: noxAbove,
-      fractionAboveTropopause: fractionAbove,
-      meanDepthAboveTropopauseKm: meanDepth,
-      ozoneLoss: ozoneFigures,
-    };
-  }
+  const segments: ScreeningSegment[] = [];
+  const t = walkSegments(ctx, segments);
+  const totals = summariseTotals(input, plan.totalKm, t);
+  if (!full) return totals;
+  return describeResult({ input, totals, t, ctx, segments, cautions, wLat, machTiming, machEi, eiMethod, fuel });
+}
 
-  // Local budget at the level and profile carrying the most NOx above the tropopause (else the
-  // highest level and its main profile).
+function summariseTotals(input: ScreeningInput, totalKm: number, t: Totals): ScreeningTotals {
+  const noxAboveMolecules = noxMolecules(t.noxAbove);
+  return {
+    engineVersion: ENGINE_VERSION,
+    distanceKm: totalKm,
+    fuelKg: input.fuelBurnKg,
+    noxTotalKg: t.noxTotal,
+    noxAboveTropopauseKg: t.noxAbove,
+    fractionAboveTropopause: t.noxTotal > 0 ? Math.min(1, t.noxAbove / t.noxTotal) : 0,
+    meanDepthAboveTropopauseKm: t.noxAbove > 0 ? t.depthNox / t.noxAbove : 0,
+    ozoneLoss: {
+      centralKg: ozoneKg(t.o3Central),
+      lowKg: ozoneKg(t.o3Low),
+      highKg: ozoneKg(t.o3High),
+      o3PerNox: noxAboveMolecules > 0 ? t.o3Central / noxAboveMolecules : 0,
+      chainLength: t.noxAbove > 0 ? t.chainNox / t.noxAbove : 0,
+    },
+  };
+}
+
+/** O3 molecules per NOx molecule above which a caution says the inputs are likely unphysical. */
+export const O3_PER_NOX_CAUTION = 1000;
+
+/** The level and ozone slot of the local budget: most NOx above the tropopause, else the highest level. */
+function budgetLevel(ctx: WalkContext, noxAbove: number, firstLat: number): { level: LevelContext; slot: number; lat: number } {
+  const levels = ctx.cp.levels;
   let bLevel = levels[0];
-  let bSlot = 0;
-  let best = -1;
+  let bSlot = -1;
+  let best = 0;
   if (noxAbove > 0) {
     for (const l of levels) {
       for (let s = 0; s < SLOT_COUNT; s++) {
@@ -680,24 +861,47 @@ function screenCore(input: ScreeningInput, full: boolean): ScreeningResult | Scr
       }
     }
   }
+  if (bSlot < 0) return { level: bLevel, slot: ctx.fixedSlot >= 0 ? ctx.fixedSlot : profileSlotFor(firstLat, ctx.season.month), lat: firstLat };
   const bNox = bLevel.noxBySlot[bSlot];
-  const bLat = bNox > 0 ? bLevel.latNoxBySlot[bSlot] / bNox : wLat[0];
-  const customProfile = typeof op === 'object' && op !== null ? op : undefined;
-  const localBudget = oddOxygenBudget({
-    altitudeM: bLevel.isa.altitudeM,
-    latitudeDeg: bLat,
-    profileSlot: bSlot,
-    aboveTropopause: noxAbove > 0,
-    temperatureK: bLevel.temperatureK,
-    airDensityCm3: bLevel.airDensityCm3,
-    o3Ppmv: ozonePpmv(bSlot, bLevel.isa.geometricKm, customProfile),
-    inputs,
-  });
+  return { level: bLevel, slot: bSlot, lat: bNox > 0 ? bLevel.latNoxBySlot[bSlot] / bNox : firstLat };
+}
 
+function describeResult(args: {
+  input: ScreeningInput;
+  totals: ScreeningTotals;
+  t: Totals;
+  ctx: WalkContext;
+  segments: ScreeningSegment[];
+  cautions: string[];
+  wLat: Float64Array;
+  machTiming: number;
+  machEi: number;
+  eiMethod: ScreeningResult['eiMethod'];
+  fuel: { totalTimeS: number; fuelKgPerS: number };
+}): ScreeningResult {
+  const { input, totals, t, ctx, segments, cautions, eiMethod } = args;
+  const inputs = ctx.inputs;
+  const levels = ctx.cp.levels;
+  const tp = ctx.tp;
+  const direct = eiMethod === 'direct';
+  const b = budgetLevel(ctx, t.noxAbove, args.wLat[0]);
+  const st = chemistryState(b.level, b.slot);
+  const budgetSun = t.sun.nox > 0 ? t.sun.daytimeCos / t.sun.nox : windowSunlight(b.lat, ctx.season.doy, 0.25).daytimeCosZenith;
+  const customProfile = typeof inputs.ozoneProfile === 'object' && inputs.ozoneProfile !== null ? inputs.ozoneProfile : undefined;
+  const localBudget = oddOxygenBudget({
+    altitudeM: b.level.isa.altitudeM,
+    latitudeDeg: b.lat,
+    profileSlot: b.slot,
+    aboveTropopause: t.noxAbove > 0,
+    temperatureK: st.t,
+    airDensityCm3: st.m,
+    o3Ppmv: ozonePpmv(b.slot, st.zKm, customProfile),
+    inputs,
+    sunCos: budgetSun,
+  });
   const fleetStudies = fleetOzoneColumnContext(
     levels.map((l) => ({ geometricAltitudeKm: l.isa.geometricKm, noxKgPerYear: l.noxAboveKg * 365 })),
   );
-
   let fuelB = 0;
   let fuelBN = 0;
   let fuelDN = 0;
@@ -723,51 +927,71 @@ function screenCore(input: ScreeningInput, full: boolean): ScreeningResult | Scr
       eiDlrGPerKg: direct ? null : l.eiDlr,
     };
   });
-
-  if (noxAbove === 0) {
+  if (t.noxAbove === 0) {
     cautions.push('No NOx is emitted above the tropopause on this flight, so the ozone-loss figure is zero by construction.');
   }
-
+  if (totals.ozoneLoss.o3PerNox > O3_PER_NOX_CAUTION) {
+    cautions.push(
+      `The figure implies ${fmt(totals.ozoneLoss.o3PerNox)} O3 molecules destroyed per NOx molecule, above about ${O3_PER_NOX_CAUTION}: check the residence times, J values and NOx/NOy share given with the flight.`,
+    );
+  }
+  const machTiming = args.machTiming;
+  if (machTiming > 1 || args.machEi > 1) {
+    cautions.push(
+      direct
+        ? `Mach ${fmt(Math.max(machTiming, args.machEi), 2)}: the EI NOx is used as entered; fuel-flow correlations are calibrated on subsonic engines, so a measured cruise EI is the right input here.`
+        : `Mach ${fmt(Math.max(machTiming, args.machEi), 2)}: fuel-flow correlations (BFFM2, DLR) are calibrated on subsonic engines; prefer a measured cruise EI for supersonic cruise.`,
+    );
+  }
+  const emission = input.emission;
+  const climatology = tp.source === 'climatology';
+  const season = ctx.season;
   const assumptions: string[] = [
     `The entered fuel (${fmt(input.fuelBurnKg)} kg) is the cruise fuel along the entered track, spread over the segments in proportion to time; time = distance / true airspeed, true airspeed = Mach ${fmt(machTiming, 2)} x ISA speed of sound at each level. Climb and descent are not modelled.`,
-    `Great circles by geolib on the mean Earth sphere (radius ${R} m), split into segments of at most ${MAX_SEGMENT_KM} km; each segment is evaluated at its midpoint.`,
-    'Flight levels are ISA pressure altitudes (FL x 30.48 m); aircraft and tropopause are compared in pressure through the ICAO standard atmosphere (ICAO Doc 7488/3).',
-    TROPOPAUSE_SOURCE_TEXT[tpSource] +
-      (climatology ? (input.month !== undefined ? ` Month ${month} (mid-month day ${doy}).` : input.flightDate !== undefined ? ` Day of year ${doy} of ${input.flightDate}.` : ' No month or date: annual mean.') : ''),
-    direct
+    `Great circles by geolib on the mean Earth sphere (radius ${EARTH_RADIUS_M} m), split into segments of at most ${MAX_SEGMENT_KM} km; each segment is evaluated at its midpoint.`,
+    'Flight levels are ISA pressure altitudes (FL x 30.48 m, ICAO Doc 7488/3); aircraft and tropopause are compared in pressure, and the tropopause is reported as an ISA pressure altitude and a pressure.',
+    TROPOPAUSE_SOURCE_TEXT[tp.source] +
+      (climatology
+        ? input.month !== undefined
+          ? ` Month ${season.month} (mid-month day ${season.doy}).`
+          : input.flightDate !== undefined
+            ? ` Day of year ${season.doy} of ${input.flightDate}.`
+            : ' No month or date: annual mean of the 12 mid-month rows.'
+        : ''),
+    'eiNoxGPerKg' in emission
       ? `EI NOx ${emission.eiNoxGPerKg} g/kg as entered, the same at every level.`
-      : `EI NOx from engine certification data by ${eiMethod === 'bffm2' ? 'Boeing Fuel Flow Method 2 (DuBois & Paynter 2006)' : 'the DLR fuel-flow method (Deidewig et al. 1996)'}, the other method shown beside it; cruise fuel flow per engine ${(fuelKgPerS / ('engineCount' in emission ? emission.engineCount : 1)).toFixed(3)} kg/s; Mach ${fmt(machEi, 2)}; relative humidity ${rh} with Goff-Gratch saturation pressure; log-log curve extended as a power law beyond the four certification points.`,
-    `Ambient temperature from ${sounding !== null ? 'the sounding where it covers the level, else ISA' : 'ISA'}; NOx is NO2-equivalent mass; N mass = 0.30446 x NO2 mass; CO2 = 3.16 kg per kg fuel (ICAO CORSIA).`,
+      : `EI NOx from engine certification data by ${eiMethod === 'bffm2' ? 'Boeing Fuel Flow Method 2 (DuBois & Paynter 2006, SAE 2006-01-1987)' : 'the DLR fuel-flow method (Deidewig, Doepelheuer & Lecht 1996)'}, the other method shown beside it; cruise fuel flow per engine ${(args.fuel.fuelKgPerS / ('engineCount' in emission ? emission.engineCount : 1)).toFixed(3)} kg/s; Mach ${fmt(args.machEi, 2)}; humidity term -19.0 (omega - 0.0063) with omega the humidity ratio at relative humidity ${inputs.relativeHumidity} (Goff-Gratch saturation pressure); the log-log curve is valid from idle to take-off and its end EI is held beyond them; at most ${SCREENING_LIMITS.maxEiNoxGPerKg} g/kg.`,
+    `Temperature for the EI correction from ${tp.sounding !== null ? 'the sounding where it covers the level, else ISA' : 'ISA'}; temperature, air density and ozone for the chemistry at the flight level's height in the climatological column (${AFGL_COLUMN_SOURCE})${tp.sounding !== null ? ', with the sounding temperature where it covers the level' : ''}. NOx is NO2-equivalent mass; N mass = 0.30446 x NO2 mass; CO2 = 3.16 kg per kg fuel (ICAO CORSIA).`,
+    `Sunlight: ${SUN_SOURCE}; the overhead-sun J values are scaled by the daytime-mean cos zenith and the loss by the sunlit fraction of the day.`,
   ];
-
   const fuelKg = input.fuelBurnKg;
   const result: ScreeningResult = {
     engineVersion: ENGINE_VERSION,
-    distanceKm: totalKm,
+    distanceKm: totals.distanceKm,
     fuelKg,
     co2Kg: fuelKg * CO2_PER_KG_FUEL,
-    cruiseTimeH: totalTimeS / 3600,
-    noxTotalKg: noxTotal,
-    noxAboveTropopauseKg: noxAbove,
-    noxAboveTropopauseKgN: (noxAbove * MOLAR_MASS_N) / MOLAR_MASS_NO2,
-    fractionAboveTropopause: fractionAbove,
-    meanDepthAboveTropopauseKm: meanDepth,
+    cruiseTimeH: args.fuel.totalTimeS / 3600,
+    noxTotalKg: totals.noxTotalKg,
+    noxAboveTropopauseKg: totals.noxAboveTropopauseKg,
+    noxAboveTropopauseKgN: (totals.noxAboveTropopauseKg * MOLAR_MASS_N) / MOLAR_MASS_NO2,
+    fractionAboveTropopause: totals.fractionAboveTropopause,
+    meanDepthAboveTropopauseKm: totals.meanDepthAboveTropopauseKm,
     eiMethod,
-    meanCruiseEiNoxGPerKg: (noxTotal * 1000) / fuelKg,
-    month,
-    dayOfYear: doy,
+    meanCruiseEiNoxGPerKg: (totals.noxTotalKg * 1000) / fuelKg,
+    month: season.month,
+    dayOfYear: season.doy,
     tropopause: {
-      source: tpSource,
-      description: TROPOPAUSE_SOURCE_TEXT[tpSource],
-      altitudeM: climatology ? null : tpConstM,
-      pressureHpa: climatology ? null : tpConstHpa,
-      sounding: soundingTp,
+      source: tp.source,
+      description: TROPOPAUSE_SOURCE_TEXT[tp.source],
+      altitudeM: climatology ? null : tp.constM,
+      pressureHpa: climatology ? null : tp.constHpa,
+      sounding: tp.soundingTp,
     },
-    tropopauseSource: tpSource,
+    tropopauseSource: tp.source,
     levels: levelRows,
     ozoneLoss: {
-      ...ozoneFigures,
-      assumptions: describeAssumptions(input.assumptions, inputs, slotsUsed),
+      ...totals.ozoneLoss,
+      assumptions: describeAssumptions(input.assumptions, inputs, t.slotsUsed, t.sun),
       localBudget,
       fleetContext: {
         basis: 'This flight repeated daily for a year (NOx above the tropopause x 365), scaled on published fleet-scale model results.',

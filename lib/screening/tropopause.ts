@@ -1,14 +1,10 @@
 /**
- * Tropopause height: a latitude-season climatology (Mateus, Mendes & Pires 2022) and the WMO (1957)
- * lapse-rate tropopause of a sounding. Altitudes in geopotential m.
+ * Tropopause: the latitude-season climatology (Mateus, Mendes & Pires 2022, lookup-table model, placed
+ * in pressure through the AFGL 1986 column) and the WMO (1957) lapse-rate tropopause of a sounding.
  */
-import {
-  G0,
-  R_AIR,
-  geopotentialFromGeometricM,
-  isaPressureAltitudeAt,
-  isaPressureAt,
-} from './atmosphere';
+import { G0, R_AIR, isaPressureAltitudeAt, isaPressureAt } from './atmosphere';
+import { COLUMNS, bthGeopotentialM, bthHeightKm, bthRowForDay, placeInColumn, type ClimatologicalTropopause } from './climatology';
+import { profileSlotFor } from './ozone-loss';
 import { ScreeningInputError } from './errors';
 import {
   soundingLevelProblems,
@@ -20,8 +16,9 @@ import {
 /**
  * Mateus, Mendes & Pires (2022), Remote Sensing 14, 4303 (doi:10.3390/rs14174303), sigmoid model
  * (STH), 3.5 PVU blend, coefficients (a0..a5) as in the authors' published code (`sth_model.py`,
- * checked value by value). Northern hemisphere (lat > 0). That code applies the seasonal cosine with
- * the same phase (day 28) in both hemispheres, each with its own small a5; so does this engine.
+ * checked value by value). Northern hemisphere (lat > 0). Kept for comparison only: its seasonal
+ * term is +/-0.13 km in one phase for both hemispheres, so the engine uses the same authors'
+ * lookup-table model (climatology.ts) instead.
  */
 export const MATEUS_2022_NORTH = Object.freeze([8.499, 7.8229, 26.7284, -1.5804, 0.098, -0.1257] as const);
 /** Southern hemisphere and equator (lat <= 0) coefficients, same source. */
@@ -33,24 +30,17 @@ export const MID_MONTH_DAY_OF_YEAR: readonly number[] = Object.freeze(
   MONTH_DAYS.map((d, i) => MONTH_DAYS.slice(0, i).reduce((s, x) => s + x, 0) + (d + 1) / 2),
 );
 
-/** The seasonal term a5 cos(2 pi (doy - 28) / 365.25) in km of one hemisphere; 0 for `null`. */
+/** The sigmoid model's seasonal term a5 cos(2 pi (doy - 28) / 365.25) in km of one hemisphere; 0 for `null`. */
 export function mateusSeasonalKm(northern: boolean, dayOfYear: number | null): number {
   if (dayOfYear === null) return 0;
   const a5 = northern ? MATEUS_2022_NORTH[5] : MATEUS_2022_SOUTH[5];
   return a5 * Math.cos((2 * Math.PI * (dayOfYear - 28)) / 365.25);
 }
 
-/**
- * Mateus et al. (2022) tropopause as geopotential m, with the seasonal terms of both hemispheres
- * precomputed (km, from `mateusSeasonalKm`). No checks: the engine's per-segment form.
- */
-export function mateusTropopauseM(latDeg: number, seasonalNorthKm: number, seasonalSouthKm: number): number {
+/** The sigmoid model's tropopause height, geometric km (comparison only; the engine uses the BTH table). */
+export function mateusSigmoidKm(latDeg: number, dayOfYear: number | null): number {
   const a = latDeg > 0 ? MATEUS_2022_NORTH : MATEUS_2022_SOUTH;
-  const s = latDeg > 0 ? seasonalNorthKm : seasonalSouthKm;
-  const zKm = a[0] + a[1] / Math.pow(1 + Math.exp(-(latDeg - a[2]) / a[3]), a[4]) + s;
-  // The model gives geometric height; the engine works in geopotential altitude.
-  const zM = zKm * 1000;
-  return geopotentialFromGeometricM(zM);
+  return a[0] + a[1] / Math.pow(1 + Math.exp(-(latDeg - a[2]) / a[3]), a[4]) + mateusSeasonalKm(latDeg > 0, dayOfYear);
 }
 
 function checkLatitude(latitudeDeg: number): void {
@@ -59,31 +49,53 @@ function checkLatitude(latitudeDeg: number): void {
   }
 }
 
-/**
- * Climatological tropopause (geopotential m) at `latitudeDeg` (-90..90) for `month` (1-12, evaluated
- * at the mid-month day of year) or `null` for the annual mean (seasonal cosine dropped). Model:
- * Mateus, Mendes & Pires (2022), 3.5 PVU blend; RMSE about 0.9 km against radiosondes. Geometric
- * height converted by H = r0 Z / (r0 + Z). RangeError on bad arguments.
- */
-export function climatologicalTropopauseM(latitudeDeg: number, month: number | null): number {
-  checkLatitude(latitudeDeg);
+function checkMonth(month: number | null): void {
   if (month !== null && !(Number.isInteger(month) && month >= 1 && month <= 12)) {
     throw new RangeError(`The month must be a whole number 1-12 or null (got ${month}).`);
   }
-  const doy = month === null ? null : MID_MONTH_DAY_OF_YEAR[month - 1];
-  return climatologicalTropopauseForDayM(latitudeDeg, doy);
+}
+
+function checkDay(dayOfYear: number | null): void {
+  if (dayOfYear !== null && !(Number.isFinite(dayOfYear) && dayOfYear >= 0 && dayOfYear <= 367)) {
+    throw new RangeError(`The day of year must be 1-366 or null (got ${dayOfYear}).`);
+  }
+}
+
+/**
+ * Climatological tropopause at `latitudeDeg` (-90..90) for `month` (1-12, the mid-month day) or
+ * `null` (annual mean): Mateus, Mendes & Pires (2022) lookup-table model, 3.5 PVU table. Datum: the
+ * model's geometric height converted to geopotential altitude (H = r0 Z / (r0 + Z)); a height, NOT a
+ * pressure altitude: to compare with flight levels use `climatologicalTropopause(...).pressureAltitudeM`.
+ * RangeError on bad arguments.
+ */
+export function climatologicalTropopauseM(latitudeDeg: number, month: number | null): number {
+  checkLatitude(latitudeDeg);
+  checkMonth(month);
+  return climatologicalTropopauseForDayM(latitudeDeg, month === null ? null : MID_MONTH_DAY_OF_YEAR[month - 1]);
 }
 
 /**
  * As `climatologicalTropopauseM` for a day of year (1-366, fractional allowed) or `null` (annual
- * mean). Used when a flight date is known.
+ * mean). Same datum: geopotential altitude of the model's geometric height, not a pressure altitude.
  */
 export function climatologicalTropopauseForDayM(latitudeDeg: number, dayOfYear: number | null): number {
   checkLatitude(latitudeDeg);
-  if (dayOfYear !== null && !(Number.isFinite(dayOfYear) && dayOfYear >= 0 && dayOfYear <= 367)) {
-    throw new RangeError(`The day of year must be 1-366 or null (got ${dayOfYear}).`);
-  }
-  return mateusTropopauseM(latitudeDeg, mateusSeasonalKm(true, dayOfYear), mateusSeasonalKm(false, dayOfYear));
+  checkDay(dayOfYear);
+  return bthGeopotentialM(bthHeightKm(bthRowForDay(dayOfYear), latitudeDeg));
+}
+
+/**
+ * The climatological tropopause (Mateus et al. 2022 lookup-table model, 3.5 PVU) placed in the
+ * climatological column of its latitude band and season (AFGL 1986 tropical, mid-latitude or
+ * subarctic summer/winter, the mean of summer and winter without a month):
+ * `{ geometricHeightM, pressureHpa, pressureAltitudeM }`, the last an ISA pressure altitude
+ * comparable with a flight level's. RangeError on bad arguments.
+ */
+export function climatologicalTropopause(latitudeDeg: number, month: number | null): ClimatologicalTropopause {
+  checkLatitude(latitudeDeg);
+  checkMonth(month);
+  const doy = month === null ? null : MID_MONTH_DAY_OF_YEAR[month - 1];
+  return placeInColumn(COLUMNS[profileSlotFor(latitudeDeg, month)], bthHeightKm(bthRowForDay(doy), latitudeDeg));
 }
 
 /** The WMO first tropopause of a sounding. */
@@ -204,7 +216,8 @@ function interpolateAt(profile: SoundingProfile, zTarget: number): { t: number; 
  * between levels, so each layer has one lapse rate and the lowest level where it falls to 2 K/km or
  * less is a level (or the 500 hPa point inside a layer); the 2 km condition is tested at every
  * level within 2 km above it and at the point exactly 2 km above (interpolated), which for a
- * piecewise-linear profile is where the extremes of the average lapse rate lie.
+ * piecewise-linear profile is where the extremes of the average lapse rate lie. A candidate with less
+ * than 2 km of sounding above it cannot be confirmed: the search ends there and returns null.
  */
 export function wmoTropopause(profile: SoundingProfile): SoundingTropopause | null {
   const zs = profile.altitudeM;
@@ -225,6 +238,7 @@ export function wmoTropopause(profile: SoundingProfile): SoundingTropopause | nu
       tc = ts[i] + f * (ts[i + 1] - ts[i]);
       pc = WMO_SEARCH_TOP_OF_PRESSURE_PA;
     }
+    if (zs[n - 1] < zc + WMO_DEPTH_M) return null;
     let ok = true;
     for (let j = i + 1; j < n && zs[j] <= zc + WMO_DEPTH_M; j++) {
       if (zs[j] > zc && (tc - ts[j]) / (zs[j] - zc) > WMO_LAPSE_RATE_K_PER_M + tol) {
@@ -232,7 +246,7 @@ export function wmoTropopause(profile: SoundingProfile): SoundingTropopause | nu
         break;
       }
     }
-    if (ok && zs[n - 1] > zc + WMO_DEPTH_M) {
+    if (ok) {
       const top = interpolateAt(profile, zc + WMO_DEPTH_M);
       if ((tc - top.t) / WMO_DEPTH_M > WMO_LAPSE_RATE_K_PER_M + tol) ok = false;
     }

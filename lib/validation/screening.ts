@@ -414,17 +414,46 @@ export const customOzoneProfileSchema = z
     }
   });
 
-/** Residence time above the tropopause by depth: nodes in km (first 0) and years, with band factors. */
+/**
+ * Physical bounds of the ozone-figure overrides (SCIENCE.md section 5, from memory: confirm).
+ * Residence above the tropopause up to about 5 years (mean age of stratospheric air is at most about
+ * 5-6 years, Waugh & Hall 2002, Rev. Geophys. 40, 1010); band factors up to about 5; J(O3 -> O) up to
+ * about 1e-3 s^-1 and J(NO2) 5e-3 to 2e-2 s^-1 with the sun overhead in the lower stratosphere.
+ */
+export const OVERRIDE_BOUNDS = {
+  minResidenceYears: 0.01,
+  maxResidenceYears: 5,
+  minLowFactor: 0.2,
+  maxHighFactor: 5,
+  minJO3PerS: 1e-5,
+  maxJO3PerS: 1e-3,
+  minJNo2PerS: 5e-3,
+  maxJNo2PerS: 2e-2,
+  minNoxToNoy: 0.01,
+  minOhCm3: 1e4,
+  maxOhCm3: 1e8,
+} as const;
+
+const B = OVERRIDE_BOUNDS;
+
+/**
+ * Residence time above the tropopause by depth: nodes in km (first 0) and years for the
+ * extratropics, optionally `tropicalYears` for |lat| up to 20 degrees (linear to 30), with band factors.
+ */
 export const residenceTimeSchema = z
   .strictObject({
     depthKm: increasingList('The residence-time depths', 0, 40, 'km'),
-    years: z.array(between('A residence time', 0.001, 20, 'years')),
-    lowFactor: between('The low residence-time factor', 0.01, 1, '').optional(),
-    highFactor: between('The high residence-time factor', 1, 100, '').optional(),
+    years: z.array(between('A residence time', B.minResidenceYears, B.maxResidenceYears, 'years')),
+    tropicalYears: z.array(between('A tropical residence time', B.minResidenceYears, B.maxResidenceYears, 'years')).optional(),
+    lowFactor: between('The low residence-time factor', B.minLowFactor, 1, '').optional(),
+    highFactor: between('The high residence-time factor', 1, B.maxHighFactor, '').optional(),
   })
   .superRefine((r, ctx) => {
     if (r.years.length !== r.depthKm.length) {
       ctx.addIssue({ code: 'custom', path: ['years'], message: 'Give one residence time per depth.' });
+    }
+    if (r.tropicalYears !== undefined && r.tropicalYears.length !== r.depthKm.length) {
+      ctx.addIssue({ code: 'custom', path: ['tropicalYears'], message: 'Give one tropical residence time per depth.' });
     }
     if (r.depthKm.length > 0 && r.depthKm[0] !== 0) {
       ctx.addIssue({ code: 'custom', path: ['depthKm', 0], message: 'The first residence-time depth must be 0 km.' });
@@ -436,12 +465,12 @@ export const residenceTimeSchema = z
  * keeps its documented default. J values in s^-1 at noon, densities in molecule cm^-3.
  */
 export const assumptionsSchema = z.strictObject({
-  jO3NoonPerS: rangeSchema('J(O3 -> O)', 1e-6, 1e-2, 's^-1').optional(),
-  jNo2NoonPerS: rangeSchema('J(NO2)', 1e-4, 1e-1, 's^-1').optional(),
+  jO3NoonPerS: rangeSchema('J(O3 -> O)', B.minJO3PerS, B.maxJO3PerS, 's^-1').optional(),
+  jNo2NoonPerS: rangeSchema('J(NO2)', B.minJNo2PerS, B.maxJNo2PerS, 's^-1').optional(),
   daylightFactor: rangeSchema('The daylight-average factor', 0.01, 1, '').optional(),
-  noxToNoyFraction: rangeSchema('The NOx/NOy fraction', 0.001, 1, '').optional(),
+  noxToNoyFraction: rangeSchema('The NOx/NOy fraction', B.minNoxToNoy, 1, '').optional(),
   residenceTime: residenceTimeSchema.optional(),
-  ohCm3: between('The OH density', 1e3, 1e8, 'molecules per cm^3').optional(),
+  ohCm3: between('The OH density', B.minOhCm3, B.maxOhCm3, 'molecules per cm^3').optional(),
   ho2Cm3: between('The HO2 density', 1e3, 1e9, 'molecules per cm^3').optional(),
   relativeHumidity: between('The relative humidity', 0, 1, '(a fraction, 0.6 for 60 %)').optional(),
   ozoneProfile: z
@@ -528,6 +557,9 @@ export const compareCruiseLevelsOptionsSchema = z.strictObject({
     .optional(),
   fuelPenaltyPctPer1000Ft: between('The fuel penalty', 0, 10, '% per 1000 ft').optional(),
   maxFuelPenaltyPct: between('The fuel-penalty limit', 0, 50, '%').optional(),
+  minimise: z
+    .enum(['nox-above-tropopause', 'ozone-figure'], { error: 'What to minimise must be nox-above-tropopause or ozone-figure.' })
+    .optional(),
 });
 /** `compareCruiseLevels` options as a client sends them. */
 export type CompareCruiseLevelsOptions = z.input<typeof compareCruiseLevelsOptionsSchema>;

@@ -10,12 +10,12 @@ import {
   type ScreenFormValues,
 } from '@/lib/validation/screen-form';
 import { screeningInputSchema } from '@/lib/validation/screening';
-import { DEFAULT_OZONE_INPUTS } from '@/lib/screening';
+import { DAYLIGHT_FACTOR_EQUINOX, DEFAULT_OZONE_INPUTS } from '@/lib/screening';
 
 const defaults: ScreenFormContext['defaults'] = {
   jO3NoonPerS: { ...DEFAULT_OZONE_INPUTS.jO3NoonPerS },
   jNo2NoonPerS: { ...DEFAULT_OZONE_INPUTS.jNo2NoonPerS },
-  daylightFactor: { ...DEFAULT_OZONE_INPUTS.daylightFactor },
+  daylightFactor: { ...DAYLIGHT_FACTOR_EQUINOX },
   noxToNoyFraction: { ...DEFAULT_OZONE_INPUTS.noxToNoyFraction },
   ohCm3: DEFAULT_OZONE_INPUTS.ohCm3,
   ho2Cm3: DEFAULT_OZONE_INPUTS.ho2Cm3,

@@ -9,7 +9,7 @@ import {
   isa,
   type EngineCertData,
 } from '@/lib/screening';
-import { evaluateEiCurve, humidityTerm, specificHumidityKgKg } from '@/lib/screening/emission-index';
+import { evaluateEiCurve, humidityTerm, humidityRatioKgKg } from '@/lib/screening/emission-index';
 
 // A plausible mid-size turbofan (invented; values of the order of mid-size turbofans in the ICAO
 // engine emissions databank, from memory).
@@ -33,7 +33,7 @@ describe('Goff-Gratch saturation vapour pressure over water', () => {
   });
 
   it('60 % relative humidity at ISA sea level gives the BFFM2 reference humidity 0.00634 kg/kg, so H ~ 0 there (from memory: that is how the reference was chosen)', () => {
-    expect(Math.abs(specificHumidityKgKg(0.6, 101_325, 288.15) - 0.00634)).toBeLessThan(0.0001);
+    expect(Math.abs(humidityRatioKgKg(0.6, 101_325, 288.15) - 0.00634)).toBeLessThan(0.0001);
     expect(Math.abs(humidityTerm(0.6, 101_325, 288.15))).toBeLessThan(0.002);
   });
 });

@@ -3,7 +3,7 @@ import { listAircraftTypes, listEngines } from '@/db/engines';
 import { listAircraftForScreening } from '@/db/aircraft-lookup';
 import { listRoutes } from '@/db/routes';
 import { listSoundings } from '@/db/soundings';
-import { DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT, DEFAULT_MAX_FUEL_PENALTY_PCT, DEFAULT_OZONE_INPUTS, findAirport } from '@/lib/screening';
+import { DAYLIGHT_FACTOR_EQUINOX, DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT, DEFAULT_MAX_FUEL_PENALTY_PCT, DEFAULT_OZONE_INPUTS, findAirport } from '@/lib/screening';
 import { todayIso } from '@/lib/clock';
 import type { AssumptionDefaults } from '@/lib/validation/screen-form';
 import { PageHeader } from '@/components/ui/card';
@@ -50,7 +50,7 @@ async function ScreenFormLoader({ slug, workspaceId, units }: { slug: string; wo
   const defaults: AssumptionDefaults = {
     jO3NoonPerS: band(d.jO3NoonPerS),
     jNo2NoonPerS: band(d.jNo2NoonPerS),
-    daylightFactor: band(d.daylightFactor),
+    daylightFactor: band(d.daylightFactor ?? DAYLIGHT_FACTOR_EQUINOX),
     noxToNoyFraction: band(d.noxToNoyFraction),
     ohCm3: d.ohCm3,
     ho2Cm3: d.ho2Cm3,

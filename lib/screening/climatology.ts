@@ -1,0 +1,231 @@
+/**
+ * The climatological tropopause and the climatological column it is placed in.
+ *
+ * Height: the lookup-table model (BTH) of Mateus, Mendes & Pires (2022), Remote Sensing 14, 4303
+ * (doi:10.3390/rs14174303), its 3.5 PVU table of tropopause heights (km, geometric) for 23 latitude
+ * bands and 12 mid-month days, as published with the paper and in the authors' released code
+ * (`bth_model.py` of pjmateus/global_tropopause_model, array `Tpvu35`). The interpolation here is
+ * this engine's own: bilinear in latitude and day of year, held at the 85 degree bands poleward,
+ * cyclic across the year end (day 350 -> day 16 + 365). The annual mean is the mean of the 12 rows.
+ *
+ * Column: pressure and temperature with geometric height of the AFGL 1986 model atmospheres
+ * (Anderson et al. 1986, AFGL-TR-86-0110, tables 1a-1e, the same atmospheres as the ozone
+ * profiles), ln p and T linear in height between the tabulated levels.
+ */
+import { BOLTZMANN_J_K, geopotentialFromGeometricM, isaPressureAltitudeAt } from './atmosphere';
+import type { OzoneProfileName } from '../validation/screening';
+
+/** Source line of the tropopause height model. */
+export const BTH_SOURCE =
+  'Mateus, Mendes & Pires (2022), Remote Sensing 14, 4303, lookup-table model (BTH), 3.5 PVU table (23 latitude bands x 12 mid-month days, RMSE about 0.7 km), bilinear interpolation';
+
+/** Source line of the climatological p/T column. */
+export const AFGL_COLUMN_SOURCE =
+  'AFGL 1986 model atmospheres (Anderson et al. 1986, AFGL-TR-86-0110, tables 1a-1e), pressure and temperature by geometric height, ln p and T linear between levels';
+
+/** Latitude band centres of the BTH table, degrees. */
+export const BTH_BANDS_DEG: readonly number[] = Object.freeze([
+  -85, -75, -65, -55, -45, -37.5, -32.5, -27.5, -22.5, -17.5, -10, 0, 10, 17.5, 22.5, 27.5, 32.5, 37.5, 45, 55, 65, 75, 85,
+]);
+
+/** Mid-month days of year of the BTH table: 12 days evenly from 16 to 350. */
+export const BTH_DAYS: readonly number[] = Object.freeze(Array.from({ length: 12 }, (_, i) => 16 + (i * (350 - 16)) / 11));
+
+/** BTH 3.5 PVU tropopause height, km (geometric); row = day (BTH_DAYS), column = band (BTH_BANDS_DEG). */
+export const BTH_35PVU_KM: readonly (readonly number[])[] = Object.freeze([
+    [8.295, 8.522, 8.689, 9.281, 11.333, 12.995, 14.791, 15.916, 16.275, 16.368, 16.409, 16.418, 16.406, 16.38, 16.334, 15.796, 13.238, 10.937, 10.099, 9.457, 9.085, 8.879, 8.767],
+    [8.06, 8.333, 8.562, 9.37, 11.485, 13.103, 14.961, 16.034, 16.334, 16.393, 16.413, 16.425, 16.417, 16.395, 16.338, 15.833, 12.998, 10.867, 10.063, 9.415, 9.002, 8.738, 8.555],
+    [8.017, 8.195, 8.501, 9.468, 11.402, 12.68, 14.54, 15.92, 16.285, 16.381, 16.414, 16.434, 16.42, 16.368, 16.308, 15.829, 12.69, 11.19, 10.31, 9.489, 8.932, 8.545, 8.347],
+    [8.295, 8.326, 8.608, 9.529, 11.162, 12.142, 13.502, 15.542, 16.199, 16.363, 16.419, 16.45, 16.413, 16.342, 16.249, 15.455, 12.879, 11.739, 10.686, 9.719, 9.023, 8.465, 8.265],
+    [8.764, 8.759, 8.94, 9.606, 10.811, 11.628, 12.6, 15.191, 16.147, 16.299, 16.408, 16.462, 16.395, 16.301, 16.13, 15.302, 13.856, 12.357, 11.102, 10.035, 9.282, 8.657, 8.355],
+    [9.245, 9.268, 9.333, 9.751, 10.538, 11.213, 12.268, 15.141, 16.08, 16.211, 16.281, 16.288, 16.262, 16.156, 16.014, 15.716, 15.003, 13.566, 11.535, 10.378, 9.771, 9.125, 8.612],
+    [9.565, 9.612, 9.618, 9.834, 10.422, 10.98, 12.388, 15.357, 16.019, 16.142, 16.184, 16.142, 16.037, 15.923, 15.884, 15.745, 15.395, 14.564, 12.236, 10.684, 10.164, 9.515, 9.03],
+    [9.857, 9.793, 9.736, 9.889, 10.366, 10.876, 12.42, 15.402, 16.011, 16.144, 16.19, 16.137, 16.068, 15.962, 15.908, 15.764, 15.377, 14.571, 12.349, 10.688, 10.025, 9.485, 9.036],
+    [9.831, 9.774, 9.675, 9.778, 10.372, 11.037, 12.529, 15.268, 15.95, 16.13, 16.198, 16.178, 16.136, 16.087, 16.031, 15.832, 15.268, 14.203, 11.956, 10.349, 9.642, 9.22, 8.772],
+    [9.591, 9.452, 9.268, 9.603, 10.573, 11.38, 12.721, 15.248, 16.056, 16.203, 16.26, 16.257, 16.248, 16.207, 16.129, 15.805, 14.938, 13.207, 11.435, 9.992, 9.294, 8.887, 8.536],
+    [9.173, 9.107, 8.981, 9.476, 10.802, 11.821, 13.193, 15.327, 16.118, 16.271, 16.368, 16.401, 16.359, 16.277, 16.178, 15.796, 14.415, 12.287, 10.87, 9.679, 9.078, 8.8, 8.56],
+    [8.532, 8.713, 8.787, 9.38, 11.05, 12.395, 14.097, 15.674, 16.186, 16.322, 16.397, 16.418, 16.388, 16.342, 16.262, 15.838, 13.897, 11.557, 10.361, 9.526, 9.066, 8.821, 8.754],
+]);
+
+const NB = BTH_BANDS_DEG.length;
+const BTH_ANNUAL_KM: Float64Array = (() => {
+  const out = new Float64Array(NB);
+  for (let b = 0; b < NB; b++) {
+    let s = 0;
+    for (const row of BTH_35PVU_KM) s += row[b];
+    out[b] = s / BTH_35PVU_KM.length;
+  }
+  return out;
+})();
+
+/**
+ * The BTH heights of every band for one day of year (time-interpolated, cyclic), or the annual
+ * mean for `null`, km. The engine interpolates this row in latitude for each segment.
+ */
+export function bthRowForDay(dayOfYear: number | null): Float64Array {
+  if (dayOfYear === null) return BTH_ANNUAL_KM;
+  const first = BTH_DAYS[0];
+  const last = BTH_DAYS[BTH_DAYS.length - 1];
+  let d = dayOfYear;
+  if (d < first) d += 365;
+  let i0: number;
+  let i1: number;
+  let f: number;
+  if (d >= last) {
+    i0 = BTH_DAYS.length - 1;
+    i1 = 0;
+    f = (d - last) / (first + 365 - last);
+  } else {
+    i0 = 0;
+    while (d >= BTH_DAYS[i0 + 1]) i0++;
+    i1 = i0 + 1;
+    f = (d - BTH_DAYS[i0]) / (BTH_DAYS[i1] - BTH_DAYS[i0]);
+  }
+  const a = BTH_35PVU_KM[i0];
+  const b = BTH_35PVU_KM[i1];
+  const out = new Float64Array(NB);
+  for (let k = 0; k < NB; k++) out[k] = a[k] + f * (b[k] - a[k]);
+  return out;
+}
+
+/** Tropopause height (km, geometric) at `latDeg` on a row from `bthRowForDay`; held beyond +/-85. */
+export function bthHeightKm(row: Float64Array, latDeg: number): number {
+  if (latDeg <= BTH_BANDS_DEG[0]) return row[0];
+  if (latDeg >= BTH_BANDS_DEG[NB - 1]) return row[NB - 1];
+  let i = 0;
+  while (latDeg > BTH_BANDS_DEG[i + 1]) i++;
+  const f = (latDeg - BTH_BANDS_DEG[i]) / (BTH_BANDS_DEG[i + 1] - BTH_BANDS_DEG[i]);
+  return row[i] + f * (row[i + 1] - row[i]);
+}
+
+/** Geometric heights (km) of the embedded AFGL p/T grid (the ozone grid): 0-25 km by 1 km, 27.5-35 km. */
+export const AFGL_COLUMN_KM: readonly number[] = Object.freeze([
+  0, 1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12, 13, 14, 15, 16, 17, 18, 19, 20, 21, 22, 23, 24, 25, 27.5, 30, 32.5, 35,
+]);
+
+// Anderson et al. (1986), AFGL-TR-86-0110, tables 1a-1e, p (mb = hPa) and T (K) at AFGL_COLUMN_KM.
+// Checked value by value against the machine-readable transcription of the open-source joseki
+// library (its subarctic-winter surface pressure reads 101.3 there, a slip for the report's 1013).
+/** Pressure (hPa) and temperature (K) of each AFGL atmosphere on AFGL_COLUMN_KM. */
+export const AFGL_PT: Readonly<Record<OzoneProfileName, { pressureHpa: readonly number[]; temperatureK: readonly number[] }>> = Object.freeze({
+  'tropical': {
+    pressureHpa: [1013.0, 904.0, 805.0, 715.0, 633.0, 559.0, 492.0, 432.0, 378.0, 329.0, 286.0, 247.0, 213.0, 182.0, 156.0, 132.0, 111.0, 93.7, 78.9, 66.6, 56.5, 48.0, 40.9, 35.0, 30.0, 25.7, 17.63, 12.2, 8.52, 6.0],
+    temperatureK: [299.7, 293.7, 287.7, 283.7, 277.0, 270.3, 263.6, 257.0, 250.3, 243.6, 237.0, 230.1, 223.6, 217.0, 210.3, 203.7, 197.0, 194.8, 198.8, 202.7, 206.7, 210.7, 214.6, 217.0, 219.2, 221.4, 227.0, 232.3, 237.7, 243.1],
+  },
+  'midlatitude-summer': {
+    pressureHpa: [1013.0, 902.0, 802.0, 710.0, 628.0, 554.0, 487.0, 426.0, 372.0, 324.0, 281.0, 243.0, 209.0, 179.0, 153.0, 130.0, 111.0, 95.0, 81.2, 69.5, 59.5, 51.0, 43.7, 37.6, 32.2, 27.7, 19.1, 13.2, 9.3, 6.52],
+    temperatureK: [294.2, 289.7, 285.2, 279.2, 273.2, 267.2, 261.2, 254.7, 248.2, 241.7, 235.3, 228.8, 222.3, 215.8, 215.7, 215.7, 215.7, 215.7, 216.8, 217.9, 219.2, 220.4, 221.6, 222.8, 223.9, 225.1, 228.5, 233.7, 239.0, 245.2],
+  },
+  'midlatitude-winter': {
+    pressureHpa: [1018.0, 897.3, 789.7, 693.8, 608.1, 531.3, 462.7, 401.6, 347.3, 299.3, 256.8, 219.9, 188.2, 161.1, 137.8, 117.8, 100.7, 86.1, 73.6, 62.8, 53.7, 45.8, 39.1, 33.4, 28.6, 24.4, 16.46, 11.1, 7.56, 5.18],
+    temperatureK: [272.2, 268.7, 265.2, 261.7, 255.7, 249.7, 243.7, 237.7, 231.7, 225.7, 219.7, 219.2, 218.7, 218.2, 217.7, 217.2, 216.7, 216.2, 215.7, 215.2, 215.2, 215.2, 215.2, 215.2, 215.2, 215.2, 215.5, 217.4, 220.4, 227.9],
+  },
+  'subarctic-summer': {
+    pressureHpa: [1010.0, 896.0, 792.9, 700.0, 616.0, 541.0, 474.0, 413.0, 359.0, 310.8, 267.7, 230.0, 197.7, 170.0, 146.0, 126.0, 108.0, 92.8, 79.8, 68.6, 59.0, 50.7, 43.6, 37.5, 32.28, 27.8, 19.23, 13.4, 9.4, 6.61],
+    temperatureK: [287.2, 281.7, 276.3, 270.9, 265.5, 260.1, 253.1, 246.1, 239.2, 232.2, 225.2, 225.2, 225.2, 225.2, 225.2, 225.2, 225.2, 225.2, 225.2, 225.2, 225.2, 225.2, 225.2, 225.2, 226.6, 228.1, 231.1, 235.1, 240.0, 247.2],
+  },
+  'subarctic-winter': {
+    pressureHpa: [1013.0, 887.8, 777.5, 679.8, 593.2, 515.8, 446.7, 385.3, 330.8, 282.9, 241.8, 206.7, 176.6, 151.0, 129.1, 110.3, 94.31, 80.58, 68.82, 58.75, 50.14, 42.77, 36.47, 31.09, 26.49, 22.56, 15.13, 10.2, 6.91, 4.701],
+    temperatureK: [257.2, 259.1, 255.9, 252.7, 247.7, 240.9, 234.1, 227.3, 220.9, 217.2, 217.2, 217.2, 217.2, 217.2, 217.2, 217.2, 216.6, 216.0, 215.4, 214.8, 214.2, 213.6, 213.0, 212.4, 211.8, 211.2, 213.6, 216.0, 218.5, 222.3],
+  },
+});
+
+/** A climatological column: ln p (Pa) and T (K) on AFGL_COLUMN_KM. */
+export interface Column {
+  lnPressurePa: Float64Array;
+  temperatureK: Float64Array;
+}
+
+const COLUMN_ORDER: readonly OzoneProfileName[] = [
+  'tropical',
+  'midlatitude-summer',
+  'midlatitude-winter',
+  'subarctic-summer',
+  'subarctic-winter',
+];
+
+function columnOf(name: OzoneProfileName): Column {
+  const t = AFGL_PT[name];
+  return {
+    lnPressurePa: Float64Array.from(t.pressureHpa, (p) => Math.log(p * 100)),
+    temperatureK: Float64Array.from(t.temperatureK),
+  };
+}
+
+function meanColumn(a: Column, b: Column): Column {
+  const n = AFGL_COLUMN_KM.length;
+  const out: Column = { lnPressurePa: new Float64Array(n), temperatureK: new Float64Array(n) };
+  for (let i = 0; i < n; i++) {
+    out.lnPressurePa[i] = 0.5 * (a.lnPressurePa[i] + b.lnPressurePa[i]);
+    out.temperatureK[i] = 0.5 * (a.temperatureK[i] + b.temperatureK[i]);
+  }
+  return out;
+}
+
+/**
+ * Columns by profile slot (the ozone-profile slots of `ozone-loss.ts`): the five AFGL atmospheres,
+ * then the mid-latitude and subarctic annual means (mean of summer and winter in ln p and T).
+ */
+export const COLUMNS: readonly Column[] = (() => {
+  const five = COLUMN_ORDER.map(columnOf);
+  return Object.freeze([...five, meanColumn(five[1], five[2]), meanColumn(five[3], five[4])]);
+})();
+
+/** Pressure (Pa) at geometric height `zKm` in a column; the end layers extended. */
+export function columnPressurePa(c: Column, zKm: number): number {
+  const zs = AFGL_COLUMN_KM;
+  const n = zs.length;
+  let i = 0;
+  if (zKm >= zs[n - 1]) i = n - 2;
+  else while (i < n - 2 && zKm > zs[i + 1]) i++;
+  const f = (zKm - zs[i]) / (zs[i + 1] - zs[i]);
+  return Math.exp(c.lnPressurePa[i] + f * (c.lnPressurePa[i + 1] - c.lnPressurePa[i]));
+}
+
+/** A point of a column found by pressure. */
+export interface ColumnPoint {
+  /** Geometric height, km. */
+  heightKm: number;
+  temperatureK: number;
+  /** Air number density p / (kB T), molecule cm^-3. */
+  airDensityCm3: number;
+}
+
+/** Height, temperature and air density at pressure `pressurePa` in a column; the end layers extended. */
+export function columnAtPressure(c: Column, pressurePa: number): ColumnPoint {
+  const lp = Math.log(pressurePa);
+  const ls = c.lnPressurePa;
+  const n = ls.length;
+  let i = 0;
+  if (lp <= ls[n - 1]) i = n - 2;
+  else while (i < n - 2 && lp < ls[i + 1]) i++;
+  const f = (ls[i] - lp) / (ls[i] - ls[i + 1]);
+  const zs = AFGL_COLUMN_KM;
+  const t = c.temperatureK[i] + f * (c.temperatureK[i + 1] - c.temperatureK[i]);
+  return {
+    heightKm: zs[i] + f * (zs[i + 1] - zs[i]),
+    temperatureK: t,
+    airDensityCm3: (pressurePa / (BOLTZMANN_J_K * t)) * 1e-6,
+  };
+}
+
+/** The climatological tropopause placed in its column. */
+export interface ClimatologicalTropopause {
+  /** Height above mean sea level as the model gives it, geometric m. */
+  geometricHeightM: number;
+  /** Pressure at that height in the climatological column, hPa. */
+  pressureHpa: number;
+  /** ISA pressure altitude of that pressure, geopotential m: comparable with a flight level's altitude. */
+  pressureAltitudeM: number;
+}
+
+/** Places a geometric tropopause height (km) in a column: pressure and its ISA pressure altitude. */
+export function placeInColumn(c: Column, heightKm: number): ClimatologicalTropopause {
+  const p = columnPressurePa(c, heightKm);
+  return { geometricHeightM: heightKm * 1000, pressureHpa: p / 100, pressureAltitudeM: isaPressureAltitudeAt(p) };
+}
+
+/** Geopotential altitude (m) of a BTH geometric height (km). */
+export function bthGeopotentialM(heightKm: number): number {
+  return geopotentialFromGeometricM(heightKm * 1000);
+}
