@@ -4,11 +4,11 @@ import { isa, rateConstant } from '@/lib/screening';
 import {
   AFGL_ALTITUDE_KM,
   AFGL_O3_PPMV,
+  COEFFICIENT_COUNT,
   DEFAULT_OZONE_INPUTS,
   PROFILE_SLOTS,
-  SECONDS_PER_YEAR,
-  airNumberDensityCm3,
   fleetOzoneColumnContext,
+  lossPerNoxYear,
   oddOxygenBudget,
   ozoneLossCoefficients,
   ozonePpmv,
@@ -124,37 +124,74 @@ describe('embedded AFGL 1986 O3 profiles: shape checks against common knowledge'
 });
 
 describe('loss coefficients', () => {
-  it('follow the screening formula (2 k(NO2+O) [O] per NOx molecule) built from the JPL 19-5 rate constants (Burkholder et al. 2019)', () => {
-    const s = isa(16_000);
-    const m = airNumberDensityCm3(s.pressurePa, s.temperatureK);
-    const ppmv = 1.0;
-    const out = new Float64Array(4);
-    ozoneLossCoefficients(s.temperatureK, m, ppmv, DEFAULT_OZONE_INPUTS, out);
-    const t = s.temperatureK;
-    const o3 = ppmv * 1e-6 * m;
-    const o = (o3 * 4.5e-4) / (rateConstant('O+O2+M', t) * 0.2095 * m * m);
-    const r = (rateConstant('NO+O3', t) * o3) / (1.0e-2 + rateConstant('NO2+O', t) * o);
-    const fNo2 = r / (1 + r);
-    const expected = 2 * rateConstant('NO2+O', t) * o * 0.4 * fNo2 * 0.2 * SECONDS_PER_YEAR;
-    expect(out[0]).toBeCloseTo(expected, 12);
-    const chain = (rateConstant('NO2+O', t) * o) / (rateConstant('OH+NO2+M', t, m) * 1e6);
-    expect(out[3]).toBeCloseTo(chain, 12);
+  const coef = (t: number, m: number, ppmv: number) => {
+    const out = new Float64Array(COEFFICIENT_COUNT);
+    ozoneLossCoefficients(t, m, ppmv, DEFAULT_OZONE_INPUTS, out);
+    return out;
+  };
+  const s16 = isa(16_000);
+
+  it('no sunlight, no loss: zero (never NaN) when the sun never rises or the daylight factor is 0', () => {
+    const c = coef(s16.temperatureK, s16.numberDensityCm3, 1.0);
+    expect(lossPerNoxYear(c, 0, 0, 0.5)).toBe(0);
+    expect(lossPerNoxYear(c, 0, 0.5, 0)).toBe(0);
   });
 
-  it('low <= central <= high for any level (property)', () => {
-    const out = new Float64Array(4);
+  it('more sunlight, more loss: [O] rises with J(O3) (photostationary state), so the loss rises with the sun height and the daylight factor', () => {
+    const c = coef(s16.temperatureK, s16.numberDensityCm3, 1.0);
+    expect(lossPerNoxYear(c, 0, 0.6, 0.5)).toBeGreaterThan(lossPerNoxYear(c, 0, 0.3, 0.5));
+    expect(lossPerNoxYear(c, 0, 0.6, 0.5)).toBeGreaterThan(lossPerNoxYear(c, 0, 0.6, 0.3));
+  });
+
+  it('more ozone, more loss (the NOx cycle runs on O from O3 photolysis); a zero ozone profile gives zero, not NaN', () => {
+    const lo = coef(s16.temperatureK, s16.numberDensityCm3, 0.5);
+    const hi = coef(s16.temperatureK, s16.numberDensityCm3, 2.0);
+    expect(lossPerNoxYear(hi, 0, 0.5, 0.5)).toBeGreaterThan(lossPerNoxYear(lo, 0, 0.5, 0.5));
+    const zero = coef(s16.temperatureK, s16.numberDensityCm3, 0);
+    expect(lossPerNoxYear(zero, 0, 0.5, 0.5)).toBe(0);
+    expect(Number.isNaN(zero[6])).toBe(false);
+  });
+
+  it('low <= central <= high for any level and sunlight (property)', () => {
     fc.assert(
       fc.property(
         fc.double({ min: 190, max: 250, noNaN: true }),
         fc.double({ min: 1e17, max: 2e19, noNaN: true }),
         fc.double({ min: 0.01, max: 10, noNaN: true }),
-        (t, m, ppmv) => {
-          ozoneLossCoefficients(t, m, ppmv, DEFAULT_OZONE_INPUTS, out);
-          expect(out[1]).toBeLessThanOrEqual(out[0]);
-          expect(out[0]).toBeLessThanOrEqual(out[2]);
-          expect(out[1]).toBeGreaterThan(0);
+        fc.double({ min: 0, max: 1, noNaN: true }),
+        fc.double({ min: 0, max: 1, noNaN: true }),
+        (t, m, ppmv, sun, d) => {
+          const c = coef(t, m, ppmv);
+          const [l, ce, h] = [1, 0, 2].map((k) => lossPerNoxYear(c, k as 0 | 1 | 2, sun, d));
+          expect(l).toBeLessThanOrEqual(ce * (1 + 1e-12));
+          expect(ce).toBeLessThanOrEqual(h * (1 + 1e-12));
+          expect(Number.isFinite(h)).toBe(true);
         },
       ),
+    );
+  });
+});
+
+describe('residence time by latitude (tropical upwelling vs extratropical flushing)', () => {
+  const rt = DEFAULT_OZONE_INPUTS.residenceTime;
+  it('NOx injected just above the tropical tropopause stays longer than just above the extratropical one (Holton et al. 1995; Waugh & Hall 2002)', () => {
+    for (const d of [0, 0.5, 1, 2]) expect(residenceTimeYears(d, rt, 5)).toBeGreaterThan(2 * residenceTimeYears(d, rt, 50));
+  });
+
+  it('is the tropical table to 20 degrees, the extratropical one from 30, linear between; symmetric in the hemispheres', () => {
+    expect(residenceTimeYears(1, rt, 20)).toBeCloseTo(1.5, 12);
+    expect(residenceTimeYears(1, rt, -30)).toBeCloseTo(0.25, 12);
+    expect(residenceTimeYears(1, rt, 25)).toBeCloseTo((1.5 + 0.25) / 2, 12);
+    expect(residenceTimeYears(1, rt, -25)).toBeCloseTo(residenceTimeYears(1, rt, 25), 12);
+  });
+
+  it('stays within the physical bound of about 5 years (mean age of stratospheric air, Waugh & Hall 2002)', () => {
+    fc.assert(
+      fc.property(fc.double({ min: -5, max: 40, noNaN: true }), fc.double({ min: -90, max: 90, noNaN: true }), (d, lat) => {
+        const y = residenceTimeYears(d, rt, lat) * rt.highFactor;
+        expect(y).toBeLessThanOrEqual(6);
+        expect(y).toBeGreaterThan(0);
+      }),
     );
   });
 });
@@ -191,6 +228,15 @@ describe('local odd-oxygen loss budget', () => {
     const b = at(17_000);
     expect(b.addedNoxShareAt1Ppbv).toBeGreaterThan(0);
     expect(b.addedNoxShareAt1Ppbv).toBeLessThan(1);
+  });
+
+  it('a zero ozone profile gives a zero share, not NaN', () => {
+    const s = isa(17_000);
+    const b = oddOxygenBudget({
+      altitudeM: 17_000, latitudeDeg: 45, profileSlot: 0, aboveTropopause: true,
+      temperatureK: s.temperatureK, airDensityCm3: s.numberDensityCm3, o3Ppmv: 0, inputs: DEFAULT_OZONE_INPUTS,
+    });
+    expect(b.addedNoxShareAt1Ppbv).toBe(0);
   });
 });
 

@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import {
   ENGINE_VERSION,
   ScreeningInputError,
+  climatologicalTropopause,
   climatologicalTropopauseM,
   climatologicalTropopauseForDayM,
   isa,
@@ -41,7 +42,7 @@ describe('the public result contract', () => {
       expect(r.segments[0]).toHaveProperty(k);
     }
     expect(r.engineVersion).toBe(ENGINE_VERSION);
-    expect(ENGINE_VERSION).toBe('2026.12.2');
+    expect(ENGINE_VERSION).toBe('2026.12.3');
   });
 
   it('NOx = fuel x EI for a direct EI; N mass = 0.30446 x NO2 mass (molar masses 14.0067 / 46.0055); CO2 = 3.16 x fuel (ICAO CORSIA)', () => {
@@ -64,6 +65,7 @@ describe('the public result contract', () => {
   it('compares aircraft and tropopause in pressure (ISA): above exactly when the level pressure is lower', () => {
     for (const s of r.segments) {
       expect(s.aboveTropopause).toBe(isa(s.altitudeM).pressurePa < isa(s.tropopauseM).pressurePa);
+      expect(s.aboveTropopause).toBe(isa(s.altitudeM).pressurePa < s.tropopausePressureHpa * 100);
       expect(s.depthAboveTropopauseKm).toBeCloseTo(s.aboveTropopause ? (s.altitudeM - s.tropopauseM) / 1000 : 0, 9);
     }
   });
@@ -183,14 +185,22 @@ describe('season and tropopause source', () => {
   it('a flight date uses its own day of year', () => {
     const r = screenFlight(transatlantic({ month: undefined, flightDate: '2026-03-01' }));
     expect(r.dayOfYear).toBe(60);
+    // Day 60 lies between the February and March rows of the table, both winter columns in the north.
     const s = r.segments[10];
-    expect(s.tropopauseM).toBeCloseTo(climatologicalTropopauseForDayM(s.lat, 60), 9);
+    const feb = climatologicalTropopause(s.lat, 2).pressureAltitudeM;
+    const mar = climatologicalTropopause(s.lat, 3).pressureAltitudeM;
+    expect(s.tropopauseM).toBeGreaterThanOrEqual(Math.min(feb, mar) - 1e-6);
+    expect(s.tropopauseM).toBeLessThanOrEqual(Math.max(feb, mar) + 1e-6);
   });
 
   it('neither month nor date: annual-mean climatology', () => {
     const r = screenFlight(transatlantic({ month: undefined }));
     expect(r.month).toBeNull();
-    for (const s of r.segments) expect(s.tropopauseM).toBeCloseTo(climatologicalTropopauseM(s.lat, null), 9);
+    for (const s of r.segments) {
+      const tp = climatologicalTropopause(s.lat, null);
+      expect(s.tropopauseM).toBeCloseTo(tp.pressureAltitudeM, 6);
+      expect(s.tropopausePressureHpa).toBeCloseTo(tp.pressureHpa, 9);
+    }
   });
 
   it('override by altitude and by pressure (ISA pressure altitude)', () => {
