@@ -351,8 +351,8 @@ function describeAssumptions(
       : typeof p === 'string'
         ? `AFGL ${p} profile for every segment (given with the flight)`
         : 'Ozone profile given with the flight (temperature and height from the ISA at each level)';
-  const w = sun.nox > 0 ? 1 / sun.nox : 0;
-  const d = sun.dayFraction * w;
+  const mean = (x: number): number => (sun.nox > 0 ? x / sun.nox : 0);
+  const d = mean(sun.dayFraction);
   const dl = inputs.daylightFactor;
   return {
     ozoneProfile: { choice, profilesUsed, source: p !== null && typeof p === 'object' ? SOURCE_INPUT : AFGL_SOURCE },
@@ -364,9 +364,9 @@ function describeAssumptions(
         : describeBand(a?.daylightFactor, dl),
     sunlight: {
       dayFraction: d,
-      meanCosZenith: sun.meanCos * w,
-      daytimeCosZenith: sun.daytimeCos * w,
-      residenceWindowYears: sun.tauYears * w,
+      meanCosZenith: mean(sun.meanCos),
+      daytimeCosZenith: mean(sun.daytimeCos),
+      residenceWindowYears: mean(sun.tauYears),
       source: SUN_SOURCE,
     },
     noxToNoyFraction: describeBand(a?.noxToNoyFraction, inputs.noxToNoyFraction),

@@ -185,3 +185,121 @@ describe('engine properties (fast-check)', () => {
     );
   });
 });
+
+/** Every number anywhere in a value, with its path. */
+function numbersIn(x: unknown, path = '', out: [string, number][] = []): [string, number][] {
+  if (typeof x === 'number') out.push([path, x]);
+  else if (Array.isArray(x)) x.forEach((v, i) => numbersIn(v, `${path}.${i}`, out));
+  else if (typeof x === 'object' && x !== null) for (const [k, v] of Object.entries(x)) numbersIn(v, `${path}.${k}`, out);
+  return out;
+}
+
+const TURBOFAN = { fuelFlowKgS: [0.11, 0.33, 0.99, 1.21], eiNoxGPerKg: [4.6, 10.0, 22.5, 28.8] };
+
+describe('figures that point the right way (fast-check)', () => {
+  it('no NaN or infinity anywhere in a result, for any valid input (direct EI or engine data, month, date or neither, any level and Mach)', () => {
+    const emission = fc.oneof(
+      fc.record({ eiNoxGPerKg: fc.double({ min: 0, max: 200, noNaN: true }) }),
+      fc.record({ engine: fc.constant(TURBOFAN), engineCount: fc.integer({ min: 1, max: 8 }), method: fc.constantFrom('bffm2' as const, 'dlr' as const) }),
+    );
+    const when = fc.oneof(
+      fc.constant({}),
+      fc.integer({ min: 1, max: 12 }).map((month) => ({ month })),
+      fc.date({ min: new Date('2020-01-01'), max: new Date('2030-12-31'), noInvalidDate: true }).map((d) => ({ flightDate: d.toISOString().slice(0, 10) })),
+    );
+    fc.assert(
+      fc.property(directFlight, emission, when, (f, em, w) => {
+        const { month: _m, ...rest } = toInput(f);
+        const r = screenOrNull({ ...rest, ...w, emission: em });
+        if (r === null) return;
+        for (const [path, v] of numbersIn(r)) expect(Number.isFinite(v), path).toBe(true);
+      }),
+      { numRuns: 200 },
+    );
+  });
+
+  it('EI bounded for any fuel: a screening with engine data either refuses the fuel (naming fuelBurnKg) or keeps every EI within 0-200 g/kg', () => {
+    fc.assert(
+      fc.property(fc.double({ min: 1, max: 500_000, noNaN: true }), fc.integer({ min: 0, max: 660 }), fc.integer({ min: 1, max: 4 }), (fuel, fl, n) => {
+        try {
+          const r = screenFlight({
+            route: { waypoints: [{ lat: 51.5, lon: -0.5 }, { lat: 48.9, lon: 2.5 }] },
+            cruise: { flightLevel: fl },
+            fuelBurnKg: fuel,
+            emission: { engine: TURBOFAN, engineCount: n },
+            month: 1,
+          });
+          for (const l of r.levels) {
+            expect(l.eiNoxGPerKg).toBeGreaterThan(0);
+            expect(l.eiNoxGPerKg).toBeLessThanOrEqual(200);
+          }
+          expect(r.noxTotalKg).toBeLessThan(r.fuelKg);
+        } catch (e) {
+          expect(e).toBeInstanceOf(ScreeningInputError);
+          expect((e as ScreeningInputError).fields.map((x) => x.path)).toEqual(['fuelBurnKg']);
+          expect((e as ScreeningInputError).fields[0].message).toMatch(/kg\/s per engine/);
+        }
+      }),
+      { numRuns: 200 },
+    );
+  });
+
+  const supersonic = (lat: number, flightDate: string, fl = 600) =>
+    screenFlight({
+      route: { waypoints: [{ lat, lon: 0 }, { lat, lon: 30 / Math.max(0.2, Math.cos((lat * Math.PI) / 180)) }] },
+      cruise: { flightLevel: fl },
+      mach: 2,
+      fuelBurnKg: 40_000,
+      emission: { eiNoxGPerKg: 10 },
+      flightDate,
+    });
+  const perKg = (r: ReturnType<typeof screenFlight>) => r.ozoneLoss.centralKg / r.noxAboveTropopauseKg;
+
+  // Same tropopause, ozone profile and level, so that only the sunlight differs: NOx emitted into the
+  // polar night meets sunlight only when it returns. (With the climatology the winter tropopause is
+  // lower, so the same level is deeper and stays longer: that difference is real, not a sunlight one.)
+  // Shallow injections (at most 1.5 km above, residence under half a year): over a window of half a
+  // year or more, night and day starts meet about the same sunlight.
+  const polar = (lat: number, flightDate: string, fl: number) =>
+    screenFlight({
+      route: { waypoints: [{ lat, lon: 0 }, { lat, lon: 40 }] },
+      cruise: { flightLevel: fl },
+      fuelBurnKg: 20_000,
+      emission: { eiNoxGPerKg: 12 },
+      flightDate,
+      tropopause: { pressureHpa: 300 },
+      assumptions: { ozoneProfile: 'subarctic-winter' },
+    });
+  it('less loss per kg for NOx emitted into polar night than into polar day (it meets sunlight only when it returns), same place, level and tropopause', () => {
+    fc.assert(
+      fc.property(fc.double({ min: 72, max: 85, noNaN: true }), fc.constantFrom(1, -1), fc.integer({ min: 310, max: 350 }), (lat, hemi, fl) => {
+        const night = polar(hemi * lat, hemi > 0 ? '2026-12-21' : '2026-06-21', fl);
+        const day = polar(hemi * lat, hemi > 0 ? '2026-06-21' : '2026-12-21', fl);
+        expect(night.noxAboveTropopauseKg).toBeGreaterThan(0);
+        expect(perKg(night)).toBeLessThan(perKg(day));
+      }),
+      { numRuns: 40 },
+    );
+  });
+
+  it('tropical injections are not an order of magnitude below mid-latitude ones (supersonic cruise, FL600; published fleet studies put the largest loss over the tropics, Zhang et al. 2023)', () => {
+    for (const date of ['2026-01-15', '2026-04-15', '2026-07-15', '2026-10-15']) {
+      const tropics = supersonic(5, date);
+      const mid = Math.max(perKg(supersonic(45, date)), perKg(supersonic(-45, date)));
+      expect(perKg(tropics)).toBeGreaterThan(mid / 10);
+    }
+  });
+
+  it('summer is above winter: more NOx above the tropopause at FL350 over 45N in January than in July, and over 45S in July than in January', () => {
+    const at = (lat: number, month: number) =>
+      screenFlight({
+        route: { waypoints: [{ lat, lon: 0 }, { lat, lon: 20 }] },
+        cruise: { flightLevel: 350 },
+        fuelBurnKg: 10_000,
+        emission: { eiNoxGPerKg: 12 },
+        month,
+      }).noxAboveTropopauseKg;
+    expect(at(45, 1)).toBeGreaterThan(at(45, 7));
+    expect(at(-45, 7)).toBeGreaterThan(at(-45, 1));
+  });
+});

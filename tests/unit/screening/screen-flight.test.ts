@@ -282,3 +282,61 @@ describe('validated fast path', () => {
     expect(screenValidated(validateScreeningInput(raw))).toEqual(screenFlight(raw));
   });
 });
+
+describe('inputs far outside what an engine does, and the sources named', () => {
+  it('refuses (ScreeningInputError on fuelBurnKg, saying the implied flow per engine) a fuel burn far above any cruise fuel flow of the engine', () => {
+    const big = transatlantic({ route: { waypoints: [{ airport: 'EGLL' }, { airport: 'LFPG' }] }, fuelBurnKg: 400_000, emission: { engine: TURBOFAN, engineCount: 2 } });
+    try {
+      screenFlight(big);
+      throw new Error('expected a refusal');
+    } catch (e) {
+      expect(e).toBeInstanceOf(ScreeningInputError);
+      const f = (e as ScreeningInputError).fields;
+      expect(f.map((x) => x.path)).toEqual(['fuelBurnKg']);
+      expect(f[0].message).toMatch(/implies \d+(\.\d+)? kg\/s per engine/);
+      expect(f[0].message).toMatch(/take-off fuel flow \(1\.21 kg\/s\)/);
+    }
+  });
+
+  it('a fuel flow above take-off but within reach holds the take-off EI and says so; no EI ever exceeds 200 g/kg', () => {
+    const r = screenFlight(transatlantic({ fuelBurnKg: 150_000, cruise: { flightLevel: 300 }, emission: { engine: TURBOFAN, engineCount: 2 } }));
+    expect(r.cautions.some((c) => /valid from idle to take-off only, so the EI of that end point is held/.test(c))).toBe(true);
+    for (const l of r.levels) expect(l.eiNoxGPerKg).toBeLessThanOrEqual(200);
+  });
+
+  it('cautions when the figure implies more than about 1000 O3 molecules per NOx molecule (inputs pushed to their bounds)', () => {
+    const r = screenFlight(
+      transatlantic({
+        cruise: { flightLevel: 600 },
+        mach: 2,
+        month: 7,
+        assumptions: { residenceTime: { depthKm: [0, 1], years: [5, 5], highFactor: 5 }, noxToNoyFraction: 1, jO3NoonPerS: 1e-3, jNo2NoonPerS: 5e-3 },
+      }),
+    );
+    expect(r.ozoneLoss.o3PerNox).toBeGreaterThan(1000);
+    expect(r.cautions.some((c) => /O3 molecules destroyed per NOx molecule, above about 1000/.test(c))).toBe(true);
+  });
+
+  it('refuses overrides beyond physical bounds (residence above 5 years, J(NO2) outside 5e-3..2e-2 s^-1)', () => {
+    expect(() => screenFlight(transatlantic({ assumptions: { residenceTime: { depthKm: [0, 1], years: [6, 6] } } }))).toThrow(ScreeningInputError);
+    expect(() => screenFlight(transatlantic({ assumptions: { jNo2NoonPerS: 0.05 } }))).toThrow(ScreeningInputError);
+  });
+
+  it('a flight with no NOx names the profile of its own band (subarctic at 51N), not the tropical one', () => {
+    const r = screenFlight(transatlantic({ emission: { eiNoxGPerKg: 0 }, month: 1 }));
+    expect(r.ozoneLoss.localBudget.ozoneProfile).toBe('subarctic-winter');
+  });
+
+  it('the assumptions name their sources: the tropopause model and column, the sunlight geometry, JPL 19-5, DuBois & Paynter', () => {
+    const r = screenFlight(transatlantic({ emission: { engine: TURBOFAN, engineCount: 2 }, fuelBurnKg: 18_000 }));
+    const text = r.assumptions.join(' ');
+    expect(text).toMatch(/Mateus, Mendes & Pires \(2022\)/);
+    expect(text).toMatch(/AFGL-TR-86-0110/);
+    expect(text).toMatch(/Cooper \(1969\)/);
+    expect(text).toMatch(/DuBois & Paynter 2006/);
+    expect(r.ozoneLoss.assumptions.rateConstants).toMatch(/JPL Publication 19-5/);
+    expect(r.ozoneLoss.assumptions.residenceTime.source).toMatch(/Waugh & Hall 2002/);
+    expect(r.ozoneLoss.assumptions.daylightFactor.source).toMatch(/solar geometry/);
+    expect(r.ozoneLoss.assumptions.band).toMatch(/not a confidence interval/);
+  });
+});

@@ -231,6 +231,15 @@ describe('WMO (1957) lapse-rate tropopause of constructed soundings', () => {
   });
 });
 
+describe('WMO (1957): the 2 km condition needs 2 km of sounding', () => {
+  it('a candidate with less than 2 km of sounding above it is not accepted (null: the engine falls back to the climatology with a caution)', () => {
+    const isaLike = sounding([{ fromM: 0, lapseKPerKm: 6.5 }, { fromM: 11_000, lapseKPerKm: 0 }], 12_500, 500);
+    expect(tropopauseFromSounding(isaLike)).toBeNull();
+    const longer = sounding([{ fromM: 0, lapseKPerKm: 6.5 }, { fromM: 11_000, lapseKPerKm: 0 }], 13_500, 500);
+    expect(tropopauseFromSounding(longer)?.altitudeM).toBeCloseTo(11_000, 6);
+  });
+});
+
 describe('sounding errors', () => {
   const good: Level[] = [
     { altitudeM: 9000, temperatureK: 229.65 },
