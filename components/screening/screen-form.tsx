@@ -18,6 +18,7 @@ import {
   type UnitSystem,
 } from '@/lib/validation/screen-form';
 import type { ScreeningInputRaw, SoundingLevelInput } from '@/lib/validation/screening';
+import type { MinimiseCriterion } from '@/lib/screening';
 import { Field, SelectInput, TextArea, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
@@ -188,7 +189,9 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
   const [limit, setLimit] = useState(String(whatIfDefaults.limitPct));
   const limitNumber = Number(limit.replace(',', '.'));
   const limitError = limit.trim() === '' || !Number.isFinite(limitNumber) || limitNumber < 0 || limitNumber > 50 ? 'Give a limit between 0 and 50 %.' : null;
-  const payload = problems.length === 0 ? JSON.stringify({ ...previewBody, whatIf: limitError ? {} : { maxFuelPenaltyPct: limitNumber } }) : null;
+  const [minimise, setMinimise] = useState<MinimiseCriterion>('ozone-figure');
+  const payload =
+    problems.length === 0 ? JSON.stringify({ ...previewBody, whatIf: limitError ? { minimise } : { maxFuelPenaltyPct: limitNumber, minimise } }) : null;
   const settled = useDebouncedValue(payload, previewDelayMs);
   const preview = useQuery({
     queryKey: ['screening-preview', slug, settled],
@@ -662,6 +665,8 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
           limitPct={limitError ? whatIfDefaults.limitPct : limitNumber}
           ratePct={whatIfDefaults.ratePct}
           onLimitChange={setLimit}
+          minimise={minimise}
+          onMinimiseChange={setMinimise}
         />
       </div>
     </div>

@@ -1,9 +1,9 @@
 'use client';
 
-import type { CruiseLevelRow, ScreeningResult } from '@/lib/screening';
+import type { CruiseLevelRow, MinimiseCriterion, ScreeningResult } from '@/lib/screening';
 import type { UnitSystem } from '@/lib/validation/screen-form';
 import { Card } from '@/components/ui/card';
-import { Field, TextInput } from '@/components/ui/field';
+import { Field, SelectInput, TextInput } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { VerticalProfileChart } from '@/components/charts/vertical-profile-chart';
 import { HeadlineFigures } from './headline-figures';
@@ -31,10 +31,27 @@ interface Props {
   limitPct: number;
   ratePct: number;
   onLimitChange: (value: string) => void;
+  /** What the mark minimises (default the ozone figure). */
+  minimise?: MinimiseCriterion;
+  onMinimiseChange?: (value: MinimiseCriterion) => void;
 }
 
 /** The live preview beside the form: headline figures, a small profile and the other levels. */
-export function ScreeningPreview({ units, data, waitingFor, fetching, stale, error, limit, limitError, limitPct, ratePct, onLimitChange }: Props) {
+export function ScreeningPreview({
+  units,
+  data,
+  waitingFor,
+  fetching,
+  stale,
+  error,
+  limit,
+  limitError,
+  limitPct,
+  ratePct,
+  onLimitChange,
+  minimise = 'ozone-figure',
+  onMinimiseChange,
+}: Props) {
   let status: string;
   if (waitingFor.length) status = 'Waiting for complete input';
   else if (error) status = 'Preview not updated';
@@ -75,6 +92,18 @@ export function ScreeningPreview({ units, data, waitingFor, fetching, stale, err
                 <Field id="preview-limit" label="Fuel-penalty limit (%)" error={limitError ?? undefined} className="w-44">
                   <TextInput id="preview-limit" inputMode="decimal" value={limit} onChange={(e) => onLimitChange(e.target.value)} invalid={!!limitError} />
                 </Field>
+                {onMinimiseChange ? (
+                  <Field id="preview-minimise" label="Mark the least" className="w-52">
+                    <SelectInput
+                      id="preview-minimise"
+                      value={minimise}
+                      onChange={(e) => onMinimiseChange(e.target.value === 'nox-above-tropopause' ? 'nox-above-tropopause' : 'ozone-figure')}
+                    >
+                      <option value="ozone-figure">ozone figure (gross loss)</option>
+                      <option value="nox-above-tropopause">NOx above the tropopause</option>
+                    </SelectInput>
+                  </Field>
+                ) : null}
               </div>
               <WhatIfTable rows={data.levels} units={units} limitPct={limitPct} ratePctPer1000Ft={ratePct} compact />
             </div>

@@ -12,9 +12,15 @@ function deltaLabel(deltaFt: number): string {
   return `${deltaFt > 0 ? '+' : '−'}${formatNumber(Math.abs(deltaFt))} ft`;
 }
 
+function signedMass(kg: number, units: UnitSystem): string {
+  if (kg === 0) return '±0';
+  return `${kg > 0 ? '+' : '−'}${formatMass(Math.abs(kg), units)}`;
+}
+
 /**
- * Other cruise levels for the same flight: fuel with the penalty for leaving the planned level, the
- * NOx above the tropopause and the ozone figure; the lowest-impact level within the limit marked.
+ * Other cruise levels for the same flight: fuel with the penalty for leaving the planned level and its
+ * CO2, the NOx above the tropopause and the ozone figure; the level within the limit with the least
+ * of what the planner chose to minimise marked, the mark named after it.
  */
 export function WhatIfTable({
   rows,
@@ -31,7 +37,11 @@ export function WhatIfTable({
   compact?: boolean;
 }) {
   const best = rows.find((r) => r.lowestImpact);
-  const badge = <span className="ml-2 whitespace-nowrap rounded bg-tropo-strong px-1.5 py-0.5 text-[11px] font-semibold uppercase tracking-wide text-white">lowest impact</span>;
+  const markName = rows[0]?.markName ?? 'Least ozone figure';
+  const what = rows[0]?.minimise === 'nox-above-tropopause' ? 'NOx above the tropopause' : 'gross ozone-loss figure';
+  const badge = (
+    <span className="ml-2 whitespace-nowrap rounded bg-tropo-strong px-1.5 py-0.5 text-[11px] font-semibold uppercase tracking-wide text-white">{markName}</span>
+  );
   return (
     <div>
       <ScrollRegion label="Other cruise levels">
@@ -43,6 +53,7 @@ export function WhatIfTable({
               {compact ? null : <th scope="col" className="py-2 pr-3">Change</th>}
               {compact ? null : <th scope="col" className="py-2 pr-3 text-right">Fuel</th>}
               <th scope="col" className="py-2 pr-3 text-right">Fuel penalty</th>
+              {compact ? null : <th scope="col" className="py-2 pr-3 text-right">Fuel / CO2 change</th>}
               <th scope="col" className="py-2 pr-3 text-right">NOx above tropopause</th>
               <th scope="col" className="py-2 pr-3 text-right">Ozone-loss figure</th>
               {compact ? null : <th scope="col" className="py-2">Within limit</th>}
@@ -60,7 +71,8 @@ export function WhatIfTable({
                   {r.lowestImpact ? badge : null}
                   {compact ? (
                     <span className="block text-xs font-normal text-ink-faint">
-                      {deltaLabel(r.deltaFt)}, fuel {formatMass(r.fuelKg, units)}
+                      {deltaLabel(r.deltaFt)}, fuel {formatMass(r.fuelKg, units)} ({signedMass(r.fuelChangeKg, units)}, CO2{' '}
+                      {signedMass(r.co2ChangeKg, units)})
                       {r.withinLimit ? '' : ', over the limit'}
                     </span>
                   ) : null}
@@ -68,6 +80,12 @@ export function WhatIfTable({
                 {compact ? null : <td className="whitespace-nowrap py-2 pr-3">{deltaLabel(r.deltaFt)}</td>}
                 {compact ? null : <td className="whitespace-nowrap py-2 pr-3 text-right">{formatMass(r.fuelKg, units)}</td>}
                 <td className="whitespace-nowrap py-2 pr-3 text-right">{formatNumber(r.fuelPenaltyPct, 1)} %</td>
+                {compact ? null : (
+                  <td className="whitespace-nowrap py-2 pr-3 text-right">
+                    {signedMass(r.fuelChangeKg, units)}
+                    <span className="block text-xs font-normal text-ink-faint">CO2 {signedMass(r.co2ChangeKg, units)}</span>
+                  </td>
+                )}
                 <td className="whitespace-nowrap py-2 pr-3 text-right">{formatMass(r.noxAboveTropopauseKg, units)}</td>
                 <td className="whitespace-nowrap py-2 pr-3 text-right">
                   {formatMass(r.ozoneLoss.centralKg, units)}
@@ -83,8 +101,10 @@ export function WhatIfTable({
       </ScrollRegion>
       <p className="mt-2 text-xs text-ink-soft">
         {best
-          ? `Within a ${formatNumber(limitPct, 1)} % fuel penalty, ${levelsLabel(best)} gives the smallest ozone-loss figure.`
+          ? `${markName}: within a ${formatNumber(limitPct, 1)} % fuel penalty, ${levelsLabel(best)} gives the least ${what}, at the fuel and CO2 change shown beside it.`
           : `No level stays within a ${formatNumber(limitPct, 1)} % fuel penalty.`}{' '}
+        The ozone figure is a gross catalytic loss: below about 13-20 km the same NOx likely makes more ozone than it destroys (net production), so a
+        lower level is not an ozone gain by itself.{' '}
         The fuel penalty ({formatNumber(ratePctPer1000Ft, 1)} % per 1000 ft away from the planned level) is a rule of thumb (common practice), not
         a performance calculation: check any level against the flight plan, performance data and ATC constraints.
       </p>

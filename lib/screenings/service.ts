@@ -79,7 +79,7 @@ export function runScreening(input: ScreeningInput): ScreeningResult {
 export function runWhatIf(input: ScreeningInput, whatIf: unknown, planned?: ScreeningResult): CruiseLevelRow[] {
   const options = whatIf === undefined ? {} : whatIf;
   if (typeof options !== 'object' || options === null || Array.isArray(options)) {
-    throw invalidFields([{ path: 'whatIf', message: 'whatIf must be an object { deltasFt?, fuelPenaltyPctPer1000Ft?, maxFuelPenaltyPct? }.' }]);
+    throw invalidFields([{ path: 'whatIf', message: 'whatIf must be an object { deltasFt?, fuelPenaltyPctPer1000Ft?, maxFuelPenaltyPct?, minimise? }.' }]);
   }
   try {
     return compareValidated(input, validateCompareOptions(options), planned);

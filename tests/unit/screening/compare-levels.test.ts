@@ -50,6 +50,25 @@ describe('compareCruiseLevels', () => {
     for (const r of rows.filter((x) => x.withinLimit)) expect(marked[0].ozoneLoss.centralKg).toBeLessThanOrEqual(r.ozoneLoss.centralKg);
   });
 
+  it('the planner chooses what the mark minimises, and the mark is named after it', () => {
+    const byNox = compareCruiseLevels(flight(), { minimise: 'nox-above-tropopause' });
+    const m = byNox.filter((r) => r.lowestImpact);
+    expect(m).toHaveLength(1);
+    for (const r of byNox.filter((x) => x.withinLimit)) expect(m[0].noxAboveTropopauseKg).toBeLessThanOrEqual(r.noxAboveTropopauseKg);
+    expect(byNox.every((r) => r.minimise === 'nox-above-tropopause' && r.markName === 'Least NOx above the tropopause')).toBe(true);
+    const byOzone = compareCruiseLevels(flight());
+    expect(byOzone.every((r) => r.minimise === 'ozone-figure' && r.markName === 'Least ozone figure')).toBe(true);
+    expect(() => compareCruiseLevels(flight(), { minimise: 'co2' as never })).toThrow(ScreeningInputError);
+  });
+
+  it('shows the fuel and CO2 change beside each level (CO2 = 3.16 x fuel, ICAO CORSIA): zero at the planned level, more fuel away from it', () => {
+    for (const r of compareCruiseLevels(flight())) {
+      expect(r.fuelChangeKg).toBeCloseTo(r.fuelKg - 30_000, 9);
+      expect(r.co2ChangeKg).toBeCloseTo(3.16 * r.fuelChangeKg, 9);
+      expect(r.fuelChangeKg > 0).toBe(r.deltaFt !== 0);
+    }
+  });
+
   it('stays within FL0-FL660: shifts that leave it are dropped', () => {
     expect(compareCruiseLevels(flight({ flightLevel: 650 })).map((r) => r.flightLevel)).toEqual([610, 630, 650]);
     expect(compareCruiseLevels(flight({ flightLevel: 10 })).map((r) => r.flightLevel)).toEqual([10, 30, 50]);

@@ -8,14 +8,16 @@ import {
   compareValidated,
   DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT,
   DEFAULT_MAX_FUEL_PENALTY_PCT,
+  DEFAULT_MINIMISE,
   type CruiseLevelRow,
+  type MinimiseCriterion,
 } from '@/lib/screening';
 import { compareCruiseLevelsOptionsSchema } from '@/lib/validation/screening';
 import { AppError } from '@/lib/errors';
 import { formatDate, formatDateTime } from '@/lib/format';
 import { Card, PageHeader } from '@/components/ui/card';
 import { ButtonLink, buttonClass } from '@/components/ui/button';
-import { Field, TextInput } from '@/components/ui/field';
+import { Field, SelectInput, TextInput } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { HeadlineFigures } from '@/components/screening/headline-figures';
 import { ScreeningCautions } from '@/components/screening/cautions';
@@ -36,8 +38,15 @@ type Search = Record<string, string | string[] | undefined>;
 
 const one = (v: string | string[] | undefined): string | undefined => (Array.isArray(v) ? v[0] : v);
 
-function readWhatIf(search: Search): { limit: number; rate: number; problems: Record<string, string>; raw: { limit: string; rate: string } } {
+function readWhatIf(search: Search): {
+  limit: number;
+  rate: number;
+  minimise: MinimiseCriterion;
+  problems: Record<string, string>;
+  raw: { limit: string; rate: string };
+} {
   const raw = { limit: one(search.limit) ?? '', rate: one(search.rate) ?? '' };
+  const minimise: MinimiseCriterion = one(search.minimise) === 'nox-above-tropopause' ? 'nox-above-tropopause' : DEFAULT_MINIMISE;
   const problems: Record<string, string> = {};
   const candidate: Record<string, number> = {};
   if (raw.limit.trim() !== '') candidate.maxFuelPenaltyPct = Number(raw.limit);
@@ -53,6 +62,7 @@ function readWhatIf(search: Search): { limit: number; rate: number; problems: Re
   return {
     limit: problems.limit ? DEFAULT_MAX_FUEL_PENALTY_PCT : (ok.maxFuelPenaltyPct ?? DEFAULT_MAX_FUEL_PENALTY_PCT),
     rate: problems.rate ? DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT : (ok.fuelPenaltyPctPer1000Ft ?? DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT),
+    minimise,
     problems,
     raw,
   };
@@ -132,7 +142,7 @@ async function WhatIfSection({ input, search, units, engineVersion }: { input: S
   const whatIf = readWhatIf(search);
   let levels: CruiseLevelRow[] | null = null;
   try {
-    levels = compareValidated(input, { maxFuelPenaltyPct: whatIf.limit, fuelPenaltyPctPer1000Ft: whatIf.rate });
+    levels = compareValidated(input, { maxFuelPenaltyPct: whatIf.limit, fuelPenaltyPctPer1000Ft: whatIf.rate, minimise: whatIf.minimise });
   } catch {
     levels = null;
   }
@@ -148,6 +158,12 @@ async function WhatIfSection({ input, search, units, engineVersion }: { input: S
         </Field>
         <Field id="rate" label="Penalty per 1000 ft (%)" error={whatIf.problems.rate} className="w-48">
           <TextInput id="rate" name="rate" inputMode="decimal" defaultValue={whatIf.raw.rate || String(whatIf.rate)} invalid={!!whatIf.problems.rate} />
+        </Field>
+        <Field id="minimise" label="Mark the level with the least" className="w-64">
+          <SelectInput id="minimise" name="minimise" defaultValue={whatIf.minimise}>
+            <option value="ozone-figure">ozone figure (gross loss)</option>
+            <option value="nox-above-tropopause">NOx above the tropopause</option>
+          </SelectInput>
         </Field>
         <button type="submit" className={buttonClass('secondary')}>
           Compare levels
