@@ -88,12 +88,24 @@ export function bthRowForDay(dayOfYear: number | null): Float64Array {
   return out;
 }
 
+// Band index by whole degree from -85: the first band at or below that degree (bands fall on
+// whole or half degrees, so one step forward at most is left to check).
+const BAND_BY_DEGREE: Int8Array = (() => {
+  const out = new Int8Array(171);
+  let i = 0;
+  for (let d = 0; d <= 170; d++) {
+    while (i < NB - 2 && BTH_BANDS_DEG[i + 1] <= d - 85) i++;
+    out[d] = i;
+  }
+  return out;
+})();
+
 /** Tropopause height (km, geometric) at `latDeg` on a row from `bthRowForDay`; held beyond +/-85. */
 export function bthHeightKm(row: Float64Array, latDeg: number): number {
   if (latDeg <= BTH_BANDS_DEG[0]) return row[0];
   if (latDeg >= BTH_BANDS_DEG[NB - 1]) return row[NB - 1];
-  let i = 0;
-  while (latDeg > BTH_BANDS_DEG[i + 1]) i++;
+  let i = BAND_BY_DEGREE[Math.floor(latDeg + 85)];
+  while (i < NB - 2 && latDeg > BTH_BANDS_DEG[i + 1]) i++;
   const f = (latDeg - BTH_BANDS_DEG[i]) / (BTH_BANDS_DEG[i + 1] - BTH_BANDS_DEG[i]);
   return row[i] + f * (row[i + 1] - row[i]);
 }
@@ -171,13 +183,18 @@ export const COLUMNS: readonly Column[] = (() => {
   return Object.freeze([...five, meanColumn(five[1], five[2]), meanColumn(five[3], five[4])]);
 })();
 
+/** Index of the column layer holding `zKm` (grid: 1 km to 25 km, then 2.5 km to 35 km), ends extended. */
+function layerAt(zKm: number): number {
+  if (!(zKm > 0)) return 0;
+  if (zKm < 25) return Math.floor(zKm);
+  const i = 25 + Math.floor((zKm - 25) / 2.5);
+  return i > AFGL_COLUMN_KM.length - 2 ? AFGL_COLUMN_KM.length - 2 : i;
+}
+
 /** Pressure (Pa) at geometric height `zKm` in a column; the end layers extended. */
 export function columnPressurePa(c: Column, zKm: number): number {
   const zs = AFGL_COLUMN_KM;
-  const n = zs.length;
-  let i = 0;
-  if (zKm >= zs[n - 1]) i = n - 2;
-  else while (i < n - 2 && zKm > zs[i + 1]) i++;
+  const i = layerAt(zKm);
   const f = (zKm - zs[i]) / (zs[i + 1] - zs[i]);
   return Math.exp(c.lnPressurePa[i] + f * (c.lnPressurePa[i + 1] - c.lnPressurePa[i]));
 }

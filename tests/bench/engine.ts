@@ -1,8 +1,9 @@
 /**
  * Engine benchmark (issue 3): a deterministic synthetic schedule of 100 000 flights screened in one
  * process on already-validated inputs, beside a floor loop over the same segments that evaluates only
- * the irreducible math of each (one great-circle position, one ISA pressure, one tropopause height,
- * one EI interpolation and correction, one rate constant) with no allocation. Prints flights/s,
+ * the irreducible math of each (one great-circle position, one ISA pressure, one tropopause height
+ * from the lookup table placed in pressure in its column, one EI interpolation and correction, one
+ * rate constant) with no allocation. Prints flights/s,
  * segments/s, the engine/floor ratio, the validation share and the peak RSS.
  *
  * Run: npx tsx tests/bench/engine.ts [flights]
@@ -16,7 +17,9 @@ import {
   type ScreeningInputRaw,
 } from '../../lib/screening/index';
 import { EARTH_RADIUS_M, MAX_SEGMENT_KM, planRoute, resolveWaypoints } from '../../lib/screening/route';
-import { MATEUS_2022_NORTH, MATEUS_2022_SOUTH, mateusSeasonalKm, MID_MONTH_DAY_OF_YEAR } from '../../lib/screening/tropopause';
+import { MID_MONTH_DAY_OF_YEAR } from '../../lib/screening/tropopause';
+import { COLUMNS, bthHeightKm, bthRowForDay, columnPressurePa } from '../../lib/screening/climatology';
+import { profileSlotFor } from '../../lib/screening/ozone-loss';
 import { BFFM2_INSTALLATION_FACTORS, buildEiCurve, humidityTerm } from '../../lib/screening/emission-index';
 import { isaTemperatureAt } from '../../lib/screening/atmosphere';
 
@@ -121,13 +124,15 @@ function schedule(n: number): ScreeningInputRaw[] {
 
 /**
  * Per-flight data the floor loop reads, packed into one Float64Array outside the timed loop:
- * [legs, steps, fuelFlowPerEngineKgS, mach, humidityFactor, seasonalN, seasonalS,
+ * [legs, steps, fuelFlowPerEngineKgS, mach, humidityFactor, month (0 for none), unused,
  *  per leg: legKm, legStartKm, sinLat1, cosLat1, lon1, sinBearing, cosBearing,
  *  per step: fromKm, altitudeM, curve: lnWf x4, lnEi x4, slope x3].
  */
 interface FloorData {
   pool: Float64Array;
   offset: Int32Array;
+  /** Per flight, the tropopause table row for its day (shared for the same day). */
+  rows: Float64Array[];
 }
 
 const HEADER = 7;
@@ -137,6 +142,7 @@ const PER_STEP = 2;
 function prepareFloor(inputs: readonly ScreeningInput[]): FloorData {
   const DEG = Math.PI / 180;
   const chunks: number[][] = [];
+  const rows: Float64Array[] = [];
   let size = 0;
   for (const f of inputs) {
     const { lat, lon } = resolveWaypoints(f.route.waypoints);
@@ -154,7 +160,17 @@ function prepareFloor(inputs: readonly ScreeningInput[]): FloorData {
     const mach = f.mach ?? 0.8;
     const hours = plan.totalKm / (mach * 295 * 3.6);
     const engines = 'engineCount' in f.emission ? f.emission.engineCount : 2;
-    const doy = f.month !== undefined ? MID_MONTH_DAY_OF_YEAR[f.month - 1] : null;
+    const doy =
+      f.month !== undefined
+        ? MID_MONTH_DAY_OF_YEAR[f.month - 1]
+        : f.flightDate !== undefined
+          ? (Date.UTC(Number(f.flightDate.slice(0, 4)), Number(f.flightDate.slice(5, 7)) - 1, Number(f.flightDate.slice(8, 10))) -
+              Date.UTC(Number(f.flightDate.slice(0, 4)), 0, 1)) /
+              86_400_000 +
+            1
+          : null;
+    const month = f.month ?? (f.flightDate !== undefined ? Number(f.flightDate.slice(5, 7)) : 0);
+    rows.push(bthRowForDay(doy));
     const alt0 = steps[0].flightLevel * 30.48;
     const c: number[] = [
       legs,
@@ -162,8 +178,8 @@ function prepareFloor(inputs: readonly ScreeningInput[]): FloorData {
       f.fuelBurnKg / (hours * 3600) / engines,
       mach,
       Math.exp(humidityTerm(0.6, 23_000, isaTemperatureAt(alt0))),
-      mateusSeasonalKm(true, doy),
-      mateusSeasonalKm(false, doy),
+      month,
+      0,
     ];
     for (let i = 0; i < legs; i++) {
       const p1 = lat[i] * DEG;
@@ -194,7 +210,7 @@ function prepareFloor(inputs: readonly ScreeningInput[]): FloorData {
     o += c.length;
   });
   offset[chunks.length] = o;
-  return { pool, offset };
+  return { pool, offset, rows };
 }
 
 /** The floor: same segment boundaries as the engine, only the irreducible math, no allocation. */
@@ -211,8 +227,8 @@ function floorLoop(data: FloorData): { checksum: number; segments: number } {
     const wfPerEngine = P[o + 2];
     const mach = P[o + 3];
     const humidityFactor = P[o + 4];
-    const seasonalN = P[o + 5];
-    const seasonalS = P[o + 6];
+    const month = P[o + 5] > 0 ? P[o + 5] : null;
+    const row = data.rows[f];
     const so = o + HEADER + legs * PER_LEG;
     const co = so + nSteps * PER_STEP;
     let step = 0;
@@ -255,10 +271,8 @@ function floorLoop(data: FloorData): { checksum: number; segments: number } {
               t = 216.65;
               p = 22_632.06 * Math.exp((-9.80665 * (h - 11_000)) / (287.05287 * 216.65));
             }
-            // One tropopause height (Mateus et al. 2022).
-            const cf = lat > 0 ? MATEUS_2022_NORTH : MATEUS_2022_SOUTH;
-            const tp =
-              (cf[0] + cf[1] / Math.pow(1 + Math.exp(-(lat - cf[2]) / cf[3]), cf[4]) + (lat > 0 ? seasonalN : seasonalS)) * 1000;
+            // One tropopause (Mateus et al. 2022 lookup table) placed in pressure in its AFGL column.
+            const tpPa = columnPressurePa(COLUMNS[profileSlotFor(lat, month)], bthHeightKm(row, lat));
             // One EI interpolation and BFFM2 correction.
             const delta0 = p / 101_325;
             const theta = t / 288.15;
@@ -270,9 +284,10 @@ function floorLoop(data: FloorData): { checksum: number; segments: number } {
               Math.exp(P[co + 4 + k] + P[co + 8 + k] * (x - P[co + k])) *
               humidityFactor *
               Math.sqrt(Math.pow(delta0, 1.02) / Math.pow(theta, 3.3));
-            // One rate constant, k(NO2 + O), JPL 19-5.
-            const kr = 5.1e-12 * Math.exp(210 / t);
-            checksum += lon * 1e-9 + (h > tp ? ei : 0) + kr * 1e10;
+            // One rate constant, k(NO2 + O): its high-pressure Arrhenius part per segment (the
+            // fall-off share depends on the level only, as the engine caches it per level).
+            const kr = 5.3e-12 * Math.exp(200 / t);
+            checksum += lon * 1e-9 + (p < tpPa ? ei : 0) + kr * 1e10;
           }
           a = e;
           if (a === nextStepKm) {
