@@ -7,9 +7,9 @@ import { Field, SelectInput, TextInput } from '@/components/ui/field';
 import { sci } from './assumptions-list';
 
 const BAND_LABELS: Record<BandKey, string> = {
-  jO3NoonPerS: 'J(O3 → O) at noon, s⁻¹',
-  jNo2NoonPerS: 'J(NO2) at noon, s⁻¹',
-  daylightFactor: 'Daylight-average factor',
+  jO3NoonPerS: 'J(O3 → O), overhead sun, s⁻¹',
+  jNo2NoonPerS: 'J(NO2), overhead sun, s⁻¹',
+  daylightFactor: 'Daylight factor (blank: from the sun at the flight’s date and latitude; 0.5 at an equinox)',
   noxToNoyFraction: 'NOx share of NOy',
 };
 

@@ -17,9 +17,9 @@ export function sci(n: number): string {
 export function AssumptionsList({ result }: { result: Pick<ScreeningResult, 'assumptions' | 'ozoneLoss' | 'engineVersion'> }) {
   const a = result.ozoneLoss.assumptions;
   const bands: [string, { low: number; central: number; high: number; source: string }][] = [
-    ['J(O3 → O(3P)) at noon, s⁻¹', a.jO3NoonPerS],
-    ['J(NO2) at noon, s⁻¹', a.jNo2NoonPerS],
-    ['Daylight-average factor', a.daylightFactor],
+    ['J(O3 → O(3P)), overhead sun, s⁻¹', a.jO3NoonPerS],
+    ['J(NO2), overhead sun, s⁻¹', a.jNo2NoonPerS],
+    ['Daylight factor D (sunlit fraction)', a.daylightFactor],
     ['NOx share of NOy', a.noxToNoyFraction],
   ];
   return (
@@ -51,11 +51,25 @@ export function AssumptionsList({ result }: { result: Pick<ScreeningResult, 'ass
                 <td className="py-1.5 text-xs text-ink-soft">{b.source}</td>
               </tr>
             ))}
+            {a.sunlight ? (
+              <tr className="border-t border-line align-top">
+                <th scope="row" className="py-1.5 pr-3 text-left font-normal">Sunlight (NOx-weighted)</th>
+                <td colSpan={3} className="py-1.5 pr-3 text-right">
+                  day fraction {sci(a.sunlight.dayFraction)}, daily-mean cos zenith {sci(a.sunlight.meanCosZenith)}, daytime cos zenith{' '}
+                  {sci(a.sunlight.daytimeCosZenith)}, over {sci(a.sunlight.residenceWindowYears)} yr
+                </td>
+                <td className="py-1.5 text-xs text-ink-soft">{a.sunlight.source}</td>
+              </tr>
+            ) : null}
             <tr className="border-t border-line align-top">
               <th scope="row" className="py-1.5 pr-3 text-left font-normal">Residence time above the tropopause</th>
               <td colSpan={3} className="py-1.5 pr-3 text-right">
-                {a.residenceTime.depthKm.map((d, i) => `${d} km: ${a.residenceTime.years[i]} yr`).join(', ')} (× {a.residenceTime.lowFactor} low, ×{' '}
-                {a.residenceTime.highFactor} high)
+                {a.residenceTime.tropicalYears ? 'extratropics ' : ''}
+                {a.residenceTime.depthKm.map((d, i) => `${d} km: ${a.residenceTime.years[i]} yr`).join(', ')}
+                {a.residenceTime.tropicalYears
+                  ? `; tropics ${a.residenceTime.depthKm.map((d, i) => `${d} km: ${a.residenceTime.tropicalYears?.[i]} yr`).join(', ')}`
+                  : ''}{' '}
+                (× {a.residenceTime.lowFactor} low, × {a.residenceTime.highFactor} high)
               </td>
               <td className="py-1.5 text-xs text-ink-soft">{a.residenceTime.source}</td>
             </tr>
