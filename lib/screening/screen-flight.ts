@@ -866,6 +866,40 @@ function budgetLevel(ctx: WalkContext, noxAbove: number, firstLat: number): { le
   return { level: bLevel, slot: bSlot, lat: bNox > 0 ? bLevel.latNoxBySlot[bSlot] / bNox : firstLat };
 }
 
+/** The method lines of a result, each naming its source. */
+function methodLines(
+  input: ScreeningInput,
+  ctx: WalkContext,
+  eiMethod: ScreeningResult['eiMethod'],
+  machTiming: number,
+  machEi: number,
+  fuelKgPerS: number,
+): string[] {
+  const emission = input.emission;
+  const tp = ctx.tp;
+  const inputs = ctx.inputs;
+  const season = ctx.season;
+  const climatology = tp.source === 'climatology';
+  return [
+    `The entered fuel (${fmt(input.fuelBurnKg)} kg) is the cruise fuel along the entered track, spread over the segments in proportion to time; time = distance / true airspeed, true airspeed = Mach ${fmt(machTiming, 2)} x ISA speed of sound at each level. Climb and descent are not modelled.`,
+    `Great circles by geolib on the mean Earth sphere (radius ${EARTH_RADIUS_M} m), split into segments of at most ${MAX_SEGMENT_KM} km; each segment is evaluated at its midpoint.`,
+    'Flight levels are ISA pressure altitudes (FL x 30.48 m, ICAO Doc 7488/3); aircraft and tropopause are compared in pressure, and the tropopause is reported as an ISA pressure altitude and a pressure.',
+    TROPOPAUSE_SOURCE_TEXT[tp.source] +
+      (climatology
+        ? input.month !== undefined
+          ? ` Month ${season.month} (mid-month day ${season.doy}).`
+          : input.flightDate !== undefined
+            ? ` Day of year ${season.doy} of ${input.flightDate}.`
+            : ' No month or date: annual mean of the 12 mid-month rows.'
+        : ''),
+    'eiNoxGPerKg' in emission
+      ? `EI NOx ${emission.eiNoxGPerKg} g/kg as entered, the same at every level.`
+      : `EI NOx from engine certification data by ${eiMethod === 'bffm2' ? 'Boeing Fuel Flow Method 2 (DuBois & Paynter 2006, SAE 2006-01-1987)' : 'the DLR fuel-flow method (Deidewig, Doepelheuer & Lecht 1996)'}, the other method shown beside it; cruise fuel flow per engine ${(fuelKgPerS / ('engineCount' in emission ? emission.engineCount : 1)).toFixed(3)} kg/s; Mach ${fmt(machEi, 2)}; humidity term -19.0 (omega - 0.0063) with omega the humidity ratio at relative humidity ${inputs.relativeHumidity} (Goff-Gratch saturation pressure); the log-log curve is valid from idle to take-off and its end EI is held beyond them; at most ${SCREENING_LIMITS.maxEiNoxGPerKg} g/kg.`,
+    `Temperature for the EI correction from ${tp.sounding !== null ? 'the sounding where it covers the level, else ISA' : 'ISA'}; temperature, air density and ozone for the chemistry at the flight level's height in the climatological column (${AFGL_COLUMN_SOURCE})${tp.sounding !== null ? ', with the sounding temperature where it covers the level' : ''}. NOx is NO2-equivalent mass; N mass = 0.30446 x NO2 mass; CO2 = 3.16 kg per kg fuel (ICAO CORSIA).`,
+    `Sunlight: ${SUN_SOURCE}; the overhead-sun J values are scaled by the daytime-mean cos zenith and the loss by the sunlit fraction of the day.`,
+  ];
+}
+
 function describeResult(args: {
   input: ScreeningInput;
   totals: ScreeningTotals;
@@ -943,27 +977,9 @@ function describeResult(args: {
         : `Mach ${fmt(Math.max(machTiming, args.machEi), 2)}: fuel-flow correlations (BFFM2, DLR) are calibrated on subsonic engines; prefer a measured cruise EI for supersonic cruise.`,
     );
   }
-  const emission = input.emission;
   const climatology = tp.source === 'climatology';
   const season = ctx.season;
-  const assumptions: string[] = [
-    `The entered fuel (${fmt(input.fuelBurnKg)} kg) is the cruise fuel along the entered track, spread over the segments in proportion to time; time = distance / true airspeed, true airspeed = Mach ${fmt(machTiming, 2)} x ISA speed of sound at each level. Climb and descent are not modelled.`,
-    `Great circles by geolib on the mean Earth sphere (radius ${EARTH_RADIUS_M} m), split into segments of at most ${MAX_SEGMENT_KM} km; each segment is evaluated at its midpoint.`,
-    'Flight levels are ISA pressure altitudes (FL x 30.48 m, ICAO Doc 7488/3); aircraft and tropopause are compared in pressure, and the tropopause is reported as an ISA pressure altitude and a pressure.',
-    TROPOPAUSE_SOURCE_TEXT[tp.source] +
-      (climatology
-        ? input.month !== undefined
-          ? ` Month ${season.month} (mid-month day ${season.doy}).`
-          : input.flightDate !== undefined
-            ? ` Day of year ${season.doy} of ${input.flightDate}.`
-            : ' No month or date: annual mean of the 12 mid-month rows.'
-        : ''),
-    'eiNoxGPerKg' in emission
-      ? `EI NOx ${emission.eiNoxGPerKg} g/kg as entered, the same at every level.`
-      : `EI NOx from engine certification data by ${eiMethod === 'bffm2' ? 'Boeing Fuel Flow Method 2 (DuBois & Paynter 2006, SAE 2006-01-1987)' : 'the DLR fuel-flow method (Deidewig, Doepelheuer & Lecht 1996)'}, the other method shown beside it; cruise fuel flow per engine ${(args.fuel.fuelKgPerS / ('engineCount' in emission ? emission.engineCount : 1)).toFixed(3)} kg/s; Mach ${fmt(args.machEi, 2)}; humidity term -19.0 (omega - 0.0063) with omega the humidity ratio at relative humidity ${inputs.relativeHumidity} (Goff-Gratch saturation pressure); the log-log curve is valid from idle to take-off and its end EI is held beyond them; at most ${SCREENING_LIMITS.maxEiNoxGPerKg} g/kg.`,
-    `Temperature for the EI correction from ${tp.sounding !== null ? 'the sounding where it covers the level, else ISA' : 'ISA'}; temperature, air density and ozone for the chemistry at the flight level's height in the climatological column (${AFGL_COLUMN_SOURCE})${tp.sounding !== null ? ', with the sounding temperature where it covers the level' : ''}. NOx is NO2-equivalent mass; N mass = 0.30446 x NO2 mass; CO2 = 3.16 kg per kg fuel (ICAO CORSIA).`,
-    `Sunlight: ${SUN_SOURCE}; the overhead-sun J values are scaled by the daytime-mean cos zenith and the loss by the sunlit fraction of the day.`,
-  ];
+  const assumptions = methodLines(input, ctx, eiMethod, machTiming, args.machEi, args.fuel.fuelKgPerS);
   const fuelKg = input.fuelBurnKg;
   const result: ScreeningResult = {
     engineVersion: ENGINE_VERSION,

@@ -143,6 +143,30 @@ describe('preview and computation routes', () => {
     expect(bad.body.error?.fields?.[0]?.path).toBe('whatIf.maxFuelPenaltyPct');
   });
 
+  it('preview: the planner chooses what the mark minimises (named in each row, with the fuel and CO2 change); a fuel burn far beyond the engine is a 422 on fuelBurnKg', async () => {
+    const ws = await makeWorkspace();
+    const cookie = await sessionCookie(ws.owner.id);
+    const url = `/api/v1/workspaces/${ws.slug}/screenings/preview`;
+    const r = await call<{ levels: { lowestImpact: boolean; markName: string; minimise: string; noxAboveTropopauseKg: number; withinLimit: boolean; co2ChangeKg: number; fuelChangeKg: number }[] }>(
+      previewRoute.POST,
+      apiRequest('POST', url, { cookie, body: { ...FLIGHT, whatIf: { minimise: 'nox-above-tropopause' } } }),
+      { slug: ws.slug },
+    );
+    expect(r.status).toBe(200);
+    const marked = r.body.levels.find((l) => l.lowestImpact)!;
+    expect(marked.markName).toBe('Least NOx above the tropopause');
+    for (const l of r.body.levels.filter((x) => x.withinLimit)) expect(marked.noxAboveTropopauseKg).toBeLessThanOrEqual(l.noxAboveTropopauseKg);
+    for (const l of r.body.levels) expect(l.co2ChangeKg).toBeCloseTo(3.16 * l.fuelChangeKg, 6);
+    const bad = await call(previewRoute.POST, apiRequest('POST', url, { cookie, body: { ...FLIGHT, whatIf: { minimise: 'co2' } } }), { slug: ws.slug });
+    expect(bad.status).toBe(422);
+    expect(bad.body.error?.fields?.[0]?.path).toBe('whatIf.minimise');
+    const engine = { engine: { fuelFlowKgS: [0.11, 0.33, 0.99, 1.21], eiNoxGPerKg: [4.6, 10.0, 22.5, 28.8] }, engineCount: 2 };
+    const far = await call(previewRoute.POST, apiRequest('POST', url, { cookie, body: { ...FLIGHT, fuelBurnKg: 450_000, emission: engine } }), { slug: ws.slug });
+    expect(far.status).toBe(422);
+    expect(far.body.error?.fields?.map((f: { path: string }) => f.path)).toEqual(['fuelBurnKg']);
+    expect(far.body.error?.fields?.[0]?.message).toMatch(/kg\/s per engine/);
+  });
+
   it('atmosphere: FL361 is near the ISA tropopause (ICAO Doc 7488/3: 11 000 m, 216.65 K, 22 632 Pa)', async () => {
     const u = await makeUser();
     const cookie = await sessionCookie(u.id);
