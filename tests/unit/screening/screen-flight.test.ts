@@ -340,3 +340,35 @@ describe('inputs far outside what an engine does, and the sources named', () => 
     expect(r.ozoneLoss.assumptions.band).toMatch(/not a confidence interval/);
   });
 });
+
+describe('chemistry in the climatological column, and depth', () => {
+  it('takes temperature at the flight level\'s height in the column, not the ISA: over the equator at FL550 the AFGL tropical column is near its 17 km cold point (194.8 K, AFGL-TR-86-0110 table 1a), 20 K colder than the ISA 216.65 K', () => {
+    const r = screenFlight({
+      route: { waypoints: [{ lat: 0, lon: 0 }, { lat: 0, lon: 20 }] },
+      cruise: { flightLevel: 550 },
+      mach: 2,
+      fuelBurnKg: 30_000,
+      emission: { eiNoxGPerKg: 10 },
+      month: 1,
+    });
+    expect(r.noxAboveTropopauseKg).toBeGreaterThan(0);
+    expect(r.ozoneLoss.localBudget.ozoneProfile).toBe('tropical');
+    expect(r.ozoneLoss.localBudget.temperatureK).toBeGreaterThan(194);
+    expect(r.ozoneLoss.localBudget.temperatureK).toBeLessThan(200);
+  });
+
+  it('deeper above the tropopause, more loss per kg of NOx (longer residence, more ozone): FL600 against FL500 over 45N', () => {
+    const at = (fl: number) => {
+      const r = screenFlight({
+        route: { waypoints: [{ lat: 45, lon: 0 }, { lat: 45, lon: 20 }] },
+        cruise: { flightLevel: fl },
+        mach: 2,
+        fuelBurnKg: 30_000,
+        emission: { eiNoxGPerKg: 10 },
+        month: 4,
+      });
+      return r.ozoneLoss.centralKg / r.noxAboveTropopauseKg;
+    };
+    expect(at(600)).toBeGreaterThan(at(500));
+  });
+});
