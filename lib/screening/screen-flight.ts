@@ -314,7 +314,7 @@ const SOURCE_J =
   'default: overhead-sun reference, given from memory, scaled by the daytime-mean cos of the solar zenith angle (a screening approximation: J falls more slowly than cos zenith)';
 const SOURCE_INPUT = 'given with the flight';
 const SUN_SOURCE =
-  'Solar declination by Cooper (1969), daily-mean cos zenith and day length from the sunset hour angle, for each segment\'s latitude, averaged over the residence window that starts on the flight date (the whole year without a date)';
+  'Solar declination by Cooper (1969), daily-mean cos zenith and day length from the sunset hour angle, for each segment\'s latitude, averaged over the central residence window that starts on the flight date (the mid-month day with a month, the whole year without either)';
 
 const FORMULA =
   'O3 destroyed = N_NOx x 2 k(NO2+O)(T,[M]) [O] x D x f_NO2 x f_NOx/NOy x tau(latitude, depth); [O] = [O3] s J(O3) / (k(O+O2+M) [O2] [M]); f_NO2 from [NO2]/[NO] = k(NO+O3)[O3] / (s J(NO2) + k(NO2+O)[O]); s the daytime-mean cos zenith and D the sunlit fraction over the residence window; T, [M] and [O3] at the flight level\'s height in the climatological column.';
@@ -349,7 +349,7 @@ function describeAssumptions(
     p === null
       ? 'AFGL profile by latitude band (tropical |lat| < 23.5, mid-latitude 23.5-50, subarctic > 50) and season (summer April-September in the north, October-March in the south; annual mean of summer and winter without a month)'
       : typeof p === 'string'
-        ? `AFGL ${p} profile for every segment (given with the flight)`
+        ? `AFGL ${p} atmosphere (ozone, temperature and density) for the chemistry of every segment (given with the flight); the tropopause stays in the column of each segment's band and season`
         : 'Ozone profile given with the flight (temperature and height from the ISA at each level)';
   const mean = (x: number): number => (sun.nox > 0 ? x / sun.nox : 0);
   const d = mean(sun.dayFraction);
@@ -696,7 +696,6 @@ function walkSegments(ctx: WalkContext, segments: ScreeningSegment[]): Totals {
   };
   const { plan, cp, tp, fixedSlot } = ctx;
   const climatology = tp.source === 'climatology';
-  const columnFixed = fixedSlot >= 0 && fixedSlot !== CUSTOM_PROFILE_SLOT;
   const nSteps = cp.stepFrom.length;
   const R = EARTH_RADIUS_M;
   const RAD = 180 / Math.PI;
@@ -725,7 +724,7 @@ function walkSegments(ctx: WalkContext, segments: ScreeningSegment[]): Totals {
           let tpPa = tp.constPa;
           let tpM = tp.constM;
           if (climatology) {
-            tpPa = columnPressurePa(COLUMNS[columnFixed ? fixedSlot : bandSlot], bthHeightKm(ctx.bthRow, lat));
+            tpPa = columnPressurePa(COLUMNS[bandSlot], bthHeightKm(ctx.bthRow, lat));
           }
           const above = level.isa.pressurePa < tpPa;
           if (climatology && (above || ctx.full)) tpM = isaPressureAltitudeAt(tpPa);
