@@ -48,7 +48,7 @@ export function HeadlineFigures({ result, units, compact = false }: { result: He
       <Stat
         label="Ozone-loss figure"
         value={<span data-testid="ozone-central">{formatMass(r.ozoneLoss.centralKg, units)}</span>}
-        sub={`O3, range ${formatMassRange(r.ozoneLoss.lowKg, r.ozoneLoss.highKg, units)}; gross catalytic loss`}
+        sub={`O3, screening range ${formatMassRange(r.ozoneLoss.lowKg, r.ozoneLoss.highKg, units)} (every input low, then high, together: not a confidence interval); gross catalytic loss`}
         tone="strato"
       />
       <Stat
