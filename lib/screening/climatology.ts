@@ -64,6 +64,17 @@ const BTH_ANNUAL_KM: Float64Array = (() => {
  */
 export function bthRowForDay(dayOfYear: number | null): Float64Array {
   if (dayOfYear === null) return BTH_ANNUAL_KM;
+  const hit = ROW_CACHE.get(dayOfYear);
+  if (hit !== undefined) return hit;
+  const row = interpolateRow(dayOfYear);
+  // Flight dates give whole days and months half days: a few hundred keys at most.
+  if (ROW_CACHE.size < 1000) ROW_CACHE.set(dayOfYear, row);
+  return row;
+}
+
+const ROW_CACHE = new Map<number, Float64Array>();
+
+function interpolateRow(dayOfYear: number): Float64Array {
   const first = BTH_DAYS[0];
   const last = BTH_DAYS[BTH_DAYS.length - 1];
   let d = dayOfYear;
