@@ -199,7 +199,15 @@ function band(v: number | Band | undefined, d: Band): Band {
   return v;
 }
 
-/** Merges validated overrides into the defaults. Returns the shared default object when none. */
+function sameNodes(a: readonly number[], b: readonly number[]): boolean {
+  return a.length === b.length && a.every((x, i) => x === b[i]);
+}
+
+/**
+ * Merges validated overrides into the defaults. A residence-time override without `tropicalYears`
+ * keeps the default tropical table when it uses the default depth nodes, else applies everywhere.
+ * Returns the shared default object when none.
+ */
 export function resolveOzoneInputs(a: Assumptions | undefined): OzoneInputs {
   if (a === undefined) return DEFAULT_OZONE_INPUTS;
   const d = DEFAULT_OZONE_INPUTS;
@@ -215,7 +223,7 @@ export function resolveOzoneInputs(a: Assumptions | undefined): OzoneInputs {
         : {
             depthKm: rt.depthKm,
             years: rt.years,
-            tropicalYears: rt.tropicalYears ?? null,
+            tropicalYears: rt.tropicalYears ?? (sameNodes(rt.depthKm, d.residenceTime.depthKm) ? d.residenceTime.tropicalYears : null),
             lowFactor: rt.lowFactor ?? d.residenceTime.lowFactor,
             highFactor: rt.highFactor ?? d.residenceTime.highFactor,
           },

@@ -439,6 +439,8 @@ const B = OVERRIDE_BOUNDS;
 /**
  * Residence time above the tropopause by depth: nodes in km (first 0) and years for the
  * extratropics, optionally `tropicalYears` for |lat| up to 20 degrees (linear to 30), with band factors.
+ * Without `tropicalYears` the default tropical table stays when the depths are the default nodes
+ * (0, 1, 2, 4, 6, 9 km); with other depths the given years apply at every latitude.
  */
 export const residenceTimeSchema = z
   .strictObject({

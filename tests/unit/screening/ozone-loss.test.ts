@@ -10,6 +10,7 @@ import {
   fleetOzoneColumnContext,
   lossPerNoxYear,
   oddOxygenBudget,
+  resolveOzoneInputs,
   ozoneLossCoefficients,
   ozonePpmv,
   profileSlotFor,
@@ -183,6 +184,16 @@ describe('residence time by latitude (tropical upwelling vs extratropical flushi
     expect(residenceTimeYears(1, rt, -30)).toBeCloseTo(0.25, 12);
     expect(residenceTimeYears(1, rt, 25)).toBeCloseTo((1.5 + 0.25) / 2, 12);
     expect(residenceTimeYears(1, rt, -25)).toBeCloseTo(residenceTimeYears(1, rt, 25), 12);
+  });
+
+  it('an override of the extratropical years on the default depth nodes keeps the tropical table; on other nodes it applies everywhere, and tropicalYears sets the tropics', () => {
+    const same = resolveOzoneInputs({ residenceTime: { depthKm: [0, 1, 2, 4, 6, 9], years: [0.2, 0.3, 0.6, 1, 1.5, 2] } }).residenceTime;
+    expect(residenceTimeYears(0, same, 0)).toBeCloseTo(1.0, 12);
+    expect(residenceTimeYears(0, same, 60)).toBeCloseTo(0.2, 12);
+    const other = resolveOzoneInputs({ residenceTime: { depthKm: [0, 5], years: [0.2, 1] } }).residenceTime;
+    expect(residenceTimeYears(0, other, 0)).toBeCloseTo(0.2, 12);
+    const given = resolveOzoneInputs({ residenceTime: { depthKm: [0, 5], years: [0.2, 1], tropicalYears: [2, 3] } }).residenceTime;
+    expect(residenceTimeYears(0, given, 0)).toBeCloseTo(2, 12);
   });
 
   it('stays within the physical bound of about 5 years (mean age of stratospheric air, Waugh & Hall 2002)', () => {
