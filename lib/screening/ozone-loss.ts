@@ -339,7 +339,7 @@ export interface OddOxygenBudget {
   temperatureK: number;
   airDensityCm3: number;
   o3Cm3: number;
-  /** Noon atomic oxygen from the photostationary relation. */
+  /** Daytime atomic oxygen from the photostationary relation. */
   oCm3: number;
   ohCm3: number;
   ho2Cm3: number;
@@ -356,7 +356,7 @@ export interface OddOxygenBudget {
 
 /**
  * Local odd-oxygen loss budget at the injection level: the added NOx cycle (per 1 ppbv of NOx)
- * beside the background Chapman (O + O3) and HOx (OH + O3, HO2 + O, HO2 + O3) losses, with noon
+ * beside the background Chapman (O + O3) and HOx (OH + O3, HO2 + O, HO2 + O3) losses, with daytime
  * photolysis (central J), rate constants JPL 19-5. Densities molecule cm^-3, rates cm^-3 s^-1.
  */
 export function oddOxygenBudget(args: {

@@ -464,7 +464,8 @@ export const residenceTimeSchema = z
 
 /**
  * Overrides of the ozone-figure and emission-index inputs; anything left out
- * keeps its documented default. J values in s^-1 at noon, densities in molecule cm^-3.
+ * keeps its documented default. J values in s^-1 with the sun overhead (the names keep the word noon),
+ * densities in molecule cm^-3.
  */
 export const assumptionsSchema = z.strictObject({
   jO3NoonPerS: rangeSchema('J(O3 -> O)', B.minJO3PerS, B.maxJO3PerS, 's^-1').optional(),

@@ -255,6 +255,7 @@ describe('fleet-scale column context (Eastham et al. 2022; Zhang et al. 2023)', 
   it('reproduces Eastham et al. 2022 at its own point: 170 Gg NOx/yr at 15-17 km -> -0.046 % column, +/-50 %', () => {
     const [eastham, zhang] = fleetOzoneColumnContext([{ geometricAltitudeKm: 16, noxKgPerYear: 170e6 }]);
     expect(eastham.applicable).toBe(true);
+    expect(eastham.citation).toMatch(/all of the fleet's emissions.*not NOx alone/);
     expect(eastham.columnChangePct!.central).toBeCloseTo(-0.046, 9);
     expect(eastham.columnChangePct!.low).toBeCloseTo(-0.023, 9);
     expect(eastham.columnChangePct!.high).toBeCloseTo(-0.069, 9);
