@@ -480,6 +480,15 @@ export const assumptionsSchema = z.strictObject({
     .optional(),
 });
 
+/** Monte Carlo sampling of a screening: 50..5000 samples (default 400) and a seed 0..4 294 967 295 (default 1). */
+export const uncertaintyOptionsSchema = z.strictObject(
+  {
+    samples: wholeBetween('The number of samples', 50, 5000, '').optional(),
+    seed: wholeBetween('The seed', 0, 4_294_967_295, '').optional(),
+  },
+  { error: 'The uncertainty options must be { samples?, seed? }.' },
+);
+
 function isRealDate(s: string): boolean {
   const y = Number(s.slice(0, 4));
   const m = Number(s.slice(5, 7));
@@ -516,6 +525,7 @@ export const screeningInputSchema = z.object({
     .optional(),
   tropopause: tropopauseOverrideSchema.optional(),
   assumptions: assumptionsSchema.optional(),
+  uncertainty: uncertaintyOptionsSchema.optional(),
 }, { error: 'The screening input must be an object.' });
 
 /** A validated screening input (the schema's output). */
