@@ -573,3 +573,12 @@ export const compareCruiseLevelsOptionsSchema = z.strictObject({
 });
 /** `compareCruiseLevels` options as a client sends them. */
 export type CompareCruiseLevelsOptions = z.input<typeof compareCruiseLevelsOptionsSchema>;
+
+/** `months` in a preview body: true adds the month sweep (the flight screened in each month 1-12). */
+export const previewMonthsSchema = z.boolean({ error: 'months must be true or false.' });
+
+/** The preview body as documented: the screening input plus `months` (and the service's name, aircraft, whatIf). */
+export const screeningPreviewBodySchema = screeningInputSchema.extend({
+  months: previewMonthsSchema.optional(),
+  whatIf: compareCruiseLevelsOptionsSchema.optional(),
+});
