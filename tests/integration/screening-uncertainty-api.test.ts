@@ -2,6 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { apiRequest, call, makeWorkspace, sessionCookie, useTestDatabase } from '../support/test-db';
 import * as previewRoute from '@/app/api/v1/workspaces/[slug]/screenings/preview/route';
 import * as openapiRoute from '@/app/api/v1/openapi.json/route';
+import * as screeningsRoute from '@/app/api/v1/workspaces/[slug]/screenings/route';
+import * as exportRoute from '@/app/api/v1/workspaces/[slug]/screenings/[id]/export/route';
 
 useTestDatabase();
 
@@ -61,5 +63,40 @@ describe('preview with uncertainty and the month sweep', () => {
     );
     const props = r.body.paths['/workspaces/{slug}/screenings/preview'].post!.requestBody.content['application/json'].schema.properties;
     expect(Object.keys(props)).toEqual(expect.arrayContaining(['uncertainty', 'months', 'whatIf']));
+  });
+});
+
+type ExportGet = (req: Request, ctx: { params: Promise<{ slug: string; id: string }> }) => Promise<Response>;
+
+describe('exports carry the percentiles', () => {
+  it('CSV and JSON of a saved screening include p5/p50/p95, the ones it was saved with when it was sampled', async () => {
+    const ws = await makeWorkspace();
+    const cookie = await sessionCookie(ws.owner.id);
+    const saved = await call<{ id: number; result: { uncertainty?: { seed: number; ozoneLossKg: P } } }>(
+      screeningsRoute.POST,
+      apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings`, { cookie, body: { ...FLIGHT, name: 'Sampled', uncertainty: { samples: 100, seed: 5 } } }),
+      { slug: ws.slug },
+    );
+    expect(saved.status).toBe(201);
+    expect(saved.body.result.uncertainty?.seed).toBe(5);
+    const get = (q: string) =>
+      (exportRoute.GET as unknown as ExportGet)(apiRequest('GET', `/api/v1/workspaces/${ws.slug}/screenings/${saved.body.id}/export${q}`, { cookie }), {
+        params: Promise.resolve({ slug: ws.slug, id: String(saved.body.id) }),
+      });
+    const json = (await (await get('?format=json')).json()) as { result: { uncertainty: { seed: number; ozoneLossKg: P } } };
+    expect(json.result.uncertainty.ozoneLossKg).toEqual(saved.body.result.uncertainty?.ozoneLossKg);
+    const csv = await (await get('?format=csv')).text();
+    expect(csv).toContain('Percentiles from,"100 samples, seed 5"');
+    expect(csv).toMatch(/Ozone-loss figure \(kg O3\) 95th percentile,\d/);
+    expect(csv).toMatch(/NOx above the tropopause \(kg NO2\) 5th percentile,\d/);
+
+    // Saved without sampling: the export samples it now with the defaults (400 samples, seed 1).
+    const plain = await call<{ id: number }>(screeningsRoute.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings`, { cookie, body: { ...FLIGHT, name: 'Plain' } }), { slug: ws.slug });
+    const csv2 = await (
+      await (exportRoute.GET as unknown as ExportGet)(apiRequest('GET', `/api/v1/workspaces/${ws.slug}/screenings/${plain.body.id}/export`, { cookie }), {
+        params: Promise.resolve({ slug: ws.slug, id: String(plain.body.id) }),
+      })
+    ).text();
+    expect(csv2).toContain('Percentiles from,"400 samples, seed 1"');
   });
 });
