@@ -76,6 +76,7 @@ export {
 } from './compare-levels';
 export {
   sampleUncertainty,
+  sampleFigures,
   centralFigures,
   UNCERTAIN_INPUTS,
   BAND_INPUTS,

@@ -302,25 +302,57 @@ function levelRatios(k: Kernel, d: Draw, out: Float64Array): void {
   }
 }
 
-function evaluate(k: Kernel, d: Draw, ratios: Float64Array, out: Figures): void {
+/** O3 molecules destroyed by `nox` kg at segment i for one set of J, NOx/NOy and residence factor. */
+function lossMolecules(k: Kernel, i: number, nox: number, tau: number, s: number, day: number, d: Draw): number {
+  const bk = k.b[i];
+  const den = d.jNo2 + bk * d.jO3;
+  if (!(den > 0) || !(s > 0)) return 0;
+  const r0 = k.a[i] / den;
+  const big = 2 * bk * d.jO3 * r0 * d.noy * SECONDS_PER_YEAR * d.tauFactor;
+  return noxMolecules(nox) * tau * ((big * s * day) / (s + r0));
+}
+
+function clear(f: Figures): void {
+  f.noxAbove = 0;
+  f.noxTotal = 0;
+  f.o3Molecules = 0;
+}
+
+/**
+ * One sample in one pass over the segments: `full` with every draw in `d`; with `tp`, the same
+ * tropopause shift with every other input central (sharing the shifted residence and sunlight);
+ * with `sun`, only the J values and a given daylight factor of `d`, at the central tropopause.
+ */
+function evaluate(k: Kernel, d: Draw, ratios: Float64Array, full: Figures, tp: Figures | null = null, sun: Figures | null = null): void {
   levelRatios(k, d, ratios);
   const shifted = d.shiftM !== 0;
   const rt = k.inputs.residenceTime;
-  let noxAbove = 0;
-  let noxTotal = 0;
-  let o3 = 0;
+  const c = k.central;
+  const sunDraw: Draw | null = sun === null ? null : { ...c, jO3: d.jO3, jNo2: d.jNo2, daylight: d.daylight };
+  clear(full);
+  if (tp !== null) clear(tp);
+  if (sun !== null) clear(sun);
   for (let i = 0; i < k.n; i++) {
-    const nox = k.nox[i] * ratios[k.level[i]];
-    noxTotal += nox;
-    const tp = shifted ? k.tpM[i] + d.shiftM * k.slope[i] : k.tpM[i];
-    if (!(k.altM[i] > tp)) continue;
-    noxAbove += nox;
+    const nox0 = k.nox[i];
+    const nox = nox0 * ratios[k.level[i]];
+    full.noxTotal += nox;
+    if (tp !== null) tp.noxTotal += nox0;
+    if (sun !== null && sunDraw !== null) {
+      sun.noxTotal += nox0;
+      if (k.tau0[i] > 0) {
+        sun.noxAbove += nox0;
+        const day = Number.isNaN(d.daylight) ? k.day0[i] : d.daylight;
+        sun.o3Molecules += lossMolecules(k, i, nox0, k.tau0[i], k.cos0[i], day, sunDraw);
+      }
+    }
+    const tpM = shifted ? k.tpM[i] + d.shiftM * k.slope[i] : k.tpM[i];
+    if (!(k.altM[i] > tpM)) continue;
     let tau: number;
     let s: number;
     let day: number;
     if (shifted || k.tau0[i] === 0) {
       const lat = k.lat[i];
-      tau = residenceTimeYears((k.altM[i] - tp) / 1000, rt, lat);
+      tau = residenceTimeYears((k.altM[i] - tpM) / 1000, rt, lat);
       windowSunlight(lat, k.doy, tau, SCRATCH_SUN);
       s = SCRATCH_SUN.daytimeCosZenith;
       day = SCRATCH_SUN.dayFraction;
@@ -329,17 +361,13 @@ function evaluate(k: Kernel, d: Draw, ratios: Float64Array, out: Figures): void 
       s = k.cos0[i];
       day = k.day0[i];
     }
-    if (!Number.isNaN(d.daylight)) day = d.daylight;
-    const bk = k.b[i];
-    const den = d.jNo2 + bk * d.jO3;
-    if (!(den > 0) || !(s > 0)) continue;
-    const r0 = k.a[i] / den;
-    const big = 2 * bk * d.jO3 * r0 * d.noy * SECONDS_PER_YEAR * d.tauFactor;
-    o3 += noxMolecules(nox) * tau * ((big * s * day) / (s + r0));
+    full.noxAbove += nox;
+    full.o3Molecules += lossMolecules(k, i, nox, tau, s, Number.isNaN(d.daylight) ? day : d.daylight, d);
+    if (tp !== null) {
+      tp.noxAbove += nox0;
+      tp.o3Molecules += lossMolecules(k, i, nox0, tau, s, Number.isNaN(c.daylight) ? day : c.daylight, c);
+    }
   }
-  out.noxAbove = noxAbove;
-  out.noxTotal = noxTotal;
-  out.o3Molecules = o3;
 }
 
 function foldedNormal(u: Uniform): number {
@@ -418,18 +446,88 @@ interface Runs {
   o3: Float64Array;
 }
 
-function run(k: Kernel, samples: number, seed: number, on: ReadonlySet<UncertainInput>): Runs {
-  const streams = UNCERTAIN_INPUTS.map((_, g) => mulberry32(subSeed(seed, g)));
-  const ratios = new Float64Array(k.eiUsed.length);
-  const fig: Figures = { noxAbove: 0, noxTotal: 0, o3Molecules: 0 };
-  const out: Runs = { noxAbove: new Float64Array(samples), fraction: new Float64Array(samples), o3: new Float64Array(samples) };
-  for (let i = 0; i < samples; i++) {
-    evaluate(k, drawAll(k, streams, on), ratios, fig);
-    out.noxAbove[i] = fig.noxAbove;
-    out.fraction[i] = fig.noxTotal > 0 ? Math.min(1, fig.noxAbove / fig.noxTotal) : 0;
-    out.o3[i] = ozoneKg(fig.o3Molecules);
+function runs(samples: number): Runs {
+  return { noxAbove: new Float64Array(samples), fraction: new Float64Array(samples), o3: new Float64Array(samples) };
+}
+
+function store(r: Runs, i: number, noxAbove: number, noxTotal: number, o3Molecules: number): void {
+  r.noxAbove[i] = noxAbove;
+  r.fraction[i] = noxTotal > 0 ? Math.min(1, noxAbove / noxTotal) : 0;
+  r.o3[i] = ozoneKg(o3Molecules);
+}
+
+/** The central figures by cruise level: NOx above, NOx total and O3 molecules, for the linear one-at-a-time runs. */
+function centralByLevel(k: Kernel): { above: Float64Array; total: Float64Array; o3: Float64Array } {
+  const nl = k.eiUsed.length;
+  const out = { above: new Float64Array(nl), total: new Float64Array(nl), o3: new Float64Array(nl) };
+  const c = k.central;
+  for (let i = 0; i < k.n; i++) {
+    const l = k.level[i];
+    out.total[l] += k.nox[i];
+    if (k.tau0[i] > 0) {
+      out.above[l] += k.nox[i];
+      out.o3[l] += lossMolecules(k, i, k.nox[i], k.tau0[i], k.cos0[i], Number.isNaN(c.daylight) ? k.day0[i] : c.daylight, c);
+    }
   }
   return out;
+}
+
+/**
+ * All samples, and with `drivers` the one-at-a-time runs on the same draws: the tropopause and the
+ * sunlight runs share the pass of the full sample; the EI, residence-time and NOx/NOy runs are exact
+ * linear rescalings of the central figures (NOx per level scales with its EI; the loss is
+ * proportional to the residence factor and to the NOx/NOy share).
+ */
+function run(k: Kernel, samples: number, seed: number, on: ReadonlySet<UncertainInput>, drivers: boolean): { all: Runs; oat: Map<UncertainInput, Runs> } {
+  const streams = UNCERTAIN_INPUTS.map((_, g) => mulberry32(subSeed(seed, g)));
+  const ratios = new Float64Array(k.eiUsed.length);
+  const eiRatios = new Float64Array(k.eiUsed.length);
+  const full: Figures = { noxAbove: 0, noxTotal: 0, o3Molecules: 0 };
+  const tpFig: Figures = { noxAbove: 0, noxTotal: 0, o3Molecules: 0 };
+  const sunFig: Figures = { noxAbove: 0, noxTotal: 0, o3Molecules: 0 };
+  const all = runs(samples);
+  const oat = new Map<UncertainInput, Runs>();
+  if (drivers) for (const g of UNCERTAIN_INPUTS) if (on.has(g)) oat.set(g, runs(samples));
+  const byLevel = drivers ? centralByLevel(k) : null;
+  let cAbove = 0;
+  let cTotal = 0;
+  let cO3 = 0;
+  if (byLevel !== null) {
+    for (let l = 0; l < byLevel.above.length; l++) {
+      cAbove += byLevel.above[l];
+      cTotal += byLevel.total[l];
+      cO3 += byLevel.o3[l];
+    }
+  }
+  const tpRuns = oat.get('tropopause') ?? null;
+  const sunRuns = oat.get('sunlight') ?? null;
+  const c = k.central;
+  for (let i = 0; i < samples; i++) {
+    const d = drawAll(k, streams, on);
+    evaluate(k, d, ratios, full, tpRuns === null ? null : tpFig, sunRuns === null ? null : sunFig);
+    store(all, i, full.noxAbove, full.noxTotal, full.o3Molecules);
+    if (tpRuns !== null) store(tpRuns, i, tpFig.noxAbove, tpFig.noxTotal, tpFig.o3Molecules);
+    if (sunRuns !== null) store(sunRuns, i, sunFig.noxAbove, sunFig.noxTotal, sunFig.o3Molecules);
+    if (byLevel === null) continue;
+    const eiRuns = oat.get('cruise-ei');
+    if (eiRuns !== undefined) {
+      levelRatios(k, { ...c, eiU: d.eiU, eiZ: d.eiZ }, eiRatios);
+      let a = 0;
+      let t = 0;
+      let o = 0;
+      for (let l = 0; l < eiRatios.length; l++) {
+        a += byLevel.above[l] * eiRatios[l];
+        t += byLevel.total[l] * eiRatios[l];
+        o += byLevel.o3[l] * eiRatios[l];
+      }
+      store(eiRuns, i, a, t, o);
+    }
+    const rtRuns = oat.get('residence-time');
+    if (rtRuns !== undefined) store(rtRuns, i, cAbove, cTotal, cO3 * d.tauFactor);
+    const noyRuns = oat.get('nox-noy');
+    if (noyRuns !== undefined) store(noyRuns, i, cAbove, cTotal, c.noy > 0 ? (cO3 * d.noy) / c.noy : 0);
+  }
+  return { all, oat };
 }
 
 function distributions(k: Kernel, result: ScreeningResult, on: ReadonlySet<UncertainInput>): SampledDistribution[] {
@@ -498,7 +596,7 @@ export function sampleUncertainty(input: ScreeningInput, result: ScreeningResult
   const seed = options.seed ?? input.uncertainty?.seed ?? DEFAULT_UNCERTAINTY_SEED;
   const on = new Set<UncertainInput>(options.only ?? UNCERTAIN_INPUTS);
   const k = buildKernel(input, result);
-  const all = run(k, samples, seed, on);
+  const { all, oat } = run(k, samples, seed, on, options.drivers !== false);
   const ozone = percentiles(all.o3);
   const outside: ScreeningUncertainty['outsideScreeningRange'] = [];
   const lo = result.ozoneLoss.lowKg;
@@ -508,14 +606,10 @@ export function sampleUncertainty(input: ScreeningInput, result: ScreeningResult
   const noxShares = new Map<UncertainInput, number>();
   const fracShares = new Map<UncertainInput, number>();
   const o3Shares = new Map<UncertainInput, number>();
-  if (options.drivers !== false) {
-    for (const g of UNCERTAIN_INPUTS) {
-      if (!on.has(g)) continue;
-      const r = run(k, samples, seed, new Set([g]));
-      noxShares.set(g, variance(r.noxAbove));
-      fracShares.set(g, variance(r.fraction));
-      o3Shares.set(g, variance(r.o3));
-    }
+  for (const [g, r] of oat) {
+    noxShares.set(g, variance(r.noxAbove));
+    fracShares.set(g, variance(r.fraction));
+    o3Shares.set(g, variance(r.o3));
   }
   return {
     samples,
@@ -547,4 +641,16 @@ export function centralFigures(input: ScreeningInput, result: ScreeningResult): 
   const fig: Figures = { noxAbove: 0, noxTotal: 0, o3Molecules: 0 };
   evaluate(k, k.central, new Float64Array(k.eiUsed.length), fig);
   return { noxAboveTropopauseKg: fig.noxAbove, ozoneLossKg: ozoneKg(fig.o3Molecules) };
+}
+
+/** The raw samples behind `sampleUncertainty` (no drivers): NOx above (kg), share above and the ozone figure (kg), one entry a sample. */
+export function sampleFigures(
+  input: ScreeningInput,
+  result: ScreeningResult,
+  options: Omit<SampleOptions, 'drivers'> = {},
+): { noxAboveTropopauseKg: Float64Array; fractionAboveTropopause: Float64Array; ozoneLossKg: Float64Array } {
+  const samples = options.samples ?? input.uncertainty?.samples ?? DEFAULT_UNCERTAINTY_SAMPLES;
+  const seed = options.seed ?? input.uncertainty?.seed ?? DEFAULT_UNCERTAINTY_SEED;
+  const { all } = run(buildKernel(input, result), samples, seed, new Set<UncertainInput>(options.only ?? UNCERTAIN_INPUTS), false);
+  return { noxAboveTropopauseKg: all.noxAbove, fractionAboveTropopause: all.fraction, ozoneLossKg: all.o3 };
 }

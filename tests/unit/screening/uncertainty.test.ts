@@ -4,8 +4,10 @@ import {
   BAND_INPUTS,
   ScreeningInputError,
   centralFigures,
+  sampleFigures,
   sampleUncertainty,
   screenFlight,
+  UNCERTAIN_INPUTS,
   screenValidated,
   validateScreeningInput,
   type ScreeningResult,
@@ -160,6 +162,33 @@ describe('uncertainty sampling: one flight', () => {
     expect(d.noxAboveTropopauseKg.find((x) => x.input === 'cruise-ei')?.share).toBeGreaterThan(0);
     expect(d.noxAboveTropopauseKg.find((x) => x.input === 'nox-noy')?.share).toBe(0);
     expect(d.method).toMatch(/One-at-a-time/);
+  });
+
+  it('drivers equal a brute-force one-at-a-time run of each input on the same draws (the shortcuts are exact)', () => {
+    const variance = (xs: Float64Array) => {
+      const m = xs.reduce((t, x) => t + x, 0) / xs.length;
+      return xs.reduce((t, x) => t + (x - m) ** 2, 0) / (xs.length - 1);
+    };
+    for (const raw of [transatlantic, { ...transatlantic, emission: { eiNoxGPerKg: 14 }, month: 7 }, { ...transatlantic, cruise: { flightLevel: 410 } }]) {
+      const s = screened(raw);
+      if (s === null) throw new Error('reference flight must screen');
+      const u = sampleUncertainty(s.input, s.result, { samples: 150, seed: 11 });
+      for (const [key, figure] of [
+        ['noxAboveTropopauseKg', 'noxAboveTropopauseKg'],
+        ['fractionAboveTropopause', 'fractionAboveTropopause'],
+        ['ozoneLossKg', 'ozoneLossKg'],
+      ] as const) {
+        const v = UNCERTAIN_INPUTS.map((g) => {
+          const x = variance(sampleFigures(s.input, s.result, { samples: 150, seed: 11, only: [g] })[figure]);
+          return x < 1e-20 * Math.max(1, s.result.noxAboveTropopauseKg ** 2) ? 0 : x;
+        });
+        const total = v.reduce((t, x) => t + x, 0);
+        for (const [j, g] of UNCERTAIN_INPUTS.entries()) {
+          const share = u.drivers[key].find((d) => d.input === g)?.share ?? -1;
+          expect(share).toBeCloseTo(total > 0 ? v[j] / total : 0, 6);
+        }
+      }
+    }
   });
 
   it('samples the tropopause more tightly for a given value than for the climatology', () => {
