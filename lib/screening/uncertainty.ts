@@ -184,7 +184,6 @@ function buildKernel(input: ScreeningInput, result: ScreeningResult): Kernel {
   const n = segs.length;
   const op = inputs.ozoneProfile;
   const fixedSlot = op === null ? -1 : typeof op === 'string' ? OZONE_PROFILE_NAMES.indexOf(op) : CUSTOM_PROFILE_SLOT;
-  const columnFixed = fixedSlot >= 0 && fixedSlot !== CUSTOM_PROFILE_SLOT;
   const levels = result.levels;
   const levelIndex = new Map<number, number>();
   levels.forEach((l, i) => levelIndex.set(l.flightLevel, i));
@@ -251,7 +250,8 @@ function buildKernel(input: ScreeningInput, result: ScreeningResult): Kernel {
     k.tpM[i] = s.tropopauseM;
     k.lat[i] = s.lat;
     if (s.tropopauseSource === 'climatology') {
-      const col = COLUMNS[columnFixed ? fixedSlot : bandSlot];
+      // The derivative only: taken in the segment's band-and-season column whatever the ozone profile.
+      const col = COLUMNS[bandSlot];
       const h = columnAtPressure(col, s.tropopausePressureHpa * 100).heightKm;
       k.slope[i] = (isaPressureAltitudeAt(columnPressurePa(col, h + 0.1)) - isaPressureAltitudeAt(columnPressurePa(col, h - 0.1))) / 200;
     } else {
