@@ -43,7 +43,7 @@ export function UncertaintyDriversChart({ drivers, compact = false }: { drivers:
           The {lead.label.toLowerCase()} explains {formatPercent(lead.share)} of the spread of NOx above the tropopause.
         </p>
       ) : null}
-      <div className={compact ? 'grid gap-4' : 'grid gap-6 md:grid-cols-3'}>
+      <div className={compact ? 'grid gap-4' : 'grid gap-6 lg:grid-cols-3'}>
         {(compact ? FIGURES.filter((f) => f.key !== 'fractionAboveTropopause') : FIGURES).map((f) => (
           <Bars key={f.key} title={f.title} drivers={drivers[f.key]} />
         ))}

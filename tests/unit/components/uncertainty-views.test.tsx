@@ -4,7 +4,8 @@ import { cleanup, render, screen, within } from '@testing-library/react';
 import { MonthStrip } from '@/components/screening/month-strip';
 import { UncertaintyDriversChart } from '@/components/screening/uncertainty-drivers';
 import { HeadlineFigures } from '@/components/screening/headline-figures';
-import { screenAcrossMonths, screenFlight } from '@/lib/screening';
+import { ScreeningPreview } from '@/components/screening/screening-preview';
+import { SAME_EVERY_MONTH_NOTE, screenAcrossMonths, screenFlight } from '@/lib/screening';
 
 afterEach(cleanup);
 
@@ -43,5 +44,29 @@ describe('uncertainty and season views', () => {
     render(<HeadlineFigures result={r} units="metric" bands={r.uncertainty} />);
     expect(screen.getAllByTestId('band-5-95').length).toBe(2);
     expect(screen.getByText(/screening range/)).toBeTruthy();
+  });
+
+  it('screen page preview: the 5-95 % band, the drivers and the month strip from the preview answer', () => {
+    const result = screenFlight({ ...FLIGHT, tropopause: { altitudeM: 10_400 }, uncertainty: { samples: 100 } });
+    const rows = screenAcrossMonths({ ...FLIGHT, tropopause: { altitudeM: 10_400 } });
+    render(
+      <ScreeningPreview
+        units="metric"
+        data={{ input: FLIGHT, aircraft: null, result, levels: [], months: { rows, sameEveryMonth: true, note: SAME_EVERY_MONTH_NOTE } }}
+        waitingFor={[]}
+        fetching={false}
+        stale={false}
+        error={null}
+        limit="2"
+        limitError={null}
+        limitPct={2}
+        ratePct={1}
+        onLimitChange={() => undefined}
+      />,
+    );
+    expect(screen.getAllByTestId('band-5-95').length).toBeGreaterThan(0);
+    expect(screen.getByTestId('drivers-chart')).toBeTruthy();
+    expect(within(screen.getByTestId('month-strip')).getAllByRole('listitem')).toHaveLength(12);
+    expect(screen.getByText(/does not change with the month/)).toBeTruthy();
   });
 });

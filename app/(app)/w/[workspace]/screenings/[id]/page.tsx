@@ -176,7 +176,7 @@ async function SpreadAndSeason({ input, result, units }: { input: ScreeningInput
   const u = uncertaintyFor(input, result);
   const months = monthsFor(input);
   return (
-    <div className="grid gap-6 xl:grid-cols-2">
+    <div className="space-y-6">
       <Card title="What moves these figures">
         {u ? (
           <>
