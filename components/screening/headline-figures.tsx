@@ -1,4 +1,4 @@
-import type { ScreeningResult } from '@/lib/screening';
+import type { ScreeningResult, ScreeningUncertainty } from '@/lib/screening';
 import type { UnitSystem } from '@/lib/validation/screen-form';
 import { Stat } from '@/components/ui/card';
 import { formatAltitude, formatDistance, formatMass, formatMassRange, formatNumber, formatPercent } from '@/lib/format';
@@ -23,9 +23,14 @@ export type HeadlineResult = Pick<
   | 'eiComparison'
 > & { ozoneLoss: Pick<ScreeningResult['ozoneLoss'], 'centralKg' | 'lowKg' | 'highKg'> };
 
-/** The headline figures of one screening, in the user's units. */
-export function HeadlineFigures({ result, units, compact = false }: { result: HeadlineResult; units: UnitSystem; compact?: boolean }) {
+/** Percentiles shown as the headline band when the screening was sampled. */
+export type HeadlineBands = Pick<ScreeningUncertainty, 'noxAboveTropopauseKg' | 'fractionAboveTropopause' | 'ozoneLossKg' | 'samples'>;
+
+/** The headline figures of one screening, in the user's units; with `bands` the 5-95 % band leads and the all-corners band is the screening range. */
+export function HeadlineFigures({ result, units, compact = false, bands }: { result: HeadlineResult; units: UnitSystem; compact?: boolean; bands?: HeadlineBands | null }) {
   const r = result;
+  const b = bands ?? null;
+  const band = (lo: number, hi: number) => <span data-testid="band-5-95">5–95 %: {formatMassRange(lo, hi, units)}</span>;
   const grid = compact ? 'grid gap-3 sm:grid-cols-2 xl:grid-cols-3' : 'grid gap-3 sm:grid-cols-2 lg:grid-cols-4';
   return (
     <div className={grid} data-testid="headline-figures">
@@ -35,10 +40,18 @@ export function HeadlineFigures({ result, units, compact = false }: { result: He
       <Stat
         label="NOx above tropopause"
         value={<span data-testid="nox-above">{formatMass(r.noxAboveTropopauseKg, units)}</span>}
-        sub={`as NO2 · ${formatMass(r.noxAboveTropopauseKgN, units)} as N`}
+        sub={
+          b ? (
+            <>
+              {band(b.noxAboveTropopauseKg.p5, b.noxAboveTropopauseKg.p95)} · as NO2
+            </>
+          ) : (
+            `as NO2 · ${formatMass(r.noxAboveTropopauseKgN, units)} as N`
+          )
+        }
         tone="strato"
       />
-      <Stat label="Share above" value={<span data-testid="share-above">{formatPercent(r.fractionAboveTropopause, 1)}</span>} sub="of the flight's NOx mass" tone="strato" />
+      <Stat label="Share above" value={<span data-testid="share-above">{formatPercent(r.fractionAboveTropopause, 1)}</span>} sub={b ? `5–95 %: ${formatPercent(b.fractionAboveTropopause.p5, 1)} – ${formatPercent(b.fractionAboveTropopause.p95, 1)}` : "of the flight's NOx mass"} tone="strato" />
       <Stat
         label="Mean depth above"
         value={r.noxAboveTropopauseKg > 0 ? formatAltitude(r.meanDepthAboveTropopauseKm * 1000, units) : '–'}
@@ -48,7 +61,15 @@ export function HeadlineFigures({ result, units, compact = false }: { result: He
       <Stat
         label="Ozone-loss figure"
         value={<span data-testid="ozone-central">{formatMass(r.ozoneLoss.centralKg, units)}</span>}
-        sub={`O3, screening range ${formatMassRange(r.ozoneLoss.lowKg, r.ozoneLoss.highKg, units)} (every input low, then high, together: not a confidence interval); gross catalytic loss`}
+        sub={
+          b ? (
+            <>
+              {band(b.ozoneLossKg.p5, b.ozoneLossKg.p95)}; screening range {formatMassRange(r.ozoneLoss.lowKg, r.ozoneLoss.highKg, units)} (every input low, then high, together); gross catalytic loss
+            </>
+          ) : (
+            `O3, screening range ${formatMassRange(r.ozoneLoss.lowKg, r.ozoneLoss.highKg, units)} (every input low, then high, together: not a confidence interval); gross catalytic loss`
+          )
+        }
         tone="strato"
       />
       <Stat

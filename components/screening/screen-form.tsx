@@ -26,6 +26,9 @@ import { formatAltitude, formatNumber } from '@/lib/format';
 import { AirportCombobox } from './airport-combobox';
 import { AssumptionFields } from './assumption-fields';
 import { ScreeningPreview, type PreviewResponse } from './screening-preview';
+
+/** The preview samples like a saved screening's default (400 samples, seed 1) so the two agree. */
+const PREVIEW_UNCERTAINTY = { samples: 400, seed: 1 };
 import { useDebouncedValue } from './use-debounced-value';
 
 export interface AircraftChoice {
@@ -191,7 +194,14 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
   const limitError = limit.trim() === '' || !Number.isFinite(limitNumber) || limitNumber < 0 || limitNumber > 50 ? 'Give a limit between 0 and 50 %.' : null;
   const [minimise, setMinimise] = useState<MinimiseCriterion>('ozone-figure');
   const payload =
-    problems.length === 0 ? JSON.stringify({ ...previewBody, whatIf: limitError ? { minimise } : { maxFuelPenaltyPct: limitNumber, minimise } }) : null;
+    problems.length === 0
+      ? JSON.stringify({
+          ...previewBody,
+          whatIf: limitError ? { minimise } : { maxFuelPenaltyPct: limitNumber, minimise },
+          uncertainty: PREVIEW_UNCERTAINTY,
+          months: true,
+        })
+      : null;
   const settled = useDebouncedValue(payload, previewDelayMs);
   const preview = useQuery({
     queryKey: ['screening-preview', slug, settled],

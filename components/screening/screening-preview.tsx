@@ -1,6 +1,6 @@
 'use client';
 
-import type { CruiseLevelRow, MinimiseCriterion, ScreeningResult } from '@/lib/screening';
+import type { CruiseLevelRow, MinimiseCriterion, MonthRow, ScreeningResult } from '@/lib/screening';
 import type { UnitSystem } from '@/lib/validation/screen-form';
 import { Card } from '@/components/ui/card';
 import { Field, SelectInput, TextInput } from '@/components/ui/field';
@@ -10,12 +10,15 @@ import { HeadlineFigures } from './headline-figures';
 import { WhatIfTable } from './what-if-table';
 import { ScreeningCautions } from './cautions';
 import { profileSeries } from './profile-series';
+import { UncertaintyDriversChart } from './uncertainty-drivers';
+import { MonthStrip } from './month-strip';
 
 export interface PreviewResponse {
   input: unknown;
   aircraft: string | null;
   result: ScreeningResult;
   levels: CruiseLevelRow[];
+  months?: { rows: MonthRow[]; sameEveryMonth: boolean; note: string | null };
 }
 
 interface Props {
@@ -84,8 +87,20 @@ export function ScreeningPreview({
         ) : null}
         {data ? (
           <div className={`space-y-4 transition-opacity ${fetching || stale || waitingFor.length ? 'opacity-60' : ''}`} data-testid="preview-figures">
-            <HeadlineFigures result={data.result} units={units} compact />
+            <HeadlineFigures result={data.result} units={units} compact bands={data.result.uncertainty} />
             <VerticalProfileChart series={profileSeries(data.result.segments, units)} label="Preview of the cruise altitude and tropopause" height={220} />
+            {data.result.uncertainty ? (
+              <div>
+                <h3 className="mb-2 text-sm font-semibold text-ink">What moves these figures</h3>
+                <UncertaintyDriversChart drivers={data.result.uncertainty.drivers} compact />
+              </div>
+            ) : null}
+            {data.months ? (
+              <div>
+                <h3 className="mb-2 text-sm font-semibold text-ink">Across the year</h3>
+                <MonthStrip rows={data.months.rows} plannedMonth={data.result.month} units={units} note={data.months.note} />
+              </div>
+            ) : null}
             <div>
               <div className="mb-2 flex flex-wrap items-end justify-between gap-3">
                 <h3 className="text-sm font-semibold text-ink">Other cruise levels</h3>

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { screeningInputSchema, soundingLevelSchema, compareCruiseLevelsOptionsSchema } from '@/lib/validation/screening';
+import { screeningInputSchema, screeningPreviewBodySchema, soundingLevelSchema, compareCruiseLevelsOptionsSchema } from '@/lib/validation/screening';
 import { workspaceCreateSchema, apiKeyCreateSchema } from '@/lib/validation/workspaces';
 import { billingEmailSchema, cardChoiceSchema, subscribeSchema, subscriptionUpdateSchema } from '@/lib/validation/billing';
 import { reportCreateSchema, reportSendSchema } from '@/lib/validation/reports';
@@ -76,7 +76,16 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
     get: { summary: 'One saved screening as a download: CSV (headline figures, then one row per segment) or JSON { id, name, createdAt, input, result }', permission: 'flights:read', query: { format: 'csv (default) or json' }, responses: { '200': 'Attachment (text/csv or application/json)' } },
   },
   '/workspaces/{slug}/screenings/preview': {
-    post: { summary: 'Screen without saving (not billed, throttled), with the what-if cruise levels; optional whatIf options', permission: 'screenings:create', requestBody: screeningInputSchema, responses: { '200': '{ input, result, levels }' } },
+    post: {
+      summary:
+        'Screen without saving (not billed, throttled), with the what-if cruise levels; optional whatIf options; uncertainty { samples?, seed? } adds result.uncertainty (p5/p50/p95 of NOx above, share above and the ozone figure, with drivers); months: true adds the month sweep',
+      permission: 'screenings:create',
+      requestBody: screeningPreviewBodySchema,
+      responses: {
+        '200':
+          '{ input, result, levels, months? }; result.uncertainty { samples, seed, noxAboveTropopauseKg, fractionAboveTropopause, ozoneLossKg: { p5, p50, p95 }, outsideScreeningRange, sampled, drivers, note } when asked; months { rows: { month, fractionAboveTropopause, noxAboveTropopauseKg, ozoneLoss: { centralKg, lowKg, highKg }, tropopauseSource, sameEveryMonth }[12], sameEveryMonth, note }',
+      },
+    },
   },
   '/workspaces/{slug}/imports': {
     post: {

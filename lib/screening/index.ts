@@ -74,6 +74,24 @@ export {
   type CruiseLevelRow,
   type MinimiseCriterion,
 } from './compare-levels';
+export {
+  sampleUncertainty,
+  sampleFigures,
+  centralFigures,
+  UNCERTAIN_INPUTS,
+  BAND_INPUTS,
+  DEFAULT_UNCERTAINTY_SAMPLES,
+  DEFAULT_UNCERTAINTY_SEED,
+  TROPOPAUSE_SIGMA_M,
+  EI_LN_SIGMA,
+  type ScreeningUncertainty,
+  type Percentiles,
+  type UncertainInput,
+  type Driver,
+  type UncertaintyDrivers,
+  type SampledDistribution,
+} from './uncertainty';
+export { screenAcrossMonths, sweepMonthsValidated, SAME_EVERY_MONTH_NOTE, type MonthRow } from './month-sweep';
 export { validateScreeningInput, validateCompareOptions, problemsFromZod } from './validate';
 export { ScreeningInputError } from './errors';
 export type { ScreeningInput, ScreeningInputRaw, FieldProblem } from '../validation/screening';

@@ -58,6 +58,7 @@ import {
   type SoundingProfile,
   type SoundingTropopause,
 } from './tropopause';
+import { sampleUncertainty, type ScreeningUncertainty } from './uncertainty';
 import { validateScreeningInput } from './validate';
 import { OZONE_PROFILE_NAMES, SCREENING_LIMITS, type ScreeningInput } from '../validation/screening';
 
@@ -202,6 +203,8 @@ export interface ScreeningResult {
   segments: ScreeningSegment[];
   cautions: string[];
   assumptions: string[];
+  /** Percentiles from sampling the uncertain inputs, when the input asked for them. */
+  uncertainty?: ScreeningUncertainty;
 }
 
 interface IsaLevel {
@@ -425,7 +428,9 @@ export interface ScreeningTotals {
  * far outside what the engine does.
  */
 export function screenValidated(input: ScreeningInput): ScreeningResult {
-  return screenCore(input, true);
+  const result = screenCore(input, true);
+  if (input.uncertainty !== undefined) result.uncertainty = sampleUncertainty(input, result);
+  return result;
 }
 
 /** As `screenValidated`, returning only the totals: no segments, texts, local budget or fleet context. */

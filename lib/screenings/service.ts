@@ -3,15 +3,19 @@ import { z } from 'zod';
 import {
   compareValidated,
   screenValidated,
+  sweepMonthsValidated,
+  SAME_EVERY_MONTH_NOTE,
   ScreeningInputError,
   validateScreeningInput,
   validateCompareOptions,
   type CruiseLevelRow,
+  type MonthRow,
   type ScreeningInput,
   type ScreeningResult,
 } from '@/lib/screening';
 import { getAircraftForScreening } from '@/db/aircraft-lookup';
 import { badRequest, invalidFields, type FieldProblem } from '@/lib/errors';
+import { previewMonthsSchema } from '@/lib/validation/screening';
 
 /** Fields a saved screening carries beside the engine input (the input plus an optional name). */
 const extrasSchema = z.object({
@@ -23,6 +27,7 @@ const extrasSchema = z.object({
     .max(16, 'An aircraft type code has at most 16 characters.')
     .optional(),
   whatIf: z.unknown().optional(),
+  months: previewMonthsSchema.optional(),
 });
 
 export interface ParsedScreeningBody {
@@ -30,6 +35,8 @@ export interface ParsedScreeningBody {
   aircraftCode: string | null;
   input: ScreeningInput;
   whatIf?: unknown;
+  /** Preview only: add the month sweep. */
+  months?: boolean;
 }
 
 /**
@@ -39,9 +46,9 @@ export interface ParsedScreeningBody {
  */
 export async function parseScreeningBody(raw: unknown, scope: { workspaceId: number }): Promise<ParsedScreeningBody> {
   if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) throw badRequest('The body must be a JSON object.');
-  const { name, aircraft, whatIf, ...engineRaw } = raw as Record<string, unknown>;
+  const { name, aircraft, whatIf, months, ...engineRaw } = raw as Record<string, unknown>;
   const problems: FieldProblem[] = [];
-  const extras = extrasSchema.safeParse({ name, aircraft, whatIf });
+  const extras = extrasSchema.safeParse({ name, aircraft, whatIf, months });
   if (!extras.success) for (const i of extras.error.issues) problems.push({ path: i.path.join('.'), message: i.message });
   let aircraftCode: string | null = null;
   if (extras.success && extras.data.aircraft) {
@@ -64,7 +71,13 @@ export async function parseScreeningBody(raw: unknown, scope: { workspaceId: num
     else throw err;
   }
   if (problems.length || !input) throw invalidFields(problems);
-  return { name: extras.success ? extras.data.name : undefined, aircraftCode, input, whatIf: extras.success ? extras.data.whatIf : undefined };
+  return {
+    name: extras.success ? extras.data.name : undefined,
+    aircraftCode,
+    input,
+    whatIf: extras.success ? extras.data.whatIf : undefined,
+    months: extras.success ? extras.data.months : undefined,
+  };
 }
 
 /** Screens an input `parseScreeningBody` validated; airports unknown to the data still come back as 422. */
@@ -89,4 +102,11 @@ export function runWhatIf(input: ScreeningInput, whatIf: unknown, planned?: Scre
     }
     throw err;
   }
+}
+
+/** The month sweep of an input `parseScreeningBody` validated, with whether an override or sounding fixes it. */
+export function runMonthSweep(input: ScreeningInput): { rows: MonthRow[]; sameEveryMonth: boolean; note: string | null } {
+  const rows = sweepMonthsValidated(input);
+  const same = rows[0]?.sameEveryMonth ?? false;
+  return { rows, sameEveryMonth: same, note: same ? SAME_EVERY_MONTH_NOTE : null };
 }

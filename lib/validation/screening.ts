@@ -483,6 +483,15 @@ export const assumptionsSchema = z.strictObject({
     .optional(),
 });
 
+/** Monte Carlo sampling of a screening: 50..5000 samples (default 400) and a seed 0..4 294 967 295 (default 1). */
+export const uncertaintyOptionsSchema = z.strictObject(
+  {
+    samples: wholeBetween('The number of samples', 50, 5000, '').optional(),
+    seed: wholeBetween('The seed', 0, 4_294_967_295, '').optional(),
+  },
+  { error: 'The uncertainty options must be { samples?, seed? }.' },
+);
+
 function isRealDate(s: string): boolean {
   const y = Number(s.slice(0, 4));
   const m = Number(s.slice(5, 7));
@@ -519,6 +528,7 @@ export const screeningInputSchema = z.object({
     .optional(),
   tropopause: tropopauseOverrideSchema.optional(),
   assumptions: assumptionsSchema.optional(),
+  uncertainty: uncertaintyOptionsSchema.optional(),
 }, { error: 'The screening input must be an object.' });
 
 /** A validated screening input (the schema's output). */
@@ -566,3 +576,12 @@ export const compareCruiseLevelsOptionsSchema = z.strictObject({
 });
 /** `compareCruiseLevels` options as a client sends them. */
 export type CompareCruiseLevelsOptions = z.input<typeof compareCruiseLevelsOptionsSchema>;
+
+/** `months` in a preview body: true adds the month sweep (the flight screened in each month 1-12). */
+export const previewMonthsSchema = z.boolean({ error: 'months must be true or false.' });
+
+/** The preview body as documented: the screening input plus `months` (and the service's name, aircraft, whatIf). */
+export const screeningPreviewBodySchema = screeningInputSchema.extend({
+  months: previewMonthsSchema.optional(),
+  whatIf: compareCruiseLevelsOptionsSchema.optional(),
+});

@@ -29,6 +29,10 @@ import { cruiseLabel, mapPointsFor } from '@/components/screening/describe';
 import { VerticalProfileChart } from '@/components/charts/vertical-profile-chart';
 import { RouteMap } from '@/components/maps/route-map';
 import { CardSkeleton } from '@/components/screening/skeletons';
+import { UncertaintyDriversChart } from '@/components/screening/uncertainty-drivers';
+import { MonthStrip } from '@/components/screening/month-strip';
+import { monthsFor, uncertaintyFor } from '@/lib/screenings/uncertainty-view';
+import type { ScreeningResult } from '@/lib/screening';
 import type { ScreeningInput } from '@/lib/validation/screening';
 import type { UnitSystem } from '@/lib/validation/screen-form';
 
@@ -81,6 +85,7 @@ export default async function ScreeningResultPage({ params, searchParams }: { pa
   }
   const { input, result } = record;
   const units = user.units;
+  const bands = uncertaintyFor(input, result);
   const series = profileSeries(result.segments, units);
   const points = mapPointsFor(input);
   const label = routeLabel(input);
@@ -112,7 +117,10 @@ export default async function ScreeningResultPage({ params, searchParams }: { pa
       />
       <div className="space-y-6">
         <ScreeningCautions cautions={result.cautions} />
-        <HeadlineFigures result={result} units={units} />
+        <HeadlineFigures result={result} units={units} bands={bands} />
+        <Suspense fallback={<CardSkeleton label="the spread and the months" />}>
+          <SpreadAndSeason input={input} result={result} units={units} />
+        </Suspense>
         <div className="grid gap-6 xl:grid-cols-2">
           <Card title="Vertical profile">
             <VerticalProfileChart series={series} label={`Cruise altitude and tropopause along ${label}`} />
@@ -176,5 +184,35 @@ async function WhatIfSection({ input, search, units, engineVersion }: { input: S
       )}
       <p className="mt-2 text-xs text-ink-soft">Worked out now from the saved input; the figures above are as saved (engine version {engineVersion}).</p>
     </Card>
+  );
+}
+
+/** What moves each figure (from the sampling) and the flight in every month. */
+async function SpreadAndSeason({ input, result, units }: { input: ScreeningInput; result: ScreeningResult; units: UnitSystem }) {
+  const u = uncertaintyFor(input, result);
+  const months = monthsFor(input);
+  return (
+    <div className="space-y-6">
+      <Card title="What moves these figures">
+        {u ? (
+          <>
+            <UncertaintyDriversChart drivers={u.drivers} />
+            <p className="mt-3 text-xs text-ink-soft">
+              5–95 %: percentiles of {u.samples} samples (seed {u.seed}) of the inputs that are really uncertain; the screening range keeps every
+              input at its low or high end together. {u.outsideScreeningRange.length ? `The ozone ${u.outsideScreeningRange.join(', ')} lie outside the screening range: the tropopause height or the EI, which that range holds fixed, moves them there.` : ''}
+            </p>
+          </>
+        ) : (
+          <Notice tone="info">This screening was saved by an earlier engine version ({result.engineVersion}); screen it again to see the spread.</Notice>
+        )}
+      </Card>
+      <Card title="Across the year">
+        {months ? (
+          <MonthStrip rows={months.rows} plannedMonth={result.month} units={units} note={months.note} />
+        ) : (
+          <Notice tone="info">The months could not be worked out for this saved input with the current methods.</Notice>
+        )}
+      </Card>
+    </div>
   );
 }

@@ -1,14 +1,15 @@
 import { json, readJson, workspaceRoute } from '@/lib/api/route';
-import { parseScreeningBody, runScreening, runWhatIf } from '@/lib/screenings/service';
+import { parseScreeningBody, runMonthSweep, runScreening, runWhatIf } from '@/lib/screenings/service';
 import { limitPreview } from '@/lib/auth/throttle';
 import { z } from 'zod';
 
-/** Screens without saving (not billed, throttled) and adds the what-if cruise levels. */
+/** Screens without saving (not billed, throttled) and adds the what-if cruise levels; `months: true` adds the month sweep. */
 export const POST = workspaceRoute<{ slug: string }>('screenings:create', async ({ req, member, principal }) => {
   await limitPreview(principal.kind === 'user' ? `u:${principal.user.id}` : `k:${principal.key.keyId}`);
   const raw = await readJson(req, z.unknown());
   const parsed = await parseScreeningBody(raw, { workspaceId: member.workspace.id });
   const result = runScreening(parsed.input);
   const levels = runWhatIf(parsed.input, parsed.whatIf, result);
-  return json({ input: parsed.input, aircraft: parsed.aircraftCode, result, levels });
+  const months = parsed.months === true ? runMonthSweep(parsed.input) : undefined;
+  return json({ input: parsed.input, aircraft: parsed.aircraftCode, result, levels, ...(months ? { months } : {}) });
 });

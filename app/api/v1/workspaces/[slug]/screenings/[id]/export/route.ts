@@ -1,6 +1,8 @@
 import { idParam, workspaceRoute } from '@/lib/api/route';
 import { getScreening, routeLabel, type ScreeningRecord } from '@/db/screenings';
 import { invalidFields } from '@/lib/errors';
+import { uncertaintyFor } from '@/lib/screenings/uncertainty-view';
+import type { Percentiles, ScreeningUncertainty } from '@/lib/screening';
 
 type Cell = string | number | boolean | null;
 
@@ -41,8 +43,26 @@ const SEGMENT_HEADER = [
  * A header block of the headline figures (label, value), a separating row, then one row per
  * segment. Every record carries the same number of fields (RFC 4180 s.2.4) and ends in CRLF.
  */
+function percentileRows(u: ScreeningUncertainty | null): Cell[][] {
+  if (u === null) return [['Percentiles', 'Not available: saved by an earlier engine version; screen it again.']];
+  const three = (label: string, p: Percentiles, digits: number): Cell[][] => [
+    [`${label} 5th percentile`, round(p.p5, digits)],
+    [`${label} 50th percentile`, round(p.p50, digits)],
+    [`${label} 95th percentile`, round(p.p95, digits)],
+  ];
+  return [
+    ['Percentiles from', `${u.samples} samples, seed ${u.seed}`],
+    ...three('NOx above the tropopause (kg NO2)', u.noxAboveTropopauseKg, 4),
+    ...three('Share of NOx above the tropopause', u.fractionAboveTropopause, 6),
+    ...three('Ozone-loss figure (kg O3)', u.ozoneLossKg, 4),
+    ['Ozone percentiles outside the screening range', u.outsideScreeningRange.join(' ') || 'none'],
+    ...u.drivers.ozoneLossKg.map((d): Cell[] => [`Share of the ozone figure's spread: ${d.label}`, round(d.share, 4)]),
+  ];
+}
+
 function toCsv(r: ScreeningRecord): string {
   const res = r.result;
+  const u = uncertaintyFor(r.input, res);
   const rows: Cell[][] = [
     ['Tropopass screening export', 'Screening estimate for planning and reporting support; not a certified emissions inventory or a regulatory method.'],
     ['Screening', r.name],
@@ -67,6 +87,7 @@ function toCsv(r: ScreeningRecord): string {
     ['Ozone-loss figure, central (kg O3)', round(res.ozoneLoss.centralKg, 4)],
     ['Ozone-loss figure, low (kg O3)', round(res.ozoneLoss.lowKg, 4)],
     ['Ozone-loss figure, high (kg O3)', round(res.ozoneLoss.highKg, 4)],
+    ...percentileRows(u),
     ['Tropopause', res.tropopause.description],
     ...res.cautions.map((c): Cell[] => ['Caution', c]),
     [],
@@ -109,7 +130,9 @@ export const GET = workspaceRoute<{ slug: string; id: string }>('flights:read', 
   const record = await getScreening({ workspaceId: member.workspace.id }, idParam(params.id));
   const stem = fileStem(record);
   if (format === 'json') {
-    const body = JSON.stringify({ id: record.id, name: record.name, createdAt: record.createdAt, input: record.input, result: record.result }, null, 2);
+    const uncertainty = uncertaintyFor(record.input, record.result);
+    const result = uncertainty ? { ...record.result, uncertainty } : record.result;
+    const body = JSON.stringify({ id: record.id, name: record.name, createdAt: record.createdAt, input: record.input, result }, null, 2);
     return new Response(body, {
       status: 200,
       headers: { 'content-type': 'application/json; charset=utf-8', 'content-disposition': `attachment; filename="${stem}.json"` },
