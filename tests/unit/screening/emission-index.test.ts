@@ -32,6 +32,12 @@ describe('Goff-Gratch saturation vapour pressure over water', () => {
     expect(Math.abs(goffGratchSaturationPressurePa(t) - pa) / pa).toBeLessThan(0.005);
   });
 
+  it('H = -19.0 (omega - 0.00634) in size: +0.1205 for dry air, about -0.082 for saturated air at 15 °C, 1013.25 hPa (BFFM2, DuBois & Paynter 2006; 17.05 hPa saturation pressure at 15 °C from standard tables, from memory)', () => {
+    expect(humidityTerm(0, 101_325, 288.15)).toBeCloseTo(19 * 0.00634, 12);
+    const omegaSaturated = (0.62198 * 1705) / (101_325 - 1705);
+    expect(humidityTerm(1, 101_325, 288.15)).toBeCloseTo(-19 * (omegaSaturated - 0.00634), 3);
+  });
+
   it('60 % relative humidity at ISA sea level gives the BFFM2 reference humidity 0.00634 kg/kg, so H ~ 0 there (from memory: that is how the reference was chosen)', () => {
     expect(Math.abs(specificHumidityKgKg(0.6, 101_325, 288.15) - 0.00634)).toBeLessThan(0.0001);
     expect(Math.abs(humidityTerm(0.6, 101_325, 288.15))).toBeLessThan(0.002);
