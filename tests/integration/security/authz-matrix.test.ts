@@ -1,7 +1,7 @@
 import { beforeAll, describe, expect, it } from 'vitest';
 import { apiRequest, call, makeUser, makeWorkspace, sessionCookie } from '../../support/test-db';
 import { useBillingHarness } from '../billing/harness';
-import { HTTP_METHODS, fillPattern, loadRoute, routeFiles, serverActions, type HttpMethod, type RouteFile, type RouteModule } from './discover';
+import { HTTP_METHODS, fillPattern, loadRoute, routeFiles, type HttpMethod, type RouteFile, type RouteModule } from './discover';
 import { BILLING_ID_FIXTURES, ID_FIXTURES, resourceOf, type Ws } from './fixtures';
 import { API_KEY_ROLES, PERMISSIONS, ROLES, can, type Permission, type Role } from '@/lib/auth/policy';
 import { createApiKey } from '@/db/api-keys';
@@ -24,13 +24,6 @@ const NON_WORKSPACE_ROUTES: Record<string, { access: 'auth' | 'public'; reason: 
   'app/api/health/route.ts': { access: 'public', reason: 'liveness probe for the load benchmark, no data' },
 };
 
-/** Server actions anyone may call (no account yet); each must still refuse a foreign Origin. */
-const PUBLIC_ACTIONS: Record<string, string> = {
-  'app/(auth)/actions.ts#signUpAction': 'creates the account',
-  'app/(auth)/actions.ts#requestPasswordResetAction': 'answers the same whether or not the address exists',
-  'app/(auth)/actions.ts#resetPasswordAction': 'authenticated by the single-use reset token',
-};
-
 const routes = routeFiles();
 const workspaceRoutes = routes.filter((r) => r.inWorkspace);
 const modules = new Map<string, RouteModule>();
@@ -41,7 +34,7 @@ beforeAll(async () => {
 
 const methodsOf = (r: RouteFile): HttpMethod[] => HTTP_METHODS.filter((m) => typeof modules.get(r.file)?.[m] === 'function');
 
-describe('every route and action is accounted for', () => {
+describe('every route is accounted for (server actions: actions-matrix.test.ts)', () => {
   it('discovers the route files', () => {
     expect(routes.length).toBeGreaterThanOrEqual(10);
     expect(workspaceRoutes.length).toBeGreaterThanOrEqual(4);
@@ -75,26 +68,6 @@ describe('every route and action is accounted for', () => {
       }
     }
     expect(problems).toEqual([]);
-  });
-
-  it('each exported server action calls requireActionMember with a known permission or requireActionUser', () => {
-    const { files, actions } = serverActions();
-    expect(files.length).toBeGreaterThanOrEqual(4);
-    const problems: string[] = [];
-    for (const a of actions) {
-      const id = `${a.file}#${a.name}`;
-      if (a.dynamicPermission) problems.push(`${id}: requireActionMember's permission must be a string literal`);
-      const member = a.guards.filter((g) => g.startsWith('requireActionMember:')).map((g) => g.slice('requireActionMember:'.length));
-      for (const p of member) if (!(PERMISSIONS as readonly string[]).includes(p)) problems.push(`${id}: unknown permission ${p}`);
-      if (PUBLIC_ACTIONS[id]) {
-        if (!a.guards.includes('assertSameOrigin')) problems.push(`${id}: a public action must call assertSameOrigin()`);
-        continue;
-      }
-      if (!member.length && !a.guards.includes('requireActionUser')) problems.push(`${id}: calls neither requireActionMember(slug, permission) nor requireActionUser()`);
-    }
-    expect(problems).toEqual([]);
-    const stale = Object.keys(PUBLIC_ACTIONS).filter((id) => !actions.some((a) => `${a.file}#${a.name}` === id));
-    expect(stale, 'PUBLIC_ACTIONS names an action that no longer exists').toEqual([]);
   });
 });
 
