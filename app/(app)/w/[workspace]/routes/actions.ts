@@ -1,7 +1,8 @@
 'use server';
 
 import { revalidatePath } from 'next/cache';
-import { createRoute, deleteRoute, updateRoute } from '@/db/routes';
+import { deleteRoute } from '@/db/routes';
+import { createRoute, updateRoute } from '@/lib/library/routes';
 import { routeFormSchema, waypointProblemMessage } from '@/lib/validation/library';
 import type { ActionState } from '@/lib/errors';
 import { noInput, workspaceRowAction } from '@/lib/actions/workspace-action';
