@@ -63,4 +63,28 @@ describe('db/ holds queries only', () => {
     const engine = dbImportsOfLib().filter((x) => /^db\/(routes|soundings)\.ts /.test(x));
     expect(engine).toEqual([]);
   });
+
+  it('no import circle among db/ modules, type-only imports included (the workspace hook registry made one)', () => {
+    const graph = new Map<string, string[]>();
+    for (const file of sourceFilesUnder('db')) {
+      const from = file.replace(/\.ts$/, '');
+      graph.set(
+        from,
+        importSpecifiers(file).flatMap((spec) => {
+          const target = resolveSpecifier(file, spec);
+          return target.kind === 'file' && target.path.startsWith('db/') ? [target.path] : [];
+        }),
+      );
+    }
+    const cycles: string[] = [];
+    const visit = (node: string, trail: string[]): void => {
+      if (trail.includes(node)) {
+        cycles.push([...trail.slice(trail.indexOf(node)), node].join(' -> '));
+        return;
+      }
+      for (const next of graph.get(node) ?? []) visit(next, [...trail, node]);
+    };
+    for (const node of graph.keys()) visit(node, []);
+    expect(cycles).toEqual([]);
+  });
 });
