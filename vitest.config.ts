@@ -41,6 +41,17 @@ export default defineConfig({
         test: {
           name: 'integration',
           include: ['tests/integration/**/*.test.ts'],
+          exclude: ['tests/integration/payment-fake/**'],
+          environment: 'node',
+          globalSetup: ['tests/support/global-setup.ts'],
+        },
+      },
+      {
+        // Tests of a tool: the local payment fake that the app's billing tests and the demo run against.
+        extends: true,
+        test: {
+          name: 'tool',
+          include: ['tests/integration/payment-fake/**/*.test.ts'],
           environment: 'node',
           globalSetup: ['tests/support/global-setup.ts'],
         },

@@ -1,7 +1,6 @@
 import 'server-only';
 import type { Knex } from 'knex';
 import { db, nowIso, writeTx } from './client';
-import type { WorkspaceDto } from './workspaces';
 import { DEFAULT_PLAN_ID, TRIAL_DAYS, isPlanId, type PlanId } from '@/lib/billing/plans';
 
 export const BILLING_STATUSES = ['trialing', 'active', 'past_due', 'canceled'] as const;
@@ -83,8 +82,8 @@ function trialEnd(startIso: string): string {
   return new Date(Date.parse(startIso) + TRIAL_DAYS * 86_400_000).toISOString();
 }
 
-/** The `onWorkspaceCreated` hook: every new workspace starts a free trial of the default plan. */
-export async function startTrialBilling(workspace: WorkspaceDto, trx: Knex.Transaction): Promise<void> {
+/** Every new workspace starts a free trial of the default plan, written in the transaction that creates it. */
+export async function startTrialBilling(workspace: { id: number; createdAt: string }, trx: Knex.Transaction): Promise<void> {
   await trx('workspace_billing')
     .insert({
       workspace_id: workspace.id,
@@ -113,7 +112,7 @@ export async function ensureBilling(scope: { workspaceId: number }): Promise<Bil
   return writeTx(async (trx) => {
     const w = await trx('workspaces').where({ id: scope.workspaceId }).first();
     if (w) {
-      await startTrialBilling({ id: Number(w.id), slug: w.slug, name: w.name, createdAt: String(w.created_at) }, trx);
+      await startTrialBilling({ id: Number(w.id), createdAt: String(w.created_at) }, trx);
     }
     const row = await getBilling(scope, trx);
     if (!row) throw new Error(`workspace ${scope.workspaceId} has no billing row`);

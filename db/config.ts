@@ -23,7 +23,7 @@ export function knexConfig(overrides: { sqliteFile?: string; databaseUrl?: strin
   const seeds: Knex.SeederConfig = { directory: path.join(/*turbopackIgnore: true*/ root, 'seeds'), loadExtensions: ['.ts'] };
   const databaseUrl = overrides.databaseUrl ?? process.env.DATABASE_URL;
   if (isPostgres(databaseUrl)) {
-    usePlainNumbersFromPostgres();
+    parsePostgresNumbersAsPlainNumbers();
     return { client: 'pg', connection: databaseUrl, pool: { min: 0, max: 10 }, migrations, seeds };
   }
   const file = path.resolve(/*turbopackIgnore: true*/ root, overrides.sqliteFile ?? process.env.SQLITE_FILE ?? '.data/tropopass.sqlite');
@@ -64,7 +64,7 @@ interface SqlitePragmaConnection {
  * driver hands over as strings; SQLite gives numbers. Parse them as numbers on both (counts and
  * ledger sums stay far below 2^53).
  */
-function usePlainNumbersFromPostgres(): void {
+function parsePostgresNumbersAsPlainNumbers(): void {
   const pg = createRequire(import.meta.url)('pg') as { types: { setTypeParser(oid: number, parse: (v: string) => unknown): void } };
   const INT8 = 20;
   const NUMERIC = 1700;

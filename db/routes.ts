@@ -4,9 +4,6 @@ import { db, insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
 import type { LibraryActor } from './engines';
 import { conflict, notFound } from '@/lib/errors';
-import { routeDistanceKm } from '@/lib/screening';
-import { planRoute, resolveWaypoints } from '@/lib/screening/route';
-import type { RouteSave } from '@/lib/validation/library';
 
 /** A route point: coordinates in degrees, or an airport's ICAO or IATA code. */
 export type RouteWaypoint = { lat: number; lon: number } | { airport: string };
@@ -44,58 +41,41 @@ export async function getRoute(scope: { workspaceId: number }, id: number, trx: 
   return routeOf(row);
 }
 
-/** Great-circle length of a saved route, km (mean-sphere, as the screening engine measures it). */
-export function routeLengthKm(route: Pick<RouteDto, 'waypoints'>): number {
-  return routeDistanceKm(route.waypoints);
-}
-
-/** A saved route with its great-circle length, km (the API's route body). */
-export function routeWithDistance(route: RouteDto): RouteDto & { distanceKm: number } {
-  return { ...route, distanceKm: routeLengthKm(route) };
-}
-
-/**
- * Checks waypoints the way a screening will read them: airport codes the engine knows (422 at
- * `waypoints.N.airport`), a route with length and no antipodal legs. Codes are stored in capitals.
- */
-export function resolveRouteWaypoints(waypoints: readonly RouteWaypoint[]): RouteWaypoint[] {
-  const out = waypoints.map((w) => ('airport' in w ? { airport: w.airport.trim().toUpperCase() } : { lat: w.lat, lon: w.lon }));
-  const { lat, lon } = resolveWaypoints(out, 'waypoints');
-  planRoute(lat, lon, 'waypoints');
-  return out;
-}
-
-async function assertRouteNameFree(trx: Db, workspaceId: number, name: string, exceptId?: number): Promise<void> {
+/** 409 at `name` when another saved route of the workspace has this name (any case). */
+export async function assertRouteNameFree(trx: Db, workspaceId: number, name: string, exceptId?: number): Promise<void> {
   const q = trx('routes').where({ workspace_id: workspaceId }).whereRaw('lower(name) = ?', [name.toLowerCase()]);
   if (exceptId !== undefined) q.andWhereNot('id', exceptId);
   if (await q.first()) throw conflict(`A saved route called “${name}” already exists in this workspace.`, [{ path: 'name', message: 'Another saved route already has this name.' }]);
 }
 
-export async function createRoute(scope: { workspaceId: number }, input: RouteSave, by: LibraryActor): Promise<RouteDto> {
-  const waypoints = resolveRouteWaypoints(input.waypoints);
-  return writeTx(async (trx) => {
-    await assertRouteNameFree(trx, scope.workspaceId, input.name);
-    const now = nowIso();
-    const id = await insertId(
-      trx('routes').insert(
-        { workspace_id: scope.workspaceId, name: input.name, waypoints_json: JSON.stringify(waypoints), notes: input.notes, created_by: by.userId, created_at: now, updated_at: now },
-        ['id'],
-      ),
-    );
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'route.create', target: `route:${id}`, detail: { name: input.name } }, trx);
-    return getRoute(scope, id, trx);
-  });
+/** What a saved route holds; the service resolves and checks the waypoints before it is stored. */
+export interface RouteRecord {
+  name: string;
+  waypoints: RouteWaypoint[];
+  notes: string;
 }
 
-export async function updateRoute(scope: { workspaceId: number }, id: number, input: RouteSave, by: LibraryActor): Promise<RouteDto> {
-  const waypoints = resolveRouteWaypoints(input.waypoints);
-  return writeTx(async (trx) => {
-    await getRoute(scope, id, trx);
-    await assertRouteNameFree(trx, scope.workspaceId, input.name, id);
-    await trx('routes').where({ workspace_id: scope.workspaceId, id }).update({ name: input.name, waypoints_json: JSON.stringify(waypoints), notes: input.notes, updated_at: nowIso() });
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'route.update', target: `route:${id}`, detail: { name: input.name } }, trx);
-    return getRoute(scope, id, trx);
-  });
+/** Inserts a route inside the caller's write transaction, with its audit entry. */
+export async function insertRoute(trx: Knex.Transaction, scope: { workspaceId: number }, route: RouteRecord, by: LibraryActor): Promise<RouteDto> {
+  await assertRouteNameFree(trx, scope.workspaceId, route.name);
+  const now = nowIso();
+  const id = await insertId(
+    trx('routes').insert(
+      { workspace_id: scope.workspaceId, name: route.name, waypoints_json: JSON.stringify(route.waypoints), notes: route.notes, created_by: by.userId, created_at: now, updated_at: now },
+      ['id'],
+    ),
+  );
+  await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'route.create', target: `route:${id}`, detail: { name: route.name } }, trx);
+  return getRoute(scope, id, trx);
+}
+
+/** Replaces a route inside the caller's write transaction (404 when it is not in the workspace), with its audit entry. */
+export async function replaceRoute(trx: Knex.Transaction, scope: { workspaceId: number }, id: number, route: RouteRecord, by: LibraryActor): Promise<RouteDto> {
+  await getRoute(scope, id, trx);
+  await assertRouteNameFree(trx, scope.workspaceId, route.name, id);
+  await trx('routes').where({ workspace_id: scope.workspaceId, id }).update({ name: route.name, waypoints_json: JSON.stringify(route.waypoints), notes: route.notes, updated_at: nowIso() });
+  await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'route.update', target: `route:${id}`, detail: { name: route.name } }, trx);
+  return getRoute(scope, id, trx);
 }
 
 export async function deleteRoute(scope: { workspaceId: number }, id: number, by: LibraryActor): Promise<void> {

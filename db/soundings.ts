@@ -4,8 +4,6 @@ import { db, insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
 import type { LibraryActor } from './engines';
 import { notFound } from '@/lib/errors';
-import { tropopauseFromSounding } from '@/lib/screening';
-import type { SoundingCreate } from '@/lib/validation/library';
 
 export interface SoundingLevelDto {
   altitudeM?: number;
@@ -56,38 +54,36 @@ export async function getSounding(scope: { workspaceId: number }, id: number, tr
   return soundingOf(row);
 }
 
-/**
- * Stores a sounding with its WMO tropopause, found once here. Levels that do not fit together
- * (altitudes not rising as pressures fall) are a 422 at `levels.N`, nothing saved.
- */
-export async function createSounding(scope: { workspaceId: number }, input: SoundingCreate, by: LibraryActor): Promise<SoundingDto> {
-  const levels: SoundingLevelDto[] = input.levels.map((l) => ({
-    ...(l.altitudeM !== undefined ? { altitudeM: l.altitudeM } : {}),
-    ...(l.pressureHpa !== undefined ? { pressureHpa: l.pressureHpa } : {}),
-    temperatureK: l.temperatureK,
-  }));
-  const tropopause = tropopauseFromSounding(levels);
-  return writeTx(async (trx) => {
-    const id = await insertId(
-      trx('soundings').insert(
-        {
-          workspace_id: scope.workspaceId,
-          name: input.name,
-          station: input.station,
-          observed_at: input.observedAt,
-          levels_json: JSON.stringify(levels),
-          tropopause_altitude_m: tropopause?.altitudeM ?? null,
-          tropopause_pressure_hpa: tropopause?.pressureHpa ?? null,
-          tropopause_temperature_k: tropopause?.temperatureK ?? null,
-          created_by: by.userId,
-          created_at: nowIso(),
-        },
-        ['id'],
-      ),
-    );
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'sounding.create', target: `sounding:${id}`, detail: { name: input.name, levels: levels.length } }, trx);
-    return getSounding(scope, id, trx);
-  });
+/** What a stored sounding holds: its levels and the tropopause the service found in them. */
+export interface SoundingRecord {
+  name: string;
+  station: string;
+  observedAt: string | null;
+  levels: SoundingLevelDto[];
+  tropopause: SoundingDto['tropopause'];
+}
+
+/** Inserts a sounding inside the caller's write transaction, with its audit entry. */
+export async function insertSounding(trx: Knex.Transaction, scope: { workspaceId: number }, s: SoundingRecord, by: LibraryActor): Promise<SoundingDto> {
+  const id = await insertId(
+    trx('soundings').insert(
+      {
+        workspace_id: scope.workspaceId,
+        name: s.name,
+        station: s.station,
+        observed_at: s.observedAt,
+        levels_json: JSON.stringify(s.levels),
+        tropopause_altitude_m: s.tropopause?.altitudeM ?? null,
+        tropopause_pressure_hpa: s.tropopause?.pressureHpa ?? null,
+        tropopause_temperature_k: s.tropopause?.temperatureK ?? null,
+        created_by: by.userId,
+        created_at: nowIso(),
+      },
+      ['id'],
+    ),
+  );
+  await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'sounding.create', target: `sounding:${id}`, detail: { name: s.name, levels: s.levels.length } }, trx);
+  return getSounding(scope, id, trx);
 }
 
 export async function deleteSounding(scope: { workspaceId: number }, id: number, by: LibraryActor): Promise<void> {

@@ -68,17 +68,6 @@ export function slugify(name: string): string {
   return base.length >= 2 ? base : `workspace-${base}`.replace(/-+$/, '');
 }
 
-type Hook = (workspace: WorkspaceDto, trx: Knex.Transaction) => Promise<void>;
-const createdHooks: Hook[] = [];
-
-/** Capabilities that keep per-workspace state (billing) register here to set it up in the same transaction. */
-export function onWorkspaceCreated(hook: Hook): void {
-  if (!createdHooks.includes(hook)) createdHooks.push(hook);
-}
-
-// Every new workspace starts on a free trial (billing state written in the creating transaction).
-onWorkspaceCreated(startTrialBilling);
-
 export async function createWorkspace(input: {
   name: string;
   slug?: string;
@@ -102,7 +91,8 @@ export async function createWorkspace(input: {
     );
     await trx('memberships').insert({ workspace_id: id, user_id: input.ownerId, role: 'owner', created_at: now });
     const ws: WorkspaceDto = { id, slug, name: input.name.trim(), createdAt: now };
-    for (const hook of createdHooks) await hook(ws, trx);
+    // Every new workspace starts on a free trial: billing state written in the creating transaction.
+    await startTrialBilling(ws, trx);
     await createAuditEntry(
       { workspaceId: id, userId: input.ownerId, actor: input.actor, action: 'workspace.created', target: slug, ip: input.ip },
       trx,

@@ -2,6 +2,7 @@ import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
 import { findAirport, screenValidated, validateScreeningInput, type ScreeningInput } from '../lib/screening/index';
 import { todayIso } from '../lib/clock';
+import { seededRandom } from '../lib/random';
 
 /**
  * Demo flights (invented schedules of the invented demo operators) over the three calendar months
@@ -57,16 +58,9 @@ const SCHEDULES: Record<string, RouteSeed[]> = {
 
 const CSV_HEADER = 'date,flight,origin,destination,aircraft,cruise_fl,fuel_kg,steps,fleet,ei_nox_g_per_kg,mach';
 
-/** A small deterministic generator (mulberry32) seeded from the flight's key. */
+/** The shared seeded generator, seeded from the flight's key. */
 function random(key: string): () => number {
-  let a = createHash('sha256').update(key).digest().readUInt32LE(0);
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4_294_967_296;
-  };
+  return seededRandom(createHash('sha256').update(key).digest().readUInt32LE(0));
 }
 
 function greatCircleKm(a: { lat: number; lon: number }, b: { lat: number; lon: number }): number {

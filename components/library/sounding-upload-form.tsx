@@ -1,6 +1,6 @@
 'use client';
 
-import { useRef, useState } from 'react';
+import { useState } from 'react';
 import { useRouter } from 'next/navigation';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
@@ -17,14 +17,13 @@ import { postUpload } from './upload';
  */
 export function SoundingUploadForm({ slug, templateHref }: { slug: string; templateHref: string }) {
   const router = useRouter();
-  const file = useRef<HTMLInputElement>(null);
+  const [chosen, setChosen] = useState<File>();
   const [fileError, setFileError] = useState<string>();
   const [result, setResult] = useState<{ text: string; problems: CsvProblemView[]; warnings: CsvProblemView[] }>();
   const form = useForm<SoundingMetaForm, unknown, SoundingMeta>({ resolver: zodResolver(soundingMetaSchema), defaultValues: { name: '', station: '', observedAt: '' } });
   const { errors, isSubmitting } = form.formState;
   const onSubmit = form.handleSubmit(async () => {
     setResult(undefined);
-    const chosen = file.current?.files?.[0];
     if (!chosen) {
       setFileError('Choose the CSV file with the levels.');
       return;
@@ -64,7 +63,7 @@ export function SoundingUploadForm({ slug, templateHref }: { slug: string; templ
           Levels CSV
         </label>
         <input
-          ref={file}
+          onChange={(e) => setChosen(e.currentTarget.files?.[0])}
           id="sounding-file"
           type="file"
           accept=".csv,text/csv"

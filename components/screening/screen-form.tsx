@@ -224,7 +224,10 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
   const modes = { routeMode: values.routeMode, cruiseMode: values.cruiseMode, emissionMode: values.emissionMode, tropopauseMode: values.tropopauseMode };
   const modesRef = useRef(modes);
   modesRef.current = modes;
-  const previewError = preview.error instanceof ApiProblem ? preview.error : preview.error ? new ApiProblem('The preview could not be worked out. Check your connection and try again.', 0, []) : null;
+  const previewError = useMemo(
+    () => (preview.error instanceof ApiProblem ? preview.error : preview.error ? new ApiProblem('The preview could not be worked out. Check your connection and try again.', 0, []) : null),
+    [preview.error],
+  );
   const [previewGeneral, setPreviewGeneral] = useState<string | null>(null);
   useEffect(() => {
     if (!previewError) {
@@ -238,8 +241,8 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
       else unplaced.push(f.message);
     }
     setPreviewGeneral(previewError.fields.length && !unplaced.length ? null : [previewError.message, ...unplaced].join(' '));
-    // Placed once per failed request: the error object changes exactly then.
-  }, [preview.error]);
+    // Placed once per failed request: previewError is memoised on the request's error, which changes exactly then.
+  }, [form, previewError]);
 
   const idem = useRef<{ payload: string; key: string } | null>(null);
   const [saveError, setSaveError] = useState<string | null>(null);

@@ -22,20 +22,10 @@ import { COLUMNS, bthHeightKm, bthRowForDay, columnPressurePa } from '../../lib/
 import { profileSlotFor } from '../../lib/screening/ozone-loss';
 import { BFFM2_INSTALLATION_FACTORS, buildEiCurve, humidityTerm } from '../../lib/screening/emission-index';
 import { isaTemperatureAt } from '../../lib/screening/atmosphere';
+import { seededRandom } from '../../lib/random';
 
 const FLIGHTS = Number(process.argv[2] ?? 100_000);
 const SEED = 20_261_201;
-
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4_294_967_296;
-  };
-}
 
 const AIRPORTS = [
   'EGLL', 'KJFK', 'LFPG', 'EDDF', 'EHAM', 'LEMD', 'LIRF', 'OMDB', 'OTHH', 'VHHH', 'RJTT', 'RKSI', 'WSSS',
@@ -61,7 +51,7 @@ function haversineKm(a: { lat: number; lon: number }, b: { lat: number; lon: num
 }
 
 function schedule(n: number): ScreeningInputRaw[] {
-  const rnd = mulberry32(SEED);
+  const rnd = seededRandom(SEED);
   const pick = <T>(xs: readonly T[]): T => xs[Math.floor(rnd() * xs.length)];
   const coords = new Map(AIRPORTS.map((c) => {
     const a = findAirport(c);

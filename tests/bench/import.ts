@@ -11,11 +11,12 @@
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { createHash } from 'node:crypto';
 import fs from 'node:fs';
-import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import Database from 'better-sqlite3';
 import { encode } from 'next-auth/jwt';
+import { freePort } from '../support/free-port';
+import { seededRandom } from '../../lib/random';
 
 const ROWS = Number(process.argv[2] ?? 100_000);
 const root = process.cwd();
@@ -26,20 +27,9 @@ const LOCK = '/tmp/tropopass-e2e.lock';
 const EUROPE = ['EGLL', 'EFHK', 'ENGM', 'BIKF', 'ESSA', 'EKCH', 'EDDF', 'EHAM'];
 const PACIFIC = ['PANC', 'RJAA', 'RJTT', 'KSEA', 'CYVR', 'KSFO', 'RJBB', 'ZSPD'];
 
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4_294_967_296;
-  };
-}
-
 /** `rows` distinct flights for the demo workspace skarn-polar, 30 % of them with a step climb. */
 function schedule(rows: number): string {
-  const rnd = mulberry32(20_261_120);
+  const rnd = seededRandom(20_261_120);
   const pick = <T>(xs: readonly T[]) => xs[Math.floor(rnd() * xs.length)];
   const lines = ['date,flight,origin,destination,aircraft,cruise_fl,fuel_kg,steps'];
   for (let i = 0; i < rows; i++) {
@@ -52,18 +42,6 @@ function schedule(rows: number): string {
     lines.push(`2026-10-${day},BN${i},${o},${d},${rnd() < 0.5 ? 'SK-LR1' : 'SK-LR2'},${fl},${fuel},${steps}`);
   }
   return lines.join('\r\n') + '\r\n';
-}
-
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const srv = net.createServer();
-    srv.once('error', reject);
-    srv.listen(0, '127.0.0.1', () => {
-      const addr = srv.address();
-      const port = typeof addr === 'object' && addr ? addr.port : 0;
-      srv.close(() => resolve(port));
-    });
-  });
 }
 
 function run(cmd: string, args: string[], env: NodeJS.ProcessEnv, label: string): void {

@@ -12,7 +12,8 @@ import { createRequire } from 'node:module';
 import fs from 'node:fs';
 import os from 'node:os';
 import Database from 'better-sqlite3';
-import { appEnv, build, freePort, hasBuild, insertApiKey, prepareDatabase, reexecUnderLock, startApp, tempDir } from '../soak/app-process';
+import { appEnv, build, hasBuild, insertApiKey, prepareDatabase, reexecUnderLock, startApp, tempDir } from '../soak/app-process';
+import { freePort } from '../support/free-port';
 
 const require = createRequire(import.meta.url);
 

@@ -5,25 +5,13 @@
  */
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
-import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import { findChromium } from './support/chromium';
+import { freePort } from '../support/free-port';
 
 const root = process.cwd();
 const isCi = process.env.CI === 'true';
-
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const srv = net.createServer();
-    srv.once('error', reject);
-    srv.listen(0, '127.0.0.1', () => {
-      const addr = srv.address();
-      const port = typeof addr === 'object' && addr ? addr.port : 0;
-      srv.close(() => resolve(port));
-    });
-  });
-}
 
 function run(cmd: string, args: string[], env: NodeJS.ProcessEnv, label: string): void {
   const r = spawnSync(cmd, args, { cwd: root, env, stdio: 'inherit' });

@@ -1,4 +1,3 @@
-import net from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { makeWorkspace, sessionCookie, TEST_ORIGIN, useTestDatabase } from '../support/test-db';
@@ -7,6 +6,7 @@ import { FLIGHT, ID_FIXTURES, resourceOf, type Ws } from '../integration/securit
 import { bodyText, csvText, queryString } from './arbitraries';
 import { API_OPERATIONS, type OperationSpec } from '@/lib/api/openapi';
 import { startSmtpFake, type SmtpFake } from '@/lib/fakes/smtp/server';
+import { freePort } from '../support/free-port';
 
 /**
  * Property: whatever arrives at a /api/v1 route (wrong types, huge numbers, NaN and Infinity as text,
@@ -14,14 +14,6 @@ import { startSmtpFake, type SmtpFake } from '@/lib/fakes/smtp/server';
  * an error is always `{ error: { code, message } }`, and a 422 names the offending fields by path
  * (or, for a CSV, the problem lines). FUZZ_RUNS sets the cases per route and method.
  */
-function freePort(): Promise<number> {
-  return new Promise((resolve) => {
-    const s = net.createServer().listen(0, '127.0.0.1', () => {
-      const a = s.address();
-      s.close(() => resolve(typeof a === 'object' && a ? a.port : 0));
-    });
-  });
-}
 
 const smtpPort = await freePort();
 const smtpHttpPort = await freePort();

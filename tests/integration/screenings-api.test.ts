@@ -167,12 +167,19 @@ describe('preview and computation routes', () => {
     expect(far.body.error?.fields?.[0]?.message).toMatch(/kg\/s per engine/);
   });
 
-  it('atmosphere: FL361 is near the ISA tropopause (ICAO Doc 7488/3: 11 000 m, 216.65 K, 22 632 Pa)', async () => {
+  it('atmosphere: 11 000 m is the ISA tropopause and FL361 lies just above it (ICAO Doc 7488/3: 11 000 m, 216.65 K, 22 632 Pa, isothermal above)', async () => {
     const u = await makeUser();
     const cookie = await sessionCookie(u.id);
     const r = await call<{ temperatureK: number; pressurePa: number }>(atmosphereRoute.GET, apiRequest('GET', '/api/v1/atmosphere?altitudeM=11000', { cookie }));
     expect(r.body.temperatureK).toBeCloseTo(216.65, 2);
     expect(r.body.pressurePa).toBeCloseTo(22632, -1);
+    // FL361 = 11 003.28 m: the same temperature, and a pressure a few pascals lower (about 22 620 Pa).
+    const fl361 = await call<{ temperatureK: number; pressurePa: number; altitudeM: number }>(atmosphereRoute.GET, apiRequest('GET', '/api/v1/atmosphere?flightLevel=361', { cookie }));
+    expect(fl361.status).toBe(200);
+    expect(fl361.body.altitudeM).toBeCloseTo(11_003.28, 2);
+    expect(fl361.body.temperatureK).toBeCloseTo(216.65, 2);
+    expect(fl361.body.pressurePa).toBeLessThan(22_632);
+    expect(fl361.body.pressurePa).toBeGreaterThan(22_610);
     expect((await call(atmosphereRoute.GET, apiRequest('GET', '/api/v1/atmosphere?altitudeM=40000', { cookie }))).status).toBe(422);
     expect((await call(atmosphereRoute.GET, apiRequest('GET', '/api/v1/atmosphere?flightLevel=350'))).status).toBe(401);
   });

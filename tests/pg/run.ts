@@ -8,22 +8,11 @@
  */
 import { execFileSync, spawnSync } from 'node:child_process';
 import fs from 'node:fs';
-import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
+import { freePort } from '../support/free-port';
 
 const ROOT = process.cwd();
-
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const srv = net.createServer();
-    srv.once('error', reject);
-    srv.listen(0, '127.0.0.1', () => {
-      const a = srv.address();
-      srv.close(() => resolve(typeof a === 'object' && a ? a.port : 0));
-    });
-  });
-}
 
 function pgBinDir(): string | null {
   const base = '/usr/lib/postgresql';

@@ -5,25 +5,12 @@
  */
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
-import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import Database from 'better-sqlite3';
 import { newApiKey } from '@/lib/auth/tokens';
 
 export const ROOT = process.cwd();
-
-export function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const srv = net.createServer();
-    srv.once('error', reject);
-    srv.listen(0, '127.0.0.1', () => {
-      const addr = srv.address();
-      const port = typeof addr === 'object' && addr ? addr.port : 0;
-      srv.close(() => resolve(port));
-    });
-  });
-}
 
 export function hasBuild(): boolean {
   return fs.existsSync(path.join(ROOT, '.next', 'BUILD_ID'));

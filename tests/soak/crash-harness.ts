@@ -13,7 +13,8 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import Database from 'better-sqlite3';
-import { appEnv, freePort, insertApiKey, prepareDatabase, ROOT, startApp, tempDir, type RunningApp } from './app-process';
+import { appEnv, insertApiKey, prepareDatabase, ROOT, startApp, tempDir, type RunningApp } from './app-process';
+import { freePort } from '../support/free-port';
 
 export interface SoakOptions {
   kills: number;

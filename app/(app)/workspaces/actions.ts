@@ -1,18 +1,10 @@
 'use server';
 
-import { requireActionUser } from '@/lib/auth/guards';
 import { createWorkspace } from '@/db/workspaces';
 import { workspaceCreateSchema } from '@/lib/validation/workspaces';
-import { fromZod, toActionState, type ActionState } from '@/lib/errors';
+import { userAction } from '@/lib/actions/workspace-action';
 
-export async function createWorkspaceAction(raw: unknown): Promise<ActionState<{ slug: string }>> {
-  try {
-    const user = await requireActionUser();
-    const parsed = workspaceCreateSchema.safeParse(raw);
-    if (!parsed.success) throw fromZod(parsed.error);
-    const ws = await createWorkspace({ name: parsed.data.name, slug: parsed.data.slug, ownerId: user.id, actor: user.email });
-    return { ok: true, data: { slug: ws.slug } };
-  } catch (err) {
-    return toActionState(err);
-  }
-}
+export const createWorkspaceAction = userAction(workspaceCreateSchema, async (user, input) => {
+  const ws = await createWorkspace({ name: input.name, slug: input.slug, ownerId: user.id, actor: user.email });
+  return { data: { slug: ws.slug } };
+});

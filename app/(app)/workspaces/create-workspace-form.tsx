@@ -1,6 +1,7 @@
 'use client';
 
 import { useState } from 'react';
+import { useRouter } from 'next/navigation';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { workspaceCreateSchema, type WorkspaceCreateInput } from '@/lib/validation/workspaces';
@@ -11,13 +12,14 @@ import { applyServerErrors } from '@/components/ui/server-errors';
 import { createWorkspaceAction } from './actions';
 
 export function CreateWorkspaceForm() {
+  const router = useRouter();
   const [message, setMessage] = useState<string>();
   const form = useForm<{ name: string; slug?: string }, unknown, WorkspaceCreateInput>({ resolver: zodResolver(workspaceCreateSchema), defaultValues: { name: '', slug: '' } });
   const { errors, isSubmitting } = form.formState;
   const onSubmit = form.handleSubmit(async (values) => {
     setMessage(undefined);
     const state = await createWorkspaceAction(values);
-    if (state?.ok && state.data) window.location.assign(`/w/${state.data.slug}`);
+    if (state?.ok && state.data) router.push(`/w/${state.data.slug}`);
     else setMessage(applyServerErrors(state, form.setError, ['name', 'slug']));
   });
   return (

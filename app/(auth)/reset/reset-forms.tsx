@@ -1,6 +1,7 @@
 'use client';
 
 import { useState } from 'react';
+import { useRouter } from 'next/navigation';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { emailOnlySchema, resetPasswordSchema, type ResetPasswordInput } from '@/lib/validation/auth';
@@ -35,13 +36,14 @@ export function RequestResetForm() {
 }
 
 export function NewPasswordForm({ token }: { token: string }) {
+  const router = useRouter();
   const [message, setMessage] = useState<string>();
   const form = useForm<ResetPasswordInput>({ resolver: zodResolver(resetPasswordSchema), defaultValues: { token, password: '', confirm: '' } });
   const { errors, isSubmitting } = form.formState;
   const onSubmit = form.handleSubmit(async (values) => {
     setMessage(undefined);
     const state = await resetPasswordAction(values);
-    if (state?.ok) window.location.assign('/signin?reset=1');
+    if (state?.ok) router.push('/signin?reset=1');
     else setMessage(applyServerErrors(state, form.setError, ['password', 'confirm']));
   });
   return (

@@ -1,6 +1,7 @@
 'use client';
 
 import { useState } from 'react';
+import { useRouter } from 'next/navigation';
 import Link from 'next/link';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
@@ -11,6 +12,7 @@ import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 
 export function SignInForm({ callbackUrl, initialNotice }: { callbackUrl: string; initialNotice?: string }) {
+  const router = useRouter();
   const [mode, setMode] = useState<'password' | 'link'>('password');
   const [message, setMessage] = useState<string | undefined>(initialNotice);
   const form = useForm<SignInInput>({ resolver: zodResolver(signInSchema), defaultValues: { email: '', password: '' } });
@@ -33,7 +35,7 @@ export function SignInForm({ callbackUrl, initialNotice }: { callbackUrl: string
       setMessage(res.error === 'EmailSignin' ? 'The sign-in link could not be sent. Try again shortly.' : res.error);
       return;
     }
-    window.location.assign('/signin/check-email');
+    router.push('/signin/check-email');
   });
 
   return (

@@ -1,6 +1,5 @@
-import { formatUsd } from '../../billing/plans';
 import { requirePrice } from './catalogue';
-import { PAGE_PARAMS, Reply, addInterval, clone, listBody, previousAttributes, readPage, type ApiContext } from './common';
+import { PAGE_PARAMS, Reply, addInterval, clone, formatMoney, listBody, previousAttributes, readPage, type ApiContext } from './common';
 import { requireCustomer } from './customers';
 import { FakeApiError, cardDeclined, invalidRequest, resourceMissing } from './errors';
 import { applyMetadata, type Params } from './form';
@@ -27,10 +26,6 @@ import type {
 
 const MAX_TRIAL_DAYS = 730;
 const RETRY_AFTER_SECONDS = 3 * 86_400;
-
-function formatMoney(cents: number, currency: string): string {
-  return currency === 'usd' ? formatUsd(cents) : `${(cents / 100).toFixed(2)} ${currency.toUpperCase()}`;
-}
 
 export function requireSubscription(ctx: ApiContext, id: string, param?: string): FakeSubscription {
   const sub = ctx.store.get('subscription', id);

@@ -7,7 +7,7 @@ import {
   METER_VALUE_PAYLOAD_KEY,
   PLANS,
   PLAN_IDS,
-} from '../../billing/plans';
+} from '../../billing/plan-catalogue';
 import { PAGE_PARAMS, listBody, readPage, type ApiContext } from './common';
 import { invalidRequest, resourceMissing } from './errors';
 import { applyMetadata, type Params } from './form';

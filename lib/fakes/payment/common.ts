@@ -141,3 +141,10 @@ export function decorate<T>(body: T, baseUrl: string): T {
   visit(body);
   return body;
 }
+
+/** An amount as the hosted invoice pages show it: `12345, 'usd'` -> `$123.45`, other currencies by code. */
+export function formatMoney(cents: number, currency: string): string {
+  if (currency !== 'usd') return `${(cents / 100).toFixed(2)} ${currency.toUpperCase()}`;
+  const abs = Math.abs(Math.round(cents));
+  return `${cents < 0 ? '-' : ''}$${Math.floor(abs / 100).toLocaleString('en-US')}.${String(abs % 100).padStart(2, '0')}`;
+}

@@ -1,14 +1,10 @@
-import { formatUsd } from '../../billing/plans';
+import { formatMoney } from './common';
 import type { FakeInvoice } from './types';
 
 /** The pages behind `hosted_invoice_url` (HTML) and `invoice_pdf` (a one-page PDF). */
 
 function isoDate(seconds: number): string {
   return new Date(seconds * 1000).toISOString().slice(0, 10);
-}
-
-function money(cents: number, currency: string): string {
-  return currency === 'usd' ? formatUsd(cents) : `${(cents / 100).toFixed(2)} ${currency.toUpperCase()}`;
 }
 
 function escapeHtml(text: string): string {
@@ -29,7 +25,7 @@ export function renderInvoiceHtml(invoice: FakeInvoice): string {
     .map(
       (line) =>
         `<tr><td>${escapeHtml(line.description)}</td><td style="text-align:right">${line.quantity}</td>` +
-        `<td style="text-align:right">${escapeHtml(money(line.amount, line.currency))}</td></tr>`,
+        `<td style="text-align:right">${escapeHtml(formatMoney(line.amount, line.currency))}</td></tr>`,
     )
     .join('\n');
   const [title, ...rest] = summaryLines(invoice);
@@ -45,8 +41,8 @@ ${rest.map((l) => `<p>${escapeHtml(l)}</p>`).join('\n')}
 ${rows}
 </tbody>
 </table>
-<p><strong>Total: ${escapeHtml(money(invoice.total, invoice.currency))}</strong></p>
-<p>Amount due: ${escapeHtml(money(invoice.amount_due, invoice.currency))} · Amount paid: ${escapeHtml(money(invoice.amount_paid, invoice.currency))}</p>
+<p><strong>Total: ${escapeHtml(formatMoney(invoice.total, invoice.currency))}</strong></p>
+<p>Amount due: ${escapeHtml(formatMoney(invoice.amount_due, invoice.currency))} · Amount paid: ${escapeHtml(formatMoney(invoice.amount_paid, invoice.currency))}</p>
 <p><a href="${escapeHtml(invoice.invoice_pdf ?? '#')}">Download PDF</a></p>
 </body>
 </html>
@@ -63,10 +59,10 @@ export function renderInvoicePdf(invoice: FakeInvoice): Buffer {
   const lines = [
     ...summaryLines(invoice),
     '',
-    ...invoice.lines.data.map((line) => `${line.description}    ${money(line.amount, line.currency)}`),
+    ...invoice.lines.data.map((line) => `${line.description}    ${formatMoney(line.amount, line.currency)}`),
     '',
-    `Total: ${money(invoice.total, invoice.currency)}`,
-    `Amount due: ${money(invoice.amount_due, invoice.currency)}   Amount paid: ${money(invoice.amount_paid, invoice.currency)}`,
+    `Total: ${formatMoney(invoice.total, invoice.currency)}`,
+    `Amount due: ${formatMoney(invoice.amount_due, invoice.currency)}   Amount paid: ${formatMoney(invoice.amount_paid, invoice.currency)}`,
   ];
   const ops = ['BT', '/F1 11 Tf', '14 TL', '56 780 Td'];
   lines.forEach((line, i) => {

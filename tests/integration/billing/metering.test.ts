@@ -119,6 +119,8 @@ describe('delivery faults', () => {
     await screenMany(ws.slug, ws.members.planner.id, units);
     await h.control('/_fake/faults', { failRate: 0.5, status: 500, onlyPaths: ['/v1/billing/meter_events'], seed: 7 });
     try {
+      // Bounds from the clock before the pass, not from "now" after it, so a slow machine cannot flake them.
+      const before = Date.now();
       const first = await sendPendingUsage({ workspaceId: ws.id });
       expect(first.failed).toBeGreaterThan(0);
       expect(first.sent).toBeGreaterThan(0);
@@ -126,11 +128,11 @@ describe('delivery faults', () => {
       expect(retried.length).toBe(first.failed);
       for (const row of retried) {
         expect(row.send_attempts).toBe(1);
-        expect(Date.parse(row.next_attempt_at)).toBeGreaterThan(Date.now());
+        expect(Date.parse(row.next_attempt_at)).toBeGreaterThanOrEqual(before + BACKOFF_BASE_MS / 2);
         expect(row.last_error).toContain('500');
       }
-      // Not due yet: a pass now sends nothing.
-      expect((await sendPendingUsage({ workspaceId: ws.id })).attempted).toBe(0);
+      // Not due yet: a pass before the shortest backoff has run out sends nothing.
+      expect((await sendPendingUsage({ workspaceId: ws.id, asOf: new Date(before + BACKOFF_BASE_MS / 2 - 1) })).attempted).toBe(0);
       await drain(ws.id);
     } finally {
       await h.control('/_fake/faults', undefined, 'DELETE');
@@ -169,8 +171,11 @@ describe('delivery faults', () => {
     try {
       const first = await sendPendingUsage({ workspaceId: ws.id });
       expect(first.failed).toBe(2);
-      // The fake finishes the slow requests after the client gave up.
-      await new Promise((r) => setTimeout(r, 800));
+      // The fake finishes the slow requests after the client gave up: wait for them (up to 10 s on a
+      // busy machine) rather than for a fixed time.
+      for (let waited = 0; (await meterEventsOf(billing.customerId!)).length < 2 && waited < 10_000; waited += 100) {
+        await new Promise((r) => setTimeout(r, 100));
+      }
       expect((await meterEventsOf(billing.customerId!)).length).toBe(2);
     } finally {
       await h.control('/_fake/faults', undefined, 'DELETE');

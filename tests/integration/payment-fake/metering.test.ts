@@ -53,7 +53,7 @@ function lineFor(invoice: Stripe.Invoice, usage: 'licensed' | 'metered', sub: St
   return invoice.lines.data.find((l) => l.parent?.subscription_item_details?.subscription_item === item.id)!;
 }
 
-describe('meter events -> invoice', () => {
+describe('test tool (local payment fake): meter events -> invoice', () => {
   it.each(PLAN_IDS.flatMap((planId) => [0, 7, 250].map((units) => ({ planId, units }))))(
     '$planId, $units screened flights: amount due = base fee + units x per-flight price',
     async ({ planId, units }) => {
@@ -146,7 +146,7 @@ describe('meter events -> invoice', () => {
   });
 });
 
-describe('meter event rules', () => {
+describe('test tool (local payment fake): meter event rules', () => {
   it('a duplicate identifier is refused with 400 and counted once', async () => {
     const { customer } = await subscribe('crew');
     const params = {
@@ -193,7 +193,7 @@ describe('meter event rules', () => {
   });
 });
 
-describe('Idempotency-Key', () => {
+describe('test tool (local payment fake): Idempotency-Key', () => {
   it('same key and same body replays the stored response without doing the work again', async () => {
     const customer = await h.stripe.customers.create({ email: 'idem@example.test' });
     const params = {

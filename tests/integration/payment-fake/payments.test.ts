@@ -34,7 +34,7 @@ async function declinedSubscriptionWithUsage(units: number) {
 const subscriptionOf = (e: Stripe.Event) => e.data.object as Stripe.Subscription;
 const invoiceOf = (e: Stripe.Event) => e.data.object as Stripe.Invoice;
 
-describe('a declined card', () => {
+describe('test tool (local payment fake): a declined card', () => {
   it('past_due + invoice.payment_failed, then the card is fixed and the invoice paid: active again', async () => {
     const { customer, sub, invoice, subscription } = await declinedSubscriptionWithUsage(6);
     const due = estimateChargeCents('crew', 6);
@@ -95,7 +95,7 @@ describe('a declined card', () => {
   });
 });
 
-describe('hosted invoice and PDF', () => {
+describe('test tool (local payment fake): hosted invoice and PDF', () => {
   it('the links on the invoice serve an HTML page and a PDF from the fake', async () => {
     const { customer } = await customerWithCard(h.stripe, 'pm_card_visa', 'pdf@example.test');
     const sub = await h.stripe.subscriptions.create({

@@ -12,7 +12,7 @@ async function subscribeCrew(h: Harness, customer: string): Promise<Stripe.Subsc
   });
 }
 
-describe('authentication', () => {
+describe('test tool (local payment fake): authentication', () => {
   let h: Harness;
   beforeAll(async () => {
     h = await startHarness();
@@ -49,7 +49,7 @@ describe('authentication', () => {
   });
 });
 
-describe('restart', () => {
+describe('test tool (local payment fake): restart', () => {
   let h: Harness;
   beforeAll(async () => {
     h = await startHarness();
@@ -109,7 +109,7 @@ describe('restart', () => {
   });
 });
 
-describe('webhook delivery', () => {
+describe('test tool (local payment fake): webhook delivery', () => {
   let h: Harness;
   beforeAll(async () => {
     h = await startHarness({ webhookRetryDelaysMs: [100, 200, 400, 800] });
@@ -170,7 +170,7 @@ describe('webhook delivery', () => {
   });
 });
 
-describe('webhook signatures and restarts', () => {
+describe('test tool (local payment fake): webhook signatures and restarts', () => {
   it('events signed with another secret are refused by the receiver', async () => {
     const h = await startHarness({ webhookSecret: 'whsec_not_the_apps_secret', webhookRetryDelaysMs: [] });
     try {

@@ -27,7 +27,7 @@ function planItems(planId: PlanId): { price: string }[] {
   return [{ price: prices.get(plan.baseLookupKey)!.id }, { price: prices.get(plan.meteredLookupKey)!.id }];
 }
 
-describe('plan catalogue created at start-up', () => {
+describe('test tool (local payment fake): plan catalogue created at start-up', () => {
   it('has one meter for screened flights', async () => {
     const meters = await h.stripe.billing.meters.list({ status: 'active' });
     expect(meters.data.map((m) => m.event_name)).toEqual([METER_EVENT_NAME]);
@@ -63,7 +63,7 @@ describe('plan catalogue created at start-up', () => {
   });
 });
 
-describe('subscriptions', () => {
+describe('test tool (local payment fake): subscriptions', () => {
   it('subscribing with a 14-day trial is trialing, and sends customer.subscription.created', async () => {
     const customer = await h.stripe.customers.create({ email: 'trial@example.test', metadata: { workspace: 'ws_trial' } });
     const before = Math.floor(Date.now() / 1000);
@@ -196,7 +196,7 @@ describe('subscriptions', () => {
   });
 });
 
-describe('request validation, as the API answers it', () => {
+describe('test tool (local payment fake): request validation, as the API answers it', () => {
   const cases: { name: string; call: (s: Stripe, customer: string) => Promise<unknown>; status: number; code?: string; param?: string }[] = [
     {
       name: 'unknown price',

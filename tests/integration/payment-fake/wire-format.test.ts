@@ -3,7 +3,7 @@ import { METER_EVENT_NAME } from '../../../lib/billing/plans';
 import { Params, parseForm, type ParamObject } from '../../../lib/fakes/payment/form';
 import { API_KEY, startHarness, type Harness } from './harness';
 
-describe('form bodies with bracketed keys', () => {
+describe('test tool (local payment fake): form bodies with bracketed keys', () => {
   it.each<{ body: string; expected: ParamObject }>([
     { body: 'email=a%40b.test&name=A+B', expected: { email: 'a@b.test', name: 'A B' } },
     { body: 'metadata[k]=v&metadata[7]=x', expected: { metadata: { k: 'v', 7: 'x' } } },
@@ -25,7 +25,7 @@ describe('form bodies with bracketed keys', () => {
   });
 });
 
-describe('raw HTTP against the fake', () => {
+describe('test tool (local payment fake): raw HTTP against the fake', () => {
   let h: Harness;
   beforeAll(async () => {
     h = await startHarness();

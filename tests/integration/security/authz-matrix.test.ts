@@ -1,11 +1,13 @@
 import { beforeAll, describe, expect, it } from 'vitest';
-import { apiRequest, call, makeUser, makeWorkspace, sessionCookie, useTestDatabase } from '../../support/test-db';
-import { HTTP_METHODS, fillPattern, loadRoute, routeFiles, serverActions, type HttpMethod, type RouteFile, type RouteModule } from './discover';
-import { ID_FIXTURES, resourceOf, type Ws } from './fixtures';
+import { apiRequest, call, makeUser, makeWorkspace, sessionCookie } from '../../support/test-db';
+import { useBillingHarness } from '../billing/harness';
+import { HTTP_METHODS, fillPattern, loadRoute, routeFiles, type HttpMethod, type RouteFile, type RouteModule } from './discover';
+import { BILLING_ID_FIXTURES, ID_FIXTURES, resourceOf, type Ws } from './fixtures';
 import { API_KEY_ROLES, PERMISSIONS, ROLES, can, type Permission, type Role } from '@/lib/auth/policy';
 import { createApiKey } from '@/db/api-keys';
 
-useTestDatabase({ RATE_LIMIT_API_PER_MIN: '1000000', RATE_LIMIT_PREVIEW_PER_MIN: '1000000' });
+// The billing harness gives the file its database and the local payment fake the invoice fixture needs.
+useBillingHarness({ RATE_LIMIT_API_PER_MIN: '1000000', RATE_LIMIT_PREVIEW_PER_MIN: '1000000' });
 
 /**
  * Routes outside any workspace, each with the reason it needs no workspace permission. `auth`:
@@ -22,13 +24,6 @@ const NON_WORKSPACE_ROUTES: Record<string, { access: 'auth' | 'public'; reason: 
   'app/api/health/route.ts': { access: 'public', reason: 'liveness probe for the load benchmark, no data' },
 };
 
-/** Server actions anyone may call (no account yet); each must still refuse a foreign Origin. */
-const PUBLIC_ACTIONS: Record<string, string> = {
-  'app/(auth)/actions.ts#signUpAction': 'creates the account',
-  'app/(auth)/actions.ts#requestPasswordResetAction': 'answers the same whether or not the address exists',
-  'app/(auth)/actions.ts#resetPasswordAction': 'authenticated by the single-use reset token',
-};
-
 const routes = routeFiles();
 const workspaceRoutes = routes.filter((r) => r.inWorkspace);
 const modules = new Map<string, RouteModule>();
@@ -39,7 +34,7 @@ beforeAll(async () => {
 
 const methodsOf = (r: RouteFile): HttpMethod[] => HTTP_METHODS.filter((m) => typeof modules.get(r.file)?.[m] === 'function');
 
-describe('every route and action is accounted for', () => {
+describe('every route is accounted for (server actions: actions-matrix.test.ts)', () => {
   it('discovers the route files', () => {
     expect(routes.length).toBeGreaterThanOrEqual(10);
     expect(workspaceRoutes.length).toBeGreaterThanOrEqual(4);
@@ -74,26 +69,6 @@ describe('every route and action is accounted for', () => {
     }
     expect(problems).toEqual([]);
   });
-
-  it('each exported server action calls requireActionMember with a known permission or requireActionUser', () => {
-    const { files, actions } = serverActions();
-    expect(files.length).toBeGreaterThanOrEqual(4);
-    const problems: string[] = [];
-    for (const a of actions) {
-      const id = `${a.file}#${a.name}`;
-      if (a.dynamicPermission) problems.push(`${id}: requireActionMember's permission must be a string literal`);
-      const member = a.guards.filter((g) => g.startsWith('requireActionMember:')).map((g) => g.slice('requireActionMember:'.length));
-      for (const p of member) if (!(PERMISSIONS as readonly string[]).includes(p)) problems.push(`${id}: unknown permission ${p}`);
-      if (PUBLIC_ACTIONS[id]) {
-        if (!a.guards.includes('assertSameOrigin')) problems.push(`${id}: a public action must call assertSameOrigin()`);
-        continue;
-      }
-      if (!member.length && !a.guards.includes('requireActionUser')) problems.push(`${id}: calls neither requireActionMember(slug, permission) nor requireActionUser()`);
-    }
-    expect(problems).toEqual([]);
-    const stale = Object.keys(PUBLIC_ACTIONS).filter((id) => !actions.some((a) => `${a.file}#${a.name}` === id));
-    expect(stale, 'PUBLIC_ACTIONS names an action that no longer exists').toEqual([]);
-  });
 });
 
 interface Setup {
@@ -114,7 +89,8 @@ async function paramsFor(r: RouteFile, ws: Ws): Promise<{ values: Record<string,
   let real = true;
   for (const p of r.params) {
     if (p === 'slug' || p === 'workspace') continue;
-    const make = ID_FIXTURES[resourceOf(r.pattern, p) ?? ''];
+    const resource = resourceOf(r.pattern, p) ?? '';
+    const make = ID_FIXTURES[resource] ?? BILLING_ID_FIXTURES[resource];
     if (make) values[p] = String(await make(ws));
     else {
       values[p] = '999999999';
@@ -169,7 +145,7 @@ describe('every role x every workspace route and method x own and other workspac
         }
       }
     }
-    if (ambiguous.size) console.info(`[authz] ${ambiguous.size} route(s) checked with a missing id (add a fixture): ${[...ambiguous].join(', ')}`);
+    expect([...ambiguous], 'routes checked with a missing id, whose 404 proves nothing: add a fixture in fixtures.ts').toEqual([]);
     console.info(`[authz] ${calls} member calls over ${workspaceRoutes.length} workspace route files`);
     expect(failures).toEqual([]);
   });

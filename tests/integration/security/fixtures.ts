@@ -1,6 +1,8 @@
-import { apiRequest, call, sessionCookie } from '../../support/test-db';
+import { TEST_ORIGIN, apiRequest, call, sessionCookie } from '../../support/test-db';
 import { db, nowIso } from '@/db/client';
 import { createApiKey } from '@/db/api-keys';
+import { getBilling } from '@/db/billing';
+import { env } from '@/lib/env';
 
 /** A small valid flight (DESIGN.md's screenFlight input). */
 export const FLIGHT = {
@@ -25,7 +27,7 @@ export interface Ws {
   owner: { id: number };
 }
 
-type Maker = (ws: Ws) => Promise<number>;
+type Maker = (ws: Ws) => Promise<number | string>;
 
 const unique = () => `${Date.now().toString(36)}${Math.random().toString(36).slice(2, 7)}`;
 
@@ -39,6 +41,25 @@ async function viaPost(ws: Ws, handler: unknown, resource: string, body: unknown
 async function fleet(ws: Ws): Promise<number> {
   const [row] = await db()('fleets').insert({ workspace_id: ws.id, name: `Fixture fleet ${unique()}`, description: '', created_at: nowIso() }).returning('id');
   return Number(typeof row === 'object' ? row.id : row);
+}
+
+const invoiceOf = new Map<number, Promise<string>>();
+
+/** Subscribes the workspace (trial over) and has the payment fake close its first period: one paid invoice. */
+async function makeInvoice(ws: Ws): Promise<string> {
+  await db()('workspace_billing').where({ workspace_id: ws.id }).update({ trial_ends_at: new Date(Date.now() - 1000).toISOString() });
+  const { POST } = await import('@/app/api/v1/workspaces/[slug]/billing/subscription/route');
+  const sub = await call(POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/billing/subscription`, { cookie: await sessionCookie(ws.owner.id), body: { planId: 'crew', card: 'succeeds' }, origin: TEST_ORIGIN }), { slug: ws.slug });
+  if (sub.status >= 300) throw new Error(`fixture invoices: subscribing answered ${sub.status}`);
+  const billing = await getBilling({ workspaceId: ws.id });
+  const res = await fetch(`http://127.0.0.1:${env().STRIPE_API_PORT}/_fake/advance`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json' },
+    body: JSON.stringify({ subscription: billing?.subscriptionId, wait: true }),
+  });
+  const body = (await res.json()) as { invoice?: { id?: string } };
+  if (!res.ok || typeof body.invoice?.id !== 'string') throw new Error(`fixture invoices: the fake answered ${res.status}`);
+  return body.invoice.id;
 }
 
 /**
@@ -62,6 +83,18 @@ export const ID_FIXTURES: Record<string, Maker> = {
       .insert({ workspace_id: ws.id, kind: 'schedule', file_name: 'fixture.csv', file_hash: unique().padEnd(64, '0').slice(0, 64), status: 'complete', rows: 0, rows_done: 0, created_by: ws.owner.id, created_at: nowIso(), finished_at: nowIso() })
       .returning('id');
     return Number(typeof row === 'object' ? row.id : row);
+  },
+};
+
+/**
+ * Fixtures that need the local payment fake: only for files that run under useBillingHarness (the
+ * authorisation matrix). One invoice per workspace is enough (the PDF route only reads it).
+ */
+export const BILLING_ID_FIXTURES: Record<string, Maker> = {
+  invoices: async (ws) => {
+    const made = invoiceOf.get(ws.id) ?? makeInvoice(ws);
+    invoiceOf.set(ws.id, made);
+    return made;
   },
 };
 

@@ -1,4 +1,3 @@
-import net from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { apiRequest, call, makeWorkspace, sessionCookie, useTestDatabase } from '../../support/test-db';
 import { attemptSignIn, forgetLimiters } from './signin';
@@ -15,15 +14,7 @@ import { sendMail } from '@/lib/mail/mailer';
 import { passwordResetMail } from '@/lib/mail/templates';
 import { authOptions } from '@/lib/auth/options';
 import { startSmtpFake, type SmtpFake } from '@/lib/fakes/smtp/server';
-
-function freePort(): Promise<number> {
-  return new Promise((resolve) => {
-    const s = net.createServer().listen(0, '127.0.0.1', () => {
-      const a = s.address();
-      s.close(() => resolve(typeof a === 'object' && a ? a.port : 0));
-    });
-  });
-}
+import { freePort } from '../../support/free-port';
 
 const smtpPort = await freePort();
 const httpPort = await freePort();

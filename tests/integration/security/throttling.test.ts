@@ -7,6 +7,7 @@ import * as previewRoute from '@/app/api/v1/workspaces/[slug]/screenings/preview
 import { createUser } from '@/db/users';
 import { hashPassword } from '@/lib/auth/password';
 import { limitEmailSend } from '@/lib/auth/throttle';
+import { authOptions } from '@/lib/auth/options';
 import { AppError } from '@/lib/errors';
 
 useTestDatabase({ RATE_LIMIT_SIGNIN_PER_15MIN: '3', RATE_LIMIT_API_PER_MIN: '25', RATE_LIMIT_PREVIEW_PER_MIN: '4', RATE_LIMIT_EMAIL_PER_HOUR: '2' });
@@ -80,12 +81,29 @@ describe('API and preview throttling', () => {
 });
 
 describe('e-mail throttling', () => {
-  it('sign-in links, resets and invitations to one address stop after the hourly limit', async () => {
-    await limitEmailSend('reset', 'a@example.test');
-    await limitEmailSend('reset', 'a@example.test');
-    const err = await limitEmailSend('reset', 'a@example.test').catch((e: unknown) => e);
+  type SendVerification = (params: { identifier: string; url: string }) => Promise<void>;
+  const sendSignInLink = (to: string): Promise<void> => {
+    const provider = authOptions().providers.find((p) => p.id === 'email') as unknown as { options: { sendVerificationRequest: SendVerification } };
+    return provider.options.sendVerificationRequest({ identifier: to, url: 'http://127.0.0.1:3999/api/auth/callback/email?token=x' });
+  };
+
+  it('sign-in links to one address stop after the hourly limit (the e-mail provider refuses the third with the limit message)', async () => {
+    // An address with no account: the provider sends no mail for it, but the request still counts.
+    const to = `nobody-${Date.now()}@example.test`;
+    await sendSignInLink(to);
+    await sendSignInLink(to);
+    await expect(sendSignInLink(to)).rejects.toThrow('Too many e-mails were requested for this address');
+    await expect(sendSignInLink(`other-${to}`)).resolves.toBeUndefined();
+  });
+
+  it.each(['reset', 'invite'] as const)('%s e-mails to one address stop after the hourly limit; another address and the other kinds keep their own count', async (kind) => {
+    const to = `${kind}-${Date.now()}@example.test`;
+    await limitEmailSend(kind, to);
+    await limitEmailSend(kind, to);
+    const err = await limitEmailSend(kind, to).catch((e: unknown) => e);
     expect(err).toBeInstanceOf(AppError);
     expect((err as AppError).code).toBe('throttled');
-    await expect(limitEmailSend('reset', 'b@example.test')).resolves.toBeUndefined();
+    await expect(limitEmailSend(kind, `b-${to}`)).resolves.toBeUndefined();
+    await expect(limitEmailSend(kind === 'reset' ? 'invite' : 'reset', to)).resolves.toBeUndefined();
   });
 });

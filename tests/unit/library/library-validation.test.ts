@@ -1,6 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { aircraftTypeSaveSchema, engineSaveSchema, observedAtSchema, parseWaypointLines, routeFormSchema, formatWaypointLines } from '@/lib/validation/library';
 import { cruiseEiCheck, TYPICAL_CRUISE_EI_G_PER_KG } from '@/components/library/cruise-ei-check';
+import { flightLevelToMetres, isa } from '@/lib/screening/atmosphere';
+import { BFFM2_INSTALLATION_FACTORS, bffm2EiNox, buildEiCurve } from '@/lib/screening/emission-index';
 
 describe('route form', () => {
   it('reads codes (several per line) and lat, lon lines; blank lines skipped', () => {
@@ -61,8 +63,11 @@ describe('observation time', () => {
 });
 
 describe('cruise EI check', () => {
-  it('is the BFFM2 value at FL350, M0.80, ISA: higher certification EI gives a higher cruise EI', () => {
+  it('is the BFFM2 EI at FL350, M0.80, ISA and 30 % of take-off fuel flow; doubling every certification EI doubles it', () => {
     const engine = { fuelFlowKgS: [0.1, 0.3, 0.9, 1.1] as const, eiNoxGPerKg: [4.5, 10.2, 22.8, 30.5] as const };
+    const air = isa(flightLevelToMetres(350));
+    const direct = bffm2EiNox(buildEiCurve(engine, BFFM2_INSTALLATION_FACTORS), { fuelFlowPerEngineKgS: 0.33, pressurePa: air.pressurePa, temperatureK: air.temperatureK, mach: 0.8 });
+    expect(cruiseEiCheck(engine).eiNoxGPerKg).toBeCloseTo(direct.eiNoxGPerKg, 12);
     const doubled = { ...engine, eiNoxGPerKg: engine.eiNoxGPerKg.map((e) => e * 2) as unknown as readonly [number, number, number, number] };
     const a = cruiseEiCheck(engine);
     const b = cruiseEiCheck(doubled);

@@ -46,6 +46,10 @@ describe('Goff-Gratch saturation vapour pressure over water', () => {
     // Python reimplementation of the same published formulas (outside this code base): H = 0.118564.
     expect(Math.abs(humidityTerm(0.6, p, t) - 0.118564) / 0.118564).toBeLessThan(0.003);
   });
+
+  it('H = -19.0 (omega - 0.0063) in size: +0.1197 for dry air at 15 °C, 1013.25 hPa (BFFM2, DuBois & Paynter 2006)', () => {
+    expect(humidityTerm(0, 101_325, 288.15)).toBeCloseTo(19 * 0.0063, 12);
+  });
 });
 
 describe('log-log certification curve', () => {

@@ -145,7 +145,7 @@ describe('engine certification data', () => {
     expect(r.meanCruiseEiNoxGPerKg).toBeCloseTo(r.eiComparison!.dlr, 9);
   });
 
-  it('a lower relative humidity raises the EI (H = -19 (omega - 0.00634), BFFM2)', () => {
+  it('a lower relative humidity raises the EI (the sign of BFFM2\'s H = -19 (omega - 0.00634); its size is checked in emission-index.test.ts)', () => {
     const dry = screenFlight({ ...twin, assumptions: { relativeHumidity: 0 } });
     const moist = screenFlight({ ...twin, assumptions: { relativeHumidity: 1 } });
     expect(dry.meanCruiseEiNoxGPerKg).toBeGreaterThan(moist.meanCruiseEiNoxGPerKg);
@@ -266,7 +266,7 @@ describe('assumption overrides', () => {
     expect(r.ozoneLoss.centralKg).toBeLessThan(base.ozoneLoss.centralKg);
   });
 
-  it('a custom ozone profile scales the figure about linearly in ozone (weak f_NO2 dependence)', () => {
+  it('doubling a custom ozone profile raises the figure 1.9 to 4 times (more ozone, more loss; the NO2 fraction shifts too)', () => {
     const flat = (ppmv: number) => ({ altitudeKm: [0, 40], ppmv: [ppmv, ppmv] });
     const one = screenFlight(transatlantic({ assumptions: { ozoneProfile: flat(0.5) } }));
     const two = screenFlight(transatlantic({ assumptions: { ozoneProfile: flat(1.0) } }));

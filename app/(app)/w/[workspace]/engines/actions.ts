@@ -1,61 +1,42 @@
 'use server';
 
 import { revalidatePath } from 'next/cache';
-import { requireActionMember } from '@/lib/auth/guards';
 import { createAircraftType, createEngine, deleteAircraftType, deleteEngine, updateAircraftType, updateEngine } from '@/db/engines';
 import { aircraftTypeSaveSchema, engineSaveSchema } from '@/lib/validation/library';
-import { fromZod, toActionState, type ActionState } from '@/lib/errors';
+import { noInput, workspaceRowAction } from '@/lib/actions/workspace-action';
 
 /** Creates (id null) or replaces an engine. */
-export async function saveEngineAction(slug: string, id: number | null, raw: unknown): Promise<ActionState<{ id: number }>> {
-  try {
-    const ctx = await requireActionMember(slug, 'library:write');
-    const parsed = engineSaveSchema.safeParse(raw);
-    if (!parsed.success) throw fromZod(parsed.error);
-    const by = { userId: ctx.user.id, actor: ctx.user.email };
+export const saveEngineAction = workspaceRowAction(
+  'library:write',
+  engineSaveSchema,
+  async (ctx, id, input) => {
     const scope = { workspaceId: ctx.workspace.id };
-    const engine = id === null ? await createEngine(scope, parsed.data, by) : await updateEngine(scope, id, parsed.data, by);
-    revalidatePath(`/w/${slug}/engines`);
-    return { ok: true, data: { id: engine.id }, message: id === null ? `Added “${engine.name}”.` : 'Changes saved.' };
-  } catch (err) {
-    return toActionState(err);
-  }
-}
+    const engine = id === null ? await createEngine(scope, input, ctx.by) : await updateEngine(scope, id, input, ctx.by);
+    revalidatePath(`/w/${ctx.slug}/engines`);
+    return { data: { id: engine.id }, message: id === null ? `Added “${engine.name}”.` : 'Changes saved.' };
+  },
+  { create: true },
+);
 
-export async function deleteEngineAction(slug: string, id: number): Promise<ActionState> {
-  try {
-    const ctx = await requireActionMember(slug, 'library:write');
-    await deleteEngine({ workspaceId: ctx.workspace.id }, id, { userId: ctx.user.id, actor: ctx.user.email });
-    revalidatePath(`/w/${slug}/engines`);
-    return { ok: true };
-  } catch (err) {
-    return toActionState(err);
-  }
-}
+export const deleteEngineAction = workspaceRowAction('library:write', noInput, async (ctx, id) => {
+  await deleteEngine({ workspaceId: ctx.workspace.id }, id, ctx.by);
+  revalidatePath(`/w/${ctx.slug}/engines`);
+});
 
 /** Creates (id null) or replaces an aircraft type. */
-export async function saveAircraftTypeAction(slug: string, id: number | null, raw: unknown): Promise<ActionState<{ id: number }>> {
-  try {
-    const ctx = await requireActionMember(slug, 'library:write');
-    const parsed = aircraftTypeSaveSchema.safeParse(raw);
-    if (!parsed.success) throw fromZod(parsed.error);
-    const by = { userId: ctx.user.id, actor: ctx.user.email };
+export const saveAircraftTypeAction = workspaceRowAction(
+  'library:write',
+  aircraftTypeSaveSchema,
+  async (ctx, id, input) => {
     const scope = { workspaceId: ctx.workspace.id };
-    const type = id === null ? await createAircraftType(scope, parsed.data, by) : await updateAircraftType(scope, id, parsed.data, by);
-    revalidatePath(`/w/${slug}/engines`);
-    return { ok: true, data: { id: type.id }, message: id === null ? `Added aircraft type ${type.code}.` : 'Changes saved.' };
-  } catch (err) {
-    return toActionState(err);
-  }
-}
+    const type = id === null ? await createAircraftType(scope, input, ctx.by) : await updateAircraftType(scope, id, input, ctx.by);
+    revalidatePath(`/w/${ctx.slug}/engines`);
+    return { data: { id: type.id }, message: id === null ? `Added aircraft type ${type.code}.` : 'Changes saved.' };
+  },
+  { create: true },
+);
 
-export async function deleteAircraftTypeAction(slug: string, id: number): Promise<ActionState> {
-  try {
-    const ctx = await requireActionMember(slug, 'library:write');
-    await deleteAircraftType({ workspaceId: ctx.workspace.id }, id, { userId: ctx.user.id, actor: ctx.user.email });
-    revalidatePath(`/w/${slug}/engines`);
-    return { ok: true };
-  } catch (err) {
-    return toActionState(err);
-  }
-}
+export const deleteAircraftTypeAction = workspaceRowAction('library:write', noInput, async (ctx, id) => {
+  await deleteAircraftType({ workspaceId: ctx.workspace.id }, id, ctx.by);
+  revalidatePath(`/w/${ctx.slug}/engines`);
+});

@@ -1,27 +1,15 @@
 'use server';
 
 import { revalidatePath } from 'next/cache';
-import { z } from 'zod';
-import { requireActionMember } from '@/lib/auth/guards';
 import { deleteImport } from '@/db/imports';
-import { fromZod, toActionState, type ActionState } from '@/lib/errors';
-
-const idSchema = z.coerce.number({ error: 'The import id must be a number.' }).int().positive({ error: 'The import id must be a number.' });
+import { noInput, workspaceRowAction } from '@/lib/actions/workspace-action';
 
 /** Deletes an import and its flights; units already billed stay in the ledger. */
-export async function deleteImportAction(slug: string, rawId: unknown): Promise<ActionState> {
-  try {
-    const ctx = await requireActionMember(slug, 'imports:delete');
-    const id = idSchema.safeParse(rawId);
-    if (!id.success) throw fromZod(id.error, 'id');
-    const r = await deleteImport({ workspaceId: ctx.workspace.id }, id.data, { userId: ctx.user.id, label: ctx.user.email });
-    revalidatePath(`/w/${slug}/imports`);
-    revalidatePath(`/w/${slug}/flights`);
-    return {
-      ok: true,
-      message: `Import #${r.id} (${r.fileName}) and its ${r.flightsDeleted} flights were deleted. ${r.billedUnitsKept} unit${r.billedUnitsKept === 1 ? '' : 's'} already billed stay billed.`,
-    };
-  } catch (err) {
-    return toActionState(err);
-  }
-}
+export const deleteImportAction = workspaceRowAction('imports:delete', noInput, async (ctx, id) => {
+  const r = await deleteImport({ workspaceId: ctx.workspace.id }, id, { userId: ctx.user.id, label: ctx.user.email });
+  revalidatePath(`/w/${ctx.slug}/imports`);
+  revalidatePath(`/w/${ctx.slug}/flights`);
+  return {
+    message: `Import #${r.id} (${r.fileName}) and its ${r.flightsDeleted} flights were deleted. ${r.billedUnitsKept} unit${r.billedUnitsKept === 1 ? '' : 's'} already billed stay billed.`,
+  };
+});

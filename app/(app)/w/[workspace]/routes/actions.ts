@@ -1,10 +1,11 @@
 'use server';
 
 import { revalidatePath } from 'next/cache';
-import { requireActionMember } from '@/lib/auth/guards';
-import { createRoute, deleteRoute, updateRoute } from '@/db/routes';
+import { deleteRoute } from '@/db/routes';
+import { createRoute, updateRoute } from '@/lib/library/routes';
 import { routeFormSchema, waypointProblemMessage } from '@/lib/validation/library';
-import { fromZod, toActionState, type ActionState } from '@/lib/errors';
+import type { ActionState } from '@/lib/errors';
+import { noInput, workspaceRowAction } from '@/lib/actions/workspace-action';
 
 /** Server problems at `waypoints.N...` belong beside the waypoint box of the form. */
 function onFormFields(state: ActionState<never>): ActionState<never> {
@@ -14,28 +15,19 @@ function onFormFields(state: ActionState<never>): ActionState<never> {
 }
 
 /** Creates (id null) or replaces a saved route from the route form's values. */
-export async function saveRouteAction(slug: string, id: number | null, raw: unknown): Promise<ActionState<{ id: number }>> {
-  try {
-    const ctx = await requireActionMember(slug, 'library:write');
-    const parsed = routeFormSchema.safeParse(raw);
-    if (!parsed.success) throw fromZod(parsed.error);
-    const by = { userId: ctx.user.id, actor: ctx.user.email };
+export const saveRouteAction = workspaceRowAction(
+  'library:write',
+  routeFormSchema,
+  async (ctx, id, input) => {
     const scope = { workspaceId: ctx.workspace.id };
-    const route = id === null ? await createRoute(scope, parsed.data, by) : await updateRoute(scope, id, parsed.data, by);
-    revalidatePath(`/w/${slug}/routes`);
-    return { ok: true, data: { id: route.id }, message: id === null ? `Saved “${route.name}”.` : 'Changes saved.' };
-  } catch (err) {
-    return onFormFields(toActionState(err));
-  }
-}
+    const route = id === null ? await createRoute(scope, input, ctx.by) : await updateRoute(scope, id, input, ctx.by);
+    revalidatePath(`/w/${ctx.slug}/routes`);
+    return { data: { id: route.id }, message: id === null ? `Saved “${route.name}”.` : 'Changes saved.' };
+  },
+  { create: true, onError: onFormFields },
+);
 
-export async function deleteRouteAction(slug: string, id: number): Promise<ActionState> {
-  try {
-    const ctx = await requireActionMember(slug, 'library:write');
-    await deleteRoute({ workspaceId: ctx.workspace.id }, id, { userId: ctx.user.id, actor: ctx.user.email });
-    revalidatePath(`/w/${slug}/routes`);
-    return { ok: true };
-  } catch (err) {
-    return toActionState(err);
-  }
-}
+export const deleteRouteAction = workspaceRowAction('library:write', noInput, async (ctx, id) => {
+  await deleteRoute({ workspaceId: ctx.workspace.id }, id, ctx.by);
+  revalidatePath(`/w/${ctx.slug}/routes`);
+});

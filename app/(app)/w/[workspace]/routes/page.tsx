@@ -1,7 +1,8 @@
 import Link from 'next/link';
 import { requireMember } from '@/lib/auth/guards';
 import { can } from '@/lib/auth/policy';
-import { listRoutes, routeLengthKm } from '@/db/routes';
+import { listRoutes } from '@/db/routes';
+import { routeLengthKm } from '@/lib/library/routes';
 import { Card, EmptyState, PageHeader } from '@/components/ui/card';
 import { ButtonLink } from '@/components/ui/button';
 import { formatDistance } from '@/lib/format';

@@ -1,17 +1,10 @@
 'use server';
 
 import { revalidatePath } from 'next/cache';
-import { requireActionMember } from '@/lib/auth/guards';
 import { deleteSounding } from '@/db/soundings';
-import { toActionState, type ActionState } from '@/lib/errors';
+import { noInput, workspaceRowAction } from '@/lib/actions/workspace-action';
 
-export async function deleteSoundingAction(slug: string, id: number): Promise<ActionState> {
-  try {
-    const ctx = await requireActionMember(slug, 'library:write');
-    await deleteSounding({ workspaceId: ctx.workspace.id }, id, { userId: ctx.user.id, actor: ctx.user.email });
-    revalidatePath(`/w/${slug}/soundings`);
-    return { ok: true };
-  } catch (err) {
-    return toActionState(err);
-  }
-}
+export const deleteSoundingAction = workspaceRowAction('library:write', noInput, async (ctx, id) => {
+  await deleteSounding({ workspaceId: ctx.workspace.id }, id, ctx.by);
+  revalidatePath(`/w/${ctx.slug}/soundings`);
+});

@@ -12,6 +12,7 @@ import { FleetContext } from '@/components/fleets/fleet-context';
 import { FleetNoxChart } from '@/components/charts/fleet-nox-chart';
 import { ReportSendForm } from '@/components/reports/send-form';
 import { DeleteButton } from '@/components/ui/delete-button';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 import { deleteReportAction, sendReportAction } from '../actions';
 
 export const metadata = { title: 'Fleet report' };
@@ -63,7 +64,7 @@ export default async function ReportPage({ params }: { params: Promise<{ workspa
 
       <div className="mt-6">
         <Card title="Per fleet">
-          <div className="overflow-x-auto">
+          <ScrollRegion label="Per-fleet figures">
             <table className="figure w-full min-w-[640px] text-sm">
               <thead className="border-b border-line-strong text-left text-xs uppercase tracking-wide text-ink-soft">
                 <tr>
@@ -93,7 +94,7 @@ export default async function ReportPage({ params }: { params: Promise<{ workspa
                 ))}
               </tbody>
             </table>
-          </div>
+          </ScrollRegion>
           <p className="mt-2 text-xs text-ink-soft">{s.notes.co2} {s.notes.ratios}</p>
           {s.months.length ? (
             <div className="mt-5">

@@ -1,7 +1,8 @@
 import { notFound } from 'next/navigation';
 import { isAppError, requireMember } from '@/lib/auth/guards';
 import { can } from '@/lib/auth/policy';
-import { getRoute, routeLengthKm } from '@/db/routes';
+import { getRoute } from '@/db/routes';
+import { routeLengthKm } from '@/lib/library/routes';
 import { findAirport } from '@/lib/screening';
 import { legDistanceKm, resolveWaypoints } from '@/lib/screening/route';
 import { Card, PageHeader, Stat } from '@/components/ui/card';

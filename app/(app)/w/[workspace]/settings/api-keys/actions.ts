@@ -2,33 +2,17 @@
 
 import { revalidatePath } from 'next/cache';
 import { z } from 'zod';
-import { requireActionMember } from '@/lib/auth/guards';
 import { createApiKey, revokeApiKey } from '@/db/api-keys';
 import { apiKeyCreateSchema } from '@/lib/validation/workspaces';
-import { fromZod, toActionState, type ActionState } from '@/lib/errors';
+import { workspaceAction } from '@/lib/actions/workspace-action';
 
-export async function createApiKeyAction(slug: string, raw: unknown): Promise<ActionState<{ key: string; name: string }>> {
-  try {
-    const ctx = await requireActionMember(slug, 'apikeys:manage');
-    const parsed = apiKeyCreateSchema.safeParse(raw);
-    if (!parsed.success) throw fromZod(parsed.error);
-    const k = await createApiKey({ workspaceId: ctx.workspace.id }, { ...parsed.data, createdBy: ctx.user.id, actor: ctx.user.email });
-    revalidatePath(`/w/${slug}/settings/api-keys`);
-    return { ok: true, data: { key: k.key, name: k.name } };
-  } catch (err) {
-    return toActionState(err);
-  }
-}
+export const createApiKeyAction = workspaceAction('apikeys:manage', apiKeyCreateSchema, async (ctx, input) => {
+  const k = await createApiKey({ workspaceId: ctx.workspace.id }, { ...input, createdBy: ctx.user.id, actor: ctx.user.email });
+  revalidatePath(`/w/${ctx.slug}/settings/api-keys`);
+  return { data: { key: k.key, name: k.name } };
+});
 
-export async function revokeApiKeyAction(slug: string, raw: unknown): Promise<ActionState> {
-  try {
-    const ctx = await requireActionMember(slug, 'apikeys:manage');
-    const parsed = z.object({ id: z.coerce.number().int().positive() }).safeParse(raw);
-    if (!parsed.success) throw fromZod(parsed.error);
-    await revokeApiKey({ workspaceId: ctx.workspace.id }, { id: parsed.data.id, actorId: ctx.user.id, actor: ctx.user.email });
-    revalidatePath(`/w/${slug}/settings/api-keys`);
-    return { ok: true };
-  } catch (err) {
-    return toActionState(err);
-  }
-}
+export const revokeApiKeyAction = workspaceAction('apikeys:manage', z.object({ id: z.coerce.number().int().positive() }), async (ctx, { id }) => {
+  await revokeApiKey({ workspaceId: ctx.workspace.id }, { id, actorId: ctx.user.id, actor: ctx.user.email });
+  revalidatePath(`/w/${ctx.slug}/settings/api-keys`);
+});

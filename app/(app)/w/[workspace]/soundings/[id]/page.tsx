@@ -10,6 +10,7 @@ import { Notice } from '@/components/ui/notice';
 import { formatAltitude, formatDateTime, formatNumber } from '@/lib/format';
 import { SoundingChart, type ProfilePoint } from '@/components/charts/sounding-chart';
 import { DeleteButton } from '@/components/ui/delete-button';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 import { flightLevelAtPressure } from '@/components/library/format';
 import { deleteSoundingAction } from '../actions';
 
@@ -83,7 +84,7 @@ export default async function SoundingPage({ params }: { params: Promise<{ works
       </Card>
       <div className={canWrite ? 'grid items-start gap-6 lg:grid-cols-[minmax(0,3fr)_minmax(16rem,1fr)]' : ''}>
         <Card title="Levels">
-          <div className="max-h-[32rem] overflow-auto">
+          <ScrollRegion label="Sounding levels" className="max-h-[32rem] overflow-auto">
             <table className="w-full text-sm">
               <thead className="sticky top-0 bg-paper-raised text-left text-xs uppercase tracking-wide text-ink-soft">
                 <tr>
@@ -118,7 +119,7 @@ export default async function SoundingPage({ params }: { params: Promise<{ works
                 })}
               </tbody>
             </table>
-          </div>
+          </ScrollRegion>
           <p className="mt-2 text-xs text-ink-faint">* computed: altitudes from pressure by the hypsometric equation, pressures from altitude.</p>
         </Card>
         {canWrite ? (

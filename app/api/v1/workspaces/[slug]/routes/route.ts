@@ -1,5 +1,6 @@
 import { json, readJson, workspaceRoute } from '@/lib/api/route';
-import { createRoute, listRoutes, routeWithDistance as routeBody } from '@/db/routes';
+import { listRoutes } from '@/db/routes';
+import { createRoute, routeWithDistance as routeBody } from '@/lib/library/routes';
 import { routeSaveSchema } from '@/lib/validation/library';
 
 /** Saved routes of the workspace, by name: `{ items }`. */

@@ -1,5 +1,6 @@
 import { json, readJson, workspaceRoute } from '@/lib/api/route';
-import { createSounding, listSoundings } from '@/db/soundings';
+import { listSoundings } from '@/db/soundings';
+import { createSounding } from '@/lib/library/soundings';
 import { soundingCreateSchema } from '@/lib/validation/library';
 
 /** Soundings of the workspace, newest first: `{ items }`, each with its levels and tropopause (or null). */

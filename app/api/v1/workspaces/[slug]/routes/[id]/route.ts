@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { idParam, json, readJson, workspaceRoute } from '@/lib/api/route';
-import { deleteRoute, getRoute, routeWithDistance as routeBody, updateRoute } from '@/db/routes';
+import { deleteRoute, getRoute } from '@/db/routes';
+import { routeWithDistance as routeBody, updateRoute } from '@/lib/library/routes';
 import { routeSaveSchema } from '@/lib/validation/library';
 import { fromZod } from '@/lib/errors';
 

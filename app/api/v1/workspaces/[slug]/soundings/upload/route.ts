@@ -1,5 +1,5 @@
 import { json, workspaceRoute } from '@/lib/api/route';
-import { createSounding } from '@/db/soundings';
+import { createSounding } from '@/lib/library/soundings';
 import { csvRejection, readCsvUpload } from '@/lib/imports/csv';
 import { levelProblemsToCsv, parseSoundingCsv } from '@/lib/imports/soundings-csv';
 import { LIBRARY_CSV_MAX_BYTES, soundingMetaSchema } from '@/lib/validation/library';
