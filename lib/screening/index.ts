@@ -45,6 +45,18 @@ export {
 export { findAirport, searchAirports, type Airport } from './airports';
 export { routeDistanceKm, MAX_SEGMENT_KM } from './route';
 export {
+  parseFlightPlanRoute,
+  formatFlightPlanCoordinate,
+  type FlightPlanRoute,
+  type FlightPlanOptions,
+  type FlightPlanFix,
+  type FlightPlanAirway,
+  type FlightPlanWaypoint,
+  type FlightPlanSpeed,
+  type FlightPlanItem,
+  type UnresolvedItem,
+} from './flight-plan';
+export {
   screenFlight,
   screenValidated,
   screenTotals,
