@@ -1,11 +1,19 @@
 import 'server-only';
 import { findAirport } from '@/lib/screening';
 import type { ScreeningInput } from '@/lib/validation/screening';
+import type { ScreeningResult } from '@/lib/screening';
 import type { MapPoint } from '@/components/maps/route-map';
 
-/** The route's points for the map: airports by their ICAO code (IATA when it has none), coordinates as given. */
-export function mapPointsFor(input: ScreeningInput): MapPoint[] {
+/**
+ * The route's points for the map: airports by their ICAO code (IATA when it has none), coordinates as
+ * given; for a flight plan, the points the screening placed (named as in the text).
+ */
+export function mapPointsFor(input: ScreeningInput, result?: Pick<ScreeningResult, 'flightPlan'>): MapPoint[] {
   const out: MapPoint[] = [];
+  if ('flightPlan' in input.route) {
+    for (const w of result?.flightPlan?.waypoints ?? []) out.push({ lat: w.lat, lon: w.lon, label: w.name ?? null });
+    return out;
+  }
   for (const w of input.route.waypoints) {
     if ('airport' in w) {
       const a = findAirport(w.airport);

@@ -3,6 +3,7 @@
  * the planned level, and the lowest-impact level within the planner's limit marked.
  */
 import { screenTotals, type ScreeningTotals } from './screen-flight';
+import { expandFlightPlanInput, type RouteLibrary } from './flight-plan';
 import { validateCompareOptions, validateScreeningInput } from './validate';
 import { SCREENING_LIMITS, type ScreeningInput } from '../validation/screening';
 
@@ -52,14 +53,16 @@ export function compareCruiseLevels(
 
 /**
  * As `compareCruiseLevels` for an already-validated input and options. `planned`, when given, is
- * the screening of `base` itself (for example the result shown beside the rows) and stands in for
+ * the screening of `input` itself (for example the result shown beside the rows) and stands in for
  * the unshifted level instead of screening it again.
  */
 export function compareValidated(
-  base: ScreeningInput,
+  input: ScreeningInput,
   opts: { deltasFt?: readonly number[]; fuelPenaltyPctPer1000Ft?: number; maxFuelPenaltyPct?: number },
   planned?: ScreeningTotals,
+  library?: RouteLibrary,
 ): CruiseLevelRow[] {
+  const base = expandFlightPlanInput(input, library).input;
   const deltas = [...new Set(opts.deltasFt ?? DEFAULT_LEVEL_DELTAS_FT)].sort((a, b) => a - b);
   const perK = opts.fuelPenaltyPctPer1000Ft ?? DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT;
   const limit = opts.maxFuelPenaltyPct ?? DEFAULT_MAX_FUEL_PENALTY_PCT;

@@ -5,7 +5,14 @@
  * every item that cannot be placed is listed in `unresolved` with its character offset and a reason.
  */
 import { findAirport } from './airports';
+import { ScreeningInputError } from './errors';
 import { EARTH_RADIUS_M, legDistanceKm } from './route';
+import {
+  SCREENING_LIMITS,
+  type FieldProblem,
+  type ScreeningInput,
+  type WaypointsScreeningInput,
+} from '../validation/screening';
 
 /** A named point of the caller's fix library. Degrees (WGS-84); `region` tells same-named points apart. */
 export interface FlightPlanFix {
@@ -694,5 +701,66 @@ function expandAirway(
     points: out,
     onAirway: true,
     note: `${name}: expanded through the airway library from ${entry} to ${exit.name} (${via})${missing.length > 0 ? `; ${missing.join(', ')} not in the fix library and skipped` : ''}.`,
+  };
+}
+
+/** The caller's named points and airways (a workspace's fix and airway libraries). */
+export interface RouteLibrary {
+  fixes?: readonly FlightPlanFix[];
+  airways?: readonly FlightPlanAirway[];
+}
+
+/** What the screening understood of a flight-plan route (kept on the result). */
+export interface FlightPlanUsed extends FlightPlanRoute {
+  text: string;
+  from: string;
+  to: string;
+  /** True when the text's levels were flown instead of the entered cruise. */
+  levelsFromText: boolean;
+}
+
+/**
+ * A screening input with a flight-plan route turned into the waypoints form: the parsed waypoints,
+ * and the text's levels as the cruise when it has any (the entered `cruise` otherwise). Inputs
+ * already given as waypoints come back unchanged with `flightPlan: null`. Throws ScreeningInputError
+ * at `route.flightPlan.*` when the aerodromes are unknown or the text leaves fewer than 2 points,
+ * more than 500 waypoints or more than 50 level changes.
+ */
+export function expandFlightPlanInput(
+  input: ScreeningInput,
+  library: RouteLibrary = {},
+): { input: WaypointsScreeningInput; flightPlan: FlightPlanUsed | null } {
+  const route = input.route;
+  if (!('flightPlan' in route)) return { input: { ...input, route }, flightPlan: null };
+  const { text, from, to } = route.flightPlan;
+  const parsed = parseFlightPlanRoute(text, { from, to, fixes: library.fixes, airways: library.airways });
+  const problems: FieldProblem[] = [];
+  for (const [field, code, role] of [['from', from, 'departure'], ['to', to, 'destination']] as const) {
+    if (findAirport(code) === null) {
+      problems.push({ path: `route.flightPlan.${field}`, message: `No ${role} aerodrome with the code ${code.toUpperCase()} is known: check the ICAO or IATA code.` });
+    }
+  }
+  if (problems.length === 0 && parsed.waypoints.length < SCREENING_LIMITS.minWaypoints) {
+    problems.push({ path: 'route.flightPlan.text', message: 'The flight plan gives no route that can be placed.' });
+  }
+  if (parsed.waypoints.length > SCREENING_LIMITS.maxWaypoints) {
+    problems.push({
+      path: 'route.flightPlan.text',
+      message: `The flight plan expands to ${parsed.waypoints.length} waypoints; a route may have at most ${SCREENING_LIMITS.maxWaypoints}.`,
+    });
+  }
+  if (parsed.cruise.steps.length > SCREENING_LIMITS.maxSteps) {
+    problems.push({
+      path: 'route.flightPlan.text',
+      message: `The flight plan has ${parsed.cruise.steps.length} level changes; a screening takes at most ${SCREENING_LIMITS.maxSteps}.`,
+    });
+  }
+  if (problems.length > 0) throw new ScreeningInputError(problems);
+  const steps = parsed.cruise.steps;
+  const levelsFromText = steps.length > 0;
+  const cruise = !levelsFromText ? input.cruise : steps.length === 1 ? { flightLevel: steps[0].flightLevel } : { steps: steps.map((st) => ({ ...st })) };
+  return {
+    input: { ...input, route: { waypoints: parsed.waypoints.map((w) => ({ lat: w.lat, lon: w.lon })) }, cruise },
+    flightPlan: { ...parsed, text, from: from.toUpperCase(), to: to.toUpperCase(), levelsFromText },
   };
 }

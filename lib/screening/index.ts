@@ -46,6 +46,7 @@ export { findAirport, searchAirports, type Airport } from './airports';
 export { routeDistanceKm, MAX_SEGMENT_KM } from './route';
 export {
   parseFlightPlanRoute,
+  expandFlightPlanInput,
   formatFlightPlanCoordinate,
   type FlightPlanRoute,
   type FlightPlanOptions,
@@ -55,6 +56,8 @@ export {
   type FlightPlanSpeed,
   type FlightPlanItem,
   type UnresolvedItem,
+  type RouteLibrary,
+  type FlightPlanUsed,
 } from './flight-plan';
 export {
   screenFlight,
@@ -81,4 +84,4 @@ export {
 } from './compare-levels';
 export { validateScreeningInput, validateCompareOptions, problemsFromZod } from './validate';
 export { ScreeningInputError } from './errors';
-export type { ScreeningInput, ScreeningInputRaw, FieldProblem } from '../validation/screening';
+export type { ScreeningInput, ScreeningInputRaw, FieldProblem, WaypointsScreeningInput } from '../validation/screening';

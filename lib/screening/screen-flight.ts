@@ -43,6 +43,7 @@ import {
   type ProfileSlotName,
 } from './ozone-loss';
 import { EARTH_RADIUS_M, MAX_SEGMENT_KM, planRoute, resolveWaypoints } from './route';
+import { expandFlightPlanInput, type FlightPlanUsed, type RouteLibrary } from './flight-plan';
 import {
   MID_MONTH_DAY_OF_YEAR,
   completeSounding,
@@ -184,6 +185,8 @@ export interface ScreeningResult {
   segments: ScreeningSegment[];
   cautions: string[];
   assumptions: string[];
+  /** What was understood of a flight-plan route: present when the route was given as one. */
+  flightPlan?: FlightPlanUsed;
 }
 
 interface IsaLevel {
@@ -360,19 +363,22 @@ export interface ScreeningTotals {
  * what the schema cannot know: unknown airports, a route with no length or antipodal legs, and a
  * sounding whose levels contradict each other.
  */
-export function screenValidated(input: ScreeningInput): ScreeningResult {
-  return screenCore(input, true);
+export function screenValidated(input: ScreeningInput, library?: RouteLibrary): ScreeningResult {
+  return screenCore(input, true, library);
 }
 
 /** As `screenValidated`, returning only the totals: no segments, texts, local budget or fleet context. */
-export function screenTotals(input: ScreeningInput): ScreeningTotals {
-  return screenCore(input, false);
+export function screenTotals(input: ScreeningInput, library?: RouteLibrary): ScreeningTotals {
+  return screenCore(input, false, library);
 }
 
-function screenCore(input: ScreeningInput, full: true): ScreeningResult;
-function screenCore(input: ScreeningInput, full: false): ScreeningTotals;
-function screenCore(input: ScreeningInput, full: boolean): ScreeningResult | ScreeningTotals {
+function screenCore(input: ScreeningInput, full: true, library?: RouteLibrary): ScreeningResult;
+function screenCore(input: ScreeningInput, full: false, library?: RouteLibrary): ScreeningTotals;
+function screenCore(rawInput: ScreeningInput, full: boolean, library?: RouteLibrary): ScreeningResult | ScreeningTotals {
   const cautions: string[] = BASE_CAUTIONS.slice();
+  // A flight-plan route is read into waypoints (and its levels into the cruise) before anything else.
+  const { input, flightPlan } = expandFlightPlanInput(rawInput, library);
+  if (flightPlan !== null && full) cautions.push(...flightPlanCautions(flightPlan));
   const { lat: wLat, lon: wLon } = resolveWaypoints(input.route.waypoints);
   const plan = planRoute(wLat, wLon);
   const totalKm = plan.totalKm;
@@ -779,8 +785,23 @@ function screenCore(input: ScreeningInput, full: boolean): ScreeningResult | Scr
     cautions,
     assumptions,
   };
+  if (flightPlan !== null) result.flightPlan = flightPlan;
   if (!direct) result.eiComparison = { bffm2: fuelB > 0 ? fuelBN / fuelB : 0, dlr: fuelB > 0 ? fuelDN / fuelB : 0 };
   return result;
+}
+
+function flightPlanCautions(fp: FlightPlanUsed): string[] {
+  const out: string[] = [];
+  if (fp.unresolved.length > 0) {
+    const list = fp.unresolved.map((u) => `${u.item || '(empty)'}${u.position !== null ? ` at character ${u.position + 1}` : ''}: ${u.reason}`);
+    out.push(`${fp.unresolved.length} item${fp.unresolved.length === 1 ? '' : 's'} of the flight plan could not be placed and ${fp.unresolved.length === 1 ? 'is' : 'are'} left out of the route: ${list.join(' ')}`);
+  }
+  out.push(
+    fp.levelsFromText
+      ? `The route and levels are those of the flight plan (${fp.waypoints.length} waypoints, ${fp.cruise.steps.length} level${fp.cruise.steps.length === 1 ? '' : 's'}); the entered cruise is not used.`
+      : `The route is that of the flight plan (${fp.waypoints.length} waypoints); it gives no level, so the entered cruise is flown.`,
+  );
+  return out;
 }
 
 /**

@@ -29,6 +29,12 @@ function collect(issues: readonly Issue[], prefix: readonly PropertyKey[], out: 
         collect(candidates[0], path, out);
         continue;
       }
+      // A form whose only complaint is a missing top-level key loses to one that has its key.
+      const present = candidates.filter((b) => !b.every((i) => i.code === 'invalid_type' && i.path.length === 1));
+      if (candidates.length > 1 && present.length === 1) {
+        collect(present[0], path, out);
+        continue;
+      }
     }
     if (issue.code === 'unrecognized_keys') {
       const keys = issue.keys.map((k) => `"${k}"`).join(', ');

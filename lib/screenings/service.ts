@@ -7,10 +7,12 @@ import {
   validateScreeningInput,
   validateCompareOptions,
   type CruiseLevelRow,
+  type RouteLibrary,
   type ScreeningInput,
   type ScreeningResult,
 } from '@/lib/screening';
 import { getAircraftForScreening } from '@/db/aircraft-lookup';
+import { loadRouteLibrary } from '@/db/route-library';
 import { badRequest, invalidFields, type FieldProblem } from '@/lib/errors';
 
 /** Fields a saved screening carries beside the engine input (the input plus an optional name). */
@@ -30,6 +32,8 @@ export interface ParsedScreeningBody {
   aircraftCode: string | null;
   input: ScreeningInput;
   whatIf?: unknown;
+  /** The workspace's fixes and airways when the route is a flight plan (empty otherwise). */
+  library: RouteLibrary;
 }
 
 /**
@@ -64,25 +68,29 @@ export async function parseScreeningBody(raw: unknown, scope: { workspaceId: num
     else throw err;
   }
   if (problems.length || !input) throw invalidFields(problems);
-  return { name: extras.success ? extras.data.name : undefined, aircraftCode, input, whatIf: extras.success ? extras.data.whatIf : undefined };
+  const library = 'flightPlan' in input.route ? await loadRouteLibrary(scope) : {};
+  return { name: extras.success ? extras.data.name : undefined, aircraftCode, input, whatIf: extras.success ? extras.data.whatIf : undefined, library };
 }
 
-/** Screens an input `parseScreeningBody` validated; airports unknown to the data still come back as 422. */
-export function runScreening(input: ScreeningInput): ScreeningResult {
-  return screenValidated(input);
+/**
+ * Screens an input `parseScreeningBody` validated, a flight-plan route read through the workspace's
+ * library; unknown airports and an unplaceable flight plan still come back as 422.
+ */
+export function runScreening(input: ScreeningInput, library?: RouteLibrary): ScreeningResult {
+  return screenValidated(input, library);
 }
 
 /**
  * The what-if levels of an input `parseScreeningBody` validated; `planned` is that input's own
  * screening when the caller already has it (it then is not screened again).
  */
-export function runWhatIf(input: ScreeningInput, whatIf: unknown, planned?: ScreeningResult): CruiseLevelRow[] {
+export function runWhatIf(input: ScreeningInput, whatIf: unknown, planned?: ScreeningResult, library?: RouteLibrary): CruiseLevelRow[] {
   const options = whatIf === undefined ? {} : whatIf;
   if (typeof options !== 'object' || options === null || Array.isArray(options)) {
     throw invalidFields([{ path: 'whatIf', message: 'whatIf must be an object { deltasFt?, fuelPenaltyPctPer1000Ft?, maxFuelPenaltyPct? }.' }]);
   }
   try {
-    return compareValidated(input, validateCompareOptions(options), planned);
+    return compareValidated(input, validateCompareOptions(options), planned, library);
   } catch (err) {
     if (err instanceof ScreeningInputError) {
       throw invalidFields(err.fields.map((f) => ({ path: f.path.replace(/^options\b/, 'whatIf'), message: f.message })));

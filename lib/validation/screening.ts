@@ -7,6 +7,7 @@ import { z } from 'zod';
 export const SCREENING_LIMITS = {
   minWaypoints: 2,
   maxWaypoints: 500,
+  maxFlightPlanChars: 10_000,
   maxSteps: 50,
   minFlightLevel: 0,
   maxFlightLevel: 660,
@@ -451,6 +452,50 @@ export const assumptionsSchema = z.strictObject({
     .optional(),
 });
 
+const airportCodeSchema = (label: string) =>
+  z
+    .string({ error: `${label} must be text, such as EGLL or LHR.` })
+    .trim()
+    .regex(/^[A-Za-z0-9]{3,4}$/, { error: `${label} has 3 letters (IATA, such as LHR) or 4 characters (ICAO, such as EGLL).` });
+
+/** A route given as waypoints: 2..500 points, each `{ lat, lon }` or `{ airport }`. */
+export const waypointsRouteSchema = z.object(
+  {
+    waypoints: z
+      .array(waypointSchema, { error: 'The waypoints must be a list.' })
+      .min(SCREENING_LIMITS.minWaypoints, { error: 'A route needs at least 2 waypoints.' })
+      .max(SCREENING_LIMITS.maxWaypoints, { error: `A route may have at most ${SCREENING_LIMITS.maxWaypoints} waypoints.` }),
+  },
+  { error: 'The route is required, as { waypoints: [...] } or { flightPlan: { text, from, to } }.' },
+);
+
+/**
+ * A route given as an ICAO flight plan: the item-15 route `text` (ICAO Doc 4444 Appendix 2) between
+ * the departure `from` and destination `to` (ICAO or IATA codes). Its levels, when it has any, are
+ * flown instead of `cruise`.
+ */
+export const flightPlanRouteSchema = z.strictObject({
+  flightPlan: z.strictObject(
+    {
+      text: z
+        .string({ error: 'The flight-plan route must be text, such as N0480F350 DCT 55N020W 55N030W DCT.' })
+        .trim()
+        .min(1, { error: 'Paste the flight-plan route (item 15), such as N0480F350 DCT 55N020W 55N030W DCT.' })
+        .max(SCREENING_LIMITS.maxFlightPlanChars, {
+          error: `A flight-plan route may have at most ${SCREENING_LIMITS.maxFlightPlanChars} characters.`,
+        }),
+      from: airportCodeSchema('The departure aerodrome'),
+      to: airportCodeSchema('The destination aerodrome'),
+    },
+    { error: 'The flight plan must be { text, from, to }.' },
+  ),
+});
+
+/** The route: `{ waypoints }` or `{ flightPlan: { text, from, to } }`. */
+export const routeSchema = z.union([waypointsRouteSchema, flightPlanRouteSchema], {
+  error: 'The route is required, as { waypoints: [...] } or { flightPlan: { text, from, to } }.',
+});
+
 function isRealDate(s: string): boolean {
   const y = Number(s.slice(0, 4));
   const m = Number(s.slice(5, 7));
@@ -466,15 +511,7 @@ function isRealDate(s: string): boolean {
  * optional tropopause override and assumption overrides. Client-safe (no Node imports).
  */
 export const screeningInputSchema = z.object({
-  route: z.object(
-    {
-      waypoints: z
-        .array(waypointSchema, { error: 'The waypoints must be a list.' })
-        .min(SCREENING_LIMITS.minWaypoints, { error: 'A route needs at least 2 waypoints.' })
-        .max(SCREENING_LIMITS.maxWaypoints, { error: `A route may have at most ${SCREENING_LIMITS.maxWaypoints} waypoints.` }),
-    },
-    { error: 'The route is required, as { waypoints: [...] }.' },
-  ),
+  route: routeSchema,
   cruise: cruiseSchema,
   mach: between('The Mach number', SCREENING_LIMITS.minMach, SCREENING_LIMITS.maxMach, '').optional(),
   fuelBurnKg: between('The fuel burn', SCREENING_LIMITS.minFuelKg, SCREENING_LIMITS.maxFuelKg, 'kg'),
@@ -493,6 +530,10 @@ export const screeningInputSchema = z.object({
 export type ScreeningInput = z.output<typeof screeningInputSchema>;
 /** A screening input as sent by a client (the schema's input). */
 export type ScreeningInputRaw = z.input<typeof screeningInputSchema>;
+/** A validated route: waypoints or a flight plan. */
+export type Route = z.output<typeof routeSchema>;
+/** A validated screening input whose route is given as waypoints. */
+export type WaypointsScreeningInput = Omit<ScreeningInput, 'route'> & { route: z.output<typeof waypointsRouteSchema> };
 /** A validated waypoint: `{ lat, lon }` in degrees or `{ airport }` code. */
 export type Waypoint = z.output<typeof waypointSchema>;
 /** A validated cruise: `{ flightLevel }` or `{ steps }`. */

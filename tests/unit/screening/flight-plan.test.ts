@@ -315,3 +315,55 @@ describe('round trip and robustness', () => {
     );
   });
 });
+
+describe('screening a flight-plan route (screenFlight with route.flightPlan)', () => {
+  const BASE = { cruise: { flightLevel: 330 }, fuelBurnKg: 40_000, emission: { eiNoxGPerKg: 14 }, month: 1 };
+
+  it('gives the same figures as the same waypoints and steps entered by hand', async () => {
+    const { screenFlight } = await import('@/lib/screening');
+    const text = 'M084F350 DCT 60N020W 63N030W/M084F370 65N040W DCT';
+    const fp = screenFlight({ ...BASE, route: { flightPlan: { text, from: 'EGLL', to: 'CYYZ' } } });
+    const parsed = parseFlightPlanRoute(text, { from: 'EGLL', to: 'CYYZ' });
+    const byHand = screenFlight({ ...BASE, route: { waypoints: parsed.waypoints.map((w) => ({ lat: w.lat, lon: w.lon })) }, cruise: { steps: parsed.cruise.steps } });
+    expect(fp.noxAboveTropopauseKg).toBe(byHand.noxAboveTropopauseKg);
+    expect(fp.distanceKm).toBe(byHand.distanceKm);
+    expect(fp.flightPlan?.cruise.steps.map((s) => s.flightLevel)).toEqual([350, 370]);
+    expect(fp.flightPlan?.levelsFromText).toBe(true);
+    expect(fp.cautions.some((c) => c.includes('levels are those of the flight plan'))).toBe(true);
+  });
+
+  it('keeps the entered cruise when the text has no level, and lists unplaced items in the cautions', async () => {
+    const { screenFlight } = await import('@/lib/screening');
+    const r = screenFlight({ ...BASE, route: { flightPlan: { text: 'DCT 60N020W QQQQQ 63N030W DCT', from: 'EGLL', to: 'CYYZ' } } });
+    expect(r.levels.map((l) => l.flightLevel)).toEqual([330]);
+    expect(r.flightPlan?.unresolved.map((u) => u.item)).toEqual(['DCT', 'QQQQQ']);
+    expect(r.cautions.some((c) => c.includes('QQQQQ at character 13'))).toBe(true);
+  });
+
+  it.each([
+    [{ text: '', from: 'EGLL', to: 'CYYZ' }, 'route.flightPlan.text'],
+    [{ text: 'N0480F350 DCT', from: 'QQQQ', to: 'CYYZ' }, 'route.flightPlan.from'],
+    [{ text: 'N0480F350 DCT', from: 'EGLL', to: 'ZZZZ' }, 'route.flightPlan.to'],
+    [{ text: 'N0480F350 DCT', from: 'EGLL' }, 'route.flightPlan.to'],
+    [{ text: 'N0480F350 DCT', from: 'EGLL', to: 'CYYZ', extra: 1 }, 'route.flightPlan'],
+  ])('field errors by path: %o -> %s', async (flightPlan, path) => {
+    const { screenFlight, ScreeningInputError } = await import('@/lib/screening');
+    let err: unknown;
+    try {
+      screenFlight({ ...BASE, route: { flightPlan } });
+    } catch (e) {
+      err = e;
+    }
+    expect(err).toBeInstanceOf(ScreeningInputError);
+    expect((err as InstanceType<typeof ScreeningInputError>).fields.map((f) => f.path)).toContain(path);
+  });
+
+  it('the what-if rows shift the levels read from the text', async () => {
+    const { compareCruiseLevels } = await import('@/lib/screening');
+    const rows = compareCruiseLevels({ ...BASE, route: { flightPlan: { text: 'M084F350 DCT 60N020W 63N030W/M084F370 DCT', from: 'EGLL', to: 'CYYZ' } } }, { deltasFt: [-2000, 0] });
+    expect(rows.map((r) => r.flightLevels)).toEqual([
+      [330, 350],
+      [350, 370],
+    ]);
+  });
+});

@@ -72,7 +72,7 @@ export default async function ScreeningResultPage({ params, searchParams }: { pa
   const { input, result } = record;
   const units = user.units;
   const series = profileSeries(result.segments, units);
-  const points = mapPointsFor(input);
+  const points = mapPointsFor(input, result);
   const label = routeLabel(input);
   const exportBase = `/api/v1/workspaces/${slug}/screenings/${record.id}/export`;
   const facts = [
