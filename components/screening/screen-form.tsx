@@ -25,6 +25,7 @@ import { formatAltitude, formatNumber } from '@/lib/format';
 import { AirportCombobox } from './airport-combobox';
 import { AssumptionFields } from './assumption-fields';
 import { ScreeningPreview, type PreviewResponse } from './screening-preview';
+import { FlightPlanEntry } from './flight-plan-entry';
 import { useDebouncedValue } from './use-debounced-value';
 
 export interface AircraftChoice {
@@ -321,10 +322,13 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
             options={[
               ['airports', 'Airports'],
               ['points', 'Coordinates'],
+              ['flightPlan', 'Flight plan'],
             ]}
             onChange={(v) => setValue('routeMode', v, { shouldValidate: formState.isSubmitted })}
           />
-          {values.routeMode === 'airports' ? (
+          {values.routeMode === 'flightPlan' ? (
+            <FlightPlanEntry slug={slug} form={form} errorAt={errorAt} understood={preview.data?.result.flightPlan} />
+          ) : values.routeMode === 'airports' ? (
             <div className="space-y-3">
               {airports.fields.map((f, i) => (
                 <div key={f.id} className="flex items-start gap-2">
