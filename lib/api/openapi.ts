@@ -63,7 +63,7 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   },
   '/workspaces/{slug}/screenings': {
     post: {
-      summary: "Screen and save one flight (one billable unit). Body: the screenFlight input plus optional name and aircraft (a type code of the workspace that supplies emission and Mach when absent). The route is { waypoints } or { flightPlan: { text, from, to } } (ICAO Doc 4444 item 15, named points and airways from the workspace's fix and airway libraries; its levels replace cruise); the result then carries flightPlan { waypoints, cruise.steps, speeds, unresolved, notes, items }. Idempotency-Key header supported.",
+      summary: "Screen and save one flight (one billable unit). Body: the screenFlight input plus optional name and aircraft (a type code of the workspace that supplies emission and Mach when absent). The route is { waypoints }, { flightPlan: { text, from, to } } (ICAO Doc 4444 item 15, named points and airways from the workspace's fix and airway libraries; its levels replace cruise; the result then carries flightPlan { waypoints, cruise.steps, speeds, unresolved, notes, items }) or { track: { points: { time?, lat, lon, flightLevel? | pressureAltitudeFt? }[] } } (2-20 000 points in time order; cruise optional; fuel spread by the points' times; the result carries track). Idempotency-Key header supported.",
       permission: 'screenings:create',
       requestBody: screeningInputSchema,
       responses: { '201': '{ id, name, createdAt, input, result }', '200': 'Idempotent replay of the first result', '402': 'Billing blocks new screenings' },

@@ -4,6 +4,7 @@
  */
 import { screenTotals, type ScreeningTotals } from './screen-flight';
 import { expandFlightPlanInput, type RouteLibrary } from './flight-plan';
+import { isTrackInput } from './track';
 import { validateCompareOptions, validateScreeningInput } from './validate';
 import { SCREENING_LIMITS, type ScreeningInput } from '../validation/screening';
 
@@ -76,14 +77,19 @@ export function compareValidated(
     }
     const fuelPenaltyPct = (perK * Math.abs(deltaFt)) / 1000;
     const fuelKg = base.fuelBurnKg * (1 + fuelPenaltyPct / 100);
+    // A track is shifted point by point, so its own times still spread the fuel.
+    const track = isTrackInput(input) ? shiftTrack(input, dFl) : null;
+    if (isTrackInput(input) && track === null) continue;
     const r =
       deltaFt === 0 && planned !== undefined
         ? planned
-        : screenTotals({
-            ...base,
-            cruise: 'steps' in base.cruise ? { steps: shifted } : { flightLevel: shifted[0].flightLevel },
-            fuelBurnKg: fuelKg,
-          });
+        : track !== null
+          ? screenTotals({ ...track, fuelBurnKg: fuelKg })
+          : screenTotals({
+              ...base,
+              cruise: 'steps' in base.cruise ? { steps: shifted } : { flightLevel: shifted[0].flightLevel },
+              fuelBurnKg: fuelKg,
+            });
     rows.push({
       flightLevel: shifted[0].flightLevel,
       flightLevels: shifted.map((s) => s.flightLevel),
@@ -109,6 +115,31 @@ export function compareValidated(
   }
   if (best !== null) best.lowestImpact = true;
   return rows;
+}
+
+/** A track input with every point's level (and the cruise) moved by `dFl`; null when one leaves FL0-FL660. */
+function shiftTrack(input: ScreeningInput, dFl: number): ScreeningInput | null {
+  if (!('track' in input.route)) return null;
+  const inRange = (fl: number) => fl >= SCREENING_LIMITS.minFlightLevel && fl <= SCREENING_LIMITS.maxFlightLevel;
+  const points = [];
+  for (const p of input.route.track.points) {
+    const q = { ...p };
+    if (q.flightLevel !== undefined) q.flightLevel += dFl;
+    if (q.pressureAltitudeFt !== undefined) q.pressureAltitudeFt += dFl * 100;
+    const fl = q.flightLevel ?? (q.pressureAltitudeFt !== undefined ? q.pressureAltitudeFt / 100 : null);
+    if (fl !== null && !inRange(fl)) return null;
+    points.push(q);
+  }
+  const c = input.cruise;
+  let cruise: ScreeningInput['cruise'];
+  if ('flightLevel' in c) {
+    if (!inRange(c.flightLevel + dFl)) return null;
+    cruise = { flightLevel: c.flightLevel + dFl };
+  } else {
+    if (!c.steps.every((s) => inRange(s.flightLevel + dFl))) return null;
+    cruise = { steps: c.steps.map((s) => ({ fromKm: s.fromKm, flightLevel: s.flightLevel + dFl })) };
+  }
+  return { ...input, route: { track: { points } }, cruise };
 }
 
 function better(a: CruiseLevelRow, b: CruiseLevelRow): boolean {

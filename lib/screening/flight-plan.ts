@@ -7,6 +7,7 @@
 import { findAirport } from './airports';
 import { ScreeningInputError } from './errors';
 import { EARTH_RADIUS_M, legDistanceKm } from './route';
+import { expandTrackInput } from './track';
 import {
   SCREENING_LIMITS,
   type FieldProblem,
@@ -722,7 +723,8 @@ export interface FlightPlanUsed extends FlightPlanRoute {
 /**
  * A screening input with a flight-plan route turned into the waypoints form: the parsed waypoints,
  * and the text's levels as the cruise when it has any (the entered `cruise` otherwise). Inputs
- * already given as waypoints come back unchanged with `flightPlan: null`. Throws ScreeningInputError
+ * already given as waypoints come back unchanged, and tracks as their waypoints and steps, with
+ * `flightPlan: null`. Throws ScreeningInputError
  * at `route.flightPlan.*` when the aerodromes are unknown or the text leaves fewer than 2 points,
  * more than 500 waypoints or more than 50 level changes.
  */
@@ -731,7 +733,8 @@ export function expandFlightPlanInput(
   library: RouteLibrary = {},
 ): { input: WaypointsScreeningInput; flightPlan: FlightPlanUsed | null } {
   const route = input.route;
-  if (!('flightPlan' in route)) return { input: { ...input, route }, flightPlan: null };
+  if ('waypoints' in route) return { input: { ...input, route }, flightPlan: null };
+  if ('track' in route) return { input: expandTrackInput({ ...input, route }).input, flightPlan: null };
   const { text, from, to } = route.flightPlan;
   const parsed = parseFlightPlanRoute(text, { from, to, fixes: library.fixes, airways: library.airways });
   const problems: FieldProblem[] = [];

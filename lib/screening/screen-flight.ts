@@ -43,7 +43,9 @@ import {
   type ProfileSlotName,
 } from './ozone-loss';
 import { EARTH_RADIUS_M, MAX_SEGMENT_KM, planRoute, resolveWaypoints } from './route';
-import { expandFlightPlanInput, type FlightPlanUsed, type RouteLibrary } from './flight-plan';
+import type { FlightPlanUsed, RouteLibrary } from './flight-plan';
+import { expandRouteInput } from './route-input';
+import type { TrackUsed } from './track';
 import {
   MID_MONTH_DAY_OF_YEAR,
   completeSounding,
@@ -187,6 +189,8 @@ export interface ScreeningResult {
   assumptions: string[];
   /** What was understood of a flight-plan route: present when the route was given as one. */
   flightPlan?: FlightPlanUsed;
+  /** What was made of a flown track: present when the route was given as one. */
+  track?: TrackUsed;
 }
 
 interface IsaLevel {
@@ -377,10 +381,10 @@ function screenCore(input: ScreeningInput, full: false, library?: RouteLibrary):
 function screenCore(rawInput: ScreeningInput, full: boolean, library?: RouteLibrary): ScreeningResult | ScreeningTotals {
   const cautions: string[] = BASE_CAUTIONS.slice();
   // A flight-plan route is read into waypoints (and its levels into the cruise) before anything else.
-  const { input, flightPlan } = expandFlightPlanInput(rawInput, library);
+  const { input, flightPlan, track, stepDurationsS } = expandRouteInput(rawInput, library);
   if (flightPlan !== null && full) cautions.push(...flightPlanCautions(flightPlan));
   const { lat: wLat, lon: wLon } = resolveWaypoints(input.route.waypoints);
-  const plan = planRoute(wLat, wLon);
+  const plan = planRoute(wLat, wLon, track !== null ? 'route.track.points' : undefined);
   const totalKm = plan.totalKm;
 
   // Season: month wins over flight date; neither gives the annual mean.
@@ -490,15 +494,19 @@ function screenCore(rawInput: ScreeningInput, full: boolean, library?: RouteLibr
   }
   const nSteps = stepFrom.length;
 
-  // Fuel spread in proportion to time; time = distance / (Mach x ISA speed of sound).
+  // Fuel spread in proportion to time: a track's own times, else distance / (Mach x ISA speed of sound).
+  const timedTrack = stepDurationsS !== null && stepDurationsS.length === nSteps;
   let totalTimeS = 0;
   for (let s = 0; s < nSteps; s++) {
     const end = s + 1 < nSteps ? stepFrom[s + 1] : totalKm;
-    totalTimeS += ((end - stepFrom[s]) * 1000) / levels[stepLevel[s]].tasMs;
+    totalTimeS += timedTrack ? stepDurationsS[s] : ((end - stepFrom[s]) * 1000) / levels[stepLevel[s]].tasMs;
   }
   const fuelKgPerS = input.fuelBurnKg / totalTimeS;
   const fuelPerKm: number[] = new Array<number>(nSteps);
-  for (let s = 0; s < nSteps; s++) fuelPerKm[s] = (fuelKgPerS * 1000) / levels[stepLevel[s]].tasMs;
+  for (let s = 0; s < nSteps; s++) {
+    const end = s + 1 < nSteps ? stepFrom[s + 1] : totalKm;
+    fuelPerKm[s] = timedTrack ? (fuelKgPerS * stepDurationsS[s]) / (end - stepFrom[s]) : (fuelKgPerS * 1000) / levels[stepLevel[s]].tasMs;
+  }
 
   // Emission index per level.
   let eiMethod: ScreeningResult['eiMethod'] = 'direct';
@@ -786,6 +794,12 @@ function screenCore(rawInput: ScreeningInput, full: boolean, library?: RouteLibr
     assumptions,
   };
   if (flightPlan !== null) result.flightPlan = flightPlan;
+  if (track !== null) {
+    result.track = track;
+    cautions.push(
+      `The track's own levels are screened leg by leg (each leg at the mean of its two ends, to the nearest flight level), climb and descent included; the fuel is spread ${timedTrack ? 'by the time between its points' : `by time at Mach ${fmt(machTiming, 2)}, as its points have no times`}.${track.pointsWithoutLevel > 0 ? ` ${track.pointsWithoutLevel} point${track.pointsWithoutLevel === 1 ? ' has' : 's have'} no level and take${track.pointsWithoutLevel === 1 ? 's' : ''} the entered cruise.` : ''}`,
+    );
+  }
   if (!direct) result.eiComparison = { bffm2: fuelB > 0 ? fuelBN / fuelB : 0, dlr: fuelB > 0 ? fuelDN / fuelB : 0 };
   return result;
 }
