@@ -108,13 +108,10 @@ interface PendingPoint {
   token: Token;
   name: string;
   candidates: FlightPlanWaypoint[];
-  /** Index into `entries` of the airway that leads to this point, if any. */
+  /** The airway that leads to this point, if any. */
   viaAirway: AirwayEntry | null;
   change: SpeedLevel | null;
   cruiseClimb: string | null;
-  kind: FlightPlanItem['kind'];
-  detail: string;
-  status: FlightPlanItem['status'];
 }
 
 interface AirwayEntry {
@@ -376,7 +373,7 @@ export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = 
     if (t === 'DCT') {
       if (isFirst || isLast) {
         notes.push(`DCT at the ${isFirst ? 'start' : 'end'} of the route is ignored: the route joins the aerodrome directly.`);
-        items.push({ item: t, position: tok.position, kind: 'direct', status: 'ignored', detail: 'Direct at the end of the route.' });
+        items.push({ item: t, position: tok.position, kind: 'direct', status: 'ignored', detail: `Direct at the ${isFirst ? 'start' : 'end'} of the route.` });
       } else {
         items.push({ item: t, position: tok.position, kind: 'direct', status: 'read', detail: 'Direct to the next point.' });
       }
@@ -477,9 +474,6 @@ export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = 
       viaAirway: pendingAirway,
       change,
       cruiseClimb,
-      kind: point.kind,
-      detail: point.detail,
-      status: point.status,
     };
     for (const n of point.notes) notes.push(n);
     points.push(pending);
@@ -765,5 +759,20 @@ export function expandFlightPlanInput(
   return {
     input: { ...input, route: { waypoints: parsed.waypoints.map((w) => ({ lat: w.lat, lon: w.lon })) }, cruise },
     flightPlan: { ...parsed, text, from: from.toUpperCase(), to: to.toUpperCase(), levelsFromText },
+  };
+}
+
+/**
+ * A saved flight-plan screening's input as it was screened: the route read then (waypoints) and,
+ * when the text had levels, its steps. Re-working it (what-if levels) then does not depend on later
+ * changes to the fix library. Inputs of other route forms come back unchanged.
+ */
+export function inputAsScreened(input: ScreeningInput, flightPlan: FlightPlanUsed | undefined): ScreeningInput {
+  if (!('flightPlan' in input.route) || flightPlan === undefined || flightPlan.waypoints.length < 2) return input;
+  const steps = flightPlan.cruise.steps;
+  return {
+    ...input,
+    route: { waypoints: flightPlan.waypoints.map((w) => ({ lat: w.lat, lon: w.lon })) },
+    cruise: flightPlan.levelsFromText && steps.length > 0 ? (steps.length === 1 ? { flightLevel: steps[0].flightLevel } : { steps }) : input.cruise,
   };
 }

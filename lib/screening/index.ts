@@ -47,6 +47,7 @@ export { routeDistanceKm, MAX_SEGMENT_KM } from './route';
 export {
   parseFlightPlanRoute,
   expandFlightPlanInput,
+  inputAsScreened,
   formatFlightPlanCoordinate,
   type FlightPlanRoute,
   type FlightPlanOptions,

@@ -367,3 +367,22 @@ describe('screening a flight-plan route (screenFlight with route.flightPlan)', (
     ]);
   });
 });
+
+describe('inputAsScreened', () => {
+  it('re-works a saved flight-plan screening on the route read then, whatever the library holds now', async () => {
+    const { screenValidated, validateScreeningInput, compareCruiseLevels, inputAsScreened } = await import('@/lib/screening');
+    const input = validateScreeningInput({
+      route: { flightPlan: { text: 'N0460F350 LN MAY/N0460F370 HADDY', from: 'EGLL', to: 'EIDW' } },
+      cruise: { flightLevel: 300 },
+      fuelBurnKg: 3000,
+      emission: { eiNoxGPerKg: 14 },
+      month: 7,
+    });
+    const saved = screenValidated(input, { fixes: FIXES });
+    const again = inputAsScreened(input, saved.flightPlan);
+    expect('waypoints' in again.route && again.route.waypoints).toHaveLength(5);
+    const rows = compareCruiseLevels(again, { deltasFt: [0] });
+    expect(rows[0].noxAboveTropopauseKg).toBe(saved.noxAboveTropopauseKg);
+    expect(rows[0].flightLevels).toEqual([350, 370]);
+  });
+});

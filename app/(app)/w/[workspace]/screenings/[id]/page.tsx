@@ -6,6 +6,7 @@ import { can } from '@/lib/auth/policy';
 import { getScreening, routeLabel } from '@/db/screenings';
 import {
   compareValidated,
+  inputAsScreened,
   DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT,
   DEFAULT_MAX_FUEL_PENALTY_PCT,
   type CruiseLevelRow,
@@ -112,7 +113,7 @@ export default async function ScreeningResultPage({ params, searchParams }: { pa
           </Card>
         </div>
         <Suspense fallback={<CardSkeleton label="the other cruise levels" />}>
-          <WhatIfSection input={input} search={search} units={units} engineVersion={result.engineVersion} />
+          <WhatIfSection input={inputAsScreened(input, result.flightPlan)} search={search} units={units} engineVersion={result.engineVersion} />
         </Suspense>
         <Card title="Segments">
           <div id="segments">
