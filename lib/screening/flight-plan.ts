@@ -390,6 +390,12 @@ export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = 
       items.push({ item: t, position: tok.position, kind: 'flight-rules', status: 'read', detail: `Flight rules change to ${t}.` });
       continue;
     }
+    const endAerodrome = isFirst ? origin : isLast ? destination : null;
+    if (endAerodrome !== null && (t === endAerodrome.name || t === (isFirst ? options.from : options.to)?.trim().toUpperCase())) {
+      notes.push(`${t}: the ${isFirst ? 'departure' : 'destination'} aerodrome written in the route is ignored; it is already the ${isFirst ? 'first' : 'last'} point.`);
+      items.push({ item: t, position: tok.position, kind: 'other', status: 'ignored', detail: `The ${isFirst ? 'departure' : 'destination'} aerodrome.` });
+      continue;
+    }
     if (t === 'T' && isLast) {
       notes.push('T: the route is truncated here; the route continues to the destination as a great circle.');
       items.push({ item: t, position: tok.position, kind: 'other', status: 'ignored', detail: 'Truncated route.' });

@@ -386,3 +386,12 @@ describe('inputAsScreened', () => {
     expect(rows[0].flightLevels).toEqual([350, 370]);
   });
 });
+
+describe('aerodromes written into the route text', () => {
+  it('the departure and destination repeated at the ends are ignored with a note, by ICAO or IATA code (common practice when pasting)', () => {
+    const r = parseFlightPlanRoute('N0480F350 LHR DCT 55N020W DCT KJFK', { from: 'LHR', to: 'KJFK' });
+    expect(r.unresolved).toEqual([]);
+    expect(r.waypoints.map((w) => w.name)).toEqual(['EGLL', '55N020W', 'KJFK']);
+    expect(r.items.filter((i) => i.status === 'ignored').map((i) => i.item)).toEqual(['LHR', 'KJFK']);
+  });
+});
