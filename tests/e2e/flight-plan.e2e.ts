@@ -19,7 +19,8 @@ describe('a planner screens a filed flight plan', () => {
     await signIn(page, 'planner@tropopass.test');
     await page.goto('/w/skarn-polar/screen');
     await page.getByRole('heading', { level: 1, name: 'Screen a flight' }).waitFor();
-    await page.getByRole('radio', { name: 'Flight plan' }).check();
+    await page.locator('label').filter({ hasText: /^Flight plan$/ }).click();
+    await expect(page.getByRole('radio', { name: 'Flight plan' }).isChecked()).resolves.toBe(true);
     await pickAirport(page, 'Departure', 'ENGM');
     await pickAirport(page, 'Destination', 'CYVR');
     await page.getByLabel('Aircraft type', { exact: true }).selectOption('SK-LR1');
