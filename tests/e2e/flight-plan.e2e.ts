@@ -45,7 +45,7 @@ describe('a planner screens a filed flight plan', () => {
 
     await page.goto('/w/skarn-polar/fixes?q=QXE');
     await page.getByRole('heading', { level: 1, name: 'Fixes & airways' }).waitFor();
-    expect(await page.getByRole('cell', { name: 'QXELM' }).count()).toBe(2);
+    expect(await page.getByRole('cell', { name: 'QXELM', exact: true }).count()).toBe(2);
     await screenshot(page, 'fixes-library');
     expect(errors).toEqual([]);
     await context.close();
