@@ -167,7 +167,7 @@ export function FlightPlanEntry({ slug, form, errorAt, understood }: { slug: str
                   <Field key={`${c.position}-${c.item}`} id={`name-${c.position}`} label={pointOf(c.item)}>
                     <TextInput
                       id={`name-${c.position}`}
-                      placeholder="Name, such as ORVAK"
+                      placeholder="Name, such as QXBEL"
                       value={pointNames[pointOf(c.item)] ?? ''}
                       onChange={(e) => setPointNames((p) => ({ ...p, [pointOf(c.item)]: e.target.value }))}
                     />

@@ -9,8 +9,9 @@ import { parseCsv, parseNumberCell, type CsvProblem } from './csv';
 export const FIX_CSV_COLUMNS = ['name', 'lat', 'lon', 'region'] as const;
 export const AIRWAY_CSV_COLUMNS = ['airway', 'sequence', 'fix'] as const;
 
-export const FIX_CSV_TEMPLATE = 'name,lat,lon,region\nORVAK,62.5,-20,north atlantic\nTELNI,65,-30,\n';
-export const AIRWAY_CSV_TEMPLATE = 'airway,sequence,fix\nQN1,1,ORVAK\nQN1,2,TELNI\n';
+// Invented names (the airway letter X is not an ICAO route designator).
+export const FIX_CSV_TEMPLATE = 'name,lat,lon,region\nQXMOA,62.5,-20,north atlantic\nQXNEB,65,-30,\n';
+export const AIRWAY_CSV_TEMPLATE = 'airway,sequence,fix\nXN9,1,QXMOA\nXN9,2,QXNEB\n';
 
 export interface LibraryCsvResult<T> {
   rows: T[];
@@ -74,7 +75,7 @@ export function parseAirwayCsv(text: string): LibraryCsvResult<AirwayRow> {
     const sequence = parseNumberCell(v.sequence);
     let ok = true;
     if (!/^[A-Z0-9]{2,12}$/.test(name)) {
-      problems.push({ line: row.line, column: 'airway', message: 'An airway designator has 2 to 12 letters and digits, such as QN1.' });
+      problems.push({ line: row.line, column: 'airway', message: 'An airway designator has 2 to 12 letters and digits, such as XN9.' });
       ok = false;
     }
     if (sequence === null || !Number.isInteger(sequence) || sequence < 0) {
@@ -82,7 +83,7 @@ export function parseAirwayCsv(text: string): LibraryCsvResult<AirwayRow> {
       ok = false;
     }
     if (!/^[A-Z0-9]{2,12}$/.test(fix)) {
-      problems.push({ line: row.line, column: 'fix', message: 'A fix name has 2 to 12 letters and digits, such as ORVAK.' });
+      problems.push({ line: row.line, column: 'fix', message: 'A fix name has 2 to 12 letters and digits, such as QXBEL.' });
       ok = false;
     }
     if (!ok || sequence === null) continue;

@@ -22,7 +22,7 @@ export const navNameSchema = (label: string) =>
     .trim()
     .toUpperCase()
     .regex(new RegExp(`^[A-Z0-9]{2,${ROUTE_LIBRARY_LIMITS.maxNameChars}}$`), {
-      error: `${label} has 2 to ${ROUTE_LIBRARY_LIMITS.maxNameChars} letters and digits, such as ORVAK.`,
+      error: `${label} has 2 to ${ROUTE_LIBRARY_LIMITS.maxNameChars} letters and digits, such as QXBEL.`,
     });
 
 /** One named point: degrees (WGS-84), optional region to tell same-named points apart. */

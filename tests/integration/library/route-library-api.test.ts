@@ -14,8 +14,8 @@ import { legDistanceKm } from '@/lib/screening/route';
 useTestDatabase();
 
 // Invented names and positions (no real navigation data).
-const FIX_CSV = 'name,lat,lon,region\nORVAK,62,-20,east\nTELNI,64,-30,\nPASKU,65,-40,\nORVAK,-40,100,far south\n';
-const AIRWAY_CSV = 'airway,sequence,fix\nQN7,10,ORVAK\nQN7,20,TELNI\nQN7,30,PASKU\n';
+const FIX_CSV = 'name,lat,lon,region\nQXORV,62,-20,east\nQXTEL,64,-30,\nQXPAS,65,-40,\nQXORV,-40,100,far south\n';
+const AIRWAY_CSV = 'airway,sequence,fix\nXN7,10,QXORV\nXN7,20,QXTEL\nXN7,30,QXPAS\n';
 type Problems = { problems: { line: number; column: string; message: string }[] };
 type Fix = { id: number; name: string; region: string; lat: number; lon: number };
 type FlightPlan = {
@@ -43,14 +43,14 @@ describe('fix and airway libraries', () => {
   it('a planner uploads fixes and airways; everyone in the workspace lists and searches them', async () => {
     const { ws } = await stocked();
     const viewer = await sessionCookie(ws.members.viewer.id);
-    const list = await call<{ items: Fix[] }>(fixesRoute.GET, apiRequest('GET', `${base(ws.slug)}/fixes?q=or`, { cookie: viewer }), { slug: ws.slug });
+    const list = await call<{ items: Fix[] }>(fixesRoute.GET, apiRequest('GET', `${base(ws.slug)}/fixes?q=qxo`, { cookie: viewer }), { slug: ws.slug });
     expect(list.status).toBe(200);
     expect(list.body.items.map((f) => [f.name, f.region])).toEqual([
-      ['ORVAK', 'east'],
-      ['ORVAK', 'far south'],
+      ['QXORV', 'east'],
+      ['QXORV', 'far south'],
     ]);
     const airways = await call<{ items: { name: string; fixes: string[] }[] }>(airwaysRoute.GET, apiRequest('GET', `${base(ws.slug)}/airways`, { cookie: viewer }), { slug: ws.slug });
-    expect(airways.body.items).toMatchObject([{ name: 'QN7', fixes: ['ORVAK', 'TELNI', 'PASKU'] }]);
+    expect(airways.body.items).toMatchObject([{ name: 'XN7', fixes: ['QXORV', 'QXTEL', 'QXPAS'] }]);
   });
 
   it('an analyst or viewer may not edit (403); a re-upload moves a fix of the same name and region', async () => {
@@ -60,11 +60,11 @@ describe('fix and airway libraries', () => {
       const r = await call(fixUploadRoute.POST, multipartRequest(`${base(ws.slug)}/fixes/upload`, { cookie: c, csv: FIX_CSV }), { slug: ws.slug });
       expect(r.status).toBe(403);
     }
-    const again = await call<{ added: number; updated: number }>(fixesRoute.POST, apiRequest('POST', `${base(ws.slug)}/fixes`, { cookie, body: { fixes: [{ name: 'telni', lat: 64.5, lon: -30 }, { name: 'MIRRA', lat: 70, lon: -10 }] } }), { slug: ws.slug });
+    const again = await call<{ added: number; updated: number }>(fixesRoute.POST, apiRequest('POST', `${base(ws.slug)}/fixes`, { cookie, body: { fixes: [{ name: 'qxtel', lat: 64.5, lon: -30 }, { name: 'QXMIR', lat: 70, lon: -10 }] } }), { slug: ws.slug });
     expect(again.status).toBe(201);
     expect(again.body).toEqual({ added: 1, updated: 1 });
-    const list = await call<{ items: Fix[] }>(fixesRoute.GET, apiRequest('GET', `${base(ws.slug)}/fixes?q=TEL`, { cookie }), { slug: ws.slug });
-    expect(list.body.items).toMatchObject([{ name: 'TELNI', lat: 64.5 }]);
+    const list = await call<{ items: Fix[] }>(fixesRoute.GET, apiRequest('GET', `${base(ws.slug)}/fixes?q=QXTEL`, { cookie }), { slug: ws.slug });
+    expect(list.body.items).toMatchObject([{ name: 'QXTEL', lat: 64.5 }]);
   });
 
   it('bad files are refused by line and column, nothing saved', async () => {
@@ -93,7 +93,7 @@ describe('fix and airway libraries', () => {
     const { ws, cookie } = await stocked();
     const other = await makeWorkspace();
     const otherCookie = await sessionCookie(other.owner.id);
-    const fixes = await call<{ items: Fix[] }>(fixesRoute.GET, apiRequest('GET', `${base(ws.slug)}/fixes?q=PASKU`, { cookie }), { slug: ws.slug });
+    const fixes = await call<{ items: Fix[] }>(fixesRoute.GET, apiRequest('GET', `${base(ws.slug)}/fixes?q=QXPAS`, { cookie }), { slug: ws.slug });
     const id = String(fixes.body.items[0].id);
     const foreign = await call(fixRoute.DELETE, apiRequest('DELETE', `${base(other.slug)}/fixes/${id}`, { cookie: otherCookie }), { slug: other.slug, id });
     expect(foreign.status).toBe(404);
@@ -110,12 +110,12 @@ describe('fix and airway libraries', () => {
 describe('screening a flight-plan route through the workspace library', () => {
   it('preview: named points and the airway come from the library, the level change sits at its point, unplaced items are kept', async () => {
     const { ws, cookie } = await stocked();
-    const text = 'N0480F350 DCT ORVAK QN7 PASKU/N0480F370 DCT NOWHR DCT 66N050W DCT';
+    const text = 'N0480F350 DCT QXORV XN7 QXPAS/N0480F370 DCT NOWHR DCT 66N050W DCT';
     const r = await call<Preview>(previewRoute.POST, apiRequest('POST', `${base(ws.slug)}/screenings/preview`, { cookie, body: { ...FLIGHT, route: { flightPlan: { text, from: 'EGLL', to: 'CYYZ' } } } }), { slug: ws.slug });
     expect(r.status).toBe(200);
     const fp = r.body.result.flightPlan;
-    expect(fp.waypoints.map((w) => w.name)).toEqual(['EGLL', 'ORVAK', 'TELNI', 'PASKU', '66N050W', 'CYYZ']);
-    // The ORVAK near the route (region east), not the one in the southern hemisphere.
+    expect(fp.waypoints.map((w) => w.name)).toEqual(['EGLL', 'QXORV', 'QXTEL', 'QXPAS', '66N050W', 'CYYZ']);
+    // The QXORV near the route (region east), not the one in the southern hemisphere.
     expect(fp.waypoints[1]).toMatchObject({ lat: 62, lon: -20 });
     const w = fp.waypoints;
     let km = 0;
@@ -131,7 +131,7 @@ describe('screening a flight-plan route through the workspace library', () => {
 
   it('save: 201 keeps the flight-plan input and what was understood; the list labels it by its aerodromes', async () => {
     const { ws, cookie } = await stocked();
-    const body = { ...FLIGHT, route: { flightPlan: { text: 'N0480F350 DCT ORVAK DCT TELNI DCT', from: 'EGLL', to: 'CYYZ' } } };
+    const body = { ...FLIGHT, route: { flightPlan: { text: 'N0480F350 DCT QXORV DCT QXTEL DCT', from: 'EGLL', to: 'CYYZ' } } };
     const r = await call<{ id: number; input: typeof body; result: { flightPlan: FlightPlan } }>(screeningsRoute.POST, apiRequest('POST', `${base(ws.slug)}/screenings`, { cookie, body }), { slug: ws.slug });
     expect(r.status).toBe(201);
     expect(r.body.input.route).toEqual(body.route);

@@ -8,7 +8,7 @@ import { expandFlightPlanInput, type FlightPlanUsed } from '@/lib/screening';
 import { emptyScreenForm, type ScreenFormValues } from '@/lib/validation/screen-form';
 
 // Invented library names for the test.
-const LIBRARY = { fixes: [{ name: 'ORVAK', lat: 63, lon: -25 }], airways: [] };
+const LIBRARY = { fixes: [{ name: 'QXORV', lat: 63, lon: -25 }], airways: [] };
 
 /** A stand-in for the API's fix and airway type-ahead and for adding fixes. */
 function fakeApi() {
@@ -65,21 +65,21 @@ describe('Flight plan route entry', () => {
     fireEvent.change(screen.getByLabelText('Departure'), { target: { value: 'EFHK' } });
     fireEvent.change(screen.getByLabelText('Destination'), { target: { value: 'PANC' } });
     const text = screen.getByLabelText('Route (item 15)');
-    fireEvent.change(text, { target: { value: 'N0480F350 DCT 62N020W ORV' } });
-    const suggestion = await screen.findByRole('button', { name: 'ORVAK' });
+    fireEvent.change(text, { target: { value: 'N0480F350 DCT 62N020W QXO' } });
+    const suggestion = await screen.findByRole('button', { name: 'QXORV' });
     fireEvent.click(suggestion);
-    expect((text as HTMLTextAreaElement).value).toBe('N0480F350 DCT 62N020W ORVAK ');
-    fireEvent.change(text, { target: { value: 'N0480F350 DCT 62N020W ORVAK/N0480F370 NOWHR DCT' } });
+    expect((text as HTMLTextAreaElement).value).toBe('N0480F350 DCT 62N020W QXORV ');
+    fireEvent.change(text, { target: { value: 'N0480F350 DCT 62N020W QXORV/N0480F370 NOWHR DCT' } });
     const items = await screen.findByTestId('flight-plan-items');
     await waitFor(() => expect(within(items).getByText('NOWHR', { exact: false })).toBeTruthy());
     expect(within(items).getByText('62N020W', { exact: false }).textContent).toContain('read');
-    expect(within(items).getByText('ORVAK/N0480F370', { exact: false }).textContent).toContain('looked up');
+    expect(within(items).getByText('QXORV/N0480F370', { exact: false }).textContent).toContain('looked up');
     expect(within(items).getByText('NOWHR', { exact: false }).textContent).toContain('not found');
     expect(screen.getByTestId('flight-plan-unresolved').textContent).toContain('NOWHR (character 39): NOWHR is not in the fix library.');
     fireEvent.click(screen.getByText('Name coordinates for the fix library'));
-    fireEvent.change(screen.getByLabelText('62N020W'), { target: { value: 'telmo' } });
+    fireEvent.change(screen.getByLabelText('62N020W'), { target: { value: 'qxtmo' } });
     fireEvent.click(screen.getByRole('button', { name: 'Add these points to the fix library' }));
     await screen.findByText('1 point added to the fix library.');
-    expect(api.posted).toEqual([{ fixes: [{ name: 'TELMO', lat: 62, lon: -20 }] }]);
+    expect(api.posted).toEqual([{ fixes: [{ name: 'QXTMO', lat: 62, lon: -20 }] }]);
   });
 });

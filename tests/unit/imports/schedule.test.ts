@@ -153,11 +153,11 @@ describe('the schedule template', () => {
 describe('parseSchedule: the optional route column (ICAO flight-plan route)', () => {
   const LIB: ScheduleContext = {
     ...CTX,
-    library: { fixes: [{ name: 'ORVAK', lat: 64, lon: -20 }], airways: [] },
+    library: { fixes: [{ name: 'QXORV', lat: 64, lon: -20 }], airways: [] },
   };
 
   it('reads the route through the library, flies its levels instead of cruise_fl, and stores the placed waypoints', async () => {
-    const text = `${HEADER},route\n2026-11-03,SK 7,EFHK,KSEA,T-LR,350,52400,"N0480F350 DCT ORVAK 66N040W/N0480F370 DCT"\n`;
+    const text = `${HEADER},route\n2026-11-03,SK 7,EFHK,KSEA,T-LR,350,52400,"N0480F350 DCT QXORV 66N040W/N0480F370 DCT"\n`;
     const r = await parse(text, LIB);
     expect(r.problems).toEqual([]);
     const f = r.flights[0];

@@ -149,12 +149,12 @@ describe('significant points (Doc 4444 Appendix 2, item 15 (c) 2)', () => {
 
   it('same-named points: the one nearest along the route is chosen, named with its region in a note', () => {
     const fixes: FlightPlanFix[] = [
-      { name: 'ORVIK', lat: 60, lon: -20, region: 'north' },
-      { name: 'ORVIK', lat: -30, lon: 100, region: 'south' },
+      { name: 'QXOVK', lat: 60, lon: -20, region: 'north' },
+      { name: 'QXOVK', lat: -30, lon: 100, region: 'south' },
     ];
-    const r = parseFlightPlanRoute('N0480F350 58N015W ORVIK 62N030W', { fixes });
-    expect(r.waypoints[1]).toEqual({ lat: 60, lon: -20, name: 'ORVIK' });
-    expect(r.notes.find((n) => n.startsWith('ORVIK:'))).toMatch(/2 points.*\(north\)/);
+    const r = parseFlightPlanRoute('N0480F350 58N015W QXOVK 62N030W', { fixes });
+    expect(r.waypoints[1]).toEqual({ lat: 60, lon: -20, name: 'QXOVK' });
+    expect(r.notes.find((n) => n.startsWith('QXOVK:'))).toMatch(/2 points.*\(north\)/);
   });
 
   it('an unknown name is unresolved: "not in the fix library"', () => {
@@ -235,15 +235,15 @@ describe('airways, SID and STAR (Doc 4444 Appendix 2, item 15 (c) 1, 3, 4)', () 
   it('an airway in the library is expanded through its points, in either direction', () => {
     const fixes: FlightPlanFix[] = [
       ...FIXES,
-      { name: 'KAVRO', lat: 59, lon: 3 },
-      { name: 'MELTI', lat: 58.5, lon: 1.5 },
+      { name: 'QXKAV', lat: 59, lon: 3 },
+      { name: 'QXMEL', lat: 58.5, lon: 1.5 },
     ];
-    const airways: FlightPlanAirway[] = [{ name: 'UA6', fixes: ['LEK', 'KAVRO', 'MELTI', 'XMM'] }];
+    const airways: FlightPlanAirway[] = [{ name: 'UA6', fixes: ['LEK', 'QXKAV', 'QXMEL', 'XMM'] }];
     const fwd = parseFlightPlanRoute('N0460F290 LEK UA6 XMM', { fixes, airways });
-    expect(fwd.waypoints.map((w) => w.name)).toEqual(['LEK', 'KAVRO', 'MELTI', 'XMM']);
+    expect(fwd.waypoints.map((w) => w.name)).toEqual(['LEK', 'QXKAV', 'QXMEL', 'XMM']);
     expect(fwd.items.find((i) => i.item === 'UA6')?.status).toBe('looked-up');
     const back = parseFlightPlanRoute('N0460F290 XMM UA6 LEK', { fixes, airways });
-    expect(back.waypoints.map((w) => w.name)).toEqual(['XMM', 'MELTI', 'KAVRO', 'LEK']);
+    expect(back.waypoints.map((w) => w.name)).toEqual(['XMM', 'QXMEL', 'QXKAV', 'LEK']);
     const off = parseFlightPlanRoute('N0460F290 LEK UA6 PON', { fixes, airways });
     expect(off.waypoints.map((w) => w.name)).toEqual(['LEK', 'PON']);
     expect(off.notes.some((n) => n.includes('PON is not on this airway') && n.includes('great circle'))).toBe(true);
