@@ -34,6 +34,12 @@ export interface ScreeningRecord {
 
 /** "EGLL → KSFO", or coordinates for points that are not airports. */
 export function routeLabel(input: ScreeningInput): string {
+  if ('flightPlan' in input.route) return `${input.route.flightPlan.from.toUpperCase()} → ${input.route.flightPlan.to.toUpperCase()} (flight plan)`;
+  if ('track' in input.route) {
+    const pts = input.route.track.points;
+    const at = (p: { lat: number; lon: number }) => `${p.lat.toFixed(1)},${p.lon.toFixed(1)}`;
+    return `${at(pts[0])} → ${at(pts[pts.length - 1])} (track, ${pts.length} points)`;
+  }
   const pts = input.route.waypoints;
   const label = (w: (typeof pts)[number]) => ('airport' in w ? w.airport.toUpperCase() : `${w.lat.toFixed(1)},${w.lon.toFixed(1)}`);
   const first = pts[0];

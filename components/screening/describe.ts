@@ -1,11 +1,28 @@
 import 'server-only';
 import { findAirport } from '@/lib/screening';
 import type { ScreeningInput } from '@/lib/validation/screening';
+import type { ScreeningResult } from '@/lib/screening';
 import type { MapPoint } from '@/components/maps/route-map';
 
-/** The route's points for the map: airports by their ICAO code (IATA when it has none), coordinates as given. */
-export function mapPointsFor(input: ScreeningInput): MapPoint[] {
+/**
+ * The route's points for the map: airports by their ICAO code (IATA when it has none), coordinates as
+ * given; for a flight plan, the points the screening placed (named as in the text).
+ */
+export function mapPointsFor(input: ScreeningInput, result?: Pick<ScreeningResult, 'flightPlan'>): MapPoint[] {
   const out: MapPoint[] = [];
+  if ('flightPlan' in input.route) {
+    for (const w of result?.flightPlan?.waypoints ?? []) out.push({ lat: w.lat, lon: w.lon, label: w.name ?? null });
+    return out;
+  }
+  if ('track' in input.route) {
+    const pts = input.route.track.points;
+    // A track of thousands of points draws the same line from a few hundred of them.
+    const stride = Math.max(1, Math.ceil(pts.length / 500));
+    for (let i = 0; i < pts.length; i += stride) out.push({ lat: pts[i].lat, lon: pts[i].lon, label: null });
+    const last = pts[pts.length - 1];
+    if ((pts.length - 1) % stride !== 0) out.push({ lat: last.lat, lon: last.lon, label: null });
+    return out;
+  }
   for (const w of input.route.waypoints) {
     if ('airport' in w) {
       const a = findAirport(w.airport);

@@ -26,6 +26,7 @@ import { formatAltitude, formatNumber } from '@/lib/format';
 import { AirportCombobox } from './airport-combobox';
 import { AssumptionFields } from './assumption-fields';
 import { ScreeningPreview, type PreviewResponse } from './screening-preview';
+import { FlightPlanEntry } from './flight-plan-entry';
 
 /** The preview samples like a saved screening's default (400 samples, seed 1) so the two agree. */
 const PREVIEW_UNCERTAINTY = { samples: 400, seed: 1 };
@@ -337,10 +338,13 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
             options={[
               ['airports', 'Airports'],
               ['points', 'Coordinates'],
+              ['flightPlan', 'Flight plan'],
             ]}
             onChange={(v) => setValue('routeMode', v, { shouldValidate: formState.isSubmitted })}
           />
-          {values.routeMode === 'airports' ? (
+          {values.routeMode === 'flightPlan' ? (
+            <FlightPlanEntry slug={slug} form={form} errorAt={errorAt} understood={preview.data?.result.flightPlan} />
+          ) : values.routeMode === 'airports' ? (
             <div className="space-y-3">
               {airports.fields.map((f, i) => (
                 <div key={f.id} className="flex items-start gap-2">

@@ -19,6 +19,7 @@ export const WORKSPACE_SECTIONS: { title: string; items: Item[] }[] = [
       { path: '/routes', label: 'Saved routes', permission: 'flights:read' },
       { path: '/engines', label: 'Engines & aircraft', permission: 'flights:read' },
       { path: '/soundings', label: 'Soundings', permission: 'flights:read' },
+      { path: '/fixes', label: 'Fixes & airways', permission: 'flights:read' },
     ],
   },
   {

@@ -5,6 +5,7 @@ import { billingEmailSchema, cardChoiceSchema, subscribeSchema, subscriptionUpda
 import { reportCreateSchema, reportSendSchema } from '@/lib/validation/reports';
 import { fleetCreateSchema, fleetUpdateSchema } from '@/lib/validation/fleets';
 import { aircraftTypeSaveSchema, engineSaveSchema, routeSaveSchema, soundingCreateSchema } from '@/lib/validation/library';
+import { fixRowSchema } from '@/lib/validation/route-library';
 
 /**
  * The OpenAPI 3.1 document of /api/v1, with request schemas generated from the same zod schemas the
@@ -62,7 +63,7 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   },
   '/workspaces/{slug}/screenings': {
     post: {
-      summary: 'Screen and save one flight (one billable unit). Body: the screenFlight input plus optional name and aircraft (a type code of the workspace that supplies emission and Mach when absent). Idempotency-Key header supported.',
+      summary: "Screen and save one flight (one billable unit). Body: the screenFlight input plus optional name and aircraft (a type code of the workspace that supplies emission and Mach when absent). The route is { waypoints }, { flightPlan: { text, from, to } } (ICAO Doc 4444 item 15, named points and airways from the workspace's fix and airway libraries; its levels replace cruise; the result then carries flightPlan { waypoints, cruise.steps, speeds, unresolved, notes, items }) or { track: { points: { time?, lat, lon, flightLevel? | pressureAltitudeFt? }[] } } (2-20 000 points in time order; cruise optional; fuel spread by the points' times; the result carries track). Idempotency-Key header supported.",
       permission: 'screenings:create',
       requestBody: screeningInputSchema,
       responses: { '201': '{ id, name, createdAt, input, result }', '200': 'Idempotent replay of the first result', '402': 'Billing blocks new screenings' },
@@ -78,7 +79,7 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   '/workspaces/{slug}/screenings/preview': {
     post: {
       summary:
-        'Screen without saving (not billed, throttled), with the what-if cruise levels; optional whatIf options; uncertainty { samples?, seed? } adds result.uncertainty (p5/p50/p95 of NOx above, share above and the ozone figure, with drivers); months: true adds the month sweep',
+        'Screen without saving (not billed, throttled), with the what-if cruise levels; optional whatIf options; a flight-plan route is read as for saving (result.flightPlan); uncertainty { samples?, seed? } adds result.uncertainty (p5/p50/p95 of NOx above, share above and the ozone figure, with drivers); months: true adds the month sweep',
       permission: 'screenings:create',
       requestBody: screeningPreviewBodySchema,
       responses: {
@@ -162,6 +163,35 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   '/workspaces/{slug}/soundings/{id}': {
     get: { summary: 'One sounding', permission: 'flights:read', responses: { '200': 'The sounding' } },
     delete: { summary: 'Delete a sounding', permission: 'library:write', responses: { '204': 'Deleted' } },
+  },
+  '/workspaces/{slug}/fixes': {
+    get: { summary: "The workspace's named points (fix library) by name", permission: 'flights:read', query: { q: 'name prefix', limit: '1-500 (default 200)' }, responses: { '200': '{ items: { id, name, region, lat, lon, createdAt }[] }' } },
+    post: { summary: 'Add named points; one with the same name and region is moved', permission: 'navdata:write', requestBody: z.object({ fixes: z.array(fixRowSchema) }), responses: { '201': '{ added, updated }' } },
+  },
+  '/workspaces/{slug}/fixes/upload': {
+    post: {
+      summary: 'Named points from a CSV: name, lat, lon (degrees), optional region to tell same-named points apart',
+      permission: 'navdata:write',
+      requestBody: { multipart: { file: 'The CSV of fixes' } },
+      responses: { '201': '{ added, updated, warnings }', '413': 'File too large', '422': '{ error, problems: { line, column, message }[], warnings }' },
+    },
+  },
+  '/workspaces/{slug}/fixes/{id}': {
+    delete: { summary: 'Delete a named point', permission: 'navdata:write', responses: { '204': 'Deleted' } },
+  },
+  '/workspaces/{slug}/airways': {
+    get: { summary: "The workspace's airways by designator, each with its fix names in order", permission: 'flights:read', query: { q: 'designator prefix', limit: '1-500 (default 200)' }, responses: { '200': '{ items: { id, name, fixes, createdAt }[] }' } },
+  },
+  '/workspaces/{slug}/airways/upload': {
+    post: {
+      summary: 'Airways from a CSV: airway, sequence, fix (one row per point); an airway already present is replaced',
+      permission: 'navdata:write',
+      requestBody: { multipart: { file: 'The CSV of airway points' } },
+      responses: { '201': '{ added, updated, warnings }', '413': 'File too large', '422': '{ error, problems: { line, column, message }[], warnings }' },
+    },
+  },
+  '/workspaces/{slug}/airways/{id}': {
+    delete: { summary: 'Delete an airway', permission: 'navdata:write', responses: { '204': 'Deleted' } },
   },
   '/atmosphere': {
     get: { summary: 'ICAO standard atmosphere at a flight level or altitude', query: { flightLevel: 'number', altitudeM: 'geopotential m' }, responses: { '200': '{ temperatureK, pressurePa, densityKgM3, speedOfSoundMs, ... }' } },

@@ -12,6 +12,7 @@ export const PERMISSIONS = [
   'imports:create',
   'imports:delete',
   'library:write', // saved routes, engines, aircraft types, soundings
+  'navdata:write', // the fix and airway libraries read by flight-plan routes
   'fleets:write',
   'reports:create',
   'reports:send',
@@ -27,7 +28,7 @@ export type Permission = (typeof PERMISSIONS)[number];
 
 export const POLICY: Record<Role, readonly Permission[]> = {
   owner: PERMISSIONS,
-  planner: ['workspace:read', 'flights:read', 'screenings:create', 'imports:create', 'library:write'],
+  planner: ['workspace:read', 'flights:read', 'screenings:create', 'imports:create', 'library:write', 'navdata:write'],
   analyst: [
     'workspace:read',
     'flights:read',

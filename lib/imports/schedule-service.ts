@@ -1,3 +1,4 @@
+import { loadRouteLibrary } from '@/db/route-library';
 import 'server-only';
 import { createHash } from 'node:crypto';
 import { listAircraftForScreening } from '@/db/aircraft-lookup';
@@ -87,8 +88,8 @@ export async function acceptScheduleUpload(
   const duplicate = await findImportByHash(scope, fileHash);
   if (duplicate) throw duplicate;
 
-  const [aircraft, fleets] = await Promise.all([listAircraftForScreening(scope), listFleetsByName(scope)]);
-  const parsed = await parseSchedule(file.stream(), { aircraft, fleets });
+  const [aircraft, fleets, library] = await Promise.all([listAircraftForScreening(scope), listFleetsByName(scope), loadRouteLibrary(scope)]);
+  const parsed = await parseSchedule(file.stream(), { aircraft, fleets, library });
   const problems = parsed.problems;
   if (parsed.flights.length) {
     let from = parsed.flights[0].date;

@@ -1,7 +1,7 @@
 import { Readable } from 'node:stream';
 import type { ReadableStream as NodeReadableStream } from 'node:stream/web';
 import Papa from 'papaparse';
-import { findAirport, ScreeningInputError, validateScreeningInput, type ScreeningInput } from '@/lib/screening';
+import { expandFlightPlanInput, findAirport, ScreeningInputError, validateScreeningInput, type RouteLibrary, type ScreeningInput } from '@/lib/screening';
 import { tooLarge } from '@/lib/errors';
 import {
   IMPORT_LIMITS,
@@ -28,6 +28,8 @@ export interface ScheduleContext {
   aircraft: Map<string, AircraftForScreening>;
   /** The workspace's fleets by lower-case name. */
   fleets: Map<string, { id: number; name: string }>;
+  /** The workspace's named points and airways, for rows with a flight-plan route. */
+  library?: RouteLibrary;
 }
 
 /** A row that passed every check, ready to be stored as a pending flight. */
@@ -49,12 +51,18 @@ export interface PreparedFlight {
   mach: number | undefined;
   /** Shared by every row of an aircraft type: 100 000 rows must fit in the server's memory. */
   emission: ScreeningInput['emission'];
+  /** The waypoints read from the row's flight-plan route, when it has one (else the great circle). */
+  waypoints?: { lat: number; lon: number }[];
 }
 
-/** The screening input of a prepared flight: its great-circle route, cruise, fuel, emission, Mach and date. */
+/**
+ * The screening input of a prepared flight: its route (the great circle, or the waypoints its
+ * flight-plan route was read into, so a later change to the fix library does not move it), cruise,
+ * fuel, emission, Mach and date.
+ */
 export function screeningInputOf(f: PreparedFlight): ScreeningInput {
   return {
-    route: { waypoints: [{ airport: f.origin }, { airport: f.destination }] },
+    route: { waypoints: f.waypoints ?? [{ airport: f.origin }, { airport: f.destination }] },
     cruise: f.cruise,
     ...(f.mach === undefined ? {} : { mach: f.mach }),
     fuelBurnKg: f.fuelKg,
@@ -82,6 +90,9 @@ const PLACEHOLDER_EMISSION = { eiNoxGPerKg: 1 } as const;
 
 /** Where a screening-input problem sits in the CSV. */
 function columnOf(path: string, row: ScheduleRow, emissionFromRow: boolean): ScheduleColumn | '' {
+  if (path === 'route.flightPlan.from') return 'origin';
+  if (path === 'route.flightPlan.to') return 'destination';
+  if (path.startsWith('route.flightPlan')) return 'route';
   if (path.startsWith('route.waypoints.0')) return 'origin';
   if (path.startsWith('route.waypoints.1')) return 'destination';
   if (path === 'cruise.flightLevel') return 'cruise_fl';
@@ -150,7 +161,10 @@ function checkRow(
   }
   const cruise = row.steps?.length ? { steps: row.steps } : { flightLevel: row.cruise_fl };
   const raw = {
-    route: { waypoints: [{ airport: origin ?? row.origin }, { airport: destination ?? row.destination }] },
+    route:
+      row.route !== undefined
+        ? { flightPlan: { text: row.route, from: origin ?? row.origin, to: destination ?? row.destination } }
+        : { waypoints: [{ airport: origin ?? row.origin }, { airport: destination ?? row.destination }] },
     cruise,
     mach: row.mach ?? type?.typicalMach,
     fuelBurnKg: row.fuel_kg,
@@ -158,8 +172,18 @@ function checkRow(
     flightDate: row.date,
   };
   let input: ScreeningInput | undefined;
+  let waypoints: { lat: number; lon: number }[] | undefined;
   try {
     input = validateScreeningInput(raw);
+    if (origin && destination && 'flightPlan' in input.route) {
+      const expanded = expandFlightPlanInput(input, ctx.library);
+      const unresolved = expanded.flightPlan?.unresolved ?? [];
+      if (unresolved.length > 0) {
+        add('route', `Not placed: ${unresolved.map((u) => `${u.item}${u.position !== null ? ` (character ${u.position + 1})` : ''}: ${u.reason}`).join(' ')}`);
+      }
+      input = expanded.input;
+      waypoints = expanded.input.route.waypoints.flatMap((w) => ('airport' in w ? [] : [{ lat: w.lat, lon: w.lon }]));
+    }
   } catch (err) {
     if (!(err instanceof ScreeningInputError)) throw err;
     for (const f of err.fields) {
@@ -196,6 +220,7 @@ function checkRow(
       cruise: input.cruise,
       mach: input.mach,
       emission,
+      ...(waypoints === undefined ? {} : { waypoints }),
     },
   };
 }

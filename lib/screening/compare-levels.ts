@@ -3,6 +3,8 @@
  * the planned level, and the lowest-impact level within the planner's limit marked.
  */
 import { CO2_PER_KG_FUEL, screenTotals, type ScreeningTotals } from './screen-flight';
+import { expandFlightPlanInput, type RouteLibrary } from './flight-plan';
+import { isTrackInput } from './track';
 import { validateCompareOptions, validateScreeningInput } from './validate';
 import { SCREENING_LIMITS, type ScreeningInput } from '../validation/screening';
 
@@ -74,14 +76,16 @@ export function compareCruiseLevels(
 
 /**
  * As `compareCruiseLevels` for an already-validated input and options. `planned`, when given, is
- * the screening of `base` itself (for example the result shown beside the rows) and stands in for
+ * the screening of `input` itself (for example the result shown beside the rows) and stands in for
  * the unshifted level instead of screening it again.
  */
 export function compareValidated(
-  base: ScreeningInput,
+  input: ScreeningInput,
   opts: { deltasFt?: readonly number[]; fuelPenaltyPctPer1000Ft?: number; maxFuelPenaltyPct?: number; minimise?: MinimiseCriterion },
   planned?: ScreeningTotals,
+  library?: RouteLibrary,
 ): CruiseLevelRow[] {
+  const base = expandFlightPlanInput(input, library).input;
   const deltas = [...new Set(opts.deltasFt ?? DEFAULT_LEVEL_DELTAS_FT)].sort((a, b) => a - b);
   const perK = opts.fuelPenaltyPctPer1000Ft ?? DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT;
   const limit = opts.maxFuelPenaltyPct ?? DEFAULT_MAX_FUEL_PENALTY_PCT;
@@ -96,14 +100,19 @@ export function compareValidated(
     }
     const fuelPenaltyPct = (perK * Math.abs(deltaFt)) / 1000;
     const fuelKg = base.fuelBurnKg * (1 + fuelPenaltyPct / 100);
+    // A track is shifted point by point, so its own times still spread the fuel.
+    const track = isTrackInput(input) ? shiftTrack(input, dFl) : null;
+    if (isTrackInput(input) && track === null) continue;
     const r =
       deltaFt === 0 && planned !== undefined
         ? planned
-        : screenTotals({
-            ...base,
-            cruise: 'steps' in base.cruise ? { steps: shifted } : { flightLevel: shifted[0].flightLevel },
-            fuelBurnKg: fuelKg,
-          });
+        : track !== null
+          ? screenTotals({ ...track, fuelBurnKg: fuelKg })
+          : screenTotals({
+              ...base,
+              cruise: 'steps' in base.cruise ? { steps: shifted } : { flightLevel: shifted[0].flightLevel },
+              fuelBurnKg: fuelKg,
+            });
     rows.push({
       flightLevel: shifted[0].flightLevel,
       flightLevels: shifted.map((s) => s.flightLevel),
@@ -133,6 +142,31 @@ export function compareValidated(
   }
   if (best !== null) best.lowestImpact = true;
   return rows;
+}
+
+/** A track input with every point's level (and the cruise) moved by `dFl`; null when one leaves FL0-FL660. */
+function shiftTrack(input: ScreeningInput, dFl: number): ScreeningInput | null {
+  if (!('track' in input.route)) return null;
+  const inRange = (fl: number) => fl >= SCREENING_LIMITS.minFlightLevel && fl <= SCREENING_LIMITS.maxFlightLevel;
+  const points = [];
+  for (const p of input.route.track.points) {
+    const q = { ...p };
+    if (q.flightLevel !== undefined) q.flightLevel += dFl;
+    if (q.pressureAltitudeFt !== undefined) q.pressureAltitudeFt += dFl * 100;
+    const fl = q.flightLevel ?? (q.pressureAltitudeFt !== undefined ? q.pressureAltitudeFt / 100 : null);
+    if (fl !== null && !inRange(fl)) return null;
+    points.push(q);
+  }
+  const c = input.cruise;
+  let cruise: ScreeningInput['cruise'];
+  if ('flightLevel' in c) {
+    if (!inRange(c.flightLevel + dFl)) return null;
+    cruise = { flightLevel: c.flightLevel + dFl };
+  } else {
+    if (!c.steps.every((s) => inRange(s.flightLevel + dFl))) return null;
+    cruise = { steps: c.steps.map((s) => ({ fromKm: s.fromKm, flightLevel: s.flightLevel + dFl })) };
+  }
+  return { ...input, route: { track: { points } }, cruise };
 }
 
 function better(a: CruiseLevelRow, b: CruiseLevelRow, minimise: MinimiseCriterion): boolean {

@@ -49,6 +49,22 @@ export {
 export { findAirport, searchAirports, type Airport } from './airports';
 export { routeDistanceKm, MAX_SEGMENT_KM } from './route';
 export {
+  parseFlightPlanRoute,
+  expandFlightPlanInput,
+  inputAsScreened,
+  formatFlightPlanCoordinate,
+  type FlightPlanRoute,
+  type FlightPlanOptions,
+  type FlightPlanFix,
+  type FlightPlanAirway,
+  type FlightPlanWaypoint,
+  type FlightPlanSpeed,
+  type FlightPlanItem,
+  type UnresolvedItem,
+  type RouteLibrary,
+  type FlightPlanUsed,
+} from './flight-plan';
+export {
   screenFlight,
   screenValidated,
   screenTotals,
@@ -94,4 +110,4 @@ export {
 export { screenAcrossMonths, sweepMonthsValidated, SAME_EVERY_MONTH_NOTE, type MonthRow } from './month-sweep';
 export { validateScreeningInput, validateCompareOptions, problemsFromZod } from './validate';
 export { ScreeningInputError } from './errors';
-export type { ScreeningInput, ScreeningInputRaw, FieldProblem } from '../validation/screening';
+export type { ScreeningInput, ScreeningInputRaw, FieldProblem, WaypointsScreeningInput } from '../validation/screening';

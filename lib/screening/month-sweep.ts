@@ -3,6 +3,7 @@
  * above the tropopause. Masses in kg (NOx as NO2, O3).
  */
 import { screenTotals, type TropopauseSource } from './screen-flight';
+import type { RouteLibrary } from './flight-plan';
 import { tropopauseFromSounding } from './tropopause';
 import { validateScreeningInput } from './validate';
 import type { ScreeningInput } from '../validation/screening';
@@ -33,8 +34,8 @@ function fixedTropopause(input: ScreeningInput): TropopauseSource | null {
   return tropopauseFromSounding(tp.sounding) === null ? null : 'sounding';
 }
 
-function row(month: number, input: ScreeningInput, source: TropopauseSource, same: boolean): MonthRow {
-  const t = screenTotals(input);
+function row(month: number, input: ScreeningInput, source: TropopauseSource, same: boolean, library?: RouteLibrary): MonthRow {
+  const t = screenTotals(input, library);
   return {
     month,
     fractionAboveTropopause: t.fractionAboveTropopause,
@@ -46,14 +47,14 @@ function row(month: number, input: ScreeningInput, source: TropopauseSource, sam
 }
 
 /** As `screenAcrossMonths` for an already-validated input. */
-export function sweepMonthsValidated(input: ScreeningInput): MonthRow[] {
+export function sweepMonthsValidated(input: ScreeningInput, library?: RouteLibrary): MonthRow[] {
   const fixed = fixedTropopause(input);
   if (fixed !== null) {
-    const own = row(input.month ?? (input.flightDate !== undefined ? Number(input.flightDate.slice(5, 7)) : 1), input, fixed, true);
+    const own = row(input.month ?? (input.flightDate !== undefined ? Number(input.flightDate.slice(5, 7)) : 1), input, fixed, true, library);
     return Array.from({ length: 12 }, (_, i) => ({ ...own, ozoneLoss: { ...own.ozoneLoss }, month: i + 1 }));
   }
   const base: ScreeningInput = { ...input, uncertainty: undefined, flightDate: undefined };
-  return Array.from({ length: 12 }, (_, i) => row(i + 1, { ...base, month: i + 1 }, 'climatology', false));
+  return Array.from({ length: 12 }, (_, i) => row(i + 1, { ...base, month: i + 1 }, 'climatology', false, library));
 }
 
 /**

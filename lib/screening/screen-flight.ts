@@ -50,6 +50,9 @@ import {
 } from './ozone-loss';
 import { EARTH_RADIUS_M, MAX_SEGMENT_KM, planRoute, resolveWaypoints, type RoutePlan } from './route';
 import { windowSunlight, type WindowSunlight } from './sunlight';
+import type { FlightPlanUsed, RouteLibrary } from './flight-plan';
+import { expandRouteInput } from './route-input';
+import type { TrackUsed } from './track';
 import {
   MID_MONTH_DAY_OF_YEAR,
   completeSounding,
@@ -205,6 +208,10 @@ export interface ScreeningResult {
   assumptions: string[];
   /** Percentiles from sampling the uncertain inputs, when the input asked for them. */
   uncertainty?: ScreeningUncertainty;
+  /** What was understood of a flight-plan route: present when the route was given as one. */
+  flightPlan?: FlightPlanUsed;
+  /** What was made of a flown track: present when the route was given as one. */
+  track?: TrackUsed;
 }
 
 interface IsaLevel {
@@ -427,15 +434,19 @@ export interface ScreeningTotals {
  * sounding whose levels contradict each other, and a fuel burn that implies a fuel flow per engine
  * far outside what the engine does.
  */
-export function screenValidated(input: ScreeningInput): ScreeningResult {
-  const result = screenCore(input, true);
-  if (input.uncertainty !== undefined) result.uncertainty = sampleUncertainty(input, result);
+export function screenValidated(input: ScreeningInput, library?: RouteLibrary): ScreeningResult {
+  const result = screenCore(input, true, library);
+  if (input.uncertainty !== undefined) {
+    // The sampler screens again from waypoints: give it the route as read, not the flight-plan text.
+    const sampled = input.route !== undefined && 'waypoints' in input.route ? input : expandRouteInput(input, library).input;
+    result.uncertainty = sampleUncertainty(sampled, result);
+  }
   return result;
 }
 
 /** As `screenValidated`, returning only the totals: no segments, texts, local budget or fleet context. */
-export function screenTotals(input: ScreeningInput): ScreeningTotals {
-  return screenCore(input, false);
+export function screenTotals(input: ScreeningInput, library?: RouteLibrary): ScreeningTotals {
+  return screenCore(input, false, library);
 }
 
 /** Season of a flight: month wins over flight date; neither gives the annual mean. */
@@ -560,17 +571,27 @@ function buildLevels(
 }
 
 /** Fuel spread in proportion to time; time = distance / (Mach x ISA speed of sound). */
-function spreadFuel(fuelBurnKg: number, totalKm: number, cp: CruisePlan): { totalTimeS: number; fuelKgPerS: number; fuelPerKm: number[] } {
+function spreadFuel(
+  fuelBurnKg: number,
+  totalKm: number,
+  cp: CruisePlan,
+  stepDurationsS: readonly number[] | null,
+): { totalTimeS: number; fuelKgPerS: number; fuelPerKm: number[]; timedTrack: boolean } {
   const n = cp.stepFrom.length;
+  // A flown track with times spreads the fuel by its own times.
+  const timedTrack = stepDurationsS !== null && stepDurationsS.length === n;
   let totalTimeS = 0;
   for (let s = 0; s < n; s++) {
     const end = s + 1 < n ? cp.stepFrom[s + 1] : totalKm;
-    totalTimeS += ((end - cp.stepFrom[s]) * 1000) / cp.levels[cp.stepLevel[s]].tasMs;
+    totalTimeS += timedTrack ? stepDurationsS[s] : ((end - cp.stepFrom[s]) * 1000) / cp.levels[cp.stepLevel[s]].tasMs;
   }
   const fuelKgPerS = fuelBurnKg / totalTimeS;
   const fuelPerKm: number[] = new Array<number>(n);
-  for (let s = 0; s < n; s++) fuelPerKm[s] = (fuelKgPerS * 1000) / cp.levels[cp.stepLevel[s]].tasMs;
-  return { totalTimeS, fuelKgPerS, fuelPerKm };
+  for (let s = 0; s < n; s++) {
+    const end = s + 1 < n ? cp.stepFrom[s + 1] : totalKm;
+    fuelPerKm[s] = timedTrack ? (fuelKgPerS * stepDurationsS[s]) / (end - cp.stepFrom[s]) : (fuelKgPerS * 1000) / cp.levels[cp.stepLevel[s]].tasMs;
+  }
+  return { totalTimeS, fuelKgPerS, fuelPerKm, timedTrack };
 }
 
 /**
@@ -783,12 +804,15 @@ function walkSegments(ctx: WalkContext, segments: ScreeningSegment[]): Totals {
   return t;
 }
 
-function screenCore(input: ScreeningInput, full: true): ScreeningResult;
-function screenCore(input: ScreeningInput, full: false): ScreeningTotals;
-function screenCore(input: ScreeningInput, full: boolean): ScreeningResult | ScreeningTotals {
+function screenCore(input: ScreeningInput, full: true, library?: RouteLibrary): ScreeningResult;
+function screenCore(input: ScreeningInput, full: false, library?: RouteLibrary): ScreeningTotals;
+function screenCore(rawInput: ScreeningInput, full: boolean, library?: RouteLibrary): ScreeningResult | ScreeningTotals {
   const cautions: string[] = BASE_CAUTIONS.slice();
+  // A flight-plan route or a track is read into waypoints (and its levels into the cruise) first.
+  const { input, flightPlan, track, stepDurationsS } = expandRouteInput(rawInput, library);
+  if (flightPlan !== null && full) cautions.push(...flightPlanCautions(flightPlan));
   const { lat: wLat, lon: wLon } = resolveWaypoints(input.route.waypoints);
-  const plan = planRoute(wLat, wLon);
+  const plan = planRoute(wLat, wLon, track !== null ? 'route.track.points' : undefined);
   const season = resolveSeason(input);
   const emission = input.emission;
   const machTiming = input.mach ?? ('engine' in emission ? emission.mach : undefined) ?? DEFAULT_MACH;
@@ -796,7 +820,7 @@ function screenCore(input: ScreeningInput, full: boolean): ScreeningResult | Scr
   const inputs = resolveOzoneInputs(input.assumptions);
   const tp = resolveTropopause(input, cautions);
   const cp = buildLevels(input, plan.totalKm, tp.sounding, inputs, machTiming, cautions);
-  const fuel = spreadFuel(input.fuelBurnKg, plan.totalKm, cp);
+  const fuel = spreadFuel(input.fuelBurnKg, plan.totalKm, cp, stepDurationsS);
   const eiMethod = applyEmissionIndex(input, cp.levels, fuel.fuelKgPerS, inputs.relativeHumidity, machEi, cautions);
   const op = inputs.ozoneProfile;
   const ctx: WalkContext = {
@@ -814,7 +838,32 @@ function screenCore(input: ScreeningInput, full: boolean): ScreeningResult | Scr
   const t = walkSegments(ctx, segments);
   const totals = summariseTotals(input, plan.totalKm, t);
   if (!full) return totals;
-  return describeResult({ input, totals, t, ctx, segments, cautions, wLat, machTiming, machEi, eiMethod, fuel });
+  const result = describeResult({ input, totals, t, ctx, segments, cautions, wLat, machTiming, machEi, eiMethod, fuel });
+  if (flightPlan !== null) result.flightPlan = flightPlan;
+  if (track !== null) {
+    result.track = track;
+    const n = track.pointsWithoutLevel;
+    cautions.push(
+      `The track's own levels are screened leg by leg (each leg at the mean of its two ends, to the nearest flight level), climb and descent included; the fuel is spread ${fuel.timedTrack ? 'by the time between its points' : `by time at Mach ${fmt(machTiming, 2)}, as its points have no times`}.${n > 0 ? ` ${n} point${n === 1 ? ' has' : 's have'} no level and take${n === 1 ? 's' : ''} the entered cruise.` : ''}`,
+    );
+  }
+  return result;
+}
+
+function flightPlanCautions(fp: FlightPlanUsed): string[] {
+  const out: string[] = [];
+  if (fp.unresolved.length > 0) {
+    const list = fp.unresolved.map((u) => `${u.item || '(empty)'}${u.position !== null ? ` at character ${u.position + 1}` : ''}: ${u.reason}`);
+    out.push(
+      `${fp.unresolved.length} item${fp.unresolved.length === 1 ? '' : 's'} of the flight plan could not be placed and ${fp.unresolved.length === 1 ? 'is' : 'are'} left out of the route: ${list.join(' ')}`,
+    );
+  }
+  out.push(
+    fp.levelsFromText
+      ? `The route and levels are those of the flight plan (${fp.waypoints.length} waypoints, ${fp.cruise.steps.length} level${fp.cruise.steps.length === 1 ? '' : 's'}); the entered cruise is not used.`
+      : `The route is that of the flight plan (${fp.waypoints.length} waypoints); it gives no level, so the entered cruise is flown.`,
+  );
+  return out;
 }
 
 function summariseTotals(input: ScreeningInput, totalKm: number, t: Totals): ScreeningTotals {

@@ -1,5 +1,6 @@
 import type { z } from 'zod';
 import { ScreeningInputError } from './errors';
+import { withTrackCruise } from './track';
 import {
   compareCruiseLevelsOptionsSchema,
   screeningInputSchema,
@@ -29,6 +30,12 @@ function collect(issues: readonly Issue[], prefix: readonly PropertyKey[], out: 
         collect(candidates[0], path, out);
         continue;
       }
+      // A form whose only complaint is a missing top-level key loses to one that has its key.
+      const present = candidates.filter((b) => !b.every((i) => i.code === 'invalid_type' && i.path.length === 1));
+      if (candidates.length > 1 && present.length === 1) {
+        collect(present[0], path, out);
+        continue;
+      }
     }
     if (issue.code === 'unrecognized_keys') {
       const keys = issue.keys.map((k) => `"${k}"`).join(', ');
@@ -49,10 +56,10 @@ export function problemsFromZod(issues: readonly Issue[], prefix: readonly Prope
 /**
  * Validates a raw screening input against `screeningInputSchema` and returns the parsed input.
  * Throws ScreeningInputError listing every bad field (dotted path, plain message). Airports are
- * checked later, when the engine resolves them.
+ * checked later, when the engine resolves them. A track without a cruise takes its first level.
  */
 export function validateScreeningInput(raw: unknown): ScreeningInput {
-  const r = screeningInputSchema.safeParse(raw);
+  const r = screeningInputSchema.safeParse(withTrackCruise(raw));
   if (r.success) return r.data;
   throw new ScreeningInputError(problemsFromZod(r.error.issues));
 }

@@ -10,10 +10,12 @@ import {
   validateCompareOptions,
   type CruiseLevelRow,
   type MonthRow,
+  type RouteLibrary,
   type ScreeningInput,
   type ScreeningResult,
 } from '@/lib/screening';
 import { getAircraftForScreening } from '@/db/aircraft-lookup';
+import { loadRouteLibrary } from '@/db/route-library';
 import { badRequest, invalidFields, type FieldProblem } from '@/lib/errors';
 import { previewMonthsSchema } from '@/lib/validation/screening';
 
@@ -37,6 +39,8 @@ export interface ParsedScreeningBody {
   whatIf?: unknown;
   /** Preview only: add the month sweep. */
   months?: boolean;
+  /** The workspace's fixes and airways when the route is a flight plan (empty otherwise). */
+  library: RouteLibrary;
 }
 
 /**
@@ -71,31 +75,36 @@ export async function parseScreeningBody(raw: unknown, scope: { workspaceId: num
     else throw err;
   }
   if (problems.length || !input) throw invalidFields(problems);
+  const library = 'flightPlan' in input.route ? await loadRouteLibrary(scope) : {};
   return {
     name: extras.success ? extras.data.name : undefined,
     aircraftCode,
     input,
     whatIf: extras.success ? extras.data.whatIf : undefined,
     months: extras.success ? extras.data.months : undefined,
+    library,
   };
 }
 
-/** Screens an input `parseScreeningBody` validated; airports unknown to the data still come back as 422. */
-export function runScreening(input: ScreeningInput): ScreeningResult {
-  return screenValidated(input);
+/**
+ * Screens an input `parseScreeningBody` validated, a flight-plan route read through the workspace's
+ * library; unknown airports and an unplaceable flight plan still come back as 422.
+ */
+export function runScreening(input: ScreeningInput, library?: RouteLibrary): ScreeningResult {
+  return screenValidated(input, library);
 }
 
 /**
  * The what-if levels of an input `parseScreeningBody` validated; `planned` is that input's own
  * screening when the caller already has it (it then is not screened again).
  */
-export function runWhatIf(input: ScreeningInput, whatIf: unknown, planned?: ScreeningResult): CruiseLevelRow[] {
+export function runWhatIf(input: ScreeningInput, whatIf: unknown, planned?: ScreeningResult, library?: RouteLibrary): CruiseLevelRow[] {
   const options = whatIf === undefined ? {} : whatIf;
   if (typeof options !== 'object' || options === null || Array.isArray(options)) {
     throw invalidFields([{ path: 'whatIf', message: 'whatIf must be an object { deltasFt?, fuelPenaltyPctPer1000Ft?, maxFuelPenaltyPct?, minimise? }.' }]);
   }
   try {
-    return compareValidated(input, validateCompareOptions(options), planned);
+    return compareValidated(input, validateCompareOptions(options), planned, library);
   } catch (err) {
     if (err instanceof ScreeningInputError) {
       throw invalidFields(err.fields.map((f) => ({ path: f.path.replace(/^options\b/, 'whatIf'), message: f.message })));
@@ -105,8 +114,8 @@ export function runWhatIf(input: ScreeningInput, whatIf: unknown, planned?: Scre
 }
 
 /** The month sweep of an input `parseScreeningBody` validated, with whether an override or sounding fixes it. */
-export function runMonthSweep(input: ScreeningInput): { rows: MonthRow[]; sameEveryMonth: boolean; note: string | null } {
-  const rows = sweepMonthsValidated(input);
+export function runMonthSweep(input: ScreeningInput, library?: RouteLibrary): { rows: MonthRow[]; sameEveryMonth: boolean; note: string | null } {
+  const rows = sweepMonthsValidated(input, library);
   const same = rows[0]?.sameEveryMonth ?? false;
   return { rows, sameEveryMonth: same, note: same ? SAME_EVERY_MONTH_NOTE : null };
 }

@@ -16,7 +16,7 @@ export const IMPORT_LIMITS = {
 } as const;
 
 export const SCHEDULE_REQUIRED_COLUMNS = ['date', 'flight', 'origin', 'destination', 'aircraft', 'cruise_fl', 'fuel_kg'] as const;
-export const SCHEDULE_OPTIONAL_COLUMNS = ['steps', 'fleet', 'ei_nox_g_per_kg', 'mach'] as const;
+export const SCHEDULE_OPTIONAL_COLUMNS = ['steps', 'fleet', 'ei_nox_g_per_kg', 'mach', 'route'] as const;
 export const SCHEDULE_COLUMNS = [...SCHEDULE_REQUIRED_COLUMNS, ...SCHEDULE_OPTIONAL_COLUMNS] as const;
 export type ScheduleColumn = (typeof SCHEDULE_COLUMNS)[number];
 
@@ -44,6 +44,13 @@ export const SCHEDULE_COLUMN_DOCS: readonly ScheduleColumnDoc[] = [
   { name: 'fleet', required: false, unit: 'fleet name', description: 'A fleet of this workspace; empty means the aircraft type’s default fleet.', example: 'Polar long-haul A' },
   { name: 'ei_nox_g_per_kg', required: false, unit: 'g NO2 per kg fuel', description: 'Measured cruise EI NOx for this flight; replaces the aircraft type’s engine data.', example: '14.2' },
   { name: 'mach', required: false, unit: 'Mach number', description: 'Cruise Mach for timing; empty means the aircraft type’s typical Mach.', example: '0.85' },
+  {
+    name: 'route',
+    required: false,
+    unit: 'ICAO flight-plan route (item 15), quoted',
+    description: 'The filed route between origin and destination, flown instead of the great circle; named points and airways come from the Fixes & airways library. Its levels replace cruise_fl and steps.',
+    example: '"N0480F350 DCT 6230N02000W 6500N03000W DCT"',
+  },
 ];
 
 /** One problem of an import: the CSV line (the header is line 1), the column, and what to fix. */
@@ -126,6 +133,10 @@ export const scheduleRowSchema = z
     fleet: z.string().max(80, { error: 'A fleet name has at most 80 characters.' }).optional(),
     ei_nox_g_per_kg: decimal('Give the EI NOx in g/kg as a number, such as 14.2.').optional(),
     mach: decimal('Give the Mach number as a number, such as 0.85.').optional(),
+    route: z
+      .string()
+      .max(SCREENING_LIMITS.maxFlightPlanChars, { error: `A route has at most ${SCREENING_LIMITS.maxFlightPlanChars} characters.` })
+      .optional(),
   })
   .superRefine((row, ctx) => {
     if (row.cruise_fl === undefined && (row.steps === undefined || row.steps.length === 0)) {

@@ -20,7 +20,7 @@ const KG_PER_LB = 0.45359237;
 const KM_PER_NM = 1.852;
 const M_PER_FT = 0.3048;
 
-export const ROUTE_MODES = ['airports', 'points'] as const;
+export const ROUTE_MODES = ['airports', 'points', 'flightPlan'] as const;
 export const CRUISE_MODES = ['level', 'steps'] as const;
 export const EMISSION_MODES = ['aircraft', 'engine', 'direct'] as const;
 export const TROPOPAUSE_MODES = ['climatology', 'altitude', 'pressure', 'sounding'] as const;
@@ -38,6 +38,8 @@ export interface ScreenFormValues {
   routeMode: (typeof ROUTE_MODES)[number];
   airports: { code: string }[];
   points: { lat: string; lon: string }[];
+  /** An ICAO flight plan's route (item 15) between two aerodrome codes. */
+  flightPlan: { text: string; from: string; to: string };
   cruiseMode: (typeof CRUISE_MODES)[number];
   flightLevel: string;
   /** `from` is km along the route (metric) or NM (imperial); the first row is always 0. */
@@ -119,6 +121,7 @@ export function emptyScreenForm(defaultDate = ''): ScreenFormValues {
       { lat: '', lon: '' },
       { lat: '', lon: '' },
     ],
+    flightPlan: { text: '', from: '', to: '' },
     cruiseMode: 'level',
     flightLevel: '350',
     steps: [
@@ -279,6 +282,7 @@ export function formPathFor(serverPath: string, values: Pick<ScreenFormValues, '
     case 'name':
       return 'name';
     case 'route': {
+      if (p[1] === 'flightPlan') return p[2] === 'from' || p[2] === 'to' ? `flightPlan.${p[2]}` : 'flightPlan.text';
       if (p[1] !== 'waypoints' || p[2] === undefined || !/^\d+$/.test(p[2])) return 'route';
       if (values.routeMode === 'airports') return `airports.${p[2]}.code`;
       return p[3] === 'lon' ? `points.${p[2]}.lon` : `points.${p[2]}.lat`;
@@ -357,6 +361,12 @@ export function buildScreeningBody(values: ScreenFormValues, ctx: ScreenFormCont
         return { airport: code };
       }),
     };
+  } else if (values.routeMode === 'flightPlan') {
+    const fp = values.flightPlan;
+    if (fp.text.trim() === '') add('flightPlan.text', 'Paste the route of the flight plan (item 15), such as N0480F350 DCT 62N020W 63N030W DCT.');
+    if (fp.from.trim() === '') add('flightPlan.from', 'Enter the departure aerodrome.');
+    if (fp.to.trim() === '') add('flightPlan.to', 'Enter the destination aerodrome.');
+    body.route = { flightPlan: { text: fp.text.trim(), from: fp.from.trim().toUpperCase(), to: fp.to.trim().toUpperCase() } };
   } else {
     body.route = {
       waypoints: values.points.map((pt, i) => ({
@@ -505,6 +515,7 @@ const screenFormShape = z.object({
   routeMode: z.enum(ROUTE_MODES),
   airports: z.array(z.object({ code: z.string() })),
   points: z.array(z.object({ lat: z.string(), lon: z.string() })),
+  flightPlan: z.object({ text: z.string(), from: z.string(), to: z.string() }),
   cruiseMode: z.enum(CRUISE_MODES),
   flightLevel: z.string(),
   steps: z.array(z.object({ from: z.string(), flightLevel: z.string() })),
@@ -552,6 +563,7 @@ export function isFormPath(path: string): boolean {
   return /^(name|fuelBurn|flightLevel|aircraft|engineId|engineCount|eiNox|mach|flightDate|month|tropopauseAltitude|tropopausePressure|soundingId|steps|route)$/.test(path) ||
     /^airports\.\d+\.code$/.test(path) ||
     /^points\.\d+\.(lat|lon)$/.test(path) ||
+    /^flightPlan\.(text|from|to)$/.test(path) ||
     /^steps\.\d+\.(from|flightLevel)$/.test(path) ||
     /^assumptions\.(jO3NoonPerS|jNo2NoonPerS|daylightFactor|noxToNoyFraction)\.(low|central|high)$/.test(path) ||
     /^assumptions\.(ohCm3|ho2Cm3|relativeHumidity|ozoneProfile)$/.test(path);

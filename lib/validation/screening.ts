@@ -7,6 +7,10 @@ import { z } from 'zod';
 export const SCREENING_LIMITS = {
   minWaypoints: 2,
   maxWaypoints: 500,
+  maxFlightPlanChars: 10_000,
+  minTrackPoints: 2,
+  maxTrackPoints: 20_000,
+  maxTrackMach: 3,
   maxSteps: 50,
   minFlightLevel: 0,
   maxFlightLevel: 660,
@@ -492,6 +496,124 @@ export const uncertaintyOptionsSchema = z.strictObject(
   { error: 'The uncertainty options must be { samples?, seed? }.' },
 );
 
+const airportCodeSchema = (label: string) =>
+  z
+    .string({ error: `${label} must be text, such as EGLL or LHR.` })
+    .trim()
+    .regex(/^[A-Za-z0-9]{3,4}$/, { error: `${label} has 3 letters (IATA, such as LHR) or 4 characters (ICAO, such as EGLL).` });
+
+/** A route given as waypoints: 2..500 points, each `{ lat, lon }` or `{ airport }`. */
+export const waypointsRouteSchema = z.object(
+  {
+    waypoints: z
+      .array(waypointSchema, { error: 'The waypoints must be a list.' })
+      .min(SCREENING_LIMITS.minWaypoints, { error: 'A route needs at least 2 waypoints.' })
+      .max(SCREENING_LIMITS.maxWaypoints, { error: `A route may have at most ${SCREENING_LIMITS.maxWaypoints} waypoints.` }),
+  },
+  { error: 'The route is required, as { waypoints: [...] } or { flightPlan: { text, from, to } }.' },
+);
+
+/**
+ * A route given as an ICAO flight plan: the item-15 route `text` (ICAO Doc 4444 Appendix 2) between
+ * the departure `from` and destination `to` (ICAO or IATA codes). Its levels, when it has any, are
+ * flown instead of `cruise`.
+ */
+export const flightPlanRouteSchema = z.strictObject({
+  flightPlan: z.strictObject(
+    {
+      text: z
+        .string({ error: 'The flight-plan route must be text, such as N0480F350 DCT 55N020W 55N030W DCT.' })
+        .trim()
+        .min(1, { error: 'Paste the flight-plan route (item 15), such as N0480F350 DCT 55N020W 55N030W DCT.' })
+        .max(SCREENING_LIMITS.maxFlightPlanChars, {
+          error: `A flight-plan route may have at most ${SCREENING_LIMITS.maxFlightPlanChars} characters.`,
+        }),
+      from: airportCodeSchema('The departure aerodrome'),
+      to: airportCodeSchema('The destination aerodrome'),
+    },
+    { error: 'The flight plan must be { text, from, to }.' },
+  ),
+});
+
+const ISO_TIME_RE = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2}(\.\d{1,6})?)?(Z|[+-]\d{2}:?\d{2})$/;
+/** ISA speed of sound at sea level, m/s (ICAO Doc 7488/3): the most lenient bound for the Mach 3 check. */
+const SEA_LEVEL_SPEED_OF_SOUND_MS = 340.294;
+
+/**
+ * One point of a flown track: degrees, an optional UTC time (ISO 8601 with a zone), and its level as
+ * a flight level (0-660) or a pressure altitude in feet (0-66 000), or neither (the cruise is used).
+ */
+export const trackPointSchema = z
+  .strictObject({
+    time: z
+      .string({ error: 'The time must be text such as 2026-11-20T10:15:00Z.' })
+      .regex(ISO_TIME_RE, { error: 'Write the time as YYYY-MM-DDTHH:MM:SSZ (UTC), such as 2026-11-20T10:15:00Z.' })
+      .refine((t) => Number.isFinite(Date.parse(t)), { error: 'The time is not a real date and time.' })
+      .optional(),
+    lat: latitudeSchema,
+    lon: longitudeSchema,
+    flightLevel: between('The flight level', SCREENING_LIMITS.minFlightLevel, SCREENING_LIMITS.maxFlightLevel, '').optional(),
+    pressureAltitudeFt: between('The pressure altitude', SCREENING_LIMITS.minFlightLevel * 100, SCREENING_LIMITS.maxFlightLevel * 100, 'ft (FL0-FL660)').optional(),
+  })
+  .superRefine((p, ctx) => {
+    if (p.flightLevel !== undefined && p.pressureAltitudeFt !== undefined) {
+      ctx.addIssue({ code: 'custom', path: ['pressureAltitudeFt'], message: 'Give the flight level or the pressure altitude, not both.' });
+    }
+  });
+
+function greatCircleM(lat1: number, lon1: number, lat2: number, lon2: number): number {
+  const r = Math.PI / 180;
+  const h = Math.sin(((lat2 - lat1) * r) / 2) ** 2 + Math.cos(lat1 * r) * Math.cos(lat2 * r) * Math.sin(((lon2 - lon1) * r) / 2) ** 2;
+  return 2 * 6_371_008.8 * Math.asin(Math.min(1, Math.sqrt(h)));
+}
+
+/**
+ * A flown track: 2..20 000 points in time order. Times on every point or on none; time never runs
+ * backwards; no jump between two timed points faster than Mach 3 (at the sea-level speed of sound).
+ */
+export const trackRouteSchema = z.strictObject({
+  track: z.strictObject(
+    {
+      points: z
+        .array(trackPointSchema, { error: 'The track points must be a list.' })
+        .min(SCREENING_LIMITS.minTrackPoints, { error: 'A track needs at least 2 points.' })
+        .max(SCREENING_LIMITS.maxTrackPoints, { error: `A track may have at most ${SCREENING_LIMITS.maxTrackPoints} points.` })
+        .superRefine((points, ctx) => {
+          const timed = points.filter((p) => p.time !== undefined).length;
+          if (timed > 0 && timed < points.length) {
+            const i = points.findIndex((p) => p.time === undefined);
+            ctx.addIssue({ code: 'custom', path: [i, 'time'], message: 'Give a time on every point of the track, or on none.' });
+            return;
+          }
+          if (timed === 0) return;
+          const maxMs = SCREENING_LIMITS.maxTrackMach * SEA_LEVEL_SPEED_OF_SOUND_MS;
+          let reported = 0;
+          for (let i = 1; i < points.length && reported < 20; i++) {
+            const t0 = Date.parse(points[i - 1].time ?? '');
+            const t1 = Date.parse(points[i].time ?? '');
+            if (!Number.isFinite(t0) || !Number.isFinite(t1)) continue;
+            if (t1 < t0) {
+              ctx.addIssue({ code: 'custom', path: [i, 'time'], message: 'Time runs backwards here: the points of a track must be in time order.' });
+              reported++;
+              continue;
+            }
+            const d = greatCircleM(points[i - 1].lat, points[i - 1].lon, points[i].lat, points[i].lon);
+            if (d > maxMs * Math.max(t1 - t0, 0) / 1000 && d > 1) {
+              ctx.addIssue({ code: 'custom', path: [i], message: `This point is ${(d / 1000).toFixed(0)} km from the one before in ${((t1 - t0) / 1000).toFixed(0)} s: faster than Mach ${SCREENING_LIMITS.maxTrackMach}. Check its position and time.` });
+              reported++;
+            }
+          }
+        }),
+    },
+    { error: 'The track must be { points: [...] }.' },
+  ),
+});
+
+/** The route: `{ waypoints }`, `{ flightPlan: { text, from, to } }` or `{ track: { points } }`. */
+export const routeSchema = z.union([waypointsRouteSchema, flightPlanRouteSchema, trackRouteSchema], {
+  error: 'The route is required, as { waypoints: [...] }, { flightPlan: { text, from, to } } or { track: { points: [...] } }.',
+});
+
 function isRealDate(s: string): boolean {
   const y = Number(s.slice(0, 4));
   const m = Number(s.slice(5, 7));
@@ -507,15 +629,7 @@ function isRealDate(s: string): boolean {
  * optional tropopause override and assumption overrides. Client-safe (no Node imports).
  */
 export const screeningInputSchema = z.object({
-  route: z.object(
-    {
-      waypoints: z
-        .array(waypointSchema, { error: 'The waypoints must be a list.' })
-        .min(SCREENING_LIMITS.minWaypoints, { error: 'A route needs at least 2 waypoints.' })
-        .max(SCREENING_LIMITS.maxWaypoints, { error: `A route may have at most ${SCREENING_LIMITS.maxWaypoints} waypoints.` }),
-    },
-    { error: 'The route is required, as { waypoints: [...] }.' },
-  ),
+  route: routeSchema,
   cruise: cruiseSchema,
   mach: between('The Mach number', SCREENING_LIMITS.minMach, SCREENING_LIMITS.maxMach, '').optional(),
   fuelBurnKg: between('The fuel burn', SCREENING_LIMITS.minFuelKg, SCREENING_LIMITS.maxFuelKg, 'kg'),
@@ -535,6 +649,10 @@ export const screeningInputSchema = z.object({
 export type ScreeningInput = z.output<typeof screeningInputSchema>;
 /** A screening input as sent by a client (the schema's input). */
 export type ScreeningInputRaw = z.input<typeof screeningInputSchema>;
+/** A validated route: waypoints or a flight plan. */
+export type Route = z.output<typeof routeSchema>;
+/** A validated screening input whose route is given as waypoints. */
+export type WaypointsScreeningInput = Omit<ScreeningInput, 'route'> & { route: z.output<typeof waypointsRouteSchema> };
 /** A validated waypoint: `{ lat, lon }` in degrees or `{ airport }` code. */
 export type Waypoint = z.output<typeof waypointSchema>;
 /** A validated cruise: `{ flightLevel }` or `{ steps }`. */

@@ -17,6 +17,11 @@ describe('role -> permission table', () => {
     ['billing', 'billing:manage', true],
     ['billing', 'usage:read', true],
     ['planner', 'usage:read', false],
+    ['planner', 'navdata:write', true],
+    ['owner', 'navdata:write', true],
+    ['analyst', 'navdata:write', false],
+    ['viewer', 'navdata:write', false],
+    ['billing', 'navdata:write', false],
   ] as const)('%s may %s: %s', (role, permission, expected) => {
     expect(can(role, permission)).toBe(expected);
   });

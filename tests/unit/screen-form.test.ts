@@ -234,3 +234,29 @@ describe('formPathFor', () => {
     expect(formPathFor(path, m)).toBe(expected);
   });
 });
+
+describe('the flight-plan route mode', () => {
+  const fp = (flightPlan: ScreenFormValues['flightPlan']) => filled({ routeMode: 'flightPlan', flightPlan });
+
+  it('sends route.flightPlan with upper-case codes; the body passes the engine schema', () => {
+    const { body, problems } = screenFormProblems(fp({ text: ' n0480f350 DCT 62N020W DCT ', from: 'efhk', to: 'panc' }), ctx());
+    expect(problems).toEqual([]);
+    expect(body.route).toEqual({ flightPlan: { text: 'n0480f350 DCT 62N020W DCT', from: 'EFHK', to: 'PANC' } });
+    const { aircraft: _a, name: _n, ...engine } = body;
+    expect(screeningInputSchema.safeParse(engine).success).toBe(true);
+  });
+
+  it('empty text and aerodromes are problems beside their fields', () => {
+    const { problems } = buildScreeningBody(fp({ text: '', from: '', to: '' }), ctx());
+    expect(problems.map((p) => p.path)).toEqual(['flightPlan.text', 'flightPlan.from', 'flightPlan.to']);
+  });
+
+  it.each([
+    ['route.flightPlan.text', 'flightPlan.text'],
+    ['route.flightPlan.from', 'flightPlan.from'],
+    ['route.flightPlan.to', 'flightPlan.to'],
+    ['route.flightPlan', 'flightPlan.text'],
+  ])('the API path %s is shown at %s', (server, form) => {
+    expect(formPathFor(server, { routeMode: 'flightPlan', cruiseMode: 'level', emissionMode: 'aircraft', tropopauseMode: 'climatology' })).toBe(form);
+  });
+});

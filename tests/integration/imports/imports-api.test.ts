@@ -323,10 +323,10 @@ describe('GET and DELETE /workspaces/{slug}/imports/{id}', () => {
     expect(res.status).toBe(200);
     expect(res.headers.get('content-disposition')).toContain('attachment');
     const text = await res.text();
-    expect(text.split('\r\n')[0]).toBe('date,flight,origin,destination,aircraft,cruise_fl,fuel_kg,steps,fleet,ei_nox_g_per_kg,mach');
+    expect(text.split('\r\n')[0]).toBe('date,flight,origin,destination,aircraft,cruise_fl,fuel_kg,steps,fleet,ei_nox_g_per_kg,mach,route');
     const r = await call<ImportDto>(importsRoute.POST, uploadRequest(ws.slug, text, { cookie }), { slug: ws.slug });
     expect(r.status).toBe(202);
-    expect(r.body.rows).toBe(4);
+    expect(r.body.rows).toBe(5);
   });
 });
 

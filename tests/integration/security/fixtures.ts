@@ -78,6 +78,14 @@ export const ID_FIXTURES: Record<string, Maker> = {
   routes: async (ws) => viaPost(ws, (await import('@/app/api/v1/workspaces/[slug]/routes/route')).POST, 'routes', { name: `Fixture route ${unique()}`, waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] }),
   soundings: async (ws) => viaPost(ws, (await import('@/app/api/v1/workspaces/[slug]/soundings/route')).POST, 'soundings', { name: `Fixture sounding ${unique()}`, levels: SOUNDING_LEVELS }),
   reports: async (ws) => viaPost(ws, (await import('@/app/api/v1/workspaces/[slug]/reports/route')).POST, 'reports', { name: `Fixture report ${unique()}`, from: '2026-09-01', to: '2026-11-30', fleetIds: [await fleet(ws)] }),
+  fixes: async (ws) => {
+    const [row] = await db()('fixes').insert({ workspace_id: ws.id, name: `FX${unique()}`.slice(0, 12).toUpperCase(), region: '', lat: 60, lon: -20, created_at: nowIso() }).returning('id');
+    return Number(typeof row === 'object' ? row.id : row);
+  },
+  airways: async (ws) => {
+    const [row] = await db()('airways').insert({ workspace_id: ws.id, name: `QX${unique()}`.slice(0, 12).toUpperCase(), created_at: nowIso() }).returning('id');
+    return Number(typeof row === 'object' ? row.id : row);
+  },
   imports: async (ws) => {
     const [row] = await db()('imports')
       .insert({ workspace_id: ws.id, kind: 'schedule', file_name: 'fixture.csv', file_hash: unique().padEnd(64, '0').slice(0, 64), status: 'complete', rows: 0, rows_done: 0, created_by: ws.owner.id, created_at: nowIso(), finished_at: nowIso() })

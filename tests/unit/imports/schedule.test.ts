@@ -49,7 +49,7 @@ describe('parseSchedule: reading the file', () => {
     // What is stored is a valid screening input as it stands.
     expect(validateScreeningInput(JSON.parse(JSON.stringify(input)))).toEqual(input);
     expect(input.cruise).toEqual({ steps: [{ flightLevel: 350, fromKm: 0 }, { flightLevel: 370, fromKm: 2600 }, { flightLevel: 390, fromKm: 5200 }] });
-    expect(input.route.waypoints).toEqual([{ airport: 'EFHK' }, { airport: 'RJAA' }]);
+    expect(input.route).toEqual({ waypoints: [{ airport: 'EFHK' }, { airport: 'RJAA' }] });
     expect(input.mach).toBe(0.82);
     expect(input.emission).toEqual(ENGINE);
     expect(input.flightDate).toBe('2026-11-03');
@@ -145,6 +145,42 @@ describe('the schedule template', () => {
     const r = await parse(text);
     expect(r.problems).toEqual([]);
     expect(r.warnings).toEqual([]);
-    expect(r.flights.map((f) => f.aircraftCode)).toEqual(['T-LR', 'T-LR', 'T-SST', 'T-LR']);
+    expect(r.flights.map((f) => f.aircraftCode)).toEqual(['T-LR', 'T-LR', 'T-SST', 'T-LR', 'T-LR']);
+    expect(r.flights[4].maxFl).toBe(390);
+  });
+});
+
+describe('parseSchedule: the optional route column (ICAO flight-plan route)', () => {
+  const LIB: ScheduleContext = {
+    ...CTX,
+    library: { fixes: [{ name: 'QXORV', lat: 64, lon: -20 }], airways: [] },
+  };
+
+  it('reads the route through the library, flies its levels instead of cruise_fl, and stores the placed waypoints', async () => {
+    const text = `${HEADER},route\n2026-11-03,SK 7,EFHK,KSEA,T-LR,350,52400,"N0480F350 DCT QXORV 66N040W/N0480F370 DCT"\n`;
+    const r = await parse(text, LIB);
+    expect(r.problems).toEqual([]);
+    const f = r.flights[0];
+    expect(f.cruiseFl).toBe(350);
+    expect(f.maxFl).toBe(370);
+    const input = screeningInputOf(f);
+    expect(validateScreeningInput(JSON.parse(JSON.stringify(input)))).toEqual(input);
+    if (!('waypoints' in input.route)) throw new Error('expected waypoints');
+    expect(input.route.waypoints).toHaveLength(4);
+    expect(input.route.waypoints[1]).toEqual({ lat: 64, lon: -20 });
+    expect('steps' in input.cruise && input.cruise.steps.map((s) => s.flightLevel)).toEqual([350, 370]);
+  });
+
+  it('a route item that cannot be placed is a problem in the route column, naming the item and its place', async () => {
+    const text = `${HEADER},route\n2026-11-03,SK 8,EFHK,KSEA,T-LR,350,52400,N0480F350 DCT NOWHR DCT\n`;
+    const r = await parse(text, LIB);
+    expect(r.flights).toEqual([]);
+    expect(r.problems).toEqual([{ line: 2, column: 'route', message: expect.stringContaining('NOWHR (character 15): NOWHR is not in the fix library.') }]);
+  });
+
+  it('without a route the row is unchanged (the great circle between the airports)', async () => {
+    const r = await parse(`${HEADER},route\n2026-11-03,SK 9,EFHK,KSEA,T-LR,350,52400,\n`, LIB);
+    expect(r.problems).toEqual([]);
+    expect(screeningInputOf(r.flights[0]).route).toEqual({ waypoints: [{ airport: 'EFHK' }, { airport: 'KSEA' }] });
   });
 });

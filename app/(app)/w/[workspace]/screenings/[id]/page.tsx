@@ -6,6 +6,7 @@ import { can } from '@/lib/auth/policy';
 import { getScreening, routeLabel } from '@/db/screenings';
 import {
   compareValidated,
+  inputAsScreened,
   DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT,
   DEFAULT_MAX_FUEL_PENALTY_PCT,
   DEFAULT_MINIMISE,
@@ -87,7 +88,7 @@ export default async function ScreeningResultPage({ params, searchParams }: { pa
   const units = user.units;
   const bands = uncertaintyFor(input, result);
   const series = profileSeries(result.segments, units);
-  const points = mapPointsFor(input);
+  const points = mapPointsFor(input, result);
   const label = routeLabel(input);
   const exportBase = `/api/v1/workspaces/${slug}/screenings/${record.id}/export`;
   const facts = [
@@ -130,7 +131,7 @@ export default async function ScreeningResultPage({ params, searchParams }: { pa
           </Card>
         </div>
         <Suspense fallback={<CardSkeleton label="the other cruise levels" />}>
-          <WhatIfSection input={input} search={search} units={units} engineVersion={result.engineVersion} />
+          <WhatIfSection input={inputAsScreened(input, result.flightPlan)} search={search} units={units} engineVersion={result.engineVersion} />
         </Suspense>
         <Card title="Segments">
           <div id="segments">
