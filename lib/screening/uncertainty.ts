@@ -117,7 +117,7 @@ export const TROPOPAUSE_SIGMA_M = Object.freeze({ climatologyMonth: 700, climato
  */
 export const EI_LN_SIGMA = Object.freeze({ fuelFlowMethod: 0.15, direct: 0.1 });
 
-/** Draws beyond this many sigma are folded back (a screening guard against absurd tails). */
+/** Normal draws beyond this many sigma are held at it (a screening guard against absurd tails). */
 const MAX_SIGMA = 3;
 
 const NOTE =
@@ -370,7 +370,7 @@ function evaluate(k: Kernel, d: Draw, ratios: Float64Array, full: Figures, tp: F
   }
 }
 
-function foldedNormal(u: Uniform): number {
+function heldNormal(u: Uniform): number {
   let z = standardNormal(u);
   if (z > MAX_SIGMA) z = MAX_SIGMA;
   else if (z < -MAX_SIGMA) z = -MAX_SIGMA;
@@ -383,12 +383,12 @@ function drawAll(k: Kernel, streams: Uniform[], on: ReadonlySet<UncertainInput>)
   const d: Draw = { ...k.central };
   const ei = streams[0];
   const eiU = ei();
-  const eiZ = foldedNormal(ei);
+  const eiZ = heldNormal(ei);
   if (on.has('cruise-ei')) {
     d.eiU = k.direct ? Number.NaN : eiU;
     d.eiZ = eiZ;
   }
-  const tpZ = foldedNormal(streams[1]);
+  const tpZ = heldNormal(streams[1]);
   if (on.has('tropopause')) d.shiftM = tpZ * k.sigmaShiftM;
   const rtP = streams[2]();
   if (on.has('residence-time')) {
