@@ -108,6 +108,14 @@ export {
   type SampledDistribution,
 } from './uncertainty';
 export { screenAcrossMonths, sweepMonthsValidated, SAME_EVERY_MONTH_NOTE, type MonthRow } from './month-sweep';
+export {
+  flightComponents,
+  sampleFleet,
+  sampleFleetExact,
+  SHARED_TROPOPAUSE_VARIANCE,
+  type FlightComponents,
+  type FleetUncertainty,
+} from './fleet-uncertainty';
 export { validateScreeningInput, validateCompareOptions, problemsFromZod } from './validate';
 export { ScreeningInputError } from './errors';
 export type { ScreeningInput, ScreeningInputRaw, FieldProblem, WaypointsScreeningInput } from '../validation/screening';

@@ -117,7 +117,7 @@ export const TROPOPAUSE_SIGMA_M = Object.freeze({ climatologyMonth: 700, climato
  */
 export const EI_LN_SIGMA = Object.freeze({ fuelFlowMethod: 0.15, direct: 0.1 });
 
-/** Draws beyond this many sigma are folded back (a screening guard against absurd tails). */
+/** Normal draws beyond this many sigma are held at it (a screening guard against absurd tails). */
 const MAX_SIGMA = 3;
 
 const NOTE =
@@ -126,7 +126,8 @@ const NOTE =
 const DRIVER_METHOD =
   'One-at-a-time: the variance of the figure when only that input is sampled (the same draws, the others at their central values), as a share of the sum over the inputs; interactions between inputs are not counted.';
 
-interface Draw {
+/** One sample's value of every sampled input (central values where an input is not sampled). */
+export interface Draw {
   eiU: number;
   eiZ: number;
   shiftM: number;
@@ -139,7 +140,7 @@ interface Draw {
 }
 
 /** Per-segment data the samples re-use. */
-interface Kernel {
+export interface Kernel {
   n: number;
   nox: Float64Array;
   level: Int32Array;
@@ -178,7 +179,8 @@ function chemistryState(level: ScreeningLevel, slot: number, inputs: OzoneInputs
   return { t: c.temperatureK, m: c.airDensityCm3, o3 };
 }
 
-function buildKernel(input: ScreeningInput, result: ScreeningResult): Kernel {
+/** The per-segment data of a full screening result (also used by the fleet sampling). */
+export function buildKernel(input: ScreeningInput, result: ScreeningResult): Kernel {
   const inputs = resolveOzoneInputs(input.assumptions);
   const segs = result.segments;
   const n = segs.length;
@@ -281,7 +283,7 @@ function buildKernel(input: ScreeningInput, result: ScreeningResult): Kernel {
   return k;
 }
 
-interface Figures {
+export interface Figures {
   noxAbove: number;
   noxTotal: number;
   o3Molecules: number;
@@ -323,7 +325,7 @@ function clear(f: Figures): void {
  * tropopause shift with every other input central (sharing the shifted residence and sunlight);
  * with `sun`, only the J values and a given daylight factor of `d`, at the central tropopause.
  */
-function evaluate(k: Kernel, d: Draw, ratios: Float64Array, full: Figures, tp: Figures | null = null, sun: Figures | null = null): void {
+export function evaluate(k: Kernel, d: Draw, ratios: Float64Array, full: Figures, tp: Figures | null = null, sun: Figures | null = null): void {
   levelRatios(k, d, ratios);
   const shifted = d.shiftM !== 0;
   const rt = k.inputs.residenceTime;
@@ -370,7 +372,8 @@ function evaluate(k: Kernel, d: Draw, ratios: Float64Array, full: Figures, tp: F
   }
 }
 
-function foldedNormal(u: Uniform): number {
+/** A standard normal draw held within MAX_SIGMA. */
+export function heldNormal(u: Uniform): number {
   let z = standardNormal(u);
   if (z > MAX_SIGMA) z = MAX_SIGMA;
   else if (z < -MAX_SIGMA) z = -MAX_SIGMA;
@@ -383,12 +386,12 @@ function drawAll(k: Kernel, streams: Uniform[], on: ReadonlySet<UncertainInput>)
   const d: Draw = { ...k.central };
   const ei = streams[0];
   const eiU = ei();
-  const eiZ = foldedNormal(ei);
+  const eiZ = heldNormal(ei);
   if (on.has('cruise-ei')) {
     d.eiU = k.direct ? Number.NaN : eiU;
     d.eiZ = eiZ;
   }
-  const tpZ = foldedNormal(streams[1]);
+  const tpZ = heldNormal(streams[1]);
   if (on.has('tropopause')) d.shiftM = tpZ * k.sigmaShiftM;
   const rtP = streams[2]();
   if (on.has('residence-time')) {
@@ -416,7 +419,7 @@ function drawAll(k: Kernel, streams: Uniform[], on: ReadonlySet<UncertainInput>)
   return d;
 }
 
-function percentiles(values: Float64Array): Percentiles {
+export function percentiles(values: Float64Array): Percentiles {
   const s = Float64Array.from(values).sort();
   return { p5: percentileSorted(s, 0.05), p50: percentileSorted(s, 0.5), p95: percentileSorted(s, 0.95) };
 }
