@@ -3,11 +3,13 @@ import { setImmediate as yieldToEventLoop } from 'node:timers/promises';
 import { screenTotals, ScreeningInputError, type ScreeningInput } from '@/lib/screening';
 import { claimImport, failImport, finishImport, figuresOf, listActiveImports, listPendingFlights, saveScreenedChunk, type ScreenedOutcome } from '@/db/imports';
 import { log } from '@/lib/log';
+import { screenInThreads } from './screening-pool';
 
 /**
- * The background screening of imported flights, in the server process. It polls for imports that
- * are queued or were left mid-way (status screening: a restart resumes them), screens their pending
- * flights in chunks, and writes each chunk (figures, status, one usage unit per screened flight) in
+ * The background screening of imported flights, in the server process or a standalone worker
+ * process (`npm run worker`). It polls for imports that are queued or were left mid-way (status
+ * screening: a restart resumes them), screens their pending flights in chunks (in worker threads,
+ * see screening-pool.ts), and writes each chunk (figures, status, one usage unit per screened flight) in
  * one transaction. A chunk only touches flights still pending, so a chunk replayed after a crash
  * can neither lose a flight nor bill one twice.
  *
@@ -87,7 +89,7 @@ async function processImport(importId: number, opts: RunOptions): Promise<number
       }
       continue;
     }
-    const outcomes = screenChunk(pending);
+    const outcomes = (await screenInThreads(pending)) ?? screenChunk(pending);
     const saved = await saveScreenedChunk(importId, outcomes);
     flights += saved;
     state().errors.delete(importId);
