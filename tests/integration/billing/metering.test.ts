@@ -8,6 +8,7 @@ import { PLANS, estimateChargeCents, type PlanId } from '@/lib/billing/plans';
 import { BACKOFF_BASE_MS, BACKOFF_MAX_MS, MAX_BATCH_UNITS, backoffMs, sendPendingUsage } from '@/lib/billing/usage-sender';
 import { formUsageBatches } from '@/db/usage-batches';
 import { reconcileUsage } from '@/lib/billing/reconcile';
+import { getUsageSummary } from '@/lib/billing/usage-summary';
 import * as subscriptionRoute from '@/app/api/v1/workspaces/[slug]/billing/subscription/route';
 import * as usageRoute from '@/app/api/v1/workspaces/[slug]/usage/route';
 import type { FakeState } from '@/lib/fakes/payment/server';
@@ -136,6 +137,8 @@ describe('delivery faults', () => {
       expect(retried.length).toBe(first.failed);
       const unsentRows = await db()('usage_events').where({ workspace_id: ws.id }).whereNull('sent_at').count({ n: '*' }).first();
       expect(Number(unsentRows?.n)).toBe(units - first.unitsDelivered);
+      // The billing page tells the finance admin how many units wait for a retry.
+      expect((await getUsageSummary({ workspaceId: ws.id }, { reconcile: false })).retryingUnits).toBe(units - first.unitsDelivered);
       for (const row of retried) {
         expect(row.send_attempts).toBe(1);
         expect(Date.parse(row.next_attempt_at)).toBeGreaterThan(Date.now());
