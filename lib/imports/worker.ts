@@ -3,6 +3,7 @@ import { setImmediate as yieldToEventLoop } from 'node:timers/promises';
 import { screenTotals, ScreeningInputError, type ScreeningInput } from '@/lib/screening';
 import { claimImport, failImport, finishImport, figuresOf, listActiveImports, listPendingFlights, saveScreenedChunk, type ScreenedOutcome } from '@/db/imports';
 import { log } from '@/lib/log';
+import { leaseImport } from './import-lock';
 import { screenInThreads } from './screening-pool';
 
 /**
@@ -74,7 +75,18 @@ function screenChunk(pending: Awaited<ReturnType<typeof listPendingFlights>>): S
   });
 }
 
-async function processImport(importId: number, opts: RunOptions): Promise<number> {
+/** Screens one import to its end; null when another worker process is screening it. */
+async function processImport(importId: number, opts: RunOptions): Promise<number | null> {
+  const lease = await leaseImport(importId);
+  if (!lease) return null;
+  try {
+    return await screenImport(importId, opts);
+  } finally {
+    await lease.release();
+  }
+}
+
+async function screenImport(importId: number, opts: RunOptions): Promise<number> {
   const chunkSize = opts.chunkSize ?? IMPORT_CHUNK_SIZE;
   if (!(await claimImport(importId))) return 0;
   let flights = 0;
@@ -104,9 +116,15 @@ async function pass(opts: RunOptions): Promise<RunSummary> {
     const active = await listActiveImports();
     if (active.length === 0 || state().stopping) return summary;
     let progressed = false;
+    let leasedElsewhere = 0;
     for (const imp of active) {
       try {
-        summary.flights += await processImport(imp.id, opts);
+        const flights = await processImport(imp.id, opts);
+        if (flights === null) {
+          leasedElsewhere += 1;
+          continue;
+        }
+        summary.flights += flights;
         summary.imports += 1;
         progressed = true;
       } catch (err) {
@@ -120,6 +138,8 @@ async function pass(opts: RunOptions): Promise<RunSummary> {
         }
       }
     }
+    // Every import left is being screened by another worker process: look again at the next poll.
+    if (!progressed && leasedElsewhere === active.length) return summary;
     if (!progressed) throw new Error('no import could make progress');
   }
 }
@@ -132,7 +152,8 @@ function enqueue<T>(fn: () => Promise<T>): Promise<T> {
 }
 
 /**
- * Screens every queued or unfinished import to the end, then returns (tests, the benchmark, scripts).
+ * Screens every queued or unfinished import to the end, then returns (tests, the benchmark, scripts);
+ * on PostgreSQL it leaves alone an import another worker process is screening (import-lock.ts).
  * Runs after any pass already going in this process.
  */
 export function runImportsToCompletion(opts: RunOptions = {}): Promise<RunSummary> {

@@ -5,8 +5,9 @@
  * processes (`npm run worker`) on free ports, then checks:
  * - an API key created through instance A works on instance B;
  * - sign-in throttling counts failed attempts made on A and B together;
- * - a 20 000-row import uploaded through A is screened by the workers while one of them is SIGKILLed
- *   mid-way and restarted: every flight screened, one usage unit each;
+ * - a 20 000-row import uploaded through A is screened by worker 1, which is SIGKILLed mid-way with
+ *   worker 2 running beside it: worker 2 takes the import over (the advisory lock went with worker 1's
+ *   connection), worker 1 is restarted, and every flight ends screened with one usage unit each;
  * - the usage senders (one per worker, under the advisory lock) send each unit once: the payment
  *   fake's meter events are the ledger's batches, each once, and their units equal the units sent.
  * Builds first when there is no build (under the checkout's e2e lock). SCALE_ROWS sets the import size.
@@ -133,7 +134,8 @@ async function main(): Promise<number> {
   const workers: ChildProcess[] = [];
   try {
     [a, b] = await Promise.all([startApp(webEnv(portA), portA), startApp(webEnv(portB), portB)]);
-    workers.push(startWorker(workerEnv, 'worker-1'), startWorker(workerEnv, 'worker-2'));
+    // Worker 1 starts alone so that it is the one screening the import when it is killed.
+    workers.push(startWorker(workerEnv, 'worker-1'));
 
     // An API key created through A (by the workspace owner's session) works on B.
     const owner = (await k('users').where({ email: 'consultant@tropopass.test' }).first()) as { id: number; session_version: number };
@@ -172,10 +174,20 @@ async function main(): Promise<number> {
       await pause(100);
       p = await progress();
     }
+    workers.push(startWorker(workerEnv, 'worker-2'));
+    await pause(1500);
+    p = await progress();
     const killedAt = Number(p.rows_done);
     await killGroup(workers[0], 'SIGKILL');
-    check(killedAt > 0 && killedAt < ROWS, `worker 1 SIGKILLed mid-way (${killedAt} / ${ROWS} rows screened)`);
-    await pause(1000);
+    check(killedAt > 0 && killedAt < ROWS, `worker 1 SIGKILLed mid-way, with worker 2 running beside it (${killedAt} / ${ROWS} rows screened)`);
+    // Its lock went with its connection: worker 2 takes the import over without waiting for a timeout.
+    const takeover = Date.now() + 30_000;
+    let after = Number(p.rows_done);
+    while (after <= killedAt + 500 && Date.now() < takeover) {
+      await pause(100);
+      after = Number((await progress()).rows_done);
+    }
+    check(after > killedAt + 500, `worker 2 went on with the import (${killedAt} -> ${after} rows within ${((Date.now() - takeover + 30_000) / 1000).toFixed(1)} s)`);
     workers[0] = startWorker(workerEnv, 'worker-1b');
     while (p.status !== 'complete' && p.status !== 'failed' && Date.now() < deadline) {
       await pause(250);
