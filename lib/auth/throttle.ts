@@ -25,18 +25,21 @@ const WINDOW_S = 15 * 60;
 interface LimiterSpec {
   /** Key prefix. */
   name: string;
-  /** On PostgreSQL, the limiter's own table. */
-  table: string;
   points: number;
   durationS: number;
   blockDurationS?: number;
 }
 
 /**
- * On PostgreSQL every limiter counts in the database, so all app instances share one count; each has
- * its own table (created by the library on start), a per-process block once a key is used up (no
- * query per refused request), and an in-memory stand-in while the database cannot be reached.
+ * On PostgreSQL every limiter counts in the database, so all app instances share one count, with a
+ * per-process block once a key is used up (no query per refused request) and an in-memory stand-in
+ * while the database cannot be reached. All limiters share one table (created by the library on
+ * start; keys carry the limiter's prefix): the library names its prepared statements the same for
+ * every table, and node-postgres refuses one name with two texts on a pooled connection, which with
+ * a table each sent some counts to the in-memory stand-in.
  */
+export const SHARED_THROTTLE_TABLE = 'throttle_counts';
+
 function shared(spec: LimiterSpec, pending: Promise<void>[]): RateLimiterAbstract {
   const opts = { keyPrefix: spec.name, points: spec.points, duration: spec.durationS, blockDuration: spec.blockDurationS ?? 0 };
   let done: (err?: Error) => void = () => undefined;
@@ -46,7 +49,7 @@ function shared(spec: LimiterSpec, pending: Promise<void>[]): RateLimiterAbstrac
       ...opts,
       storeClient: db(),
       storeType: 'knex',
-      tableName: spec.table,
+      tableName: SHARED_THROTTLE_TABLE,
       inMemoryBlockOnConsumed: spec.points + 1,
       insuranceLimiter: new RateLimiterMemory(opts),
     },
@@ -79,12 +82,12 @@ export function createLimiters(): Limiters {
   const other = (spec: LimiterSpec) => (pg ? shared(spec, pending) : new RateLimiterMemory({ keyPrefix: spec.name, points: spec.points, duration: spec.durationS }));
   const limiters: Limiters = {
     ready: Promise.resolve(),
-    signInAccount: signIn({ name: 'acct', table: 'throttle_signin_acct', points: e.RATE_LIMIT_SIGNIN_PER_15MIN, durationS: WINDOW_S, blockDurationS: WINDOW_S }),
-    signInAddress: signIn({ name: 'addr', table: 'throttle_signin_addr', points: e.RATE_LIMIT_SIGNIN_PER_15MIN * 5, durationS: WINDOW_S, blockDurationS: WINDOW_S }),
-    email: other({ name: 'mail', table: 'throttle_mail', points: e.RATE_LIMIT_EMAIL_PER_HOUR, durationS: 3600 }),
-    reportSends: other({ name: 'report-mail', table: 'throttle_report_mail', points: e.RATE_LIMIT_REPORT_SENDS_PER_HOUR, durationS: 3600 }),
-    preview: other({ name: 'preview', table: 'throttle_preview', points: e.RATE_LIMIT_PREVIEW_PER_MIN, durationS: 60 }),
-    api: other({ name: 'api', table: 'throttle_api', points: e.RATE_LIMIT_API_PER_MIN, durationS: 60 }),
+    signInAccount: signIn({ name: 'acct', points: e.RATE_LIMIT_SIGNIN_PER_15MIN, durationS: WINDOW_S, blockDurationS: WINDOW_S }),
+    signInAddress: signIn({ name: 'addr', points: e.RATE_LIMIT_SIGNIN_PER_15MIN * 5, durationS: WINDOW_S, blockDurationS: WINDOW_S }),
+    email: other({ name: 'mail', points: e.RATE_LIMIT_EMAIL_PER_HOUR, durationS: 3600 }),
+    reportSends: other({ name: 'report-mail', points: e.RATE_LIMIT_REPORT_SENDS_PER_HOUR, durationS: 3600 }),
+    preview: other({ name: 'preview', points: e.RATE_LIMIT_PREVIEW_PER_MIN, durationS: 60 }),
+    api: other({ name: 'api', points: e.RATE_LIMIT_API_PER_MIN, durationS: 60 }),
   };
   limiters.ready = Promise.all(pending).then(() => undefined);
   return limiters;

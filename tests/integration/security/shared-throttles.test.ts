@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { RateLimiterRes, type RateLimiterAbstract } from 'rate-limiter-flexible';
 import { onPostgres, useTestDatabase } from '../../support/test-db';
-import { createLimiters, type Limiters } from '@/lib/auth/throttle';
+import { db } from '@/db/client';
+import { createLimiters, SHARED_THROTTLE_TABLE, type Limiters } from '@/lib/auth/throttle';
 
 useTestDatabase({
   RATE_LIMIT_SIGNIN_PER_15MIN: '4',
@@ -52,6 +53,10 @@ describe.runIf(onPostgres())('throttles on PostgreSQL count across instances', (
     expect(await take(b[kind], key)).toBe(false);
     // Another key is counted apart.
     expect(await take(b[kind], `${key}-other`)).toBe(true);
+    // The count is the database's, not an in-memory stand-in's (used only when a query fails).
+    const stored = (await db()(SHARED_THROTTLE_TABLE).where('key', 'like', `%${key}`).select('points')) as { points: number }[];
+    expect(stored).toHaveLength(1);
+    expect(Number(stored[0].points)).toBeGreaterThan(points);
   });
 
   it('a limiter set started later (a new instance) sees the count the others left', async () => {
