@@ -6,7 +6,8 @@ import { db, insertId, nowIso, writeTx } from './client';
 /**
  * The usage ledger's batches: the unit of delivery to the payment service. A batch holds ledger rows
  * of one workspace (one customer) recorded in one UTC minute, so every minute-aligned window the
- * service summarises holds whole batches and its total equals the ledger's over the same window.
+ * service summarises holds whole batches and its total equals the ledger's over the same window; a
+ * billing period ending inside a minute splits it, so each unit is invoiced in its own period.
  */
 
 type Row = Record<string, unknown>;
@@ -94,9 +95,9 @@ export async function formUsageBatches(opts: { maxBatchUnits: number; maxBatches
 
 async function fillBatch(g: { workspaceId: number; customerId: string; minute: string; maxUnits: number }): Promise<{ rows: number; units: number }> {
   return writeTx(async (trx) => {
-    const billing = (await trx('workspace_billing').where({ workspace_id: g.workspaceId }).first('customer_id', 'subscription_id', 'metered_since')) as Row | undefined;
+    const billing = (await trx('workspace_billing').where({ workspace_id: g.workspaceId }).first('customer_id', 'subscription_id', 'metered_since', 'current_period_end')) as Row | undefined;
     if (!billing || billing.customer_id !== g.customerId || !billing.subscription_id || !billing.metered_since) return { rows: 0, units: 0 };
-    const rows = () =>
+    const minuteRows = () =>
       trx('usage_events')
         .where({ workspace_id: g.workspaceId })
         .whereNull('sent_at')
@@ -104,6 +105,19 @@ async function fillBatch(g: { workspaceId: number; customerId: string; minute: s
         .where('occurred_at', '>=', g.minute)
         .where('occurred_at', '<', nextMinute(g.minute))
         .where('occurred_at', '>=', String(billing.metered_since));
+    // A billing period that ends inside this minute splits it: the units before the end are one
+    // batch (stamped before it, so they are invoiced in the period that is closing), the rest another.
+    const periodEnd = typeof billing.current_period_end === 'string' ? billing.current_period_end : null;
+    let side: 'before' | 'after' | null = null;
+    if (periodEnd && periodEnd > g.minute && periodEnd < nextMinute(g.minute)) {
+      side = (await minuteRows().where('occurred_at', '<', periodEnd).first('id')) ? 'before' : 'after';
+    }
+    const rows = () => {
+      const q = minuteRows();
+      if (side === 'before') q.where('occurred_at', '<', periodEnd as string);
+      if (side === 'after') q.where('occurred_at', '>=', periodEnd as string);
+      return q;
+    };
     const cutoff = (await rows().orderBy('id').offset(g.maxUnits - 1).first('id')) as Row | undefined;
     const id = await insertId(
       trx('usage_batches')

@@ -152,6 +152,26 @@ describe('aggregated meter events', () => {
     }
   });
 
+  it('a billing period ending inside a minute splits that minute: the units before the end are stamped before it', async () => {
+    const { ws } = await subscribed(5);
+    const minute = Math.floor((Date.now() - 2 * MINUTE_MS) / MINUTE_MS) * MINUTE_MS;
+    const end = new Date(minute + 30_000).toISOString();
+    await db()('workspace_billing').where({ workspace_id: ws.id }).update({ current_period_end: end });
+    await db().transaction(async (trx) => {
+      for (const [i, offsetMs] of [10_000, 12_000, 29_900, 30_000, 45_000].entries()) {
+        await recordUsage(trx, { workspaceId: ws.id, kind: 'imported_flight', sourceId: nextSource + i, occurredAt: new Date(minute + offsetMs).toISOString() });
+      }
+    });
+    nextSource += 5;
+    await formUsageBatches({ maxBatchUnits: MAX_BATCH_UNITS, maxBatches: 10, workspaceId: ws.id });
+    const batches = (await db()('usage_batches').where({ workspace_id: ws.id }).orderBy('id').select('quantity', 'occurred_at')) as { quantity: number; occurred_at: string }[];
+    expect(batches.map((b) => [Number(b.quantity), b.occurred_at])).toEqual([
+      [3, new Date(minute + 29_900).toISOString()],
+      [2, new Date(minute + 45_000).toISOString()],
+    ]);
+    expect(batches[0].occurred_at < end).toBe(true);
+  });
+
   it('two senders racing put each row in one batch and the service counts each unit once', async () => {
     const { ws, billing } = await subscribed(5);
     await ledgerUnits(ws.id, 500, 2 * MINUTE_MS);
