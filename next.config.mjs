@@ -1,6 +1,6 @@
 /** @type {import('next').NextConfig} */
 const nextConfig = {
-  serverExternalPackages: ['knex', 'better-sqlite3', '@node-rs/argon2', 'pino', 'nodemailer', 'pdf-lib'],
+  serverExternalPackages: ['knex', 'better-sqlite3', '@node-rs/argon2', 'pino', 'nodemailer', 'pdf-lib', 'piscina'],
   poweredByHeader: false,
   reactStrictMode: true,
   typedRoutes: false,

@@ -221,66 +221,16 @@ export async function countLedgerUnits(
   return { units, sentUnits, pendingUnits };
 }
 
-export interface DueUsageRow {
-  id: number;
-  workspaceId: number;
-  customerId: string;
-  idempotencyKey: string;
-  quantity: number;
-  occurredAt: string;
-  sendAttempts: number;
-}
-
-/**
- * Ledger rows to deliver now: not sent, due by `asOf`, of a workspace with a subscription, and
- * recorded since its metering started.
- */
-export async function listDueUsage(input: { asOf: string; limit: number; workspaceId?: number }): Promise<DueUsageRow[]> {
-  const q = db()('usage_events as u')
-    .join('workspace_billing as b', 'b.workspace_id', 'u.workspace_id')
-    .whereNull('u.sent_at')
-    .whereNotNull('b.customer_id')
-    .whereNotNull('b.subscription_id')
-    .whereNotNull('b.metered_since')
-    .whereRaw('u.occurred_at >= b.metered_since')
-    .where((w) => w.whereNull('u.next_attempt_at').orWhere('u.next_attempt_at', '<=', input.asOf))
-    .orderBy('u.id')
-    .limit(input.limit)
-    .select('u.id', 'u.workspace_id', 'b.customer_id', 'u.idempotency_key', 'u.quantity', 'u.occurred_at', 'u.send_attempts');
-  if (input.workspaceId !== undefined) q.where('u.workspace_id', input.workspaceId);
-  const rows = (await q) as Row[];
-  return rows.map((r) => ({
-    id: Number(r.id),
-    workspaceId: Number(r.workspace_id),
-    customerId: String(r.customer_id),
-    idempotencyKey: String(r.idempotency_key),
-    quantity: Number(r.quantity),
-    occurredAt: String(r.occurred_at),
-    sendAttempts: Number(r.send_attempts),
-  }));
-}
-
-export async function markUsageSent(id: number, at: string = nowIso()): Promise<void> {
-  await db()('usage_events').where({ id }).whereNull('sent_at').update({ sent_at: at, next_attempt_at: null, last_error: null });
-}
-
-export async function markUsageFailed(id: number, input: { attempts: number; nextAttemptAt: string; error: string }): Promise<void> {
-  await db()('usage_events')
-    .where({ id })
-    .whereNull('sent_at')
-    .update({ send_attempts: input.attempts, next_attempt_at: input.nextAttemptAt, last_error: input.error.slice(0, 500) });
-}
-
-/** The oldest delivery problem of a workspace's unsent units, for the billing page (no provider text). */
+/** Units of a workspace whose delivery has failed at least once and is still to be retried, for the billing page (no provider text). */
 export async function getUsageDeliveryProblem(scope: { workspaceId: number }): Promise<{ failingUnits: number; since: string | null; nextAttemptAt: string | null } | null> {
-  const r = (await db()('usage_events')
+  const r = (await db()('usage_batches')
     .where({ workspace_id: scope.workspaceId })
     .whereNull('sent_at')
     .where('send_attempts', '>', 0)
-    .count({ n: '*' })
+    .sum({ n: 'quantity' })
     .min({ since: 'occurred_at' })
     .min({ next: 'next_attempt_at' })
-    .first()) as { n: number | string; since: string | null; next: string | null } | undefined;
+    .first()) as { n: number | string | null; since: string | null; next: string | null } | undefined;
   const n = Number(r?.n ?? 0);
   return n > 0 ? { failingUnits: n, since: r?.since ?? null, nextAttemptAt: r?.next ?? null } : null;
 }

@@ -44,6 +44,8 @@ const envSchema = z.object({
   BILLING_SENDER: z.enum(['0', '1', 'true', 'false', '']).optional().transform((v) => v !== '0' && v !== 'false'),
   BILLING_SENDER_INTERVAL_MS: int(2_000),
   IMPORT_WORKER: z.enum(['0', '1', 'true', 'false', '']).optional().transform((v) => v !== '0' && v !== 'false'),
+  /** Worker threads screening imported flights; unset: one core short of the machine (see lib/imports/screening-pool.ts). */
+  SCREENING_THREADS: z.preprocess((v) => (v === '' ? undefined : v), z.coerce.number().int().min(0).max(64).optional()),
   /** Set by Next while it builds; background work does not start then. */
   NEXT_PHASE: z.string().optional(),
 });

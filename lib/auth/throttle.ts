@@ -9,65 +9,107 @@ import { throttled } from '@/lib/errors';
 
 const g = globalThis as unknown as { tropopassLimiters?: Limiters };
 
-interface Limiters {
+export interface Limiters {
   /** Settles once the persistent limiters' tables exist. */
   ready: Promise<void>;
   signInAccount: RateLimiterAbstract;
   signInAddress: RateLimiterAbstract;
-  email: RateLimiterMemory;
-  reportSends: RateLimiterMemory;
-  preview: RateLimiterMemory;
-  api: RateLimiterMemory;
+  email: RateLimiterAbstract;
+  reportSends: RateLimiterAbstract;
+  preview: RateLimiterAbstract;
+  api: RateLimiterAbstract;
 }
 
 const WINDOW_S = 15 * 60;
 
-function persistent(keyPrefix: string, points: number, pending: Promise<void>[]): RateLimiterAbstract {
-  const opts = { keyPrefix, points, duration: WINDOW_S, blockDuration: WINDOW_S };
-  if (isPostgres()) {
-    // Stored through the app's own pool; each limiter creates its own table on start (one table
-    // each, so two concurrent CREATE TABLE IF NOT EXISTS cannot collide).
-    let done: (err?: Error) => void = () => undefined;
-    pending.push(new Promise<void>((resolve, reject) => (done = (err) => (err ? reject(err) : resolve()))));
-    return new RateLimiterPostgres({ ...opts, storeClient: db(), storeType: 'knex', tableName: `throttle_signin_${keyPrefix}` }, (err?: Error) => done(err));
-  }
-  // Sign-in counters live in the database file so a restart does not reset them; the limiter
-  // keeps its own table through its own connection.
+interface LimiterSpec {
+  /** Key prefix. */
+  name: string;
+  points: number;
+  durationS: number;
+  blockDurationS?: number;
+}
+
+/**
+ * On PostgreSQL every limiter counts in the database, so all app instances share one count, with a
+ * per-process block once a key is used up (no query per refused request) and an in-memory stand-in
+ * while the database cannot be reached. All limiters share one table (created by the library on
+ * start; keys carry the limiter's prefix): the library names its prepared statements the same for
+ * every table, and node-postgres refuses one name with two texts on a pooled connection, which with
+ * a table each sent some counts to the in-memory stand-in.
+ */
+export const SHARED_THROTTLE_TABLE = 'throttle_counts';
+
+function shared(spec: LimiterSpec, pending: Promise<void>[]): RateLimiterAbstract {
+  const opts = { keyPrefix: spec.name, points: spec.points, duration: spec.durationS, blockDuration: spec.blockDurationS ?? 0 };
+  let done: (err?: Error) => void = () => undefined;
+  pending.push(new Promise<void>((resolve, reject) => (done = (err) => (err ? reject(err) : resolve()))));
+  return new RateLimiterPostgres(
+    {
+      ...opts,
+      storeClient: db(),
+      storeType: 'knex',
+      tableName: SHARED_THROTTLE_TABLE,
+      inMemoryBlockOnConsumed: spec.points + 1,
+      insuranceLimiter: new RateLimiterMemory(opts),
+    },
+    (err?: Error) => done(err),
+  );
+}
+
+/**
+ * On SQLite (one process) sign-in counters live in the database file so a restart does not reset
+ * them; the limiter keeps its own table through its own connection. The other throttles count in
+ * process memory.
+ */
+function sqliteFile(spec: LimiterSpec): RateLimiterAbstract {
   const file = path.resolve(/*turbopackIgnore: true*/ process.cwd(), env().SQLITE_FILE);
   const conn = new Database(file);
   conn.pragma('journal_mode = WAL');
   conn.pragma('busy_timeout = 5000');
-  return new RateLimiterSQLite({ ...opts, storeClient: conn, storeType: 'better-sqlite3', tableName: 'throttle_signin' });
+  return new RateLimiterSQLite({ keyPrefix: spec.name, points: spec.points, duration: spec.durationS, blockDuration: spec.blockDurationS ?? 0, storeClient: conn, storeType: 'better-sqlite3', tableName: 'throttle_signin' });
+}
+
+/**
+ * A fresh set of limiters, as one process holds them. The app keeps one set per process
+ * (`limiters()`); tests make two to stand for two instances.
+ */
+export function createLimiters(): Limiters {
+  const e = env();
+  const pending: Promise<void>[] = [];
+  const pg = isPostgres();
+  const signIn = (spec: LimiterSpec) => (pg ? shared(spec, pending) : sqliteFile(spec));
+  const other = (spec: LimiterSpec) => (pg ? shared(spec, pending) : new RateLimiterMemory({ keyPrefix: spec.name, points: spec.points, duration: spec.durationS }));
+  const limiters: Limiters = {
+    ready: Promise.resolve(),
+    signInAccount: signIn({ name: 'acct', points: e.RATE_LIMIT_SIGNIN_PER_15MIN, durationS: WINDOW_S, blockDurationS: WINDOW_S }),
+    signInAddress: signIn({ name: 'addr', points: e.RATE_LIMIT_SIGNIN_PER_15MIN * 5, durationS: WINDOW_S, blockDurationS: WINDOW_S }),
+    email: other({ name: 'mail', points: e.RATE_LIMIT_EMAIL_PER_HOUR, durationS: 3600 }),
+    reportSends: other({ name: 'report-mail', points: e.RATE_LIMIT_REPORT_SENDS_PER_HOUR, durationS: 3600 }),
+    preview: other({ name: 'preview', points: e.RATE_LIMIT_PREVIEW_PER_MIN, durationS: 60 }),
+    api: other({ name: 'api', points: e.RATE_LIMIT_API_PER_MIN, durationS: 60 }),
+  };
+  limiters.ready = Promise.all(pending).then(() => undefined);
+  return limiters;
 }
 
 function limiters(): Limiters {
   if (!g.tropopassLimiters) {
-    const e = env();
-    const pending: Promise<void>[] = [];
-    g.tropopassLimiters = {
-      ready: Promise.resolve(),
-      signInAccount: persistent('acct', e.RATE_LIMIT_SIGNIN_PER_15MIN, pending),
-      signInAddress: persistent('addr', e.RATE_LIMIT_SIGNIN_PER_15MIN * 5, pending),
-      email: new RateLimiterMemory({ keyPrefix: 'mail', points: e.RATE_LIMIT_EMAIL_PER_HOUR, duration: 3600 }),
-      reportSends: new RateLimiterMemory({ keyPrefix: 'report-mail', points: e.RATE_LIMIT_REPORT_SENDS_PER_HOUR, duration: 3600 }),
-      preview: new RateLimiterMemory({ keyPrefix: 'preview', points: e.RATE_LIMIT_PREVIEW_PER_MIN, duration: 60 }),
-      api: new RateLimiterMemory({ keyPrefix: 'api', points: e.RATE_LIMIT_API_PER_MIN, duration: 60 }),
-    };
-    g.tropopassLimiters.ready = Promise.all(pending).then(
-      () => undefined,
-      (err: unknown) => {
-        // Try again on the next sign-in rather than refusing every one until a restart.
-        g.tropopassLimiters = undefined;
-        throw err;
-      },
-    );
+    const created = createLimiters();
+    g.tropopassLimiters = created;
+    created.ready.catch(() => {
+      // Try again on the next request rather than refusing every one until a restart.
+      if (g.tropopassLimiters === created) g.tropopassLimiters = undefined;
+    });
   }
   return g.tropopassLimiters;
 }
 
-async function consume(limiter: RateLimiterAbstract, key: string, message: string): Promise<void> {
+async function consume(pick: (l: Limiters) => RateLimiterAbstract, key: string, message: string): Promise<void> {
+  const l = limiters();
+  await l.ready;
   try {
-    await limiter.consume(key);
+    await pick(l).consume(key);
   } catch (err) {
     if (err instanceof RateLimiterRes) throw throttled(err.msBeforeNext / 1000, message);
     throw err;
@@ -107,18 +149,18 @@ export async function recordSignInSuccess(email: string): Promise<void> {
 }
 
 export function limitEmailSend(kind: 'signin' | 'reset' | 'invite', to: string): Promise<void> {
-  return consume(limiters().email, `${kind}:${to}`, 'Too many e-mails were requested for this address. Try again later.');
+  return consume((l) => l.email, `${kind}:${to}`, 'Too many e-mails were requested for this address. Try again later.');
 }
 
 /** Report e-mails per workspace per hour (each send, whatever its number of recipients). */
 export function limitReportSend(workspaceId: number): Promise<void> {
-  return consume(limiters().reportSends, `ws:${workspaceId}`, 'This workspace has sent many report e-mails in the last hour. Try again later.');
+  return consume((l) => l.reportSends, `ws:${workspaceId}`, 'This workspace has sent many report e-mails in the last hour. Try again later.');
 }
 
 export function limitPreview(key: string): Promise<void> {
-  return consume(limiters().preview, key, 'Previews are coming too fast. Wait a moment and try again.');
+  return consume((l) => l.preview, key, 'Previews are coming too fast. Wait a moment and try again.');
 }
 
 export function limitApi(key: string): Promise<void> {
-  return consume(limiters().api, key, 'Too many requests. Slow down and try again shortly.');
+  return consume((l) => l.api, key, 'Too many requests. Slow down and try again shortly.');
 }

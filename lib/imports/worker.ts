@@ -3,11 +3,14 @@ import { setImmediate as yieldToEventLoop } from 'node:timers/promises';
 import { screenTotals, ScreeningInputError, type ScreeningInput } from '@/lib/screening';
 import { claimImport, failImport, finishImport, figuresOf, listActiveImports, listPendingFlights, saveScreenedChunk, type ScreenedOutcome } from '@/db/imports';
 import { log } from '@/lib/log';
+import { leaseImport } from './import-lock';
+import { screenInThreads } from './screening-pool';
 
 /**
- * The background screening of imported flights, in the server process. It polls for imports that
- * are queued or were left mid-way (status screening: a restart resumes them), screens their pending
- * flights in chunks, and writes each chunk (figures, status, one usage unit per screened flight) in
+ * The background screening of imported flights, in the server process or a standalone worker
+ * process (`npm run worker`). It polls for imports that are queued or were left mid-way (status
+ * screening: a restart resumes them), screens their pending flights in chunks (in worker threads,
+ * see screening-pool.ts), and writes each chunk (figures, status, one usage unit per screened flight) in
  * one transaction. A chunk only touches flights still pending, so a chunk replayed after a crash
  * can neither lose a flight nor bill one twice.
  *
@@ -72,7 +75,18 @@ function screenChunk(pending: Awaited<ReturnType<typeof listPendingFlights>>): S
   });
 }
 
-async function processImport(importId: number, opts: RunOptions): Promise<number> {
+/** Screens one import to its end; null when another worker process is screening it. */
+async function processImport(importId: number, opts: RunOptions): Promise<number | null> {
+  const lease = await leaseImport(importId);
+  if (!lease) return null;
+  try {
+    return await screenImport(importId, opts);
+  } finally {
+    await lease.release();
+  }
+}
+
+async function screenImport(importId: number, opts: RunOptions): Promise<number> {
   const chunkSize = opts.chunkSize ?? IMPORT_CHUNK_SIZE;
   if (!(await claimImport(importId))) return 0;
   let flights = 0;
@@ -87,7 +101,7 @@ async function processImport(importId: number, opts: RunOptions): Promise<number
       }
       continue;
     }
-    const outcomes = screenChunk(pending);
+    const outcomes = (await screenInThreads(pending)) ?? screenChunk(pending);
     const saved = await saveScreenedChunk(importId, outcomes);
     flights += saved;
     state().errors.delete(importId);
@@ -102,9 +116,15 @@ async function pass(opts: RunOptions): Promise<RunSummary> {
     const active = await listActiveImports();
     if (active.length === 0 || state().stopping) return summary;
     let progressed = false;
+    let leasedElsewhere = 0;
     for (const imp of active) {
       try {
-        summary.flights += await processImport(imp.id, opts);
+        const flights = await processImport(imp.id, opts);
+        if (flights === null) {
+          leasedElsewhere += 1;
+          continue;
+        }
+        summary.flights += flights;
         summary.imports += 1;
         progressed = true;
       } catch (err) {
@@ -118,6 +138,8 @@ async function pass(opts: RunOptions): Promise<RunSummary> {
         }
       }
     }
+    // Every import left is being screened by another worker process: look again at the next poll.
+    if (!progressed && leasedElsewhere === active.length) return summary;
     if (!progressed) throw new Error('no import could make progress');
   }
 }
@@ -130,7 +152,8 @@ function enqueue<T>(fn: () => Promise<T>): Promise<T> {
 }
 
 /**
- * Screens every queued or unfinished import to the end, then returns (tests, the benchmark, scripts).
+ * Screens every queued or unfinished import to the end, then returns (tests, the benchmark, scripts);
+ * on PostgreSQL it leaves alone an import another worker process is screening (import-lock.ts).
  * Runs after any pass already going in this process.
  */
 export function runImportsToCompletion(opts: RunOptions = {}): Promise<RunSummary> {

@@ -5,7 +5,11 @@
  * requests/s, p50/p99 latency, errors, non-2xx and the SQLITE_BUSY count seen in the server's output,
  * and the targets: preview >= half the reference's requests/s with p99 < 50 ms; save >= 150/s; no errors.
  *
- * Env: BENCH_SECONDS (default 30), BENCH_CONNECTIONS (default 32), BENCH_BUILD=1 to rebuild first.
+ * Then the preview at 4 connections idle and again while a 100 000-row import screens (in the
+ * server's worker threads), printing both p99s and their ratio (target: at most 2).
+ *
+ * Env: BENCH_SECONDS (default 30), BENCH_CONNECTIONS (default 32), BENCH_BUILD=1 to rebuild first,
+ * BENCH_IMPORT_ROWS (default 100 000; 0 skips the import run), BENCH_IMPORT_SECONDS (default 10).
  * It takes the checkout's e2e lock itself for the whole run (no build can replace .next meanwhile).
  */
 import { createRequire } from 'node:module';
@@ -38,6 +42,52 @@ const SECONDS = Number(process.env.BENCH_SECONDS ?? 30);
 const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 32);
 const SLUG = 'skarn-polar';
 const FEW = Number(process.env.BENCH_FEW_CONNECTIONS ?? 4);
+const IMPORT_ROWS = Number(process.env.BENCH_IMPORT_ROWS ?? 100_000);
+const IMPORT_SECONDS = Number(process.env.BENCH_IMPORT_SECONDS ?? 10);
+const PAIRS = [['EGLL', 'KJFK'], ['EFHK', 'RJTT'], ['ENGM', 'KSEA'], ['BIKF', 'CYYZ'], ['EKCH', 'PANC']];
+
+/** `rows` distinct flights of the demo type SK-LR1, dated in October 2026. */
+function schedule(rows: number): string {
+  const lines = ['date,flight,origin,destination,aircraft,cruise_fl,fuel_kg'];
+  for (let i = 0; i < rows; i++) {
+    const [o, d] = PAIRS[i % PAIRS.length];
+    lines.push(`2026-10-${String(1 + (i % 30)).padStart(2, '0')},LD${i},${o},${d},SK-LR1,${330 + (i % 5) * 10},${40_000 + (i % 11) * 1000}`);
+  }
+  return lines.join('\n');
+}
+
+interface ImportRun {
+  idle: Row;
+  during: Row;
+  rowsDoneBefore: number;
+  rowsDoneAfter: number;
+  rows: number;
+  statusAfter: string;
+}
+
+/**
+ * The preview at FEW connections idle, then during the screening of an IMPORT_ROWS-row import
+ * (measured once the worker has started on it, for IMPORT_SECONDS each).
+ */
+async function previewDuringImport(base: string, auth: Record<string, string>): Promise<ImportRun> {
+  const preview = { url: `${base}/api/v1/workspaces/${SLUG}/screenings/preview`, method: 'POST', headers: auth, body: JSON.stringify(FLIGHT), connections: FEW, duration: IMPORT_SECONDS };
+  const idle = await measure(`preview at ${FEW} connections, idle`, preview);
+  const form = new FormData();
+  form.set('file', new Blob([schedule(IMPORT_ROWS)], { type: 'text/csv' }), 'load.csv');
+  const up = await fetch(`${base}/api/v1/workspaces/${SLUG}/imports`, { method: 'POST', headers: { authorization: auth.authorization }, body: form });
+  const body = (await up.json()) as { id?: number };
+  if (up.status !== 202 || typeof body.id !== 'number') throw new Error(`import upload: ${up.status} ${JSON.stringify(body).slice(0, 300)}`);
+  const status = async () => (await (await fetch(`${base}/api/v1/workspaces/${SLUG}/imports/${body.id}`, { headers: auth })).json()) as { status: string; rows: number; rowsDone: number };
+  const until = Date.now() + 120_000;
+  let before = await status();
+  while (before.rowsDone === 0 && before.status !== 'complete' && Date.now() < until) {
+    await new Promise((r) => setTimeout(r, 100));
+    before = await status();
+  }
+  const during = await measure(`preview at ${FEW} connections, importing`, preview);
+  const after = await status();
+  return { idle, during, rowsDoneBefore: before.rowsDone, rowsDoneAfter: after.rowsDone, rows: after.rows, statusAfter: after.status };
+}
 
 const FLIGHT = {
   route: { waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] },
@@ -104,6 +154,7 @@ async function main(): Promise<number> {
   const base = app.baseUrl;
   const rows: Row[] = [];
   let sampled = { p50: Number.NaN, p95: Number.NaN, n: 0 };
+  let importRun: ImportRun | null = null;
   try {
     // Warm up each route (first requests load and compile the route's modules).
     for (let i = 0; i < 20; i++) {
@@ -120,6 +171,7 @@ async function main(): Promise<number> {
     // preview is also measured at a planner-like concurrency.
     rows.push(await measure(`preview at ${FEW} connections`, { url: `${base}/api/v1/workspaces/${SLUG}/screenings/preview`, method: 'POST', headers: auth, body: JSON.stringify(FLIGHT), connections: FEW }));
     sampled = await sequentialPreviews(`${base}/api/v1/workspaces/${SLUG}/screenings/preview`, auth);
+    if (IMPORT_ROWS > 0) importRun = await previewDuringImport(base, auth);
   } finally {
     await app.stop();
   }
@@ -134,7 +186,14 @@ async function main(): Promise<number> {
   const pad = (s: string, n: number) => s.padEnd(n);
   const num = (v: number, d = 0) => v.toFixed(d).padStart(9);
   console.log(`\n${pad('route', 38)}${'req/s'.padStart(9)}${'p50 ms'.padStart(9)}${'p99 ms'.padStart(9)}${'errors'.padStart(9)}${'non-2xx'.padStart(9)}  statuses`);
-  for (const r of rows) console.log(`${pad(r.name, 38)}${num(r.rps)}${num(r.p50, 1)}${num(r.p99, 1)}${num(r.errors)}${num(r.non2xx)}  ${r.statuses}`);
+  for (const r of [...rows, ...(importRun ? [importRun.idle, importRun.during] : [])]) console.log(`${pad(r.name, 38)}${num(r.rps)}${num(r.p50, 1)}${num(r.p99, 1)}${num(r.errors)}${num(r.non2xx)}  ${r.statuses}`);
+  if (importRun) {
+    const ratio = importRun.during.p99 / Math.max(importRun.idle.p99, 0.001);
+    console.log(
+      `preview p99 at ${FEW} connections: ${importRun.idle.p99.toFixed(1)} ms idle, ${importRun.during.p99.toFixed(1)} ms while a ${importRun.rows}-row import screened ` +
+        `(rows ${importRun.rowsDoneBefore} -> ${importRun.rowsDoneAfter} during the measurement, import ${importRun.statusAfter} after it); ratio ${ratio.toFixed(2)}`,
+    );
+  }
   console.log(`SQLITE_BUSY in server output: ${busy}; saved screenings: ${saved}, their usage units: ${units}; integrity_check: ${integrity}`);
   console.log(`preview with uncertainty { samples: 400 } and months: true, one client, ${sampled.n} requests one after another: p50 ${sampled.p50.toFixed(1)} ms, p95 ${sampled.p95.toFixed(1)} ms`);
 
@@ -149,6 +208,13 @@ async function main(): Promise<number> {
     [`one unit per saved screening (${saved} / ${units})`, saved === units],
     [`no SQLITE_BUSY (${busy})`, busy === 0],
   ];
+  if (importRun) {
+    const ratio = importRun.during.p99 / Math.max(importRun.idle.p99, 0.001);
+    const screenedThroughout = importRun.rowsDoneAfter < importRun.rows || importRun.statusAfter !== 'complete';
+    checks.push([`preview p99 at ${FEW} connections during the import within 2 x idle (ratio ${ratio.toFixed(2)})`, ratio <= 2]);
+    checks.push([`the import was still screening when the measurement ended (${importRun.rowsDoneAfter} / ${importRun.rows} rows)`, screenedThroughout]);
+    checks.push([`zero errors during the import run`, importRun.idle.errors + importRun.during.errors + importRun.idle.non2xx + importRun.during.non2xx === 0]);
+  }
   console.log('\ntargets:');
   for (const [label, ok] of checks) console.log(`  ${ok ? 'met   ' : 'MISSED'} ${label}`);
   fs.rmSync(dir, { recursive: true, force: true });

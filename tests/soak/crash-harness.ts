@@ -6,7 +6,8 @@
  * - PRAGMA integrity_check and foreign_key_check;
  * - no lost acknowledged write: every 201/200 the client got is in the database, with its key;
  * - no doubled unit: exactly one usage unit per saved screening and per screened flight, none for a
- *   flight still pending, and every unit marked sent is at the payment service exactly once.
+ *   flight still pending; every meter event at the payment service is one usage batch, carrying the
+ *   count of the ledger rows in it, and every batch marked sent (with its rows) is there exactly once.
  * Requests cut off by a kill are retried after the restart with the same Idempotency-Key.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
@@ -34,12 +35,16 @@ export interface KillRecord {
   importRows: number;
   unsentUnits: number;
   sentUnits: number;
+  /** Batches the payment service had counted while the ledger still had them unsent: killed between send and mark. */
+  countedNotMarked: number;
 }
 
 export interface SoakReport {
   kills: KillRecord[];
   killsMidImport: number;
   killsMidSending: number;
+  /** Kills that left at least one batch counted by the service but not marked sent (its resend must be recognised). */
+  killsBetweenSendAndMark: number;
   acknowledgedScreenings: number;
   acknowledgedImports: number;
   retriedAfterKill: number;
@@ -47,7 +52,9 @@ export interface SoakReport {
   screeningUnits: number;
   flightUnits: number;
   sentUnits: number;
+  /** Meter events at the payment service (one per usage batch) and the units they carry. */
   providerEvents: number;
+  providerUnits: number;
   drained: boolean;
   seconds: number;
   problems: string[];
@@ -85,9 +92,23 @@ function withDb<T>(file: string, fn: (db: Database.Database) => T, readonly = tr
 function progress(s: Store, importIds: number[], since: string): { rowsDone: number; rows: number; unsent: number; sent: number } {
   return withDb(s.file, (db) => {
     const imp = importIds.length ? (db.prepare(`select coalesce(sum(rows_done), 0) as done, coalesce(sum(rows), 0) as rows from imports where id in (${importIds.map(() => '?').join(',')})`).get(...importIds) as { done: number; rows: number }) : { done: 0, rows: 0 };
-    const u = db.prepare('select sum(case when sent_at is null then 1 else 0 end) as unsent, sum(case when sent_at is not null and sent_at >= ? then 1 else 0 end) as sent from usage_events').get(since) as { unsent: number | null; sent: number | null };
+    // Unsent counts only billable units: the seed's history predates the subscriptions and is never sent.
+    const u = db
+      .prepare(
+        `select sum(case when u.sent_at is null and b.subscription_id is not null and b.metered_since is not null and u.occurred_at >= b.metered_since then 1 else 0 end) as unsent,
+                sum(case when u.sent_at is not null and u.sent_at >= ? then 1 else 0 end) as sent
+         from usage_events u left join workspace_billing b on b.workspace_id = u.workspace_id`,
+      )
+      .get(since) as { unsent: number | null; sent: number | null };
     return { rowsDone: imp.done, rows: imp.rows, unsent: u.unsent ?? 0, sent: u.sent ?? 0 };
   });
+}
+
+function countedNotMarked(s: Store): number {
+  if (!fs.existsSync(s.fakeFile)) return 0;
+  const provider = new Set(withDb(s.fakeFile, (db) => (db.prepare('select identifier from meter_events').all() as { identifier: string }[]).map((r) => r.identifier)));
+  const unsent = withDb(s.file, (db) => (db.prepare('select identifier from usage_batches where sent_at is null').all() as { identifier: string }[]).map((r) => r.identifier));
+  return unsent.filter((k) => provider.has(k)).length;
 }
 
 interface Ack {
@@ -130,15 +151,23 @@ export function checkInvariants(s: Store, acks: Ack[], imports: number[]): strin
     false,
   );
   if (fs.existsSync(s.fakeFile)) {
-    const provider = withDb(s.fakeFile, (db) => (db.prepare('select identifier from meter_events').all() as { identifier: string }[]).map((r) => r.identifier));
-    const ledger = withDb(s.file, (db) => db.prepare('select idempotency_key as k, sent_at as sent from usage_events').all() as { k: string; sent: string | null }[]);
-    const ledgerKeys = new Set(ledger.map((r) => r.k));
-    const providerKeys = new Set(provider);
+    const provider = withDb(s.fakeFile, (db) => db.prepare('select identifier, value from meter_events').all() as { identifier: string; value: number }[]);
+    const batches = withDb(s.file, (db) =>
+      db.prepare('select b.identifier as k, b.quantity as q, b.sent_at as sent, (select count(*) from usage_events u where u.batch_id = b.id) as n from usage_batches b').all() as { k: string; q: number; sent: string | null; n: number }[],
+    );
+    const byKey = new Map(batches.map((b) => [b.k, b]));
+    const providerKeys = new Set(provider.map((e) => e.identifier));
     if (providerKeys.size !== provider.length) problems.push('the payment service holds a meter event twice');
-    const unknown = provider.filter((k) => !ledgerKeys.has(k));
-    if (unknown.length) problems.push(`${unknown.length} meter events match no ledger unit`);
-    const lost = ledger.filter((r) => r.sent && !providerKeys.has(r.k));
-    if (lost.length) problems.push(`${lost.length} units marked sent are not at the payment service`);
+    const unknown = provider.filter((e) => !byKey.has(e.identifier));
+    if (unknown.length) problems.push(`${unknown.length} meter events match no usage batch`);
+    const wrongValue = provider.filter((e) => byKey.has(e.identifier) && byKey.get(e.identifier)!.q !== e.value);
+    if (wrongValue.length) problems.push(`${wrongValue.length} meter events carry another count than their batch`);
+    const miscounted = batches.filter((b) => b.q !== b.n);
+    if (miscounted.length) problems.push(`${miscounted.length} batches hold another number of ledger rows than their count`);
+    const lost = batches.filter((b) => b.sent && !providerKeys.has(b.k));
+    if (lost.length) problems.push(`${lost.length} batches marked sent are not at the payment service`);
+    const strays = withDb(s.file, (db) => db.prepare('select count(*) as n from usage_events u where u.sent_at is not null and (u.batch_id is null or not exists (select 1 from usage_batches b where b.id = u.batch_id and b.sent_at is not null))').get() as { n: number });
+    if (strays.n) problems.push(`${strays.n} units marked sent outside a sent batch`);
   }
   return problems;
 }
@@ -240,6 +269,9 @@ export async function runCrashSoak(opts: SoakOptions): Promise<SoakReport> {
 
   try {
     await waitForPort(fakePort);
+    // A slow meter-event reply widens the window between the service counting a batch and the ledger
+    // marking it, so kills land there too.
+    await fetch(`http://127.0.0.1:${fakePort}/_fake/faults`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ delayMs: 250, onlyPaths: ['/v1/billing/meter_events'] }) });
     for (let cycle = 0; cycle <= opts.kills; cycle++) {
       const app = await startServer(opts, env, port);
       const base = app.baseUrl;
@@ -286,15 +318,24 @@ export async function runCrashSoak(opts: SoakOptions): Promise<SoakReport> {
         if ((midImport && (p.sent > 0 || p.rowsDone * 2 >= p.rows)) || p.rowsDone >= p.rows || Date.now() > deadline) break;
         await new Promise((r) => setTimeout(r, 20));
       }
-      await new Promise((r) => setTimeout(r, Math.floor(Math.random() * 150)));
+      if (cycle % 2 === 1) {
+        // Every other kill lands while a meter event is at the service, before the reply reaches the ledger.
+        const seen = await meterEventRequests(fakePort);
+        const until = Date.now() + 10_000;
+        while ((await meterEventRequests(fakePort)) === seen && Date.now() < until) await new Promise((r) => setTimeout(r, 10));
+      } else {
+        await new Promise((r) => setTimeout(r, Math.floor(Math.random() * 150)));
+      }
       await app.stop('SIGKILL');
       stop = true;
       await Promise.all(loops);
       const p = progress(store, current, cycleStart);
-      kills.push({ cycle, importRowsDone: p.rowsDone, importRows: p.rows, unsentUnits: p.unsent, sentUnits: p.sent });
+      // The fake finishes (after its 250 ms delay) a request the killed client was waiting for.
+      await new Promise((r) => setTimeout(r, 400));
+      kills.push({ cycle, importRowsDone: p.rowsDone, importRows: p.rows, unsentUnits: p.unsent, sentUnits: p.sent, countedNotMarked: countedNotMarked(store) });
       const found = checkInvariants(store, acks, imports);
       problems.push(...found.map((f) => `after kill ${cycle + 1}: ${f}`));
-      log(`kill ${cycle + 1}/${opts.kills}: import ${p.rowsDone}/${p.rows} rows screened, ${p.sent} units sent this cycle, ${p.unsent} waiting; ${acks.length} screenings acknowledged, ${pending.size} cut off${found.length ? `; PROBLEMS: ${found.join('; ')}` : ''}`);
+      log(`kill ${cycle + 1}/${opts.kills}: import ${p.rowsDone}/${p.rows} rows screened, ${p.sent} units sent this cycle, ${p.unsent} waiting, ${kills.at(-1)?.countedNotMarked ?? 0} batches counted but not marked; ${acks.length} screenings acknowledged, ${pending.size} cut off${found.length ? `; PROBLEMS: ${found.join('; ')}` : ''}`);
     }
     problems.push(...checkInvariants(store, acks, imports).map((f) => `at the end: ${f}`));
   } finally {
@@ -305,23 +346,31 @@ export async function runCrashSoak(opts: SoakOptions): Promise<SoakReport> {
     flightUnits: (db.prepare("select count(*) as n from usage_events where kind = 'imported_flight'").get() as { n: number }).n,
     sentUnits: (db.prepare('select count(*) as n from usage_events where sent_at is not null').get() as { n: number }).n,
   }));
-  const providerEvents = fs.existsSync(store.fakeFile) ? withDb(store.fakeFile, (db) => (db.prepare('select count(*) as n from meter_events').get() as { n: number }).n) : 0;
-  if (drained && providerEvents !== totals.sentUnits) problems.push(`after draining, the payment service counts ${providerEvents} units and the ledger ${totals.sentUnits} sent`);
+  const provider = fs.existsSync(store.fakeFile) ? withDb(store.fakeFile, (db) => db.prepare('select count(*) as n, coalesce(sum(value), 0) as units from meter_events').get() as { n: number; units: number }) : { n: 0, units: 0 };
+  if (drained && provider.units !== totals.sentUnits) problems.push(`after draining, the payment service counts ${provider.units} units and the ledger ${totals.sentUnits} sent`);
   fs.rmSync(dir, { recursive: true, force: true });
   return {
     kills,
     killsMidImport: kills.filter((k) => k.importRowsDone > 0 && k.importRowsDone < k.importRows).length,
     killsMidSending: kills.filter((k) => k.sentUnits > 0 && k.unsentUnits > 0).length,
+    killsBetweenSendAndMark: kills.filter((k) => k.countedNotMarked > 0).length,
     acknowledgedScreenings: acks.length,
     acknowledgedImports: imports.length,
     retriedAfterKill: retried,
     replayedAfterKill: replayed,
     ...totals,
-    providerEvents,
+    providerEvents: provider.n,
+    providerUnits: provider.units,
     drained,
     seconds: (Date.now() - started) / 1000,
     problems,
   };
+}
+
+/** Meter-event requests the payment fake has received so far (its fault counter matches that path). */
+async function meterEventRequests(fakePort: number): Promise<number> {
+  const res = await fetch(`http://127.0.0.1:${fakePort}/_fake/state`);
+  return ((await res.json()) as { faults: { matched: number } }).faults.matched;
 }
 
 async function waitForPort(port: number): Promise<void> {
@@ -339,9 +388,9 @@ async function waitForPort(port: number): Promise<void> {
 
 export function formatReport(r: SoakReport): string {
   return [
-    `[soak] ${r.kills.length} SIGKILLs in ${r.seconds.toFixed(1)} s: ${r.killsMidImport} mid-import, ${r.killsMidSending} mid-sending`,
+    `[soak] ${r.kills.length} SIGKILLs in ${r.seconds.toFixed(1)} s: ${r.killsMidImport} mid-import, ${r.killsMidSending} mid-sending, ${r.killsBetweenSendAndMark} between a batch counted and marked sent`,
     `[soak] acknowledged: ${r.acknowledgedScreenings} screenings, ${r.acknowledgedImports} imports; ${r.retriedAfterKill} cut-off saves retried after restart (${r.replayedAfterKill} were replays of a committed save)`,
-    `[soak] ledger: ${r.screeningUnits} screening units, ${r.flightUnits} imported-flight units, ${r.sentUnits} sent; payment service: ${r.providerEvents} meter events${r.drained ? ' (drained)' : ' (not drained)'}`,
+    `[soak] ledger: ${r.screeningUnits} screening units, ${r.flightUnits} imported-flight units, ${r.sentUnits} sent; payment service: ${r.providerUnits} units in ${r.providerEvents} meter events${r.drained ? ' (drained)' : ' (not drained)'}`,
     `[soak] problems: ${r.problems.length ? r.problems.join(' | ') : 'none'}`,
   ].join('\n');
 }

@@ -15,5 +15,7 @@ describe('crash safety', () => {
     expect(report.killsMidImport, 'at least one kill landed while the import was being screened').toBeGreaterThan(0);
     expect(report.acknowledgedScreenings).toBeGreaterThan(0);
     expect(report.flightUnits).toBeGreaterThan(0);
+    expect(report.killsBetweenSendAndMark, 'at least one kill landed after the service counted a batch and before the ledger marked it').toBeGreaterThan(0);
+    expect(report.providerUnits, 'usage reaches the payment service in aggregated meter events').toBeGreaterThan(report.providerEvents);
   });
 });

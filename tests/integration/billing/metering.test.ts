@@ -5,8 +5,10 @@ import { db } from '@/db/client';
 import { getBilling } from '@/db/billing';
 import { resetEnvForTests } from '@/lib/env';
 import { PLANS, estimateChargeCents, type PlanId } from '@/lib/billing/plans';
-import { BACKOFF_BASE_MS, BACKOFF_MAX_MS, backoffMs, sendPendingUsage } from '@/lib/billing/usage-sender';
+import { BACKOFF_BASE_MS, BACKOFF_MAX_MS, MAX_BATCH_UNITS, backoffMs, sendPendingUsage } from '@/lib/billing/usage-sender';
+import { formUsageBatches } from '@/db/usage-batches';
 import { reconcileUsage } from '@/lib/billing/reconcile';
+import { getUsageSummary } from '@/lib/billing/usage-summary';
 import * as subscriptionRoute from '@/app/api/v1/workspaces/[slug]/billing/subscription/route';
 import * as usageRoute from '@/app/api/v1/workspaces/[slug]/usage/route';
 import type { FakeState } from '@/lib/fakes/payment/server';
@@ -43,8 +45,14 @@ async function screenMany(slug: string, userId: number, n: number) {
   for (let i = 0; i < n; i++) expect((await screen(slug, userId)).status).toBe(201);
 }
 
-async function ledgerKeys(workspaceId: number): Promise<string[]> {
-  return (await db()('usage_events').where({ workspace_id: workspaceId }).orderBy('id').select('idempotency_key')).map((r: { idempotency_key: string }) => r.idempotency_key);
+async function batchIdentifiers(workspaceId: number): Promise<string[]> {
+  return (await db()('usage_batches').where({ workspace_id: workspaceId }).orderBy('id').select('identifier')).map((r: { identifier: string }) => r.identifier);
+}
+
+/** The UTC minutes the workspace's ledger rows fall in: a batch never spans two. */
+async function ledgerMinutes(workspaceId: number): Promise<number> {
+  const rows = (await db()('usage_events').where({ workspace_id: workspaceId }).select('occurred_at')) as { occurred_at: string }[];
+  return new Set(rows.map((r) => r.occurred_at.slice(0, 16))).size;
 }
 
 async function meterEventsOf(customerId: string) {
@@ -68,7 +76,7 @@ async function drain(workspaceId: number, rounds = 60) {
 }
 
 describe('screenings -> meter events -> invoice', () => {
-  it.each<PlanId>(['crew', 'fleet'])('%s: each ledger row becomes one meter event; the closed period is billed base + units x per-flight price', async (planId) => {
+  it.each<PlanId>(['crew', 'fleet'])('%s: the ledger rows of a minute become one meter event carrying their count; the closed period is billed base + units x per-flight price', async (planId) => {
     const { ws, billing, financeCookie } = await subscribed(planId);
     const units = 7;
     await screenMany(ws.slug, ws.members.planner.id, units);
@@ -80,10 +88,11 @@ describe('screenings -> meter events -> invoice', () => {
     expect(before.body.estimatedChargeCents).toBe(PLANS[planId].baseFeeCents + units * PLANS[planId].perFlightCents);
 
     const report = await sendPendingUsage({ workspaceId: ws.id });
-    expect(report).toMatchObject({ attempted: units, sent: units, failed: 0 });
+    const minutes = await ledgerMinutes(ws.id);
+    expect(report).toMatchObject({ batchedUnits: units, batchesFormed: minutes, attempted: minutes, sent: minutes, failed: 0, unitsDelivered: units });
     const events = await meterEventsOf(billing.customerId!);
-    expect(events.map((e) => e.identifier).sort()).toEqual((await ledgerKeys(ws.id)).sort());
-    expect(events.every((e) => e.value === 1)).toBe(true);
+    expect(events.map((e) => e.identifier).sort()).toEqual((await batchIdentifiers(ws.id)).sort());
+    expect(events.reduce((s, e) => s + e.value, 0)).toBe(units);
 
     const after = await usage(ws.slug, financeCookie);
     expect(after.body).toMatchObject({ units, sentUnits: units, pendingUnits: 0 });
@@ -121,11 +130,17 @@ describe('delivery faults', () => {
     try {
       // Bounds from the clock before the pass, not from "now" after it, so a slow machine cannot flake them.
       const before = Date.now();
-      const first = await sendPendingUsage({ workspaceId: ws.id });
+      // Three units a batch: ten meter events, so some fail and some get through.
+      const first = await sendPendingUsage({ workspaceId: ws.id, maxBatchUnits: 3 });
+      expect(first.batchesFormed).toBeGreaterThanOrEqual(10);
       expect(first.failed).toBeGreaterThan(0);
       expect(first.sent).toBeGreaterThan(0);
-      const retried = await db()('usage_events').where({ workspace_id: ws.id }).whereNull('sent_at').select('send_attempts', 'next_attempt_at', 'last_error');
+      const retried = await db()('usage_batches').where({ workspace_id: ws.id }).whereNull('sent_at').select('send_attempts', 'next_attempt_at', 'last_error');
       expect(retried.length).toBe(first.failed);
+      const unsentRows = await db()('usage_events').where({ workspace_id: ws.id }).whereNull('sent_at').count({ n: '*' }).first();
+      expect(Number(unsentRows?.n)).toBe(units - first.unitsDelivered);
+      // The billing page tells the finance admin how many units wait for a retry.
+      expect((await getUsageSummary({ workspaceId: ws.id }, { reconcile: false })).retryingUnits).toBe(units - first.unitsDelivered);
       for (const row of retried) {
         expect(row.send_attempts).toBe(1);
         expect(Date.parse(row.next_attempt_at)).toBeGreaterThanOrEqual(before + BACKOFF_BASE_MS / 2);
@@ -140,7 +155,7 @@ describe('delivery faults', () => {
     const events = await meterEventsOf(billing.customerId!);
     const ids = events.map((e) => e.identifier);
     expect(new Set(ids).size).toBe(ids.length);
-    expect(ids.sort()).toEqual((await ledgerKeys(ws.id)).sort());
+    expect(ids.sort()).toEqual((await batchIdentifiers(ws.id)).sort());
     expect(events.reduce((s, e) => s + e.value, 0)).toBe(units);
     const rec = await reconcileUsage({ workspaceId: ws.id });
     expect(rec).toMatchObject({ ledgerUnits: units, providerUnits: units, difference: 0 });
@@ -153,7 +168,7 @@ describe('delivery faults', () => {
     await screenMany(ws.slug, ws.members.planner.id, 3);
     await h.control('/_fake/faults', { failNext: 2, status: 429, onlyPaths: ['/v1/billing/meter_events'] });
     try {
-      const first = await sendPendingUsage({ workspaceId: ws.id });
+      const first = await sendPendingUsage({ workspaceId: ws.id, maxBatchUnits: 1 });
       expect(first).toMatchObject({ failed: 2, sent: 1 });
       await drain(ws.id);
     } finally {
@@ -169,7 +184,7 @@ describe('delivery faults', () => {
     resetEnvForTests();
     await h.control('/_fake/faults', { delayMs: 600, onlyPaths: ['/v1/billing/meter_events'] });
     try {
-      const first = await sendPendingUsage({ workspaceId: ws.id });
+      const first = await sendPendingUsage({ workspaceId: ws.id, maxBatchUnits: 1 });
       expect(first.failed).toBe(2);
       // The fake finishes the slow requests after the client gave up: wait for them (up to 10 s on a
       // busy machine) rather than for a fixed time.
@@ -190,7 +205,8 @@ describe('delivery faults', () => {
   it('an identifier the service already has (sent outside the idempotency window) is marked sent, not sent twice', async () => {
     const { ws, billing } = await subscribed('crew');
     await screenMany(ws.slug, ws.members.planner.id, 1);
-    const [key] = await ledgerKeys(ws.id);
+    expect(await formUsageBatches({ maxBatchUnits: MAX_BATCH_UNITS, maxBatches: 10, workspaceId: ws.id })).toEqual({ batches: 1, units: 1 });
+    const [key] = await batchIdentifiers(ws.id);
     await h.sdk.billing.meterEvents.create(
       { event_name: 'screened_flight', payload: { stripe_customer_id: billing.customerId!, value: '1' }, identifier: key },
       { idempotencyKey: `other-${key}` },

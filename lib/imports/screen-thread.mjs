@@ -1,0 +1,22 @@
+// The body of a screening worker thread (lib/imports/screening-pool.ts). It loads the engine's
+// TypeScript through tsx's API, so the same source serves the thread, the server and the tests.
+import { tsImport } from 'tsx/esm/api';
+
+const engine = await tsImport('../screening/index.ts', import.meta.url);
+
+function reasonOf(err) {
+  if (err instanceof engine.ScreeningInputError) return err.fields.map((f) => `${f.path}: ${f.message}`).join('; ') || err.message;
+  if (err instanceof Error) return err.message;
+  return 'the screening engine could not screen this flight';
+}
+
+/** Screens `{ id, inputJson }[]`; each comes back as `{ id, totals }` or `{ id, error }`. */
+export default function screenBatch(items) {
+  return items.map(({ id, inputJson }) => {
+    try {
+      return { id, totals: engine.screenTotals(JSON.parse(inputJson)) };
+    } catch (err) {
+      return { id, error: reasonOf(err) };
+    }
+  });
+}

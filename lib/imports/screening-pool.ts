@@ -1,0 +1,64 @@
+import 'server-only';
+import os from 'node:os';
+import path from 'node:path';
+import { Piscina } from 'piscina';
+import { figuresOf, type PendingFlight, type ScreenedOutcome } from '@/db/imports';
+import { env } from '@/lib/env';
+import type { ScreeningTotals } from '@/lib/screening';
+
+/**
+ * Imported flights are screened in worker threads (a piscina pool), so a 100 000-row import leaves
+ * the process's event loop to the requests it serves; the loop only parses rows in and writes
+ * figures out. SCREENING_THREADS sets the pool size (0 screens on the event loop, as before).
+ */
+
+type ThreadResult = { id: number; totals: ScreeningTotals } | { id: number; error: string };
+
+const g = globalThis as unknown as { tropopassScreeningPool?: Piscina<{ id: number; inputJson: string }[], ThreadResult[]> };
+
+/** Threads for screening: SCREENING_THREADS, else one core short of the machine (1 to 4), none under tests. */
+export function screeningThreads(): number {
+  const e = env();
+  if (e.SCREENING_THREADS !== undefined) return e.SCREENING_THREADS;
+  if (e.NODE_ENV === 'test') return 0;
+  return Math.max(1, Math.min(4, os.availableParallelism() - 1));
+}
+
+function pool(threads: number): Piscina<{ id: number; inputJson: string }[], ThreadResult[]> {
+  g.tropopassScreeningPool ??= new Piscina({
+    filename: path.join(/*turbopackIgnore: true*/ process.cwd(), 'lib/imports/screen-thread.mjs'),
+    minThreads: 0,
+    maxThreads: threads,
+    idleTimeout: 30_000,
+  });
+  return g.tropopassScreeningPool;
+}
+
+/**
+ * Screens a chunk of pending flights across the pool's threads, in the order given; null when
+ * screening threads are off (the caller screens on the event loop).
+ */
+export async function screenInThreads(pending: PendingFlight[]): Promise<ScreenedOutcome[] | null> {
+  const threads = screeningThreads();
+  if (threads === 0) return null;
+  if (pending.length === 0) return [];
+  const p = pool(threads);
+  const size = Math.ceil(pending.length / threads);
+  const slices: PendingFlight[][] = [];
+  for (let i = 0; i < pending.length; i += size) slices.push(pending.slice(i, i + size));
+  const results = (await Promise.all(slices.map((s) => p.run(s.map((f) => ({ id: f.id, inputJson: f.inputJson })))))).flat();
+  const byId = new Map(results.map((r) => [r.id, r]));
+  return pending.map((f) => {
+    const r = byId.get(f.id);
+    const base = { id: f.id, workspaceId: f.workspaceId, line: f.line };
+    if (!r) return { ...base, error: 'the screening thread returned no result for this flight' };
+    return 'totals' in r ? { ...base, figures: figuresOf(r.totals) } : { ...base, error: r.error };
+  });
+}
+
+/** Ends the pool's threads (tests, a worker process shutting down). */
+export async function closeScreeningPool(): Promise<void> {
+  const p = g.tropopassScreeningPool;
+  g.tropopassScreeningPool = undefined;
+  if (p) await p.close({ force: true });
+}
