@@ -36,6 +36,8 @@ const envSchema = z.object({
   RATE_LIMIT_PREVIEW_PER_MIN: int(120),
   RATE_LIMIT_API_PER_MIN: int(600),
   BODY_LIMIT_BYTES: int(1_000_000),
+  /** How many proxies of ours append to X-Forwarded-For in front of the app; 0 (default): the header is ignored. */
+  TRUSTED_PROXY_HOPS: z.coerce.number().int().min(0).max(10).default(0),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
   DEMO_TODAY: z
     .string()

@@ -24,6 +24,7 @@ const NON_WORKSPACE_ROUTES: Record<string, { access: 'auth' | 'public'; reason: 
 
 /** Server actions anyone may call (no account yet); each must still refuse a foreign Origin. */
 const PUBLIC_ACTIONS: Record<string, string> = {
+  'app/(auth)/actions.ts#signInWithPasswordAction': 'checks the e-mail and password itself, throttled like the credentials provider',
   'app/(auth)/actions.ts#signUpAction': 'creates the account',
   'app/(auth)/actions.ts#requestPasswordResetAction': 'answers the same whether or not the address exists',
   'app/(auth)/actions.ts#resetPasswordAction': 'authenticated by the single-use reset token',

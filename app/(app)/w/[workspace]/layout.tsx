@@ -3,6 +3,8 @@ import { listWorkspacesForUser } from '@/db/workspaces';
 import { TopBar } from '@/components/shell/top-bar';
 import { WorkspaceNav } from '@/components/shell/workspace-nav';
 import { WorkspaceSwitcher } from '@/components/shell/workspace-switcher';
+import { RoleNotice } from '@/components/shell/role-notice';
+import { Suspense } from 'react';
 
 export default async function WorkspaceLayout({ children, params }: { children: React.ReactNode; params: Promise<{ workspace: string }> }) {
   const { workspace: slug } = await params;
@@ -18,6 +20,9 @@ export default async function WorkspaceLayout({ children, params }: { children: 
           <WorkspaceNav slug={slug} role={role} />
         </aside>
         <main id="main" className="min-w-0 flex-1">
+          <Suspense fallback={null}>
+            <RoleNotice role={role} />
+          </Suspense>
           {children}
         </main>
       </div>
