@@ -20,6 +20,30 @@ export async function createApiKeyAction(slug: string, raw: unknown): Promise<Ac
   }
 }
 
+/**
+ * The same, posted as an ordinary form (slug in a hidden field): works before the page's script has
+ * loaded, and the new key comes back in the page, never in a URL.
+ */
+export async function createApiKeyFormAction(
+  _prev: ActionState<{ key: string; name: string }>,
+  form: FormData,
+): Promise<ActionState<{ key: string; name: string }>> {
+  const field = (n: string) => {
+    const v = form.getAll(n);
+    return v.length === 1 && typeof v[0] === 'string' ? v[0] : undefined;
+  };
+  try {
+    const ctx = await requireActionMember(String(field('slug') ?? ''), 'apikeys:manage');
+    const parsed = apiKeyCreateSchema.safeParse({ name: field('name'), role: field('role') });
+    if (!parsed.success) throw fromZod(parsed.error);
+    const k = await createApiKey({ workspaceId: ctx.workspace.id }, { ...parsed.data, createdBy: ctx.user.id, actor: ctx.user.email });
+    revalidatePath(`/w/${ctx.workspace.slug}/settings/api-keys`);
+    return { ok: true, data: { key: k.key, name: k.name } };
+  } catch (err) {
+    return toActionState(err);
+  }
+}
+
 export async function revokeApiKeyAction(slug: string, raw: unknown): Promise<ActionState> {
   try {
     const ctx = await requireActionMember(slug, 'apikeys:manage');
