@@ -20,6 +20,7 @@ import { log } from '@/lib/log';
 import { clientIpFrom } from '@/lib/auth/client-ip';
 import { checkCredentials, startSessionFromAction } from '@/lib/auth/credentials';
 import { safeCallbackPath } from '@/lib/auth/callback';
+import { formText } from '@/lib/validation/action-input';
 
 async function ip(): Promise<string> {
   const h = await headers();
@@ -32,11 +33,8 @@ async function ip(): Promise<string> {
  */
 export type AuthFormState = (ActionState & { values?: Record<string, string> }) | null;
 
-/** Text fields of a posted form; anything else (files, repeated names) reads as absent. */
-function text(form: FormData, name: string): string | undefined {
-  const all = form.getAll(name);
-  return all.length === 1 && typeof all[0] === 'string' ? all[0] : undefined;
-}
+/** Text fields of a posted form; anything else (no form, files, repeated names) reads as absent. */
+const text = formText;
 
 /** The error state of a failed post, with the values to put back in the form. */
 function failed(err: unknown, values?: Record<string, string>): AuthFormState {
@@ -50,7 +48,7 @@ function afterSignIn(callbackUrl: string | undefined): string {
 }
 
 /** Password sign-in as a plain form post: works before the page's script loads, and the password never reaches a URL. */
-export async function signInWithPasswordAction(_prev: AuthFormState, form: FormData): Promise<AuthFormState> {
+export async function signInWithPasswordAction(_prev: AuthFormState, form: FormData | unknown): Promise<AuthFormState> {
   const email = text(form, 'email') ?? '';
   let next: string;
   try {
@@ -75,7 +73,7 @@ function assertPasswordAllowed(password: string, ctx: { email: string; name?: st
 }
 
 /** Creates an account (and optionally a first workspace, or joins the invitation's workspace), then signs it in. */
-export async function signUpAction(_prev: AuthFormState, form: FormData): Promise<AuthFormState> {
+export async function signUpAction(_prev: AuthFormState, form: FormData | unknown): Promise<AuthFormState> {
   const raw = { name: text(form, 'name') ?? '', email: text(form, 'email') ?? '', password: text(form, 'password') ?? '', workspaceName: text(form, 'workspaceName') ?? '' };
   const invitationToken = text(form, 'invitationToken') || undefined;
   const values = { name: raw.name, email: raw.email, workspaceName: raw.workspaceName };
@@ -129,7 +127,7 @@ export async function signUpAction(_prev: AuthFormState, form: FormData): Promis
 }
 
 /** Always answers the same way, whether or not the address has an account. */
-export async function requestPasswordResetAction(_prev: AuthFormState, form: FormData): Promise<AuthFormState> {
+export async function requestPasswordResetAction(_prev: AuthFormState, form: FormData | unknown): Promise<AuthFormState> {
   const email = text(form, 'email') ?? '';
   try {
     await assertSameOrigin();
@@ -149,7 +147,7 @@ export async function requestPasswordResetAction(_prev: AuthFormState, form: For
   }
 }
 
-export async function resetPasswordAction(_prev: AuthFormState, form: FormData): Promise<AuthFormState> {
+export async function resetPasswordAction(_prev: AuthFormState, form: FormData | unknown): Promise<AuthFormState> {
   try {
     await assertSameOrigin();
     const parsed = resetPasswordSchema.safeParse({ token: text(form, 'token') ?? '', password: text(form, 'password') ?? '', confirm: text(form, 'confirm') ?? '' });

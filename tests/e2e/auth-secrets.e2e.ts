@@ -103,7 +103,8 @@ describe('credentials never in a URL', () => {
     await page.goto(`/signin?callbackUrl=${encodeURIComponent(DEEP)}`, { waitUntil: 'commit' });
     await page.locator('#password').waitFor();
     await submitSignIn(page, 'analyst@tropopass.test', DEMO_PASSWORD);
-    await page.waitForURL((u) => u.pathname === '/w/skarn-polar/fleets', { timeout: 20_000 });
+    // Scripts are still held, so the new page never reaches "load": wait for the navigation itself.
+    await page.waitForURL((u) => u.pathname === '/w/skarn-polar/fleets', { timeout: 20_000, waitUntil: 'commit' });
     await release();
     expect(new URL(page.url()).search).toBe('?from=2026-10-01');
     expectNoSecret(urls, [DEMO_PASSWORD]);

@@ -5,6 +5,7 @@ import { requireActionMember } from '@/lib/auth/guards';
 import { createRoute, deleteRoute, updateRoute } from '@/db/routes';
 import { routeFormSchema, waypointProblemMessage } from '@/lib/validation/library';
 import { fromZod, toActionState, type ActionState } from '@/lib/errors';
+import { actionId, optionalActionId } from '@/lib/validation/action-input';
 
 /** Server problems at `waypoints.N...` belong beside the waypoint box of the form. */
 function onFormFields(state: ActionState<never>): ActionState<never> {
@@ -21,9 +22,10 @@ export async function saveRouteAction(slug: string, id: number | null, raw: unkn
     if (!parsed.success) throw fromZod(parsed.error);
     const by = { userId: ctx.user.id, actor: ctx.user.email };
     const scope = { workspaceId: ctx.workspace.id };
-    const route = id === null ? await createRoute(scope, parsed.data, by) : await updateRoute(scope, id, parsed.data, by);
+    const target = optionalActionId(id);
+    const route = target === null ? await createRoute(scope, parsed.data, by) : await updateRoute(scope, target, parsed.data, by);
     revalidatePath(`/w/${slug}/routes`);
-    return { ok: true, data: { id: route.id }, message: id === null ? `Saved “${route.name}”.` : 'Changes saved.' };
+    return { ok: true, data: { id: route.id }, message: target === null ? `Saved “${route.name}”.` : 'Changes saved.' };
   } catch (err) {
     return onFormFields(toActionState(err));
   }
@@ -32,7 +34,7 @@ export async function saveRouteAction(slug: string, id: number | null, raw: unkn
 export async function deleteRouteAction(slug: string, id: number): Promise<ActionState> {
   try {
     const ctx = await requireActionMember(slug, 'library:write');
-    await deleteRoute({ workspaceId: ctx.workspace.id }, id, { userId: ctx.user.id, actor: ctx.user.email });
+    await deleteRoute({ workspaceId: ctx.workspace.id }, actionId(id), { userId: ctx.user.id, actor: ctx.user.email });
     revalidatePath(`/w/${slug}/routes`);
     return { ok: true };
   } catch (err) {

@@ -6,6 +6,7 @@ import { requireActionMember } from '@/lib/auth/guards';
 import { createApiKey, revokeApiKey } from '@/db/api-keys';
 import { apiKeyCreateSchema } from '@/lib/validation/workspaces';
 import { fromZod, toActionState, type ActionState } from '@/lib/errors';
+import { formText } from '@/lib/validation/action-input';
 
 export async function createApiKeyAction(slug: string, raw: unknown): Promise<ActionState<{ key: string; name: string }>> {
   try {
@@ -26,12 +27,9 @@ export async function createApiKeyAction(slug: string, raw: unknown): Promise<Ac
  */
 export async function createApiKeyFormAction(
   _prev: ActionState<{ key: string; name: string }>,
-  form: FormData,
+  form: FormData | unknown,
 ): Promise<ActionState<{ key: string; name: string }>> {
-  const field = (n: string) => {
-    const v = form.getAll(n);
-    return v.length === 1 && typeof v[0] === 'string' ? v[0] : undefined;
-  };
+  const field = (n: string) => formText(form, n);
   try {
     const ctx = await requireActionMember(String(field('slug') ?? ''), 'apikeys:manage');
     const parsed = apiKeyCreateSchema.safeParse({ name: field('name'), role: field('role') });
