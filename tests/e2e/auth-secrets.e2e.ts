@@ -140,6 +140,23 @@ describe('where sign-in lands', () => {
   });
 });
 
+describe('status codes of pages with a loading screen', () => {
+  it('a page outside the role answers 403 and a missing item 404, not 200', async () => {
+    const { context, page } = await newPage(browser());
+    await signIn(page, 'billing@tropopass.test');
+    expect((await page.request.get('/w/skarn-polar/fleets')).status()).toBe(403);
+    expect((await page.request.get('/w/skarn-polar/engines')).status()).toBe(403);
+    await context.close();
+    const analyst = await newPage(browser());
+    await signIn(analyst.page, 'analyst@tropopass.test');
+    expect((await analyst.page.request.get('/w/skarn-polar/fleets')).status()).toBe(200);
+    for (const p of ['engines/999999', 'engines/aircraft/999999', 'routes/999999', 'soundings/999999', 'reports/999999']) {
+      expect((await analyst.page.request.get(`/w/skarn-polar/${p}`)).status(), p).toBe(404);
+    }
+    await analyst.context.close();
+  });
+});
+
 describe('sign-out ends the session', () => {
   it('a cookie saved before sign-out is refused by pages and route handlers afterwards', async () => {
     const { context, page } = await newPage(browser());

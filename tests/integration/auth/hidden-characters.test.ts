@@ -16,7 +16,7 @@ describe('names refuse control, invisible and text-direction characters', () => 
     const cookie = await sessionCookie(ws.owner.id);
     const created = await call(workspacesRoute.POST, apiRequest('POST', '/api/v1/workspaces', { cookie, body: { name } }));
     expect(created.status).toBe(422);
-    expect(created.body.error.fields?.[0]?.path).toBe('name');
+    expect(created.body.error?.fields?.[0]?.path).toBe('name');
     const key = await call(keysRoute.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/api-keys`, { cookie, body: { name, role: 'viewer' } }), { slug: ws.slug });
     expect(key.status).toBe(422);
     const fleet = await call(fleetsRoute.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/fleets`, { cookie, body: { name } }), { slug: ws.slug });

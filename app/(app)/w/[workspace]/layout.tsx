@@ -1,4 +1,7 @@
-import { requireMember } from '@/lib/auth/guards';
+import { forbidden, redirect } from 'next/navigation';
+import { requestedPath, requireMember } from '@/lib/auth/guards';
+import { workspaceLanding, workspacePageOf } from '@/lib/auth/landing';
+import { can } from '@/lib/auth/policy';
 import { listWorkspacesForUser } from '@/db/workspaces';
 import { TopBar } from '@/components/shell/top-bar';
 import { WorkspaceNav } from '@/components/shell/workspace-nav';
@@ -9,6 +12,15 @@ import { Suspense } from 'react';
 export default async function WorkspaceLayout({ children, params }: { children: React.ReactNode; params: Promise<{ workspace: string }> }) {
   const { workspace: slug } = await params;
   const { user, role } = await requireMember(slug);
+  // Checked here as well as in each page: pages with a loading screen stream inside it, and a refusal
+  // raised there would already have answered 200. The layout is part of the first flush, so this one is a 403.
+  const asked = await requestedPath();
+  const page = asked ? workspacePageOf(asked) : null;
+  if (page?.permission && page.slug === slug && !can(role, page.permission)) {
+    const landing = workspaceLanding(slug, role);
+    if (asked?.split(/[?#]/)[0].replace(/\/+$/, '') === `/w/${slug}` && landing !== `/w/${slug}`) redirect(landing);
+    forbidden();
+  }
   const memberships = await listWorkspacesForUser({ userId: user.id });
   return (
     <div className="min-h-screen">

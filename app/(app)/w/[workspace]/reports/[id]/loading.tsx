@@ -1,5 +1,0 @@
-import { PageSkeleton } from '@/components/fleets/skeleton';
-
-export default function Loading() {
-  return <PageSkeleton label="Loading the reports…" blocks={2} />;
-}

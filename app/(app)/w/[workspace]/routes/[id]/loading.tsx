@@ -1,5 +1,0 @@
-import { LibrarySkeleton } from '@/components/library/skeletons';
-
-export default function Loading() {
-  return <LibrarySkeleton what="saved routes" />;
-}
