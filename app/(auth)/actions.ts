@@ -13,7 +13,8 @@ import { createWorkspace, acceptInvitation, getInvitationByToken } from '@/db/wo
 import { createResetToken, consumeResetToken, resetTokenEmail } from '@/db/reset-tokens';
 import { limitEmailSend } from '@/lib/auth/throttle';
 import { sendMail } from '@/lib/mail/mailer';
-import { passwordResetMail } from '@/lib/mail/templates';
+import { passwordResetMail, signUpConfirmMail, signUpExistingMail } from '@/lib/mail/templates';
+import { createSignInLink } from '@/lib/auth/email-link';
 import { appUrl } from '@/lib/env';
 import { assertSameOrigin } from '@/lib/auth/origin';
 import { log } from '@/lib/log';
@@ -72,7 +73,11 @@ function assertPasswordAllowed(password: string, ctx: { email: string; name?: st
   if (problem) throw invalidFields([{ path: 'password', message: problem }], problem);
 }
 
-/** Creates an account (and optionally a first workspace, or joins the invitation's workspace), then signs it in. */
+/**
+ * Creates an account (and optionally a first workspace, or joins the invitation's workspace). Without an
+ * invitation the answer is the same whether or not the address already has an account: a page asking to
+ * check the mail, which holds either a link to confirm and sign in, or a note to the existing owner.
+ */
 export async function signUpAction(_prev: AuthFormState, form: FormData | unknown): Promise<AuthFormState> {
   const raw = { name: text(form, 'name') ?? '', email: text(form, 'email') ?? '', password: text(form, 'password') ?? '', workspaceName: text(form, 'workspaceName') ?? '' };
   const invitationToken = text(form, 'invitationToken') || undefined;
@@ -94,9 +99,16 @@ export async function signUpAction(_prev: AuthFormState, form: FormData | unknow
         throw conflict(`This invitation was sent to ${invitedEmail}.`, [{ path: 'email', message: `Use the invited address, ${invitedEmail}.` }]);
       }
     }
-    if (await getUserByEmail(email)) {
-      throw conflict('An account with this e-mail already exists.', [
-        { path: 'email', message: 'An account with this e-mail already exists. Sign in instead, or reset the password.' },
+    if (!invitedEmail && (await getUserByEmail(email))) {
+      // The page answers exactly as for a new account; the owner of the address is told by mail.
+      await hashPassword(input.password);
+      await mailExistingOwner(email);
+      next = CHECK_EMAIL;
+      throw SIGNED_UP;
+    }
+    if (invitedEmail && (await getUserByEmail(email))) {
+      throw conflict('This address already has an account: sign in to accept the invitation.', [
+        { path: 'email', message: 'This address already has an account. Sign in to accept the invitation.' },
       ]);
     }
     const passwordHash = await hashPassword(input.password);
@@ -111,7 +123,7 @@ export async function signUpAction(_prev: AuthFormState, form: FormData | unknow
       }
       throw err;
     });
-    next = '/workspaces';
+    next = '/start';
     if (invitationToken) {
       const ws = await acceptInvitation({ token: invitationToken, userId: user.id, email: user.email, ip: address });
       next = `/w/${ws.slug}`;
@@ -119,11 +131,31 @@ export async function signUpAction(_prev: AuthFormState, form: FormData | unknow
       const ws = await createWorkspace({ name: input.workspaceName, ownerId: user.id, actor: user.email, ip: address });
       next = `/w/${ws.slug}`;
     }
-    await startSessionFromAction(user, 'signup', address);
+    if (invitedEmail) {
+      // The invitation came by mail to this address, so it is already confirmed: sign in at once.
+      await startSessionFromAction(user, 'signup', address);
+    } else {
+      await sendMail(signUpConfirmMail(email, await createSignInLink(email, afterSignIn(next), SIGN_UP_LINK_MINUTES)));
+      next = CHECK_EMAIL;
+    }
   } catch (err) {
-    return failed(err, values);
+    if (err !== SIGNED_UP) return failed(err, values);
   }
   redirect(next);
+}
+
+const CHECK_EMAIL = '/signup/check-email';
+const SIGN_UP_LINK_MINUTES = 60;
+/** Ends the sign-up early with the same answer as a new account. */
+const SIGNED_UP = Symbol('signed-up');
+
+async function mailExistingOwner(email: string): Promise<void> {
+  try {
+    await limitEmailSend('signin', email);
+  } catch {
+    return;
+  }
+  await sendMail(signUpExistingMail(email, new URL('/signin', appUrl()).toString(), new URL('/reset', appUrl()).toString()));
 }
 
 /** Always answers the same way, whether or not the address has an account. */

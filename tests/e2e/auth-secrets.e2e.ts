@@ -1,7 +1,7 @@
 import fs from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page, Route } from 'playwright-core';
-import { BASE_URL, DEMO_PASSWORD, mailTo, newPage, signIn, useBrowser } from './support/browser';
+import { BASE_URL, DEMO_PASSWORD, finishSignUp, mailTo, newPage, signIn, useBrowser } from './support/browser';
 
 const { browser } = useBrowser();
 const PAYMENT_URL = process.env.E2E_PAYMENT_URL ?? 'http://127.0.0.1:12111';
@@ -61,7 +61,8 @@ describe('credentials never in a URL', () => {
     await page.locator('#password').fill(first);
     await page.locator('#workspaceName').fill(`No script ${unique()}`);
     await page.getByRole('button', { name: 'Create account' }).click();
-    await page.waitForURL((u) => u.pathname.startsWith('/w/'));
+    await finishSignUp(page, email);
+    expect(new URL(page.url()).pathname).toMatch(/^\/w\//);
     const slug = new URL(page.url()).pathname.split('/')[2];
 
     await page.goto(`/w/${slug}/settings/api-keys`);
