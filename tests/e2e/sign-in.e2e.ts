@@ -34,11 +34,14 @@ describe('sign in as each demo role', () => {
     await context.close();
   });
 
-  it('a finance admin cannot open flight pages (403 page), a stranger workspace is 404', async () => {
+  it('a finance admin cannot open flight pages (403 page) and the bare workspace address opens billing; a stranger workspace is 404', async () => {
     const { page, context } = await newPage(browser());
     await signIn(page, 'billing@tropopass.test');
+    const flights = await page.goto('/w/skarn-polar/flights');
+    expect(flights?.status()).toBe(403);
     const overview = await page.goto('/w/skarn-polar');
-    expect(overview?.status()).toBe(403);
+    expect(overview?.status()).toBe(200);
+    expect(new URL(page.url()).pathname).toBe('/w/skarn-polar/settings/billing');
     const other = await page.goto('/w/velloway-jets');
     expect(other?.status()).toBe(404);
     await context.close();
