@@ -57,6 +57,6 @@ describe('sign-up does not tell whether an address has an account', () => {
     expect(toFree.map((m) => m.subject)).toEqual(['Finish creating your Tropopass account']);
     expect(toFree[0].text).toMatch(/\/api\/auth\/callback\/email\?callbackUrl=/);
     expect(await db()('users').where({ email: free }).first()).toBeDefined();
-    expect(await db()('users').where({ email: taken.email }).count({ n: '*' }).first()).toMatchObject({ n: 1 });
+    expect(await db()('users').where({ email: taken.email }).select('id')).toHaveLength(1);
   });
 });
