@@ -11,7 +11,7 @@ import { baseSecurityHeaders, contentSecurityPolicy, createNonce, hasSessionCook
  */
 export function proxy(request: NextRequest): NextResponse {
   const e = env();
-  const { pathname, search } = request.nextUrl;
+  const { pathname } = request.nextUrl;
   // A cross-site server action is refused here with a 403 in the usual error shape; left to the
   // framework it would end as a 500.
   if (request.method === 'POST' && request.headers.has('next-action') && !isAllowedOrigin(request.headers.get('origin'), request.headers.get('host'))) {
@@ -33,7 +33,7 @@ export function proxy(request: NextRequest): NextResponse {
   requestHeaders.set('x-nonce', nonce);
   requestHeaders.set('content-security-policy', csp);
   // Pages read this to send a signed-out visitor to sign-in and back to the very same path and query.
-  requestHeaders.set(RETURN_TO_HEADER, `${pathname}${search}`);
+  requestHeaders.set(RETURN_TO_HEADER, returnTo(pathname, request.nextUrl.searchParams));
 
   const res = NextResponse.next({ request: { headers: requestHeaders } });
   res.headers.set('content-security-policy', csp);
@@ -42,6 +42,14 @@ export function proxy(request: NextRequest): NextResponse {
   const signedIn = hasSessionCookie(request.cookies.getAll().map((c) => c.name));
   if (mustNotStore(request.nextUrl.pathname, signedIn)) res.headers.set('cache-control', 'no-store');
   return res;
+}
+
+/** The page asked for, without the framework's own cache-busting parameter on client navigations. */
+function returnTo(pathname: string, params: URLSearchParams): string {
+  const kept = new URLSearchParams(params);
+  kept.delete('_rsc');
+  const query = kept.toString();
+  return query ? `${pathname}?${query}` : pathname;
 }
 
 export const config = {

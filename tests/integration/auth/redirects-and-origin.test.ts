@@ -47,6 +47,7 @@ describe('sign-in callback', () => {
     expect(proxy(req(`/signin?callbackUrl=${encodeURIComponent(cb)}`)).status).toBe(200);
     const page = proxy(req(cb));
     expect(page.headers.get('x-middleware-request-x-tropopass-return-to')).toBe(cb);
+    expect(proxy(req(`${cb}&_rsc=abc12`)).headers.get('x-middleware-request-x-tropopass-return-to')).toBe(cb);
     // A client cannot choose it: the proxy writes its own.
     const forged = proxy(req('/w/skarn-polar', { headers: { 'x-tropopass-return-to': '//evil.example/' } }));
     expect(forged.headers.get('x-middleware-request-x-tropopass-return-to')).toBe('/w/skarn-polar');
