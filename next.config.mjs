@@ -1,6 +1,8 @@
 /** @type {import('next').NextConfig} */
 const nextConfig = {
-  serverExternalPackages: ['knex', 'better-sqlite3', '@node-rs/argon2', 'pino', 'nodemailer', 'pdf-lib', 'piscina'],
+  // The payment SDK stays one module instance: bundled into several server chunks, its error classes
+  // differ between chunks and `instanceof` misses a declined card or an unknown invoice (500s).
+  serverExternalPackages: ['knex', 'better-sqlite3', '@node-rs/argon2', 'pino', 'nodemailer', 'pdf-lib', 'piscina', 'stripe'],
   poweredByHeader: false,
   reactStrictMode: true,
   typedRoutes: false,

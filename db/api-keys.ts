@@ -3,7 +3,7 @@ import { db, insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
 import { newApiKey, sha256Hex } from '@/lib/auth/tokens';
 import type { Role } from '@/lib/auth/policy';
-import { isRole } from '@/lib/auth/policy';
+import { can, isRole, ROLES } from '@/lib/auth/policy';
 import { notFound } from '@/lib/errors';
 
 export interface ApiKeyDto {
@@ -82,10 +82,20 @@ export interface ApiKeyPrincipal {
 
 const lastTouched = new Map<number, number>();
 
-/** Resolves a presented key to its workspace and role; revoked or unknown keys give null. */
+/** Roles whose holders may make keys: a key lives only while its creator still holds one of them here. */
+const KEY_MAKER_ROLES = ROLES.filter((r) => can(r, 'apikeys:manage'));
+
+/**
+ * Resolves a presented key to its workspace and role; revoked or unknown keys give null, and so does a
+ * key whose creator has left the workspace or no longer holds the permission that made it.
+ */
 export async function findApiKey(key: string): Promise<ApiKeyPrincipal | null> {
   const r = await db()('api_keys as k')
     .join('workspaces as w', 'w.id', 'k.workspace_id')
+    .join('memberships as m', function () {
+      this.on('m.workspace_id', '=', 'k.workspace_id').andOn('m.user_id', '=', 'k.created_by');
+    })
+    .whereIn('m.role', KEY_MAKER_ROLES)
     .where('k.key_hash', sha256Hex(key))
     .whereNull('k.revoked_at')
     .select('k.id', 'k.name', 'k.role', 'w.id as wid', 'w.slug', 'w.name as wname')

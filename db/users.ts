@@ -75,16 +75,33 @@ export async function createUser(
   return toDto(r);
 }
 
-/** A new password ends every existing session of the user (the session version moves on). */
+/** Every reset and sign-in link still outstanding for the address stops working. */
+export async function endOutstandingLinks(email: string, trx: Knex | Knex.Transaction = db()): Promise<void> {
+  await trx('verification_tokens').where({ identifier: normaliseEmail(email) }).delete();
+}
+
+/**
+ * A new password ends every existing session of the user (the session version moves on, the recorded
+ * sessions are revoked) and every reset or sign-in link still outstanding.
+ */
 export async function updateUserPassword(userId: number, passwordHash: string, trx: Knex | Knex.Transaction = db()) {
   await trx('users')
     .where({ id: userId })
     .update({ password_hash: passwordHash, updated_at: nowIso() })
     .increment('session_version', 1);
+  await endSessionsAndLinks(userId, trx);
 }
 
+/** Sign-out everywhere: every session and every outstanding reset or sign-in link ends. */
 export async function bumpSessionVersion(userId: number, trx: Knex | Knex.Transaction = db()): Promise<void> {
   await trx('users').where({ id: userId }).increment('session_version', 1).update({ updated_at: nowIso() });
+  await endSessionsAndLinks(userId, trx);
+}
+
+async function endSessionsAndLinks(userId: number, trx: Knex | Knex.Transaction): Promise<void> {
+  await trx('auth_sessions').where({ user_id: userId }).whereNull('revoked_at').update({ revoked_at: nowIso() });
+  const row = await trx('users').where({ id: userId }).first('email');
+  if (row) await endOutstandingLinks(String(row.email), trx);
 }
 
 export async function markEmailVerified(userId: number): Promise<void> {

@@ -3,7 +3,7 @@ import type { Knex } from 'knex';
 import { db, insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
 import type { Role } from '@/lib/auth/policy';
-import { isRole } from '@/lib/auth/policy';
+import { can, isRole } from '@/lib/auth/policy';
 import { conflict, notFound } from '@/lib/errors';
 import { randomToken, sha256Hex } from '@/lib/auth/tokens';
 import { normaliseEmail } from './users';
@@ -136,6 +136,9 @@ export async function changeMemberRole(
       ]);
     }
     await trx('memberships').where({ id: m.id }).update({ role: input.role });
+    if (!can(input.role, 'apikeys:manage')) {
+      await revokeKeysMadeBy(trx, scope.workspaceId, input.userId, `its creator's role changed to ${input.role}`, input);
+    }
     // Permissions are re-read on every request; the version bump also ends sessions started under the old role.
     await trx('users').where({ id: input.userId }).increment('session_version', 1);
     await createAuditEntry(
@@ -153,6 +156,25 @@ export async function changeMemberRole(
   });
 }
 
+/** A member's API keys end with the member's access to make them; each revocation is in the audit log. */
+async function revokeKeysMadeBy(
+  trx: Knex.Transaction,
+  workspaceId: number,
+  userId: number,
+  reason: string,
+  by: { actorId: number; actor: string; ip?: string | null },
+): Promise<void> {
+  const keys = await trx('api_keys').where({ workspace_id: workspaceId, created_by: userId }).whereNull('revoked_at').select('id', 'name', 'key_prefix');
+  if (!keys.length) return;
+  await trx('api_keys').whereIn('id', keys.map((k) => k.id)).update({ revoked_at: nowIso() });
+  for (const k of keys) {
+    await createAuditEntry(
+      { workspaceId, userId: by.actorId, actor: by.actor, action: 'apikey.revoked', target: `${k.name} (${k.key_prefix}…)`, detail: { reason }, ip: by.ip },
+      trx,
+    );
+  }
+}
+
 export async function removeMember(
   scope: { workspaceId: number },
   input: { userId: number; actorId: number; actor: string; ip?: string | null },
@@ -165,6 +187,7 @@ export async function removeMember(
     }
     await trx('memberships').where({ id: m.id }).delete();
     await trx('users').where({ id: input.userId }).increment('session_version', 1);
+    await revokeKeysMadeBy(trx, scope.workspaceId, input.userId, 'its creator left the workspace', input);
     await createAuditEntry(
       {
         workspaceId: scope.workspaceId,

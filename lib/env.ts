@@ -36,6 +36,8 @@ const envSchema = z.object({
   RATE_LIMIT_PREVIEW_PER_MIN: int(120),
   RATE_LIMIT_API_PER_MIN: int(600),
   BODY_LIMIT_BYTES: int(1_000_000),
+  /** How many proxies of ours append to X-Forwarded-For in front of the app; 0 (default): the header is ignored. */
+  TRUSTED_PROXY_HOPS: z.coerce.number().int().min(0).max(10).default(0),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
   DEMO_TODAY: z
     .string()
@@ -50,13 +52,51 @@ const envSchema = z.object({
   NEXT_PHASE: z.string().optional(),
 });
 
+const DEFAULT_STRIPE_SECRET_KEY = 'sk_test_tropopass_local';
+const DEFAULT_STRIPE_WEBHOOK_SECRET = 'whsec_tropopass_local_fake';
+
+/** 127.0.0.0/8, ::1 and localhost: addresses no other machine can reach. */
+export function isLoopbackHost(hostname: string): boolean {
+  const h = hostname.replace(/^\[|\]$/g, '').toLowerCase();
+  return h === 'localhost' || h === '::1' || /^127(\.\d{1,3}){3}$/.test(h);
+}
+
+/**
+ * Settings that are safe only on one machine: the outbox page lists every sign-in, reset and invitation
+ * link, and the payment defaults are public. Either is refused unless the app (for the outbox) or the
+ * payment host (for the defaults) is a loopback address.
+ */
+const guardedSchema = envSchema.superRefine((e, ctx) => {
+  let appHost = '';
+  try {
+    appHost = new URL(e.NEXTAUTH_URL).hostname;
+  } catch {
+    return;
+  }
+  if (e.MAIL_OUTBOX && !isLoopbackHost(appHost)) {
+    ctx.addIssue({
+      code: 'custom',
+      path: ['MAIL_OUTBOX'],
+      message: `MAIL_OUTBOX=1 shows every sign-in, reset and invitation link to anyone; it is allowed only when NEXTAUTH_URL is a loopback address (it is ${appHost})`,
+    });
+  }
+  if (!isLoopbackHost(e.STRIPE_API_HOST)) {
+    if (e.STRIPE_SECRET_KEY === DEFAULT_STRIPE_SECRET_KEY) {
+      ctx.addIssue({ code: 'custom', path: ['STRIPE_SECRET_KEY'], message: 'the built-in key is public and works only with the local payment fake; set the real key for STRIPE_API_HOST' });
+    }
+    if (e.STRIPE_WEBHOOK_SECRET === DEFAULT_STRIPE_WEBHOOK_SECRET) {
+      ctx.addIssue({ code: 'custom', path: ['STRIPE_WEBHOOK_SECRET'], message: 'the built-in webhook secret is public; set the endpoint secret of your payment account' });
+    }
+  }
+});
+
 export type Env = z.infer<typeof envSchema>;
 
 let cached: Env | undefined;
 
 export function env(): Env {
   if (cached) return cached;
-  const parsed = envSchema.safeParse(process.env);
+  const parsed = guardedSchema.safeParse(process.env);
   if (!parsed.success) {
     const lines = parsed.error.issues.map((i) => `  ${i.path.join('.') || '(env)'}: ${i.message}`);
     throw new Error(`Tropopass cannot start: the environment is invalid.\n${lines.join('\n')}`);

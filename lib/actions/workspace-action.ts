@@ -4,6 +4,7 @@ import { requireActionMember, requireActionUser, type MemberContext } from '@/li
 import type { Permission } from '@/lib/auth/policy';
 import type { SessionUser } from '@/lib/auth/session';
 import { fromZod, toActionState, type ActionState } from '@/lib/errors';
+import { actionId } from '@/lib/validation/action-input';
 
 /**
  * The spine of every server action, written once like `workspaceRoute` for handlers: same-origin
@@ -66,8 +67,6 @@ export function workspaceAction<S extends z.ZodType, T = undefined>(
   return Object.assign(action, { permission, takesId: false as const });
 }
 
-const rowId = z.coerce.number({ error: 'The id must be a whole number above 0.' }).int('The id must be a whole number above 0.').positive('The id must be a whole number above 0.');
-
 /**
  * `(slug, id, input)`: an action on one row, the id bound by the page (`action.bind(null, slug, id)`).
  * With `create: true` an id of null means "make a new one".
@@ -82,11 +81,8 @@ export function workspaceRowAction<S extends z.ZodType, T = undefined, C extends
     try {
       const ctx = await member(slug, permission);
       let id: number | null = null;
-      if (!(opts.create && rawId === null)) {
-        const parsed = rowId.safeParse(rawId);
-        if (!parsed.success) throw fromZod(parsed.error, 'id');
-        id = parsed.data;
-      }
+      // An id that is an array, an object or not a whole number is a 400 (actionId), never coerced.
+      if (!(opts.create && rawId === null)) id = actionId(rawId);
       const input = parse(schema, raw);
       return done(await fn(ctx, id as C extends true ? number | null : number, input));
     } catch (err) {

@@ -6,6 +6,9 @@ import { getMembership, type WorkspaceDto } from '@/db/workspaces';
 import { AppError, forbidden as forbiddenError, notFound as notFoundError, unauthenticated } from '@/lib/errors';
 import { assertSameOrigin } from './origin';
 import { log } from '@/lib/log';
+import { appUrl } from '@/lib/env';
+import { RETURN_TO_HEADER, safeCallbackPath } from './callback';
+import { workspaceLanding } from './landing';
 
 export interface MemberContext {
   user: SessionUser;
@@ -13,10 +16,19 @@ export interface MemberContext {
   role: Role;
 }
 
-/** Pages: the signed-in user, or a redirect to sign-in that comes back here. */
+/** The path and query of the page being rendered, as proxy.ts recorded it; null when unknown or unsafe. */
+export async function requestedPath(): Promise<string | null> {
+  const { headers } = await import('next/headers');
+  return safeCallbackPath((await headers()).get(RETURN_TO_HEADER), appUrl());
+}
+
+/** Pages: the signed-in user, or a redirect to sign-in that comes back to the whole path and query asked for. */
 export async function requireUser(returnTo?: string): Promise<SessionUser> {
   const user = await currentUser();
-  if (!user) redirect(returnTo ? `/signin?callbackUrl=${encodeURIComponent(returnTo)}` : '/signin');
+  if (!user) {
+    const back = (await requestedPath()) ?? (returnTo ? safeCallbackPath(returnTo, appUrl()) : null);
+    redirect(back ? `/signin?callbackUrl=${encodeURIComponent(back)}` : '/signin');
+  }
   return user;
 }
 
@@ -28,7 +40,13 @@ export async function requireMember(slug: string, permission: Permission = 'work
   const user = await requireUser(`/w/${slug}`);
   const m = await getMembership({ userId: user.id, slug });
   if (!m) notFound();
-  if (!can(m.role, permission)) forbidden();
+  if (!can(m.role, permission)) {
+    // The bare workspace address is everyone's way in: a role without the overview starts on its own landing.
+    const asked = await requestedPath();
+    const landing = workspaceLanding(m.workspace.slug, m.role);
+    if (asked !== null && asked.split(/[?#]/)[0].replace(/\/+$/, '') === `/w/${m.workspace.slug}` && landing !== `/w/${m.workspace.slug}`) redirect(landing);
+    forbidden();
+  }
   return { user, workspace: m.workspace, role: m.role };
 }
 

@@ -4,10 +4,13 @@ import CredentialsProvider from 'next-auth/providers/credentials';
 import EmailProvider from 'next-auth/providers/email';
 import { env, isHttpsApp } from '@/lib/env';
 import { knexAdapter } from './adapter';
-import { verifyPassword } from './password';
-import { getCredentialsByEmail, getUserByEmail, getUserById, normaliseEmail } from '@/db/users';
+import { getUserByEmail, getUserById, normaliseEmail } from '@/db/users';
 import { createAuditEntry } from '@/db/audit';
-import { assertSignInAllowed, limitEmailSend, recordSignInFailure, recordSignInSuccess, SignInLockedError } from './throttle';
+import { revokeSession } from '@/db/sessions';
+import { limitEmailSend } from './throttle';
+import { checkCredentials, sessionClaims } from './credentials';
+import { clientIpFrom } from './client-ip';
+import { DEFAULT_LANDING, safeCallbackPath } from './callback';
 import { sendMail } from '@/lib/mail/mailer';
 import { signInLinkMail } from '@/lib/mail/templates';
 import { signInSchema } from '@/lib/validation/auth';
@@ -15,16 +18,6 @@ import { log } from '@/lib/log';
 import { AppError } from '@/lib/errors';
 
 export const SIGN_IN_LINK_MINUTES = 10;
-
-function clientIp(headers: Record<string, unknown> | Headers | undefined): string {
-  const get = (n: string): string | undefined => {
-    if (!headers) return undefined;
-    if (headers instanceof Headers) return headers.get(n) ?? undefined;
-    const v = headers[n];
-    return typeof v === 'string' ? v : Array.isArray(v) ? String(v[0]) : undefined;
-  };
-  return (get('x-forwarded-for')?.split(',')[0] ?? get('x-real-ip') ?? '127.0.0.1').trim();
-}
 
 let cached: NextAuthOptions | undefined;
 
@@ -50,27 +43,14 @@ export function authOptions(): NextAuthOptions {
         async authorize(credentials, req) {
           const parsed = signInSchema.safeParse(credentials ?? {});
           if (!parsed.success) throw new Error('Enter your e-mail address and password.');
-          const email = normaliseEmail(parsed.data.email);
-          const ip = clientIp(req?.headers);
-          try {
-            await assertSignInAllowed(email, ip);
-          } catch (err) {
-            if (err instanceof SignInLockedError) {
-              log.warn({ event: 'signin.locked', email, ip }, 'sign-in refused: locked');
-              throw new Error(err.message);
-            }
-            throw err;
-          }
-          const found = await getCredentialsByEmail(email);
-          const ok = await verifyPassword(found?.passwordHash ?? null, parsed.data.password);
-          if (!found || !ok) {
-            await recordSignInFailure(email, ip);
-            log.warn({ event: 'signin.failed', email, ip }, 'sign-in failed');
-            await createAuditEntry({ userId: found?.user.id ?? null, actor: email, action: 'signin.failed', ip });
-            throw new Error('That e-mail and password do not match an account.');
-          }
-          await recordSignInSuccess(email);
-          return { id: String(found.user.id), email: found.user.email, name: found.user.name };
+          const headers = req?.headers as Record<string, unknown> | undefined;
+          const ip = clientIpFrom((n) => {
+            const v = headers?.[n];
+            return typeof v === 'string' ? v : Array.isArray(v) ? String(v[0]) : undefined;
+          });
+          const outcome = await checkCredentials(parsed.data.email, parsed.data.password, ip);
+          if (!outcome.ok) throw new Error(outcome.message);
+          return { id: String(outcome.user.id), email: outcome.user.email, name: outcome.user.name };
         },
       }),
       EmailProvider({
@@ -101,14 +81,14 @@ export function authOptions(): NextAuthOptions {
       },
       async jwt({ token, user }) {
         if (user) {
-          const u = await getUserById(Number(user.id));
-          if (u) {
-            token.uid = u.id;
-            token.sv = u.sessionVersion;
-            token.authAt = Date.now();
-          }
+          const claims = await sessionClaims(Number(user.id));
+          if (claims) Object.assign(token, claims);
         }
         return token;
+      },
+      redirect({ url, baseUrl }) {
+        const path = safeCallbackPath(url, baseUrl);
+        return new URL(path ?? DEFAULT_LANDING, baseUrl).toString();
       },
       async session({ session, token }) {
         if (session.user) (session.user as { id?: number }).id = Number(token.uid);
@@ -116,6 +96,10 @@ export function authOptions(): NextAuthOptions {
       },
     },
     events: {
+      async signOut({ token }) {
+        const sid = (token as { sid?: unknown } | null)?.sid;
+        if (typeof sid === 'string') await revokeSession(sid);
+      },
       async signIn({ user, account }) {
         const u = await getUserById(Number(user.id));
         log.info({ event: 'signin.ok', userId: u?.id, method: account?.provider }, 'signed in');

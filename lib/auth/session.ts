@@ -2,6 +2,7 @@ import 'server-only';
 import { decode } from 'next-auth/jwt';
 import { env, isHttpsApp } from '@/lib/env';
 import { getUserById, type UserDto } from '@/db/users';
+import { isSessionLive } from '@/db/sessions';
 
 export type SessionUser = UserDto;
 
@@ -45,7 +46,8 @@ export function parseCookieHeader(header: string | null): Map<string, string> {
 /**
  * The user behind a session token, checked against the database on every call: the account must
  * still exist, its session version must match (sign-out everywhere, password change, removal),
- * and the session must be younger than the absolute lifetime whatever next-auth's sliding expiry says.
+ * the session must be younger than the absolute lifetime whatever next-auth's sliding expiry says, and
+ * its recorded row must still be live (sign-out revokes it). A token without a session id is refused.
  */
 export async function userFromSessionToken(token: string | undefined): Promise<SessionUser | null> {
   if (!token) return null;
@@ -59,11 +61,24 @@ export async function userFromSessionToken(token: string | undefined): Promise<S
   const uid = Number(payload.uid);
   const sv = Number(payload.sv);
   const authAt = Number(payload.authAt);
-  if (!Number.isInteger(uid) || !Number.isFinite(authAt)) return null;
+  const sid = payload.sid;
+  if (!Number.isInteger(uid) || !Number.isFinite(authAt) || typeof sid !== 'string' || !sid) return null;
   if (Date.now() - authAt > env().SESSION_MAX_HOURS * 3_600_000) return null;
   const user = await getUserById(uid);
   if (!user || user.sessionVersion !== sv) return null;
+  if (!(await isSessionLive(sid, uid))) return null;
   return user;
+}
+
+/** The recorded session id inside a token, whatever its state; null when the token does not decode. */
+export async function sessionIdFromToken(token: string | undefined): Promise<string | null> {
+  if (!token) return null;
+  try {
+    const payload = await decode({ token, secret: env().NEXTAUTH_SECRET });
+    return payload && typeof payload.sid === 'string' ? payload.sid : null;
+  } catch {
+    return null;
+  }
 }
 
 export async function userFromRequest(req: Request): Promise<SessionUser | null> {

@@ -6,6 +6,7 @@ import { env } from '@/lib/env';
 import { isPostgres } from '@/db/config';
 import { db } from '@/db/client';
 import { throttled } from '@/lib/errors';
+import { UNKNOWN_CLIENT } from './client-ip';
 
 const g = globalThis as unknown as { tropopassLimiters?: Limiters };
 
@@ -128,7 +129,8 @@ export class SignInLockedError extends Error {
 export async function assertSignInAllowed(email: string, ip: string): Promise<void> {
   const l = limiters();
   await l.ready;
-  const [a, b] = await Promise.all([l.signInAccount.get(email), l.signInAddress.get(ip)]);
+  // Without a trusted proxy every client shares one key; throttling it would let anyone lock everyone out.
+  const [a, b] = await Promise.all([l.signInAccount.get(email), ip === UNKNOWN_CLIENT ? null : l.signInAddress.get(ip)]);
   const blocked = [a, b].filter((r): r is RateLimiterRes => !!r && r.remainingPoints <= 0 && r.msBeforeNext > 0);
   if (blocked.length) throw new SignInLockedError(Math.max(...blocked.map((r) => r.msBeforeNext)) / 1000);
 }
@@ -138,7 +140,7 @@ export async function recordSignInFailure(email: string, ip: string): Promise<vo
   await l.ready;
   await Promise.all([
     l.signInAccount.consume(email).catch(() => undefined),
-    l.signInAddress.consume(ip).catch(() => undefined),
+    ip === UNKNOWN_CLIENT ? undefined : l.signInAddress.consume(ip).catch(() => undefined),
   ]);
 }
 

@@ -39,8 +39,15 @@ export function stripe(): Stripe {
 
 export type StripeError = InstanceType<typeof Stripe.errors.StripeError>;
 
+/**
+ * By class, and by shape as well: should the SDK ever be loaded twice (two bundles), an error from the
+ * other copy is still recognised instead of ending as a 500.
+ */
 export function isStripeError(err: unknown): err is StripeError {
-  return err instanceof Stripe.errors.StripeError;
+  if (err instanceof Stripe.errors.StripeError) return true;
+  if (!(err instanceof Error) || typeof err !== 'object') return false;
+  const e = err as { type?: unknown; rawType?: unknown };
+  return typeof e.type === 'string' && /^Stripe[A-Za-z]*Error$/.test(e.type) && 'rawType' in e;
 }
 
 /** Errors worth another try later: the service failed, throttled, or did not answer in time. */

@@ -21,6 +21,33 @@ export function signInLinkMail(to: string, url: string): OutgoingMail {
   };
 }
 
+export function signUpConfirmMail(to: string, url: string): OutgoingMail {
+  return {
+    to,
+    subject: 'Finish creating your Tropopass account',
+    ...wrap(['Your Tropopass account is ready. Use this link within 60 minutes to confirm the address and sign in. It works once.', 'If you did not sign up, ignore this message.'], {
+      href: url,
+      label: 'Confirm and sign in',
+    }),
+  };
+}
+
+/** Sent instead of a new account when the address already has one, so the sign-up page says the same either way. */
+export function signUpExistingMail(to: string, signInUrl: string, resetUrl: string): OutgoingMail {
+  return {
+    to,
+    subject: 'Someone tried to create a Tropopass account with your address',
+    ...wrap(
+      [
+        'Someone, perhaps you, tried to create a Tropopass account with this address, but it already has one. No new account was made.',
+        `If it was you, sign in at ${signInUrl}, or choose a new password at ${resetUrl}.`,
+        'If it was not you, nothing needs doing.',
+      ],
+      { href: signInUrl, label: 'Sign in to Tropopass' },
+    ),
+  };
+}
+
 export function passwordResetMail(to: string, url: string): OutgoingMail {
   return {
     to,

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE } from './display-text';
 
 const email = z
   .string({ error: 'Enter your e-mail address.' })
@@ -19,13 +20,14 @@ export const signInSchema = z.object({
 export type SignInInput = z.infer<typeof signInSchema>;
 
 export const signUpSchema = z.object({
-  name: z.string({ error: 'Enter your name.' }).trim().min(1, 'Enter your name.').max(120, 'Use at most 120 characters.'),
+  name: z.string({ error: 'Enter your name.' }).trim().min(1, 'Enter your name.').max(120, 'Use at most 120 characters.').refine(hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE),
   email,
   password: newPassword,
   workspaceName: z
     .string()
     .trim()
     .max(120, 'Use at most 120 characters.')
+    .refine(hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE)
     .optional()
     .transform((v) => (v ? v : undefined)),
 });

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE } from './display-text';
 
 /** True for an existing calendar date written YYYY-MM-DD. */
 export function isCalendarDate(s: unknown): s is string {
@@ -27,7 +28,8 @@ export const fleetNameSchema = z
   .string({ error: 'Give the fleet a name.' })
   .trim()
   .min(1, 'Give the fleet a name.')
-  .max(80, 'Use at most 80 characters.');
+  .max(80, 'Use at most 80 characters.')
+  .refine(hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE);
 
 const descriptionSchema = z.string({ error: 'The description must be text.' }).trim().max(500, 'Use at most 500 characters.');
 

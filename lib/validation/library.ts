@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { engineCertSchema, SCREENING_LIMITS, soundingSchema, waypointSchema } from './screening';
+import { hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE } from './display-text';
 
 /**
  * Schemas of the planner's library: saved routes, engines, aircraft types and soundings. The same
@@ -12,7 +13,7 @@ const text = (label: string, max: number) =>
     .trim()
     .max(max, { error: `${label} may have at most ${max} characters.` });
 
-const requiredText = (label: string, max: number) => text(label, max).min(1, { error: `Give ${label.toLowerCase()}.` });
+const requiredText = (label: string, max: number) => text(label, max).min(1, { error: `Give ${label.toLowerCase()}.` }).refine(hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE);
 
 const numberIn = (label: string, min: number, max: number, unit = '') => {
   const message = `${label} must be between ${min} and ${max}${unit ? ` ${unit}` : ''}.`;
@@ -152,7 +153,7 @@ export const aircraftTypeSaveSchema = z
       .max(AIRCRAFT_CODE_MAX, { error: `A type code has at most ${AIRCRAFT_CODE_MAX} characters.` })
       .regex(/^[A-Za-z0-9][A-Za-z0-9._/-]*$/, { error: 'A type code uses letters, digits and - . _ / only, such as SK-LR1.' })
       .transform((c) => c.toUpperCase()),
-    name: text('The type name', 120).default(''),
+    name: text('The type name', 120).refine(hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE).default(''),
     engineId: idRef('The engine').default(null),
     directEiGPerKg: numberIn('The direct EI NOx', 0, SCREENING_LIMITS.maxEiNoxGPerKg, 'g/kg').nullable().default(null),
     engineCount: wholeIn('The engine count', SCREENING_LIMITS.minEngineCount, SCREENING_LIMITS.maxEngineCount),

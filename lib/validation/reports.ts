@@ -1,11 +1,12 @@
 import { z } from 'zod';
 import { isCalendarDate, isoDateSchema, MAX_PERIOD_MONTHS, monthsSpanned } from './fleets';
+import { hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE } from './display-text';
 
 export const MAX_RECIPIENTS = 20;
 
 export const reportCreateSchema = z
   .object({
-    name: z.string({ error: 'The name must be text.' }).trim().max(160, 'Use at most 160 characters.').optional(),
+    name: z.string({ error: 'The name must be text.' }).trim().max(160, 'Use at most 160 characters.').refine(hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE).optional(),
     from: isoDateSchema,
     to: isoDateSchema,
     fleetIds: z

@@ -1,8 +1,9 @@
 import { z } from 'zod';
 import { API_KEY_ROLES, ROLES } from '@/lib/auth/policy';
+import { hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE } from './display-text';
 
 export const workspaceCreateSchema = z.object({
-  name: z.string({ error: 'Enter a name.' }).trim().min(2, 'Use at least 2 characters.').max(120, 'Use at most 120 characters.'),
+  name: z.string({ error: 'Enter a name.' }).trim().min(2, 'Use at least 2 characters.').max(120, 'Use at most 120 characters.').refine(hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE),
   slug: z
     .string()
     .trim()
@@ -24,7 +25,7 @@ export const memberRoleSchema = z.object({
 });
 
 export const apiKeyCreateSchema = z.object({
-  name: z.string({ error: 'Name the key.' }).trim().min(1, 'Name the key.').max(80, 'Use at most 80 characters.'),
+  name: z.string({ error: 'Name the key.' }).trim().min(1, 'Name the key.').max(80, 'Use at most 80 characters.').refine(hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE),
   role: z.enum(API_KEY_ROLES, { error: 'A key can be planner, analyst or viewer.' }).default('planner'),
 });
 export type ApiKeyCreateInput = z.infer<typeof apiKeyCreateSchema>;

@@ -116,10 +116,12 @@ async function main(): Promise<void> {
   run(process.execPath, [...knexCli, 'migrate:latest'], env, 'migrate');
   run(process.execPath, [...knexCli, 'seed:run'], env, 'seed');
 
-  const conn = new Database(dbFile, { readonly: true });
+  const conn = new Database(dbFile);
   const analyst = conn.prepare("select id, session_version from users where email = 'analyst@tropopass.test'").get() as { id: number; session_version: number };
   const workspace = conn.prepare("select id from workspaces where slug = 'skarn-polar'").get() as { id: number };
-  const cookie = `next-auth.session-token=${await encode({ token: { uid: analyst.id, sv: Number(analyst.session_version), authAt: Date.now() }, secret: SECRET })}`;
+  const sid = `bench-${process.pid}-${Date.now()}`;
+  conn.prepare('insert into auth_sessions (id, user_id, created_at, expires_at) values (?, ?, ?, ?)').run(sid, analyst.id, new Date().toISOString(), new Date(Date.now() + 12 * 3_600_000).toISOString());
+  const cookie = `next-auth.session-token=${await encode({ token: { uid: analyst.id, sv: Number(analyst.session_version), authAt: Date.now(), sid }, secret: SECRET })}`;
 
   const csv = schedule(ROWS);
   const bytes = Buffer.byteLength(csv);

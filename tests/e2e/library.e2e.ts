@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { newPage, screenshot, signIn, useBrowser } from './support/browser';
+import { finishSignUp, newPage, screenshot, signIn, useBrowser } from './support/browser';
 
 const { browser } = useBrowser();
 
@@ -145,7 +145,8 @@ describe('the planner keeps the library', () => {
     await page.getByLabel('Password').fill('long-enough-password');
     await page.getByLabel('First workspace (optional)').fill(slug);
     await page.getByRole('button', { name: 'Create account' }).click();
-    await page.waitForURL(`**/w/${slug}`, { timeout: 20_000 });
+    await finishSignUp(page, `units-${stamp.toLowerCase()}@example.test`);
+    expect(new URL(page.url()).pathname).toBe(`/w/${slug}`);
     await page.goto('/account');
     await page.getByLabel('Aviation: nautical miles, feet, pounds').check();
     await page.getByRole('status').filter({ hasText: 'Saved' }).waitFor();

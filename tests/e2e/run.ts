@@ -75,8 +75,21 @@ async function main(): Promise<number> {
 
   const children: ChildProcess[] = [];
   // Each child leads its own process group, so stopping it also stops whatever it started.
-  const start = (args: string[], label: string) => {
-    const c = spawn(args[0], args.slice(1), { cwd: root, env, stdio: ['ignore', 'inherit', 'inherit'], detached: true });
+  // The app's output is also kept in a file, so journeys can check that no secret reaches the server log.
+  const serverLog = path.join(work, 'server.log');
+  const start = (args: string[], label: string, logFile?: string) => {
+    const c = spawn(args[0], args.slice(1), { cwd: root, env, stdio: ['ignore', logFile ? 'pipe' : 'inherit', logFile ? 'pipe' : 'inherit'], detached: true });
+    if (logFile) {
+      const sink = fs.createWriteStream(logFile);
+      c.stdout?.on('data', (d: Buffer) => {
+        process.stdout.write(d);
+        sink.write(d);
+      });
+      c.stderr?.on('data', (d: Buffer) => {
+        process.stderr.write(d);
+        sink.write(d);
+      });
+    }
     c.on('exit', (code) => {
       if (code && code !== 0 && !stopping) console.error(`[e2e] ${label} exited with ${code}`);
     });
@@ -87,12 +100,12 @@ async function main(): Promise<number> {
   try {
     start([process.execPath, '--import', 'tsx', 'lib/fakes/smtp/server.ts'], 'mail fake');
     start([process.execPath, '--import', 'tsx', 'lib/fakes/payment/server.ts'], 'payment fake');
-    const app = start([process.execPath, 'node_modules/next/dist/bin/next', 'start', '-H', '127.0.0.1', '-p', String(appPort)], 'app');
+    const app = start([process.execPath, 'node_modules/next/dist/bin/next', 'start', '-H', '127.0.0.1', '-p', String(appPort)], 'app', serverLog);
     await waitFor(`${baseUrl}/signin`, app);
     await waitFor(`http://127.0.0.1:${mailHttpPort}/messages`, app);
     const r = spawnSync(process.execPath, ['node_modules/vitest/vitest.mjs', 'run', '--config', 'tests/e2e/vitest.config.ts', ...process.argv.slice(2)], {
       cwd: root,
-      env: { ...env, E2E_BASE_URL: baseUrl, E2E_MAIL_URL: `http://127.0.0.1:${mailHttpPort}`, E2E_PAYMENT_URL: `http://127.0.0.1:${payPort}`, CHROMIUM_PATH: chromium, NODE_ENV: 'test' },
+      env: { ...env, E2E_BASE_URL: baseUrl, E2E_MAIL_URL: `http://127.0.0.1:${mailHttpPort}`, E2E_PAYMENT_URL: `http://127.0.0.1:${payPort}`, E2E_SERVER_LOG: serverLog, CHROMIUM_PATH: chromium, NODE_ENV: 'test' },
       stdio: 'inherit',
     });
     return r.status ?? 1;

@@ -78,7 +78,12 @@ export function insertApiKey(file: string, slug: string, role: 'planner' | 'anal
     const ws = conn.prepare('select id from workspaces where slug = ?').get(slug) as { id: number } | undefined;
     if (!ws) throw new Error(`no workspace ${slug} in ${file}`);
     const { key, prefix, hash } = newApiKey();
-    conn.prepare('insert into api_keys (workspace_id, name, role, key_prefix, key_hash, created_at) values (?, ?, ?, ?, ?, ?)').run(ws.id, `bench-${Date.now()}`, role, prefix, hash, new Date().toISOString());
+    // A key lives only while its creator may make keys, so it is made in an owner's name.
+    const owner = conn.prepare("select user_id from memberships where workspace_id = ? and role = 'owner' order by id limit 1").get(ws.id) as { user_id: number } | undefined;
+    if (!owner) throw new Error(`no owner in ${slug}`);
+    conn
+      .prepare('insert into api_keys (workspace_id, name, role, key_prefix, key_hash, created_by, created_at) values (?, ?, ?, ?, ?, ?, ?)')
+      .run(ws.id, `bench-${Date.now()}`, role, prefix, hash, owner.user_id, new Date().toISOString());
     return key;
   } finally {
     conn.close();

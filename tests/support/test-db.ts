@@ -7,6 +7,7 @@ import { encode } from 'next-auth/jwt';
 import { resetEnvForTests } from '@/lib/env';
 import { closeDb, db } from '@/db/client';
 import { createUser } from '@/db/users';
+import { createSession } from '@/db/sessions';
 import { createWorkspace } from '@/db/workspaces';
 import type { Role } from '@/lib/auth/policy';
 
@@ -85,9 +86,10 @@ export async function makeWorkspace(roles: Role[] = []): Promise<{ id: number; s
 }
 
 /** A session cookie exactly as next-auth's JWT strategy issues it for this user. */
-export async function sessionCookie(userId: number, opts: { authAt?: number } = {}): Promise<string> {
+export async function sessionCookie(userId: number, opts: { authAt?: number; sid?: string } = {}): Promise<string> {
   const row = await db()('users').where({ id: userId }).first();
-  const token = await encode({ token: { uid: userId, sv: Number(row.session_version), authAt: opts.authAt ?? Date.now() }, secret: TEST_SECRET });
+  const sid = opts.sid ?? (await createSession(userId, 12));
+  const token = await encode({ token: { uid: userId, sv: Number(row.session_version), authAt: opts.authAt ?? Date.now(), sid }, secret: TEST_SECRET });
   return `next-auth.session-token=${token}`;
 }
 

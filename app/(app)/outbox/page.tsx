@@ -29,7 +29,7 @@ export default async function OutboxPage() {
   }
   return (
     <main id="main" className="mx-auto max-w-[900px] px-4 py-8">
-      <PageHeader title="Outbox (local mail catcher)" lead="Every e-mail the app sent on this machine. Shown only in the demo and tests." />
+      <PageHeader title="Outbox (local mail catcher)" lead="Every e-mail the app sent on this machine, sign-in, reset and invitation links included. It exists only while the app runs on a loopback address (the server refuses to start with MAIL_OUTBOX=1 otherwise): never switch it on in a deployment." />
       {problem ? <EmptyState title={problem} /> : items.length === 0 ? <EmptyState title="No e-mail sent yet" /> : null}
       <div className="space-y-4">
         {items.map((m) => (

@@ -1,62 +1,44 @@
 'use client';
 
-import { useState } from 'react';
-import { useRouter } from 'next/navigation';
-import { useForm } from 'react-hook-form';
-import { zodResolver } from '@hookform/resolvers/zod';
-import { emailOnlySchema, resetPasswordSchema, type ResetPasswordInput } from '@/lib/validation/auth';
+import { useActionState } from 'react';
 import { Field, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
-import { applyServerErrors } from '@/components/ui/server-errors';
-import { requestPasswordResetAction, resetPasswordAction } from '../actions';
+import { requestPasswordResetAction, resetPasswordAction, type AuthFormState } from '../actions';
+import { fieldError, FormMessage } from '../auth-form-bits';
 
 export function RequestResetForm() {
-  const [done, setDone] = useState<string>();
-  const [message, setMessage] = useState<string>();
-  const form = useForm<{ email: string }>({ resolver: zodResolver(emailOnlySchema), defaultValues: { email: '' } });
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage(undefined);
-    const state = await requestPasswordResetAction(values);
-    if (state?.ok) setDone(state.message);
-    else setMessage(applyServerErrors(state, form.setError, ['email']));
-  });
-  if (done) return <Notice tone="success" title="Check your e-mail">{done}</Notice>;
+  const [state, action, pending] = useActionState<AuthFormState, FormData>(requestPasswordResetAction, null);
+  if (state?.ok) return <Notice tone="success" title="Check your e-mail">{state.message}</Notice>;
+  const err = fieldError(state, 'email');
   return (
-    <form onSubmit={onSubmit} noValidate className="mt-5 space-y-4">
-      {message ? <Notice tone="danger" role="alert">{message}</Notice> : null}
-      <Field id="email" label="E-mail" error={form.formState.errors.email?.message}>
-        <TextInput id="email" type="email" autoComplete="email" invalid={!!form.formState.errors.email} {...form.register('email')} />
+    <form action={action} noValidate className="mt-5 space-y-4">
+      <FormMessage state={state} />
+      <Field id="email" label="E-mail" error={err}>
+        <TextInput id="email" name="email" type="email" autoComplete="email" required invalid={!!err} defaultValue={state?.values?.email ?? ''} key={state?.values?.email ?? ''} />
       </Field>
-      <Button type="submit" className="w-full" disabled={form.formState.isSubmitting}>
+      <Button type="submit" className="w-full" disabled={pending}>
         Send the reset link
       </Button>
     </form>
   );
 }
 
+/** Posted as an ordinary form (a server action): works before the script loads; the password never lands in a URL. */
 export function NewPasswordForm({ token }: { token: string }) {
-  const router = useRouter();
-  const [message, setMessage] = useState<string>();
-  const form = useForm<ResetPasswordInput>({ resolver: zodResolver(resetPasswordSchema), defaultValues: { token, password: '', confirm: '' } });
-  const { errors, isSubmitting } = form.formState;
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage(undefined);
-    const state = await resetPasswordAction(values);
-    if (state?.ok) router.push('/signin?reset=1');
-    else setMessage(applyServerErrors(state, form.setError, ['password', 'confirm']));
-  });
+  const [state, action, pending] = useActionState<AuthFormState, FormData>(resetPasswordAction, null);
+  const err = (p: string) => fieldError(state, p);
   return (
-    <form onSubmit={onSubmit} noValidate className="mt-5 space-y-4">
-      {message ? <Notice tone="danger" role="alert">{message}</Notice> : null}
-      <input type="hidden" {...form.register('token')} />
-      <Field id="password" label="New password" hint="At least 10 characters." error={errors.password?.message}>
-        <TextInput id="password" type="password" autoComplete="new-password" invalid={!!errors.password} {...form.register('password')} />
+    <form action={action} noValidate className="mt-5 space-y-4">
+      <FormMessage state={state} />
+      <input type="hidden" name="token" value={token} />
+      <Field id="password" label="New password" hint="At least 10 characters; not a common password, a run like 12345, or your name." error={err('password')}>
+        <TextInput id="password" name="password" type="password" autoComplete="new-password" required invalid={!!err('password')} />
       </Field>
-      <Field id="confirm" label="Repeat it" error={errors.confirm?.message}>
-        <TextInput id="confirm" type="password" autoComplete="new-password" invalid={!!errors.confirm} {...form.register('confirm')} />
+      <Field id="confirm" label="Repeat it" error={err('confirm')}>
+        <TextInput id="confirm" name="confirm" type="password" autoComplete="new-password" required invalid={!!err('confirm')} />
       </Field>
-      <Button type="submit" className="w-full" disabled={isSubmitting}>
+      <Button type="submit" className="w-full" disabled={pending}>
         Set the new password
       </Button>
     </form>

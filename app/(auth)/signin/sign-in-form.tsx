@@ -1,36 +1,32 @@
 'use client';
 
-import { useState } from 'react';
+import { useActionState, useState } from 'react';
 import { useRouter } from 'next/navigation';
 import Link from 'next/link';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { signIn } from 'next-auth/react';
-import { signInSchema, emailOnlySchema, type SignInInput } from '@/lib/validation/auth';
+import { emailOnlySchema } from '@/lib/validation/auth';
 import { Field, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
+import { signInWithPasswordAction, type AuthFormState } from '../actions';
+import { fieldError, FormMessage } from '../auth-form-bits';
 
+/**
+ * The password form is a server action posted as an ordinary form: before the script has loaded (a slow
+ * phone) or without script it still posts, and the password never lands in a URL.
+ */
 export function SignInForm({ callbackUrl, initialNotice }: { callbackUrl: string; initialNotice?: string }) {
   const router = useRouter();
   const [mode, setMode] = useState<'password' | 'link'>('password');
   const [message, setMessage] = useState<string | undefined>(initialNotice);
-  const form = useForm<SignInInput>({ resolver: zodResolver(signInSchema), defaultValues: { email: '', password: '' } });
+  const [state, action, pending] = useActionState<AuthFormState, FormData>(signInWithPasswordAction, null);
   const linkForm = useForm<{ email: string }>({ resolver: zodResolver(emailOnlySchema), defaultValues: { email: '' } });
-
-  const submitPassword = form.handleSubmit(async (values) => {
-    setMessage(undefined);
-    const res = await signIn('credentials', { ...values, redirect: false, callbackUrl });
-    if (!res || res.error) {
-      setMessage(res?.error && res.error !== 'CredentialsSignin' ? res.error : 'That e-mail and password do not match an account.');
-      return;
-    }
-    window.location.assign(callbackUrl);
-  });
 
   const submitLink = linkForm.handleSubmit(async (values) => {
     setMessage(undefined);
-    const res = await signIn('email', { email: values.email, redirect: false, callbackUrl });
+    const res = await signIn('email', { email: values.email, redirect: false, callbackUrl: `/start?next=${encodeURIComponent(callbackUrl)}` });
     if (res?.error) {
       setMessage(res.error === 'EmailSignin' ? 'The sign-in link could not be sent. Try again shortly.' : res.error);
       return;
@@ -38,6 +34,8 @@ export function SignInForm({ callbackUrl, initialNotice }: { callbackUrl: string
     router.push('/signin/check-email');
   });
 
+  const emailError = fieldError(state, 'email');
+  const passwordError = fieldError(state, 'password');
   return (
     <div className="mt-5 space-y-4">
       <div role="tablist" aria-label="How to sign in" className="flex gap-1 rounded-md bg-paper-sunk p-1 text-sm">
@@ -54,21 +52,23 @@ export function SignInForm({ callbackUrl, initialNotice }: { callbackUrl: string
           </button>
         ))}
       </div>
-      {message ? (
+      {message && !state ? (
         <Notice tone="danger" role="alert">
           {message}
         </Notice>
       ) : null}
       {mode === 'password' ? (
-        <form onSubmit={submitPassword} noValidate className="space-y-4">
-          <Field id="email" label="E-mail" error={form.formState.errors.email?.message}>
-            <TextInput id="email" type="email" autoComplete="email" invalid={!!form.formState.errors.email} {...form.register('email')} />
+        <form action={action} noValidate className="space-y-4">
+          <FormMessage state={state} />
+          <input type="hidden" name="callbackUrl" value={callbackUrl} />
+          <Field id="email" label="E-mail" error={emailError}>
+            <TextInput id="email" name="email" type="email" autoComplete="email" required invalid={!!emailError} defaultValue={state?.values?.email ?? ''} key={`email-${state?.values?.email ?? ''}`} />
           </Field>
-          <Field id="password" label="Password" error={form.formState.errors.password?.message}>
-            <TextInput id="password" type="password" autoComplete="current-password" invalid={!!form.formState.errors.password} {...form.register('password')} />
+          <Field id="password" label="Password" error={passwordError}>
+            <TextInput id="password" name="password" type="password" autoComplete="current-password" required invalid={!!passwordError} />
           </Field>
-          <Button type="submit" className="w-full" disabled={form.formState.isSubmitting}>
-            {form.formState.isSubmitting ? 'Signing in…' : 'Sign in'}
+          <Button type="submit" className="w-full" disabled={pending}>
+            {pending ? 'Signing in…' : 'Sign in'}
           </Button>
           <p className="text-center text-sm">
             <Link className="text-accent underline" href="/reset">
@@ -77,7 +77,7 @@ export function SignInForm({ callbackUrl, initialNotice }: { callbackUrl: string
           </p>
         </form>
       ) : (
-        <form onSubmit={submitLink} noValidate className="space-y-4">
+        <form method="post" onSubmit={submitLink} noValidate className="space-y-4">
           <Field id="link-email" label="E-mail" hint="We send a link that works once, within 10 minutes." error={linkForm.formState.errors.email?.message}>
             <TextInput id="link-email" type="email" autoComplete="email" invalid={!!linkForm.formState.errors.email} {...linkForm.register('email')} />
           </Field>

@@ -1,61 +1,37 @@
 'use client';
 
-import { useState } from 'react';
-import { useForm } from 'react-hook-form';
-import { zodResolver } from '@hookform/resolvers/zod';
-import { signIn } from 'next-auth/react';
-import { signUpSchema, type SignUpInput } from '@/lib/validation/auth';
+import { useActionState } from 'react';
 import { Field, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
-import { Notice } from '@/components/ui/notice';
-import { applyServerErrors } from '@/components/ui/server-errors';
-import { signUpAction } from '../actions';
+import { signUpAction, type AuthFormState } from '../actions';
+import { fieldError, FormMessage } from '../auth-form-bits';
 
-type FormValues = { name: string; email: string; password: string; workspaceName?: string };
-
+/** Posted as an ordinary form (a server action): works before the script loads, and the password never lands in a URL. */
 export function SignUpForm({ invitationToken, invitedEmail }: { invitationToken?: string; invitedEmail?: string }) {
-  const [message, setMessage] = useState<string>();
-  const form = useForm<FormValues, unknown, SignUpInput>({
-    resolver: zodResolver(signUpSchema),
-    defaultValues: { name: '', email: invitedEmail ?? '', password: '', workspaceName: '' },
-  });
-  const { errors, isSubmitting } = form.formState;
-
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage(undefined);
-    const state = await signUpAction(values, invitationToken);
-    if (!state?.ok) {
-      setMessage(applyServerErrors(state, form.setError, ['name', 'email', 'password', 'workspaceName']));
-      return;
-    }
-    const next = state.data?.next ?? '/workspaces';
-    const res = await signIn('credentials', { email: values.email, password: values.password, redirect: false, callbackUrl: next });
-    window.location.assign(res?.ok ? next : '/signin');
-  });
-
+  const [state, action, pending] = useActionState<AuthFormState, FormData>(signUpAction, null);
+  const v = state?.values ?? {};
+  const err = (p: string) => fieldError(state, p);
+  const k = JSON.stringify(v);
   return (
-    <form onSubmit={onSubmit} noValidate className="mt-5 space-y-4">
-      {message ? (
-        <Notice tone="danger" role="alert">
-          {message}
-        </Notice>
-      ) : null}
-      <Field id="name" label="Your name" error={errors.name?.message}>
-        <TextInput id="name" autoComplete="name" invalid={!!errors.name} {...form.register('name')} />
+    <form action={action} noValidate className="mt-5 space-y-4">
+      <FormMessage state={state} />
+      {invitationToken ? <input type="hidden" name="invitationToken" value={invitationToken} /> : null}
+      <Field id="name" label="Your name" error={err('name')}>
+        <TextInput id="name" name="name" autoComplete="name" required invalid={!!err('name')} defaultValue={v.name ?? ''} key={`n${k}`} />
       </Field>
-      <Field id="email" label="Work e-mail" error={errors.email?.message}>
-        <TextInput id="email" type="email" autoComplete="email" readOnly={!!invitedEmail} invalid={!!errors.email} {...form.register('email')} />
+      <Field id="email" label="Work e-mail" error={err('email')}>
+        <TextInput id="email" name="email" type="email" autoComplete="email" required readOnly={!!invitedEmail} invalid={!!err('email')} defaultValue={invitedEmail ?? v.email ?? ''} key={`e${k}`} />
       </Field>
-      <Field id="password" label="Password" hint="At least 10 characters." error={errors.password?.message}>
-        <TextInput id="password" type="password" autoComplete="new-password" invalid={!!errors.password} {...form.register('password')} />
+      <Field id="password" label="Password" hint="At least 10 characters; not a common password, a run like 12345, or your name." error={err('password')}>
+        <TextInput id="password" name="password" type="password" autoComplete="new-password" required invalid={!!err('password')} />
       </Field>
       {invitationToken ? null : (
-        <Field id="workspaceName" label="First workspace (optional)" hint="Your operator or client name. You can create more later." error={errors.workspaceName?.message}>
-          <TextInput id="workspaceName" invalid={!!errors.workspaceName} {...form.register('workspaceName')} />
+        <Field id="workspaceName" label="First workspace (optional)" hint="Your operator or client name. You can create more later." error={err('workspaceName')}>
+          <TextInput id="workspaceName" name="workspaceName" invalid={!!err('workspaceName')} defaultValue={v.workspaceName ?? ''} key={`w${k}`} />
         </Field>
       )}
-      <Button type="submit" className="w-full" disabled={isSubmitting}>
-        {isSubmitting ? 'Creating…' : invitationToken ? 'Create account and join' : 'Create account'}
+      <Button type="submit" className="w-full" disabled={pending}>
+        {pending ? 'Creating…' : invitationToken ? 'Create account and join' : 'Create account'}
       </Button>
     </form>
   );

@@ -70,3 +70,17 @@ export async function mailTo(address: string): Promise<MailItem[]> {
   const res = await fetch(`${MAIL_URL}/messages?to=${encodeURIComponent(address)}`);
   return ((await res.json()) as { items: MailItem[] }).items;
 }
+
+/** After "Create account" without an invitation: the check-your-mail page, then the confirmation link from the mail. */
+export async function finishSignUp(page: Page, email: string): Promise<void> {
+  await page.waitForURL((u) => u.pathname === '/signup/check-email', { timeout: 20_000 });
+  let link: string | undefined;
+  for (let i = 0; i < 80 && !link; i++) {
+    const mail = (await mailTo(email)).find((m) => m.subject === 'Finish creating your Tropopass account');
+    link = mail ? /(https?:\/\/\S+\/api\/auth\/callback\/email\S+)/.exec(mail.text)?.[1] : undefined;
+    if (!link) await new Promise((r) => setTimeout(r, 250));
+  }
+  if (!link) throw new Error(`no confirmation mail for ${email}`);
+  await page.goto(link);
+  await page.waitForURL((u) => !u.pathname.startsWith('/api/auth') && u.pathname !== '/start', { timeout: 20_000 });
+}

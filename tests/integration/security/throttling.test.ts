@@ -9,8 +9,9 @@ import { hashPassword } from '@/lib/auth/password';
 import { limitEmailSend } from '@/lib/auth/throttle';
 import { authOptions } from '@/lib/auth/options';
 import { AppError } from '@/lib/errors';
+import { db } from '@/db/client';
 
-useTestDatabase({ RATE_LIMIT_SIGNIN_PER_15MIN: '3', RATE_LIMIT_API_PER_MIN: '25', RATE_LIMIT_PREVIEW_PER_MIN: '4', RATE_LIMIT_EMAIL_PER_HOUR: '2' });
+useTestDatabase({ TRUSTED_PROXY_HOPS: '1', RATE_LIMIT_SIGNIN_PER_15MIN: '3', RATE_LIMIT_API_PER_MIN: '25', RATE_LIMIT_PREVIEW_PER_MIN: '4', RATE_LIMIT_EMAIL_PER_HOUR: '2' });
 
 const PASSWORD = 'correct horse battery';
 
@@ -54,6 +55,15 @@ describe('sign-in throttling', () => {
     const r = await attemptSignIn(email, PASSWORD, ip);
     expect(r.ok ? '' : r.message).toMatch(/Too many failed sign-ins/);
     expect(await attemptSignIn(email, PASSWORD, '10.3.0.2')).toEqual({ ok: true });
+  });
+});
+
+describe('client address behind one trusted proxy', () => {
+  it('is the address the proxy appended, not one the client wrote into X-Forwarded-For', async () => {
+    const email = await account('spoofer');
+    expect((await attemptSignIn(email, 'wrong', '6.6.6.6, 10.9.0.1')).ok).toBe(false);
+    const row = await db()('audit_log').where({ actor: email, action: 'signin.failed' }).first();
+    expect(row.ip).toBe('10.9.0.1');
   });
 });
 

@@ -1,12 +1,29 @@
-import { requireMember } from '@/lib/auth/guards';
+import { forbidden, notFound, redirect } from 'next/navigation';
+import { detailItemExists } from '@/db/item-exists';
+import { requestedPath, requireMember } from '@/lib/auth/guards';
+import { workspaceLanding, workspacePageOf } from '@/lib/auth/landing';
+import { can } from '@/lib/auth/policy';
 import { listWorkspacesForUser } from '@/db/workspaces';
 import { TopBar } from '@/components/shell/top-bar';
 import { WorkspaceNav } from '@/components/shell/workspace-nav';
 import { WorkspaceSwitcher } from '@/components/shell/workspace-switcher';
+import { RoleNotice } from '@/components/shell/role-notice';
+import { Suspense } from 'react';
 
 export default async function WorkspaceLayout({ children, params }: { children: React.ReactNode; params: Promise<{ workspace: string }> }) {
   const { workspace: slug } = await params;
-  const { user, role } = await requireMember(slug);
+  const { user, role, workspace } = await requireMember(slug);
+  // Checked here as well as in each page: pages with a loading screen stream inside it, and a refusal
+  // raised there would already have answered 200. The layout is part of the first flush, so this is a 403.
+  const asked = await requestedPath();
+  const page = asked ? workspacePageOf(asked) : null;
+  if (page?.permission && page.slug === slug && !can(role, page.permission)) {
+    const landing = workspaceLanding(slug, role);
+    if (asked?.split(/[?#]/)[0].replace(/\/+$/, '') === `/w/${slug}` && landing !== `/w/${slug}`) redirect(landing);
+    forbidden();
+  }
+  // Likewise a detail page whose item is not in this workspace: a 404 before anything streams.
+  if (asked && (await detailItemExists({ workspaceId: workspace.id }, asked.split(/[?#]/)[0])) === false) notFound();
   const memberships = await listWorkspacesForUser({ userId: user.id });
   return (
     <div className="min-h-screen">
@@ -18,6 +35,9 @@ export default async function WorkspaceLayout({ children, params }: { children: 
           <WorkspaceNav slug={slug} role={role} />
         </aside>
         <main id="main" className="min-w-0 flex-1">
+          <Suspense fallback={null}>
+            <RoleNotice role={role} />
+          </Suspense>
           {children}
         </main>
       </div>

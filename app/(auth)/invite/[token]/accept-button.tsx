@@ -1,28 +1,20 @@
 'use client';
 
-import { useState, useTransition } from 'react';
+import { useActionState } from 'react';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
-import { acceptInvitationAction } from './actions';
+import type { ActionState } from '@/lib/errors';
+import { acceptInvitationFormAction } from './actions';
 
 export function AcceptInvitationButton({ token }: { token: string }) {
-  const [pending, start] = useTransition();
-  const [message, setMessage] = useState<string>();
+  const [state, action, pending] = useActionState<ActionState, FormData>(acceptInvitationFormAction, null);
   return (
-    <div className="space-y-3">
-      {message ? <Notice tone="danger" role="alert">{message}</Notice> : null}
-      <Button
-        disabled={pending}
-        onClick={() =>
-          start(async () => {
-            const state = await acceptInvitationAction(token);
-            if (state?.ok && state.data) window.location.assign(state.data.next);
-            else if (state && !state.ok) setMessage(state.error.message);
-          })
-        }
-      >
+    <form action={action} className="space-y-3">
+      {state && !state.ok ? <Notice tone="danger" role="alert">{state.error.message}</Notice> : null}
+      <input type="hidden" name="token" value={token} />
+      <Button type="submit" disabled={pending}>
         Accept and open the workspace
       </Button>
-    </div>
+    </form>
   );
 }

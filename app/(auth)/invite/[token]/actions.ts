@@ -1,15 +1,22 @@
 'use server';
 
+import { redirect } from 'next/navigation';
 import { requireActionUser } from '@/lib/auth/guards';
 import { acceptInvitation } from '@/db/workspaces';
-import { toActionState, type ActionState } from '@/lib/errors';
+import { badRequest, toActionState, type ActionState } from '@/lib/errors';
+import { formText } from '@/lib/validation/action-input';
 
-export async function acceptInvitationAction(token: string): Promise<ActionState<{ next: string }>> {
+/** Accepts the invitation, posted as an ordinary form (token in the body): works before the page's script has loaded. */
+export async function acceptInvitationFormAction(_prev: ActionState, form: FormData | unknown): Promise<ActionState> {
+  const token = formText(form, 'token');
+  let next: string;
   try {
     const user = await requireActionUser();
-    const ws = await acceptInvitation({ token: String(token), userId: user.id, email: user.email });
-    return { ok: true, data: { next: `/w/${ws.slug}` } };
+    if (!token) throw badRequest('The invitation link is incomplete. Open it again from the e-mail.');
+    const ws = await acceptInvitation({ token, userId: user.id, email: user.email });
+    next = `/w/${ws.slug}`;
   } catch (err) {
     return toActionState(err);
   }
+  redirect(next);
 }

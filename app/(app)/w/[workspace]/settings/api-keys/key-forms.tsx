@@ -1,32 +1,19 @@
 'use client';
 
-import { useState, useTransition } from 'react';
-import { useForm } from 'react-hook-form';
-import { zodResolver } from '@hookform/resolvers/zod';
-import { apiKeyCreateSchema, type ApiKeyCreateInput } from '@/lib/validation/workspaces';
+import { useActionState, useTransition } from 'react';
+import type { ActionState } from '@/lib/errors';
 import { API_KEY_ROLES, ROLE_LABELS } from '@/lib/auth/policy';
 import { Field, SelectInput, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
-import { applyServerErrors } from '@/components/ui/server-errors';
-import { createApiKeyAction, revokeApiKeyAction } from './actions';
+import { createApiKeyFormAction, revokeApiKeyAction } from './actions';
 
+/** Posted as an ordinary form (a server action): works before the script loads, and the key never reaches a URL. */
 export function CreateKeyForm({ slug }: { slug: string }) {
-  const [created, setCreated] = useState<{ key: string; name: string }>();
-  const [message, setMessage] = useState<string>();
-  const form = useForm<{ name: string; role?: ApiKeyCreateInput['role'] }, unknown, ApiKeyCreateInput>({
-    resolver: zodResolver(apiKeyCreateSchema),
-    defaultValues: { name: '', role: 'planner' },
-  });
-  const { errors, isSubmitting } = form.formState;
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage(undefined);
-    const state = await createApiKeyAction(slug, values);
-    if (state?.ok && state.data) {
-      setCreated(state.data);
-      form.reset({ name: '', role: values.role });
-    } else setMessage(applyServerErrors(state, form.setError, ['name', 'role']));
-  });
+  const [state, action, pending] = useActionState<ActionState<{ key: string; name: string }>, FormData>(createApiKeyFormAction, null);
+  const created = state?.ok ? state.data : undefined;
+  const fieldError = (p: string) => (state && !state.ok ? state.error.fields?.find((f) => f.path === p)?.message : undefined);
+  const message = state && !state.ok && !state.error.fields?.length ? state.error.message : undefined;
   return (
     <div className="space-y-4">
       {created ? (
@@ -38,12 +25,13 @@ export function CreateKeyForm({ slug }: { slug: string }) {
         </Notice>
       ) : null}
       {message ? <Notice tone="danger" role="alert">{message}</Notice> : null}
-      <form onSubmit={onSubmit} noValidate className="space-y-4">
-        <Field id="key-name" label="Name" hint="What will use it, e.g. “dispatch system”." error={errors.name?.message}>
-          <TextInput id="key-name" invalid={!!errors.name} {...form.register('name')} />
+      <form action={action} noValidate className="space-y-4" key={created?.key ?? 'form'}>
+        <input type="hidden" name="slug" value={slug} />
+        <Field id="key-name" label="Name" hint="What will use it, e.g. “dispatch system”." error={fieldError('name')}>
+          <TextInput id="key-name" name="name" required maxLength={80} invalid={!!fieldError('name')} />
         </Field>
-        <Field id="key-role" label="Role" error={errors.role?.message}>
-          <SelectInput id="key-role" {...form.register('role')}>
+        <Field id="key-role" label="Role" error={fieldError('role')}>
+          <SelectInput id="key-role" name="role" defaultValue="planner">
             {API_KEY_ROLES.map((r) => (
               <option key={r} value={r}>
                 {ROLE_LABELS[r]}
@@ -51,7 +39,7 @@ export function CreateKeyForm({ slug }: { slug: string }) {
             ))}
           </SelectInput>
         </Field>
-        <Button type="submit" disabled={isSubmitting}>
+        <Button type="submit" disabled={pending}>
           Create key
         </Button>
       </form>
