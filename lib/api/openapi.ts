@@ -70,7 +70,14 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
     get: { summary: 'Saved screenings, newest first', permission: 'flights:read', query: { cursor: 'id from nextCursor', limit: '1-200', from: 'YYYY-MM-DD', to: 'YYYY-MM-DD', route: 'text', aircraft: 'type code', minShareAbove: '0-1', maxShareAbove: '0-1' }, responses: { '200': '{ items, nextCursor }' } },
   },
   '/workspaces/{slug}/screenings/{id}': {
-    get: { summary: 'One saved screening', permission: 'flights:read', responses: { '200': '{ id, name, createdAt, input, result }' } },
+    get: { summary: 'One saved screening with the engine version it was made with: engineVersion, currentEngineVersion, outdated, rescreenOf (the screening it re-made), rescreens (newer screenings made from it)', permission: 'flights:read', responses: { '200': '{ id, name, createdAt, engineVersion, currentEngineVersion, outdated, rescreenOf, rescreens, input, result }' } },
+  },
+  '/workspaces/{slug}/screenings/{id}/rescreen': {
+    post: {
+      summary: 'Screen a saved screening again with the current engine version, saved as a new screening pointing at it (rescreenOf). Not billed: no usage unit and no billing gate, since the flight was billed when first screened. One re-screen per screening and engine version: a repeat returns it.',
+      permission: 'screenings:create',
+      responses: { '201': 'The new screening { id, name, createdAt, engineVersion, rescreenOf, input, result }', '200': 'The re-screen already made with this engine version', '409': 'The screening is already on the current engine version', '422': 'The saved input is not accepted by the current engine (fields named)' },
+    },
   },
   '/workspaces/{slug}/screenings/{id}/export': {
     get: { summary: 'One saved screening as a download: CSV (headline figures, then one row per segment) or JSON { id, name, createdAt, input, result }', permission: 'flights:read', query: { format: 'csv (default) or json' }, responses: { '200': 'Attachment (text/csv or application/json)' } },
@@ -88,8 +95,15 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
     get: { summary: 'Imports, newest first, with their progress', permission: 'flights:read', query: { cursor: 'id from nextCursor', limit: '1-100' }, responses: { '200': '{ items, nextCursor }' } },
   },
   '/workspaces/{slug}/imports/{id}': {
-    get: { summary: 'One import: status (queued, screening, complete, failed), rows, rowsDone, rowsPerSecond, secondsLeft, problems, failureReason', permission: 'flights:read', responses: { '200': 'The import' } },
+    get: { summary: 'One import: status (queued, screening, complete, failed), rows, rowsDone, rowsPerSecond, secondsLeft, problems, failureReason, engineVersions (flights per engine version), rescreen (progress of a re-screen with a newer engine, or null)', permission: 'flights:read', responses: { '200': 'The import' } },
     delete: { summary: 'Delete an import and its flights; units already billed for screened flights stay billed', permission: 'imports:delete', responses: { '200': '{ id, fileName, flightsDeleted, billedUnitsKept, message }' } },
+  },
+  '/workspaces/{slug}/imports/{id}/rescreen': {
+    post: {
+      summary: "Screen the import's flights again with the current engine version, in the background. Not billed: no usage unit and no billing gate, since each flight was billed when first screened. Progress is the import's rescreen { status: queued | running | complete, engineVersion, rows, rowsDone, rowsFailed }; a flight the current engine cannot screen keeps its earlier figures and version. Asking again while one runs returns it.",
+      permission: 'imports:create',
+      responses: { '202': 'The import with its rescreen progress and engineVersions', '409': 'The import is still screening, or every flight is already on the current engine version' },
+    },
   },
   '/workspaces/{slug}/imports/template': {
     get: { summary: 'A schedule CSV template with example rows using this workspace\'s aircraft types and fleets', permission: 'flights:read', responses: { '200': 'text/csv' } },

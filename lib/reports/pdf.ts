@@ -1,7 +1,7 @@
 import { PDFDocument, StandardFonts, degrees, rgb, type PDFFont, type PDFPage, type RGB } from 'pdf-lib';
 import type { UnitSystem } from '@/db/users';
 import { formatDistance, formatMass, formatMassRange, formatNumber, formatPercent } from '@/lib/format';
-import { FLEET_COLOURS, massAxisUnit, monthLabel, niceTicks } from '@/lib/fleets/units';
+import { FLEET_COLOURS, engineVersionsText, massAxisUnit, monthLabel, niceTicks } from '@/lib/fleets/units';
 import type { CompareRow, FleetContextRow } from '@/lib/fleets/types';
 import type { ReportSummary } from './model';
 import { toWinAnsi } from './text';
@@ -396,7 +396,14 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
     ['Fleets', s.fleets.map((f) => f.name).join(', ') || '-'],
     ['Built', `${s.generatedAt.slice(0, 16).replace('T', ' ')} UTC by ${s.generatedBy}`],
     ['Units', units === 'imperial' ? 'pounds, nautical miles (aviation units)' : 'kilograms and tonnes, kilometres (metric)'],
-    ['Engine version', s.engineVersions.length ? s.engineVersions.join(', ') : '-'],
+    [
+      s.engineVersions.length > 1 ? 'Engine versions' : 'Engine version',
+      s.engineVersionFlights?.length
+        ? `${engineVersionsText(s.engineVersionFlights)}${s.engineVersionFlights.length > 1 ? ' - mixed, see the caution below' : ''}`
+        : s.engineVersions.length
+          ? s.engineVersions.join(', ')
+          : '-',
+    ],
   ];
   for (const [k, v] of meta) {
     const lines = w.wrap(v, 9, CONTENT_W - 90);

@@ -4,6 +4,7 @@ import {
   compareValidated,
   screenValidated,
   ScreeningInputError,
+  ENGINE_VERSION,
   validateScreeningInput,
   validateCompareOptions,
   type CruiseLevelRow,
@@ -11,7 +12,8 @@ import {
   type ScreeningResult,
 } from '@/lib/screening';
 import { getAircraftForScreening } from '@/db/aircraft-lookup';
-import { badRequest, invalidFields, type FieldProblem } from '@/lib/errors';
+import { createScreening, getScreening, type ScreeningRecord } from '@/db/screenings';
+import { AppError, badRequest, conflict, invalidFields, type FieldProblem } from '@/lib/errors';
 
 /** Fields a saved screening carries beside the engine input (the input plus an optional name). */
 const extrasSchema = z.object({
@@ -89,4 +91,52 @@ export function runWhatIf(input: ScreeningInput, whatIf: unknown, planned?: Scre
     }
     throw err;
   }
+}
+
+/**
+ * Screens a saved screening's input again with the current engine and saves it as a new screening
+ * that points at the old one. Not billed: the flight was billed once, when first screened. A second
+ * request for the same screening and engine returns the re-screen already made (`replayed`).
+ */
+export async function rescreenScreening(
+  scope: { workspaceId: number },
+  id: number,
+  actor: { userId: number | null; apiKeyId: number | null },
+): Promise<{ record: ScreeningRecord; replayed: boolean }> {
+  const source = await getScreening(scope, id);
+  if (source.engineVersion === ENGINE_VERSION) {
+    throw conflict(`Screening #${source.id} was made with the current engine version (${ENGINE_VERSION}); there is nothing to screen again.`);
+  }
+  let input: ScreeningInput;
+  try {
+    input = validateScreeningInput(source.input);
+  } catch (err) {
+    if (err instanceof ScreeningInputError) {
+      throw new AppError('invalid_fields', `The input saved with screening #${source.id} is not accepted by engine version ${ENGINE_VERSION}; screen the flight again from the form.`, { fields: err.fields });
+    }
+    throw err;
+  }
+  const result = screenValidated(input);
+  const create = () =>
+    createScreening(scope, {
+      name: source.name,
+      aircraftCode: source.aircraftCode,
+      screening: input,
+      result,
+      createdBy: actor.userId,
+      apiKeyId: actor.apiKeyId,
+      rescreenOf: source.id,
+    });
+  try {
+    return await create();
+  } catch (err) {
+    // Two requests at once: the unique (rescreen_of, engine_version) lets one insert; the other reads it.
+    if (isUniqueViolation(err)) return create();
+    throw err;
+  }
+}
+
+function isUniqueViolation(err: unknown): boolean {
+  const e = err as { code?: string; message?: string };
+  return e?.code === 'SQLITE_CONSTRAINT_UNIQUE' || e?.code === '23505' || /UNIQUE constraint failed/.test(e?.message ?? '');
 }
