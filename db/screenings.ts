@@ -4,7 +4,7 @@ import { recordUsage } from './usage';
 import { assertBillingAllows } from '@/lib/billing/gate';
 import type { ScreeningInput } from '@/lib/validation/screening';
 import type { ScreeningResult } from '@/lib/screening';
-import { notFound } from '@/lib/errors';
+import { AppError, notFound } from '@/lib/errors';
 
 export interface ScreeningSummary {
   id: number;
@@ -93,6 +93,8 @@ export async function createScreening(
     createdBy: number | null;
     apiKeyId: number | null;
     idempotencyKey?: string | null;
+    /** Fingerprint of the request body the key came with; a repeat of the key with another body is a 409. */
+    idempotencyFingerprint?: string | null;
     /** Set for a re-screen: the older screening this one re-makes. Such a screening is not billed. */
     rescreenOf?: number | null;
   },
@@ -100,7 +102,16 @@ export async function createScreening(
   return writeTx(async (trx) => {
     if (input.idempotencyKey) {
       const prior = await trx('screenings').where({ workspace_id: scope.workspaceId, idempotency_key: input.idempotencyKey }).first();
-      if (prior) return { record: recordOf(prior), replayed: true };
+      if (prior) {
+        const fp = prior.idempotency_fingerprint as string | null;
+        if (fp && input.idempotencyFingerprint && fp !== input.idempotencyFingerprint) {
+          throw new AppError('conflict', `The Idempotency-Key "${input.idempotencyKey}" was already used with a different request body (screening #${prior.id}). Send the same body to get that screening again, or use a new key for a new screening.`, {
+            fields: [{ path: 'Idempotency-Key', message: `Already used with a different body for screening #${prior.id}.` }],
+            extra: { idempotencyKey: input.idempotencyKey, screeningId: Number(prior.id) },
+          });
+        }
+        return { record: recordOf(prior), replayed: true };
+      }
     }
     const rescreenOf = input.rescreenOf ?? null;
     if (rescreenOf !== null) {
@@ -120,6 +131,7 @@ export async function createScreening(
           created_by: input.createdBy,
           api_key_id: input.apiKeyId,
           idempotency_key: input.idempotencyKey ?? null,
+          idempotency_fingerprint: input.idempotencyKey ? (input.idempotencyFingerprint ?? null) : null,
           rescreen_of: rescreenOf,
           input_json: JSON.stringify(input.screening),
           result_json: JSON.stringify(r),

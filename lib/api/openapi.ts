@@ -62,10 +62,10 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   },
   '/workspaces/{slug}/screenings': {
     post: {
-      summary: 'Screen and save one flight (one billable unit). Body: the screenFlight input plus optional name and aircraft (a type code of the workspace that supplies emission and Mach when absent). Idempotency-Key header supported.',
+      summary: 'Screen and save one flight (one billable unit). Body: the screenFlight input plus optional name and aircraft (a type code of the workspace that supplies emission and Mach when absent). Idempotency-Key header: a repeat with the same key and the same body (key order aside) returns the first screening and adds no unit; the same key with a different body is refused.',
       permission: 'screenings:create',
       requestBody: screeningInputSchema,
-      responses: { '201': '{ id, name, createdAt, input, result }', '200': 'Idempotent replay of the first result', '402': 'Billing blocks new screenings' },
+      responses: { '201': '{ id, name, createdAt, input, result }', '200': 'Idempotent replay of the first result', '402': 'Billing blocks new screenings', '409': 'The Idempotency-Key was already used with a different body (the error names the key and the screening)' },
     },
     get: { summary: 'Saved screenings, newest first', permission: 'flights:read', query: { cursor: 'id from nextCursor', limit: '1-200', from: 'YYYY-MM-DD', to: 'YYYY-MM-DD', route: 'text', aircraft: 'type code', minShareAbove: '0-1', maxShareAbove: '0-1' }, responses: { '200': '{ items, nextCursor }' } },
   },
