@@ -5,6 +5,7 @@ import { FLEET_COLOURS, engineVersionsText, massAxisUnit, monthLabel, niceTicks 
 import type { CompareRow, FleetContextRow } from '@/lib/fleets/types';
 import type { ReportSummary } from './model';
 import { toWinAnsi } from './text';
+import { COUNT_LABELS } from '@/lib/counts';
 
 const PAGE_W = 595.28;
 const PAGE_H = 841.89;
@@ -418,7 +419,7 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
   w.heading('Totals');
   const t = s.totals;
   const totalsRows: string[][] = [
-    ['Flights screened', formatNumber(t.flights)],
+    [COUNT_LABELS.importedFlightsScreened, formatNumber(t.flights)],
     ['Distance flown (cruise track)', formatDistance(t.distanceKm, units)],
     ['Fuel', formatMass(t.fuelKg, units)],
     ['CO2 (3.16 kg per kg fuel, ICAO CORSIA)', formatMass(t.co2Kg, units)],

@@ -5,8 +5,10 @@ import { getMonthSummaries } from '@/db/portfolio';
 import { can, ROLE_LABELS } from '@/lib/auth/policy';
 import { TopBar } from '@/components/shell/top-bar';
 import { Card, EmptyState, PageHeader } from '@/components/ui/card';
-import { formatMass, formatNumber } from '@/lib/format';
+import { formatDate, formatMass, formatNumber } from '@/lib/format';
 import { monthBounds } from '@/lib/clock';
+import { COUNT_LABELS } from '@/lib/counts';
+import { getBillableUnits } from '@/lib/billing/usage-summary';
 import { CreateWorkspaceForm } from './create-workspace-form';
 
 export const metadata = { title: 'Workspaces' };
@@ -14,7 +16,10 @@ export const metadata = { title: 'Workspaces' };
 export default async function WorkspacesPage() {
   const user = await requireUser('/workspaces');
   const memberships = await listWorkspacesForUser({ userId: user.id });
-  const summaries = await getMonthSummaries({ workspaceIds: memberships.map((m) => m.workspace.id) });
+  const [summaries, billable] = await Promise.all([
+    getMonthSummaries({ workspaceIds: memberships.map((m) => m.workspace.id) }),
+    Promise.all(memberships.map(async (m) => [m.workspace.id, can(m.role, 'usage:read') ? await getBillableUnits({ workspaceId: m.workspace.id }) : null] as const)).then((e) => new Map(e)),
+  ]);
   const { from } = monthBounds();
   return (
     <div className="min-h-screen">
@@ -32,9 +37,22 @@ export default async function WorkspacesPage() {
                 <tr>
                   <th className="px-4 py-2">Workspace</th>
                   <th className="px-4 py-2">Your role</th>
-                  <th className="px-4 py-2 text-right">Flights screened</th>
-                  <th className="px-4 py-2 text-right">NOx above tropopause</th>
-                  <th className="px-4 py-2 text-right">Billable units</th>
+                  <th className="px-4 py-2 text-right">
+                    {COUNT_LABELS.savedScreenings}
+                    <div className="font-normal normal-case">saved this month</div>
+                  </th>
+                  <th className="px-4 py-2 text-right">
+                    {COUNT_LABELS.importedFlightsScreened}
+                    <div className="font-normal normal-case">flown this month</div>
+                  </th>
+                  <th className="px-4 py-2 text-right">
+                    NOx above tropopause
+                    <div className="font-normal normal-case">of both, this month</div>
+                  </th>
+                  <th className="px-4 py-2 text-right">
+                    {COUNT_LABELS.billableUnits}
+                    <div className="font-normal normal-case">this billing period</div>
+                  </th>
                 </tr>
               </thead>
               <tbody>
@@ -42,6 +60,7 @@ export default async function WorkspacesPage() {
                   const s = summaries.get(m.workspace.id);
                   const flights = can(m.role, 'flights:read');
                   const usage = can(m.role, 'usage:read');
+                  const b = billable.get(m.workspace.id);
                   return (
                     <tr key={m.workspace.id} className="border-b border-line last:border-0">
                       <td className="px-4 py-2.5">
@@ -51,9 +70,21 @@ export default async function WorkspacesPage() {
                         <div className="text-xs text-ink-faint">{m.workspace.slug}</div>
                       </td>
                       <td className="px-4 py-2.5">{ROLE_LABELS[m.role]}</td>
-                      <td className="figure px-4 py-2.5 text-right">{flights ? formatNumber(s?.flightsScreened ?? 0) : '—'}</td>
+                      <td className="figure px-4 py-2.5 text-right" data-testid="portfolio-saved-screenings">{flights ? formatNumber(s?.savedScreenings ?? 0) : '—'}</td>
+                      <td className="figure px-4 py-2.5 text-right" data-testid="portfolio-imported-flights">{flights ? formatNumber(s?.importedFlightsScreened ?? 0) : '—'}</td>
                       <td className="figure px-4 py-2.5 text-right">{flights ? formatMass(s?.noxAboveKg ?? 0, user.units) : '—'}</td>
-                      <td className="figure px-4 py-2.5 text-right">{usage ? formatNumber(s?.units ?? 0) : '—'}</td>
+                      <td className="figure px-4 py-2.5 text-right" data-testid="portfolio-billable-units">
+                        {usage && b ? (
+                          <>
+                            {formatNumber(b.units)}
+                            <div className="text-xs text-ink-faint">
+                              {formatDate(b.periodStart)} to {formatDate(b.periodEnd)}
+                            </div>
+                          </>
+                        ) : (
+                          '—'
+                        )}
+                      </td>
                     </tr>
                   );
                 })}
