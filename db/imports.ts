@@ -199,7 +199,7 @@ export async function createImport(
   let id = 0;
   try {
     await writeTx(async (trx) => {
-      await assertBillingAllows(scope, trx);
+      await assertBillingAllows(scope, trx, input.flights.length);
       const prior = (await trx('imports').where({ workspace_id: scope.workspaceId, file_hash: input.fileHash }).first()) as Row | undefined;
       if (prior) throw duplicateFile(prior);
       const now = nowIso();

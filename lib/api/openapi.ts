@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { screeningInputSchema, soundingLevelSchema, compareCruiseLevelsOptionsSchema } from '@/lib/validation/screening';
 import { workspaceCreateSchema, apiKeyCreateSchema } from '@/lib/validation/workspaces';
-import { billingEmailSchema, cardChoiceSchema, subscribeSchema, subscriptionUpdateSchema } from '@/lib/validation/billing';
+import { billingEmailSchema, cardChoiceSchema, subscribeSchema, subscriptionUpdateSchema, usageBudgetSchema } from '@/lib/validation/billing';
 import { reportCreateSchema, reportSendSchema } from '@/lib/validation/reports';
 import { fleetCreateSchema, fleetUpdateSchema } from '@/lib/validation/fleets';
 import { aircraftTypeSaveSchema, engineSaveSchema, routeSaveSchema, soundingCreateSchema } from '@/lib/validation/library';
@@ -51,6 +51,15 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
     post: { summary: 'Subscribe from a trial (the rest of the trial stays free) or after a cancellation, with a test card on file', permission: 'billing:manage', requestBody: subscribeSchema, responses: { '201': 'The billing state', '409': 'Already subscribed', '503': 'The payment service did not answer; nothing changed' } },
     patch: { summary: 'Change plan (applies to the whole open period) and/or cancel at period end (true) or resume (false)', permission: 'billing:manage', requestBody: subscriptionUpdateSchema, responses: { '200': 'The billing state', '409': 'No running subscription', '503': 'The payment service did not answer; nothing changed' } },
   },
+  '/workspaces/{slug}/billing/budget': {
+    get: { summary: "The monthly usage budget and this billing period's usage against it: { budgetCents, hardStop, periodStart, periodEnd, units, perFlightCents, usageChargeCents, usedFraction, unitsLeft, freePeriod }", permission: 'billing:read', responses: { '200': 'The budget state' } },
+    put: {
+      summary: 'Set the monthly usage budget (cents of per-flight charges in a billing period; null clears it) and its hard stop. The billing contacts are e-mailed once a period at 80 % and at 100 %; with hardStop, screenings and imports that would pass the budget are refused with 402. A free trial has no budget.',
+      permission: 'billing:manage',
+      requestBody: usageBudgetSchema,
+      responses: { '200': 'The budget state' },
+    },
+  },
   '/workspaces/{slug}/billing/payment-method': {
     put: { summary: 'Put a test card on file for future invoices: "succeeds" or "declined"', permission: 'billing:manage', requestBody: cardChoiceSchema, responses: { '200': 'The billing state', '503': 'The payment service did not answer; nothing changed' } },
   },
@@ -90,7 +99,8 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
       summary: 'Upload a flight-schedule CSV (10 MB, 100 000 rows at most). Every row is checked first: any problem refuses the whole file (nothing saved); otherwise the import is queued and its flights are screened in the background, one billable unit per screened flight.',
       permission: 'imports:create',
       requestBody: { multipart: { file: 'the schedule CSV' } },
-      responses: { '202': '{ id, status: queued, rows, rowsDone, problems (unknown-column warnings, line 1), ... }', '402': 'Billing blocks new screenings', '409': 'The same file (SHA-256) was already imported; names the earlier import', '413': 'Larger than 10 MB or more than 100 000 rows', '422': '{ error, problems: { line, column, message }[], problemCount }' },
+      query: { dryRun: '1: check every row and answer 200 { dryRun, rows, billableUnits, perFlightCents, estimatedChargeCents, freePeriod, budget, warnings } without saving anything (the estimate shown before confirming an import)' },
+      responses: { '200': 'With dryRun=1: the estimate; nothing saved', '202': '{ id, status: queued, rows, rowsDone, problems (unknown-column warnings, line 1), ... }', '402': 'Billing blocks new screenings', '409': 'The same file (SHA-256) was already imported; names the earlier import', '413': 'Larger than 10 MB or more than 100 000 rows', '422': '{ error, problems: { line, column, message }[], problemCount }' },
     },
     get: { summary: 'Imports, newest first, with their progress', permission: 'flights:read', query: { cursor: 'id from nextCursor', limit: '1-100' }, responses: { '200': '{ items, nextCursor }' } },
   },

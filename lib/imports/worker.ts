@@ -17,6 +17,7 @@ import {
   type ScreenedOutcome,
 } from '@/db/imports';
 import { log } from '@/lib/log';
+import { checkBudgetAlerts } from '@/lib/billing/budget';
 
 /**
  * The background screening of imported flights, in the server process. It polls for imports that
@@ -104,6 +105,7 @@ async function processImport(importId: number, opts: RunOptions): Promise<number
     const outcomes = screenChunk(pending);
     const saved = await saveScreenedChunk(importId, outcomes);
     flights += saved;
+    await checkBudgetAlerts({ workspaceId: pending[0].workspaceId });
     state().errors.delete(importId);
     await opts.onChunk?.({ importId, saved });
     await yieldToEventLoop();

@@ -6,7 +6,9 @@ import { fromZod, toActionState, type ActionState } from '@/lib/errors';
 import { changePlan, payOpenInvoices, setCancelAtPeriodEnd, setPaymentCard, subscribeWorkspace, updateBillingEmail } from '@/lib/billing/service';
 import { PLANS } from '@/lib/billing/plans';
 import { TEST_CARDS } from '@/lib/billing/cards';
-import { billingEmailSchema, cardChoiceSchema, planChoiceSchema, subscribeSchema } from '@/lib/validation/billing';
+import { billingEmailSchema, cardChoiceSchema, planChoiceSchema, subscribeSchema, usageBudgetSchema } from '@/lib/validation/billing';
+import { setUsageBudget } from '@/lib/billing/budget';
+import { formatUsd } from '@/lib/billing/plans';
 import { z } from 'zod';
 
 const page = (slug: string) => `/w/${slug}/settings/billing`;
@@ -98,6 +100,26 @@ export async function updateBillingEmailAction(slug: string, raw: unknown): Prom
     await updateBillingEmail(ctx.workspace, actor, email);
     revalidatePath(page(slug));
     return { ok: true, message: email ? `Billing e-mail set to ${email}.` : 'Billing e-mail cleared; owners and finance admins still hear about payment problems.' };
+  } catch (err) {
+    return toActionState(err);
+  }
+}
+
+/** Sets or clears the monthly usage budget and its hard stop. */
+export async function setUsageBudgetAction(slug: string, raw: unknown): Promise<ActionState> {
+  try {
+    const ctx = await requireActionMember(slug, 'billing:manage');
+    const parsed = usageBudgetSchema.safeParse(raw);
+    if (!parsed.success) throw fromZod(parsed.error);
+    const s = await setUsageBudget({ workspaceId: ctx.workspace.id }, actorOf(ctx), parsed.data);
+    revalidatePath(page(slug));
+    return {
+      ok: true,
+      message:
+        s.budgetCents === null
+          ? 'Usage budget cleared.'
+          : `Usage budget set to ${formatUsd(s.budgetCents)} a billing period${s.hardStop ? ', with a hard stop' : ''}. Alerts go to the billing contacts at 80 % and 100 %.`,
+    };
   } catch (err) {
     return toActionState(err);
   }
