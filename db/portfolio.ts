@@ -115,3 +115,58 @@ export async function countImportedFlightsScreened(scope: { workspaceId: number 
   const r = (await db()('flights').where({ workspace_id: scope.workspaceId, status: 'screened' }).count({ n: '*' }).first()) as { n: number | string } | undefined;
   return Number(r?.n ?? 0);
 }
+
+export interface ClientStatus {
+  workspaceId: number;
+  /** Last six calendar months, oldest first: NOx above the tropopause and its share of all NOx. */
+  trend: { month: string; noxAboveKg: number; shareAbove: number | null }[];
+  imports: { running: number; failed: number };
+  lastReportSent: { at: string; reportId: number; reportName: string; recipients: number } | null;
+}
+
+/** What a consultant manages clients by, for workspaces whose flight data the caller may read. */
+export async function getClientStatuses(scope: { workspaceIds: number[] }): Promise<Map<number, ClientStatus>> {
+  const out = new Map<number, ClientStatus>();
+  if (!scope.workspaceIds.length) return out;
+  const k = db();
+  const [trends, imports, sends] = await Promise.all([
+    Promise.all(scope.workspaceIds.map(async (id) => [id, await getMonthlyTrend({ workspaceId: id }, 6)] as const)),
+    k('imports').whereIn('workspace_id', scope.workspaceIds).whereIn('status', ['queued', 'screening', 'failed']).groupBy('workspace_id', 'status').select('workspace_id', 'status').count({ n: '*' }),
+    k('report_sends as s')
+      .join('reports as r', 'r.id', 's.report_id')
+      .whereIn('r.workspace_id', scope.workspaceIds)
+      .where('s.status', 'sent')
+      .orderBy('s.sent_at', 'desc')
+      .orderBy('s.id', 'desc')
+      .select('r.workspace_id', 'r.id as report_id', 'r.name', 's.sent_at', 's.recipients'),
+  ]);
+  for (const [id, trend] of trends) {
+    out.set(id, {
+      workspaceId: id,
+      trend: trend.map((t) => ({ month: t.month, noxAboveKg: t.noxAboveKg, shareAbove: t.noxTotalKg > 0 ? t.noxAboveKg / t.noxTotalKg : null })),
+      imports: { running: 0, failed: 0 },
+      lastReportSent: null,
+    });
+  }
+  for (const r of imports as { workspace_id: number; status: string; n: number | string }[]) {
+    const s = out.get(Number(r.workspace_id));
+    if (!s) continue;
+    if (r.status === 'failed') s.imports.failed += Number(r.n);
+    else s.imports.running += Number(r.n);
+  }
+  for (const r of sends as { workspace_id: number; report_id: number; name: string; sent_at: string; recipients: string }[]) {
+    const s = out.get(Number(r.workspace_id));
+    if (!s || s.lastReportSent) continue;
+    s.lastReportSent = { at: String(r.sent_at), reportId: Number(r.report_id), reportName: String(r.name), recipients: recipientCount(r.recipients) };
+  }
+  return out;
+}
+
+function recipientCount(json: string): number {
+  try {
+    const list: unknown = JSON.parse(json);
+    return Array.isArray(list) ? list.length : 0;
+  } catch {
+    return 0;
+  }
+}
