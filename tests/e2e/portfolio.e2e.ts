@@ -14,7 +14,7 @@ describe("the consultant's portfolio", () => {
 
     // Billable units here are the billing page's figure for the same workspace.
     const row = page.locator('tr').filter({ hasText: 'skarn-polar' });
-    const units = ((await row.getByTestId('portfolio-billable-units').textContent()) ?? '').split(/\s/)[0];
+    const units = (await row.getByTestId('portfolio-billable-units-count').textContent()) ?? '';
     const usage = await page.request.get('/api/v1/workspaces/skarn-polar/usage');
     expect(usage.status()).toBe(200);
     expect(units.replace(/[^\d]/g, '')).toBe(String(((await usage.json()) as { units: number }).units));

@@ -83,7 +83,7 @@ export default async function WorkspacesPage() {
                       <td className="figure px-4 py-2.5 text-right" data-testid="portfolio-billable-units">
                         {usage && b ? (
                           <>
-                            {formatNumber(b.units)}
+                            <span data-testid="portfolio-billable-units-count">{formatNumber(b.units)}</span>
                             <div className="text-xs text-ink-faint">
                               {formatDate(b.periodStart)} to {formatDate(b.periodEnd)}
                             </div>

@@ -258,7 +258,10 @@ export function createSubscription(ctx: ApiContext, params: Params): FakeSubscri
   ctx.store.insert('subscription', sub, {});
   ctx.emit('customer.subscription.created', sub);
   if (backdate !== undefined) {
+    const before = clone(sub);
     closePeriodInPlace(ctx, sub, false, backdate);
+    // The created event carries the backdated period; this one the current period it rolled into.
+    ctx.emit('customer.subscription.updated', sub, previousAttributes(before, sub));
     return requireSubscription(ctx, id);
   }
   return sub;
