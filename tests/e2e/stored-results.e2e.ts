@@ -24,6 +24,10 @@ describe('a screening made with an older engine version', () => {
       const units = () => (sqlite.prepare('SELECT count(*) AS n FROM usage_events WHERE kind = ? AND source_id IN (SELECT id FROM screenings WHERE id = ? OR rescreen_of = ?)').get('screening', id, id) as { n: number }).n;
       expect(units()).toBe(1);
 
+      await page.goto('/w/skarn-polar/screenings');
+      const listed = page.locator('tr').filter({ has: page.locator(`a[href="/w/skarn-polar/screenings/${id}"]`) });
+      expect(await listed.getByTestId('older-engine-version').textContent()).toBe(`engine ${OLD} (older)`);
+
       await page.goto(`/w/skarn-polar/screenings/${id}`);
       const notice = page.getByTestId('engine-version-notice');
       await notice.waitFor();

@@ -17,6 +17,7 @@ import { FilterActions } from '@/components/ui/filter-actions';
 import Link from 'next/link';
 import { countImportedFlightsScreened } from '@/db/portfolio';
 import { COUNT_LABELS } from '@/lib/counts';
+import { ENGINE_VERSION } from '@/lib/screening';
 import { formatNumber } from '@/lib/format';
 
 export const metadata = { title: 'Screenings' };
@@ -188,6 +189,7 @@ async function HistoryResults({
     distanceKm: s.distanceKm,
     noxAboveTropopauseKg: s.noxAboveTropopauseKg,
     fractionAboveTropopause: s.fractionAboveTropopause,
+    olderEngineVersion: s.engineVersion !== ENGINE_VERSION ? s.engineVersion : null,
     ozoneCentralKg: s.ozoneLoss.centralKg,
   }));
 
