@@ -35,6 +35,10 @@ export interface BillingDto {
   meteredSince: string | null;
   paymentFailedAt: string | null;
   reconciliation: ReconciliationDto | null;
+  /** Monthly usage budget: per-flight charges of a billing period, in cents; null when none is set. */
+  usageBudgetCents: number | null;
+  /** Whether reaching the budget refuses new billable work (402). */
+  budgetHardStop: boolean;
   updatedAt: string;
 }
 
@@ -74,6 +78,8 @@ function toDto(r: Row): BillingDto {
             checkedAt,
           }
         : null,
+    usageBudgetCents: r.usage_budget_cents === null || r.usage_budget_cents === undefined ? null : Number(r.usage_budget_cents),
+    budgetHardStop: Boolean(r.budget_hard_stop),
     updatedAt: String(r.updated_at),
   };
 }
@@ -133,6 +139,8 @@ export interface BillingPatch {
   paymentMethodLabel?: string | null;
   meteredSince?: string | null;
   paymentFailedAt?: string | null;
+  usageBudgetCents?: number | null;
+  budgetHardStop?: boolean;
 }
 
 const COLUMNS: Record<keyof BillingPatch, string> = {
@@ -148,7 +156,22 @@ const COLUMNS: Record<keyof BillingPatch, string> = {
   paymentMethodLabel: 'payment_method_label',
   meteredSince: 'metered_since',
   paymentFailedAt: 'payment_failed_at',
+  usageBudgetCents: 'usage_budget_cents',
+  budgetHardStop: 'budget_hard_stop',
 };
+
+/**
+ * Marks a budget alert as sent for a period, unless it already was: true for the one caller that
+ * gets to send it (a conditional update, so two processes cannot both send).
+ */
+export async function claimBudgetAlert(scope: { workspaceId: number }, threshold: 80 | 100, periodStart: string, trx: Trx = db()): Promise<boolean> {
+  const column = threshold === 80 ? 'budget_alert_80_period' : 'budget_alert_100_period';
+  const n = await trx('workspace_billing')
+    .where({ workspace_id: scope.workspaceId })
+    .where((q) => q.whereNull(column).orWhereNot(column, periodStart))
+    .update({ [column]: periodStart });
+  return n > 0;
+}
 
 export async function updateBilling(scope: { workspaceId: number }, patch: BillingPatch, trx: Trx = db()): Promise<void> {
   const values: Record<string, unknown> = { updated_at: nowIso() };

@@ -278,8 +278,14 @@ export async function listFlownAircraftCodes(scope: { workspaceId: number }): Pr
   return rows.map((r) => String(r.code));
 }
 
-/** Engine versions that screened the flights the filters keep (a report names them). */
-export async function listEngineVersions(scope: { workspaceId: number }, filters: FlightFilters): Promise<string[]> {
-  const rows = (await applyFilters(flightsWithFleet(db(), scope.workspaceId), filters).whereNotNull('fl.engine_version').distinct('fl.engine_version as v').orderBy('v')) as Row[];
-  return rows.map((r) => String(r.v));
+/** How many of the flights the filters keep each engine version screened, oldest version first. */
+export async function countFlightsByEngineVersion(scope: { workspaceId: number }, filters: FlightFilters): Promise<{ engineVersion: string; flights: number }[]> {
+  const rows = (await applyFilters(flightsWithFleet(db(), scope.workspaceId), filters)
+    .whereNotNull('fl.engine_version')
+    .groupBy('fl.engine_version')
+    .orderBy('fl.engine_version')
+    .select('fl.engine_version as v')
+    .count({ n: '*' })) as Row[];
+  return rows.map((r) => ({ engineVersion: String(r.v), flights: Number(r.n) }));
 }
+

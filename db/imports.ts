@@ -29,6 +29,23 @@ export interface ImportDto {
   startedAt: string | null;
   finishedAt: string | null;
   heartbeatAt: string | null;
+  /** Engine versions of this import's screened flights, with how many flights each. */
+  engineVersions: { engineVersion: string; flights: number }[];
+  /** The latest background re-screen of its flights with a newer engine, if one was asked for. */
+  rescreen: RescreenDto | null;
+}
+
+export type RescreenStatus = 'queued' | 'running' | 'complete';
+
+export interface RescreenDto {
+  status: RescreenStatus;
+  engineVersion: string;
+  /** Flights to screen again (those screened with another engine version when it was asked for). */
+  rows: number;
+  rowsDone: number;
+  rowsFailed: number;
+  requestedAt: string;
+  finishedAt: string | null;
 }
 
 type Row = Record<string, unknown>;
@@ -70,7 +87,20 @@ function rate(r: Row): { rowsPerSecond: number | null; secondsLeft: number | nul
   return { rowsPerSecond, secondsLeft: Math.max(0, (Number(r.rows) - Number(r.rows_done)) / rowsPerSecond) };
 }
 
-function toDto(r: Row, counts: { screened: number; failed: number }, problems: ImportProblem[], problemCount: number): ImportDto {
+function rescreenOf(r: Row): RescreenDto | null {
+  if (!r.rescreen_status) return null;
+  return {
+    status: r.rescreen_status as RescreenStatus,
+    engineVersion: String(r.rescreen_engine_version),
+    rows: Number(r.rescreen_rows ?? 0),
+    rowsDone: Number(r.rescreen_rows_done ?? 0),
+    rowsFailed: Number(r.rescreen_rows_failed ?? 0),
+    requestedAt: String(r.rescreen_requested_at),
+    finishedAt: (r.rescreen_finished_at as string | null) ?? null,
+  };
+}
+
+function toDto(r: Row, counts: { screened: number; failed: number }, problems: ImportProblem[], problemCount: number, engineVersions: { engineVersion: string; flights: number }[]): ImportDto {
   return {
     id: Number(r.id),
     fileName: String(r.file_name),
@@ -88,6 +118,8 @@ function toDto(r: Row, counts: { screened: number; failed: number }, problems: I
     startedAt: (r.started_at as string | null) ?? null,
     finishedAt: (r.finished_at as string | null) ?? null,
     heartbeatAt: (r.heartbeat_at as string | null) ?? null,
+    engineVersions,
+    rescreen: rescreenOf(r),
   };
 }
 
@@ -95,11 +127,18 @@ async function describe(rows: Row[]): Promise<ImportDto[]> {
   if (!rows.length) return [];
   const ids = rows.map((r) => Number(r.id));
   const k = db();
-  const [counts, problemCounts, problems] = await Promise.all([
+  const [counts, problemCounts, problems, versions] = await Promise.all([
     k('flights').whereIn('import_id', ids).whereIn('status', ['screened', 'failed']).groupBy('import_id', 'status').select('import_id', 'status').count({ n: '*' }),
     k('import_problems').whereIn('import_id', ids).groupBy('import_id').select('import_id').count({ n: '*' }),
     k('import_problems').whereIn('import_id', ids).orderBy(['import_id', 'line', 'id']).select('import_id', 'line', 'column', 'message'),
+    k('flights').whereIn('import_id', ids).where('status', 'screened').groupBy('import_id', 'engine_version').orderBy(['import_id', 'engine_version']).select('import_id', 'engine_version').count({ n: '*' }),
   ]);
+  const versionsOf = new Map<number, { engineVersion: string; flights: number }[]>();
+  for (const v of versions as Row[]) {
+    const list = versionsOf.get(Number(v.import_id)) ?? [];
+    list.push({ engineVersion: String(v.engine_version), flights: Number(v.n) });
+    versionsOf.set(Number(v.import_id), list);
+  }
   const byImport = new Map<number, { screened: number; failed: number }>();
   for (const c of counts as Row[]) {
     const e = byImport.get(Number(c.import_id)) ?? { screened: 0, failed: 0 };
@@ -114,7 +153,7 @@ async function describe(rows: Row[]): Promise<ImportDto[]> {
     if (list.length < PROBLEMS_SHOWN) list.push({ line: Number(p.line), column: String(p.column), message: String(p.message) });
     listed.set(Number(p.import_id), list);
   }
-  return rows.map((r) => toDto(r, byImport.get(Number(r.id)) ?? { screened: 0, failed: 0 }, listed.get(Number(r.id)) ?? [], problemTotal.get(Number(r.id)) ?? 0));
+  return rows.map((r) => toDto(r, byImport.get(Number(r.id)) ?? { screened: 0, failed: 0 }, listed.get(Number(r.id)) ?? [], problemTotal.get(Number(r.id)) ?? 0, versionsOf.get(Number(r.id)) ?? []));
 }
 
 const importQuery = (k: Knex | Knex.Transaction) => k('imports as i').leftJoin('users as u', 'u.id', 'i.created_by').select('i.*', k.raw('coalesce(u.name, u.email) as created_by_name'));
@@ -160,7 +199,7 @@ export async function createImport(
   let id = 0;
   try {
     await writeTx(async (trx) => {
-      await assertBillingAllows(scope, trx);
+      await assertBillingAllows(scope, trx, input.flights.length);
       const prior = (await trx('imports').where({ workspace_id: scope.workspaceId, file_hash: input.fileHash }).first()) as Row | undefined;
       if (prior) throw duplicateFile(prior);
       const now = nowIso();
@@ -377,4 +416,110 @@ export async function failImport(importId: number, reason: string): Promise<void
   await writeTx((trx) =>
     trx('imports').where('id', importId).whereIn('status', ['queued', 'screening']).update({ status: 'failed', failure_reason: reason.slice(0, 1000), finished_at: now, heartbeat_at: now }),
   );
+}
+
+/* Re-screening an import's flights with a newer engine: asked for by a member, run by the worker. */
+
+/**
+ * Asks for the import's screened flights made with another engine version to be screened again with
+ * `engineVersion`. Not billed and not gated: each flight's unit was recorded when it was first
+ * screened, and the worker's re-screen writes figures only. A re-screen already queued or running
+ * for that version is returned as it is.
+ */
+export async function requestImportRescreen(scope: { workspaceId: number }, id: number, input: { engineVersion: string; requestedBy: number | null; actor: string }): Promise<ImportDto> {
+  await writeTx(async (trx) => {
+    const imp = (await trx('imports').where({ workspace_id: scope.workspaceId, id }).first()) as Row | undefined;
+    if (!imp) throw notFound('No import with that id in this workspace.');
+    if (imp.status === 'queued' || imp.status === 'screening') {
+      throw new AppError('conflict', `Import #${id} is still being screened; its flights can be screened again once it is complete.`);
+    }
+    if ((imp.rescreen_status === 'queued' || imp.rescreen_status === 'running') && imp.rescreen_engine_version === input.engineVersion) return;
+    const stale = (await trx('flights').where({ workspace_id: scope.workspaceId, import_id: id, status: 'screened' }).whereNot('engine_version', input.engineVersion).count({ n: '*' }).first()) as Row | undefined;
+    const rows = Number(stale?.n ?? 0);
+    if (rows === 0) throw new AppError('conflict', `Every screened flight of import #${id} was made with the current engine version (${input.engineVersion}); there is nothing to screen again.`);
+    const now = nowIso();
+    await trx('imports').where({ workspace_id: scope.workspaceId, id }).update({
+      rescreen_status: 'queued',
+      rescreen_engine_version: input.engineVersion,
+      rescreen_rows: rows,
+      rescreen_rows_done: 0,
+      rescreen_rows_failed: 0,
+      rescreen_last_flight_id: 0,
+      rescreen_requested_by: input.requestedBy,
+      rescreen_requested_at: now,
+      rescreen_finished_at: null,
+    });
+    await createAuditEntry({ workspaceId: scope.workspaceId, userId: input.requestedBy, actor: input.actor, action: 'import.rescreen_requested', target: `import:${id}`, detail: { engineVersion: input.engineVersion, flights: rows } }, trx);
+  });
+  return getImport(scope, id);
+}
+
+export interface RescreenJob {
+  importId: number;
+  engineVersion: string;
+  lastFlightId: number;
+}
+
+/** Re-screens queued or left mid-way (a restart resumes them), oldest first. */
+export async function listActiveRescreens(): Promise<RescreenJob[]> {
+  const rows = (await db()('imports').whereIn('rescreen_status', ['queued', 'running']).orderBy('id').select('id', 'rescreen_engine_version', 'rescreen_last_flight_id')) as Row[];
+  return rows.map((r) => ({ importId: Number(r.id), engineVersion: String(r.rescreen_engine_version), lastFlightId: Number(r.rescreen_last_flight_id ?? 0) }));
+}
+
+/** The next screened flights of a re-screen, after its cursor, that are not yet on its engine version. */
+export async function listRescreenFlights(job: RescreenJob, limit: number): Promise<PendingFlight[]> {
+  const rows = (await db()('flights')
+    .where({ import_id: job.importId, status: 'screened' })
+    .where('id', '>', job.lastFlightId)
+    .whereNot('engine_version', job.engineVersion)
+    .orderBy('id')
+    .limit(limit)
+    .select('id', 'workspace_id', 'source_line', 'input_json')) as Row[];
+  return rows.map((r) => ({ id: Number(r.id), workspaceId: Number(r.workspace_id), line: r.source_line === null ? null : Number(r.source_line), inputJson: String(r.input_json) }));
+}
+
+/**
+ * Writes a chunk of re-screened flights: new figures and engine version, no usage unit (the flight
+ * was billed when first screened). A flight the newer engine cannot screen keeps its earlier figures
+ * and version and is counted as failed. The cursor moves past the chunk, so a replay repeats nothing
+ * it has already changed; the update only touches flights not yet on the target version.
+ */
+export async function saveRescreenChunk(job: RescreenJob, outcomes: ScreenedOutcome[]): Promise<{ done: number; failed: number }> {
+  return writeTx(async (trx) => {
+    const now = nowIso();
+    let done = 0;
+    let failed = 0;
+    for (const o of outcomes) {
+      if (!('figures' in o)) {
+        failed += 1;
+        continue;
+      }
+      const f = o.figures;
+      const n = await trx('flights')
+        .where({ id: o.id, import_id: job.importId, status: 'screened' })
+        .whereNot('engine_version', f.engineVersion)
+        .update({
+          distance_km: f.distanceKm,
+          nox_total_kg: f.noxTotalKg,
+          nox_above_kg: f.noxAboveTropopauseKg,
+          fraction_above: f.fractionAboveTropopause,
+          mean_depth_above_km: f.meanDepthAboveTropopauseKm,
+          ozone_central_kg: f.ozoneCentralKg,
+          ozone_low_kg: f.ozoneLowKg,
+          ozone_high_kg: f.ozoneHighKg,
+          engine_version: f.engineVersion,
+          screened_at: now,
+        });
+      done += n;
+    }
+    const last = outcomes.reduce((m, o) => Math.max(m, o.id), job.lastFlightId);
+    await trx('imports')
+      .where('id', job.importId)
+      .update({ rescreen_status: 'running', rescreen_rows_done: trx.raw('rescreen_rows_done + ?', [done]), rescreen_rows_failed: trx.raw('rescreen_rows_failed + ?', [failed]), rescreen_last_flight_id: last });
+    return { done, failed };
+  });
+}
+
+export async function finishRescreen(importId: number): Promise<void> {
+  await writeTx((trx) => trx('imports').where('id', importId).whereIn('rescreen_status', ['queued', 'running']).update({ rescreen_status: 'complete', rescreen_finished_at: nowIso() }));
 }

@@ -4,23 +4,27 @@ import { monthBounds } from '@/lib/clock';
 
 export interface WorkspaceMonthSummary {
   workspaceId: number;
-  flightsScreened: number;
+  /** Screenings saved this calendar month (by the day saved). */
+  savedScreenings: number;
+  /** Imported flights screened whose flight date is in this calendar month. */
+  importedFlightsScreened: number;
+  /** NOx of both of the above. */
   noxAboveKg: number;
   noxTotalKg: number;
-  units: number;
 }
 
 /**
- * This month's figures for a set of workspaces: screened flights (saved screenings plus imported
- * flights screened), their NOx above the tropopause, and billable units in the usage ledger.
+ * This month's figures for a set of workspaces: saved screenings (by the day saved), imported flights
+ * screened (by flight date), and the NOx above the tropopause of both. Billable units are not here:
+ * they count over the billing period, from the usage ledger (lib/billing/usage-summary.ts).
  */
 export async function getMonthSummaries(scope: { workspaceIds: number[] }): Promise<Map<number, WorkspaceMonthSummary>> {
   const out = new Map<number, WorkspaceMonthSummary>();
   if (!scope.workspaceIds.length) return out;
-  for (const id of scope.workspaceIds) out.set(id, { workspaceId: id, flightsScreened: 0, noxAboveKg: 0, noxTotalKg: 0, units: 0 });
+  for (const id of scope.workspaceIds) out.set(id, { workspaceId: id, savedScreenings: 0, importedFlightsScreened: 0, noxAboveKg: 0, noxTotalKg: 0 });
   const { from, to } = monthBounds();
   const k = db();
-  const [flights, screenings, usage] = await Promise.all([
+  const [flights, screenings] = await Promise.all([
     k('flights')
       .whereIn('workspace_id', scope.workspaceIds)
       .where('status', 'screened')
@@ -36,30 +40,26 @@ export async function getMonthSummaries(scope: { workspaceIds: number[] }): Prom
       .select('workspace_id')
       .count({ n: '*' })
       .sum({ above: 'nox_above_kg', total: 'nox_total_kg' }),
-    k('usage_events')
-      .whereIn('workspace_id', scope.workspaceIds)
-      .whereBetween('occurred_at', [from, `${to}T23:59:59.999Z`])
-      .groupBy('workspace_id')
-      .select('workspace_id')
-      .sum({ units: 'quantity' }),
   ]);
-  for (const r of [...flights, ...screenings] as { workspace_id: number; n: number; above: number | null; total: number | null }[]) {
-    const s = out.get(Number(r.workspace_id));
-    if (!s) continue;
-    s.flightsScreened += Number(r.n);
-    s.noxAboveKg += Number(r.above ?? 0);
-    s.noxTotalKg += Number(r.total ?? 0);
-  }
-  for (const r of usage as { workspace_id: number; units: number | null }[]) {
-    const s = out.get(Number(r.workspace_id));
-    if (s) s.units = Number(r.units ?? 0);
-  }
+  type Sum = { workspace_id: number; n: number; above: number | null; total: number | null };
+  const add = (rows: Sum[], field: 'savedScreenings' | 'importedFlightsScreened') => {
+    for (const r of rows) {
+      const s = out.get(Number(r.workspace_id));
+      if (!s) continue;
+      s[field] += Number(r.n);
+      s.noxAboveKg += Number(r.above ?? 0);
+      s.noxTotalKg += Number(r.total ?? 0);
+    }
+  };
+  add(flights as Sum[], 'importedFlightsScreened');
+  add(screenings as Sum[], 'savedScreenings');
   return out;
 }
 
 export interface MonthTrendRow {
   month: string;
-  flights: number;
+  savedScreenings: number;
+  importedFlightsScreened: number;
   noxTotalKg: number;
   noxAboveKg: number;
   ozoneCentralKg: number;
@@ -96,14 +96,77 @@ export async function getMonthlyTrend(scope: { workspaceId: number }, months = 6
       .count({ n: '*' })
       .sum({ total: 'nox_total_kg', above: 'nox_above_kg', ozone: 'ozone_central_kg' }),
   ]);
-  const rows = new Map(keys.map((month) => [month, { month, flights: 0, noxTotalKg: 0, noxAboveKg: 0, ozoneCentralKg: 0 }]));
-  for (const r of [...flights, ...screenings] as { month: string; n: number | string; total: number | null; above: number | null; ozone: number | null }[]) {
+  const rows = new Map<string, MonthTrendRow>(keys.map((month) => [month, { month, savedScreenings: 0, importedFlightsScreened: 0, noxTotalKg: 0, noxAboveKg: 0, ozoneCentralKg: 0 }]));
+  type Sum = { month: string; n: number | string; total: number | null; above: number | null; ozone: number | null };
+  const tagged = [...(flights as Sum[]).map((r) => ({ r, field: 'importedFlightsScreened' as const })), ...(screenings as Sum[]).map((r) => ({ r, field: 'savedScreenings' as const }))];
+  for (const { r, field } of tagged) {
     const row = rows.get(r.month);
     if (!row) continue;
-    row.flights += Number(r.n);
+    row[field] += Number(r.n);
     row.noxTotalKg += Number(r.total ?? 0);
     row.noxAboveKg += Number(r.above ?? 0);
     row.ozoneCentralKg += Number(r.ozone ?? 0);
   }
   return [...rows.values()];
+}
+
+/** All imported flights of a workspace whose screening finished, whatever their date. */
+export async function countImportedFlightsScreened(scope: { workspaceId: number }): Promise<number> {
+  const r = (await db()('flights').where({ workspace_id: scope.workspaceId, status: 'screened' }).count({ n: '*' }).first()) as { n: number | string } | undefined;
+  return Number(r?.n ?? 0);
+}
+
+export interface ClientStatus {
+  workspaceId: number;
+  /** Last six calendar months, oldest first: NOx above the tropopause and its share of all NOx. */
+  trend: { month: string; noxAboveKg: number; shareAbove: number | null }[];
+  imports: { running: number; failed: number };
+  lastReportSent: { at: string; reportId: number; reportName: string; recipients: number } | null;
+}
+
+/** What a consultant manages clients by, for workspaces whose flight data the caller may read. */
+export async function getClientStatuses(scope: { workspaceIds: number[] }): Promise<Map<number, ClientStatus>> {
+  const out = new Map<number, ClientStatus>();
+  if (!scope.workspaceIds.length) return out;
+  const k = db();
+  const [trends, imports, sends] = await Promise.all([
+    Promise.all(scope.workspaceIds.map(async (id) => [id, await getMonthlyTrend({ workspaceId: id }, 6)] as const)),
+    k('imports').whereIn('workspace_id', scope.workspaceIds).whereIn('status', ['queued', 'screening', 'failed']).groupBy('workspace_id', 'status').select('workspace_id', 'status').count({ n: '*' }),
+    k('report_sends as s')
+      .join('reports as r', 'r.id', 's.report_id')
+      .whereIn('r.workspace_id', scope.workspaceIds)
+      .where('s.status', 'sent')
+      .orderBy('s.sent_at', 'desc')
+      .orderBy('s.id', 'desc')
+      .select('r.workspace_id', 'r.id as report_id', 'r.name', 's.sent_at', 's.recipients'),
+  ]);
+  for (const [id, trend] of trends) {
+    out.set(id, {
+      workspaceId: id,
+      trend: trend.map((t) => ({ month: t.month, noxAboveKg: t.noxAboveKg, shareAbove: t.noxTotalKg > 0 ? t.noxAboveKg / t.noxTotalKg : null })),
+      imports: { running: 0, failed: 0 },
+      lastReportSent: null,
+    });
+  }
+  for (const r of imports as { workspace_id: number; status: string; n: number | string }[]) {
+    const s = out.get(Number(r.workspace_id));
+    if (!s) continue;
+    if (r.status === 'failed') s.imports.failed += Number(r.n);
+    else s.imports.running += Number(r.n);
+  }
+  for (const r of sends as { workspace_id: number; report_id: number; name: string; sent_at: string; recipients: string }[]) {
+    const s = out.get(Number(r.workspace_id));
+    if (!s || s.lastReportSent) continue;
+    s.lastReportSent = { at: String(r.sent_at), reportId: Number(r.report_id), reportName: String(r.name), recipients: recipientCount(r.recipients) };
+  }
+  return out;
+}
+
+function recipientCount(json: string): number {
+  try {
+    const list: unknown = JSON.parse(json);
+    return Array.isArray(list) ? list.length : 0;
+  } catch {
+    return 0;
+  }
 }

@@ -4,7 +4,7 @@ import { recordUsage } from './usage';
 import { assertBillingAllows } from '@/lib/billing/gate';
 import type { ScreeningInput } from '@/lib/validation/screening';
 import type { ScreeningResult } from '@/lib/screening';
-import { notFound } from '@/lib/errors';
+import { AppError, notFound } from '@/lib/errors';
 
 export interface ScreeningSummary {
   id: number;
@@ -30,6 +30,10 @@ export interface ScreeningRecord {
   aircraftCode: string | null;
   input: ScreeningInput;
   result: ScreeningResult;
+  /** The engine version the saved figures were made with (the stored column, not today's engine). */
+  engineVersion: string;
+  /** The screening this one re-made with a newer engine, if it is a re-screen. */
+  rescreenOf: number | null;
 }
 
 /** "EGLL → KSFO", or coordinates for points that are not airports. */
@@ -77,6 +81,8 @@ const recordOf = (r: Row): ScreeningRecord => ({
   aircraftCode: (r.aircraft_code as string | null) ?? null,
   input: JSON.parse(String(r.input_json)) as ScreeningInput,
   result: JSON.parse(String(r.result_json)) as ScreeningResult,
+  engineVersion: String(r.engine_version),
+  rescreenOf: r.rescreen_of === null || r.rescreen_of === undefined ? null : Number(r.rescreen_of),
 });
 
 /**
@@ -93,14 +99,33 @@ export async function createScreening(
     createdBy: number | null;
     apiKeyId: number | null;
     idempotencyKey?: string | null;
+    /** Fingerprint of the request body the key came with; a repeat of the key with another body is a 409. */
+    idempotencyFingerprint?: string | null;
+    /** Set for a re-screen: the older screening this one re-makes. Such a screening is not billed. */
+    rescreenOf?: number | null;
   },
 ): Promise<{ record: ScreeningRecord; replayed: boolean }> {
   return writeTx(async (trx) => {
     if (input.idempotencyKey) {
       const prior = await trx('screenings').where({ workspace_id: scope.workspaceId, idempotency_key: input.idempotencyKey }).first();
-      if (prior) return { record: recordOf(prior), replayed: true };
+      if (prior) {
+        const fp = prior.idempotency_fingerprint as string | null;
+        if (fp && input.idempotencyFingerprint && fp !== input.idempotencyFingerprint) {
+          throw new AppError('conflict', `The Idempotency-Key "${input.idempotencyKey}" was already used with a different request body (screening #${prior.id}). Send the same body to get that screening again, or use a new key for a new screening.`, {
+            fields: [{ path: 'Idempotency-Key', message: `Already used with a different body for screening #${prior.id}.` }],
+            extra: { idempotencyKey: input.idempotencyKey, screeningId: Number(prior.id) },
+          });
+        }
+        return { record: recordOf(prior), replayed: true };
+      }
     }
-    await assertBillingAllows(scope, trx);
+    const rescreenOf = input.rescreenOf ?? null;
+    if (rescreenOf !== null) {
+      const prior = await trx('screenings').where({ workspace_id: scope.workspaceId, rescreen_of: rescreenOf, engine_version: input.result.engineVersion }).first();
+      if (prior) return { record: recordOf(prior), replayed: true };
+    } else {
+      await assertBillingAllows(scope, trx);
+    }
     const now = nowIso();
     const label = routeLabel(input.screening);
     const r = input.result;
@@ -112,6 +137,8 @@ export async function createScreening(
           created_by: input.createdBy,
           api_key_id: input.apiKeyId,
           idempotency_key: input.idempotencyKey ?? null,
+          idempotency_fingerprint: input.idempotencyKey ? (input.idempotencyFingerprint ?? null) : null,
+          rescreen_of: rescreenOf,
           input_json: JSON.stringify(input.screening),
           result_json: JSON.stringify(r),
           engine_version: r.engineVersion,
@@ -131,7 +158,10 @@ export async function createScreening(
         })
         .returning('id'),
     );
-    await recordUsage(trx, { workspaceId: scope.workspaceId, kind: 'screening', sourceId: id, occurredAt: now });
+    // A re-screen repeats work already billed once (the source screening's unit): it records no unit
+    // and passes no billing gate. The ledger's (kind, source_id) key could not catch it, since the
+    // re-screen is a new screening id; this branch is what keeps it free.
+    if (rescreenOf === null) await recordUsage(trx, { workspaceId: scope.workspaceId, kind: 'screening', sourceId: id, occurredAt: now });
     const row = await trx('screenings').where({ id }).first();
     return { record: recordOf(row), replayed: false };
   });
@@ -141,6 +171,18 @@ export async function getScreening(scope: { workspaceId: number }, id: number): 
   const row = await db()('screenings').where({ workspace_id: scope.workspaceId, id }).first();
   if (!row) throw notFound('No screening with that id in this workspace.');
   return recordOf(row);
+}
+
+/** Newer screenings made from this one with a later engine, newest first. */
+export async function listRescreensOf(scope: { workspaceId: number }, id: number): Promise<{ id: number; engineVersion: string; createdAt: string }[]> {
+  const rows = (await db()('screenings').where({ workspace_id: scope.workspaceId, rescreen_of: id }).orderBy('id', 'desc').select('id', 'engine_version', 'created_at')) as Row[];
+  return rows.map((r) => ({ id: Number(r.id), engineVersion: String(r.engine_version), createdAt: String(r.created_at) }));
+}
+
+/** How many saved screenings of a workspace were made with each engine version. */
+export async function countScreeningsByEngineVersion(scope: { workspaceId: number }): Promise<{ engineVersion: string; screenings: number }[]> {
+  const rows = (await db()('screenings').where({ workspace_id: scope.workspaceId }).groupBy('engine_version').orderBy('engine_version').select('engine_version').count({ n: '*' })) as Row[];
+  return rows.map((r) => ({ engineVersion: String(r.engine_version), screenings: Number(r.n) }));
 }
 
 export interface ScreeningFilters {

@@ -15,7 +15,7 @@ import {
 import type { UnitSystem } from '@/db/users';
 import type { CompareRow, FleetComparison as Comparison } from '@/lib/fleets/types';
 import { compareQueryObject, compareQueryString } from '@/lib/fleets/url';
-import { monthLabel } from '@/lib/fleets/units';
+import { engineVersionsText, monthLabel } from '@/lib/fleets/units';
 import { fleetCompareQuerySchema, GROUP_BY, type GroupBy } from '@/lib/validation/fleets';
 import { formatDistance, formatMass, formatMassRange, formatNumber, formatPercent } from '@/lib/format';
 import { Button, ButtonLink } from '@/components/ui/button';
@@ -404,6 +404,17 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
             </ul>
           </ScrollRegion>
         )}
+        {data && data.engineVersions.length ? (
+          <div className="mt-4" data-testid="compare-engine-versions">
+            {data.mixedEngineVersions ? (
+              <Notice tone="caution" title="Mixed engine versions">
+                {data.cautions[0]}
+              </Notice>
+            ) : (
+              <p className="text-xs text-ink-soft">Engine version: {engineVersionsText(data.engineVersions)}.</p>
+            )}
+          </div>
+        ) : null}
         <div className="mt-4">
           <ScreeningCaution />
         </div>

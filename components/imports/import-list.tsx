@@ -12,7 +12,8 @@ import { Notice } from '@/components/ui/notice';
 import { ImportProblemsTable } from './problems-table';
 
 const POLL_MS = 1000;
-const isActive = (i: ImportDto | undefined) => i?.status === 'queued' || i?.status === 'screening';
+const isActive = (i: ImportDto | undefined) =>
+  i?.status === 'queued' || i?.status === 'screening' || i?.rescreen?.status === 'queued' || i?.rescreen?.status === 'running';
 
 const STATUS: Record<ImportDto['status'], { label: string; className: string }> = {
   queued: { label: 'Queued', className: 'border-line-strong bg-paper-sunk text-ink-soft' },
@@ -144,7 +145,73 @@ function DeleteImport({ imp, onDelete }: { imp: ImportDto; onDelete: (id: number
   );
 }
 
-function ImportItem({ slug, initial, canDelete, onDelete }: { slug: string; initial: ImportDto; canDelete: boolean; onDelete: (id: number) => Promise<ActionState> }) {
+/** Which engine versions made the flights' figures, and the re-screen with the current one. */
+function EngineVersions({ imp, current, canRescreen, onRescreen }: { imp: ImportDto; current: string; canRescreen: boolean; onRescreen: (id: number) => Promise<ActionState> }) {
+  const [pending, start] = useTransition();
+  const [message, setMessage] = useState<{ ok: boolean; text: string }>();
+  const versions = imp.engineVersions;
+  const stale = versions.filter((v) => v.engineVersion !== current).reduce((n, v) => n + v.flights, 0);
+  const r = imp.rescreen;
+  const running = r && (r.status === 'queued' || r.status === 'running');
+  if (!versions.length && !r) return null;
+  return (
+    <div className="text-xs text-ink-soft" data-testid="import-engine-versions">
+      <p>
+        Engine version{versions.length === 1 ? '' : 's'}: {versions.map((v) => `${v.engineVersion} (${formatNumber(v.flights)} flight${v.flights === 1 ? '' : 's'})`).join(', ')}
+        {stale ? ` · ${formatNumber(stale)} made with an older version than the current ${current}` : ''}
+      </p>
+      {running ? (
+        <p className="mt-1" data-testid="rescreen-progress">
+          Screening again with {r.engineVersion}: {formatNumber(r.rowsDone)} of {formatNumber(r.rows)} flights done{r.status === 'queued' ? ' (waiting for the worker)' : ''}; not billed again.
+        </p>
+      ) : r && r.status === 'complete' ? (
+        <p className="mt-1" data-testid="rescreen-progress">
+          Screened again with {r.engineVersion}: {formatNumber(r.rowsDone)} of {formatNumber(r.rows)} flights
+          {r.rowsFailed ? `; ${formatNumber(r.rowsFailed)} kept their earlier figures (the current engine could not screen them)` : ''}.
+        </p>
+      ) : null}
+      {stale && !running && canRescreen && imp.status === 'complete' ? (
+        <Button
+          variant="secondary"
+          className="mt-2"
+          disabled={pending}
+          onClick={() =>
+            start(async () => {
+              const state = await onRescreen(imp.id);
+              if (state?.ok) setMessage({ ok: true, text: state.message ?? 'Queued.' });
+              else if (state) setMessage({ ok: false, text: state.error.message });
+            })
+          }
+        >
+          {pending ? 'Queuing…' : `Screen ${formatNumber(stale)} flights again with ${current}`}
+        </Button>
+      ) : null}
+      {message ? (
+        <p role={message.ok ? 'status' : 'alert'} className={`mt-1 ${message.ok ? 'text-ink' : 'text-danger'}`}>
+          {message.text}
+        </p>
+      ) : null}
+    </div>
+  );
+}
+
+function ImportItem({
+  slug,
+  initial,
+  canDelete,
+  onDelete,
+  canRescreen,
+  onRescreen,
+  currentEngineVersion,
+}: {
+  slug: string;
+  initial: ImportDto;
+  canDelete: boolean;
+  onDelete: (id: number) => Promise<ActionState>;
+  canRescreen: boolean;
+  onRescreen: (id: number) => Promise<ActionState>;
+  currentEngineVersion: string;
+}) {
   const router = useRouter();
   const query = useQuery({
     queryKey: ['import', slug, initial.id],
@@ -180,6 +247,16 @@ function ImportItem({ slug, initial, canDelete, onDelete }: { slug: string; init
       </div>
       <div className="mt-3 space-y-2">
         <Summary imp={imp} />
+        <EngineVersions
+          imp={imp}
+          current={currentEngineVersion}
+          canRescreen={canRescreen}
+          onRescreen={async (id) => {
+            const state = await onRescreen(id);
+            if (state?.ok) await query.refetch();
+            return state;
+          }}
+        />
         {query.error && !gone ? <p className="text-xs text-caution">{query.error.message}</p> : null}
         {imp.problemCount ? (
           <details className="text-sm">
@@ -205,7 +282,23 @@ function ImportItem({ slug, initial, canDelete, onDelete }: { slug: string; init
 }
 
 /** The workspace's imports, newest first; those still screening poll their progress every second. */
-export function ImportList({ slug, imports, canDelete, onDelete }: { slug: string; imports: ImportDto[]; canDelete: boolean; onDelete: (id: number) => Promise<ActionState> }) {
+export function ImportList({
+  slug,
+  imports,
+  canDelete,
+  onDelete,
+  canRescreen,
+  onRescreen,
+  currentEngineVersion,
+}: {
+  slug: string;
+  imports: ImportDto[];
+  canDelete: boolean;
+  onDelete: (id: number) => Promise<ActionState>;
+  canRescreen: boolean;
+  onRescreen: (id: number) => Promise<ActionState>;
+  currentEngineVersion: string;
+}) {
   const [notice, setNotice] = useState<string>();
   const remove = async (id: number): Promise<ActionState> => {
     const state = await onDelete(id);
@@ -221,7 +314,7 @@ export function ImportList({ slug, imports, canDelete, onDelete }: { slug: strin
       ) : null}
       <ul className="divide-y divide-line" aria-label="Imports">
         {imports.map((imp) => (
-          <ImportItem key={imp.id} slug={slug} initial={imp} canDelete={canDelete} onDelete={remove} />
+          <ImportItem key={imp.id} slug={slug} initial={imp} canDelete={canDelete} onDelete={remove} canRescreen={canRescreen} onRescreen={onRescreen} currentEngineVersion={currentEngineVersion} />
         ))}
       </ul>
     </div>

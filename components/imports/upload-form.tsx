@@ -9,8 +9,20 @@ import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { ImportProblemsTable } from './problems-table';
+import { formatMoney } from '@/lib/format';
+
+interface Estimate {
+  rows: number;
+  billableUnits: number;
+  perFlightCents: number;
+  estimatedChargeCents: number;
+  freePeriod: boolean;
+  budget: { budgetCents: number; usageChargeCents: number; afterImportCents: number; hardStop: boolean; wouldExceed: boolean } | null;
+  warnings: ImportProblem[];
+}
 
 type Outcome =
+  | { kind: 'estimate'; estimate: Estimate; file: File }
   | { kind: 'accepted'; imp: ImportDto }
   | { kind: 'refused'; message: string; problems: ImportProblem[]; total: number; warnings: ImportProblem[] }
   | { kind: 'error'; status: number; message: string };
@@ -22,21 +34,52 @@ interface ErrorBody {
   warnings?: ImportProblem[];
 }
 
-async function upload(slug: string, file: File): Promise<Outcome> {
+async function upload(slug: string, file: File, dryRun: boolean): Promise<Outcome> {
   const form = new FormData();
   form.set('file', file);
   let res: Response;
   try {
-    res = await fetch(`/api/v1/workspaces/${slug}/imports`, { method: 'POST', body: form, credentials: 'same-origin' });
+    res = await fetch(`/api/v1/workspaces/${slug}/imports${dryRun ? '?dryRun=1' : ''}`, { method: 'POST', body: form, credentials: 'same-origin' });
   } catch {
     return { kind: 'error', status: 0, message: 'The upload did not reach the server. Check the connection and try again.' };
   }
   const body = (await res.json().catch(() => null)) as (ImportDto & ErrorBody) | null;
+  if (dryRun && res.status === 200 && body) return { kind: 'estimate', estimate: body as unknown as Estimate, file };
   if (res.status === 202 && body) return { kind: 'accepted', imp: body };
   if (res.status === 422 && body?.problems) {
     return { kind: 'refused', message: body.error?.message ?? 'Some rows need attention.', problems: body.problems, total: body.problemCount ?? body.problems.length, warnings: body.warnings ?? [] };
   }
   return { kind: 'error', status: res.status, message: body?.error?.message ?? `The upload failed (HTTP ${res.status}). Try again.` };
+}
+
+/** What the import will cost, asked before anything is saved. */
+function ConfirmImport({ estimate, pending, onConfirm, onCancel }: { estimate: Estimate; pending: boolean; onConfirm: () => void; onCancel: () => void }) {
+  const n = estimate.billableUnits.toLocaleString('en-GB');
+  const blocked = estimate.budget?.wouldExceed && estimate.budget.hardStop;
+  return (
+    <Notice tone={estimate.budget?.wouldExceed ? 'caution' : 'info'} role="status" title={`Every row is good: ${estimate.rows.toLocaleString('en-GB')} flight${estimate.rows === 1 ? '' : 's'} ready to import`}>
+      <p data-testid="import-estimate">
+        Importing adds up to {n} billable unit{estimate.billableUnits === 1 ? '' : 's'} (one per flight screened)
+        {estimate.freePeriod
+          ? ', free during the trial.'
+          : `: an estimated ${formatMoney(estimate.estimatedChargeCents)} at ${formatMoney(estimate.perFlightCents)} a flight, on top of this period's charges.`}
+      </p>
+      {estimate.budget ? (
+        <p className="mt-1">
+          Monthly usage budget {formatMoney(estimate.budget.budgetCents)}: {formatMoney(estimate.budget.usageChargeCents)} used so far, {formatMoney(estimate.budget.afterImportCents)} after this import.
+          {estimate.budget.wouldExceed ? (blocked ? ' This passes the budget and its hard stop is on, so the import would be refused; a finance admin or owner can raise the budget.' : ' This passes the budget.') : ''}
+        </p>
+      ) : null}
+      <div className="mt-3 flex flex-wrap gap-2">
+        <Button onClick={onConfirm} disabled={pending || !!blocked}>
+          {pending ? 'Importing…' : `Import ${n} flight${estimate.rows === 1 ? '' : 's'}`}
+        </Button>
+        <Button variant="secondary" onClick={onCancel} disabled={pending}>
+          Cancel
+        </Button>
+      </div>
+    </Notice>
+  );
 }
 
 /** Upload a schedule: the whole file is checked first; on refusal the problems are listed by line and column. */
@@ -46,7 +89,7 @@ export function UploadForm({ slug, aside }: { slug: string; aside?: ReactNode })
   const [file, setFile] = useState<File | null>(null);
   const [missing, setMissing] = useState(false);
   const mutation = useMutation({
-    mutationFn: (f: File) => upload(slug, f),
+    mutationFn: ({ f, dryRun }: { f: File; dryRun: boolean }) => upload(slug, f, dryRun),
     onSuccess: (outcome) => {
       if (outcome.kind === 'accepted') {
         formRef.current?.reset();
@@ -67,7 +110,7 @@ export function UploadForm({ slug, aside }: { slug: string; aside?: ReactNode })
           setMissing(true);
           return;
         }
-        mutation.mutate(file);
+        mutation.mutate({ f: file, dryRun: true });
       }}
     >
       <div className="grid gap-6 md:grid-cols-2">
@@ -89,12 +132,13 @@ export function UploadForm({ slug, aside }: { slug: string; aside?: ReactNode })
             />
           </Field>
           <Button type="submit" disabled={mutation.isPending}>
-            {mutation.isPending ? 'Checking every row…' : 'Check and import'}
+            {mutation.isPending ? 'Checking every row…' : 'Check the file'}
           </Button>
         </div>
         {aside ? <div className="min-w-0 border-line md:border-l md:pl-6">{aside}</div> : null}
       </div>
       <div aria-live="polite" className="space-y-3">
+        {outcome?.kind === 'estimate' ? <ConfirmImport estimate={outcome.estimate} pending={mutation.isPending} onConfirm={() => mutation.mutate({ f: outcome.file, dryRun: false })} onCancel={() => mutation.reset()} /> : null}
         {outcome?.kind === 'accepted' ? (
           <Notice tone="success" role="status" title={`Accepted: ${outcome.imp.rows.toLocaleString('en-GB')} flight${outcome.imp.rows === 1 ? '' : 's'} queued for screening`}>
             <p>Progress shows in the list below. Each flight screened is one billable unit.</p>

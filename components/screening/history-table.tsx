@@ -22,6 +22,8 @@ export interface HistoryRow {
   noxAboveTropopauseKg: number;
   fractionAboveTropopause: number;
   ozoneCentralKg: number;
+  /** Set when the figures were made with an engine version older than the current one. */
+  olderEngineVersion?: string | null;
 }
 
 const SORTABLE = ['name', 'createdAt', 'routeLabel', 'flightLevel', 'distanceKm', 'noxAboveTropopauseKg', 'fractionAboveTropopause', 'ozoneCentralKg'];
@@ -64,9 +66,16 @@ export function HistoryTable({ slug, rows, units }: { slug: string; rows: Histor
       col.accessor('name', {
         header: 'Screening',
         cell: (c) => (
-          <Link href={`/w/${slug}/screenings/${c.row.original.id}`} className="font-medium text-accent hover:underline">
-            {c.getValue()}
-          </Link>
+          <>
+            <Link href={`/w/${slug}/screenings/${c.row.original.id}`} className="font-medium text-accent hover:underline">
+              {c.getValue()}
+            </Link>
+            {c.row.original.olderEngineVersion ? (
+              <span className="ml-2 rounded border border-caution/40 bg-caution-soft px-1.5 py-0.5 text-xs text-ink" data-testid="older-engine-version">
+                engine {c.row.original.olderEngineVersion} (older)
+              </span>
+            ) : null}
+          </>
         ),
       }),
       col.accessor('routeLabel', { header: 'Route' }),

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { screeningInputSchema, screeningPreviewBodySchema, soundingLevelSchema, compareCruiseLevelsOptionsSchema } from '@/lib/validation/screening';
 import { workspaceCreateSchema, apiKeyCreateSchema } from '@/lib/validation/workspaces';
-import { billingEmailSchema, cardChoiceSchema, subscribeSchema, subscriptionUpdateSchema } from '@/lib/validation/billing';
+import { billingEmailSchema, cardChoiceSchema, subscribeSchema, subscriptionUpdateSchema, usageBudgetSchema } from '@/lib/validation/billing';
 import { reportCreateSchema, reportSendSchema } from '@/lib/validation/reports';
 import { fleetCreateSchema, fleetUpdateSchema } from '@/lib/validation/fleets';
 import { aircraftTypeSaveSchema, engineSaveSchema, routeSaveSchema, soundingCreateSchema } from '@/lib/validation/library';
@@ -52,6 +52,15 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
     post: { summary: 'Subscribe from a trial (the rest of the trial stays free) or after a cancellation, with a test card on file', permission: 'billing:manage', requestBody: subscribeSchema, responses: { '201': 'The billing state', '409': 'Already subscribed', '503': 'The payment service did not answer; nothing changed' } },
     patch: { summary: 'Change plan (applies to the whole open period) and/or cancel at period end (true) or resume (false)', permission: 'billing:manage', requestBody: subscriptionUpdateSchema, responses: { '200': 'The billing state', '409': 'No running subscription', '503': 'The payment service did not answer; nothing changed' } },
   },
+  '/workspaces/{slug}/billing/budget': {
+    get: { summary: "The monthly usage budget and this billing period's usage against it: { budgetCents, hardStop, periodStart, periodEnd, units, perFlightCents, usageChargeCents, usedFraction, unitsLeft, freePeriod }", permission: 'billing:read', responses: { '200': 'The budget state' } },
+    put: {
+      summary: 'Set the monthly usage budget (cents of per-flight charges in a billing period; null clears it) and its hard stop. The billing contacts are e-mailed once a period at 80 % and at 100 %; with hardStop, screenings and imports that would pass the budget are refused with 402. A free trial has no budget.',
+      permission: 'billing:manage',
+      requestBody: usageBudgetSchema,
+      responses: { '200': 'The budget state' },
+    },
+  },
   '/workspaces/{slug}/billing/payment-method': {
     put: { summary: 'Put a test card on file for future invoices: "succeeds" or "declined"', permission: 'billing:manage', requestBody: cardChoiceSchema, responses: { '200': 'The billing state', '503': 'The payment service did not answer; nothing changed' } },
   },
@@ -63,15 +72,22 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   },
   '/workspaces/{slug}/screenings': {
     post: {
-      summary: "Screen and save one flight (one billable unit). Body: the screenFlight input plus optional name and aircraft (a type code of the workspace that supplies emission and Mach when absent). The route is { waypoints }, { flightPlan: { text, from, to } } (ICAO Doc 4444 item 15, named points and airways from the workspace's fix and airway libraries; its levels replace cruise; the result then carries flightPlan { waypoints, cruise.steps, speeds, unresolved, notes, items }) or { track: { points: { time?, lat, lon, flightLevel? | pressureAltitudeFt? }[] } } (2-20 000 points in time order; cruise optional; fuel spread by the points' times; the result carries track). Idempotency-Key header supported.",
+      summary: "Screen and save one flight (one billable unit). Body: the screenFlight input plus optional name and aircraft (a type code of the workspace that supplies emission and Mach when absent). The route is { waypoints }, { flightPlan: { text, from, to } } (ICAO Doc 4444 item 15, named points and airways from the workspace's fix and airway libraries; its levels replace cruise; the result then carries flightPlan { waypoints, cruise.steps, speeds, unresolved, notes, items }) or { track: { points: { time?, lat, lon, flightLevel? | pressureAltitudeFt? }[] } } (2-20 000 points in time order; cruise optional; fuel spread by the points' times; the result carries track). Idempotency-Key header: a repeat with the same key and the same body (key order aside) returns the first screening and adds no unit; the same key with a different body is refused (409).",
       permission: 'screenings:create',
       requestBody: screeningInputSchema,
-      responses: { '201': '{ id, name, createdAt, input, result }', '200': 'Idempotent replay of the first result', '402': 'Billing blocks new screenings' },
+      responses: { '201': '{ id, name, createdAt, input, result }', '200': 'Idempotent replay of the first result', '402': 'Billing blocks new screenings', '409': 'The Idempotency-Key was already used with a different body (the error names the key and the screening)' },
     },
     get: { summary: 'Saved screenings, newest first', permission: 'flights:read', query: { cursor: 'id from nextCursor', limit: '1-200', from: 'YYYY-MM-DD', to: 'YYYY-MM-DD', route: 'text', aircraft: 'type code', minShareAbove: '0-1', maxShareAbove: '0-1' }, responses: { '200': '{ items, nextCursor }' } },
   },
   '/workspaces/{slug}/screenings/{id}': {
-    get: { summary: 'One saved screening', permission: 'flights:read', responses: { '200': '{ id, name, createdAt, input, result }' } },
+    get: { summary: 'One saved screening with the engine version it was made with: engineVersion, currentEngineVersion, outdated, rescreenOf (the screening it re-made), rescreens (newer screenings made from it)', permission: 'flights:read', responses: { '200': '{ id, name, createdAt, engineVersion, currentEngineVersion, outdated, rescreenOf, rescreens, input, result }' } },
+  },
+  '/workspaces/{slug}/screenings/{id}/rescreen': {
+    post: {
+      summary: 'Screen a saved screening again with the current engine version, saved as a new screening pointing at it (rescreenOf). Not billed: no usage unit and no billing gate, since the flight was billed when first screened. One re-screen per screening and engine version: a repeat returns it.',
+      permission: 'screenings:create',
+      responses: { '201': 'The new screening { id, name, createdAt, engineVersion, rescreenOf, input, result }', '200': 'The re-screen already made with this engine version', '409': 'The screening is already on the current engine version', '422': 'The saved input is not accepted by the current engine (fields named)' },
+    },
   },
   '/workspaces/{slug}/screenings/{id}/export': {
     get: { summary: 'One saved screening as a download: CSV (headline figures, then one row per segment) or JSON { id, name, createdAt, input, result }', permission: 'flights:read', query: { format: 'csv (default) or json' }, responses: { '200': 'Attachment (text/csv or application/json)' } },
@@ -93,13 +109,21 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
       summary: 'Upload a flight-schedule CSV (10 MB, 100 000 rows at most). Every row is checked first: any problem refuses the whole file (nothing saved); otherwise the import is queued and its flights are screened in the background, one billable unit per screened flight.',
       permission: 'imports:create',
       requestBody: { multipart: { file: 'the schedule CSV' } },
-      responses: { '202': '{ id, status: queued, rows, rowsDone, problems (unknown-column warnings, line 1), ... }', '402': 'Billing blocks new screenings', '409': 'The same file (SHA-256) was already imported; names the earlier import', '413': 'Larger than 10 MB or more than 100 000 rows', '422': '{ error, problems: { line, column, message }[], problemCount }' },
+      query: { dryRun: '1: check every row and answer 200 { dryRun, rows, billableUnits, perFlightCents, estimatedChargeCents, freePeriod, budget, warnings } without saving anything (the estimate shown before confirming an import)' },
+      responses: { '200': 'With dryRun=1: the estimate; nothing saved', '202': '{ id, status: queued, rows, rowsDone, problems (unknown-column warnings, line 1), ... }', '402': 'Billing blocks new screenings', '409': 'The same file (SHA-256) was already imported; names the earlier import', '413': 'Larger than 10 MB or more than 100 000 rows', '422': '{ error, problems: { line, column, message }[], problemCount }' },
     },
     get: { summary: 'Imports, newest first, with their progress', permission: 'flights:read', query: { cursor: 'id from nextCursor', limit: '1-100' }, responses: { '200': '{ items, nextCursor }' } },
   },
   '/workspaces/{slug}/imports/{id}': {
-    get: { summary: 'One import: status (queued, screening, complete, failed), rows, rowsDone, rowsPerSecond, secondsLeft, problems, failureReason', permission: 'flights:read', responses: { '200': 'The import' } },
+    get: { summary: 'One import: status (queued, screening, complete, failed), rows, rowsDone, rowsPerSecond, secondsLeft, problems, failureReason, engineVersions (flights per engine version), rescreen (progress of a re-screen with a newer engine, or null)', permission: 'flights:read', responses: { '200': 'The import' } },
     delete: { summary: 'Delete an import and its flights; units already billed for screened flights stay billed', permission: 'imports:delete', responses: { '200': '{ id, fileName, flightsDeleted, billedUnitsKept, message }' } },
+  },
+  '/workspaces/{slug}/imports/{id}/rescreen': {
+    post: {
+      summary: "Screen the import's flights again with the current engine version, in the background. Not billed: no usage unit and no billing gate, since each flight was billed when first screened. Progress is the import's rescreen { status: queued | running | complete, engineVersion, rows, rowsDone, rowsFailed }; a flight the current engine cannot screen keeps its earlier figures and version. Asking again while one runs returns it.",
+      permission: 'imports:create',
+      responses: { '202': 'The import with its rescreen progress and engineVersions', '409': 'The import is still screening, or every flight is already on the current engine version' },
+    },
   },
   '/workspaces/{slug}/imports/template': {
     get: { summary: 'A schedule CSV template with example rows using this workspace\'s aircraft types and fleets', permission: 'flights:read', responses: { '200': 'text/csv' } },

@@ -23,6 +23,7 @@ export const PERMISSIONS = [
   'billing:read',
   'billing:manage',
   'audit:read',
+  'library:copy', // copy engines, aircraft types and fleet definitions into or out of a workspace (owners: a consultant between clients)
 ] as const;
 export type Permission = (typeof PERMISSIONS)[number];
 

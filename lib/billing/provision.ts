@@ -33,11 +33,16 @@ export async function putCardOnFile(customerId: string, card: CardChoice): Promi
   await stripe().customers.update(customerId, { invoice_settings: { default_payment_method: pm.id } });
 }
 
+/** How far back a seeded demo subscription starts: one closed period, so one invoice, at first start. */
+const SEEDED_BACKDATE_DAYS = 30;
+
 async function subscribeSeeded(billing: BillingDto, workspace: { slug: string }, customerId: string): Promise<void> {
   await putCardOnFile(customerId, 'succeeds');
   const prices = await planPrices(billing.planId);
+  // Started a month ago, so the demo has one issued (and paid) invoice to show from the first start.
+  const startedAt = Math.floor(Date.now() / 1000);
   const sub = await stripe().subscriptions.create(
-    { customer: customerId, items: [{ price: prices.base }, { price: prices.metered }], metadata: { workspace: workspace.slug } },
+    { customer: customerId, items: [{ price: prices.base }, { price: prices.metered }], metadata: { workspace: workspace.slug }, backdate_start_date: startedAt - SEEDED_BACKDATE_DAYS * 86_400 },
     { idempotencyKey: `tp-seeded-subscription-ws-${billing.workspaceId}` },
   );
   await writeTx(async (trx) => {
@@ -47,7 +52,7 @@ async function subscribeSeeded(billing: BillingDto, workspace: { slug: string },
       { workspaceId: billing.workspaceId },
       {
         ...patchFromSubscription(sub),
-        meteredSince: current?.meteredSince ?? isoFromSeconds(sub.start_date),
+        meteredSince: current?.meteredSince ?? isoFromSeconds(startedAt),
         paymentMethodLabel: TEST_CARDS.succeeds.label,
       },
       trx,

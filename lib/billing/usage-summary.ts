@@ -86,3 +86,14 @@ export async function getUsageSummary(scope: { workspaceId: number }, opts: { re
     retryingUnits: problem?.failingUnits ?? 0,
   };
 }
+
+/**
+ * The billable units of the workspace's current billing period: the same count, over the same
+ * period, as the billing page's meter (`getUsageSummary().units`), without asking the payment service.
+ */
+export async function getBillableUnits(scope: { workspaceId: number }): Promise<{ units: number; periodStart: string; periodEnd: string }> {
+  const billing = await ensureBilling(scope);
+  const period = usagePeriod(billing);
+  const counts = await countLedgerUnits(scope, { from: period.start, to: period.end });
+  return { units: counts.units, periodStart: period.start, periodEnd: period.end };
+}

@@ -57,8 +57,10 @@ export async function handleStripeEvent(event: Stripe.Event): Promise<WebhookOut
         if (!isCurrent(billing, sub.id, creation)) return { result: 'ignored', reason: 'not the current subscription' };
         const patch: BillingPatch = patchFromSubscription(sub);
         if (event.type === 'customer.subscription.deleted') patch.status = 'canceled';
-        if (billing.subscriptionId !== sub.id) patch.meteredSince = isoFromSeconds(sub.start_date);
-        else if (!billing.meteredSince) patch.meteredSince = isoFromSeconds(sub.start_date);
+        // From when the subscription was made, not its start date: a backdated start must not bill
+        // usage recorded before the subscription existed (for any other, the two are the same).
+        if (billing.subscriptionId !== sub.id) patch.meteredSince = isoFromSeconds(sub.created);
+        else if (!billing.meteredSince) patch.meteredSince = isoFromSeconds(sub.created);
         if (patch.status === 'active') patch.paymentFailedAt = null;
         const changes = billingChanges(billing, patch);
         if (Object.keys(changes).length === 0) return { result: 'processed', workspaceId: billing.workspaceId, changed: false };

@@ -1,5 +1,6 @@
 import 'server-only';
-import { aggregateFlights, noxAboveByLevels, type FlightAggregate, type FlightFilters } from '@/db/fleets';
+import { mixedEngineVersionCaution } from './units';
+import { aggregateFlights, noxAboveByLevels, type FlightAggregate, type FlightFilters, countFlightsByEngineVersion } from '@/db/fleets';
 import { findAirport, flightLevelToMetres, fleetOzoneColumnContext, geometricFromGeopotentialM } from '@/lib/screening';
 import { CO2_PER_KG_FUEL } from '@/lib/screening/screen-flight';
 import { todayIso } from '@/lib/clock';
@@ -164,10 +165,11 @@ function byFleetName(a: { fleetId: number | null; fleetName: string }, b: { flee
 export async function compareFleets(scope: { workspaceId: number }, q: FleetCompareQuery, today = todayIso()): Promise<FleetComparison> {
   const period = resolvePeriod(q, today);
   const filters = toFlightFilters(q, period);
-  const [grouped, monthly, levels] = await Promise.all([
+  const [grouped, monthly, levels, engineVersions] = await Promise.all([
     q.groupBy === 'fleet' ? Promise.resolve(null) : aggregateFlights(scope, filters, { month: q.groupBy === 'month', aircraft: q.groupBy === 'aircraft' }),
     aggregateFlights(scope, filters, { month: true }),
     noxAboveByLevels(scope, filters),
+    countFlightsByEngineVersion(scope, filters),
   ]);
 
   const fleets = new Map<string, { fleetId: number | null; fleetName: string; sums: Sums; byMonth: Map<string, Sums> }>();
@@ -226,6 +228,8 @@ export async function compareFleets(scope: { workspaceId: number }, q: FleetComp
     series,
     context,
     notes: COMPARE_NOTES,
-    cautions: [...FLEET_CAUTIONS],
+    cautions: [...mixedEngineVersionCaution(engineVersions), ...FLEET_CAUTIONS],
+    engineVersions,
+    mixedEngineVersions: engineVersions.length > 1,
   };
 }

@@ -58,4 +58,8 @@ export interface FleetComparison {
   context: { fleets: FleetContextRow[]; total: FleetContextRow; method: string };
   notes: { co2: string; ratios: string; ozone: string; levelBand: string };
   cautions: string[];
+  /** The engine versions that made the figures compared, with how many flights each. */
+  engineVersions: { engineVersion: string; flights: number }[];
+  /** True when the figures come from more than one engine version (a caution says so). */
+  mixedEngineVersions: boolean;
 }

@@ -28,3 +28,16 @@ export function monthLabel(ym: string): string {
 
 /** Colours of fleets in charts, in order (tokens of tailwind.config.ts first). */
 export const FLEET_COLOURS = ['#6a3d9a', '#23867a', '#1d5fa8', '#9a5a12', '#b3261e', '#4b2574', '#15594f', '#3d4a63'] as const;
+
+/** "2026.12.1 (40 flights), 2026.12.2 (60 flights)". */
+export function engineVersionsText(versions: { engineVersion: string; flights: number }[]): string {
+  return versions.map((v) => `${v.engineVersion} (${v.flights} flight${v.flights === 1 ? '' : 's'})`).join(', ');
+}
+
+/** The caution a comparison or report carries when its flights were screened by different engine versions. */
+export function mixedEngineVersionCaution(versions: { engineVersion: string; flights: number }[]): string[] {
+  if (versions.length < 2) return [];
+  return [
+    `These figures mix engine versions: ${engineVersionsText(versions)}. Flights screened with different versions are not fully comparable; screen the older imports again with the current method under Imports (not billed again).`,
+  ];
+}

@@ -5,6 +5,7 @@ import { listAircraftForScreening } from '@/db/aircraft-lookup';
 import { listFleetsByName, listFlightKeys } from '@/db/flights';
 import { createImport, findImportByHash, type ImportDto } from '@/db/imports';
 import { assertBillingAllows } from '@/lib/billing/gate';
+import { estimateImport, type ImportEstimate } from '@/lib/billing/budget';
 import { badRequest, tooLarge } from '@/lib/errors';
 import { IMPORT_LIMITS, type ImportProblem } from '@/lib/validation/imports';
 import { flightKey, parseSchedule, sortProblems } from './schedule';
@@ -19,6 +20,7 @@ export interface UploadedFile {
 
 export type UploadOutcome =
   | { accepted: true; import: ImportDto; warnings: ImportProblem[] }
+  | { accepted: true; dryRun: true; rows: number; estimate: ImportEstimate; warnings: ImportProblem[] }
   | { accepted: false; problems: ImportProblem[]; problemCount: number; warnings: ImportProblem[] };
 
 const MB = 1024 * 1024;
@@ -81,6 +83,7 @@ export async function acceptScheduleUpload(
   scope: { workspaceId: number },
   actor: { userId: number | null; label: string },
   file: UploadedFile,
+  opts: { dryRun?: boolean } = {},
 ): Promise<UploadOutcome> {
   await assertBillingAllows(scope);
   if (file.size > IMPORT_LIMITS.maxBytes) throw tooLarge(tooBigMessage);
@@ -115,6 +118,9 @@ export async function acceptScheduleUpload(
   if (problems.length) {
     sortProblems(problems);
     return { accepted: false, problems: problems.slice(0, IMPORT_LIMITS.maxProblemsListed), problemCount: problems.length, warnings: parsed.warnings };
+  }
+  if (opts.dryRun) {
+    return { accepted: true, dryRun: true, rows: parsed.flights.length, estimate: await estimateImport(scope, parsed.flights.length), warnings: parsed.warnings };
   }
   const saved = await createImport(scope, { fileName: file.name, fileHash, createdBy: actor.userId, actor: actor.label, flights: parsed.flights, warnings: parsed.warnings });
   wakeImportWorker();

@@ -1,10 +1,25 @@
 import 'server-only';
 import { setImmediate as yieldToEventLoop } from 'node:timers/promises';
 import { screenTotals, ScreeningInputError, type ScreeningInput } from '@/lib/screening';
-import { claimImport, failImport, finishImport, figuresOf, listActiveImports, listPendingFlights, saveScreenedChunk, type ScreenedOutcome } from '@/db/imports';
+import {
+  claimImport,
+  failImport,
+  finishImport,
+  finishRescreen,
+  figuresOf,
+  listActiveImports,
+  listActiveRescreens,
+  listPendingFlights,
+  listRescreenFlights,
+  saveRescreenChunk,
+  saveScreenedChunk,
+  type RescreenJob,
+  type ScreenedOutcome,
+} from '@/db/imports';
 import { log } from '@/lib/log';
 import { leaseImport } from './import-lock';
 import { screenInThreads } from './screening-pool';
+import { checkBudgetAlerts } from '@/lib/billing/budget';
 
 /**
  * The background screening of imported flights, in the server process or a standalone worker
@@ -104,8 +119,33 @@ async function screenImport(importId: number, opts: RunOptions): Promise<number>
     const outcomes = (await screenInThreads(pending)) ?? screenChunk(pending);
     const saved = await saveScreenedChunk(importId, outcomes);
     flights += saved;
+    await checkBudgetAlerts({ workspaceId: pending[0].workspaceId });
     state().errors.delete(importId);
     await opts.onChunk?.({ importId, saved });
+    await yieldToEventLoop();
+  }
+}
+
+/**
+ * Screens an import's flights again with the current engine, chunk by chunk after its cursor. Figures
+ * only: no usage unit is written (db/imports.ts saveRescreenChunk).
+ */
+async function processRescreen(job: RescreenJob, opts: RunOptions): Promise<number> {
+  const chunkSize = opts.chunkSize ?? IMPORT_CHUNK_SIZE;
+  let cursor = job;
+  let flights = 0;
+  for (;;) {
+    if (state().stopping) return flights;
+    const batch = await listRescreenFlights(cursor, chunkSize);
+    if (batch.length === 0) {
+      await finishRescreen(job.importId);
+      log.info({ event: 'import.rescreen_finished', importId: job.importId, engineVersion: job.engineVersion }, 'import re-screen finished');
+      return flights;
+    }
+    const { done } = await saveRescreenChunk(cursor, screenChunk(batch));
+    flights += done;
+    cursor = { ...cursor, lastFlightId: batch[batch.length - 1].id };
+    await opts.onChunk?.({ importId: job.importId, saved: done });
     await yieldToEventLoop();
   }
 }
@@ -114,6 +154,15 @@ async function pass(opts: RunOptions): Promise<RunSummary> {
   const summary: RunSummary = { imports: 0, flights: 0 };
   for (;;) {
     const active = await listActiveImports();
+    if (active.length === 0 && !state().stopping) {
+      const rescreens = await listActiveRescreens();
+      if (rescreens.length === 0) return summary;
+      for (const job of rescreens) {
+        summary.flights += await processRescreen(job, opts);
+        summary.imports += 1;
+      }
+      continue;
+    }
     if (active.length === 0 || state().stopping) return summary;
     let progressed = false;
     let leasedElsewhere = 0;

@@ -1,8 +1,8 @@
 import 'server-only';
-import { listEngineVersions, listFleets } from '@/db/fleets';
+import { listFleets } from '@/db/fleets';
 import { createReport, type ReportRecord } from '@/db/reports';
 import type { UnitSystem } from '@/db/users';
-import { compareFleets, resolvePeriod, toFlightFilters } from '@/lib/fleets/compare';
+import { compareFleets, resolvePeriod } from '@/lib/fleets/compare';
 import { screenFlight, type OzoneAssumptionsUsed } from '@/lib/screening';
 import { invalidFields } from '@/lib/errors';
 import type { ReportCreate } from '@/lib/validation/reports';
@@ -74,11 +74,7 @@ export async function buildFleetReport(
 
   const period = resolvePeriod({ from: input.from, to: input.to });
   const query = { from: period.from, to: period.to, groupBy: 'month' as const, fleets: input.fleetIds };
-  const [monthly, perFleet, engineVersions] = await Promise.all([
-    compareFleets(scope, query),
-    compareFleets(scope, { ...query, groupBy: 'fleet' }),
-    listEngineVersions(scope, toFlightFilters(query, period)),
-  ]);
+  const [monthly, perFleet] = await Promise.all([compareFleets(scope, query), compareFleets(scope, { ...query, groupBy: 'fleet' })]);
   const title = input.name?.trim() || `Fleet report ${period.from} to ${period.to}`;
   const summary: ReportSummary = {
     version: 1,
@@ -89,7 +85,8 @@ export async function buildFleetReport(
     generatedAt: new Date().toISOString(),
     generatedBy: input.actorName,
     units: input.units,
-    engineVersions,
+    engineVersions: perFleet.engineVersions.map((v) => v.engineVersion),
+    engineVersionFlights: perFleet.engineVersions,
     totals: perFleet.totals,
     perFleet: perFleet.rows,
     perFleetMonth: monthly.rows,

@@ -15,6 +15,8 @@ export interface ReportSummary {
   /** The unit preference the PDF was drawn in. */
   units: UnitSystem;
   engineVersions: string[];
+  /** Flights per engine version (reports stored before this field have only `engineVersions`). */
+  engineVersionFlights?: { engineVersion: string; flights: number }[];
   totals: CompareRow;
   perFleet: CompareRow[];
   perFleetMonth: CompareRow[];

@@ -1,10 +1,11 @@
 import { PDFDocument, StandardFonts, degrees, rgb, type PDFFont, type PDFPage, type RGB } from 'pdf-lib';
 import type { UnitSystem } from '@/db/users';
 import { formatDistance, formatMass, formatMassRange, formatNumber, formatPercent } from '@/lib/format';
-import { FLEET_COLOURS, massAxisUnit, monthLabel, niceTicks } from '@/lib/fleets/units';
+import { FLEET_COLOURS, engineVersionsText, massAxisUnit, monthLabel, niceTicks } from '@/lib/fleets/units';
 import type { CompareRow, FleetContextRow } from '@/lib/fleets/types';
 import type { ReportSummary } from './model';
 import { toWinAnsi } from './text';
+import { COUNT_LABELS } from '@/lib/counts';
 
 const PAGE_W = 595.28;
 const PAGE_H = 841.89;
@@ -396,7 +397,14 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
     ['Fleets', s.fleets.map((f) => f.name).join(', ') || '-'],
     ['Built', `${s.generatedAt.slice(0, 16).replace('T', ' ')} UTC by ${s.generatedBy}`],
     ['Units', units === 'imperial' ? 'pounds, nautical miles (aviation units)' : 'kilograms and tonnes, kilometres (metric)'],
-    ['Engine version', s.engineVersions.length ? s.engineVersions.join(', ') : '-'],
+    [
+      s.engineVersions.length > 1 ? 'Engine versions' : 'Engine version',
+      s.engineVersionFlights?.length
+        ? `${engineVersionsText(s.engineVersionFlights)}${s.engineVersionFlights.length > 1 ? ' - mixed, see the caution below' : ''}`
+        : s.engineVersions.length
+          ? s.engineVersions.join(', ')
+          : '-',
+    ],
   ];
   for (const [k, v] of meta) {
     const lines = w.wrap(v, 9, CONTENT_W - 90);
@@ -411,7 +419,7 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
   w.heading('Totals');
   const t = s.totals;
   const totalsRows: string[][] = [
-    ['Flights screened', formatNumber(t.flights)],
+    [COUNT_LABELS.importedFlightsScreened, formatNumber(t.flights)],
     ['Distance flown (cruise track)', formatDistance(t.distanceKm, units)],
     ['Fuel', formatMass(t.fuelKg, units)],
     ['CO2 (3.16 kg per kg fuel, ICAO CORSIA)', formatMass(t.co2Kg, units)],

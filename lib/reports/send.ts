@@ -7,6 +7,7 @@ import { log } from '@/lib/log';
 import { limitReportSend } from '@/lib/auth/throttle';
 import type { ReportSummary } from './model';
 import { fileStem } from './text';
+import { COUNT_LABELS } from '@/lib/counts';
 
 const esc = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
 
@@ -18,7 +19,7 @@ export function reportMail(to: string[], s: ReportSummary, input: { senderName: 
     `${input.senderName} sent you the fleet report “${s.title}” for ${s.workspaceName}, ${s.period.from} to ${s.period.to}.`,
     ...(input.note ? [`Note: ${input.note}`] : []),
     `Fleets: ${s.fleets.map((f) => f.name).join(', ')}.`,
-    `Flights screened: ${formatNumber(t.flights)}. NOx: ${formatMass(t.noxTotalKg, u)}, of which above the tropopause ${formatMass(t.noxAboveKg, u)} (${t.shareAbove === null ? '-' : formatPercent(t.shareAbove, 1)}). Ozone-loss screening figure: ${formatMass(t.ozone.centralKg, u)} (${formatMassRange(t.ozone.lowKg, t.ozone.highKg, u, ' to ')}).`,
+    `${COUNT_LABELS.importedFlightsScreened}: ${formatNumber(t.flights)}. NOx: ${formatMass(t.noxTotalKg, u)}, of which above the tropopause ${formatMass(t.noxAboveKg, u)} (${t.shareAbove === null ? '-' : formatPercent(t.shareAbove, 1)}). Ozone-loss screening figure: ${formatMass(t.ozone.centralKg, u)} (${formatMassRange(t.ozone.lowKg, t.ozone.highKg, u, ' to ')}).`,
     'Screening estimate for planning and reporting support, not a certified emissions inventory or a regulatory method; the ozone figure is a gross catalytic loss, not a net column change. Follow the operator’s approved methods and applicable regulation.',
     'The full report, with its method, assumptions and data sources, is attached as a PDF.',
   ];

@@ -6,6 +6,7 @@ import {
   sweepMonthsValidated,
   SAME_EVERY_MONTH_NOTE,
   ScreeningInputError,
+  ENGINE_VERSION,
   validateScreeningInput,
   validateCompareOptions,
   type CruiseLevelRow,
@@ -16,7 +17,8 @@ import {
 } from '@/lib/screening';
 import { getAircraftForScreening } from '@/db/aircraft-lookup';
 import { loadRouteLibrary } from '@/db/route-library';
-import { badRequest, invalidFields, type FieldProblem } from '@/lib/errors';
+import { createScreening, getScreening, type ScreeningRecord } from '@/db/screenings';
+import { AppError, badRequest, conflict, invalidFields, type FieldProblem } from '@/lib/errors';
 import { previewMonthsSchema } from '@/lib/validation/screening';
 
 /** Fields a saved screening carries beside the engine input (the input plus an optional name). */
@@ -118,4 +120,53 @@ export function runMonthSweep(input: ScreeningInput, library?: RouteLibrary): { 
   const rows = sweepMonthsValidated(input, library);
   const same = rows[0]?.sameEveryMonth ?? false;
   return { rows, sameEveryMonth: same, note: same ? SAME_EVERY_MONTH_NOTE : null };
+}
+
+/**
+ * Screens a saved screening's input again with the current engine and saves it as a new screening
+ * that points at the old one. Not billed: the flight was billed once, when first screened. A second
+ * request for the same screening and engine returns the re-screen already made (`replayed`).
+ */
+export async function rescreenScreening(
+  scope: { workspaceId: number },
+  id: number,
+  actor: { userId: number | null; apiKeyId: number | null },
+): Promise<{ record: ScreeningRecord; replayed: boolean }> {
+  const source = await getScreening(scope, id);
+  if (source.engineVersion === ENGINE_VERSION) {
+    throw conflict(`Screening #${source.id} was made with the current engine version (${ENGINE_VERSION}); there is nothing to screen again.`);
+  }
+  let input: ScreeningInput;
+  try {
+    input = validateScreeningInput(source.input);
+  } catch (err) {
+    if (err instanceof ScreeningInputError) {
+      throw new AppError('invalid_fields', `The input saved with screening #${source.id} is not accepted by engine version ${ENGINE_VERSION}; screen the flight again from the form.`, { fields: err.fields });
+    }
+    throw err;
+  }
+  const library = 'flightPlan' in input.route ? await loadRouteLibrary(scope) : {};
+  const result = screenValidated(input, library);
+  const create = () =>
+    createScreening(scope, {
+      name: source.name,
+      aircraftCode: source.aircraftCode,
+      screening: input,
+      result,
+      createdBy: actor.userId,
+      apiKeyId: actor.apiKeyId,
+      rescreenOf: source.id,
+    });
+  try {
+    return await create();
+  } catch (err) {
+    // Two requests at once: the unique (rescreen_of, engine_version) lets one insert; the other reads it.
+    if (isUniqueViolation(err)) return create();
+    throw err;
+  }
+}
+
+function isUniqueViolation(err: unknown): boolean {
+  const e = err as { code?: string; message?: string };
+  return e?.code === 'SQLITE_CONSTRAINT_UNIQUE' || e?.code === '23505' || /UNIQUE constraint failed/.test(e?.message ?? '');
 }

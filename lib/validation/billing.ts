@@ -33,3 +33,15 @@ export const subscriptionUpdateSchema = z
   })
   .refine((v) => v.planId !== undefined || v.cancelAtPeriodEnd !== undefined, { message: 'Send planId, cancelAtPeriodEnd or both.', path: ['planId'] });
 export type SubscriptionUpdateInput = z.infer<typeof subscriptionUpdateSchema>;
+
+/** A monthly usage budget in whole cents of per-flight charges (null clears it), and its hard stop. */
+export const usageBudgetSchema = z.object({
+  budgetCents: z
+    .number({ error: 'The budget must be a number of cents, or null for no budget.' })
+    .int('The budget is a whole number of cents.')
+    .min(0, 'The budget cannot be negative.')
+    .max(100_000_000_00, 'The budget is at most $100,000,000.')
+    .nullable(),
+  hardStop: z.boolean({ error: 'hardStop must be true or false.' }).default(false),
+});
+export type UsageBudgetInput = z.infer<typeof usageBudgetSchema>;

@@ -117,6 +117,15 @@ describe('finance admin: usage, invoice, plan', () => {
     await screenshot(page, 'billing-usage');
     expect(await axeFindings(page)).toEqual([]);
 
+    // The demo subscription started a month back: its first invoice is already issued, with a PDF.
+    const seeded = page.getByTestId('invoice-row').first();
+    await seeded.waitFor();
+    const pdfHref = await seeded.locator('a[href$="/pdf"]').first().getAttribute('href');
+    expect(pdfHref).toBeTruthy();
+    const pdf = await page.request.get(pdfHref!);
+    expect(pdf.status()).toBe(200);
+    expect((await pdf.body()).subarray(0, 5).toString('latin1')).toBe('%PDF-');
+
     // Close the period in the payment fake; the invoice is the estimate just shown.
     const advanced = await fetch(`${PAYMENT_URL}/_fake/advance`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ subscription, wait: true }) });
     expect(advanced.status).toBe(200);

@@ -25,7 +25,7 @@ describe('schedule import journey (analyst, skarn-polar)', () => {
     await screenshot(page, 'imports-page');
 
     await page.setInputFiles('#schedule-file', { name: 'november-extra.csv', mimeType: 'text/csv', buffer: csv([...GOOD, BAD_ROW]) });
-    await page.getByRole('button', { name: 'Check and import' }).click();
+    await page.getByRole('button', { name: 'Check the file' }).click();
     await page.getByRole('alert').filter({ hasText: 'Nothing was imported' }).waitFor();
     const problems = page.getByRole('table', { name: 'Problems in the uploaded file' });
     const cells = await problems.locator('tbody tr').first().locator('td').allTextContents();
@@ -36,7 +36,13 @@ describe('schedule import journey (analyst, skarn-polar)', () => {
     await screenshot(page, 'imports-refused');
 
     await page.setInputFiles('#schedule-file', { name: 'november-extra.csv', mimeType: 'text/csv', buffer: csv([...GOOD, FIXED_ROW]) });
-    await page.getByRole('button', { name: 'Check and import' }).click();
+    await page.getByRole('button', { name: 'Check the file' }).click();
+    // Nothing is saved before the estimate is confirmed: 5 billable units at the workspace's per-flight price.
+    const estimate = page.getByTestId('import-estimate');
+    await estimate.waitFor();
+    expect(await estimate.textContent()).toMatch(/up to 5 billable units .*estimated \$\d+\.\d\d/);
+    await screenshot(page, 'imports-estimate');
+    await page.getByRole('button', { name: 'Import 5 flights' }).click();
     await page.getByRole('status').filter({ hasText: 'Accepted: 5 flights queued for screening' }).waitFor();
     const item = page.locator('li[data-testid^="import-"]').filter({ hasText: 'november-extra.csv' });
     await item.waitFor();

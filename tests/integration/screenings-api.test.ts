@@ -55,6 +55,26 @@ describe('POST /workspaces/{slug}/screenings', () => {
     expect(await db()('usage_events').where({ workspace_id: ws.id }).count({ n: '*' }).first()).toMatchObject({ n: 1 });
   });
 
+  it('the same Idempotency-Key with a different body is a 409 naming the key; nothing saved or billed', async () => {
+    const ws = await makeWorkspace();
+    const cookie = await sessionCookie(ws.owner.id);
+    const send = (body: unknown) => call<Saved & { error: { code: string; message: string; idempotencyKey: string } }>(screeningsRoute.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings`, { cookie, body, headers: { 'idempotency-key': 'order-77' } }), { slug: ws.slug });
+    const a = await send(FLIGHT);
+    expect(a.status).toBe(201);
+    const b = await send({ ...FLIGHT, fuelBurnKg: 61_000 });
+    expect(b.status).toBe(409);
+    expect(b.body.error.code).toBe('conflict');
+    expect(b.body.error.message).toContain('order-77');
+    expect(b.body.error.idempotencyKey).toBe('order-77');
+    // Same body with its keys in another order is the same request: the first result comes back.
+    const reordered = Object.fromEntries(Object.entries(FLIGHT).reverse());
+    const c = await send(reordered);
+    expect(c.status).toBe(200);
+    expect(c.body.id).toBe(a.body.id);
+    expect(await db()('screenings').where({ workspace_id: ws.id }).count({ n: '*' }).first()).toMatchObject({ n: 1 });
+    expect(await db()('usage_events').where({ workspace_id: ws.id }).count({ n: '*' }).first()).toMatchObject({ n: 1 });
+  });
+
   it('an aircraft type of the workspace supplies emission and Mach', async () => {
     const ws = await makeWorkspace();
     const now = new Date().toISOString();

@@ -152,6 +152,7 @@ export function createSubscription(ctx: ApiContext, params: Params): FakeSubscri
     'description',
     'cancel_at_period_end',
     'currency',
+    'backdate_start_date',
   ]);
   const collection = params.str('collection_method');
   if (collection && collection !== 'charge_automatically') {
@@ -185,10 +186,13 @@ export function createSubscription(ctx: ApiContext, params: Params): FakeSubscri
     trialEnd = t;
   }
 
+  // A backdated start bills the span from it to now at once, as one period closed at creation (no proration).
+  const backdate = params.int('backdate_start_date', { min: 0, max: ctx.now - 1 });
+  if (backdate !== undefined && trialEnd !== null) throw invalidRequest('backdate_start_date cannot be combined with a trial.', 'backdate_start_date');
   const id = newId('sub');
   const first = requests[0].price.recurring;
-  const periodEnd = trialEnd ?? addInterval(ctx.now, first?.interval ?? 'month', first?.interval_count ?? 1);
-  const period = { start: ctx.now, end: periodEnd };
+  const periodEnd = trialEnd ?? (backdate !== undefined ? ctx.now : addInterval(ctx.now, first?.interval ?? 'month', first?.interval_count ?? 1));
+  const period = { start: backdate ?? ctx.now, end: periodEnd };
   const items = requests.map((r) => buildItem(id, r, ctx.now, period));
   checkItems(items);
 
@@ -238,7 +242,7 @@ export function createSubscription(ctx: ApiContext, params: Params): FakeSubscri
     pending_setup_intent: null,
     pending_update: null,
     schedule: null,
-    start_date: ctx.now,
+    start_date: backdate ?? ctx.now,
     status: trialEnd ? 'trialing' : 'active',
     test_clock: null,
     transfer_data: null,
@@ -248,6 +252,13 @@ export function createSubscription(ctx: ApiContext, params: Params): FakeSubscri
   };
   ctx.store.insert('subscription', sub, {});
   ctx.emit('customer.subscription.created', sub);
+  if (backdate !== undefined) {
+    const before = clone(sub);
+    closePeriodInPlace(ctx, sub, false, backdate);
+    // The created event carries the backdated period; this one the current period it rolled into.
+    ctx.emit('customer.subscription.updated', sub, previousAttributes(before, sub));
+    return requireSubscription(ctx, id);
+  }
   return sub;
 }
 

@@ -178,6 +178,15 @@ describe('provisioning at start-up', () => {
     expect(subs.data).toHaveLength(1);
     expect(subs.data[0].status).toBe('active');
     expect(subs.data[0].items.data.map((i) => i.price.lookup_key).sort()).toEqual([PLANS.fleet.baseLookupKey, PLANS.fleet.meteredLookupKey].sort());
+    // Started a month back, so one invoice (the month's base fee) is issued and paid at once: the
+    // billing page has an invoice and its PDF to show from the first start.
+    const invoices = await h.sdk.invoices.list({ customer: customers[0].id });
+    expect(invoices.data).toHaveLength(1);
+    expect(invoices.data[0]).toMatchObject({ status: 'paid', amount_due: PLANS.fleet.baseFeeCents });
+    expect(invoices.data[0].invoice_pdf).toBeTruthy();
+    // The current period starts now, and usage from before provisioning is not metered.
+    expect(Date.parse(b!.meteredSince!)).toBeGreaterThan(Date.now() - 60_000);
+    expect(Date.parse(b!.currentPeriodStart!)).toBeGreaterThan(Date.now() - 60_000);
   });
 
   it('a trial workspace gets a customer but no subscription', async () => {

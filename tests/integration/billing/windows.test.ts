@@ -42,7 +42,7 @@ describe('usage period', () => {
   const base: BillingDto = {
     workspaceId: 1, planId: 'crew', status: 'trialing', trialEndsAt: null, customerId: null, subscriptionId: null, currentPeriodStart: null,
     currentPeriodEnd: null, cancelAtPeriodEnd: false, billingEmail: null, paymentMethodLabel: null, meteredSince: null, paymentFailedAt: null,
-    reconciliation: null, updatedAt: '2026-12-01T00:00:00.000Z',
+    reconciliation: null, usageBudgetCents: null, budgetHardStop: false, updatedAt: '2026-12-01T00:00:00.000Z',
   };
   it('is the subscription period when there is one', () => {
     expect(usagePeriod({ ...base, currentPeriodStart: '2026-11-03T08:00:00.000Z', currentPeriodEnd: '2026-12-03T08:00:00.000Z' })).toEqual({

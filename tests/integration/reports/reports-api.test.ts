@@ -109,7 +109,7 @@ describe('reports: build, store, list', () => {
     expect(text).toContain(formatMass(900 + 800 + 500 + 520, 'metric'));
     expect(text).toContain(formatMass(1000, 'metric'));
     expect(text).toContain(formatMass((60000 + 52000 + 40000 + 42000) * 3.16, 'metric'));
-    expect(text).toContain(`Flights screened ${formatNumber(4)}`);
+    expect(text).toContain(`Imported flights screened ${formatNumber(4)}`);
     expect(text).toMatch(/not a certified emissions inventory and not a regulatory method/);
     expect(text).toMatch(/gross catalytic loss/);
     expect(text).toMatch(/approved methods and the applicable regulation/);

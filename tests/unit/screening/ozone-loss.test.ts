@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { isa, rateConstant } from '@/lib/screening';
+import { isa } from '@/lib/screening';
 import {
   AFGL_ALTITUDE_KM,
   AFGL_O3_PPMV,

@@ -3,8 +3,6 @@ import {
   ENGINE_VERSION,
   ScreeningInputError,
   climatologicalTropopause,
-  climatologicalTropopauseM,
-  climatologicalTropopauseForDayM,
   isa,
   pressureAltitudeM,
   screenFlight,

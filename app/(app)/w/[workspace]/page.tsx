@@ -6,6 +6,7 @@ import { ButtonLink } from '@/components/ui/button';
 import { can } from '@/lib/auth/policy';
 import { formatMass, formatNumber, formatPercent } from '@/lib/format';
 import { monthBounds } from '@/lib/clock';
+import { COUNT_HINTS, COUNT_LABELS } from '@/lib/counts';
 
 export default async function OverviewPage({ params }: { params: Promise<{ workspace: string }> }) {
   const { workspace: slug } = await params;
@@ -19,22 +20,28 @@ export default async function OverviewPage({ params }: { params: Promise<{ works
     <>
       <PageHeader
         title={workspace.name}
-        lead={`This month (${from} to ${to}): flights screened and the NOx they put above the tropopause.`}
+        lead={`This month (${from} to ${to}): saved screenings, imported flights screened, and the NOx they put above the tropopause.`}
         actions={can(role, 'screenings:create') ? <ButtonLink href={`/w/${slug}/screen`}>Screen a flight</ButtonLink> : undefined}
       />
-      <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
-        <Stat label="Flights screened" value={formatNumber(s?.flightsScreened ?? 0)} />
+      <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-5">
+        <Stat label={COUNT_LABELS.savedScreenings} value={<span data-testid="count-saved-screenings">{formatNumber(s?.savedScreenings ?? 0)}</span>} sub={COUNT_HINTS.savedScreenings} />
+        <Stat
+          label={COUNT_LABELS.importedFlightsScreened}
+          value={<span data-testid="count-imported-flights">{formatNumber(s?.importedFlightsScreened ?? 0)}</span>}
+          sub={COUNT_HINTS.importedFlightsScreened}
+        />
         <Stat label="NOx emitted" value={formatMass(s?.noxTotalKg ?? 0, user.units)} sub="as NO2" />
         <Stat label="NOx above tropopause" value={formatMass(s?.noxAboveKg ?? 0, user.units)} sub="as NO2" tone="strato" />
         <Stat label="Share above" value={formatPercent(share, 1)} tone="strato" />
       </div>
       <Card title="Trend, last six months" className="mt-6">
         <table className="w-full text-sm">
-          <caption className="sr-only">Screened flights and NOx by month</caption>
+          <caption className="sr-only">Saved screenings, imported flights screened and their NOx by month</caption>
           <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
             <tr>
               <th className="py-2">Month</th>
-              <th className="py-2 text-right">Flights</th>
+              <th className="py-2 text-right">{COUNT_LABELS.savedScreenings}</th>
+              <th className="py-2 text-right">{COUNT_LABELS.importedFlightsScreened}</th>
               <th className="py-2 text-right">NOx emitted</th>
               <th className="py-2 text-right">NOx above tropopause</th>
               <th className="py-2 text-right">Share above</th>
@@ -48,7 +55,8 @@ export default async function OverviewPage({ params }: { params: Promise<{ works
             {trend.map((t) => (
               <tr key={t.month} className="border-t border-line">
                 <td className="py-1.5">{t.month}</td>
-                <td className="figure py-1.5 text-right">{formatNumber(t.flights)}</td>
+                <td className="figure py-1.5 text-right">{formatNumber(t.savedScreenings)}</td>
+                <td className="figure py-1.5 text-right">{formatNumber(t.importedFlightsScreened)}</td>
                 <td className="figure py-1.5 text-right">{formatMass(t.noxTotalKg, user.units)}</td>
                 <td className="figure py-1.5 text-right">{formatMass(t.noxAboveKg, user.units)}</td>
                 <td className="figure py-1.5 text-right">{t.noxTotalKg > 0 ? formatPercent(t.noxAboveKg / t.noxTotalKg, 1) : '–'}</td>

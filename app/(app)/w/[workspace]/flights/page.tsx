@@ -12,6 +12,7 @@ import { Field, SelectInput, TextInput } from '@/components/ui/field';
 import { ScreeningCaution } from '@/components/ui/notice';
 import { FlightsTable } from '@/components/flights/flights-table';
 import { FilterActions } from '@/components/ui/filter-actions';
+import { COUNT_LABELS } from '@/lib/counts';
 
 export const metadata = { title: 'Flights' };
 
@@ -138,7 +139,7 @@ export default async function FlightsPage({ params, searchParams }: { params: Pr
         <>
           <div className="mb-6 grid gap-3 sm:grid-cols-2 lg:grid-cols-3 xl:grid-cols-6">
             <Stat
-              label="Flights screened"
+              label={COUNT_LABELS.importedFlightsScreened}
               value={formatNumber(totals.screened)}
               sub={totals.pending || totals.failed ? `${formatNumber(totals.pending)} waiting · ${formatNumber(totals.failed)} not screened` : `of ${formatNumber(totals.flights)}`}
             />

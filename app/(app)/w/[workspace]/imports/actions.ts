@@ -2,6 +2,7 @@
 
 import { revalidatePath } from 'next/cache';
 import { deleteImport } from '@/db/imports';
+import { rescreenImport } from '@/lib/imports/rescreen';
 import { noInput, workspaceRowAction } from '@/lib/actions/workspace-action';
 
 /** Deletes an import and its flights; units already billed stay in the ledger. */
@@ -11,5 +12,14 @@ export const deleteImportAction = workspaceRowAction('imports:delete', noInput, 
   revalidatePath(`/w/${ctx.slug}/flights`);
   return {
     message: `Import #${r.id} (${r.fileName}) and its ${r.flightsDeleted} flights were deleted. ${r.billedUnitsKept} unit${r.billedUnitsKept === 1 ? '' : 's'} already billed stay billed.`,
+  };
+});
+
+/** Queues a re-screen of an import's flights with the current engine (in the background, not billed). */
+export const rescreenImportAction = workspaceRowAction('imports:create', noInput, async (ctx, id) => {
+  const imp = await rescreenImport({ workspaceId: ctx.workspace.id }, id, { userId: ctx.user.id, label: ctx.user.email });
+  revalidatePath(`/w/${ctx.slug}/imports`);
+  return {
+    message: `Import #${imp.id}: ${imp.rescreen?.rows ?? 0} flights are being screened again with engine version ${imp.rescreen?.engineVersion ?? ''}; not billed again.`,
   };
 });

@@ -11,7 +11,8 @@ import { Notice } from '@/components/ui/notice';
 import { FormatReference, FormatSummary } from '@/components/imports/format-guide';
 import { UploadForm } from '@/components/imports/upload-form';
 import { ImportList } from '@/components/imports/import-list';
-import { deleteImportAction } from './actions';
+import { deleteImportAction, rescreenImportAction } from './actions';
+import { ENGINE_VERSION } from '@/lib/screening';
 
 export const metadata = { title: 'Imports' };
 
@@ -57,7 +58,15 @@ export default async function ImportsPage({ params }: { params: Promise<{ worksp
           </EmptyState>
         ) : (
           <>
-            <ImportList slug={slug} imports={imports.items} canDelete={canDelete} onDelete={deleteImportAction.bind(null, slug)} />
+            <ImportList
+              slug={slug}
+              imports={imports.items}
+              canDelete={canDelete}
+              onDelete={deleteImportAction.bind(null, slug)}
+              canRescreen={canUpload}
+              onRescreen={rescreenImportAction.bind(null, slug)}
+              currentEngineVersion={ENGINE_VERSION}
+            />
             {imports.nextCursor ? <p className="mt-2 text-xs text-ink-soft">Showing the 50 newest imports; older ones stay listed in the Import filter of Flights.</p> : null}
             {canDelete ? (
               <p className="mt-2 text-xs text-ink-soft">Deleting an import removes its flights. Units already billed for flights it screened stay billed.</p>

@@ -14,6 +14,11 @@ import { HistoryTable, type HistoryRow } from '@/components/screening/history-ta
 import { CardSkeleton } from '@/components/screening/skeletons';
 import type { UnitSystem } from '@/lib/validation/screen-form';
 import { FilterActions } from '@/components/ui/filter-actions';
+import Link from 'next/link';
+import { countImportedFlightsScreened } from '@/db/portfolio';
+import { COUNT_LABELS } from '@/lib/counts';
+import { ENGINE_VERSION } from '@/lib/screening';
+import { formatNumber } from '@/lib/format';
 
 export const metadata = { title: 'Screenings' };
 
@@ -154,6 +159,7 @@ async function HistoryResults({
     .filter((c) => /^\d{1,12}$/.test(c) || c === '0')
     .slice(-50);
   const page = await listScreenings({ workspaceId }, { cursor, limit: PAGE_SIZE, filters });
+  const imported = page.items.length === 0 ? await countImportedFlightsScreened({ workspaceId }) : 0;
   const filtered = Object.keys(filters).length > 0;
 
   const link = (patch: Record<string, string | undefined>) => {
@@ -183,6 +189,7 @@ async function HistoryResults({
     distanceKm: s.distanceKm,
     noxAboveTropopauseKg: s.noxAboveTropopauseKg,
     fractionAboveTropopause: s.fractionAboveTropopause,
+    olderEngineVersion: s.engineVersion !== ENGINE_VERSION ? s.engineVersion : null,
     ozoneCentralKg: s.ozoneLoss.centralKg,
   }));
 
@@ -195,12 +202,23 @@ async function HistoryResults({
           </EmptyState>
         ) : (
           <EmptyState
-            title="No screenings yet"
+            title={`No ${COUNT_LABELS.savedScreenings.toLowerCase()} yet`}
             action={canScreen ? <ButtonLink href={`/w/${slug}/screen`}>Screen a flight</ButtonLink> : undefined}
           >
             {canScreen
-              ? 'Screen a flight first: its figures are kept here once you save it.'
-              : 'Nothing has been screened in this workspace yet. A planner or analyst screens flights; they appear here once saved.'}
+              ? 'Screen a flight and save it: its figures are kept here.'
+              : 'No flight has been screened and saved one at a time here yet. A planner or analyst saves screenings; they appear here.'}
+            {imported > 0 ? (
+              <span data-testid="imported-flights-elsewhere">
+                {' '}
+                This list holds {COUNT_LABELS.savedScreenings.toLowerCase()} only; the workspace&apos;s {formatNumber(imported)}{' '}
+                {COUNT_LABELS.importedFlightsScreened.toLowerCase()} are under{' '}
+                <Link className="underline" href={`/w/${slug}/flights`}>
+                  Flights
+                </Link>
+                .
+              </span>
+            ) : null}
           </EmptyState>
         )
       ) : (

@@ -14,6 +14,7 @@ import { ReportSendForm } from '@/components/reports/send-form';
 import { DeleteButton } from '@/components/ui/delete-button';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 import { deleteReportAction, sendReportAction } from '../actions';
+import { COUNT_LABELS } from '@/lib/counts';
 
 export const metadata = { title: 'Fleet report' };
 
@@ -53,7 +54,7 @@ export default async function ReportPage({ params }: { params: Promise<{ workspa
         }
       />
       <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
-        <Stat label="Flights screened" value={formatNumber(t.flights)} sub={formatDistance(t.distanceKm, u)} />
+        <Stat label={COUNT_LABELS.importedFlightsScreened} value={formatNumber(t.flights)} sub={formatDistance(t.distanceKm, u)} />
         <Stat label="NOx emitted" value={formatMass(t.noxTotalKg, u)} sub={`as NO2 · fuel ${formatMass(t.fuelKg, u)}`} />
         <Stat label="NOx above tropopause" value={formatMass(t.noxAboveKg, u)} sub={`${share(t)} of NOx`} tone="strato" />
         <Stat label="Ozone-loss figure (gross)" value={formatMass(t.ozone.centralKg, u)} sub={formatMassRange(t.ozone.lowKg, t.ozone.highKg, u)} tone="strato" />

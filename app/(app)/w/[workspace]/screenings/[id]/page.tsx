@@ -3,8 +3,9 @@ import Form from 'next/form';
 import { notFound } from 'next/navigation';
 import { requireMember } from '@/lib/auth/guards';
 import { can } from '@/lib/auth/policy';
-import { getScreening, routeLabel } from '@/db/screenings';
+import { getScreening, listRescreensOf, routeLabel } from '@/db/screenings';
 import {
+  ENGINE_VERSION,
   compareValidated,
   inputAsScreened,
   DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT,
@@ -36,6 +37,9 @@ import { monthsFor, uncertaintyFor } from '@/lib/screenings/uncertainty-view';
 import type { ScreeningResult } from '@/lib/screening';
 import type { ScreeningInput } from '@/lib/validation/screening';
 import type { UnitSystem } from '@/lib/validation/screen-form';
+import { RescreenButton } from '@/components/screening/rescreen-button';
+import Link from 'next/link';
+import { rescreenScreeningAction } from './actions';
 
 export const metadata = { title: 'Screening result' };
 
@@ -85,6 +89,9 @@ export default async function ScreeningResultPage({ params, searchParams }: { pa
     throw err;
   }
   const { input, result } = record;
+  const rescreens = await listRescreensOf({ workspaceId: workspace.id }, record.id);
+  const outdated = record.engineVersion !== ENGINE_VERSION;
+  const current = rescreens.find((r) => r.engineVersion === ENGINE_VERSION);
   const units = user.units;
   const bands = uncertaintyFor(input, result);
   const series = profileSeries(result.segments, units);
@@ -117,6 +124,36 @@ export default async function ScreeningResultPage({ params, searchParams }: { pa
         }
       />
       <div className="space-y-6">
+        {outdated ? (
+          <div data-testid="engine-version-notice">
+            <Notice tone="caution" title={`Made with an older engine version (${record.engineVersion})`}>
+              <p>
+                These figures were saved with engine version {record.engineVersion}; the current method is {ENGINE_VERSION}. They stay as saved.{' '}
+                {current ? (
+                  <>
+                    It has been screened again with the current method:{' '}
+                    <Link className="underline" href={`/w/${slug}/screenings/${current.id}`}>
+                      screening #{current.id}
+                    </Link>
+                    .
+                  </>
+                ) : can(role, 'screenings:create') ? (
+                  'Screening it again with the current method makes a new screening beside this one; it is not billed again.'
+                ) : null}
+              </p>
+              {!current && can(role, 'screenings:create') ? <RescreenButton slug={slug} onRescreen={rescreenScreeningAction.bind(null, slug, record.id)} /> : null}
+            </Notice>
+          </div>
+        ) : null}
+        {record.rescreenOf !== null ? (
+          <p className="text-sm text-ink-soft">
+            Screened again with engine version {record.engineVersion} from{' '}
+            <Link className="underline" href={`/w/${slug}/screenings/${record.rescreenOf}`}>
+              screening #{record.rescreenOf}
+            </Link>
+            ; not billed again.
+          </p>
+        ) : null}
         <ScreeningCautions cautions={result.cautions} />
         <HeadlineFigures result={result} units={units} bands={bands} />
         <Suspense fallback={<CardSkeleton label="the spread and the months" />}>
@@ -131,7 +168,7 @@ export default async function ScreeningResultPage({ params, searchParams }: { pa
           </Card>
         </div>
         <Suspense fallback={<CardSkeleton label="the other cruise levels" />}>
-          <WhatIfSection input={inputAsScreened(input, result.flightPlan)} search={search} units={units} engineVersion={result.engineVersion} />
+          <WhatIfSection input={inputAsScreened(input, result.flightPlan)} search={search} units={units} engineVersion={record.engineVersion} />
         </Suspense>
         <Card title="Segments">
           <div id="segments">

@@ -5,8 +5,10 @@ import { z } from 'zod';
 import { changePlan, payOpenInvoices, setCancelAtPeriodEnd, setPaymentCard, subscribeWorkspace, updateBillingEmail } from '@/lib/billing/service';
 import { PLANS } from '@/lib/billing/plans';
 import { TEST_CARDS } from '@/lib/billing/cards';
-import { billingEmailSchema, cardChoiceSchema, planChoiceSchema, subscribeSchema } from '@/lib/validation/billing';
+import { billingEmailSchema, cardChoiceSchema, planChoiceSchema, subscribeSchema, usageBudgetSchema } from '@/lib/validation/billing';
 import { noInput, workspaceAction, type WorkspaceActionContext } from '@/lib/actions/workspace-action';
+import { setUsageBudget } from '@/lib/billing/budget';
+import { formatUsd } from '@/lib/billing/plans';
 
 const page = (slug: string) => `/w/${slug}/settings/billing`;
 
@@ -51,4 +53,16 @@ export const updateBillingEmailAction = workspaceAction('billing:manage', billin
   await updateBillingEmail(ctx.workspace, actorOf(ctx), email);
   revalidatePath(page(ctx.slug));
   return { message: email ? `Billing e-mail set to ${email}.` : 'Billing e-mail cleared; owners and finance admins still hear about payment problems.' };
+});
+
+/** Sets or clears the monthly usage budget and its hard stop. */
+export const setUsageBudgetAction = workspaceAction('billing:manage', usageBudgetSchema, async (ctx, input) => {
+  const s = await setUsageBudget({ workspaceId: ctx.workspace.id }, actorOf(ctx), input);
+  revalidatePath(page(ctx.slug));
+  return {
+    message:
+      s.budgetCents === null
+        ? 'Usage budget cleared.'
+        : `Usage budget set to ${formatUsd(s.budgetCents)} a billing period${s.hardStop ? ', with a hard stop' : ''}. Alerts go to the billing contacts at 80 % and 100 %.`,
+  };
 });

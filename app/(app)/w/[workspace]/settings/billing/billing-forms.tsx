@@ -13,7 +13,7 @@ import { PLANS, PLAN_IDS, breakEvenUnits, type PlanId } from '@/lib/billing/plan
 import type { ActionState } from '@/lib/errors';
 import { formatMoney } from '@/lib/format';
 import { billingEmailSchema, cardChoiceSchema, subscribeSchema, type BillingEmailInput, type CardChoiceInput, type SubscribeInput } from '@/lib/validation/billing';
-import { cancelAtPeriodEndAction, changePlanAction, payOpenInvoicesAction, setCardAction, subscribeAction, updateBillingEmailAction } from './actions';
+import { cancelAtPeriodEndAction, changePlanAction, payOpenInvoicesAction, setCardAction, setUsageBudgetAction, subscribeAction, updateBillingEmailAction } from './actions';
 
 type Message = { tone: 'success' | 'danger'; text: string } | undefined;
 
@@ -241,6 +241,51 @@ export function BillingEmailForm({ slug, billingEmail }: { slug: string; billing
       </Field>
       <Button type="submit" variant="secondary" disabled={isSubmitting}>
         Save e-mail
+      </Button>
+    </form>
+  );
+}
+
+/** The monthly usage budget in dollars (empty for none) and whether reaching it stops new billable work. */
+export function UsageBudgetForm({ slug, budgetCents, hardStop }: { slug: string; budgetCents: number | null; hardStop: boolean }) {
+  const [message, setMessage] = useState<Message>();
+  const [amount, setAmount] = useState(budgetCents === null ? '' : (budgetCents / 100).toFixed(2));
+  const [stop, setStop] = useState(hardStop);
+  const [error, setError] = useState<string>();
+  const [pending, start] = useTransition();
+  const after = useAfterAction(slug);
+  return (
+    <form
+      noValidate
+      className="space-y-4"
+      onSubmit={(e) => {
+        e.preventDefault();
+        setMessage(undefined);
+        setError(undefined);
+        const text = amount.trim().replace(/^\$/, '').replace(/,/g, '');
+        const dollars = text === '' ? null : Number(text);
+        if (dollars !== null && (!Number.isFinite(dollars) || dollars < 0)) {
+          setError('Give the budget in dollars, such as 2500 or 2500.00, or leave it empty for no budget.');
+          return;
+        }
+        start(async () => {
+          const state = await setUsageBudgetAction(slug, { budgetCents: dollars === null ? null : Math.round(dollars * 100), hardStop: stop });
+          if (state && !state.ok) setError(state.error.fields?.[0]?.message ?? state.error.message);
+          setMessage(messageOf(state));
+          await after();
+        });
+      }}
+    >
+      <Result message={message} />
+      <Field id="usage-budget" label="Monthly usage budget (USD)" hint="Per-flight charges of one billing period, before the monthly fee. Leave empty for no budget." error={error}>
+        <TextInput id="usage-budget" inputMode="decimal" value={amount} invalid={!!error} onChange={(e) => setAmount(e.target.value)} />
+      </Field>
+      <label className="flex items-start gap-2 text-sm text-ink">
+        <input type="checkbox" className="mt-0.5 accent-accent" checked={stop} onChange={(e) => setStop(e.target.checked)} />
+        <span>Hard stop: refuse new screenings and imports that would pass the budget (they answer “payment required” until the next period or a higher budget).</span>
+      </label>
+      <Button type="submit" variant="secondary" disabled={pending}>
+        {pending ? 'Saving…' : 'Save budget'}
       </Button>
     </form>
   );

@@ -8,7 +8,7 @@ import { PLANS } from '@/lib/billing/plans';
 import { Card, PageHeader } from '@/components/ui/card';
 import { Notice } from '@/components/ui/notice';
 import { formatDate, formatMoney } from '@/lib/format';
-import { BillingEmailForm, CancelResume, ChangePlanForm, PaymentCardForm, SubscribeForm } from './billing-forms';
+import { BillingEmailForm, CancelResume, ChangePlanForm, PaymentCardForm, SubscribeForm, UsageBudgetForm } from './billing-forms';
 import { InvoiceList } from './invoice-list';
 import { UsageMeter } from './usage-meter';
 
@@ -178,6 +178,12 @@ export default async function BillingPage({ params }: { params: Promise<{ worksp
                     that and can be changed here at any time.
                   </p>
                 )}
+              </Card>
+              <Card title="Usage budget">
+                <UsageBudgetForm slug={slug} budgetCents={billing.usageBudgetCents} hardStop={billing.budgetHardStop} />
+                <p className="mt-4 text-xs text-ink-soft">
+                  The billing contacts get an e-mail when this period&apos;s usage reaches 80 % and again at 100 % of the budget, once each a period. A free trial has no budget: nothing in it is charged.
+                </p>
               </Card>
               <Card title="Billing contacts">
                 <BillingEmailForm slug={slug} billingEmail={billing.billingEmail} />

@@ -4,6 +4,7 @@ import { useQuery } from '@tanstack/react-query';
 import type { UsageSummary } from '@/lib/billing/usage-summary';
 import { Stat } from '@/components/ui/card';
 import { formatDate, formatDateTime, formatMoney, formatNumber } from '@/lib/format';
+import { COUNT_HINTS, COUNT_LABELS } from '@/lib/counts';
 
 const POLL_MS = 5_000;
 
@@ -73,7 +74,7 @@ export function UsageMeter({ slug, initial }: { slug: string; initial: UsageSumm
         Period {formatDate(usage.periodStart)} to {formatDate(usage.periodEnd)}
       </p>
       <div className="grid gap-3 sm:grid-cols-2">
-        <Stat label="Screened flights" value={<span data-testid="usage-units">{formatNumber(usage.units)}</span>} sub="saved screenings and screened imported flights" />
+        <Stat label={COUNT_LABELS.billableUnits} value={<span data-testid="usage-units">{formatNumber(usage.units)}</span>} sub={COUNT_HINTS.billableUnits} />
         <Stat label="Estimated charge" value={<span data-testid="usage-estimate">{formatMoney(usage.estimatedChargeCents)}</span>} sub={estimateSub} />
       </div>
       {usage.units > 0 && !usage.freePeriod ? (

@@ -2,15 +2,18 @@ import { json, workspaceRoute } from '@/lib/api/route';
 import { listImports } from '@/db/imports';
 import { acceptScheduleUpload, readUploadedFile } from '@/lib/imports/schedule-service';
 import { importListQuerySchema } from '@/lib/validation/imports';
-import { fromZod } from '@/lib/errors';
+import { fromZod, invalidFields } from '@/lib/errors';
 
 /**
  * Uploads a flight-schedule CSV (multipart, field `file`). 202 with the queued import once every row
  * is good; 422 `{ error, problems: { line, column, message }[] }` and nothing saved otherwise.
  */
 export const POST = workspaceRoute<{ slug: string }>('imports:create', async ({ req, member, userId, actorLabel }) => {
+  const dry = new URL(req.url).searchParams.get('dryRun');
+  if (dry !== null && dry !== '1' && dry !== 'true' && dry !== '0' && dry !== 'false') throw invalidFields([{ path: 'dryRun', message: 'dryRun is 1 (check and estimate only) or 0.' }]);
+  const dryRun = dry === '1' || dry === 'true';
   const file = await readUploadedFile(req);
-  const outcome = await acceptScheduleUpload({ workspaceId: member.workspace.id }, { userId, label: actorLabel }, file);
+  const outcome = await acceptScheduleUpload({ workspaceId: member.workspace.id }, { userId, label: actorLabel }, file, { dryRun });
   if (!outcome.accepted) {
     const rows = new Set(outcome.problems.map((p) => p.line)).size;
     const listed = outcome.problemCount > outcome.problems.length ? ` The first ${outcome.problems.length} of ${outcome.problemCount} problems are listed.` : '';
@@ -26,6 +29,9 @@ export const POST = workspaceRoute<{ slug: string }>('imports:create', async ({ 
       },
       422,
     );
+  }
+  if ('dryRun' in outcome) {
+    return json({ dryRun: true, rows: outcome.rows, ...outcome.estimate, warnings: outcome.warnings });
   }
   return json(outcome.import, 202, { location: `/api/v1/workspaces/${member.workspace.slug}/imports/${outcome.import.id}` });
 });

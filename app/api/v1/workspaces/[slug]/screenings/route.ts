@@ -4,6 +4,8 @@ import { parseScreeningBody, runScreening } from '@/lib/screenings/service';
 import { screeningListQuerySchema } from '@/lib/validation/screening-api';
 import { fromZod, invalidFields } from '@/lib/errors';
 import { z } from 'zod';
+import { bodyFingerprint } from '@/lib/api/fingerprint';
+import { checkBudgetAlerts } from '@/lib/billing/budget';
 
 /** Screens and saves one flight: 201 `{ id, name, createdAt, input, result }`, one billable unit. */
 export const POST = workspaceRoute<{ slug: string }>('screenings:create', async ({ req, member, principal }) => {
@@ -22,8 +24,10 @@ export const POST = workspaceRoute<{ slug: string }>('screenings:create', async 
       createdBy: principal.kind === 'user' ? principal.user.id : null,
       apiKeyId: principal.kind === 'key' ? principal.key.keyId : null,
       idempotencyKey: key,
+      idempotencyFingerprint: key ? bodyFingerprint(raw) : null,
     },
   );
+  if (!replayed) await checkBudgetAlerts({ workspaceId: member.workspace.id });
   const body = { id: record.id, name: record.name, createdAt: record.createdAt, aircraft: record.aircraftCode, input: record.input, result: record.result };
   return json(body, replayed ? 200 : 201, replayed ? { 'idempotent-replayed': 'true' } : undefined);
 });
