@@ -1,5 +1,8 @@
 /** @type {import('next').NextConfig} */
 const nextConfig = {
+  // Benchmarks build into their own directory (TROPOPASS_DIST_DIR) so a demo or test server serving
+  // `.next` from the same checkout never loses its chunks to a rebuild.
+  distDir: process.env.TROPOPASS_DIST_DIR || '.next',
   serverExternalPackages: ['knex', 'better-sqlite3', '@node-rs/argon2', 'pino', 'nodemailer', 'pdf-lib'],
   poweredByHeader: false,
   reactStrictMode: true,
