@@ -213,17 +213,49 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
   modesRef.current = modes;
   const previewError = preview.error instanceof ApiProblem ? preview.error : preview.error ? new ApiProblem('The preview could not be worked out. Check your connection and try again.', 0, []) : null;
   const [previewGeneral, setPreviewGeneral] = useState<string | null>(null);
+
+  // A server error belongs to the input it was computed from: each placed error remembers that
+  // input, and goes as soon as the input differs (a new preview places it again if it still holds).
+  const saveKey = JSON.stringify(body);
+  const placed = useRef<{ preview: { input: string | null; paths: string[] } | null; save: { input: string; paths: string[] } | null }>({ preview: null, save: null });
+  const placeServerErrors = (fields: { path: string; message: string }[], where: Parameters<typeof formPathFor>[1]): { paths: string[]; unplaced: string[] } => {
+    const paths: string[] = [];
+    const unplaced: string[] = [];
+    for (const f of fields) {
+      const path = formPathFor(f.path, where);
+      if (path && isFormPath(path)) {
+        form.setError(path as Path<ScreenFormValues>, { type: 'server', message: f.message });
+        paths.push(path);
+      } else unplaced.push(f.message);
+    }
+    return { paths, unplaced };
+  };
+  const clearServerErrors = (paths: string[]) => {
+    for (const path of paths) {
+      if (form.getFieldState(path as Path<ScreenFormValues>).error?.type === 'server') form.clearErrors(path as Path<ScreenFormValues>);
+    }
+  };
+  useEffect(() => {
+    const p = placed.current;
+    if (p.preview && p.preview.input !== payload) {
+      clearServerErrors(p.preview.paths);
+      p.preview = null;
+      setPreviewGeneral(null);
+    }
+    if (p.save && p.save.input !== saveKey) {
+      clearServerErrors(p.save.paths);
+      p.save = null;
+      setSaveError(null);
+    }
+  });
+
   useEffect(() => {
     if (!previewError) {
       setPreviewGeneral(null);
       return;
     }
-    const unplaced: string[] = [];
-    for (const f of previewError.fields) {
-      const path = formPathFor(f.path, modesRef.current);
-      if (path && isFormPath(path)) form.setError(path as Path<ScreenFormValues>, { type: 'server', message: f.message });
-      else unplaced.push(f.message);
-    }
+    const { paths, unplaced } = placeServerErrors(previewError.fields, modesRef.current);
+    placed.current.preview = { input: settled, paths };
     setPreviewGeneral(previewError.fields.length && !unplaced.length ? null : [previewError.message, ...unplaced].join(' '));
     // Placed once per failed request: the error object changes exactly then.
   }, [preview.error]);
@@ -254,12 +286,8 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
       return;
     }
     const problem = await readProblem(res);
-    const unplaced: string[] = [];
-    for (const f of problem.fields) {
-      const path = formPathFor(f.path, v);
-      if (path && isFormPath(path)) form.setError(path as Path<ScreenFormValues>, { type: 'server', message: f.message });
-      else unplaced.push(f.message);
-    }
+    const { paths, unplaced } = placeServerErrors(problem.fields, v);
+    placed.current.save = { input: json, paths };
     setSaveError(problem.fields.length && !unplaced.length ? 'Some fields need attention: see the messages beside them.' : [problem.message, ...unplaced].join(' '));
   });
 
