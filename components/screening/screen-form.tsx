@@ -407,7 +407,7 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
                 Add a point
               </Button>
               <div className="space-y-2 rounded-md border border-dashed border-line-strong p-3">
-                <Field id="points-paste" label="Or paste a list of points" hint='One point per line, latitude first: "51.47 -0.45", "51.47,-0.45" or "51.47N 0.45W".'>
+                <Field id="points-paste" label="Or paste a list of points" hint={'One point per line, latitude first: "51.47 -0.45", "51.47N 0.45W", "6012N01105E", "60 12.5N 011 05.3E" or 60°12\'30"N 11°05\'45"E.'}>
                   <TextArea id="points-paste" rows={4} value={pasteText} onChange={(e) => setPasteText(e.target.value)} className="font-mono" />
                 </Field>
                 {pasteProblems.length ? (
