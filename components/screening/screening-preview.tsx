@@ -10,6 +10,7 @@ import { HeadlineFigures } from './headline-figures';
 import { WhatIfTable } from './what-if-table';
 import { ScreeningCautions } from './cautions';
 import { profileSeries } from './profile-series';
+import { fuelWarningOf } from '@/lib/validation/plausibility';
 
 export interface PreviewResponse {
   input: unknown;
@@ -67,6 +68,11 @@ export function ScreeningPreview({ units, data, waitingFor, fetching, stale, err
         ) : null}
         {data ? (
           <div className={`space-y-4 transition-opacity ${fetching || stale || waitingFor.length ? 'opacity-60' : ''}`} data-testid="preview-figures">
+            {fuelWarningOf(data.result) ? (
+              <Notice tone="caution" title="Check the fuel">
+                {fuelWarningOf(data.result)}
+              </Notice>
+            ) : null}
             <HeadlineFigures result={data.result} units={units} compact />
             <VerticalProfileChart series={profileSeries(data.result.segments, units)} label="Preview of the cruise altitude and tropopause" height={220} />
             <div>

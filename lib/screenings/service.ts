@@ -12,6 +12,7 @@ import {
 } from '@/lib/screening';
 import { getAircraftForScreening } from '@/db/aircraft-lookup';
 import { badRequest, invalidFields, type FieldProblem } from '@/lib/errors';
+import { checkFuelPlausibility } from '@/lib/validation/plausibility';
 
 /** Fields a saved screening carries beside the engine input (the input plus an optional name). */
 const extrasSchema = z.object({
@@ -67,10 +68,22 @@ export async function parseScreeningBody(raw: unknown, scope: { workspaceId: num
   return { name: extras.success ? extras.data.name : undefined, aircraftCode, input, whatIf: extras.success ? extras.data.whatIf : undefined };
 }
 
-/** Screens an input `parseScreeningBody` validated; airports unknown to the data still come back as 422. */
-export function runScreening(input: ScreeningInput): ScreeningResult {
-  return screenValidated(input);
+/**
+ * Screens an input `parseScreeningBody` validated; airports unknown to the data still come back as
+ * 422. Fuel against distance is checked on the screened route (lib/validation/plausibility.ts): an
+ * impossible burn is a 422 on `fuelBurnKg`; an unusual one is the first caution of the result, so it
+ * is shown with the preview and kept with a saved screening.
+ */
+export function runScreening(input: ScreeningInput, aircraftCode: string | null = null): ScreeningResult {
+  const result = screenValidated(input);
+  const engine = 'engine' in input.emission ? { fuelFlowKgS: input.emission.engine.fuelFlowKgS, engineCount: input.emission.engineCount } : null;
+  const mach = input.mach ?? ('engine' in input.emission ? input.emission.mach : undefined);
+  const p = checkFuelPlausibility({ distanceKm: result.distanceKm, fuelKg: result.fuelKg, engine, mach, aircraftCode });
+  if (p.level === 'impossible') throw invalidFields([{ path: 'fuelBurnKg', message: p.message }]);
+  if (p.level === 'unusual') return { ...result, cautions: [p.message, ...result.cautions] };
+  return result;
 }
+
 
 /**
  * The what-if levels of an input `parseScreeningBody` validated; `planned` is that input's own
