@@ -2,6 +2,7 @@ import 'server-only';
 import { z } from 'zod';
 import {
   compareValidated,
+  routeDistanceKm,
   screenValidated,
   ScreeningInputError,
   validateScreeningInput,
@@ -13,6 +14,7 @@ import {
 import { getAircraftForScreening } from '@/db/aircraft-lookup';
 import { badRequest, invalidFields, type FieldProblem } from '@/lib/errors';
 import { checkFuelPlausibility } from '@/lib/validation/plausibility';
+import type { Waypoint } from '@/lib/validation/screening';
 
 /** Fields a saved screening carries beside the engine input (the input plus an optional name). */
 const extrasSchema = z.object({
@@ -31,6 +33,41 @@ export interface ParsedScreeningBody {
   aircraftCode: string | null;
   input: ScreeningInput;
   whatIf?: unknown;
+}
+
+/**
+ * Step climbs placed at a waypoint (`{ atWaypoint, flightLevel }`, the waypoint's index in the route)
+ * become `{ fromKm, flightLevel }`: fromKm is the distance along the route to that waypoint, measured
+ * as the engine measures the route. Before validation, so the engine sees only distances.
+ */
+function placeStepsAtWaypoints(raw: Record<string, unknown>, problems: FieldProblem[]): void {
+  const cruise = raw.cruise;
+  if (typeof cruise !== 'object' || cruise === null || !('steps' in cruise) || !Array.isArray(cruise.steps)) return;
+  const route = raw.route;
+  const waypoints = typeof route === 'object' && route !== null && 'waypoints' in route && Array.isArray(route.waypoints) ? (route.waypoints as Waypoint[]) : null;
+  const steps: unknown[] = cruise.steps;
+  raw.cruise = {
+    ...cruise,
+    steps: steps.map((step, i) => {
+      if (typeof step !== 'object' || step === null || !('atWaypoint' in step)) return step;
+      const { atWaypoint, ...rest } = step as { atWaypoint: unknown };
+      const path = `cruise.steps.${i}.atWaypoint`;
+      if (!waypoints) {
+        problems.push({ path, message: 'A step at a waypoint needs a route given as waypoints.' });
+        return rest;
+      }
+      if (typeof atWaypoint !== 'number' || !Number.isInteger(atWaypoint) || atWaypoint < 1 || atWaypoint > waypoints.length - 1) {
+        problems.push({ path, message: `atWaypoint must be a waypoint number from 1 to ${waypoints.length - 1} (0 is the departure).` });
+        return rest;
+      }
+      try {
+        return { ...rest, fromKm: Math.round(routeDistanceKm(waypoints.slice(0, atWaypoint + 1)) * 1000) / 1000 };
+      } catch {
+        problems.push({ path, message: 'The route up to this waypoint could not be measured: check its waypoints.' });
+        return rest;
+      }
+    }),
+  };
 }
 
 /**
@@ -57,6 +94,7 @@ export async function parseScreeningBody(raw: unknown, scope: { workspaceId: num
       if (engineRaw.mach === undefined) engineRaw.mach = type.typicalMach;
     }
   }
+  placeStepsAtWaypoints(engineRaw, problems);
   let input: ScreeningInput | undefined;
   try {
     input = validateScreeningInput(engineRaw);

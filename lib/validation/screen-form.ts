@@ -40,8 +40,11 @@ export interface ScreenFormValues {
   points: { lat: string; lon: string }[];
   cruiseMode: (typeof CRUISE_MODES)[number];
   flightLevel: string;
-  /** `from` is km along the route (metric) or NM (imperial); the first row is always 0. */
-  steps: { from: string; flightLevel: string }[];
+  /**
+   * `from` is km along the route (metric) or NM (imperial); the first row is always 0. `at`, when
+   * set, places the step at that waypoint (its index in the route) instead of at a distance.
+   */
+  steps: { from: string; flightLevel: string; at?: string }[];
   /** Cruise fuel in kg (metric) or lb (imperial). */
   fuelBurn: string;
   emissionMode: (typeof EMISSION_MODES)[number];
@@ -100,8 +103,15 @@ export interface ScreenFormContext {
   soundings: { id: number; levels: SoundingLevelInput[] }[];
 }
 
+/** A step climb as the endpoints accept it: at a distance, or at a waypoint (its index in the route). */
+export type StepBody = { fromKm: number; flightLevel: number } | { atWaypoint: number; flightLevel: number };
+
 /** The body the preview and save endpoints accept: the engine input plus our extras. */
-export type ScreeningRequestBody = Partial<ScreeningInputRaw> & { aircraft?: string; name?: string };
+export type ScreeningRequestBody = Omit<Partial<ScreeningInputRaw>, 'cruise'> & {
+  cruise?: { flightLevel: number } | { steps: StepBody[] };
+  aircraft?: string;
+  name?: string;
+};
 
 export interface FormProblem {
   path: string;
@@ -456,8 +466,10 @@ export function buildScreeningBody(values: ScreenFormValues, ctx: ScreenFormCont
     body.cruise = { flightLevel: need('flightLevel', values.flightLevel, 'a flight level') ?? Number.NaN };
   } else {
     body.cruise = {
-      steps: values.steps.map((s, i) => {
+      steps: values.steps.map((s, i): StepBody => {
         let fromKm = 0;
+        const at = i > 0 && s.at ? Number(s.at) : null;
+        if (at !== null) return { atWaypoint: at, flightLevel: need(`steps.${i}.flightLevel`, s.flightLevel, 'a flight level') ?? Number.NaN };
         if (i > 0) {
           const from = need(`steps.${i}.from`, s.from, `where this step climb starts, in ${u.distance} from departure`);
           if (from !== undefined && (from < 0 || from > u.stepMax)) add(`steps.${i}.from`, `A step must start between 0 and ${plain(u.stepMax)} ${u.distance} along the route.`);
@@ -568,7 +580,22 @@ const engineInputWithoutEmission = screeningInputSchema.omit({ emission: true })
 export function screenFormProblems(values: ScreenFormValues, ctx: ScreenFormContext): { body: ScreeningRequestBody; problems: FormProblem[] } {
   const { body, problems } = buildScreeningBody(values, ctx);
   const seen = new Set(problems.map((p) => p.path));
-  const { aircraft: _aircraft, name: _name, ...engine } = body;
+  const { aircraft: _aircraft, name: _name, ...requested } = body;
+  // A step at a waypoint gets its distance on the server (the route's airports are resolved there);
+  // here it stands just after the step before it, so the other checks still run.
+  let previousKm = 0;
+  const engine = {
+    ...requested,
+    cruise:
+      requested.cruise && 'steps' in requested.cruise
+        ? {
+            steps: requested.cruise.steps.map((st) => {
+              previousKm = 'atWaypoint' in st ? previousKm + 0.001 : st.fromKm;
+              return { fromKm: previousKm, flightLevel: st.flightLevel };
+            }),
+          }
+        : requested.cruise,
+  };
   const checked = engine.emission === undefined ? engineInputWithoutEmission.safeParse(engine) : screeningInputSchema.safeParse(engine);
   if (!checked.success) {
     for (const issue of checked.error.issues) {
@@ -593,7 +620,7 @@ const screenFormShape = z.object({
   points: z.array(z.object({ lat: z.string(), lon: z.string() })),
   cruiseMode: z.enum(CRUISE_MODES),
   flightLevel: z.string(),
-  steps: z.array(z.object({ from: z.string(), flightLevel: z.string() })),
+  steps: z.array(z.object({ from: z.string(), flightLevel: z.string(), at: z.string().optional() })),
   fuelBurn: z.string(),
   emissionMode: z.enum(EMISSION_MODES),
   aircraft: z.string(),

@@ -129,6 +129,26 @@ describe('parseWaypointList', () => {
   });
 });
 
+describe('step climbs at a waypoint', () => {
+  it('a step placed at a stop goes to the server as atWaypoint, and the form finds nothing wrong with it', () => {
+    const v = filled({
+      airports: [{ code: 'EGLL' }, { code: 'BIKF' }, { code: 'PANC' }],
+      cruiseMode: 'steps',
+      steps: [
+        { from: '0', flightLevel: '350' },
+        { from: '', flightLevel: '370', at: '1' },
+        { from: '', flightLevel: '390', at: '' },
+      ],
+    });
+    const { body, problems } = screenFormProblems(v, ctx());
+    expect(problems.map((p) => p.path)).toContain('steps.2.from');
+    expect(problems.filter((p) => p.path.startsWith('steps.1'))).toEqual([]);
+    expect(body.cruise).toEqual({ steps: [{ fromKm: 0, flightLevel: 350 }, { atWaypoint: 1, flightLevel: 370 }, { fromKm: Number.NaN, flightLevel: 390 }] });
+    const fixed = screenFormProblems({ ...v, steps: [v.steps[0], v.steps[1], { from: '6000', flightLevel: '390' }] }, ctx());
+    expect(fixed.problems).toEqual([]);
+  });
+});
+
 describe('buildScreeningBody', () => {
   it('a complete metric form becomes a valid engine input with the aircraft emission and method', () => {
     const { body, problems } = buildScreeningBody(filled({ method: 'dlr' }), ctx());
