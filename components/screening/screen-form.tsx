@@ -21,7 +21,7 @@ import type { ScreeningInputRaw, SoundingLevelInput } from '@/lib/validation/scr
 import { Field, SelectInput, TextArea, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
-import { formatAltitude, formatNumber } from '@/lib/format';
+import { formatAltitude, formatMass, formatNumber, formatPercent } from '@/lib/format';
 import { AirportCombobox } from './airport-combobox';
 import { AssumptionFields } from './assumption-fields';
 import { ScreeningPreview, type PreviewResponse } from './screening-preview';
@@ -140,6 +140,40 @@ function FieldProblem({ message }: { message?: string }) {
     <p role="alert" className="text-xs font-medium text-danger">
       {message}
     </p>
+  );
+}
+
+/**
+ * Below the two-column width the preview sits under the form: this bar keeps its headline figures in
+ * view at the bottom of the screen while the form is edited, with a link down to the whole preview.
+ */
+function PreviewSummary({ units, data, status }: { units: UnitSystem; data: PreviewResponse | undefined; status: string }) {
+  const r = data?.result;
+  return (
+    <div role="region" aria-label="Preview summary" className="sticky bottom-0 z-20 -mx-1 rounded-t-md border border-line bg-paper-raised/95 px-3 py-2 shadow-lg backdrop-blur xl:hidden" data-testid="preview-summary">
+      <div className="flex flex-wrap items-center gap-x-4 gap-y-1 text-sm">
+        <span className="text-xs font-medium text-ink-soft">{status}</span>
+        {r ? (
+          <dl className="figure flex flex-wrap gap-x-4 gap-y-0.5">
+            <div className="flex gap-1">
+              <dt className="text-ink-soft">NOx above tropopause</dt>
+              <dd className="font-semibold text-strato-strong">{formatMass(r.noxAboveTropopauseKg, units)}</dd>
+            </div>
+            <div className="flex gap-1">
+              <dt className="text-ink-soft">Share above</dt>
+              <dd className="font-semibold">{formatPercent(r.fractionAboveTropopause, 1)}</dd>
+            </div>
+            <div className="flex gap-1">
+              <dt className="text-ink-soft">Ozone figure</dt>
+              <dd className="font-semibold">{formatMass(r.ozoneLoss.centralKg, units)}</dd>
+            </div>
+          </dl>
+        ) : null}
+        <a href="#preview" className="ml-auto text-sm font-medium text-accent-strong underline">
+          Whole preview
+        </a>
+      </div>
+    </div>
   );
 }
 
@@ -321,6 +355,11 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
     setRouteNote(`${route.name}: ${route.waypoints.length} points${route.notes ? `. ${route.notes}` : ''}`);
   };
 
+  // Waypoints a step climb may start at: the route's intermediate points (index in the route).
+  const stepWaypoints =
+    values.routeMode === 'airports'
+      ? values.airports.slice(1, -1).map((a, k) => ({ index: k + 1, label: `${a.code.trim().toUpperCase() || `Stop ${k + 1}`} (stop ${k + 1})` }))
+      : values.points.slice(1, -1).map((p, k) => ({ index: k + 1, label: `Point ${k + 2}${p.lat && p.lon ? ` (${p.lat}, ${p.lon})` : ''}` }));
   const selectedAircraft = aircraft.find((a) => a.code === values.aircraft);
   const showMethod = values.emissionMode === 'engine' || (values.emissionMode === 'aircraft' && !!selectedAircraft?.emission && 'engine' in selectedAircraft.emission);
   const selectedSounding = soundings.find((s) => String(s.id) === values.soundingId);
@@ -389,10 +428,10 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
             <div className="space-y-3">
               {points.fields.map((f, i) => (
                 <div key={f.id} className="flex items-start gap-2" data-testid="point-row">
-                  <Field id={`points-${i}-lat`} label={`Point ${i + 1} latitude`} error={errorAt(`points.${i}.lat`)} className="flex-1">
+                  <Field id={`points-${i}-lat`} label={`Point ${i + 1} latitude`} error={errorAt(`points.${i}.lat`)} className="min-w-0 flex-1">
                     <TextInput id={`points-${i}-lat`} inputMode="decimal" placeholder="51.47" invalid={!!errorAt(`points.${i}.lat`)} {...register(`points.${i}.lat`)} />
                   </Field>
-                  <Field id={`points-${i}-lon`} label="longitude" error={errorAt(`points.${i}.lon`)} className="flex-1">
+                  <Field id={`points-${i}-lon`} label="longitude" error={errorAt(`points.${i}.lon`)} className="min-w-0 flex-1">
                     <TextInput id={`points-${i}-lon`} inputMode="decimal" placeholder="-0.45" invalid={!!errorAt(`points.${i}.lon`)} {...register(`points.${i}.lon`)} />
                   </Field>
                   {points.fields.length > 2 ? (
@@ -449,17 +488,31 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
               {steps.fields.map((f, i) => (
                 <div key={f.id} className="flex items-start gap-2" data-testid="step-row">
                   {i === 0 ? (
-                    <div className="flex-1 space-y-1">
+                    <div className="min-w-0 flex-1 space-y-1">
                       <span className="block text-sm font-medium text-ink">From</span>
                       <p className="py-2 text-sm text-ink-soft">departure (0 {u.distance})</p>
                     </div>
                   ) : (
-                    <Field id={`steps-${i}-from`} label={`Step ${i} starts at (${u.distance})`}
-                      hint={`Distance from departure in ${u.distance}.`} error={errorAt(`steps.${i}.from`)} className="flex-1">
-                      <TextInput id={`steps-${i}-from`} inputMode="decimal" invalid={!!errorAt(`steps.${i}.from`)} {...register(`steps.${i}.from`)} />
-                    </Field>
+                    <div className="min-w-0 flex-1 space-y-2">
+                      <Field id={`steps-${i}-from`} label={`Step ${i} starts at (${u.distance})`}
+                        hint={values.steps[i]?.at ? 'Placed at the waypoint below.' : `Distance from departure in ${u.distance}.`} error={errorAt(`steps.${i}.from`)}>
+                        <TextInput id={`steps-${i}-from`} inputMode="decimal" disabled={!!values.steps[i]?.at} invalid={!!errorAt(`steps.${i}.from`)} {...register(`steps.${i}.from`)} />
+                      </Field>
+                      {stepWaypoints.length ? (
+                        <Field id={`steps-${i}-at`} label={`or step ${i} at a waypoint`}>
+                          <SelectInput id={`steps-${i}-at`} {...register(`steps.${i}.at`)}>
+                            <option value="">No: at the distance above</option>
+                            {stepWaypoints.map((w) => (
+                              <option key={w.index} value={w.index}>
+                                {w.label}
+                              </option>
+                            ))}
+                          </SelectInput>
+                        </Field>
+                      ) : null}
+                    </div>
                   )}
-                  <Field id={`steps-${i}-flightLevel`} label={i === 0 ? 'Initial flight level' : `Step ${i} flight level`} error={errorAt(`steps.${i}.flightLevel`)} className="flex-1">
+                  <Field id={`steps-${i}-flightLevel`} label={i === 0 ? 'Initial flight level' : `Step ${i} flight level`} error={errorAt(`steps.${i}.flightLevel`)} className="min-w-0 flex-1">
                     <TextInput id={`steps-${i}-flightLevel`} inputMode="numeric" invalid={!!errorAt(`steps.${i}.flightLevel`)} {...register(`steps.${i}.flightLevel`)} />
                   </Field>
                   {i > 0 ? (
@@ -467,7 +520,7 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
                       Remove
                     </Button>
                   ) : (
-                    <span className="w-[74px]" aria-hidden />
+                    <span className="hidden w-[74px] shrink-0 sm:block" aria-hidden />
                   )}
                 </div>
               ))}
@@ -477,7 +530,7 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
                 onClick={() => {
                   const last = values.steps[values.steps.length - 1];
                   const fl = Number(last?.flightLevel);
-                  steps.append({ from: '', flightLevel: Number.isFinite(fl) ? String(Math.min(660, fl + 20)) : '' });
+                  steps.append({ from: '', flightLevel: Number.isFinite(fl) ? String(Math.min(660, fl + 20)) : '', at: '' });
                 }}
                 disabled={steps.fields.length >= 50}
               >
@@ -676,8 +729,13 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
             <p className="text-xs text-ink-soft">Saving counts one screened flight towards this month&apos;s usage.</p>
           </div>
         </Section>
+        <PreviewSummary
+          units={units}
+          data={preview.data}
+          status={waitingFor.length ? 'Waiting for complete input' : previewGeneral ? 'Preview not updated' : preview.isFetching || payload !== settled ? 'Updating…' : preview.data ? 'Up to date' : 'Preview'}
+        />
       </form>
-      <div className="xl:sticky xl:top-4 xl:self-start">
+      <div id="preview" className="scroll-mt-4 xl:sticky xl:top-4 xl:self-start">
         <ScreeningPreview
           units={units}
           data={preview.data}

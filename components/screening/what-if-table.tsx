@@ -56,7 +56,12 @@ export function WhatIfTable({
                 className={`border-t border-line ${r.lowestImpact ? 'bg-tropo-soft font-medium' : ''} ${r.withinLimit ? '' : 'text-ink-faint'}`}
               >
                 <th scope="row" className="py-2 pr-3 text-left font-medium">
-                  <span className="whitespace-nowrap">{levelsLabel(r)}</span>
+                  {/* Step climbs list several levels: each stays whole, the row wraps between them. */}
+                  {r.flightLevels.map((fl, i) => (
+                    <span key={i} className="whitespace-nowrap">
+                      {i ? ' → ' : ''}FL{fl}{' '}
+                    </span>
+                  ))}
                   {r.lowestImpact ? badge : null}
                   {compact ? (
                     <span className="block text-xs font-normal text-ink-faint">

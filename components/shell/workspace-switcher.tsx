@@ -8,7 +8,7 @@ export function WorkspaceSwitcher({ current, options }: { current: string; optio
   const router = useRouter();
   const pathname = usePathname();
   return (
-    <label className="flex items-center gap-2 text-sm">
+    <label className="flex min-w-0 items-center gap-2 text-sm">
       <span className="sr-only">Workspace</span>
       <select
         value={current}
@@ -16,7 +16,7 @@ export function WorkspaceSwitcher({ current, options }: { current: string; optio
           const to = options.find((o) => o.slug === e.target.value);
           router.push(to ? switchWorkspacePath(pathname, to.slug, to.role) : '/workspaces');
         }}
-        className="rounded-md border border-line-strong bg-paper-raised px-2 py-1.5 text-sm"
+        className="w-full min-w-0 max-w-xs truncate rounded-md border border-line-strong bg-paper-raised px-2 py-1.5 text-sm sm:w-auto"
       >
         {options.map((o) => (
           <option key={o.slug} value={o.slug}>
