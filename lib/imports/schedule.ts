@@ -50,6 +50,8 @@ export interface PreparedFlight {
   mach: number | undefined;
   /** Shared by every row of an aircraft type: 100 000 rows must fit in the server's memory. */
   emission: ScreeningInput['emission'];
+  /** Set when the fuel is unusual (not impossible) for the distance: kept with the flight. */
+  fuelWarning?: string | null;
 }
 
 /** The screening input of a prepared flight: its great-circle route, cruise, fuel, emission, Mach and date. */
@@ -216,6 +218,7 @@ function checkRow(
       cruise: input.cruise,
       mach: input.mach,
       emission,
+      fuelWarning: warning?.message ?? null,
     },
   };
 }

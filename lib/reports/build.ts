@@ -1,5 +1,5 @@
 import 'server-only';
-import { listEngineVersions, listFleets } from '@/db/fleets';
+import { listEngineVersions, listFleets, listFuelWarnings } from '@/db/fleets';
 import { createReport, type ReportRecord } from '@/db/reports';
 import type { UnitSystem } from '@/db/users';
 import { compareFleets, resolvePeriod, toFlightFilters } from '@/lib/fleets/compare';
@@ -74,10 +74,11 @@ export async function buildFleetReport(
 
   const period = resolvePeriod({ from: input.from, to: input.to });
   const query = { from: period.from, to: period.to, groupBy: 'month' as const, fleets: input.fleetIds };
-  const [monthly, perFleet, engineVersions] = await Promise.all([
+  const [monthly, perFleet, engineVersions, fuelWarnings] = await Promise.all([
     compareFleets(scope, query),
     compareFleets(scope, { ...query, groupBy: 'fleet' }),
     listEngineVersions(scope, toFlightFilters(query, period)),
+    listFuelWarnings(scope, toFlightFilters(query, period)),
   ]);
   const title = input.name?.trim() || `Fleet report ${period.from} to ${period.to}`;
   const summary: ReportSummary = {
@@ -98,6 +99,7 @@ export async function buildFleetReport(
     context: perFleet.context,
     notes: perFleet.notes,
     cautions: perFleet.cautions,
+    fuelWarnings,
   };
   const [pdf, csv] = [await renderReportPdf(summary, reportMethodText()), reportCsv(summary)];
   return createReport(scope, { name: title, summary, fleetIds: fleets.map((f) => f.id), pdf, csv, createdBy: input.createdBy, actor: input.actor });

@@ -491,6 +491,24 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
     { strong: new Set([ozoneRows.length - 1]) },
   );
 
+  const warned = s.fuelWarnings;
+  if (warned && warned.count > 0) {
+    w.heading('Flights with unusual fuel');
+    w.paragraph(
+      `${formatNumber(warned.count)} of the ${formatNumber(t.flights)} flights in this report have a fuel burn that is unusual for their distance (accepted at import with a warning; check them before relying on their figures)${warned.count > warned.items.length ? `; the first ${warned.items.length} are listed` : ''}.`,
+      { size: 8.5, color: INK_SOFT },
+    );
+    w.table(
+      [
+        { label: 'Date', width: 60 },
+        { label: 'Flight', width: 60 },
+        { label: 'Route', width: 70 },
+        { label: 'Warning', width: 309 },
+      ],
+      warned.items.map((f) => [f.date, f.flight, `${f.origin}-${f.destination}`, f.warning]),
+    );
+  }
+
   w.heading('By month', 240);
   const maxMonthly = Math.max(0, ...s.series.flatMap((x) => x.noxAboveKg));
   const axis = massAxisUnit(maxMonthly, units);

@@ -3,6 +3,11 @@ import { apiRequest, call, makeWorkspace, sessionCookie, useTestDatabase } from 
 import * as screeningsRoute from '@/app/api/v1/workspaces/[slug]/screenings/route';
 import * as previewRoute from '@/app/api/v1/workspaces/[slug]/screenings/preview/route';
 import * as importsRoute from '@/app/api/v1/workspaces/[slug]/imports/route';
+import * as flightsRoute from '@/app/api/v1/workspaces/[slug]/flights/route';
+import * as reportsRoute from '@/app/api/v1/workspaces/[slug]/reports/route';
+import * as reportPdfRoute from '@/app/api/v1/workspaces/[slug]/reports/[id]/pdf/route';
+import { runImportsToCompletion } from '@/lib/imports/worker';
+import { PDFParse } from 'pdf-parse';
 import { db } from '@/db/client';
 import { HEADER, addScheduleLibrary, csv, uploadRequest } from '../imports/support';
 
@@ -90,5 +95,40 @@ describe('fuel against distance', () => {
     expect(ok.body.problems).toEqual([expect.objectContaining({ line: 3, column: 'fuel_kg', message: expect.stringMatching(/^Unusual fuel: 4,000 kg .* for T-LR/) })]);
     const stored = await db()('import_problems').where({ import_id: ok.body.id, column: 'fuel_kg' });
     expect(stored.map((p) => p.line)).toEqual([3]);
+  });
+
+  it('an imported flight with unusual fuel keeps its warning: in the flights list and in a report that includes it', async () => {
+    const ws = await makeWorkspace(['analyst']);
+    const lib = await addScheduleLibrary(ws.id);
+    const cookie = await sessionCookie(ws.members.analyst.id);
+    const up = await call<{ id: number }>(
+      importsRoute.POST,
+      uploadRequest(ws.slug, csv(HEADER, '2026-11-03,TP1,EFHK,RJAA,T-LR,370,52400', '2026-11-04,TP3,EGLL,EHAM,T-LR,350,4000'), { cookie }),
+      { slug: ws.slug },
+    );
+    expect(up.status).toBe(202);
+    await runImportsToCompletion();
+    const list = await call<{ items: { flight: string; fuelWarning: string | null }[] }>(flightsRoute.GET, apiRequest('GET', `/api/v1/workspaces/${ws.slug}/flights?import=${up.body.id}`, { cookie }), { slug: ws.slug });
+    const byFlight = Object.fromEntries(list.body.items.map((f) => [f.flight, f.fuelWarning]));
+    expect(byFlight.TP1).toBeNull();
+    expect(byFlight.TP3).toMatch(/^Unusual fuel: 4,000 kg/);
+
+    const report = await call<{ id: number; summary: { fuelWarnings?: { count: number } } }>(
+      reportsRoute.POST,
+      apiRequest('POST', `/api/v1/workspaces/${ws.slug}/reports`, { cookie, body: { name: 'November', from: '2026-11-01', to: '2026-11-20', fleetIds: [lib.longHaulFleetId] } }),
+      { slug: ws.slug },
+    );
+    expect(report.status).toBe(201);
+    expect(report.body.summary.fuelWarnings?.count).toBe(1);
+    const res = await (reportPdfRoute.GET as unknown as (q: Request, c: { params: Promise<Record<string, string>> }) => Promise<Response>)(
+      apiRequest('GET', `/api/v1/workspaces/${ws.slug}/reports/${report.body.id}/pdf`, { cookie }),
+      { params: Promise.resolve({ slug: ws.slug, id: String(report.body.id) }) },
+    );
+    const parser = new PDFParse({ data: new Uint8Array(await res.arrayBuffer()) });
+    const text = (await parser.getText()).text.replace(/\s+/g, ' ');
+    await parser.destroy();
+    expect(text).toContain('Flights with unusual fuel');
+    expect(text).toMatch(/1 of the 2 flights in this report have a fuel burn that is unusual/);
+    expect(text).toContain('EGLL-EHAM');
   });
 });
