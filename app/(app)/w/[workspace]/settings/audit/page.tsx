@@ -19,7 +19,7 @@ export default async function AuditPage({ params }: { params: Promise<{ workspac
         <Card>
           {/* Long details (JSON without spaces) wrap inside their cell; on a phone the table scrolls in its frame. */}
           <ScrollRegion label="Audit log">
-          <table className="w-full min-w-[640px] table-fixed text-sm">
+          <table className="w-full min-w-[900px] table-fixed text-sm">
             <colgroup>
               <col className="w-40" />
               <col className="w-48" />
