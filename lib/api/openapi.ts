@@ -62,7 +62,7 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   },
   '/workspaces/{slug}/screenings': {
     post: {
-      summary: 'Screen and save one flight (one billable unit). Body: the screenFlight input plus optional name and aircraft (a type code of the workspace that supplies emission and Mach when absent). Idempotency-Key header supported.',
+      summary: 'Screen and save one flight (one billable unit). Body: the screenFlight input plus optional name and aircraft (a type code of the workspace that supplies emission and Mach when absent). A step climb may be { atWaypoint, flightLevel } (the index in route.waypoints) instead of { fromKm, flightLevel }; it is saved as the distance to that waypoint. Fuel far outside a physical band per km for the route is a 422 on fuelBurnKg; unusual fuel is the first of the result\'s cautions. Idempotency-Key header supported.',
       permission: 'screenings:create',
       requestBody: screeningInputSchema,
       responses: { '201': '{ id, name, createdAt, input, result }', '200': 'Idempotent replay of the first result', '402': 'Billing blocks new screenings' },
@@ -76,7 +76,7 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
     get: { summary: 'One saved screening as a download: CSV (headline figures, then one row per segment) or JSON { id, name, createdAt, input, result }', permission: 'flights:read', query: { format: 'csv (default) or json' }, responses: { '200': 'Attachment (text/csv or application/json)' } },
   },
   '/workspaces/{slug}/screenings/preview': {
-    post: { summary: 'Screen without saving (not billed, throttled), with the what-if cruise levels; optional whatIf options', permission: 'screenings:create', requestBody: screeningInputSchema, responses: { '200': '{ input, result, levels }' } },
+    post: { summary: 'Screen without saving (not billed, throttled), with the what-if cruise levels; optional whatIf options; steps at a waypoint and the fuel-per-km check as for saving', permission: 'screenings:create', requestBody: screeningInputSchema, responses: { '200': '{ input, result, levels }' } },
   },
   '/workspaces/{slug}/imports': {
     post: {
