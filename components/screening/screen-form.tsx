@@ -285,6 +285,9 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
 
   useEffect(() => {
     if (!previewError) {
+      // No error for the current input (answered, or still being worked out): none from an earlier one stays.
+      if (placed.current.preview) clearServerErrors(placed.current.preview.paths);
+      placed.current.preview = null;
       setPreviewGeneral(null);
       return;
     }

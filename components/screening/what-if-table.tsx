@@ -31,7 +31,9 @@ export function WhatIfTable({
   compact?: boolean;
 }) {
   const best = rows.find((r) => r.lowestImpact);
-  const badge = <span className="ml-2 whitespace-nowrap rounded bg-tropo-strong px-1.5 py-0.5 text-[11px] font-semibold uppercase tracking-wide text-white">lowest impact</span>;
+  const badge = (
+    <span className={`${compact ? 'mt-0.5 block w-fit' : 'ml-2'} whitespace-nowrap rounded bg-tropo-strong px-1.5 py-0.5 text-[11px] font-semibold uppercase tracking-wide text-white`}>lowest impact</span>
+  );
   return (
     <div>
       <ScrollRegion label="Other cruise levels">
@@ -74,8 +76,8 @@ export function WhatIfTable({
                 {compact ? null : <td className="whitespace-nowrap py-2 pr-3 text-right">{formatMass(r.fuelKg, units)}</td>}
                 <td className="whitespace-nowrap py-2 pr-3 text-right">{formatNumber(r.fuelPenaltyPct, 1)} %</td>
                 <td className="whitespace-nowrap py-2 pr-3 text-right">{formatMass(r.noxAboveTropopauseKg, units)}</td>
-                <td className="whitespace-nowrap py-2 pr-3 text-right">
-                  {formatMass(r.ozoneLoss.centralKg, units)}
+                <td className="py-2 pr-3 text-right">
+                  <span className="whitespace-nowrap">{formatMass(r.ozoneLoss.centralKg, units)}</span>
                   <span className="block text-xs font-normal text-ink-faint">
                     {formatMassRange(r.ozoneLoss.lowKg, r.ozoneLoss.highKg, units)}
                   </span>

@@ -601,6 +601,9 @@ export function screenFormProblems(values: ScreenFormValues, ctx: ScreenFormCont
     for (const issue of checked.error.issues) {
       const path = formPathFor(issue.path.map(String).join('.'), values);
       if (path === null || seen.has(path)) continue;
+      // The whole-cruise message adds nothing when a step's own field already says what is wrong (and
+      // would stay behind once that field is fixed, since only the edited field is validated again).
+      if (path === 'steps' && problems.some((p) => p.path.startsWith('steps.'))) continue;
       if (path === 'fuelBurn' || path === 'tropopauseAltitude' || /^steps\.\d+\.from$/.test(path)) {
         if (issue.code === 'too_small' || issue.code === 'too_big' || issue.code === 'invalid_type') continue;
       }

@@ -272,6 +272,35 @@ describe('accessibility and CSP on the main pages', () => {
     }
   });
 
+  it('at 1366 px the preview of a step-climb flight shows every column of Other cruise levels; a step can start at a stop', async () => {
+    const { page, context } = await newPage(browser(), { width: 1366, height: 900 });
+    await signIn(page, 'planner@tropopass.test');
+    await page.goto('/w/skarn-polar/screen');
+    await page.getByRole('heading', { level: 1 }).first().waitFor();
+    await page.getByRole('combobox', { name: 'From' }).fill('EGLL');
+    await page.getByRole('button', { name: 'Add a stop' }).click();
+    await page.getByRole('combobox', { name: 'Stop 1' }).fill('BIKF');
+    await page.getByRole('combobox', { name: 'To', exact: true }).fill('PANC');
+    await page.getByLabel('Aircraft type', { exact: true }).selectOption('SK-LR1');
+    await page.getByLabel('Cruise fuel burn (kg)').fill('52000');
+    await page.getByText('Step climbs', { exact: true }).click();
+    await page.getByLabel('Initial flight level').fill('350');
+    await page.getByLabel('Step 1 flight level').fill('370');
+    await page.getByLabel('or step 1 at a waypoint').selectOption({ label: 'BIKF (stop 1)' });
+    await page.getByRole('button', { name: 'Add a step climb' }).click();
+    await page.getByLabel('Step 2 starts at (km)').fill('5500');
+    await page.getByLabel('Step 2 flight level').fill('390');
+    await page.getByTestId('preview-status').filter({ hasText: 'Up to date' }).waitFor({ timeout: 20_000 });
+    const region = page.getByRole('region', { name: 'Other cruise levels' });
+    await region.waitFor();
+    await screenshot(page, 'preview-step-climbs-1366');
+    expect(await region.evaluate((el) => el.scrollWidth - el.clientWidth)).toBeLessThanOrEqual(1);
+    expect(await page.getByTestId('what-if-table').textContent()).toMatch(/FL350\s*→ FL370\s*→ FL390/);
+    // Nothing is wrong with this input, so no error is left beside the steps.
+    expect(await page.locator('[data-testid="step-rows"] [role="alert"]').count()).toBe(0);
+    await context.close();
+  });
+
   it('a finance admin and a read-only member see their own screens without serious findings', async () => {
     const findings: string[] = [];
     for (const [email, pages] of [
