@@ -1,5 +1,8 @@
 /** @type {import('next').NextConfig} */
 const nextConfig = {
+  // Benchmarks build into their own directory (TROPOPASS_DIST_DIR) so a demo or test server serving
+  // `.next` from the same checkout never loses its chunks to a rebuild.
+  distDir: process.env.TROPOPASS_DIST_DIR || '.next',
   // The payment SDK stays one module instance: bundled into several server chunks, its error classes
   // differ between chunks and `instanceof` misses a declined card or an unknown invoice (500s).
   serverExternalPackages: ['knex', 'better-sqlite3', '@node-rs/argon2', 'pino', 'nodemailer', 'pdf-lib', 'piscina', 'stripe'],

@@ -289,3 +289,21 @@ export async function countFlightsByEngineVersion(scope: { workspaceId: number }
   return rows.map((r) => ({ engineVersion: String(r.v), flights: Number(r.n) }));
 }
 
+/** Flights of the selection whose fuel was unusual for their distance: how many, and the first few. */
+export async function listFuelWarnings(
+  scope: { workspaceId: number },
+  filters: FlightFilters,
+  limit = 25,
+): Promise<{ count: number; items: { date: string; flight: string; origin: string; destination: string; warning: string }[] }> {
+  const base = () => applyFilters(flightsWithFleet(db(), scope.workspaceId), filters).whereNotNull('fl.fuel_warning').andWhere('fl.status', 'screened');
+  const [counted, rows] = await Promise.all([
+    base().count({ n: '*' }).first() as Promise<{ n: number | string } | undefined>,
+    base().select('fl.date', 'fl.flight', 'fl.origin', 'fl.destination', 'fl.fuel_warning').orderBy([{ column: 'fl.date' }, { column: 'fl.id' }]).limit(limit) as Promise<Row[]>,
+  ]);
+  return {
+    count: Number(counted?.n ?? 0),
+    items: rows.map((r) => ({ date: String(r.date), flight: String(r.flight), origin: String(r.origin), destination: String(r.destination), warning: String(r.fuel_warning) })),
+  };
+}
+
+

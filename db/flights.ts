@@ -28,6 +28,8 @@ export interface FlightDto {
   ozoneLoss: { centralKg: number; lowKg: number; highKg: number } | null;
   screenedAt: string | null;
   engineVersion: string | null;
+  /** The import's warning when the fuel is unusual for the distance, else null. */
+  fuelWarning: string | null;
 }
 
 export type FlightFilters = Omit<FlightListQuery, 'cursor' | 'limit'>;
@@ -60,6 +62,7 @@ function toDto(r: Row): FlightDto {
     ozoneLoss: screened ? { centralKg: Number(r.ozone_central_kg), lowKg: Number(r.ozone_low_kg), highKg: Number(r.ozone_high_kg) } : null,
     screenedAt: (r.screened_at as string | null) ?? null,
     engineVersion: (r.engine_version as string | null) ?? null,
+    fuelWarning: (r.fuel_warning as string | null) ?? null,
   };
 }
 

@@ -52,7 +52,7 @@ type Row = Record<string, unknown>;
 
 /** 16 bindings a row: 1500 rows stay under SQLite's 32 766 and PostgreSQL's 65 535 bound parameters. */
 const FLIGHT_BATCH = 1500;
-const FLIGHT_COLUMNS = ['workspace_id', 'import_id', 'date', 'flight', 'origin', 'destination', 'aircraft_type_id', 'aircraft_code', 'fleet_id', 'cruise_fl', 'max_fl', 'input_json', 'status', 'fuel_kg', 'source_line', 'created_at'] as const;
+const FLIGHT_COLUMNS = ['workspace_id', 'import_id', 'date', 'flight', 'origin', 'destination', 'aircraft_type_id', 'aircraft_code', 'fleet_id', 'cruise_fl', 'max_fl', 'input_json', 'status', 'fuel_kg', 'source_line', 'created_at', 'fuel_warning'] as const;
 
 /**
  * One multi-row INSERT ... VALUES per batch of pending flights, written by hand: knex writes a
@@ -64,7 +64,7 @@ async function insertFlights(trx: Knex.Transaction, ctx: { workspaceId: number; 
   const row = `(${FLIGHT_COLUMNS.map(() => '?').join(', ')})`;
   const bindings: (string | number | null)[] = [];
   for (const f of flights) {
-    bindings.push(ctx.workspaceId, ctx.importId, f.date, f.flight, f.origin, f.destination, f.aircraftTypeId, f.aircraftCode, f.fleetId, f.cruiseFl, f.maxFl, JSON.stringify(screeningInputOf(f)), 'pending', f.fuelKg, f.line, ctx.createdAt);
+    bindings.push(ctx.workspaceId, ctx.importId, f.date, f.flight, f.origin, f.destination, f.aircraftTypeId, f.aircraftCode, f.fleetId, f.cruiseFl, f.maxFl, JSON.stringify(screeningInputOf(f)), 'pending', f.fuelKg, f.line, ctx.createdAt, f.fuelWarning?.slice(0, 500) ?? null);
   }
   await trx.raw(`INSERT INTO flights (${FLIGHT_COLUMNS.join(', ')}) VALUES ${flights.map(() => row).join(', ')}`, bindings);
 }

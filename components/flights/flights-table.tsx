@@ -49,7 +49,14 @@ export function FlightsTable({ flights, units }: { flights: FlightDto[]; units: 
               {f.status === 'screened' ? (
                 <>
                   <td className={num}>{formatDistance(f.distanceKm ?? 0, units)}</td>
-                  <td className={num}>{formatMass(f.fuelKg, units)}</td>
+                  <td className={num}>
+                    {formatMass(f.fuelKg, units)}
+                    {f.fuelWarning ? (
+                      <span className="block text-xs font-medium text-caution" title={f.fuelWarning}>
+                        unusual for the distance<span className="sr-only">: {f.fuelWarning}</span>
+                      </span>
+                    ) : null}
+                  </td>
                   <td className={num}>{formatMass(f.noxTotalKg ?? 0, units)}</td>
                   <td className={`${num} text-strato-strong`}>{formatMass(f.noxAboveTropopauseKg ?? 0, units)}</td>
                   <td className={`${num} text-strato-strong`}>{formatPercent(f.fractionAboveTropopause ?? 0, 0)}</td>

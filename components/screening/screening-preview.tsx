@@ -12,6 +12,7 @@ import { ScreeningCautions } from './cautions';
 import { profileSeries } from './profile-series';
 import { UncertaintyDriversChart } from './uncertainty-drivers';
 import { MonthStrip } from './month-strip';
+import { fuelWarningOf } from '@/lib/validation/plausibility';
 
 export interface PreviewResponse {
   input: unknown;
@@ -87,6 +88,11 @@ export function ScreeningPreview({
         ) : null}
         {data ? (
           <div className={`space-y-4 transition-opacity ${fetching || stale || waitingFor.length ? 'opacity-60' : ''}`} data-testid="preview-figures">
+            {fuelWarningOf(data.result) ? (
+              <Notice tone="caution" title="Check the fuel">
+                {fuelWarningOf(data.result)}
+              </Notice>
+            ) : null}
             <HeadlineFigures result={data.result} units={units} compact bands={data.result.uncertainty} />
             <VerticalProfileChart series={profileSeries(data.result.segments, units)} label="Preview of the cruise altitude and tropopause" height={220} />
             {data.result.uncertainty ? (

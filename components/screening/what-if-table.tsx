@@ -40,7 +40,7 @@ export function WhatIfTable({
   const markName = rows[0]?.markName ?? 'Least ozone figure';
   const what = rows[0]?.minimise === 'nox-above-tropopause' ? 'NOx above the tropopause' : 'gross ozone-loss figure';
   const badge = (
-    <span className="ml-2 whitespace-nowrap rounded bg-tropo-strong px-1.5 py-0.5 text-[11px] font-semibold uppercase tracking-wide text-white">{markName}</span>
+    <span className={`${compact ? 'mt-0.5 block w-fit' : 'ml-2'} whitespace-nowrap rounded bg-tropo-strong px-1.5 py-0.5 text-[11px] font-semibold uppercase tracking-wide text-white`}>{markName}</span>
   );
   return (
     <div>
@@ -67,7 +67,12 @@ export function WhatIfTable({
                 className={`border-t border-line ${r.lowestImpact ? 'bg-tropo-soft font-medium' : ''} ${r.withinLimit ? '' : 'text-ink-faint'}`}
               >
                 <th scope="row" className="py-2 pr-3 text-left font-medium">
-                  <span className="whitespace-nowrap">{levelsLabel(r)}</span>
+                  {/* Step climbs list several levels: each stays whole, the row wraps between them. */}
+                  {r.flightLevels.map((fl, i) => (
+                    <span key={i} className="whitespace-nowrap">
+                      {i ? ' → ' : ''}FL{fl}{' '}
+                    </span>
+                  ))}
                   {r.lowestImpact ? badge : null}
                   {compact ? (
                     <span className="block text-xs font-normal text-ink-faint">
@@ -87,8 +92,8 @@ export function WhatIfTable({
                   </td>
                 )}
                 <td className="whitespace-nowrap py-2 pr-3 text-right">{formatMass(r.noxAboveTropopauseKg, units)}</td>
-                <td className="whitespace-nowrap py-2 pr-3 text-right">
-                  {formatMass(r.ozoneLoss.centralKg, units)}
+                <td className="py-2 pr-3 text-right">
+                  <span className="whitespace-nowrap">{formatMass(r.ozoneLoss.centralKg, units)}</span>
                   <span className="block text-xs font-normal text-ink-faint">
                     {formatMassRange(r.ozoneLoss.lowKg, r.ozoneLoss.highKg, units)}
                   </span>

@@ -5,12 +5,12 @@ import { signOut } from 'next-auth/react';
 
 export function UserMenu({ email, name }: { email: string; name: string }) {
   return (
-    <details className="relative">
-      <summary className="cursor-pointer list-none rounded-md px-2 py-1 text-sm text-ink-soft hover:bg-paper-sunk">
+    <details className="relative min-w-0 shrink">
+      <summary className="block max-w-[9rem] cursor-pointer list-none truncate rounded-md px-2 py-1 text-sm text-ink-soft hover:bg-paper-sunk sm:max-w-[16rem]">
         {name || email}
         <span className="sr-only"> (account menu)</span>
       </summary>
-      <div className="absolute right-0 z-20 mt-1 w-56 rounded-md border border-line bg-paper-raised p-1 text-sm shadow-lg">
+      <div className="absolute right-0 z-40 mt-1 w-56 max-w-[calc(100vw-2rem)] rounded-md border border-line bg-paper-raised p-1 text-sm shadow-lg">
         <p className="truncate px-3 py-2 text-xs text-ink-faint">{email}</p>
         <Link href="/account" className="block rounded px-3 py-2 hover:bg-paper-sunk">
           Account and units

@@ -42,9 +42,9 @@ export const WORKSPACE_SECTIONS: { title: string; items: Item[] }[] = [
   },
 ];
 
-export function WorkspaceNav({ slug, role, hidden = [] }: { slug: string; role: Role; hidden?: string[] }) {
+export function WorkspaceNav({ slug, role, hidden = [], label = 'Workspace' }: { slug: string; role: Role; hidden?: string[]; label?: string }) {
   return (
-    <nav aria-label="Workspace" className="space-y-5">
+    <nav aria-label={label} className="space-y-5">
       {WORKSPACE_SECTIONS.map((section) => {
         const items = section.items.filter((i) => can(role, i.permission) && !hidden.includes(i.path));
         if (!items.length) return null;

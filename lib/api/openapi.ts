@@ -72,7 +72,7 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   },
   '/workspaces/{slug}/screenings': {
     post: {
-      summary: "Screen and save one flight (one billable unit). Body: the screenFlight input plus optional name and aircraft (a type code of the workspace that supplies emission and Mach when absent). The route is { waypoints }, { flightPlan: { text, from, to } } (ICAO Doc 4444 item 15, named points and airways from the workspace's fix and airway libraries; its levels replace cruise; the result then carries flightPlan { waypoints, cruise.steps, speeds, unresolved, notes, items }) or { track: { points: { time?, lat, lon, flightLevel? | pressureAltitudeFt? }[] } } (2-20 000 points in time order; cruise optional; fuel spread by the points' times; the result carries track). Idempotency-Key header: a repeat with the same key and the same body (key order aside) returns the first screening and adds no unit; the same key with a different body is refused (409).",
+      summary: "Screen and save one flight (one billable unit). Body: the screenFlight input plus optional name and aircraft (a type code of the workspace that supplies emission and Mach when absent). The route is { waypoints }, { flightPlan: { text, from, to } } (ICAO Doc 4444 item 15, named points and airways from the workspace's fix and airway libraries; its levels replace cruise; the result then carries flightPlan { waypoints, cruise.steps, speeds, unresolved, notes, items }) or { track: { points: { time?, lat, lon, flightLevel? | pressureAltitudeFt? }[] } } (2-20 000 points in time order; cruise optional; fuel spread by the points' times; the result carries track). A step climb may be { atWaypoint, flightLevel } (the index in route.waypoints) instead of { fromKm, flightLevel }; it is saved as the distance to that waypoint. Fuel far outside a physical band per km for the route is a 422 on fuelBurnKg; unusual fuel is the first of the result's cautions. Idempotency-Key header: a repeat with the same key and the same body (key order aside) returns the first screening and adds no unit; the same key with a different body is refused (409).",
       permission: 'screenings:create',
       requestBody: screeningInputSchema,
       responses: { '201': '{ id, name, createdAt, input, result }', '200': 'Idempotent replay of the first result', '402': 'Billing blocks new screenings', '409': 'The Idempotency-Key was already used with a different body (the error names the key and the screening)' },
@@ -95,7 +95,7 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   '/workspaces/{slug}/screenings/preview': {
     post: {
       summary:
-        'Screen without saving (not billed, throttled), with the what-if cruise levels; optional whatIf options; a flight-plan route is read as for saving (result.flightPlan); uncertainty { samples?, seed? } adds result.uncertainty (p5/p50/p95 of NOx above, share above and the ozone figure, with drivers); months: true adds the month sweep',
+        'Screen without saving (not billed, throttled), with the what-if cruise levels; optional whatIf options; a flight-plan route, steps at a waypoint and the fuel-per-km check as for saving; uncertainty { samples?, seed? } adds result.uncertainty (p5/p50/p95 of NOx above, share above and the ozone figure, with drivers); months: true adds the month sweep',
       permission: 'screenings:create',
       requestBody: screeningPreviewBodySchema,
       responses: {

@@ -1,11 +1,14 @@
 /**
  * `npm run demo`, last step: starts every local fake and the built app on 127.0.0.1 with the demo
- * settings, prints the URL and the demo sign-ins, and stops everything together on Ctrl-C.
+ * settings, prints the URL, the ports and the demo sign-ins, and stops everything together on Ctrl-C.
+ * Ports left to their defaults move to free ones when taken (demo-ports.ts); a port set in the
+ * environment that is taken stops the demo with one message naming the variable.
  */
 import fs from 'node:fs';
 import path from 'node:path';
 import { randomBytes } from 'node:crypto';
 import { concurrently } from 'concurrently';
+import { DemoPortError, describePorts, resolveDemoPorts, type ResolvedPort } from './demo-ports';
 
 const root = process.cwd();
 const dataDir = path.join(root, '.data');
@@ -15,17 +18,26 @@ fs.mkdirSync(dataDir, { recursive: true });
 const secretFile = path.join(dataDir, 'demo-secret');
 if (!fs.existsSync(secretFile)) fs.writeFileSync(secretFile, randomBytes(32).toString('base64url'), { mode: 0o600 });
 
-const port = process.env.PORT ?? '3000';
+let resolved: ResolvedPort[];
+try {
+  resolved = await resolveDemoPorts(process.env);
+} catch (err) {
+  if (!(err instanceof DemoPortError)) throw err;
+  console.error(`\nTropopass demo not started: ${err.message}\n`);
+  process.exit(1);
+}
+const portOf = (variable: string) => String(resolved.find((p) => p.variable === variable)?.port);
+const port = portOf('PORT');
 const url = `http://127.0.0.1:${port}`;
 const env = {
   NEXTAUTH_URL: url,
   NEXTAUTH_SECRET: process.env.NEXTAUTH_SECRET ?? fs.readFileSync(secretFile, 'utf8').trim(),
   MAIL_OUTBOX: '1',
-  SMTP_PORT: process.env.SMTP_PORT ?? '2525',
-  MAIL_FAKE_HTTP_PORT: process.env.MAIL_FAKE_HTTP_PORT ?? '2580',
-  MAIL_FAKE_HTTP_URL: `http://127.0.0.1:${process.env.MAIL_FAKE_HTTP_PORT ?? '2580'}`,
-  PAYMENT_FAKE_PORT: process.env.PAYMENT_FAKE_PORT ?? '12111',
-  STRIPE_API_PORT: process.env.PAYMENT_FAKE_PORT ?? '12111',
+  SMTP_PORT: portOf('SMTP_PORT'),
+  MAIL_FAKE_HTTP_PORT: portOf('MAIL_FAKE_HTTP_PORT'),
+  MAIL_FAKE_HTTP_URL: `http://127.0.0.1:${portOf('MAIL_FAKE_HTTP_PORT')}`,
+  PAYMENT_FAKE_PORT: portOf('PAYMENT_FAKE_PORT'),
+  STRIPE_API_PORT: portOf('PAYMENT_FAKE_PORT'),
   PAYMENT_WEBHOOK_URL: `${url}/api/webhooks/stripe`,
   STRIPE_WEBHOOK_SECRET: process.env.STRIPE_WEBHOOK_SECRET ?? 'whsec_tropopass_demo_local',
 };
@@ -43,6 +55,8 @@ setTimeout(() => {
     [
       '',
       `Tropopass demo: ${url}`,
+      'Ports:',
+      ...describePorts(resolved),
       'Sign in with any of these (password: tropopass-demo):',
       '  consultant@tropopass.test  owner of skarn-polar, velloway-jets, kestrel-mach',
       '  planner@tropopass.test     flight planner in skarn-polar',

@@ -1,7 +1,8 @@
 import { Readable } from 'node:stream';
 import type { ReadableStream as NodeReadableStream } from 'node:stream/web';
 import Papa from 'papaparse';
-import { expandFlightPlanInput, findAirport, ScreeningInputError, validateScreeningInput, type RouteLibrary, type ScreeningInput } from '@/lib/screening';
+import { expandFlightPlanInput, findAirport, routeDistanceKm, ScreeningInputError, validateScreeningInput, type RouteLibrary, type ScreeningInput } from '@/lib/screening';
+import { checkFuelPlausibility } from '@/lib/validation/plausibility';
 import { tooLarge } from '@/lib/errors';
 import {
   IMPORT_LIMITS,
@@ -53,6 +54,8 @@ export interface PreparedFlight {
   emission: ScreeningInput['emission'];
   /** The waypoints read from the row's flight-plan route, when it has one (else the great circle). */
   waypoints?: { lat: number; lon: number }[];
+  /** Set when the fuel is unusual (not impossible) for the distance: kept with the flight. */
+  fuelWarning?: string | null;
 }
 
 /**
@@ -87,6 +90,8 @@ export function flightKey(f: { date: string; flight: string; origin: string; des
 }
 
 const PLACEHOLDER_EMISSION = { eiNoxGPerKg: 1 } as const;
+/** Rows with unusual fuel listed one by one; past this, one line counts the rest. */
+const MAX_FUEL_WARNINGS = 200;
 
 /** Where a screening-input problem sits in the CSV. */
 function columnOf(path: string, row: ScheduleRow, emissionFromRow: boolean): ScheduleColumn | '' {
@@ -118,7 +123,8 @@ function checkRow(
   cells: ScheduleCells,
   ctx: ScheduleContext,
   seen: Map<string, number>,
-): { problems: ImportProblem[]; flight?: PreparedFlight } {
+  distances: Map<string, number>,
+): { problems: ImportProblem[]; flight?: PreparedFlight; warning?: ImportProblem } {
   const problems: ImportProblem[] = [];
   const add = (column: string, message: string) => problems.push({ line, column, message });
   const parsed = scheduleRowSchema.safeParse(cells);
@@ -201,10 +207,27 @@ function checkRow(
     else seen.set(key, line);
   }
 
+  let warning: ImportProblem | undefined;
+  if (input && origin && destination && origin !== destination) {
+    // Fuel against the route's distance (the great circle, cached per pair, or the flight plan's
+    // points), per aircraft type where its engine is known.
+    const pair = `${origin}-${destination}`;
+    let distanceKm = waypoints === undefined ? distances.get(pair) : undefined;
+    if (distanceKm === undefined) {
+      distanceKm = routeDistanceKm(input.route && 'waypoints' in input.route ? input.route.waypoints : []);
+      if (waypoints === undefined) distances.set(pair, distanceKm);
+    }
+    const engine = emission && 'engine' in emission ? { fuelFlowKgS: emission.engine.fuelFlowKgS, engineCount: emission.engineCount } : null;
+    const p = checkFuelPlausibility({ distanceKm, fuelKg: input.fuelBurnKg, engine, mach: input.mach, aircraftCode: type?.code });
+    if (p.level === 'impossible') add('fuel_kg', p.message);
+    else if (p.level === 'unusual') warning = { line, column: 'fuel_kg', message: p.message };
+  }
+
   if (problems.length || !input || !type || !origin || !destination || !emission) return { problems };
   const levels = 'steps' in input.cruise ? input.cruise.steps.map((s) => s.flightLevel) : [input.cruise.flightLevel];
   return {
     problems,
+    warning,
     flight: {
       line,
       date: row.date,
@@ -221,6 +244,7 @@ function checkRow(
       mach: input.mach,
       emission,
       ...(waypoints === undefined ? {} : { waypoints }),
+      fuelWarning: warning?.message ?? null,
     },
   };
 }
@@ -281,6 +305,8 @@ export async function parseSchedule(source: ReadableStream<Uint8Array>, ctx: Sch
 
   const out: ParsedSchedule = { flights: [], problems: [], warnings: [], dataRows: 0 };
   const seen = new Map<string, number>();
+  const distances = new Map<string, number>();
+  let fuelWarnings = 0;
   let header: HeaderMap | null = null;
   let line = 0;
   let stop: Error | null = null;
@@ -314,9 +340,12 @@ export async function parseSchedule(source: ReadableStream<Uint8Array>, ctx: Sch
       const column = header.byIndex[i];
       if (column && value !== '') cells[column] = value;
     }
-    const checked = checkRow(line, cells, ctx, seen);
+    const checked = checkRow(line, cells, ctx, seen, distances);
     if (checked.problems.length) out.problems.push(...checked.problems);
-    else if (checked.flight) out.flights.push(checked.flight);
+    else if (checked.flight) {
+      out.flights.push(checked.flight);
+      if (checked.warning && ++fuelWarnings <= MAX_FUEL_WARNINGS) out.warnings.push(checked.warning);
+    }
   };
 
   let decodeFailed = false;
@@ -351,6 +380,9 @@ export async function parseSchedule(source: ReadableStream<Uint8Array>, ctx: Sch
     out.problems.push({ line: 1, column: '', message: `The file is empty. The first line must name the columns: ${SCHEDULE_REQUIRED_COLUMNS.join(', ')}.` });
   } else if (!out.problems.length && out.dataRows === 0) {
     out.problems.push({ line: 2, column: '', message: 'The file has a header row but no flights.' });
+  }
+  if (fuelWarnings > MAX_FUEL_WARNINGS) {
+    out.warnings.push({ line: 1, column: 'fuel_kg', message: `${fuelWarnings - MAX_FUEL_WARNINGS} more rows have unusual fuel for their distance (the first ${MAX_FUEL_WARNINGS} are listed).` });
   }
   return out;
 }

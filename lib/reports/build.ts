@@ -1,8 +1,8 @@
 import 'server-only';
-import { listFleets } from '@/db/fleets';
+import { listFleets, listFuelWarnings } from '@/db/fleets';
 import { createReport, type ReportRecord } from '@/db/reports';
 import type { UnitSystem } from '@/db/users';
-import { compareFleets, resolvePeriod } from '@/lib/fleets/compare';
+import { compareFleets, resolvePeriod, toFlightFilters } from '@/lib/fleets/compare';
 import { screenFlight, type OzoneAssumptionsUsed } from '@/lib/screening';
 import { invalidFields } from '@/lib/errors';
 import type { ReportCreate } from '@/lib/validation/reports';
@@ -74,7 +74,11 @@ export async function buildFleetReport(
 
   const period = resolvePeriod({ from: input.from, to: input.to });
   const query = { from: period.from, to: period.to, groupBy: 'month' as const, fleets: input.fleetIds };
-  const [monthly, perFleet] = await Promise.all([compareFleets(scope, query), compareFleets(scope, { ...query, groupBy: 'fleet' })]);
+  const [monthly, perFleet, fuelWarnings] = await Promise.all([
+    compareFleets(scope, query),
+    compareFleets(scope, { ...query, groupBy: 'fleet' }),
+    listFuelWarnings(scope, toFlightFilters(query, period)),
+  ]);
   const title = input.name?.trim() || `Fleet report ${period.from} to ${period.to}`;
   const summary: ReportSummary = {
     version: 1,
@@ -95,6 +99,7 @@ export async function buildFleetReport(
     context: perFleet.context,
     notes: perFleet.notes,
     cautions: perFleet.cautions,
+    fuelWarnings,
   };
   const [pdf, csv] = [await renderReportPdf(summary, reportMethodText()), reportCsv(summary)];
   return createReport(scope, { name: title, summary, fleetIds: fleets.map((f) => f.id), pdf, csv, createdBy: input.createdBy, actor: input.actor });

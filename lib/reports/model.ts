@@ -25,6 +25,8 @@ export interface ReportSummary {
   context: { fleets: FleetContextRow[]; total: FleetContextRow; method: string };
   notes: { co2: string; ratios: string; ozone: string; levelBand: string };
   cautions: string[];
+  /** Flights whose fuel was unusual for their distance (absent in reports built before it was kept). */
+  fuelWarnings?: { count: number; items: { date: string; flight: string; origin: string; destination: string; warning: string }[] };
 }
 
 export const CSV_HEADER = [

@@ -1,6 +1,6 @@
 import { PDFDocument, StandardFonts, degrees, rgb, type PDFFont, type PDFPage, type RGB } from 'pdf-lib';
 import type { UnitSystem } from '@/db/users';
-import { formatDistance, formatMass, formatMassRange, formatNumber, formatPercent } from '@/lib/format';
+import { formatDistance, formatMass, formatMassRange, formatNumber, formatPercent, KG_PER_LB, KM_PER_NM } from '@/lib/format';
 import { FLEET_COLOURS, engineVersionsText, massAxisUnit, monthLabel, niceTicks } from '@/lib/fleets/units';
 import type { CompareRow, FleetContextRow } from '@/lib/fleets/types';
 import type { ReportSummary } from './model';
@@ -171,22 +171,35 @@ class Writer {
     };
     header();
     rows.forEach((row, r) => {
-      if (this.y - rowH < MARGIN + FOOTER_H) {
+      const strong = o.strong?.has(r) ?? false;
+      // A cell is never cut: a long one is set a little smaller (down to 80 %), then wrapped, and
+      // the row grows to hold it.
+      const cells = row.map((cell, i) => {
+        const room = widths[i] - 6;
+        const natural = this.width(cell, size, strong);
+        if (natural <= room) return { size, lines: [cell] };
+        const smaller = Math.max(size * 0.8, (size * room) / natural);
+        if (this.width(cell, smaller, strong) <= room) return { size: smaller, lines: [cell] };
+        return { size: size * 0.8, lines: this.wrap(cell, size * 0.8, room, strong) };
+      });
+      const lineCount = Math.max(1, ...cells.map((c) => c.lines.length));
+      const h = lineCount === 1 ? rowH : rowH + (lineCount - 1) * size * 1.1;
+      if (this.y - h < MARGIN + FOOTER_H) {
         this.newPage();
         header();
       }
-      const strong = o.strong?.has(r) ?? false;
-      if (strong) this.page.drawRectangle({ x: MARGIN, y: this.y - rowH, width: CONTENT_W, height: rowH, color: PAPER_SUNK });
+      if (strong) this.page.drawRectangle({ x: MARGIN, y: this.y - h, width: CONTENT_W, height: h, color: PAPER_SUNK });
       let x = MARGIN;
-      row.forEach((cell, i) => {
-        let text = cell;
-        while (text.length > 1 && this.width(text, size, strong) > widths[i] - 6) text = `${text.slice(0, -2)}…`;
-        const w = this.width(text, size, strong);
-        this.at(text, columns[i].align === 'right' ? x + widths[i] - 3 - w : x + 3, this.y - rowH + size * 0.65, { size, bold: strong });
+      cells.forEach((cell, i) => {
+        cell.lines.forEach((line, j) => {
+          const w = this.width(line, cell.size, strong);
+          const baseline = this.y - rowH + size * 0.65 - j * size * 1.1;
+          this.at(line, columns[i].align === 'right' ? x + widths[i] - 3 - w : x + 3, baseline, { size: cell.size, bold: strong });
+        });
         x += widths[i];
       });
-      this.page.drawLine({ start: { x: MARGIN, y: this.y - rowH }, end: { x: MARGIN + CONTENT_W, y: this.y - rowH }, thickness: 0.4, color: LINE });
-      this.y -= rowH;
+      this.page.drawLine({ start: { x: MARGIN, y: this.y - h }, end: { x: MARGIN + CONTENT_W, y: this.y - h }, thickness: 0.4, color: LINE });
+      this.y -= h;
     });
     this.y -= 8;
   }
@@ -333,17 +346,49 @@ function lineChart(w: Writer, title: string, months: string[], series: ChartSeri
 
 const pct = (v: number | null, d = 1) => (v === null ? '-' : formatPercent(v, d));
 
+/**
+ * Masses in a report: the app's formatting, with fleet-size sums scaled so a table cell stays short
+ * (1 kt = 1 000 t = 10^6 kg, 1 Mt = 10^9 kg; a million lb in aviation units).
+ */
+export function reportMass(kg: number, units: UnitSystem, digits?: number): string {
+  if (units === 'imperial') {
+    const lb = kg / KG_PER_LB;
+    return Math.abs(lb) >= 1e7 ? `${formatNumber(lb / 1e6, 1)} million lb` : formatMass(kg, units, digits);
+  }
+  if (Math.abs(kg) >= 1e9) return `${formatNumber(kg / 1e9, 2)} Mt`;
+  if (Math.abs(kg) >= 1e6) return `${formatNumber(kg / 1e6, 1)} kt`;
+  return formatMass(kg, units, digits);
+}
+
+/** Distances in a report: a million km (or NM) and more in millions. */
+export function reportDistance(km: number, units: UnitSystem): string {
+  const v = units === 'imperial' ? km / KM_PER_NM : km;
+  const unit = units === 'imperial' ? 'NM' : 'km';
+  return Math.abs(v) >= 1e6 ? `${formatNumber(v / 1e6, 1)} million ${unit}` : formatDistance(km, units);
+}
+
+/** A low-high band of report masses in the unit of its larger end. */
+export function reportMassRange(lowKg: number, highKg: number, units: UnitSystem, separator: string): string {
+  const top = Math.max(Math.abs(lowKg), Math.abs(highKg));
+  if (units === 'metric' && top >= 1e6) {
+    const [div, unit, d] = top >= 1e9 ? [1e9, 'Mt', 2] : [1e6, 'kt', 1];
+    return `${formatNumber(lowKg / div, d)}${separator}${formatNumber(highKg / div, d)} ${unit}`;
+  }
+  if (units === 'imperial' && top / KG_PER_LB >= 1e7) return `${formatNumber(lowKg / KG_PER_LB / 1e6, 1)}${separator}${formatNumber(highKg / KG_PER_LB / 1e6, 1)} million lb`;
+  return formatMassRange(lowKg, highKg, units, separator);
+}
+
 function figureRow(r: CompareRow, units: UnitSystem, label: string): string[] {
   return [
     label,
     formatNumber(r.flights),
-    formatDistance(r.distanceKm, units),
-    formatMass(r.fuelKg, units),
-    formatMass(r.co2Kg, units),
-    formatMass(r.noxTotalKg, units),
-    formatMass(r.noxAboveKg, units),
+    reportDistance(r.distanceKm, units),
+    reportMass(r.fuelKg, units),
+    reportMass(r.co2Kg, units),
+    reportMass(r.noxTotalKg, units),
+    reportMass(r.noxAboveKg, units),
     pct(r.shareAbove),
-    r.noxAbovePer1000KmKg === null ? '-' : formatMass(r.noxAbovePer1000KmKg, units, 2),
+    r.noxAbovePer1000KmKg === null ? '-' : reportMass(r.noxAbovePer1000KmKg, units, 2),
   ];
 }
 
@@ -366,7 +411,7 @@ function pctChange(v: number): string {
 function contextLines(c: FleetContextRow, units: UnitSystem): string[] {
   return c.studies.map((s) =>
     s.applicable && s.columnChangePct
-      ? `${s.citation} (${s.altitudeKm[0]}-${s.altitudeKm[1]} km): ${formatMass(s.noxInBandKgPerYear, units)} per year in its band -> global column ozone ${pctChange(s.columnChangePct.central)} (${pctChange(s.columnChangePct.low)} to ${pctChange(s.columnChangePct.high)}, +/-50 %). A fleet-scale model result scaled linearly, not a property of these flights.`
+      ? `${s.citation} (${s.altitudeKm[0]}-${s.altitudeKm[1]} km): ${reportMass(s.noxInBandKgPerYear, units)} per year in its band -> global column ozone ${pctChange(s.columnChangePct.central)} (${pctChange(s.columnChangePct.low)} to ${pctChange(s.columnChangePct.high)}, +/-50 %). A fleet-scale model result scaled linearly, not a property of these flights.`
       : `${s.citation} (${s.altitudeKm[0]}-${s.altitudeKm[1]} km): not applicable - no NOx above the tropopause at the altitudes this study covers; it is never extrapolated.`,
   );
 }
@@ -420,15 +465,15 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
   const t = s.totals;
   const totalsRows: string[][] = [
     [COUNT_LABELS.importedFlightsScreened, formatNumber(t.flights)],
-    ['Distance flown (cruise track)', formatDistance(t.distanceKm, units)],
-    ['Fuel', formatMass(t.fuelKg, units)],
-    ['CO2 (3.16 kg per kg fuel, ICAO CORSIA)', formatMass(t.co2Kg, units)],
-    ['NOx emitted (as NO2)', formatMass(t.noxTotalKg, units)],
-    ['NOx above the tropopause (as NO2)', formatMass(t.noxAboveKg, units)],
+    ['Distance flown (cruise track)', reportDistance(t.distanceKm, units)],
+    ['Fuel', reportMass(t.fuelKg, units)],
+    ['CO2 (3.16 kg per kg fuel, ICAO CORSIA)', reportMass(t.co2Kg, units)],
+    ['NOx emitted (as NO2)', reportMass(t.noxTotalKg, units)],
+    ['NOx above the tropopause (as NO2)', reportMass(t.noxAboveKg, units)],
     ['Share of NOx above the tropopause', pct(t.shareAbove)],
-    ['NOx above the tropopause per 1000 km', t.noxAbovePer1000KmKg === null ? '-' : formatMass(t.noxAbovePer1000KmKg, units, 2)],
-    ['Ozone-loss figure, central (gross)', formatMass(t.ozone.centralKg, units)],
-    ['Ozone-loss figure, low-high range', formatMassRange(t.ozone.lowKg, t.ozone.highKg, units, ' to ')],
+    ['NOx above the tropopause per 1000 km', t.noxAbovePer1000KmKg === null ? '-' : reportMass(t.noxAbovePer1000KmKg, units, 2)],
+    ['Ozone-loss figure, central (gross)', reportMass(t.ozone.centralKg, units)],
+    ['Ozone-loss figure, low-high range', reportMassRange(t.ozone.lowKg, t.ozone.highKg, units, ' to ')],
   ];
   w.table([{ label: 'Figure', width: 300 }, { label: 'All fleets in the report', width: 199, align: 'right' }], totalsRows, { size: 8.5 });
   w.paragraph(s.notes.ratios, { size: 7.5, color: INK_SOFT });
@@ -438,9 +483,9 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
   w.table(FIGURE_COLUMNS(units), perFleetRows, { strong: new Set([perFleetRows.length - 1]) });
   const ozoneRows = [...s.perFleet, t].map((r, i) => [
     i === s.perFleet.length ? 'All fleets' : r.fleetName,
-    formatMass(r.ozone.centralKg, units),
-    formatMass(r.ozone.lowKg, units),
-    formatMass(r.ozone.highKg, units),
+    reportMass(r.ozone.centralKg, units),
+    reportMass(r.ozone.lowKg, units),
+    reportMass(r.ozone.highKg, units),
   ]);
   w.paragraph('Ozone-loss screening figure (gross catalytic loss, not a net column change):', { size: 8.5, bold: true });
   w.table(
@@ -453,6 +498,24 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
     ozoneRows,
     { strong: new Set([ozoneRows.length - 1]) },
   );
+
+  const warned = s.fuelWarnings;
+  if (warned && warned.count > 0) {
+    w.heading('Flights with unusual fuel');
+    w.paragraph(
+      `${formatNumber(warned.count)} of the ${formatNumber(t.flights)} flights in this report have a fuel burn that is unusual for their distance (accepted at import with a warning; check them before relying on their figures)${warned.count > warned.items.length ? `; the first ${warned.items.length} are listed` : ''}.`,
+      { size: 8.5, color: INK_SOFT },
+    );
+    w.table(
+      [
+        { label: 'Date', width: 60 },
+        { label: 'Flight', width: 60 },
+        { label: 'Route', width: 70 },
+        { label: 'Warning', width: 309 },
+      ],
+      warned.items.map((f) => [f.date, f.flight, `${f.origin}-${f.destination}`, f.warning]),
+    );
+  }
 
   w.heading('By month', 240);
   const maxMonthly = Math.max(0, ...s.series.flatMap((x) => x.noxAboveKg));
@@ -476,11 +539,11 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
     r.fleetName,
     r.month ? monthLabel(r.month) : '',
     formatNumber(r.flights),
-    formatMass(r.fuelKg, units),
-    formatMass(r.noxTotalKg, units),
-    formatMass(r.noxAboveKg, units),
+    reportMass(r.fuelKg, units),
+    reportMass(r.noxTotalKg, units),
+    reportMass(r.noxAboveKg, units),
     pct(r.shareAbove),
-    formatMass(r.ozone.centralKg, units),
+    reportMass(r.ozone.centralKg, units),
   ]);
   if (monthRows.length) {
     w.table(
@@ -503,7 +566,7 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
   w.heading('Fleet-scale context');
   w.paragraph(s.context.method, { size: 8, color: INK_SOFT });
   for (const c of [...s.context.fleets, s.context.total]) {
-    w.paragraph(`${c.fleetName}: ${formatMass(c.annualNoxAboveKg, units)} NOx above the tropopause per year (annualised)`, { size: 8.5, bold: true, gap: 2 });
+    w.paragraph(`${c.fleetName}: ${reportMass(c.annualNoxAboveKg, units)} NOx above the tropopause per year (annualised)`, { size: 8.5, bold: true, gap: 2 });
     w.bullets(contextLines(c, units), 8);
   }
 

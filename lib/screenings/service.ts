@@ -2,6 +2,7 @@ import 'server-only';
 import { z } from 'zod';
 import {
   compareValidated,
+  routeDistanceKm,
   screenValidated,
   sweepMonthsValidated,
   SAME_EVERY_MONTH_NOTE,
@@ -20,6 +21,8 @@ import { loadRouteLibrary } from '@/db/route-library';
 import { createScreening, getScreening, type ScreeningRecord } from '@/db/screenings';
 import { AppError, badRequest, conflict, invalidFields, type FieldProblem } from '@/lib/errors';
 import { previewMonthsSchema } from '@/lib/validation/screening';
+import { checkFuelPlausibility } from '@/lib/validation/plausibility';
+import type { Waypoint } from '@/lib/validation/screening';
 
 /** Fields a saved screening carries beside the engine input (the input plus an optional name). */
 const extrasSchema = z.object({
@@ -46,6 +49,41 @@ export interface ParsedScreeningBody {
 }
 
 /**
+ * Step climbs placed at a waypoint (`{ atWaypoint, flightLevel }`, the waypoint's index in the route)
+ * become `{ fromKm, flightLevel }`: fromKm is the distance along the route to that waypoint, measured
+ * as the engine measures the route. Before validation, so the engine sees only distances.
+ */
+function placeStepsAtWaypoints(raw: Record<string, unknown>, problems: FieldProblem[]): void {
+  const cruise = raw.cruise;
+  if (typeof cruise !== 'object' || cruise === null || !('steps' in cruise) || !Array.isArray(cruise.steps)) return;
+  const route = raw.route;
+  const waypoints = typeof route === 'object' && route !== null && 'waypoints' in route && Array.isArray(route.waypoints) ? (route.waypoints as Waypoint[]) : null;
+  const steps: unknown[] = cruise.steps;
+  raw.cruise = {
+    ...cruise,
+    steps: steps.map((step, i) => {
+      if (typeof step !== 'object' || step === null || !('atWaypoint' in step)) return step;
+      const { atWaypoint, ...rest } = step as { atWaypoint: unknown };
+      const path = `cruise.steps.${i}.atWaypoint`;
+      if (!waypoints) {
+        problems.push({ path, message: 'A step at a waypoint needs a route given as waypoints.' });
+        return rest;
+      }
+      if (typeof atWaypoint !== 'number' || !Number.isInteger(atWaypoint) || atWaypoint < 1 || atWaypoint > waypoints.length - 1) {
+        problems.push({ path, message: `atWaypoint must be a waypoint number from 1 to ${waypoints.length - 1} (0 is the departure).` });
+        return rest;
+      }
+      try {
+        return { ...rest, fromKm: Math.round(routeDistanceKm(waypoints.slice(0, atWaypoint + 1)) * 1000) / 1000 };
+      } catch {
+        problems.push({ path, message: 'The route up to this waypoint could not be measured: check its waypoints.' });
+        return rest;
+      }
+    }),
+  };
+}
+
+/**
  * Splits a request body into our extras (`name`, `aircraft`, `whatIf`) and the engine input, fills
  * the emission (and Mach) from the workspace's aircraft type when the body names one and gives no
  * emission, and validates everything: problems from both parts come back together, by path.
@@ -69,6 +107,7 @@ export async function parseScreeningBody(raw: unknown, scope: { workspaceId: num
       if (engineRaw.mach === undefined) engineRaw.mach = type.typicalMach;
     }
   }
+  placeStepsAtWaypoints(engineRaw, problems);
   let input: ScreeningInput | undefined;
   try {
     input = validateScreeningInput(engineRaw);
@@ -90,11 +129,21 @@ export async function parseScreeningBody(raw: unknown, scope: { workspaceId: num
 
 /**
  * Screens an input `parseScreeningBody` validated, a flight-plan route read through the workspace's
- * library; unknown airports and an unplaceable flight plan still come back as 422.
+ * library; unknown airports and an unplaceable flight plan still come back as 422. Fuel against
+ * distance is checked on the screened route (lib/validation/plausibility.ts): an impossible burn is a
+ * 422 on `fuelBurnKg`; an unusual one is the first caution of the result, so it is shown with the
+ * preview and kept with a saved screening.
  */
-export function runScreening(input: ScreeningInput, library?: RouteLibrary): ScreeningResult {
-  return screenValidated(input, library);
+export function runScreening(input: ScreeningInput, library?: RouteLibrary, aircraftCode: string | null = null): ScreeningResult {
+  const result = screenValidated(input, library);
+  const engine = 'engine' in input.emission ? { fuelFlowKgS: input.emission.engine.fuelFlowKgS, engineCount: input.emission.engineCount } : null;
+  const mach = input.mach ?? ('engine' in input.emission ? input.emission.mach : undefined);
+  const p = checkFuelPlausibility({ distanceKm: result.distanceKm, fuelKg: result.fuelKg, engine, mach, aircraftCode });
+  if (p.level === 'impossible') throw invalidFields([{ path: 'fuelBurnKg', message: p.message }]);
+  if (p.level === 'unusual') return { ...result, cautions: [p.message, ...result.cautions] };
+  return result;
 }
+
 
 /**
  * The what-if levels of an input `parseScreeningBody` validated; `planned` is that input's own

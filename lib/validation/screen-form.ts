@@ -42,8 +42,11 @@ export interface ScreenFormValues {
   flightPlan: { text: string; from: string; to: string };
   cruiseMode: (typeof CRUISE_MODES)[number];
   flightLevel: string;
-  /** `from` is km along the route (metric) or NM (imperial); the first row is always 0. */
-  steps: { from: string; flightLevel: string }[];
+  /**
+   * `from` is km along the route (metric) or NM (imperial); the first row is always 0. `at`, when
+   * set, places the step at that waypoint (its index in the route) instead of at a distance.
+   */
+  steps: { from: string; flightLevel: string; at?: string }[];
   /** Cruise fuel in kg (metric) or lb (imperial). */
   fuelBurn: string;
   emissionMode: (typeof EMISSION_MODES)[number];
@@ -102,8 +105,15 @@ export interface ScreenFormContext {
   soundings: { id: number; levels: SoundingLevelInput[] }[];
 }
 
+/** A step climb as the endpoints accept it: at a distance, or at a waypoint (its index in the route). */
+export type StepBody = { fromKm: number; flightLevel: number } | { atWaypoint: number; flightLevel: number };
+
 /** The body the preview and save endpoints accept: the engine input plus our extras. */
-export type ScreeningRequestBody = Partial<ScreeningInputRaw> & { aircraft?: string; name?: string };
+export type ScreeningRequestBody = Omit<Partial<ScreeningInputRaw>, 'cruise'> & {
+  cruise?: { flightLevel: number } | { steps: StepBody[] };
+  aircraft?: string;
+  name?: string;
+};
 
 export interface FormProblem {
   path: string;
@@ -212,7 +222,7 @@ export interface PastedPoints {
 
 const HEMI = /^([NSEW])?\s*([+-]?\d+(?:[.,]\d+)?)\s*([NSEW])?$/i;
 
-function readCoordinate(token: string): { value: number; hemi: string | null } | null {
+function readCoordinate(token: string): Coordinate | null {
   const m = HEMI.exec(token.trim());
   if (!m) return null;
   if (m[1] && m[3]) return null;
@@ -221,9 +231,85 @@ function readCoordinate(token: string): { value: number; hemi: string | null } |
   return { value, hemi: (m[1] ?? m[3] ?? '').toUpperCase() || null };
 }
 
+type Coordinate = { value: number; hemi: string | null };
+
+/** Degrees, minutes and seconds as numbers ("60 12 30", "60 12.5", "60.2"): minutes and seconds below 60, only the last part with decimals. */
+function readSexagesimal(text: string): number | 'bad-minutes' | null {
+  const parts = text.trim().split(/[\s:]+/).filter((p) => p !== '');
+  if (parts.length < 1 || parts.length > 3) return null;
+  let total = 0;
+  for (let i = 0; i < parts.length; i++) {
+    const last = i === parts.length - 1;
+    const ok = last ? /^\d+(?:[.,]\d+)?$/.test(parts[i]) : /^\d+$/.test(parts[i]);
+    if (!ok) return null;
+    const n = Number(parts[i].replace(',', '.'));
+    if (i > 0 && n >= 60) return 'bad-minutes';
+    total += n / 60 ** i;
+  }
+  return total;
+}
+
+/** One coordinate in degrees-minutes(-seconds), with an optional sign or a hemisphere letter before or after. */
+function readSexagesimalCoordinate(token: string): Coordinate | 'bad-minutes' | null {
+  const cleaned = token.replace(/[°º'′"″]/g, ' ').trim().replace(/[,;]$/, '').trim();
+  const m = /^([NSEW])?\s*([+-])?\s*([\d.,:\s]+?)\s*([NSEW])?$/i.exec(cleaned);
+  if (!m || (m[1] && m[4]) || (m[2] && (m[1] || m[4]))) return null;
+  const value = readSexagesimal(m[3]);
+  if (value === null || value === 'bad-minutes') return value;
+  return { value: m[2] === '-' ? -value : value, hemi: (m[1] ?? m[4] ?? '').toUpperCase() || null };
+}
+
+const ICAO_COMPACT = /^(\d{2})(\d{2})(\d{2})?([NS])\s*(\d{3})(\d{2})(\d{2})?([EW])$/i;
+
 /**
- * Parses a pasted list of points, one per line: "51.47 -0.45", "51.47,-0.45", "51.47;-0.45",
- * tab-separated, or with hemisphere letters ("51.47N 0.45W", "N51.47 W0.45"). Latitude first.
+ * The sexagesimal ways planners copy a point: the compact flight-plan form ("6012N01105E",
+ * "601230N0110545E"), degrees and minutes ("60 12.5N 011 05.3E", "N60 12.5 E011 05.3") and degrees,
+ * minutes and seconds ("60°12'30\"N 11°05'45\"E"). Null when the line is none of these.
+ */
+function readSexagesimalPoint(line: string): [Coordinate, Coordinate] | 'bad-minutes' | null {
+  const compact = ICAO_COMPACT.exec(line.replace(/\s+/g, ''));
+  if (compact) {
+    const [, latD, latM, latS, latH, lonD, lonM, lonS, lonH] = compact;
+    if (Number(latM) >= 60 || Number(lonM) >= 60 || Number(latS ?? 0) >= 60 || Number(lonS ?? 0) >= 60) return 'bad-minutes';
+    const lat = Number(latD) + Number(latM) / 60 + Number(latS ?? 0) / 3600;
+    const lon = Number(lonD) + Number(lonM) / 60 + Number(lonS ?? 0) / 3600;
+    return [
+      { value: lat, hemi: latH.toUpperCase() },
+      { value: lon, hemi: lonH.toUpperCase() },
+    ];
+  }
+  let halves: [string, string] | null = null;
+  const degreeMarks = [...line.matchAll(/[+-]?\d+(?:[.,]\d+)?\s*[°º]/g)];
+  if (degreeMarks.length === 2 && degreeMarks[1].index !== undefined) {
+    let first = line.slice(0, degreeMarks[1].index).trim();
+    let second = line.slice(degreeMarks[1].index);
+    // "N 60°12.5' W 011°05.3'": the letter before the second number starts the second coordinate.
+    const lead = /^[NSEW]/i.test(first) ? /\s*([NSEW])$/i.exec(first) : null;
+    if (lead) {
+      first = first.slice(0, lead.index);
+      second = `${lead[1]}${second}`;
+    }
+    halves = [first, second];
+  } else {
+    // Letters mark where each coordinate ends (or starts): "60 12.5N 011 05.3E", "N60 12.5 E011 05.3".
+    const suffix = /^([\d.,:\s]+?[NS])[\s,;]*([\d.,:\s]+?[EW])$/i.exec(line);
+    const prefix = /^([NS][\d.,:\s]+?)[\s,;]*([EW][\d.,:\s]+)$/i.exec(line);
+    const found = suffix ?? prefix;
+    if (found && /\d\s+\d/.test(line)) halves = [found[1], found[2]];
+  }
+  if (!halves) return null;
+  const a = readSexagesimalCoordinate(halves[0]);
+  const b = readSexagesimalCoordinate(halves[1]);
+  if (a === 'bad-minutes' || b === 'bad-minutes') return 'bad-minutes';
+  if (!a || !b) return null;
+  return [a, b];
+}
+
+/**
+ * Parses a pasted list of points, one per line, latitude first: decimal degrees ("51.47 -0.45",
+ * "51.47,-0.45", "51.47;-0.45", tab-separated, or with hemisphere letters "51.47N 0.45W",
+ * "N51.47 W0.45"), the compact flight-plan form ("6012N01105E", "601230N0110545E"), degrees and
+ * minutes ("60 12.5N 011 05.3E") and degrees, minutes and seconds ("60°12'30\"N 11°05'45\"E").
  * Blank lines and lines starting with # are skipped; every other line is a point or a problem.
  */
 export function parseWaypointList(text: string): PastedPoints {
@@ -234,19 +320,29 @@ export function parseWaypointList(text: string): PastedPoints {
     const line = raw.trim();
     const n = i + 1;
     if (line === '' || line.startsWith('#')) return;
-    let parts: string[];
-    if (/[;\t]/.test(line)) parts = line.split(/[;\t]/);
-    else if (line.split(',').length === 2) parts = line.split(',');
-    else parts = line.split(/\s+/);
-    parts = parts.map((p) => p.trim()).filter((p) => p !== '');
-    if (parts.length !== 2) {
-      problems.push({ line: n, message: `Line ${n}: give a latitude and a longitude, such as "51.47 -0.45".` });
+    let a: Coordinate | null;
+    let b: Coordinate | null;
+    const sexagesimal = readSexagesimalPoint(line);
+    if (sexagesimal === 'bad-minutes') {
+      problems.push({ line: n, message: `Line ${n}: minutes and seconds must be below 60 in "${line}".` });
       return;
     }
-    const a = readCoordinate(parts[0]);
-    const b = readCoordinate(parts[1]);
+    if (sexagesimal) [a, b] = sexagesimal;
+    else {
+      let parts: string[];
+      if (/[;\t]/.test(line)) parts = line.split(/[;\t]/);
+      else if (line.split(',').length === 2) parts = line.split(',');
+      else parts = line.split(/\s+/);
+      parts = parts.map((p) => p.trim()).filter((p) => p !== '');
+      if (parts.length !== 2) {
+        problems.push({ line: n, message: `Line ${n}: give a latitude and a longitude, such as "51.47 -0.45" or "6012N01105E".` });
+        return;
+      }
+      a = readCoordinate(parts[0]);
+      b = readCoordinate(parts[1]);
+    }
     if (!a || !b) {
-      problems.push({ line: n, message: `Line ${n}: "${line}" is not two numbers in degrees.` });
+      problems.push({ line: n, message: `Line ${n}: "${line}" is not a latitude and a longitude in degrees.` });
       return;
     }
     if ((a.hemi === 'E' || a.hemi === 'W') && (b.hemi === 'N' || b.hemi === 'S')) {
@@ -380,8 +476,10 @@ export function buildScreeningBody(values: ScreenFormValues, ctx: ScreenFormCont
     body.cruise = { flightLevel: need('flightLevel', values.flightLevel, 'a flight level') ?? Number.NaN };
   } else {
     body.cruise = {
-      steps: values.steps.map((s, i) => {
+      steps: values.steps.map((s, i): StepBody => {
         let fromKm = 0;
+        const at = i > 0 && s.at ? Number(s.at) : null;
+        if (at !== null) return { atWaypoint: at, flightLevel: need(`steps.${i}.flightLevel`, s.flightLevel, 'a flight level') ?? Number.NaN };
         if (i > 0) {
           const from = need(`steps.${i}.from`, s.from, `where this step climb starts, in ${u.distance} from departure`);
           if (from !== undefined && (from < 0 || from > u.stepMax)) add(`steps.${i}.from`, `A step must start between 0 and ${plain(u.stepMax)} ${u.distance} along the route.`);
@@ -492,12 +590,30 @@ const engineInputWithoutEmission = screeningInputSchema.omit({ emission: true })
 export function screenFormProblems(values: ScreenFormValues, ctx: ScreenFormContext): { body: ScreeningRequestBody; problems: FormProblem[] } {
   const { body, problems } = buildScreeningBody(values, ctx);
   const seen = new Set(problems.map((p) => p.path));
-  const { aircraft: _aircraft, name: _name, ...engine } = body;
+  const { aircraft: _aircraft, name: _name, ...requested } = body;
+  // A step at a waypoint gets its distance on the server (the route's airports are resolved there);
+  // here it stands just after the step before it, so the other checks still run.
+  let previousKm = 0;
+  const engine = {
+    ...requested,
+    cruise:
+      requested.cruise && 'steps' in requested.cruise
+        ? {
+            steps: requested.cruise.steps.map((st) => {
+              previousKm = 'atWaypoint' in st ? previousKm + 0.001 : st.fromKm;
+              return { fromKm: previousKm, flightLevel: st.flightLevel };
+            }),
+          }
+        : requested.cruise,
+  };
   const checked = engine.emission === undefined ? engineInputWithoutEmission.safeParse(engine) : screeningInputSchema.safeParse(engine);
   if (!checked.success) {
     for (const issue of checked.error.issues) {
       const path = formPathFor(issue.path.map(String).join('.'), values);
       if (path === null || seen.has(path)) continue;
+      // The whole-cruise message adds nothing when a step's own field already says what is wrong (and
+      // would stay behind once that field is fixed, since only the edited field is validated again).
+      if (path === 'steps' && problems.some((p) => p.path.startsWith('steps.'))) continue;
       if (path === 'fuelBurn' || path === 'tropopauseAltitude' || /^steps\.\d+\.from$/.test(path)) {
         if (issue.code === 'too_small' || issue.code === 'too_big' || issue.code === 'invalid_type') continue;
       }
@@ -518,7 +634,7 @@ const screenFormShape = z.object({
   flightPlan: z.object({ text: z.string(), from: z.string(), to: z.string() }),
   cruiseMode: z.enum(CRUISE_MODES),
   flightLevel: z.string(),
-  steps: z.array(z.object({ from: z.string(), flightLevel: z.string() })),
+  steps: z.array(z.object({ from: z.string(), flightLevel: z.string(), at: z.string().optional() })),
   fuelBurn: z.string(),
   emissionMode: z.enum(EMISSION_MODES),
   aircraft: z.string(),

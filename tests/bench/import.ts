@@ -5,8 +5,9 @@
  * Prints rows/s for each stage, the total seconds and the peak RSS of the server process (its whole
  * process group). Figures only; it fails only when the import does not complete correctly.
  *
- * Run: npx tsx tests/bench/import.ts [rows]. It holds the e2e lock (/tmp/tropopass-e2e.lock) for the
- * whole run, since it uses the shared .next build, and builds the app first (BENCH_SKIP_BUILD=1 reuses one).
+ * Run: npx tsx tests/bench/import.ts [rows]. It builds the app into its own directory (`.next-bench`,
+ * see dist-dir.ts; BENCH_SKIP_BUILD=1 reuses that build), so a demo serving `.next` keeps running, and
+ * holds the e2e lock (/tmp/tropopass-e2e.lock) for the whole run.
  */
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { createHash } from 'node:crypto';
@@ -17,6 +18,7 @@ import Database from 'better-sqlite3';
 import { encode } from 'next-auth/jwt';
 import { freePort } from '../support/free-port';
 import { seededRandom } from '../../lib/random';
+import { BENCH_DIST_DIR, benchNextEnv, hasBenchBuild } from './dist-dir';
 
 const ROWS = Number(process.argv[2] ?? 100_000);
 const root = process.cwd();
@@ -90,15 +92,15 @@ async function main(): Promise<void> {
     });
     process.exit(r.status ?? 1);
   }
-  if (process.env.BENCH_SKIP_BUILD !== '1' || !fs.existsSync(path.join(root, '.next', 'BUILD_ID'))) {
-    console.log('building the app (BENCH_SKIP_BUILD=1 reuses an existing build)…');
-    run(process.execPath, ['node_modules/next/dist/bin/next', 'build'], { ...process.env, NODE_ENV: 'production' }, 'next build');
+  if (process.env.BENCH_SKIP_BUILD !== '1' || !hasBenchBuild(root)) {
+    console.log(`building the app into ${BENCH_DIST_DIR} (BENCH_SKIP_BUILD=1 reuses that build)…`);
+    run(process.execPath, ['node_modules/next/dist/bin/next', 'build'], benchNextEnv({ ...process.env, NODE_ENV: 'production' }), 'next build');
   }
   const work = fs.mkdtempSync(path.join(os.tmpdir(), 'tropopass-bench-'));
   const port = await freePort();
   const baseUrl = `http://127.0.0.1:${port}`;
   const dbFile = path.join(work, 'bench.sqlite');
-  const env: NodeJS.ProcessEnv = {
+  const env: NodeJS.ProcessEnv = benchNextEnv({
     ...process.env,
     NODE_ENV: 'production',
     SQLITE_FILE: dbFile,
@@ -111,7 +113,7 @@ async function main(): Promise<void> {
     BILLING_SENDER: '0',
     RATE_LIMIT_API_PER_MIN: '100000',
     LOG_LEVEL: 'warn',
-  };
+  });
   const knexCli = ['--import', 'tsx', 'node_modules/knex/bin/cli.js', '--knexfile', 'knexfile.ts'];
   run(process.execPath, [...knexCli, 'migrate:latest'], env, 'migrate');
   run(process.execPath, [...knexCli, 'seed:run'], env, 'seed');

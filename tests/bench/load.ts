@@ -10,7 +10,8 @@
  *
  * Env: BENCH_SECONDS (default 30), BENCH_CONNECTIONS (default 32), BENCH_BUILD=1 to rebuild first,
  * BENCH_IMPORT_ROWS (default 100 000; 0 skips the import run), BENCH_IMPORT_SECONDS (default 10).
- * It takes the checkout's e2e lock itself for the whole run (no build can replace .next meanwhile).
+ * It builds into `.next-bench` (dist-dir.ts), never the `.next` a demo may be serving, and takes the
+ * checkout's e2e lock for the whole run.
  */
 import { createRequire } from 'node:module';
 import fs from 'node:fs';
@@ -18,6 +19,7 @@ import os from 'node:os';
 import Database from 'better-sqlite3';
 import { appEnv, build, hasBuild, insertApiKey, prepareDatabase, reexecUnderLock, startApp, tempDir } from '../soak/app-process';
 import { freePort } from '../support/free-port';
+import { BENCH_DIST_DIR, benchNextEnv } from './dist-dir';
 
 const require = createRequire(import.meta.url);
 
@@ -142,10 +144,10 @@ async function sequentialPreviews(url: string, headers: Record<string, string>, 
 async function main(): Promise<number> {
   const locked = reexecUnderLock('tests/bench/load.ts');
   if (locked !== null) return locked;
-  if (process.env.BENCH_BUILD === '1' || !hasBuild()) build();
+  if (process.env.BENCH_BUILD === '1' || !hasBuild(BENCH_DIST_DIR)) build(benchNextEnv(process.env));
   const dir = tempDir('tropopass-load-');
   const port = await freePort();
-  const env = appEnv({ dir, port });
+  const env = benchNextEnv(appEnv({ dir, port }));
   prepareDatabase(env);
   const file = String(env.SQLITE_FILE);
   const key = insertApiKey(file, SLUG, 'analyst');

@@ -12,8 +12,9 @@ import { newApiKey } from '@/lib/auth/tokens';
 
 export const ROOT = process.cwd();
 
-export function hasBuild(): boolean {
-  return fs.existsSync(path.join(ROOT, '.next', 'BUILD_ID'));
+/** `distDir` is the build directory (TROPOPASS_DIST_DIR); the benchmarks pass their own. */
+export function hasBuild(distDir = '.next'): boolean {
+  return fs.existsSync(path.join(ROOT, distDir, 'BUILD_ID'));
 }
 
 const LOCK = '/tmp/tropopass-e2e.lock';
@@ -30,8 +31,8 @@ export function reexecUnderLock(entry: string): number | null {
 }
 
 /** `next build`; call it only while holding the lock (see reexecUnderLock). */
-export function build(): void {
-  const r = spawnSync(process.execPath, ['node_modules/next/dist/bin/next', 'build'], { cwd: ROOT, stdio: 'inherit' });
+export function build(env: NodeJS.ProcessEnv = process.env): void {
+  const r = spawnSync(process.execPath, ['node_modules/next/dist/bin/next', 'build'], { cwd: ROOT, stdio: 'inherit', env });
   if (r.status !== 0) throw new Error(`next build failed (exit ${r.status})`);
 }
 

@@ -88,7 +88,9 @@ describe('parseWaypointList', () => {
 
   it.each([
     ['51.47', 'Line 1: give a latitude and a longitude'],
-    ['north -0.45', 'is not two numbers'],
+    ['north -0.45', 'is not a latitude and a longitude'],
+    ['6072N01105E', 'minutes and seconds must be below 60'],
+    ['60 12 75N 011 05E', 'minutes and seconds must be below 60'],
     ['95 10', 'latitude 95 is outside -90 to 90'],
     ['10 190', 'longitude 190 is outside -180 to 180'],
     ['0.45W 51.47N', 'put the latitude first'],
@@ -100,10 +102,50 @@ describe('parseWaypointList', () => {
     expect(r.problems.map((p) => p.message).join(' ')).toContain(message);
   });
 
+  // Compact form as in ICAO Doc 4444 (flight plan item 15: 2 or 4/6 digits of latitude, 3 or 5/7 of longitude).
+  it.each([
+    ['6012N01105E', 60.2, 11 + 5 / 60],
+    ['6012S01105W', -60.2, -(11 + 5 / 60)],
+    ['601230N0110545E', 60 + 12 / 60 + 30 / 3600, 11 + 5 / 60 + 45 / 3600],
+    ['60 12.5N 011 05.3E', 60 + 12.5 / 60, 11 + 5.3 / 60],
+    ['N60 12.5 E011 05.3', 60 + 12.5 / 60, 11 + 5.3 / 60],
+    ["60°12'N 11°05'E", 60.2, 11 + 5 / 60],
+    ['60°12\'30"N 11°05\'45"W', 60 + 12 / 60 + 30 / 3600, -(11 + 5 / 60 + 45 / 3600)],
+    ['N 60°12.5\' W 011°05.3\'', 60 + 12.5 / 60, -(11 + 5.3 / 60)],
+    ["-33°52'04\", 151°12'36\"", -(33 + 52 / 60 + 4 / 3600), 151 + 12 / 60 + 36 / 3600],
+    ['60 12 30N 011 05 45E', 60 + 12 / 60 + 30 / 3600, 11 + 5 / 60 + 45 / 3600],
+  ])('reads the sexagesimal form %j', (text, lat, lon) => {
+    const r = parseWaypointList(text);
+    expect(r.problems).toEqual([]);
+    expect(r.points).toHaveLength(1);
+    expect(r.points[0].lat).toBeCloseTo(lat, 9);
+    expect(r.points[0].lon).toBeCloseTo(lon, 9);
+  });
+
   it('reports the line number of each bad line and keeps the good ones', () => {
     const r = parseWaypointList('51.47 -0.45\nabc\n64.13 -21.94\n100 0');
     expect(r.points).toHaveLength(2);
     expect(r.problems.map((p) => p.line)).toEqual([2, 4]);
+  });
+});
+
+describe('step climbs at a waypoint', () => {
+  it('a step placed at a stop goes to the server as atWaypoint, and the form finds nothing wrong with it', () => {
+    const v = filled({
+      airports: [{ code: 'EGLL' }, { code: 'BIKF' }, { code: 'PANC' }],
+      cruiseMode: 'steps',
+      steps: [
+        { from: '0', flightLevel: '350' },
+        { from: '', flightLevel: '370', at: '1' },
+        { from: '', flightLevel: '390', at: '' },
+      ],
+    });
+    const { body, problems } = screenFormProblems(v, ctx());
+    // Only the blank distance is named: no whole-cruise message that would outlive its fix.
+    expect(problems.map((p) => p.path)).toEqual(['steps.2.from']);
+    expect(body.cruise).toEqual({ steps: [{ fromKm: 0, flightLevel: 350 }, { atWaypoint: 1, flightLevel: 370 }, { fromKm: Number.NaN, flightLevel: 390 }] });
+    const fixed = screenFormProblems({ ...v, steps: [v.steps[0], v.steps[1], { from: '6000', flightLevel: '390' }] }, ctx());
+    expect(fixed.problems).toEqual([]);
   });
 });
 

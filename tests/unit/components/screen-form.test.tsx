@@ -177,4 +177,63 @@ describe('Screen a flight form', () => {
     expect((document.getElementById('assumptions-jO3NoonPerS-central') as HTMLInputElement).placeholder).toBe('4.5 × 10⁻⁴');
     expect((document.getElementById('assumptions-relativeHumidity') as HTMLInputElement).placeholder).toBe('60');
   });
+
+  describe('server errors belong to the input they were computed from', () => {
+    type Answer = { status: number; body: unknown } | 'hang';
+    function stubServer(answer: (url: string, body: string) => Answer) {
+      const calls: string[] = [];
+      vi.stubGlobal('fetch', (url: string, init?: RequestInit) => {
+        const body = String(init?.body ?? '');
+        calls.push(`${url} ${body}`);
+        if (url.startsWith('/api/v1/airports')) return Promise.resolve(new Response('[]', { status: 200, headers: { 'content-type': 'application/json' } }));
+        const a = answer(url, body);
+        if (a === 'hang') {
+          return new Promise((_resolve, reject) => init?.signal?.addEventListener('abort', () => reject(new DOMException('aborted', 'AbortError'))));
+        }
+        return Promise.resolve(new Response(JSON.stringify(a.body), { status: a.status, headers: { 'content-type': 'application/json' } }));
+      });
+      return calls;
+    }
+    const noLength = { status: 422, body: { error: { code: 'invalid_input', message: 'Check the highlighted fields.', fields: [{ path: 'route', message: 'The route has no length: give two different places.' }] } } };
+    afterEach(() => vi.unstubAllGlobals());
+
+    function fillSameAirportTwice() {
+      fireEvent.change(screen.getByLabelText('From'), { target: { value: 'EGLL' } });
+      fireEvent.change(screen.getByLabelText('To'), { target: { value: 'EGLL' } });
+      fireEvent.change(screen.getByLabelText('Cruise fuel burn (kg)'), { target: { value: '60000' } });
+      fireEvent.change(screen.getByLabelText('Aircraft type'), { target: { value: 'T-LR' } });
+    }
+
+    it("the preview's field error goes as soon as the route changes, before any new answer", async () => {
+      const calls = stubServer((_url, body) => (body.includes('"EFHK"') ? 'hang' : noLength));
+      renderForm({ previewDelayMs: 0 });
+      fillSameAirportTwice();
+      await waitFor(() => expect(screen.getByText('The route has no length: give two different places.')).toBeTruthy());
+      fireEvent.change(screen.getByLabelText('To'), { target: { value: 'EFHK' } });
+      await waitFor(() => expect(screen.queryByText('The route has no length: give two different places.')).toBeNull());
+      expect(calls.some((c) => c.includes('/screenings/preview') && c.includes('"EFHK"'))).toBe(true);
+    });
+
+    it("a save's field error and its summary go when the input changes", async () => {
+      stubServer((url) => (url.endsWith('/screenings') ? noLength : 'hang'));
+      renderForm({ previewDelayMs: 0 });
+      fillSameAirportTwice();
+      save();
+      await waitFor(() => expect(screen.getByText('Some fields need attention: see the messages beside them.')).toBeTruthy());
+      expect(screen.getByText('The route has no length: give two different places.')).toBeTruthy();
+      fireEvent.change(screen.getByLabelText('From'), { target: { value: 'EFHK' } });
+      await waitFor(() => expect(screen.queryByText('The route has no length: give two different places.')).toBeNull());
+      expect(screen.queryByText('Some fields need attention: see the messages beside them.')).toBeNull();
+    });
+
+    it('an unchanged input keeps its server error', async () => {
+      stubServer(() => noLength);
+      renderForm({ previewDelayMs: 0 });
+      fillSameAirportTwice();
+      await waitFor(() => expect(screen.getByText('The route has no length: give two different places.')).toBeTruthy());
+      fireEvent.change(screen.getByLabelText('To'), { target: { value: 'EGLL' } });
+      await new Promise((r) => setTimeout(r, 50));
+      expect(screen.getByText('The route has no length: give two different places.')).toBeTruthy();
+    });
+  });
 });

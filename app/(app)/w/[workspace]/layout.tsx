@@ -9,6 +9,7 @@ import { WorkspaceNav } from '@/components/shell/workspace-nav';
 import { WorkspaceSwitcher } from '@/components/shell/workspace-switcher';
 import { RoleNotice } from '@/components/shell/role-notice';
 import { Suspense } from 'react';
+import { MobileNav } from '@/components/shell/mobile-nav';
 
 export default async function WorkspaceLayout({ children, params }: { children: React.ReactNode; params: Promise<{ workspace: string }> }) {
   const { workspace: slug } = await params;
@@ -25,10 +26,19 @@ export default async function WorkspaceLayout({ children, params }: { children: 
   // Likewise a detail page whose item is not in this workspace: a 404 before anything streams.
   if (asked && (await detailItemExists({ workspaceId: workspace.id }, asked.split(/[?#]/)[0])) === false) notFound();
   const memberships = await listWorkspacesForUser({ userId: user.id });
+  const switcher = <WorkspaceSwitcher current={slug} options={memberships.map((m) => ({ slug: m.workspace.slug, name: m.workspace.name, role: m.role }))} />;
   return (
     <div className="min-h-screen">
-      <TopBar user={user}>
-        <WorkspaceSwitcher current={slug} options={memberships.map((m) => ({ slug: m.workspace.slug, name: m.workspace.name, role: m.role }))} />
+      <TopBar
+        user={user}
+        menu={
+          <MobileNav>
+            <div className="mb-4 sm:hidden">{switcher}</div>
+            <WorkspaceNav slug={slug} role={role} label="Workspace (menu)" />
+          </MobileNav>
+        }
+      >
+        {switcher}
       </TopBar>
       <div className="mx-auto flex max-w-[1400px] gap-6 px-4 py-6">
         <aside className="hidden w-52 shrink-0 md:block">

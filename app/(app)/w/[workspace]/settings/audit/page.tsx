@@ -2,6 +2,7 @@ import { requireMember } from '@/lib/auth/guards';
 import { listAuditEntries } from '@/db/audit';
 import { Card, EmptyState, PageHeader } from '@/components/ui/card';
 import { formatDateTime } from '@/lib/format';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 export const metadata = { title: 'Audit log' };
 
@@ -16,28 +17,38 @@ export default async function AuditPage({ params }: { params: Promise<{ workspac
         <EmptyState title="Nothing recorded yet" />
       ) : (
         <Card>
-          <table className="w-full text-sm">
+          {/* Long details (JSON without spaces) wrap inside their cell; on a phone the table scrolls in its frame. */}
+          <ScrollRegion label="Audit log">
+          <table className="w-full min-w-[900px] table-fixed text-sm">
+            <colgroup>
+              <col className="w-40" />
+              <col className="w-48" />
+              <col className="w-44" />
+              <col className="w-40" />
+              <col />
+            </colgroup>
             <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
               <tr>
-                <th className="py-2">When</th>
-                <th className="py-2">Who</th>
-                <th className="py-2">What</th>
-                <th className="py-2">Target</th>
-                <th className="py-2">Detail</th>
+                <th scope="col" className="py-2 pr-3">When</th>
+                <th scope="col" className="py-2 pr-3">Who</th>
+                <th scope="col" className="py-2 pr-3">What</th>
+                <th scope="col" className="py-2 pr-3">Target</th>
+                <th scope="col" className="py-2 pr-3">Detail</th>
               </tr>
             </thead>
             <tbody>
               {rows.map((r) => (
                 <tr key={r.id} className="border-t border-line">
                   <td className="py-1.5 pr-3 whitespace-nowrap text-ink-soft">{formatDateTime(r.createdAt)}</td>
-                  <td className="py-1.5 pr-3">{r.actor ?? '—'}</td>
-                  <td className="py-1.5 pr-3 font-mono text-xs">{r.action}</td>
-                  <td className="py-1.5 pr-3">{r.target ?? ''}</td>
-                  <td className="py-1.5 font-mono text-xs text-ink-soft">{r.detail ? JSON.stringify(r.detail) : ''}</td>
+                  <td className="py-1.5 pr-3 break-words">{r.actor ?? '—'}</td>
+                  <td className="py-1.5 pr-3 font-mono text-xs break-words">{r.action}</td>
+                  <td className="py-1.5 pr-3 break-words">{r.target ?? ''}</td>
+                  <td className="py-1.5 font-mono text-xs text-ink-soft [overflow-wrap:anywhere]">{r.detail ? JSON.stringify(r.detail) : ''}</td>
                 </tr>
               ))}
             </tbody>
           </table>
+          </ScrollRegion>
         </Card>
       )}
     </>

@@ -109,7 +109,7 @@ async function PeriodUsage({ slug, workspaceId }: { slug: string; workspaceId: n
 
 function PeriodUsageSkeleton() {
   return (
-    <div className="animate-pulse space-y-4" role="status" aria-label="Loading this period's usage">
+    <div role="status" className="animate-pulse space-y-4" aria-label="Loading this period's usage">
       <div className="h-4 w-56 rounded bg-paper-sunk" />
       <div className="grid gap-3 sm:grid-cols-2">
         <div className="h-24 rounded-card bg-paper-sunk" />

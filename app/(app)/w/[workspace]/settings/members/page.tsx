@@ -3,6 +3,7 @@ import { listMembers, listOpenInvitations } from '@/db/workspaces';
 import { Card, PageHeader } from '@/components/ui/card';
 import { ROLE_LABELS } from '@/lib/auth/policy';
 import { formatDate } from '@/lib/format';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 import { InviteForm, MemberRow, RevokeInvitationButton } from './member-forms';
 
 export const metadata = { title: 'Members' };
@@ -15,7 +16,8 @@ export default async function MembersPage({ params }: { params: Promise<{ worksp
     <>
       <PageHeader title="Members" lead="Who can open this workspace, and what their role lets them do." />
       <Card title={`${members.length} member${members.length === 1 ? '' : 's'}`}>
-        <table className="w-full text-sm">
+        <ScrollRegion label="Members">
+        <table className="w-full min-w-[520px] text-sm">
           <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
             <tr>
               <th className="py-2">Person</th>
@@ -30,6 +32,7 @@ export default async function MembersPage({ params }: { params: Promise<{ worksp
             ))}
           </tbody>
         </table>
+        </ScrollRegion>
       </Card>
       <div className="mt-6 grid gap-6 lg:grid-cols-2">
         <Card title="Invite someone">
@@ -41,8 +44,8 @@ export default async function MembersPage({ params }: { params: Promise<{ worksp
           ) : (
             <ul className="divide-y divide-line text-sm">
               {invitations.map((i) => (
-                <li key={i.id} className="flex items-center justify-between py-2">
-                  <span>
+                <li key={i.id} className="flex items-center justify-between gap-3 py-2">
+                  <span className="min-w-0 break-words">
                     {i.email} — {ROLE_LABELS[i.role]}
                     <span className="block text-xs text-ink-faint">valid until {formatDate(i.expiresAt)}</span>
                   </span>

@@ -13,7 +13,7 @@ export const POST = workspaceRoute<{ slug: string }>('screenings:create', async 
   const key = req.headers.get('idempotency-key')?.trim() || null;
   if (key && key.length > 255) throw invalidFields([{ path: 'Idempotency-Key', message: 'The Idempotency-Key header must be at most 255 characters.' }]);
   const parsed = await parseScreeningBody(raw, { workspaceId: member.workspace.id });
-  const result = runScreening(parsed.input, parsed.library);
+  const result = runScreening(parsed.input, parsed.library, parsed.aircraftCode);
   const { record, replayed } = await createScreening(
     { workspaceId: member.workspace.id },
     {

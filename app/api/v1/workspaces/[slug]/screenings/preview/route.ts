@@ -8,7 +8,7 @@ export const POST = workspaceRoute<{ slug: string }>('screenings:create', async 
   await limitPreview(principal.kind === 'user' ? `u:${principal.user.id}` : `k:${principal.key.keyId}`);
   const raw = await readJson(req, z.unknown());
   const parsed = await parseScreeningBody(raw, { workspaceId: member.workspace.id });
-  const result = runScreening(parsed.input, parsed.library);
+  const result = runScreening(parsed.input, parsed.library, parsed.aircraftCode);
   const levels = runWhatIf(parsed.input, parsed.whatIf, result, parsed.library);
   const months = parsed.months === true ? runMonthSweep(parsed.input, parsed.library) : undefined;
   return json({ input: parsed.input, aircraft: parsed.aircraftCode, result, levels, ...(months ? { months } : {}) });
