@@ -44,7 +44,7 @@ export function MobileNav({ children }: { children: ReactNode }) {
         type="button"
         aria-expanded={open}
         aria-controls={panelId}
-        onClick={() => setOpen((o) => !o)}
+        onClick={() => setOpen(!open)}
         className="inline-flex items-center gap-1.5 rounded-md border border-line-strong px-2.5 py-1.5 text-sm font-medium text-ink hover:bg-paper-sunk"
       >
         <svg aria-hidden width="16" height="16" viewBox="0 0 16 16" fill="none" stroke="currentColor" strokeWidth="1.6">
