@@ -1,6 +1,6 @@
 import { NextResponse, type NextRequest } from 'next/server';
 import { appUrl, env } from '@/lib/env';
-import { RETURN_TO_HEADER, safeCallbackPath } from '@/lib/auth/callback';
+import { DOCUMENT_HEADER, RETURN_TO_HEADER, safeCallbackPath } from '@/lib/auth/callback';
 import { isAllowedOrigin } from '@/lib/auth/origin-check';
 import { baseSecurityHeaders, contentSecurityPolicy, createNonce, hasSessionCookie, mustNotStore, wantsHsts } from '@/lib/security/headers';
 
@@ -34,6 +34,8 @@ export function proxy(request: NextRequest): NextResponse {
   requestHeaders.set('content-security-policy', csp);
   // Pages read this to send a signed-out visitor to sign-in and back to the very same path and query.
   requestHeaders.set(RETURN_TO_HEADER, returnTo(pathname, request.nextUrl.searchParams));
+  const isDocument = request.method === 'GET' && !request.headers.has('rsc') && !request.headers.has('next-action');
+  requestHeaders.set(DOCUMENT_HEADER, isDocument ? '1' : '0');
 
   const res = NextResponse.next({ request: { headers: requestHeaders } });
   res.headers.set('content-security-policy', csp);

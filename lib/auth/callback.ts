@@ -10,6 +10,9 @@ export const DEFAULT_LANDING = '/start';
 /** Set by proxy.ts on every page request (overwriting any sent by the client): the path and query asked for. */
 export const RETURN_TO_HEADER = 'x-tropopass-return-to';
 
+/** Set by proxy.ts to "1" on a full page load (not a client navigation or a server action): the only kind whose status code a browser sees. */
+export const DOCUMENT_HEADER = 'x-tropopass-document';
+
 const MAX_CALLBACK_LENGTH = 2048;
 
 function looksLikeHostStart(path: string): boolean {

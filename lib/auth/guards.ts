@@ -7,7 +7,7 @@ import { AppError, forbidden as forbiddenError, notFound as notFoundError, unaut
 import { assertSameOrigin } from './origin';
 import { log } from '@/lib/log';
 import { appUrl } from '@/lib/env';
-import { RETURN_TO_HEADER, safeCallbackPath } from './callback';
+import { DOCUMENT_HEADER, RETURN_TO_HEADER, safeCallbackPath } from './callback';
 import { workspaceLanding } from './landing';
 
 export interface MemberContext {
@@ -20,6 +20,12 @@ export interface MemberContext {
 export async function requestedPath(): Promise<string | null> {
   const { headers } = await import('next/headers');
   return safeCallbackPath((await headers()).get(RETURN_TO_HEADER), appUrl());
+}
+
+/** True on a full page load, where the status code reaches the browser (see proxy.ts). */
+export async function isDocumentRequest(): Promise<boolean> {
+  const { headers } = await import('next/headers');
+  return (await headers()).get(DOCUMENT_HEADER) === '1';
 }
 
 /** Pages: the signed-in user, or a redirect to sign-in that comes back to the whole path and query asked for. */

@@ -168,8 +168,8 @@ describe('sustainability analyst: compare fleets, build, download and send a rep
     await page.waitForURL(/\/reports$/, { timeout: 30_000 });
     await page.getByRole('link', { name: 'Polar fleets, autumn 2026' }).first().waitFor();
     expect(await page.getByRole('link', { name: 'Draft to discard' }).count()).toBe(0);
-    // The page streams behind its loading state, so the answer is the not-found screen rather than a 404 status.
-    await page.goto(url);
+    // The workspace layout checks the item before the loading screen streams, so this is a real 404.
+    expect((await page.goto(url))?.status()).toBe(404);
     await page.getByRole('heading', { level: 1, name: 'Not found' }).waitFor();
     await context.close();
   });

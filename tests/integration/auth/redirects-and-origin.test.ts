@@ -48,6 +48,8 @@ describe('sign-in callback', () => {
     const page = proxy(req(cb));
     expect(page.headers.get('x-middleware-request-x-tropopass-return-to')).toBe(cb);
     expect(proxy(req(`${cb}&_rsc=abc12`)).headers.get('x-middleware-request-x-tropopass-return-to')).toBe(cb);
+    expect(page.headers.get('x-middleware-request-x-tropopass-document')).toBe('1');
+    expect(proxy(req(cb, { headers: { rsc: '1' } })).headers.get('x-middleware-request-x-tropopass-document')).toBe('0');
     // A client cannot choose it: the proxy writes its own.
     const forged = proxy(req('/w/skarn-polar', { headers: { 'x-tropopass-return-to': '//evil.example/' } }));
     expect(forged.headers.get('x-middleware-request-x-tropopass-return-to')).toBe('/w/skarn-polar');

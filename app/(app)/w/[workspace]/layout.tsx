@@ -1,6 +1,6 @@
 import { forbidden, notFound, redirect } from 'next/navigation';
 import { detailItemExists } from '@/db/item-exists';
-import { requestedPath, requireMember } from '@/lib/auth/guards';
+import { isDocumentRequest, requestedPath, requireMember } from '@/lib/auth/guards';
 import { workspaceLanding, workspacePageOf } from '@/lib/auth/landing';
 import { can } from '@/lib/auth/policy';
 import { listWorkspacesForUser } from '@/db/workspaces';
@@ -16,7 +16,9 @@ export default async function WorkspaceLayout({ children, params }: { children: 
   const { user, role, workspace } = await requireMember(slug);
   // Checked here as well as in each page: pages with a loading screen stream inside it, and a refusal
   // raised there would already have answered 200. The layout is part of the first flush, so this is a 403.
-  const asked = await requestedPath();
+  // Only on a full page load: a client navigation or a server action re-rendering this page after a
+  // delete must reach the page's own not-found screen, not stop in the shared layout.
+  const asked = (await isDocumentRequest()) ? await requestedPath() : null;
   const page = asked ? workspacePageOf(asked) : null;
   if (page?.permission && page.slug === slug && !can(role, page.permission)) {
     const landing = workspaceLanding(slug, role);
