@@ -1,11 +1,11 @@
 import 'server-only';
 import type { Knex } from 'knex';
 import { db, nowIso } from './client';
-import { randomToken } from '@/lib/auth/tokens';
+import { randomBytes } from 'node:crypto';
 
 /** Records a new session for the user and returns its id (carried in the session token). */
 export async function createSession(userId: number, lifetimeHours: number, trx: Knex | Knex.Transaction = db()): Promise<string> {
-  const id = randomToken(24);
+  const id = randomBytes(24).toString('base64url');
   await trx('auth_sessions').insert({
     id,
     user_id: userId,

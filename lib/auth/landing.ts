@@ -26,6 +26,7 @@ export const PAGE_PERMISSIONS: Record<string, Permission> = {
   routes: 'flights:read',
   engines: 'flights:read',
   soundings: 'flights:read',
+  fixes: 'flights:read',
   'settings/audit': 'audit:read',
   'settings/billing': 'billing:read',
   'settings/api-keys': 'apikeys:manage',

@@ -23,6 +23,8 @@ const NOT_YET_MOVED = [
   'db/imports.ts -> lib/validation/imports',
   'db/imports.ts -> lib/imports/schedule',
   'db/reports.ts -> lib/reports/model',
+  'db/route-library.ts -> lib/screening',
+  'db/route-library.ts -> lib/validation/route-library',
   'db/reset-tokens.ts -> lib/auth/tokens',
   'db/screenings.ts -> lib/billing/gate',
   'db/screenings.ts -> lib/validation/screening',
