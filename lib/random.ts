@@ -1,15 +1,6 @@
 /**
- * A small seeded pseudo-random generator (mulberry32, 32-bit state) for deterministic demo seeds,
- * tests and benchmarks: the same seed gives the same sequence on every machine. Not for secrets.
- * Returns numbers in [0, 1).
+ * A small seeded pseudo-random generator for deterministic demo seeds, tests and benchmarks: the
+ * engine's Mulberry32 stream (lib/screening/prng.ts), so the product has one seeded generator. The
+ * same seed gives the same sequence on every machine. Not for secrets. Returns numbers in [0, 1).
  */
-export function seededRandom(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4_294_967_296;
-  };
-}
+export { mulberry32 as seededRandom } from './screening/prng';

@@ -289,7 +289,7 @@ describe('accessibility and CSP on the main pages', () => {
     await signIn(page, 'planner@tropopass.test');
     await page.goto('/w/skarn-polar/screen');
     await page.getByRole('heading', { level: 1 }).first().waitFor();
-    await page.getByRole('combobox', { name: 'From' }).fill('EGLL');
+    await page.getByRole('combobox', { name: 'From', exact: true }).fill('EGLL');
     await page.getByRole('button', { name: 'Add a stop' }).click();
     await page.getByRole('combobox', { name: 'Stop 1' }).fill('BIKF');
     await page.getByRole('combobox', { name: 'To', exact: true }).fill('PANC');

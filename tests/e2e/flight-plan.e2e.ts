@@ -5,7 +5,7 @@ import { newPage, screenshot, signIn, useBrowser } from './support/browser';
 const { browser } = useBrowser();
 
 async function pickAirport(page: Page, label: string, code: string): Promise<void> {
-  const box = page.getByRole('combobox', { name: label });
+  const box = page.getByRole('combobox', { name: label, exact: true });
   await box.fill(code);
   await page.getByRole('option', { name: new RegExp(`^${code}`) }).first().waitFor();
   await box.press('ArrowDown');

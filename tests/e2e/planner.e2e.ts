@@ -19,7 +19,7 @@ async function tracked(b: Browser, viewport?: { width: number; height: number })
 }
 
 async function pickAirport(page: Page, label: string, code: string): Promise<void> {
-  const box = page.getByRole('combobox', { name: label });
+  const box = page.getByRole('combobox', { name: label, exact: true });
   await box.fill(code);
   await page.getByRole('option', { name: new RegExp(`^${code}`) }).first().waitFor();
   await box.press('ArrowDown');
@@ -187,8 +187,8 @@ describe('a flight planner screens a polar flight', () => {
     const { page, context, consoleErrors } = await tracked(browser());
     await signIn(page, 'planner@tropopass.test');
     await page.goto('/w/skarn-polar/screen');
-    await page.getByRole('combobox', { name: 'From' }).fill('EGLL');
-    await page.getByRole('combobox', { name: 'To' }).fill('ZZZZ');
+    await page.getByRole('combobox', { name: 'From', exact: true }).fill('EGLL');
+    await page.getByRole('combobox', { name: 'To', exact: true }).fill('ZZZZ');
     await page.getByLabel('Cruise fuel burn (kg)').fill('52000');
     await page.locator('#airports-1-error').filter({ hasText: /ZZZZ|airport/i }).waitFor({ timeout: 20_000 });
     await page.getByLabel('Flight level', { exact: true }).fill('900');

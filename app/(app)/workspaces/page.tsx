@@ -105,7 +105,7 @@ export default async function WorkspacesPage() {
             <h2 id="clients-heading" className="mb-3 text-lg font-semibold text-ink">
               Clients at a glance
             </h2>
-            <div className="grid gap-4 lg:grid-cols-2">
+            <div className="grid grid-cols-1 gap-4 lg:grid-cols-2">
               {memberships.map((m) => (
                 <ClientCard key={m.workspace.id} name={m.workspace.name} slug={m.workspace.slug} status={statuses.get(m.workspace.id) ?? null} billing={billing.get(m.workspace.id) ?? null} units={user.units} />
               ))}

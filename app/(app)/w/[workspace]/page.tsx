@@ -1,3 +1,4 @@
+import { ScrollRegion } from '@/components/ui/scroll-region';
 import { requireMember } from '@/lib/auth/guards';
 import { getMonthSummaries, getMonthlyTrend } from '@/db/portfolio';
 import { Card, PageHeader, Stat } from '@/components/ui/card';
@@ -35,7 +36,8 @@ export default async function OverviewPage({ params }: { params: Promise<{ works
         <Stat label="Share above" value={formatPercent(share, 1)} tone="strato" />
       </div>
       <Card title="Trend, last six months" className="mt-6">
-        <table className="w-full text-sm">
+        <ScrollRegion label="Trend, last six months">
+          <table className="w-full text-sm">
           <caption className="sr-only">Saved screenings, imported flights screened and their NOx by month</caption>
           <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
             <tr>
@@ -70,6 +72,7 @@ export default async function OverviewPage({ params }: { params: Promise<{ works
             ))}
           </tbody>
         </table>
+        </ScrollRegion>
         <p className="mt-3 text-xs text-ink-faint">
           Imported flights count in the month they flew, saved screenings in the month they were saved. The ozone-loss figure is the central
           value of a gross catalytic loss, with a wide low–high band on each screening.

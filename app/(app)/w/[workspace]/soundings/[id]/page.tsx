@@ -82,7 +82,7 @@ export default async function SoundingPage({ params }: { params: Promise<{ works
           above. Altitudes are geopotential; a flight level is compared by pressure. Dotted: the ICAO standard atmosphere.
         </p>
       </Card>
-      <div className={canWrite ? 'grid items-start gap-6 lg:grid-cols-[minmax(0,3fr)_minmax(16rem,1fr)]' : ''}>
+      <div className={canWrite ? 'grid grid-cols-1 items-start gap-6 lg:grid-cols-[minmax(0,3fr)_minmax(16rem,1fr)]' : ''}>
         <Card title="Levels">
           <ScrollRegion label="Sounding levels" className="max-h-[32rem] overflow-auto">
             <table className="w-full text-sm">
