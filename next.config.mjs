@@ -5,7 +5,16 @@ const nextConfig = {
   distDir: process.env.TROPOPASS_DIST_DIR || '.next',
   // The payment SDK stays one module instance: bundled into several server chunks, its error classes
   // differ between chunks and `instanceof` misses a declined card or an unknown invoice (500s).
-  serverExternalPackages: ['knex', 'better-sqlite3', '@node-rs/argon2', 'pino', 'nodemailer', 'pdf-lib', 'piscina', 'stripe'],
+  serverExternalPackages: [
+    'knex',
+    'better-sqlite3',
+    '@node-rs/argon2',
+    'pino',
+    'nodemailer',
+    'pdf-lib',
+    'piscina',
+    'stripe',
+  ],
   poweredByHeader: false,
   reactStrictMode: true,
   typedRoutes: false,

@@ -2,7 +2,14 @@ import { NextResponse, type NextRequest } from 'next/server';
 import { appUrl, env } from '@/lib/env';
 import { DOCUMENT_HEADER, RETURN_TO_HEADER, safeCallbackPath } from '@/lib/auth/callback';
 import { isAllowedOrigin } from '@/lib/auth/origin-check';
-import { baseSecurityHeaders, contentSecurityPolicy, createNonce, hasSessionCookie, mustNotStore, wantsHsts } from '@/lib/security/headers';
+import {
+  baseSecurityHeaders,
+  contentSecurityPolicy,
+  createNonce,
+  hasSessionCookie,
+  mustNotStore,
+  wantsHsts,
+} from '@/lib/security/headers';
 
 /**
  * Security headers on every response, and a per-request CSP nonce that Next.js applies to its own
@@ -14,8 +21,15 @@ export function proxy(request: NextRequest): NextResponse {
   const { pathname } = request.nextUrl;
   // A cross-site server action is refused here with a 403 in the usual error shape; left to the
   // framework it would end as a 500.
-  if (request.method === 'POST' && request.headers.has('next-action') && !isAllowedOrigin(request.headers.get('origin'), request.headers.get('host'))) {
-    return NextResponse.json({ error: { code: 'forbidden', message: 'This request came from another site and was refused.' } }, { status: 403 });
+  if (
+    request.method === 'POST' &&
+    request.headers.has('next-action') &&
+    !isAllowedOrigin(request.headers.get('origin'), request.headers.get('host'))
+  ) {
+    return NextResponse.json(
+      { error: { code: 'forbidden', message: 'This request came from another site and was refused.' } },
+      { status: 403 },
+    );
   }
   // A foreign or malformed callback never reaches the sign-in page: it is dropped here.
   if (pathname === '/signin' && request.nextUrl.searchParams.has('callbackUrl')) {

@@ -6,7 +6,8 @@ import { Providers } from '@/components/shell/providers';
 
 export const metadata: Metadata = {
   title: { default: 'Tropopass', template: '%s · Tropopass' },
-  description: 'NOx above the tropopause and a catalytic ozone-loss screening figure for flight planning and fleet reporting.',
+  description:
+    'NOx above the tropopause and a catalytic ozone-loss screening figure for flight planning and fleet reporting.',
 };
 
 export default async function RootLayout({ children }: { children: React.ReactNode }) {

@@ -15,19 +15,43 @@ export interface AircraftForScreening {
 }
 
 /** Aircraft types of a workspace with what screening needs of each, keyed by upper-case code. */
-export async function listAircraftForScreening(scope: { workspaceId: number }, trx: Knex | Knex.Transaction = db()): Promise<Map<string, AircraftForScreening>> {
+export async function listAircraftForScreening(
+  scope: { workspaceId: number },
+  trx: Knex | Knex.Transaction = db(),
+): Promise<Map<string, AircraftForScreening>> {
   const rows = await trx('aircraft_types as a')
     .leftJoin('engines as e', 'e.id', 'a.engine_id')
     .where('a.workspace_id', scope.workspaceId)
-    .select('a.*', 'e.ff_idle_kg_s', 'e.ff_approach_kg_s', 'e.ff_climb_out_kg_s', 'e.ff_take_off_kg_s', 'e.ei_idle_g_kg', 'e.ei_approach_g_kg', 'e.ei_climb_out_g_kg', 'e.ei_take_off_g_kg', 'e.id as eid');
+    .select(
+      'a.*',
+      'e.ff_idle_kg_s',
+      'e.ff_approach_kg_s',
+      'e.ff_climb_out_kg_s',
+      'e.ff_take_off_kg_s',
+      'e.ei_idle_g_kg',
+      'e.ei_approach_g_kg',
+      'e.ei_climb_out_g_kg',
+      'e.ei_take_off_g_kg',
+      'e.id as eid',
+    );
   const out = new Map<string, AircraftForScreening>();
   for (const r of rows) {
     let emission: AircraftForScreening['emission'] = null;
     if (r.eid) {
       emission = {
         engine: {
-          fuelFlowKgS: [Number(r.ff_idle_kg_s), Number(r.ff_approach_kg_s), Number(r.ff_climb_out_kg_s), Number(r.ff_take_off_kg_s)],
-          eiNoxGPerKg: [Number(r.ei_idle_g_kg), Number(r.ei_approach_g_kg), Number(r.ei_climb_out_g_kg), Number(r.ei_take_off_g_kg)],
+          fuelFlowKgS: [
+            Number(r.ff_idle_kg_s),
+            Number(r.ff_approach_kg_s),
+            Number(r.ff_climb_out_kg_s),
+            Number(r.ff_take_off_kg_s),
+          ],
+          eiNoxGPerKg: [
+            Number(r.ei_idle_g_kg),
+            Number(r.ei_approach_g_kg),
+            Number(r.ei_climb_out_g_kg),
+            Number(r.ei_take_off_g_kg),
+          ],
         },
         engineCount: Number(r.engine_count),
         mach: Number(r.typical_mach),
@@ -48,6 +72,9 @@ export async function listAircraftForScreening(scope: { workspaceId: number }, t
   return out;
 }
 
-export async function getAircraftForScreening(scope: { workspaceId: number }, code: string): Promise<AircraftForScreening | null> {
+export async function getAircraftForScreening(
+  scope: { workspaceId: number },
+  code: string,
+): Promise<AircraftForScreening | null> {
   return (await listAircraftForScreening(scope)).get(code.trim().toUpperCase()) ?? null;
 }

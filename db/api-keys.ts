@@ -46,7 +46,15 @@ export async function createApiKey(
         .returning('id'),
     );
     await createAuditEntry(
-      { workspaceId: scope.workspaceId, userId: input.createdBy, actor: input.actor, action: 'apikey.created', target: `${input.name} (${prefix}…)`, detail: { role: input.role }, ip: input.ip },
+      {
+        workspaceId: scope.workspaceId,
+        userId: input.createdBy,
+        actor: input.actor,
+        action: 'apikey.created',
+        target: `${input.name} (${prefix}…)`,
+        detail: { role: input.role },
+        ip: input.ip,
+      },
       trx,
     );
     return { id, name: input.name.trim(), role: input.role, prefix, createdAt: now, lastUsedAt: null, key };
@@ -63,11 +71,21 @@ export async function revokeApiKey(
   input: { id: number; actorId: number | null; actor: string; ip?: string | null },
 ): Promise<void> {
   await writeTx(async (trx) => {
-    const r = await trx('api_keys').where({ workspace_id: scope.workspaceId, id: input.id }).whereNull('revoked_at').first();
+    const r = await trx('api_keys')
+      .where({ workspace_id: scope.workspaceId, id: input.id })
+      .whereNull('revoked_at')
+      .first();
     if (!r) throw notFound('No active API key with that id in this workspace.');
     await trx('api_keys').where({ id: r.id }).update({ revoked_at: nowIso() });
     await createAuditEntry(
-      { workspaceId: scope.workspaceId, userId: input.actorId, actor: input.actor, action: 'apikey.revoked', target: `${r.name} (${r.key_prefix}…)`, ip: input.ip },
+      {
+        workspaceId: scope.workspaceId,
+        userId: input.actorId,
+        actor: input.actor,
+        action: 'apikey.revoked',
+        target: `${r.name} (${r.key_prefix}…)`,
+        ip: input.ip,
+      },
       trx,
     );
   });
@@ -106,7 +124,9 @@ export async function findApiKey(key: string): Promise<ApiKeyPrincipal | null> {
   const now = Date.now();
   if ((lastTouched.get(id) ?? 0) < now - 60_000) {
     lastTouched.set(id, now);
-    await db()('api_keys').where({ id }).update({ last_used_at: new Date(now).toISOString() });
+    await db()('api_keys')
+      .where({ id })
+      .update({ last_used_at: new Date(now).toISOString() });
   }
   return { keyId: id, keyName: r.name, role: r.role, workspace: { id: Number(r.wid), slug: r.slug, name: r.wname } };
 }

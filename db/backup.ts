@@ -22,9 +22,12 @@ export interface BackupReport {
 
 /** Row counts of every table of an open SQLite connection. */
 export function sqliteRowCounts(conn: Database.Database): Record<string, number> {
-  const names = conn.prepare("select name from sqlite_master where type = 'table' and name not like 'sqlite_%' order by name").all() as { name: string }[];
+  const names = conn
+    .prepare("select name from sqlite_master where type = 'table' and name not like 'sqlite_%' order by name")
+    .all() as { name: string }[];
   const out: Record<string, number> = {};
-  for (const { name } of names) out[name] = (conn.prepare(`select count(*) as n from "${name.replace(/"/g, '""')}"`).get() as { n: number }).n;
+  for (const { name } of names)
+    out[name] = (conn.prepare(`select count(*) as n from "${name.replace(/"/g, '""')}"`).get() as { n: number }).n;
   return out;
 }
 
@@ -59,7 +62,15 @@ export async function backupDatabase(opts: { source: string; target: string }): 
     copy.pragma('journal_mode = DELETE');
     const integrity = String(copy.pragma('integrity_check', { simple: true }));
     const rowCounts = sqliteRowCounts(copy);
-    return { source: opts.source, target: opts.target, bytes: fs.statSync(opts.target).size, pages, seconds: (Date.now() - started) / 1000, integrity, rowCounts };
+    return {
+      source: opts.source,
+      target: opts.target,
+      bytes: fs.statSync(opts.target).size,
+      pages,
+      seconds: (Date.now() - started) / 1000,
+      integrity,
+      rowCounts,
+    };
   } finally {
     copy.close();
   }
@@ -67,7 +78,9 @@ export async function backupDatabase(opts: { source: string; target: string }): 
 
 async function main(): Promise<number> {
   if (isPostgres()) {
-    console.error('DATABASE_URL points at PostgreSQL: back it up with pg_dump (or the server\'s own backup); db:backup copies the SQLite file.');
+    console.error(
+      "DATABASE_URL points at PostgreSQL: back it up with pg_dump (or the server's own backup); db:backup copies the SQLite file.",
+    );
     return 2;
   }
   const source = configuredSqliteFile();
@@ -75,7 +88,9 @@ async function main(): Promise<number> {
   const r = await backupDatabase({ source, target });
   const tables = Object.entries(r.rowCounts);
   console.log(`backup ${r.source} -> ${r.target}`);
-  console.log(`${r.pages} pages, ${(r.bytes / 1024).toFixed(0)} KiB, ${r.seconds.toFixed(2)} s, integrity_check: ${r.integrity}`);
+  console.log(
+    `${r.pages} pages, ${(r.bytes / 1024).toFixed(0)} KiB, ${r.seconds.toFixed(2)} s, integrity_check: ${r.integrity}`,
+  );
   for (const [name, n] of tables) console.log(`  ${name.padEnd(28)} ${n}`);
   return r.integrity === 'ok' ? 0 : 1;
 }

@@ -51,8 +51,10 @@ function toDto(r: Row): BillingDto {
   const status = isBillingStatus(r.status) ? r.status : 'canceled';
   const planId = isPlanId(r.plan_id) ? r.plan_id : DEFAULT_PLAN_ID;
   const checkedAt = str(r.recon_checked_at);
-  const ledger = r.recon_ledger_units === null || r.recon_ledger_units === undefined ? null : Number(r.recon_ledger_units);
-  const provider = r.recon_provider_units === null || r.recon_provider_units === undefined ? null : Number(r.recon_provider_units);
+  const ledger =
+    r.recon_ledger_units === null || r.recon_ledger_units === undefined ? null : Number(r.recon_ledger_units);
+  const provider =
+    r.recon_provider_units === null || r.recon_provider_units === undefined ? null : Number(r.recon_provider_units);
   return {
     workspaceId: Number(r.workspace_id),
     planId,
@@ -78,7 +80,8 @@ function toDto(r: Row): BillingDto {
             checkedAt,
           }
         : null,
-    usageBudgetCents: r.usage_budget_cents === null || r.usage_budget_cents === undefined ? null : Number(r.usage_budget_cents),
+    usageBudgetCents:
+      r.usage_budget_cents === null || r.usage_budget_cents === undefined ? null : Number(r.usage_budget_cents),
     budgetHardStop: Boolean(r.budget_hard_stop),
     updatedAt: String(r.updated_at),
   };
@@ -89,7 +92,10 @@ function trialEnd(startIso: string): string {
 }
 
 /** Every new workspace starts a free trial of the default plan, written in the transaction that creates it. */
-export async function startTrialBilling(workspace: { id: number; createdAt: string }, trx: Knex.Transaction): Promise<void> {
+export async function startTrialBilling(
+  workspace: { id: number; createdAt: string },
+  trx: Knex.Transaction,
+): Promise<void> {
   await trx('workspace_billing')
     .insert({
       workspace_id: workspace.id,
@@ -164,7 +170,12 @@ const COLUMNS: Record<keyof BillingPatch, string> = {
  * Marks a budget alert as sent for a period, unless it already was: true for the one caller that
  * gets to send it (a conditional update, so two processes cannot both send).
  */
-export async function claimBudgetAlert(scope: { workspaceId: number }, threshold: 80 | 100, periodStart: string, trx: Trx = db()): Promise<boolean> {
+export async function claimBudgetAlert(
+  scope: { workspaceId: number },
+  threshold: 80 | 100,
+  periodStart: string,
+  trx: Trx = db(),
+): Promise<boolean> {
   const column = threshold === 80 ? 'budget_alert_80_period' : 'budget_alert_100_period';
   const n = await trx('workspace_billing')
     .where({ workspace_id: scope.workspaceId })
@@ -173,7 +184,11 @@ export async function claimBudgetAlert(scope: { workspaceId: number }, threshold
   return n > 0;
 }
 
-export async function updateBilling(scope: { workspaceId: number }, patch: BillingPatch, trx: Trx = db()): Promise<void> {
+export async function updateBilling(
+  scope: { workspaceId: number },
+  patch: BillingPatch,
+  trx: Trx = db(),
+): Promise<void> {
   const values: Record<string, unknown> = { updated_at: nowIso() };
   for (const [key, column] of Object.entries(COLUMNS) as [keyof BillingPatch, string][]) {
     if (patch[key] !== undefined) values[column] = patch[key];
@@ -193,7 +208,9 @@ export async function findBillingByCustomer(customerId: string, trx: Trx = db())
 export async function listBillingToProvision(limit = 20): Promise<(BillingDto & { slug: string; name: string })[]> {
   const rows = await db()('workspace_billing as b')
     .join('workspaces as w', 'w.id', 'b.workspace_id')
-    .where((q) => q.whereNull('b.customer_id').orWhere((a) => a.where('b.status', 'active').whereNull('b.subscription_id')))
+    .where((q) =>
+      q.whereNull('b.customer_id').orWhere((a) => a.where('b.status', 'active').whereNull('b.subscription_id')),
+    )
     .select('b.*', 'w.slug', 'w.name')
     .orderBy('b.workspace_id')
     .limit(limit);
@@ -211,7 +228,9 @@ export async function listBillingContacts(scope: { workspaceId: number }, trx: T
       .orderBy('u.email')
       .select('u.email'),
   ]);
-  const all = [billing?.billing_email, ...members.map((m: { email: string }) => m.email)].filter((e): e is string => typeof e === 'string' && e !== '');
+  const all = [billing?.billing_email, ...members.map((m: { email: string }) => m.email)].filter(
+    (e): e is string => typeof e === 'string' && e !== '',
+  );
   return [...new Set(all.map((e) => e.trim().toLowerCase()))];
 }
 
@@ -237,7 +256,10 @@ export async function countLedgerUnits(
     return q;
   };
   const sum = (rows: unknown): number => Number((rows as { n: number | string | null }[])[0]?.n ?? 0);
-  const [all, sent] = await Promise.all([base().sum({ n: 'quantity' }), base().whereNotNull('sent_at').sum({ n: 'quantity' })]);
+  const [all, sent] = await Promise.all([
+    base().sum({ n: 'quantity' }),
+    base().whereNotNull('sent_at').sum({ n: 'quantity' }),
+  ]);
   const units = sum(all);
   const sentUnits = sum(sent);
   const pendingUnits = units - sentUnits;
@@ -245,7 +267,9 @@ export async function countLedgerUnits(
 }
 
 /** Units of a workspace whose delivery has failed at least once and is still to be retried, for the billing page (no provider text). */
-export async function getUsageDeliveryProblem(scope: { workspaceId: number }): Promise<{ failingUnits: number; since: string | null; nextAttemptAt: string | null } | null> {
+export async function getUsageDeliveryProblem(scope: {
+  workspaceId: number;
+}): Promise<{ failingUnits: number; since: string | null; nextAttemptAt: string | null } | null> {
   const r = (await db()('usage_batches')
     .where({ workspace_id: scope.workspaceId })
     .whereNull('sent_at')

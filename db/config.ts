@@ -20,13 +20,19 @@ export function knexConfig(overrides: { sqliteFile?: string; databaseUrl?: strin
     loadExtensions: ['.ts'],
     tableName: 'knex_migrations',
   };
-  const seeds: Knex.SeederConfig = { directory: path.join(/*turbopackIgnore: true*/ root, 'seeds'), loadExtensions: ['.ts'] };
+  const seeds: Knex.SeederConfig = {
+    directory: path.join(/*turbopackIgnore: true*/ root, 'seeds'),
+    loadExtensions: ['.ts'],
+  };
   const databaseUrl = overrides.databaseUrl ?? process.env.DATABASE_URL;
   if (isPostgres(databaseUrl)) {
     parsePostgresNumbersAsPlainNumbers();
     return { client: 'pg', connection: databaseUrl, pool: { min: 0, max: 10 }, migrations, seeds };
   }
-  const file = path.resolve(/*turbopackIgnore: true*/ root, overrides.sqliteFile ?? process.env.SQLITE_FILE ?? '.data/tropopass.sqlite');
+  const file = path.resolve(
+    /*turbopackIgnore: true*/ root,
+    overrides.sqliteFile ?? process.env.SQLITE_FILE ?? '.data/tropopass.sqlite',
+  );
   fs.mkdirSync(path.dirname(file), { recursive: true });
   return {
     client: createSqliteClient() as unknown as typeof Knex.Client,
@@ -65,7 +71,9 @@ interface SqlitePragmaConnection {
  * ledger sums stay far below 2^53).
  */
 function parsePostgresNumbersAsPlainNumbers(): void {
-  const pg = createRequire(import.meta.url)('pg') as { types: { setTypeParser(oid: number, parse: (v: string) => unknown): void } };
+  const pg = createRequire(import.meta.url)('pg') as {
+    types: { setTypeParser(oid: number, parse: (v: string) => unknown): void };
+  };
   const INT8 = 20;
   const NUMERIC = 1700;
   pg.types.setTypeParser(INT8, (v) => Number.parseInt(v, 10));

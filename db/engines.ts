@@ -47,8 +47,18 @@ type Db = Knex | Knex.Transaction;
 export const engineOf = (r: Row): EngineDto => ({
   id: Number(r.id),
   name: String(r.name),
-  fuelFlowKgS: [Number(r.ff_idle_kg_s), Number(r.ff_approach_kg_s), Number(r.ff_climb_out_kg_s), Number(r.ff_take_off_kg_s)],
-  eiNoxGPerKg: [Number(r.ei_idle_g_kg), Number(r.ei_approach_g_kg), Number(r.ei_climb_out_g_kg), Number(r.ei_take_off_g_kg)],
+  fuelFlowKgS: [
+    Number(r.ff_idle_kg_s),
+    Number(r.ff_approach_kg_s),
+    Number(r.ff_climb_out_kg_s),
+    Number(r.ff_take_off_kg_s),
+  ],
+  eiNoxGPerKg: [
+    Number(r.ei_idle_g_kg),
+    Number(r.ei_approach_g_kg),
+    Number(r.ei_climb_out_g_kg),
+    Number(r.ei_take_off_g_kg),
+  ],
   source: String(r.source ?? ''),
   isDemo: Boolean(r.is_demo),
   createdAt: String(r.created_at),
@@ -73,7 +83,10 @@ export const aircraftTypeOf = (r: Row): AircraftTypeDto => ({
 
 /** Engines of a workspace, by name. */
 export async function listEngines(scope: { workspaceId: number }, trx: Db = db()): Promise<EngineDto[]> {
-  const rows = await trx('engines').where({ workspace_id: scope.workspaceId }).orderBy('name', 'asc').orderBy('id', 'asc');
+  const rows = await trx('engines')
+    .where({ workspace_id: scope.workspaceId })
+    .orderBy('name', 'asc')
+    .orderBy('id', 'asc');
   return rows.map(engineOf);
 }
 
@@ -105,15 +118,37 @@ export async function engineNamesInUse(scope: { workspaceId: number }, trx: Db =
 async function assertEngineNameFree(trx: Db, workspaceId: number, name: string, exceptId?: number): Promise<void> {
   const q = trx('engines').where({ workspace_id: workspaceId }).whereRaw('lower(name) = ?', [name.toLowerCase()]);
   if (exceptId !== undefined) q.andWhereNot('id', exceptId);
-  if (await q.first()) throw conflict(`An engine called “${name}” already exists in this workspace.`, [{ path: 'name', message: 'Another engine already has this name.' }]);
+  if (await q.first())
+    throw conflict(`An engine called “${name}” already exists in this workspace.`, [
+      { path: 'name', message: 'Another engine already has this name.' },
+    ]);
 }
 
-export async function createEngine(scope: { workspaceId: number }, input: EngineSave, by: LibraryActor): Promise<EngineDto> {
+export async function createEngine(
+  scope: { workspaceId: number },
+  input: EngineSave,
+  by: LibraryActor,
+): Promise<EngineDto> {
   return writeTx(async (trx) => {
     await assertEngineNameFree(trx, scope.workspaceId, input.name);
     const now = nowIso();
-    const id = await insertId(trx('engines').insert({ workspace_id: scope.workspaceId, ...engineColumns(input), is_demo: false, created_at: now, updated_at: now }, ['id']));
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'engine.create', target: `engine:${id}`, detail: { name: input.name } }, trx);
+    const id = await insertId(
+      trx('engines').insert(
+        { workspace_id: scope.workspaceId, ...engineColumns(input), is_demo: false, created_at: now, updated_at: now },
+        ['id'],
+      ),
+    );
+    await createAuditEntry(
+      {
+        workspaceId: scope.workspaceId,
+        userId: by.userId,
+        actor: by.actor,
+        action: 'engine.create',
+        target: `engine:${id}`,
+        detail: { name: input.name },
+      },
+      trx,
+    );
     return getEngine(scope, id, trx);
   });
 }
@@ -122,27 +157,74 @@ export async function createEngine(scope: { workspaceId: number }, input: Engine
  * Adds several engines in one transaction (the CSV import): all or none. Names must be free; the
  * import checks them per line first, this re-checks inside the transaction.
  */
-export async function createEngines(scope: { workspaceId: number }, inputs: readonly EngineSave[], by: LibraryActor & { fileName?: string }): Promise<EngineDto[]> {
+export async function createEngines(
+  scope: { workspaceId: number },
+  inputs: readonly EngineSave[],
+  by: LibraryActor & { fileName?: string },
+): Promise<EngineDto[]> {
   return writeTx(async (trx) => {
     const ids: number[] = [];
     const now = nowIso();
     for (const input of inputs) {
       await assertEngineNameFree(trx, scope.workspaceId, input.name);
-      ids.push(await insertId(trx('engines').insert({ workspace_id: scope.workspaceId, ...engineColumns(input), is_demo: false, created_at: now, updated_at: now }, ['id'])));
+      ids.push(
+        await insertId(
+          trx('engines').insert(
+            {
+              workspace_id: scope.workspaceId,
+              ...engineColumns(input),
+              is_demo: false,
+              created_at: now,
+              updated_at: now,
+            },
+            ['id'],
+          ),
+        ),
+      );
     }
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'engine.import', target: by.fileName ?? null, detail: { engines: inputs.length } }, trx);
-    const rows = (await trx('engines').where({ workspace_id: scope.workspaceId }).whereIn('id', ids).orderBy('id', 'asc')) as Row[];
+    await createAuditEntry(
+      {
+        workspaceId: scope.workspaceId,
+        userId: by.userId,
+        actor: by.actor,
+        action: 'engine.import',
+        target: by.fileName ?? null,
+        detail: { engines: inputs.length },
+      },
+      trx,
+    );
+    const rows = (await trx('engines')
+      .where({ workspace_id: scope.workspaceId })
+      .whereIn('id', ids)
+      .orderBy('id', 'asc')) as Row[];
     return rows.map(engineOf);
   });
 }
 
 /** Replaces an engine's values; a demo engine edited by hand is no longer marked as demo data. */
-export async function updateEngine(scope: { workspaceId: number }, id: number, input: EngineSave, by: LibraryActor): Promise<EngineDto> {
+export async function updateEngine(
+  scope: { workspaceId: number },
+  id: number,
+  input: EngineSave,
+  by: LibraryActor,
+): Promise<EngineDto> {
   return writeTx(async (trx) => {
     await getEngine(scope, id, trx);
     await assertEngineNameFree(trx, scope.workspaceId, input.name, id);
-    await trx('engines').where({ workspace_id: scope.workspaceId, id }).update({ ...engineColumns(input), is_demo: false, updated_at: nowIso() });
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'engine.update', target: `engine:${id}`, detail: { name: input.name } }, trx);
+    await trx('engines')
+      .where({ workspace_id: scope.workspaceId, id })
+      .update({ ...engineColumns(input), is_demo: false, updated_at: nowIso() });
+    await createAuditEntry(
+      {
+        workspaceId: scope.workspaceId,
+        userId: by.userId,
+        actor: by.actor,
+        action: 'engine.update',
+        target: `engine:${id}`,
+        detail: { name: input.name },
+      },
+      trx,
+    );
     return getEngine(scope, id, trx);
   });
 }
@@ -151,7 +233,10 @@ export async function updateEngine(scope: { workspaceId: number }, id: number, i
 export async function deleteEngine(scope: { workspaceId: number }, id: number, by: LibraryActor): Promise<void> {
   await writeTx(async (trx) => {
     const engine = await getEngine(scope, id, trx);
-    const users = (await trx('aircraft_types').where({ workspace_id: scope.workspaceId, engine_id: id }).orderBy('code', 'asc').select('code')) as Row[];
+    const users = (await trx('aircraft_types')
+      .where({ workspace_id: scope.workspaceId, engine_id: id })
+      .orderBy('code', 'asc')
+      .select('code')) as Row[];
     if (users.length) {
       const codes = users.map((u) => String(u.code));
       throw conflict(
@@ -159,7 +244,17 @@ export async function deleteEngine(scope: { workspaceId: number }, id: number, b
       );
     }
     await trx('engines').where({ workspace_id: scope.workspaceId, id }).delete();
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'engine.delete', target: `engine:${id}`, detail: { name: engine.name } }, trx);
+    await createAuditEntry(
+      {
+        workspaceId: scope.workspaceId,
+        userId: by.userId,
+        actor: by.actor,
+        action: 'engine.delete',
+        target: `engine:${id}`,
+        detail: { name: engine.name },
+      },
+      trx,
+    );
   });
 }
 
@@ -180,33 +275,57 @@ export async function listAircraftTypes(scope: { workspaceId: number }, trx: Db 
   return rows.map(aircraftTypeOf);
 }
 
-export async function getAircraftType(scope: { workspaceId: number }, id: number, trx: Db = db()): Promise<AircraftTypeDto> {
+export async function getAircraftType(
+  scope: { workspaceId: number },
+  id: number,
+  trx: Db = db(),
+): Promise<AircraftTypeDto> {
   const row = (await aircraftTypeQuery(trx, scope.workspaceId).andWhere('a.id', id).first()) as Row | undefined;
   if (!row) throw notFound('No aircraft type with that id in this workspace.');
   return aircraftTypeOf(row);
 }
 
 /** Fleets a type may default to (id and name), by name. Creating fleets happens under Fleets. */
-export async function listFleetChoices(scope: { workspaceId: number }, trx: Db = db()): Promise<{ id: number; name: string }[]> {
-  const rows = (await trx('fleets').where({ workspace_id: scope.workspaceId }).orderBy('name', 'asc').select('id', 'name')) as Row[];
+export async function listFleetChoices(
+  scope: { workspaceId: number },
+  trx: Db = db(),
+): Promise<{ id: number; name: string }[]> {
+  const rows = (await trx('fleets')
+    .where({ workspace_id: scope.workspaceId })
+    .orderBy('name', 'asc')
+    .select('id', 'name')) as Row[];
   return rows.map((r) => ({ id: Number(r.id), name: String(r.name) }));
 }
 
 async function checkTypeReferences(trx: Db, workspaceId: number, input: AircraftTypeSave): Promise<void> {
   const problems: FieldProblem[] = [];
-  if (input.engineId !== null && !(await trx('engines').where({ workspace_id: workspaceId, id: input.engineId }).first())) {
+  if (
+    input.engineId !== null &&
+    !(await trx('engines').where({ workspace_id: workspaceId, id: input.engineId }).first())
+  ) {
     problems.push({ path: 'engineId', message: 'That engine is not in this workspace. Choose one from the list.' });
   }
-  if (input.defaultFleetId !== null && !(await trx('fleets').where({ workspace_id: workspaceId, id: input.defaultFleetId }).first())) {
-    problems.push({ path: 'defaultFleetId', message: 'That fleet is not in this workspace. Choose one from the list.' });
+  if (
+    input.defaultFleetId !== null &&
+    !(await trx('fleets').where({ workspace_id: workspaceId, id: input.defaultFleetId }).first())
+  ) {
+    problems.push({
+      path: 'defaultFleetId',
+      message: 'That fleet is not in this workspace. Choose one from the list.',
+    });
   }
   if (problems.length) throw invalidFields(problems);
 }
 
 async function assertCodeFree(trx: Db, workspaceId: number, code: string, exceptId?: number): Promise<void> {
-  const q = trx('aircraft_types').where({ workspace_id: workspaceId }).whereRaw('upper(code) = ?', [code.toUpperCase()]);
+  const q = trx('aircraft_types')
+    .where({ workspace_id: workspaceId })
+    .whereRaw('upper(code) = ?', [code.toUpperCase()]);
   if (exceptId !== undefined) q.andWhereNot('id', exceptId);
-  if (await q.first()) throw conflict(`Aircraft type ${code} already exists in this workspace.`, [{ path: 'code', message: 'Another aircraft type already has this code.' }]);
+  if (await q.first())
+    throw conflict(`Aircraft type ${code} already exists in this workspace.`, [
+      { path: 'code', message: 'Another aircraft type already has this code.' },
+    ]);
 }
 
 const typeColumns = (t: AircraftTypeSave) => ({
@@ -220,24 +339,60 @@ const typeColumns = (t: AircraftTypeSave) => ({
   default_fleet_id: t.defaultFleetId,
 });
 
-export async function createAircraftType(scope: { workspaceId: number }, input: AircraftTypeSave, by: LibraryActor): Promise<AircraftTypeDto> {
+export async function createAircraftType(
+  scope: { workspaceId: number },
+  input: AircraftTypeSave,
+  by: LibraryActor,
+): Promise<AircraftTypeDto> {
   return writeTx(async (trx) => {
     await checkTypeReferences(trx, scope.workspaceId, input);
     await assertCodeFree(trx, scope.workspaceId, input.code);
     const now = nowIso();
-    const id = await insertId(trx('aircraft_types').insert({ workspace_id: scope.workspaceId, ...typeColumns(input), created_at: now, updated_at: now }, ['id']));
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'aircraft_type.create', target: `aircraft_type:${id}`, detail: { code: input.code } }, trx);
+    const id = await insertId(
+      trx('aircraft_types').insert(
+        { workspace_id: scope.workspaceId, ...typeColumns(input), created_at: now, updated_at: now },
+        ['id'],
+      ),
+    );
+    await createAuditEntry(
+      {
+        workspaceId: scope.workspaceId,
+        userId: by.userId,
+        actor: by.actor,
+        action: 'aircraft_type.create',
+        target: `aircraft_type:${id}`,
+        detail: { code: input.code },
+      },
+      trx,
+    );
     return getAircraftType(scope, id, trx);
   });
 }
 
-export async function updateAircraftType(scope: { workspaceId: number }, id: number, input: AircraftTypeSave, by: LibraryActor): Promise<AircraftTypeDto> {
+export async function updateAircraftType(
+  scope: { workspaceId: number },
+  id: number,
+  input: AircraftTypeSave,
+  by: LibraryActor,
+): Promise<AircraftTypeDto> {
   return writeTx(async (trx) => {
     await getAircraftType(scope, id, trx);
     await checkTypeReferences(trx, scope.workspaceId, input);
     await assertCodeFree(trx, scope.workspaceId, input.code, id);
-    await trx('aircraft_types').where({ workspace_id: scope.workspaceId, id }).update({ ...typeColumns(input), updated_at: nowIso() });
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'aircraft_type.update', target: `aircraft_type:${id}`, detail: { code: input.code } }, trx);
+    await trx('aircraft_types')
+      .where({ workspace_id: scope.workspaceId, id })
+      .update({ ...typeColumns(input), updated_at: nowIso() });
+    await createAuditEntry(
+      {
+        workspaceId: scope.workspaceId,
+        userId: by.userId,
+        actor: by.actor,
+        action: 'aircraft_type.update',
+        target: `aircraft_type:${id}`,
+        detail: { code: input.code },
+      },
+      trx,
+    );
     return getAircraftType(scope, id, trx);
   });
 }
@@ -247,7 +402,17 @@ export async function deleteAircraftType(scope: { workspaceId: number }, id: num
   await writeTx(async (trx) => {
     const type = await getAircraftType(scope, id, trx);
     await trx('aircraft_types').where({ workspace_id: scope.workspaceId, id }).delete();
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'aircraft_type.delete', target: `aircraft_type:${id}`, detail: { code: type.code } }, trx);
+    await createAuditEntry(
+      {
+        workspaceId: scope.workspaceId,
+        userId: by.userId,
+        actor: by.actor,
+        action: 'aircraft_type.delete',
+        target: `aircraft_type:${id}`,
+        detail: { code: type.code },
+      },
+      trx,
+    );
   });
 }
 

@@ -28,22 +28,47 @@ export function flightsWithFleet(k: Knex | Knex.Transaction, workspaceId: number
       this.on('at.id', '=', 'fl.aircraft_type_id').andOn('at.workspace_id', '=', 'fl.workspace_id');
     })
     .leftJoin('fleets as f', function joinFleet() {
-      this.on('f.id', '=', k.raw('coalesce(fl.fleet_id, at.default_fleet_id)')).andOn('f.workspace_id', '=', 'fl.workspace_id');
+      this.on('f.id', '=', k.raw('coalesce(fl.fleet_id, at.default_fleet_id)')).andOn(
+        'f.workspace_id',
+        '=',
+        'fl.workspace_id',
+      );
     })
     .where('fl.workspace_id', workspaceId);
 }
 
 /** The resolved fleet of each given flight id (null when it has none), for tests and the flight pages. */
-export async function resolveFlightFleets(scope: { workspaceId: number }, flightIds: number[]): Promise<Map<number, number | null>> {
-  const rows = (await flightsWithFleet(db(), scope.workspaceId).whereIn('fl.id', flightIds).select('fl.id', 'f.id as fleet_id')) as Row[];
-  return new Map(rows.map((r) => [Number(r.id), r.fleet_id === null || r.fleet_id === undefined ? null : Number(r.fleet_id)]));
+export async function resolveFlightFleets(
+  scope: { workspaceId: number },
+  flightIds: number[],
+): Promise<Map<number, number | null>> {
+  const rows = (await flightsWithFleet(db(), scope.workspaceId)
+    .whereIn('fl.id', flightIds)
+    .select('fl.id', 'f.id as fleet_id')) as Row[];
+  return new Map(
+    rows.map((r) => [Number(r.id), r.fleet_id === null || r.fleet_id === undefined ? null : Number(r.fleet_id)]),
+  );
 }
 
-export async function listFleets(scope: { workspaceId: number }, trx: Knex | Knex.Transaction = db()): Promise<FleetDto[]> {
+export async function listFleets(
+  scope: { workspaceId: number },
+  trx: Knex | Knex.Transaction = db(),
+): Promise<FleetDto[]> {
   const [fleets, types, counts] = await Promise.all([
-    trx('fleets').where({ workspace_id: scope.workspaceId }).orderBy('name', 'asc').orderBy('id', 'asc') as Promise<Row[]>,
-    trx('aircraft_types').where({ workspace_id: scope.workspaceId }).whereNotNull('default_fleet_id').orderBy('code', 'asc').select('id', 'code', 'default_fleet_id') as Promise<Row[]>,
-    flightsWithFleet(trx, scope.workspaceId).where('fl.status', 'screened').whereNotNull('f.id').groupBy('f.id').select('f.id as fleet_id').count({ n: '*' }) as Promise<Row[]>,
+    trx('fleets').where({ workspace_id: scope.workspaceId }).orderBy('name', 'asc').orderBy('id', 'asc') as Promise<
+      Row[]
+    >,
+    trx('aircraft_types')
+      .where({ workspace_id: scope.workspaceId })
+      .whereNotNull('default_fleet_id')
+      .orderBy('code', 'asc')
+      .select('id', 'code', 'default_fleet_id') as Promise<Row[]>,
+    flightsWithFleet(trx, scope.workspaceId)
+      .where('fl.status', 'screened')
+      .whereNotNull('f.id')
+      .groupBy('f.id')
+      .select('f.id as fleet_id')
+      .count({ n: '*' }) as Promise<Row[]>,
   ]);
   const countOf = new Map(counts.map((c) => [Number(c.fleet_id), Number(c.n)]));
   return fleets.map((f) => ({
@@ -51,31 +76,66 @@ export async function listFleets(scope: { workspaceId: number }, trx: Knex | Kne
     name: String(f.name),
     description: String(f.description ?? ''),
     createdAt: String(f.created_at),
-    aircraftTypes: types.filter((t) => Number(t.default_fleet_id) === Number(f.id)).map((t) => ({ id: Number(t.id), code: String(t.code) })),
+    aircraftTypes: types
+      .filter((t) => Number(t.default_fleet_id) === Number(f.id))
+      .map((t) => ({ id: Number(t.id), code: String(t.code) })),
     screenedFlights: countOf.get(Number(f.id)) ?? 0,
   }));
 }
 
-export async function getFleet(scope: { workspaceId: number }, id: number, trx: Knex | Knex.Transaction = db()): Promise<FleetDto> {
+export async function getFleet(
+  scope: { workspaceId: number },
+  id: number,
+  trx: Knex | Knex.Transaction = db(),
+): Promise<FleetDto> {
   const fleet = (await listFleets(scope, trx)).find((f) => f.id === id);
   if (!fleet) throw notFound('No fleet with that id in this workspace.');
   return fleet;
 }
 
-async function assertNameFree(trx: Knex.Transaction, workspaceId: number, name: string, exceptId?: number): Promise<void> {
+async function assertNameFree(
+  trx: Knex.Transaction,
+  workspaceId: number,
+  name: string,
+  exceptId?: number,
+): Promise<void> {
   const q = trx('fleets').where({ workspace_id: workspaceId }).whereRaw('lower(name) = ?', [name.toLowerCase()]);
   if (exceptId !== undefined) q.andWhereNot('id', exceptId);
-  if (await q.first()) throw conflict(`A fleet called “${name}” already exists here.`, [{ path: 'name', message: 'Another fleet already has this name.' }]);
+  if (await q.first())
+    throw conflict(`A fleet called “${name}” already exists here.`, [
+      { path: 'name', message: 'Another fleet already has this name.' },
+    ]);
 }
 
-async function setFleetTypes(trx: Knex.Transaction, workspaceId: number, fleetId: number, aircraftTypeIds: number[]): Promise<void> {
-  const found = (await trx('aircraft_types').where({ workspace_id: workspaceId }).whereIn('id', aircraftTypeIds).select('id')) as Row[];
+async function setFleetTypes(
+  trx: Knex.Transaction,
+  workspaceId: number,
+  fleetId: number,
+  aircraftTypeIds: number[],
+): Promise<void> {
+  const found = (await trx('aircraft_types')
+    .where({ workspace_id: workspaceId })
+    .whereIn('id', aircraftTypeIds)
+    .select('id')) as Row[];
   const known = new Set(found.map((r) => Number(r.id)));
   const missing = aircraftTypeIds.findIndex((id) => !known.has(id));
-  if (missing >= 0) throw invalidFields([{ path: `aircraftTypeIds.${missing}`, message: `No aircraft type with id ${aircraftTypeIds[missing]} in this workspace.` }]);
+  if (missing >= 0)
+    throw invalidFields([
+      {
+        path: `aircraftTypeIds.${missing}`,
+        message: `No aircraft type with id ${aircraftTypeIds[missing]} in this workspace.`,
+      },
+    ]);
   const now = nowIso();
-  await trx('aircraft_types').where({ workspace_id: workspaceId, default_fleet_id: fleetId }).whereNotIn('id', aircraftTypeIds).update({ default_fleet_id: null, updated_at: now });
-  if (aircraftTypeIds.length) await trx('aircraft_types').where({ workspace_id: workspaceId }).whereIn('id', aircraftTypeIds).update({ default_fleet_id: fleetId, updated_at: now });
+  await trx('aircraft_types')
+    .where({ workspace_id: workspaceId, default_fleet_id: fleetId })
+    .whereNotIn('id', aircraftTypeIds)
+    .update({ default_fleet_id: null, updated_at: now });
+  if (aircraftTypeIds.length)
+    await trx('aircraft_types')
+      .where({ workspace_id: workspaceId })
+      .whereIn('id', aircraftTypeIds)
+      .update({ default_fleet_id: fleetId, updated_at: now });
 }
 
 export async function createFleet(
@@ -85,9 +145,26 @@ export async function createFleet(
   const id = await writeTx(async (trx) => {
     await assertNameFree(trx, scope.workspaceId, input.name);
     const newId = await insertId(
-      trx('fleets').insert({ workspace_id: scope.workspaceId, name: input.name, description: input.description ?? '', created_at: nowIso() }).returning('id'),
+      trx('fleets')
+        .insert({
+          workspace_id: scope.workspaceId,
+          name: input.name,
+          description: input.description ?? '',
+          created_at: nowIso(),
+        })
+        .returning('id'),
     );
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: input.userId, actor: input.actor, action: 'fleet.create', target: `fleet:${newId}`, detail: { name: input.name } }, trx);
+    await createAuditEntry(
+      {
+        workspaceId: scope.workspaceId,
+        userId: input.userId,
+        actor: input.actor,
+        action: 'fleet.create',
+        target: `fleet:${newId}`,
+        detail: { name: input.name },
+      },
+      trx,
+    );
     return newId;
   });
   return getFleet(scope, id);
@@ -110,7 +187,14 @@ export async function updateFleet(
     if (Object.keys(patch).length) await trx('fleets').where({ id }).update(patch);
     if (input.aircraftTypeIds !== undefined) await setFleetTypes(trx, scope.workspaceId, id, input.aircraftTypeIds);
     await createAuditEntry(
-      { workspaceId: scope.workspaceId, userId: input.userId, actor: input.actor, action: 'fleet.update', target: `fleet:${id}`, detail: { ...patch, ...(input.aircraftTypeIds ? { aircraftTypeIds: input.aircraftTypeIds } : {}) } },
+      {
+        workspaceId: scope.workspaceId,
+        userId: input.userId,
+        actor: input.actor,
+        action: 'fleet.update',
+        target: `fleet:${id}`,
+        detail: { ...patch, ...(input.aircraftTypeIds ? { aircraftTypeIds: input.aircraftTypeIds } : {}) },
+      },
       trx,
     );
   });
@@ -121,15 +205,31 @@ export async function updateFleet(
  * Deletes a fleet. Aircraft types that defaulted to it lose their default; flights that named it
  * fall back to their type's default fleet. Saved reports keep the names they were built with.
  */
-export async function deleteFleet(scope: { workspaceId: number }, id: number, input: { actor: string; userId: number | null }): Promise<void> {
+export async function deleteFleet(
+  scope: { workspaceId: number },
+  id: number,
+  input: { actor: string; userId: number | null },
+): Promise<void> {
   await writeTx(async (trx) => {
     const row = await trx('fleets').where({ workspace_id: scope.workspaceId, id }).first();
     if (!row) throw notFound('No fleet with that id in this workspace.');
     const now = nowIso();
-    await trx('aircraft_types').where({ workspace_id: scope.workspaceId, default_fleet_id: id }).update({ default_fleet_id: null, updated_at: now });
+    await trx('aircraft_types')
+      .where({ workspace_id: scope.workspaceId, default_fleet_id: id })
+      .update({ default_fleet_id: null, updated_at: now });
     await trx('flights').where({ workspace_id: scope.workspaceId, fleet_id: id }).update({ fleet_id: null });
     await trx('fleets').where({ workspace_id: scope.workspaceId, id }).delete();
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: input.userId, actor: input.actor, action: 'fleet.delete', target: `fleet:${id}`, detail: { name: row.name } }, trx);
+    await createAuditEntry(
+      {
+        workspaceId: scope.workspaceId,
+        userId: input.userId,
+        actor: input.actor,
+        action: 'fleet.delete',
+        target: `fleet:${id}`,
+        detail: { name: row.name },
+      },
+      trx,
+    );
   });
 }
 
@@ -139,14 +239,28 @@ export async function setAircraftTypeFleet(
   input: { aircraftTypeId: number; fleetId: number | null; actor: string; userId: number | null },
 ): Promise<void> {
   await writeTx(async (trx) => {
-    const type = await trx('aircraft_types').where({ workspace_id: scope.workspaceId, id: input.aircraftTypeId }).first();
+    const type = await trx('aircraft_types')
+      .where({ workspace_id: scope.workspaceId, id: input.aircraftTypeId })
+      .first();
     if (!type) throw notFound('No aircraft type with that id in this workspace.');
-    if (input.fleetId !== null && !(await trx('fleets').where({ workspace_id: scope.workspaceId, id: input.fleetId }).first())) {
+    if (
+      input.fleetId !== null &&
+      !(await trx('fleets').where({ workspace_id: scope.workspaceId, id: input.fleetId }).first())
+    ) {
       throw notFound('No fleet with that id in this workspace.');
     }
-    await trx('aircraft_types').where({ id: input.aircraftTypeId }).update({ default_fleet_id: input.fleetId, updated_at: nowIso() });
+    await trx('aircraft_types')
+      .where({ id: input.aircraftTypeId })
+      .update({ default_fleet_id: input.fleetId, updated_at: nowIso() });
     await createAuditEntry(
-      { workspaceId: scope.workspaceId, userId: input.userId, actor: input.actor, action: 'aircraft_type.default_fleet', target: `aircraft_type:${input.aircraftTypeId}`, detail: { code: type.code, fleetId: input.fleetId } },
+      {
+        workspaceId: scope.workspaceId,
+        userId: input.userId,
+        actor: input.actor,
+        action: 'aircraft_type.default_fleet',
+        target: `aircraft_type:${input.aircraftTypeId}`,
+        detail: { code: type.code, fleetId: input.fleetId },
+      },
       trx,
     );
   });
@@ -171,7 +285,8 @@ function applyFilters(q: Knex.QueryBuilder, f: FlightFilters): Knex.QueryBuilder
   if (f.aircraft) q.whereRaw('upper(fl.aircraft_code) = ?', [f.aircraft.toUpperCase()]);
   for (const group of f.routeTerms ?? []) {
     q.where((w) => {
-      for (const code of group) w.orWhereRaw('upper(fl.origin) = ?', [code]).orWhereRaw('upper(fl.destination) = ?', [code]);
+      for (const code of group)
+        w.orWhereRaw('upper(fl.origin) = ?', [code]).orWhereRaw('upper(fl.destination) = ?', [code]);
     });
   }
   // The band keeps flights whose cruise, from the first to the highest level, touches it.
@@ -274,12 +389,18 @@ export async function noxAboveByLevels(
 
 /** Aircraft type codes that have screened flights, for the filter's list. */
 export async function listFlownAircraftCodes(scope: { workspaceId: number }): Promise<string[]> {
-  const rows = (await db()('flights').where({ workspace_id: scope.workspaceId, status: 'screened' }).distinct(db().raw('upper(aircraft_code) as code')).orderBy('code')) as Row[];
+  const rows = (await db()('flights')
+    .where({ workspace_id: scope.workspaceId, status: 'screened' })
+    .distinct(db().raw('upper(aircraft_code) as code'))
+    .orderBy('code')) as Row[];
   return rows.map((r) => String(r.code));
 }
 
 /** How many of the flights the filters keep each engine version screened, oldest version first. */
-export async function countFlightsByEngineVersion(scope: { workspaceId: number }, filters: FlightFilters): Promise<{ engineVersion: string; flights: number }[]> {
+export async function countFlightsByEngineVersion(
+  scope: { workspaceId: number },
+  filters: FlightFilters,
+): Promise<{ engineVersion: string; flights: number }[]> {
   const rows = (await applyFilters(flightsWithFleet(db(), scope.workspaceId), filters)
     .whereNotNull('fl.engine_version')
     .groupBy('fl.engine_version')
@@ -294,16 +415,29 @@ export async function listFuelWarnings(
   scope: { workspaceId: number },
   filters: FlightFilters,
   limit = 25,
-): Promise<{ count: number; items: { date: string; flight: string; origin: string; destination: string; warning: string }[] }> {
-  const base = () => applyFilters(flightsWithFleet(db(), scope.workspaceId), filters).whereNotNull('fl.fuel_warning').andWhere('fl.status', 'screened');
+): Promise<{
+  count: number;
+  items: { date: string; flight: string; origin: string; destination: string; warning: string }[];
+}> {
+  const base = () =>
+    applyFilters(flightsWithFleet(db(), scope.workspaceId), filters)
+      .whereNotNull('fl.fuel_warning')
+      .andWhere('fl.status', 'screened');
   const [counted, rows] = await Promise.all([
     base().count({ n: '*' }).first() as Promise<{ n: number | string } | undefined>,
-    base().select('fl.date', 'fl.flight', 'fl.origin', 'fl.destination', 'fl.fuel_warning').orderBy([{ column: 'fl.date' }, { column: 'fl.id' }]).limit(limit) as Promise<Row[]>,
+    base()
+      .select('fl.date', 'fl.flight', 'fl.origin', 'fl.destination', 'fl.fuel_warning')
+      .orderBy([{ column: 'fl.date' }, { column: 'fl.id' }])
+      .limit(limit) as Promise<Row[]>,
   ]);
   return {
     count: Number(counted?.n ?? 0),
-    items: rows.map((r) => ({ date: String(r.date), flight: String(r.flight), origin: String(r.origin), destination: String(r.destination), warning: String(r.fuel_warning) })),
+    items: rows.map((r) => ({
+      date: String(r.date),
+      flight: String(r.flight),
+      origin: String(r.origin),
+      destination: String(r.destination),
+      warning: String(r.fuel_warning),
+    })),
   };
 }
-
-

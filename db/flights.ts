@@ -59,7 +59,9 @@ function toDto(r: Row): FlightDto {
     noxTotalKg: num(r.nox_total_kg),
     noxAboveTropopauseKg: num(r.nox_above_kg),
     fractionAboveTropopause: num(r.fraction_above),
-    ozoneLoss: screened ? { centralKg: Number(r.ozone_central_kg), lowKg: Number(r.ozone_low_kg), highKg: Number(r.ozone_high_kg) } : null,
+    ozoneLoss: screened
+      ? { centralKg: Number(r.ozone_central_kg), lowKg: Number(r.ozone_low_kg), highKg: Number(r.ozone_high_kg) }
+      : null,
     screenedAt: (r.screened_at as string | null) ?? null,
     engineVersion: (r.engine_version as string | null) ?? null,
     fuelWarning: (r.fuel_warning as string | null) ?? null,
@@ -77,7 +79,10 @@ function applyFilters(q: Knex.QueryBuilder, scope: { workspaceId: number }, f: F
 }
 
 /** Newest date first; keyset-paged: `cursor` is `date~id` of the last flight of the previous page. */
-export async function listFlights(scope: { workspaceId: number }, query: FlightListQuery = {}): Promise<{ items: FlightDto[]; nextCursor: string | null }> {
+export async function listFlights(
+  scope: { workspaceId: number },
+  query: FlightListQuery = {},
+): Promise<{ items: FlightDto[]; nextCursor: string | null }> {
   const { cursor, limit: rawLimit, ...filters } = query;
   const limit = Math.min(Math.max(rawLimit ?? 50, 1), 200);
   const q = applyFilters(db()('flights as f').leftJoin('fleets as fl', 'fl.id', 'f.fleet_id'), scope, filters)
@@ -89,7 +94,9 @@ export async function listFlights(scope: { workspaceId: number }, query: FlightL
     .limit(limit + 1);
   if (cursor) {
     const [date, id] = cursor.split('~');
-    q.andWhere((w) => w.where('f.date', '<', date).orWhere((x) => x.where('f.date', date).andWhere('f.id', '<', Number(id))));
+    q.andWhere((w) =>
+      w.where('f.date', '<', date).orWhere((x) => x.where('f.date', date).andWhere('f.id', '<', Number(id))),
+    );
   }
   const rows = (await q) as Row[];
   const items = rows.slice(0, limit).map(toDto);
@@ -112,13 +119,36 @@ export interface FlightTotals {
 }
 
 /** Counts by status and the sums of the screened flights that match the filters. */
-export async function summariseFlights(scope: { workspaceId: number }, filters: FlightFilters = {}): Promise<FlightTotals> {
+export async function summariseFlights(
+  scope: { workspaceId: number },
+  filters: FlightFilters = {},
+): Promise<FlightTotals> {
   const rows = (await applyFilters(db()('flights as f'), scope, filters)
     .groupBy('f.status')
     .select('f.status')
     .count({ n: '*' })
-    .sum({ distance: 'f.distance_km', fuel: 'f.fuel_kg', nox: 'f.nox_total_kg', above: 'f.nox_above_kg', o3: 'f.ozone_central_kg', o3low: 'f.ozone_low_kg', o3high: 'f.ozone_high_kg' })) as Row[];
-  const t: FlightTotals = { flights: 0, screened: 0, pending: 0, failed: 0, distanceKm: 0, fuelKg: 0, noxTotalKg: 0, noxAboveTropopauseKg: 0, ozoneCentralKg: 0, ozoneLowKg: 0, ozoneHighKg: 0 };
+    .sum({
+      distance: 'f.distance_km',
+      fuel: 'f.fuel_kg',
+      nox: 'f.nox_total_kg',
+      above: 'f.nox_above_kg',
+      o3: 'f.ozone_central_kg',
+      o3low: 'f.ozone_low_kg',
+      o3high: 'f.ozone_high_kg',
+    })) as Row[];
+  const t: FlightTotals = {
+    flights: 0,
+    screened: 0,
+    pending: 0,
+    failed: 0,
+    distanceKm: 0,
+    fuelKg: 0,
+    noxTotalKg: 0,
+    noxAboveTropopauseKg: 0,
+    ozoneCentralKg: 0,
+    ozoneLowKg: 0,
+    ozoneHighKg: 0,
+  };
   for (const r of rows) {
     const n = Number(r.n);
     t.flights += n;
@@ -141,7 +171,11 @@ export async function summariseFlights(scope: { workspaceId: number }, filters: 
  * Keys (date|flight|origin|destination) of the workspace's flights dated between `from` and `to`
  * inclusive: an import refuses rows that would repeat one of them.
  */
-export async function listFlightKeys(scope: { workspaceId: number }, range: { from: string; to: string }, trx: Knex | Knex.Transaction = db()): Promise<Map<string, number | null>> {
+export async function listFlightKeys(
+  scope: { workspaceId: number },
+  range: { from: string; to: string },
+  trx: Knex | Knex.Transaction = db(),
+): Promise<Map<string, number | null>> {
   const rows = (await trx('flights')
     .where('workspace_id', scope.workspaceId)
     .whereBetween('date', [range.from, range.to])
@@ -161,19 +195,29 @@ export interface FlightFilterOptions {
 export async function listFlightFilterOptions(scope: { workspaceId: number }): Promise<FlightFilterOptions> {
   const k = db();
   const [imports, fleets, aircraft] = await Promise.all([
-    k('imports').where('workspace_id', scope.workspaceId).orderBy('id', 'desc').limit(200).select('id', 'file_name', 'created_at'),
+    k('imports')
+      .where('workspace_id', scope.workspaceId)
+      .orderBy('id', 'desc')
+      .limit(200)
+      .select('id', 'file_name', 'created_at'),
     k('fleets').where('workspace_id', scope.workspaceId).orderBy('name').select('id', 'name'),
     k('aircraft_types').where('workspace_id', scope.workspaceId).orderBy('code').select('code'),
   ]);
   return {
-    imports: (imports as Row[]).map((r) => ({ id: Number(r.id), fileName: String(r.file_name), createdAt: String(r.created_at) })),
+    imports: (imports as Row[]).map((r) => ({
+      id: Number(r.id),
+      fileName: String(r.file_name),
+      createdAt: String(r.created_at),
+    })),
     fleets: (fleets as Row[]).map((r) => ({ id: Number(r.id), name: String(r.name) })),
     aircraft: (aircraft as Row[]).map((r) => String(r.code)),
   };
 }
 
 /** The workspace's fleets by lower-case name (the `fleet` column of a schedule). */
-export async function listFleetsByName(scope: { workspaceId: number }): Promise<Map<string, { id: number; name: string }>> {
+export async function listFleetsByName(scope: {
+  workspaceId: number;
+}): Promise<Map<string, { id: number; name: string }>> {
   const rows = (await db()('fleets').where('workspace_id', scope.workspaceId).select('id', 'name')) as Row[];
   return new Map(rows.map((r) => [String(r.name).toLowerCase(), { id: Number(r.id), name: String(r.name) }]));
 }

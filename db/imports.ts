@@ -52,27 +52,72 @@ type Row = Record<string, unknown>;
 
 /** 16 bindings a row: 1500 rows stay under SQLite's 32 766 and PostgreSQL's 65 535 bound parameters. */
 const FLIGHT_BATCH = 1500;
-const FLIGHT_COLUMNS = ['workspace_id', 'import_id', 'date', 'flight', 'origin', 'destination', 'aircraft_type_id', 'aircraft_code', 'fleet_id', 'cruise_fl', 'max_fl', 'input_json', 'status', 'fuel_kg', 'source_line', 'created_at', 'fuel_warning'] as const;
+const FLIGHT_COLUMNS = [
+  'workspace_id',
+  'import_id',
+  'date',
+  'flight',
+  'origin',
+  'destination',
+  'aircraft_type_id',
+  'aircraft_code',
+  'fleet_id',
+  'cruise_fl',
+  'max_fl',
+  'input_json',
+  'status',
+  'fuel_kg',
+  'source_line',
+  'created_at',
+  'fuel_warning',
+] as const;
 
 /**
  * One multi-row INSERT ... VALUES per batch of pending flights, written by hand: knex writes a
  * multi-row insert on SQLite as a compound SELECT (at most 500 terms) and its query builder is the
  * slow part at 100 000 rows.
  */
-async function insertFlights(trx: Knex.Transaction, ctx: { workspaceId: number; importId: number; createdAt: string }, flights: PreparedFlight[]): Promise<void> {
+async function insertFlights(
+  trx: Knex.Transaction,
+  ctx: { workspaceId: number; importId: number; createdAt: string },
+  flights: PreparedFlight[],
+): Promise<void> {
   if (!flights.length) return;
   const row = `(${FLIGHT_COLUMNS.map(() => '?').join(', ')})`;
   const bindings: (string | number | null)[] = [];
   for (const f of flights) {
-    bindings.push(ctx.workspaceId, ctx.importId, f.date, f.flight, f.origin, f.destination, f.aircraftTypeId, f.aircraftCode, f.fleetId, f.cruiseFl, f.maxFl, JSON.stringify(screeningInputOf(f)), 'pending', f.fuelKg, f.line, ctx.createdAt, f.fuelWarning?.slice(0, 500) ?? null);
+    bindings.push(
+      ctx.workspaceId,
+      ctx.importId,
+      f.date,
+      f.flight,
+      f.origin,
+      f.destination,
+      f.aircraftTypeId,
+      f.aircraftCode,
+      f.fleetId,
+      f.cruiseFl,
+      f.maxFl,
+      JSON.stringify(screeningInputOf(f)),
+      'pending',
+      f.fuelKg,
+      f.line,
+      ctx.createdAt,
+      f.fuelWarning?.slice(0, 500) ?? null,
+    );
   }
-  await trx.raw(`INSERT INTO flights (${FLIGHT_COLUMNS.join(', ')}) VALUES ${flights.map(() => row).join(', ')}`, bindings);
+  await trx.raw(
+    `INSERT INTO flights (${FLIGHT_COLUMNS.join(', ')}) VALUES ${flights.map(() => row).join(', ')}`,
+    bindings,
+  );
 }
 const PROBLEMS_SHOWN = 200;
 
 function isUniqueViolation(err: unknown): boolean {
   const e = err as { code?: string; message?: string };
-  return e?.code === 'SQLITE_CONSTRAINT_UNIQUE' || e?.code === '23505' || /UNIQUE constraint failed/.test(e?.message ?? '');
+  return (
+    e?.code === 'SQLITE_CONSTRAINT_UNIQUE' || e?.code === '23505' || /UNIQUE constraint failed/.test(e?.message ?? '')
+  );
 }
 
 function rate(r: Row): { rowsPerSecond: number | null; secondsLeft: number | null } {
@@ -100,7 +145,13 @@ function rescreenOf(r: Row): RescreenDto | null {
   };
 }
 
-function toDto(r: Row, counts: { screened: number; failed: number }, problems: ImportProblem[], problemCount: number, engineVersions: { engineVersion: string; flights: number }[]): ImportDto {
+function toDto(
+  r: Row,
+  counts: { screened: number; failed: number },
+  problems: ImportProblem[],
+  problemCount: number,
+  engineVersions: { engineVersion: string; flights: number }[],
+): ImportDto {
   return {
     id: Number(r.id),
     fileName: String(r.file_name),
@@ -128,10 +179,24 @@ async function describe(rows: Row[]): Promise<ImportDto[]> {
   const ids = rows.map((r) => Number(r.id));
   const k = db();
   const [counts, problemCounts, problems, versions] = await Promise.all([
-    k('flights').whereIn('import_id', ids).whereIn('status', ['screened', 'failed']).groupBy('import_id', 'status').select('import_id', 'status').count({ n: '*' }),
+    k('flights')
+      .whereIn('import_id', ids)
+      .whereIn('status', ['screened', 'failed'])
+      .groupBy('import_id', 'status')
+      .select('import_id', 'status')
+      .count({ n: '*' }),
     k('import_problems').whereIn('import_id', ids).groupBy('import_id').select('import_id').count({ n: '*' }),
-    k('import_problems').whereIn('import_id', ids).orderBy(['import_id', 'line', 'id']).select('import_id', 'line', 'column', 'message'),
-    k('flights').whereIn('import_id', ids).where('status', 'screened').groupBy('import_id', 'engine_version').orderBy(['import_id', 'engine_version']).select('import_id', 'engine_version').count({ n: '*' }),
+    k('import_problems')
+      .whereIn('import_id', ids)
+      .orderBy(['import_id', 'line', 'id'])
+      .select('import_id', 'line', 'column', 'message'),
+    k('flights')
+      .whereIn('import_id', ids)
+      .where('status', 'screened')
+      .groupBy('import_id', 'engine_version')
+      .orderBy(['import_id', 'engine_version'])
+      .select('import_id', 'engine_version')
+      .count({ n: '*' }),
   ]);
   const versionsOf = new Map<number, { engineVersion: string; flights: number }[]>();
   for (const v of versions as Row[]) {
@@ -150,24 +215,43 @@ async function describe(rows: Row[]): Promise<ImportDto[]> {
   const listed = new Map<number, ImportProblem[]>();
   for (const p of problems as Row[]) {
     const list = listed.get(Number(p.import_id)) ?? [];
-    if (list.length < PROBLEMS_SHOWN) list.push({ line: Number(p.line), column: String(p.column), message: String(p.message) });
+    if (list.length < PROBLEMS_SHOWN)
+      list.push({ line: Number(p.line), column: String(p.column), message: String(p.message) });
     listed.set(Number(p.import_id), list);
   }
-  return rows.map((r) => toDto(r, byImport.get(Number(r.id)) ?? { screened: 0, failed: 0 }, listed.get(Number(r.id)) ?? [], problemTotal.get(Number(r.id)) ?? 0, versionsOf.get(Number(r.id)) ?? []));
+  return rows.map((r) =>
+    toDto(
+      r,
+      byImport.get(Number(r.id)) ?? { screened: 0, failed: 0 },
+      listed.get(Number(r.id)) ?? [],
+      problemTotal.get(Number(r.id)) ?? 0,
+      versionsOf.get(Number(r.id)) ?? [],
+    ),
+  );
 }
 
-const importQuery = (k: Knex | Knex.Transaction) => k('imports as i').leftJoin('users as u', 'u.id', 'i.created_by').select('i.*', k.raw('coalesce(u.name, u.email) as created_by_name'));
+const importQuery = (k: Knex | Knex.Transaction) =>
+  k('imports as i')
+    .leftJoin('users as u', 'u.id', 'i.created_by')
+    .select('i.*', k.raw('coalesce(u.name, u.email) as created_by_name'));
 
 export async function getImport(scope: { workspaceId: number }, id: number): Promise<ImportDto> {
-  const row = (await importQuery(db()).where({ 'i.workspace_id': scope.workspaceId, 'i.id': id }).first()) as Row | undefined;
+  const row = (await importQuery(db()).where({ 'i.workspace_id': scope.workspaceId, 'i.id': id }).first()) as
+    Row | undefined;
   if (!row) throw notFound('No import with that id in this workspace.');
   return (await describe([row]))[0];
 }
 
 /** Newest first, keyset-paged by id. */
-export async function listImports(scope: { workspaceId: number }, opts: { cursor?: number; limit?: number } = {}): Promise<{ items: ImportDto[]; nextCursor: string | null }> {
+export async function listImports(
+  scope: { workspaceId: number },
+  opts: { cursor?: number; limit?: number } = {},
+): Promise<{ items: ImportDto[]; nextCursor: string | null }> {
   const limit = Math.min(Math.max(opts.limit ?? 20, 1), 100);
-  const q = importQuery(db()).where('i.workspace_id', scope.workspaceId).orderBy('i.id', 'desc').limit(limit + 1);
+  const q = importQuery(db())
+    .where('i.workspace_id', scope.workspaceId)
+    .orderBy('i.id', 'desc')
+    .limit(limit + 1);
   if (opts.cursor) q.andWhere('i.id', '<', opts.cursor);
   const rows = (await q) as Row[];
   const items = await describe(rows.slice(0, limit));
@@ -176,14 +260,21 @@ export async function listImports(scope: { workspaceId: number }, opts: { cursor
 
 function duplicateFile(prior: Row): AppError {
   const when = String(prior.created_at).slice(0, 10);
-  return new AppError('conflict', `This file was already imported on ${when} as import #${prior.id} (“${prior.file_name}”). Its flights are in the workspace; delete that import first to import the file again.`, {
-    extra: { import: { id: Number(prior.id), fileName: String(prior.file_name), createdAt: String(prior.created_at) } },
-  });
+  return new AppError(
+    'conflict',
+    `This file was already imported on ${when} as import #${prior.id} (“${prior.file_name}”). Its flights are in the workspace; delete that import first to import the file again.`,
+    {
+      extra: {
+        import: { id: Number(prior.id), fileName: String(prior.file_name), createdAt: String(prior.created_at) },
+      },
+    },
+  );
 }
 
 /** The import of this exact file (by SHA-256), if the workspace has one. */
 export async function findImportByHash(scope: { workspaceId: number }, fileHash: string): Promise<AppError | null> {
-  const prior = (await db()('imports').where({ workspace_id: scope.workspaceId, file_hash: fileHash }).first()) as Row | undefined;
+  const prior = (await db()('imports').where({ workspace_id: scope.workspaceId, file_hash: fileHash }).first()) as
+    Row | undefined;
   return prior ? duplicateFile(prior) : null;
 }
 
@@ -194,13 +285,22 @@ export async function findImportByHash(scope: { workspaceId: number }, fileHash:
  */
 export async function createImport(
   scope: { workspaceId: number },
-  input: { fileName: string; fileHash: string; createdBy: number | null; actor: string; flights: PreparedFlight[]; warnings: ImportProblem[] },
+  input: {
+    fileName: string;
+    fileHash: string;
+    createdBy: number | null;
+    actor: string;
+    flights: PreparedFlight[];
+    warnings: ImportProblem[];
+  },
 ): Promise<ImportDto> {
   let id = 0;
   try {
     await writeTx(async (trx) => {
       await assertBillingAllows(scope, trx, input.flights.length);
-      const prior = (await trx('imports').where({ workspace_id: scope.workspaceId, file_hash: input.fileHash }).first()) as Row | undefined;
+      const prior = (await trx('imports')
+        .where({ workspace_id: scope.workspaceId, file_hash: input.fileHash })
+        .first()) as Row | undefined;
       if (prior) throw duplicateFile(prior);
       const now = nowIso();
       id = await insertId(
@@ -220,16 +320,40 @@ export async function createImport(
           .returning('id'),
       );
       if (input.warnings.length) {
-        await trx('import_problems').insert(input.warnings.map((w) => ({ import_id: id, line: w.line, column: w.column.slice(0, 64), message: w.message.slice(0, 1000) })));
+        await trx('import_problems').insert(
+          input.warnings.map((w) => ({
+            import_id: id,
+            line: w.line,
+            column: w.column.slice(0, 64),
+            message: w.message.slice(0, 1000),
+          })),
+        );
       }
       for (let i = 0; i < input.flights.length; i += FLIGHT_BATCH) {
-        await insertFlights(trx, { workspaceId: scope.workspaceId, importId: id, createdAt: now }, input.flights.slice(i, i + FLIGHT_BATCH));
+        await insertFlights(
+          trx,
+          { workspaceId: scope.workspaceId, importId: id, createdAt: now },
+          input.flights.slice(i, i + FLIGHT_BATCH),
+        );
       }
-      await createAuditEntry({ workspaceId: scope.workspaceId, userId: input.createdBy, actor: input.actor, action: 'import.created', target: `import:${id}`, detail: { fileName: input.fileName, flights: input.flights.length } }, trx);
+      await createAuditEntry(
+        {
+          workspaceId: scope.workspaceId,
+          userId: input.createdBy,
+          actor: input.actor,
+          action: 'import.created',
+          target: `import:${id}`,
+          detail: { fileName: input.fileName, flights: input.flights.length },
+        },
+        trx,
+      );
     });
   } catch (err) {
     if (isUniqueViolation(err)) {
-      throw new AppError('conflict', 'Another upload added this file or some of these flights a moment ago. Nothing from this upload was saved; upload it again to see which rows are already in the workspace.');
+      throw new AppError(
+        'conflict',
+        'Another upload added this file or some of these flights a moment ago. Nothing from this upload was saved; upload it again to see which rows are already in the workspace.',
+      );
     }
     throw err;
   }
@@ -240,17 +364,35 @@ export async function createImport(
  * Deletes an import and its flights. Units already billed for its screened flights stay in the usage
  * ledger (they were billed when screened); the result says how many.
  */
-export async function deleteImport(scope: { workspaceId: number }, id: number, actor: { userId: number | null; label: string }): Promise<{ id: number; fileName: string; flightsDeleted: number; billedUnitsKept: number }> {
+export async function deleteImport(
+  scope: { workspaceId: number },
+  id: number,
+  actor: { userId: number | null; label: string },
+): Promise<{ id: number; fileName: string; flightsDeleted: number; billedUnitsKept: number }> {
   return writeTx(async (trx) => {
     const imp = (await trx('imports').where({ workspace_id: scope.workspaceId, id }).first()) as Row | undefined;
     if (!imp) throw notFound('No import with that id in this workspace.');
     const flightIds = trx('flights').where({ workspace_id: scope.workspaceId, import_id: id }).select('id');
-    const units = (await trx('usage_events').where({ workspace_id: scope.workspaceId, kind: 'imported_flight' }).whereIn('source_id', flightIds).sum({ n: 'quantity' }).first()) as Row | undefined;
+    const units = (await trx('usage_events')
+      .where({ workspace_id: scope.workspaceId, kind: 'imported_flight' })
+      .whereIn('source_id', flightIds)
+      .sum({ n: 'quantity' })
+      .first()) as Row | undefined;
     const flightsDeleted = await trx('flights').where({ workspace_id: scope.workspaceId, import_id: id }).delete();
     await trx('import_problems').where({ import_id: id }).delete();
     await trx('imports').where({ workspace_id: scope.workspaceId, id }).delete();
     const billedUnitsKept = Number(units?.n ?? 0);
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: actor.userId, actor: actor.label, action: 'import.deleted', target: `import:${id}`, detail: { fileName: imp.file_name, flightsDeleted, billedUnitsKept } }, trx);
+    await createAuditEntry(
+      {
+        workspaceId: scope.workspaceId,
+        userId: actor.userId,
+        actor: actor.label,
+        action: 'import.deleted',
+        target: `import:${id}`,
+        detail: { fileName: imp.file_name, flightsDeleted, billedUnitsKept },
+      },
+      trx,
+    );
     return { id, fileName: String(imp.file_name), flightsDeleted, billedUnitsKept };
   });
 }
@@ -291,11 +433,16 @@ export function figuresOf(r: ScreeningTotals): FlightFigures {
   };
 }
 
-export type ScreenedOutcome = { id: number; workspaceId: number; line: number | null } & ({ figures: FlightFigures } | { error: string });
+export type ScreenedOutcome = { id: number; workspaceId: number; line: number | null } & (
+  { figures: FlightFigures } | { error: string }
+);
 
 /** Imports waiting for the worker or left mid-way (a restart resumes them), oldest first. */
 export async function listActiveImports(): Promise<{ id: number; workspaceId: number }[]> {
-  const rows = (await db()('imports').whereIn('status', ['queued', 'screening']).orderBy('id').select('id', 'workspace_id')) as Row[];
+  const rows = (await db()('imports')
+    .whereIn('status', ['queued', 'screening'])
+    .orderBy('id')
+    .select('id', 'workspace_id')) as Row[];
   return rows.map((r) => ({ id: Number(r.id), workspaceId: Number(r.workspace_id) }));
 }
 
@@ -306,14 +453,29 @@ export async function claimImport(importId: number): Promise<boolean> {
     const n = await trx('imports')
       .where('id', importId)
       .whereIn('status', ['queued', 'screening'])
-      .update({ status: 'screening', started_at: trx.raw('coalesce(started_at, ?)', [now]), rate_since: now, rate_base_rows: trx.raw('rows_done'), heartbeat_at: now });
+      .update({
+        status: 'screening',
+        started_at: trx.raw('coalesce(started_at, ?)', [now]),
+        rate_since: now,
+        rate_base_rows: trx.raw('rows_done'),
+        heartbeat_at: now,
+      });
     return n > 0;
   });
 }
 
 export async function listPendingFlights(importId: number, limit: number): Promise<PendingFlight[]> {
-  const rows = (await db()('flights').where({ import_id: importId, status: 'pending' }).orderBy('id').limit(limit).select('id', 'workspace_id', 'source_line', 'input_json')) as Row[];
-  return rows.map((r) => ({ id: Number(r.id), workspaceId: Number(r.workspace_id), line: r.source_line === null ? null : Number(r.source_line), inputJson: String(r.input_json) }));
+  const rows = (await db()('flights')
+    .where({ import_id: importId, status: 'pending' })
+    .orderBy('id')
+    .limit(limit)
+    .select('id', 'workspace_id', 'source_line', 'input_json')) as Row[];
+  return rows.map((r) => ({
+    id: Number(r.id),
+    workspaceId: Number(r.workspace_id),
+    line: r.source_line === null ? null : Number(r.source_line),
+    inputJson: String(r.input_json),
+  }));
 }
 
 /**
@@ -329,19 +491,32 @@ export async function saveScreenedChunk(importId: number, outcomes: ScreenedOutc
     const workspaceOf = new Map(screened.map((o) => [o.id, o.workspaceId]));
     for (let i = 0; i < screened.length; i += SCREENED_BATCH) {
       const ids = await markScreened(trx, screened.slice(i, i + SCREENED_BATCH), now);
-      await recordImportedFlightUnits(trx, ids.map((id) => ({ workspaceId: workspaceOf.get(id) ?? 0, sourceId: id })), now);
+      await recordImportedFlightUnits(
+        trx,
+        ids.map((id) => ({ workspaceId: workspaceOf.get(id) ?? 0, sourceId: id })),
+        now,
+      );
       saved += ids.length;
     }
     for (const o of outcomes) {
       if ('figures' in o) continue;
       const reason = o.error.slice(0, 500);
-      const n = await trx('flights').where({ id: o.id, status: 'pending' }).update({ status: 'failed', failure_reason: reason, screened_at: now });
+      const n = await trx('flights')
+        .where({ id: o.id, status: 'pending' })
+        .update({ status: 'failed', failure_reason: reason, screened_at: now });
       if (n > 0) {
-        await trx('import_problems').insert({ import_id: importId, line: o.line ?? 0, column: '', message: `Not screened: ${reason}`.slice(0, 1000) });
+        await trx('import_problems').insert({
+          import_id: importId,
+          line: o.line ?? 0,
+          column: '',
+          message: `Not screened: ${reason}`.slice(0, 1000),
+        });
         saved += 1;
       }
     }
-    await trx('imports').where('id', importId).update({ rows_done: trx.raw('rows_done + ?', [saved]), heartbeat_at: now });
+    await trx('imports')
+      .where('id', importId)
+      .update({ rows_done: trx.raw('rows_done + ?', [saved]), heartbeat_at: now });
     return saved;
   });
 }
@@ -354,28 +529,60 @@ const SCREENED_BATCH = 500;
  * and like it a no-op for a flight already billed, since (kind, source_id) is unique. One statement
  * per batch instead of one per flight: at 100 000 flights the per-row inserts alone cost seconds.
  */
-async function recordImportedFlightUnits(trx: Knex.Transaction, units: { workspaceId: number; sourceId: number }[], occurredAt: string): Promise<void> {
+async function recordImportedFlightUnits(
+  trx: Knex.Transaction,
+  units: { workspaceId: number; sourceId: number }[],
+  occurredAt: string,
+): Promise<void> {
   if (!units.length) return;
   const bindings: (number | string)[] = [];
-  for (const u of units) bindings.push(u.workspaceId, 'imported_flight', u.sourceId, `tp-imported_flight-${u.sourceId}`, 1, occurredAt);
+  for (const u of units)
+    bindings.push(u.workspaceId, 'imported_flight', u.sourceId, `tp-imported_flight-${u.sourceId}`, 1, occurredAt);
   const values = units.map(() => '(?, ?, ?, ?, ?, ?)').join(', ');
-  await trx.raw(`INSERT INTO usage_events (workspace_id, kind, source_id, idempotency_key, quantity, occurred_at) VALUES ${values} ON CONFLICT (kind, source_id) DO NOTHING`, bindings);
+  await trx.raw(
+    `INSERT INTO usage_events (workspace_id, kind, source_id, idempotency_key, quantity, occurred_at) VALUES ${values} ON CONFLICT (kind, source_id) DO NOTHING`,
+    bindings,
+  );
 }
-const FIGURE_COLUMNS = ['distance_km', 'nox_total_kg', 'nox_above_kg', 'fraction_above', 'mean_depth_above_km', 'ozone_central_kg', 'ozone_low_kg', 'ozone_high_kg'] as const;
+const FIGURE_COLUMNS = [
+  'distance_km',
+  'nox_total_kg',
+  'nox_above_kg',
+  'fraction_above',
+  'mean_depth_above_km',
+  'ozone_central_kg',
+  'ozone_low_kg',
+  'ozone_high_kg',
+] as const;
 
 /**
  * One UPDATE ... FROM (VALUES ...) for a batch of screened flights (SQLite 3.33+ and PostgreSQL
  * alike), touching only flights still pending; returns the ids it changed. One statement per batch
  * instead of one per flight keeps a 100 000-flight import within its time budget.
  */
-async function markScreened(trx: Knex.Transaction, batch: (ScreenedOutcome & { figures: FlightFigures })[], now: string): Promise<number[]> {
+async function markScreened(
+  trx: Knex.Transaction,
+  batch: (ScreenedOutcome & { figures: FlightFigures })[],
+  now: string,
+): Promise<number[]> {
   if (!batch.length) return [];
   const cast = `CAST(? AS INTEGER), ${FIGURE_COLUMNS.map(() => 'CAST(? AS DOUBLE PRECISION)').join(', ')}, CAST(? AS VARCHAR(32))`;
   const values = batch.map(() => `(${cast})`).join(', ');
   const bindings: (number | string)[] = [];
   for (const o of batch) {
     const f = o.figures;
-    bindings.push(o.id, f.distanceKm, f.noxTotalKg, f.noxAboveTropopauseKg, f.fractionAboveTropopause, f.meanDepthAboveTropopauseKm, f.ozoneCentralKg, f.ozoneLowKg, f.ozoneHighKg, f.engineVersion);
+    bindings.push(
+      o.id,
+      f.distanceKm,
+      f.noxTotalKg,
+      f.noxAboveTropopauseKg,
+      f.fractionAboveTropopause,
+      f.meanDepthAboveTropopauseKm,
+      f.ozoneCentralKg,
+      f.ozoneLowKg,
+      f.ozoneHighKg,
+      f.engineVersion,
+    );
   }
   const sets = FIGURE_COLUMNS.map((c, i) => `${c} = v.column${i + 2}`).join(', ');
   const sql = `UPDATE flights SET status = 'screened', failure_reason = NULL, ${sets}, engine_version = v.column${FIGURE_COLUMNS.length + 2}, screened_at = ? FROM (VALUES ${values}) AS v WHERE flights.id = v.column1 AND flights.status = 'pending' RETURNING flights.id`;
@@ -390,7 +597,11 @@ async function markScreened(trx: Knex.Transaction, batch: (ScreenedOutcome & { f
  */
 export async function finishImport(importId: number): Promise<ImportStatus | null> {
   return writeTx(async (trx) => {
-    const counts = (await trx('flights').where('import_id', importId).groupBy('status').select('status').count({ n: '*' })) as Row[];
+    const counts = (await trx('flights')
+      .where('import_id', importId)
+      .groupBy('status')
+      .select('status')
+      .count({ n: '*' })) as Row[];
     const by = new Map(counts.map((c) => [String(c.status), Number(c.n)]));
     if ((by.get('pending') ?? 0) > 0) return null;
     const screened = by.get('screened') ?? 0;
@@ -398,8 +609,15 @@ export async function finishImport(importId: number): Promise<ImportStatus | nul
     const status: ImportStatus = failed > 0 && screened === 0 ? 'failed' : 'complete';
     let reason: string | null = null;
     if (status === 'failed') {
-      const first = (await trx('flights').where({ import_id: importId, status: 'failed' }).orderBy('id').first('source_line', 'failure_reason')) as Row | undefined;
-      reason = `None of the ${failed} flights could be screened. First problem (line ${first?.source_line ?? '?'}): ${first?.failure_reason ?? 'unknown'}`.slice(0, 1000);
+      const first = (await trx('flights')
+        .where({ import_id: importId, status: 'failed' })
+        .orderBy('id')
+        .first('source_line', 'failure_reason')) as Row | undefined;
+      reason =
+        `None of the ${failed} flights could be screened. First problem (line ${first?.source_line ?? '?'}): ${first?.failure_reason ?? 'unknown'}`.slice(
+          0,
+          1000,
+        );
     }
     const now = nowIso();
     await trx('imports')
@@ -414,7 +632,10 @@ export async function finishImport(importId: number): Promise<ImportStatus | nul
 export async function failImport(importId: number, reason: string): Promise<void> {
   const now = nowIso();
   await writeTx((trx) =>
-    trx('imports').where('id', importId).whereIn('status', ['queued', 'screening']).update({ status: 'failed', failure_reason: reason.slice(0, 1000), finished_at: now, heartbeat_at: now }),
+    trx('imports')
+      .where('id', importId)
+      .whereIn('status', ['queued', 'screening'])
+      .update({ status: 'failed', failure_reason: reason.slice(0, 1000), finished_at: now, heartbeat_at: now }),
   );
 }
 
@@ -426,17 +647,36 @@ export async function failImport(importId: number, reason: string): Promise<void
  * screened, and the worker's re-screen writes figures only. A re-screen already queued or running
  * for that version is returned as it is.
  */
-export async function requestImportRescreen(scope: { workspaceId: number }, id: number, input: { engineVersion: string; requestedBy: number | null; actor: string }): Promise<ImportDto> {
+export async function requestImportRescreen(
+  scope: { workspaceId: number },
+  id: number,
+  input: { engineVersion: string; requestedBy: number | null; actor: string },
+): Promise<ImportDto> {
   await writeTx(async (trx) => {
     const imp = (await trx('imports').where({ workspace_id: scope.workspaceId, id }).first()) as Row | undefined;
     if (!imp) throw notFound('No import with that id in this workspace.');
     if (imp.status === 'queued' || imp.status === 'screening') {
-      throw new AppError('conflict', `Import #${id} is still being screened; its flights can be screened again once it is complete.`);
+      throw new AppError(
+        'conflict',
+        `Import #${id} is still being screened; its flights can be screened again once it is complete.`,
+      );
     }
-    if ((imp.rescreen_status === 'queued' || imp.rescreen_status === 'running') && imp.rescreen_engine_version === input.engineVersion) return;
-    const stale = (await trx('flights').where({ workspace_id: scope.workspaceId, import_id: id, status: 'screened' }).whereNot('engine_version', input.engineVersion).count({ n: '*' }).first()) as Row | undefined;
+    if (
+      (imp.rescreen_status === 'queued' || imp.rescreen_status === 'running') &&
+      imp.rescreen_engine_version === input.engineVersion
+    )
+      return;
+    const stale = (await trx('flights')
+      .where({ workspace_id: scope.workspaceId, import_id: id, status: 'screened' })
+      .whereNot('engine_version', input.engineVersion)
+      .count({ n: '*' })
+      .first()) as Row | undefined;
     const rows = Number(stale?.n ?? 0);
-    if (rows === 0) throw new AppError('conflict', `Every screened flight of import #${id} was made with the current engine version (${input.engineVersion}); there is nothing to screen again.`);
+    if (rows === 0)
+      throw new AppError(
+        'conflict',
+        `Every screened flight of import #${id} was made with the current engine version (${input.engineVersion}); there is nothing to screen again.`,
+      );
     const now = nowIso();
     await trx('imports').where({ workspace_id: scope.workspaceId, id }).update({
       rescreen_status: 'queued',
@@ -449,7 +689,17 @@ export async function requestImportRescreen(scope: { workspaceId: number }, id: 
       rescreen_requested_at: now,
       rescreen_finished_at: null,
     });
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: input.requestedBy, actor: input.actor, action: 'import.rescreen_requested', target: `import:${id}`, detail: { engineVersion: input.engineVersion, flights: rows } }, trx);
+    await createAuditEntry(
+      {
+        workspaceId: scope.workspaceId,
+        userId: input.requestedBy,
+        actor: input.actor,
+        action: 'import.rescreen_requested',
+        target: `import:${id}`,
+        detail: { engineVersion: input.engineVersion, flights: rows },
+      },
+      trx,
+    );
   });
   return getImport(scope, id);
 }
@@ -462,8 +712,15 @@ export interface RescreenJob {
 
 /** Re-screens queued or left mid-way (a restart resumes them), oldest first. */
 export async function listActiveRescreens(): Promise<RescreenJob[]> {
-  const rows = (await db()('imports').whereIn('rescreen_status', ['queued', 'running']).orderBy('id').select('id', 'rescreen_engine_version', 'rescreen_last_flight_id')) as Row[];
-  return rows.map((r) => ({ importId: Number(r.id), engineVersion: String(r.rescreen_engine_version), lastFlightId: Number(r.rescreen_last_flight_id ?? 0) }));
+  const rows = (await db()('imports')
+    .whereIn('rescreen_status', ['queued', 'running'])
+    .orderBy('id')
+    .select('id', 'rescreen_engine_version', 'rescreen_last_flight_id')) as Row[];
+  return rows.map((r) => ({
+    importId: Number(r.id),
+    engineVersion: String(r.rescreen_engine_version),
+    lastFlightId: Number(r.rescreen_last_flight_id ?? 0),
+  }));
 }
 
 /** The next screened flights of a re-screen, after its cursor, that are not yet on its engine version. */
@@ -475,7 +732,12 @@ export async function listRescreenFlights(job: RescreenJob, limit: number): Prom
     .orderBy('id')
     .limit(limit)
     .select('id', 'workspace_id', 'source_line', 'input_json')) as Row[];
-  return rows.map((r) => ({ id: Number(r.id), workspaceId: Number(r.workspace_id), line: r.source_line === null ? null : Number(r.source_line), inputJson: String(r.input_json) }));
+  return rows.map((r) => ({
+    id: Number(r.id),
+    workspaceId: Number(r.workspace_id),
+    line: r.source_line === null ? null : Number(r.source_line),
+    inputJson: String(r.input_json),
+  }));
 }
 
 /**
@@ -484,7 +746,10 @@ export async function listRescreenFlights(job: RescreenJob, limit: number): Prom
  * and version and is counted as failed. The cursor moves past the chunk, so a replay repeats nothing
  * it has already changed; the update only touches flights not yet on the target version.
  */
-export async function saveRescreenChunk(job: RescreenJob, outcomes: ScreenedOutcome[]): Promise<{ done: number; failed: number }> {
+export async function saveRescreenChunk(
+  job: RescreenJob,
+  outcomes: ScreenedOutcome[],
+): Promise<{ done: number; failed: number }> {
   return writeTx(async (trx) => {
     const now = nowIso();
     let done = 0;
@@ -515,11 +780,21 @@ export async function saveRescreenChunk(job: RescreenJob, outcomes: ScreenedOutc
     const last = outcomes.reduce((m, o) => Math.max(m, o.id), job.lastFlightId);
     await trx('imports')
       .where('id', job.importId)
-      .update({ rescreen_status: 'running', rescreen_rows_done: trx.raw('rescreen_rows_done + ?', [done]), rescreen_rows_failed: trx.raw('rescreen_rows_failed + ?', [failed]), rescreen_last_flight_id: last });
+      .update({
+        rescreen_status: 'running',
+        rescreen_rows_done: trx.raw('rescreen_rows_done + ?', [done]),
+        rescreen_rows_failed: trx.raw('rescreen_rows_failed + ?', [failed]),
+        rescreen_last_flight_id: last,
+      });
     return { done, failed };
   });
 }
 
 export async function finishRescreen(importId: number): Promise<void> {
-  await writeTx((trx) => trx('imports').where('id', importId).whereIn('rescreen_status', ['queued', 'running']).update({ rescreen_status: 'complete', rescreen_finished_at: nowIso() }));
+  await writeTx((trx) =>
+    trx('imports')
+      .where('id', importId)
+      .whereIn('rescreen_status', ['queued', 'running'])
+      .update({ rescreen_status: 'complete', rescreen_finished_at: nowIso() }),
+  );
 }

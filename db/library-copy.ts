@@ -17,7 +17,18 @@ export interface LibraryCopyResult {
 
 type Row = Record<string, unknown>;
 
-const ENGINE_FIELDS = ['ff_idle_kg_s', 'ff_approach_kg_s', 'ff_climb_out_kg_s', 'ff_take_off_kg_s', 'ei_idle_g_kg', 'ei_approach_g_kg', 'ei_climb_out_g_kg', 'ei_take_off_g_kg', 'source', 'is_demo'] as const;
+const ENGINE_FIELDS = [
+  'ff_idle_kg_s',
+  'ff_approach_kg_s',
+  'ff_climb_out_kg_s',
+  'ff_take_off_kg_s',
+  'ei_idle_g_kg',
+  'ei_approach_g_kg',
+  'ei_climb_out_g_kg',
+  'ei_take_off_g_kg',
+  'source',
+  'is_demo',
+] as const;
 const TYPE_FIELDS = ['name', 'engine_count', 'typical_mach', 'typical_flight_level', 'direct_ei_g_kg'] as const;
 
 /**
@@ -30,8 +41,13 @@ export async function copyLibrary(
   input: { fromWorkspaceId: number; toWorkspaceId: number; include: LibraryCopyInclude },
   actor: { userId: number | null; label: string },
 ): Promise<LibraryCopyResult> {
-  if (input.fromWorkspaceId === input.toWorkspaceId) throw badRequest('Choose two different workspaces to copy between.');
-  const result: LibraryCopyResult = { engines: { copied: [], skipped: [] }, aircraftTypes: { copied: [], skipped: [] }, fleets: { copied: [], skipped: [] } };
+  if (input.fromWorkspaceId === input.toWorkspaceId)
+    throw badRequest('Choose two different workspaces to copy between.');
+  const result: LibraryCopyResult = {
+    engines: { copied: [], skipped: [] },
+    aircraftTypes: { copied: [], skipped: [] },
+    fleets: { copied: [], skipped: [] },
+  };
   const from = { workspace_id: input.fromWorkspaceId };
   const to = { workspace_id: input.toWorkspaceId };
   return writeTx(async (trx) => {
@@ -42,10 +58,18 @@ export async function copyLibrary(
       trx('aircraft_types').where(from).orderBy('code'),
     ])) as [Row[], Row[], Row[]];
     // A copied type needs its engine and default fleet in the target, so those come along with it.
-    const neededEngines = new Set<number>(input.include.aircraftTypes ? srcTypes.filter((t) => t.engine_id !== null).map((t) => Number(t.engine_id)) : []);
-    const neededFleets = new Set<number>(input.include.aircraftTypes ? srcTypes.filter((t) => t.default_fleet_id !== null).map((t) => Number(t.default_fleet_id)) : []);
+    const neededEngines = new Set<number>(
+      input.include.aircraftTypes ? srcTypes.filter((t) => t.engine_id !== null).map((t) => Number(t.engine_id)) : [],
+    );
+    const neededFleets = new Set<number>(
+      input.include.aircraftTypes
+        ? srcTypes.filter((t) => t.default_fleet_id !== null).map((t) => Number(t.default_fleet_id))
+        : [],
+    );
 
-    const engineByName = new Map(((await trx('engines').where(to).select('id', 'name')) as Row[]).map((e) => [String(e.name), Number(e.id)]));
+    const engineByName = new Map(
+      ((await trx('engines').where(to).select('id', 'name')) as Row[]).map((e) => [String(e.name), Number(e.id)]),
+    );
     const engineIdMap = new Map<number, number>();
     for (const e of srcEngines) {
       if (!input.include.engines && !neededEngines.has(Number(e.id))) continue;
@@ -64,7 +88,9 @@ export async function copyLibrary(
       result.engines.copied.push(name);
     }
 
-    const fleetByName = new Map(((await trx('fleets').where(to).select('id', 'name')) as Row[]).map((f) => [String(f.name), Number(f.id)]));
+    const fleetByName = new Map(
+      ((await trx('fleets').where(to).select('id', 'name')) as Row[]).map((f) => [String(f.name), Number(f.id)]),
+    );
     const fleetIdMap = new Map<number, number>();
     for (const f of srcFleets) {
       if (!input.include.fleets && !neededFleets.has(Number(f.id))) continue;
@@ -75,14 +101,20 @@ export async function copyLibrary(
         result.fleets.skipped.push(name);
         continue;
       }
-      const id = await insertId(trx('fleets').insert({ ...to, name, description: f.description ?? '', created_at: now }).returning('id'));
+      const id = await insertId(
+        trx('fleets')
+          .insert({ ...to, name, description: f.description ?? '', created_at: now })
+          .returning('id'),
+      );
       fleetIdMap.set(Number(f.id), id);
       fleetByName.set(name, id);
       result.fleets.copied.push(name);
     }
 
     if (input.include.aircraftTypes) {
-      const codes = new Set(((await trx('aircraft_types').where(to).select('code')) as Row[]).map((t) => String(t.code).toUpperCase()));
+      const codes = new Set(
+        ((await trx('aircraft_types').where(to).select('code')) as Row[]).map((t) => String(t.code).toUpperCase()),
+      );
       for (const t of srcTypes) {
         const code = String(t.code);
         if (codes.has(code.toUpperCase())) {
@@ -112,7 +144,11 @@ export async function copyLibrary(
         actor: actor.label,
         action: 'library.copied',
         target: `workspace:${String(source?.slug ?? input.fromWorkspaceId)}`,
-        detail: { engines: result.engines.copied.length, aircraftTypes: result.aircraftTypes.copied.length, fleets: result.fleets.copied.length },
+        detail: {
+          engines: result.engines.copied.length,
+          aircraftTypes: result.aircraftTypes.copied.length,
+          fleets: result.fleets.copied.length,
+        },
       },
       trx,
     );

@@ -18,10 +18,13 @@ export interface WorkspaceMonthSummary {
  * screened (by flight date), and the NOx above the tropopause of both. Billable units are not here:
  * they count over the billing period, from the usage ledger (lib/billing/usage-summary.ts).
  */
-export async function getMonthSummaries(scope: { workspaceIds: number[] }): Promise<Map<number, WorkspaceMonthSummary>> {
+export async function getMonthSummaries(scope: {
+  workspaceIds: number[];
+}): Promise<Map<number, WorkspaceMonthSummary>> {
   const out = new Map<number, WorkspaceMonthSummary>();
   if (!scope.workspaceIds.length) return out;
-  for (const id of scope.workspaceIds) out.set(id, { workspaceId: id, savedScreenings: 0, importedFlightsScreened: 0, noxAboveKg: 0, noxTotalKg: 0 });
+  for (const id of scope.workspaceIds)
+    out.set(id, { workspaceId: id, savedScreenings: 0, importedFlightsScreened: 0, noxAboveKg: 0, noxTotalKg: 0 });
   const { from, to } = monthBounds();
   const k = db();
   const [flights, screenings] = await Promise.all([
@@ -96,9 +99,17 @@ export async function getMonthlyTrend(scope: { workspaceId: number }, months = 6
       .count({ n: '*' })
       .sum({ total: 'nox_total_kg', above: 'nox_above_kg', ozone: 'ozone_central_kg' }),
   ]);
-  const rows = new Map<string, MonthTrendRow>(keys.map((month) => [month, { month, savedScreenings: 0, importedFlightsScreened: 0, noxTotalKg: 0, noxAboveKg: 0, ozoneCentralKg: 0 }]));
+  const rows = new Map<string, MonthTrendRow>(
+    keys.map((month) => [
+      month,
+      { month, savedScreenings: 0, importedFlightsScreened: 0, noxTotalKg: 0, noxAboveKg: 0, ozoneCentralKg: 0 },
+    ]),
+  );
   type Sum = { month: string; n: number | string; total: number | null; above: number | null; ozone: number | null };
-  const tagged = [...(flights as Sum[]).map((r) => ({ r, field: 'importedFlightsScreened' as const })), ...(screenings as Sum[]).map((r) => ({ r, field: 'savedScreenings' as const }))];
+  const tagged = [
+    ...(flights as Sum[]).map((r) => ({ r, field: 'importedFlightsScreened' as const })),
+    ...(screenings as Sum[]).map((r) => ({ r, field: 'savedScreenings' as const })),
+  ];
   for (const { r, field } of tagged) {
     const row = rows.get(r.month);
     if (!row) continue;
@@ -112,7 +123,10 @@ export async function getMonthlyTrend(scope: { workspaceId: number }, months = 6
 
 /** All imported flights of a workspace whose screening finished, whatever their date. */
 export async function countImportedFlightsScreened(scope: { workspaceId: number }): Promise<number> {
-  const r = (await db()('flights').where({ workspace_id: scope.workspaceId, status: 'screened' }).count({ n: '*' }).first()) as { n: number | string } | undefined;
+  const r = (await db()('flights')
+    .where({ workspace_id: scope.workspaceId, status: 'screened' })
+    .count({ n: '*' })
+    .first()) as { n: number | string } | undefined;
   return Number(r?.n ?? 0);
 }
 
@@ -131,7 +145,12 @@ export async function getClientStatuses(scope: { workspaceIds: number[] }): Prom
   const k = db();
   const [trends, imports, sends] = await Promise.all([
     Promise.all(scope.workspaceIds.map(async (id) => [id, await getMonthlyTrend({ workspaceId: id }, 6)] as const)),
-    k('imports').whereIn('workspace_id', scope.workspaceIds).whereIn('status', ['queued', 'screening', 'failed']).groupBy('workspace_id', 'status').select('workspace_id', 'status').count({ n: '*' }),
+    k('imports')
+      .whereIn('workspace_id', scope.workspaceIds)
+      .whereIn('status', ['queued', 'screening', 'failed'])
+      .groupBy('workspace_id', 'status')
+      .select('workspace_id', 'status')
+      .count({ n: '*' }),
     k('report_sends as s')
       .join('reports as r', 'r.id', 's.report_id')
       .whereIn('r.workspace_id', scope.workspaceIds)
@@ -143,7 +162,11 @@ export async function getClientStatuses(scope: { workspaceIds: number[] }): Prom
   for (const [id, trend] of trends) {
     out.set(id, {
       workspaceId: id,
-      trend: trend.map((t) => ({ month: t.month, noxAboveKg: t.noxAboveKg, shareAbove: t.noxTotalKg > 0 ? t.noxAboveKg / t.noxTotalKg : null })),
+      trend: trend.map((t) => ({
+        month: t.month,
+        noxAboveKg: t.noxAboveKg,
+        shareAbove: t.noxTotalKg > 0 ? t.noxAboveKg / t.noxTotalKg : null,
+      })),
       imports: { running: 0, failed: 0 },
       lastReportSent: null,
     });
@@ -154,10 +177,21 @@ export async function getClientStatuses(scope: { workspaceIds: number[] }): Prom
     if (r.status === 'failed') s.imports.failed += Number(r.n);
     else s.imports.running += Number(r.n);
   }
-  for (const r of sends as { workspace_id: number; report_id: number; name: string; sent_at: string; recipients: string }[]) {
+  for (const r of sends as {
+    workspace_id: number;
+    report_id: number;
+    name: string;
+    sent_at: string;
+    recipients: string;
+  }[]) {
     const s = out.get(Number(r.workspace_id));
     if (!s || s.lastReportSent) continue;
-    s.lastReportSent = { at: String(r.sent_at), reportId: Number(r.report_id), reportName: String(r.name), recipients: recipientCount(r.recipients) };
+    s.lastReportSent = {
+      at: String(r.sent_at),
+      reportId: Number(r.report_id),
+      reportName: String(r.name),
+      recipients: recipientCount(r.recipients),
+    };
   }
   return out;
 }

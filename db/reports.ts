@@ -72,13 +72,23 @@ function reportQuery(workspaceId: number) {
       'u.email as created_by_email',
       k.raw('length(r.pdf) as pdf_bytes'),
       k.raw("(select count(*) from report_sends s where s.report_id = r.id and s.status = 'sent') as sends"),
-      k.raw("(select max(s.sent_at) from report_sends s where s.report_id = r.id and s.status = 'sent') as last_sent_at"),
+      k.raw(
+        "(select max(s.sent_at) from report_sends s where s.report_id = r.id and s.status = 'sent') as last_sent_at",
+      ),
     );
 }
 
 export async function createReport(
   scope: { workspaceId: number },
-  input: { name: string; summary: ReportSummary; fleetIds: number[]; pdf: Uint8Array; csv: string; createdBy: number | null; actor: string },
+  input: {
+    name: string;
+    summary: ReportSummary;
+    fleetIds: number[];
+    pdf: Uint8Array;
+    csv: string;
+    createdBy: number | null;
+    actor: string;
+  },
 ): Promise<ReportRecord> {
   const id = await writeTx(async (trx) => {
     const newId = await insertId(
@@ -98,7 +108,14 @@ export async function createReport(
         .returning('id'),
     );
     await createAuditEntry(
-      { workspaceId: scope.workspaceId, userId: input.createdBy, actor: input.actor, action: 'report.create', target: `report:${newId}`, detail: { name: input.name, from: input.summary.period.from, to: input.summary.period.to } },
+      {
+        workspaceId: scope.workspaceId,
+        userId: input.createdBy,
+        actor: input.actor,
+        action: 'report.create',
+        target: `report:${newId}`,
+        detail: { name: input.name, from: input.summary.period.from, to: input.summary.period.to },
+      },
       trx,
     );
     return newId;
@@ -107,9 +124,14 @@ export async function createReport(
 }
 
 /** Newest first, keyset-paged by id. */
-export async function listReports(scope: { workspaceId: number }, opts: { cursor?: number; limit?: number } = {}): Promise<{ items: ReportListItem[]; nextCursor: string | null }> {
+export async function listReports(
+  scope: { workspaceId: number },
+  opts: { cursor?: number; limit?: number } = {},
+): Promise<{ items: ReportListItem[]; nextCursor: string | null }> {
   const limit = Math.min(Math.max(opts.limit ?? 50, 1), 200);
-  const q = reportQuery(scope.workspaceId).orderBy('r.id', 'desc').limit(limit + 1);
+  const q = reportQuery(scope.workspaceId)
+    .orderBy('r.id', 'desc')
+    .limit(limit + 1);
   if (opts.cursor) q.andWhere('r.id', '<', opts.cursor);
   const rows = (await q) as Row[];
   const items = rows.slice(0, limit).map(itemOf);
@@ -123,21 +145,31 @@ export async function getReport(scope: { workspaceId: number }, id: number): Pro
 }
 
 export async function getReportPdf(scope: { workspaceId: number }, id: number): Promise<{ name: string; pdf: Buffer }> {
-  const row = (await db()('reports').where({ workspace_id: scope.workspaceId, id }).select('name', 'pdf').first()) as Row | undefined;
+  const row = (await db()('reports').where({ workspace_id: scope.workspaceId, id }).select('name', 'pdf').first()) as
+    Row | undefined;
   if (!row) throw notFound('No report with that id in this workspace.');
   const pdf = row.pdf;
   return { name: String(row.name), pdf: Buffer.isBuffer(pdf) ? pdf : Buffer.from(pdf as Uint8Array) };
 }
 
 export async function getReportCsv(scope: { workspaceId: number }, id: number): Promise<{ name: string; csv: string }> {
-  const row = (await db()('reports').where({ workspace_id: scope.workspaceId, id }).select('name', 'csv').first()) as Row | undefined;
+  const row = (await db()('reports').where({ workspace_id: scope.workspaceId, id }).select('name', 'csv').first()) as
+    Row | undefined;
   if (!row) throw notFound('No report with that id in this workspace.');
   return { name: String(row.name), csv: String(row.csv) };
 }
 
 export async function recordReportSend(
   scope: { workspaceId: number },
-  input: { reportId: number; recipients: string[]; sentBy: number | null; status: 'sent' | 'failed'; messageId: string | null; error: string | null; actor: string },
+  input: {
+    reportId: number;
+    recipients: string[];
+    sentBy: number | null;
+    status: 'sent' | 'failed';
+    messageId: string | null;
+    error: string | null;
+    actor: string;
+  },
 ): Promise<ReportSendDto> {
   const id = await writeTx(async (trx) => {
     const report = await trx('reports').where({ workspace_id: scope.workspaceId, id: input.reportId }).first();
@@ -156,7 +188,14 @@ export async function recordReportSend(
         .returning('id'),
     );
     await createAuditEntry(
-      { workspaceId: scope.workspaceId, userId: input.sentBy, actor: input.actor, action: input.status === 'sent' ? 'report.send' : 'report.send_failed', target: `report:${input.reportId}`, detail: { recipients: input.recipients.length } },
+      {
+        workspaceId: scope.workspaceId,
+        userId: input.sentBy,
+        actor: input.actor,
+        action: input.status === 'sent' ? 'report.send' : 'report.send_failed',
+        target: `report:${input.reportId}`,
+        detail: { recipients: input.recipients.length },
+      },
       trx,
     );
     return newId;
@@ -168,9 +207,15 @@ export async function recordReportSend(
 }
 
 /** Deletes a stored report with its files and e-mail history; the audit log keeps that it existed. */
-export async function deleteReport(scope: { workspaceId: number }, id: number, by: { userId: number | null; actor: string }): Promise<void> {
+export async function deleteReport(
+  scope: { workspaceId: number },
+  id: number,
+  by: { userId: number | null; actor: string },
+): Promise<void> {
   await writeTx(async (trx) => {
-    const report = await trx('reports').where({ workspace_id: scope.workspaceId, id }).first('id', 'name', 'period_from', 'period_to');
+    const report = await trx('reports')
+      .where({ workspace_id: scope.workspaceId, id })
+      .first('id', 'name', 'period_from', 'period_to');
     if (!report) throw notFound('No report with that id in this workspace.');
     const sends = await trx('report_sends').where({ report_id: id }).delete();
     await trx('reports').where({ workspace_id: scope.workspaceId, id }).delete();

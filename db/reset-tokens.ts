@@ -20,7 +20,9 @@ export async function createResetToken(email: string): Promise<string> {
 
 /** The address a still-unused reset token belongs to (to judge the new password against it), or null. */
 export async function resetTokenEmail(token: string): Promise<string | null> {
-  const row = await db()('verification_tokens').where({ token: sha256Hex(token), purpose: 'reset' }).first('identifier');
+  const row = await db()('verification_tokens')
+    .where({ token: sha256Hex(token), purpose: 'reset' })
+    .first('identifier');
   return row ? String(row.identifier) : null;
 }
 
@@ -29,7 +31,9 @@ export type ResetOutcome = 'ok' | 'invalid' | 'expired';
 /** Consumes the token and sets the new password in one transaction; old sessions and every other outstanding link end. */
 export async function consumeResetToken(token: string, passwordHash: string): Promise<ResetOutcome> {
   return writeTx(async (trx) => {
-    const row = await trx('verification_tokens').where({ token: sha256Hex(token), purpose: 'reset' }).first();
+    const row = await trx('verification_tokens')
+      .where({ token: sha256Hex(token), purpose: 'reset' })
+      .first();
     if (!row) return 'invalid';
     await trx('verification_tokens').where({ identifier: row.identifier, token: row.token, purpose: 'reset' }).delete();
     if (row.expires <= nowIso()) return 'expired';

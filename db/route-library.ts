@@ -42,7 +42,11 @@ function likePrefix(q: string): string {
 }
 
 /** Fixes of a workspace by name (then region), optionally those whose name starts with `q`; at most `limit`. */
-export async function listFixes(scope: { workspaceId: number }, opts: { q?: string; limit?: number } = {}, trx: Db = db()): Promise<FixDto[]> {
+export async function listFixes(
+  scope: { workspaceId: number },
+  opts: { q?: string; limit?: number } = {},
+  trx: Db = db(),
+): Promise<FixDto[]> {
   const query = trx('fixes').where({ workspace_id: scope.workspaceId }).orderBy('name').orderBy('region').orderBy('id');
   if (opts.q) query.andWhere('name', 'like', likePrefix(opts.q));
   if (opts.limit !== undefined) query.limit(opts.limit);
@@ -50,14 +54,21 @@ export async function listFixes(scope: { workspaceId: number }, opts: { q?: stri
 }
 
 /** Airways of a workspace by name, each with its fix names in order; optionally those starting with `q`. */
-export async function listAirways(scope: { workspaceId: number }, opts: { q?: string; limit?: number } = {}, trx: Db = db()): Promise<AirwayDto[]> {
+export async function listAirways(
+  scope: { workspaceId: number },
+  opts: { q?: string; limit?: number } = {},
+  trx: Db = db(),
+): Promise<AirwayDto[]> {
   const query = trx('airways').where({ workspace_id: scope.workspaceId }).orderBy('name').orderBy('id');
   if (opts.q) query.andWhere('name', 'like', likePrefix(opts.q));
   if (opts.limit !== undefined) query.limit(opts.limit);
   const rows = (await query) as Row[];
   if (rows.length === 0) return [];
   const ids = rows.map((r) => Number(r.id));
-  const points = (await trx('airway_fixes').whereIn('airway_id', ids).orderBy('airway_id').orderBy('sequence')) as Row[];
+  const points = (await trx('airway_fixes')
+    .whereIn('airway_id', ids)
+    .orderBy('airway_id')
+    .orderBy('sequence')) as Row[];
   const byAirway = new Map<number, string[]>();
   for (const p of points) {
     const id = Number(p.airway_id);
@@ -65,7 +76,12 @@ export async function listAirways(scope: { workspaceId: number }, opts: { q?: st
     if (list) list.push(String(p.fix_name));
     else byAirway.set(id, [String(p.fix_name)]);
   }
-  return rows.map((r) => ({ id: Number(r.id), name: String(r.name), fixes: byAirway.get(Number(r.id)) ?? [], createdAt: String(r.created_at) }));
+  return rows.map((r) => ({
+    id: Number(r.id),
+    name: String(r.name),
+    fixes: byAirway.get(Number(r.id)) ?? [],
+    createdAt: String(r.created_at),
+  }));
 }
 
 /** Everything a flight-plan route of this workspace may name: its fixes and airways. */
@@ -92,14 +108,34 @@ export async function saveFixes(
     const now = nowIso();
     for (const f of fixes) {
       const region = f.region ?? '';
-      const n = await trx('fixes').where({ workspace_id: scope.workspaceId, name: f.name, region }).update({ lat: f.lat, lon: f.lon });
+      const n = await trx('fixes')
+        .where({ workspace_id: scope.workspaceId, name: f.name, region })
+        .update({ lat: f.lat, lon: f.lon });
       if (n > 0) updated++;
       else {
-        await trx('fixes').insert({ workspace_id: scope.workspaceId, name: f.name, region, lat: f.lat, lon: f.lon, created_by: by.userId, created_at: now });
+        await trx('fixes').insert({
+          workspace_id: scope.workspaceId,
+          name: f.name,
+          region,
+          lat: f.lat,
+          lon: f.lon,
+          created_by: by.userId,
+          created_at: now,
+        });
         added++;
       }
     }
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'fix.import', target: by.fileName ?? null, detail: { added, updated } }, trx);
+    await createAuditEntry(
+      {
+        workspaceId: scope.workspaceId,
+        userId: by.userId,
+        actor: by.actor,
+        action: 'fix.import',
+        target: by.fileName ?? null,
+        detail: { added, updated },
+      },
+      trx,
+    );
     return { added, updated };
   });
 }
@@ -118,19 +154,35 @@ export async function saveAirways(
     let updated = 0;
     const now = nowIso();
     for (const a of airways) {
-      const existing = (await trx('airways').where({ workspace_id: scope.workspaceId, name: a.name }).first()) as Row | undefined;
+      const existing = (await trx('airways').where({ workspace_id: scope.workspaceId, name: a.name }).first()) as
+        Row | undefined;
       let id: number;
       if (existing) {
         id = Number(existing.id);
         await trx('airway_fixes').where({ airway_id: id }).delete();
         updated++;
       } else {
-        id = await insertId(trx('airways').insert({ workspace_id: scope.workspaceId, name: a.name, created_by: by.userId, created_at: now }, ['id']));
+        id = await insertId(
+          trx('airways').insert(
+            { workspace_id: scope.workspaceId, name: a.name, created_by: by.userId, created_at: now },
+            ['id'],
+          ),
+        );
         added++;
       }
       await trx('airway_fixes').insert(a.fixes.map((fix, i) => ({ airway_id: id, sequence: i + 1, fix_name: fix })));
     }
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'airway.import', target: by.fileName ?? null, detail: { added, updated } }, trx);
+    await createAuditEntry(
+      {
+        workspaceId: scope.workspaceId,
+        userId: by.userId,
+        actor: by.actor,
+        action: 'airway.import',
+        target: by.fileName ?? null,
+        detail: { added, updated },
+      },
+      trx,
+    );
     return { added, updated };
   });
 }
@@ -140,7 +192,17 @@ export async function deleteFix(scope: { workspaceId: number }, id: number, by: 
     const row = (await trx('fixes').where({ workspace_id: scope.workspaceId, id }).first()) as Row | undefined;
     if (!row) throw notFound('No fix with that id in this workspace.');
     await trx('fixes').where({ workspace_id: scope.workspaceId, id }).delete();
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'fix.delete', target: `fix:${id}`, detail: { name: String(row.name) } }, trx);
+    await createAuditEntry(
+      {
+        workspaceId: scope.workspaceId,
+        userId: by.userId,
+        actor: by.actor,
+        action: 'fix.delete',
+        target: `fix:${id}`,
+        detail: { name: String(row.name) },
+      },
+      trx,
+    );
   });
 }
 
@@ -150,6 +212,16 @@ export async function deleteAirway(scope: { workspaceId: number }, id: number, b
     if (!row) throw notFound('No airway with that id in this workspace.');
     await trx('airway_fixes').where({ airway_id: id }).delete();
     await trx('airways').where({ workspace_id: scope.workspaceId, id }).delete();
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'airway.delete', target: `airway:${id}`, detail: { name: String(row.name) } }, trx);
+    await createAuditEntry(
+      {
+        workspaceId: scope.workspaceId,
+        userId: by.userId,
+        actor: by.actor,
+        action: 'airway.delete',
+        target: `airway:${id}`,
+        detail: { name: String(row.name) },
+      },
+      trx,
+    );
   });
 }

@@ -31,7 +31,10 @@ export const routeOf = (r: Row): RouteDto => ({
 
 /** Saved routes of a workspace, by name. */
 export async function listRoutes(scope: { workspaceId: number }, trx: Db = db()): Promise<RouteDto[]> {
-  const rows = await trx('routes').where({ workspace_id: scope.workspaceId }).orderBy('name', 'asc').orderBy('id', 'asc');
+  const rows = await trx('routes')
+    .where({ workspace_id: scope.workspaceId })
+    .orderBy('name', 'asc')
+    .orderBy('id', 'asc');
   return rows.map(routeOf);
 }
 
@@ -42,10 +45,18 @@ export async function getRoute(scope: { workspaceId: number }, id: number, trx: 
 }
 
 /** 409 at `name` when another saved route of the workspace has this name (any case). */
-export async function assertRouteNameFree(trx: Db, workspaceId: number, name: string, exceptId?: number): Promise<void> {
+export async function assertRouteNameFree(
+  trx: Db,
+  workspaceId: number,
+  name: string,
+  exceptId?: number,
+): Promise<void> {
   const q = trx('routes').where({ workspace_id: workspaceId }).whereRaw('lower(name) = ?', [name.toLowerCase()]);
   if (exceptId !== undefined) q.andWhereNot('id', exceptId);
-  if (await q.first()) throw conflict(`A saved route called “${name}” already exists in this workspace.`, [{ path: 'name', message: 'Another saved route already has this name.' }]);
+  if (await q.first())
+    throw conflict(`A saved route called “${name}” already exists in this workspace.`, [
+      { path: 'name', message: 'Another saved route already has this name.' },
+    ]);
 }
 
 /** What a saved route holds; the service resolves and checks the waypoints before it is stored. */
@@ -56,25 +67,71 @@ export interface RouteRecord {
 }
 
 /** Inserts a route inside the caller's write transaction, with its audit entry. */
-export async function insertRoute(trx: Knex.Transaction, scope: { workspaceId: number }, route: RouteRecord, by: LibraryActor): Promise<RouteDto> {
+export async function insertRoute(
+  trx: Knex.Transaction,
+  scope: { workspaceId: number },
+  route: RouteRecord,
+  by: LibraryActor,
+): Promise<RouteDto> {
   await assertRouteNameFree(trx, scope.workspaceId, route.name);
   const now = nowIso();
   const id = await insertId(
     trx('routes').insert(
-      { workspace_id: scope.workspaceId, name: route.name, waypoints_json: JSON.stringify(route.waypoints), notes: route.notes, created_by: by.userId, created_at: now, updated_at: now },
+      {
+        workspace_id: scope.workspaceId,
+        name: route.name,
+        waypoints_json: JSON.stringify(route.waypoints),
+        notes: route.notes,
+        created_by: by.userId,
+        created_at: now,
+        updated_at: now,
+      },
       ['id'],
     ),
   );
-  await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'route.create', target: `route:${id}`, detail: { name: route.name } }, trx);
+  await createAuditEntry(
+    {
+      workspaceId: scope.workspaceId,
+      userId: by.userId,
+      actor: by.actor,
+      action: 'route.create',
+      target: `route:${id}`,
+      detail: { name: route.name },
+    },
+    trx,
+  );
   return getRoute(scope, id, trx);
 }
 
 /** Replaces a route inside the caller's write transaction (404 when it is not in the workspace), with its audit entry. */
-export async function replaceRoute(trx: Knex.Transaction, scope: { workspaceId: number }, id: number, route: RouteRecord, by: LibraryActor): Promise<RouteDto> {
+export async function replaceRoute(
+  trx: Knex.Transaction,
+  scope: { workspaceId: number },
+  id: number,
+  route: RouteRecord,
+  by: LibraryActor,
+): Promise<RouteDto> {
   await getRoute(scope, id, trx);
   await assertRouteNameFree(trx, scope.workspaceId, route.name, id);
-  await trx('routes').where({ workspace_id: scope.workspaceId, id }).update({ name: route.name, waypoints_json: JSON.stringify(route.waypoints), notes: route.notes, updated_at: nowIso() });
-  await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'route.update', target: `route:${id}`, detail: { name: route.name } }, trx);
+  await trx('routes')
+    .where({ workspace_id: scope.workspaceId, id })
+    .update({
+      name: route.name,
+      waypoints_json: JSON.stringify(route.waypoints),
+      notes: route.notes,
+      updated_at: nowIso(),
+    });
+  await createAuditEntry(
+    {
+      workspaceId: scope.workspaceId,
+      userId: by.userId,
+      actor: by.actor,
+      action: 'route.update',
+      target: `route:${id}`,
+      detail: { name: route.name },
+    },
+    trx,
+  );
   return getRoute(scope, id, trx);
 }
 
@@ -82,6 +139,16 @@ export async function deleteRoute(scope: { workspaceId: number }, id: number, by
   await writeTx(async (trx) => {
     const route = await getRoute(scope, id, trx);
     await trx('routes').where({ workspace_id: scope.workspaceId, id }).delete();
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'route.delete', target: `route:${id}`, detail: { name: route.name } }, trx);
+    await createAuditEntry(
+      {
+        workspaceId: scope.workspaceId,
+        userId: by.userId,
+        actor: by.actor,
+        action: 'route.delete',
+        target: `route:${id}`,
+        detail: { name: route.name },
+      },
+      trx,
+    );
   });
 }

@@ -38,17 +38,21 @@ export interface ScreeningRecord {
 
 /** "EGLL → KSFO", or coordinates for points that are not airports. */
 export function routeLabel(input: ScreeningInput): string {
-  if ('flightPlan' in input.route) return `${input.route.flightPlan.from.toUpperCase()} → ${input.route.flightPlan.to.toUpperCase()} (flight plan)`;
+  if ('flightPlan' in input.route)
+    return `${input.route.flightPlan.from.toUpperCase()} → ${input.route.flightPlan.to.toUpperCase()} (flight plan)`;
   if ('track' in input.route) {
     const pts = input.route.track.points;
     const at = (p: { lat: number; lon: number }) => `${p.lat.toFixed(1)},${p.lon.toFixed(1)}`;
     return `${at(pts[0])} → ${at(pts[pts.length - 1])} (track, ${pts.length} points)`;
   }
   const pts = input.route.waypoints;
-  const label = (w: (typeof pts)[number]) => ('airport' in w ? w.airport.toUpperCase() : `${w.lat.toFixed(1)},${w.lon.toFixed(1)}`);
+  const label = (w: (typeof pts)[number]) =>
+    'airport' in w ? w.airport.toUpperCase() : `${w.lat.toFixed(1)},${w.lon.toFixed(1)}`;
   const first = pts[0];
   const last = pts[pts.length - 1];
-  return pts.length > 2 ? `${label(first)} → ${label(last)} (${pts.length - 2} via)` : `${label(first)} → ${label(last)}`;
+  return pts.length > 2
+    ? `${label(first)} → ${label(last)} (${pts.length - 2} via)`
+    : `${label(first)} → ${label(last)}`;
 }
 
 function firstLevel(input: ScreeningInput): number {
@@ -107,21 +111,31 @@ export async function createScreening(
 ): Promise<{ record: ScreeningRecord; replayed: boolean }> {
   return writeTx(async (trx) => {
     if (input.idempotencyKey) {
-      const prior = await trx('screenings').where({ workspace_id: scope.workspaceId, idempotency_key: input.idempotencyKey }).first();
+      const prior = await trx('screenings')
+        .where({ workspace_id: scope.workspaceId, idempotency_key: input.idempotencyKey })
+        .first();
       if (prior) {
         const fp = prior.idempotency_fingerprint as string | null;
         if (fp && input.idempotencyFingerprint && fp !== input.idempotencyFingerprint) {
-          throw new AppError('conflict', `The Idempotency-Key "${input.idempotencyKey}" was already used with a different request body (screening #${prior.id}). Send the same body to get that screening again, or use a new key for a new screening.`, {
-            fields: [{ path: 'Idempotency-Key', message: `Already used with a different body for screening #${prior.id}.` }],
-            extra: { idempotencyKey: input.idempotencyKey, screeningId: Number(prior.id) },
-          });
+          throw new AppError(
+            'conflict',
+            `The Idempotency-Key "${input.idempotencyKey}" was already used with a different request body (screening #${prior.id}). Send the same body to get that screening again, or use a new key for a new screening.`,
+            {
+              fields: [
+                { path: 'Idempotency-Key', message: `Already used with a different body for screening #${prior.id}.` },
+              ],
+              extra: { idempotencyKey: input.idempotencyKey, screeningId: Number(prior.id) },
+            },
+          );
         }
         return { record: recordOf(prior), replayed: true };
       }
     }
     const rescreenOf = input.rescreenOf ?? null;
     if (rescreenOf !== null) {
-      const prior = await trx('screenings').where({ workspace_id: scope.workspaceId, rescreen_of: rescreenOf, engine_version: input.result.engineVersion }).first();
+      const prior = await trx('screenings')
+        .where({ workspace_id: scope.workspaceId, rescreen_of: rescreenOf, engine_version: input.result.engineVersion })
+        .first();
       if (prior) return { record: recordOf(prior), replayed: true };
     } else {
       await assertBillingAllows(scope, trx);
@@ -161,7 +175,8 @@ export async function createScreening(
     // A re-screen repeats work already billed once (the source screening's unit): it records no unit
     // and passes no billing gate. The ledger's (kind, source_id) key could not catch it, since the
     // re-screen is a new screening id; this branch is what keeps it free.
-    if (rescreenOf === null) await recordUsage(trx, { workspaceId: scope.workspaceId, kind: 'screening', sourceId: id, occurredAt: now });
+    if (rescreenOf === null)
+      await recordUsage(trx, { workspaceId: scope.workspaceId, kind: 'screening', sourceId: id, occurredAt: now });
     const row = await trx('screenings').where({ id }).first();
     return { record: recordOf(row), replayed: false };
   });
@@ -174,14 +189,31 @@ export async function getScreening(scope: { workspaceId: number }, id: number): 
 }
 
 /** Newer screenings made from this one with a later engine, newest first. */
-export async function listRescreensOf(scope: { workspaceId: number }, id: number): Promise<{ id: number; engineVersion: string; createdAt: string }[]> {
-  const rows = (await db()('screenings').where({ workspace_id: scope.workspaceId, rescreen_of: id }).orderBy('id', 'desc').select('id', 'engine_version', 'created_at')) as Row[];
-  return rows.map((r) => ({ id: Number(r.id), engineVersion: String(r.engine_version), createdAt: String(r.created_at) }));
+export async function listRescreensOf(
+  scope: { workspaceId: number },
+  id: number,
+): Promise<{ id: number; engineVersion: string; createdAt: string }[]> {
+  const rows = (await db()('screenings')
+    .where({ workspace_id: scope.workspaceId, rescreen_of: id })
+    .orderBy('id', 'desc')
+    .select('id', 'engine_version', 'created_at')) as Row[];
+  return rows.map((r) => ({
+    id: Number(r.id),
+    engineVersion: String(r.engine_version),
+    createdAt: String(r.created_at),
+  }));
 }
 
 /** How many saved screenings of a workspace were made with each engine version. */
-export async function countScreeningsByEngineVersion(scope: { workspaceId: number }): Promise<{ engineVersion: string; screenings: number }[]> {
-  const rows = (await db()('screenings').where({ workspace_id: scope.workspaceId }).groupBy('engine_version').orderBy('engine_version').select('engine_version').count({ n: '*' })) as Row[];
+export async function countScreeningsByEngineVersion(scope: {
+  workspaceId: number;
+}): Promise<{ engineVersion: string; screenings: number }[]> {
+  const rows = (await db()('screenings')
+    .where({ workspace_id: scope.workspaceId })
+    .groupBy('engine_version')
+    .orderBy('engine_version')
+    .select('engine_version')
+    .count({ n: '*' })) as Row[];
   return rows.map((r) => ({ engineVersion: String(r.engine_version), screenings: Number(r.n) }));
 }
 
@@ -219,7 +251,11 @@ export async function listScreenings(
   opts: { cursor?: number; limit?: number; filters?: ScreeningFilters } = {},
 ): Promise<{ items: ScreeningSummary[]; nextCursor: string | null }> {
   const limit = Math.min(Math.max(opts.limit ?? 50, 1), 200);
-  const q = db()('screenings').where({ workspace_id: scope.workspaceId }).select(SUMMARY_COLUMNS).orderBy('id', 'desc').limit(limit + 1);
+  const q = db()('screenings')
+    .where({ workspace_id: scope.workspaceId })
+    .select(SUMMARY_COLUMNS)
+    .orderBy('id', 'desc')
+    .limit(limit + 1);
   if (opts.cursor) q.andWhere('id', '<', opts.cursor);
   const f = opts.filters ?? {};
   if (f.from) q.andWhere('created_at', '>=', f.from);

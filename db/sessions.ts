@@ -4,7 +4,11 @@ import { db, nowIso } from './client';
 import { randomBytes } from 'node:crypto';
 
 /** Records a new session for the user and returns its id (carried in the session token). */
-export async function createSession(userId: number, lifetimeHours: number, trx: Knex | Knex.Transaction = db()): Promise<string> {
+export async function createSession(
+  userId: number,
+  lifetimeHours: number,
+  trx: Knex | Knex.Transaction = db(),
+): Promise<string> {
   const id = randomBytes(24).toString('base64url');
   await trx('auth_sessions').insert({
     id,

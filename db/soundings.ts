@@ -44,7 +44,10 @@ export const soundingOf = (r: Row): SoundingDto => ({
 
 /** Soundings of a workspace, newest first. */
 export async function listSoundings(scope: { workspaceId: number }, trx: Db = db()): Promise<SoundingDto[]> {
-  const rows = await trx('soundings').where({ workspace_id: scope.workspaceId }).orderBy('created_at', 'desc').orderBy('id', 'desc');
+  const rows = await trx('soundings')
+    .where({ workspace_id: scope.workspaceId })
+    .orderBy('created_at', 'desc')
+    .orderBy('id', 'desc');
   return rows.map(soundingOf);
 }
 
@@ -64,7 +67,12 @@ export interface SoundingRecord {
 }
 
 /** Inserts a sounding inside the caller's write transaction, with its audit entry. */
-export async function insertSounding(trx: Knex.Transaction, scope: { workspaceId: number }, s: SoundingRecord, by: LibraryActor): Promise<SoundingDto> {
+export async function insertSounding(
+  trx: Knex.Transaction,
+  scope: { workspaceId: number },
+  s: SoundingRecord,
+  by: LibraryActor,
+): Promise<SoundingDto> {
   const id = await insertId(
     trx('soundings').insert(
       {
@@ -82,7 +90,17 @@ export async function insertSounding(trx: Knex.Transaction, scope: { workspaceId
       ['id'],
     ),
   );
-  await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'sounding.create', target: `sounding:${id}`, detail: { name: s.name, levels: s.levels.length } }, trx);
+  await createAuditEntry(
+    {
+      workspaceId: scope.workspaceId,
+      userId: by.userId,
+      actor: by.actor,
+      action: 'sounding.create',
+      target: `sounding:${id}`,
+      detail: { name: s.name, levels: s.levels.length },
+    },
+    trx,
+  );
   return getSounding(scope, id, trx);
 }
 
@@ -90,6 +108,16 @@ export async function deleteSounding(scope: { workspaceId: number }, id: number,
   await writeTx(async (trx) => {
     const s = await getSounding(scope, id, trx);
     await trx('soundings').where({ workspace_id: scope.workspaceId, id }).delete();
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, action: 'sounding.delete', target: `sounding:${id}`, detail: { name: s.name } }, trx);
+    await createAuditEntry(
+      {
+        workspaceId: scope.workspaceId,
+        userId: by.userId,
+        actor: by.actor,
+        action: 'sounding.delete',
+        target: `sounding:${id}`,
+        detail: { name: s.name },
+      },
+      trx,
+    );
   });
 }

@@ -60,7 +60,9 @@ export function createSqliteClient(): ClientCtor {
     }
 
     async acquireRawConnection(): Promise<unknown> {
-      const conn = (await (BaseClient.prototype as unknown as { acquireRawConnection(): Promise<unknown> }).acquireRawConnection.call(this)) as PreparingConnection;
+      const conn = (await (
+        BaseClient.prototype as unknown as { acquireRawConnection(): Promise<unknown> }
+      ).acquireRawConnection.call(this)) as PreparingConnection;
       cachePreparedStatements(conn);
       return conn;
     }

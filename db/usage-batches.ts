@@ -63,7 +63,11 @@ export interface FormReport {
  * transaction that only takes rows still without a batch, so two senders racing cannot put a row in
  * two batches, and a crash leaves either the whole batch or none of it.
  */
-export async function formUsageBatches(opts: { maxBatchUnits: number; maxBatches: number; workspaceId?: number }): Promise<FormReport> {
+export async function formUsageBatches(opts: {
+  maxBatchUnits: number;
+  maxBatches: number;
+  workspaceId?: number;
+}): Promise<FormReport> {
   const groupsQuery = unbatched(db()('usage_events as u'))
     .groupBy('u.workspace_id', 'b.customer_id')
     .groupByRaw(`substr(u.occurred_at, 1, ${MINUTE_CHARS})`)
@@ -93,10 +97,18 @@ export async function formUsageBatches(opts: { maxBatchUnits: number; maxBatches
   return report;
 }
 
-async function fillBatch(g: { workspaceId: number; customerId: string; minute: string; maxUnits: number }): Promise<{ rows: number; units: number }> {
+async function fillBatch(g: {
+  workspaceId: number;
+  customerId: string;
+  minute: string;
+  maxUnits: number;
+}): Promise<{ rows: number; units: number }> {
   return writeTx(async (trx) => {
-    const billing = (await trx('workspace_billing').where({ workspace_id: g.workspaceId }).first('customer_id', 'subscription_id', 'metered_since', 'current_period_end')) as Row | undefined;
-    if (!billing || billing.customer_id !== g.customerId || !billing.subscription_id || !billing.metered_since) return { rows: 0, units: 0 };
+    const billing = (await trx('workspace_billing')
+      .where({ workspace_id: g.workspaceId })
+      .first('customer_id', 'subscription_id', 'metered_since', 'current_period_end')) as Row | undefined;
+    if (!billing || billing.customer_id !== g.customerId || !billing.subscription_id || !billing.metered_since)
+      return { rows: 0, units: 0 };
     const minuteRows = () =>
       trx('usage_events')
         .where({ workspace_id: g.workspaceId })
@@ -118,7 +130,10 @@ async function fillBatch(g: { workspaceId: number; customerId: string; minute: s
       if (side === 'after') q.where('occurred_at', '>=', periodEnd as string);
       return q;
     };
-    const cutoff = (await rows().orderBy('id').offset(g.maxUnits - 1).first('id')) as Row | undefined;
+    const cutoff = (await rows()
+      .orderBy('id')
+      .offset(g.maxUnits - 1)
+      .first('id')) as Row | undefined;
     const id = await insertId(
       trx('usage_batches')
         .insert({
@@ -138,15 +153,25 @@ async function fillBatch(g: { workspaceId: number; customerId: string; minute: s
       await trx('usage_batches').where({ id }).delete();
       return { rows: 0, units: 0 };
     }
-    const totals = (await trx('usage_events').where({ batch_id: id }).sum({ q: 'quantity' }).max({ last: 'occurred_at' }).first()) as Row;
+    const totals = (await trx('usage_events')
+      .where({ batch_id: id })
+      .sum({ q: 'quantity' })
+      .max({ last: 'occurred_at' })
+      .first()) as Row;
     const units = Number(totals.q ?? 0);
-    await trx('usage_batches').where({ id }).update({ quantity: units, occurred_at: String(totals.last) });
+    await trx('usage_batches')
+      .where({ id })
+      .update({ quantity: units, occurred_at: String(totals.last) });
     return { rows: n, units };
   });
 }
 
 /** Unsent batches due by `asOf` (never tried, or their retry time has come), oldest first. */
-export async function listDueUsageBatches(input: { asOf: string; limit: number; workspaceId?: number }): Promise<UsageBatchDto[]> {
+export async function listDueUsageBatches(input: {
+  asOf: string;
+  limit: number;
+  workspaceId?: number;
+}): Promise<UsageBatchDto[]> {
   const q = db()('usage_batches')
     .whereNull('sent_at')
     .where((w) => w.whereNull('next_attempt_at').orWhere('next_attempt_at', '<=', input.asOf))
@@ -159,14 +184,24 @@ export async function listDueUsageBatches(input: { asOf: string; limit: number; 
 /** The batch and every row in it are sent, together. */
 export async function markUsageBatchSent(id: number, at: string = nowIso()): Promise<void> {
   await writeTx(async (trx) => {
-    await trx('usage_batches').where({ id }).whereNull('sent_at').update({ sent_at: at, next_attempt_at: null, last_error: null });
+    await trx('usage_batches')
+      .where({ id })
+      .whereNull('sent_at')
+      .update({ sent_at: at, next_attempt_at: null, last_error: null });
     await trx('usage_events').where({ batch_id: id }).whereNull('sent_at').update({ sent_at: at });
   });
 }
 
-export async function markUsageBatchFailed(id: number, input: { attempts: number; nextAttemptAt: string; error: string }): Promise<void> {
+export async function markUsageBatchFailed(
+  id: number,
+  input: { attempts: number; nextAttemptAt: string; error: string },
+): Promise<void> {
   await db()('usage_batches')
     .where({ id })
     .whereNull('sent_at')
-    .update({ send_attempts: input.attempts, next_attempt_at: input.nextAttemptAt, last_error: input.error.slice(0, 500) });
+    .update({
+      send_attempts: input.attempts,
+      next_attempt_at: input.nextAttemptAt,
+      last_error: input.error.slice(0, 500),
+    });
 }

@@ -9,7 +9,10 @@ export type UsageKind = 'screening' | 'imported_flight';
  * unit exists exactly when the work does. The (kind, source) pair is unique: a retry of the same
  * work can never add a second unit.
  */
-export async function recordUsage(trx: Knex.Transaction, input: { workspaceId: number; kind: UsageKind; sourceId: number; occurredAt?: string }): Promise<void> {
+export async function recordUsage(
+  trx: Knex.Transaction,
+  input: { workspaceId: number; kind: UsageKind; sourceId: number; occurredAt?: string },
+): Promise<void> {
   await trx('usage_events')
     .insert({
       workspace_id: input.workspaceId,

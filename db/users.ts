@@ -44,13 +44,20 @@ export async function getUserById(id: number): Promise<UserDto | null> {
 }
 
 export async function getUserByEmail(email: string): Promise<UserDto | null> {
-  const r = await db()('users').select(PUBLIC_COLUMNS).where({ email: normaliseEmail(email) }).first();
+  const r = await db()('users')
+    .select(PUBLIC_COLUMNS)
+    .where({ email: normaliseEmail(email) })
+    .first();
   return r ? toDto(r) : null;
 }
 
 /** The only reader of the password hash, for the credentials check. */
-export async function getCredentialsByEmail(email: string): Promise<{ user: UserDto; passwordHash: string | null } | null> {
-  const r = (await db()('users').where({ email: normaliseEmail(email) }).first()) as UserRow | undefined;
+export async function getCredentialsByEmail(
+  email: string,
+): Promise<{ user: UserDto; passwordHash: string | null } | null> {
+  const r = (await db()('users')
+    .where({ email: normaliseEmail(email) })
+    .first()) as UserRow | undefined;
   return r ? { user: toDto(r), passwordHash: r.password_hash } : null;
 }
 
@@ -77,7 +84,9 @@ export async function createUser(
 
 /** Every reset and sign-in link still outstanding for the address stops working. */
 export async function endOutstandingLinks(email: string, trx: Knex | Knex.Transaction = db()): Promise<void> {
-  await trx('verification_tokens').where({ identifier: normaliseEmail(email) }).delete();
+  await trx('verification_tokens')
+    .where({ identifier: normaliseEmail(email) })
+    .delete();
 }
 
 /**

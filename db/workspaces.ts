@@ -79,7 +79,9 @@ export async function createWorkspace(input: {
     let slug = input.slug ?? slugify(input.name);
     if (input.slug) {
       if (await trx('workspaces').where({ slug }).first()) {
-        throw conflict('That address is taken; choose another.', [{ path: 'slug', message: 'This address is already in use.' }]);
+        throw conflict('That address is taken; choose another.', [
+          { path: 'slug', message: 'This address is already in use.' },
+        ]);
       }
     } else {
       const base = slug;
@@ -87,14 +89,23 @@ export async function createWorkspace(input: {
     }
     const now = nowIso();
     const id = await insertId(
-      trx('workspaces').insert({ slug, name: input.name.trim(), created_by: input.ownerId, created_at: now }).returning('id'),
+      trx('workspaces')
+        .insert({ slug, name: input.name.trim(), created_by: input.ownerId, created_at: now })
+        .returning('id'),
     );
     await trx('memberships').insert({ workspace_id: id, user_id: input.ownerId, role: 'owner', created_at: now });
     const ws: WorkspaceDto = { id, slug, name: input.name.trim(), createdAt: now };
     // Every new workspace starts on a free trial: billing state written in the creating transaction.
     await startTrialBilling(ws, trx);
     await createAuditEntry(
-      { workspaceId: id, userId: input.ownerId, actor: input.actor, action: 'workspace.created', target: slug, ip: input.ip },
+      {
+        workspaceId: id,
+        userId: input.ownerId,
+        actor: input.actor,
+        action: 'workspace.created',
+        target: slug,
+        ip: input.ip,
+      },
       trx,
     );
     return ws;
@@ -115,11 +126,19 @@ export async function listMembers(scope: { workspaceId: number }): Promise<Membe
     .where('m.workspace_id', scope.workspaceId)
     .select('u.id', 'u.email', 'u.name', 'm.role', 'm.created_at')
     .orderBy('u.email');
-  return rows.map((r) => ({ userId: Number(r.id), email: r.email, name: r.name, role: roleOf(r.role), joinedAt: r.created_at }));
+  return rows.map((r) => ({
+    userId: Number(r.id),
+    email: r.email,
+    name: r.name,
+    role: roleOf(r.role),
+    joinedAt: r.created_at,
+  }));
 }
 
 async function ownerCount(trx: Knex.Transaction, workspaceId: number): Promise<number> {
-  const r = await trx('memberships').where({ workspace_id: workspaceId, role: 'owner' }).count<{ n: number }[]>({ n: '*' });
+  const r = await trx('memberships')
+    .where({ workspace_id: workspaceId, role: 'owner' })
+    .count<{ n: number }[]>({ n: '*' });
   return Number(r[0]?.n ?? 0);
 }
 
@@ -137,7 +156,13 @@ export async function changeMemberRole(
     }
     await trx('memberships').where({ id: m.id }).update({ role: input.role });
     if (!can(input.role, 'apikeys:manage')) {
-      await revokeKeysMadeBy(trx, scope.workspaceId, input.userId, `its creator's role changed to ${input.role}`, input);
+      await revokeKeysMadeBy(
+        trx,
+        scope.workspaceId,
+        input.userId,
+        `its creator's role changed to ${input.role}`,
+        input,
+      );
     }
     // Permissions are re-read on every request; the version bump also ends sessions started under the old role.
     await trx('users').where({ id: input.userId }).increment('session_version', 1);
@@ -164,12 +189,28 @@ async function revokeKeysMadeBy(
   reason: string,
   by: { actorId: number; actor: string; ip?: string | null },
 ): Promise<void> {
-  const keys = await trx('api_keys').where({ workspace_id: workspaceId, created_by: userId }).whereNull('revoked_at').select('id', 'name', 'key_prefix');
+  const keys = await trx('api_keys')
+    .where({ workspace_id: workspaceId, created_by: userId })
+    .whereNull('revoked_at')
+    .select('id', 'name', 'key_prefix');
   if (!keys.length) return;
-  await trx('api_keys').whereIn('id', keys.map((k) => k.id)).update({ revoked_at: nowIso() });
+  await trx('api_keys')
+    .whereIn(
+      'id',
+      keys.map((k) => k.id),
+    )
+    .update({ revoked_at: nowIso() });
   for (const k of keys) {
     await createAuditEntry(
-      { workspaceId, userId: by.actorId, actor: by.actor, action: 'apikey.revoked', target: `${k.name} (${k.key_prefix}…)`, detail: { reason }, ip: by.ip },
+      {
+        workspaceId,
+        userId: by.actorId,
+        actor: by.actor,
+        action: 'apikey.revoked',
+        target: `${k.name} (${k.key_prefix}…)`,
+        detail: { reason },
+        ip: by.ip,
+      },
       trx,
     );
   }
@@ -274,7 +315,13 @@ export async function listOpenInvitations(scope: { workspaceId: number }): Promi
     .whereNull('revoked_at')
     .where('expires_at', '>', nowIso())
     .orderBy('created_at', 'desc');
-  return rows.map((r) => ({ id: Number(r.id), email: r.email, role: roleOf(r.role), expiresAt: r.expires_at, createdAt: r.created_at }));
+  return rows.map((r) => ({
+    id: Number(r.id),
+    email: r.email,
+    role: roleOf(r.role),
+    expiresAt: r.expires_at,
+    createdAt: r.created_at,
+  }));
 }
 
 export async function revokeInvitation(scope: { workspaceId: number }, id: number): Promise<void> {
@@ -308,9 +355,16 @@ export async function getInvitationByToken(token: string): Promise<InvitationLoo
 }
 
 /** Accepts an open invitation for the signed-in user; the invitation's address must be theirs. */
-export async function acceptInvitation(input: { token: string; userId: number; email: string; ip?: string | null }): Promise<WorkspaceDto> {
+export async function acceptInvitation(input: {
+  token: string;
+  userId: number;
+  email: string;
+  ip?: string | null;
+}): Promise<WorkspaceDto> {
   return writeTx(async (trx) => {
-    const r = await trx('invitations').where({ token_hash: sha256Hex(input.token) }).first();
+    const r = await trx('invitations')
+      .where({ token_hash: sha256Hex(input.token) })
+      .first();
     if (!r || r.revoked_at) throw notFound('This invitation does not exist or was withdrawn.');
     if (r.accepted_at) throw conflict('This invitation has already been used.');
     if (r.expires_at <= nowIso()) throw conflict('This invitation has expired; ask for a new one.');
@@ -320,11 +374,24 @@ export async function acceptInvitation(input: { token: string; userId: number; e
     const now = nowIso();
     const already = await trx('memberships').where({ workspace_id: r.workspace_id, user_id: input.userId }).first();
     if (!already) {
-      await trx('memberships').insert({ workspace_id: r.workspace_id, user_id: input.userId, role: r.role, created_at: now });
+      await trx('memberships').insert({
+        workspace_id: r.workspace_id,
+        user_id: input.userId,
+        role: r.role,
+        created_at: now,
+      });
     }
     await trx('invitations').where({ id: r.id }).update({ accepted_at: now });
     await createAuditEntry(
-      { workspaceId: r.workspace_id, userId: input.userId, actor: r.email, action: 'member.joined', target: r.email, detail: { role: r.role }, ip: input.ip },
+      {
+        workspaceId: r.workspace_id,
+        userId: input.userId,
+        actor: r.email,
+        action: 'member.joined',
+        target: r.email,
+        detail: { role: r.role },
+        ip: input.ip,
+      },
       trx,
     );
     const w = await trx('workspaces').where({ id: r.workspace_id }).first();

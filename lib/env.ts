@@ -43,9 +43,15 @@ const envSchema = z.object({
     .string()
     .regex(/^\d{4}-\d{2}-\d{2}$/, 'DEMO_TODAY must be YYYY-MM-DD')
     .optional(),
-  BILLING_SENDER: z.enum(['0', '1', 'true', 'false', '']).optional().transform((v) => v !== '0' && v !== 'false'),
+  BILLING_SENDER: z
+    .enum(['0', '1', 'true', 'false', ''])
+    .optional()
+    .transform((v) => v !== '0' && v !== 'false'),
   BILLING_SENDER_INTERVAL_MS: int(2_000),
-  IMPORT_WORKER: z.enum(['0', '1', 'true', 'false', '']).optional().transform((v) => v !== '0' && v !== 'false'),
+  IMPORT_WORKER: z
+    .enum(['0', '1', 'true', 'false', ''])
+    .optional()
+    .transform((v) => v !== '0' && v !== 'false'),
   /** Worker threads screening imported flights; unset: one core short of the machine (see lib/imports/screening-pool.ts). */
   SCREENING_THREADS: z.preprocess((v) => (v === '' ? undefined : v), z.coerce.number().int().min(0).max(64).optional()),
   /** Set by Next while it builds; background work does not start then. */
@@ -82,10 +88,19 @@ const guardedSchema = envSchema.superRefine((e, ctx) => {
   }
   if (!isLoopbackHost(e.STRIPE_API_HOST)) {
     if (e.STRIPE_SECRET_KEY === DEFAULT_STRIPE_SECRET_KEY) {
-      ctx.addIssue({ code: 'custom', path: ['STRIPE_SECRET_KEY'], message: 'the built-in key is public and works only with the local payment fake; set the real key for STRIPE_API_HOST' });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['STRIPE_SECRET_KEY'],
+        message:
+          'the built-in key is public and works only with the local payment fake; set the real key for STRIPE_API_HOST',
+      });
     }
     if (e.STRIPE_WEBHOOK_SECRET === DEFAULT_STRIPE_WEBHOOK_SECRET) {
-      ctx.addIssue({ code: 'custom', path: ['STRIPE_WEBHOOK_SECRET'], message: 'the built-in webhook secret is public; set the endpoint secret of your payment account' });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['STRIPE_WEBHOOK_SECRET'],
+        message: 'the built-in webhook secret is public; set the endpoint secret of your payment account',
+      });
     }
   }
 });

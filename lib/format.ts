@@ -8,7 +8,8 @@ export const KM_PER_NM = 1.852;
 export const M_PER_FT = 0.3048;
 export const KG_PER_LB = 0.45359237;
 
-const nf = (digits: number) => new Intl.NumberFormat('en-GB', { maximumFractionDigits: digits, minimumFractionDigits: digits });
+const nf = (digits: number) =>
+  new Intl.NumberFormat('en-GB', { maximumFractionDigits: digits, minimumFractionDigits: digits });
 
 export function formatNumber(v: number, digits = 0): string {
   return Number.isFinite(v) ? nf(digits).format(v) : '–';

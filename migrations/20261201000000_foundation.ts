@@ -80,7 +80,6 @@ export async function up(knex: Knex): Promise<void> {
     t.string('created_at', 32).notNullable();
     t.index(['workspace_id', 'created_at']);
   });
-
 }
 
 export async function down(knex: Knex): Promise<void> {

@@ -33,7 +33,18 @@ export async function down(knex: Knex): Promise<void> {
     t.dropIndex(['import_id', 'engine_version']);
   });
   await knex.schema.alterTable('imports', (t) => {
-    for (const c of ['rescreen_status', 'rescreen_engine_version', 'rescreen_rows', 'rescreen_rows_done', 'rescreen_rows_failed', 'rescreen_last_flight_id', 'rescreen_requested_by', 'rescreen_requested_at', 'rescreen_finished_at']) t.dropColumn(c);
+    for (const c of [
+      'rescreen_status',
+      'rescreen_engine_version',
+      'rescreen_rows',
+      'rescreen_rows_done',
+      'rescreen_rows_failed',
+      'rescreen_last_flight_id',
+      'rescreen_requested_by',
+      'rescreen_requested_at',
+      'rescreen_finished_at',
+    ])
+      t.dropColumn(c);
   });
   await knex.schema.alterTable('screenings', (t) => {
     t.dropUnique(['rescreen_of', 'engine_version']);

@@ -41,7 +41,13 @@ export async function seed(knex: Knex): Promise<void> {
       if (existing) {
         await trx('users').where({ id: existing.id }).update({ name: u.name, password_hash: passwordHash });
       } else {
-        await trx('users').insert({ ...u, password_hash: passwordHash, email_verified_at: STAMP, created_at: STAMP, updated_at: STAMP });
+        await trx('users').insert({
+          ...u,
+          password_hash: passwordHash,
+          email_verified_at: STAMP,
+          created_at: STAMP,
+          updated_at: STAMP,
+        });
       }
     }
     const owner = await trx('users').where({ email: 'consultant@tropopass.test' }).first();

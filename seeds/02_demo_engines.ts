@@ -17,7 +17,12 @@ interface EngineSeed {
 const ENGINES: EngineSeed[] = [
   { slug: 'skarn-polar', name: 'TPX-71 demo turbofan', ff: [0.29, 0.93, 2.78, 3.42], ei: [5.2, 12.1, 29.6, 43.8] },
   { slug: 'skarn-polar', name: 'TPX-84 demo turbofan', ff: [0.26, 0.83, 2.46, 3.02], ei: [4.9, 11.4, 27.3, 38.9] },
-  { slug: 'velloway-jets', name: 'TBJ-19 demo business-jet turbofan', ff: [0.062, 0.185, 0.55, 0.68], ei: [3.9, 8.4, 16.8, 21.7] },
+  {
+    slug: 'velloway-jets',
+    name: 'TBJ-19 demo business-jet turbofan',
+    ff: [0.062, 0.185, 0.55, 0.68],
+    ei: [3.9, 8.4, 16.8, 21.7],
+  },
 ];
 
 const FLEETS: { slug: string; name: string; description: string }[] = [
@@ -28,10 +33,50 @@ const FLEETS: { slug: string; name: string; description: string }[] = [
 ];
 
 const TYPES = [
-  { slug: 'skarn-polar', code: 'SK-LR1', name: 'Skarn long-range twin (demo)', engine: 'TPX-71 demo turbofan', count: 2, mach: 0.85, fl: 370, fleet: 'Polar long-haul A', ei: null },
-  { slug: 'skarn-polar', code: 'SK-LR2', name: 'Skarn long-range twin, stretched (demo)', engine: 'TPX-84 demo turbofan', count: 2, mach: 0.84, fl: 390, fleet: 'Polar long-haul B', ei: null },
-  { slug: 'velloway-jets', code: 'VJ-50', name: 'Velloway large-cabin business jet (demo)', engine: 'TBJ-19 demo business-jet turbofan', count: 2, mach: 0.85, fl: 470, fleet: 'Business jets', ei: null },
-  { slug: 'kestrel-mach', code: 'KM-SST', name: 'Kestrel supersonic concept (demo)', engine: null, count: 4, mach: 1.7, fl: 580, fleet: 'Supersonic study', ei: 11.5 },
+  {
+    slug: 'skarn-polar',
+    code: 'SK-LR1',
+    name: 'Skarn long-range twin (demo)',
+    engine: 'TPX-71 demo turbofan',
+    count: 2,
+    mach: 0.85,
+    fl: 370,
+    fleet: 'Polar long-haul A',
+    ei: null,
+  },
+  {
+    slug: 'skarn-polar',
+    code: 'SK-LR2',
+    name: 'Skarn long-range twin, stretched (demo)',
+    engine: 'TPX-84 demo turbofan',
+    count: 2,
+    mach: 0.84,
+    fl: 390,
+    fleet: 'Polar long-haul B',
+    ei: null,
+  },
+  {
+    slug: 'velloway-jets',
+    code: 'VJ-50',
+    name: 'Velloway large-cabin business jet (demo)',
+    engine: 'TBJ-19 demo business-jet turbofan',
+    count: 2,
+    mach: 0.85,
+    fl: 470,
+    fleet: 'Business jets',
+    ei: null,
+  },
+  {
+    slug: 'kestrel-mach',
+    code: 'KM-SST',
+    name: 'Kestrel supersonic concept (demo)',
+    engine: null,
+    count: 4,
+    mach: 1.7,
+    fl: 580,
+    fleet: 'Supersonic study',
+    ei: 11.5,
+  },
 ];
 
 export async function seed(knex: Knex): Promise<void> {

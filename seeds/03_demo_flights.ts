@@ -29,30 +29,210 @@ interface RouteSeed {
 
 const SCHEDULES: Record<string, RouteSeed[]> = {
   'skarn-polar': [
-    { flight: 'SKP101', origin: 'EFHK', destination: 'RJAA', aircraft: 'SK-LR1', every: 3, offset: 0, levels: [350, 370, 390], fuelKgPerKm: 6.3 },
-    { flight: 'SKP102', origin: 'RJAA', destination: 'EFHK', aircraft: 'SK-LR1', every: 3, offset: 1, levels: [340, 360, 380], fuelKgPerKm: 6.4 },
-    { flight: 'SKP211', origin: 'EGLL', destination: 'KSEA', aircraft: 'SK-LR2', every: 4, offset: 0, levels: [350, 370, 390, 410], fuelKgPerKm: 7.0 },
-    { flight: 'SKP212', origin: 'KSEA', destination: 'EGLL', aircraft: 'SK-LR2', every: 4, offset: 2, levels: [360, 380, 400], fuelKgPerKm: 7.0 },
-    { flight: 'SKP305', origin: 'ENGM', destination: 'CYVR', aircraft: 'SK-LR1', every: 5, offset: 1, levels: [330, 350, 370], fuelKgPerKm: 6.2 },
-    { flight: 'SKP306', origin: 'CYVR', destination: 'ENGM', aircraft: 'SK-LR1', every: 5, offset: 3, levels: [340, 360, 380], fuelKgPerKm: 6.2 },
-    { flight: 'SKP417', origin: 'BIKF', destination: 'PANC', aircraft: 'SK-LR2', every: 6, offset: 2, levels: [370, 390], fuelKgPerKm: 7.2 },
-    { flight: 'SKP418', origin: 'PANC', destination: 'BIKF', aircraft: 'SK-LR2', every: 6, offset: 5, levels: [380, 400], fuelKgPerKm: 7.2 },
-    { flight: 'SKP521', origin: 'ESSA', destination: 'RJTT', aircraft: 'SK-LR2', every: 7, offset: 4, levels: [350, 370, 390, 410], fuelKgPerKm: 7.1 },
+    {
+      flight: 'SKP101',
+      origin: 'EFHK',
+      destination: 'RJAA',
+      aircraft: 'SK-LR1',
+      every: 3,
+      offset: 0,
+      levels: [350, 370, 390],
+      fuelKgPerKm: 6.3,
+    },
+    {
+      flight: 'SKP102',
+      origin: 'RJAA',
+      destination: 'EFHK',
+      aircraft: 'SK-LR1',
+      every: 3,
+      offset: 1,
+      levels: [340, 360, 380],
+      fuelKgPerKm: 6.4,
+    },
+    {
+      flight: 'SKP211',
+      origin: 'EGLL',
+      destination: 'KSEA',
+      aircraft: 'SK-LR2',
+      every: 4,
+      offset: 0,
+      levels: [350, 370, 390, 410],
+      fuelKgPerKm: 7.0,
+    },
+    {
+      flight: 'SKP212',
+      origin: 'KSEA',
+      destination: 'EGLL',
+      aircraft: 'SK-LR2',
+      every: 4,
+      offset: 2,
+      levels: [360, 380, 400],
+      fuelKgPerKm: 7.0,
+    },
+    {
+      flight: 'SKP305',
+      origin: 'ENGM',
+      destination: 'CYVR',
+      aircraft: 'SK-LR1',
+      every: 5,
+      offset: 1,
+      levels: [330, 350, 370],
+      fuelKgPerKm: 6.2,
+    },
+    {
+      flight: 'SKP306',
+      origin: 'CYVR',
+      destination: 'ENGM',
+      aircraft: 'SK-LR1',
+      every: 5,
+      offset: 3,
+      levels: [340, 360, 380],
+      fuelKgPerKm: 6.2,
+    },
+    {
+      flight: 'SKP417',
+      origin: 'BIKF',
+      destination: 'PANC',
+      aircraft: 'SK-LR2',
+      every: 6,
+      offset: 2,
+      levels: [370, 390],
+      fuelKgPerKm: 7.2,
+    },
+    {
+      flight: 'SKP418',
+      origin: 'PANC',
+      destination: 'BIKF',
+      aircraft: 'SK-LR2',
+      every: 6,
+      offset: 5,
+      levels: [380, 400],
+      fuelKgPerKm: 7.2,
+    },
+    {
+      flight: 'SKP521',
+      origin: 'ESSA',
+      destination: 'RJTT',
+      aircraft: 'SK-LR2',
+      every: 7,
+      offset: 4,
+      levels: [350, 370, 390, 410],
+      fuelKgPerKm: 7.1,
+    },
   ],
   'velloway-jets': [
-    { flight: 'VWJ10', origin: 'KTEB', destination: 'EGGW', aircraft: 'VJ-50', every: 6, offset: 0, levels: [430, 470, 490], fuelKgPerKm: 1.85 },
-    { flight: 'VWJ11', origin: 'EGGW', destination: 'KTEB', aircraft: 'VJ-50', every: 6, offset: 3, levels: [430, 450, 470], fuelKgPerKm: 1.9 },
-    { flight: 'VWJ22', origin: 'LFPB', destination: 'KVNY', aircraft: 'VJ-50', every: 9, offset: 2, levels: [450, 490, 510], fuelKgPerKm: 1.8 },
-    { flight: 'VWJ23', origin: 'KVNY', destination: 'LFPB', aircraft: 'VJ-50', every: 9, offset: 6, levels: [450, 470, 490], fuelKgPerKm: 1.8 },
-    { flight: 'VWJ31', origin: 'KPBI', destination: 'KTEB', aircraft: 'VJ-50', every: 5, offset: 1, levels: [450], fuelKgPerKm: 2.1 },
-    { flight: 'VWJ40', origin: 'LSGG', destination: 'OMDB', aircraft: 'VJ-50', every: 8, offset: 4, levels: [430, 470], fuelKgPerKm: 1.95 },
-    { flight: 'VWJ41', origin: 'OMDB', destination: 'LSGG', aircraft: 'VJ-50', every: 8, offset: 7, levels: [450, 490], fuelKgPerKm: 1.95 },
+    {
+      flight: 'VWJ10',
+      origin: 'KTEB',
+      destination: 'EGGW',
+      aircraft: 'VJ-50',
+      every: 6,
+      offset: 0,
+      levels: [430, 470, 490],
+      fuelKgPerKm: 1.85,
+    },
+    {
+      flight: 'VWJ11',
+      origin: 'EGGW',
+      destination: 'KTEB',
+      aircraft: 'VJ-50',
+      every: 6,
+      offset: 3,
+      levels: [430, 450, 470],
+      fuelKgPerKm: 1.9,
+    },
+    {
+      flight: 'VWJ22',
+      origin: 'LFPB',
+      destination: 'KVNY',
+      aircraft: 'VJ-50',
+      every: 9,
+      offset: 2,
+      levels: [450, 490, 510],
+      fuelKgPerKm: 1.8,
+    },
+    {
+      flight: 'VWJ23',
+      origin: 'KVNY',
+      destination: 'LFPB',
+      aircraft: 'VJ-50',
+      every: 9,
+      offset: 6,
+      levels: [450, 470, 490],
+      fuelKgPerKm: 1.8,
+    },
+    {
+      flight: 'VWJ31',
+      origin: 'KPBI',
+      destination: 'KTEB',
+      aircraft: 'VJ-50',
+      every: 5,
+      offset: 1,
+      levels: [450],
+      fuelKgPerKm: 2.1,
+    },
+    {
+      flight: 'VWJ40',
+      origin: 'LSGG',
+      destination: 'OMDB',
+      aircraft: 'VJ-50',
+      every: 8,
+      offset: 4,
+      levels: [430, 470],
+      fuelKgPerKm: 1.95,
+    },
+    {
+      flight: 'VWJ41',
+      origin: 'OMDB',
+      destination: 'LSGG',
+      aircraft: 'VJ-50',
+      every: 8,
+      offset: 7,
+      levels: [450, 490],
+      fuelKgPerKm: 1.95,
+    },
   ],
   'kestrel-mach': [
-    { flight: 'KMS1', origin: 'EGLL', destination: 'KJFK', aircraft: 'KM-SST', every: 7, offset: 0, levels: [550, 580, 600], fuelKgPerKm: 9.2 },
-    { flight: 'KMS2', origin: 'KJFK', destination: 'EGLL', aircraft: 'KM-SST', every: 7, offset: 2, levels: [550, 570, 590], fuelKgPerKm: 9.2 },
-    { flight: 'KMS5', origin: 'KSFO', destination: 'PHNL', aircraft: 'KM-SST', every: 10, offset: 3, levels: [560, 600], fuelKgPerKm: 9.0 },
-    { flight: 'KMS6', origin: 'PHNL', destination: 'KSFO', aircraft: 'KM-SST', every: 10, offset: 6, levels: [560, 590], fuelKgPerKm: 9.0 },
+    {
+      flight: 'KMS1',
+      origin: 'EGLL',
+      destination: 'KJFK',
+      aircraft: 'KM-SST',
+      every: 7,
+      offset: 0,
+      levels: [550, 580, 600],
+      fuelKgPerKm: 9.2,
+    },
+    {
+      flight: 'KMS2',
+      origin: 'KJFK',
+      destination: 'EGLL',
+      aircraft: 'KM-SST',
+      every: 7,
+      offset: 2,
+      levels: [550, 570, 590],
+      fuelKgPerKm: 9.2,
+    },
+    {
+      flight: 'KMS5',
+      origin: 'KSFO',
+      destination: 'PHNL',
+      aircraft: 'KM-SST',
+      every: 10,
+      offset: 3,
+      levels: [560, 600],
+      fuelKgPerKm: 9.0,
+    },
+    {
+      flight: 'KMS6',
+      origin: 'PHNL',
+      destination: 'KSFO',
+      aircraft: 'KM-SST',
+      every: 10,
+      offset: 6,
+      levels: [560, 590],
+      fuelKgPerKm: 9.0,
+    },
   ],
 };
 
@@ -65,11 +245,14 @@ function random(key: string): () => number {
 
 function greatCircleKm(a: { lat: number; lon: number }, b: { lat: number; lon: number }): number {
   const r = Math.PI / 180;
-  const s = Math.sin(((b.lat - a.lat) * r) / 2) ** 2 + Math.cos(a.lat * r) * Math.cos(b.lat * r) * Math.sin(((b.lon - a.lon) * r) / 2) ** 2;
+  const s =
+    Math.sin(((b.lat - a.lat) * r) / 2) ** 2 +
+    Math.cos(a.lat * r) * Math.cos(b.lat * r) * Math.sin(((b.lon - a.lon) * r) / 2) ** 2;
   return 2 * 6371.0088 * Math.asin(Math.sqrt(s));
 }
 
-const addDays = (day: string, n: number): string => new Date(Date.parse(`${day}T00:00:00Z`) + n * 86_400_000).toISOString().slice(0, 10);
+const addDays = (day: string, n: number): string =>
+  new Date(Date.parse(`${day}T00:00:00Z`) + n * 86_400_000).toISOString().slice(0, 10);
 
 /** The first day of the month two months before `today`, so the period covers three calendar months. */
 function periodStart(today: string): string {
@@ -92,15 +275,37 @@ async function aircraftTypes(trx: Knex.Transaction, workspaceId: number): Promis
     .leftJoin('engines as e', 'e.id', 'a.engine_id')
     .leftJoin('fleets as f', 'f.id', 'a.default_fleet_id')
     .where('a.workspace_id', workspaceId)
-    .select('a.*', 'f.name as fleet_name', 'e.id as eid', 'e.ff_idle_kg_s', 'e.ff_approach_kg_s', 'e.ff_climb_out_kg_s', 'e.ff_take_off_kg_s', 'e.ei_idle_g_kg', 'e.ei_approach_g_kg', 'e.ei_climb_out_g_kg', 'e.ei_take_off_g_kg');
+    .select(
+      'a.*',
+      'f.name as fleet_name',
+      'e.id as eid',
+      'e.ff_idle_kg_s',
+      'e.ff_approach_kg_s',
+      'e.ff_climb_out_kg_s',
+      'e.ff_take_off_kg_s',
+      'e.ei_idle_g_kg',
+      'e.ei_approach_g_kg',
+      'e.ei_climb_out_g_kg',
+      'e.ei_take_off_g_kg',
+    );
   const out = new Map<string, TypeRow>();
   for (const r of rows) {
     let emission: TypeRow['emission'] = null;
     if (r.eid) {
       emission = {
         engine: {
-          fuelFlowKgS: [Number(r.ff_idle_kg_s), Number(r.ff_approach_kg_s), Number(r.ff_climb_out_kg_s), Number(r.ff_take_off_kg_s)],
-          eiNoxGPerKg: [Number(r.ei_idle_g_kg), Number(r.ei_approach_g_kg), Number(r.ei_climb_out_g_kg), Number(r.ei_take_off_g_kg)],
+          fuelFlowKgS: [
+            Number(r.ff_idle_kg_s),
+            Number(r.ff_approach_kg_s),
+            Number(r.ff_climb_out_kg_s),
+            Number(r.ff_take_off_kg_s),
+          ],
+          eiNoxGPerKg: [
+            Number(r.ei_idle_g_kg),
+            Number(r.ei_approach_g_kg),
+            Number(r.ei_climb_out_g_kg),
+            Number(r.ei_take_off_g_kg),
+          ],
         },
         engineCount: Number(r.engine_count),
         mach: Number(r.typical_mach),
@@ -149,7 +354,10 @@ function buildFlights(slug: string, types: Map<string, TypeRow>, from: string, t
       // On some days the flight is cleared straight to its second level.
       const skip = rnd() < 0.2 ? 1 : 0;
       const levels = r.levels.slice(skip === 1 && r.levels.length > 2 ? 1 : 0);
-      const steps = levels.map((fl, i) => ({ fromKm: i === 0 ? 0 : Math.round((km * (i / levels.length) * (0.85 + 0.3 * rnd())) / 10) * 10, flightLevel: fl }));
+      const steps = levels.map((fl, i) => ({
+        fromKm: i === 0 ? 0 : Math.round((km * (i / levels.length) * (0.85 + 0.3 * rnd())) / 10) * 10,
+        flightLevel: fl,
+      }));
       const fuelKg = Math.round((km * r.fuelKgPerKm * (0.95 + 0.1 * rnd())) / 10) * 10;
       const raw = {
         route: { waypoints: [{ airport: r.origin }, { airport: r.destination }] },
@@ -178,7 +386,19 @@ function buildFlights(slug: string, types: Map<string, TypeRow>, from: string, t
 
 function csvOf(flights: DemoFlight[]): string {
   const lines = flights.map((f) =>
-    [f.date, f.flight, f.origin, f.destination, f.type.code, String(f.cruiseFl), String(f.fuelKg), f.steps.length > 1 ? f.steps.map((s) => `${s.flightLevel}@${s.fromKm}`).join(' ') : '', '', '', ''].join(','),
+    [
+      f.date,
+      f.flight,
+      f.origin,
+      f.destination,
+      f.type.code,
+      String(f.cruiseFl),
+      String(f.fuelKg),
+      f.steps.length > 1 ? f.steps.map((s) => `${s.flightLevel}@${s.fromKm}`).join(' ') : '',
+      '',
+      '',
+      '',
+    ].join(','),
   );
   return [CSV_HEADER, ...lines].join('\r\n') + '\r\n';
 }
@@ -250,7 +470,9 @@ export async function seed(knex: Knex): Promise<void> {
             .onConflict(['workspace_id', 'date', 'flight', 'origin', 'destination'])
             .ignore();
         }
-        const pending = await trx('flights').where({ import_id: importId, status: 'pending' }).select('id', 'date', 'input_json');
+        const pending = await trx('flights')
+          .where({ import_id: importId, status: 'pending' })
+          .select('id', 'date', 'input_json');
         for (const p of pending) {
           const r = screenValidated(JSON.parse(p.input_json) as ScreeningInput);
           const screenedAt = `${p.date}T12:00:00.000Z`;
@@ -269,11 +491,20 @@ export async function seed(knex: Knex): Promise<void> {
           });
           // The same ledger row db/usage.ts recordUsage writes (seeds cannot import server-only modules).
           await trx('usage_events')
-            .insert({ workspace_id: workspaceId, kind: 'imported_flight', source_id: p.id, idempotency_key: `tp-imported_flight-${p.id}`, quantity: 1, occurred_at: screenedAt })
+            .insert({
+              workspace_id: workspaceId,
+              kind: 'imported_flight',
+              source_id: p.id,
+              idempotency_key: `tp-imported_flight-${p.id}`,
+              quantity: 1,
+              occurred_at: screenedAt,
+            })
             .onConflict(['kind', 'source_id'])
             .ignore();
         }
-        const done = Number(((await trx('flights').where({ import_id: importId }).count({ n: '*' }).first()) as { n: number }).n);
+        const done = Number(
+          ((await trx('flights').where({ import_id: importId }).count({ n: '*' }).first()) as { n: number }).n,
+        );
         await trx('imports').where({ id: importId }).update({
           status: 'complete',
           rows: done,

@@ -79,7 +79,12 @@ function assertPasswordAllowed(password: string, ctx: { email: string; name?: st
  * check the mail, which holds either a link to confirm and sign in, or a note to the existing owner.
  */
 export async function signUpAction(_prev: AuthFormState, form: FormData | unknown): Promise<AuthFormState> {
-  const raw = { name: text(form, 'name') ?? '', email: text(form, 'email') ?? '', password: text(form, 'password') ?? '', workspaceName: text(form, 'workspaceName') ?? '' };
+  const raw = {
+    name: text(form, 'name') ?? '',
+    email: text(form, 'email') ?? '',
+    password: text(form, 'password') ?? '',
+    workspaceName: text(form, 'workspaceName') ?? '',
+  };
   const invitationToken = text(form, 'invitationToken') || undefined;
   const values = { name: raw.name, email: raw.email, workspaceName: raw.workspaceName };
   let next = '/start';
@@ -96,7 +101,9 @@ export async function signUpAction(_prev: AuthFormState, form: FormData | unknow
       if (inv.state !== 'open') throw badRequest('This invitation can no longer be used; ask for a new one.');
       invitedEmail = inv.email;
       if (invitedEmail !== email) {
-        throw conflict(`This invitation was sent to ${invitedEmail}.`, [{ path: 'email', message: `Use the invited address, ${invitedEmail}.` }]);
+        throw conflict(`This invitation was sent to ${invitedEmail}.`, [
+          { path: 'email', message: `Use the invited address, ${invitedEmail}.` },
+        ]);
       }
     }
     if (!invitedEmail && (await getUserByEmail(email))) {
@@ -119,7 +126,9 @@ export async function signUpAction(_prev: AuthFormState, form: FormData | unknow
       return u;
     }).catch((err: unknown) => {
       if (err instanceof Error && /UNIQUE|unique/.test(err.message)) {
-        throw conflict('An account with this e-mail already exists.', [{ path: 'email', message: 'An account with this e-mail already exists.' }]);
+        throw conflict('An account with this e-mail already exists.', [
+          { path: 'email', message: 'An account with this e-mail already exists.' },
+        ]);
       }
       throw err;
     });
@@ -155,11 +164,16 @@ async function mailExistingOwner(email: string): Promise<void> {
   } catch {
     return;
   }
-  await sendMail(signUpExistingMail(email, new URL('/signin', appUrl()).toString(), new URL('/reset', appUrl()).toString()));
+  await sendMail(
+    signUpExistingMail(email, new URL('/signin', appUrl()).toString(), new URL('/reset', appUrl()).toString()),
+  );
 }
 
 /** Always answers the same way, whether or not the address has an account. */
-export async function requestPasswordResetAction(_prev: AuthFormState, form: FormData | unknown): Promise<AuthFormState> {
+export async function requestPasswordResetAction(
+  _prev: AuthFormState,
+  form: FormData | unknown,
+): Promise<AuthFormState> {
   const email = text(form, 'email') ?? '';
   try {
     await assertSameOrigin();
@@ -173,7 +187,10 @@ export async function requestPasswordResetAction(_prev: AuthFormState, form: For
       await sendMail(passwordResetMail(address, new URL(`/reset/${token}`, appUrl()).toString()));
       log.info({ event: 'password.reset_requested', userId: user.id }, 'reset link sent');
     }
-    return { ok: true, message: 'If that address has an account, a reset link is on its way. It works once, within 30 minutes.' };
+    return {
+      ok: true,
+      message: 'If that address has an account, a reset link is on its way. It works once, within 30 minutes.',
+    };
   } catch (err) {
     return failed(err, { email });
   }
@@ -182,7 +199,11 @@ export async function requestPasswordResetAction(_prev: AuthFormState, form: For
 export async function resetPasswordAction(_prev: AuthFormState, form: FormData | unknown): Promise<AuthFormState> {
   try {
     await assertSameOrigin();
-    const parsed = resetPasswordSchema.safeParse({ token: text(form, 'token') ?? '', password: text(form, 'password') ?? '', confirm: text(form, 'confirm') ?? '' });
+    const parsed = resetPasswordSchema.safeParse({
+      token: text(form, 'token') ?? '',
+      password: text(form, 'password') ?? '',
+      confirm: text(form, 'confirm') ?? '',
+    });
     if (!parsed.success) throw fromZod(parsed.error);
     const email = await resetTokenEmail(parsed.data.token);
     if (email) {

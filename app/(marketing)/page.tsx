@@ -6,8 +6,8 @@ export default function HomePage() {
       <p className="text-sm font-semibold uppercase tracking-widest text-strato">Tropopass</p>
       <h1 className="mt-3 text-4xl font-semibold tracking-tight">How much of your NOx lands above the tropopause?</h1>
       <p className="mt-4 text-lg text-ink-soft">
-        Screen routes and cruise levels for the nitrogen oxides they inject into the lower stratosphere, where they stay for months and
-        can run the catalytic ozone cycle. Compare levels, import schedules, report fleets.
+        Screen routes and cruise levels for the nitrogen oxides they inject into the lower stratosphere, where they stay
+        for months and can run the catalytic ozone cycle. Compare levels, import schedules, report fleets.
       </p>
       <div className="mt-8 flex gap-3">
         <ButtonLink href="/signin">Sign in</ButtonLink>
@@ -16,7 +16,8 @@ export default function HomePage() {
         </ButtonLink>
       </div>
       <p className="mt-10 text-xs text-ink-faint">
-        Screening estimates for planning and reporting support; not a certified emissions inventory or a regulatory method.
+        Screening estimates for planning and reporting support; not a certified emissions inventory or a regulatory
+        method.
       </p>
     </main>
   );

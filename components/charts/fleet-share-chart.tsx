@@ -1,6 +1,17 @@
 'use client';
 
-import { CategoryScale, Chart as ChartJS, Legend, LinearScale, LineController, LineElement, PointElement, Tooltip, type ChartData, type ChartOptions } from 'chart.js';
+import {
+  CategoryScale,
+  Chart as ChartJS,
+  Legend,
+  LinearScale,
+  LineController,
+  LineElement,
+  PointElement,
+  Tooltip,
+  type ChartData,
+  type ChartOptions,
+} from 'chart.js';
 import { Line } from 'react-chartjs-2';
 import { formatNumber } from '@/lib/format';
 import { FLEET_COLOURS, monthLabel } from '@/lib/fleets/units';
@@ -40,13 +51,28 @@ export function FleetShareChart({ months, series, height = 240 }: Props) {
     },
     scales: {
       x: { grid: { display: false } },
-      y: { beginAtZero: true, suggestedMax: 10, grid: { color: GRID }, title: { display: true, text: '% of NOx above' } },
+      y: {
+        beginAtZero: true,
+        suggestedMax: 10,
+        grid: { color: GRID },
+        title: { display: true, text: '% of NOx above' },
+      },
     },
   };
-  const summary = series.map((s) => `${s.fleetName}: ${s.shareAbove.map((v, i) => `${monthLabel(months[i])} ${v === null ? 'no flights' : `${formatNumber(v * 100, 1)} %`}`).join(', ')}`).join('; ');
+  const summary = series
+    .map(
+      (s) =>
+        `${s.fleetName}: ${s.shareAbove.map((v, i) => `${monthLabel(months[i])} ${v === null ? 'no flights' : `${formatNumber(v * 100, 1)} %`}`).join(', ')}`,
+    )
+    .join('; ');
   return (
     <div style={{ height }}>
-      <Line data={data} options={options} role="img" aria-label={`Share of NOx above the tropopause per month and fleet. ${summary}`} />
+      <Line
+        data={data}
+        options={options}
+        role="img"
+        aria-label={`Share of NOx above the tropopause per month and fleet. ${summary}`}
+      />
     </div>
   );
 }

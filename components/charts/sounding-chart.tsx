@@ -59,7 +59,8 @@ export function SoundingChart({ levels, isa, tropopause, units }: Props) {
   useChartFont();
   const [axis, setAxis] = useState<Axis>('altitude');
   const imperial = units === 'imperial';
-  const heightOf = (p: ProfilePoint) => (axis === 'pressure' ? p.pressureHpa : imperial ? p.altitudeM / M_PER_FT : p.altitudeM);
+  const heightOf = (p: ProfilePoint) =>
+    axis === 'pressure' ? p.pressureHpa : imperial ? p.altitudeM / M_PER_FT : p.altitudeM;
   const point = (p: ProfilePoint): Pt => ({ x: celsius(p.temperatureK), y: heightOf(p), p });
   const above = (p: ProfilePoint) => tropopause !== null && p.altitudeM > tropopause.altitudeM;
   const xs = [...levels, ...isa].map((p) => celsius(p.temperatureK));
@@ -136,17 +137,35 @@ export function SoundingChart({ levels, isa, tropopause, units }: Props) {
       },
       y:
         axis === 'pressure'
-          ? { type: 'logarithmic', reverse: true, min: Math.min(...pressures) * 0.9, max: Math.max(...pressures) * 1.05, title: { display: true, text: 'Pressure (hPa, log scale)' }, grid: { color: GRID }, ticks: { callback: (v) => String(Math.round(Number(v))) } }
-          : { type: 'linear', beginAtZero: true, title: { display: true, text: `Altitude (${heightUnit})` }, grid: { color: GRID } },
+          ? {
+              type: 'logarithmic',
+              reverse: true,
+              min: Math.min(...pressures) * 0.9,
+              max: Math.max(...pressures) * 1.05,
+              title: { display: true, text: 'Pressure (hPa, log scale)' },
+              grid: { color: GRID },
+              ticks: { callback: (v) => String(Math.round(Number(v))) },
+            }
+          : {
+              type: 'linear',
+              beginAtZero: true,
+              title: { display: true, text: `Altitude (${heightUnit})` },
+              grid: { color: GRID },
+            },
     },
     plugins: {
-      legend: { position: 'bottom', labels: { usePointStyle: true, filter: (item) => item.text !== 'Tropopause level' } },
+      legend: {
+        position: 'bottom',
+        labels: { usePointStyle: true, filter: (item) => item.text !== 'Tropopause level' },
+      },
       tooltip: {
         callbacks: {
           label: (ctx: TooltipItem<'scatter'>) => {
             const p = (ctx.raw as Pt).p;
             const where = ctx.dataset.label === 'Sounding' ? '' : `${ctx.dataset.label}: `;
-            const height = imperial ? `${Math.round(p.altitudeM / M_PER_FT).toLocaleString('en-GB')} ft` : `${Math.round(p.altitudeM).toLocaleString('en-GB')} m`;
+            const height = imperial
+              ? `${Math.round(p.altitudeM / M_PER_FT).toLocaleString('en-GB')} ft`
+              : `${Math.round(p.altitudeM).toLocaleString('en-GB')} m`;
             return `${where}${height}, ${p.pressureHpa.toFixed(1)} hPa, ${celsius(p.temperatureK).toFixed(1)} °C (${p.temperatureK.toFixed(1)} K)`;
           },
         },
@@ -154,10 +173,16 @@ export function SoundingChart({ levels, isa, tropopause, units }: Props) {
     },
   };
 
-  const tp = tropopause ? `; WMO tropopause at ${fmtHeight(heightOf(tropopause))}, ${celsius(tropopause.temperatureK).toFixed(1)} °C` : '; no WMO tropopause found';
+  const tp = tropopause
+    ? `; WMO tropopause at ${fmtHeight(heightOf(tropopause))}, ${celsius(tropopause.temperatureK).toFixed(1)} °C`
+    : '; no WMO tropopause found';
   return (
     <div>
-      <div role="group" aria-label="Height axis" className="mb-3 inline-flex rounded-md border border-line-strong p-0.5 text-sm">
+      <div
+        role="group"
+        aria-label="Height axis"
+        className="mb-3 inline-flex rounded-md border border-line-strong p-0.5 text-sm"
+      >
         {(['altitude', 'pressure'] as const).map((a) => (
           <button
             key={a}
@@ -171,7 +196,12 @@ export function SoundingChart({ levels, isa, tropopause, units }: Props) {
         ))}
       </div>
       <div className="relative h-[26rem] w-full">
-        <Scatter data={data} options={options} role="img" aria-label={`Temperature profile of the sounding against ${axis}${tp}. The levels are listed in the table below.`} />
+        <Scatter
+          data={data}
+          options={options}
+          role="img"
+          aria-label={`Temperature profile of the sounding against ${axis}${tp}. The levels are listed in the table below.`}
+        />
       </div>
     </div>
   );

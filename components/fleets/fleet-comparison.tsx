@@ -51,10 +51,24 @@ class CompareError extends Error {
 
 const NO_ROWS: CompareRow[] = [];
 
-const GROUP_LABELS: Record<GroupBy, string> = { fleet: 'Fleet', month: 'Fleet and month', aircraft: 'Fleet and aircraft type' };
+const GROUP_LABELS: Record<GroupBy, string> = {
+  fleet: 'Fleet',
+  month: 'Fleet and month',
+  aircraft: 'Fleet and aircraft type',
+};
 
 /** Column ids the chooser may hide, in display order. */
-const HIDEABLE = ['flights', 'distanceKm', 'fuelKg', 'co2Kg', 'noxTotalKg', 'noxAboveKg', 'shareAbove', 'noxAbovePer1000KmKg', 'ozone'] as const;
+const HIDEABLE = [
+  'flights',
+  'distanceKm',
+  'fuelKg',
+  'co2Kg',
+  'noxTotalKg',
+  'noxAboveKg',
+  'shareAbove',
+  'noxAbovePer1000KmKg',
+  'ozone',
+] as const;
 type FigureColumn = (typeof HIDEABLE)[number];
 
 const COLUMN_LABELS: Record<FigureColumn, string> = {
@@ -119,10 +133,16 @@ function parseSort(v: string | null): SortingState {
 }
 
 async function fetchComparison(slug: string, query: string): Promise<Comparison> {
-  const res = await fetch(`/api/v1/workspaces/${slug}/fleets/compare${query ? `?${query}` : ''}`, { headers: { accept: 'application/json' } });
-  const body = (await res.json().catch(() => null)) as (Comparison & { error?: { message: string; fields?: ApiError['fields'] } }) | null;
+  const res = await fetch(`/api/v1/workspaces/${slug}/fleets/compare${query ? `?${query}` : ''}`, {
+    headers: { accept: 'application/json' },
+  });
+  const body = (await res.json().catch(() => null)) as
+    (Comparison & { error?: { message: string; fields?: ApiError['fields'] } }) | null;
   if (!res.ok || !body) {
-    throw new CompareError({ message: body?.error?.message ?? 'The comparison could not be loaded. Try again.', fields: body?.error?.fields ?? [] });
+    throw new CompareError({
+      message: body?.error?.message ?? 'The comparison could not be loaded. Try again.',
+      fields: body?.error?.fields ?? [],
+    });
   }
   return body;
 }
@@ -141,8 +161,16 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
     placeholderData: keepPreviousData,
   });
   const data = query.data;
-  const apiError = query.error instanceof CompareError ? query.error.detail : query.error ? { message: 'The comparison could not be loaded. Try again.', fields: [] } : null;
-  const fieldErrors: Record<string, string> = { ...Object.fromEntries((apiError?.fields ?? []).map((f) => [f.path, f.message])), ...formErrors };
+  const apiError =
+    query.error instanceof CompareError
+      ? query.error.detail
+      : query.error
+        ? { message: 'The comparison could not be loaded. Try again.', fields: [] }
+        : null;
+  const fieldErrors: Record<string, string> = {
+    ...Object.fromEntries((apiError?.fields ?? []).map((f) => [f.path, f.message])),
+    ...formErrors,
+  };
 
   /** Writes the given keys into the URL without a server round trip (Next syncs useSearchParams). */
   const setParams = (patch: Record<string, string | null>) => {
@@ -155,22 +183,37 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
     window.history.replaceState(null, '', qs ? `${pathname}?${qs}` : pathname);
   };
 
-  const groupBy: GroupBy = (GROUP_BY as readonly string[]).includes(params.get('groupBy') ?? '') ? (params.get('groupBy') as GroupBy) : 'fleet';
+  const groupBy: GroupBy = (GROUP_BY as readonly string[]).includes(params.get('groupBy') ?? '')
+    ? (params.get('groupBy') as GroupBy)
+    : 'fleet';
   // Table state must keep its identity between renders: a fresh array each render makes TanStack's
   // sorted-row memo fire its page-index reset, which re-renders, forever.
   const sortParam = params.get('sort');
   const hideParam = params.get('hide') ?? '';
   const sorting = useMemo(() => parseSort(sortParam), [sortParam]);
   const hidden = useMemo(() => new Set(hideParam.split(',').filter(Boolean)), [hideParam]);
-  const visibility = useMemo<VisibilityState>(() => Object.fromEntries(HIDEABLE.map((c) => [c, !hidden.has(c)])), [hidden]);
+  const visibility = useMemo<VisibilityState>(
+    () => Object.fromEntries(HIDEABLE.map((c) => [c, !hidden.has(c)])),
+    [hidden],
+  );
   const stacked = params.get('stack') === '1';
   const selectedFleets = new Set((params.get('fleets') ?? '').split(',').filter(Boolean));
 
   const columns = useMemo<ColumnDef<CompareRow>[]>(() => {
-    const cols: ColumnDef<CompareRow>[] = [{ id: 'fleetName', accessorKey: 'fleetName', header: 'Fleet', enableHiding: false }];
-    if (groupBy === 'month') cols.push({ id: 'month', accessorFn: (r) => r.month ?? '', header: 'Month', enableHiding: false });
-    if (groupBy === 'aircraft') cols.push({ id: 'aircraftCode', accessorFn: (r) => r.aircraftCode ?? '', header: 'Aircraft type', enableHiding: false });
-    for (const c of HIDEABLE) cols.push({ id: c, accessorFn: (r) => sortValue(c, r), header: COLUMN_LABELS[c], sortDescFirst: true });
+    const cols: ColumnDef<CompareRow>[] = [
+      { id: 'fleetName', accessorKey: 'fleetName', header: 'Fleet', enableHiding: false },
+    ];
+    if (groupBy === 'month')
+      cols.push({ id: 'month', accessorFn: (r) => r.month ?? '', header: 'Month', enableHiding: false });
+    if (groupBy === 'aircraft')
+      cols.push({
+        id: 'aircraftCode',
+        accessorFn: (r) => r.aircraftCode ?? '',
+        header: 'Aircraft type',
+        enableHiding: false,
+      });
+    for (const c of HIDEABLE)
+      cols.push({ id: c, accessorFn: (r) => sortValue(c, r), header: COLUMN_LABELS[c], sortDescFirst: true });
     return cols;
   }, [groupBy]);
 
@@ -229,13 +272,30 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
         <form key={apiQuery} onSubmit={onFilter} noValidate className="space-y-4" aria-label="Comparison filters">
           <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
             <Field id="f-from" label="From" error={fieldErrors.from}>
-              <TextInput id="f-from" name="from" type="date" defaultValue={current.from ?? data?.period.from ?? ''} invalid={!!fieldErrors.from} />
+              <TextInput
+                id="f-from"
+                name="from"
+                type="date"
+                defaultValue={current.from ?? data?.period.from ?? ''}
+                invalid={!!fieldErrors.from}
+              />
             </Field>
             <Field id="f-to" label="To" error={fieldErrors.to}>
-              <TextInput id="f-to" name="to" type="date" defaultValue={current.to ?? data?.period.to ?? ''} invalid={!!fieldErrors.to} />
+              <TextInput
+                id="f-to"
+                name="to"
+                type="date"
+                defaultValue={current.to ?? data?.period.to ?? ''}
+                invalid={!!fieldErrors.to}
+              />
             </Field>
             <Field id="f-aircraft" label="Aircraft type" error={fieldErrors.aircraft}>
-              <SelectInput id="f-aircraft" name="aircraft" defaultValue={current.aircraft ?? ''} invalid={!!fieldErrors.aircraft}>
+              <SelectInput
+                id="f-aircraft"
+                name="aircraft"
+                defaultValue={current.aircraft ?? ''}
+                invalid={!!fieldErrors.aircraft}
+              >
                 <option value="">All types</option>
                 {aircraftCodes.map((c) => (
                   <option key={c} value={c}>
@@ -244,14 +304,44 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
                 ))}
               </SelectInput>
             </Field>
-            <Field id="f-route" label="Route" error={fieldErrors.route} hint="Airport codes: EGLL, LHR or EGLL-KSFO (origin or destination)">
-              <TextInput id="f-route" name="route" defaultValue={current.route ?? ''} placeholder="EGLL-KSFO" invalid={!!fieldErrors.route} />
+            <Field
+              id="f-route"
+              label="Route"
+              error={fieldErrors.route}
+              hint="Airport codes: EGLL, LHR or EGLL-KSFO (origin or destination)"
+            >
+              <TextInput
+                id="f-route"
+                name="route"
+                defaultValue={current.route ?? ''}
+                placeholder="EGLL-KSFO"
+                invalid={!!fieldErrors.route}
+              />
             </Field>
             <Field id="f-minfl" label="Level band from (FL)" error={fieldErrors.minFl}>
-              <TextInput id="f-minfl" name="minFl" inputMode="numeric" defaultValue={current.minFl ?? ''} placeholder="e.g. 350" invalid={!!fieldErrors.minFl} />
+              <TextInput
+                id="f-minfl"
+                name="minFl"
+                inputMode="numeric"
+                defaultValue={current.minFl ?? ''}
+                placeholder="e.g. 350"
+                invalid={!!fieldErrors.minFl}
+              />
             </Field>
-            <Field id="f-maxfl" label="Level band to (FL)" error={fieldErrors.maxFl} hint="Keeps flights whose cruise, first to highest level, touches the band">
-              <TextInput id="f-maxfl" name="maxFl" inputMode="numeric" defaultValue={current.maxFl ?? ''} placeholder="e.g. 410" invalid={!!fieldErrors.maxFl} />
+            <Field
+              id="f-maxfl"
+              label="Level band to (FL)"
+              error={fieldErrors.maxFl}
+              hint="Keeps flights whose cruise, first to highest level, touches the band"
+            >
+              <TextInput
+                id="f-maxfl"
+                name="maxFl"
+                inputMode="numeric"
+                defaultValue={current.maxFl ?? ''}
+                placeholder="e.g. 410"
+                invalid={!!fieldErrors.maxFl}
+              />
             </Field>
             <fieldset className="sm:col-span-2">
               <legend className="text-sm font-medium text-ink">Fleets</legend>
@@ -259,13 +349,23 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
                 {fleets.length === 0 ? <span className="text-sm text-ink-faint">No fleets yet.</span> : null}
                 {fleets.map((f) => (
                   <label key={f.id} className="inline-flex items-center gap-1.5 text-sm text-ink">
-                    <input type="checkbox" name="fleet" value={f.id} defaultChecked={selectedFleets.has(String(f.id))} className="accent-accent" />
+                    <input
+                      type="checkbox"
+                      name="fleet"
+                      value={f.id}
+                      defaultChecked={selectedFleets.has(String(f.id))}
+                      className="accent-accent"
+                    />
                     {f.name}
                   </label>
                 ))}
               </div>
               <p className="mt-1 text-xs text-ink-faint">None ticked: every fleet, and flights without one.</p>
-              {fieldErrors.fleets ? <p role="alert" className="text-xs font-medium text-danger">{fieldErrors.fleets}</p> : null}
+              {fieldErrors.fleets ? (
+                <p role="alert" className="text-xs font-medium text-danger">
+                  {fieldErrors.fleets}
+                </p>
+              ) : null}
             </fieldset>
           </div>
           <div className="flex flex-wrap items-center gap-2">
@@ -290,7 +390,11 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
         title={data ? `Comparison, ${data.period.from} to ${data.period.to}` : 'Comparison'}
         actions={
           <div className="flex flex-wrap items-center gap-2">
-            <div role="radiogroup" aria-label="Rows per" className="inline-flex overflow-hidden rounded-md border border-line-strong">
+            <div
+              role="radiogroup"
+              aria-label="Rows per"
+              className="inline-flex overflow-hidden rounded-md border border-line-strong"
+            >
               {GROUP_BY.map((g) => (
                 <button
                   key={g}
@@ -315,7 +419,12 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
                   .filter((c) => c.getCanHide())
                   .map((c) => (
                     <label key={c.id} className="flex items-center gap-2 py-0.5 text-sm text-ink">
-                      <input type="checkbox" checked={c.getIsVisible()} onChange={c.getToggleVisibilityHandler()} className="accent-accent" />
+                      <input
+                        type="checkbox"
+                        checked={c.getIsVisible()}
+                        onChange={c.getToggleVisibilityHandler()}
+                        className="accent-accent"
+                      />
                       {COLUMN_LABELS[c.id as FigureColumn]}
                     </label>
                   ))}
@@ -365,11 +474,22 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
                       const r = row.original;
                       const isFigure = (HIDEABLE as readonly string[]).includes(id);
                       return (
-                        <td key={cell.id} className={`px-2 py-2 align-top ${id === 'fleetName' ? 'sticky left-0 bg-paper-raised' : ''} ${isFigure ? 'whitespace-nowrap text-right' : 'whitespace-nowrap'} ${id === 'noxAboveKg' || id === 'shareAbove' ? 'text-strato-strong' : ''}`}>
+                        <td
+                          key={cell.id}
+                          className={`px-2 py-2 align-top ${id === 'fleetName' ? 'sticky left-0 bg-paper-raised' : ''} ${isFigure ? 'whitespace-nowrap text-right' : 'whitespace-nowrap'} ${id === 'noxAboveKg' || id === 'shareAbove' ? 'text-strato-strong' : ''}`}
+                        >
                           {id === 'fleetName' ? (
-                            <span className={`whitespace-nowrap ${r.fleetId === null ? 'italic text-ink-soft' : 'font-medium text-ink'}`}>{r.fleetName}</span>
+                            <span
+                              className={`whitespace-nowrap ${r.fleetId === null ? 'italic text-ink-soft' : 'font-medium text-ink'}`}
+                            >
+                              {r.fleetName}
+                            </span>
                           ) : id === 'month' ? (
-                            r.month ? monthLabel(r.month) : '–'
+                            r.month ? (
+                              monthLabel(r.month)
+                            ) : (
+                              '–'
+                            )
                           ) : id === 'aircraftCode' ? (
                             r.aircraftCode
                           ) : (
@@ -386,7 +506,10 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
                   {table.getVisibleLeafColumns().map((c, i) => {
                     const isFigure = (HIDEABLE as readonly string[]).includes(c.id);
                     return (
-                      <td key={c.id} className={`px-2 py-2 align-top ${i === 0 ? 'sticky left-0 bg-paper-sunk' : ''} ${isFigure ? 'whitespace-nowrap text-right' : 'whitespace-nowrap'}`}>
+                      <td
+                        key={c.id}
+                        className={`px-2 py-2 align-top ${i === 0 ? 'sticky left-0 bg-paper-sunk' : ''} ${isFigure ? 'whitespace-nowrap text-right' : 'whitespace-nowrap'}`}
+                      >
                         {i === 0 ? 'All fleets' : isFigure ? render(c.id as FigureColumn, data.totals, units) : ''}
                       </td>
                     );
@@ -400,7 +523,10 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
               </li>
               <li>{data.notes.ratios}</li>
               <li>{data.notes.ozone}</li>
-              <li>NOx is NO2-equivalent mass. Screened flights only; a flight counts in the fleet named in its schedule row, else in its aircraft type&apos;s default fleet.</li>
+              <li>
+                NOx is NO2-equivalent mass. Screened flights only; a flight counts in the fleet named in its schedule
+                row, else in its aircraft type&apos;s default fleet.
+              </li>
             </ul>
           </ScrollRegion>
         )}
@@ -420,7 +546,10 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
         </div>
         {canReport && data && data.totals.flights > 0 ? (
           <p className="mt-3 text-sm">
-            <Link className="text-accent underline" href={`/w/${slug}/reports?from=${data.period.from}&to=${data.period.to}${selectedFleets.size ? `&fleets=${[...selectedFleets].join(',')}` : ''}`}>
+            <Link
+              className="text-accent underline"
+              href={`/w/${slug}/reports?from=${data.period.from}&to=${data.period.to}${selectedFleets.size ? `&fleets=${[...selectedFleets].join(',')}` : ''}`}
+            >
               Build a report for this period
             </Link>
           </p>
@@ -433,7 +562,12 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
             title="NOx above the tropopause by month"
             actions={
               <label className="inline-flex items-center gap-1.5 text-sm text-ink-soft">
-                <input type="checkbox" checked={stacked} onChange={(e) => setParams({ stack: e.target.checked ? '1' : null })} className="accent-accent" />
+                <input
+                  type="checkbox"
+                  checked={stacked}
+                  onChange={(e) => setParams({ stack: e.target.checked ? '1' : null })}
+                  className="accent-accent"
+                />
                 Stack fleets
               </label>
             }
@@ -446,7 +580,9 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
         </div>
       ) : null}
 
-      {data && data.totals.flights > 0 ? <FleetContext context={data.context} cautions={data.cautions} units={units} /> : null}
+      {data && data.totals.flights > 0 ? (
+        <FleetContext context={data.context} cautions={data.cautions} units={units} />
+      ) : null}
     </div>
   );
 }

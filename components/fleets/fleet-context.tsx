@@ -11,7 +11,15 @@ export function pctChange(v: number): string {
 }
 
 /** Annualised NOx above the tropopause per fleet, set against published fleet-scale model results. */
-export function FleetContext({ context, cautions, units }: { context: FleetComparison['context']; cautions: string[]; units: UnitSystem }) {
+export function FleetContext({
+  context,
+  cautions,
+  units,
+}: {
+  context: FleetComparison['context'];
+  cautions: string[];
+  units: UnitSystem;
+}) {
   const rows = [...context.fleets, context.total];
   return (
     <Card title="Fleet-scale context">
@@ -29,14 +37,19 @@ export function FleetContext({ context, cautions, units }: { context: FleetCompa
               {context.total.studies.map((s) => (
                 <th key={s.study} scope="col" className="px-2 py-2 font-medium">
                   {s.citation.split(',')[0]} ({s.altitudeKm[0]}–{s.altitudeKm[1]} km)
-                  <span className="block normal-case tracking-normal text-ink-faint">global column ozone, scaled, ±50 %</span>
+                  <span className="block normal-case tracking-normal text-ink-faint">
+                    global column ozone, scaled, ±50 %
+                  </span>
                 </th>
               ))}
             </tr>
           </thead>
           <tbody>
             {rows.map((c, i) => (
-              <tr key={`${c.fleetId ?? 'none'}-${i}`} className={`border-b border-line align-top ${i === rows.length - 1 ? 'bg-paper-sunk font-semibold' : ''}`}>
+              <tr
+                key={`${c.fleetId ?? 'none'}-${i}`}
+                className={`border-b border-line align-top ${i === rows.length - 1 ? 'bg-paper-sunk font-semibold' : ''}`}
+              >
                 <td className="whitespace-nowrap px-2 py-2">{c.fleetName}</td>
                 <td className="whitespace-nowrap px-2 py-2 text-right">{formatMass(c.annualNoxAboveKg, units)}</td>
                 {c.studies.map((s) => (
@@ -45,13 +58,16 @@ export function FleetContext({ context, cautions, units }: { context: FleetCompa
                       <>
                         {pctChange(s.columnChangePct.central)}
                         <span className="block text-xs font-normal text-ink-faint">
-                          {pctChange(s.columnChangePct.low)} to {pctChange(s.columnChangePct.high)}; {formatMass(s.noxInBandKgPerYear, units)}/yr in band
+                          {pctChange(s.columnChangePct.low)} to {pctChange(s.columnChangePct.high)};{' '}
+                          {formatMass(s.noxInBandKgPerYear, units)}/yr in band
                         </span>
                       </>
                     ) : (
                       <span className="font-normal text-ink-soft">
                         Not applicable
-                        <span className="block text-xs text-ink-faint">No NOx above the tropopause at {s.altitudeKm[0]}–{s.altitudeKm[1]} km; never extrapolated.</span>
+                        <span className="block text-xs text-ink-faint">
+                          No NOx above the tropopause at {s.altitudeKm[0]}–{s.altitudeKm[1]} km; never extrapolated.
+                        </span>
                       </span>
                     )}
                   </td>
@@ -62,8 +78,8 @@ export function FleetContext({ context, cautions, units }: { context: FleetCompa
         </table>
       </ScrollRegion>
       <p className="mt-3 text-xs text-ink-soft">
-        Sources: {context.total.studies.map((s) => s.citation).join('; ')}. These are fleet-scale model results scaled linearly, not a property of these flights; check each
-        study&apos;s NOx mass basis before quoting a figure.
+        Sources: {context.total.studies.map((s) => s.citation).join('; ')}. These are fleet-scale model results scaled
+        linearly, not a property of these flights; check each study&apos;s NOx mass basis before quoting a figure.
       </p>
       <ul className="mt-3 list-disc space-y-0.5 pl-5 text-xs text-ink-soft">
         {cautions.map((c) => (

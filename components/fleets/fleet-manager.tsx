@@ -37,7 +37,10 @@ interface Actions {
 
 export function CreateFleetForm({ slug, action }: { slug: string; action: Action }) {
   const [message, setMessage] = useState<{ tone: 'success' | 'danger'; text: string }>();
-  const form = useForm<FleetCreate>({ resolver: zodResolver(fleetCreateSchema), defaultValues: { name: '', description: '' } });
+  const form = useForm<FleetCreate>({
+    resolver: zodResolver(fleetCreateSchema),
+    defaultValues: { name: '', description: '' },
+  });
   const { errors, isSubmitting } = form.formState;
   const onSubmit = form.handleSubmit(async (values) => {
     setMessage(undefined);
@@ -58,7 +61,12 @@ export function CreateFleetForm({ slug, action }: { slug: string; action: Action
         </Notice>
       ) : null}
       <Field id="fleet-name" label="Fleet name" error={errors.name?.message}>
-        <TextInput id="fleet-name" invalid={!!errors.name} placeholder="e.g. Long-haul twins" {...form.register('name')} />
+        <TextInput
+          id="fleet-name"
+          invalid={!!errors.name}
+          placeholder="e.g. Long-haul twins"
+          {...form.register('name')}
+        />
       </Field>
       <Field id="fleet-description" label="Description (optional)" error={errors.description?.message}>
         <TextInput id="fleet-description" invalid={!!errors.description} {...form.register('description')} />
@@ -70,11 +78,24 @@ export function CreateFleetForm({ slug, action }: { slug: string; action: Action
   );
 }
 
-function FleetRow({ slug, fleet, actions, canWrite }: { slug: string; fleet: FleetItem; actions: Actions; canWrite: boolean }) {
+function FleetRow({
+  slug,
+  fleet,
+  actions,
+  canWrite,
+}: {
+  slug: string;
+  fleet: FleetItem;
+  actions: Actions;
+  canWrite: boolean;
+}) {
   const [editing, setEditing] = useState(false);
   const [pending, start] = useTransition();
   const [error, setError] = useState<string>();
-  const form = useForm<FleetCreate>({ resolver: zodResolver(fleetCreateSchema), defaultValues: { name: fleet.name, description: fleet.description } });
+  const form = useForm<FleetCreate>({
+    resolver: zodResolver(fleetCreateSchema),
+    defaultValues: { name: fleet.name, description: fleet.description },
+  });
   const { errors } = form.formState;
   const onSave = form.handleSubmit(async (values) => {
     setError(undefined);
@@ -100,12 +121,21 @@ function FleetRow({ slug, fleet, actions, canWrite }: { slug: string; fleet: Fle
   return (
     <li className="py-3">
       {editing ? (
-        <form onSubmit={onSave} noValidate className="grid gap-3 sm:grid-cols-[1fr_1fr_auto] sm:items-end" aria-label={`Rename ${fleet.name}`}>
+        <form
+          onSubmit={onSave}
+          noValidate
+          className="grid gap-3 sm:grid-cols-[1fr_1fr_auto] sm:items-end"
+          aria-label={`Rename ${fleet.name}`}
+        >
           <Field id={`fleet-${fleet.id}-name`} label="Name" error={errors.name?.message}>
             <TextInput id={`fleet-${fleet.id}-name`} invalid={!!errors.name} {...form.register('name')} />
           </Field>
           <Field id={`fleet-${fleet.id}-description`} label="Description" error={errors.description?.message}>
-            <TextInput id={`fleet-${fleet.id}-description`} invalid={!!errors.description} {...form.register('description')} />
+            <TextInput
+              id={`fleet-${fleet.id}-description`}
+              invalid={!!errors.description}
+              {...form.register('description')}
+            />
           </Field>
           <div className="flex gap-2">
             <Button type="submit" disabled={form.formState.isSubmitting}>
@@ -122,8 +152,10 @@ function FleetRow({ slug, fleet, actions, canWrite }: { slug: string; fleet: Fle
             <p className="font-medium text-ink">{fleet.name}</p>
             {fleet.description ? <p className="text-sm text-ink-soft">{fleet.description}</p> : null}
             <p className="mt-0.5 text-xs text-ink-faint">
-              {fleet.aircraftTypes.length ? `Default for ${fleet.aircraftTypes.map((t) => t.code).join(', ')}` : 'No aircraft type defaults to it'} ·{' '}
-              {formatNumber(fleet.screenedFlights)} screened flight{fleet.screenedFlights === 1 ? '' : 's'}
+              {fleet.aircraftTypes.length
+                ? `Default for ${fleet.aircraftTypes.map((t) => t.code).join(', ')}`
+                : 'No aircraft type defaults to it'}{' '}
+              · {formatNumber(fleet.screenedFlights)} screened flight{fleet.screenedFlights === 1 ? '' : 's'}
             </p>
           </div>
           {canWrite ? (
@@ -147,17 +179,45 @@ function FleetRow({ slug, fleet, actions, canWrite }: { slug: string; fleet: Fle
   );
 }
 
-export function FleetList({ slug, fleets, actions, canWrite }: { slug: string; fleets: FleetItem[]; actions: Actions; canWrite: boolean }) {
+export function FleetList({
+  slug,
+  fleets,
+  actions,
+  canWrite,
+}: {
+  slug: string;
+  fleets: FleetItem[];
+  actions: Actions;
+  canWrite: boolean;
+}) {
   return (
     <ul className="divide-y divide-line">
       {fleets.map((f) => (
-        <FleetRow key={`${f.id}-${f.name}-${f.description}`} slug={slug} fleet={f} actions={actions} canWrite={canWrite} />
+        <FleetRow
+          key={`${f.id}-${f.name}-${f.description}`}
+          slug={slug}
+          fleet={f}
+          actions={actions}
+          canWrite={canWrite}
+        />
       ))}
     </ul>
   );
 }
 
-function TypeRow({ slug, type, fleets, action, canWrite }: { slug: string; type: AircraftTypeItem; fleets: FleetItem[]; action: Action; canWrite: boolean }) {
+function TypeRow({
+  slug,
+  type,
+  fleets,
+  action,
+  canWrite,
+}: {
+  slug: string;
+  type: AircraftTypeItem;
+  fleets: FleetItem[];
+  action: Action;
+  canWrite: boolean;
+}) {
   const [pending, start] = useTransition();
   const [note, setNote] = useState<{ ok: boolean; text: string }>();
   const id = `type-${type.id}-fleet`;
@@ -180,8 +240,15 @@ function TypeRow({ slug, type, fleets, action, canWrite }: { slug: string; type:
               onChange={(e) =>
                 start(async () => {
                   setNote(undefined);
-                  const state = await action(slug, { aircraftTypeId: type.id, fleetId: e.target.value ? Number(e.target.value) : null });
-                  setNote(state?.ok ? { ok: true, text: 'Saved.' } : { ok: false, text: state && !state.ok ? state.error.message : 'Not saved.' });
+                  const state = await action(slug, {
+                    aircraftTypeId: type.id,
+                    fleetId: e.target.value ? Number(e.target.value) : null,
+                  });
+                  setNote(
+                    state?.ok
+                      ? { ok: true, text: 'Saved.' }
+                      : { ok: false, text: state && !state.ok ? state.error.message : 'Not saved.' },
+                  );
                 })
               }
               className="rounded-md border border-line-strong bg-paper-raised px-2 py-1 text-sm"
@@ -194,20 +261,37 @@ function TypeRow({ slug, type, fleets, action, canWrite }: { slug: string; type:
               ))}
             </select>
             {note ? (
-              <span role={note.ok ? 'status' : 'alert'} className={`ml-2 text-xs ${note.ok ? 'text-tropo-strong' : 'font-medium text-danger'}`}>
+              <span
+                role={note.ok ? 'status' : 'alert'}
+                className={`ml-2 text-xs ${note.ok ? 'text-tropo-strong' : 'font-medium text-danger'}`}
+              >
                 {note.text}
               </span>
             ) : null}
           </>
         ) : (
-          <span className="text-ink-soft">{fleets.find((f) => f.id === type.defaultFleetId)?.name ?? 'No default fleet'}</span>
+          <span className="text-ink-soft">
+            {fleets.find((f) => f.id === type.defaultFleetId)?.name ?? 'No default fleet'}
+          </span>
         )}
       </td>
     </tr>
   );
 }
 
-export function AircraftFleetTable({ slug, types, fleets, action, canWrite }: { slug: string; types: AircraftTypeItem[]; fleets: FleetItem[]; action: Action; canWrite: boolean }) {
+export function AircraftFleetTable({
+  slug,
+  types,
+  fleets,
+  action,
+  canWrite,
+}: {
+  slug: string;
+  types: AircraftTypeItem[];
+  fleets: FleetItem[];
+  action: Action;
+  canWrite: boolean;
+}) {
   return (
     <table className="w-full text-sm">
       <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
@@ -222,7 +306,14 @@ export function AircraftFleetTable({ slug, types, fleets, action, canWrite }: { 
       </thead>
       <tbody>
         {types.map((t) => (
-          <TypeRow key={`${t.id}-${t.defaultFleetId ?? 'none'}`} slug={slug} type={t} fleets={fleets} action={action} canWrite={canWrite} />
+          <TypeRow
+            key={`${t.id}-${t.defaultFleetId ?? 'none'}`}
+            slug={slug}
+            type={t}
+            fleets={fleets}
+            action={action}
+            canWrite={canWrite}
+          />
         ))}
       </tbody>
     </table>

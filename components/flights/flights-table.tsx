@@ -17,17 +17,39 @@ export function FlightsTable({ flights, units }: { flights: FlightDto[]; units: 
         <caption className="sr-only">Flights and their screening figures</caption>
         <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
           <tr className="border-b border-line">
-            <th scope="col" className="px-2 py-2">Date</th>
-            <th scope="col" className="px-2 py-2">Flight</th>
-            <th scope="col" className="px-2 py-2">Route</th>
-            <th scope="col" className="px-2 py-2">Aircraft · fleet</th>
-            <th scope="col" className="px-2 py-2">Cruise</th>
-            <th scope="col" className="px-2 py-2 text-right">Distance</th>
-            <th scope="col" className="px-2 py-2 text-right">Fuel</th>
-            <th scope="col" className="px-2 py-2 text-right">NOx</th>
-            <th scope="col" className="px-2 py-2 text-right">NOx above</th>
-            <th scope="col" className="px-2 py-2 text-right">Share above</th>
-            <th scope="col" className="px-2 py-2 text-right">Ozone figure (range)</th>
+            <th scope="col" className="px-2 py-2">
+              Date
+            </th>
+            <th scope="col" className="px-2 py-2">
+              Flight
+            </th>
+            <th scope="col" className="px-2 py-2">
+              Route
+            </th>
+            <th scope="col" className="px-2 py-2">
+              Aircraft · fleet
+            </th>
+            <th scope="col" className="px-2 py-2">
+              Cruise
+            </th>
+            <th scope="col" className="px-2 py-2 text-right">
+              Distance
+            </th>
+            <th scope="col" className="px-2 py-2 text-right">
+              Fuel
+            </th>
+            <th scope="col" className="px-2 py-2 text-right">
+              NOx
+            </th>
+            <th scope="col" className="px-2 py-2 text-right">
+              NOx above
+            </th>
+            <th scope="col" className="px-2 py-2 text-right">
+              Share above
+            </th>
+            <th scope="col" className="px-2 py-2 text-right">
+              Ozone figure (range)
+            </th>
           </tr>
         </thead>
         <tbody>
@@ -71,8 +93,13 @@ export function FlightsTable({ flights, units }: { flights: FlightDto[]; units: 
                 <>
                   <td className={num}>–</td>
                   <td className={num}>{formatMass(f.fuelKg, units)}</td>
-                  <td colSpan={4} className={`px-2 py-2 text-xs ${f.status === 'failed' ? 'text-danger' : 'text-ink-soft'}`}>
-                    {f.status === 'failed' ? `Not screened: ${f.failureReason ?? 'the engine refused this flight'}` : 'Waiting to be screened…'}
+                  <td
+                    colSpan={4}
+                    className={`px-2 py-2 text-xs ${f.status === 'failed' ? 'text-danger' : 'text-ink-soft'}`}
+                  >
+                    {f.status === 'failed'
+                      ? `Not screened: ${f.failureReason ?? 'the engine refused this flight'}`
+                      : 'Waiting to be screened…'}
                   </td>
                 </>
               )}

@@ -30,10 +30,18 @@ export function FormatSummary({ templateHref }: { templateHref: string }) {
         .
       </p>
       <p className="text-ink-soft">
-        CSV in UTF-8 with a header row, up to {IMPORT_LIMITS.maxRows.toLocaleString('en-GB')} flights and {IMPORT_LIMITS.maxBytes / MB} MB per file. Units and
-        examples are in the <a href="#format" className="text-accent underline underline-offset-2">column reference</a> below.
+        CSV in UTF-8 with a header row, up to {IMPORT_LIMITS.maxRows.toLocaleString('en-GB')} flights and{' '}
+        {IMPORT_LIMITS.maxBytes / MB} MB per file. Units and examples are in the{' '}
+        <a href="#format" className="text-accent underline underline-offset-2">
+          column reference
+        </a>{' '}
+        below.
       </p>
-      <a href={templateHref} download className="inline-flex items-center gap-2 rounded-md border border-line-strong bg-paper-raised px-3.5 py-2 text-sm font-medium text-ink hover:bg-paper-sunk">
+      <a
+        href={templateHref}
+        download
+        className="inline-flex items-center gap-2 rounded-md border border-line-strong bg-paper-raised px-3.5 py-2 text-sm font-medium text-ink hover:bg-paper-sunk"
+      >
         Download the template (CSV)
       </a>
     </div>
@@ -45,18 +53,26 @@ export function FormatReference({ example }: { example: string }) {
   return (
     <div className="space-y-4 text-sm">
       <p className="text-ink-soft">
-        CSV, UTF-8 (a byte-order mark is fine), comma-separated, one flight per row after a header row. Header names are not case sensitive and
-        columns may come in any order.
+        CSV, UTF-8 (a byte-order mark is fine), comma-separated, one flight per row after a header row. Header names are
+        not case sensitive and columns may come in any order.
       </p>
       <ScrollRegion label="Columns of a schedule file">
         <table className="w-full text-left text-sm">
           <caption className="sr-only">Columns of a schedule file</caption>
           <thead className="text-xs uppercase tracking-wide text-ink-soft">
             <tr>
-              <th scope="col" className="py-1.5 pr-4">Column</th>
-              <th scope="col" className="py-1.5 pr-4">Unit or form</th>
-              <th scope="col" className="py-1.5 pr-4">Meaning</th>
-              <th scope="col" className="hidden py-1.5 lg:table-cell">Example</th>
+              <th scope="col" className="py-1.5 pr-4">
+                Column
+              </th>
+              <th scope="col" className="py-1.5 pr-4">
+                Unit or form
+              </th>
+              <th scope="col" className="py-1.5 pr-4">
+                Meaning
+              </th>
+              <th scope="col" className="hidden py-1.5 lg:table-cell">
+                Example
+              </th>
             </tr>
           </thead>
           <tbody>
@@ -64,7 +80,9 @@ export function FormatReference({ example }: { example: string }) {
               <tr key={c.name} className="border-t border-line align-top">
                 <td className="whitespace-nowrap py-1.5 pr-4">
                   <code className="font-mono text-xs">{c.name}</code>
-                  <span className={`block text-xs lg:ml-1.5 lg:inline ${c.required ? 'text-ink' : 'text-ink-faint'}`}>{c.required ? 'required' : 'optional'}</span>
+                  <span className={`block text-xs lg:ml-1.5 lg:inline ${c.required ? 'text-ink' : 'text-ink-faint'}`}>
+                    {c.required ? 'required' : 'optional'}
+                  </span>
                 </td>
                 <td className="py-1.5 pr-4 text-ink-soft">{c.unit}</td>
                 <td className="py-1.5 pr-4">
@@ -85,9 +103,18 @@ export function FormatReference({ example }: { example: string }) {
       <ul className="list-disc space-y-1 pl-5 text-ink-soft">
         <li>Line numbers in problems count the header as line 1.</li>
         <li>Columns we do not know are listed and ignored; the file is still accepted.</li>
-        <li>A flight already in the workspace (same date, flight, origin and destination), or twice in the file, is refused: nothing is imported or billed twice.</li>
-        <li>The route is the great circle between the two airports; fuel_kg is the cruise fuel along it, not the LTO cycle.</li>
-        <li>One problem refuses the whole file, so a schedule is never half imported. Fix the rows listed and upload the file again.</li>
+        <li>
+          A flight already in the workspace (same date, flight, origin and destination), or twice in the file, is
+          refused: nothing is imported or billed twice.
+        </li>
+        <li>
+          The route is the great circle between the two airports; fuel_kg is the cruise fuel along it, not the LTO
+          cycle.
+        </li>
+        <li>
+          One problem refuses the whole file, so a schedule is never half imported. Fix the rows listed and upload the
+          file again.
+        </li>
       </ul>
       <div className="min-w-0">
         <p className="mb-1 font-medium text-ink">Example</p>

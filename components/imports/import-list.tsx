@@ -13,7 +13,10 @@ import { ImportProblemsTable } from './problems-table';
 
 const POLL_MS = 1000;
 const isActive = (i: ImportDto | undefined) =>
-  i?.status === 'queued' || i?.status === 'screening' || i?.rescreen?.status === 'queued' || i?.rescreen?.status === 'running';
+  i?.status === 'queued' ||
+  i?.status === 'screening' ||
+  i?.rescreen?.status === 'queued' ||
+  i?.rescreen?.status === 'running';
 
 const STATUS: Record<ImportDto['status'], { label: string; className: string }> = {
   queued: { label: 'Queued', className: 'border-line-strong bg-paper-sunk text-ink-soft' },
@@ -32,7 +35,10 @@ export function durationText(seconds: number): string {
 class GoneError extends Error {}
 
 async function fetchImport(slug: string, id: number): Promise<ImportDto> {
-  const res = await fetch(`/api/v1/workspaces/${slug}/imports/${id}`, { credentials: 'same-origin', cache: 'no-store' });
+  const res = await fetch(`/api/v1/workspaces/${slug}/imports/${id}`, {
+    credentials: 'same-origin',
+    cache: 'no-store',
+  });
   if (res.status === 404) throw new GoneError('This import was deleted.');
   if (!res.ok) throw new Error(`Progress could not be read (HTTP ${res.status}); retrying.`);
   return (await res.json()) as ImportDto;
@@ -54,7 +60,10 @@ function Progress({ imp }: { imp: ImportDto }) {
         aria-valuenow={imp.rowsDone}
         className="h-2 w-full overflow-hidden rounded-full bg-paper-sunk"
       >
-        <div className={`h-full rounded-full ${imp.status === 'failed' ? 'bg-danger' : 'bg-accent'} transition-[width]`} style={{ width: `${pct}%` }} />
+        <div
+          className={`h-full rounded-full ${imp.status === 'failed' ? 'bg-danger' : 'bg-accent'} transition-[width]`}
+          style={{ width: `${pct}%` }}
+        />
       </div>
       <p className="figure mt-1 text-xs text-ink-soft" data-testid="import-progress">
         {parts.join(' · ')}
@@ -65,13 +74,16 @@ function Progress({ imp }: { imp: ImportDto }) {
 
 function Summary({ imp }: { imp: ImportDto }) {
   if (imp.status === 'complete') {
-    const took = imp.startedAt && imp.finishedAt ? (Date.parse(imp.finishedAt) - Date.parse(imp.startedAt)) / 1000 : null;
+    const took =
+      imp.startedAt && imp.finishedAt ? (Date.parse(imp.finishedAt) - Date.parse(imp.startedAt)) / 1000 : null;
     return (
       <p className="text-sm text-ink">
         {formatNumber(imp.rowsScreened)} flight{imp.rowsScreened === 1 ? '' : 's'} screened
         {took !== null && took > 0 ? ` in ${durationText(took).replace('about ', '')}` : ''}
         {imp.rowsPerSecond ? ` (${formatNumber(imp.rowsPerSecond)} rows/s)` : ''}
-        {imp.rowsFailed ? `; ${formatNumber(imp.rowsFailed)} could not be screened and are not billed (see the notes).` : '.'}
+        {imp.rowsFailed
+          ? `; ${formatNumber(imp.rowsFailed)} could not be screened and are not billed (see the notes).`
+          : '.'}
       </p>
     );
   }
@@ -110,10 +122,9 @@ function DeleteImport({ imp, onDelete }: { imp: ImportDto; onDelete: (id: number
       }}
     >
       <p>
-        Delete import #{imp.id} and its {formatNumber(imp.rows)} flight{imp.rows === 1 ? '' : 's'}? They leave the flight list, fleet figures and new reports.{' '}
-        <strong>
-          Units already billed for screened flights ({formatNumber(imp.rowsScreened)} so far) stay billed
-        </strong>
+        Delete import #{imp.id} and its {formatNumber(imp.rows)} flight{imp.rows === 1 ? '' : 's'}? They leave the
+        flight list, fleet figures and new reports.{' '}
+        <strong>Units already billed for screened flights ({formatNumber(imp.rowsScreened)} so far) stay billed</strong>
         ; deleting does not refund them.
       </p>
       {error ? (
@@ -146,7 +157,17 @@ function DeleteImport({ imp, onDelete }: { imp: ImportDto; onDelete: (id: number
 }
 
 /** Which engine versions made the flights' figures, and the re-screen with the current one. */
-function EngineVersions({ imp, current, canRescreen, onRescreen }: { imp: ImportDto; current: string; canRescreen: boolean; onRescreen: (id: number) => Promise<ActionState> }) {
+function EngineVersions({
+  imp,
+  current,
+  canRescreen,
+  onRescreen,
+}: {
+  imp: ImportDto;
+  current: string;
+  canRescreen: boolean;
+  onRescreen: (id: number) => Promise<ActionState>;
+}) {
   const [pending, start] = useTransition();
   const [message, setMessage] = useState<{ ok: boolean; text: string }>();
   const versions = imp.engineVersions;
@@ -157,17 +178,24 @@ function EngineVersions({ imp, current, canRescreen, onRescreen }: { imp: Import
   return (
     <div className="text-xs text-ink-soft" data-testid="import-engine-versions">
       <p>
-        Engine version{versions.length === 1 ? '' : 's'}: {versions.map((v) => `${v.engineVersion} (${formatNumber(v.flights)} flight${v.flights === 1 ? '' : 's'})`).join(', ')}
+        Engine version{versions.length === 1 ? '' : 's'}:{' '}
+        {versions
+          .map((v) => `${v.engineVersion} (${formatNumber(v.flights)} flight${v.flights === 1 ? '' : 's'})`)
+          .join(', ')}
         {stale ? ` · ${formatNumber(stale)} made with an older version than the current ${current}` : ''}
       </p>
       {running ? (
         <p className="mt-1" data-testid="rescreen-progress">
-          Screening again with {r.engineVersion}: {formatNumber(r.rowsDone)} of {formatNumber(r.rows)} flights done{r.status === 'queued' ? ' (waiting for the worker)' : ''}; not billed again.
+          Screening again with {r.engineVersion}: {formatNumber(r.rowsDone)} of {formatNumber(r.rows)} flights done
+          {r.status === 'queued' ? ' (waiting for the worker)' : ''}; not billed again.
         </p>
       ) : r && r.status === 'complete' ? (
         <p className="mt-1" data-testid="rescreen-progress">
           Screened again with {r.engineVersion}: {formatNumber(r.rowsDone)} of {formatNumber(r.rows)} flights
-          {r.rowsFailed ? `; ${formatNumber(r.rowsFailed)} kept their earlier figures (the current engine could not screen them)` : ''}.
+          {r.rowsFailed
+            ? `; ${formatNumber(r.rowsFailed)} kept their earlier figures (the current engine could not screen them)`
+            : ''}
+          .
         </p>
       ) : null}
       {stale && !running && canRescreen && imp.status === 'complete' ? (
@@ -234,14 +262,18 @@ function ImportItem({
       <div className="flex flex-wrap items-start justify-between gap-3">
         <div className="min-w-0">
           <p className="font-medium text-ink">
-            <span className="break-all">{imp.fileName}</span> <span className="text-sm font-normal text-ink-faint">#{imp.id}</span>
+            <span className="break-all">{imp.fileName}</span>{' '}
+            <span className="text-sm font-normal text-ink-faint">#{imp.id}</span>
           </p>
           <p className="text-xs text-ink-soft">
             Uploaded {formatDateTime(imp.createdAt)}
             {imp.createdBy ? ` by ${imp.createdBy}` : ''} · {formatNumber(imp.rows)} flight{imp.rows === 1 ? '' : 's'}
           </p>
         </div>
-        <span className={`rounded-full border px-2.5 py-0.5 text-xs font-medium ${status.className}`} data-testid="import-status">
+        <span
+          className={`rounded-full border px-2.5 py-0.5 text-xs font-medium ${status.className}`}
+          data-testid="import-status"
+        >
           {gone ? 'Deleted' : status.label}
         </span>
       </div>
@@ -264,7 +296,12 @@ function ImportItem({
               {imp.problemCount} note{imp.problemCount === 1 ? '' : 's'} on this import
             </summary>
             <div className="mt-2">
-              <ImportProblemsTable problems={imp.problems} total={imp.problemCount} caption={`Notes on import ${imp.id}`} heading="Note" />
+              <ImportProblemsTable
+                problems={imp.problems}
+                total={imp.problemCount}
+                caption={`Notes on import ${imp.id}`}
+                heading="Note"
+              />
             </div>
           </details>
         ) : null}
@@ -314,7 +351,16 @@ export function ImportList({
       ) : null}
       <ul className="divide-y divide-line" aria-label="Imports">
         {imports.map((imp) => (
-          <ImportItem key={imp.id} slug={slug} initial={imp} canDelete={canDelete} onDelete={remove} canRescreen={canRescreen} onRescreen={onRescreen} currentEngineVersion={currentEngineVersion} />
+          <ImportItem
+            key={imp.id}
+            slug={slug}
+            initial={imp}
+            canDelete={canDelete}
+            onDelete={remove}
+            canRescreen={canRescreen}
+            onRescreen={onRescreen}
+            currentEngineVersion={currentEngineVersion}
+          />
         ))}
       </ul>
     </div>

@@ -2,7 +2,17 @@ import type { ImportProblem } from '@/lib/validation/imports';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 
 /** Problems of a schedule file by line and column (line 1 is the header; line 0 is the file as a whole). */
-export function ImportProblemsTable({ problems, caption, total, heading = 'What to fix' }: { problems: readonly ImportProblem[]; caption: string; total?: number; heading?: string }) {
+export function ImportProblemsTable({
+  problems,
+  caption,
+  total,
+  heading = 'What to fix',
+}: {
+  problems: readonly ImportProblem[];
+  caption: string;
+  total?: number;
+  heading?: string;
+}) {
   return (
     <div>
       <ScrollRegion label={caption} className="max-h-80 overflow-y-auto rounded-md border border-line">
@@ -10,9 +20,15 @@ export function ImportProblemsTable({ problems, caption, total, heading = 'What 
           <caption className="sr-only">{caption}</caption>
           <thead className="sticky top-0 bg-paper-sunk text-left text-xs uppercase tracking-wide text-ink-soft">
             <tr>
-              <th scope="col" className="w-16 px-3 py-1.5">Line</th>
-              <th scope="col" className="w-40 px-3 py-1.5">Column</th>
-              <th scope="col" className="px-3 py-1.5">{heading}</th>
+              <th scope="col" className="w-16 px-3 py-1.5">
+                Line
+              </th>
+              <th scope="col" className="w-40 px-3 py-1.5">
+                Column
+              </th>
+              <th scope="col" className="px-3 py-1.5">
+                {heading}
+              </th>
             </tr>
           </thead>
           <tbody>

@@ -17,7 +17,13 @@ interface Estimate {
   perFlightCents: number;
   estimatedChargeCents: number;
   freePeriod: boolean;
-  budget: { budgetCents: number; usageChargeCents: number; afterImportCents: number; hardStop: boolean; wouldExceed: boolean } | null;
+  budget: {
+    budgetCents: number;
+    usageChargeCents: number;
+    afterImportCents: number;
+    hardStop: boolean;
+    wouldExceed: boolean;
+  } | null;
   warnings: ImportProblem[];
 }
 
@@ -39,25 +45,57 @@ async function upload(slug: string, file: File, dryRun: boolean): Promise<Outcom
   form.set('file', file);
   let res: Response;
   try {
-    res = await fetch(`/api/v1/workspaces/${slug}/imports${dryRun ? '?dryRun=1' : ''}`, { method: 'POST', body: form, credentials: 'same-origin' });
+    res = await fetch(`/api/v1/workspaces/${slug}/imports${dryRun ? '?dryRun=1' : ''}`, {
+      method: 'POST',
+      body: form,
+      credentials: 'same-origin',
+    });
   } catch {
-    return { kind: 'error', status: 0, message: 'The upload did not reach the server. Check the connection and try again.' };
+    return {
+      kind: 'error',
+      status: 0,
+      message: 'The upload did not reach the server. Check the connection and try again.',
+    };
   }
   const body = (await res.json().catch(() => null)) as (ImportDto & ErrorBody) | null;
   if (dryRun && res.status === 200 && body) return { kind: 'estimate', estimate: body as unknown as Estimate, file };
   if (res.status === 202 && body) return { kind: 'accepted', imp: body };
   if (res.status === 422 && body?.problems) {
-    return { kind: 'refused', message: body.error?.message ?? 'Some rows need attention.', problems: body.problems, total: body.problemCount ?? body.problems.length, warnings: body.warnings ?? [] };
+    return {
+      kind: 'refused',
+      message: body.error?.message ?? 'Some rows need attention.',
+      problems: body.problems,
+      total: body.problemCount ?? body.problems.length,
+      warnings: body.warnings ?? [],
+    };
   }
-  return { kind: 'error', status: res.status, message: body?.error?.message ?? `The upload failed (HTTP ${res.status}). Try again.` };
+  return {
+    kind: 'error',
+    status: res.status,
+    message: body?.error?.message ?? `The upload failed (HTTP ${res.status}). Try again.`,
+  };
 }
 
 /** What the import will cost, asked before anything is saved. */
-function ConfirmImport({ estimate, pending, onConfirm, onCancel }: { estimate: Estimate; pending: boolean; onConfirm: () => void; onCancel: () => void }) {
+function ConfirmImport({
+  estimate,
+  pending,
+  onConfirm,
+  onCancel,
+}: {
+  estimate: Estimate;
+  pending: boolean;
+  onConfirm: () => void;
+  onCancel: () => void;
+}) {
   const n = estimate.billableUnits.toLocaleString('en-GB');
   const blocked = estimate.budget?.wouldExceed && estimate.budget.hardStop;
   return (
-    <Notice tone={estimate.budget?.wouldExceed ? 'caution' : 'info'} role="status" title={`Every row is good: ${estimate.rows.toLocaleString('en-GB')} flight${estimate.rows === 1 ? '' : 's'} ready to import`}>
+    <Notice
+      tone={estimate.budget?.wouldExceed ? 'caution' : 'info'}
+      role="status"
+      title={`Every row is good: ${estimate.rows.toLocaleString('en-GB')} flight${estimate.rows === 1 ? '' : 's'} ready to import`}
+    >
       <p data-testid="import-estimate">
         Importing adds up to {n} billable unit{estimate.billableUnits === 1 ? '' : 's'} (one per flight screened)
         {estimate.freePeriod
@@ -66,8 +104,14 @@ function ConfirmImport({ estimate, pending, onConfirm, onCancel }: { estimate: E
       </p>
       {estimate.budget ? (
         <p className="mt-1">
-          Monthly usage budget {formatMoney(estimate.budget.budgetCents)}: {formatMoney(estimate.budget.usageChargeCents)} used so far, {formatMoney(estimate.budget.afterImportCents)} after this import.
-          {estimate.budget.wouldExceed ? (blocked ? ' This passes the budget and its hard stop is on, so the import would be refused; a finance admin or owner can raise the budget.' : ' This passes the budget.') : ''}
+          Monthly usage budget {formatMoney(estimate.budget.budgetCents)}:{' '}
+          {formatMoney(estimate.budget.usageChargeCents)} used so far, {formatMoney(estimate.budget.afterImportCents)}{' '}
+          after this import.
+          {estimate.budget.wouldExceed
+            ? blocked
+              ? ' This passes the budget and its hard stop is on, so the import would be refused; a finance admin or owner can raise the budget.'
+              : ' This passes the budget.'
+            : ''}
         </p>
       ) : null}
       <div className="mt-3 flex flex-wrap gap-2">
@@ -115,7 +159,12 @@ export function UploadForm({ slug, aside }: { slug: string; aside?: ReactNode })
     >
       <div className="grid gap-6 md:grid-cols-2">
         <div className="space-y-4">
-          <Field id="schedule-file" label="Schedule file (CSV)" hint="Every row is checked before anything is saved." error={missing ? 'Choose a CSV file first.' : undefined}>
+          <Field
+            id="schedule-file"
+            label="Schedule file (CSV)"
+            hint="Every row is checked before anything is saved."
+            error={missing ? 'Choose a CSV file first.' : undefined}
+          >
             <input
               id="schedule-file"
               name="file"
@@ -138,14 +187,29 @@ export function UploadForm({ slug, aside }: { slug: string; aside?: ReactNode })
         {aside ? <div className="min-w-0 border-line md:border-l md:pl-6">{aside}</div> : null}
       </div>
       <div aria-live="polite" className="space-y-3">
-        {outcome?.kind === 'estimate' ? <ConfirmImport estimate={outcome.estimate} pending={mutation.isPending} onConfirm={() => mutation.mutate({ f: outcome.file, dryRun: false })} onCancel={() => mutation.reset()} /> : null}
+        {outcome?.kind === 'estimate' ? (
+          <ConfirmImport
+            estimate={outcome.estimate}
+            pending={mutation.isPending}
+            onConfirm={() => mutation.mutate({ f: outcome.file, dryRun: false })}
+            onCancel={() => mutation.reset()}
+          />
+        ) : null}
         {outcome?.kind === 'accepted' ? (
-          <Notice tone="success" role="status" title={`Accepted: ${outcome.imp.rows.toLocaleString('en-GB')} flight${outcome.imp.rows === 1 ? '' : 's'} queued for screening`}>
+          <Notice
+            tone="success"
+            role="status"
+            title={`Accepted: ${outcome.imp.rows.toLocaleString('en-GB')} flight${outcome.imp.rows === 1 ? '' : 's'} queued for screening`}
+          >
             <p>Progress shows in the list below. Each flight screened is one billable unit.</p>
             {outcome.imp.problems.length ? (
               <div className="mt-3">
                 <p className="mb-1 font-medium">Noted, not refused:</p>
-                <ImportProblemsTable problems={outcome.imp.problems} caption="Notes on the accepted file" heading="Note" />
+                <ImportProblemsTable
+                  problems={outcome.imp.problems}
+                  caption="Notes on the accepted file"
+                  heading="Note"
+                />
               </div>
             ) : null}
           </Notice>
@@ -155,7 +219,11 @@ export function UploadForm({ slug, aside }: { slug: string; aside?: ReactNode })
             <Notice tone="danger" role="alert" title="Nothing was imported">
               {outcome.message}
             </Notice>
-            <ImportProblemsTable problems={outcome.problems} total={outcome.total} caption="Problems in the uploaded file" />
+            <ImportProblemsTable
+              problems={outcome.problems}
+              total={outcome.total}
+              caption="Problems in the uploaded file"
+            />
             {outcome.warnings.length ? (
               <div>
                 <p className="mb-1 text-sm font-medium">Also noted:</p>
@@ -165,7 +233,11 @@ export function UploadForm({ slug, aside }: { slug: string; aside?: ReactNode })
           </div>
         ) : null}
         {outcome?.kind === 'error' ? (
-          <Notice tone={outcome.status === 409 ? 'caution' : 'danger'} role="alert" title={outcome.status === 409 ? 'Already imported' : 'Not imported'}>
+          <Notice
+            tone={outcome.status === 409 ? 'caution' : 'danger'}
+            role="alert"
+            title={outcome.status === 409 ? 'Already imported' : 'Not imported'}
+          >
             {outcome.message}
           </Notice>
         ) : null}

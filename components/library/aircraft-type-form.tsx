@@ -4,14 +4,27 @@ import { useState } from 'react';
 import { useRouter } from 'next/navigation';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { aircraftTypeSaveSchema, type AircraftTypeForm as Values, type AircraftTypeSave } from '@/lib/validation/library';
+import {
+  aircraftTypeSaveSchema,
+  type AircraftTypeForm as Values,
+  type AircraftTypeSave,
+} from '@/lib/validation/library';
 import type { ActionState } from '@/lib/errors';
 import { Field, SelectInput, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { applyServerErrors } from '@/components/ui/server-errors';
 
-const KNOWN = ['code', 'name', 'engineId', 'directEiGPerKg', 'engineCount', 'typicalMach', 'typicalFlightLevel', 'defaultFleetId'];
+const KNOWN = [
+  'code',
+  'name',
+  'engineId',
+  'directEiGPerKg',
+  'engineCount',
+  'typicalMach',
+  'typicalFlightLevel',
+  'defaultFleetId',
+];
 const numberOrNull = (v: unknown) => (v === '' || v === null || v === undefined ? null : Number(v));
 
 type Choice = { id: number; name: string };
@@ -36,9 +49,23 @@ export function AircraftTypeForm({
 }) {
   const router = useRouter();
   const [message, setMessage] = useState<{ tone: 'success' | 'danger'; text: string }>();
-  const [kind, setKind] = useState<'engine' | 'direct'>(initial && initial.engineId === null && initial.directEiGPerKg !== null ? 'direct' : 'engine');
-  const blank: Values = { code: '', name: '', engineId: null, directEiGPerKg: null, engineCount: 2, typicalMach: 0.8, typicalFlightLevel: 350, defaultFleetId: null };
-  const form = useForm<Values, unknown, AircraftTypeSave>({ resolver: zodResolver(aircraftTypeSaveSchema), defaultValues: initial ?? blank });
+  const [kind, setKind] = useState<'engine' | 'direct'>(
+    initial && initial.engineId === null && initial.directEiGPerKg !== null ? 'direct' : 'engine',
+  );
+  const blank: Values = {
+    code: '',
+    name: '',
+    engineId: null,
+    directEiGPerKg: null,
+    engineCount: 2,
+    typicalMach: 0.8,
+    typicalFlightLevel: 350,
+    defaultFleetId: null,
+  };
+  const form = useForm<Values, unknown, AircraftTypeSave>({
+    resolver: zodResolver(aircraftTypeSaveSchema),
+    defaultValues: initial ?? blank,
+  });
   const { errors, isSubmitting } = form.formState;
   const isNew = !initial;
   const choose = (next: 'engine' | 'direct') => {
@@ -72,7 +99,13 @@ export function AircraftTypeForm({
       ) : null}
       <div className="grid gap-4 sm:grid-cols-[8rem_1fr]">
         <Field id={`${p}-code`} label="Type code" error={errors.code?.message} hint="Such as SK-LR1; kept in capitals.">
-          <TextInput id={`${p}-code`} autoComplete="off" className="font-mono uppercase" invalid={!!errors.code} {...form.register('code')} />
+          <TextInput
+            id={`${p}-code`}
+            autoComplete="off"
+            className="font-mono uppercase"
+            invalid={!!errors.code}
+            {...form.register('code')}
+          />
         </Field>
         <Field id={`${p}-name`} label="Name" error={errors.name?.message}>
           <TextInput id={`${p}-name`} autoComplete="off" invalid={!!errors.name} {...form.register('name')} />
@@ -92,8 +125,17 @@ export function AircraftTypeForm({
         </div>
         {kind === 'engine' ? (
           <div className="grid gap-4 sm:grid-cols-[1fr_8rem]">
-            <Field id={`${p}-engine`} label="Engine" error={errors.engineId?.message} hint={engines.length === 0 ? 'Add an engine first, below.' : undefined}>
-              <SelectInput id={`${p}-engine`} invalid={!!errors.engineId} {...form.register('engineId', { setValueAs: numberOrNull })}>
+            <Field
+              id={`${p}-engine`}
+              label="Engine"
+              error={errors.engineId?.message}
+              hint={engines.length === 0 ? 'Add an engine first, below.' : undefined}
+            >
+              <SelectInput
+                id={`${p}-engine`}
+                invalid={!!errors.engineId}
+                {...form.register('engineId', { setValueAs: numberOrNull })}
+              >
                 <option value="">Choose an engine…</option>
                 {engines.map((e) => (
                   <option key={e.id} value={e.id}>
@@ -103,7 +145,13 @@ export function AircraftTypeForm({
               </SelectInput>
             </Field>
             <Field id={`${p}-count`} label="Engines" error={errors.engineCount?.message} hint="1 to 8">
-              <TextInput id={`${p}-count`} inputMode="numeric" className="figure" invalid={!!errors.engineCount} {...form.register('engineCount', { valueAsNumber: true })} />
+              <TextInput
+                id={`${p}-count`}
+                inputMode="numeric"
+                className="figure"
+                invalid={!!errors.engineCount}
+                {...form.register('engineCount', { valueAsNumber: true })}
+              />
             </Field>
           </div>
         ) : (
@@ -114,20 +162,49 @@ export function AircraftTypeForm({
               error={errors.directEiGPerKg?.message}
               hint="For types without certification data, such as a supersonic concept: a measured or published cruise value, 0-200 g/kg."
             >
-              <TextInput id={`${p}-direct`} inputMode="decimal" className="figure" invalid={!!errors.directEiGPerKg} {...form.register('directEiGPerKg', { setValueAs: numberOrNull })} />
+              <TextInput
+                id={`${p}-direct`}
+                inputMode="decimal"
+                className="figure"
+                invalid={!!errors.directEiGPerKg}
+                {...form.register('directEiGPerKg', { setValueAs: numberOrNull })}
+              />
             </Field>
             <Field id={`${p}-count`} label="Engines" error={errors.engineCount?.message} hint="1 to 8">
-              <TextInput id={`${p}-count`} inputMode="numeric" className="figure" invalid={!!errors.engineCount} {...form.register('engineCount', { valueAsNumber: true })} />
+              <TextInput
+                id={`${p}-count`}
+                inputMode="numeric"
+                className="figure"
+                invalid={!!errors.engineCount}
+                {...form.register('engineCount', { valueAsNumber: true })}
+              />
             </Field>
           </div>
         )}
       </fieldset>
       <div className="grid gap-4 sm:grid-cols-2">
         <Field id={`${p}-mach`} label="Typical cruise Mach" error={errors.typicalMach?.message}>
-          <TextInput id={`${p}-mach`} inputMode="decimal" className="figure" invalid={!!errors.typicalMach} {...form.register('typicalMach', { valueAsNumber: true })} />
+          <TextInput
+            id={`${p}-mach`}
+            inputMode="decimal"
+            className="figure"
+            invalid={!!errors.typicalMach}
+            {...form.register('typicalMach', { valueAsNumber: true })}
+          />
         </Field>
-        <Field id={`${p}-fl`} label="Typical cruise flight level" error={errors.typicalFlightLevel?.message} hint="Hundreds of feet, such as 370">
-          <TextInput id={`${p}-fl`} inputMode="numeric" className="figure" invalid={!!errors.typicalFlightLevel} {...form.register('typicalFlightLevel', { valueAsNumber: true })} />
+        <Field
+          id={`${p}-fl`}
+          label="Typical cruise flight level"
+          error={errors.typicalFlightLevel?.message}
+          hint="Hundreds of feet, such as 370"
+        >
+          <TextInput
+            id={`${p}-fl`}
+            inputMode="numeric"
+            className="figure"
+            invalid={!!errors.typicalFlightLevel}
+            {...form.register('typicalFlightLevel', { valueAsNumber: true })}
+          />
         </Field>
       </div>
       <Field
@@ -137,14 +214,22 @@ export function AircraftTypeForm({
         hint={
           fleets.length === 0 ? (
             <>
-              No fleets yet; create them under <a href={fleetsHref} className="text-accent underline">Fleets</a>.
+              No fleets yet; create them under{' '}
+              <a href={fleetsHref} className="text-accent underline">
+                Fleets
+              </a>
+              .
             </>
           ) : (
             'Flights of this type count in this fleet unless their schedule says otherwise.'
           )
         }
       >
-        <SelectInput id={`${p}-fleet`} invalid={!!errors.defaultFleetId} {...form.register('defaultFleetId', { setValueAs: numberOrNull })}>
+        <SelectInput
+          id={`${p}-fleet`}
+          invalid={!!errors.defaultFleetId}
+          {...form.register('defaultFleetId', { setValueAs: numberOrNull })}
+        >
           <option value="">No default fleet</option>
           {fleets.map((f) => (
             <option key={f.id} value={f.id}>

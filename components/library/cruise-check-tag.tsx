@@ -17,7 +17,14 @@ export function CruiseCheckTag({ check }: { check: CruiseEiCheck }) {
       <Tag tone={check.band === 'typical' ? 'tropo' : 'caution'} title={note}>
         {check.band === 'typical' ? 'typical' : check.band === 'low' ? 'low' : 'high'}
       </Tag>
-      {check.extrapolated ? <Tag tone="caution" title="The cruise point lies outside the four certification points; the curve was extended.">extrapolated</Tag> : null}
+      {check.extrapolated ? (
+        <Tag
+          tone="caution"
+          title="The cruise point lies outside the four certification points; the curve was extended."
+        >
+          extrapolated
+        </Tag>
+      ) : null}
       <span className="sr-only">{note}</span>
     </span>
   );

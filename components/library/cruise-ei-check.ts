@@ -22,7 +22,10 @@ export interface CruiseEiCheck {
   extrapolated: boolean;
 }
 
-export function cruiseEiCheck(engine: { fuelFlowKgS: readonly [number, number, number, number]; eiNoxGPerKg: readonly [number, number, number, number] }): CruiseEiCheck {
+export function cruiseEiCheck(engine: {
+  fuelFlowKgS: readonly [number, number, number, number];
+  eiNoxGPerKg: readonly [number, number, number, number];
+}): CruiseEiCheck {
   const air = isa(flightLevelToMetres(CRUISE_CHECK.flightLevel));
   const fuelFlowPerEngineKgS = engine.fuelFlowKgS[3] * CRUISE_CHECK.takeOffFraction;
   const estimate = bffm2EiNox(buildEiCurve(engine, BFFM2_INSTALLATION_FACTORS), {

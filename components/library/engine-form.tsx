@@ -13,12 +13,20 @@ import { applyServerErrors } from '@/components/ui/server-errors';
 import { CRUISE_CHECK, cruiseEiCheck } from './cruise-ei-check';
 import { CruiseCheckTag } from './cruise-check-tag';
 
-const KNOWN = ['name', 'source', ...[0, 1, 2, 3].flatMap((i) => [`fuelFlowKgS.${i}`, `eiNoxGPerKg.${i}`]), 'fuelFlowKgS', 'eiNoxGPerKg'];
+const KNOWN = [
+  'name',
+  'source',
+  ...[0, 1, 2, 3].flatMap((i) => [`fuelFlowKgS.${i}`, `eiNoxGPerKg.${i}`]),
+  'fuelFlowKgS',
+  'eiNoxGPerKg',
+];
 
 function liveCheck(ff: unknown, ei: unknown) {
   const parsed = engineSaveSchema.safeParse({ name: 'check', fuelFlowKgS: ff, eiNoxGPerKg: ei });
   if (parsed.success) return cruiseEiCheck(parsed.data);
-  const all = [ff, ei].every((q) => Array.isArray(q) && q.length === 4 && q.every((v) => typeof v === 'number' && Number.isFinite(v)));
+  const all = [ff, ei].every(
+    (q) => Array.isArray(q) && q.length === 4 && q.every((v) => typeof v === 'number' && Number.isFinite(v)),
+  );
   return all ? 'invalid' : 'incomplete';
 }
 
@@ -46,9 +54,16 @@ export function EngineForm(props: Props) {
  * 100 %) the fuel flow per engine in kg/s and the EI NOx in g/kg, as on the certification data
  * sheet, plus a note of the source. Shows the cruise EI check as the numbers are typed.
  */
-function EngineFormBody({ action, initial, savedMessage, onCreated }: Props & { savedMessage?: string; onCreated: (message: string) => void }) {
+function EngineFormBody({
+  action,
+  initial,
+  savedMessage,
+  onCreated,
+}: Props & { savedMessage?: string; onCreated: (message: string) => void }) {
   const router = useRouter();
-  const [message, setMessage] = useState<{ tone: 'success' | 'danger'; text: string } | undefined>(savedMessage ? { tone: 'success', text: savedMessage } : undefined);
+  const [message, setMessage] = useState<{ tone: 'success' | 'danger'; text: string } | undefined>(
+    savedMessage ? { tone: 'success', text: savedMessage } : undefined,
+  );
   const form = useForm<Values, unknown, EngineSave>({
     resolver: zodResolver(engineSaveSchema),
     defaultValues: initial ?? { name: '', source: '' },
@@ -82,9 +97,13 @@ function EngineFormBody({ action, initial, savedMessage, onCreated }: Props & { 
       </Field>
       <fieldset>
         <legend className="text-sm font-medium text-ink">Certification data per engine (ICAO LTO modes)</legend>
-        <p className="mt-0.5 text-xs text-ink-faint">Fuel flow in kg/s must rise from idle to take-off; EI NOx in g NO2 per kg of fuel, above 0 and at most 200.</p>
+        <p className="mt-0.5 text-xs text-ink-faint">
+          Fuel flow in kg/s must rise from idle to take-off; EI NOx in g NO2 per kg of fuel, above 0 and at most 200.
+        </p>
         {errors.fuelFlowKgS?.root?.message || errors.fuelFlowKgS?.message ? (
-          <p role="alert" className="mt-1 text-xs font-medium text-danger">{errors.fuelFlowKgS?.root?.message ?? errors.fuelFlowKgS?.message}</p>
+          <p role="alert" className="mt-1 text-xs font-medium text-danger">
+            {errors.fuelFlowKgS?.root?.message ?? errors.fuelFlowKgS?.message}
+          </p>
         ) : null}
         <div className="mt-2 grid grid-cols-[minmax(6.5rem,auto)_1fr_1fr] items-start gap-x-3 gap-y-2">
           <span className="text-xs font-medium uppercase tracking-wide text-ink-soft">Mode</span>
@@ -101,13 +120,33 @@ function EngineFormBody({ action, initial, savedMessage, onCreated }: Props & { 
                 </span>
                 <div>
                   <label htmlFor={`${p}-ff-${i}`} className="sr-only">{`${mode.label} fuel flow (kg/s)`}</label>
-                  <TextInput id={`${p}-ff-${i}`} inputMode="decimal" className="figure" invalid={!!ffError} {...form.register(`fuelFlowKgS.${i}`, { valueAsNumber: true })} />
-                  {ffError ? <p id={`${p}-ff-${i}-error`} role="alert" className="mt-1 text-xs font-medium text-danger">{ffError}</p> : null}
+                  <TextInput
+                    id={`${p}-ff-${i}`}
+                    inputMode="decimal"
+                    className="figure"
+                    invalid={!!ffError}
+                    {...form.register(`fuelFlowKgS.${i}`, { valueAsNumber: true })}
+                  />
+                  {ffError ? (
+                    <p id={`${p}-ff-${i}-error`} role="alert" className="mt-1 text-xs font-medium text-danger">
+                      {ffError}
+                    </p>
+                  ) : null}
                 </div>
                 <div>
                   <label htmlFor={`${p}-ei-${i}`} className="sr-only">{`${mode.label} EI NOx (g/kg)`}</label>
-                  <TextInput id={`${p}-ei-${i}`} inputMode="decimal" className="figure" invalid={!!eiError} {...form.register(`eiNoxGPerKg.${i}`, { valueAsNumber: true })} />
-                  {eiError ? <p id={`${p}-ei-${i}-error`} role="alert" className="mt-1 text-xs font-medium text-danger">{eiError}</p> : null}
+                  <TextInput
+                    id={`${p}-ei-${i}`}
+                    inputMode="decimal"
+                    className="figure"
+                    invalid={!!eiError}
+                    {...form.register(`eiNoxGPerKg.${i}`, { valueAsNumber: true })}
+                  />
+                  {eiError ? (
+                    <p id={`${p}-ei-${i}-error`} role="alert" className="mt-1 text-xs font-medium text-danger">
+                      {eiError}
+                    </p>
+                  ) : null}
                 </div>
               </div>
             );
@@ -127,7 +166,12 @@ function EngineFormBody({ action, initial, savedMessage, onCreated }: Props & { 
           <CruiseCheckTag check={check} />
         )}
       </div>
-      <Field id={`${p}-source`} label="Source of the values" error={errors.source?.message} hint="The data sheet, issue and date, or who supplied the numbers.">
+      <Field
+        id={`${p}-source`}
+        label="Source of the values"
+        error={errors.source?.message}
+        hint="The data sheet, issue and date, or who supplied the numbers."
+      >
         <TextArea id={`${p}-source`} rows={2} invalid={!!errors.source} {...form.register('source')} />
       </Field>
       <Button type="submit" disabled={isSubmitting}>

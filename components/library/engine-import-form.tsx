@@ -13,7 +13,12 @@ export function EngineImportForm({ slug }: { slug: string }) {
   const input = useRef<HTMLInputElement>(null);
   const [busy, setBusy] = useState(false);
   const [fileError, setFileError] = useState<string>();
-  const [result, setResult] = useState<{ tone: 'success' | 'danger'; text: string; problems: CsvProblemView[]; warnings: CsvProblemView[] }>();
+  const [result, setResult] = useState<{
+    tone: 'success' | 'danger';
+    text: string;
+    problems: CsvProblemView[];
+    warnings: CsvProblemView[];
+  }>();
   const endpoint = `/api/v1/workspaces/${slug}/engines/import`;
   const submit = async (e: React.FormEvent) => {
     e.preventDefault();
@@ -31,7 +36,12 @@ export function EngineImportForm({ slug }: { slug: string }) {
     setBusy(false);
     if (out.ok && out.body) {
       const n = out.body.items.length;
-      setResult({ tone: 'success', text: `Imported ${n} engine${n === 1 ? '' : 's'}.`, problems: [], warnings: out.warnings });
+      setResult({
+        tone: 'success',
+        text: `Imported ${n} engine${n === 1 ? '' : 's'}.`,
+        problems: [],
+        warnings: out.warnings,
+      });
       if (input.current) input.current.value = '';
       router.refresh();
     } else setResult({ tone: 'danger', text: out.message, problems: out.problems, warnings: out.warnings });
@@ -39,7 +49,12 @@ export function EngineImportForm({ slug }: { slug: string }) {
   return (
     <form onSubmit={submit} noValidate className="space-y-3">
       <p className="text-sm text-ink-soft">
-        One engine per line with the columns <code className="text-xs">name, idle_ff_kg_s, approach_ff_kg_s, climb_out_ff_kg_s, take_off_ff_kg_s, idle_ei, approach_ei, climb_out_ei, take_off_ei, source</code>. If any line has a problem, nothing is imported.{' '}
+        One engine per line with the columns{' '}
+        <code className="text-xs">
+          name, idle_ff_kg_s, approach_ff_kg_s, climb_out_ff_kg_s, take_off_ff_kg_s, idle_ei, approach_ei, climb_out_ei,
+          take_off_ei, source
+        </code>
+        . If any line has a problem, nothing is imported.{' '}
         <a href={endpoint} download="engines-template.csv" className="text-accent underline">
           Download the template
         </a>
@@ -72,7 +87,9 @@ export function EngineImportForm({ slug }: { slug: string }) {
           <Notice tone={result.tone} role={result.tone === 'danger' ? 'alert' : 'status'}>
             {result.text}
           </Notice>
-          {result.problems.length ? <ProblemsTable problems={result.problems} caption="Problems in the engines file" /> : null}
+          {result.problems.length ? (
+            <ProblemsTable problems={result.problems} caption="Problems in the engines file" />
+          ) : null}
           {result.warnings.length ? (
             <div>
               <p className="mb-1 text-xs font-medium text-ink-soft">Ignored</p>

@@ -12,9 +12,15 @@ export function ProblemsTable({ problems, caption }: { problems: readonly CsvPro
         <caption className="sr-only">{caption}</caption>
         <thead className="sticky top-0 bg-paper-sunk text-left text-xs uppercase tracking-wide text-ink-soft">
           <tr>
-            <th scope="col" className="px-3 py-1.5">Line</th>
-            <th scope="col" className="px-3 py-1.5">Column</th>
-            <th scope="col" className="px-3 py-1.5">Problem</th>
+            <th scope="col" className="px-3 py-1.5">
+              Line
+            </th>
+            <th scope="col" className="px-3 py-1.5">
+              Column
+            </th>
+            <th scope="col" className="px-3 py-1.5">
+              Problem
+            </th>
           </tr>
         </thead>
         <tbody>

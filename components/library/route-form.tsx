@@ -54,7 +54,12 @@ export function RouteForm({
           {message.text}
         </Notice>
       ) : null}
-      <Field id={`${idp}-name`} label="Route name" error={errors.name?.message} hint="Unique in this workspace, such as “LHR–SEA polar, winter”.">
+      <Field
+        id={`${idp}-name`}
+        label="Route name"
+        error={errors.name?.message}
+        hint="Unique in this workspace, such as “LHR–SEA polar, winter”."
+      >
         <TextInput id={`${idp}-name`} autoComplete="off" invalid={!!errors.name} {...form.register('name')} />
       </Field>
       <Field
@@ -63,9 +68,21 @@ export function RouteForm({
         error={errors.waypointsText?.message}
         hint="One per line: an airport code (EGLL or LHR), or latitude, longitude in degrees (north and east positive), such as 80, -60. Several codes may share a line."
       >
-        <TextArea id={`${idp}-waypoints`} rows={6} spellCheck={false} className="font-mono" invalid={!!errors.waypointsText} {...form.register('waypointsText')} />
+        <TextArea
+          id={`${idp}-waypoints`}
+          rows={6}
+          spellCheck={false}
+          className="font-mono"
+          invalid={!!errors.waypointsText}
+          {...form.register('waypointsText')}
+        />
       </Field>
-      <Field id={`${idp}-notes`} label="Notes" error={errors.notes?.message} hint={`Optional, up to ${ROUTE_NOTES_MAX} characters: when this track is flown, why it matters.`}>
+      <Field
+        id={`${idp}-notes`}
+        label="Notes"
+        error={errors.notes?.message}
+        hint={`Optional, up to ${ROUTE_NOTES_MAX} characters: when this track is flown, why it matters.`}
+      >
         <TextArea id={`${idp}-notes`} rows={3} invalid={!!errors.notes} {...form.register('notes')} />
       </Field>
       <Button type="submit" disabled={isSubmitting}>

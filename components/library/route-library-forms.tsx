@@ -8,17 +8,40 @@ import { ProblemsTable, type CsvProblemView } from './problems-table';
 import { postUpload } from './upload';
 
 const KINDS = {
-  fixes: { label: 'Fixes CSV', columns: 'name, lat, lon (decimal degrees), optional region to tell same-named points apart', file: 'fixes-template.csv', button: 'Upload fixes' },
-  airways: { label: 'Airways CSV', columns: 'airway, sequence, fix: one row per point, in any order; an airway already here is replaced', file: 'airways-template.csv', button: 'Upload airways' },
+  fixes: {
+    label: 'Fixes CSV',
+    columns: 'name, lat, lon (decimal degrees), optional region to tell same-named points apart',
+    file: 'fixes-template.csv',
+    button: 'Upload fixes',
+  },
+  airways: {
+    label: 'Airways CSV',
+    columns: 'airway, sequence, fix: one row per point, in any order; an airway already here is replaced',
+    file: 'airways-template.csv',
+    button: 'Upload airways',
+  },
 } as const;
 
 /** Uploads a fix or airway CSV to the workspace library; problems come back by line and column. */
-export function RouteLibraryUploadForm({ slug, kind, templateHref }: { slug: string; kind: keyof typeof KINDS; templateHref: string }) {
+export function RouteLibraryUploadForm({
+  slug,
+  kind,
+  templateHref,
+}: {
+  slug: string;
+  kind: keyof typeof KINDS;
+  templateHref: string;
+}) {
   const router = useRouter();
   const file = useRef<HTMLInputElement>(null);
   const [busy, setBusy] = useState(false);
   const [fileError, setFileError] = useState<string>();
-  const [outcome, setOutcome] = useState<{ ok: boolean; text: string; problems: CsvProblemView[]; warnings: CsvProblemView[] }>();
+  const [outcome, setOutcome] = useState<{
+    ok: boolean;
+    text: string;
+    problems: CsvProblemView[];
+    warnings: CsvProblemView[];
+  }>();
   const k = KINDS[kind];
   const id = `${kind}-file`;
   return (
@@ -37,10 +60,18 @@ export function RouteLibraryUploadForm({ slug, kind, templateHref }: { slug: str
         setBusy(true);
         const body = new FormData();
         body.set('file', chosen);
-        const out = await postUpload<{ added: number; updated: number }>(`/api/v1/workspaces/${slug}/${kind}/upload`, body);
+        const out = await postUpload<{ added: number; updated: number }>(
+          `/api/v1/workspaces/${slug}/${kind}/upload`,
+          body,
+        );
         setBusy(false);
         if (out.ok && out.body) {
-          setOutcome({ ok: true, text: `${out.body.added} added, ${out.body.updated} ${kind === 'fixes' ? 'moved' : 'replaced'}.`, problems: [], warnings: out.warnings });
+          setOutcome({
+            ok: true,
+            text: `${out.body.added} added, ${out.body.updated} ${kind === 'fixes' ? 'moved' : 'replaced'}.`,
+            problems: [],
+            warnings: out.warnings,
+          });
           if (file.current) file.current.value = '';
           router.refresh();
           return;
@@ -83,8 +114,12 @@ export function RouteLibraryUploadForm({ slug, kind, templateHref }: { slug: str
           <Notice tone={outcome.ok ? 'success' : 'danger'} role={outcome.ok ? 'status' : 'alert'}>
             {outcome.text}
           </Notice>
-          {outcome.problems.length ? <ProblemsTable problems={outcome.problems} caption="Problems in the file" /> : null}
-          {outcome.warnings.length ? <ProblemsTable problems={outcome.warnings} caption="Columns that were ignored" /> : null}
+          {outcome.problems.length ? (
+            <ProblemsTable problems={outcome.problems} caption="Problems in the file" />
+          ) : null}
+          {outcome.warnings.length ? (
+            <ProblemsTable problems={outcome.warnings} caption="Columns that were ignored" />
+          ) : null}
         </div>
       ) : null}
     </form>

@@ -20,7 +20,10 @@ export function SoundingUploadForm({ slug, templateHref }: { slug: string; templ
   const [chosen, setChosen] = useState<File>();
   const [fileError, setFileError] = useState<string>();
   const [result, setResult] = useState<{ text: string; problems: CsvProblemView[]; warnings: CsvProblemView[] }>();
-  const form = useForm<SoundingMetaForm, unknown, SoundingMeta>({ resolver: zodResolver(soundingMetaSchema), defaultValues: { name: '', station: '', observedAt: '' } });
+  const form = useForm<SoundingMetaForm, unknown, SoundingMeta>({
+    resolver: zodResolver(soundingMetaSchema),
+    defaultValues: { name: '', station: '', observedAt: '' },
+  });
   const { errors, isSubmitting } = form.formState;
   const onSubmit = form.handleSubmit(async () => {
     setResult(undefined);
@@ -41,7 +44,8 @@ export function SoundingUploadForm({ slug, templateHref }: { slug: string; templ
       return;
     }
     for (const f of out.fields) {
-      if (f.path === 'name' || f.path === 'station' || f.path === 'observedAt') form.setError(f.path, { type: 'server', message: f.message });
+      if (f.path === 'name' || f.path === 'station' || f.path === 'observedAt')
+        form.setError(f.path, { type: 'server', message: f.message });
     }
     setResult({ text: out.message, problems: out.problems, warnings: out.warnings });
   });
@@ -51,11 +55,31 @@ export function SoundingUploadForm({ slug, templateHref }: { slug: string; templ
         <TextInput id="sounding-name" autoComplete="off" invalid={!!errors.name} {...form.register('name')} />
       </Field>
       <div className="grid gap-4">
-        <Field id="sounding-station" label="Station" error={errors.station?.message} hint="Optional: the station or model grid point.">
-          <TextInput id="sounding-station" autoComplete="off" invalid={!!errors.station} {...form.register('station')} />
+        <Field
+          id="sounding-station"
+          label="Station"
+          error={errors.station?.message}
+          hint="Optional: the station or model grid point."
+        >
+          <TextInput
+            id="sounding-station"
+            autoComplete="off"
+            invalid={!!errors.station}
+            {...form.register('station')}
+          />
         </Field>
-        <Field id="sounding-observed" label="Observation time (UTC)" error={errors.observedAt?.message} hint="Optional.">
-          <TextInput id="sounding-observed" type="datetime-local" invalid={!!errors.observedAt} {...form.register('observedAt')} />
+        <Field
+          id="sounding-observed"
+          label="Observation time (UTC)"
+          error={errors.observedAt?.message}
+          hint="Optional."
+        >
+          <TextInput
+            id="sounding-observed"
+            type="datetime-local"
+            invalid={!!errors.observedAt}
+            {...form.register('observedAt')}
+          />
         </Field>
       </div>
       <div className="space-y-1">
@@ -77,7 +101,8 @@ export function SoundingUploadForm({ slug, templateHref }: { slug: string; templ
           </p>
         ) : (
           <p id="sounding-file-hint" className="text-xs text-ink-faint">
-            One level per line: <code>altitude_m</code> and/or <code>pressure_hpa</code>, and <code>temperature_k</code> or <code>temperature_c</code>; any order, 3 to 500 levels.{' '}
+            One level per line: <code>altitude_m</code> and/or <code>pressure_hpa</code>, and <code>temperature_k</code>{' '}
+            or <code>temperature_c</code>; any order, 3 to 500 levels.{' '}
             <a href={templateHref} download="sounding-template.csv" className="text-accent underline">
               Download a template
             </a>
@@ -93,8 +118,12 @@ export function SoundingUploadForm({ slug, templateHref }: { slug: string; templ
           <Notice tone="danger" role="alert">
             {result.text}
           </Notice>
-          {result.problems.length ? <ProblemsTable problems={result.problems} caption="Problems in the sounding file" /> : null}
-          {result.warnings.length ? <ProblemsTable problems={result.warnings} caption="Columns that were ignored" /> : null}
+          {result.problems.length ? (
+            <ProblemsTable problems={result.problems} caption="Problems in the sounding file" />
+          ) : null}
+          {result.warnings.length ? (
+            <ProblemsTable problems={result.warnings} caption="Columns that were ignored" />
+          ) : null}
         </div>
       ) : null}
     </form>

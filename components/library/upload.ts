@@ -16,9 +16,18 @@ export async function postUpload<T>(url: string, form: FormData): Promise<Upload
   try {
     res = await fetch(url, { method: 'POST', body: form, credentials: 'same-origin' });
   } catch {
-    return { ok: false, status: 0, body: null, message: 'The upload did not reach the server. Check your connection and try again.', problems: [], warnings: [], fields: [] };
+    return {
+      ok: false,
+      status: 0,
+      body: null,
+      message: 'The upload did not reach the server. Check your connection and try again.',
+      problems: [],
+      warnings: [],
+      fields: [],
+    };
   }
-  const data = (await res.json().catch(() => null)) as (Record<string, unknown> & { error?: { message?: string; fields?: { path: string; message: string }[] } }) | null;
+  const data = (await res.json().catch(() => null)) as
+    (Record<string, unknown> & { error?: { message?: string; fields?: { path: string; message: string }[] } }) | null;
   const list = (v: unknown): CsvProblemView[] => (Array.isArray(v) ? (v as CsvProblemView[]) : []);
   return {
     ok: res.ok,

@@ -53,7 +53,9 @@ function runsOf(points: readonly MapPoint[], segments: readonly MapSegment[]): {
   }
   const mids = segments.map((s): LonLat => [s.lon, s.lat]);
   const first: LonLat = points.length ? [points[0].lon, points[0].lat] : mids[0];
-  const last: LonLat = points.length ? [points[points.length - 1].lon, points[points.length - 1].lat] : mids[mids.length - 1];
+  const last: LonLat = points.length
+    ? [points[points.length - 1].lon, points[points.length - 1].lat]
+    : mids[mids.length - 1];
   const runs: { above: boolean; line: LonLat[] }[] = [];
   let current = { above: segments[0].aboveTropopause, line: [first, mids[0]] as LonLat[] };
   for (let i = 1; i < segments.length; i++) {
@@ -77,7 +79,12 @@ type Projection = ReturnType<typeof geoAzimuthalEqualArea>;
  * Puts a label on the side of its point away from the route, so its halo never hides the line:
  * opposite the mean direction towards the neighbouring route points, kept inside the frame.
  */
-function labelPlacement(projection: Projection, line: readonly LonLat[], at: LonLat, xy: [number, number]): { dx: number; dy: number; anchor: 'start' | 'middle' | 'end' } {
+function labelPlacement(
+  projection: Projection,
+  line: readonly LonLat[],
+  at: LonLat,
+  xy: [number, number],
+): { dx: number; dy: number; anchor: 'start' | 'middle' | 'end' } {
   let vx = 0;
   let vy = 0;
   let nearest = 0;
@@ -121,12 +128,37 @@ function labelPlacement(projection: Projection, line: readonly LonLat[], at: Lon
  * The route on an azimuthal equal-area projection centred on the route, fitted with padding: polar
  * and transpolar great circles stay readable, unlike on a cylindrical map. Drawn on the server.
  */
-export function RouteMap({ points, segments, title }: { points: readonly MapPoint[]; segments: readonly MapSegment[]; title: string }) {
+export function RouteMap({
+  points,
+  segments,
+  title,
+}: {
+  points: readonly MapPoint[];
+  segments: readonly MapSegment[];
+  title: string;
+}) {
   const runs = runsOf(points, segments);
   const all: LonLat[] = runs.flatMap((r) => r.line);
-  const routeLine: Feature<LineString> = { type: 'Feature', properties: {}, geometry: { type: 'LineString', coordinates: all.length >= 2 ? all : [[0, 0], [0, 0]] } };
+  const routeLine: Feature<LineString> = {
+    type: 'Feature',
+    properties: {},
+    geometry: {
+      type: 'LineString',
+      coordinates:
+        all.length >= 2
+          ? all
+          : [
+              [0, 0],
+              [0, 0],
+            ],
+    },
+  };
   const centre = geoCentroid(routeLine) as LonLat;
-  const frame: Feature<Geometry> = { type: 'Feature', properties: {}, geometry: geoCircle().center(centre).radius(MIN_FRAME_RADIUS_DEG)() };
+  const frame: Feature<Geometry> = {
+    type: 'Feature',
+    properties: {},
+    geometry: geoCircle().center(centre).radius(MIN_FRAME_RADIUS_DEG)(),
+  };
   const projection = geoAzimuthalEqualArea()
     .rotate([-centre[0], -centre[1]])
     .fitExtent(
@@ -144,7 +176,13 @@ export function RouteMap({ points, segments, title }: { points: readonly MapPoin
   const labelled = points.filter((p, i) => p.label !== null || i === 0 || i === points.length - 1);
   return (
     <figure>
-      <svg viewBox={`0 0 ${WIDTH} ${HEIGHT}`} role="img" aria-label={title} className="h-auto w-full rounded-md border border-line" data-testid="route-map">
+      <svg
+        viewBox={`0 0 ${WIDTH} ${HEIGHT}`}
+        role="img"
+        aria-label={title}
+        className="h-auto w-full rounded-md border border-line"
+        data-testid="route-map"
+      >
         <title>{title}</title>
         <defs>
           <clipPath id="route-map-frame">
@@ -170,7 +208,17 @@ export function RouteMap({ points, segments, title }: { points: readonly MapPoin
           {points.map((p, i) => {
             const xy = projection([p.lon, p.lat]);
             if (!xy) return null;
-            return <circle key={`pt-${i}`} cx={xy[0]} cy={xy[1]} r={p.label ? 7 : 5} fill="#ffffff" stroke={INK} strokeWidth={2.5} />;
+            return (
+              <circle
+                key={`pt-${i}`}
+                cx={xy[0]}
+                cy={xy[1]}
+                r={p.label ? 7 : 5}
+                fill="#ffffff"
+                stroke={INK}
+                strokeWidth={2.5}
+              />
+            );
           })}
           {labelled.map((p, i) => {
             const xy = projection([p.lon, p.lat]);

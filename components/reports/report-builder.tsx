@@ -40,9 +40,11 @@ export function ReportBuilder({ slug, fleets, defaults, action }: Props) {
     }
     const text = applyServerErrors(state, form.setError, ['name', 'from', 'to', 'fleetIds']);
     if (text) setMessage(text);
-    else if (state && !state.ok && state.error.fields?.some((f) => f.path.startsWith('fleetIds.'))) setMessage('One of the chosen fleets no longer exists. Reload the page and choose again.');
+    else if (state && !state.ok && state.error.fields?.some((f) => f.path.startsWith('fleetIds.')))
+      setMessage('One of the chosen fleets no longer exists. Reload the page and choose again.');
   });
-  const fleetError = errors.fleetIds?.message ?? (Array.isArray(errors.fleetIds) ? 'Choose fleets from the list.' : undefined);
+  const fleetError =
+    errors.fleetIds?.message ?? (Array.isArray(errors.fleetIds) ? 'Choose fleets from the list.' : undefined);
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4" aria-label="Build a fleet report">
       {message ? (
@@ -57,7 +59,12 @@ export function ReportBuilder({ slug, fleets, defaults, action }: Props) {
         <Field id="report-to" label="Period to" error={errors.to?.message}>
           <TextInput id="report-to" type="date" invalid={!!errors.to} {...form.register('to')} />
         </Field>
-        <Field id="report-name" label="Name (optional)" error={errors.name?.message} hint="Defaults to “Fleet report <from> to <to>”">
+        <Field
+          id="report-name"
+          label="Name (optional)"
+          error={errors.name?.message}
+          hint="Defaults to “Fleet report <from> to <to>”"
+        >
           <TextInput id="report-name" invalid={!!errors.name} {...form.register('name')} />
         </Field>
       </div>

@@ -18,7 +18,10 @@ interface Props {
 /** Recipients typed in one box (commas, spaces or new lines), an optional note; the PDF goes attached. */
 export function ReportSendForm({ slug, reportId, action }: Props) {
   const [message, setMessage] = useState<{ tone: 'success' | 'danger'; text: string }>();
-  const form = useForm<FormValues>({ resolver: zodResolver(reportSendFormSchema), defaultValues: { recipientsText: '', note: '' } });
+  const form = useForm<FormValues>({
+    resolver: zodResolver(reportSendFormSchema),
+    defaultValues: { recipientsText: '', note: '' },
+  });
   const { errors, isSubmitting } = form.formState;
   const onSubmit = form.handleSubmit(async (values) => {
     setMessage(undefined);
@@ -29,7 +32,9 @@ export function ReportSendForm({ slug, reportId, action }: Props) {
       return;
     }
     if (!state) return;
-    const recipientProblem = state.error.fields?.find((f) => f.path === 'recipients' || f.path.startsWith('recipients.') || f.path === 'recipientsText');
+    const recipientProblem = state.error.fields?.find(
+      (f) => f.path === 'recipients' || f.path.startsWith('recipients.') || f.path === 'recipientsText',
+    );
     if (recipientProblem) form.setError('recipientsText', { type: 'server', message: recipientProblem.message });
     else setMessage({ tone: 'danger', text: state.error.message });
   });
@@ -40,8 +45,19 @@ export function ReportSendForm({ slug, reportId, action }: Props) {
           {message.text}
         </Notice>
       ) : null}
-      <Field id="send-recipients" label="Recipients" error={errors.recipientsText?.message} hint={`E-mail addresses separated by commas or new lines, at most ${MAX_RECIPIENTS}.`}>
-        <TextArea id="send-recipients" rows={3} invalid={!!errors.recipientsText} placeholder="sustainability@example.com, board@example.com" {...form.register('recipientsText')} />
+      <Field
+        id="send-recipients"
+        label="Recipients"
+        error={errors.recipientsText?.message}
+        hint={`E-mail addresses separated by commas or new lines, at most ${MAX_RECIPIENTS}.`}
+      >
+        <TextArea
+          id="send-recipients"
+          rows={3}
+          invalid={!!errors.recipientsText}
+          placeholder="sustainability@example.com, board@example.com"
+          {...form.register('recipientsText')}
+        />
       </Field>
       <Field id="send-note" label="Note (optional)" error={errors.note?.message}>
         <TextInput id="send-note" invalid={!!errors.note} {...form.register('note')} />

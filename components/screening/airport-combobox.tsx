@@ -17,7 +17,10 @@ export interface AirportOption {
 const codeOf = (a: AirportOption): string => a.icao ?? a.iata ?? '';
 
 async function fetchAirports(q: string, signal: AbortSignal): Promise<AirportOption[]> {
-  const res = await fetch(`/api/v1/airports?q=${encodeURIComponent(q)}&limit=8`, { signal, headers: { accept: 'application/json' } });
+  const res = await fetch(`/api/v1/airports?q=${encodeURIComponent(q)}&limit=8`, {
+    signal,
+    headers: { accept: 'application/json' },
+  });
   if (!res.ok) throw new Error('The airport list could not be reached.');
   return ((await res.json()) as { items: AirportOption[] }).items;
 }
@@ -82,7 +85,10 @@ export function AirportCombobox({ id, label, value, onChange, onBlur, error, nam
     }
   };
 
-  const hint = picked && codeOf(picked) === value.trim().toUpperCase() ? `${picked.name}, ${picked.country}` : 'ICAO (EGLL) or IATA (LHR) code, or type a name';
+  const hint =
+    picked && codeOf(picked) === value.trim().toUpperCase()
+      ? `${picked.name}, ${picked.country}`
+      : 'ICAO (EGLL) or IATA (LHR) code, or type a name';
   const describedBy = error ? `${id}-error` : `${id}-hint`;
   return (
     <div className="relative space-y-1">
@@ -125,9 +131,15 @@ export function AirportCombobox({ id, label, value, onChange, onBlur, error, nam
         hidden={!showList}
         className="absolute z-20 mt-1 max-h-72 w-full min-w-[18rem] overflow-auto rounded-md border border-line-strong bg-paper-raised py-1 text-sm shadow-lg"
       >
-        {showList && query.isFetching && options.length === 0 ? <li className="px-3 py-2 text-ink-faint">Looking up airports…</li> : null}
-        {showList && query.isError ? <li className="px-3 py-2 text-danger">The airport list could not be reached. Type the code instead.</li> : null}
-        {showList && query.isSuccess && options.length === 0 ? <li className="px-3 py-2 text-ink-faint">No airport matches “{q}”.</li> : null}
+        {showList && query.isFetching && options.length === 0 ? (
+          <li className="px-3 py-2 text-ink-faint">Looking up airports…</li>
+        ) : null}
+        {showList && query.isError ? (
+          <li className="px-3 py-2 text-danger">The airport list could not be reached. Type the code instead.</li>
+        ) : null}
+        {showList && query.isSuccess && options.length === 0 ? (
+          <li className="px-3 py-2 text-ink-faint">No airport matches “{q}”.</li>
+        ) : null}
         {options.map((a, i) => (
           <li
             key={`${codeOf(a)}-${i}`}

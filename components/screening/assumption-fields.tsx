@@ -37,8 +37,9 @@ export function AssumptionFields({
       <summary className="cursor-pointer text-sm font-semibold text-ink">Ozone-figure assumptions (advanced)</summary>
       <div className="mt-4 space-y-5">
         <p className="text-xs text-ink-soft">
-          Leave a box blank to keep the default shown in it. The low and high cases are worked out with all inputs at their low or high values
-          together, so the range is deliberately wide. These inputs change the ozone figure only, not the NOx.
+          Leave a box blank to keep the default shown in it. The low and high cases are worked out with all inputs at
+          their low or high values together, so the range is deliberately wide. These inputs change the ozone figure
+          only, not the NOx.
         </p>
         {BAND_KEYS.map((key) => {
           const d = defaults[key];
@@ -50,8 +51,19 @@ export function AssumptionFields({
                   const id = `assumptions-${key}-${part}`;
                   const error = errorAt(`assumptions.${key}.${part}`);
                   return (
-                    <Field key={part} id={id} label={<span className="text-xs font-normal text-ink-soft">{part}</span>} error={error}>
-                      <TextInput id={id} inputMode="decimal" placeholder={sci(d[part])} invalid={!!error} {...register(`assumptions.${key}.${part}`)} />
+                    <Field
+                      key={part}
+                      id={id}
+                      label={<span className="text-xs font-normal text-ink-soft">{part}</span>}
+                      error={error}
+                    >
+                      <TextInput
+                        id={id}
+                        inputMode="decimal"
+                        placeholder={sci(d[part])}
+                        invalid={!!error}
+                        {...register(`assumptions.${key}.${part}`)}
+                      />
                     </Field>
                   );
                 })}
@@ -60,11 +72,33 @@ export function AssumptionFields({
           );
         })}
         <div className="grid gap-3 sm:grid-cols-2">
-          <Field id="assumptions-ohCm3" label="OH, molecules per cm³" hint={`Default ${sci(defaults.ohCm3)}; sets the chain length.`} error={errorAt('assumptions.ohCm3')}>
-            <TextInput id="assumptions-ohCm3" inputMode="decimal" placeholder={sci(defaults.ohCm3)} invalid={!!errorAt('assumptions.ohCm3')} {...register('assumptions.ohCm3')} />
+          <Field
+            id="assumptions-ohCm3"
+            label="OH, molecules per cm³"
+            hint={`Default ${sci(defaults.ohCm3)}; sets the chain length.`}
+            error={errorAt('assumptions.ohCm3')}
+          >
+            <TextInput
+              id="assumptions-ohCm3"
+              inputMode="decimal"
+              placeholder={sci(defaults.ohCm3)}
+              invalid={!!errorAt('assumptions.ohCm3')}
+              {...register('assumptions.ohCm3')}
+            />
           </Field>
-          <Field id="assumptions-ho2Cm3" label="HO2, molecules per cm³" hint={`Default ${sci(defaults.ho2Cm3)}; local budget only.`} error={errorAt('assumptions.ho2Cm3')}>
-            <TextInput id="assumptions-ho2Cm3" inputMode="decimal" placeholder={sci(defaults.ho2Cm3)} invalid={!!errorAt('assumptions.ho2Cm3')} {...register('assumptions.ho2Cm3')} />
+          <Field
+            id="assumptions-ho2Cm3"
+            label="HO2, molecules per cm³"
+            hint={`Default ${sci(defaults.ho2Cm3)}; local budget only.`}
+            error={errorAt('assumptions.ho2Cm3')}
+          >
+            <TextInput
+              id="assumptions-ho2Cm3"
+              inputMode="decimal"
+              placeholder={sci(defaults.ho2Cm3)}
+              invalid={!!errorAt('assumptions.ho2Cm3')}
+              {...register('assumptions.ho2Cm3')}
+            />
           </Field>
           <Field
             id="assumptions-relativeHumidity"
@@ -80,8 +114,17 @@ export function AssumptionFields({
               {...register('assumptions.relativeHumidity')}
             />
           </Field>
-          <Field id="assumptions-ozoneProfile" label="Ozone profile" hint="Default: chosen by latitude band and season." error={errorAt('assumptions.ozoneProfile')}>
-            <SelectInput id="assumptions-ozoneProfile" invalid={!!errorAt('assumptions.ozoneProfile')} {...register('assumptions.ozoneProfile')}>
+          <Field
+            id="assumptions-ozoneProfile"
+            label="Ozone profile"
+            hint="Default: chosen by latitude band and season."
+            error={errorAt('assumptions.ozoneProfile')}
+          >
+            <SelectInput
+              id="assumptions-ozoneProfile"
+              invalid={!!errorAt('assumptions.ozoneProfile')}
+              {...register('assumptions.ozoneProfile')}
+            >
               <option value="">By latitude and season (default)</option>
               {OZONE_PROFILE_NAMES.map((n) => (
                 <option key={n} value={n}>
@@ -93,7 +136,8 @@ export function AssumptionFields({
         </div>
         <p className="text-xs text-ink-soft">
           Residence time above the tropopause (fixed here; the API accepts other values):{' '}
-          {rt.depthKm.map((dk, i) => `${dk} km ${rt.years[i]} yr`).join(', ')}, × {rt.lowFactor} for the low case and × {rt.highFactor} for the high case.
+          {rt.depthKm.map((dk, i) => `${dk} km ${rt.years[i]} yr`).join(', ')}, × {rt.lowFactor} for the low case and ×{' '}
+          {rt.highFactor} for the high case.
         </p>
       </div>
     </details>

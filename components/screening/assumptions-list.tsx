@@ -1,7 +1,19 @@
 import type { ScreeningResult } from '@/lib/screening';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 
-const SUPERSCRIPT: Record<string, string> = { '-': '⁻', '0': '⁰', '1': '¹', '2': '²', '3': '³', '4': '⁴', '5': '⁵', '6': '⁶', '7': '⁷', '8': '⁸', '9': '⁹' };
+const SUPERSCRIPT: Record<string, string> = {
+  '-': '⁻',
+  '0': '⁰',
+  '1': '¹',
+  '2': '²',
+  '3': '³',
+  '4': '⁴',
+  '5': '⁵',
+  '6': '⁶',
+  '7': '⁷',
+  '8': '⁸',
+  '9': '⁹',
+};
 
 /** 0.00045 -> "4.5 × 10⁻⁴"; plain decimals between 0.01 and 10 000. */
 export function sci(n: number): string {
@@ -14,7 +26,11 @@ export function sci(n: number): string {
 }
 
 /** How the figures were made: the method notes of the result and the ozone-figure inputs with their sources. */
-export function AssumptionsList({ result }: { result: Pick<ScreeningResult, 'assumptions' | 'ozoneLoss' | 'engineVersion'> }) {
+export function AssumptionsList({
+  result,
+}: {
+  result: Pick<ScreeningResult, 'assumptions' | 'ozoneLoss' | 'engineVersion'>;
+}) {
   const a = result.ozoneLoss.assumptions;
   const bands: [string, { low: number; central: number; high: number; source: string }][] = [
     ['J(O3 → O(3P)), overhead sun, s⁻¹', a.jO3NoonPerS],
@@ -34,17 +50,29 @@ export function AssumptionsList({ result }: { result: Pick<ScreeningResult, 'ass
           <caption className="mb-2 text-left font-medium text-ink">Ozone-figure inputs (low – central – high)</caption>
           <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
             <tr>
-              <th scope="col" className="py-1.5 pr-3">Input</th>
-              <th scope="col" className="py-1.5 pr-3 text-right">Low</th>
-              <th scope="col" className="py-1.5 pr-3 text-right">Central</th>
-              <th scope="col" className="py-1.5 pr-3 text-right">High</th>
-              <th scope="col" className="py-1.5">Source</th>
+              <th scope="col" className="py-1.5 pr-3">
+                Input
+              </th>
+              <th scope="col" className="py-1.5 pr-3 text-right">
+                Low
+              </th>
+              <th scope="col" className="py-1.5 pr-3 text-right">
+                Central
+              </th>
+              <th scope="col" className="py-1.5 pr-3 text-right">
+                High
+              </th>
+              <th scope="col" className="py-1.5">
+                Source
+              </th>
             </tr>
           </thead>
           <tbody className="figure">
             {bands.map(([label, b]) => (
               <tr key={label} className="border-t border-line align-top">
-                <th scope="row" className="py-1.5 pr-3 text-left font-normal">{label}</th>
+                <th scope="row" className="py-1.5 pr-3 text-left font-normal">
+                  {label}
+                </th>
                 <td className="py-1.5 pr-3 text-right">{sci(b.low)}</td>
                 <td className="py-1.5 pr-3 text-right">{sci(b.central)}</td>
                 <td className="py-1.5 pr-3 text-right">{sci(b.high)}</td>
@@ -53,16 +81,20 @@ export function AssumptionsList({ result }: { result: Pick<ScreeningResult, 'ass
             ))}
             {a.sunlight ? (
               <tr className="border-t border-line align-top">
-                <th scope="row" className="py-1.5 pr-3 text-left font-normal">Sunlight (NOx-weighted)</th>
+                <th scope="row" className="py-1.5 pr-3 text-left font-normal">
+                  Sunlight (NOx-weighted)
+                </th>
                 <td colSpan={3} className="py-1.5 pr-3 text-right">
-                  day fraction {sci(a.sunlight.dayFraction)}, daily-mean cos zenith {sci(a.sunlight.meanCosZenith)}, daytime cos zenith{' '}
-                  {sci(a.sunlight.daytimeCosZenith)}, over {sci(a.sunlight.residenceWindowYears)} yr
+                  day fraction {sci(a.sunlight.dayFraction)}, daily-mean cos zenith {sci(a.sunlight.meanCosZenith)},
+                  daytime cos zenith {sci(a.sunlight.daytimeCosZenith)}, over {sci(a.sunlight.residenceWindowYears)} yr
                 </td>
                 <td className="py-1.5 text-xs text-ink-soft">{a.sunlight.source}</td>
               </tr>
             ) : null}
             <tr className="border-t border-line align-top">
-              <th scope="row" className="py-1.5 pr-3 text-left font-normal">Residence time above the tropopause</th>
+              <th scope="row" className="py-1.5 pr-3 text-left font-normal">
+                Residence time above the tropopause
+              </th>
               <td colSpan={3} className="py-1.5 pr-3 text-right">
                 {a.residenceTime.tropicalYears ? 'extratropics ' : ''}
                 {a.residenceTime.depthKm.map((d, i) => `${d} km: ${a.residenceTime.years[i]} yr`).join(', ')}
@@ -74,13 +106,21 @@ export function AssumptionsList({ result }: { result: Pick<ScreeningResult, 'ass
               <td className="py-1.5 text-xs text-ink-soft">{a.residenceTime.source}</td>
             </tr>
             <tr className="border-t border-line align-top">
-              <th scope="row" className="py-1.5 pr-3 text-left font-normal">OH, molecules cm⁻³</th>
-              <td colSpan={3} className="py-1.5 pr-3 text-right">{sci(a.ohCm3.value)}</td>
+              <th scope="row" className="py-1.5 pr-3 text-left font-normal">
+                OH, molecules cm⁻³
+              </th>
+              <td colSpan={3} className="py-1.5 pr-3 text-right">
+                {sci(a.ohCm3.value)}
+              </td>
               <td className="py-1.5 text-xs text-ink-soft">{a.ohCm3.source}</td>
             </tr>
             <tr className="border-t border-line align-top">
-              <th scope="row" className="py-1.5 pr-3 text-left font-normal">Ozone profile</th>
-              <td colSpan={3} className="py-1.5 pr-3 text-right">{a.ozoneProfile.profilesUsed.join(', ') || '–'}</td>
+              <th scope="row" className="py-1.5 pr-3 text-left font-normal">
+                Ozone profile
+              </th>
+              <td colSpan={3} className="py-1.5 pr-3 text-right">
+                {a.ozoneProfile.profilesUsed.join(', ') || '–'}
+              </td>
               <td className="py-1.5 text-xs text-ink-soft">
                 {a.ozoneProfile.choice}. {a.ozoneProfile.source}
               </td>

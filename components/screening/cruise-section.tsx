@@ -8,7 +8,17 @@ import { FieldProblem, ModeSwitch, Section } from './screen-form-parts';
 import type { AircraftChoice } from './screen-form-types';
 
 /** Cruise: one flight level or step climbs (each at a distance or at a waypoint), and the Mach. */
-export function CruiseSection({ form, units, selectedAircraft, errorAt }: { form: UseFormReturn<ScreenFormValues>; units: UnitSystem; selectedAircraft: AircraftChoice | undefined; errorAt: (path: string) => string | undefined }) {
+export function CruiseSection({
+  form,
+  units,
+  selectedAircraft,
+  errorAt,
+}: {
+  form: UseFormReturn<ScreenFormValues>;
+  units: UnitSystem;
+  selectedAircraft: AircraftChoice | undefined;
+  errorAt: (path: string) => string | undefined;
+}) {
   const { control, register, setValue, formState } = form;
   const values = form.watch();
   const steps = useFieldArray({ control, name: 'steps' });
@@ -16,8 +26,12 @@ export function CruiseSection({ form, units, selectedAircraft, errorAt }: { form
   // Waypoints a step climb may start at: the route's intermediate points (index in the route).
   const stepWaypoints =
     values.routeMode === 'airports'
-      ? values.airports.slice(1, -1).map((a, k) => ({ index: k + 1, label: `${a.code.trim().toUpperCase() || `Stop ${k + 1}`} (stop ${k + 1})` }))
-      : values.points.slice(1, -1).map((p, k) => ({ index: k + 1, label: `Point ${k + 2}${p.lat && p.lon ? ` (${p.lat}, ${p.lon})` : ''}` }));
+      ? values.airports
+          .slice(1, -1)
+          .map((a, k) => ({ index: k + 1, label: `${a.code.trim().toUpperCase() || `Stop ${k + 1}`} (stop ${k + 1})` }))
+      : values.points
+          .slice(1, -1)
+          .map((p, k) => ({ index: k + 1, label: `Point ${k + 2}${p.lat && p.lon ? ` (${p.lat}, ${p.lon})` : ''}` }));
   return (
     <Section title="Cruise">
       <ModeSwitch
@@ -31,10 +45,21 @@ export function CruiseSection({ form, units, selectedAircraft, errorAt }: { form
         onChange={(v) => setValue('cruiseMode', v, { shouldValidate: formState.isSubmitted })}
       />
       {values.cruiseMode === 'level' ? (
-        <Field id="flightLevel" label="Flight level" hint="Hundreds of feet on 1013.25 hPa, such as 350 for FL350." error={errorAt('flightLevel')} className="max-w-xs">
+        <Field
+          id="flightLevel"
+          label="Flight level"
+          hint="Hundreds of feet on 1013.25 hPa, such as 350 for FL350."
+          error={errorAt('flightLevel')}
+          className="max-w-xs"
+        >
           <div className="flex items-center gap-2">
             <span className="text-sm font-medium text-ink-soft">FL</span>
-            <TextInput id="flightLevel" inputMode="numeric" invalid={!!errorAt('flightLevel')} {...register('flightLevel')} />
+            <TextInput
+              id="flightLevel"
+              inputMode="numeric"
+              invalid={!!errorAt('flightLevel')}
+              {...register('flightLevel')}
+            />
           </div>
         </Field>
       ) : (
@@ -48,9 +73,23 @@ export function CruiseSection({ form, units, selectedAircraft, errorAt }: { form
                 </div>
               ) : (
                 <div className="min-w-0 flex-1 space-y-2">
-                  <Field id={`steps-${i}-from`} label={`Step ${i} starts at (${u.distance})`}
-                    hint={values.steps[i]?.at ? 'Placed at the waypoint below.' : `Distance from departure in ${u.distance}.`} error={errorAt(`steps.${i}.from`)}>
-                    <TextInput id={`steps-${i}-from`} inputMode="decimal" disabled={!!values.steps[i]?.at} invalid={!!errorAt(`steps.${i}.from`)} {...register(`steps.${i}.from`)} />
+                  <Field
+                    id={`steps-${i}-from`}
+                    label={`Step ${i} starts at (${u.distance})`}
+                    hint={
+                      values.steps[i]?.at
+                        ? 'Placed at the waypoint below.'
+                        : `Distance from departure in ${u.distance}.`
+                    }
+                    error={errorAt(`steps.${i}.from`)}
+                  >
+                    <TextInput
+                      id={`steps-${i}-from`}
+                      inputMode="decimal"
+                      disabled={!!values.steps[i]?.at}
+                      invalid={!!errorAt(`steps.${i}.from`)}
+                      {...register(`steps.${i}.from`)}
+                    />
                   </Field>
                   {stepWaypoints.length ? (
                     <Field id={`steps-${i}-at`} label={`or step ${i} at a waypoint`}>
@@ -66,11 +105,26 @@ export function CruiseSection({ form, units, selectedAircraft, errorAt }: { form
                   ) : null}
                 </div>
               )}
-              <Field id={`steps-${i}-flightLevel`} label={i === 0 ? 'Initial flight level' : `Step ${i} flight level`} error={errorAt(`steps.${i}.flightLevel`)} className="min-w-0 flex-1">
-                <TextInput id={`steps-${i}-flightLevel`} inputMode="numeric" invalid={!!errorAt(`steps.${i}.flightLevel`)} {...register(`steps.${i}.flightLevel`)} />
+              <Field
+                id={`steps-${i}-flightLevel`}
+                label={i === 0 ? 'Initial flight level' : `Step ${i} flight level`}
+                error={errorAt(`steps.${i}.flightLevel`)}
+                className="min-w-0 flex-1"
+              >
+                <TextInput
+                  id={`steps-${i}-flightLevel`}
+                  inputMode="numeric"
+                  invalid={!!errorAt(`steps.${i}.flightLevel`)}
+                  {...register(`steps.${i}.flightLevel`)}
+                />
               </Field>
               {i > 0 ? (
-                <Button variant="ghost" className="mt-6" onClick={() => steps.remove(i)} aria-label={`Remove step ${i}`}>
+                <Button
+                  variant="ghost"
+                  className="mt-6"
+                  onClick={() => steps.remove(i)}
+                  aria-label={`Remove step ${i}`}
+                >
                   Remove
                 </Button>
               ) : (
@@ -84,7 +138,11 @@ export function CruiseSection({ form, units, selectedAircraft, errorAt }: { form
             onClick={() => {
               const last = values.steps[values.steps.length - 1];
               const fl = Number(last?.flightLevel);
-              steps.append({ from: '', flightLevel: Number.isFinite(fl) ? String(Math.min(660, fl + 20)) : '', at: '' });
+              steps.append({
+                from: '',
+                flightLevel: Number.isFinite(fl) ? String(Math.min(660, fl + 20)) : '',
+                at: '',
+              });
             }}
             disabled={steps.fields.length >= 50}
           >
@@ -95,13 +153,24 @@ export function CruiseSection({ form, units, selectedAircraft, errorAt }: { form
       <Field
         id="mach"
         label="Cruise Mach (optional)"
-        hint={selectedAircraft && values.emissionMode === 'aircraft' ? `Blank: the type's typical Mach ${selectedAircraft.typicalMach}.` : 'Blank: Mach 0.80. Used for timing along the route.'}
+        hint={
+          selectedAircraft && values.emissionMode === 'aircraft'
+            ? `Blank: the type's typical Mach ${selectedAircraft.typicalMach}.`
+            : 'Blank: Mach 0.80. Used for timing along the route.'
+        }
         error={errorAt('mach')}
         className="max-w-xs"
       >
-        <TextInput id="mach" inputMode="decimal" placeholder={selectedAircraft && values.emissionMode === 'aircraft' ? String(selectedAircraft.typicalMach) : '0.80'} invalid={!!errorAt('mach')} {...register('mach')} />
+        <TextInput
+          id="mach"
+          inputMode="decimal"
+          placeholder={
+            selectedAircraft && values.emissionMode === 'aircraft' ? String(selectedAircraft.typicalMach) : '0.80'
+          }
+          invalid={!!errorAt('mach')}
+          {...register('mach')}
+        />
       </Field>
     </Section>
-
   );
 }

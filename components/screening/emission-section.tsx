@@ -8,15 +8,35 @@ import { ModeSwitch, Section } from './screen-form-parts';
 import type { AircraftChoice, EngineChoice } from './screen-form-types';
 
 /** Fuel and the EI NOx: from the aircraft type, an engine, or given directly. */
-export function EmissionSection({ form, units, aircraft, engines, errorAt }: { form: UseFormReturn<ScreenFormValues>; units: UnitSystem; aircraft: AircraftChoice[]; engines: EngineChoice[]; errorAt: (path: string) => string | undefined }) {
+export function EmissionSection({
+  form,
+  units,
+  aircraft,
+  engines,
+  errorAt,
+}: {
+  form: UseFormReturn<ScreenFormValues>;
+  units: UnitSystem;
+  aircraft: AircraftChoice[];
+  engines: EngineChoice[];
+  errorAt: (path: string) => string | undefined;
+}) {
   const { register, setValue, formState } = form;
   const values = form.watch();
   const u = unitLabels(units);
   const selectedAircraft = aircraft.find((a) => a.code === values.aircraft);
-  const showMethod = values.emissionMode === 'engine' || (values.emissionMode === 'aircraft' && !!selectedAircraft?.emission && 'engine' in selectedAircraft.emission);
+  const showMethod =
+    values.emissionMode === 'engine' ||
+    (values.emissionMode === 'aircraft' && !!selectedAircraft?.emission && 'engine' in selectedAircraft.emission);
   return (
     <Section title="Fuel and emission">
-      <Field id="fuelBurn" label={`Cruise fuel burn (${u.mass})`} hint="Fuel burned along the entered track at cruise; climb and descent are not modelled." error={errorAt('fuelBurn')} className="max-w-xs">
+      <Field
+        id="fuelBurn"
+        label={`Cruise fuel burn (${u.mass})`}
+        hint="Fuel burned along the entered track at cruise; climb and descent are not modelled."
+        error={errorAt('fuelBurn')}
+        className="max-w-xs"
+      >
         <TextInput id="fuelBurn" inputMode="decimal" invalid={!!errorAt('fuelBurn')} {...register('fuelBurn')} />
       </Field>
       <ModeSwitch
@@ -52,7 +72,8 @@ export function EmissionSection({ form, units, aircraft, engines, errorAt }: { f
               {...register('aircraft', {
                 onChange: (e: { target: { value: string } }) => {
                   const type = aircraft.find((a) => a.code === e.target.value);
-                  if (type && !form.getFieldState('flightLevel').isDirty) setValue('flightLevel', String(type.typicalFlightLevel));
+                  if (type && !form.getFieldState('flightLevel').isDirty)
+                    setValue('flightLevel', String(type.typicalFlightLevel));
                 },
               })}
             >
@@ -66,7 +87,10 @@ export function EmissionSection({ form, units, aircraft, engines, errorAt }: { f
             </SelectInput>
           </Field>
         ) : (
-          <Notice tone="info">No aircraft types in this workspace yet. Add one under Engines &amp; aircraft, or choose an engine or give the EI NOx.</Notice>
+          <Notice tone="info">
+            No aircraft types in this workspace yet. Add one under Engines &amp; aircraft, or choose an engine or give
+            the EI NOx.
+          </Notice>
         )
       ) : null}
       {values.emissionMode === 'engine' ? (
@@ -83,15 +107,27 @@ export function EmissionSection({ form, units, aircraft, engines, errorAt }: { f
               </SelectInput>
             </Field>
             <Field id="engineCount" label="Engines" error={errorAt('engineCount')}>
-              <TextInput id="engineCount" inputMode="numeric" invalid={!!errorAt('engineCount')} {...register('engineCount')} />
+              <TextInput
+                id="engineCount"
+                inputMode="numeric"
+                invalid={!!errorAt('engineCount')}
+                {...register('engineCount')}
+              />
             </Field>
           </div>
         ) : (
-          <Notice tone="info">No engines in this workspace yet. Add one under Engines &amp; aircraft, or give the EI NOx.</Notice>
+          <Notice tone="info">
+            No engines in this workspace yet. Add one under Engines &amp; aircraft, or give the EI NOx.
+          </Notice>
         )
       ) : null}
       {showMethod ? (
-        <Field id="method" label="Fuel-flow method" hint="Both are worked out; this one gives the figures, the other is shown beside it." className="max-w-sm">
+        <Field
+          id="method"
+          label="Fuel-flow method"
+          hint="Both are worked out; this one gives the figures, the other is shown beside it."
+          className="max-w-sm"
+        >
           <SelectInput id="method" {...register('method')}>
             <option value="bffm2">Boeing Fuel Flow Method 2</option>
             <option value="dlr">DLR fuel-flow method</option>
@@ -99,11 +135,16 @@ export function EmissionSection({ form, units, aircraft, engines, errorAt }: { f
         </Field>
       ) : null}
       {values.emissionMode === 'direct' ? (
-        <Field id="eiNox" label="Cruise EI NOx (g NO2 per kg fuel)" hint="A measured or published cruise value; preferred above Mach 1." error={errorAt('eiNox')} className="max-w-xs">
+        <Field
+          id="eiNox"
+          label="Cruise EI NOx (g NO2 per kg fuel)"
+          hint="A measured or published cruise value; preferred above Mach 1."
+          error={errorAt('eiNox')}
+          className="max-w-xs"
+        >
           <TextInput id="eiNox" inputMode="decimal" invalid={!!errorAt('eiNox')} {...register('eiNox')} />
         </Field>
       ) : null}
     </Section>
-
   );
 }

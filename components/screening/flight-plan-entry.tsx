@@ -31,7 +31,10 @@ function typedName(text: string): string | null {
 
 async function fetchNames(slug: string, q: string, signal: AbortSignal): Promise<string[]> {
   const get = async (what: 'fixes' | 'airways') => {
-    const res = await fetch(`/api/v1/workspaces/${slug}/${what}?q=${encodeURIComponent(q)}&limit=8`, { signal, headers: { accept: 'application/json' } });
+    const res = await fetch(`/api/v1/workspaces/${slug}/${what}?q=${encodeURIComponent(q)}&limit=8`, {
+      signal,
+      headers: { accept: 'application/json' },
+    });
     if (!res.ok) return [];
     return ((await res.json()) as { items: { name: string }[] }).items.map((i) => i.name);
   };
@@ -45,7 +48,17 @@ async function fetchNames(slug: string, q: string, signal: AbortSignal): Promise
  * marked read, looked up, not found (with the reason) or ignored, and coordinates that can be named
  * into the fix library in one click.
  */
-export function FlightPlanEntry({ slug, form, errorAt, understood }: { slug: string; form: UseFormReturn<ScreenFormValues>; errorAt: (path: string) => string | undefined; understood: FlightPlanUsed | undefined }) {
+export function FlightPlanEntry({
+  slug,
+  form,
+  errorAt,
+  understood,
+}: {
+  slug: string;
+  form: UseFormReturn<ScreenFormValues>;
+  errorAt: (path: string) => string | undefined;
+  understood: FlightPlanUsed | undefined;
+}) {
   const { control, register, setValue, watch } = form;
   const text = watch('flightPlan.text');
   const typing = typedName(text ?? '');
@@ -76,12 +89,20 @@ export function FlightPlanEntry({ slug, form, errorAt, understood }: { slug: str
       body: JSON.stringify({ fixes }),
     }).catch(() => null);
     if (res?.ok) {
-      setSaveNote({ ok: true, text: `${fixes.length} point${fixes.length === 1 ? '' : 's'} added to the fix library.` });
+      setSaveNote({
+        ok: true,
+        text: `${fixes.length} point${fixes.length === 1 ? '' : 's'} added to the fix library.`,
+      });
       setPointNames({});
       return;
     }
-    const body = (await res?.json().catch(() => null)) as { error?: { message?: string; fields?: { message: string }[] } } | null;
-    setSaveNote({ ok: false, text: body?.error?.fields?.[0]?.message ?? body?.error?.message ?? 'The points could not be added.' });
+    const body = (await res?.json().catch(() => null)) as {
+      error?: { message?: string; fields?: { message: string }[] };
+    } | null;
+    setSaveNote({
+      ok: false,
+      text: body?.error?.fields?.[0]?.message ?? body?.error?.message ?? 'The points could not be added.',
+    });
   };
 
   return (
@@ -113,7 +134,15 @@ export function FlightPlanEntry({ slug, form, errorAt, understood }: { slug: str
         error={errorAt('flightPlan.text')}
         hint="Speed and level first, then points, airways and DCT: N0480F350 DCT 62N020W 63N030W/N0480F370 DCT. Its levels replace the cruise below."
       >
-        <TextArea id="flight-plan-text" rows={4} className="font-mono uppercase" spellCheck={false} autoComplete="off" invalid={!!errorAt('flightPlan.text')} {...register('flightPlan.text')} />
+        <TextArea
+          id="flight-plan-text"
+          rows={4}
+          className="font-mono uppercase"
+          spellCheck={false}
+          autoComplete="off"
+          invalid={!!errorAt('flightPlan.text')}
+          {...register('flightPlan.text')}
+        />
       </Field>
       {suggestions.length ? (
         <div className="flex flex-wrap items-center gap-2 text-xs" aria-label="Names in this workspace's library">
@@ -123,7 +152,13 @@ export function FlightPlanEntry({ slug, form, errorAt, understood }: { slug: str
               key={n}
               type="button"
               className="rounded border border-line-strong px-2 py-0.5 font-mono hover:bg-paper-raised"
-              onClick={() => setValue('flightPlan.text', `${(text ?? '').slice(0, (text ?? '').length - (typing?.length ?? 0))}${n} `, { shouldDirty: true })}
+              onClick={() =>
+                setValue(
+                  'flightPlan.text',
+                  `${(text ?? '').slice(0, (text ?? '').length - (typing?.length ?? 0))}${n} `,
+                  { shouldDirty: true },
+                )
+              }
             >
               {n}
             </button>
@@ -132,9 +167,17 @@ export function FlightPlanEntry({ slug, form, errorAt, understood }: { slug: str
       ) : null}
       {understood ? (
         <div className="space-y-2">
-          <ul className="flex flex-wrap gap-1.5 text-xs" aria-label="How each item was understood" data-testid="flight-plan-items">
+          <ul
+            className="flex flex-wrap gap-1.5 text-xs"
+            aria-label="How each item was understood"
+            data-testid="flight-plan-items"
+          >
             {understood.items.map((it) => (
-              <li key={`${it.position}-${it.item}`} className={`rounded px-1.5 py-0.5 font-mono ${STATUS[it.status].className}`} title={reasons.get(it.position) ?? it.detail}>
+              <li
+                key={`${it.position}-${it.item}`}
+                className={`rounded px-1.5 py-0.5 font-mono ${STATUS[it.status].className}`}
+                title={reasons.get(it.position) ?? it.detail}
+              >
                 {it.item} <span className="font-sans">· {STATUS[it.status].label}</span>
               </li>
             ))}
@@ -151,7 +194,9 @@ export function FlightPlanEntry({ slug, form, errorAt, understood }: { slug: str
           ) : null}
           {understood.notes.length ? (
             <details className="text-xs text-ink-soft">
-              <summary className="cursor-pointer">{understood.notes.length} note{understood.notes.length === 1 ? '' : 's'} on how the route was read</summary>
+              <summary className="cursor-pointer">
+                {understood.notes.length} note{understood.notes.length === 1 ? '' : 's'} on how the route was read
+              </summary>
               <ul className="mt-1 list-disc pl-5">
                 {understood.notes.map((n, i) => (
                   <li key={i}>{n}</li>

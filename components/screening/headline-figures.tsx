@@ -24,13 +24,28 @@ export type HeadlineResult = Pick<
 > & { ozoneLoss: Pick<ScreeningResult['ozoneLoss'], 'centralKg' | 'lowKg' | 'highKg'> };
 
 /** Percentiles shown as the headline band when the screening was sampled. */
-export type HeadlineBands = Pick<ScreeningUncertainty, 'noxAboveTropopauseKg' | 'fractionAboveTropopause' | 'ozoneLossKg' | 'samples'>;
+export type HeadlineBands = Pick<
+  ScreeningUncertainty,
+  'noxAboveTropopauseKg' | 'fractionAboveTropopause' | 'ozoneLossKg' | 'samples'
+>;
 
 /** The headline figures of one screening, in the user's units; with `bands` the 5-95 % band leads and the all-corners band is the screening range. */
-export function HeadlineFigures({ result, units, compact = false, bands }: { result: HeadlineResult; units: UnitSystem; compact?: boolean; bands?: HeadlineBands | null }) {
+export function HeadlineFigures({
+  result,
+  units,
+  compact = false,
+  bands,
+}: {
+  result: HeadlineResult;
+  units: UnitSystem;
+  compact?: boolean;
+  bands?: HeadlineBands | null;
+}) {
   const r = result;
   const b = bands ?? null;
-  const band = (lo: number, hi: number) => <span data-testid="band-5-95">5–95 %: {formatMassRange(lo, hi, units)}</span>;
+  const band = (lo: number, hi: number) => (
+    <span data-testid="band-5-95">5–95 %: {formatMassRange(lo, hi, units)}</span>
+  );
   const grid = compact ? 'grid gap-3 sm:grid-cols-2 xl:grid-cols-3' : 'grid gap-3 sm:grid-cols-2 lg:grid-cols-4';
   return (
     <div className={grid} data-testid="headline-figures">
@@ -42,16 +57,23 @@ export function HeadlineFigures({ result, units, compact = false, bands }: { res
         value={<span data-testid="nox-above">{formatMass(r.noxAboveTropopauseKg, units)}</span>}
         sub={
           b ? (
-            <>
-              {band(b.noxAboveTropopauseKg.p5, b.noxAboveTropopauseKg.p95)} · as NO2
-            </>
+            <>{band(b.noxAboveTropopauseKg.p5, b.noxAboveTropopauseKg.p95)} · as NO2</>
           ) : (
             `as NO2 · ${formatMass(r.noxAboveTropopauseKgN, units)} as N`
           )
         }
         tone="strato"
       />
-      <Stat label="Share above" value={<span data-testid="share-above">{formatPercent(r.fractionAboveTropopause, 1)}</span>} sub={b ? `5–95 %: ${formatPercent(b.fractionAboveTropopause.p5, 1)} – ${formatPercent(b.fractionAboveTropopause.p95, 1)}` : "of the flight's NOx mass"} tone="strato" />
+      <Stat
+        label="Share above"
+        value={<span data-testid="share-above">{formatPercent(r.fractionAboveTropopause, 1)}</span>}
+        sub={
+          b
+            ? `5–95 %: ${formatPercent(b.fractionAboveTropopause.p5, 1)} – ${formatPercent(b.fractionAboveTropopause.p95, 1)}`
+            : "of the flight's NOx mass"
+        }
+        tone="strato"
+      />
       <Stat
         label="Mean depth above"
         value={r.noxAboveTropopauseKg > 0 ? formatAltitude(r.meanDepthAboveTropopauseKm * 1000, units) : '–'}
@@ -64,7 +86,9 @@ export function HeadlineFigures({ result, units, compact = false, bands }: { res
         sub={
           b ? (
             <>
-              {band(b.ozoneLossKg.p5, b.ozoneLossKg.p95)}; screening range {formatMassRange(r.ozoneLoss.lowKg, r.ozoneLoss.highKg, units)} (every input low, then high, together); gross catalytic loss
+              {band(b.ozoneLossKg.p5, b.ozoneLossKg.p95)}; screening range{' '}
+              {formatMassRange(r.ozoneLoss.lowKg, r.ozoneLoss.highKg, units)} (every input low, then high, together);
+              gross catalytic loss
             </>
           ) : (
             `O3, screening range ${formatMassRange(r.ozoneLoss.lowKg, r.ozoneLoss.highKg, units)} (every input low, then high, together: not a confidence interval); gross catalytic loss`

@@ -3,7 +3,14 @@
 import { useMemo, useState } from 'react';
 import Link from 'next/link';
 import { usePathname, useRouter, useSearchParams } from 'next/navigation';
-import { createColumnHelper, flexRender, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
+import {
+  createColumnHelper,
+  flexRender,
+  getCoreRowModel,
+  getSortedRowModel,
+  useReactTable,
+  type SortingState,
+} from '@tanstack/react-table';
 import type { UnitSystem } from '@/lib/validation/screen-form';
 import { formatDate, formatDateTime, formatDistance, formatMass, formatPercent } from '@/lib/format';
 import { ButtonLink } from '@/components/ui/button';
@@ -26,7 +33,16 @@ export interface HistoryRow {
   olderEngineVersion?: string | null;
 }
 
-const SORTABLE = ['name', 'createdAt', 'routeLabel', 'flightLevel', 'distanceKm', 'noxAboveTropopauseKg', 'fractionAboveTropopause', 'ozoneCentralKg'];
+const SORTABLE = [
+  'name',
+  'createdAt',
+  'routeLabel',
+  'flightLevel',
+  'distanceKm',
+  'noxAboveTropopauseKg',
+  'fractionAboveTropopause',
+  'ozoneCentralKg',
+];
 const col = createColumnHelper<HistoryRow>();
 
 /**
@@ -46,7 +62,9 @@ export function HistoryTable({ slug, rows, units }: { slug: string; rows: Histor
   }, [sortParam]);
 
   const toggle = (rowId: number) =>
-    setPicked((p) => (p.includes(rowId) ? p.filter((x) => x !== rowId) : p.length >= 2 ? [p[1], rowId] : [...p, rowId]));
+    setPicked((p) =>
+      p.includes(rowId) ? p.filter((x) => x !== rowId) : p.length >= 2 ? [p[1], rowId] : [...p, rowId],
+    );
 
   const columns = useMemo(
     () => [
@@ -67,11 +85,17 @@ export function HistoryTable({ slug, rows, units }: { slug: string; rows: Histor
         header: 'Screening',
         cell: (c) => (
           <>
-            <Link href={`/w/${slug}/screenings/${c.row.original.id}`} className="font-medium text-accent hover:underline">
+            <Link
+              href={`/w/${slug}/screenings/${c.row.original.id}`}
+              className="font-medium text-accent hover:underline"
+            >
               {c.getValue()}
             </Link>
             {c.row.original.olderEngineVersion ? (
-              <span className="ml-2 rounded border border-caution/40 bg-caution-soft px-1.5 py-0.5 text-xs text-ink" data-testid="older-engine-version">
+              <span
+                className="ml-2 rounded border border-caution/40 bg-caution-soft px-1.5 py-0.5 text-xs text-ink"
+                data-testid="older-engine-version"
+              >
                 engine {c.row.original.olderEngineVersion} (older)
               </span>
             ) : null}
@@ -83,12 +107,23 @@ export function HistoryTable({ slug, rows, units }: { slug: string; rows: Histor
         header: 'Aircraft, cruise',
         cell: (c) => `${c.row.original.aircraftCode ?? '–'} · ${c.getValue() === null ? '–' : `FL${c.getValue()}`}`,
       }),
-      col.accessor('flightDate', { header: 'Flight date', cell: (c) => formatDate(c.getValue()), enableSorting: false }),
+      col.accessor('flightDate', {
+        header: 'Flight date',
+        cell: (c) => formatDate(c.getValue()),
+        enableSorting: false,
+      }),
       col.accessor('distanceKm', { header: 'Distance', cell: (c) => formatDistance(c.getValue(), units) }),
       col.accessor('noxAboveTropopauseKg', { header: 'NOx above', cell: (c) => formatMass(c.getValue(), units) }),
       col.accessor('fractionAboveTropopause', { header: 'Share above', cell: (c) => formatPercent(c.getValue(), 1) }),
       col.accessor('ozoneCentralKg', { header: 'Ozone figure', cell: (c) => formatMass(c.getValue(), units) }),
-      col.accessor('createdAt', { header: 'Saved', cell: (c) => <time dateTime={c.getValue()} title={formatDateTime(c.getValue())}>{formatDate(c.getValue())}</time> }),
+      col.accessor('createdAt', {
+        header: 'Saved',
+        cell: (c) => (
+          <time dateTime={c.getValue()} title={formatDateTime(c.getValue())}>
+            {formatDate(c.getValue())}
+          </time>
+        ),
+      }),
     ],
     [picked, slug, units],
   );
@@ -114,7 +149,11 @@ export function HistoryTable({ slug, rows, units }: { slug: string; rows: Histor
     <div>
       <div className="mb-3 flex flex-wrap items-center justify-between gap-3 text-sm">
         <p className="text-ink-soft" aria-live="polite">
-          {picked.length === 2 ? 'Two screenings picked.' : picked.length === 1 ? 'Pick one more to compare.' : 'Pick two screenings to compare them side by side.'}
+          {picked.length === 2
+            ? 'Two screenings picked.'
+            : picked.length === 1
+              ? 'Pick one more to compare.'
+              : 'Pick two screenings to compare them side by side.'}
         </p>
         {picked.length === 2 ? (
           <ButtonLink href={`/w/${slug}/screenings/compare?a=${picked[0]}&b=${picked[1]}`} variant="secondary">
@@ -139,9 +178,15 @@ export function HistoryTable({ slug, rows, units }: { slug: string; rows: Histor
           </thead>
           <tbody className="figure">
             {table.getRowModel().rows.map((row) => (
-              <tr key={row.id} className={`border-t border-line ${picked.includes(row.original.id) ? 'bg-accent-soft' : ''}`}>
+              <tr
+                key={row.id}
+                className={`border-t border-line ${picked.includes(row.original.id) ? 'bg-accent-soft' : ''}`}
+              >
                 {row.getVisibleCells().map((cell) => (
-                  <td key={cell.id} className={`py-2 pr-3 align-top ${cell.column.id === 'name' ? 'min-w-[12rem]' : 'whitespace-nowrap'}`}>
+                  <td
+                    key={cell.id}
+                    className={`py-2 pr-3 align-top ${cell.column.id === 'name' ? 'min-w-[12rem]' : 'whitespace-nowrap'}`}
+                  >
                     {flexRender(cell.column.columnDef.cell, cell.getContext())}
                   </td>
                 ))}

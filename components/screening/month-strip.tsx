@@ -3,13 +3,36 @@ import type { UnitSystem } from '@/lib/validation/screen-form';
 import { formatMass, formatPercent } from '@/lib/format';
 
 const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
-const MONTH_NAMES = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December'];
+const MONTH_NAMES = [
+  'January',
+  'February',
+  'March',
+  'April',
+  'May',
+  'June',
+  'July',
+  'August',
+  'September',
+  'October',
+  'November',
+  'December',
+];
 
 /**
  * The flight screened in each month: one column a month, bar height NOx above the tropopause, the
  * planned month marked. `note` explains a strip that is the same every month (a given tropopause).
  */
-export function MonthStrip({ rows, plannedMonth, units, note }: { rows: MonthRow[]; plannedMonth: number | null; units: UnitSystem; note?: string | null }) {
+export function MonthStrip({
+  rows,
+  plannedMonth,
+  units,
+  note,
+}: {
+  rows: MonthRow[];
+  plannedMonth: number | null;
+  units: UnitSystem;
+  note?: string | null;
+}) {
   const max = rows.reduce((m, r) => Math.max(m, r.noxAboveTropopauseKg), 0);
   return (
     <div data-testid="month-strip" className="space-y-2">
@@ -28,7 +51,10 @@ export function MonthStrip({ rows, plannedMonth, units, note }: { rows: MonthRow
             >
               <span className="sr-only">{text}</span>
               <span className="flex h-16 w-full items-end justify-center" aria-hidden="true">
-                <span className={`block w-3/4 rounded-t-sm ${planned ? 'bg-strato-strong' : 'bg-strato'}`} style={{ height: `${h}px` }} />
+                <span
+                  className={`block w-3/4 rounded-t-sm ${planned ? 'bg-strato-strong' : 'bg-strato'}`}
+                  style={{ height: `${h}px` }}
+                />
               </span>
               <span className="figure mt-1 text-[0.65rem] text-ink-soft" aria-hidden="true">
                 {formatPercent(r.fractionAboveTropopause)}
@@ -42,7 +68,9 @@ export function MonthStrip({ rows, plannedMonth, units, note }: { rows: MonthRow
       </ol>
       <p className="text-xs text-ink-soft">
         Bar: NOx above the tropopause; figure: share of the flight&apos;s NOx above it.{' '}
-        {plannedMonth ? `The planned month (${MONTH_NAMES[plannedMonth - 1]}) is outlined.` : 'No month or date was given: the figures above use the annual mean.'}
+        {plannedMonth
+          ? `The planned month (${MONTH_NAMES[plannedMonth - 1]}) is outlined.`
+          : 'No month or date was given: the figures above use the annual mean.'}
       </p>
       {note ? <p className="text-xs text-ink-soft">{note}</p> : null}
     </div>

@@ -25,7 +25,17 @@ export interface ProfileSeries {
 
 type ProfileSegment = Pick<
   ScreeningSegment,
-  'startKm' | 'endKm' | 'flightLevel' | 'altitudeM' | 'tropopauseM' | 'aboveTropopause' | 'fuelKg' | 'noxKg' | 'depthAboveTropopauseKm' | 'lat' | 'lon'
+  | 'startKm'
+  | 'endKm'
+  | 'flightLevel'
+  | 'altitudeM'
+  | 'tropopauseM'
+  | 'aboveTropopause'
+  | 'fuelKg'
+  | 'noxKg'
+  | 'depthAboveTropopauseKm'
+  | 'lat'
+  | 'lon'
 >;
 
 /**
@@ -60,7 +70,9 @@ export function profileSeries(segments: readonly ProfileSegment[], units: UnitSy
     out.tooltips.push([
       `FL${s.flightLevel} (${formatAltitude(s.altitudeM, units)})`,
       `Tropopause ${formatAltitude(s.tropopauseM, units)}`,
-      s.aboveTropopause ? `Above the tropopause by ${formatAltitude(s.depthAboveTropopauseKm * 1000, units)}` : 'Below the tropopause',
+      s.aboveTropopause
+        ? `Above the tropopause by ${formatAltitude(s.depthAboveTropopauseKm * 1000, units)}`
+        : 'Below the tropopause',
       `Fuel ${formatMass(s.fuelKg, units)}, NOx ${formatMass(s.noxKg, units)}`,
       `At ${formatNumber(s.lat, 1)}°, ${formatNumber(s.lon, 1)}°`,
     ]);

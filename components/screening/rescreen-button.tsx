@@ -6,7 +6,13 @@ import { Button } from '@/components/ui/button';
 import type { ActionState } from '@/lib/errors';
 
 /** Screens the saved input again with the current engine and opens the new screening. */
-export function RescreenButton({ slug, onRescreen }: { slug: string; onRescreen: () => Promise<ActionState<{ id: number }>> }) {
+export function RescreenButton({
+  slug,
+  onRescreen,
+}: {
+  slug: string;
+  onRescreen: () => Promise<ActionState<{ id: number }>>;
+}) {
   const router = useRouter();
   const [pending, start] = useTransition();
   const [error, setError] = useState<string>();

@@ -55,14 +55,20 @@ export function RouteSection({
       airports.replace(route.waypoints.map((w) => ({ code: 'airport' in w ? w.airport.toUpperCase() : '' })));
     } else {
       setValue('routeMode', 'points');
-      points.replace(route.coordinates.map((c) => (c ? { lat: String(c.lat), lon: String(c.lon) } : { lat: '', lon: '' })));
+      points.replace(
+        route.coordinates.map((c) => (c ? { lat: String(c.lat), lon: String(c.lon) } : { lat: '', lon: '' })),
+      );
     }
     setRouteNote(`${route.name}: ${route.waypoints.length} points${route.notes ? `. ${route.notes}` : ''}`);
   };
   return (
     <Section title="Route">
       {routes.length ? (
-        <Field id="saved-route" label="Start from a saved route" hint={routeNote ?? 'Fills the route below; you can still change it.'}>
+        <Field
+          id="saved-route"
+          label="Start from a saved route"
+          hint={routeNote ?? 'Fills the route below; you can still change it.'}
+        >
           <SelectInput id="saved-route" defaultValue="" onChange={(e) => applySavedRoute(e.target.value)}>
             <option value="">Choose a saved route…</option>
             {routes.map((r) => (
@@ -109,13 +115,22 @@ export function RouteSection({
                 />
               </div>
               {airports.fields.length > 2 ? (
-                <Button variant="ghost" className="mt-6" onClick={() => airports.remove(i)} aria-label={`Remove ${i === 0 ? 'the departure' : i === airports.fields.length - 1 ? 'the destination' : `stop ${i}`}`}>
+                <Button
+                  variant="ghost"
+                  className="mt-6"
+                  onClick={() => airports.remove(i)}
+                  aria-label={`Remove ${i === 0 ? 'the departure' : i === airports.fields.length - 1 ? 'the destination' : `stop ${i}`}`}
+                >
                   Remove
                 </Button>
               ) : null}
             </div>
           ))}
-          <Button variant="secondary" onClick={() => airports.insert(airports.fields.length - 1, { code: '' })} disabled={airports.fields.length >= 20}>
+          <Button
+            variant="secondary"
+            onClick={() => airports.insert(airports.fields.length - 1, { code: '' })}
+            disabled={airports.fields.length >= 20}
+          >
             Add a stop
           </Button>
         </div>
@@ -123,26 +138,71 @@ export function RouteSection({
         <div className="space-y-3">
           {points.fields.map((f, i) => (
             <div key={f.id} className="flex items-start gap-2" data-testid="point-row">
-              <Field id={`points-${i}-lat`} label={`Point ${i + 1} latitude`} error={errorAt(`points.${i}.lat`)} className="min-w-0 flex-1">
-                <TextInput id={`points-${i}-lat`} inputMode="decimal" placeholder="51.47" invalid={!!errorAt(`points.${i}.lat`)} {...register(`points.${i}.lat`)} />
+              <Field
+                id={`points-${i}-lat`}
+                label={`Point ${i + 1} latitude`}
+                error={errorAt(`points.${i}.lat`)}
+                className="min-w-0 flex-1"
+              >
+                <TextInput
+                  id={`points-${i}-lat`}
+                  inputMode="decimal"
+                  placeholder="51.47"
+                  invalid={!!errorAt(`points.${i}.lat`)}
+                  {...register(`points.${i}.lat`)}
+                />
               </Field>
-              <Field id={`points-${i}-lon`} label="longitude" error={errorAt(`points.${i}.lon`)} className="min-w-0 flex-1">
-                <TextInput id={`points-${i}-lon`} inputMode="decimal" placeholder="-0.45" invalid={!!errorAt(`points.${i}.lon`)} {...register(`points.${i}.lon`)} />
+              <Field
+                id={`points-${i}-lon`}
+                label="longitude"
+                error={errorAt(`points.${i}.lon`)}
+                className="min-w-0 flex-1"
+              >
+                <TextInput
+                  id={`points-${i}-lon`}
+                  inputMode="decimal"
+                  placeholder="-0.45"
+                  invalid={!!errorAt(`points.${i}.lon`)}
+                  {...register(`points.${i}.lon`)}
+                />
               </Field>
               {points.fields.length > 2 ? (
-                <Button variant="ghost" className="mt-6" onClick={() => points.remove(i)} aria-label={`Remove point ${i + 1}`}>
+                <Button
+                  variant="ghost"
+                  className="mt-6"
+                  onClick={() => points.remove(i)}
+                  aria-label={`Remove point ${i + 1}`}
+                >
                   Remove
                 </Button>
               ) : null}
             </div>
           ))}
-          <p className="text-xs text-ink-faint">Degrees, north and east positive. The route follows great circles between the points.</p>
-          <Button variant="secondary" onClick={() => points.append({ lat: '', lon: '' })} disabled={points.fields.length >= 500}>
+          <p className="text-xs text-ink-faint">
+            Degrees, north and east positive. The route follows great circles between the points.
+          </p>
+          <Button
+            variant="secondary"
+            onClick={() => points.append({ lat: '', lon: '' })}
+            disabled={points.fields.length >= 500}
+          >
             Add a point
           </Button>
           <div className="space-y-2 rounded-md border border-dashed border-line-strong p-3">
-            <Field id="points-paste" label="Or paste a list of points" hint={'One point per line, latitude first: "51.47 -0.45", "51.47N 0.45W", "6012N01105E", "60 12.5N 011 05.3E" or 60°12\'30"N 11°05\'45"E.'}>
-              <TextArea id="points-paste" rows={4} value={pasteText} onChange={(e) => setPasteText(e.target.value)} className="font-mono" />
+            <Field
+              id="points-paste"
+              label="Or paste a list of points"
+              hint={
+                'One point per line, latitude first: "51.47 -0.45", "51.47N 0.45W", "6012N01105E", "60 12.5N 011 05.3E" or 60°12\'30"N 11°05\'45"E.'
+              }
+            >
+              <TextArea
+                id="points-paste"
+                rows={4}
+                value={pasteText}
+                onChange={(e) => setPasteText(e.target.value)}
+                className="font-mono"
+              />
             </Field>
             {pasteProblems.length ? (
               <ul role="alert" className="list-disc pl-5 text-xs font-medium text-danger" data-testid="paste-problems">
@@ -159,6 +219,5 @@ export function RouteSection({
       )}
       <FieldProblem message={errorAt('route')} />
     </Section>
-
   );
 }

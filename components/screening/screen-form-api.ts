@@ -10,7 +10,9 @@ export class ApiProblem extends Error {
 }
 
 export async function readProblem(res: Response): Promise<ApiProblem> {
-  const body = (await res.json().catch(() => null)) as { error?: { message?: string; fields?: { path: string; message: string }[] } } | null;
+  const body = (await res.json().catch(() => null)) as {
+    error?: { message?: string; fields?: { path: string; message: string }[] };
+  } | null;
   const fields = body?.error?.fields ?? [];
   let message = body?.error?.message ?? 'The screening service did not answer. Try again in a moment.';
   if (res.status === 429) message = 'Too many previews in a short time; the preview resumes in a moment.';

@@ -5,7 +5,19 @@ import type { UnitSystem } from '@/lib/validation/screen-form';
 import { formatMass, formatPercent } from '@/lib/format';
 import type { PreviewResponse } from './screening-preview';
 
-export function ModeSwitch<T extends string>({ legend, name, value, options, onChange }: { legend: string; name: string; value: T; options: [T, string][]; onChange: (v: T) => void }) {
+export function ModeSwitch<T extends string>({
+  legend,
+  name,
+  value,
+  options,
+  onChange,
+}: {
+  legend: string;
+  name: string;
+  value: T;
+  options: [T, string][];
+  onChange: (v: T) => void;
+}) {
   return (
     <fieldset>
       <legend className="mb-1.5 text-sm font-medium text-ink">{legend}</legend>
@@ -17,7 +29,14 @@ export function ModeSwitch<T extends string>({ legend, name, value, options, onC
               value === v ? 'bg-paper-raised font-medium text-ink shadow-sm' : 'text-ink-soft hover:text-ink'
             }`}
           >
-            <input type="radio" className="sr-only" name={name} value={v} checked={value === v} onChange={() => onChange(v)} />
+            <input
+              type="radio"
+              className="sr-only"
+              name={name}
+              value={v}
+              checked={value === v}
+              onChange={() => onChange(v)}
+            />
             {label}
           </label>
         ))}
@@ -48,10 +67,23 @@ export function FieldProblem({ message }: { message?: string }) {
  * Below the two-column width the preview sits under the form: this bar keeps its headline figures in
  * view at the bottom of the screen while the form is edited, with a link down to the whole preview.
  */
-export function PreviewSummary({ units, data, status }: { units: UnitSystem; data: PreviewResponse | undefined; status: string }) {
+export function PreviewSummary({
+  units,
+  data,
+  status,
+}: {
+  units: UnitSystem;
+  data: PreviewResponse | undefined;
+  status: string;
+}) {
   const r = data?.result;
   return (
-    <div role="region" aria-label="Preview summary" className="sticky bottom-0 z-20 -mx-1 rounded-t-md border border-line bg-paper-raised/95 px-3 py-2 shadow-lg backdrop-blur xl:hidden" data-testid="preview-summary">
+    <div
+      role="region"
+      aria-label="Preview summary"
+      className="sticky bottom-0 z-20 -mx-1 rounded-t-md border border-line bg-paper-raised/95 px-3 py-2 shadow-lg backdrop-blur xl:hidden"
+      data-testid="preview-summary"
+    >
       <div className="flex flex-wrap items-center gap-x-4 gap-y-1 text-sm">
         <span className="text-xs font-medium text-ink-soft">{status}</span>
         {r ? (

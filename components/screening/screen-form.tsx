@@ -4,7 +4,15 @@ import { useEffect, useMemo, useRef, useState } from 'react';
 import { get, useForm, type Path } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { keepPreviousData, useQuery } from '@tanstack/react-query';
-import { emptyScreenForm, formPathFor, isFormPath, screenFormProblems, screenFormSchema, type ScreenFormContext, type ScreenFormValues } from '@/lib/validation/screen-form';
+import {
+  emptyScreenForm,
+  formPathFor,
+  isFormPath,
+  screenFormProblems,
+  screenFormSchema,
+  type ScreenFormContext,
+  type ScreenFormValues,
+} from '@/lib/validation/screen-form';
 import { Field, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
@@ -23,13 +31,31 @@ import type { MinimiseCriterion } from '@/lib/screening';
 /** The preview samples like a saved screening's default (400 samples, seed 1) so the two agree. */
 const PREVIEW_UNCERTAINTY = { samples: 400, seed: 1 };
 
-export type { AircraftChoice, EngineChoice, RouteChoice, ScreenFlightFormProps, SoundingChoice } from './screen-form-types';
+export type {
+  AircraftChoice,
+  EngineChoice,
+  RouteChoice,
+  ScreenFlightFormProps,
+  SoundingChoice,
+} from './screen-form-types';
 
 /**
  * "Screen a flight": one form for route, cruise, fuel, emission, date and tropopause, with a live
  * preview beside it and a Save that stores the screening once, however often it is clicked.
  */
-export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft, engines, routes, soundings, whatIfDefaults, onSaved, previewDelayMs = 400 }: ScreenFlightFormProps) {
+export function ScreenFlightForm({
+  slug,
+  units,
+  defaults,
+  defaultDate,
+  aircraft,
+  engines,
+  routes,
+  soundings,
+  whatIfDefaults,
+  onSaved,
+  previewDelayMs = 400,
+}: ScreenFlightFormProps) {
   const ctx: ScreenFormContext = useMemo(
     () => ({
       units,
@@ -52,7 +78,12 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
     return v;
   }, [defaultDate, aircraft, engines]);
 
-  const form = useForm<ScreenFormValues>({ resolver: zodResolver(schema), defaultValues: initial, mode: 'onTouched', reValidateMode: 'onChange' });
+  const form = useForm<ScreenFormValues>({
+    resolver: zodResolver(schema),
+    defaultValues: initial,
+    mode: 'onTouched',
+    reValidateMode: 'onChange',
+  });
   const { register, formState } = form;
 
   const values = form.watch();
@@ -65,7 +96,10 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
   const { name: _name, ...previewBody } = body;
   const [limit, setLimit] = useState(String(whatIfDefaults.limitPct));
   const limitNumber = Number(limit.replace(',', '.'));
-  const limitError = limit.trim() === '' || !Number.isFinite(limitNumber) || limitNumber < 0 || limitNumber > 50 ? 'Give a limit between 0 and 50 %.' : null;
+  const limitError =
+    limit.trim() === '' || !Number.isFinite(limitNumber) || limitNumber < 0 || limitNumber > 50
+      ? 'Give a limit between 0 and 50 %.'
+      : null;
   const [minimise, setMinimise] = useState<MinimiseCriterion>('ozone-figure');
   const payload =
     problems.length === 0
@@ -95,11 +129,21 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
     },
   });
 
-  const modes = { routeMode: values.routeMode, cruiseMode: values.cruiseMode, emissionMode: values.emissionMode, tropopauseMode: values.tropopauseMode };
+  const modes = {
+    routeMode: values.routeMode,
+    cruiseMode: values.cruiseMode,
+    emissionMode: values.emissionMode,
+    tropopauseMode: values.tropopauseMode,
+  };
   const modesRef = useRef(modes);
   modesRef.current = modes;
   const previewError = useMemo(
-    () => (preview.error instanceof ApiProblem ? preview.error : preview.error ? new ApiProblem('The preview could not be worked out. Check your connection and try again.', 0, []) : null),
+    () =>
+      preview.error instanceof ApiProblem
+        ? preview.error
+        : preview.error
+          ? new ApiProblem('The preview could not be worked out. Check your connection and try again.', 0, [])
+          : null,
     [preview.error],
   );
   const [previewGeneral, setPreviewGeneral] = useState<string | null>(null);
@@ -107,8 +151,14 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
   // A server error belongs to the input it was computed from: each placed error remembers that
   // input, and goes as soon as the input differs (a new preview places it again if it still holds).
   const saveKey = JSON.stringify(body);
-  const placed = useRef<{ preview: { input: string | null; paths: string[] } | null; save: { input: string; paths: string[] } | null }>({ preview: null, save: null });
-  const placeServerErrors = (fields: { path: string; message: string }[], where: Parameters<typeof formPathFor>[1]): { paths: string[]; unplaced: string[] } => {
+  const placed = useRef<{
+    preview: { input: string | null; paths: string[] } | null;
+    save: { input: string; paths: string[] } | null;
+  }>({ preview: null, save: null });
+  const placeServerErrors = (
+    fields: { path: string; message: string }[],
+    where: Parameters<typeof formPathFor>[1],
+  ): { paths: string[]; unplaced: string[] } => {
     const paths: string[] = [];
     const unplaced: string[] = [];
     for (const f of fields) {
@@ -122,7 +172,8 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
   };
   const clearServerErrors = (paths: string[]) => {
     for (const path of paths) {
-      if (form.getFieldState(path as Path<ScreenFormValues>).error?.type === 'server') form.clearErrors(path as Path<ScreenFormValues>);
+      if (form.getFieldState(path as Path<ScreenFormValues>).error?.type === 'server')
+        form.clearErrors(path as Path<ScreenFormValues>);
     }
   };
   // Runs after every render on purpose: it compares the input each placed error came from with the current one.
@@ -151,7 +202,9 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
     }
     const { paths, unplaced } = placeServerErrors(previewError.fields, modesRef.current);
     placed.current.preview = { input: settled, paths };
-    setPreviewGeneral(previewError.fields.length && !unplaced.length ? null : [previewError.message, ...unplaced].join(' '));
+    setPreviewGeneral(
+      previewError.fields.length && !unplaced.length ? null : [previewError.message, ...unplaced].join(' '),
+    );
     // Placed once per failed request: previewError is memoised on the request's error, which changes exactly then.
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [previewError]);
@@ -168,7 +221,11 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
     try {
       res = await fetch(`/api/v1/workspaces/${slug}/screenings`, {
         method: 'POST',
-        headers: { 'content-type': 'application/json', accept: 'application/json', 'idempotency-key': idem.current.key },
+        headers: {
+          'content-type': 'application/json',
+          accept: 'application/json',
+          'idempotency-key': idem.current.key,
+        },
         body: json,
       });
     } catch {
@@ -184,9 +241,12 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
     const problem = await readProblem(res);
     const { paths, unplaced } = placeServerErrors(problem.fields, v);
     placed.current.save = { input: json, paths };
-    setSaveError(problem.fields.length && !unplaced.length ? 'Some fields need attention: see the messages beside them.' : [problem.message, ...unplaced].join(' '));
+    setSaveError(
+      problem.fields.length && !unplaced.length
+        ? 'Some fields need attention: see the messages beside them.'
+        : [problem.message, ...unplaced].join(' '),
+    );
   });
-
 
   const selectedAircraft = aircraft.find((a) => a.code === values.aircraft);
   const waitingFor = problems.length ? [...new Set(problems.map((p) => p.message))].slice(0, 3) : [];
@@ -194,14 +254,25 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
   return (
     <div className="grid gap-6 xl:grid-cols-[minmax(0,1fr)_minmax(0,1fr)]">
       <form onSubmit={onSubmit} noValidate className="space-y-5" aria-label="Screen a flight">
-        <RouteSection slug={slug} form={form} routes={routes} errorAt={errorAt} understood={preview.data?.result.flightPlan} />
+        <RouteSection
+          slug={slug}
+          form={form}
+          routes={routes}
+          errorAt={errorAt}
+          understood={preview.data?.result.flightPlan}
+        />
         <CruiseSection form={form} units={units} selectedAircraft={selectedAircraft} errorAt={errorAt} />
         <EmissionSection form={form} units={units} aircraft={aircraft} engines={engines} errorAt={errorAt} />
         <TropopauseSection form={form} units={units} soundings={soundings} errorAt={errorAt} />
         <AssumptionFields register={register} defaults={defaults} errorAt={errorAt} />
 
         <Section title="Save">
-          <Field id="name" label="Name (optional)" hint="Shown in the screenings list; the route is used when blank." error={errorAt('name')}>
+          <Field
+            id="name"
+            label="Name (optional)"
+            hint="Shown in the screenings list; the route is used when blank."
+            error={errorAt('name')}
+          >
             <TextInput id="name" invalid={!!errorAt('name')} {...register('name')} />
           </Field>
           {saveError ? (
@@ -219,7 +290,17 @@ export function ScreenFlightForm({ slug, units, defaults, defaultDate, aircraft,
         <PreviewSummary
           units={units}
           data={preview.data}
-          status={waitingFor.length ? 'Waiting for complete input' : previewGeneral ? 'Preview not updated' : preview.isFetching || payload !== settled ? 'Updating…' : preview.data ? 'Up to date' : 'Preview'}
+          status={
+            waitingFor.length
+              ? 'Waiting for complete input'
+              : previewGeneral
+                ? 'Preview not updated'
+                : preview.isFetching || payload !== settled
+                  ? 'Updating…'
+                  : preview.data
+                    ? 'Up to date'
+                    : 'Preview'
+          }
         />
       </form>
       <div id="preview" className="scroll-mt-4 xl:sticky xl:top-4 xl:self-start">

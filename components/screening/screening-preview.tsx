@@ -66,7 +66,12 @@ export function ScreeningPreview({
     <Card
       title="Preview"
       actions={
-        <span role="status" aria-live="polite" data-testid="preview-status" className="text-xs font-medium text-ink-soft">
+        <span
+          role="status"
+          aria-live="polite"
+          data-testid="preview-status"
+          className="text-xs font-medium text-ink-soft"
+        >
           {status}
         </span>
       }
@@ -87,14 +92,21 @@ export function ScreeningPreview({
           </Notice>
         ) : null}
         {data ? (
-          <div className={`space-y-4 transition-opacity ${fetching || stale || waitingFor.length ? 'opacity-60' : ''}`} data-testid="preview-figures">
+          <div
+            className={`space-y-4 transition-opacity ${fetching || stale || waitingFor.length ? 'opacity-60' : ''}`}
+            data-testid="preview-figures"
+          >
             {fuelWarningOf(data.result) ? (
               <Notice tone="caution" title="Check the fuel">
                 {fuelWarningOf(data.result)}
               </Notice>
             ) : null}
             <HeadlineFigures result={data.result} units={units} compact bands={data.result.uncertainty} />
-            <VerticalProfileChart series={profileSeries(data.result.segments, units)} label="Preview of the cruise altitude and tropopause" height={220} />
+            <VerticalProfileChart
+              series={profileSeries(data.result.segments, units)}
+              label="Preview of the cruise altitude and tropopause"
+              height={220}
+            />
             {data.result.uncertainty ? (
               <div>
                 <h3 className="mb-2 text-sm font-semibold text-ink">What moves these figures</h3>
@@ -104,21 +116,41 @@ export function ScreeningPreview({
             {data.months ? (
               <div>
                 <h3 className="mb-2 text-sm font-semibold text-ink">Across the year</h3>
-                <MonthStrip rows={data.months.rows} plannedMonth={data.result.month} units={units} note={data.months.note} />
+                <MonthStrip
+                  rows={data.months.rows}
+                  plannedMonth={data.result.month}
+                  units={units}
+                  note={data.months.note}
+                />
               </div>
             ) : null}
             <div>
               <div className="mb-2 flex flex-wrap items-end justify-between gap-3">
                 <h3 className="text-sm font-semibold text-ink">Other cruise levels</h3>
-                <Field id="preview-limit" label="Fuel-penalty limit (%)" error={limitError ?? undefined} className="w-44">
-                  <TextInput id="preview-limit" inputMode="decimal" value={limit} onChange={(e) => onLimitChange(e.target.value)} invalid={!!limitError} />
+                <Field
+                  id="preview-limit"
+                  label="Fuel-penalty limit (%)"
+                  error={limitError ?? undefined}
+                  className="w-44"
+                >
+                  <TextInput
+                    id="preview-limit"
+                    inputMode="decimal"
+                    value={limit}
+                    onChange={(e) => onLimitChange(e.target.value)}
+                    invalid={!!limitError}
+                  />
                 </Field>
                 {onMinimiseChange ? (
                   <Field id="preview-minimise" label="Mark the least" className="w-52">
                     <SelectInput
                       id="preview-minimise"
                       value={minimise}
-                      onChange={(e) => onMinimiseChange(e.target.value === 'nox-above-tropopause' ? 'nox-above-tropopause' : 'ozone-figure')}
+                      onChange={(e) =>
+                        onMinimiseChange(
+                          e.target.value === 'nox-above-tropopause' ? 'nox-above-tropopause' : 'ozone-figure',
+                        )
+                      }
                     >
                       <option value="ozone-figure">ozone figure (gross loss)</option>
                       <option value="nox-above-tropopause">NOx above the tropopause</option>

@@ -19,14 +19,26 @@ import { ScrollRegion } from '@/components/ui/scroll-region';
 import { SortableHeader } from '@/components/ui/sortable-header';
 
 export const SEGMENT_PAGE_SIZE = 25;
-const SORTABLE = ['index', 'startKm', 'flightLevel', 'tropopauseM', 'depthAboveTropopauseKm', 'fuelKg', 'noxKg', 'ozoneLossKg'] as const;
+const SORTABLE = [
+  'index',
+  'startKm',
+  'flightLevel',
+  'tropopauseM',
+  'depthAboveTropopauseKm',
+  'fuelKg',
+  'noxKg',
+  'ozoneLossKg',
+] as const;
 
 type Row = ScreeningSegment & { index: number };
 
 const col = createColumnHelper<Row>();
 
 /** `seg_sort=noxKg.desc` and `seg_page=2` from the URL; anything unknown falls back to route order. */
-export function readSegmentTableState(params: URLSearchParams, rowCount: number): { sorting: SortingState; pageIndex: number } {
+export function readSegmentTableState(
+  params: URLSearchParams,
+  rowCount: number,
+): { sorting: SortingState; pageIndex: number } {
   const [id, dir] = (params.get('seg_sort') ?? '').split('.');
   const sorting: SortingState = (SORTABLE as readonly string[]).includes(id) ? [{ id, desc: dir === 'desc' }] : [];
   const pages = Math.max(1, Math.ceil(rowCount / SEGMENT_PAGE_SIZE));
@@ -43,7 +55,10 @@ export function SegmentTable({ segments, units }: { segments: readonly Screening
   const data = useMemo(() => segments.map((s, index) => ({ ...s, index: index + 1 })), [segments]);
   const query = params.toString();
   // One state object per URL value: fresh objects each render would make the table recompute on every render.
-  const { sorting, pageIndex } = useMemo(() => readSegmentTableState(new URLSearchParams(query), data.length), [query, data.length]);
+  const { sorting, pageIndex } = useMemo(
+    () => readSegmentTableState(new URLSearchParams(query), data.length),
+    [query, data.length],
+  );
   const pagination = useMemo(() => ({ pageIndex, pageSize: SEGMENT_PAGE_SIZE }), [pageIndex]);
 
   const push = (next: { sorting?: SortingState; pageIndex?: number }) => {
@@ -63,7 +78,8 @@ export function SegmentTable({ segments, units }: { segments: readonly Screening
       col.accessor('index', { header: '#', cell: (c) => c.getValue() }),
       col.accessor('startKm', {
         header: 'Along route',
-        cell: (c) => `${formatDistance(c.row.original.startKm, units)} – ${formatDistance(c.row.original.endKm, units)}`,
+        cell: (c) =>
+          `${formatDistance(c.row.original.startKm, units)} – ${formatDistance(c.row.original.endKm, units)}`,
       }),
       col.accessor('flightLevel', { header: 'Flight level', cell: (c) => `FL${c.getValue()}` }),
       col.accessor('tropopauseM', { header: 'Tropopause', cell: (c) => formatAltitude(c.getValue(), units) }),
@@ -71,7 +87,9 @@ export function SegmentTable({ segments, units }: { segments: readonly Screening
         header: 'Above / below',
         cell: (c) =>
           c.row.original.aboveTropopause ? (
-            <span className="font-medium text-strato-strong">above by {formatAltitude(c.getValue() * 1000, units)}</span>
+            <span className="font-medium text-strato-strong">
+              above by {formatAltitude(c.getValue() * 1000, units)}
+            </span>
           ) : (
             <span className="text-tropo-strong">below</span>
           ),
@@ -79,7 +97,11 @@ export function SegmentTable({ segments, units }: { segments: readonly Screening
       col.accessor('fuelKg', { header: 'Fuel', cell: (c) => formatMass(c.getValue(), units) }),
       col.accessor('noxKg', { header: 'NOx (as NO2)', cell: (c) => formatMass(c.getValue(), units) }),
       col.accessor('ozoneLossKg', { header: 'Ozone-loss figure', cell: (c) => formatMass(c.getValue(), units) }),
-      col.display({ id: 'position', header: 'Midpoint', cell: (c) => `${formatNumber(c.row.original.lat, 1)}°, ${formatNumber(c.row.original.lon, 1)}°` }),
+      col.display({
+        id: 'position',
+        header: 'Midpoint',
+        cell: (c) => `${formatNumber(c.row.original.lat, 1)}°, ${formatNumber(c.row.original.lon, 1)}°`,
+      }),
     ],
     [units],
   );
@@ -88,7 +110,8 @@ export function SegmentTable({ segments, units }: { segments: readonly Screening
     data,
     columns,
     state: { sorting, pagination },
-    onSortingChange: (updater) => push({ sorting: typeof updater === 'function' ? updater(sorting) : updater, pageIndex: 0 }),
+    onSortingChange: (updater) =>
+      push({ sorting: typeof updater === 'function' ? updater(sorting) : updater, pageIndex: 0 }),
     onPaginationChange: (updater) => {
       const next = typeof updater === 'function' ? updater({ pageIndex, pageSize: SEGMENT_PAGE_SIZE }) : updater;
       push({ pageIndex: next.pageIndex });
@@ -118,7 +141,10 @@ export function SegmentTable({ segments, units }: { segments: readonly Screening
           </thead>
           <tbody className="figure">
             {table.getRowModel().rows.map((row) => (
-              <tr key={row.id} className={`border-t border-line ${row.original.aboveTropopause ? 'bg-strato-soft/40' : ''}`}>
+              <tr
+                key={row.id}
+                className={`border-t border-line ${row.original.aboveTropopause ? 'bg-strato-soft/40' : ''}`}
+              >
                 {row.getVisibleCells().map((cell) => (
                   <td key={cell.id} className="whitespace-nowrap py-1.5 pr-2.5">
                     {flexRender(cell.column.columnDef.cell, cell.getContext())}

@@ -8,10 +8,33 @@ import { formatAltitude, formatNumber } from '@/lib/format';
 import { ModeSwitch, Section } from './screen-form-parts';
 import type { SoundingChoice } from './screen-form-types';
 
-const MONTHS = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December'];
+const MONTHS = [
+  'January',
+  'February',
+  'March',
+  'April',
+  'May',
+  'June',
+  'July',
+  'August',
+  'September',
+  'October',
+  'November',
+  'December',
+];
 
 /** Flight date or month, and the tropopause: climatology, a given altitude or pressure, or a stored sounding. */
-export function TropopauseSection({ form, units, soundings, errorAt }: { form: UseFormReturn<ScreenFormValues>; units: UnitSystem; soundings: SoundingChoice[]; errorAt: (path: string) => string | undefined }) {
+export function TropopauseSection({
+  form,
+  units,
+  soundings,
+  errorAt,
+}: {
+  form: UseFormReturn<ScreenFormValues>;
+  units: UnitSystem;
+  soundings: SoundingChoice[];
+  errorAt: (path: string) => string | undefined;
+}) {
   const { register, setValue, formState } = form;
   const values = form.watch();
   const u = unitLabels(units);
@@ -19,10 +42,20 @@ export function TropopauseSection({ form, units, soundings, errorAt }: { form: U
   return (
     <Section title="Date and tropopause">
       <div className="grid gap-3 sm:grid-cols-2">
-        <Field id="flightDate" label="Flight date" hint="Its month picks the seasonal tropopause height at each latitude." error={errorAt('flightDate')}>
+        <Field
+          id="flightDate"
+          label="Flight date"
+          hint="Its month picks the seasonal tropopause height at each latitude."
+          error={errorAt('flightDate')}
+        >
           <TextInput id="flightDate" type="date" invalid={!!errorAt('flightDate')} {...register('flightDate')} />
         </Field>
-        <Field id="month" label="Month for the tropopause" hint="Without a date or month, the annual mean is used." error={errorAt('month')}>
+        <Field
+          id="month"
+          label="Month for the tropopause"
+          hint="Without a date or month, the annual mean is used."
+          error={errorAt('month')}
+        >
           <SelectInput id="month" invalid={!!errorAt('month')} {...register('month')}>
             <option value="">From the flight date</option>
             {MONTHS.map((m, i) => (
@@ -46,16 +79,40 @@ export function TropopauseSection({ form, units, soundings, errorAt }: { form: U
         onChange={(v) => setValue('tropopauseMode', v, { shouldValidate: formState.isSubmitted })}
       />
       {values.tropopauseMode === 'climatology' ? (
-        <p className="text-xs text-ink-soft">A climatological tropopause by latitude and season along the whole route (typical error about 0.9 km).</p>
+        <p className="text-xs text-ink-soft">
+          A climatological tropopause by latitude and season along the whole route (typical error about 0.9 km).
+        </p>
       ) : null}
       {values.tropopauseMode === 'altitude' ? (
-        <Field id="tropopauseAltitude" label={`Tropopause altitude (${u.altitude})`} hint="Taken as a pressure altitude and used along the whole route." error={errorAt('tropopauseAltitude')} className="max-w-xs">
-          <TextInput id="tropopauseAltitude" inputMode="decimal" invalid={!!errorAt('tropopauseAltitude')} {...register('tropopauseAltitude')} />
+        <Field
+          id="tropopauseAltitude"
+          label={`Tropopause altitude (${u.altitude})`}
+          hint="Taken as a pressure altitude and used along the whole route."
+          error={errorAt('tropopauseAltitude')}
+          className="max-w-xs"
+        >
+          <TextInput
+            id="tropopauseAltitude"
+            inputMode="decimal"
+            invalid={!!errorAt('tropopauseAltitude')}
+            {...register('tropopauseAltitude')}
+          />
         </Field>
       ) : null}
       {values.tropopauseMode === 'pressure' ? (
-        <Field id="tropopausePressure" label="Tropopause pressure (hPa)" hint="Used along the whole route." error={errorAt('tropopausePressure')} className="max-w-xs">
-          <TextInput id="tropopausePressure" inputMode="decimal" invalid={!!errorAt('tropopausePressure')} {...register('tropopausePressure')} />
+        <Field
+          id="tropopausePressure"
+          label="Tropopause pressure (hPa)"
+          hint="Used along the whole route."
+          error={errorAt('tropopausePressure')}
+          className="max-w-xs"
+        >
+          <TextInput
+            id="tropopausePressure"
+            inputMode="decimal"
+            invalid={!!errorAt('tropopausePressure')}
+            {...register('tropopausePressure')}
+          />
         </Field>
       ) : null}
       {values.tropopauseMode === 'sounding' ? (
@@ -84,10 +141,11 @@ export function TropopauseSection({ form, units, soundings, errorAt }: { form: U
             </SelectInput>
           </Field>
         ) : (
-          <Notice tone="info">No soundings stored yet. Upload one under Soundings, or give the tropopause altitude or pressure.</Notice>
+          <Notice tone="info">
+            No soundings stored yet. Upload one under Soundings, or give the tropopause altitude or pressure.
+          </Notice>
         )
       ) : null}
     </Section>
-
   );
 }

@@ -15,14 +15,20 @@ function Bars({ title, drivers }: { title: string; drivers: Driver[] }) {
       {shown.length === 0 ? (
         <p className="text-xs text-ink-soft">No spread: none of the sampled inputs moves this figure.</p>
       ) : (
-        <ol className="space-y-1.5" aria-label={`Share of the spread of ${title.toLowerCase()} each input explains, largest first`}>
+        <ol
+          className="space-y-1.5"
+          aria-label={`Share of the spread of ${title.toLowerCase()} each input explains, largest first`}
+        >
           {shown.map((d) => (
             <li key={d.input} className="grid grid-cols-[9.5rem_1fr_3rem] items-center gap-2 text-xs">
               <span className="truncate text-ink-soft" title={d.label}>
                 {d.label}
               </span>
               <span className="h-2.5 rounded-sm bg-line/60" aria-hidden="true">
-                <span className="block h-2.5 rounded-sm bg-strato" style={{ width: `${Math.max(1, d.share * 100)}%` }} />
+                <span
+                  className="block h-2.5 rounded-sm bg-strato"
+                  style={{ width: `${Math.max(1, d.share * 100)}%` }}
+                />
               </span>
               <span className="figure text-right text-ink">{formatPercent(d.share)}</span>
             </li>
@@ -34,7 +40,13 @@ function Bars({ title, drivers }: { title: string; drivers: Driver[] }) {
 }
 
 /** Ranked bars: how much of each headline figure's spread each sampled input explains. */
-export function UncertaintyDriversChart({ drivers, compact = false }: { drivers: UncertaintyDrivers; compact?: boolean }) {
+export function UncertaintyDriversChart({
+  drivers,
+  compact = false,
+}: {
+  drivers: UncertaintyDrivers;
+  compact?: boolean;
+}) {
   const lead = drivers.noxAboveTropopauseKg[0];
   return (
     <div data-testid="drivers-chart" className="space-y-3">

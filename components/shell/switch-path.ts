@@ -10,7 +10,9 @@ const SECTIONS = WORKSPACE_SECTIONS.flatMap((s) => s.items).filter((i) => i.path
  */
 export function switchWorkspacePath(pathname: string, toSlug: string, toRole: Role): string {
   const rest = /^\/w\/[^/?#]+(\/[^?#]*)?/.exec(pathname)?.[1] ?? '';
-  const section = SECTIONS.filter((i) => rest === i.path || rest.startsWith(`${i.path}/`)).sort((a, b) => b.path.length - a.path.length)[0];
+  const section = SECTIONS.filter((i) => rest === i.path || rest.startsWith(`${i.path}/`)).sort(
+    (a, b) => b.path.length - a.path.length,
+  )[0];
   if (section && can(toRole, section.permission)) return `/w/${toSlug}${section.path}`;
   return toRole === 'billing' ? `/w/${toSlug}/settings/billing` : `/w/${toSlug}`;
 }

@@ -7,7 +7,15 @@ import { UserMenu } from './user-menu';
  * sidebar is hidden); `children` (the workspace switcher) sits in the header from `sm` up and inside
  * that menu below it.
  */
-export function TopBar({ user, menu, children }: { user: SessionUser; menu?: React.ReactNode; children?: React.ReactNode }) {
+export function TopBar({
+  user,
+  menu,
+  children,
+}: {
+  user: SessionUser;
+  menu?: React.ReactNode;
+  children?: React.ReactNode;
+}) {
   return (
     <header className="relative border-b border-line bg-paper-raised">
       <div className="mx-auto flex h-14 max-w-[1400px] items-center gap-2 px-4 sm:gap-4">

@@ -18,7 +18,11 @@ export function UserMenu({ email, name }: { email: string; name: string }) {
         <Link href="/workspaces" className="block rounded px-3 py-2 hover:bg-paper-sunk">
           All workspaces
         </Link>
-        <button type="button" onClick={() => signOut({ callbackUrl: '/signin' })} className="block w-full rounded px-3 py-2 text-left hover:bg-paper-sunk">
+        <button
+          type="button"
+          onClick={() => signOut({ callbackUrl: '/signin' })}
+          className="block w-full rounded px-3 py-2 text-left hover:bg-paper-sunk"
+        >
           Sign out
         </button>
       </div>

@@ -42,7 +42,17 @@ export const WORKSPACE_SECTIONS: { title: string; items: Item[] }[] = [
   },
 ];
 
-export function WorkspaceNav({ slug, role, hidden = [], label = 'Workspace' }: { slug: string; role: Role; hidden?: string[]; label?: string }) {
+export function WorkspaceNav({
+  slug,
+  role,
+  hidden = [],
+  label = 'Workspace',
+}: {
+  slug: string;
+  role: Role;
+  hidden?: string[];
+  label?: string;
+}) {
   return (
     <nav aria-label={label} className="space-y-5">
       {WORKSPACE_SECTIONS.map((section) => {

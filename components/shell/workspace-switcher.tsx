@@ -4,7 +4,13 @@ import { usePathname, useRouter } from 'next/navigation';
 import { ROLE_LABELS, type Role } from '@/lib/auth/policy';
 import { switchWorkspacePath } from './switch-path';
 
-export function WorkspaceSwitcher({ current, options }: { current: string; options: { slug: string; name: string; role: Role }[] }) {
+export function WorkspaceSwitcher({
+  current,
+  options,
+}: {
+  current: string;
+  options: { slug: string; name: string; role: Role }[];
+}) {
   const router = useRouter();
   const pathname = usePathname();
   return (

@@ -16,10 +16,18 @@ export function buttonClass(variant: Variant = 'primary', extra = ''): string {
   return `${base} ${variants[variant]} ${extra}`;
 }
 
-export function Button({ variant = 'primary', className = '', ...rest }: ButtonHTMLAttributes<HTMLButtonElement> & { variant?: Variant }) {
+export function Button({
+  variant = 'primary',
+  className = '',
+  ...rest
+}: ButtonHTMLAttributes<HTMLButtonElement> & { variant?: Variant }) {
   return <button type="button" {...rest} className={buttonClass(variant, className)} />;
 }
 
-export function ButtonLink({ variant = 'primary', className = '', ...rest }: ComponentProps<typeof Link> & { variant?: Variant }) {
+export function ButtonLink({
+  variant = 'primary',
+  className = '',
+  ...rest
+}: ComponentProps<typeof Link> & { variant?: Variant }) {
   return <Link {...rest} className={buttonClass(variant, className)} />;
 }

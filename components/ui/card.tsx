@@ -1,6 +1,16 @@
 import type { ReactNode } from 'react';
 
-export function Card({ title, actions, children, className = '' }: { title?: ReactNode; actions?: ReactNode; children: ReactNode; className?: string }) {
+export function Card({
+  title,
+  actions,
+  children,
+  className = '',
+}: {
+  title?: ReactNode;
+  actions?: ReactNode;
+  children: ReactNode;
+  className?: string;
+}) {
   return (
     <section className={`rounded-card border border-line bg-paper-raised p-5 shadow-sm ${className}`}>
       {title || actions ? (
@@ -26,8 +36,23 @@ export function PageHeader({ title, lead, actions }: { title: ReactNode; lead?: 
   );
 }
 
-export function Stat({ label, value, sub, tone = 'plain' }: { label: string; value: ReactNode; sub?: ReactNode; tone?: 'plain' | 'strato' | 'tropo' }) {
-  const toneClass = tone === 'strato' ? 'border-strato/40 bg-strato-soft' : tone === 'tropo' ? 'border-tropo/40 bg-tropo-soft' : 'border-line bg-paper-raised';
+export function Stat({
+  label,
+  value,
+  sub,
+  tone = 'plain',
+}: {
+  label: string;
+  value: ReactNode;
+  sub?: ReactNode;
+  tone?: 'plain' | 'strato' | 'tropo';
+}) {
+  const toneClass =
+    tone === 'strato'
+      ? 'border-strato/40 bg-strato-soft'
+      : tone === 'tropo'
+        ? 'border-tropo/40 bg-tropo-soft'
+        : 'border-line bg-paper-raised';
   return (
     <div className={`rounded-card border p-4 ${toneClass}`}>
       <div className="text-xs font-medium uppercase tracking-wide text-ink-soft">{label}</div>

@@ -9,7 +9,17 @@ import type { ActionState } from '@/lib/errors';
  * Deletes after a confirmation; shows the server's refusal (such as an engine still in use) right
  * under the button, and goes to `after` when done.
  */
-export function DeleteButton({ action, confirmText, label = 'Delete', after }: { action: () => Promise<ActionState>; confirmText: string; label?: string; after: string }) {
+export function DeleteButton({
+  action,
+  confirmText,
+  label = 'Delete',
+  after,
+}: {
+  action: () => Promise<ActionState>;
+  confirmText: string;
+  label?: string;
+  after: string;
+}) {
   const [pending, start] = useTransition();
   const [error, setError] = useState<string>();
   const router = useRouter();

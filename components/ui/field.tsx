@@ -50,32 +50,34 @@ export const TextInput = forwardRef<HTMLInputElement, InputHTMLAttributes<HTMLIn
   },
 );
 
-export const SelectInput = forwardRef<HTMLSelectElement, SelectHTMLAttributes<HTMLSelectElement> & { invalid?: boolean }>(
-  function SelectInput({ invalid, className = '', id, ...rest }, ref) {
-    return (
-      <select
-        ref={ref}
-        id={id}
-        aria-invalid={invalid || undefined}
-        aria-describedby={id && invalid ? `${id}-error` : undefined}
-        {...rest}
-        className={`${inputClass} ${className}`}
-      />
-    );
-  },
-);
+export const SelectInput = forwardRef<
+  HTMLSelectElement,
+  SelectHTMLAttributes<HTMLSelectElement> & { invalid?: boolean }
+>(function SelectInput({ invalid, className = '', id, ...rest }, ref) {
+  return (
+    <select
+      ref={ref}
+      id={id}
+      aria-invalid={invalid || undefined}
+      aria-describedby={id && invalid ? `${id}-error` : undefined}
+      {...rest}
+      className={`${inputClass} ${className}`}
+    />
+  );
+});
 
-export const TextArea = forwardRef<HTMLTextAreaElement, TextareaHTMLAttributes<HTMLTextAreaElement> & { invalid?: boolean }>(
-  function TextArea({ invalid, className = '', id, ...rest }, ref) {
-    return (
-      <textarea
-        ref={ref}
-        id={id}
-        aria-invalid={invalid || undefined}
-        aria-describedby={id && invalid ? `${id}-error` : undefined}
-        {...rest}
-        className={`${inputClass} ${className}`}
-      />
-    );
-  },
-);
+export const TextArea = forwardRef<
+  HTMLTextAreaElement,
+  TextareaHTMLAttributes<HTMLTextAreaElement> & { invalid?: boolean }
+>(function TextArea({ invalid, className = '', id, ...rest }, ref) {
+  return (
+    <textarea
+      ref={ref}
+      id={id}
+      aria-invalid={invalid || undefined}
+      aria-describedby={id && invalid ? `${id}-error` : undefined}
+      {...rest}
+      className={`${inputClass} ${className}`}
+    />
+  );
+});

@@ -8,7 +8,17 @@ const tones: Record<Tone, string> = {
   success: 'border-tropo/40 bg-tropo-soft text-ink',
 };
 
-export function Notice({ tone = 'info', title, children, role }: { tone?: Tone; title?: ReactNode; children?: ReactNode; role?: 'status' | 'alert' }) {
+export function Notice({
+  tone = 'info',
+  title,
+  children,
+  role,
+}: {
+  tone?: Tone;
+  title?: ReactNode;
+  children?: ReactNode;
+  role?: 'status' | 'alert';
+}) {
   return (
     <div role={role} className={`rounded-md border px-4 py-3 text-sm ${tones[tone]}`}>
       {title ? <p className="font-semibold">{title}</p> : null}
@@ -21,8 +31,9 @@ export function Notice({ tone = 'info', title, children, role }: { tone?: Tone; 
 export function ScreeningCaution() {
   return (
     <Notice tone="caution" title="Screening estimate">
-      For planning and reporting support, not a certified emissions inventory or a regulatory method. The ozone figure is a gross
-      catalytic loss, not a net column change. Follow the operator&apos;s approved methods and applicable regulation.
+      For planning and reporting support, not a certified emissions inventory or a regulatory method. The ozone figure
+      is a gross catalytic loss, not a net column change. Follow the operator&apos;s approved methods and applicable
+      regulation.
     </Notice>
   );
 }

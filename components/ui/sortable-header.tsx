@@ -8,15 +8,31 @@ import { flexRender, type Header } from '@tanstack/react-table';
  * and a ▲ / ▼ / ↕ mark; a column that cannot sort shows its plain header. `after` goes right after
  * the label (a footnote mark, say).
  */
-export function SortableHeader<T>({ header, className, after }: { header: Header<T, unknown>; className?: string; after?: ReactNode }) {
+export function SortableHeader<T>({
+  header,
+  className,
+  after,
+}: {
+  header: Header<T, unknown>;
+  className?: string;
+  after?: ReactNode;
+}) {
   const column = header.column;
   const sorted = column.getIsSorted();
   const label = flexRender(column.columnDef.header, header.getContext());
   const canSort = column.getCanSort();
   return (
-    <th scope="col" className={className} aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : canSort ? 'none' : undefined}>
+    <th
+      scope="col"
+      className={className}
+      aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : canSort ? 'none' : undefined}
+    >
       {canSort ? (
-        <button type="button" onClick={column.getToggleSortingHandler()} className="inline-flex items-center gap-1 uppercase hover:text-ink">
+        <button
+          type="button"
+          onClick={column.getToggleSortingHandler()}
+          className="inline-flex items-center gap-1 uppercase hover:text-ink"
+        >
           {label}
           {after}
           <span aria-hidden className="text-ink-faint">

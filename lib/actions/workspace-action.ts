@@ -28,8 +28,14 @@ interface ActionOptions {
   onError?: (state: ActionState<never>, slug: string) => ActionState<never>;
 }
 
-export type WorkspaceAction<T> = ((slug: string, raw?: unknown) => Promise<ActionState<T>>) & { permission: Permission; takesId: false };
-export type WorkspaceRowAction<T> = ((slug: string, id: unknown, raw?: unknown) => Promise<ActionState<T>>) & { permission: Permission; takesId: true };
+export type WorkspaceAction<T> = ((slug: string, raw?: unknown) => Promise<ActionState<T>>) & {
+  permission: Permission;
+  takesId: false;
+};
+export type WorkspaceRowAction<T> = ((slug: string, id: unknown, raw?: unknown) => Promise<ActionState<T>>) & {
+  permission: Permission;
+  takesId: true;
+};
 export type UserAction<T> = ((raw?: unknown) => Promise<ActionState<T>>) & { access: 'user' };
 
 /** For actions that take no input besides the workspace (and the row): accepts nothing else. */
@@ -74,7 +80,11 @@ export function workspaceAction<S extends z.ZodType, T = undefined>(
 export function workspaceRowAction<S extends z.ZodType, T = undefined, C extends boolean = false>(
   permission: Permission,
   schema: S,
-  fn: (ctx: WorkspaceActionContext, id: C extends true ? number | null : number, input: z.output<S>) => Promise<ActionDone<T>>,
+  fn: (
+    ctx: WorkspaceActionContext,
+    id: C extends true ? number | null : number,
+    input: z.output<S>,
+  ) => Promise<ActionDone<T>>,
   opts: ActionOptions & { create?: C } = {},
 ): WorkspaceRowAction<T> {
   const action = async (slug: string, rawId: unknown, raw?: unknown): Promise<ActionState<T>> => {
@@ -94,7 +104,10 @@ export function workspaceRowAction<S extends z.ZodType, T = undefined, C extends
 }
 
 /** `(input)`: an action on the signed-in user's own account, outside any workspace. */
-export function userAction<S extends z.ZodType, T = undefined>(schema: S, fn: (user: SessionUser, input: z.output<S>) => Promise<ActionDone<T>>): UserAction<T> {
+export function userAction<S extends z.ZodType, T = undefined>(
+  schema: S,
+  fn: (user: SessionUser, input: z.output<S>) => Promise<ActionDone<T>>,
+): UserAction<T> {
   const action = async (raw?: unknown): Promise<ActionState<T>> => {
     try {
       const user = await requireActionUser();

@@ -1,10 +1,26 @@
 import { z } from 'zod';
-import { screeningInputSchema, screeningPreviewBodySchema, soundingLevelSchema, compareCruiseLevelsOptionsSchema } from '@/lib/validation/screening';
+import {
+  screeningInputSchema,
+  screeningPreviewBodySchema,
+  soundingLevelSchema,
+  compareCruiseLevelsOptionsSchema,
+} from '@/lib/validation/screening';
 import { workspaceCreateSchema, apiKeyCreateSchema } from '@/lib/validation/workspaces';
-import { billingEmailSchema, cardChoiceSchema, subscribeSchema, subscriptionUpdateSchema, usageBudgetSchema } from '@/lib/validation/billing';
+import {
+  billingEmailSchema,
+  cardChoiceSchema,
+  subscribeSchema,
+  subscriptionUpdateSchema,
+  usageBudgetSchema,
+} from '@/lib/validation/billing';
 import { reportCreateSchema, reportSendSchema } from '@/lib/validation/reports';
 import { fleetCreateSchema, fleetUpdateSchema } from '@/lib/validation/fleets';
-import { aircraftTypeSaveSchema, engineSaveSchema, routeSaveSchema, soundingCreateSchema } from '@/lib/validation/library';
+import {
+  aircraftTypeSaveSchema,
+  engineSaveSchema,
+  routeSaveSchema,
+  soundingCreateSchema,
+} from '@/lib/validation/library';
 import { fixRowSchema } from '@/lib/validation/route-library';
 
 /**
@@ -23,74 +39,190 @@ export interface OperationSpec {
 
 const schema = (s: z.ZodType) => z.toJSONSchema(s, { target: 'draft-2020-12', unrepresentable: 'any', io: 'input' });
 
-const ERRORS = { '400': 'Unreadable body', '401': 'Not signed in and no key', '403': 'Role lacks permission', '404': 'Unknown or not yours', '422': 'Invalid fields', '429': 'Throttled' };
+const ERRORS = {
+  '400': 'Unreadable body',
+  '401': 'Not signed in and no key',
+  '403': 'Role lacks permission',
+  '404': 'Unknown or not yours',
+  '422': 'Invalid fields',
+  '429': 'Throttled',
+};
 
 export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec>>> = {
   '/workspaces': {
     get: { summary: "The caller's workspaces, each { slug, name, role }", responses: { '200': 'List' } },
-    post: { summary: 'Create a workspace; the creator is owner', requestBody: workspaceCreateSchema, responses: { '201': 'Created', '409': 'Address taken' } },
+    post: {
+      summary: 'Create a workspace; the creator is owner',
+      requestBody: workspaceCreateSchema,
+      responses: { '201': 'Created', '409': 'Address taken' },
+    },
   },
   '/workspaces/{slug}/api-keys': {
-    get: { summary: 'Active API keys (never the keys themselves)', permission: 'apikeys:manage', responses: { '200': 'List' } },
-    post: { summary: 'Create a key; the key is returned once', permission: 'apikeys:manage', requestBody: apiKeyCreateSchema, responses: { '201': '{ id, name, role, key }' } },
+    get: {
+      summary: 'Active API keys (never the keys themselves)',
+      permission: 'apikeys:manage',
+      responses: { '200': 'List' },
+    },
+    post: {
+      summary: 'Create a key; the key is returned once',
+      permission: 'apikeys:manage',
+      requestBody: apiKeyCreateSchema,
+      responses: { '201': '{ id, name, role, key }' },
+    },
   },
   '/workspaces/{slug}/api-keys/{id}': {
     delete: { summary: 'Revoke a key', permission: 'apikeys:manage', responses: { '204': 'Revoked' } },
   },
   '/workspaces/{slug}/usage': {
     get: {
-      summary: "The current billing period's metered usage (one unit per screened flight) and estimated charge (base fee + units x per-flight price, 0 in a free trial), with how many units the payment service has counted and the ledger-versus-provider reconciliation over the period's minute-aligned window",
+      summary:
+        "The current billing period's metered usage (one unit per screened flight) and estimated charge (base fee + units x per-flight price, 0 in a free trial), with how many units the payment service has counted and the ledger-versus-provider reconciliation over the period's minute-aligned window",
       permission: 'usage:read',
-      responses: { '200': '{ units, periodStart, periodEnd, estimatedChargeCents, planId, status, sentUnits, pendingUnits, reconciliation: { ledgerUnits, providerUnits, difference, checkedAt } | null, ... }' },
+      responses: {
+        '200':
+          '{ units, periodStart, periodEnd, estimatedChargeCents, planId, status, sentUnits, pendingUnits, reconciliation: { ledgerUnits, providerUnits, difference, checkedAt } | null, ... }',
+      },
     },
   },
   '/workspaces/{slug}/billing': {
-    get: { summary: 'Plan, status, trial or period end, cancel-at-period-end, billing e-mail, test card on file, and invoices (null while the payment service is unreachable)', permission: 'billing:read', responses: { '200': 'The billing state with invoices' } },
-    patch: { summary: 'Set the billing e-mail (empty string: payment problems go to owners and finance admins only)', permission: 'billing:manage', requestBody: billingEmailSchema, responses: { '200': 'The billing state', '503': 'The payment service did not answer; nothing changed' } },
+    get: {
+      summary:
+        'Plan, status, trial or period end, cancel-at-period-end, billing e-mail, test card on file, and invoices (null while the payment service is unreachable)',
+      permission: 'billing:read',
+      responses: { '200': 'The billing state with invoices' },
+    },
+    patch: {
+      summary: 'Set the billing e-mail (empty string: payment problems go to owners and finance admins only)',
+      permission: 'billing:manage',
+      requestBody: billingEmailSchema,
+      responses: { '200': 'The billing state', '503': 'The payment service did not answer; nothing changed' },
+    },
   },
   '/workspaces/{slug}/billing/subscription': {
-    post: { summary: 'Subscribe from a trial (the rest of the trial stays free) or after a cancellation, with a test card on file', permission: 'billing:manage', requestBody: subscribeSchema, responses: { '201': 'The billing state', '409': 'Already subscribed', '503': 'The payment service did not answer; nothing changed' } },
-    patch: { summary: 'Change plan (applies to the whole open period) and/or cancel at period end (true) or resume (false)', permission: 'billing:manage', requestBody: subscriptionUpdateSchema, responses: { '200': 'The billing state', '409': 'No running subscription', '503': 'The payment service did not answer; nothing changed' } },
+    post: {
+      summary:
+        'Subscribe from a trial (the rest of the trial stays free) or after a cancellation, with a test card on file',
+      permission: 'billing:manage',
+      requestBody: subscribeSchema,
+      responses: {
+        '201': 'The billing state',
+        '409': 'Already subscribed',
+        '503': 'The payment service did not answer; nothing changed',
+      },
+    },
+    patch: {
+      summary: 'Change plan (applies to the whole open period) and/or cancel at period end (true) or resume (false)',
+      permission: 'billing:manage',
+      requestBody: subscriptionUpdateSchema,
+      responses: {
+        '200': 'The billing state',
+        '409': 'No running subscription',
+        '503': 'The payment service did not answer; nothing changed',
+      },
+    },
   },
   '/workspaces/{slug}/billing/budget': {
-    get: { summary: "The monthly usage budget and this billing period's usage against it: { budgetCents, hardStop, periodStart, periodEnd, units, perFlightCents, usageChargeCents, usedFraction, unitsLeft, freePeriod }", permission: 'billing:read', responses: { '200': 'The budget state' } },
+    get: {
+      summary:
+        "The monthly usage budget and this billing period's usage against it: { budgetCents, hardStop, periodStart, periodEnd, units, perFlightCents, usageChargeCents, usedFraction, unitsLeft, freePeriod }",
+      permission: 'billing:read',
+      responses: { '200': 'The budget state' },
+    },
     put: {
-      summary: 'Set the monthly usage budget (cents of per-flight charges in a billing period; null clears it) and its hard stop. The billing contacts are e-mailed once a period at 80 % and at 100 %; with hardStop, screenings and imports that would pass the budget are refused with 402. A free trial has no budget.',
+      summary:
+        'Set the monthly usage budget (cents of per-flight charges in a billing period; null clears it) and its hard stop. The billing contacts are e-mailed once a period at 80 % and at 100 %; with hardStop, screenings and imports that would pass the budget are refused with 402. A free trial has no budget.',
       permission: 'billing:manage',
       requestBody: usageBudgetSchema,
       responses: { '200': 'The budget state' },
     },
   },
   '/workspaces/{slug}/billing/payment-method': {
-    put: { summary: 'Put a test card on file for future invoices: "succeeds" or "declined"', permission: 'billing:manage', requestBody: cardChoiceSchema, responses: { '200': 'The billing state', '503': 'The payment service did not answer; nothing changed' } },
+    put: {
+      summary: 'Put a test card on file for future invoices: "succeeds" or "declined"',
+      permission: 'billing:manage',
+      requestBody: cardChoiceSchema,
+      responses: { '200': 'The billing state', '503': 'The payment service did not answer; nothing changed' },
+    },
   },
   '/workspaces/{slug}/billing/invoices/pay': {
-    post: { summary: 'Charge the open invoices with the card on file; screening resumes once they are paid', permission: 'billing:manage', responses: { '200': '{ paid, billing }', '402': 'The card was declined again', '503': 'The payment service did not answer' } },
+    post: {
+      summary: 'Charge the open invoices with the card on file; screening resumes once they are paid',
+      permission: 'billing:manage',
+      responses: {
+        '200': '{ paid, billing }',
+        '402': 'The card was declined again',
+        '503': 'The payment service did not answer',
+      },
+    },
   },
   '/workspaces/{slug}/invoices/{id}/pdf': {
-    get: { summary: "An invoice's PDF, fetched from the payment service for members who may read billing", permission: 'billing:read', responses: { '200': 'application/pdf', '503': 'The payment service did not answer' } },
+    get: {
+      summary: "An invoice's PDF, fetched from the payment service for members who may read billing",
+      permission: 'billing:read',
+      responses: { '200': 'application/pdf', '503': 'The payment service did not answer' },
+    },
   },
   '/workspaces/{slug}/screenings': {
     post: {
-      summary: "Screen and save one flight (one billable unit). Body: the screenFlight input plus optional name and aircraft (a type code of the workspace that supplies emission and Mach when absent). The route is { waypoints }, { flightPlan: { text, from, to } } (ICAO Doc 4444 item 15, named points and airways from the workspace's fix and airway libraries; its levels replace cruise; the result then carries flightPlan { waypoints, cruise.steps, speeds, unresolved, notes, items }) or { track: { points: { time?, lat, lon, flightLevel? | pressureAltitudeFt? }[] } } (2-20 000 points in time order; cruise optional; fuel spread by the points' times; the result carries track). A step climb may be { atWaypoint, flightLevel } (the index in route.waypoints) instead of { fromKm, flightLevel }; it is saved as the distance to that waypoint. Fuel far outside a physical band per km for the route is a 422 on fuelBurnKg; unusual fuel is the first of the result's cautions. Idempotency-Key header: a repeat with the same key and the same body (key order aside) returns the first screening and adds no unit; the same key with a different body is refused (409).",
+      summary:
+        "Screen and save one flight (one billable unit). Body: the screenFlight input plus optional name and aircraft (a type code of the workspace that supplies emission and Mach when absent). The route is { waypoints }, { flightPlan: { text, from, to } } (ICAO Doc 4444 item 15, named points and airways from the workspace's fix and airway libraries; its levels replace cruise; the result then carries flightPlan { waypoints, cruise.steps, speeds, unresolved, notes, items }) or { track: { points: { time?, lat, lon, flightLevel? | pressureAltitudeFt? }[] } } (2-20 000 points in time order; cruise optional; fuel spread by the points' times; the result carries track). A step climb may be { atWaypoint, flightLevel } (the index in route.waypoints) instead of { fromKm, flightLevel }; it is saved as the distance to that waypoint. Fuel far outside a physical band per km for the route is a 422 on fuelBurnKg; unusual fuel is the first of the result's cautions. Idempotency-Key header: a repeat with the same key and the same body (key order aside) returns the first screening and adds no unit; the same key with a different body is refused (409).",
       permission: 'screenings:create',
       requestBody: screeningInputSchema,
-      responses: { '201': '{ id, name, createdAt, input, result }', '200': 'Idempotent replay of the first result', '402': 'Billing blocks new screenings', '409': 'The Idempotency-Key was already used with a different body (the error names the key and the screening)' },
+      responses: {
+        '201': '{ id, name, createdAt, input, result }',
+        '200': 'Idempotent replay of the first result',
+        '402': 'Billing blocks new screenings',
+        '409': 'The Idempotency-Key was already used with a different body (the error names the key and the screening)',
+      },
     },
-    get: { summary: 'Saved screenings, newest first', permission: 'flights:read', query: { cursor: 'id from nextCursor', limit: '1-200', from: 'YYYY-MM-DD', to: 'YYYY-MM-DD', route: 'text', aircraft: 'type code', minShareAbove: '0-1', maxShareAbove: '0-1' }, responses: { '200': '{ items, nextCursor }' } },
+    get: {
+      summary: 'Saved screenings, newest first',
+      permission: 'flights:read',
+      query: {
+        cursor: 'id from nextCursor',
+        limit: '1-200',
+        from: 'YYYY-MM-DD',
+        to: 'YYYY-MM-DD',
+        route: 'text',
+        aircraft: 'type code',
+        minShareAbove: '0-1',
+        maxShareAbove: '0-1',
+      },
+      responses: { '200': '{ items, nextCursor }' },
+    },
   },
   '/workspaces/{slug}/screenings/{id}': {
-    get: { summary: 'One saved screening with the engine version it was made with: engineVersion, currentEngineVersion, outdated, rescreenOf (the screening it re-made), rescreens (newer screenings made from it)', permission: 'flights:read', responses: { '200': '{ id, name, createdAt, engineVersion, currentEngineVersion, outdated, rescreenOf, rescreens, input, result }' } },
+    get: {
+      summary:
+        'One saved screening with the engine version it was made with: engineVersion, currentEngineVersion, outdated, rescreenOf (the screening it re-made), rescreens (newer screenings made from it)',
+      permission: 'flights:read',
+      responses: {
+        '200':
+          '{ id, name, createdAt, engineVersion, currentEngineVersion, outdated, rescreenOf, rescreens, input, result }',
+      },
+    },
   },
   '/workspaces/{slug}/screenings/{id}/rescreen': {
     post: {
-      summary: 'Screen a saved screening again with the current engine version, saved as a new screening pointing at it (rescreenOf). Not billed: no usage unit and no billing gate, since the flight was billed when first screened. One re-screen per screening and engine version: a repeat returns it.',
+      summary:
+        'Screen a saved screening again with the current engine version, saved as a new screening pointing at it (rescreenOf). Not billed: no usage unit and no billing gate, since the flight was billed when first screened. One re-screen per screening and engine version: a repeat returns it.',
       permission: 'screenings:create',
-      responses: { '201': 'The new screening { id, name, createdAt, engineVersion, rescreenOf, input, result }', '200': 'The re-screen already made with this engine version', '409': 'The screening is already on the current engine version', '422': 'The saved input is not accepted by the current engine (fields named)' },
+      responses: {
+        '201': 'The new screening { id, name, createdAt, engineVersion, rescreenOf, input, result }',
+        '200': 'The re-screen already made with this engine version',
+        '409': 'The screening is already on the current engine version',
+        '422': 'The saved input is not accepted by the current engine (fields named)',
+      },
     },
   },
   '/workspaces/{slug}/screenings/{id}/export': {
-    get: { summary: 'One saved screening as a download: CSV (headline figures, then one row per segment) or JSON { id, name, createdAt, input, result }', permission: 'flights:read', query: { format: 'csv (default) or json' }, responses: { '200': 'Attachment (text/csv or application/json)' } },
+    get: {
+      summary:
+        'One saved screening as a download: CSV (headline figures, then one row per segment) or JSON { id, name, createdAt, input, result }',
+      permission: 'flights:read',
+      query: { format: 'csv (default) or json' },
+      responses: { '200': 'Attachment (text/csv or application/json)' },
+    },
   },
   '/workspaces/{slug}/screenings/preview': {
     post: {
@@ -106,82 +238,195 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   },
   '/workspaces/{slug}/imports': {
     post: {
-      summary: 'Upload a flight-schedule CSV (10 MB, 100 000 rows at most). Every row is checked first: any problem refuses the whole file (nothing saved); otherwise the import is queued and its flights are screened in the background, one billable unit per screened flight.',
+      summary:
+        'Upload a flight-schedule CSV (10 MB, 100 000 rows at most). Every row is checked first: any problem refuses the whole file (nothing saved); otherwise the import is queued and its flights are screened in the background, one billable unit per screened flight.',
       permission: 'imports:create',
       requestBody: { multipart: { file: 'the schedule CSV' } },
-      query: { dryRun: '1: check every row and answer 200 { dryRun, rows, billableUnits, perFlightCents, estimatedChargeCents, freePeriod, budget, warnings } without saving anything (the estimate shown before confirming an import)' },
-      responses: { '200': 'With dryRun=1: the estimate; nothing saved', '202': '{ id, status: queued, rows, rowsDone, problems (unknown-column warnings, line 1), ... }', '402': 'Billing blocks new screenings', '409': 'The same file (SHA-256) was already imported; names the earlier import', '413': 'Larger than 10 MB or more than 100 000 rows', '422': '{ error, problems: { line, column, message }[], problemCount }' },
+      query: {
+        dryRun:
+          '1: check every row and answer 200 { dryRun, rows, billableUnits, perFlightCents, estimatedChargeCents, freePeriod, budget, warnings } without saving anything (the estimate shown before confirming an import)',
+      },
+      responses: {
+        '200': 'With dryRun=1: the estimate; nothing saved',
+        '202': '{ id, status: queued, rows, rowsDone, problems (unknown-column warnings, line 1), ... }',
+        '402': 'Billing blocks new screenings',
+        '409': 'The same file (SHA-256) was already imported; names the earlier import',
+        '413': 'Larger than 10 MB or more than 100 000 rows',
+        '422': '{ error, problems: { line, column, message }[], problemCount }',
+      },
     },
-    get: { summary: 'Imports, newest first, with their progress', permission: 'flights:read', query: { cursor: 'id from nextCursor', limit: '1-100' }, responses: { '200': '{ items, nextCursor }' } },
+    get: {
+      summary: 'Imports, newest first, with their progress',
+      permission: 'flights:read',
+      query: { cursor: 'id from nextCursor', limit: '1-100' },
+      responses: { '200': '{ items, nextCursor }' },
+    },
   },
   '/workspaces/{slug}/imports/{id}': {
-    get: { summary: 'One import: status (queued, screening, complete, failed), rows, rowsDone, rowsPerSecond, secondsLeft, problems, failureReason, engineVersions (flights per engine version), rescreen (progress of a re-screen with a newer engine, or null)', permission: 'flights:read', responses: { '200': 'The import' } },
-    delete: { summary: 'Delete an import and its flights; units already billed for screened flights stay billed', permission: 'imports:delete', responses: { '200': '{ id, fileName, flightsDeleted, billedUnitsKept, message }' } },
+    get: {
+      summary:
+        'One import: status (queued, screening, complete, failed), rows, rowsDone, rowsPerSecond, secondsLeft, problems, failureReason, engineVersions (flights per engine version), rescreen (progress of a re-screen with a newer engine, or null)',
+      permission: 'flights:read',
+      responses: { '200': 'The import' },
+    },
+    delete: {
+      summary: 'Delete an import and its flights; units already billed for screened flights stay billed',
+      permission: 'imports:delete',
+      responses: { '200': '{ id, fileName, flightsDeleted, billedUnitsKept, message }' },
+    },
   },
   '/workspaces/{slug}/imports/{id}/rescreen': {
     post: {
-      summary: "Screen the import's flights again with the current engine version, in the background. Not billed: no usage unit and no billing gate, since each flight was billed when first screened. Progress is the import's rescreen { status: queued | running | complete, engineVersion, rows, rowsDone, rowsFailed }; a flight the current engine cannot screen keeps its earlier figures and version. Asking again while one runs returns it.",
+      summary:
+        "Screen the import's flights again with the current engine version, in the background. Not billed: no usage unit and no billing gate, since each flight was billed when first screened. Progress is the import's rescreen { status: queued | running | complete, engineVersion, rows, rowsDone, rowsFailed }; a flight the current engine cannot screen keeps its earlier figures and version. Asking again while one runs returns it.",
       permission: 'imports:create',
-      responses: { '202': 'The import with its rescreen progress and engineVersions', '409': 'The import is still screening, or every flight is already on the current engine version' },
+      responses: {
+        '202': 'The import with its rescreen progress and engineVersions',
+        '409': 'The import is still screening, or every flight is already on the current engine version',
+      },
     },
   },
   '/workspaces/{slug}/imports/template': {
-    get: { summary: 'A schedule CSV template with example rows using this workspace\'s aircraft types and fleets', permission: 'flights:read', responses: { '200': 'text/csv' } },
+    get: {
+      summary: "A schedule CSV template with example rows using this workspace's aircraft types and fleets",
+      permission: 'flights:read',
+      responses: { '200': 'text/csv' },
+    },
   },
   '/workspaces/{slug}/flights': {
     get: {
-      summary: 'Flights, newest date first, each with flight, date, origin, destination, aircraft, fleet, cruiseFl, status and summary figures (distanceKm, fuelKg, noxTotalKg, noxAboveTropopauseKg, fractionAboveTropopause, ozoneLoss)',
+      summary:
+        'Flights, newest date first, each with flight, date, origin, destination, aircraft, fleet, cruiseFl, status and summary figures (distanceKm, fuelKg, noxTotalKg, noxAboveTropopauseKg, fractionAboveTropopause, ozoneLoss)',
       permission: 'flights:read',
-      query: { import: 'import id', from: 'YYYY-MM-DD', to: 'YYYY-MM-DD', fleet: 'fleet id', aircraft: 'type code', cursor: 'from nextCursor', limit: '1-200' },
+      query: {
+        import: 'import id',
+        from: 'YYYY-MM-DD',
+        to: 'YYYY-MM-DD',
+        fleet: 'fleet id',
+        aircraft: 'type code',
+        cursor: 'from nextCursor',
+        limit: '1-200',
+      },
       responses: { '200': '{ items, nextCursor }' },
     },
   },
   '/workspaces/{slug}/routes': {
-    get: { summary: 'Saved routes, by name, each with its great-circle distanceKm', permission: 'flights:read', responses: { '200': '{ items }' } },
-    post: { summary: 'Save a route: name (unique in the workspace), waypoints ({ airport } or { lat, lon }), notes', permission: 'library:write', requestBody: routeSaveSchema, responses: { '201': 'The route with distanceKm', '409': 'Name taken' } },
+    get: {
+      summary: 'Saved routes, by name, each with its great-circle distanceKm',
+      permission: 'flights:read',
+      responses: { '200': '{ items }' },
+    },
+    post: {
+      summary: 'Save a route: name (unique in the workspace), waypoints ({ airport } or { lat, lon }), notes',
+      permission: 'library:write',
+      requestBody: routeSaveSchema,
+      responses: { '201': 'The route with distanceKm', '409': 'Name taken' },
+    },
   },
   '/workspaces/{slug}/routes/{id}': {
     get: { summary: 'One saved route', permission: 'flights:read', responses: { '200': 'The route with distanceKm' } },
-    patch: { summary: 'Change any of name, waypoints, notes', permission: 'library:write', requestBody: routeSaveSchema.partial(), responses: { '200': 'The route', '409': 'Name taken' } },
+    patch: {
+      summary: 'Change any of name, waypoints, notes',
+      permission: 'library:write',
+      requestBody: routeSaveSchema.partial(),
+      responses: { '200': 'The route', '409': 'Name taken' },
+    },
     delete: { summary: 'Delete a saved route', permission: 'library:write', responses: { '204': 'Deleted' } },
   },
   '/workspaces/{slug}/engines': {
-    get: { summary: 'Engines (ICAO LTO certification fuel flows kg/s and EI NOx g/kg, idle, approach, climb-out, take-off)', permission: 'flights:read', responses: { '200': '{ items }' } },
-    post: { summary: 'Add an engine: four fuel flows rising idle to take-off, four EI NOx above 0 and at most 200 g/kg, source note', permission: 'library:write', requestBody: engineSaveSchema, responses: { '201': 'The engine', '409': 'Name taken' } },
+    get: {
+      summary: 'Engines (ICAO LTO certification fuel flows kg/s and EI NOx g/kg, idle, approach, climb-out, take-off)',
+      permission: 'flights:read',
+      responses: { '200': '{ items }' },
+    },
+    post: {
+      summary:
+        'Add an engine: four fuel flows rising idle to take-off, four EI NOx above 0 and at most 200 g/kg, source note',
+      permission: 'library:write',
+      requestBody: engineSaveSchema,
+      responses: { '201': 'The engine', '409': 'Name taken' },
+    },
   },
   '/workspaces/{slug}/engines/{id}': {
     get: { summary: 'One engine', permission: 'flights:read', responses: { '200': 'The engine' } },
-    patch: { summary: 'Change any of name, fuelFlowKgS, eiNoxGPerKg, source', permission: 'library:write', requestBody: engineSaveSchema, responses: { '200': 'The engine', '409': 'Name taken' } },
-    delete: { summary: 'Delete an engine', permission: 'library:write', responses: { '204': 'Deleted', '409': 'An aircraft type uses it' } },
+    patch: {
+      summary: 'Change any of name, fuelFlowKgS, eiNoxGPerKg, source',
+      permission: 'library:write',
+      requestBody: engineSaveSchema,
+      responses: { '200': 'The engine', '409': 'Name taken' },
+    },
+    delete: {
+      summary: 'Delete an engine',
+      permission: 'library:write',
+      responses: { '204': 'Deleted', '409': 'An aircraft type uses it' },
+    },
   },
   '/workspaces/{slug}/engines/import': {
     get: { summary: 'The engines CSV template', permission: 'flights:read', responses: { '200': 'text/csv' } },
     post: {
-      summary: 'Import engines from CSV (name, idle_ff_kg_s, approach_ff_kg_s, climb_out_ff_kg_s, take_off_ff_kg_s, idle_ei, approach_ei, climb_out_ei, take_off_ei, source), all or nothing',
+      summary:
+        'Import engines from CSV (name, idle_ff_kg_s, approach_ff_kg_s, climb_out_ff_kg_s, take_off_ff_kg_s, idle_ei, approach_ei, climb_out_ei, take_off_ei, source), all or nothing',
       permission: 'library:write',
       requestBody: { multipart: { file: 'The CSV, UTF-8, header row first' } },
-      responses: { '201': '{ items, warnings }', '413': 'File too large', '422': '{ error, problems: { line, column, message }[], warnings }' },
+      responses: {
+        '201': '{ items, warnings }',
+        '413': 'File too large',
+        '422': '{ error, problems: { line, column, message }[], warnings }',
+      },
     },
   },
   '/workspaces/{slug}/aircraft-types': {
     get: { summary: 'Aircraft types, by code', permission: 'flights:read', responses: { '200': '{ items }' } },
-    post: { summary: 'Add an aircraft type: code (unique), engine or direct EI NOx, engine count, typical Mach and flight level, default fleet', permission: 'library:write', requestBody: aircraftTypeSaveSchema, responses: { '201': 'The type', '409': 'Code taken' } },
+    post: {
+      summary:
+        'Add an aircraft type: code (unique), engine or direct EI NOx, engine count, typical Mach and flight level, default fleet',
+      permission: 'library:write',
+      requestBody: aircraftTypeSaveSchema,
+      responses: { '201': 'The type', '409': 'Code taken' },
+    },
   },
   '/workspaces/{slug}/aircraft-types/{id}': {
     get: { summary: 'One aircraft type', permission: 'flights:read', responses: { '200': 'The type' } },
-    patch: { summary: 'Change any field of a type', permission: 'library:write', requestBody: aircraftTypeSaveSchema, responses: { '200': 'The type', '409': 'Code taken' } },
+    patch: {
+      summary: 'Change any field of a type',
+      permission: 'library:write',
+      requestBody: aircraftTypeSaveSchema,
+      responses: { '200': 'The type', '409': 'Code taken' },
+    },
     delete: { summary: 'Delete an aircraft type', permission: 'library:write', responses: { '204': 'Deleted' } },
   },
   '/workspaces/{slug}/soundings': {
-    get: { summary: 'Soundings, newest first, each with its levels and WMO tropopause (or null)', permission: 'flights:read', responses: { '200': '{ items }' } },
-    post: { summary: 'Store a sounding { name, station?, observedAt?, levels }; its WMO (1957) tropopause is found and stored', permission: 'library:write', requestBody: soundingCreateSchema, responses: { '201': 'The sounding' } },
+    get: {
+      summary: 'Soundings, newest first, each with its levels and WMO tropopause (or null)',
+      permission: 'flights:read',
+      responses: { '200': '{ items }' },
+    },
+    post: {
+      summary:
+        'Store a sounding { name, station?, observedAt?, levels }; its WMO (1957) tropopause is found and stored',
+      permission: 'library:write',
+      requestBody: soundingCreateSchema,
+      responses: { '201': 'The sounding' },
+    },
   },
   '/workspaces/{slug}/soundings/upload': {
     post: {
-      summary: 'A sounding from a CSV of levels (altitude_m and/or pressure_hpa; temperature_k or temperature_c); form fields name, station, observedAt',
+      summary:
+        'A sounding from a CSV of levels (altitude_m and/or pressure_hpa; temperature_k or temperature_c); form fields name, station, observedAt',
       permission: 'library:write',
-      requestBody: { multipart: { file: 'The CSV of levels', name: 'Sounding name', station: 'Station (optional)', observedAt: 'YYYY-MM-DDTHH:MMZ (optional)' } },
-      responses: { '201': 'The sounding', '413': 'File too large', '422': '{ error, problems: { line, column, message }[], warnings }' },
+      requestBody: {
+        multipart: {
+          file: 'The CSV of levels',
+          name: 'Sounding name',
+          station: 'Station (optional)',
+          observedAt: 'YYYY-MM-DDTHH:MMZ (optional)',
+        },
+      },
+      responses: {
+        '201': 'The sounding',
+        '413': 'File too large',
+        '422': '{ error, problems: { line, column, message }[], warnings }',
+      },
     },
   },
   '/workspaces/{slug}/soundings/{id}': {
@@ -189,76 +434,174 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
     delete: { summary: 'Delete a sounding', permission: 'library:write', responses: { '204': 'Deleted' } },
   },
   '/workspaces/{slug}/fixes': {
-    get: { summary: "The workspace's named points (fix library) by name", permission: 'flights:read', query: { q: 'name prefix', limit: '1-500 (default 200)' }, responses: { '200': '{ items: { id, name, region, lat, lon, createdAt }[] }' } },
-    post: { summary: 'Add named points; one with the same name and region is moved', permission: 'navdata:write', requestBody: z.object({ fixes: z.array(fixRowSchema) }), responses: { '201': '{ added, updated }' } },
+    get: {
+      summary: "The workspace's named points (fix library) by name",
+      permission: 'flights:read',
+      query: { q: 'name prefix', limit: '1-500 (default 200)' },
+      responses: { '200': '{ items: { id, name, region, lat, lon, createdAt }[] }' },
+    },
+    post: {
+      summary: 'Add named points; one with the same name and region is moved',
+      permission: 'navdata:write',
+      requestBody: z.object({ fixes: z.array(fixRowSchema) }),
+      responses: { '201': '{ added, updated }' },
+    },
   },
   '/workspaces/{slug}/fixes/upload': {
     post: {
       summary: 'Named points from a CSV: name, lat, lon (degrees), optional region to tell same-named points apart',
       permission: 'navdata:write',
       requestBody: { multipart: { file: 'The CSV of fixes' } },
-      responses: { '201': '{ added, updated, warnings }', '413': 'File too large', '422': '{ error, problems: { line, column, message }[], warnings }' },
+      responses: {
+        '201': '{ added, updated, warnings }',
+        '413': 'File too large',
+        '422': '{ error, problems: { line, column, message }[], warnings }',
+      },
     },
   },
   '/workspaces/{slug}/fixes/{id}': {
     delete: { summary: 'Delete a named point', permission: 'navdata:write', responses: { '204': 'Deleted' } },
   },
   '/workspaces/{slug}/airways': {
-    get: { summary: "The workspace's airways by designator, each with its fix names in order", permission: 'flights:read', query: { q: 'designator prefix', limit: '1-500 (default 200)' }, responses: { '200': '{ items: { id, name, fixes, createdAt }[] }' } },
+    get: {
+      summary: "The workspace's airways by designator, each with its fix names in order",
+      permission: 'flights:read',
+      query: { q: 'designator prefix', limit: '1-500 (default 200)' },
+      responses: { '200': '{ items: { id, name, fixes, createdAt }[] }' },
+    },
   },
   '/workspaces/{slug}/airways/upload': {
     post: {
       summary: 'Airways from a CSV: airway, sequence, fix (one row per point); an airway already present is replaced',
       permission: 'navdata:write',
       requestBody: { multipart: { file: 'The CSV of airway points' } },
-      responses: { '201': '{ added, updated, warnings }', '413': 'File too large', '422': '{ error, problems: { line, column, message }[], warnings }' },
+      responses: {
+        '201': '{ added, updated, warnings }',
+        '413': 'File too large',
+        '422': '{ error, problems: { line, column, message }[], warnings }',
+      },
     },
   },
   '/workspaces/{slug}/airways/{id}': {
     delete: { summary: 'Delete an airway', permission: 'navdata:write', responses: { '204': 'Deleted' } },
   },
   '/atmosphere': {
-    get: { summary: 'ICAO standard atmosphere at a flight level or altitude', query: { flightLevel: 'number', altitudeM: 'geopotential m' }, responses: { '200': '{ temperatureK, pressurePa, densityKgM3, speedOfSoundMs, ... }' } },
+    get: {
+      summary: 'ICAO standard atmosphere at a flight level or altitude',
+      query: { flightLevel: 'number', altitudeM: 'geopotential m' },
+      responses: { '200': '{ temperatureK, pressurePa, densityKgM3, speedOfSoundMs, ... }' },
+    },
   },
   '/tropopause': {
-    post: { summary: 'WMO (1957) lapse-rate tropopause of a sounding', requestBody: z.object({ levels: z.array(soundingLevelSchema) }), responses: { '200': '{ tropopause: { altitudeM, temperatureK, pressureHpa } | null }' } },
+    post: {
+      summary: 'WMO (1957) lapse-rate tropopause of a sounding',
+      requestBody: z.object({ levels: z.array(soundingLevelSchema) }),
+      responses: { '200': '{ tropopause: { altitudeM, temperatureK, pressureHpa } | null }' },
+    },
   },
   '/airports': {
-    get: { summary: 'Airport type-ahead by ICAO/IATA code or name (at most 20)', query: { q: 'text', limit: '1-20' }, responses: { '200': '{ items: { icao, iata, name, country, lat, lon }[] }' } },
+    get: {
+      summary: 'Airport type-ahead by ICAO/IATA code or name (at most 20)',
+      query: { q: 'text', limit: '1-20' },
+      responses: { '200': '{ items: { icao, iata, name, country, lat, lon }[] }' },
+    },
   },
   '/workspaces/{slug}/fleets': {
-    get: { summary: 'Fleets, each with the aircraft types that default to it and its screened flights', permission: 'flights:read', responses: { '200': '{ items }' } },
-    post: { summary: 'Create a fleet', permission: 'fleets:write', requestBody: fleetCreateSchema, responses: { '201': 'The fleet', '409': 'Name taken' } },
+    get: {
+      summary: 'Fleets, each with the aircraft types that default to it and its screened flights',
+      permission: 'flights:read',
+      responses: { '200': '{ items }' },
+    },
+    post: {
+      summary: 'Create a fleet',
+      permission: 'fleets:write',
+      requestBody: fleetCreateSchema,
+      responses: { '201': 'The fleet', '409': 'Name taken' },
+    },
   },
   '/workspaces/{slug}/fleets/{id}': {
     get: { summary: 'One fleet', permission: 'flights:read', responses: { '200': 'The fleet' } },
-    patch: { summary: 'Rename or describe a fleet, or set exactly which aircraft types default to it (aircraftTypeIds)', permission: 'fleets:write', requestBody: fleetUpdateSchema, responses: { '200': 'The fleet', '409': 'Name taken' } },
-    delete: { summary: "Delete a fleet; its flights fall back to their aircraft type's default fleet", permission: 'fleets:write', responses: { '204': 'Deleted' } },
+    patch: {
+      summary: 'Rename or describe a fleet, or set exactly which aircraft types default to it (aircraftTypeIds)',
+      permission: 'fleets:write',
+      requestBody: fleetUpdateSchema,
+      responses: { '200': 'The fleet', '409': 'Name taken' },
+    },
+    delete: {
+      summary: "Delete a fleet; its flights fall back to their aircraft type's default fleet",
+      permission: 'fleets:write',
+      responses: { '204': 'Deleted' },
+    },
   },
   '/workspaces/{slug}/fleets/compare': {
     get: {
-      summary: "Fleet comparison of screened flights (SI units): rows per fleet (and month or aircraft type), totals with ratios from sums, monthly series per fleet, fleet-scale context, cautions. A flight's fleet is its own (CSV fleet column), else its aircraft type's default.",
+      summary:
+        "Fleet comparison of screened flights (SI units): rows per fleet (and month or aircraft type), totals with ratios from sums, monthly series per fleet, fleet-scale context, cautions. A flight's fleet is its own (CSV fleet column), else its aircraft type's default.",
       permission: 'flights:read',
-      query: { from: 'YYYY-MM-DD (default: first day of the month two months before `to`)', to: 'YYYY-MM-DD (default: today)', aircraft: 'aircraft type code', route: 'airport codes, e.g. EGLL or EGLL-KSFO (origin or destination)', minFl: 'level band bottom, 0-660', maxFl: 'level band top, 0-660', groupBy: 'fleet | month | aircraft', fleets: 'comma-separated fleet ids' },
+      query: {
+        from: 'YYYY-MM-DD (default: first day of the month two months before `to`)',
+        to: 'YYYY-MM-DD (default: today)',
+        aircraft: 'aircraft type code',
+        route: 'airport codes, e.g. EGLL or EGLL-KSFO (origin or destination)',
+        minFl: 'level band bottom, 0-660',
+        maxFl: 'level band top, 0-660',
+        groupBy: 'fleet | month | aircraft',
+        fleets: 'comma-separated fleet ids',
+      },
       responses: { '200': '{ period, groupBy, filters, rows, totals, months, series, context, notes, cautions }' },
     },
   },
   '/workspaces/{slug}/reports': {
-    get: { summary: 'Stored fleet reports, newest first', permission: 'flights:read', query: { cursor: 'id from nextCursor', limit: '1-200' }, responses: { '200': '{ items, nextCursor }' } },
-    post: { summary: "Build and store a fleet report (PDF in the builder's units, CSV in SI units) for a period and fleets", permission: 'reports:create', requestBody: reportCreateSchema, responses: { '201': 'The report with links to pdf and csv' } },
+    get: {
+      summary: 'Stored fleet reports, newest first',
+      permission: 'flights:read',
+      query: { cursor: 'id from nextCursor', limit: '1-200' },
+      responses: { '200': '{ items, nextCursor }' },
+    },
+    post: {
+      summary: "Build and store a fleet report (PDF in the builder's units, CSV in SI units) for a period and fleets",
+      permission: 'reports:create',
+      requestBody: reportCreateSchema,
+      responses: { '201': 'The report with links to pdf and csv' },
+    },
   },
   '/workspaces/{slug}/reports/{id}': {
-    get: { summary: 'One report with its summary and e-mail send history', permission: 'flights:read', responses: { '200': 'The report' } },
-    delete: { summary: 'Delete the report, its stored files and its e-mail history (the audit log keeps a record)', permission: 'reports:delete', responses: { '204': 'Deleted' } },
+    get: {
+      summary: 'One report with its summary and e-mail send history',
+      permission: 'flights:read',
+      responses: { '200': 'The report' },
+    },
+    delete: {
+      summary: 'Delete the report, its stored files and its e-mail history (the audit log keeps a record)',
+      permission: 'reports:delete',
+      responses: { '204': 'Deleted' },
+    },
   },
   '/workspaces/{slug}/reports/{id}/pdf': {
-    get: { summary: 'The report PDF as an attachment', permission: 'flights:read', responses: { '200': 'application/pdf' } },
+    get: {
+      summary: 'The report PDF as an attachment',
+      permission: 'flights:read',
+      responses: { '200': 'application/pdf' },
+    },
   },
   '/workspaces/{slug}/reports/{id}/csv': {
-    get: { summary: 'The report CSV (RFC 4180, formula cells neutralised) as an attachment', permission: 'flights:read', responses: { '200': 'text/csv' } },
+    get: {
+      summary: 'The report CSV (RFC 4180, formula cells neutralised) as an attachment',
+      permission: 'flights:read',
+      responses: { '200': 'text/csv' },
+    },
   },
   '/workspaces/{slug}/reports/{id}/send': {
-    post: { summary: 'E-mail the report PDF to up to 20 recipients; every attempt is recorded', permission: 'reports:send', requestBody: reportSendSchema, responses: { '201': '{ id, recipients, status, messageId, sentAt }', '429': 'Too many report e-mails from this workspace in the last hour', '503': 'The mail server refused; the attempt is recorded' } },
+    post: {
+      summary: 'E-mail the report PDF to up to 20 recipients; every attempt is recorded',
+      permission: 'reports:send',
+      requestBody: reportSendSchema,
+      responses: {
+        '201': '{ id, recipients, status, messageId, sentAt }',
+        '429': 'Too many report e-mails from this workspace in the last hour',
+        '503': 'The mail server refused; the attempt is recorded',
+      },
+    },
   },
   '/openapi.json': {
     get: { summary: 'This document', responses: { '200': 'OpenAPI 3.1' } },
@@ -270,17 +613,44 @@ export function buildOpenApiDocument(): Record<string, unknown> {
   for (const [path, ops] of Object.entries(API_OPERATIONS)) {
     const item: Record<string, unknown> = {};
     for (const [method, op] of Object.entries(ops) as [Method, OperationSpec][]) {
-      const params = [...path.matchAll(/\{(\w+)\}/g)].map((m) => ({ name: m[1], in: 'path', required: true, schema: { type: 'string' } }));
-      for (const [name, description] of Object.entries(op.query ?? {})) params.push({ name, in: 'query', required: false, schema: { type: 'string' }, description } as never);
+      const params = [...path.matchAll(/\{(\w+)\}/g)].map((m) => ({
+        name: m[1],
+        in: 'path',
+        required: true,
+        schema: { type: 'string' },
+      }));
+      for (const [name, description] of Object.entries(op.query ?? {}))
+        params.push({ name, in: 'query', required: false, schema: { type: 'string' }, description } as never);
       let requestBody: unknown;
       if (op.requestBody && 'multipart' in op.requestBody) {
-        requestBody = { required: true, content: { 'multipart/form-data': { schema: { type: 'object', properties: Object.fromEntries(Object.entries(op.requestBody.multipart).map(([k, d]) => [k, { type: 'string', format: 'binary', description: d }])) } } } };
+        requestBody = {
+          required: true,
+          content: {
+            'multipart/form-data': {
+              schema: {
+                type: 'object',
+                properties: Object.fromEntries(
+                  Object.entries(op.requestBody.multipart).map(([k, d]) => [
+                    k,
+                    { type: 'string', format: 'binary', description: d },
+                  ]),
+                ),
+              },
+            },
+          },
+        };
       } else if (op.requestBody) {
-        requestBody = { required: true, content: { 'application/json': { schema: schema(op.requestBody as z.ZodType) } } };
+        requestBody = {
+          required: true,
+          content: { 'application/json': { schema: schema(op.requestBody as z.ZodType) } },
+        };
       }
       const responses: Record<string, unknown> = {};
       for (const [code, description] of Object.entries({ ...op.responses, ...ERRORS })) {
-        responses[code] = Number(code) >= 400 ? { description, content: { 'application/json': { schema: { $ref: '#/components/schemas/Error' } } } } : { description };
+        responses[code] =
+          Number(code) >= 400
+            ? { description, content: { 'application/json': { schema: { $ref: '#/components/schemas/Error' } } } }
+            : { description };
       }
       item[method] = {
         summary: op.summary,
@@ -294,11 +664,18 @@ export function buildOpenApiDocument(): Record<string, unknown> {
   }
   return {
     openapi: '3.1.0',
-    info: { title: 'Tropopass API', version: '1', description: 'Screening estimates of NOx above the tropopause; not a certified inventory or a regulatory method.' },
+    info: {
+      title: 'Tropopass API',
+      version: '1',
+      description: 'Screening estimates of NOx above the tropopause; not a certified inventory or a regulatory method.',
+    },
     servers: [{ url: '/api/v1' }],
     security: [{ bearer: [] }, { session: [] }],
     components: {
-      securitySchemes: { bearer: { type: 'http', scheme: 'bearer', description: 'A workspace API key' }, session: { type: 'apiKey', in: 'cookie', name: 'next-auth.session-token' } },
+      securitySchemes: {
+        bearer: { type: 'http', scheme: 'bearer', description: 'A workspace API key' },
+        session: { type: 'apiKey', in: 'cookie', name: 'next-auth.session-token' },
+      },
       schemas: {
         Error: {
           type: 'object',
@@ -307,7 +684,14 @@ export function buildOpenApiDocument(): Record<string, unknown> {
             error: {
               type: 'object',
               required: ['code', 'message'],
-              properties: { code: { type: 'string' }, message: { type: 'string' }, fields: { type: 'array', items: { type: 'object', properties: { path: { type: 'string' }, message: { type: 'string' } } } } },
+              properties: {
+                code: { type: 'string' },
+                message: { type: 'string' },
+                fields: {
+                  type: 'array',
+                  items: { type: 'object', properties: { path: { type: 'string' }, message: { type: 'string' } } },
+                },
+              },
             },
           },
         },

@@ -6,7 +6,16 @@ import { getMembership, type WorkspaceDto } from '@/db/workspaces';
 import { can, type Permission, type Role } from '@/lib/auth/policy';
 import { isAllowedOrigin } from '@/lib/auth/origin';
 import { limitApi } from '@/lib/auth/throttle';
-import { badRequest, forbidden, fromZod, invalidFields, notFound, toResponse, tooLarge, unauthenticated } from '@/lib/errors';
+import {
+  badRequest,
+  forbidden,
+  fromZod,
+  invalidFields,
+  notFound,
+  toResponse,
+  tooLarge,
+  unauthenticated,
+} from '@/lib/errors';
 import { env } from '@/lib/env';
 import { log } from '@/lib/log';
 
@@ -36,7 +45,10 @@ async function authenticate(req: Request): Promise<Principal> {
     if (!m) throw unauthenticated('The Authorization header must be "Bearer <key>".');
     const key = await findApiKey(m[1]);
     if (!key) {
-      log.warn({ event: 'auth.rejected', reason: 'api_key', path: new URL(req.url).pathname }, 'unknown or revoked API key');
+      log.warn(
+        { event: 'auth.rejected', reason: 'api_key', path: new URL(req.url).pathname },
+        'unknown or revoked API key',
+      );
       throw unauthenticated('That API key is unknown or revoked.');
     }
     return { kind: 'key', key };
@@ -44,7 +56,10 @@ async function authenticate(req: Request): Promise<Principal> {
   const user = await userFromRequest(req);
   if (!user) throw unauthenticated();
   if (MUTATING.has(req.method) && !isAllowedOrigin(req.headers.get('origin'), req.headers.get('host'))) {
-    log.warn({ event: 'csrf.refused', origin: req.headers.get('origin'), userId: user.id, path: new URL(req.url).pathname }, 'cross-site request refused');
+    log.warn(
+      { event: 'csrf.refused', origin: req.headers.get('origin'), userId: user.id, path: new URL(req.url).pathname },
+      'cross-site request refused',
+    );
     throw forbidden('This request came from another site and was refused.');
   }
   return { kind: 'user', user };
@@ -57,7 +72,10 @@ function principalLabel(p: Principal): string {
 async function resolveMember(p: Principal, slug: string): Promise<{ workspace: WorkspaceDto; role: Role }> {
   if (p.kind === 'key') {
     if (p.key.workspace.slug !== slug) {
-      log.warn({ event: 'authz.not_member', apiKeyId: p.key.keyId, workspace: slug }, 'API key used outside its workspace');
+      log.warn(
+        { event: 'authz.not_member', apiKeyId: p.key.keyId, workspace: slug },
+        'API key used outside its workspace',
+      );
       throw notFound();
     }
     return { workspace: { ...p.key.workspace, createdAt: '' }, role: p.key.role };
@@ -79,7 +97,15 @@ export function authedRoute<P = Record<string, never>>(fn: (ctx: RouteContext<P>
       const principal = await authenticate(req);
       await limitApi(principal.kind === 'user' ? `u:${principal.user.id}` : `k:${principal.key.keyId}`);
       const params = (await ctx?.params) ?? ({} as P);
-      return withNoStore(await fn({ req, params, principal, userId: principal.kind === 'user' ? principal.user.id : null, actorLabel: principalLabel(principal) }));
+      return withNoStore(
+        await fn({
+          req,
+          params,
+          principal,
+          userId: principal.kind === 'user' ? principal.user.id : null,
+          actorLabel: principalLabel(principal),
+        }),
+      );
     } catch (err) {
       return failure(req, err);
     }
@@ -102,7 +128,14 @@ export function workspaceRoute<P extends { slug: string }>(
         throw forbidden();
       }
       return withNoStore(
-        await fn({ req, params, principal, member, userId: principal.kind === 'user' ? principal.user.id : null, actorLabel: principalLabel(principal) }),
+        await fn({
+          req,
+          params,
+          principal,
+          member,
+          userId: principal.kind === 'user' ? principal.user.id : null,
+          actorLabel: principalLabel(principal),
+        }),
       );
     } catch (err) {
       return failure(req, err);
@@ -125,13 +158,19 @@ function fromDatabaseInputError(req: Request, err: unknown): unknown {
   const code = err instanceof Error ? (err as Error & { code?: unknown }).code : undefined;
   if (code !== '22003' && code !== '22P02') return err;
   const where = req.method === 'GET' || req.method === 'DELETE' ? '(query)' : '(body)';
-  return invalidFields([{ path: where, message: 'A number in this request is out of range (ids, cursors and counts are whole numbers up to 2147483647).' }]);
+  return invalidFields([
+    {
+      path: where,
+      message: 'A number in this request is out of range (ids, cursors and counts are whole numbers up to 2147483647).',
+    },
+  ]);
 }
 
 function failure(req: Request, err: unknown): Response {
   const res = toResponse(fromDatabaseInputError(req, err));
   const path = new URL(req.url).pathname;
-  if (res.status === 422 || res.status === 400 || res.status === 413) log.info({ event: 'input.rejected', path, status: res.status }, 'input rejected');
+  if (res.status === 422 || res.status === 400 || res.status === 413)
+    log.info({ event: 'input.rejected', path, status: res.status }, 'input rejected');
   else if (res.status === 429) log.warn({ event: 'throttled', path }, 'request throttled');
   return res;
 }

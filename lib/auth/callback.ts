@@ -56,6 +56,10 @@ export function safeCallbackPath(raw: string | null | undefined, appOrigin: stri
 }
 
 /** The callback if it is safe, else the default landing. */
-export function callbackOrDefault(raw: string | null | undefined, appOrigin: string | URL, fallback = DEFAULT_LANDING): string {
+export function callbackOrDefault(
+  raw: string | null | undefined,
+  appOrigin: string | URL,
+  fallback = DEFAULT_LANDING,
+): string {
   return safeCallbackPath(raw, appOrigin) ?? fallback;
 }

@@ -40,7 +40,9 @@ export async function checkCredentials(
 }
 
 /** The claims every session token carries; `sid` names the recorded session that sign-out revokes. */
-export async function sessionClaims(userId: number): Promise<{ uid: number; sv: number; authAt: number; sid: string } | null> {
+export async function sessionClaims(
+  userId: number,
+): Promise<{ uid: number; sv: number; authAt: number; sid: string } | null> {
   const u = await getUserById(userId);
   if (!u) return null;
   const sid = await createSession(u.id, env().SESSION_MAX_HOURS);
@@ -61,7 +63,13 @@ export async function startSessionFromAction(user: UserDto, method: string, ip: 
     maxAge,
   });
   const { cookies } = await import('next/headers');
-  (await cookies()).set(sessionCookieName(), token, { httpOnly: true, sameSite: 'lax', path: '/', secure: isHttpsApp(), maxAge });
+  (await cookies()).set(sessionCookieName(), token, {
+    httpOnly: true,
+    sameSite: 'lax',
+    path: '/',
+    secure: isHttpsApp(),
+    maxAge,
+  });
   log.info({ event: 'signin.ok', userId: user.id, method }, 'signed in');
   await createAuditEntry({ userId: user.id, actor: user.email, action: 'signin', detail: { method }, ip });
 }

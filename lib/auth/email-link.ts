@@ -15,6 +15,10 @@ export async function createSignInLink(email: string, callbackPath: string, minu
     expires: new Date(Date.now() + minutes * 60_000),
   });
   const url = new URL('/api/auth/callback/email', appUrl());
-  url.search = new URLSearchParams({ callbackUrl: new URL(callbackPath, appUrl()).toString(), token, email }).toString();
+  url.search = new URLSearchParams({
+    callbackUrl: new URL(callbackPath, appUrl()).toString(),
+    token,
+    email,
+  }).toString();
   return url.toString();
 }

@@ -50,7 +50,12 @@ export async function requireMember(slug: string, permission: Permission = 'work
     // The bare workspace address is everyone's way in: a role without the overview starts on its own landing.
     const asked = await requestedPath();
     const landing = workspaceLanding(m.workspace.slug, m.role);
-    if (asked !== null && asked.split(/[?#]/)[0].replace(/\/+$/, '') === `/w/${m.workspace.slug}` && landing !== `/w/${m.workspace.slug}`) redirect(landing);
+    if (
+      asked !== null &&
+      asked.split(/[?#]/)[0].replace(/\/+$/, '') === `/w/${m.workspace.slug}` &&
+      landing !== `/w/${m.workspace.slug}`
+    )
+      redirect(landing);
     forbidden();
   }
   return { user, workspace: m.workspace, role: m.role };
@@ -72,7 +77,10 @@ export async function requireActionMember(slug: string, permission: Permission):
     throw notFoundError();
   }
   if (!can(m.role, permission)) {
-    log.warn({ event: 'authz.denied', via: 'action', userId: user.id, permission, role: m.role, workspace: slug }, 'permission denied');
+    log.warn(
+      { event: 'authz.denied', via: 'action', userId: user.id, permission, role: m.role, workspace: slug },
+      'permission denied',
+    );
     throw forbiddenError();
   }
   return { user, workspace: m.workspace, role: m.role };

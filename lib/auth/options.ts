@@ -31,7 +31,8 @@ export function authOptions(): NextAuthOptions {
     adapter: knexAdapter(),
     pages: { signIn: '/signin', verifyRequest: '/signin/check-email', error: '/signin' },
     logger: {
-      error: (code, metadata) => log.error({ code, metadata: metadata instanceof Error ? metadata.message : undefined }, 'auth error'),
+      error: (code, metadata) =>
+        log.error({ code, metadata: metadata instanceof Error ? metadata.message : undefined }, 'auth error'),
       warn: (code) => log.warn({ code }, 'auth warning'),
       debug: () => undefined,
     },
@@ -103,7 +104,12 @@ export function authOptions(): NextAuthOptions {
       async signIn({ user, account }) {
         const u = await getUserById(Number(user.id));
         log.info({ event: 'signin.ok', userId: u?.id, method: account?.provider }, 'signed in');
-        await createAuditEntry({ userId: u?.id ?? null, actor: u?.email ?? null, action: 'signin', detail: { method: account?.provider ?? 'unknown' } });
+        await createAuditEntry({
+          userId: u?.id ?? null,
+          actor: u?.email ?? null,
+          action: 'signin',
+          detail: { method: account?.provider ?? 'unknown' },
+        });
       },
     },
   };

@@ -40,10 +40,13 @@ export function passwordProblem(password: string, ctx: PasswordContext): string 
     return 'This password is on a list of commonly used passwords. Choose one that is not.';
   }
   if (isRepetitive(lower)) return 'This password repeats the same few characters. Choose one that does not.';
-  if (isSequential(lower)) return 'This password is mostly a sequence (like 12345 or abcde or qwerty). Choose one that is not.';
-  if (PRODUCT_NAMES.some((n) => lower.includes(n))) return "This password contains the product's name. Choose one that does not.";
+  if (isSequential(lower))
+    return 'This password is mostly a sequence (like 12345 or abcde or qwerty). Choose one that is not.';
+  if (PRODUCT_NAMES.some((n) => lower.includes(n)))
+    return "This password contains the product's name. Choose one that does not.";
   const personal = personalWords(email, ctx.name);
-  if (personal.some((w) => lower.includes(w))) return 'This password contains your name or e-mail address. Choose one that does not.';
+  if (personal.some((w) => lower.includes(w)))
+    return 'This password contains your name or e-mail address. Choose one that does not.';
   return null;
 }
 

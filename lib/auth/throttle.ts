@@ -1,7 +1,13 @@
 import 'server-only';
 import path from 'node:path';
 import Database from 'better-sqlite3';
-import { RateLimiterMemory, RateLimiterPostgres, RateLimiterRes, RateLimiterSQLite, type RateLimiterAbstract } from 'rate-limiter-flexible';
+import {
+  RateLimiterMemory,
+  RateLimiterPostgres,
+  RateLimiterRes,
+  RateLimiterSQLite,
+  type RateLimiterAbstract,
+} from 'rate-limiter-flexible';
 import { env } from '@/lib/env';
 import { isPostgres } from '@/db/config';
 import { db } from '@/db/client';
@@ -42,7 +48,12 @@ interface LimiterSpec {
 export const SHARED_THROTTLE_TABLE = 'throttle_counts';
 
 function shared(spec: LimiterSpec, pending: Promise<void>[]): RateLimiterAbstract {
-  const opts = { keyPrefix: spec.name, points: spec.points, duration: spec.durationS, blockDuration: spec.blockDurationS ?? 0 };
+  const opts = {
+    keyPrefix: spec.name,
+    points: spec.points,
+    duration: spec.durationS,
+    blockDuration: spec.blockDurationS ?? 0,
+  };
   let done: (err?: Error) => void = () => undefined;
   pending.push(new Promise<void>((resolve, reject) => (done = (err) => (err ? reject(err) : resolve()))));
   return new RateLimiterPostgres(
@@ -68,7 +79,15 @@ function sqliteFile(spec: LimiterSpec): RateLimiterAbstract {
   const conn = new Database(file);
   conn.pragma('journal_mode = WAL');
   conn.pragma('busy_timeout = 5000');
-  return new RateLimiterSQLite({ keyPrefix: spec.name, points: spec.points, duration: spec.durationS, blockDuration: spec.blockDurationS ?? 0, storeClient: conn, storeType: 'better-sqlite3', tableName: 'throttle_signin' });
+  return new RateLimiterSQLite({
+    keyPrefix: spec.name,
+    points: spec.points,
+    duration: spec.durationS,
+    blockDuration: spec.blockDurationS ?? 0,
+    storeClient: conn,
+    storeType: 'better-sqlite3',
+    tableName: 'throttle_signin',
+  });
 }
 
 /**
@@ -80,11 +99,24 @@ export function createLimiters(): Limiters {
   const pending: Promise<void>[] = [];
   const pg = isPostgres();
   const signIn = (spec: LimiterSpec) => (pg ? shared(spec, pending) : sqliteFile(spec));
-  const other = (spec: LimiterSpec) => (pg ? shared(spec, pending) : new RateLimiterMemory({ keyPrefix: spec.name, points: spec.points, duration: spec.durationS }));
+  const other = (spec: LimiterSpec) =>
+    pg
+      ? shared(spec, pending)
+      : new RateLimiterMemory({ keyPrefix: spec.name, points: spec.points, duration: spec.durationS });
   const limiters: Limiters = {
     ready: Promise.resolve(),
-    signInAccount: signIn({ name: 'acct', points: e.RATE_LIMIT_SIGNIN_PER_15MIN, durationS: WINDOW_S, blockDurationS: WINDOW_S }),
-    signInAddress: signIn({ name: 'addr', points: e.RATE_LIMIT_SIGNIN_PER_15MIN * 5, durationS: WINDOW_S, blockDurationS: WINDOW_S }),
+    signInAccount: signIn({
+      name: 'acct',
+      points: e.RATE_LIMIT_SIGNIN_PER_15MIN,
+      durationS: WINDOW_S,
+      blockDurationS: WINDOW_S,
+    }),
+    signInAddress: signIn({
+      name: 'addr',
+      points: e.RATE_LIMIT_SIGNIN_PER_15MIN * 5,
+      durationS: WINDOW_S,
+      blockDurationS: WINDOW_S,
+    }),
     email: other({ name: 'mail', points: e.RATE_LIMIT_EMAIL_PER_HOUR, durationS: 3600 }),
     reportSends: other({ name: 'report-mail', points: e.RATE_LIMIT_REPORT_SENDS_PER_HOUR, durationS: 3600 }),
     preview: other({ name: 'preview', points: e.RATE_LIMIT_PREVIEW_PER_MIN, durationS: 60 }),
@@ -120,7 +152,9 @@ async function consume(pick: (l: Limiters) => RateLimiterAbstract, key: string, 
 export class SignInLockedError extends Error {
   constructor(readonly retryAfterS: number) {
     const minutes = Math.max(1, Math.ceil(retryAfterS / 60));
-    super(`Too many failed sign-ins. Sign-in is paused for about ${minutes} minute${minutes === 1 ? '' : 's'}; you can also use an e-mailed sign-in link.`);
+    super(
+      `Too many failed sign-ins. Sign-in is paused for about ${minutes} minute${minutes === 1 ? '' : 's'}; you can also use an e-mailed sign-in link.`,
+    );
     this.name = 'SignInLockedError';
   }
 }
@@ -130,7 +164,10 @@ export async function assertSignInAllowed(email: string, ip: string): Promise<vo
   const l = limiters();
   await l.ready;
   // Without a trusted proxy every client shares one key; throttling it would let anyone lock everyone out.
-  const [a, b] = await Promise.all([l.signInAccount.get(email), ip === UNKNOWN_CLIENT ? null : l.signInAddress.get(ip)]);
+  const [a, b] = await Promise.all([
+    l.signInAccount.get(email),
+    ip === UNKNOWN_CLIENT ? null : l.signInAddress.get(ip),
+  ]);
   const blocked = [a, b].filter((r): r is RateLimiterRes => !!r && r.remainingPoints <= 0 && r.msBeforeNext > 0);
   if (blocked.length) throw new SignInLockedError(Math.max(...blocked.map((r) => r.msBeforeNext)) / 1000);
 }
@@ -156,7 +193,11 @@ export function limitEmailSend(kind: 'signin' | 'reset' | 'invite', to: string):
 
 /** Report e-mails per workspace per hour (each send, whatever its number of recipients). */
 export function limitReportSend(workspaceId: number): Promise<void> {
-  return consume((l) => l.reportSends, `ws:${workspaceId}`, 'This workspace has sent many report e-mails in the last hour. Try again later.');
+  return consume(
+    (l) => l.reportSends,
+    `ws:${workspaceId}`,
+    'This workspace has sent many report e-mails in the last hour. Try again later.',
+  );
 }
 
 export function limitPreview(key: string): Promise<void> {

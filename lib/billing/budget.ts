@@ -34,7 +34,11 @@ export interface BudgetState {
 
 type Trx = Knex | Knex.Transaction;
 
-async function unitsIn(scope: { workspaceId: number }, period: { start: string; end: string }, trx: Trx): Promise<number> {
+async function unitsIn(
+  scope: { workspaceId: number },
+  period: { start: string; end: string },
+  trx: Trx,
+): Promise<number> {
   const r = (await trx('usage_events')
     .where({ workspace_id: scope.workspaceId })
     .where('occurred_at', '>=', period.start)
@@ -57,7 +61,8 @@ function stateOf(billing: BillingDto, units: number): BudgetState {
     units,
     perFlightCents,
     usageChargeCents,
-    usedFraction: budget === null ? null : budget === 0 ? (usageChargeCents > 0 ? Infinity : 1) : usageChargeCents / budget,
+    usedFraction:
+      budget === null ? null : budget === 0 ? (usageChargeCents > 0 ? Infinity : 1) : usageChargeCents / budget,
     unitsLeft: budget === null || freePeriod ? null : Math.max(0, Math.floor(budget / perFlightCents) - units),
     freePeriod,
   };
@@ -83,7 +88,9 @@ export async function assertWithinBudget(scope: { workspaceId: number }, trx: Tr
   const what = addingUnits === 1 ? 'this screening' : `these ${addingUnits.toLocaleString('en-GB')} flights`;
   throw paymentRequired(
     `The monthly usage budget of this workspace (${formatUsd(s.budgetCents)}) is reached: ${s.units.toLocaleString('en-GB')} billable units so far this billing period (${formatUsd(s.usageChargeCents)}), and ${what} would take it to ${formatUsd(after)}. ` +
-      (s.unitsLeft ? `${s.unitsLeft.toLocaleString('en-GB')} more unit${s.unitsLeft === 1 ? '' : 's'} fit in the budget. ` : '') +
+      (s.unitsLeft
+        ? `${s.unitsLeft.toLocaleString('en-GB')} more unit${s.unitsLeft === 1 ? '' : 's'} fit in the budget. `
+        : '') +
       'An owner or finance admin can raise the budget or turn off the hard stop under Settings → Billing.',
   );
 }
@@ -104,21 +111,53 @@ export async function checkBudgetAlerts(scope: { workspaceId: number }): Promise
       if (!ws) return sent;
       const billingUrl = new URL(`/w/${ws.slug}/settings/billing`, appUrl()).toString();
       for (const to of await listBillingContacts(scope)) {
-        await sendMail(budgetAlertMail(to, { workspaceName: String(ws.name), threshold, budgetCents: s.budgetCents, usageChargeCents: s.usageChargeCents, units: s.units, periodEnd: s.periodEnd, hardStop: s.hardStop, billingUrl }));
+        await sendMail(
+          budgetAlertMail(to, {
+            workspaceName: String(ws.name),
+            threshold,
+            budgetCents: s.budgetCents,
+            usageChargeCents: s.usageChargeCents,
+            units: s.units,
+            periodEnd: s.periodEnd,
+            hardStop: s.hardStop,
+            billingUrl,
+          }),
+        );
       }
       sent.push(threshold);
     }
   } catch (err) {
-    log.error({ event: 'billing.budget_alert_failed', workspaceId: scope.workspaceId, err }, 'could not check or send the usage budget alerts');
+    log.error(
+      { event: 'billing.budget_alert_failed', workspaceId: scope.workspaceId, err },
+      'could not check or send the usage budget alerts',
+    );
   }
   return sent;
 }
 
 /** Sets or clears the budget and its hard stop; audited. */
-export async function setUsageBudget(scope: { workspaceId: number }, actor: { userId: number; email: string }, input: { budgetCents: number | null; hardStop: boolean }): Promise<BudgetState> {
+export async function setUsageBudget(
+  scope: { workspaceId: number },
+  actor: { userId: number; email: string },
+  input: { budgetCents: number | null; hardStop: boolean },
+): Promise<BudgetState> {
   await writeTx(async (trx) => {
-    await updateBilling(scope, { usageBudgetCents: input.budgetCents, budgetHardStop: input.budgetCents === null ? false : input.hardStop }, trx);
-    await createAuditEntry({ workspaceId: scope.workspaceId, userId: actor.userId, actor: actor.email, action: 'billing.budget_set', target: `workspace:${scope.workspaceId}`, detail: input }, trx);
+    await updateBilling(
+      scope,
+      { usageBudgetCents: input.budgetCents, budgetHardStop: input.budgetCents === null ? false : input.hardStop },
+      trx,
+    );
+    await createAuditEntry(
+      {
+        workspaceId: scope.workspaceId,
+        userId: actor.userId,
+        actor: actor.email,
+        action: 'billing.budget_set',
+        target: `workspace:${scope.workspaceId}`,
+        detail: input,
+      },
+      trx,
+    );
   });
   const s = await getBudgetState(scope);
   if (!s) throw new Error('workspace has no billing row');
@@ -134,7 +173,13 @@ export interface ImportEstimate {
   /** What these units add to the period's charge (0 in a free trial), in cents. */
   estimatedChargeCents: number;
   freePeriod: boolean;
-  budget: { budgetCents: number; usageChargeCents: number; afterImportCents: number; hardStop: boolean; wouldExceed: boolean } | null;
+  budget: {
+    budgetCents: number;
+    usageChargeCents: number;
+    afterImportCents: number;
+    hardStop: boolean;
+    wouldExceed: boolean;
+  } | null;
 }
 
 /** The cost of importing `rows` flights now, for the confirmation asked before an import is saved. */
@@ -145,7 +190,13 @@ export async function estimateImport(scope: { workspaceId: number }, rows: numbe
   const estimatedChargeCents = freePeriod ? 0 : rows * perFlightCents;
   const budget =
     s && s.budgetCents !== null && !freePeriod
-      ? { budgetCents: s.budgetCents, usageChargeCents: s.usageChargeCents, afterImportCents: s.usageChargeCents + estimatedChargeCents, hardStop: s.hardStop, wouldExceed: s.usageChargeCents + estimatedChargeCents > s.budgetCents }
+      ? {
+          budgetCents: s.budgetCents,
+          usageChargeCents: s.usageChargeCents,
+          afterImportCents: s.usageChargeCents + estimatedChargeCents,
+          hardStop: s.hardStop,
+          wouldExceed: s.usageChargeCents + estimatedChargeCents > s.budgetCents,
+        }
       : null;
   return { billableUnits: rows, perFlightCents, estimatedChargeCents, freePeriod, budget };
 }

@@ -25,7 +25,16 @@ export function paymentFailedMail(
 /** To the billing contacts when a period's usage reaches 80 % or 100 % of the workspace's budget. */
 export function budgetAlertMail(
   to: string,
-  input: { workspaceName: string; threshold: 80 | 100; budgetCents: number; usageChargeCents: number; units: number; periodEnd: string; hardStop: boolean; billingUrl: string },
+  input: {
+    workspaceName: string;
+    threshold: 80 | 100;
+    budgetCents: number;
+    usageChargeCents: number;
+    units: number;
+    periodEnd: string;
+    hardStop: boolean;
+    billingUrl: string;
+  },
 ): OutgoingMail {
   const reached = input.threshold === 100 ? 'has reached' : 'has reached 80 % of';
   const lines = [

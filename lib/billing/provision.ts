@@ -42,7 +42,12 @@ async function subscribeSeeded(billing: BillingDto, workspace: { slug: string },
   // Started a month ago, so the demo has one issued (and paid) invoice to show from the first start.
   const startedAt = Math.floor(Date.now() / 1000);
   const sub = await stripe().subscriptions.create(
-    { customer: customerId, items: [{ price: prices.base }, { price: prices.metered }], metadata: { workspace: workspace.slug }, backdate_start_date: startedAt - SEEDED_BACKDATE_DAYS * 86_400 },
+    {
+      customer: customerId,
+      items: [{ price: prices.base }, { price: prices.metered }],
+      metadata: { workspace: workspace.slug },
+      backdate_start_date: startedAt - SEEDED_BACKDATE_DAYS * 86_400,
+    },
     { idempotencyKey: `tp-seeded-subscription-ws-${billing.workspaceId}` },
   );
   await writeTx(async (trx) => {
@@ -89,7 +94,10 @@ export async function provisionBilling(limit = 20): Promise<ProvisionReport> {
       }
     } catch (err) {
       report.failed += 1;
-      log.warn({ event: 'billing.provision_failed', workspaceId: row.workspaceId, error: describeStripeError(err) }, 'billing provisioning will retry');
+      log.warn(
+        { event: 'billing.provision_failed', workspaceId: row.workspaceId, error: describeStripeError(err) },
+        'billing provisioning will retry',
+      );
     }
   }
   return report;

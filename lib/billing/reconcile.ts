@@ -34,9 +34,15 @@ export async function reconcileUsage(
   const window = reconciliationWindow(billing.currentPeriodStart, now);
   const windowStart = isoFromSeconds(window.start);
   const windowEnd = isoFromSeconds(window.end);
-  const countLedger = () => countLedgerUnits(scope, { from: windowStart, to: windowEnd, billableSince: billing.meteredSince });
+  const countLedger = () =>
+    countLedgerUnits(scope, { from: windowStart, to: windowEnd, billableSince: billing.meteredSince });
   const stored = billing.reconciliation;
-  if (stored && stored.windowStart === windowStart && opts.maxAgeMs !== undefined && now.getTime() - Date.parse(stored.checkedAt) < opts.maxAgeMs) {
+  if (
+    stored &&
+    stored.windowStart === windowStart &&
+    opts.maxAgeMs !== undefined &&
+    now.getTime() - Date.parse(stored.checkedAt) < opts.maxAgeMs
+  ) {
     // Reuse a fresh check only while the ledger still says what it said then: every unit sent since
     // would make the stored figures look like a difference that is not there.
     const current = await countLedger();

@@ -26,7 +26,9 @@ export const BILLING_LOCK_KEY = 7_243_190_511;
 export async function withBillingLock<T>(fn: () => Promise<T>): Promise<{ ran: true; value: T } | { ran: false }> {
   if (!usingPostgres()) return { ran: true, value: await fn() };
   return db().transaction(async (trx) => {
-    const r = (await trx.raw('select pg_try_advisory_xact_lock(?) as ok', [BILLING_LOCK_KEY])) as { rows: { ok: boolean }[] };
+    const r = (await trx.raw('select pg_try_advisory_xact_lock(?) as ok', [BILLING_LOCK_KEY])) as {
+      rows: { ok: boolean }[];
+    };
     if (!r.rows[0]?.ok) return { ran: false as const };
     return { ran: true as const, value: await fn() };
   });

@@ -28,10 +28,19 @@ export interface BillingActor {
 
 type Scope = Pick<WorkspaceDto, 'id' | 'slug' | 'name'>;
 
-async function record(scope: Scope, actor: BillingActor, action: string, patch: BillingPatch, detail: Record<string, unknown>): Promise<void> {
+async function record(
+  scope: Scope,
+  actor: BillingActor,
+  action: string,
+  patch: BillingPatch,
+  detail: Record<string, unknown>,
+): Promise<void> {
   await writeTx(async (trx) => {
     await updateBilling({ workspaceId: scope.id }, patch, trx);
-    await createAuditEntry({ workspaceId: scope.id, userId: actor.userId, actor: actor.email, action, target: scope.slug, detail }, trx);
+    await createAuditEntry(
+      { workspaceId: scope.id, userId: actor.userId, actor: actor.email, action, target: scope.slug, detail },
+      trx,
+    );
   });
 }
 
@@ -54,12 +63,19 @@ function activeSubscriptionId(billing: BillingDto): string {
   return billing.subscriptionId;
 }
 
-export async function subscribeWorkspace(scope: Scope, actor: BillingActor, input: { planId: PlanId; card: CardChoice }): Promise<BillingDto> {
+export async function subscribeWorkspace(
+  scope: Scope,
+  actor: BillingActor,
+  input: { planId: PlanId; card: CardChoice },
+): Promise<BillingDto> {
   const billing = await ensureBilling({ workspaceId: scope.id });
   if (billing.subscriptionId && billing.status !== 'canceled') {
     throw conflict('This workspace is already subscribed. Change the plan instead.');
   }
-  const trialEndsAt = billing.status === 'trialing' && billing.trialEndsAt && Date.parse(billing.trialEndsAt) > Date.now() + 60_000 ? billing.trialEndsAt : null;
+  const trialEndsAt =
+    billing.status === 'trialing' && billing.trialEndsAt && Date.parse(billing.trialEndsAt) > Date.now() + 60_000
+      ? billing.trialEndsAt
+      : null;
   const sub = await providerCall('subscribe', async () => {
     const customerId = await ensureCustomer(billing, scope);
     await putCardOnFile(customerId, input.card);
@@ -78,7 +94,12 @@ export async function subscribeWorkspace(scope: Scope, actor: BillingActor, inpu
     scope,
     actor,
     'billing.subscribed',
-    { ...patchFromSubscription(sub), meteredSince: isoFromSeconds(sub.start_date), paymentMethodLabel: TEST_CARDS[input.card].label, paymentFailedAt: null },
+    {
+      ...patchFromSubscription(sub),
+      meteredSince: isoFromSeconds(sub.start_date),
+      paymentMethodLabel: TEST_CARDS[input.card].label,
+      paymentFailedAt: null,
+    },
     { plan: input.planId, status: sub.status, subscription: sub.id, freeUntil: trialEndsAt },
   );
   return (await getBilling({ workspaceId: scope.id })) as BillingDto;
@@ -95,12 +116,22 @@ export async function changePlan(scope: Scope, actor: BillingActor, planId: Plan
   const updated = await providerCall('change_plan', async () => {
     const [sub, prices] = await Promise.all([stripe().subscriptions.retrieve(subscriptionId), planPrices(planId)]);
     const items = sub.items.data.map((item) => {
-      const metered = (item.price.lookup_key ? planForLookupKey(item.price.lookup_key)?.kind === 'metered' : false) || item.price.recurring?.usage_type === 'metered';
+      const metered =
+        (item.price.lookup_key ? planForLookupKey(item.price.lookup_key)?.kind === 'metered' : false) ||
+        item.price.recurring?.usage_type === 'metered';
       return { id: item.id, price: metered ? prices.metered : prices.base };
     });
-    return stripe().subscriptions.update(subscriptionId, { items, proration_behavior: 'none' }, { idempotencyKey: actionKey(billing, 'plan', planId) });
+    return stripe().subscriptions.update(
+      subscriptionId,
+      { items, proration_behavior: 'none' },
+      { idempotencyKey: actionKey(billing, 'plan', planId) },
+    );
   });
-  await record(scope, actor, 'billing.plan_changed', patchFromSubscription(updated), { from: billing.planId, to: planId, subscription: updated.id });
+  await record(scope, actor, 'billing.plan_changed', patchFromSubscription(updated), {
+    from: billing.planId,
+    to: planId,
+    subscription: updated.id,
+  });
   return { changed: true };
 }
 
@@ -109,7 +140,11 @@ export async function setCancelAtPeriodEnd(scope: Scope, actor: BillingActor, ca
   const subscriptionId = activeSubscriptionId(billing);
   if (billing.cancelAtPeriodEnd === cancel) return;
   const updated = await providerCall(cancel ? 'cancel' : 'resume', () =>
-    stripe().subscriptions.update(subscriptionId, { cancel_at_period_end: cancel }, { idempotencyKey: actionKey(billing, cancel ? 'cancel' : 'resume') }),
+    stripe().subscriptions.update(
+      subscriptionId,
+      { cancel_at_period_end: cancel },
+      { idempotencyKey: actionKey(billing, cancel ? 'cancel' : 'resume') },
+    ),
   );
   await record(scope, actor, cancel ? 'billing.cancel_scheduled' : 'billing.resumed', patchFromSubscription(updated), {
     subscription: updated.id,
@@ -161,7 +196,9 @@ export async function payOpenInvoices(scope: Scope, actor: BillingActor): Promis
   }
   await record(scope, actor, 'billing.invoice_payment_attempted', patch, { paid, declined });
   if (declined) {
-    throw paymentRequired('The card on file was declined, so the invoice is still open. Put the test card that succeeds on file, then pay again.');
+    throw paymentRequired(
+      'The card on file was declined, so the invoice is still open. Put the test card that succeeds on file, then pay again.',
+    );
   }
   return { paid };
 }
@@ -172,7 +209,13 @@ export async function setPaymentCard(scope: Scope, actor: BillingActor, card: Ca
     const customerId = await ensureCustomer(billing, scope);
     await putCardOnFile(customerId, card);
   });
-  await record(scope, actor, 'billing.payment_method_changed', { paymentMethodLabel: TEST_CARDS[card].label }, { from: billing.paymentMethodLabel, to: TEST_CARDS[card].label });
+  await record(
+    scope,
+    actor,
+    'billing.payment_method_changed',
+    { paymentMethodLabel: TEST_CARDS[card].label },
+    { from: billing.paymentMethodLabel, to: TEST_CARDS[card].label },
+  );
   return { label: TEST_CARDS[card].label };
 }
 
@@ -180,8 +223,15 @@ export async function updateBillingEmail(scope: Scope, actor: BillingActor, emai
   const billing = await ensureBilling({ workspaceId: scope.id });
   if ((billing.billingEmail ?? null) === email) return;
   const customerId = billing.customerId;
-  if (customerId) await providerCall('billing_email', () => stripe().customers.update(customerId, { email: email ?? '' }));
-  await record(scope, actor, 'billing.email_changed', { billingEmail: email }, { from: billing.billingEmail, to: email });
+  if (customerId)
+    await providerCall('billing_email', () => stripe().customers.update(customerId, { email: email ?? '' }));
+  await record(
+    scope,
+    actor,
+    'billing.email_changed',
+    { billingEmail: email },
+    { from: billing.billingEmail, to: email },
+  );
 }
 
 export interface InvoiceDto {
@@ -224,14 +274,21 @@ function allowedDocumentUrl(raw: string): URL | null {
     return null;
   }
   const e = env();
-  const configured = url.protocol === `${e.STRIPE_API_PROTOCOL}:` && url.hostname === e.STRIPE_API_HOST && Number(url.port || (url.protocol === 'https:' ? 443 : 80)) === e.STRIPE_API_PORT;
+  const configured =
+    url.protocol === `${e.STRIPE_API_PROTOCOL}:` &&
+    url.hostname === e.STRIPE_API_HOST &&
+    Number(url.port || (url.protocol === 'https:' ? 443 : 80)) === e.STRIPE_API_PORT;
   const hosted = url.protocol === 'https:' && (url.hostname === 'stripe.com' || url.hostname.endsWith('.stripe.com'));
   return configured || hosted ? url : null;
 }
 
 /** The invoice's PDF, fetched for a member of the workspace the invoice belongs to. */
-export async function getInvoicePdf(billing: BillingDto, invoiceId: string): Promise<{ filename: string; body: ArrayBuffer }> {
-  if (!billing.customerId || !/^in_[A-Za-z0-9]{1,64}$/.test(invoiceId)) throw notFound('No such invoice in this workspace.');
+export async function getInvoicePdf(
+  billing: BillingDto,
+  invoiceId: string,
+): Promise<{ filename: string; body: ArrayBuffer }> {
+  if (!billing.customerId || !/^in_[A-Za-z0-9]{1,64}$/.test(invoiceId))
+    throw notFound('No such invoice in this workspace.');
   let invoice: Stripe.Invoice;
   try {
     invoice = await stripe().invoices.retrieve(invoiceId);
@@ -244,7 +301,8 @@ export async function getInvoicePdf(billing: BillingDto, invoiceId: string): Pro
   const url = invoice.invoice_pdf ? allowedDocumentUrl(invoice.invoice_pdf) : null;
   if (!url) throw notFound('This invoice has no document yet.');
   const res = await fetch(url, { signal: AbortSignal.timeout(env().STRIPE_TIMEOUT_MS) }).catch(() => null);
-  if (!res?.ok) throw new AppError('unavailable', 'The invoice document could not be fetched just now. Try again in a minute.');
+  if (!res?.ok)
+    throw new AppError('unavailable', 'The invoice document could not be fetched just now. Try again in a minute.');
   return { filename: `${invoice.number ?? invoice.id}.pdf`, body: await res.arrayBuffer() };
 }
 

@@ -18,7 +18,9 @@ export function publicBillingState(billing: BillingDto) {
     currentPeriodEnd: billing.currentPeriodEnd,
     cancelAtPeriodEnd: billing.cancelAtPeriodEnd,
     billingEmail: billing.billingEmail,
-    paymentMethod: billing.paymentMethodLabel ? { card: cardChoiceForLabel(billing.paymentMethodLabel), label: billing.paymentMethodLabel } : null,
+    paymentMethod: billing.paymentMethodLabel
+      ? { card: cardChoiceForLabel(billing.paymentMethodLabel), label: billing.paymentMethodLabel }
+      : null,
     paymentFailedAt: billing.paymentFailedAt,
   };
 }

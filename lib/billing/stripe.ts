@@ -20,7 +20,14 @@ function sdkApiVersion(configured: string): Stripe.LatestApiVersion {
 
 export function stripe(): Stripe {
   const e = env();
-  const settings = [e.STRIPE_SECRET_KEY, e.STRIPE_API_HOST, e.STRIPE_API_PORT, e.STRIPE_API_PROTOCOL, e.STRIPE_API_VERSION, e.STRIPE_TIMEOUT_MS].join('|');
+  const settings = [
+    e.STRIPE_SECRET_KEY,
+    e.STRIPE_API_HOST,
+    e.STRIPE_API_PORT,
+    e.STRIPE_API_PROTOCOL,
+    e.STRIPE_API_VERSION,
+    e.STRIPE_TIMEOUT_MS,
+  ].join('|');
   if (g.tropopassStripe?.settings !== settings) {
     const client = new Stripe(e.STRIPE_SECRET_KEY, {
       host: e.STRIPE_API_HOST,
@@ -53,7 +60,8 @@ export function isStripeError(err: unknown): err is StripeError {
 /** Errors worth another try later: the service failed, throttled, or did not answer in time. */
 export function isTransientStripeError(err: unknown): boolean {
   if (!isStripeError(err)) return false;
-  if (err.type === 'StripeConnectionError' || err.type === 'StripeAPIError' || err.type === 'StripeRateLimitError') return true;
+  if (err.type === 'StripeConnectionError' || err.type === 'StripeAPIError' || err.type === 'StripeRateLimitError')
+    return true;
   const status = err.statusCode ?? 0;
   return status === 429 || status >= 500 || status === 0;
 }
@@ -61,7 +69,10 @@ export function isTransientStripeError(err: unknown): boolean {
 /** A short technical description for logs and the ledger's last_error; never shown to users. */
 export function describeStripeError(err: unknown): string {
   if (isStripeError(err)) {
-    return `${err.statusCode ?? 'no status'} ${err.type}${err.code ? `/${err.code}` : ''}: ${err.message}`.slice(0, 480);
+    return `${err.statusCode ?? 'no status'} ${err.type}${err.code ? `/${err.code}` : ''}: ${err.message}`.slice(
+      0,
+      480,
+    );
   }
   return (err instanceof Error ? `${err.name}: ${err.message}` : String(err)).slice(0, 480);
 }

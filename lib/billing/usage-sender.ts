@@ -1,6 +1,12 @@
 import 'server-only';
 import { nowIso } from '@/db/client';
-import { formUsageBatches, listDueUsageBatches, markUsageBatchFailed, markUsageBatchSent, type UsageBatchDto } from '@/db/usage-batches';
+import {
+  formUsageBatches,
+  listDueUsageBatches,
+  markUsageBatchFailed,
+  markUsageBatchSent,
+  type UsageBatchDto,
+} from '@/db/usage-batches';
 import { log } from '@/lib/log';
 import { METER_CUSTOMER_PAYLOAD_KEY, METER_EVENT_NAME, METER_VALUE_PAYLOAD_KEY } from './plans';
 import { describeStripeError, isStripeError, stripe } from './stripe';
@@ -49,7 +55,10 @@ type Outcome = 'sent' | 'already_recorded' | 'failed';
 async function deliver(row: UsageBatchDto): Promise<Outcome> {
   const timestamp = meterTimestamp(row.occurredAt, Date.now());
   if (timestamp === undefined) {
-    log.warn({ event: 'billing.usage_late', batchId: row.id, occurredAt: row.occurredAt }, 'usage older than the meter accepts; stamped on receipt');
+    log.warn(
+      { event: 'billing.usage_late', batchId: row.id, occurredAt: row.occurredAt },
+      'usage older than the meter accepts; stamped on receipt',
+    );
   }
   try {
     await stripe().billing.meterEvents.create(
@@ -72,7 +81,17 @@ async function deliver(row: UsageBatchDto): Promise<Outcome> {
     const attempts = row.sendAttempts + 1;
     const nextAttemptAt = new Date(Date.now() + backoffMs(attempts)).toISOString();
     await markUsageBatchFailed(row.id, { attempts, nextAttemptAt, error: describeStripeError(err) });
-    log.warn({ event: 'billing.usage_send_failed', batchId: row.id, units: row.quantity, attempts, nextAttemptAt, error: describeStripeError(err) }, 'meter event will be retried');
+    log.warn(
+      {
+        event: 'billing.usage_send_failed',
+        batchId: row.id,
+        units: row.quantity,
+        attempts,
+        nextAttemptAt,
+        error: describeStripeError(err),
+      },
+      'meter event will be retried',
+    );
     return 'failed';
   }
 }
@@ -94,11 +113,29 @@ export interface SendReport {
  * Batches the ledger rows due now, then sends every batch due by `asOf` (default now), oldest first,
  * at most `limit`. Tests call it directly; the billing loop calls it every few seconds.
  */
-export async function sendPendingUsage(opts: { asOf?: Date; limit?: number; workspaceId?: number; maxBatchUnits?: number } = {}): Promise<SendReport> {
+export async function sendPendingUsage(
+  opts: { asOf?: Date; limit?: number; workspaceId?: number; maxBatchUnits?: number } = {},
+): Promise<SendReport> {
   const limit = opts.limit ?? 200;
-  const formed = await formUsageBatches({ maxBatchUnits: opts.maxBatchUnits ?? MAX_BATCH_UNITS, maxBatches: limit, workspaceId: opts.workspaceId });
-  const batches = await listDueUsageBatches({ asOf: (opts.asOf ?? new Date()).toISOString(), limit, workspaceId: opts.workspaceId });
-  const report: SendReport = { batchedUnits: formed.units, batchesFormed: formed.batches, attempted: batches.length, sent: 0, alreadyRecorded: 0, failed: 0, unitsDelivered: 0 };
+  const formed = await formUsageBatches({
+    maxBatchUnits: opts.maxBatchUnits ?? MAX_BATCH_UNITS,
+    maxBatches: limit,
+    workspaceId: opts.workspaceId,
+  });
+  const batches = await listDueUsageBatches({
+    asOf: (opts.asOf ?? new Date()).toISOString(),
+    limit,
+    workspaceId: opts.workspaceId,
+  });
+  const report: SendReport = {
+    batchedUnits: formed.units,
+    batchesFormed: formed.batches,
+    attempted: batches.length,
+    sent: 0,
+    alreadyRecorded: 0,
+    failed: 0,
+    unitsDelivered: 0,
+  };
   for (const batch of batches) {
     const outcome = await deliver(batch);
     if (outcome === 'sent') report.sent += 1;

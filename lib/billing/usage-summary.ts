@@ -1,5 +1,11 @@
 import 'server-only';
-import { countLedgerUnits, ensureBilling, getUsageDeliveryProblem, type BillingDto, type BillingStatus } from '@/db/billing';
+import {
+  countLedgerUnits,
+  ensureBilling,
+  getUsageDeliveryProblem,
+  type BillingDto,
+  type BillingStatus,
+} from '@/db/billing';
 import { log } from '@/lib/log';
 import { PLANS, TRIAL_DAYS, estimateChargeCents, type PlanId } from './plans';
 import { reconcileUsage } from './reconcile';
@@ -17,7 +23,14 @@ export interface UsageSummary {
   sentUnits: number;
   /** Units of the period still waiting to be sent (0 when the workspace is not metered: a free trial). */
   pendingUnits: number;
-  reconciliation: { ledgerUnits: number; providerUnits: number; difference: number; checkedAt: string; windowStart: string; windowEnd: string } | null;
+  reconciliation: {
+    ledgerUnits: number;
+    providerUnits: number;
+    difference: number;
+    checkedAt: string;
+    windowStart: string;
+    windowEnd: string;
+  } | null;
   /** False when the payment service could not be asked just now; `reconciliation` is then the last stored one. */
   providerReachable: boolean;
   /** Whether the period is free (a trial): the estimate is then 0. */
@@ -33,15 +46,25 @@ export interface UsageSummary {
 
 /** The period usage is counted over: the subscription's, else the free trial's. */
 export function usagePeriod(billing: BillingDto, now = new Date()): { start: string; end: string } {
-  if (billing.currentPeriodStart && billing.currentPeriodEnd) return { start: billing.currentPeriodStart, end: billing.currentPeriodEnd };
+  if (billing.currentPeriodStart && billing.currentPeriodEnd)
+    return { start: billing.currentPeriodStart, end: billing.currentPeriodEnd };
   if (billing.trialEndsAt) {
-    return { start: new Date(Date.parse(billing.trialEndsAt) - TRIAL_DAYS * 86_400_000).toISOString(), end: billing.trialEndsAt };
+    return {
+      start: new Date(Date.parse(billing.trialEndsAt) - TRIAL_DAYS * 86_400_000).toISOString(),
+      end: billing.trialEndsAt,
+    };
   }
   const start = new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth(), 1));
-  return { start: start.toISOString(), end: new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth() + 1, 1)).toISOString() };
+  return {
+    start: start.toISOString(),
+    end: new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth() + 1, 1)).toISOString(),
+  };
 }
 
-export async function getUsageSummary(scope: { workspaceId: number }, opts: { reconcile?: boolean; maxAgeMs?: number } = {}): Promise<UsageSummary> {
+export async function getUsageSummary(
+  scope: { workspaceId: number },
+  opts: { reconcile?: boolean; maxAgeMs?: number } = {},
+): Promise<UsageSummary> {
   let billing = await ensureBilling(scope);
   let providerReachable = true;
   if (opts.reconcile !== false && billing.subscriptionId) {
@@ -50,14 +73,19 @@ export async function getUsageSummary(scope: { workspaceId: number }, opts: { re
       billing = await ensureBilling(scope);
     } catch (err) {
       providerReachable = false;
-      log.warn({ event: 'billing.reconcile_failed', workspaceId: scope.workspaceId, error: describeStripeError(err) }, 'reconciliation skipped');
+      log.warn(
+        { event: 'billing.reconcile_failed', workspaceId: scope.workspaceId, error: describeStripeError(err) },
+        'reconciliation skipped',
+      );
     }
   }
   const period = usagePeriod(billing);
   const metered = Boolean(billing.subscriptionId && billing.meteredSince);
   const [counts, billable, problem] = await Promise.all([
     countLedgerUnits(scope, { from: period.start, to: period.end }),
-    metered ? countLedgerUnits(scope, { from: period.start, to: period.end, billableSince: billing.meteredSince }) : null,
+    metered
+      ? countLedgerUnits(scope, { from: period.start, to: period.end, billableSince: billing.meteredSince })
+      : null,
     getUsageDeliveryProblem(scope),
   ]);
   const plan = PLANS[billing.planId];
@@ -74,7 +102,14 @@ export async function getUsageSummary(scope: { workspaceId: number }, opts: { re
     sentUnits: billable?.sentUnits ?? 0,
     pendingUnits: billable?.pendingUnits ?? 0,
     reconciliation: rec
-      ? { ledgerUnits: rec.ledgerUnits, providerUnits: rec.providerUnits, difference: rec.difference, checkedAt: rec.checkedAt, windowStart: rec.windowStart, windowEnd: rec.windowEnd }
+      ? {
+          ledgerUnits: rec.ledgerUnits,
+          providerUnits: rec.providerUnits,
+          difference: rec.difference,
+          checkedAt: rec.checkedAt,
+          windowStart: rec.windowStart,
+          windowEnd: rec.windowEnd,
+        }
       : null,
     providerReachable,
     freePeriod,
@@ -91,7 +126,9 @@ export async function getUsageSummary(scope: { workspaceId: number }, opts: { re
  * The billable units of the workspace's current billing period: the same count, over the same
  * period, as the billing page's meter (`getUsageSummary().units`), without asking the payment service.
  */
-export async function getBillableUnits(scope: { workspaceId: number }): Promise<{ units: number; periodStart: string; periodEnd: string }> {
+export async function getBillableUnits(scope: {
+  workspaceId: number;
+}): Promise<{ units: number; periodStart: string; periodEnd: string }> {
   const billing = await ensureBilling(scope);
   const period = usagePeriod(billing);
   const counts = await countLedgerUnits(scope, { from: period.start, to: period.end });

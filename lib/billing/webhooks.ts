@@ -2,7 +2,14 @@ import 'server-only';
 import type Stripe from 'stripe';
 import { db, writeTx } from '@/db/client';
 import { createAuditEntry } from '@/db/audit';
-import { findBillingByCustomer, listBillingContacts, recordWebhookEvent, updateBilling, type BillingDto, type BillingPatch } from '@/db/billing';
+import {
+  findBillingByCustomer,
+  listBillingContacts,
+  recordWebhookEvent,
+  updateBilling,
+  type BillingDto,
+  type BillingPatch,
+} from '@/db/billing';
 import { appUrl } from '@/lib/env';
 import { log } from '@/lib/log';
 import { sendMail } from '@/lib/mail/mailer';
@@ -63,13 +70,17 @@ export async function handleStripeEvent(event: Stripe.Event): Promise<WebhookOut
         else if (!billing.meteredSince) patch.meteredSince = isoFromSeconds(sub.created);
         if (patch.status === 'active') patch.paymentFailedAt = null;
         const changes = billingChanges(billing, patch);
-        if (Object.keys(changes).length === 0) return { result: 'processed', workspaceId: billing.workspaceId, changed: false };
+        if (Object.keys(changes).length === 0)
+          return { result: 'processed', workspaceId: billing.workspaceId, changed: false };
         await updateBilling({ workspaceId: billing.workspaceId }, patch, trx);
         await createAuditEntry(
           {
             workspaceId: billing.workspaceId,
             actor: AUDIT_ACTOR,
-            action: event.type === 'customer.subscription.deleted' ? 'billing.subscription_ended' : 'billing.subscription_changed',
+            action:
+              event.type === 'customer.subscription.deleted'
+                ? 'billing.subscription_ended'
+                : 'billing.subscription_changed',
             target: event.id,
             detail: { event: event.type, subscription: sub.id, changes },
           },
@@ -84,7 +95,8 @@ export async function handleStripeEvent(event: Stripe.Event): Promise<WebhookOut
         const customerId = customerIdOf(invoice.customer);
         const billing = customerId ? await findBillingByCustomer(customerId, trx) : null;
         if (!billing) return { result: 'ignored', reason: 'unknown customer' };
-        if (!isCurrent(billing, subscriptionOfInvoice(invoice), false)) return { result: 'ignored', reason: 'not the current subscription' };
+        if (!isCurrent(billing, subscriptionOfInvoice(invoice), false))
+          return { result: 'ignored', reason: 'not the current subscription' };
         const patch: BillingPatch = {};
         if (event.type === 'invoice.payment_failed') {
           if (billing.status !== 'canceled') patch.status = 'past_due';
@@ -110,7 +122,12 @@ export async function handleStripeEvent(event: Stripe.Event): Promise<WebhookOut
           },
           trx,
         );
-        if (!paid) after.failure = { workspaceId: billing.workspaceId, invoiceNumber: invoice.number ?? null, amountDueCents: invoice.amount_due };
+        if (!paid)
+          after.failure = {
+            workspaceId: billing.workspaceId,
+            invoiceNumber: invoice.number ?? null,
+            amountDueCents: invoice.amount_due,
+          };
         return { result: 'processed', workspaceId: billing.workspaceId, changed: Object.keys(changes).length > 0 };
       }
 
@@ -130,9 +147,19 @@ async function notifyPaymentFailed(failure: PaymentFailure): Promise<void> {
     const contacts = await listBillingContacts({ workspaceId: failure.workspaceId });
     const billingUrl = new URL(`/w/${ws.slug}/settings/billing`, appUrl()).toString();
     for (const to of contacts) {
-      await sendMail(paymentFailedMail(to, { workspaceName: ws.name, invoiceNumber: failure.invoiceNumber, amountDueCents: failure.amountDueCents, billingUrl }));
+      await sendMail(
+        paymentFailedMail(to, {
+          workspaceName: ws.name,
+          invoiceNumber: failure.invoiceNumber,
+          amountDueCents: failure.amountDueCents,
+          billingUrl,
+        }),
+      );
     }
   } catch (err) {
-    log.error({ event: 'billing.payment_failed_mail', workspaceId: failure.workspaceId, err }, 'could not e-mail the billing contacts');
+    log.error(
+      { event: 'billing.payment_failed_mail', workspaceId: failure.workspaceId, err },
+      'could not e-mail the billing contacts',
+    );
   }
 }

@@ -50,7 +50,10 @@ function anyFreePort(host = '127.0.0.1'): Promise<number> {
 }
 
 /** Chooses every demo port, or throws a DemoPortError naming the variable to set. */
-export async function resolveDemoPorts(env: NodeJS.ProcessEnv, specs: readonly DemoPortSpec[] = DEMO_PORTS): Promise<ResolvedPort[]> {
+export async function resolveDemoPorts(
+  env: NodeJS.ProcessEnv,
+  specs: readonly DemoPortSpec[] = DEMO_PORTS,
+): Promise<ResolvedPort[]> {
   const taken = new Set<number>();
   const out: ResolvedPort[] = [];
   for (const spec of specs) {
@@ -58,10 +61,14 @@ export async function resolveDemoPorts(env: NodeJS.ProcessEnv, specs: readonly D
     if (raw) {
       const port = Number(raw);
       if (!Number.isInteger(port) || port < 1 || port > 65_535) {
-        throw new DemoPortError(`${spec.variable}=${raw} is not a port number (1-65535). Set ${spec.variable} to a free port for ${spec.label}.`);
+        throw new DemoPortError(
+          `${spec.variable}=${raw} is not a port number (1-65535). Set ${spec.variable} to a free port for ${spec.label}.`,
+        );
       }
       if (taken.has(port) || !(await isPortFree(port))) {
-        throw new DemoPortError(`Port ${port} for ${spec.label} is in use by another program. Set ${spec.variable} to a free port (or unset it to let the demo choose one).`);
+        throw new DemoPortError(
+          `Port ${port} for ${spec.label} is in use by another program. Set ${spec.variable} to a free port (or unset it to let the demo choose one).`,
+        );
       }
       taken.add(port);
       out.push({ ...spec, port, moved: false });
@@ -82,5 +89,8 @@ export async function resolveDemoPorts(env: NodeJS.ProcessEnv, specs: readonly D
 
 /** One line per port for the demo's banner, saying which moved from its default and why. */
 export function describePorts(ports: readonly ResolvedPort[]): string[] {
-  return ports.map((p) => `  ${p.label.padEnd(28)} 127.0.0.1:${p.port}${p.moved ? `  (${p.defaultPort} was taken; set ${p.variable} to choose)` : ''}`);
+  return ports.map(
+    (p) =>
+      `  ${p.label.padEnd(28)} 127.0.0.1:${p.port}${p.moved ? `  (${p.defaultPort} was taken; set ${p.variable} to choose)` : ''}`,
+  );
 }

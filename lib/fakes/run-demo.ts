@@ -48,7 +48,10 @@ const commands = [
   { name: 'app', command: `next start -H 127.0.0.1 -p ${port}`, env },
 ];
 
-const { result } = concurrently(commands, { killOthersOn: ['failure', 'success'], prefixColors: ['gray', 'yellow', 'cyan'] });
+const { result } = concurrently(commands, {
+  killOthersOn: ['failure', 'success'],
+  prefixColors: ['gray', 'yellow', 'cyan'],
+});
 
 setTimeout(() => {
   console.log(

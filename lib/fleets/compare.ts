@@ -1,6 +1,12 @@
 import 'server-only';
 import { mixedEngineVersionCaution } from './units';
-import { aggregateFlights, noxAboveByLevels, type FlightAggregate, type FlightFilters, countFlightsByEngineVersion } from '@/db/fleets';
+import {
+  aggregateFlights,
+  noxAboveByLevels,
+  type FlightAggregate,
+  type FlightFilters,
+  countFlightsByEngineVersion,
+} from '@/db/fleets';
 import { findAirport, flightLevelToMetres, fleetOzoneColumnContext, geometricFromGeopotentialM } from '@/lib/screening';
 import { CO2_PER_KG_FUEL } from '@/lib/screening/screen-flight';
 import { todayIso } from '@/lib/clock';
@@ -21,15 +27,18 @@ export const FLEET_CAUTIONS: readonly string[] = Object.freeze([
 
 export const COMPARE_NOTES: FleetComparison['notes'] = {
   co2: `CO2 = ${CO2_PER_KG_FUEL} kg per kg of fuel (ICAO CORSIA conversion factor for Jet A/A-1).`,
-  ratios: 'Share above and NOx above per 1000 km are recomputed from the summed masses and distances, never averaged over flights.',
-  ozone: 'Ozone-loss figure: gross catalytic loss, central value with the low-high screening band (all inputs at their low or high values together).',
+  ratios:
+    'Share above and NOx above per 1000 km are recomputed from the summed masses and distances, never averaged over flights.',
+  ozone:
+    'Ozone-loss figure: gross catalytic loss, central value with the low-high screening band (all inputs at their low or high values together).',
   levelBand: 'The level band keeps flights whose cruise, from the first to the highest flight level, touches the band.',
 };
 
 const CONTEXT_METHOD =
   "The period's NOx above the tropopause is scaled to a year (x 365.25 / days in the period) and placed, by geometric altitude of its cruise levels (ISA pressure altitude converted with r0 = 6 356 766 m; a flight's NOx split evenly between its first and highest level), against published supersonic-fleet model results, scaled linearly with a +/-50 % band and only inside the altitudes each study covers.";
 
-const addDays = (iso: string, n: number) => new Date(Date.parse(`${iso}T00:00:00Z`) + n * 86_400_000).toISOString().slice(0, 10);
+const addDays = (iso: string, n: number) =>
+  new Date(Date.parse(`${iso}T00:00:00Z`) + n * 86_400_000).toISOString().slice(0, 10);
 
 function firstOfMonthBefore(iso: string, monthsBack: number): string {
   const [y, m] = iso.split('-').map(Number);
@@ -38,13 +47,17 @@ function firstOfMonthBefore(iso: string, monthsBack: number): string {
 }
 
 /** The period asked for, with defaults: the current month and the two before it, up to today. */
-export function resolvePeriod(q: { from?: string; to?: string }, today = todayIso()): { from: string; to: string; days: number } {
+export function resolvePeriod(
+  q: { from?: string; to?: string },
+  today = todayIso(),
+): { from: string; to: string; days: number } {
   let to = q.to;
   let from = q.from;
   if (!to) to = from && from > today ? addDays(from, 30) : today;
   if (!from) from = firstOfMonthBefore(to, 2);
   if (from > to) throw invalidFields([{ path: 'to', message: 'The end of the period is before its start.' }]);
-  if (monthsSpanned(from, to) > MAX_PERIOD_MONTHS) throw invalidFields([{ path: 'to', message: `Compare at most ${MAX_PERIOD_MONTHS} months at a time.` }]);
+  if (monthsSpanned(from, to) > MAX_PERIOD_MONTHS)
+    throw invalidFields([{ path: 'to', message: `Compare at most ${MAX_PERIOD_MONTHS} months at a time.` }]);
   const days = Math.round((Date.parse(`${to}T00:00:00Z`) - Date.parse(`${from}T00:00:00Z`)) / 86_400_000) + 1;
   return { from, to, days };
 }
@@ -71,7 +84,11 @@ export function monthsOf(from: string, to: string): string[] {
  */
 export function routeTerms(text: string | undefined): string[][] | undefined {
   if (!text) return undefined;
-  const words = text.toUpperCase().split(/[^A-Z0-9]+/).filter(Boolean).slice(0, 4);
+  const words = text
+    .toUpperCase()
+    .split(/[^A-Z0-9]+/)
+    .filter(Boolean)
+    .slice(0, 4);
   if (!words.length) return undefined;
   return words.map((w) => {
     const a = findAirport(w);
@@ -93,7 +110,16 @@ export function toFlightFilters(q: FleetCompareQuery, period: { from: string; to
 
 type Sums = Omit<FlightAggregate, 'fleetId' | 'fleetName' | 'month' | 'aircraftCode'>;
 
-const zero = (): Sums => ({ flights: 0, distanceKm: 0, fuelKg: 0, noxTotalKg: 0, noxAboveKg: 0, ozoneCentralKg: 0, ozoneLowKg: 0, ozoneHighKg: 0 });
+const zero = (): Sums => ({
+  flights: 0,
+  distanceKm: 0,
+  fuelKg: 0,
+  noxTotalKg: 0,
+  noxAboveKg: 0,
+  ozoneCentralKg: 0,
+  ozoneLowKg: 0,
+  ozoneHighKg: 0,
+});
 
 function add(a: Sums, b: Sums): Sums {
   return {
@@ -109,7 +135,10 @@ function add(a: Sums, b: Sums): Sums {
 }
 
 /** A row's derived figures, always from its sums. */
-export function rowOf(s: Sums, id: { key: string; fleetId: number | null; fleetName: string; month?: string | null; aircraftCode?: string | null }): CompareRow {
+export function rowOf(
+  s: Sums,
+  id: { key: string; fleetId: number | null; fleetName: string; month?: string | null; aircraftCode?: string | null },
+): CompareRow {
   return {
     key: id.key,
     fleetId: id.fleetId,
@@ -135,7 +164,12 @@ function geometricKm(flightLevel: number): number {
   return geometricFromGeopotentialM(flightLevelToMetres(flightLevel)) / 1000;
 }
 
-function contextRow(fleetId: number | null, fleetName: string, levels: { cruiseFl: number; maxFl: number; noxAboveKg: number }[], days: number): FleetContextRow {
+function contextRow(
+  fleetId: number | null,
+  fleetName: string,
+  levels: { cruiseFl: number; maxFl: number; noxAboveKg: number }[],
+  days: number,
+): FleetContextRow {
   const perYear = 365.25 / days;
   const byAltitude: { geometricAltitudeKm: number; noxKgPerYear: number }[] = [];
   let annual = 0;
@@ -152,7 +186,10 @@ function contextRow(fleetId: number | null, fleetName: string, levels: { cruiseF
 }
 
 /** Orders fleets by name with "No fleet" last. */
-function byFleetName(a: { fleetId: number | null; fleetName: string }, b: { fleetId: number | null; fleetName: string }): number {
+function byFleetName(
+  a: { fleetId: number | null; fleetName: string },
+  b: { fleetId: number | null; fleetName: string },
+): number {
   if (a.fleetId === null) return 1;
   if (b.fleetId === null) return -1;
   return a.fleetName.localeCompare(b.fleetName);
@@ -162,20 +199,34 @@ function byFleetName(a: { fleetId: number | null; fleetName: string }, b: { flee
  * The fleet comparison: rows per fleet (and month or aircraft type), the totals row, monthly series
  * per fleet for the charts, and the fleet-scale context. Figures are SI (kg, km); display converts.
  */
-export async function compareFleets(scope: { workspaceId: number }, q: FleetCompareQuery, today = todayIso()): Promise<FleetComparison> {
+export async function compareFleets(
+  scope: { workspaceId: number },
+  q: FleetCompareQuery,
+  today = todayIso(),
+): Promise<FleetComparison> {
   const period = resolvePeriod(q, today);
   const filters = toFlightFilters(q, period);
   const [grouped, monthly, levels, engineVersions] = await Promise.all([
-    q.groupBy === 'fleet' ? Promise.resolve(null) : aggregateFlights(scope, filters, { month: q.groupBy === 'month', aircraft: q.groupBy === 'aircraft' }),
+    q.groupBy === 'fleet'
+      ? Promise.resolve(null)
+      : aggregateFlights(scope, filters, { month: q.groupBy === 'month', aircraft: q.groupBy === 'aircraft' }),
     aggregateFlights(scope, filters, { month: true }),
     noxAboveByLevels(scope, filters),
     countFlightsByEngineVersion(scope, filters),
   ]);
 
-  const fleets = new Map<string, { fleetId: number | null; fleetName: string; sums: Sums; byMonth: Map<string, Sums> }>();
+  const fleets = new Map<
+    string,
+    { fleetId: number | null; fleetName: string; sums: Sums; byMonth: Map<string, Sums> }
+  >();
   for (const a of monthly) {
     const k = fleetKey(a.fleetId);
-    const f = fleets.get(k) ?? { fleetId: a.fleetId, fleetName: nameOf(a), sums: zero(), byMonth: new Map<string, Sums>() };
+    const f = fleets.get(k) ?? {
+      fleetId: a.fleetId,
+      fleetName: nameOf(a),
+      sums: zero(),
+      byMonth: new Map<string, Sums>(),
+    };
     f.sums = add(f.sums, a);
     f.byMonth.set(a.month ?? '', add(f.byMonth.get(a.month ?? '') ?? zero(), a));
     fleets.set(k, f);
@@ -185,7 +236,9 @@ export async function compareFleets(scope: { workspaceId: number }, q: FleetComp
 
   let rows: CompareRow[];
   if (grouped === null) {
-    rows = fleetList.map((f) => rowOf(f.sums, { key: fleetKey(f.fleetId), fleetId: f.fleetId, fleetName: f.fleetName }));
+    rows = fleetList.map((f) =>
+      rowOf(f.sums, { key: fleetKey(f.fleetId), fleetId: f.fleetId, fleetName: f.fleetName }),
+    );
   } else {
     rows = grouped
       .map((a) =>
@@ -197,7 +250,9 @@ export async function compareFleets(scope: { workspaceId: number }, q: FleetComp
           aircraftCode: a.aircraftCode ?? null,
         }),
       )
-      .sort((x, y) => byFleetName(x, y) || (x.month ?? x.aircraftCode ?? '').localeCompare(y.month ?? y.aircraftCode ?? ''));
+      .sort(
+        (x, y) => byFleetName(x, y) || (x.month ?? x.aircraftCode ?? '').localeCompare(y.month ?? y.aircraftCode ?? ''),
+      );
   }
 
   const months = monthsOf(period.from, period.to);
@@ -221,7 +276,13 @@ export async function compareFleets(scope: { workspaceId: number }, q: FleetComp
   return {
     period,
     groupBy: q.groupBy,
-    filters: { aircraft: q.aircraft ?? null, route: q.route ?? null, minFl: q.minFl ?? null, maxFl: q.maxFl ?? null, fleets: q.fleets ?? null },
+    filters: {
+      aircraft: q.aircraft ?? null,
+      route: q.route ?? null,
+      minFl: q.minFl ?? null,
+      maxFl: q.maxFl ?? null,
+      fleets: q.fleets ?? null,
+    },
     rows,
     totals: rowOf(totalSums, { key: 'total', fleetId: null, fleetName: 'All fleets' }),
     months,

@@ -50,7 +50,13 @@ export interface FleetContextRow {
 export interface FleetComparison {
   period: { from: string; to: string; days: number };
   groupBy: GroupBy;
-  filters: { aircraft: string | null; route: string | null; minFl: number | null; maxFl: number | null; fleets: number[] | null };
+  filters: {
+    aircraft: string | null;
+    route: string | null;
+    minFl: number | null;
+    maxFl: number | null;
+    fleets: number[] | null;
+  };
   rows: CompareRow[];
   totals: CompareRow;
   months: string[];

@@ -27,7 +27,16 @@ export function monthLabel(ym: string): string {
 }
 
 /** Colours of fleets in charts, in order (tokens of tailwind.config.ts first). */
-export const FLEET_COLOURS = ['#6a3d9a', '#23867a', '#1d5fa8', '#9a5a12', '#b3261e', '#4b2574', '#15594f', '#3d4a63'] as const;
+export const FLEET_COLOURS = [
+  '#6a3d9a',
+  '#23867a',
+  '#1d5fa8',
+  '#9a5a12',
+  '#b3261e',
+  '#4b2574',
+  '#15594f',
+  '#3d4a63',
+] as const;
 
 /** "2026.12.1 (40 flights), 2026.12.2 (60 flights)". */
 export function engineVersionsText(versions: { engineVersion: string; flights: number }[]): string {

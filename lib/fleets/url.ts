@@ -5,7 +5,8 @@ export type CompareFilterKey = (typeof COMPARE_FILTER_KEYS)[number];
 type ParamSource = { get(name: string): string | null } | Record<string, string | string[] | undefined>;
 
 function read(src: ParamSource, key: string): string {
-  if (typeof (src as { get?: unknown }).get === 'function') return ((src as { get(name: string): string | null }).get(key) ?? '').trim();
+  if (typeof (src as { get?: unknown }).get === 'function')
+    return ((src as { get(name: string): string | null }).get(key) ?? '').trim();
   const v = (src as Record<string, string | string[] | undefined>)[key];
   return (Array.isArray(v) ? (v[0] ?? '') : (v ?? '')).trim();
 }

@@ -90,7 +90,14 @@ export function parseCsv(input: string, options: ParseCsvOptions): CsvTable {
       if (stopped) return;
       const cells = result.data;
       for (const e of result.errors) {
-        problems.push({ line, column: '', message: e.type === 'Quotes' ? 'A quoted value on this line is not closed (a " is missing).' : `This line cannot be read: ${e.message}.` });
+        problems.push({
+          line,
+          column: '',
+          message:
+            e.type === 'Quotes'
+              ? 'A quoted value on this line is not closed (a " is missing).'
+              : `This line cannot be read: ${e.message}.`,
+        });
       }
       if (cells.every((c) => c.trim() === '')) return;
       if (!header) {
@@ -100,11 +107,19 @@ export function parseCsv(input: string, options: ParseCsvOptions): CsvTable {
         header = cells.map((raw, i) => {
           const name = raw.trim().toLowerCase();
           if (!name) {
-            warnings.push({ line, column: `(column ${i + 1})`, message: `Column ${i + 1} has no name in the header and was ignored.` });
+            warnings.push({
+              line,
+              column: `(column ${i + 1})`,
+              message: `Column ${i + 1} has no name in the header and was ignored.`,
+            });
             return null;
           }
           if (!known.has(name)) {
-            warnings.push({ line, column: name, message: `The column "${raw.trim()}" is not one this import reads; it was ignored.` });
+            warnings.push({
+              line,
+              column: name,
+              message: `The column "${raw.trim()}" is not one this import reads; it was ignored.`,
+            });
             return null;
           }
           if (seen.has(name)) {
@@ -123,13 +138,21 @@ export function parseCsv(input: string, options: ParseCsvOptions): CsvTable {
         return;
       }
       if (options.maxRows !== undefined && rows.length >= options.maxRows) {
-        problems.push({ line, column: '', message: `A file may have at most ${options.maxRows} rows; this one has more. Split it and import the parts.` });
+        problems.push({
+          line,
+          column: '',
+          message: `A file may have at most ${options.maxRows} rows; this one has more. Split it and import the parts.`,
+        });
         stopped = true;
         parser.abort();
         return;
       }
       if (cells.length !== headerWidth) {
-        problems.push({ line, column: '', message: `This line has ${cells.length} value${cells.length === 1 ? '' : 's'}; the header has ${headerWidth}. Check for a missing or extra comma.` });
+        problems.push({
+          line,
+          column: '',
+          message: `This line has ${cells.length} value${cells.length === 1 ? '' : 's'}; the header has ${headerWidth}. Check for a missing or extra comma.`,
+        });
         return;
       }
       const values: Record<string, string> = {};
@@ -139,7 +162,8 @@ export function parseCsv(input: string, options: ParseCsvOptions): CsvTable {
       rows.push({ line, values });
     },
   });
-  if (!header) problems.push({ line: 1, column: '', message: 'The file is empty: its first line must be the header row.' });
+  if (!header)
+    problems.push({ line: 1, column: '', message: 'The file is empty: its first line must be the header row.' });
   return { headerLine, columns, rows, problems, warnings };
 }
 
@@ -173,7 +197,8 @@ export interface CsvUpload {
 export async function readCsvUpload(req: Request, options: { maxBytes: number; field?: string }): Promise<CsvUpload> {
   const field = options.field ?? 'file';
   const type = req.headers.get('content-type') ?? '';
-  if (!/^multipart\/form-data/i.test(type)) throw badRequest(`Send the CSV as multipart/form-data, in the field "${field}".`);
+  if (!/^multipart\/form-data/i.test(type))
+    throw badRequest(`Send the CSV as multipart/form-data, in the field "${field}".`);
   const limitKb = Math.round(options.maxBytes / 1000);
   // The multipart envelope adds a little around the file; allow for it so the limit reads as a file size.
   const envelope = 16_384;
@@ -205,14 +230,22 @@ export async function readCsvUpload(req: Request, options: { maxBytes: number; f
   if (file.size > options.maxBytes) throw tooLarge(`The file is larger than ${limitKb} kB.`);
   const fields: Record<string, string> = {};
   for (const [k, v] of form.entries()) if (k !== field && typeof v === 'string') fields[k] = v.trim();
-  return { text: decodeCsvBytes(new Uint8Array(await file.arrayBuffer())), fileName: file.name || 'upload.csv', fields };
+  return {
+    text: decodeCsvBytes(new Uint8Array(await file.arrayBuffer())),
+    fileName: file.name || 'upload.csv',
+    fields,
+  };
 }
 
 /**
  * The 422 of an import that had problems: `{ error, problems: { line, column, message }[] }`,
  * plus `warnings` and, when form fields beside the file were wrong too, `error.fields`.
  */
-export function csvRejection(problems: readonly CsvProblem[], warnings: readonly CsvProblem[] = [], fields: readonly { path: string; message: string }[] = []): Response {
+export function csvRejection(
+  problems: readonly CsvProblem[],
+  warnings: readonly CsvProblem[] = [],
+  fields: readonly { path: string; message: string }[] = [],
+): Response {
   const n = problems.length;
   const message = n
     ? `The file has ${n} problem${n === 1 ? '' : 's'}; nothing was saved. Fix ${n === 1 ? 'it' : 'them'} and upload the whole file again.`

@@ -1,4 +1,10 @@
-import { ROUTE_LIBRARY_LIMITS, airwayRowSchema, fixRowSchema, type AirwayRow, type FixRow } from '@/lib/validation/route-library';
+import {
+  ROUTE_LIBRARY_LIMITS,
+  airwayRowSchema,
+  fixRowSchema,
+  type AirwayRow,
+  type FixRow,
+} from '@/lib/validation/route-library';
 import { parseCsv, parseNumberCell, type CsvProblem } from './csv';
 
 /**
@@ -22,7 +28,12 @@ export interface LibraryCsvResult<T> {
 /** Reads a fix CSV: one fix a line; a name repeated with the same region is a problem. */
 export function parseFixCsv(text: string): LibraryCsvResult<FixRow> {
   const table = parseCsv(text, {
-    columns: [{ name: 'name', required: true }, { name: 'lat', required: true }, { name: 'lon', required: true }, { name: 'region' }],
+    columns: [
+      { name: 'name', required: true },
+      { name: 'lat', required: true },
+      { name: 'lon', required: true },
+      { name: 'region' },
+    ],
     maxRows: ROUTE_LIBRARY_LIMITS.maxRows,
   });
   const problems = [...table.problems];
@@ -42,7 +53,10 @@ export function parseFixCsv(text: string): LibraryCsvResult<FixRow> {
     if (!parsed.success) {
       for (const issue of parsed.error.issues) {
         const column = String(issue.path[0] ?? '');
-        const message = (column === 'lat' || column === 'lon') && Number.isNaN(column === 'lat' ? lat : lon) ? `Give the ${column === 'lat' ? 'latitude' : 'longitude'} in decimal degrees, such as ${column === 'lat' ? '62.5' : '-20.25'}.` : issue.message;
+        const message =
+          (column === 'lat' || column === 'lon') && Number.isNaN(column === 'lat' ? lat : lon)
+            ? `Give the ${column === 'lat' ? 'latitude' : 'longitude'} in decimal degrees, such as ${column === 'lat' ? '62.5' : '-20.25'}.`
+            : issue.message;
         problems.push({ line: row.line, column, message });
       }
       continue;
@@ -50,7 +64,11 @@ export function parseFixCsv(text: string): LibraryCsvResult<FixRow> {
     const key = `${parsed.data.name}|${(parsed.data.region ?? '').toLowerCase()}`;
     const first = seen.get(key);
     if (first !== undefined) {
-      problems.push({ line: row.line, column: 'name', message: `${parsed.data.name} is already on line ${first}${parsed.data.region ? ' with the same region' : ''}: give each same-named fix a different region.` });
+      problems.push({
+        line: row.line,
+        column: 'name',
+        message: `${parsed.data.name} is already on line ${first}${parsed.data.region ? ' with the same region' : ''}: give each same-named fix a different region.`,
+      });
       continue;
     }
     seen.set(key, row.line);
@@ -75,22 +93,38 @@ export function parseAirwayCsv(text: string): LibraryCsvResult<AirwayRow> {
     const sequence = parseNumberCell(v.sequence);
     let ok = true;
     if (!/^[A-Z0-9]{2,12}$/.test(name)) {
-      problems.push({ line: row.line, column: 'airway', message: 'An airway designator has 2 to 12 letters and digits, such as XN9.' });
+      problems.push({
+        line: row.line,
+        column: 'airway',
+        message: 'An airway designator has 2 to 12 letters and digits, such as XN9.',
+      });
       ok = false;
     }
     if (sequence === null || !Number.isInteger(sequence) || sequence < 0) {
-      problems.push({ line: row.line, column: 'sequence', message: 'Give the sequence as a whole number, such as 1, 2, 3 along the airway.' });
+      problems.push({
+        line: row.line,
+        column: 'sequence',
+        message: 'Give the sequence as a whole number, such as 1, 2, 3 along the airway.',
+      });
       ok = false;
     }
     if (!/^[A-Z0-9]{2,12}$/.test(fix)) {
-      problems.push({ line: row.line, column: 'fix', message: 'A fix name has 2 to 12 letters and digits, such as QXBEL.' });
+      problems.push({
+        line: row.line,
+        column: 'fix',
+        message: 'A fix name has 2 to 12 letters and digits, such as QXBEL.',
+      });
       ok = false;
     }
     if (!ok || sequence === null) continue;
     const g = groups.get(name) ?? { line: row.line, points: [] };
     const dup = g.points.find((p) => p.sequence === sequence);
     if (dup) {
-      problems.push({ line: row.line, column: 'sequence', message: `${name} already has sequence ${sequence} on line ${dup.line}.` });
+      problems.push({
+        line: row.line,
+        column: 'sequence',
+        message: `${name} already has sequence ${sequence} on line ${dup.line}.`,
+      });
       continue;
     }
     g.points.push({ sequence, fix, line: row.line });
@@ -101,7 +135,12 @@ export function parseAirwayCsv(text: string): LibraryCsvResult<AirwayRow> {
     const fixes = g.points.sort((a, b) => a.sequence - b.sequence).map((p) => p.fix);
     const parsed = airwayRowSchema.safeParse({ name, fixes });
     if (!parsed.success) {
-      for (const issue of parsed.error.issues) problems.push({ line: g.line, column: issue.path[0] === 'name' ? 'airway' : 'fix', message: `${name}: ${issue.message}` });
+      for (const issue of parsed.error.issues)
+        problems.push({
+          line: g.line,
+          column: issue.path[0] === 'name' ? 'airway' : 'fix',
+          message: `${name}: ${issue.message}`,
+        });
       continue;
     }
     rows.push(parsed.data);

@@ -50,7 +50,8 @@ export async function readUploadedFile(req: Request): Promise<UploadedFile> {
   const declared = Number(req.headers.get('content-length') ?? '0');
   if (declared > IMPORT_LIMITS.maxBytes + MULTIPART_OVERHEAD_BYTES) throw tooLarge(tooBigMessage);
   const type = req.headers.get('content-type') ?? '';
-  if (!/^multipart\/form-data/i.test(type)) throw badRequest('Send the schedule as multipart/form-data with the CSV in the field “file”.');
+  if (!/^multipart\/form-data/i.test(type))
+    throw badRequest('Send the schedule as multipart/form-data with the CSV in the field “file”.');
   const body = limitedBody(req);
   if (!body) throw badRequest('The request has no body; attach the schedule CSV in the field “file”.');
   let form: FormData;
@@ -60,7 +61,9 @@ export async function readUploadedFile(req: Request): Promise<UploadedFile> {
     if (err instanceof Error && 'status' in err && (err as { status: number }).status === 413) throw err;
     const cause = (err as { cause?: unknown }).cause;
     if (cause instanceof Error && 'status' in cause && (cause as { status: number }).status === 413) throw cause;
-    throw badRequest('The upload could not be read as multipart/form-data. Attach the schedule CSV in the field “file”.');
+    throw badRequest(
+      'The upload could not be read as multipart/form-data. Attach the schedule CSV in the field “file”.',
+    );
   }
   const file = form.get('file');
   if (file === null || typeof file === 'string') throw badRequest('Attach the schedule CSV in the field “file”.');
@@ -91,7 +94,11 @@ export async function acceptScheduleUpload(
   const duplicate = await findImportByHash(scope, fileHash);
   if (duplicate) throw duplicate;
 
-  const [aircraft, fleets, library] = await Promise.all([listAircraftForScreening(scope), listFleetsByName(scope), loadRouteLibrary(scope)]);
+  const [aircraft, fleets, library] = await Promise.all([
+    listAircraftForScreening(scope),
+    listFleetsByName(scope),
+    loadRouteLibrary(scope),
+  ]);
   const parsed = await parseSchedule(file.stream(), { aircraft, fleets, library });
   const problems = parsed.problems;
   if (parsed.flights.length) {
@@ -117,12 +124,30 @@ export async function acceptScheduleUpload(
   }
   if (problems.length) {
     sortProblems(problems);
-    return { accepted: false, problems: problems.slice(0, IMPORT_LIMITS.maxProblemsListed), problemCount: problems.length, warnings: parsed.warnings };
+    return {
+      accepted: false,
+      problems: problems.slice(0, IMPORT_LIMITS.maxProblemsListed),
+      problemCount: problems.length,
+      warnings: parsed.warnings,
+    };
   }
   if (opts.dryRun) {
-    return { accepted: true, dryRun: true, rows: parsed.flights.length, estimate: await estimateImport(scope, parsed.flights.length), warnings: parsed.warnings };
+    return {
+      accepted: true,
+      dryRun: true,
+      rows: parsed.flights.length,
+      estimate: await estimateImport(scope, parsed.flights.length),
+      warnings: parsed.warnings,
+    };
   }
-  const saved = await createImport(scope, { fileName: file.name, fileHash, createdBy: actor.userId, actor: actor.label, flights: parsed.flights, warnings: parsed.warnings });
+  const saved = await createImport(scope, {
+    fileName: file.name,
+    fileHash,
+    createdBy: actor.userId,
+    actor: actor.label,
+    flights: parsed.flights,
+    warnings: parsed.warnings,
+  });
   wakeImportWorker();
   return { accepted: true, import: saved, warnings: parsed.warnings };
 }

@@ -14,7 +14,20 @@ export function scheduleTemplateCsv(opts: { aircraft: string[]; fleets: string[]
     [d, 'XY102', 'RJAA', 'EFHK', a, '380', '53100', '', '', '', '', ''],
     [d, 'XY215', 'LHR', 'SEA', b, 'FL390', '48800', '', fleet, '', '0.84', ''],
     [d, 'XY330', 'KEF', 'ANC', a, '360', '36200', '', '', '13.8', '', ''],
-    [d, 'XY118', 'EGLL', 'CYYZ', a, '370', '41500', '', '', '', '', 'N0480F370 DCT 57N020W 58N030W 57N040W/N0480F390 DCT'],
+    [
+      d,
+      'XY118',
+      'EGLL',
+      'CYYZ',
+      a,
+      '370',
+      '41500',
+      '',
+      '',
+      '',
+      '',
+      'N0480F370 DCT 57N020W 58N030W 57N040W/N0480F390 DCT',
+    ],
   ];
   const cell = (v: string) => (/[",\r\n]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v);
   return [SCHEDULE_COLUMNS.join(','), ...rows.map((r) => r.map(cell).join(','))].join('\r\n') + '\r\n';

@@ -1,7 +1,15 @@
 import { Readable } from 'node:stream';
 import type { ReadableStream as NodeReadableStream } from 'node:stream/web';
 import Papa from 'papaparse';
-import { expandFlightPlanInput, findAirport, routeDistanceKm, ScreeningInputError, validateScreeningInput, type RouteLibrary, type ScreeningInput } from '@/lib/screening';
+import {
+  expandFlightPlanInput,
+  findAirport,
+  routeDistanceKm,
+  ScreeningInputError,
+  validateScreeningInput,
+  type RouteLibrary,
+  type ScreeningInput,
+} from '@/lib/screening';
 import { checkFuelPlausibility } from '@/lib/validation/plausibility';
 import { tooLarge } from '@/lib/errors';
 import {
@@ -135,11 +143,19 @@ function checkRow(
   const row = parsed.data;
 
   const type = ctx.aircraft.get(row.aircraft);
-  if (!type) add('aircraft', `No aircraft type “${row.aircraft}” in this workspace. Add it under Engines & aircraft, or correct the code.`);
+  if (!type)
+    add(
+      'aircraft',
+      `No aircraft type “${row.aircraft}” in this workspace. Add it under Engines & aircraft, or correct the code.`,
+    );
   let fleetId: number | null = type?.defaultFleetId ?? null;
   if (row.fleet !== undefined) {
     const fleet = ctx.fleets.get(row.fleet.toLowerCase());
-    if (!fleet) add('fleet', `No fleet “${row.fleet}” in this workspace. Create it under Fleets, or leave the cell empty for the aircraft type’s default fleet.`);
+    if (!fleet)
+      add(
+        'fleet',
+        `No fleet “${row.fleet}” in this workspace. Create it under Fleets, or leave the cell empty for the aircraft type’s default fleet.`,
+      );
     else fleetId = fleet.id;
   }
   const resolve = (code: string, column: 'origin' | 'destination'): string | null => {
@@ -157,13 +173,20 @@ function checkRow(
   const origin = resolve(row.origin, 'origin');
   const destination = resolve(row.destination, 'destination');
   if (origin && destination && origin === destination) {
-    add('destination', `The destination is the origin airport (${origin}); a schedule row needs two different airports.`);
+    add(
+      'destination',
+      `The destination is the origin airport (${origin}); a schedule row needs two different airports.`,
+    );
   }
 
   const emissionFromRow = row.ei_nox_g_per_kg !== undefined;
-  const emission: ScreeningInput['emission'] | null | undefined = row.ei_nox_g_per_kg !== undefined ? { eiNoxGPerKg: row.ei_nox_g_per_kg } : type?.emission;
+  const emission: ScreeningInput['emission'] | null | undefined =
+    row.ei_nox_g_per_kg !== undefined ? { eiNoxGPerKg: row.ei_nox_g_per_kg } : type?.emission;
   if (type && !emission) {
-    add('aircraft', `Aircraft type ${type.code} has neither engine data nor a direct EI NOx. Add one under Engines & aircraft, or give ei_nox_g_per_kg.`);
+    add(
+      'aircraft',
+      `Aircraft type ${type.code} has neither engine data nor a direct EI NOx. Add one under Engines & aircraft, or give ei_nox_g_per_kg.`,
+    );
   }
   const cruise = row.steps?.length ? { steps: row.steps } : { flightLevel: row.cruise_fl };
   const raw = {
@@ -185,7 +208,10 @@ function checkRow(
       const expanded = expandFlightPlanInput(input, ctx.library);
       const unresolved = expanded.flightPlan?.unresolved ?? [];
       if (unresolved.length > 0) {
-        add('route', `Not placed: ${unresolved.map((u) => `${u.item}${u.position !== null ? ` (character ${u.position + 1})` : ''}: ${u.reason}`).join(' ')}`);
+        add(
+          'route',
+          `Not placed: ${unresolved.map((u) => `${u.item}${u.position !== null ? ` (character ${u.position + 1})` : ''}: ${u.reason}`).join(' ')}`,
+        );
       }
       input = expanded.input;
       waypoints = expanded.input.route.waypoints.flatMap((w) => ('airport' in w ? [] : [{ lat: w.lat, lon: w.lon }]));
@@ -203,7 +229,8 @@ function checkRow(
   if (origin && destination) {
     const key = flightKey({ date: row.date, flight: row.flight, origin, destination });
     const first = seen.get(key);
-    if (first !== undefined) add('flight', `This flight is already on line ${first} (same date, flight, origin and destination).`);
+    if (first !== undefined)
+      add('flight', `This flight is already on line ${first} (same date, flight, origin and destination).`);
     else seen.set(key, line);
   }
 
@@ -217,8 +244,17 @@ function checkRow(
       distanceKm = routeDistanceKm(input.route && 'waypoints' in input.route ? input.route.waypoints : []);
       if (waypoints === undefined) distances.set(pair, distanceKm);
     }
-    const engine = emission && 'engine' in emission ? { fuelFlowKgS: emission.engine.fuelFlowKgS, engineCount: emission.engineCount } : null;
-    const p = checkFuelPlausibility({ distanceKm, fuelKg: input.fuelBurnKg, engine, mach: input.mach, aircraftCode: type?.code });
+    const engine =
+      emission && 'engine' in emission
+        ? { fuelFlowKgS: emission.engine.fuelFlowKgS, engineCount: emission.engineCount }
+        : null;
+    const p = checkFuelPlausibility({
+      distanceKm,
+      fuelKg: input.fuelBurnKg,
+      engine,
+      mach: input.mach,
+      aircraftCode: type?.code,
+    });
     if (p.level === 'impossible') add('fuel_kg', p.message);
     else if (p.level === 'unusual') warning = { line, column: 'fuel_kg', message: p.message };
   }
@@ -265,25 +301,42 @@ function readHeader(cells: string[]): HeaderMap {
     const name = (i === 0 ? raw.replace(/^\uFEFF/, '') : raw).trim().toLowerCase();
     if (name === '') {
       byIndex.push(null);
-      warnings.push({ line: 1, column: `(column ${i + 1})`, message: `Column ${i + 1} has no name; its cells were ignored.` });
+      warnings.push({
+        line: 1,
+        column: `(column ${i + 1})`,
+        message: `Column ${i + 1} has no name; its cells were ignored.`,
+      });
       return;
     }
     if (!isScheduleColumn(name)) {
       byIndex.push(null);
-      warnings.push({ line: 1, column: raw.trim(), message: `Unknown column “${raw.trim()}”: it was ignored. Known columns: ${SCHEDULE_COLUMNS.join(', ')}.` });
+      warnings.push({
+        line: 1,
+        column: raw.trim(),
+        message: `Unknown column “${raw.trim()}”: it was ignored. Known columns: ${SCHEDULE_COLUMNS.join(', ')}.`,
+      });
       return;
     }
     const earlier = firstAt.get(name);
     if (earlier !== undefined) {
       byIndex.push(null);
-      problems.push({ line: 1, column: name, message: `The column ${name} appears twice (columns ${earlier + 1} and ${i + 1}); keep one.` });
+      problems.push({
+        line: 1,
+        column: name,
+        message: `The column ${name} appears twice (columns ${earlier + 1} and ${i + 1}); keep one.`,
+      });
       return;
     }
     firstAt.set(name, i);
     byIndex.push(name);
   });
   for (const required of SCHEDULE_REQUIRED_COLUMNS) {
-    if (!firstAt.has(required)) problems.push({ line: 1, column: required, message: `The required column ${required} is missing from the header row.` });
+    if (!firstAt.has(required))
+      problems.push({
+        line: 1,
+        column: required,
+        message: `The required column ${required} is missing from the header row.`,
+      });
   }
   return { byIndex, problems, warnings };
 }
@@ -300,7 +353,10 @@ const NOT_UTF8: ImportProblem = {
  * spans lines counts as one).
  */
 export async function parseSchedule(source: ReadableStream<Uint8Array>, ctx: ScheduleContext): Promise<ParsedSchedule> {
-  const decoder = new TextDecoderStream('utf-8', { fatal: true }) as unknown as ReadableWritablePair<string, Uint8Array>;
+  const decoder = new TextDecoderStream('utf-8', { fatal: true }) as unknown as ReadableWritablePair<
+    string,
+    Uint8Array
+  >;
   const text = Readable.fromWeb(source.pipeThrough(decoder) as unknown as NodeReadableStream<string>);
 
   const out: ParsedSchedule = { flights: [], problems: [], warnings: [], dataRows: 0 };
@@ -323,7 +379,9 @@ export async function parseSchedule(source: ReadableStream<Uint8Array>, ctx: Sch
     if (record.every((c) => c.trim() === '')) return;
     out.dataRows += 1;
     if (out.dataRows > IMPORT_LIMITS.maxRows) {
-      stop = tooLarge(`The file has more than ${IMPORT_LIMITS.maxRows.toLocaleString('en-GB')} flights. Split it into files of at most ${IMPORT_LIMITS.maxRows.toLocaleString('en-GB')} rows and upload them one by one.`);
+      stop = tooLarge(
+        `The file has more than ${IMPORT_LIMITS.maxRows.toLocaleString('en-GB')} flights. Split it into files of at most ${IMPORT_LIMITS.maxRows.toLocaleString('en-GB')} rows and upload them one by one.`,
+      );
       parser.abort();
       return;
     }
@@ -332,7 +390,11 @@ export async function parseSchedule(source: ReadableStream<Uint8Array>, ctx: Sch
       const value = record[i].trim();
       if (i >= header.byIndex.length) {
         if (value !== '') {
-          out.problems.push({ line, column: '', message: `This line has ${record.length} cells but the header has ${header.byIndex.length} columns: check for an unquoted comma.` });
+          out.problems.push({
+            line,
+            column: '',
+            message: `This line has ${record.length} cells but the header has ${header.byIndex.length} columns: check for an unquoted comma.`,
+          });
           return;
         }
         continue;
@@ -377,12 +439,20 @@ export async function parseSchedule(source: ReadableStream<Uint8Array>, ctx: Sch
   if (stop) throw stop;
   if (decodeFailed) return { flights: [], problems: [NOT_UTF8], warnings: out.warnings, dataRows: out.dataRows };
   if (header === null) {
-    out.problems.push({ line: 1, column: '', message: `The file is empty. The first line must name the columns: ${SCHEDULE_REQUIRED_COLUMNS.join(', ')}.` });
+    out.problems.push({
+      line: 1,
+      column: '',
+      message: `The file is empty. The first line must name the columns: ${SCHEDULE_REQUIRED_COLUMNS.join(', ')}.`,
+    });
   } else if (!out.problems.length && out.dataRows === 0) {
     out.problems.push({ line: 2, column: '', message: 'The file has a header row but no flights.' });
   }
   if (fuelWarnings > MAX_FUEL_WARNINGS) {
-    out.warnings.push({ line: 1, column: 'fuel_kg', message: `${fuelWarnings - MAX_FUEL_WARNINGS} more rows have unusual fuel for their distance (the first ${MAX_FUEL_WARNINGS} are listed).` });
+    out.warnings.push({
+      line: 1,
+      column: 'fuel_kg',
+      message: `${fuelWarnings - MAX_FUEL_WARNINGS} more rows have unusual fuel for their distance (the first ${MAX_FUEL_WARNINGS} are listed).`,
+    });
   }
   return out;
 }

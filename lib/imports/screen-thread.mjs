@@ -5,7 +5,8 @@ import { tsImport } from 'tsx/esm/api';
 const engine = await tsImport('../screening/index.ts', import.meta.url);
 
 function reasonOf(err) {
-  if (err instanceof engine.ScreeningInputError) return err.fields.map((f) => `${f.path}: ${f.message}`).join('; ') || err.message;
+  if (err instanceof engine.ScreeningInputError)
+    return err.fields.map((f) => `${f.path}: ${f.message}`).join('; ') || err.message;
   if (err instanceof Error) return err.message;
   return 'the screening engine could not screen this flight';
 }

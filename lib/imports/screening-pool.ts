@@ -14,7 +14,9 @@ import type { ScreeningTotals } from '@/lib/screening';
 
 type ThreadResult = { id: number; totals: ScreeningTotals } | { id: number; error: string };
 
-const g = globalThis as unknown as { tropopassScreeningPool?: Piscina<{ id: number; inputJson: string }[], ThreadResult[]> };
+const g = globalThis as unknown as {
+  tropopassScreeningPool?: Piscina<{ id: number; inputJson: string }[], ThreadResult[]>;
+};
 
 /** Threads for screening: SCREENING_THREADS, else one core short of the machine (1 to 4), none under tests. */
 export function screeningThreads(): number {
@@ -46,7 +48,9 @@ export async function screenInThreads(pending: PendingFlight[]): Promise<Screene
   const size = Math.ceil(pending.length / threads);
   const slices: PendingFlight[][] = [];
   for (let i = 0; i < pending.length; i += size) slices.push(pending.slice(i, i + size));
-  const results = (await Promise.all(slices.map((s) => p.run(s.map((f) => ({ id: f.id, inputJson: f.inputJson })))))).flat();
+  const results = (
+    await Promise.all(slices.map((s) => p.run(s.map((f) => ({ id: f.id, inputJson: f.inputJson })))))
+  ).flat();
   const byId = new Map(results.map((r) => [r.id, r]));
   return pending.map((f) => {
     const r = byId.get(f.id);

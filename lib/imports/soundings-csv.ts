@@ -1,4 +1,10 @@
-import { SCREENING_LIMITS, soundingLevelProblems, soundingSetProblems, type FieldProblem, type SoundingLevelInput } from '@/lib/validation/screening';
+import {
+  SCREENING_LIMITS,
+  soundingLevelProblems,
+  soundingSetProblems,
+  type FieldProblem,
+  type SoundingLevelInput,
+} from '@/lib/validation/screening';
 import { csvCell, parseCsv, parseNumberCell, type CsvProblem } from './csv';
 
 /**
@@ -35,12 +41,24 @@ export interface SoundingCsvResult {
  * Maps field problems of levels (`levels.N.altitudeM`, `levels.N`, `levels`) to CSV lines and
  * columns: `lines[N]` is level N's line; problems of the whole sounding go on line 1.
  */
-export function levelProblemsToCsv(fields: readonly FieldProblem[], lines: readonly number[], temperatureColumn: string | null, prefix = 'levels'): CsvProblem[] {
+export function levelProblemsToCsv(
+  fields: readonly FieldProblem[],
+  lines: readonly number[],
+  temperatureColumn: string | null,
+  prefix = 'levels',
+): CsvProblem[] {
   return fields.map((f) => {
     const rest = f.path.startsWith(prefix) ? f.path.slice(prefix.length).replace(/^\./, '') : f.path;
     const [index, field] = rest.split('.');
     const n = /^\d+$/.test(index ?? '') ? Number(index) : null;
-    const column = field === 'altitudeM' ? 'altitude_m' : field === 'pressureHpa' ? 'pressure_hpa' : field === 'temperatureK' ? (temperatureColumn ?? 'temperature_k') : '';
+    const column =
+      field === 'altitudeM'
+        ? 'altitude_m'
+        : field === 'pressureHpa'
+          ? 'pressure_hpa'
+          : field === 'temperatureK'
+            ? (temperatureColumn ?? 'temperature_k')
+            : '';
     return { line: n !== null && lines[n] !== undefined ? lines[n] : 1, column, message: f.message };
   });
 }
@@ -54,19 +72,40 @@ function celsiusMessage(message: string): string {
 
 /** Reads a sounding CSV into levels with every problem by line and column; any problem means nothing is saved. */
 export function parseSoundingCsv(text: string): SoundingCsvResult {
-  const table = parseCsv(text, { columns: SOUNDING_CSV_COLUMNS.map((name) => ({ name })), maxRows: SCREENING_LIMITS.maxSoundingLevels });
+  const table = parseCsv(text, {
+    columns: SOUNDING_CSV_COLUMNS.map((name) => ({ name })),
+    maxRows: SCREENING_LIMITS.maxSoundingLevels,
+  });
   const problems = [...table.problems];
   const has = (c: string) => table.columns.includes(c);
-  const rejected = (): SoundingCsvResult => ({ levels: [], lines: [], temperatureColumn: null, problems, warnings: table.warnings });
+  const rejected = (): SoundingCsvResult => ({
+    levels: [],
+    lines: [],
+    temperatureColumn: null,
+    problems,
+    warnings: table.warnings,
+  });
   if (table.headerLine === null) return rejected();
   const headerLine = table.headerLine;
   if (!has('altitude_m') && !has('pressure_hpa')) {
-    problems.push({ line: headerLine, column: 'altitude_m', message: 'The header needs an altitude_m or a pressure_hpa column (or both).' });
+    problems.push({
+      line: headerLine,
+      column: 'altitude_m',
+      message: 'The header needs an altitude_m or a pressure_hpa column (or both).',
+    });
   }
   if (has('temperature_k') && has('temperature_c')) {
-    problems.push({ line: headerLine, column: 'temperature_c', message: 'Give temperature_k or temperature_c, not both.' });
+    problems.push({
+      line: headerLine,
+      column: 'temperature_c',
+      message: 'Give temperature_k or temperature_c, not both.',
+    });
   } else if (!has('temperature_k') && !has('temperature_c')) {
-    problems.push({ line: headerLine, column: 'temperature_k', message: 'The header needs a temperature_k or a temperature_c column.' });
+    problems.push({
+      line: headerLine,
+      column: 'temperature_k',
+      message: 'The header needs a temperature_k or a temperature_c column.',
+    });
   }
   if (problems.length) return rejected();
   const temperatureColumn = has('temperature_k') ? 'temperature_k' : 'temperature_c';
@@ -84,10 +123,19 @@ export function parseSoundingCsv(text: string): SoundingCsvResult {
       if (v === null) continue;
       if (Number.isNaN(v)) {
         unreadable = true;
-        levelProblems.push({ line: row.line, column, message: `“${row.values[column]}” is not a number: write it with a decimal point, without units.` });
+        levelProblems.push({
+          line: row.line,
+          column,
+          message: `“${row.values[column]}” is not a number: write it with a decimal point, without units.`,
+        });
       } else cells[column] = v;
     }
-    const t = temperatureColumn === 'temperature_k' ? cells.temperature_k : cells.temperature_c === undefined ? undefined : cells.temperature_c + CELSIUS_OFFSET;
+    const t =
+      temperatureColumn === 'temperature_k'
+        ? cells.temperature_k
+        : cells.temperature_c === undefined
+          ? undefined
+          : cells.temperature_c + CELSIUS_OFFSET;
     const level: Record<string, unknown> = {
       ...(cells.altitude_m !== undefined ? { altitudeM: cells.altitude_m } : {}),
       ...(cells.pressure_hpa !== undefined ? { pressureHpa: cells.pressure_hpa } : {}),
@@ -98,7 +146,8 @@ export function parseSoundingCsv(text: string): SoundingCsvResult {
       const mapped = levelProblemsToCsv(own, [...lines, row.line], temperatureColumn).map((p) => ({
         ...p,
         column: p.column || (has('altitude_m') ? 'altitude_m' : 'pressure_hpa'),
-        message: temperatureColumn === 'temperature_c' && p.column === 'temperature_c' ? celsiusMessage(p.message) : p.message,
+        message:
+          temperatureColumn === 'temperature_c' && p.column === 'temperature_c' ? celsiusMessage(p.message) : p.message,
       }));
       levelProblems.push(...mapped);
     }

@@ -68,12 +68,19 @@ interface WorkerState {
 const g = globalThis as unknown as { tropopassImportWorker?: WorkerState };
 
 function state(): WorkerState {
-  g.tropopassImportWorker ??= { started: false, stopping: false, timer: null, chain: Promise.resolve(), errors: new Map() };
+  g.tropopassImportWorker ??= {
+    started: false,
+    stopping: false,
+    timer: null,
+    chain: Promise.resolve(),
+    errors: new Map(),
+  };
   return g.tropopassImportWorker;
 }
 
 function reasonOf(err: unknown): string {
-  if (err instanceof ScreeningInputError) return err.fields.map((f) => `${f.path}: ${f.message}`).join('; ') || err.message;
+  if (err instanceof ScreeningInputError)
+    return err.fields.map((f) => `${f.path}: ${f.message}`).join('; ') || err.message;
   if (err instanceof Error) return err.message;
   return 'the screening engine could not screen this flight';
 }
@@ -139,7 +146,10 @@ async function processRescreen(job: RescreenJob, opts: RunOptions): Promise<numb
     const batch = await listRescreenFlights(cursor, chunkSize);
     if (batch.length === 0) {
       await finishRescreen(job.importId);
-      log.info({ event: 'import.rescreen_finished', importId: job.importId, engineVersion: job.engineVersion }, 'import re-screen finished');
+      log.info(
+        { event: 'import.rescreen_finished', importId: job.importId, engineVersion: job.engineVersion },
+        'import re-screen finished',
+      );
       return flights;
     }
     const { done } = await saveRescreenChunk(cursor, screenChunk(batch));
@@ -179,10 +189,16 @@ async function pass(opts: RunOptions): Promise<RunSummary> {
       } catch (err) {
         const count = (state().errors.get(imp.id) ?? 0) + 1;
         state().errors.set(imp.id, count);
-        log.error({ err, event: 'import.chunk_failed', importId: imp.id, attempt: count }, 'import screening chunk failed');
+        log.error(
+          { err, event: 'import.chunk_failed', importId: imp.id, attempt: count },
+          'import screening chunk failed',
+        );
         if (count >= MAX_CONSECUTIVE_ERRORS) {
           state().errors.delete(imp.id);
-          await failImport(imp.id, 'Screening stopped: the results could not be saved after several attempts. Flights already screened keep their figures; delete this import and upload the file again to screen the rest.');
+          await failImport(
+            imp.id,
+            'Screening stopped: the results could not be saved after several attempts. Flights already screened keep their figures; delete this import and upload the file again to screen the rest.',
+          );
           progressed = true;
         }
       }

@@ -26,18 +26,29 @@ export function routeWithDistance(route: RouteDto): RouteDto & { distanceKm: num
  * `waypoints.N.airport`), a route with length and no antipodal legs. Codes are stored in capitals.
  */
 export function resolveRouteWaypoints(waypoints: readonly RouteWaypoint[]): RouteWaypoint[] {
-  const out = waypoints.map((w) => ('airport' in w ? { airport: w.airport.trim().toUpperCase() } : { lat: w.lat, lon: w.lon }));
+  const out = waypoints.map((w) =>
+    'airport' in w ? { airport: w.airport.trim().toUpperCase() } : { lat: w.lat, lon: w.lon },
+  );
   const { lat, lon } = resolveWaypoints(out, 'waypoints');
   planRoute(lat, lon, 'waypoints');
   return out;
 }
 
-export async function createRoute(scope: { workspaceId: number }, input: RouteSave, by: LibraryActor): Promise<RouteDto> {
+export async function createRoute(
+  scope: { workspaceId: number },
+  input: RouteSave,
+  by: LibraryActor,
+): Promise<RouteDto> {
   const waypoints = resolveRouteWaypoints(input.waypoints);
   return writeTx((trx) => insertRoute(trx, scope, { name: input.name, waypoints, notes: input.notes }, by));
 }
 
-export async function updateRoute(scope: { workspaceId: number }, id: number, input: RouteSave, by: LibraryActor): Promise<RouteDto> {
+export async function updateRoute(
+  scope: { workspaceId: number },
+  id: number,
+  input: RouteSave,
+  by: LibraryActor,
+): Promise<RouteDto> {
   const waypoints = resolveRouteWaypoints(input.waypoints);
   return writeTx((trx) => replaceRoute(trx, scope, id, { name: input.name, waypoints, notes: input.notes }, by));
 }

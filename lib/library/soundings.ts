@@ -9,12 +9,23 @@ import type { SoundingCreate } from '@/lib/validation/library';
  * Stores a sounding with its WMO tropopause, found once here by the engine before the write. Levels
  * that do not fit together (altitudes not rising as pressures fall) are a 422 at `levels.N`, nothing saved.
  */
-export async function createSounding(scope: { workspaceId: number }, input: SoundingCreate, by: LibraryActor): Promise<SoundingDto> {
+export async function createSounding(
+  scope: { workspaceId: number },
+  input: SoundingCreate,
+  by: LibraryActor,
+): Promise<SoundingDto> {
   const levels: SoundingLevelDto[] = input.levels.map((l) => ({
     ...(l.altitudeM !== undefined ? { altitudeM: l.altitudeM } : {}),
     ...(l.pressureHpa !== undefined ? { pressureHpa: l.pressureHpa } : {}),
     temperatureK: l.temperatureK,
   }));
   const tropopause = tropopauseFromSounding(levels);
-  return writeTx((trx) => insertSounding(trx, scope, { name: input.name, station: input.station, observedAt: input.observedAt, levels, tropopause }, by));
+  return writeTx((trx) =>
+    insertSounding(
+      trx,
+      scope,
+      { name: input.name, station: input.station, observedAt: input.observedAt, levels, tropopause },
+      by,
+    ),
+  );
 }

@@ -14,10 +14,16 @@ export function signInLinkMail(to: string, url: string): OutgoingMail {
   return {
     to,
     subject: 'Your Tropopass sign-in link',
-    ...wrap(['Use this link within 10 minutes to sign in to Tropopass. It works once.', 'If you did not ask for it, ignore this message.'], {
-      href: url,
-      label: 'Sign in to Tropopass',
-    }),
+    ...wrap(
+      [
+        'Use this link within 10 minutes to sign in to Tropopass. It works once.',
+        'If you did not ask for it, ignore this message.',
+      ],
+      {
+        href: url,
+        label: 'Sign in to Tropopass',
+      },
+    ),
   };
 }
 
@@ -25,10 +31,16 @@ export function signUpConfirmMail(to: string, url: string): OutgoingMail {
   return {
     to,
     subject: 'Finish creating your Tropopass account',
-    ...wrap(['Your Tropopass account is ready. Use this link within 60 minutes to confirm the address and sign in. It works once.', 'If you did not sign up, ignore this message.'], {
-      href: url,
-      label: 'Confirm and sign in',
-    }),
+    ...wrap(
+      [
+        'Your Tropopass account is ready. Use this link within 60 minutes to confirm the address and sign in. It works once.',
+        'If you did not sign up, ignore this message.',
+      ],
+      {
+        href: url,
+        label: 'Confirm and sign in',
+      },
+    ),
   };
 }
 
@@ -52,20 +64,35 @@ export function passwordResetMail(to: string, url: string): OutgoingMail {
   return {
     to,
     subject: 'Reset your Tropopass password',
-    ...wrap(['Someone asked to reset the password of this Tropopass account. The link works once, within 30 minutes.', 'If it was not you, ignore this message; your password stays as it is.'], {
-      href: url,
-      label: 'Choose a new password',
-    }),
+    ...wrap(
+      [
+        'Someone asked to reset the password of this Tropopass account. The link works once, within 30 minutes.',
+        'If it was not you, ignore this message; your password stays as it is.',
+      ],
+      {
+        href: url,
+        label: 'Choose a new password',
+      },
+    ),
   };
 }
 
-export function invitationMail(to: string, input: { workspaceName: string; roleLabel: string; inviter: string; url: string }): OutgoingMail {
+export function invitationMail(
+  to: string,
+  input: { workspaceName: string; roleLabel: string; inviter: string; url: string },
+): OutgoingMail {
   return {
     to,
     subject: `You are invited to ${input.workspaceName} on Tropopass`,
-    ...wrap([`${input.inviter} invited you to the workspace “${input.workspaceName}” as ${input.roleLabel}.`, 'The invitation is valid for 7 days.'], {
-      href: input.url,
-      label: 'Accept the invitation',
-    }),
+    ...wrap(
+      [
+        `${input.inviter} invited you to the workspace “${input.workspaceName}” as ${input.roleLabel}.`,
+        'The invitation is valid for 7 days.',
+      ],
+      {
+        href: input.url,
+        label: 'Accept the invitation',
+      },
+    ),
   };
 }

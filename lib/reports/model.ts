@@ -26,7 +26,10 @@ export interface ReportSummary {
   notes: { co2: string; ratios: string; ozone: string; levelBand: string };
   cautions: string[];
   /** Flights whose fuel was unusual for their distance (absent in reports built before it was kept). */
-  fuelWarnings?: { count: number; items: { date: string; flight: string; origin: string; destination: string; warning: string }[] };
+  fuelWarnings?: {
+    count: number;
+    items: { date: string; flight: string; origin: string; destination: string; warning: string }[];
+  };
 }
 
 export const CSV_HEADER = [

@@ -1,6 +1,14 @@
 import { PDFDocument, StandardFonts, degrees, rgb, type PDFFont, type PDFPage, type RGB } from 'pdf-lib';
 import type { UnitSystem } from '@/db/users';
-import { formatDistance, formatMass, formatMassRange, formatNumber, formatPercent, KG_PER_LB, KM_PER_NM } from '@/lib/format';
+import {
+  formatDistance,
+  formatMass,
+  formatMassRange,
+  formatNumber,
+  formatPercent,
+  KG_PER_LB,
+  KM_PER_NM,
+} from '@/lib/format';
 import { FLEET_COLOURS, engineVersionsText, massAxisUnit, monthLabel, niceTicks } from '@/lib/fleets/units';
 import type { CompareRow, FleetContextRow } from '@/lib/fleets/types';
 import type { ReportSummary } from './model';
@@ -104,9 +112,21 @@ class Writer {
   }
 
   /** Draws one line at an explicit baseline. */
-  at(s: string, x: number, baseline: number, o: { size?: number; bold?: boolean; color?: RGB; rotate?: number } = {}): void {
+  at(
+    s: string,
+    x: number,
+    baseline: number,
+    o: { size?: number; bold?: boolean; color?: RGB; rotate?: number } = {},
+  ): void {
     const f = this.font(o.bold);
-    this.page.drawText(this.clean(s, f), { x, y: baseline, size: o.size ?? 9, font: f, color: o.color ?? INK, ...(o.rotate ? { rotate: degrees(o.rotate) } : {}) });
+    this.page.drawText(this.clean(s, f), {
+      x,
+      y: baseline,
+      size: o.size ?? 9,
+      font: f,
+      color: o.color ?? INK,
+      ...(o.rotate ? { rotate: degrees(o.rotate) } : {}),
+    });
   }
 
   paragraph(s: string, o: TextOpts = {}): void {
@@ -127,7 +147,12 @@ class Writer {
     this.y -= 8;
     this.at(s, MARGIN, this.y - 12, { size: 12, bold: true });
     this.y -= 18;
-    this.page.drawLine({ start: { x: MARGIN, y: this.y }, end: { x: MARGIN + CONTENT_W, y: this.y }, thickness: 0.6, color: LINE });
+    this.page.drawLine({
+      start: { x: MARGIN, y: this.y },
+      end: { x: MARGIN + CONTENT_W, y: this.y },
+      thickness: 0.6,
+      color: LINE,
+    });
     this.y -= 8;
   }
 
@@ -163,7 +188,11 @@ class Writer {
       columns.forEach((c, i) => {
         lines[i].forEach((line, j) => {
           const w = this.width(line, size, true);
-          this.at(line, c.align === 'right' ? x + widths[i] - 3 - w : x + 3, this.y - 3 - size - j * size * 1.2, { size, bold: true, color: INK_SOFT });
+          this.at(line, c.align === 'right' ? x + widths[i] - 3 - w : x + 3, this.y - 3 - size - j * size * 1.2, {
+            size,
+            bold: true,
+            color: INK_SOFT,
+          });
         });
         x += widths[i];
       });
@@ -194,11 +223,19 @@ class Writer {
         cell.lines.forEach((line, j) => {
           const w = this.width(line, cell.size, strong);
           const baseline = this.y - rowH + size * 0.65 - j * size * 1.1;
-          this.at(line, columns[i].align === 'right' ? x + widths[i] - 3 - w : x + 3, baseline, { size: cell.size, bold: strong });
+          this.at(line, columns[i].align === 'right' ? x + widths[i] - 3 - w : x + 3, baseline, {
+            size: cell.size,
+            bold: strong,
+          });
         });
         x += widths[i];
       });
-      this.page.drawLine({ start: { x: MARGIN, y: this.y - h }, end: { x: MARGIN + CONTENT_W, y: this.y - h }, thickness: 0.4, color: LINE });
+      this.page.drawLine({
+        start: { x: MARGIN, y: this.y - h },
+        end: { x: MARGIN + CONTENT_W, y: this.y - h },
+        thickness: 0.4,
+        color: LINE,
+      });
       this.y -= h;
     });
     this.y -= 8;
@@ -211,7 +248,15 @@ class Writer {
     const wrapped = items.map((i) => this.wrap(i, size, CONTENT_W - 28));
     const h = 14 + 16 + wrapped.reduce((s, l) => s + l.length * lead + 2, 0);
     this.ensure(h + 6);
-    this.page.drawRectangle({ x: MARGIN, y: this.y - h, width: CONTENT_W, height: h, color: colours.fill, borderColor: colours.edge, borderWidth: 0.8 });
+    this.page.drawRectangle({
+      x: MARGIN,
+      y: this.y - h,
+      width: CONTENT_W,
+      height: h,
+      color: colours.fill,
+      borderColor: colours.edge,
+      borderWidth: 0.8,
+    });
     this.at(title, MARGIN + 10, this.y - 18, { size: 10, bold: true, color: colours.edge });
     let y = this.y - 30;
     for (const lines of wrapped) {
@@ -230,9 +275,20 @@ class Writer {
     this.pages.forEach((p, i) => {
       const f = this.regular;
       const label = this.clean(`page ${i + 1} of ${n}`, f);
-      p.drawLine({ start: { x: MARGIN, y: MARGIN + 12 }, end: { x: MARGIN + CONTENT_W, y: MARGIN + 12 }, thickness: 0.4, color: LINE });
+      p.drawLine({
+        start: { x: MARGIN, y: MARGIN + 12 },
+        end: { x: MARGIN + CONTENT_W, y: MARGIN + 12 },
+        thickness: 0.4,
+        color: LINE,
+      });
       p.drawText(this.clean(left, f), { x: MARGIN, y: MARGIN, size: 7, font: f, color: INK_FAINT });
-      p.drawText(label, { x: MARGIN + CONTENT_W - f.widthOfTextAtSize(label, 7), y: MARGIN, size: 7, font: f, color: INK_FAINT });
+      p.drawText(label, {
+        x: MARGIN + CONTENT_W - f.widthOfTextAtSize(label, 7),
+        y: MARGIN,
+        size: 7,
+        font: f,
+        color: INK_FAINT,
+      });
     });
   }
 }
@@ -272,7 +328,14 @@ interface ChartFrame {
  * A chart's title, value grid with tick labels and rotated unit, for `plotH` points of height;
  * `plainZero` prints the zero tick without decimals.
  */
-function chartFrame(w: Writer, title: string, series: ChartSeries[], unit: string, plotH: number, plainZero: boolean): ChartFrame {
+function chartFrame(
+  w: Writer,
+  title: string,
+  series: ChartSeries[],
+  unit: string,
+  plotH: number,
+  plainZero: boolean,
+): ChartFrame {
   w.ensure(plotH + 80);
   w.at(title, MARGIN, w.y - 10, { size: 9.5, bold: true });
   w.y -= 18;
@@ -296,7 +359,12 @@ function chartFrame(w: Writer, title: string, series: ChartSeries[], unit: strin
 
 /** The chart's axes over what was drawn, then its legend; moves the writer below it. */
 function finishChart(w: Writer, series: ChartSeries[], f: ChartFrame): void {
-  w.page.drawLine({ start: { x: f.left, y: f.bottom }, end: { x: f.right, y: f.bottom }, thickness: 0.8, color: INK_SOFT });
+  w.page.drawLine({
+    start: { x: f.left, y: f.bottom },
+    end: { x: f.right, y: f.bottom },
+    thickness: 0.8,
+    color: INK_SOFT,
+  });
   w.page.drawLine({ start: { x: f.left, y: f.bottom }, end: { x: f.left, y: f.top }, thickness: 0.8, color: INK_SOFT });
   const used = legend(w, series, f.left, f.bottom - 20);
   w.y = f.bottom - 20 - used - 6;
@@ -311,7 +379,14 @@ function barChart(w: Writer, title: string, months: string[], series: ChartSerie
     const gx = f.left + i * groupW + (groupW - barW * series.length) / 2;
     series.forEach((s, j) => {
       const v = s.values[i] ?? 0;
-      if (v > 0) w.page.drawRectangle({ x: gx + j * barW, y: f.bottom, width: barW - 1, height: f.yOf(v) - f.bottom, color: s.colour });
+      if (v > 0)
+        w.page.drawRectangle({
+          x: gx + j * barW,
+          y: f.bottom,
+          width: barW - 1,
+          height: f.yOf(v) - f.bottom,
+          color: s.colour,
+        });
     });
     const label = monthLabel(m);
     w.at(label, f.left + i * groupW + groupW / 2 - w.width(label, 7) / 2, f.bottom - 11, { size: 7, color: INK_SOFT });
@@ -374,7 +449,8 @@ export function reportMassRange(lowKg: number, highKg: number, units: UnitSystem
     const [div, unit, d] = top >= 1e9 ? [1e9, 'Mt', 2] : [1e6, 'kt', 1];
     return `${formatNumber(lowKg / div, d)}${separator}${formatNumber(highKg / div, d)} ${unit}`;
   }
-  if (units === 'imperial' && top / KG_PER_LB >= 1e7) return `${formatNumber(lowKg / KG_PER_LB / 1e6, 1)}${separator}${formatNumber(highKg / KG_PER_LB / 1e6, 1)} million lb`;
+  if (units === 'imperial' && top / KG_PER_LB >= 1e7)
+    return `${formatNumber(lowKg / KG_PER_LB / 1e6, 1)}${separator}${formatNumber(highKg / KG_PER_LB / 1e6, 1)} million lb`;
   return formatMassRange(lowKg, highKg, units, separator);
 }
 
@@ -429,7 +505,10 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
   pdf.setProducer('Tropopass');
   pdf.setCreator('Tropopass');
   pdf.setCreationDate(new Date(s.generatedAt));
-  const [regular, bold] = await Promise.all([pdf.embedFont(StandardFonts.Helvetica), pdf.embedFont(StandardFonts.HelveticaBold)]);
+  const [regular, bold] = await Promise.all([
+    pdf.embedFont(StandardFonts.Helvetica),
+    pdf.embedFont(StandardFonts.HelveticaBold),
+  ]);
   const w = new Writer(pdf, regular, bold);
   const units = s.units;
 
@@ -441,7 +520,10 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
     ['Period', `${s.period.from} to ${s.period.to} (${s.period.days} days)`],
     ['Fleets', s.fleets.map((f) => f.name).join(', ') || '-'],
     ['Built', `${s.generatedAt.slice(0, 16).replace('T', ' ')} UTC by ${s.generatedBy}`],
-    ['Units', units === 'imperial' ? 'pounds, nautical miles (aviation units)' : 'kilograms and tonnes, kilometres (metric)'],
+    [
+      'Units',
+      units === 'imperial' ? 'pounds, nautical miles (aviation units)' : 'kilograms and tonnes, kilometres (metric)',
+    ],
     [
       s.engineVersions.length > 1 ? 'Engine versions' : 'Engine version',
       s.engineVersionFlights?.length
@@ -471,11 +553,21 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
     ['NOx emitted (as NO2)', reportMass(t.noxTotalKg, units)],
     ['NOx above the tropopause (as NO2)', reportMass(t.noxAboveKg, units)],
     ['Share of NOx above the tropopause', pct(t.shareAbove)],
-    ['NOx above the tropopause per 1000 km', t.noxAbovePer1000KmKg === null ? '-' : reportMass(t.noxAbovePer1000KmKg, units, 2)],
+    [
+      'NOx above the tropopause per 1000 km',
+      t.noxAbovePer1000KmKg === null ? '-' : reportMass(t.noxAbovePer1000KmKg, units, 2),
+    ],
     ['Ozone-loss figure, central (gross)', reportMass(t.ozone.centralKg, units)],
     ['Ozone-loss figure, low-high range', reportMassRange(t.ozone.lowKg, t.ozone.highKg, units, ' to ')],
   ];
-  w.table([{ label: 'Figure', width: 300 }, { label: 'All fleets in the report', width: 199, align: 'right' }], totalsRows, { size: 8.5 });
+  w.table(
+    [
+      { label: 'Figure', width: 300 },
+      { label: 'All fleets in the report', width: 199, align: 'right' },
+    ],
+    totalsRows,
+    { size: 8.5 },
+  );
   w.paragraph(s.notes.ratios, { size: 7.5, color: INK_SOFT });
 
   w.heading('Per fleet', 120);
@@ -487,7 +579,10 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
     reportMass(r.ozone.lowKg, units),
     reportMass(r.ozone.highKg, units),
   ]);
-  w.paragraph('Ozone-loss screening figure (gross catalytic loss, not a net column change):', { size: 8.5, bold: true });
+  w.paragraph('Ozone-loss screening figure (gross catalytic loss, not a net column change):', {
+    size: 8.5,
+    bold: true,
+  });
   w.table(
     [
       { label: 'Fleet', width: 200 },
@@ -525,14 +620,22 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
     w,
     'NOx above the tropopause per month and fleet',
     s.months,
-    s.series.map((x, i) => ({ name: x.fleetName, colour: colours[i], values: x.noxAboveKg.map((v) => v * axis.perKg) })),
+    s.series.map((x, i) => ({
+      name: x.fleetName,
+      colour: colours[i],
+      values: x.noxAboveKg.map((v) => v * axis.perKg),
+    })),
     `${axis.unit} NO2`,
   );
   lineChart(
     w,
     'Share of NOx above the tropopause per month and fleet',
     s.months,
-    s.series.map((x, i) => ({ name: x.fleetName, colour: colours[i], values: x.shareAbove.map((v) => (v === null ? null : v * 100)) })),
+    s.series.map((x, i) => ({
+      name: x.fleetName,
+      colour: colours[i],
+      values: x.shareAbove.map((v) => (v === null ? null : v * 100)),
+    })),
     '% of NOx',
   );
   const monthRows = s.perFleetMonth.map((r) => [
@@ -566,7 +669,10 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
   w.heading('Fleet-scale context');
   w.paragraph(s.context.method, { size: 8, color: INK_SOFT });
   for (const c of [...s.context.fleets, s.context.total]) {
-    w.paragraph(`${c.fleetName}: ${reportMass(c.annualNoxAboveKg, units)} NOx above the tropopause per year (annualised)`, { size: 8.5, bold: true, gap: 2 });
+    w.paragraph(
+      `${c.fleetName}: ${reportMass(c.annualNoxAboveKg, units)} NOx above the tropopause per year (annualised)`,
+      { size: 8.5, bold: true, gap: 2 },
+    );
     w.bullets(contextLines(c, units), 8);
   }
 

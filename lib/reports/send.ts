@@ -12,7 +12,11 @@ import { COUNT_LABELS } from '@/lib/counts';
 const esc = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
 
 /** The e-mail that carries a report: key totals in the builder's units, the caution, the PDF. */
-export function reportMail(to: string[], s: ReportSummary, input: { senderName: string; note?: string; pdf: Buffer }): OutgoingMail {
+export function reportMail(
+  to: string[],
+  s: ReportSummary,
+  input: { senderName: string; note?: string; pdf: Buffer },
+): OutgoingMail {
   const t = s.totals;
   const u = s.units;
   const lines = [
@@ -39,11 +43,22 @@ export function reportMail(to: string[], s: ReportSummary, input: { senderName: 
  */
 export async function sendReport(
   scope: { workspaceId: number },
-  input: { reportId: number; recipients: string[]; note?: string; sentBy: number | null; senderName: string; actor: string },
+  input: {
+    reportId: number;
+    recipients: string[];
+    note?: string;
+    sentBy: number | null;
+    senderName: string;
+    actor: string;
+  },
 ): Promise<ReportSendDto> {
   const [report, file] = await Promise.all([getReport(scope, input.reportId), getReportPdf(scope, input.reportId)]);
   await limitReportSend(scope.workspaceId);
-  const mail = reportMail(input.recipients, report.summary, { senderName: input.senderName, note: input.note, pdf: file.pdf });
+  const mail = reportMail(input.recipients, report.summary, {
+    senderName: input.senderName,
+    note: input.note,
+    pdf: file.pdf,
+  });
   let messageId: string | null = null;
   let failure: string | null = null;
   try {
@@ -61,6 +76,11 @@ export async function sendReport(
     error: failure ? 'The mail server did not accept the message.' : null,
     actor: input.actor,
   });
-  if (failure) throw new AppError('unavailable', 'The mail server did not accept the report. The attempt is recorded; try again in a few minutes.', { extra: { sendId: send.id } });
+  if (failure)
+    throw new AppError(
+      'unavailable',
+      'The mail server did not accept the report. The attempt is recorded; try again in a few minutes.',
+      { extra: { sendId: send.id } },
+    );
   return send;
 }

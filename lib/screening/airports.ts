@@ -106,9 +106,13 @@ export function searchAirports(q: string, limit = 20): Airport[] {
   for (let i = 0; i < list.length; i++) {
     const a = list[i];
     if (a.icao === upper || a.iata === upper) exact.push(a);
-    else if ((a.icao !== null && a.icao.startsWith(upper)) || (a.iata !== null && a.iata.startsWith(upper))) prefix.push(a);
+    else if ((a.icao !== null && a.icao.startsWith(upper)) || (a.iata !== null && a.iata.startsWith(upper)))
+      prefix.push(a);
     else if (searchText[i].includes(lower)) text.push(a);
     if (exact.length >= max) break;
   }
-  return exact.concat(prefix, text).slice(0, max).map((a) => ({ ...a }));
+  return exact
+    .concat(prefix, text)
+    .slice(0, max)
+    .map((a) => ({ ...a }));
 }

@@ -108,7 +108,7 @@ export function isa(altitudeM: number): IsaState {
     pressurePa,
     densityKgM3: pressurePa / (R_AIR * temperatureK),
     speedOfSoundMs: Math.sqrt(GAMMA_AIR * R_AIR * temperatureK),
-    numberDensityCm3: pressurePa / (BOLTZMANN_J_K * temperatureK) * 1e-6,
+    numberDensityCm3: (pressurePa / (BOLTZMANN_J_K * temperatureK)) * 1e-6,
   };
 }
 

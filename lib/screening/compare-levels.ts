@@ -67,7 +67,12 @@ export interface CruiseLevelRow {
  */
 export function compareCruiseLevels(
   input: unknown,
-  options: { deltasFt?: number[]; fuelPenaltyPctPer1000Ft?: number; maxFuelPenaltyPct?: number; minimise?: MinimiseCriterion } = {},
+  options: {
+    deltasFt?: number[];
+    fuelPenaltyPctPer1000Ft?: number;
+    maxFuelPenaltyPct?: number;
+    minimise?: MinimiseCriterion;
+  } = {},
 ): CruiseLevelRow[] {
   const base = validateScreeningInput(input);
   const opts = validateCompareOptions(options);
@@ -81,7 +86,12 @@ export function compareCruiseLevels(
  */
 export function compareValidated(
   input: ScreeningInput,
-  opts: { deltasFt?: readonly number[]; fuelPenaltyPctPer1000Ft?: number; maxFuelPenaltyPct?: number; minimise?: MinimiseCriterion },
+  opts: {
+    deltasFt?: readonly number[];
+    fuelPenaltyPctPer1000Ft?: number;
+    maxFuelPenaltyPct?: number;
+    minimise?: MinimiseCriterion;
+  },
   planned?: ScreeningTotals,
   library?: RouteLibrary,
 ): CruiseLevelRow[] {
@@ -95,7 +105,11 @@ export function compareValidated(
   for (const deltaFt of deltas) {
     const dFl = deltaFt / 100;
     const shifted = steps.map((s) => ({ fromKm: s.fromKm, flightLevel: s.flightLevel + dFl }));
-    if (shifted.some((s) => s.flightLevel < SCREENING_LIMITS.minFlightLevel || s.flightLevel > SCREENING_LIMITS.maxFlightLevel)) {
+    if (
+      shifted.some(
+        (s) => s.flightLevel < SCREENING_LIMITS.minFlightLevel || s.flightLevel > SCREENING_LIMITS.maxFlightLevel,
+      )
+    ) {
       continue;
     }
     const fuelPenaltyPct = (perK * Math.abs(deltaFt)) / 1000;

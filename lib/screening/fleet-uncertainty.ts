@@ -132,7 +132,7 @@ export interface FleetUncertainty {
 }
 
 const CORRELATION =
-  'In each sample the systematic inputs are shared by every flight: the EI method (one position between BFFM2 and DLR), the residence-time factor, the J values and the NOx/NOy share (one quantile each, read on each flight\'s own band). The tropopause error is half shared within a region and month (10-degree band of the flight\'s NOx-weighted latitude, the flight\'s month) and half the flight\'s own; the EI scatter about the methods is each flight\'s own.';
+  "In each sample the systematic inputs are shared by every flight: the EI method (one position between BFFM2 and DLR), the residence-time factor, the J values and the NOx/NOy share (one quantile each, read on each flight's own band). The tropopause error is half shared within a region and month (10-degree band of the flight's NOx-weighted latitude, the flight's month) and half the flight's own; the EI scatter about the methods is each flight's own.";
 
 const GROUPS = 18 * 13;
 
@@ -196,7 +196,14 @@ function jFactor(c: FlightComponents, jO3: number, jNo2: number): number {
   return (1 - fa) * ((1 - fb) * v00 + fb * v01) + fa * ((1 - fb) * v10 + fb * v11);
 }
 
-function finish(samples: number, seed: number, flights: number, above: Float64Array, total: Float64Array, o3: Float64Array): FleetUncertainty {
+function finish(
+  samples: number,
+  seed: number,
+  flights: number,
+  above: Float64Array,
+  total: Float64Array,
+  o3: Float64Array,
+): FleetUncertainty {
   const frac = new Float64Array(samples);
   for (let i = 0; i < samples; i++) frac[i] = total[i] > 0 ? Math.min(1, above[i] / total[i]) : 0;
   return {
@@ -215,7 +222,10 @@ function finish(samples: number, seed: number, flights: number, above: Float64Ar
  * from the flights' components: `samples` (default 400) from `seed` (default 1), the correlation as
  * CORRELATION states. Cost: samples x flights weighted sums.
  */
-export function sampleFleet(flights: readonly FlightComponents[], options: { samples?: number; seed?: number } = {}): FleetUncertainty {
+export function sampleFleet(
+  flights: readonly FlightComponents[],
+  options: { samples?: number; seed?: number } = {},
+): FleetUncertainty {
   const samples = options.samples ?? DEFAULT_UNCERTAINTY_SAMPLES;
   const seed = options.seed ?? DEFAULT_UNCERTAINTY_SEED;
   const shared = mulberry32(subSeed(seed, 100));
@@ -315,7 +325,9 @@ export function sampleFleetExact(
         eiU: k.direct ? Number.NaN : s.u,
         eiZ: d.zEi,
         shiftM: d.zTp * k.sigmaShiftM,
-        tauFactor: Math.exp(triangular(s.tauFactorQ, Math.log(inp.residenceTime.lowFactor), 0, Math.log(inp.residenceTime.highFactor))),
+        tauFactor: Math.exp(
+          triangular(s.tauFactorQ, Math.log(inp.residenceTime.lowFactor), 0, Math.log(inp.residenceTime.highFactor)),
+        ),
         jO3: triangular(s.jO3Q, inp.jO3NoonPerS.low, inp.jO3NoonPerS.central, inp.jO3NoonPerS.high),
         jNo2: triangular(s.jNo2Q, inp.jNo2NoonPerS.low, inp.jNo2NoonPerS.central, inp.jNo2NoonPerS.high),
         noy: triangular(s.noyQ, inp.noxToNoyFraction.low, inp.noxToNoyFraction.central, inp.noxToNoyFraction.high),

@@ -163,7 +163,9 @@ function parseLevel(s: string, notes: string[]): number | null {
       return n;
     default: {
       const fl = Math.round((n * 10) / 30.48);
-      notes.push(`${s}: altitude ${n * 10} m, screened as the nearest flight level FL${fl} (the altimeter setting is not known).`);
+      notes.push(
+        `${s}: altitude ${n * 10} m, screened as the nearest flight level FL${fl} (the altimeter setting is not known).`,
+      );
       return fl;
     }
   }
@@ -224,7 +226,12 @@ function parseCoordinates(text: string): { lat: number; lon: number; note?: stri
 }
 
 /** The point `distanceKm` from (lat, lon) on the initial true course `bearingDeg`, on the mean sphere. */
-function destinationPoint(lat: number, lon: number, bearingDeg: number, distanceKm: number): { lat: number; lon: number } {
+function destinationPoint(
+  lat: number,
+  lon: number,
+  bearingDeg: number,
+  distanceKm: number,
+): { lat: number; lon: number } {
   const d = (distanceKm * 1000) / EARTH_RADIUS_M;
   const p1 = lat * DEG;
   const l1 = lon * DEG;
@@ -232,7 +239,7 @@ function destinationPoint(lat: number, lon: number, bearingDeg: number, distance
   const sp2 = Math.sin(p1) * Math.cos(d) + Math.cos(p1) * Math.sin(d) * Math.cos(b);
   const p2 = Math.asin(Math.max(-1, Math.min(1, sp2)));
   const l2 = l1 + Math.atan2(Math.sin(b) * Math.sin(d) * Math.cos(p1), Math.cos(d) - Math.sin(p1) * sp2);
-  let lonOut = (((l2 / DEG + 540) % 360) + 360) % 360 - 180;
+  let lonOut = ((((l2 / DEG + 540) % 360) + 360) % 360) - 180;
   if (lonOut === -180 && lon > 0) lonOut = 180;
   return { lat: p2 / DEG, lon: lonOut };
 }
@@ -250,7 +257,12 @@ export function formatFlightPlanCoordinate(lat: number, lon: number): string {
     const totalMin = Math.round(Math.abs(v) * 60);
     const deg = Math.floor(totalMin / 60);
     const min = totalMin % 60;
-    return { deg: String(deg).padStart(degDigits, '0'), min: String(min).padStart(2, '0'), hemi: v < 0 ? neg : pos, whole: min === 0 };
+    return {
+      deg: String(deg).padStart(degDigits, '0'),
+      min: String(min).padStart(2, '0'),
+      hemi: v < 0 ? neg : pos,
+      whole: min === 0,
+    };
   };
   const a = part(lat, 2, 'N', 'S');
   const o = part(lon, 3, 'E', 'W');
@@ -302,7 +314,9 @@ export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = 
   const notes: string[] = [];
   const unresolved: UnresolvedItem[] = [];
   const items: FlightPlanItem[] = [];
-  const lib: RouteLibrary = Array.isArray(options.fixes) ? { fixes: options.fixes } : ((options.fixes as RouteLibrary | undefined) ?? {});
+  const lib: RouteLibrary = Array.isArray(options.fixes)
+    ? { fixes: options.fixes }
+    : ((options.fixes as RouteLibrary | undefined) ?? {});
   const byName = fixIndex(lib.fixes ?? []);
   const airwaysByName = new Map<string, readonly string[]>();
   for (const a of [...(lib.airways ?? []), ...(options.airways ?? [])]) {
@@ -332,20 +346,31 @@ export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = 
   let initial: SpeedLevel | null = null;
   let start = 0;
   if (tokens.length === 0) {
-    unresolved.push({ item: '', position: 0, reason: 'The route is empty: it needs at least a speed and level group.' });
+    unresolved.push({
+      item: '',
+      position: 0,
+      reason: 'The route is empty: it needs at least a speed and level group.',
+    });
   } else {
     const first = tokens[0];
     const sl = parseSpeedLevel(first.text);
     if (typeof sl === 'string') {
       if (/^[NMK]\d/.test(first.text)) {
         unresolved.push({ item: first.text, position: first.position, reason: `${first.text} ${sl}` });
-        items.push({ item: first.text, position: first.position, kind: 'speed-level', status: 'not-found', detail: sl });
+        items.push({
+          item: first.text,
+          position: first.position,
+          kind: 'speed-level',
+          status: 'not-found',
+          detail: sl,
+        });
         start = 1;
       } else {
         unresolved.push({
           item: first.text,
           position: first.position,
-          reason: 'The route must begin with the cruising speed and level, such as N0480F350: none was found, so no level is taken from the text.',
+          reason:
+            'The route must begin with the cruising speed and level, such as N0480F350: none was found, so no level is taken from the text.',
         });
       }
     } else {
@@ -376,13 +401,31 @@ export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = 
 
     if (t === 'DCT') {
       if (isFirst || isLast) {
-        notes.push(`DCT at the ${isFirst ? 'start' : 'end'} of the route is ignored: the route joins the aerodrome directly.`);
-        items.push({ item: t, position: tok.position, kind: 'direct', status: 'ignored', detail: `Direct at the ${isFirst ? 'start' : 'end'} of the route.` });
+        notes.push(
+          `DCT at the ${isFirst ? 'start' : 'end'} of the route is ignored: the route joins the aerodrome directly.`,
+        );
+        items.push({
+          item: t,
+          position: tok.position,
+          kind: 'direct',
+          status: 'ignored',
+          detail: `Direct at the ${isFirst ? 'start' : 'end'} of the route.`,
+        });
       } else {
-        items.push({ item: t, position: tok.position, kind: 'direct', status: 'read', detail: 'Direct to the next point.' });
+        items.push({
+          item: t,
+          position: tok.position,
+          kind: 'direct',
+          status: 'read',
+          detail: 'Direct to the next point.',
+        });
       }
       if (pendingAirway !== null) {
-        unresolved.push({ item: pendingAirway.token.text, position: pendingAirway.token.position, reason: `The airway ${pendingAirway.token.text} must be followed by the point where the route leaves it.` });
+        unresolved.push({
+          item: pendingAirway.token.text,
+          position: pendingAirway.token.position,
+          reason: `The airway ${pendingAirway.token.text} must be followed by the point where the route leaves it.`,
+        });
         markAirway(items, pendingAirway, 'not-found', 'No exit point follows it.');
         pendingAirway = null;
       }
@@ -390,14 +433,33 @@ export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = 
       continue;
     }
     if (t === 'VFR' || t === 'IFR') {
-      notes.push(`${t} at offset ${tok.position}: flight rules change to ${t}; the screening keeps the cruise level and route.`);
-      items.push({ item: t, position: tok.position, kind: 'flight-rules', status: 'read', detail: `Flight rules change to ${t}.` });
+      notes.push(
+        `${t} at offset ${tok.position}: flight rules change to ${t}; the screening keeps the cruise level and route.`,
+      );
+      items.push({
+        item: t,
+        position: tok.position,
+        kind: 'flight-rules',
+        status: 'read',
+        detail: `Flight rules change to ${t}.`,
+      });
       continue;
     }
     const endAerodrome = isFirst ? origin : isLast ? destination : null;
-    if (endAerodrome !== null && (t === endAerodrome.name || t === (isFirst ? options.from : options.to)?.trim().toUpperCase())) {
-      notes.push(`${t}: the ${isFirst ? 'departure' : 'destination'} aerodrome written in the route is ignored; it is already the ${isFirst ? 'first' : 'last'} point.`);
-      items.push({ item: t, position: tok.position, kind: 'other', status: 'ignored', detail: `The ${isFirst ? 'departure' : 'destination'} aerodrome.` });
+    if (
+      endAerodrome !== null &&
+      (t === endAerodrome.name || t === (isFirst ? options.from : options.to)?.trim().toUpperCase())
+    ) {
+      notes.push(
+        `${t}: the ${isFirst ? 'departure' : 'destination'} aerodrome written in the route is ignored; it is already the ${isFirst ? 'first' : 'last'} point.`,
+      );
+      items.push({
+        item: t,
+        position: tok.position,
+        kind: 'other',
+        status: 'ignored',
+        detail: `The ${isFirst ? 'departure' : 'destination'} aerodrome.`,
+      });
       continue;
     }
     if (t === 'T' && isLast) {
@@ -414,8 +476,18 @@ export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = 
       const parts = t.split('/');
       const cc = parts.length === 3 ? CRUISE_CLIMB_RE.exec(parts[2]) : null;
       if (cc === null) {
-        unresolved.push({ item: t, position: tok.position, reason: 'A cruise climb is written C/point/speed-level-level, such as C/48N050W/M082F290F350.' });
-        items.push({ item: t, position: tok.position, kind: 'other', status: 'not-found', detail: 'Unreadable cruise climb.' });
+        unresolved.push({
+          item: t,
+          position: tok.position,
+          reason: 'A cruise climb is written C/point/speed-level-level, such as C/48N050W/M082F290F350.',
+        });
+        items.push({
+          item: t,
+          position: tok.position,
+          kind: 'other',
+          status: 'not-found',
+          detail: 'Unreadable cruise climb.',
+        });
         lastWasPoint = false;
         continue;
       }
@@ -433,7 +505,13 @@ export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = 
       const sl = parseSpeedLevel(changeText);
       if (typeof sl === 'string') {
         unresolved.push({ item: t, position: tok.position, reason: `The change ${changeText} ${sl}` });
-        items.push({ item: t, position: tok.position, kind: 'speed-level', status: 'not-found', detail: `${changeText} ${sl}` });
+        items.push({
+          item: t,
+          position: tok.position,
+          kind: 'speed-level',
+          status: 'not-found',
+          detail: `${changeText} ${sl}`,
+        });
         lastWasPoint = false;
         continue;
       }
@@ -445,14 +523,32 @@ export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = 
       // Not a point: a procedure at either end, an airway in between, or an item not understood.
       if ((isFirst || isLast) && PROCEDURE_RE.test(t) && !airwaysByName.has(t) && !byName.has(t)) {
         const what = isFirst ? 'SID' : 'STAR';
-        notes.push(`${t}: ${what} ignored; the route is taken ${isFirst ? 'from the departure aerodrome to the first point' : 'from the last point to the destination'} as a great circle.`);
-        items.push({ item: t, position: tok.position, kind: 'procedure', status: 'ignored', detail: `${what}: flown as a great circle.` });
+        notes.push(
+          `${t}: ${what} ignored; the route is taken ${isFirst ? 'from the departure aerodrome to the first point' : 'from the last point to the destination'} as a great circle.`,
+        );
+        items.push({
+          item: t,
+          position: tok.position,
+          kind: 'procedure',
+          status: 'ignored',
+          detail: `${what}: flown as a great circle.`,
+        });
         continue;
       }
       if (AIRWAY_RE.test(t) && !isFirst) {
         if (!lastWasPoint) {
-          unresolved.push({ item: t, position: tok.position, reason: `The airway ${t} does not follow a point, so where the route joins it is not known.` });
-          items.push({ item: t, position: tok.position, kind: 'airway', status: 'not-found', detail: 'No point before it.' });
+          unresolved.push({
+            item: t,
+            position: tok.position,
+            reason: `The airway ${t} does not follow a point, so where the route joins it is not known.`,
+          });
+          items.push({
+            item: t,
+            position: tok.position,
+            kind: 'airway',
+            status: 'not-found',
+            detail: 'No point before it.',
+          });
           continue;
         }
         pendingAirway = { token: tok, from: lastPoint };
@@ -460,7 +556,11 @@ export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = 
         lastWasPoint = false;
         continue;
       }
-      unresolved.push({ item: t, position: tok.position, reason: `${t} is not a speed/level group, point, coordinate, airway or DCT that the route can read.` });
+      unresolved.push({
+        item: t,
+        position: tok.position,
+        reason: `${t} is not a speed/level group, point, coordinate, airway or DCT that the route can read.`,
+      });
       items.push({ item: t, position: tok.position, kind: 'other', status: 'not-found', detail: 'Not understood.' });
       lastWasPoint = false;
       continue;
@@ -469,7 +569,11 @@ export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = 
       unresolved.push({ item: t, position: tok.position, reason: point });
       items.push({ item: t, position: tok.position, kind: 'point', status: 'not-found', detail: point });
       if (pendingAirway !== null) {
-        unresolved.push({ item: pendingAirway.token.text, position: pendingAirway.token.position, reason: `The airway ${pendingAirway.token.text} leads to ${pointText}, which cannot be placed.` });
+        unresolved.push({
+          item: pendingAirway.token.text,
+          position: pendingAirway.token.position,
+          reason: `The airway ${pendingAirway.token.text} leads to ${pointText}, which cannot be placed.`,
+        });
         markAirway(items, pendingAirway, 'not-found', `Its exit point ${pointText} is not known.`);
         pendingAirway = null;
       }
@@ -492,7 +596,11 @@ export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = 
     lastWasPoint = true;
   }
   if (pendingAirway !== null) {
-    unresolved.push({ item: pendingAirway.token.text, position: pendingAirway.token.position, reason: `The airway ${pendingAirway.token.text} must be followed by the point where the route leaves it.` });
+    unresolved.push({
+      item: pendingAirway.token.text,
+      position: pendingAirway.token.position,
+      reason: `The airway ${pendingAirway.token.text} must be followed by the point where the route leaves it.`,
+    });
     markAirway(items, pendingAirway, 'not-found', 'No exit point follows it.');
   }
 
@@ -523,7 +631,13 @@ export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = 
       );
     }
     if (p.viaAirway !== null) {
-      const via = expandAirway(p.viaAirway, p, byName, airwaysByName, waypoints.length > 0 ? waypoints[waypoints.length - 1] : null);
+      const via = expandAirway(
+        p.viaAirway,
+        p,
+        byName,
+        airwaysByName,
+        waypoints.length > 0 ? waypoints[waypoints.length - 1] : null,
+      );
       notes.push(via.note);
       markAirway(items, p.viaAirway, via.points.length > 0 || via.onAirway ? 'looked-up' : 'read', via.note);
       for (const w of via.points) push(w);
@@ -562,25 +676,35 @@ export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = 
     for (const n of p.change.notes) notes.push(n);
     if (p.change.flightLevel !== null) {
       if (steps.length === 0 && km > 0) {
-        notes.push(`${p.name}: the first level in the text is at ${km.toFixed(0)} km; it is used from the start of the route.`);
+        notes.push(
+          `${p.name}: the first level in the text is at ${km.toFixed(0)} km; it is used from the start of the route.`,
+        );
         addStep(0, p.change.flightLevel);
       } else addStep(km, p.change.flightLevel);
     }
     addSpeed(km, p.change.speed);
     if (p.cruiseClimb !== null) {
       const end = p.cruiseClimb === 'PLUS' ? 'an unstated level above' : fmtFl(parseLevel(p.cruiseClimb, []) ?? 0);
-      notes.push(`${p.token.text}: cruise climb from ${p.name} to ${end}, screened at ${p.change.flightLevel !== null ? fmtFl(p.change.flightLevel) : 'the level before'}.`);
+      notes.push(
+        `${p.token.text}: cruise climb from ${p.name} to ${end}, screened at ${p.change.flightLevel !== null ? fmtFl(p.change.flightLevel) : 'the level before'}.`,
+      );
     }
   }
   return { waypoints, cruise: { steps }, speeds, unresolved, notes, items };
 }
 
 function describeSpeedLevel(sl: SpeedLevel): string {
-  const speed = sl.speed.mach !== undefined ? `Mach ${sl.speed.mach.toFixed(2)}` : `${Math.round(sl.speed.tasKt ?? 0)} kt`;
+  const speed =
+    sl.speed.mach !== undefined ? `Mach ${sl.speed.mach.toFixed(2)}` : `${Math.round(sl.speed.tasKt ?? 0)} kt`;
   return sl.flightLevel === null ? `${speed}, VFR` : `${speed} at ${fmtFl(sl.flightLevel)}`;
 }
 
-function markAirway(items: FlightPlanItem[], airway: AirwayEntry, status: FlightPlanItem['status'], detail: string): void {
+function markAirway(
+  items: FlightPlanItem[],
+  airway: AirwayEntry,
+  status: FlightPlanItem['status'],
+  detail: string,
+): void {
   const it = items.find((x) => x.position === airway.token.position && x.kind === 'airway');
   if (it !== undefined) {
     it.status = status;
@@ -605,7 +729,13 @@ function classifyPoint(
 ): ClassifiedPoint | string | null {
   const named = byName.get(t);
   if (named !== undefined) {
-    return { candidates: named, kind: 'point', status: 'looked-up', detail: `Found in the fix library${named.length > 1 ? ` (${named.length} with this name)` : ''}.`, notes: [] };
+    return {
+      candidates: named,
+      kind: 'point',
+      status: 'looked-up',
+      detail: `Found in the fix library${named.length > 1 ? ` (${named.length} with this name)` : ''}.`,
+      notes: [],
+    };
   }
   const c = parseCoordinates(t);
   if (typeof c === 'string') return `${t} ${c}`;
@@ -621,7 +751,8 @@ function classifyPoint(
   const b = BEARING_RE.exec(t);
   if (b !== null) {
     const base = byName.get(b[1]);
-    if (base === undefined) return `${b[1]} is not in the fix library, so ${t} (bearing ${b[2]}, ${Number(b[3])} NM from it) cannot be placed.`;
+    if (base === undefined)
+      return `${b[1]} is not in the fix library, so ${t} (bearing ${b[2]}, ${Number(b[3])} NM from it) cannot be placed.`;
     const bearing = Number(b[2]);
     if (bearing > 360) return `${t}: the bearing ${b[2]} is beyond 360 degrees.`;
     const origin = base[0];
@@ -648,7 +779,11 @@ function nextAnchor(points: readonly PendingPoint[], from: number): FlightPlanWa
 }
 
 /** The candidate with the shortest path prev -> candidate -> next (either end may be missing). */
-function nearestAlong(candidates: readonly FlightPlanWaypoint[], prev: FlightPlanWaypoint | null, next: FlightPlanWaypoint | null): FlightPlanWaypoint {
+function nearestAlong(
+  candidates: readonly FlightPlanWaypoint[],
+  prev: FlightPlanWaypoint | null,
+  next: FlightPlanWaypoint | null,
+): FlightPlanWaypoint {
   let best = candidates[0];
   let bestKm = Infinity;
   for (const c of candidates) {
@@ -675,7 +810,11 @@ function expandAirway(
   const entry = airway.from?.name ?? '?';
   const seq = airways.get(name);
   if (seq === undefined) {
-    return { points: [], onAirway: false, note: `${name}: not in the airway library; flown as a great circle from ${entry} to ${exit.name}.` };
+    return {
+      points: [],
+      onAirway: false,
+      note: `${name}: not in the airway library; flown as a great circle from ${entry} to ${exit.name}.`,
+    };
   }
   const i = seq.indexOf(entry);
   const j = seq.indexOf(exit.name);
@@ -701,7 +840,8 @@ function expandAirway(
     out.push(w);
     last = w;
   }
-  const via = names.length === 0 ? 'no points between them' : `${out.length} point${out.length === 1 ? '' : 's'} between them`;
+  const via =
+    names.length === 0 ? 'no points between them' : `${out.length} point${out.length === 1 ? '' : 's'} between them`;
   return {
     points: out,
     onAirway: true,
@@ -742,9 +882,15 @@ export function expandFlightPlanInput(
   const { text, from, to } = route.flightPlan;
   const parsed = parseFlightPlanRoute(text, { from, to, fixes: library.fixes, airways: library.airways });
   const problems: FieldProblem[] = [];
-  for (const [field, code, role] of [['from', from, 'departure'], ['to', to, 'destination']] as const) {
+  for (const [field, code, role] of [
+    ['from', from, 'departure'],
+    ['to', to, 'destination'],
+  ] as const) {
     if (findAirport(code) === null) {
-      problems.push({ path: `route.flightPlan.${field}`, message: `No ${role} aerodrome with the code ${code.toUpperCase()} is known: check the ICAO or IATA code.` });
+      problems.push({
+        path: `route.flightPlan.${field}`,
+        message: `No ${role} aerodrome with the code ${code.toUpperCase()} is known: check the ICAO or IATA code.`,
+      });
     }
   }
   if (problems.length === 0 && parsed.waypoints.length < SCREENING_LIMITS.minWaypoints) {
@@ -765,7 +911,11 @@ export function expandFlightPlanInput(
   if (problems.length > 0) throw new ScreeningInputError(problems);
   const steps = parsed.cruise.steps;
   const levelsFromText = steps.length > 0;
-  const cruise = !levelsFromText ? input.cruise : steps.length === 1 ? { flightLevel: steps[0].flightLevel } : { steps: steps.map((st) => ({ ...st })) };
+  const cruise = !levelsFromText
+    ? input.cruise
+    : steps.length === 1
+      ? { flightLevel: steps[0].flightLevel }
+      : { steps: steps.map((st) => ({ ...st })) };
   return {
     input: { ...input, route: { waypoints: parsed.waypoints.map((w) => ({ lat: w.lat, lon: w.lon })) }, cruise },
     flightPlan: { ...parsed, text, from: from.toUpperCase(), to: to.toUpperCase(), levelsFromText },
@@ -783,6 +933,11 @@ export function inputAsScreened(input: ScreeningInput, flightPlan: FlightPlanUse
   return {
     ...input,
     route: { waypoints: flightPlan.waypoints.map((w) => ({ lat: w.lat, lon: w.lon })) },
-    cruise: flightPlan.levelsFromText && steps.length > 0 ? (steps.length === 1 ? { flightLevel: steps[0].flightLevel } : { steps }) : input.cruise,
+    cruise:
+      flightPlan.levelsFromText && steps.length > 0
+        ? steps.length === 1
+          ? { flightLevel: steps[0].flightLevel }
+          : { steps }
+        : input.cruise,
   };
 }

@@ -8,16 +8,7 @@
  */
 
 /** Reactions the engine knows. */
-export type Reaction =
-  | 'NO+O3'
-  | 'NO2+O'
-  | 'O+O3'
-  | 'OH+O3'
-  | 'HO2+O'
-  | 'HO2+O3'
-  | 'HO2+NO'
-  | 'O+O2+M'
-  | 'OH+NO2+M';
+export type Reaction = 'NO+O3' | 'NO2+O' | 'O+O3' | 'OH+O3' | 'HO2+O' | 'HO2+O3' | 'HO2+NO' | 'O+O2+M' | 'OH+NO2+M';
 
 /** Arrhenius parameters: A in cm^3 molecule^-1 s^-1, E/R in K. */
 export interface ArrheniusParameters {
@@ -50,25 +41,26 @@ export interface ChemicalActivationParameters {
 export const JPL_TERMOLECULAR_REFERENCE_K = 300;
 
 /** JPL 19-5 parameters per reaction (values as listed in its tables, from memory: confirm there). */
-export const JPL_19_5: Readonly<Record<Reaction, ArrheniusParameters | TermolecularParameters | ChemicalActivationParameters>> =
-  Object.freeze({
-    'NO+O3': { kind: 'arrhenius', a: 3.0e-12, eOverRK: 1500 },
-    // O + NO2 -> NO + O2 competes with O + NO2 + M -> NO3 (k0 3.4e-31, n 1.6, kinf 2.3e-11, m 0.2).
-    'NO2+O': {
-      kind: 'chemical-activation',
-      a: 5.3e-12,
-      eOverRK: -200,
-      association: { kind: 'termolecular', k0At300: 3.4e-31, n: 1.6, kInfAt300: 2.3e-11, m: 0.2 },
-    },
-    'O+O3': { kind: 'arrhenius', a: 8.0e-12, eOverRK: 2060 },
-    'OH+O3': { kind: 'arrhenius', a: 1.7e-12, eOverRK: 940 },
-    'HO2+O': { kind: 'arrhenius', a: 3.0e-11, eOverRK: -200 },
-    'HO2+O3': { kind: 'arrhenius', a: 1.0e-14, eOverRK: 490 },
-    // One line of JPL 19-5 table 1: A and E/R as listed; k(298) = 8.2e-12 follows from them.
-    'HO2+NO': { kind: 'arrhenius', a: 3.44e-12, eOverRK: -260 },
-    'O+O2+M': { kind: 'termolecular', k0At300: 6.1e-34, n: 2.4, kInfAt300: null, m: 0 },
-    'OH+NO2+M': { kind: 'termolecular', k0At300: 1.8e-30, n: 3.0, kInfAt300: 2.8e-11, m: 0 },
-  });
+export const JPL_19_5: Readonly<
+  Record<Reaction, ArrheniusParameters | TermolecularParameters | ChemicalActivationParameters>
+> = Object.freeze({
+  'NO+O3': { kind: 'arrhenius', a: 3.0e-12, eOverRK: 1500 },
+  // O + NO2 -> NO + O2 competes with O + NO2 + M -> NO3 (k0 3.4e-31, n 1.6, kinf 2.3e-11, m 0.2).
+  'NO2+O': {
+    kind: 'chemical-activation',
+    a: 5.3e-12,
+    eOverRK: -200,
+    association: { kind: 'termolecular', k0At300: 3.4e-31, n: 1.6, kInfAt300: 2.3e-11, m: 0.2 },
+  },
+  'O+O3': { kind: 'arrhenius', a: 8.0e-12, eOverRK: 2060 },
+  'OH+O3': { kind: 'arrhenius', a: 1.7e-12, eOverRK: 940 },
+  'HO2+O': { kind: 'arrhenius', a: 3.0e-11, eOverRK: -200 },
+  'HO2+O3': { kind: 'arrhenius', a: 1.0e-14, eOverRK: 490 },
+  // One line of JPL 19-5 table 1: A and E/R as listed; k(298) = 8.2e-12 follows from them.
+  'HO2+NO': { kind: 'arrhenius', a: 3.44e-12, eOverRK: -260 },
+  'O+O2+M': { kind: 'termolecular', k0At300: 6.1e-34, n: 2.4, kInfAt300: null, m: 0 },
+  'OH+NO2+M': { kind: 'termolecular', k0At300: 1.8e-30, n: 3.0, kInfAt300: 2.8e-11, m: 0 },
+});
 
 /** Broadening factor of the JPL fall-off expression. */
 export const JPL_FALLOFF_FC = 0.6;
@@ -125,7 +117,9 @@ export function no2ORate(temperatureK: number, airDensityCm3: number): number {
  * (molecule cm^-3). RangeError on bad arguments.
  */
 export function rateConstant(reaction: Reaction, temperatureK: number, airDensityCm3?: number): number {
-  const p = (JPL_19_5 as Record<string, ArrheniusParameters | TermolecularParameters | ChemicalActivationParameters>)[reaction];
+  const p = (JPL_19_5 as Record<string, ArrheniusParameters | TermolecularParameters | ChemicalActivationParameters>)[
+    reaction
+  ];
   if (p === undefined) throw new RangeError(`Unknown reaction "${String(reaction)}".`);
   if (!Number.isFinite(temperatureK) || temperatureK < 100 || temperatureK > 400) {
     throw new RangeError(`The temperature must be between 100 and 400 K (got ${temperatureK}).`);

@@ -34,7 +34,13 @@ function fixedTropopause(input: ScreeningInput): TropopauseSource | null {
   return tropopauseFromSounding(tp.sounding) === null ? null : 'sounding';
 }
 
-function row(month: number, input: ScreeningInput, source: TropopauseSource, same: boolean, library?: RouteLibrary): MonthRow {
+function row(
+  month: number,
+  input: ScreeningInput,
+  source: TropopauseSource,
+  same: boolean,
+  library?: RouteLibrary,
+): MonthRow {
   const t = screenTotals(input, library);
   return {
     month,
@@ -50,7 +56,13 @@ function row(month: number, input: ScreeningInput, source: TropopauseSource, sam
 export function sweepMonthsValidated(input: ScreeningInput, library?: RouteLibrary): MonthRow[] {
   const fixed = fixedTropopause(input);
   if (fixed !== null) {
-    const own = row(input.month ?? (input.flightDate !== undefined ? Number(input.flightDate.slice(5, 7)) : 1), input, fixed, true, library);
+    const own = row(
+      input.month ?? (input.flightDate !== undefined ? Number(input.flightDate.slice(5, 7)) : 1),
+      input,
+      fixed,
+      true,
+      library,
+    );
     return Array.from({ length: 12 }, (_, i) => ({ ...own, ozoneLoss: { ...own.ozoneLoss }, month: i + 1 }));
   }
   const base: ScreeningInput = { ...input, uncertainty: undefined, flightDate: undefined };

@@ -5,7 +5,15 @@
  * Number densities in molecule cm^-3, J in s^-1, residence times in years, masses in kg.
  */
 import { AVOGADRO, BOLTZMANN_J_K } from './atmosphere';
-import { JPL_19_5, arrhenius, lowPressureLimit, no2ORate, ohNo2Rate, type ArrheniusParameters, type TermolecularParameters } from './kinetics';
+import {
+  JPL_19_5,
+  arrhenius,
+  lowPressureLimit,
+  no2ORate,
+  ohNo2Rate,
+  type ArrheniusParameters,
+  type TermolecularParameters,
+} from './kinetics';
 import type { Assumptions, OzoneProfileName } from '../validation/screening';
 
 /** Molar mass of O3, g/mol. */
@@ -42,8 +50,8 @@ export const AFGL_O3_PPMV: Readonly<Record<OzoneProfileName, readonly number[]>>
     0.44, 0.5, 0.6, 0.7, 1.0, 1.5, 2.0, 2.4, 2.9, 3.4, 4.0, 4.8, 6.0, 7.0, 8.1, 8.9,
   ],
   'midlatitude-winter': [
-    0.02778, 0.028, 0.02849, 0.032, 0.03567, 0.0472, 0.05837, 0.07891, 0.1039, 0.1567, 0.237, 0.3624, 0.5232, 0.7036, 0.8,
-    0.9, 1.1, 1.4, 1.8, 2.3, 2.9, 3.5, 3.9, 4.3, 4.7, 5.1, 5.6, 6.1, 6.8, 7.1,
+    0.02778, 0.028, 0.02849, 0.032, 0.03567, 0.0472, 0.05837, 0.07891, 0.1039, 0.1567, 0.237, 0.3624, 0.5232, 0.7036,
+    0.8, 0.9, 1.1, 1.4, 1.8, 2.3, 2.9, 3.5, 3.9, 4.3, 4.7, 5.1, 5.6, 6.1, 6.8, 7.1,
   ],
   'subarctic-summer': [
     0.02412, 0.0294, 0.03379, 0.03887, 0.04478, 0.05328, 0.06564, 0.07738, 0.09114, 0.142, 0.189, 0.305, 0.41, 0.5, 0.6,
@@ -105,7 +113,11 @@ function interpolateProfile(altKm: readonly number[], ppmv: readonly number[], z
  * O3 volume mixing ratio (ppmv) of a profile slot at geometric altitude `zKm`, linear between grid
  * points and constant beyond the ends. Annual-mean slots average summer and winter.
  */
-export function ozonePpmv(slot: number, zKm: number, custom?: { altitudeKm: readonly number[]; ppmv: readonly number[] }): number {
+export function ozonePpmv(
+  slot: number,
+  zKm: number,
+  custom?: { altitudeKm: readonly number[]; ppmv: readonly number[] },
+): number {
   if (slot === CUSTOM_PROFILE_SLOT) {
     if (custom === undefined) throw new RangeError('The custom ozone profile is missing.');
     return interpolateProfile(custom.altitudeKm, custom.ppmv, zKm);
@@ -223,7 +235,9 @@ export function resolveOzoneInputs(a: Assumptions | undefined): OzoneInputs {
         : {
             depthKm: rt.depthKm,
             years: rt.years,
-            tropicalYears: rt.tropicalYears ?? (sameNodes(rt.depthKm, d.residenceTime.depthKm) ? d.residenceTime.tropicalYears : null),
+            tropicalYears:
+              rt.tropicalYears ??
+              (sameNodes(rt.depthKm, d.residenceTime.depthKm) ? d.residenceTime.tropicalYears : null),
             lowFactor: rt.lowFactor ?? d.residenceTime.lowFactor,
             highFactor: rt.highFactor ?? d.residenceTime.highFactor,
           },
@@ -404,8 +418,7 @@ export function oddOxygenBudget(args: {
     hoxLossCm3S: hox,
     noxLossPer1PpbvCm3S: nox,
     addedNoxShareAt1Ppbv: nox + chapman + hox > 0 ? nox / (nox + chapman + hox) : 0,
-    note:
-      'Daytime rates (overhead-sun J values scaled by the daytime-mean cos zenith of the flight date and place) at the level carrying the most NOx above the tropopause; 1 ppbv of added NOx is a yardstick, not the plume concentration. Background NOx and halogen cycles are not included.',
+    note: 'Daytime rates (overhead-sun J values scaled by the daytime-mean cos zenith of the flight date and place) at the level carrying the most NOx above the tropopause; 1 ppbv of added NOx is a yardstick, not the plume concentration. Background NOx and halogen cycles are not included.',
   };
 }
 
@@ -425,7 +438,8 @@ export interface FleetStudy {
 export const FLEET_STUDIES: readonly FleetStudy[] = Object.freeze([
   {
     id: 'eastham-2022',
-    citation: "Eastham et al. 2022, Environ. Sci.: Atmos. 2, 388 (response to all of the fleet's emissions: NOx, water, sulfur, soot; not NOx alone)",
+    citation:
+      "Eastham et al. 2022, Environ. Sci.: Atmos. 2, 388 (response to all of the fleet's emissions: NOx, water, sulfur, soot; not NOx alone)",
     altitudeKm: [15, 17] as const,
     noxTgPerYear: 0.17,
     columnChangePct: -0.046,
@@ -468,7 +482,8 @@ export function fleetOzoneColumnContext(
   return FLEET_STUDIES.map((s) => {
     let inBand = 0;
     for (const e of annualNox) {
-      if (e.geometricAltitudeKm >= s.altitudeKm[0] && e.geometricAltitudeKm <= s.altitudeKm[1]) inBand += e.noxKgPerYear;
+      if (e.geometricAltitudeKm >= s.altitudeKm[0] && e.geometricAltitudeKm <= s.altitudeKm[1])
+        inBand += e.noxKgPerYear;
     }
     const applicable = inBand > 0;
     const perKg = s.columnChangePct / (s.noxTgPerYear * 1e9);

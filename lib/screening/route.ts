@@ -125,7 +125,8 @@ export function planRoute(lat: Float64Array, lon: Float64Array, basePath = 'rout
       throw new ScreeningInputError([
         {
           path: `${basePath}.${i + 1}`,
-          message: 'This waypoint is on the opposite side of the Earth from the one before: add a waypoint between them.',
+          message:
+            'This waypoint is on the opposite side of the Earth from the one before: add a waypoint between them.',
         },
       ]);
     }

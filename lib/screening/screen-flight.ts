@@ -11,7 +11,15 @@ import {
   isaTemperatureAt,
   METRES_PER_FLIGHT_LEVEL,
 } from './atmosphere';
-import { AFGL_COLUMN_SOURCE, BTH_SOURCE, COLUMNS, bthHeightKm, bthRowForDay, columnAtPressure, columnPressurePa } from './climatology';
+import {
+  AFGL_COLUMN_SOURCE,
+  BTH_SOURCE,
+  COLUMNS,
+  bthHeightKm,
+  bthRowForDay,
+  columnAtPressure,
+  columnPressurePa,
+} from './climatology';
 import {
   BFFM2_INSTALLATION_FACTORS,
   bffm2EiNox,
@@ -294,7 +302,8 @@ function levelCoefficients(level: LevelContext, slot: number, inputs: OzoneInput
   if (level.cacheable) c = DEFAULT_COEF_CACHE[key];
   if (c === undefined) {
     c = new Float64Array(COEFFICIENT_COUNT);
-    const custom = typeof inputs.ozoneProfile === 'object' && inputs.ozoneProfile !== null ? inputs.ozoneProfile : undefined;
+    const custom =
+      typeof inputs.ozoneProfile === 'object' && inputs.ozoneProfile !== null ? inputs.ozoneProfile : undefined;
     const st = chemistryState(level, slot);
     ozoneLossCoefficients(st.t, st.m, ozonePpmv(slot, st.zKm, custom), inputs, c);
     if (level.cacheable) DEFAULT_COEF_CACHE[key] = c;
@@ -305,8 +314,9 @@ function levelCoefficients(level: LevelContext, slot: number, inputs: OzoneInput
 
 const TROPOPAUSE_SOURCE_TEXT: Record<TropopauseSource, string> = {
   climatology: `Climatological tropopause by latitude and season: ${BTH_SOURCE}. Its geometric height is placed in pressure through the climatological column of the segment's band and season (${AFGL_COLUMN_SOURCE}) and compared with the flight level's ISA pressure.`,
-  'override-altitude': 'Tropopause altitude given with the flight, taken as an ISA pressure altitude and compared in pressure.',
-  'override-pressure': 'Tropopause pressure given with the flight, compared with the flight level\'s ISA pressure.',
+  'override-altitude':
+    'Tropopause altitude given with the flight, taken as an ISA pressure altitude and compared in pressure.',
+  'override-pressure': "Tropopause pressure given with the flight, compared with the flight level's ISA pressure.",
   sounding: 'WMO (1957) lapse-rate tropopause of the sounding given with the flight, compared in pressure.',
 };
 
@@ -319,15 +329,16 @@ const BASE_CAUTIONS: readonly string[] = Object.freeze([
 const OZONE_NOTE =
   'Gross catalytic odd-oxygen destruction by the NOx emitted above the tropopause, not a net column change; below about 13-20 km the NOx also produces ozone. Low and high take every input at its low (high) end together: a screening range, not a confidence interval.';
 
-const SOURCE_DEFAULT = 'default: screening value of the right order of magnitude, given from memory; override it with a published value where one is adopted';
+const SOURCE_DEFAULT =
+  'default: screening value of the right order of magnitude, given from memory; override it with a published value where one is adopted';
 const SOURCE_J =
   'default: overhead-sun reference, given from memory, scaled by the daytime-mean cos of the solar zenith angle (a screening approximation: J falls more slowly than cos zenith)';
 const SOURCE_INPUT = 'given with the flight';
 const SUN_SOURCE =
-  'Solar declination by Cooper (1969), daily-mean cos zenith and day length from the sunset hour angle, for each segment\'s latitude, averaged over the central residence window that starts on the flight date (the mid-month day with a month, the whole year without either)';
+  "Solar declination by Cooper (1969), daily-mean cos zenith and day length from the sunset hour angle, for each segment's latitude, averaged over the central residence window that starts on the flight date (the mid-month day with a month, the whole year without either)";
 
 const FORMULA =
-  'O3 destroyed = N_NOx x 2 k(NO2+O)(T,[M]) [O] x D x f_NO2 x f_NOx/NOy x tau(latitude, depth); [O] = [O3] s J(O3) / (k(O+O2+M) [O2] [M]); f_NO2 from [NO2]/[NO] = k(NO+O3)[O3] / (s J(NO2) + k(NO2+O)[O]); s the daytime-mean cos zenith and D the sunlit fraction over the residence window; T, [M] and [O3] at the flight level\'s height in the climatological column.';
+  "O3 destroyed = N_NOx x 2 k(NO2+O)(T,[M]) [O] x D x f_NO2 x f_NOx/NOy x tau(latitude, depth); [O] = [O3] s J(O3) / (k(O+O2+M) [O2] [M]); f_NO2 from [NO2]/[NO] = k(NO+O3)[O3] / (s J(NO2) + k(NO2+O)[O]); s the daytime-mean cos zenith and D the sunlit fraction over the residence window; T, [M] and [O3] at the flight level's height in the climatological column.";
 const BAND_TEXT =
   'Low and high: every input at its low (high) end together (J(O3), f_NOx/NOy and residence time low with J(NO2) high, and the reverse): a deliberately wide screening range, not a confidence interval.';
 const TAU_TEXT =
@@ -370,7 +381,12 @@ function describeAssumptions(
     jNo2NoonPerS: describeBand(a?.jNo2NoonPerS, inputs.jNo2NoonPerS, SOURCE_J),
     daylightFactor:
       dl === null
-        ? { central: d, low: d, high: d, source: `derived: sunlit fraction of the day from solar geometry (${SUN_SOURCE})` }
+        ? {
+            central: d,
+            low: d,
+            high: d,
+            source: `derived: sunlit fraction of the day from solar geometry (${SUN_SOURCE})`,
+          }
         : describeBand(a?.daylightFactor, dl),
     sunlight: {
       dayFraction: d,
@@ -389,10 +405,16 @@ function describeAssumptions(
       interpolation: TAU_TEXT,
       source: a?.residenceTime === undefined ? RESIDENCE_SOURCE : SOURCE_INPUT,
     },
-    ohCm3: { value: inputs.ohCm3, source: a?.ohCm3 === undefined ? `${SOURCE_DEFAULT}; daytime, for the chain length` : SOURCE_INPUT },
+    ohCm3: {
+      value: inputs.ohCm3,
+      source: a?.ohCm3 === undefined ? `${SOURCE_DEFAULT}; daytime, for the chain length` : SOURCE_INPUT,
+    },
     ho2Cm3: {
       value: inputs.ho2Cm3,
-      source: a?.ho2Cm3 === undefined ? 'default: 5 x [OH], lower-stratosphere daytime ratio from memory; local budget only' : SOURCE_INPUT,
+      source:
+        a?.ho2Cm3 === undefined
+          ? 'default: 5 x [OH], lower-stratosphere daytime ratio from memory; local budget only'
+          : SOURCE_INPUT,
     },
     rateConstants:
       'JPL Publication 19-5 (Burkholder et al. 2019): Arrhenius and termolecular parameters (k0, kinf at 300 K), NO2 + O in the chemical-activation form with [M]',
@@ -438,7 +460,8 @@ export function screenValidated(input: ScreeningInput, library?: RouteLibrary): 
   const result = screenCore(input, true, library);
   if (input.uncertainty !== undefined) {
     // The sampler screens again from waypoints: give it the route as read, not the flight-plan text.
-    const sampled = input.route !== undefined && 'waypoints' in input.route ? input : expandRouteInput(input, library).input;
+    const sampled =
+      input.route !== undefined && 'waypoints' in input.route ? input : expandRouteInput(input, library).input;
     result.uncertainty = sampleUncertainty(sampled, result);
   }
   return result;
@@ -457,7 +480,8 @@ interface Season {
 
 function resolveSeason(input: ScreeningInput): Season {
   if (input.month !== undefined) return { month: input.month, doy: MID_MONTH_DAY_OF_YEAR[input.month - 1] };
-  if (input.flightDate !== undefined) return { month: Number(input.flightDate.slice(5, 7)), doy: dayOfYear(input.flightDate) };
+  if (input.flightDate !== undefined)
+    return { month: Number(input.flightDate.slice(5, 7)), doy: dayOfYear(input.flightDate) };
   return { month: null, doy: null };
 }
 
@@ -472,7 +496,14 @@ interface TropopauseSetup {
 }
 
 function resolveTropopause(input: ScreeningInput, cautions: string[]): TropopauseSetup {
-  const tp: TropopauseSetup = { source: 'climatology', constM: Number.NaN, constPa: Number.NaN, constHpa: null, soundingTp: null, sounding: null };
+  const tp: TropopauseSetup = {
+    source: 'climatology',
+    constM: Number.NaN,
+    constPa: Number.NaN,
+    constHpa: null,
+    soundingTp: null,
+    sounding: null,
+  };
   const tpo = input.tropopause;
   if (tpo === undefined) return tp;
   if ('altitudeM' in tpo) {
@@ -589,7 +620,9 @@ function spreadFuel(
   const fuelPerKm: number[] = new Array<number>(n);
   for (let s = 0; s < n; s++) {
     const end = s + 1 < n ? cp.stepFrom[s + 1] : totalKm;
-    fuelPerKm[s] = timedTrack ? (fuelKgPerS * stepDurationsS[s]) / (end - cp.stepFrom[s]) : (fuelKgPerS * 1000) / cp.levels[cp.stepLevel[s]].tasMs;
+    fuelPerKm[s] = timedTrack
+      ? (fuelKgPerS * stepDurationsS[s]) / (end - cp.stepFrom[s])
+      : (fuelKgPerS * 1000) / cp.levels[cp.stepLevel[s]].tasMs;
   }
   return { totalTimeS, fuelKgPerS, fuelPerKm, timedTrack };
 }
@@ -644,7 +677,12 @@ function applyEmissionIndex(
       l.temperatureSource === 'isa' && rh === DEFAULT_OZONE_INPUTS.relativeHumidity
         ? l.isa.humidityDefault
         : humidityTerm(rh, l.isa.pressurePa, l.temperatureK);
-    const c = { fuelFlowPerEngineKgS: perEngine, pressurePa: l.isa.pressurePa, temperatureK: l.temperatureK, mach: machEi };
+    const c = {
+      fuelFlowPerEngineKgS: perEngine,
+      pressurePa: l.isa.pressurePa,
+      temperatureK: l.temperatureK,
+      mach: machEi,
+    };
     const b = bffm2EiNox(curveB, c, h);
     const d = dlrEiNox(curveD, c, h);
     l.eiBffm2 = Math.min(cap, b.eiNoxGPerKg);
@@ -658,7 +696,9 @@ function applyEmissionIndex(
       );
     }
     if (chosen.eiNoxGPerKg > cap) {
-      cautions.push(`At FL${l.fl} the corrected EI NOx exceeded ${cap} g/kg, the most an EI may be; it is held at ${cap} g/kg.`);
+      cautions.push(
+        `At FL${l.fl} the corrected EI NOx exceeded ${cap} g/kg, the most an EI may be; it is held at ${cap} g/kg.`,
+      );
     }
   }
   return eiMethod;
@@ -693,7 +733,15 @@ interface WalkContext {
 const SUN_SCRATCH: WindowSunlight = { dayFraction: 0, meanCosZenith: 0, daytimeCosZenith: 0 };
 
 /** Ozone loss and sunlight of one segment above the tropopause, added to the totals; returns kg O3 (central). */
-function segmentOzone(ctx: WalkContext, t: Totals, level: LevelContext, slot: number, lat: number, depth: number, nox: number): number {
+function segmentOzone(
+  ctx: WalkContext,
+  t: Totals,
+  level: LevelContext,
+  slot: number,
+  lat: number,
+  depth: number,
+  nox: number,
+): number {
   const inputs = ctx.inputs;
   const c = levelCoefficients(level, slot, inputs);
   const tau = residenceTimeYears(depth, inputs.residenceTime, lat);
@@ -717,7 +765,14 @@ function segmentOzone(ctx: WalkContext, t: Totals, level: LevelContext, slot: nu
 /** Walks the route in segments of at most MAX_SEGMENT_KM, split at step starts. */
 function walkSegments(ctx: WalkContext, segments: ScreeningSegment[]): Totals {
   const t: Totals = {
-    noxTotal: 0, noxAbove: 0, depthNox: 0, chainNox: 0, o3Central: 0, o3Low: 0, o3High: 0, slotsUsed: 0,
+    noxTotal: 0,
+    noxAbove: 0,
+    depthNox: 0,
+    chainNox: 0,
+    o3Central: 0,
+    o3Low: 0,
+    o3High: 0,
+    slotsUsed: 0,
     sun: { nox: 0, dayFraction: 0, meanCos: 0, daytimeCos: 0, tauYears: 0 },
   };
   const { plan, cp, tp, fixedSlot } = ctx;
@@ -806,7 +861,11 @@ function walkSegments(ctx: WalkContext, segments: ScreeningSegment[]): Totals {
 
 function screenCore(input: ScreeningInput, full: true, library?: RouteLibrary): ScreeningResult;
 function screenCore(input: ScreeningInput, full: false, library?: RouteLibrary): ScreeningTotals;
-function screenCore(rawInput: ScreeningInput, full: boolean, library?: RouteLibrary): ScreeningResult | ScreeningTotals {
+function screenCore(
+  rawInput: ScreeningInput,
+  full: boolean,
+  library?: RouteLibrary,
+): ScreeningResult | ScreeningTotals {
   const cautions: string[] = BASE_CAUTIONS.slice();
   // A flight-plan route or a track is read into waypoints (and its levels into the cruise) first.
   const { input, flightPlan, track, stepDurationsS } = expandRouteInput(rawInput, library);
@@ -838,7 +897,19 @@ function screenCore(rawInput: ScreeningInput, full: boolean, library?: RouteLibr
   const t = walkSegments(ctx, segments);
   const totals = summariseTotals(input, plan.totalKm, t);
   if (!full) return totals;
-  const result = describeResult({ input, totals, t, ctx, segments, cautions, wLat, machTiming, machEi, eiMethod, fuel });
+  const result = describeResult({
+    input,
+    totals,
+    t,
+    ctx,
+    segments,
+    cautions,
+    wLat,
+    machTiming,
+    machEi,
+    eiMethod,
+    fuel,
+  });
   if (flightPlan !== null) result.flightPlan = flightPlan;
   if (track !== null) {
     result.track = track;
@@ -853,7 +924,9 @@ function screenCore(rawInput: ScreeningInput, full: boolean, library?: RouteLibr
 function flightPlanCautions(fp: FlightPlanUsed): string[] {
   const out: string[] = [];
   if (fp.unresolved.length > 0) {
-    const list = fp.unresolved.map((u) => `${u.item || '(empty)'}${u.position !== null ? ` at character ${u.position + 1}` : ''}: ${u.reason}`);
+    const list = fp.unresolved.map(
+      (u) => `${u.item || '(empty)'}${u.position !== null ? ` at character ${u.position + 1}` : ''}: ${u.reason}`,
+    );
     out.push(
       `${fp.unresolved.length} item${fp.unresolved.length === 1 ? '' : 's'} of the flight plan could not be placed and ${fp.unresolved.length === 1 ? 'is' : 'are'} left out of the route: ${list.join(' ')}`,
     );
@@ -890,7 +963,11 @@ function summariseTotals(input: ScreeningInput, totalKm: number, t: Totals): Scr
 export const O3_PER_NOX_CAUTION = 1000;
 
 /** The level and ozone slot of the local budget: most NOx above the tropopause, else the highest level. */
-function budgetLevel(ctx: WalkContext, noxAbove: number, firstLat: number): { level: LevelContext; slot: number; lat: number } {
+function budgetLevel(
+  ctx: WalkContext,
+  noxAbove: number,
+  firstLat: number,
+): { level: LevelContext; slot: number; lat: number } {
   const levels = ctx.cp.levels;
   let bLevel = levels[0];
   let bSlot = -1;
@@ -914,7 +991,12 @@ function budgetLevel(ctx: WalkContext, noxAbove: number, firstLat: number): { le
       }
     }
   }
-  if (bSlot < 0) return { level: bLevel, slot: ctx.fixedSlot >= 0 ? ctx.fixedSlot : profileSlotFor(firstLat, ctx.season.month), lat: firstLat };
+  if (bSlot < 0)
+    return {
+      level: bLevel,
+      slot: ctx.fixedSlot >= 0 ? ctx.fixedSlot : profileSlotFor(firstLat, ctx.season.month),
+      lat: firstLat,
+    };
   const bNox = bLevel.noxBySlot[bSlot];
   return { level: bLevel, slot: bSlot, lat: bNox > 0 ? bLevel.latNoxBySlot[bSlot] / bNox : firstLat };
 }
@@ -973,8 +1055,10 @@ function describeResult(args: {
   const direct = eiMethod === 'direct';
   const b = budgetLevel(ctx, t.noxAbove, args.wLat[0]);
   const st = chemistryState(b.level, b.slot);
-  const budgetSun = t.sun.nox > 0 ? t.sun.daytimeCos / t.sun.nox : windowSunlight(b.lat, ctx.season.doy, 0.25).daytimeCosZenith;
-  const customProfile = typeof inputs.ozoneProfile === 'object' && inputs.ozoneProfile !== null ? inputs.ozoneProfile : undefined;
+  const budgetSun =
+    t.sun.nox > 0 ? t.sun.daytimeCos / t.sun.nox : windowSunlight(b.lat, ctx.season.doy, 0.25).daytimeCosZenith;
+  const customProfile =
+    typeof inputs.ozoneProfile === 'object' && inputs.ozoneProfile !== null ? inputs.ozoneProfile : undefined;
   const localBudget = oddOxygenBudget({
     altitudeM: b.level.isa.altitudeM,
     latitudeDeg: b.lat,
@@ -1015,7 +1099,9 @@ function describeResult(args: {
     };
   });
   if (t.noxAbove === 0) {
-    cautions.push('No NOx is emitted above the tropopause on this flight, so the ozone-loss figure is zero by construction.');
+    cautions.push(
+      'No NOx is emitted above the tropopause on this flight, so the ozone-loss figure is zero by construction.',
+    );
   }
   if (totals.ozoneLoss.o3PerNox > O3_PER_NOX_CAUTION) {
     cautions.push(
@@ -1063,7 +1149,8 @@ function describeResult(args: {
       assumptions: describeAssumptions(input.assumptions, inputs, t.slotsUsed, t.sun),
       localBudget,
       fleetContext: {
-        basis: 'This flight repeated daily for a year (NOx above the tropopause x 365), scaled on published fleet-scale model results.',
+        basis:
+          'This flight repeated daily for a year (NOx above the tropopause x 365), scaled on published fleet-scale model results.',
         studies: fleetStudies,
       },
       note: OZONE_NOTE,

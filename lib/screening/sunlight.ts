@@ -79,7 +79,12 @@ export interface WindowSunlight {
  * Sunlight at `latDeg` averaged over `years` (> 0) starting on day of year `startDay` (1-366), or the
  * annual mean when `startDay` is null. Linear between whole degrees of latitude.
  */
-export function windowSunlight(latDeg: number, startDay: number | null, years: number, out?: WindowSunlight): WindowSunlight {
+export function windowSunlight(
+  latDeg: number,
+  startDay: number | null,
+  years: number,
+  out?: WindowSunlight,
+): WindowSunlight {
   const [tc, tf] = tables();
   const x = Math.min(90, Math.max(-90, latDeg)) + 90;
   const r0 = Math.min(LAT_ROWS - 2, Math.floor(x));

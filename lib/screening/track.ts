@@ -24,7 +24,11 @@ export interface ExpandedTrack {
   stepDurationsS: number[] | null;
 }
 
-type TrackInput = ScreeningInput & { route: { track: { points: { time?: string; lat: number; lon: number; flightLevel?: number; pressureAltitudeFt?: number }[] } } };
+type TrackInput = ScreeningInput & {
+  route: {
+    track: { points: { time?: string; lat: number; lon: number; flightLevel?: number; pressureAltitudeFt?: number }[] };
+  };
+};
 
 function cruiseLevelAt(cruise: ScreeningInput['cruise'], km: number): number {
   if ('flightLevel' in cruise) return cruise.flightLevel;
@@ -47,7 +51,8 @@ export function expandTrackInput(input: TrackInput): ExpandedTrack {
   const fl = new Float64Array(n);
   let withoutLevel = 0;
   const cumKm = new Float64Array(n);
-  for (let i = 1; i < n; i++) cumKm[i] = cumKm[i - 1] + legDistanceKm(pts[i - 1].lat, pts[i - 1].lon, pts[i].lat, pts[i].lon);
+  for (let i = 1; i < n; i++)
+    cumKm[i] = cumKm[i - 1] + legDistanceKm(pts[i - 1].lat, pts[i - 1].lon, pts[i].lat, pts[i].lon);
   for (let i = 0; i < n; i++) {
     const p = pts[i];
     if (p.flightLevel !== undefined) fl[i] = p.flightLevel;
@@ -84,7 +89,9 @@ export function expandTrackInput(input: TrackInput): ExpandedTrack {
     durations[durations.length - 1] += dur;
   }
   if (steps.length === 0) {
-    const problems: FieldProblem[] = [{ path: 'route.track.points', message: 'The track has no length: its points are all at the same place.' }];
+    const problems: FieldProblem[] = [
+      { path: 'route.track.points', message: 'The track has no length: its points are all at the same place.' },
+    ];
     throw new ScreeningInputError(problems);
   }
   const levels = [...new Set(steps.map((s) => s.flightLevel))].sort((a, b) => a - b);
@@ -119,8 +126,14 @@ export function withTrackCruise(raw: unknown): unknown {
   for (const p of points) {
     if (typeof p !== 'object' || p === null) continue;
     const q = p as Record<string, unknown>;
-    const level = typeof q.flightLevel === 'number' ? q.flightLevel : typeof q.pressureAltitudeFt === 'number' ? q.pressureAltitudeFt / 100 : null;
-    if (level !== null && Number.isFinite(level) && level >= 0 && level <= 660) return { ...r, cruise: { flightLevel: Math.round(level) } };
+    const level =
+      typeof q.flightLevel === 'number'
+        ? q.flightLevel
+        : typeof q.pressureAltitudeFt === 'number'
+          ? q.pressureAltitudeFt / 100
+          : null;
+    if (level !== null && Number.isFinite(level) && level >= 0 && level <= 660)
+      return { ...r, cruise: { flightLevel: Math.round(level) } };
   }
   return raw;
 }

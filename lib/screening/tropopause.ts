@@ -3,7 +3,14 @@
  * in pressure through the AFGL 1986 column) and the WMO (1957) lapse-rate tropopause of a sounding.
  */
 import { G0, R_AIR, isaPressureAltitudeAt, isaPressureAt } from './atmosphere';
-import { COLUMNS, bthGeopotentialM, bthHeightKm, bthRowForDay, placeInColumn, type ClimatologicalTropopause } from './climatology';
+import {
+  COLUMNS,
+  bthGeopotentialM,
+  bthHeightKm,
+  bthRowForDay,
+  placeInColumn,
+  type ClimatologicalTropopause,
+} from './climatology';
 import { profileSlotFor } from './ozone-loss';
 import { ScreeningInputError } from './errors';
 import {
@@ -207,7 +214,9 @@ function interpolateAt(profile: SoundingProfile, zTarget: number): { t: number; 
   while (k < zs.length - 2 && zTarget > zs[k + 1]) k++;
   const f = (zTarget - zs[k]) / (zs[k + 1] - zs[k]);
   const t = profile.temperatureK[k] + f * (profile.temperatureK[k + 1] - profile.temperatureK[k]);
-  const p = Math.exp(Math.log(profile.pressurePa[k]) + f * (Math.log(profile.pressurePa[k + 1]) - Math.log(profile.pressurePa[k])));
+  const p = Math.exp(
+    Math.log(profile.pressurePa[k]) + f * (Math.log(profile.pressurePa[k + 1]) - Math.log(profile.pressurePa[k])),
+  );
   return { t, p };
 }
 

@@ -108,7 +108,12 @@ const LABELS: Record<UncertainInput, string> = {
  * 14, 4303). A sounding or a given value: from memory, a WMO tropopause from a nearby sounding is
  * within a few hundred metres, a forecast or given value about half a kilometre.
  */
-export const TROPOPAUSE_SIGMA_M = Object.freeze({ climatologyMonth: 700, climatologyAnnual: 900, sounding: 300, given: 500 });
+export const TROPOPAUSE_SIGMA_M = Object.freeze({
+  climatologyMonth: 700,
+  climatologyAnnual: 900,
+  sounding: 300,
+  given: 500,
+});
 
 /**
  * Scatter of a cruise EI NOx about its estimate, 1 sigma of ln EI. Fuel-flow methods: from memory,
@@ -166,16 +171,26 @@ export interface Kernel {
   sigmaShiftM: number;
 }
 
-function chemistryState(level: ScreeningLevel, slot: number, inputs: OzoneInputs): { t: number; m: number; o3: number } {
+function chemistryState(
+  level: ScreeningLevel,
+  slot: number,
+  inputs: OzoneInputs,
+): { t: number; m: number; o3: number } {
   const p = level.pressureHpa * 100;
-  const custom = typeof inputs.ozoneProfile === 'object' && inputs.ozoneProfile !== null ? inputs.ozoneProfile : undefined;
+  const custom =
+    typeof inputs.ozoneProfile === 'object' && inputs.ozoneProfile !== null ? inputs.ozoneProfile : undefined;
   if (slot === CUSTOM_PROFILE_SLOT) {
     const t = level.temperatureK;
-    return { t, m: airNumberDensityCm3(p, t), o3: ozonePpmv(slot, geometricFromGeopotentialM(level.altitudeM) / 1000, custom) };
+    return {
+      t,
+      m: airNumberDensityCm3(p, t),
+      o3: ozonePpmv(slot, geometricFromGeopotentialM(level.altitudeM) / 1000, custom),
+    };
   }
   const c = columnAtPressure(COLUMNS[slot], p);
   const o3 = ozonePpmv(slot, c.heightKm, custom);
-  if (level.temperatureSource === 'sounding') return { t: level.temperatureK, m: airNumberDensityCm3(p, level.temperatureK), o3 };
+  if (level.temperatureSource === 'sounding')
+    return { t: level.temperatureK, m: airNumberDensityCm3(p, level.temperatureK), o3 };
   return { t: c.temperatureK, m: c.airDensityCm3, o3 };
 }
 
@@ -255,7 +270,10 @@ export function buildKernel(input: ScreeningInput, result: ScreeningResult): Ker
       // The derivative only: taken in the segment's band-and-season column whatever the ozone profile.
       const col = COLUMNS[bandSlot];
       const h = columnAtPressure(col, s.tropopausePressureHpa * 100).heightKm;
-      k.slope[i] = (isaPressureAltitudeAt(columnPressurePa(col, h + 0.1)) - isaPressureAltitudeAt(columnPressurePa(col, h - 0.1))) / 200;
+      k.slope[i] =
+        (isaPressureAltitudeAt(columnPressurePa(col, h + 0.1)) -
+          isaPressureAltitudeAt(columnPressurePa(col, h - 0.1))) /
+        200;
     } else {
       k.slope[i] = 1;
     }
@@ -325,7 +343,14 @@ function clear(f: Figures): void {
  * tropopause shift with every other input central (sharing the shifted residence and sunlight);
  * with `sun`, only the J values and a given daylight factor of `d`, at the central tropopause.
  */
-export function evaluate(k: Kernel, d: Draw, ratios: Float64Array, full: Figures, tp: Figures | null = null, sun: Figures | null = null): void {
+export function evaluate(
+  k: Kernel,
+  d: Draw,
+  ratios: Float64Array,
+  full: Figures,
+  tp: Figures | null = null,
+  sun: Figures | null = null,
+): void {
   levelRatios(k, d, ratios);
   const shifted = d.shiftM !== 0;
   const rt = k.inputs.residenceTime;
@@ -469,7 +494,15 @@ function centralByLevel(k: Kernel): { above: Float64Array; total: Float64Array; 
     out.total[l] += k.nox[i];
     if (k.tau0[i] > 0) {
       out.above[l] += k.nox[i];
-      out.o3[l] += lossMolecules(k, i, k.nox[i], k.tau0[i], k.cos0[i], Number.isNaN(c.daylight) ? k.day0[i] : c.daylight, c);
+      out.o3[l] += lossMolecules(
+        k,
+        i,
+        k.nox[i],
+        k.tau0[i],
+        k.cos0[i],
+        Number.isNaN(c.daylight) ? k.day0[i] : c.daylight,
+        c,
+      );
     }
   }
   return out;
@@ -481,7 +514,13 @@ function centralByLevel(k: Kernel): { above: Float64Array; total: Float64Array; 
  * linear rescalings of the central figures (NOx per level scales with its EI; the loss is
  * proportional to the residence factor and to the NOx/NOy share).
  */
-function run(k: Kernel, samples: number, seed: number, on: ReadonlySet<UncertainInput>, drivers: boolean): { all: Runs; oat: Map<UncertainInput, Runs> } {
+function run(
+  k: Kernel,
+  samples: number,
+  seed: number,
+  on: ReadonlySet<UncertainInput>,
+  drivers: boolean,
+): { all: Runs; oat: Map<UncertainInput, Runs> } {
   const streams = UNCERTAIN_INPUTS.map((_, g) => mulberry32(subSeed(seed, g)));
   const ratios = new Float64Array(k.eiUsed.length);
   const eiRatios = new Float64Array(k.eiUsed.length);
@@ -567,7 +606,8 @@ function distributions(k: Kernel, result: ScreeningResult, on: ReadonlySet<Uncer
       input: 'sunlight',
       label: LABELS.sunlight,
       distribution: `J(O3) and J(NO2) each triangular between the band's low and high with the central value as the mode, drawn independently${inp.daylightFactor === null ? '; the daylight factor comes from solar geometry and is not sampled' : '; the given daylight factor likewise'}`,
-      source: "The screening band's own J values (from memory; overhead-sun references scaled by the daytime-mean cos zenith).",
+      source:
+        "The screening band's own J values (from memory; overhead-sun references scaled by the daytime-mean cos zenith).",
     },
     {
       input: 'nox-noy',
@@ -594,7 +634,11 @@ function rank(shares: Map<UncertainInput, number>): Driver[] {
  * NOx above the tropopause (kg), the share of NOx above and the ozone figure (kg O3), which ozone
  * percentiles fall outside the all-corners range, the distributions used and the drivers.
  */
-export function sampleUncertainty(input: ScreeningInput, result: ScreeningResult, options: SampleOptions = {}): ScreeningUncertainty {
+export function sampleUncertainty(
+  input: ScreeningInput,
+  result: ScreeningResult,
+  options: SampleOptions = {},
+): ScreeningUncertainty {
   const samples = options.samples ?? input.uncertainty?.samples ?? DEFAULT_UNCERTAINTY_SAMPLES;
   const seed = options.seed ?? input.uncertainty?.seed ?? DEFAULT_UNCERTAINTY_SEED;
   const on = new Set<UncertainInput>(options.only ?? UNCERTAIN_INPUTS);
@@ -639,7 +683,10 @@ export function sampleUncertainty(input: ScreeningInput, result: ScreeningResult
  * The figures with every sampled input at its central value, evaluated by the sampling's own formula:
  * equal to the screening's figures (a guard that the sampling rebuilds the engine's loss exactly).
  */
-export function centralFigures(input: ScreeningInput, result: ScreeningResult): { noxAboveTropopauseKg: number; ozoneLossKg: number } {
+export function centralFigures(
+  input: ScreeningInput,
+  result: ScreeningResult,
+): { noxAboveTropopauseKg: number; ozoneLossKg: number } {
   const k = buildKernel(input, result);
   const fig: Figures = { noxAbove: 0, noxTotal: 0, o3Molecules: 0 };
   evaluate(k, k.central, new Float64Array(k.eiUsed.length), fig);
@@ -654,6 +701,12 @@ export function sampleFigures(
 ): { noxAboveTropopauseKg: Float64Array; fractionAboveTropopause: Float64Array; ozoneLossKg: Float64Array } {
   const samples = options.samples ?? input.uncertainty?.samples ?? DEFAULT_UNCERTAINTY_SAMPLES;
   const seed = options.seed ?? input.uncertainty?.seed ?? DEFAULT_UNCERTAINTY_SEED;
-  const { all } = run(buildKernel(input, result), samples, seed, new Set<UncertainInput>(options.only ?? UNCERTAIN_INPUTS), false);
+  const { all } = run(
+    buildKernel(input, result),
+    samples,
+    seed,
+    new Set<UncertainInput>(options.only ?? UNCERTAIN_INPUTS),
+    false,
+  );
   return { noxAboveTropopauseKg: all.noxAbove, fractionAboveTropopause: all.fraction, ozoneLossKg: all.o3 };
 }

@@ -15,9 +15,7 @@ function joinPath(path: readonly PropertyKey[]): string {
 }
 
 function isRootMismatch(branch: readonly Issue[]): boolean {
-  return branch.some(
-    (i) => i.path.length === 0 && (i.code === 'unrecognized_keys' || i.code === 'invalid_type'),
-  );
+  return branch.some((i) => i.path.length === 0 && (i.code === 'unrecognized_keys' || i.code === 'invalid_type'));
 }
 
 function collect(issues: readonly Issue[], prefix: readonly PropertyKey[], out: FieldProblem[]): void {
@@ -39,7 +37,10 @@ function collect(issues: readonly Issue[], prefix: readonly PropertyKey[], out: 
     }
     if (issue.code === 'unrecognized_keys') {
       const keys = issue.keys.map((k) => `"${k}"`).join(', ');
-      out.push({ path: joinPath(path), message: `Unknown field${issue.keys.length > 1 ? 's' : ''} ${keys}: remove or rename it.` });
+      out.push({
+        path: joinPath(path),
+        message: `Unknown field${issue.keys.length > 1 ? 's' : ''} ${keys}: remove or rename it.`,
+      });
       continue;
     }
     out.push({ path: joinPath(path), message: issue.message });

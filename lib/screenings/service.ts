@@ -57,7 +57,10 @@ function placeStepsAtWaypoints(raw: Record<string, unknown>, problems: FieldProb
   const cruise = raw.cruise;
   if (typeof cruise !== 'object' || cruise === null || !('steps' in cruise) || !Array.isArray(cruise.steps)) return;
   const route = raw.route;
-  const waypoints = typeof route === 'object' && route !== null && 'waypoints' in route && Array.isArray(route.waypoints) ? (route.waypoints as Waypoint[]) : null;
+  const waypoints =
+    typeof route === 'object' && route !== null && 'waypoints' in route && Array.isArray(route.waypoints)
+      ? (route.waypoints as Waypoint[])
+      : null;
   const steps: unknown[] = cruise.steps;
   raw.cruise = {
     ...cruise,
@@ -69,8 +72,16 @@ function placeStepsAtWaypoints(raw: Record<string, unknown>, problems: FieldProb
         problems.push({ path, message: 'A step at a waypoint needs a route given as waypoints.' });
         return rest;
       }
-      if (typeof atWaypoint !== 'number' || !Number.isInteger(atWaypoint) || atWaypoint < 1 || atWaypoint > waypoints.length - 1) {
-        problems.push({ path, message: `atWaypoint must be a waypoint number from 1 to ${waypoints.length - 1} (0 is the departure).` });
+      if (
+        typeof atWaypoint !== 'number' ||
+        !Number.isInteger(atWaypoint) ||
+        atWaypoint < 1 ||
+        atWaypoint > waypoints.length - 1
+      ) {
+        problems.push({
+          path,
+          message: `atWaypoint must be a waypoint number from 1 to ${waypoints.length - 1} (0 is the departure).`,
+        });
         return rest;
       }
       try {
@@ -89,20 +100,30 @@ function placeStepsAtWaypoints(raw: Record<string, unknown>, problems: FieldProb
  * emission, and validates everything: problems from both parts come back together, by path.
  */
 export async function parseScreeningBody(raw: unknown, scope: { workspaceId: number }): Promise<ParsedScreeningBody> {
-  if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) throw badRequest('The body must be a JSON object.');
+  if (typeof raw !== 'object' || raw === null || Array.isArray(raw))
+    throw badRequest('The body must be a JSON object.');
   const { name, aircraft, whatIf, months, ...engineRaw } = raw as Record<string, unknown>;
   const problems: FieldProblem[] = [];
   const extras = extrasSchema.safeParse({ name, aircraft, whatIf, months });
-  if (!extras.success) for (const i of extras.error.issues) problems.push({ path: i.path.join('.'), message: i.message });
+  if (!extras.success)
+    for (const i of extras.error.issues) problems.push({ path: i.path.join('.'), message: i.message });
   let aircraftCode: string | null = null;
   if (extras.success && extras.data.aircraft) {
     const type = await getAircraftForScreening(scope, extras.data.aircraft);
-    if (!type) problems.push({ path: 'aircraft', message: `No aircraft type “${extras.data.aircraft}” in this workspace. Add it under Engines & aircraft.` });
+    if (!type)
+      problems.push({
+        path: 'aircraft',
+        message: `No aircraft type “${extras.data.aircraft}” in this workspace. Add it under Engines & aircraft.`,
+      });
     else {
       aircraftCode = type.code;
       if (engineRaw.emission === undefined) {
         if (type.emission) engineRaw.emission = type.emission;
-        else problems.push({ path: 'aircraft', message: `Aircraft type ${type.code} has neither an engine nor a direct EI NOx.` });
+        else
+          problems.push({
+            path: 'aircraft',
+            message: `Aircraft type ${type.code} has neither an engine nor a direct EI NOx.`,
+          });
       }
       if (engineRaw.mach === undefined) engineRaw.mach = type.typicalMach;
     }
@@ -134,9 +155,16 @@ export async function parseScreeningBody(raw: unknown, scope: { workspaceId: num
  * 422 on `fuelBurnKg`; an unusual one is the first caution of the result, so it is shown with the
  * preview and kept with a saved screening.
  */
-export function runScreening(input: ScreeningInput, library?: RouteLibrary, aircraftCode: string | null = null): ScreeningResult {
+export function runScreening(
+  input: ScreeningInput,
+  library?: RouteLibrary,
+  aircraftCode: string | null = null,
+): ScreeningResult {
   const result = screenValidated(input, library);
-  const engine = 'engine' in input.emission ? { fuelFlowKgS: input.emission.engine.fuelFlowKgS, engineCount: input.emission.engineCount } : null;
+  const engine =
+    'engine' in input.emission
+      ? { fuelFlowKgS: input.emission.engine.fuelFlowKgS, engineCount: input.emission.engineCount }
+      : null;
   const mach = input.mach ?? ('engine' in input.emission ? input.emission.mach : undefined);
   const p = checkFuelPlausibility({ distanceKm: result.distanceKm, fuelKg: result.fuelKg, engine, mach, aircraftCode });
   if (p.level === 'impossible') throw invalidFields([{ path: 'fuelBurnKg', message: p.message }]);
@@ -144,28 +172,42 @@ export function runScreening(input: ScreeningInput, library?: RouteLibrary, airc
   return result;
 }
 
-
 /**
  * The what-if levels of an input `parseScreeningBody` validated; `planned` is that input's own
  * screening when the caller already has it (it then is not screened again).
  */
-export function runWhatIf(input: ScreeningInput, whatIf: unknown, planned?: ScreeningResult, library?: RouteLibrary): CruiseLevelRow[] {
+export function runWhatIf(
+  input: ScreeningInput,
+  whatIf: unknown,
+  planned?: ScreeningResult,
+  library?: RouteLibrary,
+): CruiseLevelRow[] {
   const options = whatIf === undefined ? {} : whatIf;
   if (typeof options !== 'object' || options === null || Array.isArray(options)) {
-    throw invalidFields([{ path: 'whatIf', message: 'whatIf must be an object { deltasFt?, fuelPenaltyPctPer1000Ft?, maxFuelPenaltyPct?, minimise? }.' }]);
+    throw invalidFields([
+      {
+        path: 'whatIf',
+        message: 'whatIf must be an object { deltasFt?, fuelPenaltyPctPer1000Ft?, maxFuelPenaltyPct?, minimise? }.',
+      },
+    ]);
   }
   try {
     return compareValidated(input, validateCompareOptions(options), planned, library);
   } catch (err) {
     if (err instanceof ScreeningInputError) {
-      throw invalidFields(err.fields.map((f) => ({ path: f.path.replace(/^options\b/, 'whatIf'), message: f.message })));
+      throw invalidFields(
+        err.fields.map((f) => ({ path: f.path.replace(/^options\b/, 'whatIf'), message: f.message })),
+      );
     }
     throw err;
   }
 }
 
 /** The month sweep of an input `parseScreeningBody` validated, with whether an override or sounding fixes it. */
-export function runMonthSweep(input: ScreeningInput, library?: RouteLibrary): { rows: MonthRow[]; sameEveryMonth: boolean; note: string | null } {
+export function runMonthSweep(
+  input: ScreeningInput,
+  library?: RouteLibrary,
+): { rows: MonthRow[]; sameEveryMonth: boolean; note: string | null } {
   const rows = sweepMonthsValidated(input, library);
   const same = rows[0]?.sameEveryMonth ?? false;
   return { rows, sameEveryMonth: same, note: same ? SAME_EVERY_MONTH_NOTE : null };
@@ -183,14 +225,20 @@ export async function rescreenScreening(
 ): Promise<{ record: ScreeningRecord; replayed: boolean }> {
   const source = await getScreening(scope, id);
   if (source.engineVersion === ENGINE_VERSION) {
-    throw conflict(`Screening #${source.id} was made with the current engine version (${ENGINE_VERSION}); there is nothing to screen again.`);
+    throw conflict(
+      `Screening #${source.id} was made with the current engine version (${ENGINE_VERSION}); there is nothing to screen again.`,
+    );
   }
   let input: ScreeningInput;
   try {
     input = validateScreeningInput(source.input);
   } catch (err) {
     if (err instanceof ScreeningInputError) {
-      throw new AppError('invalid_fields', `The input saved with screening #${source.id} is not accepted by engine version ${ENGINE_VERSION}; screen the flight again from the form.`, { fields: err.fields });
+      throw new AppError(
+        'invalid_fields',
+        `The input saved with screening #${source.id} is not accepted by engine version ${ENGINE_VERSION}; screen the flight again from the form.`,
+        { fields: err.fields },
+      );
     }
     throw err;
   }
@@ -217,5 +265,7 @@ export async function rescreenScreening(
 
 function isUniqueViolation(err: unknown): boolean {
   const e = err as { code?: string; message?: string };
-  return e?.code === 'SQLITE_CONSTRAINT_UNIQUE' || e?.code === '23505' || /UNIQUE constraint failed/.test(e?.message ?? '');
+  return (
+    e?.code === 'SQLITE_CONSTRAINT_UNIQUE' || e?.code === '23505' || /UNIQUE constraint failed/.test(e?.message ?? '')
+  );
 }

@@ -55,7 +55,13 @@ export function hasSessionCookie(cookieNames: Iterable<string>): boolean {
 
 /** Responses that must never be stored by a browser or a shared cache. */
 export function mustNotStore(pathname: string, signedIn: boolean): boolean {
-  return signedIn || pathname === '/api/v1' || pathname.startsWith('/api/v1/') || pathname === '/w' || pathname.startsWith('/w/');
+  return (
+    signedIn ||
+    pathname === '/api/v1' ||
+    pathname.startsWith('/api/v1/') ||
+    pathname === '/w' ||
+    pathname.startsWith('/w/')
+  );
 }
 
 /** HSTS only for a production server reached over https: on plain http it would be ignored or, worse, pin a dev host. */

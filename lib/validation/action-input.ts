@@ -17,7 +17,8 @@ const actionIdSchema = z.union([
 /** The id argument of an action as a positive integer, or a 400 naming the field. */
 export function actionId(raw: unknown): number {
   const parsed = actionIdSchema.safeParse(raw);
-  if (!parsed.success) throw badRequest('That item id is not valid.', [{ path: 'id', message: 'Choose an item from the list.' }]);
+  if (!parsed.success)
+    throw badRequest('That item id is not valid.', [{ path: 'id', message: 'Choose an item from the list.' }]);
   return parsed.data;
 }
 

@@ -15,12 +15,20 @@ const newPassword = z
 
 export const signInSchema = z.object({
   email,
-  password: z.string({ error: 'Enter your password.' }).min(1, 'Enter your password.').max(200, 'That password is too long.'),
+  password: z
+    .string({ error: 'Enter your password.' })
+    .min(1, 'Enter your password.')
+    .max(200, 'That password is too long.'),
 });
 export type SignInInput = z.infer<typeof signInSchema>;
 
 export const signUpSchema = z.object({
-  name: z.string({ error: 'Enter your name.' }).trim().min(1, 'Enter your name.').max(120, 'Use at most 120 characters.').refine(hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE),
+  name: z
+    .string({ error: 'Enter your name.' })
+    .trim()
+    .min(1, 'Enter your name.')
+    .max(120, 'Use at most 120 characters.')
+    .refine(hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE),
   email,
   password: newPassword,
   workspaceName: z

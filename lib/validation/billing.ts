@@ -29,9 +29,14 @@ export type BillingEmailInput = z.infer<typeof billingEmailSchema>;
 export const subscriptionUpdateSchema = z
   .object({
     planId: z.enum(planIds, { error: 'Choose a plan.' }).optional(),
-    cancelAtPeriodEnd: z.boolean({ error: 'Use true to cancel at the end of the period, false to keep the subscription.' }).optional(),
+    cancelAtPeriodEnd: z
+      .boolean({ error: 'Use true to cancel at the end of the period, false to keep the subscription.' })
+      .optional(),
   })
-  .refine((v) => v.planId !== undefined || v.cancelAtPeriodEnd !== undefined, { message: 'Send planId, cancelAtPeriodEnd or both.', path: ['planId'] });
+  .refine((v) => v.planId !== undefined || v.cancelAtPeriodEnd !== undefined, {
+    message: 'Send planId, cancelAtPeriodEnd or both.',
+    path: ['planId'],
+  });
 export type SubscriptionUpdateInput = z.infer<typeof subscriptionUpdateSchema>;
 
 /** A monthly usage budget in whole cents of per-flight charges (null clears it), and its hard stop. */

@@ -31,7 +31,10 @@ export const fleetNameSchema = z
   .max(80, 'Use at most 80 characters.')
   .refine(hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE);
 
-const descriptionSchema = z.string({ error: 'The description must be text.' }).trim().max(500, 'Use at most 500 characters.');
+const descriptionSchema = z
+  .string({ error: 'The description must be text.' })
+  .trim()
+  .max(500, 'Use at most 500 characters.');
 
 export const fleetCreateSchema = z.object({
   name: fleetNameSchema,
@@ -39,14 +42,20 @@ export const fleetCreateSchema = z.object({
 });
 export type FleetCreate = z.infer<typeof fleetCreateSchema>;
 
-const idSchema = z.coerce.number({ error: 'Choose an item from the list.' }).int('Choose an item from the list.').positive('Choose an item from the list.');
+const idSchema = z.coerce
+  .number({ error: 'Choose an item from the list.' })
+  .int('Choose an item from the list.')
+  .positive('Choose an item from the list.');
 
 export const fleetUpdateSchema = z
   .object({
     name: fleetNameSchema.optional(),
     description: descriptionSchema.optional(),
     /** When given, exactly these aircraft types default to this fleet (others that did are cleared). */
-    aircraftTypeIds: z.array(idSchema, { error: 'List aircraft type ids.' }).max(200, 'At most 200 aircraft types.').optional(),
+    aircraftTypeIds: z
+      .array(idSchema, { error: 'List aircraft type ids.' })
+      .max(200, 'At most 200 aircraft types.')
+      .optional(),
   })
   .refine((v) => v.name !== undefined || v.description !== undefined || v.aircraftTypeIds !== undefined, {
     message: 'Change the name, the description or the aircraft types.',
@@ -75,14 +84,15 @@ const flightLevelFilter = z.preprocess(
     .optional(),
 );
 
-const fleetIdList = z.preprocess(
-  (v) => {
-    const b = blankToUndefined(v);
-    if (typeof b === 'string') return b.split(',').map((s) => s.trim()).filter(Boolean);
-    return b;
-  },
-  z.array(idSchema).max(50, 'Compare at most 50 fleets at once.').optional(),
-);
+const fleetIdList = z.preprocess((v) => {
+  const b = blankToUndefined(v);
+  if (typeof b === 'string')
+    return b
+      .split(',')
+      .map((s) => s.trim())
+      .filter(Boolean);
+  return b;
+}, z.array(idSchema).max(50, 'Compare at most 50 fleets at once.').optional());
 
 /**
  * The comparison's filters, as query text (`?from=&to=&aircraft=&route=&minFl=&maxFl=&groupBy=&fleets=`)
@@ -92,18 +102,33 @@ export const fleetCompareQuerySchema = z
   .object({
     from: z.preprocess(blankToUndefined, isoDateSchema.optional()),
     to: z.preprocess(blankToUndefined, isoDateSchema.optional()),
-    aircraft: z.preprocess(blankToUndefined, z.string().trim().max(16, 'An aircraft type code has at most 16 characters.').optional()),
-    route: z.preprocess(blankToUndefined, z.string().trim().max(40, 'Use at most 40 characters, such as EGLL-KSFO.').optional()),
+    aircraft: z.preprocess(
+      blankToUndefined,
+      z.string().trim().max(16, 'An aircraft type code has at most 16 characters.').optional(),
+    ),
+    route: z.preprocess(
+      blankToUndefined,
+      z.string().trim().max(40, 'Use at most 40 characters, such as EGLL-KSFO.').optional(),
+    ),
     minFl: flightLevelFilter,
     maxFl: flightLevelFilter,
-    groupBy: z.preprocess(blankToUndefined, z.enum(GROUP_BY, { error: 'Group by fleet, month or aircraft.' }).default('fleet')),
+    groupBy: z.preprocess(
+      blankToUndefined,
+      z.enum(GROUP_BY, { error: 'Group by fleet, month or aircraft.' }).default('fleet'),
+    ),
     fleets: fleetIdList,
   })
   .superRefine((v, ctx) => {
     const { from, to } = v;
     if (isCalendarDate(from) && isCalendarDate(to)) {
-      if (from > to) ctx.addIssue({ code: 'custom', path: ['to'], message: 'The end of the period is before its start.' });
-      else if (monthsSpanned(from, to) > MAX_PERIOD_MONTHS) ctx.addIssue({ code: 'custom', path: ['to'], message: `Compare at most ${MAX_PERIOD_MONTHS} months at a time.` });
+      if (from > to)
+        ctx.addIssue({ code: 'custom', path: ['to'], message: 'The end of the period is before its start.' });
+      else if (monthsSpanned(from, to) > MAX_PERIOD_MONTHS)
+        ctx.addIssue({
+          code: 'custom',
+          path: ['to'],
+          message: `Compare at most ${MAX_PERIOD_MONTHS} months at a time.`,
+        });
     }
     if (typeof v.minFl === 'number' && typeof v.maxFl === 'number' && v.minFl > v.maxFl) {
       ctx.addIssue({ code: 'custom', path: ['maxFl'], message: 'The top of the level band is below its bottom.' });

@@ -15,7 +15,15 @@ export const IMPORT_LIMITS = {
   maxProblemsListed: 1000,
 } as const;
 
-export const SCHEDULE_REQUIRED_COLUMNS = ['date', 'flight', 'origin', 'destination', 'aircraft', 'cruise_fl', 'fuel_kg'] as const;
+export const SCHEDULE_REQUIRED_COLUMNS = [
+  'date',
+  'flight',
+  'origin',
+  'destination',
+  'aircraft',
+  'cruise_fl',
+  'fuel_kg',
+] as const;
 export const SCHEDULE_OPTIONAL_COLUMNS = ['steps', 'fleet', 'ei_nox_g_per_kg', 'mach', 'route'] as const;
 export const SCHEDULE_COLUMNS = [...SCHEDULE_REQUIRED_COLUMNS, ...SCHEDULE_OPTIONAL_COLUMNS] as const;
 export type ScheduleColumn = (typeof SCHEDULE_COLUMNS)[number];
@@ -34,21 +42,84 @@ export interface ScheduleColumnDoc {
 
 export const SCHEDULE_COLUMN_DOCS: readonly ScheduleColumnDoc[] = [
   { name: 'date', required: true, unit: 'YYYY-MM-DD, UTC', description: 'Date of departure.', example: '2026-11-03' },
-  { name: 'flight', required: true, unit: 'up to 16 characters', description: 'Flight number or other designator.', example: 'SKP401' },
-  { name: 'origin', required: true, unit: 'ICAO or IATA code', description: 'Departure airport; stored as its ICAO code.', example: 'EFHK' },
-  { name: 'destination', required: true, unit: 'ICAO or IATA code', description: 'Arrival airport; the route is the great circle between the two.', example: 'RJAA' },
-  { name: 'aircraft', required: true, unit: 'type code', description: 'An aircraft type of this workspace (Engines & aircraft); it supplies the EI NOx and the typical Mach.', example: 'SK-LR1' },
-  { name: 'cruise_fl', required: true, unit: 'flight level, 0-660', description: 'Cruise flight level, whole number; “FL” in front is accepted. May be left empty when steps is given.', example: '370' },
-  { name: 'fuel_kg', required: true, unit: 'kg', description: 'Fuel burned along the route at cruise (not the LTO cycle).', example: '61250' },
-  { name: 'steps', required: false, unit: 'FL@km pairs', description: 'Step climb: flight level@km along the route, separated by spaces, the first at 0 km. Replaces cruise_fl.', example: '350@0 370@2600 390@5200' },
-  { name: 'fleet', required: false, unit: 'fleet name', description: 'A fleet of this workspace; empty means the aircraft type’s default fleet.', example: 'Polar long-haul A' },
-  { name: 'ei_nox_g_per_kg', required: false, unit: 'g NO2 per kg fuel', description: 'Measured cruise EI NOx for this flight; replaces the aircraft type’s engine data.', example: '14.2' },
-  { name: 'mach', required: false, unit: 'Mach number', description: 'Cruise Mach for timing; empty means the aircraft type’s typical Mach.', example: '0.85' },
+  {
+    name: 'flight',
+    required: true,
+    unit: 'up to 16 characters',
+    description: 'Flight number or other designator.',
+    example: 'SKP401',
+  },
+  {
+    name: 'origin',
+    required: true,
+    unit: 'ICAO or IATA code',
+    description: 'Departure airport; stored as its ICAO code.',
+    example: 'EFHK',
+  },
+  {
+    name: 'destination',
+    required: true,
+    unit: 'ICAO or IATA code',
+    description: 'Arrival airport; the route is the great circle between the two.',
+    example: 'RJAA',
+  },
+  {
+    name: 'aircraft',
+    required: true,
+    unit: 'type code',
+    description:
+      'An aircraft type of this workspace (Engines & aircraft); it supplies the EI NOx and the typical Mach.',
+    example: 'SK-LR1',
+  },
+  {
+    name: 'cruise_fl',
+    required: true,
+    unit: 'flight level, 0-660',
+    description: 'Cruise flight level, whole number; “FL” in front is accepted. May be left empty when steps is given.',
+    example: '370',
+  },
+  {
+    name: 'fuel_kg',
+    required: true,
+    unit: 'kg',
+    description: 'Fuel burned along the route at cruise (not the LTO cycle).',
+    example: '61250',
+  },
+  {
+    name: 'steps',
+    required: false,
+    unit: 'FL@km pairs',
+    description:
+      'Step climb: flight level@km along the route, separated by spaces, the first at 0 km. Replaces cruise_fl.',
+    example: '350@0 370@2600 390@5200',
+  },
+  {
+    name: 'fleet',
+    required: false,
+    unit: 'fleet name',
+    description: 'A fleet of this workspace; empty means the aircraft type’s default fleet.',
+    example: 'Polar long-haul A',
+  },
+  {
+    name: 'ei_nox_g_per_kg',
+    required: false,
+    unit: 'g NO2 per kg fuel',
+    description: 'Measured cruise EI NOx for this flight; replaces the aircraft type’s engine data.',
+    example: '14.2',
+  },
+  {
+    name: 'mach',
+    required: false,
+    unit: 'Mach number',
+    description: 'Cruise Mach for timing; empty means the aircraft type’s typical Mach.',
+    example: '0.85',
+  },
   {
     name: 'route',
     required: false,
     unit: 'ICAO flight-plan route (item 15), quoted',
-    description: 'The filed route between origin and destination, flown instead of the great circle; named points and airways come from the Fixes & airways library. Its levels replace cruise_fl and steps.',
+    description:
+      'The filed route between origin and destination, flown instead of the great circle; named points and airways come from the Fixes & airways library. Its levels replace cruise_fl and steps.',
     example: '"N0480F350 DCT 6230N02000W 6500N03000W DCT"',
   },
 ];
@@ -123,10 +194,16 @@ export const scheduleRowSchema = z
       .string({ error: 'Give the date as YYYY-MM-DD (UTC).' })
       .regex(DATE_RE, { error: 'Write the date as YYYY-MM-DD (UTC), such as 2026-11-03.', abort: true })
       .refine(isRealDate, { error: 'This date does not exist in the calendar.' }),
-    flight: text(16, 'Give the flight number.', 'A flight number has at most 16 characters.').transform((s) => s.toUpperCase()),
+    flight: text(16, 'Give the flight number.', 'A flight number has at most 16 characters.').transform((s) =>
+      s.toUpperCase(),
+    ),
     origin: airport('origin'),
     destination: airport('destination'),
-    aircraft: text(16, 'Give the aircraft type code, such as SK-LR1.', 'An aircraft type code has at most 16 characters.').transform((s) => s.toUpperCase()),
+    aircraft: text(
+      16,
+      'Give the aircraft type code, such as SK-LR1.',
+      'An aircraft type code has at most 16 characters.',
+    ).transform((s) => s.toUpperCase()),
     cruise_fl: flightLevel.optional(),
     fuel_kg: decimal('Give the cruise fuel burn in kg as a number, such as 61250.'),
     steps: steps.optional(),
@@ -135,12 +212,18 @@ export const scheduleRowSchema = z
     mach: decimal('Give the Mach number as a number, such as 0.85.').optional(),
     route: z
       .string()
-      .max(SCREENING_LIMITS.maxFlightPlanChars, { error: `A route has at most ${SCREENING_LIMITS.maxFlightPlanChars} characters.` })
+      .max(SCREENING_LIMITS.maxFlightPlanChars, {
+        error: `A route has at most ${SCREENING_LIMITS.maxFlightPlanChars} characters.`,
+      })
       .optional(),
   })
   .superRefine((row, ctx) => {
     if (row.cruise_fl === undefined && (row.steps === undefined || row.steps.length === 0)) {
-      ctx.addIssue({ code: 'custom', path: ['cruise_fl'], message: 'Give the cruise flight level, or a step climb in steps.' });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['cruise_fl'],
+        message: 'Give the cruise flight level, or a step climb in steps.',
+      });
     }
   });
 
@@ -149,8 +232,15 @@ export type ScheduleRow = z.output<typeof scheduleRowSchema>;
 /** Trimmed cells of one CSV row by column; empty cells are left out. */
 export type ScheduleCells = Partial<Record<ScheduleColumn, string>>;
 
-const day = z.string().regex(DATE_RE, { error: 'Use a date as YYYY-MM-DD.', abort: true }).refine(isRealDate, { error: 'This date does not exist in the calendar.' });
-const positiveId = (what: string) => z.coerce.number({ error: `The ${what} must be a number.` }).int({ error: `The ${what} must be a whole number.` }).positive({ error: `The ${what} must be a whole number.` });
+const day = z
+  .string()
+  .regex(DATE_RE, { error: 'Use a date as YYYY-MM-DD.', abort: true })
+  .refine(isRealDate, { error: 'This date does not exist in the calendar.' });
+const positiveId = (what: string) =>
+  z.coerce
+    .number({ error: `The ${what} must be a number.` })
+    .int({ error: `The ${what} must be a whole number.` })
+    .positive({ error: `The ${what} must be a whole number.` });
 const emptyToUndefined = (v: unknown) => (v === '' ? undefined : v);
 
 /** Query string of `GET .../flights` (and the filters of the flights page). */
@@ -160,12 +250,30 @@ export const flightListQuerySchema = z
     from: z.preprocess(emptyToUndefined, day.optional()),
     to: z.preprocess(emptyToUndefined, day.optional()),
     fleet: z.preprocess(emptyToUndefined, positiveId('fleet id').optional()),
-    aircraft: z.preprocess(emptyToUndefined, z.string().trim().max(16, { error: 'An aircraft type code has at most 16 characters.' }).optional()),
-    cursor: z.preprocess(emptyToUndefined, z.string().regex(/^\d{4}-\d{2}-\d{2}~\d{1,12}$/, { error: 'The cursor must come from nextCursor of a previous page.' }).optional()),
-    limit: z.preprocess(emptyToUndefined, z.coerce.number({ error: 'The limit must be a number.' }).int().min(1, { error: 'The limit is 1-200.' }).max(200, { error: 'The limit is 1-200.' }).optional()),
+    aircraft: z.preprocess(
+      emptyToUndefined,
+      z.string().trim().max(16, { error: 'An aircraft type code has at most 16 characters.' }).optional(),
+    ),
+    cursor: z.preprocess(
+      emptyToUndefined,
+      z
+        .string()
+        .regex(/^\d{4}-\d{2}-\d{2}~\d{1,12}$/, { error: 'The cursor must come from nextCursor of a previous page.' })
+        .optional(),
+    ),
+    limit: z.preprocess(
+      emptyToUndefined,
+      z.coerce
+        .number({ error: 'The limit must be a number.' })
+        .int()
+        .min(1, { error: 'The limit is 1-200.' })
+        .max(200, { error: 'The limit is 1-200.' })
+        .optional(),
+    ),
   })
   .superRefine((q, ctx) => {
-    if (q.from && q.to && q.from > q.to) ctx.addIssue({ code: 'custom', path: ['to'], message: 'The end date is before the start date.' });
+    if (q.from && q.to && q.from > q.to)
+      ctx.addIssue({ code: 'custom', path: ['to'], message: 'The end date is before the start date.' });
   });
 
 export type FlightListQuery = z.output<typeof flightListQuerySchema>;
@@ -173,7 +281,15 @@ export type FlightListQuery = z.output<typeof flightListQuerySchema>;
 /** Query string of `GET .../imports`. */
 export const importListQuerySchema = z.object({
   cursor: z.preprocess(emptyToUndefined, positiveId('cursor').optional()),
-  limit: z.preprocess(emptyToUndefined, z.coerce.number({ error: 'The limit must be a number.' }).int().min(1, { error: 'The limit is 1-100.' }).max(100, { error: 'The limit is 1-100.' }).optional()),
+  limit: z.preprocess(
+    emptyToUndefined,
+    z.coerce
+      .number({ error: 'The limit must be a number.' })
+      .int()
+      .min(1, { error: 'The limit is 1-100.' })
+      .max(100, { error: 'The limit is 1-100.' })
+      .optional(),
+  ),
 });
 
 export const IMPORT_STATUSES = ['queued', 'screening', 'complete', 'failed'] as const;

@@ -13,12 +13,18 @@ const text = (label: string, max: number) =>
     .trim()
     .max(max, { error: `${label} may have at most ${max} characters.` });
 
-const requiredText = (label: string, max: number) => text(label, max).min(1, { error: `Give ${label.toLowerCase()}.` }).refine(hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE);
+const requiredText = (label: string, max: number) =>
+  text(label, max)
+    .min(1, { error: `Give ${label.toLowerCase()}.` })
+    .refine(hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE);
 
 const numberIn = (label: string, min: number, max: number, unit = '') => {
   const message = `${label} must be between ${min} and ${max}${unit ? ` ${unit}` : ''}.`;
   return z
-    .number({ error: (i: { input?: unknown }) => (i.input === undefined ? `${label} is required.` : `${label} must be a number.`) })
+    .number({
+      error: (i: { input?: unknown }) =>
+        i.input === undefined ? `${label} is required.` : `${label} must be a number.`,
+    })
     .min(min, { error: message })
     .max(max, { error: message });
 };
@@ -45,7 +51,9 @@ export const routeSaveSchema = z.strictObject({
   waypoints: z
     .array(waypointSchema, { error: 'The waypoints must be a list of { airport } or { lat, lon }.' })
     .min(SCREENING_LIMITS.minWaypoints, { error: 'A route needs at least 2 waypoints.' })
-    .max(SCREENING_LIMITS.maxWaypoints, { error: `A route may have at most ${SCREENING_LIMITS.maxWaypoints} waypoints.` }),
+    .max(SCREENING_LIMITS.maxWaypoints, {
+      error: `A route may have at most ${SCREENING_LIMITS.maxWaypoints} waypoints.`,
+    }),
   notes: text('The notes', ROUTE_NOTES_MAX).default(''),
 });
 export type RouteSave = z.output<typeof routeSaveSchema>;
@@ -77,7 +85,9 @@ export function parseWaypointLines(value: string): unknown[] {
 }
 
 /** Writes waypoints back into the form's box, one per line. */
-export function formatWaypointLines(waypoints: readonly ({ lat: number; lon: number } | { airport: string })[]): string {
+export function formatWaypointLines(
+  waypoints: readonly ({ lat: number; lon: number } | { airport: string })[],
+): string {
   return waypoints.map((w) => ('airport' in w ? w.airport : `${w.lat}, ${w.lon}`)).join('\n');
 }
 
@@ -95,7 +105,11 @@ export const routeFormSchema = z
     notes: z.string().default(''),
   })
   .transform((form, ctx) => {
-    const parsed = routeSaveSchema.safeParse({ name: form.name, waypoints: parseWaypointLines(form.waypointsText), notes: form.notes });
+    const parsed = routeSaveSchema.safeParse({
+      name: form.name,
+      waypoints: parseWaypointLines(form.waypointsText),
+      notes: form.notes,
+    });
     if (parsed.success) return parsed.data;
     for (const issue of parsed.error.issues) {
       const path = issue.path.map(String).join('.');
@@ -151,22 +165,36 @@ export const aircraftTypeSaveSchema = z
       .trim()
       .min(1, { error: 'Give a type code, such as SK-LR1.' })
       .max(AIRCRAFT_CODE_MAX, { error: `A type code has at most ${AIRCRAFT_CODE_MAX} characters.` })
-      .regex(/^[A-Za-z0-9][A-Za-z0-9._/-]*$/, { error: 'A type code uses letters, digits and - . _ / only, such as SK-LR1.' })
+      .regex(/^[A-Za-z0-9][A-Za-z0-9._/-]*$/, {
+        error: 'A type code uses letters, digits and - . _ / only, such as SK-LR1.',
+      })
       .transform((c) => c.toUpperCase()),
     name: text('The type name', 120).refine(hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE).default(''),
     engineId: idRef('The engine').default(null),
     directEiGPerKg: numberIn('The direct EI NOx', 0, SCREENING_LIMITS.maxEiNoxGPerKg, 'g/kg').nullable().default(null),
     engineCount: wholeIn('The engine count', SCREENING_LIMITS.minEngineCount, SCREENING_LIMITS.maxEngineCount),
     typicalMach: numberIn('The typical Mach', SCREENING_LIMITS.minMach, SCREENING_LIMITS.maxMach),
-    typicalFlightLevel: wholeIn('The typical cruise flight level', SCREENING_LIMITS.minFlightLevel, SCREENING_LIMITS.maxFlightLevel),
+    typicalFlightLevel: wholeIn(
+      'The typical cruise flight level',
+      SCREENING_LIMITS.minFlightLevel,
+      SCREENING_LIMITS.maxFlightLevel,
+    ),
     defaultFleetId: idRef('The default fleet').default(null),
   })
   .superRefine((t, ctx) => {
     if (t.engineId === null && t.directEiGPerKg === null) {
-      ctx.addIssue({ code: 'custom', path: ['engineId'], message: 'Choose an engine, or give a direct EI NOx for a type without certification data.' });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['engineId'],
+        message: 'Choose an engine, or give a direct EI NOx for a type without certification data.',
+      });
     }
     if (t.engineId !== null && t.directEiGPerKg !== null) {
-      ctx.addIssue({ code: 'custom', path: ['directEiGPerKg'], message: 'Give either an engine or a direct EI NOx, not both: leave this empty when an engine is chosen.' });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['directEiGPerKg'],
+        message: 'Give either an engine or a direct EI NOx, not both: leave this empty when an engine is chosen.',
+      });
     }
   });
 export type AircraftTypeSave = z.output<typeof aircraftTypeSaveSchema>;
@@ -197,10 +225,18 @@ export const observedAtSchema = z
     }
     const [y, mo, day, hh, mm, ss] = [m[1], m[2], m[3], m[4] ?? '00', m[5] ?? '00', m[6] ?? '00'].map(Number);
     const calendar = new Date(Date.UTC(y, mo - 1, day));
-    const real = calendar.getUTCFullYear() === y && calendar.getUTCMonth() === mo - 1 && calendar.getUTCDate() === day && hh <= 23 && mm <= 59 && ss <= 59;
+    const real =
+      calendar.getUTCFullYear() === y &&
+      calendar.getUTCMonth() === mo - 1 &&
+      calendar.getUTCDate() === day &&
+      hh <= 23 &&
+      mm <= 59 &&
+      ss <= 59;
     const zone = m[7] ?? 'Z';
     const offset = zone === 'Z' ? 'Z' : `${zone.slice(0, 3)}:${zone.slice(-2)}`;
-    const d = new Date(`${m[1]}-${m[2]}-${m[3]}T${String(hh).padStart(2, '0')}:${String(mm).padStart(2, '0')}:${String(ss).padStart(2, '0')}${offset}`);
+    const d = new Date(
+      `${m[1]}-${m[2]}-${m[3]}T${String(hh).padStart(2, '0')}:${String(mm).padStart(2, '0')}:${String(ss).padStart(2, '0')}${offset}`,
+    );
     if (!real || Number.isNaN(d.getTime())) {
       ctx.addIssue({ code: 'custom', message: 'The observation time is not a real date and time.' });
       return z.NEVER;

@@ -29,7 +29,12 @@ export interface PlausibilityInput {
 
 const SPEED_OF_SOUND_KMH = 295.07 * 3.6;
 
-export const GENERIC_FUEL_BAND_KG_PER_KM = { impossibleBelow: 0.1, unusualBelow: 0.5, unusualAbove: 20, impossibleAbove: 60 } as const;
+export const GENERIC_FUEL_BAND_KG_PER_KM = {
+  impossibleBelow: 0.1,
+  unusualBelow: 0.5,
+  unusualAbove: 20,
+  impossibleAbove: 60,
+} as const;
 
 export interface FuelBand {
   impossibleBelow: number;
@@ -41,7 +46,8 @@ export interface FuelBand {
 /** The band for this flight: from its engine when known, else the generic one. */
 export function fuelBandKgPerKm(input: Pick<PlausibilityInput, 'engine' | 'mach'>): FuelBand {
   const e = input.engine;
-  if (!e || e.fuelFlowKgS.length !== 4 || !(e.engineCount > 0) || !e.fuelFlowKgS.every((f) => f > 0)) return { ...GENERIC_FUEL_BAND_KG_PER_KM };
+  if (!e || e.fuelFlowKgS.length !== 4 || !(e.engineCount > 0) || !e.fuelFlowKgS.every((f) => f > 0))
+    return { ...GENERIC_FUEL_BAND_KG_PER_KM };
   const speedKmH = (input.mach && input.mach > 0 ? input.mach : 0.8) * SPEED_OF_SOUND_KMH;
   const perKm = (fuelFlowKgS: number) => (e.engineCount * fuelFlowKgS * 3600) / speedKmH;
   const [idle, , , takeOff] = e.fuelFlowKgS;

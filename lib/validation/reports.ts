@@ -6,20 +6,31 @@ export const MAX_RECIPIENTS = 20;
 
 export const reportCreateSchema = z
   .object({
-    name: z.string({ error: 'The name must be text.' }).trim().max(160, 'Use at most 160 characters.').refine(hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE).optional(),
+    name: z
+      .string({ error: 'The name must be text.' })
+      .trim()
+      .max(160, 'Use at most 160 characters.')
+      .refine(hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE)
+      .optional(),
     from: isoDateSchema,
     to: isoDateSchema,
     fleetIds: z
-      .array(z.coerce.number({ error: 'Choose fleets from the list.' }).int().positive('Choose fleets from the list.'), { error: 'Choose at least one fleet.' })
+      .array(
+        z.coerce.number({ error: 'Choose fleets from the list.' }).int().positive('Choose fleets from the list.'),
+        { error: 'Choose at least one fleet.' },
+      )
       .min(1, 'Choose at least one fleet.')
       .max(50, 'A report covers at most 50 fleets.'),
   })
   .superRefine((v, ctx) => {
-    if (Array.isArray(v.fleetIds) && new Set(v.fleetIds).size !== v.fleetIds.length) ctx.addIssue({ code: 'custom', path: ['fleetIds'], message: 'A fleet is listed twice.' });
+    if (Array.isArray(v.fleetIds) && new Set(v.fleetIds).size !== v.fleetIds.length)
+      ctx.addIssue({ code: 'custom', path: ['fleetIds'], message: 'A fleet is listed twice.' });
     const { from, to } = v;
     if (!isCalendarDate(from) || !isCalendarDate(to)) return;
-    if (from > to) ctx.addIssue({ code: 'custom', path: ['to'], message: 'The end of the period is before its start.' });
-    else if (monthsSpanned(from, to) > MAX_PERIOD_MONTHS) ctx.addIssue({ code: 'custom', path: ['to'], message: `A report covers at most ${MAX_PERIOD_MONTHS} months.` });
+    if (from > to)
+      ctx.addIssue({ code: 'custom', path: ['to'], message: 'The end of the period is before its start.' });
+    else if (monthsSpanned(from, to) > MAX_PERIOD_MONTHS)
+      ctx.addIssue({ code: 'custom', path: ['to'], message: `A report covers at most ${MAX_PERIOD_MONTHS} months.` });
   });
 export type ReportCreate = z.infer<typeof reportCreateSchema>;
 
@@ -70,7 +81,8 @@ export const reportSendFormSchema = z
     for (const issue of parsed.error.issues) {
       if (issue.path[0] !== 'recipients') continue;
       const i = typeof issue.path[1] === 'number' ? issue.path[1] : undefined;
-      const message = i !== undefined && issue.code !== 'custom' ? `“${list[i]}” is not a valid e-mail address.` : issue.message;
+      const message =
+        i !== undefined && issue.code !== 'custom' ? `“${list[i]}” is not a valid e-mail address.` : issue.message;
       ctx.addIssue({ code: 'custom', path: ['recipientsText'], message });
       return;
     }

@@ -101,7 +101,11 @@ export interface ScreenFormContext {
   units: UnitSystem;
   defaults: AssumptionDefaults;
   aircraft: { code: string; emission: ScreeningInputRaw['emission'] | null; typicalMach: number }[];
-  engines: { id: number; fuelFlowKgS: [number, number, number, number]; eiNoxGPerKg: [number, number, number, number] }[];
+  engines: {
+    id: number;
+    fuelFlowKgS: [number, number, number, number];
+    eiNoxGPerKg: [number, number, number, number];
+  }[];
   soundings: { id: number; levels: SoundingLevelInput[] }[];
 }
 
@@ -182,7 +186,9 @@ export function readNumber(text: string): number | null {
 
 function plain(n: number, digits = 0): string {
   const f = 10 ** digits;
-  return new Intl.NumberFormat('en-GB', { maximumFractionDigits: digits }).format(Math.round(n * f) / f).replace(/,/g, ' ');
+  return new Intl.NumberFormat('en-GB', { maximumFractionDigits: digits })
+    .format(Math.round(n * f) / f)
+    .replace(/,/g, ' ');
 }
 
 /** Unit labels and limits of the fields typed in the user's units. */
@@ -195,8 +201,12 @@ export function unitLabels(units: UnitSystem) {
     fuelMin: imperial ? Math.ceil((SCREENING_LIMITS.minFuelKg / KG_PER_LB) * 10) / 10 : SCREENING_LIMITS.minFuelKg,
     fuelMax: imperial ? Math.floor(SCREENING_LIMITS.maxFuelKg / KG_PER_LB) : SCREENING_LIMITS.maxFuelKg,
     stepMax: imperial ? Math.floor(SCREENING_LIMITS.maxStepFromKm / KM_PER_NM) : SCREENING_LIMITS.maxStepFromKm,
-    tropopauseMin: imperial ? Math.ceil(SCREENING_LIMITS.minTropopauseAltitudeM / M_PER_FT) : SCREENING_LIMITS.minTropopauseAltitudeM,
-    tropopauseMax: imperial ? Math.floor(SCREENING_LIMITS.maxTropopauseAltitudeM / M_PER_FT) : SCREENING_LIMITS.maxTropopauseAltitudeM,
+    tropopauseMin: imperial
+      ? Math.ceil(SCREENING_LIMITS.minTropopauseAltitudeM / M_PER_FT)
+      : SCREENING_LIMITS.minTropopauseAltitudeM,
+    tropopauseMax: imperial
+      ? Math.floor(SCREENING_LIMITS.maxTropopauseAltitudeM / M_PER_FT)
+      : SCREENING_LIMITS.maxTropopauseAltitudeM,
   };
 }
 
@@ -235,7 +245,10 @@ type Coordinate = { value: number; hemi: string | null };
 
 /** Degrees, minutes and seconds as numbers ("60 12 30", "60 12.5", "60.2"): minutes and seconds below 60, only the last part with decimals. */
 function readSexagesimal(text: string): number | 'bad-minutes' | null {
-  const parts = text.trim().split(/[\s:]+/).filter((p) => p !== '');
+  const parts = text
+    .trim()
+    .split(/[\s:]+/)
+    .filter((p) => p !== '');
   if (parts.length < 1 || parts.length > 3) return null;
   let total = 0;
   for (let i = 0; i < parts.length; i++) {
@@ -251,7 +264,11 @@ function readSexagesimal(text: string): number | 'bad-minutes' | null {
 
 /** One coordinate in degrees-minutes(-seconds), with an optional sign or a hemisphere letter before or after. */
 function readSexagesimalCoordinate(token: string): Coordinate | 'bad-minutes' | null {
-  const cleaned = token.replace(/[°º'′"″]/g, ' ').trim().replace(/[,;]$/, '').trim();
+  const cleaned = token
+    .replace(/[°º'′"″]/g, ' ')
+    .trim()
+    .replace(/[,;]$/, '')
+    .trim();
   const m = /^([NSEW])?\s*([+-])?\s*([\d.,:\s]+?)\s*([NSEW])?$/i.exec(cleaned);
   if (!m || (m[1] && m[4]) || (m[2] && (m[1] || m[4]))) return null;
   const value = readSexagesimal(m[3]);
@@ -270,7 +287,8 @@ function readSexagesimalPoint(line: string): [Coordinate, Coordinate] | 'bad-min
   const compact = ICAO_COMPACT.exec(line.replace(/\s+/g, ''));
   if (compact) {
     const [, latD, latM, latS, latH, lonD, lonM, lonS, lonH] = compact;
-    if (Number(latM) >= 60 || Number(lonM) >= 60 || Number(latS ?? 0) >= 60 || Number(lonS ?? 0) >= 60) return 'bad-minutes';
+    if (Number(latM) >= 60 || Number(lonM) >= 60 || Number(latS ?? 0) >= 60 || Number(lonS ?? 0) >= 60)
+      return 'bad-minutes';
     const lat = Number(latD) + Number(latM) / 60 + Number(latS ?? 0) / 3600;
     const lon = Number(lonD) + Number(lonM) / 60 + Number(lonS ?? 0) / 3600;
     return [
@@ -335,7 +353,10 @@ export function parseWaypointList(text: string): PastedPoints {
       else parts = line.split(/\s+/);
       parts = parts.map((p) => p.trim()).filter((p) => p !== '');
       if (parts.length !== 2) {
-        problems.push({ line: n, message: `Line ${n}: give a latitude and a longitude, such as "51.47 -0.45" or "6012N01105E".` });
+        problems.push({
+          line: n,
+          message: `Line ${n}: give a latitude and a longitude, such as "51.47 -0.45" or "6012N01105E".`,
+        });
         return;
       }
       a = readCoordinate(parts[0]);
@@ -372,7 +393,10 @@ export function parseWaypointList(text: string): PastedPoints {
 }
 
 /** Where an engine-input path (as the API reports it) sits in the form, given the form's modes. */
-export function formPathFor(serverPath: string, values: Pick<ScreenFormValues, 'routeMode' | 'cruiseMode' | 'emissionMode' | 'tropopauseMode'>): string | null {
+export function formPathFor(
+  serverPath: string,
+  values: Pick<ScreenFormValues, 'routeMode' | 'cruiseMode' | 'emissionMode' | 'tropopauseMode'>,
+): string | null {
   const p = serverPath.split('.');
   switch (p[0]) {
     case 'name':
@@ -418,7 +442,8 @@ export function formPathFor(serverPath: string, values: Pick<ScreenFormValues, '
         const part = p[2];
         return `assumptions.${key}.${part === 'low' || part === 'high' ? part : 'central'}`;
       }
-      if (key === 'ohCm3' || key === 'ho2Cm3' || key === 'relativeHumidity' || key === 'ozoneProfile') return `assumptions.${key}`;
+      if (key === 'ohCm3' || key === 'ho2Cm3' || key === 'relativeHumidity' || key === 'ozoneProfile')
+        return `assumptions.${key}`;
       return null;
     }
     default:
@@ -427,7 +452,10 @@ export function formPathFor(serverPath: string, values: Pick<ScreenFormValues, '
 }
 
 /** The form's values as the engine input: numbers parsed, units converted, modes resolved. */
-export function buildScreeningBody(values: ScreenFormValues, ctx: ScreenFormContext): { body: ScreeningRequestBody; problems: FormProblem[] } {
+export function buildScreeningBody(
+  values: ScreenFormValues,
+  ctx: ScreenFormContext,
+): { body: ScreeningRequestBody; problems: FormProblem[] } {
   const problems: FormProblem[] = [];
   const u = unitLabels(ctx.units);
   const add = (path: string, message: string) => problems.push({ path, message });
@@ -443,7 +471,8 @@ export function buildScreeningBody(values: ScreenFormValues, ctx: ScreenFormCont
     }
     return n;
   };
-  const optional = (path: string, text: string, label: string): number | undefined => (text.trim() === '' ? undefined : need(path, text, label));
+  const optional = (path: string, text: string, label: string): number | undefined =>
+    text.trim() === '' ? undefined : need(path, text, label);
 
   const body: ScreeningRequestBody = {};
   const name = values.name.trim();
@@ -453,16 +482,30 @@ export function buildScreeningBody(values: ScreenFormValues, ctx: ScreenFormCont
     body.route = {
       waypoints: values.airports.map((a, i) => {
         const code = a.code.trim().toUpperCase();
-        if (code === '') add(`airports.${i}.code`, i === 0 ? 'Enter the departure airport.' : i === values.airports.length - 1 ? 'Enter the destination airport.' : 'Enter this stop, or remove it.');
+        if (code === '')
+          add(
+            `airports.${i}.code`,
+            i === 0
+              ? 'Enter the departure airport.'
+              : i === values.airports.length - 1
+                ? 'Enter the destination airport.'
+                : 'Enter this stop, or remove it.',
+          );
         return { airport: code };
       }),
     };
   } else if (values.routeMode === 'flightPlan') {
     const fp = values.flightPlan;
-    if (fp.text.trim() === '') add('flightPlan.text', 'Paste the route of the flight plan (item 15), such as N0480F350 DCT 62N020W 63N030W DCT.');
+    if (fp.text.trim() === '')
+      add(
+        'flightPlan.text',
+        'Paste the route of the flight plan (item 15), such as N0480F350 DCT 62N020W 63N030W DCT.',
+      );
     if (fp.from.trim() === '') add('flightPlan.from', 'Enter the departure aerodrome.');
     if (fp.to.trim() === '') add('flightPlan.to', 'Enter the destination aerodrome.');
-    body.route = { flightPlan: { text: fp.text.trim(), from: fp.from.trim().toUpperCase(), to: fp.to.trim().toUpperCase() } };
+    body.route = {
+      flightPlan: { text: fp.text.trim(), from: fp.from.trim().toUpperCase(), to: fp.to.trim().toUpperCase() },
+    };
   } else {
     body.route = {
       waypoints: values.points.map((pt, i) => ({
@@ -479,10 +522,18 @@ export function buildScreeningBody(values: ScreenFormValues, ctx: ScreenFormCont
       steps: values.steps.map((s, i): StepBody => {
         let fromKm = 0;
         const at = i > 0 && s.at ? Number(s.at) : null;
-        if (at !== null) return { atWaypoint: at, flightLevel: need(`steps.${i}.flightLevel`, s.flightLevel, 'a flight level') ?? Number.NaN };
+        if (at !== null)
+          return {
+            atWaypoint: at,
+            flightLevel: need(`steps.${i}.flightLevel`, s.flightLevel, 'a flight level') ?? Number.NaN,
+          };
         if (i > 0) {
           const from = need(`steps.${i}.from`, s.from, `where this step climb starts, in ${u.distance} from departure`);
-          if (from !== undefined && (from < 0 || from > u.stepMax)) add(`steps.${i}.from`, `A step must start between 0 and ${plain(u.stepMax)} ${u.distance} along the route.`);
+          if (from !== undefined && (from < 0 || from > u.stepMax))
+            add(
+              `steps.${i}.from`,
+              `A step must start between 0 and ${plain(u.stepMax)} ${u.distance} along the route.`,
+            );
           fromKm = from === undefined ? Number.NaN : distanceToKm(from, ctx.units);
         }
         return { fromKm, flightLevel: need(`steps.${i}.flightLevel`, s.flightLevel, 'a flight level') ?? Number.NaN };
@@ -491,7 +542,8 @@ export function buildScreeningBody(values: ScreenFormValues, ctx: ScreenFormCont
   }
 
   const fuel = need('fuelBurn', values.fuelBurn, `the cruise fuel burn in ${u.mass}`);
-  if (fuel !== undefined && (fuel < u.fuelMin || fuel > u.fuelMax)) add('fuelBurn', `The fuel burn must be between ${plain(u.fuelMin, 1)} and ${plain(u.fuelMax)} ${u.mass}.`);
+  if (fuel !== undefined && (fuel < u.fuelMin || fuel > u.fuelMax))
+    add('fuelBurn', `The fuel burn must be between ${plain(u.fuelMin, 1)} and ${plain(u.fuelMax)} ${u.mass}.`);
   body.fuelBurnKg = fuel === undefined ? Number.NaN : fuelToKg(fuel, ctx.units);
 
   const mach = optional('mach', values.mach, 'the cruise Mach');
@@ -505,7 +557,11 @@ export function buildScreeningBody(values: ScreenFormValues, ctx: ScreenFormCont
       const type = ctx.aircraft.find((a) => a.code === code);
       if (type?.emission) {
         if ('engine' in type.emission) {
-          body.emission = { ...type.emission, method: values.method, mach: mach ?? type.emission.mach ?? type.typicalMach };
+          body.emission = {
+            ...type.emission,
+            method: values.method,
+            mach: mach ?? type.emission.mach ?? type.typicalMach,
+          };
         } else body.emission = type.emission;
       }
     }
@@ -516,7 +572,10 @@ export function buildScreeningBody(values: ScreenFormValues, ctx: ScreenFormCont
     body.emission = {
       engine: engine
         ? { fuelFlowKgS: engine.fuelFlowKgS, eiNoxGPerKg: engine.eiNoxGPerKg }
-        : { fuelFlowKgS: [Number.NaN, Number.NaN, Number.NaN, Number.NaN], eiNoxGPerKg: [Number.NaN, Number.NaN, Number.NaN, Number.NaN] },
+        : {
+            fuelFlowKgS: [Number.NaN, Number.NaN, Number.NaN, Number.NaN],
+            eiNoxGPerKg: [Number.NaN, Number.NaN, Number.NaN, Number.NaN],
+          },
       engineCount: count ?? Number.NaN,
       method: values.method,
       ...(mach !== undefined ? { mach } : {}),
@@ -534,11 +593,17 @@ export function buildScreeningBody(values: ScreenFormValues, ctx: ScreenFormCont
   if (values.tropopauseMode === 'altitude') {
     const alt = need('tropopauseAltitude', values.tropopauseAltitude, `the tropopause altitude in ${u.altitude}`);
     if (alt !== undefined && (alt < u.tropopauseMin || alt > u.tropopauseMax)) {
-      add('tropopauseAltitude', `The tropopause altitude must be between ${plain(u.tropopauseMin)} and ${plain(u.tropopauseMax)} ${u.altitude}.`);
+      add(
+        'tropopauseAltitude',
+        `The tropopause altitude must be between ${plain(u.tropopauseMin)} and ${plain(u.tropopauseMax)} ${u.altitude}.`,
+      );
     }
     body.tropopause = { altitudeM: alt === undefined ? Number.NaN : altitudeToM(alt, ctx.units) };
   } else if (values.tropopauseMode === 'pressure') {
-    body.tropopause = { pressureHpa: need('tropopausePressure', values.tropopausePressure, 'the tropopause pressure in hPa') ?? Number.NaN };
+    body.tropopause = {
+      pressureHpa:
+        need('tropopausePressure', values.tropopausePressure, 'the tropopause pressure in hPa') ?? Number.NaN,
+    };
   } else if (values.tropopauseMode === 'sounding') {
     const s = ctx.soundings.find((x) => String(x.id) === values.soundingId);
     if (!s) add('soundingId', 'Choose a stored sounding, or use another tropopause.');
@@ -573,7 +638,8 @@ export function buildScreeningBody(values: ScreenFormValues, ctx: ScreenFormCont
     assumptions.relativeHumidity = rh / 100;
   }
   if (a.ozoneProfile) {
-    if ((OZONE_PROFILE_NAMES as readonly string[]).includes(a.ozoneProfile)) assumptions.ozoneProfile = a.ozoneProfile as (typeof OZONE_PROFILE_NAMES)[number];
+    if ((OZONE_PROFILE_NAMES as readonly string[]).includes(a.ozoneProfile))
+      assumptions.ozoneProfile = a.ozoneProfile as (typeof OZONE_PROFILE_NAMES)[number];
     else add('assumptions.ozoneProfile', 'Choose one of the listed ozone profiles.');
   }
   if (Object.keys(assumptions).length > 0) body.assumptions = assumptions;
@@ -587,7 +653,10 @@ const engineInputWithoutEmission = screeningInputSchema.omit({ emission: true })
  * Everything wrong with the form, by form path: the form's own reading of numbers and units, then
  * the engine schema's checks mapped back to the fields (one message per field).
  */
-export function screenFormProblems(values: ScreenFormValues, ctx: ScreenFormContext): { body: ScreeningRequestBody; problems: FormProblem[] } {
+export function screenFormProblems(
+  values: ScreenFormValues,
+  ctx: ScreenFormContext,
+): { body: ScreeningRequestBody; problems: FormProblem[] } {
   const { body, problems } = buildScreeningBody(values, ctx);
   const seen = new Set(problems.map((p) => p.path));
   const { aircraft: _aircraft, name: _name, ...requested } = body;
@@ -606,7 +675,10 @@ export function screenFormProblems(values: ScreenFormValues, ctx: ScreenFormCont
           }
         : requested.cruise,
   };
-  const checked = engine.emission === undefined ? engineInputWithoutEmission.safeParse(engine) : screeningInputSchema.safeParse(engine);
+  const checked =
+    engine.emission === undefined
+      ? engineInputWithoutEmission.safeParse(engine)
+      : screeningInputSchema.safeParse(engine);
   if (!checked.success) {
     for (const issue of checked.error.issues) {
       const path = formPathFor(issue.path.map(String).join('.'), values);
@@ -676,11 +748,15 @@ export function screenFormSchema(ctx: ScreenFormContext) {
 
 /** Field paths the form shows errors beside (server problems elsewhere become a general message). */
 export function isFormPath(path: string): boolean {
-  return /^(name|fuelBurn|flightLevel|aircraft|engineId|engineCount|eiNox|mach|flightDate|month|tropopauseAltitude|tropopausePressure|soundingId|steps|route)$/.test(path) ||
+  return (
+    /^(name|fuelBurn|flightLevel|aircraft|engineId|engineCount|eiNox|mach|flightDate|month|tropopauseAltitude|tropopausePressure|soundingId|steps|route)$/.test(
+      path,
+    ) ||
     /^airports\.\d+\.code$/.test(path) ||
     /^points\.\d+\.(lat|lon)$/.test(path) ||
     /^flightPlan\.(text|from|to)$/.test(path) ||
     /^steps\.\d+\.(from|flightLevel)$/.test(path) ||
     /^assumptions\.(jO3NoonPerS|jNo2NoonPerS|daylightFactor|noxToNoyFraction)\.(low|central|high)$/.test(path) ||
-    /^assumptions\.(ohCm3|ho2Cm3|relativeHumidity|ozoneProfile)$/.test(path);
+    /^assumptions\.(ohCm3|ho2Cm3|relativeHumidity|ozoneProfile)$/.test(path)
+  );
 }

@@ -46,8 +46,7 @@ type IssueLike = { input?: unknown };
 
 function numberField(label: string) {
   return z.number({
-    error: (issue: IssueLike) =>
-      issue.input === undefined ? `${label} is required.` : `${label} must be a number.`,
+    error: (issue: IssueLike) => (issue.input === undefined ? `${label} is required.` : `${label} must be a number.`),
   });
 }
 
@@ -254,7 +253,8 @@ export function soundingLevelProblems(level: unknown, path: string): FieldProble
     });
   }
   if (l.altitudeM !== undefined) {
-    if (!isFiniteNumber(l.altitudeM)) out.push({ path: `${path}.altitudeM`, message: 'The altitude must be a number.' });
+    if (!isFiniteNumber(l.altitudeM))
+      out.push({ path: `${path}.altitudeM`, message: 'The altitude must be a number.' });
     else if (l.altitudeM < L.minSoundingAltitudeM || l.altitudeM > L.maxSoundingAltitudeM) {
       out.push({
         path: `${path}.altitudeM`,
@@ -263,10 +263,15 @@ export function soundingLevelProblems(level: unknown, path: string): FieldProble
     }
   }
   if (l.pressureHpa !== undefined) {
-    if (!isFiniteNumber(l.pressureHpa)) out.push({ path: `${path}.pressureHpa`, message: 'The pressure must be a number.' });
-    else if (!(l.pressureHpa > 0)) out.push({ path: `${path}.pressureHpa`, message: 'The pressure must be above 0 hPa.' });
+    if (!isFiniteNumber(l.pressureHpa))
+      out.push({ path: `${path}.pressureHpa`, message: 'The pressure must be a number.' });
+    else if (!(l.pressureHpa > 0))
+      out.push({ path: `${path}.pressureHpa`, message: 'The pressure must be above 0 hPa.' });
     else if (l.pressureHpa > L.maxSoundingPressureHpa) {
-      out.push({ path: `${path}.pressureHpa`, message: `The pressure must be at most ${L.maxSoundingPressureHpa} hPa.` });
+      out.push({
+        path: `${path}.pressureHpa`,
+        message: `The pressure must be at most ${L.maxSoundingPressureHpa} hPa.`,
+      });
     }
   }
   if (l.altitudeM === undefined && l.pressureHpa === undefined) {
@@ -374,13 +379,15 @@ function rangeSchema(label: string, min: number, max: number, unit: string) {
   return z.union(
     [
       value,
-      z
-        .strictObject({ central: value, low: value, high: value })
-        .superRefine((r, ctx) => {
-          if (!(r.low <= r.central && r.central <= r.high)) {
-            ctx.addIssue({ code: 'custom', path: [], message: `${label}: low must not exceed central, nor central exceed high.` });
-          }
-        }),
+      z.strictObject({ central: value, low: value, high: value }).superRefine((r, ctx) => {
+        if (!(r.low <= r.central && r.central <= r.high)) {
+          ctx.addIssue({
+            code: 'custom',
+            path: [],
+            message: `${label}: low must not exceed central, nor central exceed high.`,
+          });
+        }
+      }),
     ],
     { error: `${label} must be a number or { central, low, high }.` },
   );
@@ -450,7 +457,9 @@ export const residenceTimeSchema = z
   .strictObject({
     depthKm: increasingList('The residence-time depths', 0, 40, 'km'),
     years: z.array(between('A residence time', B.minResidenceYears, B.maxResidenceYears, 'years')),
-    tropicalYears: z.array(between('A tropical residence time', B.minResidenceYears, B.maxResidenceYears, 'years')).optional(),
+    tropicalYears: z
+      .array(between('A tropical residence time', B.minResidenceYears, B.maxResidenceYears, 'years'))
+      .optional(),
     lowFactor: between('The low residence-time factor', B.minLowFactor, 1, '').optional(),
     highFactor: between('The high residence-time factor', 1, B.maxHighFactor, '').optional(),
   })
@@ -500,7 +509,9 @@ const airportCodeSchema = (label: string) =>
   z
     .string({ error: `${label} must be text, such as EGLL or LHR.` })
     .trim()
-    .regex(/^[A-Za-z0-9]{3,4}$/, { error: `${label} has 3 letters (IATA, such as LHR) or 4 characters (ICAO, such as EGLL).` });
+    .regex(/^[A-Za-z0-9]{3,4}$/, {
+      error: `${label} has 3 letters (IATA, such as LHR) or 4 characters (ICAO, such as EGLL).`,
+    });
 
 /** A route given as waypoints: 2..500 points, each `{ lat, lon }` or `{ airport }`. */
 export const waypointsRouteSchema = z.object(
@@ -508,7 +519,9 @@ export const waypointsRouteSchema = z.object(
     waypoints: z
       .array(waypointSchema, { error: 'The waypoints must be a list.' })
       .min(SCREENING_LIMITS.minWaypoints, { error: 'A route needs at least 2 waypoints.' })
-      .max(SCREENING_LIMITS.maxWaypoints, { error: `A route may have at most ${SCREENING_LIMITS.maxWaypoints} waypoints.` }),
+      .max(SCREENING_LIMITS.maxWaypoints, {
+        error: `A route may have at most ${SCREENING_LIMITS.maxWaypoints} waypoints.`,
+      }),
   },
   { error: 'The route is required, as { waypoints: [...] } or { flightPlan: { text, from, to } }.' },
 );
@@ -552,18 +565,34 @@ export const trackPointSchema = z
       .optional(),
     lat: latitudeSchema,
     lon: longitudeSchema,
-    flightLevel: between('The flight level', SCREENING_LIMITS.minFlightLevel, SCREENING_LIMITS.maxFlightLevel, '').optional(),
-    pressureAltitudeFt: between('The pressure altitude', SCREENING_LIMITS.minFlightLevel * 100, SCREENING_LIMITS.maxFlightLevel * 100, 'ft (FL0-FL660)').optional(),
+    flightLevel: between(
+      'The flight level',
+      SCREENING_LIMITS.minFlightLevel,
+      SCREENING_LIMITS.maxFlightLevel,
+      '',
+    ).optional(),
+    pressureAltitudeFt: between(
+      'The pressure altitude',
+      SCREENING_LIMITS.minFlightLevel * 100,
+      SCREENING_LIMITS.maxFlightLevel * 100,
+      'ft (FL0-FL660)',
+    ).optional(),
   })
   .superRefine((p, ctx) => {
     if (p.flightLevel !== undefined && p.pressureAltitudeFt !== undefined) {
-      ctx.addIssue({ code: 'custom', path: ['pressureAltitudeFt'], message: 'Give the flight level or the pressure altitude, not both.' });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['pressureAltitudeFt'],
+        message: 'Give the flight level or the pressure altitude, not both.',
+      });
     }
   });
 
 function greatCircleM(lat1: number, lon1: number, lat2: number, lon2: number): number {
   const r = Math.PI / 180;
-  const h = Math.sin(((lat2 - lat1) * r) / 2) ** 2 + Math.cos(lat1 * r) * Math.cos(lat2 * r) * Math.sin(((lon2 - lon1) * r) / 2) ** 2;
+  const h =
+    Math.sin(((lat2 - lat1) * r) / 2) ** 2 +
+    Math.cos(lat1 * r) * Math.cos(lat2 * r) * Math.sin(((lon2 - lon1) * r) / 2) ** 2;
   return 2 * 6_371_008.8 * Math.asin(Math.min(1, Math.sqrt(h)));
 }
 
@@ -577,12 +606,18 @@ export const trackRouteSchema = z.strictObject({
       points: z
         .array(trackPointSchema, { error: 'The track points must be a list.' })
         .min(SCREENING_LIMITS.minTrackPoints, { error: 'A track needs at least 2 points.' })
-        .max(SCREENING_LIMITS.maxTrackPoints, { error: `A track may have at most ${SCREENING_LIMITS.maxTrackPoints} points.` })
+        .max(SCREENING_LIMITS.maxTrackPoints, {
+          error: `A track may have at most ${SCREENING_LIMITS.maxTrackPoints} points.`,
+        })
         .superRefine((points, ctx) => {
           const timed = points.filter((p) => p.time !== undefined).length;
           if (timed > 0 && timed < points.length) {
             const i = points.findIndex((p) => p.time === undefined);
-            ctx.addIssue({ code: 'custom', path: [i, 'time'], message: 'Give a time on every point of the track, or on none.' });
+            ctx.addIssue({
+              code: 'custom',
+              path: [i, 'time'],
+              message: 'Give a time on every point of the track, or on none.',
+            });
             return;
           }
           if (timed === 0) return;
@@ -593,13 +628,21 @@ export const trackRouteSchema = z.strictObject({
             const t1 = Date.parse(points[i].time ?? '');
             if (!Number.isFinite(t0) || !Number.isFinite(t1)) continue;
             if (t1 < t0) {
-              ctx.addIssue({ code: 'custom', path: [i, 'time'], message: 'Time runs backwards here: the points of a track must be in time order.' });
+              ctx.addIssue({
+                code: 'custom',
+                path: [i, 'time'],
+                message: 'Time runs backwards here: the points of a track must be in time order.',
+              });
               reported++;
               continue;
             }
             const d = greatCircleM(points[i - 1].lat, points[i - 1].lon, points[i].lat, points[i].lon);
-            if (d > maxMs * Math.max(t1 - t0, 0) / 1000 && d > 1) {
-              ctx.addIssue({ code: 'custom', path: [i], message: `This point is ${(d / 1000).toFixed(0)} km from the one before in ${((t1 - t0) / 1000).toFixed(0)} s: faster than Mach ${SCREENING_LIMITS.maxTrackMach}. Check its position and time.` });
+            if (d > (maxMs * Math.max(t1 - t0, 0)) / 1000 && d > 1) {
+              ctx.addIssue({
+                code: 'custom',
+                path: [i],
+                message: `This point is ${(d / 1000).toFixed(0)} km from the one before in ${((t1 - t0) / 1000).toFixed(0)} s: faster than Mach ${SCREENING_LIMITS.maxTrackMach}. Check its position and time.`,
+              });
               reported++;
             }
           }
@@ -611,7 +654,8 @@ export const trackRouteSchema = z.strictObject({
 
 /** The route: `{ waypoints }`, `{ flightPlan: { text, from, to } }` or `{ track: { points } }`. */
 export const routeSchema = z.union([waypointsRouteSchema, flightPlanRouteSchema, trackRouteSchema], {
-  error: 'The route is required, as { waypoints: [...] }, { flightPlan: { text, from, to } } or { track: { points: [...] } }.',
+  error:
+    'The route is required, as { waypoints: [...] }, { flightPlan: { text, from, to } } or { track: { points: [...] } }.',
 });
 
 function isRealDate(s: string): boolean {
@@ -628,22 +672,25 @@ function isRealDate(s: string): boolean {
  * 0.80), cruise fuel (kg, 1-500 000), emission, month (1-12) or flight date (YYYY-MM-DD, UTC),
  * optional tropopause override and assumption overrides. Client-safe (no Node imports).
  */
-export const screeningInputSchema = z.object({
-  route: routeSchema,
-  cruise: cruiseSchema,
-  mach: between('The Mach number', SCREENING_LIMITS.minMach, SCREENING_LIMITS.maxMach, '').optional(),
-  fuelBurnKg: between('The fuel burn', SCREENING_LIMITS.minFuelKg, SCREENING_LIMITS.maxFuelKg, 'kg'),
-  emission: emissionSchema,
-  month: wholeBetween('The month', 1, 12, '').optional(),
-  flightDate: z
-    .string({ error: 'The flight date must be text as YYYY-MM-DD.' })
-    .regex(/^\d{4}-\d{2}-\d{2}$/, { error: 'The flight date must be written YYYY-MM-DD.' })
-    .refine(isRealDate, { error: 'The flight date is not a real calendar date.' })
-    .optional(),
-  tropopause: tropopauseOverrideSchema.optional(),
-  assumptions: assumptionsSchema.optional(),
-  uncertainty: uncertaintyOptionsSchema.optional(),
-}, { error: 'The screening input must be an object.' });
+export const screeningInputSchema = z.object(
+  {
+    route: routeSchema,
+    cruise: cruiseSchema,
+    mach: between('The Mach number', SCREENING_LIMITS.minMach, SCREENING_LIMITS.maxMach, '').optional(),
+    fuelBurnKg: between('The fuel burn', SCREENING_LIMITS.minFuelKg, SCREENING_LIMITS.maxFuelKg, 'kg'),
+    emission: emissionSchema,
+    month: wholeBetween('The month', 1, 12, '').optional(),
+    flightDate: z
+      .string({ error: 'The flight date must be text as YYYY-MM-DD.' })
+      .regex(/^\d{4}-\d{2}-\d{2}$/, { error: 'The flight date must be written YYYY-MM-DD.' })
+      .refine(isRealDate, { error: 'The flight date is not a real calendar date.' })
+      .optional(),
+    tropopause: tropopauseOverrideSchema.optional(),
+    assumptions: assumptionsSchema.optional(),
+    uncertainty: uncertaintyOptionsSchema.optional(),
+  },
+  { error: 'The screening input must be an object.' },
+);
 
 /** A validated screening input (the schema's output). */
 export type ScreeningInput = z.output<typeof screeningInputSchema>;
@@ -689,7 +736,9 @@ export const compareCruiseLevelsOptionsSchema = z.strictObject({
   fuelPenaltyPctPer1000Ft: between('The fuel penalty', 0, 10, '% per 1000 ft').optional(),
   maxFuelPenaltyPct: between('The fuel-penalty limit', 0, 50, '%').optional(),
   minimise: z
-    .enum(['nox-above-tropopause', 'ozone-figure'], { error: 'What to minimise must be nox-above-tropopause or ozone-figure.' })
+    .enum(['nox-above-tropopause', 'ozone-figure'], {
+      error: 'What to minimise must be nox-above-tropopause or ozone-figure.',
+    })
     .optional(),
 });
 /** `compareCruiseLevels` options as a client sends them. */

@@ -3,12 +3,20 @@ import { API_KEY_ROLES, ROLES } from '@/lib/auth/policy';
 import { hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE } from './display-text';
 
 export const workspaceCreateSchema = z.object({
-  name: z.string({ error: 'Enter a name.' }).trim().min(2, 'Use at least 2 characters.').max(120, 'Use at most 120 characters.').refine(hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE),
+  name: z
+    .string({ error: 'Enter a name.' })
+    .trim()
+    .min(2, 'Use at least 2 characters.')
+    .max(120, 'Use at most 120 characters.')
+    .refine(hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE),
   slug: z
     .string()
     .trim()
     .toLowerCase()
-    .regex(/^[a-z0-9](?:[a-z0-9-]{0,46}[a-z0-9])?$/, 'Use lower-case letters, digits and dashes (2-48), not starting or ending with a dash.')
+    .regex(
+      /^[a-z0-9](?:[a-z0-9-]{0,46}[a-z0-9])?$/,
+      'Use lower-case letters, digits and dashes (2-48), not starting or ending with a dash.',
+    )
     .optional()
     .or(z.literal('').transform(() => undefined)),
 });
@@ -25,7 +33,12 @@ export const memberRoleSchema = z.object({
 });
 
 export const apiKeyCreateSchema = z.object({
-  name: z.string({ error: 'Name the key.' }).trim().min(1, 'Name the key.').max(80, 'Use at most 80 characters.').refine(hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE),
+  name: z
+    .string({ error: 'Name the key.' })
+    .trim()
+    .min(1, 'Name the key.')
+    .max(80, 'Use at most 80 characters.')
+    .refine(hasNoHiddenCharacters, HIDDEN_CHARACTERS_MESSAGE),
   role: z.enum(API_KEY_ROLES, { error: 'A key can be planner, analyst or viewer.' }).default('planner'),
 });
 export type ApiKeyCreateInput = z.infer<typeof apiKeyCreateSchema>;

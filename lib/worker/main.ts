@@ -18,11 +18,23 @@ import { log } from '@/lib/log';
 
 async function main(): Promise<void> {
   const e = env();
-  if (!e.IMPORT_WORKER && !e.BILLING_SENDER) throw new Error('IMPORT_WORKER=0 and BILLING_SENDER=0 leave this worker nothing to do.');
+  if (!e.IMPORT_WORKER && !e.BILLING_SENDER)
+    throw new Error('IMPORT_WORKER=0 and BILLING_SENDER=0 leave this worker nothing to do.');
   if (e.IMPORT_WORKER) startImportWorker();
   if (e.BILLING_SENDER) startBillingLoop();
-  log.info({ event: 'worker.started', pid: process.pid, imports: e.IMPORT_WORKER, usage: e.BILLING_SENDER, screeningThreads: screeningThreads() }, 'worker started');
-  console.log(`worker ${process.pid} started (imports: ${e.IMPORT_WORKER ? 'yes' : 'no'}, usage sending: ${e.BILLING_SENDER ? 'yes' : 'no'})`);
+  log.info(
+    {
+      event: 'worker.started',
+      pid: process.pid,
+      imports: e.IMPORT_WORKER,
+      usage: e.BILLING_SENDER,
+      screeningThreads: screeningThreads(),
+    },
+    'worker started',
+  );
+  console.log(
+    `worker ${process.pid} started (imports: ${e.IMPORT_WORKER ? 'yes' : 'no'}, usage sending: ${e.BILLING_SENDER ? 'yes' : 'no'})`,
+  );
 
   let stopping = false;
   const stop = async (signal: NodeJS.Signals) => {

@@ -28,14 +28,64 @@ const FLIGHTS = Number(process.argv[2] ?? 100_000);
 const SEED = 20_261_201;
 
 const AIRPORTS = [
-  'EGLL', 'KJFK', 'LFPG', 'EDDF', 'EHAM', 'LEMD', 'LIRF', 'OMDB', 'OTHH', 'VHHH', 'RJTT', 'RKSI', 'WSSS',
-  'YSSY', 'NZAA', 'KLAX', 'KSFO', 'KORD', 'KATL', 'KDFW', 'CYYZ', 'CYVR', 'SBGR', 'SAEZ', 'SCEL', 'MMMX',
-  'FAOR', 'HECA', 'DNMM', 'VIDP', 'VABB', 'ZBAA', 'ZSPD', 'PANC', 'BIKF', 'ENGM', 'EFHK', 'LTFM', 'OERK',
-  'WMKK', 'VTBS', 'RPLL', 'PHNL', 'KSEA', 'KMIA', 'LPPT', 'LSZH', 'EKCH', 'UUEE', 'HKJK',
+  'EGLL',
+  'KJFK',
+  'LFPG',
+  'EDDF',
+  'EHAM',
+  'LEMD',
+  'LIRF',
+  'OMDB',
+  'OTHH',
+  'VHHH',
+  'RJTT',
+  'RKSI',
+  'WSSS',
+  'YSSY',
+  'NZAA',
+  'KLAX',
+  'KSFO',
+  'KORD',
+  'KATL',
+  'KDFW',
+  'CYYZ',
+  'CYVR',
+  'SBGR',
+  'SAEZ',
+  'SCEL',
+  'MMMX',
+  'FAOR',
+  'HECA',
+  'DNMM',
+  'VIDP',
+  'VABB',
+  'ZBAA',
+  'ZSPD',
+  'PANC',
+  'BIKF',
+  'ENGM',
+  'EFHK',
+  'LTFM',
+  'OERK',
+  'WMKK',
+  'VTBS',
+  'RPLL',
+  'PHNL',
+  'KSEA',
+  'KMIA',
+  'LPPT',
+  'LSZH',
+  'EKCH',
+  'UUEE',
+  'HKJK',
 ];
 
 // Invented engines with plausible certification values (demo data, not real engines).
-const ENGINES: { fuelFlowKgS: [number, number, number, number]; eiNoxGPerKg: [number, number, number, number]; count: number }[] = [
+const ENGINES: {
+  fuelFlowKgS: [number, number, number, number];
+  eiNoxGPerKg: [number, number, number, number];
+  count: number;
+}[] = [
   { fuelFlowKgS: [0.1, 0.32, 0.98, 1.2], eiNoxGPerKg: [4.6, 10.2, 22.4, 28.1], count: 2 },
   { fuelFlowKgS: [0.19, 0.6, 1.85, 2.3], eiNoxGPerKg: [5.1, 11.8, 29.5, 38.2], count: 2 },
   { fuelFlowKgS: [0.24, 0.72, 2.2, 2.8], eiNoxGPerKg: [5.5, 12.6, 33.0, 43.5], count: 2 },
@@ -53,11 +103,13 @@ function haversineKm(a: { lat: number; lon: number }, b: { lat: number; lon: num
 function schedule(n: number): ScreeningInputRaw[] {
   const rnd = seededRandom(SEED);
   const pick = <T>(xs: readonly T[]): T => xs[Math.floor(rnd() * xs.length)];
-  const coords = new Map(AIRPORTS.map((c) => {
-    const a = findAirport(c);
-    if (a === null) throw new Error(`bench airport ${c} missing`);
-    return [c, { lat: a.lat, lon: a.lon }] as const;
-  }));
+  const coords = new Map(
+    AIRPORTS.map((c) => {
+      const a = findAirport(c);
+      if (a === null) throw new Error(`bench airport ${c} missing`);
+      return [c, { lat: a.lat, lon: a.lon }] as const;
+    }),
+  );
   const out: ScreeningInputRaw[] = [];
   while (out.length < n) {
     const supersonic = rnd() < 0.02;
@@ -72,7 +124,10 @@ function schedule(n: number): ScreeningInputRaw[] {
       const b = coords.get(d)!;
       waypoints.push({
         lat: Math.max(-89, Math.min(89, (a.lat + b.lat) / 2 + (rnd() - 0.5) * 4)),
-        lon: Math.abs(a.lon - b.lon) < 180 ? (a.lon + b.lon) / 2 + (rnd() - 0.5) * 4 : ((a.lon + b.lon) / 2 + 180) % 360 - 180,
+        lon:
+          Math.abs(a.lon - b.lon) < 180
+            ? (a.lon + b.lon) / 2 + (rnd() - 0.5) * 4
+            : (((a.lon + b.lon) / 2 + 180) % 360) - 180,
       });
     }
     waypoints.push({ airport: d });
@@ -154,7 +209,11 @@ function prepareFloor(inputs: readonly ScreeningInput[]): FloorData {
       f.month !== undefined
         ? MID_MONTH_DAY_OF_YEAR[f.month - 1]
         : f.flightDate !== undefined
-          ? (Date.UTC(Number(f.flightDate.slice(0, 4)), Number(f.flightDate.slice(5, 7)) - 1, Number(f.flightDate.slice(8, 10))) -
+          ? (Date.UTC(
+              Number(f.flightDate.slice(0, 4)),
+              Number(f.flightDate.slice(5, 7)) - 1,
+              Number(f.flightDate.slice(8, 10)),
+            ) -
               Date.UTC(Number(f.flightDate.slice(0, 4)), 0, 1)) /
               86_400_000 +
             1
@@ -175,7 +234,10 @@ function prepareFloor(inputs: readonly ScreeningInput[]): FloorData {
       const p1 = lat[i] * DEG;
       const p2 = lat[i + 1] * DEG;
       const dl = (lon[i + 1] - lon[i]) * DEG;
-      const brg = Math.atan2(Math.sin(dl) * Math.cos(p2), Math.cos(p1) * Math.sin(p2) - Math.sin(p1) * Math.cos(p2) * Math.cos(dl));
+      const brg = Math.atan2(
+        Math.sin(dl) * Math.cos(p2),
+        Math.cos(p1) * Math.sin(p2) - Math.sin(p1) * Math.cos(p2) * Math.cos(dl),
+      );
       c.push(plan.legKm[i], plan.legStartKm[i], Math.sin(p1), Math.cos(p1), lon[i] * DEG, Math.sin(brg), Math.cos(brg));
     }
     for (const s of steps) c.push(s.fromKm, s.flightLevel * 30.48);

@@ -12,7 +12,10 @@ import { screenValidated, validateScreeningInput } from '../../lib/screening/ind
 
 const FLIGHTS = Number(process.argv[2] ?? 100_000);
 const DISTINCT = 500;
-const ENGINE = { fuelFlowKgS: [0.2, 0.6, 1.8, 2.2] as [number, number, number, number], eiNoxGPerKg: [5, 12, 28, 36] as [number, number, number, number] };
+const ENGINE = {
+  fuelFlowKgS: [0.2, 0.6, 1.8, 2.2] as [number, number, number, number],
+  eiNoxGPerKg: [5, 12, 28, 36] as [number, number, number, number],
+};
 
 const rnd = mulberry32(20_261_203);
 const comps: FlightComponents[] = [];
@@ -22,7 +25,12 @@ while (comps.length < DISTINCT) {
   const lat = (rnd() < 0.7 ? 1 : -1) * (25 + rnd() * 45);
   const lon = -170 + rnd() * 270;
   const input = validateScreeningInput({
-    route: { waypoints: [{ lat, lon }, { lat: lat + (rnd() - 0.5) * 10, lon: lon + 10 + rnd() * 60 }] },
+    route: {
+      waypoints: [
+        { lat, lon },
+        { lat: lat + (rnd() - 0.5) * 10, lon: lon + 10 + rnd() * 60 },
+      ],
+    },
     cruise: { flightLevel: 300 + Math.floor(rnd() * 13) * 10 },
     fuelBurnKg: 8000 + rnd() * 60_000,
     emission: rnd() < 0.5 ? { eiNoxGPerKg: 10 + rnd() * 10 } : { engine: ENGINE, engineCount: 2 },
@@ -45,6 +53,12 @@ sampleFleet(fleet.slice(0, 1000), { samples: 50 });
 const t = performance.now();
 const r = sampleFleet(fleet, { samples: 400 });
 const s = (performance.now() - t) / 1000;
-console.log(`fleet percentiles: ${FLIGHTS} flights (${DISTINCT} distinct, repeated), 400 samples: ${s.toFixed(2)} s (target under 10 s)`);
-console.log(`  components per flight ${(compMs / DISTINCT).toFixed(2)} ms beside its full screening ${(screenMs / DISTINCT).toFixed(2)} ms; about ${((FLIGHTS * 61 * 2 + FLIGHTS * 9) * 4) / 1e6} MB of components`);
-console.log(`  ozone figure p5 ${(r.ozoneLossKg.p5 / 1000).toFixed(0)} t, p50 ${(r.ozoneLossKg.p50 / 1000).toFixed(0)} t, p95 ${(r.ozoneLossKg.p95 / 1000).toFixed(0)} t`);
+console.log(
+  `fleet percentiles: ${FLIGHTS} flights (${DISTINCT} distinct, repeated), 400 samples: ${s.toFixed(2)} s (target under 10 s)`,
+);
+console.log(
+  `  components per flight ${(compMs / DISTINCT).toFixed(2)} ms beside its full screening ${(screenMs / DISTINCT).toFixed(2)} ms; about ${((FLIGHTS * 61 * 2 + FLIGHTS * 9) * 4) / 1e6} MB of components`,
+);
+console.log(
+  `  ozone figure p5 ${(r.ozoneLossKg.p5 / 1000).toFixed(0)} t, p50 ${(r.ozoneLossKg.p50 / 1000).toFixed(0)} t, p95 ${(r.ozoneLossKg.p95 / 1000).toFixed(0)} t`,
+);

@@ -15,7 +15,8 @@ for (let i = 0; i < 2000; i++) {
   fixes.push({ name, lat: 40 + (i % 40), lon: -60 + Math.floor(i / 40) });
 }
 const airways: FlightPlanAirway[] = [];
-for (let a = 0; a < 200; a++) airways.push({ name: `UQ${a + 1}`, fixes: fixes.slice(a * 10, a * 10 + 10).map((f) => f.name) });
+for (let a = 0; a < 200; a++)
+  airways.push({ name: `UQ${a + 1}`, fixes: fixes.slice(a * 10, a * 10 + 10).map((f) => f.name) });
 
 // 200 items: the speed/level group, then repeating [fix, airway, fix, DCT, coordinate/change].
 const items = ['M084F350'];
@@ -24,7 +25,10 @@ while (items.length < 200) {
   const a = k % 200;
   const seq = airways[a].fixes;
   items.push(seq[0], airways[a].name, seq[6], 'DCT');
-  items.push(`${50 + (k % 30)}${k % 2 ? 30 : 15}N0${20 + (k % 40)}00W${k % 3 === 0 ? `/M084F${350 + (k % 4) * 20}` : ''}`, 'DCT');
+  items.push(
+    `${50 + (k % 30)}${k % 2 ? 30 : 15}N0${20 + (k % 40)}00W${k % 3 === 0 ? `/M084F${350 + (k % 4) * 20}` : ''}`,
+    'DCT',
+  );
   k++;
 }
 const text = items.slice(0, 200).join(' ');

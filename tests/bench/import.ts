@@ -40,7 +40,10 @@ function schedule(rows: number): string {
     const day = String(1 + (i % 30)).padStart(2, '0');
     const fl = 330 + 10 * Math.floor(rnd() * 5);
     const fuel = Math.round(38_000 + rnd() * 22_000);
-    const steps = rnd() < 0.3 ? `${fl}@0 ${fl + 20}@${Math.round(2000 + rnd() * 1500)} ${Math.min(410, fl + 40)}@${Math.round(5000 + rnd() * 1500)}` : '';
+    const steps =
+      rnd() < 0.3
+        ? `${fl}@0 ${fl + 20}@${Math.round(2000 + rnd() * 1500)} ${Math.min(410, fl + 40)}@${Math.round(5000 + rnd() * 1500)}`
+        : '';
     lines.push(`2026-10-${day},BN${i},${o},${d},${rnd() < 0.5 ? 'SK-LR1' : 'SK-LR2'},${fl},${fuel},${steps}`);
   }
   return lines.join('\r\n') + '\r\n';
@@ -85,16 +88,25 @@ async function waitFor(url: string, child: ChildProcess, seconds = 60): Promise<
 
 async function main(): Promise<void> {
   if (process.env.TROPOPASS_BENCH_LOCKED !== '1') {
-    const r = spawnSync('flock', [LOCK, process.execPath, '--import', 'tsx', path.join('tests', 'bench', 'import.ts'), ...process.argv.slice(2)], {
-      cwd: root,
-      env: { ...process.env, TROPOPASS_BENCH_LOCKED: '1' },
-      stdio: 'inherit',
-    });
+    const r = spawnSync(
+      'flock',
+      [LOCK, process.execPath, '--import', 'tsx', path.join('tests', 'bench', 'import.ts'), ...process.argv.slice(2)],
+      {
+        cwd: root,
+        env: { ...process.env, TROPOPASS_BENCH_LOCKED: '1' },
+        stdio: 'inherit',
+      },
+    );
     process.exit(r.status ?? 1);
   }
   if (process.env.BENCH_SKIP_BUILD !== '1' || !hasBenchBuild(root)) {
     console.log(`building the app into ${BENCH_DIST_DIR} (BENCH_SKIP_BUILD=1 reuses that build)…`);
-    run(process.execPath, ['node_modules/next/dist/bin/next', 'build'], benchNextEnv({ ...process.env, NODE_ENV: 'production' }), 'next build');
+    run(
+      process.execPath,
+      ['node_modules/next/dist/bin/next', 'build'],
+      benchNextEnv({ ...process.env, NODE_ENV: 'production' }),
+      'next build',
+    );
   }
   const work = fs.mkdtempSync(path.join(os.tmpdir(), 'tropopass-bench-'));
   const port = await freePort();
@@ -119,18 +131,28 @@ async function main(): Promise<void> {
   run(process.execPath, [...knexCli, 'seed:run'], env, 'seed');
 
   const conn = new Database(dbFile);
-  const analyst = conn.prepare("select id, session_version from users where email = 'analyst@tropopass.test'").get() as { id: number; session_version: number };
+  const analyst = conn
+    .prepare("select id, session_version from users where email = 'analyst@tropopass.test'")
+    .get() as { id: number; session_version: number };
   const workspace = conn.prepare("select id from workspaces where slug = 'skarn-polar'").get() as { id: number };
   const sid = `bench-${process.pid}-${Date.now()}`;
-  conn.prepare('insert into auth_sessions (id, user_id, created_at, expires_at) values (?, ?, ?, ?)').run(sid, analyst.id, new Date().toISOString(), new Date(Date.now() + 12 * 3_600_000).toISOString());
+  conn
+    .prepare('insert into auth_sessions (id, user_id, created_at, expires_at) values (?, ?, ?, ?)')
+    .run(sid, analyst.id, new Date().toISOString(), new Date(Date.now() + 12 * 3_600_000).toISOString());
   const cookie = `next-auth.session-token=${await encode({ token: { uid: analyst.id, sv: Number(analyst.session_version), authAt: Date.now(), sid }, secret: SECRET })}`;
 
   const csv = schedule(ROWS);
   const bytes = Buffer.byteLength(csv);
   console.log(`Tropopass import benchmark (Node ${process.version}, ${os.cpus().length} cores)`);
-  console.log(`file                       ${ROWS} rows, ${(bytes / 1024 / 1024).toFixed(2)} MB, sha256 ${createHash('sha256').update(csv).digest('hex').slice(0, 12)}…`);
+  console.log(
+    `file                       ${ROWS} rows, ${(bytes / 1024 / 1024).toFixed(2)} MB, sha256 ${createHash('sha256').update(csv).digest('hex').slice(0, 12)}…`,
+  );
 
-  const server = spawn(process.execPath, ['node_modules/next/dist/bin/next', 'start', '-H', '127.0.0.1', '-p', String(port)], { cwd: root, env, stdio: ['ignore', 'inherit', 'inherit'], detached: true });
+  const server = spawn(
+    process.execPath,
+    ['node_modules/next/dist/bin/next', 'start', '-H', '127.0.0.1', '-p', String(port)],
+    { cwd: root, env, stdio: ['ignore', 'inherit', 'inherit'], detached: true },
+  );
   let peakKb = 0;
   let sampler: NodeJS.Timeout | undefined;
   try {
@@ -143,17 +165,24 @@ async function main(): Promise<void> {
     const form = new FormData();
     form.set('file', new File([csv], 'bench-schedule.csv', { type: 'text/csv' }));
     const t0 = performance.now();
-    const res = await fetch(`${baseUrl}/api/v1/workspaces/skarn-polar/imports`, { method: 'POST', headers: { cookie }, body: form });
+    const res = await fetch(`${baseUrl}/api/v1/workspaces/skarn-polar/imports`, {
+      method: 'POST',
+      headers: { cookie },
+      body: form,
+    });
     const t1 = performance.now();
     const acceptPeakKb = Math.max(peakKb, groupRssKb(server.pid ?? 0));
     const accepted = (await res.json()) as { id?: number; status?: string; error?: { message: string } };
-    if (res.status !== 202 || !accepted.id) throw new Error(`upload refused (${res.status}): ${JSON.stringify(accepted).slice(0, 500)}`);
+    if (res.status !== 202 || !accepted.id)
+      throw new Error(`upload refused (${res.status}): ${JSON.stringify(accepted).slice(0, 500)}`);
 
     let status = accepted.status;
     let maxRate = 0;
     while (status !== 'complete' && status !== 'failed') {
       await new Promise((r) => setTimeout(r, 250));
-      const p = (await (await fetch(`${baseUrl}/api/v1/workspaces/skarn-polar/imports/${accepted.id}`, { headers: { cookie } })).json()) as { status: string; rowsPerSecond: number | null };
+      const p = (await (
+        await fetch(`${baseUrl}/api/v1/workspaces/skarn-polar/imports/${accepted.id}`, { headers: { cookie } })
+      ).json()) as { status: string; rowsPerSecond: number | null };
       status = p.status;
       if (p.rowsPerSecond) maxRate = Math.max(maxRate, p.rowsPerSecond);
       if (performance.now() - t0 > 600_000) throw new Error('the import did not finish within 10 minutes');
@@ -162,17 +191,34 @@ async function main(): Promise<void> {
     clearInterval(sampler);
     peakKb = Math.max(peakKb, groupRssKb(server.pid ?? 0));
 
-    const screened = (conn.prepare("select count(*) as n from flights where import_id = ? and status = 'screened'").get(accepted.id) as { n: number }).n;
-    const units = (conn.prepare("select count(*) as n from usage_events u join flights f on f.id = u.source_id where u.kind = 'imported_flight' and f.import_id = ? and u.workspace_id = ?").get(accepted.id, workspace.id) as { n: number }).n;
+    const screened = (
+      conn
+        .prepare("select count(*) as n from flights where import_id = ? and status = 'screened'")
+        .get(accepted.id) as { n: number }
+    ).n;
+    const units = (
+      conn
+        .prepare(
+          "select count(*) as n from usage_events u join flights f on f.id = u.source_id where u.kind = 'imported_flight' and f.import_id = ? and u.workspace_id = ?",
+        )
+        .get(accepted.id, workspace.id) as { n: number }
+    ).n;
     const accept = (t1 - t0) / 1000;
     const screen = (t2 - t1) / 1000;
     const total = (t2 - t0) / 1000;
     console.log(`validate + import (202)    ${accept.toFixed(2)} s  (${Math.round(ROWS / accept)} rows/s)`);
-    console.log(`screening (worker)         ${screen.toFixed(2)} s  (${Math.round(ROWS / screen)} rows/s; the import reported up to ${Math.round(maxRate)} rows/s)`);
-    console.log(`end to end                 ${total.toFixed(2)} s  (${Math.round(ROWS / total)} rows/s)  target < 30 s`);
-    console.log(`server RSS                 idle ${Math.round(idleKb / 1024)} MB, peak ${Math.round(peakKb / 1024)} MB (up to the 202: ${Math.round(acceptPeakKb / 1024)} MB; process group, sampled every 100 ms)  target < 600 MB`);
+    console.log(
+      `screening (worker)         ${screen.toFixed(2)} s  (${Math.round(ROWS / screen)} rows/s; the import reported up to ${Math.round(maxRate)} rows/s)`,
+    );
+    console.log(
+      `end to end                 ${total.toFixed(2)} s  (${Math.round(ROWS / total)} rows/s)  target < 30 s`,
+    );
+    console.log(
+      `server RSS                 idle ${Math.round(idleKb / 1024)} MB, peak ${Math.round(peakKb / 1024)} MB (up to the 202: ${Math.round(acceptPeakKb / 1024)} MB; process group, sampled every 100 ms)  target < 600 MB`,
+    );
     console.log(`checks                     status ${status}, ${screened} flights screened, ${units} usage units`);
-    if (status !== 'complete' || screened !== ROWS || units !== ROWS) throw new Error('the import did not screen and bill every row exactly once');
+    if (status !== 'complete' || screened !== ROWS || units !== ROWS)
+      throw new Error('the import did not screen and bill every row exactly once');
   } finally {
     if (sampler) clearInterval(sampler);
     conn.close();

@@ -17,7 +17,16 @@ import { createRequire } from 'node:module';
 import fs from 'node:fs';
 import os from 'node:os';
 import Database from 'better-sqlite3';
-import { appEnv, build, hasBuild, insertApiKey, prepareDatabase, reexecUnderLock, startApp, tempDir } from '../soak/app-process';
+import {
+  appEnv,
+  build,
+  hasBuild,
+  insertApiKey,
+  prepareDatabase,
+  reexecUnderLock,
+  startApp,
+  tempDir,
+} from '../soak/app-process';
 import { freePort } from '../support/free-port';
 import { BENCH_DIST_DIR, benchNextEnv } from './dist-dir';
 
@@ -46,14 +55,22 @@ const SLUG = 'skarn-polar';
 const FEW = Number(process.env.BENCH_FEW_CONNECTIONS ?? 4);
 const IMPORT_ROWS = Number(process.env.BENCH_IMPORT_ROWS ?? 100_000);
 const IMPORT_SECONDS = Number(process.env.BENCH_IMPORT_SECONDS ?? 10);
-const PAIRS = [['EGLL', 'KJFK'], ['EFHK', 'RJTT'], ['ENGM', 'KSEA'], ['BIKF', 'CYYZ'], ['EKCH', 'PANC']];
+const PAIRS = [
+  ['EGLL', 'KJFK'],
+  ['EFHK', 'RJTT'],
+  ['ENGM', 'KSEA'],
+  ['BIKF', 'CYYZ'],
+  ['EKCH', 'PANC'],
+];
 
 /** `rows` distinct flights of the demo type SK-LR1, dated in October 2026. */
 function schedule(rows: number): string {
   const lines = ['date,flight,origin,destination,aircraft,cruise_fl,fuel_kg'];
   for (let i = 0; i < rows; i++) {
     const [o, d] = PAIRS[i % PAIRS.length];
-    lines.push(`2026-10-${String(1 + (i % 30)).padStart(2, '0')},LD${i},${o},${d},SK-LR1,${330 + (i % 5) * 10},${40_000 + (i % 11) * 1000}`);
+    lines.push(
+      `2026-10-${String(1 + (i % 30)).padStart(2, '0')},LD${i},${o},${d},SK-LR1,${330 + (i % 5) * 10},${40_000 + (i % 11) * 1000}`,
+    );
   }
   return lines.join('\n');
 }
@@ -72,14 +89,31 @@ interface ImportRun {
  * (measured once the worker has started on it, for IMPORT_SECONDS each).
  */
 async function previewDuringImport(base: string, auth: Record<string, string>): Promise<ImportRun> {
-  const preview = { url: `${base}/api/v1/workspaces/${SLUG}/screenings/preview`, method: 'POST', headers: auth, body: JSON.stringify(FLIGHT), connections: FEW, duration: IMPORT_SECONDS };
+  const preview = {
+    url: `${base}/api/v1/workspaces/${SLUG}/screenings/preview`,
+    method: 'POST',
+    headers: auth,
+    body: JSON.stringify(FLIGHT),
+    connections: FEW,
+    duration: IMPORT_SECONDS,
+  };
   const idle = await measure(`preview at ${FEW} connections, idle`, preview);
   const form = new FormData();
   form.set('file', new Blob([schedule(IMPORT_ROWS)], { type: 'text/csv' }), 'load.csv');
-  const up = await fetch(`${base}/api/v1/workspaces/${SLUG}/imports`, { method: 'POST', headers: { authorization: auth.authorization }, body: form });
+  const up = await fetch(`${base}/api/v1/workspaces/${SLUG}/imports`, {
+    method: 'POST',
+    headers: { authorization: auth.authorization },
+    body: form,
+  });
   const body = (await up.json()) as { id?: number };
-  if (up.status !== 202 || typeof body.id !== 'number') throw new Error(`import upload: ${up.status} ${JSON.stringify(body).slice(0, 300)}`);
-  const status = async () => (await (await fetch(`${base}/api/v1/workspaces/${SLUG}/imports/${body.id}`, { headers: auth })).json()) as { status: string; rows: number; rowsDone: number };
+  if (up.status !== 202 || typeof body.id !== 'number')
+    throw new Error(`import upload: ${up.status} ${JSON.stringify(body).slice(0, 300)}`);
+  const status = async () =>
+    (await (await fetch(`${base}/api/v1/workspaces/${SLUG}/imports/${body.id}`, { headers: auth })).json()) as {
+      status: string;
+      rows: number;
+      rowsDone: number;
+    };
   const until = Date.now() + 120_000;
   let before = await status();
   while (before.rowsDone === 0 && before.status !== 'complete' && Date.now() < until) {
@@ -88,7 +122,14 @@ async function previewDuringImport(base: string, auth: Record<string, string>): 
   }
   const during = await measure(`preview at ${FEW} connections, importing`, preview);
   const after = await status();
-  return { idle, during, rowsDoneBefore: before.rowsDone, rowsDoneAfter: after.rowsDone, rows: after.rows, statusAfter: after.status };
+  return {
+    idle,
+    during,
+    rowsDoneBefore: before.rowsDone,
+    rowsDoneAfter: after.rowsDone,
+    rows: after.rows,
+    statusAfter: after.status,
+  };
 }
 
 const FLIGHT = {
@@ -121,12 +162,18 @@ async function measure(name: string, opts: Record<string, unknown>): Promise<Row
     errors: r.errors + r.timeouts,
     non2xx: r.non2xx,
     total,
-    statuses: Object.entries(r.statusCodeStats ?? {}).map(([k, v]) => `${k}:${v.count}`).join(' '),
+    statuses: Object.entries(r.statusCodeStats ?? {})
+      .map(([k, v]) => `${k}:${v.count}`)
+      .join(' '),
   };
 }
 
 /** One client's previews with sampling and the month sweep, one after another (issue 12's interactive target). */
-async function sequentialPreviews(url: string, headers: Record<string, string>, n = 200): Promise<{ p50: number; p95: number; n: number }> {
+async function sequentialPreviews(
+  url: string,
+  headers: Record<string, string>,
+  n = 200,
+): Promise<{ p50: number; p95: number; n: number }> {
   const body = JSON.stringify({ ...FLIGHT, uncertainty: { samples: 400 }, months: true });
   for (let i = 0; i < 10; i++) await (await fetch(url, { method: 'POST', headers, body })).arrayBuffer();
   const ms: number[] = [];
@@ -161,34 +208,86 @@ async function main(): Promise<number> {
     // Warm up each route (first requests load and compile the route's modules).
     for (let i = 0; i < 20; i++) {
       await fetch(`${base}/api/health`);
-      await fetch(`${base}/api/v1/workspaces/${SLUG}/screenings/preview`, { method: 'POST', headers: auth, body: JSON.stringify(FLIGHT) });
+      await fetch(`${base}/api/v1/workspaces/${SLUG}/screenings/preview`, {
+        method: 'POST',
+        headers: auth,
+        body: JSON.stringify(FLIGHT),
+      });
       await fetch(`${base}/api/v1/workspaces/${SLUG}/screenings?limit=20`, { headers: auth });
     }
-    console.log(`load: ${CONNECTIONS} connections, ${SECONDS} s per route, ${base}; ${os.cpus().length} cores, load average ${os.loadavg().map((l) => l.toFixed(1)).join(' ')} before`);
+    console.log(
+      `load: ${CONNECTIONS} connections, ${SECONDS} s per route, ${base}; ${os.cpus().length} cores, load average ${os
+        .loadavg()
+        .map((l) => l.toFixed(1))
+        .join(' ')} before`,
+    );
     rows.push(await measure('reference GET /api/health', { url: `${base}/api/health` }));
-    rows.push(await measure('preview POST .../screenings/preview', { url: `${base}/api/v1/workspaces/${SLUG}/screenings/preview`, method: 'POST', headers: auth, body: JSON.stringify(FLIGHT) }));
-    rows.push(await measure('save POST .../screenings', { url: `${base}/api/v1/workspaces/${SLUG}/screenings`, method: 'POST', headers: auth, body: JSON.stringify({ ...FLIGHT, name: 'load' }) }));
-    rows.push(await measure('list GET .../screenings?limit=20', { url: `${base}/api/v1/workspaces/${SLUG}/screenings?limit=20`, headers: auth }));
+    rows.push(
+      await measure('preview POST .../screenings/preview', {
+        url: `${base}/api/v1/workspaces/${SLUG}/screenings/preview`,
+        method: 'POST',
+        headers: auth,
+        body: JSON.stringify(FLIGHT),
+      }),
+    );
+    rows.push(
+      await measure('save POST .../screenings', {
+        url: `${base}/api/v1/workspaces/${SLUG}/screenings`,
+        method: 'POST',
+        headers: auth,
+        body: JSON.stringify({ ...FLIGHT, name: 'load' }),
+      }),
+    );
+    rows.push(
+      await measure('list GET .../screenings?limit=20', {
+        url: `${base}/api/v1/workspaces/${SLUG}/screenings?limit=20`,
+        headers: auth,
+      }),
+    );
     // Latency depends on concurrency (Little's law: mean latency = connections / throughput), so the
     // preview is also measured at a planner-like concurrency.
-    rows.push(await measure(`preview at ${FEW} connections`, { url: `${base}/api/v1/workspaces/${SLUG}/screenings/preview`, method: 'POST', headers: auth, body: JSON.stringify(FLIGHT), connections: FEW }));
+    rows.push(
+      await measure(`preview at ${FEW} connections`, {
+        url: `${base}/api/v1/workspaces/${SLUG}/screenings/preview`,
+        method: 'POST',
+        headers: auth,
+        body: JSON.stringify(FLIGHT),
+        connections: FEW,
+      }),
+    );
     sampled = await sequentialPreviews(`${base}/api/v1/workspaces/${SLUG}/screenings/preview`, auth);
     if (IMPORT_ROWS > 0) importRun = await previewDuringImport(base, auth);
   } finally {
     await app.stop();
   }
-  console.log(`load average ${os.loadavg().map((l) => l.toFixed(1)).join(' ')} after (other work on the machine skews every figure)`);
+  console.log(
+    `load average ${os
+      .loadavg()
+      .map((l) => l.toFixed(1))
+      .join(' ')} after (other work on the machine skews every figure)`,
+  );
   const busy = (app.output().match(/SQLITE_BUSY/g) ?? []).length;
   const conn = new Database(file, { readonly: true });
   const saved = (conn.prepare("select count(*) as n from screenings where name = 'load'").get() as { n: number }).n;
-  const units = (conn.prepare("select count(*) as n from usage_events where kind = 'screening' and source_id in (select id from screenings where name = 'load')").get() as { n: number }).n;
+  const units = (
+    conn
+      .prepare(
+        "select count(*) as n from usage_events where kind = 'screening' and source_id in (select id from screenings where name = 'load')",
+      )
+      .get() as { n: number }
+  ).n;
   const integrity = String(conn.pragma('integrity_check', { simple: true }));
   conn.close();
 
   const pad = (s: string, n: number) => s.padEnd(n);
   const num = (v: number, d = 0) => v.toFixed(d).padStart(9);
-  console.log(`\n${pad('route', 38)}${'req/s'.padStart(9)}${'p50 ms'.padStart(9)}${'p99 ms'.padStart(9)}${'errors'.padStart(9)}${'non-2xx'.padStart(9)}  statuses`);
-  for (const r of [...rows, ...(importRun ? [importRun.idle, importRun.during] : [])]) console.log(`${pad(r.name, 38)}${num(r.rps)}${num(r.p50, 1)}${num(r.p99, 1)}${num(r.errors)}${num(r.non2xx)}  ${r.statuses}`);
+  console.log(
+    `\n${pad('route', 38)}${'req/s'.padStart(9)}${'p50 ms'.padStart(9)}${'p99 ms'.padStart(9)}${'errors'.padStart(9)}${'non-2xx'.padStart(9)}  statuses`,
+  );
+  for (const r of [...rows, ...(importRun ? [importRun.idle, importRun.during] : [])])
+    console.log(
+      `${pad(r.name, 38)}${num(r.rps)}${num(r.p50, 1)}${num(r.p99, 1)}${num(r.errors)}${num(r.non2xx)}  ${r.statuses}`,
+    );
   if (importRun) {
     const ratio = importRun.during.p99 / Math.max(importRun.idle.p99, 0.001);
     console.log(
@@ -196,26 +295,51 @@ async function main(): Promise<number> {
         `(rows ${importRun.rowsDoneBefore} -> ${importRun.rowsDoneAfter} during the measurement, import ${importRun.statusAfter} after it); ratio ${ratio.toFixed(2)}`,
     );
   }
-  console.log(`SQLITE_BUSY in server output: ${busy}; saved screenings: ${saved}, their usage units: ${units}; integrity_check: ${integrity}`);
-  console.log(`preview with uncertainty { samples: 400 } and months: true, one client, ${sampled.n} requests one after another: p50 ${sampled.p50.toFixed(1)} ms, p95 ${sampled.p95.toFixed(1)} ms`);
+  console.log(
+    `SQLITE_BUSY in server output: ${busy}; saved screenings: ${saved}, their usage units: ${units}; integrity_check: ${integrity}`,
+  );
+  console.log(
+    `preview with uncertainty { samples: 400 } and months: true, one client, ${sampled.n} requests one after another: p50 ${sampled.p50.toFixed(1)} ms, p95 ${sampled.p95.toFixed(1)} ms`,
+  );
 
   const [ref, preview, save, , fewPreview] = rows;
   const checks: [string, boolean][] = [
-    [`preview >= half the reference (${preview.rps.toFixed(0)} vs ${(ref.rps / 2).toFixed(0)} req/s)`, preview.rps >= ref.rps / 2],
-    [`preview p99 < 50 ms at ${CONNECTIONS} connections (${preview.p99.toFixed(1)} ms; at least ${((CONNECTIONS / 0.05) | 0)} req/s would be needed)`, preview.p99 < 50],
+    [
+      `preview >= half the reference (${preview.rps.toFixed(0)} vs ${(ref.rps / 2).toFixed(0)} req/s)`,
+      preview.rps >= ref.rps / 2,
+    ],
+    [
+      `preview p99 < 50 ms at ${CONNECTIONS} connections (${preview.p99.toFixed(1)} ms; at least ${(CONNECTIONS / 0.05) | 0} req/s would be needed)`,
+      preview.p99 < 50,
+    ],
     [`preview p99 < 50 ms at ${FEW} connections (${fewPreview.p99.toFixed(1)} ms)`, fewPreview.p99 < 50],
     [`save >= 150 req/s (${save.rps.toFixed(0)})`, save.rps >= 150],
-    [`preview with 400 samples and the month sweep p95 < 150 ms with one client (${sampled.p95.toFixed(1)} ms)`, sampled.p95 < 150],
-    [`zero errors and non-2xx (${rows.reduce((a, r) => a + r.errors + r.non2xx, 0)})`, rows.every((r) => r.errors === 0 && r.non2xx === 0)],
+    [
+      `preview with 400 samples and the month sweep p95 < 150 ms with one client (${sampled.p95.toFixed(1)} ms)`,
+      sampled.p95 < 150,
+    ],
+    [
+      `zero errors and non-2xx (${rows.reduce((a, r) => a + r.errors + r.non2xx, 0)})`,
+      rows.every((r) => r.errors === 0 && r.non2xx === 0),
+    ],
     [`one unit per saved screening (${saved} / ${units})`, saved === units],
     [`no SQLITE_BUSY (${busy})`, busy === 0],
   ];
   if (importRun) {
     const ratio = importRun.during.p99 / Math.max(importRun.idle.p99, 0.001);
     const screenedThroughout = importRun.rowsDoneAfter < importRun.rows || importRun.statusAfter !== 'complete';
-    checks.push([`preview p99 at ${FEW} connections during the import within 2 x idle (ratio ${ratio.toFixed(2)})`, ratio <= 2]);
-    checks.push([`the import was still screening when the measurement ended (${importRun.rowsDoneAfter} / ${importRun.rows} rows)`, screenedThroughout]);
-    checks.push([`zero errors during the import run`, importRun.idle.errors + importRun.during.errors + importRun.idle.non2xx + importRun.during.non2xx === 0]);
+    checks.push([
+      `preview p99 at ${FEW} connections during the import within 2 x idle (ratio ${ratio.toFixed(2)})`,
+      ratio <= 2,
+    ]);
+    checks.push([
+      `the import was still screening when the measurement ended (${importRun.rowsDoneAfter} / ${importRun.rows} rows)`,
+      screenedThroughout,
+    ]);
+    checks.push([
+      `zero errors during the import run`,
+      importRun.idle.errors + importRun.during.errors + importRun.idle.non2xx + importRun.during.non2xx === 0,
+    ]);
   }
   console.log('\ntargets:');
   for (const [label, ok] of checks) console.log(`  ${ok ? 'met   ' : 'MISSED'} ${label}`);

@@ -6,7 +6,9 @@ import { spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 
-const benches = ['engine.ts', 'flight-plan.ts', 'track.ts', 'uncertainty.ts', 'fleet-uncertainty.ts', 'import.ts'].map((f) => path.join('tests/bench', f)).filter((f) => fs.existsSync(f));
+const benches = ['engine.ts', 'flight-plan.ts', 'track.ts', 'uncertainty.ts', 'fleet-uncertainty.ts', 'import.ts']
+  .map((f) => path.join('tests/bench', f))
+  .filter((f) => fs.existsSync(f));
 let failed = false;
 for (const file of benches) {
   console.log(`\n=== ${file} ===`);

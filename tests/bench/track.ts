@@ -21,9 +21,19 @@ const points = Array.from({ length: N }, (_, i) => {
   const km = plan.totalKm * f;
   pointOnLeg(plan, 0, km, out);
   const fl = f < 0.05 ? 370 * (f / 0.05) : f > 0.95 ? 390 * ((1 - f) / 0.05) : f < 0.5 ? 370 : 390;
-  return { lat: out[0], lon: out[1], flightLevel: Math.max(0, fl), time: new Date(t0 + (km / 0.245) * 1000).toISOString() };
+  return {
+    lat: out[0],
+    lon: out[1],
+    flightLevel: Math.max(0, fl),
+    time: new Date(t0 + (km / 0.245) * 1000).toISOString(),
+  };
 });
-const input = validateScreeningInput({ route: { track: { points } }, fuelBurnKg: 52_000, emission: { eiNoxGPerKg: 14 }, month: 1 });
+const input = validateScreeningInput({
+  route: { track: { points } },
+  fuelBurnKg: 52_000,
+  emission: { eiNoxGPerKg: 14 },
+  month: 1,
+});
 
 const time = (fn: () => unknown): number[] => {
   const ts: number[] = [];

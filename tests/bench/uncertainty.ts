@@ -18,12 +18,37 @@ import {
 const REQUESTS = Number(process.argv[2] ?? 300);
 
 // Invented certification-style curve, not a real engine.
-const ENGINE = { fuelFlowKgS: [0.19, 0.6, 1.85, 2.3] as [number, number, number, number], eiNoxGPerKg: [5.1, 11.8, 29.5, 38.2] as [number, number, number, number] };
+const ENGINE = {
+  fuelFlowKgS: [0.19, 0.6, 1.85, 2.3] as [number, number, number, number],
+  eiNoxGPerKg: [5.1, 11.8, 29.5, 38.2] as [number, number, number, number],
+};
 
 const FLIGHTS: ScreeningInputRaw[] = [
-  { route: { waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] }, cruise: { flightLevel: 370 }, fuelBurnKg: 52_000, emission: { engine: ENGINE, engineCount: 2 }, month: 1 },
-  { route: { waypoints: [{ airport: 'EFHK' }, { airport: 'RJTT' }] }, cruise: { steps: [{ fromKm: 0, flightLevel: 350 }, { fromKm: 3000, flightLevel: 390 }] }, fuelBurnKg: 70_000, emission: { engine: ENGINE, engineCount: 2 }, flightDate: '2026-07-14' },
-  { route: { waypoints: [{ airport: 'YSSY' }, { airport: 'SCEL' }] }, cruise: { flightLevel: 410 }, fuelBurnKg: 90_000, emission: { eiNoxGPerKg: 15 } },
+  {
+    route: { waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] },
+    cruise: { flightLevel: 370 },
+    fuelBurnKg: 52_000,
+    emission: { engine: ENGINE, engineCount: 2 },
+    month: 1,
+  },
+  {
+    route: { waypoints: [{ airport: 'EFHK' }, { airport: 'RJTT' }] },
+    cruise: {
+      steps: [
+        { fromKm: 0, flightLevel: 350 },
+        { fromKm: 3000, flightLevel: 390 },
+      ],
+    },
+    fuelBurnKg: 70_000,
+    emission: { engine: ENGINE, engineCount: 2 },
+    flightDate: '2026-07-14',
+  },
+  {
+    route: { waypoints: [{ airport: 'YSSY' }, { airport: 'SCEL' }] },
+    cruise: { flightLevel: 410 },
+    fuelBurnKg: 90_000,
+    emission: { eiNoxGPerKg: 15 },
+  },
 ];
 
 function previewWork(raw: ScreeningInputRaw): void {
@@ -33,7 +58,8 @@ function previewWork(raw: ScreeningInputRaw): void {
   sweepMonthsValidated(input);
 }
 
-const pct = (xs: number[], q: number) => xs.slice().sort((a, b) => a - b)[Math.min(xs.length - 1, Math.floor(q * xs.length))];
+const pct = (xs: number[], q: number) =>
+  xs.slice().sort((a, b) => a - b)[Math.min(xs.length - 1, Math.floor(q * xs.length))];
 
 for (let i = 0; i < 20; i++) previewWork(FLIGHTS[i % FLIGHTS.length]);
 const times: number[] = [];
@@ -43,4 +69,6 @@ for (let i = 0; i < REQUESTS; i++) {
   times.push(performance.now() - t);
 }
 console.log(`preview work with 400 samples, drivers and the month sweep, ${REQUESTS} requests one after another:`);
-console.log(`  p50 ${pct(times, 0.5).toFixed(1)} ms, p95 ${pct(times, 0.95).toFixed(1)} ms, max ${Math.max(...times).toFixed(1)} ms (target: p95 under 150 ms with the HTTP part)`);
+console.log(
+  `  p50 ${pct(times, 0.5).toFixed(1)} ms, p95 ${pct(times, 0.95).toFixed(1)} ms, max ${Math.max(...times).toFixed(1)} ms (target: p95 under 150 ms with the HTTP part)`,
+);

@@ -23,8 +23,12 @@ interface AxeViolation {
 async function axe(page: Page): Promise<AxeViolation[]> {
   await page.evaluate(AXE_SOURCE);
   const result = await page.evaluate(async () => {
-    const w = window as unknown as { axe: { run: (ctx: Document, opts: object) => Promise<{ violations: AxeViolation[] }> } };
-    return w.axe.run(document, { runOnly: { type: 'tag', values: ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'best-practice'] } });
+    const w = window as unknown as {
+      axe: { run: (ctx: Document, opts: object) => Promise<{ violations: AxeViolation[] }> };
+    };
+    return w.axe.run(document, {
+      runOnly: { type: 'tag', values: ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'best-practice'] },
+    });
   });
   return result.violations;
 }
@@ -33,12 +37,19 @@ async function axe(page: Page): Promise<AxeViolation[]> {
  * Serious findings already reported to the owners of those screens, by page and axe rule. Each is
  * printed on every run; any other serious or critical finding fails. Remove a line once it is fixed.
  */
-const REPORTED: Record<string, string> = {
-};
+const REPORTED: Record<string, string> = {};
 
 const serious = (v: AxeViolation[]) => v.filter((x) => x.impact === 'serious' || x.impact === 'critical');
-const describeViolations = (v: AxeViolation[]) => v.map((x) => `${x.impact} ${x.id}: ${x.help} at ${x.nodes.map((n) => n.target.join(' ')).slice(0, 3).join(', ')}`);
-const cspErrors = (errors: string[]) => errors.filter((e) => /Content.Security.Policy|Refused to (load|execute|apply|connect)/i.test(e));
+const describeViolations = (v: AxeViolation[]) =>
+  v.map(
+    (x) =>
+      `${x.impact} ${x.id}: ${x.help} at ${x.nodes
+        .map((n) => n.target.join(' '))
+        .slice(0, 3)
+        .join(', ')}`,
+  );
+const cspErrors = (errors: string[]) =>
+  errors.filter((e) => /Content.Security.Policy|Refused to (load|execute|apply|connect)/i.test(e));
 
 const { browser } = useBrowser();
 
@@ -58,7 +69,10 @@ async function scriptsCarryNonce(res: Response, path: string): Promise<void> {
   const html = await res.text();
   const tags = html.match(/<script\b[^>]*>/g) ?? [];
   expect(tags.length, `${path}: scripts in the HTML`).toBeGreaterThan(0);
-  expect(tags.filter((t) => !t.includes(`nonce="${nonce}"`)), `${path}: scripts without this response's nonce`).toEqual([]);
+  expect(
+    tags.filter((t) => !t.includes(`nonce="${nonce}"`)),
+    `${path}: scripts without this response's nonce`,
+  ).toEqual([]);
 }
 
 /**
@@ -72,7 +86,8 @@ async function layoutFindings(page: Page): Promise<string[]> {
     if (window.innerWidth >= 1366) {
       for (const region of document.querySelectorAll<HTMLElement>('[role="region"][aria-label]')) {
         const name = region.getAttribute('aria-label') ?? '';
-        if (mustFit.includes(name) && region.scrollWidth > region.clientWidth + 1) out.push(`"${name}" hides ${region.scrollWidth - region.clientWidth} px of columns behind a scroll`);
+        if (mustFit.includes(name) && region.scrollWidth > region.clientWidth + 1)
+          out.push(`"${name}" hides ${region.scrollWidth - region.clientWidth} px of columns behind a scroll`);
       }
     }
     const doc = document.documentElement;
@@ -81,7 +96,10 @@ async function layoutFindings(page: Page): Promise<string[]> {
       const wide = [...document.querySelectorAll<HTMLElement>('main *, header *')]
         .filter((el) => el.getBoundingClientRect().right > doc.clientWidth + 1 && el.offsetParent !== null)
         .slice(0, 3)
-        .map((el) => `${el.tagName.toLowerCase()}${el.id ? `#${el.id}` : ''}.${String(el.className).split(' ').slice(0, 3).join('.')}`);
+        .map(
+          (el) =>
+            `${el.tagName.toLowerCase()}${el.id ? `#${el.id}` : ''}.${String(el.className).split(' ').slice(0, 3).join('.')}`,
+        );
       out.push(`the page scrolls sideways by ${over} px (${wide.join(', ')})`);
     }
     for (const cell of document.querySelectorAll<HTMLElement>('th, td')) {
@@ -91,7 +109,8 @@ async function layoutFindings(page: Page): Promise<string[]> {
         const ox = getComputedStyle(el).overflowX;
         if (ox === 'auto' || ox === 'scroll') break;
         if (ox === 'hidden' || ox === 'clip') {
-          if (r.right > el.getBoundingClientRect().right + 1) out.push(`a table cell ("${(cell.textContent ?? '').trim().slice(0, 30)}") is cut off`);
+          if (r.right > el.getBoundingClientRect().right + 1)
+            out.push(`a table cell ("${(cell.textContent ?? '').trim().slice(0, 30)}") is cut off`);
           break;
         }
       }
@@ -130,7 +149,12 @@ describe('accessibility and CSP on the main pages', () => {
   it('signed-out pages: sign in, sign up, reset', async () => {
     const { page, context, errors } = await newPage(browser());
     const findings: string[] = [];
-    for (const [path, name] of [['/signin', 'signin'], ['/signup', 'signup'], ['/reset', 'reset'], ['/', 'home']] as const) {
+    for (const [path, name] of [
+      ['/signin', 'signin'],
+      ['/signup', 'signup'],
+      ['/reset', 'reset'],
+      ['/', 'home'],
+    ] as const) {
       findings.push(...(await check(page, errors, path, name)));
     }
     expect(findings).toEqual([]);
@@ -145,12 +169,23 @@ describe('accessibility and CSP on the main pages', () => {
 
   it('signed-in pages of an owner, at desktop, tablet and phone width, without sideways page scroll or cut-off columns', async () => {
     const findingsByWidth: Record<number, string[]> = {};
-    for (const viewport of [{ width: 1366, height: 900 }, { width: 820, height: 1180 }, { width: 390, height: 844 }]) {
+    for (const viewport of [
+      { width: 1366, height: 900 },
+      { width: 820, height: 1180 },
+      { width: 390, height: 844 },
+    ]) {
       const { page, context, errors } = await newPage(browser(), viewport);
       await signIn(page, 'consultant@tropopass.test');
       const slug = 'skarn-polar';
       const created = await page.request.post(`${BASE_URL}/api/v1/workspaces/${slug}/screenings`, {
-        data: { name: 'Accessibility check', route: { waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] }, cruise: { flightLevel: 370 }, fuelBurnKg: 50_000, emission: { eiNoxGPerKg: 14 }, month: 1 },
+        data: {
+          name: 'Accessibility check',
+          route: { waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] },
+          cruise: { flightLevel: 370 },
+          fuelBurnKg: 50_000,
+          emission: { eiNoxGPerKg: 14 },
+          month: 1,
+        },
       });
       expect(created.status(), 'creating the screening this walk opens').toBe(201);
       const screeningId = ((await created.json()) as { id: number }).id;
@@ -167,7 +202,10 @@ describe('accessibility and CSP on the main pages', () => {
         routes: { name: 'Accessibility check', waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] },
         soundings: {
           name: 'Accessibility check',
-          levels: Array.from({ length: 21 }, (_, k) => ({ altitudeM: k * 1000, temperatureK: k <= 11 ? 288.15 - 6.5 * k : 216.65 })),
+          levels: Array.from({ length: 21 }, (_, k) => ({
+            altitudeM: k * 1000,
+            temperatureK: k <= 11 ? 288.15 - 6.5 * k : 216.65,
+          })),
         },
         engines: null,
         'aircraft-types': null,
@@ -212,7 +250,8 @@ describe('accessibility and CSP on the main pages', () => {
         ['/account', 'account'],
       ];
       const findings: string[] = [];
-      for (const [path, name] of pages) findings.push(...(await check(page, errors, path, `${name}-${viewport.width}`)));
+      for (const [path, name] of pages)
+        findings.push(...(await check(page, errors, path, `${name}-${viewport.width}`)));
       findingsByWidth[viewport.width] = findings;
       if (findings.length) console.warn(`[layout] at ${viewport.width} px:\n  ${findings.join('\n  ')}`);
       await context.close();
@@ -221,7 +260,10 @@ describe('accessibility and CSP on the main pages', () => {
   }, 300_000);
 
   it('on a phone a Menu button opens the workspace navigation (on a tablet the sidebar shows it), and the account menu stays on screen', async () => {
-    for (const viewport of [{ width: 390, height: 844 }, { width: 820, height: 1180 }]) {
+    for (const viewport of [
+      { width: 390, height: 844 },
+      { width: 820, height: 1180 },
+    ]) {
       const { page, context } = await newPage(browser(), viewport);
       await signIn(page, 'consultant@tropopass.test');
       await page.goto('/w/skarn-polar/fleets');
@@ -262,7 +304,10 @@ describe('accessibility and CSP on the main pages', () => {
   });
 
   it('on a phone and a tablet the screen page keeps a summary of the preview in view, with a link to the whole preview', async () => {
-    for (const viewport of [{ width: 390, height: 844 }, { width: 820, height: 1180 }]) {
+    for (const viewport of [
+      { width: 390, height: 844 },
+      { width: 820, height: 1180 },
+    ]) {
       const { page, context } = await newPage(browser(), viewport);
       await signIn(page, 'planner@tropopass.test');
       await page.goto('/w/skarn-polar/screen');
@@ -317,7 +362,14 @@ describe('accessibility and CSP on the main pages', () => {
     const findings: string[] = [];
     for (const [email, pages] of [
       ['billing@tropopass.test', [['/w/skarn-polar/settings/billing', 'billing-finance-admin']]],
-      ['viewer@tropopass.test', [['/w/velloway-jets', 'overview-viewer'], ['/w/velloway-jets/screenings', 'screenings-viewer'], ['/w/velloway-jets/fleets', 'fleets-viewer']]],
+      [
+        'viewer@tropopass.test',
+        [
+          ['/w/velloway-jets', 'overview-viewer'],
+          ['/w/velloway-jets/screenings', 'screenings-viewer'],
+          ['/w/velloway-jets/fleets', 'fleets-viewer'],
+        ],
+      ],
     ] as const) {
       const { page, context, errors } = await newPage(browser());
       await signIn(page, email);

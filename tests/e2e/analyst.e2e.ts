@@ -25,7 +25,9 @@ function smallSchedule(): string {
   const months = ['2026-09', '2026-10', '2026-11'];
   months.forEach((m, mi) =>
     routes.forEach(([o, d, ac, fl, fuel], ri) => {
-      rows.push(`${m}-${String(3 + ri * 4).padStart(2, '0')},E2E${mi}${ri},${o},${d},${ac},${fl},${fuel + mi * 500},${ri === 0 ? `${fl}@0 ${fl + 20}@3000` : ''},`);
+      rows.push(
+        `${m}-${String(3 + ri * 4).padStart(2, '0')},E2E${mi}${ri},${o},${d},${ac},${fl},${fuel + mi * 500},${ri === 0 ? `${fl}@0 ${fl + 20}@3000` : ''},`,
+      );
     }),
   );
   return `${rows.join('\n')}\n`;
@@ -33,7 +35,9 @@ function smallSchedule(): string {
 
 async function ensureScreenedFlights(page: Page): Promise<void> {
   const api = `${BASE_URL}/api/v1/workspaces/${SLUG}`;
-  const first = (await (await page.request.get(`${api}/fleets/compare?from=2026-09-01&to=2026-11-20`)).json()) as Compare;
+  const first = (await (
+    await page.request.get(`${api}/fleets/compare?from=2026-09-01&to=2026-11-20`)
+  ).json()) as Compare;
   if (first.totals.flights > 0) return;
   const upload = await page.request.post(`${api}/imports`, {
     headers: { origin: BASE_URL },
@@ -97,7 +101,10 @@ describe('sustainability analyst: compare fleets, build, download and send a rep
     await screenshot(page, 'analyst-report-detail');
 
     // Download the PDF as an attachment.
-    const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Download PDF' }).click()]);
+    const [download] = await Promise.all([
+      page.waitForEvent('download'),
+      page.getByRole('link', { name: 'Download PDF' }).click(),
+    ]);
     expect(download.suggestedFilename()).toBe('Polar fleets, autumn 2026.pdf');
     fs.mkdirSync(OUTPUT, { recursive: true });
     const saved = path.join(OUTPUT, 'analyst-report.pdf');
@@ -112,10 +119,15 @@ describe('sustainability analyst: compare fleets, build, download and send a rep
     await page.getByLabel('Recipients').fill(to);
     await page.getByLabel('Note (optional)').fill('For the quarterly review.');
     await page.getByRole('button', { name: 'Send the PDF' }).click();
-    await page.getByRole('status').filter({ hasText: `Sent to ${to}` }).waitFor();
+    await page
+      .getByRole('status')
+      .filter({ hasText: `Sent to ${to}` })
+      .waitFor();
     const [mail] = await mailTo(to);
     expect(mail.subject).toBe('Fleet report: Polar fleets, autumn 2026');
-    expect(mail.attachments).toEqual([expect.objectContaining({ filename: 'polar-fleets-autumn-2026.pdf', contentType: 'application/pdf' })]);
+    expect(mail.attachments).toEqual([
+      expect.objectContaining({ filename: 'polar-fleets-autumn-2026.pdf', contentType: 'application/pdf' }),
+    ]);
     await page.reload();
     await page.getByText(`To ${to}`).waitFor();
 

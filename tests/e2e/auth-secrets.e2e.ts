@@ -9,7 +9,10 @@ const SERVER_LOG = process.env.E2E_SERVER_LOG ?? '';
 const DEEP = '/w/skarn-polar/fleets?from=2026-10-01';
 
 /** A context that records every URL the browser asks for or navigates to. */
-async function recordingContext(b: Browser, opts: { javaScriptEnabled?: boolean } = {}): Promise<{ context: BrowserContext; page: Page; urls: string[] }> {
+async function recordingContext(
+  b: Browser,
+  opts: { javaScriptEnabled?: boolean } = {},
+): Promise<{ context: BrowserContext; page: Page; urls: string[] }> {
   const context = await b.newContext({ baseURL: BASE_URL, javaScriptEnabled: opts.javaScriptEnabled ?? true });
   const urls: string[] = [];
   context.on('request', (r) => urls.push(r.url()));
@@ -152,7 +155,13 @@ describe('status codes of pages with a loading screen', () => {
     const analyst = await newPage(browser());
     await signIn(analyst.page, 'analyst@tropopass.test');
     expect((await analyst.page.request.get('/w/skarn-polar/fleets')).status()).toBe(200);
-    for (const p of ['engines/999999', 'engines/aircraft/999999', 'routes/999999', 'soundings/999999', 'reports/999999']) {
+    for (const p of [
+      'engines/999999',
+      'engines/aircraft/999999',
+      'routes/999999',
+      'soundings/999999',
+      'reports/999999',
+    ]) {
       expect((await analyst.page.request.get(`/w/skarn-polar/${p}`)).status(), p).toBe(404);
     }
     await analyst.context.close();
@@ -194,15 +203,28 @@ describe('payment errors through the running app', () => {
     await page.getByRole('radio', { name: /Crew/ }).check();
     await page.getByRole('button', { name: 'Subscribe to Crew' }).click();
     await page.getByRole('heading', { name: 'Change plan' }).waitFor();
-    const state = (await (await fetch(`${PAYMENT_URL}/_fake/state`)).json()) as { customers: { id: string; metadata: Record<string, string> }[]; subscriptions: { id: string; customer: string }[] };
+    const state = (await (await fetch(`${PAYMENT_URL}/_fake/state`)).json()) as {
+      customers: { id: string; metadata: Record<string, string> }[];
+      subscriptions: { id: string; customer: string }[];
+    };
     const customer = state.customers.find((c) => c.metadata.workspace === slug)!;
     const subscription = state.subscriptions.find((s) => s.customer === customer.id)!.id;
     const advance = async () => {
-      const r = await fetch(`${PAYMENT_URL}/_fake/advance`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ subscription, wait: true }) });
+      const r = await fetch(`${PAYMENT_URL}/_fake/advance`, {
+        method: 'POST',
+        headers: { 'content-type': 'application/json' },
+        body: JSON.stringify({ subscription, wait: true }),
+      });
       expect(r.status).toBe(200);
     };
     await advance();
-    const flight = { route: { waypoints: [{ airport: 'ENGM' }, { airport: 'RJAA' }] }, cruise: { flightLevel: 350 }, fuelBurnKg: 70_000, emission: { eiNoxGPerKg: 15 }, month: 1 };
+    const flight = {
+      route: { waypoints: [{ airport: 'ENGM' }, { airport: 'RJAA' }] },
+      cruise: { flightLevel: 350 },
+      fuelBurnKg: 70_000,
+      emission: { eiNoxGPerKg: 15 },
+      month: 1,
+    };
     expect((await page.request.post(`/api/v1/workspaces/${slug}/screenings`, { data: flight })).status()).toBe(201);
     for (let i = 0; i < 80; i++) {
       const u = (await (await page.request.get(`/api/v1/workspaces/${slug}/usage`)).json()) as { pendingUnits: number };

@@ -36,7 +36,9 @@ async function demoSubscription(): Promise<string> {
   return until(async () => {
     const state = (await (await fetch(`${PAYMENT_URL}/_fake/state`)).json()) as FakeState;
     const customer = state.customers.find((c) => c.metadata.workspace === SLUG);
-    return customer ? state.subscriptions.find((s) => s.customer === customer.id && s.status === 'active')?.id : undefined;
+    return customer
+      ? state.subscriptions.find((s) => s.customer === customer.id && s.status === 'active')?.id
+      : undefined;
   }, 'the demo subscription');
 }
 
@@ -54,10 +56,21 @@ const AXE_SOURCE = fs.readFileSync(createRequire(import.meta.url).resolve('axe-c
 async function axeFindings(page: Page): Promise<string[]> {
   await page.evaluate(AXE_SOURCE);
   const violations = await page.evaluate(async () => {
-    const w = window as unknown as { axe: { run: (ctx: Document, opts: object) => Promise<{ violations: { id: string; impact: string | null; nodes: { target: string[] }[] }[] }> } };
-    return (await w.axe.run(document, { runOnly: { type: 'tag', values: ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa'] } })).violations;
+    const w = window as unknown as {
+      axe: {
+        run: (
+          ctx: Document,
+          opts: object,
+        ) => Promise<{ violations: { id: string; impact: string | null; nodes: { target: string[] }[] }[] }>;
+      };
+    };
+    return (
+      await w.axe.run(document, { runOnly: { type: 'tag', values: ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa'] } })
+    ).violations;
   });
-  return violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id} at ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`);
+  return violations
+    .filter((v) => v.impact === 'serious' || v.impact === 'critical')
+    .map((v) => `${v.id} at ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`);
 }
 
 /** Elements reaching past the right edge of the viewport (a page that scrolls sideways). */
@@ -77,14 +90,18 @@ async function overflowing(page: Page): Promise<string[]> {
             break;
           }
         }
-        if (!clipped) out.push(`${el.tagName.toLowerCase()}.${(el.getAttribute('class') ?? '').split(' ').slice(0, 4).join('.')} right=${Math.round(r.right)}`);
+        if (!clipped)
+          out.push(
+            `${el.tagName.toLowerCase()}.${(el.getAttribute('class') ?? '').split(' ').slice(0, 4).join('.')} right=${Math.round(r.right)}`,
+          );
       }
     }
     return out.slice(0, 10);
   });
 }
 
-const usd = (cents: number) => new Intl.NumberFormat('en-US', { style: 'currency', currency: 'USD' }).format(cents / 100);
+const usd = (cents: number) =>
+  new Intl.NumberFormat('en-US', { style: 'currency', currency: 'USD' }).format(cents / 100);
 
 describe('finance admin: usage, invoice, plan', () => {
   it('sees usage and the estimate, downloads an invoice after the period closes, changes plan', async () => {
@@ -94,7 +111,9 @@ describe('finance admin: usage, invoice, plan', () => {
     const planner = await newPage(browser());
     await signIn(planner.page, 'planner@tropopass.test');
     for (let i = 0; i < 3; i++) {
-      const r = await planner.page.request.post(`/api/v1/workspaces/${SLUG}/screenings`, { data: { ...FLIGHT, name: `Billing journey ${i + 1}` } });
+      const r = await planner.page.request.post(`/api/v1/workspaces/${SLUG}/screenings`, {
+        data: { ...FLIGHT, name: `Billing journey ${i + 1}` },
+      });
       expect(r.status()).toBe(201);
     }
     await planner.context.close();
@@ -111,7 +130,10 @@ describe('finance admin: usage, invoice, plan', () => {
       const u = await usageOf(page);
       return u.units >= 3 && u.pendingUnits === 0 ? u : null;
     }, 'usage delivered to the payment service');
-    await until(async () => (await page.getByTestId('usage-units').textContent()) === String(usage.units), 'the meter to refresh');
+    await until(
+      async () => (await page.getByTestId('usage-units').textContent()) === String(usage.units),
+      'the meter to refresh',
+    );
     expect(await page.getByTestId('usage-estimate').textContent()).toBe(usd(usage.estimatedChargeCents));
     await page.getByTestId('reconciliation').getByText('agree').waitFor();
     await screenshot(page, 'billing-usage');
@@ -127,7 +149,11 @@ describe('finance admin: usage, invoice, plan', () => {
     expect((await pdf.body()).subarray(0, 5).toString('latin1')).toBe('%PDF-');
 
     // Close the period in the payment fake; the invoice is the estimate just shown.
-    const advanced = await fetch(`${PAYMENT_URL}/_fake/advance`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ subscription, wait: true }) });
+    const advanced = await fetch(`${PAYMENT_URL}/_fake/advance`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json' },
+      body: JSON.stringify({ subscription, wait: true }),
+    });
     expect(advanced.status).toBe(200);
     const { invoice } = (await advanced.json()) as { invoice: { amount_due: number; number: string } };
     expect(invoice.amount_due).toBe(usage.estimatedChargeCents);
@@ -137,7 +163,10 @@ describe('finance admin: usage, invoice, plan', () => {
     expect(await row.textContent()).toContain(usd(invoice.amount_due));
     expect(await row.textContent()).toContain('Paid');
 
-    const [download] = await Promise.all([page.waitForEvent('download'), row.getByRole('link', { name: /Download PDF/ }).click()]);
+    const [download] = await Promise.all([
+      page.waitForEvent('download'),
+      row.getByRole('link', { name: /Download PDF/ }).click(),
+    ]);
     const file = await download.path();
     expect(download.suggestedFilename()).toMatch(/\.pdf$/);
     expect(fs.readFileSync(file).subarray(0, 5).toString('latin1')).toBe('%PDF-');
@@ -151,7 +180,9 @@ describe('finance admin: usage, invoice, plan', () => {
     await screenshot(page, 'billing-after-plan-change');
     await page.setViewportSize({ width: 820, height: 1100 });
     await screenshot(page, 'billing-tablet');
-    const sideways = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+    const sideways = await page.evaluate(
+      () => document.documentElement.scrollWidth - document.documentElement.clientWidth,
+    );
     expect({ sideways, elements: sideways > 0 ? await overflowing(page) : [] }).toEqual({ sideways: 0, elements: [] });
 
     // Back to the seeded plan, so other journeys see the demo as seeded.
@@ -196,7 +227,10 @@ describe('owner of a new workspace: trial, subscribe, a declined card and its re
     await page.getByRole('button', { name: 'Subscribe to Crew' }).click();
     // The action's confirmation and the refreshed page's notice both say so; the refresh can replace the
     // form (and its confirmation) before the confirmation is seen.
-    await page.getByText(/Subscribed to Crew/).first().waitFor();
+    await page
+      .getByText(/Subscribed to Crew/)
+      .first()
+      .waitFor();
     await page.getByRole('heading', { name: 'Change plan' }).waitFor();
 
     // Close the free trial ($0), then a paid period with two screened flights on the declined card.
@@ -204,12 +238,17 @@ describe('owner of a new workspace: trial, subscribe, a declined card and its re
     const customer = state.customers.find((c) => c.metadata.workspace === slug)!;
     const subscription = state.subscriptions.find((s) => s.customer === customer.id)!.id;
     const advance = async () => {
-      const r = await fetch(`${PAYMENT_URL}/_fake/advance`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ subscription, wait: true }) });
+      const r = await fetch(`${PAYMENT_URL}/_fake/advance`, {
+        method: 'POST',
+        headers: { 'content-type': 'application/json' },
+        body: JSON.stringify({ subscription, wait: true }),
+      });
       expect(r.status).toBe(200);
       return ((await r.json()) as { invoice: { amount_due: number; status: string } }).invoice;
     };
     expect(await advance()).toMatchObject({ amount_due: 0, status: 'paid' });
-    for (let i = 0; i < 2; i++) expect((await page.request.post(`/api/v1/workspaces/${slug}/screenings`, { data: FLIGHT })).status()).toBe(201);
+    for (let i = 0; i < 2; i++)
+      expect((await page.request.post(`/api/v1/workspaces/${slug}/screenings`, { data: FLIGHT })).status()).toBe(201);
     await until(async () => (await usageOf(page, slug)).pendingUnits === 0 || null, 'usage delivered');
     const failed = await advance();
     expect(failed.status).toBe('open');
@@ -219,7 +258,13 @@ describe('owner of a new workspace: trial, subscribe, a declined card and its re
     await page.getByRole('alert').filter({ hasText: 'new screenings and imports are paused' }).waitFor();
     const blocked = await page.request.post(`/api/v1/workspaces/${slug}/screenings`, { data: FLIGHT });
     expect(blocked.status()).toBe(402);
-    const mail = await until(async () => (await mailTo('consultant@tropopass.test')).find((m) => m.subject === `Payment failed for ${name}: screening is paused`), 'the payment-failed e-mail');
+    const mail = await until(
+      async () =>
+        (await mailTo('consultant@tropopass.test')).find(
+          (m) => m.subject === `Payment failed for ${name}: screening is paused`,
+        ),
+      'the payment-failed e-mail',
+    );
     expect(mail.text).toContain(usd(failed.amount_due));
     await screenshot(page, 'billing-past-due');
 
@@ -228,7 +273,10 @@ describe('owner of a new workspace: trial, subscribe, a declined card and its re
     await page.getByRole('status').filter({ hasText: 'Test card that succeeds is on file' }).waitFor();
     await page.getByRole('button', { name: 'Pay the open invoice' }).click();
     await page.getByRole('status').filter({ hasText: 'Paid. Screening and imports are open again.' }).waitFor();
-    await until(async () => (await page.getByTestId('billing-status').textContent()) === 'Active', 'the status to show Active');
+    await until(
+      async () => (await page.getByTestId('billing-status').textContent()) === 'Active',
+      'the status to show Active',
+    );
     expect((await page.request.post(`/api/v1/workspaces/${slug}/screenings`, { data: FLIGHT })).status()).toBe(201);
     await screenshot(page, 'billing-recovered');
     expect(errors.filter((e) => !e.includes('402'))).toEqual([]);

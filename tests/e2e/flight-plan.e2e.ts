@@ -7,7 +7,10 @@ const { browser } = useBrowser();
 async function pickAirport(page: Page, label: string, code: string): Promise<void> {
   const box = page.getByRole('combobox', { name: label, exact: true });
   await box.fill(code);
-  await page.getByRole('option', { name: new RegExp(`^${code}`) }).first().waitFor();
+  await page
+    .getByRole('option', { name: new RegExp(`^${code}`) })
+    .first()
+    .waitFor();
   await box.press('ArrowDown');
   await box.press('Enter');
   await expect(box.inputValue()).resolves.toBe(code);
@@ -19,7 +22,10 @@ describe('a planner screens a filed flight plan', () => {
     await signIn(page, 'planner@tropopass.test');
     await page.goto('/w/skarn-polar/screen');
     await page.getByRole('heading', { level: 1, name: 'Screen a flight' }).waitFor();
-    await page.locator('label').filter({ hasText: /^Flight plan$/ }).click();
+    await page
+      .locator('label')
+      .filter({ hasText: /^Flight plan$/ })
+      .click();
     await expect(page.getByRole('radio', { name: 'Flight plan' }).isChecked()).resolves.toBe(true);
     await pickAirport(page, 'Departure', 'ENGM');
     await pickAirport(page, 'Destination', 'CYVR');
@@ -31,7 +37,9 @@ describe('a planner screens a filed flight plan', () => {
     await items.getByText('QXIKE/N0480F390').waitFor({ timeout: 20_000 });
     expect(await items.getByText('QXFRO').first().textContent()).toContain('looked up');
     expect(await items.getByText('NOWHR').textContent()).toContain('not found');
-    expect(await page.getByTestId('flight-plan-unresolved').textContent()).toContain('NOWHR is not in the fix library.');
+    expect(await page.getByTestId('flight-plan-unresolved').textContent()).toContain(
+      'NOWHR is not in the fix library.',
+    );
     await page.getByTestId('preview-status').filter({ hasText: 'Up to date' }).waitFor({ timeout: 20_000 });
     await screenshot(page, 'flight-plan-screen');
 

@@ -24,7 +24,11 @@ describe('schedule import journey (analyst, skarn-polar)', () => {
     expect(await page.getByTestId('import-status').filter({ hasText: 'Complete' }).count()).toBeGreaterThanOrEqual(3);
     await screenshot(page, 'imports-page');
 
-    await page.setInputFiles('#schedule-file', { name: 'november-extra.csv', mimeType: 'text/csv', buffer: csv([...GOOD, BAD_ROW]) });
+    await page.setInputFiles('#schedule-file', {
+      name: 'november-extra.csv',
+      mimeType: 'text/csv',
+      buffer: csv([...GOOD, BAD_ROW]),
+    });
     await page.getByRole('button', { name: 'Check the file' }).click();
     await page.getByRole('alert').filter({ hasText: 'Nothing was imported' }).waitFor();
     const problems = page.getByRole('table', { name: 'Problems in the uploaded file' });
@@ -35,7 +39,11 @@ describe('schedule import journey (analyst, skarn-polar)', () => {
     expect(await page.getByRole('table', { name: 'Notes on the uploaded file' }).textContent()).toContain('remarks');
     await screenshot(page, 'imports-refused');
 
-    await page.setInputFiles('#schedule-file', { name: 'november-extra.csv', mimeType: 'text/csv', buffer: csv([...GOOD, FIXED_ROW]) });
+    await page.setInputFiles('#schedule-file', {
+      name: 'november-extra.csv',
+      mimeType: 'text/csv',
+      buffer: csv([...GOOD, FIXED_ROW]),
+    });
     await page.getByRole('button', { name: 'Check the file' }).click();
     // Nothing is saved before the estimate is confirmed: 5 billable units at the workspace's per-flight price.
     const estimate = page.getByTestId('import-estimate');

@@ -9,7 +9,10 @@ const stamp = Date.now().toString(36).slice(-5).toUpperCase();
  * 6.5 K/km from 15 °C at 0 m up to 11 km, isothermal above to 16 km: by the WMO (1957) definition
  * its tropopause is at 11 000 m.
  */
-const SOUNDING_CSV = ['Altitude_m,Temperature_C', ...Array.from({ length: 17 }, (_, k) => `${k * 1000},${(k <= 11 ? 15 - 6.5 * k : -56.5).toFixed(2)}`)].join('\n');
+const SOUNDING_CSV = [
+  'Altitude_m,Temperature_C',
+  ...Array.from({ length: 17 }, (_, k) => `${k * 1000},${(k <= 11 ? 15 - 6.5 * k : -56.5).toFixed(2)}`),
+].join('\n');
 
 describe('the planner keeps the library', () => {
   it('adds an engine (a fuel-flow order error shown beside the field, then fixed), an aircraft type, a sounding with its chart, and a route', async () => {
@@ -41,9 +44,15 @@ describe('the planner keeps the library', () => {
 
     await page.getByLabel('Approach fuel flow (kg/s)').fill('0.3');
     await page.getByLabel('Climb-out fuel flow (kg/s)').fill('0.9');
-    await page.locator('div[aria-live="polite"]', { hasText: 'Cruise check' }).getByText('typical', { exact: true }).waitFor();
+    await page
+      .locator('div[aria-live="polite"]', { hasText: 'Cruise check' })
+      .getByText('typical', { exact: true })
+      .waitFor();
     await page.getByRole('button', { name: 'Add engine' }).click();
-    await page.getByRole('status').filter({ hasText: `Added “${engineName}”` }).waitFor();
+    await page
+      .getByRole('status')
+      .filter({ hasText: `Added “${engineName}”` })
+      .waitFor();
     await page.getByRole('link', { name: engineName }).waitFor();
 
     const code = `JT-${stamp}`;
@@ -53,7 +62,10 @@ describe('the planner keeps the library', () => {
     await page.getByLabel('Typical cruise Mach').fill('0.82');
     await page.getByLabel('Typical cruise flight level').fill('370');
     await page.getByRole('button', { name: 'Add aircraft type' }).click();
-    await page.getByRole('status').filter({ hasText: `Added aircraft type ${code}` }).waitFor();
+    await page
+      .getByRole('status')
+      .filter({ hasText: `Added aircraft type ${code}` })
+      .waitFor();
     await page.getByRole('link', { name: code }).waitFor();
     await screenshot(page, 'library-engines-added');
 
@@ -62,7 +74,11 @@ describe('the planner keeps the library', () => {
     await page.getByLabel('Name').fill(`Constructed ${stamp}`);
     await page.getByLabel('Station').fill('Journey test');
     await page.getByLabel('Observation time (UTC)').fill('2026-11-20T12:00');
-    await page.setInputFiles('#sounding-file', { name: 'sounding.csv', mimeType: 'text/csv', buffer: Buffer.from(SOUNDING_CSV) });
+    await page.setInputFiles('#sounding-file', {
+      name: 'sounding.csv',
+      mimeType: 'text/csv',
+      buffer: Buffer.from(SOUNDING_CSV),
+    });
     await page.getByRole('button', { name: 'Upload sounding' }).click();
     await page.waitForURL(/\/w\/skarn-polar\/soundings\/\d+$/);
     await page.locator('canvas').first().waitFor();
@@ -106,7 +122,11 @@ describe('the planner keeps the library', () => {
     await signIn(page, 'planner@tropopass.test');
     await page.goto('/w/skarn-polar/soundings');
     await page.getByLabel('Name').fill('Broken');
-    await page.setInputFiles('#sounding-file', { name: 'bad.csv', mimeType: 'text/csv', buffer: Buffer.from('altitude_m,temperature_k\n0,288\n1000,hot\n2000,20\n') });
+    await page.setInputFiles('#sounding-file', {
+      name: 'bad.csv',
+      mimeType: 'text/csv',
+      buffer: Buffer.from('altitude_m,temperature_k\n0,288\n1000,hot\n2000,20\n'),
+    });
     await page.getByRole('button', { name: 'Upload sounding' }).click();
     const table = page.getByRole('table', { name: 'Problems in the sounding file' });
     await table.waitFor();
@@ -115,8 +135,15 @@ describe('the planner keeps the library', () => {
     await screenshot(page, 'library-sounding-problems');
 
     await page.goto('/w/skarn-polar/engines');
-    const header = 'name,idle_ff_kg_s,approach_ff_kg_s,climb_out_ff_kg_s,take_off_ff_kg_s,idle_ei,approach_ei,climb_out_ei,take_off_ei,source';
-    await page.setInputFiles('#engines-csv', { name: 'engines.csv', mimeType: 'text/csv', buffer: Buffer.from(`${header}\nGood ${stamp},0.1,0.3,0.9,1.1,4,10,22,30,\nBackwards ${stamp},0.1,0.9,0.3,1.1,4,10,22,30,\n`) });
+    const header =
+      'name,idle_ff_kg_s,approach_ff_kg_s,climb_out_ff_kg_s,take_off_ff_kg_s,idle_ei,approach_ei,climb_out_ei,take_off_ei,source';
+    await page.setInputFiles('#engines-csv', {
+      name: 'engines.csv',
+      mimeType: 'text/csv',
+      buffer: Buffer.from(
+        `${header}\nGood ${stamp},0.1,0.3,0.9,1.1,4,10,22,30,\nBackwards ${stamp},0.1,0.9,0.3,1.1,4,10,22,30,\n`,
+      ),
+    });
     await page.getByRole('button', { name: 'Import engines' }).click();
     const engineProblems = page.getByRole('table', { name: 'Problems in the engines file' });
     await engineProblems.waitFor();
@@ -154,7 +181,11 @@ describe('the planner keeps the library', () => {
     await page.goto(`/w/${slug}/soundings`);
     await page.getByText('No soundings yet').waitFor();
     await page.getByLabel('Name').fill('Feet check');
-    await page.setInputFiles('#sounding-file', { name: 's.csv', mimeType: 'text/csv', buffer: Buffer.from(SOUNDING_CSV) });
+    await page.setInputFiles('#sounding-file', {
+      name: 's.csv',
+      mimeType: 'text/csv',
+      buffer: Buffer.from(SOUNDING_CSV),
+    });
     await page.getByRole('button', { name: 'Upload sounding' }).click();
     await page.waitForURL(/\/soundings\/\d+$/);
     // 11 000 m / 0.3048 m per ft = 36 089 ft (the international foot, exactly 0.3048 m).
@@ -174,7 +205,12 @@ describe('the planner keeps the library', () => {
     await page.goto(`/w/${slug}/engines`);
     await page.getByText('No engines yet').waitFor();
     await page.getByLabel('Engine name').fill('Pounds check');
-    for (const [mode, ff, ei] of [['Idle', '0.1', '4.5'], ['Approach', '0.3', '10.2'], ['Climb-out', '0.9', '22.8'], ['Take-off', '1.1', '30.5']] as const) {
+    for (const [mode, ff, ei] of [
+      ['Idle', '0.1', '4.5'],
+      ['Approach', '0.3', '10.2'],
+      ['Climb-out', '0.9', '22.8'],
+      ['Take-off', '1.1', '30.5'],
+    ] as const) {
       await page.getByLabel(`${mode} fuel flow (kg/s)`).fill(ff);
       await page.getByLabel(`${mode} EI NOx (g/kg)`).fill(ei);
     }
@@ -198,7 +234,11 @@ describe('the planner keeps the library', () => {
     ] as const) {
       await page.goto(path);
       await page.getByRole('heading', { level: 1, name: heading }).waitFor();
-      expect(await page.getByRole('button', { name: /Add engine|Add aircraft type|Import engines|Save route|Upload sounding/ }).count()).toBe(0);
+      expect(
+        await page
+          .getByRole('button', { name: /Add engine|Add aircraft type|Import engines|Save route|Upload sounding/ })
+          .count(),
+      ).toBe(0);
     }
     await page.goto('/w/velloway-jets/engines');
     await page.getByText('VJ-50').first().waitFor();

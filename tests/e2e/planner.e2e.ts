@@ -8,7 +8,10 @@ const { browser } = useBrowser();
  * A page whose console errors are checked. Every error counts, a 404 from any part of the app
  * included; the 404 URLs the page met are listed in the failure message to say where to look.
  */
-async function tracked(b: Browser, viewport?: { width: number; height: number }): Promise<TrackedPage & { consoleErrors: () => string[] }> {
+async function tracked(
+  b: Browser,
+  viewport?: { width: number; height: number },
+): Promise<TrackedPage & { consoleErrors: () => string[] }> {
   const t = await newPage(b, viewport);
   const missing: string[] = [];
   t.page.on('response', (r) => {
@@ -21,7 +24,10 @@ async function tracked(b: Browser, viewport?: { width: number; height: number })
 async function pickAirport(page: Page, label: string, code: string): Promise<void> {
   const box = page.getByRole('combobox', { name: label, exact: true });
   await box.fill(code);
-  await page.getByRole('option', { name: new RegExp(`^${code}`) }).first().waitFor();
+  await page
+    .getByRole('option', { name: new RegExp(`^${code}`) })
+    .first()
+    .waitFor();
   await box.press('ArrowDown');
   await box.press('Enter');
   await expect(box.inputValue()).resolves.toBe(code);
@@ -35,7 +41,11 @@ async function previewSettled(page: Page): Promise<void> {
 async function saveThroughApi(page: Page, slug: string, body: Record<string, unknown>): Promise<number> {
   const res = await page.evaluate(
     async ({ slug, body }) => {
-      const r = await fetch(`/api/v1/workspaces/${slug}/screenings`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) });
+      const r = await fetch(`/api/v1/workspaces/${slug}/screenings`, {
+        method: 'POST',
+        headers: { 'content-type': 'application/json' },
+        body: JSON.stringify(body),
+      });
       return { status: r.status, json: (await r.json()) as { id: number } };
     },
     { slug, body },
@@ -64,9 +74,15 @@ describe('a flight planner screens a polar flight', () => {
     await screenshot(page, 'planner-screen-preview-fl350');
 
     await page.getByLabel('Flight level', { exact: true }).fill('410');
-    await page.getByTestId('preview-status').filter({ hasText: 'Updating' }).waitFor({ timeout: 5_000 }).catch(() => undefined);
+    await page
+      .getByTestId('preview-status')
+      .filter({ hasText: 'Updating' })
+      .waitFor({ timeout: 5_000 })
+      .catch(() => undefined);
     await previewSettled(page);
-    await expect.poll(() => page.getByTestId('ozone-central').first().textContent(), { timeout: 15_000 }).not.toBe(ozone350);
+    await expect
+      .poll(() => page.getByTestId('ozone-central').first().textContent(), { timeout: 15_000 })
+      .not.toBe(ozone350);
     const at410 = await page.getByTestId('nox-above').first().textContent();
     expect(at410).not.toBe(at350);
     await screenshot(page, 'planner-screen-preview-fl410');
@@ -88,7 +104,9 @@ describe('a flight planner screens a polar flight', () => {
 
     const count = await page.evaluate(async () => {
       const r = await fetch('/api/v1/workspaces/skarn-polar/screenings?route=PANC&limit=50');
-      return ((await r.json()) as { items: { name: string }[] }).items.filter((i) => i.name === 'EGLL-PANC polar, FL410').length;
+      return ((await r.json()) as { items: { name: string }[] }).items.filter(
+        (i) => i.name === 'EGLL-PANC polar, FL410',
+      ).length;
     });
     expect(count).toBe(1);
     await context.close();
@@ -190,7 +208,10 @@ describe('a flight planner screens a polar flight', () => {
     await page.getByRole('combobox', { name: 'From', exact: true }).fill('EGLL');
     await page.getByRole('combobox', { name: 'To', exact: true }).fill('ZZZZ');
     await page.getByLabel('Cruise fuel burn (kg)').fill('52000');
-    await page.locator('#airports-1-error').filter({ hasText: /ZZZZ|airport/i }).waitFor({ timeout: 20_000 });
+    await page
+      .locator('#airports-1-error')
+      .filter({ hasText: /ZZZZ|airport/i })
+      .waitFor({ timeout: 20_000 });
     await page.getByLabel('Flight level', { exact: true }).fill('900');
     await page.getByRole('button', { name: 'Save screening' }).click();
     await page.locator('#flightLevel-error').filter({ hasText: 'between 0 and 660' }).waitFor();
@@ -209,7 +230,12 @@ describe('a read-only member reads a screening', () => {
     const id = await saveThroughApi(owner.page, 'velloway-jets', {
       name: 'Velloway check EGLL-KTEB',
       route: { waypoints: [{ airport: 'EGLL' }, { airport: 'KTEB' }] },
-      cruise: { steps: [{ fromKm: 0, flightLevel: 430 }, { fromKm: 2500, flightLevel: 470 }] },
+      cruise: {
+        steps: [
+          { fromKm: 0, flightLevel: 430 },
+          { fromKm: 2500, flightLevel: 470 },
+        ],
+      },
       fuelBurnKg: 9000,
       aircraft: 'VJ-50',
       flightDate: '2026-11-18',
@@ -245,7 +271,11 @@ describe('a read-only member reads a screening', () => {
     expect(exported.status).toBe(200);
     expect(exported.disposition).toMatch(/^attachment; filename="screening-/);
     const preview = await page.evaluate(async () => {
-      const r = await fetch('/api/v1/workspaces/velloway-jets/screenings/preview', { method: 'POST', headers: { 'content-type': 'application/json' }, body: '{}' });
+      const r = await fetch('/api/v1/workspaces/velloway-jets/screenings/preview', {
+        method: 'POST',
+        headers: { 'content-type': 'application/json' },
+        body: '{}',
+      });
       return r.status;
     });
     expect(preview).toBe(403);

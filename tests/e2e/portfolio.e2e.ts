@@ -10,7 +10,8 @@ describe("the consultant's portfolio", () => {
     await page.goto('/workspaces');
     await page.getByRole('heading', { level: 1, name: 'Workspaces' }).waitFor();
     const header = (await page.locator('thead').first().textContent()) ?? '';
-    for (const label of ['Saved screenings', 'Imported flights screened', 'Billable units', 'this billing period']) expect(header).toContain(label);
+    for (const label of ['Saved screenings', 'Imported flights screened', 'Billable units', 'this billing period'])
+      expect(header).toContain(label);
 
     // Billable units here are the billing page's figure for the same workspace.
     const row = page.locator('tr').filter({ hasText: 'skarn-polar' });

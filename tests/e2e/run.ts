@@ -37,11 +37,18 @@ async function main(): Promise<number> {
   const chromium = findChromium();
   if (!chromium) {
     const line = '#'.repeat(78);
-    console.error(`\n${line}\n# BROWSER JOURNEYS SKIPPED: no Chromium found (set CHROMIUM_PATH or apt-get install -y chromium).\n${line}\n`);
+    console.error(
+      `\n${line}\n# BROWSER JOURNEYS SKIPPED: no Chromium found (set CHROMIUM_PATH or apt-get install -y chromium).\n${line}\n`,
+    );
     return isCi ? 1 : 0;
   }
   const work = fs.mkdtempSync(path.join(os.tmpdir(), 'tropopass-e2e-'));
-  const [appPort, smtpPort, mailHttpPort, payPort] = await Promise.all([freePort(), freePort(), freePort(), freePort()]);
+  const [appPort, smtpPort, mailHttpPort, payPort] = await Promise.all([
+    freePort(),
+    freePort(),
+    freePort(),
+    freePort(),
+  ]);
   const baseUrl = `http://127.0.0.1:${appPort}`;
   const env: NodeJS.ProcessEnv = {
     ...process.env,
@@ -78,7 +85,12 @@ async function main(): Promise<number> {
   // The app's output is also kept in a file, so journeys can check that no secret reaches the server log.
   const serverLog = path.join(work, 'server.log');
   const start = (args: string[], label: string, logFile?: string) => {
-    const c = spawn(args[0], args.slice(1), { cwd: root, env, stdio: ['ignore', logFile ? 'pipe' : 'inherit', logFile ? 'pipe' : 'inherit'], detached: true });
+    const c = spawn(args[0], args.slice(1), {
+      cwd: root,
+      env,
+      stdio: ['ignore', logFile ? 'pipe' : 'inherit', logFile ? 'pipe' : 'inherit'],
+      detached: true,
+    });
     if (logFile) {
       const sink = fs.createWriteStream(logFile);
       c.stdout?.on('data', (d: Buffer) => {
@@ -100,14 +112,30 @@ async function main(): Promise<number> {
   try {
     start([process.execPath, '--import', 'tsx', 'lib/fakes/smtp/server.ts'], 'mail fake');
     start([process.execPath, '--import', 'tsx', 'lib/fakes/payment/server.ts'], 'payment fake');
-    const app = start([process.execPath, 'node_modules/next/dist/bin/next', 'start', '-H', '127.0.0.1', '-p', String(appPort)], 'app', serverLog);
+    const app = start(
+      [process.execPath, 'node_modules/next/dist/bin/next', 'start', '-H', '127.0.0.1', '-p', String(appPort)],
+      'app',
+      serverLog,
+    );
     await waitFor(`${baseUrl}/signin`, app);
     await waitFor(`http://127.0.0.1:${mailHttpPort}/messages`, app);
-    const r = spawnSync(process.execPath, ['node_modules/vitest/vitest.mjs', 'run', '--config', 'tests/e2e/vitest.config.ts', ...process.argv.slice(2)], {
-      cwd: root,
-      env: { ...env, E2E_BASE_URL: baseUrl, E2E_MAIL_URL: `http://127.0.0.1:${mailHttpPort}`, E2E_PAYMENT_URL: `http://127.0.0.1:${payPort}`, E2E_SERVER_LOG: serverLog, CHROMIUM_PATH: chromium, NODE_ENV: 'test' },
-      stdio: 'inherit',
-    });
+    const r = spawnSync(
+      process.execPath,
+      ['node_modules/vitest/vitest.mjs', 'run', '--config', 'tests/e2e/vitest.config.ts', ...process.argv.slice(2)],
+      {
+        cwd: root,
+        env: {
+          ...env,
+          E2E_BASE_URL: baseUrl,
+          E2E_MAIL_URL: `http://127.0.0.1:${mailHttpPort}`,
+          E2E_PAYMENT_URL: `http://127.0.0.1:${payPort}`,
+          E2E_SERVER_LOG: serverLog,
+          CHROMIUM_PATH: chromium,
+          NODE_ENV: 'test',
+        },
+        stdio: 'inherit',
+      },
+    );
     return r.status ?? 1;
   } finally {
     stopping = true;

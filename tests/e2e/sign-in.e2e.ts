@@ -72,7 +72,9 @@ describe('sign up', () => {
     await page.getByRole('button', { name: 'Create account' }).click();
     await page.waitForURL((u) => u.pathname === '/signup/check-email');
     expect(await page.locator('#email-error').count()).toBe(0);
-    const mail = (await mailTo('planner@tropopass.test')).find((m) => m.subject.startsWith('Someone tried to create a Tropopass account'));
+    const mail = (await mailTo('planner@tropopass.test')).find((m) =>
+      m.subject.startsWith('Someone tried to create a Tropopass account'),
+    );
     expect(mail?.text).toContain('No new account was made');
     await context.close();
   });

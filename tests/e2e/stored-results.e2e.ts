@@ -7,7 +7,14 @@ const { browser } = useBrowser();
 /** An engine version older than any the code carries; the row is written with it directly. */
 const OLD = '2026.12.1';
 
-const FLIGHT = { route: { waypoints: [{ airport: 'ENGM' }, { airport: 'PANC' }] }, cruise: { flightLevel: 370 }, fuelBurnKg: 48_000, emission: { eiNoxGPerKg: 15 }, month: 1, name: 'Stored-results journey' };
+const FLIGHT = {
+  route: { waypoints: [{ airport: 'ENGM' }, { airport: 'PANC' }] },
+  cruise: { flightLevel: 370 },
+  fuelBurnKg: 48_000,
+  emission: { eiNoxGPerKg: 15 },
+  month: 1,
+  name: 'Stored-results journey',
+};
 
 describe('a screening made with an older engine version', () => {
   it('says so on its page and is screened again with the current method as a new, unbilled screening', async () => {
@@ -21,7 +28,14 @@ describe('a screening made with an older engine version', () => {
     const sqlite = new Database(file!);
     try {
       sqlite.prepare('UPDATE screenings SET engine_version = ? WHERE id = ?').run(OLD, id);
-      const units = () => (sqlite.prepare('SELECT count(*) AS n FROM usage_events WHERE kind = ? AND source_id IN (SELECT id FROM screenings WHERE id = ? OR rescreen_of = ?)').get('screening', id, id) as { n: number }).n;
+      const units = () =>
+        (
+          sqlite
+            .prepare(
+              'SELECT count(*) AS n FROM usage_events WHERE kind = ? AND source_id IN (SELECT id FROM screenings WHERE id = ? OR rescreen_of = ?)',
+            )
+            .get('screening', id, id) as { n: number }
+        ).n;
       expect(units()).toBe(1);
 
       await page.goto('/w/skarn-polar/screenings');
@@ -43,7 +57,10 @@ describe('a screening made with an older engine version', () => {
 
       // The old one now links to its re-screen instead of offering another.
       await page.goto(`/w/skarn-polar/screenings/${id}`);
-      await page.getByTestId('engine-version-notice').getByRole('link', { name: /screening #\d+/ }).waitFor();
+      await page
+        .getByTestId('engine-version-notice')
+        .getByRole('link', { name: /screening #\d+/ })
+        .waitFor();
       expect(await page.getByRole('button', { name: 'Screen again with the current method' }).count()).toBe(0);
     } finally {
       sqlite.close();

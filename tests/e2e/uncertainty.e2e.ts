@@ -29,10 +29,17 @@ describe('a planner reads how sure a screening is and how it changes over the ye
     const band = page.getByTestId('band-5-95').first();
     await band.waitFor();
     await expect(band.textContent()).resolves.toMatch(/^5–95 %: [\d.,]+ – [\d.,]+ (kg|t)$/);
-    await expect(page.getByText(/screening range/).first().isVisible()).resolves.toBe(true);
+    await expect(
+      page
+        .getByText(/screening range/)
+        .first()
+        .isVisible(),
+    ).resolves.toBe(true);
     const drivers = page.getByTestId('drivers-chart');
     await drivers.waitFor();
-    await expect(drivers.getByText(/explains \d+ % of the spread of NOx above the tropopause/).isVisible()).resolves.toBe(true);
+    await expect(
+      drivers.getByText(/explains \d+ % of the spread of NOx above the tropopause/).isVisible(),
+    ).resolves.toBe(true);
     await expect(drivers.getByRole('listitem').count()).resolves.toBeGreaterThan(1);
     const strip = page.getByTestId('month-strip');
     await strip.waitFor();

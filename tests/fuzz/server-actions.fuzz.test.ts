@@ -15,7 +15,11 @@ import { startSmtpFake, type SmtpFake } from '@/lib/fakes/smtp/server';
  * `internal` (what becomes a 500). The request is a signed-in owner posting from the app's own origin.
  */
 vi.mock('next/headers', async () => (await import('../support/request-scope')).nextHeaders);
-vi.mock('next/cache', () => ({ revalidatePath: () => undefined, revalidateTag: () => undefined, refresh: () => undefined }));
+vi.mock('next/cache', () => ({
+  revalidatePath: () => undefined,
+  revalidateTag: () => undefined,
+  refresh: () => undefined,
+}));
 
 function freePort(): Promise<number> {
   return new Promise((resolve) => {
@@ -68,10 +72,25 @@ afterAll(async () => {
   console.info(`[fuzz] ${targets.length} server actions\n${figures.join('\n')}`);
 });
 
-const FORM_FIELDS = ['email', 'password', 'name', 'workspaceName', 'callbackUrl', 'token', 'confirm', 'slug', 'role', 'id', 'invitationToken'];
+const FORM_FIELDS = [
+  'email',
+  'password',
+  'name',
+  'workspaceName',
+  'callbackUrl',
+  'token',
+  'confirm',
+  'slug',
+  'role',
+  'id',
+  'invitationToken',
+];
 
 function formArbitrary(): fc.Arbitrary<FormData> {
-  const value = fc.oneof(weirdScalar.map((v) => String(v)), fc.constantFrom('//evil.example/', '/%09/evil.example', '%E0%A4%A', '/w/x?y=1', 'owner', 'viewer'));
+  const value = fc.oneof(
+    weirdScalar.map((v) => String(v)),
+    fc.constantFrom('//evil.example/', '/%09/evil.example', '%E0%A4%A', '/w/x?y=1', 'owner', 'viewer'),
+  );
   return fc.array(fc.tuple(fc.constantFrom(...FORM_FIELDS), value, fc.boolean()), { maxLength: 8 }).map((entries) => {
     const f = new FormData();
     for (const [k, v, asFile] of entries) {
@@ -86,13 +105,24 @@ function argsArbitrary(): fc.Arbitrary<unknown[]> {
   const slugArg = fc.oneof({ arbitrary: fc.constant('__SLUG__'), weight: 5 }, { arbitrary: weirdValue, weight: 1 });
   const positional = fc.tuple(slugArg, weirdValue, weirdValue).map((a) => a as unknown[]);
   const form = fc.tuple(fc.constant(null), formArbitrary()).map((a) => a as unknown[]);
-  const idLike = fc.tuple(slugArg, fc.oneof(fc.array(fc.nat(), { maxLength: 3 }), fc.dictionary(fc.constantFrom('id', 'x'), weirdScalar), fc.record({ id: fc.oneof(fc.array(fc.nat()), fc.object(), weirdScalar) }))).map((a) => a as unknown[]);
+  const idLike = fc
+    .tuple(
+      slugArg,
+      fc.oneof(
+        fc.array(fc.nat(), { maxLength: 3 }),
+        fc.dictionary(fc.constantFrom('id', 'x'), weirdScalar),
+        fc.record({ id: fc.oneof(fc.array(fc.nat()), fc.object(), weirdScalar) }),
+      ),
+    )
+    .map((a) => a as unknown[]);
   return fc.oneof(positional, form, idLike);
 }
 
 function isFrameworkSignal(err: unknown): boolean {
   const digest = (err as { digest?: unknown } | null)?.digest;
-  return typeof digest === 'string' && (digest.startsWith('NEXT_REDIRECT') || digest.startsWith('NEXT_HTTP_ERROR_FALLBACK'));
+  return (
+    typeof digest === 'string' && (digest.startsWith('NEXT_REDIRECT') || digest.startsWith('NEXT_HTTP_ERROR_FALLBACK'))
+  );
 }
 
 function runs(): number {
@@ -117,20 +147,25 @@ describe('server actions under fuzzing', () => {
             outcome = await t.fn(...args);
           } catch (err) {
             if (isFrameworkSignal(err)) return;
-            problems.push(`${t.id} threw ${err instanceof Error ? `${err.name}: ${err.message}` : String(err)} for ${JSON.stringify(args).slice(0, 200)}`);
+            problems.push(
+              `${t.id} threw ${err instanceof Error ? `${err.name}: ${err.message}` : String(err)} for ${JSON.stringify(args).slice(0, 200)}`,
+            );
             return;
           }
           if (outcome === null || outcome === undefined) return;
           const state = outcome as { ok?: unknown; error?: { code?: unknown } };
           if (typeof state.ok !== 'boolean') problems.push(`${t.id} answered ${JSON.stringify(outcome).slice(0, 120)}`);
-          else if (state.ok === false && state.error?.code === 'internal') problems.push(`${t.id} internal error for ${JSON.stringify(args).slice(0, 200)}`);
+          else if (state.ok === false && state.error?.code === 'internal')
+            problems.push(`${t.id} internal error for ${JSON.stringify(args).slice(0, 200)}`);
         }),
         { numRuns: runs(), seed: 18 },
       );
-      figures.push(`  ${t.id.padEnd(70)} ${String(cases).padStart(5)} cases ${((Date.now() - started) / 1000).toFixed(2)} s`);
+      figures.push(
+        `  ${t.id.padEnd(70)} ${String(cases).padStart(5)} cases ${((Date.now() - started) / 1000).toFixed(2)} s`,
+      );
     }
     const perAction = new Map<string, string>();
-    for (const p of problems) if (!perAction.has(p.split(" ")[0])) perAction.set(p.split(" ")[0], p.slice(0, 240));
+    for (const p of problems) if (!perAction.has(p.split(' ')[0])) perAction.set(p.split(' ')[0], p.slice(0, 240));
     expect([...perAction.values()]).toEqual([]);
   }, 600_000);
 });

@@ -14,7 +14,9 @@ import { resetEnvForTests } from '@/lib/env';
 const { file } = useTestDatabase();
 
 async function countsThroughKnex(): Promise<Record<string, number>> {
-  const names = (await db().raw("select name from sqlite_master where type = 'table' and name not like 'sqlite_%' order by name")) as { name: string }[];
+  const names = (await db().raw(
+    "select name from sqlite_master where type = 'table' and name not like 'sqlite_%' order by name",
+  )) as { name: string }[];
   const out: Record<string, number> = {};
   for (const { name } of names) out[name] = Number(((await db()(name).count({ n: '*' }).first()) as { n: number }).n);
   return out;
@@ -26,7 +28,14 @@ describe.skipIf(onPostgres())('online backup (db:backup)', () => {
     const ws = await makeWorkspace(['planner']);
     const cookie = await sessionCookie(ws.members.planner.id);
     for (let i = 0; i < 5; i++) {
-      const r = await call(screeningsRoute.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings`, { cookie, body: { ...FLIGHT, name: `backup ${i}` } }), { slug: ws.slug });
+      const r = await call(
+        screeningsRoute.POST,
+        apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings`, {
+          cookie,
+          body: { ...FLIGHT, name: `backup ${i}` },
+        }),
+        { slug: ws.slug },
+      );
       expect(r.status).toBe(201);
     }
     // The app's connection is open in WAL mode and has not checkpointed: the latest rows are only in the -wal file.
@@ -49,7 +58,11 @@ describe.skipIf(onPostgres())('online backup (db:backup)', () => {
     expect(report.rowCounts).toEqual(before);
 
     // The app keeps writing after the backup; the copy does not change.
-    const more = await call(screeningsRoute.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings`, { cookie, body: FLIGHT }), { slug: ws.slug });
+    const more = await call(
+      screeningsRoute.POST,
+      apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings`, { cookie, body: FLIGHT }),
+      { slug: ws.slug },
+    );
     expect(more.status).toBe(201);
     const copy = new Database(target, { readonly: true });
     expect(sqliteRowCounts(copy)).toEqual(before);
@@ -62,8 +75,18 @@ describe.skipIf(onPostgres())('online backup (db:backup)', () => {
     process.env.SQLITE_FILE = restored;
     resetEnvForTests();
     expect(await countsThroughKnex()).toEqual(before);
-    const list = await call<{ items: { name: string }[] }>(screeningsRoute.GET, apiRequest('GET', `/api/v1/workspaces/${ws.slug}/screenings?limit=50`, { cookie }), { slug: ws.slug });
-    expect(list.body.items.map((i) => i.name).sort()).toEqual(['backup 0', 'backup 1', 'backup 2', 'backup 3', 'backup 4']);
+    const list = await call<{ items: { name: string }[] }>(
+      screeningsRoute.GET,
+      apiRequest('GET', `/api/v1/workspaces/${ws.slug}/screenings?limit=50`, { cookie }),
+      { slug: ws.slug },
+    );
+    expect(list.body.items.map((i) => i.name).sort()).toEqual([
+      'backup 0',
+      'backup 1',
+      'backup 2',
+      'backup 3',
+      'backup 4',
+    ]);
     await closeDb();
     process.env.SQLITE_FILE = file();
     resetEnvForTests();
@@ -72,7 +95,12 @@ describe.skipIf(onPostgres())('online backup (db:backup)', () => {
   it('the npm script backs up the configured file and refuses to overwrite', () => {
     const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'tropopass-backup-cli-'));
     const target = path.join(dir, 'cli.sqlite');
-    const run = () => execFileSync(process.execPath, ['--import', 'tsx', 'db/backup.ts', target], { env: { ...process.env, SQLITE_FILE: file(), DATABASE_URL: '' }, encoding: 'utf8', stdio: 'pipe' });
+    const run = () =>
+      execFileSync(process.execPath, ['--import', 'tsx', 'db/backup.ts', target], {
+        env: { ...process.env, SQLITE_FILE: file(), DATABASE_URL: '' },
+        encoding: 'utf8',
+        stdio: 'pipe',
+      });
     expect(run()).toMatch(/integrity_check: ok/);
     expect(fs.existsSync(target)).toBe(true);
     expect(run).toThrow(/already exists/);

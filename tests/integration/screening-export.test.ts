@@ -10,7 +10,12 @@ useTestDatabase();
 
 const FLIGHT = {
   route: { waypoints: [{ airport: 'EGLL' }, { lat: 64.13, lon: -21.94 }, { airport: 'PANC' }] },
-  cruise: { steps: [{ fromKm: 0, flightLevel: 350 }, { fromKm: 3000, flightLevel: 390 }] },
+  cruise: {
+    steps: [
+      { fromKm: 0, flightLevel: 350 },
+      { fromKm: 3000, flightLevel: 390 },
+    ],
+  },
   fuelBurnKg: 55_000,
   emission: { eiNoxGPerKg: 15 },
   month: 1,
@@ -18,21 +23,34 @@ const FLIGHT = {
 
 type Saved = {
   id: number;
-  result: { segments: { startKm: number; lon: number; noxKg: number; aboveTropopause: boolean }[]; noxTotalKg: number; fractionAboveTropopause: number; cautions: string[] };
+  result: {
+    segments: { startKm: number; lon: number; noxKg: number; aboveTropopause: boolean }[];
+    noxTotalKg: number;
+    fractionAboveTropopause: number;
+    cautions: string[];
+  };
 };
 
 async function save(slug: string, cookie: string, name: string): Promise<Saved> {
-  const r = await call<Saved>(screeningsRoute.POST, apiRequest('POST', `/api/v1/workspaces/${slug}/screenings`, { cookie, body: { ...FLIGHT, name } }), { slug });
+  const r = await call<Saved>(
+    screeningsRoute.POST,
+    apiRequest('POST', `/api/v1/workspaces/${slug}/screenings`, { cookie, body: { ...FLIGHT, name } }),
+    { slug },
+  );
   expect(r.status).toBe(201);
   return r.body;
 }
 
 async function download(slug: string, id: number, cookie: string, format?: string): Promise<Response> {
   const q = format === undefined ? '' : `?format=${format}`;
-  return (exportRoute.GET as unknown as (req: Request, ctx: { params: Promise<{ slug: string; id: string }> }) => Promise<Response>)(
-    apiRequest('GET', `/api/v1/workspaces/${slug}/screenings/${id}/export${q}`, { cookie }),
-    { params: Promise.resolve({ slug, id: String(id) }) },
-  );
+  return (
+    exportRoute.GET as unknown as (
+      req: Request,
+      ctx: { params: Promise<{ slug: string; id: string }> },
+    ) => Promise<Response>
+  )(apiRequest('GET', `/api/v1/workspaces/${slug}/screenings/${id}/export${q}`, { cookie }), {
+    params: Promise.resolve({ slug, id: String(id) }),
+  });
 }
 
 function parseCsv(text: string): string[][] {
@@ -69,7 +87,9 @@ describe('GET /workspaces/{slug}/screenings/{id}/export', () => {
     const col = (name: string) => header.indexOf(name);
     const noxSum = segmentRows.reduce((s, r) => s + Number(r[col('NOx (kg NO2)')]), 0);
     expect(noxSum).toBeCloseTo(saved.result.noxTotalKg, 1);
-    expect(segmentRows.map((r) => r[col('Above tropopause')])).toEqual(saved.result.segments.map((s) => (s.aboveTropopause ? 'yes' : 'no')));
+    expect(segmentRows.map((r) => r[col('Above tropopause')])).toEqual(
+      saved.result.segments.map((s) => (s.aboveTropopause ? 'yes' : 'no')),
+    );
     const westward = segmentRows.find((r) => Number(r[col('Longitude (deg)')]) < 0);
     expect(westward?.[col('Longitude (deg)')]).toMatch(/^-\d/);
   });

@@ -16,15 +16,19 @@ describe('screenings API with a flown track', () => {
   it('save without a cruise: 201 with the track summary; the list labels it as a track', async () => {
     const ws = await makeWorkspace(['planner']);
     const cookie = await sessionCookie(ws.members.planner.id);
-    const r = await call<{ result: { track: { points: number; durationS: number; levels: number[] }; cruiseTimeH: number } }>(
-      screeningsRoute.POST,
-      apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings`, { cookie, body: BODY }),
-      { slug: ws.slug },
-    );
+    const r = await call<{
+      result: { track: { points: number; durationS: number; levels: number[] }; cruiseTimeH: number };
+    }>(screeningsRoute.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings`, { cookie, body: BODY }), {
+      slug: ws.slug,
+    });
     expect(r.status).toBe(201);
     expect(r.body.result.track).toMatchObject({ points: 3, durationS: 4800, levels: [235, 370] });
     expect(r.body.result.cruiseTimeH).toBeCloseTo(80 / 60, 12);
-    const list = await call<{ items: { routeLabel: string }[] }>(screeningsRoute.GET, apiRequest('GET', `/api/v1/workspaces/${ws.slug}/screenings`, { cookie }), { slug: ws.slug });
+    const list = await call<{ items: { routeLabel: string }[] }>(
+      screeningsRoute.GET,
+      apiRequest('GET', `/api/v1/workspaces/${ws.slug}/screenings`, { cookie }),
+      { slug: ws.slug },
+    );
     expect(list.body.items[0].routeLabel).toBe('60.0,0.0 → 62.0,-20.0 (track, 3 points)');
   });
 
@@ -32,7 +36,14 @@ describe('screenings API with a flown track', () => {
     const ws = await makeWorkspace(['planner']);
     const cookie = await sessionCookie(ws.members.planner.id);
     const points = [POINTS[0], { ...POINTS[1], time: '2026-11-20T09:00:00Z' }, POINTS[2]];
-    const r = await call<{ error: { fields: { path: string }[] } }>(previewRoute.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings/preview`, { cookie, body: { ...BODY, route: { track: { points } } } }), { slug: ws.slug });
+    const r = await call<{ error: { fields: { path: string }[] } }>(
+      previewRoute.POST,
+      apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings/preview`, {
+        cookie,
+        body: { ...BODY, route: { track: { points } } },
+      }),
+      { slug: ws.slug },
+    );
     expect(r.status).toBe(422);
     expect(r.body.error.fields.map((f) => f.path)).toContain('route.track.points.1.time');
   });

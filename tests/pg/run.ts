@@ -17,7 +17,10 @@ const ROOT = process.cwd();
 function pgBinDir(): string | null {
   const base = '/usr/lib/postgresql';
   if (!fs.existsSync(base)) return null;
-  const versions = fs.readdirSync(base).filter((v) => fs.existsSync(path.join(base, v, 'bin', 'initdb'))).sort((a, b) => Number(b) - Number(a));
+  const versions = fs
+    .readdirSync(base)
+    .filter((v) => fs.existsSync(path.join(base, v, 'bin', 'initdb')))
+    .sort((a, b) => Number(b) - Number(a));
   return versions.length ? path.join(base, versions[0], 'bin') : null;
 }
 
@@ -27,7 +30,10 @@ function ensurePostgres(): string {
   if (process.getuid?.() !== 0) throw new Error('PostgreSQL is not installed; run: apt-get install -y postgresql');
   console.log('[pg] installing Debian postgresql ...');
   execFileSync('apt-get', ['update', '-qq'], { stdio: 'inherit' });
-  execFileSync('apt-get', ['install', '-y', '-qq', 'postgresql'], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
+  execFileSync('apt-get', ['install', '-y', '-qq', 'postgresql'], {
+    stdio: 'inherit',
+    env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' },
+  });
   const bin = pgBinDir();
   if (!bin) throw new Error('postgresql installed but initdb not found');
   return bin;
@@ -38,11 +44,16 @@ function asPostgres(bin: string, args: string[], opts: { stdio?: 'inherit' | 'pi
   const asRoot = process.getuid?.() === 0;
   const [cmd, argv] = asRoot ? ['runuser', ['-u', 'postgres', '--', bin, ...args]] : [bin, args];
   const r = spawnSync(cmd, argv, { stdio: opts.stdio ?? 'pipe', encoding: 'utf8', cwd: os.tmpdir() });
-  if (r.status !== 0) throw new Error(`${path.basename(bin)} ${args.join(' ')} failed:\n${r.stdout ?? ''}${r.stderr ?? ''}`);
+  if (r.status !== 0)
+    throw new Error(`${path.basename(bin)} ${args.join(' ')} failed:\n${r.stdout ?? ''}${r.stderr ?? ''}`);
 }
 
 function knex(env: NodeJS.ProcessEnv, ...args: string[]): void {
-  const r = spawnSync(process.execPath, ['--import', 'tsx', 'node_modules/knex/bin/cli.js', '--knexfile', 'knexfile.ts', ...args], { cwd: ROOT, env, stdio: 'pipe', encoding: 'utf8' });
+  const r = spawnSync(
+    process.execPath,
+    ['--import', 'tsx', 'node_modules/knex/bin/cli.js', '--knexfile', 'knexfile.ts', ...args],
+    { cwd: ROOT, env, stdio: 'pipe', encoding: 'utf8' },
+  );
   if (r.status !== 0) throw new Error(`knex ${args.join(' ')} failed:\n${r.stdout}${r.stderr}`);
   console.log(`[pg] knex ${args.join(' ')}: ${(r.stdout.trim().split('\n').pop() ?? '').trim()}`);
 }
@@ -55,9 +66,29 @@ async function main(): Promise<number> {
   fs.mkdirSync(sock);
   if (process.getuid?.() === 0) execFileSync('chown', ['-R', 'postgres:postgres', work]);
   const port = await freePort();
-  asPostgres(path.join(bin, 'initdb'), ['-D', data, '-A', 'trust', '-U', 'postgres', '-E', 'UTF8', '--locale=C', '--no-sync']);
+  asPostgres(path.join(bin, 'initdb'), [
+    '-D',
+    data,
+    '-A',
+    'trust',
+    '-U',
+    'postgres',
+    '-E',
+    'UTF8',
+    '--locale=C',
+    '--no-sync',
+  ]);
   const serverOpts = `-p ${port} -c listen_addresses=127.0.0.1 -k ${sock} -c fsync=off -c synchronous_commit=off -c full_page_writes=off -c max_connections=300`;
-  asPostgres(path.join(bin, 'pg_ctl'), ['-D', data, '-l', path.join(work, 'server.log'), '-o', serverOpts, '-w', 'start']);
+  asPostgres(path.join(bin, 'pg_ctl'), [
+    '-D',
+    data,
+    '-l',
+    path.join(work, 'server.log'),
+    '-o',
+    serverOpts,
+    '-w',
+    'start',
+  ]);
   const admin = `postgres://postgres@127.0.0.1:${port}/postgres`;
   console.log(`[pg] PostgreSQL (${path.basename(path.dirname(bin))}) on 127.0.0.1:${port}`);
   try {
@@ -68,11 +99,15 @@ async function main(): Promise<number> {
     knex(migEnv, 'migrate:latest');
     knex({ ...migEnv, DEMO_TODAY: '2026-11-20' }, 'seed:run');
     const args = process.argv.slice(2);
-    const r = spawnSync(process.execPath, ['node_modules/vitest/vitest.mjs', 'run', '--project', 'integration', ...args], {
-      cwd: ROOT,
-      env: { ...process.env, TEST_PG_ADMIN_URL: admin, DATABASE_URL: '' },
-      stdio: 'inherit',
-    });
+    const r = spawnSync(
+      process.execPath,
+      ['node_modules/vitest/vitest.mjs', 'run', '--project', 'integration', ...args],
+      {
+        cwd: ROOT,
+        env: { ...process.env, TEST_PG_ADMIN_URL: admin, DATABASE_URL: '' },
+        stdio: 'inherit',
+      },
+    );
     return r.status ?? 1;
   } finally {
     try {

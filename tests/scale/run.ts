@@ -19,14 +19,30 @@ import path from 'node:path';
 import knexFactory, { type Knex } from 'knex';
 import { encode } from 'next-auth/jwt';
 import Database from 'better-sqlite3';
-import { appEnv, build, hasBuild, prepareDatabase, reexecUnderLock, ROOT, startApp, tempDir, type RunningApp } from '../soak/app-process';
+import {
+  appEnv,
+  build,
+  hasBuild,
+  prepareDatabase,
+  reexecUnderLock,
+  ROOT,
+  startApp,
+  tempDir,
+  type RunningApp,
+} from '../soak/app-process';
 import { freePort } from '../support/free-port';
 
 const ROWS = Number(process.env.SCALE_ROWS ?? 20_000);
 const SLUG = 'skarn-polar';
 const SECRET = 'scale-secret-0123456789-abcdefghijkl';
 const SIGNIN_LIMIT = 4;
-const PAIRS = [['EGLL', 'KJFK'], ['EFHK', 'RJTT'], ['ENGM', 'KSEA'], ['BIKF', 'CYYZ'], ['EKCH', 'PANC']];
+const PAIRS = [
+  ['EGLL', 'KJFK'],
+  ['EFHK', 'RJTT'],
+  ['ENGM', 'KSEA'],
+  ['BIKF', 'CYYZ'],
+  ['EKCH', 'PANC'],
+];
 
 const problems: string[] = [];
 const check = (ok: boolean, what: string) => {
@@ -37,7 +53,12 @@ const pause = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 function pgBinDir(): string {
   const base = '/usr/lib/postgresql';
-  const versions = fs.existsSync(base) ? fs.readdirSync(base).filter((v) => fs.existsSync(path.join(base, v, 'bin', 'initdb'))).sort((a, b) => Number(b) - Number(a)) : [];
+  const versions = fs.existsSync(base)
+    ? fs
+        .readdirSync(base)
+        .filter((v) => fs.existsSync(path.join(base, v, 'bin', 'initdb')))
+        .sort((a, b) => Number(b) - Number(a))
+    : [];
   if (!versions.length) throw new Error('PostgreSQL is not installed (npm run test:pg installs it when run as root)');
   return path.join(base, versions[0], 'bin');
 }
@@ -53,13 +74,20 @@ function schedule(rows: number): string {
   const lines = ['date,flight,origin,destination,aircraft,cruise_fl,fuel_kg'];
   for (let i = 0; i < rows; i++) {
     const [o, d] = PAIRS[i % PAIRS.length];
-    lines.push(`2026-10-${String(1 + (i % 30)).padStart(2, '0')},SC${i},${o},${d},SK-LR1,${330 + (i % 5) * 10},${40_000 + (i % 11) * 1000}`);
+    lines.push(
+      `2026-10-${String(1 + (i % 30)).padStart(2, '0')},SC${i},${o},${d},SK-LR1,${330 + (i % 5) * 10},${40_000 + (i % 11) * 1000}`,
+    );
   }
   return lines.join('\n');
 }
 
 function startWorker(env: NodeJS.ProcessEnv, name: string): ChildProcess {
-  const child = spawn(process.execPath, ['--conditions=react-server', '--import', 'tsx', 'lib/worker/main.ts'], { cwd: ROOT, env, stdio: ['ignore', 'pipe', 'pipe'], detached: true });
+  const child = spawn(process.execPath, ['--conditions=react-server', '--import', 'tsx', 'lib/worker/main.ts'], {
+    cwd: ROOT,
+    env,
+    stdio: ['ignore', 'pipe', 'pipe'],
+    detached: true,
+  });
   child.stderr?.on('data', (b: Buffer) => process.stderr.write(`[${name}] ${b.toString()}`));
   return child;
 }
@@ -103,12 +131,37 @@ async function main(): Promise<number> {
   fs.mkdirSync(sock);
   if (process.getuid?.() === 0) execFileSync('chown', ['-R', 'postgres:postgres', work]);
   const pgPort = await freePort();
-  asPostgres(path.join(bin, 'initdb'), ['-D', data, '-A', 'trust', '-U', 'postgres', '-E', 'UTF8', '--locale=C', '--no-sync']);
-  asPostgres(path.join(bin, 'pg_ctl'), ['-D', data, '-l', path.join(work, 'server.log'), '-o', `-p ${pgPort} -c listen_addresses=127.0.0.1 -k ${sock} -c fsync=off -c synchronous_commit=off -c max_connections=200`, '-w', 'start']);
+  asPostgres(path.join(bin, 'initdb'), [
+    '-D',
+    data,
+    '-A',
+    'trust',
+    '-U',
+    'postgres',
+    '-E',
+    'UTF8',
+    '--locale=C',
+    '--no-sync',
+  ]);
+  asPostgres(path.join(bin, 'pg_ctl'), [
+    '-D',
+    data,
+    '-l',
+    path.join(work, 'server.log'),
+    '-o',
+    `-p ${pgPort} -c listen_addresses=127.0.0.1 -k ${sock} -c fsync=off -c synchronous_commit=off -c max_connections=200`,
+    '-w',
+    'start',
+  ]);
   const admin = `postgres://postgres@127.0.0.1:${pgPort}/postgres`;
   execFileSync('psql', [admin, '-q', '-c', 'CREATE DATABASE tropopass_scale']);
   const databaseUrl = `postgres://postgres@127.0.0.1:${pgPort}/tropopass_scale`;
-  console.log(`[scale] PostgreSQL on 127.0.0.1:${pgPort}; ${ROWS} rows; ${os.cpus().length} cores, load average ${os.loadavg().map((l) => l.toFixed(1)).join(' ')}`);
+  console.log(
+    `[scale] PostgreSQL on 127.0.0.1:${pgPort}; ${ROWS} rows; ${os.cpus().length} cores, load average ${os
+      .loadavg()
+      .map((l) => l.toFixed(1))
+      .join(' ')}`,
+  );
 
   const [portA, portB, fakePort] = [await freePort(), await freePort(), await freePort()];
   const fakeFile = path.join(work, 'payment-fake.sqlite');
@@ -119,14 +172,26 @@ async function main(): Promise<number> {
     RATE_LIMIT_SIGNIN_PER_15MIN: String(SIGNIN_LIMIT),
     LOG_LEVEL: 'warn',
   };
-  const webEnv = (port: number) => appEnv({ dir: work, port, extra: { ...common, NEXTAUTH_SECRET: SECRET, IMPORT_WORKER: '0', BILLING_SENDER: '0' } });
-  const workerEnv = { ...appEnv({ dir: work, port: portA, extra: common }), IMPORT_WORKER: '1', BILLING_SENDER: '1', BILLING_SENDER_INTERVAL_MS: '200', SCREENING_THREADS: '1' };
+  const webEnv = (port: number) =>
+    appEnv({ dir: work, port, extra: { ...common, NEXTAUTH_SECRET: SECRET, IMPORT_WORKER: '0', BILLING_SENDER: '0' } });
+  const workerEnv = {
+    ...appEnv({ dir: work, port: portA, extra: common }),
+    IMPORT_WORKER: '1',
+    BILLING_SENDER: '1',
+    BILLING_SENDER_INTERVAL_MS: '200',
+    SCREENING_THREADS: '1',
+  };
   prepareDatabase(webEnv(portA));
   const k: Knex = knexFactory({ client: 'pg', connection: databaseUrl, pool: { min: 0, max: 4 } });
 
   const fake = spawn(process.execPath, ['--import', 'tsx', 'lib/fakes/payment/server.ts'], {
     cwd: ROOT,
-    env: { ...process.env, PAYMENT_FAKE_PORT: String(fakePort), PAYMENT_FAKE_DB: fakeFile, PAYMENT_WEBHOOK_URL: `http://127.0.0.1:${portA}/api/webhooks/stripe` },
+    env: {
+      ...process.env,
+      PAYMENT_FAKE_PORT: String(fakePort),
+      PAYMENT_FAKE_DB: fakeFile,
+      PAYMENT_WEBHOOK_URL: `http://127.0.0.1:${portA}/api/webhooks/stripe`,
+    },
     stdio: 'ignore',
     detached: true,
   });
@@ -139,8 +204,14 @@ async function main(): Promise<number> {
     workers.push(startWorker(workerEnv, 'worker-1'));
 
     // An API key created through A (by the workspace owner's session) works on B.
-    const owner = (await k('users').where({ email: 'consultant@tropopass.test' }).first()) as { id: number; session_version: number };
-    const token = await encode({ token: { uid: owner.id, sv: Number(owner.session_version), authAt: Date.now() }, secret: SECRET });
+    const owner = (await k('users').where({ email: 'consultant@tropopass.test' }).first()) as {
+      id: number;
+      session_version: number;
+    };
+    const token = await encode({
+      token: { uid: owner.id, sv: Number(owner.session_version), authAt: Date.now() },
+      secret: SECRET,
+    });
     const created = await fetch(`${a.baseUrl}/api/v1/workspaces/${SLUG}/api-keys`, {
       method: 'POST',
       headers: { cookie: `next-auth.session-token=${token}`, origin: a.baseUrl, 'content-type': 'application/json' },
@@ -148,27 +219,41 @@ async function main(): Promise<number> {
     });
     const key = ((await created.json()) as { key?: string }).key ?? '';
     check(created.status === 201 && key !== '', `API key created on A (${created.status})`);
-    const onB = await fetch(`${b.baseUrl}/api/v1/workspaces/${SLUG}/screenings?limit=1`, { headers: { authorization: `Bearer ${key}` } });
+    const onB = await fetch(`${b.baseUrl}/api/v1/workspaces/${SLUG}/screenings?limit=1`, {
+      headers: { authorization: `Bearer ${key}` },
+    });
     check(onB.status === 200, `the key works on B (${onB.status})`);
 
     // Sign-in throttling counts attempts on both instances together.
     const email = 'planner@tropopass.test';
     const wrong: (string | null)[] = [];
-    for (let i = 0; i < SIGNIN_LIMIT; i++) wrong.push(await signIn((i % 2 === 0 ? a : b).baseUrl, email, 'not the password', `10.9.0.${i + 1}`));
-    check(wrong.every((e) => e !== null && !/Too many/.test(e)), `${SIGNIN_LIMIT} wrong passwords, alternately on A and B, refused as wrong (${wrong.join(' | ')})`);
+    for (let i = 0; i < SIGNIN_LIMIT; i++)
+      wrong.push(await signIn((i % 2 === 0 ? a : b).baseUrl, email, 'not the password', `10.9.0.${i + 1}`));
+    check(
+      wrong.every((e) => e !== null && !/Too many/.test(e)),
+      `${SIGNIN_LIMIT} wrong passwords, alternately on A and B, refused as wrong (${wrong.join(' | ')})`,
+    );
     const lockedA = await signIn(a.baseUrl, email, 'tropopass-demo', '10.9.1.1');
     const lockedB = await signIn(b.baseUrl, email, 'tropopass-demo', '10.9.1.2');
-    check(/Too many failed sign-ins/.test(lockedA ?? '') && /Too many failed sign-ins/.test(lockedB ?? ''), `then the right password is paused on both (${lockedA} | ${lockedB})`);
+    check(
+      /Too many failed sign-ins/.test(lockedA ?? '') && /Too many failed sign-ins/.test(lockedB ?? ''),
+      `then the right password is paused on both (${lockedA} | ${lockedB})`,
+    );
     const other = await signIn(b.baseUrl, 'analyst@tropopass.test', 'tropopass-demo', '10.9.1.3');
     check(other === null, `another account still signs in (${other})`);
 
     // A 20 000-row import through A, screened by the workers; one of them is killed mid-way.
     const form = new FormData();
     form.set('file', new Blob([schedule(ROWS)], { type: 'text/csv' }), 'scale.csv');
-    const up = await fetch(`${a.baseUrl}/api/v1/workspaces/${SLUG}/imports`, { method: 'POST', headers: { authorization: `Bearer ${key}` }, body: form });
+    const up = await fetch(`${a.baseUrl}/api/v1/workspaces/${SLUG}/imports`, {
+      method: 'POST',
+      headers: { authorization: `Bearer ${key}` },
+      body: form,
+    });
     const importId = ((await up.json()) as { id?: number }).id ?? 0;
     check(up.status === 202 && importId > 0, `import of ${ROWS} rows accepted by A (${up.status})`);
-    const progress = async () => (await k('imports').where({ id: importId }).first()) as { status: string; rows_done: number };
+    const progress = async () =>
+      (await k('imports').where({ id: importId }).first()) as { status: string; rows_done: number };
     const deadline = Date.now() + 6 * 60_000;
     let p = await progress();
     while (Number(p.rows_done) < ROWS / 4 && p.status !== 'complete' && Date.now() < deadline) {
@@ -180,7 +265,10 @@ async function main(): Promise<number> {
     p = await progress();
     const killedAt = Number(p.rows_done);
     await killGroup(workers[0], 'SIGKILL');
-    check(killedAt > 0 && killedAt < ROWS, `worker 1 SIGKILLed mid-way, with worker 2 running beside it (${killedAt} / ${ROWS} rows screened)`);
+    check(
+      killedAt > 0 && killedAt < ROWS,
+      `worker 1 SIGKILLed mid-way, with worker 2 running beside it (${killedAt} / ${ROWS} rows screened)`,
+    );
     // Its lock went with its connection: worker 2 takes the import over without waiting for a timeout.
     const takeover = Date.now() + 30_000;
     let after = Number(p.rows_done);
@@ -188,18 +276,36 @@ async function main(): Promise<number> {
       await pause(100);
       after = Number((await progress()).rows_done);
     }
-    check(after > killedAt + 500, `worker 2 went on with the import (${killedAt} -> ${after} rows within ${((Date.now() - takeover + 30_000) / 1000).toFixed(1)} s)`);
+    check(
+      after > killedAt + 500,
+      `worker 2 went on with the import (${killedAt} -> ${after} rows within ${((Date.now() - takeover + 30_000) / 1000).toFixed(1)} s)`,
+    );
     workers[0] = startWorker(workerEnv, 'worker-1b');
     while (p.status !== 'complete' && p.status !== 'failed' && Date.now() < deadline) {
       await pause(250);
       p = await progress();
     }
     check(p.status === 'complete' && Number(p.rows_done) === ROWS, `import ${p.status}, ${p.rows_done} rows done`);
-    const flights = (await k('flights').where({ import_id: importId }).groupBy('status').select('status').count({ n: '*' })) as { status: string; n: string }[];
+    const flights = (await k('flights')
+      .where({ import_id: importId })
+      .groupBy('status')
+      .select('status')
+      .count({ n: '*' })) as { status: string; n: string }[];
     const screened = Number(flights.find((f) => f.status === 'screened')?.n ?? 0);
-    check(screened === ROWS && flights.length === 1, `every flight screened (${flights.map((f) => `${f.status} ${f.n}`).join(', ')})`);
-    const units = (await k('usage_events as u').join('flights as f', 'f.id', 'u.source_id').where({ 'u.kind': 'imported_flight', 'f.import_id': importId }).count({ n: '*' }).countDistinct({ d: 'u.source_id' }).first()) as { n: string; d: string };
-    check(Number(units.n) === ROWS && Number(units.d) === ROWS, `one usage unit per flight (${units.n} units, ${units.d} flights)`);
+    check(
+      screened === ROWS && flights.length === 1,
+      `every flight screened (${flights.map((f) => `${f.status} ${f.n}`).join(', ')})`,
+    );
+    const units = (await k('usage_events as u')
+      .join('flights as f', 'f.id', 'u.source_id')
+      .where({ 'u.kind': 'imported_flight', 'f.import_id': importId })
+      .count({ n: '*' })
+      .countDistinct({ d: 'u.source_id' })
+      .first()) as { n: string; d: string };
+    check(
+      Number(units.n) === ROWS && Number(units.d) === ROWS,
+      `one usage unit per flight (${units.n} units, ${units.d} flights)`,
+    );
 
     // The senders drain the ledger; the payment service holds each batch once.
     const billable = () =>
@@ -215,18 +321,39 @@ async function main(): Promise<number> {
       await pause(250);
     }
     check(unsent === 0, `every billable unit sent (${unsent} left)`);
-    const sentUnits = Number(((await k('usage_events').whereNotNull('sent_at').count({ n: '*' }).first()) as { n: string }).n);
-    const batches = (await k('usage_batches').select('identifier', 'quantity', 'sent_at')) as { identifier: string; quantity: number; sent_at: string | null }[];
+    const sentUnits = Number(
+      ((await k('usage_events').whereNotNull('sent_at').count({ n: '*' }).first()) as { n: string }).n,
+    );
+    const batches = (await k('usage_batches').select('identifier', 'quantity', 'sent_at')) as {
+      identifier: string;
+      quantity: number;
+      sent_at: string | null;
+    }[];
     const fakeDb = new Database(fakeFile, { readonly: true });
-    const events = fakeDb.prepare('select identifier, value from meter_events').all() as { identifier: string; value: number }[];
+    const events = fakeDb.prepare('select identifier, value from meter_events').all() as {
+      identifier: string;
+      value: number;
+    }[];
     fakeDb.close();
     const byId = new Map(batches.map((x) => [x.identifier, x]));
-    check(new Set(events.map((e) => e.identifier)).size === events.length, `no meter event twice (${events.length} events)`);
-    check(events.every((e) => byId.get(e.identifier)?.quantity === e.value), 'every meter event is one usage batch with its count');
-    check(batches.filter((x) => x.sent_at).every((x) => events.some((e) => e.identifier === x.identifier)), 'every batch marked sent is at the payment service');
+    check(
+      new Set(events.map((e) => e.identifier)).size === events.length,
+      `no meter event twice (${events.length} events)`,
+    );
+    check(
+      events.every((e) => byId.get(e.identifier)?.quantity === e.value),
+      'every meter event is one usage batch with its count',
+    );
+    check(
+      batches.filter((x) => x.sent_at).every((x) => events.some((e) => e.identifier === x.identifier)),
+      'every batch marked sent is at the payment service',
+    );
     check(sentUnits >= ROWS, `the import's units were billable and sent (${sentUnits} units sent in all)`);
     const providerUnits = events.reduce((s, e) => s + e.value, 0);
-    check(providerUnits === sentUnits, `the payment service counts ${providerUnits} units, the ledger ${sentUnits} sent`);
+    check(
+      providerUnits === sentUnits,
+      `the payment service counts ${providerUnits} units, the ledger ${sentUnits} sent`,
+    );
   } finally {
     for (const w of workers) await killGroup(w, 'SIGTERM');
     await Promise.all([a?.stop(), b?.stop()]);
@@ -239,7 +366,9 @@ async function main(): Promise<number> {
     }
     fs.rmSync(work, { recursive: true, force: true });
   }
-  console.log(`[scale] ${problems.length ? `FAILED (${problems.length})` : 'passed'} in ${((Date.now() - started) / 1000).toFixed(0)} s`);
+  console.log(
+    `[scale] ${problems.length ? `FAILED (${problems.length})` : 'passed'} in ${((Date.now() - started) / 1000).toFixed(0)} s`,
+  );
   return problems.length ? 1 : 0;
 }
 

@@ -26,13 +26,21 @@ const LOCK = '/tmp/tropopass-e2e.lock';
  */
 export function reexecUnderLock(entry: string): number | null {
   if (process.env.TROPOPASS_E2E_LOCK_HELD === '1') return null;
-  const r = spawnSync('flock', [LOCK, process.execPath, '--import', 'tsx', entry, ...process.argv.slice(2)], { cwd: ROOT, stdio: 'inherit', env: { ...process.env, TROPOPASS_E2E_LOCK_HELD: '1' } });
+  const r = spawnSync('flock', [LOCK, process.execPath, '--import', 'tsx', entry, ...process.argv.slice(2)], {
+    cwd: ROOT,
+    stdio: 'inherit',
+    env: { ...process.env, TROPOPASS_E2E_LOCK_HELD: '1' },
+  });
   return r.status ?? 1;
 }
 
 /** `next build`; call it only while holding the lock (see reexecUnderLock). */
 export function build(env: NodeJS.ProcessEnv = process.env): void {
-  const r = spawnSync(process.execPath, ['node_modules/next/dist/bin/next', 'build'], { cwd: ROOT, stdio: 'inherit', env });
+  const r = spawnSync(process.execPath, ['node_modules/next/dist/bin/next', 'build'], {
+    cwd: ROOT,
+    stdio: 'inherit',
+    env,
+  });
   if (r.status !== 0) throw new Error(`next build failed (exit ${r.status})`);
 }
 
@@ -80,10 +88,14 @@ export function insertApiKey(file: string, slug: string, role: 'planner' | 'anal
     if (!ws) throw new Error(`no workspace ${slug} in ${file}`);
     const { key, prefix, hash } = newApiKey();
     // A key lives only while its creator may make keys, so it is made in an owner's name.
-    const owner = conn.prepare("select user_id from memberships where workspace_id = ? and role = 'owner' order by id limit 1").get(ws.id) as { user_id: number } | undefined;
+    const owner = conn
+      .prepare("select user_id from memberships where workspace_id = ? and role = 'owner' order by id limit 1")
+      .get(ws.id) as { user_id: number } | undefined;
     if (!owner) throw new Error(`no owner in ${slug}`);
     conn
-      .prepare('insert into api_keys (workspace_id, name, role, key_prefix, key_hash, created_by, created_at) values (?, ?, ?, ?, ?, ?, ?)')
+      .prepare(
+        'insert into api_keys (workspace_id, name, role, key_prefix, key_hash, created_by, created_at) values (?, ?, ?, ?, ?, ?, ?)',
+      )
       .run(ws.id, `bench-${Date.now()}`, role, prefix, hash, owner.user_id, new Date().toISOString());
     return key;
   } finally {
@@ -99,8 +111,16 @@ export interface RunningApp {
   stop: (signal?: NodeJS.Signals) => Promise<void>;
 }
 
-export async function startApp(env: NodeJS.ProcessEnv, port: number, opts: { echo?: boolean } = {}): Promise<RunningApp> {
-  const child = spawn(process.execPath, ['node_modules/next/dist/bin/next', 'start', '-H', '127.0.0.1', '-p', String(port)], { cwd: ROOT, env, stdio: ['ignore', 'pipe', 'pipe'], detached: true });
+export async function startApp(
+  env: NodeJS.ProcessEnv,
+  port: number,
+  opts: { echo?: boolean } = {},
+): Promise<RunningApp> {
+  const child = spawn(
+    process.execPath,
+    ['node_modules/next/dist/bin/next', 'start', '-H', '127.0.0.1', '-p', String(port)],
+    { cwd: ROOT, env, stdio: ['ignore', 'pipe', 'pipe'], detached: true },
+  );
   let out = '';
   const collect = (b: Buffer) => {
     out += b.toString('utf8');

@@ -40,10 +40,16 @@ function compile(r: RouteFile): Compiled {
   return { route: r, regex: new RegExp(`^/${body}/?$`), names, rank };
 }
 
-const routes = routeFiles().filter((r) => r.pattern.startsWith('/api/')).map(compile).sort((a, b) => b.rank - a.rank);
+const routes = routeFiles()
+  .filter((r) => r.pattern.startsWith('/api/'))
+  .map(compile)
+  .sort((a, b) => b.rank - a.rank);
 const loaded = new Map<string, Record<string, Handler | undefined>>();
 
-async function handlerFor(pathname: string, method: string): Promise<{ handler: Handler; params: Record<string, string> } | null> {
+async function handlerFor(
+  pathname: string,
+  method: string,
+): Promise<{ handler: Handler; params: Record<string, string> } | null> {
   for (const c of routes) {
     const m = c.regex.exec(pathname);
     if (!m) continue;
@@ -75,13 +81,20 @@ async function main(): Promise<void> {
       }
       const found = await handlerFor(url.pathname, req.method ?? 'GET');
       if (!found) {
-        res.writeHead(404, { 'content-type': 'application/json' }).end('{"error":{"code":"not_found","message":"Not found."}}');
+        res
+          .writeHead(404, { 'content-type': 'application/json' })
+          .end('{"error":{"code":"not_found","message":"Not found."}}');
         return;
       }
       const headers = new Headers();
       for (const [k, v] of Object.entries(req.headers)) if (typeof v === 'string') headers.set(k, v);
       const hasBody = req.method !== 'GET' && req.method !== 'HEAD';
-      const request = new Request(url, { method: req.method, headers, body: hasBody ? (Readable.toWeb(req) as ReadableStream) : undefined, duplex: 'half' } as RequestInit);
+      const request = new Request(url, {
+        method: req.method,
+        headers,
+        body: hasBody ? (Readable.toWeb(req) as ReadableStream) : undefined,
+        duplex: 'half',
+      } as RequestInit);
       const response = await found.handler(request, { params: Promise.resolve(found.params) });
       res.writeHead(response.status, Object.fromEntries(response.headers));
       res.end(Buffer.from(await response.arrayBuffer()));

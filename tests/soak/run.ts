@@ -17,9 +17,19 @@ async function main(): Promise<number> {
   }
   const kills = Number(process.env.SOAK_KILLS ?? 20);
   console.log(`soak: ${kills} kills of the ${server === 'next' ? 'built server (next start)' : 'plain-Node server'}`);
-  const report = await runCrashSoak({ kills, server, rows: Number(process.env.SOAK_ROWS ?? 3000), drainSeconds: Number(process.env.SOAK_DRAIN_SECONDS ?? 120), log: (l) => console.log(`[soak] ${l}`) });
+  const report = await runCrashSoak({
+    kills,
+    server,
+    rows: Number(process.env.SOAK_ROWS ?? 3000),
+    drainSeconds: Number(process.env.SOAK_DRAIN_SECONDS ?? 120),
+    log: (l) => console.log(`[soak] ${l}`),
+  });
   console.log(formatReport(report));
-  const ok = report.problems.length === 0 && report.kills.length === kills && report.killsMidImport > 0 && (kills < 2 || report.killsBetweenSendAndMark > 0);
+  const ok =
+    report.problems.length === 0 &&
+    report.kills.length === kills &&
+    report.killsMidImport > 0 &&
+    (kills < 2 || report.killsBetweenSendAndMark > 0);
   console.log(ok ? 'soak: passed' : 'soak: FAILED');
   return ok ? 0 : 1;
 }

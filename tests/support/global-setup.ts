@@ -17,10 +17,14 @@ declare module 'vitest' {
 export default function setup(project: TestProject): () => void {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'tropopass-test-'));
   const file = path.join(dir, 'template.sqlite');
-  execFileSync(process.execPath, ['--import', 'tsx', 'node_modules/knex/bin/cli.js', '--knexfile', 'knexfile.ts', 'migrate:latest'], {
-    env: { ...process.env, SQLITE_FILE: file, DATABASE_URL: '' },
-    stdio: 'pipe',
-  });
+  execFileSync(
+    process.execPath,
+    ['--import', 'tsx', 'node_modules/knex/bin/cli.js', '--knexfile', 'knexfile.ts', 'migrate:latest'],
+    {
+      env: { ...process.env, SQLITE_FILE: file, DATABASE_URL: '' },
+      stdio: 'pipe',
+    },
+  );
   // Fold the WAL into the main file so a plain copy of it is the whole migrated database.
   const conn = new Database(file);
   conn.pragma('wal_checkpoint(TRUNCATE)');
@@ -44,10 +48,14 @@ function setupPostgresTemplate(): string {
   psql(admin, `CREATE DATABASE ${name}`);
   const url = new URL(admin);
   url.pathname = `/${name}`;
-  execFileSync(process.execPath, ['--import', 'tsx', 'node_modules/knex/bin/cli.js', '--knexfile', 'knexfile.ts', 'migrate:latest'], {
-    env: { ...process.env, DATABASE_URL: url.toString() },
-    stdio: 'pipe',
-  });
+  execFileSync(
+    process.execPath,
+    ['--import', 'tsx', 'node_modules/knex/bin/cli.js', '--knexfile', 'knexfile.ts', 'migrate:latest'],
+    {
+      env: { ...process.env, DATABASE_URL: url.toString() },
+      stdio: 'pipe',
+    },
+  );
   return name;
 }
 

@@ -20,7 +20,8 @@ export function sourceFilesUnder(dir: string): string[] {
 
 // Static imports and re-exports (`import x from`, `import 'x'`, `export { y } from`), dynamic
 // `import('x')` and `require('x')`. Comments are removed first so an example in a comment does not count.
-const SPECIFIER = /(?:\bimport\s+(?:type\s+)?(?:[^'"();]*?\s+from\s+)?|\bexport\s+(?:type\s+)?[^'"();]*?\s+from\s+|\bimport\s*\(\s*|\brequire\s*\(\s*)['"]([^'"]+)['"]/g;
+const SPECIFIER =
+  /(?:\bimport\s+(?:type\s+)?(?:[^'"();]*?\s+from\s+)?|\bexport\s+(?:type\s+)?[^'"();]*?\s+from\s+|\bimport\s*\(\s*|\brequire\s*\(\s*)['"]([^'"]+)['"]/g;
 
 /** The module specifiers a source file imports, in order of appearance. */
 export function importSpecifiers(file: string): string[] {
@@ -42,7 +43,10 @@ export function resolveSpecifier(
   if (specifier.startsWith('node:')) return { kind: 'builtin' };
   if (specifier.startsWith('@/')) return { kind: 'file', path: stripExtension(specifier.slice(2)) };
   if (specifier.startsWith('.')) {
-    return { kind: 'file', path: stripExtension(path.posix.normalize(path.posix.join(path.posix.dirname(fromFile), specifier))) };
+    return {
+      kind: 'file',
+      path: stripExtension(path.posix.normalize(path.posix.join(path.posix.dirname(fromFile), specifier))),
+    };
   }
   const parts = specifier.split('/');
   return { kind: 'package', name: specifier.startsWith('@') ? parts.slice(0, 2).join('/') : parts[0] };

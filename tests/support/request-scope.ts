@@ -12,7 +12,10 @@ export const scope: { cookie: string; headers: Record<string, string>; setCookie
   setCookies: new Map(),
 };
 
-export function resetScope(cookie = '', headers: Record<string, string> = { origin: TEST_ORIGIN, host: new URL(TEST_ORIGIN).host }): void {
+export function resetScope(
+  cookie = '',
+  headers: Record<string, string> = { origin: TEST_ORIGIN, host: new URL(TEST_ORIGIN).host },
+): void {
   scope.cookie = cookie;
   scope.headers = headers;
   scope.setCookies = new Map();

@@ -41,7 +41,12 @@ export function useTestDatabase(extraEnv: Record<string, string> = {}): { file: 
   });
   afterAll(async () => {
     await closeDb();
-    if (pgDatabase) execFileSync('psql', [postgresUrl('postgres'), '-q', '-c', `DROP DATABASE IF EXISTS ${pgDatabase} WITH (FORCE)`], { stdio: 'pipe' });
+    if (pgDatabase)
+      execFileSync(
+        'psql',
+        [postgresUrl('postgres'), '-q', '-c', `DROP DATABASE IF EXISTS ${pgDatabase} WITH (FORCE)`],
+        { stdio: 'pipe' },
+      );
   });
   return { file: () => file };
 }
@@ -58,7 +63,11 @@ function postgresUrl(database: string): string {
 /** A fresh database for this test file, copied from the migrated template (CREATE DATABASE ... TEMPLATE). */
 function createPostgresDatabase(template: string): string {
   const name = `tropopass_t_${process.pid}_${Math.random().toString(36).slice(2, 8)}`;
-  execFileSync('psql', [postgresUrl('postgres'), '-v', 'ON_ERROR_STOP=1', '-q', '-c', `CREATE DATABASE ${name} TEMPLATE ${template}`], { stdio: 'pipe' });
+  execFileSync(
+    'psql',
+    [postgresUrl('postgres'), '-v', 'ON_ERROR_STOP=1', '-q', '-c', `CREATE DATABASE ${name} TEMPLATE ${template}`],
+    { stdio: 'pipe' },
+  );
   return name;
 }
 
@@ -66,12 +75,21 @@ let counter = 0;
 
 export async function makeUser(prefix = 'user'): Promise<{ id: number; email: string }> {
   counter += 1;
-  const u = await createUser({ email: `${prefix}-${counter}-${Date.now()}@example.test`, name: `${prefix} ${counter}`, passwordHash: null });
+  const u = await createUser({
+    email: `${prefix}-${counter}-${Date.now()}@example.test`,
+    name: `${prefix} ${counter}`,
+    passwordHash: null,
+  });
   return { id: u.id, email: u.email };
 }
 
 /** A workspace with one member per given role (plus an owner), for authorisation tests. */
-export async function makeWorkspace(roles: Role[] = []): Promise<{ id: number; slug: string; owner: { id: number; email: string }; members: Record<string, { id: number; email: string }> }> {
+export async function makeWorkspace(roles: Role[] = []): Promise<{
+  id: number;
+  slug: string;
+  owner: { id: number; email: string };
+  members: Record<string, { id: number; email: string }>;
+}> {
   const owner = await makeUser('owner');
   counter += 1;
   const ws = await createWorkspace({ name: `Test operator ${counter}`, ownerId: owner.id, actor: owner.email });
@@ -79,7 +97,12 @@ export async function makeWorkspace(roles: Role[] = []): Promise<{ id: number; s
   for (const role of roles) {
     if (role === 'owner') continue;
     const u = await makeUser(role);
-    await db()('memberships').insert({ workspace_id: ws.id, user_id: u.id, role, created_at: new Date().toISOString() });
+    await db()('memberships').insert({
+      workspace_id: ws.id,
+      user_id: u.id,
+      role,
+      created_at: new Date().toISOString(),
+    });
     members[role] = u;
   }
   return { id: ws.id, slug: ws.slug, owner, members };
@@ -89,7 +112,10 @@ export async function makeWorkspace(roles: Role[] = []): Promise<{ id: number; s
 export async function sessionCookie(userId: number, opts: { authAt?: number; sid?: string } = {}): Promise<string> {
   const row = await db()('users').where({ id: userId }).first();
   const sid = opts.sid ?? (await createSession(userId, 12));
-  const token = await encode({ token: { uid: userId, sv: Number(row.session_version), authAt: opts.authAt ?? Date.now(), sid }, secret: TEST_SECRET });
+  const token = await encode({
+    token: { uid: userId, sv: Number(row.session_version), authAt: opts.authAt ?? Date.now(), sid },
+    secret: TEST_SECRET,
+  });
   return `next-auth.session-token=${token}`;
 }
 

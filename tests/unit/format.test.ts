@@ -15,6 +15,8 @@ describe('formatMassRange', () => {
   });
 
   it('agrees with formatMass where both ends fall in the same unit', () => {
-    expect(formatMassRange(20_000, 30_000, 'metric')).toBe(`${formatMass(20_000, 'metric').replace(' t', '')} – ${formatMass(30_000, 'metric')}`);
+    expect(formatMassRange(20_000, 30_000, 'metric')).toBe(
+      `${formatMass(20_000, 'metric').replace(' t', '')} – ${formatMass(30_000, 'metric')}`,
+    );
   });
 });

@@ -7,7 +7,13 @@ const twin = { fuelFlowKgS: [0.29, 0.93, 2.78, 3.42], engineCount: 2 };
 describe('fuel against distance', () => {
   it('the reported case, 73 t over 60 km, is impossible with and without an engine', () => {
     expect(checkFuelPlausibility({ distanceKm: 60, fuelKg: 73_000 })).toMatchObject({ level: 'impossible' });
-    const r = checkFuelPlausibility({ distanceKm: 60, fuelKg: 73_000, engine: twin, mach: 0.85, aircraftCode: 'SK-LR1' });
+    const r = checkFuelPlausibility({
+      distanceKm: 60,
+      fuelKg: 73_000,
+      engine: twin,
+      mach: 0.85,
+      aircraftCode: 'SK-LR1',
+    });
     expect(r.level).toBe('impossible');
     if (r.level !== 'ok') expect(r.message).toContain('1,217 kg per km');
   });
@@ -29,7 +35,9 @@ describe('fuel against distance', () => {
 
   it('the band follows the engine: a business-jet engine makes 12 kg/km impossible that a long-range twin may burn', () => {
     const bizjet = { fuelFlowKgS: [0.062, 0.185, 0.55, 0.68], engineCount: 2 };
-    expect(checkFuelPlausibility({ distanceKm: 1000, fuelKg: 12_000, engine: bizjet, mach: 0.85 }).level).toBe('impossible');
+    expect(checkFuelPlausibility({ distanceKm: 1000, fuelKg: 12_000, engine: bizjet, mach: 0.85 }).level).toBe(
+      'impossible',
+    );
     expect(checkFuelPlausibility({ distanceKm: 1000, fuelKg: 12_000, engine: twin, mach: 0.85 }).level).toBe('ok');
     const band = fuelBandKgPerKm({ engine: bizjet, mach: 0.85 });
     expect(band.unusualBelow).toBeLessThan(1.8);

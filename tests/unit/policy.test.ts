@@ -35,7 +35,12 @@ describe('role -> permission table', () => {
     const ws = (slug: string) => ({ slug });
     expect(landingPath([{ workspace: ws('a'), role: 'planner' }])).toBe('/w/a');
     expect(landingPath([{ workspace: ws('a'), role: 'billing' }])).toBe('/w/a/settings/billing');
-    expect(landingPath([{ workspace: ws('a'), role: 'owner' }, { workspace: ws('b'), role: 'owner' }])).toBe('/workspaces');
+    expect(
+      landingPath([
+        { workspace: ws('a'), role: 'owner' },
+        { workspace: ws('b'), role: 'owner' },
+      ]),
+    ).toBe('/workspaces');
     expect(landingPath([])).toBe('/workspaces');
   });
 });

@@ -23,7 +23,10 @@ const defaults: ScreenFormContext['defaults'] = {
   residenceTime: { ...DEFAULT_OZONE_INPUTS.residenceTime },
 };
 
-const engine = { fuelFlowKgS: [0.1, 0.3, 0.9, 1.1] as [number, number, number, number], eiNoxGPerKg: [5, 11, 23, 30] as [number, number, number, number] };
+const engine = {
+  fuelFlowKgS: [0.1, 0.3, 0.9, 1.1] as [number, number, number, number],
+  eiNoxGPerKg: [5, 11, 23, 30] as [number, number, number, number],
+};
 
 function ctx(units: 'metric' | 'imperial' = 'metric'): ScreenFormContext {
   return {
@@ -49,7 +52,13 @@ function ctx(units: 'metric' | 'imperial' = 'metric'): ScreenFormContext {
 }
 
 function filled(patch: Partial<ScreenFormValues> = {}): ScreenFormValues {
-  return { ...emptyScreenForm('2026-11-20'), airports: [{ code: 'egll' }, { code: 'RJAA' }], fuelBurn: '60000', aircraft: 'T-ENG', ...patch };
+  return {
+    ...emptyScreenForm('2026-11-20'),
+    airports: [{ code: 'egll' }, { code: 'RJAA' }],
+    fuelBurn: '60000',
+    aircraft: 'T-ENG',
+    ...patch,
+  };
 }
 
 describe('readNumber', () => {
@@ -73,7 +82,19 @@ describe('readNumber', () => {
 
 describe('parseWaypointList', () => {
   it('reads each accepted way of writing a point, latitude first', () => {
-    const r = parseWaypointList(['51.47 -0.45', '64.13,-21.94', '61.17N 150.00W', 'S33.95 E151.18', '# a comment', '', '35.76\t140.39', '1.5; 2.5', '51,47 -0,45'].join('\n'));
+    const r = parseWaypointList(
+      [
+        '51.47 -0.45',
+        '64.13,-21.94',
+        '61.17N 150.00W',
+        'S33.95 E151.18',
+        '# a comment',
+        '',
+        '35.76\t140.39',
+        '1.5; 2.5',
+        '51,47 -0,45',
+      ].join('\n'),
+    );
     expect(r.problems).toEqual([]);
     expect(r.points).toEqual([
       { lat: 51.47, lon: -0.45 },
@@ -111,8 +132,8 @@ describe('parseWaypointList', () => {
     ['N60 12.5 E011 05.3', 60 + 12.5 / 60, 11 + 5.3 / 60],
     ["60°12'N 11°05'E", 60.2, 11 + 5 / 60],
     ['60°12\'30"N 11°05\'45"W', 60 + 12 / 60 + 30 / 3600, -(11 + 5 / 60 + 45 / 3600)],
-    ['N 60°12.5\' W 011°05.3\'', 60 + 12.5 / 60, -(11 + 5.3 / 60)],
-    ["-33°52'04\", 151°12'36\"", -(33 + 52 / 60 + 4 / 3600), 151 + 12 / 60 + 36 / 3600],
+    ["N 60°12.5' W 011°05.3'", 60 + 12.5 / 60, -(11 + 5.3 / 60)],
+    ['-33°52\'04", 151°12\'36"', -(33 + 52 / 60 + 4 / 3600), 151 + 12 / 60 + 36 / 3600],
     ['60 12 30N 011 05 45E', 60 + 12 / 60 + 30 / 3600, 11 + 5 / 60 + 45 / 3600],
   ])('reads the sexagesimal form %j', (text, lat, lon) => {
     const r = parseWaypointList(text);
@@ -143,8 +164,17 @@ describe('step climbs at a waypoint', () => {
     const { body, problems } = screenFormProblems(v, ctx());
     // Only the blank distance is named: no whole-cruise message that would outlive its fix.
     expect(problems.map((p) => p.path)).toEqual(['steps.2.from']);
-    expect(body.cruise).toEqual({ steps: [{ fromKm: 0, flightLevel: 350 }, { atWaypoint: 1, flightLevel: 370 }, { fromKm: Number.NaN, flightLevel: 390 }] });
-    const fixed = screenFormProblems({ ...v, steps: [v.steps[0], v.steps[1], { from: '6000', flightLevel: '390' }] }, ctx());
+    expect(body.cruise).toEqual({
+      steps: [
+        { fromKm: 0, flightLevel: 350 },
+        { atWaypoint: 1, flightLevel: 370 },
+        { fromKm: Number.NaN, flightLevel: 390 },
+      ],
+    });
+    const fixed = screenFormProblems(
+      { ...v, steps: [v.steps[0], v.steps[1], { from: '6000', flightLevel: '390' }] },
+      ctx(),
+    );
     expect(fixed.problems).toEqual([]);
   });
 });
@@ -176,17 +206,28 @@ describe('buildScreeningBody', () => {
     expect(problems).toEqual([]);
     // 1 lb = 0.45359237 kg, 1 NM = 1852 m, 1 ft = 0.3048 m, all exact (NIST SP 811, appendix B).
     expect(body.fuelBurnKg).toBeCloseTo(45_359.237, 6);
-    expect(body.cruise).toEqual({ steps: [{ fromKm: 0, flightLevel: 350 }, { fromKm: 1852, flightLevel: 390 }] });
+    expect(body.cruise).toEqual({
+      steps: [
+        { fromKm: 0, flightLevel: 350 },
+        { fromKm: 1852, flightLevel: 390 },
+      ],
+    });
     expect(body.tropopause).toEqual({ altitudeM: expect.closeTo(10_972.8, 6) as unknown as number });
   });
 
   it('a direct EI, an engine with a count, a month and a sounding', () => {
-    const direct = buildScreeningBody(filled({ emissionMode: 'direct', eiNox: '14.5', month: '1', tropopauseMode: 'sounding', soundingId: '3' }), ctx()).body;
+    const direct = buildScreeningBody(
+      filled({ emissionMode: 'direct', eiNox: '14.5', month: '1', tropopauseMode: 'sounding', soundingId: '3' }),
+      ctx(),
+    ).body;
     expect(direct.emission).toEqual({ eiNoxGPerKg: 14.5 });
     expect(direct.aircraft).toBeUndefined();
     expect(direct.month).toBe(1);
     expect(direct.tropopause).toEqual({ sounding: ctx().soundings[0].levels });
-    const withEngine = buildScreeningBody(filled({ emissionMode: 'engine', engineId: '7', engineCount: '4', mach: '0.86' }), ctx()).body;
+    const withEngine = buildScreeningBody(
+      filled({ emissionMode: 'engine', engineId: '7', engineCount: '4', mach: '0.86' }),
+      ctx(),
+    ).body;
     expect(withEngine.emission).toEqual({ engine, engineCount: 4, method: 'bffm2', mach: 0.86 });
     expect(withEngine.mach).toBe(0.86);
   });
@@ -207,7 +248,8 @@ describe('buildScreeningBody', () => {
 });
 
 describe('screenFormProblems', () => {
-  const messages = (v: ScreenFormValues, c = ctx()) => Object.fromEntries(screenFormProblems(v, c).problems.map((p) => [p.path, p.message]));
+  const messages = (v: ScreenFormValues, c = ctx()) =>
+    Object.fromEntries(screenFormProblems(v, c).problems.map((p) => [p.path, p.message]));
 
   it('names each missing field in a planner’s words', () => {
     const m = messages({ ...emptyScreenForm(), aircraft: '' });
@@ -241,11 +283,13 @@ describe('screenFormProblems', () => {
   });
 
   it('ranges of fields typed in the user’s units are stated in those units', () => {
-    expect(messages(filled({ fuelBurn: '2000000' }), ctx('imperial')).fuelBurn).toBe('The fuel burn must be between 2.3 and 1 102 311 lb.');
-    expect(messages(filled({ fuelBurn: '0.5' })).fuelBurn).toBe('The fuel burn must be between 1 and 500 000 kg.');
-    expect(messages(filled({ tropopauseMode: 'altitude', tropopauseAltitude: '2000' }), ctx('imperial')).tropopauseAltitude).toBe(
-      'The tropopause altitude must be between 9 843 and 82 020 ft.',
+    expect(messages(filled({ fuelBurn: '2000000' }), ctx('imperial')).fuelBurn).toBe(
+      'The fuel burn must be between 2.3 and 1 102 311 lb.',
     );
+    expect(messages(filled({ fuelBurn: '0.5' })).fuelBurn).toBe('The fuel burn must be between 1 and 500 000 kg.');
+    expect(
+      messages(filled({ tropopauseMode: 'altitude', tropopauseAltitude: '2000' }), ctx('imperial')).tropopauseAltitude,
+    ).toBe('The tropopause altitude must be between 9 843 and 82 020 ft.');
   });
 
   it('an inverted assumption band is reported on its row', () => {
@@ -256,7 +300,12 @@ describe('screenFormProblems', () => {
 });
 
 describe('formPathFor', () => {
-  const modes = { routeMode: 'airports', cruiseMode: 'steps', emissionMode: 'aircraft', tropopauseMode: 'sounding' } as const;
+  const modes = {
+    routeMode: 'airports',
+    cruiseMode: 'steps',
+    emissionMode: 'aircraft',
+    tropopauseMode: 'sounding',
+  } as const;
   it.each([
     ['route.waypoints.1.airport', modes, 'airports.1.code'],
     ['route.waypoints.2.lon', { ...modes, routeMode: 'points' }, 'points.2.lon'],
@@ -281,7 +330,10 @@ describe('the flight-plan route mode', () => {
   const fp = (flightPlan: ScreenFormValues['flightPlan']) => filled({ routeMode: 'flightPlan', flightPlan });
 
   it('sends route.flightPlan with upper-case codes; the body passes the engine schema', () => {
-    const { body, problems } = screenFormProblems(fp({ text: ' n0480f350 DCT 62N020W DCT ', from: 'efhk', to: 'panc' }), ctx());
+    const { body, problems } = screenFormProblems(
+      fp({ text: ' n0480f350 DCT 62N020W DCT ', from: 'efhk', to: 'panc' }),
+      ctx(),
+    );
     expect(problems).toEqual([]);
     expect(body.route).toEqual({ flightPlan: { text: 'n0480f350 DCT 62N020W DCT', from: 'EFHK', to: 'PANC' } });
     const { aircraft: _a, name: _n, ...engine } = body;
@@ -299,6 +351,13 @@ describe('the flight-plan route mode', () => {
     ['route.flightPlan.to', 'flightPlan.to'],
     ['route.flightPlan', 'flightPlan.text'],
   ])('the API path %s is shown at %s', (server, form) => {
-    expect(formPathFor(server, { routeMode: 'flightPlan', cruiseMode: 'level', emissionMode: 'aircraft', tropopauseMode: 'climatology' })).toBe(form);
+    expect(
+      formPathFor(server, {
+        routeMode: 'flightPlan',
+        cruiseMode: 'level',
+        emissionMode: 'aircraft',
+        tropopauseMode: 'climatology',
+      }),
+    ).toBe(form);
   });
 });

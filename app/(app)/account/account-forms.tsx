@@ -36,7 +36,11 @@ export function UnitsForm({ current }: { current: 'metric' | 'imperial' }) {
           {label}
         </label>
       ))}
-      {saved ? <p role="status" className="text-xs text-tropo-strong">{saved}</p> : null}
+      {saved ? (
+        <p role="status" className="text-xs text-tropo-strong">
+          {saved}
+        </p>
+      ) : null}
     </fieldset>
   );
 }

@@ -17,7 +17,9 @@ export default async function AccountPage() {
             <UnitsForm current={user.units} />
           </Card>
           <Card title="Sessions">
-            <p className="mb-3 text-sm text-ink-soft">Sign out on every browser and device where this account is signed in, including this one.</p>
+            <p className="mb-3 text-sm text-ink-soft">
+              Sign out on every browser and device where this account is signed in, including this one.
+            </p>
             <SignOutEverywhereButton />
           </Card>
         </div>

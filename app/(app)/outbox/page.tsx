@@ -29,16 +29,23 @@ export default async function OutboxPage() {
   }
   return (
     <main id="main" className="mx-auto max-w-[900px] px-4 py-8">
-      <PageHeader title="Outbox (local mail catcher)" lead="Every e-mail the app sent on this machine, sign-in, reset and invitation links included. It exists only while the app runs on a loopback address (the server refuses to start with MAIL_OUTBOX=1 otherwise): never switch it on in a deployment." />
+      <PageHeader
+        title="Outbox (local mail catcher)"
+        lead="Every e-mail the app sent on this machine, sign-in, reset and invitation links included. It exists only while the app runs on a loopback address (the server refuses to start with MAIL_OUTBOX=1 otherwise): never switch it on in a deployment."
+      />
       {problem ? <EmptyState title={problem} /> : items.length === 0 ? <EmptyState title="No e-mail sent yet" /> : null}
       <div className="space-y-4">
         {items.map((m) => (
           <Card key={m.id} title={m.subject}>
             <p className="text-xs text-ink-faint">
               To {m.to.join(', ')} · {formatDateTime(m.receivedAt)}
-              {m.attachments.length ? ` · attachments: ${m.attachments.map((a) => `${a.filename} (${Math.round(a.size / 1024)} kB)`).join(', ')}` : ''}
+              {m.attachments.length
+                ? ` · attachments: ${m.attachments.map((a) => `${a.filename} (${Math.round(a.size / 1024)} kB)`).join(', ')}`
+                : ''}
             </p>
-            <pre data-testid="mail-text" className="mt-3 whitespace-pre-wrap break-all font-sans text-sm">{m.text}</pre>
+            <pre data-testid="mail-text" className="mt-3 whitespace-pre-wrap break-all font-sans text-sm">
+              {m.text}
+            </pre>
           </Card>
         ))}
       </div>

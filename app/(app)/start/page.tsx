@@ -9,7 +9,11 @@ import { appUrl } from '@/lib/env';
  * Where a user lands after signing in: the link they followed when their role can see it; otherwise one
  * workspace -> it (finance admins on billing), several -> the portfolio.
  */
-export default async function StartPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
+export default async function StartPage({
+  searchParams,
+}: {
+  searchParams: Promise<Record<string, string | string[] | undefined>>;
+}) {
   const user = await requireUser();
   const sp = await searchParams;
   const next = typeof sp.next === 'string' ? safeCallbackPath(sp.next, appUrl()) : null;

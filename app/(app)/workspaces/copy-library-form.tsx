@@ -18,7 +18,12 @@ export function CopyLibraryForm({ workspaces }: { workspaces: { slug: string; na
   const [pending, start] = useTransition();
   const box = (key: keyof typeof include, label: string) => (
     <label className="flex items-center gap-2 text-sm text-ink">
-      <input type="checkbox" className="accent-accent" checked={include[key]} onChange={(e) => setInclude({ ...include, [key]: e.target.checked })} />
+      <input
+        type="checkbox"
+        className="accent-accent"
+        checked={include[key]}
+        onChange={(e) => setInclude({ ...include, [key]: e.target.checked })}
+      />
       {label}
     </label>
   );
@@ -74,7 +79,10 @@ export function CopyLibraryForm({ workspaces }: { workspaces: { slug: string; na
         {box('fleets', 'Fleet definitions (names and descriptions; no flights)')}
         {errors.engines ? <p className="text-sm text-danger">{errors.engines}</p> : null}
       </fieldset>
-      <p className="text-xs text-ink-soft">Anything the target already has with the same name (engines, fleets) or code (aircraft types) is kept as it is. Flights, screenings and reports are never copied.</p>
+      <p className="text-xs text-ink-soft">
+        Anything the target already has with the same name (engines, fleets) or code (aircraft types) is kept as it is.
+        Flights, screenings and reports are never copied.
+      </p>
       <Button type="submit" variant="secondary" disabled={pending}>
         {pending ? 'Copying…' : 'Copy library'}
       </Button>

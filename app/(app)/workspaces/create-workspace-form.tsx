@@ -14,7 +14,10 @@ import { createWorkspaceAction } from './actions';
 export function CreateWorkspaceForm() {
   const router = useRouter();
   const [message, setMessage] = useState<string>();
-  const form = useForm<{ name: string; slug?: string }, unknown, WorkspaceCreateInput>({ resolver: zodResolver(workspaceCreateSchema), defaultValues: { name: '', slug: '' } });
+  const form = useForm<{ name: string; slug?: string }, unknown, WorkspaceCreateInput>({
+    resolver: zodResolver(workspaceCreateSchema),
+    defaultValues: { name: '', slug: '' },
+  });
   const { errors, isSubmitting } = form.formState;
   const onSubmit = form.handleSubmit(async (values) => {
     setMessage(undefined);
@@ -24,11 +27,20 @@ export function CreateWorkspaceForm() {
   });
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4">
-      {message ? <Notice tone="danger" role="alert">{message}</Notice> : null}
+      {message ? (
+        <Notice tone="danger" role="alert">
+          {message}
+        </Notice>
+      ) : null}
       <Field id="ws-name" label="Name" error={errors.name?.message}>
         <TextInput id="ws-name" invalid={!!errors.name} {...form.register('name')} />
       </Field>
-      <Field id="ws-slug" label="Address (optional)" hint="Shown in links: /w/your-address. Made from the name when empty." error={errors.slug?.message}>
+      <Field
+        id="ws-slug"
+        label="Address (optional)"
+        hint="Shown in links: /w/your-address. Made from the name when empty."
+        error={errors.slug?.message}
+      >
         <TextInput id="ws-slug" invalid={!!errors.slug} {...form.register('slug')} />
       </Field>
       <Button type="submit" disabled={isSubmitting}>

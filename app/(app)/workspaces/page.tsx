@@ -22,17 +22,38 @@ export default async function WorkspacesPage() {
   const readable = memberships.filter((m) => can(m.role, 'flights:read')).map((m) => m.workspace.id);
   const [summaries, billable, statuses, billing] = await Promise.all([
     getMonthSummaries({ workspaceIds: memberships.map((m) => m.workspace.id) }),
-    Promise.all(memberships.map(async (m) => [m.workspace.id, can(m.role, 'usage:read') ? await getBillableUnits({ workspaceId: m.workspace.id }) : null] as const)).then((e) => new Map(e)),
+    Promise.all(
+      memberships.map(
+        async (m) =>
+          [
+            m.workspace.id,
+            can(m.role, 'usage:read') ? await getBillableUnits({ workspaceId: m.workspace.id }) : null,
+          ] as const,
+      ),
+    ).then((e) => new Map(e)),
     getClientStatuses({ workspaceIds: readable }),
-    Promise.all(memberships.map(async (m) => [m.workspace.id, can(m.role, 'billing:read') ? await getBilling({ workspaceId: m.workspace.id }) : null] as const)).then((e) => new Map(e)),
+    Promise.all(
+      memberships.map(
+        async (m) =>
+          [
+            m.workspace.id,
+            can(m.role, 'billing:read') ? await getBilling({ workspaceId: m.workspace.id }) : null,
+          ] as const,
+      ),
+    ).then((e) => new Map(e)),
   ]);
-  const owned = memberships.filter((m) => can(m.role, 'library:copy')).map((m) => ({ slug: m.workspace.slug, name: m.workspace.name }));
+  const owned = memberships
+    .filter((m) => can(m.role, 'library:copy'))
+    .map((m) => ({ slug: m.workspace.slug, name: m.workspace.name }));
   const { from } = monthBounds();
   return (
     <div className="min-h-screen">
       <TopBar user={user} />
       <main id="main" className="mx-auto max-w-[1100px] px-4 py-8">
-        <PageHeader title="Workspaces" lead={`Every workspace you belong to, with this month's screening figures (month from ${from}).`} />
+        <PageHeader
+          title="Workspaces"
+          lead={`Every workspace you belong to, with this month's screening figures (month from ${from}).`}
+        />
         {memberships.length === 0 ? (
           <EmptyState title="You are not in any workspace yet">
             Create one below for your operator or a client, or ask a workspace owner to invite you.
@@ -71,15 +92,26 @@ export default async function WorkspacesPage() {
                   return (
                     <tr key={m.workspace.id} className="border-b border-line last:border-0">
                       <td className="px-4 py-2.5">
-                        <Link className="font-medium text-accent hover:underline" href={m.role === 'billing' ? `/w/${m.workspace.slug}/settings/billing` : `/w/${m.workspace.slug}`}>
+                        <Link
+                          className="font-medium text-accent hover:underline"
+                          href={
+                            m.role === 'billing' ? `/w/${m.workspace.slug}/settings/billing` : `/w/${m.workspace.slug}`
+                          }
+                        >
                           {m.workspace.name}
                         </Link>
                         <div className="text-xs text-ink-faint">{m.workspace.slug}</div>
                       </td>
                       <td className="px-4 py-2.5">{ROLE_LABELS[m.role]}</td>
-                      <td className="figure px-4 py-2.5 text-right" data-testid="portfolio-saved-screenings">{flights ? formatNumber(s?.savedScreenings ?? 0) : '—'}</td>
-                      <td className="figure px-4 py-2.5 text-right" data-testid="portfolio-imported-flights">{flights ? formatNumber(s?.importedFlightsScreened ?? 0) : '—'}</td>
-                      <td className="figure px-4 py-2.5 text-right">{flights ? formatMass(s?.noxAboveKg ?? 0, user.units) : '—'}</td>
+                      <td className="figure px-4 py-2.5 text-right" data-testid="portfolio-saved-screenings">
+                        {flights ? formatNumber(s?.savedScreenings ?? 0) : '—'}
+                      </td>
+                      <td className="figure px-4 py-2.5 text-right" data-testid="portfolio-imported-flights">
+                        {flights ? formatNumber(s?.importedFlightsScreened ?? 0) : '—'}
+                      </td>
+                      <td className="figure px-4 py-2.5 text-right">
+                        {flights ? formatMass(s?.noxAboveKg ?? 0, user.units) : '—'}
+                      </td>
                       <td className="figure px-4 py-2.5 text-right" data-testid="portfolio-billable-units">
                         {usage && b ? (
                           <>
@@ -99,7 +131,9 @@ export default async function WorkspacesPage() {
             </table>
           </div>
         )}
-        <p className="mt-2 text-xs text-ink-faint">A dash means your role in that workspace does not include those figures.</p>
+        <p className="mt-2 text-xs text-ink-faint">
+          A dash means your role in that workspace does not include those figures.
+        </p>
         {memberships.some((m) => statuses.has(m.workspace.id) || billing.get(m.workspace.id)) ? (
           <section className="mt-8" aria-labelledby="clients-heading">
             <h2 id="clients-heading" className="mb-3 text-lg font-semibold text-ink">
@@ -107,19 +141,31 @@ export default async function WorkspacesPage() {
             </h2>
             <div className="grid grid-cols-1 gap-4 lg:grid-cols-2">
               {memberships.map((m) => (
-                <ClientCard key={m.workspace.id} name={m.workspace.name} slug={m.workspace.slug} status={statuses.get(m.workspace.id) ?? null} billing={billing.get(m.workspace.id) ?? null} units={user.units} />
+                <ClientCard
+                  key={m.workspace.id}
+                  name={m.workspace.name}
+                  slug={m.workspace.slug}
+                  status={statuses.get(m.workspace.id) ?? null}
+                  billing={billing.get(m.workspace.id) ?? null}
+                  units={user.units}
+                />
               ))}
             </div>
           </section>
         ) : null}
         {owned.length >= 2 ? (
           <Card title="Copy an engine and aircraft-type library" className="mt-8 max-w-2xl">
-            <p className="mb-4 text-sm text-ink-soft">Clients often fly the same engines: copy engines, aircraft types and fleet definitions from one workspace you own to another.</p>
+            <p className="mb-4 text-sm text-ink-soft">
+              Clients often fly the same engines: copy engines, aircraft types and fleet definitions from one workspace
+              you own to another.
+            </p>
             <CopyLibraryForm workspaces={owned} />
           </Card>
         ) : null}
         <Card title="Create a workspace" className="mt-8 max-w-xl">
-          <p className="mb-4 text-sm text-ink-soft">One workspace per operator or client. You become its owner and can invite their staff.</p>
+          <p className="mb-4 text-sm text-ink-soft">
+            One workspace per operator or client. You become its owner and can invite their staff.
+          </p>
           <CreateWorkspaceForm />
         </Card>
       </main>
@@ -127,7 +173,12 @@ export default async function WorkspacesPage() {
   );
 }
 
-const BILLING_LABEL: Record<BillingDto['status'], string> = { trialing: 'Trial', active: 'Active', past_due: 'Past due', canceled: 'Canceled' };
+const BILLING_LABEL: Record<BillingDto['status'], string> = {
+  trialing: 'Trial',
+  active: 'Active',
+  past_due: 'Past due',
+  canceled: 'Canceled',
+};
 
 function billingText(b: BillingDto): string {
   if (b.status === 'trialing' && b.trialEndsAt) return `Trial, ends ${formatDate(b.trialEndsAt)}`;
@@ -135,7 +186,19 @@ function billingText(b: BillingDto): string {
 }
 
 /** One client: trend of NOx above the tropopause and its share, billing state, imports and the last report sent. */
-function ClientCard({ name, slug, status, billing, units }: { name: string; slug: string; status: ClientStatus | null; billing: BillingDto | null; units: UnitSystem }) {
+function ClientCard({
+  name,
+  slug,
+  status,
+  billing,
+  units,
+}: {
+  name: string;
+  slug: string;
+  status: ClientStatus | null;
+  billing: BillingDto | null;
+  units: UnitSystem;
+}) {
   if (!status && !billing) return null;
   return (
     <div className="rounded-card border border-line bg-paper-raised p-4" data-testid={`client-${slug}`}>
@@ -157,7 +220,9 @@ function ClientCard({ name, slug, status, billing, units }: { name: string; slug
               <caption className="sr-only">NOx above the tropopause and its share, last six months, {name}</caption>
               <thead className="text-left text-ink-soft">
                 <tr>
-                  <th scope="col" className="py-1 pr-2 font-medium">Month (flight date)</th>
+                  <th scope="col" className="py-1 pr-2 font-medium">
+                    Month (flight date)
+                  </th>
                   {status.trend.map((t) => (
                     <th key={t.month} scope="col" className="py-1 px-1 text-right font-medium">
                       {t.month.slice(2)}
@@ -167,7 +232,9 @@ function ClientCard({ name, slug, status, billing, units }: { name: string; slug
               </thead>
               <tbody className="figure">
                 <tr className="border-t border-line">
-                  <th scope="row" className="py-1 pr-2 text-left font-normal text-ink-soft">NOx above tropopause</th>
+                  <th scope="row" className="py-1 pr-2 text-left font-normal text-ink-soft">
+                    NOx above tropopause
+                  </th>
                   {status.trend.map((t) => (
                     <td key={t.month} className="py-1 px-1 text-right whitespace-nowrap">
                       {formatMass(t.noxAboveKg, units)}
@@ -175,7 +242,9 @@ function ClientCard({ name, slug, status, billing, units }: { name: string; slug
                   ))}
                 </tr>
                 <tr className="border-t border-line">
-                  <th scope="row" className="py-1 pr-2 text-left font-normal text-ink-soft">Share above</th>
+                  <th scope="row" className="py-1 pr-2 text-left font-normal text-ink-soft">
+                    Share above
+                  </th>
                   {status.trend.map((t) => (
                     <td key={t.month} className="py-1 px-1 text-right">
                       {t.shareAbove === null ? '–' : formatPercent(t.shareAbove, 0)}
@@ -190,7 +259,12 @@ function ClientCard({ name, slug, status, billing, units }: { name: string; slug
               Imports:{' '}
               {status.imports.running || status.imports.failed ? (
                 <Link className="text-accent underline" href={`/w/${slug}/imports`}>
-                  {[status.imports.running ? `${status.imports.running} running` : null, status.imports.failed ? `${status.imports.failed} failed` : null].filter(Boolean).join(', ')}
+                  {[
+                    status.imports.running ? `${status.imports.running} running` : null,
+                    status.imports.failed ? `${status.imports.failed} failed` : null,
+                  ]
+                    .filter(Boolean)
+                    .join(', ')}
                 </Link>
               ) : (
                 <span className="text-ink-soft">none running or failed</span>
@@ -200,7 +274,8 @@ function ClientCard({ name, slug, status, billing, units }: { name: string; slug
               Last report sent:{' '}
               {status.lastReportSent ? (
                 <Link className="text-accent underline" href={`/w/${slug}/reports/${status.lastReportSent.reportId}`}>
-                  {status.lastReportSent.reportName}, {formatDate(status.lastReportSent.at)} to {status.lastReportSent.recipients} recipient{status.lastReportSent.recipients === 1 ? '' : 's'}
+                  {status.lastReportSent.reportName}, {formatDate(status.lastReportSent.at)} to{' '}
+                  {status.lastReportSent.recipients} recipient{status.lastReportSent.recipients === 1 ? '' : 's'}
                 </Link>
               ) : (
                 <span className="text-ink-soft">none yet</span>

@@ -9,13 +9,27 @@ import { fieldError, FormMessage } from '../auth-form-bits';
 
 export function RequestResetForm() {
   const [state, action, pending] = useActionState<AuthFormState, FormData>(requestPasswordResetAction, null);
-  if (state?.ok) return <Notice tone="success" title="Check your e-mail">{state.message}</Notice>;
+  if (state?.ok)
+    return (
+      <Notice tone="success" title="Check your e-mail">
+        {state.message}
+      </Notice>
+    );
   const err = fieldError(state, 'email');
   return (
     <form action={action} noValidate className="mt-5 space-y-4">
       <FormMessage state={state} />
       <Field id="email" label="E-mail" error={err}>
-        <TextInput id="email" name="email" type="email" autoComplete="email" required invalid={!!err} defaultValue={state?.values?.email ?? ''} key={state?.values?.email ?? ''} />
+        <TextInput
+          id="email"
+          name="email"
+          type="email"
+          autoComplete="email"
+          required
+          invalid={!!err}
+          defaultValue={state?.values?.email ?? ''}
+          key={state?.values?.email ?? ''}
+        />
       </Field>
       <Button type="submit" className="w-full" disabled={pending}>
         Send the reset link
@@ -32,11 +46,30 @@ export function NewPasswordForm({ token }: { token: string }) {
     <form action={action} noValidate className="mt-5 space-y-4">
       <FormMessage state={state} />
       <input type="hidden" name="token" value={token} />
-      <Field id="password" label="New password" hint="At least 10 characters; not a common password, a run like 12345, or your name." error={err('password')}>
-        <TextInput id="password" name="password" type="password" autoComplete="new-password" required invalid={!!err('password')} />
+      <Field
+        id="password"
+        label="New password"
+        hint="At least 10 characters; not a common password, a run like 12345, or your name."
+        error={err('password')}
+      >
+        <TextInput
+          id="password"
+          name="password"
+          type="password"
+          autoComplete="new-password"
+          required
+          invalid={!!err('password')}
+        />
       </Field>
       <Field id="confirm" label="Repeat it" error={err('confirm')}>
-        <TextInput id="confirm" name="confirm" type="password" autoComplete="new-password" required invalid={!!err('confirm')} />
+        <TextInput
+          id="confirm"
+          name="confirm"
+          type="password"
+          autoComplete="new-password"
+          required
+          invalid={!!err('confirm')}
+        />
       </Field>
       <Button type="submit" className="w-full" disabled={pending}>
         Set the new password

@@ -14,14 +14,23 @@ const ERRORS: Record<string, string> = {
   EmailSignin: 'The sign-in link could not be sent. Try again in a moment.',
 };
 
-export default async function SignInPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
+export default async function SignInPage({
+  searchParams,
+}: {
+  searchParams: Promise<Record<string, string | string[] | undefined>>;
+}) {
   const sp = await searchParams;
   const first = (v: string | string[] | undefined) => (typeof v === 'string' ? v : undefined);
   const callbackUrl = safeCallbackPath(first(sp.callbackUrl), appUrl()) ?? DEFAULT_LANDING;
   // Someone already signed in has nothing to do here: on to the link they followed, or their landing.
-  if (await currentUser()) redirect(callbackUrl === DEFAULT_LANDING ? DEFAULT_LANDING : `/start?next=${encodeURIComponent(callbackUrl)}`);
+  if (await currentUser())
+    redirect(callbackUrl === DEFAULT_LANDING ? DEFAULT_LANDING : `/start?next=${encodeURIComponent(callbackUrl)}`);
   const error = first(sp.error);
-  const notice = error ? (ERRORS[error] ?? 'Sign-in did not work. Try again.') : first(sp.reset) === '1' ? 'Your password was changed. Sign in with the new one.' : undefined;
+  const notice = error
+    ? (ERRORS[error] ?? 'Sign-in did not work. Try again.')
+    : first(sp.reset) === '1'
+      ? 'Your password was changed. Sign in with the new one.'
+      : undefined;
   return (
     <>
       <h1 className="text-xl font-semibold">Sign in</h1>

@@ -26,7 +26,11 @@ export function SignInForm({ callbackUrl, initialNotice }: { callbackUrl: string
 
   const submitLink = linkForm.handleSubmit(async (values) => {
     setMessage(undefined);
-    const res = await signIn('email', { email: values.email, redirect: false, callbackUrl: `/start?next=${encodeURIComponent(callbackUrl)}` });
+    const res = await signIn('email', {
+      email: values.email,
+      redirect: false,
+      callbackUrl: `/start?next=${encodeURIComponent(callbackUrl)}`,
+    });
     if (res?.error) {
       setMessage(res.error === 'EmailSignin' ? 'The sign-in link could not be sent. Try again shortly.' : res.error);
       return;
@@ -62,10 +66,26 @@ export function SignInForm({ callbackUrl, initialNotice }: { callbackUrl: string
           <FormMessage state={state} />
           <input type="hidden" name="callbackUrl" value={callbackUrl} />
           <Field id="email" label="E-mail" error={emailError}>
-            <TextInput id="email" name="email" type="email" autoComplete="email" required invalid={!!emailError} defaultValue={state?.values?.email ?? ''} key={`email-${state?.values?.email ?? ''}`} />
+            <TextInput
+              id="email"
+              name="email"
+              type="email"
+              autoComplete="email"
+              required
+              invalid={!!emailError}
+              defaultValue={state?.values?.email ?? ''}
+              key={`email-${state?.values?.email ?? ''}`}
+            />
           </Field>
           <Field id="password" label="Password" error={passwordError}>
-            <TextInput id="password" name="password" type="password" autoComplete="current-password" required invalid={!!passwordError} />
+            <TextInput
+              id="password"
+              name="password"
+              type="password"
+              autoComplete="current-password"
+              required
+              invalid={!!passwordError}
+            />
           </Field>
           <Button type="submit" className="w-full" disabled={pending}>
             {pending ? 'Signing in…' : 'Sign in'}
@@ -78,8 +98,19 @@ export function SignInForm({ callbackUrl, initialNotice }: { callbackUrl: string
         </form>
       ) : (
         <form method="post" onSubmit={submitLink} noValidate className="space-y-4">
-          <Field id="link-email" label="E-mail" hint="We send a link that works once, within 10 minutes." error={linkForm.formState.errors.email?.message}>
-            <TextInput id="link-email" type="email" autoComplete="email" invalid={!!linkForm.formState.errors.email} {...linkForm.register('email')} />
+          <Field
+            id="link-email"
+            label="E-mail"
+            hint="We send a link that works once, within 10 minutes."
+            error={linkForm.formState.errors.email?.message}
+          >
+            <TextInput
+              id="link-email"
+              type="email"
+              autoComplete="email"
+              invalid={!!linkForm.formState.errors.email}
+              {...linkForm.register('email')}
+            />
           </Field>
           <Button type="submit" className="w-full" disabled={linkForm.formState.isSubmitting}>
             Send the sign-in link

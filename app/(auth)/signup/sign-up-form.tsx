@@ -17,17 +17,58 @@ export function SignUpForm({ invitationToken, invitedEmail }: { invitationToken?
       <FormMessage state={state} />
       {invitationToken ? <input type="hidden" name="invitationToken" value={invitationToken} /> : null}
       <Field id="name" label="Your name" error={err('name')}>
-        <TextInput id="name" name="name" autoComplete="name" required invalid={!!err('name')} defaultValue={v.name ?? ''} key={`n${k}`} />
+        <TextInput
+          id="name"
+          name="name"
+          autoComplete="name"
+          required
+          invalid={!!err('name')}
+          defaultValue={v.name ?? ''}
+          key={`n${k}`}
+        />
       </Field>
       <Field id="email" label="Work e-mail" error={err('email')}>
-        <TextInput id="email" name="email" type="email" autoComplete="email" required readOnly={!!invitedEmail} invalid={!!err('email')} defaultValue={invitedEmail ?? v.email ?? ''} key={`e${k}`} />
+        <TextInput
+          id="email"
+          name="email"
+          type="email"
+          autoComplete="email"
+          required
+          readOnly={!!invitedEmail}
+          invalid={!!err('email')}
+          defaultValue={invitedEmail ?? v.email ?? ''}
+          key={`e${k}`}
+        />
       </Field>
-      <Field id="password" label="Password" hint="At least 10 characters; not a common password, a run like 12345, or your name." error={err('password')}>
-        <TextInput id="password" name="password" type="password" autoComplete="new-password" required invalid={!!err('password')} />
+      <Field
+        id="password"
+        label="Password"
+        hint="At least 10 characters; not a common password, a run like 12345, or your name."
+        error={err('password')}
+      >
+        <TextInput
+          id="password"
+          name="password"
+          type="password"
+          autoComplete="new-password"
+          required
+          invalid={!!err('password')}
+        />
       </Field>
       {invitationToken ? null : (
-        <Field id="workspaceName" label="First workspace (optional)" hint="Your operator or client name. You can create more later." error={err('workspaceName')}>
-          <TextInput id="workspaceName" name="workspaceName" invalid={!!err('workspaceName')} defaultValue={v.workspaceName ?? ''} key={`w${k}`} />
+        <Field
+          id="workspaceName"
+          label="First workspace (optional)"
+          hint="Your operator or client name. You can create more later."
+          error={err('workspaceName')}
+        >
+          <TextInput
+            id="workspaceName"
+            name="workspaceName"
+            invalid={!!err('workspaceName')}
+            defaultValue={v.workspaceName ?? ''}
+            key={`w${k}`}
+          />
         </Field>
       )}
       <Button type="submit" className="w-full" disabled={pending}>

@@ -1,5 +1,15 @@
 import { requirePrice } from './catalogue';
-import { PAGE_PARAMS, Reply, addInterval, clone, formatMoney, listBody, previousAttributes, readPage, type ApiContext } from './common';
+import {
+  PAGE_PARAMS,
+  Reply,
+  addInterval,
+  clone,
+  formatMoney,
+  listBody,
+  previousAttributes,
+  readPage,
+  type ApiContext,
+} from './common';
 import { requireCustomer } from './customers';
 import { FakeApiError, cardDeclined, invalidRequest, resourceMissing } from './errors';
 import { applyMetadata, type Params } from './form';
@@ -46,7 +56,9 @@ function periodOf(sub: FakeSubscription): { start: number; end: number } {
 
 function cadenceOf(sub: FakeSubscription): { interval: 'day' | 'week' | 'month' | 'year'; count: number } {
   const recurring = sub.items.data[0].price.recurring;
-  return recurring ? { interval: recurring.interval, count: recurring.interval_count } : { interval: 'month', count: 1 };
+  return recurring
+    ? { interval: recurring.interval, count: recurring.interval_count }
+    : { interval: 'month', count: 1 };
 }
 
 function setPeriod(sub: FakeSubscription, start: number, end: number): void {
@@ -64,7 +76,8 @@ interface ItemRequest {
 
 function recurringPrice(ctx: ApiContext, id: string, param: string): FakePrice {
   const price = requirePrice(ctx, id, param);
-  if (!price.active) throw invalidRequest(`The price specified is inactive. This field only accepts active prices.`, param);
+  if (!price.active)
+    throw invalidRequest(`The price specified is inactive. This field only accepts active prices.`, param);
   if (!price.recurring) {
     throw invalidRequest(
       `The price specified is set to \`type=one_time\` but this field only accepts prices with \`type=recurring\`.`,
@@ -78,7 +91,10 @@ function itemQuantity(item: Params, price: FakePrice, param: string): number | u
   const quantity = item.int('quantity', { min: 0 });
   if (price.recurring?.usage_type === 'metered') {
     if (quantity !== undefined) {
-      throw invalidRequest('Quantity should not be specified where usage_type is `metered`. Remove quantity from the request.', param);
+      throw invalidRequest(
+        'Quantity should not be specified where usage_type is `metered`. Remove quantity from the request.',
+        param,
+      );
     }
     return undefined;
   }
@@ -113,17 +129,15 @@ function checkItems(items: FakeSubscriptionItem[]): void {
   const seen = new Set<string>();
   for (const item of items) {
     if (seen.has(item.price.id)) {
-      throw invalidRequest(
-        `Cannot add multiple subscription items with the same price: ${item.price.id}.`,
-        'items',
-      );
+      throw invalidRequest(`Cannot add multiple subscription items with the same price: ${item.price.id}.`, 'items');
     }
     seen.add(item.price.id);
   }
   const currencies = new Set(items.map((i) => i.price.currency));
   if (currencies.size > 1) throw invalidRequest('All prices on a subscription must have the same currency.', 'items');
   const cadences = new Set(items.map((i) => `${i.price.recurring?.interval}/${i.price.recurring?.interval_count}`));
-  if (cadences.size > 1) throw invalidRequest('All prices on a subscription must have the same recurring interval.', 'items');
+  if (cadences.size > 1)
+    throw invalidRequest('All prices on a subscription must have the same recurring interval.', 'items');
 }
 
 function itemsList(subscriptionId: string, data: FakeSubscriptionItem[]) {
@@ -161,7 +175,8 @@ export function createSubscription(ctx: ApiContext, params: Params): FakeSubscri
   const customerId = params.requireStr('customer');
   requireCustomer(ctx, customerId, 'customer');
   const itemParams = params.objList('items');
-  if (!itemParams || itemParams.length === 0) throw invalidRequest('Missing required param: items.', 'items', 'parameter_missing');
+  if (!itemParams || itemParams.length === 0)
+    throw invalidRequest('Missing required param: items.', 'items', 'parameter_missing');
 
   const requests: ItemRequest[] = itemParams.map((item, i) => {
     item.allowOnly(['price', 'quantity', 'metadata', 'tax_rates', 'discounts']);
@@ -182,16 +197,20 @@ export function createSubscription(ctx: ApiContext, params: Params): FakeSubscri
   if (trialDays) trialEnd = ctx.now + trialDays * 86_400;
   if (trialEndRaw !== undefined && trialEndRaw !== 'now') {
     const t = params.requireInt('trial_end');
-    if (t <= ctx.now) throw invalidRequest('Invalid timestamp: must be an integer Unix timestamp in the future.', 'trial_end');
+    if (t <= ctx.now)
+      throw invalidRequest('Invalid timestamp: must be an integer Unix timestamp in the future.', 'trial_end');
     trialEnd = t;
   }
 
   // A backdated start bills the span from it to now at once, as one period closed at creation (no proration).
   const backdate = params.int('backdate_start_date', { min: 0, max: ctx.now - 1 });
-  if (backdate !== undefined && trialEnd !== null) throw invalidRequest('backdate_start_date cannot be combined with a trial.', 'backdate_start_date');
+  if (backdate !== undefined && trialEnd !== null)
+    throw invalidRequest('backdate_start_date cannot be combined with a trial.', 'backdate_start_date');
   const id = newId('sub');
   const first = requests[0].price.recurring;
-  const periodEnd = trialEnd ?? (backdate !== undefined ? ctx.now : addInterval(ctx.now, first?.interval ?? 'month', first?.interval_count ?? 1));
+  const periodEnd =
+    trialEnd ??
+    (backdate !== undefined ? ctx.now : addInterval(ctx.now, first?.interval ?? 'month', first?.interval_count ?? 1));
   const period = { start: backdate ?? ctx.now, end: periodEnd };
   const items = requests.map((r) => buildItem(id, r, ctx.now, period));
   checkItems(items);
@@ -229,7 +248,13 @@ export function createSubscription(ctx: ApiContext, params: Params): FakeSubscri
     description: params.nullableStr('description') ?? null,
     discounts: [],
     ended_at: null,
-    invoice_settings: { account_tax_ids: null, custom_fields: null, description: null, footer: null, issuer: { type: 'self' } },
+    invoice_settings: {
+      account_tax_ids: null,
+      custom_fields: null,
+      description: null,
+      footer: null,
+      issuer: { type: 'self' },
+    },
     items: itemsList(id, items),
     latest_invoice: null,
     livemode: false,
@@ -267,10 +292,31 @@ export function retrieveSubscription(ctx: ApiContext, params: Params, id: string
   return requireSubscription(ctx, id);
 }
 
-const LIST_STATUSES = ['active', 'past_due', 'trialing', 'canceled', 'all', 'ended', 'incomplete', 'incomplete_expired', 'unpaid', 'paused'] as const;
+const LIST_STATUSES = [
+  'active',
+  'past_due',
+  'trialing',
+  'canceled',
+  'all',
+  'ended',
+  'incomplete',
+  'incomplete_expired',
+  'unpaid',
+  'paused',
+] as const;
 
 export function listSubscriptions(ctx: ApiContext, params: Params) {
-  params.allowOnly([...PAGE_PARAMS, 'customer', 'price', 'status', 'created', 'current_period_end', 'current_period_start', 'collection_method', 'test_clock']);
+  params.allowOnly([
+    ...PAGE_PARAMS,
+    'customer',
+    'price',
+    'status',
+    'created',
+    'current_period_end',
+    'current_period_start',
+    'collection_method',
+    'test_clock',
+  ]);
   const customer = params.str('customer');
   const price = params.str('price');
   const status = params.oneOf('status', LIST_STATUSES);
@@ -398,7 +444,9 @@ function buildInvoice(
     livemode: false,
     metadata: {},
     next_payment_attempt: null,
-    number: options.preview ? null : `${customer.invoice_prefix}-${String(customer.next_invoice_sequence).padStart(4, '0')}`,
+    number: options.preview
+      ? null
+      : `${customer.invoice_prefix}-${String(customer.next_invoice_sequence).padStart(4, '0')}`,
     parent: {
       type: 'subscription_details',
       quote_details: null,
@@ -473,7 +521,13 @@ function closePeriodInPlace(
   const { start } = periodOf(sub);
   const end = Math.max(ctx.now, start);
   const trial = sub.status === 'trialing';
-  const { invoice, billedEventIds } = buildInvoice(ctx, sub, customer, { start, end }, { trial, preview: false, usageUpTo });
+  const { invoice, billedEventIds } = buildInvoice(
+    ctx,
+    sub,
+    customer,
+    { start, end },
+    { trial, preview: false, usageUpTo },
+  );
   ctx.store.insert('invoice', invoice, {});
   ctx.store.markMeterEventsBilled(billedEventIds, invoice.id);
   customer.next_invoice_sequence += 1;
@@ -504,9 +558,13 @@ function closePeriodInPlace(
  * belongs to the next period, as event summaries over the periods show. The caller makes sure no
  * event of this customer is already stamped `ctx.now` (see `needsSecondBoundary`).
  */
-export function advanceSubscription(ctx: ApiContext, id: string): { subscription: FakeSubscription; invoice: FakeInvoice } {
+export function advanceSubscription(
+  ctx: ApiContext,
+  id: string,
+): { subscription: FakeSubscription; invoice: FakeInvoice } {
   const sub = requireSubscription(ctx, id, 'subscription');
-  if (sub.status === 'canceled') throw invalidRequest(`Subscription ${id} is canceled; there is no period to close.`, 'subscription');
+  if (sub.status === 'canceled')
+    throw invalidRequest(`Subscription ${id} is canceled; there is no period to close.`, 'subscription');
   const before = clone(sub);
   const { invoice, canceled } = closePeriodInPlace(ctx, sub, false, ctx.now - 1);
   if (canceled) ctx.emit('customer.subscription.deleted', sub);
@@ -566,7 +624,8 @@ export function updateSubscription(ctx: ApiContext, params: Params, id: string):
         }
         const current = items[index];
         const priceId = item.str('price');
-        if (priceId && priceId !== current.price.id) current.price = clone(recurringPrice(ctx, priceId, `items[${i}][price]`));
+        if (priceId && priceId !== current.price.id)
+          current.price = clone(recurringPrice(ctx, priceId, `items[${i}][price]`));
         const quantity = itemQuantity(item, current.price, `items[${i}][quantity]`);
         if (quantity === undefined) delete current.quantity;
         else if (item.has('quantity') || current.quantity === undefined) current.quantity = quantity;
@@ -578,7 +637,11 @@ export function updateSubscription(ctx: ApiContext, params: Params, id: string):
       items.push(
         buildItem(
           sub.id,
-          { price, quantity: itemQuantity(item, price, `items[${i}][quantity]`), metadata: applyMetadata({}, item.metadata()) },
+          {
+            price,
+            quantity: itemQuantity(item, price, `items[${i}][quantity]`),
+            metadata: applyMetadata({}, item.metadata()),
+          },
           ctx.now,
           period,
         ),
@@ -614,7 +677,10 @@ export function updateSubscription(ctx: ApiContext, params: Params, id: string):
   let invoiceClosed = false;
   if (trialEndRaw !== undefined) {
     if (sub.status !== 'trialing') {
-      throw invalidRequest('The payment fake can only change trial_end while the subscription is trialing.', 'trial_end');
+      throw invalidRequest(
+        'The payment fake can only change trial_end while the subscription is trialing.',
+        'trial_end',
+      );
     }
     if (trialEndRaw === 'now') {
       ctx.store.save('subscription', sub);
@@ -622,7 +688,8 @@ export function updateSubscription(ctx: ApiContext, params: Params, id: string):
       invoiceClosed = true;
     } else {
       const t = params.requireInt('trial_end');
-      if (t <= ctx.now) throw invalidRequest('Invalid timestamp: must be an integer Unix timestamp in the future.', 'trial_end');
+      if (t <= ctx.now)
+        throw invalidRequest('Invalid timestamp: must be an integer Unix timestamp in the future.', 'trial_end');
       sub.trial_end = t;
       setPeriod(sub, periodOf(sub).start, t);
     }
@@ -750,7 +817,8 @@ export function createInvoicePreview(ctx: ApiContext, params: Params): FakeInvoi
   if (subId) sub = requireSubscription(ctx, subId, 'subscription');
   else if (customerId) {
     requireCustomer(ctx, customerId, 'customer');
-    sub = ctx.store.list('subscription', { customer: customerId, where: (s) => s.status !== 'canceled' }, { limit: 1 }).data[0];
+    sub = ctx.store.list('subscription', { customer: customerId, where: (s) => s.status !== 'canceled' }, { limit: 1 })
+      .data[0];
   } else {
     throw invalidRequest('Missing required param: customer or subscription.', 'subscription', 'parameter_missing');
   }

@@ -43,7 +43,19 @@ function blankProduct(id: string, name: string, now: number): FakeProduct {
 }
 
 export function createProduct(ctx: ApiContext, params: Params): FakeProduct {
-  params.allowOnly(['id', 'name', 'description', 'metadata', 'unit_label', 'active', 'expand', 'statement_descriptor', 'tax_code', 'images', 'url']);
+  params.allowOnly([
+    'id',
+    'name',
+    'description',
+    'metadata',
+    'unit_label',
+    'active',
+    'expand',
+    'statement_descriptor',
+    'tax_code',
+    'images',
+    'url',
+  ]);
   const id = params.str('id') || newId('prod');
   if (ctx.store.get('product', id)) {
     throw invalidRequest(`Product already exists.`, 'id', 'resource_already_exists');
@@ -146,14 +158,17 @@ export function createPrice(ctx: ApiContext, params: Params): FakePrice {
   ]);
   const currency = params.requireStr('currency').toLowerCase();
   const scheme = params.oneOf('billing_scheme', ['per_unit', 'tiered'] as const);
-  if (scheme === 'tiered') throw invalidRequest('The payment fake only supports billing_scheme=per_unit.', 'billing_scheme');
+  if (scheme === 'tiered')
+    throw invalidRequest('The payment fake only supports billing_scheme=per_unit.', 'billing_scheme');
   const decimal = params.str('unit_amount_decimal');
   let unitAmount = params.int('unit_amount', { min: 0 });
   if (unitAmount === undefined && decimal !== undefined) {
-    if (!/^\d+$/.test(decimal)) throw invalidRequest('The payment fake only supports whole-cent unit amounts.', 'unit_amount_decimal');
+    if (!/^\d+$/.test(decimal))
+      throw invalidRequest('The payment fake only supports whole-cent unit amounts.', 'unit_amount_decimal');
     unitAmount = Number(decimal);
   }
-  if (unitAmount === undefined) throw invalidRequest('Missing required param: unit_amount.', 'unit_amount', 'parameter_missing');
+  if (unitAmount === undefined)
+    throw invalidRequest('Missing required param: unit_amount.', 'unit_amount', 'parameter_missing');
 
   let productId = params.str('product');
   const productData = params.obj('product_data');
@@ -173,17 +188,23 @@ export function createPrice(ctx: ApiContext, params: Params): FakePrice {
   if (rec) {
     rec.allowOnly(['interval', 'interval_count', 'usage_type', 'meter', 'trial_period_days', 'aggregate_usage']);
     const interval = rec.oneOf('interval', INTERVALS);
-    if (!interval) throw invalidRequest('Missing required param: recurring[interval].', 'recurring[interval]', 'parameter_missing');
+    if (!interval)
+      throw invalidRequest('Missing required param: recurring[interval].', 'recurring[interval]', 'parameter_missing');
     const usageType = rec.oneOf('usage_type', ['licensed', 'metered'] as const) ?? 'licensed';
     const meterId = rec.str('meter') || null;
     if (usageType === 'metered' && !meterId) {
-      throw invalidRequest('A metered price must be tied to a meter: pass recurring[meter].', 'recurring[meter]', 'parameter_missing');
+      throw invalidRequest(
+        'A metered price must be tied to a meter: pass recurring[meter].',
+        'recurring[meter]',
+        'parameter_missing',
+      );
     }
     if (meterId) {
       const meter = ctx.store.get('meter', meterId);
       if (!meter) throw resourceMissing('billing meter', meterId, 'recurring[meter]');
       if (meter.status !== 'active') throw invalidRequest(`Meter ${meterId} is not active.`, 'recurring[meter]');
-      if (usageType !== 'metered') throw invalidRequest('recurring[meter] needs recurring[usage_type]=metered.', 'recurring[usage_type]');
+      if (usageType !== 'metered')
+        throw invalidRequest('recurring[meter] needs recurring[usage_type]=metered.', 'recurring[usage_type]');
     }
     recurring = {
       interval,
@@ -278,11 +299,20 @@ export function requireMeter(ctx: ApiContext, id: string, param?: string): FakeM
 }
 
 export function activeMeterForEvent(store: FakeStore, eventName: string): FakeMeter | undefined {
-  return store.list('meter', { where: (m) => m.status === 'active' && m.event_name === eventName }, { limit: 1 }).data[0];
+  return store.list('meter', { where: (m) => m.status === 'active' && m.event_name === eventName }, { limit: 1 })
+    .data[0];
 }
 
 export function createMeter(ctx: ApiContext, params: Params): FakeMeter {
-  params.allowOnly(['display_name', 'event_name', 'default_aggregation', 'customer_mapping', 'value_settings', 'event_time_window', 'expand']);
+  params.allowOnly([
+    'display_name',
+    'event_name',
+    'default_aggregation',
+    'customer_mapping',
+    'value_settings',
+    'event_time_window',
+    'expand',
+  ]);
   const displayName = params.requireStr('display_name');
   const eventName = params.requireStr('event_name');
   const aggregation = params.obj('default_aggregation');
@@ -291,10 +321,18 @@ export function createMeter(ctx: ApiContext, params: Params): FakeMeter {
   }
   const formula = aggregation.oneOf('formula', ['sum', 'count', 'last'] as const);
   if (!formula) {
-    throw invalidRequest('Missing required param: default_aggregation[formula].', 'default_aggregation[formula]', 'parameter_missing');
+    throw invalidRequest(
+      'Missing required param: default_aggregation[formula].',
+      'default_aggregation[formula]',
+      'parameter_missing',
+    );
   }
   if (activeMeterForEvent(ctx.store, eventName)) {
-    throw invalidRequest(`An active meter with event_name \`${eventName}\` already exists.`, 'event_name', 'resource_already_exists');
+    throw invalidRequest(
+      `An active meter with event_name \`${eventName}\` already exists.`,
+      'event_name',
+      'resource_already_exists',
+    );
   }
   const mapping = params.obj('customer_mapping');
   const valueSettings = params.obj('value_settings');
@@ -386,7 +424,14 @@ export function ensureCatalogue(store: FakeStore, now: number): string[] {
   return store.tx(() => {
     let meter = activeMeterForEvent(store, METER_EVENT_NAME);
     if (!meter) {
-      meter = buildMeter(now, METER_DISPLAY_NAME, METER_EVENT_NAME, 'sum', METER_CUSTOMER_PAYLOAD_KEY, METER_VALUE_PAYLOAD_KEY);
+      meter = buildMeter(
+        now,
+        METER_DISPLAY_NAME,
+        METER_EVENT_NAME,
+        'sum',
+        METER_CUSTOMER_PAYLOAD_KEY,
+        METER_VALUE_PAYLOAD_KEY,
+      );
       store.insert('meter', meter, {});
       created.push(meter.id);
     }
@@ -435,7 +480,13 @@ export function ensureCatalogue(store: FakeStore, now: number): string[] {
         metadata,
         nickname,
         product,
-        recurring: { interval: 'month', interval_count: 1, meter: meterId, trial_period_days: null, usage_type: usageType },
+        recurring: {
+          interval: 'month',
+          interval_count: 1,
+          meter: meterId,
+          trial_period_days: null,
+          usage_type: usageType,
+        },
         tax_behavior: 'unspecified',
         tiers_mode: null,
         transform_quantity: null,
@@ -453,10 +504,17 @@ export function ensureCatalogue(store: FakeStore, now: number): string[] {
         plan: plan.id,
         kind: 'base',
       });
-      ensurePrice(plan.meteredLookupKey, METERED_PRODUCT.id, plan.perFlightCents, meter.id, `${plan.name} per screened flight`, {
-        plan: plan.id,
-        kind: 'metered',
-      });
+      ensurePrice(
+        plan.meteredLookupKey,
+        METERED_PRODUCT.id,
+        plan.perFlightCents,
+        meter.id,
+        `${plan.name} per screened flight`,
+        {
+          plan: plan.id,
+          kind: 'metered',
+        },
+      );
     }
     return created;
   });

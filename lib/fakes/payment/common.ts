@@ -34,7 +34,10 @@ export function readPage(params: Params): Page {
   const startingAfter = params.str('starting_after') || undefined;
   const endingBefore = params.str('ending_before') || undefined;
   if (startingAfter && endingBefore) {
-    throw invalidRequest('You may only specify one of these parameters: starting_after, ending_before.', 'starting_after');
+    throw invalidRequest(
+      'You may only specify one of these parameters: starting_after, ending_before.',
+      'starting_after',
+    );
   }
   return { limit, startingAfter, endingBefore };
 }

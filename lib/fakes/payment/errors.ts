@@ -1,11 +1,7 @@
 /** Error replies in the payment API's shape: `{ error: { type, code, message, param?, decline_code? } }`. */
 
 export type ApiErrorType =
-  | 'invalid_request_error'
-  | 'card_error'
-  | 'api_error'
-  | 'idempotency_error'
-  | 'rate_limit_error';
+  'invalid_request_error' | 'card_error' | 'api_error' | 'idempotency_error' | 'rate_limit_error';
 
 export interface ApiErrorBody {
   type: ApiErrorType;

@@ -150,7 +150,11 @@ export class Params {
     const n = Number(v);
     if ((range.min !== undefined && n < range.min) || (range.max !== undefined && n > range.max)) {
       const bounds = `${range.min ?? '-inf'}..${range.max ?? 'inf'}`;
-      throw invalidRequest(`Invalid ${this.name(key)}: must be in ${bounds}`, this.name(key), 'parameter_invalid_integer');
+      throw invalidRequest(
+        `Invalid ${this.name(key)}: must be in ${bounds}`,
+        this.name(key),
+        'parameter_invalid_integer',
+      );
     }
     return n;
   }

@@ -50,7 +50,10 @@ ${rows}
 }
 
 function pdfText(text: string): string {
-  const ascii = text.replace(/×/g, 'x').replace(/·/g, '-').replace(/[^\x20-\x7e]/g, '?');
+  const ascii = text
+    .replace(/×/g, 'x')
+    .replace(/·/g, '-')
+    .replace(/[^\x20-\x7e]/g, '?');
   return ascii.replace(/[\\()]/g, (c) => `\\${c}`);
 }
 

@@ -33,14 +33,22 @@ export function createMeterEvent(ctx: ApiContext, params: Params): FakeMeterEven
   const valueKey = meter.value_settings.event_payload_key;
   const customerId = payload[customerKey];
   if (!customerId) {
-    throw invalidRequest(`Missing required param: payload[${customerKey}].`, `payload[${customerKey}]`, 'parameter_missing');
+    throw invalidRequest(
+      `Missing required param: payload[${customerKey}].`,
+      `payload[${customerKey}]`,
+      'parameter_missing',
+    );
   }
   requireCustomer(ctx, customerId, `payload[${customerKey}]`);
   let value = 1;
   if (meter.default_aggregation.formula !== 'count') {
     const raw = payload[valueKey];
     if (raw === undefined) {
-      throw invalidRequest(`Missing required param: payload[${valueKey}].`, `payload[${valueKey}]`, 'parameter_missing');
+      throw invalidRequest(
+        `Missing required param: payload[${valueKey}].`,
+        `payload[${valueKey}]`,
+        'parameter_missing',
+      );
     }
     if (!/^\d+$/.test(raw)) {
       throw invalidRequest(
@@ -54,7 +62,11 @@ export function createMeterEvent(ctx: ApiContext, params: Params): FakeMeterEven
 
   const identifier = params.str('identifier') || newId('mev');
   if (identifier.length > 100) {
-    throw invalidRequest('identifier can have up to 100 characters.', 'identifier', 'parameter_invalid_string_too_long');
+    throw invalidRequest(
+      'identifier can have up to 100 characters.',
+      'identifier',
+      'parameter_invalid_string_too_long',
+    );
   }
   if (ctx.store.hasMeterEvent(identifier)) {
     throw invalidRequest(
@@ -73,7 +85,11 @@ export function createMeterEvent(ctx: ApiContext, params: Params): FakeMeterEven
     );
   }
   if (timestamp > ctx.now + MAX_FUTURE_SECONDS) {
-    throw invalidRequest('Timestamp must not be more than 5 minutes in the future.', 'timestamp', 'timestamp_in_future');
+    throw invalidRequest(
+      'Timestamp must not be more than 5 minutes in the future.',
+      'timestamp',
+      'timestamp_in_future',
+    );
   }
 
   const event: FakeMeterEvent = {
@@ -117,7 +133,10 @@ export function listEventSummaries(ctx: ApiContext, params: Params, meterId: str
   const summaries: FakeMeterEventSummary[] = windows.map(([from, to]) => ({
     id: `mtrusg_${meter.id.slice(4, 14)}${from.toString(36)}`,
     object: 'billing.meter_event_summary',
-    aggregated_value: aggregate(meter.default_aggregation.formula, ctx.store.meterEventsInWindow(meter.id, customer, from, to)),
+    aggregated_value: aggregate(
+      meter.default_aggregation.formula,
+      ctx.store.meterEventsInWindow(meter.id, customer, from, to),
+    ),
     end_time: to,
     livemode: false,
     meter: meter.id,

@@ -174,7 +174,11 @@ export function detachPaymentMethod(ctx: ApiContext, params: Params, id: string)
   params.allowOnly(['expand']);
   const pm = requirePaymentMethod(ctx, id);
   if (!pm.customer) {
-    throw invalidRequest('The payment method you provided is not attached to a customer so detachment is impossible.', undefined, 'payment_method_unexpected_state');
+    throw invalidRequest(
+      'The payment method you provided is not attached to a customer so detachment is impossible.',
+      undefined,
+      'payment_method_unexpected_state',
+    );
   }
   const customer = ctx.store.get('customer', pm.customer);
   if (customer && customer.invoice_settings.default_payment_method === id) {

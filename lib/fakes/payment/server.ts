@@ -140,7 +140,8 @@ function jsonObject(raw: string): Record<string, unknown> {
   } catch {
     throw invalidRequest('The body must be JSON.');
   }
-  if (typeof parsed !== 'object' || parsed === null || Array.isArray(parsed)) throw invalidRequest('The body must be a JSON object.');
+  if (typeof parsed !== 'object' || parsed === null || Array.isArray(parsed))
+    throw invalidRequest('The body must be a JSON object.');
   return parsed as Record<string, unknown>;
 }
 
@@ -170,7 +171,11 @@ function faultConfigFrom(body: Record<string, unknown>): FaultConfig {
   const status = body.status ?? 500;
   if (status !== 500 && status !== 429) throw invalidRequest('status must be 500 or 429', 'status');
   const onlyPaths = body.onlyPaths;
-  if (onlyPaths !== undefined && onlyPaths !== null && !(Array.isArray(onlyPaths) && onlyPaths.every((p) => typeof p === 'string'))) {
+  if (
+    onlyPaths !== undefined &&
+    onlyPaths !== null &&
+    !(Array.isArray(onlyPaths) && onlyPaths.every((p) => typeof p === 'string'))
+  ) {
     throw invalidRequest('onlyPaths must be an array of path prefixes', 'onlyPaths');
   }
   return {
@@ -200,7 +205,11 @@ export async function startPaymentFake(options: PaymentFakeOptions = {}): Promis
   const dispatcher = new WebhookDispatcher(
     store,
     { url: options.webhookUrl ?? null, secret: options.webhookSecret ?? null },
-    { retryDelaysMs: options.webhookRetryDelaysMs ?? DEFAULT_RETRY_DELAYS_MS, timeoutMs: options.webhookTimeoutMs ?? 10_000, log },
+    {
+      retryDelaysMs: options.webhookRetryDelaysMs ?? DEFAULT_RETRY_DELAYS_MS,
+      timeoutMs: options.webhookTimeoutMs ?? 10_000,
+      log,
+    },
   );
   let baseUrl = '';
 
@@ -270,7 +279,12 @@ export async function startPaymentFake(options: PaymentFakeOptions = {}): Promis
     const decision = faults.decide(url.pathname);
     if (decision.delayMs > 0) await sleep(decision.delayMs);
     if (decision.failWith === 500) {
-      return errorReply(new FakeApiError(500, { type: 'api_error', message: 'An unexpected error occurred (injected by the payment fake).' }));
+      return errorReply(
+        new FakeApiError(500, {
+          type: 'api_error',
+          message: 'An unexpected error occurred (injected by the payment fake).',
+        }),
+      );
     }
     if (decision.failWith === 429) {
       return errorReply(
@@ -304,7 +318,9 @@ export async function startPaymentFake(options: PaymentFakeOptions = {}): Promis
     const headerVersion = header(req, 'stripe-version');
     const apiVersion = headerVersion ?? defaultApiVersion();
     const idempotencyKey = method === 'POST' ? (header(req, 'idempotency-key') ?? null) : null;
-    const bodyHash = createHash('sha256').update(`${method} ${url.pathname}\n${inQuery ? url.search : raw}`).digest('hex');
+    const bodyHash = createHash('sha256')
+      .update(`${method} ${url.pathname}\n${inQuery ? url.search : raw}`)
+      .digest('hex');
     const common = { 'Stripe-Version': apiVersion, ...(idempotencyKey ? { 'Idempotency-Key': idempotencyKey } : {}) };
 
     if (idempotencyKey) {
@@ -352,8 +368,13 @@ export async function startPaymentFake(options: PaymentFakeOptions = {}): Promis
       return { ...reply, headers: common };
     } catch (err) {
       if (err instanceof FakeApiError) return { ...errorReply(err), headers: common };
-      log(`payment fake: ${method} ${url.pathname} failed: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}`);
-      return { status: 500, body: { error: { type: 'api_error', message: 'The payment fake failed to handle this request.' } } };
+      log(
+        `payment fake: ${method} ${url.pathname} failed: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}`,
+      );
+      return {
+        status: 500,
+        body: { error: { type: 'api_error', message: 'The payment fake failed to handle this request.' } },
+      };
     }
   }
 
@@ -366,8 +387,15 @@ export async function startPaymentFake(options: PaymentFakeOptions = {}): Promis
       meters: store.all('meter'),
       subscriptions: store.all('subscription'),
       invoices: decorate(store.all('invoice'), baseUrl),
-      meterEvents: store.allMeterEvents().map((m) => ({ ...m.event, meter: m.meter, customer: m.customer, value: m.value, invoice: m.invoice })),
-      events: store.allEvents().map((e) => ({ id: e.event.id, type: e.event.type, created: e.event.created, deliveryStatus: e.deliveryStatus })),
+      meterEvents: store
+        .allMeterEvents()
+        .map((m) => ({ ...m.event, meter: m.meter, customer: m.customer, value: m.value, invoice: m.invoice })),
+      events: store.allEvents().map((e) => ({
+        id: e.event.id,
+        type: e.event.type,
+        created: e.event.created,
+        deliveryStatus: e.deliveryStatus,
+      })),
       deliveries: store.deliveries(),
       faults: { ...faults.current, matched: faults.matched, injected: faults.injected },
       idempotencyKeys: store.countIdempotency(),
@@ -464,7 +492,8 @@ export async function startPaymentFake(options: PaymentFakeOptions = {}): Promis
         onlyKeys(body, ['url', 'secret']);
         const target: Partial<WebhookTarget> = {};
         if (body.url !== undefined) {
-          if (body.url !== null && typeof body.url !== 'string') throw invalidRequest('url must be a string or null', 'url');
+          if (body.url !== null && typeof body.url !== 'string')
+            throw invalidRequest('url must be a string or null', 'url');
           target.url = body.url;
         }
         if (body.secret !== undefined) target.secret = requiredString(body, 'secret');
@@ -487,11 +516,18 @@ export async function startPaymentFake(options: PaymentFakeOptions = {}): Promis
         const url = new URL(req.url ?? '/', 'http://127.0.0.1');
         const raw = await readBody(req);
         if (raw === null) {
-          reply = errorReply(new FakeApiError(413, { type: 'invalid_request_error', message: 'Request body too large.' }));
+          reply = errorReply(
+            new FakeApiError(413, { type: 'invalid_request_error', message: 'Request body too large.' }),
+          );
         } else if (url.pathname.startsWith('/_fake/')) {
           reply = isLoopback(req.socket.remoteAddress)
             ? await handleControl(req, res, url, raw)
-            : errorReply(new FakeApiError(403, { type: 'invalid_request_error', message: 'Control endpoints are loopback only.' }));
+            : errorReply(
+                new FakeApiError(403, {
+                  type: 'invalid_request_error',
+                  message: 'Control endpoints are loopback only.',
+                }),
+              );
         } else if (url.pathname.startsWith('/v1/')) {
           reply = await handleApi(req, url, raw, requestId);
         } else {
@@ -501,7 +537,10 @@ export async function startPaymentFake(options: PaymentFakeOptions = {}): Promis
         if (err instanceof FakeApiError) reply = errorReply(err);
         else {
           log(`payment fake: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}`);
-          reply = { status: 500, body: { error: { type: 'api_error', message: 'The payment fake failed.' } satisfies ApiErrorBody } };
+          reply = {
+            status: 500,
+            body: { error: { type: 'api_error', message: 'The payment fake failed.' } satisfies ApiErrorBody },
+          };
         }
       }
       if (reply === null || res.headersSent) return;
@@ -586,7 +625,9 @@ if (isMain()) {
   // Same fallback as the app's lib/env.ts, so a demo that sets neither side still verifies.
   const webhookSecret = process.env.STRIPE_WEBHOOK_SECRET || LOCAL_WEBHOOK_SECRET;
   if (webhookUrl && !process.env.STRIPE_WEBHOOK_SECRET) {
-    console.error(`payment fake: STRIPE_WEBHOOK_SECRET unset; signing webhooks with the local default ${LOCAL_WEBHOOK_SECRET}`);
+    console.error(
+      `payment fake: STRIPE_WEBHOOK_SECRET unset; signing webhooks with the local default ${LOCAL_WEBHOOK_SECRET}`,
+    );
   }
   const fake = await startPaymentFake({
     port,

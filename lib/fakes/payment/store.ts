@@ -169,7 +169,10 @@ CREATE TABLE IF NOT EXISTS meta (
 );
 `;
 
-function indexColumns(kind: ObjectKind, obj: ObjectTypes[ObjectKind]): {
+function indexColumns(
+  kind: ObjectKind,
+  obj: ObjectTypes[ObjectKind],
+): {
   customer: string | null;
   subscription: string | null;
   lookup_key: string | null;
@@ -217,7 +220,16 @@ export class FakeStore {
         `INSERT INTO objects (id, kind, customer, subscription, lookup_key, created, data, internal)
          VALUES (?, ?, ?, ?, ?, ?, ?, ?)`,
       )
-      .run(obj.id, kind, idx.customer, idx.subscription, idx.lookup_key, obj.created, JSON.stringify(obj), JSON.stringify(internal));
+      .run(
+        obj.id,
+        kind,
+        idx.customer,
+        idx.subscription,
+        idx.lookup_key,
+        obj.created,
+        JSON.stringify(obj),
+        JSON.stringify(internal),
+      );
   }
 
   save<K extends ObjectKind>(kind: K, obj: ObjectTypes[K], internal?: InternalTypes[K]): void {
@@ -225,27 +237,35 @@ export class FakeStore {
     const result =
       internal === undefined
         ? this.db
-            .prepare(`UPDATE objects SET customer = ?, subscription = ?, lookup_key = ?, data = ? WHERE id = ? AND kind = ?`)
+            .prepare(
+              `UPDATE objects SET customer = ?, subscription = ?, lookup_key = ?, data = ? WHERE id = ? AND kind = ?`,
+            )
             .run(idx.customer, idx.subscription, idx.lookup_key, JSON.stringify(obj), obj.id, kind)
         : this.db
             .prepare(
               `UPDATE objects SET customer = ?, subscription = ?, lookup_key = ?, data = ?, internal = ? WHERE id = ? AND kind = ?`,
             )
-            .run(idx.customer, idx.subscription, idx.lookup_key, JSON.stringify(obj), JSON.stringify(internal), obj.id, kind);
+            .run(
+              idx.customer,
+              idx.subscription,
+              idx.lookup_key,
+              JSON.stringify(obj),
+              JSON.stringify(internal),
+              obj.id,
+              kind,
+            );
     if (result.changes !== 1) throw new Error(`save: no ${kind} ${obj.id}`);
   }
 
   get<K extends ObjectKind>(kind: K, id: string): ObjectTypes[K] | undefined {
     const row = this.db.prepare(`SELECT seq, data, internal FROM objects WHERE id = ? AND kind = ?`).get(id, kind) as
-      | ObjectRow
-      | undefined;
+      ObjectRow | undefined;
     return row ? (JSON.parse(row.data) as ObjectTypes[K]) : undefined;
   }
 
   internal<K extends ObjectKind>(kind: K, id: string): InternalTypes[K] | undefined {
     const row = this.db.prepare(`SELECT seq, data, internal FROM objects WHERE id = ? AND kind = ?`).get(id, kind) as
-      | ObjectRow
-      | undefined;
+      ObjectRow | undefined;
     return row ? (JSON.parse(row.internal) as InternalTypes[K]) : undefined;
   }
 
@@ -297,7 +317,9 @@ export class FakeStore {
   }
 
   all<K extends ObjectKind>(kind: K): ObjectTypes[K][] {
-    const rows = this.db.prepare(`SELECT seq, data, internal FROM objects WHERE kind = ? ORDER BY seq`).all(kind) as ObjectRow[];
+    const rows = this.db
+      .prepare(`SELECT seq, data, internal FROM objects WHERE kind = ? ORDER BY seq`)
+      .all(kind) as ObjectRow[];
     return rows.map((row) => JSON.parse(row.data) as ObjectTypes[K]);
   }
 
@@ -366,8 +388,9 @@ export class FakeStore {
 
   hasMeterEventAt(customer: string, timestamp: number): boolean {
     return (
-      this.db.prepare(`SELECT 1 FROM meter_events WHERE customer = ? AND timestamp = ? LIMIT 1`).get(customer, timestamp) !==
-      undefined
+      this.db
+        .prepare(`SELECT 1 FROM meter_events WHERE customer = ? AND timestamp = ? LIMIT 1`)
+        .get(customer, timestamp) !== undefined
     );
   }
 
@@ -383,7 +406,15 @@ export class FakeStore {
 
   getIdempotency(key: string): IdempotencyRecord | undefined {
     const row = this.db.prepare(`SELECT * FROM idempotency WHERE key = ?`).get(key) as
-      | { key: string; method: string; path: string; body_hash: string; status: number; response: string; created: number }
+      | {
+          key: string;
+          method: string;
+          path: string;
+          body_hash: string;
+          status: number;
+          response: string;
+          created: number;
+        }
       | undefined;
     if (!row) return undefined;
     return {
@@ -418,8 +449,7 @@ export class FakeStore {
 
   getEvent(id: string): StoredEvent | undefined {
     const row = this.db.prepare(`SELECT data, delivery_status FROM events WHERE id = ?`).get(id) as
-      | { data: string; delivery_status: DeliveryStatus }
-      | undefined;
+      { data: string; delivery_status: DeliveryStatus } | undefined;
     return row ? { event: JSON.parse(row.data) as FakeEvent, deliveryStatus: row.delivery_status } : undefined;
   }
 

@@ -36,7 +36,9 @@ export interface SmtpFake {
 
 function addressList(v: unknown): string[] {
   const list = Array.isArray(v) ? v : v ? [v] : [];
-  return list.flatMap((a: { value?: { address?: string }[] }) => (a.value ?? []).map((x) => x.address ?? '')).filter(Boolean);
+  return list
+    .flatMap((a: { value?: { address?: string }[] }) => (a.value ?? []).map((x) => x.address ?? ''))
+    .filter(Boolean);
 }
 
 export async function startSmtpFake(opts: SmtpFakeOptions): Promise<SmtpFake> {
@@ -93,7 +95,10 @@ export async function startSmtpFake(opts: SmtpFakeOptions): Promise<SmtpFake> {
       const to = url.searchParams.get('to')?.toLowerCase();
       const list = messages
         .filter((m) => !to || m.to.some((a) => a.toLowerCase() === to))
-        .map(({ attachments, ...rest }) => ({ ...rest, attachments: attachments.map(({ contentBase64: _c, ...a }) => a) }));
+        .map(({ attachments, ...rest }) => ({
+          ...rest,
+          attachments: attachments.map(({ contentBase64: _c, ...a }) => a),
+        }));
       return send(200, { items: list.reverse() });
     }
     const att = /^\/messages\/(\d+)\/attachments\/(\d+)$/.exec(url.pathname);

@@ -16,7 +16,15 @@ export function useBrowser(): { browser: () => Browser } {
     browser = await chromium.launch({
       executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
       headless: true,
-      args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+      args: [
+        '--no-sandbox',
+        '--disable-gpu',
+        '--disable-quic',
+        '--no-first-run',
+        '--disable-background-networking',
+        '--disable-component-update',
+        '--disable-sync',
+      ],
     });
   });
   afterAll(async () => {

@@ -61,12 +61,15 @@ describe('outstanding links end together', () => {
 });
 
 describe('the password rule on the forms', () => {
-  it.each(['aaaaaaaaaa', 'password12', '1234567890', 'tropopass-demo'])('sign-up refuses %j with the reason on the password field', async (password) => {
-    const email = `weak-${Math.random().toString(36).slice(2)}@operator.example`;
-    const state = await signUpAction(null, form({ name: 'Ola Weak', email, password }));
-    expect(state).toMatchObject({ ok: false, error: { code: 'invalid_fields', fields: [{ path: 'password' }] } });
-    expect(await db()('users').where({ email }).first()).toBeUndefined();
-  });
+  it.each(['aaaaaaaaaa', 'password12', '1234567890', 'tropopass-demo'])(
+    'sign-up refuses %j with the reason on the password field',
+    async (password) => {
+      const email = `weak-${Math.random().toString(36).slice(2)}@operator.example`;
+      const state = await signUpAction(null, form({ name: 'Ola Weak', email, password }));
+      expect(state).toMatchObject({ ok: false, error: { code: 'invalid_fields', fields: [{ path: 'password' }] } });
+      expect(await db()('users').where({ email }).first()).toBeUndefined();
+    },
+  );
 
   it('a reset refuses a weak password and keeps the link usable', async () => {
     const u = await makeUser('weakreset');
@@ -74,13 +77,25 @@ describe('the password rule on the forms', () => {
     const state = await resetPasswordAction(null, form({ token, password: 'qwertyuiop', confirm: 'qwertyuiop' }));
     expect(state).toMatchObject({ ok: false, error: { fields: [{ path: 'password' }] } });
     expect(await resetTokenEmail(token)).toBe(u.email);
-    expect(await redirectOf(resetPasswordAction(null, form({ token, password: 'stratus-lantern-41', confirm: 'stratus-lantern-41' })))).toBe('/signin?reset=1');
+    expect(
+      await redirectOf(
+        resetPasswordAction(null, form({ token, password: 'stratus-lantern-41', confirm: 'stratus-lantern-41' })),
+      ),
+    ).toBe('/signin?reset=1');
   });
 
   it('the demo password still works for a seeded demo account', async () => {
-    await createUser({ email: 'planner@tropopass.test', name: 'Demo Planner', passwordHash: await hashPassword('old-demo-pass-9Q') });
+    await createUser({
+      email: 'planner@tropopass.test',
+      name: 'Demo Planner',
+      passwordHash: await hashPassword('old-demo-pass-9Q'),
+    });
     const token = await createResetToken('planner@tropopass.test');
-    expect(await redirectOf(resetPasswordAction(null, form({ token, password: 'tropopass-demo', confirm: 'tropopass-demo' })))).toBe('/signin?reset=1');
+    expect(
+      await redirectOf(
+        resetPasswordAction(null, form({ token, password: 'tropopass-demo', confirm: 'tropopass-demo' })),
+      ),
+    ).toBe('/signin?reset=1');
   });
 });
 
@@ -88,7 +103,12 @@ describe('password sign-in as a form post', () => {
   it('sets a recorded session cookie and goes on through the landing with the deep link kept', async () => {
     const email = `poster-${Date.now()}@operator.example`;
     const u = await createUser({ email, name: 'Poster', passwordHash: await hashPassword('stratus-lantern-41') });
-    const to = await redirectOf(signInWithPasswordAction(null, form({ email, password: 'stratus-lantern-41', callbackUrl: '/w/skarn-polar/fleets?from=2026-10-01' })));
+    const to = await redirectOf(
+      signInWithPasswordAction(
+        null,
+        form({ email, password: 'stratus-lantern-41', callbackUrl: '/w/skarn-polar/fleets?from=2026-10-01' }),
+      ),
+    );
     expect(to).toBe(`/start?next=${encodeURIComponent('/w/skarn-polar/fleets?from=2026-10-01')}`);
     const cookie = scope.setCookies.get('next-auth.session-token');
     expect((await userFromSessionToken(cookie))?.id).toBe(u.id);
@@ -97,7 +117,11 @@ describe('password sign-in as a form post', () => {
   it('a foreign callback is not followed, and a wrong password gives the message without echoing the password', async () => {
     const email = `poster2-${Date.now()}@operator.example`;
     await createUser({ email, name: 'Poster', passwordHash: await hashPassword('stratus-lantern-41') });
-    expect(await redirectOf(signInWithPasswordAction(null, form({ email, password: 'stratus-lantern-41', callbackUrl: '//evil.example/' })))).toBe('/start');
+    expect(
+      await redirectOf(
+        signInWithPasswordAction(null, form({ email, password: 'stratus-lantern-41', callbackUrl: '//evil.example/' })),
+      ),
+    ).toBe('/start');
     resetScope();
     const state = await signInWithPasswordAction(null, form({ email, password: 'not-the-password' }));
     expect(state).toMatchObject({ ok: false, values: { email } });

@@ -20,9 +20,18 @@ afterEach(() => {
 });
 
 const APP = 'http://127.0.0.1:3000';
-const req = (path: string, init: { method?: string; headers?: Record<string, string> } = {}) => new NextRequest(new URL(path, APP), init);
+const req = (path: string, init: { method?: string; headers?: Record<string, string> } = {}) =>
+  new NextRequest(new URL(path, APP), init);
 
-const FOREIGN = ['//evil.example/', '/\\evil.example/', '/\t/evil.example', '/%09/evil.example', '/%2F%2Fevil.example', '/%5Cevil.example', 'https://evil.example/'];
+const FOREIGN = [
+  '//evil.example/',
+  '/\\evil.example/',
+  '/\t/evil.example',
+  '/%09/evil.example',
+  '/%2F%2Fevil.example',
+  '/%5Cevil.example',
+  'https://evil.example/',
+];
 
 describe('sign-in callback', () => {
   it.each(FOREIGN)('the proxy drops the foreign callback %j before the sign-in page sees it', (cb) => {
@@ -49,7 +58,9 @@ describe('sign-in callback', () => {
     expect(page.headers.get('x-middleware-request-x-tropopass-return-to')).toBe(cb);
     expect(proxy(req(`${cb}&_rsc=abc12`)).headers.get('x-middleware-request-x-tropopass-return-to')).toBe(cb);
     expect(page.headers.get('x-middleware-request-x-tropopass-document')).toBe('1');
-    expect(proxy(req(cb, { headers: { rsc: '1' } })).headers.get('x-middleware-request-x-tropopass-document')).toBe('0');
+    expect(proxy(req(cb, { headers: { rsc: '1' } })).headers.get('x-middleware-request-x-tropopass-document')).toBe(
+      '0',
+    );
     // A client cannot choose it: the proxy writes its own.
     const forged = proxy(req('/w/skarn-polar', { headers: { 'x-tropopass-return-to': '//evil.example/' } }));
     expect(forged.headers.get('x-middleware-request-x-tropopass-return-to')).toBe('/w/skarn-polar');
@@ -60,7 +71,9 @@ describe('sign-in callback', () => {
     const redirect = authOptions().callbacks?.redirect;
     if (!redirect) throw new Error('no redirect callback');
     expect(new URL(await redirect({ url: cb, baseUrl: APP })).origin).toBe(APP);
-    expect(await redirect({ url: `${APP}/w/a/fleets?from=2026-10-01`, baseUrl: APP })).toBe(`${APP}/w/a/fleets?from=2026-10-01`);
+    expect(await redirect({ url: `${APP}/w/a/fleets?from=2026-10-01`, baseUrl: APP })).toBe(
+      `${APP}/w/a/fleets?from=2026-10-01`,
+    );
   });
 });
 
@@ -68,12 +81,16 @@ describe('role-aware landing after sign-in', () => {
   const finance = [{ workspace: { slug: 'skarn-polar' }, role: 'billing' as const }];
   const planner = [{ workspace: { slug: 'skarn-polar' }, role: 'planner' as const }];
   it('a callback the role cannot see goes to the role landing with a notice', () => {
-    expect(resolveAfterSignIn('/w/skarn-polar/fleets?from=2026-10-01', finance)).toBe('/w/skarn-polar/settings/billing?notice=outside-role');
+    expect(resolveAfterSignIn('/w/skarn-polar/fleets?from=2026-10-01', finance)).toBe(
+      '/w/skarn-polar/settings/billing?notice=outside-role',
+    );
     expect(resolveAfterSignIn('/w/skarn-polar', finance)).toBe('/w/skarn-polar/settings/billing?notice=outside-role');
     expect(resolveAfterSignIn('/w/skarn-polar/settings/members', planner)).toBe('/w/skarn-polar?notice=outside-role');
   });
   it('a callback the role can see is kept whole', () => {
-    expect(resolveAfterSignIn('/w/skarn-polar/fleets?from=2026-10-01', planner)).toBe('/w/skarn-polar/fleets?from=2026-10-01');
+    expect(resolveAfterSignIn('/w/skarn-polar/fleets?from=2026-10-01', planner)).toBe(
+      '/w/skarn-polar/fleets?from=2026-10-01',
+    );
     expect(resolveAfterSignIn('/w/skarn-polar/settings/billing', finance)).toBe('/w/skarn-polar/settings/billing');
     expect(resolveAfterSignIn(null, finance)).toBe('/w/skarn-polar/settings/billing');
   });
@@ -101,10 +118,25 @@ describe('origin check', () => {
 
   it('a cross-site server action gets a 403 from the proxy, whatever X-Forwarded-Host claims', async () => {
     withEnv({ NEXTAUTH_URL: APP });
-    const res = proxy(req('/w/skarn-polar/settings/api-keys', { method: 'POST', headers: { 'next-action': 'abc', origin: 'https://evil.example', host: '127.0.0.1:3000', 'x-forwarded-host': 'evil.example' } }));
+    const res = proxy(
+      req('/w/skarn-polar/settings/api-keys', {
+        method: 'POST',
+        headers: {
+          'next-action': 'abc',
+          origin: 'https://evil.example',
+          host: '127.0.0.1:3000',
+          'x-forwarded-host': 'evil.example',
+        },
+      }),
+    );
     expect(res.status).toBe(403);
     expect((await res.json()).error.code).toBe('forbidden');
-    const same = proxy(req('/w/skarn-polar/settings/api-keys', { method: 'POST', headers: { 'next-action': 'abc', origin: APP, host: '127.0.0.1:3000' } }));
+    const same = proxy(
+      req('/w/skarn-polar/settings/api-keys', {
+        method: 'POST',
+        headers: { 'next-action': 'abc', origin: APP, host: '127.0.0.1:3000' },
+      }),
+    );
     expect(same.status).toBe(200);
   });
 });

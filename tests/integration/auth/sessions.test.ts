@@ -34,13 +34,17 @@ describe('sign-out ends the session', () => {
     expect((await requireMember(ws.slug, 'apikeys:manage')).user.id).toBe(ws.owner.id);
 
     await signOutWith(cookie);
-    expect(await db()('auth_sessions').where({ user_id: ws.owner.id }).whereNotNull('revoked_at').select('id')).toHaveLength(1);
+    expect(
+      await db()('auth_sessions').where({ user_id: ws.owner.id }).whereNotNull('revoked_at').select('id'),
+    ).toHaveLength(1);
 
     // Route handler.
     expect((await call(workspacesRoute.GET, apiRequest('GET', '/api/v1/workspaces', { cookie }))).status).toBe(401);
     // Page guard: a redirect to sign-in, not the page.
     resetScope(cookie);
-    await expect(requireMember(ws.slug, 'apikeys:manage')).rejects.toMatchObject({ digest: expect.stringContaining('/signin') });
+    await expect(requireMember(ws.slug, 'apikeys:manage')).rejects.toMatchObject({
+      digest: expect.stringContaining('/signin'),
+    });
     // Server action.
     resetScope(cookie);
     const state = await createApiKeyAction(ws.slug, { name: 'after sign-out', role: 'viewer' });
@@ -54,15 +58,27 @@ describe('sign-out ends the session', () => {
   it('a token without a recorded session is refused', async () => {
     const ws = await makeWorkspace();
     const forged = await sessionCookie(ws.owner.id, { sid: 'never-recorded' });
-    expect((await call(workspacesRoute.GET, apiRequest('GET', '/api/v1/workspaces', { cookie: forged }))).status).toBe(401);
+    expect((await call(workspacesRoute.GET, apiRequest('GET', '/api/v1/workspaces', { cookie: forged }))).status).toBe(
+      401,
+    );
   });
 
   it('next-auth records a session id in every token it issues', async () => {
     const ws = await makeWorkspace();
     const jwt = authOptions().callbacks?.jwt;
     if (!jwt) throw new Error('no jwt callback');
-    const token = await jwt({ token: {}, user: { id: String(ws.owner.id), email: ws.owner.email }, account: null, trigger: 'signIn' });
+    const token = await jwt({
+      token: {},
+      user: { id: String(ws.owner.id), email: ws.owner.email },
+      account: null,
+      trigger: 'signIn',
+    });
     expect(typeof token.sid).toBe('string');
-    expect(await db()('auth_sessions').where({ id: String(token.sid), user_id: ws.owner.id }).whereNull('revoked_at').first()).toBeDefined();
+    expect(
+      await db()('auth_sessions')
+        .where({ id: String(token.sid), user_id: ws.owner.id })
+        .whereNull('revoked_at')
+        .first(),
+    ).toBeDefined();
   });
 });

@@ -37,7 +37,10 @@ async function outcome(p: Promise<unknown>): Promise<{ redirect?: string; state?
   try {
     return { state: await p, cookies: [...scope.setCookies.keys()] };
   } catch (err) {
-    return { redirect: String((err as { digest?: string }).digest).split(';')[2], cookies: [...scope.setCookies.keys()] };
+    return {
+      redirect: String((err as { digest?: string }).digest).split(';')[2],
+      cookies: [...scope.setCookies.keys()],
+    };
   }
 }
 
@@ -45,7 +48,9 @@ describe('sign-up does not tell whether an address has an account', () => {
   it('answers the same for a taken and a free address; the owner of the taken one is mailed, the new one gets a confirmation link', async () => {
     const taken = await makeUser('taken');
     const free = `free-${Date.now()}@operator.example`;
-    const a = await outcome(signUpAction(null, form({ name: 'Someone', email: taken.email, password: 'stratus-lantern-41' })));
+    const a = await outcome(
+      signUpAction(null, form({ name: 'Someone', email: taken.email, password: 'stratus-lantern-41' })),
+    );
     resetScope();
     const b = await outcome(signUpAction(null, form({ name: 'Someone', email: free, password: 'stratus-lantern-41' })));
     expect(a).toEqual({ redirect: '/signup/check-email', cookies: [] });

@@ -45,17 +45,29 @@ describe('a finance admin sees billing and usage, never flight data', () => {
     ];
     const statuses = [];
     for (const [method, p, handler, params, body] of flightData) {
-      const r = await call(handler, apiRequest(method, `/api/v1/workspaces/${ws.slug}/${p}`, { cookie, body, origin: TEST_ORIGIN }), { slug: ws.slug, ...params });
+      const r = await call(
+        handler,
+        apiRequest(method, `/api/v1/workspaces/${ws.slug}/${p}`, { cookie, body, origin: TEST_ORIGIN }),
+        { slug: ws.slug, ...params },
+      );
       statuses.push(`${method} ${p} ${r.status}`);
       expect(JSON.stringify(r.body)).not.toContain('EGLL');
     }
     expect(statuses).toEqual(flightData.map(([m, p]) => `${m} ${p} 403`));
     expect(can('billing', 'flights:read')).toBe(false);
 
-    const usage = await call<{ units: number }>(usageRoute.GET, apiRequest('GET', `/api/v1/workspaces/${ws.slug}/usage`, { cookie }), { slug: ws.slug });
+    const usage = await call<{ units: number }>(
+      usageRoute.GET,
+      apiRequest('GET', `/api/v1/workspaces/${ws.slug}/usage`, { cookie }),
+      { slug: ws.slug },
+    );
     expect(usage.status).toBe(200);
     expect(usage.body.units).toBe(1);
-    const billing = await call(billingRoute.GET, apiRequest('GET', `/api/v1/workspaces/${ws.slug}/billing`, { cookie }), { slug: ws.slug });
+    const billing = await call(
+      billingRoute.GET,
+      apiRequest('GET', `/api/v1/workspaces/${ws.slug}/billing`, { cookie }),
+      { slug: ws.slug },
+    );
     expect(billing.status).toBe(200);
   });
 
@@ -63,12 +75,26 @@ describe('a finance admin sees billing and usage, never flight data', () => {
     const ws = await makeWorkspace(['planner', 'analyst', 'viewer']);
     for (const role of ['planner', 'analyst', 'viewer']) {
       const cookie = await sessionCookie(ws.members[role].id);
-      const u = await call(usageRoute.GET, apiRequest('GET', `/api/v1/workspaces/${ws.slug}/usage`, { cookie }), { slug: ws.slug });
-      const b = await call(subscriptionRoute.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/billing/subscription`, { cookie, body: { planId: 'crew', card: 'succeeds' }, origin: TEST_ORIGIN }), { slug: ws.slug });
+      const u = await call(usageRoute.GET, apiRequest('GET', `/api/v1/workspaces/${ws.slug}/usage`, { cookie }), {
+        slug: ws.slug,
+      });
+      const b = await call(
+        subscriptionRoute.POST,
+        apiRequest('POST', `/api/v1/workspaces/${ws.slug}/billing/subscription`, {
+          cookie,
+          body: { planId: 'crew', card: 'succeeds' },
+          origin: TEST_ORIGIN,
+        }),
+        { slug: ws.slug },
+      );
       expect([role, u.status, b.status]).toEqual([role, 403, 403]);
     }
     const stranger = await makeUser('stranger');
-    const s = await call(usageRoute.GET, apiRequest('GET', `/api/v1/workspaces/${ws.slug}/usage`, { cookie: await sessionCookie(stranger.id) }), { slug: ws.slug });
+    const s = await call(
+      usageRoute.GET,
+      apiRequest('GET', `/api/v1/workspaces/${ws.slug}/usage`, { cookie: await sessionCookie(stranger.id) }),
+      { slug: ws.slug },
+    );
     expect(s.status).toBe(404);
     expect((await getBilling({ workspaceId: ws.id }))?.subscriptionId).toBeNull();
   });
@@ -77,31 +103,77 @@ describe('a finance admin sees billing and usage, never flight data', () => {
 describe('invoice download', () => {
   it('streams the PDF to the finance admin; another workspace cannot fetch it through its own address', async () => {
     const ws = await makeWorkspace(['billing', 'planner']);
-    await db()('workspace_billing').where({ workspace_id: ws.id }).update({ trial_ends_at: new Date(Date.now() - 1000).toISOString() });
+    await db()('workspace_billing')
+      .where({ workspace_id: ws.id })
+      .update({ trial_ends_at: new Date(Date.now() - 1000).toISOString() });
     const cookie = await sessionCookie(ws.members.billing.id);
-    await call(subscriptionRoute.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/billing/subscription`, { cookie, body: { planId: 'fleet', card: 'succeeds' }, origin: TEST_ORIGIN }), { slug: ws.slug });
+    await call(
+      subscriptionRoute.POST,
+      apiRequest('POST', `/api/v1/workspaces/${ws.slug}/billing/subscription`, {
+        cookie,
+        body: { planId: 'fleet', card: 'succeeds' },
+        origin: TEST_ORIGIN,
+      }),
+      { slug: ws.slug },
+    );
     const b = await getBilling({ workspaceId: ws.id });
-    const { body } = await h.control<{ invoice: Stripe.Invoice }>('/_fake/advance', { subscription: b!.subscriptionId, wait: true });
+    const { body } = await h.control<{ invoice: Stripe.Invoice }>('/_fake/advance', {
+      subscription: b!.subscriptionId,
+      wait: true,
+    });
     const id = body.invoice.id;
 
-    const list = await call<{ invoices: { id: string; amountDueCents: number; status: string; hasPdf: boolean }[] }>(billingRoute.GET, apiRequest('GET', `/api/v1/workspaces/${ws.slug}/billing`, { cookie }), { slug: ws.slug });
-    expect(list.body.invoices).toEqual([expect.objectContaining({ id, amountDueCents: body.invoice.amount_due, status: 'paid', hasPdf: true })]);
+    const list = await call<{ invoices: { id: string; amountDueCents: number; status: string; hasPdf: boolean }[] }>(
+      billingRoute.GET,
+      apiRequest('GET', `/api/v1/workspaces/${ws.slug}/billing`, { cookie }),
+      { slug: ws.slug },
+    );
+    expect(list.body.invoices).toEqual([
+      expect.objectContaining({ id, amountDueCents: body.invoice.amount_due, status: 'paid', hasPdf: true }),
+    ]);
 
-    const res = await invoicePdfRoute.GET(apiRequest('GET', `/api/v1/workspaces/${ws.slug}/invoices/${id}/pdf`, { cookie }), { params: Promise.resolve({ slug: ws.slug, id }) });
+    const res = await invoicePdfRoute.GET(
+      apiRequest('GET', `/api/v1/workspaces/${ws.slug}/invoices/${id}/pdf`, { cookie }),
+      { params: Promise.resolve({ slug: ws.slug, id }) },
+    );
     expect(res.status).toBe(200);
     expect(res.headers.get('content-type')).toBe('application/pdf');
     expect(res.headers.get('content-disposition')).toMatch(/^attachment; filename="[A-Za-z0-9._-]+\.pdf"$/);
     const bytes = Buffer.from(await res.arrayBuffer());
     expect(bytes.subarray(0, 5).toString('latin1')).toBe('%PDF-');
 
-    const planner = await call(invoicePdfRoute.GET, apiRequest('GET', `/api/v1/workspaces/${ws.slug}/invoices/${id}/pdf`, { cookie: await sessionCookie(ws.members.planner.id) }), { slug: ws.slug, id });
+    const planner = await call(
+      invoicePdfRoute.GET,
+      apiRequest('GET', `/api/v1/workspaces/${ws.slug}/invoices/${id}/pdf`, {
+        cookie: await sessionCookie(ws.members.planner.id),
+      }),
+      { slug: ws.slug, id },
+    );
     expect(planner.status).toBe(403);
 
     const other = await makeWorkspace();
-    await call(subscriptionRoute.POST, apiRequest('POST', `/api/v1/workspaces/${other.slug}/billing/subscription`, { cookie: await sessionCookie(other.owner.id), body: { planId: 'crew', card: 'succeeds' }, origin: TEST_ORIGIN }), { slug: other.slug });
-    const cross = await call(invoicePdfRoute.GET, apiRequest('GET', `/api/v1/workspaces/${other.slug}/invoices/${id}/pdf`, { cookie: await sessionCookie(other.owner.id) }), { slug: other.slug, id });
+    await call(
+      subscriptionRoute.POST,
+      apiRequest('POST', `/api/v1/workspaces/${other.slug}/billing/subscription`, {
+        cookie: await sessionCookie(other.owner.id),
+        body: { planId: 'crew', card: 'succeeds' },
+        origin: TEST_ORIGIN,
+      }),
+      { slug: other.slug },
+    );
+    const cross = await call(
+      invoicePdfRoute.GET,
+      apiRequest('GET', `/api/v1/workspaces/${other.slug}/invoices/${id}/pdf`, {
+        cookie: await sessionCookie(other.owner.id),
+      }),
+      { slug: other.slug, id },
+    );
     expect(cross.status).toBe(404);
-    const junk = await call(invoicePdfRoute.GET, apiRequest('GET', `/api/v1/workspaces/${ws.slug}/invoices/..%2F..%2Fetc/pdf`, { cookie }), { slug: ws.slug, id: '../../etc' });
+    const junk = await call(
+      invoicePdfRoute.GET,
+      apiRequest('GET', `/api/v1/workspaces/${ws.slug}/invoices/..%2F..%2Fetc/pdf`, { cookie }),
+      { slug: ws.slug, id: '../../etc' },
+    );
     expect(junk.status).toBe(404);
   });
 });

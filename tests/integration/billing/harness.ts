@@ -30,7 +30,11 @@ export interface BillingHarness {
   sdk: Stripe;
   /** Webhook deliveries the bridge passed to the app's route, with the route's status. */
   deliveries: { type: string; status: number }[];
-  control<T>(pathname: string, body?: unknown, method?: 'GET' | 'POST' | 'DELETE'): Promise<{ status: number; body: T }>;
+  control<T>(
+    pathname: string,
+    body?: unknown,
+    method?: 'GET' | 'POST' | 'DELETE',
+  ): Promise<{ status: number; body: T }>;
   mailsTo(address: string): StoredMessage[];
 }
 
@@ -82,7 +86,11 @@ export function useBillingHarness(extraEnv: Record<string, string> = {}): Billin
     });
     h.smtp = await startSmtpFake({ smtpPort: 0, httpPort: 0 });
     h.sdk = new Stripe(API_KEY, { host: '127.0.0.1', port: h.fake.port, protocol: 'http', maxNetworkRetries: 0 });
-    h.control = async <T>(pathname: string, body?: unknown, method: 'GET' | 'POST' | 'DELETE' = body === undefined ? 'GET' : 'POST') => {
+    h.control = async <T>(
+      pathname: string,
+      body?: unknown,
+      method: 'GET' | 'POST' | 'DELETE' = body === undefined ? 'GET' : 'POST',
+    ) => {
       const res = await fetch(`${h.fake.url}${pathname}`, {
         method,
         headers: body === undefined ? {} : { 'content-type': 'application/json' },
@@ -90,7 +98,8 @@ export function useBillingHarness(extraEnv: Record<string, string> = {}): Billin
       });
       return { status: res.status, body: (await res.json()) as T };
     };
-    h.mailsTo = (address) => h.smtp.messages().filter((m) => m.to.some((t) => t.toLowerCase() === address.toLowerCase()));
+    h.mailsTo = (address) =>
+      h.smtp.messages().filter((m) => m.to.some((t) => t.toLowerCase() === address.toLowerCase()));
     Object.assign(env, {
       STRIPE_SECRET_KEY: API_KEY,
       STRIPE_API_HOST: '127.0.0.1',
@@ -118,16 +127,27 @@ export function useBillingHarness(extraEnv: Record<string, string> = {}): Billin
 
 export async function screen(slug: string, userId: number, body: unknown = FLIGHT) {
   const cookie = await sessionCookie(userId);
-  return call<{ id: number }>(screeningsRoute.POST, apiRequest('POST', `/api/v1/workspaces/${slug}/screenings`, { cookie, body, origin: TEST_ORIGIN }), { slug });
+  return call<{ id: number }>(
+    screeningsRoute.POST,
+    apiRequest('POST', `/api/v1/workspaces/${slug}/screenings`, { cookie, body, origin: TEST_ORIGIN }),
+    { slug },
+  );
 }
 
 /** A body signed the way the payment service signs its webhooks. */
 export function signedWebhook(payload: string, secret = WEBHOOK_SECRET): Request {
   const header = Stripe.webhooks.generateTestHeaderString({ payload, secret });
-  return apiRequest('POST', '/api/webhooks/stripe', { rawBody: payload, headers: { 'content-type': 'application/json', 'stripe-signature': header } });
+  return apiRequest('POST', '/api/webhooks/stripe', {
+    rawBody: payload,
+    headers: { 'content-type': 'application/json', 'stripe-signature': header },
+  });
 }
 
-export async function until<T>(fn: () => Promise<T | null | undefined | false>, what: string, timeoutMs = 10_000): Promise<T> {
+export async function until<T>(
+  fn: () => Promise<T | null | undefined | false>,
+  what: string,
+  timeoutMs = 10_000,
+): Promise<T> {
   const deadline = Date.now() + timeoutMs;
   for (;;) {
     const v = await fn();

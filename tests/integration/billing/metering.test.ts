@@ -5,7 +5,13 @@ import { db } from '@/db/client';
 import { getBilling } from '@/db/billing';
 import { resetEnvForTests } from '@/lib/env';
 import { PLANS, estimateChargeCents, type PlanId } from '@/lib/billing/plans';
-import { BACKOFF_BASE_MS, BACKOFF_MAX_MS, MAX_BATCH_UNITS, backoffMs, sendPendingUsage } from '@/lib/billing/usage-sender';
+import {
+  BACKOFF_BASE_MS,
+  BACKOFF_MAX_MS,
+  MAX_BATCH_UNITS,
+  backoffMs,
+  sendPendingUsage,
+} from '@/lib/billing/usage-sender';
 import { formUsageBatches } from '@/db/usage-batches';
 import { reconcileUsage } from '@/lib/billing/reconcile';
 import { getUsageSummary } from '@/lib/billing/usage-summary';
@@ -33,9 +39,19 @@ const FAR_FUTURE = new Date(Date.now() + 365 * 86_400_000);
 /** A workspace whose trial is over, subscribed to `planId` with the card that succeeds. */
 async function subscribed(planId: PlanId) {
   const ws = await makeWorkspace(['billing', 'planner']);
-  await db()('workspace_billing').where({ workspace_id: ws.id }).update({ trial_ends_at: new Date(Date.now() - 1000).toISOString() });
+  await db()('workspace_billing')
+    .where({ workspace_id: ws.id })
+    .update({ trial_ends_at: new Date(Date.now() - 1000).toISOString() });
   const cookie = await sessionCookie(ws.members.billing.id);
-  const r = await call(subscriptionRoute.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/billing/subscription`, { cookie, body: { planId, card: 'succeeds' }, origin: TEST_ORIGIN }), { slug: ws.slug });
+  const r = await call(
+    subscriptionRoute.POST,
+    apiRequest('POST', `/api/v1/workspaces/${ws.slug}/billing/subscription`, {
+      cookie,
+      body: { planId, card: 'succeeds' },
+      origin: TEST_ORIGIN,
+    }),
+    { slug: ws.slug },
+  );
   expect(r.status).toBe(201);
   const billing = await getBilling({ workspaceId: ws.id });
   return { ws, billing: billing!, financeCookie: cookie };
@@ -46,12 +62,16 @@ async function screenMany(slug: string, userId: number, n: number) {
 }
 
 async function batchIdentifiers(workspaceId: number): Promise<string[]> {
-  return (await db()('usage_batches').where({ workspace_id: workspaceId }).orderBy('id').select('identifier')).map((r: { identifier: string }) => r.identifier);
+  return (await db()('usage_batches').where({ workspace_id: workspaceId }).orderBy('id').select('identifier')).map(
+    (r: { identifier: string }) => r.identifier,
+  );
 }
 
 /** The UTC minutes the workspace's ledger rows fall in: a batch never spans two. */
 async function ledgerMinutes(workspaceId: number): Promise<number> {
-  const rows = (await db()('usage_events').where({ workspace_id: workspaceId }).select('occurred_at')) as { occurred_at: string }[];
+  const rows = (await db()('usage_events').where({ workspace_id: workspaceId }).select('occurred_at')) as {
+    occurred_at: string;
+  }[];
   return new Set(rows.map((r) => r.occurred_at.slice(0, 16))).size;
 }
 
@@ -76,40 +96,53 @@ async function drain(workspaceId: number, rounds = 60) {
 }
 
 describe('screenings -> meter events -> invoice', () => {
-  it.each<PlanId>(['crew', 'fleet'])('%s: the ledger rows of a minute become one meter event carrying their count; the closed period is billed base + units x per-flight price', async (planId) => {
-    const { ws, billing, financeCookie } = await subscribed(planId);
-    const units = 7;
-    await screenMany(ws.slug, ws.members.planner.id, units);
+  it.each<PlanId>(['crew', 'fleet'])(
+    '%s: the ledger rows of a minute become one meter event carrying their count; the closed period is billed base + units x per-flight price',
+    async (planId) => {
+      const { ws, billing, financeCookie } = await subscribed(planId);
+      const units = 7;
+      await screenMany(ws.slug, ws.members.planner.id, units);
 
-    const before = await usage(ws.slug, financeCookie);
-    expect(before.status).toBe(200);
-    expect(before.body).toMatchObject({ units, pendingUnits: units, sentUnits: 0, planId, status: 'active' });
-    // The estimate uses the plan catalogue: base fee + units x per-flight price (our own prices, plans.ts).
-    expect(before.body.estimatedChargeCents).toBe(PLANS[planId].baseFeeCents + units * PLANS[planId].perFlightCents);
+      const before = await usage(ws.slug, financeCookie);
+      expect(before.status).toBe(200);
+      expect(before.body).toMatchObject({ units, pendingUnits: units, sentUnits: 0, planId, status: 'active' });
+      // The estimate uses the plan catalogue: base fee + units x per-flight price (our own prices, plans.ts).
+      expect(before.body.estimatedChargeCents).toBe(PLANS[planId].baseFeeCents + units * PLANS[planId].perFlightCents);
 
-    const report = await sendPendingUsage({ workspaceId: ws.id });
-    const minutes = await ledgerMinutes(ws.id);
-    expect(report).toMatchObject({ batchedUnits: units, batchesFormed: minutes, attempted: minutes, sent: minutes, failed: 0, unitsDelivered: units });
-    const events = await meterEventsOf(billing.customerId!);
-    expect(events.map((e) => e.identifier).sort()).toEqual((await batchIdentifiers(ws.id)).sort());
-    expect(events.reduce((s, e) => s + e.value, 0)).toBe(units);
+      const report = await sendPendingUsage({ workspaceId: ws.id });
+      const minutes = await ledgerMinutes(ws.id);
+      expect(report).toMatchObject({
+        batchedUnits: units,
+        batchesFormed: minutes,
+        attempted: minutes,
+        sent: minutes,
+        failed: 0,
+        unitsDelivered: units,
+      });
+      const events = await meterEventsOf(billing.customerId!);
+      expect(events.map((e) => e.identifier).sort()).toEqual((await batchIdentifiers(ws.id)).sort());
+      expect(events.reduce((s, e) => s + e.value, 0)).toBe(units);
 
-    const after = await usage(ws.slug, financeCookie);
-    expect(after.body).toMatchObject({ units, sentUnits: units, pendingUnits: 0 });
-    expect(after.body.reconciliation).toMatchObject({ ledgerUnits: units, providerUnits: units, difference: 0 });
+      const after = await usage(ws.slug, financeCookie);
+      expect(after.body).toMatchObject({ units, sentUnits: units, pendingUnits: 0 });
+      expect(after.body.reconciliation).toMatchObject({ ledgerUnits: units, providerUnits: units, difference: 0 });
 
-    const { body } = await h.control<{ invoice: Stripe.Invoice }>('/_fake/advance', { subscription: billing.subscriptionId, wait: true });
-    // The fake computes the invoice from its own prices and the meter events it holds.
-    expect(body.invoice.amount_due).toBe(estimateChargeCents(planId, units));
-    expect(body.invoice.amount_due).toBe(before.body.estimatedChargeCents);
-    expect(body.invoice.status).toBe('paid');
+      const { body } = await h.control<{ invoice: Stripe.Invoice }>('/_fake/advance', {
+        subscription: billing.subscriptionId,
+        wait: true,
+      });
+      // The fake computes the invoice from its own prices and the meter events it holds.
+      expect(body.invoice.amount_due).toBe(estimateChargeCents(planId, units));
+      expect(body.invoice.amount_due).toBe(before.body.estimatedChargeCents);
+      expect(body.invoice.status).toBe('paid');
 
-    // The next period starts empty, at the payment service's new period start.
-    const next = await usage(ws.slug, financeCookie);
-    expect(next.body.units).toBe(0);
-    expect(Date.parse(next.body.periodStart)).toBeGreaterThan(Date.parse(before.body.periodStart));
-    expect(next.body.estimatedChargeCents).toBe(PLANS[planId].baseFeeCents);
-  });
+      // The next period starts empty, at the payment service's new period start.
+      const next = await usage(ws.slug, financeCookie);
+      expect(next.body.units).toBe(0);
+      expect(Date.parse(next.body.periodStart)).toBeGreaterThan(Date.parse(before.body.periodStart));
+      expect(next.body.estimatedChargeCents).toBe(PLANS[planId].baseFeeCents);
+    },
+  );
 
   it('a free trial is not metered: its units are never sent', async () => {
     const ws = await makeWorkspace(['planner']);
@@ -135,19 +168,30 @@ describe('delivery faults', () => {
       expect(first.batchesFormed).toBeGreaterThanOrEqual(10);
       expect(first.failed).toBeGreaterThan(0);
       expect(first.sent).toBeGreaterThan(0);
-      const retried = await db()('usage_batches').where({ workspace_id: ws.id }).whereNull('sent_at').select('send_attempts', 'next_attempt_at', 'last_error');
+      const retried = await db()('usage_batches')
+        .where({ workspace_id: ws.id })
+        .whereNull('sent_at')
+        .select('send_attempts', 'next_attempt_at', 'last_error');
       expect(retried.length).toBe(first.failed);
-      const unsentRows = await db()('usage_events').where({ workspace_id: ws.id }).whereNull('sent_at').count({ n: '*' }).first();
+      const unsentRows = await db()('usage_events')
+        .where({ workspace_id: ws.id })
+        .whereNull('sent_at')
+        .count({ n: '*' })
+        .first();
       expect(Number(unsentRows?.n)).toBe(units - first.unitsDelivered);
       // The billing page tells the finance admin how many units wait for a retry.
-      expect((await getUsageSummary({ workspaceId: ws.id }, { reconcile: false })).retryingUnits).toBe(units - first.unitsDelivered);
+      expect((await getUsageSummary({ workspaceId: ws.id }, { reconcile: false })).retryingUnits).toBe(
+        units - first.unitsDelivered,
+      );
       for (const row of retried) {
         expect(row.send_attempts).toBe(1);
         expect(Date.parse(row.next_attempt_at)).toBeGreaterThanOrEqual(before + BACKOFF_BASE_MS / 2);
         expect(row.last_error).toContain('500');
       }
       // Not due yet: a pass before the shortest backoff has run out sends nothing.
-      expect((await sendPendingUsage({ workspaceId: ws.id, asOf: new Date(before + BACKOFF_BASE_MS / 2 - 1) })).attempted).toBe(0);
+      expect(
+        (await sendPendingUsage({ workspaceId: ws.id, asOf: new Date(before + BACKOFF_BASE_MS / 2 - 1) })).attempted,
+      ).toBe(0);
       await drain(ws.id);
     } finally {
       await h.control('/_fake/faults', undefined, 'DELETE');
@@ -159,7 +203,9 @@ describe('delivery faults', () => {
     expect(events.reduce((s, e) => s + e.value, 0)).toBe(units);
     const rec = await reconcileUsage({ workspaceId: ws.id });
     expect(rec).toMatchObject({ ledgerUnits: units, providerUnits: units, difference: 0 });
-    const { body } = await h.control<{ invoice: Stripe.Invoice }>('/_fake/advance', { subscription: billing.subscriptionId });
+    const { body } = await h.control<{ invoice: Stripe.Invoice }>('/_fake/advance', {
+      subscription: billing.subscriptionId,
+    });
     expect(body.invoice.amount_due).toBe(estimateChargeCents('crew', units));
   });
 
@@ -199,16 +245,25 @@ describe('delivery faults', () => {
     }
     await drain(ws.id);
     expect((await meterEventsOf(billing.customerId!)).length).toBe(2);
-    expect(await db()('usage_events').where({ workspace_id: ws.id }).whereNull('sent_at').count({ n: '*' }).first()).toMatchObject({ n: 0 });
+    expect(
+      await db()('usage_events').where({ workspace_id: ws.id }).whereNull('sent_at').count({ n: '*' }).first(),
+    ).toMatchObject({ n: 0 });
   });
 
   it('an identifier the service already has (sent outside the idempotency window) is marked sent, not sent twice', async () => {
     const { ws, billing } = await subscribed('crew');
     await screenMany(ws.slug, ws.members.planner.id, 1);
-    expect(await formUsageBatches({ maxBatchUnits: MAX_BATCH_UNITS, maxBatches: 10, workspaceId: ws.id })).toEqual({ batches: 1, units: 1 });
+    expect(await formUsageBatches({ maxBatchUnits: MAX_BATCH_UNITS, maxBatches: 10, workspaceId: ws.id })).toEqual({
+      batches: 1,
+      units: 1,
+    });
     const [key] = await batchIdentifiers(ws.id);
     await h.sdk.billing.meterEvents.create(
-      { event_name: 'screened_flight', payload: { stripe_customer_id: billing.customerId!, value: '1' }, identifier: key },
+      {
+        event_name: 'screened_flight',
+        payload: { stripe_customer_id: billing.customerId!, value: '1' },
+        identifier: key,
+      },
       { idempotencyKey: `other-${key}` },
     );
     const r = await sendPendingUsage({ workspaceId: ws.id });

@@ -10,23 +10,50 @@ import { screen, until, useBillingHarness } from './harness';
 
 const h = useBillingHarness();
 
-type State = { planId: string; status: string; subscribed: boolean; trialEndsAt: string | null; cancelAtPeriodEnd: boolean; billingEmail: string | null; currentPeriodEnd: string | null };
+type State = {
+  planId: string;
+  status: string;
+  subscribed: boolean;
+  trialEndsAt: string | null;
+  cancelAtPeriodEnd: boolean;
+  billingEmail: string | null;
+  currentPeriodEnd: string | null;
+};
 
 async function asMember(userId: number) {
   const cookie = await sessionCookie(userId);
   return {
     subscribe: (slug: string, body: unknown) =>
-      call<State>(subscriptionRoute.POST, apiRequest('POST', `/api/v1/workspaces/${slug}/billing/subscription`, { cookie, body, origin: TEST_ORIGIN }), { slug }),
+      call<State>(
+        subscriptionRoute.POST,
+        apiRequest('POST', `/api/v1/workspaces/${slug}/billing/subscription`, { cookie, body, origin: TEST_ORIGIN }),
+        { slug },
+      ),
     update: (slug: string, body: unknown) =>
-      call<State>(subscriptionRoute.PATCH, apiRequest('PATCH', `/api/v1/workspaces/${slug}/billing/subscription`, { cookie, body, origin: TEST_ORIGIN }), { slug }),
+      call<State>(
+        subscriptionRoute.PATCH,
+        apiRequest('PATCH', `/api/v1/workspaces/${slug}/billing/subscription`, { cookie, body, origin: TEST_ORIGIN }),
+        { slug },
+      ),
     email: (slug: string, body: unknown) =>
-      call<State>(billingRoute.PATCH, apiRequest('PATCH', `/api/v1/workspaces/${slug}/billing`, { cookie, body, origin: TEST_ORIGIN }), { slug }),
-    get: (slug: string) => call<State & { invoices: unknown[] | null }>(billingRoute.GET, apiRequest('GET', `/api/v1/workspaces/${slug}/billing`, { cookie }), { slug }),
+      call<State>(
+        billingRoute.PATCH,
+        apiRequest('PATCH', `/api/v1/workspaces/${slug}/billing`, { cookie, body, origin: TEST_ORIGIN }),
+        { slug },
+      ),
+    get: (slug: string) =>
+      call<State & { invoices: unknown[] | null }>(
+        billingRoute.GET,
+        apiRequest('GET', `/api/v1/workspaces/${slug}/billing`, { cookie }),
+        { slug },
+      ),
   };
 }
 
 async function auditActions(workspaceId: number): Promise<string[]> {
-  return (await db()('audit_log').where({ workspace_id: workspaceId }).orderBy('id').select('action')).map((r: { action: string }) => r.action);
+  return (await db()('audit_log').where({ workspace_id: workspaceId }).orderBy('id').select('action')).map(
+    (r: { action: string }) => r.action,
+  );
 }
 
 async function fakeSubscription(workspaceId: number) {
@@ -50,7 +77,9 @@ describe('trial', () => {
 describe('subscribe', () => {
   it('after the trial ended: screening refused (402) -> subscribe -> active at the payment service -> screening accepted', async () => {
     const ws = await makeWorkspace(['billing']);
-    await db()('workspace_billing').where({ workspace_id: ws.id }).update({ trial_ends_at: new Date(Date.now() - 86_400_000).toISOString() });
+    await db()('workspace_billing')
+      .where({ workspace_id: ws.id })
+      .update({ trial_ends_at: new Date(Date.now() - 86_400_000).toISOString() });
     const blocked = await screen(ws.slug, ws.owner.id);
     expect(blocked.status).toBe(402);
     expect(blocked.body.error?.message).toContain('trial');
@@ -62,13 +91,18 @@ describe('subscribe', () => {
 
     const sub = await fakeSubscription(ws.id);
     expect(sub.status).toBe('active');
-    expect(sub.items.data.map((i) => i.price.lookup_key).sort()).toEqual([PLANS.crew.baseLookupKey, PLANS.crew.meteredLookupKey].sort());
+    expect(sub.items.data.map((i) => i.price.lookup_key).sort()).toEqual(
+      [PLANS.crew.baseLookupKey, PLANS.crew.meteredLookupKey].sort(),
+    );
     const customer = await h.sdk.customers.retrieve(sub.customer as string);
     expect(customer).toMatchObject({ metadata: { workspace: ws.slug } });
 
     expect((await screen(ws.slug, ws.owner.id)).status).toBe(201);
     // The webhook for the new subscription arrives and finds nothing left to change.
-    await until(async () => h.deliveries.some((d) => d.type === 'customer.subscription.created' && d.status === 200), 'subscription.created webhook');
+    await until(
+      async () => h.deliveries.some((d) => d.type === 'customer.subscription.created' && d.status === 200),
+      'subscription.created webhook',
+    );
     expect((await getBilling({ workspaceId: ws.id }))?.status).toBe('active');
     expect(await auditActions(ws.id)).toContain('billing.subscribed');
     // A second subscribe is refused, not a second subscription.
@@ -105,14 +139,18 @@ describe('change plan, cancel and resume', () => {
   it('moves both prices to the other plan at the payment service, records it and audits it', async () => {
     const ws = await makeWorkspace(['billing']);
     const finance = await asMember(ws.members.billing.id);
-    await db()('workspace_billing').where({ workspace_id: ws.id }).update({ trial_ends_at: new Date(Date.now() - 1000).toISOString() });
+    await db()('workspace_billing')
+      .where({ workspace_id: ws.id })
+      .update({ trial_ends_at: new Date(Date.now() - 1000).toISOString() });
     expect((await finance.subscribe(ws.slug, { planId: 'crew', card: 'succeeds' })).status).toBe(201);
 
     const r = await finance.update(ws.slug, { planId: 'fleet' });
     expect(r.status).toBe(200);
     expect(r.body.planId).toBe('fleet');
     const sub = await fakeSubscription(ws.id);
-    expect(sub.items.data.map((i) => i.price.lookup_key).sort()).toEqual([PLANS.fleet.baseLookupKey, PLANS.fleet.meteredLookupKey].sort());
+    expect(sub.items.data.map((i) => i.price.lookup_key).sort()).toEqual(
+      [PLANS.fleet.baseLookupKey, PLANS.fleet.meteredLookupKey].sort(),
+    );
     expect(await auditActions(ws.id)).toContain('billing.plan_changed');
 
     const cancel = await finance.update(ws.slug, { cancelAtPeriodEnd: true });
@@ -132,7 +170,9 @@ describe('change plan, cancel and resume', () => {
   it('cancelling at period end then closing the period: canceled, and new screenings get 402', async () => {
     const ws = await makeWorkspace();
     const owner = await asMember(ws.owner.id);
-    await db()('workspace_billing').where({ workspace_id: ws.id }).update({ trial_ends_at: new Date(Date.now() - 1000).toISOString() });
+    await db()('workspace_billing')
+      .where({ workspace_id: ws.id })
+      .update({ trial_ends_at: new Date(Date.now() - 1000).toISOString() });
     await owner.subscribe(ws.slug, { planId: 'crew', card: 'succeeds' });
     await owner.update(ws.slug, { cancelAtPeriodEnd: true });
     const sub = await fakeSubscription(ws.id);
@@ -154,7 +194,9 @@ describe('billing e-mail', () => {
     expect(r.status).toBe(200);
     expect(r.body.billingEmail).toBe('accounts@operator.example');
     const b = await getBilling({ workspaceId: ws.id });
-    expect((await h.sdk.customers.retrieve(b!.customerId!)) as { email: string | null }).toMatchObject({ email: 'accounts@operator.example' });
+    expect((await h.sdk.customers.retrieve(b!.customerId!)) as { email: string | null }).toMatchObject({
+      email: 'accounts@operator.example',
+    });
     const bad = await finance.email(ws.slug, { billingEmail: 'not an address' });
     expect(bad.status).toBe(422);
     expect(bad.body.error?.fields?.[0]?.path).toBe('billingEmail');
@@ -165,7 +207,9 @@ describe('billing e-mail', () => {
 describe('provisioning at start-up', () => {
   it('a row marked subscribed without payment-service objects gets a customer and an active subscription, once', async () => {
     const ws = await makeWorkspace();
-    await db()('workspace_billing').where({ workspace_id: ws.id }).update({ status: 'active', plan_id: 'fleet', trial_ends_at: null, billing_email: 'finance@operator.example' });
+    await db()('workspace_billing')
+      .where({ workspace_id: ws.id })
+      .update({ status: 'active', plan_id: 'fleet', trial_ends_at: null, billing_email: 'finance@operator.example' });
     await provisionBilling();
     await provisionBilling();
     const b = await getBilling({ workspaceId: ws.id });
@@ -177,7 +221,9 @@ describe('provisioning at start-up', () => {
     const subs = await h.sdk.subscriptions.list({ customer: customers[0].id });
     expect(subs.data).toHaveLength(1);
     expect(subs.data[0].status).toBe('active');
-    expect(subs.data[0].items.data.map((i) => i.price.lookup_key).sort()).toEqual([PLANS.fleet.baseLookupKey, PLANS.fleet.meteredLookupKey].sort());
+    expect(subs.data[0].items.data.map((i) => i.price.lookup_key).sort()).toEqual(
+      [PLANS.fleet.baseLookupKey, PLANS.fleet.meteredLookupKey].sort(),
+    );
     // Started a month back, so one invoice (the month's base fee) is issued and paid at once: the
     // billing page has an invoice and its PDF to show from the first start.
     const invoices = await h.sdk.invoices.list({ customer: customers[0].id });

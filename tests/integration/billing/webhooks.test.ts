@@ -15,9 +15,19 @@ const h = useBillingHarness();
 
 async function subscribedWith(card: 'succeeds' | 'declined') {
   const ws = await makeWorkspace(['billing', 'planner']);
-  await db()('workspace_billing').where({ workspace_id: ws.id }).update({ trial_ends_at: new Date(Date.now() - 1000).toISOString(), billing_email: 'accounts@operator.example' });
+  await db()('workspace_billing')
+    .where({ workspace_id: ws.id })
+    .update({ trial_ends_at: new Date(Date.now() - 1000).toISOString(), billing_email: 'accounts@operator.example' });
   const cookie = await sessionCookie(ws.members.billing.id);
-  const r = await call(subscriptionRoute.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/billing/subscription`, { cookie, body: { planId: 'crew', card }, origin: TEST_ORIGIN }), { slug: ws.slug });
+  const r = await call(
+    subscriptionRoute.POST,
+    apiRequest('POST', `/api/v1/workspaces/${ws.slug}/billing/subscription`, {
+      cookie,
+      body: { planId: 'crew', card },
+      origin: TEST_ORIGIN,
+    }),
+    { slug: ws.slug },
+  );
   expect(r.status).toBe(201);
   await h.fake.webhooksIdle();
   return { ws, cookie, billing: (await getBilling({ workspaceId: ws.id }))! };
@@ -26,14 +36,28 @@ async function subscribedWith(card: 'succeeds' | 'declined') {
 async function counts(workspaceId: number) {
   const [events, audit] = await Promise.all([
     db()('webhook_events').count({ n: '*' }).first(),
-    db()('audit_log').where({ workspace_id: workspaceId }).where('action', 'like', 'billing.%').count({ n: '*' }).first(),
+    db()('audit_log')
+      .where({ workspace_id: workspaceId })
+      .where('action', 'like', 'billing.%')
+      .count({ n: '*' })
+      .first(),
   ]);
   return { events: Number(events?.n), audit: Number(audit?.n) };
 }
 
 /** An event about this subscription as the payment service would send it. */
 function eventFor(type: string, object: unknown, id = `evt_test_${Math.random().toString(36).slice(2, 12)}`) {
-  return JSON.stringify({ id, object: 'event', api_version: Stripe.API_VERSION, created: Math.floor(Date.now() / 1000), livemode: false, pending_webhooks: 1, request: { id: null, idempotency_key: null }, type, data: { object } });
+  return JSON.stringify({
+    id,
+    object: 'event',
+    api_version: Stripe.API_VERSION,
+    created: Math.floor(Date.now() / 1000),
+    livemode: false,
+    pending_webhooks: 1,
+    request: { id: null, idempotency_key: null },
+    type,
+    data: { object },
+  });
 }
 
 describe('signature', () => {
@@ -47,11 +71,17 @@ describe('signature', () => {
     expect(forged.status).toBe(400);
     const tampered = signedWebhook(payload);
     const tamperedBody = payload.replace('"past_due"', '"canceled"');
-    const tamperedReq = apiRequest('POST', '/api/webhooks/stripe', { rawBody: tamperedBody, headers: { 'stripe-signature': tampered.headers.get('stripe-signature')! } });
+    const tamperedReq = apiRequest('POST', '/api/webhooks/stripe', {
+      rawBody: tamperedBody,
+      headers: { 'stripe-signature': tampered.headers.get('stripe-signature')! },
+    });
     expect((await call(webhookRoute.POST, tamperedReq)).status).toBe(400);
     const unsigned = await call(webhookRoute.POST, apiRequest('POST', '/api/webhooks/stripe', { rawBody: payload }));
     expect(unsigned.status).toBe(400);
-    const garbage = await call(webhookRoute.POST, apiRequest('POST', '/api/webhooks/stripe', { rawBody: payload, headers: { 'stripe-signature': 't=1,v1=00' } }));
+    const garbage = await call(
+      webhookRoute.POST,
+      apiRequest('POST', '/api/webhooks/stripe', { rawBody: payload, headers: { 'stripe-signature': 't=1,v1=00' } }),
+    );
     expect(garbage.status).toBe(400);
 
     expect(await counts(ws.id)).toEqual(before);
@@ -63,20 +93,35 @@ describe('replays', () => {
   it('the same event delivered 5 times changes the state once: one webhook_events row, one audit row', async () => {
     const { ws, billing } = await subscribedWith('succeeds');
     const sub = await h.sdk.subscriptions.retrieve(billing.subscriptionId!);
-    const payload = eventFor('customer.subscription.updated', { ...sub, status: 'past_due' }, 'evt_test_replayed_five_times');
+    const payload = eventFor(
+      'customer.subscription.updated',
+      { ...sub, status: 'past_due' },
+      'evt_test_replayed_five_times',
+    );
     const before = await counts(ws.id);
     const results = [];
     for (let i = 0; i < 5; i++) results.push(await call<{ result: string }>(webhookRoute.POST, signedWebhook(payload)));
     expect(results.map((r) => r.status)).toEqual([200, 200, 200, 200, 200]);
-    expect(results.map((r) => r.body.result)).toEqual(['processed', 'duplicate', 'duplicate', 'duplicate', 'duplicate']);
+    expect(results.map((r) => r.body.result)).toEqual([
+      'processed',
+      'duplicate',
+      'duplicate',
+      'duplicate',
+      'duplicate',
+    ]);
     expect(await counts(ws.id)).toEqual({ events: before.events + 1, audit: before.audit + 1 });
     expect((await getBilling({ workspaceId: ws.id }))?.status).toBe('past_due');
-    expect(await db()('webhook_events').where({ id: 'evt_test_replayed_five_times' }).count({ n: '*' }).first()).toMatchObject({ n: 1 });
+    expect(
+      await db()('webhook_events').where({ id: 'evt_test_replayed_five_times' }).count({ n: '*' }).first(),
+    ).toMatchObject({ n: 1 });
   });
 
   it('a real event resent by the payment service is recognised as the same event', async () => {
     const { ws } = await subscribedWith('succeeds');
-    const created = h.fake.state().events.filter((e) => e.type === 'customer.subscription.created').at(-1)!;
+    const created = h.fake
+      .state()
+      .events.filter((e) => e.type === 'customer.subscription.created')
+      .at(-1)!;
     const before = await counts(ws.id);
     const resent = await h.fake.resendWebhook(created.id);
     expect(resent).toMatchObject({ delivered: true, status: 200 });
@@ -84,7 +129,20 @@ describe('replays', () => {
   });
 
   it('an event for a customer we do not know is acknowledged and ignored', async () => {
-    const r = await call<{ result: string }>(webhookRoute.POST, signedWebhook(eventFor('invoice.paid', { id: 'in_nobody', object: 'invoice', customer: 'cus_nobody', amount_paid: 100, amount_due: 100, number: null, parent: null })));
+    const r = await call<{ result: string }>(
+      webhookRoute.POST,
+      signedWebhook(
+        eventFor('invoice.paid', {
+          id: 'in_nobody',
+          object: 'invoice',
+          customer: 'cus_nobody',
+          amount_paid: 100,
+          amount_due: 100,
+          number: null,
+          parent: null,
+        }),
+      ),
+    );
     expect(r.status).toBe(200);
     expect(r.body.result).toBe('ignored');
   });
@@ -96,11 +154,14 @@ describe('a declined card', () => {
     for (let i = 0; i < 3; i++) expect((await screen(ws.slug, ws.members.planner.id)).status).toBe(201);
     await sendPendingUsage({ workspaceId: ws.id });
 
-    const { body } = await h.control<{ invoice: Stripe.Invoice; subscription: Stripe.Subscription }>('/_fake/advance', { subscription: billing.subscriptionId, wait: true });
+    const { body } = await h.control<{ invoice: Stripe.Invoice; subscription: Stripe.Subscription }>('/_fake/advance', {
+      subscription: billing.subscriptionId,
+      wait: true,
+    });
     expect(body.invoice.status).toBe('open');
     expect(body.invoice.amount_due).toBe(estimateChargeCents('crew', 3));
     expect(body.subscription.status).toBe('past_due');
-    expect((await getBilling({ workspaceId: ws.id }))).toMatchObject({ status: 'past_due' });
+    expect(await getBilling({ workspaceId: ws.id })).toMatchObject({ status: 'past_due' });
     expect(h.deliveries.filter((d) => d.type === 'invoice.payment_failed').every((d) => d.status === 200)).toBe(true);
 
     const refused = await screen(ws.slug, ws.members.planner.id);
@@ -109,18 +170,37 @@ describe('a declined card', () => {
 
     // The billing contacts hear about it: the billing e-mail, the finance admin and the owner.
     for (const to of ['accounts@operator.example', ws.members.billing.email, ws.owner.email]) {
-      const mail = await until(async () => h.mailsTo(to).find((m) => m.subject.startsWith('Payment failed')), `payment-failed mail to ${to}`);
+      const mail = await until(
+        async () => h.mailsTo(to).find((m) => m.subject.startsWith('Payment failed')),
+        `payment-failed mail to ${to}`,
+      );
       expect(mail.text).toContain('Pay the open invoice');
       expect(mail.text).toContain(`/w/${ws.slug}/settings/billing`);
     }
     expect(h.mailsTo(ws.members.planner.email)).toEqual([]);
 
-    const stillDeclined = await call(payRoute.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/billing/invoices/pay`, { cookie, origin: TEST_ORIGIN }), { slug: ws.slug });
+    const stillDeclined = await call(
+      payRoute.POST,
+      apiRequest('POST', `/api/v1/workspaces/${ws.slug}/billing/invoices/pay`, { cookie, origin: TEST_ORIGIN }),
+      { slug: ws.slug },
+    );
     expect(stillDeclined.status).toBe(402);
 
-    const card = await call(paymentMethodRoute.PUT, apiRequest('PUT', `/api/v1/workspaces/${ws.slug}/billing/payment-method`, { cookie, body: { card: 'succeeds' }, origin: TEST_ORIGIN }), { slug: ws.slug });
+    const card = await call(
+      paymentMethodRoute.PUT,
+      apiRequest('PUT', `/api/v1/workspaces/${ws.slug}/billing/payment-method`, {
+        cookie,
+        body: { card: 'succeeds' },
+        origin: TEST_ORIGIN,
+      }),
+      { slug: ws.slug },
+    );
     expect(card.status).toBe(200);
-    const paid = await call<{ paid: number; billing: { status: string } }>(payRoute.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/billing/invoices/pay`, { cookie, origin: TEST_ORIGIN }), { slug: ws.slug });
+    const paid = await call<{ paid: number; billing: { status: string } }>(
+      payRoute.POST,
+      apiRequest('POST', `/api/v1/workspaces/${ws.slug}/billing/invoices/pay`, { cookie, origin: TEST_ORIGIN }),
+      { slug: ws.slug },
+    );
     expect(paid.status).toBe(200);
     expect(paid.body).toMatchObject({ paid: 1, billing: { status: 'active' } });
     await h.fake.webhooksIdle();
@@ -129,8 +209,12 @@ describe('a declined card', () => {
     expect(invoice.status).toBe('paid');
 
     expect((await screen(ws.slug, ws.members.planner.id)).status).toBe(201);
-    const actions = (await db()('audit_log').where({ workspace_id: ws.id }).orderBy('id').select('action')).map((r: { action: string }) => r.action);
-    expect(actions).toEqual(expect.arrayContaining(['billing.payment_failed', 'billing.payment_method_changed', 'billing.invoice_paid']));
+    const actions = (await db()('audit_log').where({ workspace_id: ws.id }).orderBy('id').select('action')).map(
+      (r: { action: string }) => r.action,
+    );
+    expect(actions).toEqual(
+      expect.arrayContaining(['billing.payment_failed', 'billing.payment_method_changed', 'billing.invoice_paid']),
+    );
   });
 
   it('the subscription ending at the payment service cancels the workspace: 402 on new screenings', async () => {
@@ -141,4 +225,3 @@ describe('a declined card', () => {
     expect((await screen(ws.slug, ws.members.planner.id)).status).toBe(402);
   });
 });
-

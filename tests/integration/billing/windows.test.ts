@@ -40,12 +40,32 @@ describe('subscription status -> workspace status', () => {
 
 describe('usage period', () => {
   const base: BillingDto = {
-    workspaceId: 1, planId: 'crew', status: 'trialing', trialEndsAt: null, customerId: null, subscriptionId: null, currentPeriodStart: null,
-    currentPeriodEnd: null, cancelAtPeriodEnd: false, billingEmail: null, paymentMethodLabel: null, meteredSince: null, paymentFailedAt: null,
-    reconciliation: null, usageBudgetCents: null, budgetHardStop: false, updatedAt: '2026-12-01T00:00:00.000Z',
+    workspaceId: 1,
+    planId: 'crew',
+    status: 'trialing',
+    trialEndsAt: null,
+    customerId: null,
+    subscriptionId: null,
+    currentPeriodStart: null,
+    currentPeriodEnd: null,
+    cancelAtPeriodEnd: false,
+    billingEmail: null,
+    paymentMethodLabel: null,
+    meteredSince: null,
+    paymentFailedAt: null,
+    reconciliation: null,
+    usageBudgetCents: null,
+    budgetHardStop: false,
+    updatedAt: '2026-12-01T00:00:00.000Z',
   };
   it('is the subscription period when there is one', () => {
-    expect(usagePeriod({ ...base, currentPeriodStart: '2026-11-03T08:00:00.000Z', currentPeriodEnd: '2026-12-03T08:00:00.000Z' })).toEqual({
+    expect(
+      usagePeriod({
+        ...base,
+        currentPeriodStart: '2026-11-03T08:00:00.000Z',
+        currentPeriodEnd: '2026-12-03T08:00:00.000Z',
+      }),
+    ).toEqual({
       start: '2026-11-03T08:00:00.000Z',
       end: '2026-12-03T08:00:00.000Z',
     });

@@ -25,17 +25,99 @@ beforeAll(async () => {
   const t3 = await insertType(ws.id, 'XX-9', null);
   const defs: (FlightFixture & { name: string })[] = [
     // Type default fleet A.
-    { name: 'a1', date: '2026-09-03', flight: 'TP1', typeId: t1, code: 'LR-1', distanceKm: 8000, fuelKg: 60000, noxKg: 900, noxAboveKg: 450, cruiseFl: 370, maxFl: 390 },
-    { name: 'a2', date: '2026-10-12', flight: 'TP2', origin: 'EKCH', destination: 'RJTT', typeId: t1, code: 'LR-1', distanceKm: 2000, fuelKg: 15000, noxKg: 100, noxAboveKg: 10, cruiseFl: 350 },
+    {
+      name: 'a1',
+      date: '2026-09-03',
+      flight: 'TP1',
+      typeId: t1,
+      code: 'LR-1',
+      distanceKm: 8000,
+      fuelKg: 60000,
+      noxKg: 900,
+      noxAboveKg: 450,
+      cruiseFl: 370,
+      maxFl: 390,
+    },
+    {
+      name: 'a2',
+      date: '2026-10-12',
+      flight: 'TP2',
+      origin: 'EKCH',
+      destination: 'RJTT',
+      typeId: t1,
+      code: 'LR-1',
+      distanceKm: 2000,
+      fuelKg: 15000,
+      noxKg: 100,
+      noxAboveKg: 10,
+      cruiseFl: 350,
+    },
     // Type default A, but the schedule's fleet column says B: B wins.
-    { name: 'ab', date: '2026-10-20', flight: 'TP3', typeId: t1, code: 'LR-1', fleetId: fleetB, distanceKm: 5000, fuelKg: 40000, noxKg: 500, noxAboveKg: 100, cruiseFl: 410 },
+    {
+      name: 'ab',
+      date: '2026-10-20',
+      flight: 'TP3',
+      typeId: t1,
+      code: 'LR-1',
+      fleetId: fleetB,
+      distanceKm: 5000,
+      fuelKg: 40000,
+      noxKg: 500,
+      noxAboveKg: 100,
+      cruiseFl: 410,
+    },
     // Type default fleet B.
-    { name: 'b1', date: '2026-11-02', flight: 'TP4', origin: 'KJFK', destination: 'EGLL', typeId: t2, code: 'LR-2', distanceKm: 5500, fuelKg: 50000, noxKg: 700, noxAboveKg: 0, cruiseFl: 330 },
+    {
+      name: 'b1',
+      date: '2026-11-02',
+      flight: 'TP4',
+      origin: 'KJFK',
+      destination: 'EGLL',
+      typeId: t2,
+      code: 'LR-2',
+      distanceKm: 5500,
+      fuelKg: 50000,
+      noxKg: 700,
+      noxAboveKg: 0,
+      cruiseFl: 330,
+    },
     // No fleet at all.
-    { name: 'n1', date: '2026-11-05', flight: 'TP5', typeId: t3, code: 'XX-9', distanceKm: 1000, fuelKg: 5000, noxKg: 60, noxAboveKg: 30, cruiseFl: 430 },
+    {
+      name: 'n1',
+      date: '2026-11-05',
+      flight: 'TP5',
+      typeId: t3,
+      code: 'XX-9',
+      distanceKm: 1000,
+      fuelKg: 5000,
+      noxKg: 60,
+      noxAboveKg: 30,
+      cruiseFl: 430,
+    },
     // Not screened yet / outside the period: never counted.
-    { name: 'pending', date: '2026-10-01', flight: 'TP6', typeId: t1, code: 'LR-1', distanceKm: 1, fuelKg: 1, noxKg: 1, noxAboveKg: 1, status: 'pending' },
-    { name: 'old', date: '2026-05-01', flight: 'TP7', typeId: t1, code: 'LR-1', distanceKm: 1, fuelKg: 1, noxKg: 1, noxAboveKg: 1 },
+    {
+      name: 'pending',
+      date: '2026-10-01',
+      flight: 'TP6',
+      typeId: t1,
+      code: 'LR-1',
+      distanceKm: 1,
+      fuelKg: 1,
+      noxKg: 1,
+      noxAboveKg: 1,
+      status: 'pending',
+    },
+    {
+      name: 'old',
+      date: '2026-05-01',
+      flight: 'TP7',
+      typeId: t1,
+      code: 'LR-1',
+      distanceKm: 1,
+      fuelKg: 1,
+      noxKg: 1,
+      noxAboveKg: 1,
+    },
   ];
   ids = {};
   flights = [];
@@ -50,11 +132,16 @@ const PERIOD = { from: '2026-09-01', to: '2026-11-20' };
 
 async function compare(query: Record<string, string>, user = cookie) {
   const qs = new URLSearchParams({ ...PERIOD, ...query }).toString();
-  return call<FleetComparison>(compareRoute.GET, apiRequest('GET', `/api/v1/workspaces/${ws.slug}/fleets/compare?${qs}`, { cookie: user }), { slug: ws.slug });
+  return call<FleetComparison>(
+    compareRoute.GET,
+    apiRequest('GET', `/api/v1/workspaces/${ws.slug}/fleets/compare?${qs}`, { cookie: user }),
+    { slug: ws.slug },
+  );
 }
 
 const counted = () => flights.filter((f) => f.status !== 'pending' && f.date >= PERIOD.from && f.date <= PERIOD.to);
-const sum = (list: FlightFixture[], k: 'distanceKm' | 'fuelKg' | 'noxKg' | 'noxAboveKg') => list.reduce((s, f) => s + f[k], 0);
+const sum = (list: FlightFixture[], k: 'distanceKm' | 'fuelKg' | 'noxKg' | 'noxAboveKg') =>
+  list.reduce((s, f) => s + f[k], 0);
 
 describe('fleet resolution', () => {
   it("a flight's own fleet (CSV fleet column) overrides its type's default; no fleet stays unassigned", async () => {
@@ -65,11 +152,21 @@ describe('fleet resolution', () => {
     expect(resolved.get(ids.n1)).toBeNull();
   });
 
-  it("a fleet of another workspace named on a flight does not count", async () => {
+  it('a fleet of another workspace named on a flight does not count', async () => {
     const other = await makeWorkspace();
     const foreign = await insertFleet(other.id, 'Foreign');
     const t = await insertType(ws.id, 'ZZ-1', fleetA);
-    const id = await insertFlight(ws.id, { date: '2026-06-01', flight: 'FX', typeId: t, code: 'ZZ-1', fleetId: foreign, distanceKm: 1, fuelKg: 1, noxKg: 1, noxAboveKg: 0 });
+    const id = await insertFlight(ws.id, {
+      date: '2026-06-01',
+      flight: 'FX',
+      typeId: t,
+      code: 'ZZ-1',
+      fleetId: foreign,
+      distanceKm: 1,
+      fuelKg: 1,
+      noxKg: 1,
+      noxAboveKg: 0,
+    });
     expect((await resolveFlightFleets({ workspaceId: ws.id }, [id])).get(id)).toBeNull();
   });
 });
@@ -110,7 +207,10 @@ describe('GET /fleets/compare', () => {
     expect(r.body.totals.shareAbove).toBeCloseTo(share, 12);
     const meanOfShares = r.body.rows.reduce((s, row) => s + (row.shareAbove ?? 0), 0) / r.body.rows.length;
     expect(Math.abs(meanOfShares - share)).toBeGreaterThan(0.01);
-    expect(r.body.totals.noxAbovePer1000KmKg).toBeCloseTo((sum(list, 'noxAboveKg') / sum(list, 'distanceKm')) * 1000, 9);
+    expect(r.body.totals.noxAbovePer1000KmKg).toBeCloseTo(
+      (sum(list, 'noxAboveKg') / sum(list, 'distanceKm')) * 1000,
+      9,
+    );
     expect(r.body.totals.ozone.lowKg).toBeLessThanOrEqual(r.body.totals.ozone.centralKg);
     expect(r.body.totals.ozone.highKg).toBeGreaterThanOrEqual(r.body.totals.ozone.centralKg);
   });
@@ -122,7 +222,9 @@ describe('GET /fleets/compare', () => {
     const aOct = byMonth.body.rows.find((r) => r.fleetId === fleetA && r.month === '2026-10');
     expect(aOct?.flights).toBe(1);
     const byType = await compare({ groupBy: 'aircraft' });
-    expect(new Set(byType.body.rows.map((r) => `${r.fleetName}/${r.aircraftCode}`))).toEqual(new Set(['Long-haul A/LR-1', 'Long-haul B/LR-1', 'Long-haul B/LR-2', 'No fleet/XX-9']));
+    expect(new Set(byType.body.rows.map((r) => `${r.fleetName}/${r.aircraftCode}`))).toEqual(
+      new Set(['Long-haul A/LR-1', 'Long-haul B/LR-1', 'Long-haul B/LR-2', 'No fleet/XX-9']),
+    );
     expect(byType.body.rows.reduce((s, r) => s + r.fuelKg, 0)).toBeCloseTo(byType.body.totals.fuelKg, 6);
   });
 
@@ -188,7 +290,13 @@ describe('GET /fleets/compare', () => {
     const url = `/api/v1/workspaces/${ws.slug}/fleets/compare`;
     expect((await call(compareRoute.GET, apiRequest('GET', url), { slug: ws.slug })).status).toBe(401);
     const other = await makeWorkspace();
-    expect((await call(compareRoute.GET, apiRequest('GET', url, { cookie: await sessionCookie(other.owner.id) }), { slug: ws.slug })).status).toBe(404);
+    expect(
+      (
+        await call(compareRoute.GET, apiRequest('GET', url, { cookie: await sessionCookie(other.owner.id) }), {
+          slug: ws.slug,
+        })
+      ).status,
+    ).toBe(404);
     expect((await compare({}, await sessionCookie(ws.members.billing.id))).status).toBe(403);
     expect((await compare({}, await sessionCookie(ws.members.viewer.id))).status).toBe(200);
   });
@@ -200,7 +308,17 @@ describe('fleet-scale context at supersonic altitudes', () => {
     const fleet = await insertFleet(sst.id, 'Supersonic');
     const t = await insertType(sst.id, 'SST', fleet);
     // FL580 = 17 678 m ISA pressure altitude, about 17.73 km geometric: inside 17-20 km only.
-    await insertFlight(sst.id, { date: '2026-01-10', flight: 'SS1', typeId: t, code: 'SST', cruiseFl: 580, distanceKm: 6000, fuelKg: 70000, noxKg: 800, noxAboveKg: 800 });
+    await insertFlight(sst.id, {
+      date: '2026-01-10',
+      flight: 'SS1',
+      typeId: t,
+      code: 'SST',
+      cruiseFl: 580,
+      distanceKm: 6000,
+      fuelKg: 70000,
+      noxKg: 800,
+      noxAboveKg: 800,
+    });
     const r = await compareFleets({ workspaceId: sst.id }, { from: '2026-01-01', to: '2026-01-31', groupBy: 'fleet' });
     const c = r.context.fleets[0];
     const annual = (800 * 365.25) / 31;

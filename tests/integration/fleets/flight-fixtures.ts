@@ -3,13 +3,26 @@ import { db } from '@/db/client';
 const NOW = '2026-11-01T00:00:00.000Z';
 
 export async function insertFleet(workspaceId: number, name: string): Promise<number> {
-  const [id] = await db()('fleets').insert({ workspace_id: workspaceId, name, description: '', created_at: NOW }).returning('id');
+  const [id] = await db()('fleets')
+    .insert({ workspace_id: workspaceId, name, description: '', created_at: NOW })
+    .returning('id');
   return typeof id === 'object' ? Number(id.id) : Number(id);
 }
 
 export async function insertType(workspaceId: number, code: string, defaultFleetId: number | null): Promise<number> {
   const [id] = await db()('aircraft_types')
-    .insert({ workspace_id: workspaceId, code, name: code, engine_count: 2, typical_mach: 0.84, typical_flight_level: 370, direct_ei_g_kg: 14, default_fleet_id: defaultFleetId, created_at: NOW, updated_at: NOW })
+    .insert({
+      workspace_id: workspaceId,
+      code,
+      name: code,
+      engine_count: 2,
+      typical_mach: 0.84,
+      typical_flight_level: 370,
+      direct_ei_g_kg: 14,
+      default_fleet_id: defaultFleetId,
+      created_at: NOW,
+      updated_at: NOW,
+    })
     .returning('id');
   return typeof id === 'object' ? Number(id.id) : Number(id);
 }

@@ -12,12 +12,25 @@ useTestDatabase();
 async function upload(rows: number, prefix: string): Promise<number> {
   const ws = await makeWorkspace(['analyst']);
   await addScheduleLibrary(ws.id);
-  const r = await call<ImportDto>(importsRoute.POST, uploadRequest(ws.slug, csv(HEADER, ...goodRows(rows, prefix)), { cookie: await sessionCookie(ws.members.analyst.id) }), { slug: ws.slug });
+  const r = await call<ImportDto>(
+    importsRoute.POST,
+    uploadRequest(ws.slug, csv(HEADER, ...goodRows(rows, prefix)), {
+      cookie: await sessionCookie(ws.members.analyst.id),
+    }),
+    { slug: ws.slug },
+  );
   expect(r.status).toBe(202);
   return r.body.id;
 }
 
-const pendingOf = async (importId: number) => Number(((await db()('flights').where({ import_id: importId, status: 'pending' }).count({ n: '*' }).first()) as { n: number | string }).n);
+const pendingOf = async (importId: number) =>
+  Number(
+    (
+      (await db()('flights').where({ import_id: importId, status: 'pending' }).count({ n: '*' }).first()) as {
+        n: number | string;
+      }
+    ).n,
+  );
 
 describe.runIf(onPostgres())('one worker process per import (PostgreSQL advisory lock)', () => {
   it('an import another process is screening is left alone, and taken over once that process lets go', async () => {

@@ -16,7 +16,13 @@ afterAll(() => closeScreeningPool());
 async function upload(rows: number, prefix: string): Promise<{ workspaceId: number; importId: number }> {
   const ws = await makeWorkspace(['analyst']);
   await addScheduleLibrary(ws.id);
-  const r = await call<ImportDto>(importsRoute.POST, uploadRequest(ws.slug, csv(HEADER, ...goodRows(rows, prefix)), { cookie: await sessionCookie(ws.members.analyst.id) }), { slug: ws.slug });
+  const r = await call<ImportDto>(
+    importsRoute.POST,
+    uploadRequest(ws.slug, csv(HEADER, ...goodRows(rows, prefix)), {
+      cookie: await sessionCookie(ws.members.analyst.id),
+    }),
+    { slug: ws.slug },
+  );
   expect(r.status).toBe(202);
   return { workspaceId: ws.id, importId: r.body.id };
 }
@@ -29,46 +35,72 @@ async function importUtilisation(): Promise<number> {
 }
 
 describe('screening in worker threads', () => {
-  it('gives each flight the figures the engine gives on the event loop, one unit each, and leaves the event loop mostly idle', { timeout: 180_000 }, async () => {
-    expect(screeningThreads()).toBe(2);
-    // Start the threads (they compile the engine once) before measuring.
-    await upload(50, 'W');
-    await runImportsToCompletion();
+  it(
+    'gives each flight the figures the engine gives on the event loop, one unit each, and leaves the event loop mostly idle',
+    { timeout: 180_000 },
+    async () => {
+      expect(screeningThreads()).toBe(2);
+      // Start the threads (they compile the engine once) before measuring.
+      await upload(50, 'W');
+      await runImportsToCompletion();
 
-    const threaded = await upload(3000, 'T');
-    const threadedUtil = await importUtilisation();
-    const rows = (await db()('flights').where({ import_id: threaded.importId }).orderBy('id').select('id', 'status', 'input_json', 'distance_km', 'nox_total_kg', 'nox_above_kg', 'fraction_above', 'mean_depth_above_km', 'ozone_central_kg', 'ozone_low_kg', 'ozone_high_kg', 'engine_version')) as Record<string, unknown>[];
-    expect(rows.length).toBe(3000);
-    expect(rows.every((r) => r.status === 'screened')).toBe(true);
-    for (const r of rows.filter((_, i) => i % 30 === 0)) {
-      const f = figuresOf(screenTotals(JSON.parse(String(r.input_json)) as ScreeningInput));
-      expect({
-        distanceKm: Number(r.distance_km),
-        noxTotalKg: Number(r.nox_total_kg),
-        noxAboveTropopauseKg: Number(r.nox_above_kg),
-        fractionAboveTropopause: Number(r.fraction_above),
-        meanDepthAboveTropopauseKm: Number(r.mean_depth_above_km),
-        ozoneCentralKg: Number(r.ozone_central_kg),
-        ozoneLowKg: Number(r.ozone_low_kg),
-        ozoneHighKg: Number(r.ozone_high_kg),
-        engineVersion: String(r.engine_version),
-      }).toEqual(f);
-    }
-    const units = (await db()('usage_events').where({ workspace_id: threaded.workspaceId, kind: 'imported_flight' }).count({ n: '*' }).countDistinct({ d: 'source_id' }).first()) as { n: number | string; d: number | string };
-    expect([Number(units.n), Number(units.d)]).toEqual([3000, 3000]);
+      const threaded = await upload(3000, 'T');
+      const threadedUtil = await importUtilisation();
+      const rows = (await db()('flights')
+        .where({ import_id: threaded.importId })
+        .orderBy('id')
+        .select(
+          'id',
+          'status',
+          'input_json',
+          'distance_km',
+          'nox_total_kg',
+          'nox_above_kg',
+          'fraction_above',
+          'mean_depth_above_km',
+          'ozone_central_kg',
+          'ozone_low_kg',
+          'ozone_high_kg',
+          'engine_version',
+        )) as Record<string, unknown>[];
+      expect(rows.length).toBe(3000);
+      expect(rows.every((r) => r.status === 'screened')).toBe(true);
+      for (const r of rows.filter((_, i) => i % 30 === 0)) {
+        const f = figuresOf(screenTotals(JSON.parse(String(r.input_json)) as ScreeningInput));
+        expect({
+          distanceKm: Number(r.distance_km),
+          noxTotalKg: Number(r.nox_total_kg),
+          noxAboveTropopauseKg: Number(r.nox_above_kg),
+          fractionAboveTropopause: Number(r.fraction_above),
+          meanDepthAboveTropopauseKm: Number(r.mean_depth_above_km),
+          ozoneCentralKg: Number(r.ozone_central_kg),
+          ozoneLowKg: Number(r.ozone_low_kg),
+          ozoneHighKg: Number(r.ozone_high_kg),
+          engineVersion: String(r.engine_version),
+        }).toEqual(f);
+      }
+      const units = (await db()('usage_events')
+        .where({ workspace_id: threaded.workspaceId, kind: 'imported_flight' })
+        .count({ n: '*' })
+        .countDistinct({ d: 'source_id' })
+        .first()) as { n: number | string; d: number | string };
+      expect([Number(units.n), Number(units.d)]).toEqual([3000, 3000]);
 
-    // The same import screened on the event loop, for comparison.
-    process.env.SCREENING_THREADS = '0';
-    resetEnvForTests();
-    try {
-      expect(screeningThreads()).toBe(0);
-      await upload(3000, 'I');
-      const inlineUtil = await importUtilisation();
-      console.info(`[screening-threads] event-loop utilisation during a 3000-row import: ${threadedUtil.toFixed(2)} with 2 threads, ${inlineUtil.toFixed(2)} on the loop`);
-      expect(threadedUtil).toBeLessThan(inlineUtil * 0.8);
-    } finally {
-      process.env.SCREENING_THREADS = '2';
+      // The same import screened on the event loop, for comparison.
+      process.env.SCREENING_THREADS = '0';
       resetEnvForTests();
-    }
-  });
+      try {
+        expect(screeningThreads()).toBe(0);
+        await upload(3000, 'I');
+        const inlineUtil = await importUtilisation();
+        console.info(
+          `[screening-threads] event-loop utilisation during a 3000-row import: ${threadedUtil.toFixed(2)} with 2 threads, ${inlineUtil.toFixed(2)} on the loop`,
+        );
+        expect(threadedUtil).toBeLessThan(inlineUtil * 0.8);
+      } finally {
+        process.env.SCREENING_THREADS = '2';
+        resetEnvForTests();
+      }
+    },
+  );
 });

@@ -14,15 +14,55 @@ const ENGINE = {
 };
 
 /** Gives a workspace two fleets, an engine-backed type T-LR (fleet "Long haul") and a direct-EI type T-SST. */
-export async function addScheduleLibrary(workspaceId: number): Promise<{ longHaulFleetId: number; studyFleetId: number }> {
+export async function addScheduleLibrary(
+  workspaceId: number,
+): Promise<{ longHaulFleetId: number; studyFleetId: number }> {
   const now = new Date().toISOString();
-  const engineId = await insertId(db()('engines').insert({ workspace_id: workspaceId, name: 'Test turbofan', ...ENGINE, created_at: now, updated_at: now }).returning('id'));
-  const longHaulFleetId = await insertId(db()('fleets').insert({ workspace_id: workspaceId, name: 'Long haul', created_at: now }).returning('id'));
-  const studyFleetId = await insertId(db()('fleets').insert({ workspace_id: workspaceId, name: 'Study', created_at: now }).returning('id'));
+  const engineId = await insertId(
+    db()('engines')
+      .insert({ workspace_id: workspaceId, name: 'Test turbofan', ...ENGINE, created_at: now, updated_at: now })
+      .returning('id'),
+  );
+  const longHaulFleetId = await insertId(
+    db()('fleets').insert({ workspace_id: workspaceId, name: 'Long haul', created_at: now }).returning('id'),
+  );
+  const studyFleetId = await insertId(
+    db()('fleets').insert({ workspace_id: workspaceId, name: 'Study', created_at: now }).returning('id'),
+  );
   await db()('aircraft_types').insert([
-    { workspace_id: workspaceId, code: 'T-LR', engine_id: engineId, engine_count: 2, typical_mach: 0.84, typical_flight_level: 370, default_fleet_id: longHaulFleetId, created_at: now, updated_at: now },
-    { workspace_id: workspaceId, code: 'T-SST', engine_id: null, engine_count: 4, typical_mach: 1.7, typical_flight_level: 580, direct_ei_g_kg: 11.5, default_fleet_id: studyFleetId, created_at: now, updated_at: now },
-    { workspace_id: workspaceId, code: 'T-BARE', engine_id: null, engine_count: 2, typical_mach: 0.8, typical_flight_level: 350, created_at: now, updated_at: now },
+    {
+      workspace_id: workspaceId,
+      code: 'T-LR',
+      engine_id: engineId,
+      engine_count: 2,
+      typical_mach: 0.84,
+      typical_flight_level: 370,
+      default_fleet_id: longHaulFleetId,
+      created_at: now,
+      updated_at: now,
+    },
+    {
+      workspace_id: workspaceId,
+      code: 'T-SST',
+      engine_id: null,
+      engine_count: 4,
+      typical_mach: 1.7,
+      typical_flight_level: 580,
+      direct_ei_g_kg: 11.5,
+      default_fleet_id: studyFleetId,
+      created_at: now,
+      updated_at: now,
+    },
+    {
+      workspace_id: workspaceId,
+      code: 'T-BARE',
+      engine_id: null,
+      engine_count: 2,
+      typical_mach: 0.8,
+      typical_flight_level: 350,
+      created_at: now,
+      updated_at: now,
+    },
   ]);
   return { longHaulFleetId: Number(longHaulFleetId), studyFleetId: Number(studyFleetId) };
 }
@@ -35,14 +75,22 @@ export function csv(...lines: string[]): string {
 }
 
 /** A multipart upload of `content` in the field `file`, as a browser or API client sends it. */
-export function uploadRequest(slug: string, content: string | Uint8Array<ArrayBuffer>, opts: { cookie?: string; bearer?: string; fileName?: string; field?: string } = {}): Request {
+export function uploadRequest(
+  slug: string,
+  content: string | Uint8Array<ArrayBuffer>,
+  opts: { cookie?: string; bearer?: string; fileName?: string; field?: string } = {},
+): Request {
   const form = new FormData();
   const bytes = typeof content === 'string' ? new TextEncoder().encode(content) : content;
   form.set(opts.field ?? 'file', new File([bytes], opts.fileName ?? 'schedule.csv', { type: 'text/csv' }));
   const headers = new Headers({ host: new URL(TEST_ORIGIN).host });
   if (opts.cookie) headers.set('cookie', opts.cookie);
   if (opts.bearer) headers.set('authorization', `Bearer ${opts.bearer}`);
-  return new Request(new URL(`/api/v1/workspaces/${slug}/imports`, TEST_ORIGIN), { method: 'POST', headers, body: form });
+  return new Request(new URL(`/api/v1/workspaces/${slug}/imports`, TEST_ORIGIN), {
+    method: 'POST',
+    headers,
+    body: form,
+  });
 }
 
 const ROUTES: [string, string, number][] = [

@@ -1,7 +1,16 @@
 import { TEST_ORIGIN } from '../../support/test-db';
 
 /** A real multipart/form-data Request with a CSV file in `file` (or a field named otherwise) and text fields. */
-export function multipartRequest(pathname: string, opts: { cookie?: string; csv: string | Uint8Array<ArrayBuffer>; fileName?: string; field?: string; fields?: Record<string, string> }): Request {
+export function multipartRequest(
+  pathname: string,
+  opts: {
+    cookie?: string;
+    csv: string | Uint8Array<ArrayBuffer>;
+    fileName?: string;
+    field?: string;
+    fields?: Record<string, string>;
+  },
+): Request {
   const form = new FormData();
   const bytes = typeof opts.csv === 'string' ? new TextEncoder().encode(opts.csv) : opts.csv;
   form.set(opts.field ?? 'file', new Blob([bytes], { type: 'text/csv' }), opts.fileName ?? 'upload.csv');

@@ -32,9 +32,17 @@ const FLIGHT = { cruise: { flightLevel: 330 }, fuelBurnKg: 40_000, emission: { e
 async function stocked() {
   const ws = await makeWorkspace(['planner', 'analyst', 'viewer']);
   const cookie = await sessionCookie(ws.members.planner.id);
-  const f = await call<{ added: number }>(fixUploadRoute.POST, multipartRequest(`${base(ws.slug)}/fixes/upload`, { cookie, csv: FIX_CSV }), { slug: ws.slug });
+  const f = await call<{ added: number }>(
+    fixUploadRoute.POST,
+    multipartRequest(`${base(ws.slug)}/fixes/upload`, { cookie, csv: FIX_CSV }),
+    { slug: ws.slug },
+  );
   expect(f.status).toBe(201);
-  const a = await call<{ added: number }>(airwayUploadRoute.POST, multipartRequest(`${base(ws.slug)}/airways/upload`, { cookie, csv: AIRWAY_CSV }), { slug: ws.slug });
+  const a = await call<{ added: number }>(
+    airwayUploadRoute.POST,
+    multipartRequest(`${base(ws.slug)}/airways/upload`, { cookie, csv: AIRWAY_CSV }),
+    { slug: ws.slug },
+  );
   expect(a.status).toBe(201);
   return { ws, cookie };
 }
@@ -43,13 +51,21 @@ describe('fix and airway libraries', () => {
   it('a planner uploads fixes and airways; everyone in the workspace lists and searches them', async () => {
     const { ws } = await stocked();
     const viewer = await sessionCookie(ws.members.viewer.id);
-    const list = await call<{ items: Fix[] }>(fixesRoute.GET, apiRequest('GET', `${base(ws.slug)}/fixes?q=qxo`, { cookie: viewer }), { slug: ws.slug });
+    const list = await call<{ items: Fix[] }>(
+      fixesRoute.GET,
+      apiRequest('GET', `${base(ws.slug)}/fixes?q=qxo`, { cookie: viewer }),
+      { slug: ws.slug },
+    );
     expect(list.status).toBe(200);
     expect(list.body.items.map((f) => [f.name, f.region])).toEqual([
       ['QXORV', 'east'],
       ['QXORV', 'far south'],
     ]);
-    const airways = await call<{ items: { name: string; fixes: string[] }[] }>(airwaysRoute.GET, apiRequest('GET', `${base(ws.slug)}/airways`, { cookie: viewer }), { slug: ws.slug });
+    const airways = await call<{ items: { name: string; fixes: string[] }[] }>(
+      airwaysRoute.GET,
+      apiRequest('GET', `${base(ws.slug)}/airways`, { cookie: viewer }),
+      { slug: ws.slug },
+    );
     expect(airways.body.items).toMatchObject([{ name: 'XN7', fixes: ['QXORV', 'QXTEL', 'QXPAS'] }]);
   });
 
@@ -57,27 +73,61 @@ describe('fix and airway libraries', () => {
     const { ws, cookie } = await stocked();
     for (const role of ['analyst', 'viewer'] as const) {
       const c = await sessionCookie(ws.members[role].id);
-      const r = await call(fixUploadRoute.POST, multipartRequest(`${base(ws.slug)}/fixes/upload`, { cookie: c, csv: FIX_CSV }), { slug: ws.slug });
+      const r = await call(
+        fixUploadRoute.POST,
+        multipartRequest(`${base(ws.slug)}/fixes/upload`, { cookie: c, csv: FIX_CSV }),
+        { slug: ws.slug },
+      );
       expect(r.status).toBe(403);
     }
-    const again = await call<{ added: number; updated: number }>(fixesRoute.POST, apiRequest('POST', `${base(ws.slug)}/fixes`, { cookie, body: { fixes: [{ name: 'qxtel', lat: 64.5, lon: -30 }, { name: 'QXMIR', lat: 70, lon: -10 }] } }), { slug: ws.slug });
+    const again = await call<{ added: number; updated: number }>(
+      fixesRoute.POST,
+      apiRequest('POST', `${base(ws.slug)}/fixes`, {
+        cookie,
+        body: {
+          fixes: [
+            { name: 'qxtel', lat: 64.5, lon: -30 },
+            { name: 'QXMIR', lat: 70, lon: -10 },
+          ],
+        },
+      }),
+      { slug: ws.slug },
+    );
     expect(again.status).toBe(201);
     expect(again.body).toEqual({ added: 1, updated: 1 });
-    const list = await call<{ items: Fix[] }>(fixesRoute.GET, apiRequest('GET', `${base(ws.slug)}/fixes?q=QXTEL`, { cookie }), { slug: ws.slug });
+    const list = await call<{ items: Fix[] }>(
+      fixesRoute.GET,
+      apiRequest('GET', `${base(ws.slug)}/fixes?q=QXTEL`, { cookie }),
+      { slug: ws.slug },
+    );
     expect(list.body.items).toMatchObject([{ name: 'QXTEL', lat: 64.5 }]);
   });
 
   it('bad files are refused by line and column, nothing saved', async () => {
     const ws = await makeWorkspace(['planner']);
     const cookie = await sessionCookie(ws.members.planner.id);
-    const r = await call<Problems>(fixUploadRoute.POST, multipartRequest(`${base(ws.slug)}/fixes/upload`, { cookie, csv: 'name,lat,lon\nGOOD,10,10\nX,95,10\nGOOD,11,11\n' }), { slug: ws.slug });
+    const r = await call<Problems>(
+      fixUploadRoute.POST,
+      multipartRequest(`${base(ws.slug)}/fixes/upload`, {
+        cookie,
+        csv: 'name,lat,lon\nGOOD,10,10\nX,95,10\nGOOD,11,11\n',
+      }),
+      { slug: ws.slug },
+    );
     expect(r.status).toBe(422);
     expect(r.body.problems.map((p) => [p.line, p.column])).toEqual([
       [3, 'name'],
       [3, 'lat'],
       [4, 'name'],
     ]);
-    const a = await call<Problems>(airwayUploadRoute.POST, multipartRequest(`${base(ws.slug)}/airways/upload`, { cookie, csv: 'airway,sequence,fix\nQN1,1,AAA\nQN1,1,BBB\nQN2,x,CCC\n' }), { slug: ws.slug });
+    const a = await call<Problems>(
+      airwayUploadRoute.POST,
+      multipartRequest(`${base(ws.slug)}/airways/upload`, {
+        cookie,
+        csv: 'airway,sequence,fix\nQN1,1,AAA\nQN1,1,BBB\nQN2,x,CCC\n',
+      }),
+      { slug: ws.slug },
+    );
     expect(a.status).toBe(422);
     expect(a.body.problems.map((p) => [p.line, p.column])).toEqual([
       [3, 'sequence'],
@@ -85,7 +135,9 @@ describe('fix and airway libraries', () => {
       // QN1 is left with one point once its repeated sequence is refused.
       [2, 'fix'],
     ]);
-    const list = await call<{ items: Fix[] }>(fixesRoute.GET, apiRequest('GET', `${base(ws.slug)}/fixes`, { cookie }), { slug: ws.slug });
+    const list = await call<{ items: Fix[] }>(fixesRoute.GET, apiRequest('GET', `${base(ws.slug)}/fixes`, { cookie }), {
+      slug: ws.slug,
+    });
     expect(list.body.items).toEqual([]);
   });
 
@@ -93,16 +145,42 @@ describe('fix and airway libraries', () => {
     const { ws, cookie } = await stocked();
     const other = await makeWorkspace();
     const otherCookie = await sessionCookie(other.owner.id);
-    const fixes = await call<{ items: Fix[] }>(fixesRoute.GET, apiRequest('GET', `${base(ws.slug)}/fixes?q=QXPAS`, { cookie }), { slug: ws.slug });
+    const fixes = await call<{ items: Fix[] }>(
+      fixesRoute.GET,
+      apiRequest('GET', `${base(ws.slug)}/fixes?q=QXPAS`, { cookie }),
+      { slug: ws.slug },
+    );
     const id = String(fixes.body.items[0].id);
-    const foreign = await call(fixRoute.DELETE, apiRequest('DELETE', `${base(other.slug)}/fixes/${id}`, { cookie: otherCookie }), { slug: other.slug, id });
+    const foreign = await call(
+      fixRoute.DELETE,
+      apiRequest('DELETE', `${base(other.slug)}/fixes/${id}`, { cookie: otherCookie }),
+      { slug: other.slug, id },
+    );
     expect(foreign.status).toBe(404);
-    const del = await call(fixRoute.DELETE, apiRequest('DELETE', `${base(ws.slug)}/fixes/${id}`, { cookie }), { slug: ws.slug, id });
+    const del = await call(fixRoute.DELETE, apiRequest('DELETE', `${base(ws.slug)}/fixes/${id}`, { cookie }), {
+      slug: ws.slug,
+      id,
+    });
     expect(del.status).toBe(204);
-    const airways = await call<{ items: { id: number }[] }>(airwaysRoute.GET, apiRequest('GET', `${base(ws.slug)}/airways`, { cookie }), { slug: ws.slug });
+    const airways = await call<{ items: { id: number }[] }>(
+      airwaysRoute.GET,
+      apiRequest('GET', `${base(ws.slug)}/airways`, { cookie }),
+      { slug: ws.slug },
+    );
     const aid = String(airways.body.items[0].id);
-    expect((await call(airwayRoute.DELETE, apiRequest('DELETE', `${base(ws.slug)}/airways/${aid}`, { cookie }), { slug: ws.slug, id: aid })).status).toBe(204);
-    const after = await call<{ items: unknown[] }>(airwaysRoute.GET, apiRequest('GET', `${base(ws.slug)}/airways`, { cookie }), { slug: ws.slug });
+    expect(
+      (
+        await call(airwayRoute.DELETE, apiRequest('DELETE', `${base(ws.slug)}/airways/${aid}`, { cookie }), {
+          slug: ws.slug,
+          id: aid,
+        })
+      ).status,
+    ).toBe(204);
+    const after = await call<{ items: unknown[] }>(
+      airwaysRoute.GET,
+      apiRequest('GET', `${base(ws.slug)}/airways`, { cookie }),
+      { slug: ws.slug },
+    );
     expect(after.body.items).toEqual([]);
   });
 });
@@ -111,7 +189,14 @@ describe('screening a flight-plan route through the workspace library', () => {
   it('preview: named points and the airway come from the library, the level change sits at its point, unplaced items are kept', async () => {
     const { ws, cookie } = await stocked();
     const text = 'N0480F350 DCT QXORV XN7 QXPAS/N0480F370 DCT NOWHR DCT 66N050W DCT';
-    const r = await call<Preview>(previewRoute.POST, apiRequest('POST', `${base(ws.slug)}/screenings/preview`, { cookie, body: { ...FLIGHT, route: { flightPlan: { text, from: 'EGLL', to: 'CYYZ' } } } }), { slug: ws.slug });
+    const r = await call<Preview>(
+      previewRoute.POST,
+      apiRequest('POST', `${base(ws.slug)}/screenings/preview`, {
+        cookie,
+        body: { ...FLIGHT, route: { flightPlan: { text, from: 'EGLL', to: 'CYYZ' } } },
+      }),
+      { slug: ws.slug },
+    );
     expect(r.status).toBe(200);
     const fp = r.body.result.flightPlan;
     expect(fp.waypoints.map((w) => w.name)).toEqual(['EGLL', 'QXORV', 'QXTEL', 'QXPAS', '66N050W', 'CYYZ']);
@@ -124,19 +209,32 @@ describe('screening a flight-plan route through the workspace library', () => {
       { fromKm: 0, flightLevel: 350 },
       { fromKm: km, flightLevel: 370 },
     ]);
-    expect(fp.unresolved).toEqual([{ item: 'NOWHR', position: text.indexOf('NOWHR'), reason: 'NOWHR is not in the fix library.' }]);
+    expect(fp.unresolved).toEqual([
+      { item: 'NOWHR', position: text.indexOf('NOWHR'), reason: 'NOWHR is not in the fix library.' },
+    ]);
     expect(r.body.result.levels.map((l) => l.flightLevel)).toEqual([350, 370]);
     expect(r.body.levels.length).toBeGreaterThan(1);
   });
 
   it('save: 201 keeps the flight-plan input and what was understood; the list labels it by its aerodromes', async () => {
     const { ws, cookie } = await stocked();
-    const body = { ...FLIGHT, route: { flightPlan: { text: 'N0480F350 DCT QXORV DCT QXTEL DCT', from: 'EGLL', to: 'CYYZ' } } };
-    const r = await call<{ id: number; input: typeof body; result: { flightPlan: FlightPlan } }>(screeningsRoute.POST, apiRequest('POST', `${base(ws.slug)}/screenings`, { cookie, body }), { slug: ws.slug });
+    const body = {
+      ...FLIGHT,
+      route: { flightPlan: { text: 'N0480F350 DCT QXORV DCT QXTEL DCT', from: 'EGLL', to: 'CYYZ' } },
+    };
+    const r = await call<{ id: number; input: typeof body; result: { flightPlan: FlightPlan } }>(
+      screeningsRoute.POST,
+      apiRequest('POST', `${base(ws.slug)}/screenings`, { cookie, body }),
+      { slug: ws.slug },
+    );
     expect(r.status).toBe(201);
     expect(r.body.input.route).toEqual(body.route);
     expect(r.body.result.flightPlan.waypoints).toHaveLength(4);
-    const list = await call<{ items: { routeLabel: string }[] }>(screeningsRoute.GET, apiRequest('GET', `${base(ws.slug)}/screenings`, { cookie }), { slug: ws.slug });
+    const list = await call<{ items: { routeLabel: string }[] }>(
+      screeningsRoute.GET,
+      apiRequest('GET', `${base(ws.slug)}/screenings`, { cookie }),
+      { slug: ws.slug },
+    );
     expect(list.body.items[0].routeLabel).toBe('EGLL → CYYZ (flight plan)');
   });
 
@@ -147,7 +245,11 @@ describe('screening a flight-plan route through the workspace library', () => {
   ])('an unusable flight plan is a 422 naming the field: %o', async (flightPlan, path) => {
     const ws = await makeWorkspace(['planner']);
     const cookie = await sessionCookie(ws.members.planner.id);
-    const r = await call<{ error: { fields: { path: string }[] } }>(previewRoute.POST, apiRequest('POST', `${base(ws.slug)}/screenings/preview`, { cookie, body: { ...FLIGHT, route: { flightPlan } } }), { slug: ws.slug });
+    const r = await call<{ error: { fields: { path: string }[] } }>(
+      previewRoute.POST,
+      apiRequest('POST', `${base(ws.slug)}/screenings/preview`, { cookie, body: { ...FLIGHT, route: { flightPlan } } }),
+      { slug: ws.slug },
+    );
     expect(r.status).toBe(422);
     expect(r.body.error.fields.map((f) => f.path)).toContain(path);
   });

@@ -17,9 +17,23 @@ describe('demo fix and airway library (invented)', () => {
     const library = await loadRouteLibrary({ workspaceId: Number(ws.id) });
     expect(library.fixes).toHaveLength(13);
     expect(library.airways?.map((a) => a.name)).toEqual(['XA2', 'XN1']);
-    const r = parseFlightPlanRoute('N0480F370 DCT QXFRO XA2 QXIKE/N0480F390 XA2 QXELM DCT', { from: 'ENGM', to: 'CYVR', ...library });
+    const r = parseFlightPlanRoute('N0480F370 DCT QXFRO XA2 QXIKE/N0480F390 XA2 QXELM DCT', {
+      from: 'ENGM',
+      to: 'CYVR',
+      ...library,
+    });
     expect(r.unresolved).toEqual([]);
-    expect(r.waypoints.map((w) => w.name)).toEqual(['ENGM', 'QXFRO', 'QXGLA', 'QXHAV', 'QXIKE', 'QXJOR', 'QXKAL', 'QXELM', 'CYVR']);
+    expect(r.waypoints.map((w) => w.name)).toEqual([
+      'ENGM',
+      'QXFRO',
+      'QXGLA',
+      'QXHAV',
+      'QXIKE',
+      'QXJOR',
+      'QXKAL',
+      'QXELM',
+      'CYVR',
+    ]);
     // The Arctic QXELM, not the North Atlantic one of the same name.
     expect(r.waypoints[7]).toMatchObject({ lat: 70, lon: -115 });
     expect(r.cruise.steps.map((s) => s.flightLevel)).toEqual([370, 390]);

@@ -10,22 +10,32 @@ useTestDatabase();
 type RouteBody = { id: number; name: string; waypoints: unknown[]; notes: string; distanceKm: number };
 
 const base = (slug: string) => `/api/v1/workspaces/${slug}/routes`;
-const post = async (slug: string, cookie: string, body: unknown) => call<RouteBody>(routesRoute.POST, apiRequest('POST', base(slug), { cookie, body }), { slug });
+const post = async (slug: string, cookie: string, body: unknown) =>
+  call<RouteBody>(routesRoute.POST, apiRequest('POST', base(slug), { cookie, body }), { slug });
 
 describe('saved routes API', () => {
   it('201 saves a route (codes in capitals, distance on the mean sphere); GET lists and reads it', async () => {
     const ws = await makeWorkspace(['planner']);
     const cookie = await sessionCookie(ws.members.planner.id);
-    const r = await post(ws.slug, cookie, { name: 'Polar north', waypoints: [{ airport: 'egll' }, { lat: 80, lon: -60 }, { airport: 'KSEA' }], notes: 'Winter track' });
+    const r = await post(ws.slug, cookie, {
+      name: 'Polar north',
+      waypoints: [{ airport: 'egll' }, { lat: 80, lon: -60 }, { airport: 'KSEA' }],
+      notes: 'Winter track',
+    });
     expect(r.status).toBe(201);
     expect(r.body.waypoints).toEqual([{ airport: 'EGLL' }, { lat: 80, lon: -60 }, { airport: 'KSEA' }]);
     expect(r.body.notes).toBe('Winter track');
     // Via 80N 60W the track is longer than the EGLL-KSEA great circle (about 7 700 km, a fact of the trade).
     expect(r.body.distanceKm).toBeGreaterThan(7_700);
-    const list = await call<{ items: RouteBody[] }>(routesRoute.GET, apiRequest('GET', base(ws.slug), { cookie }), { slug: ws.slug });
+    const list = await call<{ items: RouteBody[] }>(routesRoute.GET, apiRequest('GET', base(ws.slug), { cookie }), {
+      slug: ws.slug,
+    });
     expect(list.status).toBe(200);
     expect(list.body.items.map((i) => i.name)).toEqual(['Polar north']);
-    const one = await call<RouteBody>(routeRoute.GET, apiRequest('GET', `${base(ws.slug)}/${r.body.id}`, { cookie }), { slug: ws.slug, id: String(r.body.id) });
+    const one = await call<RouteBody>(routeRoute.GET, apiRequest('GET', `${base(ws.slug)}/${r.body.id}`, { cookie }), {
+      slug: ws.slug,
+      id: String(r.body.id),
+    });
     expect(one.status).toBe(200);
     expect(one.body.distanceKm).toBeCloseTo(r.body.distanceKm, 6);
   });
@@ -33,7 +43,13 @@ describe('saved routes API', () => {
   it('a one-leg route measures as the engine measures it: a quarter meridian is pi R / 2', async () => {
     const ws = await makeWorkspace();
     const cookie = await sessionCookie(ws.owner.id);
-    const r = await post(ws.slug, cookie, { name: 'Quarter meridian', waypoints: [{ lat: 0, lon: 0 }, { lat: 90, lon: 0 }] });
+    const r = await post(ws.slug, cookie, {
+      name: 'Quarter meridian',
+      waypoints: [
+        { lat: 0, lon: 0 },
+        { lat: 90, lon: 0 },
+      ],
+    });
     expect(r.status).toBe(201);
     // IUGG mean Earth radius R1 = 6371.0088 km (Moritz 1980, Geodetic Reference System 1980).
     expect(r.body.distanceKm).toBeCloseTo((Math.PI / 2) * 6371.0088, 0);
@@ -41,7 +57,11 @@ describe('saved routes API', () => {
 
   it('401 without a session; 403 for a viewer writing; the viewer still reads', async () => {
     const ws = await makeWorkspace(['viewer']);
-    const anon = await call(routesRoute.POST, apiRequest('POST', base(ws.slug), { body: { name: 'x', waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] } }), { slug: ws.slug });
+    const anon = await call(
+      routesRoute.POST,
+      apiRequest('POST', base(ws.slug), { body: { name: 'x', waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] } }),
+      { slug: ws.slug },
+    );
     expect(anon.status).toBe(401);
     const viewer = await sessionCookie(ws.members.viewer.id);
     const denied = await post(ws.slug, viewer, { name: 'x', waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] });
@@ -53,8 +73,18 @@ describe('saved routes API', () => {
 
   it('a viewer API key reads but cannot write (403)', async () => {
     const ws = await makeWorkspace();
-    const { key } = await createApiKey({ workspaceId: ws.id }, { name: 'read', role: 'viewer', createdBy: ws.owner.id, actor: ws.owner.email });
-    const denied = await call(routesRoute.POST, apiRequest('POST', base(ws.slug), { bearer: key, body: { name: 'x', waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] } }), { slug: ws.slug });
+    const { key } = await createApiKey(
+      { workspaceId: ws.id },
+      { name: 'read', role: 'viewer', createdBy: ws.owner.id, actor: ws.owner.email },
+    );
+    const denied = await call(
+      routesRoute.POST,
+      apiRequest('POST', base(ws.slug), {
+        bearer: key,
+        body: { name: 'x', waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] },
+      }),
+      { slug: ws.slug },
+    );
     expect(denied.status).toBe(403);
     const read = await call(routesRoute.GET, apiRequest('GET', base(ws.slug), { bearer: key }), { slug: ws.slug });
     expect(read.status).toBe(200);
@@ -65,18 +95,40 @@ describe('saved routes API', () => {
     const theirs = await makeWorkspace();
     const cookie = await sessionCookie(mine.owner.id);
     const otherCookie = await sessionCookie(theirs.owner.id);
-    const theirRoute = await post(theirs.slug, otherCookie, { name: 'Theirs', waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] });
+    const theirRoute = await post(theirs.slug, otherCookie, {
+      name: 'Theirs',
+      waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }],
+    });
     expect(theirRoute.status).toBe(201);
-    const strange = await call(routesRoute.GET, apiRequest('GET', base(theirs.slug), { cookie }), { slug: theirs.slug });
+    const strange = await call(routesRoute.GET, apiRequest('GET', base(theirs.slug), { cookie }), {
+      slug: theirs.slug,
+    });
     expect(strange.status).toBe(404);
     const id = String(theirRoute.body.id);
-    for (const [handler, method] of [[routeRoute.GET, 'GET'], [routeRoute.PATCH, 'PATCH'], [routeRoute.DELETE, 'DELETE']] as const) {
-      const r = await call(handler, apiRequest(method, `${base(mine.slug)}/${id}`, { cookie, body: method === 'PATCH' ? { notes: 'mine now' } : undefined }), { slug: mine.slug, id });
+    for (const [handler, method] of [
+      [routeRoute.GET, 'GET'],
+      [routeRoute.PATCH, 'PATCH'],
+      [routeRoute.DELETE, 'DELETE'],
+    ] as const) {
+      const r = await call(
+        handler,
+        apiRequest(method, `${base(mine.slug)}/${id}`, {
+          cookie,
+          body: method === 'PATCH' ? { notes: 'mine now' } : undefined,
+        }),
+        { slug: mine.slug, id },
+      );
       expect(r.status).toBe(404);
     }
-    const unknown = await call(routeRoute.GET, apiRequest('GET', `${base(mine.slug)}/999999`, { cookie }), { slug: mine.slug, id: '999999' });
+    const unknown = await call(routeRoute.GET, apiRequest('GET', `${base(mine.slug)}/999999`, { cookie }), {
+      slug: mine.slug,
+      id: '999999',
+    });
     expect(unknown.status).toBe(404);
-    const notAnId = await call(routeRoute.GET, apiRequest('GET', `${base(mine.slug)}/abc`, { cookie }), { slug: mine.slug, id: 'abc' });
+    const notAnId = await call(routeRoute.GET, apiRequest('GET', `${base(mine.slug)}/abc`, { cookie }), {
+      slug: mine.slug,
+      id: 'abc',
+    });
     expect(notAnId.status).toBe(404);
     expect((await db()('routes').where({ id: theirRoute.body.id }).first()).notes).toBe('');
   });
@@ -90,23 +142,44 @@ describe('saved routes API', () => {
     const dup = await post(ws.slug, cookie, { name: 'atlantic a', waypoints: wp });
     expect(dup.status).toBe(409);
     expect(dup.body.error?.fields).toEqual([{ path: 'name', message: expect.stringContaining('already') }]);
-    const rename = await call(routeRoute.PATCH, apiRequest('PATCH', `${base(ws.slug)}/${b.body.id}`, { cookie, body: { name: 'Atlantic A' } }), { slug: ws.slug, id: String(b.body.id) });
+    const rename = await call(
+      routeRoute.PATCH,
+      apiRequest('PATCH', `${base(ws.slug)}/${b.body.id}`, { cookie, body: { name: 'Atlantic A' } }),
+      { slug: ws.slug, id: String(b.body.id) },
+    );
     expect(rename.status).toBe(409);
   });
 
   it('422 names each bad waypoint by path: unknown airport codes, bad coordinates, too few points; nothing saved', async () => {
     const ws = await makeWorkspace();
     const cookie = await sessionCookie(ws.owner.id);
-    const unknown = await post(ws.slug, cookie, { name: 'Bad', waypoints: [{ airport: 'EGLL' }, { airport: 'ZZZZ' }, { airport: 'QQQ' }] });
+    const unknown = await post(ws.slug, cookie, {
+      name: 'Bad',
+      waypoints: [{ airport: 'EGLL' }, { airport: 'ZZZZ' }, { airport: 'QQQ' }],
+    });
     expect(unknown.status).toBe(422);
     expect(unknown.body.error?.fields?.map((f) => f.path)).toEqual(['waypoints.1.airport', 'waypoints.2.airport']);
-    const shape = await post(ws.slug, cookie, { name: '', waypoints: [{ lat: 95, lon: 0 }, { airport: 'E' }], notes: 'x'.repeat(2001) });
+    const shape = await post(ws.slug, cookie, {
+      name: '',
+      waypoints: [{ lat: 95, lon: 0 }, { airport: 'E' }],
+      notes: 'x'.repeat(2001),
+    });
     expect(shape.status).toBe(422);
-    expect(shape.body.error?.fields?.map((f) => f.path).sort()).toEqual(['name', 'notes', 'waypoints.0.lat', 'waypoints.1.airport'].sort());
+    expect(shape.body.error?.fields?.map((f) => f.path).sort()).toEqual(
+      ['name', 'notes', 'waypoints.0.lat', 'waypoints.1.airport'].sort(),
+    );
     const short = await post(ws.slug, cookie, { name: 'One point', waypoints: [{ airport: 'EGLL' }] });
     expect(short.status).toBe(422);
     expect(short.body.error?.fields?.[0].path).toBe('waypoints');
-    const broken = await call(routesRoute.POST, apiRequest('POST', base(ws.slug), { cookie, rawBody: '{"name":', headers: { 'content-type': 'application/json' } }), { slug: ws.slug });
+    const broken = await call(
+      routesRoute.POST,
+      apiRequest('POST', base(ws.slug), {
+        cookie,
+        rawBody: '{"name":',
+        headers: { 'content-type': 'application/json' },
+      }),
+      { slug: ws.slug },
+    );
     expect(broken.status).toBe(400);
     expect(await db()('routes').where({ workspace_id: ws.id }).count({ n: '*' }).first()).toMatchObject({ n: 0 });
   });
@@ -114,24 +187,53 @@ describe('saved routes API', () => {
   it('PATCH keeps what is not sent; DELETE is 204 and the route is gone', async () => {
     const ws = await makeWorkspace(['planner']);
     const cookie = await sessionCookie(ws.members.planner.id);
-    const r = await post(ws.slug, cookie, { name: 'Keep', waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }], notes: 'first' });
+    const r = await post(ws.slug, cookie, {
+      name: 'Keep',
+      waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }],
+      notes: 'first',
+    });
     const id = String(r.body.id);
-    const patched = await call<RouteBody>(routeRoute.PATCH, apiRequest('PATCH', `${base(ws.slug)}/${id}`, { cookie, body: { notes: 'second' } }), { slug: ws.slug, id });
+    const patched = await call<RouteBody>(
+      routeRoute.PATCH,
+      apiRequest('PATCH', `${base(ws.slug)}/${id}`, { cookie, body: { notes: 'second' } }),
+      { slug: ws.slug, id },
+    );
     expect(patched.status).toBe(200);
-    expect(patched.body).toMatchObject({ name: 'Keep', notes: 'second', waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] });
-    const badPatch = await call(routeRoute.PATCH, apiRequest('PATCH', `${base(ws.slug)}/${id}`, { cookie, body: { waypoints: [{ airport: 'EGLL' }, { airport: 'NOPE' }] } }), { slug: ws.slug, id });
+    expect(patched.body).toMatchObject({
+      name: 'Keep',
+      notes: 'second',
+      waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }],
+    });
+    const badPatch = await call(
+      routeRoute.PATCH,
+      apiRequest('PATCH', `${base(ws.slug)}/${id}`, {
+        cookie,
+        body: { waypoints: [{ airport: 'EGLL' }, { airport: 'NOPE' }] },
+      }),
+      { slug: ws.slug, id },
+    );
     expect(badPatch.status).toBe(422);
     expect(badPatch.body.error?.fields?.[0].path).toBe('waypoints.1.airport');
-    const del = await call(routeRoute.DELETE, apiRequest('DELETE', `${base(ws.slug)}/${id}`, { cookie }), { slug: ws.slug, id });
+    const del = await call(routeRoute.DELETE, apiRequest('DELETE', `${base(ws.slug)}/${id}`, { cookie }), {
+      slug: ws.slug,
+      id,
+    });
     expect(del.status).toBe(204);
-    const gone = await call(routeRoute.GET, apiRequest('GET', `${base(ws.slug)}/${id}`, { cookie }), { slug: ws.slug, id });
+    const gone = await call(routeRoute.GET, apiRequest('GET', `${base(ws.slug)}/${id}`, { cookie }), {
+      slug: ws.slug,
+      id,
+    });
     expect(gone.status).toBe(404);
   });
 
   it('a signed-in stranger gets 404 for the workspace', async () => {
     const ws = await makeWorkspace();
     const stranger = await makeUser('stranger');
-    const r = await call(routesRoute.GET, apiRequest('GET', base(ws.slug), { cookie: await sessionCookie(stranger.id) }), { slug: ws.slug });
+    const r = await call(
+      routesRoute.GET,
+      apiRequest('GET', base(ws.slug), { cookie: await sessionCookie(stranger.id) }),
+      { slug: ws.slug },
+    );
     expect(r.status).toBe(404);
   });
 });

@@ -52,7 +52,8 @@ describe('test tool (local payment fake): fault injection', () => {
       expect(failure).toBeInstanceOf(Stripe.errors.StripeAPIError);
       expect(failure).toMatchObject({ statusCode: 500, rawType: 'api_error' });
     }
-    for (let i = 0; i < 5; i++) await expect(h.stripe.customers.retrieve(customer.id)).resolves.toMatchObject({ id: customer.id });
+    for (let i = 0; i < 5; i++)
+      await expect(h.stripe.customers.retrieve(customer.id)).resolves.toMatchObject({ id: customer.id });
 
     const { body } = await h.control<FakeState>('/_fake/state');
     expect(body.faults.injected).toBe(failures.length);

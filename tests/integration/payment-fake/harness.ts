@@ -42,7 +42,11 @@ export class WebhookReceiver {
         const raw = Buffer.concat(chunks).toString('utf8');
         const signature = req.headers['stripe-signature'];
         try {
-          const event = this.verifier.webhooks.constructEvent(raw, typeof signature === 'string' ? signature : '', this.secret);
+          const event = this.verifier.webhooks.constructEvent(
+            raw,
+            typeof signature === 'string' ? signature : '',
+            this.secret,
+          );
           this.events.push(event);
           res.writeHead(200, { 'Content-Type': 'application/json' }).end('{"received":true}');
         } catch {
@@ -67,7 +71,9 @@ export class WebhookReceiver {
       const found = this.events.find(predicate);
       if (found) return found;
       if (Date.now() > deadline) {
-        throw new Error(`no matching webhook within ${timeoutMs} ms; got: ${this.events.map((e) => e.type).join(', ')}`);
+        throw new Error(
+          `no matching webhook within ${timeoutMs} ms; got: ${this.events.map((e) => e.type).join(', ')}`,
+        );
       }
       await new Promise((resolve) => setTimeout(resolve, 20));
     }
@@ -90,7 +96,11 @@ export interface Harness {
   /** Stops the fake and starts a new one on the same SQLite file (and a new port). */
   restart(): Promise<void>;
   /** POSTs JSON to a `/_fake/...` control endpoint. */
-  control<T>(pathname: string, body?: unknown, method?: 'GET' | 'POST' | 'DELETE'): Promise<{ status: number; body: T }>;
+  control<T>(
+    pathname: string,
+    body?: unknown,
+    method?: 'GET' | 'POST' | 'DELETE',
+  ): Promise<{ status: number; body: T }>;
   close(): Promise<void>;
 }
 
@@ -119,7 +129,11 @@ export async function startHarness(options: Partial<PaymentFakeOptions> = {}): P
       h.fake = await startPaymentFake(fakeOptions);
       h.stripe = sdkFor(h.fake);
     },
-    async control<T>(pathname: string, body?: unknown, method: 'GET' | 'POST' | 'DELETE' = body === undefined ? 'GET' : 'POST') {
+    async control<T>(
+      pathname: string,
+      body?: unknown,
+      method: 'GET' | 'POST' | 'DELETE' = body === undefined ? 'GET' : 'POST',
+    ) {
       const res = await fetch(`${h.fake.url}${pathname}`, {
         method,
         headers: body === undefined ? {} : { 'Content-Type': 'application/json' },
@@ -143,7 +157,11 @@ export async function catalogue(stripe: Stripe): Promise<Map<string, Stripe.Pric
 }
 
 /** A customer with a card attached and set as the default for invoices. */
-export async function customerWithCard(stripe: Stripe, card: 'pm_card_visa' | 'pm_card_chargeDeclined', email = 'ops@example.test') {
+export async function customerWithCard(
+  stripe: Stripe,
+  card: 'pm_card_visa' | 'pm_card_chargeDeclined',
+  email = 'ops@example.test',
+) {
   const customer = await stripe.customers.create({ email, name: 'Test Operator', metadata: { workspace: 'ws_test' } });
   const pm = await stripe.paymentMethods.attach(card, { customer: customer.id });
   await stripe.customers.update(customer.id, { invoice_settings: { default_payment_method: pm.id } });

@@ -1,6 +1,13 @@
 import Stripe from 'stripe';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { METER_EVENT_NAME, PLANS, PLAN_IDS, TRIAL_DAYS, estimateChargeCents, type PlanId } from '../../../lib/billing/plans';
+import {
+  METER_EVENT_NAME,
+  PLANS,
+  PLAN_IDS,
+  TRIAL_DAYS,
+  estimateChargeCents,
+  type PlanId,
+} from '../../../lib/billing/plans';
 import type { FakeState } from '../../../lib/fakes/payment/server';
 import { catalogue, customerWithCard, startHarness, type Harness } from './harness';
 
@@ -41,14 +48,21 @@ async function screenFlights(customerId: string, values: number[]) {
 }
 
 async function advance(subscription: string) {
-  const { status, body } = await h.control<{ subscription: Stripe.Subscription; invoice: Stripe.Invoice }>('/_fake/advance', {
-    subscription,
-  });
+  const { status, body } = await h.control<{ subscription: Stripe.Subscription; invoice: Stripe.Invoice }>(
+    '/_fake/advance',
+    {
+      subscription,
+    },
+  );
   expect(status).toBe(200);
   return body;
 }
 
-function lineFor(invoice: Stripe.Invoice, usage: 'licensed' | 'metered', sub: Stripe.Subscription): Stripe.InvoiceLineItem {
+function lineFor(
+  invoice: Stripe.Invoice,
+  usage: 'licensed' | 'metered',
+  sub: Stripe.Subscription,
+): Stripe.InvoiceLineItem {
   const item = sub.items.data.find((i) => i.price.recurring?.usage_type === usage)!;
   return invoice.lines.data.find((l) => l.parent?.subscription_item_details?.subscription_item === item.id)!;
 }
@@ -79,7 +93,9 @@ describe('test tool (local payment fake): meter events -> invoice', () => {
 
       const fetched = await h.stripe.invoices.retrieve(invoice.id);
       expect(fetched.amount_due).toBe(expected);
-      const paid = await h.receiver.waitFor((e) => e.type === 'invoice.paid' && (e.data.object as Stripe.Invoice).id === invoice.id);
+      const paid = await h.receiver.waitFor(
+        (e) => e.type === 'invoice.paid' && (e.data.object as Stripe.Invoice).id === invoice.id,
+      );
       expect((paid.data.object as Stripe.Invoice).amount_paid).toBe(expected);
     },
   );
@@ -130,7 +146,11 @@ describe('test tool (local payment fake): meter events -> invoice', () => {
       end_time: end,
     });
     expect(summaries.data).toHaveLength(1);
-    expect(summaries.data[0]).toMatchObject({ object: 'billing.meter_event_summary', aggregated_value: 10, meter: meter.id });
+    expect(summaries.data[0]).toMatchObject({
+      object: 'billing.meter_event_summary',
+      aggregated_value: 10,
+      meter: meter.id,
+    });
 
     const hourly = await h.stripe.billing.meters.listEventSummaries(meter.id, {
       customer: customer.id,
@@ -141,7 +161,11 @@ describe('test tool (local payment fake): meter events -> invoice', () => {
     expect(hourly.data.reduce((sum, s) => sum + s.aggregated_value, 0)).toBe(10);
 
     await expect(
-      h.stripe.billing.meters.listEventSummaries(meter.id, { customer: customer.id, start_time: start + 1, end_time: end }),
+      h.stripe.billing.meters.listEventSummaries(meter.id, {
+        customer: customer.id,
+        start_time: start + 1,
+        end_time: end,
+      }),
     ).rejects.toMatchObject({ statusCode: 400, param: 'start_time' });
   });
 });
@@ -155,7 +179,11 @@ describe('test tool (local payment fake): meter event rules', () => {
       identifier: `dup_${customer.id}`,
     };
     const first = await h.stripe.billing.meterEvents.create(params);
-    expect(first).toMatchObject({ object: 'billing.meter_event', identifier: params.identifier, payload: params.payload });
+    expect(first).toMatchObject({
+      object: 'billing.meter_event',
+      identifier: params.identifier,
+      payload: params.payload,
+    });
     const error = await h.stripe.billing.meterEvents.create(params).catch((e: unknown) => e);
     expect(error).toBeInstanceOf(Stripe.errors.StripeInvalidRequestError);
     expect(error).toMatchObject({ statusCode: 400, code: 'resource_already_exists', param: 'identifier' });
@@ -181,10 +209,30 @@ describe('test tool (local payment fake): meter event rules', () => {
   });
 
   it.each([
-    { name: 'unknown event name', payload: (c: string) => ({ stripe_customer_id: c, value: '1' }), event: 'nope', param: 'event_name' },
-    { name: 'unknown customer', payload: () => ({ stripe_customer_id: 'cus_nope', value: '1' }), event: METER_EVENT_NAME, param: 'payload[stripe_customer_id]' },
-    { name: 'missing value', payload: (c: string) => ({ stripe_customer_id: c }), event: METER_EVENT_NAME, param: 'payload[value]' },
-    { name: 'fractional value', payload: (c: string) => ({ stripe_customer_id: c, value: '1.5' }), event: METER_EVENT_NAME, param: 'payload[value]' },
+    {
+      name: 'unknown event name',
+      payload: (c: string) => ({ stripe_customer_id: c, value: '1' }),
+      event: 'nope',
+      param: 'event_name',
+    },
+    {
+      name: 'unknown customer',
+      payload: () => ({ stripe_customer_id: 'cus_nope', value: '1' }),
+      event: METER_EVENT_NAME,
+      param: 'payload[stripe_customer_id]',
+    },
+    {
+      name: 'missing value',
+      payload: (c: string) => ({ stripe_customer_id: c }),
+      event: METER_EVENT_NAME,
+      param: 'payload[value]',
+    },
+    {
+      name: 'fractional value',
+      payload: (c: string) => ({ stripe_customer_id: c, value: '1.5' }),
+      event: METER_EVENT_NAME,
+      param: 'payload[value]',
+    },
   ])('$name is refused naming $param', async ({ payload, event, param }) => {
     const customer = await h.stripe.customers.create({ email: 'bad@example.test' });
     await expect(
@@ -208,8 +256,14 @@ describe('test tool (local payment fake): Idempotency-Key', () => {
     const { body } = await h.control<FakeState>('/_fake/state');
     expect(body.meterEvents.filter((e) => e.customer === customer.id)).toHaveLength(1);
 
-    const c1 = await h.stripe.customers.create({ email: 'one@example.test' }, { idempotencyKey: `cust_${customer.id}` });
-    const c2 = await h.stripe.customers.create({ email: 'one@example.test' }, { idempotencyKey: `cust_${customer.id}` });
+    const c1 = await h.stripe.customers.create(
+      { email: 'one@example.test' },
+      { idempotencyKey: `cust_${customer.id}` },
+    );
+    const c2 = await h.stripe.customers.create(
+      { email: 'one@example.test' },
+      { idempotencyKey: `cust_${customer.id}` },
+    );
     expect(c2.id).toBe(c1.id);
   });
 
@@ -221,7 +275,10 @@ describe('test tool (local payment fake): Idempotency-Key', () => {
       { idempotencyKey: key },
     );
     const error = await h.stripe.billing.meterEvents
-      .create({ event_name: METER_EVENT_NAME, payload: { stripe_customer_id: customer.id, value: '9' } }, { idempotencyKey: key })
+      .create(
+        { event_name: METER_EVENT_NAME, payload: { stripe_customer_id: customer.id, value: '9' } },
+        { idempotencyKey: key },
+      )
       .catch((e: unknown) => e);
     expect(error).toBeInstanceOf(Stripe.errors.StripeIdempotencyError);
     expect(error).toMatchObject({ statusCode: 400, rawType: 'idempotency_error' });

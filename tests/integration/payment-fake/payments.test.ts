@@ -18,7 +18,10 @@ async function declinedSubscriptionWithUsage(units: number) {
   const { customer } = await customerWithCard(h.stripe, 'pm_card_chargeDeclined', 'finance@example.test');
   const sub = await h.stripe.subscriptions.create({
     customer: customer.id,
-    items: [{ price: prices.get(PLANS.crew.baseLookupKey)!.id }, { price: prices.get(PLANS.crew.meteredLookupKey)!.id }],
+    items: [
+      { price: prices.get(PLANS.crew.baseLookupKey)!.id },
+      { price: prices.get(PLANS.crew.meteredLookupKey)!.id },
+    ],
   });
   await h.stripe.billing.meterEvents.create({
     event_name: METER_EVENT_NAME,
@@ -38,13 +41,24 @@ describe('test tool (local payment fake): a declined card', () => {
   it('past_due + invoice.payment_failed, then the card is fixed and the invoice paid: active again', async () => {
     const { customer, sub, invoice, subscription } = await declinedSubscriptionWithUsage(6);
     const due = estimateChargeCents('crew', 6);
-    expect(invoice).toMatchObject({ status: 'open', amount_due: due, amount_paid: 0, amount_remaining: due, attempt_count: 1 });
+    expect(invoice).toMatchObject({
+      status: 'open',
+      amount_due: due,
+      amount_paid: 0,
+      amount_remaining: due,
+      attempt_count: 1,
+    });
     expect(subscription.status).toBe('past_due');
 
-    const failed = await h.receiver.waitFor((e) => e.type === 'invoice.payment_failed' && invoiceOf(e).id === invoice.id);
+    const failed = await h.receiver.waitFor(
+      (e) => e.type === 'invoice.payment_failed' && invoiceOf(e).id === invoice.id,
+    );
     expect(invoiceOf(failed).amount_due).toBe(due);
     const pastDue = await h.receiver.waitFor(
-      (e) => e.type === 'customer.subscription.updated' && subscriptionOf(e).id === sub.id && subscriptionOf(e).status === 'past_due',
+      (e) =>
+        e.type === 'customer.subscription.updated' &&
+        subscriptionOf(e).id === sub.id &&
+        subscriptionOf(e).status === 'past_due',
     );
     expect(pastDue.data.previous_attributes).toMatchObject({ status: 'active' });
 
@@ -61,7 +75,10 @@ describe('test tool (local payment fake): a declined card', () => {
 
     await h.receiver.waitFor((e) => e.type === 'invoice.paid' && invoiceOf(e).id === invoice.id);
     const active = await h.receiver.waitFor(
-      (e) => e.type === 'customer.subscription.updated' && subscriptionOf(e).id === sub.id && subscriptionOf(e).status === 'active',
+      (e) =>
+        e.type === 'customer.subscription.updated' &&
+        subscriptionOf(e).id === sub.id &&
+        subscriptionOf(e).status === 'active',
     );
     expect(active.data.previous_attributes).toMatchObject({ status: 'past_due' });
     expect((await h.stripe.subscriptions.retrieve(sub.id)).status).toBe('active');
@@ -82,7 +99,10 @@ describe('test tool (local payment fake): a declined card', () => {
     const customer = await h.stripe.customers.create({ email: 'nocard@example.test' });
     const sub = await h.stripe.subscriptions.create({
       customer: customer.id,
-      items: [{ price: prices.get(PLANS.fleet.baseLookupKey)!.id }, { price: prices.get(PLANS.fleet.meteredLookupKey)!.id }],
+      items: [
+        { price: prices.get(PLANS.fleet.baseLookupKey)!.id },
+        { price: prices.get(PLANS.fleet.meteredLookupKey)!.id },
+      ],
     });
     const { body } = await h.control<{ subscription: Stripe.Subscription; invoice: Stripe.Invoice }>('/_fake/advance', {
       subscription: sub.id,
@@ -100,7 +120,10 @@ describe('test tool (local payment fake): hosted invoice and PDF', () => {
     const { customer } = await customerWithCard(h.stripe, 'pm_card_visa', 'pdf@example.test');
     const sub = await h.stripe.subscriptions.create({
       customer: customer.id,
-      items: [{ price: prices.get(PLANS.crew.baseLookupKey)!.id }, { price: prices.get(PLANS.crew.meteredLookupKey)!.id }],
+      items: [
+        { price: prices.get(PLANS.crew.baseLookupKey)!.id },
+        { price: prices.get(PLANS.crew.meteredLookupKey)!.id },
+      ],
     });
     await h.stripe.billing.meterEvents.create({
       event_name: METER_EVENT_NAME,

@@ -8,7 +8,10 @@ async function subscribeCrew(h: Harness, customer: string): Promise<Stripe.Subsc
   const prices = await catalogue(h.stripe);
   return h.stripe.subscriptions.create({
     customer,
-    items: [{ price: prices.get(PLANS.crew.baseLookupKey)!.id }, { price: prices.get(PLANS.crew.meteredLookupKey)!.id }],
+    items: [
+      { price: prices.get(PLANS.crew.baseLookupKey)!.id },
+      { price: prices.get(PLANS.crew.meteredLookupKey)!.id },
+    ],
   });
 }
 
@@ -25,7 +28,9 @@ describe('test tool (local payment fake): authentication', () => {
     { name: 'a wrong test key', key: 'sk_test_wrong' },
     { name: 'a live key', key: 'sk_live_tropopass' },
   ])('$name is a 401 StripeAuthenticationError', async ({ key }) => {
-    const error = await sdkFor(h.fake, key).customers.list().catch((e: unknown) => e);
+    const error = await sdkFor(h.fake, key)
+      .customers.list()
+      .catch((e: unknown) => e);
     expect(error).toBeInstanceOf(Stripe.errors.StripeAuthenticationError);
     expect(error).toMatchObject({ statusCode: 401 });
   });
@@ -62,7 +67,11 @@ describe('test tool (local payment fake): restart', () => {
     const { customer } = await customerWithCard(h.stripe, 'pm_card_visa', 'persist@example.test');
     const sub = await subscribeCrew(h, customer.id);
     const event = await h.stripe.billing.meterEvents.create(
-      { event_name: METER_EVENT_NAME, payload: { stripe_customer_id: customer.id, value: '5' }, identifier: 'persist_1' },
+      {
+        event_name: METER_EVENT_NAME,
+        payload: { stripe_customer_id: customer.id, value: '5' },
+        identifier: 'persist_1',
+      },
       { idempotencyKey: 'persist_key_1' },
     );
     const { body: advanced } = await h.control<{ invoice: Stripe.Invoice }>('/_fake/advance', { subscription: sub.id });
@@ -71,7 +80,9 @@ describe('test tool (local payment fake): restart', () => {
     await h.restart();
     expect(h.fake.port).not.toBe(oldPort);
 
-    expect((await h.stripe.customers.retrieve(customer.id)) as Stripe.Customer).toMatchObject({ email: 'persist@example.test' });
+    expect((await h.stripe.customers.retrieve(customer.id)) as Stripe.Customer).toMatchObject({
+      email: 'persist@example.test',
+    });
     const again = await h.stripe.subscriptions.retrieve(sub.id);
     expect(again.status).toBe('active');
     expect(again.latest_invoice).toBe(advanced.invoice.id);
@@ -80,7 +91,11 @@ describe('test tool (local payment fake): restart', () => {
     expect(invoice.hosted_invoice_url).toBe(`${h.fake.url}/_fake/invoices/${invoice.id}`);
 
     const replay = await h.stripe.billing.meterEvents.create(
-      { event_name: METER_EVENT_NAME, payload: { stripe_customer_id: customer.id, value: '5' }, identifier: 'persist_1' },
+      {
+        event_name: METER_EVENT_NAME,
+        payload: { stripe_customer_id: customer.id, value: '5' },
+        identifier: 'persist_1',
+      },
       { idempotencyKey: 'persist_key_1' },
     );
     expect(replay).toEqual(event);
@@ -124,7 +139,9 @@ describe('test tool (local payment fake): webhook delivery', () => {
   it('events carry the API shape and verify with constructEvent', async () => {
     const customer = await h.stripe.customers.create({ email: 'hook@example.test' });
     const sub = await subscribeCrew(h, customer.id);
-    const event = await h.receiver.waitFor((e) => e.type === 'customer.subscription.created' && (e.data.object as Stripe.Subscription).id === sub.id);
+    const event = await h.receiver.waitFor(
+      (e) => e.type === 'customer.subscription.created' && (e.data.object as Stripe.Subscription).id === sub.id,
+    );
     expect(event).toMatchObject({ object: 'event', livemode: false, api_version: expect.any(String) as string });
     expect(event.created).toBeGreaterThan(0);
     expect(event.request?.idempotency_key).toMatch(/^stripe-node-retry-/);
@@ -138,7 +155,9 @@ describe('test tool (local payment fake): webhook delivery', () => {
     const sub = await subscribeCrew(h, customer.id);
     while (h.receiver.refused < 2) await new Promise((resolve) => setTimeout(resolve, 10));
     h.receiver.downStatus = null;
-    const event = await h.receiver.waitFor((e) => e.type === 'customer.subscription.created' && (e.data.object as Stripe.Subscription).id === sub.id);
+    const event = await h.receiver.waitFor(
+      (e) => e.type === 'customer.subscription.created' && (e.data.object as Stripe.Subscription).id === sub.id,
+    );
     await h.fake.webhooksIdle();
     const { body } = await h.control<FakeState>('/_fake/state');
     const attempts = body.deliveries.filter((d) => d.eventId === event.id);
@@ -161,7 +180,9 @@ describe('test tool (local payment fake): webhook delivery', () => {
 
     h.receiver.downStatus = null;
     for (let i = 0; i < 3; i++) {
-      const resent = await h.control<{ delivered: boolean; status: number }>('/_fake/webhooks/resend', { eventId: created.id });
+      const resent = await h.control<{ delivered: boolean; status: number }>('/_fake/webhooks/resend', {
+        eventId: created.id,
+      });
       expect(resent.body).toMatchObject({ delivered: true, status: 200 });
     }
     const copies = h.receiver.events.filter((e) => e.id === created.id);

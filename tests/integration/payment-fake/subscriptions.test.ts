@@ -65,7 +65,10 @@ describe('test tool (local payment fake): plan catalogue created at start-up', (
 
 describe('test tool (local payment fake): subscriptions', () => {
   it('subscribing with a 14-day trial is trialing, and sends customer.subscription.created', async () => {
-    const customer = await h.stripe.customers.create({ email: 'trial@example.test', metadata: { workspace: 'ws_trial' } });
+    const customer = await h.stripe.customers.create({
+      email: 'trial@example.test',
+      metadata: { workspace: 'ws_trial' },
+    });
     const before = Math.floor(Date.now() / 1000);
     const sub = await h.stripe.subscriptions.create({
       customer: customer.id,
@@ -83,7 +86,9 @@ describe('test tool (local payment fake): subscriptions', () => {
     const metered = sub.items.data.find((i) => i.price.recurring?.usage_type === 'metered')!;
     expect(metered.quantity).toBeUndefined();
 
-    const event = await h.receiver.waitFor((e) => e.type === 'customer.subscription.created' && (e.data.object as Stripe.Subscription).id === sub.id);
+    const event = await h.receiver.waitFor(
+      (e) => e.type === 'customer.subscription.created' && (e.data.object as Stripe.Subscription).id === sub.id,
+    );
     expect(event.object).toBe('event');
     expect(event.id).toMatch(/^evt_/);
     expect((event.data.object as Stripe.Subscription).status).toBe('trialing');
@@ -105,7 +110,9 @@ describe('test tool (local payment fake): subscriptions', () => {
 
     const listed = await h.stripe.subscriptions.list({ customer: customer.id });
     expect(listed.data.map((s) => s.id)).toEqual([sub.id]);
-    const expanded = await h.stripe.subscriptions.retrieve(sub.id, { expand: ['customer', 'items.data.price.product'] });
+    const expanded = await h.stripe.subscriptions.retrieve(sub.id, {
+      expand: ['customer', 'items.data.price.product'],
+    });
     expect((expanded.customer as Stripe.Customer).email).toBe(customer.email);
     expect((expanded.items.data[0].price.product as Stripe.Product).id).toBe(PLANS.fleet.productId);
   });
@@ -151,7 +158,9 @@ describe('test tool (local payment fake): subscriptions', () => {
     });
     expect(body.subscription.status).toBe('canceled');
     expect(body.invoice.status).toBe('paid');
-    await h.receiver.waitFor((e) => e.type === 'customer.subscription.deleted' && (e.data.object as Stripe.Subscription).id === sub.id);
+    await h.receiver.waitFor(
+      (e) => e.type === 'customer.subscription.deleted' && (e.data.object as Stripe.Subscription).id === sub.id,
+    );
     const listedActive = await h.stripe.subscriptions.list({ customer: customer.id });
     expect(listedActive.data).toHaveLength(0);
     const listedAll = await h.stripe.subscriptions.list({ customer: customer.id, status: 'all' });
@@ -160,7 +169,11 @@ describe('test tool (local payment fake): subscriptions', () => {
 
   it('trial_end=now ends the trial: a $0 invoice and an active subscription', async () => {
     const { customer } = await customerWithCard(h.stripe, 'pm_card_visa');
-    const sub = await h.stripe.subscriptions.create({ customer: customer.id, items: planItems('crew'), trial_period_days: TRIAL_DAYS });
+    const sub = await h.stripe.subscriptions.create({
+      customer: customer.id,
+      items: planItems('crew'),
+      trial_period_days: TRIAL_DAYS,
+    });
     const ended = await h.stripe.subscriptions.update(sub.id, { trial_end: 'now', expand: ['latest_invoice'] });
     expect(ended.status).toBe('active');
     expect(ended.trial_end).toBeLessThan(sub.trial_end!);
@@ -174,9 +187,14 @@ describe('test tool (local payment fake): subscriptions', () => {
   it('lists expand through data.*', async () => {
     const { customer } = await customerWithCard(h.stripe, 'pm_card_visa', 'expand@example.test');
     await h.stripe.subscriptions.create({ customer: customer.id, items: planItems('fleet') });
-    const list = await h.stripe.subscriptions.list({ customer: customer.id, expand: ['data.customer', 'data.default_payment_method'] });
+    const list = await h.stripe.subscriptions.list({
+      customer: customer.id,
+      expand: ['data.customer', 'data.default_payment_method'],
+    });
     expect((list.data[0].customer as Stripe.Customer).email).toBe('expand@example.test');
-    const bad = await h.stripe.subscriptions.list({ customer: customer.id, expand: ['data.status'] }).catch((e: unknown) => e);
+    const bad = await h.stripe.subscriptions
+      .list({ customer: customer.id, expand: ['data.status'] })
+      .catch((e: unknown) => e);
     expect(bad).toBeInstanceOf(Stripe.errors.StripeInvalidRequestError);
   });
 
@@ -197,7 +215,13 @@ describe('test tool (local payment fake): subscriptions', () => {
 });
 
 describe('test tool (local payment fake): request validation, as the API answers it', () => {
-  const cases: { name: string; call: (s: Stripe, customer: string) => Promise<unknown>; status: number; code?: string; param?: string }[] = [
+  const cases: {
+    name: string;
+    call: (s: Stripe, customer: string) => Promise<unknown>;
+    status: number;
+    code?: string;
+    param?: string;
+  }[] = [
     {
       name: 'unknown price',
       call: (s, customer) => s.subscriptions.create({ customer, items: [{ price: 'price_nope' }] }),

@@ -7,10 +7,19 @@ describe('test tool (local payment fake): form bodies with bracketed keys', () =
   it.each<{ body: string; expected: ParamObject }>([
     { body: 'email=a%40b.test&name=A+B', expected: { email: 'a@b.test', name: 'A B' } },
     { body: 'metadata[k]=v&metadata[7]=x', expected: { metadata: { k: 'v', 7: 'x' } } },
-    { body: 'items[0][price]=p1&items[1][price]=p2&items[1][quantity]=3', expected: { items: { 0: { price: 'p1' }, 1: { price: 'p2', quantity: '3' } } } },
+    {
+      body: 'items[0][price]=p1&items[1][price]=p2&items[1][quantity]=3',
+      expected: { items: { 0: { price: 'p1' }, 1: { price: 'p2', quantity: '3' } } },
+    },
     { body: 'expand[]=a&expand[]=b.c', expected: { expand: ['a', 'b.c'] } },
-    { body: 'payload%5Bstripe_customer_id%5D=cus_1&payload%5Bvalue%5D=3', expected: { payload: { stripe_customer_id: 'cus_1', value: '3' } } },
-    { body: 'invoice_settings[default_payment_method]=', expected: { invoice_settings: { default_payment_method: '' } } },
+    {
+      body: 'payload%5Bstripe_customer_id%5D=cus_1&payload%5Bvalue%5D=3',
+      expected: { payload: { stripe_customer_id: 'cus_1', value: '3' } },
+    },
+    {
+      body: 'invoice_settings[default_payment_method]=',
+      expected: { invoice_settings: { default_payment_method: '' } },
+    },
     { body: 'odd]key=1&a[b=2', expected: { 'odd]key': '1', 'a[b': '2' } },
   ])('$body', ({ body, expected }) => {
     expect(parseForm(body)).toEqual(expected);
@@ -50,7 +59,11 @@ describe('test tool (local payment fake): raw HTTP against the fake', () => {
     expect(created.status).toBe(200);
     expect(created.headers.get('stripe-version')).toBe('2025-11-17.clover');
     expect(created.headers.get('request-id')).toMatch(/^req_/);
-    expect(created.body).toMatchObject({ object: 'customer', email: 'raw@example.test', metadata: { workspace: 'ws_1' } });
+    expect(created.body).toMatchObject({
+      object: 'customer',
+      email: 'raw@example.test',
+      metadata: { workspace: 'ws_1' },
+    });
     const event = await post(
       '/v1/billing/meter_events',
       `event_name=${METER_EVENT_NAME}&payload%5Bstripe_customer_id%5D=${String(created.body.id)}&payload%5Bvalue%5D=2`,
@@ -63,7 +76,12 @@ describe('test tool (local payment fake): raw HTTP against the fake', () => {
     const res = await post('/v1/customers', 'nonsense=1');
     expect(res.status).toBe(400);
     expect(res.body).toEqual({
-      error: { type: 'invalid_request_error', code: 'parameter_unknown', message: 'Received unknown parameter: nonsense', param: 'nonsense' },
+      error: {
+        type: 'invalid_request_error',
+        code: 'parameter_unknown',
+        message: 'Received unknown parameter: nonsense',
+        param: 'nonsense',
+      },
     });
   });
 

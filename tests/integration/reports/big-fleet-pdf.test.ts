@@ -37,7 +37,11 @@ describe.skipIf(onPostgres())('a report of a big fleet', () => {
     const started = Date.now();
     await bulkFlights(ws.id, [fleetA, fleetB], [t1, t2]);
     expect(Date.now() - started).toBeLessThan(10_000);
-    const sums = (await db()('flights').where({ workspace_id: ws.id }).sum({ fuel: 'fuel_kg', distance: 'distance_km', nox: 'nox_total_kg', above: 'nox_above_kg' }).count({ n: '*' }).first()) as {
+    const sums = (await db()('flights')
+      .where({ workspace_id: ws.id })
+      .sum({ fuel: 'fuel_kg', distance: 'distance_km', nox: 'nox_total_kg', above: 'nox_above_kg' })
+      .count({ n: '*' })
+      .first()) as {
       fuel: number;
       distance: number;
       nox: number;
@@ -46,9 +50,18 @@ describe.skipIf(onPostgres())('a report of a big fleet', () => {
     };
     expect(Number(sums.n)).toBe(FLIGHTS);
 
-    const r = await call<{ id: number }>(reportsRoute.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/reports`, { cookie, body: { name: 'Big fleet', from: '2026-08-01', to: '2026-10-31', fleetIds: [fleetA, fleetB] } }), { slug: ws.slug });
+    const r = await call<{ id: number }>(
+      reportsRoute.POST,
+      apiRequest('POST', `/api/v1/workspaces/${ws.slug}/reports`, {
+        cookie,
+        body: { name: 'Big fleet', from: '2026-08-01', to: '2026-10-31', fleetIds: [fleetA, fleetB] },
+      }),
+      { slug: ws.slug },
+    );
     expect(r.status).toBe(201);
-    const res = await (pdfRoute.GET as unknown as (q: Request, c: { params: Promise<Record<string, string>> }) => Promise<Response>)(apiRequest('GET', `/api/v1/workspaces/${ws.slug}/reports/${r.body.id}/pdf`, { cookie }), {
+    const res = await (
+      pdfRoute.GET as unknown as (q: Request, c: { params: Promise<Record<string, string>> }) => Promise<Response>
+    )(apiRequest('GET', `/api/v1/workspaces/${ws.slug}/reports/${r.body.id}/pdf`, { cookie }), {
       params: Promise.resolve({ slug: ws.slug, id: String(r.body.id) }),
     });
     const parser = new PDFParse({ data: new Uint8Array(await res.arrayBuffer()) });
@@ -64,7 +77,8 @@ describe.skipIf(onPostgres())('a report of a big fleet', () => {
     expect(flat).toContain('100,128');
     // The totals, scaled: 1 Mt = 10^9 kg, 1 kt = 10^6 kg (SI prefixes on the tonne).
     const mt = (kg: number) => `${(kg / 1e9).toFixed(2)} Mt`;
-    const kt = (kg: number) => `${(kg / 1e6).toLocaleString('en-GB', { minimumFractionDigits: 1, maximumFractionDigits: 1 })} kt`;
+    const kt = (kg: number) =>
+      `${(kg / 1e6).toLocaleString('en-GB', { minimumFractionDigits: 1, maximumFractionDigits: 1 })} kt`;
     expect(flat).toContain(mt(Number(sums.fuel)));
     expect(flat).toContain(mt(Number(sums.fuel) * 3.16));
     expect(flat).toContain(kt(Number(sums.nox)));

@@ -50,7 +50,17 @@ beforeAll(async () => {
     [t2, 'LR-2', '2026-11-01', 5500, 42000, 520, 130],
   ];
   for (const [typeId, code, date, distanceKm, fuelKg, noxKg, noxAboveKg] of rows) {
-    await insertFlight(ws.id, { date, flight: 'RP', typeId, code, distanceKm, fuelKg, noxKg, noxAboveKg, ozone: [noxAboveKg * 2, noxAboveKg * 0.4, noxAboveKg * 9] });
+    await insertFlight(ws.id, {
+      date,
+      flight: 'RP',
+      typeId,
+      code,
+      distanceKm,
+      fuelKg,
+      noxKg,
+      noxAboveKg,
+      ozone: [noxAboveKg * 2, noxAboveKg * 0.4, noxAboveKg * 9],
+    });
   }
 });
 
@@ -60,7 +70,11 @@ const BODY = () => ({ name: 'Q4 polar fleets', from: '2026-09-01', to: '2026-11-
 interface ReportJson {
   id: number;
   name: string;
-  summary: { totals: { flights: number; noxTotalKg: number; noxAboveKg: number; fuelKg: number }; fleets: { id: number; name: string }[]; units: string };
+  summary: {
+    totals: { flights: number; noxTotalKg: number; noxAboveKg: number; fuelKg: number };
+    fleets: { id: number; name: string }[];
+    units: string;
+  };
   links: { pdf: string; csv: string };
 }
 
@@ -69,9 +83,12 @@ async function build(cookie = analyst, body: unknown = BODY()) {
 }
 
 async function download(route: unknown, id: number, kind: 'pdf' | 'csv', cookie = analyst): Promise<Response> {
-  return (route as (r: Request, c: { params: Promise<Record<string, string>> }) => Promise<Response>)(apiRequest('GET', `${base()}/${id}/${kind}`, { cookie }), {
-    params: Promise.resolve({ slug: ws.slug, id: String(id) }),
-  });
+  return (route as (r: Request, c: { params: Promise<Record<string, string>> }) => Promise<Response>)(
+    apiRequest('GET', `${base()}/${id}/${kind}`, { cookie }),
+    {
+      params: Promise.resolve({ slug: ws.slug, id: String(id) }),
+    },
+  );
 }
 
 describe('reports: build, store, list', () => {
@@ -83,10 +100,18 @@ describe('reports: build, store, list', () => {
     expect(r.body.summary.totals.noxAboveKg).toBeCloseTo(450 + 320 + 100 + 130, 6);
     expect(r.body.summary.fleets.map((f) => f.id).sort()).toEqual([fleetA, fleetB].sort());
     expect(r.body.links.pdf).toBe(`${base()}/${r.body.id}/pdf`);
-    const list = await call<{ items: { id: number; name: string; fleetNames: string[] }[] }>(reportsRoute.GET, apiRequest('GET', base(), { cookie: await sessionCookie(ws.members.viewer.id) }), { slug: ws.slug });
+    const list = await call<{ items: { id: number; name: string; fleetNames: string[] }[] }>(
+      reportsRoute.GET,
+      apiRequest('GET', base(), { cookie: await sessionCookie(ws.members.viewer.id) }),
+      { slug: ws.slug },
+    );
     expect(list.status).toBe(200);
     expect(list.body.items[0]).toMatchObject({ id: r.body.id, name: 'Q4 polar fleets' });
-    const one = await call<ReportJson & { sendHistory: unknown[] }>(reportRoute.GET, apiRequest('GET', `${base()}/${r.body.id}`, { cookie: analyst }), { slug: ws.slug, id: String(r.body.id) });
+    const one = await call<ReportJson & { sendHistory: unknown[] }>(
+      reportRoute.GET,
+      apiRequest('GET', `${base()}/${r.body.id}`, { cookie: analyst }),
+      { slug: ws.slug, id: String(r.body.id) },
+    );
     expect(one.body.sendHistory).toEqual([]);
   });
 
@@ -153,7 +178,11 @@ describe('reports: build, store, list', () => {
     const foreign = await build(analyst, { ...BODY(), fleetIds: [fleetA, foreignFleet] });
     expect(foreign.status).toBe(422);
     expect(foreign.body.error?.fields?.[0]?.path).toBe('fleetIds.1');
-    const broken = await call(reportsRoute.POST, apiRequest('POST', base(), { cookie: analyst, rawBody: '{', headers: { 'content-type': 'application/json' } }), { slug: ws.slug });
+    const broken = await call(
+      reportsRoute.POST,
+      apiRequest('POST', base(), { cookie: analyst, rawBody: '{', headers: { 'content-type': 'application/json' } }),
+      { slug: ws.slug },
+    );
     expect(broken.status).toBe(400);
     expect(await db()('reports').where({ workspace_id: ws.id }).count({ n: '*' }).first()).toEqual(before);
   });
@@ -162,23 +191,36 @@ describe('reports: build, store, list', () => {
     const r = await build(analyst, { ...BODY(), fleetIds: [fleetC] });
     expect(r.status).toBe(201);
     expect(r.body.summary.totals.flights).toBe(0);
-    const parser = new PDFParse({ data: new Uint8Array(await (await download(pdfRoute.GET, r.body.id, 'pdf')).arrayBuffer()) });
+    const parser = new PDFParse({
+      data: new Uint8Array(await (await download(pdfRoute.GET, r.body.id, 'pdf')).arrayBuffer()),
+    });
     expect((await parser.getText()).text).toMatch(/No screened flights of these fleets in this period/);
     await parser.destroy();
   });
 
   it('401, 403 (viewer and planner cannot build), 404 (stranger, unknown id)', async () => {
     const r = await build();
-    expect((await call(reportsRoute.POST, apiRequest('POST', base(), { body: BODY() }), { slug: ws.slug })).status).toBe(401);
+    expect(
+      (await call(reportsRoute.POST, apiRequest('POST', base(), { body: BODY() }), { slug: ws.slug })).status,
+    ).toBe(401);
     expect((await build(await sessionCookie(ws.members.viewer.id))).status).toBe(403);
     expect((await build(await sessionCookie(ws.members.planner.id))).status).toBe(403);
     const other = await makeWorkspace();
     const stranger = await sessionCookie(other.owner.id);
     expect((await download(pdfRoute.GET, r.body.id, 'pdf', stranger)).status).toBe(404);
     expect((await download(csvRoute.GET, 999999, 'csv')).status).toBe(404);
-    expect((await call(reportRoute.GET, apiRequest('GET', `${base()}/999999`, { cookie: analyst }), { slug: ws.slug, id: '999999' })).status).toBe(404);
+    expect(
+      (
+        await call(reportRoute.GET, apiRequest('GET', `${base()}/999999`, { cookie: analyst }), {
+          slug: ws.slug,
+          id: '999999',
+        })
+      ).status,
+    ).toBe(404);
     // A viewer may read and download.
-    expect((await download(pdfRoute.GET, r.body.id, 'pdf', await sessionCookie(ws.members.viewer.id))).status).toBe(200);
+    expect((await download(pdfRoute.GET, r.body.id, 'pdf', await sessionCookie(ws.members.viewer.id))).status).toBe(
+      200,
+    );
   });
 });
 
@@ -188,7 +230,10 @@ describe('reports: send by e-mail', () => {
     const recipients = ['ops-lead@example.test', 'Board@Example.test'];
     const sent = await call<{ id: number; status: string; messageId: string; recipients: string[] }>(
       sendRoute.POST,
-      apiRequest('POST', `${base()}/${r.body.id}/send`, { cookie: analyst, body: { recipients, note: 'For the quarterly review.' } }),
+      apiRequest('POST', `${base()}/${r.body.id}/send`, {
+        cookie: analyst,
+        body: { recipients, note: 'For the quarterly review.' },
+      }),
       { slug: ws.slug, id: String(r.body.id) },
     );
     expect(sent.status).toBe(201);
@@ -207,7 +252,11 @@ describe('reports: send by e-mail', () => {
     const row = await db()('report_sends').where({ report_id: r.body.id }).first();
     expect(row).toMatchObject({ status: 'sent', sent_by: ws.members.analyst.id, error: null });
     expect(row.message_id).toBe(sent.body.messageId);
-    const one = await call<{ sends: number; sendHistory: { status: string }[] }>(reportRoute.GET, apiRequest('GET', `${base()}/${r.body.id}`, { cookie: analyst }), { slug: ws.slug, id: String(r.body.id) });
+    const one = await call<{ sends: number; sendHistory: { status: string }[] }>(
+      reportRoute.GET,
+      apiRequest('GET', `${base()}/${r.body.id}`, { cookie: analyst }),
+      { slug: ws.slug, id: String(r.body.id) },
+    );
     expect(one.body.sends).toBe(1);
     expect(one.body.sendHistory.map((s) => s.status)).toEqual(['sent']);
   });
@@ -218,17 +267,31 @@ describe('reports: send by e-mail', () => {
     const p = { slug: ws.slug, id: String(r.body.id) };
     const count = fake.messages().length;
     const many = Array.from({ length: 21 }, (_, i) => `r${i}@example.test`);
-    const tooMany = await call(sendRoute.POST, apiRequest('POST', url, { cookie: analyst, body: { recipients: many } }), p);
+    const tooMany = await call(
+      sendRoute.POST,
+      apiRequest('POST', url, { cookie: analyst, body: { recipients: many } }),
+      p,
+    );
     expect(tooMany.status).toBe(422);
     expect(tooMany.body.error?.fields?.[0]?.path).toBe('recipients');
-    const badOne = await call(sendRoute.POST, apiRequest('POST', url, { cookie: analyst, body: { recipients: ['a@example.test', 'not an address'] } }), p);
+    const badOne = await call(
+      sendRoute.POST,
+      apiRequest('POST', url, { cookie: analyst, body: { recipients: ['a@example.test', 'not an address'] } }),
+      p,
+    );
     expect(badOne.body.error?.fields?.[0]?.path).toBe('recipients.1');
-    const twice = await call(sendRoute.POST, apiRequest('POST', url, { cookie: analyst, body: { recipients: ['a@example.test', 'A@example.test'] } }), p);
+    const twice = await call(
+      sendRoute.POST,
+      apiRequest('POST', url, { cookie: analyst, body: { recipients: ['a@example.test', 'A@example.test'] } }),
+      p,
+    );
     expect(twice.body.error?.fields?.[0]?.path).toBe('recipients.1');
     const none = await call(sendRoute.POST, apiRequest('POST', url, { cookie: analyst, body: { recipients: [] } }), p);
     expect(none.status).toBe(422);
     expect(fake.messages().length).toBe(count);
-    expect(await db()('report_sends').where({ report_id: r.body.id }).count({ n: '*' }).first()).toMatchObject({ n: 0 });
+    expect(await db()('report_sends').where({ report_id: r.body.id }).count({ n: '*' }).first()).toMatchObject({
+      n: 0,
+    });
   });
 
   it('a planner or viewer cannot send (403); a stranger gets 404; unknown report 404', async () => {
@@ -236,11 +299,37 @@ describe('reports: send by e-mail', () => {
     const url = `${base()}/${r.body.id}/send`;
     const p = { slug: ws.slug, id: String(r.body.id) };
     const body = { recipients: ['x@example.test'] };
-    expect((await call(sendRoute.POST, apiRequest('POST', url, { cookie: await sessionCookie(ws.members.planner.id), body }), p)).status).toBe(403);
-    expect((await call(sendRoute.POST, apiRequest('POST', url, { cookie: await sessionCookie(ws.members.viewer.id), body }), p)).status).toBe(403);
+    expect(
+      (
+        await call(
+          sendRoute.POST,
+          apiRequest('POST', url, { cookie: await sessionCookie(ws.members.planner.id), body }),
+          p,
+        )
+      ).status,
+    ).toBe(403);
+    expect(
+      (
+        await call(
+          sendRoute.POST,
+          apiRequest('POST', url, { cookie: await sessionCookie(ws.members.viewer.id), body }),
+          p,
+        )
+      ).status,
+    ).toBe(403);
     const other = await makeWorkspace();
-    expect((await call(sendRoute.POST, apiRequest('POST', url, { cookie: await sessionCookie(other.owner.id), body }), p)).status).toBe(404);
-    expect((await call(sendRoute.POST, apiRequest('POST', `${base()}/999999/send`, { cookie: analyst, body }), { slug: ws.slug, id: '999999' })).status).toBe(404);
+    expect(
+      (await call(sendRoute.POST, apiRequest('POST', url, { cookie: await sessionCookie(other.owner.id), body }), p))
+        .status,
+    ).toBe(404);
+    expect(
+      (
+        await call(sendRoute.POST, apiRequest('POST', `${base()}/999999/send`, { cookie: analyst, body }), {
+          slug: ws.slug,
+          id: '999999',
+        })
+      ).status,
+    ).toBe(404);
     expect(fake.messages().some((m) => m.to.includes('x@example.test'))).toBe(false);
   });
 
@@ -248,24 +337,48 @@ describe('reports: send by e-mail', () => {
     const busy = await makeWorkspace(['analyst']);
     const cookie = await sessionCookie(busy.members.analyst.id);
     const fleet = await insertFleet(busy.id, 'Busy fleet');
-    const built = await call<ReportJson>(reportsRoute.POST, apiRequest('POST', `/api/v1/workspaces/${busy.slug}/reports`, { cookie, body: { ...BODY(), fleetIds: [fleet] } }), { slug: busy.slug });
+    const built = await call<ReportJson>(
+      reportsRoute.POST,
+      apiRequest('POST', `/api/v1/workspaces/${busy.slug}/reports`, { cookie, body: { ...BODY(), fleetIds: [fleet] } }),
+      { slug: busy.slug },
+    );
     expect(built.status).toBe(201);
     const url = `/api/v1/workspaces/${busy.slug}/reports/${built.body.id}/send`;
     const p = { slug: busy.slug, id: String(built.body.id) };
     // The limit is 4 sends an hour in this file.
     for (let i = 0; i < 4; i++) {
-      expect((await call(sendRoute.POST, apiRequest('POST', url, { cookie, body: { recipients: [`burst${i}@example.test`] } }), p)).status).toBe(201);
+      expect(
+        (
+          await call(
+            sendRoute.POST,
+            apiRequest('POST', url, { cookie, body: { recipients: [`burst${i}@example.test`] } }),
+            p,
+          )
+        ).status,
+      ).toBe(201);
     }
     const before = fake.messages().length;
-    const refused = await sendRoute.POST(apiRequest('POST', url, { cookie, body: { recipients: ['one-more@example.test'] } }), { params: Promise.resolve(p) });
+    const refused = await sendRoute.POST(
+      apiRequest('POST', url, { cookie, body: { recipients: ['one-more@example.test'] } }),
+      { params: Promise.resolve(p) },
+    );
     expect(refused.status).toBe(429);
     expect(Number(refused.headers.get('retry-after'))).toBeGreaterThan(0);
     expect(((await refused.json()) as { error: { message: string } }).error.message).toMatch(/report e-mails/);
     expect(fake.messages().length).toBe(before);
-    expect(Number((await db()('report_sends').where({ report_id: built.body.id }).count({ n: '*' }).first())?.n)).toBe(4);
+    expect(Number((await db()('report_sends').where({ report_id: built.body.id }).count({ n: '*' }).first())?.n)).toBe(
+      4,
+    );
     // Another workspace still sends.
     const r = await build();
-    const ok = await call(sendRoute.POST, apiRequest('POST', `${base()}/${r.body.id}/send`, { cookie: analyst, body: { recipients: ['elsewhere@example.test'] } }), { slug: ws.slug, id: String(r.body.id) });
+    const ok = await call(
+      sendRoute.POST,
+      apiRequest('POST', `${base()}/${r.body.id}/send`, {
+        cookie: analyst,
+        body: { recipients: ['elsewhere@example.test'] },
+      }),
+      { slug: ws.slug, id: String(r.body.id) },
+    );
     expect(ok.status).toBe(201);
   });
 
@@ -273,7 +386,14 @@ describe('reports: send by e-mail', () => {
     const r = await build();
     await fake.close();
     fakeClosed = true;
-    const res = await call(sendRoute.POST, apiRequest('POST', `${base()}/${r.body.id}/send`, { cookie: analyst, body: { recipients: ['late@example.test'] } }), { slug: ws.slug, id: String(r.body.id) });
+    const res = await call(
+      sendRoute.POST,
+      apiRequest('POST', `${base()}/${r.body.id}/send`, {
+        cookie: analyst,
+        body: { recipients: ['late@example.test'] },
+      }),
+      { slug: ws.slug, id: String(r.body.id) },
+    );
     expect(res.status).toBe(503);
     expect(res.body.error?.message).toMatch(/attempt is recorded/);
     const row = await db()('report_sends').where({ report_id: r.body.id }).first();
@@ -287,21 +407,48 @@ describe('reports: delete', () => {
     const r = await build();
     const id = r.body.id;
     const p = { slug: ws.slug, id: String(id) };
-    await db()('report_sends').insert({ report_id: id, recipients: JSON.stringify(['kept@example.test']), sent_by: ws.members.analyst.id, status: 'sent', message_id: 'm-1', error: null, sent_at: new Date().toISOString() });
+    await db()('report_sends').insert({
+      report_id: id,
+      recipients: JSON.stringify(['kept@example.test']),
+      sent_by: ws.members.analyst.id,
+      status: 'sent',
+      message_id: 'm-1',
+      error: null,
+      sent_at: new Date().toISOString(),
+    });
     const keep = await build();
-    const res = await reportRoute.DELETE(apiRequest('DELETE', `${base()}/${id}`, { cookie: analyst }), { params: Promise.resolve(p) });
+    const res = await reportRoute.DELETE(apiRequest('DELETE', `${base()}/${id}`, { cookie: analyst }), {
+      params: Promise.resolve(p),
+    });
     expect(res.status).toBe(204);
-    expect((await call(reportRoute.GET, apiRequest('GET', `${base()}/${id}`, { cookie: analyst }), p)).status).toBe(404);
+    expect((await call(reportRoute.GET, apiRequest('GET', `${base()}/${id}`, { cookie: analyst }), p)).status).toBe(
+      404,
+    );
     expect((await download(pdfRoute.GET, id, 'pdf')).status).toBe(404);
     expect((await download(csvRoute.GET, id, 'csv')).status).toBe(404);
     expect(await db()('reports').where({ id }).first()).toBeUndefined();
     expect(await db()('report_sends').where({ report_id: id }).first()).toBeUndefined();
-    const audit = await db()('audit_log').where({ workspace_id: ws.id, action: 'report.delete', target: `report:${id}` }).first();
+    const audit = await db()('audit_log')
+      .where({ workspace_id: ws.id, action: 'report.delete', target: `report:${id}` })
+      .first();
     expect(audit).toBeDefined();
     expect(JSON.parse(String(audit.detail))).toMatchObject({ name: 'Q4 polar fleets', sends: 1 });
     // The other report is untouched; deleting again is 404.
-    expect((await call(reportRoute.GET, apiRequest('GET', `${base()}/${keep.body.id}`, { cookie: analyst }), { slug: ws.slug, id: String(keep.body.id) })).status).toBe(200);
-    expect((await reportRoute.DELETE(apiRequest('DELETE', `${base()}/${id}`, { cookie: analyst }), { params: Promise.resolve(p) })).status).toBe(404);
+    expect(
+      (
+        await call(reportRoute.GET, apiRequest('GET', `${base()}/${keep.body.id}`, { cookie: analyst }), {
+          slug: ws.slug,
+          id: String(keep.body.id),
+        })
+      ).status,
+    ).toBe(200);
+    expect(
+      (
+        await reportRoute.DELETE(apiRequest('DELETE', `${base()}/${id}`, { cookie: analyst }), {
+          params: Promise.resolve(p),
+        })
+      ).status,
+    ).toBe(404);
   });
 
   it('a planner or viewer cannot delete (403), a stranger gets 404, and the report stays', async () => {
@@ -309,10 +456,22 @@ describe('reports: delete', () => {
     const p = { slug: ws.slug, id: String(r.body.id) };
     const url = `${base()}/${r.body.id}`;
     for (const who of [ws.members.planner.id, ws.members.viewer.id]) {
-      expect((await reportRoute.DELETE(apiRequest('DELETE', url, { cookie: await sessionCookie(who) }), { params: Promise.resolve(p) })).status).toBe(403);
+      expect(
+        (
+          await reportRoute.DELETE(apiRequest('DELETE', url, { cookie: await sessionCookie(who) }), {
+            params: Promise.resolve(p),
+          })
+        ).status,
+      ).toBe(403);
     }
     const other = await makeWorkspace();
-    expect((await reportRoute.DELETE(apiRequest('DELETE', url, { cookie: await sessionCookie(other.owner.id) }), { params: Promise.resolve(p) })).status).toBe(404);
+    expect(
+      (
+        await reportRoute.DELETE(apiRequest('DELETE', url, { cookie: await sessionCookie(other.owner.id) }), {
+          params: Promise.resolve(p),
+        })
+      ).status,
+    ).toBe(404);
     expect(await db()('reports').where({ id: r.body.id }).first()).toBeDefined();
   });
 });

@@ -16,7 +16,8 @@ useTestDatabase({ RATE_LIMIT_EMAIL_PER_HOUR: '1000000' });
  * each must still refuse a foreign Origin, which the source check below looks for.
  */
 const PUBLIC_ACTIONS: Record<string, string> = {
-  'app/(auth)/actions.ts#signInWithPasswordAction': 'checks the e-mail and password itself, throttled like the credentials provider',
+  'app/(auth)/actions.ts#signInWithPasswordAction':
+    'checks the e-mail and password itself, throttled like the credentials provider',
   'app/(auth)/actions.ts#signUpAction': 'creates the account',
   'app/(auth)/actions.ts#requestPasswordResetAction': 'answers the same whether or not the address exists',
   'app/(auth)/actions.ts#resetPasswordAction': 'authenticated by the single-use reset token',
@@ -67,12 +68,17 @@ describe('every server action is accounted for', () => {
     const problems: string[] = [];
     for (const a of loaded) {
       if (a.fn.permission !== undefined) {
-        if (!(PERMISSIONS as readonly string[]).includes(a.fn.permission)) problems.push(`${a.id}: unknown permission ${a.fn.permission}`);
+        if (!(PERMISSIONS as readonly string[]).includes(a.fn.permission))
+          problems.push(`${a.id}: unknown permission ${a.fn.permission}`);
         continue;
       }
       if (a.fn.access === 'user' || PUBLIC_ACTIONS[a.id]) continue;
       const wrapped = FORM_ADAPTERS[a.id];
-      if (wrapped !== undefined && loaded.some((b) => b.id === `${a.id.split('#')[0]}#${wrapped}` && b.fn.permission !== undefined)) continue;
+      if (
+        wrapped !== undefined &&
+        loaded.some((b) => b.id === `${a.id.split('#')[0]}#${wrapped}` && b.fn.permission !== undefined)
+      )
+        continue;
       // The sign-in area's hand-written actions: their source must call the user guard.
       const source = discovered.actions.find((x) => `${x.file}#${x.name}` === a.id);
       if (a.id.startsWith('app/(auth)/') && source?.guards.includes('requireActionUser')) continue;
@@ -80,7 +86,10 @@ describe('every server action is accounted for', () => {
     }
     expect(problems).toEqual([]);
     const reexports = discovered.actions.filter((a) => a.name.startsWith('(re-export'));
-    expect(reexports.map((a) => `${a.file} ${a.name}`), "a 'use server' file must define its actions").toEqual([]);
+    expect(
+      reexports.map((a) => `${a.file} ${a.name}`),
+      "a 'use server' file must define its actions",
+    ).toEqual([]);
   });
 
   it('public actions call assertSameOrigin, and every name on the list still exists', () => {
@@ -112,7 +121,8 @@ describe('every role x every workspace action x own and other workspace', () => 
         const expected = can(role, permission) ? 'invalid_fields' : 'forbidden';
         if (mine !== expected) failures.push(`${a.id} as ${role} (${permission}): ${mine}, expected ${expected}`);
         const theirs = codeOf(await callAction(a, other.slug));
-        if (theirs !== 'not_found') failures.push(`${a.id} as ${role} in another workspace: ${theirs}, expected not_found`);
+        if (theirs !== 'not_found')
+          failures.push(`${a.id} as ${role} in another workspace: ${theirs}, expected not_found`);
         calls += 2;
       }
     }

@@ -1,7 +1,15 @@
 import { beforeAll, describe, expect, it } from 'vitest';
 import { apiRequest, call, makeUser, makeWorkspace, sessionCookie } from '../../support/test-db';
 import { useBillingHarness } from '../billing/harness';
-import { HTTP_METHODS, fillPattern, loadRoute, routeFiles, type HttpMethod, type RouteFile, type RouteModule } from './discover';
+import {
+  HTTP_METHODS,
+  fillPattern,
+  loadRoute,
+  routeFiles,
+  type HttpMethod,
+  type RouteFile,
+  type RouteModule,
+} from './discover';
 import { BILLING_ID_FIXTURES, ID_FIXTURES, resourceOf, type Ws } from './fixtures';
 import { API_KEY_ROLES, PERMISSIONS, ROLES, can, type Permission, type Role } from '@/lib/auth/policy';
 import { createApiKey } from '@/db/api-keys';
@@ -15,12 +23,21 @@ useBillingHarness({ RATE_LIMIT_API_PER_MIN: '1000000', RATE_LIMIT_PREVIEW_PER_MI
  */
 const NON_WORKSPACE_ROUTES: Record<string, { access: 'auth' | 'public'; reason: string }> = {
   'app/api/auth/[...nextauth]/route.ts': { access: 'public', reason: 'next-auth sign-in, sign-out and CSRF endpoints' },
-  'app/api/v1/workspaces/route.ts': { access: 'auth', reason: "the caller's own workspaces; creating one makes the caller its owner" },
+  'app/api/v1/workspaces/route.ts': {
+    access: 'auth',
+    reason: "the caller's own workspaces; creating one makes the caller its owner",
+  },
   'app/api/v1/atmosphere/route.ts': { access: 'auth', reason: 'computation only (ISA), no workspace data' },
-  'app/api/v1/tropopause/route.ts': { access: 'auth', reason: 'computation only (WMO tropopause of a posted sounding)' },
+  'app/api/v1/tropopause/route.ts': {
+    access: 'auth',
+    reason: 'computation only (WMO tropopause of a posted sounding)',
+  },
   'app/api/v1/airports/route.ts': { access: 'auth', reason: 'reference data (airport type-ahead)' },
   'app/api/v1/openapi.json/route.ts': { access: 'public', reason: 'the published API description' },
-  'app/api/webhooks/stripe/route.ts': { access: 'public', reason: 'payment events, authenticated by their signature header' },
+  'app/api/webhooks/stripe/route.ts': {
+    access: 'public',
+    reason: 'payment events, authenticated by their signature header',
+  },
   'app/api/health/route.ts': { access: 'public', reason: 'liveness probe for the load benchmark, no data' },
 };
 
@@ -32,7 +49,8 @@ beforeAll(async () => {
   for (const r of routes) modules.set(r.file, await loadRoute(r));
 });
 
-const methodsOf = (r: RouteFile): HttpMethod[] => HTTP_METHODS.filter((m) => typeof modules.get(r.file)?.[m] === 'function');
+const methodsOf = (r: RouteFile): HttpMethod[] =>
+  HTTP_METHODS.filter((m) => typeof modules.get(r.file)?.[m] === 'function');
 
 describe('every route is accounted for (server actions: actions-matrix.test.ts)', () => {
   it('discovers the route files', () => {
@@ -48,7 +66,8 @@ describe('every route is accounted for (server actions: actions-matrix.test.ts)'
       for (const m of methods) {
         const p = modules.get(r.file)?.[m]?.permission;
         if (!p) problems.push(`${r.file} ${m}: no permission (wrap it in workspaceRoute(permission, fn))`);
-        else if (!(PERMISSIONS as readonly string[]).includes(p)) problems.push(`${r.file} ${m}: unknown permission ${p}`);
+        else if (!(PERMISSIONS as readonly string[]).includes(p))
+          problems.push(`${r.file} ${m}: unknown permission ${p}`);
       }
     }
     expect(problems).toEqual([]);
@@ -63,7 +82,11 @@ describe('every route is accounted for (server actions: actions-matrix.test.ts)'
     const problems: string[] = [];
     for (const r of routes.filter((x) => NON_WORKSPACE_ROUTES[x.file]?.access === 'auth')) {
       for (const m of methodsOf(r)) {
-        const res = await call(modules.get(r.file)?.[m], apiRequest(m, fillPattern(r.pattern, {}), m === 'GET' || m === 'DELETE' ? {} : { body: {} }), {});
+        const res = await call(
+          modules.get(r.file)?.[m],
+          apiRequest(m, fillPattern(r.pattern, {}), m === 'GET' || m === 'DELETE' ? {} : { body: {} }),
+          {},
+        );
         if (res.status !== 401) problems.push(`${r.file} ${m}: ${res.status}`);
       }
     }
@@ -134,18 +157,29 @@ describe('every role x every workspace route and method x own and other workspac
         for (const role of ROLES) {
           const user = setup.own.members[role];
           const cookie = await sessionCookie(user.id);
-          for (const [ws, other] of [[setup.own, false], [setup.other, true]] as const) {
+          for (const [ws, other] of [
+            [setup.own, false],
+            [setup.other, true],
+          ] as const) {
             const { values, real } = await paramsFor(r, ws);
             if (!real) ambiguous.add(r.file);
             const res = await call(handler, request(method, fillPattern(r.pattern, values), { cookie }), values);
             calls += 1;
-            const f = judge({ route: r.file, method, who: role, permission, status: res.status }, can(role, permission), other, real);
+            const f = judge(
+              { route: r.file, method, who: role, permission, status: res.status },
+              can(role, permission),
+              other,
+              real,
+            );
             if (f) failures.push(f);
           }
         }
       }
     }
-    expect([...ambiguous], 'routes checked with a missing id, whose 404 proves nothing: add a fixture in fixtures.ts').toEqual([]);
+    expect(
+      [...ambiguous],
+      'routes checked with a missing id, whose 404 proves nothing: add a fixture in fixtures.ts',
+    ).toEqual([]);
     console.info(`[authz] ${calls} member calls over ${workspaceRoutes.length} workspace route files`);
     expect(failures).toEqual([]);
   });
@@ -153,17 +187,32 @@ describe('every role x every workspace route and method x own and other workspac
   it('API keys: their own role in their own workspace, 404 in any other', async () => {
     const failures: Outcome[] = [];
     for (const role of API_KEY_ROLES) {
-      const key = await createApiKey({ workspaceId: setup.own.id }, { name: `matrix-${role}`, role, createdBy: setup.own.owner.id, actor: 'matrix' });
+      const key = await createApiKey(
+        { workspaceId: setup.own.id },
+        { name: `matrix-${role}`, role, createdBy: setup.own.owner.id, actor: 'matrix' },
+      );
       for (const r of workspaceRoutes) {
         for (const method of methodsOf(r)) {
           const handler = modules.get(r.file)![method]!;
           const permission = handler.permission as Permission;
-          for (const [ws, other] of [[setup.own, false], [setup.other, true]] as const) {
+          for (const [ws, other] of [
+            [setup.own, false],
+            [setup.other, true],
+          ] as const) {
             const { values, real } = await paramsFor(r, ws);
-            const res = await call(handler, request(method, fillPattern(r.pattern, values), { bearer: key.key }), values);
+            const res = await call(
+              handler,
+              request(method, fillPattern(r.pattern, values), { bearer: key.key }),
+              values,
+            );
             // Creating API keys needs a signed-in owner, never a key: 403 is right for every key.
             const allowed = can(role, permission) && !(r.pattern.endsWith('/api-keys') && method === 'POST');
-            const f = judge({ route: r.file, method, who: `key:${role}`, permission, status: res.status }, allowed, other, real);
+            const f = judge(
+              { route: r.file, method, who: `key:${role}`, permission, status: res.status },
+              allowed,
+              other,
+              real,
+            );
             if (f) failures.push(f);
           }
         }

@@ -16,7 +16,8 @@ beforeAll(async () => {
   for (const r of routeFiles()) {
     if (r.file.startsWith('app/api/auth/') || r.file.startsWith('app/api/webhooks/')) continue;
     const mod = await loadRoute(r);
-    for (const m of HTTP_METHODS) if (MUTATING.includes(m) && typeof mod[m] === 'function') targets.push({ ...r, method: m, mod });
+    for (const m of HTTP_METHODS)
+      if (MUTATING.includes(m) && typeof mod[m] === 'function') targets.push({ ...r, method: m, mod });
   }
 });
 
@@ -32,8 +33,13 @@ describe('cross-site request forgery', () => {
         values[p] = make ? String(await make(ws)) : '999999999';
       }
       const before = await rowCounts();
-      const res = await call(t.mod[t.method], apiRequest(t.method, fillPattern(t.pattern, values), { cookie, origin: FOREIGN, body: {} }), values);
-      if (res.status !== 403 || res.body.error?.code !== 'forbidden') problems.push(`${t.file} ${t.method}: ${res.status}`);
+      const res = await call(
+        t.mod[t.method],
+        apiRequest(t.method, fillPattern(t.pattern, values), { cookie, origin: FOREIGN, body: {} }),
+        values,
+      );
+      if (res.status !== 403 || res.body.error?.code !== 'forbidden')
+        problems.push(`${t.file} ${t.method}: ${res.status}`);
       const after = await rowCounts();
       if (JSON.stringify(after) !== JSON.stringify(before)) problems.push(`${t.file} ${t.method}: rows changed`);
     }
@@ -46,20 +52,43 @@ describe('cross-site request forgery', () => {
     const cookie = await sessionCookie(ws.owner.id);
     const t = targets.find((x) => x.pattern.endsWith('/workspaces/[slug]/screenings') && x.method === 'POST')!;
     for (const origin of [TEST_ORIGIN, undefined]) {
-      const res = await call(t.mod.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings`, { cookie, origin, body: {} }), { slug: ws.slug });
+      const res = await call(
+        t.mod.POST,
+        apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings`, { cookie, origin, body: {} }),
+        { slug: ws.slug },
+      );
       expect(res.status).toBe(422);
     }
-    const lookalike = await call(t.mod.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings`, { cookie, origin: `${TEST_ORIGIN}.evil.example`, body: {} }), { slug: ws.slug });
+    const lookalike = await call(
+      t.mod.POST,
+      apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings`, {
+        cookie,
+        origin: `${TEST_ORIGIN}.evil.example`,
+        body: {},
+      }),
+      { slug: ws.slug },
+    );
     expect(lookalike.status).toBe(403);
-    const garbage = await call(t.mod.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings`, { cookie, origin: 'null', body: {} }), { slug: ws.slug });
+    const garbage = await call(
+      t.mod.POST,
+      apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings`, { cookie, origin: 'null', body: {} }),
+      { slug: ws.slug },
+    );
     expect(garbage.status).toBe(403);
   });
 
   it('API-key requests are exempt: a foreign Origin with a bearer key is judged by the key alone', async () => {
     const ws = await makeWorkspace();
-    const key = await createApiKey({ workspaceId: ws.id }, { name: 'ci', role: 'analyst', createdBy: ws.owner.id, actor: 't' });
+    const key = await createApiKey(
+      { workspaceId: ws.id },
+      { name: 'ci', role: 'analyst', createdBy: ws.owner.id, actor: 't' },
+    );
     const t = targets.find((x) => x.pattern.endsWith('/workspaces/[slug]/screenings') && x.method === 'POST')!;
-    const res = await call(t.mod.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings`, { bearer: key.key, origin: FOREIGN, body: {} }), { slug: ws.slug });
+    const res = await call(
+      t.mod.POST,
+      apiRequest('POST', `/api/v1/workspaces/${ws.slug}/screenings`, { bearer: key.key, origin: FOREIGN, body: {} }),
+      { slug: ws.slug },
+    );
     expect(res.status).toBe(422);
   });
 });

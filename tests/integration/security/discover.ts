@@ -19,7 +19,12 @@ export interface ActionExport {
 
 function isUseServerFile(source: ts.SourceFile): boolean {
   const first = source.statements[0];
-  return !!first && ts.isExpressionStatement(first) && ts.isStringLiteral(first.expression) && first.expression.text === 'use server';
+  return (
+    !!first &&
+    ts.isExpressionStatement(first) &&
+    ts.isStringLiteral(first.expression) &&
+    first.expression.text === 'use server'
+  );
 }
 
 function guardsIn(node: ts.Node): { guards: string[]; dynamicPermission: boolean } {
@@ -42,7 +47,8 @@ function guardsIn(node: ts.Node): { guards: string[]; dynamicPermission: boolean
   return { guards, dynamicPermission };
 }
 
-const exported = (n: ts.Node) => ts.canHaveModifiers(n) && (ts.getModifiers(n) ?? []).some((m) => m.kind === ts.SyntaxKind.ExportKeyword);
+const exported = (n: ts.Node) =>
+  ts.canHaveModifiers(n) && (ts.getModifiers(n) ?? []).some((m) => m.kind === ts.SyntaxKind.ExportKeyword);
 
 /** Every exported function of every `'use server'` file under app/ and lib/, with the guards its body calls. */
 export function serverActions(): { files: string[]; actions: ActionExport[] } {
@@ -52,7 +58,13 @@ export function serverActions(): { files: string[]; actions: ActionExport[] } {
     if (!/\.(ts|tsx)$/.test(abs)) continue;
     const text = fs.readFileSync(abs, 'utf8');
     if (!text.includes('use server')) continue;
-    const source = ts.createSourceFile(abs, text, ts.ScriptTarget.Latest, true, abs.endsWith('x') ? ts.ScriptKind.TSX : ts.ScriptKind.TS);
+    const source = ts.createSourceFile(
+      abs,
+      text,
+      ts.ScriptTarget.Latest,
+      true,
+      abs.endsWith('x') ? ts.ScriptKind.TSX : ts.ScriptKind.TS,
+    );
     if (!isUseServerFile(source)) continue;
     const file = path.relative(ROOT, abs);
     files.push(file);
@@ -65,7 +77,12 @@ export function serverActions(): { files: string[]; actions: ActionExport[] } {
         }
       } else if (ts.isExportDeclaration(st) || ts.isExportAssignment(st)) {
         // Re-exports would hide the guard from this check; a 'use server' file must define its actions.
-        actions.push({ file, name: `(re-export at ${source.getLineAndCharacterOfPosition(st.getStart()).line + 1})`, guards: [], dynamicPermission: false });
+        actions.push({
+          file,
+          name: `(re-export at ${source.getLineAndCharacterOfPosition(st.getStart()).line + 1})`,
+          guards: [],
+          dynamicPermission: false,
+        });
       }
     }
   }

@@ -19,7 +19,8 @@ afterEach(() => {
   resetEnvForTests();
 });
 
-const req = (path: string, headers: Record<string, string> = {}) => new NextRequest(new URL(path, 'http://127.0.0.1:3000'), { headers });
+const req = (path: string, headers: Record<string, string> = {}) =>
+  new NextRequest(new URL(path, 'http://127.0.0.1:3000'), { headers });
 
 describe('proxy security headers', () => {
   it('a fresh CSP nonce per request, passed on to the renderer in the request headers', () => {
@@ -33,7 +34,16 @@ describe('proxy security headers', () => {
     // NextResponse.next({ request: { headers } }) hands overridden request headers to the renderer this way.
     expect(a.headers.get('x-middleware-request-x-nonce')).toBe(nonce);
     expect(a.headers.get('x-middleware-request-content-security-policy')).toBe(csp);
-    for (const d of ["default-src 'self'", "object-src 'none'", "base-uri 'none'", "frame-ancestors 'none'", "form-action 'self'", "img-src 'self' data: blob:", "style-src 'self' 'unsafe-inline'", "connect-src 'self'"]) {
+    for (const d of [
+      "default-src 'self'",
+      "object-src 'none'",
+      "base-uri 'none'",
+      "frame-ancestors 'none'",
+      "form-action 'self'",
+      "img-src 'self' data: blob:",
+      "style-src 'self' 'unsafe-inline'",
+      "connect-src 'self'",
+    ]) {
       expect(csp).toContain(d);
     }
     expect(csp).toContain(`script-src 'self' 'nonce-${nonce}' 'strict-dynamic'`);
@@ -53,7 +63,9 @@ describe('proxy security headers', () => {
     expect(proxy(req('/w/skarn-polar/screen')).headers.get('cache-control')).toBe('no-store');
     expect(proxy(req('/signin')).headers.get('cache-control')).toBeNull();
     expect(proxy(req('/', { cookie: 'next-auth.session-token=abc' })).headers.get('cache-control')).toBe('no-store');
-    expect(proxy(req('/account', { cookie: '__Secure-next-auth.session-token.0=abc' })).headers.get('cache-control')).toBe('no-store');
+    expect(
+      proxy(req('/account', { cookie: '__Secure-next-auth.session-token.0=abc' })).headers.get('cache-control'),
+    ).toBe('no-store');
     expect(hasSessionCookie(['next-auth.csrf-token', 'theme'])).toBe(false);
   });
 
@@ -71,8 +83,18 @@ describe('proxy security headers', () => {
 describe('which paths the proxy runs for', () => {
   // Next.js compiles a matcher string as a path regular expression anchored at both ends.
   const matches = (path: string) => proxyConfig.matcher.some((m) => new RegExp(`^${m}$`).test(path));
-  it.each(['/', '/signin', '/w/skarn-polar/screen', '/api/auth/session', '/api/auth/callback/credentials', '/account'])('runs for %s', (p) => expect(matches(p)).toBe(true));
-  it.each(['/_next/static/chunks/a.js', '/icon.svg', '/api/v1/workspaces', '/api/v1/workspaces/x/screenings/preview', '/api/health', '/api/webhooks/stripe'])('skips %s', (p) => expect(matches(p)).toBe(false));
+  it.each(['/', '/signin', '/w/skarn-polar/screen', '/api/auth/session', '/api/auth/callback/credentials', '/account'])(
+    'runs for %s',
+    (p) => expect(matches(p)).toBe(true),
+  );
+  it.each([
+    '/_next/static/chunks/a.js',
+    '/icon.svg',
+    '/api/v1/workspaces',
+    '/api/v1/workspaces/x/screenings/preview',
+    '/api/health',
+    '/api/webhooks/stripe',
+  ])('skips %s', (p) => expect(matches(p)).toBe(false));
 });
 
 describe('session cookie options (next-auth defaults, not overridden)', () => {
@@ -87,7 +109,9 @@ describe('session cookie options (next-auth defaults, not overridden)', () => {
     expect(opts.useSecureCookies).toBe(secure);
     expect(opts.cookies).toBeUndefined();
     // next-auth 4 applies these when `cookies` is not overridden (core/lib/cookie.js, not in its exports map).
-    const { defaultCookies } = createRequire(import.meta.url)(path.resolve('node_modules/next-auth/core/lib/cookie.js')) as { defaultCookies: (secure: boolean) => Record<string, { name: string; options: Record<string, unknown> }> };
+    const { defaultCookies } = createRequire(import.meta.url)(
+      path.resolve('node_modules/next-auth/core/lib/cookie.js'),
+    ) as { defaultCookies: (secure: boolean) => Record<string, { name: string; options: Record<string, unknown> }> };
     const session = defaultCookies(opts.useSecureCookies ?? false).sessionToken;
     expect(session.name).toBe(name);
     expect(session.options).toMatchObject({ httpOnly: true, sameSite: 'lax', secure, path: '/' });

@@ -50,33 +50,103 @@ describe('no password, session token, API key or reset token reaches the logs', 
     expect((await attemptSignIn(email, `${PASSWORD}-wrong`)).ok).toBe(false);
     expect(await attemptSignIn(email, PASSWORD)).toEqual({ ok: true });
     expect((await attemptSignIn('not-an-email', PASSWORD)).ok).toBe(false);
-    await authOptions().events?.signIn?.({ user: { id: String(user.id), email }, account: { provider: 'credentials', type: 'credentials', providerAccountId: String(user.id) }, isNewUser: false });
+    await authOptions().events?.signIn?.({
+      user: { id: String(user.id), email },
+      account: { provider: 'credentials', type: 'credentials', providerAccountId: String(user.id) },
+      isNewUser: false,
+    });
 
     // Session tokens: accepted, refused for the role, outside the workspace, in a bad request, and a forged one.
     const cookie = await sessionCookie(ws.owner.id);
     const viewerCookie = await sessionCookie(ws.members.viewer.id);
     const tokens = [cookie, viewerCookie].map((c) => c.split('=')[1]);
     const url = `/api/v1/workspaces/${ws.slug}/screenings`;
-    expect((await call(screeningsRoute.POST, apiRequest('POST', url, { cookie, body: FLIGHT }), { slug: ws.slug })).status).toBe(201);
-    expect((await call(screeningsRoute.POST, apiRequest('POST', url, { cookie, body: { ...FLIGHT, fuelBurnKg: -1 } }), { slug: ws.slug })).status).toBe(422);
-    expect((await call(screeningsRoute.POST, apiRequest('POST', url, { cookie: viewerCookie, body: FLIGHT }), { slug: ws.slug })).status).toBe(403);
-    expect((await call(screeningsRoute.GET, apiRequest('GET', `/api/v1/workspaces/${other.slug}/screenings`, { cookie }), { slug: other.slug })).status).toBe(404);
-    expect((await call(screeningsRoute.POST, apiRequest('POST', url, { cookie, origin: 'https://evil.example', body: FLIGHT }), { slug: ws.slug })).status).toBe(403);
+    expect(
+      (await call(screeningsRoute.POST, apiRequest('POST', url, { cookie, body: FLIGHT }), { slug: ws.slug })).status,
+    ).toBe(201);
+    expect(
+      (
+        await call(screeningsRoute.POST, apiRequest('POST', url, { cookie, body: { ...FLIGHT, fuelBurnKg: -1 } }), {
+          slug: ws.slug,
+        })
+      ).status,
+    ).toBe(422);
+    expect(
+      (
+        await call(screeningsRoute.POST, apiRequest('POST', url, { cookie: viewerCookie, body: FLIGHT }), {
+          slug: ws.slug,
+        })
+      ).status,
+    ).toBe(403);
+    expect(
+      (
+        await call(screeningsRoute.GET, apiRequest('GET', `/api/v1/workspaces/${other.slug}/screenings`, { cookie }), {
+          slug: other.slug,
+        })
+      ).status,
+    ).toBe(404);
+    expect(
+      (
+        await call(
+          screeningsRoute.POST,
+          apiRequest('POST', url, { cookie, origin: 'https://evil.example', body: FLIGHT }),
+          { slug: ws.slug },
+        )
+      ).status,
+    ).toBe(403);
     const forged = 'canary-session-token-9fK2pQ';
-    expect((await call(workspacesRoute.GET, apiRequest('GET', '/api/v1/workspaces', { cookie: `next-auth.session-token=${forged}` }))).status).toBe(401);
+    expect(
+      (
+        await call(
+          workspacesRoute.GET,
+          apiRequest('GET', '/api/v1/workspaces', { cookie: `next-auth.session-token=${forged}` }),
+        )
+      ).status,
+    ).toBe(401);
 
     // API keys: created (shown once), used, used elsewhere, revoked, and unknown.
-    const created = await call<{ id: number; key: string }>(keysRoute.POST, apiRequest('POST', `/api/v1/workspaces/${ws.slug}/api-keys`, { cookie, body: { name: 'canary' } }), { slug: ws.slug });
+    const created = await call<{ id: number; key: string }>(
+      keysRoute.POST,
+      apiRequest('POST', `/api/v1/workspaces/${ws.slug}/api-keys`, { cookie, body: { name: 'canary' } }),
+      { slug: ws.slug },
+    );
     expect(created.status).toBe(201);
     const key = created.body.key;
-    expect((await call(screeningsRoute.POST, apiRequest('POST', url, { bearer: key, body: { ...FLIGHT, month: 13 } }), { slug: ws.slug })).status).toBe(422);
-    expect((await call(screeningsRoute.GET, apiRequest('GET', `/api/v1/workspaces/${other.slug}/screenings`, { bearer: key }), { slug: other.slug })).status).toBe(404);
-    const viewerKey = await createApiKey({ workspaceId: ws.id }, { name: 'canary-viewer', role: 'viewer', createdBy: ws.owner.id, actor: 't' });
-    expect((await call(screeningsRoute.POST, apiRequest('POST', url, { bearer: viewerKey.key, body: FLIGHT }), { slug: ws.slug })).status).toBe(403);
+    expect(
+      (
+        await call(screeningsRoute.POST, apiRequest('POST', url, { bearer: key, body: { ...FLIGHT, month: 13 } }), {
+          slug: ws.slug,
+        })
+      ).status,
+    ).toBe(422);
+    expect(
+      (
+        await call(
+          screeningsRoute.GET,
+          apiRequest('GET', `/api/v1/workspaces/${other.slug}/screenings`, { bearer: key }),
+          { slug: other.slug },
+        )
+      ).status,
+    ).toBe(404);
+    const viewerKey = await createApiKey(
+      { workspaceId: ws.id },
+      { name: 'canary-viewer', role: 'viewer', createdBy: ws.owner.id, actor: 't' },
+    );
+    expect(
+      (
+        await call(screeningsRoute.POST, apiRequest('POST', url, { bearer: viewerKey.key, body: FLIGHT }), {
+          slug: ws.slug,
+        })
+      ).status,
+    ).toBe(403);
     await revokeApiKey({ workspaceId: ws.id }, { id: created.body.id, actorId: ws.owner.id, actor: 't' });
-    expect((await call(screeningsRoute.GET, apiRequest('GET', url, { bearer: key }), { slug: ws.slug })).status).toBe(401);
+    expect((await call(screeningsRoute.GET, apiRequest('GET', url, { bearer: key }), { slug: ws.slug })).status).toBe(
+      401,
+    );
     const unknownKey = 'tpk_canaryUnknownKey0123456789abcdef';
-    expect((await call(screeningsRoute.GET, apiRequest('GET', url, { bearer: unknownKey }), { slug: ws.slug })).status).toBe(401);
+    expect(
+      (await call(screeningsRoute.GET, apiRequest('GET', url, { bearer: unknownKey }), { slug: ws.slug })).status,
+    ).toBe(401);
 
     // Reset tokens: mailed, consumed, and replayed.
     const resetToken = await createResetToken(email);
@@ -86,15 +156,41 @@ describe('no password, session token, API key or reset token reaches the logs', 
     expect(await consumeResetToken(resetToken, await hashPassword('another-password-456'))).toBe('invalid');
 
     // Objects that carry secrets under the usual names are redacted wherever someone logs them.
-    log.info({ password: PASSWORD, headers: { authorization: `Bearer ${viewerKey.key}`, cookie }, body: { token: resetToken } }, 'careless log line');
+    log.info(
+      {
+        password: PASSWORD,
+        headers: { authorization: `Bearer ${viewerKey.key}`, cookie },
+        body: { token: resetToken },
+      },
+      'careless log line',
+    );
 
     await new Promise((r) => setTimeout(r, 50));
     const text = logged();
-    for (const event of ['signin.failed', 'signin.ok', 'input.rejected', 'authz.denied', 'authz.not_member', 'csrf.refused', 'auth.rejected', 'mail sent', 'careless log line']) {
+    for (const event of [
+      'signin.failed',
+      'signin.ok',
+      'input.rejected',
+      'authz.denied',
+      'authz.not_member',
+      'csrf.refused',
+      'auth.rejected',
+      'mail sent',
+      'careless log line',
+    ]) {
       expect(text, `expected log event ${event}`).toContain(event);
     }
-    const secrets = { password: PASSWORD, forged, key, viewerKey: viewerKey.key, unknownKey, resetToken, ...Object.fromEntries(tokens.map((t, i) => [`session${i}`, t])) };
-    for (const [name, secret] of Object.entries(secrets)) expect(text.includes(secret), `${name} appeared in the logs`).toBe(false);
+    const secrets = {
+      password: PASSWORD,
+      forged,
+      key,
+      viewerKey: viewerKey.key,
+      unknownKey,
+      resetToken,
+      ...Object.fromEntries(tokens.map((t, i) => [`session${i}`, t])),
+    };
+    for (const [name, secret] of Object.entries(secrets))
+      expect(text.includes(secret), `${name} appeared in the logs`).toBe(false);
     expect(text).toContain('[redacted]');
   });
 });

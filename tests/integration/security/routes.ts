@@ -33,14 +33,28 @@ export function routeFiles(): RouteFile[] {
     .filter((f) => /\/route\.(ts|tsx|js)$/.test(f))
     .map((abs) => {
       const file = path.relative(ROOT, abs);
-      const segments = path.dirname(file).split(path.sep).slice(1).filter((s) => !/^\(.*\)$/.test(s));
+      const segments = path
+        .dirname(file)
+        .split(path.sep)
+        .slice(1)
+        .filter((s) => !/^\(.*\)$/.test(s));
       const params = segments.filter((s) => /^\[.+\]$/.test(s)).map((s) => s.replace(/^\[+\.{0,3}|\]+$/g, ''));
-      return { file, pattern: `/${segments.join('/')}`, params, inWorkspace: params.includes('slug') || params.includes('workspace') };
+      return {
+        file,
+        pattern: `/${segments.join('/')}`,
+        params,
+        inWorkspace: params.includes('slug') || params.includes('workspace'),
+      };
     })
     .sort((a, b) => a.file.localeCompare(b.file));
 }
 
-export type RouteModule = Partial<Record<HttpMethod, ((req: Request, ctx: { params: Promise<Record<string, string>> }) => Promise<Response>) & { permission?: string }>>;
+export type RouteModule = Partial<
+  Record<
+    HttpMethod,
+    ((req: Request, ctx: { params: Promise<Record<string, string>> }) => Promise<Response>) & { permission?: string }
+  >
+>;
 
 export async function loadRoute(r: RouteFile): Promise<RouteModule> {
   return (await import(/* @vite-ignore */ path.join(ROOT, r.file))) as RouteModule;
@@ -50,4 +64,3 @@ export async function loadRoute(r: RouteFile): Promise<RouteModule> {
 export function fillPattern(pattern: string, values: Record<string, string>): string {
   return pattern.replace(/\[+\.{0,3}([^\]]+)\]+/g, (_, name: string) => encodeURIComponent(values[name] ?? 'x'));
 }
-

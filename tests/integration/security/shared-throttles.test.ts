@@ -54,7 +54,9 @@ describe.runIf(onPostgres())('throttles on PostgreSQL count across instances', (
     // Another key is counted apart.
     expect(await take(b[kind], `${key}-other`)).toBe(true);
     // The count is the database's, not an in-memory stand-in's (used only when a query fails).
-    const stored = (await db()(SHARED_THROTTLE_TABLE).where('key', 'like', `%${key}`).select('points')) as { points: number }[];
+    const stored = (await db()(SHARED_THROTTLE_TABLE).where('key', 'like', `%${key}`).select('points')) as {
+      points: number;
+    }[];
     expect(stored).toHaveLength(1);
     expect(Number(stored[0].points)).toBeGreaterThan(points);
   });

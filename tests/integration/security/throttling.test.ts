@@ -11,7 +11,13 @@ import { authOptions } from '@/lib/auth/options';
 import { AppError } from '@/lib/errors';
 import { db } from '@/db/client';
 
-useTestDatabase({ TRUSTED_PROXY_HOPS: '1', RATE_LIMIT_SIGNIN_PER_15MIN: '3', RATE_LIMIT_API_PER_MIN: '25', RATE_LIMIT_PREVIEW_PER_MIN: '4', RATE_LIMIT_EMAIL_PER_HOUR: '2' });
+useTestDatabase({
+  TRUSTED_PROXY_HOPS: '1',
+  RATE_LIMIT_SIGNIN_PER_15MIN: '3',
+  RATE_LIMIT_API_PER_MIN: '25',
+  RATE_LIMIT_PREVIEW_PER_MIN: '4',
+  RATE_LIMIT_EMAIL_PER_HOUR: '2',
+});
 
 const PASSWORD = 'correct horse battery';
 
@@ -33,7 +39,9 @@ describe('sign-in throttling', () => {
     }
     const locked = await attemptSignIn(email, PASSWORD, '10.1.0.99');
     expect(locked.ok).toBe(false);
-    expect(locked.ok ? '' : locked.message).toMatch(/Too many failed sign-ins\. Sign-in is paused for about \d+ minutes?/);
+    expect(locked.ok ? '' : locked.message).toMatch(
+      /Too many failed sign-ins\. Sign-in is paused for about \d+ minutes?/,
+    );
     forgetLimiters();
     const afterRestart = await attemptSignIn(email, PASSWORD, '10.1.0.100');
     expect(afterRestart.ok ? '' : afterRestart.message).toMatch(/Too many failed sign-ins/);
@@ -72,7 +80,8 @@ describe('API and preview throttling', () => {
     const ws = await makeWorkspace();
     const cookie = await sessionCookie(ws.owner.id);
     const url = `/api/v1/workspaces/${ws.slug}/screenings`;
-    for (let i = 0; i < 25; i++) expect((await call(screeningsRoute.GET, apiRequest('GET', url, { cookie }), { slug: ws.slug })).status).toBe(200);
+    for (let i = 0; i < 25; i++)
+      expect((await call(screeningsRoute.GET, apiRequest('GET', url, { cookie }), { slug: ws.slug })).status).toBe(200);
     const r = await call(screeningsRoute.GET, apiRequest('GET', url, { cookie }), { slug: ws.slug });
     expect(r.status).toBe(429);
     expect(r.body.error?.code).toBe('throttled');
@@ -85,7 +94,10 @@ describe('API and preview throttling', () => {
     const cookie = await sessionCookie(ws.owner.id);
     const url = `/api/v1/workspaces/${ws.slug}/screenings/preview`;
     const statuses: number[] = [];
-    for (let i = 0; i < 5; i++) statuses.push((await call(previewRoute.POST, apiRequest('POST', url, { cookie, body: FLIGHT }), { slug: ws.slug })).status);
+    for (let i = 0; i < 5; i++)
+      statuses.push(
+        (await call(previewRoute.POST, apiRequest('POST', url, { cookie, body: FLIGHT }), { slug: ws.slug })).status,
+      );
     expect(statuses).toEqual([200, 200, 200, 200, 429]);
   });
 });
@@ -93,8 +105,13 @@ describe('API and preview throttling', () => {
 describe('e-mail throttling', () => {
   type SendVerification = (params: { identifier: string; url: string }) => Promise<void>;
   const sendSignInLink = (to: string): Promise<void> => {
-    const provider = authOptions().providers.find((p) => p.id === 'email') as unknown as { options: { sendVerificationRequest: SendVerification } };
-    return provider.options.sendVerificationRequest({ identifier: to, url: 'http://127.0.0.1:3999/api/auth/callback/email?token=x' });
+    const provider = authOptions().providers.find((p) => p.id === 'email') as unknown as {
+      options: { sendVerificationRequest: SendVerification };
+    };
+    return provider.options.sendVerificationRequest({
+      identifier: to,
+      url: 'http://127.0.0.1:3999/api/auth/callback/email?token=x',
+    });
   };
 
   it('sign-in links to one address stop after the hourly limit (the e-mail provider refuses the third with the limit message)', async () => {
@@ -106,14 +123,17 @@ describe('e-mail throttling', () => {
     await expect(sendSignInLink(`other-${to}`)).resolves.toBeUndefined();
   });
 
-  it.each(['reset', 'invite'] as const)('%s e-mails to one address stop after the hourly limit; another address and the other kinds keep their own count', async (kind) => {
-    const to = `${kind}-${Date.now()}@example.test`;
-    await limitEmailSend(kind, to);
-    await limitEmailSend(kind, to);
-    const err = await limitEmailSend(kind, to).catch((e: unknown) => e);
-    expect(err).toBeInstanceOf(AppError);
-    expect((err as AppError).code).toBe('throttled');
-    await expect(limitEmailSend(kind, `b-${to}`)).resolves.toBeUndefined();
-    await expect(limitEmailSend(kind === 'reset' ? 'invite' : 'reset', to)).resolves.toBeUndefined();
-  });
+  it.each(['reset', 'invite'] as const)(
+    '%s e-mails to one address stop after the hourly limit; another address and the other kinds keep their own count',
+    async (kind) => {
+      const to = `${kind}-${Date.now()}@example.test`;
+      await limitEmailSend(kind, to);
+      await limitEmailSend(kind, to);
+      const err = await limitEmailSend(kind, to).catch((e: unknown) => e);
+      expect(err).toBeInstanceOf(AppError);
+      expect((err as AppError).code).toBe('throttled');
+      await expect(limitEmailSend(kind, `b-${to}`)).resolves.toBeUndefined();
+      await expect(limitEmailSend(kind === 'reset' ? 'invite' : 'reset', to)).resolves.toBeUndefined();
+    },
+  );
 });

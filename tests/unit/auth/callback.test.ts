@@ -32,8 +32,12 @@ describe('safeCallbackPath', () => {
   });
 
   it('keeps a deep link whole, path and query', () => {
-    expect(safeCallbackPath('/w/skarn-polar/fleets?from=2026-10-01', APP)).toBe('/w/skarn-polar/fleets?from=2026-10-01');
-    expect(safeCallbackPath('/w/skarn-polar/fleets?from=2026-10-01&to=2026-12-31#table', APP)).toBe('/w/skarn-polar/fleets?from=2026-10-01&to=2026-12-31#table');
+    expect(safeCallbackPath('/w/skarn-polar/fleets?from=2026-10-01', APP)).toBe(
+      '/w/skarn-polar/fleets?from=2026-10-01',
+    );
+    expect(safeCallbackPath('/w/skarn-polar/fleets?from=2026-10-01&to=2026-12-31#table', APP)).toBe(
+      '/w/skarn-polar/fleets?from=2026-10-01&to=2026-12-31#table',
+    );
   });
 
   it('accepts an absolute URL on the app itself and gives back its path', () => {

@@ -3,7 +3,8 @@ import { env, resetEnvForTests } from '@/lib/env';
 
 const saved = { ...process.env };
 function start(vars: Record<string, string>): () => unknown {
-  for (const k of ['MAIL_OUTBOX', 'NEXTAUTH_URL', 'STRIPE_API_HOST', 'STRIPE_SECRET_KEY', 'STRIPE_WEBHOOK_SECRET']) delete process.env[k];
+  for (const k of ['MAIL_OUTBOX', 'NEXTAUTH_URL', 'STRIPE_API_HOST', 'STRIPE_SECRET_KEY', 'STRIPE_WEBHOOK_SECRET'])
+    delete process.env[k];
   Object.assign(process.env, { NEXTAUTH_SECRET: 'env-guard-secret-0123456789', ...vars });
   resetEnvForTests();
   return () => env();
@@ -21,13 +22,27 @@ describe('settings safe only on one machine', () => {
     expect(start({ MAIL_OUTBOX: '1', NEXTAUTH_URL: 'http://127.0.0.1:3000' })).not.toThrow();
     expect(start({ MAIL_OUTBOX: '1', NEXTAUTH_URL: 'http://localhost:3000' })).not.toThrow();
     expect(start({ MAIL_OUTBOX: '1', NEXTAUTH_URL: 'http://[::1]:3000' })).not.toThrow();
-    expect(start({ NEXTAUTH_URL: 'https://app.operator.example', STRIPE_SECRET_KEY: 'sk_live_x', STRIPE_WEBHOOK_SECRET: 'whsec_x' })).not.toThrow();
+    expect(
+      start({
+        NEXTAUTH_URL: 'https://app.operator.example',
+        STRIPE_SECRET_KEY: 'sk_live_x',
+        STRIPE_WEBHOOK_SECRET: 'whsec_x',
+      }),
+    ).not.toThrow();
   });
 
   it('refuses the public payment defaults unless the payment host is the local fake', () => {
     expect(start({ STRIPE_API_HOST: 'api.payments.example' })).toThrow(/STRIPE_SECRET_KEY[\s\S]*STRIPE_WEBHOOK_SECRET/);
-    expect(start({ STRIPE_API_HOST: 'api.payments.example', STRIPE_SECRET_KEY: 'sk_live_abc' })).toThrow(/STRIPE_WEBHOOK_SECRET/);
-    expect(start({ STRIPE_API_HOST: 'api.payments.example', STRIPE_SECRET_KEY: 'sk_live_abc', STRIPE_WEBHOOK_SECRET: 'whsec_real' })).not.toThrow();
+    expect(start({ STRIPE_API_HOST: 'api.payments.example', STRIPE_SECRET_KEY: 'sk_live_abc' })).toThrow(
+      /STRIPE_WEBHOOK_SECRET/,
+    );
+    expect(
+      start({
+        STRIPE_API_HOST: 'api.payments.example',
+        STRIPE_SECRET_KEY: 'sk_live_abc',
+        STRIPE_WEBHOOK_SECRET: 'whsec_real',
+      }),
+    ).not.toThrow();
     expect(start({ STRIPE_API_HOST: '127.0.0.1' })).not.toThrow();
   });
 });

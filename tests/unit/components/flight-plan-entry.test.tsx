@@ -16,7 +16,10 @@ function fakeApi() {
   vi.stubGlobal(
     'fetch',
     vi.fn(async (url: string, init?: RequestInit) => {
-      if (url.includes('/fixes?q=')) return Response.json({ items: LIBRARY.fixes.filter((f) => f.name.startsWith(new URL(url, 'http://x').searchParams.get('q') ?? '')) });
+      if (url.includes('/fixes?q='))
+        return Response.json({
+          items: LIBRARY.fixes.filter((f) => f.name.startsWith(new URL(url, 'http://x').searchParams.get('q') ?? '')),
+        });
       if (url.includes('/airways?q=')) return Response.json({ items: [] });
       if (url.endsWith('/fixes') && init?.method === 'POST') {
         posted.push(JSON.parse(String(init.body)));
@@ -34,10 +37,16 @@ function Harness() {
   const fp = form.watch('flightPlan');
   let understood: FlightPlanUsed | undefined;
   try {
-    understood = expandFlightPlanInput(
-      { route: { flightPlan: { text: fp.text || 'DCT', from: fp.from || 'EFHK', to: fp.to || 'PANC' } }, cruise: { flightLevel: 350 }, fuelBurnKg: 1000, emission: { eiNoxGPerKg: 14 } },
-      LIBRARY,
-    ).flightPlan ?? undefined;
+    understood =
+      expandFlightPlanInput(
+        {
+          route: { flightPlan: { text: fp.text || 'DCT', from: fp.from || 'EFHK', to: fp.to || 'PANC' } },
+          cruise: { flightLevel: 350 },
+          fuelBurnKg: 1000,
+          emission: { eiNoxGPerKg: 14 },
+        },
+        LIBRARY,
+      ).flightPlan ?? undefined;
   } catch {
     understood = undefined;
   }
@@ -75,7 +84,9 @@ describe('Flight plan route entry', () => {
     expect(within(items).getByText('62N020W', { exact: false }).textContent).toContain('read');
     expect(within(items).getByText('QXORV/N0480F370', { exact: false }).textContent).toContain('looked up');
     expect(within(items).getByText('NOWHR', { exact: false }).textContent).toContain('not found');
-    expect(screen.getByTestId('flight-plan-unresolved').textContent).toContain('NOWHR (character 39): NOWHR is not in the fix library.');
+    expect(screen.getByTestId('flight-plan-unresolved').textContent).toContain(
+      'NOWHR (character 39): NOWHR is not in the fix library.',
+    );
     fireEvent.click(screen.getByText('Name coordinates for the fix library'));
     fireEvent.change(screen.getByLabelText('62N020W'), { target: { value: 'qxtmo' } });
     fireEvent.click(screen.getByRole('button', { name: 'Add these points to the fix library' }));

@@ -33,7 +33,11 @@ function renderForm(patch: Partial<ScreenFlightFormProps> = {}) {
         typicalMach: 0.85,
         typicalFlightLevel: 370,
         directEiGPerKg: null,
-        emission: { engine: { fuelFlowKgS: [0.1, 0.3, 0.9, 1.1], eiNoxGPerKg: [5, 11, 23, 30] }, engineCount: 2, mach: 0.85 },
+        emission: {
+          engine: { fuelFlowKgS: [0.1, 0.3, 0.9, 1.1], eiNoxGPerKg: [5, 11, 23, 30] },
+          engineCount: 2,
+          mach: 0.85,
+        },
       },
     ],
     engines: [],
@@ -94,7 +98,9 @@ describe('Screen a flight form', () => {
     expect((screen.getByLabelText('Step 2 flight level') as HTMLInputElement).value).toBe('410');
     fireEvent.change(screen.getByLabelText('Step 2 starts at (km)'), { target: { value: '2000' } });
     save();
-    await waitFor(() => expect(errorOf('steps-2-from')).toBe('Each cruise step must start further along the route than the one before.'));
+    await waitFor(() =>
+      expect(errorOf('steps-2-from')).toBe('Each cruise step must start further along the route than the one before.'),
+    );
     fireEvent.click(screen.getByRole('button', { name: 'Remove step 2' }));
     expect(rows()).toHaveLength(2);
     expect(screen.queryByLabelText('Step 2 flight level')).toBeNull();
@@ -133,13 +139,23 @@ describe('Screen a flight form', () => {
   it('a saved route fills the airports, or the coordinates when it has points that are not airports', () => {
     renderForm({
       routes: [
-        { id: 1, name: 'North Atlantic via Keflavik', notes: 'winter track', waypoints: [{ airport: 'egll' }, { airport: 'BIKF' }, { airport: 'KSEA' }], coordinates: [null, null, null] },
+        {
+          id: 1,
+          name: 'North Atlantic via Keflavik',
+          notes: 'winter track',
+          waypoints: [{ airport: 'egll' }, { airport: 'BIKF' }, { airport: 'KSEA' }],
+          coordinates: [null, null, null],
+        },
         {
           id: 2,
           name: 'Polar points',
           notes: '',
           waypoints: [{ airport: 'EGLL' }, { lat: 78.2, lon: 15.6 }, { airport: 'PANC' }],
-          coordinates: [{ lat: 51.47, lon: -0.46 }, { lat: 78.2, lon: 15.6 }, { lat: 61.17, lon: -150 }],
+          coordinates: [
+            { lat: 51.47, lon: -0.46 },
+            { lat: 78.2, lon: 15.6 },
+            { lat: 61.17, lon: -150 },
+          ],
         },
       ],
     });
@@ -157,8 +173,26 @@ describe('Screen a flight form', () => {
   it('choosing an aircraft type fills its typical flight level unless the planner has set one', () => {
     renderForm({
       aircraft: [
-        { code: 'A-1', name: 'First', engineName: null, engineCount: 2, typicalMach: 0.8, typicalFlightLevel: 350, directEiGPerKg: 12, emission: { eiNoxGPerKg: 12 } },
-        { code: 'A-2', name: 'Second', engineName: null, engineCount: 2, typicalMach: 0.85, typicalFlightLevel: 450, directEiGPerKg: 10, emission: { eiNoxGPerKg: 10 } },
+        {
+          code: 'A-1',
+          name: 'First',
+          engineName: null,
+          engineCount: 2,
+          typicalMach: 0.8,
+          typicalFlightLevel: 350,
+          directEiGPerKg: 12,
+          emission: { eiNoxGPerKg: 12 },
+        },
+        {
+          code: 'A-2',
+          name: 'Second',
+          engineName: null,
+          engineCount: 2,
+          typicalMach: 0.85,
+          typicalFlightLevel: 450,
+          directEiGPerKg: 10,
+          emission: { eiNoxGPerKg: 10 },
+        },
       ],
     });
     const fl = screen.getByLabelText('Flight level') as HTMLInputElement;
@@ -174,7 +208,9 @@ describe('Screen a flight form', () => {
     renderForm();
     const details = screen.getByTestId('assumption-fields') as HTMLDetailsElement;
     expect(details.open).toBe(false);
-    expect((document.getElementById('assumptions-jO3NoonPerS-central') as HTMLInputElement).placeholder).toBe('4.5 × 10⁻⁴');
+    expect((document.getElementById('assumptions-jO3NoonPerS-central') as HTMLInputElement).placeholder).toBe(
+      '4.5 × 10⁻⁴',
+    );
     expect((document.getElementById('assumptions-relativeHumidity') as HTMLInputElement).placeholder).toBe('60');
   });
 
@@ -185,16 +221,30 @@ describe('Screen a flight form', () => {
       vi.stubGlobal('fetch', (url: string, init?: RequestInit) => {
         const body = String(init?.body ?? '');
         calls.push(`${url} ${body}`);
-        if (url.startsWith('/api/v1/airports')) return Promise.resolve(new Response('[]', { status: 200, headers: { 'content-type': 'application/json' } }));
+        if (url.startsWith('/api/v1/airports'))
+          return Promise.resolve(new Response('[]', { status: 200, headers: { 'content-type': 'application/json' } }));
         const a = answer(url, body);
         if (a === 'hang') {
-          return new Promise((_resolve, reject) => init?.signal?.addEventListener('abort', () => reject(new DOMException('aborted', 'AbortError'))));
+          return new Promise((_resolve, reject) =>
+            init?.signal?.addEventListener('abort', () => reject(new DOMException('aborted', 'AbortError'))),
+          );
         }
-        return Promise.resolve(new Response(JSON.stringify(a.body), { status: a.status, headers: { 'content-type': 'application/json' } }));
+        return Promise.resolve(
+          new Response(JSON.stringify(a.body), { status: a.status, headers: { 'content-type': 'application/json' } }),
+        );
       });
       return calls;
     }
-    const noLength = { status: 422, body: { error: { code: 'invalid_input', message: 'Check the highlighted fields.', fields: [{ path: 'route', message: 'The route has no length: give two different places.' }] } } };
+    const noLength = {
+      status: 422,
+      body: {
+        error: {
+          code: 'invalid_input',
+          message: 'Check the highlighted fields.',
+          fields: [{ path: 'route', message: 'The route has no length: give two different places.' }],
+        },
+      },
+    };
     afterEach(() => vi.unstubAllGlobals());
 
     function fillSameAirportTwice() {
@@ -219,7 +269,9 @@ describe('Screen a flight form', () => {
       renderForm({ previewDelayMs: 0 });
       fillSameAirportTwice();
       save();
-      await waitFor(() => expect(screen.getByText('Some fields need attention: see the messages beside them.')).toBeTruthy());
+      await waitFor(() =>
+        expect(screen.getByText('Some fields need attention: see the messages beside them.')).toBeTruthy(),
+      );
       expect(screen.getByText('The route has no length: give two different places.')).toBeTruthy();
       fireEvent.change(screen.getByLabelText('From'), { target: { value: 'EFHK' } });
       await waitFor(() => expect(screen.queryByText('The route has no length: give two different places.')).toBeNull());

@@ -10,7 +10,12 @@ import { SAME_EVERY_MONTH_NOTE, screenAcrossMonths, screenFlight } from '@/lib/s
 afterEach(cleanup);
 
 const FLIGHT = {
-  route: { waypoints: [{ lat: 45, lon: -40 }, { lat: 45, lon: -10 }] },
+  route: {
+    waypoints: [
+      { lat: 45, lon: -40 },
+      { lat: 45, lon: -10 },
+    ],
+  },
   cruise: { flightLevel: 350 },
   fuelBurnKg: 20_000,
   emission: { eiNoxGPerKg: 14 },
@@ -21,7 +26,9 @@ describe('uncertainty and season views', () => {
   it('month strip: 12 months, the planned one marked, heights following NOx above', () => {
     const rows = screenAcrossMonths(FLIGHT);
     render(<MonthStrip rows={rows} plannedMonth={2} units="metric" />);
-    const items = within(screen.getByRole('list', { name: 'NOx above the tropopause in each month' })).getAllByRole('listitem');
+    const items = within(screen.getByRole('list', { name: 'NOx above the tropopause in each month' })).getAllByRole(
+      'listitem',
+    );
     expect(items).toHaveLength(12);
     expect(items.filter((li) => li.getAttribute('aria-current') === 'date')).toEqual([items[1]]);
     expect(items[1].textContent).toMatch(/February: .* \(planned month\)/);
@@ -33,9 +40,13 @@ describe('uncertainty and season views', () => {
     const d = r.uncertainty!.drivers;
     render(<UncertaintyDriversChart drivers={d} />);
     const lead = d.noxAboveTropopauseKg[0];
-    expect(screen.getByText(new RegExp(`The ${lead.label.toLowerCase()} explains \\d+ % of the spread of NOx above`))).toBeTruthy();
+    expect(
+      screen.getByText(new RegExp(`The ${lead.label.toLowerCase()} explains \\d+ % of the spread of NOx above`)),
+    ).toBeTruthy();
     const list = screen.getByRole('list', { name: /spread of nox above the tropopause/i });
-    const labels = within(list).getAllByRole('listitem').map((li) => li.textContent ?? '');
+    const labels = within(list)
+      .getAllByRole('listitem')
+      .map((li) => li.textContent ?? '');
     expect(labels[0]).toContain(lead.label);
   });
 
@@ -52,7 +63,13 @@ describe('uncertainty and season views', () => {
     render(
       <ScreeningPreview
         units="metric"
-        data={{ input: FLIGHT, aircraft: null, result, levels: [], months: { rows, sameEveryMonth: true, note: SAME_EVERY_MONTH_NOTE } }}
+        data={{
+          input: FLIGHT,
+          aircraft: null,
+          result,
+          levels: [],
+          months: { rows, sameEveryMonth: true, note: SAME_EVERY_MONTH_NOTE },
+        }}
         waitingFor={[]}
         fetching={false}
         stale={false}

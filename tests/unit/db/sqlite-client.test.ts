@@ -13,7 +13,12 @@ afterEach(async () => {
 
 function fresh(): Knex {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'tropopass-client-'));
-  open = knex({ client: createSqliteClient() as never, connection: { filename: path.join(dir, 'x.sqlite') }, useNullAsDefault: true, pool: { min: 1, max: 1 } });
+  open = knex({
+    client: createSqliteClient() as never,
+    connection: { filename: path.join(dir, 'x.sqlite') },
+    useNullAsDefault: true,
+    pool: { min: 1, max: 1 },
+  });
   return open;
 }
 

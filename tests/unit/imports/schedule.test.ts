@@ -13,11 +13,47 @@ const ENGINE: AircraftForScreening['emission'] = {
 
 const CTX: ScheduleContext = {
   aircraft: new Map<string, AircraftForScreening>([
-    ['T-LR', { id: 1, code: 'T-LR', engineCount: 2, typicalMach: 0.84, typicalFlightLevel: 370, defaultFleetId: 10, emission: ENGINE }],
-    ['T-SST', { id: 2, code: 'T-SST', engineCount: 4, typicalMach: 1.7, typicalFlightLevel: 580, defaultFleetId: null, emission: { eiNoxGPerKg: 11.5 } }],
-    ['T-BARE', { id: 3, code: 'T-BARE', engineCount: 2, typicalMach: 0.8, typicalFlightLevel: 350, defaultFleetId: null, emission: null }],
+    [
+      'T-LR',
+      {
+        id: 1,
+        code: 'T-LR',
+        engineCount: 2,
+        typicalMach: 0.84,
+        typicalFlightLevel: 370,
+        defaultFleetId: 10,
+        emission: ENGINE,
+      },
+    ],
+    [
+      'T-SST',
+      {
+        id: 2,
+        code: 'T-SST',
+        engineCount: 4,
+        typicalMach: 1.7,
+        typicalFlightLevel: 580,
+        defaultFleetId: null,
+        emission: { eiNoxGPerKg: 11.5 },
+      },
+    ],
+    [
+      'T-BARE',
+      {
+        id: 3,
+        code: 'T-BARE',
+        engineCount: 2,
+        typicalMach: 0.8,
+        typicalFlightLevel: 350,
+        defaultFleetId: null,
+        emission: null,
+      },
+    ],
   ]),
-  fleets: new Map([['long haul', { id: 10, name: 'Long haul' }], ['study', { id: 11, name: 'Study' }]]),
+  fleets: new Map([
+    ['long haul', { id: 10, name: 'Long haul' }],
+    ['study', { id: 11, name: 'Study' }],
+  ]),
 };
 
 const HEADER = 'date,flight,origin,destination,aircraft,cruise_fl,fuel_kg';
@@ -39,16 +75,35 @@ const parse = (text: string | Uint8Array, ctx = CTX) => parseSchedule(streamOf(t
 
 describe('parseSchedule: reading the file', () => {
   it('reads a BOM, headers in any case and order, IATA codes, an FL prefix and a step climb', async () => {
-    const text = '\uFEFFFuel_KG,Aircraft,DATE,flight,Origin,destination,Cruise_FL,STEPS,Mach\r\n' + '52400,t-lr,2026-11-03,sk 1,hel,NRT,FL370,350@0 FL370@2600 390@5200,0.82\r\n';
+    const text =
+      '\uFEFFFuel_KG,Aircraft,DATE,flight,Origin,destination,Cruise_FL,STEPS,Mach\r\n' +
+      '52400,t-lr,2026-11-03,sk 1,hel,NRT,FL370,350@0 FL370@2600 390@5200,0.82\r\n';
     const r = await parse(text);
     expect(r.problems).toEqual([]);
     expect(r.flights).toHaveLength(1);
     const f = r.flights[0];
-    expect(f).toMatchObject({ line: 2, date: '2026-11-03', flight: 'SK 1', origin: 'EFHK', destination: 'RJAA', aircraftCode: 'T-LR', fleetId: 10, cruiseFl: 350, maxFl: 390, fuelKg: 52_400 });
+    expect(f).toMatchObject({
+      line: 2,
+      date: '2026-11-03',
+      flight: 'SK 1',
+      origin: 'EFHK',
+      destination: 'RJAA',
+      aircraftCode: 'T-LR',
+      fleetId: 10,
+      cruiseFl: 350,
+      maxFl: 390,
+      fuelKg: 52_400,
+    });
     const input = screeningInputOf(f);
     // What is stored is a valid screening input as it stands.
     expect(validateScreeningInput(JSON.parse(JSON.stringify(input)))).toEqual(input);
-    expect(input.cruise).toEqual({ steps: [{ flightLevel: 350, fromKm: 0 }, { flightLevel: 370, fromKm: 2600 }, { flightLevel: 390, fromKm: 5200 }] });
+    expect(input.cruise).toEqual({
+      steps: [
+        { flightLevel: 350, fromKm: 0 },
+        { flightLevel: 370, fromKm: 2600 },
+        { flightLevel: 390, fromKm: 5200 },
+      ],
+    });
     expect(input.route).toEqual({ waypoints: [{ airport: 'EFHK' }, { airport: 'RJAA' }] });
     expect(input.mach).toBe(0.82);
     expect(input.emission).toEqual(ENGINE);
@@ -56,7 +111,13 @@ describe('parseSchedule: reading the file', () => {
   });
 
   it('takes the EI and Mach of the aircraft type unless the row gives its own; the fleet column wins over the default', async () => {
-    const r = await parse([`${HEADER},fleet,ei_nox_g_per_kg,mach`, '2026-11-03,A1,KEF,ANC,T-SST,560,36200,,,', '2026-11-03,A2,KEF,ANC,T-LR,370,36200,study,13.8,'].join('\n'));
+    const r = await parse(
+      [
+        `${HEADER},fleet,ei_nox_g_per_kg,mach`,
+        '2026-11-03,A1,KEF,ANC,T-SST,560,36200,,,',
+        '2026-11-03,A2,KEF,ANC,T-LR,370,36200,study,13.8,',
+      ].join('\n'),
+    );
     expect(r.problems).toEqual([]);
     const [a, b] = r.flights.map((f) => ({ ...f, input: screeningInputOf(f) }));
     expect(a.input).toMatchObject({ emission: { eiNoxGPerKg: 11.5 }, mach: 1.7 });
@@ -66,10 +127,20 @@ describe('parseSchedule: reading the file', () => {
   });
 
   it('counts blank lines in line numbers but not as flights; a quoted cell may hold commas and quotes', async () => {
-    const r = await parse([HEADER, '', '2026-11-03,"A,1",EFHK,RJAA,T-LR,370,52400', ',,,,,,', '2026-11-03,A2,EFHK,RJAA,T-LR,999,52400'].join('\n'));
+    const r = await parse(
+      [
+        HEADER,
+        '',
+        '2026-11-03,"A,1",EFHK,RJAA,T-LR,370,52400',
+        ',,,,,,',
+        '2026-11-03,A2,EFHK,RJAA,T-LR,999,52400',
+      ].join('\n'),
+    );
     expect(r.dataRows).toBe(2);
     expect(r.flights.map((f) => [f.line, f.flight])).toEqual([[3, 'A,1']]);
-    expect(r.problems).toEqual([{ line: 5, column: 'cruise_fl', message: 'The flight level must be between 0 and 660.' }]);
+    expect(r.problems).toEqual([
+      { line: 5, column: 'cruise_fl', message: 'The flight level must be between 0 and 660.' },
+    ]);
   });
 
   it('reports unknown and unnamed columns as warnings and ignores their cells', async () => {
@@ -83,23 +154,47 @@ describe('parseSchedule: reading the file', () => {
   });
 
   it('refuses a header with a missing or repeated column, an empty file and bytes that are not UTF-8', async () => {
-    expect((await parse('date,flight,origin,destination,aircraft,fuel_kg,date\n2026-11-03,A1,EFHK,RJAA,T-LR,5\n')).problems.map((p) => [p.line, p.column])).toEqual([
+    expect(
+      (
+        await parse('date,flight,origin,destination,aircraft,fuel_kg,date\n2026-11-03,A1,EFHK,RJAA,T-LR,5\n')
+      ).problems.map((p) => [p.line, p.column]),
+    ).toEqual([
       [1, 'date'],
       [1, 'cruise_fl'],
     ]);
     expect((await parse('')).problems[0]).toMatchObject({ line: 1, message: expect.stringContaining('empty') });
-    const latin1 = new Uint8Array([...new TextEncoder().encode(`${HEADER}\n2026-11-03,A1,EFHK,RJAA,T-LR,370,52400,`), 0xe9, 0x0a]);
-    expect((await parse(latin1)).problems).toEqual([{ line: 0, column: '', message: expect.stringContaining('not UTF-8') }]);
+    const latin1 = new Uint8Array([
+      ...new TextEncoder().encode(`${HEADER}\n2026-11-03,A1,EFHK,RJAA,T-LR,370,52400,`),
+      0xe9,
+      0x0a,
+    ]);
+    expect((await parse(latin1)).problems).toEqual([
+      { line: 0, column: '', message: expect.stringContaining('not UTF-8') },
+    ]);
   });
 
   it('a line with more cells than the header is a problem', async () => {
     const r = await parse([HEADER, '2026-11-03,A1,EFHK,RJAA,T-LR,370,52400,oops'].join('\n'));
-    expect(r.problems).toEqual([{ line: 2, column: '', message: expect.stringContaining('8 cells but the header has 7') }]);
+    expect(r.problems).toEqual([
+      { line: 2, column: '', message: expect.stringContaining('8 cells but the header has 7') },
+    ]);
   });
 });
 
 describe('parseSchedule: each bad cell is named by its column', () => {
-  const good = { date: '2026-11-03', flight: 'A1', origin: 'EFHK', destination: 'RJAA', aircraft: 'T-LR', cruise_fl: '370', fuel_kg: '52400', steps: '', fleet: '', ei_nox_g_per_kg: '', mach: '' };
+  const good = {
+    date: '2026-11-03',
+    flight: 'A1',
+    origin: 'EFHK',
+    destination: 'RJAA',
+    aircraft: 'T-LR',
+    cruise_fl: '370',
+    fuel_kg: '52400',
+    steps: '',
+    fleet: '',
+    ei_nox_g_per_kg: '',
+    mach: '',
+  };
   const cases: [string, Partial<typeof good>, string, RegExp][] = [
     ['a date that is not YYYY-MM-DD', { date: '03/11/2026' }, 'date', /YYYY-MM-DD/],
     ['a date not in the calendar', { date: '2026-02-30' }, 'date', /does not exist/],
@@ -114,8 +209,18 @@ describe('parseSchedule: each bad cell is named by its column', () => {
     ['no cruise level and no steps', { cruise_fl: '' }, 'cruise_fl', /cruise flight level/],
     ['fuel with a unit', { fuel_kg: '52 t' }, 'fuel_kg', /number/],
     ['fuel below 1 kg', { fuel_kg: '0.5' }, 'fuel_kg', /between 1 and 500000/],
-    ['steps not starting at 0 km', { steps: '350@10 370@2000' }, 'steps', /^Step 1 \(350@10\): The first cruise step must start at 0 km/],
-    ['steps going backwards', { steps: '350@0 370@2000 390@1500' }, 'steps', /^Step 3 \(390@1500\): Each cruise step must start further/],
+    [
+      'steps not starting at 0 km',
+      { steps: '350@10 370@2000' },
+      'steps',
+      /^Step 1 \(350@10\): The first cruise step must start at 0 km/,
+    ],
+    [
+      'steps going backwards',
+      { steps: '350@0 370@2000 390@1500' },
+      'steps',
+      /^Step 3 \(390@1500\): Each cruise step must start further/,
+    ],
     ['a step above FL660', { steps: '350@0 700@2000' }, 'steps', /^Step 2 .*between 0 and 660/],
     ['a step that is not FL@km', { steps: '350-0' }, 'steps', /flight level@km/],
     ['an unknown fleet', { fleet: 'Ghost' }, 'fleet', /No fleet “Ghost”/],
@@ -133,7 +238,9 @@ describe('parseSchedule: each bad cell is named by its column', () => {
   });
 
   it('a flight twice in the file is refused on its second line, naming the first', async () => {
-    const r = await parse([HEADER, '2026-11-03,A1,EFHK,RJAA,T-LR,370,52400', '2026-11-03,a1,HEL,NRT,T-LR,390,51000'].join('\n'));
+    const r = await parse(
+      [HEADER, '2026-11-03,A1,EFHK,RJAA,T-LR,370,52400', '2026-11-03,a1,HEL,NRT,T-LR,390,51000'].join('\n'),
+    );
     expect(r.flights).toHaveLength(1);
     expect(r.problems).toEqual([{ line: 3, column: 'flight', message: expect.stringContaining('already on line 2') }]);
   });
@@ -175,7 +282,13 @@ describe('parseSchedule: the optional route column (ICAO flight-plan route)', ()
     const text = `${HEADER},route\n2026-11-03,SK 8,EFHK,KSEA,T-LR,350,52400,N0480F350 DCT NOWHR DCT\n`;
     const r = await parse(text, LIB);
     expect(r.flights).toEqual([]);
-    expect(r.problems).toEqual([{ line: 2, column: 'route', message: expect.stringContaining('NOWHR (character 15): NOWHR is not in the fix library.') }]);
+    expect(r.problems).toEqual([
+      {
+        line: 2,
+        column: 'route',
+        message: expect.stringContaining('NOWHR (character 15): NOWHR is not in the fix library.'),
+      },
+    ]);
   });
 
   it('without a route the row is unchanged (the great circle between the airports)', async () => {

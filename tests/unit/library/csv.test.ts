@@ -29,8 +29,12 @@ describe('parseCsv', () => {
   });
 
   it('a missing required column, a repeated column, a ragged line and an unclosed quote are problems', () => {
-    expect(parseCsv('b\n1\n', { columns: COLUMNS }).problems).toEqual([{ line: 1, column: 'a', message: expect.stringContaining('"a"') }]);
-    expect(parseCsv('a,A\n1,2\n', { columns: COLUMNS }).problems).toEqual([{ line: 1, column: 'a', message: expect.stringContaining('twice') }]);
+    expect(parseCsv('b\n1\n', { columns: COLUMNS }).problems).toEqual([
+      { line: 1, column: 'a', message: expect.stringContaining('"a"') },
+    ]);
+    expect(parseCsv('a,A\n1,2\n', { columns: COLUMNS }).problems).toEqual([
+      { line: 1, column: 'a', message: expect.stringContaining('twice') },
+    ]);
     const ragged = parseCsv('a,b\n1,2\n1,2,3\n4\n', { columns: COLUMNS });
     expect(ragged.problems.map((p) => p.line)).toEqual([3, 4]);
     expect(ragged.rows.map((r) => r.line)).toEqual([2]);

@@ -3,30 +3,49 @@ import { engineCsvTemplate, parseEnginesCsv } from '@/lib/imports/engines-csv';
 import { parseSoundingCsv, soundingCsvTemplate } from '@/lib/imports/soundings-csv';
 import { tropopauseFromSounding } from '@/lib/screening';
 
-const HEADER = 'name,idle_ff_kg_s,approach_ff_kg_s,climb_out_ff_kg_s,take_off_ff_kg_s,idle_ei,approach_ei,climb_out_ei,take_off_ei,source';
+const HEADER =
+  'name,idle_ff_kg_s,approach_ff_kg_s,climb_out_ff_kg_s,take_off_ff_kg_s,idle_ei,approach_ei,climb_out_ei,take_off_ei,source';
 const none = new Set<string>();
 
 describe('parseEnginesCsv', () => {
   it('reads engines in the ICAO mode order, with source optional', () => {
-    const r = parseEnginesCsv(`${HEADER.replace(',source', '')}\nA,0.1,0.3,0.9,1.1,4,10,22,30\n`, { existingNames: none });
+    const r = parseEnginesCsv(`${HEADER.replace(',source', '')}\nA,0.1,0.3,0.9,1.1,4,10,22,30\n`, {
+      existingNames: none,
+    });
     expect(r.problems).toEqual([]);
-    expect(r.engines).toEqual([{ name: 'A', fuelFlowKgS: [0.1, 0.3, 0.9, 1.1], eiNoxGPerKg: [4, 10, 22, 30], source: '' }]);
+    expect(r.engines).toEqual([
+      { name: 'A', fuelFlowKgS: [0.1, 0.3, 0.9, 1.1], eiNoxGPerKg: [4, 10, 22, 30], source: '' },
+    ]);
   });
 
   it('maps each schema problem to its column; one bad row means no engines at all', () => {
-    const r = parseEnginesCsv(`${HEADER}\nGood,0.1,0.3,0.9,1.1,4,10,22,30,\nBad,0.1,0.3,0.9,0.8,4,0,22,30,\n,0.1,0.3,0.9,1.1,4,10,22,,\n`, { existingNames: none });
+    const r = parseEnginesCsv(
+      `${HEADER}\nGood,0.1,0.3,0.9,1.1,4,10,22,30,\nBad,0.1,0.3,0.9,0.8,4,0,22,30,\n,0.1,0.3,0.9,1.1,4,10,22,,\n`,
+      { existingNames: none },
+    );
     expect(r.engines).toEqual([]);
-    expect(r.problems.map((p) => `${p.line}:${p.column}`)).toEqual(['3:take_off_ff_kg_s', '3:approach_ei', '4:name', '4:take_off_ei']);
+    expect(r.problems.map((p) => `${p.line}:${p.column}`)).toEqual([
+      '3:take_off_ff_kg_s',
+      '3:approach_ei',
+      '4:name',
+      '4:take_off_ei',
+    ]);
     expect(r.problems[0].message).toContain('take-off fuel flow must be higher than the climb-out');
   });
 
   it('refuses names already in the workspace, case-insensitively', () => {
-    const r = parseEnginesCsv(`${HEADER}\nOLD ONE,0.1,0.3,0.9,1.1,4,10,22,30,\n`, { existingNames: new Set(['old one']) });
-    expect(r.problems).toEqual([{ line: 2, column: 'name', message: expect.stringContaining('already in this workspace') }]);
+    const r = parseEnginesCsv(`${HEADER}\nOLD ONE,0.1,0.3,0.9,1.1,4,10,22,30,\n`, {
+      existingNames: new Set(['old one']),
+    });
+    expect(r.problems).toEqual([
+      { line: 2, column: 'name', message: expect.stringContaining('already in this workspace') },
+    ]);
   });
 
   it('a header with no rows is a problem; the template reads cleanly', () => {
-    expect(parseEnginesCsv(`${HEADER}\n`, { existingNames: none }).problems).toEqual([{ line: 2, column: '', message: expect.stringContaining('no engines') }]);
+    expect(parseEnginesCsv(`${HEADER}\n`, { existingNames: none }).problems).toEqual([
+      { line: 2, column: '', message: expect.stringContaining('no engines') },
+    ]);
     const t = parseEnginesCsv(engineCsvTemplate(), { existingNames: none });
     expect(t.problems).toEqual([]);
     expect(t.engines).toHaveLength(1);
@@ -50,7 +69,9 @@ describe('parseSoundingCsv', () => {
   it('header problems: no height column, no temperature, both temperature columns', () => {
     expect(parseSoundingCsv('temperature_k\n288\n').problems.map((p) => p.column)).toEqual(['altitude_m']);
     expect(parseSoundingCsv('altitude_m\n0\n').problems.map((p) => p.column)).toEqual(['temperature_k']);
-    expect(parseSoundingCsv('altitude_m,temperature_k,temperature_c\n0,288,15\n').problems.map((p) => p.column)).toEqual(['temperature_c']);
+    expect(
+      parseSoundingCsv('altitude_m,temperature_k,temperature_c\n0,288,15\n').problems.map((p) => p.column),
+    ).toEqual(['temperature_c']);
   });
 
   it('fewer than 3 levels is a problem of the whole file, reported on line 1', () => {

@@ -34,7 +34,11 @@ describe('chart axes of the report and the page', () => {
 describe('comparison period and route words', () => {
   it('defaults to the current month and the two before it, up to today', () => {
     expect(resolvePeriod({}, '2026-11-20')).toEqual({ from: '2026-09-01', to: '2026-11-20', days: 81 });
-    expect(resolvePeriod({ to: '2026-02-10' }, '2026-11-20')).toEqual({ from: '2025-12-01', to: '2026-02-10', days: 72 });
+    expect(resolvePeriod({ to: '2026-02-10' }, '2026-11-20')).toEqual({
+      from: '2025-12-01',
+      to: '2026-02-10',
+      days: 72,
+    });
     expect(resolvePeriod({ from: '2026-11-01' }, '2026-11-20').to).toBe('2026-11-20');
   });
 

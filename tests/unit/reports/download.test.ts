@@ -10,7 +10,9 @@ function extName(header: string): string {
 describe('download headers (RFC 6266 / RFC 8187)', () => {
   it('gives an ASCII fallback and the readable UTF-8 name', () => {
     const h = attachmentHeaders('Polar fleets, autumn 2026 – Ålesund', 'pdf', 'application/pdf');
-    expect(h['content-disposition']).toMatch(/^attachment; filename="polar-fleets-autumn-2026-alesund\.pdf"; filename\*=UTF-8''/);
+    expect(h['content-disposition']).toMatch(
+      /^attachment; filename="polar-fleets-autumn-2026-alesund\.pdf"; filename\*=UTF-8''/,
+    );
     expect(extName(h['content-disposition'])).toBe('Polar fleets, autumn 2026 – Ålesund.pdf');
     expect(h['x-content-type-options']).toBe('nosniff');
   });

@@ -14,10 +14,38 @@ describe('isa against the published tables', () => {
   // ICAO Doc 7488/3 (= US Standard Atmosphere 1976) layer bases, geopotential altitude. The engine
   // derives each base pressure from p0 by continuity, so these are independent checks.
   it.each([
-    { h: 0, t: 288.15, p: 101_325, rho: 1.225, a: 340.294, source: 'ICAO Doc 7488/3 sea level: 288.15 K, 101 325 Pa, 1.225 kg/m3, 340.294 m/s' },
-    { h: 11_000, t: 216.65, p: 22_632.06, rho: 0.36392, a: 295.07, source: 'ICAO Doc 7488/3 table: 11 000 m -> 216.65 K, 22 632 Pa' },
-    { h: 20_000, t: 216.65, p: 5474.889, rho: 0.088035, a: 295.07, source: 'ICAO Doc 7488/3 table: 20 000 m -> 216.65 K, 5474.889 Pa' },
-    { h: 32_000, t: 228.65, p: 868.0187, rho: 0.013225, a: 303.13, source: 'ICAO Doc 7488/3 table: 32 000 m -> 228.65 K, 868.0187 Pa' },
+    {
+      h: 0,
+      t: 288.15,
+      p: 101_325,
+      rho: 1.225,
+      a: 340.294,
+      source: 'ICAO Doc 7488/3 sea level: 288.15 K, 101 325 Pa, 1.225 kg/m3, 340.294 m/s',
+    },
+    {
+      h: 11_000,
+      t: 216.65,
+      p: 22_632.06,
+      rho: 0.36392,
+      a: 295.07,
+      source: 'ICAO Doc 7488/3 table: 11 000 m -> 216.65 K, 22 632 Pa',
+    },
+    {
+      h: 20_000,
+      t: 216.65,
+      p: 5474.889,
+      rho: 0.088035,
+      a: 295.07,
+      source: 'ICAO Doc 7488/3 table: 20 000 m -> 216.65 K, 5474.889 Pa',
+    },
+    {
+      h: 32_000,
+      t: 228.65,
+      p: 868.0187,
+      rho: 0.013225,
+      a: 303.13,
+      source: 'ICAO Doc 7488/3 table: 32 000 m -> 228.65 K, 868.0187 Pa',
+    },
   ])('$source', ({ h, t, p, rho, a }) => {
     const s = isa(h);
     expect(s.temperatureK).toBeCloseTo(t, 6);
@@ -79,10 +107,14 @@ describe('pressure altitude', () => {
 
   it('pressure falls strictly with altitude (property)', () => {
     fc.assert(
-      fc.property(fc.double({ min: -500, max: 31_999, noNaN: true }), fc.double({ min: 0.5, max: 1000, noNaN: true }), (h, dh) => {
-        const h2 = Math.min(32_000, h + dh);
-        expect(isa(h2).pressurePa).toBeLessThan(isa(h).pressurePa);
-      }),
+      fc.property(
+        fc.double({ min: -500, max: 31_999, noNaN: true }),
+        fc.double({ min: 0.5, max: 1000, noNaN: true }),
+        (h, dh) => {
+          const h2 = Math.min(32_000, h + dh);
+          expect(isa(h2).pressurePa).toBeLessThan(isa(h).pressurePa);
+        },
+      ),
     );
   });
 

@@ -1,6 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { ScreeningInputError, compareCruiseLevels, compareValidated, screenFlight, validateScreeningInput } from '@/lib/screening';
+import {
+  ScreeningInputError,
+  compareCruiseLevels,
+  compareValidated,
+  screenFlight,
+  validateScreeningInput,
+} from '@/lib/screening';
 
 const flight = (cruise: unknown = { flightLevel: 350 }) => ({
   route: { waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] },
@@ -31,15 +37,31 @@ describe('compareCruiseLevels', () => {
   });
 
   it('given the planned screening, uses it for the unshifted row and gives the same rows as without it', () => {
-    const input = validateScreeningInput(flight({ steps: [{ fromKm: 0, flightLevel: 340 }, { fromKm: 2500, flightLevel: 380 }] }));
-    const planned = screenFlight(flight({ steps: [{ fromKm: 0, flightLevel: 340 }, { fromKm: 2500, flightLevel: 380 }] }));
+    const input = validateScreeningInput(
+      flight({
+        steps: [
+          { fromKm: 0, flightLevel: 340 },
+          { fromKm: 2500, flightLevel: 380 },
+        ],
+      }),
+    );
+    const planned = screenFlight(
+      flight({
+        steps: [
+          { fromKm: 0, flightLevel: 340 },
+          { fromKm: 2500, flightLevel: 380 },
+        ],
+      }),
+    );
     const alone = compareValidated(input, {});
     expect(compareValidated(input, {}, planned)).toEqual(alone);
     // The planned screening really is what the unshifted row reads: a different one shows through.
     const other = { ...planned, noxAboveTropopauseKg: planned.noxAboveTropopauseKg + 1 };
     const rows = compareValidated(input, {}, other);
     expect(rows.find((r) => r.deltaFt === 0)!.noxAboveTropopauseKg).toBe(planned.noxAboveTropopauseKg + 1);
-    expect(rows.find((r) => r.deltaFt === 2000)!.noxAboveTropopauseKg).toBe(alone.find((r) => r.deltaFt === 2000)!.noxAboveTropopauseKg);
+    expect(rows.find((r) => r.deltaFt === 2000)!.noxAboveTropopauseKg).toBe(
+      alone.find((r) => r.deltaFt === 2000)!.noxAboveTropopauseKg,
+    );
   });
 
   it('marks exactly one lowest-impact row, within the limit, with the least central ozone figure', () => {
@@ -47,15 +69,19 @@ describe('compareCruiseLevels', () => {
     const marked = rows.filter((r) => r.lowestImpact);
     expect(marked).toHaveLength(1);
     expect(marked[0].withinLimit).toBe(true);
-    for (const r of rows.filter((x) => x.withinLimit)) expect(marked[0].ozoneLoss.centralKg).toBeLessThanOrEqual(r.ozoneLoss.centralKg);
+    for (const r of rows.filter((x) => x.withinLimit))
+      expect(marked[0].ozoneLoss.centralKg).toBeLessThanOrEqual(r.ozoneLoss.centralKg);
   });
 
   it('the planner chooses what the mark minimises, and the mark is named after it', () => {
     const byNox = compareCruiseLevels(flight(), { minimise: 'nox-above-tropopause' });
     const m = byNox.filter((r) => r.lowestImpact);
     expect(m).toHaveLength(1);
-    for (const r of byNox.filter((x) => x.withinLimit)) expect(m[0].noxAboveTropopauseKg).toBeLessThanOrEqual(r.noxAboveTropopauseKg);
-    expect(byNox.every((r) => r.minimise === 'nox-above-tropopause' && r.markName === 'Least NOx above the tropopause')).toBe(true);
+    for (const r of byNox.filter((x) => x.withinLimit))
+      expect(m[0].noxAboveTropopauseKg).toBeLessThanOrEqual(r.noxAboveTropopauseKg);
+    expect(
+      byNox.every((r) => r.minimise === 'nox-above-tropopause' && r.markName === 'Least NOx above the tropopause'),
+    ).toBe(true);
     const byOzone = compareCruiseLevels(flight());
     expect(byOzone.every((r) => r.minimise === 'ozone-figure' && r.markName === 'Least ozone figure')).toBe(true);
     expect(() => compareCruiseLevels(flight(), { minimise: 'co2' as never })).toThrow(ScreeningInputError);
@@ -75,12 +101,23 @@ describe('compareCruiseLevels', () => {
   });
 
   it('shifts every step of a step climb together', () => {
-    const rows = compareCruiseLevels(flight({ steps: [{ fromKm: 0, flightLevel: 340 }, { fromKm: 3000, flightLevel: 380 }] }));
+    const rows = compareCruiseLevels(
+      flight({
+        steps: [
+          { fromKm: 0, flightLevel: 340 },
+          { fromKm: 3000, flightLevel: 380 },
+        ],
+      }),
+    );
     expect(rows.find((r) => r.deltaFt === 2000)!.flightLevels).toEqual([360, 400]);
   });
 
   it('takes the options: deltas, penalty and limit', () => {
-    const rows = compareCruiseLevels(flight(), { deltasFt: [0, 4000], fuelPenaltyPctPer1000Ft: 0.5, maxFuelPenaltyPct: 2 });
+    const rows = compareCruiseLevels(flight(), {
+      deltasFt: [0, 4000],
+      fuelPenaltyPctPer1000Ft: 0.5,
+      maxFuelPenaltyPct: 2,
+    });
     expect(rows.map((r) => [r.deltaFt, r.fuelPenaltyPct, r.withinLimit])).toEqual([
       [0, 0, true],
       [4000, 2, true],
@@ -116,7 +153,12 @@ describe('compareCruiseLevels', () => {
         ({ lat1, lon1, dLat, fl, ei, limit }) => {
           const rows = compareCruiseLevels(
             {
-              route: { waypoints: [{ lat: lat1, lon: lon1 }, { lat: lat1 + dLat, lon: lon1 + 5 }] },
+              route: {
+                waypoints: [
+                  { lat: lat1, lon: lon1 },
+                  { lat: lat1 + dLat, lon: lon1 + 5 },
+                ],
+              },
               cruise: { flightLevel: fl },
               fuelBurnKg: 5000,
               emission: { eiNoxGPerKg: ei },

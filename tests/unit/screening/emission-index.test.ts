@@ -28,7 +28,7 @@ describe('Goff-Gratch saturation vapour pressure over water', () => {
   it.each([
     { t: 273.15, pa: 611.2, source: 'WMO reference: 6.112 hPa at 0 degC' },
     { t: 293.15, pa: 2339, source: 'steam tables: 2.339 kPa at 20 degC' },
-    { t: 373.15, pa: 101_325, source: 'boiling point at 1013.25 hPa (the equation\'s steam point)' },
+    { t: 373.15, pa: 101_325, source: "boiling point at 1013.25 hPa (the equation's steam point)" },
   ])('$source', ({ t, pa }) => {
     expect(Math.abs(goffGratchSaturationPressurePa(t) - pa) / pa).toBeLessThan(0.005);
   });
@@ -102,7 +102,13 @@ describe('cruise EI NOx', () => {
   });
 
   it('BFFM2 at ISA sea level, static, 60 % RH reproduces the certification curve (delta = theta = 1, M = 0, H ~ 0)', () => {
-    const s = { fuelFlowPerEngineKgS: 0.99 * 1.013, pressurePa: 101_325, temperatureK: 288.15, mach: 0, relativeHumidity: 0.6 };
+    const s = {
+      fuelFlowPerEngineKgS: 0.99 * 1.013,
+      pressurePa: 101_325,
+      temperatureK: 288.15,
+      mach: 0,
+      relativeHumidity: 0.6,
+    };
     expect(Math.abs(bffm2EiNox(bCurve, s).eiNoxGPerKg - 22.5) / 22.5).toBeLessThan(0.005);
   });
 
@@ -134,7 +140,12 @@ describe('cruise EI NOx', () => {
     expect(Math.abs(wff - 0.59016) / 0.59016).toBeLessThan(0.003);
     expect(Math.abs(rei - 15.1753) / 15.1753).toBeLessThan(0.003);
     expect(Math.abs(ei - 12.8655) / 12.8655).toBeLessThan(0.003);
-    const r = bffm2EiNox(bCurve, { fuelFlowPerEngineKgS: 0.35, pressurePa: 23_842.27, temperatureK: 218.808, mach: 0.78 });
+    const r = bffm2EiNox(bCurve, {
+      fuelFlowPerEngineKgS: 0.35,
+      pressurePa: 23_842.27,
+      temperatureK: 218.808,
+      mach: 0.78,
+    });
     expect(Math.abs(r.referredFuelFlowKgS - wff) / wff).toBeLessThan(0.003);
     expect(Math.abs(r.referenceEiGPerKg - rei) / rei).toBeLessThan(0.003);
     expect(Math.abs(r.eiNoxGPerKg - 12.8655) / 12.8655).toBeLessThan(0.003);
@@ -153,7 +164,12 @@ describe('cruise EI NOx', () => {
     expect(Math.abs(wfRef - 1.0783) / 1.0783).toBeLessThan(0.003);
     expect(Math.abs(eiRef - 24.9935) / 24.9935).toBeLessThan(0.003);
     expect(Math.abs(ei - 11.448) / 11.448).toBeLessThan(0.003);
-    const r = dlrEiNox(dCurve, { fuelFlowPerEngineKgS: 0.35, pressurePa: 23_842.27, temperatureK: 218.808, mach: 0.78 });
+    const r = dlrEiNox(dCurve, {
+      fuelFlowPerEngineKgS: 0.35,
+      pressurePa: 23_842.27,
+      temperatureK: 218.808,
+      mach: 0.78,
+    });
     expect(Math.abs(r.eiNoxGPerKg - 11.448) / 11.448).toBeLessThan(0.003);
   });
 

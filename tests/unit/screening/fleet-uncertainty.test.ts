@@ -14,7 +14,12 @@ function fleet(n: number, seed: number) {
     const lat = (rnd() < 0.7 ? 1 : -1) * (30 + rnd() * 35);
     const lon = -170 + rnd() * 300;
     const raw = {
-      route: { waypoints: [{ lat, lon }, { lat: lat + (rnd() - 0.5) * 10, lon: lon + 10 + rnd() * 40 }] },
+      route: {
+        waypoints: [
+          { lat, lon },
+          { lat: lat + (rnd() - 0.5) * 10, lon: lon + 10 + rnd() * 40 },
+        ],
+      },
       cruise: { flightLevel: 300 + Math.floor(rnd() * 13) * 10 },
       fuelBurnKg: 8000 + rnd() * 40_000,
       emission: rnd() < 0.5 ? { eiNoxGPerKg: 10 + rnd() * 10 } : { engine: ENGINE, engineCount: 2 },
@@ -31,7 +36,7 @@ function fleet(n: number, seed: number) {
 }
 
 describe('fleet percentiles', () => {
-  it('from the flights\' components agree with a brute-force re-evaluation of every flight (200 flights, same draws)', () => {
+  it("from the flights' components agree with a brute-force re-evaluation of every flight (200 flights, same draws)", () => {
     const flights = fleet(200, 7);
     const comps = flights.map((f) => flightComponents(f.input, f.result));
     const fast = sampleFleet(comps, { samples: 300, seed: 4 });
@@ -50,7 +55,7 @@ describe('fleet percentiles', () => {
     expect(fast.correlation).toMatch(/shared by every flight/);
   });
 
-  it('is narrower, relative to its median, than the sum of the flights\' own percentile bands would suggest', () => {
+  it("is narrower, relative to its median, than the sum of the flights' own percentile bands would suggest", () => {
     // Independent errors (tropopause half, EI scatter) partly cancel over a fleet; shared ones do not.
     const flights = fleet(60, 9);
     const comps = flights.map((f) => flightComponents(f.input, f.result));

@@ -79,7 +79,11 @@ describe('significant points (Doc 4444 Appendix 2, item 15 (c) 2)', () => {
       { lat: 51.5, lon: -3, name: 'MAY' },
       { lat: 52, lon: -5, name: 'HADDY' },
     ]);
-    expect(r.items.filter((i) => i.kind === 'point').map((i) => i.status)).toEqual(['looked-up', 'looked-up', 'looked-up']);
+    expect(r.items.filter((i) => i.kind === 'point').map((i) => i.status)).toEqual([
+      'looked-up',
+      'looked-up',
+      'looked-up',
+    ]);
   });
 
   it.each([
@@ -116,7 +120,9 @@ describe('significant points (Doc 4444 Appendix 2, item 15 (c) 2)', () => {
 
   it('a route across the antimeridian takes the short way (great-circle distance, not round the world)', () => {
     const r = parseFlightPlanRoute('M085F370 50N170E 52N180E 52N180W 50N170W');
-    const total = r.waypoints.slice(1).reduce((s, w, i) => s + legDistanceKm(r.waypoints[i].lat, r.waypoints[i].lon, w.lat, w.lon), 0);
+    const total = r.waypoints
+      .slice(1)
+      .reduce((s, w, i) => s + legDistanceKm(r.waypoints[i].lat, r.waypoints[i].lon, w.lat, w.lon), 0);
     // 50N170E-50N170W is 20 degrees of longitude at about 51N: roughly 1 400 km (common practice: 111 km per degree x cos lat).
     expect(total).toBeGreaterThan(1300);
     expect(total).toBeLessThan(1600);
@@ -144,7 +150,9 @@ describe('significant points (Doc 4444 Appendix 2, item 15 (c) 2)', () => {
 
   it('a bearing from an unknown point is unresolved with its offset', () => {
     const r = parseFlightPlanRoute('N0480F350 50N010W QQQ090100 50N020W');
-    expect(r.unresolved).toEqual([{ item: 'QQQ090100', position: 18, reason: expect.stringContaining('QQQ is not in the fix library') }]);
+    expect(r.unresolved).toEqual([
+      { item: 'QQQ090100', position: 18, reason: expect.stringContaining('QQQ is not in the fix library') },
+    ]);
   });
 
   it('same-named points: the one nearest along the route is chosen, named with its region in a note', () => {
@@ -178,7 +186,8 @@ describe('changes of speed and level (Doc 4444 Appendix 2, item 15 (c) 6)', () =
     const r = parseFlightPlanRoute(`N0450F100 10N010W DCT 20N010W DCT ${item}`, { fixes: FIXES });
     expect(r.unresolved).toEqual([]);
     const w = r.waypoints;
-    const km = legDistanceKm(w[0].lat, w[0].lon, w[1].lat, w[1].lon) + legDistanceKm(w[1].lat, w[1].lon, w[2].lat, w[2].lon);
+    const km =
+      legDistanceKm(w[0].lat, w[0].lon, w[1].lat, w[1].lon) + legDistanceKm(w[1].lat, w[1].lon, w[2].lat, w[2].lon);
     expect(r.cruise.steps).toEqual([
       { fromKm: 0, flightLevel: 100 },
       { fromKm: km, flightLevel: fl },
@@ -200,7 +209,9 @@ describe('changes of speed and level (Doc 4444 Appendix 2, item 15 (c) 6)', () =
   it('IATA codes for from/to resolve through the airport lookup; an unknown code is unresolved with position null', () => {
     const r = parseFlightPlanRoute('N0480F350 55N020W', { from: 'LHR', to: 'QQQ' });
     expect(r.waypoints[0].name).toBe('EGLL');
-    expect(r.unresolved).toEqual([{ item: 'QQQ', position: null, reason: expect.stringContaining('destination aerodrome QQQ') }]);
+    expect(r.unresolved).toEqual([
+      { item: 'QQQ', position: null, reason: expect.stringContaining('destination aerodrome QQQ') },
+    ]);
   });
 
   it('cruise climb C/48N050W/M082F290F350 (Doc 4444 example): step at the first level, noted', () => {
@@ -212,9 +223,10 @@ describe('changes of speed and level (Doc 4444 Appendix 2, item 15 (c) 6)', () =
 });
 
 describe('airways, SID and STAR (Doc 4444 Appendix 2, item 15 (c) 1, 3, 4)', () => {
-  const EXAMPLE = 'N0460F290 LEK2B LEK UA6 XMM/M078F330 UA6N PON UR10N CHW UA5 NTS DCT 4611N00412W DCT STG UA5 FTM FATIM1A';
+  const EXAMPLE =
+    'N0460F290 LEK2B LEK UA6 XMM/M078F330 UA6N PON UR10N CHW UA5 NTS DCT 4611N00412W DCT STG UA5 FTM FATIM1A';
 
-  it('the standard\'s worked example: SID and STAR ignored with a note, airways flown as great circles with a note, change at XMM', () => {
+  it("the standard's worked example: SID and STAR ignored with a note, airways flown as great circles with a note, change at XMM", () => {
     const r = parseFlightPlanRoute(EXAMPLE, { fixes: FIXES });
     expect(r.unresolved).toEqual([]);
     expect(r.waypoints.map((w) => w.name)).toEqual(['LEK', 'XMM', 'PON', 'CHW', 'NTS', '4611N00412W', 'STG', 'FTM']);
@@ -250,7 +262,11 @@ describe('airways, SID and STAR (Doc 4444 Appendix 2, item 15 (c) 1, 3, 4)', () 
   });
 
   it('fixes may also be the whole library { fixes, airways }, as the public contract gives it', () => {
-    const fixes: FlightPlanFix[] = [...FIXES, { name: 'QXKAV', lat: 59, lon: 3 }, { name: 'QXMEL', lat: 58.5, lon: 1.5 }];
+    const fixes: FlightPlanFix[] = [
+      ...FIXES,
+      { name: 'QXKAV', lat: 59, lon: 3 },
+      { name: 'QXMEL', lat: 58.5, lon: 1.5 },
+    ];
     const airways: FlightPlanAirway[] = [{ name: 'UA6', fixes: ['LEK', 'QXKAV', 'QXMEL', 'XMM'] }];
     const r = parseFlightPlanRoute('N0460F290 LEK UA6 XMM', { fixes: { fixes, airways } });
     expect(r.waypoints.map((w) => w.name)).toEqual(['LEK', 'QXKAV', 'QXMEL', 'XMM']);
@@ -285,17 +301,20 @@ describe('round trip and robustness', () => {
   it('waypoints at whole minutes survive formatting to item-15 coordinates and parsing back (property)', () => {
     const minute = (max: number) => fc.integer({ min: -max * 60, max: max * 60 }).map((m) => m / 60);
     fc.assert(
-      fc.property(fc.array(fc.record({ lat: minute(90), lon: minute(180) }), { minLength: 2, maxLength: 30 }), (pts) => {
-        const text = `M085F370 ${pts.map((p) => formatFlightPlanCoordinate(p.lat, p.lon)).join(' DCT ')}`;
-        const r = parseFlightPlanRoute(text);
-        expect(r.unresolved).toEqual([]);
-        expect(r.waypoints).toHaveLength(pts.length);
-        r.waypoints.forEach((w, i) => {
-          expect(Math.abs(w.lat - pts[i].lat)).toBeLessThan(1e-9);
-          // -180 and 180 are the same meridian.
-          expect(Math.abs(Math.abs(w.lon - pts[i].lon) % 360)).toBeLessThan(1e-9);
-        });
-      }),
+      fc.property(
+        fc.array(fc.record({ lat: minute(90), lon: minute(180) }), { minLength: 2, maxLength: 30 }),
+        (pts) => {
+          const text = `M085F370 ${pts.map((p) => formatFlightPlanCoordinate(p.lat, p.lon)).join(' DCT ')}`;
+          const r = parseFlightPlanRoute(text);
+          expect(r.unresolved).toEqual([]);
+          expect(r.waypoints).toHaveLength(pts.length);
+          r.waypoints.forEach((w, i) => {
+            expect(Math.abs(w.lat - pts[i].lat)).toBeLessThan(1e-9);
+            // -180 and 180 are the same meridian.
+            expect(Math.abs(Math.abs(w.lon - pts[i].lon) % 360)).toBeLessThan(1e-9);
+          });
+        },
+      ),
       { numRuns: 300 },
     );
   });
@@ -307,7 +326,21 @@ describe('round trip and robustness', () => {
   });
 
   it('never throws, and every non-blank item is placed, ignored or listed as unresolved (property)', () => {
-    const word = fc.constantFrom('DCT', 'LN', 'UA6', '46N078W', 'N0480F350', 'X/Y', 'C/', 'MAY/M082F330', 'FATIM1A', 'VFR', '9', 'DUB180040', '??');
+    const word = fc.constantFrom(
+      'DCT',
+      'LN',
+      'UA6',
+      '46N078W',
+      'N0480F350',
+      'X/Y',
+      'C/',
+      'MAY/M082F330',
+      'FATIM1A',
+      'VFR',
+      '9',
+      'DUB180040',
+      '??',
+    );
     fc.assert(
       fc.property(fc.array(word, { maxLength: 20 }), (words) => {
         const text = words.join(' ');
@@ -332,7 +365,11 @@ describe('screening a flight-plan route (screenFlight with route.flightPlan)', (
     const text = 'M084F350 DCT 60N020W 63N030W/M084F370 65N040W DCT';
     const fp = screenFlight({ ...BASE, route: { flightPlan: { text, from: 'EGLL', to: 'CYYZ' } } });
     const parsed = parseFlightPlanRoute(text, { from: 'EGLL', to: 'CYYZ' });
-    const byHand = screenFlight({ ...BASE, route: { waypoints: parsed.waypoints.map((w) => ({ lat: w.lat, lon: w.lon })) }, cruise: { steps: parsed.cruise.steps } });
+    const byHand = screenFlight({
+      ...BASE,
+      route: { waypoints: parsed.waypoints.map((w) => ({ lat: w.lat, lon: w.lon })) },
+      cruise: { steps: parsed.cruise.steps },
+    });
     expect(fp.noxAboveTropopauseKg).toBe(byHand.noxAboveTropopauseKg);
     expect(fp.distanceKm).toBe(byHand.distanceKm);
     expect(fp.flightPlan?.cruise.steps.map((s) => s.flightLevel)).toEqual([350, 370]);
@@ -342,7 +379,10 @@ describe('screening a flight-plan route (screenFlight with route.flightPlan)', (
 
   it('keeps the entered cruise when the text has no level, and lists unplaced items in the cautions', async () => {
     const { screenFlight } = await import('@/lib/screening');
-    const r = screenFlight({ ...BASE, route: { flightPlan: { text: 'DCT 60N020W QQQQQ 63N030W DCT', from: 'EGLL', to: 'CYYZ' } } });
+    const r = screenFlight({
+      ...BASE,
+      route: { flightPlan: { text: 'DCT 60N020W QQQQQ 63N030W DCT', from: 'EGLL', to: 'CYYZ' } },
+    });
     expect(r.levels.map((l) => l.flightLevel)).toEqual([330]);
     expect(r.flightPlan?.unresolved.map((u) => u.item)).toEqual(['DCT', 'QQQQQ']);
     expect(r.cautions.some((c) => c.includes('QQQQQ at character 13'))).toBe(true);
@@ -368,7 +408,13 @@ describe('screening a flight-plan route (screenFlight with route.flightPlan)', (
 
   it('the what-if rows shift the levels read from the text', async () => {
     const { compareCruiseLevels } = await import('@/lib/screening');
-    const rows = compareCruiseLevels({ ...BASE, route: { flightPlan: { text: 'M084F350 DCT 60N020W 63N030W/M084F370 DCT', from: 'EGLL', to: 'CYYZ' } } }, { deltasFt: [-2000, 0] });
+    const rows = compareCruiseLevels(
+      {
+        ...BASE,
+        route: { flightPlan: { text: 'M084F350 DCT 60N020W 63N030W/M084F370 DCT', from: 'EGLL', to: 'CYYZ' } },
+      },
+      { deltasFt: [-2000, 0] },
+    );
     expect(rows.map((r) => r.flightLevels)).toEqual([
       [330, 350],
       [350, 370],
@@ -378,7 +424,8 @@ describe('screening a flight-plan route (screenFlight with route.flightPlan)', (
 
 describe('inputAsScreened', () => {
   it('re-works a saved flight-plan screening on the route read then, whatever the library holds now', async () => {
-    const { screenValidated, validateScreeningInput, compareCruiseLevels, inputAsScreened } = await import('@/lib/screening');
+    const { screenValidated, validateScreeningInput, compareCruiseLevels, inputAsScreened } =
+      await import('@/lib/screening');
     const input = validateScreeningInput({
       route: { flightPlan: { text: 'N0460F350 LN MAY/N0460F370 HADDY', from: 'EGLL', to: 'EIDW' } },
       cruise: { flightLevel: 300 },

@@ -4,7 +4,12 @@ import { SAME_EVERY_MONTH_NOTE, ScreeningInputError, screenAcrossMonths, screenF
 // A zonal route along 45 degrees at FL350 (10 668 m pressure altitude): close to the mid-latitude
 // tropopause, which sits lower in local winter than in local summer.
 const along45 = (lat: number, lon0: number) => ({
-  route: { waypoints: [{ lat, lon: lon0 }, { lat, lon: lon0 + 30 }] },
+  route: {
+    waypoints: [
+      { lat, lon: lon0 },
+      { lat, lon: lon0 + 30 },
+    ],
+  },
   cruise: { flightLevel: 350 },
   fuelBurnKg: 20_000,
   emission: { eiNoxGPerKg: 14 },
@@ -19,7 +24,11 @@ describe('screenAcrossMonths', () => {
       const own = screenFlight({ ...input, month: r.month });
       expect(r.noxAboveTropopauseKg).toBe(own.noxAboveTropopauseKg);
       expect(r.fractionAboveTropopause).toBe(own.fractionAboveTropopause);
-      expect(r.ozoneLoss).toEqual({ centralKg: own.ozoneLoss.centralKg, lowKg: own.ozoneLoss.lowKg, highKg: own.ozoneLoss.highKg });
+      expect(r.ozoneLoss).toEqual({
+        centralKg: own.ozoneLoss.centralKg,
+        lowKg: own.ozoneLoss.lowKg,
+        highKg: own.ozoneLoss.highKg,
+      });
       expect(r.sameEveryMonth).toBe(false);
     }
   });

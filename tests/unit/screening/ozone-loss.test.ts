@@ -83,19 +83,40 @@ describe('embedded AFGL 1986 O3 profiles against the published tables', () => {
   // 32.5, 35 km; values as tabulated (4 significant figures) in the LOWTRAN/MODTRAN model-atmosphere
   // data, and agreeing within rounding with the 3-figure tables of the open-source joseki library.
   const TABLES: Record<string, number[]> = {
-    tropical: [2.869e-2, 3.15e-2, 3.342e-2, 3.504e-2, 3.561e-2, 3.767e-2, 3.989e-2, 4.223e-2, 4.471e-2, 5.0e-2, 5.595e-2, 6.613e-2, 7.815e-2, 9.289e-2, 1.05e-1, 1.256e-1, 1.444e-1, 2.5e-1, 5.0e-1, 9.5e-1, 1.4, 1.8, 2.4, 3.4, 4.3, 5.4, 7.8, 9.3, 9.85, 9.7],
-    'midlatitude-summer': [3.017e-2, 3.337e-2, 3.694e-2, 4.222e-2, 4.821e-2, 5.512e-2, 6.408e-2, 7.764e-2, 9.126e-2, 1.111e-1, 1.304e-1, 1.793e-1, 2.23e-1, 3.0e-1, 4.4e-1, 5.0e-1, 6.0e-1, 7.0e-1, 1.0, 1.5, 2.0, 2.4, 2.9, 3.4, 4.0, 4.8, 6.0, 7.0, 8.1, 8.9],
-    'midlatitude-winter': [2.778e-2, 2.8e-2, 2.849e-2, 3.2e-2, 3.567e-2, 4.72e-2, 5.837e-2, 7.891e-2, 1.039e-1, 1.567e-1, 2.37e-1, 3.624e-1, 5.232e-1, 7.036e-1, 8.0e-1, 9.0e-1, 1.1, 1.4, 1.8, 2.3, 2.9, 3.5, 3.9, 4.3, 4.7, 5.1, 5.6, 6.1, 6.8, 7.1],
-    'subarctic-summer': [2.412e-2, 2.94e-2, 3.379e-2, 3.887e-2, 4.478e-2, 5.328e-2, 6.564e-2, 7.738e-2, 9.114e-2, 1.42e-1, 1.89e-1, 3.05e-1, 4.1e-1, 5.0e-1, 6.0e-1, 7.0e-1, 8.5e-1, 1.0, 1.3, 1.7, 2.1, 2.7, 3.3, 3.7, 4.2, 4.5, 5.3, 5.7, 6.9, 7.7],
-    'subarctic-winter': [1.802e-2, 2.072e-2, 2.336e-2, 2.767e-2, 3.253e-2, 3.801e-2, 4.446e-2, 7.252e-2, 1.04e-1, 2.1e-1, 3.0e-1, 3.5e-1, 4.0e-1, 6.5e-1, 9.0e-1, 1.2, 1.5, 1.9, 2.45, 3.1, 3.7, 4.0, 4.2, 4.5, 4.6, 4.7, 4.9, 5.4, 5.9, 6.2],
+    tropical: [
+      2.869e-2, 3.15e-2, 3.342e-2, 3.504e-2, 3.561e-2, 3.767e-2, 3.989e-2, 4.223e-2, 4.471e-2, 5.0e-2, 5.595e-2,
+      6.613e-2, 7.815e-2, 9.289e-2, 1.05e-1, 1.256e-1, 1.444e-1, 2.5e-1, 5.0e-1, 9.5e-1, 1.4, 1.8, 2.4, 3.4, 4.3, 5.4,
+      7.8, 9.3, 9.85, 9.7,
+    ],
+    'midlatitude-summer': [
+      3.017e-2, 3.337e-2, 3.694e-2, 4.222e-2, 4.821e-2, 5.512e-2, 6.408e-2, 7.764e-2, 9.126e-2, 1.111e-1, 1.304e-1,
+      1.793e-1, 2.23e-1, 3.0e-1, 4.4e-1, 5.0e-1, 6.0e-1, 7.0e-1, 1.0, 1.5, 2.0, 2.4, 2.9, 3.4, 4.0, 4.8, 6.0, 7.0, 8.1,
+      8.9,
+    ],
+    'midlatitude-winter': [
+      2.778e-2, 2.8e-2, 2.849e-2, 3.2e-2, 3.567e-2, 4.72e-2, 5.837e-2, 7.891e-2, 1.039e-1, 1.567e-1, 2.37e-1, 3.624e-1,
+      5.232e-1, 7.036e-1, 8.0e-1, 9.0e-1, 1.1, 1.4, 1.8, 2.3, 2.9, 3.5, 3.9, 4.3, 4.7, 5.1, 5.6, 6.1, 6.8, 7.1,
+    ],
+    'subarctic-summer': [
+      2.412e-2, 2.94e-2, 3.379e-2, 3.887e-2, 4.478e-2, 5.328e-2, 6.564e-2, 7.738e-2, 9.114e-2, 1.42e-1, 1.89e-1,
+      3.05e-1, 4.1e-1, 5.0e-1, 6.0e-1, 7.0e-1, 8.5e-1, 1.0, 1.3, 1.7, 2.1, 2.7, 3.3, 3.7, 4.2, 4.5, 5.3, 5.7, 6.9, 7.7,
+    ],
+    'subarctic-winter': [
+      1.802e-2, 2.072e-2, 2.336e-2, 2.767e-2, 3.253e-2, 3.801e-2, 4.446e-2, 7.252e-2, 1.04e-1, 2.1e-1, 3.0e-1, 3.5e-1,
+      4.0e-1, 6.5e-1, 9.0e-1, 1.2, 1.5, 1.9, 2.45, 3.1, 3.7, 4.0, 4.2, 4.5, 4.6, 4.7, 4.9, 5.4, 5.9, 6.2,
+    ],
   };
-  it('the grid is the report\'s 0-35 km grid', () => {
+  it("the grid is the report's 0-35 km grid", () => {
     expect(AFGL_ALTITUDE_KM).toEqual([...Array.from({ length: 26 }, (_, i) => i), 27.5, 30, 32.5, 35]);
   });
   it.each(Object.keys(TABLES))('%s equals the table to its printed precision', (name) => {
     const got = AFGL_O3_PPMV[name as keyof typeof AFGL_O3_PPMV];
     expect(got.length).toBe(TABLES[name].length);
-    got.forEach((v, i) => expect(Math.abs(v - TABLES[name][i]) / TABLES[name][i], `${name} at ${AFGL_ALTITUDE_KM[i]} km`).toBeLessThan(5e-4));
+    got.forEach((v, i) =>
+      expect(Math.abs(v - TABLES[name][i]) / TABLES[name][i], `${name} at ${AFGL_ALTITUDE_KM[i]} km`).toBeLessThan(
+        5e-4,
+      ),
+    );
   });
   it('every embedded profile is one of the tables', () => {
     expect(Object.keys(AFGL_O3_PPMV).sort()).toEqual(Object.keys(TABLES).sort());
@@ -104,19 +125,22 @@ describe('embedded AFGL 1986 O3 profiles against the published tables', () => {
 
 describe('embedded AFGL 1986 O3 profiles: shape checks against common knowledge', () => {
   const names = Object.keys(AFGL_O3_PPMV) as (keyof typeof AFGL_O3_PPMV)[];
-  it.each(names)('%s: one value per grid altitude, 20-100 ppbv in the lower troposphere, rising from 12 to 30 km, 5-10 ppmv at 30 km', (name) => {
-    const p = AFGL_O3_PPMV[name];
-    expect(p.length).toBe(AFGL_ALTITUDE_KM.length);
-    for (let i = 0; i <= 5; i++) {
-      expect(p[i]).toBeGreaterThan(0.015);
-      expect(p[i]).toBeLessThan(0.1);
-    }
-    const i12 = AFGL_ALTITUDE_KM.indexOf(12);
-    const i30 = AFGL_ALTITUDE_KM.indexOf(30);
-    for (let i = i12; i < i30; i++) expect(p[i + 1]).toBeGreaterThan(p[i]);
-    expect(p[i30]).toBeGreaterThan(5);
-    expect(p[i30]).toBeLessThan(10);
-  });
+  it.each(names)(
+    '%s: one value per grid altitude, 20-100 ppbv in the lower troposphere, rising from 12 to 30 km, 5-10 ppmv at 30 km',
+    (name) => {
+      const p = AFGL_O3_PPMV[name];
+      expect(p.length).toBe(AFGL_ALTITUDE_KM.length);
+      for (let i = 0; i <= 5; i++) {
+        expect(p[i]).toBeGreaterThan(0.015);
+        expect(p[i]).toBeLessThan(0.1);
+      }
+      const i12 = AFGL_ALTITUDE_KM.indexOf(12);
+      const i30 = AFGL_ALTITUDE_KM.indexOf(30);
+      for (let i = i12; i < i30; i++) expect(p[i + 1]).toBeGreaterThan(p[i]);
+      expect(p[i30]).toBeGreaterThan(5);
+      expect(p[i30]).toBeLessThan(10);
+    },
+  );
 
   it('tropical ozone stays tropospheric (below 0.2 ppmv) up to 16 km, the tropical tropopause (common knowledge)', () => {
     const i16 = AFGL_ALTITUDE_KM.indexOf(16);
@@ -176,7 +200,8 @@ describe('loss coefficients', () => {
 describe('residence time by latitude (tropical upwelling vs extratropical flushing)', () => {
   const rt = DEFAULT_OZONE_INPUTS.residenceTime;
   it('NOx injected just above the tropical tropopause stays longer than just above the extratropical one (Holton et al. 1995; Waugh & Hall 2002)', () => {
-    for (const d of [0, 0.5, 1, 2]) expect(residenceTimeYears(d, rt, 5)).toBeGreaterThan(2 * residenceTimeYears(d, rt, 50));
+    for (const d of [0, 0.5, 1, 2])
+      expect(residenceTimeYears(d, rt, 5)).toBeGreaterThan(2 * residenceTimeYears(d, rt, 50));
   });
 
   it('is the tropical table to 20 degrees, the extratropical one from 30, linear between; symmetric in the hemispheres', () => {
@@ -187,22 +212,30 @@ describe('residence time by latitude (tropical upwelling vs extratropical flushi
   });
 
   it('an override of the extratropical years on the default depth nodes keeps the tropical table; on other nodes it applies everywhere, and tropicalYears sets the tropics', () => {
-    const same = resolveOzoneInputs({ residenceTime: { depthKm: [0, 1, 2, 4, 6, 9], years: [0.2, 0.3, 0.6, 1, 1.5, 2] } }).residenceTime;
+    const same = resolveOzoneInputs({
+      residenceTime: { depthKm: [0, 1, 2, 4, 6, 9], years: [0.2, 0.3, 0.6, 1, 1.5, 2] },
+    }).residenceTime;
     expect(residenceTimeYears(0, same, 0)).toBeCloseTo(1.0, 12);
     expect(residenceTimeYears(0, same, 60)).toBeCloseTo(0.2, 12);
     const other = resolveOzoneInputs({ residenceTime: { depthKm: [0, 5], years: [0.2, 1] } }).residenceTime;
     expect(residenceTimeYears(0, other, 0)).toBeCloseTo(0.2, 12);
-    const given = resolveOzoneInputs({ residenceTime: { depthKm: [0, 5], years: [0.2, 1], tropicalYears: [2, 3] } }).residenceTime;
+    const given = resolveOzoneInputs({
+      residenceTime: { depthKm: [0, 5], years: [0.2, 1], tropicalYears: [2, 3] },
+    }).residenceTime;
     expect(residenceTimeYears(0, given, 0)).toBeCloseTo(2, 12);
   });
 
   it('stays within the physical bound of about 5 years (mean age of stratospheric air, Waugh & Hall 2002)', () => {
     fc.assert(
-      fc.property(fc.double({ min: -5, max: 40, noNaN: true }), fc.double({ min: -90, max: 90, noNaN: true }), (d, lat) => {
-        const y = residenceTimeYears(d, rt, lat) * rt.highFactor;
-        expect(y).toBeLessThanOrEqual(6);
-        expect(y).toBeGreaterThan(0);
-      }),
+      fc.property(
+        fc.double({ min: -5, max: 40, noNaN: true }),
+        fc.double({ min: -90, max: 90, noNaN: true }),
+        (d, lat) => {
+          const y = residenceTimeYears(d, rt, lat) * rt.highFactor;
+          expect(y).toBeLessThanOrEqual(6);
+          expect(y).toBeGreaterThan(0);
+        },
+      ),
     );
   });
 });
@@ -244,8 +277,14 @@ describe('local odd-oxygen loss budget', () => {
   it('a zero ozone profile gives a zero share, not NaN', () => {
     const s = isa(17_000);
     const b = oddOxygenBudget({
-      altitudeM: 17_000, latitudeDeg: 45, profileSlot: 0, aboveTropopause: true,
-      temperatureK: s.temperatureK, airDensityCm3: s.numberDensityCm3, o3Ppmv: 0, inputs: DEFAULT_OZONE_INPUTS,
+      altitudeM: 17_000,
+      latitudeDeg: 45,
+      profileSlot: 0,
+      aboveTropopause: true,
+      temperatureK: s.temperatureK,
+      airDensityCm3: s.numberDensityCm3,
+      o3Ppmv: 0,
+      inputs: DEFAULT_OZONE_INPUTS,
     });
     expect(b.addedNoxShareAt1Ppbv).toBe(0);
   });

@@ -43,16 +43,22 @@ describe('engine properties (fast-check)', () => {
     const engine = { fuelFlowKgS: [0.11, 0.33, 0.99, 1.21], eiNoxGPerKg: [4.6, 10.0, 22.5, 28.8] };
     const emission = fc.oneof(
       fc.record({ eiNoxGPerKg: fc.double({ min: 0, max: 200, noNaN: true }) }),
-      fc.record({ engine: fc.constant(engine), engineCount: fc.integer({ min: 1, max: 4 }), method: fc.constantFrom('bffm2', 'dlr') }),
+      fc.record({
+        engine: fc.constant(engine),
+        engineCount: fc.integer({ min: 1, max: 4 }),
+        method: fc.constantFrom('bffm2', 'dlr'),
+      }),
     );
     const cruise = fc.oneof(
       fc.record({ flightLevel: fc.integer({ min: 0, max: 660 }) }),
-      fc.tuple(fc.integer({ min: 250, max: 450 }), fc.integer({ min: 1, max: 3000 }), fc.integer({ min: 10, max: 80 })).map(([fl, km, up]) => ({
-        steps: [
-          { fromKm: 0, flightLevel: fl },
-          { fromKm: km, flightLevel: fl + up },
-        ],
-      })),
+      fc
+        .tuple(fc.integer({ min: 250, max: 450 }), fc.integer({ min: 1, max: 3000 }), fc.integer({ min: 10, max: 80 }))
+        .map(([fl, km, up]) => ({
+          steps: [
+            { fromKm: 0, flightLevel: fl },
+            { fromKm: km, flightLevel: fl + up },
+          ],
+        })),
     );
     const tropopause = fc.oneof(
       fc.constant(undefined),
@@ -121,14 +127,17 @@ describe('engine properties (fast-check)', () => {
 
   it('any value as input: a result or a ScreeningInputError, never another exception', () => {
     fc.assert(
-      fc.property(fc.anything({ withObjectString: true, withNullPrototype: true, withBigInt: true, withDate: true }), (x) => {
-        try {
-          screenFlight(x);
-        } catch (e) {
-          expect(e).toBeInstanceOf(ScreeningInputError);
-          expect((e as ScreeningInputError).fields.length).toBeGreaterThan(0);
-        }
-      }),
+      fc.property(
+        fc.anything({ withObjectString: true, withNullPrototype: true, withBigInt: true, withDate: true }),
+        (x) => {
+          try {
+            screenFlight(x);
+          } catch (e) {
+            expect(e).toBeInstanceOf(ScreeningInputError);
+            expect((e as ScreeningInputError).fields.length).toBeGreaterThan(0);
+          }
+        },
+      ),
       { numRuns: 300 },
     );
   });
@@ -140,18 +149,39 @@ describe('engine properties (fast-check)', () => {
       fc.constantFrom(Number.NaN, Number.POSITIVE_INFINITY, -1, 0, 1e12, '', 'EGLL', [], {}, null),
     );
     const paths = [
-      ['route'], ['route', 'waypoints'], ['route', 'waypoints', 0], ['route', 'waypoints', 1, 'lat'], ['cruise'], ['cruise', 'flightLevel'],
-      ['cruise', 'steps'], ['fuelBurnKg'], ['mach'], ['emission'], ['emission', 'eiNoxGPerKg'], ['emission', 'engine'],
-      ['emission', 'engine', 'fuelFlowKgS', 2], ['emission', 'engineCount'], ['month'], ['flightDate'], ['tropopause'],
-      ['tropopause', 'sounding'], ['tropopause', 'sounding', 1], ['tropopause', 'sounding', 1, 'pressureHpa'], ['assumptions'],
-      ['assumptions', 'residenceTime'], ['assumptions', 'ozoneProfile'],
+      ['route'],
+      ['route', 'waypoints'],
+      ['route', 'waypoints', 0],
+      ['route', 'waypoints', 1, 'lat'],
+      ['cruise'],
+      ['cruise', 'flightLevel'],
+      ['cruise', 'steps'],
+      ['fuelBurnKg'],
+      ['mach'],
+      ['emission'],
+      ['emission', 'eiNoxGPerKg'],
+      ['emission', 'engine'],
+      ['emission', 'engine', 'fuelFlowKgS', 2],
+      ['emission', 'engineCount'],
+      ['month'],
+      ['flightDate'],
+      ['tropopause'],
+      ['tropopause', 'sounding'],
+      ['tropopause', 'sounding', 1],
+      ['tropopause', 'sounding', 1, 'pressureHpa'],
+      ['assumptions'],
+      ['assumptions', 'residenceTime'],
+      ['assumptions', 'ozoneProfile'],
     ] as (string | number)[][];
     const base = () => ({
       route: { waypoints: [{ airport: 'EGLL' }, { lat: 50, lon: -30 }, { airport: 'KJFK' }] },
       cruise: { flightLevel: 370 } as Record<string, unknown>,
       fuelBurnKg: 30_000,
       mach: 0.84,
-      emission: { engine: { fuelFlowKgS: [0.2, 0.6, 1.8, 2.2], eiNoxGPerKg: [5, 11, 28, 36] }, engineCount: 2 } as Record<string, unknown>,
+      emission: {
+        engine: { fuelFlowKgS: [0.2, 0.6, 1.8, 2.2], eiNoxGPerKg: [5, 11, 28, 36] },
+        engineCount: 2,
+      } as Record<string, unknown>,
       month: 5,
       flightDate: '2026-05-04',
       tropopause: {
@@ -162,7 +192,10 @@ describe('engine properties (fast-check)', () => {
           { altitudeM: 14_000, pressureHpa: 141, temperatureK: 218 },
         ],
       } as Record<string, unknown>,
-      assumptions: { residenceTime: { depthKm: [0, 5], years: [0.2, 1] }, ozoneProfile: 'midlatitude-summer' } as Record<string, unknown>,
+      assumptions: {
+        residenceTime: { depthKm: [0, 5], years: [0.2, 1] },
+        ozoneProfile: 'midlatitude-summer',
+      } as Record<string, unknown>,
     });
     fc.assert(
       fc.property(fc.constantFrom(...paths), junk, (path, value) => {
@@ -190,7 +223,8 @@ describe('engine properties (fast-check)', () => {
 function numbersIn(x: unknown, path = '', out: [string, number][] = []): [string, number][] {
   if (typeof x === 'number') out.push([path, x]);
   else if (Array.isArray(x)) x.forEach((v, i) => numbersIn(v, `${path}.${i}`, out));
-  else if (typeof x === 'object' && x !== null) for (const [k, v] of Object.entries(x)) numbersIn(v, `${path}.${k}`, out);
+  else if (typeof x === 'object' && x !== null)
+    for (const [k, v] of Object.entries(x)) numbersIn(v, `${path}.${k}`, out);
   return out;
 }
 
@@ -200,12 +234,18 @@ describe('figures that point the right way (fast-check)', () => {
   it('no NaN or infinity anywhere in a result, for any valid input (direct EI or engine data, month, date or neither, any level and Mach)', () => {
     const emission = fc.oneof(
       fc.record({ eiNoxGPerKg: fc.double({ min: 0, max: 200, noNaN: true }) }),
-      fc.record({ engine: fc.constant(TURBOFAN), engineCount: fc.integer({ min: 1, max: 8 }), method: fc.constantFrom('bffm2' as const, 'dlr' as const) }),
+      fc.record({
+        engine: fc.constant(TURBOFAN),
+        engineCount: fc.integer({ min: 1, max: 8 }),
+        method: fc.constantFrom('bffm2' as const, 'dlr' as const),
+      }),
     );
     const when = fc.oneof(
       fc.constant({}),
       fc.integer({ min: 1, max: 12 }).map((month) => ({ month })),
-      fc.date({ min: new Date('2020-01-01'), max: new Date('2030-12-31'), noInvalidDate: true }).map((d) => ({ flightDate: d.toISOString().slice(0, 10) })),
+      fc
+        .date({ min: new Date('2020-01-01'), max: new Date('2030-12-31'), noInvalidDate: true })
+        .map((d) => ({ flightDate: d.toISOString().slice(0, 10) })),
     );
     fc.assert(
       fc.property(directFlight, emission, when, (f, em, w) => {
@@ -220,33 +260,48 @@ describe('figures that point the right way (fast-check)', () => {
 
   it('EI bounded for any fuel: a screening with engine data either refuses the fuel (naming fuelBurnKg) or keeps every EI within 0-200 g/kg', () => {
     fc.assert(
-      fc.property(fc.double({ min: 1, max: 500_000, noNaN: true }), fc.integer({ min: 0, max: 660 }), fc.integer({ min: 1, max: 4 }), (fuel, fl, n) => {
-        try {
-          const r = screenFlight({
-            route: { waypoints: [{ lat: 51.5, lon: -0.5 }, { lat: 48.9, lon: 2.5 }] },
-            cruise: { flightLevel: fl },
-            fuelBurnKg: fuel,
-            emission: { engine: TURBOFAN, engineCount: n },
-            month: 1,
-          });
-          for (const l of r.levels) {
-            expect(l.eiNoxGPerKg).toBeGreaterThan(0);
-            expect(l.eiNoxGPerKg).toBeLessThanOrEqual(200);
+      fc.property(
+        fc.double({ min: 1, max: 500_000, noNaN: true }),
+        fc.integer({ min: 0, max: 660 }),
+        fc.integer({ min: 1, max: 4 }),
+        (fuel, fl, n) => {
+          try {
+            const r = screenFlight({
+              route: {
+                waypoints: [
+                  { lat: 51.5, lon: -0.5 },
+                  { lat: 48.9, lon: 2.5 },
+                ],
+              },
+              cruise: { flightLevel: fl },
+              fuelBurnKg: fuel,
+              emission: { engine: TURBOFAN, engineCount: n },
+              month: 1,
+            });
+            for (const l of r.levels) {
+              expect(l.eiNoxGPerKg).toBeGreaterThan(0);
+              expect(l.eiNoxGPerKg).toBeLessThanOrEqual(200);
+            }
+            expect(r.noxTotalKg).toBeLessThan(r.fuelKg);
+          } catch (e) {
+            expect(e).toBeInstanceOf(ScreeningInputError);
+            expect((e as ScreeningInputError).fields.map((x) => x.path)).toEqual(['fuelBurnKg']);
+            expect((e as ScreeningInputError).fields[0].message).toMatch(/kg\/s per engine/);
           }
-          expect(r.noxTotalKg).toBeLessThan(r.fuelKg);
-        } catch (e) {
-          expect(e).toBeInstanceOf(ScreeningInputError);
-          expect((e as ScreeningInputError).fields.map((x) => x.path)).toEqual(['fuelBurnKg']);
-          expect((e as ScreeningInputError).fields[0].message).toMatch(/kg\/s per engine/);
-        }
-      }),
+        },
+      ),
       { numRuns: 200 },
     );
   });
 
   const supersonic = (lat: number, flightDate: string, fl = 600) =>
     screenFlight({
-      route: { waypoints: [{ lat, lon: 0 }, { lat, lon: 30 / Math.max(0.2, Math.cos((lat * Math.PI) / 180)) }] },
+      route: {
+        waypoints: [
+          { lat, lon: 0 },
+          { lat, lon: 30 / Math.max(0.2, Math.cos((lat * Math.PI) / 180)) },
+        ],
+      },
       cruise: { flightLevel: fl },
       mach: 2,
       fuelBurnKg: 40_000,
@@ -262,7 +317,12 @@ describe('figures that point the right way (fast-check)', () => {
   // year or more, night and day starts meet about the same sunlight.
   const polar = (lat: number, flightDate: string, fl: number) =>
     screenFlight({
-      route: { waypoints: [{ lat, lon: 0 }, { lat, lon: 40 }] },
+      route: {
+        waypoints: [
+          { lat, lon: 0 },
+          { lat, lon: 40 },
+        ],
+      },
       cruise: { flightLevel: fl },
       fuelBurnKg: 20_000,
       emission: { eiNoxGPerKg: 12 },
@@ -272,12 +332,17 @@ describe('figures that point the right way (fast-check)', () => {
     });
   it('less loss per kg for NOx emitted into polar night than into polar day (it meets sunlight only when it returns), same place, level and tropopause', () => {
     fc.assert(
-      fc.property(fc.double({ min: 72, max: 85, noNaN: true }), fc.constantFrom(1, -1), fc.integer({ min: 310, max: 350 }), (lat, hemi, fl) => {
-        const night = polar(hemi * lat, hemi > 0 ? '2026-12-21' : '2026-06-21', fl);
-        const day = polar(hemi * lat, hemi > 0 ? '2026-06-21' : '2026-12-21', fl);
-        expect(night.noxAboveTropopauseKg).toBeGreaterThan(0);
-        expect(perKg(night)).toBeLessThan(perKg(day));
-      }),
+      fc.property(
+        fc.double({ min: 72, max: 85, noNaN: true }),
+        fc.constantFrom(1, -1),
+        fc.integer({ min: 310, max: 350 }),
+        (lat, hemi, fl) => {
+          const night = polar(hemi * lat, hemi > 0 ? '2026-12-21' : '2026-06-21', fl);
+          const day = polar(hemi * lat, hemi > 0 ? '2026-06-21' : '2026-12-21', fl);
+          expect(night.noxAboveTropopauseKg).toBeGreaterThan(0);
+          expect(perKg(night)).toBeLessThan(perKg(day));
+        },
+      ),
       { numRuns: 40 },
     );
   });
@@ -293,7 +358,12 @@ describe('figures that point the right way (fast-check)', () => {
   it('summer is above winter: more NOx above the tropopause at FL350 over 45N in January than in July, and over 45S in July than in January', () => {
     const at = (lat: number, month: number) =>
       screenFlight({
-        route: { waypoints: [{ lat, lon: 0 }, { lat, lon: 20 }] },
+        route: {
+          waypoints: [
+            { lat, lon: 0 },
+            { lat, lon: 20 },
+          ],
+        },
         cruise: { flightLevel: 350 },
         fuelBurnKg: 10_000,
         emission: { eiNoxGPerKg: 12 },

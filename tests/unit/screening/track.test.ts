@@ -15,7 +15,12 @@ function greatCircleTrack(from: string, to: string, n: number, fl: number, timed
   return Array.from({ length: n }, (_, i) => {
     const km = (plan.totalKm * i) / (n - 1);
     pointOnLeg(plan, 0, km, out);
-    return { lat: out[0], lon: out[1], flightLevel: fl, ...(timed ? { time: new Date(t0 + (km / speedKmS) * 1000).toISOString() } : {}) };
+    return {
+      lat: out[0],
+      lon: out[1],
+      flightLevel: fl,
+      ...(timed ? { time: new Date(t0 + (km / speedKmS) * 1000).toISOString() } : {}),
+    };
   });
 }
 
@@ -26,8 +31,15 @@ describe('screening a flown track', () => {
     ['without times', false],
     ['with times at a steady speed', true],
   ])('a great-circle track at one level gives the waypoint screening within 0.5 % (%s)', (_, timed) => {
-    const byWaypoints = screenFlight({ ...BASE, route: { waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] }, cruise: { flightLevel: 370 } });
-    const byTrack = screenFlight({ ...BASE, route: { track: { points: greatCircleTrack('EGLL', 'KJFK', 400, 370, timed) } } });
+    const byWaypoints = screenFlight({
+      ...BASE,
+      route: { waypoints: [{ airport: 'EGLL' }, { airport: 'KJFK' }] },
+      cruise: { flightLevel: 370 },
+    });
+    const byTrack = screenFlight({
+      ...BASE,
+      route: { track: { points: greatCircleTrack('EGLL', 'KJFK', 400, 370, timed) } },
+    });
     expect(rel(byTrack.distanceKm, byWaypoints.distanceKm)).toBeLessThan(0.005);
     expect(rel(byTrack.fuelKg, byWaypoints.fuelKg)).toBeLessThan(0.005);
     expect(rel(byTrack.noxTotalKg, byWaypoints.noxTotalKg)).toBeLessThan(0.005);
@@ -62,7 +74,12 @@ describe('screening a flown track', () => {
     ];
     const r = screenFlight({ ...BASE, route: { track: { points: pts } } });
     expect(r.levels.map((l) => l.flightLevel).sort((a, b) => a - b)).toEqual([200, 300]);
-    const feet = screenFlight({ ...BASE, route: { track: { points: pts.map(({ flightLevel, ...p }) => ({ ...p, pressureAltitudeFt: flightLevel * 100 })) } } });
+    const feet = screenFlight({
+      ...BASE,
+      route: {
+        track: { points: pts.map(({ flightLevel, ...p }) => ({ ...p, pressureAltitudeFt: flightLevel * 100 })) },
+      },
+    });
     expect(feet.noxAboveTropopauseKg).toBe(r.noxAboveTropopauseKg);
     expect(feet.fuelKg).toBe(r.fuelKg);
   });
@@ -119,13 +136,55 @@ describe('track validation (field errors by path)', () => {
       ],
       'route.track.points.1',
     ],
-    ['a level above FL660', [{ lat: 60, lon: 0, flightLevel: 700 }, { lat: 60, lon: -1, flightLevel: 350 }], 'route.track.points.0.flightLevel'],
-    ['a pressure altitude below FL0', [{ lat: 60, lon: 0, pressureAltitudeFt: -500 }, { lat: 60, lon: -1 }], 'route.track.points.0.pressureAltitudeFt'],
-    ['both level forms on one point', [{ lat: 60, lon: 0, flightLevel: 350, pressureAltitudeFt: 35_000 }, { lat: 60, lon: -1 }], 'route.track.points.0.pressureAltitudeFt'],
-    ['times on some points only', [{ lat: 60, lon: 0, time: '2026-11-20T10:00:00Z' }, { lat: 60, lon: -1 }], 'route.track.points.1.time'],
-    ['a time without a zone', [{ lat: 60, lon: 0, time: '2026-11-20 10:00' }, { lat: 60, lon: -1, time: '2026-11-20T10:10:00Z' }], 'route.track.points.0.time'],
+    [
+      'a level above FL660',
+      [
+        { lat: 60, lon: 0, flightLevel: 700 },
+        { lat: 60, lon: -1, flightLevel: 350 },
+      ],
+      'route.track.points.0.flightLevel',
+    ],
+    [
+      'a pressure altitude below FL0',
+      [
+        { lat: 60, lon: 0, pressureAltitudeFt: -500 },
+        { lat: 60, lon: -1 },
+      ],
+      'route.track.points.0.pressureAltitudeFt',
+    ],
+    [
+      'both level forms on one point',
+      [
+        { lat: 60, lon: 0, flightLevel: 350, pressureAltitudeFt: 35_000 },
+        { lat: 60, lon: -1 },
+      ],
+      'route.track.points.0.pressureAltitudeFt',
+    ],
+    [
+      'times on some points only',
+      [
+        { lat: 60, lon: 0, time: '2026-11-20T10:00:00Z' },
+        { lat: 60, lon: -1 },
+      ],
+      'route.track.points.1.time',
+    ],
+    [
+      'a time without a zone',
+      [
+        { lat: 60, lon: 0, time: '2026-11-20 10:00' },
+        { lat: 60, lon: -1, time: '2026-11-20T10:10:00Z' },
+      ],
+      'route.track.points.0.time',
+    ],
     ['one point', [{ lat: 60, lon: 0 }], 'route.track.points'],
-    ['all points at one place', [{ lat: 60, lon: 0 }, { lat: 60, lon: 0 }], 'route.track.points'],
+    [
+      'all points at one place',
+      [
+        { lat: 60, lon: 0 },
+        { lat: 60, lon: 0 },
+      ],
+      'route.track.points',
+    ],
   ])('%s', (_, points, path) => {
     expect(at(points)).toContain(path);
   });

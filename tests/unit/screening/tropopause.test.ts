@@ -69,7 +69,7 @@ describe('climatological tropopause (Mateus, Mendes & Pires 2022, lookup-table m
     expect(climatologicalTropopauseForDayM(lat, day)).toBeCloseTo(gp(km), 6);
   });
 
-  it("interpolates bilinearly between the published nodes (50N mid-January: halfway between 10.099 and 9.457 km of the 45N and 55N bands)", () => {
+  it('interpolates bilinearly between the published nodes (50N mid-January: halfway between 10.099 and 9.457 km of the 45N and 55N bands)', () => {
     expect(climatologicalTropopauseForDayM(50, 16)).toBeCloseTo(gp((10.099 + 9.457) / 2), 6);
     // Across the year end: day 365.5 lies halfway between the December (350) and January (16 + 365) rows at 45N.
     expect(climatologicalTropopauseForDayM(45, 365.5)).toBeCloseTo(gp((10.361 + 10.099) / 2), 6);
@@ -98,10 +98,18 @@ describe('climatological tropopause (Mateus, Mendes & Pires 2022, lookup-table m
 
   it('annual mean does not rise from the equator towards either pole (property)', () => {
     fc.assert(
-      fc.property(fc.double({ min: 0.01, max: 89, noNaN: true }), fc.double({ min: 0.01, max: 1, noNaN: true }), (lat, d) => {
-        expect(climatologicalTropopauseM(Math.min(90, lat + d), null)).toBeLessThanOrEqual(climatologicalTropopauseM(lat, null) + 1e-9);
-        expect(climatologicalTropopauseM(-Math.min(90, lat + d), null)).toBeLessThanOrEqual(climatologicalTropopauseM(-lat, null) + 1e-9);
-      }),
+      fc.property(
+        fc.double({ min: 0.01, max: 89, noNaN: true }),
+        fc.double({ min: 0.01, max: 1, noNaN: true }),
+        (lat, d) => {
+          expect(climatologicalTropopauseM(Math.min(90, lat + d), null)).toBeLessThanOrEqual(
+            climatologicalTropopauseM(lat, null) + 1e-9,
+          );
+          expect(climatologicalTropopauseM(-Math.min(90, lat + d), null)).toBeLessThanOrEqual(
+            climatologicalTropopauseM(-lat, null) + 1e-9,
+          );
+        },
+      ),
     );
   });
 
@@ -139,7 +147,10 @@ describe('climatological tropopause (Mateus, Mendes & Pires 2022, lookup-table m
     for (const lat of [-60, -20, 0, 38.5519, 75]) {
       for (const doy of [1, 150]) {
         const a = lat <= 0 ? SH : NH;
-        const z = a[0] + a[1] / Math.pow(1 + Math.exp(-(lat - a[2]) / a[3]), a[4]) + a[5] * Math.cos(((2 * Math.PI) / 365.25) * (doy - 28));
+        const z =
+          a[0] +
+          a[1] / Math.pow(1 + Math.exp(-(lat - a[2]) / a[3]), a[4]) +
+          a[5] * Math.cos(((2 * Math.PI) / 365.25) * (doy - 28));
         expect(mateusSigmoidKm(lat, doy)).toBeCloseTo(z, 9);
       }
     }
@@ -156,7 +167,14 @@ describe('climatological tropopause (Mateus, Mendes & Pires 2022, lookup-table m
 describe('WMO (1957) lapse-rate tropopause of constructed soundings', () => {
   // An ISA-like profile: 6.5 K/km up to 11 km, isothermal above. By the WMO definition the
   // tropopause is the 11 km level, where the lapse rate first falls to 2 K/km or less.
-  const isaLike = sounding([{ fromM: 0, lapseKPerKm: 6.5 }, { fromM: 11_000, lapseKPerKm: 0 }], 20_000, 500);
+  const isaLike = sounding(
+    [
+      { fromM: 0, lapseKPerKm: 6.5 },
+      { fromM: 11_000, lapseKPerKm: 0 },
+    ],
+    20_000,
+    500,
+  );
 
   it('finds 11 km, 216.65 K and ISA 226.3 hPa on an ISA-like sounding (ICAO Doc 7488/3 values)', () => {
     const tp = tropopauseFromSounding(isaLike);
@@ -182,12 +200,26 @@ describe('WMO (1957) lapse-rate tropopause of constructed soundings', () => {
   });
 
   it('takes a stable layer of 2 km and more that stays stable', () => {
-    const levels = sounding([{ fromM: 0, lapseKPerKm: 6.5 }, { fromM: 9000, lapseKPerKm: 1.0 }], 16_000, 1000);
+    const levels = sounding(
+      [
+        { fromM: 0, lapseKPerKm: 6.5 },
+        { fromM: 9000, lapseKPerKm: 1.0 },
+      ],
+      16_000,
+      1000,
+    );
     expect(tropopauseFromSounding(levels)!.altitudeM).toBeCloseTo(9000, 6);
   });
 
   it('counts a lapse rate of exactly 2 K/km ("2 K/km or less")', () => {
-    const levels = sounding([{ fromM: 0, lapseKPerKm: 6.5 }, { fromM: 10_000, lapseKPerKm: 2 }], 16_000, 1000);
+    const levels = sounding(
+      [
+        { fromM: 0, lapseKPerKm: 6.5 },
+        { fromM: 10_000, lapseKPerKm: 2 },
+      ],
+      16_000,
+      1000,
+    );
     expect(tropopauseFromSounding(levels)!.altitudeM).toBeCloseTo(10_000, 6);
   });
 
@@ -233,9 +265,23 @@ describe('WMO (1957) lapse-rate tropopause of constructed soundings', () => {
 
 describe('WMO (1957): the 2 km condition needs 2 km of sounding', () => {
   it('a candidate with less than 2 km of sounding above it is not accepted (null: the engine falls back to the climatology with a caution)', () => {
-    const isaLike = sounding([{ fromM: 0, lapseKPerKm: 6.5 }, { fromM: 11_000, lapseKPerKm: 0 }], 12_500, 500);
+    const isaLike = sounding(
+      [
+        { fromM: 0, lapseKPerKm: 6.5 },
+        { fromM: 11_000, lapseKPerKm: 0 },
+      ],
+      12_500,
+      500,
+    );
     expect(tropopauseFromSounding(isaLike)).toBeNull();
-    const longer = sounding([{ fromM: 0, lapseKPerKm: 6.5 }, { fromM: 11_000, lapseKPerKm: 0 }], 13_500, 500);
+    const longer = sounding(
+      [
+        { fromM: 0, lapseKPerKm: 6.5 },
+        { fromM: 11_000, lapseKPerKm: 0 },
+      ],
+      13_500,
+      500,
+    );
     expect(tropopauseFromSounding(longer)?.altitudeM).toBeCloseTo(11_000, 6);
   });
 });
@@ -258,15 +304,55 @@ describe('sounding errors', () => {
 
   it.each([
     { name: 'fewer than 3 levels', levels: good.slice(0, 2), path: 'levels' },
-    { name: 'duplicate altitude', levels: [...good, { altitudeM: 11_000, temperatureK: 210 }], path: 'levels.3.altitudeM' },
-    { name: 'duplicate pressure', levels: [{ pressureHpa: 300, temperatureK: 230 }, { pressureHpa: 200, temperatureK: 220 }, { pressureHpa: 300, temperatureK: 225 }], path: 'levels.2.pressureHpa' },
-    { name: 'temperature at 100 K or below', levels: [good[0], { altitudeM: 11_000, temperatureK: 90 }, good[2]], path: 'levels.1.temperatureK' },
-    { name: 'temperature in Celsius', levels: [good[0], good[1], { altitudeM: 14_000, temperatureK: -56.5 }], path: 'levels.2.temperatureK' },
-    { name: 'temperature of 350 K or more', levels: [{ altitudeM: 0, temperatureK: 360 }, good[1], good[2]], path: 'levels.0.temperatureK' },
-    { name: 'pressure of 0', levels: [{ pressureHpa: 0, temperatureK: 250 }, good[1], good[2]], path: 'levels.0.pressureHpa' },
-    { name: 'negative pressure', levels: [good[0], good[1], { pressureHpa: -3, temperatureK: 216 }], path: 'levels.2.pressureHpa' },
+    {
+      name: 'duplicate altitude',
+      levels: [...good, { altitudeM: 11_000, temperatureK: 210 }],
+      path: 'levels.3.altitudeM',
+    },
+    {
+      name: 'duplicate pressure',
+      levels: [
+        { pressureHpa: 300, temperatureK: 230 },
+        { pressureHpa: 200, temperatureK: 220 },
+        { pressureHpa: 300, temperatureK: 225 },
+      ],
+      path: 'levels.2.pressureHpa',
+    },
+    {
+      name: 'temperature at 100 K or below',
+      levels: [good[0], { altitudeM: 11_000, temperatureK: 90 }, good[2]],
+      path: 'levels.1.temperatureK',
+    },
+    {
+      name: 'temperature in Celsius',
+      levels: [good[0], good[1], { altitudeM: 14_000, temperatureK: -56.5 }],
+      path: 'levels.2.temperatureK',
+    },
+    {
+      name: 'temperature of 350 K or more',
+      levels: [{ altitudeM: 0, temperatureK: 360 }, good[1], good[2]],
+      path: 'levels.0.temperatureK',
+    },
+    {
+      name: 'pressure of 0',
+      levels: [{ pressureHpa: 0, temperatureK: 250 }, good[1], good[2]],
+      path: 'levels.0.pressureHpa',
+    },
+    {
+      name: 'negative pressure',
+      levels: [good[0], good[1], { pressureHpa: -3, temperatureK: 216 }],
+      path: 'levels.2.pressureHpa',
+    },
     { name: 'neither altitude nor pressure', levels: [good[0], { temperatureK: 216 }, good[2]], path: 'levels.1' },
-    { name: 'pressure rising with altitude', levels: [{ altitudeM: 9000, pressureHpa: 200, temperatureK: 229 }, { altitudeM: 11_000, pressureHpa: 300, temperatureK: 216 }, good[2]], path: 'levels.1.pressureHpa' },
+    {
+      name: 'pressure rising with altitude',
+      levels: [
+        { altitudeM: 9000, pressureHpa: 200, temperatureK: 229 },
+        { altitudeM: 11_000, pressureHpa: 300, temperatureK: 216 },
+        good[2],
+      ],
+      path: 'levels.1.pressureHpa',
+    },
     { name: 'not a list', levels: { altitudeM: 1 }, path: 'levels' },
     { name: 'a level that is not an object', levels: [good[0], 5, good[2]], path: 'levels.1' },
   ])('$name -> ScreeningInputError at $path', ({ levels, path }) => {

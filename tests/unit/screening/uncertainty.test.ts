@@ -18,7 +18,12 @@ import type { ScreeningInput } from '@/lib/validation/screening';
 const ENGINE = { fuelFlowKgS: [0.2, 0.6, 1.8, 2.2], eiNoxGPerKg: [5, 12, 28, 36] };
 
 const transatlantic = {
-  route: { waypoints: [{ lat: 51.5, lon: -10 }, { lat: 50, lon: -50 }] },
+  route: {
+    waypoints: [
+      { lat: 51.5, lon: -10 },
+      { lat: 50, lon: -50 },
+    ],
+  },
   cruise: { flightLevel: 370 },
   fuelBurnKg: 40_000,
   emission: { engine: ENGINE, engineCount: 2 },
@@ -52,13 +57,21 @@ const flight = fc.record({
 type Flight = typeof flight extends fc.Arbitrary<infer T> ? T : never;
 
 const toInput = (f: Flight) => ({
-  route: { waypoints: [{ lat: f.lat0, lon: f.lon0 }, { lat: Math.max(-85, Math.min(85, f.lat0 + f.dLat)), lon: f.lon0 + f.dLon }] },
+  route: {
+    waypoints: [
+      { lat: f.lat0, lon: f.lon0 },
+      { lat: Math.max(-85, Math.min(85, f.lat0 + f.dLat)), lon: f.lon0 + f.dLon },
+    ],
+  },
   cruise: { flightLevel: f.flightLevel },
   fuelBurnKg: f.fuelBurnKg,
   emission: f.direct ? { eiNoxGPerKg: f.ei } : { engine: ENGINE, engineCount: 2 },
   month: f.month,
   tropopause: f.given === undefined ? undefined : { altitudeM: f.given },
-  assumptions: f.daylight === undefined ? undefined : { daylightFactor: { central: f.daylight, low: f.daylight * 0.8, high: Math.min(1, f.daylight * 1.2) } },
+  assumptions:
+    f.daylight === undefined
+      ? undefined
+      : { daylightFactor: { central: f.daylight, low: f.daylight * 0.8, high: Math.min(1, f.daylight * 1.2) } },
 });
 
 const close = (a: number, b: number) => Math.abs(a - b) <= 1e-9 * Math.max(Math.abs(a), Math.abs(b), 1e-12);
@@ -116,7 +129,11 @@ describe('uncertainty sampling: one flight', () => {
   it('says so when sampling the tropopause moves a percentile outside the all-corners band', () => {
     // Given tropopause 200 m above FL370 (11 278 m): nothing above, so the band is 0..0, but a 500 m
     // sigma puts the flight above it in about a third of the samples.
-    const r = screenFlight({ ...transatlantic, tropopause: { altitudeM: 11_478 }, uncertainty: { samples: 400, seed: 3 } });
+    const r = screenFlight({
+      ...transatlantic,
+      tropopause: { altitudeM: 11_478 },
+      uncertainty: { samples: 400, seed: 3 },
+    });
     expect(r.ozoneLoss.highKg).toBe(0);
     expect(r.uncertainty?.ozoneLossKg.p95).toBeGreaterThan(0);
     expect(r.uncertainty?.outsideScreeningRange).toContain('p95');
@@ -142,7 +159,9 @@ describe('uncertainty sampling: one flight', () => {
       for (let k = 0; k < 5; k++) {
         const a = sampleUncertainty(s.input, s.result, { samples: n, seed: 2 * k + 1, drivers: false });
         const b = sampleUncertainty(s.input, s.result, { samples: n, seed: 2 * k + 2, drivers: false });
-        sum += Math.abs(a.ozoneLossKg.p50 - b.ozoneLossKg.p50) + Math.abs(a.noxAboveTropopauseKg.p50 - b.noxAboveTropopauseKg.p50) / 10;
+        sum +=
+          Math.abs(a.ozoneLossKg.p50 - b.ozoneLossKg.p50) +
+          Math.abs(a.noxAboveTropopauseKg.p50 - b.noxAboveTropopauseKg.p50) / 10;
       }
       return sum;
     };
@@ -169,7 +188,11 @@ describe('uncertainty sampling: one flight', () => {
       const m = xs.reduce((t, x) => t + x, 0) / xs.length;
       return xs.reduce((t, x) => t + (x - m) ** 2, 0) / (xs.length - 1);
     };
-    for (const raw of [transatlantic, { ...transatlantic, emission: { eiNoxGPerKg: 14 }, month: 7 }, { ...transatlantic, cruise: { flightLevel: 410 } }]) {
+    for (const raw of [
+      transatlantic,
+      { ...transatlantic, emission: { eiNoxGPerKg: 14 }, month: 7 },
+      { ...transatlantic, cruise: { flightLevel: 410 } },
+    ]) {
       const s = screened(raw);
       if (s === null) throw new Error('reference flight must screen');
       const u = sampleUncertainty(s.input, s.result, { samples: 150, seed: 11 });
@@ -193,7 +216,11 @@ describe('uncertainty sampling: one flight', () => {
 
   it('samples the tropopause more tightly for a given value than for the climatology', () => {
     const clim = screenFlight({ ...transatlantic, uncertainty: { samples: 200 } }).uncertainty;
-    const given = screenFlight({ ...transatlantic, tropopause: { pressureHpa: 250 }, uncertainty: { samples: 200 } }).uncertainty;
+    const given = screenFlight({
+      ...transatlantic,
+      tropopause: { pressureHpa: 250 },
+      uncertainty: { samples: 200 },
+    }).uncertainty;
     // Mateus et al. 2022 RMSE about 0.7 km for the lookup-table model; a given value 0.5 km (from memory).
     expect(clim?.sampled.find((x) => x.input === 'tropopause')?.distribution).toMatch(/sigma 0\.7 km/);
     expect(given?.sampled.find((x) => x.input === 'tropopause')?.distribution).toMatch(/sigma 0\.5 km/);

@@ -14,7 +14,9 @@ describe('benchmark build directory', () => {
     const before = process.env.TROPOPASS_DIST_DIR;
     process.env.TROPOPASS_DIST_DIR = env.TROPOPASS_DIST_DIR;
     try {
-      const config = (await import(pathToFileURL(path.resolve('next.config.mjs')).href)) as { default: { distDir?: string } };
+      const config = (await import(pathToFileURL(path.resolve('next.config.mjs')).href)) as {
+        default: { distDir?: string };
+      };
       expect(config.default.distDir).toBe(BENCH_DIST_DIR);
     } finally {
       if (before === undefined) delete process.env.TROPOPASS_DIST_DIR;
@@ -22,12 +24,17 @@ describe('benchmark build directory', () => {
     }
   });
 
-  it.each(['import.ts', 'load.ts'])('tests/bench/%s builds and starts the app with the benchmark environment', (file) => {
-    const source = fs.readFileSync(path.join('tests/bench', file), 'utf8');
-    expect(source).toMatch(/benchNextEnv\(/);
-    // Every build call in the file goes through the benchmark environment.
-    for (const line of source.split('\n').filter((l) => /'build'\]|\bbuild\(/.test(l) && !/^\s*(\*|\/\/|export function)/.test(l))) {
-      expect(line).toMatch(/benchNextEnv/);
-    }
-  });
+  it.each(['import.ts', 'load.ts'])(
+    'tests/bench/%s builds and starts the app with the benchmark environment',
+    (file) => {
+      const source = fs.readFileSync(path.join('tests/bench', file), 'utf8');
+      expect(source).toMatch(/benchNextEnv\(/);
+      // Every build call in the file goes through the benchmark environment.
+      for (const line of source
+        .split('\n')
+        .filter((l) => /'build'\]|\bbuild\(/.test(l) && !/^\s*(\*|\/\/|export function)/.test(l))) {
+        expect(line).toMatch(/benchNextEnv/);
+      }
+    },
+  );
 });

@@ -1,6 +1,13 @@
 import net from 'node:net';
 import { afterEach, describe, expect, it } from 'vitest';
-import { DEMO_PORTS, DemoPortError, describePorts, isPortFree, resolveDemoPorts, type DemoPortSpec } from '@/lib/fakes/demo-ports';
+import {
+  DEMO_PORTS,
+  DemoPortError,
+  describePorts,
+  isPortFree,
+  resolveDemoPorts,
+  type DemoPortSpec,
+} from '@/lib/fakes/demo-ports';
 
 const held: net.Server[] = [];
 
@@ -47,19 +54,21 @@ describe('demo ports', () => {
       expect(await isPortFree(p.port)).toBe(true);
     }
     const banner = describePorts(ports).join('\n');
-    for (const p of ports) expect(banner).toContain(`127.0.0.1:${p.port}  (${p.defaultPort} was taken; set ${p.variable} to choose)`);
+    for (const p of ports)
+      expect(banner).toContain(`127.0.0.1:${p.port}  (${p.defaultPort} was taken; set ${p.variable} to choose)`);
   });
 
   it('two demos side by side: the second, started while the first holds its ports, gets other ports', async () => {
     const specs = await specsOnTakenDefaults();
     const first = await resolveDemoPorts({ NODE_ENV: 'production' }, specs);
-    for (const p of first) await new Promise<void>((resolve) => {
-      const srv = net.createServer();
-      srv.listen(p.port, '127.0.0.1', () => {
-        held.push(srv);
-        resolve();
+    for (const p of first)
+      await new Promise<void>((resolve) => {
+        const srv = net.createServer();
+        srv.listen(p.port, '127.0.0.1', () => {
+          held.push(srv);
+          resolve();
+        });
       });
-    });
     const second = await resolveDemoPorts({ NODE_ENV: 'production' }, specs);
     const firstPorts = new Set(first.map((p) => p.port));
     expect(second.some((p) => firstPorts.has(p.port))).toBe(false);
@@ -68,18 +77,27 @@ describe('demo ports', () => {
   it('keeps a free default as it is', async () => {
     const free = await occupy();
     await new Promise((r) => held.pop()?.close(r));
-    const [p] = await resolveDemoPorts({ NODE_ENV: 'production' }, [{ variable: 'PORT', label: 'the app', defaultPort: free }]);
+    const [p] = await resolveDemoPorts({ NODE_ENV: 'production' }, [
+      { variable: 'PORT', label: 'the app', defaultPort: free },
+    ]);
     expect(p).toMatchObject({ port: free, moved: false });
   });
 
   it('a port set in the environment that is taken stops with one message naming the variable', async () => {
     const taken = await occupy();
-    const run = resolveDemoPorts({ NODE_ENV: 'production', SMTP_PORT: String(taken) }, DEMO_PORTS.filter((p) => p.variable === 'SMTP_PORT'));
+    const run = resolveDemoPorts(
+      { NODE_ENV: 'production', SMTP_PORT: String(taken) },
+      DEMO_PORTS.filter((p) => p.variable === 'SMTP_PORT'),
+    );
     await expect(run).rejects.toThrow(DemoPortError);
-    await expect(run).rejects.toThrow(new RegExp(`Port ${taken} for the mail fake \\(SMTP\\) is in use.*Set SMTP_PORT to a free port`));
+    await expect(run).rejects.toThrow(
+      new RegExp(`Port ${taken} for the mail fake \\(SMTP\\) is in use.*Set SMTP_PORT to a free port`),
+    );
   });
 
   it('a port variable that is not a number names the variable', async () => {
-    await expect(resolveDemoPorts({ NODE_ENV: 'production', PAYMENT_FAKE_PORT: 'twelve' }, DEMO_PORTS)).rejects.toThrow(/PAYMENT_FAKE_PORT=twelve is not a port number/);
+    await expect(resolveDemoPorts({ NODE_ENV: 'production', PAYMENT_FAKE_PORT: 'twelve' }, DEMO_PORTS)).rejects.toThrow(
+      /PAYMENT_FAKE_PORT=twelve is not a port number/,
+    );
   });
 });

@@ -11,7 +11,13 @@ import { RoleNotice } from '@/components/shell/role-notice';
 import { Suspense } from 'react';
 import { MobileNav } from '@/components/shell/mobile-nav';
 
-export default async function WorkspaceLayout({ children, params }: { children: React.ReactNode; params: Promise<{ workspace: string }> }) {
+export default async function WorkspaceLayout({
+  children,
+  params,
+}: {
+  children: React.ReactNode;
+  params: Promise<{ workspace: string }>;
+}) {
   const { workspace: slug } = await params;
   const { user, role, workspace } = await requireMember(slug);
   // Checked here as well as in each page: pages with a loading screen stream inside it, and a refusal
@@ -28,7 +34,12 @@ export default async function WorkspaceLayout({ children, params }: { children: 
   // Likewise a detail page whose item is not in this workspace: a 404 before anything streams.
   if (asked && (await detailItemExists({ workspaceId: workspace.id }, asked.split(/[?#]/)[0])) === false) notFound();
   const memberships = await listWorkspacesForUser({ userId: user.id });
-  const switcher = <WorkspaceSwitcher current={slug} options={memberships.map((m) => ({ slug: m.workspace.slug, name: m.workspace.name, role: m.role }))} />;
+  const switcher = (
+    <WorkspaceSwitcher
+      current={slug}
+      options={memberships.map((m) => ({ slug: m.workspace.slug, name: m.workspace.name, role: m.role }))}
+    />
+  );
   return (
     <div className="min-h-screen">
       <TopBar

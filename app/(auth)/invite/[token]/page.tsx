@@ -13,7 +13,12 @@ export default async function InvitationPage({ params }: { params: Promise<{ tok
   const { token } = await params;
   const inv = await getInvitationByToken(token);
   if (inv.state !== 'open') {
-    const text = inv.state === 'expired' ? 'This invitation has expired. Ask the workspace owner to send a new one.' : inv.state === 'used' ? 'This invitation has already been used.' : 'This invitation does not exist or was withdrawn.';
+    const text =
+      inv.state === 'expired'
+        ? 'This invitation has expired. Ask the workspace owner to send a new one.'
+        : inv.state === 'used'
+          ? 'This invitation has already been used.'
+          : 'This invitation does not exist or was withdrawn.';
     return (
       <>
         <h1 className="text-xl font-semibold">Invitation</h1>
@@ -35,10 +40,14 @@ export default async function InvitationPage({ params }: { params: Promise<{ tok
           <AcceptInvitationButton token={token} />
         ) : user ? (
           <Notice tone="caution">
-            You are signed in as {user.email}, but the invitation is for {inv.email}. Sign out and sign in with the invited address.
+            You are signed in as {user.email}, but the invitation is for {inv.email}. Sign out and sign in with the
+            invited address.
           </Notice>
         ) : account ? (
-          <Link className="text-accent underline" href={`/signin?callbackUrl=${encodeURIComponent(`/invite/${token}`)}`}>
+          <Link
+            className="text-accent underline"
+            href={`/signin?callbackUrl=${encodeURIComponent(`/invite/${token}`)}`}
+          >
             Sign in as {inv.email} to accept
           </Link>
         ) : (

@@ -7,6 +7,13 @@ import { fromZod } from '@/lib/errors';
 export const GET = authedRoute(async ({ req }) => {
   const q = airportQuerySchema.safeParse(Object.fromEntries(new URL(req.url).searchParams));
   if (!q.success) throw fromZod(q.error);
-  const items = searchAirports(q.data.q, q.data.limit ?? 20).map((a) => ({ icao: a.icao, iata: a.iata, name: a.name, country: a.country, lat: a.lat, lon: a.lon }));
+  const items = searchAirports(q.data.q, q.data.limit ?? 20).map((a) => ({
+    icao: a.icao,
+    iata: a.iata,
+    name: a.name,
+    country: a.country,
+    lat: a.lat,
+    lon: a.lon,
+  }));
   return json({ items });
 });

@@ -4,5 +4,7 @@ let cached: string | undefined;
 
 export function GET(): Response {
   cached ??= JSON.stringify(buildOpenApiDocument());
-  return new Response(cached, { headers: { 'content-type': 'application/json', 'cache-control': 'public, max-age=300' } });
+  return new Response(cached, {
+    headers: { 'content-type': 'application/json', 'cache-control': 'public, max-age=300' },
+  });
 }

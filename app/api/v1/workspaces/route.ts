@@ -17,6 +17,11 @@ export const GET = authedRoute(async ({ principal }) => {
 export const POST = authedRoute(async ({ req, principal }) => {
   if (principal.kind !== 'user') throw forbidden('API keys act inside one workspace and cannot create workspaces.');
   const input = await readJson(req, workspaceCreateSchema);
-  const ws = await createWorkspace({ name: input.name, slug: input.slug, ownerId: principal.user.id, actor: principal.user.email });
+  const ws = await createWorkspace({
+    name: input.name,
+    slug: input.slug,
+    ownerId: principal.user.id,
+    actor: principal.user.email,
+  });
   return json({ slug: ws.slug, name: ws.name, role: 'owner' }, 201);
 });

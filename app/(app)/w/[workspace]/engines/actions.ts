@@ -1,7 +1,14 @@
 'use server';
 
 import { revalidatePath } from 'next/cache';
-import { createAircraftType, createEngine, deleteAircraftType, deleteEngine, updateAircraftType, updateEngine } from '@/db/engines';
+import {
+  createAircraftType,
+  createEngine,
+  deleteAircraftType,
+  deleteEngine,
+  updateAircraftType,
+  updateEngine,
+} from '@/db/engines';
 import { aircraftTypeSaveSchema, engineSaveSchema } from '@/lib/validation/library';
 import { noInput, workspaceRowAction } from '@/lib/actions/workspace-action';
 
@@ -11,7 +18,8 @@ export const saveEngineAction = workspaceRowAction(
   engineSaveSchema,
   async (ctx, id, input) => {
     const scope = { workspaceId: ctx.workspace.id };
-    const engine = id === null ? await createEngine(scope, input, ctx.by) : await updateEngine(scope, id, input, ctx.by);
+    const engine =
+      id === null ? await createEngine(scope, input, ctx.by) : await updateEngine(scope, id, input, ctx.by);
     revalidatePath(`/w/${ctx.slug}/engines`);
     return { data: { id: engine.id }, message: id === null ? `Added “${engine.name}”.` : 'Changes saved.' };
   },
@@ -29,7 +37,8 @@ export const saveAircraftTypeAction = workspaceRowAction(
   aircraftTypeSaveSchema,
   async (ctx, id, input) => {
     const scope = { workspaceId: ctx.workspace.id };
-    const type = id === null ? await createAircraftType(scope, input, ctx.by) : await updateAircraftType(scope, id, input, ctx.by);
+    const type =
+      id === null ? await createAircraftType(scope, input, ctx.by) : await updateAircraftType(scope, id, input, ctx.by);
     revalidatePath(`/w/${ctx.slug}/engines`);
     return { data: { id: type.id }, message: id === null ? `Added aircraft type ${type.code}.` : 'Changes saved.' };
   },

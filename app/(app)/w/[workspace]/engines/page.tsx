@@ -23,7 +23,11 @@ export default async function EnginesPage({ params }: { params: Promise<{ worksp
   const { workspace: slug } = await params;
   const { workspace, user, role } = await requireMember(slug, 'flights:read');
   const scope = { workspaceId: workspace.id };
-  const [engines, types, fleets] = await Promise.all([listEngines(scope), listAircraftTypes(scope), listFleetChoices(scope)]);
+  const [engines, types, fleets] = await Promise.all([
+    listEngines(scope),
+    listAircraftTypes(scope),
+    listFleetChoices(scope),
+  ]);
   const canWrite = can(role, 'library:write');
   const units = user.units;
   return (
@@ -37,25 +41,40 @@ export default async function EnginesPage({ params }: { params: Promise<{ worksp
         <Card title={<span id="types-heading">Aircraft types</span>}>
           {types.length === 0 ? (
             <EmptyState title="No aircraft types yet">
-              {canWrite ? 'Add a type below: choose its engine (or give a direct EI NOx), the engine count and its usual cruise. Schedules and screenings refer to types by code.' : 'A planner in this workspace can add aircraft types here.'}
+              {canWrite
+                ? 'Add a type below: choose its engine (or give a direct EI NOx), the engine count and its usual cruise. Schedules and screenings refer to types by code.'
+                : 'A planner in this workspace can add aircraft types here.'}
             </EmptyState>
           ) : (
             <div className="overflow-x-auto">
               <table className="w-full text-sm">
                 <thead>
                   <tr>
-                    <th scope="col" className={th}>Code</th>
-                    <th scope="col" className={th}>Name</th>
-                    <th scope="col" className={th}>Emission</th>
-                    <th scope="col" className={`${th} text-right`}>Typical cruise</th>
-                    <th scope="col" className={th}>Default fleet</th>
+                    <th scope="col" className={th}>
+                      Code
+                    </th>
+                    <th scope="col" className={th}>
+                      Name
+                    </th>
+                    <th scope="col" className={th}>
+                      Emission
+                    </th>
+                    <th scope="col" className={`${th} text-right`}>
+                      Typical cruise
+                    </th>
+                    <th scope="col" className={th}>
+                      Default fleet
+                    </th>
                   </tr>
                 </thead>
                 <tbody>
                   {types.map((t) => (
                     <tr key={t.id} className="border-t border-line">
                       <td className="py-2 pr-3 font-mono text-xs whitespace-nowrap">
-                        <Link href={`/w/${slug}/engines/aircraft/${t.id}`} className="font-semibold text-accent hover:underline">
+                        <Link
+                          href={`/w/${slug}/engines/aircraft/${t.id}`}
+                          className="font-semibold text-accent hover:underline"
+                        >
                           {t.code}
                         </Link>
                       </td>
@@ -66,7 +85,9 @@ export default async function EnginesPage({ params }: { params: Promise<{ worksp
                             {t.engineCount} × {t.engineName}
                           </>
                         ) : t.directEiGPerKg !== null ? (
-                          <>Direct EI NOx {formatNumber(t.directEiGPerKg, 1)} g/kg ({t.engineCount} engines)</>
+                          <>
+                            Direct EI NOx {formatNumber(t.directEiGPerKg, 1)} g/kg ({t.engineCount} engines)
+                          </>
                         ) : (
                           <span className="text-caution">No emission data</span>
                         )}
@@ -98,104 +119,137 @@ export default async function EnginesPage({ params }: { params: Promise<{ worksp
         <Card title={<span id="engines-heading">Engines</span>}>
           {engines.length === 0 ? (
             <EmptyState title="No engines yet">
-              {canWrite ? 'Add an engine from its certification data sheet with the form below, or import several at once from a CSV.' : 'A planner in this workspace can add engines here.'}
+              {canWrite
+                ? 'Add an engine from its certification data sheet with the form below, or import several at once from a CSV.'
+                : 'A planner in this workspace can add engines here.'}
             </EmptyState>
           ) : (
             <>
-            <ul className="divide-y divide-line lg:hidden">
-              {engines.map((e) => {
-                const usedBy = types.filter((t) => t.engineId === e.id).map((t) => t.code);
-                return (
-                  <li key={e.id} className="py-3">
-                    <Link href={`/w/${slug}/engines/${e.id}`} className="font-medium text-accent hover:underline">
-                      {e.name}
-                    </Link>
-                    {e.isDemo ? <DemoBadge /> : null}
-                    {e.source ? <div className="mt-0.5 text-xs text-ink-soft">{e.source}</div> : null}
-                    <table className="mt-2 w-full max-w-md text-sm">
-                      <thead className="text-left text-xs text-ink-soft">
-                        <tr>
-                          <th scope="col" className="py-0.5 pr-3 font-medium">Mode</th>
-                          <th scope="col" className="py-0.5 pr-3 text-right font-medium">Fuel flow, {fuelFlowUnit(units)}</th>
-                          <th scope="col" className="py-0.5 text-right font-medium">EI NOx, g/kg</th>
-                        </tr>
-                      </thead>
-                      <tbody>
-                        {LTO_MODES.map((m, i) => (
-                          <tr key={m.key}>
-                            <td className="py-0.5 pr-3">{m.label}</td>
-                            <td className="figure py-0.5 pr-3 text-right">{formatFuelFlow(e.fuelFlowKgS[i], units)}</td>
-                            <td className="figure py-0.5 text-right">{formatNumber(e.eiNoxGPerKg[i], 1)}</td>
+              <ul className="divide-y divide-line lg:hidden">
+                {engines.map((e) => {
+                  const usedBy = types.filter((t) => t.engineId === e.id).map((t) => t.code);
+                  return (
+                    <li key={e.id} className="py-3">
+                      <Link href={`/w/${slug}/engines/${e.id}`} className="font-medium text-accent hover:underline">
+                        {e.name}
+                      </Link>
+                      {e.isDemo ? <DemoBadge /> : null}
+                      {e.source ? <div className="mt-0.5 text-xs text-ink-soft">{e.source}</div> : null}
+                      <table className="mt-2 w-full max-w-md text-sm">
+                        <thead className="text-left text-xs text-ink-soft">
+                          <tr>
+                            <th scope="col" className="py-0.5 pr-3 font-medium">
+                              Mode
+                            </th>
+                            <th scope="col" className="py-0.5 pr-3 text-right font-medium">
+                              Fuel flow, {fuelFlowUnit(units)}
+                            </th>
+                            <th scope="col" className="py-0.5 text-right font-medium">
+                              EI NOx, g/kg
+                            </th>
                           </tr>
-                        ))}
-                      </tbody>
-                    </table>
-                    <div className="mt-2 flex flex-wrap items-center gap-x-4 gap-y-1 text-sm">
-                      <span>
-                        <span className="text-ink-soft">Cruise check (FL{CRUISE_CHECK.flightLevel}, M{CRUISE_CHECK.mach.toFixed(2)}, ISA):</span> <CruiseCheckTag check={cruiseEiCheck(e)} />
-                      </span>
-                      <span>
-                        <span className="text-ink-soft">Used by:</span> <span className="font-mono text-xs">{usedBy.length ? usedBy.join(', ') : '—'}</span>
-                      </span>
-                    </div>
-                  </li>
-                );
-              })}
-            </ul>
-            <div className="hidden overflow-x-auto lg:block">
-              <table className="w-full text-sm">
-                <thead>
-                  <tr>
-                    <th scope="col" className={`${th} min-w-[11rem]`}>Engine</th>
-                    <th scope="col" className={`${th} text-right`}>
-                      Fuel flow per engine, {fuelFlowUnit(units)}
-                      <span className="block font-normal normal-case tracking-normal text-ink-faint">idle · app · c/o · t/o</span>
-                    </th>
-                    <th scope="col" className={`${th} text-right`}>
-                      EI NOx, g/kg
-                      <span className="block font-normal normal-case tracking-normal text-ink-faint">idle · app · c/o · t/o</span>
-                    </th>
-                    <th scope="col" className={th}>
-                      Cruise check
-                      <span className="block font-normal normal-case tracking-normal text-ink-faint">
-                        FL{CRUISE_CHECK.flightLevel}, M{CRUISE_CHECK.mach.toFixed(2)}, ISA
-                      </span>
-                    </th>
-                    <th scope="col" className={`${th} whitespace-nowrap`}>Used by</th>
-                  </tr>
-                </thead>
-                <tbody>
-                  {engines.map((e) => {
-                    const usedBy = types.filter((t) => t.engineId === e.id).map((t) => t.code);
-                    return (
-                      <tr key={e.id} id={`engine-${e.id}`} className="border-t border-line align-top">
-                        <td className="py-2 pr-3">
-                          <Link href={`/w/${slug}/engines/${e.id}`} className="font-medium text-accent hover:underline">
-                            {e.name}
-                          </Link>
-                          {e.isDemo ? <DemoBadge /> : null}
-                          {e.source ? <div className="mt-0.5 max-w-xs text-xs text-ink-soft">{e.source}</div> : null}
-                        </td>
-                        <td className="figure py-2 pr-3 text-right whitespace-nowrap">{e.fuelFlowKgS.map((v) => formatFuelFlow(v, units)).join(' · ')}</td>
-                        <td className="figure py-2 pr-3 text-right whitespace-nowrap">{e.eiNoxGPerKg.map((v) => formatNumber(v, 1)).join(' · ')}</td>
-                        <td className="py-2 pr-3">
+                        </thead>
+                        <tbody>
+                          {LTO_MODES.map((m, i) => (
+                            <tr key={m.key}>
+                              <td className="py-0.5 pr-3">{m.label}</td>
+                              <td className="figure py-0.5 pr-3 text-right">
+                                {formatFuelFlow(e.fuelFlowKgS[i], units)}
+                              </td>
+                              <td className="figure py-0.5 text-right">{formatNumber(e.eiNoxGPerKg[i], 1)}</td>
+                            </tr>
+                          ))}
+                        </tbody>
+                      </table>
+                      <div className="mt-2 flex flex-wrap items-center gap-x-4 gap-y-1 text-sm">
+                        <span>
+                          <span className="text-ink-soft">
+                            Cruise check (FL{CRUISE_CHECK.flightLevel}, M{CRUISE_CHECK.mach.toFixed(2)}, ISA):
+                          </span>{' '}
                           <CruiseCheckTag check={cruiseEiCheck(e)} />
-                        </td>
-                        <td className="py-2 pr-3 font-mono text-xs whitespace-nowrap">{usedBy.length ? usedBy.join(', ') : <span className="font-sans text-ink-faint">—</span>}</td>
-                      </tr>
-                    );
-                  })}
-                </tbody>
-              </table>
-            </div>
+                        </span>
+                        <span>
+                          <span className="text-ink-soft">Used by:</span>{' '}
+                          <span className="font-mono text-xs">{usedBy.length ? usedBy.join(', ') : '—'}</span>
+                        </span>
+                      </div>
+                    </li>
+                  );
+                })}
+              </ul>
+              <div className="hidden overflow-x-auto lg:block">
+                <table className="w-full text-sm">
+                  <thead>
+                    <tr>
+                      <th scope="col" className={`${th} min-w-[11rem]`}>
+                        Engine
+                      </th>
+                      <th scope="col" className={`${th} text-right`}>
+                        Fuel flow per engine, {fuelFlowUnit(units)}
+                        <span className="block font-normal normal-case tracking-normal text-ink-faint">
+                          idle · app · c/o · t/o
+                        </span>
+                      </th>
+                      <th scope="col" className={`${th} text-right`}>
+                        EI NOx, g/kg
+                        <span className="block font-normal normal-case tracking-normal text-ink-faint">
+                          idle · app · c/o · t/o
+                        </span>
+                      </th>
+                      <th scope="col" className={th}>
+                        Cruise check
+                        <span className="block font-normal normal-case tracking-normal text-ink-faint">
+                          FL{CRUISE_CHECK.flightLevel}, M{CRUISE_CHECK.mach.toFixed(2)}, ISA
+                        </span>
+                      </th>
+                      <th scope="col" className={`${th} whitespace-nowrap`}>
+                        Used by
+                      </th>
+                    </tr>
+                  </thead>
+                  <tbody>
+                    {engines.map((e) => {
+                      const usedBy = types.filter((t) => t.engineId === e.id).map((t) => t.code);
+                      return (
+                        <tr key={e.id} id={`engine-${e.id}`} className="border-t border-line align-top">
+                          <td className="py-2 pr-3">
+                            <Link
+                              href={`/w/${slug}/engines/${e.id}`}
+                              className="font-medium text-accent hover:underline"
+                            >
+                              {e.name}
+                            </Link>
+                            {e.isDemo ? <DemoBadge /> : null}
+                            {e.source ? <div className="mt-0.5 max-w-xs text-xs text-ink-soft">{e.source}</div> : null}
+                          </td>
+                          <td className="figure py-2 pr-3 text-right whitespace-nowrap">
+                            {e.fuelFlowKgS.map((v) => formatFuelFlow(v, units)).join(' · ')}
+                          </td>
+                          <td className="figure py-2 pr-3 text-right whitespace-nowrap">
+                            {e.eiNoxGPerKg.map((v) => formatNumber(v, 1)).join(' · ')}
+                          </td>
+                          <td className="py-2 pr-3">
+                            <CruiseCheckTag check={cruiseEiCheck(e)} />
+                          </td>
+                          <td className="py-2 pr-3 font-mono text-xs whitespace-nowrap">
+                            {usedBy.length ? usedBy.join(', ') : <span className="font-sans text-ink-faint">—</span>}
+                          </td>
+                        </tr>
+                      );
+                    })}
+                  </tbody>
+                </table>
+              </div>
             </>
           )}
           <div className="mt-4">
             <Notice tone="caution" title="About the cruise check">
-              Boeing Fuel Flow Method 2 at FL{CRUISE_CHECK.flightLevel}, Mach {CRUISE_CHECK.mach.toFixed(2)}, ISA and 60 % relative humidity, at a cruise fuel flow of{' '}
-              {Math.round(CRUISE_CHECK.takeOffFraction * 100)} % of the take-off fuel flow (our rule of thumb for this check only). Modern subsonic turbofans usually sit near 10–20 g/kg at
-              cruise (common practice). It tells you whether the numbers look plausible, not what a flight emits: fuel-flow correlations are calibrated on subsonic engines, so at
-              Mach above 1 prefer a measured cruise EI. A screening is an estimate for planning and reporting support, not a certified inventory.
+              Boeing Fuel Flow Method 2 at FL{CRUISE_CHECK.flightLevel}, Mach {CRUISE_CHECK.mach.toFixed(2)}, ISA and 60
+              % relative humidity, at a cruise fuel flow of {Math.round(CRUISE_CHECK.takeOffFraction * 100)} % of the
+              take-off fuel flow (our rule of thumb for this check only). Modern subsonic turbofans usually sit near
+              10–20 g/kg at cruise (common practice). It tells you whether the numbers look plausible, not what a flight
+              emits: fuel-flow correlations are calibrated on subsonic engines, so at Mach above 1 prefer a measured
+              cruise EI. A screening is an estimate for planning and reporting support, not a certified inventory.
             </Notice>
           </div>
         </Card>

@@ -13,14 +13,23 @@ export const metadata = { title: 'Fixes & airways' };
 
 const LIST_LIMIT = 500;
 
-export default async function FixesPage({ params, searchParams }: { params: Promise<{ workspace: string }>; searchParams: Promise<{ q?: string | string[] }> }) {
+export default async function FixesPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ workspace: string }>;
+  searchParams: Promise<{ q?: string | string[] }>;
+}) {
   const [{ workspace: slug }, search] = await Promise.all([params, searchParams]);
   const { workspace, role } = await requireMember(slug, 'flights:read');
   const raw = typeof search.q === 'string' ? search.q.trim() : '';
   const tooLong = raw.length > 12;
   const q = tooLong ? '' : raw;
   const scope = { workspaceId: workspace.id };
-  const [fixes, airways] = await Promise.all([listFixes(scope, { q, limit: LIST_LIMIT + 1 }), listAirways(scope, { q, limit: LIST_LIMIT })]);
+  const [fixes, airways] = await Promise.all([
+    listFixes(scope, { q, limit: LIST_LIMIT + 1 }),
+    listAirways(scope, { q, limit: LIST_LIMIT }),
+  ]);
   const canWrite = can(role, 'navdata:write');
   const api = `/api/v1/workspaces/${slug}`;
   const dataHref = (csv: string) => `data:text/csv;charset=utf-8,${encodeURIComponent(csv)}`;
@@ -42,20 +51,42 @@ export default async function FixesPage({ params, searchParams }: { params: Prom
         <div className="min-w-0 space-y-6">
           {fixes.length === 0 ? (
             <EmptyState title={q ? `No fixes starting with ${q.toUpperCase()}` : 'No fixes yet'}>
-              {canWrite ? 'Upload a CSV of named points with the form.' : 'A planner in this workspace can upload named points here.'}
+              {canWrite
+                ? 'Upload a CSV of named points with the form.'
+                : 'A planner in this workspace can upload named points here.'}
             </EmptyState>
           ) : (
-            <Card title={fixes.length > LIST_LIMIT ? `First ${LIST_LIMIT} fixes` : `${fixes.length} fix${fixes.length === 1 ? '' : 'es'}`}>
+            <Card
+              title={
+                fixes.length > LIST_LIMIT
+                  ? `First ${LIST_LIMIT} fixes`
+                  : `${fixes.length} fix${fixes.length === 1 ? '' : 'es'}`
+              }
+            >
               <div className="overflow-x-auto">
                 <table className="w-full text-sm">
                   <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
                     <tr>
-                      <th scope="col" className="py-2 pr-3">Name</th>
-                      <th scope="col" className="py-2 pr-3">Region</th>
-                      <th scope="col" className="py-2 pr-3 text-right">Latitude</th>
-                      <th scope="col" className="py-2 pr-3 text-right">Longitude</th>
-                      <th scope="col" className="py-2 pr-3">Item 15</th>
-                      {canWrite ? <th scope="col" className="py-2"><span className="sr-only">Actions</span></th> : null}
+                      <th scope="col" className="py-2 pr-3">
+                        Name
+                      </th>
+                      <th scope="col" className="py-2 pr-3">
+                        Region
+                      </th>
+                      <th scope="col" className="py-2 pr-3 text-right">
+                        Latitude
+                      </th>
+                      <th scope="col" className="py-2 pr-3 text-right">
+                        Longitude
+                      </th>
+                      <th scope="col" className="py-2 pr-3">
+                        Item 15
+                      </th>
+                      {canWrite ? (
+                        <th scope="col" className="py-2">
+                          <span className="sr-only">Actions</span>
+                        </th>
+                      ) : null}
                     </tr>
                   </thead>
                   <tbody>
@@ -65,7 +96,9 @@ export default async function FixesPage({ params, searchParams }: { params: Prom
                         <td className="py-2 pr-3 text-ink-soft">{f.region || '—'}</td>
                         <td className="figure py-2 pr-3 text-right">{formatNumber(f.lat, 4)}</td>
                         <td className="figure py-2 pr-3 text-right">{formatNumber(f.lon, 4)}</td>
-                        <td className="py-2 pr-3 font-mono text-xs text-ink-soft">{formatFlightPlanCoordinate(f.lat, f.lon)}</td>
+                        <td className="py-2 pr-3 font-mono text-xs text-ink-soft">
+                          {formatFlightPlanCoordinate(f.lat, f.lon)}
+                        </td>
                         {canWrite ? (
                           <td className="py-2 text-right">
                             <RouteLibraryDeleteButton url={`${api}/fixes/${f.id}`} name={f.name} />
@@ -80,7 +113,8 @@ export default async function FixesPage({ params, searchParams }: { params: Prom
           )}
           {airways.length === 0 ? (
             <EmptyState title={q ? `No airways starting with ${q.toUpperCase()}` : 'No airways yet'}>
-              Without an airway here, a flight plan flies the airway as a great circle between its two points, and says so.
+              Without an airway here, a flight plan flies the airway as a great circle between its two points, and says
+              so.
             </EmptyState>
           ) : (
             <Card title={`${airways.length} airway${airways.length === 1 ? '' : 's'}`}>
@@ -88,7 +122,8 @@ export default async function FixesPage({ params, searchParams }: { params: Prom
                 {airways.map((a) => (
                   <li key={a.id} className="flex items-start justify-between gap-3 py-2">
                     <div className="min-w-0">
-                      <span className="font-medium">{a.name}</span> <span className="text-ink-soft">({a.fixes.length} points)</span>
+                      <span className="font-medium">{a.name}</span>{' '}
+                      <span className="text-ink-soft">({a.fixes.length} points)</span>
                       <div className="break-words font-mono text-xs text-ink-soft">{a.fixes.join(' · ')}</div>
                     </div>
                     {canWrite ? <RouteLibraryDeleteButton url={`${api}/airways/${a.id}`} name={a.name} /> : null}

@@ -15,7 +15,13 @@ export const metadata = { title: 'Fleets' };
 
 type SearchParams = Record<string, string | string[] | undefined>;
 
-export default async function FleetsPage({ params, searchParams }: { params: Promise<{ workspace: string }>; searchParams: Promise<SearchParams> }) {
+export default async function FleetsPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ workspace: string }>;
+  searchParams: Promise<SearchParams>;
+}) {
   const { workspace: slug } = await params;
   const { workspace, role, user } = await requireMember(slug, 'flights:read');
   const sp = await searchParams;
@@ -28,13 +34,24 @@ export default async function FleetsPage({ params, searchParams }: { params: Pro
     parsed.success ? compareFleets(scope, parsed.data) : Promise.resolve(null),
   ]);
   const canWrite = can(role, 'fleets:write');
-  const actions = { create: createFleetAction, update: updateFleetAction, remove: deleteFleetAction, assign: assignAircraftFleetAction };
+  const actions = {
+    create: createFleetAction,
+    update: updateFleetAction,
+    remove: deleteFleetAction,
+    assign: assignAircraftFleetAction,
+  };
   return (
     <>
       <PageHeader
         title="Fleets"
         lead="Compare fleets by the NOx they put above the tropopause, month by month. A flight counts in the fleet named in its schedule row, else in its aircraft type's default fleet."
-        actions={can(role, 'reports:create') ? <ButtonLink href={`/w/${slug}/reports`} variant="secondary">Fleet reports</ButtonLink> : undefined}
+        actions={
+          can(role, 'reports:create') ? (
+            <ButtonLink href={`/w/${slug}/reports`} variant="secondary">
+              Fleet reports
+            </ButtonLink>
+          ) : undefined
+        }
       />
       <FleetComparison
         slug={slug}
@@ -49,7 +66,9 @@ export default async function FleetsPage({ params, searchParams }: { params: Pro
         <Card title={`Fleets (${fleets.length})`}>
           {fleets.length === 0 ? (
             <EmptyState title="No fleets yet">
-              {canWrite ? 'Create a fleet, then give your aircraft types a default fleet so their flights are grouped.' : 'An analyst or the owner can create fleets.'}
+              {canWrite
+                ? 'Create a fleet, then give your aircraft types a default fleet so their flights are grouped.'
+                : 'An analyst or the owner can create fleets.'}
             </EmptyState>
           ) : (
             <FleetList slug={slug} fleets={fleets} actions={actions} canWrite={canWrite} />
@@ -63,13 +82,29 @@ export default async function FleetsPage({ params, searchParams }: { params: Pro
         </Card>
         <Card title="Default fleet of each aircraft type">
           {types.length === 0 ? (
-            <EmptyState title="No aircraft types yet" action={<ButtonLink href={`/w/${slug}/engines`} variant="secondary">Engines &amp; aircraft</ButtonLink>}>
+            <EmptyState
+              title="No aircraft types yet"
+              action={
+                <ButtonLink href={`/w/${slug}/engines`} variant="secondary">
+                  Engines &amp; aircraft
+                </ButtonLink>
+              }
+            >
               Add aircraft types first; each can then default to a fleet.
             </EmptyState>
           ) : (
             <>
-              <p className="mb-3 text-sm text-ink-soft">Flights whose schedule row names no fleet count in their type&apos;s default fleet. Changing it regroups those flights everywhere, past ones included.</p>
-              <AircraftFleetTable slug={slug} types={types.map((t) => ({ id: t.id, code: t.code, name: t.name, defaultFleetId: t.defaultFleetId }))} fleets={fleets} action={assignAircraftFleetAction} canWrite={canWrite} />
+              <p className="mb-3 text-sm text-ink-soft">
+                Flights whose schedule row names no fleet count in their type&apos;s default fleet. Changing it regroups
+                those flights everywhere, past ones included.
+              </p>
+              <AircraftFleetTable
+                slug={slug}
+                types={types.map((t) => ({ id: t.id, code: t.code, name: t.name, defaultFleetId: t.defaultFleetId }))}
+                fleets={fleets}
+                action={assignAircraftFleetAction}
+                canWrite={canWrite}
+              />
             </>
           )}
         </Card>

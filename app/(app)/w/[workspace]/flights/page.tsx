@@ -23,7 +23,11 @@ type Search = Record<string, string | string[] | undefined>;
 const one = (v: string | string[] | undefined): string => (Array.isArray(v) ? (v[0] ?? '') : (v ?? '')).trim();
 
 /** The URL's filters; a bad one is named beside its field and left out. */
-function readFilters(search: Search): { text: Record<FilterKey, string>; filters: FlightFilters; problems: Partial<Record<FilterKey, string>> } {
+function readFilters(search: Search): {
+  text: Record<FilterKey, string>;
+  filters: FlightFilters;
+  problems: Partial<Record<FilterKey, string>>;
+} {
   const text = Object.fromEntries(FILTER_KEYS.map((k) => [k, one(search[k])])) as Record<FilterKey, string>;
   const shape = flightListQuerySchema.shape;
   const filters: FlightFilters = {};
@@ -41,7 +45,13 @@ function readFilters(search: Search): { text: Record<FilterKey, string>; filters
   return { text, filters, problems };
 }
 
-export default async function FlightsPage({ params, searchParams }: { params: Promise<{ workspace: string }>; searchParams: Promise<Search> }) {
+export default async function FlightsPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ workspace: string }>;
+  searchParams: Promise<Search>;
+}) {
   const [{ workspace: slug }, search] = await Promise.all([params, searchParams]);
   const { workspace, user, role } = await requireMember(slug, 'flights:read');
   const { text, filters, problems } = readFilters(search);
@@ -52,7 +62,11 @@ export default async function FlightsPage({ params, searchParams }: { params: Pr
     .filter((c) => c === '0' || /^\d{4}-\d{2}-\d{2}~\d{1,12}$/.test(c))
     .slice(-40);
   const scope = { workspaceId: workspace.id };
-  const [page, totals, options] = await Promise.all([listFlights(scope, { ...filters, cursor, limit: PAGE_SIZE }), summariseFlights(scope, filters), listFlightFilterOptions(scope)]);
+  const [page, totals, options] = await Promise.all([
+    listFlights(scope, { ...filters, cursor, limit: PAGE_SIZE }),
+    summariseFlights(scope, filters),
+    listFlightFilterOptions(scope),
+  ]);
   const filtered = Object.keys(filters).length > 0;
   const units = user.units;
 
@@ -66,11 +80,19 @@ export default async function FlightsPage({ params, searchParams }: { params: Pr
     const qs = q.toString();
     return `/w/${slug}/flights${qs ? `?${qs}` : ''}`;
   };
-  const olderHref = page.nextCursor ? link({ cursor: page.nextCursor, trail: [...trail, cursor ?? '0'].join(',') }) : null;
+  const olderHref = page.nextCursor
+    ? link({ cursor: page.nextCursor, trail: [...trail, cursor ?? '0'].join(',') })
+    : null;
   const previous = trail.length ? trail[trail.length - 1] : null;
-  const newerHref = cursor ? link({ cursor: previous && previous !== '0' ? previous : undefined, trail: trail.slice(0, -1).join(',') || undefined }) : null;
+  const newerHref = cursor
+    ? link({
+        cursor: previous && previous !== '0' ? previous : undefined,
+        trail: trail.slice(0, -1).join(',') || undefined,
+      })
+    : null;
   const share = totals.noxTotalKg > 0 ? totals.noxAboveTropopauseKg / totals.noxTotalKg : 0;
-  const importName = filters.import !== undefined ? options.imports.find((i) => i.id === filters.import)?.fileName : undefined;
+  const importName =
+    filters.import !== undefined ? options.imports.find((i) => i.id === filters.import)?.fileName : undefined;
 
   return (
     <>
@@ -81,10 +103,18 @@ export default async function FlightsPage({ params, searchParams }: { params: Pr
             ? `Flights of import #${filters.import} (${importName}), newest first, with the NOx each put above the tropopause.`
             : 'Flights from schedule imports, newest first, with the NOx each put above the tropopause.'
         }
-        actions={can(role, 'imports:create') ? <ButtonLink href={`/w/${slug}/imports`}>Import a schedule</ButtonLink> : undefined}
+        actions={
+          can(role, 'imports:create') ? (
+            <ButtonLink href={`/w/${slug}/imports`}>Import a schedule</ButtonLink>
+          ) : undefined
+        }
       />
       <Card className="mb-6">
-        <Form action={`/w/${slug}/flights`} className="grid items-start gap-3 sm:grid-cols-2 lg:grid-cols-3 xl:grid-cols-6" aria-label="Filter the flights">
+        <Form
+          action={`/w/${slug}/flights`}
+          className="grid items-start gap-3 sm:grid-cols-2 lg:grid-cols-3 xl:grid-cols-6"
+          aria-label="Filter the flights"
+        >
           <Field id="import" label="Import" error={problems.import}>
             <SelectInput id="import" name="import" defaultValue={text.import} invalid={!!problems.import}>
               <option value="">Any</option>
@@ -121,17 +151,35 @@ export default async function FlightsPage({ params, searchParams }: { params: Pr
               ))}
             </SelectInput>
           </Field>
-          <FilterActions clearHref={`/w/${slug}/flights`} showClear={filtered || Object.keys(problems).length > 0} className="pt-6" />
+          <FilterActions
+            clearHref={`/w/${slug}/flights`}
+            showClear={filtered || Object.keys(problems).length > 0}
+            className="pt-6"
+          />
         </Form>
       </Card>
 
       {totals.flights === 0 ? (
         filtered ? (
-          <EmptyState title="No flight matches these filters" action={<ButtonLink href={`/w/${slug}/flights`} variant="secondary">Show all flights</ButtonLink>}>
+          <EmptyState
+            title="No flight matches these filters"
+            action={
+              <ButtonLink href={`/w/${slug}/flights`} variant="secondary">
+                Show all flights
+              </ButtonLink>
+            }
+          >
             Widen the dates, or choose another import, fleet or aircraft type.
           </EmptyState>
         ) : (
-          <EmptyState title="No flights yet" action={can(role, 'imports:create') ? <ButtonLink href={`/w/${slug}/imports`}>Import a schedule</ButtonLink> : undefined}>
+          <EmptyState
+            title="No flights yet"
+            action={
+              can(role, 'imports:create') ? (
+                <ButtonLink href={`/w/${slug}/imports`}>Import a schedule</ButtonLink>
+              ) : undefined
+            }
+          >
             Flights arrive from schedule imports: upload a CSV of flights and they are screened here in the background.
           </EmptyState>
         )
@@ -141,13 +189,26 @@ export default async function FlightsPage({ params, searchParams }: { params: Pr
             <Stat
               label={COUNT_LABELS.importedFlightsScreened}
               value={formatNumber(totals.screened)}
-              sub={totals.pending || totals.failed ? `${formatNumber(totals.pending)} waiting · ${formatNumber(totals.failed)} not screened` : `of ${formatNumber(totals.flights)}`}
+              sub={
+                totals.pending || totals.failed
+                  ? `${formatNumber(totals.pending)} waiting · ${formatNumber(totals.failed)} not screened`
+                  : `of ${formatNumber(totals.flights)}`
+              }
             />
             <Stat label="Distance" value={formatDistance(totals.distanceKm, units)} />
             <Stat label="Cruise fuel" value={formatMass(totals.fuelKg, units)} sub="screened flights" />
             <Stat label="NOx emitted" value={formatMass(totals.noxTotalKg, units)} sub="as NO2" />
-            <Stat label="NOx above tropopause" value={formatMass(totals.noxAboveTropopauseKg, units)} sub={`${formatPercent(share, 1)} of the NOx`} tone="strato" />
-            <Stat label="Ozone figure" value={formatMass(totals.ozoneCentralKg, units)} sub={`range ${formatMass(totals.ozoneLowKg, units)}–${formatMass(totals.ozoneHighKg, units)}`} />
+            <Stat
+              label="NOx above tropopause"
+              value={formatMass(totals.noxAboveTropopauseKg, units)}
+              sub={`${formatPercent(share, 1)} of the NOx`}
+              tone="strato"
+            />
+            <Stat
+              label="Ozone figure"
+              value={formatMass(totals.ozoneCentralKg, units)}
+              sub={`range ${formatMass(totals.ozoneLowKg, units)}–${formatMass(totals.ozoneHighKg, units)}`}
+            />
           </div>
           <div className="mb-6">
             <ScreeningCaution />
@@ -155,14 +216,19 @@ export default async function FlightsPage({ params, searchParams }: { params: Pr
           <Card>
             {page.items.length === 0 ? (
               <p className="text-sm text-ink-soft">
-                No more flights on this page. <Link href={link({})} className="text-accent hover:underline">Back to the newest</Link>
+                No more flights on this page.{' '}
+                <Link href={link({})} className="text-accent hover:underline">
+                  Back to the newest
+                </Link>
               </p>
             ) : (
               <FlightsTable flights={page.items} units={units} />
             )}
             <div className="mt-4 flex flex-wrap items-center justify-between gap-3 text-sm">
               <p className="text-ink-soft">
-                {formatNumber(page.items.length)} of {formatNumber(totals.flights)} flight{totals.flights === 1 ? '' : 's'} on this page. The ozone figure is a gross catalytic loss, not a net column change.
+                {formatNumber(page.items.length)} of {formatNumber(totals.flights)} flight
+                {totals.flights === 1 ? '' : 's'} on this page. The ozone figure is a gross catalytic loss, not a net
+                column change.
               </p>
               <PagerLinks newerHref={newerHref} olderHref={olderHref} />
             </div>

@@ -17,7 +17,10 @@ export const deleteImportAction = workspaceRowAction('imports:delete', noInput, 
 
 /** Queues a re-screen of an import's flights with the current engine (in the background, not billed). */
 export const rescreenImportAction = workspaceRowAction('imports:create', noInput, async (ctx, id) => {
-  const imp = await rescreenImport({ workspaceId: ctx.workspace.id }, id, { userId: ctx.user.id, label: ctx.user.email });
+  const imp = await rescreenImport({ workspaceId: ctx.workspace.id }, id, {
+    userId: ctx.user.id,
+    label: ctx.user.email,
+  });
   revalidatePath(`/w/${ctx.slug}/imports`);
   return {
     message: `Import #${imp.id}: ${imp.rescreen?.rows ?? 0} flights are being screened again with engine version ${imp.rescreen?.engineVersion ?? ''}; not billed again.`,

@@ -20,11 +20,24 @@ export default async function ImportsPage({ params }: { params: Promise<{ worksp
   const { workspace: slug } = await params;
   const { workspace, role } = await requireMember(slug, 'flights:read');
   const scope = { workspaceId: workspace.id };
-  const [imports, types, fleets] = await Promise.all([listImports(scope, { limit: 50 }), listAircraftForScreening(scope), listFleetsByName(scope)]);
+  const [imports, types, fleets] = await Promise.all([
+    listImports(scope, { limit: 50 }),
+    listAircraftForScreening(scope),
+    listFleetsByName(scope),
+  ]);
   const canUpload = can(role, 'imports:create');
   const canDelete = can(role, 'imports:delete');
-  const codes = [...types.values()].filter((t) => t.emission !== null).map((t) => t.code).sort();
-  const example = scheduleTemplateCsv({ aircraft: codes, fleets: [...fleets.values()].map((f) => f.name).sort(), day: todayIso() }).trim().replace(/\r/g, '');
+  const codes = [...types.values()]
+    .filter((t) => t.emission !== null)
+    .map((t) => t.code)
+    .sort();
+  const example = scheduleTemplateCsv({
+    aircraft: codes,
+    fleets: [...fleets.values()].map((f) => f.name).sort(),
+    day: todayIso(),
+  })
+    .trim()
+    .replace(/\r/g, '');
   const templateHref = `/api/v1/workspaces/${slug}/imports/template`;
 
   return (
@@ -32,7 +45,11 @@ export default async function ImportsPage({ params }: { params: Promise<{ worksp
       <PageHeader
         title="Schedule imports"
         lead="Upload a flight schedule as CSV. Every row is checked before anything is saved; accepted flights are screened in the background, and each screened flight is one billable unit."
-        actions={<ButtonLink href={`/w/${slug}/flights`} variant="secondary">Flights</ButtonLink>}
+        actions={
+          <ButtonLink href={`/w/${slug}/flights`} variant="secondary">
+            Flights
+          </ButtonLink>
+        }
       />
       <Card title="Upload a schedule">
         {canUpload ? (
@@ -40,13 +57,15 @@ export default async function ImportsPage({ params }: { params: Promise<{ worksp
             <UploadForm slug={slug} aside={<FormatSummary templateHref={templateHref} />} />
           ) : (
             <Notice tone="caution" title="Add an aircraft type first">
-              Each row names an aircraft type of this workspace, which supplies its EI NOx and typical Mach. Add one with engine data or a direct EI
-              NOx under Engines &amp; aircraft, then upload.
+              Each row names an aircraft type of this workspace, which supplies its EI NOx and typical Mach. Add one
+              with engine data or a direct EI NOx under Engines &amp; aircraft, then upload.
             </Notice>
           )
         ) : (
           <div className="grid gap-6 md:grid-cols-2">
-            <p className="text-sm text-ink-soft">Your role can read imports but not upload them. A flight planner, analyst or owner uploads schedules.</p>
+            <p className="text-sm text-ink-soft">
+              Your role can read imports but not upload them. A flight planner, analyst or owner uploads schedules.
+            </p>
             <FormatSummary templateHref={templateHref} />
           </div>
         )}
@@ -54,7 +73,9 @@ export default async function ImportsPage({ params }: { params: Promise<{ worksp
       <Card title="Imports" className="mt-6">
         {imports.items.length === 0 ? (
           <EmptyState title="No schedule imported yet">
-            {canUpload ? 'Download the template, fill in your flights and upload it above; progress shows here while the flights are screened.' : 'Imports appear here once a planner, analyst or owner uploads a schedule.'}
+            {canUpload
+              ? 'Download the template, fill in your flights and upload it above; progress shows here while the flights are screened.'
+              : 'Imports appear here once a planner, analyst or owner uploads a schedule.'}
           </EmptyState>
         ) : (
           <>
@@ -67,9 +88,15 @@ export default async function ImportsPage({ params }: { params: Promise<{ worksp
               onRescreen={rescreenImportAction.bind(null, slug)}
               currentEngineVersion={ENGINE_VERSION}
             />
-            {imports.nextCursor ? <p className="mt-2 text-xs text-ink-soft">Showing the 50 newest imports; older ones stay listed in the Import filter of Flights.</p> : null}
+            {imports.nextCursor ? (
+              <p className="mt-2 text-xs text-ink-soft">
+                Showing the 50 newest imports; older ones stay listed in the Import filter of Flights.
+              </p>
+            ) : null}
             {canDelete ? (
-              <p className="mt-2 text-xs text-ink-soft">Deleting an import removes its flights. Units already billed for flights it screened stay billed.</p>
+              <p className="mt-2 text-xs text-ink-soft">
+                Deleting an import removes its flights. Units already billed for flights it screened stay billed.
+              </p>
             ) : null}
           </>
         )}

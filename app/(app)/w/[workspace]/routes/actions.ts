@@ -10,7 +10,9 @@ import { noInput, workspaceRowAction } from '@/lib/actions/workspace-action';
 /** Server problems at `waypoints.N...` belong beside the waypoint box of the form. */
 function onFormFields(state: ActionState<never>): ActionState<never> {
   if (!state || state.ok || !state.error.fields) return state;
-  const fields = state.error.fields.map((f) => (f.path.startsWith('waypoints') ? { path: 'waypointsText', message: waypointProblemMessage(f.path, f.message) } : f));
+  const fields = state.error.fields.map((f) =>
+    f.path.startsWith('waypoints') ? { path: 'waypointsText', message: waypointProblemMessage(f.path, f.message) } : f,
+  );
   return { ok: false, error: { ...state.error, fields } };
 }
 

@@ -38,9 +38,15 @@ export default async function RoutesPage({ params }: { params: Promise<{ workspa
                 <table className="w-full text-sm">
                   <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
                     <tr>
-                      <th scope="col" className="py-2 pr-3">Route</th>
-                      <th scope="col" className="py-2 pr-3">Waypoints</th>
-                      <th scope="col" className="py-2 pr-3 text-right">Great-circle distance</th>
+                      <th scope="col" className="py-2 pr-3">
+                        Route
+                      </th>
+                      <th scope="col" className="py-2 pr-3">
+                        Waypoints
+                      </th>
+                      <th scope="col" className="py-2 pr-3 text-right">
+                        Great-circle distance
+                      </th>
                       <th scope="col" className="py-2">
                         <span className="sr-only">Actions</span>
                       </th>
@@ -53,13 +59,21 @@ export default async function RoutesPage({ params }: { params: Promise<{ workspa
                           <Link href={`/w/${slug}/routes/${r.id}`} className="font-medium text-accent hover:underline">
                             {r.name}
                           </Link>
-                          {r.notes ? <div className="mt-0.5 line-clamp-2 max-w-xs text-xs text-ink-soft">{r.notes}</div> : null}
+                          {r.notes ? (
+                            <div className="mt-0.5 line-clamp-2 max-w-xs text-xs text-ink-soft">{r.notes}</div>
+                          ) : null}
                         </td>
                         <td className="py-2 pr-3 font-mono text-xs text-ink">{routeLine(r.waypoints)}</td>
-                        <td className="figure py-2 pr-3 text-right whitespace-nowrap">{formatDistance(routeLengthKm(r), user.units)}</td>
+                        <td className="figure py-2 pr-3 text-right whitespace-nowrap">
+                          {formatDistance(routeLengthKm(r), user.units)}
+                        </td>
                         <td className="py-2 text-right whitespace-nowrap">
                           {canScreen ? (
-                            <ButtonLink variant="secondary" href={`/w/${slug}/screen?route=${r.id}`} className="px-2.5 py-1 text-xs">
+                            <ButtonLink
+                              variant="secondary"
+                              href={`/w/${slug}/screen?route=${r.id}`}
+                              className="px-2.5 py-1 text-xs"
+                            >
                               Screen this route
                             </ButtonLink>
                           ) : null}

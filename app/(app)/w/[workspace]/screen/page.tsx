@@ -3,7 +3,13 @@ import { listAircraftTypes, listEngines } from '@/db/engines';
 import { listAircraftForScreening } from '@/db/aircraft-lookup';
 import { listRoutes } from '@/db/routes';
 import { listSoundings } from '@/db/soundings';
-import { DAYLIGHT_FACTOR_EQUINOX, DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT, DEFAULT_MAX_FUEL_PENALTY_PCT, DEFAULT_OZONE_INPUTS, findAirport } from '@/lib/screening';
+import {
+  DAYLIGHT_FACTOR_EQUINOX,
+  DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT,
+  DEFAULT_MAX_FUEL_PENALTY_PCT,
+  DEFAULT_OZONE_INPUTS,
+  findAirport,
+} from '@/lib/screening';
 import { todayIso } from '@/lib/clock';
 import type { AssumptionDefaults } from '@/lib/validation/screen-form';
 import { PageHeader } from '@/components/ui/card';
@@ -37,7 +43,15 @@ export default async function ScreenPage({ params }: { params: Promise<{ workspa
 }
 
 /** The workspace's aircraft, engines, routes and soundings for the form, read after the permission check. */
-async function ScreenFormLoader({ slug, workspaceId, units }: { slug: string; workspaceId: number; units: UnitSystem }) {
+async function ScreenFormLoader({
+  slug,
+  workspaceId,
+  units,
+}: {
+  slug: string;
+  workspaceId: number;
+  units: UnitSystem;
+}) {
   const scope = { workspaceId };
   const [types, lookup, engines, routes, soundings] = await Promise.all([
     listAircraftTypes(scope),
@@ -91,7 +105,14 @@ async function ScreenFormLoader({ slug, workspaceId, units }: { slug: string; wo
           return a ? { lat: a.lat, lon: a.lon } : null;
         }),
       }))}
-      soundings={soundings.map((s) => ({ id: s.id, name: s.name, station: s.station, observedAt: s.observedAt, levels: s.levels, tropopause: s.tropopause }))}
+      soundings={soundings.map((s) => ({
+        id: s.id,
+        name: s.name,
+        station: s.station,
+        observedAt: s.observedAt,
+        levels: s.levels,
+        tropopause: s.tropopause,
+      }))}
     />
   );
 }

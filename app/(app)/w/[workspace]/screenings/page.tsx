@@ -37,7 +37,11 @@ interface FilterText {
 }
 
 /** Filters as typed (share in per cent) -> the list query; a bad filter is named and left out. */
-function readFilters(search: Search): { text: FilterText; filters: ScreeningFilters; problems: Partial<Record<keyof FilterText, string>> } {
+function readFilters(search: Search): {
+  text: FilterText;
+  filters: ScreeningFilters;
+  problems: Partial<Record<keyof FilterText, string>>;
+} {
   const text: FilterText = {
     from: one(search.from),
     to: one(search.to),
@@ -73,14 +77,24 @@ function readFilters(search: Search): { text: FilterText; filters: ScreeningFilt
     if (!Number.isFinite(pct) || pct < 0 || pct > 100) problems[key] = 'Give a share between 0 and 100 %.';
     else filters[target] = pct / 100;
   }
-  if (filters.minShareAbove !== undefined && filters.maxShareAbove !== undefined && filters.minShareAbove > filters.maxShareAbove) {
+  if (
+    filters.minShareAbove !== undefined &&
+    filters.maxShareAbove !== undefined &&
+    filters.minShareAbove > filters.maxShareAbove
+  ) {
     problems.maxAbove = 'The largest share is below the smallest.';
     delete filters.maxShareAbove;
   }
   return { text, filters, problems };
 }
 
-export default async function ScreeningsPage({ params, searchParams }: { params: Promise<{ workspace: string }>; searchParams: Promise<Search> }) {
+export default async function ScreeningsPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ workspace: string }>;
+  searchParams: Promise<Search>;
+}) {
   const [{ workspace: slug }, search] = await Promise.all([params, searchParams]);
   const { workspace, user, role } = await requireMember(slug, 'flights:read');
   const { text, filters, problems } = readFilters(search);
@@ -95,7 +109,11 @@ export default async function ScreeningsPage({ params, searchParams }: { params:
         actions={canScreen ? <ButtonLink href={`/w/${slug}/screen`}>Screen a flight</ButtonLink> : undefined}
       />
       <Card className="mb-6">
-        <Form action={`/w/${slug}/screenings`} className="grid items-start gap-3 sm:grid-cols-2 md:grid-cols-3 xl:grid-cols-6" aria-label="Filter the screenings">
+        <Form
+          action={`/w/${slug}/screenings`}
+          className="grid items-start gap-3 sm:grid-cols-2 md:grid-cols-3 xl:grid-cols-6"
+          aria-label="Filter the screenings"
+        >
           <Field id="from" label="Saved from" error={problems.from}>
             <TextInput id="from" name="from" type="date" defaultValue={text.from} invalid={!!problems.from} />
           </Field>
@@ -103,7 +121,13 @@ export default async function ScreeningsPage({ params, searchParams }: { params:
             <TextInput id="to" name="to" type="date" defaultValue={text.to} invalid={!!problems.to} />
           </Field>
           <Field id="route" label="Route contains" error={problems.route}>
-            <TextInput id="route" name="route" placeholder="EGLL" defaultValue={text.route} invalid={!!problems.route} />
+            <TextInput
+              id="route"
+              name="route"
+              placeholder="EGLL"
+              defaultValue={text.route}
+              invalid={!!problems.route}
+            />
           </Field>
           <Field id="aircraft" label="Aircraft type">
             <SelectInput id="aircraft" name="aircraft" defaultValue={text.aircraft}>
@@ -116,16 +140,43 @@ export default async function ScreeningsPage({ params, searchParams }: { params:
             </SelectInput>
           </Field>
           <Field id="minAbove" label="Min. share above (%)" error={problems.minAbove}>
-            <TextInput id="minAbove" name="minAbove" inputMode="decimal" defaultValue={text.minAbove} invalid={!!problems.minAbove} />
+            <TextInput
+              id="minAbove"
+              name="minAbove"
+              inputMode="decimal"
+              defaultValue={text.minAbove}
+              invalid={!!problems.minAbove}
+            />
           </Field>
           <Field id="maxAbove" label="Max. share above (%)" error={problems.maxAbove}>
-            <TextInput id="maxAbove" name="maxAbove" inputMode="decimal" defaultValue={text.maxAbove} invalid={!!problems.maxAbove} />
+            <TextInput
+              id="maxAbove"
+              name="maxAbove"
+              inputMode="decimal"
+              defaultValue={text.maxAbove}
+              invalid={!!problems.maxAbove}
+            />
           </Field>
-          <FilterActions clearHref={`/w/${slug}/screenings`} showClear={filtered || Object.keys(problems).length > 0} className="sm:col-span-2 md:col-span-3 xl:col-span-6" />
+          <FilterActions
+            clearHref={`/w/${slug}/screenings`}
+            showClear={filtered || Object.keys(problems).length > 0}
+            className="sm:col-span-2 md:col-span-3 xl:col-span-6"
+          />
         </Form>
       </Card>
-      <Suspense key={JSON.stringify([filters, one(search.cursor)])} fallback={<CardSkeleton label="the screenings" height="h-96" />}>
-        <HistoryResults slug={slug} workspaceId={workspace.id} units={user.units} canScreen={canScreen} search={search} text={text} filters={filters} />
+      <Suspense
+        key={JSON.stringify([filters, one(search.cursor)])}
+        fallback={<CardSkeleton label="the screenings" height="h-96" />}
+      >
+        <HistoryResults
+          slug={slug}
+          workspaceId={workspace.id}
+          units={user.units}
+          canScreen={canScreen}
+          search={search}
+          text={text}
+          filters={filters}
+        />
       </Suspense>
       <div className="mt-6">
         <ScreeningCaution />
@@ -174,9 +225,16 @@ async function HistoryResults({
     const qs = q.toString();
     return `/w/${slug}/screenings${qs ? `?${qs}` : ''}`;
   };
-  const olderHref = page.nextCursor ? link({ cursor: page.nextCursor, trail: [...trail, cursor ? String(cursor) : '0'].join(',') }) : null;
+  const olderHref = page.nextCursor
+    ? link({ cursor: page.nextCursor, trail: [...trail, cursor ? String(cursor) : '0'].join(',') })
+    : null;
   const previous = trail.length ? trail[trail.length - 1] : null;
-  const newerHref = cursor ? link({ cursor: previous && previous !== '0' ? previous : undefined, trail: trail.slice(0, -1).join(',') || undefined }) : null;
+  const newerHref = cursor
+    ? link({
+        cursor: previous && previous !== '0' ? previous : undefined,
+        trail: trail.slice(0, -1).join(',') || undefined,
+      })
+    : null;
 
   const rows: HistoryRow[] = page.items.map((s) => ({
     id: s.id,
@@ -197,7 +255,14 @@ async function HistoryResults({
     <>
       {rows.length === 0 ? (
         filtered || cursor ? (
-          <EmptyState title="No screening matches these filters" action={<ButtonLink href={`/w/${slug}/screenings`} variant="secondary">Show all screenings</ButtonLink>}>
+          <EmptyState
+            title="No screening matches these filters"
+            action={
+              <ButtonLink href={`/w/${slug}/screenings`} variant="secondary">
+                Show all screenings
+              </ButtonLink>
+            }
+          >
             Widen the dates or the share above the tropopause, or clear the filters.
           </EmptyState>
         ) : (
@@ -211,8 +276,8 @@ async function HistoryResults({
             {imported > 0 ? (
               <span data-testid="imported-flights-elsewhere">
                 {' '}
-                This list holds {COUNT_LABELS.savedScreenings.toLowerCase()} only; the workspace&apos;s {formatNumber(imported)}{' '}
-                {COUNT_LABELS.importedFlightsScreened.toLowerCase()} are under{' '}
+                This list holds {COUNT_LABELS.savedScreenings.toLowerCase()} only; the workspace&apos;s{' '}
+                {formatNumber(imported)} {COUNT_LABELS.importedFlightsScreened.toLowerCase()} are under{' '}
                 <Link className="underline" href={`/w/${slug}/flights`}>
                   Flights
                 </Link>
@@ -226,7 +291,8 @@ async function HistoryResults({
           <HistoryTable slug={slug} rows={rows} units={units} />
           <div className="mt-4 flex flex-wrap items-center justify-between gap-3 text-sm">
             <p className="text-ink-soft">
-              {rows.length} screening{rows.length === 1 ? '' : 's'} on this page{one(search.sort) ? '; sorting orders this page' : ''}.
+              {rows.length} screening{rows.length === 1 ? '' : 's'} on this page
+              {one(search.sort) ? '; sorting orders this page' : ''}.
             </p>
             <PagerLinks newerHref={newerHref} olderHref={olderHref} />
           </div>

@@ -37,22 +37,35 @@ export default async function SoundingsPage({ params }: { params: Promise<{ work
                 <table className="w-full text-sm">
                   <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
                     <tr>
-                      <th scope="col" className="py-2 pr-3">Sounding</th>
-                      <th scope="col" className="py-2 pr-3">Observed</th>
-                      <th scope="col" className="py-2 pr-3 text-right">Levels</th>
-                      <th scope="col" className="py-2">WMO tropopause</th>
+                      <th scope="col" className="py-2 pr-3">
+                        Sounding
+                      </th>
+                      <th scope="col" className="py-2 pr-3">
+                        Observed
+                      </th>
+                      <th scope="col" className="py-2 pr-3 text-right">
+                        Levels
+                      </th>
+                      <th scope="col" className="py-2">
+                        WMO tropopause
+                      </th>
                     </tr>
                   </thead>
                   <tbody>
                     {soundings.map((s) => (
                       <tr key={s.id} className="border-t border-line align-top">
                         <td className="py-2 pr-3">
-                          <Link href={`/w/${slug}/soundings/${s.id}`} className="font-medium text-accent hover:underline">
+                          <Link
+                            href={`/w/${slug}/soundings/${s.id}`}
+                            className="font-medium text-accent hover:underline"
+                          >
                             {s.name}
                           </Link>
                           {s.station ? <div className="text-xs text-ink-soft">{s.station}</div> : null}
                         </td>
-                        <td className="py-2 pr-3 whitespace-nowrap text-ink-soft">{s.observedAt ? formatDateTime(s.observedAt) : '—'}</td>
+                        <td className="py-2 pr-3 whitespace-nowrap text-ink-soft">
+                          {s.observedAt ? formatDateTime(s.observedAt) : '—'}
+                        </td>
                         <td className="figure py-2 pr-3 text-right">{s.levels.length}</td>
                         <td className="py-2">
                           {s.tropopause ? (
@@ -60,7 +73,11 @@ export default async function SoundingsPage({ params }: { params: Promise<{ work
                               {formatAltitude(s.tropopause.altitudeM, user.units)}
                               <span className="text-ink-soft">
                                 {' '}
-                                · {formatNumber(s.tropopause.pressureHpa, 0)} hPa{flightLevelAtPressure(s.tropopause.pressureHpa) ? ` (≈ ${flightLevelAtPressure(s.tropopause.pressureHpa)})` : ''} · {formatNumber(s.tropopause.temperatureK - 273.15, 1)} °C
+                                · {formatNumber(s.tropopause.pressureHpa, 0)} hPa
+                                {flightLevelAtPressure(s.tropopause.pressureHpa)
+                                  ? ` (≈ ${flightLevelAtPressure(s.tropopause.pressureHpa)})`
+                                  : ''}{' '}
+                                · {formatNumber(s.tropopause.temperatureK - 273.15, 1)} °C
                               </span>
                             </span>
                           ) : (

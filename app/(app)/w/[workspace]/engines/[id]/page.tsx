@@ -44,7 +44,11 @@ export default async function EnginePage({ params }: { params: Promise<{ workspa
         lead={engine.source || 'No source noted for these values.'}
       />
       <div className="mb-6 grid gap-3 sm:grid-cols-3">
-        <Stat label={`Cruise check, FL${CRUISE_CHECK.flightLevel} M${CRUISE_CHECK.mach.toFixed(2)} ISA`} value={<CruiseCheckTag check={check} />} sub={`at ${formatFuelFlow(check.fuelFlowPerEngineKgS, user.units)} ${fuelFlowUnit(user.units)} per engine`} />
+        <Stat
+          label={`Cruise check, FL${CRUISE_CHECK.flightLevel} M${CRUISE_CHECK.mach.toFixed(2)} ISA`}
+          value={<CruiseCheckTag check={check} />}
+          sub={`at ${formatFuelFlow(check.fuelFlowPerEngineKgS, user.units)} ${fuelFlowUnit(user.units)} per engine`}
+        />
         <Stat
           label="Used by"
           value={
@@ -53,7 +57,10 @@ export default async function EnginePage({ params }: { params: Promise<{ workspa
                 {usedBy.map((t, i) => (
                   <span key={t.id}>
                     {i ? ', ' : ''}
-                    <Link href={`/w/${slug}/engines/aircraft/${t.id}`} className="font-mono text-accent hover:underline">
+                    <Link
+                      href={`/w/${slug}/engines/aircraft/${t.id}`}
+                      className="font-mono text-accent hover:underline"
+                    >
                       {t.code}
                     </Link>
                   </span>
@@ -72,10 +79,18 @@ export default async function EnginePage({ params }: { params: Promise<{ workspa
             <table className="w-full text-sm">
               <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
                 <tr>
-                  <th scope="col" className="py-2 pr-3">LTO mode</th>
-                  <th scope="col" className="py-2 pr-3 text-right">Thrust</th>
-                  <th scope="col" className="py-2 pr-3 text-right">Fuel flow, {fuelFlowUnit(user.units)}</th>
-                  <th scope="col" className="py-2 text-right">EI NOx, g/kg</th>
+                  <th scope="col" className="py-2 pr-3">
+                    LTO mode
+                  </th>
+                  <th scope="col" className="py-2 pr-3 text-right">
+                    Thrust
+                  </th>
+                  <th scope="col" className="py-2 pr-3 text-right">
+                    Fuel flow, {fuelFlowUnit(user.units)}
+                  </th>
+                  <th scope="col" className="py-2 text-right">
+                    EI NOx, g/kg
+                  </th>
                 </tr>
               </thead>
               <tbody>
@@ -83,7 +98,9 @@ export default async function EnginePage({ params }: { params: Promise<{ workspa
                   <tr key={m.key} className="border-t border-line">
                     <td className="py-1.5 pr-3">{m.label}</td>
                     <td className="figure py-1.5 pr-3 text-right text-ink-soft">{m.thrust}</td>
-                    <td className="figure py-1.5 pr-3 text-right">{formatFuelFlow(engine.fuelFlowKgS[i], user.units)}</td>
+                    <td className="figure py-1.5 pr-3 text-right">
+                      {formatFuelFlow(engine.fuelFlowKgS[i], user.units)}
+                    </td>
                     <td className="figure py-1.5 text-right">{formatNumber(engine.eiNoxGPerKg[i], 2)}</td>
                   </tr>
                 ))}
@@ -91,19 +108,29 @@ export default async function EnginePage({ params }: { params: Promise<{ workspa
             </table>
           </Card>
           <Notice tone="caution">
-            The cruise check is a plausibility figure (BFFM2 at a cruise fuel flow of {Math.round(CRUISE_CHECK.takeOffFraction * 100)} % of take-off, our rule of thumb), not what a flight
-            emits. Screenings are estimates for planning and reporting support, not a certified emissions inventory.
+            The cruise check is a plausibility figure (BFFM2 at a cruise fuel flow of{' '}
+            {Math.round(CRUISE_CHECK.takeOffFraction * 100)} % of take-off, our rule of thumb), not what a flight emits.
+            Screenings are estimates for planning and reporting support, not a certified emissions inventory.
           </Notice>
         </div>
         {canWrite ? (
           <div className="space-y-6">
             <Card title="Change this engine">
-              {engine.isDemo ? <p className="mb-3 text-sm text-ink-soft">Saving your own values removes the demo-data mark.</p> : null}
+              {engine.isDemo ? (
+                <p className="mb-3 text-sm text-ink-soft">Saving your own values removes the demo-data mark.</p>
+              ) : null}
               <EngineForm action={saveEngineAction.bind(null, slug, engine.id)} initial={engineSaveOf(engine)} />
             </Card>
             <Card title="Delete">
-              <p className="mb-3 text-sm text-ink-soft">An engine that an aircraft type still uses cannot be deleted; change or delete those types first.</p>
-              <DeleteButton action={deleteEngineAction.bind(null, slug, engine.id)} confirmText={`Delete the engine “${engine.name}”?`} label="Delete engine" after={`/w/${slug}/engines`} />
+              <p className="mb-3 text-sm text-ink-soft">
+                An engine that an aircraft type still uses cannot be deleted; change or delete those types first.
+              </p>
+              <DeleteButton
+                action={deleteEngineAction.bind(null, slug, engine.id)}
+                confirmText={`Delete the engine “${engine.name}”?`}
+                label="Delete engine"
+                after={`/w/${slug}/engines`}
+              />
             </Card>
           </div>
         ) : null}

@@ -54,10 +54,28 @@ export default async function ReportPage({ params }: { params: Promise<{ workspa
         }
       />
       <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
-        <Stat label={COUNT_LABELS.importedFlightsScreened} value={formatNumber(t.flights)} sub={formatDistance(t.distanceKm, u)} />
-        <Stat label="NOx emitted" value={formatMass(t.noxTotalKg, u)} sub={`as NO2 · fuel ${formatMass(t.fuelKg, u)}`} />
-        <Stat label="NOx above tropopause" value={formatMass(t.noxAboveKg, u)} sub={`${share(t)} of NOx`} tone="strato" />
-        <Stat label="Ozone-loss figure (gross)" value={formatMass(t.ozone.centralKg, u)} sub={formatMassRange(t.ozone.lowKg, t.ozone.highKg, u)} tone="strato" />
+        <Stat
+          label={COUNT_LABELS.importedFlightsScreened}
+          value={formatNumber(t.flights)}
+          sub={formatDistance(t.distanceKm, u)}
+        />
+        <Stat
+          label="NOx emitted"
+          value={formatMass(t.noxTotalKg, u)}
+          sub={`as NO2 · fuel ${formatMass(t.fuelKg, u)}`}
+        />
+        <Stat
+          label="NOx above tropopause"
+          value={formatMass(t.noxAboveKg, u)}
+          sub={`${share(t)} of NOx`}
+          tone="strato"
+        />
+        <Stat
+          label="Ozone-loss figure (gross)"
+          value={formatMass(t.ozone.centralKg, u)}
+          sub={formatMassRange(t.ozone.lowKg, t.ozone.highKg, u)}
+          tone="strato"
+        />
       </div>
       <div className="mt-4">
         <ScreeningCaution />
@@ -69,21 +87,40 @@ export default async function ReportPage({ params }: { params: Promise<{ workspa
             <table className="figure w-full min-w-[640px] text-sm">
               <thead className="border-b border-line-strong text-left text-xs uppercase tracking-wide text-ink-soft">
                 <tr>
-                  <th scope="col" className="px-2 py-2 font-medium">Fleet</th>
-                  <th scope="col" className="px-2 py-2 text-right font-medium">Flights</th>
-                  <th scope="col" className="px-2 py-2 text-right font-medium">CO2</th>
-                  <th scope="col" className="px-2 py-2 text-right font-medium">NOx above</th>
-                  <th scope="col" className="px-2 py-2 text-right font-medium">Share above</th>
-                  <th scope="col" className="px-2 py-2 text-right font-medium">Ozone figure</th>
+                  <th scope="col" className="px-2 py-2 font-medium">
+                    Fleet
+                  </th>
+                  <th scope="col" className="px-2 py-2 text-right font-medium">
+                    Flights
+                  </th>
+                  <th scope="col" className="px-2 py-2 text-right font-medium">
+                    CO2
+                  </th>
+                  <th scope="col" className="px-2 py-2 text-right font-medium">
+                    NOx above
+                  </th>
+                  <th scope="col" className="px-2 py-2 text-right font-medium">
+                    Share above
+                  </th>
+                  <th scope="col" className="px-2 py-2 text-right font-medium">
+                    Ozone figure
+                  </th>
                 </tr>
               </thead>
               <tbody>
                 {[...s.perFleet, t].map((r, i) => (
-                  <tr key={r.key} className={`border-b border-line ${i === s.perFleet.length ? 'bg-paper-sunk font-semibold' : ''}`}>
-                    <td className="whitespace-nowrap px-2 py-2">{i === s.perFleet.length ? 'All fleets' : r.fleetName}</td>
+                  <tr
+                    key={r.key}
+                    className={`border-b border-line ${i === s.perFleet.length ? 'bg-paper-sunk font-semibold' : ''}`}
+                  >
+                    <td className="whitespace-nowrap px-2 py-2">
+                      {i === s.perFleet.length ? 'All fleets' : r.fleetName}
+                    </td>
                     <td className="whitespace-nowrap px-2 py-2 text-right">{formatNumber(r.flights)}</td>
                     <td className="whitespace-nowrap px-2 py-2 text-right">{formatMass(r.co2Kg, u)}</td>
-                    <td className="whitespace-nowrap px-2 py-2 text-right text-strato-strong">{formatMass(r.noxAboveKg, u)}</td>
+                    <td className="whitespace-nowrap px-2 py-2 text-right text-strato-strong">
+                      {formatMass(r.noxAboveKg, u)}
+                    </td>
                     <td className="whitespace-nowrap px-2 py-2 text-right">{share(r)}</td>
                     <td className="whitespace-nowrap px-2 py-2 text-right">
                       {formatMass(r.ozone.centralKg, u)}
@@ -96,7 +133,9 @@ export default async function ReportPage({ params }: { params: Promise<{ workspa
               </tbody>
             </table>
           </ScrollRegion>
-          <p className="mt-2 text-xs text-ink-soft">{s.notes.co2} {s.notes.ratios}</p>
+          <p className="mt-2 text-xs text-ink-soft">
+            {s.notes.co2} {s.notes.ratios}
+          </p>
           {s.months.length ? (
             <div className="mt-5">
               <h3 className="mb-2 text-sm font-semibold text-ink">NOx above the tropopause by month</h3>
@@ -113,12 +152,16 @@ export default async function ReportPage({ params }: { params: Promise<{ workspa
         ) : null}
         <Card title="E-mail history">
           {sends.length === 0 ? (
-            <p className="text-sm text-ink-soft">Not sent yet.{can(role, 'reports:send') ? ' Use the form to send the PDF.' : ''}</p>
+            <p className="text-sm text-ink-soft">
+              Not sent yet.{can(role, 'reports:send') ? ' Use the form to send the PDF.' : ''}
+            </p>
           ) : (
             <ul className="divide-y divide-line text-sm">
               {sends.map((x) => (
                 <li key={x.id} className="py-2">
-                  <span className={x.status === 'sent' ? 'font-medium text-tropo-strong' : 'font-medium text-danger'}>{x.status === 'sent' ? 'Sent' : 'Failed'}</span>{' '}
+                  <span className={x.status === 'sent' ? 'font-medium text-tropo-strong' : 'font-medium text-danger'}>
+                    {x.status === 'sent' ? 'Sent' : 'Failed'}
+                  </span>{' '}
                   {formatDateTime(x.sentAt)}
                   {x.sentBy ? ` by ${x.sentBy}` : ''}
                   <span className="block text-xs text-ink-soft">To {x.recipients.join(', ')}</span>
@@ -136,9 +179,15 @@ export default async function ReportPage({ params }: { params: Promise<{ workspa
         <div className="mt-6 max-w-xl">
           <Card title="Delete">
             <p className="mb-3 text-sm text-ink-soft">
-              Removes the stored PDF and CSV and the e-mail history. Copies already downloaded or e-mailed are not affected; the audit log keeps a record of the deletion.
+              Removes the stored PDF and CSV and the e-mail history. Copies already downloaded or e-mailed are not
+              affected; the audit log keeps a record of the deletion.
             </p>
-            <DeleteButton action={deleteReportAction.bind(null, slug, report.id)} confirmText={`Delete the report “${report.name}” with its files and e-mail history?`} label="Delete report" after={`/w/${slug}/reports`} />
+            <DeleteButton
+              action={deleteReportAction.bind(null, slug, report.id)}
+              confirmText={`Delete the report “${report.name}” with its files and e-mail history?`}
+              label="Delete report"
+              after={`/w/${slug}/reports`}
+            />
           </Card>
         </div>
       ) : null}

@@ -54,10 +54,18 @@ export default async function RoutePage({ params }: { params: Promise<{ workspac
             <table className="w-full text-sm">
               <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
                 <tr>
-                  <th scope="col" className="py-2 pr-3">#</th>
-                  <th scope="col" className="py-2 pr-3">Waypoint</th>
-                  <th scope="col" className="py-2 pr-3">Airport</th>
-                  <th scope="col" className="py-2 text-right">Leg from previous</th>
+                  <th scope="col" className="py-2 pr-3">
+                    #
+                  </th>
+                  <th scope="col" className="py-2 pr-3">
+                    Waypoint
+                  </th>
+                  <th scope="col" className="py-2 pr-3">
+                    Airport
+                  </th>
+                  <th scope="col" className="py-2 text-right">
+                    Leg from previous
+                  </th>
                 </tr>
               </thead>
               <tbody>
@@ -66,7 +74,9 @@ export default async function RoutePage({ params }: { params: Promise<{ workspac
                     <td className="figure py-1.5 pr-3 text-ink-soft">{i + 1}</td>
                     <td className="py-1.5 pr-3 font-mono text-xs">{l.label}</td>
                     <td className="py-1.5 pr-3 text-ink-soft">{l.name}</td>
-                    <td className="figure py-1.5 text-right">{l.legKm === null ? '—' : formatDistance(l.legKm, user.units)}</td>
+                    <td className="figure py-1.5 text-right">
+                      {l.legKm === null ? '—' : formatDistance(l.legKm, user.units)}
+                    </td>
                   </tr>
                 ))}
               </tbody>
@@ -83,8 +93,15 @@ export default async function RoutePage({ params }: { params: Promise<{ workspac
               />
             </Card>
             <Card title="Delete">
-              <p className="mb-3 text-sm text-ink-soft">Screenings already saved from this route keep their own copy of the waypoints.</p>
-              <DeleteButton action={deleteRouteAction.bind(null, slug, route.id)} confirmText={`Delete the saved route “${route.name}”?`} label="Delete route" after={`/w/${slug}/routes`} />
+              <p className="mb-3 text-sm text-ink-soft">
+                Screenings already saved from this route keep their own copy of the waypoints.
+              </p>
+              <DeleteButton
+                action={deleteRouteAction.bind(null, slug, route.id)}
+                confirmText={`Delete the saved route “${route.name}”?`}
+                label="Delete route"
+                after={`/w/${slug}/routes`}
+              />
             </Card>
           </div>
         ) : null}

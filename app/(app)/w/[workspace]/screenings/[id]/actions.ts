@@ -6,7 +6,13 @@ import { rescreenScreening } from '@/lib/screenings/service';
 
 /** Screens a saved screening again with the current engine (a new screening, not billed). */
 export const rescreenScreeningAction = workspaceRowAction('screenings:create', noInput, async (ctx, id) => {
-  const { record, replayed } = await rescreenScreening({ workspaceId: ctx.workspace.id }, id, { userId: ctx.user.id, apiKeyId: null });
+  const { record, replayed } = await rescreenScreening({ workspaceId: ctx.workspace.id }, id, {
+    userId: ctx.user.id,
+    apiKeyId: null,
+  });
   revalidatePath(`/w/${ctx.slug}/screenings`);
-  return { data: { id: record.id }, message: replayed ? `Already screened again as #${record.id}.` : `Screened again as #${record.id}.` };
+  return {
+    data: { id: record.id },
+    message: replayed ? `Already screened again as #${record.id}.` : `Screened again as #${record.id}.`,
+  };
 });

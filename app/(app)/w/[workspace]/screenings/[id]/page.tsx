@@ -55,7 +55,8 @@ function readWhatIf(search: Search): {
   raw: { limit: string; rate: string };
 } {
   const raw = { limit: one(search.limit) ?? '', rate: one(search.rate) ?? '' };
-  const minimise: MinimiseCriterion = one(search.minimise) === 'nox-above-tropopause' ? 'nox-above-tropopause' : DEFAULT_MINIMISE;
+  const minimise: MinimiseCriterion =
+    one(search.minimise) === 'nox-above-tropopause' ? 'nox-above-tropopause' : DEFAULT_MINIMISE;
   const problems: Record<string, string> = {};
   const candidate: Record<string, number> = {};
   if (raw.limit.trim() !== '') candidate.maxFuelPenaltyPct = Number(raw.limit);
@@ -70,14 +71,22 @@ function readWhatIf(search: Search): {
   const ok = parsed.success ? parsed.data : {};
   return {
     limit: problems.limit ? DEFAULT_MAX_FUEL_PENALTY_PCT : (ok.maxFuelPenaltyPct ?? DEFAULT_MAX_FUEL_PENALTY_PCT),
-    rate: problems.rate ? DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT : (ok.fuelPenaltyPctPer1000Ft ?? DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT),
+    rate: problems.rate
+      ? DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT
+      : (ok.fuelPenaltyPctPer1000Ft ?? DEFAULT_FUEL_PENALTY_PCT_PER_1000_FT),
     minimise,
     problems,
     raw,
   };
 }
 
-export default async function ScreeningResultPage({ params, searchParams }: { params: Promise<{ workspace: string; id: string }>; searchParams: Promise<Search> }) {
+export default async function ScreeningResultPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ workspace: string; id: string }>;
+  searchParams: Promise<Search>;
+}) {
   const [{ workspace: slug, id }, search] = await Promise.all([params, searchParams]);
   const { workspace, user, role } = await requireMember(slug, 'flights:read');
   if (!/^\d{1,12}$/.test(id)) notFound();
@@ -102,7 +111,11 @@ export default async function ScreeningResultPage({ params, searchParams }: { pa
     label,
     record.aircraftCode ? `aircraft ${record.aircraftCode}` : null,
     cruiseLabel(input),
-    input.flightDate ? `flight date ${formatDate(input.flightDate)}` : result.month ? `month ${result.month}` : 'annual-mean tropopause',
+    input.flightDate
+      ? `flight date ${formatDate(input.flightDate)}`
+      : result.month
+        ? `month ${result.month}`
+        : 'annual-mean tropopause',
     `saved ${formatDateTime(record.createdAt)}`,
   ].filter(Boolean);
 
@@ -119,7 +132,9 @@ export default async function ScreeningResultPage({ params, searchParams }: { pa
             <a className={buttonClass('secondary')} href={`${exportBase}?format=json`} download>
               Export JSON
             </a>
-            {can(role, 'screenings:create') ? <ButtonLink href={`/w/${slug}/screen`}>Screen another flight</ButtonLink> : null}
+            {can(role, 'screenings:create') ? (
+              <ButtonLink href={`/w/${slug}/screen`}>Screen another flight</ButtonLink>
+            ) : null}
           </>
         }
       />
@@ -128,7 +143,8 @@ export default async function ScreeningResultPage({ params, searchParams }: { pa
           <div data-testid="engine-version-notice">
             <Notice tone="caution" title={`Made with an older engine version (${record.engineVersion})`}>
               <p>
-                These figures were saved with engine version {record.engineVersion}; the current method is {ENGINE_VERSION}. They stay as saved.{' '}
+                These figures were saved with engine version {record.engineVersion}; the current method is{' '}
+                {ENGINE_VERSION}. They stay as saved.{' '}
                 {current ? (
                   <>
                     It has been screened again with the current method:{' '}
@@ -141,7 +157,9 @@ export default async function ScreeningResultPage({ params, searchParams }: { pa
                   'Screening it again with the current method makes a new screening beside this one; it is not billed again.'
                 ) : null}
               </p>
-              {!current && can(role, 'screenings:create') ? <RescreenButton slug={slug} onRescreen={rescreenScreeningAction.bind(null, slug, record.id)} /> : null}
+              {!current && can(role, 'screenings:create') ? (
+                <RescreenButton slug={slug} onRescreen={rescreenScreeningAction.bind(null, slug, record.id)} />
+              ) : null}
             </Notice>
           </div>
         ) : null}
@@ -164,11 +182,20 @@ export default async function ScreeningResultPage({ params, searchParams }: { pa
             <VerticalProfileChart series={series} label={`Cruise altitude and tropopause along ${label}`} />
           </Card>
           <Card title="Route">
-            <RouteMap points={points} segments={result.segments} title={`Map of ${label}, coloured by position against the tropopause`} />
+            <RouteMap
+              points={points}
+              segments={result.segments}
+              title={`Map of ${label}, coloured by position against the tropopause`}
+            />
           </Card>
         </div>
         <Suspense fallback={<CardSkeleton label="the other cruise levels" />}>
-          <WhatIfSection input={inputAsScreened(input, result.flightPlan)} search={search} units={units} engineVersion={record.engineVersion} />
+          <WhatIfSection
+            input={inputAsScreened(input, result.flightPlan)}
+            search={search}
+            units={units}
+            engineVersion={record.engineVersion}
+          />
         </Suspense>
         <Card title="Segments">
           <div id="segments">
@@ -184,11 +211,25 @@ export default async function ScreeningResultPage({ params, searchParams }: { pa
 }
 
 /** The what-if levels, worked out now from the saved input with the planner's fuel-penalty limit from the URL. */
-async function WhatIfSection({ input, search, units, engineVersion }: { input: ScreeningInput; search: Search; units: UnitSystem; engineVersion: string }) {
+async function WhatIfSection({
+  input,
+  search,
+  units,
+  engineVersion,
+}: {
+  input: ScreeningInput;
+  search: Search;
+  units: UnitSystem;
+  engineVersion: string;
+}) {
   const whatIf = readWhatIf(search);
   let levels: CruiseLevelRow[] | null = null;
   try {
-    levels = compareValidated(input, { maxFuelPenaltyPct: whatIf.limit, fuelPenaltyPctPer1000Ft: whatIf.rate, minimise: whatIf.minimise });
+    levels = compareValidated(input, {
+      maxFuelPenaltyPct: whatIf.limit,
+      fuelPenaltyPctPer1000Ft: whatIf.rate,
+      minimise: whatIf.minimise,
+    });
   } catch {
     levels = null;
   }
@@ -200,10 +241,22 @@ async function WhatIfSection({ input, search, units, engineVersion }: { input: S
           <input key={k} type="hidden" name={k} value={one(v) ?? ''} />
         ))}
         <Field id="limit" label="Fuel-penalty limit (%)" error={whatIf.problems.limit} className="w-48">
-          <TextInput id="limit" name="limit" inputMode="decimal" defaultValue={whatIf.raw.limit || String(whatIf.limit)} invalid={!!whatIf.problems.limit} />
+          <TextInput
+            id="limit"
+            name="limit"
+            inputMode="decimal"
+            defaultValue={whatIf.raw.limit || String(whatIf.limit)}
+            invalid={!!whatIf.problems.limit}
+          />
         </Field>
         <Field id="rate" label="Penalty per 1000 ft (%)" error={whatIf.problems.rate} className="w-48">
-          <TextInput id="rate" name="rate" inputMode="decimal" defaultValue={whatIf.raw.rate || String(whatIf.rate)} invalid={!!whatIf.problems.rate} />
+          <TextInput
+            id="rate"
+            name="rate"
+            inputMode="decimal"
+            defaultValue={whatIf.raw.rate || String(whatIf.rate)}
+            invalid={!!whatIf.problems.rate}
+          />
         </Field>
         <Field id="minimise" label="Mark the level with the least" className="w-64">
           <SelectInput id="minimise" name="minimise" defaultValue={whatIf.minimise}>
@@ -218,15 +271,27 @@ async function WhatIfSection({ input, search, units, engineVersion }: { input: S
       {levels ? (
         <WhatIfTable rows={levels} units={units} limitPct={whatIf.limit} ratePctPer1000Ft={whatIf.rate} />
       ) : (
-        <Notice tone="danger">The other levels could not be worked out for this saved input with the current methods.</Notice>
+        <Notice tone="danger">
+          The other levels could not be worked out for this saved input with the current methods.
+        </Notice>
       )}
-      <p className="mt-2 text-xs text-ink-soft">Worked out now from the saved input; the figures above are as saved (engine version {engineVersion}).</p>
+      <p className="mt-2 text-xs text-ink-soft">
+        Worked out now from the saved input; the figures above are as saved (engine version {engineVersion}).
+      </p>
     </Card>
   );
 }
 
 /** What moves each figure (from the sampling) and the flight in every month. */
-async function SpreadAndSeason({ input, result, units }: { input: ScreeningInput; result: ScreeningResult; units: UnitSystem }) {
+async function SpreadAndSeason({
+  input,
+  result,
+  units,
+}: {
+  input: ScreeningInput;
+  result: ScreeningResult;
+  units: UnitSystem;
+}) {
   const u = uncertaintyFor(input, result);
   const months = monthsFor(input);
   return (
@@ -236,12 +301,18 @@ async function SpreadAndSeason({ input, result, units }: { input: ScreeningInput
           <>
             <UncertaintyDriversChart drivers={u.drivers} />
             <p className="mt-3 text-xs text-ink-soft">
-              5–95 %: percentiles of {u.samples} samples (seed {u.seed}) of the inputs that are really uncertain; the screening range keeps every
-              input at its low or high end together. {u.outsideScreeningRange.length ? `The ozone ${u.outsideScreeningRange.join(', ')} lie outside the screening range: the tropopause height or the EI, which that range holds fixed, moves them there.` : ''}
+              5–95 %: percentiles of {u.samples} samples (seed {u.seed}) of the inputs that are really uncertain; the
+              screening range keeps every input at its low or high end together.{' '}
+              {u.outsideScreeningRange.length
+                ? `The ozone ${u.outsideScreeningRange.join(', ')} lie outside the screening range: the tropopause height or the EI, which that range holds fixed, moves them there.`
+                : ''}
             </p>
           </>
         ) : (
-          <Notice tone="info">This screening was saved by an earlier engine version ({result.engineVersion}); screen it again to see the spread.</Notice>
+          <Notice tone="info">
+            This screening was saved by an earlier engine version ({result.engineVersion}); screen it again to see the
+            spread.
+          </Notice>
         )}
       </Card>
       <Card title="Across the year">

@@ -48,11 +48,35 @@ function rowsFor(a: ScreeningRecord, b: ScreeningRecord, units: UnitSystem): Fig
   const rb = b.result;
   const mass = (v: number) => formatMass(v, units);
   return [
-    { label: 'Distance', a: ra.distanceKm, b: rb.distanceKm, show: (v) => formatDistance(v, units), diff: (d) => signed(formatDistance(Math.abs(d), units), d) },
+    {
+      label: 'Distance',
+      a: ra.distanceKm,
+      b: rb.distanceKm,
+      show: (v) => formatDistance(v, units),
+      diff: (d) => signed(formatDistance(Math.abs(d), units), d),
+    },
     { label: 'Cruise fuel', a: ra.fuelKg, b: rb.fuelKg, show: mass, diff: (d) => signed(mass(Math.abs(d)), d) },
-    { label: 'NOx emitted (as NO2)', a: ra.noxTotalKg, b: rb.noxTotalKg, show: mass, diff: (d) => signed(mass(Math.abs(d)), d) },
-    { label: 'NOx above the tropopause (as NO2)', a: ra.noxAboveTropopauseKg, b: rb.noxAboveTropopauseKg, show: mass, diff: (d) => signed(mass(Math.abs(d)), d) },
-    { label: 'NOx above the tropopause (as N)', a: ra.noxAboveTropopauseKgN, b: rb.noxAboveTropopauseKgN, show: mass, diff: (d) => signed(mass(Math.abs(d)), d) },
+    {
+      label: 'NOx emitted (as NO2)',
+      a: ra.noxTotalKg,
+      b: rb.noxTotalKg,
+      show: mass,
+      diff: (d) => signed(mass(Math.abs(d)), d),
+    },
+    {
+      label: 'NOx above the tropopause (as NO2)',
+      a: ra.noxAboveTropopauseKg,
+      b: rb.noxAboveTropopauseKg,
+      show: mass,
+      diff: (d) => signed(mass(Math.abs(d)), d),
+    },
+    {
+      label: 'NOx above the tropopause (as N)',
+      a: ra.noxAboveTropopauseKgN,
+      b: rb.noxAboveTropopauseKgN,
+      show: mass,
+      diff: (d) => signed(mass(Math.abs(d)), d),
+    },
     {
       label: 'Share above',
       a: ra.fractionAboveTropopause,
@@ -67,14 +91,32 @@ function rowsFor(a: ScreeningRecord, b: ScreeningRecord, units: UnitSystem): Fig
       show: (v) => formatAltitude(v, units),
       diff: (d) => signed(formatAltitude(Math.abs(d), units), d),
     },
-    { label: 'Ozone-loss figure, central', a: ra.ozoneLoss.centralKg, b: rb.ozoneLoss.centralKg, show: mass, diff: (d) => signed(mass(Math.abs(d)), d) },
+    {
+      label: 'Ozone-loss figure, central',
+      a: ra.ozoneLoss.centralKg,
+      b: rb.ozoneLoss.centralKg,
+      show: mass,
+      diff: (d) => signed(mass(Math.abs(d)), d),
+    },
     { label: 'Ozone-loss figure, low', a: ra.ozoneLoss.lowKg, b: rb.ozoneLoss.lowKg, show: mass, diff: null },
     { label: 'Ozone-loss figure, high', a: ra.ozoneLoss.highKg, b: rb.ozoneLoss.highKg, show: mass, diff: null },
-    { label: 'Mean cruise EI NOx (g/kg)', a: ra.meanCruiseEiNoxGPerKg, b: rb.meanCruiseEiNoxGPerKg, show: (v) => formatNumber(v, 1), diff: (d) => signed(formatNumber(Math.abs(d), 1), d) },
+    {
+      label: 'Mean cruise EI NOx (g/kg)',
+      a: ra.meanCruiseEiNoxGPerKg,
+      b: rb.meanCruiseEiNoxGPerKg,
+      show: (v) => formatNumber(v, 1),
+      diff: (d) => signed(formatNumber(Math.abs(d), 1), d),
+    },
   ];
 }
 
-export default async function CompareScreeningsPage({ params, searchParams }: { params: Promise<{ workspace: string }>; searchParams: Promise<Search> }) {
+export default async function CompareScreeningsPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ workspace: string }>;
+  searchParams: Promise<Search>;
+}) {
   const [{ workspace: slug }, search] = await Promise.all([params, searchParams]);
   const { workspace, user } = await requireMember(slug, 'flights:read');
   return (
@@ -85,7 +127,18 @@ export default async function CompareScreeningsPage({ params, searchParams }: { 
 }
 
 /** Both screenings read and laid side by side; a missing or repeated one gets a way back instead. */
-async function ComparePanel({ slug, workspaceId, units, ...ids }: { slug: string; workspaceId: number; units: UnitSystem; a: string; b: string }) {
+async function ComparePanel({
+  slug,
+  workspaceId,
+  units,
+  ...ids
+}: {
+  slug: string;
+  workspaceId: number;
+  units: UnitSystem;
+  a: string;
+  b: string;
+}) {
   const [a, b] = await Promise.all([load(workspaceId, ids.a), load(workspaceId, ids.b)]);
   if (!a || !b || a.id === b.id) {
     return (
@@ -106,10 +159,25 @@ async function ComparePanel({ slug, workspaceId, units, ...ids }: { slug: string
   const rows = rowsFor(a, b, units);
   const cautions = [...new Set([...a.result.cautions, ...b.result.cautions])];
   const describe = (r: ScreeningRecord) =>
-    [routeLabel(r.input), r.aircraftCode, cruiseLabel(r.input), r.input.flightDate ? formatDate(r.input.flightDate) : null].filter(Boolean).join(' · ');
+    [
+      routeLabel(r.input),
+      r.aircraftCode,
+      cruiseLabel(r.input),
+      r.input.flightDate ? formatDate(r.input.flightDate) : null,
+    ]
+      .filter(Boolean)
+      .join(' · ');
   return (
     <>
-      <PageHeader title="Compare screenings" lead="Two saved screenings side by side: B minus A in the last column." actions={<ButtonLink href={`/w/${slug}/screenings`} variant="secondary">Back to the screenings</ButtonLink>} />
+      <PageHeader
+        title="Compare screenings"
+        lead="Two saved screenings side by side: B minus A in the last column."
+        actions={
+          <ButtonLink href={`/w/${slug}/screenings`} variant="secondary">
+            Back to the screenings
+          </ButtonLink>
+        }
+      />
       <div className="space-y-6">
         <ScreeningCautions cautions={cautions} />
         <Card title="Headline figures">
@@ -117,7 +185,9 @@ async function ComparePanel({ slug, workspaceId, units, ...ids }: { slug: string
             <table className="w-full min-w-[640px] text-sm" data-testid="compare-table">
               <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
                 <tr>
-                  <th scope="col" className="py-2 pr-3">Figure</th>
+                  <th scope="col" className="py-2 pr-3">
+                    Figure
+                  </th>
                   <th scope="col" className="py-2 pr-3 text-right">
                     A:{' '}
                     <Link href={`/w/${slug}/screenings/${a.id}`} className="normal-case text-accent hover:underline">
@@ -130,28 +200,38 @@ async function ComparePanel({ slug, workspaceId, units, ...ids }: { slug: string
                       {b.name}
                     </Link>
                   </th>
-                  <th scope="col" className="py-2 text-right">B − A</th>
+                  <th scope="col" className="py-2 text-right">
+                    B − A
+                  </th>
                 </tr>
               </thead>
               <tbody className="figure">
                 <tr className="border-t border-line">
-                  <th scope="row" className="py-2 pr-3 text-left font-normal">Flight</th>
+                  <th scope="row" className="py-2 pr-3 text-left font-normal">
+                    Flight
+                  </th>
                   <td className="py-2 pr-3 text-right text-ink-soft">{describe(a)}</td>
                   <td className="py-2 pr-3 text-right text-ink-soft">{describe(b)}</td>
                   <td />
                 </tr>
                 <tr className="border-t border-line">
-                  <th scope="row" className="py-2 pr-3 text-left font-normal">EI method</th>
+                  <th scope="row" className="py-2 pr-3 text-left font-normal">
+                    EI method
+                  </th>
                   <td className="py-2 pr-3 text-right">{EI_METHOD_LABELS[a.result.eiMethod]}</td>
                   <td className="py-2 pr-3 text-right">{EI_METHOD_LABELS[b.result.eiMethod]}</td>
                   <td />
                 </tr>
                 {rows.map((r) => (
                   <tr key={r.label} className="border-t border-line">
-                    <th scope="row" className="py-2 pr-3 text-left font-normal">{r.label}</th>
+                    <th scope="row" className="py-2 pr-3 text-left font-normal">
+                      {r.label}
+                    </th>
                     <td className="py-2 pr-3 text-right">{r.show(r.a)}</td>
                     <td className="py-2 pr-3 text-right">{r.show(r.b)}</td>
-                    <td className="whitespace-nowrap py-2 text-right text-ink-soft">{r.diff ? r.diff(r.b - r.a) : ''}</td>
+                    <td className="whitespace-nowrap py-2 text-right text-ink-soft">
+                      {r.diff ? r.diff(r.b - r.a) : ''}
+                    </td>
                   </tr>
                 ))}
               </tbody>

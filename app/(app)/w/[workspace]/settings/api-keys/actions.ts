@@ -9,7 +9,10 @@ import type { ActionState } from '@/lib/errors';
 import { formText } from '@/lib/validation/action-input';
 
 export const createApiKeyAction = workspaceAction('apikeys:manage', apiKeyCreateSchema, async (ctx, input) => {
-  const k = await createApiKey({ workspaceId: ctx.workspace.id }, { ...input, createdBy: ctx.user.id, actor: ctx.user.email });
+  const k = await createApiKey(
+    { workspaceId: ctx.workspace.id },
+    { ...input, createdBy: ctx.user.id, actor: ctx.user.email },
+  );
   revalidatePath(`/w/${ctx.slug}/settings/api-keys`);
   return { data: { key: k.key, name: k.name } };
 });
@@ -23,10 +26,17 @@ export async function createApiKeyFormAction(
   form: FormData | unknown,
 ): Promise<ActionState<{ key: string; name: string }>> {
   // Only reads the posted fields; every check (origin, membership, permission, schema) is createApiKeyAction's.
-  return createApiKeyAction(formText(form, 'slug') ?? '', { name: formText(form, 'name'), role: formText(form, 'role') });
+  return createApiKeyAction(formText(form, 'slug') ?? '', {
+    name: formText(form, 'name'),
+    role: formText(form, 'role'),
+  });
 }
 
-export const revokeApiKeyAction = workspaceAction('apikeys:manage', z.object({ id: z.coerce.number().int().positive() }), async (ctx, { id }) => {
-  await revokeApiKey({ workspaceId: ctx.workspace.id }, { id, actorId: ctx.user.id, actor: ctx.user.email });
-  revalidatePath(`/w/${ctx.slug}/settings/api-keys`);
-});
+export const revokeApiKeyAction = workspaceAction(
+  'apikeys:manage',
+  z.object({ id: z.coerce.number().int().positive() }),
+  async (ctx, { id }) => {
+    await revokeApiKey({ workspaceId: ctx.workspace.id }, { id, actorId: ctx.user.id, actor: ctx.user.email });
+    revalidatePath(`/w/${ctx.slug}/settings/api-keys`);
+  },
+);

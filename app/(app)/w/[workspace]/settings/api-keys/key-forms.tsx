@@ -10,21 +10,32 @@ import { createApiKeyFormAction, revokeApiKeyAction } from './actions';
 
 /** Posted as an ordinary form (a server action): works before the script loads, and the key never reaches a URL. */
 export function CreateKeyForm({ slug }: { slug: string }) {
-  const [state, action, pending] = useActionState<ActionState<{ key: string; name: string }>, FormData>(createApiKeyFormAction, null);
+  const [state, action, pending] = useActionState<ActionState<{ key: string; name: string }>, FormData>(
+    createApiKeyFormAction,
+    null,
+  );
   const created = state?.ok ? state.data : undefined;
-  const fieldError = (p: string) => (state && !state.ok ? state.error.fields?.find((f) => f.path === p)?.message : undefined);
+  const fieldError = (p: string) =>
+    state && !state.ok ? state.error.fields?.find((f) => f.path === p)?.message : undefined;
   const message = state && !state.ok && !state.error.fields?.length ? state.error.message : undefined;
   return (
     <div className="space-y-4">
       {created ? (
         <Notice tone="success" title={`Key “${created.name}” created`}>
           <p>Copy it now; it will not be shown again.</p>
-          <code className="mt-2 block break-all rounded bg-paper-raised p-2 font-mono text-xs" data-testid="new-api-key">
+          <code
+            className="mt-2 block break-all rounded bg-paper-raised p-2 font-mono text-xs"
+            data-testid="new-api-key"
+          >
             {created.key}
           </code>
         </Notice>
       ) : null}
-      {message ? <Notice tone="danger" role="alert">{message}</Notice> : null}
+      {message ? (
+        <Notice tone="danger" role="alert">
+          {message}
+        </Notice>
+      ) : null}
       <form action={action} noValidate className="space-y-4" key={created?.key ?? 'form'}>
         <input type="hidden" name="slug" value={slug} />
         <Field id="key-name" label="Name" hint="What will use it, e.g. “dispatch system”." error={fieldError('name')}>
@@ -54,7 +65,8 @@ export function RevokeKeyButton({ slug, id, name }: { slug: string; id: number; 
       variant="ghost"
       disabled={pending}
       onClick={() => {
-        if (confirm(`Revoke “${name}”? Anything using it stops working at once.`)) start(async () => void (await revokeApiKeyAction(slug, { id })));
+        if (confirm(`Revoke “${name}”? Anything using it stops working at once.`))
+          start(async () => void (await revokeApiKeyAction(slug, { id })));
       }}
     >
       Revoke

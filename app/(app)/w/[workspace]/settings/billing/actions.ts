@@ -2,10 +2,23 @@
 
 import { revalidatePath } from 'next/cache';
 import { z } from 'zod';
-import { changePlan, payOpenInvoices, setCancelAtPeriodEnd, setPaymentCard, subscribeWorkspace, updateBillingEmail } from '@/lib/billing/service';
+import {
+  changePlan,
+  payOpenInvoices,
+  setCancelAtPeriodEnd,
+  setPaymentCard,
+  subscribeWorkspace,
+  updateBillingEmail,
+} from '@/lib/billing/service';
 import { PLANS } from '@/lib/billing/plans';
 import { TEST_CARDS } from '@/lib/billing/cards';
-import { billingEmailSchema, cardChoiceSchema, planChoiceSchema, subscribeSchema, usageBudgetSchema } from '@/lib/validation/billing';
+import {
+  billingEmailSchema,
+  cardChoiceSchema,
+  planChoiceSchema,
+  subscribeSchema,
+  usageBudgetSchema,
+} from '@/lib/validation/billing';
 import { noInput, workspaceAction, type WorkspaceActionContext } from '@/lib/actions/workspace-action';
 import { setUsageBudget } from '@/lib/billing/budget';
 import { formatUsd } from '@/lib/billing/plans';
@@ -18,14 +31,23 @@ export const subscribeAction = workspaceAction('billing:manage', subscribeSchema
   const billing = await subscribeWorkspace(ctx.workspace, actorOf(ctx), input);
   revalidatePath(page(ctx.slug));
   const plan = PLANS[input.planId].name;
-  return { message: billing.status === 'trialing' ? `Subscribed to ${plan}. The rest of the free trial stays free.` : `Subscribed to ${plan}. Screening is open.` };
+  return {
+    message:
+      billing.status === 'trialing'
+        ? `Subscribed to ${plan}. The rest of the free trial stays free.`
+        : `Subscribed to ${plan}. Screening is open.`,
+  };
 });
 
 export const changePlanAction = workspaceAction('billing:manage', planChoiceSchema, async (ctx, { planId }) => {
   const { changed } = await changePlan(ctx.workspace, actorOf(ctx), planId);
   revalidatePath(page(ctx.slug));
   const plan = PLANS[planId].name;
-  return { message: changed ? `Plan changed to ${plan}. It applies to the whole current period.` : `The workspace is already on ${plan}.` };
+  return {
+    message: changed
+      ? `Plan changed to ${plan}. It applies to the whole current period.`
+      : `The workspace is already on ${plan}.`,
+  };
 });
 
 const cancelSchema = z.object({ cancel: z.boolean({ error: 'Say whether to cancel or resume.' }) });
@@ -52,7 +74,11 @@ export const updateBillingEmailAction = workspaceAction('billing:manage', billin
   const email = input.billingEmail === '' ? null : input.billingEmail;
   await updateBillingEmail(ctx.workspace, actorOf(ctx), email);
   revalidatePath(page(ctx.slug));
-  return { message: email ? `Billing e-mail set to ${email}.` : 'Billing e-mail cleared; owners and finance admins still hear about payment problems.' };
+  return {
+    message: email
+      ? `Billing e-mail set to ${email}.`
+      : 'Billing e-mail cleared; owners and finance admins still hear about payment problems.',
+  };
 });
 
 /** Sets or clears the monthly usage budget and its hard stop. */

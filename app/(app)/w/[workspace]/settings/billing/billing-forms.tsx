@@ -12,8 +12,23 @@ import { CARD_CHOICES, TEST_CARDS, type CardChoice } from '@/lib/billing/cards';
 import { PLANS, PLAN_IDS, breakEvenUnits, type PlanId } from '@/lib/billing/plans';
 import type { ActionState } from '@/lib/errors';
 import { formatMoney } from '@/lib/format';
-import { billingEmailSchema, cardChoiceSchema, subscribeSchema, type BillingEmailInput, type CardChoiceInput, type SubscribeInput } from '@/lib/validation/billing';
-import { cancelAtPeriodEndAction, changePlanAction, payOpenInvoicesAction, setCardAction, setUsageBudgetAction, subscribeAction, updateBillingEmailAction } from './actions';
+import {
+  billingEmailSchema,
+  cardChoiceSchema,
+  subscribeSchema,
+  type BillingEmailInput,
+  type CardChoiceInput,
+  type SubscribeInput,
+} from '@/lib/validation/billing';
+import {
+  cancelAtPeriodEndAction,
+  changePlanAction,
+  payOpenInvoicesAction,
+  setCardAction,
+  setUsageBudgetAction,
+  subscribeAction,
+  updateBillingEmailAction,
+} from './actions';
 
 type Message = { tone: 'success' | 'danger'; text: string } | undefined;
 
@@ -33,10 +48,20 @@ function Result({ message }: { message: Message }) {
 
 function messageOf(state: ActionState): Message {
   if (!state) return undefined;
-  return state.ok ? { tone: 'success', text: state.message ?? 'Saved.' } : { tone: 'danger', text: state.error.message };
+  return state.ok
+    ? { tone: 'success', text: state.message ?? 'Saved.' }
+    : { tone: 'danger', text: state.error.message };
 }
 
-function PlanOptions({ selected, current, register }: { selected: PlanId; current: PlanId | null; register: ReturnType<typeof useForm<SubscribeInput>>['register'] }) {
+function PlanOptions({
+  selected,
+  current,
+  register,
+}: {
+  selected: PlanId;
+  current: PlanId | null;
+  register: ReturnType<typeof useForm<SubscribeInput>>['register'];
+}) {
   return (
     <fieldset>
       <legend className="mb-2 text-sm font-medium text-ink">Plan</legend>
@@ -52,7 +77,9 @@ function PlanOptions({ selected, current, register }: { selected: PlanId; curren
               <span className="flex items-center gap-2">
                 <input type="radio" value={id} className="accent-accent" {...register('planId')} />
                 <span className="font-semibold text-ink">{plan.name}</span>
-                {current === id ? <span className="rounded bg-paper-sunk px-1.5 py-0.5 text-xs text-ink-soft">current</span> : null}
+                {current === id ? (
+                  <span className="rounded bg-paper-sunk px-1.5 py-0.5 text-xs text-ink-soft">current</span>
+                ) : null}
               </span>
               <span className="figure mt-1 block text-sm text-ink">
                 {formatMoney(plan.baseFeeCents)} a month + {formatMoney(plan.perFlightCents)} per screened flight
@@ -63,17 +90,31 @@ function PlanOptions({ selected, current, register }: { selected: PlanId; curren
         })}
       </div>
       <p className="mt-2 text-xs text-ink-faint">
-        {PLANS.fleet.name} costs less than {PLANS.crew.name} from {breakEvenUnits().toLocaleString('en-GB')} screened flights in a month.
+        {PLANS.fleet.name} costs less than {PLANS.crew.name} from {breakEvenUnits().toLocaleString('en-GB')} screened
+        flights in a month.
       </p>
     </fieldset>
   );
 }
 
 /** Subscribe from a trial or after a cancellation: plan and card together. */
-export function SubscribeForm({ slug, planId, card, trialLeft }: { slug: string; planId: PlanId; card: CardChoice | null; trialLeft: boolean }) {
+export function SubscribeForm({
+  slug,
+  planId,
+  card,
+  trialLeft,
+}: {
+  slug: string;
+  planId: PlanId;
+  card: CardChoice | null;
+  trialLeft: boolean;
+}) {
   const [message, setMessage] = useState<Message>();
   const after = useAfterAction(slug);
-  const form = useForm<SubscribeInput>({ resolver: zodResolver(subscribeSchema), defaultValues: { planId, card: card ?? 'succeeds' } });
+  const form = useForm<SubscribeInput>({
+    resolver: zodResolver(subscribeSchema),
+    defaultValues: { planId, card: card ?? 'succeeds' },
+  });
   const { errors, isSubmitting } = form.formState;
   const selected = form.watch('planId');
   const onSubmit = form.handleSubmit(async (values) => {
@@ -87,8 +128,17 @@ export function SubscribeForm({ slug, planId, card, trialLeft }: { slug: string;
     <form onSubmit={onSubmit} noValidate className="space-y-4">
       <Result message={message} />
       <PlanOptions selected={selected} current={null} register={form.register} />
-      {errors.planId ? <p role="alert" className="text-xs font-medium text-danger">{errors.planId.message}</p> : null}
-      <Field id="subscribe-card" label="Card on file" hint="A test card of the local payment service, shown by its label only." error={errors.card?.message}>
+      {errors.planId ? (
+        <p role="alert" className="text-xs font-medium text-danger">
+          {errors.planId.message}
+        </p>
+      ) : null}
+      <Field
+        id="subscribe-card"
+        label="Card on file"
+        hint="A test card of the local payment service, shown by its label only."
+        error={errors.card?.message}
+      >
         <SelectInput id="subscribe-card" invalid={!!errors.card} {...form.register('card')}>
           {CARD_CHOICES.map((c) => (
             <option key={c} value={c}>
@@ -102,7 +152,9 @@ export function SubscribeForm({ slug, planId, card, trialLeft }: { slug: string;
           {isSubmitting ? 'Subscribing…' : `Subscribe to ${PLANS[selected].name}`}
         </Button>
         <span className="text-xs text-ink-soft">
-          {trialLeft ? 'The rest of the free trial stays free; the first paid period starts when it ends.' : 'The first period starts today and is invoiced when it closes.'}
+          {trialLeft
+            ? 'The rest of the free trial stays free; the first paid period starts when it ends.'
+            : 'The first period starts today and is invoiced when it closes.'}
         </span>
       </div>
     </form>
@@ -127,15 +179,29 @@ export function ChangePlanForm({ slug, planId, subscribed }: { slug: string; pla
       <PlanOptions selected={selected} current={planId} register={form.register} />
       <div className="flex flex-wrap items-center gap-3">
         <Button type="submit" disabled={form.formState.isSubmitting || selected === planId}>
-          {form.formState.isSubmitting ? 'Changing…' : selected === planId ? `On ${PLANS[planId].name}` : `Change to ${PLANS[selected].name}`}
+          {form.formState.isSubmitting
+            ? 'Changing…'
+            : selected === planId
+              ? `On ${PLANS[planId].name}`
+              : `Change to ${PLANS[selected].name}`}
         </Button>
-        {subscribed ? <span className="text-xs text-ink-soft">No proration: the new prices apply to the whole current period.</span> : null}
+        {subscribed ? (
+          <span className="text-xs text-ink-soft">No proration: the new prices apply to the whole current period.</span>
+        ) : null}
       </div>
     </form>
   );
 }
 
-export function CancelResume({ slug, cancelAtPeriodEnd, periodEnd }: { slug: string; cancelAtPeriodEnd: boolean; periodEnd: string | null }) {
+export function CancelResume({
+  slug,
+  cancelAtPeriodEnd,
+  periodEnd,
+}: {
+  slug: string;
+  cancelAtPeriodEnd: boolean;
+  periodEnd: string | null;
+}) {
   const [pending, start] = useTransition();
   const [message, setMessage] = useState<Message>();
   const after = useAfterAction(slug);
@@ -157,7 +223,12 @@ export function CancelResume({ slug, cancelAtPeriodEnd, periodEnd }: { slug: str
           variant="secondary"
           disabled={pending}
           onClick={() => {
-            if (confirm(`Cancel at the end of the period${periodEnd ? ` (${periodEnd.slice(0, 10)})` : ''}? Screening continues until then.`)) run(true);
+            if (
+              confirm(
+                `Cancel at the end of the period${periodEnd ? ` (${periodEnd.slice(0, 10)})` : ''}? Screening continues until then.`,
+              )
+            )
+              run(true);
           }}
         >
           Cancel at period end
@@ -171,7 +242,10 @@ export function PaymentCardForm({ slug, card, pastDue }: { slug: string; card: C
   const [message, setMessage] = useState<Message>();
   const [paying, startPaying] = useTransition();
   const after = useAfterAction(slug);
-  const form = useForm<CardChoiceInput>({ resolver: zodResolver(cardChoiceSchema), defaultValues: { card: card ?? 'succeeds' } });
+  const form = useForm<CardChoiceInput>({
+    resolver: zodResolver(cardChoiceSchema),
+    defaultValues: { card: card ?? 'succeeds' },
+  });
   const { errors, isSubmitting } = form.formState;
   const onSubmit = form.handleSubmit(async (values) => {
     setMessage(undefined);
@@ -184,7 +258,12 @@ export function PaymentCardForm({ slug, card, pastDue }: { slug: string; card: C
     <div className="space-y-4">
       <Result message={message} />
       <form onSubmit={onSubmit} noValidate className="space-y-4">
-        <Field id="card-choice" label="Card on file" hint="Used for every invoice from now on." error={errors.card?.message}>
+        <Field
+          id="card-choice"
+          label="Card on file"
+          hint="Used for every invoice from now on."
+          error={errors.card?.message}
+        >
           <SelectInput id="card-choice" invalid={!!errors.card} {...form.register('card')}>
             {CARD_CHOICES.map((c) => (
               <option key={c} value={c}>
@@ -199,7 +278,9 @@ export function PaymentCardForm({ slug, card, pastDue }: { slug: string; card: C
       </form>
       {pastDue ? (
         <div className="border-t border-line pt-4">
-          <p className="mb-2 text-sm text-ink-soft">Once a card that works is on file, pay the open invoice to reopen screening.</p>
+          <p className="mb-2 text-sm text-ink-soft">
+            Once a card that works is on file, pay the open invoice to reopen screening.
+          </p>
           <Button
             disabled={paying}
             onClick={() =>
@@ -220,7 +301,10 @@ export function PaymentCardForm({ slug, card, pastDue }: { slug: string; card: C
 
 export function BillingEmailForm({ slug, billingEmail }: { slug: string; billingEmail: string | null }) {
   const [message, setMessage] = useState<Message>();
-  const form = useForm<BillingEmailInput>({ resolver: zodResolver(billingEmailSchema), defaultValues: { billingEmail: billingEmail ?? '' } });
+  const form = useForm<BillingEmailInput>({
+    resolver: zodResolver(billingEmailSchema),
+    defaultValues: { billingEmail: billingEmail ?? '' },
+  });
   const { errors, isSubmitting } = form.formState;
   const onSubmit = form.handleSubmit(async (values) => {
     setMessage(undefined);
@@ -237,7 +321,13 @@ export function BillingEmailForm({ slug, billingEmail }: { slug: string; billing
         hint="Invoices are addressed here, and payment problems are sent here as well as to owners and finance admins. Leave empty to use only them."
         error={errors.billingEmail?.message}
       >
-        <TextInput id="billing-email" type="email" autoComplete="email" invalid={!!errors.billingEmail} {...form.register('billingEmail')} />
+        <TextInput
+          id="billing-email"
+          type="email"
+          autoComplete="email"
+          invalid={!!errors.billingEmail}
+          {...form.register('billingEmail')}
+        />
       </Field>
       <Button type="submit" variant="secondary" disabled={isSubmitting}>
         Save e-mail
@@ -247,7 +337,15 @@ export function BillingEmailForm({ slug, billingEmail }: { slug: string; billing
 }
 
 /** The monthly usage budget in dollars (empty for none) and whether reaching it stops new billable work. */
-export function UsageBudgetForm({ slug, budgetCents, hardStop }: { slug: string; budgetCents: number | null; hardStop: boolean }) {
+export function UsageBudgetForm({
+  slug,
+  budgetCents,
+  hardStop,
+}: {
+  slug: string;
+  budgetCents: number | null;
+  hardStop: boolean;
+}) {
   const [message, setMessage] = useState<Message>();
   const [amount, setAmount] = useState(budgetCents === null ? '' : (budgetCents / 100).toFixed(2));
   const [stop, setStop] = useState(hardStop);
@@ -269,7 +367,10 @@ export function UsageBudgetForm({ slug, budgetCents, hardStop }: { slug: string;
           return;
         }
         start(async () => {
-          const state = await setUsageBudgetAction(slug, { budgetCents: dollars === null ? null : Math.round(dollars * 100), hardStop: stop });
+          const state = await setUsageBudgetAction(slug, {
+            budgetCents: dollars === null ? null : Math.round(dollars * 100),
+            hardStop: stop,
+          });
           if (state && !state.ok) setError(state.error.fields?.[0]?.message ?? state.error.message);
           setMessage(messageOf(state));
           await after();
@@ -277,12 +378,31 @@ export function UsageBudgetForm({ slug, budgetCents, hardStop }: { slug: string;
       }}
     >
       <Result message={message} />
-      <Field id="usage-budget" label="Monthly usage budget (USD)" hint="Per-flight charges of one billing period, before the monthly fee. Leave empty for no budget." error={error}>
-        <TextInput id="usage-budget" inputMode="decimal" value={amount} invalid={!!error} onChange={(e) => setAmount(e.target.value)} />
+      <Field
+        id="usage-budget"
+        label="Monthly usage budget (USD)"
+        hint="Per-flight charges of one billing period, before the monthly fee. Leave empty for no budget."
+        error={error}
+      >
+        <TextInput
+          id="usage-budget"
+          inputMode="decimal"
+          value={amount}
+          invalid={!!error}
+          onChange={(e) => setAmount(e.target.value)}
+        />
       </Field>
       <label className="flex items-start gap-2 text-sm text-ink">
-        <input type="checkbox" className="mt-0.5 accent-accent" checked={stop} onChange={(e) => setStop(e.target.checked)} />
-        <span>Hard stop: refuse new screenings and imports that would pass the budget (they answer “payment required” until the next period or a higher budget).</span>
+        <input
+          type="checkbox"
+          className="mt-0.5 accent-accent"
+          checked={stop}
+          onChange={(e) => setStop(e.target.checked)}
+        />
+        <span>
+          Hard stop: refuse new screenings and imports that would pass the budget (they answer “payment required” until
+          the next period or a higher budget).
+        </span>
       </label>
       <Button type="submit" variant="secondary" disabled={pending}>
         {pending ? 'Saving…' : 'Save budget'}

@@ -44,11 +44,21 @@ export async function InvoiceList({ slug, billing }: { slug: string; billing: Bi
         <caption className="sr-only">Invoices, newest first</caption>
         <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
           <tr>
-            <th scope="col" className="py-2 pr-3">Invoice</th>
-            <th scope="col" className="py-2 pr-3">Period</th>
-            <th scope="col" className="py-2 pr-3 text-right">Amount</th>
-            <th scope="col" className="py-2 pr-3">Status</th>
-            <th scope="col" className="py-2">Document</th>
+            <th scope="col" className="py-2 pr-3">
+              Invoice
+            </th>
+            <th scope="col" className="py-2 pr-3">
+              Period
+            </th>
+            <th scope="col" className="py-2 pr-3 text-right">
+              Amount
+            </th>
+            <th scope="col" className="py-2 pr-3">
+              Status
+            </th>
+            <th scope="col" className="py-2">
+              Document
+            </th>
           </tr>
         </thead>
         <tbody>
@@ -56,11 +66,14 @@ export async function InvoiceList({ slug, billing }: { slug: string; billing: Bi
             <tr key={inv.id} className="border-t border-line" data-testid="invoice-row">
               <td className="whitespace-nowrap py-2 pr-3 font-mono text-xs">{inv.number ?? inv.id}</td>
               <td className="figure py-2 pr-3">
-                <span className="whitespace-nowrap">{formatDate(inv.periodStart)}</span> to <span className="whitespace-nowrap">{formatDate(inv.periodEnd)}</span>
+                <span className="whitespace-nowrap">{formatDate(inv.periodStart)}</span> to{' '}
+                <span className="whitespace-nowrap">{formatDate(inv.periodEnd)}</span>
               </td>
               <td className="figure whitespace-nowrap py-2 pr-3 text-right">
                 {formatMoney(inv.amountDueCents)}
-                {inv.status === 'open' && inv.amountRemainingCents > 0 ? <span className="block text-xs text-danger">{formatMoney(inv.amountRemainingCents)} unpaid</span> : null}
+                {inv.status === 'open' && inv.amountRemainingCents > 0 ? (
+                  <span className="block text-xs text-danger">{formatMoney(inv.amountRemainingCents)} unpaid</span>
+                ) : null}
               </td>
               <td className="py-2 pr-3">
                 <StatusTag status={inv.status} />

@@ -8,7 +8,14 @@ import { PLANS } from '@/lib/billing/plans';
 import { Card, PageHeader } from '@/components/ui/card';
 import { Notice } from '@/components/ui/notice';
 import { formatDate, formatMoney } from '@/lib/format';
-import { BillingEmailForm, CancelResume, ChangePlanForm, PaymentCardForm, SubscribeForm, UsageBudgetForm } from './billing-forms';
+import {
+  BillingEmailForm,
+  CancelResume,
+  ChangePlanForm,
+  PaymentCardForm,
+  SubscribeForm,
+  UsageBudgetForm,
+} from './billing-forms';
 import { InvoiceList } from './invoice-list';
 import { UsageMeter } from './usage-meter';
 
@@ -27,8 +34,8 @@ function StatusNotice({ billing }: { billing: BillingDto }) {
   if (billing.status === 'past_due') {
     return (
       <Notice tone="danger" role="alert" title="Payment failed: new screenings and imports are paused">
-        The card on file was declined{billing.paymentFailedAt ? ` on ${formatDate(billing.paymentFailedAt)}` : ''}. Put a card that works on file, then pay the
-        open invoice below. Everything already saved stays readable.
+        The card on file was declined{billing.paymentFailedAt ? ` on ${formatDate(billing.paymentFailedAt)}` : ''}. Put
+        a card that works on file, then pay the open invoice below. Everything already saved stays readable.
       </Notice>
     );
   }
@@ -43,18 +50,25 @@ function StatusNotice({ billing }: { billing: BillingDto }) {
     const left = daysUntil(billing.trialEndsAt);
     if (billing.subscriptionId) {
       return (
-        <Notice tone="info" title={`Subscribed to ${PLANS[billing.planId].name}, free until ${formatDate(billing.trialEndsAt)}`}>
+        <Notice
+          tone="info"
+          title={`Subscribed to ${PLANS[billing.planId].name}, free until ${formatDate(billing.trialEndsAt)}`}
+        >
           The first paid period starts when the trial ends. Flights screened during the trial are never billed.
         </Notice>
       );
     }
     return left > 0 ? (
-      <Notice tone="info" title={`Free trial: ${left} day${left === 1 ? '' : 's'} left (until ${formatDate(billing.trialEndsAt)})`}>
+      <Notice
+        tone="info"
+        title={`Free trial: ${left} day${left === 1 ? '' : 's'} left (until ${formatDate(billing.trialEndsAt)})`}
+      >
         Subscribe any time to keep screening after the trial; the rest of the trial stays free.
       </Notice>
     ) : (
       <Notice tone="caution" title={`The free trial ended on ${formatDate(billing.trialEndsAt)}`}>
-        New screenings and imports are paused until the workspace is subscribed. Everything already saved stays readable.
+        New screenings and imports are paused until the workspace is subscribed. Everything already saved stays
+        readable.
       </Notice>
     );
   }
@@ -88,9 +102,15 @@ function PlanSummary({ billing }: { billing: BillingDto }) {
         </dd>
       </div>
       <div>
-        <dt className="text-xs font-medium uppercase tracking-wide text-ink-soft">{billing.status === 'trialing' ? 'Trial ends' : billing.cancelAtPeriodEnd ? 'Ends' : 'Renews'}</dt>
+        <dt className="text-xs font-medium uppercase tracking-wide text-ink-soft">
+          {billing.status === 'trialing' ? 'Trial ends' : billing.cancelAtPeriodEnd ? 'Ends' : 'Renews'}
+        </dt>
         <dd className="figure mt-0.5 text-ink">
-          {billing.status === 'trialing' ? formatDate(billing.trialEndsAt) : billing.status === 'canceled' ? '–' : formatDate(billing.currentPeriodEnd)}
+          {billing.status === 'trialing'
+            ? formatDate(billing.trialEndsAt)
+            : billing.status === 'canceled'
+              ? '–'
+              : formatDate(billing.currentPeriodEnd)}
         </dd>
       </div>
       <div>
@@ -124,7 +144,10 @@ export default async function BillingPage({ params }: { params: Promise<{ worksp
   const { workspace: slug } = await params;
   const { workspace, role } = await requireMember(slug, 'billing:read');
   const canManage = can(role, 'billing:manage');
-  const [billing, contacts] = await Promise.all([ensureBilling({ workspaceId: workspace.id }), listBillingContacts({ workspaceId: workspace.id })]);
+  const [billing, contacts] = await Promise.all([
+    ensureBilling({ workspaceId: workspace.id }),
+    listBillingContacts({ workspaceId: workspace.id }),
+  ]);
   const subscribed = Boolean(billing.subscriptionId) && billing.status !== 'canceled';
   const trialLeft = billing.status === 'trialing' && !!billing.trialEndsAt && daysUntil(billing.trialEndsAt) > 0;
   const card = cardChoiceForLabel(billing.paymentMethodLabel);
@@ -155,13 +178,19 @@ export default async function BillingPage({ params }: { params: Promise<{ worksp
                 <div className="space-y-6">
                   <ChangePlanForm slug={slug} planId={billing.planId} subscribed />
                   <div className="border-t border-line pt-4">
-                    <h3 className="mb-2 text-sm font-semibold text-ink">{billing.cancelAtPeriodEnd ? 'Cancellation scheduled' : 'Cancel'}</h3>
+                    <h3 className="mb-2 text-sm font-semibold text-ink">
+                      {billing.cancelAtPeriodEnd ? 'Cancellation scheduled' : 'Cancel'}
+                    </h3>
                     <p className="mb-3 text-sm text-ink-soft">
                       {billing.cancelAtPeriodEnd
                         ? `The subscription stops on ${formatDate(billing.currentPeriodEnd)}; the last invoice covers this period.`
                         : 'Cancelling takes effect at the end of the period; the last invoice covers it. Nothing saved is deleted.'}
                     </p>
-                    <CancelResume slug={slug} cancelAtPeriodEnd={billing.cancelAtPeriodEnd} periodEnd={billing.currentPeriodEnd} />
+                    <CancelResume
+                      slug={slug}
+                      cancelAtPeriodEnd={billing.cancelAtPeriodEnd}
+                      periodEnd={billing.currentPeriodEnd}
+                    />
                   </div>
                 </div>
               ) : (
@@ -174,21 +203,23 @@ export default async function BillingPage({ params }: { params: Promise<{ worksp
                   <PaymentCardForm slug={slug} card={card} pastDue={billing.status === 'past_due'} />
                 ) : (
                   <p className="text-sm text-ink-soft">
-                    {billing.paymentMethodLabel ? `${billing.paymentMethodLabel} is on file. ` : ''}Choose the card when you subscribe; it pays every invoice after
-                    that and can be changed here at any time.
+                    {billing.paymentMethodLabel ? `${billing.paymentMethodLabel} is on file. ` : ''}Choose the card when
+                    you subscribe; it pays every invoice after that and can be changed here at any time.
                   </p>
                 )}
               </Card>
               <Card title="Usage budget">
                 <UsageBudgetForm slug={slug} budgetCents={billing.usageBudgetCents} hardStop={billing.budgetHardStop} />
                 <p className="mt-4 text-xs text-ink-soft">
-                  The billing contacts get an e-mail when this period&apos;s usage reaches 80 % and again at 100 % of the budget, once each a period. A free trial has no budget: nothing in it is charged.
+                  The billing contacts get an e-mail when this period&apos;s usage reaches 80 % and again at 100 % of
+                  the budget, once each a period. A free trial has no budget: nothing in it is charged.
                 </p>
               </Card>
               <Card title="Billing contacts">
                 <BillingEmailForm slug={slug} billingEmail={billing.billingEmail} />
                 <p className="mt-4 text-xs text-ink-soft">
-                  Payment problems currently go to: <span className="text-ink">{contacts.length ? contacts.join(', ') : 'nobody yet'}</span>.
+                  Payment problems currently go to:{' '}
+                  <span className="text-ink">{contacts.length ? contacts.join(', ') : 'nobody yet'}</span>.
                 </p>
               </Card>
             </div>
@@ -196,7 +227,11 @@ export default async function BillingPage({ params }: { params: Promise<{ worksp
         ) : null}
 
         <Card title="Invoices">
-          <Suspense fallback={<div className="h-24 animate-pulse rounded bg-paper-sunk" role="status" aria-label="Loading invoices" />}>
+          <Suspense
+            fallback={
+              <div className="h-24 animate-pulse rounded bg-paper-sunk" role="status" aria-label="Loading invoices" />
+            }
+          >
             <InvoiceList slug={slug} billing={billing} />
           </Suspense>
         </Card>

@@ -9,7 +9,9 @@ import { COUNT_HINTS, COUNT_LABELS } from '@/lib/counts';
 const POLL_MS = 5_000;
 
 async function fetchUsage(slug: string): Promise<UsageSummary> {
-  const res = await fetch(`/api/v1/workspaces/${encodeURIComponent(slug)}/usage`, { headers: { accept: 'application/json' } });
+  const res = await fetch(`/api/v1/workspaces/${encodeURIComponent(slug)}/usage`, {
+    headers: { accept: 'application/json' },
+  });
   if (!res.ok) throw new Error(`usage ${res.status}`);
   return (await res.json()) as UsageSummary;
 }
@@ -28,7 +30,11 @@ function plural(n: number, one: string, many: string): string {
 function Reconciliation({ usage }: { usage: UsageSummary }) {
   const rec = usage.reconciliation;
   if (usage.status === 'trialing' && usage.sentUnits === 0 && !rec) {
-    return <p className="text-sm text-ink-soft">Free-trial flights are not sent to the payment service and are never billed.</p>;
+    return (
+      <p className="text-sm text-ink-soft">
+        Free-trial flights are not sent to the payment service and are never billed.
+      </p>
+    );
   }
   if (!rec) return <p className="text-sm text-ink-soft">Not checked against the payment service yet.</p>;
   const inFlight = rec.difference > 0 && rec.difference <= usage.pendingUnits;
@@ -43,8 +49,10 @@ function Reconciliation({ usage }: { usage: UsageSummary }) {
     <div className="text-sm" data-testid="reconciliation">
       <p className={`font-medium ${tone}`}>{verdict}</p>
       <p className="figure mt-0.5 text-xs text-ink-faint">
-        Ledger {formatNumber(rec.ledgerUnits)} · payment service {formatNumber(rec.providerUnits)} · counted over {minutesWindow(rec.windowStart, rec.windowEnd)}
-        {Date.parse(rec.windowStart) < Date.parse(usage.periodStart) ? ', from the minute the period began in' : ''} · checked {formatDateTime(rec.checkedAt)}
+        Ledger {formatNumber(rec.ledgerUnits)} · payment service {formatNumber(rec.providerUnits)} · counted over{' '}
+        {minutesWindow(rec.windowStart, rec.windowEnd)}
+        {Date.parse(rec.windowStart) < Date.parse(usage.periodStart) ? ', from the minute the period began in' : ''} ·
+        checked {formatDateTime(rec.checkedAt)}
         {usage.providerReachable ? '' : ' (the payment service did not answer just now)'}
       </p>
     </div>
@@ -74,23 +82,40 @@ export function UsageMeter({ slug, initial }: { slug: string; initial: UsageSumm
         Period {formatDate(usage.periodStart)} to {formatDate(usage.periodEnd)}
       </p>
       <div className="grid gap-3 sm:grid-cols-2">
-        <Stat label={COUNT_LABELS.billableUnits} value={<span data-testid="usage-units">{formatNumber(usage.units)}</span>} sub={COUNT_HINTS.billableUnits} />
-        <Stat label="Estimated charge" value={<span data-testid="usage-estimate">{formatMoney(usage.estimatedChargeCents)}</span>} sub={estimateSub} />
+        <Stat
+          label={COUNT_LABELS.billableUnits}
+          value={<span data-testid="usage-units">{formatNumber(usage.units)}</span>}
+          sub={COUNT_HINTS.billableUnits}
+        />
+        <Stat
+          label="Estimated charge"
+          value={<span data-testid="usage-estimate">{formatMoney(usage.estimatedChargeCents)}</span>}
+          sub={estimateSub}
+        />
       </div>
       {usage.units > 0 && !usage.freePeriod ? (
         <div>
-          <div className="flex h-2.5 overflow-hidden rounded-full bg-paper-sunk" role="img" aria-label={`${counted} of ${counted + waiting} flights counted by the payment service`}>
+          <div
+            className="flex h-2.5 overflow-hidden rounded-full bg-paper-sunk"
+            role="img"
+            aria-label={`${counted} of ${counted + waiting} flights counted by the payment service`}
+          >
             <div className="bg-accent" style={{ width: `${(counted / total) * 100}%` }} />
             <div className="bg-accent/30" style={{ width: `${(waiting / total) * 100}%` }} />
           </div>
           <p className="figure mt-1 text-xs text-ink-soft">
-            {plural(counted, 'flight', 'flights')} counted by the payment service{waiting > 0 ? `, ${formatNumber(waiting)} waiting to be sent` : ''}
-            {usage.retryingUnits > 0 ? ` (${formatNumber(usage.retryingUnits)} being retried after the service did not answer)` : ''}
+            {plural(counted, 'flight', 'flights')} counted by the payment service
+            {waiting > 0 ? `, ${formatNumber(waiting)} waiting to be sent` : ''}
+            {usage.retryingUnits > 0
+              ? ` (${formatNumber(usage.retryingUnits)} being retried after the service did not answer)`
+              : ''}
           </p>
         </div>
       ) : null}
       <Reconciliation usage={usage} />
-      <p className="text-xs text-ink-faint">An estimate before any tax; the invoice issued when the period closes is the amount charged.</p>
+      <p className="text-xs text-ink-faint">
+        An estimate before any tax; the invoice issued when the period closes is the amount charged.
+      </p>
       {isError ? <p className="text-xs text-caution">Could not refresh just now; showing the last figures.</p> : null}
     </div>
   );

@@ -14,7 +14,10 @@ import { changeRoleAction, inviteMemberAction, removeMemberAction, revokeInvitat
 
 export function InviteForm({ slug }: { slug: string }) {
   const [message, setMessage] = useState<{ tone: 'success' | 'danger'; text: string }>();
-  const form = useForm<{ email: string; role: Role }>({ resolver: zodResolver(invitationCreateSchema), defaultValues: { email: '', role: 'planner' } });
+  const form = useForm<{ email: string; role: Role }>({
+    resolver: zodResolver(invitationCreateSchema),
+    defaultValues: { email: '', role: 'planner' },
+  });
   const { errors, isSubmitting } = form.formState;
   const onSubmit = form.handleSubmit(async (values) => {
     setMessage(undefined);
@@ -29,7 +32,11 @@ export function InviteForm({ slug }: { slug: string }) {
   });
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4">
-      {message ? <Notice tone={message.tone} role="status">{message.text}</Notice> : null}
+      {message ? (
+        <Notice tone={message.tone} role="status">
+          {message.text}
+        </Notice>
+      ) : null}
       <Field id="invite-email" label="E-mail" error={errors.email?.message}>
         <TextInput id="invite-email" type="email" invalid={!!errors.email} {...form.register('email')} />
       </Field>
@@ -64,10 +71,16 @@ export function MemberRow({ slug, member, isSelf }: { slug: string; member: Memb
         {member.name || member.email}
         {isSelf ? <span className="ml-1 text-xs text-ink-faint">(you)</span> : null}
         <div className="text-xs text-ink-faint">{member.email}</div>
-        {error ? <p role="alert" className="mt-1 text-xs text-danger">{error}</p> : null}
+        {error ? (
+          <p role="alert" className="mt-1 text-xs text-danger">
+            {error}
+          </p>
+        ) : null}
       </td>
       <td className="py-2">
-        <label className="sr-only" htmlFor={`role-${member.userId}`}>Role of {member.email}</label>
+        <label className="sr-only" htmlFor={`role-${member.userId}`}>
+          Role of {member.email}
+        </label>
         <select
           id={`role-${member.userId}`}
           defaultValue={member.role}
@@ -88,7 +101,8 @@ export function MemberRow({ slug, member, isSelf }: { slug: string; member: Memb
           variant="ghost"
           disabled={pending}
           onClick={() => {
-            if (confirm(`Remove ${member.email} from this workspace?`)) run(() => removeMemberAction(slug, { id: member.userId }));
+            if (confirm(`Remove ${member.email} from this workspace?`))
+              run(() => removeMemberAction(slug, { id: member.userId }));
           }}
         >
           Remove
@@ -101,7 +115,11 @@ export function MemberRow({ slug, member, isSelf }: { slug: string; member: Memb
 export function RevokeInvitationButton({ slug, id }: { slug: string; id: number }) {
   const [pending, start] = useTransition();
   return (
-    <Button variant="ghost" disabled={pending} onClick={() => start(async () => void (await revokeInvitationAction(slug, { id })))}>
+    <Button
+      variant="ghost"
+      disabled={pending}
+      onClick={() => start(async () => void (await revokeInvitationAction(slug, { id })))}
+    >
       Withdraw
     </Button>
   );

@@ -11,27 +11,30 @@ export const metadata = { title: 'Members' };
 export default async function MembersPage({ params }: { params: Promise<{ workspace: string }> }) {
   const { workspace: slug } = await params;
   const { workspace, user } = await requireMember(slug, 'members:manage');
-  const [members, invitations] = await Promise.all([listMembers({ workspaceId: workspace.id }), listOpenInvitations({ workspaceId: workspace.id })]);
+  const [members, invitations] = await Promise.all([
+    listMembers({ workspaceId: workspace.id }),
+    listOpenInvitations({ workspaceId: workspace.id }),
+  ]);
   return (
     <>
       <PageHeader title="Members" lead="Who can open this workspace, and what their role lets them do." />
       <Card title={`${members.length} member${members.length === 1 ? '' : 's'}`}>
         <ScrollRegion label="Members">
-        <table className="w-full min-w-[520px] text-sm">
-          <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
-            <tr>
-              <th className="py-2">Person</th>
-              <th className="py-2">Role</th>
-              <th className="py-2">Joined</th>
-              <th className="py-2" />
-            </tr>
-          </thead>
-          <tbody>
-            {members.map((m) => (
-              <MemberRow key={m.userId} slug={slug} member={m} isSelf={m.userId === user.id} />
-            ))}
-          </tbody>
-        </table>
+          <table className="w-full min-w-[520px] text-sm">
+            <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
+              <tr>
+                <th className="py-2">Person</th>
+                <th className="py-2">Role</th>
+                <th className="py-2">Joined</th>
+                <th className="py-2" />
+              </tr>
+            </thead>
+            <tbody>
+              {members.map((m) => (
+                <MemberRow key={m.userId} slug={slug} member={m} isSelf={m.userId === user.id} />
+              ))}
+            </tbody>
+          </table>
         </ScrollRegion>
       </Card>
       <div className="mt-6 grid gap-6 lg:grid-cols-2">

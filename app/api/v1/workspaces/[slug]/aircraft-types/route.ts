@@ -10,5 +10,8 @@ export const GET = workspaceRoute<{ slug: string }>('flights:read', async ({ mem
 /** Adds a type: 201; 409 when the code is taken; 422 by field (`engineId` or `directEiGPerKg`, `engineCount`...). */
 export const POST = workspaceRoute<{ slug: string }>('library:write', async ({ req, member, userId, actorLabel }) => {
   const input = await readJson(req, aircraftTypeSaveSchema);
-  return json(await createAircraftType({ workspaceId: member.workspace.id }, input, { userId, actor: actorLabel }), 201);
+  return json(
+    await createAircraftType({ workspaceId: member.workspace.id }, input, { userId, actor: actorLabel }),
+    201,
+  );
 });

@@ -16,6 +16,10 @@ export const GET = workspaceRoute<{ slug: string }>('billing:read', async ({ mem
 export const PATCH = workspaceRoute<{ slug: string }>('billing:manage', async ({ member, req, userId, actorLabel }) => {
   const input = await readJson(req, billingEmailSchema);
   if (userId === null) throw forbidden('Billing changes need a signed-in owner or finance admin.');
-  await updateBillingEmail(member.workspace, { userId, email: actorLabel }, input.billingEmail === '' ? null : input.billingEmail);
+  await updateBillingEmail(
+    member.workspace,
+    { userId, email: actorLabel },
+    input.billingEmail === '' ? null : input.billingEmail,
+  );
   return json(publicBillingState(await ensureBilling({ workspaceId: member.workspace.id })));
 });

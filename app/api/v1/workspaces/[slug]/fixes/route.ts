@@ -12,7 +12,10 @@ export const GET = workspaceRoute<{ slug: string }>('flights:read', async ({ req
 });
 
 const fixesBodySchema = z.strictObject({
-  fixes: z.array(fixRowSchema).min(1, { error: 'Give at least one fix.' }).max(ROUTE_LIBRARY_LIMITS.maxRows, { error: `Give at most ${ROUTE_LIBRARY_LIMITS.maxRows} fixes.` }),
+  fixes: z
+    .array(fixRowSchema)
+    .min(1, { error: 'Give at least one fix.' })
+    .max(ROUTE_LIBRARY_LIMITS.maxRows, { error: `Give at most ${ROUTE_LIBRARY_LIMITS.maxRows} fixes.` }),
 });
 
 /** Adds `{ fixes: { name, lat, lon, region? }[] }` (same name and region: moved): 201 `{ added, updated }`. */

@@ -10,13 +10,22 @@ import { fromZod, invalidFields } from '@/lib/errors';
  */
 export const POST = workspaceRoute<{ slug: string }>('imports:create', async ({ req, member, userId, actorLabel }) => {
   const dry = new URL(req.url).searchParams.get('dryRun');
-  if (dry !== null && dry !== '1' && dry !== 'true' && dry !== '0' && dry !== 'false') throw invalidFields([{ path: 'dryRun', message: 'dryRun is 1 (check and estimate only) or 0.' }]);
+  if (dry !== null && dry !== '1' && dry !== 'true' && dry !== '0' && dry !== 'false')
+    throw invalidFields([{ path: 'dryRun', message: 'dryRun is 1 (check and estimate only) or 0.' }]);
   const dryRun = dry === '1' || dry === 'true';
   const file = await readUploadedFile(req);
-  const outcome = await acceptScheduleUpload({ workspaceId: member.workspace.id }, { userId, label: actorLabel }, file, { dryRun });
+  const outcome = await acceptScheduleUpload(
+    { workspaceId: member.workspace.id },
+    { userId, label: actorLabel },
+    file,
+    { dryRun },
+  );
   if (!outcome.accepted) {
     const rows = new Set(outcome.problems.map((p) => p.line)).size;
-    const listed = outcome.problemCount > outcome.problems.length ? ` The first ${outcome.problems.length} of ${outcome.problemCount} problems are listed.` : '';
+    const listed =
+      outcome.problemCount > outcome.problems.length
+        ? ` The first ${outcome.problems.length} of ${outcome.problemCount} problems are listed.`
+        : '';
     return json(
       {
         error: {
@@ -33,7 +42,9 @@ export const POST = workspaceRoute<{ slug: string }>('imports:create', async ({ 
   if ('dryRun' in outcome) {
     return json({ dryRun: true, rows: outcome.rows, ...outcome.estimate, warnings: outcome.warnings });
   }
-  return json(outcome.import, 202, { location: `/api/v1/workspaces/${member.workspace.slug}/imports/${outcome.import.id}` });
+  return json(outcome.import, 202, {
+    location: `/api/v1/workspaces/${member.workspace.slug}/imports/${outcome.import.id}`,
+  });
 });
 
 /** `{ items, nextCursor }`, newest first. */

@@ -20,12 +20,22 @@ export const GET = workspaceRoute<{ slug: string }>('flights:read', async ({ req
 });
 
 /** Builds and stores a fleet report (PDF and CSV): 201 with the report and its download links. */
-export const POST = workspaceRoute<{ slug: string }>('reports:create', async ({ req, member, principal, userId, actorLabel }) => {
-  const body = await readJson(req, reportCreateSchema);
-  const user = principal.kind === 'user' ? principal.user : null;
-  const report = await buildFleetReport(
-    { workspaceId: member.workspace.id },
-    { ...body, workspaceName: member.workspace.name, units: user?.units ?? 'metric', createdBy: userId, actor: actorLabel, actorName: user ? user.name || user.email : actorLabel },
-  );
-  return json(reportJson(member.workspace.slug, report), 201);
-});
+export const POST = workspaceRoute<{ slug: string }>(
+  'reports:create',
+  async ({ req, member, principal, userId, actorLabel }) => {
+    const body = await readJson(req, reportCreateSchema);
+    const user = principal.kind === 'user' ? principal.user : null;
+    const report = await buildFleetReport(
+      { workspaceId: member.workspace.id },
+      {
+        ...body,
+        workspaceName: member.workspace.name,
+        units: user?.units ?? 'metric',
+        createdBy: userId,
+        actor: actorLabel,
+        actorName: user ? user.name || user.email : actorLabel,
+      },
+    );
+    return json(reportJson(member.workspace.slug, report), 201);
+  },
+);

@@ -11,7 +11,10 @@ import { checkBudgetAlerts } from '@/lib/billing/budget';
 export const POST = workspaceRoute<{ slug: string }>('screenings:create', async ({ req, member, principal }) => {
   const raw = await readJson(req, z.unknown());
   const key = req.headers.get('idempotency-key')?.trim() || null;
-  if (key && key.length > 255) throw invalidFields([{ path: 'Idempotency-Key', message: 'The Idempotency-Key header must be at most 255 characters.' }]);
+  if (key && key.length > 255)
+    throw invalidFields([
+      { path: 'Idempotency-Key', message: 'The Idempotency-Key header must be at most 255 characters.' },
+    ]);
   const parsed = await parseScreeningBody(raw, { workspaceId: member.workspace.id });
   const result = runScreening(parsed.input, parsed.library, parsed.aircraftCode);
   const { record, replayed } = await createScreening(
@@ -28,7 +31,14 @@ export const POST = workspaceRoute<{ slug: string }>('screenings:create', async 
     },
   );
   if (!replayed) await checkBudgetAlerts({ workspaceId: member.workspace.id });
-  const body = { id: record.id, name: record.name, createdAt: record.createdAt, aircraft: record.aircraftCode, input: record.input, result: record.result };
+  const body = {
+    id: record.id,
+    name: record.name,
+    createdAt: record.createdAt,
+    aircraft: record.aircraftCode,
+    input: record.input,
+    result: record.result,
+  };
   return json(body, replayed ? 200 : 201, replayed ? { 'idempotent-replayed': 'true' } : undefined);
 });
 

@@ -64,8 +64,15 @@ export default async function AircraftTypePage({ params }: { params: Promise<{ w
             />
           </Card>
           <Card title="Delete">
-            <p className="mb-3 text-sm text-ink-soft">Flights and screenings already made with this type keep their figures and the type code.</p>
-            <DeleteButton action={deleteAircraftTypeAction.bind(null, slug, type.id)} confirmText={`Delete aircraft type ${type.code}?`} label="Delete type" after={`/w/${slug}/engines`} />
+            <p className="mb-3 text-sm text-ink-soft">
+              Flights and screenings already made with this type keep their figures and the type code.
+            </p>
+            <DeleteButton
+              action={deleteAircraftTypeAction.bind(null, slug, type.id)}
+              confirmText={`Delete aircraft type ${type.code}?`}
+              label="Delete type"
+              after={`/w/${slug}/engines`}
+            />
           </Card>
         </div>
       ) : null}

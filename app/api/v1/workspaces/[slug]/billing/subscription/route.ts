@@ -22,6 +22,7 @@ export const PATCH = workspaceRoute<{ slug: string }>('billing:manage', async ({
   const input = await readJson(req, subscriptionUpdateSchema);
   const actor = actorOf(userId, actorLabel);
   if (input.planId !== undefined) await changePlan(member.workspace, actor, input.planId);
-  if (input.cancelAtPeriodEnd !== undefined) await setCancelAtPeriodEnd(member.workspace, actor, input.cancelAtPeriodEnd);
+  if (input.cancelAtPeriodEnd !== undefined)
+    await setCancelAtPeriodEnd(member.workspace, actor, input.cancelAtPeriodEnd);
   return json(publicBillingState(await ensureBilling({ workspaceId: member.workspace.id })));
 });

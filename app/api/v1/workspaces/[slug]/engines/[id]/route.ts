@@ -15,7 +15,10 @@ export const PATCH = workspaceRoute<Params>('library:write', async ({ req, param
   const scope = { workspaceId: member.workspace.id };
   const id = idParam(params.id);
   const current = await getEngine(scope, id);
-  const patch = await readJson(req, z.record(z.string(), z.unknown(), { error: 'Send a JSON object with the fields to change.' }));
+  const patch = await readJson(
+    req,
+    z.record(z.string(), z.unknown(), { error: 'Send a JSON object with the fields to change.' }),
+  );
   const parsed = engineSaveSchema.safeParse({ ...engineSaveOf(current), ...patch });
   if (!parsed.success) throw fromZod(parsed.error);
   return json(await updateEngine(scope, id, parsed.data, { userId, actor: actorLabel }));

@@ -8,7 +8,10 @@ import { LIBRARY_CSV_MAX_BYTES } from '@/lib/validation/library';
 export const GET = workspaceRoute<{ slug: string }>('flights:read', async () => {
   return new Response(engineCsvTemplate(), {
     status: 200,
-    headers: { 'content-type': 'text/csv; charset=utf-8', 'content-disposition': 'attachment; filename="engines-template.csv"' },
+    headers: {
+      'content-type': 'text/csv; charset=utf-8',
+      'content-disposition': 'attachment; filename="engines-template.csv"',
+    },
   });
 });
 

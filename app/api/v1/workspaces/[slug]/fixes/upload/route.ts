@@ -12,8 +12,15 @@ export const POST = workspaceRoute<{ slug: string }>('navdata:write', async ({ r
   const upload = await readCsvUpload(req, { maxBytes: ROUTE_LIBRARY_LIMITS.maxBytes });
   const parsed = parseFixCsv(upload.text);
   if (parsed.problems.length || parsed.rows.length === 0) {
-    return csvRejection(parsed.problems.length ? parsed.problems : [{ line: 1, column: '', message: 'The file has no fixes.' }], parsed.warnings);
+    return csvRejection(
+      parsed.problems.length ? parsed.problems : [{ line: 1, column: '', message: 'The file has no fixes.' }],
+      parsed.warnings,
+    );
   }
-  const saved = await saveFixes({ workspaceId: member.workspace.id }, parsed.rows, { userId, actor: actorLabel, fileName: upload.fileName });
+  const saved = await saveFixes({ workspaceId: member.workspace.id }, parsed.rows, {
+    userId,
+    actor: actorLabel,
+    fileName: upload.fileName,
+  });
   return json({ ...saved, warnings: parsed.warnings }, 201);
 });

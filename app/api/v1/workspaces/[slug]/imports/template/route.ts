@@ -9,8 +9,15 @@ export const GET = workspaceRoute<{ slug: string }>('flights:read', async ({ mem
   const scope = { workspaceId: member.workspace.id };
   const [types, fleets] = await Promise.all([listAircraftForScreening(scope), listFleetsByName(scope)]);
   // Only types that can be screened as they stand, so the template imports without an edit.
-  const aircraft = [...types.values()].filter((t) => t.emission !== null).map((t) => t.code).sort();
-  const csv = scheduleTemplateCsv({ aircraft, fleets: [...fleets.values()].map((f) => f.name).sort(), day: todayIso() });
+  const aircraft = [...types.values()]
+    .filter((t) => t.emission !== null)
+    .map((t) => t.code)
+    .sort();
+  const csv = scheduleTemplateCsv({
+    aircraft,
+    fleets: [...fleets.values()].map((f) => f.name).sort(),
+    day: todayIso(),
+  });
   return new Response(csv, {
     status: 200,
     headers: {

@@ -11,7 +11,10 @@ export const GET = workspaceRoute<{ slug: string; id: string }>('flights:read', 
 });
 
 /** Deletes the report, its stored PDF and CSV and its e-mail history (204); the audit log records it. */
-export const DELETE = workspaceRoute<{ slug: string; id: string }>('reports:delete', async ({ params, member, userId, actorLabel }) => {
-  await deleteReport({ workspaceId: member.workspace.id }, idParam(params.id), { userId, actor: actorLabel });
-  return new Response(null, { status: 204 });
-});
+export const DELETE = workspaceRoute<{ slug: string; id: string }>(
+  'reports:delete',
+  async ({ params, member, userId, actorLabel }) => {
+    await deleteReport({ workspaceId: member.workspace.id }, idParam(params.id), { userId, actor: actorLabel });
+    return new Response(null, { status: 204 });
+  },
+);

@@ -16,8 +16,16 @@ export const PATCH = workspaceRoute<Params>('library:write', async ({ req, param
   const scope = { workspaceId: member.workspace.id };
   const id = idParam(params.id);
   const current = await getRoute(scope, id);
-  const patch = await readJson(req, z.record(z.string(), z.unknown(), { error: 'Send a JSON object with the fields to change.' }));
-  const parsed = routeSaveSchema.safeParse({ name: current.name, waypoints: current.waypoints, notes: current.notes, ...patch });
+  const patch = await readJson(
+    req,
+    z.record(z.string(), z.unknown(), { error: 'Send a JSON object with the fields to change.' }),
+  );
+  const parsed = routeSaveSchema.safeParse({
+    name: current.name,
+    waypoints: current.waypoints,
+    notes: current.notes,
+    ...patch,
+  });
   if (!parsed.success) throw fromZod(parsed.error);
   return json(routeBody(await updateRoute(scope, id, parsed.data, { userId, actor: actorLabel })));
 });

@@ -13,15 +13,24 @@ import { ScreeningInputError } from '@/lib/screening';
  */
 export const POST = workspaceRoute<{ slug: string }>('library:write', async ({ req, member, userId, actorLabel }) => {
   const upload = await readCsvUpload(req, { maxBytes: LIBRARY_CSV_MAX_BYTES });
-  const meta = soundingMetaSchema.safeParse({ name: upload.fields.name ?? '', station: upload.fields.station, observedAt: upload.fields.observedAt });
+  const meta = soundingMetaSchema.safeParse({
+    name: upload.fields.name ?? '',
+    station: upload.fields.station,
+    observedAt: upload.fields.observedAt,
+  });
   const parsed = parseSoundingCsv(upload.text);
   const fields = meta.success ? [] : zodFields(meta.error);
   if (parsed.problems.length || !meta.success) return csvRejection(parsed.problems, parsed.warnings, fields);
   try {
-    const sounding = await createSounding({ workspaceId: member.workspace.id }, { ...meta.data, levels: parsed.levels }, { userId, actor: actorLabel });
+    const sounding = await createSounding(
+      { workspaceId: member.workspace.id },
+      { ...meta.data, levels: parsed.levels },
+      { userId, actor: actorLabel },
+    );
     return json({ ...sounding, warnings: parsed.warnings }, 201);
   } catch (err) {
-    if (err instanceof ScreeningInputError) return csvRejection(levelProblemsToCsv(err.fields, parsed.lines, parsed.temperatureColumn), parsed.warnings);
+    if (err instanceof ScreeningInputError)
+      return csvRejection(levelProblemsToCsv(err.fields, parsed.lines, parsed.temperatureColumn), parsed.warnings);
     throw err;
   }
 });

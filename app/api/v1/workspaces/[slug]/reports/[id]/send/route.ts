@@ -3,10 +3,16 @@ import { sendReport } from '@/lib/reports/send';
 import { reportSendSchema } from '@/lib/validation/reports';
 
 /** E-mails the report's PDF to up to 20 recipients; 201 with the recorded send, 503 when the mail server refuses. */
-export const POST = workspaceRoute<{ slug: string; id: string }>('reports:send', async ({ req, params, member, principal, userId, actorLabel }) => {
-  const id = idParam(params.id);
-  const body = await readJson(req, reportSendSchema);
-  const senderName = principal.kind === 'user' ? principal.user.name || principal.user.email : member.workspace.name;
-  const send = await sendReport({ workspaceId: member.workspace.id }, { reportId: id, recipients: body.recipients, note: body.note, sentBy: userId, senderName, actor: actorLabel });
-  return json(send, 201);
-});
+export const POST = workspaceRoute<{ slug: string; id: string }>(
+  'reports:send',
+  async ({ req, params, member, principal, userId, actorLabel }) => {
+    const id = idParam(params.id);
+    const body = await readJson(req, reportSendSchema);
+    const senderName = principal.kind === 'user' ? principal.user.name || principal.user.email : member.workspace.name;
+    const send = await sendReport(
+      { workspaceId: member.workspace.id },
+      { reportId: id, recipients: body.recipients, note: body.note, sentBy: userId, senderName, actor: actorLabel },
+    );
+    return json(send, 201);
+  },
+);

@@ -64,7 +64,10 @@ function toCsv(r: ScreeningRecord): string {
   const res = r.result;
   const u = uncertaintyFor(r.input, res);
   const rows: Cell[][] = [
-    ['Tropopass screening export', 'Screening estimate for planning and reporting support; not a certified emissions inventory or a regulatory method.'],
+    [
+      'Tropopass screening export',
+      'Screening estimate for planning and reporting support; not a certified emissions inventory or a regulatory method.',
+    ],
     ['Screening', r.name],
     ['Screening id', r.id],
     ['Saved at (UTC)', r.createdAt],
@@ -110,7 +113,11 @@ function toCsv(r: ScreeningRecord): string {
     ]),
   ];
   const width = SEGMENT_HEADER.length;
-  return rows.map((row) => [...row, ...Array<Cell>(Math.max(0, width - row.length)).fill(null)].map(field).join(',')).join('\r\n') + '\r\n';
+  return (
+    rows
+      .map((row) => [...row, ...Array<Cell>(Math.max(0, width - row.length)).fill(null)].map(field).join(','))
+      .join('\r\n') + '\r\n'
+  );
 }
 
 function fileStem(r: ScreeningRecord): string {
@@ -126,20 +133,31 @@ function fileStem(r: ScreeningRecord): string {
 /** The saved screening as a download: `?format=csv` (default) or `?format=json`. */
 export const GET = workspaceRoute<{ slug: string; id: string }>('flights:read', async ({ req, params, member }) => {
   const format = new URL(req.url).searchParams.get('format') ?? 'csv';
-  if (format !== 'csv' && format !== 'json') throw invalidFields([{ path: 'format', message: 'The format must be csv or json.' }]);
+  if (format !== 'csv' && format !== 'json')
+    throw invalidFields([{ path: 'format', message: 'The format must be csv or json.' }]);
   const record = await getScreening({ workspaceId: member.workspace.id }, idParam(params.id));
   const stem = fileStem(record);
   if (format === 'json') {
     const uncertainty = uncertaintyFor(record.input, record.result);
     const result = uncertainty ? { ...record.result, uncertainty } : record.result;
-    const body = JSON.stringify({ id: record.id, name: record.name, createdAt: record.createdAt, input: record.input, result }, null, 2);
+    const body = JSON.stringify(
+      { id: record.id, name: record.name, createdAt: record.createdAt, input: record.input, result },
+      null,
+      2,
+    );
     return new Response(body, {
       status: 200,
-      headers: { 'content-type': 'application/json; charset=utf-8', 'content-disposition': `attachment; filename="${stem}.json"` },
+      headers: {
+        'content-type': 'application/json; charset=utf-8',
+        'content-disposition': `attachment; filename="${stem}.json"`,
+      },
     });
   }
   return new Response(`\ufeff${toCsv(record)}`, {
     status: 200,
-    headers: { 'content-type': 'text/csv; charset=utf-8; header=present', 'content-disposition': `attachment; filename="${stem}.csv"` },
+    headers: {
+      'content-type': 'text/csv; charset=utf-8; header=present',
+      'content-disposition': `attachment; filename="${stem}.csv"`,
+    },
   });
 });
