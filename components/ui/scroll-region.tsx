@@ -18,7 +18,7 @@ export function ScrollRegion({
       role="region"
       aria-label={label}
       tabIndex={0}
-      className={`overflow-x-auto focus:outline-none focus-visible:ring-2 focus-visible:ring-accent ${className}`}
+      className={`relative overflow-x-auto focus:outline-none focus-visible:ring-2 focus-visible:ring-accent ${className}`}
     >
       {children}
     </div>

@@ -1,3 +1,4 @@
+import { ScrollRegion } from '@/components/ui/scroll-region';
 import Link from 'next/link';
 import { requireUser } from '@/lib/auth/guards';
 import { listWorkspacesForUser } from '@/db/workspaces';
@@ -215,7 +216,7 @@ function ClientCard({
       </div>
       {status ? (
         <>
-          <div className="mt-3 overflow-x-auto">
+          <ScrollRegion label={`Trend of ${name}`} className="mt-3">
             <table className="w-full text-xs" data-testid="client-trend">
               <caption className="sr-only">NOx above the tropopause and its share, last six months, {name}</caption>
               <thead className="text-left text-ink-soft">
@@ -253,7 +254,7 @@ function ClientCard({
                 </tr>
               </tbody>
             </table>
-          </div>
+          </ScrollRegion>
           <ul className="mt-3 space-y-1 text-sm">
             <li data-testid="client-imports">
               Imports:{' '}

@@ -45,7 +45,8 @@ export async function newPage(browser: Browser, viewport = { width: 1280, height
   const page = await context.newPage();
   const errors: string[] = [];
   page.on('console', (m) => {
-    if (m.type() === 'error') errors.push(m.text());
+    // A failed resource names no URL in its text: add the location so a report says which one.
+    if (m.type() === 'error') errors.push(m.location().url ? `${m.text()} (${m.location().url})` : m.text());
   });
   page.on('pageerror', (e) => errors.push(e.message));
   return { context, page, errors };
