@@ -17,7 +17,7 @@ function Bars({ title, drivers }: { title: string; drivers: Driver[] }) {
       ) : (
         <ol
           className="space-y-1.5"
-          aria-label={`Share of the spread of ${title.toLowerCase()} each input explains, largest first`}
+          aria-label={`Share of the spread of ${inSentence(title)} each input explains, largest first`}
         >
           {shown.map((d) => (
             <li key={d.input} className="grid grid-cols-[9.5rem_1fr_3rem] items-center gap-2 text-xs">
@@ -39,6 +39,11 @@ function Bars({ title, drivers }: { title: string; drivers: Driver[] }) {
   );
 }
 
+/** A label inside a sentence: its first letter lowered unless it starts an abbreviation (EI NOx, NOx/NOy). */
+function inSentence(label: string): string {
+  return /^[A-Z][a-z]/.test(label) ? label.charAt(0).toLowerCase() + label.slice(1) : label;
+}
+
 /** Ranked bars: how much of each headline figure's spread each sampled input explains. */
 export function UncertaintyDriversChart({
   drivers,
@@ -52,7 +57,7 @@ export function UncertaintyDriversChart({
     <div data-testid="drivers-chart" className="space-y-3">
       {lead && lead.share > 0 ? (
         <p className="text-sm text-ink">
-          The {lead.label.toLowerCase()} explains {formatPercent(lead.share)} of the spread of NOx above the tropopause.
+          The {inSentence(lead.label)} explains {formatPercent(lead.share)} of the spread of NOx above the tropopause.
         </p>
       ) : null}
       <div className={compact ? 'grid gap-4' : 'grid gap-6 lg:grid-cols-3'}>
