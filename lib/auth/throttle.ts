@@ -14,7 +14,16 @@ import { db } from '@/db/client';
 import { throttled } from '@/lib/errors';
 import { UNKNOWN_CLIENT } from './client-ip';
 
-const g = globalThis as unknown as { tropopassLimiters?: Limiters };
+const g = globalThis as unknown as { tropopassLimiters?: Limiters; tropopassLimitersFor?: unknown };
+
+/**
+ * What the limiters were built on: the Knex instance on PostgreSQL (their store), the database file on
+ * SQLite. When that changes (the connection closed and reopened, another file), they are built again
+ * instead of counting through a closed pool.
+ */
+function storeIdentity(): unknown {
+  return isPostgres() ? db() : env().SQLITE_FILE;
+}
 
 export interface Limiters {
   /** Settles once the persistent limiters' tables exist. */
@@ -40,8 +49,8 @@ interface LimiterSpec {
 /**
  * On PostgreSQL every limiter counts in the database, so all app instances share one count, with a
  * per-process block once a key is used up (no query per refused request) and an in-memory stand-in
- * while the database cannot be reached. All limiters share one table (created by the library on
- * start; keys carry the limiter's prefix): the library names its prepared statements the same for
+ * while the database cannot be reached. All limiters share one table (made by a migration; keys carry
+ * the limiter's prefix): the library names its prepared statements the same for
  * every table, and node-postgres refuses one name with two texts on a pooled connection, which with
  * a table each sent some counts to the in-memory stand-in.
  */
@@ -62,6 +71,8 @@ function shared(spec: LimiterSpec, pending: Promise<void>[]): RateLimiterAbstrac
       storeClient: db(),
       storeType: 'knex',
       tableName: SHARED_THROTTLE_TABLE,
+      // The table comes from a migration: the library creating it from several limiters at once races.
+      tableCreated: true,
       inMemoryBlockOnConsumed: spec.points + 1,
       insuranceLimiter: new RateLimiterMemory(opts),
     },
@@ -127,9 +138,11 @@ export function createLimiters(): Limiters {
 }
 
 function limiters(): Limiters {
-  if (!g.tropopassLimiters) {
+  const store = storeIdentity();
+  if (!g.tropopassLimiters || g.tropopassLimitersFor !== store) {
     const created = createLimiters();
     g.tropopassLimiters = created;
+    g.tropopassLimitersFor = store;
     created.ready.catch(() => {
       // Try again on the next request rather than refusing every one until a restart.
       if (g.tropopassLimiters === created) g.tropopassLimiters = undefined;

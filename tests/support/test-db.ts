@@ -32,7 +32,8 @@ export function useTestDatabase(extraEnv: Record<string, string> = {}): { file: 
       DATABASE_URL: pgDatabase ? postgresUrl(pgDatabase) : '',
       NEXTAUTH_SECRET: TEST_SECRET,
       NEXTAUTH_URL: TEST_ORIGIN,
-      LOG_LEVEL: 'silent',
+      // TEST_LOG_LEVEL=error shows the server's own error lines when a run needs them.
+      LOG_LEVEL: process.env.TEST_LOG_LEVEL ?? 'silent',
       ...extraEnv,
     });
     resetEnvForTests();
