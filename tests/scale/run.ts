@@ -15,6 +15,7 @@
 import { spawn, spawnSync, execFileSync, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
+import { randomBytes } from 'node:crypto';
 import path from 'node:path';
 import knexFactory, { type Knex } from 'knex';
 import { encode } from 'next-auth/jwt';
@@ -208,8 +209,17 @@ async function main(): Promise<number> {
       id: number;
       session_version: number;
     };
+    // A session token names a live row of auth_sessions (sign-out revokes it), as a real sign-in makes.
+    const sid = randomBytes(24).toString('base64url');
+    await k('auth_sessions').insert({
+      id: sid,
+      user_id: owner.id,
+      created_at: new Date().toISOString(),
+      expires_at: new Date(Date.now() + 12 * 3_600_000).toISOString(),
+      revoked_at: null,
+    });
     const token = await encode({
-      token: { uid: owner.id, sv: Number(owner.session_version), authAt: Date.now() },
+      token: { uid: owner.id, sv: Number(owner.session_version), authAt: Date.now(), sid },
       secret: SECRET,
     });
     const created = await fetch(`${a.baseUrl}/api/v1/workspaces/${SLUG}/api-keys`, {
