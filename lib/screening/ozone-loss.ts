@@ -5,6 +5,7 @@
  * Number densities in molecule cm^-3, J in s^-1, residence times in years, masses in kg.
  */
 import { AVOGADRO, BOLTZMANN_J_K } from './atmosphere';
+import { COLUMNS, columnAtPressure } from './climatology';
 import {
   JPL_19_5,
   arrhenius,
@@ -284,6 +285,29 @@ const K_O_O2_M = JPL_19_5['O+O2+M'] as TermolecularParameters;
 /** Air number density (molecule cm^-3) from pressure (Pa) and temperature (K). */
 export function airNumberDensityCm3(pressurePa: number, temperatureK: number): number {
   return (pressurePa / (BOLTZMANN_J_K * temperatureK)) * 1e-6;
+}
+
+/**
+ * Temperature (K), air number density (molecule cm^-3) and geometric height (km) for the chemistry at
+ * pressure `pressurePa` in profile slot `slot`'s climatological column. A sounding's own temperature
+ * wins over the column's; a custom profile (no column) takes `levelTemperatureK` and `customHeightKm`.
+ * The engine and the uncertainty sampling both read the chemistry through this one function.
+ */
+export function chemistryAt(
+  pressurePa: number,
+  slot: number,
+  levelTemperatureK: number,
+  fromSounding: boolean,
+  customHeightKm: number,
+): { t: number; m: number; zKm: number } {
+  if (slot === CUSTOM_PROFILE_SLOT) {
+    return { t: levelTemperatureK, m: airNumberDensityCm3(pressurePa, levelTemperatureK), zKm: customHeightKm };
+  }
+  const c = columnAtPressure(COLUMNS[slot], pressurePa);
+  if (fromSounding) {
+    return { t: levelTemperatureK, m: airNumberDensityCm3(pressurePa, levelTemperatureK), zKm: c.heightKm };
+  }
+  return { t: c.temperatureK, m: c.airDensityCm3, zKm: c.heightKm };
 }
 
 /** Length of the coefficient block `ozoneLossCoefficients` writes. */

@@ -11,15 +11,7 @@ import {
   isaTemperatureAt,
   METRES_PER_FLIGHT_LEVEL,
 } from './atmosphere';
-import {
-  AFGL_COLUMN_SOURCE,
-  BTH_SOURCE,
-  COLUMNS,
-  bthHeightKm,
-  bthRowForDay,
-  columnAtPressure,
-  columnPressurePa,
-} from './climatology';
+import { AFGL_COLUMN_SOURCE, BTH_SOURCE, COLUMNS, bthHeightKm, bthRowForDay, columnPressurePa } from './climatology';
 import {
   BFFM2_INSTALLATION_FACTORS,
   bffm2EiNox,
@@ -31,6 +23,7 @@ import {
 } from './emission-index';
 import { ScreeningInputError } from './errors';
 import {
+  chemistryAt,
   AFGL_SOURCE,
   COEFFICIENT_COUNT,
   CUSTOM_PROFILE_SLOT,
@@ -282,16 +275,8 @@ interface LevelContext {
 
 /** The chemistry state at a level in the column of an ozone slot: T, [M] and the geometric height for O3. */
 function chemistryState(level: LevelContext, slot: number): { t: number; m: number; zKm: number } {
-  const p = level.isa.pressurePa;
-  if (slot === CUSTOM_PROFILE_SLOT) {
-    const t = level.temperatureK;
-    return { t, m: airNumberDensityCm3(p, t), zKm: level.isa.geometricKm };
-  }
-  const c = columnAtPressure(COLUMNS[slot], p);
-  if (level.temperatureSource === 'sounding') {
-    return { t: level.temperatureK, m: airNumberDensityCm3(p, level.temperatureK), zKm: c.heightKm };
-  }
-  return { t: c.temperatureK, m: c.airDensityCm3, zKm: c.heightKm };
+  const sounding = level.temperatureSource === 'sounding';
+  return chemistryAt(level.isa.pressurePa, slot, level.temperatureK, sounding, level.isa.geometricKm);
 }
 
 function levelCoefficients(level: LevelContext, slot: number, inputs: OzoneInputs): Float64Array {

@@ -11,7 +11,7 @@ import {
   CUSTOM_PROFILE_SLOT,
   COEFFICIENT_COUNT,
   SECONDS_PER_YEAR,
-  airNumberDensityCm3,
+  chemistryAt,
   noxMolecules,
   ozoneKg,
   ozoneLossCoefficients,
@@ -176,22 +176,11 @@ function chemistryState(
   slot: number,
   inputs: OzoneInputs,
 ): { t: number; m: number; o3: number } {
-  const p = level.pressureHpa * 100;
   const custom =
     typeof inputs.ozoneProfile === 'object' && inputs.ozoneProfile !== null ? inputs.ozoneProfile : undefined;
-  if (slot === CUSTOM_PROFILE_SLOT) {
-    const t = level.temperatureK;
-    return {
-      t,
-      m: airNumberDensityCm3(p, t),
-      o3: ozonePpmv(slot, geometricFromGeopotentialM(level.altitudeM) / 1000, custom),
-    };
-  }
-  const c = columnAtPressure(COLUMNS[slot], p);
-  const o3 = ozonePpmv(slot, c.heightKm, custom);
-  if (level.temperatureSource === 'sounding')
-    return { t: level.temperatureK, m: airNumberDensityCm3(p, level.temperatureK), o3 };
-  return { t: c.temperatureK, m: c.airDensityCm3, o3 };
+  const zKm = geometricFromGeopotentialM(level.altitudeM) / 1000;
+  const c = chemistryAt(level.pressureHpa * 100, slot, level.temperatureK, level.temperatureSource === 'sounding', zKm);
+  return { t: c.t, m: c.m, o3: ozonePpmv(slot, c.zKm, custom) };
 }
 
 /** The per-segment data of a full screening result (also used by the fleet sampling). */
