@@ -2,6 +2,7 @@ import 'server-only';
 import type { Knex } from 'knex';
 import { db, insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
+import { clearRollupKey } from './flight-rollups';
 import { conflict, invalidFields, notFound, type FieldProblem } from '@/lib/errors';
 import type { AircraftTypeSave, EngineSave } from '@/lib/validation/library';
 
@@ -402,6 +403,7 @@ export async function deleteAircraftType(scope: { workspaceId: number }, id: num
   await writeTx(async (trx) => {
     const type = await getAircraftType(scope, id, trx);
     await trx('aircraft_types').where({ workspace_id: scope.workspaceId, id }).delete();
+    await clearRollupKey(trx, scope.workspaceId, 'aircraft_type_id', id);
     await createAuditEntry(
       {
         workspaceId: scope.workspaceId,

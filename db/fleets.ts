@@ -2,6 +2,7 @@ import 'server-only';
 import type { Knex } from 'knex';
 import { db, insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
+import { clearRollupKey, splitByWholeMonths, type RollupSource } from './flight-rollups';
 import { conflict, invalidFields, notFound } from '@/lib/errors';
 
 export interface FleetDto {
@@ -37,6 +38,25 @@ export function flightsWithFleet(k: Knex | Knex.Transaction, workspaceId: number
     .where('fl.workspace_id', workspaceId);
 }
 
+/**
+ * The monthly roll-ups (db/flight-rollups.ts) with the same aliases and the same fleet rule as
+ * flightsWithFleet: `fl` (roll-up rows, whose fleet and type are 0 for none), `at`, `f`.
+ */
+export function rollupsWithFleet(k: Knex | Knex.Transaction, workspaceId: number): Knex.QueryBuilder {
+  return k('flight_month_rollups as fl')
+    .leftJoin('aircraft_types as at', function joinType() {
+      this.on('at.id', '=', 'fl.aircraft_type_id').andOn('at.workspace_id', '=', 'fl.workspace_id');
+    })
+    .leftJoin('fleets as f', function joinFleet() {
+      this.on('f.id', '=', k.raw('coalesce(nullif(fl.fleet_id, 0), at.default_fleet_id)')).andOn(
+        'f.workspace_id',
+        '=',
+        'fl.workspace_id',
+      );
+    })
+    .where('fl.workspace_id', workspaceId);
+}
+
 /** The resolved fleet of each given flight id (null when it has none), for tests and the flight pages. */
 export async function resolveFlightFleets(
   scope: { workspaceId: number },
@@ -63,12 +83,11 @@ export async function listFleets(
       .whereNotNull('default_fleet_id')
       .orderBy('code', 'asc')
       .select('id', 'code', 'default_fleet_id') as Promise<Row[]>,
-    flightsWithFleet(trx, scope.workspaceId)
-      .where('fl.status', 'screened')
+    rollupsWithFleet(trx, scope.workspaceId)
       .whereNotNull('f.id')
       .groupBy('f.id')
       .select('f.id as fleet_id')
-      .count({ n: '*' }) as Promise<Row[]>,
+      .sum({ n: 'fl.flights' }) as Promise<Row[]>,
   ]);
   const countOf = new Map(counts.map((c) => [Number(c.fleet_id), Number(c.n)]));
   return fleets.map((f) => ({
@@ -218,6 +237,7 @@ export async function deleteFleet(
       .where({ workspace_id: scope.workspaceId, default_fleet_id: id })
       .update({ default_fleet_id: null, updated_at: now });
     await trx('flights').where({ workspace_id: scope.workspaceId, fleet_id: id }).update({ fleet_id: null });
+    await clearRollupKey(trx, scope.workspaceId, 'fleet_id', id);
     await trx('fleets').where({ workspace_id: scope.workspaceId, id }).delete();
     await createAuditEntry(
       {
@@ -280,8 +300,29 @@ export interface FlightFilters {
   fleetIds?: (number | null)[];
 }
 
+/**
+ * Where the filters' figures come from: the roll-ups for the whole months of the period, the flight
+ * rows for the part-months at either end, and the rows alone when a route is asked for (the roll-ups
+ * keep no airports).
+ */
+function sourcesOf(f: FlightFilters): RollupSource[] {
+  if (f.routeTerms?.length) return [{ rollup: false, from: f.from, to: f.to }];
+  return splitByWholeMonths(f.from, f.to);
+}
+
+/** The rows of one source with the filters applied: flight rows or roll-up rows (aliased `fl`). */
+function filtered(k: Knex | Knex.Transaction, workspaceId: number, src: RollupSource, f: FlightFilters) {
+  const q = src.rollup ? rollupsWithFleet(k, workspaceId) : flightsWithFleet(k, workspaceId);
+  if (src.rollup) q.whereBetween('fl.month', [src.fromMonth, src.toMonth]);
+  else q.where('fl.status', 'screened').whereBetween('fl.date', [src.from, src.to]);
+  return applyFilters(q, f);
+}
+
+/** How a source counts flights: one a row, or the roll-up's count. */
+const flightCount = (k: Knex | Knex.Transaction, src: RollupSource) =>
+  k.raw(src.rollup ? 'sum(fl.flights)' : 'count(*)');
+
 function applyFilters(q: Knex.QueryBuilder, f: FlightFilters): Knex.QueryBuilder {
-  q.where('fl.status', 'screened').whereBetween('fl.date', [f.from, f.to]);
   if (f.aircraft) q.whereRaw('upper(fl.aircraft_code) = ?', [f.aircraft.toUpperCase()]);
   for (const group of f.routeTerms ?? []) {
     q.where((w) => {
@@ -304,6 +345,9 @@ function applyFilters(q: Knex.QueryBuilder, f: FlightFilters): Knex.QueryBuilder
   return q;
 }
 
+const num = (v: unknown) => (v === null || v === undefined ? 0 : Number(v));
+const fleetOf = (v: unknown) => (v === null || v === undefined ? null : Number(v));
+
 export interface FlightAggregate {
   fleetId: number | null;
   fleetName: string | null;
@@ -321,52 +365,77 @@ export interface FlightAggregate {
   ozoneHighKg: number;
 }
 
-/** Sums of screened flights per resolved fleet, and per month or aircraft type when asked. */
+const SUM_KEYS = [
+  'flights',
+  'distanceKm',
+  'fuelKg',
+  'noxTotalKg',
+  'noxAboveKg',
+  'ozoneCentralKg',
+  'ozoneLowKg',
+  'ozoneHighKg',
+] as const;
+
+/**
+ * Sums of screened flights per resolved fleet, and per month or aircraft type when asked: whole
+ * months from the roll-ups, part-months from the flight rows, added together.
+ */
 export async function aggregateFlights(
   scope: { workspaceId: number },
   filters: FlightFilters,
   by: { month?: boolean; aircraft?: boolean } = {},
 ): Promise<FlightAggregate[]> {
   const k = db();
-  const q = applyFilters(flightsWithFleet(k, scope.workspaceId), filters);
-  const cols: (string | Knex.Raw)[] = ['f.id as fleet_id', 'f.name as fleet_name'];
-  const groups: (string | Knex.Raw)[] = ['f.id', 'f.name'];
-  if (by.month) {
-    cols.push(k.raw('substr(fl.date, 1, 7) as month'));
-    groups.push(k.raw('substr(fl.date, 1, 7)'));
+  const parts = await Promise.all(
+    sourcesOf(filters).map((src) => {
+      const cols: (string | Knex.Raw)[] = ['f.id as fleet_id', 'f.name as fleet_name'];
+      const groups: (string | Knex.Raw)[] = ['f.id', 'f.name'];
+      const month = src.rollup ? 'fl.month' : 'substr(fl.date, 1, 7)';
+      if (by.month) {
+        cols.push(k.raw(`${month} as month`));
+        groups.push(k.raw(month));
+      }
+      if (by.aircraft) {
+        cols.push(k.raw('upper(fl.aircraft_code) as aircraft_code'));
+        groups.push(k.raw('upper(fl.aircraft_code)'));
+      }
+      cols.push(flightCount(k, src).wrap('', ' as flights'));
+      return filtered(k, scope.workspaceId, src, filters)
+        .select(cols)
+        .sum({
+          distance_km: 'fl.distance_km',
+          fuel_kg: 'fl.fuel_kg',
+          nox_total_kg: 'fl.nox_total_kg',
+          nox_above_kg: 'fl.nox_above_kg',
+          ozone_central_kg: 'fl.ozone_central_kg',
+          ozone_low_kg: 'fl.ozone_low_kg',
+          ozone_high_kg: 'fl.ozone_high_kg',
+        })
+        .groupBy(groups) as Promise<Row[]>;
+    }),
+  );
+  const out = new Map<string, FlightAggregate>();
+  for (const r of parts.flat()) {
+    const a: FlightAggregate = {
+      fleetId: fleetOf(r.fleet_id),
+      fleetName: (r.fleet_name as string | null) ?? null,
+      ...(by.month ? { month: String(r.month) } : {}),
+      ...(by.aircraft ? { aircraftCode: String(r.aircraft_code) } : {}),
+      flights: num(r.flights),
+      distanceKm: num(r.distance_km),
+      fuelKg: num(r.fuel_kg),
+      noxTotalKg: num(r.nox_total_kg),
+      noxAboveKg: num(r.nox_above_kg),
+      ozoneCentralKg: num(r.ozone_central_kg),
+      ozoneLowKg: num(r.ozone_low_kg),
+      ozoneHighKg: num(r.ozone_high_kg),
+    };
+    const key = `${a.fleetId}|${a.month ?? ''}|${a.aircraftCode ?? ''}`;
+    const seen = out.get(key);
+    if (!seen) out.set(key, a);
+    else for (const s of SUM_KEYS) seen[s] += a[s];
   }
-  if (by.aircraft) {
-    cols.push(k.raw('upper(fl.aircraft_code) as aircraft_code'));
-    groups.push(k.raw('upper(fl.aircraft_code)'));
-  }
-  const rows = (await q
-    .select(cols)
-    .count({ flights: '*' })
-    .sum({
-      distance_km: 'fl.distance_km',
-      fuel_kg: 'fl.fuel_kg',
-      nox_total_kg: 'fl.nox_total_kg',
-      nox_above_kg: 'fl.nox_above_kg',
-      ozone_central_kg: 'fl.ozone_central_kg',
-      ozone_low_kg: 'fl.ozone_low_kg',
-      ozone_high_kg: 'fl.ozone_high_kg',
-    })
-    .groupBy(groups)) as Row[];
-  const num = (v: unknown) => (v === null || v === undefined ? 0 : Number(v));
-  return rows.map((r) => ({
-    fleetId: r.fleet_id === null || r.fleet_id === undefined ? null : Number(r.fleet_id),
-    fleetName: (r.fleet_name as string | null) ?? null,
-    ...(by.month ? { month: String(r.month) } : {}),
-    ...(by.aircraft ? { aircraftCode: String(r.aircraft_code) } : {}),
-    flights: num(r.flights),
-    distanceKm: num(r.distance_km),
-    fuelKg: num(r.fuel_kg),
-    noxTotalKg: num(r.nox_total_kg),
-    noxAboveKg: num(r.nox_above_kg),
-    ozoneCentralKg: num(r.ozone_central_kg),
-    ozoneLowKg: num(r.ozone_low_kg),
-    ozoneHighKg: num(r.ozone_high_kg),
-  }));
+  return [...out.values()];
 }
 
 /** NOx above the tropopause per resolved fleet and cruise-level pair, for the fleet-scale context. */
@@ -374,23 +443,36 @@ export async function noxAboveByLevels(
   scope: { workspaceId: number },
   filters: FlightFilters,
 ): Promise<{ fleetId: number | null; cruiseFl: number; maxFl: number; noxAboveKg: number }[]> {
-  const rows = (await applyFilters(flightsWithFleet(db(), scope.workspaceId), filters)
-    .where('fl.nox_above_kg', '>', 0)
-    .select('f.id as fleet_id', 'fl.cruise_fl', 'fl.max_fl')
-    .sum({ nox_above_kg: 'fl.nox_above_kg' })
-    .groupBy('f.id', 'fl.cruise_fl', 'fl.max_fl')) as Row[];
-  return rows.map((r) => ({
-    fleetId: r.fleet_id === null || r.fleet_id === undefined ? null : Number(r.fleet_id),
-    cruiseFl: Number(r.cruise_fl),
-    maxFl: Number(r.max_fl),
-    noxAboveKg: Number(r.nox_above_kg ?? 0),
-  }));
+  const parts = await Promise.all(
+    sourcesOf(filters).map(
+      (src) =>
+        filtered(db(), scope.workspaceId, src, filters)
+          .where('fl.nox_above_kg', '>', 0)
+          .select('f.id as fleet_id', 'fl.cruise_fl', 'fl.max_fl')
+          .sum({ nox_above_kg: 'fl.nox_above_kg' })
+          .groupBy('f.id', 'fl.cruise_fl', 'fl.max_fl') as Promise<Row[]>,
+    ),
+  );
+  const out = new Map<string, { fleetId: number | null; cruiseFl: number; maxFl: number; noxAboveKg: number }>();
+  for (const r of parts.flat()) {
+    const row = {
+      fleetId: fleetOf(r.fleet_id),
+      cruiseFl: Number(r.cruise_fl),
+      maxFl: Number(r.max_fl),
+      noxAboveKg: num(r.nox_above_kg),
+    };
+    const key = `${row.fleetId}|${row.cruiseFl}|${row.maxFl}`;
+    const seen = out.get(key);
+    if (seen) seen.noxAboveKg += row.noxAboveKg;
+    else out.set(key, row);
+  }
+  return [...out.values()];
 }
 
 /** Aircraft type codes that have screened flights, for the filter's list. */
 export async function listFlownAircraftCodes(scope: { workspaceId: number }): Promise<string[]> {
-  const rows = (await db()('flights')
-    .where({ workspace_id: scope.workspaceId, status: 'screened' })
+  const rows = (await db()('flight_month_rollups')
+    .where({ workspace_id: scope.workspaceId })
     .distinct(db().raw('upper(aircraft_code) as code'))
     .orderBy('code')) as Row[];
   return rows.map((r) => String(r.code));
@@ -401,13 +483,23 @@ export async function countFlightsByEngineVersion(
   scope: { workspaceId: number },
   filters: FlightFilters,
 ): Promise<{ engineVersion: string; flights: number }[]> {
-  const rows = (await applyFilters(flightsWithFleet(db(), scope.workspaceId), filters)
-    .whereNotNull('fl.engine_version')
-    .groupBy('fl.engine_version')
-    .orderBy('fl.engine_version')
-    .select('fl.engine_version as v')
-    .count({ n: '*' })) as Row[];
-  return rows.map((r) => ({ engineVersion: String(r.v), flights: Number(r.n) }));
+  const k = db();
+  const parts = await Promise.all(
+    sourcesOf(filters).map((src) => {
+      const q = filtered(k, scope.workspaceId, src, filters);
+      if (src.rollup) q.where('fl.engine_version', '<>', '');
+      else q.whereNotNull('fl.engine_version');
+      return q
+        .groupBy('fl.engine_version')
+        .select('fl.engine_version as v', flightCount(k, src).wrap('', ' as n')) as Promise<Row[]>;
+    }),
+  );
+  const out = new Map<string, number>();
+  for (const r of parts.flat()) out.set(String(r.v), (out.get(String(r.v)) ?? 0) + num(r.n));
+  return [...out.entries()]
+    .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))
+    .filter(([, n]) => n > 0)
+    .map(([engineVersion, flights]) => ({ engineVersion, flights }));
 }
 
 /** Flights of the selection whose fuel was unusual for their distance: how many, and the first few. */
@@ -419,19 +511,24 @@ export async function listFuelWarnings(
   count: number;
   items: { date: string; flight: string; origin: string; destination: string; warning: string }[];
 }> {
-  const base = () =>
-    applyFilters(flightsWithFleet(db(), scope.workspaceId), filters)
+  const k = db();
+  const raw = { rollup: false as const, from: filters.from, to: filters.to };
+  const [counts, rows] = await Promise.all([
+    Promise.all(
+      sourcesOf(filters).map((src) => {
+        const q = filtered(k, scope.workspaceId, src, filters);
+        if (src.rollup) return q.select(k.raw('sum(fl.fuel_warnings) as n')) as Promise<Row[]>;
+        return q.whereNotNull('fl.fuel_warning').count({ n: '*' }) as Promise<Row[]>;
+      }),
+    ),
+    filtered(k, scope.workspaceId, raw, filters)
       .whereNotNull('fl.fuel_warning')
-      .andWhere('fl.status', 'screened');
-  const [counted, rows] = await Promise.all([
-    base().count({ n: '*' }).first() as Promise<{ n: number | string } | undefined>,
-    base()
       .select('fl.date', 'fl.flight', 'fl.origin', 'fl.destination', 'fl.fuel_warning')
       .orderBy([{ column: 'fl.date' }, { column: 'fl.id' }])
       .limit(limit) as Promise<Row[]>,
   ]);
   return {
-    count: Number(counted?.n ?? 0),
+    count: counts.flat().reduce((n, r) => n + num(r.n), 0),
     items: rows.map((r) => ({
       date: String(r.date),
       flight: String(r.flight),

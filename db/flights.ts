@@ -1,6 +1,7 @@
 import 'server-only';
 import type { Knex } from 'knex';
 import { db } from './client';
+import { splitByWholeMonths } from './flight-rollups';
 import type { FlightListQuery } from '@/lib/validation/imports';
 
 export type FlightStatus = 'pending' | 'screened' | 'failed';
@@ -94,9 +95,8 @@ export async function listFlights(
     .limit(limit + 1);
   if (cursor) {
     const [date, id] = cursor.split('~');
-    q.andWhere((w) =>
-      w.where('f.date', '<', date).orWhere((x) => x.where('f.date', date).andWhere('f.id', '<', Number(id))),
-    );
+    // `date <= d` first, so the index on (workspace_id, date, id) starts a deep page at its place.
+    q.andWhere('f.date', '<=', date).andWhere((w) => w.where('f.date', '<', date).orWhere('f.id', '<', Number(id)));
   }
   const rows = (await q) as Row[];
   const items = rows.slice(0, limit).map(toDto);
@@ -123,19 +123,52 @@ export async function summariseFlights(
   scope: { workspaceId: number },
   filters: FlightFilters = {},
 ): Promise<FlightTotals> {
-  const rows = (await applyFilters(db()('flights as f'), scope, filters)
-    .groupBy('f.status')
-    .select('f.status')
-    .count({ n: '*' })
-    .sum({
-      distance: 'f.distance_km',
-      fuel: 'f.fuel_kg',
-      nox: 'f.nox_total_kg',
-      above: 'f.nox_above_kg',
-      o3: 'f.ozone_central_kg',
-      o3low: 'f.ozone_low_kg',
-      o3high: 'f.ozone_high_kg',
-    })) as Row[];
+  const k = db();
+  const sums = {
+    distance: 'f.distance_km',
+    fuel: 'f.fuel_kg',
+    nox: 'f.nox_total_kg',
+    above: 'f.nox_above_kg',
+    o3: 'f.ozone_central_kg',
+    o3low: 'f.ozone_low_kg',
+    o3high: 'f.ozone_high_kg',
+  };
+  let rows: Row[];
+  if (filters.import !== undefined) {
+    rows = (await applyFilters(k('flights as f'), scope, filters)
+      .groupBy('f.status')
+      .select('f.status')
+      .count({ n: '*' })
+      .sum(sums)) as Row[];
+  } else {
+    // Screened flights of whole months come from the monthly roll-ups (the same columns, aliased f),
+    // part-months and the flights not yet screened from the rows.
+    const parts = splitByWholeMonths(filters.from, filters.to).map((src) => {
+      if (!src.rollup)
+        return applyFilters(k('flights as f'), scope, { ...filters, from: src.from, to: src.to })
+          .groupBy('f.status')
+          .select('f.status')
+          .count({ n: '*' })
+          .sum(sums) as Promise<Row[]>;
+      const q = k('flight_month_rollups as f')
+        .where('f.workspace_id', scope.workspaceId)
+        .whereBetween('f.month', [src.fromMonth, src.toMonth]);
+      if (filters.fleet !== undefined) q.andWhere('f.fleet_id', filters.fleet);
+      if (filters.aircraft) q.andWhere('f.aircraft_code', filters.aircraft.toUpperCase());
+      const unscreened = applyFilters(k('flights as f'), scope, {
+        ...filters,
+        from: `${src.fromMonth}-01`,
+        to: `${src.toMonth}-31`,
+      })
+        .whereIn('f.status', ['pending', 'failed'])
+        .groupBy('f.status')
+        .select('f.status')
+        .count({ n: '*' }) as Promise<Row[]>;
+      const screened = q.select(k.raw("'screened' as status")).sum({ n: 'f.flights', ...sums }) as Promise<Row[]>;
+      return Promise.all([screened, unscreened]).then(([a, b]) => [...a, ...b]);
+    });
+    rows = (await Promise.all(parts)).flat();
+  }
   const t: FlightTotals = {
     flights: 0,
     screened: 0,
@@ -150,19 +183,19 @@ export async function summariseFlights(
     ozoneHighKg: 0,
   };
   for (const r of rows) {
-    const n = Number(r.n);
+    const n = Number(r.n ?? 0);
     t.flights += n;
     if (r.status === 'screened') {
-      t.screened = n;
-      t.distanceKm = Number(r.distance ?? 0);
-      t.fuelKg = Number(r.fuel ?? 0);
-      t.noxTotalKg = Number(r.nox ?? 0);
-      t.noxAboveTropopauseKg = Number(r.above ?? 0);
-      t.ozoneCentralKg = Number(r.o3 ?? 0);
-      t.ozoneLowKg = Number(r.o3low ?? 0);
-      t.ozoneHighKg = Number(r.o3high ?? 0);
-    } else if (r.status === 'pending') t.pending = n;
-    else if (r.status === 'failed') t.failed = n;
+      t.screened += n;
+      t.distanceKm += Number(r.distance ?? 0);
+      t.fuelKg += Number(r.fuel ?? 0);
+      t.noxTotalKg += Number(r.nox ?? 0);
+      t.noxAboveTropopauseKg += Number(r.above ?? 0);
+      t.ozoneCentralKg += Number(r.o3 ?? 0);
+      t.ozoneLowKg += Number(r.o3low ?? 0);
+      t.ozoneHighKg += Number(r.o3high ?? 0);
+    } else if (r.status === 'pending') t.pending += n;
+    else if (r.status === 'failed') t.failed += n;
   }
   return t;
 }

@@ -2,6 +2,7 @@ import 'server-only';
 import type { Knex } from 'knex';
 import { db, insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
+import { adjustFlightRollups, pruneFlightRollups } from './flight-rollups';
 import { assertBillingAllows } from '@/lib/billing/gate';
 import { AppError, notFound } from '@/lib/errors';
 import type { ScreeningTotals } from '@/lib/screening';
@@ -378,6 +379,8 @@ export async function deleteImport(
       .whereIn('source_id', flightIds)
       .sum({ n: 'quantity' })
       .first()) as Row | undefined;
+    await adjustFlightRollups(trx, (q) => q.where({ workspace_id: scope.workspaceId, import_id: id }), -1);
+    await pruneFlightRollups(trx, [scope.workspaceId]);
     const flightsDeleted = await trx('flights').where({ workspace_id: scope.workspaceId, import_id: id }).delete();
     await trx('import_problems').where({ import_id: id }).delete();
     await trx('imports').where({ workspace_id: scope.workspaceId, id }).delete();
@@ -491,6 +494,7 @@ export async function saveScreenedChunk(importId: number, outcomes: ScreenedOutc
     const workspaceOf = new Map(screened.map((o) => [o.id, o.workspaceId]));
     for (let i = 0; i < screened.length; i += SCREENED_BATCH) {
       const ids = await markScreened(trx, screened.slice(i, i + SCREENED_BATCH), now);
+      if (ids.length) await adjustFlightRollups(trx, (q) => q.whereIn('id', ids), 1);
       await recordImportedFlightUnits(
         trx,
         ids.map((id) => ({ workspaceId: workspaceOf.get(id) ?? 0, sourceId: id })),
@@ -754,6 +758,10 @@ export async function saveRescreenChunk(
     const now = nowIso();
     let done = 0;
     let failed = 0;
+    // The figures of these flights change: their roll-ups are taken away and added back around it.
+    const changing = outcomes.filter((o) => 'figures' in o).map((o) => o.id);
+    const pick = (q: Knex.QueryBuilder) => q.whereIn('id', changing).where('import_id', job.importId);
+    if (changing.length) await adjustFlightRollups(trx, pick, -1);
     for (const o of outcomes) {
       if (!('figures' in o)) {
         failed += 1;
@@ -776,6 +784,11 @@ export async function saveRescreenChunk(
           screened_at: now,
         });
       done += n;
+    }
+    if (changing.length) {
+      await adjustFlightRollups(trx, pick, 1);
+      const workspaces = [...new Set(outcomes.map((o) => o.workspaceId))];
+      await pruneFlightRollups(trx, workspaces);
     }
     const last = outcomes.reduce((m, o) => Math.max(m, o.id), job.lastFlightId);
     await trx('imports')

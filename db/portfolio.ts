@@ -28,14 +28,13 @@ export async function getMonthSummaries(scope: {
   const { from, to } = monthBounds();
   const k = db();
   const [flights, screenings] = await Promise.all([
-    k('flights')
+    // A calendar month is whole: its imported flights' sums come from the monthly roll-ups.
+    k('flight_month_rollups')
       .whereIn('workspace_id', scope.workspaceIds)
-      .where('status', 'screened')
-      .whereBetween('date', [from, to])
+      .where('month', from.slice(0, 7))
       .groupBy('workspace_id')
       .select('workspace_id')
-      .count({ n: '*' })
-      .sum({ above: 'nox_above_kg', total: 'nox_total_kg' }),
+      .sum({ n: 'flights', above: 'nox_above_kg', total: 'nox_total_kg' }),
     k('screenings')
       .whereIn('workspace_id', scope.workspaceIds)
       .whereBetween('created_at', [from, `${to}T23:59:59.999Z`])
@@ -84,13 +83,12 @@ export async function getMonthlyTrend(scope: { workspaceId: number }, months = 6
   const from = `${keys[0]}-01`;
   const k = db();
   const [flights, screenings] = await Promise.all([
-    k('flights')
-      .where({ workspace_id: scope.workspaceId, status: 'screened' })
-      .whereBetween('date', [from, to])
-      .groupByRaw('substr(date, 1, 7)')
-      .select(k.raw('substr(date, 1, 7) as month'))
-      .count({ n: '*' })
-      .sum({ total: 'nox_total_kg', above: 'nox_above_kg', ozone: 'ozone_central_kg' }),
+    k('flight_month_rollups')
+      .where({ workspace_id: scope.workspaceId })
+      .whereBetween('month', [keys[0], keys[keys.length - 1]])
+      .groupBy('month')
+      .select('month')
+      .sum({ n: 'flights', total: 'nox_total_kg', above: 'nox_above_kg', ozone: 'ozone_central_kg' }),
     k('screenings')
       .where({ workspace_id: scope.workspaceId })
       .whereBetween('created_at', [from, `${to}T23:59:59.999Z`])
@@ -123,10 +121,10 @@ export async function getMonthlyTrend(scope: { workspaceId: number }, months = 6
 
 /** All imported flights of a workspace whose screening finished, whatever their date. */
 export async function countImportedFlightsScreened(scope: { workspaceId: number }): Promise<number> {
-  const r = (await db()('flights')
-    .where({ workspace_id: scope.workspaceId, status: 'screened' })
-    .count({ n: '*' })
-    .first()) as { n: number | string } | undefined;
+  const r = (await db()('flight_month_rollups')
+    .where({ workspace_id: scope.workspaceId })
+    .sum({ n: 'flights' })
+    .first()) as { n: number | string | null } | undefined;
   return Number(r?.n ?? 0);
 }
 

@@ -3,6 +3,7 @@ import type { Knex } from 'knex';
 import { findAirport, screenValidated, validateScreeningInput, type ScreeningInput } from '../lib/screening/index';
 import { todayIso } from '../lib/clock';
 import { seededRandom } from '../lib/random';
+import { rebuildFlightRollups } from '../db/flight-rollups';
 
 /**
  * Demo flights (invented schedules of the invented demo operators) over the three calendar months
@@ -516,6 +517,7 @@ export async function seed(knex: Knex): Promise<void> {
           rate_base_rows: 0,
         });
       }
+      await rebuildFlightRollups(trx, workspaceId);
     }
   });
 }

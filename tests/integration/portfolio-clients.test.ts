@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { makeWorkspace, useTestDatabase } from '../support/test-db';
+import { rebuildFlightRollups } from '@/db/flight-rollups';
 import { db, insertId } from '@/db/client';
 import { getClientStatuses } from '@/db/portfolio';
 import { copyLibrary } from '@/db/library-copy';
@@ -26,6 +27,8 @@ async function flight(workspaceId: number, date: string, above: number, total: n
     ozone_central_kg: 0,
     created_at: '2026-11-01T00:00:00.000Z',
   });
+  // Rows written straight into the table: their monthly roll-ups as the worker would keep them.
+  await rebuildFlightRollups(db(), workspaceId);
 }
 
 async function importRow(workspaceId: number, status: string, hash: string) {

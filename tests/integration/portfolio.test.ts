@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { makeWorkspace, useTestDatabase } from '../support/test-db';
+import { rebuildFlightRollups } from '@/db/flight-rollups';
 import { db } from '@/db/client';
 import { getMonthlyTrend, getMonthSummaries } from '@/db/portfolio';
 import { getBillableUnits, getUsageSummary } from '@/lib/billing/usage-summary';
@@ -25,6 +26,8 @@ async function flight(workspaceId: number, date: string, above: number, total: n
     ozone_central_kg: above / 2,
     created_at: new Date().toISOString(),
   });
+  // Rows written straight into the table: their monthly roll-ups as the worker would keep them.
+  await rebuildFlightRollups(db(), workspaceId);
 }
 
 describe('overview trend and month summary', () => {

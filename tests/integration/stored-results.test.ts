@@ -9,6 +9,7 @@ import * as importRescreenRoute from '@/app/api/v1/workspaces/[slug]/imports/[id
 import * as compareRoute from '@/app/api/v1/workspaces/[slug]/fleets/compare/route';
 import * as reportsRoute from '@/app/api/v1/workspaces/[slug]/reports/route';
 import { db, nowIso } from '@/db/client';
+import { rebuildFlightRollups } from '@/db/flight-rollups';
 import { ENGINE_VERSION } from '@/lib/screening';
 import { runImportsToCompletion } from '@/lib/imports/worker';
 import type { ImportDto } from '@/db/imports';
@@ -216,6 +217,7 @@ describe("re-screening an import's flights", () => {
     const ids = [...truth.keys()].sort((a, b) => a - b);
     const stale = ids.slice(0, 7);
     await db()('flights').whereIn('id', stale).update({ engine_version: OLD, nox_above_kg: 0 });
+    await rebuildFlightRollups(db(), ws.id);
 
     const path = `/api/v1/workspaces/${ws.slug}/imports/${up.body.id}`;
     const before = await call<ImportDto>(importRoute.GET, apiRequest('GET', path, { cookie }), {
@@ -312,6 +314,7 @@ describe('comparisons and reports name their engine versions', () => {
       (await db()('flights').where({ import_id: up.body.id }).orderBy('id').select('id')) as { id: number }[]
     ).map((f) => f.id);
     await db()('flights').whereIn('id', ids.slice(0, 2)).update({ engine_version: OLD });
+    await rebuildFlightRollups(db(), ws.id);
     const mixed = await compare();
     expect(mixed.body.engineVersions).toEqual([
       { engineVersion: OLD, flights: 2 },

@@ -1,4 +1,5 @@
 import { db } from '@/db/client';
+import { adjustFlightRollups } from '@/db/flight-rollups';
 
 const NOW = '2026-11-01T00:00:00.000Z';
 
@@ -47,7 +48,7 @@ export interface FlightFixture {
 
 let seq = 0;
 
-/** A screened flight row with known summary figures, exactly as the import worker leaves one. */
+/** A screened flight row with known summary figures and its roll-up, exactly as the import worker leaves them. */
 export async function insertFlight(workspaceId: number, f: FlightFixture): Promise<number> {
   seq += 1;
   const [central, low, high] = f.ozone ?? [f.noxAboveKg * 0.5, f.noxAboveKg * 0.1, f.noxAboveKg * 2];
@@ -79,5 +80,8 @@ export async function insertFlight(workspaceId: number, f: FlightFixture): Promi
       created_at: NOW,
     })
     .returning('id');
-  return typeof id === 'object' ? Number(id.id) : Number(id);
+  const flightId = typeof id === 'object' ? Number(id.id) : Number(id);
+  // The worker keeps the monthly roll-ups in the transaction that screens a flight; so does this row.
+  await adjustFlightRollups(db(), (q) => q.where('id', flightId), 1);
+  return flightId;
 }

@@ -4,6 +4,7 @@ import { apiRequest, call, makeWorkspace, onPostgres, sessionCookie, useTestData
 import * as reportsRoute from '@/app/api/v1/workspaces/[slug]/reports/route';
 import * as pdfRoute from '@/app/api/v1/workspaces/[slug]/reports/[id]/pdf/route';
 import { db } from '@/db/client';
+import { rebuildFlightRollups } from '@/db/flight-rollups';
 import { insertFleet, insertType } from '../fleets/flight-fixtures';
 
 useTestDatabase();
@@ -24,6 +25,8 @@ async function bulkFlights(workspaceId: number, fleets: [number, number], types:
      from n`,
     [FLIGHTS, workspaceId, types[0], types[1], fleets[0], fleets[1]],
   );
+  // Rows written straight into the table: their monthly roll-ups as the worker would keep them.
+  await rebuildFlightRollups(db(), workspaceId);
 }
 
 describe.skipIf(onPostgres())('a report of a big fleet', () => {
