@@ -70,7 +70,10 @@ export async function adjustFlightRollups(trx: K, where: (q: Knex.QueryBuilder) 
   const q = trx('flights').where('status', 'screened');
   where(q);
   const sums = SUMS_OF_FLIGHTS.map((e) => (sign === 1 ? e : `-${e}`));
-  q.select(trx.raw([...KEY_OF_FLIGHT, ...sums].join(', '))).groupByRaw(KEY_OF_FLIGHT.join(', '));
+  // Ordered by the key, so concurrent writers on PostgreSQL lock the same roll-up rows in the same order.
+  q.select(trx.raw([...KEY_OF_FLIGHT, ...sums].join(', ')))
+    .groupByRaw(KEY_OF_FLIGHT.join(', '))
+    .orderByRaw(KEY_OF_FLIGHT.join(', '));
   const { sql, bindings } = q.toSQL();
   await trx.raw(`${INSERT} ${sql} ${UPSERT}`, bindings as Knex.RawBinding[]);
 }

@@ -3,7 +3,8 @@
  * the 12 months up to DEMO_TODAY, in `skarn-polar` of the demo), on SQLite and, when Debian's
  * PostgreSQL is installed, on PostgreSQL; then, through the built app on 127.0.0.1: the fleet
  * comparison for the year (API and page), the overview, the flights list (first page and a deep one,
- * page and API), a fleet report (build, PDF, CSV), and the web server's peak memory. Figures beside
+ * page and API), a fleet report (build, PDF, CSV), and the web server's peak memory. The comparison
+ * with a route filter is timed too: the roll-ups keep no airports, so it still sums the flight rows. Figures beside
  * the targets (comparison and overview under 1 s, list pages under 200 ms, report under 15 s, server
  * RSS under 800 MB); never pass or fail.
  *
@@ -479,6 +480,13 @@ async function measureApp(app: RunningApp, k: Knex, ws: Workspace): Promise<Timi
   );
   out.push(
     await timed('fleet comparison, year, API (by fleet)', 1000, get(`${api}/fleets/compare?${year}&groupBy=fleet`)),
+  );
+  out.push(
+    await timed(
+      'fleet comparison, year, API, route filter',
+      1000,
+      get(`${api}/fleets/compare?${year}&groupBy=fleet&route=EGLL`),
+    ),
   );
   out.push(await timed('fleets page, year (by month)', 1000, get(`/w/${SLUG}/fleets?${year}&groupBy=month`)));
   out.push(await timed('fleets page, default period', 1000, get(`/w/${SLUG}/fleets`)));
