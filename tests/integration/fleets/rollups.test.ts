@@ -14,6 +14,9 @@ import { runImportsToCompletion } from '@/lib/imports/worker';
 import { ENGINE_VERSION } from '@/lib/screening';
 import type { FleetCompareQuery } from '@/lib/validation/fleets';
 import { addScheduleLibrary, csv, uploadRequest } from '../imports/support';
+import { seed as seedAccounts } from '@/seeds/01_demo_accounts';
+import { seed as seedEngines } from '@/seeds/02_demo_engines';
+import { seed as seedFlights } from '@/seeds/03_demo_flights';
 import { insertFlight, insertType } from './flight-fixtures';
 
 useTestDatabase({ DEMO_TODAY: '2026-11-20' });
@@ -277,6 +280,25 @@ describe('monthly roll-ups follow every write of screened flights', () => {
     await deleteImport(scope(), importA, { userId: null, label: 'test' });
     await expectRollupsMatchRows(ws.id);
     expect(await db()('flight_month_rollups').where({ workspace_id: ws.id })).toEqual([]);
+  });
+});
+
+describe('the demo seed', () => {
+  it('leaves roll-ups equal to its flights, also when run twice', async () => {
+    await seedAccounts(db());
+    await seedEngines(db());
+    await seedFlights(db());
+    await seedFlights(db());
+    const spaces = (await db()('workspaces').whereIn('slug', [
+      'skarn-polar',
+      'velloway-jets',
+      'kestrel-mach',
+    ])) as Row[];
+    expect(spaces).toHaveLength(3);
+    for (const w of spaces) {
+      expect(await db()('flight_month_rollups').where({ workspace_id: w.id })).not.toEqual([]);
+      await expectRollupsMatchRows(Number(w.id));
+    }
   });
 });
 
