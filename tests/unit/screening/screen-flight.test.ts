@@ -63,7 +63,7 @@ describe('the public result contract', () => {
       expect(r.segments[0]).toHaveProperty(k);
     }
     expect(r.engineVersion).toBe(ENGINE_VERSION);
-    expect(ENGINE_VERSION).toBe('2026.12.3');
+    expect(ENGINE_VERSION).toBe('2026.12.4');
   });
 
   it('NOx = fuel x EI for a direct EI; N mass = 0.30446 x NO2 mass (molar masses 14.0067 / 46.0055); CO2 = 3.16 x fuel (ICAO CORSIA)', () => {
