@@ -80,8 +80,6 @@ const TAU_GRID_MAX = 20;
 const TAU_GRID_N = 28;
 const LN_TAU_MIN = Math.log(TAU_GRID_MIN);
 const LN_TAU_STEP = (Math.log(TAU_GRID_MAX) - LN_TAU_MIN) / (TAU_GRID_N - 1);
-// Longest transient followed, days (the difference to the periodic state has decayed long before).
-const TRANSIENT_DAYS = DAYS;
 
 /** One latitude row: Fourier coefficients (re, im per harmonic 0..HARMONICS) and the transient table. */
 interface Row {
@@ -186,35 +184,38 @@ function buildRow(r: number): Row {
   }
   if (!converts) return { series, transient: null, meanTransient: null };
   // Transient: emitted at the start of day k0 with a = 1 while the periodic state has aStart[k0];
-  // the difference decays as the periodic state does, exp(-lambda) per day.
+  // the difference decays as the periodic state does, delta(k) = delta0 exp(-(E(k) - E(k0))) with
+  // E the running sum of lambda. Its weighted sum is a backward recursion per tau over two years
+  // unrolled (each start followed for a year, after which the difference has long gone):
+  // S(k) = (1 - kappa) dayMean(k) exp(-E(k)) g(k) + kappa S(k + 1), transient(k0) = delta0 exp(E(k0)) S(k0).
+  const span = 2 * DAYS;
+  const e = new Float64Array(span + 1);
+  for (let k = 0; k < span; k++) e[k + 1] = e[k] + lam[k % DAYS];
+  const qd = new Float64Array(span);
+  const qc = new Float64Array(span);
+  for (let k = 0; k < span; k++) {
+    const f = dayMeanFactor(lam[k % DAYS]) * Math.exp(-e[k]);
+    qd[k] = f * dF[k % DAYS];
+    qc[k] = f * cF[k % DAYS];
+  }
   const transient = new Float64Array(DAYS * TAU_GRID_N * 2);
   const meanTransient = new Float64Array(TAU_GRID_N * 2);
-  const keep = new Float64Array(TAU_GRID_N);
-  const first = new Float64Array(TAU_GRID_N);
   for (let j = 0; j < TAU_GRID_N; j++) {
-    const tauDays = Math.exp(LN_TAU_MIN + j * LN_TAU_STEP) * DAYS;
-    keep[j] = Math.exp(-1 / tauDays);
-    first[j] = 1 - keep[j];
-  }
-  const w = new Float64Array(TAU_GRID_N);
-  for (let k0 = 0; k0 < DAYS; k0++) {
-    let delta = 1 - aStart[k0];
-    if (delta <= 1e-9) continue;
-    w.set(first);
-    const o = k0 * TAU_GRID_N * 2;
-    for (let n = 0; n < TRANSIENT_DAYS && delta > 1e-4; n++) {
-      const k = (k0 + n) % DAYS;
-      const mean = delta * dayMeanFactor(lam[k]);
-      const gd = mean * dF[k];
-      const gc = mean * cF[k];
-      for (let j = 0; j < TAU_GRID_N; j++) {
-        transient[o + 2 * j] += w[j] * gd;
-        transient[o + 2 * j + 1] += w[j] * gc;
-        w[j] *= keep[j];
+    const kappa = Math.exp(-1 / (Math.exp(LN_TAU_MIN + j * LN_TAU_STEP) * DAYS));
+    let sd = 0;
+    let sc = 0;
+    for (let k = span - 1; k >= 0; k--) {
+      sd = (1 - kappa) * qd[k] + kappa * sd;
+      sc = (1 - kappa) * qc[k] + kappa * sc;
+      if (k < DAYS) {
+        const scale = (1 - aStart[k]) * Math.exp(e[k]);
+        const o = k * TAU_GRID_N * 2 + 2 * j;
+        transient[o] = scale * sd;
+        transient[o + 1] = scale * sc;
+        meanTransient[2 * j] += transient[o] / DAYS;
+        meanTransient[2 * j + 1] += transient[o + 1] / DAYS;
       }
-      delta *= Math.exp(-lam[k]);
     }
-    for (let j = 0; j < 2 * TAU_GRID_N; j++) meanTransient[j] += transient[o + j] / DAYS;
   }
   return { series, transient, meanTransient };
 }
