@@ -410,7 +410,7 @@ function describeAssumptions(
           : SOURCE_INPUT,
     },
     rateConstants:
-      'JPL Publication 19-5 (Burkholder et al. 2019): Arrhenius and termolecular parameters (k0, kinf at 300 K), NO2 + O in the chemical-activation form with [M]',
+      'JPL Publication 19-5 (Burkholder et al. 2019): Arrhenius and termolecular parameters (k0, kinf at 300 K), NO2 + O in the chemical-activation form with [M]; NO + O3, O + NO2 (both channels), O + O2 + M, OH + NO2 + M and HO2 + NO as in CRACMM v1.0 (US EPA CMAQ, inorganic rate constants updated to JPL 19-5 in 2021)',
     band: BAND_TEXT,
     formula: FORMULA,
   };
