@@ -313,8 +313,8 @@ describe('figures that point the right way (fast-check)', () => {
   // Same tropopause, ozone profile and level, so that only the sunlight differs: NOx emitted into the
   // polar night meets sunlight only when it returns. (With the climatology the winter tropopause is
   // lower, so the same level is deeper and stays longer: that difference is real, not a sunlight one.)
-  // Shallow injections (at most 1.5 km above, residence under half a year): over a window of half a
-  // year or more, night and day starts meet about the same sunlight.
+  // Shallow injections (at most 1.5 km above, residence under half a year), so that the weighting
+  // exp(-t/tau) keeps most of the weight on the first months after the flight.
   const polar = (lat: number, flightDate: string, fl: number) =>
     screenFlight({
       route: {
