@@ -86,7 +86,9 @@ export function AssumptionsList({
                 </th>
                 <td colSpan={3} className="py-1.5 pr-3 text-right">
                   day fraction {sci(a.sunlight.dayFraction)}, daily-mean cos zenith {sci(a.sunlight.meanCosZenith)},
-                  daytime cos zenith {sci(a.sunlight.daytimeCosZenith)}, over {sci(a.sunlight.residenceWindowYears)} yr
+                  daytime cos zenith {sci(a.sunlight.daytimeCosZenith)}, e-folding residence{' '}
+                  {sci(a.sunlight.residenceWindowYears)} yr
+                  {a.sunlight.activeShare !== undefined ? `, NOx active share ${sci(a.sunlight.activeShare)}` : ''}
                 </td>
                 <td className="py-1.5 text-xs text-ink-soft">{a.sunlight.source}</td>
               </tr>

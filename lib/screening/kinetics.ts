@@ -40,25 +40,41 @@ export interface ChemicalActivationParameters {
 /** Reference temperature of the JPL termolecular parameters, K. */
 export const JPL_TERMOLECULAR_REFERENCE_K = 300;
 
-/** JPL 19-5 parameters per reaction (values as listed in its tables, from memory: confirm there). */
+/**
+ * JPL 19-5 parameters per reaction. Confirmed: the lines marked "CRACMM" agree digit for digit with
+ * the CRACMM v1.0 mechanism of the US EPA CMAQ model, whose inorganic rate constants were updated to
+ * JPL 19-5 in October 2021 (its mech.def diff: O3 + NO, O3P + O2 + M, NO + HO2, NO2 + O3P -> NO and
+ * -> NO3, NO2 + HO -> HNO3), and termolecular limits are JPL 19-5 Table 2-1 values at 300 K. The
+ * lines marked "unchanged" were not seen in a 19-5 table here: they agree with mechanisms built on
+ * the earlier JPL evaluations (GEOS-Chem full chemistry, the GMI JPL 06-2 mechanism) and JPL 19-5's
+ * k(298) in its Table 1 as recalled (from memory; tests/unit/screening/kinetics.test.ts).
+ */
 export const JPL_19_5: Readonly<
   Record<Reaction, ArrheniusParameters | TermolecularParameters | ChemicalActivationParameters>
 > = Object.freeze({
+  // CRACMM: O3 + NO = NO2, 3.0E-12 @ 1500.
   'NO+O3': { kind: 'arrhenius', a: 3.0e-12, eOverRK: 1500 },
-  // O + NO2 -> NO + O2 competes with O + NO2 + M -> NO3 (k0 3.4e-31, n 1.6, kinf 2.3e-11, m 0.2).
+  // CRACMM: NO2 + O3P = NO, 5.3E-12 @ -200; NO2 + O3P = NO3, 3.4E-31 ^ -1.6 & 2.3E-11 ^ -0.2
+  // (k0 at 300 K with n = 1.6, kinf 2.3e-11 with m = 0.2): JPL 19-5's chemical-activation pair.
   'NO2+O': {
     kind: 'chemical-activation',
     a: 5.3e-12,
     eOverRK: -200,
     association: { kind: 'termolecular', k0At300: 3.4e-31, n: 1.6, kInfAt300: 2.3e-11, m: 0.2 },
   },
+  // Unchanged: 8.0e-12 exp(-2060/T), k(298) 8.0e-15.
   'O+O3': { kind: 'arrhenius', a: 8.0e-12, eOverRK: 2060 },
+  // Unchanged: 1.7e-12 exp(-940/T) (GEOS-Chem, GMI), k(298) 7.3e-14.
   'OH+O3': { kind: 'arrhenius', a: 1.7e-12, eOverRK: 940 },
+  // Unchanged: 3.0e-11 exp(200/T) (GEOS-Chem), k(298) 5.9e-11.
   'HO2+O': { kind: 'arrhenius', a: 3.0e-11, eOverRK: -200 },
+  // Unchanged: 1.0e-14 exp(-490/T) (GEOS-Chem, GMI), k(298) 1.9e-15.
   'HO2+O3': { kind: 'arrhenius', a: 1.0e-14, eOverRK: 490 },
-  // One line of JPL 19-5 table 1: A and E/R as listed; k(298) = 8.2e-12 follows from them.
+  // CRACMM: NO + HO2 = NO2 + HO, 3.44E-12 @ -260 (one line: k(298) = 8.2e-12 follows from it).
   'HO2+NO': { kind: 'arrhenius', a: 3.44e-12, eOverRK: -260 },
+  // CRACMM: O3P + O2 + M = O3, 6.10E-34 ^ -2.4 (low-pressure limit at 300 K).
   'O+O2+M': { kind: 'termolecular', k0At300: 6.1e-34, n: 2.4, kInfAt300: null, m: 0 },
+  // CRACMM: NO2 + HO = HNO3, 1.80E-30 ^ -3.0 & 2.80E-11 ^ 0.0.
   'OH+NO2+M': { kind: 'termolecular', k0At300: 1.8e-30, n: 3.0, kInfAt300: 2.8e-11, m: 0 },
 });
 

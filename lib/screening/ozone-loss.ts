@@ -180,7 +180,7 @@ export const EXTRATROPICAL_RESIDENCE_FULL_LAT = 30;
 
 /** Sources of the residence-time defaults, shown beside the values. */
 export const RESIDENCE_SOURCE =
-  'Extratropics: flushed within weeks to months just above the tropopause, 1-2 years at 16-20 km (IPCC 1999, Aviation and the Global Atmosphere, ch. 2 and 4; Holton et al. 1995, Rev. Geophys. 33, 403). Tropics: lofted by the Brewer-Dobson upwelling, mean age of air 1-3 years in the tropical lower and middle stratosphere (Waugh & Hall 2002, Rev. Geophys. 40, 1010). Node values are screening values read from that picture, from memory: override them with a published table where one is adopted.';
+  'E-folding (mean) residence above the tropopause; no table by latitude and depth was found in the sources below, so the node values are read from their descriptions (screening values). Extratropics, 0.1 yr at the tropopause to 2 yr at 9 km above: emissions near the extratropical tropopause are flushed within weeks to months and stay 1-2 years at 16-20 km (IPCC 1999, Aviation and the Global Atmosphere, ch. 2 and 4; the lowermost stratosphere is flushed within months, Holton et al. 1995, Rev. Geophys. 33, 403); aircraft emissions deposited in the stratosphere stay about 50 days, shorter in January than July (Gettelman 1999, PhD thesis, University of Washington), between the 0 km and 1 km nodes (36 and 91 days); a single e-folding time fits emissions near the tropopause and underweights those far above it (Wilcox, Shine & Hoskins 2012, Atmos. Environ. 63, 1). Tropics, 1 yr at the tropopause to 3 yr at 6-9 km above: NOx is lofted by the Brewer-Dobson upwelling; mean age of air is about 1 yr at 20 km over the equator and 4-5 yr at high latitudes (Waugh & Hall 2002, Rev. Geophys. 40, 1010, and their zonal-mean schematic), and residence time runs against age (a near-uniform total transit time at each altitude; Observing stratospheric residence time from opposing transport timescales, Research Square preprint 10.21203/rs.3.rs-9087641/v1), so tropical injections stay longest. At most 5 yr: the slowest decay mode of the whole stratosphere is 3.8-5.3 yr (Ehhalt, Rohrer, Schauffler & Prather 2004, J. Geophys. Res. 109). Override with a published table where one is adopted (e.g. the EMAC idealised-tracer residence times by latitude and altitude, Pletzer 2026, Zenodo 10.5281/zenodo.17484648).';
 
 /**
  * Defaults: screening values of the right order of magnitude, given from memory; each is
@@ -195,7 +195,15 @@ export const DEFAULT_OZONE_INPUTS: Readonly<OzoneInputs> = Object.freeze({
   noxToNoyFraction: Object.freeze({ central: 0.2, low: 0.1, high: 0.4 }),
   residenceTime: Object.freeze({
     depthKm: Object.freeze([0, 1, 2, 4, 6, 9]),
+    // Extratropics (RESIDENCE_SOURCE): 0.1 yr = "weeks to months" at the tropopause (IPCC 1999 ch. 2
+    // and 4; Holton et al. 1995), with 0.1-0.25 yr at 0-1 km bracketing the about 50 days of aircraft
+    // emissions in the stratosphere (Gettelman 1999); 1.0-2.0 yr at 4-9 km above, i.e. 14-20 km over a 10-11 km
+    // tropopause = "1-2 years at 16-20 km" (IPCC 1999 ch. 4); between, linear in the sense of
+    // Wilcox et al. 2012 (longer than one e-folding far above the tropopause). Read from descriptions.
     years: Object.freeze([0.1, 0.25, 0.5, 1.0, 1.5, 2.0]),
+    // Tropics (RESIDENCE_SOURCE): 1 yr at the tropopause (tropical mean age about 1 yr at 20 km,
+    // Waugh & Hall 2002, with residence running against age) to 3 yr at 6-9 km above, below the 5 yr
+    // bound of the slowest stratospheric mode (Ehhalt et al. 2004). Read from descriptions.
     tropicalYears: Object.freeze([1.0, 1.5, 2.0, 2.5, 3.0, 3.0]),
     lowFactor: 0.5,
     highFactor: 2,

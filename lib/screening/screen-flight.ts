@@ -67,7 +67,7 @@ import { validateScreeningInput } from './validate';
 import { OZONE_PROFILE_NAMES, SCREENING_LIMITS, type ScreeningInput } from '../validation/screening';
 
 /** Version of the methods; saved results carry it so they can be told apart and recomputed. */
-export const ENGINE_VERSION = '2026.12.3';
+export const ENGINE_VERSION = '2026.12.4';
 
 /** Default cruise Mach used for timing. */
 export const DEFAULT_MACH = 0.8;
@@ -132,7 +132,12 @@ export interface OzoneAssumptionsUsed {
     dayFraction: number;
     meanCosZenith: number;
     daytimeCosZenith: number;
+    /** NOx-weighted e-folding residence the sunlight is weighted over, years. */
     residenceWindowYears: number;
+    /** Weighted sunlit fraction of the day from geometry alone (before the dark conversion). */
+    sunlitFraction: number;
+    /** Share of the sunlit time the emission is active as NOx (1 without polar night; dark conversion to HNO3). */
+    activeShare: number;
     source: string;
   };
   noxToNoyFraction: Band & { source: string };
@@ -320,10 +325,10 @@ const SOURCE_J =
   'default: overhead-sun reference, given from memory, scaled by the daytime-mean cos of the solar zenith angle (a screening approximation: J falls more slowly than cos zenith)';
 const SOURCE_INPUT = 'given with the flight';
 const SUN_SOURCE =
-  "Solar declination by Cooper (1969), daily-mean cos zenith and day length from the sunset hour angle, for each segment's latitude, averaged over the central residence window that starts on the flight date (the mid-month day with a month, the whole year without either)";
+  "Solar declination by Cooper (1969), daily-mean cos zenith and day length from the sunset hour angle, for each segment's latitude, weighted by the share of the emission still above the tropopause, exp(-t/tau) with tau the central residence (e-folding) time, from the flight date on (the mid-month day with a month; all start days alike without either). In polar night the NOx turns into HNO3 within days (NO2 + O3, N2O5 hydrolysis on sulfate aerosol; e-folding 5 days when nights exceed 18 h) and comes back only in sunlight (HNO3 photolysis and OH, e-folding 60 days under an equinoctial equatorial sun, slower under a low sun; Brasseur & Solomon 2005, ch. 5, from memory): the loss counts only the active share";
 
 const FORMULA =
-  "O3 destroyed = N_NOx x 2 k(NO2+O)(T,[M]) [O] x D x f_NO2 x f_NOx/NOy x tau(latitude, depth); [O] = [O3] s J(O3) / (k(O+O2+M) [O2] [M]); f_NO2 from [NO2]/[NO] = k(NO+O3)[O3] / (s J(NO2) + k(NO2+O)[O]); s the daytime-mean cos zenith and D the sunlit fraction over the residence window; T, [M] and [O3] at the flight level's height in the climatological column.";
+  "O3 destroyed = N_NOx x 2 k(NO2+O)(T,[M]) [O] x D x f_NO2 x f_NOx/NOy x tau(latitude, depth); [O] = [O3] s J(O3) / (k(O+O2+M) [O2] [M]); f_NO2 from [NO2]/[NO] = k(NO+O3)[O3] / (s J(NO2) + k(NO2+O)[O]); s the daytime-mean cos zenith and D the sunlit fraction times the active NOx share, both weighted by exp(-t/tau) over the stay; T, [M] and [O3] at the flight level's height in the climatological column.";
 const BAND_TEXT =
   'Low and high: every input at its low (high) end together (J(O3), f_NOx/NOy and residence time low with J(NO2) high, and the reverse): a deliberately wide screening range, not a confidence interval.';
 const TAU_TEXT =
@@ -340,6 +345,7 @@ interface SunSums {
   meanCos: number;
   daytimeCos: number;
   tauYears: number;
+  sunlit: number;
 }
 
 function describeAssumptions(
@@ -370,7 +376,7 @@ function describeAssumptions(
             central: d,
             low: d,
             high: d,
-            source: `derived: sunlit fraction of the day from solar geometry (${SUN_SOURCE})`,
+            source: `derived: sunlit fraction of the day from solar geometry times the share of the emission active as NOx (${SUN_SOURCE})`,
           }
         : describeBand(a?.daylightFactor, dl),
     sunlight: {
@@ -378,6 +384,8 @@ function describeAssumptions(
       meanCosZenith: mean(sun.meanCos),
       daytimeCosZenith: mean(sun.daytimeCos),
       residenceWindowYears: mean(sun.tauYears),
+      sunlitFraction: mean(sun.sunlit),
+      activeShare: sun.sunlit > 0 ? sun.dayFraction / sun.sunlit : 1,
       source: SUN_SOURCE,
     },
     noxToNoyFraction: describeBand(a?.noxToNoyFraction, inputs.noxToNoyFraction),
@@ -402,7 +410,7 @@ function describeAssumptions(
           : SOURCE_INPUT,
     },
     rateConstants:
-      'JPL Publication 19-5 (Burkholder et al. 2019): Arrhenius and termolecular parameters (k0, kinf at 300 K), NO2 + O in the chemical-activation form with [M]',
+      'JPL Publication 19-5 (Burkholder et al. 2019): Arrhenius and termolecular parameters (k0, kinf at 300 K), NO2 + O in the chemical-activation form with [M]; NO + O3, O + NO2 (both channels), O + O2 + M, OH + NO2 + M and HO2 + NO as in CRACMM v1.0 (US EPA CMAQ, inorganic rate constants updated to JPL 19-5 in 2021)',
     band: BAND_TEXT,
     formula: FORMULA,
   };
@@ -715,7 +723,13 @@ interface WalkContext {
   full: boolean;
 }
 
-const SUN_SCRATCH: WindowSunlight = { dayFraction: 0, meanCosZenith: 0, daytimeCosZenith: 0 };
+const SUN_SCRATCH: WindowSunlight = {
+  dayFraction: 0,
+  meanCosZenith: 0,
+  daytimeCosZenith: 0,
+  sunlitFraction: 0,
+  activeShare: 1,
+};
 
 /** Ozone loss and sunlight of one segment above the tropopause, added to the totals; returns kg O3 (central). */
 function segmentOzone(
@@ -744,6 +758,7 @@ function segmentOzone(
   t.sun.meanCos += nox * sun.meanCosZenith;
   t.sun.daytimeCos += nox * s;
   t.sun.tauYears += nox * tau;
+  t.sun.sunlit += nox * sun.sunlitFraction;
   return ozoneKg(central);
 }
 
@@ -758,7 +773,7 @@ function walkSegments(ctx: WalkContext, segments: ScreeningSegment[]): Totals {
     o3Low: 0,
     o3High: 0,
     slotsUsed: 0,
-    sun: { nox: 0, dayFraction: 0, meanCos: 0, daytimeCos: 0, tauYears: 0 },
+    sun: { nox: 0, dayFraction: 0, meanCos: 0, daytimeCos: 0, tauYears: 0, sunlit: 0 },
   };
   const { plan, cp, tp, fixedSlot } = ctx;
   const climatology = tp.source === 'climatology';
@@ -1016,7 +1031,7 @@ function methodLines(
       ? `EI NOx ${emission.eiNoxGPerKg} g/kg as entered, the same at every level.`
       : `EI NOx from engine certification data by ${eiMethod === 'bffm2' ? 'Boeing Fuel Flow Method 2 (DuBois & Paynter 2006, SAE 2006-01-1987)' : 'the DLR fuel-flow method (Deidewig, Doepelheuer & Lecht 1996)'}, the other method shown beside it; cruise fuel flow per engine ${(fuelKgPerS / ('engineCount' in emission ? emission.engineCount : 1)).toFixed(3)} kg/s; Mach ${fmt(machEi, 2)}; humidity term -19.0 (omega - 0.0063) with omega the humidity ratio at relative humidity ${inputs.relativeHumidity} (Goff-Gratch saturation pressure); the log-log curve is valid from idle to take-off and its end EI is held beyond them; at most ${SCREENING_LIMITS.maxEiNoxGPerKg} g/kg.`,
     `Temperature for the EI correction from ${tp.sounding !== null ? 'the sounding where it covers the level, else ISA' : 'ISA'}; temperature, air density and ozone for the chemistry at the flight level's height in the climatological column (${AFGL_COLUMN_SOURCE})${tp.sounding !== null ? ', with the sounding temperature where it covers the level' : ''}. NOx is NO2-equivalent mass; N mass = 0.30446 x NO2 mass; CO2 = 3.16 kg per kg fuel (ICAO CORSIA).`,
-    `Sunlight: ${SUN_SOURCE}; the overhead-sun J values are scaled by the daytime-mean cos zenith and the loss by the sunlit fraction of the day.`,
+    `Sunlight: ${SUN_SOURCE}; the overhead-sun J values are scaled by the daytime-mean cos zenith and the loss by the sunlit fraction of the day times the active NOx share.`,
   ];
 }
 

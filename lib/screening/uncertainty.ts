@@ -241,7 +241,13 @@ export function buildKernel(input: ScreeningInput, result: ScreeningResult): Ker
           : TROPOPAUSE_SIGMA_M.given,
   };
   const coefCache = new Map<number, Float64Array>();
-  const sun: WindowSunlight = { dayFraction: 0, meanCosZenith: 0, daytimeCosZenith: 0 };
+  const sun: WindowSunlight = {
+    dayFraction: 0,
+    meanCosZenith: 0,
+    daytimeCosZenith: 0,
+    sunlitFraction: 0,
+    activeShare: 1,
+  };
   const jc = inputs.jO3NoonPerS.central;
   const jnc = inputs.jNo2NoonPerS.central;
   const fc = inputs.noxToNoyFraction.central;
@@ -296,7 +302,13 @@ export interface Figures {
   o3Molecules: number;
 }
 
-const SCRATCH_SUN: WindowSunlight = { dayFraction: 0, meanCosZenith: 0, daytimeCosZenith: 0 };
+const SCRATCH_SUN: WindowSunlight = {
+  dayFraction: 0,
+  meanCosZenith: 0,
+  daytimeCosZenith: 0,
+  sunlitFraction: 0,
+  activeShare: 1,
+};
 
 function levelRatios(k: Kernel, d: Draw, out: Float64Array): void {
   const cap = SCREENING_LIMITS.maxEiNoxGPerKg;

@@ -225,6 +225,29 @@ describe('residence time by latitude (tropical upwelling vs extratropical flushi
     expect(residenceTimeYears(0, given, 0)).toBeCloseTo(2, 12);
   });
 
+  it('injections where airliners put most of their stratospheric NOx, 0-1 km above the extratropical tropopause, stay 0.1-0.25 yr (36-91 days): the same order as the about 50 days found for aircraft emissions deposited in the stratosphere (Gettelman 1999, PhD thesis, University of Washington, transport and trajectory models)', () => {
+    for (const lat of [40, 55, 70, -50]) {
+      for (const d of [0, 0.25, 0.5, 0.75, 1]) {
+        const days = residenceTimeYears(d, rt, lat) * 365;
+        expect(days).toBeGreaterThan(50 / 2);
+        expect(days).toBeLessThan(50 * 2);
+      }
+    }
+  });
+
+  it('deeper injections stay longer, in the tropics and the extratropics (IPCC 1999 ch. 4: 1-2 years at 16-20 km)', () => {
+    for (const lat of [0, 45, -60]) {
+      let last = 0;
+      for (const d of [0, 1, 2, 4, 6, 9]) {
+        const y = residenceTimeYears(d, rt, lat);
+        expect(y).toBeGreaterThanOrEqual(last);
+        last = y;
+      }
+    }
+    expect(residenceTimeYears(6, rt, 45)).toBeGreaterThanOrEqual(1);
+    expect(residenceTimeYears(9, rt, 45)).toBeLessThanOrEqual(2);
+  });
+
   it('stays within the physical bound of about 5 years (mean age of stratospheric air, Waugh & Hall 2002)', () => {
     fc.assert(
       fc.property(

@@ -313,8 +313,8 @@ describe('figures that point the right way (fast-check)', () => {
   // Same tropopause, ozone profile and level, so that only the sunlight differs: NOx emitted into the
   // polar night meets sunlight only when it returns. (With the climatology the winter tropopause is
   // lower, so the same level is deeper and stays longer: that difference is real, not a sunlight one.)
-  // Shallow injections (at most 1.5 km above, residence under half a year): over a window of half a
-  // year or more, night and day starts meet about the same sunlight.
+  // Shallow injections (at most 1.5 km above, residence under half a year), so that the weighting
+  // exp(-t/tau) keeps most of the weight on the first months after the flight.
   const polar = (lat: number, flightDate: string, fl: number) =>
     screenFlight({
       route: {
@@ -345,6 +345,50 @@ describe('figures that point the right way (fast-check)', () => {
       ),
       { numRuns: 40 },
     );
+  });
+
+  // The whole engine, climatology and all: the winter tropopause is lower (the same level is deeper
+  // and stays longer) and the winter ozone profile differs, yet NOx emitted into the polar night is
+  // mostly removed (first-order, e-folding tau) or turned into HNO3 (N2O5 hydrolysis in the dark)
+  // before the sun returns, while NOx emitted into the polar day works at once. At the levels
+  // subsonic aircraft fly (residence under about 0.8 yr here) that outweighs the rest. Deeper
+  // injections stay a year or more and meet the next summer either way, so they are not claimed.
+  const wholeEngine = (lat: number, flightDate: string, fl: number) =>
+    screenFlight({
+      route: {
+        waypoints: [
+          { lat, lon: 0 },
+          { lat, lon: 40 },
+        ],
+      },
+      cruise: { flightLevel: fl },
+      fuelBurnKg: 20_000,
+      emission: { eiNoxGPerKg: 12 },
+      flightDate,
+    });
+  it('whole engine: less loss per kg of NOx above the tropopause for a polar-night flight than for the same flight in polar day (70-85 degrees, January against July, FL350-410, both hemispheres)', () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: 70, max: 85, noNaN: true }),
+        fc.constantFrom(1, -1),
+        fc.integer({ min: 35, max: 41 }).map((x) => x * 10),
+        (lat, hemi, fl) => {
+          const night = wholeEngine(hemi * lat, hemi > 0 ? '2026-01-15' : '2026-07-15', fl);
+          const day = wholeEngine(hemi * lat, hemi > 0 ? '2026-07-15' : '2026-01-15', fl);
+          expect(night.noxAboveTropopauseKg).toBeGreaterThan(0);
+          expect(day.noxAboveTropopauseKg).toBeGreaterThan(0);
+          expect(perKg(night)).toBeLessThan(perKg(day));
+        },
+      ),
+      { numRuns: 40 },
+    );
+  });
+
+  it('engine 2026.12.4 moved the polar-night figure down: at 70N FL390 the January flight now scores below the July one (2026.12.3 averaged sunlight over a flat residence window, so the January emission met the whole coming summer and scored about 1.8 times July)', () => {
+    const jan = perKg(wholeEngine(70, '2026-01-15', 390));
+    const jul = perKg(wholeEngine(70, '2026-07-15', 390));
+    expect(jan).toBeLessThan(jul);
+    expect(wholeEngine(70, '2026-01-15', 390).ozoneLoss.assumptions.sunlight.activeShare).toBeLessThan(0.8);
   });
 
   it('tropical injections are not an order of magnitude below mid-latitude ones (supersonic cruise, FL600; published fleet studies put the largest loss over the tropics, Zhang et al. 2023)', () => {

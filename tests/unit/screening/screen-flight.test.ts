@@ -63,7 +63,7 @@ describe('the public result contract', () => {
       expect(r.segments[0]).toHaveProperty(k);
     }
     expect(r.engineVersion).toBe(ENGINE_VERSION);
-    expect(ENGINE_VERSION).toBe('2026.12.3');
+    expect(ENGINE_VERSION).toBe('2026.12.4');
   });
 
   it('NOx = fuel x EI for a direct EI; N mass = 0.30446 x NO2 mass (molar masses 14.0067 / 46.0055); CO2 = 3.16 x fuel (ICAO CORSIA)', () => {
@@ -398,7 +398,7 @@ describe('inputs far outside what an engine does, and the sources named', () => 
     expect(r.ozoneLoss.localBudget.ozoneProfile).toBe('subarctic-winter');
   });
 
-  it('the assumptions name their sources: the tropopause model and column, the sunlight geometry, JPL 19-5, DuBois & Paynter', () => {
+  it('the assumptions name their sources: the tropopause model and column, the sunlight geometry and dark conversion, JPL 19-5 and its confirmation, the residence descriptions, DuBois & Paynter', () => {
     const r = screenFlight(transatlantic({ emission: { engine: TURBOFAN, engineCount: 2 }, fuelBurnKg: 18_000 }));
     const text = r.assumptions.join(' ');
     expect(text).toMatch(/Mateus, Mendes & Pires \(2022\)/);
@@ -407,6 +407,11 @@ describe('inputs far outside what an engine does, and the sources named', () => 
     expect(text).toMatch(/DuBois & Paynter 2006/);
     expect(r.ozoneLoss.assumptions.rateConstants).toMatch(/JPL Publication 19-5/);
     expect(r.ozoneLoss.assumptions.residenceTime.source).toMatch(/Waugh & Hall 2002/);
+    expect(r.ozoneLoss.assumptions.residenceTime.source).toMatch(/IPCC 1999/);
+    expect(r.ozoneLoss.assumptions.residenceTime.source).toMatch(/Ehhalt/);
+    expect(r.ozoneLoss.assumptions.rateConstants).toMatch(/CRACMM v1\.0/);
+    expect(r.ozoneLoss.assumptions.sunlight.source).toMatch(/exp\(-t\/tau\)/);
+    expect(r.ozoneLoss.assumptions.sunlight.source).toMatch(/HNO3/);
     expect(r.ozoneLoss.assumptions.daylightFactor.source).toMatch(/solar geometry/);
     expect(r.ozoneLoss.assumptions.band).toMatch(/not a confidence interval/);
   });

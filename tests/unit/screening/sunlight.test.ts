@@ -28,24 +28,77 @@ describe('solar geometry (Cooper 1969 declination; daily-mean cos zenith from th
     expect(daySunlight(90, 172).meanCosZenith).toBeGreaterThan(daySunlight(0, 172).meanCosZenith);
   });
 
-  it('a window average lies between the extremes of its days, and a whole year equals the annual mean (property)', () => {
+  it('weighted over the stay: each start day weighs its days by exp(-t/tau)/tau, checked against a day-by-day sum of the same geometry (first-order removal, tau the e-folding time; common practice)', () => {
+    // Where no night is longer than 18 h nothing is converted, so the weighted sunlit fraction is
+    // that of the geometry alone: sum over days of exp(-(n + 1/2)/tau) daySunlight, normalised.
+    for (const [lat, day, tau] of [
+      [45, 15, 0.3],
+      [-30, 200, 1],
+      [10, 100, 0.1],
+      [50, 300, 2],
+    ] as const) {
+      let f = 0;
+      let c = 0;
+      let w = 0;
+      for (let n = 0; n < 365 * 30; n++) {
+        const e = Math.exp(-(n + 0.5) / (tau * 365));
+        const s = daySunlight(lat, ((day - 1 + n) % 365) + 1);
+        f += e * s.dayFraction;
+        c += e * s.meanCosZenith;
+        w += e;
+      }
+      const got = windowSunlight(lat, day, tau);
+      expect(got.sunlitFraction).toBeCloseTo(f / w, 2);
+      expect(got.dayFraction).toBeCloseTo(f / w, 2);
+      expect(got.meanCosZenith).toBeCloseTo(c / w, 2);
+      expect(got.activeShare).toBe(1);
+    }
+  });
+
+  it('the mean over all start days equals the value without a date, and every value stays in its physical range (property)', () => {
     fc.assert(
-      fc.property(fc.double({ min: -90, max: 90, noNaN: true }), fc.integer({ min: 1, max: 365 }), (lat, day) => {
-        const year = windowSunlight(lat, day, 1);
-        const annual = windowSunlight(lat, null, 1);
-        expect(year.meanCosZenith).toBeCloseTo(annual.meanCosZenith, 3);
-        expect(year.dayFraction).toBeCloseTo(annual.dayFraction, 3);
-        const w = windowSunlight(lat, day, 0.1);
-        expect(w.dayFraction).toBeGreaterThanOrEqual(0);
-        expect(w.dayFraction).toBeLessThanOrEqual(1 + 1e-12);
-        expect(w.daytimeCosZenith).toBeLessThanOrEqual(1 + 1e-9);
-        expect(Number.isFinite(w.daytimeCosZenith)).toBe(true);
-      }),
+      fc.property(
+        fc.double({ min: -90, max: 90, noNaN: true }),
+        fc.double({ min: 0.02, max: 8, noNaN: true }),
+        fc.integer({ min: 1, max: 366 }),
+        (lat, tau, day) => {
+          let d = 0;
+          let f = 0;
+          for (let k = 1; k <= 365; k++) {
+            const w = windowSunlight(lat, k, tau);
+            d += w.dayFraction / 365;
+            f += w.sunlitFraction / 365;
+          }
+          const annual = windowSunlight(lat, null, tau);
+          expect(annual.dayFraction).toBeCloseTo(d, 2);
+          expect(annual.sunlitFraction).toBeCloseTo(f, 2);
+          const w = windowSunlight(lat, day, tau);
+          expect(w.sunlitFraction).toBeGreaterThanOrEqual(0);
+          expect(w.sunlitFraction).toBeLessThanOrEqual(1);
+          expect(w.dayFraction).toBeLessThanOrEqual(w.sunlitFraction);
+          expect(w.activeShare).toBeGreaterThanOrEqual(0);
+          expect(w.activeShare).toBeLessThanOrEqual(1 + 1e-12);
+          expect(w.daytimeCosZenith).toBeLessThanOrEqual(1);
+          expect(Number.isFinite(w.daytimeCosZenith)).toBe(true);
+        },
+      ),
+      { numRuns: 30 },
     );
   });
 
-  it('NOx emitted into the polar night meets sunlight only when it returns: a 0.1-year window from 21 December at 85N stays dark, a 1-year one does not', () => {
-    expect(windowSunlight(85, 355, 0.1).dayFraction).toBe(0);
-    expect(windowSunlight(85, 355, 1).dayFraction).toBeGreaterThan(0.4);
+  it('NOx emitted into the polar night is mostly gone, or turned into HNO3, before the sun returns: at 85N from 21 December a 0.1-year stay sees almost no active sunlit time, a 1-year stay does', () => {
+    const short = windowSunlight(85, 355, 0.1);
+    expect(short.dayFraction).toBeLessThan(0.03);
+    expect(short.activeShare).toBeLessThan(0.5);
+    expect(windowSunlight(85, 355, 1).dayFraction).toBeGreaterThan(0.2);
+  });
+
+  it('dark conversion only where nights pass 18 h: the active share is 1 all year at 45N and 45S, and at 75N smaller for a 21 December emission than for a 21 June one (N2O5 hydrolysis in the dark, HNO3 back only in sunlight)', () => {
+    for (const day of [1, 80, 172, 264, 355]) {
+      expect(windowSunlight(45, day, 0.5).activeShare).toBe(1);
+      expect(windowSunlight(-45, day, 0.5).activeShare).toBe(1);
+    }
+    expect(windowSunlight(75, 355, 0.5).activeShare).toBeLessThan(windowSunlight(75, 172, 0.5).activeShare);
+    expect(windowSunlight(-75, 172, 0.5).activeShare).toBeLessThan(windowSunlight(-75, 355, 0.5).activeShare);
   });
 });
