@@ -602,3 +602,19 @@ export async function getSignedPeriodFiles(scope: Scope, ref: string) {
   if (!files || !snapshot) throw conflict('This period has no frozen figures.');
   return { info, files, snapshot, changes };
 }
+
+/** The periods a page can be set to (newest first): custom ones, then each year, its quarters and months. */
+export async function listPeriodOptions(scope: Scope): Promise<{ ref: string; name: string; from: string; to: string }[]> {
+  const list = await listPeriods(scope);
+  const pick = (p: PeriodInfo) => ({ ref: p.ref, name: p.name, from: p.from, to: p.to });
+  const byNewest = (a: PeriodInfo, b: PeriodInfo) => b.from.localeCompare(a.from) || a.to.localeCompare(b.to);
+  return [
+    ...list.custom.map(pick),
+    ...list.years.flatMap((y) => {
+      const year = y.periods.filter((p) => p.kind === 'year');
+      const quarters = y.periods.filter((p) => p.kind === 'quarter').sort(byNewest);
+      const months = y.periods.filter((p) => p.kind === 'month').sort(byNewest);
+      return [...year, ...quarters, ...months].map(pick);
+    }),
+  ];
+}
