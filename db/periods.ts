@@ -52,9 +52,7 @@ export async function getPeriodByKey(
   key: string,
   trx: Trx = db(),
 ): Promise<PeriodRow | null> {
-  const r = (await trx('reporting_periods').where({ workspace_id: scope.workspaceId, key }).first()) as
-    | Row
-    | undefined;
+  const r = (await trx('reporting_periods').where({ workspace_id: scope.workspaceId, key }).first()) as Row | undefined;
   return r ? toPeriod(r) : null;
 }
 
@@ -118,7 +116,9 @@ export async function createCustomPeriodRow(
       })
       .returning('id'),
   );
-  await trx('reporting_periods').where({ id }).update({ key: `c${id}` });
+  await trx('reporting_periods')
+    .where({ id })
+    .update({ key: `c${id}` });
   const row = await getPeriodByKey(scope, `c${id}`, trx);
   if (!row) throw new Error('custom period missing after insert');
   return row;
@@ -405,8 +405,7 @@ export async function getSnapshotFiles(
   trx: Trx = db(),
 ): Promise<{ pdf: Buffer; csv: string; csvSha256: string } | null> {
   const r = (await trx('period_snapshots').where({ period_id: periodId }).first('pdf', 'csv', 'csv_sha256')) as
-    | Row
-    | undefined;
+    Row | undefined;
   if (!r) return null;
   return { pdf: Buffer.from(r.pdf as Uint8Array), csv: String(r.csv), csvSha256: String(r.csv_sha256) };
 }
@@ -595,9 +594,9 @@ export async function replaceTargets(
 }
 
 /** Targets of the workspace's open periods (the ones whose running figures can still move). */
-export async function listOpenPeriodTargets(
-  scope: { workspaceId: number },
-): Promise<(TargetRow & { period: PeriodRow })[]> {
+export async function listOpenPeriodTargets(scope: {
+  workspaceId: number;
+}): Promise<(TargetRow & { period: PeriodRow })[]> {
   const rows = (await db()('period_targets as t')
     .join('reporting_periods as p', 'p.id', 't.period_id')
     .where('t.workspace_id', scope.workspaceId)

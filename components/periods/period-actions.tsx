@@ -43,7 +43,8 @@ export function PeriodActions({ slug, period, state, hash, can, actions }: Props
       else setMessage({ tone: 'danger', text: res.error.message });
     });
 
-  const offers = (state === 'open' && can.review) || (state === 'review' && can.sign) || (state !== 'open' && can.reopen);
+  const offers =
+    (state === 'open' && can.review) || (state === 'review' && can.sign) || (state !== 'open' && can.reopen);
   if (!offers) return null;
   return (
     <div className="space-y-4">
@@ -89,7 +90,12 @@ export function PeriodActions({ slug, period, state, hash, can, actions }: Props
               onChange={(e) => setReason(e.target.value)}
             />
           </Field>
-          <Button variant="secondary" className="mt-2" disabled={pending} onClick={() => run(actions.reopen, { reason })}>
+          <Button
+            variant="secondary"
+            className="mt-2"
+            disabled={pending}
+            onClick={() => run(actions.reopen, { reason })}
+          >
             Reopen the period
           </Button>
         </div>

@@ -43,7 +43,10 @@ export async function PeriodOverviewCard({
       {view ? (
         <div className="space-y-3 text-sm">
           <p className="flex flex-wrap items-center gap-2">
-            <Link href={`/w/${slug}/periods/${view.period.ref}`} className="font-medium text-accent underline-offset-2 hover:underline">
+            <Link
+              href={`/w/${slug}/periods/${view.period.ref}`}
+              className="font-medium text-accent underline-offset-2 hover:underline"
+            >
               {view.period.name}
             </Link>
             <StateBadge state={view.period.state} />

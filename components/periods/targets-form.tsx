@@ -26,13 +26,18 @@ interface Props {
 export function TargetsForm({ slug, period, fleets, initial, action }: Props) {
   const router = useRouter();
   const [rows, setRows] = useState<Row[]>(
-    initial.map((t) => ({ fleetId: t.fleetId === null ? '' : String(t.fleetId), metric: t.metric, value: String(t.target) })),
+    initial.map((t) => ({
+      fleetId: t.fleetId === null ? '' : String(t.fleetId),
+      metric: t.metric,
+      value: String(t.target),
+    })),
   );
   const [pending, start] = useTransition();
   const [message, setMessage] = useState<{ tone: 'success' | 'danger'; text: string }>();
   const [errors, setErrors] = useState<Record<string, string>>({});
 
-  const update = (i: number, patch: Partial<Row>) => setRows((rs) => rs.map((r, j) => (j === i ? { ...r, ...patch } : r)));
+  const update = (i: number, patch: Partial<Row>) =>
+    setRows((rs) => rs.map((r, j) => (j === i ? { ...r, ...patch } : r)));
   const save = () =>
     start(async () => {
       setMessage(undefined);
@@ -69,7 +74,11 @@ export function TargetsForm({ slug, period, fleets, initial, action }: Props) {
           <label className="sr-only" htmlFor={`target-fleet-${i}`}>
             Fleet of target {i + 1}
           </label>
-          <SelectInput id={`target-fleet-${i}`} value={r.fleetId} onChange={(e) => update(i, { fleetId: e.target.value })}>
+          <SelectInput
+            id={`target-fleet-${i}`}
+            value={r.fleetId}
+            onChange={(e) => update(i, { fleetId: e.target.value })}
+          >
             <option value="">All fleets</option>
             {fleets.map((f) => (
               <option key={f.id} value={String(f.id)}>

@@ -199,7 +199,8 @@ function targetViews(targets: TargetRow[], figures: PeriodFigureSet, fleetNames:
     const f =
       t.fleetId === null
         ? figures.total
-        : (figures.fleets.find((x) => x.fleetId === t.fleetId) ?? figuresOf({ flights: 0, distanceKm: 0, noxTotalKg: 0, noxAboveKg: 0 }));
+        : (figures.fleets.find((x) => x.fleetId === t.fleetId) ??
+          figuresOf({ flights: 0, distanceKm: 0, noxTotalKg: 0, noxAboveKg: 0 }));
     const actual = metricValue(f, metric);
     const ratio = actual === null ? null : actual / t.value;
     return {
@@ -261,7 +262,11 @@ export interface PeriodView {
 }
 
 /** Everything the period page and `GET .../periods/{ref}` show. */
-export async function getPeriodView(scope: Scope, ref: string, opts: { flightLimit?: number } = {}): Promise<PeriodView> {
+export async function getPeriodView(
+  scope: Scope,
+  ref: string,
+  opts: { flightLimit?: number } = {},
+): Promise<PeriodView> {
   const { info, row, calendar } = await resolvePeriodRef(scope, ref);
   const frozen = !!row && info.state !== 'open';
   const [figures, targets, names, snapshot, changes, frozenFlights, unscreened] = await Promise.all([
@@ -320,7 +325,11 @@ async function ensureRow(scope: Scope, ref: string, createdBy: number | null): P
   if (row) return row;
   const cal = calendar!;
   return writeTx((trx) =>
-    ensurePeriodRow(scope, { kind: cal.kind, key: cal.ref, name: cal.name, from: cal.from, to: cal.to, createdBy }, trx),
+    ensurePeriodRow(
+      scope,
+      { kind: cal.kind, key: cal.ref, name: cal.name, from: cal.from, to: cal.to, createdBy },
+      trx,
+    ),
   );
 }
 
@@ -442,7 +451,8 @@ export async function reviewPeriod(
   ctx: { slug: string; workspaceName: string; units: UnitSystem },
 ): Promise<PeriodInfo> {
   const { info } = await resolvePeriodRef(scope, ref);
-  if (info.state !== 'open') throw conflict(`This period is already ${info.state === 'signed' ? 'signed' : 'in review'}.`);
+  if (info.state !== 'open')
+    throw conflict(`This period is already ${info.state === 'signed' ? 'signed' : 'in review'}.`);
   const pending = await countUnscreenedFlights(scope, info);
   if (pending > 0)
     throw conflict(
@@ -481,7 +491,15 @@ export async function reviewPeriod(
       },
       trx,
     );
-    if (!(await updatePeriodState(scope, fresh.id, ['open'], { state: 'review', frozenAt, frozenByName: actor.name }, trx)))
+    if (
+      !(await updatePeriodState(
+        scope,
+        fresh.id,
+        ['open'],
+        { state: 'review', frozenAt, frozenByName: actor.name },
+        trx,
+      ))
+    )
       throw conflict('This period was moved to review meanwhile.');
     await createAuditEntry(
       {
@@ -510,12 +528,15 @@ export async function signPeriod(
 ): Promise<PeriodInfo> {
   const { row, info } = await resolvePeriodRef(scope, ref);
   if (!row || info.state !== 'review')
-    throw conflict(info.state === 'signed' ? 'This period is already signed.' : 'Move the period to review before signing it.');
+    throw conflict(
+      info.state === 'signed' ? 'This period is already signed.' : 'Move the period to review before signing it.',
+    );
   await writeTx(async (trx) => {
     const files = await getSnapshotFiles(row.id, trx);
     if (!files) throw conflict('This period has no frozen figures; reopen it and move it to review again.');
     const hash = sha256Hex(files.csv);
-    if (hash !== files.csvSha256) throw conflict('The frozen figures do not match their recorded hash; reopen the period.');
+    if (hash !== files.csvSha256)
+      throw conflict('The frozen figures do not match their recorded hash; reopen the period.');
     if (opts.hash && opts.hash !== hash)
       throw conflict('The frozen figures changed since you looked at them: check the period again before signing.', [
         { path: 'hash', message: 'Not the hash of the frozen figures.' },
@@ -553,7 +574,15 @@ export async function reopenPeriod(scope: Scope, actor: PeriodActor, ref: string
       scope,
       row.id,
       ['review', 'signed'],
-      { state: 'open', frozenAt: null, frozenByName: null, signedAt: null, signedBy: null, signedByName: null, signHash: null },
+      {
+        state: 'open',
+        frozenAt: null,
+        frozenByName: null,
+        signedAt: null,
+        signedBy: null,
+        signedByName: null,
+        signHash: null,
+      },
       trx,
     );
     if (!ok) throw conflict('This period changed meanwhile.');
@@ -583,7 +612,8 @@ export async function reopenPeriod(scope: Scope, actor: PeriodActor, ref: string
 /** The frozen report PDF of a period in review or signed. */
 export async function getPeriodReportPdf(scope: Scope, ref: string): Promise<{ name: string; pdf: Buffer }> {
   const { row, info } = await resolvePeriodRef(scope, ref);
-  if (!row || info.state === 'open') throw conflict('This period is open: its report exists once it is moved to review.');
+  if (!row || info.state === 'open')
+    throw conflict('This period is open: its report exists once it is moved to review.');
   const files = await getSnapshotFiles(row.id);
   if (!files) throw conflict('This period has no frozen report.');
   return { name: `${info.name} report`, pdf: files.pdf };
@@ -597,14 +627,21 @@ export async function getSignedPeriodFiles(scope: Scope, ref: string) {
   const [files, snapshot, changes] = await Promise.all([
     getSnapshotFiles(row.id),
     getSnapshotInfo(row.id),
-    listChangesAfterFreeze(scope, { id: row.id, from: info.from, to: info.to, frozenAt: row.frozenAt ?? info.signedAt ?? '' }),
+    listChangesAfterFreeze(scope, {
+      id: row.id,
+      from: info.from,
+      to: info.to,
+      frozenAt: row.frozenAt ?? info.signedAt ?? '',
+    }),
   ]);
   if (!files || !snapshot) throw conflict('This period has no frozen figures.');
   return { info, files, snapshot, changes };
 }
 
 /** The periods a page can be set to (newest first): custom ones, then each year, its quarters and months. */
-export async function listPeriodOptions(scope: Scope): Promise<{ ref: string; name: string; from: string; to: string }[]> {
+export async function listPeriodOptions(
+  scope: Scope,
+): Promise<{ ref: string; name: string; from: string; to: string }[]> {
   const list = await listPeriods(scope);
   const pick = (p: PeriodInfo) => ({ ref: p.ref, name: p.name, from: p.from, to: p.to });
   const byNewest = (a: PeriodInfo, b: PeriodInfo) => b.from.localeCompare(a.from) || a.to.localeCompare(b.to);

@@ -56,7 +56,8 @@ function checkTargets(v: { targets: z.infer<typeof targetListSchema> }, ctx: z.R
   const seen = new Set<string>();
   v.targets.forEach((t, i) => {
     const k = `${t.fleetId ?? 0}:${t.metric}`;
-    if (seen.has(k)) ctx.addIssue({ code: 'custom', path: ['targets', i, 'metric'], message: 'This target is listed twice.' });
+    if (seen.has(k))
+      ctx.addIssue({ code: 'custom', path: ['targets', i, 'metric'], message: 'This target is listed twice.' });
     seen.add(k);
     if (t.metric === 'shareAbovePct' && t.value > 100)
       ctx.addIssue({ code: 'custom', path: ['targets', i, 'value'], message: 'A share is at most 100 %.' });

@@ -113,7 +113,12 @@ describe('moving a quarter to review freezes it', () => {
     expect(sum).toBeCloseTo(before.body.figures.total.noxAboveKg, 3);
 
     const changeRows = rowsOf(strFromU8(files['changes-after-sign-off.csv']));
-    expect(changeRows.slice(1).map((r) => r[0]).sort()).toEqual(['added', 'added', 'added', 'rescreened']);
+    expect(
+      changeRows
+        .slice(1)
+        .map((r) => r[0])
+        .sort(),
+    ).toEqual(['added', 'added', 'added', 'rescreened']);
     expect(strFromU8(files['method-notes.txt'])).toMatch(/Mateus, Mendes & Pires \(2022\)/);
 
     // The signed report PDF downloads for the viewer too.

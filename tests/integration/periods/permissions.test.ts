@@ -43,8 +43,10 @@ beforeAll(async () => {
 async function periodIn(state: 'open' | 'review' | 'signed'): Promise<string> {
   const ref = `${2025 + Math.floor(month / 12)}-${String((month % 12) + 1).padStart(2, '0')}`;
   month += 1;
-  if (state !== 'open') expect((await post(ROUTES.reviewRoute.POST, ws.slug, ref, '/review', ws.owner.id)).status).toBe(200);
-  if (state === 'signed') expect((await post(ROUTES.signRoute.POST, ws.slug, ref, '/sign', ws.owner.id)).status).toBe(200);
+  if (state !== 'open')
+    expect((await post(ROUTES.reviewRoute.POST, ws.slug, ref, '/review', ws.owner.id)).status).toBe(200);
+  if (state === 'signed')
+    expect((await post(ROUTES.signRoute.POST, ws.slug, ref, '/sign', ws.owner.id)).status).toBe(200);
   return ref;
 }
 
@@ -52,38 +54,48 @@ const allowedStatus = (s: number) => s !== 401 && s !== 403 && s !== 404 && s < 
 
 describe('period permissions over the whole role matrix', () => {
   it('the policy table gives exactly the expected roles each period permission', () => {
-    const perm = { review: 'periods:review', sign: 'periods:sign', reopen: 'periods:reopen', targets: 'targets:write', read: 'flights:read' } as const;
+    const perm = {
+      review: 'periods:review',
+      sign: 'periods:sign',
+      reopen: 'periods:reopen',
+      targets: 'targets:write',
+      read: 'flights:read',
+    } as const;
     for (const [action, roles] of Object.entries(EXPECTED))
-      for (const role of ROLES) expect(can(role, perm[action as keyof typeof perm]), `${role} ${action}`).toBe(roles[role]);
+      for (const role of ROLES)
+        expect(can(role, perm[action as keyof typeof perm]), `${role} ${action}`).toBe(roles[role]);
   });
 
-  it.each(ROLES)('%s: review, sign, reopen, targets and reading a signed period answer as the table says', async (role) => {
-    const user = ws.members[role];
+  it.each(ROLES)(
+    '%s: review, sign, reopen, targets and reading a signed period answer as the table says',
+    async (role) => {
+      const user = ws.members[role];
 
-    const forReview = await periodIn('open');
-    const r = await post(ROUTES.reviewRoute.POST, ws.slug, forReview, '/review', user.id);
-    expect(r.status, `review as ${role}`).toBe(EXPECTED.review[role] ? 200 : 403);
+      const forReview = await periodIn('open');
+      const r = await post(ROUTES.reviewRoute.POST, ws.slug, forReview, '/review', user.id);
+      expect(r.status, `review as ${role}`).toBe(EXPECTED.review[role] ? 200 : 403);
 
-    const forSign = await periodIn('review');
-    const s = await post(ROUTES.signRoute.POST, ws.slug, forSign, '/sign', user.id);
-    expect(s.status, `sign as ${role}`).toBe(EXPECTED.sign[role] ? 200 : 403);
-    const state = (await db()('reporting_periods').where({ workspace_id: ws.id, key: forSign }).first()).state;
-    expect(state).toBe(EXPECTED.sign[role] ? 'signed' : 'review');
+      const forSign = await periodIn('review');
+      const s = await post(ROUTES.signRoute.POST, ws.slug, forSign, '/sign', user.id);
+      expect(s.status, `sign as ${role}`).toBe(EXPECTED.sign[role] ? 200 : 403);
+      const state = (await db()('reporting_periods').where({ workspace_id: ws.id, key: forSign }).first()).state;
+      expect(state).toBe(EXPECTED.sign[role] ? 'signed' : 'review');
 
-    const forReopen = await periodIn('signed');
-    const o = await post(ROUTES.reopenRoute.POST, ws.slug, forReopen, '/reopen', user.id, { reason: 'Permissions check' });
-    expect(o.status, `reopen as ${role}`).toBe(EXPECTED.reopen[role] ? 200 : 403);
+      const forReopen = await periodIn('signed');
+      const o = await post(ROUTES.reopenRoute.POST, ws.slug, forReopen, '/reopen', user.id, {
+        reason: 'Permissions check',
+      });
+      expect(o.status, `reopen as ${role}`).toBe(EXPECTED.reopen[role] ? 200 : 403);
 
-    const t = await putTargets(ws.slug, '2030-Q1', user.id, [
-      { fleetId: null, metric: 'noxAboveT', value: 5 },
-    ]);
-    expect(allowedStatus(t.status), `targets as ${role}: ${t.status}`).toBe(EXPECTED.targets[role]);
-    if (!EXPECTED.targets[role]) expect(t.status).toBe(403);
+      const t = await putTargets(ws.slug, '2030-Q1', user.id, [{ fleetId: null, metric: 'noxAboveT', value: 5 }]);
+      expect(allowedStatus(t.status), `targets as ${role}: ${t.status}`).toBe(EXPECTED.targets[role]);
+      if (!EXPECTED.targets[role]) expect(t.status).toBe(403);
 
-    const signed = await periodIn('signed');
-    const pack = await download(ROUTES.auditPackRoute.GET, ws.slug, signed, '/audit-pack', user.id);
-    expect(pack.status, `audit pack as ${role}`).toBe(EXPECTED.read[role] ? 200 : 403);
-    const pdf = await download(ROUTES.reportRoute.GET, ws.slug, signed, '/report', user.id);
-    expect(pdf.status, `signed report as ${role}`).toBe(EXPECTED.read[role] ? 200 : 403);
-  });
+      const signed = await periodIn('signed');
+      const pack = await download(ROUTES.auditPackRoute.GET, ws.slug, signed, '/audit-pack', user.id);
+      expect(pack.status, `audit pack as ${role}`).toBe(EXPECTED.read[role] ? 200 : 403);
+      const pdf = await download(ROUTES.reportRoute.GET, ws.slug, signed, '/report', user.id);
+      expect(pdf.status, `signed report as ${role}`).toBe(EXPECTED.read[role] ? 200 : 403);
+    },
+  );
 });

@@ -98,7 +98,9 @@ describe('target alerts', () => {
       { fleetId: lib.longHaulFleetId, metric: 'shareAbovePct', value: 40 },
     ]);
     expect(ok.status).toBe(200);
-    expect((await post(ROUTES.reviewRoute.POST, ws.slug, '2026-Q4', '/review', ws.members.analyst.id)).status).toBe(200);
+    expect((await post(ROUTES.reviewRoute.POST, ws.slug, '2026-Q4', '/review', ws.members.analyst.id)).status).toBe(
+      200,
+    );
     const frozen = await putTargets(ws.slug, '2026-Q4', ws.members.analyst.id, []);
     expect(frozen.status).toBe(409);
   });

@@ -182,7 +182,9 @@ export const ID_FIXTURES: Record<string, Maker> = {
       })
       .returning('id');
     const id = Number(typeof row === 'object' ? row.id : row);
-    await db()('reporting_periods').where({ id }).update({ key: `c${id}` });
+    await db()('reporting_periods')
+      .where({ id })
+      .update({ key: `c${id}` });
     return `c${id}`;
   },
 };

@@ -24,13 +24,17 @@ export const createPeriodAction = workspaceAction('periods:define', periodCreate
   return { data: { ref: p.ref }, message: `Period “${p.name}” created.` };
 });
 
-export const setPeriodTargetsAction = workspaceAction('targets:write', periodTargetsActionSchema, async (ctx, input) => {
-  const scope = { workspaceId: ctx.workspace.id };
-  await setPeriodTargets(scope, actorOf(ctx), input.period, input.targets);
-  await checkTargetAlerts(scope);
-  revalidatePath(`/w/${ctx.slug}/periods/${input.period}`);
-  return { message: 'Targets saved.' };
-});
+export const setPeriodTargetsAction = workspaceAction(
+  'targets:write',
+  periodTargetsActionSchema,
+  async (ctx, input) => {
+    const scope = { workspaceId: ctx.workspace.id };
+    await setPeriodTargets(scope, actorOf(ctx), input.period, input.targets);
+    await checkTargetAlerts(scope);
+    revalidatePath(`/w/${ctx.slug}/periods/${input.period}`);
+    return { message: 'Targets saved.' };
+  },
+);
 
 export const reviewPeriodAction = workspaceAction('periods:review', periodActionSchema, async (ctx, input) => {
   const p = await reviewPeriod({ workspaceId: ctx.workspace.id }, actorOf(ctx), input.period, {

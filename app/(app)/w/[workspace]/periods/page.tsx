@@ -32,7 +32,11 @@ function PeriodRows({ slug, periods }: { slug: string; periods: PeriodInfo[] }) 
             <StateBadge state={p.state} />
           </td>
           <td className="px-2 py-1.5 text-ink-soft">
-            {p.state === 'signed' ? `${p.signedBy} on ${formatDateTime(p.signedAt)}` : p.state === 'review' ? `Frozen by ${p.frozenBy}` : ''}
+            {p.state === 'signed'
+              ? `${p.signedBy} on ${formatDateTime(p.signedAt)}`
+              : p.state === 'review'
+                ? `Frozen by ${p.frozenBy}`
+                : ''}
           </td>
         </tr>
       ))}
@@ -81,7 +85,8 @@ export default async function PeriodsPage({ params }: { params: Promise<{ worksp
           </div>
         ) : (
           <p className="text-sm text-ink-soft">
-            None yet. {can(role, 'periods:define') ? 'Define one below, e.g. a financial year.' : 'An owner can define them.'}
+            None yet.{' '}
+            {can(role, 'periods:define') ? 'Define one below, e.g. a financial year.' : 'An owner can define them.'}
           </p>
         )}
         {can(role, 'periods:define') ? (

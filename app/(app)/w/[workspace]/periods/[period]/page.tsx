@@ -78,13 +78,17 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
       {view.unscreenedFlights > 0 && !frozen ? (
         <div className="mb-4">
           <Notice tone="caution">
-            {formatNumber(view.unscreenedFlights)} flights of this period are still being screened; it can move to review
-            once they are done.
+            {formatNumber(view.unscreenedFlights)} flights of this period are still being screened; it can move to
+            review once they are done.
           </Notice>
         </div>
       ) : null}
       <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
-        <Stat label="Flights" value={<span data-testid="period-flights">{formatNumber(t.flights)}</span>} sub={view.figures.source === 'frozen' ? 'frozen' : 'running'} />
+        <Stat
+          label="Flights"
+          value={<span data-testid="period-flights">{formatNumber(t.flights)}</span>}
+          sub={view.figures.source === 'frozen' ? 'frozen' : 'running'}
+        />
         <Stat label="NOx above tropopause" value={formatMass(t.noxAboveKg, u)} sub="as NO2" tone="strato" />
         <Stat label="Share above" value={t.shareAbove === null ? '–' : formatPercent(t.shareAbove, 1)} tone="strato" />
         <Stat label="NOx above per 1000 km" value={per1000(t, u)} />
@@ -138,7 +142,9 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
               </p>
             </div>
           ) : frozen ? (
-            <p className="mt-3 text-xs text-ink-faint">The targets are frozen with the figures; reopen to change them.</p>
+            <p className="mt-3 text-xs text-ink-faint">
+              The targets are frozen with the figures; reopen to change them.
+            </p>
           ) : null}
         </Card>
 
@@ -201,7 +207,9 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                     <td className="py-1.5">{f.fleetName}</td>
                     <td className="figure py-1.5 text-right">{formatNumber(f.flights)}</td>
                     <td className="figure py-1.5 text-right">{formatMass(f.noxAboveKg, u)}</td>
-                    <td className="figure py-1.5 text-right">{f.shareAbove === null ? '–' : formatPercent(f.shareAbove, 1)}</td>
+                    <td className="figure py-1.5 text-right">
+                      {f.shareAbove === null ? '–' : formatPercent(f.shareAbove, 1)}
+                    </td>
                     <td className="figure py-1.5 text-right">{per1000(f, u)}</td>
                   </tr>
                 ))}
@@ -215,7 +223,9 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
         <Card title="Trend over past periods" className="mt-6">
           <ScrollRegion label="Trend over past periods">
             <table className="w-full text-sm">
-              <caption className="sr-only">This period and the four before it, against their workspace-wide targets</caption>
+              <caption className="sr-only">
+                This period and the four before it, against their workspace-wide targets
+              </caption>
               <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
                 <tr>
                   <th className="py-2">Period</th>
@@ -231,7 +241,10 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                 {view.trend.map((r) => (
                   <tr key={r.ref} className={`border-t border-line ${r.ref === p.ref ? 'font-medium' : ''}`}>
                     <td className="py-1.5">
-                      <Link href={`/w/${slug}/periods/${r.ref}`} className="text-accent underline-offset-2 hover:underline">
+                      <Link
+                        href={`/w/${slug}/periods/${r.ref}`}
+                        className="text-accent underline-offset-2 hover:underline"
+                      >
                         {r.name}
                       </Link>
                     </td>
@@ -286,13 +299,19 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                   <tbody>
                     {view.changesAfterFreeze.map((c) => (
                       <tr key={`${c.kind}:${c.flightId}`} className="border-t border-line">
-                        <td className="py-1.5">{c.kind === 'added' ? 'Imported' : c.kind === 'rescreened' ? 'Screened again' : 'Removed'}</td>
+                        <td className="py-1.5">
+                          {c.kind === 'added' ? 'Imported' : c.kind === 'rescreened' ? 'Screened again' : 'Removed'}
+                        </td>
                         <td className="figure py-1.5">{c.date}</td>
                         <td className="py-1.5">
                           {c.kind === 'removed' ? (
                             c.flight
                           ) : (
-                            <Link href={`/w/${slug}/flights/${c.flightId}`} className="text-accent underline-offset-2 hover:underline">
+                            <Link
+                              prefetch={false}
+                              href={`/w/${slug}/flights/${c.flightId}`}
+                              className="text-accent underline-offset-2 hover:underline"
+                            >
                               {c.flight}
                             </Link>
                           )}
@@ -340,7 +359,11 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                   <tr key={f.flightId} className="border-t border-line">
                     <td className="figure py-1.5">{f.date}</td>
                     <td className="py-1.5">
-                      <Link href={`/w/${slug}/flights/${f.flightId}`} className="text-accent underline-offset-2 hover:underline">
+                      <Link
+                        prefetch={false}
+                        href={`/w/${slug}/flights/${f.flightId}`}
+                        className="text-accent underline-offset-2 hover:underline"
+                      >
                         {f.flight}
                       </Link>
                     </td>

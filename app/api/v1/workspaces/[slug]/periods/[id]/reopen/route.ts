@@ -9,7 +9,12 @@ export const POST = workspaceRoute<{ slug: string; id: string }>(
   async ({ req, params, member, principal, userId, actorLabel }) => {
     const body = await readJson(req, periodReopenSchema);
     const name = principal.kind === 'user' ? principal.user.name || principal.user.email : actorLabel;
-    const p = await reopenPeriod({ workspaceId: member.workspace.id }, { userId, actor: actorLabel, name }, params.id, body.reason);
+    const p = await reopenPeriod(
+      { workspaceId: member.workspace.id },
+      { userId, actor: actorLabel, name },
+      params.id,
+      body.reason,
+    );
     return json(periodJson(member.workspace.slug, p));
   },
 );
