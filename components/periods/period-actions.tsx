@@ -45,7 +45,8 @@ export function PeriodActions({ slug, period, state, hash, can, actions }: Props
 
   const offers =
     (state === 'open' && can.review) || (state === 'review' && can.sign) || (state !== 'open' && can.reopen);
-  if (!offers) return null;
+  // The message stays after the state moves on (a review leaves an analyst nothing more to do).
+  if (!offers && !message) return null;
   return (
     <div className="space-y-4">
       {message ? (
