@@ -146,6 +146,7 @@ async function processRescreen(job: RescreenJob, opts: RunOptions): Promise<numb
   const chunkSize = opts.chunkSize ?? IMPORT_CHUNK_SIZE;
   let cursor = job;
   let flights = 0;
+  let workspaceId: number | null = null;
   for (;;) {
     if (state().stopping) return flights;
     const batch = await listRescreenFlights(cursor, chunkSize);
@@ -155,8 +156,10 @@ async function processRescreen(job: RescreenJob, opts: RunOptions): Promise<numb
         { event: 'import.rescreen_finished', importId: job.importId, engineVersion: job.engineVersion },
         'import re-screen finished',
       );
+      if (workspaceId !== null) await checkTargetAlerts({ workspaceId });
       return flights;
     }
+    workspaceId = batch[0].workspaceId;
     const { done } = await saveRescreenChunk(cursor, screenChunk(batch));
     flights += done;
     cursor = { ...cursor, lastFlightId: batch[batch.length - 1].id };

@@ -473,6 +473,10 @@ export async function reviewPeriod(
     const fresh = await getPeriodByKey(scope, row.key, trx);
     if (!fresh || fresh.state !== 'open') throw conflict('This period was moved to review meanwhile.');
     const flights = await freezeFlights(scope, fresh.id, info, trx);
+    // The report was drawn just before this transaction: an import finishing in between would make
+    // the PDF and the frozen flights disagree, so the freeze is refused and can simply be repeated.
+    if (report.summary.totals.flights !== flights.length)
+      throw conflict('Flights of this period changed while it was being frozen: move it to review again.');
     const csv = auditCsv(fresh.key, flights, (id) => flightPageUrl(base, ctx.slug, id));
     const versions = new Map<string, number>();
     for (const f of flights) versions.set(f.engineVersion, (versions.get(f.engineVersion) ?? 0) + 1);
@@ -641,9 +645,9 @@ export async function getSignedPeriodFiles(scope: Scope, ref: string) {
 /** The periods a page can be set to (newest first): custom ones, then each year, its quarters and months. */
 export async function listPeriodOptions(
   scope: Scope,
-): Promise<{ ref: string; name: string; from: string; to: string }[]> {
+): Promise<{ ref: string; name: string; from: string; to: string; state: PeriodState }[]> {
   const list = await listPeriods(scope);
-  const pick = (p: PeriodInfo) => ({ ref: p.ref, name: p.name, from: p.from, to: p.to });
+  const pick = (p: PeriodInfo) => ({ ref: p.ref, name: p.name, from: p.from, to: p.to, state: p.state });
   const byNewest = (a: PeriodInfo, b: PeriodInfo) => b.from.localeCompare(a.from) || a.to.localeCompare(b.to);
   return [
     ...list.custom.map(pick),

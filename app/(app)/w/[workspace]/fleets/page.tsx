@@ -1,3 +1,4 @@
+import Link from 'next/link';
 import { requireMember } from '@/lib/auth/guards';
 import { can } from '@/lib/auth/policy';
 import { listFleets, listFlownAircraftCodes } from '@/db/fleets';
@@ -36,7 +37,7 @@ export default async function FleetsPage({
     parsed.success ? compareFleets(scope, parsed.data) : Promise.resolve(null),
     listPeriodOptions(scope),
   ]);
-  const periodChosen = periodOptions.find((o) => o.from === sp.from && o.to === sp.to)?.ref ?? '';
+  const periodChosen = periodOptions.find((o) => o.from === sp.from && o.to === sp.to);
   const canWrite = can(role, 'fleets:write');
   const actions = {
     create: createFleetAction,
@@ -62,9 +63,22 @@ export default async function FleetsPage({
           id="fleets-period"
           label="Reporting period"
           options={periodOptions}
-          value={periodChosen}
+          value={periodChosen?.ref ?? ''}
           hrefFor={{ path: `/w/${slug}/fleets`, mode: 'range' }}
         />
+        {periodChosen && periodChosen.state !== 'open' ? (
+          <p className="mt-2 text-sm text-ink-soft">
+            {periodChosen.name} is {periodChosen.state === 'signed' ? 'signed' : 'in review'}: the comparison below
+            shows the flights as they are now; its frozen figures are on{' '}
+            <Link
+              href={`/w/${slug}/periods/${periodChosen.ref}`}
+              className="text-accent underline-offset-2 hover:underline"
+            >
+              the period&apos;s page
+            </Link>
+            .
+          </p>
+        ) : null}
       </div>
       <FleetComparison
         slug={slug}
