@@ -27,19 +27,16 @@ export async function PeriodOverviewCard({
   ]);
   const chosen = view?.period.ref ?? '';
   return (
-    <Card
-      title="Reporting period"
-      className="mt-6"
-      actions={
+    <Card title="Reporting period" className="mt-6">
+      <div className="mb-3">
         <PeriodSelect
           id="overview-period"
-          label="Period"
+          label="Set the overview to a period"
           options={options}
           value={chosen}
           hrefFor={{ path: `/w/${slug}`, mode: 'ref' }}
         />
-      }
-    >
+      </div>
       {view ? (
         <div className="space-y-3 text-sm">
           <p className="flex flex-wrap items-center gap-2">

@@ -31,7 +31,7 @@ export function PeriodSelect({ id, label, options, value, hrefFor }: Props) {
       <SelectInput
         id={id}
         value={value}
-        className="w-auto"
+        className="w-auto max-w-[16rem]"
         onChange={(e) => {
           const p = options.find((o) => o.ref === e.target.value);
           if (!p) return router.push(hrefFor.path);

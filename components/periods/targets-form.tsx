@@ -107,6 +107,7 @@ export function TargetsForm({ slug, period, fleets, initial, action }: Props) {
             <TextInput
               id={`target-value-${i}`}
               inputMode="decimal"
+              aria-describedby={undefined}
               className="w-28"
               value={r.value}
               invalid={!!errors[`targets.${i}.value`]}

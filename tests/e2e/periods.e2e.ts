@@ -42,6 +42,17 @@ describe('reporting periods: an analyst prepares a quarter, an owner signs it, a
     expect(hash).toMatch(/^[0-9a-f]{64}$/);
     await expect(owner.page.getByTestId('signed-by').textContent()).resolves.toMatch(/by /);
     await screenshot(owner.page, 'periods-signed');
+    // The fleet comparison set to the signed quarter says its figures are frozen elsewhere.
+    await owner.page.goto(`/w/${SLUG}/fleets`);
+    await owner.page.getByLabel('Reporting period').selectOption(QUARTER);
+    await owner.page.waitForURL(/from=2026-07-01&to=2026-09-30/);
+    await owner.page.getByText('Q3 2026 is signed').waitFor();
+    // The overview set to the current quarter shows the demo's targets against its running figures.
+    await owner.page.goto(`/w/${SLUG}?period=2026-Q4`);
+    await owner.page
+      .getByTestId('overview-targets')
+      .getByText(/Share above/)
+      .waitFor();
     await owner.page.goto(`/w/${SLUG}/settings/members`);
     await owner.page.getByLabel('E-mail', { exact: true }).fill('viewer@tropopass.test');
     await owner.page.getByLabel('Role', { exact: true }).selectOption('viewer');
