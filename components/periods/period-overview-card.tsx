@@ -42,7 +42,7 @@ export async function PeriodOverviewCard({
           <p className="flex flex-wrap items-center gap-2">
             <Link
               href={`/w/${slug}/periods/${view.period.ref}`}
-              className="font-medium text-accent underline-offset-2 hover:underline"
+              className="font-medium text-accent underline underline-offset-2"
             >
               {view.period.name}
             </Link>
@@ -77,7 +77,7 @@ export async function PeriodOverviewCard({
       ) : (
         <p className="text-sm text-ink-soft">
           Choose a month, quarter or year to see its figures against its targets, or open{' '}
-          <Link href={`/w/${slug}/periods`} className="text-accent underline-offset-2 hover:underline">
+          <Link href={`/w/${slug}/periods`} className="text-accent underline underline-offset-2">
             Periods &amp; sign-off
           </Link>
           .

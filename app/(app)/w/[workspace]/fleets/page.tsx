@@ -70,10 +70,7 @@ export default async function FleetsPage({
           <p className="mt-2 text-sm text-ink-soft">
             {periodChosen.name} is {periodChosen.state === 'signed' ? 'signed' : 'in review'}: the comparison below
             shows the flights as they are now; its frozen figures are on{' '}
-            <Link
-              href={`/w/${slug}/periods/${periodChosen.ref}`}
-              className="text-accent underline-offset-2 hover:underline"
-            >
+            <Link href={`/w/${slug}/periods/${periodChosen.ref}`} className="text-accent underline underline-offset-2">
               the period&apos;s page
             </Link>
             .
