@@ -115,9 +115,11 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                     <tr key={`${x.fleetId}:${x.metric}`} className="border-t border-line" data-testid="target-view">
                       <td className="py-1.5">{x.fleetName}</td>
                       <td className="py-1.5">{x.label}</td>
-                      <td className="figure py-1.5 text-right">{metricText(x.target, x.unit)}</td>
-                      <td className="figure py-1.5 text-right">{metricText(x.actual, x.unit)}</td>
-                      <td className="figure py-1.5 text-right">{x.ratio === null ? '–' : formatPercent(x.ratio, 0)}</td>
+                      <td className="figure py-1.5 text-right whitespace-nowrap">{metricText(x.target, x.unit)}</td>
+                      <td className="figure py-1.5 text-right whitespace-nowrap">{metricText(x.actual, x.unit)}</td>
+                      <td className="figure py-1.5 text-right whitespace-nowrap">
+                        {x.ratio === null ? '–' : formatPercent(x.ratio, 0)}
+                      </td>
                       <td className={`py-1.5 pl-3 ${STATUS[x.status].className}`}>{STATUS[x.status].label}</td>
                     </tr>
                   ))}
@@ -205,12 +207,12 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                 {view.figures.fleets.map((f) => (
                   <tr key={f.fleetId ?? 'none'} className="border-t border-line">
                     <td className="py-1.5">{f.fleetName}</td>
-                    <td className="figure py-1.5 text-right">{formatNumber(f.flights)}</td>
-                    <td className="figure py-1.5 text-right">{formatMass(f.noxAboveKg, u)}</td>
-                    <td className="figure py-1.5 text-right">
+                    <td className="figure py-1.5 text-right whitespace-nowrap">{formatNumber(f.flights)}</td>
+                    <td className="figure py-1.5 text-right whitespace-nowrap">{formatMass(f.noxAboveKg, u)}</td>
+                    <td className="figure py-1.5 text-right whitespace-nowrap">
                       {f.shareAbove === null ? '–' : formatPercent(f.shareAbove, 1)}
                     </td>
-                    <td className="figure py-1.5 text-right">{per1000(f, u)}</td>
+                    <td className="figure py-1.5 text-right whitespace-nowrap">{per1000(f, u)}</td>
                   </tr>
                 ))}
               </tbody>
@@ -251,12 +253,14 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                     <td className="py-1.5">
                       <StateBadge state={r.state} />
                     </td>
-                    <td className="figure py-1.5 text-right">{formatNumber(r.figures.flights)}</td>
-                    <td className="figure py-1.5 text-right">{formatMass(r.figures.noxAboveKg, u)}</td>
-                    <td className="figure py-1.5 text-right">
+                    <td className="figure py-1.5 text-right whitespace-nowrap">{formatNumber(r.figures.flights)}</td>
+                    <td className="figure py-1.5 text-right whitespace-nowrap">
+                      {formatMass(r.figures.noxAboveKg, u)}
+                    </td>
+                    <td className="figure py-1.5 text-right whitespace-nowrap">
                       {r.figures.shareAbove === null ? '–' : formatPercent(r.figures.shareAbove, 1)}
                     </td>
-                    <td className="figure py-1.5 text-right">{per1000(r.figures, u)}</td>
+                    <td className="figure py-1.5 text-right whitespace-nowrap">{per1000(r.figures, u)}</td>
                     <td className="py-1.5 pl-3 text-xs">
                       {r.targets.length
                         ? r.targets
@@ -319,10 +323,10 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                         <td className="py-1.5">
                           {c.origin}–{c.destination}
                         </td>
-                        <td className="figure py-1.5 text-right">
+                        <td className="figure py-1.5 text-right whitespace-nowrap">
                           {c.noxAboveKgNow === null ? '–' : formatMass(c.noxAboveKgNow, u)}
                         </td>
-                        <td className="figure py-1.5 text-right">
+                        <td className="figure py-1.5 text-right whitespace-nowrap">
                           {c.noxAboveKgFrozen === null ? '–' : formatMass(c.noxAboveKgFrozen, u)}
                         </td>
                       </tr>
@@ -372,9 +376,9 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                     </td>
                     <td className="py-1.5">{f.aircraftCode}</td>
                     <td className="py-1.5">{f.fleetName ?? 'No fleet'}</td>
-                    <td className="figure py-1.5 text-right">{formatMass(f.noxAboveKg, u)}</td>
+                    <td className="figure py-1.5 text-right whitespace-nowrap">{formatMass(f.noxAboveKg, u)}</td>
                     <td className="py-1.5 pl-3 text-xs">{f.engineVersion}</td>
-                    <td className="figure py-1.5 text-right">{f.importId ?? '–'}</td>
+                    <td className="figure py-1.5 text-right whitespace-nowrap">{f.importId ?? '–'}</td>
                   </tr>
                 ))}
               </tbody>
