@@ -29,6 +29,7 @@ export const WORKSPACE_SECTIONS: { title: string; items: Item[] }[] = [
       { path: '/flights', label: 'Flights', permission: 'flights:read' },
       { path: '/fleets', label: 'Fleets', permission: 'flights:read' },
       { path: '/reports', label: 'Reports', permission: 'flights:read' },
+      { path: '/periods', label: 'Periods & sign-off', permission: 'flights:read' },
     ],
   },
   {

@@ -22,6 +22,12 @@ import {
   soundingCreateSchema,
 } from '@/lib/validation/library';
 import { fixRowSchema } from '@/lib/validation/route-library';
+import {
+  periodCreateSchema,
+  periodReopenSchema,
+  periodSignSchema,
+  periodTargetsSchema,
+} from '@/lib/validation/periods';
 
 /**
  * The OpenAPI 3.1 document of /api/v1, with request schemas generated from the same zod schemas the
@@ -601,6 +607,77 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
         '429': 'Too many report e-mails from this workspace in the last hour',
         '503': 'The mail server refused; the attempt is recorded',
       },
+    },
+  },
+  '/workspaces/{slug}/periods': {
+    get: {
+      summary:
+        'Reporting periods: the calendar years, quarters and months of every year with flights (and this year), then the custom periods, each with its state (open, review, signed)',
+      permission: 'flights:read',
+      responses: { '200': '{ years: [{ year, periods }], custom }' },
+    },
+    post: {
+      summary: 'Define a custom period { name, from, to } (at most 36 months)',
+      permission: 'periods:define',
+      requestBody: periodCreateSchema,
+      responses: { '201': 'The period, its reference c{id}' },
+    },
+  },
+  '/workspaces/{slug}/periods/{id}': {
+    get: {
+      summary:
+        'One period by reference (2026, 2026-Q4, 2026-11 or c12): state and sign-off, figures (frozen in review or signed, else running) against its targets, trend over the four periods before, frozen flights (first 200), changes after the freeze',
+      permission: 'flights:read',
+      responses: { '200': '{ period, figures, targets, trend, snapshot, changesAfterFreeze, frozenFlights }' },
+    },
+  },
+  '/workspaces/{slug}/periods/{id}/targets': {
+    put: {
+      summary:
+        'Replace the targets of an open period, per fleet or workspace-wide (fleetId null): noxAboveT (t), shareAbovePct (%), noxAbovePer1000KmKg (kg); analysts are e-mailed once at 90 % and once at 100 % of each',
+      permission: 'targets:write',
+      requestBody: periodTargetsSchema,
+      responses: { '200': '{ targets }', '409': 'The period is frozen' },
+    },
+  },
+  '/workspaces/{slug}/periods/{id}/review': {
+    post: {
+      summary:
+        'Move an open period to review: freezes its flights, figures, engine versions and assumptions, its report PDF and its audit CSV with the CSV SHA-256',
+      permission: 'periods:review',
+      responses: { '200': 'The period', '409': 'Not open, or flights still screening' },
+    },
+  },
+  '/workspaces/{slug}/periods/{id}/sign': {
+    post: {
+      summary:
+        "Sign a period in review: records the signer's name, the time and the SHA-256 of the frozen audit CSV; an optional hash must match it",
+      permission: 'periods:sign',
+      requestBody: periodSignSchema,
+      responses: { '200': 'The period', '409': 'Not in review, or the hash differs' },
+    },
+  },
+  '/workspaces/{slug}/periods/{id}/reopen': {
+    post: {
+      summary: 'Reopen a period in review or signed, with a reason (audit log); its frozen copy is dropped',
+      permission: 'periods:reopen',
+      requestBody: periodReopenSchema,
+      responses: { '200': 'The period', '409': 'Already open' },
+    },
+  },
+  '/workspaces/{slug}/periods/{id}/report': {
+    get: {
+      summary: 'The frozen report PDF of a period in review or signed',
+      permission: 'flights:read',
+      responses: { '200': 'application/pdf', '409': 'The period is open' },
+    },
+  },
+  '/workspaces/{slug}/periods/{id}/audit-pack': {
+    get: {
+      summary:
+        'The audit pack of a signed period (zip): report.pdf, flights.csv (the bytes the sign-off hash covers), method-notes.txt, changes-after-sign-off.csv, sign-off.json',
+      permission: 'flights:read',
+      responses: { '200': 'application/zip', '409': 'The period is not signed' },
     },
   },
   '/openapi.json': {

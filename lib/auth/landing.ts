@@ -23,6 +23,7 @@ export const PAGE_PERMISSIONS: Record<string, Permission> = {
   fleets: 'flights:read',
   imports: 'flights:read',
   reports: 'flights:read',
+  periods: 'flights:read',
   routes: 'flights:read',
   engines: 'flights:read',
   soundings: 'flights:read',

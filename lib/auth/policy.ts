@@ -24,6 +24,11 @@ export const PERMISSIONS = [
   'billing:manage',
   'audit:read',
   'library:copy', // copy engines, aircraft types and fleet definitions into or out of a workspace (owners: a consultant between clients)
+  'periods:define', // custom reporting periods
+  'periods:review', // move a period to review, which freezes its figures
+  'periods:sign', // sign a period in review
+  'periods:reopen', // reopen a period in review or signed (audited, with a reason)
+  'targets:write', // targets per period and fleet
 ] as const;
 export type Permission = (typeof PERMISSIONS)[number];
 
@@ -41,6 +46,8 @@ export const POLICY: Record<Role, readonly Permission[]> = {
     'reports:create',
     'reports:send',
     'reports:delete',
+    'periods:review',
+    'targets:write',
   ],
   viewer: ['workspace:read', 'flights:read'],
   billing: ['workspace:read', 'usage:read', 'billing:read', 'billing:manage'],

@@ -20,6 +20,7 @@ import { log } from '@/lib/log';
 import { leaseImport } from './import-lock';
 import { screenInThreads } from './screening-pool';
 import { checkBudgetAlerts } from '@/lib/billing/budget';
+import { checkTargetAlerts } from '@/lib/periods/alerts';
 
 /**
  * The background screening of imported flights, in the server process or a standalone worker
@@ -112,6 +113,7 @@ async function screenImport(importId: number, opts: RunOptions): Promise<number>
   const chunkSize = opts.chunkSize ?? IMPORT_CHUNK_SIZE;
   if (!(await claimImport(importId))) return 0;
   let flights = 0;
+  let workspaceId: number | null = null;
   for (;;) {
     if (state().stopping) return flights;
     const pending = await listPendingFlights(importId, chunkSize);
@@ -119,10 +121,13 @@ async function screenImport(importId: number, opts: RunOptions): Promise<number>
       const status = await finishImport(importId);
       if (status !== null) {
         log.info({ event: 'import.finished', importId, status }, 'import finished');
+        // New figures may take an open period past a target: alerts once the import is done.
+        if (workspaceId !== null) await checkTargetAlerts({ workspaceId });
         return flights;
       }
       continue;
     }
+    workspaceId = pending[0].workspaceId;
     const outcomes = (await screenInThreads(pending)) ?? screenChunk(pending);
     const saved = await saveScreenedChunk(importId, outcomes);
     flights += saved;
@@ -141,6 +146,7 @@ async function processRescreen(job: RescreenJob, opts: RunOptions): Promise<numb
   const chunkSize = opts.chunkSize ?? IMPORT_CHUNK_SIZE;
   let cursor = job;
   let flights = 0;
+  let workspaceId: number | null = null;
   for (;;) {
     if (state().stopping) return flights;
     const batch = await listRescreenFlights(cursor, chunkSize);
@@ -150,8 +156,10 @@ async function processRescreen(job: RescreenJob, opts: RunOptions): Promise<numb
         { event: 'import.rescreen_finished', importId: job.importId, engineVersion: job.engineVersion },
         'import re-screen finished',
       );
+      if (workspaceId !== null) await checkTargetAlerts({ workspaceId });
       return flights;
     }
+    workspaceId = batch[0].workspaceId;
     const { done } = await saveRescreenChunk(cursor, screenChunk(batch));
     flights += done;
     cursor = { ...cursor, lastFlightId: batch[batch.length - 1].id };

@@ -1,7 +1,11 @@
 import { fileStem } from './text';
 
 /** Headers for a file download: an ASCII file name plus the RFC 6266 UTF-8 form. */
-export function attachmentHeaders(name: string, ext: 'pdf' | 'csv', contentType: string): Record<string, string> {
+export function attachmentHeaders(
+  name: string,
+  ext: 'pdf' | 'csv' | 'zip',
+  contentType: string,
+): Record<string, string> {
   const ascii = `${fileStem(name)}.${ext}`;
   // Characters no file system takes, and control characters, never reach the saved file's name.
   const readable =

@@ -165,6 +165,28 @@ export const ID_FIXTURES: Record<string, Maker> = {
       .returning('id');
     return Number(typeof row === 'object' ? row.id : row);
   },
+  // A fresh custom period (open) each call: the matrix may move it to review or sign it.
+  periods: async (ws) => {
+    const now = nowIso();
+    const [row] = await db()('reporting_periods')
+      .insert({
+        workspace_id: ws.id,
+        kind: 'custom',
+        key: `fx-${unique()}`,
+        name: 'Fixture period',
+        date_from: '2026-09-01',
+        date_to: '2026-11-30',
+        state: 'open',
+        created_at: now,
+        updated_at: now,
+      })
+      .returning('id');
+    const id = Number(typeof row === 'object' ? row.id : row);
+    await db()('reporting_periods')
+      .where({ id })
+      .update({ key: `c${id}` });
+    return `c${id}`;
+  },
 };
 
 /**

@@ -8,9 +8,17 @@ import { can } from '@/lib/auth/policy';
 import { formatMass, formatNumber, formatPercent } from '@/lib/format';
 import { monthBounds } from '@/lib/clock';
 import { COUNT_HINTS, COUNT_LABELS } from '@/lib/counts';
+import { PeriodOverviewCard } from '@/components/periods/period-overview-card';
 
-export default async function OverviewPage({ params }: { params: Promise<{ workspace: string }> }) {
+export default async function OverviewPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ workspace: string }>;
+  searchParams: Promise<{ period?: string | string[] }>;
+}) {
   const { workspace: slug } = await params;
+  const { period } = await searchParams;
   const { workspace, role, user } = await requireMember(slug, 'flights:read');
   const [summaries, trend] = await Promise.all([
     getMonthSummaries({ workspaceIds: [workspace.id] }),
@@ -99,6 +107,12 @@ export default async function OverviewPage({ params }: { params: Promise<{ works
           figure is the central value of a gross catalytic loss, with a wide low–high band on each screening.
         </p>
       </Card>
+      <PeriodOverviewCard
+        slug={slug}
+        workspaceId={workspace.id}
+        period={Array.isArray(period) ? period[0] : period}
+        units={user.units}
+      />
       <div className="mt-6">
         <ScreeningCaution />
       </div>

@@ -1,3 +1,4 @@
+import Link from 'next/link';
 import { requireMember } from '@/lib/auth/guards';
 import { can } from '@/lib/auth/policy';
 import { listFleets, listFlownAircraftCodes } from '@/db/fleets';
@@ -9,6 +10,8 @@ import { Card, EmptyState, PageHeader } from '@/components/ui/card';
 import { ButtonLink } from '@/components/ui/button';
 import { FleetComparison } from '@/components/fleets/fleet-comparison';
 import { AircraftFleetTable, CreateFleetForm, FleetList } from '@/components/fleets/fleet-manager';
+import { listPeriodOptions } from '@/lib/periods/service';
+import { PeriodSelect } from '@/components/periods/period-select';
 import { assignAircraftFleetAction, createFleetAction, deleteFleetAction, updateFleetAction } from './actions';
 
 export const metadata = { title: 'Fleets' };
@@ -27,12 +30,14 @@ export default async function FleetsPage({
   const sp = await searchParams;
   const scope = { workspaceId: workspace.id };
   const parsed = fleetCompareQuerySchema.safeParse(compareQueryObject(sp));
-  const [fleets, types, codes, initial] = await Promise.all([
+  const [fleets, types, codes, initial, periodOptions] = await Promise.all([
     listFleets(scope),
     listAircraftTypes(scope),
     listFlownAircraftCodes(scope),
     parsed.success ? compareFleets(scope, parsed.data) : Promise.resolve(null),
+    listPeriodOptions(scope),
   ]);
+  const periodChosen = periodOptions.find((o) => o.from === sp.from && o.to === sp.to);
   const canWrite = can(role, 'fleets:write');
   const actions = {
     create: createFleetAction,
@@ -53,6 +58,25 @@ export default async function FleetsPage({
           ) : undefined
         }
       />
+      <div className="mb-4">
+        <PeriodSelect
+          id="fleets-period"
+          label="Reporting period"
+          options={periodOptions}
+          value={periodChosen?.ref ?? ''}
+          hrefFor={{ path: `/w/${slug}/fleets`, mode: 'range' }}
+        />
+        {periodChosen && periodChosen.state !== 'open' ? (
+          <p className="mt-2 text-sm text-ink-soft">
+            {periodChosen.name} is {periodChosen.state === 'signed' ? 'signed' : 'in review'}: the comparison below
+            shows the flights as they are now; its frozen figures are on{' '}
+            <Link href={`/w/${slug}/periods/${periodChosen.ref}`} className="text-accent underline underline-offset-2">
+              the period&apos;s page
+            </Link>
+            .
+          </p>
+        ) : null}
+      </div>
       <FleetComparison
         slug={slug}
         units={user.units}

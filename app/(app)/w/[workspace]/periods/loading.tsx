@@ -1,0 +1,5 @@
+import { PageSkeleton } from '@/components/fleets/skeleton';
+
+export default function Loading() {
+  return <PageSkeleton label="Loading the reporting periods…" blocks={2} />;
+}
