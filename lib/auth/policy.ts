@@ -24,6 +24,7 @@ export const PERMISSIONS = [
   'billing:manage',
   'audit:read',
   'library:copy', // copy engines, aircraft types and fleet definitions into or out of a workspace (owners: a consultant between clients)
+  'jobs:manage', // see the workspace's failed background jobs with their reason, and queue them again (owners)
 ] as const;
 export type Permission = (typeof PERMISSIONS)[number];
 
