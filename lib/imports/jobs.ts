@@ -39,7 +39,8 @@ defineJob<ImportJob>(IMPORT_SCREEN_JOB, async (p) => screenImportStep(payloadOf(
   group: 'imports',
   maxAttempts: 5,
   retryDelaySeconds: 2,
-  expireInSeconds: 60,
+  // A step takes about IMPORT_STEP_MS (5 s); a step still running after 30 s lost its worker.
+  expireInSeconds: 30,
   workspaceOf: (p) => (isImportJob(p) ? p.workspaceId : null),
   singletonKeyOf: (p) => `import:${p.importId}`,
   describe: (p) => `Screening of import #${p.importId}`,
@@ -53,7 +54,7 @@ defineJob<ImportJob>(IMPORT_RESCREEN_JOB, async (p) => rescreenImportStep(payloa
   group: 'imports',
   maxAttempts: 5,
   retryDelaySeconds: 2,
-  expireInSeconds: 60,
+  expireInSeconds: 30,
   workspaceOf: (p) => (isImportJob(p) ? p.workspaceId : null),
   singletonKeyOf: (p) => `rescreen:${p.importId}`,
   describe: (p) => `Re-screening of import #${p.importId}`,
