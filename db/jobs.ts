@@ -40,9 +40,7 @@ export async function insertLocalJob(job: {
 }): Promise<number | null> {
   return writeTx(async (trx) => {
     if (job.singletonKey !== null) {
-      const open = await trx('local_jobs')
-        .where({ name: job.name, singleton_key: job.singletonKey })
-        .first('id');
+      const open = await trx('local_jobs').where({ name: job.name, singleton_key: job.singletonKey }).first('id');
       if (open) return null;
     }
     const now = nowIso();
@@ -158,11 +156,17 @@ const toFailure = (r: Row): JobFailureDto => ({
 });
 
 /** The workspace's failed jobs not yet queued again, newest first. */
-export async function listJobFailures(scope: { workspaceId: number }, opts: { limit?: number } = {}): Promise<JobFailureDto[]> {
+export async function listJobFailures(
+  scope: { workspaceId: number },
+  opts: { limit?: number } = {},
+): Promise<JobFailureDto[]> {
   const rows = (await db()('job_failures')
     .where('workspace_id', scope.workspaceId)
     .whereNull('retried_at')
-    .orderBy([{ column: 'failed_at', order: 'desc' }, { column: 'id', order: 'desc' }])
+    .orderBy([
+      { column: 'failed_at', order: 'desc' },
+      { column: 'id', order: 'desc' },
+    ])
     .limit(opts.limit ?? 50)
     .select('*')) as Row[];
   return rows.map(toFailure);

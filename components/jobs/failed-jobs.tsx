@@ -22,8 +22,8 @@ export function FailedJobs({ jobs, onRetry }: { jobs: FailedJobRow[]; onRetry: (
   if (jobs.length === 0)
     return (
       <p className="text-sm text-ink-soft" data-testid="failed-jobs-empty">
-        No failed background jobs. A job that fails is retried with growing pauses; one that still fails shows here
-        with its reason.
+        No failed background jobs. A job that fails is retried with growing pauses; one that still fails shows here with
+        its reason.
       </p>
     );
   return (

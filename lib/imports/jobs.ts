@@ -63,7 +63,8 @@ defineJob<ImportJob>(IMPORT_RESCREEN_JOB, async (p) => rescreenImportStep(payloa
 defineJob(
   IMPORT_SWEEP_JOB,
   async () => {
-    for (const imp of await listActiveImports()) await queueImportScreening({ importId: imp.id, workspaceId: imp.workspaceId });
+    for (const imp of await listActiveImports())
+      await queueImportScreening({ importId: imp.id, workspaceId: imp.workspaceId });
     for (const r of await listActiveRescreens())
       await queueImportRescreen({ importId: r.importId, workspaceId: r.workspaceId });
   },
@@ -86,6 +87,9 @@ export async function queueImportWork(kind: 'screen' | 'rescreen', job: ImportJo
   try {
     await (kind === 'screen' ? queueImportScreening(job) : queueImportRescreen(job));
   } catch (err) {
-    log.warn({ err, event: 'import.enqueue_failed', importId: job.importId }, 'could not queue import work; the sweep will');
+    log.warn(
+      { err, event: 'import.enqueue_failed', importId: job.importId },
+      'could not queue import work; the sweep will',
+    );
   }
 }

@@ -77,5 +77,12 @@ export async function retryFailedJob(
     target: `job_failure:${f.id}`,
     detail: { job: f.jobName },
   });
-  return { id: f.id, jobName: f.jobName, label: labelOf(f), reason: f.reason, attempts: f.attempts, failedAt: f.failedAt };
+  return {
+    id: f.id,
+    jobName: f.jobName,
+    label: labelOf(f),
+    reason: f.reason,
+    attempts: f.attempts,
+    failedAt: f.failedAt,
+  };
 }

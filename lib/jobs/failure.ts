@@ -39,7 +39,12 @@ export async function afterDeadLetter(def: JobDefinition, payload: unknown, reas
 }
 
 /** The PostgreSQL runner's dead letter (the in-process runner moves its row in one transaction). */
-export async function recordDeadLetter(def: JobDefinition, payload: unknown, err: unknown, attempts: number): Promise<void> {
+export async function recordDeadLetter(
+  def: JobDefinition,
+  payload: unknown,
+  err: unknown,
+  attempts: number,
+): Promise<void> {
   const reason = failureReason(err);
   await recordJobFailure({
     workspaceId: workspaceOfJob(def, payload),

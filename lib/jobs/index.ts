@@ -5,7 +5,14 @@ import { enqueueBoss, startBossRunner, stopBoss } from './pg-boss';
 import { enqueueLocal, startLocalRunner, stopLocalRunner } from './local';
 import { jobDefinition, registry, type JobGroup } from './registry';
 
-export { defineJob, type JobContext, type JobGroup, type JobHandler, type JobOptions, type JobResult } from './registry';
+export {
+  defineJob,
+  type JobContext,
+  type JobGroup,
+  type JobHandler,
+  type JobOptions,
+  type JobResult,
+} from './registry';
 
 /**
  * The job interface of the app: `defineJob(name, handler, options)` (registry.ts), `enqueue(name,

@@ -42,7 +42,10 @@ export interface JobOptions<P> {
   beforeRetry?: (payload: P) => Promise<void>;
 }
 
-export interface JobDefinition<P = unknown> extends Required<Pick<JobOptions<P>, 'maxAttempts' | 'retryDelaySeconds' | 'expireInSeconds'>>, Omit<JobOptions<P>, 'maxAttempts' | 'retryDelaySeconds' | 'expireInSeconds'> {
+export interface JobDefinition<P = unknown>
+  extends
+    Required<Pick<JobOptions<P>, 'maxAttempts' | 'retryDelaySeconds' | 'expireInSeconds'>>,
+    Omit<JobOptions<P>, 'maxAttempts' | 'retryDelaySeconds' | 'expireInSeconds'> {
   name: string;
   handler: JobHandler<P>;
 }

@@ -339,7 +339,10 @@ async function main(): Promise<number> {
       body: failing,
     });
     const failingId = ((await upFailing.json()) as { id?: number }).id ?? 0;
-    check(upFailing.status === 202 && failingId > 0, `an import whose writes always fail accepted (${upFailing.status})`);
+    check(
+      upFailing.status === 202 && failingId > 0,
+      `an import whose writes always fail accepted (${upFailing.status})`,
+    );
     type FailedJob = { label: string; reason: string; attempts: number; failedAt: string };
     let listed: FailedJob | undefined;
     let listStatus = 0;
@@ -372,9 +375,11 @@ async function main(): Promise<number> {
       `that import ended failed with nothing billed (${(failedImport as { status: string }).status}, ${failingUnits} units)`,
     );
     const deadQueued = Number(
-      ((await k.raw(`select count(*)::int as n from pgboss.job where name = 'import.screen__dead'`)) as {
-        rows: { n: number }[];
-      }).rows[0].n,
+      (
+        (await k.raw(`select count(*)::int as n from pgboss.job where name = 'import.screen__dead'`)) as {
+          rows: { n: number }[];
+        }
+      ).rows[0].n,
     );
     check(deadQueued >= 1, `pg-boss holds it in the dead-letter queue (${deadQueued})`);
     const asAnalyst = await fetch(`${a.baseUrl}/api/v1/workspaces/${SLUG}/jobs/failed`, {

@@ -234,7 +234,11 @@ sqliteOnly('imports through the in-process runner', () => {
     expect(imp.failure_reason).toMatch(/Background jobs/);
     expect(await count('usage_events', { workspace_id: ws.id }), 'nothing billed').toBe(0);
     const [failed] = await listFailedJobs({ workspaceId: ws.id });
-    expect(failed).toMatchObject({ jobName: IMPORT_SCREEN_JOB, label: `Screening of import #${importId}`, attempts: 5 });
+    expect(failed).toMatchObject({
+      jobName: IMPORT_SCREEN_JOB,
+      label: `Screening of import #${importId}`,
+      attempts: 5,
+    });
     expect(failed.reason).not.toContain('writes refused');
 
     await db().raw(`DROP TRIGGER refuse_import_${importId}`);

@@ -30,7 +30,10 @@ export const rescreenImportAction = workspaceRowAction('imports:create', noInput
 
 /** Queues a failed background job again with fresh attempts (owners; once per failure). */
 export const retryFailedJobAction = workspaceRowAction('jobs:manage', noInput, async (ctx, id) => {
-  const job = await retryFailedJob({ workspaceId: ctx.workspace.id }, id, { userId: ctx.user.id, label: ctx.user.email });
+  const job = await retryFailedJob({ workspaceId: ctx.workspace.id }, id, {
+    userId: ctx.user.id,
+    label: ctx.user.email,
+  });
   revalidatePath(`/w/${ctx.slug}/imports`);
   return { message: `${job.label}: queued again.` };
 });
