@@ -83,7 +83,10 @@ export async function runDueLocalJobs(opts: { groups?: JobGroup[]; asOf?: () => 
     } catch (err) {
       const reason = failureReason(err);
       log.warn({ err, event: 'jobs.failed', job: def.name, attempt: job.attempts }, 'job run failed');
-      if (job.attempts >= job.maxAttempts) {
+      if (job.attempts >= job.maxAttempts && def.everyMs) {
+        // A recurring job's next run is already on its way: its failure is in the log, not a dead letter.
+        await deleteLocalJob(job.id);
+      } else if (job.attempts >= job.maxAttempts) {
         await deadLetterLocalJob(job.id, {
           workspaceId: workspaceOfJob(def, payload),
           jobName: def.name,

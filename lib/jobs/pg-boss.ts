@@ -150,7 +150,8 @@ async function runOne(b: PgBoss, def: JobDefinition, job: PgBoss.JobWithMetadata
     if (result === 'again') await send(b, def, job.data, job.singletonKey ?? undefined);
   } catch (err) {
     log.warn({ err, event: 'jobs.failed', job: def.name, attempt }, 'job run failed');
-    if (job.retryCount >= job.retryLimit) await recordDeadLetter(def, job.data, err, attempt);
+    // A recurring job's next run is already on its way: its failure is in the log, not a dead letter.
+    if (job.retryCount >= job.retryLimit && !def.everyMs) await recordDeadLetter(def, job.data, err, attempt);
     throw new Error(failureReason(err));
   }
 }

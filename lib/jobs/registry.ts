@@ -28,7 +28,10 @@ export interface JobOptions<P> {
    * PostgreSQL only; the in-process runner re-queues its running job when it starts. Default 60.
    */
   expireInSeconds?: number;
-  /** Queue this job every so many milliseconds while a runner runs (one at a time across processes). */
+  /**
+   * Queue this job every so many milliseconds while a runner runs (one at a time across processes).
+   * A recurring job that fails is logged and simply runs again at its next turn: no dead letter.
+   */
   everyMs?: () => number;
   /** The workspace whose owners see this job when it fails (none: only the logs show it). */
   workspaceOf?: (payload: P) => number | null;

@@ -131,6 +131,21 @@ sqliteOnly('in-process job runner', () => {
     expect(f.reason).not.toContain('secret_column');
   });
 
+  it('a recurring job that fails leaves the queue without a dead letter (its next turn retries)', async () => {
+    defineJob(
+      'test.recurring',
+      async () => {
+        throw new Error('the payment service is away');
+      },
+      { group: 'usage', maxAttempts: 1, everyMs: () => 60_000 },
+    );
+    await enqueue('test.recurring', {}, { singletonKey: 'test.recurring' });
+    expect(await runDueLocalJobs()).toBe(1);
+    expect(await queued('test.recurring')).toEqual([]);
+    expect(await db()('job_failures').where('job_name', 'test.recurring').select('id')).toEqual([]);
+    expect(await enqueue('test.recurring', {}, { singletonKey: 'test.recurring' })).toBe(true);
+  });
+
   it('queues a singleton key once while it waits or runs, and again after it finished', async () => {
     let runs = 0;
     let duringRun: boolean | null = null;
