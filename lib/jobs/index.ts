@@ -46,7 +46,7 @@ const g = globalThis as unknown as { tropopassJobRunner?: RunnerState };
  * (`everyMs`) are queued at once and then at their pace, one waiting at a time across processes.
  * The definitions must be loaded first (lib/jobs/all.ts does it).
  */
-export async function startJobRunner(groups: JobGroup[] = ['imports', 'usage']): Promise<boolean> {
+export async function startJobRunner(groups: JobGroup[] = ['imports', 'usage', 'mail']): Promise<boolean> {
   if (g.tropopassJobRunner || groups.length === 0) return false;
   const s: RunnerState = { groups, timers: [] };
   g.tropopassJobRunner = s;

@@ -57,7 +57,7 @@ export async function enqueueLocal(
  * group this runner does not take, or of no known definition, stays queued.
  */
 export async function runDueLocalJobs(opts: { groups?: JobGroup[]; asOf?: () => Date } = {}): Promise<number> {
-  const groups = new Set(opts.groups ?? (['imports', 'usage'] as JobGroup[]));
+  const groups = new Set(opts.groups ?? (['imports', 'usage', 'mail'] as JobGroup[]));
   let runs = 0;
   for (;;) {
     if (state().stopping) return runs;

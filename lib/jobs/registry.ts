@@ -14,8 +14,11 @@ export interface JobContext {
 
 export type JobHandler<P> = (payload: P, ctx: JobContext) => Promise<JobResult>;
 
-/** Which worker runs it: `npm run worker` with IMPORT_WORKER=0 or BILLING_SENDER=0 leaves a group out. */
-export type JobGroup = 'imports' | 'usage';
+/**
+ * Which runner takes it: `npm run worker` with IMPORT_WORKER=0 or BILLING_SENDER=0 leaves 'imports'
+ * or 'usage' out; 'mail' (report e-mails) runs in every process that runs jobs at all.
+ */
+export type JobGroup = 'imports' | 'usage' | 'mail';
 
 export interface JobOptions<P> {
   group: JobGroup;

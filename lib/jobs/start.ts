@@ -1,6 +1,7 @@
 import 'server-only';
 import '@/lib/imports/jobs';
 import '@/lib/billing/jobs';
+import '@/lib/reports/jobs';
 import { startJobRunner, stopJobRunner } from './index';
 import type { JobGroup } from './registry';
 
@@ -9,7 +10,8 @@ import type { JobGroup } from './registry';
  * (instrumentation.ts for the web process, lib/worker/main.ts for `npm run worker`).
  */
 export function startBackgroundJobs(groups: JobGroup[]): Promise<boolean> {
-  return startJobRunner(groups);
+  if (groups.length === 0) return Promise.resolve(false);
+  return startJobRunner(groups.includes('mail') ? groups : [...groups, 'mail']);
 }
 
 export { stopJobRunner };
