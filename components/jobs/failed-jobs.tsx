@@ -19,12 +19,20 @@ export function FailedJobs({ jobs, onRetry }: { jobs: FailedJobRow[]; onRetry: (
   const router = useRouter();
   const [pending, start] = useTransition();
   const [message, setMessage] = useState<{ ok: boolean; text: string }>();
+  const notice = message ? (
+    <p role={message.ok ? 'status' : 'alert'} className={`mt-2 text-sm ${message.ok ? 'text-ink' : 'text-danger'}`}>
+      {message.text}
+    </p>
+  ) : null;
   if (jobs.length === 0)
     return (
-      <p className="text-sm text-ink-soft" data-testid="failed-jobs-empty">
-        No failed background jobs. A job that fails is retried with growing pauses; one that still fails shows here with
-        its reason.
-      </p>
+      <div data-testid="failed-jobs-empty">
+        <p className="text-sm text-ink-soft">
+          No failed background jobs. A job that fails is retried with growing pauses; one that still fails shows here
+          with its reason.
+        </p>
+        {notice}
+      </div>
     );
   return (
     <div data-testid="failed-jobs">
@@ -77,11 +85,7 @@ export function FailedJobs({ jobs, onRetry }: { jobs: FailedJobRow[]; onRetry: (
           ))}
         </tbody>
       </table>
-      {message ? (
-        <p role={message.ok ? 'status' : 'alert'} className={`mt-2 text-sm ${message.ok ? 'text-ink' : 'text-danger'}`}>
-          {message.text}
-        </p>
-      ) : null}
+      {notice}
     </div>
   );
 }
