@@ -9,7 +9,9 @@ import { AppError } from '@/lib/errors';
 import { defineJob, enqueue } from '@/lib/jobs';
 import { runDueLocalJobs } from '@/lib/jobs/local';
 import { listFailedJobs, retryFailedJob, type FailedJob } from '@/lib/jobs/failed-jobs';
-import { IMPORT_SCREEN_JOB } from '@/lib/imports/jobs';
+import { IMPORT_RESCREEN_JOB, IMPORT_SCREEN_JOB } from '@/lib/imports/jobs';
+import { rescreenImport } from '@/lib/imports/rescreen';
+import { ENGINE_VERSION } from '@/lib/screening';
 
 useTestDatabase();
 
@@ -230,6 +232,24 @@ sqliteOnly('imports through the in-process runner', () => {
     expect(await count('flights', { import_id: importId, status: 'screened' })).toBe(30);
     expect(await count('usage_events', { workspace_id: ws.id })).toBe(30);
     expect(await queued(IMPORT_SCREEN_JOB)).toEqual([]);
+  });
+
+  it('a re-screen request queues one job; the runner puts every flight on the current engine and bills nothing more', async () => {
+    const { ws, importId } = await upload(15);
+    while ((await runDueLocalJobs()) > 0);
+    await db()('flights').where({ import_id: importId }).update({ engine_version: '2000.1.1' });
+    await rescreenImport({ workspaceId: ws.id }, importId, { userId: ws.owner.id, label: 'owner' });
+    expect(await queued(IMPORT_RESCREEN_JOB)).toHaveLength(1);
+    while ((await runDueLocalJobs()) > 0);
+    expect(await count('flights', { import_id: importId, engine_version: ENGINE_VERSION })).toBe(15);
+    expect(
+      ((await db()('imports').where('id', importId).first('rescreen_status')) as { rescreen_status: string })
+        .rescreen_status,
+    ).toBe('complete');
+    expect(
+      await count('usage_events', { workspace_id: ws.id }),
+      'one unit per flight, from the first screening only',
+    ).toBe(15);
   });
 
   it('a screening the database keeps refusing ends failed, as a dead letter the owner sees and retries; the retry screens it once', async () => {
