@@ -13,6 +13,7 @@ const nextConfig = {
     'nodemailer',
     'pdf-lib',
     'piscina',
+    'pg-boss',
     'stripe',
   ],
   poweredByHeader: false,

@@ -643,6 +643,21 @@ export async function failImport(importId: number, reason: string): Promise<void
   );
 }
 
+/**
+ * Opens again an import that failed with flights still pending (an owner retries its failed job):
+ * back to screening, its reason cleared. False when it has nothing left to screen or did not fail.
+ */
+export async function reopenFailedImport(importId: number): Promise<boolean> {
+  return writeTx(async (trx) => {
+    const pending = await trx('flights').where({ import_id: importId, status: 'pending' }).first('id');
+    if (!pending) return false;
+    const n = await trx('imports')
+      .where({ id: importId, status: 'failed' })
+      .update({ status: 'screening', failure_reason: null, finished_at: null, heartbeat_at: nowIso() });
+    return n > 0;
+  });
+}
+
 /* Re-screening an import's flights with a newer engine: asked for by a member, run by the worker. */
 
 /**
@@ -710,6 +725,7 @@ export async function requestImportRescreen(
 
 export interface RescreenJob {
   importId: number;
+  workspaceId: number;
   engineVersion: string;
   lastFlightId: number;
 }
@@ -719,9 +735,10 @@ export async function listActiveRescreens(): Promise<RescreenJob[]> {
   const rows = (await db()('imports')
     .whereIn('rescreen_status', ['queued', 'running'])
     .orderBy('id')
-    .select('id', 'rescreen_engine_version', 'rescreen_last_flight_id')) as Row[];
+    .select('id', 'workspace_id', 'rescreen_engine_version', 'rescreen_last_flight_id')) as Row[];
   return rows.map((r) => ({
     importId: Number(r.id),
+    workspaceId: Number(r.workspace_id),
     engineVersion: String(r.rescreen_engine_version),
     lastFlightId: Number(r.rescreen_last_flight_id ?? 0),
   }));

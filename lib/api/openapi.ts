@@ -292,6 +292,14 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
       },
     },
   },
+  '/workspaces/{slug}/jobs/failed': {
+    get: {
+      summary:
+        "The workspace's background jobs that used up their attempts (dead letters), newest first, not yet retried: { items: { id, jobName, label, reason, attempts, failedAt }[] }. A failing job is retried with growing pauses first; an owner queues a dead letter again from the imports page.",
+      permission: 'jobs:manage',
+      responses: { '200': '{ items }' },
+    },
+  },
   '/workspaces/{slug}/imports/template': {
     get: {
       summary: "A schedule CSV template with example rows using this workspace's aircraft types and fleets",

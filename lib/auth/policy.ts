@@ -29,6 +29,7 @@ export const PERMISSIONS = [
   'periods:sign', // sign a period in review
   'periods:reopen', // reopen a period in review or signed (audited, with a reason)
   'targets:write', // targets per period and fleet
+  'jobs:manage', // see the workspace's failed background jobs with their reason, and queue them again (owners)
 ] as const;
 export type Permission = (typeof PERMISSIONS)[number];
 

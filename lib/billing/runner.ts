@@ -85,3 +85,15 @@ export function stopBillingLoop(): void {
   if (state?.timer) clearInterval(state.timer);
   g.tropopassBillingLoop = undefined;
 }
+
+const gt = globalThis as unknown as { tropopassBillingTick?: LoopState };
+
+/**
+ * One tick of the billing work (provisioning with its back-off, then due usage), under the billing
+ * lock: what the recurring `usage.send` job runs (lib/billing/jobs.ts). Errors are logged and the
+ * next tick retries, as in the loop.
+ */
+export async function runBillingTick(): Promise<void> {
+  gt.tropopassBillingTick ??= { timer: null, running: false, provisionFailures: 0, nextProvisionAt: 0 };
+  await tick(gt.tropopassBillingTick);
+}

@@ -1,7 +1,7 @@
 import 'server-only';
 import { requestImportRescreen, type ImportDto } from '@/db/imports';
 import { ENGINE_VERSION } from '@/lib/screening';
-import { wakeImportWorker } from './worker';
+import { queueImportWork } from './jobs';
 
 /**
  * Queues a background re-screen of an import's flights with the current engine version. No billing
@@ -17,6 +17,6 @@ export async function rescreenImport(
     requestedBy: actor.userId,
     actor: actor.label,
   });
-  wakeImportWorker();
+  await queueImportWork('rescreen', { importId: imp.id, workspaceId: scope.workspaceId });
   return imp;
 }

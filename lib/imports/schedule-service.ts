@@ -9,7 +9,7 @@ import { estimateImport, type ImportEstimate } from '@/lib/billing/budget';
 import { badRequest, tooLarge } from '@/lib/errors';
 import { IMPORT_LIMITS, type ImportProblem } from '@/lib/validation/imports';
 import { flightKey, parseSchedule, sortProblems } from './schedule';
-import { wakeImportWorker } from './worker';
+import { queueImportWork } from './jobs';
 
 /** An uploaded file as the multipart parser gives it. */
 export interface UploadedFile {
@@ -148,6 +148,6 @@ export async function acceptScheduleUpload(
     flights: parsed.flights,
     warnings: parsed.warnings,
   });
-  wakeImportWorker();
+  await queueImportWork('screen', { importId: saved.id, workspaceId: scope.workspaceId });
   return { accepted: true, import: saved, warnings: parsed.warnings };
 }

@@ -50,6 +50,8 @@ export interface RunOptions {
   chunkSize?: number;
   /** Called after each chunk is committed (tests use it to crash a worker mid-way). */
   onChunk?: (p: ChunkProgress) => void | Promise<void>;
+  /** Stop after the chunk that passes this time (ms since the epoch): a job's share of the work. */
+  deadline?: number;
 }
 
 export interface RunSummary {
@@ -98,6 +100,8 @@ function screenChunk(pending: Awaited<ReturnType<typeof listPendingFlights>>): S
   });
 }
 
+const pastDeadline = (opts: RunOptions): boolean => opts.deadline !== undefined && Date.now() >= opts.deadline;
+
 /** Screens one import to its end; null when another worker process is screening it. */
 async function processImport(importId: number, opts: RunOptions): Promise<number | null> {
   const lease = await leaseImport(importId);
@@ -115,7 +119,7 @@ async function screenImport(importId: number, opts: RunOptions): Promise<number>
   let flights = 0;
   let workspaceId: number | null = null;
   for (;;) {
-    if (state().stopping) return flights;
+    if (state().stopping || pastDeadline(opts)) return flights;
     const pending = await listPendingFlights(importId, chunkSize);
     if (pending.length === 0) {
       const status = await finishImport(importId);
@@ -148,7 +152,7 @@ async function processRescreen(job: RescreenJob, opts: RunOptions): Promise<numb
   let flights = 0;
   let workspaceId: number | null = null;
   for (;;) {
-    if (state().stopping) return flights;
+    if (state().stopping || pastDeadline(opts)) return flights;
     const batch = await listRescreenFlights(cursor, chunkSize);
     if (batch.length === 0) {
       await finishRescreen(job.importId);
@@ -275,4 +279,26 @@ export async function stopImportWorker(): Promise<void> {
   s.started = false;
   await s.chain;
   s.stopping = false;
+}
+
+/** Time a job spends on one import before it queues its next step (lib/imports/jobs.ts). */
+export const IMPORT_STEP_MS = 5_000;
+
+/**
+ * One job's share of an import: chunks for about IMPORT_STEP_MS, each saved as always (the chunk logic
+ * above, replay-safe). 'again' while the import still has flights to screen; 'done' when it is
+ * finished, failed, deleted, or being screened by another process (which queues its own next step).
+ */
+export async function screenImportStep(importId: number, opts: RunOptions = {}): Promise<'again' | 'done'> {
+  const flights = await processImport(importId, { deadline: Date.now() + IMPORT_STEP_MS, ...opts });
+  if (flights === null) return 'done';
+  return (await listActiveImports()).some((i) => i.id === importId) ? 'again' : 'done';
+}
+
+/** One job's share of an import's re-screen, as screenImportStep. */
+export async function rescreenImportStep(importId: number, opts: RunOptions = {}): Promise<'again' | 'done'> {
+  const job = (await listActiveRescreens()).find((r) => r.importId === importId);
+  if (!job) return 'done';
+  await processRescreen(job, { deadline: Date.now() + IMPORT_STEP_MS, ...opts });
+  return (await listActiveRescreens()).some((r) => r.importId === importId) ? 'again' : 'done';
 }

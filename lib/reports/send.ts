@@ -8,6 +8,7 @@ import { limitReportSend } from '@/lib/auth/throttle';
 import type { ReportSummary } from './model';
 import { fileStem } from './text';
 import { COUNT_LABELS } from '@/lib/counts';
+import { queueReportRedelivery } from './jobs';
 
 const esc = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
 
@@ -76,11 +77,21 @@ export async function sendReport(
     error: failure ? 'The mail server did not accept the message.' : null,
     actor: input.actor,
   });
-  if (failure)
+  if (failure) {
+    await queueReportRedelivery({
+      workspaceId: scope.workspaceId,
+      reportId: input.reportId,
+      recipients: input.recipients,
+      note: input.note,
+      sentBy: input.sentBy,
+      senderName: input.senderName,
+      actor: input.actor,
+    });
     throw new AppError(
       'unavailable',
-      'The mail server did not accept the report. The attempt is recorded; try again in a few minutes.',
+      'The mail server did not accept the report. The attempt is recorded and the e-mail is retried in the background for a few minutes; an owner sees it under Background jobs if it still fails.',
       { extra: { sendId: send.id } },
     );
+  }
   return send;
 }

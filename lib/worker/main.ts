@@ -1,27 +1,29 @@
 /**
- * `npm run worker`: a background process apart from the web: screens imports (in worker threads)
- * and sends usage to the payment service, against the same database as the web instances. Run any
- * number of them; on PostgreSQL the usage sender ticks in one process at a time (an advisory lock,
- * lib/billing/runner.ts). Web instances started with IMPORT_WORKER=0 BILLING_SENDER=0 leave this
- * work to them. IMPORT_WORKER=0 or BILLING_SENDER=0 here makes a worker that does only the other.
+ * `npm run worker`: a background process apart from the web: runs the background jobs (lib/jobs:
+ * import screening in worker threads, re-screening, usage sending) against the same database as the
+ * web instances. Run any number of them; on PostgreSQL they share the pg-boss queue, and the usage
+ * sender runs in one process at a time (a singleton job under an advisory lock,
+ * lib/billing/jobs.ts). Web instances started with IMPORT_WORKER=0 BILLING_SENDER=0 leave this work
+ * to them. IMPORT_WORKER=0 or BILLING_SENDER=0 here makes a worker that does only the other.
  *
  *   node --conditions=react-server --import tsx lib/worker/main.ts
  *
  * (`react-server` lets the app's `server-only` modules load outside Next.js.)
  */
 import { closeDb } from '@/db/client';
-import { startBillingLoop, stopBillingLoop } from '@/lib/billing/runner';
 import { env } from '@/lib/env';
 import { closeScreeningPool, screeningThreads } from '@/lib/imports/screening-pool';
-import { startImportWorker, stopImportWorker } from '@/lib/imports/worker';
+import { startBackgroundJobs, stopJobRunner } from '@/lib/jobs/start';
 import { log } from '@/lib/log';
 
 async function main(): Promise<void> {
   const e = env();
   if (!e.IMPORT_WORKER && !e.BILLING_SENDER)
     throw new Error('IMPORT_WORKER=0 and BILLING_SENDER=0 leave this worker nothing to do.');
-  if (e.IMPORT_WORKER) startImportWorker();
-  if (e.BILLING_SENDER) startBillingLoop();
+  await startBackgroundJobs([
+    ...(e.IMPORT_WORKER ? (['imports'] as const) : []),
+    ...(e.BILLING_SENDER ? (['usage'] as const) : []),
+  ]);
   log.info(
     {
       event: 'worker.started',
@@ -40,9 +42,8 @@ async function main(): Promise<void> {
   const stop = async (signal: NodeJS.Signals) => {
     if (stopping) return;
     stopping = true;
-    log.info({ event: 'worker.stopping', signal }, 'worker stopping after the current chunk');
-    stopBillingLoop();
-    await stopImportWorker();
+    log.info({ event: 'worker.stopping', signal }, 'worker stopping after the current job');
+    await stopJobRunner();
     await closeScreeningPool();
     await closeDb();
     process.exit(0);

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import Database from 'better-sqlite3';
 import { newPage, screenshot, signIn, useBrowser } from './support/browser';
 
 const { browser } = useBrowser();
@@ -99,6 +100,51 @@ describe('schedule import journey (analyst, skarn-polar)', () => {
     await page.getByRole('status').filter({ hasText: 'already billed stay billed' }).waitFor();
     await item.waitFor({ state: 'detached' });
     await screenshot(page, 'imports-deleted');
+    expect(await page.getByRole('heading', { name: 'Background jobs' }).count(), 'owners only').toBe(0);
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  it('an owner sees a failed background job with its reason and queues it again', async () => {
+    const file = process.env.SQLITE_FILE;
+    expect(file, 'the e2e runner sets SQLITE_FILE').toBeTruthy();
+    const sqlite = new Database(file!);
+    try {
+      const ws = sqlite.prepare('SELECT id FROM workspaces WHERE slug = ?').get('skarn-polar') as { id: number };
+      // A report e-mail whose report is gone by now: the retried job finds nothing to send and ends.
+      sqlite
+        .prepare(
+          'INSERT INTO job_failures (workspace_id, job_name, payload_json, reason, attempts, failed_at) VALUES (?, ?, ?, ?, ?, ?)',
+        )
+        .run(
+          ws.id,
+          'report.redeliver',
+          JSON.stringify({
+            workspaceId: ws.id,
+            reportId: 987654,
+            recipients: ['board@example.test'],
+            sentBy: null,
+            senderName: 'E2E',
+            actor: 'e2e',
+          }),
+          'The mail server did not accept the report e-mail.',
+          5,
+          new Date().toISOString(),
+        );
+    } finally {
+      sqlite.close();
+    }
+    const { page, context, errors } = await newPage(browser());
+    await signIn(page, 'consultant@tropopass.test');
+    await page.goto('/w/skarn-polar/imports#background-jobs');
+    const section = page.locator('#background-jobs');
+    await section.getByRole('heading', { name: 'Background jobs' }).waitFor();
+    const row = section.locator('tr').filter({ hasText: 'E-mail of report #987654 to 1 recipient' });
+    expect(await row.textContent()).toContain('The mail server did not accept the report e-mail.');
+    await screenshot(page, 'imports-background-jobs');
+    await row.getByRole('button', { name: /Retry/ }).click();
+    await section.getByRole('status').filter({ hasText: 'queued again' }).waitFor();
+    await row.waitFor({ state: 'detached' });
     expect(errors).toEqual([]);
     await context.close();
   });

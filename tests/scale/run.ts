@@ -5,9 +5,13 @@
  * processes (`npm run worker`) on free ports, then checks:
  * - an API key created through instance A works on instance B;
  * - sign-in throttling counts failed attempts made on A and B together;
- * - a 20 000-row import uploaded through A is screened by worker 1, which is SIGKILLed mid-way with
- *   worker 2 running beside it: worker 2 takes the import over (the advisory lock went with worker 1's
- *   connection), worker 1 is restarted, and every flight ends screened with one usage unit each;
+ * - a 20 000-row import uploaded through A is screened through the job queue (pg-boss), in steps, by
+ *   worker 1, which is SIGKILLed mid-way with worker 2 running beside it: worker 2 takes the import
+ *   over (worker 1's running step expires and is retried; the import's advisory lock went with worker
+ *   1's connection), worker 1 is restarted, and every flight ends screened with one usage unit each;
+ * - a job that always fails (an import whose flights the database refuses to update, by a trigger)
+ *   is retried with back-off and ends as a dead letter: the import failed and unbilled, the job in
+ *   the owner's list of failed jobs (GET .../jobs/failed) with its reason, refused to an analyst key;
  * - the usage senders (one per worker, under the advisory lock) send each unit once: the payment
  *   fake's meter events are the ledger's batches, each once, and their units equal the units sent.
  * Builds first when there is no build (under the checkout's e2e lock). SCALE_ROWS sets the import size.
@@ -279,8 +283,9 @@ async function main(): Promise<number> {
       killedAt > 0 && killedAt < ROWS,
       `worker 1 SIGKILLed mid-way, with worker 2 running beside it (${killedAt} / ${ROWS} rows screened)`,
     );
-    // Its lock went with its connection: worker 2 takes the import over without waiting for a timeout.
-    const takeover = Date.now() + 30_000;
+    // Worker 1's running step expires (30 s) and is retried by worker 2; the import's lock went with
+    // worker 1's connection, so worker 2 may screen it at once.
+    const takeover = Date.now() + 90_000;
     let after = Number(p.rows_done);
     while (after <= killedAt + 500 && Date.now() < takeover) {
       await pause(100);
@@ -288,7 +293,7 @@ async function main(): Promise<number> {
     }
     check(
       after > killedAt + 500,
-      `worker 2 went on with the import (${killedAt} -> ${after} rows within ${((Date.now() - takeover + 30_000) / 1000).toFixed(1)} s)`,
+      `worker 2 went on with the import (${killedAt} -> ${after} rows within ${((Date.now() - takeover + 90_000) / 1000).toFixed(1)} s)`,
     );
     workers[0] = startWorker(workerEnv, 'worker-1b');
     while (p.status !== 'complete' && p.status !== 'failed' && Date.now() < deadline) {
@@ -316,6 +321,72 @@ async function main(): Promise<number> {
       Number(units.n) === ROWS && Number(units.d) === ROWS,
       `one usage unit per flight (${units.n} units, ${units.d} flights)`,
     );
+
+    // A job that always fails: the database refuses the writes of one import's flights.
+    await k.raw(`CREATE FUNCTION scale_refuse() RETURNS trigger LANGUAGE plpgsql AS $$
+      BEGIN
+        IF EXISTS (SELECT 1 FROM imports WHERE id = NEW.import_id AND file_name = 'always-fails.csv') THEN
+          RAISE EXCEPTION 'writes refused for the scale test';
+        END IF;
+        RETURN NEW;
+      END $$`);
+    await k.raw('CREATE TRIGGER scale_refuse BEFORE UPDATE ON flights FOR EACH ROW EXECUTE FUNCTION scale_refuse()');
+    const failing = new FormData();
+    failing.set('file', new Blob([schedule(40).replace(/,SC/g, ',DL')], { type: 'text/csv' }), 'always-fails.csv');
+    const upFailing = await fetch(`${a.baseUrl}/api/v1/workspaces/${SLUG}/imports`, {
+      method: 'POST',
+      headers: { authorization: `Bearer ${key}` },
+      body: failing,
+    });
+    const failingId = ((await upFailing.json()) as { id?: number }).id ?? 0;
+    check(
+      upFailing.status === 202 && failingId > 0,
+      `an import whose writes always fail accepted (${upFailing.status})`,
+    );
+    type FailedJob = { label: string; reason: string; attempts: number; failedAt: string };
+    let listed: FailedJob | undefined;
+    let listStatus = 0;
+    const dlDeadline = Date.now() + 150_000;
+    while (!listed && Date.now() < dlDeadline) {
+      await pause(1000);
+      const r = await fetch(`${b.baseUrl}/api/v1/workspaces/${SLUG}/jobs/failed`, {
+        headers: { cookie: `next-auth.session-token=${token}` },
+      });
+      listStatus = r.status;
+      const items = r.ok ? ((await r.json()) as { items: FailedJob[] }).items : [];
+      listed = items.find((j) => j.label === `Screening of import #${failingId}`);
+    }
+    check(
+      listed !== undefined && listed.attempts === 5 && /database refused/.test(listed.reason),
+      `its job is a dead letter in the owner's list after 5 attempts (${listStatus}: ${JSON.stringify(listed)})`,
+    );
+    const failedImport = await k('imports').where({ id: failingId }).first();
+    const failingUnits = Number(
+      (
+        (await k('usage_events as u')
+          .join('flights as f', 'f.id', 'u.source_id')
+          .where({ 'u.kind': 'imported_flight', 'f.import_id': failingId })
+          .count({ n: '*' })
+          .first()) as { n: string }
+      ).n,
+    );
+    check(
+      (failedImport as { status: string }).status === 'failed' && failingUnits === 0,
+      `that import ended failed with nothing billed (${(failedImport as { status: string }).status}, ${failingUnits} units)`,
+    );
+    const deadQueued = Number(
+      (
+        (await k.raw(`select count(*)::int as n from pgboss.job where name = 'import.screen__dead'`)) as {
+          rows: { n: number }[];
+        }
+      ).rows[0].n,
+    );
+    check(deadQueued >= 1, `pg-boss holds it in the dead-letter queue (${deadQueued})`);
+    const asAnalyst = await fetch(`${a.baseUrl}/api/v1/workspaces/${SLUG}/jobs/failed`, {
+      headers: { authorization: `Bearer ${key}` },
+    });
+    check(asAnalyst.status === 403, `the failed-jobs list is refused to an analyst's key (${asAnalyst.status})`);
+    await k.raw('DROP TRIGGER scale_refuse ON flights');
 
     // The senders drain the ledger; the payment service holds each batch once.
     const billable = () =>

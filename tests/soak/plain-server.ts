@@ -69,8 +69,13 @@ async function main(): Promise<void> {
   const port = Number(process.argv[2] ?? 3000);
   const { env } = await import('@/lib/env');
   const e = env();
-  if (e.IMPORT_WORKER) (await import('@/lib/imports/worker')).startImportWorker();
-  if (e.BILLING_SENDER) (await import('@/lib/billing/runner')).startBillingLoop();
+  // As instrumentation.ts: the background jobs of the app, on the in-process runner.
+  await (
+    await import('@/lib/jobs/start')
+  ).startBackgroundJobs([
+    ...(e.IMPORT_WORKER ? (['imports'] as const) : []),
+    ...(e.BILLING_SENDER ? (['usage'] as const) : []),
+  ]);
 
   const server = http.createServer((req, res) => {
     void (async () => {

@@ -3,6 +3,7 @@
 import { revalidatePath } from 'next/cache';
 import { deleteImport } from '@/db/imports';
 import { rescreenImport } from '@/lib/imports/rescreen';
+import { retryFailedJob } from '@/lib/jobs/failed-jobs';
 import { noInput, workspaceRowAction } from '@/lib/actions/workspace-action';
 
 /** Deletes an import and its flights; units already billed stay in the ledger. */
@@ -25,4 +26,14 @@ export const rescreenImportAction = workspaceRowAction('imports:create', noInput
   return {
     message: `Import #${imp.id}: ${imp.rescreen?.rows ?? 0} flights are being screened again with engine version ${imp.rescreen?.engineVersion ?? ''}; not billed again.`,
   };
+});
+
+/** Queues a failed background job again with fresh attempts (owners; once per failure). */
+export const retryFailedJobAction = workspaceRowAction('jobs:manage', noInput, async (ctx, id) => {
+  const job = await retryFailedJob({ workspaceId: ctx.workspace.id }, id, {
+    userId: ctx.user.id,
+    label: ctx.user.email,
+  });
+  revalidatePath(`/w/${ctx.slug}/imports`);
+  return { message: `${job.label}: queued again.` };
 });

@@ -11,7 +11,9 @@ import { Notice } from '@/components/ui/notice';
 import { FormatReference, FormatSummary } from '@/components/imports/format-guide';
 import { UploadForm } from '@/components/imports/upload-form';
 import { ImportList } from '@/components/imports/import-list';
-import { deleteImportAction, rescreenImportAction } from './actions';
+import { FailedJobs } from '@/components/jobs/failed-jobs';
+import { listFailedJobs } from '@/lib/jobs/failed-jobs';
+import { deleteImportAction, rescreenImportAction, retryFailedJobAction } from './actions';
 import { ENGINE_VERSION } from '@/lib/screening';
 
 export const metadata = { title: 'Imports' };
@@ -20,10 +22,12 @@ export default async function ImportsPage({ params }: { params: Promise<{ worksp
   const { workspace: slug } = await params;
   const { workspace, role } = await requireMember(slug, 'flights:read');
   const scope = { workspaceId: workspace.id };
-  const [imports, types, fleets] = await Promise.all([
+  const canManageJobs = can(role, 'jobs:manage');
+  const [imports, types, fleets, failedJobs] = await Promise.all([
     listImports(scope, { limit: 50 }),
     listAircraftForScreening(scope),
     listFleetsByName(scope),
+    canManageJobs ? listFailedJobs(scope) : Promise.resolve([]),
   ]);
   const canUpload = can(role, 'imports:create');
   const canDelete = can(role, 'imports:delete');
@@ -101,6 +105,13 @@ export default async function ImportsPage({ params }: { params: Promise<{ worksp
           </>
         )}
       </Card>
+      {canManageJobs ? (
+        <section id="background-jobs" className="mt-6 scroll-mt-6">
+          <Card title="Background jobs">
+            <FailedJobs jobs={failedJobs} onRetry={retryFailedJobAction.bind(null, slug)} />
+          </Card>
+        </section>
+      ) : null}
       <section id="format" className="mt-6 scroll-mt-6">
         <Card title="Column reference">
           <FormatReference example={example} />

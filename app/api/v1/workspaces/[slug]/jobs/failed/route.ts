@@ -1,0 +1,7 @@
+import { json, workspaceRoute } from '@/lib/api/route';
+import { listFailedJobs } from '@/lib/jobs/failed-jobs';
+
+/** The workspace's failed background jobs (dead letters) not yet retried, newest first: owners only. */
+export const GET = workspaceRoute<{ slug: string }>('jobs:manage', async ({ member }) =>
+  json({ items: await listFailedJobs({ workspaceId: member.workspace.id }) }),
+);
