@@ -254,7 +254,15 @@ export async function listPlannedFlightRefs(
     .select('id', 'date', 'flight', 'origin', 'destination', 'aircraft_code', 'fuel_kg')) as Row[];
   const out = new Map<
     string,
-    { id: number; date: string; flight: string; origin: string; destination: string; aircraftCode: string; fuelKg: number }[]
+    {
+      id: number;
+      date: string;
+      flight: string;
+      origin: string;
+      destination: string;
+      aircraftCode: string;
+      fuelKg: number;
+    }[]
   >();
   for (const r of rows) {
     const key = `${r.date}|${r.flight}`;

@@ -461,7 +461,10 @@ export async function createTrackImport(
             'flown',
           );
         }
-        await trx.raw(`INSERT INTO flights (${columns.join(', ')}) VALUES ${batch.map(() => row).join(', ')}`, bindings);
+        await trx.raw(
+          `INSERT INTO flights (${columns.join(', ')}) VALUES ${batch.map(() => row).join(', ')}`,
+          bindings,
+        );
       }
       await createAuditEntry(
         {

@@ -24,7 +24,10 @@ export async function down(knex: Knex): Promise<void> {
   await knex('flights').where('basis', 'flown').delete();
   await knex.schema.alterTable('flights', (t) => {
     t.dropIndex(['workspace_id', 'date', 'flight'], 'flights_workspace_date_flight_index');
-    t.dropUnique(['workspace_id', 'basis', 'date', 'flight', 'origin', 'destination'], 'flights_workspace_basis_key_unique');
+    t.dropUnique(
+      ['workspace_id', 'basis', 'date', 'flight', 'origin', 'destination'],
+      'flights_workspace_basis_key_unique',
+    );
   });
   await knex.schema.alterTable('flights', (t) => {
     t.unique(['workspace_id', 'date', 'flight', 'origin', 'destination']);

@@ -299,7 +299,9 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
         'Upload a flown-track CSV (80 MB, 1 000 000 points, 5 000 flights at most; read as a stream). Columns flight, date, time (HH:MM:SS UTC), lat, lon, altitude_ft or flight_level; optional fuel_flow_kg_h (on every point of a flight: integrated over time; else the planned flight fuel is spread by time), aircraft, origin, destination (else taken from the planned flight with the same flight number and date). Every point is checked first: any problem refuses the whole file (nothing saved); otherwise the import (kind tracks) is queued and each flight is screened in the background as a flown flight, one billable unit per flight.',
       permission: 'imports:create',
       requestBody: { multipart: { file: 'the track CSV' } },
-      query: { dryRun: '1: check every point and flight and answer 200 { dryRun, flights, points, warnings }; nothing saved' },
+      query: {
+        dryRun: '1: check every point and flight and answer 200 { dryRun, flights, points, warnings }; nothing saved',
+      },
       responses: {
         '200': 'With dryRun=1: the check; nothing saved',
         '202': '{ id, kind: tracks, status: queued, rows (flights), points, ... }',
@@ -312,7 +314,8 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   },
   '/workspaces/{slug}/imports/tracks/template': {
     get: {
-      summary: "A flown-track CSV template: two short invented flights with fuel flows on one of this workspace's aircraft types",
+      summary:
+        "A flown-track CSV template: two short invented flights with fuel flows on one of this workspace's aircraft types",
       permission: 'flights:read',
       responses: { '200': 'text/csv' },
     },
@@ -332,6 +335,14 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
         limit: '1-200',
       },
       responses: { '200': '{ items, nextCursor }' },
+    },
+  },
+  '/workspaces/{slug}/flights/{id}': {
+    get: {
+      summary:
+        'One imported flight: its basis (planned or flown), inputs, figures, engine version, import (importFileName, sourceLine), trackPoints for a flown track, and, when the same flight (date, flight, origin, destination) was both planned and flown, paired (the other side) and comparison { planned, flown: { noxAboveTropopauseKg, fractionAboveTropopause, fuelKg }, noxAboveDeltaKg, shareAboveDelta } (flown minus planned). The page is /w/{slug}/flights/{id}.',
+      permission: 'flights:read',
+      responses: { '200': 'The flight', '404': 'No such flight in this workspace' },
     },
   },
   '/workspaces/{slug}/routes': {

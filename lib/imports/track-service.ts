@@ -84,7 +84,9 @@ export async function readTrackUpload(req: Request): Promise<{ name: string; par
       fail(
         err instanceof AppError
           ? err
-          : badRequest('The upload could not be read as multipart/form-data. Attach the track CSV in the field “file”.'),
+          : badRequest(
+              'The upload could not be read as multipart/form-data. Attach the track CSV in the field “file”.',
+            ),
       ),
     );
     body.on('error', () => fail(badRequest('The upload was cut off before its end; send it again.')));

@@ -142,7 +142,11 @@ function readHeader(cells: string[]): HeaderMap {
   });
   for (const required of TRACK_REQUIRED_COLUMNS) {
     if (!seen.has(required))
-      problems.push({ line: 1, column: required, message: `The required column ${required} is missing from the header row.` });
+      problems.push({
+        line: 1,
+        column: required,
+        message: `The required column ${required} is missing from the header row.`,
+      });
   }
   if (!seen.has('altitude_ft') && !seen.has('flight_level'))
     problems.push({
@@ -228,7 +232,10 @@ export async function parseTrackCsv(source: Readable): Promise<ParsedTracks> {
     else if (flight.length > 16) flag('flight', 'A flight number has at most 16 characters.');
     const day = dayMs(cells.date ?? '');
     if (!Number.isFinite(day))
-      flag('date', cells.date ? 'Write the date as YYYY-MM-DD (UTC), a real calendar date.' : 'Give the date as YYYY-MM-DD (UTC).');
+      flag(
+        'date',
+        cells.date ? 'Write the date as YYYY-MM-DD (UTC), a real calendar date.' : 'Give the date as YYYY-MM-DD (UTC).',
+      );
     const tod = timeOfDayMs(cells.time ?? '');
     if (!Number.isFinite(tod)) flag('time', 'Write the time as HH:MM:SS (UTC), such as 10:42:05.');
     const lat = numberCell(cells.lat);
@@ -242,12 +249,18 @@ export async function parseTrackCsv(source: Readable): Promise<ParsedTracks> {
     if (levelColumn === 'altitude_ft') {
       const ft = numberCell(cells.altitude_ft);
       if (ft === null || ft < SCREENING_LIMITS.minFlightLevel * 100 || ft > SCREENING_LIMITS.maxFlightLevel * 100)
-        flag('altitude_ft', `Give the pressure altitude in ft, ${SCREENING_LIMITS.minFlightLevel * 100} to ${SCREENING_LIMITS.maxFlightLevel * 100}.`);
+        flag(
+          'altitude_ft',
+          `Give the pressure altitude in ft, ${SCREENING_LIMITS.minFlightLevel * 100} to ${SCREENING_LIMITS.maxFlightLevel * 100}.`,
+        );
       else level = ft / 100;
     } else {
       const fl = numberCell(cells.flight_level?.replace(/^FL\s*/i, ''));
       if (fl === null || fl < SCREENING_LIMITS.minFlightLevel || fl > SCREENING_LIMITS.maxFlightLevel)
-        flag('flight_level', `Give the flight level, ${SCREENING_LIMITS.minFlightLevel} to ${SCREENING_LIMITS.maxFlightLevel}.`);
+        flag(
+          'flight_level',
+          `Give the flight level, ${SCREENING_LIMITS.minFlightLevel} to ${SCREENING_LIMITS.maxFlightLevel}.`,
+        );
       else level = fl;
     }
     let ff = Number.NaN;
@@ -529,7 +542,10 @@ export function prepareTrackFlights(
     const key = `${f.date}|${f.flight}|${origin}|${destination}`;
     const earlier = seen.get(key);
     if (earlier !== undefined) {
-      at('flight', `Flight ${f.flight} on ${f.date} from ${origin} to ${destination} is already on line ${earlier}; give each flight’s points once.`);
+      at(
+        'flight',
+        `Flight ${f.flight} on ${f.date} from ${origin} to ${destination} is already on line ${earlier}; give each flight’s points once.`,
+      );
       continue;
     }
     seen.set(key, f.firstLine);
@@ -547,7 +563,10 @@ export function prepareTrackFlights(
     }
     const type = ctx.aircraft.get(code.toUpperCase());
     if (type === undefined) {
-      at('aircraft', `No aircraft type ${code} in this workspace: add it on the Engines & aircraft page or fix the code.`);
+      at(
+        'aircraft',
+        `No aircraft type ${code} in this workspace: add it on the Engines & aircraft page or fix the code.`,
+      );
       continue;
     }
     if (type.emission === null) {

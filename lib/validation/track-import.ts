@@ -51,11 +51,18 @@ export const TRACK_COLUMN_DOCS: readonly TrackColumnDoc[] = [
     name: 'time',
     required: 'yes',
     unit: 'HH:MM:SS, UTC',
-    description: 'Time of the point. Points of a flight in time order; a time earlier than the one before is the next day.',
+    description:
+      'Time of the point. Points of a flight in time order; a time earlier than the one before is the next day.',
     example: '10:42:05',
   },
   { name: 'lat', required: 'yes', unit: 'degrees, -90 to 90', description: 'Latitude (WGS-84).', example: '61.2104' },
-  { name: 'lon', required: 'yes', unit: 'degrees, -180 to 180', description: 'Longitude (WGS-84).', example: '-12.5031' },
+  {
+    name: 'lon',
+    required: 'yes',
+    unit: 'degrees, -180 to 180',
+    description: 'Longitude (WGS-84).',
+    example: '-12.5031',
+  },
   {
     name: 'altitude_ft',
     required: 'one of two',

@@ -74,7 +74,9 @@ describe('POST /workspaces/{slug}/imports/tracks', () => {
     ]);
     // 4 legs of 8 min at 6000 kg/h: 3200 kg, integrated from the points' own fuel flow.
     expect(Number(flights[0].fuel_kg)).toBeCloseTo(3200, 6);
-    const units = await db()('usage_events').where({ workspace_id: ws.id, kind: 'imported_flight' }).select('source_id');
+    const units = await db()('usage_events')
+      .where({ workspace_id: ws.id, kind: 'imported_flight' })
+      .select('source_id');
     expect(units.map((u) => Number(u.source_id)).sort((a, b) => a - b)).toEqual(flights.map((f) => Number(f.id)));
     // The stored figures are the engine's for the stored track input.
     const direct = screenFlight(JSON.parse(flights[0].input_json));
@@ -149,12 +151,12 @@ describe('POST /workspaces/{slug}/imports/tracks', () => {
       [TRACK_HEADER, ...flightRows('TK1', 3, { flow: false })],
       { line: 2, column: 'fuel_flow_kg_h' },
     ],
+    ['a flight with one point', [TRACK_HEADER, ...flightRows('TK1', 1)], { line: 2, column: 'flight' }],
     [
-      'a flight with one point',
-      [TRACK_HEADER, ...flightRows('TK1', 1)],
-      { line: 2, column: 'flight' },
+      'no level column',
+      ['flight,date,time,lat,lon', 'TK1,2026-11-03,10:00:00,60,10'],
+      { line: 1, column: 'altitude_ft' },
     ],
-    ['no level column', ['flight,date,time,lat,lon', 'TK1,2026-11-03,10:00:00,60,10'], { line: 1, column: 'altitude_ft' }],
     [
       'an altitude above FL660',
       [TRACK_HEADER, ...flightRows('TK1', 2), 'TK1,2026-11-03,10:20:00,62,10,70000,6000,T-LR,ENGM,BIKF'],
@@ -172,9 +174,13 @@ describe('POST /workspaces/{slug}/imports/tracks', () => {
   it('a viewer may not upload (403); the template downloads and imports as it is', async () => {
     const { ws, cookie } = await analystWorkspace();
     const viewer = await sessionCookie(ws.members.viewer.id);
-    const denied = await call(tracksRoute.POST, trackUpload(ws.slug, csv(TRACK_HEADER, ...flightRows('TK1', 3)), viewer), {
-      slug: ws.slug,
-    });
+    const denied = await call(
+      tracksRoute.POST,
+      trackUpload(ws.slug, csv(TRACK_HEADER, ...flightRows('TK1', 3)), viewer),
+      {
+        slug: ws.slug,
+      },
+    );
     expect(denied.status).toBe(403);
     const t = await trackTemplateRoute.GET(
       apiRequest('GET', `/api/v1/workspaces/${ws.slug}/imports/tracks/template`, { cookie }),

@@ -11,12 +11,9 @@ export const POST = workspaceRoute<{ slug: string }>('imports:create', async ({ 
   const dry = new URL(req.url).searchParams.get('dryRun');
   if (dry !== null && dry !== '1' && dry !== 'true' && dry !== '0' && dry !== 'false')
     throw invalidFields([{ path: 'dryRun', message: 'dryRun is 1 (check only) or 0.' }]);
-  const outcome = await acceptTrackUpload(
-    { workspaceId: member.workspace.id },
-    { userId, label: actorLabel },
-    req,
-    { dryRun: dry === '1' || dry === 'true' },
-  );
+  const outcome = await acceptTrackUpload({ workspaceId: member.workspace.id }, { userId, label: actorLabel }, req, {
+    dryRun: dry === '1' || dry === 'true',
+  });
   if (!outcome.accepted) {
     const lines = new Set(outcome.problems.map((p) => p.line)).size;
     const listed =
