@@ -31,6 +31,8 @@ export async function getMonthSummaries(scope: {
     k('flights')
       .whereIn('workspace_id', scope.workspaceIds)
       .where('status', 'screened')
+      // Each flight once: its plan (a flown track of the same flight is its other side, not another flight).
+      .where('basis', 'planned')
       .whereBetween('date', [from, to])
       .groupBy('workspace_id')
       .select('workspace_id')
@@ -85,7 +87,7 @@ export async function getMonthlyTrend(scope: { workspaceId: number }, months = 6
   const k = db();
   const [flights, screenings] = await Promise.all([
     k('flights')
-      .where({ workspace_id: scope.workspaceId, status: 'screened' })
+      .where({ workspace_id: scope.workspaceId, status: 'screened', basis: 'planned' })
       .whereBetween('date', [from, to])
       .groupByRaw('substr(date, 1, 7)')
       .select(k.raw('substr(date, 1, 7) as month'))

@@ -581,6 +581,8 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
         minFl: 'level band bottom, 0-660',
         maxFl: 'level band top, 0-660',
         groupBy: 'fleet | month | aircraft',
+        basis:
+          'planned (default: schedule flights) | flown (imported tracks) | flown-where-available (each flight once: its screened flown track where there is one, else its plan)',
         fleets: 'comma-separated fleet ids',
       },
       responses: { '200': '{ period, groupBy, filters, rows, totals, months, series, context, notes, cautions }' },
