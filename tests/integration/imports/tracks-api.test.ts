@@ -1,5 +1,14 @@
+import { spawn } from 'node:child_process';
 import { describe, expect, it } from 'vitest';
-import { TEST_ORIGIN, apiRequest, call, makeWorkspace, sessionCookie, useTestDatabase } from '../../support/test-db';
+import {
+  TEST_ORIGIN,
+  apiRequest,
+  call,
+  makeWorkspace,
+  onPostgres,
+  sessionCookie,
+  useTestDatabase,
+} from '../../support/test-db';
 import * as importsRoute from '@/app/api/v1/workspaces/[slug]/imports/route';
 import * as tracksRoute from '@/app/api/v1/workspaces/[slug]/imports/tracks/route';
 import * as trackTemplateRoute from '@/app/api/v1/workspaces/[slug]/imports/tracks/template/route';
@@ -10,7 +19,7 @@ import { screenFlight } from '@/lib/screening';
 import type { ImportDto } from '@/db/imports';
 import { HEADER, addScheduleLibrary, csv, uploadRequest } from './support';
 
-useTestDatabase();
+const { file } = useTestDatabase();
 
 type Problem = { line: number; column: string; message: string };
 type Refusal = { problems: Problem[]; problemCount: number };
@@ -193,4 +202,70 @@ describe('POST /workspaces/{slug}/imports/tracks', () => {
     expect(r.status).toBe(202);
     expect(r.body.rows).toBe(2);
   });
+});
+
+describe('track import worker', () => {
+  // Timed against progress on the SQLite file, like the schedule import's kill test.
+  it.skipIf(onPostgres())(
+    'a worker killed mid-screening (SIGKILL) loses and doubles no flown flight (200 flights, chunks of 2); the next one resumes and bills each once',
+    async () => {
+      const { ws, cookie } = await analystWorkspace();
+      const rows = [TRACK_HEADER];
+      for (let f = 0; f < 200; f++) rows.push(...flightRows(`TK${f}`, 12, { lon: (f % 20) * 3 - 30 }));
+      const r = await call<ImportDto>(tracksRoute.POST, trackUpload(ws.slug, csv(...rows), cookie), { slug: ws.slug });
+      expect(r.status).toBe(202);
+      const child = spawn(
+        process.execPath,
+        ['--conditions=react-server', '--import', 'tsx', 'tests/integration/imports/worker-child.ts', '2'],
+        {
+          cwd: process.cwd(),
+          env: { ...process.env, SQLITE_FILE: file(), DATABASE_URL: '', LOG_LEVEL: 'silent' },
+          stdio: ['ignore', 'pipe', 'pipe'],
+        },
+      );
+      const exited = new Promise<NodeJS.Signals | null>((resolve) => child.on('exit', (_c, signal) => resolve(signal)));
+      let chunks = 0;
+      await new Promise<void>((resolve, reject) => {
+        child.stdout.on('data', (d: Buffer) => {
+          chunks += (d.toString().match(/^chunk/gm) ?? []).length;
+          if (chunks >= 3 && child.exitCode === null) {
+            child.kill('SIGKILL');
+            resolve();
+          }
+          if (/done/.test(d.toString())) reject(new Error('the child finished before it could be killed'));
+        });
+      });
+      expect(await exited).toBe('SIGKILL');
+      const count = async (where: Record<string, unknown>) =>
+        Number(
+          (
+            (await db()('flights')
+              .where({ import_id: r.body.id, ...where })
+              .count({ n: '*' })
+              .first()) as { n: number }
+          ).n,
+        );
+      const units = async () =>
+        (await db()('usage_events as u')
+          .join('flights as f', 'f.id', 'u.source_id')
+          .where({ 'u.kind': 'imported_flight', 'f.import_id': r.body.id })
+          .count({ n: '*' })
+          .countDistinct({ d: 'u.source_id' })
+          .first()) as { n: number; d: number };
+      const midScreened = await count({ status: 'screened' });
+      // At least the chunks the child reported were committed, each with its units; the rest still pending.
+      expect(midScreened).toBeGreaterThanOrEqual(2);
+      expect(midScreened).toBeLessThan(200);
+      expect(await count({ status: 'failed' })).toBe(0);
+      expect(await count({ status: 'pending' })).toBe(200 - midScreened);
+      expect(Number((await units()).n)).toBe(midScreened);
+
+      await runImportsToCompletion();
+      expect(await count({ status: 'screened' })).toBe(200);
+      const end = await units();
+      expect([Number(end.n), Number(end.d)]).toEqual([200, 200]);
+      expect((await db()('imports').where({ id: r.body.id }).first()).status).toBe('complete');
+    },
+    120_000,
+  );
 });
