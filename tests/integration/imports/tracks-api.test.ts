@@ -180,6 +180,23 @@ describe('POST /workspaces/{slug}/imports/tracks', () => {
     expect(await db()('flights').where({ workspace_id: ws.id }).count({ n: '*' }).first()).toMatchObject({ n: 0 });
   });
 
+  it('413 past the track upload limit (80 MB, its own, above the schedule limit of 10 MB), before the body is read', async () => {
+    const { ws, cookie } = await analystWorkspace();
+    const req = trackUpload(ws.slug, csv(TRACK_HEADER, ...flightRows('TK1', 3)), cookie);
+    const headers = new Headers(req.headers);
+    headers.set('content-length', String(81 * 1024 * 1024));
+    const big = new Request(req.url, { method: 'POST', headers, body: req.body, duplex: 'half' } as RequestInit);
+    const r = await call<{ error: { message: string } }>(tracksRoute.POST, big, { slug: ws.slug });
+    expect(r.status).toBe(413);
+    expect(r.body.error.message).toContain('80 MB');
+    // A 12 MB track file (over the schedule limit) is read: refused for its content, not its size.
+    const rows = [TRACK_HEADER];
+    const filler = 'x'.repeat(12 * 1024 * 1024);
+    rows.push(...flightRows('TK1', 3), `TK2,2026-11-03,10:00:00,60,10,37000,6000,T-LR,ENGM,${filler}`);
+    const large = await call<Refusal>(tracksRoute.POST, trackUpload(ws.slug, csv(...rows), cookie), { slug: ws.slug });
+    expect(large.status).toBe(422);
+  });
+
   it('a viewer may not upload (403); the template downloads and imports as it is', async () => {
     const { ws, cookie } = await analystWorkspace();
     const viewer = await sessionCookie(ws.members.viewer.id);
