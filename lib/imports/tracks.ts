@@ -183,6 +183,11 @@ export async function parseTrackCsv(source: Readable): Promise<ParsedTracks> {
   let line = 0;
   let stop: Error | null = null;
   let decodeFailed = false;
+  let aborted = false;
+  const abort = (parser: Papa.Parser) => {
+    aborted = true;
+    parser.abort();
+  };
   const problem = (p: ImportProblem) => {
     if (out.problems.length < TRACK_IMPORT_LIMITS.maxProblemsListed * 4) out.problems.push(p);
   };
@@ -193,7 +198,7 @@ export async function parseTrackCsv(source: Readable): Promise<ParsedTracks> {
       header = readHeader(record);
       out.problems.push(...header.problems);
       out.warnings.push(...header.warnings);
-      if (header.problems.length) parser.abort();
+      if (header.problems.length) abort(parser);
       return;
     }
     if (record.every((c) => c.trim() === '')) return;
@@ -202,7 +207,7 @@ export async function parseTrackCsv(source: Readable): Promise<ParsedTracks> {
       stop = tooLarge(
         `The file has more than ${TRACK_IMPORT_LIMITS.maxPoints.toLocaleString('en-GB')} points. Split it into smaller files and upload them one by one.`,
       );
-      parser.abort();
+      abort(parser);
       return;
     }
     const cells: Partial<Record<TrackColumn, string>> = {};
@@ -285,7 +290,7 @@ export async function parseTrackCsv(source: Readable): Promise<ParsedTracks> {
         stop = tooLarge(
           `The file has more than ${TRACK_IMPORT_LIMITS.maxFlights.toLocaleString('en-GB')} flights. Split it into smaller files and upload them one by one.`,
         );
-        parser.abort();
+        abort(parser);
         return;
       }
       f = {
@@ -338,10 +343,11 @@ export async function parseTrackCsv(source: Readable): Promise<ParsedTracks> {
     if (!Number.isNaN(ff)) f.flows += 1;
   };
 
+  // `parsing`: papaparse still wants text (false after an abort or once the text has ended).
   let parsing = true;
+  let parseDone = false;
   await new Promise<void>((resolve) => {
     let sourceDone = false;
-    let parseDone = false;
     const settle = () => {
       if (sourceDone && parseDone) resolve();
     };
@@ -384,12 +390,13 @@ export async function parseTrackCsv(source: Readable): Promise<ParsedTracks> {
       header: false,
       skipEmptyLines: false,
       step: (results: Papa.ParseStepResult<string[]>, parser: Papa.Parser) => {
-        if (stop || !parsing) return;
+        // The last line comes after the text has ended; nothing comes after an abort.
+        if (stop || aborted || parseDone) return;
         try {
           onRow(results.data, parser);
         } catch (err) {
           stop = err instanceof Error ? err : new Error(String(err));
-          parser.abort();
+          abort(parser);
         }
       },
       complete: () => {
