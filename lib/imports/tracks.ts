@@ -626,11 +626,17 @@ export function prepareTrackFlights(
       for (const p of err.fields.slice(0, 20)) problems.push(placeProblem(f, p.path, p.message));
       continue;
     }
-    let cruiseFl = maxFl;
+    // The cruise shown for the flight: the level most of its points were flown at (whole flight levels).
+    const counts = new Map<number, number>();
+    let cruiseFl = Math.round(maxFl);
+    let best = 0;
     for (let i = 0; i < n; i++) {
-      if (f.level.at(i) >= maxFl - 20) {
-        cruiseFl = f.level.at(i);
-        break;
+      const level = Math.round(f.level.at(i));
+      const c = (counts.get(level) ?? 0) + 1;
+      counts.set(level, c);
+      if (c > best || (c === best && level > cruiseFl)) {
+        best = c;
+        cruiseFl = level;
       }
     }
     flights.push({

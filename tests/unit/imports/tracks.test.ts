@@ -42,6 +42,7 @@ describe('reading a track file', () => {
     expect(input.route.track.points[2].time).toBe('2026-11-04T00:06:00.000Z');
     // 16 minutes at 6000 kg/h: 1600 kg from the points' own fuel flow.
     expect(prepared.flights[0].fuelKg).toBeCloseTo(1600, 9);
+    expect([prepared.flights[0].cruiseFl, prepared.flights[0].maxFl]).toEqual([370, 370]);
   });
 
   it('unknown columns are noted, not refused; a file that is not UTF-8 is refused as a whole', async () => {
@@ -60,5 +61,36 @@ describe('reading a track file', () => {
   ])('%s is a problem on its line and column', async (_, row, column) => {
     const p = await read(`flight,date,time,lat,lon,altitude_ft\nX1,2026-11-03,09:59:00,60,10,37000\n${row}\n`);
     expect(p.problems).toContainEqual(expect.objectContaining({ line: 3, column }));
+  });
+});
+
+describe('the cruise level listed for a flown flight', () => {
+  it('is the level most points were flown at, not the first level near the top of the climb', async () => {
+    const rows = ['flight,date,time,lat,lon,altitude_ft,fuel_flow_kg_h'];
+    const alts = [5000, 20000, 35300, 37000, 37000, 37000, 39000, 39000, 20000];
+    alts.forEach((a, i) =>
+      rows.push(`X1,2026-11-03,10:${String(i * 6).padStart(2, '0')}:00,${60 + i * 0.5},10,${a},6000`),
+    );
+    const p = await read(rows.join('\n') + '\n');
+    const planned = new Map([
+      [
+        '2026-11-03|X1',
+        [
+          {
+            id: 1,
+            date: '2026-11-03',
+            flight: 'X1',
+            origin: 'ENGM',
+            destination: 'BIKF',
+            aircraftCode: 'T-1',
+            fuelKg: 1,
+          },
+        ],
+      ],
+    ]);
+    const prepared = prepareTrackFlights(p, { aircraft, planned, flownKeys: new Set() });
+    expect(prepared.problems).toEqual([]);
+    expect([prepared.flights[0].cruiseFl, prepared.flights[0].maxFl]).toEqual([370, 390]);
+    expect([prepared.flights[0].origin, prepared.flights[0].aircraftCode]).toEqual(['ENGM', 'T-1']);
   });
 });
