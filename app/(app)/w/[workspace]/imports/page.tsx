@@ -74,7 +74,7 @@ export default async function ImportsPage({ params }: { params: Promise<{ worksp
         )}
       </Card>
       <Card title="Upload flown tracks" className="mt-6">
-        <div className="grid gap-6 md:grid-cols-2">
+        <div className="space-y-6">
           {canUpload && codes.length ? (
             <TrackUploadForm slug={slug} />
           ) : (
@@ -84,7 +84,7 @@ export default async function ImportsPage({ params }: { params: Promise<{ worksp
                 : 'Your role can read imports but not upload them.'}
             </p>
           )}
-          <div className="min-w-0 border-line md:border-l md:pl-6">
+          <div className="min-w-0 border-t border-line pt-4">
             <TrackFormatGuide
               templateHref={`/api/v1/workspaces/${slug}/imports/tracks/template`}
               example={trackTemplateCsv({ aircraft: codes[0] ?? 'YOUR-TYPE', day: todayIso() })
