@@ -78,6 +78,7 @@ function applyFilters(q: Knex.QueryBuilder, scope: { workspaceId: number }, f: F
   if (f.from) q.andWhere('f.date', '>=', f.from);
   if (f.to) q.andWhere('f.date', '<=', f.to);
   if (f.fleet !== undefined) q.andWhere('f.fleet_id', f.fleet);
+  if (f.basis !== undefined) q.andWhere('f.basis', f.basis);
   if (f.aircraft) q.andWhere('f.aircraft_code', f.aircraft.toUpperCase());
   return q;
 }

@@ -331,6 +331,7 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
         to: 'YYYY-MM-DD',
         fleet: 'fleet id',
         aircraft: 'type code',
+        basis: 'planned | flown',
         cursor: 'from nextCursor',
         limit: '1-200',
       },

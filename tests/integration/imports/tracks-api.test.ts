@@ -13,6 +13,7 @@ import * as importsRoute from '@/app/api/v1/workspaces/[slug]/imports/route';
 import * as tracksRoute from '@/app/api/v1/workspaces/[slug]/imports/tracks/route';
 import * as trackTemplateRoute from '@/app/api/v1/workspaces/[slug]/imports/tracks/template/route';
 import * as importRoute from '@/app/api/v1/workspaces/[slug]/imports/[id]/route';
+import * as flightsRoute from '@/app/api/v1/workspaces/[slug]/flights/route';
 import { db } from '@/db/client';
 import { runImportsToCompletion } from '@/lib/imports/worker';
 import { screenFlight } from '@/lib/screening';
@@ -127,6 +128,16 @@ describe('POST /workspaces/{slug}/imports/tracks', () => {
       9000,
     ]);
     expect(flown.status).toBe('screened');
+    const list = async (basis: string) =>
+      (
+        await call<{ items: { basis: string; id: number }[] }>(
+          flightsRoute.GET,
+          apiRequest('GET', `/api/v1/workspaces/${ws.slug}/flights?basis=${basis}`, { cookie }),
+          { slug: ws.slug },
+        )
+      ).body.items;
+    expect((await list('flown')).map((f) => [f.id, f.basis])).toEqual([[Number(flown.id), 'flown']]);
+    expect((await list('planned')).map((f) => f.basis)).toEqual(['planned']);
   });
 
   it.each([
