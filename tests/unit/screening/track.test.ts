@@ -109,6 +109,17 @@ describe('screening a flown track', () => {
     expect(rel(byFlow.ozoneLoss.centralKg, sameTotal.ozoneLoss.centralKg)).toBeLessThan(1e-9);
   });
 
+  it('the what-if rows of a track with fuel flows carry the fuel penalty in the flows (1 % per 1000 ft here)', () => {
+    const pts = greatCircleTrack('EGLL', 'KJFK', 100, 350, true).map((p) => ({ ...p, fuelFlowKgH: 6000 }));
+    const base = screenFlight({ ...BASE, route: { track: { points: pts } } });
+    const rows = compareCruiseLevels(
+      { ...BASE, route: { track: { points: pts } } },
+      { deltasFt: [0, 2000], fuelPenaltyPctPer1000Ft: 1 },
+    );
+    expect(rows[0].fuelKg).toBeCloseTo(base.fuelKg, 6);
+    expect(rows[1].fuelKg).toBeCloseTo(base.fuelKg * 1.02, 6);
+  });
+
   it('climb and descent: each leg flies the mean of its ends; pressure altitude in feet is the same as the flight level', () => {
     const pts = [
       { lat: 60, lon: 0, flightLevel: 100 },
