@@ -84,6 +84,7 @@ export async function listFleets(
       .orderBy('code', 'asc')
       .select('id', 'code', 'default_fleet_id') as Promise<Row[]>,
     rollupsWithFleet(trx, scope.workspaceId)
+      .where('fl.basis', 'planned')
       .whereNotNull('f.id')
       .groupBy('f.id')
       .select('f.id as fleet_id')
@@ -298,6 +299,41 @@ export interface FlightFilters {
   maxFl?: number;
   /** Resolved fleet ids to keep; `null` in the list keeps flights with no fleet. */
   fleetIds?: (number | null)[];
+  /**
+   * planned (default): schedule flights; flown: imported tracks; flown-where-available: each
+   * flight's flown track where the workspace has a screened one, its plan otherwise.
+   */
+  basis?: 'planned' | 'flown' | 'flown-where-available';
+}
+
+/**
+ * Keeps the flights of one basis (`fl` is the flights alias). "flown-where-available" counts each
+ * flight (date, flight, origin, destination) once: its screened flown track, else its plan.
+ */
+function applyBasis(q: Knex.QueryBuilder, basis: FlightFilters['basis']): void {
+  if (basis === 'flown') {
+    q.where('fl.basis', 'flown');
+    return;
+  }
+  if (basis !== 'flown-where-available') {
+    q.where('fl.basis', 'planned');
+    return;
+  }
+  q.where((w) =>
+    w.where('fl.basis', 'flown').orWhere((p) =>
+      p.where('fl.basis', 'planned').whereNotExists(function flownTwin() {
+        this.select(this.client.raw('1'))
+          .from('flights as tw')
+          .whereRaw('tw.workspace_id = fl.workspace_id')
+          .where('tw.basis', 'flown')
+          .where('tw.status', 'screened')
+          .whereRaw('tw.date = fl.date')
+          .whereRaw('tw.flight = fl.flight')
+          .whereRaw('tw.origin = fl.origin')
+          .whereRaw('tw.destination = fl.destination');
+      }),
+    ),
+  );
 }
 
 /**
@@ -306,7 +342,8 @@ export interface FlightFilters {
  * keep no airports).
  */
 function sourcesOf(f: FlightFilters): RollupSource[] {
-  if (f.routeTerms?.length) return [{ rollup: false, from: f.from, to: f.to }];
+  // The roll-ups keep no airports, and pairing a plan with its flown track needs the flight rows.
+  if (f.routeTerms?.length || f.basis === 'flown-where-available') return [{ rollup: false, from: f.from, to: f.to }];
   return splitByWholeMonths(f.from, f.to);
 }
 
@@ -323,6 +360,7 @@ const flightCount = (k: Knex | Knex.Transaction, src: RollupSource) =>
   k.raw(src.rollup ? 'sum(fl.flights)' : 'count(*)');
 
 function applyFilters(q: Knex.QueryBuilder, f: FlightFilters): Knex.QueryBuilder {
+  applyBasis(q, f.basis);
   if (f.aircraft) q.whereRaw('upper(fl.aircraft_code) = ?', [f.aircraft.toUpperCase()]);
   for (const group of f.routeTerms ?? []) {
     q.where((w) => {

@@ -3,7 +3,7 @@ import type { Knex } from 'knex';
 /**
  * Monthly roll-ups of screened flights (`flight_month_rollups`): per workspace, month, the flight's
  * own fleet (0: none), aircraft type (0: none), type code, cruise and highest level and engine
- * version, the flight count and the sums of its figures. Every write that makes, changes or removes a
+ * version and basis (planned or flown), the flight count and the sums of its figures. Every write that makes, changes or removes a
  * screened flight calls these functions inside its own transaction, so the roll-ups always equal the
  * sums of the rows. No `server-only` here: the seeds and the tests keep them too.
  */
@@ -19,6 +19,7 @@ const KEY = [
   'cruise_fl',
   'max_fl',
   'engine_version',
+  'basis',
 ] as const;
 
 const SUMS = [
@@ -42,6 +43,7 @@ const KEY_OF_FLIGHT = [
   'cruise_fl',
   'max_fl',
   "coalesce(engine_version, '')",
+  'basis',
 ];
 
 const SUMS_OF_FLIGHTS = [

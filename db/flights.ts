@@ -5,11 +5,14 @@ import { splitByWholeMonths } from './flight-rollups';
 import type { FlightListQuery } from '@/lib/validation/imports';
 
 export type FlightStatus = 'pending' | 'screened' | 'failed';
+/** A schedule row (planned) or an imported track (flown). */
+export type FlightBasis = 'planned' | 'flown';
 
 /** A flight as the flights list and the API show it; figures are null until it is screened. */
 export interface FlightDto {
   id: number;
   importId: number | null;
+  basis: FlightBasis;
   flight: string;
   date: string;
   origin: string;
@@ -44,6 +47,7 @@ function toDto(r: Row): FlightDto {
   return {
     id: Number(r.id),
     importId: num(r.import_id),
+    basis: r.basis === 'flown' ? 'flown' : 'planned',
     flight: String(r.flight),
     date: String(r.date),
     origin: String(r.origin),
@@ -75,6 +79,7 @@ function applyFilters(q: Knex.QueryBuilder, scope: { workspaceId: number }, f: F
   if (f.from) q.andWhere('f.date', '>=', f.from);
   if (f.to) q.andWhere('f.date', '<=', f.to);
   if (f.fleet !== undefined) q.andWhere('f.fleet_id', f.fleet);
+  if (f.basis !== undefined) q.andWhere('f.basis', f.basis);
   if (f.aircraft) q.andWhere('f.aircraft_code', f.aircraft.toUpperCase());
   return q;
 }
@@ -155,6 +160,7 @@ export async function summariseFlights(
         .whereBetween('f.month', [src.fromMonth, src.toMonth]);
       if (filters.fleet !== undefined) q.andWhere('f.fleet_id', filters.fleet);
       if (filters.aircraft) q.andWhere('f.aircraft_code', filters.aircraft.toUpperCase());
+      if (filters.basis !== undefined) q.andWhere('f.basis', filters.basis);
       const unscreened = applyFilters(k('flights as f'), scope, {
         ...filters,
         from: `${src.fromMonth}-01`,
@@ -206,11 +212,12 @@ export async function summariseFlights(
  */
 export async function listFlightKeys(
   scope: { workspaceId: number },
-  range: { from: string; to: string },
+  range: { from: string; to: string; basis?: FlightBasis },
   trx: Knex | Knex.Transaction = db(),
 ): Promise<Map<string, number | null>> {
   const rows = (await trx('flights')
     .where('workspace_id', scope.workspaceId)
+    .where('basis', range.basis ?? 'planned')
     .whereBetween('date', [range.from, range.to])
     .select('date', 'flight', 'origin', 'destination', 'import_id')) as Row[];
   const out = new Map<string, number | null>();
@@ -253,4 +260,103 @@ export async function listFleetsByName(scope: {
 }): Promise<Map<string, { id: number; name: string }>> {
   const rows = (await db()('fleets').where('workspace_id', scope.workspaceId).select('id', 'name')) as Row[];
   return new Map(rows.map((r) => [String(r.name).toLowerCase(), { id: Number(r.id), name: String(r.name) }]));
+}
+
+/**
+ * Planned flights of the workspace dated between `from` and `to`, by `date|flight`: what a track
+ * import pairs its flights with (origin, destination, aircraft and fuel when the file leaves them out).
+ */
+export async function listPlannedFlightRefs(
+  scope: { workspaceId: number },
+  range: { from: string; to: string },
+): Promise<
+  Map<
+    string,
+    {
+      id: number;
+      date: string;
+      flight: string;
+      origin: string;
+      destination: string;
+      aircraftCode: string;
+      fuelKg: number;
+    }[]
+  >
+> {
+  const rows = (await db()('flights')
+    .where({ workspace_id: scope.workspaceId, basis: 'planned' })
+    .whereBetween('date', [range.from, range.to])
+    .select('id', 'date', 'flight', 'origin', 'destination', 'aircraft_code', 'fuel_kg')) as Row[];
+  const out = new Map<
+    string,
+    {
+      id: number;
+      date: string;
+      flight: string;
+      origin: string;
+      destination: string;
+      aircraftCode: string;
+      fuelKg: number;
+    }[]
+  >();
+  for (const r of rows) {
+    const key = `${r.date}|${r.flight}`;
+    const list = out.get(key) ?? [];
+    list.push({
+      id: Number(r.id),
+      date: String(r.date),
+      flight: String(r.flight),
+      origin: String(r.origin),
+      destination: String(r.destination),
+      aircraftCode: String(r.aircraft_code),
+      fuelKg: Number(r.fuel_kg),
+    });
+    out.set(key, list);
+  }
+  return out;
+}
+
+/** One imported flight with its stored screening input and where it came from; null when not in this workspace. */
+export interface FlightDetail extends FlightDto {
+  inputJson: string;
+  importFileName: string | null;
+  importKind: 'schedule' | 'tracks' | null;
+  sourceLine: number | null;
+}
+
+export async function getFlight(scope: { workspaceId: number }, id: number): Promise<FlightDetail | null> {
+  const r = (await db()('flights as f')
+    .leftJoin('fleets as fl', function joinFleet() {
+      this.on('fl.id', '=', 'f.fleet_id').andOn('fl.workspace_id', '=', 'f.workspace_id');
+    })
+    .leftJoin('imports as i', 'i.id', 'f.import_id')
+    .where({ 'f.workspace_id': scope.workspaceId, 'f.id': id })
+    .select('f.*', 'fl.name as fleet_name', 'i.file_name as import_file_name', 'i.kind as import_kind')
+    .first()) as Row | undefined;
+  if (!r) return null;
+  return {
+    ...toDto(r),
+    inputJson: String(r.input_json),
+    importFileName: (r.import_file_name as string | null) ?? null,
+    importKind: r.import_kind === 'tracks' ? 'tracks' : r.import_kind === 'schedule' ? 'schedule' : null,
+    sourceLine: num(r.source_line),
+  };
+}
+
+/** The other basis of the same flight (same date, flight, origin, destination): the flown track of a planned flight, or the plan of a flown one. */
+export async function getPairedFlight(
+  scope: { workspaceId: number },
+  f: { id: number; basis: FlightBasis; date: string; flight: string; origin: string; destination: string },
+): Promise<FlightDetail | null> {
+  const other = (await db()('flights')
+    .where({
+      workspace_id: scope.workspaceId,
+      basis: f.basis === 'planned' ? 'flown' : 'planned',
+      date: f.date,
+      flight: f.flight,
+      origin: f.origin,
+      destination: f.destination,
+    })
+    .first('id')) as Row | undefined;
+  return other ? getFlight(scope, Number(other.id)) : null;
 }

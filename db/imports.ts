@@ -12,6 +12,8 @@ import { screeningInputOf, type PreparedFlight } from '@/lib/imports/schedule';
 /** An import as the API and the pages show it. */
 export interface ImportDto {
   id: number;
+  /** schedule (planned flights) or tracks (flown flights). */
+  kind: 'schedule' | 'tracks';
   fileName: string;
   status: ImportStatus;
   rows: number;
@@ -155,6 +157,7 @@ function toDto(
 ): ImportDto {
   return {
     id: Number(r.id),
+    kind: r.kind === 'tracks' ? 'tracks' : 'schedule',
     fileName: String(r.file_name),
     status: r.status as ImportStatus,
     rows: Number(r.rows),
@@ -354,6 +357,133 @@ export async function createImport(
       throw new AppError(
         'conflict',
         'Another upload added this file or some of these flights a moment ago. Nothing from this upload was saved; upload it again to see which rows are already in the workspace.',
+      );
+    }
+    throw err;
+  }
+  return getImport(scope, id);
+}
+
+/** A flown flight ready to store (lib/imports/tracks.ts prepares it). */
+export interface TrackFlightRow {
+  line: number;
+  date: string;
+  flight: string;
+  origin: string;
+  destination: string;
+  aircraftTypeId: number;
+  aircraftCode: string;
+  fleetId: number | null;
+  cruiseFl: number;
+  maxFl: number;
+  fuelKg: number;
+  inputJson: string;
+}
+
+/** Flown flights a row: 18 bindings, so 1500 rows stay under both databases' parameter limits. */
+const TRACK_BATCH = 200;
+
+/**
+ * Saves an accepted track file: the import (kind tracks, queued), its warnings and every flown flight
+ * (pending, basis flown, with its track input) in one write transaction. Nothing is billed here: the
+ * worker bills each flight once when it screens it, as for schedules.
+ */
+export async function createTrackImport(
+  scope: { workspaceId: number },
+  input: {
+    fileName: string;
+    fileHash: string;
+    createdBy: number | null;
+    actor: string;
+    flights: TrackFlightRow[];
+    warnings: ImportProblem[];
+    points: number;
+  },
+): Promise<ImportDto> {
+  let id = 0;
+  try {
+    await writeTx(async (trx) => {
+      await assertBillingAllows(scope, trx, input.flights.length);
+      const prior = (await trx('imports')
+        .where({ workspace_id: scope.workspaceId, file_hash: input.fileHash })
+        .first()) as Row | undefined;
+      if (prior) throw duplicateFile(prior);
+      const now = nowIso();
+      id = await insertId(
+        trx('imports')
+          .insert({
+            workspace_id: scope.workspaceId,
+            kind: 'tracks',
+            file_name: input.fileName.slice(0, 255),
+            file_hash: input.fileHash,
+            status: 'queued',
+            rows: input.flights.length,
+            rows_done: 0,
+            rate_base_rows: 0,
+            created_by: input.createdBy,
+            created_at: now,
+          })
+          .returning('id'),
+      );
+      if (input.warnings.length) {
+        await trx('import_problems').insert(
+          input.warnings.map((w) => ({
+            import_id: id,
+            line: w.line,
+            column: w.column.slice(0, 64),
+            message: w.message.slice(0, 1000),
+          })),
+        );
+      }
+      const columns = [...FLIGHT_COLUMNS, 'basis'];
+      const row = `(${columns.map(() => '?').join(', ')})`;
+      for (let i = 0; i < input.flights.length; i += TRACK_BATCH) {
+        const batch = input.flights.slice(i, i + TRACK_BATCH);
+        const bindings: (string | number | null)[] = [];
+        for (const f of batch) {
+          bindings.push(
+            scope.workspaceId,
+            id,
+            f.date,
+            f.flight,
+            f.origin,
+            f.destination,
+            f.aircraftTypeId,
+            f.aircraftCode,
+            f.fleetId,
+            f.cruiseFl,
+            f.maxFl,
+            f.inputJson,
+            'pending',
+            f.fuelKg,
+            f.line,
+            now,
+            null,
+            'flown',
+          );
+        }
+        await trx.raw(
+          `INSERT INTO flights (${columns.join(', ')}) VALUES ${batch.map(() => row).join(', ')}`,
+          bindings,
+        );
+      }
+      await createAuditEntry(
+        {
+          workspaceId: scope.workspaceId,
+          userId: input.createdBy,
+          actor: input.actor,
+          action: 'import.created',
+          target: `import:${id}`,
+          detail: { fileName: input.fileName, flights: input.flights.length, points: input.points, kind: 'tracks' },
+        },
+        trx,
+      );
+    });
+  } catch (err) {
+    if (isUniqueViolation(err)) {
+      throw new AppError(
+        'conflict',
+        'Another upload added this file or some of these flown flights a moment ago. Nothing from this upload was saved; upload it again to see which flights are already in the workspace.',
       );
     }
     throw err;

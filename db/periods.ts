@@ -171,7 +171,7 @@ export async function countUnscreenedFlights(
   trx: Trx = db(),
 ): Promise<number> {
   const r = (await trx('flights')
-    .where({ workspace_id: scope.workspaceId, status: 'pending' })
+    .where({ workspace_id: scope.workspaceId, status: 'pending', basis: 'planned' })
     .whereBetween('date', [range.from, range.to])
     .count({ n: '*' })
     .first()) as Row | undefined;
@@ -239,6 +239,9 @@ export async function freezeFlights(
 ): Promise<FrozenFlight[]> {
   const rows = (await flightsWithFleet(trx, scope.workspaceId)
     .where('fl.status', 'screened')
+    // A period reports the planned basis, as the fleet comparison does by default: a flown track of
+    // the same flight is its other side, not another flight.
+    .where('fl.basis', 'planned')
     .whereBetween('fl.date', [range.from, range.to])
     .orderBy([
       { column: 'fl.date', order: 'asc' },
@@ -448,6 +451,7 @@ export async function listChangesAfterFreeze(
         this.on('pf.flight_id', '=', 'fl.id').andOn('pf.period_id', '=', k.raw('?', [period.id]));
       })
       .where('fl.workspace_id', scope.workspaceId)
+      .where('fl.basis', 'planned')
       .whereBetween('fl.date', [period.from, period.to])
       // Anything made or screened after the freeze; a flight without a frozen copy is new.
       .where((w) => w.where('fl.created_at', '>', period.frozenAt).orWhere('fl.screened_at', '>', period.frozenAt))

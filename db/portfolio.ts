@@ -32,6 +32,8 @@ export async function getMonthSummaries(scope: {
     k('flight_month_rollups')
       .whereIn('workspace_id', scope.workspaceIds)
       .where('month', from.slice(0, 7))
+      // Each flight once: its plan (a flown track of the same flight is its other side, not another flight).
+      .where('basis', 'planned')
       .groupBy('workspace_id')
       .select('workspace_id')
       .sum({ n: 'flights', above: 'nox_above_kg', total: 'nox_total_kg' }),
@@ -84,7 +86,7 @@ export async function getMonthlyTrend(scope: { workspaceId: number }, months = 6
   const k = db();
   const [flights, screenings] = await Promise.all([
     k('flight_month_rollups')
-      .where({ workspace_id: scope.workspaceId })
+      .where({ workspace_id: scope.workspaceId, basis: 'planned' })
       .whereBetween('month', [keys[0], keys[keys.length - 1]])
       .groupBy('month')
       .select('month')

@@ -468,7 +468,7 @@ export async function seed(knex: Knex): Promise<void> {
                 created_at: stamp,
               })),
             )
-            .onConflict(['workspace_id', 'date', 'flight', 'origin', 'destination'])
+            .onConflict(['workspace_id', 'basis', 'date', 'flight', 'origin', 'destination'])
             .ignore();
         }
         const pending = await trx('flights')

@@ -24,6 +24,7 @@ const STRATO_FILL = 'rgba(106, 61, 154, 0.28)';
 const TROPO = '#23867a';
 const TROPOPAUSE = '#9a5a12';
 const GRID = '#e4e4dc';
+const OVERLAY = '#4a4a44';
 
 interface Props {
   series: ProfileSeries;
@@ -32,10 +33,12 @@ interface Props {
   height?: number;
   /** Shared top of the altitude axis, so two profiles can be compared by eye. */
   yMax?: number;
+  /** A second flight's cruise drawn over this one (a plain line), such as the plan beside the flown track. */
+  overlay?: { series: ProfileSeries; label: string };
 }
 
 /** Cruise altitude and tropopause along the route; the part of the cruise above it shaded. */
-export function VerticalProfileChart({ series, label, height = 320, yMax }: Props) {
+export function VerticalProfileChart({ series, label, height = 320, yMax, overlay }: Props) {
   const data: ChartData<'line', { x: number; y: number }[]> = {
     datasets: [
       {
@@ -60,9 +63,26 @@ export function VerticalProfileChart({ series, label, height = 320, yMax }: Prop
         pointHitRadius: 6,
         fill: false,
       },
+      ...(overlay
+        ? [
+            {
+              label: overlay.label,
+              data: overlay.series.x.map((x, i) => ({ x, y: overlay.series.cruise[i] })),
+              borderColor: OVERLAY,
+              borderWidth: 2,
+              pointRadius: 0,
+              pointHitRadius: 0,
+              fill: false,
+            },
+          ]
+        : []),
     ],
   };
-  const top = yMax ?? series.maxAltitude;
+  const top = Math.max(yMax ?? series.maxAltitude, overlay?.series.maxAltitude ?? 0);
+  const xEnd = Math.max(
+    series.x.length ? series.x[series.x.length - 1] : 0,
+    overlay?.series.x.length ? overlay.series.x[overlay.series.x.length - 1] : 0,
+  );
   const options: ChartOptions<'line'> = {
     responsive: true,
     maintainAspectRatio: false,
@@ -74,7 +94,7 @@ export function VerticalProfileChart({ series, label, height = 320, yMax }: Prop
       x: {
         type: 'linear',
         min: 0,
-        max: series.x.length ? series.x[series.x.length - 1] : undefined,
+        max: xEnd > 0 ? xEnd : undefined,
         title: { display: true, text: series.distanceLabel },
         ticks: { callback: (v) => formatNumber(Number(v)) },
         grid: { color: GRID },
@@ -114,6 +134,11 @@ export function VerticalProfileChart({ series, label, height = 320, yMax }: Prop
         <span className="inline-flex items-center gap-1.5">
           <span aria-hidden className="inline-block w-5 border-t-2 border-dashed border-caution" /> Tropopause
         </span>
+        {overlay ? (
+          <span className="inline-flex items-center gap-1.5">
+            <span aria-hidden className="inline-block h-0.5 w-5" style={{ background: OVERLAY }} /> {overlay.label}
+          </span>
+        ) : null}
       </figcaption>
     </figure>
   );

@@ -16,7 +16,7 @@ import type { UnitSystem } from '@/db/users';
 import type { CompareRow, FleetComparison as Comparison } from '@/lib/fleets/types';
 import { compareQueryObject, compareQueryString } from '@/lib/fleets/url';
 import { engineVersionsText, monthLabel } from '@/lib/fleets/units';
-import { fleetCompareQuerySchema, GROUP_BY, type GroupBy } from '@/lib/validation/fleets';
+import { FLIGHT_BASES, fleetCompareQuerySchema, GROUP_BY, type GroupBy } from '@/lib/validation/fleets';
 import { formatDistance, formatMass, formatMassRange, formatNumber, formatPercent } from '@/lib/format';
 import { Button, ButtonLink } from '@/components/ui/button';
 import { Field, SelectInput, TextInput } from '@/components/ui/field';
@@ -183,6 +183,9 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
     window.history.replaceState(null, '', qs ? `${pathname}?${qs}` : pathname);
   };
 
+  const basis = (FLIGHT_BASES as readonly string[]).includes(params.get('basis') ?? '')
+    ? (params.get('basis') as string)
+    : 'planned';
   const groupBy: GroupBy = (GROUP_BY as readonly string[]).includes(params.get('groupBy') ?? '')
     ? (params.get('groupBy') as GroupBy)
     : 'fleet';
@@ -390,6 +393,18 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
         title={data ? `Comparison, ${data.period.from} to ${data.period.to}` : 'Comparison'}
         actions={
           <div className="flex flex-wrap items-center gap-2">
+            <label className="inline-flex items-center gap-1.5 text-sm text-ink-soft">
+              Basis
+              <select
+                value={basis}
+                onChange={(e) => setParams({ basis: e.target.value === 'planned' ? null : e.target.value })}
+                className="rounded-md border border-line-strong bg-paper-raised px-2 py-1.5 text-sm text-ink"
+              >
+                <option value="planned">Planned</option>
+                <option value="flown">Flown</option>
+                <option value="flown-where-available">Flown where available</option>
+              </select>
+            </label>
             <div
               role="radiogroup"
               aria-label="Rows per"

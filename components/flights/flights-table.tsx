@@ -1,3 +1,4 @@
+import Link from 'next/link';
 import type { FlightDto } from '@/db/flights';
 import type { UnitSystem } from '@/db/users';
 import { formatDistance, formatMass, formatMassRange, formatPercent } from '@/lib/format';
@@ -10,7 +11,16 @@ function cruise(f: FlightDto): string {
 const num = 'px-2 py-2 text-right figure whitespace-nowrap';
 
 /** One page of flights with their screening figures in the user's units; pending and failed flights say so. */
-export function FlightsTable({ flights, units }: { flights: FlightDto[]; units: UnitSystem }) {
+export function FlightsTable({
+  flights,
+  units,
+  slug,
+}: {
+  flights: FlightDto[];
+  units: UnitSystem;
+  /** The workspace, so each flight links to its page. */
+  slug?: string;
+}) {
   return (
     <ScrollRegion label="Flights and their screening figures, scrollable">
       <table className="w-full text-sm">
@@ -56,7 +66,18 @@ export function FlightsTable({ flights, units }: { flights: FlightDto[]; units: 
           {flights.map((f) => (
             <tr key={f.id} className="border-b border-line align-top last:border-0">
               <td className="whitespace-nowrap px-2 py-2">{f.date}</td>
-              <td className="whitespace-nowrap px-2 py-2 font-medium">{f.flight}</td>
+              <td className="whitespace-nowrap px-2 py-2 font-medium">
+                {slug ? (
+                  <Link href={`/w/${slug}/flights/${f.id}`} className="text-accent hover:underline">
+                    {f.flight}
+                  </Link>
+                ) : (
+                  f.flight
+                )}
+                {f.basis === 'flown' ? (
+                  <span className="block text-xs font-normal text-ink-faint">flown track</span>
+                ) : null}
+              </td>
               <td className="whitespace-nowrap px-2 py-2">
                 {f.origin} → {f.destination}
               </td>

@@ -267,7 +267,8 @@ function ImportItem({
           </p>
           <p className="text-xs text-ink-soft">
             Uploaded {formatDateTime(imp.createdAt)}
-            {imp.createdBy ? ` by ${imp.createdBy}` : ''} · {formatNumber(imp.rows)} flight{imp.rows === 1 ? '' : 's'}
+            {imp.createdBy ? ` by ${imp.createdBy}` : ''} · {formatNumber(imp.rows)}
+            {imp.kind === 'tracks' ? ' flown' : ''} flight{imp.rows === 1 ? '' : 's'}
           </p>
         </div>
         <span

@@ -79,3 +79,26 @@ export function profileSeries(segments: readonly ProfileSegment[], units: UnitSy
   });
   return out;
 }
+
+/**
+ * At most `max` segments for a chart: consecutive segments are merged (the span of the group at the
+ * level, tropopause and figures of its middle segment; fuel and NOx summed), so a 20 000-point track
+ * draws without sending every segment to the browser.
+ */
+export function thinSegments<T extends ProfileSegment>(segments: readonly T[], max = 1500): ProfileSegment[] {
+  if (segments.length <= max) return segments.slice();
+  const k = Math.ceil(segments.length / max);
+  const out: ProfileSegment[] = [];
+  for (let i = 0; i < segments.length; i += k) {
+    const group = segments.slice(i, i + k);
+    const mid = group[Math.floor(group.length / 2)];
+    out.push({
+      ...mid,
+      startKm: group[0].startKm,
+      endKm: group[group.length - 1].endKm,
+      fuelKg: group.reduce((t, s) => t + s.fuelKg, 0),
+      noxKg: group.reduce((t, s) => t + s.noxKg, 0),
+    });
+  }
+  return out;
+}

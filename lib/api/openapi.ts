@@ -171,7 +171,7 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   '/workspaces/{slug}/screenings': {
     post: {
       summary:
-        "Screen and save one flight (one billable unit). Body: the screenFlight input plus optional name and aircraft (a type code of the workspace that supplies emission and Mach when absent). The route is { waypoints }, { flightPlan: { text, from, to } } (ICAO Doc 4444 item 15, named points and airways from the workspace's fix and airway libraries; its levels replace cruise; the result then carries flightPlan { waypoints, cruise.steps, speeds, unresolved, notes, items }) or { track: { points: { time?, lat, lon, flightLevel? | pressureAltitudeFt? }[] } } (2-20 000 points in time order; cruise optional; fuel spread by the points' times; the result carries track). A step climb may be { atWaypoint, flightLevel } (the index in route.waypoints) instead of { fromKm, flightLevel }; it is saved as the distance to that waypoint. Fuel far outside a physical band per km for the route is a 422 on fuelBurnKg; unusual fuel is the first of the result's cautions. Idempotency-Key header: a repeat with the same key and the same body (key order aside) returns the first screening and adds no unit; the same key with a different body is refused (409).",
+        "Screen and save one flight (one billable unit). Body: the screenFlight input plus optional name and aircraft (a type code of the workspace that supplies emission and Mach when absent). The route is { waypoints }, { flightPlan: { text, from, to } } (ICAO Doc 4444 item 15, named points and airways from the workspace's fix and airway libraries; its levels replace cruise; the result then carries flightPlan { waypoints, cruise.steps, speeds, unresolved, notes, items }) or { track: { points: { time?, lat, lon, flightLevel? | pressureAltitudeFt?, fuelFlowKgH? }[] } } (2-20 000 points in time order; cruise optional; fuel spread by the points' times, or with fuelFlowKgH on every timed point integrated over time in place of fuelBurnKg, which may then be left out; the result carries track). A step climb may be { atWaypoint, flightLevel } (the index in route.waypoints) instead of { fromKm, flightLevel }; it is saved as the distance to that waypoint. Fuel far outside a physical band per km for the route is a 422 on fuelBurnKg; unusual fuel is the first of the result's cautions. Idempotency-Key header: a repeat with the same key and the same body (key order aside) returns the first screening and adds no unit; the same key with a different body is refused (409).",
       permission: 'screenings:create',
       requestBody: screeningInputSchema,
       responses: {
@@ -307,10 +307,37 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
       responses: { '200': 'text/csv' },
     },
   },
+  '/workspaces/{slug}/imports/tracks': {
+    post: {
+      summary:
+        'Upload a flown-track CSV (80 MB, 1 000 000 points, 5 000 flights at most; read as a stream). Columns flight, date, time (HH:MM:SS UTC), lat, lon, altitude_ft or flight_level; optional fuel_flow_kg_h (on every point of a flight: integrated over time; else the planned flight fuel is spread by time), aircraft, origin, destination (else taken from the planned flight with the same flight number and date). Every point is checked first: any problem refuses the whole file (nothing saved); otherwise the import (kind tracks) is queued and each flight is screened in the background as a flown flight, one billable unit per flight.',
+      permission: 'imports:create',
+      requestBody: { multipart: { file: 'the track CSV' } },
+      query: {
+        dryRun: '1: check every point and flight and answer 200 { dryRun, flights, points, warnings }; nothing saved',
+      },
+      responses: {
+        '200': 'With dryRun=1: the check; nothing saved',
+        '202': '{ id, kind: tracks, status: queued, rows (flights), points, ... }',
+        '402': 'Billing blocks new screenings',
+        '409': 'The same file (SHA-256) was already imported',
+        '413': 'Larger than 80 MB, more than 1 000 000 points or 5 000 flights',
+        '422': '{ error, problems: { line, column, message }[], problemCount }',
+      },
+    },
+  },
+  '/workspaces/{slug}/imports/tracks/template': {
+    get: {
+      summary:
+        "A flown-track CSV template: two short invented flights with fuel flows on one of this workspace's aircraft types",
+      permission: 'flights:read',
+      responses: { '200': 'text/csv' },
+    },
+  },
   '/workspaces/{slug}/flights': {
     get: {
       summary:
-        'Flights, newest date first, each with flight, date, origin, destination, aircraft, fleet, cruiseFl, status and summary figures (distanceKm, fuelKg, noxTotalKg, noxAboveTropopauseKg, fractionAboveTropopause, ozoneLoss)',
+        'Flights, newest date first, each with flight, date, origin, destination, aircraft, fleet, cruiseFl, basis (planned: a schedule row; flown: an imported track), status and summary figures (distanceKm, fuelKg, noxTotalKg, noxAboveTropopauseKg, fractionAboveTropopause, ozoneLoss)',
       permission: 'flights:read',
       query: {
         import: 'import id',
@@ -318,10 +345,19 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
         to: 'YYYY-MM-DD',
         fleet: 'fleet id',
         aircraft: 'type code',
+        basis: 'planned | flown',
         cursor: 'from nextCursor',
         limit: '1-200',
       },
       responses: { '200': '{ items, nextCursor }' },
+    },
+  },
+  '/workspaces/{slug}/flights/{id}': {
+    get: {
+      summary:
+        'One imported flight: its basis (planned or flown), inputs, figures, engine version, import (importFileName, sourceLine), trackPoints for a flown track, and, when the same flight (date, flight, origin, destination) was both planned and flown, paired (the other side) and comparison { planned, flown: { noxAboveTropopauseKg, fractionAboveTropopause, fuelKg }, noxAboveDeltaKg, shareAboveDelta } (flown minus planned). The page is /w/{slug}/flights/{id}.',
+      permission: 'flights:read',
+      responses: { '200': 'The flight', '404': 'No such flight in this workspace' },
     },
   },
   '/workspaces/{slug}/routes': {
@@ -560,6 +596,8 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
         minFl: 'level band bottom, 0-660',
         maxFl: 'level band top, 0-660',
         groupBy: 'fleet | month | aircraft',
+        basis:
+          'planned (default: schedule flights) | flown (imported tracks) | flown-where-available (each flight once: its screened flown track where there is one, else its plan)',
         fleets: 'comma-separated fleet ids',
       },
       responses: { '200': '{ period, groupBy, filters, rows, totals, months, series, context, notes, cautions }' },

@@ -105,6 +105,7 @@ export function toFlightFilters(q: FleetCompareQuery, period: { from: string; to
     minFl: q.minFl,
     maxFl: q.maxFl,
     fleetIds: q.fleets,
+    basis: q.basis,
   };
 }
 
@@ -282,6 +283,7 @@ export async function compareFleets(
       minFl: q.minFl ?? null,
       maxFl: q.maxFl ?? null,
       fleets: q.fleets ?? null,
+      basis: q.basis ?? 'planned',
     },
     rows,
     totals: rowOf(totalSums, { key: 'total', fleetId: null, fleetName: 'All fleets' }),

@@ -56,6 +56,8 @@ export interface FleetComparison {
     minFl: number | null;
     maxFl: number | null;
     fleets: number[] | null;
+    /** planned, flown or flown-where-available: which flights were summed. */
+    basis: 'planned' | 'flown' | 'flown-where-available';
   };
   rows: CompareRow[];
   totals: CompareRow;

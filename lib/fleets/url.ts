@@ -1,5 +1,15 @@
 /** The comparison's filters as they travel in the page URL and the API query string. */
-export const COMPARE_FILTER_KEYS = ['from', 'to', 'aircraft', 'route', 'minFl', 'maxFl', 'groupBy', 'fleets'] as const;
+export const COMPARE_FILTER_KEYS = [
+  'from',
+  'to',
+  'aircraft',
+  'route',
+  'minFl',
+  'maxFl',
+  'groupBy',
+  'fleets',
+  'basis',
+] as const;
 export type CompareFilterKey = (typeof COMPARE_FILTER_KEYS)[number];
 
 type ParamSource = { get(name: string): string | null } | Record<string, string | string[] | undefined>;

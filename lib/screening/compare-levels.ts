@@ -115,7 +115,7 @@ export function compareValidated(
     const fuelPenaltyPct = (perK * Math.abs(deltaFt)) / 1000;
     const fuelKg = base.fuelBurnKg * (1 + fuelPenaltyPct / 100);
     // A track is shifted point by point, so its own times still spread the fuel.
-    const track = isTrackInput(input) ? shiftTrack(input, dFl) : null;
+    const track = isTrackInput(input) ? shiftTrack(input, dFl, 1 + fuelPenaltyPct / 100) : null;
     if (isTrackInput(input) && track === null) continue;
     const r =
       deltaFt === 0 && planned !== undefined
@@ -159,7 +159,7 @@ export function compareValidated(
 }
 
 /** A track input with every point's level (and the cruise) moved by `dFl`; null when one leaves FL0-FL660. */
-function shiftTrack(input: ScreeningInput, dFl: number): ScreeningInput | null {
+function shiftTrack(input: ScreeningInput, dFl: number, fuelFactor: number): ScreeningInput | null {
   if (!('track' in input.route)) return null;
   const inRange = (fl: number) => fl >= SCREENING_LIMITS.minFlightLevel && fl <= SCREENING_LIMITS.maxFlightLevel;
   const points = [];
@@ -167,6 +167,8 @@ function shiftTrack(input: ScreeningInput, dFl: number): ScreeningInput | null {
     const q = { ...p };
     if (q.flightLevel !== undefined) q.flightLevel += dFl;
     if (q.pressureAltitudeFt !== undefined) q.pressureAltitudeFt += dFl * 100;
+    // Per-point fuel flows carry the fuel penalty themselves, since they replace the total.
+    if (q.fuelFlowKgH !== undefined) q.fuelFlowKgH *= fuelFactor;
     const fl = q.flightLevel ?? (q.pressureAltitudeFt !== undefined ? q.pressureAltitudeFt / 100 : null);
     if (fl !== null && !inRange(fl)) return null;
     points.push(q);

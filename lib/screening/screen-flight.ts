@@ -600,10 +600,12 @@ function spreadFuel(
   totalKm: number,
   cp: CruisePlan,
   stepDurationsS: readonly number[] | null,
+  stepFuelKg: readonly number[] | null = null,
 ): { totalTimeS: number; fuelKgPerS: number; fuelPerKm: number[]; timedTrack: boolean } {
   const n = cp.stepFrom.length;
   // A flown track with times spreads the fuel by its own times.
   const timedTrack = stepDurationsS !== null && stepDurationsS.length === n;
+  const perStepFuel = timedTrack && stepFuelKg !== null && stepFuelKg.length === n ? stepFuelKg : null;
   let totalTimeS = 0;
   for (let s = 0; s < n; s++) {
     const end = s + 1 < n ? cp.stepFrom[s + 1] : totalKm;
@@ -613,9 +615,11 @@ function spreadFuel(
   const fuelPerKm: number[] = new Array<number>(n);
   for (let s = 0; s < n; s++) {
     const end = s + 1 < n ? cp.stepFrom[s + 1] : totalKm;
-    fuelPerKm[s] = timedTrack
-      ? (fuelKgPerS * stepDurationsS[s]) / (end - cp.stepFrom[s])
-      : (fuelKgPerS * 1000) / cp.levels[cp.stepLevel[s]].tasMs;
+    fuelPerKm[s] = perStepFuel
+      ? perStepFuel[s] / (end - cp.stepFrom[s])
+      : timedTrack
+        ? (fuelKgPerS * stepDurationsS[s]) / (end - cp.stepFrom[s])
+        : (fuelKgPerS * 1000) / cp.levels[cp.stepLevel[s]].tasMs;
   }
   return { totalTimeS, fuelKgPerS, fuelPerKm, timedTrack };
 }
@@ -868,9 +872,9 @@ function screenCore(
 ): ScreeningResult | ScreeningTotals {
   const cautions: string[] = BASE_CAUTIONS.slice();
   // A flight-plan route or a track is read into waypoints (and its levels into the cruise) first.
-  const { input, flightPlan, track, stepDurationsS } = expandRouteInput(rawInput, library);
+  const { input, flightPlan, track, stepDurationsS, stepFuelKg, coords } = expandRouteInput(rawInput, library);
   if (flightPlan !== null && full) cautions.push(...flightPlanCautions(flightPlan));
-  const { lat: wLat, lon: wLon } = resolveWaypoints(input.route.waypoints);
+  const { lat: wLat, lon: wLon } = coords ?? resolveWaypoints(input.route.waypoints);
   const plan = planRoute(wLat, wLon, track !== null ? 'route.track.points' : undefined);
   const season = resolveSeason(input);
   const emission = input.emission;
@@ -879,7 +883,7 @@ function screenCore(
   const inputs = resolveOzoneInputs(input.assumptions);
   const tp = resolveTropopause(input, cautions);
   const cp = buildLevels(input, plan.totalKm, tp.sounding, inputs, machTiming, cautions);
-  const fuel = spreadFuel(input.fuelBurnKg, plan.totalKm, cp, stepDurationsS);
+  const fuel = spreadFuel(input.fuelBurnKg, plan.totalKm, cp, stepDurationsS, stepFuelKg);
   const eiMethod = applyEmissionIndex(input, cp.levels, fuel.fuelKgPerS, inputs.relativeHumidity, machEi, cautions);
   const op = inputs.ozoneProfile;
   const ctx: WalkContext = {
@@ -915,7 +919,7 @@ function screenCore(
     result.track = track;
     const n = track.pointsWithoutLevel;
     cautions.push(
-      `The track's own levels are screened leg by leg (each leg at the mean of its two ends, to the nearest flight level), climb and descent included; the fuel is spread ${fuel.timedTrack ? 'by the time between its points' : `by time at Mach ${fmt(machTiming, 2)}, as its points have no times`}.${n > 0 ? ` ${n} point${n === 1 ? ' has' : 's have'} no level and take${n === 1 ? 's' : ''} the entered cruise.` : ''}`,
+      `The track's own levels are screened leg by leg (each leg at the mean of its two ends, to the nearest flight level), climb and descent included; ${track.fuelFromFlowKg !== null ? `the fuel (${fmt(track.fuelFromFlowKg)} kg) is its points' own fuel flows integrated over the time between them (the mean of each leg's two ends), and the mean flow sets the EI${track.enteredFuelKg !== null ? `; the entered total (${fmt(track.enteredFuelKg)} kg) is not used` : ''}` : `the fuel is spread ${fuel.timedTrack ? 'by the time between its points' : `by time at Mach ${fmt(machTiming, 2)}, as its points have no times`}`}.${n > 0 ? ` ${n} point${n === 1 ? ' has' : 's have'} no level and take${n === 1 ? 's' : ''} the entered cruise.` : ''}`,
     );
   }
   return result;

@@ -98,6 +98,13 @@ const fleetIdList = z.preprocess((v) => {
  * The comparison's filters, as query text (`?from=&to=&aircraft=&route=&minFl=&maxFl=&groupBy=&fleets=`)
  * or as an object. The level band keeps flights whose cruise (first to highest level) touches it.
  */
+/**
+ * What a fleet comparison sums: the planned flights (schedule imports), the flown flights (track
+ * imports), or each flight's flown track where it has one and its plan otherwise.
+ */
+export const FLIGHT_BASES = ['planned', 'flown', 'flown-where-available'] as const;
+export type FlightBasisChoice = (typeof FLIGHT_BASES)[number];
+
 export const fleetCompareQuerySchema = z
   .object({
     from: z.preprocess(blankToUndefined, isoDateSchema.optional()),
@@ -117,6 +124,10 @@ export const fleetCompareQuerySchema = z
       z.enum(GROUP_BY, { error: 'Group by fleet, month or aircraft.' }).default('fleet'),
     ),
     fleets: fleetIdList,
+    basis: z.preprocess(
+      blankToUndefined,
+      z.enum(FLIGHT_BASES, { error: 'The basis is planned, flown or flown-where-available.' }).optional(),
+    ),
   })
   .superRefine((v, ctx) => {
     const { from, to } = v;

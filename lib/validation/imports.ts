@@ -250,6 +250,10 @@ export const flightListQuerySchema = z
     from: z.preprocess(emptyToUndefined, day.optional()),
     to: z.preprocess(emptyToUndefined, day.optional()),
     fleet: z.preprocess(emptyToUndefined, positiveId('fleet id').optional()),
+    basis: z.preprocess(
+      emptyToUndefined,
+      z.enum(['planned', 'flown'], { error: 'The basis is planned or flown.' }).optional(),
+    ),
     aircraft: z.preprocess(
       emptyToUndefined,
       z.string().trim().max(16, { error: 'An aircraft type code has at most 16 characters.' }).optional(),

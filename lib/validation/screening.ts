@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { isoTimeMs } from './iso-time';
 
 /**
  * Input limits of a single-flight screening. Shared by the schema, forms and the engine so the
@@ -11,6 +12,9 @@ export const SCREENING_LIMITS = {
   minTrackPoints: 2,
   maxTrackPoints: 20_000,
   maxTrackMach: 3,
+  /** Whole-aircraft fuel flow on a track point, kg/h. */
+  minTrackFuelFlowKgH: 1,
+  maxTrackFuelFlowKgH: 100_000,
   maxSteps: 50,
   minFlightLevel: 0,
   maxFlightLevel: 660,
@@ -561,7 +565,7 @@ export const trackPointSchema = z
     time: z
       .string({ error: 'The time must be text such as 2026-11-20T10:15:00Z.' })
       .regex(ISO_TIME_RE, { error: 'Write the time as YYYY-MM-DDTHH:MM:SSZ (UTC), such as 2026-11-20T10:15:00Z.' })
-      .refine((t) => Number.isFinite(Date.parse(t)), { error: 'The time is not a real date and time.' })
+      .refine((t) => Number.isFinite(isoTimeMs(t)), { error: 'The time is not a real date and time.' })
       .optional(),
     lat: latitudeSchema,
     lon: longitudeSchema,
@@ -576,6 +580,12 @@ export const trackPointSchema = z
       SCREENING_LIMITS.minFlightLevel * 100,
       SCREENING_LIMITS.maxFlightLevel * 100,
       'ft (FL0-FL660)',
+    ).optional(),
+    fuelFlowKgH: between(
+      'The fuel flow',
+      SCREENING_LIMITS.minTrackFuelFlowKgH,
+      SCREENING_LIMITS.maxTrackFuelFlowKgH,
+      'kg/h (the whole aircraft)',
     ).optional(),
   })
   .superRefine((p, ctx) => {
@@ -610,7 +620,24 @@ export const trackRouteSchema = z.strictObject({
           error: `A track may have at most ${SCREENING_LIMITS.maxTrackPoints} points.`,
         })
         .superRefine((points, ctx) => {
+          const flows = points.filter((p) => p.fuelFlowKgH !== undefined).length;
+          if (flows > 0 && flows < points.length) {
+            const i = points.findIndex((p) => p.fuelFlowKgH === undefined);
+            ctx.addIssue({
+              code: 'custom',
+              path: [i, 'fuelFlowKgH'],
+              message: 'Give a fuel flow on every point of the track, or on none (the entered total is then spread).',
+            });
+          }
           const timed = points.filter((p) => p.time !== undefined).length;
+          if (flows > 0 && timed === 0) {
+            ctx.addIssue({
+              code: 'custom',
+              path: [0, 'time'],
+              message: 'A fuel flow per point is integrated over time: give a time on every point of the track.',
+            });
+            return;
+          }
           if (timed > 0 && timed < points.length) {
             const i = points.findIndex((p) => p.time === undefined);
             ctx.addIssue({
@@ -624,8 +651,8 @@ export const trackRouteSchema = z.strictObject({
           const maxMs = SCREENING_LIMITS.maxTrackMach * SEA_LEVEL_SPEED_OF_SOUND_MS;
           let reported = 0;
           for (let i = 1; i < points.length && reported < 20; i++) {
-            const t0 = Date.parse(points[i - 1].time ?? '');
-            const t1 = Date.parse(points[i].time ?? '');
+            const t0 = isoTimeMs(points[i - 1].time ?? '');
+            const t1 = isoTimeMs(points[i].time ?? '');
             if (!Number.isFinite(t0) || !Number.isFinite(t1)) continue;
             if (t1 < t0) {
               ctx.addIssue({

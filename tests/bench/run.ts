@@ -6,7 +6,15 @@ import { spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 
-const benches = ['engine.ts', 'flight-plan.ts', 'track.ts', 'uncertainty.ts', 'fleet-uncertainty.ts', 'import.ts']
+const benches = [
+  'engine.ts',
+  'flight-plan.ts',
+  'track.ts',
+  'track-import.ts',
+  'uncertainty.ts',
+  'fleet-uncertainty.ts',
+  'import.ts',
+]
   .map((f) => path.join('tests/bench', f))
   .filter((f) => fs.existsSync(f));
 let failed = false;

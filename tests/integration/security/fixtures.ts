@@ -148,6 +148,25 @@ export const ID_FIXTURES: Record<string, Maker> = {
       .returning('id');
     return Number(typeof row === 'object' ? row.id : row);
   },
+  flights: async (ws) => {
+    const [row] = await db()('flights')
+      .insert({
+        workspace_id: ws.id,
+        date: '2026-11-03',
+        flight: `FX${unique()}`.slice(0, 16).toUpperCase(),
+        origin: 'EGLL',
+        destination: 'KJFK',
+        aircraft_code: 'FIXTURE',
+        cruise_fl: 370,
+        max_fl: 370,
+        input_json: JSON.stringify(FLIGHT),
+        status: 'pending',
+        fuel_kg: FLIGHT.fuelBurnKg,
+        created_at: nowIso(),
+      })
+      .returning('id');
+    return Number(typeof row === 'object' ? row.id : row);
+  },
   imports: async (ws) => {
     const [row] = await db()('imports')
       .insert({

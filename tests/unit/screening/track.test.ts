@@ -1,6 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { compareCruiseLevels, findAirport, screenFlight, ScreeningInputError } from '@/lib/screening';
-import { planRoute, pointOnLeg } from '@/lib/screening/route';
+import { getDistance } from 'geolib';
+import { geolibDistanceM, planRoute, pointOnLeg } from '@/lib/screening/route';
+import { isoTimeMs } from '@/lib/validation/iso-time';
 
 const BASE = { fuelBurnKg: 24_000, emission: { eiNoxGPerKg: 14 }, month: 1, mach: 0.84 };
 
@@ -63,6 +65,59 @@ describe('screening a flown track', () => {
     expect(second).toBeCloseTo(3000, 6);
     expect(r.cruiseTimeH).toBeCloseTo(40 / 60, 12);
     expect(r.track?.durationS).toBe(2400);
+  });
+
+  it('per-point fuel flow: each leg burns the mean of its two ends over its time, and the sum replaces the entered total', () => {
+    // Leg 1: 10 min at (3000 + 3600)/2 = 3300 kg/h -> 550 kg; leg 2: 30 min at (3600 + 2400)/2 = 3000 kg/h -> 1500 kg.
+    const points = [
+      { lat: 50, lon: 0, flightLevel: 350, time: '2026-11-20T10:00:00Z', fuelFlowKgH: 3000 },
+      { lat: 51, lon: 0, flightLevel: 350, time: '2026-11-20T10:10:00Z', fuelFlowKgH: 3600 },
+      { lat: 52, lon: 0, flightLevel: 350, time: '2026-11-20T10:40:00Z', fuelFlowKgH: 2400 },
+    ];
+    const { fuelBurnKg: _unused, ...noFuel } = BASE;
+    void _unused;
+    const r = screenFlight({ ...noFuel, route: { track: { points } } });
+    const half = r.distanceKm / 2;
+    const first = r.segments.filter((s) => s.endKm <= half + 1e-9).reduce((t, s) => t + s.fuelKg, 0);
+    const second = r.segments.filter((s) => s.startKm >= half - 1e-9).reduce((t, s) => t + s.fuelKg, 0);
+    expect(first).toBeCloseTo(550, 6);
+    expect(second).toBeCloseTo(1500, 6);
+    expect(r.fuelKg).toBeCloseTo(2050, 6);
+    expect(r.noxTotalKg).toBeCloseTo((2050 * 14) / 1000, 6);
+    expect(r.track?.fuelFromFlowKg).toBeCloseTo(2050, 6);
+    expect(r.track?.enteredFuelKg).toBeNull();
+    // An entered total is replaced by the points' flows, and the caution says so.
+    const withTotal = screenFlight({ ...BASE, fuelBurnKg: 9999, route: { track: { points } } });
+    expect(withTotal.fuelKg).toBeCloseTo(2050, 6);
+    expect(withTotal.noxTotalKg).toBeCloseTo(r.noxTotalKg, 9);
+    expect(withTotal.track?.enteredFuelKg).toBe(9999);
+    expect(withTotal.cautions.some((c) => c.includes('the entered total') && c.includes('is not used'))).toBe(true);
+  });
+
+  it('a constant fuel flow on a steady track gives the same figures as spreading its integral by time', () => {
+    const pts = greatCircleTrack('EGLL', 'KJFK', 200, 370, true);
+    const flowKgH = 6000;
+    const spread = screenFlight({ ...BASE, route: { track: { points: pts } } });
+    const hours = spread.cruiseTimeH;
+    const byFlow = screenFlight({
+      ...BASE,
+      route: { track: { points: pts.map((p) => ({ ...p, fuelFlowKgH: flowKgH })) } },
+    });
+    const sameTotal = screenFlight({ ...BASE, fuelBurnKg: flowKgH * hours, route: { track: { points: pts } } });
+    expect(rel(byFlow.fuelKg, flowKgH * hours)).toBeLessThan(1e-9);
+    expect(rel(byFlow.noxAboveTropopauseKg, sameTotal.noxAboveTropopauseKg)).toBeLessThan(1e-9);
+    expect(rel(byFlow.ozoneLoss.centralKg, sameTotal.ozoneLoss.centralKg)).toBeLessThan(1e-9);
+  });
+
+  it('the what-if rows of a track with fuel flows carry the fuel penalty in the flows (1 % per 1000 ft here)', () => {
+    const pts = greatCircleTrack('EGLL', 'KJFK', 100, 350, true).map((p) => ({ ...p, fuelFlowKgH: 6000 }));
+    const base = screenFlight({ ...BASE, route: { track: { points: pts } } });
+    const rows = compareCruiseLevels(
+      { ...BASE, route: { track: { points: pts } } },
+      { deltasFt: [0, 2000], fuelPenaltyPctPer1000Ft: 1 },
+    );
+    expect(rows[0].fuelKg).toBeCloseTo(base.fuelKg, 6);
+    expect(rows[1].fuelKg).toBeCloseTo(base.fuelKg * 1.02, 6);
   });
 
   it('climb and descent: each leg flies the mean of its ends; pressure altitude in feet is the same as the flight level', () => {
@@ -176,6 +231,38 @@ describe('track validation (field errors by path)', () => {
       ],
       'route.track.points.0.time',
     ],
+    [
+      'a fuel flow on some points only',
+      [
+        { lat: 60, lon: 0, time: '2026-11-20T10:00:00Z', fuelFlowKgH: 3000 },
+        { lat: 60, lon: -1, time: '2026-11-20T10:10:00Z' },
+      ],
+      'route.track.points.1.fuelFlowKgH',
+    ],
+    [
+      'a fuel flow without times',
+      [
+        { lat: 60, lon: 0, fuelFlowKgH: 3000 },
+        { lat: 60, lon: -1, fuelFlowKgH: 3000 },
+      ],
+      'route.track.points.0.time',
+    ],
+    [
+      'a negative fuel flow',
+      [
+        { lat: 60, lon: 0, time: '2026-11-20T10:00:00Z', fuelFlowKgH: -5 },
+        { lat: 60, lon: -1, time: '2026-11-20T10:10:00Z', fuelFlowKgH: 3000 },
+      ],
+      'route.track.points.0.fuelFlowKgH',
+    ],
+    [
+      'a fuel flow given as text',
+      [
+        { lat: 60, lon: 0, time: '2026-11-20T10:00:00Z', fuelFlowKgH: 'lots' },
+        { lat: 60, lon: -1, time: '2026-11-20T10:10:00Z', fuelFlowKgH: 3000 },
+      ],
+      'route.track.points.0.fuelFlowKgH',
+    ],
     ['one point', [{ lat: 60, lon: 0 }], 'route.track.points'],
     [
       'all points at one place',
@@ -192,5 +279,32 @@ describe('track validation (field errors by path)', () => {
   it('more than 20 000 points is refused', () => {
     const points = Array.from({ length: 20_001 }, (_, i) => ({ lat: 60, lon: -i * 0.001 }));
     expect(at(points)).toContain('route.track.points');
+  });
+});
+
+describe('fast paths keep the same figures', () => {
+  it('the written-out great-circle distance gives the same bits as geolib getDistance', () => {
+    let seed = 7;
+    const rnd = () => (seed = (seed * 1103515245 + 12345) % 2147483648) / 2147483648;
+    for (let i = 0; i < 2000; i++) {
+      const a = [rnd() * 180 - 90, rnd() * 360 - 180];
+      const b = i % 3 === 0 ? [a[0] + rnd() * 0.01, a[1] + rnd() * 0.01] : [rnd() * 180 - 90, rnd() * 360 - 180];
+      const g = getDistance({ latitude: a[0], longitude: a[1] }, { latitude: b[0], longitude: b[1] }, 0.001);
+      expect(geolibDistanceM(a[0], a[1], b[0], b[1])).toBe(g);
+    }
+  });
+
+  it.each([
+    '2026-11-20T10:15:00Z',
+    '2026-11-20T10:15:00.250Z',
+    '2024-02-29T23:59:59Z',
+    '2026-02-29T10:00:00Z',
+    '2026-13-01T10:00:00Z',
+    '2026-11-20T24:00:00Z',
+    '2026-11-20T10:15:00+02:00',
+    '2026-11-20T10:15Z',
+    'not a time',
+  ])('isoTimeMs(%s) is Date.parse', (t) => {
+    expect(Object.is(isoTimeMs(t), Date.parse(t))).toBe(true);
   });
 });

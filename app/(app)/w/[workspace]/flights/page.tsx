@@ -222,7 +222,7 @@ export default async function FlightsPage({
                 </Link>
               </p>
             ) : (
-              <FlightsTable flights={page.items} units={units} />
+              <FlightsTable flights={page.items} units={units} slug={slug} />
             )}
             <div className="mt-4 flex flex-wrap items-center justify-between gap-3 text-sm">
               <p className="text-ink-soft">

@@ -10,6 +10,9 @@ import { ButtonLink } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { FormatReference, FormatSummary } from '@/components/imports/format-guide';
 import { UploadForm } from '@/components/imports/upload-form';
+import { TrackUploadForm } from '@/components/imports/track-upload';
+import { TrackFormatGuide } from '@/components/imports/track-format-guide';
+import { trackTemplateCsv } from '@/lib/imports/tracks';
 import { ImportList } from '@/components/imports/import-list';
 import { FailedJobs } from '@/components/jobs/failed-jobs';
 import { listFailedJobs } from '@/lib/jobs/failed-jobs';
@@ -73,6 +76,27 @@ export default async function ImportsPage({ params }: { params: Promise<{ worksp
             <FormatSummary templateHref={templateHref} />
           </div>
         )}
+      </Card>
+      <Card title="Upload flown tracks" className="mt-6">
+        <div className="space-y-6">
+          {canUpload && codes.length ? (
+            <TrackUploadForm slug={slug} />
+          ) : (
+            <p className="text-sm text-ink-soft">
+              {canUpload
+                ? 'Add an aircraft type first: each flown flight is screened with its type’s engine or EI NOx.'
+                : 'Your role can read imports but not upload them.'}
+            </p>
+          )}
+          <div className="min-w-0 border-t border-line pt-4">
+            <TrackFormatGuide
+              templateHref={`/api/v1/workspaces/${slug}/imports/tracks/template`}
+              example={trackTemplateCsv({ aircraft: codes[0] ?? 'YOUR-TYPE', day: todayIso() })
+                .trim()
+                .replace(/\r/g, '')}
+            />
+          </div>
+        </div>
       </Card>
       <Card title="Imports" className="mt-6">
         {imports.items.length === 0 ? (

@@ -1,0 +1,143 @@
+'use client';
+
+import { useRef, useState } from 'react';
+import { useRouter } from 'next/navigation';
+import { useMutation } from '@tanstack/react-query';
+import type { ImportProblem } from '@/lib/validation/imports';
+import { Button } from '@/components/ui/button';
+import { Field } from '@/components/ui/field';
+import { Notice } from '@/components/ui/notice';
+import { ImportProblemsTable } from './problems-table';
+
+type Outcome =
+  | { kind: 'accepted'; flights: number; points: number }
+  | { kind: 'refused'; message: string; problems: ImportProblem[]; total: number }
+  | { kind: 'error'; status: number; message: string };
+
+interface Body {
+  rows?: number;
+  points?: number;
+  error?: { message?: string };
+  problems?: ImportProblem[];
+  problemCount?: number;
+}
+
+async function upload(slug: string, file: File): Promise<Outcome> {
+  const form = new FormData();
+  form.set('file', file);
+  let res: Response;
+  try {
+    res = await fetch(`/api/v1/workspaces/${slug}/imports/tracks`, {
+      method: 'POST',
+      body: form,
+      credentials: 'same-origin',
+    });
+  } catch {
+    return {
+      kind: 'error',
+      status: 0,
+      message: 'The upload did not reach the server. Check the connection and try again.',
+    };
+  }
+  const body = (await res.json().catch(() => null)) as Body | null;
+  if (res.status === 202 && body) return { kind: 'accepted', flights: body.rows ?? 0, points: body.points ?? 0 };
+  if (res.status === 422 && body?.problems)
+    return {
+      kind: 'refused',
+      message: body.error?.message ?? 'Some points need attention.',
+      problems: body.problems,
+      total: body.problemCount ?? body.problems.length,
+    };
+  return {
+    kind: 'error',
+    status: res.status,
+    message: body?.error?.message ?? `The upload failed (HTTP ${res.status}).`,
+  };
+}
+
+/** Upload a flown-track file: every point is checked first; refused files list their problems by line and column. */
+export function TrackUploadForm({ slug }: { slug: string }) {
+  const router = useRouter();
+  const formRef = useRef<HTMLFormElement>(null);
+  const [file, setFile] = useState<File | null>(null);
+  const [missing, setMissing] = useState(false);
+  const mutation = useMutation({
+    mutationFn: (f: File) => upload(slug, f),
+    onSuccess: (o) => {
+      if (o.kind === 'accepted') {
+        formRef.current?.reset();
+        setFile(null);
+        router.refresh();
+      }
+    },
+  });
+  const outcome = mutation.data;
+  return (
+    <form
+      ref={formRef}
+      noValidate
+      className="space-y-4"
+      onSubmit={(e) => {
+        e.preventDefault();
+        if (!file) {
+          setMissing(true);
+          return;
+        }
+        mutation.mutate(file);
+      }}
+    >
+      <Field
+        id="track-file"
+        label="Track file (CSV)"
+        hint="Every point is checked before anything is saved; each flight is one billable unit once screened."
+        error={missing ? 'Choose a CSV file first.' : undefined}
+      >
+        <input
+          id="track-file"
+          name="file"
+          type="file"
+          accept=".csv,text/csv"
+          aria-invalid={missing || undefined}
+          aria-describedby={missing ? 'track-file-error' : 'track-file-hint'}
+          onChange={(e) => {
+            setFile(e.target.files?.[0] ?? null);
+            setMissing(false);
+            mutation.reset();
+          }}
+          className="block w-full text-sm text-ink file:mr-3 file:rounded-md file:border file:border-line-strong file:bg-paper-raised file:px-3 file:py-1.5 file:text-sm file:font-medium file:text-ink hover:file:bg-paper-sunk"
+        />
+      </Field>
+      <Button type="submit" disabled={mutation.isPending}>
+        {mutation.isPending ? 'Checking every point…' : 'Upload the tracks'}
+      </Button>
+      <div aria-live="polite" className="space-y-3">
+        {outcome?.kind === 'accepted' ? (
+          <Notice
+            tone="success"
+            role="status"
+            title={`Accepted: ${outcome.flights.toLocaleString('en-GB')} flown flight${outcome.flights === 1 ? '' : 's'} (${outcome.points.toLocaleString('en-GB')} points) queued for screening`}
+          >
+            Progress shows in the list below; each flight opens from Flights, beside its plan when there is one.
+          </Notice>
+        ) : null}
+        {outcome?.kind === 'refused' ? (
+          <div className="space-y-3">
+            <Notice tone="danger" role="alert" title="Nothing was imported">
+              {outcome.message}
+            </Notice>
+            <ImportProblemsTable
+              problems={outcome.problems}
+              total={outcome.total}
+              caption="Problems in the track file"
+            />
+          </div>
+        ) : null}
+        {outcome?.kind === 'error' ? (
+          <Notice tone={outcome.status === 409 ? 'caution' : 'danger'} role="alert" title="Not imported">
+            {outcome.message}
+          </Notice>
+        ) : null}
+      </div>
+    </form>
+  );
+}
