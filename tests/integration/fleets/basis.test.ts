@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { apiRequest, call, makeWorkspace, sessionCookie, useTestDatabase } from '../../support/test-db';
 import * as compareRoute from '@/app/api/v1/workspaces/[slug]/fleets/compare/route';
 import { db } from '@/db/client';
+import { adjustFlightRollups } from '@/db/flight-rollups';
 import type { FleetComparison } from '@/lib/fleets/types';
 import { insertFleet, insertFlight, insertType } from './flight-fixtures';
 
@@ -22,7 +23,10 @@ async function setUp() {
   const planA = await db()('flights').where({ id: a }).first();
   const flownId = await insertFlight(ws.id, { ...base, flight: 'PX', noxKg: 420, noxAboveKg: 13 });
   // The flown row of flight A: same flight, date, origin and destination, basis flown.
+  // Taken out of the roll-ups and put back under its new key, as every write of a screened flight does.
+  await adjustFlightRollups(db(), (q) => q.where('id', flownId), -1);
   await db()('flights').where({ id: flownId }).update({ flight: planA.flight, basis: 'flown' });
+  await adjustFlightRollups(db(), (q) => q.where('id', flownId), 1);
   return { ws, cookie, flownId };
 }
 
