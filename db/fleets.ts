@@ -280,7 +280,7 @@ export interface FlightFilters {
   fleetIds?: (number | null)[];
 }
 
-function applyFilters(q: Knex.QueryBuilder, f: FlightFilters): Knex.QueryBuilder {
+export function applyFilters(q: Knex.QueryBuilder, f: FlightFilters): Knex.QueryBuilder {
   q.where('fl.status', 'screened').whereBetween('fl.date', [f.from, f.to]);
   if (f.aircraft) q.whereRaw('upper(fl.aircraft_code) = ?', [f.aircraft.toUpperCase()]);
   for (const group of f.routeTerms ?? []) {

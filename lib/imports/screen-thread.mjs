@@ -11,11 +11,12 @@ function reasonOf(err) {
   return 'the screening engine could not screen this flight';
 }
 
-/** Screens `{ id, inputJson }[]`; each comes back as `{ id, totals }` or `{ id, error }`. */
+/** Screens `{ id, inputJson }[]`; each comes back as `{ id, totals, components }` or `{ id, error }`. */
 export default function screenBatch(items) {
   return items.map(({ id, inputJson }) => {
     try {
-      return { id, totals: engine.screenTotals(JSON.parse(inputJson)) };
+      const { totals, components } = engine.screenWithComponents(JSON.parse(inputJson));
+      return { id, totals, components };
     } catch (err) {
       return { id, error: reasonOf(err) };
     }

@@ -9,10 +9,12 @@ import type { ScreeningTotals } from '@/lib/screening';
 /**
  * Imported flights are screened in worker threads (a piscina pool), so a 100 000-row import leaves
  * the process's event loop to the requests it serves; the loop only parses rows in and writes
- * figures out. SCREENING_THREADS sets the pool size (0 screens on the event loop, as before).
+ * figures (and each flight's fleet-sampling components) out. SCREENING_THREADS sets the pool size (0 screens on the event loop, as before).
  */
 
-type ThreadResult = { id: number; totals: ScreeningTotals } | { id: number; error: string };
+type ThreadResult =
+  | { id: number; totals: ScreeningTotals; components: Uint8Array | null }
+  | { id: number; error: string };
 
 const g = globalThis as unknown as {
   tropopassScreeningPool?: Piscina<{ id: number; inputJson: string }[], ThreadResult[]>;
@@ -56,7 +58,9 @@ export async function screenInThreads(pending: PendingFlight[]): Promise<Screene
     const r = byId.get(f.id);
     const base = { id: f.id, workspaceId: f.workspaceId, line: f.line };
     if (!r) return { ...base, error: 'the screening thread returned no result for this flight' };
-    return 'totals' in r ? { ...base, figures: figuresOf(r.totals) } : { ...base, error: r.error };
+    return 'totals' in r
+      ? { ...base, figures: figuresOf(r.totals), components: r.components }
+      : { ...base, error: r.error };
   });
 }
 

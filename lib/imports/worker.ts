@@ -1,6 +1,6 @@
 import 'server-only';
 import { setImmediate as yieldToEventLoop } from 'node:timers/promises';
-import { screenTotals, ScreeningInputError, type ScreeningInput } from '@/lib/screening';
+import { screenWithComponents, ScreeningInputError, type ScreeningInput } from '@/lib/screening';
 import {
   claimImport,
   failImport,
@@ -89,8 +89,10 @@ function screenChunk(pending: Awaited<ReturnType<typeof listPendingFlights>>): S
   return pending.map((p) => {
     try {
       const input = JSON.parse(p.inputJson) as ScreeningInput;
-      // Only the summary figures leave this function: the full result (its segments) dies young.
-      return { id: p.id, workspaceId: p.workspaceId, line: p.line, figures: figuresOf(screenTotals(input)) };
+      // Only the summary figures and the fleet-sampling components leave this function: the full
+      // result (its segments) dies young.
+      const { totals, components } = screenWithComponents(input);
+      return { id: p.id, workspaceId: p.workspaceId, line: p.line, figures: figuresOf(totals), components };
     } catch (err) {
       return { id: p.id, workspaceId: p.workspaceId, line: p.line, error: reasonOf(err) };
     }
@@ -152,7 +154,7 @@ async function processRescreen(job: RescreenJob, opts: RunOptions): Promise<numb
       );
       return flights;
     }
-    const { done } = await saveRescreenChunk(cursor, screenChunk(batch));
+    const { done } = await saveRescreenChunk(cursor, (await screenInThreads(batch)) ?? screenChunk(batch));
     flights += done;
     cursor = { ...cursor, lastFlightId: batch[batch.length - 1].id };
     await opts.onChunk?.({ importId: job.importId, saved: done });

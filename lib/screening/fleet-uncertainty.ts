@@ -15,7 +15,7 @@ import {
   triangular,
   type Uniform,
 } from './prng';
-import type { ScreeningResult } from './screen-flight';
+import { screenValidated, type ScreeningResult, type ScreeningTotals } from './screen-flight';
 import {
   DEFAULT_UNCERTAINTY_SAMPLES,
   DEFAULT_UNCERTAINTY_SEED,
@@ -427,14 +427,16 @@ function fracOf(x: number, n: readonly [number, number, number]): number {
  * the tropopause error and its EI scatter), which no grouping can sum away.
  */
 export function sampleFleet(
-  flights: readonly FlightComponents[] | FleetPack,
+  flights: readonly FlightComponents[] | FleetPack | readonly FleetPack[],
   options: { samples?: number; seed?: number } = {},
 ): FleetUncertainty {
-  let pack: FleetPack;
-  if (flights instanceof FleetPack) pack = flights;
+  let packs: readonly FleetPack[];
+  if (flights instanceof FleetPack) packs = [flights];
+  else if (flights.length > 0 && flights[0] instanceof FleetPack) packs = flights as readonly FleetPack[];
   else {
-    pack = new FleetPack(flights.length);
-    for (const c of flights) pack.add(c);
+    const pack = new FleetPack(flights.length);
+    for (const c of flights as readonly FlightComponents[]) pack.add(c);
+    packs = [pack];
   }
   const samples = options.samples ?? DEFAULT_UNCERTAINTY_SAMPLES;
   const seed = options.seed ?? DEFAULT_UNCERTAINTY_SEED;
@@ -446,75 +448,83 @@ export function sampleFleet(
   const total = new Float64Array(samples);
   const o3 = new Float64Array(samples);
   const last = FLEET_SHIFT_NODES - 1;
-  const nb = pack.bands.length;
-  const bandScale = new Float64Array(nb);
-  const bandA = new Int32Array(nb);
-  const bandFa = new Float64Array(nb);
-  const bandB = new Int32Array(nb);
-  const bandFb = new Float64Array(nb);
+  const nbMax = Math.max(1, ...packs.map((p) => p.bands.length));
+  const bandScale = new Float64Array(nbMax);
+  const bandA = new Int32Array(nbMax);
+  const bandFa = new Float64Array(nbMax);
+  const bandB = new Int32Array(nbMax);
+  const bandFb = new Float64Array(nbMax);
   const groupShift = new Float64Array(GROUPS);
-  const { n, noxTotal, lnEiB, lnEiD, sigma, group, band, direct, noxAbove, o3: o3c, jRatio } = pack;
   const sigFuel = EI_LN_SIGMA.fuelFlowMethod;
   const sigDirect = EI_LN_SIGMA.direct;
+  let flightCount = 0;
+  for (const p of packs) flightCount += p.n;
   for (let i = 0; i < samples; i++) {
     drawShared(shared, groups, s);
-    for (let b = 0; b < nb; b++) {
-      const c = pack.bands[b];
-      const tf = Math.exp(triangular(s.tauFactorQ, Math.log(c.residenceFactor[0]), 0, Math.log(c.residenceFactor[1])));
-      const noy = c.noy[1] > 0 ? bandValue(s.noyQ, c.noy) / c.noy[1] : 1;
-      bandScale[b] = tf * noy;
-      const j3 = bandValue(s.jO3Q, c.jO3);
-      const j2 = bandValue(s.jNo2Q, c.jNo2);
-      bandA[b] = cellOf(j3, c.jO3);
-      bandFa[b] = fracOf(j3, c.jO3);
-      bandB[b] = cellOf(j2, c.jNo2);
-      bandFb[b] = fracOf(j2, c.jNo2);
-    }
     for (let g = 0; g < GROUPS; g++) groupShift[g] = SHARED_A * s.groupZ[g];
     const u = s.u;
     let a = 0;
     let t = 0;
     let o = 0;
-    for (let f = 0; f < n; f++) {
-      // The flight's own two normals, as drawOwn (inlined: this loop runs samples x flights times).
-      let x1 = own() * NORMAL_TABLE_CELLS;
-      let ix = x1 | 0;
-      const z1 = OWN_NORMAL[ix] + (x1 - ix) * (OWN_NORMAL[ix + 1] - OWN_NORMAL[ix]);
-      x1 = own() * NORMAL_TABLE_CELLS;
-      ix = x1 | 0;
-      const z2 = OWN_NORMAL[ix] + (x1 - ix) * (OWN_NORMAL[ix + 1] - OWN_NORMAL[ix]);
-      let zTp = groupShift[group[f]] + OWN_B * z1;
-      zTp = zTp > 3 ? 3 : zTp < -3 ? -3 : zTp;
-      let x = (zTp * sigma[f] - SHIFT_MIN_M) / FLEET_SHIFT_STEP_M;
-      if (x < 0) x = 0;
-      else if (x > last) x = last;
-      let j = Math.floor(x);
-      if (j > last - 1) j = last - 1;
-      const fx = x - j;
-      const base = f * FLEET_SHIFT_NODES + j;
-      const n0 = noxAbove[base];
-      const noxA = n0 + fx * (noxAbove[base + 1] - n0);
-      const q0 = o3c[base];
-      const o3s = q0 + fx * (o3c[base + 1] - q0);
-      const lb = lnEiB[f];
-      const ei = Math.exp(lb + u * (lnEiD[f] - lb) + (direct[f] === 1 ? sigDirect : sigFuel) * z2);
-      a += noxA * ei;
-      t += noxTotal[f] * ei;
-      if (o3s > 0) {
-        const b = band[f];
-        const fa = bandFa[b];
-        const fb = bandFb[b];
-        const k = f * 9 + bandA[b] * 3 + bandB[b];
-        const jf =
-          (1 - fa) * ((1 - fb) * jRatio[k] + fb * jRatio[k + 1]) + fa * ((1 - fb) * jRatio[k + 3] + fb * jRatio[k + 4]);
-        o += o3s * ei * bandScale[b] * jf;
+    for (const pack of packs) {
+      const nb = pack.bands.length;
+      for (let b = 0; b < nb; b++) {
+        const c = pack.bands[b];
+        const tf = Math.exp(
+          triangular(s.tauFactorQ, Math.log(c.residenceFactor[0]), 0, Math.log(c.residenceFactor[1])),
+        );
+        const noy = c.noy[1] > 0 ? bandValue(s.noyQ, c.noy) / c.noy[1] : 1;
+        bandScale[b] = tf * noy;
+        const j3 = bandValue(s.jO3Q, c.jO3);
+        const j2 = bandValue(s.jNo2Q, c.jNo2);
+        bandA[b] = cellOf(j3, c.jO3);
+        bandFa[b] = fracOf(j3, c.jO3);
+        bandB[b] = cellOf(j2, c.jNo2);
+        bandFb[b] = fracOf(j2, c.jNo2);
+      }
+      const { n, noxTotal, lnEiB, lnEiD, sigma, group, band, direct, noxAbove, o3: o3c, jRatio } = pack;
+      for (let f = 0; f < n; f++) {
+        // The flight's own two normals, as drawOwn (inlined: this loop runs samples x flights times).
+        let x1 = own() * NORMAL_TABLE_CELLS;
+        let ix = x1 | 0;
+        const z1 = OWN_NORMAL[ix] + (x1 - ix) * (OWN_NORMAL[ix + 1] - OWN_NORMAL[ix]);
+        x1 = own() * NORMAL_TABLE_CELLS;
+        ix = x1 | 0;
+        const z2 = OWN_NORMAL[ix] + (x1 - ix) * (OWN_NORMAL[ix + 1] - OWN_NORMAL[ix]);
+        let zTp = groupShift[group[f]] + OWN_B * z1;
+        zTp = zTp > 3 ? 3 : zTp < -3 ? -3 : zTp;
+        let x = (zTp * sigma[f] - SHIFT_MIN_M) / FLEET_SHIFT_STEP_M;
+        if (x < 0) x = 0;
+        else if (x > last) x = last;
+        let j = Math.floor(x);
+        if (j > last - 1) j = last - 1;
+        const fx = x - j;
+        const base = f * FLEET_SHIFT_NODES + j;
+        const n0 = noxAbove[base];
+        const noxA = n0 + fx * (noxAbove[base + 1] - n0);
+        const q0 = o3c[base];
+        const o3s = q0 + fx * (o3c[base + 1] - q0);
+        const lb = lnEiB[f];
+        const ei = Math.exp(lb + u * (lnEiD[f] - lb) + (direct[f] === 1 ? sigDirect : sigFuel) * z2);
+        a += noxA * ei;
+        t += noxTotal[f] * ei;
+        if (o3s > 0) {
+          const b = band[f];
+          const fa = bandFa[b];
+          const fb = bandFb[b];
+          const k = f * 9 + bandA[b] * 3 + bandB[b];
+          const jf =
+            (1 - fa) * ((1 - fb) * jRatio[k] + fb * jRatio[k + 1]) +
+            fa * ((1 - fb) * jRatio[k + 3] + fb * jRatio[k + 4]);
+          o += o3s * ei * bandScale[b] * jf;
+        }
       }
     }
     above[i] = a;
     total[i] = t;
     o3[i] = o;
   }
-  return finish(samples, seed, n, above, total, o3);
+  return finish(samples, seed, flightCount, above, total, o3);
 }
 
 /**
@@ -564,4 +574,37 @@ export function sampleFleetExact(
     }
   }
   return finish(samples, seed, screenings.length, above, total, o3);
+}
+
+/**
+ * Screens one validated flight in full and returns its totals with its encoded components (null when
+ * the components cannot be built: the figures still stand and the fleet sampling builds them later).
+ * What the import worker keeps of a flight.
+ */
+export function screenWithComponents(input: ScreeningInput): {
+  totals: ScreeningTotals;
+  components: Uint8Array | null;
+} {
+  const result = screenValidated(input);
+  let components: Uint8Array | null = null;
+  try {
+    components = encodeFlightComponents(flightComponents(input, result));
+  } catch {
+    components = null;
+  }
+  const { engineVersion, distanceKm, fuelKg, noxTotalKg, noxAboveTropopauseKg, fractionAboveTropopause } = result;
+  const { centralKg, lowKg, highKg, o3PerNox, chainLength } = result.ozoneLoss;
+  return {
+    totals: {
+      engineVersion,
+      distanceKm,
+      fuelKg,
+      noxTotalKg,
+      noxAboveTropopauseKg,
+      fractionAboveTropopause,
+      meanDepthAboveTropopauseKm: result.meanDepthAboveTropopauseKm,
+      ozoneLoss: { centralKg, lowKg, highKg, o3PerNox, chainLength },
+    },
+    components,
+  };
 }

@@ -115,6 +115,7 @@ export {
   encodeFlightComponents,
   decodeFlightComponents,
   FleetPack,
+  screenWithComponents,
   FLIGHT_COMPONENTS_BYTES,
   SHARED_TROPOPAUSE_VARIANCE,
   type FlightComponents,

@@ -8,6 +8,8 @@ import { can } from '@/lib/auth/policy';
 import { formatMass, formatNumber, formatPercent } from '@/lib/format';
 import { monthBounds } from '@/lib/clock';
 import { COUNT_HINTS, COUNT_LABELS } from '@/lib/counts';
+import { Suspense } from 'react';
+import { OverviewPercentiles } from '@/components/fleets/overview-percentiles';
 
 export default async function OverviewPage({ params }: { params: Promise<{ workspace: string }> }) {
   const { workspace: slug } = await params;
@@ -51,6 +53,9 @@ export default async function OverviewPage({ params }: { params: Promise<{ works
         />
         <Stat label="Share above" value={formatPercent(share, 1)} tone="strato" />
       </div>
+      <Suspense fallback={null}>
+        <OverviewPercentiles workspaceId={workspace.id} from={from} to={to} units={user.units} />
+      </Suspense>
       <Card title="Trend, last six months" className="mt-6">
         <ScrollRegion label="Trend, last six months">
           <table className="w-full text-sm">

@@ -1,0 +1,154 @@
+import 'server-only';
+import { createHash } from 'node:crypto';
+import { setImmediate as yieldToEventLoop } from 'node:timers/promises';
+import {
+  forEachFleetComponents,
+  getFleetPercentiles,
+  listFleetFlightRefs,
+  listFlightInputs,
+  putFleetPercentiles,
+  storeFlightComponents,
+  type ComponentsRow,
+} from '@/db/flight-components';
+import type { FlightFilters } from '@/db/fleets';
+import { ENGINE_VERSION, FleetPack, sampleFleet, screenWithComponents, type ScreeningInput } from '@/lib/screening';
+import type { FleetPercentiles, FleetPercentileRow } from './types';
+
+/** Samples and seed of every fleet percentile in the product: fixed, so a figure can be reproduced. */
+export const FLEET_SAMPLES = 400;
+export const FLEET_SEED = 1;
+
+export const FLEET_PERCENTILES_NOTE =
+  "5-95 % of each fleet's total from 400 Monte Carlo samples (seed 1) of the uncertain inputs, every flight of a sample drawn together: the inputs every flight shares (which fuel-flow method's EI is nearer the truth, the residence time above the tropopause, the J values, the NOx/NOy share) take one value per sample for the whole fleet; the tropopause error is half shared by the flights of the same 10-degree latitude band and month and half each flight's own; the scatter of each flight's EI about the methods is its own. So the band is narrower, relative to the total, than adding up the flights' own bands would suggest, but not much narrower, since the shared inputs do not average out. It leaves out the structure of the model itself (one plume, no mixing, the residence-time picture) and the difference between a gross catalytic loss and the net change of the ozone column: the ozone figure stays a gross loss.";
+
+/**
+ * Components are built lazily for flights screened before they were kept (or by an older engine):
+ * in chunks of this many flights, each chunk stored in its own transaction, so the work is done once
+ * and an abandoned request keeps what it built.
+ */
+const LAZY_CHUNK = 500;
+
+const fleetKeyOf = (id: number | null) => (id === null ? 'none' : String(id));
+
+/** Builds and stores components for flights that have none current; returns how many could not be built. */
+async function buildMissing(scope: { workspaceId: number }, ids: number[]): Promise<number> {
+  let failed = 0;
+  for (let i = 0; i < ids.length; i += LAZY_CHUNK) {
+    const inputs = await listFlightInputs(scope, ids.slice(i, i + LAZY_CHUNK));
+    const rows: ComponentsRow[] = [];
+    for (const f of inputs) {
+      try {
+        const { totals, components } = screenWithComponents(JSON.parse(f.inputJson) as ScreeningInput);
+        // Only components of the engine that made the flight's figures are used (see forEachFleetComponents).
+        if (components && totals.engineVersion === ENGINE_VERSION)
+          rows.push({
+            flightId: f.id,
+            workspaceId: scope.workspaceId,
+            engineVersion: totals.engineVersion,
+            data: components,
+          });
+        else failed += 1;
+      } catch {
+        failed += 1;
+      }
+    }
+    await storeFlightComponents(rows);
+    await yieldToEventLoop();
+  }
+  return failed;
+}
+
+const inFlight = new Map<string, Promise<FleetPercentiles>>();
+
+/**
+ * 5th, 50th and 95th percentiles of each fleet's total NOx above the tropopause, share above and
+ * ozone figure, and of all the fleets together, for the screened flights the filters keep: 400
+ * samples, seed 1, correlated as FLEET_PERCENTILES_NOTE says (never a sum of flight percentiles).
+ * Stored by a digest of the flight set (ids, fleets, engine versions), samples, seed and engine
+ * version: the same selection is sampled once. Flights without current components get them built
+ * first (once). A flight whose figures come from an older engine version cannot be sampled with its
+ * own figures and is left out and counted (`flightsLeftOut`): re-screening its import brings it in.
+ */
+export async function fleetPercentiles(
+  scope: { workspaceId: number },
+  filters: FlightFilters,
+): Promise<FleetPercentiles | null> {
+  const refs = await listFleetFlightRefs(scope, filters);
+  if (refs.length === 0) return null;
+  const hash = createHash('sha256').update(`${ENGINE_VERSION}|${FLEET_SAMPLES}|${FLEET_SEED}|`);
+  let text = '';
+  for (const r of refs) {
+    text += `${r.id}:${fleetKeyOf(r.fleetId)}:${r.engineVersion};`;
+    if (text.length > 65_536) {
+      hash.update(text);
+      text = '';
+    }
+  }
+  const key = hash.update(text).digest('hex');
+  const memo = `${scope.workspaceId}:${key}`;
+  const running = inFlight.get(memo);
+  if (running) return running;
+  const work = (async () => {
+    const stored = await getFleetPercentiles(scope, key);
+    if (stored) return JSON.parse(stored) as FleetPercentiles;
+    const stale = refs.filter((r) => !r.current && r.engineVersion === ENGINE_VERSION).map((r) => r.id);
+    if (stale.length) await buildMissing(scope, stale);
+    const packs = new Map<string, { fleetId: number | null; pack: FleetPack }>();
+    for (const r of refs) {
+      const k = fleetKeyOf(r.fleetId);
+      if (!packs.has(k)) packs.set(k, { fleetId: r.fleetId, pack: new FleetPack(256) });
+    }
+    await forEachFleetComponents(scope, filters, (_id, fleetId, data) => {
+      packs.get(fleetKeyOf(fleetId))?.pack.addEncoded(data);
+    });
+    const fleets: FleetPercentileRow[] = [];
+    const options = { samples: FLEET_SAMPLES, seed: FLEET_SEED };
+    let correlation = '';
+    for (const { fleetId, pack } of packs.values()) {
+      const flights = refs.filter((r) => r.fleetId === fleetId).length;
+      const u = sampleFleet(pack, options);
+      correlation = u.correlation;
+      fleets.push({
+        fleetId,
+        flights,
+        flightsSampled: pack.n,
+        noxAboveTropopauseKg: u.noxAboveTropopauseKg,
+        fractionAboveTropopause: u.fractionAboveTropopause,
+        ozoneLossKg: u.ozoneLossKg,
+      });
+      await yieldToEventLoop();
+    }
+    const all = [...packs.values()].map((p) => p.pack);
+    const sampled = all.reduce((n, p) => n + p.n, 0);
+    const t =
+      fleets.length === 1 ? { ...fleets[0] } : (() => {
+        const u = sampleFleet(all, options);
+        return {
+          fleetId: null,
+          flights: refs.length,
+          flightsSampled: sampled,
+          noxAboveTropopauseKg: u.noxAboveTropopauseKg,
+          fractionAboveTropopause: u.fractionAboveTropopause,
+          ozoneLossKg: u.ozoneLossKg,
+        };
+      })();
+    const result: FleetPercentiles = {
+      samples: FLEET_SAMPLES,
+      seed: FLEET_SEED,
+      engineVersion: ENGINE_VERSION,
+      fleets,
+      total: { ...t, fleetId: null },
+      flightsLeftOut: refs.length - sampled,
+      correlation,
+      note: FLEET_PERCENTILES_NOTE,
+    };
+    await putFleetPercentiles(scope, key, JSON.stringify(result));
+    return result;
+  })();
+  inFlight.set(memo, work);
+  try {
+    return await work;
+  } finally {
+    inFlight.delete(memo);
+  }
+}
