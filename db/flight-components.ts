@@ -35,7 +35,9 @@ export async function saveFlightComponents(trx: Knex.Transaction, rows: Componen
 /** Components of flights inside the caller's transaction are removed (a flight re-screened without them). */
 export async function deleteFlightComponents(trx: Knex.Transaction, flightIds: number[]): Promise<void> {
   for (let i = 0; i < flightIds.length; i += 500)
-    await trx('flight_components').whereIn('flight_id', flightIds.slice(i, i + 500)).delete();
+    await trx('flight_components')
+      .whereIn('flight_id', flightIds.slice(i, i + 500))
+      .delete();
 }
 
 /** A flight of a fleet selection: its resolved fleet, engine version and whether its components are current. */

@@ -121,17 +121,19 @@ export async function fleetPercentiles(
     const all = [...packs.values()].map((p) => p.pack);
     const sampled = all.reduce((n, p) => n + p.n, 0);
     const t =
-      fleets.length === 1 ? { ...fleets[0] } : (() => {
-        const u = sampleFleet(all, options);
-        return {
-          fleetId: null,
-          flights: refs.length,
-          flightsSampled: sampled,
-          noxAboveTropopauseKg: u.noxAboveTropopauseKg,
-          fractionAboveTropopause: u.fractionAboveTropopause,
-          ozoneLossKg: u.ozoneLossKg,
-        };
-      })();
+      fleets.length === 1
+        ? { ...fleets[0] }
+        : (() => {
+            const u = sampleFleet(all, options);
+            return {
+              fleetId: null,
+              flights: refs.length,
+              flightsSampled: sampled,
+              noxAboveTropopauseKg: u.noxAboveTropopauseKg,
+              fractionAboveTropopause: u.fractionAboveTropopause,
+              ozoneLossKg: u.ozoneLossKg,
+            };
+          })();
     const result: FleetPercentiles = {
       samples: FLEET_SAMPLES,
       seed: FLEET_SEED,

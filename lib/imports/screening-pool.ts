@@ -13,8 +13,7 @@ import type { ScreeningTotals } from '@/lib/screening';
  */
 
 type ThreadResult =
-  | { id: number; totals: ScreeningTotals; components: Uint8Array | null }
-  | { id: number; error: string };
+  { id: number; totals: ScreeningTotals; components: Uint8Array | null } | { id: number; error: string };
 
 const g = globalThis as unknown as {
   tropopassScreeningPool?: Piscina<{ id: number; inputJson: string }[], ThreadResult[]>;

@@ -600,7 +600,10 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
     const range = (b: { p5: number; p95: number }) => reportMassRange(b.p5, b.p95, units, ' to ');
     const nameOf = (id: number | null) =>
       id === null ? 'No fleet' : (s.perFleet.find((r) => r.fleetId === id)?.fleetName ?? String(id));
-    const bandRows = [...band.fleets.map((b) => ({ ...b, name: nameOf(b.fleetId) })), { ...band.total, name: 'All fleets' }]
+    const bandRows = [
+      ...band.fleets.map((b) => ({ ...b, name: nameOf(b.fleetId) })),
+      { ...band.total, name: 'All fleets' },
+    ]
       .filter((b, i, all) => i === all.length - 1 || s.perFleet.some((r) => r.fleetId === b.fleetId))
       .map((b) => [b.name, range(b.noxAboveTropopauseKg), range(b.ozoneLossKg)]);
     w.table(

@@ -1,0 +1,268 @@
+import { beforeAll, describe, expect, it } from 'vitest';
+import Papa from 'papaparse';
+import { call, makeWorkspace, sessionCookie, useTestDatabase } from '../../support/test-db';
+import * as importsRoute from '@/app/api/v1/workspaces/[slug]/imports/route';
+import { db } from '@/db/client';
+import { saveScreenedChunk, type ImportDto } from '@/db/imports';
+import { getReportCsv } from '@/db/reports';
+import { runImportsToCompletion } from '@/lib/imports/worker';
+import { compareFleets } from '@/lib/fleets/compare';
+import { fleetPercentiles, FLEET_SAMPLES, FLEET_SEED } from '@/lib/fleets/percentiles';
+import { buildFleetReport } from '@/lib/reports/build';
+import {
+  decodeFlightComponents,
+  encodeFlightComponents,
+  flightComponents,
+  sampleFleetExact,
+  screenValidated,
+  type ScreeningInput,
+} from '@/lib/screening';
+import { addScheduleLibrary, csv, uploadRequest } from '../imports/support';
+
+useTestDatabase();
+
+// Invented schedule: great-circle routes between real airports, fuel roughly 6.3 kg per km for a
+// long-haul twin (common practice for a plausible order of magnitude), three months, FL330-410.
+const PAIRS: [string, string, number][] = [
+  ['EFHK', 'RJAA', 52_000],
+  ['EGLL', 'KSEA', 47_000],
+  ['BIKF', 'PANC', 36_000],
+  ['ENGM', 'CYVR', 44_000],
+  ['RJAA', 'EFHK', 53_000],
+  ['KSEA', 'EGLL', 46_000],
+  ['EGLL', 'KJFK', 35_000],
+  ['KJFK', 'EGLL', 33_000],
+];
+
+function scheduleRows(n: number): string[] {
+  const out: string[] = [];
+  for (let i = 0; i < n; i++) {
+    const [o, d, fuel] = PAIRS[i % PAIRS.length];
+    const month = String(9 + (i % 3)).padStart(2, '0');
+    const day = String(1 + ((i * 7) % 28)).padStart(2, '0');
+    out.push(`2026-${month}-${day},FP${i},${o},${d},T-LR,${330 + (i % 9) * 10},${fuel + (i % 11) * 300}`);
+  }
+  return out;
+}
+
+const HEADER = 'date,flight,origin,destination,aircraft,cruise_fl,fuel_kg';
+const PERIOD = { from: '2026-09-01', to: '2026-11-30' };
+let ws: Awaited<ReturnType<typeof makeWorkspace>>;
+let longHaul: number;
+let study: number;
+
+beforeAll(async () => {
+  ws = await makeWorkspace(['analyst']);
+  ({ longHaulFleetId: longHaul, studyFleetId: study } = await addScheduleLibrary(ws.id));
+  // 200 long-haul flights through the import path, and a few direct-EI flights of another fleet.
+  const sst = ['2026-10-03,SS1,EGLL,KJFK,T-SST,580,60000', '2026-11-04,SS2,KJFK,EGLL,T-SST,600,60000'];
+  const r = await call<ImportDto>(
+    importsRoute.POST,
+    uploadRequest(ws.slug, csv(HEADER, ...scheduleRows(200), ...sst), {
+      cookie: await sessionCookie(ws.members.analyst.id),
+    }),
+    { slug: ws.slug },
+  );
+  expect(r.status, JSON.stringify(r.body)).toBe(202);
+  await runImportsToCompletion();
+}, 120_000);
+
+async function screenedFlights(fleetId: number) {
+  return (await db()('flights as fl')
+    .join('aircraft_types as at', 'at.id', 'fl.aircraft_type_id')
+    .where({ 'fl.workspace_id': ws.id, 'fl.status': 'screened', 'at.default_fleet_id': fleetId })
+    .orderBy('fl.id')
+    .select('fl.id', 'fl.input_json', 'fl.engine_version')) as {
+    id: number;
+    input_json: string;
+    engine_version: string;
+  }[];
+}
+
+describe('fleet percentiles from components stored by the import worker', () => {
+  it('stores one component row per screened flight, equal to the components of a fresh screening', async () => {
+    const flights = await screenedFlights(longHaul);
+    expect(flights.length).toBeGreaterThanOrEqual(190);
+    const rows = (await db()('flight_components')
+      .where({ workspace_id: ws.id })
+      .select('flight_id', 'data', 'engine_version')) as {
+      flight_id: number;
+      data: Uint8Array;
+      engine_version: string;
+    }[];
+    const screenedCount = Number(
+      (
+        (await db()('flights').where({ workspace_id: ws.id, status: 'screened' }).count({ n: '*' }).first()) as {
+          n: number;
+        }
+      ).n,
+    );
+    expect(rows.length).toBe(screenedCount);
+    const first = flights[0];
+    const stored = rows.find((r) => Number(r.flight_id) === Number(first.id));
+    expect(stored?.engine_version).toBe(first.engine_version);
+    const input = JSON.parse(first.input_json) as ScreeningInput;
+    const fresh = decodeFlightComponents(encodeFlightComponents(flightComponents(input, screenValidated(input))));
+    expect(decodeFlightComponents(new Uint8Array(stored!.data))).toStrictEqual(fresh);
+  });
+
+  it('agrees with a brute-force re-screening of every flight of the fleet (same seed, same draws)', async () => {
+    const flights = await screenedFlights(longHaul);
+    const p = await fleetPercentiles({ workspaceId: ws.id }, { ...PERIOD, fleetIds: [longHaul] });
+    expect(p).not.toBeNull();
+    expect(p!.fleets).toHaveLength(1);
+    expect(p!.fleets[0].flightsSampled).toBe(flights.length);
+    expect(p!.flightsLeftOut).toBe(0);
+    const screenings = flights.map((f) => {
+      const input = JSON.parse(f.input_json) as ScreeningInput;
+      return { input, result: screenValidated(input) };
+    });
+    const exact = sampleFleetExact(screenings, { samples: FLEET_SAMPLES, seed: FLEET_SEED });
+    // The Monte Carlo error of a 400-sample percentile, from three other seeds of the exact sums: the
+    // stored components must agree with the exact re-screening (same draws) within it, and within 3 %.
+    const others = [2, 3, 4].map((k) => sampleFleetExact(screenings, { samples: FLEET_SAMPLES, seed: FLEET_SEED + k }));
+    for (const key of ['noxAboveTropopauseKg', 'ozoneLossKg'] as const) {
+      for (const q of ['p5', 'p50', 'p95'] as const) {
+        const got = p!.fleets[0][key][q];
+        const rel = Math.abs(got - exact[key][q]) / exact[key][q];
+        const mc = Math.max(...others.map((o) => Math.abs(o[key][q] - exact[key][q]) / exact[key][q]));
+        expect(rel, `${key} ${q}`).toBeLessThan(0.03);
+        expect(rel, `${key} ${q} against the seed-to-seed error ${mc}`).toBeLessThan(Math.max(mc, 0.005));
+      }
+    }
+  });
+
+  it('orders the percentiles, keeps the central sum inside the band, and gives the same figures for the seed', async () => {
+    const scope = { workspaceId: ws.id };
+    const first = await fleetPercentiles(scope, PERIOD);
+    expect(first!.fleets.map((f) => f.fleetId).sort()).toEqual([longHaul, study].sort());
+    for (const row of [...first!.fleets, first!.total]) {
+      for (const key of ['noxAboveTropopauseKg', 'ozoneLossKg', 'fractionAboveTropopause'] as const) {
+        expect(row[key].p5).toBeLessThanOrEqual(row[key].p50);
+        expect(row[key].p50).toBeLessThanOrEqual(row[key].p95);
+      }
+    }
+    // Stored: the second ask reads the stored result; a fresh sampling gives it again, bit for bit.
+    expect(await db()('fleet_percentiles').where({ workspace_id: ws.id }).first()).toBeDefined();
+    await db()('fleet_percentiles').where({ workspace_id: ws.id }).delete();
+    const again = await fleetPercentiles(scope, PERIOD);
+    expect(again).toStrictEqual(first);
+    // The total is sampled, not summed: its band is narrower than the sum of the fleets' bands.
+    const sumP95 = first!.fleets.reduce((t, f) => t + f.noxAboveTropopauseKg.p95, 0);
+    const sumP5 = first!.fleets.reduce((t, f) => t + f.noxAboveTropopauseKg.p5, 0);
+    expect(first!.total.noxAboveTropopauseKg.p95 - first!.total.noxAboveTropopauseKg.p5).toBeLessThan(sumP95 - sumP5);
+    expect(first!.total.flightsSampled).toBe(first!.fleets.reduce((t, f) => t + f.flightsSampled, 0));
+  });
+
+  it('builds components once for flights screened before they were kept, with the same result', async () => {
+    const scope = { workspaceId: ws.id };
+    const before = await fleetPercentiles(scope, PERIOD);
+    await db()('flight_components').where({ workspace_id: ws.id }).delete();
+    await db()('fleet_percentiles').where({ workspace_id: ws.id }).delete();
+    const after = await fleetPercentiles(scope, PERIOD);
+    expect(after).toStrictEqual(before);
+    const n = Number(
+      ((await db()('flight_components').where({ workspace_id: ws.id }).count({ n: '*' }).first()) as { n: number }).n,
+    );
+    expect(n).toBe(before!.total.flightsSampled);
+  });
+
+  it('writes components in the transaction of the figures: a chunk that fails leaves none', async () => {
+    const other = await makeWorkspace(['analyst']);
+    await addScheduleLibrary(other.id);
+    const r = await call<ImportDto>(
+      importsRoute.POST,
+      uploadRequest(other.slug, csv(HEADER, ...scheduleRows(2)), {
+        cookie: await sessionCookie(other.members.analyst.id),
+      }),
+      { slug: other.slug },
+    );
+    expect(r.status).toBe(202);
+    const pending = (await db()('flights')
+      .where({ import_id: r.body.id })
+      .orderBy('id')
+      .select('id', 'input_json')) as {
+      id: number;
+      input_json: string;
+    }[];
+    const input = JSON.parse(pending[0].input_json) as ScreeningInput;
+    const result = screenValidated(input);
+    const outcomes = [
+      {
+        id: Number(pending[0].id),
+        workspaceId: other.id,
+        line: 2,
+        figures: {
+          distanceKm: result.distanceKm,
+          noxTotalKg: result.noxTotalKg,
+          noxAboveTropopauseKg: result.noxAboveTropopauseKg,
+          fractionAboveTropopause: result.fractionAboveTropopause,
+          meanDepthAboveTropopauseKm: result.meanDepthAboveTropopauseKm,
+          ozoneCentralKg: result.ozoneLoss.centralKg,
+          ozoneLowKg: result.ozoneLoss.lowKg,
+          ozoneHighKg: result.ozoneLoss.highKg,
+          engineVersion: result.engineVersion,
+        },
+        components: encodeFlightComponents(flightComponents(input, result)),
+      },
+      // The second flight's failure is recorded as a problem of an import that does not exist: the
+      // foreign key refuses it and the whole chunk rolls back.
+      { id: Number(pending[1].id), workspaceId: other.id, line: 3, error: 'refused' },
+    ];
+    await expect(saveScreenedChunk(999_999, outcomes)).rejects.toThrow();
+    expect(await db()('flight_components').where({ workspace_id: other.id }).first()).toBeUndefined();
+    expect((await db()('flights').where({ id: pending[0].id }).first()).status).toBe('pending');
+    // The same chunk under its own import commits figures and components together.
+    await saveScreenedChunk(r.body.id, outcomes);
+    const stored = await db()('flight_components').where({ flight_id: pending[0].id }).first();
+    expect(stored?.engine_version).toBe(result.engineVersion);
+    expect(await db()('flight_components').where({ flight_id: pending[1].id }).first()).toBeUndefined();
+  });
+});
+
+describe('fleet percentiles in the product', () => {
+  it('the fleet comparison carries the band per fleet and in total, with the correlation in plain words', async () => {
+    const c = await compareFleets({ workspaceId: ws.id }, { ...PERIOD, groupBy: 'fleet' });
+    expect(c.percentiles?.samples).toBe(400);
+    expect(c.percentiles?.fleets).toHaveLength(2);
+    expect(c.percentiles?.note).toMatch(/half shared by the flights of the same 10-degree latitude band and month/);
+    expect(c.percentiles?.note).toMatch(/gross catalytic loss/);
+    // The page's figures are the data function's for the same selection.
+    expect(c.percentiles).toStrictEqual(await fleetPercentiles({ workspaceId: ws.id }, PERIOD));
+    // A filter that keeps no flight has no band.
+    const none = await compareFleets(
+      { workspaceId: ws.id },
+      { from: '2025-01-01', to: '2025-01-31', groupBy: 'fleet' },
+    );
+    expect(none.percentiles).toBeNull();
+  });
+
+  it('a fleet report states the band in its summary (JSON), its CSV and the correlation text', async () => {
+    const report = await buildFleetReport(
+      { workspaceId: ws.id },
+      {
+        ...PERIOD,
+        fleetIds: [longHaul, study],
+        workspaceName: 'Percentile test',
+        units: 'metric',
+        createdBy: null,
+        actor: 'test',
+        actorName: 'Test',
+      },
+    );
+    const summary = report.summary;
+    expect(summary.percentiles?.fleets).toHaveLength(2);
+    const { csv: text } = await getReportCsv({ workspaceId: ws.id }, report.id);
+    const parsed = Papa.parse<Record<string, string>>(text, { header: true, skipEmptyLines: true });
+    const totals = parsed.data.filter((r) => r.month === 'total');
+    expect(totals).toHaveLength(3);
+    for (const t of totals) {
+      expect(Number(t.nox_above_tropopause_p5_kg)).toBeGreaterThan(0);
+      expect(Number(t.nox_above_tropopause_p95_kg)).toBeGreaterThan(Number(t.nox_above_tropopause_p5_kg));
+      expect(Number(t.ozone_loss_p95_kg)).toBeGreaterThan(Number(t.ozone_loss_p5_kg));
+    }
+    const last = totals[totals.length - 1];
+    expect(Number(last.nox_above_tropopause_p5_kg)).toBeCloseTo(summary.percentiles!.total.noxAboveTropopauseKg.p5, 3);
+    expect(parsed.data.filter((r) => r.month !== 'total').every((r) => r.nox_above_tropopause_p5_kg === '')).toBe(true);
+  });
+});
