@@ -87,31 +87,28 @@ export async function storeFlightComponents(rows: ComponentsRow[]): Promise<void
 }
 
 /**
- * Calls `each(flightId, fleetId, bytes)` for the current components of the flights the filters keep,
- * read in pages of `pageSize` by flight id so a 100 000-flight selection never sits in memory twice.
+ * Calls `each(ref, bytes)` for the components of the given flights (from listFleetFlightRefs, in id
+ * order) that match their flight's engine version. Reads by primary-key ranges of `pageSize` flights,
+ * without the selection's joins, so a 100 000-flight selection costs one pass over its blobs.
  */
-export async function forEachFleetComponents(
+export async function forEachFlightComponents(
   scope: { workspaceId: number },
-  filters: FlightFilters,
-  each: (flightId: number, fleetId: number | null, data: Uint8Array) => void,
-  pageSize = 20_000,
+  refs: readonly FleetFlightRef[],
+  each: (ref: FleetFlightRef, data: Uint8Array) => void,
+  pageSize = 10_000,
 ): Promise<void> {
-  let after = 0;
-  for (;;) {
-    const rows = (await applyFilters(flightsWithFleet(db(), scope.workspaceId), filters)
-      .join('flight_components as fc', function joinCurrent() {
-        this.on('fc.flight_id', '=', 'fl.id').andOn('fc.engine_version', '=', 'fl.engine_version');
-      })
-      .where('fl.id', '>', after)
-      .orderBy('fl.id')
-      .limit(pageSize)
-      .select('fl.id', 'f.id as fleet_id', 'fc.data')) as Row[];
+  for (let i = 0; i < refs.length; i += pageSize) {
+    const page = refs.slice(i, i + pageSize);
+    const byId = new Map(page.map((r) => [r.id, r]));
+    const rows = (await db()('flight_components')
+      .where('workspace_id', scope.workspaceId)
+      .whereBetween('flight_id', [page[0].id, page[page.length - 1].id])
+      .orderBy('flight_id')
+      .select('flight_id', 'engine_version', 'data')) as Row[];
     for (const r of rows) {
-      const id = Number(r.id);
-      each(id, r.fleet_id === null || r.fleet_id === undefined ? null : Number(r.fleet_id), r.data as Uint8Array);
-      after = id;
+      const ref = byId.get(Number(r.flight_id));
+      if (ref && ref.engineVersion === r.engine_version) each(ref, r.data as Uint8Array);
     }
-    if (rows.length < pageSize) return;
   }
 }
 

@@ -2,7 +2,7 @@ import 'server-only';
 import { createHash } from 'node:crypto';
 import { setImmediate as yieldToEventLoop } from 'node:timers/promises';
 import {
-  forEachFleetComponents,
+  forEachFlightComponents,
   getFleetPercentiles,
   listFleetFlightRefs,
   listFlightInputs,
@@ -11,7 +11,14 @@ import {
   type ComponentsRow,
 } from '@/db/flight-components';
 import type { FlightFilters } from '@/db/fleets';
-import { ENGINE_VERSION, FleetPack, sampleFleet, screenWithComponents, type ScreeningInput } from '@/lib/screening';
+import {
+  ENGINE_VERSION,
+  FleetPack,
+  sampleFleetParts,
+  screenWithComponents,
+  type FleetUncertainty,
+  type ScreeningInput,
+} from '@/lib/screening';
 import type { FleetPercentiles, FleetPercentileRow } from './types';
 
 /** Samples and seed of every fleet percentile in the product: fixed, so a figure can be reproduced. */
@@ -39,7 +46,7 @@ async function buildMissing(scope: { workspaceId: number }, ids: number[]): Prom
     for (const f of inputs) {
       try {
         const { totals, components } = screenWithComponents(JSON.parse(f.inputJson) as ScreeningInput);
-        // Only components of the engine that made the flight's figures are used (see forEachFleetComponents).
+        // Only components of the engine that made the flight's figures are used (see forEachFlightComponents).
         if (components && totals.engineVersion === ENGINE_VERSION)
           rows.push({
             flightId: f.id,
@@ -98,42 +105,30 @@ export async function fleetPercentiles(
       const k = fleetKeyOf(r.fleetId);
       if (!packs.has(k)) packs.set(k, { fleetId: r.fleetId, pack: new FleetPack(256) });
     }
-    await forEachFleetComponents(scope, filters, (_id, fleetId, data) => {
-      packs.get(fleetKeyOf(fleetId))?.pack.addEncoded(data);
+    await forEachFlightComponents(scope, refs, (ref, data) => {
+      packs.get(fleetKeyOf(ref.fleetId))?.pack.addEncoded(data);
     });
-    const fleets: FleetPercentileRow[] = [];
     const options = { samples: FLEET_SAMPLES, seed: FLEET_SEED };
-    let correlation = '';
-    for (const { fleetId, pack } of packs.values()) {
-      const flights = refs.filter((r) => r.fleetId === fleetId).length;
-      const u = sampleFleet(pack, options);
-      correlation = u.correlation;
-      fleets.push({
-        fleetId,
-        flights,
-        flightsSampled: pack.n,
-        noxAboveTropopauseKg: u.noxAboveTropopauseKg,
-        fractionAboveTropopause: u.fractionAboveTropopause,
-        ozoneLossKg: u.ozoneLossKg,
-      });
-      await yieldToEventLoop();
-    }
-    const all = [...packs.values()].map((p) => p.pack);
-    const sampled = all.reduce((n, p) => n + p.n, 0);
-    const t =
-      fleets.length === 1
-        ? { ...fleets[0] }
-        : (() => {
-            const u = sampleFleet(all, options);
-            return {
-              fleetId: null,
-              flights: refs.length,
-              flightsSampled: sampled,
-              noxAboveTropopauseKg: u.noxAboveTropopauseKg,
-              fractionAboveTropopause: u.fractionAboveTropopause,
-              ozoneLossKg: u.ozoneLossKg,
-            };
-          })();
+    const list = [...packs.values()];
+    // One joint sampling: each fleet's band and the total's come from the same samples.
+    const { total, parts } = sampleFleetParts(
+      list.map((p) => p.pack),
+      options,
+    );
+    const row = (fleetId: number | null, flights: number, u: FleetUncertainty): FleetPercentileRow => ({
+      fleetId,
+      flights,
+      flightsSampled: u.flights,
+      noxAboveTropopauseKg: u.noxAboveTropopauseKg,
+      fractionAboveTropopause: u.fractionAboveTropopause,
+      ozoneLossKg: u.ozoneLossKg,
+    });
+    const counts = new Map<string, number>();
+    for (const r of refs) counts.set(fleetKeyOf(r.fleetId), (counts.get(fleetKeyOf(r.fleetId)) ?? 0) + 1);
+    const fleets = list.map((p, i) => row(p.fleetId, counts.get(fleetKeyOf(p.fleetId)) ?? 0, parts[i]));
+    const sampled = total.flights;
+    const correlation = total.correlation;
+    const t = row(null, refs.length, total);
     const result: FleetPercentiles = {
       samples: FLEET_SAMPLES,
       seed: FLEET_SEED,

@@ -430,6 +430,18 @@ export function sampleFleet(
   flights: readonly FlightComponents[] | FleetPack | readonly FleetPack[],
   options: { samples?: number; seed?: number } = {},
 ): FleetUncertainty {
+  return sampleFleetParts(flights, options).total;
+}
+
+/**
+ * As `sampleFleet`, and the percentiles of each pack's own total from the same joint samples (each
+ * pack's marginal is sampled exactly as if alone, up to the order of the draws): the fleets of a
+ * comparison and their sum in one pass.
+ */
+export function sampleFleetParts(
+  flights: readonly FlightComponents[] | FleetPack | readonly FleetPack[],
+  options: { samples?: number; seed?: number } = {},
+): { total: FleetUncertainty; parts: FleetUncertainty[] } {
   let packs: readonly FleetPack[];
   if (flights instanceof FleetPack) packs = [flights];
   else if (flights.length > 0 && flights[0] instanceof FleetPack) packs = flights as readonly FleetPack[];
@@ -459,6 +471,9 @@ export function sampleFleet(
   const sigDirect = EI_LN_SIGMA.direct;
   let flightCount = 0;
   for (const p of packs) flightCount += p.n;
+  const partAbove = packs.map(() => new Float64Array(samples));
+  const partTotal = packs.map(() => new Float64Array(samples));
+  const partO3 = packs.map(() => new Float64Array(samples));
   for (let i = 0; i < samples; i++) {
     drawShared(shared, groups, s);
     for (let g = 0; g < GROUPS; g++) groupShift[g] = SHARED_A * s.groupZ[g];
@@ -466,8 +481,12 @@ export function sampleFleet(
     let a = 0;
     let t = 0;
     let o = 0;
-    for (const pack of packs) {
+    for (let pi = 0; pi < packs.length; pi++) {
+      const pack = packs[pi];
       const nb = pack.bands.length;
+      let pa = 0;
+      let pt = 0;
+      let po = 0;
       for (let b = 0; b < nb; b++) {
         const c = pack.bands[b];
         const tf = Math.exp(
@@ -506,8 +525,8 @@ export function sampleFleet(
         const o3s = q0 + fx * (o3c[base + 1] - q0);
         const lb = lnEiB[f];
         const ei = Math.exp(lb + u * (lnEiD[f] - lb) + (direct[f] === 1 ? sigDirect : sigFuel) * z2);
-        a += noxA * ei;
-        t += noxTotal[f] * ei;
+        pa += noxA * ei;
+        pt += noxTotal[f] * ei;
         if (o3s > 0) {
           const b = band[f];
           const fa = bandFa[b];
@@ -516,15 +535,24 @@ export function sampleFleet(
           const jf =
             (1 - fa) * ((1 - fb) * jRatio[k] + fb * jRatio[k + 1]) +
             fa * ((1 - fb) * jRatio[k + 3] + fb * jRatio[k + 4]);
-          o += o3s * ei * bandScale[b] * jf;
+          po += o3s * ei * bandScale[b] * jf;
         }
       }
+      partAbove[pi][i] = pa;
+      partTotal[pi][i] = pt;
+      partO3[pi][i] = po;
+      a += pa;
+      t += pt;
+      o += po;
     }
     above[i] = a;
     total[i] = t;
     o3[i] = o;
   }
-  return finish(samples, seed, flightCount, above, total, o3);
+  return {
+    total: finish(samples, seed, flightCount, above, total, o3),
+    parts: packs.map((p, pi) => finish(samples, seed, p.n, partAbove[pi], partTotal[pi], partO3[pi])),
+  };
 }
 
 /**

@@ -111,6 +111,7 @@ export { screenAcrossMonths, sweepMonthsValidated, SAME_EVERY_MONTH_NOTE, type M
 export {
   flightComponents,
   sampleFleet,
+  sampleFleetParts,
   sampleFleetExact,
   encodeFlightComponents,
   decodeFlightComponents,
