@@ -118,9 +118,9 @@ describe('fleet percentiles from components stored by the import worker', () => 
       return { input, result: screenValidated(input) };
     });
     const exact = sampleFleetExact(screenings, { samples: FLEET_SAMPLES, seed: FLEET_SEED });
-    // The Monte Carlo error of a 400-sample percentile, from three other seeds of the exact sums: the
+    // The Monte Carlo error of a 400-sample percentile, from two other seeds of the exact sums: the
     // stored components must agree with the exact re-screening (same draws) within it, and within 3 %.
-    const others = [2, 3, 4].map((k) => sampleFleetExact(screenings, { samples: FLEET_SAMPLES, seed: FLEET_SEED + k }));
+    const others = [2, 3].map((k) => sampleFleetExact(screenings, { samples: FLEET_SAMPLES, seed: FLEET_SEED + k }));
     for (const key of ['noxAboveTropopauseKg', 'ozoneLossKg'] as const) {
       for (const q of ['p5', 'p50', 'p95'] as const) {
         const got = p!.fleets[0][key][q];
@@ -130,9 +130,9 @@ describe('fleet percentiles from components stored by the import worker', () => 
         expect(rel, `${key} ${q} against the seed-to-seed error ${mc}`).toBeLessThan(Math.max(mc, 0.005));
       }
     }
-  });
+  }, 180_000);
 
-  it('orders the percentiles, keeps the central sum inside the band, and gives the same figures for the seed', async () => {
+  it('orders the percentiles, samples the total rather than summing bands, and gives the same figures for the seed', async () => {
     const scope = { workspaceId: ws.id };
     const first = await fleetPercentiles(scope, PERIOD);
     expect(first!.fleets.map((f) => f.fleetId).sort()).toEqual([longHaul, study].sort());
