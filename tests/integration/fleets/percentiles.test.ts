@@ -6,10 +6,12 @@ import { db } from '@/db/client';
 import { saveScreenedChunk, type ImportDto } from '@/db/imports';
 import { getReportCsv } from '@/db/reports';
 import { runImportsToCompletion } from '@/lib/imports/worker';
+import { rescreenImport } from '@/lib/imports/rescreen';
 import { compareFleets } from '@/lib/fleets/compare';
 import { fleetPercentiles, FLEET_SAMPLES, FLEET_SEED } from '@/lib/fleets/percentiles';
 import { buildFleetReport } from '@/lib/reports/build';
 import {
+  ENGINE_VERSION,
   decodeFlightComponents,
   encodeFlightComponents,
   flightComponents,
@@ -165,6 +167,24 @@ describe('fleet percentiles from components stored by the import worker', () => 
       ((await db()('flight_components').where({ workspace_id: ws.id }).count({ n: '*' }).first()) as { n: number }).n,
     );
     expect(n).toBe(before!.total.flightsSampled);
+  });
+
+  it("a re-screen of an import with a newer engine rewrites its flights' components", async () => {
+    const imp = (await db()('imports').where({ workspace_id: ws.id }).first('id')) as { id: number };
+    // As if screened by an older engine: figures and components both carry its version.
+    await db()('flights').where({ import_id: imp.id, status: 'screened' }).update({ engine_version: '2000.1.1' });
+    await db()('flight_components').where({ workspace_id: ws.id }).update({ engine_version: '2000.1.1' });
+    await rescreenImport({ workspaceId: ws.id }, Number(imp.id), { userId: null, label: 'test' });
+    await runImportsToCompletion();
+    const versions = (await db()('flight_components')
+      .where({ workspace_id: ws.id })
+      .groupBy('engine_version')
+      .select('engine_version')
+      .count({ n: '*' })) as { engine_version: string; n: number }[];
+    expect(versions.map((v) => v.engine_version)).toEqual([ENGINE_VERSION]);
+    const p = await fleetPercentiles({ workspaceId: ws.id }, PERIOD);
+    expect(p!.flightsLeftOut).toBe(0);
+    expect(p!.engineVersion).toBe(ENGINE_VERSION);
   });
 
   it('writes components in the transaction of the figures: a chunk that fails leaves none', async () => {
