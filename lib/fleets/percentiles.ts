@@ -19,14 +19,14 @@ import {
   type FleetUncertainty,
   type ScreeningInput,
 } from '@/lib/screening';
+import { FLEET_PERCENTILES_NOTE } from './percentiles-note';
 import type { FleetPercentiles, FleetPercentileRow } from './types';
 
 /** Samples and seed of every fleet percentile in the product: fixed, so a figure can be reproduced. */
 export const FLEET_SAMPLES = 400;
 export const FLEET_SEED = 1;
 
-export const FLEET_PERCENTILES_NOTE =
-  "5-95 % of each fleet's total from 400 Monte Carlo samples (seed 1) of the uncertain inputs, every flight of a sample drawn together: the inputs every flight shares (which fuel-flow method's EI is nearer the truth, the residence time above the tropopause, the J values, the NOx/NOy share) take one value per sample for the whole fleet; the tropopause error is half shared by the flights of the same 10-degree latitude band and month and half each flight's own; the scatter of each flight's EI about the methods is its own. So the band is narrower, relative to the total, than adding up the flights' own bands would suggest, but not much narrower, since the shared inputs do not average out. It leaves out the structure of the model itself (one plume, no mixing, the residence-time picture) and the difference between a gross catalytic loss and the net change of the ozone column: the ozone figure stays a gross loss.";
+export { FLEET_PERCENTILES_NOTE };
 
 /**
  * Components are built lazily for flights screened before they were kept (or by an older engine):
