@@ -5,9 +5,10 @@ import { applyFilters, flightsWithFleet, type FlightFilters } from './fleets';
 
 /**
  * The per-flight components of the fleet uncertainty sampling (bytes made by the engine's
- * encodeFlightComponents) and the stored fleet percentiles. Components are written by the import
- * worker in the transaction that writes the flight's figures; `engine_version` is the engine that
- * made them, so components of an older screening are known stale.
+ * encodeFlightComponents) and the stored fleet percentiles. The import worker builds components for
+ * screened flights once its imports and re-screens are done (lib/imports/worker.ts), chunk by chunk;
+ * `engine_version` is the engine of the figures they were built for, so a re-screened flight's
+ * components are known stale until rebuilt.
  */
 
 type Row = Record<string, unknown>;
@@ -32,12 +33,54 @@ export async function saveFlightComponents(trx: Knex.Transaction, rows: Componen
   }
 }
 
-/** Components of flights inside the caller's transaction are removed (a flight re-screened without them). */
-export async function deleteFlightComponents(trx: Knex.Transaction, flightIds: number[]): Promise<void> {
-  for (let i = 0; i < flightIds.length; i += 500)
-    await trx('flight_components')
-      .whereIn('flight_id', flightIds.slice(i, i + 500))
-      .delete();
+/** A screened flight whose components are missing or from another engine version than its figures. */
+export interface FlightNeedingComponents {
+  id: number;
+  workspaceId: number;
+  engineVersion: string;
+  inputJson: string;
+}
+
+/**
+ * Screened flights (any workspace: the worker's side) after `afterId` whose components are missing or
+ * stale, in id order. A flight whose components could not be built has an empty row and is not listed.
+ */
+export async function listFlightsNeedingComponents(afterId: number, limit: number): Promise<FlightNeedingComponents[]> {
+  const rows = (await db()('flights as fl')
+    .leftJoin('flight_components as fc', 'fc.flight_id', 'fl.id')
+    .where('fl.status', 'screened')
+    .where('fl.id', '>', afterId)
+    .where((w) => w.whereNull('fc.flight_id').orWhereRaw('fc.engine_version <> fl.engine_version'))
+    .orderBy('fl.id')
+    .limit(limit)
+    .select('fl.id', 'fl.workspace_id', 'fl.engine_version', 'fl.input_json')) as Row[];
+  return rows.map((r) => ({
+    id: Number(r.id),
+    workspaceId: Number(r.workspace_id),
+    engineVersion: String(r.engine_version),
+    inputJson: String(r.input_json),
+  }));
+}
+
+/**
+ * Stores built components for flights whose figures are still from the components' engine version
+ * (a flight re-screened meanwhile waits for its own), in one transaction. `data` empty: the engine
+ * could not build them (kept so the flight is not tried again; the sampling counts it left out).
+ */
+export async function saveBuiltComponents(rows: ComponentsRow[]): Promise<number> {
+  if (!rows.length) return 0;
+  return writeTx(async (trx) => {
+    const current = (await trx('flights')
+      .whereIn(
+        'id',
+        rows.map((r) => r.flightId),
+      )
+      .select('id', 'engine_version')) as Row[];
+    const versionOf = new Map(current.map((r) => [Number(r.id), String(r.engine_version)]));
+    const keep = rows.filter((r) => versionOf.get(r.flightId) === r.engineVersion);
+    await saveFlightComponents(trx, keep);
+    return keep.length;
+  });
 }
 
 /** A flight of a fleet selection: its resolved fleet, engine version and whether its components are current. */
@@ -81,11 +124,6 @@ export async function listFlightInputs(
   return out;
 }
 
-/** Components built outside an import (lazily, for flights screened before they were kept). */
-export async function storeFlightComponents(rows: ComponentsRow[]): Promise<void> {
-  if (rows.length) await writeTx((trx) => saveFlightComponents(trx, rows));
-}
-
 /**
  * Calls `each(ref, bytes)` for the components of the given flights (from listFleetFlightRefs, in id
  * order) that match their flight's engine version. Reads by primary-key ranges of `pageSize` flights,
@@ -107,7 +145,8 @@ export async function forEachFlightComponents(
       .select('flight_id', 'engine_version', 'data')) as Row[];
     for (const r of rows) {
       const ref = byId.get(Number(r.flight_id));
-      if (ref && ref.engineVersion === r.engine_version) each(ref, r.data as Uint8Array);
+      const data = r.data as Uint8Array;
+      if (ref && ref.engineVersion === r.engine_version && data.byteLength > 0) each(ref, data);
     }
   }
 }

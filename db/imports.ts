@@ -2,7 +2,6 @@ import 'server-only';
 import type { Knex } from 'knex';
 import { db, insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
-import { deleteFlightComponents, saveFlightComponents, type ComponentsRow } from './flight-components';
 import { assertBillingAllows } from '@/lib/billing/gate';
 import { AppError, notFound } from '@/lib/errors';
 import type { ScreeningTotals } from '@/lib/screening';
@@ -435,29 +434,8 @@ export function figuresOf(r: ScreeningTotals): FlightFigures {
 }
 
 export type ScreenedOutcome = { id: number; workspaceId: number; line: number | null } & (
-  | {
-      figures: FlightFigures;
-      /** The flight's fleet-sampling components (engine bytes), written with its figures; null when none. */
-      components?: Uint8Array | null;
-    }
-  | { error: string }
+  { figures: FlightFigures } | { error: string }
 );
-
-type ScreenedOk = Extract<ScreenedOutcome, { figures: FlightFigures }>;
-
-function componentRows(outcomes: ScreenedOk[], ids: Set<number>): ComponentsRow[] {
-  const rows: ComponentsRow[] = [];
-  for (const o of outcomes) {
-    if (!ids.has(o.id) || !o.components) continue;
-    rows.push({
-      flightId: o.id,
-      workspaceId: o.workspaceId,
-      engineVersion: o.figures.engineVersion,
-      data: o.components,
-    });
-  }
-  return rows;
-}
 
 /** Imports waiting for the worker or left mid-way (a restart resumes them), oldest first. */
 export async function listActiveImports(): Promise<{ id: number; workspaceId: number }[]> {
@@ -509,12 +487,10 @@ export async function saveScreenedChunk(importId: number, outcomes: ScreenedOutc
   return writeTx(async (trx) => {
     const now = nowIso();
     let saved = 0;
-    const screened = outcomes.filter((o): o is ScreenedOk => 'figures' in o);
+    const screened = outcomes.filter((o): o is ScreenedOutcome & { figures: FlightFigures } => 'figures' in o);
     const workspaceOf = new Map(screened.map((o) => [o.id, o.workspaceId]));
     for (let i = 0; i < screened.length; i += SCREENED_BATCH) {
-      const batch = screened.slice(i, i + SCREENED_BATCH);
-      const ids = await markScreened(trx, batch, now);
-      await saveFlightComponents(trx, componentRows(batch, new Set(ids)));
+      const ids = await markScreened(trx, screened.slice(i, i + SCREENED_BATCH), now);
       await recordImportedFlightUnits(
         trx,
         ids.map((id) => ({ workspaceId: workspaceOf.get(id) ?? 0, sourceId: id })),
@@ -800,10 +776,6 @@ export async function saveRescreenChunk(
           screened_at: now,
         });
       done += n;
-      if (n > 0) {
-        if (o.components) await saveFlightComponents(trx, componentRows([o], new Set([o.id])));
-        else await deleteFlightComponents(trx, [o.id]);
-      }
     }
     const last = outcomes.reduce((m, o) => Math.max(m, o.id), job.lastFlightId);
     await trx('imports')

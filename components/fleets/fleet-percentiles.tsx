@@ -1,7 +1,7 @@
 import { ScrollRegion } from '@/components/ui/scroll-region';
 import { Card } from '@/components/ui/card';
 import type { UnitSystem } from '@/db/users';
-import type { FleetPercentiles as Percentiles, PercentileBand } from '@/lib/fleets/types';
+import type { FleetPercentiles as Percentiles, FleetPercentilesPending, PercentileBand } from '@/lib/fleets/types';
 import { formatMass, formatMassRange, formatNumber } from '@/lib/format';
 
 /**
@@ -13,10 +13,20 @@ export function FleetPercentiles({
   names,
   units,
 }: {
-  percentiles: Percentiles;
+  percentiles: Percentiles | FleetPercentilesPending;
   names: { fleetId: number | null; fleetName: string }[];
   units: UnitSystem;
 }) {
+  if ('pending' in percentiles)
+    return (
+      <Card title="How sure: 5–95 % of each fleet's totals">
+        <p className="text-sm text-ink-soft" data-testid="fleet-percentiles-pending">
+          The band is being prepared: the background worker is still building the sampling data of{' '}
+          {formatNumber(percentiles.flightsPending)} of these {formatNumber(percentiles.flights)} flights. Reload in a
+          minute or two.
+        </p>
+      </Card>
+    );
   const nameOf = (id: number | null) => names.find((n) => n.fleetId === id)?.fleetName ?? 'No fleet';
   const band = (b: PercentileBand) => (
     <>

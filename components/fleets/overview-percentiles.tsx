@@ -20,6 +20,13 @@ export async function OverviewPercentiles({
 }) {
   const p = await fleetPercentiles({ workspaceId }, { from, to });
   if (!p) return null;
+  if ('pending' in p)
+    return (
+      <p className="mt-3 text-sm text-ink-soft" data-testid="overview-percentiles">
+        The 5–95 % band of this period&apos;s imported flights is being prepared (the background worker is building
+        their sampling data).
+      </p>
+    );
   const t = p.total;
   return (
     <p className="mt-3 text-sm text-ink-soft" data-testid="overview-percentiles">

@@ -7,20 +7,14 @@ import {
   listFleetFlightRefs,
   listFlightInputs,
   putFleetPercentiles,
-  storeFlightComponents,
-  type ComponentsRow,
+  saveBuiltComponents,
+  type FleetFlightRef,
 } from '@/db/flight-components';
+import { buildComponents, COMPONENTS_CHUNK } from '@/lib/imports/components';
 import type { FlightFilters } from '@/db/fleets';
-import {
-  ENGINE_VERSION,
-  FleetPack,
-  sampleFleetParts,
-  screenWithComponents,
-  type FleetUncertainty,
-  type ScreeningInput,
-} from '@/lib/screening';
+import { ENGINE_VERSION, FleetPack, sampleFleetParts, type FleetUncertainty } from '@/lib/screening';
 import { FLEET_PERCENTILES_NOTE } from './percentiles-note';
-import type { FleetPercentiles, FleetPercentileRow } from './types';
+import type { FleetPercentiles, FleetPercentileRow, FleetPercentilesPending } from './types';
 
 /** Samples and seed of every fleet percentile in the product: fixed, so a figure can be reproduced. */
 export const FLEET_SAMPLES = 400;
@@ -29,43 +23,38 @@ export const FLEET_SEED = 1;
 export { FLEET_PERCENTILES_NOTE };
 
 /**
- * Components are built lazily for flights screened before they were kept (or by an older engine):
- * in chunks of this many flights, each chunk stored in its own transaction, so the work is done once
- * and an abandoned request keeps what it built.
+ * Flights lacking components (screened before they were kept, or not yet reached by the worker's
+ * backlog) are built on the request when there are at most this many, in chunks stored in their own
+ * transactions; with more, the answer is `{ pending }` and the worker's backlog builds them.
  */
-const LAZY_CHUNK = 500;
+export const LAZY_LIMIT = 2000;
 
 const fleetKeyOf = (id: number | null) => (id === null ? 'none' : String(id));
 
-/** Builds and stores components for flights that have none current; returns how many could not be built. */
-async function buildMissing(scope: { workspaceId: number }, ids: number[]): Promise<number> {
-  let failed = 0;
-  for (let i = 0; i < ids.length; i += LAZY_CHUNK) {
-    const inputs = await listFlightInputs(scope, ids.slice(i, i + LAZY_CHUNK));
-    const rows: ComponentsRow[] = [];
-    for (const f of inputs) {
-      try {
-        const { totals, components } = screenWithComponents(JSON.parse(f.inputJson) as ScreeningInput);
-        // Only components of the engine that made the flight's figures are used (see forEachFlightComponents).
-        if (components && totals.engineVersion === ENGINE_VERSION)
-          rows.push({
-            flightId: f.id,
-            workspaceId: scope.workspaceId,
-            engineVersion: totals.engineVersion,
-            data: components,
-          });
-        else failed += 1;
-      } catch {
-        failed += 1;
-      }
-    }
-    await storeFlightComponents(rows);
+async function buildMissing(stale: FleetFlightRef[], scope: { workspaceId: number }): Promise<void> {
+  for (let i = 0; i < stale.length; i += COMPONENTS_CHUNK) {
+    const chunk = stale.slice(i, i + COMPONENTS_CHUNK);
+    const inputs = new Map(
+      (
+        await listFlightInputs(
+          scope,
+          chunk.map((r) => r.id),
+        )
+      ).map((f) => [f.id, f.inputJson]),
+    );
+    const flights = chunk.map((r) => ({
+      id: r.id,
+      workspaceId: scope.workspaceId,
+      engineVersion: r.engineVersion,
+      inputJson: inputs.get(r.id) ?? '{}',
+    }));
+    // On the event loop: the screening threads serve the import worker.
+    await saveBuiltComponents(await buildComponents(flights, { threads: false }));
     await yieldToEventLoop();
   }
-  return failed;
 }
 
-const inFlight = new Map<string, Promise<FleetPercentiles>>();
+const inFlight = new Map<string, Promise<FleetPercentiles | FleetPercentilesPending>>();
 
 /**
  * 5th, 50th and 95th percentiles of each fleet's total NOx above the tropopause, share above and
@@ -79,7 +68,7 @@ const inFlight = new Map<string, Promise<FleetPercentiles>>();
 export async function fleetPercentiles(
   scope: { workspaceId: number },
   filters: FlightFilters,
-): Promise<FleetPercentiles | null> {
+): Promise<FleetPercentiles | FleetPercentilesPending | null> {
   const refs = await listFleetFlightRefs(scope, filters);
   if (refs.length === 0) return null;
   const hash = createHash('sha256').update(`${ENGINE_VERSION}|${FLEET_SAMPLES}|${FLEET_SEED}|`);
@@ -98,8 +87,10 @@ export async function fleetPercentiles(
   const work = (async () => {
     const stored = await getFleetPercentiles(scope, key);
     if (stored) return JSON.parse(stored) as FleetPercentiles;
-    const stale = refs.filter((r) => !r.current && r.engineVersion === ENGINE_VERSION).map((r) => r.id);
-    if (stale.length) await buildMissing(scope, stale);
+    const stale = refs.filter((r) => !r.current);
+    if (stale.length > LAZY_LIMIT)
+      return { pending: true as const, flightsPending: stale.length, flights: refs.length };
+    if (stale.length) await buildMissing(stale, scope);
     const packs = new Map<string, { fleetId: number | null; pack: FleetPack }>();
     for (const r of refs) {
       const k = fleetKeyOf(r.fleetId);

@@ -68,8 +68,11 @@ export interface FleetComparison {
   engineVersions: { engineVersion: string; flights: number }[];
   /** True when the figures come from more than one engine version (a caution says so). */
   mixedEngineVersions: boolean;
-  /** 5-95 % of each fleet's totals and of all together from correlated sampling; null without flights. */
-  percentiles: FleetPercentiles | null;
+  /**
+   * 5-95 % of each fleet's totals and of all together from correlated sampling; `{ pending }` while
+   * the worker still builds the flights' components; null without flights.
+   */
+  percentiles: FleetPercentiles | FleetPercentilesPending | null;
 }
 
 /** 5th, 50th and 95th percentile of a sampled total. */
@@ -103,4 +106,11 @@ export interface FleetPercentiles {
   correlation: string;
   /** What the percentiles mean and what they leave out, in plain words. */
   note: string;
+}
+
+/** Fleet percentiles not ready: the worker is still building components for `flightsPending` flights. */
+export interface FleetPercentilesPending {
+  pending: true;
+  flightsPending: number;
+  flights: number;
 }

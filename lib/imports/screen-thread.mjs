@@ -11,14 +11,28 @@ function reasonOf(err) {
   return 'the screening engine could not screen this flight';
 }
 
-/** Screens `{ id, inputJson }[]`; each comes back as `{ id, totals, components }` or `{ id, error }`. */
+/** Screens `{ id, inputJson }[]`; each comes back as `{ id, totals }` or `{ id, error }`. */
 export default function screenBatch(items) {
   return items.map(({ id, inputJson }) => {
     try {
-      const { totals, components } = engine.screenWithComponents(JSON.parse(inputJson));
-      return { id, totals, components };
+      return { id, totals: engine.screenTotals(JSON.parse(inputJson)) };
     } catch (err) {
       return { id, error: reasonOf(err) };
+    }
+  });
+}
+
+/**
+ * Builds fleet-sampling components for `{ id, inputJson }[]` (piscina task name `componentsBatch`);
+ * each comes back as `{ id, engineVersion, components }`, components null when they cannot be built.
+ */
+export function componentsBatch(items) {
+  return items.map(({ id, inputJson }) => {
+    try {
+      const { totals, components } = engine.screenWithComponents(JSON.parse(inputJson));
+      return { id, engineVersion: totals.engineVersion, components };
+    } catch {
+      return { id, engineVersion: engine.ENGINE_VERSION, components: null };
     }
   });
 }

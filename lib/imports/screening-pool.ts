@@ -9,11 +9,10 @@ import type { ScreeningTotals } from '@/lib/screening';
 /**
  * Imported flights are screened in worker threads (a piscina pool), so a 100 000-row import leaves
  * the process's event loop to the requests it serves; the loop only parses rows in and writes
- * figures (and each flight's fleet-sampling components) out. SCREENING_THREADS sets the pool size (0 screens on the event loop, as before).
+ * figures out. SCREENING_THREADS sets the pool size (0 screens on the event loop, as before).
  */
 
-type ThreadResult =
-  { id: number; totals: ScreeningTotals; components: Uint8Array | null } | { id: number; error: string };
+type ThreadResult = { id: number; totals: ScreeningTotals } | { id: number; error: string };
 
 const g = globalThis as unknown as {
   tropopassScreeningPool?: Piscina<{ id: number; inputJson: string }[], ThreadResult[]>;
@@ -57,10 +56,33 @@ export async function screenInThreads(pending: PendingFlight[]): Promise<Screene
     const r = byId.get(f.id);
     const base = { id: f.id, workspaceId: f.workspaceId, line: f.line };
     if (!r) return { ...base, error: 'the screening thread returned no result for this flight' };
-    return 'totals' in r
-      ? { ...base, figures: figuresOf(r.totals), components: r.components }
-      : { ...base, error: r.error };
+    return 'totals' in r ? { ...base, figures: figuresOf(r.totals) } : { ...base, error: r.error };
   });
+}
+
+/** Components built for one flight: bytes, or null when the engine could not build them. */
+export interface BuiltComponents {
+  id: number;
+  engineVersion: string;
+  components: Uint8Array | null;
+}
+
+/**
+ * Builds fleet-sampling components for flights across the pool's threads (screen-thread.mjs
+ * componentsBatch); null when screening threads are off (the caller builds on the event loop).
+ */
+export async function componentsInThreads(
+  items: { id: number; inputJson: string }[],
+): Promise<BuiltComponents[] | null> {
+  const threads = screeningThreads();
+  if (threads === 0) return null;
+  if (items.length === 0) return [];
+  const p = pool(threads);
+  const size = Math.ceil(items.length / threads);
+  const runs: Promise<BuiltComponents[]>[] = [];
+  for (let i = 0; i < items.length; i += size)
+    runs.push(p.run(items.slice(i, i + size), { name: 'componentsBatch' }) as unknown as Promise<BuiltComponents[]>);
+  return (await Promise.all(runs)).flat();
 }
 
 /** Ends the pool's threads (tests, a worker process shutting down). */

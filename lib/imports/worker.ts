@@ -1,6 +1,6 @@
 import 'server-only';
 import { setImmediate as yieldToEventLoop } from 'node:timers/promises';
-import { screenWithComponents, ScreeningInputError, type ScreeningInput } from '@/lib/screening';
+import { screenTotals, ScreeningInputError, type ScreeningInput } from '@/lib/screening';
 import {
   claimImport,
   failImport,
@@ -19,6 +19,7 @@ import {
 import { log } from '@/lib/log';
 import { leaseImport } from './import-lock';
 import { screenInThreads } from './screening-pool';
+import { buildComponentBacklog } from './components';
 import { checkBudgetAlerts } from '@/lib/billing/budget';
 
 /**
@@ -28,6 +29,9 @@ import { checkBudgetAlerts } from '@/lib/billing/budget';
  * see screening-pool.ts), and writes each chunk (figures, status, one usage unit per screened flight) in
  * one transaction. A chunk only touches flights still pending, so a chunk replayed after a crash
  * can neither lose a flight nor bill one twice.
+ *
+ * When no import or re-screen is left, it builds the fleet-sampling components that screened flights
+ * lack (components.ts), giving way to any import that arrives.
  *
  * Failure policy: a flight whose screening throws is marked failed with its reason and listed as a
  * problem of its import; the import still completes with the others (and shows how many failed). An
@@ -63,6 +67,8 @@ interface WorkerState {
   /** Serialises every pass in this process (the background loop and explicit runs). */
   chain: Promise<unknown>;
   errors: Map<number, number>;
+  /** False until a backlog pass found no flight lacking components since the last import or re-screen. */
+  componentsClean: boolean;
 }
 
 const g = globalThis as unknown as { tropopassImportWorker?: WorkerState };
@@ -74,6 +80,7 @@ function state(): WorkerState {
     timer: null,
     chain: Promise.resolve(),
     errors: new Map(),
+    componentsClean: false,
   };
   return g.tropopassImportWorker;
 }
@@ -89,10 +96,8 @@ function screenChunk(pending: Awaited<ReturnType<typeof listPendingFlights>>): S
   return pending.map((p) => {
     try {
       const input = JSON.parse(p.inputJson) as ScreeningInput;
-      // Only the summary figures and the fleet-sampling components leave this function: the full
-      // result (its segments) dies young.
-      const { totals, components } = screenWithComponents(input);
-      return { id: p.id, workspaceId: p.workspaceId, line: p.line, figures: figuresOf(totals), components };
+      // Only the summary figures leave this function: the full result (its segments) dies young.
+      return { id: p.id, workspaceId: p.workspaceId, line: p.line, figures: figuresOf(screenTotals(input)) };
     } catch (err) {
       return { id: p.id, workspaceId: p.workspaceId, line: p.line, error: reasonOf(err) };
     }
@@ -154,7 +159,7 @@ async function processRescreen(job: RescreenJob, opts: RunOptions): Promise<numb
       );
       return flights;
     }
-    const { done } = await saveRescreenChunk(cursor, (await screenInThreads(batch)) ?? screenChunk(batch));
+    const { done } = await saveRescreenChunk(cursor, screenChunk(batch));
     flights += done;
     cursor = { ...cursor, lastFlightId: batch[batch.length - 1].id };
     await opts.onChunk?.({ importId: job.importId, saved: done });
@@ -168,7 +173,19 @@ async function pass(opts: RunOptions): Promise<RunSummary> {
     const active = await listActiveImports();
     if (active.length === 0 && !state().stopping) {
       const rescreens = await listActiveRescreens();
-      if (rescreens.length === 0) return summary;
+      if (rescreens.length === 0) {
+        if (state().componentsClean) return summary;
+        // Idle: build the fleet-sampling components the screened flights lack, giving way to imports.
+        const backlog = await buildComponentBacklog(
+          async () => state().stopping || (await listActiveImports()).length > 0,
+        );
+        if (backlog.built > 0)
+          log.info({ event: 'import.components_built', flights: backlog.built }, 'fleet-sampling components built');
+        if (!backlog.interrupted) state().componentsClean = true;
+        if (!backlog.interrupted || state().stopping) return summary;
+        continue;
+      }
+      state().componentsClean = false;
       for (const job of rescreens) {
         summary.flights += await processRescreen(job, opts);
         summary.imports += 1;
@@ -188,6 +205,7 @@ async function pass(opts: RunOptions): Promise<RunSummary> {
         summary.flights += flights;
         summary.imports += 1;
         progressed = true;
+        state().componentsClean = false;
       } catch (err) {
         const count = (state().errors.get(imp.id) ?? 0) + 1;
         state().errors.set(imp.id, count);

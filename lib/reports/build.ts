@@ -114,7 +114,7 @@ export async function buildFleetReport(
     context: perFleet.context,
     notes: perFleet.notes,
     cautions: perFleet.cautions,
-    percentiles: perFleet.percentiles,
+    percentiles: perFleet.percentiles && 'pending' in perFleet.percentiles ? null : perFleet.percentiles,
     fuelWarnings,
   };
   const [pdf, csv] = [await renderReportPdf(summary, reportMethodText()), reportCsv(summary)];

@@ -147,7 +147,7 @@ try {
     `fleet percentiles from the database: ${FLIGHTS} stored flights in 3 fleets, 400 samples, each fleet and the total in one joint sampling: ${coldS.toFixed(2)} s wall / ${coldCpu.toFixed(2)} s CPU cold (flight set, component reads and decoding, sampling, storing the result), ${warmS.toFixed(2)} s wall / ${warmCpu.toFixed(2)} s CPU with the result stored (target under 10 s; load average ${os.loadavg()[0].toFixed(1)})`,
   );
   console.log(
-    `  storing ${FLIGHTS} flights with components took ${storeS.toFixed(1)} s; total ozone figure p50 ${((cold?.total.ozoneLossKg.p50 ?? 0) / 1000).toFixed(0)} t`,
+    `  storing ${FLIGHTS} flights with components took ${storeS.toFixed(1)} s; total ozone figure p50 ${((cold && 'total' in cold ? cold.total.ozoneLossKg.p50 : 0) / 1000).toFixed(0)} t`,
   );
 } finally {
   await closeDb();

@@ -4,7 +4,14 @@ import { db } from '@/db/client';
 import { seed as seedAccounts } from '@/seeds/01_demo_accounts';
 import { seed as seedEngines } from '@/seeds/02_demo_engines';
 import { seed as seedFlights } from '@/seeds/03_demo_flights';
+import type { FleetPercentiles, FleetPercentilesPending } from '@/lib/fleets/types';
 import { fleetPercentiles } from '@/lib/fleets/percentiles';
+
+/** The percentiles, failing the test when they are missing or still pending. */
+function ready(p: FleetPercentiles | FleetPercentilesPending | null): FleetPercentiles {
+  if (!p || 'pending' in p) throw new Error('fleet percentiles not ready');
+  return p;
+}
 
 useTestDatabase({ DEMO_TODAY: '2026-11-20' });
 
@@ -28,8 +35,8 @@ describe('demo flights', () => {
     expect(screened).toBeGreaterThan(0);
     expect(stored).toBe(screened);
     const ws = (await db()('workspaces').where({ slug: 'skarn-polar' }).first('id')) as { id: number };
-    const p = await fleetPercentiles({ workspaceId: Number(ws.id) }, { from: '2026-09-01', to: '2026-11-30' });
+    const p = ready(await fleetPercentiles({ workspaceId: Number(ws.id) }, { from: '2026-09-01', to: '2026-11-30' }));
     expect(p?.flightsLeftOut).toBe(0);
-    expect(p!.total.noxAboveTropopauseKg.p5).toBeLessThan(p!.total.noxAboveTropopauseKg.p95);
+    expect(p.total.noxAboveTropopauseKg.p5).toBeLessThan(p.total.noxAboveTropopauseKg.p95);
   }, 300_000);
 });

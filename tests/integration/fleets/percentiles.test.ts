@@ -3,11 +3,14 @@ import Papa from 'papaparse';
 import { call, makeWorkspace, sessionCookie, useTestDatabase } from '../../support/test-db';
 import * as importsRoute from '@/app/api/v1/workspaces/[slug]/imports/route';
 import { db } from '@/db/client';
-import { saveScreenedChunk, type ImportDto } from '@/db/imports';
+import type { ImportDto } from '@/db/imports';
+import { saveBuiltComponents } from '@/db/flight-components';
+import { buildComponents } from '@/lib/imports/components';
 import { getReportCsv } from '@/db/reports';
 import { runImportsToCompletion } from '@/lib/imports/worker';
 import { rescreenImport } from '@/lib/imports/rescreen';
 import { compareFleets } from '@/lib/fleets/compare';
+import type { FleetPercentiles, FleetPercentilesPending } from '@/lib/fleets/types';
 import { fleetPercentiles, FLEET_SAMPLES, FLEET_SEED } from '@/lib/fleets/percentiles';
 import { buildFleetReport } from '@/lib/reports/build';
 import {
@@ -20,6 +23,12 @@ import {
   type ScreeningInput,
 } from '@/lib/screening';
 import { addScheduleLibrary, csv, uploadRequest } from '../imports/support';
+
+/** The percentiles, failing the test when they are missing or still pending. */
+function ready(p: FleetPercentiles | FleetPercentilesPending | null): FleetPercentiles {
+  if (!p || 'pending' in p) throw new Error('fleet percentiles not ready');
+  return p;
+}
 
 useTestDatabase();
 
@@ -110,11 +119,11 @@ describe('fleet percentiles from components stored by the import worker', () => 
 
   it('agrees with a brute-force re-screening of every flight of the fleet (same seed, same draws)', async () => {
     const flights = await screenedFlights(longHaul);
-    const p = await fleetPercentiles({ workspaceId: ws.id }, { ...PERIOD, fleetIds: [longHaul] });
+    const p = ready(await fleetPercentiles({ workspaceId: ws.id }, { ...PERIOD, fleetIds: [longHaul] }));
     expect(p).not.toBeNull();
-    expect(p!.fleets).toHaveLength(1);
-    expect(p!.fleets[0].flightsSampled).toBe(flights.length);
-    expect(p!.flightsLeftOut).toBe(0);
+    expect(p.fleets).toHaveLength(1);
+    expect(p.fleets[0].flightsSampled).toBe(flights.length);
+    expect(p.flightsLeftOut).toBe(0);
     const screenings = flights.map((f) => {
       const input = JSON.parse(f.input_json) as ScreeningInput;
       return { input, result: screenValidated(input) };
@@ -125,7 +134,7 @@ describe('fleet percentiles from components stored by the import worker', () => 
     const others = [2, 3].map((k) => sampleFleetExact(screenings, { samples: FLEET_SAMPLES, seed: FLEET_SEED + k }));
     for (const key of ['noxAboveTropopauseKg', 'ozoneLossKg'] as const) {
       for (const q of ['p5', 'p50', 'p95'] as const) {
-        const got = p!.fleets[0][key][q];
+        const got = p.fleets[0][key][q];
         const rel = Math.abs(got - exact[key][q]) / exact[key][q];
         const mc = Math.max(...others.map((o) => Math.abs(o[key][q] - exact[key][q]) / exact[key][q]));
         expect(rel, `${key} ${q}`).toBeLessThan(0.03);
@@ -136,9 +145,9 @@ describe('fleet percentiles from components stored by the import worker', () => 
 
   it('orders the percentiles, samples the total rather than summing bands, and gives the same figures for the seed', async () => {
     const scope = { workspaceId: ws.id };
-    const first = await fleetPercentiles(scope, PERIOD);
-    expect(first!.fleets.map((f) => f.fleetId).sort()).toEqual([longHaul, study].sort());
-    for (const row of [...first!.fleets, first!.total]) {
+    const first = ready(await fleetPercentiles(scope, PERIOD));
+    expect(first.fleets.map((f) => f.fleetId).sort()).toEqual([longHaul, study].sort());
+    for (const row of [...first.fleets, first.total]) {
       for (const key of ['noxAboveTropopauseKg', 'ozoneLossKg', 'fractionAboveTropopause'] as const) {
         expect(row[key].p5).toBeLessThanOrEqual(row[key].p50);
         expect(row[key].p50).toBeLessThanOrEqual(row[key].p95);
@@ -147,26 +156,26 @@ describe('fleet percentiles from components stored by the import worker', () => 
     // Stored: the second ask reads the stored result; a fresh sampling gives it again, bit for bit.
     expect(await db()('fleet_percentiles').where({ workspace_id: ws.id }).first()).toBeDefined();
     await db()('fleet_percentiles').where({ workspace_id: ws.id }).delete();
-    const again = await fleetPercentiles(scope, PERIOD);
+    const again = ready(await fleetPercentiles(scope, PERIOD));
     expect(again).toStrictEqual(first);
     // The total is sampled, not summed: its band is narrower than the sum of the fleets' bands.
-    const sumP95 = first!.fleets.reduce((t, f) => t + f.noxAboveTropopauseKg.p95, 0);
-    const sumP5 = first!.fleets.reduce((t, f) => t + f.noxAboveTropopauseKg.p5, 0);
-    expect(first!.total.noxAboveTropopauseKg.p95 - first!.total.noxAboveTropopauseKg.p5).toBeLessThan(sumP95 - sumP5);
-    expect(first!.total.flightsSampled).toBe(first!.fleets.reduce((t, f) => t + f.flightsSampled, 0));
+    const sumP95 = first.fleets.reduce((t, f) => t + f.noxAboveTropopauseKg.p95, 0);
+    const sumP5 = first.fleets.reduce((t, f) => t + f.noxAboveTropopauseKg.p5, 0);
+    expect(first.total.noxAboveTropopauseKg.p95 - first.total.noxAboveTropopauseKg.p5).toBeLessThan(sumP95 - sumP5);
+    expect(first.total.flightsSampled).toBe(first.fleets.reduce((t, f) => t + f.flightsSampled, 0));
   });
 
   it('builds components once for flights screened before they were kept, with the same result', async () => {
     const scope = { workspaceId: ws.id };
-    const before = await fleetPercentiles(scope, PERIOD);
+    const before = ready(await fleetPercentiles(scope, PERIOD));
     await db()('flight_components').where({ workspace_id: ws.id }).delete();
     await db()('fleet_percentiles').where({ workspace_id: ws.id }).delete();
-    const after = await fleetPercentiles(scope, PERIOD);
+    const after = ready(await fleetPercentiles(scope, PERIOD));
     expect(after).toStrictEqual(before);
     const n = Number(
       ((await db()('flight_components').where({ workspace_id: ws.id }).count({ n: '*' }).first()) as { n: number }).n,
     );
-    expect(n).toBe(before!.total.flightsSampled);
+    expect(n).toBe(before.total.flightsSampled);
   });
 
   it("a re-screen of an import with a newer engine rewrites its flights' components", async () => {
@@ -182,73 +191,60 @@ describe('fleet percentiles from components stored by the import worker', () => 
       .select('engine_version')
       .count({ n: '*' })) as { engine_version: string; n: number }[];
     expect(versions.map((v) => v.engine_version)).toEqual([ENGINE_VERSION]);
-    const p = await fleetPercentiles({ workspaceId: ws.id }, PERIOD);
-    expect(p!.flightsLeftOut).toBe(0);
-    expect(p!.engineVersion).toBe(ENGINE_VERSION);
+    const p = ready(await fleetPercentiles({ workspaceId: ws.id }, PERIOD));
+    expect(p.flightsLeftOut).toBe(0);
+    expect(p.engineVersion).toBe(ENGINE_VERSION);
   });
 
-  it('writes components in the transaction of the figures: a chunk that fails leaves none', async () => {
+  it('builds components only for screened flights, and never stores components older than the figures', async () => {
     const other = await makeWorkspace(['analyst']);
     await addScheduleLibrary(other.id);
     const r = await call<ImportDto>(
       importsRoute.POST,
-      uploadRequest(other.slug, csv(HEADER, ...scheduleRows(2)), {
+      uploadRequest(other.slug, csv(HEADER, ...scheduleRows(3)), {
         cookie: await sessionCookie(other.members.analyst.id),
       }),
       { slug: other.slug },
     );
-    expect(r.status).toBe(202);
-    const pending = (await db()('flights')
-      .where({ import_id: r.body.id })
-      .orderBy('id')
-      .select('id', 'input_json')) as {
+    expect(r.status, JSON.stringify(r.body)).toBe(202);
+    // One stored input the engine cannot read: that flight fails screening.
+    const last = (await db()('flights').where({ import_id: r.body.id }).orderBy('id', 'desc').first('id')) as {
       id: number;
-      input_json: string;
+    };
+    await db()('flights').where({ id: last.id }).update({ input_json: '{"route":{}}' });
+    await runImportsToCompletion();
+    const flights = (await db()('flights').where({ import_id: r.body.id }).orderBy('id').select('id', 'status')) as {
+      id: number;
+      status: string;
     }[];
-    const input = JSON.parse(pending[0].input_json) as ScreeningInput;
-    const result = screenValidated(input);
-    const outcomes = [
-      {
-        id: Number(pending[0].id),
-        workspaceId: other.id,
-        line: 2,
-        figures: {
-          distanceKm: result.distanceKm,
-          noxTotalKg: result.noxTotalKg,
-          noxAboveTropopauseKg: result.noxAboveTropopauseKg,
-          fractionAboveTropopause: result.fractionAboveTropopause,
-          meanDepthAboveTropopauseKm: result.meanDepthAboveTropopauseKm,
-          ozoneCentralKg: result.ozoneLoss.centralKg,
-          ozoneLowKg: result.ozoneLoss.lowKg,
-          ozoneHighKg: result.ozoneLoss.highKg,
-          engineVersion: result.engineVersion,
-        },
-        components: encodeFlightComponents(flightComponents(input, result)),
-      },
-      // The second flight's failure is recorded as a problem of an import that does not exist: the
-      // foreign key refuses it and the whole chunk rolls back.
-      { id: Number(pending[1].id), workspaceId: other.id, line: 3, error: 'refused' },
-    ];
-    await expect(saveScreenedChunk(999_999, outcomes)).rejects.toThrow();
-    expect(await db()('flight_components').where({ workspace_id: other.id }).first()).toBeUndefined();
-    expect((await db()('flights').where({ id: pending[0].id }).first()).status).toBe('pending');
-    // The same chunk under its own import commits figures and components together.
-    await saveScreenedChunk(r.body.id, outcomes);
-    const stored = await db()('flight_components').where({ flight_id: pending[0].id }).first();
-    expect(stored?.engine_version).toBe(result.engineVersion);
-    expect(await db()('flight_components').where({ flight_id: pending[1].id }).first()).toBeUndefined();
+    const failed = flights.filter((f) => f.status === 'failed');
+    expect(failed).toHaveLength(1);
+    expect(await db()('flight_components').where({ flight_id: failed[0].id }).first()).toBeUndefined();
+    const screened = flights.filter((f) => f.status === 'screened').map((f) => Number(f.id));
+    expect(
+      ((await db()('flight_components').whereIn('flight_id', screened).select('flight_id')) as unknown[]).length,
+    ).toBe(screened.length);
+    // Components built for figures that were re-screened meanwhile are not stored.
+    const [id] = screened;
+    await db()('flight_components').where({ flight_id: id }).delete();
+    const stale = await buildComponents([{ id, workspaceId: other.id, engineVersion: '2000.1.1', inputJson: '{}' }], {
+      threads: false,
+    });
+    expect(await saveBuiltComponents(stale)).toBe(0);
+    expect(await db()('flight_components').where({ flight_id: id }).first()).toBeUndefined();
   });
 });
 
 describe('fleet percentiles in the product', () => {
   it('the fleet comparison carries the band per fleet and in total, with the correlation in plain words', async () => {
     const c = await compareFleets({ workspaceId: ws.id }, { ...PERIOD, groupBy: 'fleet' });
-    expect(c.percentiles?.samples).toBe(400);
-    expect(c.percentiles?.fleets).toHaveLength(2);
-    expect(c.percentiles?.note).toMatch(/half shared by the flights of the same 10-degree latitude band and month/);
-    expect(c.percentiles?.note).toMatch(/gross catalytic loss/);
+    const cp = ready(c.percentiles);
+    expect(cp.samples).toBe(400);
+    expect(cp.fleets).toHaveLength(2);
+    expect(cp.note).toMatch(/half shared by the flights of the same 10-degree latitude band and month/);
+    expect(cp.note).toMatch(/gross catalytic loss/);
     // The page's figures are the data function's for the same selection.
-    expect(c.percentiles).toStrictEqual(await fleetPercentiles({ workspaceId: ws.id }, PERIOD));
+    expect(c.percentiles).toStrictEqual(ready(await fleetPercentiles({ workspaceId: ws.id }, PERIOD)));
     // A filter that keeps no flight has no band.
     const none = await compareFleets(
       { workspaceId: ws.id },
