@@ -550,7 +550,7 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
       },
       responses: {
         '200':
-          '{ period, groupBy, filters, rows, totals, months, series, context, notes, cautions, engineVersions, mixedEngineVersions, percentiles }; percentiles (null without flights; { pending: true, flightsPending, flights } while the worker builds the flights' sampling data) { samples: 400, seed: 1, engineVersion, fleets: { fleetId, flights, flightsSampled, noxAboveTropopauseKg, fractionAboveTropopause, ozoneLossKg: { p5, p50, p95 } }[], total (the same, fleetId null), flightsLeftOut, correlation, note }: 5-95 % of each fleet total from sampling its flights together (shared systematic inputs, tropopause error half shared per 10-degree band and month), never a sum of flight percentiles',
+          '{ period, groupBy, filters, rows, totals, months, series, context, notes, cautions, engineVersions, mixedEngineVersions, percentiles }; percentiles (null without flights; { pending: true, flightsPending, flights } while the worker builds the sampling data of the flights) { samples: 400, seed: 1, engineVersion, fleets: { fleetId, flights, flightsSampled, noxAboveTropopauseKg, fractionAboveTropopause, ozoneLossKg: { p5, p50, p95 } }[], total (the same, fleetId null), flightsLeftOut, correlation, note }: 5-95 % of each fleet total from sampling its flights together (shared systematic inputs, tropopause error half shared per 10-degree band and month), never a sum of flight percentiles',
       },
     },
   },
