@@ -68,6 +68,7 @@ const inFlight = new Map<string, Promise<FleetPercentiles | FleetPercentilesPend
 export async function fleetPercentiles(
   scope: { workspaceId: number },
   filters: FlightFilters,
+  opts: { lazyLimit?: number } = {},
 ): Promise<FleetPercentiles | FleetPercentilesPending | null> {
   const refs = await listFleetFlightRefs(scope, filters);
   if (refs.length === 0) return null;
@@ -88,7 +89,7 @@ export async function fleetPercentiles(
     const stored = await getFleetPercentiles(scope, key);
     if (stored) return JSON.parse(stored) as FleetPercentiles;
     const stale = refs.filter((r) => !r.current);
-    if (stale.length > LAZY_LIMIT)
+    if (stale.length > (opts.lazyLimit ?? LAZY_LIMIT))
       return { pending: true as const, flightsPending: stale.length, flights: refs.length };
     if (stale.length) await buildMissing(stale, scope);
     const packs = new Map<string, { fleetId: number | null; pack: FleetPack }>();

@@ -5,7 +5,7 @@ import * as importsRoute from '@/app/api/v1/workspaces/[slug]/imports/route';
 import { db } from '@/db/client';
 import type { ImportDto } from '@/db/imports';
 import { saveBuiltComponents } from '@/db/flight-components';
-import { buildComponents } from '@/lib/imports/components';
+import { buildComponentBacklog, buildComponents } from '@/lib/imports/components';
 import { getReportCsv } from '@/db/reports';
 import { runImportsToCompletion } from '@/lib/imports/worker';
 import { rescreenImport } from '@/lib/imports/rescreen';
@@ -194,6 +194,19 @@ describe('fleet percentiles from components stored by the import worker', () => 
     const p = ready(await fleetPercentiles({ workspaceId: ws.id }, PERIOD));
     expect(p.flightsLeftOut).toBe(0);
     expect(p.engineVersion).toBe(ENGINE_VERSION);
+  });
+
+  it('answers pending while more flights lack components than a request may build, and the worker then builds them', async () => {
+    const scope = { workspaceId: ws.id };
+    const all = ready(await fleetPercentiles(scope, PERIOD));
+    await db()('flight_components').where({ workspace_id: ws.id }).delete();
+    await db()('fleet_percentiles').where({ workspace_id: ws.id }).delete();
+    const pending = await fleetPercentiles(scope, PERIOD, { lazyLimit: 10 });
+    expect(pending).toEqual({ pending: true, flightsPending: all.total.flights, flights: all.total.flights });
+    expect(await db()('fleet_percentiles').where({ workspace_id: ws.id }).first()).toBeUndefined();
+    // The worker's backlog (after imports and re-screens) builds them; the band is then the same.
+    await buildComponentBacklog(async () => false);
+    expect(ready(await fleetPercentiles(scope, PERIOD, { lazyLimit: 10 }))).toStrictEqual(all);
   });
 
   it('builds components only for screened flights, and never stores components older than the figures', async () => {
