@@ -6,7 +6,9 @@ import { db } from '@/db/client';
 import type { ImportDto } from '@/db/imports';
 import { saveBuiltComponents } from '@/db/flight-components';
 import { buildComponentBacklog, buildComponents } from '@/lib/imports/components';
-import { getReportCsv } from '@/db/reports';
+import { getReportCsv, getReportPdf } from '@/db/reports';
+import { PDFParse } from 'pdf-parse';
+import { reportMassRange as formatMassRange } from '@/lib/reports/pdf';
 import { runImportsToCompletion } from '@/lib/imports/worker';
 import { rescreenImport } from '@/lib/imports/rescreen';
 import { compareFleets } from '@/lib/fleets/compare';
@@ -293,5 +295,20 @@ describe('fleet percentiles in the product', () => {
     const last = totals[totals.length - 1];
     expect(Number(last.nox_above_tropopause_p5_kg)).toBeCloseTo(summary.percentiles!.total.noxAboveTropopauseKg.p5, 3);
     expect(parsed.data.filter((r) => r.month !== 'total').every((r) => r.nox_above_tropopause_p5_kg === '')).toBe(true);
+    // The PDF has the band table and says in plain words how the sampling correlates the inputs.
+    const { pdf } = await getReportPdf({ workspaceId: ws.id }, report.id);
+    const parser = new PDFParse({ data: new Uint8Array(pdf) });
+    const pdfText = (await parser.getText()).text.replace(/\s+/g, ' ');
+    await parser.destroy();
+    expect(pdfText).toContain('How sure: 5-95 % of each total from correlated sampling');
+    expect(pdfText).toContain(
+      formatMassRange(
+        summary.percentiles!.total.noxAboveTropopauseKg.p5,
+        summary.percentiles!.total.noxAboveTropopauseKg.p95,
+        'metric',
+        ' to ',
+      ),
+    );
+    expect(pdfText).toMatch(/half shared by the flights of the same 10-degree latitude band and month/);
   });
 });
