@@ -359,7 +359,8 @@ function filtered(k: Knex | Knex.Transaction, workspaceId: number, src: RollupSo
 const flightCount = (k: Knex | Knex.Transaction, src: RollupSource) =>
   k.raw(src.rollup ? 'sum(fl.flights)' : 'count(*)');
 
-function applyFilters(q: Knex.QueryBuilder, f: FlightFilters): Knex.QueryBuilder {
+/** The basis and the filters other than the dates and status (each source sets those; see `filtered`). */
+export function applyFilters(q: Knex.QueryBuilder, f: FlightFilters): Knex.QueryBuilder {
   applyBasis(q, f.basis);
   if (f.aircraft) q.whereRaw('upper(fl.aircraft_code) = ?', [f.aircraft.toUpperCase()]);
   for (const group of f.routeTerms ?? []) {

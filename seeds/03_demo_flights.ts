@@ -1,6 +1,13 @@
 import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
-import { findAirport, screenValidated, validateScreeningInput, type ScreeningInput } from '../lib/screening/index';
+import {
+  encodeFlightComponents,
+  findAirport,
+  flightComponents,
+  screenValidated,
+  validateScreeningInput,
+  type ScreeningInput,
+} from '../lib/screening/index';
 import { todayIso } from '../lib/clock';
 import { seededRandom } from '../lib/random';
 import { rebuildFlightRollups } from '../db/flight-rollups';
@@ -475,7 +482,8 @@ export async function seed(knex: Knex): Promise<void> {
           .where({ import_id: importId, status: 'pending' })
           .select('id', 'date', 'input_json');
         for (const p of pending) {
-          const r = screenValidated(JSON.parse(p.input_json) as ScreeningInput);
+          const input = JSON.parse(p.input_json) as ScreeningInput;
+          const r = screenValidated(input);
           const screenedAt = `${p.date}T12:00:00.000Z`;
           await trx('flights').where({ id: p.id }).update({
             status: 'screened',
@@ -490,6 +498,16 @@ export async function seed(knex: Knex): Promise<void> {
             engine_version: r.engineVersion,
             screened_at: screenedAt,
           });
+          // The fleet-sampling components the import worker keeps (db/flight-components.ts).
+          await trx('flight_components')
+            .insert({
+              flight_id: p.id,
+              workspace_id: workspaceId,
+              engine_version: r.engineVersion,
+              data: Buffer.from(encodeFlightComponents(flightComponents(input, r))),
+            })
+            .onConflict('flight_id')
+            .merge(['engine_version', 'data']);
           // The same ledger row db/usage.ts recordUsage writes (seeds cannot import server-only modules).
           await trx('usage_events')
             .insert({

@@ -26,6 +26,7 @@ import { Notice, ScreeningCaution } from '@/components/ui/notice';
 import { FleetNoxChart } from '@/components/charts/fleet-nox-chart';
 import { FleetShareChart } from '@/components/charts/fleet-share-chart';
 import { FleetContext } from './fleet-context';
+import { FleetPercentiles } from './fleet-percentiles';
 import { SortableHeader } from '@/components/ui/sortable-header';
 
 interface Props {
@@ -593,6 +594,10 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
             <FleetShareChart months={data.months} series={data.series} />
           </Card>
         </div>
+      ) : null}
+
+      {data && data.totals.flights > 0 && data.percentiles ? (
+        <FleetPercentiles percentiles={data.percentiles} names={data.series} units={units} />
       ) : null}
 
       {data && data.totals.flights > 0 ? (

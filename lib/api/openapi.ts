@@ -600,7 +600,10 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
           'planned (default: schedule flights) | flown (imported tracks) | flown-where-available (each flight once: its screened flown track where there is one, else its plan)',
         fleets: 'comma-separated fleet ids',
       },
-      responses: { '200': '{ period, groupBy, filters, rows, totals, months, series, context, notes, cautions }' },
+      responses: {
+        '200':
+          '{ period, groupBy, filters, rows, totals, months, series, context, notes, cautions, engineVersions, mixedEngineVersions, percentiles }; percentiles (null without flights; { pending: true, flightsPending, flights } while the worker builds the sampling data of the flights) { samples: 400, seed: 1, engineVersion, fleets: { fleetId, flights, flightsSampled, noxAboveTropopauseKg, fractionAboveTropopause, ozoneLossKg: { p5, p50, p95 } }[], total (the same, fleetId null), flightsLeftOut, correlation, note }: 5-95 % of each fleet total from sampling its flights together (shared systematic inputs, tropopause error half shared per 10-degree band and month), never a sum of flight percentiles',
+      },
     },
   },
   '/workspaces/{slug}/reports': {
@@ -621,7 +624,10 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
     get: {
       summary: 'One report with its summary and e-mail send history',
       permission: 'flights:read',
-      responses: { '200': 'The report' },
+      responses: {
+        '200':
+          'The report; summary.percentiles (reports built since it was kept) as in fleets/compare: p5/p50/p95 of each fleet total and of all together',
+      },
     },
     delete: {
       summary: 'Delete the report, its stored files and its e-mail history (the audit log keeps a record)',
@@ -638,7 +644,8 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   },
   '/workspaces/{slug}/reports/{id}/csv': {
     get: {
-      summary: 'The report CSV (RFC 4180, formula cells neutralised) as an attachment',
+      summary:
+        'The report CSV (RFC 4180, formula cells neutralised) as an attachment; nox_above_tropopause_p5_kg, nox_above_tropopause_p95_kg, ozone_loss_p5_kg, ozone_loss_p95_kg filled on the total rows',
       permission: 'flights:read',
       responses: { '200': 'text/csv' },
     },

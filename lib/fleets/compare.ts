@@ -12,6 +12,7 @@ import { CO2_PER_KG_FUEL } from '@/lib/screening/screen-flight';
 import { todayIso } from '@/lib/clock';
 import { invalidFields } from '@/lib/errors';
 import { MAX_PERIOD_MONTHS, monthsSpanned, type FleetCompareQuery } from '@/lib/validation/fleets';
+import { fleetPercentiles } from './percentiles';
 import type { CompareRow, FleetComparison, FleetContextRow, FleetSeries } from './types';
 
 export const NO_FLEET_NAME = 'No fleet';
@@ -204,16 +205,18 @@ export async function compareFleets(
   scope: { workspaceId: number },
   q: FleetCompareQuery,
   today = todayIso(),
+  options: { percentiles?: boolean } = {},
 ): Promise<FleetComparison> {
   const period = resolvePeriod(q, today);
   const filters = toFlightFilters(q, period);
-  const [grouped, monthly, levels, engineVersions] = await Promise.all([
+  const [grouped, monthly, levels, engineVersions, percentiles] = await Promise.all([
     q.groupBy === 'fleet'
       ? Promise.resolve(null)
       : aggregateFlights(scope, filters, { month: q.groupBy === 'month', aircraft: q.groupBy === 'aircraft' }),
     aggregateFlights(scope, filters, { month: true }),
     noxAboveByLevels(scope, filters),
     countFlightsByEngineVersion(scope, filters),
+    options.percentiles === false ? Promise.resolve(null) : fleetPercentiles(scope, filters),
   ]);
 
   const fleets = new Map<
@@ -294,5 +297,6 @@ export async function compareFleets(
     cautions: [...mixedEngineVersionCaution(engineVersions), ...FLEET_CAUTIONS],
     engineVersions,
     mixedEngineVersions: engineVersions.length > 1,
+    percentiles,
   };
 }

@@ -70,4 +70,49 @@ export interface FleetComparison {
   engineVersions: { engineVersion: string; flights: number }[];
   /** True when the figures come from more than one engine version (a caution says so). */
   mixedEngineVersions: boolean;
+  /**
+   * 5-95 % of each fleet's totals and of all together from correlated sampling; `{ pending }` while
+   * the worker still builds the flights' components; null without flights.
+   */
+  percentiles: FleetPercentiles | FleetPercentilesPending | null;
+}
+
+/** 5th, 50th and 95th percentile of a sampled total. */
+export interface PercentileBand {
+  p5: number;
+  p50: number;
+  p95: number;
+}
+
+/** Sampled percentiles of one fleet's totals (or of all fleets together, `fleetId` null). Masses in kg. */
+export interface FleetPercentileRow {
+  fleetId: number | null;
+  /** Screened flights of the fleet in the selection. */
+  flights: number;
+  /** Of those, the flights in the sampling (a flight screened by an older engine version is left out). */
+  flightsSampled: number;
+  noxAboveTropopauseKg: PercentileBand;
+  fractionAboveTropopause: PercentileBand;
+  ozoneLossKg: PercentileBand;
+}
+
+/** Fleet percentiles: per fleet and in total, with how the sampling correlates the inputs. */
+export interface FleetPercentiles {
+  samples: number;
+  seed: number;
+  engineVersion: string;
+  fleets: FleetPercentileRow[];
+  total: FleetPercentileRow;
+  flightsLeftOut: number;
+  /** How the sampling correlates the inputs across flights (the engine's text). */
+  correlation: string;
+  /** What the percentiles mean and what they leave out, in plain words. */
+  note: string;
+}
+
+/** Fleet percentiles not ready: the worker is still building components for `flightsPending` flights. */
+export interface FleetPercentilesPending {
+  pending: true;
+  flightsPending: number;
+  flights: number;
 }

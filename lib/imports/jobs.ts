@@ -2,6 +2,7 @@ import 'server-only';
 import { failImport, listActiveImports, listActiveRescreens, reopenFailedImport } from '@/db/imports';
 import { enqueue, defineJob } from '@/lib/jobs';
 import { log } from '@/lib/log';
+import { buildComponentBacklog } from './components';
 import { rescreenImportStep, screenImportStep } from './worker';
 
 /**
@@ -31,6 +32,10 @@ const payloadOf = (p: unknown): ImportJob => {
 export const IMPORT_SCREEN_JOB = 'import.screen';
 export const IMPORT_RESCREEN_JOB = 'import.rescreen';
 export const IMPORT_SWEEP_JOB = 'imports.sweep';
+export const COMPONENTS_BACKLOG_JOB = 'imports.components';
+
+/** How long one backlog turn may build fleet-sampling components before it gives the slot back. */
+const BACKLOG_TURN_MS = 45_000;
 
 const STOPPED_REASON =
   'Screening stopped: the results could not be saved after several attempts. Flights already screened keep their figures; an owner can retry it under Background jobs, or delete this import and upload the file again.';
@@ -69,6 +74,24 @@ defineJob(
       await queueImportRescreen({ importId: r.importId, workspaceId: r.workspaceId });
   },
   { group: 'imports', maxAttempts: 1, expireInSeconds: 60, everyMs: () => 30_000 },
+);
+
+/**
+ * While no import or re-screen is left, builds the fleet-sampling components that screened flights
+ * lack (components.ts), for at most BACKLOG_TURN_MS a turn and giving way to any import that arrives;
+ * the next turn carries on where the flights still lack them.
+ */
+defineJob(
+  COMPONENTS_BACKLOG_JOB,
+  async () => {
+    const busy = async () => (await listActiveImports()).length > 0 || (await listActiveRescreens()).length > 0;
+    if (await busy()) return;
+    const deadline = Date.now() + BACKLOG_TURN_MS;
+    const r = await buildComponentBacklog(async () => Date.now() > deadline || (await busy()));
+    if (r.built > 0)
+      log.info({ event: 'import.components_built', flights: r.built }, 'fleet-sampling components built');
+  },
+  { group: 'imports', maxAttempts: 1, expireInSeconds: 120, everyMs: () => 30_000 },
 );
 
 export function queueImportScreening(job: ImportJob): Promise<boolean> {

@@ -21,3 +21,18 @@ export default function screenBatch(items) {
     }
   });
 }
+
+/**
+ * Builds fleet-sampling components for `{ id, inputJson }[]` (piscina task name `componentsBatch`);
+ * each comes back as `{ id, engineVersion, components }`, components null when they cannot be built.
+ */
+export function componentsBatch(items) {
+  return items.map(({ id, inputJson }) => {
+    try {
+      const { totals, components } = engine.screenWithComponents(JSON.parse(inputJson));
+      return { id, engineVersion: totals.engineVersion, components };
+    } catch {
+      return { id, engineVersion: engine.ENGINE_VERSION, components: null };
+    }
+  });
+}

@@ -60,6 +60,31 @@ export async function screenInThreads(pending: PendingFlight[]): Promise<Screene
   });
 }
 
+/** Components built for one flight: bytes, or null when the engine could not build them. */
+export interface BuiltComponents {
+  id: number;
+  engineVersion: string;
+  components: Uint8Array | null;
+}
+
+/**
+ * Builds fleet-sampling components for flights across the pool's threads (screen-thread.mjs
+ * componentsBatch); null when screening threads are off (the caller builds on the event loop).
+ */
+export async function componentsInThreads(
+  items: { id: number; inputJson: string }[],
+): Promise<BuiltComponents[] | null> {
+  const threads = screeningThreads();
+  if (threads === 0) return null;
+  if (items.length === 0) return [];
+  const p = pool(threads);
+  const size = Math.ceil(items.length / threads);
+  const runs: Promise<BuiltComponents[]>[] = [];
+  for (let i = 0; i < items.length; i += size)
+    runs.push(p.run(items.slice(i, i + size), { name: 'componentsBatch' }) as unknown as Promise<BuiltComponents[]>);
+  return (await Promise.all(runs)).flat();
+}
+
 /** Ends the pool's threads (tests, a worker process shutting down). */
 export async function closeScreeningPool(): Promise<void> {
   const p = g.tropopassScreeningPool;

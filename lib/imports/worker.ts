@@ -19,6 +19,7 @@ import {
 import { log } from '@/lib/log';
 import { leaseImport } from './import-lock';
 import { screenInThreads } from './screening-pool';
+import { buildComponentBacklog } from './components';
 import { checkBudgetAlerts } from '@/lib/billing/budget';
 import { checkTargetAlerts } from '@/lib/periods/alerts';
 
@@ -29,6 +30,9 @@ import { checkTargetAlerts } from '@/lib/periods/alerts';
  * see screening-pool.ts), and writes each chunk (figures, status, one usage unit per screened flight) in
  * one transaction. A chunk only touches flights still pending, so a chunk replayed after a crash
  * can neither lose a flight nor bill one twice.
+ *
+ * When no import or re-screen is left, it builds the fleet-sampling components that screened flights
+ * lack (components.ts), giving way to any import that arrives.
  *
  * Failure policy: a flight whose screening throws is marked failed with its reason and listed as a
  * problem of its import; the import still completes with the others (and shows how many failed). An
@@ -66,6 +70,8 @@ interface WorkerState {
   /** Serialises every pass in this process (the background loop and explicit runs). */
   chain: Promise<unknown>;
   errors: Map<number, number>;
+  /** False until a backlog pass found no flight lacking components since the last import or re-screen. */
+  componentsClean: boolean;
 }
 
 const g = globalThis as unknown as { tropopassImportWorker?: WorkerState };
@@ -77,6 +83,7 @@ function state(): WorkerState {
     timer: null,
     chain: Promise.resolve(),
     errors: new Map(),
+    componentsClean: false,
   };
   return g.tropopassImportWorker;
 }
@@ -178,7 +185,19 @@ async function pass(opts: RunOptions): Promise<RunSummary> {
     const active = await listActiveImports();
     if (active.length === 0 && !state().stopping) {
       const rescreens = await listActiveRescreens();
-      if (rescreens.length === 0) return summary;
+      if (rescreens.length === 0) {
+        if (state().componentsClean) return summary;
+        // Idle: build the fleet-sampling components the screened flights lack, giving way to imports.
+        const backlog = await buildComponentBacklog(
+          async () => state().stopping || (await listActiveImports()).length > 0,
+        );
+        if (backlog.built > 0)
+          log.info({ event: 'import.components_built', flights: backlog.built }, 'fleet-sampling components built');
+        if (!backlog.interrupted) state().componentsClean = true;
+        if (!backlog.interrupted || state().stopping) return summary;
+        continue;
+      }
+      state().componentsClean = false;
       for (const job of rescreens) {
         summary.flights += await processRescreen(job, opts);
         summary.imports += 1;
@@ -198,6 +217,7 @@ async function pass(opts: RunOptions): Promise<RunSummary> {
         summary.flights += flights;
         summary.imports += 1;
         progressed = true;
+        state().componentsClean = false;
       } catch (err) {
         const count = (state().errors.get(imp.id) ?? 0) + 1;
         state().errors.set(imp.id, count);

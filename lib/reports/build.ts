@@ -90,7 +90,7 @@ export async function buildFleetReport(
   const period = resolvePeriod({ from: input.from, to: input.to });
   const query = { from: period.from, to: period.to, groupBy: 'month' as const, fleets: input.fleetIds };
   const [monthly, perFleet, fuelWarnings] = await Promise.all([
-    compareFleets(scope, query),
+    compareFleets(scope, query, undefined, { percentiles: false }),
     compareFleets(scope, { ...query, groupBy: 'fleet' }),
     listFuelWarnings(scope, toFlightFilters(query, period)),
   ]);
@@ -114,6 +114,7 @@ export async function buildFleetReport(
     context: perFleet.context,
     notes: perFleet.notes,
     cautions: perFleet.cautions,
+    percentiles: perFleet.percentiles && 'pending' in perFleet.percentiles ? null : perFleet.percentiles,
     fuelWarnings,
   };
   const [pdf, csv] = [await renderReportPdf(summary, reportMethodText()), reportCsv(summary)];

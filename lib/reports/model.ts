@@ -1,5 +1,5 @@
 import type { UnitSystem } from '@/db/users';
-import type { CompareRow, FleetContextRow, FleetSeries } from '@/lib/fleets/types';
+import type { CompareRow, FleetContextRow, FleetPercentiles, FleetSeries } from '@/lib/fleets/types';
 import type { CsvCell } from './csv';
 import { toCsv } from './csv';
 
@@ -25,6 +25,11 @@ export interface ReportSummary {
   context: { fleets: FleetContextRow[]; total: FleetContextRow; method: string };
   notes: { co2: string; ratios: string; ozone: string; levelBand: string };
   cautions: string[];
+  /**
+   * 5-95 % of each fleet's totals and of all together from correlated sampling (absent in reports
+   * built before it was kept; null when no flight could be sampled).
+   */
+  percentiles?: FleetPercentiles | null;
   /** Flights whose fuel was unusual for their distance (absent in reports built before it was kept). */
   fuelWarnings?: {
     count: number;
@@ -46,9 +51,13 @@ export const CSV_HEADER = [
   'ozone_loss_central_kg',
   'ozone_loss_low_kg',
   'ozone_loss_high_kg',
+  'nox_above_tropopause_p5_kg',
+  'nox_above_tropopause_p95_kg',
+  'ozone_loss_p5_kg',
+  'ozone_loss_p95_kg',
 ] as const;
 
-function csvRow(r: CompareRow, month: string): CsvCell[] {
+function csvRow(r: CompareRow, month: string, band?: FleetPercentiles['total']): CsvCell[] {
   return [
     r.fleetName,
     month,
@@ -63,19 +72,27 @@ function csvRow(r: CompareRow, month: string): CsvCell[] {
     r.ozone.centralKg,
     r.ozone.lowKg,
     r.ozone.highKg,
+    band ? band.noxAboveTropopauseKg.p5 : null,
+    band ? band.noxAboveTropopauseKg.p95 : null,
+    band ? band.ozoneLossKg.p5 : null,
+    band ? band.ozoneLossKg.p95 : null,
   ];
 }
 
 /**
  * The report's CSV: one row per fleet and month (months without flights are left out), each fleet's
- * total (month "total"), then the grand total. SI units, named in the header.
+ * total (month "total"), then the grand total. SI units, named in the header. The p5/p95 columns
+ * (sampled 5-95 % of the totals) are filled on the total rows only.
  */
-export function reportCsv(s: Pick<ReportSummary, 'perFleet' | 'perFleetMonth' | 'totals'>): string {
+export function reportCsv(
+  s: Pick<ReportSummary, 'perFleet' | 'perFleetMonth' | 'totals'> & Pick<Partial<ReportSummary>, 'percentiles'>,
+): string {
   const rows: CsvCell[][] = [];
+  const bandOf = (id: number | null) => s.percentiles?.fleets.find((b) => b.fleetId === id);
   for (const f of s.perFleet) {
     for (const m of s.perFleetMonth.filter((x) => x.fleetId === f.fleetId)) rows.push(csvRow(m, m.month ?? ''));
-    rows.push(csvRow(f, 'total'));
+    rows.push(csvRow(f, 'total', bandOf(f.fleetId)));
   }
-  rows.push(csvRow(s.totals, 'total'));
+  rows.push(csvRow(s.totals, 'total', s.percentiles?.total));
   return toCsv(CSV_HEADER, rows);
 }

@@ -594,6 +594,33 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
     { strong: new Set([ozoneRows.length - 1]) },
   );
 
+  const band = s.percentiles;
+  if (band) {
+    w.paragraph('How sure: 5-95 % of each total from correlated sampling', { size: 8.5, bold: true });
+    const range = (b: { p5: number; p95: number }) => reportMassRange(b.p5, b.p95, units, ' to ');
+    const nameOf = (id: number | null) =>
+      id === null ? 'No fleet' : (s.perFleet.find((r) => r.fleetId === id)?.fleetName ?? String(id));
+    const bandRows = [
+      ...band.fleets.map((b) => ({ ...b, name: nameOf(b.fleetId) })),
+      { ...band.total, name: 'All fleets' },
+    ]
+      .filter((b, i, all) => i === all.length - 1 || s.perFleet.some((r) => r.fleetId === b.fleetId))
+      .map((b) => [b.name, range(b.noxAboveTropopauseKg), range(b.ozoneLossKg)]);
+    w.table(
+      [
+        { label: 'Fleet', width: 200 },
+        { label: 'NOx above the tropopause, 5-95 %', width: 150, align: 'right' },
+        { label: 'Ozone-loss figure, 5-95 %', width: 149, align: 'right' },
+      ],
+      bandRows,
+      { strong: new Set([bandRows.length - 1]) },
+    );
+    w.paragraph(
+      `${band.note}${band.flightsLeftOut > 0 ? ` ${formatNumber(band.flightsLeftOut)} flights screened by an older engine version are not in the sampling; re-screen their imports to include them.` : ''}`,
+      { size: 7.5, color: INK_SOFT },
+    );
+  }
+
   const warned = s.fuelWarnings;
   if (warned && warned.count > 0) {
     w.heading('Flights with unusual fuel');

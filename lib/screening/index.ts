@@ -111,7 +111,13 @@ export { screenAcrossMonths, sweepMonthsValidated, SAME_EVERY_MONTH_NOTE, type M
 export {
   flightComponents,
   sampleFleet,
+  sampleFleetParts,
   sampleFleetExact,
+  encodeFlightComponents,
+  decodeFlightComponents,
+  FleetPack,
+  screenWithComponents,
+  FLIGHT_COMPONENTS_BYTES,
   SHARED_TROPOPAUSE_VARIANCE,
   type FlightComponents,
   type FleetUncertainty,

@@ -398,6 +398,56 @@ export function evaluate(
   }
 }
 
+/**
+ * NOx above the tropopause (kg) and the ozone figure (O3 molecules) with every input central, at each
+ * tropopause shift `shift0M + j * stepM` (j < nodes), into `noxOut` and `o3Out` (added to). Equal to
+ * `evaluate` at each shift, except that a segment's loss is computed exactly only at every `stride`-th
+ * node where it lies above (and at its last) and linearly interpolated between: the loss varies
+ * smoothly with the depth above the tropopause, and the residence-time and sunlight look-ups are
+ * what a component build spends its time on.
+ */
+export function shiftCurves(
+  k: Kernel,
+  shift0M: number,
+  stepM: number,
+  nodes: number,
+  stride: number,
+  noxOut: Float64Array,
+  o3Out: Float64Array,
+): void {
+  const ratios = new Float64Array(k.eiUsed.length);
+  const c = k.central;
+  levelRatios(k, c, ratios);
+  const rt = k.inputs.residenceTime;
+  const lossAt = (i: number, nox: number, tpM: number): number => {
+    const lat = k.lat[i];
+    const tau = residenceTimeYears((k.altM[i] - tpM) / 1000, rt, lat);
+    windowSunlight(lat, k.doy, tau, SCRATCH_SUN);
+    const day = Number.isNaN(c.daylight) ? SCRATCH_SUN.dayFraction : c.daylight;
+    return lossMolecules(k, i, nox, tau, SCRATCH_SUN.daytimeCosZenith, day, c);
+  };
+  for (let i = 0; i < k.n; i++) {
+    const nox = k.nox[i] * ratios[k.level[i]];
+    let prevJ = -1;
+    let prevV = 0;
+    for (let j = 0; j < nodes; j++) {
+      const tpM = k.tpM[i] + (shift0M + j * stepM) * k.slope[i];
+      if (!(k.altM[i] > tpM)) continue;
+      noxOut[j] += nox;
+      const lastAbove = j === nodes - 1 || !(k.altM[i] > k.tpM[i] + (shift0M + (j + 1) * stepM) * k.slope[i]);
+      if (prevJ >= 0 && j - prevJ < stride && !lastAbove) continue;
+      const v = lossAt(i, nox, tpM);
+      o3Out[j] += v;
+      if (prevJ >= 0 && j - prevJ > 1) {
+        // Fill the nodes skipped since the last exact one, all above (the range above is contiguous).
+        for (let m = prevJ + 1; m < j; m++) o3Out[m] += prevV + ((m - prevJ) / (j - prevJ)) * (v - prevV);
+      }
+      prevJ = j;
+      prevV = v;
+    }
+  }
+}
+
 /** A standard normal draw held within MAX_SIGMA. */
 export function heldNormal(u: Uniform): number {
   let z = standardNormal(u);

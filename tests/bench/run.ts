@@ -20,7 +20,11 @@ const benches = [
 let failed = false;
 for (const file of benches) {
   console.log(`\n=== ${file} ===`);
-  const r = spawnSync(process.execPath, ['--import', 'tsx', file, ...process.argv.slice(2)], { stdio: 'inherit' });
+  // The fleet bench reads through db/ (server-only modules): run it with the server's resolve condition.
+  const conditions = file.endsWith('fleet-uncertainty.ts') ? ['--conditions=react-server'] : [];
+  const r = spawnSync(process.execPath, [...conditions, '--import', 'tsx', file, ...process.argv.slice(2)], {
+    stdio: 'inherit',
+  });
   if (r.status !== 0) failed = true;
 }
 process.exit(failed ? 1 : 0);

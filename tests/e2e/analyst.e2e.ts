@@ -66,6 +66,10 @@ describe('sustainability analyst: compare fleets, build, download and send a rep
     await table.getByRole('cell', { name: 'Polar long-haul A' }).waitFor();
     await expect(table.locator('tfoot').textContent()).resolves.toContain('All fleets');
     await page.getByRole('heading', { name: 'NOx above the tropopause by month', exact: true }).waitFor();
+    // The sampled 5-95 % band of each fleet's totals and of all together.
+    const band = page.getByTestId('fleet-percentiles');
+    await band.getByRole('cell', { name: 'All fleets' }).waitFor();
+    await expect(band.textContent()).resolves.toContain('Polar long-haul A');
     await screenshot(page, 'analyst-fleets-comparison');
     expect(errors).toEqual([]);
 

@@ -7,7 +7,7 @@ import { figuresOf, type ImportDto } from '@/db/imports';
 import { resetEnvForTests } from '@/lib/env';
 import { closeScreeningPool, screeningThreads } from '@/lib/imports/screening-pool';
 import { runImportsToCompletion } from '@/lib/imports/worker';
-import { screenTotals, type ScreeningInput } from '@/lib/screening';
+import { screenTotals, screenWithComponents, type ScreeningInput } from '@/lib/screening';
 import { HEADER, addScheduleLibrary, csv, goodRows, uploadRequest } from './support';
 
 useTestDatabase({ SCREENING_THREADS: '2' });
@@ -85,6 +85,14 @@ describe('screening in worker threads', () => {
         .countDistinct({ d: 'source_id' })
         .first()) as { n: number | string; d: number | string };
       expect([Number(units.n), Number(units.d)]).toEqual([3000, 3000]);
+      // Then the worker built each flight's fleet-sampling components on the threads, as the engine does.
+      const comps = (await db()('flight_components')
+        .where({ workspace_id: threaded.workspaceId })
+        .orderBy('flight_id')
+        .select('flight_id', 'data')) as { flight_id: number; data: Uint8Array }[];
+      expect(comps.length).toBe(3000);
+      const first = JSON.parse(String(rows[0].input_json)) as ScreeningInput;
+      expect(new Uint8Array(comps[0].data)).toEqual(screenWithComponents(first).components);
 
       // The same import screened on the event loop, for comparison.
       process.env.SCREENING_THREADS = '0';

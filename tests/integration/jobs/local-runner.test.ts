@@ -9,7 +9,7 @@ import { AppError } from '@/lib/errors';
 import { defineJob, enqueue } from '@/lib/jobs';
 import { runDueLocalJobs } from '@/lib/jobs/local';
 import { listFailedJobs, retryFailedJob, type FailedJob } from '@/lib/jobs/failed-jobs';
-import { IMPORT_RESCREEN_JOB, IMPORT_SCREEN_JOB } from '@/lib/imports/jobs';
+import { COMPONENTS_BACKLOG_JOB, IMPORT_RESCREEN_JOB, IMPORT_SCREEN_JOB } from '@/lib/imports/jobs';
 import { rescreenImport } from '@/lib/imports/rescreen';
 import { ENGINE_VERSION } from '@/lib/screening';
 
@@ -232,6 +232,16 @@ sqliteOnly('imports through the in-process runner', () => {
     expect(await count('flights', { import_id: importId, status: 'screened' })).toBe(30);
     expect(await count('usage_events', { workspace_id: ws.id })).toBe(30);
     expect(await queued(IMPORT_SCREEN_JOB)).toEqual([]);
+  });
+
+  it('the components job builds the fleet-sampling components of screened flights once no import is left', async () => {
+    const { ws, importId } = await upload(12);
+    while ((await runDueLocalJobs()) > 0);
+    expect(await count('flights', { import_id: importId, status: 'screened' })).toBe(12);
+    await db()('flight_components').where({ workspace_id: ws.id }).delete();
+    expect(await enqueue(COMPONENTS_BACKLOG_JOB, {})).toBe(true);
+    while ((await runDueLocalJobs()) > 0);
+    expect(await count('flight_components', { workspace_id: ws.id, engine_version: ENGINE_VERSION })).toBe(12);
   });
 
   it('a re-screen request queues one job; the runner puts every flight on the current engine and bills nothing more', async () => {

@@ -1,7 +1,17 @@
 import { describe, expect, it } from 'vitest';
-import { mulberry32 } from '@/lib/screening/prng';
-import { flightComponents, sampleFleet, sampleFleetExact } from '@/lib/screening/fleet-uncertainty';
-import { screenValidated, validateScreeningInput } from '@/lib/screening';
+import { inverseNormal, mulberry32, normalQuantileTable } from '@/lib/screening/prng';
+import {
+  FLIGHT_COMPONENTS_BYTES,
+  FleetPack,
+  decodeFlightComponents,
+  encodeFlightComponents,
+  flightComponents,
+  sampleFleet,
+  sampleFleetExact,
+  sampleFleetParts,
+  screenWithComponents,
+} from '@/lib/screening/fleet-uncertainty';
+import { screenTotals, screenValidated, validateScreeningInput } from '@/lib/screening';
 
 // Invented certification-style curve (four LTO points), not a real engine.
 const ENGINE = { fuelFlowKgS: [0.2, 0.6, 1.8, 2.2], eiNoxGPerKg: [5, 12, 28, 36] };
@@ -70,5 +80,81 @@ describe('fleet percentiles', () => {
   it('gives the same percentiles for the same seed', () => {
     const comps = fleet(20, 3).map((f) => flightComponents(f.input, f.result));
     expect(sampleFleet(comps, { seed: 8, samples: 100 })).toStrictEqual(sampleFleet(comps, { seed: 8, samples: 100 }));
+  });
+});
+
+describe('stored components', () => {
+  it('encode to a fixed number of bytes and decode to the same components (curves as float32)', () => {
+    const [f] = fleet(1, 11);
+    const c = flightComponents(f.input, f.result);
+    const bytes = encodeFlightComponents(c);
+    expect(bytes.byteLength).toBe(FLIGHT_COMPONENTS_BYTES);
+    expect(decodeFlightComponents(bytes)).toStrictEqual(c);
+    // Bytes that are not components are refused, never read as figures.
+    expect(() => decodeFlightComponents(new Uint8Array(10))).toThrow(RangeError);
+  });
+
+  it('a pack built from stored bytes samples exactly as the component objects do', () => {
+    const comps = fleet(30, 12).map((f) => flightComponents(f.input, f.result));
+    const pack = new FleetPack(4);
+    for (const c of comps) pack.addEncoded(encodeFlightComponents(c));
+    expect(pack.n).toBe(30);
+    expect(sampleFleet(pack, { samples: 200, seed: 3 })).toStrictEqual(sampleFleet(comps, { samples: 200, seed: 3 }));
+  });
+
+  it('the totals the import keeps with the components equal the totals-only screening', () => {
+    const [f] = fleet(1, 13);
+    const { totals, components } = screenWithComponents(f.input);
+    expect(totals).toStrictEqual(screenTotals(f.input));
+    expect(components).not.toBeNull();
+  });
+
+  it('parts of one joint sampling: a pack alone gives its own band, and the parts add up to the total', () => {
+    const flights = fleet(40, 14).map((f) => flightComponents(f.input, f.result));
+    const a = new FleetPack();
+    const b = new FleetPack();
+    flights.forEach((c, i) => (i < 25 ? a : b).add(c));
+    const { total, parts } = sampleFleetParts([a, b], { samples: 300, seed: 6 });
+    expect(parts.map((p) => p.flights)).toEqual([25, 15]);
+    expect(total.flights).toBe(40);
+    // A part is its pack's own sampling up to the order of the flights' own draws: the shared draws are
+    // the same, so its percentiles agree with the pack sampled alone within what 15 flights' own
+    // (tropopause and EI scatter) draws move them.
+    const alone = sampleFleet(b, { samples: 300, seed: 6 });
+    for (const q of ['p5', 'p50', 'p95'] as const)
+      expect(Math.abs(parts[1].ozoneLossKg[q] / alone.ozoneLossKg[q] - 1), q).toBeLessThan(0.1);
+    // Percentiles of a sum lie between the sum of the parts' p5 and the sum of their p95.
+    expect(total.noxAboveTropopauseKg.p50).toBeGreaterThan(
+      parts[0].noxAboveTropopauseKg.p5 + parts[1].noxAboveTropopauseKg.p5,
+    );
+    expect(total.noxAboveTropopauseKg.p50).toBeLessThan(
+      parts[0].noxAboveTropopauseKg.p95 + parts[1].noxAboveTropopauseKg.p95,
+    );
+  });
+});
+
+describe("normal quantiles for the flights' own draws", () => {
+  it.each([
+    // Standard normal table values (common practice, any statistics handbook).
+    [0.5, 0],
+    [0.8413447, 1],
+    [0.95, 1.6448536],
+    [0.975, 1.959964],
+    [0.025, -1.959964],
+    [0.001, -3.0902323],
+  ])('inverseNormal(%s) = %s', (p, z) => {
+    expect(inverseNormal(p)).toBeCloseTo(z, 5);
+  });
+
+  it('the table is held within 3 sigma and follows the quantile function between its nodes', () => {
+    const t = normalQuantileTable(3);
+    expect(Math.max(...t)).toBe(3);
+    expect(Math.min(...t)).toBe(-3);
+    const cells = t.length - 1;
+    for (const p of [0.1, 0.3, 0.6, 0.9]) {
+      const x = p * cells;
+      const i = Math.floor(x);
+      expect(t[i] + (x - i) * (t[i + 1] - t[i])).toBeCloseTo(inverseNormal(p), 4);
+    }
   });
 });

@@ -9,6 +9,8 @@ import { formatMass, formatNumber, formatPercent } from '@/lib/format';
 import { monthBounds } from '@/lib/clock';
 import { COUNT_HINTS, COUNT_LABELS } from '@/lib/counts';
 import { PeriodOverviewCard } from '@/components/periods/period-overview-card';
+import { Suspense } from 'react';
+import { OverviewPercentiles } from '@/components/fleets/overview-percentiles';
 
 export default async function OverviewPage({
   params,
@@ -59,6 +61,9 @@ export default async function OverviewPage({
         />
         <Stat label="Share above" value={formatPercent(share, 1)} tone="strato" />
       </div>
+      <Suspense fallback={null}>
+        <OverviewPercentiles workspaceId={workspace.id} from={from} to={to} units={user.units} />
+      </Suspense>
       <Card title="Trend, last six months" className="mt-6">
         <ScrollRegion label="Trend, last six months">
           <table className="w-full text-sm">
