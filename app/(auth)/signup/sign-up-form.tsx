@@ -1,20 +1,18 @@
 'use client';
 
-import { useActionState } from 'react';
 import { Field, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { signUpAction, type AuthFormState } from '../actions';
-import { fieldError, FormMessage } from '../auth-form-bits';
+import { FormNotice, usePostedForm } from '@/components/ui/use-action-form';
 
 /** Posted as an ordinary form (a server action): works before the script loads, and the password never lands in a URL. */
 export function SignUpForm({ invitationToken, invitedEmail }: { invitationToken?: string; invitedEmail?: string }) {
-  const [state, action, pending] = useActionState<AuthFormState, FormData>(signUpAction, null);
+  const { state, action, pending, fieldError: err, message } = usePostedForm<AuthFormState>(signUpAction, null);
   const v = state?.values ?? {};
-  const err = (p: string) => fieldError(state, p);
   const k = JSON.stringify(v);
   return (
     <form action={action} noValidate className="mt-5 space-y-4">
-      <FormMessage state={state} />
+      <FormNotice message={message} />
       {invitationToken ? <input type="hidden" name="invitationToken" value={invitationToken} /> : null}
       <Field id="name" label="Your name" error={err('name')}>
         <TextInput
