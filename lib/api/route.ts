@@ -211,6 +211,13 @@ export async function readJson<S extends z.ZodType>(req: Request, schema: S): Pr
   return parsed.data;
 }
 
+/** The query string -> schema (each name once, as text); 422 with field paths when invalid. */
+export function readQuery<S extends z.ZodType>(req: Request, schema: S): z.infer<S> {
+  const parsed = schema.safeParse(Object.fromEntries(new URL(req.url).searchParams));
+  if (!parsed.success) throw fromZod(parsed.error);
+  return parsed.data;
+}
+
 export function json(data: unknown, status = 200, headers?: Record<string, string>): Response {
   return Response.json(data, { status, headers });
 }

@@ -1,3 +1,4 @@
+import { csvDataHref } from '@/lib/csv/write';
 import { requireMember } from '@/lib/auth/guards';
 import { can } from '@/lib/auth/policy';
 import { listAirways, listFixes } from '@/db/route-library';
@@ -33,7 +34,6 @@ export default async function FixesPage({
   ]);
   const canWrite = can(role, 'navdata:write');
   const api = `/api/v1/workspaces/${slug}`;
-  const dataHref = (csv: string) => `data:text/csv;charset=utf-8,${encodeURIComponent(csv)}`;
   return (
     <LibraryPage
       title="Fixes & airways"
@@ -52,10 +52,10 @@ export default async function FixesPage({
         canWrite ? (
           <>
             <Card title="Upload fixes">
-              <RouteLibraryUploadForm slug={slug} kind="fixes" templateHref={dataHref(FIX_CSV_TEMPLATE)} />
+              <RouteLibraryUploadForm slug={slug} kind="fixes" templateHref={csvDataHref(FIX_CSV_TEMPLATE)} />
             </Card>
             <Card title="Upload airways">
-              <RouteLibraryUploadForm slug={slug} kind="airways" templateHref={dataHref(AIRWAY_CSV_TEMPLATE)} />
+              <RouteLibraryUploadForm slug={slug} kind="airways" templateHref={csvDataHref(AIRWAY_CSV_TEMPLATE)} />
             </Card>
           </>
         ) : null

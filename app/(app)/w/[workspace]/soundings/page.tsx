@@ -1,4 +1,5 @@
 import Link from 'next/link';
+import { csvDataHref } from '@/lib/csv/write';
 import { requireMember } from '@/lib/auth/guards';
 import { can } from '@/lib/auth/policy';
 import { listSoundings } from '@/db/soundings';
@@ -17,7 +18,7 @@ export default async function SoundingsPage({ params }: { params: Promise<{ work
   const { workspace, user, role } = await requireMember(slug, 'flights:read');
   const soundings = await listSoundings({ workspaceId: workspace.id });
   const canWrite = can(role, 'library:write');
-  const templateHref = `data:text/csv;charset=utf-8,${encodeURIComponent(soundingCsvTemplate())}`;
+  const templateHref = csvDataHref(soundingCsvTemplate());
   return (
     <LibraryPage
       title="Soundings"
