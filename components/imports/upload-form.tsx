@@ -8,7 +8,7 @@ import type { ImportProblem } from '@/lib/validation/imports';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
-import { ImportProblemsTable } from './problems-table';
+import { ProblemsTable } from '@/components/ui/problems-table';
 import { formatMoney } from '@/lib/format';
 
 interface Estimate {
@@ -205,11 +205,7 @@ export function UploadForm({ slug, aside }: { slug: string; aside?: ReactNode })
             {outcome.imp.problems.length ? (
               <div className="mt-3">
                 <p className="mb-1 font-medium">Noted, not refused:</p>
-                <ImportProblemsTable
-                  problems={outcome.imp.problems}
-                  caption="Notes on the accepted file"
-                  heading="Note"
-                />
+                <ProblemsTable problems={outcome.imp.problems} caption="Notes on the accepted file" heading="Note" />
               </div>
             ) : null}
           </Notice>
@@ -219,15 +215,11 @@ export function UploadForm({ slug, aside }: { slug: string; aside?: ReactNode })
             <Notice tone="danger" role="alert" title="Nothing was imported">
               {outcome.message}
             </Notice>
-            <ImportProblemsTable
-              problems={outcome.problems}
-              total={outcome.total}
-              caption="Problems in the uploaded file"
-            />
+            <ProblemsTable problems={outcome.problems} total={outcome.total} caption="Problems in the uploaded file" />
             {outcome.warnings.length ? (
               <div>
                 <p className="mb-1 text-sm font-medium">Also noted:</p>
-                <ImportProblemsTable problems={outcome.warnings} caption="Notes on the uploaded file" heading="Note" />
+                <ProblemsTable problems={outcome.warnings} caption="Notes on the uploaded file" heading="Note" />
               </div>
             ) : null}
           </div>

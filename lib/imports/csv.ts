@@ -1,4 +1,5 @@
 import Papa from 'papaparse';
+import type { LineProblem } from '@/lib/validation/problems';
 
 /**
  * A small, generic CSV reader for the product's imports (the documented import format): UTF-8 with or
@@ -11,11 +12,7 @@ import Papa from 'papaparse';
  */
 
 /** One problem with one place in a CSV: `line` (header = 1), `column` (a header name, or '' for the whole line). */
-export interface CsvProblem {
-  line: number;
-  column: string;
-  message: string;
-}
+export type CsvProblem = LineProblem;
 
 /** A column the import knows; `name` is lower-case, as written in the header (snake_case). */
 export interface CsvColumnSpec {

@@ -14,11 +14,7 @@ import {
  * fields entered in the user's units (fuel, step starts, tropopause altitude) are range-checked here
  * first, so the message speaks the unit the planner typed.
  */
-export type UnitSystem = 'metric' | 'imperial';
-
-const KG_PER_LB = 0.45359237;
-const KM_PER_NM = 1.852;
-const M_PER_FT = 0.3048;
+import { altitudeToM, distanceToKm, fuelToKg, KG_PER_LB, KM_PER_NM, M_PER_FT, type UnitSystem } from '@/lib/units';
 
 export const ROUTE_MODES = ['airports', 'points', 'flightPlan'] as const;
 export const CRUISE_MODES = ['level', 'steps'] as const;
@@ -208,21 +204,6 @@ export function unitLabels(units: UnitSystem) {
       ? Math.floor(SCREENING_LIMITS.maxTropopauseAltitudeM / M_PER_FT)
       : SCREENING_LIMITS.maxTropopauseAltitudeM,
   };
-}
-
-/** Fuel as typed (kg or lb) -> kg. 1 lb = 0.45359237 kg exactly (international pound, 1959). */
-export function fuelToKg(value: number, units: UnitSystem): number {
-  return units === 'imperial' ? value * KG_PER_LB : value;
-}
-
-/** Distance as typed (km or NM) -> km. 1 NM = 1.852 km exactly (international nautical mile, 1929). */
-export function distanceToKm(value: number, units: UnitSystem): number {
-  return units === 'imperial' ? value * KM_PER_NM : value;
-}
-
-/** Altitude as typed (m or ft) -> m. 1 ft = 0.3048 m exactly (international foot, 1959). */
-export function altitudeToM(value: number, units: UnitSystem): number {
-  return units === 'imperial' ? value * M_PER_FT : value;
 }
 
 export interface PastedPoints {

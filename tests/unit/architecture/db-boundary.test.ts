@@ -5,7 +5,7 @@ import { importSpecifiers, resolveSpecifier, sourceFilesUnder } from '../../supp
  * `db/` holds queries; rules (the billing gate, engine work, tokens) live in services under `lib/`
  * that own the write transaction. So `db/` may import only leaf utilities from `lib/`.
  */
-const LEAF_UTILITIES = ['lib/errors', 'lib/clock'];
+const LEAF_UTILITIES = ['lib/errors', 'lib/clock', 'lib/units'];
 
 /**
  * Imports from `lib/` that `db/` still has, each to be moved into a service. The list may only

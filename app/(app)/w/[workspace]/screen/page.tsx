@@ -16,7 +16,7 @@ import { PageHeader } from '@/components/ui/card';
 import { ScreeningCaution } from '@/components/ui/notice';
 import { Suspense } from 'react';
 import { FormSkeleton } from '@/components/screening/skeletons';
-import type { UnitSystem } from '@/lib/validation/screen-form';
+import type { UnitSystem } from '@/lib/units';
 import { ScreenFormIsland } from './screen-form-island';
 
 export const metadata = { title: 'Screen a flight' };
