@@ -9,7 +9,7 @@ import type { ActionState } from '@/lib/errors';
 import { Field, TextArea, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { FormNotice, useActionForm } from '@/components/ui/use-action-form';
-import { CRUISE_CHECK, cruiseEiCheck } from './cruise-ei-check';
+import { CRUISE_CHECK, cruiseEiCheck } from '@/lib/library/cruise-ei-check';
 import { CruiseCheckTag } from './cruise-check-tag';
 
 const KNOWN = [

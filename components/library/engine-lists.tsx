@@ -6,7 +6,7 @@ import type { AircraftTypeDto, EngineDto } from '@/db/engines';
 import { LTO_MODES } from '@/lib/validation/library';
 import { DemoBadge } from '@/components/library/badges';
 import { CruiseCheckTag } from '@/components/library/cruise-check-tag';
-import { CRUISE_CHECK, cruiseEiCheck } from '@/components/library/cruise-ei-check';
+import { CRUISE_CHECK, cruiseEiCheck } from '@/lib/library/cruise-ei-check';
 import { formatFuelFlow, fuelFlowUnit } from '@/components/library/format';
 
 const th = 'py-2 pr-3 text-left text-xs font-medium uppercase tracking-wide text-ink-soft';

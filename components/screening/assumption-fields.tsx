@@ -2,7 +2,12 @@
 
 import type { UseFormRegister } from 'react-hook-form';
 import { OZONE_PROFILE_NAMES } from '@/lib/validation/screening';
-import { BAND_KEYS, type AssumptionDefaults, type BandKey, type ScreenFormValues } from '@/lib/validation/screen-form';
+import {
+  BAND_KEYS,
+  type AssumptionDefaults,
+  type BandKey,
+  type ScreenFormValues,
+} from '@/components/screening/screen-form-adapter';
 import { Field, SelectInput, TextInput } from '@/components/ui/field';
 import { sci } from './assumptions-list';
 

@@ -1,4 +1,4 @@
-import type { AssumptionDefaults } from '@/lib/validation/screen-form';
+import type { AssumptionDefaults } from '@/components/screening/screen-form-adapter';
 import type { UnitSystem } from '@/lib/units';
 import type { ScreeningInputRaw, SoundingLevelInput } from '@/lib/validation/screening';
 

@@ -12,7 +12,7 @@ import {
   screenFormSchema,
   type ScreenFormContext,
   type ScreenFormValues,
-} from '@/lib/validation/screen-form';
+} from '@/components/screening/screen-form-adapter';
 import { Field, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';

@@ -1,7 +1,7 @@
 'use client';
 
 import type { UseFormReturn } from 'react-hook-form';
-import { unitLabels, type ScreenFormValues } from '@/lib/validation/screen-form';
+import { unitLabels, type ScreenFormValues } from '@/components/screening/screen-form-adapter';
 import type { UnitSystem } from '@/lib/units';
 import { Field, SelectInput, TextInput } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';

@@ -11,7 +11,7 @@ import {
   findAirport,
 } from '@/lib/screening';
 import { todayIso } from '@/lib/clock';
-import type { AssumptionDefaults } from '@/lib/validation/screen-form';
+import type { AssumptionDefaults } from '@/components/screening/screen-form-adapter';
 import { PageHeader } from '@/components/ui/card';
 import { ScreeningCaution } from '@/components/ui/notice';
 import { Suspense } from 'react';

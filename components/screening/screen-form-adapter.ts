@@ -5,7 +5,7 @@ import {
   screeningInputSchema,
   type ScreeningInputRaw,
   type SoundingLevelInput,
-} from './screening';
+} from '@/lib/validation/screening';
 
 /**
  * The "Screen a flight" form: what the planner types (text in the user's units) and how it maps to
