@@ -1,7 +1,13 @@
 import 'server-only';
 import type { Knex } from 'knex';
 import { db } from './client';
-import type { ScreeningInput } from '@/lib/validation/screening';
+
+type LtoQuad = [number, number, number, number];
+
+/** An aircraft type's emission block, in the engine input's shape: engine certification data, or a direct EI. */
+export type AircraftEmission =
+  | { engine: { fuelFlowKgS: LtoQuad; eiNoxGPerKg: LtoQuad }; engineCount: number; mach: number }
+  | { eiNoxGPerKg: number };
 
 export interface AircraftForScreening {
   id: number;
@@ -11,7 +17,7 @@ export interface AircraftForScreening {
   typicalFlightLevel: number;
   defaultFleetId: number | null;
   /** The emission block a screening uses for this type: engine certification data, or its direct EI. */
-  emission: ScreeningInput['emission'] | null;
+  emission: AircraftEmission | null;
 }
 
 /** Aircraft types of a workspace with what screening needs of each, keyed by upper-case code. */
@@ -55,9 +61,9 @@ export async function listAircraftForScreening(
         },
         engineCount: Number(r.engine_count),
         mach: Number(r.typical_mach),
-      } as ScreeningInput['emission'];
+      };
     } else if (r.direct_ei_g_kg !== null && r.direct_ei_g_kg !== undefined) {
-      emission = { eiNoxGPerKg: Number(r.direct_ei_g_kg) } as ScreeningInput['emission'];
+      emission = { eiNoxGPerKg: Number(r.direct_ei_g_kg) };
     }
     out.set(String(r.code).toUpperCase(), {
       id: Number(r.id),

@@ -3,10 +3,29 @@ import type { Knex } from 'knex';
 import { db, insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
 import { conflict, invalidFields, notFound, type FieldProblem } from '@/lib/errors';
-import type { AircraftTypeSave, EngineSave } from '@/lib/validation/library';
 
 /** Four values in the ICAO LTO mode order: idle 7 %, approach 30 %, climb-out 85 %, take-off 100 %. */
 export type LtoQuad = [number, number, number, number];
+
+/** An engine to store, as `engineSaveSchema` gives it. */
+export interface EngineSave {
+  name: string;
+  fuelFlowKgS: LtoQuad;
+  eiNoxGPerKg: LtoQuad;
+  source: string;
+}
+
+/** An aircraft type to store, as `aircraftTypeSaveSchema` gives it (code in capitals). */
+export interface AircraftTypeSave {
+  code: string;
+  name: string;
+  engineId: number | null;
+  directEiGPerKg: number | null;
+  engineCount: number;
+  typicalMach: number;
+  typicalFlightLevel: number;
+  defaultFleetId: number | null;
+}
 
 export interface EngineDto {
   id: number;

@@ -1,7 +1,6 @@
 import 'server-only';
 import type { Knex } from 'knex';
 import { db } from './client';
-import type { FlightListQuery } from '@/lib/validation/imports';
 
 export type FlightStatus = 'pending' | 'screened' | 'failed';
 
@@ -30,6 +29,17 @@ export interface FlightDto {
   engineVersion: string | null;
   /** The import's warning when the fuel is unusual for the distance, else null. */
   fuelWarning: string | null;
+}
+
+/** The flight list's filters and page, as `flightListQuerySchema` gives them. */
+export interface FlightListQuery {
+  import?: number;
+  from?: string;
+  to?: string;
+  fleet?: number;
+  aircraft?: string;
+  cursor?: string;
+  limit?: number;
 }
 
 export type FlightFilters = Omit<FlightListQuery, 'cursor' | 'limit'>;

@@ -1,7 +1,8 @@
 import 'server-only';
 import type { z } from 'zod';
 import { userFromRequest, type SessionUser } from '@/lib/auth/session';
-import { findApiKey, type ApiKeyPrincipal } from '@/db/api-keys';
+import { type ApiKeyPrincipal } from '@/db/api-keys';
+import { findApiKey } from '@/lib/auth/api-keys';
 import { getMembership, type WorkspaceDto } from '@/db/workspaces';
 import { can, type Permission, type Role } from '@/lib/auth/policy';
 import { isAllowedOrigin } from '@/lib/auth/origin';
