@@ -1,8 +1,7 @@
 import 'server-only';
 import type { Knex } from 'knex';
 import { db } from './client';
-
-type LtoQuad = [number, number, number, number];
+import { ltoOf, type LtoQuad } from './engines';
 
 /** An aircraft type's emission block, in the engine input's shape: engine certification data, or a direct EI. */
 export type AircraftEmission =
@@ -45,20 +44,7 @@ export async function listAircraftForScreening(
     let emission: AircraftForScreening['emission'] = null;
     if (r.eid) {
       emission = {
-        engine: {
-          fuelFlowKgS: [
-            Number(r.ff_idle_kg_s),
-            Number(r.ff_approach_kg_s),
-            Number(r.ff_climb_out_kg_s),
-            Number(r.ff_take_off_kg_s),
-          ],
-          eiNoxGPerKg: [
-            Number(r.ei_idle_g_kg),
-            Number(r.ei_approach_g_kg),
-            Number(r.ei_climb_out_g_kg),
-            Number(r.ei_take_off_g_kg),
-          ],
-        },
+        engine: ltoOf(r),
         engineCount: Number(r.engine_count),
         mach: Number(r.typical_mach),
       };

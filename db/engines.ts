@@ -63,9 +63,8 @@ export interface LibraryActor {
 type Row = Record<string, unknown>;
 type Db = Knex | Knex.Transaction;
 
-export const engineOf = (r: Row): EngineDto => ({
-  id: Number(r.id),
-  name: String(r.name),
+/** An engine row's four LTO-mode fuel flows (kg/s) and EI NOx (g/kg), idle first. */
+export const ltoOf = (r: Row): { fuelFlowKgS: LtoQuad; eiNoxGPerKg: LtoQuad } => ({
   fuelFlowKgS: [
     Number(r.ff_idle_kg_s),
     Number(r.ff_approach_kg_s),
@@ -78,6 +77,12 @@ export const engineOf = (r: Row): EngineDto => ({
     Number(r.ei_climb_out_g_kg),
     Number(r.ei_take_off_g_kg),
   ],
+});
+
+export const engineOf = (r: Row): EngineDto => ({
+  id: Number(r.id),
+  name: String(r.name),
+  ...ltoOf(r),
   source: String(r.source ?? ''),
   isDemo: Boolean(r.is_demo),
   createdAt: String(r.created_at),

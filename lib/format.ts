@@ -6,6 +6,22 @@ import { KG_PER_LB, KG_PER_TONNE, KM_PER_NM, M_PER_FT, type UnitSystem } from '@
  */
 export { KG_PER_LB, KM_PER_NM, M_PER_FT };
 
+/** Month names, January first. */
+export const MONTH_NAMES = [
+  'January',
+  'February',
+  'March',
+  'April',
+  'May',
+  'June',
+  'July',
+  'August',
+  'September',
+  'October',
+  'November',
+  'December',
+] as const;
+
 const nf = (digits: number) =>
   new Intl.NumberFormat('en-GB', { maximumFractionDigits: digits, minimumFractionDigits: digits });
 

@@ -10,22 +10,10 @@ import { Field } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { ProblemsTable } from '@/components/ui/problems-table';
 import { formatMoney } from '@/lib/format';
+import type { ImportEstimate } from '@/lib/billing/budget';
 
-interface Estimate {
-  rows: number;
-  billableUnits: number;
-  perFlightCents: number;
-  estimatedChargeCents: number;
-  freePeriod: boolean;
-  budget: {
-    budgetCents: number;
-    usageChargeCents: number;
-    afterImportCents: number;
-    hardStop: boolean;
-    wouldExceed: boolean;
-  } | null;
-  warnings: ImportProblem[];
-}
+/** The dry run's answer: what importing the file would cost, and notes on it. */
+type Estimate = ImportEstimate & { rows: number; warnings: ImportProblem[] };
 
 type Outcome =
   | { kind: 'estimate'; estimate: Estimate; file: File }

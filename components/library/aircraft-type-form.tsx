@@ -110,8 +110,8 @@ export function AircraftTypeForm({
             Direct cruise EI NOx
           </label>
         </div>
-        {kind === 'engine' ? (
-          <div className="grid gap-4 sm:grid-cols-[1fr_8rem]">
+        <div className="grid gap-4 sm:grid-cols-[1fr_8rem]">
+          {kind === 'engine' ? (
             <Field
               id={`${p}-engine`}
               label="Engine"
@@ -131,18 +131,7 @@ export function AircraftTypeForm({
                 ))}
               </SelectInput>
             </Field>
-            <Field id={`${p}-count`} label="Engines" error={errors.engineCount?.message} hint="1 to 8">
-              <TextInput
-                id={`${p}-count`}
-                inputMode="numeric"
-                className="figure"
-                invalid={!!errors.engineCount}
-                {...form.register('engineCount', { valueAsNumber: true })}
-              />
-            </Field>
-          </div>
-        ) : (
-          <div className="grid gap-4 sm:grid-cols-[1fr_8rem]">
+          ) : (
             <Field
               id={`${p}-direct`}
               label="Cruise EI NOx (g/kg)"
@@ -157,17 +146,17 @@ export function AircraftTypeForm({
                 {...form.register('directEiGPerKg', { setValueAs: numberOrNull })}
               />
             </Field>
-            <Field id={`${p}-count`} label="Engines" error={errors.engineCount?.message} hint="1 to 8">
-              <TextInput
-                id={`${p}-count`}
-                inputMode="numeric"
-                className="figure"
-                invalid={!!errors.engineCount}
-                {...form.register('engineCount', { valueAsNumber: true })}
-              />
-            </Field>
-          </div>
-        )}
+          )}
+          <Field id={`${p}-count`} label="Engines" error={errors.engineCount?.message} hint="1 to 8">
+            <TextInput
+              id={`${p}-count`}
+              inputMode="numeric"
+              className="figure"
+              invalid={!!errors.engineCount}
+              {...form.register('engineCount', { valueAsNumber: true })}
+            />
+          </Field>
+        </div>
       </fieldset>
       <div className="grid gap-4 sm:grid-cols-2">
         <Field id={`${p}-mach`} label="Typical cruise Mach" error={errors.typicalMach?.message}>

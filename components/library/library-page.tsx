@@ -1,5 +1,6 @@
 import type { ReactNode } from 'react';
 import { Card, EmptyState, PageHeader } from '@/components/ui/card';
+import { TableHead, type HeadColumn } from '@/components/ui/table-head';
 
 const ASIDE_COLUMNS = {
   narrow: 'grid items-start gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(18rem,1fr)]',
@@ -42,7 +43,7 @@ export function countOf(n: number, one: string, many = `${one}s`): string {
   return `${n} ${n === 1 ? one : many}`;
 }
 
-export type ListColumn = { label: ReactNode; right?: boolean; className?: string };
+export type ListColumn = HeadColumn;
 
 /** A library list: the empty state when there is nothing, else a card holding a table with these columns. */
 export function LibraryList({
@@ -56,7 +57,7 @@ export function LibraryList({
   title: ReactNode;
   emptyTitle: string;
   empty: ReactNode;
-  columns: ListColumn[];
+  columns: readonly ListColumn[];
   count: number;
   children: ReactNode;
 }) {
@@ -65,26 +66,7 @@ export function LibraryList({
     <Card title={title}>
       <div className="overflow-x-auto">
         <table className="w-full text-sm">
-          <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
-            <tr>
-              {columns.map((c, i) => (
-                <th
-                  key={i}
-                  scope="col"
-                  className={[
-                    'py-2',
-                    i < columns.length - 1 ? 'pr-3' : '',
-                    c.right ? 'text-right' : '',
-                    c.className ?? '',
-                  ]
-                    .filter(Boolean)
-                    .join(' ')}
-                >
-                  {c.label}
-                </th>
-              ))}
-            </tr>
-          </thead>
+          <TableHead columns={columns} />
           <tbody>{children}</tbody>
         </table>
       </div>

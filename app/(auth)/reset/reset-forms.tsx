@@ -5,6 +5,7 @@ import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { requestPasswordResetAction, resetPasswordAction, type AuthFormState } from '../actions';
 import { FormNotice, usePostedForm } from '@/components/ui/use-action-form';
+import { NewPasswordField } from '../new-password-field';
 
 export function RequestResetForm() {
   const { state, action, pending, fieldError, message } = usePostedForm<AuthFormState>(
@@ -47,21 +48,7 @@ export function NewPasswordForm({ token }: { token: string }) {
     <form action={action} noValidate className="mt-5 space-y-4">
       <FormNotice message={message} />
       <input type="hidden" name="token" value={token} />
-      <Field
-        id="password"
-        label="New password"
-        hint="At least 10 characters; not a common password, a run like 12345, or your name."
-        error={err('password')}
-      >
-        <TextInput
-          id="password"
-          name="password"
-          type="password"
-          autoComplete="new-password"
-          required
-          invalid={!!err('password')}
-        />
-      </Field>
+      <NewPasswordField label="New password" error={err('password')} />
       <Field id="confirm" label="Repeat it" error={err('confirm')}>
         <TextInput
           id="confirm"

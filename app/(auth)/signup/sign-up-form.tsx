@@ -4,6 +4,7 @@ import { Field, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { signUpAction, type AuthFormState } from '../actions';
 import { FormNotice, usePostedForm } from '@/components/ui/use-action-form';
+import { NewPasswordField } from '../new-password-field';
 
 /** Posted as an ordinary form (a server action): works before the script loads, and the password never lands in a URL. */
 export function SignUpForm({ invitationToken, invitedEmail }: { invitationToken?: string; invitedEmail?: string }) {
@@ -38,21 +39,7 @@ export function SignUpForm({ invitationToken, invitedEmail }: { invitationToken?
           key={`e${k}`}
         />
       </Field>
-      <Field
-        id="password"
-        label="Password"
-        hint="At least 10 characters; not a common password, a run like 12345, or your name."
-        error={err('password')}
-      >
-        <TextInput
-          id="password"
-          name="password"
-          type="password"
-          autoComplete="new-password"
-          required
-          invalid={!!err('password')}
-        />
-      </Field>
+      <NewPasswordField label="Password" error={err('password')} />
       {invitationToken ? null : (
         <Field
           id="workspaceName"
