@@ -9,7 +9,6 @@ import { formatAltitude, formatNumber, MONTH_NAMES } from '@/lib/format';
 import { ModeSwitch, Section } from './screen-form-parts';
 import type { SoundingChoice } from './screen-form-types';
 
-
 /** Flight date or month, and the tropopause: climatology, a given altitude or pressure, or a stored sounding. */
 export function TropopauseSection({
   form,
