@@ -1,7 +1,12 @@
 import 'server-only';
 import type { Knex } from 'knex';
 import { db } from './client';
-import type { ScreeningInput } from '@/lib/validation/screening';
+import { ltoOf, type LtoQuad } from './engines';
+
+/** An aircraft type's emission block, in the engine input's shape: engine certification data, or a direct EI. */
+export type AircraftEmission =
+  | { engine: { fuelFlowKgS: LtoQuad; eiNoxGPerKg: LtoQuad }; engineCount: number; mach: number }
+  | { eiNoxGPerKg: number };
 
 export interface AircraftForScreening {
   id: number;
@@ -11,7 +16,7 @@ export interface AircraftForScreening {
   typicalFlightLevel: number;
   defaultFleetId: number | null;
   /** The emission block a screening uses for this type: engine certification data, or its direct EI. */
-  emission: ScreeningInput['emission'] | null;
+  emission: AircraftEmission | null;
 }
 
 /** Aircraft types of a workspace with what screening needs of each, keyed by upper-case code. */
@@ -39,25 +44,12 @@ export async function listAircraftForScreening(
     let emission: AircraftForScreening['emission'] = null;
     if (r.eid) {
       emission = {
-        engine: {
-          fuelFlowKgS: [
-            Number(r.ff_idle_kg_s),
-            Number(r.ff_approach_kg_s),
-            Number(r.ff_climb_out_kg_s),
-            Number(r.ff_take_off_kg_s),
-          ],
-          eiNoxGPerKg: [
-            Number(r.ei_idle_g_kg),
-            Number(r.ei_approach_g_kg),
-            Number(r.ei_climb_out_g_kg),
-            Number(r.ei_take_off_g_kg),
-          ],
-        },
+        engine: ltoOf(r),
         engineCount: Number(r.engine_count),
         mach: Number(r.typical_mach),
-      } as ScreeningInput['emission'];
+      };
     } else if (r.direct_ei_g_kg !== null && r.direct_ei_g_kg !== undefined) {
-      emission = { eiNoxGPerKg: Number(r.direct_ei_g_kg) } as ScreeningInput['emission'];
+      emission = { eiNoxGPerKg: Number(r.direct_ei_g_kg) };
     }
     out.set(String(r.code).toUpperCase(), {
       id: Number(r.id),

@@ -1,9 +1,8 @@
 import 'server-only';
+import type { Knex } from 'knex';
 import { db, insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
-import { newApiKey, sha256Hex } from '@/lib/auth/tokens';
-import type { Role } from '@/lib/auth/policy';
-import { can, isRole, ROLES } from '@/lib/auth/policy';
+import { isRole, type Role } from '@/lib/auth/roles';
 import { notFound } from '@/lib/errors';
 
 export interface ApiKeyDto {
@@ -24,41 +23,48 @@ const toDto = (r: Record<string, unknown>): ApiKeyDto => ({
   lastUsedAt: (r.last_used_at as string | null) ?? null,
 });
 
-/** Creates a key; the plain key is returned once and only its hash is kept. */
-export async function createApiKey(
+/** Stores a new key by its prefix and hash (the plain key is never stored), and audits it. */
+export async function insertApiKey(
+  trx: Knex.Transaction,
   scope: { workspaceId: number },
-  input: { name: string; role: Role; createdBy: number; actor: string; ip?: string | null },
-): Promise<ApiKeyDto & { key: string }> {
-  const { key, prefix, hash } = newApiKey();
-  return writeTx(async (trx) => {
-    const now = nowIso();
-    const id = await insertId(
-      trx('api_keys')
-        .insert({
-          workspace_id: scope.workspaceId,
-          name: input.name.trim(),
-          role: input.role,
-          key_prefix: prefix,
-          key_hash: hash,
-          created_by: input.createdBy,
-          created_at: now,
-        })
-        .returning('id'),
-    );
-    await createAuditEntry(
-      {
-        workspaceId: scope.workspaceId,
-        userId: input.createdBy,
-        actor: input.actor,
-        action: 'apikey.created',
-        target: `${input.name} (${prefix}…)`,
-        detail: { role: input.role },
-        ip: input.ip,
-      },
-      trx,
-    );
-    return { id, name: input.name.trim(), role: input.role, prefix, createdAt: now, lastUsedAt: null, key };
-  });
+  input: {
+    name: string;
+    role: Role;
+    prefix: string;
+    hash: string;
+    createdBy: number;
+    actor: string;
+    ip?: string | null;
+  },
+): Promise<ApiKeyDto> {
+  const { prefix, hash } = input;
+  const now = nowIso();
+  const id = await insertId(
+    trx('api_keys')
+      .insert({
+        workspace_id: scope.workspaceId,
+        name: input.name.trim(),
+        role: input.role,
+        key_prefix: prefix,
+        key_hash: hash,
+        created_by: input.createdBy,
+        created_at: now,
+      })
+      .returning('id'),
+  );
+  await createAuditEntry(
+    {
+      workspaceId: scope.workspaceId,
+      userId: input.createdBy,
+      actor: input.actor,
+      action: 'apikey.created',
+      target: `${input.name} (${prefix}…)`,
+      detail: { role: input.role },
+      ip: input.ip,
+    },
+    trx,
+  );
+  return { id, name: input.name.trim(), role: input.role, prefix, createdAt: now, lastUsedAt: null };
 }
 
 export async function listApiKeys(scope: { workspaceId: number }): Promise<ApiKeyDto[]> {
@@ -100,21 +106,18 @@ export interface ApiKeyPrincipal {
 
 const lastTouched = new Map<number, number>();
 
-/** Roles whose holders may make keys: a key lives only while its creator still holds one of them here. */
-const KEY_MAKER_ROLES = ROLES.filter((r) => can(r, 'apikeys:manage'));
-
 /**
- * Resolves a presented key to its workspace and role; revoked or unknown keys give null, and so does a
- * key whose creator has left the workspace or no longer holds the permission that made it.
+ * Resolves a key's hash to its workspace and role; revoked or unknown keys give null, and so does a
+ * key whose creator has left the workspace or no longer holds one of `makerRoles`.
  */
-export async function findApiKey(key: string): Promise<ApiKeyPrincipal | null> {
+export async function findApiKeyByHash(keyHash: string, makerRoles: readonly Role[]): Promise<ApiKeyPrincipal | null> {
   const r = await db()('api_keys as k')
     .join('workspaces as w', 'w.id', 'k.workspace_id')
     .join('memberships as m', function () {
       this.on('m.workspace_id', '=', 'k.workspace_id').andOn('m.user_id', '=', 'k.created_by');
     })
-    .whereIn('m.role', KEY_MAKER_ROLES)
-    .where('k.key_hash', sha256Hex(key))
+    .whereIn('m.role', makerRoles)
+    .where('k.key_hash', keyHash)
     .whereNull('k.revoked_at')
     .select('k.id', 'k.name', 'k.role', 'w.id as wid', 'w.slug', 'w.name as wname')
     .first();

@@ -1,7 +1,10 @@
 import 'server-only';
 import type { Knex } from 'knex';
-import { db, nowIso, writeTx } from './client';
-import { DEFAULT_PLAN_ID, TRIAL_DAYS, isPlanId, type PlanId } from '@/lib/billing/plans';
+import { db, nowIso } from './client';
+import { DEFAULT_PLAN_ID, PLAN_IDS, type PlanId } from '@/lib/billing/plan-catalogue';
+
+const isPlanId = (value: unknown): value is PlanId =>
+  typeof value === 'string' && (PLAN_IDS as readonly string[]).includes(value);
 
 export const BILLING_STATUSES = ['trialing', 'active', 'past_due', 'canceled'] as const;
 export type BillingStatus = (typeof BILLING_STATUSES)[number];
@@ -87,21 +90,17 @@ function toDto(r: Row): BillingDto {
   };
 }
 
-function trialEnd(startIso: string): string {
-  return new Date(Date.parse(startIso) + TRIAL_DAYS * 86_400_000).toISOString();
-}
-
-/** Every new workspace starts a free trial of the default plan, written in the transaction that creates it. */
-export async function startTrialBilling(
-  workspace: { id: number; createdAt: string },
+/** Writes a workspace's first billing state, a trial (kept as it is when the workspace already has one). */
+export async function insertTrialBilling(
   trx: Knex.Transaction,
+  input: { workspaceId: number; planId: PlanId; trialEndsAt: string },
 ): Promise<void> {
   await trx('workspace_billing')
     .insert({
-      workspace_id: workspace.id,
-      plan_id: DEFAULT_PLAN_ID,
+      workspace_id: input.workspaceId,
+      plan_id: input.planId,
       status: 'trialing',
-      trial_ends_at: trialEnd(workspace.createdAt),
+      trial_ends_at: input.trialEndsAt,
       cancel_at_period_end: false,
       updated_at: nowIso(),
     })
@@ -112,24 +111,6 @@ export async function startTrialBilling(
 export async function getBilling(scope: { workspaceId: number }, trx: Trx = db()): Promise<BillingDto | null> {
   const r = await trx('workspace_billing').where({ workspace_id: scope.workspaceId }).first();
   return r ? toDto(r) : null;
-}
-
-/**
- * The workspace's billing state; a workspace made before billing existed gets the trial it would have
- * had, counted from its creation.
- */
-export async function ensureBilling(scope: { workspaceId: number }): Promise<BillingDto> {
-  const existing = await getBilling(scope);
-  if (existing) return existing;
-  return writeTx(async (trx) => {
-    const w = await trx('workspaces').where({ id: scope.workspaceId }).first();
-    if (w) {
-      await startTrialBilling({ id: Number(w.id), createdAt: String(w.created_at) }, trx);
-    }
-    const row = await getBilling(scope, trx);
-    if (!row) throw new Error(`workspace ${scope.workspaceId} has no billing row`);
-    return row;
-  });
 }
 
 export interface BillingPatch {

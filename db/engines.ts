@@ -4,10 +4,29 @@ import { db, insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
 import { clearRollupKey } from './flight-rollups';
 import { conflict, invalidFields, notFound, type FieldProblem } from '@/lib/errors';
-import type { AircraftTypeSave, EngineSave } from '@/lib/validation/library';
 
 /** Four values in the ICAO LTO mode order: idle 7 %, approach 30 %, climb-out 85 %, take-off 100 %. */
 export type LtoQuad = [number, number, number, number];
+
+/** An engine to store, as `engineSaveSchema` gives it. */
+export interface EngineSave {
+  name: string;
+  fuelFlowKgS: LtoQuad;
+  eiNoxGPerKg: LtoQuad;
+  source: string;
+}
+
+/** An aircraft type to store, as `aircraftTypeSaveSchema` gives it (code in capitals). */
+export interface AircraftTypeSave {
+  code: string;
+  name: string;
+  engineId: number | null;
+  directEiGPerKg: number | null;
+  engineCount: number;
+  typicalMach: number;
+  typicalFlightLevel: number;
+  defaultFleetId: number | null;
+}
 
 export interface EngineDto {
   id: number;
@@ -45,9 +64,8 @@ export interface LibraryActor {
 type Row = Record<string, unknown>;
 type Db = Knex | Knex.Transaction;
 
-export const engineOf = (r: Row): EngineDto => ({
-  id: Number(r.id),
-  name: String(r.name),
+/** An engine row's four LTO-mode fuel flows (kg/s) and EI NOx (g/kg), idle first. */
+export const ltoOf = (r: Row): { fuelFlowKgS: LtoQuad; eiNoxGPerKg: LtoQuad } => ({
   fuelFlowKgS: [
     Number(r.ff_idle_kg_s),
     Number(r.ff_approach_kg_s),
@@ -60,6 +78,12 @@ export const engineOf = (r: Row): EngineDto => ({
     Number(r.ei_climb_out_g_kg),
     Number(r.ei_take_off_g_kg),
   ],
+});
+
+export const engineOf = (r: Row): EngineDto => ({
+  id: Number(r.id),
+  name: String(r.name),
+  ...ltoOf(r),
   source: String(r.source ?? ''),
   isDemo: Boolean(r.is_demo),
   createdAt: String(r.created_at),

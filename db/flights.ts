@@ -2,7 +2,6 @@ import 'server-only';
 import type { Knex } from 'knex';
 import { db } from './client';
 import { splitByWholeMonths } from './flight-rollups';
-import type { FlightListQuery } from '@/lib/validation/imports';
 
 export type FlightStatus = 'pending' | 'screened' | 'failed';
 /** A schedule row (planned) or an imported track (flown). */
@@ -34,6 +33,19 @@ export interface FlightDto {
   engineVersion: string | null;
   /** The import's warning when the fuel is unusual for the distance, else null. */
   fuelWarning: string | null;
+}
+
+/** The flight list's filters and page, as `flightListQuerySchema` gives them. */
+export interface FlightListQuery {
+  import?: number;
+  from?: string;
+  to?: string;
+  fleet?: number;
+  aircraft?: string;
+  /** planned (schedule) or flown (imported track); both when absent. */
+  basis?: FlightBasis;
+  cursor?: string;
+  limit?: number;
 }
 
 export type FlightFilters = Omit<FlightListQuery, 'cursor' | 'limit'>;

@@ -4,8 +4,26 @@ import { db, insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
 import type { LibraryActor } from './engines';
 import { notFound } from '@/lib/errors';
-import type { RouteLibrary } from '@/lib/screening';
-import type { AirwayRow, FixRow } from '@/lib/validation/route-library';
+
+/** A fix to save, as `fixRowSchema` gives it. */
+export interface FixRow {
+  name: string;
+  lat: number;
+  lon: number;
+  region?: string;
+}
+
+/** An airway to save, as `airwayRowSchema` gives it: its designator and its fix names in order. */
+export interface AirwayRow {
+  name: string;
+  fixes: string[];
+}
+
+/** A workspace's fixes and airways in the shape the flight-plan reader takes (`RouteLibrary` of the engine). */
+export interface RouteLibraryData {
+  fixes: { name: string; lat: number; lon: number; region: string | null }[];
+  airways: { name: string; fixes: string[] }[];
+}
 
 /** A named point of the workspace's fix library (degrees, WGS-84). `region` is '' when none. */
 export interface FixDto {
@@ -85,7 +103,7 @@ export async function listAirways(
 }
 
 /** Everything a flight-plan route of this workspace may name: its fixes and airways. */
-export async function loadRouteLibrary(scope: { workspaceId: number }, trx: Db = db()): Promise<RouteLibrary> {
+export async function loadRouteLibrary(scope: { workspaceId: number }, trx: Db = db()): Promise<RouteLibraryData> {
   const [fixes, airways] = await Promise.all([listFixes(scope, {}, trx), listAirways(scope, {}, trx)]);
   return {
     fixes: fixes.map((f) => ({ name: f.name, lat: f.lat, lon: f.lon, region: f.region || null })),

@@ -2,7 +2,8 @@ import 'server-only';
 import type { Knex } from 'knex';
 import { db, insertId, nowIso } from './client';
 
-export type UnitSystem = 'metric' | 'imperial';
+import type { UnitSystem } from '@/lib/units';
+export type { UnitSystem };
 
 export interface UserDto {
   id: number;

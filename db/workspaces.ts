@@ -2,12 +2,9 @@ import 'server-only';
 import type { Knex } from 'knex';
 import { db, insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
-import type { Role } from '@/lib/auth/policy';
-import { can, isRole } from '@/lib/auth/policy';
+import { isRole, type Role } from '@/lib/auth/roles';
 import { conflict, notFound } from '@/lib/errors';
-import { randomToken, sha256Hex } from '@/lib/auth/tokens';
 import { normaliseEmail } from './users';
-import { startTrialBilling } from './billing';
 
 export interface WorkspaceDto {
   id: number;
@@ -52,6 +49,11 @@ export async function getMembership(scope: { userId: number; slug: string }): Pr
   return r ? { workspace: wsDto(r), role: roleOf(r.role) } : null;
 }
 
+export async function getWorkspaceById(id: number, trx: Knex | Knex.Transaction = db()): Promise<WorkspaceDto | null> {
+  const r = await trx('workspaces').where({ id }).first();
+  return r ? wsDto(r) : null;
+}
+
 export async function getWorkspaceBySlug(slug: string): Promise<WorkspaceDto | null> {
   const r = await db()('workspaces').where({ slug }).first();
   return r ? wsDto(r) : null;
@@ -68,48 +70,42 @@ export function slugify(name: string): string {
   return base.length >= 2 ? base : `workspace-${base}`.replace(/-+$/, '');
 }
 
-export async function createWorkspace(input: {
-  name: string;
-  slug?: string;
-  ownerId: number;
-  actor?: string;
-  ip?: string | null;
-}): Promise<WorkspaceDto> {
-  return writeTx(async (trx) => {
-    let slug = input.slug ?? slugify(input.name);
-    if (input.slug) {
-      if (await trx('workspaces').where({ slug }).first()) {
-        throw conflict('That address is taken; choose another.', [
-          { path: 'slug', message: 'This address is already in use.' },
-        ]);
-      }
-    } else {
-      const base = slug;
-      for (let n = 2; await trx('workspaces').where({ slug }).first(); n++) slug = `${base}-${n}`;
+/** Inserts the workspace (its slug free, or made from the name and numbered) with its owner, and audits it. */
+export async function insertWorkspace(
+  trx: Knex.Transaction,
+  input: { name: string; slug?: string; ownerId: number; actor?: string; ip?: string | null },
+): Promise<WorkspaceDto> {
+  let slug = input.slug ?? slugify(input.name);
+  if (input.slug) {
+    if (await trx('workspaces').where({ slug }).first()) {
+      throw conflict('That address is taken; choose another.', [
+        { path: 'slug', message: 'This address is already in use.' },
+      ]);
     }
-    const now = nowIso();
-    const id = await insertId(
-      trx('workspaces')
-        .insert({ slug, name: input.name.trim(), created_by: input.ownerId, created_at: now })
-        .returning('id'),
-    );
-    await trx('memberships').insert({ workspace_id: id, user_id: input.ownerId, role: 'owner', created_at: now });
-    const ws: WorkspaceDto = { id, slug, name: input.name.trim(), createdAt: now };
-    // Every new workspace starts on a free trial: billing state written in the creating transaction.
-    await startTrialBilling(ws, trx);
-    await createAuditEntry(
-      {
-        workspaceId: id,
-        userId: input.ownerId,
-        actor: input.actor,
-        action: 'workspace.created',
-        target: slug,
-        ip: input.ip,
-      },
-      trx,
-    );
-    return ws;
-  });
+  } else {
+    const base = slug;
+    for (let n = 2; await trx('workspaces').where({ slug }).first(); n++) slug = `${base}-${n}`;
+  }
+  const now = nowIso();
+  const id = await insertId(
+    trx('workspaces')
+      .insert({ slug, name: input.name.trim(), created_by: input.ownerId, created_at: now })
+      .returning('id'),
+  );
+  await trx('memberships').insert({ workspace_id: id, user_id: input.ownerId, role: 'owner', created_at: now });
+  const ws: WorkspaceDto = { id, slug, name: input.name.trim(), createdAt: now };
+  await createAuditEntry(
+    {
+      workspaceId: id,
+      userId: input.ownerId,
+      actor: input.actor,
+      action: 'workspace.created',
+      target: slug,
+      ip: input.ip,
+    },
+    trx,
+  );
+  return ws;
 }
 
 export interface MemberDto {
@@ -142,47 +138,44 @@ async function ownerCount(trx: Knex.Transaction, workspaceId: number): Promise<n
   return Number(r[0]?.n ?? 0);
 }
 
-export async function changeMemberRole(
+/**
+ * Changes a member's role (never the last owner's); `keepsKeys` false revokes the keys the member made.
+ * Sessions started under the old role end.
+ */
+export async function updateMemberRole(
+  trx: Knex.Transaction,
   scope: { workspaceId: number },
-  input: { userId: number; role: Role; actorId: number; actor: string; ip?: string | null },
+  input: { userId: number; role: Role; keepsKeys: boolean; actorId: number; actor: string; ip?: string | null },
 ): Promise<void> {
-  await writeTx(async (trx) => {
-    const m = await trx('memberships').where({ workspace_id: scope.workspaceId, user_id: input.userId }).first();
-    if (!m) throw notFound('That person is not a member of this workspace.');
-    if (m.role === 'owner' && input.role !== 'owner' && (await ownerCount(trx, scope.workspaceId)) <= 1) {
-      throw conflict('A workspace needs at least one owner. Make someone else owner first.', [
-        { path: 'role', message: 'The last owner cannot change to another role.' },
-      ]);
-    }
-    await trx('memberships').where({ id: m.id }).update({ role: input.role });
-    if (!can(input.role, 'apikeys:manage')) {
-      await revokeKeysMadeBy(
-        trx,
-        scope.workspaceId,
-        input.userId,
-        `its creator's role changed to ${input.role}`,
-        input,
-      );
-    }
-    // Permissions are re-read on every request; the version bump also ends sessions started under the old role.
-    await trx('users').where({ id: input.userId }).increment('session_version', 1);
-    await createAuditEntry(
-      {
-        workspaceId: scope.workspaceId,
-        userId: input.actorId,
-        actor: input.actor,
-        action: 'member.role_changed',
-        target: String(input.userId),
-        detail: { from: m.role, to: input.role },
-        ip: input.ip,
-      },
-      trx,
-    );
-  });
+  const m = await trx('memberships').where({ workspace_id: scope.workspaceId, user_id: input.userId }).first();
+  if (!m) throw notFound('That person is not a member of this workspace.');
+  if (m.role === 'owner' && input.role !== 'owner' && (await ownerCount(trx, scope.workspaceId)) <= 1) {
+    throw conflict('A workspace needs at least one owner. Make someone else owner first.', [
+      { path: 'role', message: 'The last owner cannot change to another role.' },
+    ]);
+  }
+  await trx('memberships').where({ id: m.id }).update({ role: input.role });
+  if (!input.keepsKeys) {
+    await revokeKeysMadeBy(trx, scope.workspaceId, input.userId, `its creator's role changed to ${input.role}`, input);
+  }
+  // Permissions are re-read on every request; the version bump also ends sessions started under the old role.
+  await trx('users').where({ id: input.userId }).increment('session_version', 1);
+  await createAuditEntry(
+    {
+      workspaceId: scope.workspaceId,
+      userId: input.actorId,
+      actor: input.actor,
+      action: 'member.role_changed',
+      target: String(input.userId),
+      detail: { from: m.role, to: input.role },
+      ip: input.ip,
+    },
+    trx,
+  );
 }
 
 /** A member's API keys end with the member's access to make them; each revocation is in the audit log. */
-async function revokeKeysMadeBy(
+export async function revokeKeysMadeBy(
   trx: Knex.Transaction,
   workspaceId: number,
   userId: number,
@@ -252,60 +245,63 @@ export interface InvitationDto {
   createdAt: string;
 }
 
-export const INVITATION_DAYS = 7;
-
-/** Creates an invitation and returns its one-time token (only its hash is stored). */
-export async function createInvitation(
+/** Writes an invitation (replacing an open one for the same address); only the token's hash is stored. */
+export async function insertInvitation(
+  trx: Knex.Transaction,
   scope: { workspaceId: number },
-  input: { email: string; role: Role; invitedBy: number; actor: string; ip?: string | null },
-): Promise<{ invitation: InvitationDto; token: string }> {
+  input: {
+    email: string;
+    role: Role;
+    tokenHash: string;
+    expiresAt: string;
+    invitedBy: number;
+    actor: string;
+    ip?: string | null;
+  },
+): Promise<InvitationDto> {
   const email = normaliseEmail(input.email);
-  return writeTx(async (trx) => {
-    const existing = await trx('memberships as m')
-      .join('users as u', 'u.id', 'm.user_id')
-      .where({ 'm.workspace_id': scope.workspaceId, 'u.email': email })
-      .first();
-    if (existing) {
-      throw conflict('That person is already a member of this workspace.', [
-        { path: 'email', message: 'Already a member; change their role in the list instead.' },
-      ]);
-    }
-    const now = new Date();
-    // A newer invitation replaces an open one for the same address.
-    await trx('invitations')
-      .where({ workspace_id: scope.workspaceId, email })
-      .whereNull('accepted_at')
-      .whereNull('revoked_at')
-      .update({ revoked_at: now.toISOString() });
-    const token = randomToken();
-    const expiresAt = new Date(now.getTime() + INVITATION_DAYS * 86_400_000).toISOString();
-    const id = await insertId(
-      trx('invitations')
-        .insert({
-          workspace_id: scope.workspaceId,
-          email,
-          role: input.role,
-          token_hash: sha256Hex(token),
-          invited_by: input.invitedBy,
-          expires_at: expiresAt,
-          created_at: now.toISOString(),
-        })
-        .returning('id'),
-    );
-    await createAuditEntry(
-      {
-        workspaceId: scope.workspaceId,
-        userId: input.invitedBy,
-        actor: input.actor,
-        action: 'member.invited',
-        target: email,
-        detail: { role: input.role },
-        ip: input.ip,
-      },
-      trx,
-    );
-    return { invitation: { id, email, role: input.role, expiresAt, createdAt: now.toISOString() }, token };
-  });
+  const existing = await trx('memberships as m')
+    .join('users as u', 'u.id', 'm.user_id')
+    .where({ 'm.workspace_id': scope.workspaceId, 'u.email': email })
+    .first();
+  if (existing) {
+    throw conflict('That person is already a member of this workspace.', [
+      { path: 'email', message: 'Already a member; change their role in the list instead.' },
+    ]);
+  }
+  const now = nowIso();
+  // A newer invitation replaces an open one for the same address.
+  await trx('invitations')
+    .where({ workspace_id: scope.workspaceId, email })
+    .whereNull('accepted_at')
+    .whereNull('revoked_at')
+    .update({ revoked_at: now });
+  const id = await insertId(
+    trx('invitations')
+      .insert({
+        workspace_id: scope.workspaceId,
+        email,
+        role: input.role,
+        token_hash: input.tokenHash,
+        invited_by: input.invitedBy,
+        expires_at: input.expiresAt,
+        created_at: now,
+      })
+      .returning('id'),
+  );
+  await createAuditEntry(
+    {
+      workspaceId: scope.workspaceId,
+      userId: input.invitedBy,
+      actor: input.actor,
+      action: 'member.invited',
+      target: email,
+      detail: { role: input.role },
+      ip: input.ip,
+    },
+    trx,
+  );
+  return { id, email, role: input.role, expiresAt: input.expiresAt, createdAt: now };
 }
 
 export async function listOpenInvitations(scope: { workspaceId: number }): Promise<InvitationDto[]> {
@@ -336,10 +332,10 @@ export type InvitationLookup =
   | { state: 'open'; id: number; email: string; role: Role; workspace: WorkspaceDto }
   | { state: 'expired' | 'used' | 'unknown' };
 
-export async function getInvitationByToken(token: string): Promise<InvitationLookup> {
+export async function getInvitationByTokenHash(tokenHash: string): Promise<InvitationLookup> {
   const r = await db()('invitations as i')
     .join('workspaces as w', 'w.id', 'i.workspace_id')
-    .where('i.token_hash', sha256Hex(token))
+    .where('i.token_hash', tokenHash)
     .select('i.*', 'w.slug', 'w.name as workspace_name', 'w.created_at as workspace_created_at')
     .first();
   if (!r || r.revoked_at) return { state: 'unknown' };
@@ -355,46 +351,40 @@ export async function getInvitationByToken(token: string): Promise<InvitationLoo
 }
 
 /** Accepts an open invitation for the signed-in user; the invitation's address must be theirs. */
-export async function acceptInvitation(input: {
-  token: string;
-  userId: number;
-  email: string;
-  ip?: string | null;
-}): Promise<WorkspaceDto> {
-  return writeTx(async (trx) => {
-    const r = await trx('invitations')
-      .where({ token_hash: sha256Hex(input.token) })
-      .first();
-    if (!r || r.revoked_at) throw notFound('This invitation does not exist or was withdrawn.');
-    if (r.accepted_at) throw conflict('This invitation has already been used.');
-    if (r.expires_at <= nowIso()) throw conflict('This invitation has expired; ask for a new one.');
-    if (normaliseEmail(input.email) !== r.email) {
-      throw conflict(`This invitation was sent to ${r.email}. Sign in with that address to accept it.`);
-    }
-    const now = nowIso();
-    const already = await trx('memberships').where({ workspace_id: r.workspace_id, user_id: input.userId }).first();
-    if (!already) {
-      await trx('memberships').insert({
-        workspace_id: r.workspace_id,
-        user_id: input.userId,
-        role: r.role,
-        created_at: now,
-      });
-    }
-    await trx('invitations').where({ id: r.id }).update({ accepted_at: now });
-    await createAuditEntry(
-      {
-        workspaceId: r.workspace_id,
-        userId: input.userId,
-        actor: r.email,
-        action: 'member.joined',
-        target: r.email,
-        detail: { role: r.role },
-        ip: input.ip,
-      },
-      trx,
-    );
-    const w = await trx('workspaces').where({ id: r.workspace_id }).first();
-    return wsDto(w);
-  });
+export async function acceptInvitationByHash(
+  trx: Knex.Transaction,
+  input: { tokenHash: string; userId: number; email: string; ip?: string | null },
+): Promise<WorkspaceDto> {
+  const r = await trx('invitations').where({ token_hash: input.tokenHash }).first();
+  if (!r || r.revoked_at) throw notFound('This invitation does not exist or was withdrawn.');
+  if (r.accepted_at) throw conflict('This invitation has already been used.');
+  if (r.expires_at <= nowIso()) throw conflict('This invitation has expired; ask for a new one.');
+  if (normaliseEmail(input.email) !== r.email) {
+    throw conflict(`This invitation was sent to ${r.email}. Sign in with that address to accept it.`);
+  }
+  const now = nowIso();
+  const already = await trx('memberships').where({ workspace_id: r.workspace_id, user_id: input.userId }).first();
+  if (!already) {
+    await trx('memberships').insert({
+      workspace_id: r.workspace_id,
+      user_id: input.userId,
+      role: r.role,
+      created_at: now,
+    });
+  }
+  await trx('invitations').where({ id: r.id }).update({ accepted_at: now });
+  await createAuditEntry(
+    {
+      workspaceId: r.workspace_id,
+      userId: input.userId,
+      actor: r.email,
+      action: 'member.joined',
+      target: r.email,
+      detail: { role: r.role },
+      ip: input.ip,
+    },
+    trx,
+  );
+  const w = await trx('workspaces').where({ id: r.workspace_id }).first();
+  return wsDto(w);
 }

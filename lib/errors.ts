@@ -1,5 +1,6 @@
 import { ZodError } from 'zod';
 import { log } from './log';
+import type { FieldProblem } from '@/lib/validation/problems';
 
 /**
  * The catalogue of application errors. Each carries its HTTP status and a message that is safe to
@@ -18,10 +19,7 @@ export type ErrorCode =
   | 'unavailable'
   | 'internal';
 
-export interface FieldProblem {
-  path: string;
-  message: string;
-}
+export type { FieldProblem } from '@/lib/validation/problems';
 
 const STATUS: Record<ErrorCode, number> = {
   bad_request: 400,

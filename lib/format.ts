@@ -1,12 +1,26 @@
-import type { UnitSystem } from '@/db/users';
+import { KG_PER_LB, KG_PER_TONNE, KM_PER_NM, M_PER_FT, type UnitSystem } from '@/lib/units';
 
 /**
  * Display formatting with the user's unit preference. Stored and computed values are always SI
  * (km, m, kg); only display converts.
  */
-export const KM_PER_NM = 1.852;
-export const M_PER_FT = 0.3048;
-export const KG_PER_LB = 0.45359237;
+export { KG_PER_LB, KM_PER_NM, M_PER_FT };
+
+/** Month names, January first. */
+export const MONTH_NAMES = [
+  'January',
+  'February',
+  'March',
+  'April',
+  'May',
+  'June',
+  'July',
+  'August',
+  'September',
+  'October',
+  'November',
+  'December',
+] as const;
 
 const nf = (digits: number) =>
   new Intl.NumberFormat('en-GB', { maximumFractionDigits: digits, minimumFractionDigits: digits });
@@ -29,7 +43,7 @@ export function formatMass(kg: number, units: UnitSystem, digits?: number): stri
     const lb = kg / KG_PER_LB;
     return `${formatNumber(lb, digits ?? (lb < 10 ? 2 : 0))} lb`;
   }
-  if (Math.abs(kg) >= 10_000) return `${formatNumber(kg / 1000, digits ?? 1)} t`;
+  if (Math.abs(kg) >= 10_000) return `${formatNumber(kg / KG_PER_TONNE, digits ?? 1)} t`;
   return `${formatNumber(kg, digits ?? (Math.abs(kg) < 10 ? 2 : 0))} kg`;
 }
 
@@ -45,7 +59,8 @@ export function formatMassRange(lowKg: number, highKg: number, units: UnitSystem
     return `${formatNumber(lo, d)}${separator}${formatNumber(hi, d)} lb`;
   }
   const top = Math.max(Math.abs(lowKg), Math.abs(highKg));
-  if (top >= 10_000) return `${formatNumber(lowKg / 1000, 1)}${separator}${formatNumber(highKg / 1000, 1)} t`;
+  if (top >= 10_000)
+    return `${formatNumber(lowKg / KG_PER_TONNE, 1)}${separator}${formatNumber(highKg / KG_PER_TONNE, 1)} t`;
   const d = top < 10 ? 2 : 0;
   return `${formatNumber(lowKg, d)}${separator}${formatNumber(highKg, d)} kg`;
 }

@@ -17,6 +17,7 @@ import {
 import { Scatter } from 'react-chartjs-2';
 import type { UnitSystem } from '@/db/users';
 import { useChartFont } from './use-chart-font';
+import { M_PER_FT } from '@/lib/units';
 
 ChartJS.register(ScatterController, LineElement, PointElement, LinearScale, LogarithmicScale, Tooltip, Legend);
 
@@ -27,7 +28,6 @@ const TROPOPAUSE = '#9a5a12';
 const INK = '#16233b';
 const ISA_GREY = '#6b7487';
 const GRID = '#e4e4dc';
-const M_PER_FT = 0.3048;
 
 /** One point of a profile: geopotential altitude (m), pressure (hPa), temperature (K). */
 export interface ProfilePoint {

@@ -9,7 +9,7 @@ import type { ActionState } from '@/lib/errors';
 import { formatDateTime, formatNumber } from '@/lib/format';
 import { Button, buttonClass } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
-import { ImportProblemsTable } from './problems-table';
+import { ProblemsTable } from '@/components/ui/problems-table';
 
 const POLL_MS = 1000;
 const isActive = (i: ImportDto | undefined) =>
@@ -297,7 +297,7 @@ function ImportItem({
               {imp.problemCount} note{imp.problemCount === 1 ? '' : 's'} on this import
             </summary>
             <div className="mt-2">
-              <ImportProblemsTable
+              <ProblemsTable
                 problems={imp.problems}
                 total={imp.problemCount}
                 caption={`Notes on import ${imp.id}`}

@@ -7,7 +7,7 @@ import type { ImportProblem } from '@/lib/validation/imports';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
-import { ImportProblemsTable } from './problems-table';
+import { ProblemsTable } from '@/components/ui/problems-table';
 
 type Outcome =
   | { kind: 'accepted'; flights: number; points: number }
@@ -125,11 +125,7 @@ export function TrackUploadForm({ slug }: { slug: string }) {
             <Notice tone="danger" role="alert" title="Nothing was imported">
               {outcome.message}
             </Notice>
-            <ImportProblemsTable
-              problems={outcome.problems}
-              total={outcome.total}
-              caption="Problems in the track file"
-            />
+            <ProblemsTable problems={outcome.problems} total={outcome.total} caption="Problems in the track file" />
           </div>
         ) : null}
         {outcome?.kind === 'error' ? (

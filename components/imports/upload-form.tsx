@@ -8,24 +8,12 @@ import type { ImportProblem } from '@/lib/validation/imports';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
-import { ImportProblemsTable } from './problems-table';
+import { ProblemsTable } from '@/components/ui/problems-table';
 import { formatMoney } from '@/lib/format';
+import type { ImportEstimate } from '@/lib/billing/budget';
 
-interface Estimate {
-  rows: number;
-  billableUnits: number;
-  perFlightCents: number;
-  estimatedChargeCents: number;
-  freePeriod: boolean;
-  budget: {
-    budgetCents: number;
-    usageChargeCents: number;
-    afterImportCents: number;
-    hardStop: boolean;
-    wouldExceed: boolean;
-  } | null;
-  warnings: ImportProblem[];
-}
+/** The dry run's answer: what importing the file would cost, and notes on it. */
+type Estimate = ImportEstimate & { rows: number; warnings: ImportProblem[] };
 
 type Outcome =
   | { kind: 'estimate'; estimate: Estimate; file: File }
@@ -205,11 +193,7 @@ export function UploadForm({ slug, aside }: { slug: string; aside?: ReactNode })
             {outcome.imp.problems.length ? (
               <div className="mt-3">
                 <p className="mb-1 font-medium">Noted, not refused:</p>
-                <ImportProblemsTable
-                  problems={outcome.imp.problems}
-                  caption="Notes on the accepted file"
-                  heading="Note"
-                />
+                <ProblemsTable problems={outcome.imp.problems} caption="Notes on the accepted file" heading="Note" />
               </div>
             ) : null}
           </Notice>
@@ -219,15 +203,11 @@ export function UploadForm({ slug, aside }: { slug: string; aside?: ReactNode })
             <Notice tone="danger" role="alert" title="Nothing was imported">
               {outcome.message}
             </Notice>
-            <ImportProblemsTable
-              problems={outcome.problems}
-              total={outcome.total}
-              caption="Problems in the uploaded file"
-            />
+            <ProblemsTable problems={outcome.problems} total={outcome.total} caption="Problems in the uploaded file" />
             {outcome.warnings.length ? (
               <div>
                 <p className="mb-1 text-sm font-medium">Also noted:</p>
-                <ImportProblemsTable problems={outcome.warnings} caption="Notes on the uploaded file" heading="Note" />
+                <ProblemsTable problems={outcome.warnings} caption="Notes on the uploaded file" heading="Note" />
               </div>
             ) : null}
           </div>

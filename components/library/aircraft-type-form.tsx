@@ -2,7 +2,6 @@
 
 import { useState } from 'react';
 import { useRouter } from 'next/navigation';
-import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import {
   aircraftTypeSaveSchema,
@@ -12,8 +11,7 @@ import {
 import type { ActionState } from '@/lib/errors';
 import { Field, SelectInput, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
-import { Notice } from '@/components/ui/notice';
-import { applyServerErrors } from '@/components/ui/server-errors';
+import { FormNotice, useActionForm } from '@/components/ui/use-action-form';
 
 const KNOWN = [
   'code',
@@ -48,7 +46,6 @@ export function AircraftTypeForm({
   fleetsHref: string;
 }) {
   const router = useRouter();
-  const [message, setMessage] = useState<{ tone: 'success' | 'danger'; text: string }>();
   const [kind, setKind] = useState<'engine' | 'direct'>(
     initial && initial.engineId === null && initial.directEiGPerKg !== null ? 'direct' : 'engine',
   );
@@ -62,41 +59,31 @@ export function AircraftTypeForm({
     typicalFlightLevel: 350,
     defaultFleetId: null,
   };
-  const form = useForm<Values, unknown, AircraftTypeSave>({
+  const isNew = !initial;
+  const { form, errors, pending, message, onSubmit } = useActionForm({
     resolver: zodResolver(aircraftTypeSaveSchema),
     defaultValues: initial ?? blank,
+    fields: KNOWN,
+    action,
+    onSuccess: (state) => {
+      if (isNew) {
+        form.reset(blank);
+        setKind('engine');
+      }
+      router.refresh();
+      return state.message ?? 'Saved.';
+    },
   });
-  const { errors, isSubmitting } = form.formState;
-  const isNew = !initial;
   const choose = (next: 'engine' | 'direct') => {
     setKind(next);
     if (next === 'engine') form.setValue('directEiGPerKg', null);
     else form.setValue('engineId', null);
     form.clearErrors(['engineId', 'directEiGPerKg']);
   };
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage(undefined);
-    const state = await action(values);
-    if (state?.ok) {
-      if (isNew) {
-        form.reset(blank);
-        setKind('engine');
-      }
-      setMessage({ tone: 'success', text: state.message ?? 'Saved.' });
-      router.refresh();
-      return;
-    }
-    const text = applyServerErrors(state, form.setError, KNOWN);
-    if (text) setMessage({ tone: 'danger', text });
-  });
   const p = isNew ? 'new-type' : 'type';
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4">
-      {message ? (
-        <Notice tone={message.tone} role={message.tone === 'danger' ? 'alert' : 'status'}>
-          {message.text}
-        </Notice>
-      ) : null}
+      <FormNotice message={message} />
       <div className="grid gap-4 sm:grid-cols-[8rem_1fr]">
         <Field id={`${p}-code`} label="Type code" error={errors.code?.message} hint="Such as SK-LR1; kept in capitals.">
           <TextInput
@@ -123,8 +110,8 @@ export function AircraftTypeForm({
             Direct cruise EI NOx
           </label>
         </div>
-        {kind === 'engine' ? (
-          <div className="grid gap-4 sm:grid-cols-[1fr_8rem]">
+        <div className="grid gap-4 sm:grid-cols-[1fr_8rem]">
+          {kind === 'engine' ? (
             <Field
               id={`${p}-engine`}
               label="Engine"
@@ -144,18 +131,7 @@ export function AircraftTypeForm({
                 ))}
               </SelectInput>
             </Field>
-            <Field id={`${p}-count`} label="Engines" error={errors.engineCount?.message} hint="1 to 8">
-              <TextInput
-                id={`${p}-count`}
-                inputMode="numeric"
-                className="figure"
-                invalid={!!errors.engineCount}
-                {...form.register('engineCount', { valueAsNumber: true })}
-              />
-            </Field>
-          </div>
-        ) : (
-          <div className="grid gap-4 sm:grid-cols-[1fr_8rem]">
+          ) : (
             <Field
               id={`${p}-direct`}
               label="Cruise EI NOx (g/kg)"
@@ -170,17 +146,17 @@ export function AircraftTypeForm({
                 {...form.register('directEiGPerKg', { setValueAs: numberOrNull })}
               />
             </Field>
-            <Field id={`${p}-count`} label="Engines" error={errors.engineCount?.message} hint="1 to 8">
-              <TextInput
-                id={`${p}-count`}
-                inputMode="numeric"
-                className="figure"
-                invalid={!!errors.engineCount}
-                {...form.register('engineCount', { valueAsNumber: true })}
-              />
-            </Field>
-          </div>
-        )}
+          )}
+          <Field id={`${p}-count`} label="Engines" error={errors.engineCount?.message} hint="1 to 8">
+            <TextInput
+              id={`${p}-count`}
+              inputMode="numeric"
+              className="figure"
+              invalid={!!errors.engineCount}
+              {...form.register('engineCount', { valueAsNumber: true })}
+            />
+          </Field>
+        </div>
       </fieldset>
       <div className="grid gap-4 sm:grid-cols-2">
         <Field id={`${p}-mach`} label="Typical cruise Mach" error={errors.typicalMach?.message}>
@@ -238,8 +214,8 @@ export function AircraftTypeForm({
           ))}
         </SelectInput>
       </Field>
-      <Button type="submit" disabled={isSubmitting}>
-        {isSubmitting ? 'Saving…' : isNew ? 'Add aircraft type' : 'Save changes'}
+      <Button type="submit" disabled={pending}>
+        {pending ? 'Saving…' : isNew ? 'Add aircraft type' : 'Save changes'}
       </Button>
     </form>
   );

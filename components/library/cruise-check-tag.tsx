@@ -1,6 +1,6 @@
 import { formatNumber } from '@/lib/format';
 import { Tag } from './badges';
-import { TYPICAL_CRUISE_EI_G_PER_KG, type CruiseEiCheck } from './cruise-ei-check';
+import { TYPICAL_CRUISE_EI_G_PER_KG, type CruiseEiCheck } from '@/lib/library/cruise-ei-check';
 
 /** The cruise EI check value, tagged against the typical 10-20 g/kg band. */
 export function CruiseCheckTag({ check }: { check: CruiseEiCheck }) {

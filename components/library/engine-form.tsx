@@ -2,15 +2,14 @@
 
 import { useState } from 'react';
 import { useRouter } from 'next/navigation';
-import { useForm, useWatch } from 'react-hook-form';
+import { useWatch } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { engineSaveSchema, LTO_MODES, type EngineForm as Values, type EngineSave } from '@/lib/validation/library';
 import type { ActionState } from '@/lib/errors';
 import { Field, TextArea, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
-import { Notice } from '@/components/ui/notice';
-import { applyServerErrors } from '@/components/ui/server-errors';
-import { CRUISE_CHECK, cruiseEiCheck } from './cruise-ei-check';
+import { FormNotice, useActionForm } from '@/components/ui/use-action-form';
+import { CRUISE_CHECK, cruiseEiCheck } from '@/lib/library/cruise-ei-check';
 import { CruiseCheckTag } from './cruise-check-tag';
 
 const KNOWN = [
@@ -61,37 +60,25 @@ function EngineFormBody({
   onCreated,
 }: Props & { savedMessage?: string; onCreated: (message: string) => void }) {
   const router = useRouter();
-  const [message, setMessage] = useState<{ tone: 'success' | 'danger'; text: string } | undefined>(
-    savedMessage ? { tone: 'success', text: savedMessage } : undefined,
-  );
-  const form = useForm<Values, unknown, EngineSave>({
+  const isNew = !initial;
+  const { form, errors, pending, message, onSubmit } = useActionForm<Values, EngineSave, unknown>({
     resolver: zodResolver(engineSaveSchema),
     defaultValues: initial ?? { name: '', source: '' },
-  });
-  const { errors, isSubmitting } = form.formState;
-  const isNew = !initial;
-  const [ff, ei] = useWatch({ control: form.control, name: ['fuelFlowKgS', 'eiNoxGPerKg'] });
-  const check = liveCheck(ff, ei);
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage(undefined);
-    const state = await action(values);
-    if (state?.ok) {
+    fields: KNOWN,
+    action,
+    initialMessage: savedMessage ? { tone: 'success', text: savedMessage } : undefined,
+    onSuccess: (state) => {
       router.refresh();
       if (isNew) onCreated(state.message ?? 'Engine added.');
-      else setMessage({ tone: 'success', text: state.message ?? 'Saved.' });
-      return;
-    }
-    const text = applyServerErrors(state, form.setError, KNOWN);
-    if (text) setMessage({ tone: 'danger', text });
+      else return state.message ?? 'Saved.';
+    },
   });
+  const [ff, ei] = useWatch({ control: form.control, name: ['fuelFlowKgS', 'eiNoxGPerKg'] });
+  const check = liveCheck(ff, ei);
   const p = isNew ? 'new-engine' : 'engine';
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4">
-      {message ? (
-        <Notice tone={message.tone} role={message.tone === 'danger' ? 'alert' : 'status'}>
-          {message.text}
-        </Notice>
-      ) : null}
+      <FormNotice message={message} />
       <Field id={`${p}-name`} label="Engine name" error={errors.name?.message} hint="Unique in this workspace.">
         <TextInput id={`${p}-name`} autoComplete="off" invalid={!!errors.name} {...form.register('name')} />
       </Field>
@@ -174,8 +161,8 @@ function EngineFormBody({
       >
         <TextArea id={`${p}-source`} rows={2} invalid={!!errors.source} {...form.register('source')} />
       </Field>
-      <Button type="submit" disabled={isSubmitting}>
-        {isSubmitting ? 'Saving…' : isNew ? 'Add engine' : 'Save changes'}
+      <Button type="submit" disabled={pending}>
+        {pending ? 'Saving…' : isNew ? 'Add engine' : 'Save changes'}
       </Button>
     </form>
   );

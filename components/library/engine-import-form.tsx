@@ -4,7 +4,8 @@ import { useRef, useState } from 'react';
 import { useRouter } from 'next/navigation';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
-import { ProblemsTable, type CsvProblemView } from './problems-table';
+import { ProblemsTable } from '@/components/ui/problems-table';
+import type { LineProblem } from '@/lib/validation/problems';
 import { postUpload } from './upload';
 
 /** Imports engines from a CSV through the API: all rows or none, with every problem by line and column. */
@@ -16,8 +17,8 @@ export function EngineImportForm({ slug }: { slug: string }) {
   const [result, setResult] = useState<{
     tone: 'success' | 'danger';
     text: string;
-    problems: CsvProblemView[];
-    warnings: CsvProblemView[];
+    problems: LineProblem[];
+    warnings: LineProblem[];
   }>();
   const endpoint = `/api/v1/workspaces/${slug}/engines/import`;
   const submit = async (e: React.FormEvent) => {

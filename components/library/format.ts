@@ -1,5 +1,5 @@
-import type { UnitSystem } from '@/db/users';
-import { formatNumber, KG_PER_LB } from '@/lib/format';
+import { formatNumber } from '@/lib/format';
+import { KG_PER_LB, type UnitSystem } from '@/lib/units';
 import type { RouteWaypoint } from '@/db/routes';
 import { pressureAltitudeM } from '@/lib/screening/atmosphere';
 

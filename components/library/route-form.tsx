@@ -1,16 +1,13 @@
 'use client';
 
-import { useState } from 'react';
 import { useRouter } from 'next/navigation';
-import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { z } from 'zod';
 import { routeFormSchema, ROUTE_NOTES_MAX } from '@/lib/validation/library';
 import type { ActionState } from '@/lib/errors';
 import { Field, TextArea, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
-import { Notice } from '@/components/ui/notice';
-import { applyServerErrors } from '@/components/ui/server-errors';
+import { FormNotice, useActionForm } from '@/components/ui/use-action-form';
 
 type Values = z.input<typeof routeFormSchema>;
 
@@ -28,32 +25,26 @@ export function RouteForm({
   detailBase: string;
 }) {
   const router = useRouter();
-  const [message, setMessage] = useState<{ tone: 'success' | 'danger'; text: string }>();
-  const form = useForm<Values, unknown, z.output<typeof routeFormSchema>>({
+  const isNew = !initial;
+  const { form, errors, pending, message, onSubmit } = useActionForm<
+    Values,
+    z.output<typeof routeFormSchema>,
+    { id: number }
+  >({
     resolver: zodResolver(routeFormSchema),
     defaultValues: initial ?? { name: '', waypointsText: '', notes: '' },
-  });
-  const { errors, isSubmitting } = form.formState;
-  const isNew = !initial;
-  const onSubmit = form.handleSubmit(async () => {
-    setMessage(undefined);
-    const state = await action(form.getValues());
-    if (state?.ok) {
+    fields: ['name', 'waypointsText', 'notes'],
+    // The action parses the raw form values itself (the waypoints text is resolved on the server).
+    action: (): Promise<ActionState<{ id: number }>> => action(form.getValues()),
+    onSuccess: (state) => {
       if (isNew && state.data) router.push(`${detailBase}/${state.data.id}`);
-      else setMessage({ tone: 'success', text: state.message ?? 'Saved.' });
-      return;
-    }
-    const text = applyServerErrors(state, form.setError, ['name', 'waypointsText', 'notes']);
-    if (text) setMessage({ tone: 'danger', text });
+      else return state.message ?? 'Saved.';
+    },
   });
   const idp = isNew ? 'new-route' : 'route';
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4">
-      {message ? (
-        <Notice tone={message.tone} role={message.tone === 'danger' ? 'alert' : 'status'}>
-          {message.text}
-        </Notice>
-      ) : null}
+      <FormNotice message={message} />
       <Field
         id={`${idp}-name`}
         label="Route name"
@@ -85,8 +76,8 @@ export function RouteForm({
       >
         <TextArea id={`${idp}-notes`} rows={3} invalid={!!errors.notes} {...form.register('notes')} />
       </Field>
-      <Button type="submit" disabled={isSubmitting}>
-        {isSubmitting ? 'Saving…' : isNew ? 'Save route' : 'Save changes'}
+      <Button type="submit" disabled={pending}>
+        {pending ? 'Saving…' : isNew ? 'Save route' : 'Save changes'}
       </Button>
     </form>
   );

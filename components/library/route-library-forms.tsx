@@ -4,7 +4,8 @@ import { useRef, useState, useTransition } from 'react';
 import { useRouter } from 'next/navigation';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
-import { ProblemsTable, type CsvProblemView } from './problems-table';
+import { ProblemsTable } from '@/components/ui/problems-table';
+import type { LineProblem } from '@/lib/validation/problems';
 import { postUpload } from './upload';
 
 const KINDS = {
@@ -39,8 +40,8 @@ export function RouteLibraryUploadForm({
   const [outcome, setOutcome] = useState<{
     ok: boolean;
     text: string;
-    problems: CsvProblemView[];
-    warnings: CsvProblemView[];
+    problems: LineProblem[];
+    warnings: LineProblem[];
   }>();
   const k = KINDS[kind];
   const id = `${kind}-file`;

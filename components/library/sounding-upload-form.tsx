@@ -8,7 +8,8 @@ import { soundingMetaSchema, type SoundingMeta, type SoundingMetaForm } from '@/
 import { Field, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
-import { ProblemsTable, type CsvProblemView } from './problems-table';
+import { ProblemsTable } from '@/components/ui/problems-table';
+import type { LineProblem } from '@/lib/validation/problems';
 import { postUpload } from './upload';
 
 /**
@@ -19,7 +20,7 @@ export function SoundingUploadForm({ slug, templateHref }: { slug: string; templ
   const router = useRouter();
   const [chosen, setChosen] = useState<File>();
   const [fileError, setFileError] = useState<string>();
-  const [result, setResult] = useState<{ text: string; problems: CsvProblemView[]; warnings: CsvProblemView[] }>();
+  const [result, setResult] = useState<{ text: string; problems: LineProblem[]; warnings: LineProblem[] }>();
   const form = useForm<SoundingMetaForm, unknown, SoundingMeta>({
     resolver: zodResolver(soundingMetaSchema),
     defaultValues: { name: '', station: '', observedAt: '' },

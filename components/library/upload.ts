@@ -1,12 +1,12 @@
-import type { CsvProblemView } from './problems-table';
+import type { LineProblem } from '@/lib/validation/problems';
 
 export interface UploadOutcome<T> {
   ok: boolean;
   status: number;
   body: T | null;
   message: string;
-  problems: CsvProblemView[];
-  warnings: CsvProblemView[];
+  problems: LineProblem[];
+  warnings: LineProblem[];
   fields: { path: string; message: string }[];
 }
 
@@ -28,7 +28,7 @@ export async function postUpload<T>(url: string, form: FormData): Promise<Upload
   }
   const data = (await res.json().catch(() => null)) as
     (Record<string, unknown> & { error?: { message?: string; fields?: { path: string; message: string }[] } }) | null;
-  const list = (v: unknown): CsvProblemView[] => (Array.isArray(v) ? (v as CsvProblemView[]) : []);
+  const list = (v: unknown): LineProblem[] => (Array.isArray(v) ? (v as LineProblem[]) : []);
   return {
     ok: res.ok,
     status: res.status,

@@ -2,7 +2,12 @@
 
 import type { UseFormRegister } from 'react-hook-form';
 import { OZONE_PROFILE_NAMES } from '@/lib/validation/screening';
-import { BAND_KEYS, type AssumptionDefaults, type BandKey, type ScreenFormValues } from '@/lib/validation/screen-form';
+import {
+  BAND_KEYS,
+  type AssumptionDefaults,
+  type BandKey,
+  type ScreenFormValues,
+} from '@/components/screening/screen-form-adapter';
 import { Field, SelectInput, TextInput } from '@/components/ui/field';
 import { sci } from './assumptions-list';
 
@@ -72,48 +77,38 @@ export function AssumptionFields({
           );
         })}
         <div className="grid gap-3 sm:grid-cols-2">
-          <Field
-            id="assumptions-ohCm3"
-            label="OH, molecules per cm³"
-            hint={`Default ${sci(defaults.ohCm3)}; sets the chain length.`}
-            error={errorAt('assumptions.ohCm3')}
-          >
-            <TextInput
-              id="assumptions-ohCm3"
-              inputMode="decimal"
-              placeholder={sci(defaults.ohCm3)}
-              invalid={!!errorAt('assumptions.ohCm3')}
-              {...register('assumptions.ohCm3')}
-            />
-          </Field>
-          <Field
-            id="assumptions-ho2Cm3"
-            label="HO2, molecules per cm³"
-            hint={`Default ${sci(defaults.ho2Cm3)}; local budget only.`}
-            error={errorAt('assumptions.ho2Cm3')}
-          >
-            <TextInput
-              id="assumptions-ho2Cm3"
-              inputMode="decimal"
-              placeholder={sci(defaults.ho2Cm3)}
-              invalid={!!errorAt('assumptions.ho2Cm3')}
-              {...register('assumptions.ho2Cm3')}
-            />
-          </Field>
-          <Field
-            id="assumptions-relativeHumidity"
-            label="Relative humidity at cruise (%)"
-            hint={`Default ${Math.round(defaults.relativeHumidity * 100)} %; used by the fuel-flow EI methods.`}
-            error={errorAt('assumptions.relativeHumidity')}
-          >
-            <TextInput
-              id="assumptions-relativeHumidity"
-              inputMode="decimal"
-              placeholder={String(Math.round(defaults.relativeHumidity * 100))}
-              invalid={!!errorAt('assumptions.relativeHumidity')}
-              {...register('assumptions.relativeHumidity')}
-            />
-          </Field>
+          {(
+            [
+              [
+                'ohCm3',
+                'OH, molecules per cm³',
+                `Default ${sci(defaults.ohCm3)}; sets the chain length.`,
+                sci(defaults.ohCm3),
+              ],
+              [
+                'ho2Cm3',
+                'HO2, molecules per cm³',
+                `Default ${sci(defaults.ho2Cm3)}; local budget only.`,
+                sci(defaults.ho2Cm3),
+              ],
+              [
+                'relativeHumidity',
+                'Relative humidity at cruise (%)',
+                `Default ${Math.round(defaults.relativeHumidity * 100)} %; used by the fuel-flow EI methods.`,
+                String(Math.round(defaults.relativeHumidity * 100)),
+              ],
+            ] as const
+          ).map(([key, label, hint, placeholder]) => (
+            <Field key={key} id={`assumptions-${key}`} label={label} hint={hint} error={errorAt(`assumptions.${key}`)}>
+              <TextInput
+                id={`assumptions-${key}`}
+                inputMode="decimal"
+                placeholder={placeholder}
+                invalid={!!errorAt(`assumptions.${key}`)}
+                {...register(`assumptions.${key}`)}
+              />
+            </Field>
+          ))}
           <Field
             id="assumptions-ozoneProfile"
             label="Ozone profile"

@@ -1,5 +1,6 @@
 import type { ScreeningResult } from '@/lib/screening';
 import { ScrollRegion } from '@/components/ui/scroll-region';
+import { TableHead } from '@/components/ui/table-head';
 
 const SUPERSCRIPT: Record<string, string> = {
   '-': '⁻',
@@ -48,25 +49,16 @@ export function AssumptionsList({
       <ScrollRegion label="Ozone-figure inputs">
         <table className="w-full min-w-[600px]">
           <caption className="mb-2 text-left font-medium text-ink">Ozone-figure inputs (low – central – high)</caption>
-          <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
-            <tr>
-              <th scope="col" className="py-1.5 pr-3">
-                Input
-              </th>
-              <th scope="col" className="py-1.5 pr-3 text-right">
-                Low
-              </th>
-              <th scope="col" className="py-1.5 pr-3 text-right">
-                Central
-              </th>
-              <th scope="col" className="py-1.5 pr-3 text-right">
-                High
-              </th>
-              <th scope="col" className="py-1.5">
-                Source
-              </th>
-            </tr>
-          </thead>
+          <TableHead
+            pad="py-1.5"
+            columns={[
+              'Input',
+              { label: 'Low', right: true },
+              { label: 'Central', right: true },
+              { label: 'High', right: true },
+              'Source',
+            ]}
+          />
           <tbody className="figure">
             {bands.map(([label, b]) => (
               <tr key={label} className="border-t border-line align-top">

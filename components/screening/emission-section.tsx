@@ -1,7 +1,8 @@
 'use client';
 
 import type { UseFormReturn } from 'react-hook-form';
-import { unitLabels, type ScreenFormValues, type UnitSystem } from '@/lib/validation/screen-form';
+import { unitLabels, type ScreenFormValues } from '@/components/screening/screen-form-adapter';
+import type { UnitSystem } from '@/lib/units';
 import { Field, SelectInput, TextInput } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { ModeSwitch, Section } from './screen-form-parts';

@@ -4,7 +4,7 @@ import { useState } from 'react';
 import { Controller, type UseFormReturn } from 'react-hook-form';
 import { useQuery } from '@tanstack/react-query';
 import type { FlightPlanItem, FlightPlanUsed } from '@/lib/screening';
-import type { ScreenFormValues } from '@/lib/validation/screen-form';
+import type { ScreenFormValues } from '@/components/screening/screen-form-adapter';
 import { Field, TextArea, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';

@@ -1,5 +1,5 @@
 import type { ScreeningResult, ScreeningUncertainty } from '@/lib/screening';
-import type { UnitSystem } from '@/lib/validation/screen-form';
+import type { UnitSystem } from '@/lib/units';
 import { Stat } from '@/components/ui/card';
 import { formatAltitude, formatDistance, formatMass, formatMassRange, formatNumber, formatPercent } from '@/lib/format';
 

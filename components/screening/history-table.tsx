@@ -11,7 +11,7 @@ import {
   useReactTable,
   type SortingState,
 } from '@tanstack/react-table';
-import type { UnitSystem } from '@/lib/validation/screen-form';
+import type { UnitSystem } from '@/lib/units';
 import { formatDate, formatDateTime, formatDistance, formatMass, formatPercent } from '@/lib/format';
 import { ButtonLink } from '@/components/ui/button';
 import { ScrollRegion } from '@/components/ui/scroll-region';

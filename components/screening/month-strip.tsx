@@ -1,22 +1,8 @@
 import type { MonthRow } from '@/lib/screening';
-import type { UnitSystem } from '@/lib/validation/screen-form';
-import { formatMass, formatPercent } from '@/lib/format';
+import type { UnitSystem } from '@/lib/units';
+import { formatMass, formatPercent, MONTH_NAMES } from '@/lib/format';
 
 const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
-const MONTH_NAMES = [
-  'January',
-  'February',
-  'March',
-  'April',
-  'May',
-  'June',
-  'July',
-  'August',
-  'September',
-  'October',
-  'November',
-  'December',
-];
 
 /**
  * The flight screened in each month: one column a month, bar height NOx above the tropopause, the

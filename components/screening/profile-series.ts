@@ -1,5 +1,5 @@
 import type { ScreeningSegment } from '@/lib/screening';
-import type { UnitSystem } from '@/lib/validation/screen-form';
+import type { UnitSystem } from '@/lib/units';
 import { KM_PER_NM, M_PER_FT, formatAltitude, formatDistance, formatMass, formatNumber } from '@/lib/format';
 
 /** The vertical profile as the chart draws it: two aligned lines, stepped per segment, in display units. */

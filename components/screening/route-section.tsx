@@ -2,7 +2,7 @@
 
 import { useState } from 'react';
 import { Controller, useFieldArray, type UseFormReturn } from 'react-hook-form';
-import { parseWaypointList, type ScreenFormValues } from '@/lib/validation/screen-form';
+import { parseWaypointList, type ScreenFormValues } from '@/components/screening/screen-form-adapter';
 import { Field, SelectInput, TextArea, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { AirportCombobox } from './airport-combobox';

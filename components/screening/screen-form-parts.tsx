@@ -1,7 +1,7 @@
 'use client';
 
 import type { ReactNode } from 'react';
-import type { UnitSystem } from '@/lib/validation/screen-form';
+import type { UnitSystem } from '@/lib/units';
 import { formatMass, formatPercent } from '@/lib/format';
 import type { PreviewResponse } from './screening-preview';
 

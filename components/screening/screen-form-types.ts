@@ -1,4 +1,5 @@
-import type { AssumptionDefaults, UnitSystem } from '@/lib/validation/screen-form';
+import type { AssumptionDefaults } from '@/components/screening/screen-form-adapter';
+import type { UnitSystem } from '@/lib/units';
 import type { ScreeningInputRaw, SoundingLevelInput } from '@/lib/validation/screening';
 
 export interface AircraftChoice {

@@ -1,7 +1,7 @@
 'use client';
 
 import { useEffect, useMemo, useRef, useState } from 'react';
-import { get, useForm, type Path } from 'react-hook-form';
+import { get, useForm, type Path, type UseFormRegisterReturn } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { keepPreviousData, useQuery } from '@tanstack/react-query';
 import {
@@ -12,7 +12,7 @@ import {
   screenFormSchema,
   type ScreenFormContext,
   type ScreenFormValues,
-} from '@/lib/validation/screen-form';
+} from '@/components/screening/screen-form-adapter';
 import { Field, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
@@ -38,6 +38,64 @@ export type {
   ScreenFlightFormProps,
   SoundingChoice,
 } from './screen-form-types';
+
+/** The live preview of the settled input: the engine's answer, or the problem it reported. */
+function usePreview(slug: string, settled: string | null) {
+  return useQuery({
+    queryKey: ['screening-preview', slug, settled],
+    enabled: settled !== null,
+    placeholderData: keepPreviousData,
+    retry: false,
+    staleTime: 60_000,
+    queryFn: async ({ signal }): Promise<PreviewResponse> => {
+      const res = await fetch(`/api/v1/workspaces/${slug}/screenings/preview`, {
+        method: 'POST',
+        headers: { 'content-type': 'application/json', accept: 'application/json' },
+        body: settled ?? '{}',
+        signal,
+      });
+      if (!res.ok) throw await readProblem(res);
+      return (await res.json()) as PreviewResponse;
+    },
+  });
+}
+
+/** The name and the save button, with what saving counts. */
+function SaveSection({
+  nameField,
+  nameError,
+  saveError,
+  busy,
+}: {
+  nameField: UseFormRegisterReturn<'name'>;
+  nameError: string | undefined;
+  saveError: string | null;
+  busy: boolean;
+}) {
+  return (
+    <Section title="Save">
+      <Field
+        id="name"
+        label="Name (optional)"
+        hint="Shown in the screenings list; the route is used when blank."
+        error={nameError}
+      >
+        <TextInput id="name" invalid={!!nameError} {...nameField} />
+      </Field>
+      {saveError ? (
+        <Notice tone="danger" role="alert">
+          {saveError}
+        </Notice>
+      ) : null}
+      <div className="flex flex-wrap items-center gap-3">
+        <Button type="submit" disabled={busy}>
+          {busy ? 'Saving…' : 'Save screening'}
+        </Button>
+        <p className="text-xs text-ink-soft">Saving counts one screened flight towards this month&apos;s usage.</p>
+      </div>
+    </Section>
+  );
+}
 
 /**
  * "Screen a flight": one form for route, cruise, fuel, emission, date and tropopause, with a live
@@ -111,23 +169,7 @@ export function ScreenFlightForm({
         })
       : null;
   const settled = useDebouncedValue(payload, previewDelayMs);
-  const preview = useQuery({
-    queryKey: ['screening-preview', slug, settled],
-    enabled: settled !== null,
-    placeholderData: keepPreviousData,
-    retry: false,
-    staleTime: 60_000,
-    queryFn: async ({ signal }): Promise<PreviewResponse> => {
-      const res = await fetch(`/api/v1/workspaces/${slug}/screenings/preview`, {
-        method: 'POST',
-        headers: { 'content-type': 'application/json', accept: 'application/json' },
-        body: settled ?? '{}',
-        signal,
-      });
-      if (!res.ok) throw await readProblem(res);
-      return (await res.json()) as PreviewResponse;
-    },
-  });
+  const preview = usePreview(slug, settled);
 
   const modes = {
     routeMode: values.routeMode,
@@ -266,27 +308,12 @@ export function ScreenFlightForm({
         <TropopauseSection form={form} units={units} soundings={soundings} errorAt={errorAt} />
         <AssumptionFields register={register} defaults={defaults} errorAt={errorAt} />
 
-        <Section title="Save">
-          <Field
-            id="name"
-            label="Name (optional)"
-            hint="Shown in the screenings list; the route is used when blank."
-            error={errorAt('name')}
-          >
-            <TextInput id="name" invalid={!!errorAt('name')} {...register('name')} />
-          </Field>
-          {saveError ? (
-            <Notice tone="danger" role="alert">
-              {saveError}
-            </Notice>
-          ) : null}
-          <div className="flex flex-wrap items-center gap-3">
-            <Button type="submit" disabled={formState.isSubmitting || saved}>
-              {formState.isSubmitting || saved ? 'Saving…' : 'Save screening'}
-            </Button>
-            <p className="text-xs text-ink-soft">Saving counts one screened flight towards this month&apos;s usage.</p>
-          </div>
-        </Section>
+        <SaveSection
+          nameField={register('name')}
+          nameError={errorAt('name')}
+          saveError={saveError}
+          busy={formState.isSubmitting || saved}
+        />
         <PreviewSummary
           units={units}
           data={preview.data}

@@ -1,7 +1,7 @@
 'use client';
 
 import type { CruiseLevelRow, MinimiseCriterion, MonthRow, ScreeningResult } from '@/lib/screening';
-import type { UnitSystem } from '@/lib/validation/screen-form';
+import type { UnitSystem } from '@/lib/units';
 import { Card } from '@/components/ui/card';
 import { Field, SelectInput, TextInput } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';

@@ -1,27 +1,13 @@
 'use client';
 
 import type { UseFormReturn } from 'react-hook-form';
-import { unitLabels, type ScreenFormValues, type UnitSystem } from '@/lib/validation/screen-form';
+import { unitLabels, type ScreenFormValues } from '@/components/screening/screen-form-adapter';
+import type { UnitSystem } from '@/lib/units';
 import { Field, SelectInput, TextInput } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
-import { formatAltitude, formatNumber } from '@/lib/format';
+import { formatAltitude, formatNumber, MONTH_NAMES } from '@/lib/format';
 import { ModeSwitch, Section } from './screen-form-parts';
 import type { SoundingChoice } from './screen-form-types';
-
-const MONTHS = [
-  'January',
-  'February',
-  'March',
-  'April',
-  'May',
-  'June',
-  'July',
-  'August',
-  'September',
-  'October',
-  'November',
-  'December',
-];
 
 /** Flight date or month, and the tropopause: climatology, a given altitude or pressure, or a stored sounding. */
 export function TropopauseSection({
@@ -58,7 +44,7 @@ export function TropopauseSection({
         >
           <SelectInput id="month" invalid={!!errorAt('month')} {...register('month')}>
             <option value="">From the flight date</option>
-            {MONTHS.map((m, i) => (
+            {MONTH_NAMES.map((m, i) => (
               <option key={m} value={i + 1}>
                 {m}
               </option>

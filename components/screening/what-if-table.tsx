@@ -1,5 +1,5 @@
 import type { CruiseLevelRow } from '@/lib/screening';
-import type { UnitSystem } from '@/lib/validation/screen-form';
+import type { UnitSystem } from '@/lib/units';
 import { formatMass, formatMassRange, formatNumber } from '@/lib/format';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 

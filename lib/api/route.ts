@@ -1,7 +1,8 @@
 import 'server-only';
 import type { z } from 'zod';
 import { userFromRequest, type SessionUser } from '@/lib/auth/session';
-import { findApiKey, type ApiKeyPrincipal } from '@/db/api-keys';
+import { type ApiKeyPrincipal } from '@/db/api-keys';
+import { findApiKey } from '@/lib/auth/api-keys';
 import { getMembership, type WorkspaceDto } from '@/db/workspaces';
 import { can, type Permission, type Role } from '@/lib/auth/policy';
 import { isAllowedOrigin } from '@/lib/auth/origin';
@@ -207,6 +208,13 @@ export async function readJson<S extends z.ZodType>(req: Request, schema: S): Pr
   }
   if (raw === undefined) throw badRequest('The request body is empty; send a JSON object.');
   const parsed = schema.safeParse(raw);
+  if (!parsed.success) throw fromZod(parsed.error);
+  return parsed.data;
+}
+
+/** The query string -> schema (each name once, as text); 422 with field paths when invalid. */
+export function readQuery<S extends z.ZodType>(req: Request, schema: S): z.infer<S> {
+  const parsed = schema.safeParse(Object.fromEntries(new URL(req.url).searchParams));
   if (!parsed.success) throw fromZod(parsed.error);
   return parsed.data;
 }

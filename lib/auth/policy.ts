@@ -2,8 +2,9 @@
  * The one table of who may do what inside a workspace. Guards, pages, navigation and the
  * authorisation tests all read it; nothing else decides permissions.
  */
-export const ROLES = ['owner', 'planner', 'analyst', 'viewer', 'billing'] as const;
-export type Role = (typeof ROLES)[number];
+import { ROLES, isRole, type Role } from './roles';
+
+export { ROLES, isRole, type Role };
 
 export const PERMISSIONS = [
   'workspace:read', // see the workspace exists, its name and your role
@@ -59,10 +60,6 @@ export const API_KEY_ROLES = ['planner', 'analyst', 'viewer'] as const satisfies
 
 export function can(role: Role, permission: Permission): boolean {
   return POLICY[role].includes(permission);
-}
-
-export function isRole(value: unknown): value is Role {
-  return typeof value === 'string' && (ROLES as readonly string[]).includes(value);
 }
 
 export const ROLE_LABELS: Record<Role, string> = {

@@ -25,6 +25,9 @@ export interface Plan {
   meteredLookupKey: string;
 }
 
+/** The plan a new workspace's trial is on. */
+export const DEFAULT_PLAN_ID: PlanId = 'crew';
+
 export const CURRENCY = 'usd';
 export const BILLING_INTERVAL = 'month';
 

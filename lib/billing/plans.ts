@@ -16,10 +16,9 @@ export {
   METERED_PRODUCT,
   PLANS,
   PLAN_IDS,
+  DEFAULT_PLAN_ID,
 } from './plan-catalogue';
 export type { Plan, PlanId } from './plan-catalogue';
-
-export const DEFAULT_PLAN_ID: PlanId = 'crew';
 
 export function isPlanId(value: unknown): value is PlanId {
   return typeof value === 'string' && (PLAN_IDS as readonly string[]).includes(value);

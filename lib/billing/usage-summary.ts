@@ -1,11 +1,6 @@
 import 'server-only';
-import {
-  countLedgerUnits,
-  ensureBilling,
-  getUsageDeliveryProblem,
-  type BillingDto,
-  type BillingStatus,
-} from '@/db/billing';
+import { countLedgerUnits, getUsageDeliveryProblem, type BillingDto, type BillingStatus } from '@/db/billing';
+import { ensureBilling } from '@/lib/billing/trial';
 import { log } from '@/lib/log';
 import { PLANS, TRIAL_DAYS, estimateChargeCents, type PlanId } from './plans';
 import { reconcileUsage } from './reconcile';

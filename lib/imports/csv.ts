@@ -1,5 +1,5 @@
 import Papa from 'papaparse';
-import { badRequest, tooLarge } from '@/lib/errors';
+import type { LineProblem } from '@/lib/validation/problems';
 
 /**
  * A small, generic CSV reader for the product's imports (the documented import format): UTF-8 with or
@@ -12,11 +12,7 @@ import { badRequest, tooLarge } from '@/lib/errors';
  */
 
 /** One problem with one place in a CSV: `line` (header = 1), `column` (a header name, or '' for the whole line). */
-export interface CsvProblem {
-  line: number;
-  column: string;
-  message: string;
-}
+export type CsvProblem = LineProblem;
 
 /** A column the import knows; `name` is lower-case, as written in the header (snake_case). */
 export interface CsvColumnSpec {
@@ -46,15 +42,6 @@ export interface ParseCsvOptions {
   columns: readonly CsvColumnSpec[];
   /** Most data rows accepted; the first row beyond it is a problem and reading stops. */
   maxRows?: number;
-}
-
-/** Decodes uploaded bytes as UTF-8 (BOM dropped); a file that is not UTF-8 is a 400 naming the fix. */
-export function decodeCsvBytes(bytes: Uint8Array): string {
-  try {
-    return new TextDecoder('utf-8', { fatal: true, ignoreBOM: false }).decode(bytes);
-  } catch {
-    throw badRequest('The file is not UTF-8 text. Save it from your spreadsheet as "CSV UTF-8" and upload it again.');
-  }
 }
 
 /** Reads a CSV text into rows keyed by column name, with problems and warnings by line and column. */
@@ -175,66 +162,6 @@ export function parseNumberCell(value: string | undefined): number | null {
   const v = (value ?? '').trim();
   if (v === '') return null;
   return /^[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?$/.test(v) ? Number(v) : Number.NaN;
-}
-
-/** Quotes a value for CSV output when it needs it. */
-export function csvCell(value: string | number): string {
-  const s = String(value);
-  return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-}
-
-export interface CsvUpload {
-  text: string;
-  fileName: string;
-  /** The other (text) fields of the form, trimmed. */
-  fields: Record<string, string>;
-}
-
-/**
- * Reads a multipart/form-data upload with the CSV in `field` (default `file`): 413 above `maxBytes`
- * (checked while reading, before any parsing), 400 when the body is not multipart or has no file.
- */
-export async function readCsvUpload(req: Request, options: { maxBytes: number; field?: string }): Promise<CsvUpload> {
-  const field = options.field ?? 'file';
-  const type = req.headers.get('content-type') ?? '';
-  if (!/^multipart\/form-data/i.test(type))
-    throw badRequest(`Send the CSV as multipart/form-data, in the field "${field}".`);
-  const limitKb = Math.round(options.maxBytes / 1000);
-  // The multipart envelope adds a little around the file; allow for it so the limit reads as a file size.
-  const envelope = 16_384;
-  const declared = Number(req.headers.get('content-length') ?? '0');
-  if (declared > options.maxBytes + envelope) throw tooLarge(`The file is larger than ${limitKb} kB.`);
-  const chunks: Uint8Array[] = [];
-  let size = 0;
-  if (req.body) {
-    const reader = req.body.getReader();
-    for (;;) {
-      const { done, value } = await reader.read();
-      if (done) break;
-      size += value.byteLength;
-      if (size > options.maxBytes + envelope) {
-        await reader.cancel();
-        throw tooLarge(`The file is larger than ${limitKb} kB.`);
-      }
-      chunks.push(value);
-    }
-  }
-  let form: FormData;
-  try {
-    form = await new Response(Buffer.concat(chunks), { headers: { 'content-type': type } }).formData();
-  } catch {
-    throw badRequest('The upload could not be read as a form. Send the CSV as multipart/form-data.');
-  }
-  const file = form.get(field);
-  if (!file || typeof file === 'string') throw badRequest(`Attach the CSV file in the field "${field}".`);
-  if (file.size > options.maxBytes) throw tooLarge(`The file is larger than ${limitKb} kB.`);
-  const fields: Record<string, string> = {};
-  for (const [k, v] of form.entries()) if (k !== field && typeof v === 'string') fields[k] = v.trim();
-  return {
-    text: decodeCsvBytes(new Uint8Array(await file.arrayBuffer())),
-    fileName: file.name || 'upload.csv',
-    fields,
-  };
 }
 
 /**

@@ -1,5 +1,6 @@
 import { engineSaveSchema, ENGINE_CSV_MAX_ROWS, type EngineSave } from '@/lib/validation/library';
-import { csvCell, parseCsv, parseNumberCell, type CsvProblem } from './csv';
+import { toCsv } from '@/lib/csv/write';
+import { parseCsv, parseNumberCell, type CsvProblem } from './csv';
 
 /**
  * The engines CSV (the documented import format): `name, idle_ff_kg_s, approach_ff_kg_s,
@@ -34,7 +35,7 @@ export function engineCsvTemplate(): string {
     30.5,
     'Invented example values; put the certification data sheet reference here',
   ];
-  return `${ENGINE_CSV_COLUMNS.join(',')}\n${example.map(csvCell).join(',')}\n`;
+  return toCsv(ENGINE_CSV_COLUMNS, [example]);
 }
 
 export interface EngineCsvResult {

@@ -6,17 +6,11 @@ import { listFleetsByName, listFlightKeys } from '@/db/flights';
 import { createImport, findImportByHash, type ImportDto } from '@/db/imports';
 import { assertBillingAllows } from '@/lib/billing/gate';
 import { estimateImport, type ImportEstimate } from '@/lib/billing/budget';
-import { badRequest, tooLarge } from '@/lib/errors';
+import { tooLarge } from '@/lib/errors';
+import { readUploadedFile, type UploadedFile } from '@/lib/api/upload';
 import { IMPORT_LIMITS, type ImportProblem } from '@/lib/validation/imports';
 import { flightKey, parseSchedule, sortProblems } from './schedule';
 import { queueImportWork } from './jobs';
-
-/** An uploaded file as the multipart parser gives it. */
-export interface UploadedFile {
-  name: string;
-  size: number;
-  stream(): ReadableStream<Uint8Array>;
-}
 
 export type UploadOutcome =
   | { accepted: true; import: ImportDto; warnings: ImportProblem[] }
@@ -24,51 +18,17 @@ export type UploadOutcome =
   | { accepted: false; problems: ImportProblem[]; problemCount: number; warnings: ImportProblem[] };
 
 const MB = 1024 * 1024;
-/** Room for the multipart boundaries and headers around the file itself. */
-const MULTIPART_OVERHEAD_BYTES = 64 * 1024;
 
 export const tooBigMessage = `The file is larger than ${IMPORT_LIMITS.maxBytes / MB} MB. Split the schedule into smaller files (at most ${IMPORT_LIMITS.maxRows.toLocaleString('en-GB')} flights each) and upload them one by one.`;
 
-/** A copy of the request body that stops with 413 once it passes the upload limit. */
-function limitedBody(req: Request): ReadableStream<Uint8Array> | null {
-  if (!req.body) return null;
-  const limit = IMPORT_LIMITS.maxBytes + MULTIPART_OVERHEAD_BYTES;
-  let seen = 0;
-  return req.body.pipeThrough(
-    new TransformStream<Uint8Array, Uint8Array>({
-      transform(chunk, controller) {
-        seen += chunk.byteLength;
-        if (seen > limit) controller.error(tooLarge(tooBigMessage));
-        else controller.enqueue(chunk);
-      },
-    }),
-  );
-}
-
 /** Reads the multipart body and returns its `file` field; 413 past the limit, 400 when unreadable. */
-export async function readUploadedFile(req: Request): Promise<UploadedFile> {
-  const declared = Number(req.headers.get('content-length') ?? '0');
-  if (declared > IMPORT_LIMITS.maxBytes + MULTIPART_OVERHEAD_BYTES) throw tooLarge(tooBigMessage);
-  const type = req.headers.get('content-type') ?? '';
-  if (!/^multipart\/form-data/i.test(type))
-    throw badRequest('Send the schedule as multipart/form-data with the CSV in the field “file”.');
-  const body = limitedBody(req);
-  if (!body) throw badRequest('The request has no body; attach the schedule CSV in the field “file”.');
-  let form: FormData;
-  try {
-    form = await new Response(body, { headers: { 'content-type': type } }).formData();
-  } catch (err) {
-    if (err instanceof Error && 'status' in err && (err as { status: number }).status === 413) throw err;
-    const cause = (err as { cause?: unknown }).cause;
-    if (cause instanceof Error && 'status' in cause && (cause as { status: number }).status === 413) throw cause;
-    throw badRequest(
-      'The upload could not be read as multipart/form-data. Attach the schedule CSV in the field “file”.',
-    );
-  }
-  const file = form.get('file');
-  if (file === null || typeof file === 'string') throw badRequest('Attach the schedule CSV in the field “file”.');
-  if (file.size > IMPORT_LIMITS.maxBytes) throw tooLarge(tooBigMessage);
-  return { name: file.name || 'schedule.csv', size: file.size, stream: () => file.stream() };
+export function readScheduleFile(req: Request): Promise<UploadedFile> {
+  return readUploadedFile(req, {
+    maxBytes: IMPORT_LIMITS.maxBytes,
+    what: 'the schedule CSV',
+    tooBig: tooBigMessage,
+    defaultName: 'schedule.csv',
+  });
 }
 
 async function sha256(stream: ReadableStream<Uint8Array>): Promise<string> {

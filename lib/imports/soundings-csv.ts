@@ -5,7 +5,8 @@ import {
   type FieldProblem,
   type SoundingLevelInput,
 } from '@/lib/validation/screening';
-import { csvCell, parseCsv, parseNumberCell, type CsvProblem } from './csv';
+import { toCsv } from '@/lib/csv/write';
+import { parseCsv, parseNumberCell, type CsvProblem } from './csv';
 
 /**
  * The soundings CSV (the documented import format): one level per line with `altitude_m`
@@ -24,7 +25,7 @@ export function soundingCsvTemplate(): string {
     [11000, 226.32, 216.65],
     [15000, 120.45, 216.65],
   ];
-  return `altitude_m,pressure_hpa,temperature_k\n${rows.map((r) => r.map(csvCell).join(',')).join('\n')}\n`;
+  return toCsv(['altitude_m', 'pressure_hpa', 'temperature_k'], rows);
 }
 
 export interface SoundingCsvResult {

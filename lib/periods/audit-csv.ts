@@ -1,6 +1,6 @@
 import { createHash } from 'node:crypto';
 import type { AfterSignOffChange, FrozenFlight } from '@/db/periods';
-import { toCsv, type CsvCell } from '@/lib/reports/csv';
+import { toCsv, type CsvCell } from '@/lib/csv/write';
 import { CO2_PER_KG_FUEL } from '@/lib/screening/screen-flight';
 
 /** The page of one imported flight (its own page; the URL pattern is fixed). */

@@ -1,7 +1,7 @@
 import type { UnitSystem } from '@/db/users';
 import type { CompareRow, FleetContextRow, FleetPercentiles, FleetSeries } from '@/lib/fleets/types';
-import type { CsvCell } from './csv';
-import { toCsv } from './csv';
+import type { CsvCell } from '@/lib/csv/write';
+import { toCsv } from '@/lib/csv/write';
 
 /** What a stored report holds besides its PDF and CSV (`reports.summary_json`). SI units. */
 export interface ReportSummary {

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { SCREENING_LIMITS } from './screening';
+import type { LineProblem } from './problems';
 
 /**
  * Flight-schedule imports (DESIGN.md "Import formats"): the file limits, the columns with their
@@ -125,11 +126,7 @@ export const SCHEDULE_COLUMN_DOCS: readonly ScheduleColumnDoc[] = [
 ];
 
 /** One problem of an import: the CSV line (the header is line 1), the column, and what to fix. */
-export interface ImportProblem {
-  line: number;
-  column: string;
-  message: string;
-}
+export type ImportProblem = LineProblem;
 
 const DATE_RE = /^\d{4}-\d{2}-\d{2}$/;
 const NUMBER_RE = /^[+]?(\d+(\.\d*)?|\.\d+)$/;

@@ -40,11 +40,8 @@ export const SCREENING_LIMITS = {
   maxTropopausePressureHpa: 700,
 } as const;
 
-/** One problem with one input field: `path` is dotted (`route.waypoints.3.lat`). */
-export interface FieldProblem {
-  path: string;
-  message: string;
-}
+import type { FieldProblem } from './problems';
+export type { FieldProblem };
 
 type IssueLike = { input?: unknown };
 

@@ -10,7 +10,7 @@ import * as tropopauseRoute from '@/app/api/v1/tropopause/route';
 import * as airportsRoute from '@/app/api/v1/airports/route';
 import * as openapiRoute from '@/app/api/v1/openapi.json/route';
 import { db, insertId } from '@/db/client';
-import { createApiKey } from '@/db/api-keys';
+import { createApiKey } from '@/lib/auth/api-keys';
 
 useTestDatabase();
 

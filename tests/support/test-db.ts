@@ -8,7 +8,7 @@ import { resetEnvForTests } from '@/lib/env';
 import { closeDb, db } from '@/db/client';
 import { createUser } from '@/db/users';
 import { createSession } from '@/db/sessions';
-import { createWorkspace } from '@/db/workspaces';
+import { createWorkspace } from '@/lib/workspaces/service';
 import type { Role } from '@/lib/auth/policy';
 
 export const TEST_SECRET = 'test-secret-0123456789-abcdefghij';

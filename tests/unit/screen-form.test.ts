@@ -8,7 +8,7 @@ import {
   screenFormProblems,
   type ScreenFormContext,
   type ScreenFormValues,
-} from '@/lib/validation/screen-form';
+} from '@/components/screening/screen-form-adapter';
 import { screeningInputSchema } from '@/lib/validation/screening';
 import { DAYLIGHT_FACTOR_EQUINOX, DEFAULT_OZONE_INPUTS } from '@/lib/screening';
 

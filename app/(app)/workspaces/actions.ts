@@ -4,7 +4,7 @@ import { revalidatePath } from 'next/cache';
 import { requireActionMember } from '@/lib/auth/guards';
 import { copyLibrary } from '@/db/library-copy';
 import { libraryCopySchema } from '@/lib/validation/library-copy';
-import { createWorkspace } from '@/db/workspaces';
+import { createWorkspace } from '@/lib/workspaces/service';
 import { workspaceCreateSchema } from '@/lib/validation/workspaces';
 import { userAction } from '@/lib/actions/workspace-action';
 

@@ -1,37 +1,31 @@
 'use client';
 
-import { useState } from 'react';
 import { useRouter } from 'next/navigation';
-import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { workspaceCreateSchema, type WorkspaceCreateInput } from '@/lib/validation/workspaces';
 import { Field, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
-import { Notice } from '@/components/ui/notice';
-import { applyServerErrors } from '@/components/ui/server-errors';
+import { FormNotice, useActionForm } from '@/components/ui/use-action-form';
 import { createWorkspaceAction } from './actions';
 
 export function CreateWorkspaceForm() {
   const router = useRouter();
-  const [message, setMessage] = useState<string>();
-  const form = useForm<{ name: string; slug?: string }, unknown, WorkspaceCreateInput>({
+  const { form, errors, pending, message, onSubmit } = useActionForm<
+    { name: string; slug?: string },
+    WorkspaceCreateInput,
+    { slug: string }
+  >({
     resolver: zodResolver(workspaceCreateSchema),
     defaultValues: { name: '', slug: '' },
-  });
-  const { errors, isSubmitting } = form.formState;
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage(undefined);
-    const state = await createWorkspaceAction(values);
-    if (state?.ok && state.data) router.push(`/w/${state.data.slug}`);
-    else setMessage(applyServerErrors(state, form.setError, ['name', 'slug']));
+    fields: ['name', 'slug'],
+    action: createWorkspaceAction,
+    onSuccess: (state) => {
+      if (state.data) router.push(`/w/${state.data.slug}`);
+    },
   });
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4">
-      {message ? (
-        <Notice tone="danger" role="alert">
-          {message}
-        </Notice>
-      ) : null}
+      <FormNotice message={message} />
       <Field id="ws-name" label="Name" error={errors.name?.message}>
         <TextInput id="ws-name" invalid={!!errors.name} {...form.register('name')} />
       </Field>
@@ -43,7 +37,7 @@ export function CreateWorkspaceForm() {
       >
         <TextInput id="ws-slug" invalid={!!errors.slug} {...form.register('slug')} />
       </Field>
-      <Button type="submit" disabled={isSubmitting}>
+      <Button type="submit" disabled={pending}>
         Create workspace
       </Button>
     </form>

@@ -1,24 +1,27 @@
 'use client';
 
-import { useActionState } from 'react';
 import { Field, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { requestPasswordResetAction, resetPasswordAction, type AuthFormState } from '../actions';
-import { fieldError, FormMessage } from '../auth-form-bits';
+import { FormNotice, usePostedForm } from '@/components/ui/use-action-form';
+import { NewPasswordField } from '../new-password-field';
 
 export function RequestResetForm() {
-  const [state, action, pending] = useActionState<AuthFormState, FormData>(requestPasswordResetAction, null);
+  const { state, action, pending, fieldError, message } = usePostedForm<AuthFormState>(
+    requestPasswordResetAction,
+    null,
+  );
   if (state?.ok)
     return (
       <Notice tone="success" title="Check your e-mail">
         {state.message}
       </Notice>
     );
-  const err = fieldError(state, 'email');
+  const err = fieldError('email');
   return (
     <form action={action} noValidate className="mt-5 space-y-4">
-      <FormMessage state={state} />
+      <FormNotice message={message} />
       <Field id="email" label="E-mail" error={err}>
         <TextInput
           id="email"
@@ -40,27 +43,12 @@ export function RequestResetForm() {
 
 /** Posted as an ordinary form (a server action): works before the script loads; the password never lands in a URL. */
 export function NewPasswordForm({ token }: { token: string }) {
-  const [state, action, pending] = useActionState<AuthFormState, FormData>(resetPasswordAction, null);
-  const err = (p: string) => fieldError(state, p);
+  const { action, pending, fieldError: err, message } = usePostedForm<AuthFormState>(resetPasswordAction, null);
   return (
     <form action={action} noValidate className="mt-5 space-y-4">
-      <FormMessage state={state} />
+      <FormNotice message={message} />
       <input type="hidden" name="token" value={token} />
-      <Field
-        id="password"
-        label="New password"
-        hint="At least 10 characters; not a common password, a run like 12345, or your name."
-        error={err('password')}
-      >
-        <TextInput
-          id="password"
-          name="password"
-          type="password"
-          autoComplete="new-password"
-          required
-          invalid={!!err('password')}
-        />
-      </Field>
+      <NewPasswordField label="New password" error={err('password')} />
       <Field id="confirm" label="Repeat it" error={err('confirm')}>
         <TextInput
           id="confirm"

@@ -1,6 +1,6 @@
 'use client';
 
-import { useActionState, useState } from 'react';
+import { useState } from 'react';
 import { useRouter } from 'next/navigation';
 import Link from 'next/link';
 import { useForm } from 'react-hook-form';
@@ -11,7 +11,7 @@ import { Field, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { signInWithPasswordAction, type AuthFormState } from '../actions';
-import { fieldError, FormMessage } from '../auth-form-bits';
+import { FormNotice, usePostedForm } from '@/components/ui/use-action-form';
 
 /**
  * The password form is a server action posted as an ordinary form: before the script has loaded (a slow
@@ -21,7 +21,13 @@ export function SignInForm({ callbackUrl, initialNotice }: { callbackUrl: string
   const router = useRouter();
   const [mode, setMode] = useState<'password' | 'link'>('password');
   const [message, setMessage] = useState<string | undefined>(initialNotice);
-  const [state, action, pending] = useActionState<AuthFormState, FormData>(signInWithPasswordAction, null);
+  const {
+    state,
+    action,
+    pending,
+    fieldError,
+    message: stateMessage,
+  } = usePostedForm<AuthFormState>(signInWithPasswordAction, null);
   const linkForm = useForm<{ email: string }>({ resolver: zodResolver(emailOnlySchema), defaultValues: { email: '' } });
 
   const submitLink = linkForm.handleSubmit(async (values) => {
@@ -38,8 +44,8 @@ export function SignInForm({ callbackUrl, initialNotice }: { callbackUrl: string
     router.push('/signin/check-email');
   });
 
-  const emailError = fieldError(state, 'email');
-  const passwordError = fieldError(state, 'password');
+  const emailError = fieldError('email');
+  const passwordError = fieldError('password');
   return (
     <div className="mt-5 space-y-4">
       <div role="tablist" aria-label="How to sign in" className="flex gap-1 rounded-md bg-paper-sunk p-1 text-sm">
@@ -63,7 +69,7 @@ export function SignInForm({ callbackUrl, initialNotice }: { callbackUrl: string
       ) : null}
       {mode === 'password' ? (
         <form action={action} noValidate className="space-y-4">
-          <FormMessage state={state} />
+          <FormNotice message={stateMessage} />
           <input type="hidden" name="callbackUrl" value={callbackUrl} />
           <Field id="email" label="E-mail" error={emailError}>
             <TextInput

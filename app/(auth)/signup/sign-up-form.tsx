@@ -1,20 +1,19 @@
 'use client';
 
-import { useActionState } from 'react';
 import { Field, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { signUpAction, type AuthFormState } from '../actions';
-import { fieldError, FormMessage } from '../auth-form-bits';
+import { FormNotice, usePostedForm } from '@/components/ui/use-action-form';
+import { NewPasswordField } from '../new-password-field';
 
 /** Posted as an ordinary form (a server action): works before the script loads, and the password never lands in a URL. */
 export function SignUpForm({ invitationToken, invitedEmail }: { invitationToken?: string; invitedEmail?: string }) {
-  const [state, action, pending] = useActionState<AuthFormState, FormData>(signUpAction, null);
+  const { state, action, pending, fieldError: err, message } = usePostedForm<AuthFormState>(signUpAction, null);
   const v = state?.values ?? {};
-  const err = (p: string) => fieldError(state, p);
   const k = JSON.stringify(v);
   return (
     <form action={action} noValidate className="mt-5 space-y-4">
-      <FormMessage state={state} />
+      <FormNotice message={message} />
       {invitationToken ? <input type="hidden" name="invitationToken" value={invitationToken} /> : null}
       <Field id="name" label="Your name" error={err('name')}>
         <TextInput
@@ -40,21 +39,7 @@ export function SignUpForm({ invitationToken, invitedEmail }: { invitationToken?
           key={`e${k}`}
         />
       </Field>
-      <Field
-        id="password"
-        label="Password"
-        hint="At least 10 characters; not a common password, a run like 12345, or your name."
-        error={err('password')}
-      >
-        <TextInput
-          id="password"
-          name="password"
-          type="password"
-          autoComplete="new-password"
-          required
-          invalid={!!err('password')}
-        />
-      </Field>
+      <NewPasswordField label="Password" error={err('password')} />
       {invitationToken ? null : (
         <Field
           id="workspaceName"

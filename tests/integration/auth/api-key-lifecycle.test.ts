@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { apiRequest, call, makeUser, makeWorkspace, useTestDatabase } from '../../support/test-db';
-import { createApiKey } from '@/db/api-keys';
-import { changeMemberRole, removeMember } from '@/db/workspaces';
+import { createApiKey } from '@/lib/auth/api-keys';
+import { removeMember } from '@/db/workspaces';
+import { changeMemberRole } from '@/lib/workspaces/service';
 import * as screeningsRoute from '@/app/api/v1/workspaces/[slug]/screenings/route';
 import { db } from '@/db/client';
 

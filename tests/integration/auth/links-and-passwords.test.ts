@@ -1,7 +1,7 @@
 import { beforeEach, describe, expect, it, vi } from 'vitest';
 import { makeUser, sessionCookie, useTestDatabase } from '../../support/test-db';
 import { resetScope, scope } from '../../support/request-scope';
-import { createResetToken, consumeResetToken, resetTokenEmail } from '@/db/reset-tokens';
+import { createResetToken, consumeResetToken, resetTokenEmail } from '@/lib/auth/password-reset';
 import { bumpSessionVersion, createUser, getCredentialsByEmail } from '@/db/users';
 import { knexAdapter } from '@/lib/auth/adapter';
 import { hashPassword, verifyPassword } from '@/lib/auth/password';

@@ -12,13 +12,8 @@ import * as keysRoute from '@/app/api/v1/workspaces/[slug]/api-keys/route';
 import * as keyRoute from '@/app/api/v1/workspaces/[slug]/api-keys/[id]/route';
 import * as workspacesRoute from '@/app/api/v1/workspaces/route';
 import { db } from '@/db/client';
-import {
-  acceptInvitation,
-  changeMemberRole,
-  createInvitation,
-  getInvitationByToken,
-  removeMember,
-} from '@/db/workspaces';
+import { removeMember } from '@/db/workspaces';
+import { acceptInvitation, changeMemberRole, createInvitation, getInvitationByToken } from '@/lib/workspaces/service';
 import { userFromSessionToken } from '@/lib/auth/session';
 import { bumpSessionVersion } from '@/db/users';
 import { knexAdapter } from '@/lib/auth/adapter';

@@ -5,7 +5,7 @@ import * as importRoute from '@/app/api/v1/workspaces/[slug]/imports/[id]/route'
 import * as templateRoute from '@/app/api/v1/workspaces/[slug]/imports/template/route';
 import * as flightsRoute from '@/app/api/v1/workspaces/[slug]/flights/route';
 import { db } from '@/db/client';
-import { createApiKey } from '@/db/api-keys';
+import { createApiKey } from '@/lib/auth/api-keys';
 import { runImportsToCompletion } from '@/lib/imports/worker';
 import { screenFlight } from '@/lib/screening';
 import type { ImportDto } from '@/db/imports';

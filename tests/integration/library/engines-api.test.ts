@@ -288,7 +288,7 @@ describe('engines CSV import', () => {
     expect(imported.status).toBe(201);
   });
 
-  it('413 for a file over the limit; 400 for no file or a non-UTF-8 file; 403 for a viewer', async () => {
+  it('413 for a file over the limit; 400 for no file; 422 on the file field for a non-UTF-8 file (as a schedule import answers); 403 for a viewer', async () => {
     const ws = await makeWorkspace(['viewer']);
     const cookie = await sessionCookie(ws.owner.id);
     const big = `${HEADER}\n${'Engine,0.1,0.3,0.9,1.1,4,10,22,30,'.padEnd(200, 'x')}\n`.repeat(3000);
@@ -300,8 +300,9 @@ describe('engines CSV import', () => {
       ...new TextEncoder().encode('ur,0.1,0.3,0.9,1.1,4,10,22,30,\n'),
     ]);
     const notUtf8 = await upload(ws.slug, cookie, latin1);
-    expect(notUtf8.status).toBe(400);
+    expect(notUtf8.status).toBe(422);
     expect(notUtf8.body.error?.message).toContain('UTF-8');
+    expect(notUtf8.body.error?.fields?.[0]?.path).toBe('file');
     const noFile = await call(
       importRoute.POST,
       multipartRequest(`${engines(ws.slug)}/import`, { cookie, csv: 'x', field: 'other' }),

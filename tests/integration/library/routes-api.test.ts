@@ -3,7 +3,7 @@ import { apiRequest, call, makeUser, makeWorkspace, sessionCookie, useTestDataba
 import * as routesRoute from '@/app/api/v1/workspaces/[slug]/routes/route';
 import * as routeRoute from '@/app/api/v1/workspaces/[slug]/routes/[id]/route';
 import { db } from '@/db/client';
-import { createApiKey } from '@/db/api-keys';
+import { createApiKey } from '@/lib/auth/api-keys';
 
 useTestDatabase();
 

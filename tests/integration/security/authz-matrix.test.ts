@@ -12,7 +12,7 @@ import {
 } from './discover';
 import { BILLING_ID_FIXTURES, ID_FIXTURES, resourceOf, type Ws } from './fixtures';
 import { API_KEY_ROLES, PERMISSIONS, ROLES, can, type Permission, type Role } from '@/lib/auth/policy';
-import { createApiKey } from '@/db/api-keys';
+import { createApiKey } from '@/lib/auth/api-keys';
 
 // The billing harness gives the file its database and the local payment fake the invoice fixture needs.
 useBillingHarness({ RATE_LIMIT_API_PER_MIN: '1000000', RATE_LIMIT_PREVIEW_PER_MIN: '1000000' });

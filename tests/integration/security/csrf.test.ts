@@ -2,7 +2,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { apiRequest, call, makeWorkspace, sessionCookie, TEST_ORIGIN, useTestDatabase } from '../../support/test-db';
 import { fillPattern, HTTP_METHODS, loadRoute, routeFiles, type HttpMethod, type RouteModule } from './discover';
 import { ID_FIXTURES, resourceOf } from './fixtures';
-import { createApiKey } from '@/db/api-keys';
+import { createApiKey } from '@/lib/auth/api-keys';
 import { rowCounts } from './tables';
 
 useTestDatabase({ RATE_LIMIT_API_PER_MIN: '1000000', RATE_LIMIT_PREVIEW_PER_MIN: '1000000' });

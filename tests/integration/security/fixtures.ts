@@ -1,6 +1,6 @@
 import { TEST_ORIGIN, apiRequest, call, sessionCookie } from '../../support/test-db';
 import { db, nowIso } from '@/db/client';
-import { createApiKey } from '@/db/api-keys';
+import { createApiKey } from '@/lib/auth/api-keys';
 import { getBilling } from '@/db/billing';
 import { env } from '@/lib/env';
 

@@ -5,32 +5,22 @@ import { importSpecifiers, resolveSpecifier, sourceFilesUnder } from '../../supp
  * `db/` holds queries; rules (the billing gate, engine work, tokens) live in services under `lib/`
  * that own the write transaction. So `db/` may import only leaf utilities from `lib/`.
  */
-const LEAF_UTILITIES = ['lib/errors', 'lib/clock'];
+/** Leaf utilities: errors, clock, units, and plain data with no imports (roles, the plan catalogue). */
+const LEAF_UTILITIES = ['lib/errors', 'lib/clock', 'lib/units', 'lib/auth/roles', 'lib/billing/plan-catalogue'];
 
 /**
  * Imports from `lib/` that `db/` still has, each to be moved into a service. The list may only
  * shrink: an entry that no longer exists fails too, so it is struck when the move is done.
  */
 const NOT_YET_MOVED = [
-  'db/aircraft-lookup.ts -> lib/validation/screening',
-  'db/api-keys.ts -> lib/auth/tokens',
-  'db/api-keys.ts -> lib/auth/policy',
-  'db/billing.ts -> lib/billing/plans',
-  'db/engines.ts -> lib/validation/library',
-  'db/flights.ts -> lib/validation/imports',
   'db/imports.ts -> lib/billing/gate',
   'db/imports.ts -> lib/screening',
   'db/imports.ts -> lib/validation/imports',
   'db/imports.ts -> lib/imports/schedule',
   'db/reports.ts -> lib/reports/model',
-  'db/route-library.ts -> lib/screening',
-  'db/route-library.ts -> lib/validation/route-library',
-  'db/reset-tokens.ts -> lib/auth/tokens',
   'db/screenings.ts -> lib/billing/gate',
   'db/screenings.ts -> lib/validation/screening',
   'db/screenings.ts -> lib/screening',
-  'db/workspaces.ts -> lib/auth/policy',
-  'db/workspaces.ts -> lib/auth/tokens',
 ];
 
 function dbImportsOfLib(): string[] {

@@ -5,7 +5,7 @@ import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { useForm } from 'react-hook-form';
 import { FlightPlanEntry } from '@/components/screening/flight-plan-entry';
 import { expandFlightPlanInput, type FlightPlanUsed } from '@/lib/screening';
-import { emptyScreenForm, type ScreenFormValues } from '@/lib/validation/screen-form';
+import { emptyScreenForm, type ScreenFormValues } from '@/components/screening/screen-form-adapter';
 
 // Invented library names for the test.
 const LIBRARY = { fixes: [{ name: 'QXORV', lat: 63, lon: -25 }], airways: [] };

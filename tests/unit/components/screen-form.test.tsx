@@ -3,7 +3,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 import { cleanup, fireEvent, render, screen, waitFor, within } from '@testing-library/react';
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { ScreenFlightForm, type ScreenFlightFormProps } from '@/components/screening/screen-form';
-import type { AssumptionDefaults } from '@/lib/validation/screen-form';
+import type { AssumptionDefaults } from '@/components/screening/screen-form-adapter';
 
 const defaults: AssumptionDefaults = {
   jO3NoonPerS: { low: 3e-4, central: 4.5e-4, high: 6e-4 },

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { csvCell, parseCsv, parseNumberCell } from '@/lib/imports/csv';
+import { parseCsv, parseNumberCell } from '@/lib/imports/csv';
+import { csvField as csvCell } from '@/lib/csv/write';
 
 const COLUMNS = [{ name: 'a', required: true }, { name: 'b' }];
 
@@ -69,7 +70,7 @@ describe('cells', () => {
     expect(parseNumberCell(input)).toBeNaN();
   });
 
-  it('csvCell quotes commas, quotes and line breaks only', () => {
+  it('the CSV writer quotes commas, quotes and line breaks, and the reader reads its output back', () => {
     expect(csvCell('plain')).toBe('plain');
     expect(csvCell('a,b')).toBe('"a,b"');
     expect(csvCell('say "hi"')).toBe('"say ""hi"""');

@@ -7,7 +7,7 @@ import {
   routeFormSchema,
   formatWaypointLines,
 } from '@/lib/validation/library';
-import { cruiseEiCheck, TYPICAL_CRUISE_EI_G_PER_KG } from '@/components/library/cruise-ei-check';
+import { cruiseEiCheck, TYPICAL_CRUISE_EI_G_PER_KG } from '@/lib/library/cruise-ei-check';
 import { flightLevelToMetres, isa } from '@/lib/screening/atmosphere';
 import { BFFM2_INSTALLATION_FACTORS, bffm2EiNox, buildEiCurve } from '@/lib/screening/emission-index';
 

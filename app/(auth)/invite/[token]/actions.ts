@@ -2,7 +2,7 @@
 
 import { redirect } from 'next/navigation';
 import { requireActionUser } from '@/lib/auth/guards';
-import { acceptInvitation } from '@/db/workspaces';
+import { acceptInvitation } from '@/lib/workspaces/service';
 import { badRequest, toActionState, type ActionState } from '@/lib/errors';
 import { formText } from '@/lib/validation/action-input';
 

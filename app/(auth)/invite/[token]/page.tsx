@@ -1,5 +1,5 @@
 import Link from 'next/link';
-import { getInvitationByToken } from '@/db/workspaces';
+import { getInvitationByToken } from '@/lib/workspaces/service';
 import { getUserByEmail } from '@/db/users';
 import { currentUser } from '@/lib/auth/session';
 import { ROLE_LABELS } from '@/lib/auth/policy';

@@ -1,13 +1,11 @@
-import { authedRoute, json } from '@/lib/api/route';
+import { authedRoute, json, readQuery } from '@/lib/api/route';
 import { searchAirports } from '@/lib/screening';
 import { airportQuerySchema } from '@/lib/validation/screening-api';
-import { fromZod } from '@/lib/errors';
 
 /** Airport type-ahead: ICAO/IATA code prefix first, then name; at most 20. */
 export const GET = authedRoute(async ({ req }) => {
-  const q = airportQuerySchema.safeParse(Object.fromEntries(new URL(req.url).searchParams));
-  if (!q.success) throw fromZod(q.error);
-  const items = searchAirports(q.data.q, q.data.limit ?? 20).map((a) => ({
+  const query = readQuery(req, airportQuerySchema);
+  const items = searchAirports(query.q, query.limit ?? 20).map((a) => ({
     icao: a.icao,
     iata: a.iata,
     name: a.name,

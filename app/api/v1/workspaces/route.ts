@@ -1,5 +1,6 @@
 import { authedRoute, json, readJson } from '@/lib/api/route';
-import { createWorkspace, listWorkspacesForUser } from '@/db/workspaces';
+import { listWorkspacesForUser } from '@/db/workspaces';
+import { createWorkspace } from '@/lib/workspaces/service';
 import { workspaceCreateSchema } from '@/lib/validation/workspaces';
 import { forbidden } from '@/lib/errors';
 

@@ -1,7 +1,5 @@
 'use client';
 
-import { LibraryError } from '@/components/library/library-error';
+import { sectionError } from '@/components/ui/section-error';
 
-export default function ErrorBoundary({ reset }: { error: Error & { digest?: string }; reset: () => void }) {
-  return <LibraryError what="Engines & aircraft" reset={reset} />;
-}
+export default sectionError('Engines & aircraft');

@@ -1,17 +1,5 @@
 'use client';
 
-import { Button } from '@/components/ui/button';
-import { Notice } from '@/components/ui/notice';
+import { sectionError } from '@/components/ui/section-error';
 
-export default function ReportsError({ reset }: { error: Error & { digest?: string }; reset: () => void }) {
-  return (
-    <Notice tone="danger" role="alert" title="The reports could not be shown">
-      <p>Nothing was changed. Try again in a moment.</p>
-      <div className="mt-3">
-        <Button variant="secondary" onClick={reset}>
-          Try again
-        </Button>
-      </div>
-    </Notice>
-  );
-}
+export default sectionError('The reports', 'Nothing was changed. Try again in a moment.');

@@ -3,11 +3,12 @@ import { requireMember } from '@/lib/auth/guards';
 import { can } from '@/lib/auth/policy';
 import { listRoutes } from '@/db/routes';
 import { routeLengthKm } from '@/lib/library/routes';
-import { Card, EmptyState, PageHeader } from '@/components/ui/card';
+import { Card } from '@/components/ui/card';
 import { ButtonLink } from '@/components/ui/button';
 import { formatDistance } from '@/lib/format';
 import { RouteForm } from '@/components/library/route-form';
 import { routeLine } from '@/components/library/format';
+import { countOf, LibraryList, LibraryPage } from '@/components/library/library-page';
 import { saveRouteAction } from './actions';
 
 export const metadata = { title: 'Saved routes' };
@@ -19,79 +20,60 @@ export default async function RoutesPage({ params }: { params: Promise<{ workspa
   const canWrite = can(role, 'library:write');
   const canScreen = can(role, 'screenings:create');
   return (
-    <>
-      <PageHeader
-        title="Saved routes"
-        lead="Named tracks you screen again and again, as airport codes or positions in order. Distances are great-circle lengths through the waypoints."
-      />
-      <div className={canWrite ? 'grid items-start gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(18rem,1fr)]' : ''}>
-        <div className="min-w-0">
-          {routes.length === 0 ? (
-            <EmptyState title="No saved routes yet">
-              {canWrite
-                ? 'Add the tracks you fly often with the form: list the airports (EGLL, KSEA) or positions one per line, then screen them from here in one click.'
-                : 'A planner in this workspace can add routes here; they will show up for you to read.'}
-            </EmptyState>
-          ) : (
-            <Card title={`${routes.length} saved route${routes.length === 1 ? '' : 's'}`}>
-              <div className="overflow-x-auto">
-                <table className="w-full text-sm">
-                  <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
-                    <tr>
-                      <th scope="col" className="py-2 pr-3">
-                        Route
-                      </th>
-                      <th scope="col" className="py-2 pr-3">
-                        Waypoints
-                      </th>
-                      <th scope="col" className="py-2 pr-3 text-right">
-                        Great-circle distance
-                      </th>
-                      <th scope="col" className="py-2">
-                        <span className="sr-only">Actions</span>
-                      </th>
-                    </tr>
-                  </thead>
-                  <tbody>
-                    {routes.map((r) => (
-                      <tr key={r.id} className="border-t border-line align-top">
-                        <td className="py-2 pr-3">
-                          <Link href={`/w/${slug}/routes/${r.id}`} className="font-medium text-accent hover:underline">
-                            {r.name}
-                          </Link>
-                          {r.notes ? (
-                            <div className="mt-0.5 line-clamp-2 max-w-xs text-xs text-ink-soft">{r.notes}</div>
-                          ) : null}
-                        </td>
-                        <td className="py-2 pr-3 font-mono text-xs text-ink">{routeLine(r.waypoints)}</td>
-                        <td className="figure py-2 pr-3 text-right whitespace-nowrap">
-                          {formatDistance(routeLengthKm(r), user.units)}
-                        </td>
-                        <td className="py-2 text-right whitespace-nowrap">
-                          {canScreen ? (
-                            <ButtonLink
-                              variant="secondary"
-                              href={`/w/${slug}/screen?route=${r.id}`}
-                              className="px-2.5 py-1 text-xs"
-                            >
-                              Screen this route
-                            </ButtonLink>
-                          ) : null}
-                        </td>
-                      </tr>
-                    ))}
-                  </tbody>
-                </table>
-              </div>
-            </Card>
-          )}
-        </div>
-        {canWrite ? (
+    <LibraryPage
+      title="Saved routes"
+      lead="Named tracks you screen again and again, as airport codes or positions in order. Distances are great-circle lengths through the waypoints."
+      asideWidth="narrow"
+      aside={
+        canWrite ? (
           <Card title="New route">
             <RouteForm action={saveRouteAction.bind(null, slug, null)} detailBase={`/w/${slug}/routes`} />
           </Card>
-        ) : null}
-      </div>
-    </>
+        ) : null
+      }
+    >
+      <LibraryList
+        count={routes.length}
+        emptyTitle="No saved routes yet"
+        empty={
+          canWrite
+            ? 'Add the tracks you fly often with the form: list the airports (EGLL, KSEA) or positions one per line, then screen them from here in one click.'
+            : 'A planner in this workspace can add routes here; they will show up for you to read.'
+        }
+        title={countOf(routes.length, 'saved route')}
+        columns={[
+          { label: 'Route' },
+          { label: 'Waypoints' },
+          { label: 'Great-circle distance', right: true },
+          { label: <span className="sr-only">Actions</span> },
+        ]}
+      >
+        {routes.map((r) => (
+          <tr key={r.id} className="border-t border-line align-top">
+            <td className="py-2 pr-3">
+              <Link href={`/w/${slug}/routes/${r.id}`} className="font-medium text-accent hover:underline">
+                {r.name}
+              </Link>
+              {r.notes ? <div className="mt-0.5 line-clamp-2 max-w-xs text-xs text-ink-soft">{r.notes}</div> : null}
+            </td>
+            <td className="py-2 pr-3 font-mono text-xs text-ink">{routeLine(r.waypoints)}</td>
+            <td className="figure py-2 pr-3 text-right whitespace-nowrap">
+              {formatDistance(routeLengthKm(r), user.units)}
+            </td>
+            <td className="py-2 text-right whitespace-nowrap">
+              {canScreen ? (
+                <ButtonLink
+                  variant="secondary"
+                  href={`/w/${slug}/screen?route=${r.id}`}
+                  className="px-2.5 py-1 text-xs"
+                >
+                  Screen this route
+                </ButtonLink>
+              ) : null}
+            </td>
+          </tr>
+        ))}
+      </LibraryList>
+    </LibraryPage>
   );
 }

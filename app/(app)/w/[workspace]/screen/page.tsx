@@ -11,12 +11,12 @@ import {
   findAirport,
 } from '@/lib/screening';
 import { todayIso } from '@/lib/clock';
-import type { AssumptionDefaults } from '@/lib/validation/screen-form';
+import type { AssumptionDefaults } from '@/components/screening/screen-form-adapter';
 import { PageHeader } from '@/components/ui/card';
 import { ScreeningCaution } from '@/components/ui/notice';
 import { Suspense } from 'react';
 import { FormSkeleton } from '@/components/screening/skeletons';
-import type { UnitSystem } from '@/lib/validation/screen-form';
+import type { UnitSystem } from '@/lib/units';
 import { ScreenFormIsland } from './screen-form-island';
 
 export const metadata = { title: 'Screen a flight' };

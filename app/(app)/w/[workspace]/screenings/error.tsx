@@ -1,7 +1,5 @@
 'use client';
 
-import { SegmentError } from '@/components/screening/skeletons';
+import { sectionError } from '@/components/ui/section-error';
 
-export default function ErrorBoundary({ reset }: { error: Error & { digest?: string }; reset: () => void }) {
-  return <SegmentError what="The screenings list" reset={reset} />;
-}
+export default sectionError('The screenings list');

@@ -12,7 +12,7 @@ import { Field, SelectInput, TextInput } from '@/components/ui/field';
 import { ScreeningCaution } from '@/components/ui/notice';
 import { HistoryTable, type HistoryRow } from '@/components/screening/history-table';
 import { CardSkeleton } from '@/components/screening/skeletons';
-import type { UnitSystem } from '@/lib/validation/screen-form';
+import type { UnitSystem } from '@/lib/units';
 import { FilterActions } from '@/components/ui/filter-actions';
 import Link from 'next/link';
 import { countImportedFlightsScreened } from '@/db/portfolio';

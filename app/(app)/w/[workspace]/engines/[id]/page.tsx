@@ -9,7 +9,7 @@ import { formatDateTime, formatNumber } from '@/lib/format';
 import { LTO_MODES } from '@/lib/validation/library';
 import { DemoBadge } from '@/components/library/badges';
 import { CruiseCheckTag } from '@/components/library/cruise-check-tag';
-import { CRUISE_CHECK, cruiseEiCheck } from '@/components/library/cruise-ei-check';
+import { CRUISE_CHECK, cruiseEiCheck } from '@/lib/library/cruise-ei-check';
 import { formatFuelFlow, fuelFlowUnit } from '@/components/library/format';
 import { EngineForm } from '@/components/library/engine-form';
 import { DeleteButton } from '@/components/ui/delete-button';

@@ -5,7 +5,7 @@ import { AppError } from '@/lib/errors';
 import { getFlightView, type FlightSide, type FlightView } from '@/lib/flights/view';
 import { ENGINE_VERSION } from '@/lib/screening';
 import { formatDistance, formatMass, formatMassRange, formatPercent } from '@/lib/format';
-import type { UnitSystem } from '@/lib/validation/screen-form';
+import type { UnitSystem } from '@/lib/units';
 import { Card, PageHeader } from '@/components/ui/card';
 import { ButtonLink } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';

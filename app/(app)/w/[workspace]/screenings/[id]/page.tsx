@@ -36,7 +36,7 @@ import { MonthStrip } from '@/components/screening/month-strip';
 import { monthsFor, uncertaintyFor } from '@/lib/screenings/uncertainty-view';
 import type { ScreeningResult } from '@/lib/screening';
 import type { ScreeningInput } from '@/lib/validation/screening';
-import type { UnitSystem } from '@/lib/validation/screen-form';
+import type { UnitSystem } from '@/lib/units';
 import { RescreenButton } from '@/components/screening/rescreen-button';
 import Link from 'next/link';
 import { rescreenScreeningAction } from './actions';

@@ -4,7 +4,7 @@ import { requireMember } from '@/lib/auth/guards';
 import { getScreening, routeLabel, type ScreeningRecord } from '@/db/screenings';
 import { AppError } from '@/lib/errors';
 import { formatAltitude, formatDistance, formatMass, formatNumber, formatPercent, formatDate } from '@/lib/format';
-import type { UnitSystem } from '@/lib/validation/screen-form';
+import type { UnitSystem } from '@/lib/units';
 import { Card, EmptyState, PageHeader } from '@/components/ui/card';
 import { ButtonLink } from '@/components/ui/button';
 import { ScreeningCautions } from '@/components/screening/cautions';

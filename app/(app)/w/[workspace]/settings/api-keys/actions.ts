@@ -2,7 +2,8 @@
 
 import { revalidatePath } from 'next/cache';
 import { z } from 'zod';
-import { createApiKey, revokeApiKey } from '@/db/api-keys';
+import { revokeApiKey } from '@/db/api-keys';
+import { createApiKey } from '@/lib/auth/api-keys';
 import { apiKeyCreateSchema } from '@/lib/validation/workspaces';
 import { workspaceAction } from '@/lib/actions/workspace-action';
 import type { ActionState } from '@/lib/errors';

@@ -1,23 +1,21 @@
 'use client';
 
-import { useActionState, useTransition } from 'react';
+import { useTransition } from 'react';
 import type { ActionState } from '@/lib/errors';
 import { API_KEY_ROLES, ROLE_LABELS } from '@/lib/auth/policy';
 import { Field, SelectInput, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
+import { FormNotice, usePostedForm } from '@/components/ui/use-action-form';
 import { createApiKeyFormAction, revokeApiKeyAction } from './actions';
 
 /** Posted as an ordinary form (a server action): works before the script loads, and the key never reaches a URL. */
 export function CreateKeyForm({ slug }: { slug: string }) {
-  const [state, action, pending] = useActionState<ActionState<{ key: string; name: string }>, FormData>(
+  const { state, action, pending, fieldError, message } = usePostedForm<ActionState<{ key: string; name: string }>>(
     createApiKeyFormAction,
     null,
   );
   const created = state?.ok ? state.data : undefined;
-  const fieldError = (p: string) =>
-    state && !state.ok ? state.error.fields?.find((f) => f.path === p)?.message : undefined;
-  const message = state && !state.ok && !state.error.fields?.length ? state.error.message : undefined;
   return (
     <div className="space-y-4">
       {created ? (
@@ -31,11 +29,7 @@ export function CreateKeyForm({ slug }: { slug: string }) {
           </code>
         </Notice>
       ) : null}
-      {message ? (
-        <Notice tone="danger" role="alert">
-          {message}
-        </Notice>
-      ) : null}
+      <FormNotice message={message} />
       <form action={action} noValidate className="space-y-4" key={created?.key ?? 'form'}>
         <input type="hidden" name="slug" value={slug} />
         <Field id="key-name" label="Name" hint="What will use it, e.g. “dispatch system”." error={fieldError('name')}>

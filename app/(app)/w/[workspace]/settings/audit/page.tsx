@@ -3,6 +3,7 @@ import { listAuditEntries } from '@/db/audit';
 import { Card, EmptyState, PageHeader } from '@/components/ui/card';
 import { formatDateTime } from '@/lib/format';
 import { ScrollRegion } from '@/components/ui/scroll-region';
+import { TableHead } from '@/components/ui/table-head';
 
 export const metadata = { title: 'Audit log' };
 
@@ -30,25 +31,7 @@ export default async function AuditPage({ params }: { params: Promise<{ workspac
                 <col className="w-40" />
                 <col />
               </colgroup>
-              <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
-                <tr>
-                  <th scope="col" className="py-2 pr-3">
-                    When
-                  </th>
-                  <th scope="col" className="py-2 pr-3">
-                    Who
-                  </th>
-                  <th scope="col" className="py-2 pr-3">
-                    What
-                  </th>
-                  <th scope="col" className="py-2 pr-3">
-                    Target
-                  </th>
-                  <th scope="col" className="py-2 pr-3">
-                    Detail
-                  </th>
-                </tr>
-              </thead>
+              <TableHead columns={['When', 'Who', 'What', 'Target', 'Detail']} gapOnLast />
               <tbody>
                 {rows.map((r) => (
                   <tr key={r.id} className="border-t border-line">

@@ -1,13 +1,12 @@
 'use client';
 
 import { useState, useTransition } from 'react';
-import { useForm } from 'react-hook-form';
+import type { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useQueryClient } from '@tanstack/react-query';
 import { Button } from '@/components/ui/button';
 import { Field, SelectInput, TextInput } from '@/components/ui/field';
-import { Notice } from '@/components/ui/notice';
-import { applyServerErrors } from '@/components/ui/server-errors';
+import { FormNotice, useActionForm, type FormMessage } from '@/components/ui/use-action-form';
 import { CARD_CHOICES, TEST_CARDS, type CardChoice } from '@/lib/billing/cards';
 import { PLANS, PLAN_IDS, breakEvenUnits, type PlanId } from '@/lib/billing/plans';
 import type { ActionState } from '@/lib/errors';
@@ -30,20 +29,11 @@ import {
   updateBillingEmailAction,
 } from './actions';
 
-type Message = { tone: 'success' | 'danger'; text: string } | undefined;
+type Message = FormMessage | undefined;
 
 function useAfterAction(slug: string) {
   const queryClient = useQueryClient();
   return () => queryClient.invalidateQueries({ queryKey: ['usage', slug] });
-}
-
-function Result({ message }: { message: Message }) {
-  if (!message) return null;
-  return (
-    <Notice tone={message.tone} role={message.tone === 'danger' ? 'alert' : 'status'}>
-      {message.text}
-    </Notice>
-  );
 }
 
 function messageOf(state: ActionState): Message {
@@ -109,24 +99,24 @@ export function SubscribeForm({
   card: CardChoice | null;
   trialLeft: boolean;
 }) {
-  const [message, setMessage] = useState<Message>();
   const after = useAfterAction(slug);
-  const form = useForm<SubscribeInput>({
+  const {
+    form,
+    errors,
+    pending: isSubmitting,
+    message,
+    onSubmit,
+  } = useActionForm({
     resolver: zodResolver(subscribeSchema),
     defaultValues: { planId, card: card ?? 'succeeds' },
+    fields: ['planId', 'card'],
+    action: (values: SubscribeInput) => subscribeAction(slug, values),
+    onSettled: after,
   });
-  const { errors, isSubmitting } = form.formState;
   const selected = form.watch('planId');
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage(undefined);
-    const state = await subscribeAction(slug, values);
-    const text = applyServerErrors(state, form.setError, ['planId', 'card']);
-    setMessage(state?.ok ? messageOf(state) : text ? { tone: 'danger', text } : undefined);
-    await after();
-  });
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4">
-      <Result message={message} />
+      <FormNotice message={message} />
       <PlanOptions selected={selected} current={null} register={form.register} />
       {errors.planId ? (
         <p role="alert" className="text-xs font-medium text-danger">
@@ -163,19 +153,17 @@ export function SubscribeForm({
 
 /** Switch plan on a running subscription (or choose the plan a trial will subscribe to). */
 export function ChangePlanForm({ slug, planId, subscribed }: { slug: string; planId: PlanId; subscribed: boolean }) {
-  const [message, setMessage] = useState<Message>();
   const after = useAfterAction(slug);
-  const form = useForm<SubscribeInput>({ defaultValues: { planId, card: 'succeeds' } });
-  const selected = form.watch('planId');
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage(undefined);
-    const state = await changePlanAction(slug, { planId: values.planId });
-    setMessage(messageOf(state));
-    await after();
+  const { form, message, onSubmit } = useActionForm<SubscribeInput, SubscribeInput, unknown>({
+    defaultValues: { planId, card: 'succeeds' },
+    fields: [],
+    action: (values) => changePlanAction(slug, { planId: values.planId }),
+    onSettled: after,
   });
+  const selected = form.watch('planId');
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4">
-      <Result message={message} />
+      <FormNotice message={message} />
       <PlanOptions selected={selected} current={planId} register={form.register} />
       <div className="flex flex-wrap items-center gap-3">
         <Button type="submit" disabled={form.formState.isSubmitting || selected === planId}>
@@ -213,7 +201,7 @@ export function CancelResume({
     });
   return (
     <div className="space-y-3">
-      <Result message={message} />
+      <FormNotice message={message} />
       {cancelAtPeriodEnd ? (
         <Button variant="primary" disabled={pending} onClick={() => run(false)}>
           Resume the subscription
@@ -239,24 +227,25 @@ export function CancelResume({
 }
 
 export function PaymentCardForm({ slug, card, pastDue }: { slug: string; card: CardChoice | null; pastDue: boolean }) {
-  const [message, setMessage] = useState<Message>();
   const [paying, startPaying] = useTransition();
   const after = useAfterAction(slug);
-  const form = useForm<CardChoiceInput>({
+  const {
+    form,
+    errors,
+    pending: isSubmitting,
+    message,
+    setMessage,
+    onSubmit,
+  } = useActionForm({
     resolver: zodResolver(cardChoiceSchema),
     defaultValues: { card: card ?? 'succeeds' },
-  });
-  const { errors, isSubmitting } = form.formState;
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage(undefined);
-    const state = await setCardAction(slug, values);
-    const text = applyServerErrors(state, form.setError, ['card']);
-    setMessage(state?.ok ? messageOf(state) : text ? { tone: 'danger', text } : undefined);
-    await after();
+    fields: ['card'],
+    action: (values: CardChoiceInput) => setCardAction(slug, values),
+    onSettled: after,
   });
   return (
     <div className="space-y-4">
-      <Result message={message} />
+      <FormNotice message={message} />
       <form onSubmit={onSubmit} noValidate className="space-y-4">
         <Field
           id="card-choice"
@@ -300,21 +289,21 @@ export function PaymentCardForm({ slug, card, pastDue }: { slug: string; card: C
 }
 
 export function BillingEmailForm({ slug, billingEmail }: { slug: string; billingEmail: string | null }) {
-  const [message, setMessage] = useState<Message>();
-  const form = useForm<BillingEmailInput>({
+  const {
+    form,
+    errors,
+    pending: isSubmitting,
+    message,
+    onSubmit,
+  } = useActionForm({
     resolver: zodResolver(billingEmailSchema),
     defaultValues: { billingEmail: billingEmail ?? '' },
-  });
-  const { errors, isSubmitting } = form.formState;
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage(undefined);
-    const state = await updateBillingEmailAction(slug, values);
-    const text = applyServerErrors(state, form.setError, ['billingEmail']);
-    setMessage(state?.ok ? messageOf(state) : text ? { tone: 'danger', text } : undefined);
+    fields: ['billingEmail'],
+    action: (values: BillingEmailInput) => updateBillingEmailAction(slug, values),
   });
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4">
-      <Result message={message} />
+      <FormNotice message={message} />
       <Field
         id="billing-email"
         label="Billing e-mail"
@@ -377,7 +366,7 @@ export function UsageBudgetForm({
         });
       }}
     >
-      <Result message={message} />
+      <FormNotice message={message} />
       <Field
         id="usage-budget"
         label="Monthly usage budget (USD)"

@@ -3,6 +3,7 @@ import { listInvoices, type InvoiceDto } from '@/lib/billing/service';
 import { EmptyState } from '@/components/ui/card';
 import { Notice } from '@/components/ui/notice';
 import { formatDate, formatMoney } from '@/lib/format';
+import { TableHead } from '@/components/ui/table-head';
 
 const STATUS_LABELS: Record<string, { label: string; className: string }> = {
   paid: { label: 'Paid', className: 'bg-tropo-soft text-tropo-strong' },
@@ -42,25 +43,7 @@ export async function InvoiceList({ slug, billing }: { slug: string; billing: Bi
     <div className="relative overflow-x-auto">
       <table className="w-full text-sm">
         <caption className="sr-only">Invoices, newest first</caption>
-        <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
-          <tr>
-            <th scope="col" className="py-2 pr-3">
-              Invoice
-            </th>
-            <th scope="col" className="py-2 pr-3">
-              Period
-            </th>
-            <th scope="col" className="py-2 pr-3 text-right">
-              Amount
-            </th>
-            <th scope="col" className="py-2 pr-3">
-              Status
-            </th>
-            <th scope="col" className="py-2">
-              Document
-            </th>
-          </tr>
-        </thead>
+        <TableHead columns={['Invoice', 'Period', { label: 'Amount', right: true }, 'Status', 'Document']} />
         <tbody>
           {invoices.map((inv) => (
             <tr key={inv.id} className="border-t border-line" data-testid="invoice-row">

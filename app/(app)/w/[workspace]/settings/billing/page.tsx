@@ -1,7 +1,8 @@
 import { Suspense } from 'react';
 import { requireMember } from '@/lib/auth/guards';
 import { can } from '@/lib/auth/policy';
-import { ensureBilling, listBillingContacts, type BillingDto } from '@/db/billing';
+import { listBillingContacts, type BillingDto } from '@/db/billing';
+import { ensureBilling } from '@/lib/billing/trial';
 import { getUsageSummary } from '@/lib/billing/usage-summary';
 import { cardChoiceForLabel } from '@/lib/billing/cards';
 import { PLANS } from '@/lib/billing/plans';

@@ -2,7 +2,8 @@
 
 import { revalidatePath } from 'next/cache';
 import { z } from 'zod';
-import { changeMemberRole, createInvitation, removeMember, revokeInvitation } from '@/db/workspaces';
+import { removeMember, revokeInvitation } from '@/db/workspaces';
+import { changeMemberRole, createInvitation } from '@/lib/workspaces/service';
 import { invitationCreateSchema, memberRoleSchema } from '@/lib/validation/workspaces';
 import { sendMail } from '@/lib/mail/mailer';
 import { invitationMail } from '@/lib/mail/templates';

@@ -1,42 +1,35 @@
 'use client';
 
 import { useState, useTransition } from 'react';
-import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { invitationCreateSchema } from '@/lib/validation/workspaces';
 import { ROLES, ROLE_LABELS, type Role } from '@/lib/auth/policy';
 import type { MemberDto } from '@/db/workspaces';
 import { Field, SelectInput, TextInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
-import { Notice } from '@/components/ui/notice';
-import { applyServerErrors } from '@/components/ui/server-errors';
+import { FormNotice, useActionForm } from '@/components/ui/use-action-form';
 import { changeRoleAction, inviteMemberAction, removeMemberAction, revokeInvitationAction } from './actions';
 
 export function InviteForm({ slug }: { slug: string }) {
-  const [message, setMessage] = useState<{ tone: 'success' | 'danger'; text: string }>();
-  const form = useForm<{ email: string; role: Role }>({
+  const {
+    form,
+    errors,
+    pending: isSubmitting,
+    message,
+    onSubmit,
+  } = useActionForm<{ email: string; role: Role }, { email: string; role: Role }, unknown>({
     resolver: zodResolver(invitationCreateSchema),
     defaultValues: { email: '', role: 'planner' },
-  });
-  const { errors, isSubmitting } = form.formState;
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage(undefined);
-    const state = await inviteMemberAction(slug, values);
-    if (state?.ok) {
-      setMessage({ tone: 'success', text: state.message ?? 'Invitation sent.' });
+    fields: ['email', 'role'],
+    action: (values: { email: string; role: Role }) => inviteMemberAction(slug, values),
+    onSuccess: (state, values) => {
       form.reset({ email: '', role: values.role });
-    } else {
-      const text = applyServerErrors(state, form.setError, ['email', 'role']);
-      if (text) setMessage({ tone: 'danger', text });
-    }
+      return state.message ?? 'Invitation sent.';
+    },
   });
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4">
-      {message ? (
-        <Notice tone={message.tone} role="status">
-          {message.text}
-        </Notice>
-      ) : null}
+      <FormNotice message={message} />
       <Field id="invite-email" label="E-mail" error={errors.email?.message}>
         <TextInput id="invite-email" type="email" invalid={!!errors.email} {...form.register('email')} />
       </Field>

@@ -1,5 +1,6 @@
 import { json, readJson, workspaceRoute } from '@/lib/api/route';
-import { createApiKey, listApiKeys } from '@/db/api-keys';
+import { listApiKeys } from '@/db/api-keys';
+import { createApiKey } from '@/lib/auth/api-keys';
 import { apiKeyCreateSchema } from '@/lib/validation/workspaces';
 import { forbidden } from '@/lib/errors';
 

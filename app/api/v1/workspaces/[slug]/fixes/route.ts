@@ -1,14 +1,12 @@
-import { json, readJson, workspaceRoute } from '@/lib/api/route';
+import { json, readJson, readQuery, workspaceRoute } from '@/lib/api/route';
 import { listFixes, saveFixes } from '@/db/route-library';
 import { fixRowSchema, routeLibraryQuerySchema, ROUTE_LIBRARY_LIMITS } from '@/lib/validation/route-library';
-import { fromZod } from '@/lib/errors';
 import { z } from 'zod';
 
 /** The workspace's named points by name, `?q=` a name prefix: `{ items }`. */
 export const GET = workspaceRoute<{ slug: string }>('flights:read', async ({ req, member }) => {
-  const q = routeLibraryQuerySchema.safeParse(Object.fromEntries(new URL(req.url).searchParams));
-  if (!q.success) throw fromZod(q.error);
-  return json({ items: await listFixes({ workspaceId: member.workspace.id }, q.data) });
+  const query = readQuery(req, routeLibraryQuerySchema);
+  return json({ items: await listFixes({ workspaceId: member.workspace.id }, query) });
 });
 
 const fixesBodySchema = z.strictObject({

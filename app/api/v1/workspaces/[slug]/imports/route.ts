@@ -1,8 +1,8 @@
-import { json, workspaceRoute } from '@/lib/api/route';
+import { json, readQuery, workspaceRoute } from '@/lib/api/route';
 import { listImports } from '@/db/imports';
-import { acceptScheduleUpload, readUploadedFile } from '@/lib/imports/schedule-service';
+import { acceptScheduleUpload, readScheduleFile } from '@/lib/imports/schedule-service';
 import { importListQuerySchema } from '@/lib/validation/imports';
-import { fromZod, invalidFields } from '@/lib/errors';
+import { invalidFields } from '@/lib/errors';
 
 /**
  * Uploads a flight-schedule CSV (multipart, field `file`). 202 with the queued import once every row
@@ -13,7 +13,7 @@ export const POST = workspaceRoute<{ slug: string }>('imports:create', async ({ 
   if (dry !== null && dry !== '1' && dry !== 'true' && dry !== '0' && dry !== 'false')
     throw invalidFields([{ path: 'dryRun', message: 'dryRun is 1 (check and estimate only) or 0.' }]);
   const dryRun = dry === '1' || dry === 'true';
-  const file = await readUploadedFile(req);
+  const file = await readScheduleFile(req);
   const outcome = await acceptScheduleUpload(
     { workspaceId: member.workspace.id },
     { userId, label: actorLabel },
@@ -49,7 +49,6 @@ export const POST = workspaceRoute<{ slug: string }>('imports:create', async ({ 
 
 /** `{ items, nextCursor }`, newest first. */
 export const GET = workspaceRoute<{ slug: string }>('flights:read', async ({ req, member }) => {
-  const q = importListQuerySchema.safeParse(Object.fromEntries(new URL(req.url).searchParams));
-  if (!q.success) throw fromZod(q.error);
-  return json(await listImports({ workspaceId: member.workspace.id }, q.data));
+  const query = readQuery(req, importListQuerySchema);
+  return json(await listImports({ workspaceId: member.workspace.id }, query));
 });

@@ -1,9 +1,8 @@
-import { json, readJson, workspaceRoute } from '@/lib/api/route';
+import { json, readJson, readQuery, workspaceRoute } from '@/lib/api/route';
 import { listReports } from '@/db/reports';
 import { buildFleetReport } from '@/lib/reports/build';
 import { reportJson } from '@/lib/reports/json';
 import { reportCreateSchema } from '@/lib/validation/reports';
-import { fromZod } from '@/lib/errors';
 import { z } from 'zod';
 
 const listQuery = z.object({
@@ -13,9 +12,8 @@ const listQuery = z.object({
 
 /** `{ items, nextCursor }`, newest first. */
 export const GET = workspaceRoute<{ slug: string }>('flights:read', async ({ req, member }) => {
-  const q = listQuery.safeParse(Object.fromEntries(new URL(req.url).searchParams));
-  if (!q.success) throw fromZod(q.error);
-  const page = await listReports({ workspaceId: member.workspace.id }, q.data);
+  const query = readQuery(req, listQuery);
+  const page = await listReports({ workspaceId: member.workspace.id }, query);
   return json({ items: page.items.map((r) => reportJson(member.workspace.slug, r)), nextCursor: page.nextCursor });
 });
 

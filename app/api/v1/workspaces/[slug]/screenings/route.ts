@@ -1,8 +1,8 @@
-import { json, readJson, workspaceRoute } from '@/lib/api/route';
+import { json, readJson, readQuery, workspaceRoute } from '@/lib/api/route';
 import { createScreening, listScreenings } from '@/db/screenings';
 import { parseScreeningBody, runScreening } from '@/lib/screenings/service';
 import { screeningListQuerySchema } from '@/lib/validation/screening-api';
-import { fromZod, invalidFields } from '@/lib/errors';
+import { invalidFields } from '@/lib/errors';
 import { z } from 'zod';
 import { bodyFingerprint } from '@/lib/api/fingerprint';
 import { checkBudgetAlerts } from '@/lib/billing/budget';
@@ -44,8 +44,7 @@ export const POST = workspaceRoute<{ slug: string }>('screenings:create', async 
 
 /** `{ items, nextCursor }`, newest first. */
 export const GET = workspaceRoute<{ slug: string }>('flights:read', async ({ req, member }) => {
-  const q = screeningListQuerySchema.safeParse(Object.fromEntries(new URL(req.url).searchParams));
-  if (!q.success) throw fromZod(q.error);
-  const { cursor, limit, ...filters } = q.data;
+  const query = readQuery(req, screeningListQuerySchema);
+  const { cursor, limit, ...filters } = query;
   return json(await listScreenings({ workspaceId: member.workspace.id }, { cursor, limit, filters }));
 });

@@ -1,6 +1,7 @@
 import { json, workspaceRoute } from '@/lib/api/route';
 import { saveAirways } from '@/db/route-library';
-import { csvRejection, readCsvUpload } from '@/lib/imports/csv';
+import { csvRejection } from '@/lib/imports/csv';
+import { readUpload } from '@/lib/api/upload';
 import { parseAirwayCsv } from '@/lib/imports/route-library-csv';
 import { ROUTE_LIBRARY_LIMITS } from '@/lib/validation/route-library';
 
@@ -9,7 +10,7 @@ import { ROUTE_LIBRARY_LIMITS } from '@/lib/validation/route-library';
  * library is replaced: 201 `{ added, updated, warnings }`; 422 `{ error, problems, warnings }`.
  */
 export const POST = workspaceRoute<{ slug: string }>('navdata:write', async ({ req, member, userId, actorLabel }) => {
-  const upload = await readCsvUpload(req, { maxBytes: ROUTE_LIBRARY_LIMITS.maxBytes });
+  const upload = await readUpload(req, { maxBytes: ROUTE_LIBRARY_LIMITS.maxBytes });
   const parsed = parseAirwayCsv(upload.text);
   if (parsed.problems.length || parsed.rows.length === 0) {
     return csvRejection(

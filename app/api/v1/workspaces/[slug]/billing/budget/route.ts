@@ -2,7 +2,7 @@ import { json, readJson, workspaceRoute } from '@/lib/api/route';
 import { getBudgetState, setUsageBudget } from '@/lib/billing/budget';
 import { usageBudgetSchema } from '@/lib/validation/billing';
 import { forbidden, notFound } from '@/lib/errors';
-import { ensureBilling } from '@/db/billing';
+import { ensureBilling } from '@/lib/billing/trial';
 
 /** The monthly usage budget with this billing period's usage against it. */
 export const GET = workspaceRoute<{ slug: string }>('billing:read', async ({ member }) => {

@@ -1,5 +1,5 @@
 import { json, readJson, workspaceRoute } from '@/lib/api/route';
-import { ensureBilling } from '@/db/billing';
+import { ensureBilling } from '@/lib/billing/trial';
 import { setPaymentCard } from '@/lib/billing/service';
 import { publicBillingState } from '@/lib/billing/state';
 import { cardChoiceSchema } from '@/lib/validation/billing';

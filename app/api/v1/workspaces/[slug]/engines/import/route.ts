@@ -1,6 +1,7 @@
 import { json, workspaceRoute } from '@/lib/api/route';
 import { createEngines, engineNamesInUse } from '@/db/engines';
-import { csvRejection, readCsvUpload } from '@/lib/imports/csv';
+import { csvRejection } from '@/lib/imports/csv';
+import { readUpload } from '@/lib/api/upload';
 import { engineCsvTemplate, parseEnginesCsv } from '@/lib/imports/engines-csv';
 import { LIBRARY_CSV_MAX_BYTES } from '@/lib/validation/library';
 
@@ -21,7 +22,7 @@ export const GET = workspaceRoute<{ slug: string }>('flights:read', async () => 
  */
 export const POST = workspaceRoute<{ slug: string }>('library:write', async ({ req, member, userId, actorLabel }) => {
   const scope = { workspaceId: member.workspace.id };
-  const upload = await readCsvUpload(req, { maxBytes: LIBRARY_CSV_MAX_BYTES });
+  const upload = await readUpload(req, { maxBytes: LIBRARY_CSV_MAX_BYTES });
   const parsed = parseEnginesCsv(upload.text, { existingNames: await engineNamesInUse(scope) });
   if (parsed.problems.length) return csvRejection(parsed.problems, parsed.warnings);
   const items = await createEngines(scope, parsed.engines, { userId, actor: actorLabel, fileName: upload.fileName });

@@ -1,6 +1,7 @@
 import { json, workspaceRoute } from '@/lib/api/route';
 import { createSounding } from '@/lib/library/soundings';
-import { csvRejection, readCsvUpload } from '@/lib/imports/csv';
+import { csvRejection } from '@/lib/imports/csv';
+import { readUpload } from '@/lib/api/upload';
 import { levelProblemsToCsv, parseSoundingCsv } from '@/lib/imports/soundings-csv';
 import { LIBRARY_CSV_MAX_BYTES, soundingMetaSchema } from '@/lib/validation/library';
 import { zodFields } from '@/lib/errors';
@@ -12,7 +13,7 @@ import { ScreeningInputError } from '@/lib/screening';
  * the file's problems by line and column (and `error.fields` for the form fields), nothing saved.
  */
 export const POST = workspaceRoute<{ slug: string }>('library:write', async ({ req, member, userId, actorLabel }) => {
-  const upload = await readCsvUpload(req, { maxBytes: LIBRARY_CSV_MAX_BYTES });
+  const upload = await readUpload(req, { maxBytes: LIBRARY_CSV_MAX_BYTES });
   const meta = soundingMetaSchema.safeParse({
     name: upload.fields.name ?? '',
     station: upload.fields.station,

@@ -1,5 +1,5 @@
 import { json, workspaceRoute } from '@/lib/api/route';
-import { ensureBilling } from '@/db/billing';
+import { ensureBilling } from '@/lib/billing/trial';
 import { payOpenInvoices } from '@/lib/billing/service';
 import { publicBillingState } from '@/lib/billing/state';
 import { forbidden } from '@/lib/errors';

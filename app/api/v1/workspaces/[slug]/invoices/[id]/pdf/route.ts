@@ -1,5 +1,5 @@
 import { workspaceRoute } from '@/lib/api/route';
-import { ensureBilling } from '@/db/billing';
+import { ensureBilling } from '@/lib/billing/trial';
 import { getInvoicePdf } from '@/lib/billing/service';
 
 /**

@@ -3,22 +3,7 @@ import { getScreening, routeLabel, type ScreeningRecord } from '@/db/screenings'
 import { invalidFields } from '@/lib/errors';
 import { uncertaintyFor } from '@/lib/screenings/uncertainty-view';
 import type { Percentiles, ScreeningUncertainty } from '@/lib/screening';
-
-type Cell = string | number | boolean | null;
-
-/** Text that a spreadsheet would read as a formula gets a leading apostrophe (OWASP "CSV injection"). */
-function neutralise(text: string): string {
-  return /^[=+\-@\t\r]/.test(text) ? `'${text}` : text;
-}
-
-/** One RFC 4180 field: numbers as written, text neutralised and quoted when it holds , " CR or LF. */
-function field(cell: Cell): string {
-  if (cell === null) return '';
-  if (typeof cell === 'number') return Number.isFinite(cell) ? String(cell) : '';
-  if (typeof cell === 'boolean') return cell ? 'yes' : 'no';
-  const text = neutralise(cell);
-  return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
-}
+import { csvRecords, type CsvCell as Cell } from '@/lib/csv/write';
 
 const round = (n: number, digits: number): number => Number(n.toFixed(digits));
 
@@ -112,12 +97,7 @@ function toCsv(r: ScreeningRecord): string {
       round(s.ozoneLossKg, 5),
     ]),
   ];
-  const width = SEGMENT_HEADER.length;
-  return (
-    rows
-      .map((row) => [...row, ...Array<Cell>(Math.max(0, width - row.length)).fill(null)].map(field).join(','))
-      .join('\r\n') + '\r\n'
-  );
+  return csvRecords(rows, SEGMENT_HEADER.length);
 }
 
 function fileStem(r: ScreeningRecord): string {

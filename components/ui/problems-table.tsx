@@ -1,14 +1,18 @@
-import type { ImportProblem } from '@/lib/validation/imports';
+import type { LineProblem } from '@/lib/validation/problems';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 
-/** Problems of a schedule file by line and column (line 1 is the header; line 0 is the file as a whole). */
-export function ImportProblemsTable({
+/**
+ * Problems (or notes) of an uploaded file by line and column, as a spreadsheet shows them (line 1 is
+ * the header; line 0 is the file as a whole). `total` says how many there were when only the first
+ * ones came back.
+ */
+export function ProblemsTable({
   problems,
   caption,
   total,
   heading = 'What to fix',
 }: {
-  problems: readonly ImportProblem[];
+  problems: readonly LineProblem[];
   caption: string;
   total?: number;
   heading?: string;

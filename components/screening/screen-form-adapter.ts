@@ -5,7 +5,7 @@ import {
   screeningInputSchema,
   type ScreeningInputRaw,
   type SoundingLevelInput,
-} from './screening';
+} from '@/lib/validation/screening';
 
 /**
  * The "Screen a flight" form: what the planner types (text in the user's units) and how it maps to
@@ -14,11 +14,7 @@ import {
  * fields entered in the user's units (fuel, step starts, tropopause altitude) are range-checked here
  * first, so the message speaks the unit the planner typed.
  */
-export type UnitSystem = 'metric' | 'imperial';
-
-const KG_PER_LB = 0.45359237;
-const KM_PER_NM = 1.852;
-const M_PER_FT = 0.3048;
+import { altitudeToM, distanceToKm, fuelToKg, KG_PER_LB, KM_PER_NM, M_PER_FT, type UnitSystem } from '@/lib/units';
 
 export const ROUTE_MODES = ['airports', 'points', 'flightPlan'] as const;
 export const CRUISE_MODES = ['level', 'steps'] as const;
@@ -208,21 +204,6 @@ export function unitLabels(units: UnitSystem) {
       ? Math.floor(SCREENING_LIMITS.maxTropopauseAltitudeM / M_PER_FT)
       : SCREENING_LIMITS.maxTropopauseAltitudeM,
   };
-}
-
-/** Fuel as typed (kg or lb) -> kg. 1 lb = 0.45359237 kg exactly (international pound, 1959). */
-export function fuelToKg(value: number, units: UnitSystem): number {
-  return units === 'imperial' ? value * KG_PER_LB : value;
-}
-
-/** Distance as typed (km or NM) -> km. 1 NM = 1.852 km exactly (international nautical mile, 1929). */
-export function distanceToKm(value: number, units: UnitSystem): number {
-  return units === 'imperial' ? value * KM_PER_NM : value;
-}
-
-/** Altitude as typed (m or ft) -> m. 1 ft = 0.3048 m exactly (international foot, 1959). */
-export function altitudeToM(value: number, units: UnitSystem): number {
-  return units === 'imperial' ? value * M_PER_FT : value;
 }
 
 export interface PastedPoints {
@@ -451,13 +432,16 @@ export function formPathFor(
   }
 }
 
-/** The form's values as the engine input: numbers parsed, units converted, modes resolved. */
-export function buildScreeningBody(
-  values: ScreenFormValues,
-  ctx: ScreenFormContext,
-): { body: ScreeningRequestBody; problems: FormProblem[] } {
-  const problems: FormProblem[] = [];
-  const u = unitLabels(ctx.units);
+/** Reads typed numbers for one form, collecting the problems by form path. */
+interface FormReader {
+  add(path: string, message: string): void;
+  /** A number that must be there: a problem naming `label` when empty or not a number. */
+  need(path: string, text: string, label: string): number | undefined;
+  /** A number that may be left empty. */
+  optional(path: string, text: string, label: string): number | undefined;
+}
+
+function formReader(problems: FormProblem[]): FormReader {
   const add = (path: string, message: string) => problems.push({ path, message });
   const need = (path: string, text: string, label: string): number | undefined => {
     if (text.trim() === '') {
@@ -473,17 +457,16 @@ export function buildScreeningBody(
   };
   const optional = (path: string, text: string, label: string): number | undefined =>
     text.trim() === '' ? undefined : need(path, text, label);
+  return { add, need, optional };
+}
 
-  const body: ScreeningRequestBody = {};
-  const name = values.name.trim();
-  if (name) body.name = name;
-
+function routeBody(values: ScreenFormValues, r: FormReader, body: ScreeningRequestBody): void {
   if (values.routeMode === 'airports') {
     body.route = {
       waypoints: values.airports.map((a, i) => {
         const code = a.code.trim().toUpperCase();
         if (code === '')
-          add(
+          r.add(
             `airports.${i}.code`,
             i === 0
               ? 'Enter the departure airport.'
@@ -497,26 +480,29 @@ export function buildScreeningBody(
   } else if (values.routeMode === 'flightPlan') {
     const fp = values.flightPlan;
     if (fp.text.trim() === '')
-      add(
+      r.add(
         'flightPlan.text',
         'Paste the route of the flight plan (item 15), such as N0480F350 DCT 62N020W 63N030W DCT.',
       );
-    if (fp.from.trim() === '') add('flightPlan.from', 'Enter the departure aerodrome.');
-    if (fp.to.trim() === '') add('flightPlan.to', 'Enter the destination aerodrome.');
+    if (fp.from.trim() === '') r.add('flightPlan.from', 'Enter the departure aerodrome.');
+    if (fp.to.trim() === '') r.add('flightPlan.to', 'Enter the destination aerodrome.');
     body.route = {
       flightPlan: { text: fp.text.trim(), from: fp.from.trim().toUpperCase(), to: fp.to.trim().toUpperCase() },
     };
   } else {
     body.route = {
       waypoints: values.points.map((pt, i) => ({
-        lat: need(`points.${i}.lat`, pt.lat, 'the latitude') ?? Number.NaN,
-        lon: need(`points.${i}.lon`, pt.lon, 'the longitude') ?? Number.NaN,
+        lat: r.need(`points.${i}.lat`, pt.lat, 'the latitude') ?? Number.NaN,
+        lon: r.need(`points.${i}.lon`, pt.lon, 'the longitude') ?? Number.NaN,
       })),
     };
   }
+}
 
+function cruiseBody(values: ScreenFormValues, ctx: ScreenFormContext, r: FormReader, body: ScreeningRequestBody): void {
+  const u = unitLabels(ctx.units);
   if (values.cruiseMode === 'level') {
-    body.cruise = { flightLevel: need('flightLevel', values.flightLevel, 'a flight level') ?? Number.NaN };
+    body.cruise = { flightLevel: r.need('flightLevel', values.flightLevel, 'a flight level') ?? Number.NaN };
   } else {
     body.cruise = {
       steps: values.steps.map((s, i): StepBody => {
@@ -525,33 +511,37 @@ export function buildScreeningBody(
         if (at !== null)
           return {
             atWaypoint: at,
-            flightLevel: need(`steps.${i}.flightLevel`, s.flightLevel, 'a flight level') ?? Number.NaN,
+            flightLevel: r.need(`steps.${i}.flightLevel`, s.flightLevel, 'a flight level') ?? Number.NaN,
           };
         if (i > 0) {
-          const from = need(`steps.${i}.from`, s.from, `where this step climb starts, in ${u.distance} from departure`);
+          const from = r.need(
+            `steps.${i}.from`,
+            s.from,
+            `where this step climb starts, in ${u.distance} from departure`,
+          );
           if (from !== undefined && (from < 0 || from > u.stepMax))
-            add(
+            r.add(
               `steps.${i}.from`,
               `A step must start between 0 and ${plain(u.stepMax)} ${u.distance} along the route.`,
             );
           fromKm = from === undefined ? Number.NaN : distanceToKm(from, ctx.units);
         }
-        return { fromKm, flightLevel: need(`steps.${i}.flightLevel`, s.flightLevel, 'a flight level') ?? Number.NaN };
+        return { fromKm, flightLevel: r.need(`steps.${i}.flightLevel`, s.flightLevel, 'a flight level') ?? Number.NaN };
       }),
     };
   }
+}
 
-  const fuel = need('fuelBurn', values.fuelBurn, `the cruise fuel burn in ${u.mass}`);
-  if (fuel !== undefined && (fuel < u.fuelMin || fuel > u.fuelMax))
-    add('fuelBurn', `The fuel burn must be between ${plain(u.fuelMin, 1)} and ${plain(u.fuelMax)} ${u.mass}.`);
-  body.fuelBurnKg = fuel === undefined ? Number.NaN : fuelToKg(fuel, ctx.units);
-
-  const mach = optional('mach', values.mach, 'the cruise Mach');
-  if (mach !== undefined) body.mach = mach;
-
+function emissionBody(
+  values: ScreenFormValues,
+  ctx: ScreenFormContext,
+  r: FormReader,
+  body: ScreeningRequestBody,
+  mach: number | undefined,
+): void {
   if (values.emissionMode === 'aircraft') {
     const code = values.aircraft.trim();
-    if (!code) add('aircraft', 'Choose an aircraft type, or give the EI NOx directly.');
+    if (!code) r.add('aircraft', 'Choose an aircraft type, or give the EI NOx directly.');
     else {
       body.aircraft = code;
       const type = ctx.aircraft.find((a) => a.code === code);
@@ -567,8 +557,8 @@ export function buildScreeningBody(
     }
   } else if (values.emissionMode === 'engine') {
     const engine = ctx.engines.find((e) => String(e.id) === values.engineId);
-    if (!engine) add('engineId', 'Choose an engine, or give the EI NOx directly.');
-    const count = need('engineCount', values.engineCount, 'the number of engines');
+    if (!engine) r.add('engineId', 'Choose an engine, or give the EI NOx directly.');
+    const count = r.need('engineCount', values.engineCount, 'the number of engines');
     body.emission = {
       engine: engine
         ? { fuelFlowKgS: engine.fuelFlowKgS, eiNoxGPerKg: engine.eiNoxGPerKg }
@@ -581,19 +571,23 @@ export function buildScreeningBody(
       ...(mach !== undefined ? { mach } : {}),
     };
   } else {
-    body.emission = { eiNoxGPerKg: need('eiNox', values.eiNox, 'the cruise EI NOx in g per kg of fuel') ?? Number.NaN };
+    body.emission = {
+      eiNoxGPerKg: r.need('eiNox', values.eiNox, 'the cruise EI NOx in g per kg of fuel') ?? Number.NaN,
+    };
   }
+}
 
-  if (values.flightDate.trim()) body.flightDate = values.flightDate.trim();
-  if (values.month) {
-    const m = readNumber(values.month);
-    body.month = m ?? Number.NaN;
-  }
-
+function tropopauseBody(
+  values: ScreenFormValues,
+  ctx: ScreenFormContext,
+  r: FormReader,
+  body: ScreeningRequestBody,
+): void {
+  const u = unitLabels(ctx.units);
   if (values.tropopauseMode === 'altitude') {
-    const alt = need('tropopauseAltitude', values.tropopauseAltitude, `the tropopause altitude in ${u.altitude}`);
+    const alt = r.need('tropopauseAltitude', values.tropopauseAltitude, `the tropopause altitude in ${u.altitude}`);
     if (alt !== undefined && (alt < u.tropopauseMin || alt > u.tropopauseMax)) {
-      add(
+      r.add(
         'tropopauseAltitude',
         `The tropopause altitude must be between ${plain(u.tropopauseMin)} and ${plain(u.tropopauseMax)} ${u.altitude}.`,
       );
@@ -602,14 +596,21 @@ export function buildScreeningBody(
   } else if (values.tropopauseMode === 'pressure') {
     body.tropopause = {
       pressureHpa:
-        need('tropopausePressure', values.tropopausePressure, 'the tropopause pressure in hPa') ?? Number.NaN,
+        r.need('tropopausePressure', values.tropopausePressure, 'the tropopause pressure in hPa') ?? Number.NaN,
     };
   } else if (values.tropopauseMode === 'sounding') {
     const s = ctx.soundings.find((x) => String(x.id) === values.soundingId);
-    if (!s) add('soundingId', 'Choose a stored sounding, or use another tropopause.');
+    if (!s) r.add('soundingId', 'Choose a stored sounding, or use another tropopause.');
     else body.tropopause = { sounding: s.levels };
   }
+}
 
+function assumptionsBody(
+  values: ScreenFormValues,
+  ctx: ScreenFormContext,
+  r: FormReader,
+  body: ScreeningRequestBody,
+): void {
   const a = values.assumptions;
   const assumptions: NonNullable<ScreeningInputRaw['assumptions']> = {};
   for (const key of BAND_KEYS) {
@@ -621,29 +622,60 @@ export function buildScreeningBody(
       if (text.trim() === '') return d[which];
       const n = readNumber(text);
       if (n === null) {
-        add(`assumptions.${key}.${which}`, 'This must be a number, such as 4.5e-4.');
+        r.add(`assumptions.${key}.${which}`, 'This must be a number, such as 4.5e-4.');
         return Number.NaN;
       }
       return n;
     };
     assumptions[key] = { low: part('low'), central: part('central'), high: part('high') };
   }
-  const oh = optional('assumptions.ohCm3', a.ohCm3, 'the OH density');
+  const oh = r.optional('assumptions.ohCm3', a.ohCm3, 'the OH density');
   if (oh !== undefined) assumptions.ohCm3 = oh;
-  const ho2 = optional('assumptions.ho2Cm3', a.ho2Cm3, 'the HO2 density');
+  const ho2 = r.optional('assumptions.ho2Cm3', a.ho2Cm3, 'the HO2 density');
   if (ho2 !== undefined) assumptions.ho2Cm3 = ho2;
-  const rh = optional('assumptions.relativeHumidity', a.relativeHumidity, 'the relative humidity');
+  const rh = r.optional('assumptions.relativeHumidity', a.relativeHumidity, 'the relative humidity');
   if (rh !== undefined) {
-    if (rh < 0 || rh > 100) add('assumptions.relativeHumidity', 'The relative humidity must be between 0 and 100 %.');
+    if (rh < 0 || rh > 100) r.add('assumptions.relativeHumidity', 'The relative humidity must be between 0 and 100 %.');
     assumptions.relativeHumidity = rh / 100;
   }
   if (a.ozoneProfile) {
     if ((OZONE_PROFILE_NAMES as readonly string[]).includes(a.ozoneProfile))
       assumptions.ozoneProfile = a.ozoneProfile as (typeof OZONE_PROFILE_NAMES)[number];
-    else add('assumptions.ozoneProfile', 'Choose one of the listed ozone profiles.');
+    else r.add('assumptions.ozoneProfile', 'Choose one of the listed ozone profiles.');
   }
   if (Object.keys(assumptions).length > 0) body.assumptions = assumptions;
+}
 
+/** The form's values as the engine input: numbers parsed, units converted, modes resolved. */
+export function buildScreeningBody(
+  values: ScreenFormValues,
+  ctx: ScreenFormContext,
+): { body: ScreeningRequestBody; problems: FormProblem[] } {
+  const problems: FormProblem[] = [];
+  const r = formReader(problems);
+  const u = unitLabels(ctx.units);
+  const body: ScreeningRequestBody = {};
+  const name = values.name.trim();
+  if (name) body.name = name;
+  routeBody(values, r, body);
+  cruiseBody(values, ctx, r, body);
+
+  const fuel = r.need('fuelBurn', values.fuelBurn, `the cruise fuel burn in ${u.mass}`);
+  if (fuel !== undefined && (fuel < u.fuelMin || fuel > u.fuelMax))
+    r.add('fuelBurn', `The fuel burn must be between ${plain(u.fuelMin, 1)} and ${plain(u.fuelMax)} ${u.mass}.`);
+  body.fuelBurnKg = fuel === undefined ? Number.NaN : fuelToKg(fuel, ctx.units);
+
+  const mach = r.optional('mach', values.mach, 'the cruise Mach');
+  if (mach !== undefined) body.mach = mach;
+  emissionBody(values, ctx, r, body, mach);
+
+  if (values.flightDate.trim()) body.flightDate = values.flightDate.trim();
+  if (values.month) {
+    const m = readNumber(values.month);
+    body.month = m ?? Number.NaN;
+  }
+  tropopauseBody(values, ctx, r, body);
+  assumptionsBody(values, ctx, r, body);
   return { body, problems };
 }
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import Papa from 'papaparse';
-import { csvField, neutraliseFormula, toCsv } from '@/lib/reports/csv';
+import { csvField, neutraliseFormula, toCsv } from '@/lib/csv/write';
 
 describe('CSV (RFC 4180) with formula neutralising', () => {
   it.each([
