@@ -169,180 +169,251 @@ const NOT_UTF8: ImportProblem = {
   message: 'The file is not UTF-8 text. Save it as “CSV UTF-8 (comma delimited)” and upload it again.',
 };
 
+type LevelColumn = TrackFlightPoints['levelColumn'];
+type RowCells = Partial<Record<TrackColumn, string>>;
+
+/** One checked point row, before it goes to its flight. */
+interface TrackPoint {
+  flight: string;
+  date: string;
+  /** Date plus time of day, ms since the epoch (before the past-midnight correction). */
+  timeMs: number;
+  lat: number;
+  lon: number;
+  level: number;
+  /** kg/h; NaN without one. */
+  fuelFlow: number;
+  origin: string | null;
+  destination: string | null;
+  aircraft: string | null;
+}
+
+/** What reading the rows has gathered so far. */
+interface RowReader {
+  out: ParsedTracks;
+  /** Flights by flight number, date, origin and destination. */
+  byKey: Map<string, TrackFlightPoints>;
+  header: HeaderMap | null;
+  levelColumn: LevelColumn;
+  /** The line being read; the header is line 1. */
+  line: number;
+}
+
+/** How a row ends the reading: null to go on, 'abort' to stop (a refused header), an error to throw. */
+type RowStop = null | 'abort' | Error;
+
+/** Problems of point rows are kept up to a bound; a file full of errors lists the first of them. */
+function addProblem(out: ParsedTracks, p: ImportProblem): void {
+  if (out.problems.length < TRACK_IMPORT_LIMITS.maxProblemsListed * 4) out.problems.push(p);
+}
+
+function readHeaderRow(reader: RowReader, record: string[]): RowStop {
+  const header = readHeader(record);
+  reader.header = header;
+  reader.levelColumn = header.byIndex.includes('altitude_ft') ? 'altitude_ft' : 'flight_level';
+  reader.out.problems.push(...header.problems);
+  reader.out.warnings.push(...header.warnings);
+  return header.problems.length ? 'abort' : null;
+}
+
+/** A point row's non-empty cells by column; null when it has a filled cell past the header's columns. */
+function rowCells(record: string[], byIndex: (TrackColumn | null)[]): RowCells | null {
+  const cells: RowCells = {};
+  for (let i = 0; i < record.length; i++) {
+    const value = record[i].trim();
+    if (i >= byIndex.length) {
+      if (value !== '') return null;
+      continue;
+    }
+    const column = byIndex[i];
+    if (column && value !== '') cells[column] = value;
+  }
+  return cells;
+}
+
+type Flag = (column: TrackColumn, message: string) => void;
+
+/** The point's flight level from altitude_ft (ft / 100) or flight_level; null (flagged) when out of range. */
+function pointLevel(cells: RowCells, levelColumn: LevelColumn, flag: Flag): number | null {
+  const { minFlightLevel, maxFlightLevel } = SCREENING_LIMITS;
+  if (levelColumn === 'altitude_ft') {
+    const ft = numberCell(cells.altitude_ft);
+    if (ft !== null && ft >= minFlightLevel * 100 && ft <= maxFlightLevel * 100) return ft / 100;
+    flag('altitude_ft', `Give the pressure altitude in ft, ${minFlightLevel * 100} to ${maxFlightLevel * 100}.`);
+    return null;
+  }
+  const fl = numberCell(cells.flight_level?.replace(/^FL\s*/i, ''));
+  if (fl !== null && fl >= minFlightLevel && fl <= maxFlightLevel) return fl;
+  flag('flight_level', `Give the flight level, ${minFlightLevel} to ${maxFlightLevel}.`);
+  return null;
+}
+
+/** The point's fuel flow, kg/h: NaN when the cell is empty, null (flagged) when out of range. */
+function pointFuelFlow(cells: RowCells, flag: Flag): number | null {
+  if (cells.fuel_flow_kg_h === undefined) return Number.NaN;
+  const { minTrackFuelFlowKgH: min, maxTrackFuelFlowKgH: max } = SCREENING_LIMITS;
+  const v = numberCell(cells.fuel_flow_kg_h);
+  if (v !== null && v >= min && v <= max) return v;
+  flag('fuel_flow_kg_h', `Give the fuel flow in kg/h for the whole aircraft, ${min} to ${max}.`);
+  return null;
+}
+
+/** Checks every cell of a point row, flagging each bad one; null when any was bad. */
+function checkPoint(cells: RowCells, levelColumn: LevelColumn, flag: Flag): TrackPoint | null {
+  let bad = false;
+  const check: Flag = (column, message) => {
+    flag(column, message);
+    bad = true;
+  };
+  const flight = cells.flight?.toUpperCase();
+  if (!flight) check('flight', 'Give the flight number.');
+  else if (flight.length > 16) check('flight', 'A flight number has at most 16 characters.');
+  const day = dayMs(cells.date ?? '');
+  if (!Number.isFinite(day))
+    check(
+      'date',
+      cells.date ? 'Write the date as YYYY-MM-DD (UTC), a real calendar date.' : 'Give the date as YYYY-MM-DD (UTC).',
+    );
+  const tod = timeOfDayMs(cells.time ?? '');
+  if (!Number.isFinite(tod)) check('time', 'Write the time as HH:MM:SS (UTC), such as 10:42:05.');
+  const lat = numberCell(cells.lat);
+  if (lat === null || lat < -90 || lat > 90) check('lat', 'Give the latitude in degrees, -90 to 90.');
+  const lon = numberCell(cells.lon);
+  if (lon === null || lon < -180 || lon > 180) check('lon', 'Give the longitude in degrees, -180 to 180.');
+  const level = pointLevel(cells, levelColumn, check);
+  const fuelFlow = pointFuelFlow(cells, check);
+  if (bad || !flight || lat === null || lon === null || level === null || fuelFlow === null) return null;
+  return {
+    flight,
+    date: cells.date as string,
+    timeMs: day + tod,
+    lat,
+    lon,
+    level,
+    fuelFlow,
+    origin: cells.origin?.toUpperCase() ?? null,
+    destination: cells.destination?.toUpperCase() ?? null,
+    aircraft: cells.aircraft?.toUpperCase() ?? null,
+  };
+}
+
+function newFlight(p: TrackPoint, line: number, levelColumn: LevelColumn): TrackFlightPoints {
+  return {
+    flight: p.flight,
+    date: p.date,
+    firstLine: line,
+    origin: p.origin,
+    destination: p.destination,
+    aircraft: p.aircraft,
+    lines: new Column(),
+    timeMs: new Column(),
+    lat: new Column(),
+    lon: new Column(),
+    level: new Column(),
+    fuelFlow: new Column(),
+    flows: 0,
+    levelColumn,
+  };
+}
+
 /**
- * Streams a track CSV and checks every cell; points go to their flight (by flight number, date and,
- * when given, origin and destination). Throws a 413 AppError past the point or flight limits.
- * Line numbers count the header as line 1.
+ * The flight a point belongs to (by flight number, date and, when given, origin and destination),
+ * started on its first point; a problem when it names another aircraft type than the flight's first
+ * point, a 413 past the flight limit.
  */
-export async function parseTrackCsv(source: Readable): Promise<ParsedTracks> {
+function flightOf(reader: RowReader, p: TrackPoint): TrackFlightPoints | ImportProblem | Error {
+  const key = `${p.flight}|${p.date}|${p.origin ?? ''}|${p.destination ?? ''}`;
+  const f = reader.byKey.get(key);
+  if (f === undefined) {
+    if (reader.byKey.size >= TRACK_IMPORT_LIMITS.maxFlights)
+      return tooLarge(
+        `The file has more than ${TRACK_IMPORT_LIMITS.maxFlights.toLocaleString('en-GB')} flights. Split it into smaller files and upload them one by one.`,
+      );
+    const started = newFlight(p, reader.line, reader.levelColumn);
+    reader.byKey.set(key, started);
+    reader.out.flights.push(started);
+    return started;
+  }
+  if (p.aircraft !== null && f.aircraft !== null && p.aircraft !== f.aircraft)
+    return {
+      line: reader.line,
+      column: 'aircraft',
+      message: `Flight ${p.flight} on ${p.date} is ${f.aircraft} on line ${f.firstLine}: one aircraft type a flight.`,
+    };
+  return f;
+}
+
+/** Adds a point to its flight, in time order; a problem when its time runs backwards. */
+function appendPoint(f: TrackFlightPoints, p: TrackPoint, line: number): ImportProblem | null {
+  let t = p.timeMs;
+  const n = f.timeMs.length;
+  if (n > 0) {
+    const prev = f.timeMs.at(n - 1);
+    // Past midnight the clock starts again: a time far earlier than the one before is the next day.
+    while (t < prev - DAY_MS / 2) t += DAY_MS;
+    if (t < prev)
+      return {
+        line,
+        column: 'time',
+        message: `Time runs backwards here (line ${f.lines.at(n - 1)} of flight ${p.flight} is later): points of a flight must be in time order.`,
+      };
+  }
+  f.lines.push(line);
+  f.timeMs.push(t);
+  f.lat.push(p.lat);
+  f.lon.push(p.lon);
+  f.level.push(p.level);
+  f.fuelFlow.push(p.fuelFlow);
+  if (!Number.isNaN(p.fuelFlow)) f.flows += 1;
+  return null;
+}
+
+/** Reads one row of the file: the header first, then one point a row. */
+function readRow(reader: RowReader, record: string[]): RowStop {
+  reader.line += 1;
+  const { out, header, line } = reader;
+  if (header === null) return readHeaderRow(reader, record);
+  if (record.every((c) => c.trim() === '')) return null;
+  out.points += 1;
+  if (out.points > TRACK_IMPORT_LIMITS.maxPoints)
+    return tooLarge(
+      `The file has more than ${TRACK_IMPORT_LIMITS.maxPoints.toLocaleString('en-GB')} points. Split it into smaller files and upload them one by one.`,
+    );
+  const cells = rowCells(record, header.byIndex);
+  if (cells === null) {
+    addProblem(out, {
+      line,
+      column: '',
+      message: `This line has ${record.length} cells but the header has ${header.byIndex.length} columns: check for an unquoted comma.`,
+    });
+    return null;
+  }
+  const point = checkPoint(cells, reader.levelColumn, (column, message) => addProblem(out, { line, column, message }));
+  if (point === null) return null;
+  const f = flightOf(reader, point);
+  if (f instanceof Error) return f;
+  const problem = 'message' in f ? f : appendPoint(f, point, line);
+  if (problem) addProblem(out, problem);
+  return null;
+}
+
+interface StreamedText {
+  fileHash: string;
+  decodeFailed: boolean;
+  /** A read error, an error thrown by `onRow` or the stop it asked for. */
+  stop: Error | null;
+}
+
+/**
+ * Streams the upload through papaparse as UTF-8 text, hashing every byte, and hands each row to
+ * `onRow` until it asks to stop. After a stop the rest of the upload is only hashed.
+ */
+async function streamCsvRows(source: Readable, onRow: (record: string[]) => RowStop): Promise<StreamedText> {
   const hash = createHash('sha256');
   const decoder = new TextDecoder('utf-8', { fatal: true });
-  const out: ParsedTracks = { flights: [], problems: [], warnings: [], points: 0, fileHash: '' };
-  const byKey = new Map<string, TrackFlightPoints>();
-  let header: HeaderMap | null = null;
-  let line = 0;
   let stop: Error | null = null;
   let decodeFailed = false;
   let aborted = false;
-  const abort = (parser: Papa.Parser) => {
-    aborted = true;
-    parser.abort();
-  };
-  const problem = (p: ImportProblem) => {
-    if (out.problems.length < TRACK_IMPORT_LIMITS.maxProblemsListed * 4) out.problems.push(p);
-  };
-
-  const onRow = (record: string[], parser: Papa.Parser): void => {
-    line += 1;
-    if (header === null) {
-      header = readHeader(record);
-      out.problems.push(...header.problems);
-      out.warnings.push(...header.warnings);
-      if (header.problems.length) abort(parser);
-      return;
-    }
-    if (record.every((c) => c.trim() === '')) return;
-    out.points += 1;
-    if (out.points > TRACK_IMPORT_LIMITS.maxPoints) {
-      stop = tooLarge(
-        `The file has more than ${TRACK_IMPORT_LIMITS.maxPoints.toLocaleString('en-GB')} points. Split it into smaller files and upload them one by one.`,
-      );
-      abort(parser);
-      return;
-    }
-    const cells: Partial<Record<TrackColumn, string>> = {};
-    for (let i = 0; i < record.length; i++) {
-      const value = record[i].trim();
-      if (i >= header.byIndex.length) {
-        if (value !== '') {
-          problem({
-            line,
-            column: '',
-            message: `This line has ${record.length} cells but the header has ${header.byIndex.length} columns: check for an unquoted comma.`,
-          });
-          return;
-        }
-        continue;
-      }
-      const column = header.byIndex[i];
-      if (column && value !== '') cells[column] = value;
-    }
-    let bad = false;
-    const flag = (column: TrackColumn, message: string) => {
-      problem({ line, column, message });
-      bad = true;
-    };
-    const flight = cells.flight?.toUpperCase();
-    if (!flight) flag('flight', 'Give the flight number.');
-    else if (flight.length > 16) flag('flight', 'A flight number has at most 16 characters.');
-    const day = dayMs(cells.date ?? '');
-    if (!Number.isFinite(day))
-      flag(
-        'date',
-        cells.date ? 'Write the date as YYYY-MM-DD (UTC), a real calendar date.' : 'Give the date as YYYY-MM-DD (UTC).',
-      );
-    const tod = timeOfDayMs(cells.time ?? '');
-    if (!Number.isFinite(tod)) flag('time', 'Write the time as HH:MM:SS (UTC), such as 10:42:05.');
-    const lat = numberCell(cells.lat);
-    if (lat === null || lat < -90 || lat > 90) flag('lat', 'Give the latitude in degrees, -90 to 90.');
-    const lon = numberCell(cells.lon);
-    if (lon === null || lon < -180 || lon > 180) flag('lon', 'Give the longitude in degrees, -180 to 180.');
-    let level: number | null = null;
-    const levelColumn: 'altitude_ft' | 'flight_level' = header.byIndex.includes('altitude_ft')
-      ? 'altitude_ft'
-      : 'flight_level';
-    if (levelColumn === 'altitude_ft') {
-      const ft = numberCell(cells.altitude_ft);
-      if (ft === null || ft < SCREENING_LIMITS.minFlightLevel * 100 || ft > SCREENING_LIMITS.maxFlightLevel * 100)
-        flag(
-          'altitude_ft',
-          `Give the pressure altitude in ft, ${SCREENING_LIMITS.minFlightLevel * 100} to ${SCREENING_LIMITS.maxFlightLevel * 100}.`,
-        );
-      else level = ft / 100;
-    } else {
-      const fl = numberCell(cells.flight_level?.replace(/^FL\s*/i, ''));
-      if (fl === null || fl < SCREENING_LIMITS.minFlightLevel || fl > SCREENING_LIMITS.maxFlightLevel)
-        flag(
-          'flight_level',
-          `Give the flight level, ${SCREENING_LIMITS.minFlightLevel} to ${SCREENING_LIMITS.maxFlightLevel}.`,
-        );
-      else level = fl;
-    }
-    let ff = Number.NaN;
-    if (cells.fuel_flow_kg_h !== undefined) {
-      const v = numberCell(cells.fuel_flow_kg_h);
-      if (v === null || v < SCREENING_LIMITS.minTrackFuelFlowKgH || v > SCREENING_LIMITS.maxTrackFuelFlowKgH)
-        flag(
-          'fuel_flow_kg_h',
-          `Give the fuel flow in kg/h for the whole aircraft, ${SCREENING_LIMITS.minTrackFuelFlowKgH} to ${SCREENING_LIMITS.maxTrackFuelFlowKgH}.`,
-        );
-      else ff = v;
-    }
-    const origin = cells.origin?.toUpperCase() ?? null;
-    const destination = cells.destination?.toUpperCase() ?? null;
-    const aircraft = cells.aircraft?.toUpperCase() ?? null;
-    if (bad || !flight) return;
-    const date = cells.date as string;
-    const key = `${flight}|${date}|${origin ?? ''}|${destination ?? ''}`;
-    let f = byKey.get(key);
-    if (f === undefined) {
-      if (byKey.size >= TRACK_IMPORT_LIMITS.maxFlights) {
-        stop = tooLarge(
-          `The file has more than ${TRACK_IMPORT_LIMITS.maxFlights.toLocaleString('en-GB')} flights. Split it into smaller files and upload them one by one.`,
-        );
-        abort(parser);
-        return;
-      }
-      f = {
-        flight,
-        date,
-        firstLine: line,
-        origin,
-        destination,
-        aircraft,
-        lines: new Column(),
-        timeMs: new Column(),
-        lat: new Column(),
-        lon: new Column(),
-        level: new Column(),
-        fuelFlow: new Column(),
-        flows: 0,
-        levelColumn,
-      };
-      byKey.set(key, f);
-      out.flights.push(f);
-    } else if (aircraft !== null && f.aircraft !== null && aircraft !== f.aircraft) {
-      problem({
-        line,
-        column: 'aircraft',
-        message: `Flight ${flight} on ${date} is ${f.aircraft} on line ${f.firstLine}: one aircraft type a flight.`,
-      });
-      return;
-    }
-    let t = day + tod;
-    const n = f.timeMs.length;
-    if (n > 0) {
-      const prev = f.timeMs.at(n - 1);
-      // Past midnight the clock starts again: a time far earlier than the one before is the next day.
-      while (t < prev - DAY_MS / 2) t += DAY_MS;
-      if (t < prev) {
-        problem({
-          line,
-          column: 'time',
-          message: `Time runs backwards here (line ${f.lines.at(n - 1)} of flight ${flight} is later): points of a flight must be in time order.`,
-        });
-        return;
-      }
-    }
-    f.lines.push(line);
-    f.timeMs.push(t);
-    f.lat.push(lat as number);
-    f.lon.push(lon as number);
-    f.level.push(level as number);
-    f.fuelFlow.push(ff);
-    if (!Number.isNaN(ff)) f.flows += 1;
-  };
-
   // `parsing`: papaparse still wants text (false after an abort or once the text has ended).
   let parsing = true;
   let parseDone = false;
@@ -392,12 +463,16 @@ export async function parseTrackCsv(source: Readable): Promise<ParsedTracks> {
       step: (results: Papa.ParseStepResult<string[]>, parser: Papa.Parser) => {
         // The last line comes after the text has ended; nothing comes after an abort.
         if (stop || aborted || parseDone) return;
+        let outcome: RowStop;
         try {
-          onRow(results.data, parser);
+          outcome = onRow(results.data);
         } catch (err) {
-          stop = err instanceof Error ? err : new Error(String(err));
-          abort(parser);
+          outcome = err instanceof Error ? err : new Error(String(err));
         }
+        if (outcome === null) return;
+        if (outcome instanceof Error) stop = outcome;
+        aborted = true;
+        parser.abort();
       },
       complete: () => {
         // An abort (a refused header, a limit) stops reading; the rest of the upload is only hashed.
@@ -413,10 +488,22 @@ export async function parseTrackCsv(source: Readable): Promise<ParsedTracks> {
       },
     });
   });
-  if (stop) throw stop;
-  out.fileHash = hash.digest('hex');
-  if (decodeFailed) return { ...out, flights: [], problems: [NOT_UTF8] };
-  if (header === null) {
+  return { fileHash: hash.digest('hex'), decodeFailed, stop };
+}
+
+/**
+ * Streams a track CSV and checks every cell; points go to their flight (by flight number, date and,
+ * when given, origin and destination). Throws a 413 AppError past the point or flight limits.
+ * Line numbers count the header as line 1.
+ */
+export async function parseTrackCsv(source: Readable): Promise<ParsedTracks> {
+  const out: ParsedTracks = { flights: [], problems: [], warnings: [], points: 0, fileHash: '' };
+  const reader: RowReader = { out, byKey: new Map(), header: null, levelColumn: 'flight_level', line: 0 };
+  const streamed = await streamCsvRows(source, (record) => readRow(reader, record));
+  if (streamed.stop) throw streamed.stop;
+  out.fileHash = streamed.fileHash;
+  if (streamed.decodeFailed) return { ...out, flights: [], problems: [NOT_UTF8] };
+  if (reader.header === null) {
     out.problems.push({
       line: 1,
       column: '',
@@ -496,6 +583,199 @@ function placeProblem(f: TrackFlightPoints, path: string, message: string): Impo
   return { line: f.firstLine, column: 'flight', message: `${path ? `${path}: ` : ''}${message}` };
 }
 
+/** A track needs at least two points and at most the engine's limit. */
+function pointCountProblem(f: TrackFlightPoints): string | null {
+  const n = f.lines.length;
+  if (n < SCREENING_LIMITS.minTrackPoints)
+    return `Flight ${f.flight} on ${f.date} has ${n} point${n === 1 ? '' : 's'}: a track needs at least 2.`;
+  if (n > SCREENING_LIMITS.maxTrackPoints)
+    return `Flight ${f.flight} on ${f.date} has ${n} points: a track may have at most ${SCREENING_LIMITS.maxTrackPoints.toLocaleString('en-GB')}. Thin it (one point every few seconds is plenty).`;
+  return null;
+}
+
+interface TrackRoute {
+  origin: string;
+  destination: string;
+  /** The one planned flight the track matches (same number, date and the airports the file gives). */
+  plannedTwin: PlannedFlightRef | null;
+}
+
+/**
+ * The flight's airports: the file's (known codes, as ICAO where there is one), else its planned
+ * flight's. Problems when a code is unknown or no single planned flight fills in a missing airport.
+ */
+function resolveRoute(f: TrackFlightPoints, ctx: TrackContext): TrackRoute | ImportProblem[] {
+  const at = (column: string, message: string): ImportProblem => ({ line: f.firstLine, column, message });
+  const origin = f.origin === null ? null : airportCode(f.origin);
+  const destination = f.destination === null ? null : airportCode(f.destination);
+  const unknown: ImportProblem[] = [];
+  if (f.origin !== null && origin === null)
+    unknown.push(at('origin', `No airport with the code ${f.origin} is known.`));
+  if (f.destination !== null && destination === null)
+    unknown.push(at('destination', `No airport with the code ${f.destination} is known.`));
+  if (unknown.length) return unknown;
+  const candidates = ctx.planned.get(`${f.date}|${f.flight}`) ?? [];
+  const matching = candidates.filter(
+    (p) => (origin === null || p.origin === origin) && (destination === null || p.destination === destination),
+  );
+  const plannedTwin = matching.length === 1 ? matching[0] : null;
+  if (origin !== null && destination !== null) return { origin, destination, plannedTwin };
+  if (plannedTwin === null)
+    return [
+      at(
+        origin === null ? 'origin' : 'destination',
+        matching.length > 1
+          ? `Flight ${f.flight} on ${f.date} is planned more than once in this workspace: give origin and destination to say which one this track is.`
+          : `Give origin and destination: no planned flight ${f.flight} on ${f.date} in this workspace gives them.`,
+      ),
+    ];
+  return { origin: plannedTwin.origin, destination: plannedTwin.destination, plannedTwin };
+}
+
+/** The flight's aircraft type (the file's, else its planned flight's), which must be in the workspace and complete. */
+function resolveAircraftType(
+  f: TrackFlightPoints,
+  plannedTwin: PlannedFlightRef | null,
+  ctx: TrackContext,
+): AircraftForScreening | string {
+  const code = f.aircraft ?? plannedTwin?.aircraftCode ?? null;
+  if (code === null) return `Give the aircraft type: no planned flight ${f.flight} on ${f.date} gives it.`;
+  const type = ctx.aircraft.get(code.toUpperCase());
+  if (type === undefined)
+    return `No aircraft type ${code} in this workspace: add it on the Engines & aircraft page or fix the code.`;
+  if (type.emission === null)
+    return `The aircraft type ${type.code} has neither an engine nor a direct EI NOx; complete it first.`;
+  return type;
+}
+
+/** Fuel flows on every point or on none, and without them a planned flight whose fuel is spread along the track. */
+function fuelProblem(f: TrackFlightPoints, route: TrackRoute): ImportProblem | null {
+  const n = f.lines.length;
+  if (f.flows > 0 && f.flows < n) {
+    let i = 0;
+    while (i < n && !Number.isNaN(f.fuelFlow.at(i))) i++;
+    return {
+      line: f.lines.at(i),
+      column: 'fuel_flow_kg_h',
+      message: 'Give a fuel flow on every point of the flight, or on none (the planned fuel is then spread by time).',
+    };
+  }
+  if (f.flows === 0 && route.plannedTwin === null)
+    return {
+      line: f.firstLine,
+      column: 'fuel_flow_kg_h',
+      message: `Give fuel_flow_kg_h on the points of ${f.flight}: without it the planned flight’s fuel is spread along the track, and no planned flight ${f.flight} on ${f.date} from ${route.origin} to ${route.destination} is in this workspace.`,
+    };
+  return null;
+}
+
+/** The raw screening input of a track flight, before the engine's checks. */
+function rawTrackInput(
+  f: TrackFlightPoints,
+  emission: AircraftForScreening['emission'],
+  plannedTwin: PlannedFlightRef | null,
+): Record<string, unknown> {
+  const n = f.lines.length;
+  const points = new Array<Record<string, number | string>>(n);
+  for (let i = 0; i < n; i++) {
+    const level = f.level.at(i);
+    const p: Record<string, number | string> = {
+      time: new Date(f.timeMs.at(i)).toISOString(),
+      lat: f.lat.at(i),
+      lon: f.lon.at(i),
+    };
+    if (f.levelColumn === 'altitude_ft') p.pressureAltitudeFt = level * 100;
+    else p.flightLevel = level;
+    if (f.flows > 0) p.fuelFlowKgH = f.fuelFlow.at(i);
+    points[i] = p;
+  }
+  const raw: Record<string, unknown> = {
+    route: { track: { points } },
+    emission,
+    flightDate: f.date,
+  };
+  if (f.flows === 0 && plannedTwin !== null) raw.fuelBurnKg = plannedTwin.fuelKg;
+  return raw;
+}
+
+/**
+ * The highest level of the track, and the cruise shown for the flight: the level most of its points
+ * were flown at (whole flight levels; the higher one on a tie).
+ */
+function trackLevels(f: TrackFlightPoints): { cruiseFl: number; maxFl: number } {
+  const n = f.lines.length;
+  let maxFl = 0;
+  for (let i = 0; i < n; i++) maxFl = Math.max(maxFl, f.level.at(i));
+  const counts = new Map<number, number>();
+  let cruiseFl = Math.round(maxFl);
+  let best = 0;
+  for (let i = 0; i < n; i++) {
+    const level = Math.round(f.level.at(i));
+    const c = (counts.get(level) ?? 0) + 1;
+    counts.set(level, c);
+    if (c > best || (c === best && level > cruiseFl)) {
+      best = c;
+      cruiseFl = level;
+    }
+  }
+  return { cruiseFl: Math.round(cruiseFl), maxFl: Math.round(maxFl) };
+}
+
+/**
+ * Checks one parsed flight and builds its screening input; its problems instead when it fails a
+ * check. `seen` holds the flights of the file met so far (by date, number and airports) with their first line.
+ */
+function prepareTrackFlight(
+  f: TrackFlightPoints,
+  ctx: TrackContext,
+  seen: Map<string, number>,
+): PreparedTrackFlight | ImportProblem[] {
+  const at = (column: string, message: string): ImportProblem[] => [{ line: f.firstLine, column, message }];
+  const countProblem = pointCountProblem(f);
+  if (countProblem !== null) return at('flight', countProblem);
+  const route = resolveRoute(f, ctx);
+  if (Array.isArray(route)) return route;
+  const { origin, destination, plannedTwin } = route;
+  const key = `${f.date}|${f.flight}|${origin}|${destination}`;
+  const earlier = seen.get(key);
+  if (earlier !== undefined)
+    return at(
+      'flight',
+      `Flight ${f.flight} on ${f.date} from ${origin} to ${destination} is already on line ${earlier}; give each flight’s points once.`,
+    );
+  seen.set(key, f.firstLine);
+  if (ctx.flownKeys.has(key))
+    return at(
+      'flight',
+      `The flown track of ${f.flight} on ${f.date} from ${origin} to ${destination} is already in this workspace; it is not imported or billed twice. Remove its points.`,
+    );
+  const type = resolveAircraftType(f, plannedTwin, ctx);
+  if (typeof type === 'string') return at('aircraft', type);
+  const fuel = fuelProblem(f, route);
+  if (fuel !== null) return [fuel];
+  let input: ScreeningInput;
+  try {
+    input = validateScreeningInput(rawTrackInput(f, type.emission, plannedTwin));
+  } catch (err) {
+    if (!(err instanceof ScreeningInputError)) throw err;
+    return err.fields.slice(0, 20).map((p) => placeProblem(f, p.path, p.message));
+  }
+  return {
+    line: f.firstLine,
+    date: f.date,
+    flight: f.flight,
+    origin,
+    destination,
+    aircraftTypeId: type.id,
+    aircraftCode: type.code,
+    fleetId: type.defaultFleetId,
+    ...trackLevels(f),
+    fuelKg: input.fuelBurnKg,
+    points: f.lines.length,
+    inputJson: JSON.stringify(input),
+  };
+}
+
 /**
  * Checks each parsed flight against the workspace and the engine's input rules and builds its
  * screening input. A flight takes origin, destination, aircraft type and (without fuel flows) the
@@ -509,151 +789,9 @@ export function prepareTrackFlights(
   const flights: PreparedTrackFlight[] = [];
   const seen = new Map<string, number>();
   for (const f of parsed.flights) {
-    const n = f.lines.length;
-    const at = (column: string, message: string) => problems.push({ line: f.firstLine, column, message });
-    if (n < SCREENING_LIMITS.minTrackPoints) {
-      at('flight', `Flight ${f.flight} on ${f.date} has ${n} point${n === 1 ? '' : 's'}: a track needs at least 2.`);
-      continue;
-    }
-    if (n > SCREENING_LIMITS.maxTrackPoints) {
-      at(
-        'flight',
-        `Flight ${f.flight} on ${f.date} has ${n} points: a track may have at most ${SCREENING_LIMITS.maxTrackPoints.toLocaleString('en-GB')}. Thin it (one point every few seconds is plenty).`,
-      );
-      continue;
-    }
-    const candidates = ctx.planned.get(`${f.date}|${f.flight}`) ?? [];
-    let origin = f.origin === null ? null : airportCode(f.origin);
-    let destination = f.destination === null ? null : airportCode(f.destination);
-    if (f.origin !== null && origin === null) at('origin', `No airport with the code ${f.origin} is known.`);
-    if (f.destination !== null && destination === null)
-      at('destination', `No airport with the code ${f.destination} is known.`);
-    if ((f.origin !== null && origin === null) || (f.destination !== null && destination === null)) continue;
-    const matching = candidates.filter(
-      (p) => (origin === null || p.origin === origin) && (destination === null || p.destination === destination),
-    );
-    const plannedTwin = matching.length === 1 ? matching[0] : null;
-    if (origin === null || destination === null) {
-      if (plannedTwin === null) {
-        at(
-          origin === null ? 'origin' : 'destination',
-          matching.length > 1
-            ? `Flight ${f.flight} on ${f.date} is planned more than once in this workspace: give origin and destination to say which one this track is.`
-            : `Give origin and destination: no planned flight ${f.flight} on ${f.date} in this workspace gives them.`,
-        );
-        continue;
-      }
-      origin = plannedTwin.origin;
-      destination = plannedTwin.destination;
-    }
-    const key = `${f.date}|${f.flight}|${origin}|${destination}`;
-    const earlier = seen.get(key);
-    if (earlier !== undefined) {
-      at(
-        'flight',
-        `Flight ${f.flight} on ${f.date} from ${origin} to ${destination} is already on line ${earlier}; give each flight’s points once.`,
-      );
-      continue;
-    }
-    seen.set(key, f.firstLine);
-    if (ctx.flownKeys.has(key)) {
-      at(
-        'flight',
-        `The flown track of ${f.flight} on ${f.date} from ${origin} to ${destination} is already in this workspace; it is not imported or billed twice. Remove its points.`,
-      );
-      continue;
-    }
-    const code = f.aircraft ?? plannedTwin?.aircraftCode ?? null;
-    if (code === null) {
-      at('aircraft', `Give the aircraft type: no planned flight ${f.flight} on ${f.date} gives it.`);
-      continue;
-    }
-    const type = ctx.aircraft.get(code.toUpperCase());
-    if (type === undefined) {
-      at(
-        'aircraft',
-        `No aircraft type ${code} in this workspace: add it on the Engines & aircraft page or fix the code.`,
-      );
-      continue;
-    }
-    if (type.emission === null) {
-      at('aircraft', `The aircraft type ${type.code} has neither an engine nor a direct EI NOx; complete it first.`);
-      continue;
-    }
-    if (f.flows > 0 && f.flows < n) {
-      let i = 0;
-      while (i < n && !Number.isNaN(f.fuelFlow.at(i))) i++;
-      problems.push({
-        line: f.lines.at(i),
-        column: 'fuel_flow_kg_h',
-        message: 'Give a fuel flow on every point of the flight, or on none (the planned fuel is then spread by time).',
-      });
-      continue;
-    }
-    if (f.flows === 0 && plannedTwin === null) {
-      at(
-        'fuel_flow_kg_h',
-        `Give fuel_flow_kg_h on the points of ${f.flight}: without it the planned flight’s fuel is spread along the track, and no planned flight ${f.flight} on ${f.date} from ${origin} to ${destination} is in this workspace.`,
-      );
-      continue;
-    }
-    const points = new Array<Record<string, number | string>>(n);
-    let maxFl = 0;
-    for (let i = 0; i < n; i++) {
-      const level = f.level.at(i);
-      if (level > maxFl) maxFl = level;
-      const p: Record<string, number | string> = {
-        time: new Date(f.timeMs.at(i)).toISOString(),
-        lat: f.lat.at(i),
-        lon: f.lon.at(i),
-      };
-      if (f.levelColumn === 'altitude_ft') p.pressureAltitudeFt = level * 100;
-      else p.flightLevel = level;
-      if (f.flows > 0) p.fuelFlowKgH = f.fuelFlow.at(i);
-      points[i] = p;
-    }
-    const raw: Record<string, unknown> = {
-      route: { track: { points } },
-      emission: type.emission,
-      flightDate: f.date,
-    };
-    if (f.flows === 0 && plannedTwin !== null) raw.fuelBurnKg = plannedTwin.fuelKg;
-    let input: ScreeningInput;
-    try {
-      input = validateScreeningInput(raw);
-    } catch (err) {
-      if (!(err instanceof ScreeningInputError)) throw err;
-      for (const p of err.fields.slice(0, 20)) problems.push(placeProblem(f, p.path, p.message));
-      continue;
-    }
-    // The cruise shown for the flight: the level most of its points were flown at (whole flight levels).
-    const counts = new Map<number, number>();
-    let cruiseFl = Math.round(maxFl);
-    let best = 0;
-    for (let i = 0; i < n; i++) {
-      const level = Math.round(f.level.at(i));
-      const c = (counts.get(level) ?? 0) + 1;
-      counts.set(level, c);
-      if (c > best || (c === best && level > cruiseFl)) {
-        best = c;
-        cruiseFl = level;
-      }
-    }
-    flights.push({
-      line: f.firstLine,
-      date: f.date,
-      flight: f.flight,
-      origin,
-      destination,
-      aircraftTypeId: type.id,
-      aircraftCode: type.code,
-      fleetId: type.defaultFleetId,
-      cruiseFl: Math.round(cruiseFl),
-      maxFl: Math.round(maxFl),
-      fuelKg: input.fuelBurnKg,
-      points: n,
-      inputJson: JSON.stringify(input),
-    });
+    const prepared = prepareTrackFlight(f, ctx, seen);
+    if (Array.isArray(prepared)) problems.push(...prepared);
+    else flights.push(prepared);
   }
   return { flights, problems };
 }

@@ -1,0 +1,19 @@
+import type { UnitSystem } from '@/db/users';
+import { formatMass, formatNumber } from '@/lib/format';
+import type { PeriodFigures, TargetStatus } from '@/lib/periods/service';
+
+/** How each target status reads on the period page: in the targets table and in the trend. */
+export const TARGET_STATUS: Record<TargetStatus, { label: string; className: string }> = {
+  'on-track': { label: 'Below 90 %', className: 'text-tropo-strong' },
+  near: { label: '90 % reached', className: 'text-caution font-medium' },
+  over: { label: 'Target passed', className: 'text-danger font-medium' },
+  'no-data': { label: 'No figure', className: 'text-ink-faint' },
+};
+
+/** A target measure's value with its unit (tonnes to 2 places, percentages to 1, the rest to 3). */
+export const metricText = (v: number | null, unit: string) =>
+  v === null ? '–' : `${formatNumber(v, unit === 't' ? 2 : unit === '%' ? 1 : 3)} ${unit}`;
+
+/** NOx above the tropopause per 1000 km flown, in the user's units. */
+export const per1000 = (f: PeriodFigures, u: UnitSystem) =>
+  f.noxAbovePer1000KmKg === null ? '–' : `${formatMass(f.noxAbovePer1000KmKg, u)} per 1000 km`;
