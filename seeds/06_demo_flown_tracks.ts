@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
 import { screenValidated, validateScreeningInput, type ScreeningInput } from '../lib/screening/index';
-import { planRoute, pointOnLeg } from '../lib/screening/route';
+import { planRoute, pointOnLeg } from '../lib/screening/great-circle';
 import { findAirport } from '../lib/screening/airports';
 
 /**

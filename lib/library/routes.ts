@@ -3,7 +3,7 @@ import { writeTx } from '@/db/client';
 import { insertRoute, replaceRoute, type RouteDto, type RouteWaypoint } from '@/db/routes';
 import type { LibraryActor } from '@/db/engines';
 import { routeDistanceKm } from '@/lib/screening';
-import { planRoute, resolveWaypoints } from '@/lib/screening/route';
+import { planRoute, resolveWaypoints } from '@/lib/screening/great-circle';
 import type { RouteSave } from '@/lib/validation/library';
 
 /**

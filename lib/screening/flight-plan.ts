@@ -6,7 +6,7 @@
  */
 import { findAirport } from './airports';
 import { ScreeningInputError } from './errors';
-import { EARTH_RADIUS_M, legDistanceKm } from './route';
+import { EARTH_RADIUS_M, legDistanceKm } from './great-circle';
 import { expandTrackInput } from './track';
 import {
   SCREENING_LIMITS,

@@ -47,7 +47,7 @@ export {
   type OddOxygenBudget,
 } from './ozone-loss';
 export { findAirport, searchAirports, type Airport } from './airports';
-export { routeDistanceKm, MAX_SEGMENT_KM } from './route';
+export { routeDistanceKm, MAX_SEGMENT_KM } from './great-circle';
 export {
   parseFlightPlanRoute,
   expandFlightPlanInput,

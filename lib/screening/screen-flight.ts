@@ -49,7 +49,7 @@ import {
   type OzoneInputs,
   type ProfileSlotName,
 } from './ozone-loss';
-import { EARTH_RADIUS_M, MAX_SEGMENT_KM, planRoute, resolveWaypoints, type RoutePlan } from './route';
+import { EARTH_RADIUS_M, MAX_SEGMENT_KM, planRoute, resolveWaypoints, type RoutePlan } from './great-circle';
 import { windowSunlight, type WindowSunlight } from './sunlight';
 import type { FlightPlanUsed, RouteLibrary } from './flight-plan';
 import { expandRouteInput } from './route-input';

@@ -3,7 +3,7 @@
  * segments, with the time spent on each step when the points carry times.
  */
 import { ScreeningInputError } from './errors';
-import { legDistanceKm } from './route';
+import { legDistanceKm } from './great-circle';
 import { isoTimeMs } from '../validation/iso-time';
 import type { FieldProblem, ScreeningInput, WaypointsScreeningInput } from '../validation/screening';
 

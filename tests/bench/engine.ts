@@ -16,7 +16,7 @@ import {
   type ScreeningInput,
   type ScreeningInputRaw,
 } from '../../lib/screening/index';
-import { EARTH_RADIUS_M, MAX_SEGMENT_KM, planRoute, resolveWaypoints } from '../../lib/screening/route';
+import { EARTH_RADIUS_M, MAX_SEGMENT_KM, planRoute, resolveWaypoints } from '../../lib/screening/great-circle';
 import { MID_MONTH_DAY_OF_YEAR } from '../../lib/screening/tropopause';
 import { COLUMNS, bthHeightKm, bthRowForDay, columnPressurePa } from '../../lib/screening/climatology';
 import { profileSlotFor } from '../../lib/screening/ozone-loss';

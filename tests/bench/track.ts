@@ -12,7 +12,7 @@ import {
   screenValidated,
   validateScreeningInput,
 } from '../../lib/screening/index';
-import { planRoute, pointOnLeg } from '../../lib/screening/route';
+import { planRoute, pointOnLeg } from '../../lib/screening/great-circle';
 
 const RUNS = Number(process.argv[2] ?? 30);
 const N = 20_000;

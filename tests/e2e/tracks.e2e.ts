@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { newPage, screenshot, signIn, useBrowser } from './support/browser';
 import { findAirport } from '../../lib/screening/airports';
-import { planRoute, pointOnLeg } from '../../lib/screening/route';
+import { planRoute, pointOnLeg } from '../../lib/screening/great-circle';
 
 const { browser } = useBrowser();
 

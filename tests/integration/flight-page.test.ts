@@ -4,7 +4,7 @@ import { resetScope } from '../support/request-scope';
 import * as importsRoute from '@/app/api/v1/workspaces/[slug]/imports/route';
 import * as tracksRoute from '@/app/api/v1/workspaces/[slug]/imports/tracks/route';
 import * as flightRoute from '@/app/api/v1/workspaces/[slug]/flights/[id]/route';
-import FlightPage from '@/app/(app)/w/[workspace]/flights/[id]/page';
+import FlightPage from '@/app/(app)/w/[slug]/flights/[id]/page';
 import { db } from '@/db/client';
 import { runImportsToCompletion } from '@/lib/imports/worker';
 import type { ImportDto } from '@/db/imports';
@@ -106,7 +106,7 @@ describe('the flight page and GET /flights/{id}', () => {
     expect(api404.status).toBe(404);
 
     resetScope(cookie);
-    const page = await FlightPage({ params: Promise.resolve({ workspace: ws.slug, id: String(plannedId) }) });
+    const page = await FlightPage({ params: Promise.resolve({ slug: ws.slug, id: String(plannedId) }) });
     expect(page).toBeTruthy();
     // The page's element tree (not rendered here): the header names the flight, and the planned-vs-flown part gets both sides.
     const tree = JSON.stringify(page);
@@ -114,8 +114,8 @@ describe('the flight page and GET /flights/{id}', () => {
     expect(tree).toContain('"comparison":{"planned"');
 
     resetScope(otherCookie);
-    await expect(
-      FlightPage({ params: Promise.resolve({ workspace: other.slug, id: String(plannedId) }) }),
-    ).rejects.toThrow(/NEXT_HTTP_ERROR_FALLBACK;404|NEXT_NOT_FOUND/);
+    await expect(FlightPage({ params: Promise.resolve({ slug: other.slug, id: String(plannedId) }) })).rejects.toThrow(
+      /NEXT_HTTP_ERROR_FALLBACK;404|NEXT_NOT_FOUND/,
+    );
   });
 });

@@ -97,7 +97,7 @@ describe('role-aware landing after sign-in', () => {
   it("the page table matches every workspace page's own permission check", async () => {
     const fs = await import('node:fs');
     const path = await import('node:path');
-    const root = path.join(process.cwd(), 'app/(app)/w/[workspace]');
+    const root = path.join(process.cwd(), 'app/(app)/w/[slug]');
     const pages = fs.readdirSync(root, { recursive: true, encoding: 'utf8' }).filter((f) => f.endsWith('page.tsx'));
     expect(pages.length).toBeGreaterThan(10);
     for (const f of pages) {

@@ -4,7 +4,7 @@ import { resetScope } from '../../support/request-scope';
 import { authOptions } from '@/lib/auth/options';
 import { userFromSessionToken } from '@/lib/auth/session';
 import { requireMember } from '@/lib/auth/guards';
-import { createApiKeyAction } from '@/app/(app)/w/[workspace]/settings/api-keys/actions';
+import { createApiKeyAction } from '@/app/(app)/w/[slug]/settings/api-keys/actions';
 import * as workspacesRoute from '@/app/api/v1/workspaces/route';
 import { db } from '@/db/client';
 import { decode } from 'next-auth/jwt';

@@ -5,7 +5,7 @@ import * as failedRoute from '@/app/api/v1/workspaces/[slug]/jobs/failed/route';
 import { recordJobFailure } from '@/db/jobs';
 import { ROLES, can, type Role } from '@/lib/auth/policy';
 import { listFailedJobs } from '@/lib/jobs/failed-jobs';
-import { retryFailedJobAction } from '@/app/(app)/w/[workspace]/imports/actions';
+import { retryFailedJobAction } from '@/app/(app)/w/[slug]/imports/actions';
 
 vi.mock('next/headers', () => import('../../support/next-request'));
 vi.mock('next/cache', () => ({ revalidatePath: () => undefined }));

@@ -9,7 +9,7 @@ import * as airwayRoute from '@/app/api/v1/workspaces/[slug]/airways/[id]/route'
 import * as airwayUploadRoute from '@/app/api/v1/workspaces/[slug]/airways/upload/route';
 import * as previewRoute from '@/app/api/v1/workspaces/[slug]/screenings/preview/route';
 import * as screeningsRoute from '@/app/api/v1/workspaces/[slug]/screenings/route';
-import { legDistanceKm } from '@/lib/screening/route';
+import { legDistanceKm } from '@/lib/screening/great-circle';
 
 useTestDatabase();
 

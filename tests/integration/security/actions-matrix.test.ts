@@ -25,7 +25,7 @@ const PUBLIC_ACTIONS: Record<string, string> = {
 
 /** Form adapters (`(prev, FormData)`) that only read the posted fields and call a wrapped action of the same file. */
 const FORM_ADAPTERS: Record<string, string> = {
-  'app/(app)/w/[workspace]/settings/api-keys/actions.ts#createApiKeyFormAction': 'createApiKeyAction',
+  'app/(app)/w/[slug]/settings/api-keys/actions.ts#createApiKeyFormAction': 'createApiKeyAction',
 };
 
 type AnyAction = (...args: unknown[]) => Promise<ActionState<unknown>>;

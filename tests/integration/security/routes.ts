@@ -24,7 +24,7 @@ export interface RouteFile {
   pattern: string;
   /** Dynamic segment names in order, e.g. `['slug', 'id']`. */
   params: string[];
-  /** True when the URL is inside one workspace (`[slug]` or `[workspace]`). */
+  /** True when the URL is inside one workspace (`[slug]`). */
   inWorkspace: boolean;
 }
 

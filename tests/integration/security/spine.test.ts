@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { apiRequest, call, makeWorkspace, sessionCookie, useTestDatabase } from '../../support/test-db';
-import { idParam, MAX_ID } from '@/lib/api/route';
+import { idParam, MAX_ID } from '@/lib/api/handler';
 import { AppError } from '@/lib/errors';
 import * as screeningRoute from '@/app/api/v1/workspaces/[slug]/screenings/[id]/route';
 

@@ -8,7 +8,7 @@ import {
   type FlightPlanAirway,
   type FlightPlanFix,
 } from '@/lib/screening';
-import { legDistanceKm } from '@/lib/screening/route';
+import { legDistanceKm } from '@/lib/screening/great-circle';
 
 // Test-only fix coordinates: invented positions for the designators the standard's examples use.
 const FIXES: FlightPlanFix[] = [

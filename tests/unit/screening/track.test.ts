@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { compareCruiseLevels, findAirport, screenFlight, ScreeningInputError } from '@/lib/screening';
 import { getDistance } from 'geolib';
-import { geolibDistanceM, planRoute, pointOnLeg } from '@/lib/screening/route';
+import { geolibDistanceM, planRoute, pointOnLeg } from '@/lib/screening/great-circle';
 import { isoTimeMs } from '@/lib/validation/iso-time';
 
 const BASE = { fuelBurnKg: 24_000, emission: { eiNoxGPerKg: 14 }, month: 1, mach: 0.84 };

@@ -1,4 +1,4 @@
-import { authedRoute, json, readQuery } from '@/lib/api/route';
+import { authedRoute, json, readQuery } from '@/lib/api/handler';
 import { searchAirports } from '@/lib/screening';
 import { airportQuerySchema } from '@/lib/validation/screening-api';
 

@@ -1,4 +1,4 @@
-import { authedRoute, json, readQuery } from '@/lib/api/route';
+import { authedRoute, json, readQuery } from '@/lib/api/handler';
 import { flightLevelToMetres, isa } from '@/lib/screening';
 import { atmosphereQuerySchema } from '@/lib/validation/screening-api';
 

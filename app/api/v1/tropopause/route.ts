@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { authedRoute, json, readJson } from '@/lib/api/route';
+import { authedRoute, json, readJson } from '@/lib/api/handler';
 import { tropopauseFromSounding } from '@/lib/screening';
 
 /** WMO (1957) first lapse-rate tropopause of `{ levels }`; `{ tropopause: null }` when there is none. */

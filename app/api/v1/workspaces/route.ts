@@ -1,4 +1,4 @@
-import { authedRoute, json, readJson } from '@/lib/api/route';
+import { authedRoute, json, readJson } from '@/lib/api/handler';
 import { listWorkspacesForUser } from '@/db/workspaces';
 import { createWorkspace } from '@/lib/workspaces/service';
 import { workspaceCreateSchema } from '@/lib/validation/workspaces';

@@ -1,4 +1,4 @@
-import { readBodyText } from '@/lib/api/route';
+import { readBodyText } from '@/lib/api/handler';
 import { stripe } from '@/lib/billing/stripe';
 import { handleStripeEvent } from '@/lib/billing/webhooks';
 import { env } from '@/lib/env';

@@ -1,4 +1,4 @@
-import { json, readJson, workspaceRoute } from '@/lib/api/route';
+import { json, readJson, workspaceRoute } from '@/lib/api/handler';
 import { createAircraftType, listAircraftTypes } from '@/db/engines';
 import { aircraftTypeSaveSchema } from '@/lib/validation/library';
 

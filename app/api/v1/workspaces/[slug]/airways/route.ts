@@ -1,4 +1,4 @@
-import { json, readQuery, workspaceRoute } from '@/lib/api/route';
+import { json, readQuery, workspaceRoute } from '@/lib/api/handler';
 import { listAirways } from '@/db/route-library';
 import { routeLibraryQuerySchema } from '@/lib/validation/route-library';
 

@@ -1,4 +1,4 @@
-import { json, readJson, workspaceRoute } from '@/lib/api/route';
+import { json, readJson, workspaceRoute } from '@/lib/api/handler';
 import { listApiKeys } from '@/db/api-keys';
 import { createApiKey } from '@/lib/auth/api-keys';
 import { apiKeyCreateSchema } from '@/lib/validation/workspaces';

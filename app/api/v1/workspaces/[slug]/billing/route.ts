@@ -1,4 +1,4 @@
-import { json, readJson, workspaceRoute } from '@/lib/api/route';
+import { json, readJson, workspaceRoute } from '@/lib/api/handler';
 import { ensureBilling } from '@/lib/billing/trial';
 import { listInvoices, updateBillingEmail } from '@/lib/billing/service';
 import { publicBillingState } from '@/lib/billing/state';

@@ -1,4 +1,4 @@
-import { json, readJson, workspaceRoute } from '@/lib/api/route';
+import { json, readJson, workspaceRoute } from '@/lib/api/handler';
 import { createEngine, listEngines } from '@/db/engines';
 import { engineSaveSchema } from '@/lib/validation/library';
 

@@ -1,4 +1,4 @@
-import { json, readJson, readQuery, workspaceRoute } from '@/lib/api/route';
+import { json, readJson, readQuery, workspaceRoute } from '@/lib/api/handler';
 import { listFixes, saveFixes } from '@/db/route-library';
 import { fixRowSchema, routeLibraryQuerySchema, ROUTE_LIBRARY_LIMITS } from '@/lib/validation/route-library';
 import { z } from 'zod';

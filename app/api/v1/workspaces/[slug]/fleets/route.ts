@@ -1,4 +1,4 @@
-import { json, readJson, workspaceRoute } from '@/lib/api/route';
+import { json, readJson, workspaceRoute } from '@/lib/api/handler';
 import { createFleet, listFleets } from '@/db/fleets';
 import { fleetCreateSchema } from '@/lib/validation/fleets';
 

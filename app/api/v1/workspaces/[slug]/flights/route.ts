@@ -1,4 +1,4 @@
-import { json, readQuery, workspaceRoute } from '@/lib/api/route';
+import { json, readQuery, workspaceRoute } from '@/lib/api/handler';
 import { listFlights } from '@/db/flights';
 import { flightListQuerySchema } from '@/lib/validation/imports';
 

@@ -1,4 +1,4 @@
-import { json, readQuery, workspaceRoute } from '@/lib/api/route';
+import { json, readQuery, workspaceRoute } from '@/lib/api/handler';
 import { listImports } from '@/db/imports';
 import { acceptScheduleUpload, readScheduleFile } from '@/lib/imports/schedule-service';
 import { importListQuerySchema } from '@/lib/validation/imports';

@@ -1,4 +1,4 @@
-import { json, readJson, workspaceRoute } from '@/lib/api/route';
+import { json, readJson, workspaceRoute } from '@/lib/api/handler';
 import { periodJson } from '@/lib/periods/json';
 import { createCustomPeriod, listPeriods } from '@/lib/periods/service';
 import { periodCreateSchema } from '@/lib/validation/periods';

@@ -1,4 +1,4 @@
-import { json, readJson, readQuery, workspaceRoute } from '@/lib/api/route';
+import { json, readJson, readQuery, workspaceRoute } from '@/lib/api/handler';
 import { listReports } from '@/db/reports';
 import { buildFleetReport } from '@/lib/reports/build';
 import { reportJson } from '@/lib/reports/json';

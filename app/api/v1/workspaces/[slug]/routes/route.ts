@@ -1,4 +1,4 @@
-import { json, readJson, workspaceRoute } from '@/lib/api/route';
+import { json, readJson, workspaceRoute } from '@/lib/api/handler';
 import { listRoutes } from '@/db/routes';
 import { createRoute, routeWithDistance as routeBody } from '@/lib/library/routes';
 import { routeSaveSchema } from '@/lib/validation/library';

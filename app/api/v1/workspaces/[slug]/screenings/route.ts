@@ -1,6 +1,6 @@
-import { json, readJson, readQuery, workspaceRoute } from '@/lib/api/route';
+import { json, readJson, readQuery, workspaceRoute } from '@/lib/api/handler';
 import { createScreening, listScreenings } from '@/db/screenings';
-import { parseScreeningBody, runScreening } from '@/lib/screenings/service';
+import { parseScreeningBody, runScreening } from '@/lib/screening-service/service';
 import { screeningListQuerySchema } from '@/lib/validation/screening-api';
 import { invalidFields } from '@/lib/errors';
 import { z } from 'zod';

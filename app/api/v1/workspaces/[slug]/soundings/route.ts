@@ -1,4 +1,4 @@
-import { json, readJson, workspaceRoute } from '@/lib/api/route';
+import { json, readJson, workspaceRoute } from '@/lib/api/handler';
 import { listSoundings } from '@/db/soundings';
 import { createSounding } from '@/lib/library/soundings';
 import { soundingCreateSchema } from '@/lib/validation/library';

@@ -1,4 +1,4 @@
-import { json, workspaceRoute } from '@/lib/api/route';
+import { json, workspaceRoute } from '@/lib/api/handler';
 import { getUsageSummary } from '@/lib/billing/usage-summary';
 
 /** The current period's metered usage, estimate and ledger-versus-provider reconciliation. */

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { idParam, json, readJson, workspaceRoute } from '@/lib/api/route';
+import { idParam, json, readJson, workspaceRoute } from '@/lib/api/handler';
 import { aircraftTypeSaveOf, deleteAircraftType, getAircraftType, updateAircraftType } from '@/db/engines';
 import { aircraftTypeSaveSchema } from '@/lib/validation/library';
 import { fromZod } from '@/lib/errors';

@@ -1,4 +1,4 @@
-import { idParam, workspaceRoute } from '@/lib/api/route';
+import { idParam, workspaceRoute } from '@/lib/api/handler';
 import { deleteAirway } from '@/db/route-library';
 
 type Params = { slug: string; id: string };

@@ -1,4 +1,4 @@
-import { idParam, workspaceRoute } from '@/lib/api/route';
+import { idParam, workspaceRoute } from '@/lib/api/handler';
 import { revokeApiKey } from '@/db/api-keys';
 
 export const DELETE = workspaceRoute<{ slug: string; id: string }>(

@@ -1,4 +1,4 @@
-import { json, readJson, workspaceRoute } from '@/lib/api/route';
+import { json, readJson, workspaceRoute } from '@/lib/api/handler';
 import { getBudgetState, setUsageBudget } from '@/lib/billing/budget';
 import { usageBudgetSchema } from '@/lib/validation/billing';
 import { forbidden, notFound } from '@/lib/errors';

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { idParam, json, readJson, workspaceRoute } from '@/lib/api/route';
+import { idParam, json, readJson, workspaceRoute } from '@/lib/api/handler';
 import { deleteEngine, engineSaveOf, getEngine, updateEngine } from '@/db/engines';
 import { engineSaveSchema } from '@/lib/validation/library';
 import { fromZod } from '@/lib/errors';

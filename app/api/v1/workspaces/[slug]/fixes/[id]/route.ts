@@ -1,4 +1,4 @@
-import { idParam, workspaceRoute } from '@/lib/api/route';
+import { idParam, workspaceRoute } from '@/lib/api/handler';
 import { deleteFix } from '@/db/route-library';
 
 type Params = { slug: string; id: string };

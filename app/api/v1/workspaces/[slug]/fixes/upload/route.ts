@@ -1,4 +1,4 @@
-import { json, workspaceRoute } from '@/lib/api/route';
+import { json, workspaceRoute } from '@/lib/api/handler';
 import { saveFixes } from '@/db/route-library';
 import { csvRejection } from '@/lib/imports/csv';
 import { readUpload } from '@/lib/api/upload';

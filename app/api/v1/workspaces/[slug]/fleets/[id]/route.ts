@@ -1,4 +1,4 @@
-import { idParam, json, readJson, workspaceRoute } from '@/lib/api/route';
+import { idParam, json, readJson, workspaceRoute } from '@/lib/api/handler';
 import { deleteFleet, getFleet, updateFleet } from '@/db/fleets';
 import { fleetUpdateSchema } from '@/lib/validation/fleets';
 

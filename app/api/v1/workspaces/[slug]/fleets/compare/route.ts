@@ -1,4 +1,4 @@
-import { json, readQuery, workspaceRoute } from '@/lib/api/route';
+import { json, readQuery, workspaceRoute } from '@/lib/api/handler';
 import { compareFleets } from '@/lib/fleets/compare';
 import { fleetCompareQuerySchema } from '@/lib/validation/fleets';
 

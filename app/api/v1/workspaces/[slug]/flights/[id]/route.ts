@@ -1,4 +1,4 @@
-import { idParam, json, workspaceRoute } from '@/lib/api/route';
+import { idParam, json, workspaceRoute } from '@/lib/api/handler';
 import { flightViewJson, getFlightView } from '@/lib/flights/view';
 
 /** One imported flight (planned or flown) with, when the same flight was both planned and flown, the other side and the differences. */

@@ -1,4 +1,4 @@
-import { idParam, json, workspaceRoute } from '@/lib/api/route';
+import { idParam, json, workspaceRoute } from '@/lib/api/handler';
 import { deleteImport, getImport } from '@/db/imports';
 
 /** One import with its progress: rows done, rows per second, seconds left, problems. */

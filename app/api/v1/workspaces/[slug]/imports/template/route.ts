@@ -1,4 +1,4 @@
-import { workspaceRoute } from '@/lib/api/route';
+import { workspaceRoute } from '@/lib/api/handler';
 import { listAircraftForScreening } from '@/db/aircraft-lookup';
 import { listFleetsByName } from '@/db/flights';
 import { scheduleTemplateCsv } from '@/lib/imports/schedule-template';

@@ -1,4 +1,4 @@
-import { json, workspaceRoute } from '@/lib/api/route';
+import { json, workspaceRoute } from '@/lib/api/handler';
 import { acceptTrackUpload } from '@/lib/imports/track-service';
 import { invalidFields } from '@/lib/errors';
 

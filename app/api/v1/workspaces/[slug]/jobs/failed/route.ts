@@ -1,4 +1,4 @@
-import { json, workspaceRoute } from '@/lib/api/route';
+import { json, workspaceRoute } from '@/lib/api/handler';
 import { listFailedJobs } from '@/lib/jobs/failed-jobs';
 
 /** The workspace's failed background jobs (dead letters) not yet retried, newest first: owners only. */

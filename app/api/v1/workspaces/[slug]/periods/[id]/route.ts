@@ -1,4 +1,4 @@
-import { json, workspaceRoute } from '@/lib/api/route';
+import { json, workspaceRoute } from '@/lib/api/handler';
 import { periodJson } from '@/lib/periods/json';
 import { getPeriodView } from '@/lib/periods/service';
 

@@ -1,4 +1,4 @@
-import { idParam, json, workspaceRoute } from '@/lib/api/route';
+import { idParam, json, workspaceRoute } from '@/lib/api/handler';
 import { deleteReport, getReport, listReportSends } from '@/db/reports';
 import { reportJson } from '@/lib/reports/json';
 

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { idParam, json, readJson, workspaceRoute } from '@/lib/api/route';
+import { idParam, json, readJson, workspaceRoute } from '@/lib/api/handler';
 import { deleteRoute, getRoute } from '@/db/routes';
 import { routeWithDistance as routeBody, updateRoute } from '@/lib/library/routes';
 import { routeSaveSchema } from '@/lib/validation/library';

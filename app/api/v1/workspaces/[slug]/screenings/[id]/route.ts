@@ -1,4 +1,4 @@
-import { idParam, json, workspaceRoute } from '@/lib/api/route';
+import { idParam, json, workspaceRoute } from '@/lib/api/handler';
 import { getScreening, listRescreensOf } from '@/db/screenings';
 import { ENGINE_VERSION } from '@/lib/screening';
 

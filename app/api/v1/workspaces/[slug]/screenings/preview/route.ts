@@ -1,5 +1,5 @@
-import { json, readJson, workspaceRoute } from '@/lib/api/route';
-import { parseScreeningBody, runMonthSweep, runScreening, runWhatIf } from '@/lib/screenings/service';
+import { json, readJson, workspaceRoute } from '@/lib/api/handler';
+import { parseScreeningBody, runMonthSweep, runScreening, runWhatIf } from '@/lib/screening-service/service';
 import { limitPreview } from '@/lib/auth/throttle';
 import { z } from 'zod';
 

@@ -1,4 +1,4 @@
-import { idParam, json, workspaceRoute } from '@/lib/api/route';
+import { idParam, json, workspaceRoute } from '@/lib/api/handler';
 import { deleteSounding, getSounding } from '@/db/soundings';
 
 type Params = { slug: string; id: string };

@@ -1,4 +1,4 @@
-import { json, workspaceRoute } from '@/lib/api/route';
+import { json, workspaceRoute } from '@/lib/api/handler';
 import { ensureBilling } from '@/lib/billing/trial';
 import { payOpenInvoices } from '@/lib/billing/service';
 import { publicBillingState } from '@/lib/billing/state';

@@ -1,4 +1,4 @@
-import { idParam, json, workspaceRoute } from '@/lib/api/route';
+import { idParam, json, workspaceRoute } from '@/lib/api/handler';
 import { rescreenImport } from '@/lib/imports/rescreen';
 
 /** Queues a re-screen of the import's flights with the current engine (not billed): 202 the import with its `rescreen` progress. */

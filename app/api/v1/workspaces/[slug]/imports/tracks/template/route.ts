@@ -1,4 +1,4 @@
-import { workspaceRoute } from '@/lib/api/route';
+import { workspaceRoute } from '@/lib/api/handler';
 import { listAircraftForScreening } from '@/db/aircraft-lookup';
 import { trackTemplateCsv } from '@/lib/imports/tracks';
 import { todayIso } from '@/lib/clock';

@@ -1,4 +1,4 @@
-import { workspaceRoute } from '@/lib/api/route';
+import { workspaceRoute } from '@/lib/api/handler';
 import { ensureBilling } from '@/lib/billing/trial';
 import { getInvoicePdf } from '@/lib/billing/service';
 

@@ -1,4 +1,4 @@
-import { workspaceRoute } from '@/lib/api/route';
+import { workspaceRoute } from '@/lib/api/handler';
 import { buildAuditPack } from '@/lib/periods/audit-pack';
 import { attachmentHeaders } from '@/lib/reports/download';
 

@@ -1,4 +1,4 @@
-import { workspaceRoute } from '@/lib/api/route';
+import { workspaceRoute } from '@/lib/api/handler';
 import { getPeriodReportPdf } from '@/lib/periods/service';
 import { attachmentHeaders } from '@/lib/reports/download';
 

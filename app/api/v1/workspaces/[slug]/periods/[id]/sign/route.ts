@@ -1,4 +1,4 @@
-import { json, readBodyText, workspaceRoute } from '@/lib/api/route';
+import { json, readBodyText, workspaceRoute } from '@/lib/api/handler';
 import { badRequest, fromZod } from '@/lib/errors';
 import { periodJson } from '@/lib/periods/json';
 import { signPeriod } from '@/lib/periods/service';

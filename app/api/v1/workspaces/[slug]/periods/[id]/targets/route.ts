@@ -1,4 +1,4 @@
-import { json, readJson, workspaceRoute } from '@/lib/api/route';
+import { json, readJson, workspaceRoute } from '@/lib/api/handler';
 import { checkTargetAlerts } from '@/lib/periods/alerts';
 import { getPeriodView, setPeriodTargets } from '@/lib/periods/service';
 import { periodTargetsSchema } from '@/lib/validation/periods';

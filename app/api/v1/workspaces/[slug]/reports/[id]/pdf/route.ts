@@ -1,4 +1,4 @@
-import { idParam, workspaceRoute } from '@/lib/api/route';
+import { idParam, workspaceRoute } from '@/lib/api/handler';
 import { getReportPdf } from '@/db/reports';
 import { attachmentHeaders } from '@/lib/reports/download';
 

@@ -1,4 +1,4 @@
-import { idParam, json, readJson, workspaceRoute } from '@/lib/api/route';
+import { idParam, json, readJson, workspaceRoute } from '@/lib/api/handler';
 import { sendReport } from '@/lib/reports/send';
 import { reportSendSchema } from '@/lib/validation/reports';
 

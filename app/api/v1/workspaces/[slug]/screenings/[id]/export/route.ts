@@ -1,7 +1,7 @@
-import { idParam, workspaceRoute } from '@/lib/api/route';
+import { idParam, workspaceRoute } from '@/lib/api/handler';
 import { getScreening, routeLabel, type ScreeningRecord } from '@/db/screenings';
 import { invalidFields } from '@/lib/errors';
-import { uncertaintyFor } from '@/lib/screenings/uncertainty-view';
+import { uncertaintyFor } from '@/lib/screening-service/uncertainty-view';
 import type { Percentiles, ScreeningUncertainty } from '@/lib/screening';
 import { csvRecords, type CsvCell as Cell } from '@/lib/csv/write';
 

@@ -1,5 +1,5 @@
-import { idParam, json, workspaceRoute } from '@/lib/api/route';
-import { rescreenScreening } from '@/lib/screenings/service';
+import { idParam, json, workspaceRoute } from '@/lib/api/handler';
+import { rescreenScreening } from '@/lib/screening-service/service';
 
 /**
  * Screens a saved screening again with the current engine as a new screening (not billed): 201 the
