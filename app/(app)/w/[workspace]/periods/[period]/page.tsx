@@ -94,7 +94,7 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
         <Stat label="NOx above per 1000 km" value={per1000(t, u)} />
       </div>
 
-      <div className="mt-6 grid gap-6 lg:grid-cols-2">
+      <div className="mt-6 grid grid-cols-1 gap-6 *:min-w-0 lg:grid-cols-2">
         <Card title="Against targets">
           {view.targets.length ? (
             <ScrollRegion label="Figures against targets">
@@ -104,9 +104,9 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                   <tr>
                     <th className="py-2">Fleet</th>
                     <th className="py-2">Measure</th>
-                    <th className="py-2 text-right">Target</th>
-                    <th className="py-2 text-right">Figure</th>
-                    <th className="py-2 text-right">Of target</th>
+                    <th className="py-2 pl-3 text-right">Target</th>
+                    <th className="py-2 pl-3 text-right">Figure</th>
+                    <th className="py-2 pl-3 text-right">Of target</th>
                     <th className="py-2 pl-3">Status</th>
                   </tr>
                 </thead>
@@ -115,9 +115,13 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                     <tr key={`${x.fleetId}:${x.metric}`} className="border-t border-line" data-testid="target-view">
                       <td className="py-1.5">{x.fleetName}</td>
                       <td className="py-1.5">{x.label}</td>
-                      <td className="figure py-1.5 text-right whitespace-nowrap">{metricText(x.target, x.unit)}</td>
-                      <td className="figure py-1.5 text-right whitespace-nowrap">{metricText(x.actual, x.unit)}</td>
-                      <td className="figure py-1.5 text-right whitespace-nowrap">
+                      <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
+                        {metricText(x.target, x.unit)}
+                      </td>
+                      <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
+                        {metricText(x.actual, x.unit)}
+                      </td>
+                      <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
                         {x.ratio === null ? '–' : formatPercent(x.ratio, 0)}
                       </td>
                       <td className={`py-1.5 pl-3 ${STATUS[x.status].className}`}>{STATUS[x.status].label}</td>
@@ -197,22 +201,22 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
               <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
                 <tr>
                   <th className="py-2">Fleet</th>
-                  <th className="py-2 text-right">Flights</th>
-                  <th className="py-2 text-right">NOx above tropopause</th>
-                  <th className="py-2 text-right">Share above</th>
-                  <th className="py-2 text-right">Per 1000 km</th>
+                  <th className="py-2 pl-3 text-right">Flights</th>
+                  <th className="py-2 pl-3 text-right">NOx above tropopause</th>
+                  <th className="py-2 pl-3 text-right">Share above</th>
+                  <th className="py-2 pl-3 text-right">Per 1000 km</th>
                 </tr>
               </thead>
               <tbody>
                 {view.figures.fleets.map((f) => (
                   <tr key={f.fleetId ?? 'none'} className="border-t border-line">
                     <td className="py-1.5">{f.fleetName}</td>
-                    <td className="figure py-1.5 text-right whitespace-nowrap">{formatNumber(f.flights)}</td>
-                    <td className="figure py-1.5 text-right whitespace-nowrap">{formatMass(f.noxAboveKg, u)}</td>
-                    <td className="figure py-1.5 text-right whitespace-nowrap">
+                    <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{formatNumber(f.flights)}</td>
+                    <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{formatMass(f.noxAboveKg, u)}</td>
+                    <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
                       {f.shareAbove === null ? '–' : formatPercent(f.shareAbove, 1)}
                     </td>
-                    <td className="figure py-1.5 text-right whitespace-nowrap">{per1000(f, u)}</td>
+                    <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{per1000(f, u)}</td>
                   </tr>
                 ))}
               </tbody>
@@ -232,10 +236,10 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                 <tr>
                   <th className="py-2">Period</th>
                   <th className="py-2">State</th>
-                  <th className="py-2 text-right">Flights</th>
-                  <th className="py-2 text-right">NOx above tropopause</th>
-                  <th className="py-2 text-right">Share above</th>
-                  <th className="py-2 text-right">Per 1000 km</th>
+                  <th className="py-2 pl-3 text-right">Flights</th>
+                  <th className="py-2 pl-3 text-right">NOx above tropopause</th>
+                  <th className="py-2 pl-3 text-right">Share above</th>
+                  <th className="py-2 pl-3 text-right">Per 1000 km</th>
                   <th className="py-2 pl-3">Against workspace targets</th>
                 </tr>
               </thead>
@@ -253,14 +257,16 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                     <td className="py-1.5">
                       <StateBadge state={r.state} />
                     </td>
-                    <td className="figure py-1.5 text-right whitespace-nowrap">{formatNumber(r.figures.flights)}</td>
-                    <td className="figure py-1.5 text-right whitespace-nowrap">
+                    <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
+                      {formatNumber(r.figures.flights)}
+                    </td>
+                    <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
                       {formatMass(r.figures.noxAboveKg, u)}
                     </td>
-                    <td className="figure py-1.5 text-right whitespace-nowrap">
+                    <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
                       {r.figures.shareAbove === null ? '–' : formatPercent(r.figures.shareAbove, 1)}
                     </td>
-                    <td className="figure py-1.5 text-right whitespace-nowrap">{per1000(r.figures, u)}</td>
+                    <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{per1000(r.figures, u)}</td>
                     <td className="py-1.5 pl-3 text-xs">
                       {r.targets.length
                         ? r.targets
@@ -296,8 +302,8 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                       <th className="py-2">Date</th>
                       <th className="py-2">Flight</th>
                       <th className="py-2">Route</th>
-                      <th className="py-2 text-right">NOx above now</th>
-                      <th className="py-2 text-right">Frozen</th>
+                      <th className="py-2 pl-3 text-right">NOx above now</th>
+                      <th className="py-2 pl-3 text-right">Frozen</th>
                     </tr>
                   </thead>
                   <tbody>
@@ -323,10 +329,10 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                         <td className="py-1.5">
                           {c.origin}–{c.destination}
                         </td>
-                        <td className="figure py-1.5 text-right whitespace-nowrap">
+                        <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
                           {c.noxAboveKgNow === null ? '–' : formatMass(c.noxAboveKgNow, u)}
                         </td>
-                        <td className="figure py-1.5 text-right whitespace-nowrap">
+                        <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
                           {c.noxAboveKgFrozen === null ? '–' : formatMass(c.noxAboveKgFrozen, u)}
                         </td>
                       </tr>
@@ -353,9 +359,9 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                   <th className="py-2">Route</th>
                   <th className="py-2">Aircraft</th>
                   <th className="py-2">Fleet</th>
-                  <th className="py-2 text-right">NOx above tropopause</th>
+                  <th className="py-2 pl-3 text-right">NOx above tropopause</th>
                   <th className="py-2 pl-3">Engine</th>
-                  <th className="py-2 text-right">Import</th>
+                  <th className="py-2 pl-3 text-right">Import</th>
                 </tr>
               </thead>
               <tbody>
@@ -376,9 +382,9 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                     </td>
                     <td className="py-1.5">{f.aircraftCode}</td>
                     <td className="py-1.5">{f.fleetName ?? 'No fleet'}</td>
-                    <td className="figure py-1.5 text-right whitespace-nowrap">{formatMass(f.noxAboveKg, u)}</td>
+                    <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{formatMass(f.noxAboveKg, u)}</td>
                     <td className="py-1.5 pl-3 text-xs">{f.engineVersion}</td>
-                    <td className="figure py-1.5 text-right whitespace-nowrap">{f.importId ?? '–'}</td>
+                    <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{f.importId ?? '–'}</td>
                   </tr>
                 ))}
               </tbody>
