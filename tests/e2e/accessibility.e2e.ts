@@ -332,6 +332,24 @@ describe('accessibility and CSP on the main pages', () => {
     }
   });
 
+  it('on a phone the screen page with a finished preview (charts, month strip, other levels) does not scroll sideways', async () => {
+    const { page, context } = await newPage(browser(), { width: 390, height: 844 });
+    await signIn(page, 'planner@tropopass.test');
+    await page.goto('/w/skarn-polar/screen');
+    await page.getByRole('heading', { level: 1 }).first().waitFor();
+    await page.getByRole('combobox', { name: 'From', exact: true }).fill('EGLL');
+    await page.getByRole('combobox', { name: 'To', exact: true }).fill('PANC');
+    await page.getByLabel('Aircraft type', { exact: true }).selectOption('SK-LR1');
+    await page.getByLabel('Flight level', { exact: true }).fill('370');
+    await page.getByLabel('Cruise fuel burn (kg)').fill('52000');
+    await page.getByTestId('preview-status').filter({ hasText: 'Up to date' }).waitFor({ timeout: 20_000 });
+    await page.getByTestId('what-if-table').first().waitFor();
+    await page.getByTestId('month-strip').first().waitFor();
+    await screenshot(page, 'screen-preview-390');
+    expect(await layoutFindings(page)).toEqual([]);
+    await context.close();
+  });
+
   it('at 1366 px the preview of a step-climb flight shows every column of Other cruise levels; a step can start at a stop', async () => {
     const { page, context } = await newPage(browser(), { width: 1366, height: 900 });
     await signIn(page, 'planner@tropopass.test');
