@@ -23,14 +23,18 @@ export function formatAltitude(m: number, units: UnitSystem): string {
   return units === 'imperial' ? `${formatNumber(m / M_PER_FT, 0)} ft` : `${formatNumber(m, 0)} m`;
 }
 
-/** Masses: kg below 10 t, tonnes above; pounds in the imperial preference. */
+/**
+ * Masses: kg below 10 t, tonnes above; pounds in the imperial preference. Small masses get two
+ * decimals; an exact zero (an empty month) gets none, as "0.00 kg" would claim a precision nobody measured.
+ */
 export function formatMass(kg: number, units: UnitSystem, digits?: number): string {
+  const small = (v: number) => (v !== 0 && Math.abs(v) < 10 ? 2 : 0);
   if (units === 'imperial') {
     const lb = kg / KG_PER_LB;
-    return `${formatNumber(lb, digits ?? (lb < 10 ? 2 : 0))} lb`;
+    return `${formatNumber(lb, digits ?? small(lb))} lb`;
   }
   if (Math.abs(kg) >= 10_000) return `${formatNumber(kg / 1000, digits ?? 1)} t`;
-  return `${formatNumber(kg, digits ?? (Math.abs(kg) < 10 ? 2 : 0))} kg`;
+  return `${formatNumber(kg, digits ?? small(kg))} kg`;
 }
 
 /**

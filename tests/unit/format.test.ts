@@ -20,3 +20,15 @@ describe('formatMassRange', () => {
     );
   });
 });
+
+describe('formatMass', () => {
+  it('an exact zero (an empty month) shows without decimals; small masses keep two', () => {
+    expect(formatMass(0, 'metric')).toBe('0 kg');
+    expect(formatMass(0, 'imperial')).toBe('0 lb');
+    expect(formatMass(4.5, 'metric')).toBe('4.50 kg');
+    expect(formatMass(0.004, 'metric')).toBe('0.00 kg');
+    expect(formatMass(12_345, 'metric')).toBe('12.3 t');
+    // 1 lb = 0.45359237 kg exactly (international avoirdupois pound).
+    expect(formatMass(0.45359237 * 3, 'imperial')).toBe('3.00 lb');
+  });
+});
