@@ -123,6 +123,38 @@ async function layoutFindings(page: Page): Promise<string[]> {
 const FIT_AT_DESKTOP = ['Fleet comparison table', 'Other cruise levels', 'Audit log'];
 
 /**
+ * Table cells whose text runs into the next cell's ("107.00 t66.70 t"): two neighbouring cells of a
+ * row whose text boxes, on the same line, are less than 4 px apart. Headers included.
+ */
+async function touchingCells(page: Page): Promise<string[]> {
+  return page.evaluate(() => {
+    const out: string[] = [];
+    const textBoxes = (cell: Element) => {
+      const range = document.createRange();
+      range.selectNodeContents(cell);
+      return [...range.getClientRects()].filter((r) => r.width > 1 && r.height > 1);
+    };
+    for (const row of document.querySelectorAll<HTMLTableRowElement>('main tr')) {
+      if (row.offsetParent === null) continue;
+      const cells = [...row.cells];
+      for (let i = 0; i + 1 < cells.length; i++) {
+        const left = textBoxes(cells[i]);
+        const right = textBoxes(cells[i + 1]);
+        for (const a of left)
+          for (const b of right) {
+            const sameLine = a.top < b.bottom - 2 && b.top < a.bottom - 2;
+            if (sameLine && b.left - a.right < 4)
+              out.push(
+                `"${(cells[i].textContent ?? '').trim().slice(0, 24)}" runs into "${(cells[i + 1].textContent ?? '').trim().slice(0, 24)}"`,
+              );
+          }
+      }
+    }
+    return [...new Set(out)].slice(0, 6);
+  });
+}
+
+/**
  * Visits one page; returns its serious findings (accessibility and CSP) so a run lists every page's at
  * once. A page that does not answer 2xx (a 404 included) fails here: every page listed must exist.
  */
@@ -348,6 +380,27 @@ describe('accessibility and CSP on the main pages', () => {
     await screenshot(page, 'screen-preview-390');
     expect(await layoutFindings(page)).toEqual([]);
     await context.close();
+  });
+
+  it('the overview and a period page keep a gap between neighbouring figures at phone and desktop width, and name what a target status is measured against', async () => {
+    const findings: string[] = [];
+    for (const viewport of [
+      { width: 390, height: 844 },
+      { width: 1366, height: 900 },
+    ]) {
+      const { page, context } = await newPage(browser(), viewport);
+      await signIn(page, 'consultant@tropopass.test');
+      for (const path of ['/w/skarn-polar', '/w/skarn-polar/periods/2026-Q4']) {
+        await page.goto(path);
+        await page.getByRole('heading', { level: 1 }).first().waitFor();
+        findings.push(...(await touchingCells(page)).map((f) => `${path} at ${viewport.width} px: ${f}`));
+      }
+      const statuses = await page.getByTestId('target-view').locator('td:last-child').allTextContents();
+      expect(statuses.length, 'the demo quarter has targets').toBeGreaterThan(0);
+      for (const s of statuses) expect(s).toMatch(/of target|Target passed|No figure/);
+      await context.close();
+    }
+    expect(findings).toEqual([]);
   });
 
   it('at 1366 px the preview of a step-climb flight shows every column of Other cruise levels; a step can start at a stop', async () => {

@@ -20,8 +20,8 @@ import { reopenPeriodAction, reviewPeriodAction, setPeriodTargetsAction, signPer
 export const metadata = { title: 'Reporting period' };
 
 const STATUS: Record<TargetStatus, { label: string; className: string }> = {
-  'on-track': { label: 'Below 90 %', className: 'text-tropo-strong' },
-  near: { label: '90 % reached', className: 'text-caution font-medium' },
+  'on-track': { label: 'Under 90 % of target', className: 'text-tropo-strong' },
+  near: { label: '90 % of target reached', className: 'text-caution font-medium' },
   over: { label: 'Target passed', className: 'text-danger font-medium' },
   'no-data': { label: 'No figure', className: 'text-ink-faint' },
 };
@@ -102,8 +102,8 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                 <caption className="sr-only">Each target with the period&apos;s figure</caption>
                 <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
                   <tr>
-                    <th className="py-2">Fleet</th>
-                    <th className="py-2">Measure</th>
+                    <th className="py-2 pr-3">Fleet</th>
+                    <th className="py-2 pr-3">Measure</th>
                     <th className="py-2 pl-3 text-right">Target</th>
                     <th className="py-2 pl-3 text-right">Figure</th>
                     <th className="py-2 pl-3 text-right">Of target</th>
@@ -113,8 +113,8 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                 <tbody>
                   {view.targets.map((x) => (
                     <tr key={`${x.fleetId}:${x.metric}`} className="border-t border-line" data-testid="target-view">
-                      <td className="py-1.5">{x.fleetName}</td>
-                      <td className="py-1.5">{x.label}</td>
+                      <td className="py-1.5 pr-3">{x.fleetName}</td>
+                      <td className="py-1.5 pr-3">{x.label}</td>
                       <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
                         {metricText(x.target, x.unit)}
                       </td>
@@ -200,7 +200,7 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
               <caption className="sr-only">The period&apos;s figures per fleet</caption>
               <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
                 <tr>
-                  <th className="py-2">Fleet</th>
+                  <th className="py-2 pr-3">Fleet</th>
                   <th className="py-2 pl-3 text-right">Flights</th>
                   <th className="py-2 pl-3 text-right">NOx above tropopause</th>
                   <th className="py-2 pl-3 text-right">Share above</th>
@@ -210,7 +210,7 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
               <tbody>
                 {view.figures.fleets.map((f) => (
                   <tr key={f.fleetId ?? 'none'} className="border-t border-line">
-                    <td className="py-1.5">{f.fleetName}</td>
+                    <td className="py-1.5 pr-3">{f.fleetName}</td>
                     <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{formatNumber(f.flights)}</td>
                     <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{formatMass(f.noxAboveKg, u)}</td>
                     <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
@@ -234,8 +234,8 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
               </caption>
               <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
                 <tr>
-                  <th className="py-2">Period</th>
-                  <th className="py-2">State</th>
+                  <th className="py-2 pr-3">Period</th>
+                  <th className="py-2 pr-3">State</th>
                   <th className="py-2 pl-3 text-right">Flights</th>
                   <th className="py-2 pl-3 text-right">NOx above tropopause</th>
                   <th className="py-2 pl-3 text-right">Share above</th>
@@ -246,7 +246,7 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
               <tbody>
                 {view.trend.map((r) => (
                   <tr key={r.ref} className={`border-t border-line ${r.ref === p.ref ? 'font-medium' : ''}`}>
-                    <td className="py-1.5">
+                    <td className="py-1.5 pr-3 whitespace-nowrap">
                       <Link
                         href={`/w/${slug}/periods/${r.ref}`}
                         className="text-accent underline-offset-2 hover:underline"
@@ -254,7 +254,7 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                         {r.name}
                       </Link>
                     </td>
-                    <td className="py-1.5">
+                    <td className="py-1.5 pr-3">
                       <StateBadge state={r.state} />
                     </td>
                     <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
@@ -298,10 +298,10 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                   <caption className="sr-only">Changes after the period was frozen</caption>
                   <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
                     <tr>
-                      <th className="py-2">Change</th>
-                      <th className="py-2">Date</th>
-                      <th className="py-2">Flight</th>
-                      <th className="py-2">Route</th>
+                      <th className="py-2 pr-3">Change</th>
+                      <th className="py-2 pr-3">Date</th>
+                      <th className="py-2 pr-3">Flight</th>
+                      <th className="py-2 pr-3">Route</th>
                       <th className="py-2 pl-3 text-right">NOx above now</th>
                       <th className="py-2 pl-3 text-right">Frozen</th>
                     </tr>
@@ -309,11 +309,11 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                   <tbody>
                     {view.changesAfterFreeze.map((c) => (
                       <tr key={`${c.kind}:${c.flightId}`} className="border-t border-line">
-                        <td className="py-1.5">
+                        <td className="py-1.5 pr-3">
                           {c.kind === 'added' ? 'Imported' : c.kind === 'rescreened' ? 'Screened again' : 'Removed'}
                         </td>
-                        <td className="figure py-1.5">{c.date}</td>
-                        <td className="py-1.5">
+                        <td className="figure py-1.5 pr-3">{c.date}</td>
+                        <td className="py-1.5 pr-3">
                           {c.kind === 'removed' ? (
                             c.flight
                           ) : (
@@ -326,7 +326,7 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                             </Link>
                           )}
                         </td>
-                        <td className="py-1.5">
+                        <td className="py-1.5 pr-3">
                           {c.origin}–{c.destination}
                         </td>
                         <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
@@ -354,11 +354,11 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
               <caption className="sr-only">The flights in the frozen figures</caption>
               <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
                 <tr>
-                  <th className="py-2">Date</th>
-                  <th className="py-2">Flight</th>
-                  <th className="py-2">Route</th>
-                  <th className="py-2">Aircraft</th>
-                  <th className="py-2">Fleet</th>
+                  <th className="py-2 pr-3">Date</th>
+                  <th className="py-2 pr-3">Flight</th>
+                  <th className="py-2 pr-3">Route</th>
+                  <th className="py-2 pr-3">Aircraft</th>
+                  <th className="py-2 pr-3">Fleet</th>
                   <th className="py-2 pl-3 text-right">NOx above tropopause</th>
                   <th className="py-2 pl-3">Engine</th>
                   <th className="py-2 pl-3 text-right">Import</th>
@@ -367,8 +367,8 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
               <tbody>
                 {view.frozenFlights.map((f) => (
                   <tr key={f.flightId} className="border-t border-line">
-                    <td className="figure py-1.5">{f.date}</td>
-                    <td className="py-1.5">
+                    <td className="figure py-1.5 pr-3">{f.date}</td>
+                    <td className="py-1.5 pr-3">
                       <Link
                         prefetch={false}
                         href={`/w/${slug}/flights/${f.flightId}`}
@@ -377,11 +377,11 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
                         {f.flight}
                       </Link>
                     </td>
-                    <td className="py-1.5">
+                    <td className="py-1.5 pr-3">
                       {f.origin}–{f.destination}
                     </td>
-                    <td className="py-1.5">{f.aircraftCode}</td>
-                    <td className="py-1.5">{f.fleetName ?? 'No fleet'}</td>
+                    <td className="py-1.5 pr-3">{f.aircraftCode}</td>
+                    <td className="py-1.5 pr-3">{f.fleetName ?? 'No fleet'}</td>
                     <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{formatMass(f.noxAboveKg, u)}</td>
                     <td className="py-1.5 pl-3 text-xs">{f.engineVersion}</td>
                     <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{f.importId ?? '–'}</td>
