@@ -379,6 +379,20 @@ describe('accessibility and CSP on the main pages', () => {
     await page.getByTestId('month-strip').first().waitFor();
     await screenshot(page, 'screen-preview-390');
     expect(await layoutFindings(page)).toEqual([]);
+    // Each month's share sits on one line under its bar (no "100" above a lone "%").
+    const lines = await page.getByTestId('month-share').evaluateAll((els) =>
+      els.map((el) => {
+        const range = document.createRange();
+        range.selectNodeContents(el);
+        const rects = [...range.getClientRects()].filter((r) => r.width > 0);
+        return new Set(rects.map((r) => Math.round(r.top))).size;
+      }),
+    );
+    expect(lines.length).toBe(12);
+    expect(
+      lines.every((n) => n === 1),
+      `lines per month figure: ${lines.join(', ')}`,
+    ).toBe(true);
     await context.close();
   });
 
