@@ -73,3 +73,12 @@ export function formatDateTime(iso: string | null | undefined): string {
   const d = new Date(iso);
   return Number.isNaN(d.getTime()) ? iso : `${d.toISOString().slice(0, 16).replace('T', ' ')} UTC`;
 }
+
+const SHORT_MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
+
+/** `2026-06` -> `Jun 2026` (a short "26-06" reads as a day of June). Anything else comes back as given. */
+export function formatMonth(yearMonth: string): string {
+  const m = /^(\d{4})-(\d{2})$/.exec(yearMonth);
+  const month = m ? Number(m[2]) : 0;
+  return m && month >= 1 && month <= 12 ? `${SHORT_MONTHS[month - 1]} ${m[1]}` : yearMonth;
+}

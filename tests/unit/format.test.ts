@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { formatMass, formatMassRange } from '@/lib/format';
+import { formatMass, formatMassRange, formatMonth } from '@/lib/format';
 
 describe('formatMassRange', () => {
   it('shows both ends in the unit of the larger one', () => {
@@ -30,5 +30,14 @@ describe('formatMass', () => {
     expect(formatMass(12_345, 'metric')).toBe('12.3 t');
     // 1 lb = 0.45359237 kg exactly (international avoirdupois pound).
     expect(formatMass(0.45359237 * 3, 'imperial')).toBe('3.00 lb');
+  });
+});
+
+describe('formatMonth', () => {
+  it('names the month and keeps the whole year, so it cannot be read as a day', () => {
+    expect(formatMonth('2026-06')).toBe('Jun 2026');
+    expect(formatMonth('2025-12')).toBe('Dec 2025');
+    expect(formatMonth('2026-13')).toBe('2026-13');
+    expect(formatMonth('June')).toBe('June');
   });
 });
