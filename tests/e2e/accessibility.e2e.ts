@@ -396,7 +396,7 @@ describe('accessibility and CSP on the main pages', () => {
     await context.close();
   });
 
-  it('the overview and a period page keep a gap between neighbouring figures at phone and desktop width, and name what a target status is measured against', async () => {
+  it('the overview and a period page keep a gap between neighbouring figures at phone and desktop width and name what a target status is measured against; the flights ozone band reads in one unit', async () => {
     const findings: string[] = [];
     for (const viewport of [
       { width: 390, height: 844 },
@@ -412,6 +412,11 @@ describe('accessibility and CSP on the main pages', () => {
       const statuses = await page.getByTestId('target-view').locator('td:last-child').allTextContents();
       expect(statuses.length, 'the demo quarter has targets').toBeGreaterThan(0);
       for (const s of statuses) expect(s).toMatch(/of target|Target passed|No figure/);
+      // The flights page's ozone band reads in one unit at both ends ("5.2 – 199.2 t", not "5,234 kg–199.2 t").
+      await page.goto('/w/skarn-polar/flights');
+      expect(await page.getByTestId('flights-ozone-range').textContent()).toMatch(
+        /^gross loss; screening range [\d.,]+ – [\d.,]+ (kg|t)$/,
+      );
       await context.close();
     }
     expect(findings).toEqual([]);
