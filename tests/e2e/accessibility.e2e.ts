@@ -379,6 +379,10 @@ describe('accessibility and CSP on the main pages', () => {
     await page.getByTestId('month-strip').first().waitFor();
     await screenshot(page, 'screen-preview-390');
     expect(await layoutFindings(page)).toEqual([]);
+    // The heading of the other levels sits above their controls, not beside the first one.
+    const heading = await page.getByRole('heading', { name: 'Other cruise levels' }).boundingBox();
+    const limit = await page.getByLabel('Fuel-penalty limit (%)').boundingBox();
+    expect(heading!.y + heading!.height).toBeLessThanOrEqual(limit!.y);
     // Each month's share sits on one line under its bar (no "100" above a lone "%").
     const lines = await page.getByTestId('month-share').evaluateAll((els) =>
       els.map((el) => {
