@@ -426,6 +426,18 @@ describe('accessibility and CSP on the main pages', () => {
     expect(findings).toEqual([]);
   });
 
+  it("a read-only member's period page says who takes the period's next step", async () => {
+    const { page, context } = await newPage(browser(), { width: 390, height: 844 });
+    await signIn(page, 'viewer@tropopass.test');
+    await page.goto('/w/velloway-jets/periods/2026-Q4');
+    await page.getByRole('heading', { level: 1 }).first().waitFor();
+    expect(await page.getByTestId('period-next-step').textContent()).toBe(
+      'An owner or a sustainability analyst moves it to review.',
+    );
+    expect(await page.getByRole('button', { name: 'Move to review' }).count()).toBe(0);
+    await context.close();
+  });
+
   it('at 1366 px the preview of a step-climb flight shows every column of Other cruise levels; a step can start at a stop', async () => {
     const { page, context } = await newPage(browser(), { width: 1366, height: 900 });
     await signIn(page, 'planner@tropopass.test');

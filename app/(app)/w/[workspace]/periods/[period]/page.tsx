@@ -15,6 +15,7 @@ import { ScrollRegion } from '@/components/ui/scroll-region';
 import { PeriodActions } from '@/components/periods/period-actions';
 import { StateBadge } from '@/components/periods/state-badge';
 import { TargetsForm } from '@/components/periods/targets-form';
+import { periodNextStepNote } from '@/components/periods/next-step';
 import { reopenPeriodAction, reviewPeriodAction, setPeriodTargetsAction, signPeriodAction } from '../actions';
 
 export const metadata = { title: 'Reporting period' };
@@ -189,6 +190,11 @@ export default async function PeriodPage({ params }: { params: Promise<{ workspa
               }}
               actions={{ review: reviewPeriodAction, sign: signPeriodAction, reopen: reopenPeriodAction }}
             />
+            {periodNextStepNote(p.state, role) ? (
+              <p className="text-sm text-ink-soft" data-testid="period-next-step">
+                {periodNextStepNote(p.state, role)}
+              </p>
+            ) : null}
           </div>
         </Card>
       </div>
