@@ -122,6 +122,26 @@ async function layoutFindings(page: Page): Promise<string[]> {
 /** Scroll regions whose columns must all show at 1366 px. */
 const FIT_AT_DESKTOP = ['Fleet comparison table', 'Other cruise levels', 'Audit log'];
 
+/** Dates (YYYY-MM-DD) broken over two lines ("2027-01-" then "03"). */
+async function brokenDates(page: Page): Promise<string[]> {
+  return page.evaluate(() => {
+    const out: string[] = [];
+    const walker = document.createTreeWalker(document.querySelector('main') ?? document.body, NodeFilter.SHOW_TEXT);
+    for (let node = walker.nextNode(); node; node = walker.nextNode()) {
+      const el = node.parentElement;
+      if (!el || el.offsetParent === null) continue;
+      for (const m of (node.textContent ?? '').matchAll(/\d{4}-\d{2}-\d{2}/g)) {
+        const range = document.createRange();
+        range.setStart(node, m.index);
+        range.setEnd(node, m.index + m[0].length);
+        const tops = new Set([...range.getClientRects()].filter((r) => r.width > 1).map((r) => Math.round(r.top)));
+        if (tops.size > 1) out.push(`${m[0]} is broken over ${tops.size} lines`);
+      }
+    }
+    return [...new Set(out)].slice(0, 6);
+  });
+}
+
 /**
  * Table cells whose text runs into the next cell's ("107.00 t66.70 t"): two neighbouring cells of a
  * row whose text boxes, on the same line, are less than 4 px apart. Headers included.
@@ -436,6 +456,25 @@ describe('accessibility and CSP on the main pages', () => {
     );
     expect(await page.getByRole('button', { name: 'Move to review' }).count()).toBe(0);
     await context.close();
+  });
+
+  it('the portfolio and the billing page keep each date on one line, for a consultant on a phone and a finance admin at desktop width', async () => {
+    const findings: string[] = [];
+    for (const [email, viewport] of [
+      ['consultant@tropopass.test', { width: 390, height: 844 }],
+      ['billing@tropopass.test', { width: 1366, height: 900 }],
+    ] as const) {
+      const { page, context } = await newPage(browser(), viewport);
+      await signIn(page, email);
+      for (const path of ['/workspaces', '/w/skarn-polar/settings/billing']) {
+        await page.goto(path);
+        await page.getByRole('heading', { level: 1 }).first().waitFor();
+        if (path.endsWith('billing')) await page.getByTestId('reconciliation').waitFor();
+        findings.push(...(await brokenDates(page)).map((f) => `${path}, ${email} at ${viewport.width} px: ${f}`));
+      }
+      await context.close();
+    }
+    expect(findings).toEqual([]);
   });
 
   it('at 1366 px the preview of a step-climb flight shows every column of Other cruise levels; a step can start at a stop', async () => {

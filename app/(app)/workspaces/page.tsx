@@ -118,7 +118,8 @@ export default async function WorkspacesPage() {
                           <>
                             <span data-testid="portfolio-billable-units-count">{formatNumber(b.units)}</span>
                             <div className="text-xs text-ink-faint">
-                              {formatDate(b.periodStart)} to {formatDate(b.periodEnd)}
+                              <span className="whitespace-nowrap">{formatDate(b.periodStart)}</span> to{' '}
+                              <span className="whitespace-nowrap">{formatDate(b.periodEnd)}</span>
                             </div>
                           </>
                         ) : (
