@@ -446,7 +446,7 @@ describe('accessibility and CSP on the main pages', () => {
     expect(findings).toEqual([]);
   });
 
-  it("a read-only member's period page says who takes the period's next step", async () => {
+  it("a read-only member's period page says who takes the period's next step; on a phone the periods list shows each state", async () => {
     const { page, context } = await newPage(browser(), { width: 390, height: 844 });
     await signIn(page, 'viewer@tropopass.test');
     await page.goto('/w/velloway-jets/periods/2026-Q4');
@@ -455,6 +455,16 @@ describe('accessibility and CSP on the main pages', () => {
       'An owner or a sustainability analyst moves it to review.',
     );
     expect(await page.getByRole('button', { name: 'Move to review' }).count()).toBe(0);
+    // The periods list shows each period's state on the phone's screen, not behind a sideways scroll.
+    await page.goto('/w/velloway-jets/periods');
+    await page.getByRole('heading', { level: 1 }).first().waitFor();
+    const badges = page.getByTestId('period-state');
+    expect(await badges.count()).toBeGreaterThan(0);
+    for (const box of await badges.evaluateAll((els) =>
+      els.filter((el) => (el as HTMLElement).offsetParent !== null).map((el) => el.getBoundingClientRect().right),
+    ))
+      expect(box).toBeLessThanOrEqual(390);
+    expect(await brokenDates(page)).toEqual([]);
     await context.close();
   });
 
