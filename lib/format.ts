@@ -37,14 +37,18 @@ export function formatAltitude(m: number, units: UnitSystem): string {
   return units === 'imperial' ? `${formatNumber(m / M_PER_FT, 0)} ft` : `${formatNumber(m, 0)} m`;
 }
 
-/** Masses: kg below 10 t, tonnes above; pounds in the imperial preference. */
+/**
+ * Masses: kg below 10 t, tonnes above; pounds in the imperial preference. Small masses get two
+ * decimals; an exact zero (an empty month) gets none, as "0.00 kg" would claim a precision nobody measured.
+ */
 export function formatMass(kg: number, units: UnitSystem, digits?: number): string {
+  const small = (v: number) => (v !== 0 && Math.abs(v) < 10 ? 2 : 0);
   if (units === 'imperial') {
     const lb = kg / KG_PER_LB;
-    return `${formatNumber(lb, digits ?? (lb < 10 ? 2 : 0))} lb`;
+    return `${formatNumber(lb, digits ?? small(lb))} lb`;
   }
   if (Math.abs(kg) >= 10_000) return `${formatNumber(kg / KG_PER_TONNE, digits ?? 1)} t`;
-  return `${formatNumber(kg, digits ?? (Math.abs(kg) < 10 ? 2 : 0))} kg`;
+  return `${formatNumber(kg, digits ?? small(kg))} kg`;
 }
 
 /**
@@ -83,4 +87,13 @@ export function formatDateTime(iso: string | null | undefined): string {
   if (!iso) return '–';
   const d = new Date(iso);
   return Number.isNaN(d.getTime()) ? iso : `${d.toISOString().slice(0, 16).replace('T', ' ')} UTC`;
+}
+
+const SHORT_MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
+
+/** `2026-06` -> `Jun 2026` (a short "26-06" reads as a day of June). Anything else comes back as given. */
+export function formatMonth(yearMonth: string): string {
+  const m = /^(\d{4})-(\d{2})$/.exec(yearMonth);
+  const month = m ? Number(m[2]) : 0;
+  return m && month >= 1 && month <= 12 ? `${SHORT_MONTHS[month - 1]} ${m[1]}` : yearMonth;
 }

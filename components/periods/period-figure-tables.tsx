@@ -18,23 +18,23 @@ export function PeriodFleetsCard({ fleets, units }: { fleets: PeriodFigureSet['f
           <caption className="sr-only">The period&apos;s figures per fleet</caption>
           <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
             <tr>
-              <th className="py-2">Fleet</th>
-              <th className="py-2 text-right">Flights</th>
-              <th className="py-2 text-right">NOx above tropopause</th>
-              <th className="py-2 text-right">Share above</th>
-              <th className="py-2 text-right">Per 1000 km</th>
+              <th className="py-2 pr-3">Fleet</th>
+              <th className="py-2 pl-3 text-right">Flights</th>
+              <th className="py-2 pl-3 text-right">NOx above tropopause</th>
+              <th className="py-2 pl-3 text-right">Share above</th>
+              <th className="py-2 pl-3 text-right">Per 1000 km</th>
             </tr>
           </thead>
           <tbody>
             {fleets.map((f) => (
               <tr key={f.fleetId ?? 'none'} className="border-t border-line">
-                <td className="py-1.5">{f.fleetName}</td>
-                <td className="figure py-1.5 text-right whitespace-nowrap">{formatNumber(f.flights)}</td>
-                <td className="figure py-1.5 text-right whitespace-nowrap">{formatMass(f.noxAboveKg, units)}</td>
-                <td className="figure py-1.5 text-right whitespace-nowrap">
+                <td className="py-1.5 pr-3">{f.fleetName}</td>
+                <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{formatNumber(f.flights)}</td>
+                <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{formatMass(f.noxAboveKg, units)}</td>
+                <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
                   {f.shareAbove === null ? '–' : formatPercent(f.shareAbove, 1)}
                 </td>
-                <td className="figure py-1.5 text-right whitespace-nowrap">{per1000(f, units)}</td>
+                <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{per1000(f, units)}</td>
               </tr>
             ))}
           </tbody>
@@ -75,34 +75,34 @@ export function PeriodTrendCard({ slug, current, trend, units }: TrendProps) {
           </caption>
           <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
             <tr>
-              <th className="py-2">Period</th>
-              <th className="py-2">State</th>
-              <th className="py-2 text-right">Flights</th>
-              <th className="py-2 text-right">NOx above tropopause</th>
-              <th className="py-2 text-right">Share above</th>
-              <th className="py-2 text-right">Per 1000 km</th>
+              <th className="py-2 pr-3">Period</th>
+              <th className="py-2 pr-3">State</th>
+              <th className="py-2 pl-3 text-right">Flights</th>
+              <th className="py-2 pl-3 text-right">NOx above tropopause</th>
+              <th className="py-2 pl-3 text-right">Share above</th>
+              <th className="py-2 pl-3 text-right">Per 1000 km</th>
               <th className="py-2 pl-3">Against workspace targets</th>
             </tr>
           </thead>
           <tbody>
             {trend.map((r) => (
               <tr key={r.ref} className={`border-t border-line ${r.ref === current ? 'font-medium' : ''}`}>
-                <td className="py-1.5">
+                <td className="py-1.5 pr-3 whitespace-nowrap">
                   <Link href={`/w/${slug}/periods/${r.ref}`} className="text-accent underline-offset-2 hover:underline">
                     {r.name}
                   </Link>
                 </td>
-                <td className="py-1.5">
+                <td className="py-1.5 pr-3">
                   <StateBadge state={r.state} />
                 </td>
-                <td className="figure py-1.5 text-right whitespace-nowrap">{formatNumber(r.figures.flights)}</td>
-                <td className="figure py-1.5 text-right whitespace-nowrap">
+                <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{formatNumber(r.figures.flights)}</td>
+                <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
                   {formatMass(r.figures.noxAboveKg, units)}
                 </td>
-                <td className="figure py-1.5 text-right whitespace-nowrap">
+                <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
                   {r.figures.shareAbove === null ? '–' : formatPercent(r.figures.shareAbove, 1)}
                 </td>
-                <td className="figure py-1.5 text-right whitespace-nowrap">{per1000(r.figures, units)}</td>
+                <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{per1000(r.figures, units)}</td>
                 <td className="py-1.5 pl-3 text-xs">{trendTargetsText(r.targets)}</td>
               </tr>
             ))}

@@ -4,8 +4,8 @@ import type { PeriodFigures, TargetStatus } from '@/lib/periods/service';
 
 /** How each target status reads on the period page: in the targets table and in the trend. */
 export const TARGET_STATUS: Record<TargetStatus, { label: string; className: string }> = {
-  'on-track': { label: 'Below 90 %', className: 'text-tropo-strong' },
-  near: { label: '90 % reached', className: 'text-caution font-medium' },
+  'on-track': { label: 'Under 90 % of target', className: 'text-tropo-strong' },
+  near: { label: '90 % of target reached', className: 'text-caution font-medium' },
   over: { label: 'Target passed', className: 'text-danger font-medium' },
   'no-data': { label: 'No figure', className: 'text-ink-faint' },
 };

@@ -36,20 +36,20 @@ export function ChangesAfterSignOffCard({
               <caption className="sr-only">Changes after the period was frozen</caption>
               <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
                 <tr>
-                  <th className="py-2">Change</th>
-                  <th className="py-2">Date</th>
-                  <th className="py-2">Flight</th>
-                  <th className="py-2">Route</th>
-                  <th className="py-2 text-right">NOx above now</th>
-                  <th className="py-2 text-right">Frozen</th>
+                  <th className="py-2 pr-3">Change</th>
+                  <th className="py-2 pr-3">Date</th>
+                  <th className="py-2 pr-3">Flight</th>
+                  <th className="py-2 pr-3">Route</th>
+                  <th className="py-2 pl-3 text-right">NOx above now</th>
+                  <th className="py-2 pl-3 text-right">Frozen</th>
                 </tr>
               </thead>
               <tbody>
                 {changes.map((c) => (
                   <tr key={`${c.kind}:${c.flightId}`} className="border-t border-line">
-                    <td className="py-1.5">{CHANGE_LABELS[c.kind]}</td>
-                    <td className="figure py-1.5">{c.date}</td>
-                    <td className="py-1.5">
+                    <td className="py-1.5 pr-3">{CHANGE_LABELS[c.kind]}</td>
+                    <td className="figure py-1.5 pr-3">{c.date}</td>
+                    <td className="py-1.5 pr-3">
                       {c.kind === 'removed' ? (
                         c.flight
                       ) : (
@@ -62,13 +62,13 @@ export function ChangesAfterSignOffCard({
                         </Link>
                       )}
                     </td>
-                    <td className="py-1.5">
+                    <td className="py-1.5 pr-3">
                       {c.origin}–{c.destination}
                     </td>
-                    <td className="figure py-1.5 text-right whitespace-nowrap">
+                    <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
                       {c.noxAboveKgNow === null ? '–' : formatMass(c.noxAboveKgNow, units)}
                     </td>
-                    <td className="figure py-1.5 text-right whitespace-nowrap">
+                    <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
                       {c.noxAboveKgFrozen === null ? '–' : formatMass(c.noxAboveKgFrozen, units)}
                     </td>
                   </tr>
@@ -102,21 +102,21 @@ export function FrozenFlightsCard({
           <caption className="sr-only">The flights in the frozen figures</caption>
           <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
             <tr>
-              <th className="py-2">Date</th>
-              <th className="py-2">Flight</th>
-              <th className="py-2">Route</th>
-              <th className="py-2">Aircraft</th>
-              <th className="py-2">Fleet</th>
-              <th className="py-2 text-right">NOx above tropopause</th>
+              <th className="py-2 pr-3">Date</th>
+              <th className="py-2 pr-3">Flight</th>
+              <th className="py-2 pr-3">Route</th>
+              <th className="py-2 pr-3">Aircraft</th>
+              <th className="py-2 pr-3">Fleet</th>
+              <th className="py-2 pl-3 text-right">NOx above tropopause</th>
               <th className="py-2 pl-3">Engine</th>
-              <th className="py-2 text-right">Import</th>
+              <th className="py-2 pl-3 text-right">Import</th>
             </tr>
           </thead>
           <tbody>
             {view.frozenFlights.map((f) => (
               <tr key={f.flightId} className="border-t border-line">
-                <td className="figure py-1.5">{f.date}</td>
-                <td className="py-1.5">
+                <td className="figure py-1.5 pr-3">{f.date}</td>
+                <td className="py-1.5 pr-3">
                   <Link
                     prefetch={false}
                     href={`/w/${slug}/flights/${f.flightId}`}
@@ -125,14 +125,14 @@ export function FrozenFlightsCard({
                     {f.flight}
                   </Link>
                 </td>
-                <td className="py-1.5">
+                <td className="py-1.5 pr-3">
                   {f.origin}–{f.destination}
                 </td>
-                <td className="py-1.5">{f.aircraftCode}</td>
-                <td className="py-1.5">{f.fleetName ?? 'No fleet'}</td>
-                <td className="figure py-1.5 text-right whitespace-nowrap">{formatMass(f.noxAboveKg, units)}</td>
+                <td className="py-1.5 pr-3">{f.aircraftCode}</td>
+                <td className="py-1.5 pr-3">{f.fleetName ?? 'No fleet'}</td>
+                <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{formatMass(f.noxAboveKg, units)}</td>
                 <td className="py-1.5 pl-3 text-xs">{f.engineVersion}</td>
-                <td className="figure py-1.5 text-right whitespace-nowrap">{f.importId ?? '–'}</td>
+                <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{f.importId ?? '–'}</td>
               </tr>
             ))}
           </tbody>

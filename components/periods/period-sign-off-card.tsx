@@ -12,10 +12,12 @@ interface Props {
   view: Pick<PeriodView, 'period' | 'snapshot'>;
   can: { review: boolean; sign: boolean; reopen: boolean };
   actions: { review: Action; sign: Action; reopen: Action };
+  /** Who takes the next step, for a member who cannot (components/periods/next-step.ts). */
+  nextStepNote?: string | null;
 }
 
 /** Who froze and signed the period, the hash of its frozen flights, and the review, sign and reopen steps. */
-export function PeriodSignOffCard({ slug, view, can, actions }: Props) {
+export function PeriodSignOffCard({ slug, view, can, actions, nextStepNote }: Props) {
   const p = view.period;
   return (
     <Card title="Review and sign-off">
@@ -49,6 +51,11 @@ export function PeriodSignOffCard({ slug, view, can, actions }: Props) {
           can={can}
           actions={actions}
         />
+        {nextStepNote ? (
+          <p className="mt-3 text-sm text-ink-soft" data-testid="period-next-step">
+            {nextStepNote}
+          </p>
+        ) : null}
       </div>
     </Card>
   );

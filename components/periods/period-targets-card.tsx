@@ -27,22 +27,22 @@ export function PeriodTargetsCard({ slug, period, targets, fleets, frozen, canEd
             <caption className="sr-only">Each target with the period&apos;s figure</caption>
             <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
               <tr>
-                <th className="py-2">Fleet</th>
-                <th className="py-2">Measure</th>
-                <th className="py-2 text-right">Target</th>
-                <th className="py-2 text-right">Figure</th>
-                <th className="py-2 text-right">Of target</th>
+                <th className="py-2 pr-3">Fleet</th>
+                <th className="py-2 pr-3">Measure</th>
+                <th className="py-2 pl-3 text-right">Target</th>
+                <th className="py-2 pl-3 text-right">Figure</th>
+                <th className="py-2 pl-3 text-right">Of target</th>
                 <th className="py-2 pl-3">Status</th>
               </tr>
             </thead>
             <tbody>
               {targets.map((x) => (
                 <tr key={`${x.fleetId}:${x.metric}`} className="border-t border-line" data-testid="target-view">
-                  <td className="py-1.5">{x.fleetName}</td>
-                  <td className="py-1.5">{x.label}</td>
-                  <td className="figure py-1.5 text-right whitespace-nowrap">{metricText(x.target, x.unit)}</td>
-                  <td className="figure py-1.5 text-right whitespace-nowrap">{metricText(x.actual, x.unit)}</td>
-                  <td className="figure py-1.5 text-right whitespace-nowrap">
+                  <td className="py-1.5 pr-3">{x.fleetName}</td>
+                  <td className="py-1.5 pr-3">{x.label}</td>
+                  <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{metricText(x.target, x.unit)}</td>
+                  <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{metricText(x.actual, x.unit)}</td>
+                  <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
                     {x.ratio === null ? '–' : formatPercent(x.ratio, 0)}
                   </td>
                   <td className={`py-1.5 pl-3 ${TARGET_STATUS[x.status].className}`}>

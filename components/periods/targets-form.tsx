@@ -102,17 +102,22 @@ export function TargetsForm({ slug, period, fleets, initial, action }: Props) {
           </SelectInput>
           <div>
             <label className="sr-only" htmlFor={`target-value-${i}`}>
-              Value of target {i + 1}
+              Value of target {i + 1} ({TARGET_METRIC_LABELS[r.metric].unit})
             </label>
-            <TextInput
-              id={`target-value-${i}`}
-              inputMode="decimal"
-              aria-describedby={undefined}
-              className="w-28"
-              value={r.value}
-              invalid={!!errors[`targets.${i}.value`]}
-              onChange={(e) => update(i, { value: e.target.value })}
-            />
+            <div className="flex items-center gap-2">
+              <TextInput
+                id={`target-value-${i}`}
+                inputMode="decimal"
+                aria-describedby={undefined}
+                className="w-28"
+                value={r.value}
+                invalid={!!errors[`targets.${i}.value`]}
+                onChange={(e) => update(i, { value: e.target.value })}
+              />
+              <span className="text-sm text-ink-soft" data-testid="target-unit">
+                {TARGET_METRIC_LABELS[r.metric].unit}
+              </span>
+            </div>
             {errors[`targets.${i}.value`] || errors[`targets.${i}.metric`] || errors[`targets.${i}.fleetId`] ? (
               <p className="mt-1 text-xs text-danger">
                 {errors[`targets.${i}.value`] ?? errors[`targets.${i}.metric`] ?? errors[`targets.${i}.fleetId`]}

@@ -37,3 +37,37 @@ export function cruiseLabel(input: ScreeningInput): string {
   if ('flightLevel' in input.cruise) return `FL${input.cruise.flightLevel}`;
   return input.cruise.steps.map((s) => `FL${s.flightLevel}`).join(' → ');
 }
+
+const MONTH_NAMES = [
+  'January',
+  'February',
+  'March',
+  'April',
+  'May',
+  'June',
+  'July',
+  'August',
+  'September',
+  'October',
+  'November',
+  'December',
+];
+
+/**
+ * Which tropopause the figures used, for a result's header: the flight date, a named month ("January
+ * tropopause", not "month 1"), or the annual mean. A month given beside a date wins in the engine, so
+ * it is named when it differs from the date's month.
+ */
+export function tropopauseMonthLabel(
+  input: Pick<ScreeningInput, 'flightDate' | 'month'>,
+  result: Pick<ScreeningResult, 'month'>,
+  formatDate: (iso: string) => string = (iso) => iso,
+): string {
+  const named = result.month ? `${MONTH_NAMES[result.month - 1]} tropopause` : null;
+  if (input.flightDate) {
+    const dated = `flight date ${formatDate(input.flightDate)}`;
+    const dateMonth = Number(input.flightDate.slice(5, 7));
+    return named && result.month !== dateMonth ? `${dated} · ${named}` : dated;
+  }
+  return named ?? 'annual-mean tropopause';
+}

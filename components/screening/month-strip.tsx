@@ -1,6 +1,6 @@
 import type { MonthRow } from '@/lib/screening';
 import type { UnitSystem } from '@/lib/units';
-import { formatMass, formatPercent, MONTH_NAMES } from '@/lib/format';
+import { formatMass, formatNumber, formatPercent, MONTH_NAMES } from '@/lib/format';
 
 const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
 
@@ -42,8 +42,13 @@ export function MonthStrip({
                   style={{ height: `${h}px` }}
                 />
               </span>
-              <span className="figure mt-1 text-[0.65rem] text-ink-soft" aria-hidden="true">
-                {formatPercent(r.fractionAboveTropopause)}
+              <span
+                className="figure mt-1 whitespace-nowrap text-[0.65rem] text-ink-soft"
+                aria-hidden="true"
+                data-testid="month-share"
+              >
+                {formatNumber(r.fractionAboveTropopause * 100, 0)}
+                <span className="hidden sm:inline"> %</span>
               </span>
               <span className={`text-xs ${planned ? 'font-semibold text-ink' : 'text-ink-soft'}`} aria-hidden="true">
                 {MONTHS[r.month - 1]}
@@ -53,7 +58,7 @@ export function MonthStrip({
         })}
       </ol>
       <p className="text-xs text-ink-soft">
-        Bar: NOx above the tropopause; figure: share of the flight&apos;s NOx above it.{' '}
+        Bar: NOx above the tropopause; figure: share of the flight&apos;s NOx above it, in %.{' '}
         {plannedMonth
           ? `The planned month (${MONTH_NAMES[plannedMonth - 1]}) is outlined.`
           : 'No month or date was given: the figures above use the annual mean.'}

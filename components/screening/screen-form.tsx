@@ -294,7 +294,7 @@ export function ScreenFlightForm({
   const waitingFor = problems.length ? [...new Set(problems.map((p) => p.message))].slice(0, 3) : [];
 
   return (
-    <div className="grid gap-6 xl:grid-cols-[minmax(0,1fr)_minmax(0,1fr)]">
+    <div className="grid grid-cols-1 gap-6 xl:grid-cols-[minmax(0,1fr)_minmax(0,1fr)]">
       <form onSubmit={onSubmit} noValidate className="space-y-5" aria-label="Screen a flight">
         <RouteSection
           slug={slug}

@@ -125,8 +125,8 @@ export function ScreeningPreview({
               </div>
             ) : null}
             <div>
-              <div className="mb-2 flex flex-wrap items-end justify-between gap-3">
-                <h3 className="text-sm font-semibold text-ink">Other cruise levels</h3>
+              <div className="mb-2 flex flex-wrap items-end gap-3">
+                <h3 className="w-full text-sm font-semibold text-ink">Other cruise levels</h3>
                 <Field
                   id="preview-limit"
                   label="Fuel-penalty limit (%)"
@@ -142,7 +142,7 @@ export function ScreeningPreview({
                   />
                 </Field>
                 {onMinimiseChange ? (
-                  <Field id="preview-minimise" label="Mark the least" className="w-52">
+                  <Field id="preview-minimise" label="Mark the least" className="w-60">
                     <SelectInput
                       id="preview-minimise"
                       value={minimise}

@@ -122,6 +122,58 @@ async function layoutFindings(page: Page): Promise<string[]> {
 /** Scroll regions whose columns must all show at 1366 px. */
 const FIT_AT_DESKTOP = ['Fleet comparison table', 'Other cruise levels', 'Audit log'];
 
+/** Dates (YYYY-MM-DD) broken over two lines ("2027-01-" then "03"). */
+async function brokenDates(page: Page): Promise<string[]> {
+  return page.evaluate(() => {
+    const out: string[] = [];
+    const walker = document.createTreeWalker(document.querySelector('main') ?? document.body, NodeFilter.SHOW_TEXT);
+    for (let node = walker.nextNode(); node; node = walker.nextNode()) {
+      const el = node.parentElement;
+      if (!el || el.offsetParent === null) continue;
+      for (const m of (node.textContent ?? '').matchAll(/\d{4}-\d{2}-\d{2}/g)) {
+        const range = document.createRange();
+        range.setStart(node, m.index);
+        range.setEnd(node, m.index + m[0].length);
+        const tops = new Set([...range.getClientRects()].filter((r) => r.width > 1).map((r) => Math.round(r.top)));
+        if (tops.size > 1) out.push(`${m[0]} is broken over ${tops.size} lines`);
+      }
+    }
+    return [...new Set(out)].slice(0, 6);
+  });
+}
+
+/**
+ * Table cells whose text runs into the next cell's ("107.00 t66.70 t"): two neighbouring cells of a
+ * row whose text boxes, on the same line, are less than 4 px apart. Headers included.
+ */
+async function touchingCells(page: Page): Promise<string[]> {
+  return page.evaluate(() => {
+    const out: string[] = [];
+    const textBoxes = (cell: Element) => {
+      const range = document.createRange();
+      range.selectNodeContents(cell);
+      return [...range.getClientRects()].filter((r) => r.width > 1 && r.height > 1);
+    };
+    for (const row of document.querySelectorAll<HTMLTableRowElement>('main tr')) {
+      if (row.offsetParent === null) continue;
+      const cells = [...row.cells];
+      for (let i = 0; i + 1 < cells.length; i++) {
+        const left = textBoxes(cells[i]);
+        const right = textBoxes(cells[i + 1]);
+        for (const a of left)
+          for (const b of right) {
+            const sameLine = a.top < b.bottom - 2 && b.top < a.bottom - 2;
+            if (sameLine && b.left - a.right < 4)
+              out.push(
+                `"${(cells[i].textContent ?? '').trim().slice(0, 24)}" runs into "${(cells[i + 1].textContent ?? '').trim().slice(0, 24)}"`,
+              );
+          }
+      }
+    }
+    return [...new Set(out)].slice(0, 6);
+  });
+}
+
 /**
  * Visits one page; returns its serious findings (accessibility and CSP) so a run lists every page's at
  * once. A page that does not answer 2xx (a 404 included) fails here: every page listed must exist.
@@ -330,6 +382,109 @@ describe('accessibility and CSP on the main pages', () => {
       });
       await context.close();
     }
+  });
+
+  it('on a phone the screen page with a finished preview (charts, month strip, other levels) does not scroll sideways', async () => {
+    const { page, context } = await newPage(browser(), { width: 390, height: 844 });
+    await signIn(page, 'planner@tropopass.test');
+    await page.goto('/w/skarn-polar/screen');
+    await page.getByRole('heading', { level: 1 }).first().waitFor();
+    await page.getByRole('combobox', { name: 'From', exact: true }).fill('EGLL');
+    await page.getByRole('combobox', { name: 'To', exact: true }).fill('PANC');
+    await page.getByLabel('Aircraft type', { exact: true }).selectOption('SK-LR1');
+    await page.getByLabel('Flight level', { exact: true }).fill('370');
+    await page.getByLabel('Cruise fuel burn (kg)').fill('52000');
+    await page.getByTestId('preview-status').filter({ hasText: 'Up to date' }).waitFor({ timeout: 20_000 });
+    await page.getByTestId('what-if-table').first().waitFor();
+    await page.getByTestId('month-strip').first().waitFor();
+    await screenshot(page, 'screen-preview-390');
+    expect(await layoutFindings(page)).toEqual([]);
+    // The heading of the other levels sits above their controls, not beside the first one.
+    const heading = await page.getByRole('heading', { name: 'Other cruise levels' }).boundingBox();
+    const limit = await page.getByLabel('Fuel-penalty limit (%)').boundingBox();
+    expect(heading!.y + heading!.height).toBeLessThanOrEqual(limit!.y);
+    // Each month's share sits on one line under its bar (no "100" above a lone "%").
+    const lines = await page.getByTestId('month-share').evaluateAll((els) =>
+      els.map((el) => {
+        const range = document.createRange();
+        range.selectNodeContents(el);
+        const rects = [...range.getClientRects()].filter((r) => r.width > 0);
+        return new Set(rects.map((r) => Math.round(r.top))).size;
+      }),
+    );
+    expect(lines.length).toBe(12);
+    expect(
+      lines.every((n) => n === 1),
+      `lines per month figure: ${lines.join(', ')}`,
+    ).toBe(true);
+    await context.close();
+  });
+
+  it('the overview and a period page keep a gap between neighbouring figures at phone and desktop width and name what a target status is measured against; the flights ozone band reads in one unit', async () => {
+    const findings: string[] = [];
+    for (const viewport of [
+      { width: 390, height: 844 },
+      { width: 1366, height: 900 },
+    ]) {
+      const { page, context } = await newPage(browser(), viewport);
+      await signIn(page, 'consultant@tropopass.test');
+      for (const path of ['/w/skarn-polar', '/w/skarn-polar/periods/2026-Q4']) {
+        await page.goto(path);
+        await page.getByRole('heading', { level: 1 }).first().waitFor();
+        findings.push(...(await touchingCells(page)).map((f) => `${path} at ${viewport.width} px: ${f}`));
+      }
+      const statuses = await page.getByTestId('target-view').locator('td:last-child').allTextContents();
+      expect(statuses.length, 'the demo quarter has targets').toBeGreaterThan(0);
+      for (const s of statuses) expect(s).toMatch(/of target|Target passed|No figure/);
+      // The flights page's ozone band reads in one unit at both ends ("5.2 – 199.2 t", not "5,234 kg–199.2 t").
+      await page.goto('/w/skarn-polar/flights');
+      expect(await page.getByTestId('flights-ozone-range').textContent()).toMatch(
+        /^gross loss; screening range [\d.,]+ – [\d.,]+ (kg|t)$/,
+      );
+      await context.close();
+    }
+    expect(findings).toEqual([]);
+  });
+
+  it("a read-only member's period page says who takes the period's next step; on a phone the periods list shows each state", async () => {
+    const { page, context } = await newPage(browser(), { width: 390, height: 844 });
+    await signIn(page, 'viewer@tropopass.test');
+    await page.goto('/w/velloway-jets/periods/2026-Q4');
+    await page.getByRole('heading', { level: 1 }).first().waitFor();
+    expect(await page.getByTestId('period-next-step').textContent()).toBe(
+      'An owner or a sustainability analyst moves it to review.',
+    );
+    expect(await page.getByRole('button', { name: 'Move to review' }).count()).toBe(0);
+    // The periods list shows each period's state on the phone's screen, not behind a sideways scroll.
+    await page.goto('/w/velloway-jets/periods');
+    await page.getByRole('heading', { level: 1 }).first().waitFor();
+    const badges = page.getByTestId('period-state');
+    expect(await badges.count()).toBeGreaterThan(0);
+    for (const box of await badges.evaluateAll((els) =>
+      els.filter((el) => (el as HTMLElement).offsetParent !== null).map((el) => el.getBoundingClientRect().right),
+    ))
+      expect(box).toBeLessThanOrEqual(390);
+    expect(await brokenDates(page)).toEqual([]);
+    await context.close();
+  });
+
+  it('the portfolio and the billing page keep each date on one line, for a consultant on a phone and a finance admin at desktop width', async () => {
+    const findings: string[] = [];
+    for (const [email, viewport] of [
+      ['consultant@tropopass.test', { width: 390, height: 844 }],
+      ['billing@tropopass.test', { width: 1366, height: 900 }],
+    ] as const) {
+      const { page, context } = await newPage(browser(), viewport);
+      await signIn(page, email);
+      for (const path of ['/workspaces', '/w/skarn-polar/settings/billing']) {
+        await page.goto(path);
+        await page.getByRole('heading', { level: 1 }).first().waitFor();
+        if (path.endsWith('billing')) await page.getByTestId('reconciliation').waitFor();
+        findings.push(...(await brokenDates(page)).map((f) => `${path}, ${email} at ${viewport.width} px: ${f}`));
+      }
+      await context.close();
+    }
+    expect(findings).toEqual([]);
   });
 
   it('at 1366 px the preview of a step-climb flight shows every column of Other cruise levels; a step can start at a stop', async () => {

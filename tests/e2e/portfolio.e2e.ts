@@ -24,6 +24,12 @@ describe("the consultant's portfolio", () => {
     await card.waitFor();
     expect(await card.getByTestId('client-billing').textContent()).toBe('Active');
     expect(await card.getByTestId('client-trend').locator('tbody tr').count()).toBe(2);
+    // Months read as months ("Nov 2026"), not as a day ("26-11").
+    const months = await card.getByTestId('client-trend').locator('thead th[scope="col"]').allTextContents();
+    expect(
+      months.slice(1).every((m) => /^[A-Z][a-z]{2} \d{4}$/.test(m.trim())),
+      months.join(', '),
+    ).toBe(true);
     await card.getByTestId('client-imports').waitFor();
     await card.getByTestId('client-last-report').waitFor();
     await screenshot(page, 'portfolio-clients');

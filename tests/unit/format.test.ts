@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { formatMass, formatMassRange } from '@/lib/format';
+import { formatMass, formatMassRange, formatMonth } from '@/lib/format';
 
 describe('formatMassRange', () => {
   it('shows both ends in the unit of the larger one', () => {
@@ -18,5 +18,26 @@ describe('formatMassRange', () => {
     expect(formatMassRange(20_000, 30_000, 'metric')).toBe(
       `${formatMass(20_000, 'metric').replace(' t', '')} – ${formatMass(30_000, 'metric')}`,
     );
+  });
+});
+
+describe('formatMass', () => {
+  it('an exact zero (an empty month) shows without decimals; small masses keep two', () => {
+    expect(formatMass(0, 'metric')).toBe('0 kg');
+    expect(formatMass(0, 'imperial')).toBe('0 lb');
+    expect(formatMass(4.5, 'metric')).toBe('4.50 kg');
+    expect(formatMass(0.004, 'metric')).toBe('0.00 kg');
+    expect(formatMass(12_345, 'metric')).toBe('12.3 t');
+    // 1 lb = 0.45359237 kg exactly (international avoirdupois pound).
+    expect(formatMass(0.45359237 * 3, 'imperial')).toBe('3.00 lb');
+  });
+});
+
+describe('formatMonth', () => {
+  it('names the month and keeps the whole year, so it cannot be read as a day', () => {
+    expect(formatMonth('2026-06')).toBe('Jun 2026');
+    expect(formatMonth('2025-12')).toBe('Dec 2025');
+    expect(formatMonth('2026-13')).toBe('2026-13');
+    expect(formatMonth('June')).toBe('June');
   });
 });

@@ -9,7 +9,7 @@ import type { UnitSystem } from '@/db/users';
 import { can, ROLE_LABELS } from '@/lib/auth/policy';
 import { TopBar } from '@/components/shell/top-bar';
 import { Card, EmptyState, PageHeader } from '@/components/ui/card';
-import { formatDate, formatMass, formatNumber, formatPercent } from '@/lib/format';
+import { formatDate, formatMass, formatMonth, formatNumber, formatPercent } from '@/lib/format';
 import { monthBounds } from '@/lib/clock';
 import { COUNT_LABELS } from '@/lib/counts';
 import { getBillableUnits } from '@/lib/billing/usage-summary';
@@ -118,7 +118,8 @@ export default async function WorkspacesPage() {
                           <>
                             <span data-testid="portfolio-billable-units-count">{formatNumber(b.units)}</span>
                             <div className="text-xs text-ink-faint">
-                              {formatDate(b.periodStart)} to {formatDate(b.periodEnd)}
+                              <span className="whitespace-nowrap">{formatDate(b.periodStart)}</span> to{' '}
+                              <span className="whitespace-nowrap">{formatDate(b.periodEnd)}</span>
                             </div>
                           </>
                         ) : (
@@ -225,8 +226,8 @@ function ClientCard({
                     Month (flight date)
                   </th>
                   {status.trend.map((t) => (
-                    <th key={t.month} scope="col" className="py-1 px-1 text-right font-medium">
-                      {t.month.slice(2)}
+                    <th key={t.month} scope="col" className="py-1 px-1 text-right font-medium whitespace-nowrap">
+                      {formatMonth(t.month)}
                     </th>
                   ))}
                 </tr>

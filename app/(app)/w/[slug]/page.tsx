@@ -70,13 +70,13 @@ export default async function OverviewPage({
             <caption className="sr-only">Saved screenings, imported flights screened and their NOx by month</caption>
             <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
               <tr>
-                <th className="py-2">Month</th>
-                <th className="py-2 text-right">{COUNT_LABELS.savedScreenings}</th>
-                <th className="py-2 text-right">{COUNT_LABELS.importedFlightsScreened}</th>
-                <th className="py-2 text-right">NOx emitted</th>
-                <th className="py-2 text-right">NOx above tropopause</th>
-                <th className="py-2 text-right">Share above</th>
-                <th className="py-2 text-right">Ozone-loss figure</th>
+                <th className="py-2 pr-3">Month</th>
+                <th className="py-2 pl-3 text-right">{COUNT_LABELS.savedScreenings}</th>
+                <th className="py-2 pl-3 text-right">{COUNT_LABELS.importedFlightsScreened}</th>
+                <th className="py-2 pl-3 text-right">NOx emitted</th>
+                <th className="py-2 pl-3 text-right">NOx above tropopause</th>
+                <th className="py-2 pl-3 text-right">Share above</th>
+                <th className="py-2 pl-3 text-right">Ozone-loss figure</th>
                 <th className="w-1/4 py-2 pl-4">
                   <span className="sr-only">Bar: NOx emitted, the part above the tropopause darker</span>
                 </th>
@@ -85,15 +85,23 @@ export default async function OverviewPage({
             <tbody>
               {trend.map((t) => (
                 <tr key={t.month} className="border-t border-line">
-                  <td className="py-1.5">{t.month}</td>
-                  <td className="figure py-1.5 text-right">{formatNumber(t.savedScreenings)}</td>
-                  <td className="figure py-1.5 text-right">{formatNumber(t.importedFlightsScreened)}</td>
-                  <td className="figure py-1.5 text-right">{formatMass(t.noxTotalKg, user.units)}</td>
-                  <td className="figure py-1.5 text-right">{formatMass(t.noxAboveKg, user.units)}</td>
-                  <td className="figure py-1.5 text-right">
+                  <td className="py-1.5 whitespace-nowrap">{t.month}</td>
+                  <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{formatNumber(t.savedScreenings)}</td>
+                  <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
+                    {formatNumber(t.importedFlightsScreened)}
+                  </td>
+                  <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
+                    {formatMass(t.noxTotalKg, user.units)}
+                  </td>
+                  <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
+                    {formatMass(t.noxAboveKg, user.units)}
+                  </td>
+                  <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
                     {t.noxTotalKg > 0 ? formatPercent(t.noxAboveKg / t.noxTotalKg, 1) : '–'}
                   </td>
-                  <td className="figure py-1.5 text-right">{formatMass(t.ozoneCentralKg, user.units)}</td>
+                  <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
+                    {formatMass(t.ozoneCentralKg, user.units)}
+                  </td>
                   <td className="py-1.5 pl-4" aria-hidden="true">
                     <div className="h-3 rounded-sm bg-tropo-soft" style={{ width: `${(100 * t.noxTotalKg) / peak}%` }}>
                       <div

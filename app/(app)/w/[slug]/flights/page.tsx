@@ -5,7 +5,7 @@ import { requireMember } from '@/lib/auth/guards';
 import { can } from '@/lib/auth/policy';
 import { listFlightFilterOptions, listFlights, summariseFlights, type FlightFilters } from '@/db/flights';
 import { flightListQuerySchema } from '@/lib/validation/imports';
-import { formatDistance, formatMass, formatNumber, formatPercent } from '@/lib/format';
+import { formatDistance, formatMass, formatMassRange, formatNumber, formatPercent } from '@/lib/format';
 import { Card, EmptyState, PageHeader, Stat } from '@/components/ui/card';
 import { ButtonLink } from '@/components/ui/button';
 import { Field, SelectInput, TextInput } from '@/components/ui/field';
@@ -207,7 +207,11 @@ export default async function FlightsPage({
             <Stat
               label="Ozone figure"
               value={formatMass(totals.ozoneCentralKg, units)}
-              sub={`range ${formatMass(totals.ozoneLowKg, units)}–${formatMass(totals.ozoneHighKg, units)}`}
+              sub={
+                <span data-testid="flights-ozone-range">
+                  gross loss; screening range {formatMassRange(totals.ozoneLowKg, totals.ozoneHighKg, units)}
+                </span>
+              }
             />
           </div>
           <div className="mb-6">

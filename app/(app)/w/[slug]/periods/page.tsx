@@ -25,8 +25,8 @@ function PeriodRows({ slug, periods }: { slug: string; periods: PeriodInfo[] }) 
               {p.name}
             </Link>
           </td>
-          <td className="figure px-2 py-1.5 whitespace-nowrap text-ink-soft">
-            {p.from} to {p.to}
+          <td className="figure px-2 py-1.5 text-ink-soft">
+            <span className="whitespace-nowrap">{p.from}</span> to <span className="whitespace-nowrap">{p.to}</span>
           </td>
           <td className="px-2 py-1.5">
             <StateBadge state={p.state} />
@@ -78,7 +78,7 @@ export default async function PeriodsPage({ params }: { params: Promise<{ slug: 
       <Card title={`Custom periods (${list.custom.length})`} className="mb-6">
         {list.custom.length ? (
           <div className="overflow-x-auto">
-            <table className="w-full min-w-[640px] text-sm">
+            <table className="w-full text-sm">
               <Head />
               <PeriodRows slug={slug} periods={list.custom} />
             </table>
@@ -99,7 +99,7 @@ export default async function PeriodsPage({ params }: { params: Promise<{ slug: 
       {list.years.map((y) => (
         <Card key={y.year} title={String(y.year)} className="mb-6">
           <div className="overflow-x-auto">
-            <table className="w-full min-w-[640px] text-sm">
+            <table className="w-full text-sm">
               <caption className="sr-only">Year, quarters of {y.year}</caption>
               <Head />
               <PeriodRows slug={slug} periods={y.periods.filter((p) => p.kind !== 'month')} />
@@ -108,7 +108,7 @@ export default async function PeriodsPage({ params }: { params: Promise<{ slug: 
           <details className="mt-3">
             <summary className="cursor-pointer text-sm text-accent">Months of {y.year}</summary>
             <div className="mt-2 overflow-x-auto">
-              <table className="w-full min-w-[640px] text-sm">
+              <table className="w-full text-sm">
                 <caption className="sr-only">Months of {y.year}</caption>
                 <Head />
                 <PeriodRows slug={slug} periods={y.periods.filter((p) => p.kind === 'month')} />

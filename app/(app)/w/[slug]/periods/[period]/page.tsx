@@ -12,6 +12,7 @@ import { Notice, ScreeningCaution } from '@/components/ui/notice';
 import { per1000 } from '@/components/periods/period-figures';
 import { PeriodFleetsCard, PeriodTrendCard } from '@/components/periods/period-figure-tables';
 import { ChangesAfterSignOffCard, FrozenFlightsCard } from '@/components/periods/period-frozen-cards';
+import { periodNextStepNote } from '@/components/periods/next-step';
 import { PeriodSignOffCard } from '@/components/periods/period-sign-off-card';
 import { PeriodTargetsCard } from '@/components/periods/period-targets-card';
 import { StateBadge } from '@/components/periods/state-badge';
@@ -82,7 +83,7 @@ export default async function PeriodPage({ params }: { params: Promise<{ slug: s
         <Stat label="NOx above per 1000 km" value={per1000(t, u)} />
       </div>
 
-      <div className="mt-6 grid gap-6 lg:grid-cols-2">
+      <div className="mt-6 grid grid-cols-1 gap-6 *:min-w-0 lg:grid-cols-2">
         <PeriodTargetsCard
           slug={slug}
           period={p.ref}
@@ -101,6 +102,7 @@ export default async function PeriodPage({ params }: { params: Promise<{ slug: s
             reopen: can(role, 'periods:reopen'),
           }}
           actions={{ review: reviewPeriodAction, sign: signPeriodAction, reopen: reopenPeriodAction }}
+          nextStepNote={periodNextStepNote(p.state, role)}
         />
       </div>
 

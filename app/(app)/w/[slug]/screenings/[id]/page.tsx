@@ -27,7 +27,7 @@ import { WhatIfTable } from '@/components/screening/what-if-table';
 import { SegmentTable } from '@/components/screening/segment-table';
 import { AssumptionsList } from '@/components/screening/assumptions-list';
 import { profileSeries } from '@/components/screening/profile-series';
-import { cruiseLabel, mapPointsFor } from '@/components/screening/describe';
+import { cruiseLabel, mapPointsFor, tropopauseMonthLabel } from '@/components/screening/describe';
 import { VerticalProfileChart } from '@/components/charts/vertical-profile-chart';
 import { RouteMap } from '@/components/maps/route-map';
 import { CardSkeleton } from '@/components/screening/skeletons';
@@ -111,11 +111,7 @@ export default async function ScreeningResultPage({
     label,
     record.aircraftCode ? `aircraft ${record.aircraftCode}` : null,
     cruiseLabel(input),
-    input.flightDate
-      ? `flight date ${formatDate(input.flightDate)}`
-      : result.month
-        ? `month ${result.month}`
-        : 'annual-mean tropopause',
+    tropopauseMonthLabel(input, result, formatDate),
     `saved ${formatDateTime(record.createdAt)}`,
   ].filter(Boolean);
 

@@ -50,9 +50,9 @@ function Reconciliation({ usage }: { usage: UsageSummary }) {
       <p className={`font-medium ${tone}`}>{verdict}</p>
       <p className="figure mt-0.5 text-xs text-ink-faint">
         Ledger {formatNumber(rec.ledgerUnits)} · payment service {formatNumber(rec.providerUnits)} · counted over{' '}
-        {minutesWindow(rec.windowStart, rec.windowEnd)}
+        <span className="whitespace-nowrap">{minutesWindow(rec.windowStart, rec.windowEnd)}</span>
         {Date.parse(rec.windowStart) < Date.parse(usage.periodStart) ? ', from the minute the period began in' : ''} ·
-        checked {formatDateTime(rec.checkedAt)}
+        checked <span className="whitespace-nowrap">{formatDateTime(rec.checkedAt)}</span>
         {usage.providerReachable ? '' : ' (the payment service did not answer just now)'}
       </p>
     </div>
