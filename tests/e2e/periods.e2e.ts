@@ -58,8 +58,6 @@ describe('reporting periods: an analyst prepares a quarter, an owner signs it, a
     await owner.page.getByLabel('Role', { exact: true }).selectOption('viewer');
     await owner.page.getByRole('button', { name: 'Send invitation' }).click();
     await owner.page.getByRole('status').filter({ hasText: 'Invitation sent' }).waitFor();
-    expect(owner.errors).toEqual([]);
-    await owner.context.close();
 
     // The viewer accepts and downloads the audit pack of the signed quarter.
     const invite = (await mailTo('viewer@tropopass.test')).find((m) => /invited to/.test(m.subject));
@@ -95,5 +93,14 @@ describe('reporting periods: an analyst prepares a quarter, an owner signs it, a
     await screenshot(viewer.page, 'periods-viewer');
     expect(viewer.errors).toEqual([]);
     await viewer.context.close();
+
+    // The audit done, the owner takes the read-only access back (the demo viewer keeps one workspace).
+    await owner.page.goto(`/w/${SLUG}/settings/members`);
+    const row = owner.page.getByRole('row').filter({ hasText: 'viewer@tropopass.test' });
+    owner.page.once('dialog', (d) => void d.accept());
+    await row.getByRole('button', { name: 'Remove' }).click();
+    await row.waitFor({ state: 'detached' });
+    expect(owner.errors).toEqual([]);
+    await owner.context.close();
   });
 });
