@@ -1,4 +1,5 @@
 import 'server-only';
+import type { Knex } from 'knex';
 import { db, insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
 import { notFound } from '@/lib/errors';
@@ -22,14 +23,32 @@ export interface ReportRecord extends ReportListItem {
   summary: ReportSummary;
 }
 
+/**
+ * One report e-mail: queued in the request, then sent (or failed) by the `report.send` job.
+ * `queuedAt` is when it was asked for; `sentAt` when the mail server accepted it (null until then);
+ * `failedAt` when it was given up (null unless failed); `attempts` counts the mail server attempts.
+ */
 export interface ReportSendDto {
   id: number;
   recipients: string[];
   sentBy: string | null;
-  status: 'sent' | 'failed';
+  status: 'queued' | 'sent' | 'failed';
   messageId: string | null;
   error: string | null;
-  sentAt: string;
+  attempts: number;
+  queuedAt: string;
+  sentAt: string | null;
+  failedAt: string | null;
+}
+
+/** What the `report.send` job reads of a send. */
+export interface ReportSendJobRow {
+  id: number;
+  reportId: number;
+  recipients: string[];
+  status: 'queued' | 'sent' | 'failed';
+  sendKey: string | null;
+  attempts: number;
 }
 
 type Row = Record<string, unknown>;
@@ -159,31 +178,36 @@ export async function getReportCsv(scope: { workspaceId: number }, id: number): 
   return { name: String(row.name), csv: String(row.csv) };
 }
 
-export async function recordReportSend(
+/** The sends of reports in this workspace (a send of another workspace's report is not found). */
+function sendsOf(k: Knex | Knex.Transaction, workspaceId: number) {
+  return k('report_sends').whereIn('report_id', k('reports').where({ workspace_id: workspaceId }).select('id'));
+}
+
+/**
+ * Records a report e-mail as queued, with its per-send key (the job's Message-ID), in one transaction
+ * with its audit entry; the `report.send` job then sends it.
+ */
+export async function queueReportSend(
   scope: { workspaceId: number },
-  input: {
-    reportId: number;
-    recipients: string[];
-    sentBy: number | null;
-    status: 'sent' | 'failed';
-    messageId: string | null;
-    error: string | null;
-    actor: string;
-  },
+  input: { reportId: number; recipients: string[]; sentBy: number | null; sendKey: string; actor: string },
 ): Promise<ReportSendDto> {
   const id = await writeTx(async (trx) => {
-    const report = await trx('reports').where({ workspace_id: scope.workspaceId, id: input.reportId }).first();
+    const report = await trx('reports').where({ workspace_id: scope.workspaceId, id: input.reportId }).first('id');
     if (!report) throw notFound('No report with that id in this workspace.');
+    const now = nowIso();
     const newId = await insertId(
       trx('report_sends')
         .insert({
           report_id: input.reportId,
           recipients: JSON.stringify(input.recipients),
           sent_by: input.sentBy,
-          status: input.status,
-          message_id: input.messageId,
-          error: input.error ? input.error.slice(0, 500) : null,
-          sent_at: nowIso(),
+          status: 'queued',
+          message_id: null,
+          error: null,
+          send_key: input.sendKey,
+          attempts: 0,
+          queued_at: now,
+          sent_at: now,
         })
         .returning('id'),
     );
@@ -192,18 +216,102 @@ export async function recordReportSend(
         workspaceId: scope.workspaceId,
         userId: input.sentBy,
         actor: input.actor,
-        action: input.status === 'sent' ? 'report.send' : 'report.send_failed',
+        action: 'report.send_queued',
         target: `report:${input.reportId}`,
-        detail: { recipients: input.recipients.length },
+        detail: { recipients: input.recipients.length, send: newId },
       },
       trx,
     );
     return newId;
   });
-  const sends = await listReportSends(scope, input.reportId);
-  const found = sends.find((s) => s.id === id);
+  const found = (await listReportSends(scope, input.reportId)).find((s) => s.id === id);
   if (!found) throw notFound();
   return found;
+}
+
+export async function getReportSendForJob(
+  scope: { workspaceId: number },
+  sendId: number,
+): Promise<ReportSendJobRow | null> {
+  const r = (await sendsOf(db(), scope.workspaceId).where({ id: sendId }).first()) as Row | undefined;
+  if (!r) return null;
+  const status = String(r.status);
+  return {
+    id: Number(r.id),
+    reportId: Number(r.report_id),
+    recipients: JSON.parse(String(r.recipients)) as string[],
+    status: status === 'sent' || status === 'failed' ? status : 'queued',
+    sendKey: (r.send_key as string | null) ?? null,
+    attempts: Number(r.attempts ?? 0),
+  };
+}
+
+/**
+ * Counts a mail server attempt before it is made; false when the send is no longer queued (sent or
+ * given up by an earlier run, or deleted with its report): then nothing may be sent.
+ */
+export async function markReportSendAttempt(scope: { workspaceId: number }, sendId: number): Promise<boolean> {
+  const n = await sendsOf(db(), scope.workspaceId)
+    .where({ id: sendId, status: 'queued' })
+    .update({ attempts: db().raw('attempts + 1') });
+  return Number(n) > 0;
+}
+
+/** Notes why the latest attempt failed while the send stays queued for its next attempt. */
+export async function noteReportSendRetry(
+  scope: { workspaceId: number },
+  sendId: number,
+  error: string,
+): Promise<void> {
+  await sendsOf(db(), scope.workspaceId)
+    .where({ id: sendId, status: 'queued' })
+    .update({ error: error.slice(0, 500) });
+}
+
+/**
+ * Records a queued send's outcome (sent with its Message-ID, or failed with a reason) with its audit
+ * entry, once: a send no longer queued is left as it is (false).
+ */
+export async function finishReportSend(
+  scope: { workspaceId: number },
+  sendId: number,
+  outcome: { status: 'sent'; messageId: string } | { status: 'failed'; error: string },
+  audit: { userId: number | null; actor: string },
+): Promise<boolean> {
+  return writeTx(async (trx) => {
+    const row = (await sendsOf(trx, scope.workspaceId)
+      .where({ id: sendId, status: 'queued' })
+      .first('id', 'report_id', 'recipients')) as Row | undefined;
+    if (!row) return false;
+    await trx('report_sends')
+      .where({ id: sendId })
+      .update({
+        status: outcome.status,
+        message_id: outcome.status === 'sent' ? outcome.messageId : null,
+        error: outcome.status === 'failed' ? outcome.error.slice(0, 500) : null,
+        sent_at: nowIso(),
+      });
+    await createAuditEntry(
+      {
+        workspaceId: scope.workspaceId,
+        userId: audit.userId,
+        actor: audit.actor,
+        action: outcome.status === 'sent' ? 'report.send' : 'report.send_failed',
+        target: `report:${String(row.report_id)}`,
+        detail: { recipients: (JSON.parse(String(row.recipients)) as string[]).length, send: sendId },
+      },
+      trx,
+    );
+    return true;
+  });
+}
+
+/** Queues a failed send again (an owner's retry of its dead letter); false when it is not failed. */
+export async function reopenReportSend(scope: { workspaceId: number }, sendId: number): Promise<boolean> {
+  const n = await sendsOf(db(), scope.workspaceId)
+    .where({ id: sendId, status: 'failed' })
+    .update({ status: 'queued', error: null });
+  return Number(n) > 0;
 }
 
 /** Deletes a stored report with its files and e-mail history; the audit log keeps that it existed. */
@@ -240,13 +348,21 @@ export async function listReportSends(scope: { workspaceId: number }, reportId: 
     .where({ 'r.workspace_id': scope.workspaceId, 's.report_id': reportId })
     .orderBy('s.id', 'desc')
     .select('s.*', 'u.name as sent_by_name', 'u.email as sent_by_email')) as Row[];
-  return rows.map((r) => ({
-    id: Number(r.id),
-    recipients: JSON.parse(String(r.recipients)) as string[],
-    sentBy: (r.sent_by_name as string | null) || (r.sent_by_email as string | null) || null,
-    status: r.status === 'sent' ? 'sent' : 'failed',
-    messageId: (r.message_id as string | null) ?? null,
-    error: (r.error as string | null) ?? null,
-    sentAt: String(r.sent_at),
-  }));
+  return rows.map((r) => {
+    const status = r.status === 'sent' || r.status === 'queued' ? r.status : 'failed';
+    const at = String(r.sent_at);
+    return {
+      id: Number(r.id),
+      recipients: JSON.parse(String(r.recipients)) as string[],
+      sentBy: (r.sent_by_name as string | null) || (r.sent_by_email as string | null) || null,
+      status,
+      messageId: (r.message_id as string | null) ?? null,
+      error: (r.error as string | null) ?? null,
+      attempts: Number(r.attempts ?? 0),
+      // Sends recorded before they were jobs have no queued_at: they were asked for when attempted.
+      queuedAt: (r.queued_at as string | null) ?? at,
+      sentAt: status === 'sent' ? at : null,
+      failedAt: status === 'failed' ? at : null,
+    };
+  });
 }

@@ -622,7 +622,8 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   },
   '/workspaces/{slug}/reports/{id}': {
     get: {
-      summary: 'One report with its summary and e-mail send history',
+      summary:
+        'One report with its summary and e-mail send history (sendHistory: { id, recipients, sentBy, status: queued | sent | failed, messageId, error, attempts, queuedAt, sentAt, failedAt })',
       permission: 'flights:read',
       responses: {
         '200':
@@ -652,13 +653,14 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
   },
   '/workspaces/{slug}/reports/{id}/send': {
     post: {
-      summary: 'E-mail the report PDF to up to 20 recipients; every attempt is recorded',
+      summary:
+        "Queue an e-mail of the report PDF to up to 20 recipients; a background job sends it (retried with back-off) and the report's sendHistory shows it queued, then sent or failed",
       permission: 'reports:send',
       requestBody: reportSendSchema,
       responses: {
-        '201': '{ id, recipients, status, messageId, sentAt }',
-        '429': 'Too many report e-mails from this workspace in the last hour',
-        '503': 'The mail server refused; the attempt is recorded',
+        '202': "{ id, recipients, status: 'queued' }",
+        '429': 'Too many report e-mails from this workspace in the last hour; nothing is queued',
+        '503': 'The e-mail could not be queued; nothing is sent',
       },
     },
   },

@@ -25,6 +25,14 @@ export interface OutgoingMail {
   text: string;
   html?: string;
   attachments?: { filename: string; content: Buffer; contentType: string }[];
+  /** The Message-ID header, e.g. `<key@host>` (a resend of the same message keeps it); made up when absent. */
+  messageId?: string;
+}
+
+/** A Message-ID for a key: `<key@domain of MAIL_FROM>`. */
+export function messageIdFor(key: string): string {
+  const domain = /@([A-Za-z0-9.-]+)>?\s*$/.exec(env().MAIL_FROM)?.[1] ?? 'tropopass.invalid';
+  return `<${key}@${domain}>`;
 }
 
 /** Sends one message over SMTP; returns the message id. */

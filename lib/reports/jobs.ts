@@ -1,18 +1,147 @@
 import 'server-only';
-import { getReport, getReportPdf, recordReportSend } from '@/db/reports';
+import { randomUUID } from 'node:crypto';
+import {
+  finishReportSend,
+  getReport,
+  getReportPdf,
+  getReportSendForJob,
+  markReportSendAttempt,
+  noteReportSendRetry,
+  queueReportSend,
+  reopenReportSend,
+  type ReportSendDto,
+} from '@/db/reports';
 import { AppError } from '@/lib/errors';
 import { defineJob, enqueue } from '@/lib/jobs';
 import { log } from '@/lib/log';
-import { sendMail } from '@/lib/mail/mailer';
+import { messageIdFor, sendMail } from '@/lib/mail/mailer';
 
 /**
- * A report e-mail the mail server refused while the sender waited (send.ts answers 503 and records
- * the failed attempt) is delivered again as a job: retried with back-off (30 s, 1 min, 2 min, 4 min),
- * each success recorded as a sent attempt; a delivery that still fails is a dead letter in the
- * owners' Background jobs. Delivery is at least once: a worker that dies between the mail server's
- * acceptance and the record may send it again.
+ * Every report e-mail is a `report.send` job. The request records the send as queued with a per-send
+ * key and queues the job; the job sends the e-mail through the mail module with that key as its
+ * Message-ID and records the outcome. Retries with back-off (30 s, 1 min, 2 min, 4 min); a send that
+ * still fails is recorded as failed and is a dead letter in the owners' Background jobs, whose retry
+ * queues it again.
+ *
+ * Idempotency: a run first checks that the send is still queued (a replay after the sent record
+ * sends nothing) and counts the attempt before the mail server is asked. A worker that dies between
+ * the mail server's acceptance and the record leaves the send queued: its replay sends the e-mail
+ * again, with the same Message-ID, so that one case remains at least once.
  */
-export interface ReportRedelivery {
+export interface ReportSendJob {
+  workspaceId: number;
+  reportId: number;
+  sendId: number;
+  note?: string;
+  senderName: string;
+  sentBy: number | null;
+  actor: string;
+}
+
+export const REPORT_SEND_JOB = 'report.send';
+
+const REFUSED = 'The mail server did not accept the report e-mail.';
+
+async function deliver(p: ReportSendJob): Promise<'done'> {
+  const scope = { workspaceId: p.workspaceId };
+  const send = await getReportSendForJob(scope, p.sendId);
+  // Deleted with its report, or already sent or given up by an earlier run: nothing to do.
+  if (!send || send.status !== 'queued') return 'done';
+  let report;
+  let file;
+  try {
+    [report, file] = await Promise.all([getReport(scope, send.reportId), getReportPdf(scope, send.reportId)]);
+  } catch (err) {
+    if (err instanceof AppError && err.code === 'not_found') return 'done';
+    throw err;
+  }
+  if (!(await markReportSendAttempt(scope, send.id))) return 'done';
+  const { reportMail } = await import('./send');
+  const mail = reportMail(send.recipients, report.summary, { senderName: p.senderName, note: p.note, pdf: file.pdf });
+  let messageId: string;
+  try {
+    messageId = await sendMail({ ...mail, messageId: messageIdFor(send.sendKey ?? `report-send-${send.id}`) });
+  } catch (err) {
+    log.warn({ err, event: 'report.send_refused', reportId: send.reportId, sendId: send.id }, 'report e-mail refused');
+    await noteReportSendRetry(scope, send.id, `${REFUSED} Trying again shortly.`);
+    throw new AppError('unavailable', REFUSED);
+  }
+  await finishReportSend(scope, send.id, { status: 'sent', messageId }, { userId: p.sentBy, actor: p.actor });
+  return 'done';
+}
+
+defineJob<ReportSendJob>(REPORT_SEND_JOB, deliver, {
+  group: 'mail',
+  maxAttempts: 5,
+  retryDelaySeconds: 30,
+  expireInSeconds: 120,
+  workspaceOf: (p) => p.workspaceId,
+  singletonKeyOf: (p) => `report-send:${p.sendId}`,
+  describe: (p) => `E-mail of report #${p.reportId} (send #${p.sendId})`,
+  onDeadLetter: async (p, reason) => {
+    await finishReportSend(
+      { workspaceId: p.workspaceId },
+      p.sendId,
+      { status: 'failed', error: `${reason} An owner can retry it under Background jobs.` },
+      { userId: p.sentBy, actor: p.actor },
+    );
+  },
+  beforeRetry: async (p) => {
+    await reopenReportSend({ workspaceId: p.workspaceId }, p.sendId);
+  },
+});
+
+/**
+ * Records the send as queued and queues its job. When the queue refuses, the send is recorded as
+ * failed and the caller gets 503 (nothing was sent).
+ */
+export async function queueReportSendJob(
+  scope: { workspaceId: number },
+  input: {
+    reportId: number;
+    recipients: string[];
+    note?: string;
+    sentBy: number | null;
+    senderName: string;
+    actor: string;
+  },
+): Promise<ReportSendDto> {
+  const send = await queueReportSend(scope, {
+    reportId: input.reportId,
+    recipients: input.recipients,
+    sentBy: input.sentBy,
+    sendKey: `report-send-${randomUUID()}`,
+    actor: input.actor,
+  });
+  const job: ReportSendJob = {
+    workspaceId: scope.workspaceId,
+    reportId: input.reportId,
+    sendId: send.id,
+    ...(input.note ? { note: input.note } : {}),
+    senderName: input.senderName,
+    sentBy: input.sentBy,
+    actor: input.actor,
+  };
+  try {
+    await enqueue(REPORT_SEND_JOB, job, { singletonKey: `report-send:${send.id}` });
+  } catch (err) {
+    log.error({ err, event: 'report.send_enqueue_failed', sendId: send.id }, 'could not queue a report e-mail');
+    await finishReportSend(
+      scope,
+      send.id,
+      { status: 'failed', error: 'The e-mail could not be queued; nothing was sent.' },
+      { userId: input.sentBy, actor: input.actor },
+    );
+    throw new AppError('unavailable', 'The report e-mail could not be queued; nothing was sent. Try again shortly.');
+  }
+  return send;
+}
+
+/**
+ * `report.redeliver`, the job an earlier release queued for a refused first attempt: kept so such
+ * jobs (and their dead letters) still run. It records a new queued send and queues `report.send`.
+ */
+interface LegacyRedelivery {
   workspaceId: number;
   reportId: number;
   recipients: string[];
@@ -22,61 +151,26 @@ export interface ReportRedelivery {
   actor: string;
 }
 
-export const REPORT_REDELIVERY_JOB = 'report.redeliver';
+export const LEGACY_REPORT_REDELIVERY_JOB = 'report.redeliver';
 
-defineJob<ReportRedelivery>(
-  REPORT_REDELIVERY_JOB,
+defineJob<LegacyRedelivery>(
+  LEGACY_REPORT_REDELIVERY_JOB,
   async (p) => {
-    const scope = { workspaceId: p.workspaceId };
-    let report;
-    let file;
     try {
-      [report, file] = await Promise.all([getReport(scope, p.reportId), getReportPdf(scope, p.reportId)]);
+      await queueReportSendJob({ workspaceId: p.workspaceId }, p);
     } catch (err) {
       // The report was deleted since: nothing left to deliver.
       if (err instanceof AppError && err.code === 'not_found') return 'done';
       throw err;
     }
-    const { reportMail } = await import('./send');
-    let messageId: string;
-    try {
-      messageId = await sendMail(
-        reportMail(p.recipients, report.summary, { senderName: p.senderName, note: p.note, pdf: file.pdf }),
-      );
-    } catch (err) {
-      log.warn({ err, event: 'report.redelivery_failed', reportId: p.reportId }, 'report e-mail refused again');
-      throw new AppError('unavailable', 'The mail server did not accept the report e-mail.');
-    }
-    await recordReportSend(scope, {
-      reportId: p.reportId,
-      recipients: p.recipients,
-      sentBy: p.sentBy,
-      status: 'sent',
-      messageId,
-      error: null,
-      actor: p.actor,
-    });
     return 'done';
   },
   {
     group: 'mail',
     maxAttempts: 5,
     retryDelaySeconds: 30,
-    expireInSeconds: 120,
     workspaceOf: (p) => p.workspaceId,
     describe: (p) =>
       `E-mail of report #${p.reportId} to ${p.recipients.length} recipient${p.recipients.length === 1 ? '' : 's'}`,
   },
 );
-
-/** Queues the redelivery; a failure to queue is logged (the failed attempt is recorded either way). */
-export async function queueReportRedelivery(p: ReportRedelivery): Promise<void> {
-  try {
-    await enqueue(REPORT_REDELIVERY_JOB, p);
-  } catch (err) {
-    log.warn(
-      { err, event: 'report.redelivery_enqueue_failed', reportId: p.reportId },
-      'could not queue the redelivery',
-    );
-  }
-}

@@ -1,14 +1,12 @@
 import 'server-only';
-import { getReport, getReportPdf, recordReportSend, type ReportSendDto } from '@/db/reports';
-import { sendMail, type OutgoingMail } from '@/lib/mail/mailer';
+import { getReport } from '@/db/reports';
+import type { OutgoingMail } from '@/lib/mail/mailer';
 import { formatMass, formatMassRange, formatNumber, formatPercent } from '@/lib/format';
-import { AppError } from '@/lib/errors';
-import { log } from '@/lib/log';
 import { limitReportSend } from '@/lib/auth/throttle';
 import type { ReportSummary } from './model';
 import { fileStem } from './text';
 import { COUNT_LABELS } from '@/lib/counts';
-import { queueReportRedelivery } from './jobs';
+import { queueReportSendJob } from './jobs';
 
 const esc = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
 
@@ -37,10 +35,18 @@ export function reportMail(
   };
 }
 
+/** What the send request answers (202): the send is queued; its history entry shows the outcome. */
+export interface QueuedReportSend {
+  id: number;
+  recipients: string[];
+  status: 'queued';
+}
+
 /**
- * E-mails a stored report with its PDF to the recipients and records the attempt (sent or failed).
- * A mail-server failure is recorded and comes back as 503 with a plain message. Sends are limited
- * per workspace (`RATE_LIMIT_REPORT_SENDS_PER_HOUR`): beyond it, 429 and nothing is sent.
+ * Queues a report e-mail: the report must exist (404), sends are limited per workspace
+ * (`RATE_LIMIT_REPORT_SENDS_PER_HOUR`: beyond it, 429 and nothing is queued), then the send is
+ * recorded as queued with a per-send key and the `report.send` job (lib/reports/jobs.ts) sends it,
+ * with retries. When the job cannot be queued the send is recorded as failed and the caller gets 503.
  */
 export async function sendReport(
   scope: { workspaceId: number },
@@ -52,46 +58,9 @@ export async function sendReport(
     senderName: string;
     actor: string;
   },
-): Promise<ReportSendDto> {
-  const [report, file] = await Promise.all([getReport(scope, input.reportId), getReportPdf(scope, input.reportId)]);
+): Promise<QueuedReportSend> {
+  await getReport(scope, input.reportId);
   await limitReportSend(scope.workspaceId);
-  const mail = reportMail(input.recipients, report.summary, {
-    senderName: input.senderName,
-    note: input.note,
-    pdf: file.pdf,
-  });
-  let messageId: string | null = null;
-  let failure: string | null = null;
-  try {
-    messageId = await sendMail(mail);
-  } catch (err) {
-    failure = err instanceof Error ? err.message : String(err);
-    log.warn({ event: 'report.send_failed', reportId: input.reportId, err: failure }, 'report e-mail failed');
-  }
-  const send = await recordReportSend(scope, {
-    reportId: input.reportId,
-    recipients: input.recipients,
-    sentBy: input.sentBy,
-    status: failure ? 'failed' : 'sent',
-    messageId,
-    error: failure ? 'The mail server did not accept the message.' : null,
-    actor: input.actor,
-  });
-  if (failure) {
-    await queueReportRedelivery({
-      workspaceId: scope.workspaceId,
-      reportId: input.reportId,
-      recipients: input.recipients,
-      note: input.note,
-      sentBy: input.sentBy,
-      senderName: input.senderName,
-      actor: input.actor,
-    });
-    throw new AppError(
-      'unavailable',
-      'The mail server did not accept the report. The attempt is recorded and the e-mail is retried in the background for a few minutes; an owner sees it under Background jobs if it still fails.',
-      { extra: { sendId: send.id } },
-    );
-  }
-  return send;
+  const send = await queueReportSendJob(scope, input);
+  return { id: send.id, recipients: send.recipients, status: 'queued' };
 }

@@ -123,17 +123,31 @@ describe('sustainability analyst: compare fleets, build, download and send a rep
     await page.getByLabel('Recipients').fill(to);
     await page.getByLabel('Note (optional)').fill('For the quarterly review.');
     await page.getByRole('button', { name: 'Send the PDF' }).click();
+    // The request only queues it: the history shows it queued, the background job sends it.
     await page
       .getByRole('status')
-      .filter({ hasText: `Sent to ${to}` })
+      .filter({ hasText: `Queued for ${to}` })
       .waitFor();
+    const history = page.getByRole('list', { name: 'E-mail history' });
+    const entry = history.getByRole('listitem').filter({ hasText: `To ${to}` });
+    await entry.waitFor();
+    // Refresh until the job has sent it (the in-process runner wakes on the queued job).
+    let sent = false;
+    for (let i = 0; i < 40 && !sent; i++) {
+      sent = (await entry.innerText()).startsWith('Sent');
+      if (!sent) {
+        await page.waitForTimeout(250);
+        await page.getByRole('link', { name: 'Refresh' }).click();
+        await history.waitFor();
+      }
+    }
+    expect(await entry.innerText()).toMatch(/^Sent /);
+    await screenshot(page, 'analyst-report-sent');
     const [mail] = await mailTo(to);
     expect(mail.subject).toBe('Fleet report: Polar fleets, autumn 2026');
     expect(mail.attachments).toEqual([
       expect.objectContaining({ filename: 'polar-fleets-autumn-2026.pdf', contentType: 'application/pdf' }),
     ]);
-    await page.reload();
-    await page.getByText(`To ${to}`).waitFor();
 
     await page.goto(`/w/${SLUG}/reports`);
     await page.getByRole('link', { name: 'Polar fleets, autumn 2026' }).first().waitFor();

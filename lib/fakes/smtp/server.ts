@@ -15,6 +15,8 @@ export interface StoredMessage {
   from: string;
   to: string[];
   subject: string;
+  /** The Message-ID header as sent, e.g. `<key@host>` ('' when absent). */
+  messageId?: string;
   text: string;
   html: string;
   attachments: { filename: string; contentType: string; size: number; contentBase64: string }[];
@@ -68,6 +70,7 @@ export async function startSmtpFake(opts: SmtpFakeOptions): Promise<SmtpFake> {
             from: addressList(parsed.from)[0] ?? '',
             to: [...addressList(parsed.to), ...addressList(parsed.cc)],
             subject: parsed.subject ?? '',
+            messageId: parsed.messageId ?? '',
             text: parsed.text ?? '',
             html: typeof parsed.html === 'string' ? parsed.html : '',
             attachments: parsed.attachments.map((a) => ({

@@ -4,7 +4,7 @@ import os from 'node:os';
 import path from 'node:path';
 import Papa from 'papaparse';
 import { PDFParse } from 'pdf-parse';
-import { apiRequest, call, makeWorkspace, sessionCookie, useTestDatabase } from '../../support/test-db';
+import { apiRequest, call, makeWorkspace, onPostgres, sessionCookie, useTestDatabase } from '../../support/test-db';
 import { startSmtpFake, type SmtpFake } from '@/lib/fakes/smtp/server';
 import * as reportsRoute from '@/app/api/v1/workspaces/[slug]/reports/route';
 import * as reportRoute from '@/app/api/v1/workspaces/[slug]/reports/[id]/route';
@@ -14,6 +14,8 @@ import * as sendRoute from '@/app/api/v1/workspaces/[slug]/reports/[id]/send/rou
 import { db } from '@/db/client';
 import { formatMass, formatNumber } from '@/lib/format';
 import { insertFleet, insertFlight, insertType } from '../fleets/flight-fixtures';
+import { runDueLocalJobs } from '@/lib/jobs/local';
+import { startBackgroundJobs, stopJobRunner } from '@/lib/jobs/start';
 
 const mailEnv: Record<string, string> = {};
 let fake: SmtpFake;
@@ -23,6 +25,7 @@ beforeAll(async () => {
   mailEnv.SMTP_PORT = String(fake.smtpPort);
 });
 afterAll(async () => {
+  if (onPostgres()) await stopJobRunner();
   if (fake && !fakeClosed) await fake.close();
 });
 mailEnv.RATE_LIMIT_REPORT_SENDS_PER_HOUR = '4';
@@ -65,6 +68,33 @@ beforeAll(async () => {
 });
 
 const base = () => `/api/v1/workspaces/${ws.slug}/reports`;
+
+const sendStatus = async (sendId: number): Promise<string | undefined> =>
+  ((await db()('report_sends').where({ id: sendId }).first('status')) as { status: string } | undefined)?.status;
+
+/**
+ * Runs the queued report e-mails: on SQLite the in-process runner's due jobs, on PostgreSQL a pg-boss
+ * runner for mail jobs in this process (started once), until every given send has left 'queued'.
+ */
+let pgRunner = false;
+async function kickJobs(): Promise<void> {
+  if (!onPostgres()) {
+    await runDueLocalJobs();
+  } else if (!pgRunner) {
+    pgRunner = true;
+    await startBackgroundJobs(['mail']);
+  }
+}
+async function runJobs(sendIds: number[]): Promise<void> {
+  await kickJobs();
+  const end = Date.now() + 30_000;
+  for (;;) {
+    const states = await Promise.all(sendIds.map(sendStatus));
+    if (states.every((st) => st !== 'queued')) return;
+    if (Date.now() > end) throw new Error(`sends ${sendIds.join(', ')} still queued: ${states.join(', ')}`);
+    await new Promise((r) => setTimeout(r, 100));
+  }
+}
 const BODY = () => ({ name: 'Q4 polar fleets', from: '2026-09-01', to: '2026-11-20', fleetIds: [fleetA, fleetB] });
 
 interface ReportJson {
@@ -225,10 +255,11 @@ describe('reports: build, store, list', () => {
 });
 
 describe('reports: send by e-mail', () => {
-  it('the e-mail reaches the SMTP fake with the PDF attached; the send is recorded', async () => {
+  it('202 queued at once; the job sends it to the SMTP fake with the PDF attached and records it sent', async () => {
     const r = await build();
     const recipients = ['ops-lead@example.test', 'Board@Example.test'];
-    const sent = await call<{ id: number; status: string; messageId: string; recipients: string[] }>(
+    const before = fake.messages().length;
+    const sent = await call<{ id: number; status: string; recipients: string[] }>(
       sendRoute.POST,
       apiRequest('POST', `${base()}/${r.body.id}/send`, {
         cookie: analyst,
@@ -236,9 +267,26 @@ describe('reports: send by e-mail', () => {
       }),
       { slug: ws.slug, id: String(r.body.id) },
     );
-    expect(sent.status).toBe(201);
-    expect(sent.body.status).toBe('sent');
-    expect(sent.body.recipients).toEqual(['ops-lead@example.test', 'board@example.test']);
+    expect(sent.status).toBe(202);
+    expect(sent.body).toEqual({
+      id: expect.any(Number),
+      recipients: ['ops-lead@example.test', 'board@example.test'],
+      status: 'queued',
+    });
+    // Nothing went out in the request: the send waits as queued, with its per-send key.
+    const queued = await db()('report_sends').where({ id: sent.body.id }).first();
+    expect(queued).toMatchObject({ status: 'queued', sent_by: ws.members.analyst.id, message_id: null, attempts: 0 });
+    expect(queued.send_key).toMatch(/^report-send-[0-9a-f-]{36}$/);
+    expect(fake.messages().length).toBe(before);
+    const whileQueued = await call<{ sends: number; sendHistory: { status: string; sentAt: string | null }[] }>(
+      reportRoute.GET,
+      apiRequest('GET', `${base()}/${r.body.id}`, { cookie: analyst }),
+      { slug: ws.slug, id: String(r.body.id) },
+    );
+    expect(whileQueued.body.sends).toBe(0);
+    expect(whileQueued.body.sendHistory).toEqual([expect.objectContaining({ status: 'queued', sentAt: null })]);
+
+    await runJobs([sent.body.id]);
     const msg = fake.messages().find((m) => m.to.includes('ops-lead@example.test'));
     expect(msg?.subject).toBe('Fleet report: Q4 polar fleets');
     expect(msg?.to).toEqual(expect.arrayContaining(['ops-lead@example.test', 'board@example.test']));
@@ -249,16 +297,25 @@ describe('reports: send by e-mail', () => {
     const attached = Buffer.from(msg?.attachments[0].contentBase64 ?? '', 'base64');
     const stored = Buffer.from(await (await download(pdfRoute.GET, r.body.id, 'pdf')).arrayBuffer());
     expect(attached.equals(stored)).toBe(true);
-    const row = await db()('report_sends').where({ report_id: r.body.id }).first();
-    expect(row).toMatchObject({ status: 'sent', sent_by: ws.members.analyst.id, error: null });
-    expect(row.message_id).toBe(sent.body.messageId);
-    const one = await call<{ sends: number; sendHistory: { status: string }[] }>(
-      reportRoute.GET,
-      apiRequest('GET', `${base()}/${r.body.id}`, { cookie: analyst }),
-      { slug: ws.slug, id: String(r.body.id) },
-    );
+    const row = await db()('report_sends').where({ id: sent.body.id }).first();
+    expect(row).toMatchObject({ status: 'sent', sent_by: ws.members.analyst.id, error: null, attempts: 1 });
+    // The Message-ID is the per-send key recorded before sending.
+    expect(row.message_id).toBe(`<${queued.send_key}@tropopass.test>`);
+    expect(msg?.messageId).toBe(row.message_id);
+    const one = await call<{
+      sends: number;
+      sendHistory: { status: string; messageId: string; sentAt: string | null; queuedAt: string }[];
+    }>(reportRoute.GET, apiRequest('GET', `${base()}/${r.body.id}`, { cookie: analyst }), {
+      slug: ws.slug,
+      id: String(r.body.id),
+    });
     expect(one.body.sends).toBe(1);
-    expect(one.body.sendHistory.map((s) => s.status)).toEqual(['sent']);
+    expect(one.body.sendHistory).toEqual([
+      expect.objectContaining({ status: 'sent', messageId: row.message_id, sentAt: expect.any(String) }),
+    ]);
+    expect(Date.parse(one.body.sendHistory[0].sentAt!)).toBeGreaterThanOrEqual(
+      Date.parse(one.body.sendHistory[0].queuedAt),
+    );
   });
 
   it('recipients are validated (at most 20, each an address, no repeats); nothing is sent', async () => {
@@ -355,7 +412,7 @@ describe('reports: send by e-mail', () => {
             p,
           )
         ).status,
-      ).toBe(201);
+      ).toBe(202);
     }
     const before = fake.messages().length;
     const refused = await sendRoute.POST(
@@ -379,14 +436,14 @@ describe('reports: send by e-mail', () => {
       }),
       { slug: ws.slug, id: String(r.body.id) },
     );
-    expect(ok.status).toBe(201);
+    expect(ok.status).toBe(202);
   });
 
-  it('a mail server that refuses is recorded as a failed send and answered with 503', async () => {
+  it('a mail server that refuses: still 202 queued; the job notes the refusal and keeps it queued for a retry', async () => {
     const r = await build();
     await fake.close();
     fakeClosed = true;
-    const res = await call(
+    const res = await call<{ id: number; status: string }>(
       sendRoute.POST,
       apiRequest('POST', `${base()}/${r.body.id}/send`, {
         cookie: analyst,
@@ -394,10 +451,19 @@ describe('reports: send by e-mail', () => {
       }),
       { slug: ws.slug, id: String(r.body.id) },
     );
-    expect(res.status).toBe(503);
-    expect(res.body.error?.message).toMatch(/attempt is recorded/);
-    const row = await db()('report_sends').where({ report_id: r.body.id }).first();
-    expect(row).toMatchObject({ status: 'failed', message_id: null });
+    expect(res.status).toBe(202);
+    expect(res.body.status).toBe('queued');
+    // One attempt: refused, noted, the send stays queued (its retry waits 30 s; the dead letter after
+    // five attempts is in tests/integration/reports/report-send-jobs.test.ts).
+    await kickJobs();
+    const end = Date.now() + 30_000;
+    let row = await db()('report_sends').where({ id: res.body.id }).first();
+    while (Number(row.attempts) < 1 || !row.error) {
+      if (Date.now() > end) throw new Error('the refused attempt was not recorded');
+      await new Promise((done) => setTimeout(done, 100));
+      row = await db()('report_sends').where({ id: res.body.id }).first();
+    }
+    expect(row).toMatchObject({ status: 'queued', message_id: null, attempts: 1 });
     expect(row.error).toMatch(/did not accept/);
   });
 });

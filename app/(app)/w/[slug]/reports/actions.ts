@@ -33,24 +33,21 @@ export const sendReportAction = workspaceRowAction(
       note: form.note || undefined,
     });
     if (!parsed.success) throw fromZod(parsed.error);
-    try {
-      const send = await sendReport(
-        { workspaceId: ctx.workspace.id },
-        {
-          reportId,
-          recipients: parsed.data.recipients,
-          note: parsed.data.note,
-          sentBy: ctx.user.id,
-          senderName: ctx.user.name || ctx.user.email,
-          actor: ctx.user.email,
-        },
-      );
-      revalidatePath(`/w/${ctx.slug}/reports/${reportId}`);
-      return { message: `Sent to ${send.recipients.join(', ')}.` };
-    } finally {
-      // A refused or failed send is recorded in the report's history too: the list shows it either way.
-      revalidatePath(`/w/${ctx.slug}/reports`);
-    }
+    const send = await sendReport(
+      { workspaceId: ctx.workspace.id },
+      {
+        reportId,
+        recipients: parsed.data.recipients,
+        note: parsed.data.note,
+        sentBy: ctx.user.id,
+        senderName: ctx.user.name || ctx.user.email,
+        actor: ctx.user.email,
+      },
+    );
+    revalidatePath(`/w/${ctx.slug}/reports/${reportId}`);
+    return {
+      message: `Queued for ${send.recipients.join(', ')}. It goes out in the background; the e-mail history shows when it is sent.`,
+    };
   },
 );
 

@@ -18,6 +18,9 @@ import { COUNT_LABELS } from '@/lib/counts';
 
 export const metadata = { title: 'Fleet report' };
 
+const SEND_LABEL = { queued: 'Queued', sent: 'Sent', failed: 'Failed' } as const;
+const SEND_TONE = { queued: 'text-ink', sent: 'text-tropo-strong', failed: 'text-danger' } as const;
+
 export default async function ReportPage({ params }: { params: Promise<{ slug: string; id: string }> }) {
   const { slug, id: rawId } = await params;
   const { workspace, role, user } = await requireMember(slug, 'flights:read');
@@ -156,19 +159,33 @@ export default async function ReportPage({ params }: { params: Promise<{ slug: s
               Not sent yet.{can(role, 'reports:send') ? ' Use the form to send the PDF.' : ''}
             </p>
           ) : (
-            <ul className="divide-y divide-line text-sm">
-              {sends.map((x) => (
-                <li key={x.id} className="py-2">
-                  <span className={x.status === 'sent' ? 'font-medium text-tropo-strong' : 'font-medium text-danger'}>
-                    {x.status === 'sent' ? 'Sent' : 'Failed'}
-                  </span>{' '}
-                  {formatDateTime(x.sentAt)}
-                  {x.sentBy ? ` by ${x.sentBy}` : ''}
-                  <span className="block text-xs text-ink-soft">To {x.recipients.join(', ')}</span>
-                  {x.error ? <span className="block text-xs text-danger">{x.error}</span> : null}
-                </li>
-              ))}
-            </ul>
+            <>
+              <ul className="divide-y divide-line text-sm" aria-label="E-mail history">
+                {sends.map((x) => (
+                  <li key={x.id} className="py-2">
+                    <span className={`font-medium ${SEND_TONE[x.status]}`}>{SEND_LABEL[x.status]}</span>{' '}
+                    {formatDateTime(x.sentAt ?? x.failedAt ?? x.queuedAt)}
+                    {x.sentBy ? ` by ${x.sentBy}` : ''}
+                    <span className="block text-xs text-ink-soft">To {x.recipients.join(', ')}</span>
+                    {x.status === 'queued' ? (
+                      <span className="block text-xs text-ink-soft">
+                        Waiting to go out
+                        {x.attempts > 0 ? ` (${x.attempts} attempt${x.attempts === 1 ? '' : 's'} so far)` : ''}.
+                      </span>
+                    ) : null}
+                    {x.error ? <span className="block text-xs text-danger">{x.error}</span> : null}
+                  </li>
+                ))}
+              </ul>
+              <p className="mt-3 text-sm">
+                <a href={`/w/${slug}/reports/${report.id}`} className="font-medium text-tropo-strong underline">
+                  Refresh
+                </a>{' '}
+                <span className="text-ink-soft">
+                  E-mails go out in the background; refresh to see queued ones sent.
+                </span>
+              </p>
+            </>
           )}
         </Card>
       </div>

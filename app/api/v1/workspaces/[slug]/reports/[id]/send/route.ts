@@ -2,7 +2,10 @@ import { idParam, json, readJson, workspaceRoute } from '@/lib/api/handler';
 import { sendReport } from '@/lib/reports/send';
 import { reportSendSchema } from '@/lib/validation/reports';
 
-/** E-mails the report's PDF to up to 20 recipients; 201 with the recorded send, 503 when the mail server refuses. */
+/**
+ * Queues an e-mail of the report's PDF to up to 20 recipients: 202 `{ id, recipients, status: 'queued' }`;
+ * the `report.send` job sends it and the report's `sendHistory` shows sent or failed.
+ */
 export const POST = workspaceRoute<{ slug: string; id: string }>(
   'reports:send',
   async ({ req, params, member, principal, userId, actorLabel }) => {
@@ -13,6 +16,6 @@ export const POST = workspaceRoute<{ slug: string; id: string }>(
       { workspaceId: member.workspace.id },
       { reportId: id, recipients: body.recipients, note: body.note, sentBy: userId, senderName, actor: actorLabel },
     );
-    return json(send, 201);
+    return json(send, 202);
   },
 );
