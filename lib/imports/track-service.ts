@@ -133,6 +133,8 @@ export async function acceptTrackUpload(
     listFlightKeys(scope, { from, to, basis: 'flown' }),
   ]);
   const prepared = prepareTrackFlights(parsed, { aircraft, planned, flownKeys: new Set(flown.keys()) });
+  // The points now live in the prepared inputs: let their typed arrays go before the database write.
+  parsed.flights = [];
   if (prepared.problems.length) return refusal(prepared.problems, parsed.warnings);
   if (opts.dryRun)
     return {

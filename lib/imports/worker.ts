@@ -20,6 +20,7 @@ import { log } from '@/lib/log';
 import { leaseImport } from './import-lock';
 import { screenInThreads } from './screening-pool';
 import { buildComponentBacklog } from './components';
+import { nextChunkSize } from './chunk-size';
 import { checkBudgetAlerts } from '@/lib/billing/budget';
 import { checkTargetAlerts } from '@/lib/periods/alerts';
 
@@ -121,7 +122,7 @@ async function processImport(importId: number, opts: RunOptions): Promise<number
 }
 
 async function screenImport(importId: number, opts: RunOptions): Promise<number> {
-  const chunkSize = opts.chunkSize ?? IMPORT_CHUNK_SIZE;
+  let chunkSize = opts.chunkSize ?? IMPORT_CHUNK_SIZE;
   if (!(await claimImport(importId))) return 0;
   let flights = 0;
   let workspaceId: number | null = null;
@@ -139,6 +140,7 @@ async function screenImport(importId: number, opts: RunOptions): Promise<number>
       continue;
     }
     workspaceId = pending[0].workspaceId;
+    chunkSize = nextChunkSize(chunkSize, pending);
     const outcomes = (await screenInThreads(pending)) ?? screenChunk(pending);
     const saved = await saveScreenedChunk(importId, outcomes);
     flights += saved;

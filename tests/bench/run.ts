@@ -14,6 +14,7 @@ const benches = [
   'uncertainty.ts',
   'fleet-uncertainty.ts',
   'import.ts',
+  'track-app.ts',
 ]
   .map((f) => path.join('tests/bench', f))
   .filter((f) => fs.existsSync(f));

@@ -15,30 +15,11 @@ import path from 'node:path';
 import { parseTrackCsv, prepareTrackFlights } from '../../lib/imports/tracks';
 import { screenTotals, type ScreeningInput } from '../../lib/screening/index';
 import type { AircraftForScreening } from '../../db/aircraft-lookup';
+import { writeTrackFile } from './track-file';
 
 const FLIGHTS = Number(process.argv[2] ?? 2000);
 const PER = Number(process.argv[3] ?? 500);
 const file = path.join(os.tmpdir(), `tropopass-bench-tracks-${process.pid}.csv`);
-
-async function writeFile(): Promise<number> {
-  const out = fs.createWriteStream(file);
-  out.write('flight,date,time,lat,lon,altitude_ft,fuel_flow_kg_h,aircraft,origin,destination\r\n');
-  for (let f = 0; f < FLIGHTS; f++) {
-    const lon0 = -150 + (f % 50) * 5;
-    const day = String(1 + (f % 28)).padStart(2, '0');
-    let chunk = '';
-    for (let i = 0; i < PER; i++) {
-      // 500 points every 20 s on a line of latitude 55-65N at about 230 m/s (0.08 degrees of longitude).
-      const s = i * 20;
-      const t = `${String(8 + Math.floor(s / 3600)).padStart(2, '0')}:${String(Math.floor(s / 60) % 60).padStart(2, '0')}:${String(s % 60).padStart(2, '0')}`;
-      const alt = Math.round(37000 * Math.min(1, i / 60, (PER - 1 - i) / 60));
-      chunk += `BT${f},2026-10-${day},${t},${(55 + (f % 10)).toFixed(4)},${(lon0 + i * 0.08).toFixed(4)},${alt},${6500 + (i % 7) * 10},BT-1,EFHK,PANC\r\n`;
-    }
-    if (!out.write(chunk)) await new Promise<void>((r) => out.once('drain', () => r()));
-  }
-  await new Promise<void>((r) => out.end(() => r()));
-  return fs.statSync(file).size;
-}
 
 const aircraft = new Map<string, AircraftForScreening>([
   [
@@ -56,7 +37,7 @@ const aircraft = new Map<string, AircraftForScreening>([
 ]);
 
 const t0 = performance.now();
-const bytes = await writeFile();
+const bytes = await writeTrackFile(file, FLIGHTS, PER, 'BT-1');
 const t1 = performance.now();
 const parsed = await parseTrackCsv(fs.createReadStream(file));
 const t2 = performance.now();
