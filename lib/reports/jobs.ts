@@ -4,6 +4,7 @@ import { AppError } from '@/lib/errors';
 import { defineJob, enqueue } from '@/lib/jobs';
 import { log } from '@/lib/log';
 import { sendMail } from '@/lib/mail/mailer';
+import type { ReportSummary } from './model';
 
 /**
  * A report e-mail the mail server refused while the sender waited (send.ts answers 503 and records
@@ -31,7 +32,10 @@ defineJob<ReportRedelivery>(
     let report;
     let file;
     try {
-      [report, file] = await Promise.all([getReport(scope, p.reportId), getReportPdf(scope, p.reportId)]);
+      [report, file] = await Promise.all([
+        getReport<ReportSummary>(scope, p.reportId),
+        getReportPdf(scope, p.reportId),
+      ]);
     } catch (err) {
       // The report was deleted since: nothing left to deliver.
       if (err instanceof AppError && err.code === 'not_found') return 'done';

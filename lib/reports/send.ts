@@ -53,7 +53,10 @@ export async function sendReport(
     actor: string;
   },
 ): Promise<ReportSendDto> {
-  const [report, file] = await Promise.all([getReport(scope, input.reportId), getReportPdf(scope, input.reportId)]);
+  const [report, file] = await Promise.all([
+    getReport<ReportSummary>(scope, input.reportId),
+    getReportPdf(scope, input.reportId),
+  ]);
   await limitReportSend(scope.workspaceId);
   const mail = reportMail(input.recipients, report.summary, {
     senderName: input.senderName,
