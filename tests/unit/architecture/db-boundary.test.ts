@@ -17,9 +17,6 @@ const NOT_YET_MOVED = [
   'db/imports.ts -> lib/screening',
   'db/imports.ts -> lib/validation/imports',
   'db/imports.ts -> lib/imports/schedule',
-  'db/screenings.ts -> lib/billing/gate',
-  'db/screenings.ts -> lib/validation/screening',
-  'db/screenings.ts -> lib/screening',
 ];
 
 function dbImportsOfLib(): string[] {
