@@ -3,11 +3,14 @@ import type { Knex } from 'knex';
 import { db, insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
 import { adjustFlightRollups, pruneFlightRollups } from './flight-rollups';
-import { assertBillingAllows } from '@/lib/billing/gate';
 import { AppError, notFound } from '@/lib/errors';
-import type { ScreeningTotals } from '@/lib/screening';
-import type { ImportProblem, ImportStatus } from '@/lib/validation/imports';
-import { screeningInputOf, type PreparedFlight } from '@/lib/imports/schedule';
+import type { LineProblem } from '@/lib/validation/problems';
+
+/** The values of `imports.status` (the same four as IMPORT_STATUSES in lib/validation/imports.ts). */
+export type ImportStatus = 'queued' | 'screening' | 'complete' | 'failed';
+
+/** A warning or problem kept with an import, by line and column of its file. */
+export type ImportProblem = LineProblem;
 
 /** An import as the API and the pages show it. */
 export interface ImportDto {
@@ -53,8 +56,28 @@ export interface RescreenDto {
 
 type Row = Record<string, unknown>;
 
+/** A pending flight ready to store: plain data, its screening input already written as JSON. */
+export interface NewFlightRow {
+  line: number;
+  date: string;
+  flight: string;
+  origin: string;
+  destination: string;
+  aircraftTypeId: number;
+  aircraftCode: string;
+  fleetId: number | null;
+  cruiseFl: number;
+  maxFl: number;
+  fuelKg: number;
+  inputJson: string;
+  /** Set when the fuel is unusual (not impossible) for the distance: kept with the flight. */
+  fuelWarning?: string | null;
+}
+
 /** 16 bindings a row: 1500 rows stay under SQLite's 32 766 and PostgreSQL's 65 535 bound parameters. */
-const FLIGHT_BATCH = 1500;
+export const FLIGHT_BATCH = 1500;
+/** Flown flights a row: 18 bindings, so 1500 rows stay under both databases' parameter limits. */
+const TRACK_BATCH = 200;
 const FLIGHT_COLUMNS = [
   'workspace_id',
   'import_id',
@@ -76,52 +99,49 @@ const FLIGHT_COLUMNS = [
 ] as const;
 
 /**
- * One multi-row INSERT ... VALUES per batch of pending flights, written by hand: knex writes a
- * multi-row insert on SQLite as a compound SELECT (at most 500 terms) and its query builder is the
- * slow part at 100 000 rows.
+ * Inserts pending flights inside the caller's transaction: one multi-row INSERT ... VALUES per batch,
+ * written by hand (knex writes a multi-row insert on SQLite as a compound SELECT, at most 500 terms,
+ * and its query builder is the slow part at 100 000 rows). Flown flights (`basis: 'flown'`) carry
+ * that basis and no fuel warning.
  */
-async function insertFlights(
+export async function insertPendingFlights(
   trx: Knex.Transaction,
-  ctx: { workspaceId: number; importId: number; createdAt: string },
-  flights: PreparedFlight[],
+  ctx: { workspaceId: number; importId: number; createdAt: string; basis?: 'flown' },
+  flights: NewFlightRow[],
 ): Promise<void> {
-  if (!flights.length) return;
-  const row = `(${FLIGHT_COLUMNS.map(() => '?').join(', ')})`;
-  const bindings: (string | number | null)[] = [];
-  for (const f of flights) {
-    bindings.push(
-      ctx.workspaceId,
-      ctx.importId,
-      f.date,
-      f.flight,
-      f.origin,
-      f.destination,
-      f.aircraftTypeId,
-      f.aircraftCode,
-      f.fleetId,
-      f.cruiseFl,
-      f.maxFl,
-      JSON.stringify(screeningInputOf(f)),
-      'pending',
-      f.fuelKg,
-      f.line,
-      ctx.createdAt,
-      f.fuelWarning?.slice(0, 500) ?? null,
-    );
+  const flown = ctx.basis === 'flown';
+  const columns: string[] = flown ? [...FLIGHT_COLUMNS, 'basis'] : [...FLIGHT_COLUMNS];
+  const size = flown ? TRACK_BATCH : FLIGHT_BATCH;
+  const row = `(${columns.map(() => '?').join(', ')})`;
+  for (let i = 0; i < flights.length; i += size) {
+    const batch = flights.slice(i, i + size);
+    const bindings: (string | number | null)[] = [];
+    for (const f of batch) {
+      bindings.push(
+        ctx.workspaceId,
+        ctx.importId,
+        f.date,
+        f.flight,
+        f.origin,
+        f.destination,
+        f.aircraftTypeId,
+        f.aircraftCode,
+        f.fleetId,
+        f.cruiseFl,
+        f.maxFl,
+        f.inputJson,
+        'pending',
+        f.fuelKg,
+        f.line,
+        ctx.createdAt,
+        flown ? null : (f.fuelWarning?.slice(0, 500) ?? null),
+      );
+      if (flown) bindings.push('flown');
+    }
+    await trx.raw(`INSERT INTO flights (${columns.join(', ')}) VALUES ${batch.map(() => row).join(', ')}`, bindings);
   }
-  await trx.raw(
-    `INSERT INTO flights (${FLIGHT_COLUMNS.join(', ')}) VALUES ${flights.map(() => row).join(', ')}`,
-    bindings,
-  );
 }
 const PROBLEMS_SHOWN = 200;
-
-function isUniqueViolation(err: unknown): boolean {
-  const e = err as { code?: string; message?: string };
-  return (
-    e?.code === 'SQLITE_CONSTRAINT_UNIQUE' || e?.code === '23505' || /UNIQUE constraint failed/.test(e?.message ?? '')
-  );
-}
 
 function rate(r: Row): { rowsPerSecond: number | null; secondsLeft: number | null } {
   const status = r.status as ImportStatus;
@@ -275,220 +295,66 @@ function duplicateFile(prior: Row): AppError {
   );
 }
 
-/** The import of this exact file (by SHA-256), if the workspace has one. */
-export async function findImportByHash(scope: { workspaceId: number }, fileHash: string): Promise<AppError | null> {
-  const prior = (await db()('imports').where({ workspace_id: scope.workspaceId, file_hash: fileHash }).first()) as
+/**
+ * The import of this exact file (by SHA-256), if the workspace has one, as the 409 to answer; read in
+ * the caller's transaction when it gives one.
+ */
+export async function findImportByHash(
+  scope: { workspaceId: number },
+  fileHash: string,
+  trx: Knex | Knex.Transaction = db(),
+): Promise<AppError | null> {
+  const prior = (await trx('imports').where({ workspace_id: scope.workspaceId, file_hash: fileHash }).first()) as
     Row | undefined;
   return prior ? duplicateFile(prior) : null;
 }
 
-/**
- * Saves an accepted schedule: the import (queued), its warnings and every flight (pending, with its
- * screening input) in one write transaction, flights inserted in batches. Nothing is billed here; the
- * worker bills each flight when it screens it.
- */
-export async function createImport(
-  scope: { workspaceId: number },
+/** Inserts a new import (queued) inside the caller's transaction and returns its id. */
+export async function insertImport(
+  trx: Knex.Transaction,
   input: {
+    workspaceId: number;
+    kind: 'schedule' | 'tracks';
     fileName: string;
     fileHash: string;
+    rows: number;
     createdBy: number | null;
-    actor: string;
-    flights: PreparedFlight[];
-    warnings: ImportProblem[];
+    createdAt: string;
   },
-): Promise<ImportDto> {
-  let id = 0;
-  try {
-    await writeTx(async (trx) => {
-      await assertBillingAllows(scope, trx, input.flights.length);
-      const prior = (await trx('imports')
-        .where({ workspace_id: scope.workspaceId, file_hash: input.fileHash })
-        .first()) as Row | undefined;
-      if (prior) throw duplicateFile(prior);
-      const now = nowIso();
-      id = await insertId(
-        trx('imports')
-          .insert({
-            workspace_id: scope.workspaceId,
-            kind: 'schedule',
-            file_name: input.fileName.slice(0, 255),
-            file_hash: input.fileHash,
-            status: 'queued',
-            rows: input.flights.length,
-            rows_done: 0,
-            rate_base_rows: 0,
-            created_by: input.createdBy,
-            created_at: now,
-          })
-          .returning('id'),
-      );
-      if (input.warnings.length) {
-        await trx('import_problems').insert(
-          input.warnings.map((w) => ({
-            import_id: id,
-            line: w.line,
-            column: w.column.slice(0, 64),
-            message: w.message.slice(0, 1000),
-          })),
-        );
-      }
-      for (let i = 0; i < input.flights.length; i += FLIGHT_BATCH) {
-        await insertFlights(
-          trx,
-          { workspaceId: scope.workspaceId, importId: id, createdAt: now },
-          input.flights.slice(i, i + FLIGHT_BATCH),
-        );
-      }
-      await createAuditEntry(
-        {
-          workspaceId: scope.workspaceId,
-          userId: input.createdBy,
-          actor: input.actor,
-          action: 'import.created',
-          target: `import:${id}`,
-          detail: { fileName: input.fileName, flights: input.flights.length },
-        },
-        trx,
-      );
-    });
-  } catch (err) {
-    if (isUniqueViolation(err)) {
-      throw new AppError(
-        'conflict',
-        'Another upload added this file or some of these flights a moment ago. Nothing from this upload was saved; upload it again to see which rows are already in the workspace.',
-      );
-    }
-    throw err;
-  }
-  return getImport(scope, id);
+): Promise<number> {
+  return insertId(
+    trx('imports')
+      .insert({
+        workspace_id: input.workspaceId,
+        kind: input.kind,
+        file_name: input.fileName.slice(0, 255),
+        file_hash: input.fileHash,
+        status: 'queued',
+        rows: input.rows,
+        rows_done: 0,
+        rate_base_rows: 0,
+        created_by: input.createdBy,
+        created_at: input.createdAt,
+      })
+      .returning('id'),
+  );
 }
 
-/** A flown flight ready to store (lib/imports/tracks.ts prepares it). */
-export interface TrackFlightRow {
-  line: number;
-  date: string;
-  flight: string;
-  origin: string;
-  destination: string;
-  aircraftTypeId: number;
-  aircraftCode: string;
-  fleetId: number | null;
-  cruiseFl: number;
-  maxFl: number;
-  fuelKg: number;
-  inputJson: string;
-}
-
-/** Flown flights a row: 18 bindings, so 1500 rows stay under both databases' parameter limits. */
-const TRACK_BATCH = 200;
-
-/**
- * Saves an accepted track file: the import (kind tracks, queued), its warnings and every flown flight
- * (pending, basis flown, with its track input) in one write transaction. Nothing is billed here: the
- * worker bills each flight once when it screens it, as for schedules.
- */
-export async function createTrackImport(
-  scope: { workspaceId: number },
-  input: {
-    fileName: string;
-    fileHash: string;
-    createdBy: number | null;
-    actor: string;
-    flights: TrackFlightRow[];
-    warnings: ImportProblem[];
-    points: number;
-  },
-): Promise<ImportDto> {
-  let id = 0;
-  try {
-    await writeTx(async (trx) => {
-      await assertBillingAllows(scope, trx, input.flights.length);
-      const prior = (await trx('imports')
-        .where({ workspace_id: scope.workspaceId, file_hash: input.fileHash })
-        .first()) as Row | undefined;
-      if (prior) throw duplicateFile(prior);
-      const now = nowIso();
-      id = await insertId(
-        trx('imports')
-          .insert({
-            workspace_id: scope.workspaceId,
-            kind: 'tracks',
-            file_name: input.fileName.slice(0, 255),
-            file_hash: input.fileHash,
-            status: 'queued',
-            rows: input.flights.length,
-            rows_done: 0,
-            rate_base_rows: 0,
-            created_by: input.createdBy,
-            created_at: now,
-          })
-          .returning('id'),
-      );
-      if (input.warnings.length) {
-        await trx('import_problems').insert(
-          input.warnings.map((w) => ({
-            import_id: id,
-            line: w.line,
-            column: w.column.slice(0, 64),
-            message: w.message.slice(0, 1000),
-          })),
-        );
-      }
-      const columns = [...FLIGHT_COLUMNS, 'basis'];
-      const row = `(${columns.map(() => '?').join(', ')})`;
-      for (let i = 0; i < input.flights.length; i += TRACK_BATCH) {
-        const batch = input.flights.slice(i, i + TRACK_BATCH);
-        const bindings: (string | number | null)[] = [];
-        for (const f of batch) {
-          bindings.push(
-            scope.workspaceId,
-            id,
-            f.date,
-            f.flight,
-            f.origin,
-            f.destination,
-            f.aircraftTypeId,
-            f.aircraftCode,
-            f.fleetId,
-            f.cruiseFl,
-            f.maxFl,
-            f.inputJson,
-            'pending',
-            f.fuelKg,
-            f.line,
-            now,
-            null,
-            'flown',
-          );
-        }
-        await trx.raw(
-          `INSERT INTO flights (${columns.join(', ')}) VALUES ${batch.map(() => row).join(', ')}`,
-          bindings,
-        );
-      }
-      await createAuditEntry(
-        {
-          workspaceId: scope.workspaceId,
-          userId: input.createdBy,
-          actor: input.actor,
-          action: 'import.created',
-          target: `import:${id}`,
-          detail: { fileName: input.fileName, flights: input.flights.length, points: input.points, kind: 'tracks' },
-        },
-        trx,
-      );
-    });
-  } catch (err) {
-    if (isUniqueViolation(err)) {
-      throw new AppError(
-        'conflict',
-        'Another upload added this file or some of these flown flights a moment ago. Nothing from this upload was saved; upload it again to see which flights are already in the workspace.',
-      );
-    }
-    throw err;
-  }
-  return getImport(scope, id);
+/** Keeps an accepted file's warnings with its import, inside the caller's transaction. */
+export async function insertImportProblems(
+  trx: Knex.Transaction,
+  importId: number,
+  problems: ImportProblem[],
+): Promise<void> {
+  if (!problems.length) return;
+  await trx('import_problems').insert(
+    problems.map((w) => ({
+      import_id: importId,
+      line: w.line,
+      column: w.column.slice(0, 64),
+      message: w.message.slice(0, 1000),
+    })),
+  );
 }
 
 /**
@@ -550,20 +416,6 @@ export interface FlightFigures {
   ozoneLowKg: number;
   ozoneHighKg: number;
   engineVersion: string;
-}
-
-export function figuresOf(r: ScreeningTotals): FlightFigures {
-  return {
-    distanceKm: r.distanceKm,
-    noxTotalKg: r.noxTotalKg,
-    noxAboveTropopauseKg: r.noxAboveTropopauseKg,
-    fractionAboveTropopause: r.fractionAboveTropopause,
-    meanDepthAboveTropopauseKm: r.meanDepthAboveTropopauseKm,
-    ozoneCentralKg: r.ozoneLoss.centralKg,
-    ozoneLowKg: r.ozoneLoss.lowKg,
-    ozoneHighKg: r.ozoneLoss.highKg,
-    engineVersion: r.engineVersion,
-  };
 }
 
 export type ScreenedOutcome = { id: number; workspaceId: number; line: number | null } & (

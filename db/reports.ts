@@ -3,7 +3,15 @@ import type { Knex } from 'knex';
 import { db, insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
 import { notFound } from '@/lib/errors';
-import type { ReportSummary } from '@/lib/reports/model';
+
+/**
+ * What db/ needs of a stored report summary (`reports.summary_json`): its period and fleets. The
+ * full shape is `ReportSummary` in lib/reports/model.ts; callers that read more name it as `S`.
+ */
+export interface StoredReportSummary {
+  period: { from: string; to: string };
+  fleets: { id: number; name: string }[];
+}
 
 export interface ReportListItem {
   id: number;
@@ -19,8 +27,8 @@ export interface ReportListItem {
   lastSentAt: string | null;
 }
 
-export interface ReportRecord extends ReportListItem {
-  summary: ReportSummary;
+export interface ReportRecord<S extends StoredReportSummary = StoredReportSummary> extends ReportListItem {
+  summary: S;
 }
 
 /**
@@ -53,12 +61,12 @@ export interface ReportSendJobRow {
 
 type Row = Record<string, unknown>;
 
-function parseSummary(r: Row): ReportSummary {
-  return JSON.parse(String(r.summary_json)) as ReportSummary;
+function parseSummary<S extends StoredReportSummary>(r: Row): S {
+  return JSON.parse(String(r.summary_json)) as S;
 }
 
 function itemOf(r: Row): ReportListItem {
-  const summary = parseSummary(r);
+  const summary = parseSummary<StoredReportSummary>(r);
   return {
     id: Number(r.id),
     name: String(r.name),
@@ -97,18 +105,18 @@ function reportQuery(workspaceId: number) {
     );
 }
 
-export async function createReport(
+export async function createReport<S extends StoredReportSummary>(
   scope: { workspaceId: number },
   input: {
     name: string;
-    summary: ReportSummary;
+    summary: S;
     fleetIds: number[];
     pdf: Uint8Array;
     csv: string;
     createdBy: number | null;
     actor: string;
   },
-): Promise<ReportRecord> {
+): Promise<ReportRecord<S>> {
   const id = await writeTx(async (trx) => {
     const newId = await insertId(
       trx('reports')
@@ -139,7 +147,7 @@ export async function createReport(
     );
     return newId;
   });
-  return getReport(scope, id);
+  return getReport<S>(scope, id);
 }
 
 /** Newest first, keyset-paged by id. */
@@ -157,10 +165,13 @@ export async function listReports(
   return { items, nextCursor: rows.length > limit ? String(items[items.length - 1].id) : null };
 }
 
-export async function getReport(scope: { workspaceId: number }, id: number): Promise<ReportRecord> {
+export async function getReport<S extends StoredReportSummary = StoredReportSummary>(
+  scope: { workspaceId: number },
+  id: number,
+): Promise<ReportRecord<S>> {
   const row = (await reportQuery(scope.workspaceId).andWhere('r.id', id).first()) as Row | undefined;
   if (!row) throw notFound('No report with that id in this workspace.');
-  return { ...itemOf(row), summary: parseSummary(row) };
+  return { ...itemOf(row), summary: parseSummary<S>(row) };
 }
 
 export async function getReportPdf(scope: { workspaceId: number }, id: number): Promise<{ name: string; pdf: Buffer }> {

@@ -1,10 +1,7 @@
 import 'server-only';
-import { db, insertId, nowIso, writeTx } from './client';
-import { recordUsage } from './usage';
-import { assertBillingAllows } from '@/lib/billing/gate';
-import type { ScreeningInput } from '@/lib/validation/screening';
-import type { ScreeningResult } from '@/lib/screening';
-import { AppError, notFound } from '@/lib/errors';
+import type { Knex } from 'knex';
+import { db, insertId } from './client';
+import { notFound } from '@/lib/errors';
 
 export interface ScreeningSummary {
   id: number;
@@ -23,40 +20,21 @@ export interface ScreeningSummary {
   engineVersion: string;
 }
 
-export interface ScreeningRecord {
+/**
+ * A saved screening as stored. `I` and `R` are the shapes of its input and result JSON; the
+ * screening service names them (`ScreeningRecord` in lib/screening-service/service.ts).
+ */
+export interface StoredScreening<I = unknown, R = unknown> {
   id: number;
   name: string;
   createdAt: string;
   aircraftCode: string | null;
-  input: ScreeningInput;
-  result: ScreeningResult;
+  input: I;
+  result: R;
   /** The engine version the saved figures were made with (the stored column, not today's engine). */
   engineVersion: string;
   /** The screening this one re-made with a newer engine, if it is a re-screen. */
   rescreenOf: number | null;
-}
-
-/** "EGLL → KSFO", or coordinates for points that are not airports. */
-export function routeLabel(input: ScreeningInput): string {
-  if ('flightPlan' in input.route)
-    return `${input.route.flightPlan.from.toUpperCase()} → ${input.route.flightPlan.to.toUpperCase()} (flight plan)`;
-  if ('track' in input.route) {
-    const pts = input.route.track.points;
-    const at = (p: { lat: number; lon: number }) => `${p.lat.toFixed(1)},${p.lon.toFixed(1)}`;
-    return `${at(pts[0])} → ${at(pts[pts.length - 1])} (track, ${pts.length} points)`;
-  }
-  const pts = input.route.waypoints;
-  const label = (w: (typeof pts)[number]) =>
-    'airport' in w ? w.airport.toUpperCase() : `${w.lat.toFixed(1)},${w.lon.toFixed(1)}`;
-  const first = pts[0];
-  const last = pts[pts.length - 1];
-  return pts.length > 2
-    ? `${label(first)} → ${label(last)} (${pts.length - 2} via)`
-    : `${label(first)} → ${label(last)}`;
-}
-
-function firstLevel(input: ScreeningInput): number {
-  return 'flightLevel' in input.cruise ? input.cruise.flightLevel : input.cruise.steps[0].flightLevel;
 }
 
 type Row = Record<string, unknown>;
@@ -78,114 +56,111 @@ const summaryOf = (r: Row): ScreeningSummary => ({
   engineVersion: String(r.engine_version),
 });
 
-const recordOf = (r: Row): ScreeningRecord => ({
+const recordOf = <I, R>(r: Row): StoredScreening<I, R> => ({
   id: Number(r.id),
   name: String(r.name),
   createdAt: String(r.created_at),
   aircraftCode: (r.aircraft_code as string | null) ?? null,
-  input: JSON.parse(String(r.input_json)) as ScreeningInput,
-  result: JSON.parse(String(r.result_json)) as ScreeningResult,
+  input: JSON.parse(String(r.input_json)) as I,
+  result: JSON.parse(String(r.result_json)) as R,
   engineVersion: String(r.engine_version),
   rescreenOf: r.rescreen_of === null || r.rescreen_of === undefined ? null : Number(r.rescreen_of),
 });
 
-/**
- * Stores a screening and its billable unit in one transaction. With an idempotency key, a repeat
- * returns the first screening (`replayed: true`) and adds no unit.
- */
-export async function createScreening(
-  scope: { workspaceId: number },
-  input: {
-    name?: string;
-    aircraftCode?: string | null;
-    screening: ScreeningInput;
-    result: ScreeningResult;
-    createdBy: number | null;
-    apiKeyId: number | null;
-    idempotencyKey?: string | null;
-    /** Fingerprint of the request body the key came with; a repeat of the key with another body is a 409. */
-    idempotencyFingerprint?: string | null;
-    /** Set for a re-screen: the older screening this one re-makes. Such a screening is not billed. */
-    rescreenOf?: number | null;
-  },
-): Promise<{ record: ScreeningRecord; replayed: boolean }> {
-  return writeTx(async (trx) => {
-    if (input.idempotencyKey) {
-      const prior = await trx('screenings')
-        .where({ workspace_id: scope.workspaceId, idempotency_key: input.idempotencyKey })
-        .first();
-      if (prior) {
-        const fp = prior.idempotency_fingerprint as string | null;
-        if (fp && input.idempotencyFingerprint && fp !== input.idempotencyFingerprint) {
-          throw new AppError(
-            'conflict',
-            `The Idempotency-Key "${input.idempotencyKey}" was already used with a different request body (screening #${prior.id}). Send the same body to get that screening again, or use a new key for a new screening.`,
-            {
-              fields: [
-                { path: 'Idempotency-Key', message: `Already used with a different body for screening #${prior.id}.` },
-              ],
-              extra: { idempotencyKey: input.idempotencyKey, screeningId: Number(prior.id) },
-            },
-          );
-        }
-        return { record: recordOf(prior), replayed: true };
-      }
-    }
-    const rescreenOf = input.rescreenOf ?? null;
-    if (rescreenOf !== null) {
-      const prior = await trx('screenings')
-        .where({ workspace_id: scope.workspaceId, rescreen_of: rescreenOf, engine_version: input.result.engineVersion })
-        .first();
-      if (prior) return { record: recordOf(prior), replayed: true };
-    } else {
-      await assertBillingAllows(scope, trx);
-    }
-    const now = nowIso();
-    const label = routeLabel(input.screening);
-    const r = input.result;
-    const id = await insertId(
-      trx('screenings')
-        .insert({
-          workspace_id: scope.workspaceId,
-          name: (input.name?.trim() || label).slice(0, 160),
-          created_by: input.createdBy,
-          api_key_id: input.apiKeyId,
-          idempotency_key: input.idempotencyKey ?? null,
-          idempotency_fingerprint: input.idempotencyKey ? (input.idempotencyFingerprint ?? null) : null,
-          rescreen_of: rescreenOf,
-          input_json: JSON.stringify(input.screening),
-          result_json: JSON.stringify(r),
-          engine_version: r.engineVersion,
-          route_label: label,
-          aircraft_code: input.aircraftCode ?? null,
-          flight_level: firstLevel(input.screening),
-          flight_date: input.screening.flightDate ?? null,
-          distance_km: r.distanceKm,
-          fuel_kg: r.fuelKg,
-          nox_total_kg: r.noxTotalKg,
-          nox_above_kg: r.noxAboveTropopauseKg,
-          fraction_above: r.fractionAboveTropopause,
-          ozone_central_kg: r.ozoneLoss.centralKg,
-          ozone_low_kg: r.ozoneLoss.lowKg,
-          ozone_high_kg: r.ozoneLoss.highKg,
-          created_at: now,
-        })
-        .returning('id'),
-    );
-    // A re-screen repeats work already billed once (the source screening's unit): it records no unit
-    // and passes no billing gate. The ledger's (kind, source_id) key could not catch it, since the
-    // re-screen is a new screening id; this branch is what keeps it free.
-    if (rescreenOf === null)
-      await recordUsage(trx, { workspaceId: scope.workspaceId, kind: 'screening', sourceId: id, occurredAt: now });
-    const row = await trx('screenings').where({ id }).first();
-    return { record: recordOf(row), replayed: false };
-  });
+/** The screening a workspace saved under an idempotency key, with the body fingerprint kept beside it. */
+export async function findScreeningByIdempotencyKey<I, R>(
+  trx: Knex.Transaction,
+  workspaceId: number,
+  key: string,
+): Promise<{ record: StoredScreening<I, R>; fingerprint: string | null } | null> {
+  const prior = await trx('screenings').where({ workspace_id: workspaceId, idempotency_key: key }).first();
+  if (!prior) return null;
+  return { record: recordOf<I, R>(prior), fingerprint: (prior.idempotency_fingerprint as string | null) ?? null };
 }
 
-export async function getScreening(scope: { workspaceId: number }, id: number): Promise<ScreeningRecord> {
+/** The re-screen of `rescreenOf` already made with `engineVersion`, if there is one. */
+export async function findRescreen<I, R>(
+  trx: Knex.Transaction,
+  workspaceId: number,
+  rescreenOf: number,
+  engineVersion: string,
+): Promise<StoredScreening<I, R> | null> {
+  const prior = await trx('screenings')
+    .where({ workspace_id: workspaceId, rescreen_of: rescreenOf, engine_version: engineVersion })
+    .first();
+  return prior ? recordOf<I, R>(prior) : null;
+}
+
+/** One new row of `screenings`: plain data, the figures already made by the engine. */
+export interface NewScreeningRow {
+  workspaceId: number;
+  name: string;
+  createdBy: number | null;
+  apiKeyId: number | null;
+  idempotencyKey: string | null;
+  idempotencyFingerprint: string | null;
+  rescreenOf: number | null;
+  input: unknown;
+  result: unknown;
+  engineVersion: string;
+  routeLabel: string;
+  aircraftCode: string | null;
+  flightLevel: number;
+  flightDate: string | null;
+  distanceKm: number;
+  fuelKg: number;
+  noxTotalKg: number;
+  noxAboveTropopauseKg: number;
+  fractionAboveTropopause: number;
+  ozoneLoss: { centralKg: number; lowKg: number; highKg: number };
+  createdAt: string;
+}
+
+/** Inserts a screening inside the caller's transaction and returns it as stored. */
+export async function insertScreening<I, R>(
+  trx: Knex.Transaction,
+  row: NewScreeningRow,
+): Promise<StoredScreening<I, R>> {
+  const id = await insertId(
+    trx('screenings')
+      .insert({
+        workspace_id: row.workspaceId,
+        name: row.name,
+        created_by: row.createdBy,
+        api_key_id: row.apiKeyId,
+        idempotency_key: row.idempotencyKey,
+        idempotency_fingerprint: row.idempotencyFingerprint,
+        rescreen_of: row.rescreenOf,
+        input_json: JSON.stringify(row.input),
+        result_json: JSON.stringify(row.result),
+        engine_version: row.engineVersion,
+        route_label: row.routeLabel,
+        aircraft_code: row.aircraftCode,
+        flight_level: row.flightLevel,
+        flight_date: row.flightDate,
+        distance_km: row.distanceKm,
+        fuel_kg: row.fuelKg,
+        nox_total_kg: row.noxTotalKg,
+        nox_above_kg: row.noxAboveTropopauseKg,
+        fraction_above: row.fractionAboveTropopause,
+        ozone_central_kg: row.ozoneLoss.centralKg,
+        ozone_low_kg: row.ozoneLoss.lowKg,
+        ozone_high_kg: row.ozoneLoss.highKg,
+        created_at: row.createdAt,
+      })
+      .returning('id'),
+  );
+  const stored = await trx('screenings').where({ id }).first();
+  return recordOf<I, R>(stored);
+}
+
+export async function getStoredScreening<I, R>(
+  scope: { workspaceId: number },
+  id: number,
+): Promise<StoredScreening<I, R>> {
   const row = await db()('screenings').where({ workspace_id: scope.workspaceId, id }).first();
   if (!row) throw notFound('No screening with that id in this workspace.');
-  return recordOf(row);
+  return recordOf<I, R>(row);
 }
 
 /** Newer screenings made from this one with a later engine, newest first. */

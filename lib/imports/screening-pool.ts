@@ -2,7 +2,8 @@ import 'server-only';
 import os from 'node:os';
 import path from 'node:path';
 import { Piscina } from 'piscina';
-import { figuresOf, type PendingFlight, type ScreenedOutcome } from '@/db/imports';
+import type { PendingFlight, ScreenedOutcome } from '@/db/imports';
+import { figuresOf } from './figures';
 import { env } from '@/lib/env';
 import type { ScreeningTotals } from '@/lib/screening';
 

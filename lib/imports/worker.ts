@@ -6,7 +6,6 @@ import {
   failImport,
   finishImport,
   finishRescreen,
-  figuresOf,
   listActiveImports,
   listActiveRescreens,
   listPendingFlights,
@@ -17,6 +16,7 @@ import {
   type ScreenedOutcome,
 } from '@/db/imports';
 import { log } from '@/lib/log';
+import { figuresOf } from './figures';
 import { leaseImport } from './import-lock';
 import { screenInThreads } from './screening-pool';
 import { buildComponentBacklog } from './components';

@@ -76,7 +76,7 @@ export async function buildFleetReport(
     actor: string;
     actorName: string;
   },
-): Promise<ReportRecord> {
+): Promise<ReportRecord<ReportSummary>> {
   const known = await listFleets(scope);
   const byId = new Map(known.map((f) => [f.id, f]));
   const problems = input.fleetIds.flatMap((id, i) =>

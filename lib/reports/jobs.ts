@@ -15,6 +15,7 @@ import { AppError } from '@/lib/errors';
 import { defineJob, enqueue } from '@/lib/jobs';
 import { log } from '@/lib/log';
 import { messageIdFor, sendMail } from '@/lib/mail/mailer';
+import type { ReportSummary } from './model';
 
 /**
  * Every report e-mail is a `report.send` job. The request records the send as queued with a per-send
@@ -50,7 +51,10 @@ async function deliver(p: ReportSendJob): Promise<'done'> {
   let report;
   let file;
   try {
-    [report, file] = await Promise.all([getReport(scope, send.reportId), getReportPdf(scope, send.reportId)]);
+    [report, file] = await Promise.all([
+      getReport<ReportSummary>(scope, send.reportId),
+      getReportPdf(scope, send.reportId),
+    ]);
   } catch (err) {
     if (err instanceof AppError && err.code === 'not_found') return 'done';
     throw err;

@@ -18,7 +18,7 @@ import {
 } from '@/lib/screening';
 import { getAircraftForScreening } from '@/db/aircraft-lookup';
 import { loadRouteLibrary } from '@/db/route-library';
-import { createScreening, getScreening, type ScreeningRecord } from '@/db/screenings';
+import { createScreening, getScreening, type ScreeningRecord } from './saved';
 import { AppError, badRequest, conflict, invalidFields, type FieldProblem } from '@/lib/errors';
 import { previewMonthsSchema } from '@/lib/validation/screening';
 import { checkFuelPlausibility } from '@/lib/validation/plausibility';

@@ -5,6 +5,7 @@ import { getReport, listReportSends } from '@/db/reports';
 import { AppError } from '@/lib/errors';
 import { formatDateTime, formatDistance, formatMass, formatMassRange, formatNumber, formatPercent } from '@/lib/format';
 import type { CompareRow } from '@/lib/fleets/types';
+import type { ReportSummary } from '@/lib/reports/model';
 import { Card, PageHeader, Stat } from '@/components/ui/card';
 import { buttonClass } from '@/components/ui/button';
 import { ScreeningCaution } from '@/components/ui/notice';
@@ -28,7 +29,7 @@ export default async function ReportPage({ params }: { params: Promise<{ slug: s
   const scope = { workspaceId: workspace.id };
   const id = Number(rawId);
   const [report, sends] = await Promise.all([
-    getReport(scope, id).catch((err: unknown) => {
+    getReport<ReportSummary>(scope, id).catch((err: unknown) => {
       if (err instanceof AppError && err.code === 'not_found') notFound();
       throw err;
     }),

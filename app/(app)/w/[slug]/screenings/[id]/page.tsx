@@ -3,7 +3,8 @@ import Form from 'next/form';
 import { notFound } from 'next/navigation';
 import { requireMember } from '@/lib/auth/guards';
 import { can } from '@/lib/auth/policy';
-import { getScreening, listRescreensOf, routeLabel } from '@/db/screenings';
+import { listRescreensOf } from '@/db/screenings';
+import { getScreening, routeLabel } from '@/lib/screening-service/saved';
 import {
   ENGINE_VERSION,
   compareValidated,

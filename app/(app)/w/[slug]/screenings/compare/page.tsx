@@ -1,7 +1,7 @@
 import { Suspense } from 'react';
 import Link from 'next/link';
 import { requireMember } from '@/lib/auth/guards';
-import { getScreening, routeLabel, type ScreeningRecord } from '@/db/screenings';
+import { getScreening, routeLabel, type ScreeningRecord } from '@/lib/screening-service/saved';
 import { AppError } from '@/lib/errors';
 import { formatAltitude, formatDistance, formatMass, formatNumber, formatPercent, formatDate } from '@/lib/format';
 import type { UnitSystem } from '@/lib/units';

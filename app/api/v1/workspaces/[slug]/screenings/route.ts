@@ -1,5 +1,6 @@
 import { json, readJson, readQuery, workspaceRoute } from '@/lib/api/handler';
-import { createScreening, listScreenings } from '@/db/screenings';
+import { listScreenings } from '@/db/screenings';
+import { createScreening } from '@/lib/screening-service/saved';
 import { parseScreeningBody, runScreening } from '@/lib/screening-service/service';
 import { screeningListQuerySchema } from '@/lib/validation/screening-api';
 import { invalidFields } from '@/lib/errors';

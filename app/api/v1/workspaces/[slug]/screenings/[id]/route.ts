@@ -1,5 +1,6 @@
 import { idParam, json, workspaceRoute } from '@/lib/api/handler';
-import { getScreening, listRescreensOf } from '@/db/screenings';
+import { listRescreensOf } from '@/db/screenings';
+import { getScreening } from '@/lib/screening-service/saved';
 import { ENGINE_VERSION } from '@/lib/screening';
 
 export const GET = workspaceRoute<{ slug: string; id: string }>('flights:read', async ({ params, member }) => {

@@ -1,5 +1,5 @@
 import { idParam, workspaceRoute } from '@/lib/api/handler';
-import { getScreening, routeLabel, type ScreeningRecord } from '@/db/screenings';
+import { getScreening, routeLabel, type ScreeningRecord } from '@/lib/screening-service/saved';
 import { invalidFields } from '@/lib/errors';
 import { uncertaintyFor } from '@/lib/screening-service/uncertainty-view';
 import type { Percentiles, ScreeningUncertainty } from '@/lib/screening';
