@@ -5,9 +5,9 @@ import { useRouter } from 'next/navigation';
 import { useMutation } from '@tanstack/react-query';
 import type { ImportProblem } from '@/lib/validation/imports';
 import { Button } from '@/components/ui/button';
-import { Field } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { ProblemsTable } from '@/components/ui/problems-table';
+import { CsvFileField } from './csv-file-field';
 
 type Outcome =
   | { kind: 'accepted'; flights: number; points: number }
@@ -86,27 +86,17 @@ export function TrackUploadForm({ slug }: { slug: string }) {
         mutation.mutate(file);
       }}
     >
-      <Field
+      <CsvFileField
         id="track-file"
         label="Track file (CSV)"
         hint="Every point is checked before anything is saved; each flight is one billable unit once screened."
-        error={missing ? 'Choose a CSV file first.' : undefined}
-      >
-        <input
-          id="track-file"
-          name="file"
-          type="file"
-          accept=".csv,text/csv"
-          aria-invalid={missing || undefined}
-          aria-describedby={missing ? 'track-file-error' : 'track-file-hint'}
-          onChange={(e) => {
-            setFile(e.target.files?.[0] ?? null);
-            setMissing(false);
-            mutation.reset();
-          }}
-          className="block w-full text-sm text-ink file:mr-3 file:rounded-md file:border file:border-line-strong file:bg-paper-raised file:px-3 file:py-1.5 file:text-sm file:font-medium file:text-ink hover:file:bg-paper-sunk"
-        />
-      </Field>
+        missing={missing}
+        onFile={(f) => {
+          setFile(f);
+          setMissing(false);
+          mutation.reset();
+        }}
+      />
       <Button type="submit" disabled={mutation.isPending}>
         {mutation.isPending ? 'Checking every point…' : 'Upload the tracks'}
       </Button>

@@ -6,11 +6,11 @@ import { useMutation } from '@tanstack/react-query';
 import type { ImportDto } from '@/db/imports';
 import type { ImportProblem } from '@/lib/validation/imports';
 import { Button } from '@/components/ui/button';
-import { Field } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { ProblemsTable } from '@/components/ui/problems-table';
 import { formatMoney } from '@/lib/format';
 import type { ImportEstimate } from '@/lib/billing/budget';
+import { CsvFileField } from './csv-file-field';
 
 /** The dry run's answer: what importing the file would cost, and notes on it. */
 type Estimate = ImportEstimate & { rows: number; warnings: ImportProblem[] };
@@ -147,27 +147,17 @@ export function UploadForm({ slug, aside }: { slug: string; aside?: ReactNode })
     >
       <div className="grid gap-6 md:grid-cols-2">
         <div className="space-y-4">
-          <Field
+          <CsvFileField
             id="schedule-file"
             label="Schedule file (CSV)"
             hint="Every row is checked before anything is saved."
-            error={missing ? 'Choose a CSV file first.' : undefined}
-          >
-            <input
-              id="schedule-file"
-              name="file"
-              type="file"
-              accept=".csv,text/csv"
-              aria-invalid={missing || undefined}
-              aria-describedby={missing ? 'schedule-file-error' : 'schedule-file-hint'}
-              onChange={(e) => {
-                setFile(e.target.files?.[0] ?? null);
-                setMissing(false);
-                mutation.reset();
-              }}
-              className="block w-full text-sm text-ink file:mr-3 file:rounded-md file:border file:border-line-strong file:bg-paper-raised file:px-3 file:py-1.5 file:text-sm file:font-medium file:text-ink hover:file:bg-paper-sunk"
-            />
-          </Field>
+            missing={missing}
+            onFile={(f) => {
+              setFile(f);
+              setMissing(false);
+              mutation.reset();
+            }}
+          />
           <Button type="submit" disabled={mutation.isPending}>
             {mutation.isPending ? 'Checking every row…' : 'Check the file'}
           </Button>
