@@ -1,8 +1,6 @@
 'use client';
 
-import { useRef, useState, type ReactNode } from 'react';
-import { useRouter } from 'next/navigation';
-import { useMutation } from '@tanstack/react-query';
+import type { ReactNode } from 'react';
 import type { ImportDto } from '@/db/imports';
 import type { ImportProblem } from '@/lib/validation/imports';
 import { Button } from '@/components/ui/button';
@@ -10,7 +8,7 @@ import { Notice } from '@/components/ui/notice';
 import { ProblemsTable } from '@/components/ui/problems-table';
 import { formatMoney } from '@/lib/format';
 import type { ImportEstimate } from '@/lib/billing/budget';
-import { CsvFileField } from './csv-file-field';
+import { CsvFileField, useCsvUpload } from './csv-file-field';
 
 /** The dry run's answer: what importing the file would cost, and notes on it. */
 type Estimate = ImportEstimate & { rows: number; warnings: ImportProblem[] };
@@ -116,35 +114,12 @@ function ConfirmImport({
 
 /** Upload a schedule: the whole file is checked first; on refusal the problems are listed by line and column. */
 export function UploadForm({ slug, aside }: { slug: string; aside?: ReactNode }) {
-  const router = useRouter();
-  const formRef = useRef<HTMLFormElement>(null);
-  const [file, setFile] = useState<File | null>(null);
-  const [missing, setMissing] = useState(false);
-  const mutation = useMutation({
-    mutationFn: ({ f, dryRun }: { f: File; dryRun: boolean }) => upload(slug, f, dryRun),
-    onSuccess: (outcome) => {
-      if (outcome.kind === 'accepted') {
-        formRef.current?.reset();
-        setFile(null);
-        router.refresh();
-      }
-    },
-  });
+  const { formRef, missing, mutation, onFile, onSubmit } = useCsvUpload(({ f, dryRun }: { f: File; dryRun: boolean }) =>
+    upload(slug, f, dryRun),
+  );
   const outcome = mutation.data;
   return (
-    <form
-      ref={formRef}
-      noValidate
-      className="space-y-4"
-      onSubmit={(e) => {
-        e.preventDefault();
-        if (!file) {
-          setMissing(true);
-          return;
-        }
-        mutation.mutate({ f: file, dryRun: true });
-      }}
-    >
+    <form ref={formRef} noValidate className="space-y-4" onSubmit={onSubmit((f) => ({ f, dryRun: true }))}>
       <div className="grid gap-6 md:grid-cols-2">
         <div className="space-y-4">
           <CsvFileField
@@ -152,11 +127,7 @@ export function UploadForm({ slug, aside }: { slug: string; aside?: ReactNode })
             label="Schedule file (CSV)"
             hint="Every row is checked before anything is saved."
             missing={missing}
-            onFile={(f) => {
-              setFile(f);
-              setMissing(false);
-              mutation.reset();
-            }}
+            onFile={onFile}
           />
           <Button type="submit" disabled={mutation.isPending}>
             {mutation.isPending ? 'Checking every row…' : 'Check the file'}
