@@ -10,6 +10,7 @@ import {
   useReactTable,
   type ColumnDef,
   type SortingState,
+  type Table,
   type VisibilityState,
 } from '@tanstack/react-table';
 import type { UnitSystem } from '@/db/users';
@@ -267,122 +268,22 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
   };
 
   const current = compareQueryObject(params);
-  const headerCells = table.getHeaderGroups()[0]?.headers ?? [];
   const visibleFigures = HIDEABLE.filter((c) => !hidden.has(c));
 
   return (
     <div className="space-y-6">
-      <Card title="Filters">
-        <form key={apiQuery} onSubmit={onFilter} noValidate className="space-y-4" aria-label="Comparison filters">
-          <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
-            <Field id="f-from" label="From" error={fieldErrors.from}>
-              <TextInput
-                id="f-from"
-                name="from"
-                type="date"
-                defaultValue={current.from ?? data?.period.from ?? ''}
-                invalid={!!fieldErrors.from}
-              />
-            </Field>
-            <Field id="f-to" label="To" error={fieldErrors.to}>
-              <TextInput
-                id="f-to"
-                name="to"
-                type="date"
-                defaultValue={current.to ?? data?.period.to ?? ''}
-                invalid={!!fieldErrors.to}
-              />
-            </Field>
-            <Field id="f-aircraft" label="Aircraft type" error={fieldErrors.aircraft}>
-              <SelectInput
-                id="f-aircraft"
-                name="aircraft"
-                defaultValue={current.aircraft ?? ''}
-                invalid={!!fieldErrors.aircraft}
-              >
-                <option value="">All types</option>
-                {aircraftCodes.map((c) => (
-                  <option key={c} value={c}>
-                    {c}
-                  </option>
-                ))}
-              </SelectInput>
-            </Field>
-            <Field
-              id="f-route"
-              label="Route"
-              error={fieldErrors.route}
-              hint="Airport codes: EGLL, LHR or EGLL-KSFO (origin or destination)"
-            >
-              <TextInput
-                id="f-route"
-                name="route"
-                defaultValue={current.route ?? ''}
-                placeholder="EGLL-KSFO"
-                invalid={!!fieldErrors.route}
-              />
-            </Field>
-            <Field id="f-minfl" label="Level band from (FL)" error={fieldErrors.minFl}>
-              <TextInput
-                id="f-minfl"
-                name="minFl"
-                inputMode="numeric"
-                defaultValue={current.minFl ?? ''}
-                placeholder="e.g. 350"
-                invalid={!!fieldErrors.minFl}
-              />
-            </Field>
-            <Field
-              id="f-maxfl"
-              label="Level band to (FL)"
-              error={fieldErrors.maxFl}
-              hint="Keeps flights whose cruise, first to highest level, touches the band"
-            >
-              <TextInput
-                id="f-maxfl"
-                name="maxFl"
-                inputMode="numeric"
-                defaultValue={current.maxFl ?? ''}
-                placeholder="e.g. 410"
-                invalid={!!fieldErrors.maxFl}
-              />
-            </Field>
-            <fieldset className="sm:col-span-2">
-              <legend className="text-sm font-medium text-ink">Fleets</legend>
-              <div className="mt-1 flex flex-wrap gap-x-4 gap-y-1">
-                {fleets.length === 0 ? <span className="text-sm text-ink-faint">No fleets yet.</span> : null}
-                {fleets.map((f) => (
-                  <label key={f.id} className="inline-flex items-center gap-1.5 text-sm text-ink">
-                    <input
-                      type="checkbox"
-                      name="fleet"
-                      value={f.id}
-                      defaultChecked={selectedFleets.has(String(f.id))}
-                      className="accent-accent"
-                    />
-                    {f.name}
-                  </label>
-                ))}
-              </div>
-              <p className="mt-1 text-xs text-ink-faint">None ticked: every fleet, and flights without one.</p>
-              {fieldErrors.fleets ? (
-                <p role="alert" className="text-xs font-medium text-danger">
-                  {fieldErrors.fleets}
-                </p>
-              ) : null}
-            </fieldset>
-          </div>
-          <div className="flex flex-wrap items-center gap-2">
-            <Button type="submit">Apply filters</Button>
-            <Button variant="ghost" onClick={clearFilters}>
-              Clear
-            </Button>
-            <span role="status" aria-live="polite" className="text-sm text-ink-faint">
-              {query.isFetching ? 'Updating the comparison…' : ''}
-            </span>
-          </div>
-        </form>
-      </Card>
+      <CompareFilters
+        formKey={apiQuery}
+        onSubmit={onFilter}
+        onClear={clearFilters}
+        fieldErrors={fieldErrors}
+        current={current}
+        period={data?.period}
+        aircraftCodes={aircraftCodes}
+        fleets={fleets}
+        selectedFleets={selectedFleets}
+        fetching={query.isFetching}
+      />
 
       {apiError ? (
         <Notice tone="danger" role="alert" title="The comparison could not be shown">
@@ -390,65 +291,14 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
         </Notice>
       ) : null}
 
-      <Card
-        title={data ? `Comparison, ${data.period.from} to ${data.period.to}` : 'Comparison'}
-        actions={
-          <div className="flex flex-wrap items-center gap-2">
-            <label className="inline-flex items-center gap-1.5 text-sm text-ink-soft">
-              Basis
-              <select
-                value={basis}
-                onChange={(e) => setParams({ basis: e.target.value === 'planned' ? null : e.target.value })}
-                className="rounded-md border border-line-strong bg-paper-raised px-2 py-1.5 text-sm text-ink"
-              >
-                <option value="planned">Planned</option>
-                <option value="flown">Flown</option>
-                <option value="flown-where-available">Flown where available</option>
-              </select>
-            </label>
-            <div
-              role="radiogroup"
-              aria-label="Rows per"
-              className="inline-flex overflow-hidden rounded-md border border-line-strong"
-            >
-              {GROUP_BY.map((g) => (
-                <button
-                  key={g}
-                  type="button"
-                  role="radio"
-                  aria-checked={groupBy === g}
-                  onClick={() => setParams({ groupBy: g === 'fleet' ? null : g, sort: null })}
-                  className={`px-3 py-1.5 text-sm ${groupBy === g ? 'bg-accent text-white' : 'bg-paper-raised text-ink hover:bg-paper-sunk'}`}
-                >
-                  {GROUP_LABELS[g]}
-                </button>
-              ))}
-            </div>
-            <details className="relative">
-              <summary className="cursor-pointer list-none rounded-md border border-line-strong bg-paper-raised px-3 py-1.5 text-sm text-ink hover:bg-paper-sunk">
-                Columns ({visibleFigures.length} of {HIDEABLE.length})
-              </summary>
-              <div className="absolute right-0 z-10 mt-1 w-64 rounded-md border border-line bg-paper-raised p-3 shadow-lg">
-                <p className="mb-2 text-xs font-medium uppercase tracking-wide text-ink-soft">Show columns</p>
-                {table
-                  .getAllLeafColumns()
-                  .filter((c) => c.getCanHide())
-                  .map((c) => (
-                    <label key={c.id} className="flex items-center gap-2 py-0.5 text-sm text-ink">
-                      <input
-                        type="checkbox"
-                        checked={c.getIsVisible()}
-                        onChange={c.getToggleVisibilityHandler()}
-                        className="accent-accent"
-                      />
-                      {COLUMN_LABELS[c.id as FigureColumn]}
-                    </label>
-                  ))}
-              </div>
-            </details>
-          </div>
-        }
-      >
+      <Card title={data ? `Comparison, ${data.period.from} to ${data.period.to}` : 'Comparison'}>
+        <CompareToolbar
+          basis={basis}
+          groupBy={groupBy}
+          table={table}
+          visibleCount={visibleFigures.length}
+          setParams={setParams}
+        />
         {!data ? (
           <div className="h-40 animate-pulse rounded-md bg-paper-sunk" aria-label="Loading the comparison" />
         ) : data.totals.flights === 0 ? (
@@ -468,83 +318,7 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
             Widen the period or clear a filter. Flights count once their import has been screened.
           </EmptyState>
         ) : (
-          <ScrollRegion label="Fleet comparison table">
-            <table className="figure w-full min-w-[760px] text-sm">
-              <thead className="border-b border-line-strong text-left text-xs uppercase tracking-wide text-ink-soft">
-                <tr>
-                  {headerCells.map((h) => (
-                    <SortableHeader
-                      key={h.id}
-                      header={h}
-                      className={`px-2 py-2 align-bottom font-medium ${(HIDEABLE as readonly string[]).includes(h.column.id) ? 'text-right' : ''} ${h.column.id === 'fleetName' ? 'sticky left-0 bg-paper-raised' : ''}`}
-                      after={h.column.id === 'co2Kg' ? <sup aria-hidden>1</sup> : null}
-                    />
-                  ))}
-                </tr>
-              </thead>
-              <tbody>
-                {table.getRowModel().rows.map((row) => (
-                  <tr key={row.id} className="border-b border-line">
-                    {row.getVisibleCells().map((cell) => {
-                      const id = cell.column.id;
-                      const r = row.original;
-                      const isFigure = (HIDEABLE as readonly string[]).includes(id);
-                      return (
-                        <td
-                          key={cell.id}
-                          className={`px-2 py-2 align-top ${id === 'fleetName' ? 'sticky left-0 bg-paper-raised' : ''} ${isFigure ? 'whitespace-nowrap text-right' : 'whitespace-nowrap'} ${id === 'noxAboveKg' || id === 'shareAbove' ? 'text-strato-strong' : ''}`}
-                        >
-                          {id === 'fleetName' ? (
-                            <span
-                              className={`whitespace-nowrap ${r.fleetId === null ? 'italic text-ink-soft' : 'font-medium text-ink'}`}
-                            >
-                              {r.fleetName}
-                            </span>
-                          ) : id === 'month' ? (
-                            r.month ? (
-                              monthLabel(r.month)
-                            ) : (
-                              '–'
-                            )
-                          ) : id === 'aircraftCode' ? (
-                            r.aircraftCode
-                          ) : (
-                            render(id as FigureColumn, r, units)
-                          )}
-                        </td>
-                      );
-                    })}
-                  </tr>
-                ))}
-              </tbody>
-              <tfoot>
-                <tr className="border-t-2 border-line-strong bg-paper-sunk font-semibold">
-                  {table.getVisibleLeafColumns().map((c, i) => {
-                    const isFigure = (HIDEABLE as readonly string[]).includes(c.id);
-                    return (
-                      <td
-                        key={c.id}
-                        className={`px-2 py-2 align-top ${i === 0 ? 'sticky left-0 bg-paper-sunk' : ''} ${isFigure ? 'whitespace-nowrap text-right' : 'whitespace-nowrap'}`}
-                      >
-                        {i === 0 ? 'All fleets' : isFigure ? render(c.id as FigureColumn, data.totals, units) : ''}
-                      </td>
-                    );
-                  })}
-                </tr>
-              </tfoot>
-            </table>
-            <ul className="mt-3 space-y-0.5 text-xs text-ink-soft">
-              <li>
-                <sup>1</sup> {data.notes.co2}
-              </li>
-              <li>{data.notes.ratios}</li>
-              <li>{data.notes.ozone}</li>
-              <li>
-                NOx is NO2-equivalent mass. Screened flights only; a flight counts in the fleet named in its schedule
-                row, else in its aircraft type&apos;s default fleet.
-              </li>
-            </ul>
-          </ScrollRegion>
+          <CompareTable table={table} totals={data.totals} notes={data.notes} units={units} />
         )}
         {data && data.engineVersions.length ? (
           <div className="mt-4" data-testid="compare-engine-versions">
@@ -604,5 +378,314 @@ export function FleetComparison({ slug, units, initial, initialQuery, aircraftCo
         <FleetContext context={data.context} cautions={data.cautions} units={units} />
       ) : null}
     </div>
+  );
+}
+
+type SetParams = (patch: Record<string, string | null>) => void;
+
+/** The filter form: period, aircraft type, route, level band and fleets. */
+function CompareFilters({
+  formKey,
+  onSubmit,
+  onClear,
+  fieldErrors,
+  current,
+  period,
+  aircraftCodes,
+  fleets,
+  selectedFleets,
+  fetching,
+}: {
+  formKey: string;
+  onSubmit: (e: FormEvent<HTMLFormElement>) => void;
+  onClear: () => void;
+  fieldErrors: Record<string, string>;
+  current: ReturnType<typeof compareQueryObject>;
+  period: { from: string; to: string } | undefined;
+  aircraftCodes: string[];
+  fleets: { id: number; name: string }[];
+  selectedFleets: Set<string>;
+  fetching: boolean;
+}) {
+  return (
+    <Card title="Filters">
+      <form key={formKey} onSubmit={onSubmit} noValidate className="space-y-4" aria-label="Comparison filters">
+        <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
+          <Field id="f-from" label="From" error={fieldErrors.from}>
+            <TextInput
+              id="f-from"
+              name="from"
+              type="date"
+              defaultValue={current.from ?? period?.from ?? ''}
+              invalid={!!fieldErrors.from}
+            />
+          </Field>
+          <Field id="f-to" label="To" error={fieldErrors.to}>
+            <TextInput
+              id="f-to"
+              name="to"
+              type="date"
+              defaultValue={current.to ?? period?.to ?? ''}
+              invalid={!!fieldErrors.to}
+            />
+          </Field>
+          <Field id="f-aircraft" label="Aircraft type" error={fieldErrors.aircraft}>
+            <SelectInput
+              id="f-aircraft"
+              name="aircraft"
+              defaultValue={current.aircraft ?? ''}
+              invalid={!!fieldErrors.aircraft}
+            >
+              <option value="">All types</option>
+              {aircraftCodes.map((c) => (
+                <option key={c} value={c}>
+                  {c}
+                </option>
+              ))}
+            </SelectInput>
+          </Field>
+          <Field
+            id="f-route"
+            label="Route"
+            error={fieldErrors.route}
+            hint="Airport codes: EGLL, LHR or EGLL-KSFO (origin or destination)"
+          >
+            <TextInput
+              id="f-route"
+              name="route"
+              defaultValue={current.route ?? ''}
+              placeholder="EGLL-KSFO"
+              invalid={!!fieldErrors.route}
+            />
+          </Field>
+          <Field id="f-minfl" label="Level band from (FL)" error={fieldErrors.minFl}>
+            <TextInput
+              id="f-minfl"
+              name="minFl"
+              inputMode="numeric"
+              defaultValue={current.minFl ?? ''}
+              placeholder="e.g. 350"
+              invalid={!!fieldErrors.minFl}
+            />
+          </Field>
+          <Field
+            id="f-maxfl"
+            label="Level band to (FL)"
+            error={fieldErrors.maxFl}
+            hint="Keeps flights whose cruise, first to highest level, touches the band"
+          >
+            <TextInput
+              id="f-maxfl"
+              name="maxFl"
+              inputMode="numeric"
+              defaultValue={current.maxFl ?? ''}
+              placeholder="e.g. 410"
+              invalid={!!fieldErrors.maxFl}
+            />
+          </Field>
+          <fieldset className="sm:col-span-2">
+            <legend className="text-sm font-medium text-ink">Fleets</legend>
+            <div className="mt-1 flex flex-wrap gap-x-4 gap-y-1">
+              {fleets.length === 0 ? <span className="text-sm text-ink-faint">No fleets yet.</span> : null}
+              {fleets.map((f) => (
+                <label key={f.id} className="inline-flex items-center gap-1.5 text-sm text-ink">
+                  <input
+                    type="checkbox"
+                    name="fleet"
+                    value={f.id}
+                    defaultChecked={selectedFleets.has(String(f.id))}
+                    className="accent-accent"
+                  />
+                  {f.name}
+                </label>
+              ))}
+            </div>
+            <p className="mt-1 text-xs text-ink-faint">None ticked: every fleet, and flights without one.</p>
+            {fieldErrors.fleets ? (
+              <p role="alert" className="text-xs font-medium text-danger">
+                {fieldErrors.fleets}
+              </p>
+            ) : null}
+          </fieldset>
+        </div>
+        <div className="flex flex-wrap items-center gap-2">
+          <Button type="submit">Apply filters</Button>
+          <Button variant="ghost" onClick={onClear}>
+            Clear
+          </Button>
+          <span role="status" aria-live="polite" className="text-sm text-ink-faint">
+            {fetching ? 'Updating the comparison…' : ''}
+          </span>
+        </div>
+      </form>
+    </Card>
+  );
+}
+
+/**
+ * Basis, rows per group and the column chooser. A row of its own under the card's title (not squeezed
+ * beside it), so on a phone it wraps under the title instead of leaving the title column tall and empty.
+ */
+function CompareToolbar({
+  basis,
+  groupBy,
+  table,
+  visibleCount,
+  setParams,
+}: {
+  basis: string;
+  groupBy: GroupBy;
+  table: Table<CompareRow>;
+  visibleCount: number;
+  setParams: SetParams;
+}) {
+  return (
+    <div className="mb-4 flex flex-wrap items-center justify-end gap-2" aria-label="Table options" role="group">
+      <label className="inline-flex items-center gap-1.5 text-sm text-ink-soft">
+        Basis
+        <select
+          value={basis}
+          onChange={(e) => setParams({ basis: e.target.value === 'planned' ? null : e.target.value })}
+          className="rounded-md border border-line-strong bg-paper-raised px-2 py-1.5 text-sm text-ink"
+        >
+          <option value="planned">Planned</option>
+          <option value="flown">Flown</option>
+          <option value="flown-where-available">Flown where available</option>
+        </select>
+      </label>
+      <div
+        role="radiogroup"
+        aria-label="Rows per"
+        className="inline-flex overflow-hidden rounded-md border border-line-strong"
+      >
+        {GROUP_BY.map((g) => (
+          <button
+            key={g}
+            type="button"
+            role="radio"
+            aria-checked={groupBy === g}
+            onClick={() => setParams({ groupBy: g === 'fleet' ? null : g, sort: null })}
+            className={`px-3 py-1.5 text-sm ${groupBy === g ? 'bg-accent text-white' : 'bg-paper-raised text-ink hover:bg-paper-sunk'}`}
+          >
+            {GROUP_LABELS[g]}
+          </button>
+        ))}
+      </div>
+      <details className="relative">
+        <summary className="cursor-pointer list-none rounded-md border border-line-strong bg-paper-raised px-3 py-1.5 text-sm text-ink hover:bg-paper-sunk">
+          Columns ({visibleCount} of {HIDEABLE.length})
+        </summary>
+        <div className="absolute right-0 z-10 mt-1 w-64 rounded-md border border-line bg-paper-raised p-3 shadow-lg">
+          <p className="mb-2 text-xs font-medium uppercase tracking-wide text-ink-soft">Show columns</p>
+          {table
+            .getAllLeafColumns()
+            .filter((c) => c.getCanHide())
+            .map((c) => (
+              <label key={c.id} className="flex items-center gap-2 py-0.5 text-sm text-ink">
+                <input
+                  type="checkbox"
+                  checked={c.getIsVisible()}
+                  onChange={c.getToggleVisibilityHandler()}
+                  className="accent-accent"
+                />
+                {COLUMN_LABELS[c.id as FigureColumn]}
+              </label>
+            ))}
+        </div>
+      </details>
+    </div>
+  );
+}
+
+/** The sortable table with its totals row and notes. */
+function CompareTable({
+  table,
+  totals,
+  notes,
+  units,
+}: {
+  table: Table<CompareRow>;
+  totals: CompareRow;
+  notes: Comparison['notes'];
+  units: UnitSystem;
+}) {
+  return (
+    <ScrollRegion label="Fleet comparison table">
+      <table className="figure w-full min-w-[760px] text-sm">
+        <thead className="border-b border-line-strong text-left text-xs uppercase tracking-wide text-ink-soft">
+          <tr>
+            {(table.getHeaderGroups()[0]?.headers ?? []).map((h) => (
+              <SortableHeader
+                key={h.id}
+                header={h}
+                className={`px-2 py-2 align-bottom font-medium ${(HIDEABLE as readonly string[]).includes(h.column.id) ? 'text-right' : ''} ${h.column.id === 'fleetName' ? 'sticky left-0 bg-paper-raised' : ''}`}
+                after={h.column.id === 'co2Kg' ? <sup aria-hidden>1</sup> : null}
+              />
+            ))}
+          </tr>
+        </thead>
+        <tbody>
+          {table.getRowModel().rows.map((row) => (
+            <tr key={row.id} className="border-b border-line">
+              {row.getVisibleCells().map((cell) => {
+                const id = cell.column.id;
+                const r = row.original;
+                const isFigure = (HIDEABLE as readonly string[]).includes(id);
+                return (
+                  <td
+                    key={cell.id}
+                    className={`px-2 py-2 align-top ${id === 'fleetName' ? 'sticky left-0 bg-paper-raised' : ''} ${isFigure ? 'whitespace-nowrap text-right' : 'whitespace-nowrap'} ${id === 'noxAboveKg' || id === 'shareAbove' ? 'text-strato-strong' : ''}`}
+                  >
+                    {id === 'fleetName' ? (
+                      <span
+                        className={`whitespace-nowrap ${r.fleetId === null ? 'italic text-ink-soft' : 'font-medium text-ink'}`}
+                      >
+                        {r.fleetName}
+                      </span>
+                    ) : id === 'month' ? (
+                      r.month ? (
+                        monthLabel(r.month)
+                      ) : (
+                        '–'
+                      )
+                    ) : id === 'aircraftCode' ? (
+                      r.aircraftCode
+                    ) : (
+                      render(id as FigureColumn, r, units)
+                    )}
+                  </td>
+                );
+              })}
+            </tr>
+          ))}
+        </tbody>
+        <tfoot>
+          <tr className="border-t-2 border-line-strong bg-paper-sunk font-semibold">
+            {table.getVisibleLeafColumns().map((c, i) => {
+              const isFigure = (HIDEABLE as readonly string[]).includes(c.id);
+              return (
+                <td
+                  key={c.id}
+                  className={`px-2 py-2 align-top ${i === 0 ? 'sticky left-0 bg-paper-sunk' : ''} ${isFigure ? 'whitespace-nowrap text-right' : 'whitespace-nowrap'}`}
+                >
+                  {i === 0 ? 'All fleets' : isFigure ? render(c.id as FigureColumn, totals, units) : ''}
+                </td>
+              );
+            })}
+          </tr>
+        </tfoot>
+      </table>
+      <ul className="mt-3 space-y-0.5 text-xs text-ink-soft">
+        <li>
+          <sup>1</sup> {notes.co2}
+        </li>
+        <li>{notes.ratios}</li>
+        <li>{notes.ozone}</li>
+        <li>
+          NOx is NO2-equivalent mass. Screened flights only; a flight counts in the fleet named in its schedule row,
+          else in its aircraft type&apos;s default fleet.
+        </li>
+      </ul>
+    </ScrollRegion>
   );
 }

@@ -1,14 +1,12 @@
 'use client';
 
 import { useState, useTransition } from 'react';
-import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { fleetCreateSchema, type FleetCreate } from '@/lib/validation/fleets';
 import type { ActionState } from '@/lib/errors';
 import { Button } from '@/components/ui/button';
 import { Field, TextInput } from '@/components/ui/field';
-import { Notice } from '@/components/ui/notice';
-import { applyServerErrors } from '@/components/ui/server-errors';
+import { FormNotice, useActionForm } from '@/components/ui/use-action-form';
 import { formatNumber } from '@/lib/format';
 
 export interface FleetItem {
@@ -36,30 +34,19 @@ interface Actions {
 }
 
 export function CreateFleetForm({ slug, action }: { slug: string; action: Action }) {
-  const [message, setMessage] = useState<{ tone: 'success' | 'danger'; text: string }>();
-  const form = useForm<FleetCreate>({
+  const { form, errors, pending, message, onSubmit } = useActionForm<FleetCreate, FleetCreate, unknown>({
     resolver: zodResolver(fleetCreateSchema),
     defaultValues: { name: '', description: '' },
-  });
-  const { errors, isSubmitting } = form.formState;
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage(undefined);
-    const state = await action(slug, values);
-    if (state?.ok) {
-      setMessage({ tone: 'success', text: state.message ?? 'Fleet created.' });
+    fields: ['name', 'description'],
+    action: (values) => action(slug, values),
+    onSuccess: (state) => {
       form.reset({ name: '', description: '' });
-    } else {
-      const text = applyServerErrors(state, form.setError, ['name', 'description']);
-      if (text) setMessage({ tone: 'danger', text });
-    }
+      return state.message ?? 'Fleet created.';
+    },
   });
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-3" aria-label="New fleet">
-      {message ? (
-        <Notice tone={message.tone} role="status">
-          {message.text}
-        </Notice>
-      ) : null}
+      <FormNotice message={message} />
       <Field id="fleet-name" label="Fleet name" error={errors.name?.message}>
         <TextInput
           id="fleet-name"
@@ -71,7 +58,7 @@ export function CreateFleetForm({ slug, action }: { slug: string; action: Action
       <Field id="fleet-description" label="Description (optional)" error={errors.description?.message}>
         <TextInput id="fleet-description" invalid={!!errors.description} {...form.register('description')} />
       </Field>
-      <Button type="submit" disabled={isSubmitting}>
+      <Button type="submit" disabled={pending}>
         Create fleet
       </Button>
     </form>
@@ -92,20 +79,24 @@ function FleetRow({
   const [editing, setEditing] = useState(false);
   const [pending, start] = useTransition();
   const [error, setError] = useState<string>();
-  const form = useForm<FleetCreate>({
+  const {
+    form,
+    errors,
+    pending: saving,
+    message,
+    setMessage,
+    onSubmit: onSave,
+  } = useActionForm<FleetCreate, FleetCreate, unknown>({
     resolver: zodResolver(fleetCreateSchema),
     defaultValues: { name: fleet.name, description: fleet.description },
+    fields: ['name', 'description'],
+    action: (values) => {
+      setError(undefined);
+      return actions.update(slug, { id: fleet.id, ...values });
+    },
+    onSuccess: () => setEditing(false),
   });
-  const { errors } = form.formState;
-  const onSave = form.handleSubmit(async (values) => {
-    setError(undefined);
-    const state = await actions.update(slug, { id: fleet.id, ...values });
-    if (state?.ok) setEditing(false);
-    else {
-      const text = applyServerErrors(state, form.setError, ['name', 'description']);
-      if (text) setError(text);
-    }
-  });
+  const shown = message?.tone === 'danger' ? message.text : error;
   const onDelete = () => {
     const moved = fleet.screenedFlights;
     const consequence = moved
@@ -114,6 +105,7 @@ function FleetRow({
     if (!confirm(`Delete the fleet “${fleet.name}”?${consequence}`)) return;
     start(async () => {
       setError(undefined);
+      setMessage(undefined);
       const state = await actions.remove(slug, { id: fleet.id });
       if (state && !state.ok) setError(state.error.message);
     });
@@ -138,7 +130,7 @@ function FleetRow({
             />
           </Field>
           <div className="flex gap-2">
-            <Button type="submit" disabled={form.formState.isSubmitting}>
+            <Button type="submit" disabled={saving}>
               Save
             </Button>
             <Button variant="ghost" onClick={() => setEditing(false)}>
@@ -170,9 +162,9 @@ function FleetRow({
           ) : null}
         </div>
       )}
-      {error ? (
+      {shown ? (
         <p role="alert" className="mt-1 text-xs font-medium text-danger">
-          {error}
+          {shown}
         </p>
       ) : null}
     </li>

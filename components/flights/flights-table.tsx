@@ -3,6 +3,7 @@ import type { FlightDto } from '@/db/flights';
 import type { UnitSystem } from '@/db/users';
 import { formatDistance, formatMass, formatMassRange, formatPercent } from '@/lib/format';
 import { ScrollRegion } from '@/components/ui/scroll-region';
+import { TableHead } from '@/components/ui/table-head';
 
 function cruise(f: FlightDto): string {
   return f.cruiseFl === f.maxFl ? `FL${f.cruiseFl}` : `FL${f.cruiseFl}–${f.maxFl}`;
@@ -25,43 +26,24 @@ export function FlightsTable({
     <ScrollRegion label="Flights and their screening figures, scrollable">
       <table className="w-full text-sm">
         <caption className="sr-only">Flights and their screening figures</caption>
-        <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
-          <tr className="border-b border-line">
-            <th scope="col" className="px-2 py-2">
-              Date
-            </th>
-            <th scope="col" className="px-2 py-2">
-              Flight
-            </th>
-            <th scope="col" className="px-2 py-2">
-              Route
-            </th>
-            <th scope="col" className="px-2 py-2">
-              Aircraft · fleet
-            </th>
-            <th scope="col" className="px-2 py-2">
-              Cruise
-            </th>
-            <th scope="col" className="px-2 py-2 text-right">
-              Distance
-            </th>
-            <th scope="col" className="px-2 py-2 text-right">
-              Fuel
-            </th>
-            <th scope="col" className="px-2 py-2 text-right">
-              NOx
-            </th>
-            <th scope="col" className="px-2 py-2 text-right">
-              NOx above
-            </th>
-            <th scope="col" className="px-2 py-2 text-right">
-              Share above
-            </th>
-            <th scope="col" className="px-2 py-2 text-right">
-              Ozone figure (range)
-            </th>
-          </tr>
-        </thead>
+        <TableHead
+          pad="px-2 py-2"
+          gap=""
+          rowClassName="border-b border-line"
+          columns={[
+            'Date',
+            'Flight',
+            'Route',
+            'Aircraft · fleet',
+            'Cruise',
+            { label: 'Distance', right: true },
+            { label: 'Fuel', right: true },
+            { label: 'NOx', right: true },
+            { label: 'NOx above', right: true },
+            { label: 'Share above', right: true },
+            { label: 'Ozone figure (range)', right: true },
+          ]}
+        />
         <tbody>
           {flights.map((f) => (
             <tr key={f.id} className="border-b border-line align-top last:border-0">

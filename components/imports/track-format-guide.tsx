@@ -1,5 +1,6 @@
 import { TRACK_COLUMN_DOCS, TRACK_IMPORT_LIMITS } from '@/lib/validation/track-import';
 import { ScrollRegion } from '@/components/ui/scroll-region';
+import { TableHead } from '@/components/ui/table-head';
 
 const MB = 1024 * 1024;
 
@@ -17,25 +18,11 @@ export function TrackFormatGuide({ templateHref, example }: { templateHref: stri
       <ScrollRegion label="Columns of a track file">
         <table className="w-full text-left text-sm">
           <caption className="sr-only">Columns of a track file</caption>
-          <thead className="text-xs uppercase tracking-wide text-ink-soft">
-            <tr>
-              <th scope="col" className="py-1.5 pr-3">
-                Column
-              </th>
-              <th scope="col" className="py-1.5 pr-3">
-                Required
-              </th>
-              <th scope="col" className="py-1.5 pr-3">
-                Unit
-              </th>
-              <th scope="col" className="py-1.5 pr-3">
-                Meaning
-              </th>
-              <th scope="col" className="py-1.5">
-                Example
-              </th>
-            </tr>
-          </thead>
+          <TableHead
+            className="text-xs uppercase tracking-wide text-ink-soft"
+            pad="py-1.5"
+            columns={['Column', 'Required', 'Unit', 'Meaning', 'Example']}
+          />
           <tbody>
             {TRACK_COLUMN_DOCS.map((c) => (
               <tr key={c.name} className="border-t border-line align-top">

@@ -1,13 +1,10 @@
 'use client';
 
-import { useRef, useState } from 'react';
-import { useRouter } from 'next/navigation';
-import { useMutation } from '@tanstack/react-query';
 import type { ImportProblem } from '@/lib/validation/imports';
 import { Button } from '@/components/ui/button';
-import { Field } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { ProblemsTable } from '@/components/ui/problems-table';
+import { CsvFileField, useCsvUpload } from './csv-file-field';
 
 type Outcome =
   | { kind: 'accepted'; flights: number; points: number }
@@ -57,56 +54,17 @@ async function upload(slug: string, file: File): Promise<Outcome> {
 
 /** Upload a flown-track file: every point is checked first; refused files list their problems by line and column. */
 export function TrackUploadForm({ slug }: { slug: string }) {
-  const router = useRouter();
-  const formRef = useRef<HTMLFormElement>(null);
-  const [file, setFile] = useState<File | null>(null);
-  const [missing, setMissing] = useState(false);
-  const mutation = useMutation({
-    mutationFn: (f: File) => upload(slug, f),
-    onSuccess: (o) => {
-      if (o.kind === 'accepted') {
-        formRef.current?.reset();
-        setFile(null);
-        router.refresh();
-      }
-    },
-  });
+  const { formRef, missing, mutation, onFile, onSubmit } = useCsvUpload((f: File) => upload(slug, f));
   const outcome = mutation.data;
   return (
-    <form
-      ref={formRef}
-      noValidate
-      className="space-y-4"
-      onSubmit={(e) => {
-        e.preventDefault();
-        if (!file) {
-          setMissing(true);
-          return;
-        }
-        mutation.mutate(file);
-      }}
-    >
-      <Field
+    <form ref={formRef} noValidate className="space-y-4" onSubmit={onSubmit((f) => f)}>
+      <CsvFileField
         id="track-file"
         label="Track file (CSV)"
         hint="Every point is checked before anything is saved; each flight is one billable unit once screened."
-        error={missing ? 'Choose a CSV file first.' : undefined}
-      >
-        <input
-          id="track-file"
-          name="file"
-          type="file"
-          accept=".csv,text/csv"
-          aria-invalid={missing || undefined}
-          aria-describedby={missing ? 'track-file-error' : 'track-file-hint'}
-          onChange={(e) => {
-            setFile(e.target.files?.[0] ?? null);
-            setMissing(false);
-            mutation.reset();
-          }}
-          className="block w-full text-sm text-ink file:mr-3 file:rounded-md file:border file:border-line-strong file:bg-paper-raised file:px-3 file:py-1.5 file:text-sm file:font-medium file:text-ink hover:file:bg-paper-sunk"
-        />
-      </Field>
+        missing={missing}
+        onFile={onFile}
+      />
       <Button type="submit" disabled={mutation.isPending}>
         {mutation.isPending ? 'Checking every point…' : 'Upload the tracks'}
       </Button>

@@ -1,16 +1,14 @@
 'use client';
 
-import { useRef, useState, type ReactNode } from 'react';
-import { useRouter } from 'next/navigation';
-import { useMutation } from '@tanstack/react-query';
+import type { ReactNode } from 'react';
 import type { ImportDto } from '@/db/imports';
 import type { ImportProblem } from '@/lib/validation/imports';
 import { Button } from '@/components/ui/button';
-import { Field } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { ProblemsTable } from '@/components/ui/problems-table';
 import { formatMoney } from '@/lib/format';
 import type { ImportEstimate } from '@/lib/billing/budget';
+import { CsvFileField, useCsvUpload } from './csv-file-field';
 
 /** The dry run's answer: what importing the file would cost, and notes on it. */
 type Estimate = ImportEstimate & { rows: number; warnings: ImportProblem[] };
@@ -116,58 +114,21 @@ function ConfirmImport({
 
 /** Upload a schedule: the whole file is checked first; on refusal the problems are listed by line and column. */
 export function UploadForm({ slug, aside }: { slug: string; aside?: ReactNode }) {
-  const router = useRouter();
-  const formRef = useRef<HTMLFormElement>(null);
-  const [file, setFile] = useState<File | null>(null);
-  const [missing, setMissing] = useState(false);
-  const mutation = useMutation({
-    mutationFn: ({ f, dryRun }: { f: File; dryRun: boolean }) => upload(slug, f, dryRun),
-    onSuccess: (outcome) => {
-      if (outcome.kind === 'accepted') {
-        formRef.current?.reset();
-        setFile(null);
-        router.refresh();
-      }
-    },
-  });
+  const { formRef, missing, mutation, onFile, onSubmit } = useCsvUpload(({ f, dryRun }: { f: File; dryRun: boolean }) =>
+    upload(slug, f, dryRun),
+  );
   const outcome = mutation.data;
   return (
-    <form
-      ref={formRef}
-      noValidate
-      className="space-y-4"
-      onSubmit={(e) => {
-        e.preventDefault();
-        if (!file) {
-          setMissing(true);
-          return;
-        }
-        mutation.mutate({ f: file, dryRun: true });
-      }}
-    >
+    <form ref={formRef} noValidate className="space-y-4" onSubmit={onSubmit((f) => ({ f, dryRun: true }))}>
       <div className="grid gap-6 md:grid-cols-2">
         <div className="space-y-4">
-          <Field
+          <CsvFileField
             id="schedule-file"
             label="Schedule file (CSV)"
             hint="Every row is checked before anything is saved."
-            error={missing ? 'Choose a CSV file first.' : undefined}
-          >
-            <input
-              id="schedule-file"
-              name="file"
-              type="file"
-              accept=".csv,text/csv"
-              aria-invalid={missing || undefined}
-              aria-describedby={missing ? 'schedule-file-error' : 'schedule-file-hint'}
-              onChange={(e) => {
-                setFile(e.target.files?.[0] ?? null);
-                setMissing(false);
-                mutation.reset();
-              }}
-              className="block w-full text-sm text-ink file:mr-3 file:rounded-md file:border file:border-line-strong file:bg-paper-raised file:px-3 file:py-1.5 file:text-sm file:font-medium file:text-ink hover:file:bg-paper-sunk"
-            />
-          </Field>
+            missing={missing}
+            onFile={onFile}
+          />
           <Button type="submit" disabled={mutation.isPending}>
             {mutation.isPending ? 'Checking every row…' : 'Check the file'}
           </Button>

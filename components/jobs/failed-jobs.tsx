@@ -5,6 +5,7 @@ import { useRouter } from 'next/navigation';
 import type { ActionState } from '@/lib/errors';
 import { formatDateTime, formatNumber } from '@/lib/format';
 import { Button } from '@/components/ui/button';
+import { TableHead } from '@/components/ui/table-head';
 
 export interface FailedJobRow {
   id: number;
@@ -38,25 +39,19 @@ export function FailedJobs({ jobs, onRetry }: { jobs: FailedJobRow[]; onRetry: (
     <div data-testid="failed-jobs">
       <table className="w-full text-left text-sm">
         <caption className="sr-only">Failed background jobs</caption>
-        <thead>
-          <tr className="text-xs text-ink-soft">
-            <th scope="col" className="py-1 pr-3 font-medium">
-              Job
-            </th>
-            <th scope="col" className="py-1 pr-3 font-medium">
-              Reason
-            </th>
-            <th scope="col" className="py-1 pr-3 font-medium">
-              Failed
-            </th>
-            <th scope="col" className="py-1 pr-3 text-right font-medium">
-              Attempts
-            </th>
-            <th scope="col" className="py-1 font-medium">
-              <span className="sr-only">Retry</span>
-            </th>
-          </tr>
-        </thead>
+        <TableHead
+          className=""
+          rowClassName="text-xs text-ink-soft"
+          pad="py-1"
+          cellClassName="font-medium"
+          columns={[
+            'Job',
+            'Reason',
+            'Failed',
+            { label: 'Attempts', right: true },
+            { label: <span className="sr-only">Retry</span> },
+          ]}
+        />
         <tbody>
           {jobs.map((j) => (
             <tr key={j.id} className="border-t border-line align-top">

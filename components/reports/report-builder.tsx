@@ -1,16 +1,13 @@
 'use client';
 
-import { useState } from 'react';
 import { useRouter } from 'next/navigation';
-import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import type { z } from 'zod';
 import { reportCreateSchema } from '@/lib/validation/reports';
 import type { ActionState } from '@/lib/errors';
 import { Button } from '@/components/ui/button';
 import { Field, TextInput } from '@/components/ui/field';
-import { Notice } from '@/components/ui/notice';
-import { applyServerErrors } from '@/components/ui/server-errors';
+import { FormNotice, useActionForm } from '@/components/ui/use-action-form';
 
 type Input = z.input<typeof reportCreateSchema>;
 type Output = z.output<typeof reportCreateSchema>;
@@ -25,33 +22,34 @@ interface Props {
 /** Period, fleets and a name; builds and stores the PDF and CSV, then opens the report. */
 export function ReportBuilder({ slug, fleets, defaults, action }: Props) {
   const router = useRouter();
-  const [message, setMessage] = useState<string>();
-  const form = useForm<Input, unknown, Output>({
+  const { form, errors, pending, message, onSubmit } = useActionForm<Input, Output, { id: number }>({
     resolver: zodResolver(reportCreateSchema),
     defaultValues: { name: '', from: defaults.from, to: defaults.to, fleetIds: defaults.fleetIds.map(String) },
-  });
-  const { errors, isSubmitting } = form.formState;
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage(undefined);
-    const state = await action(slug, values);
-    if (state?.ok && state.data) {
-      router.push(`/w/${slug}/reports/${state.data.id}`);
-      return;
-    }
-    const text = applyServerErrors(state, form.setError, ['name', 'from', 'to', 'fleetIds']);
-    if (text) setMessage(text);
-    else if (state && !state.ok && state.error.fields?.some((f) => f.path.startsWith('fleetIds.')))
-      setMessage('One of the chosen fleets no longer exists. Reload the page and choose again.');
+    fields: ['name', 'from', 'to', 'fleetIds'],
+    action: async (values) => {
+      const state = await action(slug, values);
+      // A fleet deleted since the page loaded comes back on `fleetIds.<n>`, which no field shows.
+      const staleFleet =
+        state && !state.ok && !state.error.message && state.error.fields?.some((f) => f.path.startsWith('fleetIds.'));
+      return staleFleet
+        ? {
+            ...state,
+            error: {
+              ...state.error,
+              message: 'One of the chosen fleets no longer exists. Reload the page and choose again.',
+            },
+          }
+        : state;
+    },
+    onSuccess: (state) => {
+      if (state.data) router.push(`/w/${slug}/reports/${state.data.id}`);
+    },
   });
   const fleetError =
     errors.fleetIds?.message ?? (Array.isArray(errors.fleetIds) ? 'Choose fleets from the list.' : undefined);
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4" aria-label="Build a fleet report">
-      {message ? (
-        <Notice tone="danger" role="alert">
-          {message}
-        </Notice>
-      ) : null}
+      <FormNotice message={message} />
       <div className="grid gap-4 sm:grid-cols-3">
         <Field id="report-from" label="Period from" error={errors.from?.message}>
           <TextInput id="report-from" type="date" invalid={!!errors.from} {...form.register('from')} />
@@ -86,8 +84,8 @@ export function ReportBuilder({ slug, fleets, defaults, action }: Props) {
         ) : null}
       </fieldset>
       <div className="flex items-center gap-3">
-        <Button type="submit" disabled={isSubmitting}>
-          {isSubmitting ? 'Building the report…' : 'Build report'}
+        <Button type="submit" disabled={pending}>
+          {pending ? 'Building the report…' : 'Build report'}
         </Button>
         <span className="text-xs text-ink-faint">The PDF uses your unit preference; the CSV is in kg and km.</span>
       </div>

@@ -3,6 +3,7 @@ import { findAirport } from '@/lib/screening';
 import type { ScreeningInput } from '@/lib/validation/screening';
 import type { ScreeningResult } from '@/lib/screening';
 import type { MapPoint } from '@/components/maps/route-map';
+import { MONTH_NAMES } from '@/lib/format';
 
 /**
  * The route's points for the map: airports by their ICAO code (IATA when it has none), coordinates as
@@ -37,21 +38,6 @@ export function cruiseLabel(input: ScreeningInput): string {
   if ('flightLevel' in input.cruise) return `FL${input.cruise.flightLevel}`;
   return input.cruise.steps.map((s) => `FL${s.flightLevel}`).join(' → ');
 }
-
-const MONTH_NAMES = [
-  'January',
-  'February',
-  'March',
-  'April',
-  'May',
-  'June',
-  'July',
-  'August',
-  'September',
-  'October',
-  'November',
-  'December',
-];
 
 /**
  * Which tropopause the figures used, for a result's header: the flight date, a named month ("January

@@ -12,22 +12,29 @@ export function TableHead({
   gap = 'pr-3',
   gapOnLast = false,
   className = 'text-left text-xs uppercase tracking-wide text-ink-soft',
+  rowClassName,
+  cellClassName,
 }: {
   columns: readonly HeadColumn[];
   pad?: string;
   gap?: string;
   gapOnLast?: boolean;
   className?: string;
+  /** Classes of the header row itself (a border under it, say). */
+  rowClassName?: string;
+  /** Classes every header cell carries after its alignment (a weight, say). */
+  cellClassName?: string;
 }) {
   return (
-    <thead className={className}>
-      <tr>
+    <thead className={className || undefined}>
+      <tr className={rowClassName}>
         {columns.map((c, i) => {
           const col = typeof c === 'string' ? { label: c } : c;
           const classes = [
             pad,
             gapOnLast || i < columns.length - 1 ? gap : '',
             col.right ? 'text-right' : '',
+            cellClassName,
             col.className,
           ];
           return (

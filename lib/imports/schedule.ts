@@ -125,23 +125,14 @@ function stepLabel(path: string, row: ScheduleRow): string {
   return s ? `Step ${i + 1} (${s.flightLevel}@${s.fromKm}): ` : '';
 }
 
-/** Checks one data row; returns its problems and, when there are none, the flight. */
-function checkRow(
-  line: number,
-  cells: ScheduleCells,
-  ctx: ScheduleContext,
-  seen: Map<string, number>,
-  distances: Map<string, number>,
-): { problems: ImportProblem[]; flight?: PreparedFlight; warning?: ImportProblem } {
-  const problems: ImportProblem[] = [];
-  const add = (column: string, message: string) => problems.push({ line, column, message });
-  const parsed = scheduleRowSchema.safeParse(cells);
-  if (!parsed.success) {
-    for (const issue of parsed.error.issues) add(String(issue.path[0] ?? ''), issue.message);
-    return { problems };
-  }
-  const row = parsed.data;
+type AddProblem = (column: string, message: string) => void;
 
+/** The row's aircraft type and fleet (named in the row, else the type's default fleet). */
+function checkAircraftAndFleet(
+  row: ScheduleRow,
+  ctx: ScheduleContext,
+  add: AddProblem,
+): { type: AircraftForScreening | undefined; fleetId: number | null } {
   const type = ctx.aircraft.get(row.aircraft);
   if (!type)
     add(
@@ -158,28 +149,42 @@ function checkRow(
       );
     else fleetId = fleet.id;
   }
-  const resolve = (code: string, column: 'origin' | 'destination'): string | null => {
-    const airport = findAirport(code);
-    if (!airport) {
-      add(column, `Unknown airport “${code}”: give the ICAO or IATA code of a medium or large airport.`);
-      return null;
-    }
-    if (!airport.icao) {
-      add(column, `${airport.name} (${code}) has no ICAO code in our airport data; it cannot be stored.`);
-      return null;
-    }
-    return airport.icao;
-  };
-  const origin = resolve(row.origin, 'origin');
-  const destination = resolve(row.destination, 'destination');
+  return { type, fleetId };
+}
+
+/** An airport code as the ICAO code to store, or null (with the problem added). */
+function resolveAirport(code: string, column: 'origin' | 'destination', add: AddProblem): string | null {
+  const airport = findAirport(code);
+  if (!airport) {
+    add(column, `Unknown airport “${code}”: give the ICAO or IATA code of a medium or large airport.`);
+    return null;
+  }
+  if (!airport.icao) {
+    add(column, `${airport.name} (${code}) has no ICAO code in our airport data; it cannot be stored.`);
+    return null;
+  }
+  return airport.icao;
+}
+
+/** Origin and destination, resolved and different. */
+function checkAirports(row: ScheduleRow, add: AddProblem): { origin: string | null; destination: string | null } {
+  const origin = resolveAirport(row.origin, 'origin', add);
+  const destination = resolveAirport(row.destination, 'destination', add);
   if (origin && destination && origin === destination) {
     add(
       'destination',
       `The destination is the origin airport (${origin}); a schedule row needs two different airports.`,
     );
   }
+  return { origin, destination };
+}
 
-  const emissionFromRow = row.ei_nox_g_per_kg !== undefined;
+/** The row's own EI NOx, else the aircraft type's emission data. */
+function emissionOfRow(
+  row: ScheduleRow,
+  type: AircraftForScreening | undefined,
+  add: AddProblem,
+): ScreeningInput['emission'] | null | undefined {
   const emission: ScreeningInput['emission'] | null | undefined =
     row.ei_nox_g_per_kg !== undefined ? { eiNoxGPerKg: row.ei_nox_g_per_kg } : type?.emission;
   if (type && !emission) {
@@ -188,6 +193,23 @@ function checkRow(
       `Aircraft type ${type.code} has neither engine data nor a direct EI NOx. Add one under Engines & aircraft, or give ei_nox_g_per_kg.`,
     );
   }
+  return emission;
+}
+
+/**
+ * The screening input the row makes, checked by the engine's own validation; a flight-plan route is
+ * read into waypoints with the workspace's library. Problems are reported by CSV column.
+ */
+function screeningInputOfRow(
+  row: ScheduleRow,
+  airports: { origin: string | null; destination: string | null },
+  type: AircraftForScreening | undefined,
+  emission: ScreeningInput['emission'] | null | undefined,
+  library: RouteLibrary | undefined,
+  add: AddProblem,
+): { input?: ScreeningInput; waypoints?: { lat: number; lon: number }[] } {
+  const { origin, destination } = airports;
+  const emissionFromRow = row.ei_nox_g_per_kg !== undefined;
   const cruise = row.steps?.length ? { steps: row.steps } : { flightLevel: row.cruise_fl };
   const raw = {
     route:
@@ -205,7 +227,7 @@ function checkRow(
   try {
     input = validateScreeningInput(raw);
     if (origin && destination && 'flightPlan' in input.route) {
-      const expanded = expandFlightPlanInput(input, ctx.library);
+      const expanded = expandFlightPlanInput(input, library);
       const unresolved = expanded.flightPlan?.unresolved ?? [];
       if (unresolved.length > 0) {
         add(
@@ -225,6 +247,65 @@ function checkRow(
       add(column, `${stepLabel(f.path, row)}${f.message}`);
     }
   }
+  return { input, waypoints };
+}
+
+/**
+ * Fuel against the route's distance (the great circle, cached per pair, or the flight plan's points),
+ * per aircraft type where its engine is known: impossible fuel is a problem, unusual fuel a warning.
+ */
+function checkRowFuel(
+  line: number,
+  input: ScreeningInput,
+  pair: string,
+  waypoints: { lat: number; lon: number }[] | undefined,
+  emission: ScreeningInput['emission'] | null | undefined,
+  type: AircraftForScreening | undefined,
+  distances: Map<string, number>,
+  add: AddProblem,
+): ImportProblem | undefined {
+  let distanceKm = waypoints === undefined ? distances.get(pair) : undefined;
+  if (distanceKm === undefined) {
+    distanceKm = routeDistanceKm(input.route && 'waypoints' in input.route ? input.route.waypoints : []);
+    if (waypoints === undefined) distances.set(pair, distanceKm);
+  }
+  const engine =
+    emission && 'engine' in emission
+      ? { fuelFlowKgS: emission.engine.fuelFlowKgS, engineCount: emission.engineCount }
+      : null;
+  const p = checkFuelPlausibility({
+    distanceKm,
+    fuelKg: input.fuelBurnKg,
+    engine,
+    mach: input.mach,
+    aircraftCode: type?.code,
+  });
+  if (p.level === 'impossible') add('fuel_kg', p.message);
+  else if (p.level === 'unusual') return { line, column: 'fuel_kg', message: p.message };
+  return undefined;
+}
+
+/** Checks one data row; returns its problems and, when there are none, the flight. */
+function checkRow(
+  line: number,
+  cells: ScheduleCells,
+  ctx: ScheduleContext,
+  seen: Map<string, number>,
+  distances: Map<string, number>,
+): { problems: ImportProblem[]; flight?: PreparedFlight; warning?: ImportProblem } {
+  const problems: ImportProblem[] = [];
+  const add: AddProblem = (column, message) => problems.push({ line, column, message });
+  const parsed = scheduleRowSchema.safeParse(cells);
+  if (!parsed.success) {
+    for (const issue of parsed.error.issues) add(String(issue.path[0] ?? ''), issue.message);
+    return { problems };
+  }
+  const row = parsed.data;
+
+  const { type, fleetId } = checkAircraftAndFleet(row, ctx, add);
+  const { origin, destination } = checkAirports(row, add);
+  const emission = emissionOfRow(row, type, add);
+  const { input, waypoints } = screeningInputOfRow(row, { origin, destination }, type, emission, ctx.library, add);
 
   if (origin && destination) {
     const key = flightKey({ date: row.date, flight: row.flight, origin, destination });
@@ -236,27 +317,7 @@ function checkRow(
 
   let warning: ImportProblem | undefined;
   if (input && origin && destination && origin !== destination) {
-    // Fuel against the route's distance (the great circle, cached per pair, or the flight plan's
-    // points), per aircraft type where its engine is known.
-    const pair = `${origin}-${destination}`;
-    let distanceKm = waypoints === undefined ? distances.get(pair) : undefined;
-    if (distanceKm === undefined) {
-      distanceKm = routeDistanceKm(input.route && 'waypoints' in input.route ? input.route.waypoints : []);
-      if (waypoints === undefined) distances.set(pair, distanceKm);
-    }
-    const engine =
-      emission && 'engine' in emission
-        ? { fuelFlowKgS: emission.engine.fuelFlowKgS, engineCount: emission.engineCount }
-        : null;
-    const p = checkFuelPlausibility({
-      distanceKm,
-      fuelKg: input.fuelBurnKg,
-      engine,
-      mach: input.mach,
-      aircraftCode: type?.code,
-    });
-    if (p.level === 'impossible') add('fuel_kg', p.message);
-    else if (p.level === 'unusual') warning = { line, column: 'fuel_kg', message: p.message };
+    warning = checkRowFuel(line, input, `${origin}-${destination}`, waypoints, emission, type, distances, add);
   }
 
   if (problems.length || !input || !type || !origin || !destination || !emission) return { problems };

@@ -1,3 +1,5 @@
+import { MONTH_NAMES } from '@/lib/format';
+
 /**
  * Reporting periods by reference: `2026` (a year), `2026-Q4` (a quarter), `2026-11` (a month), or
  * `c12` (the custom period with id 12). Calendar periods exist for every year without being stored;
@@ -21,21 +23,6 @@ export interface CalendarPeriod {
   to: string;
 }
 
-const MONTHS = [
-  'January',
-  'February',
-  'March',
-  'April',
-  'May',
-  'June',
-  'July',
-  'August',
-  'September',
-  'October',
-  'November',
-  'December',
-];
-
 const pad = (n: number) => String(n).padStart(2, '0');
 
 function lastDay(year: number, month: number): string {
@@ -47,7 +34,7 @@ export function monthPeriod(year: number, month: number): CalendarPeriod {
   return {
     ref: `${year}-${pad(month)}`,
     kind: 'month',
-    name: `${MONTHS[month - 1]} ${year}`,
+    name: `${MONTH_NAMES[month - 1]} ${year}`,
     from: `${year}-${pad(month)}-01`,
     to: lastDay(year, month),
   };
@@ -98,7 +85,7 @@ export function calendarPeriodsOfYear(year: number): CalendarPeriod[] {
   return [
     yearPeriod(year),
     ...[1, 2, 3, 4].map((q) => quarterPeriod(year, q)),
-    ...MONTHS.map((_, i) => monthPeriod(year, i + 1)),
+    ...MONTH_NAMES.map((_, i) => monthPeriod(year, i + 1)),
   ];
 }
 

@@ -497,21 +497,9 @@ export interface ReportPdfText {
   sources: string[];
 }
 
-/** Renders the stored report summary as a PDF (A4, standard fonts, vector charts). */
-export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Promise<Uint8Array> {
-  const pdf = await PDFDocument.create();
-  pdf.setTitle(toWinAnsi(s.title));
-  pdf.setSubject(toWinAnsi(`Fleet report ${s.period.from} to ${s.period.to}`));
-  pdf.setProducer('Tropopass');
-  pdf.setCreator('Tropopass');
-  pdf.setCreationDate(new Date(s.generatedAt));
-  const [regular, bold] = await Promise.all([
-    pdf.embedFont(StandardFonts.Helvetica),
-    pdf.embedFont(StandardFonts.HelveticaBold),
-  ]);
-  const w = new Writer(pdf, regular, bold);
+/** The title, what the report covers (workspace, period, fleets, units, engine version) and the caution box. */
+function writeTitleBlock(w: Writer, s: ReportSummary): void {
   const units = s.units;
-
   w.at('Tropopass fleet report', MARGIN, w.y - 9, { size: 9, bold: true, color: STRATO });
   w.y -= 16;
   w.paragraph(s.title, { size: 18, bold: true, gap: 6 });
@@ -542,7 +530,11 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
   }
   w.y -= 8;
   w.box('Screening estimate - read before use', s.cautions, { fill: CAUTION_SOFT, edge: CAUTION });
+}
 
+/** All fleets together: one figure a row. */
+function writeTotals(w: Writer, s: ReportSummary): void {
+  const units = s.units;
   w.heading('Totals');
   const t = s.totals;
   const totalsRows: string[][] = [
@@ -569,7 +561,12 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
     { size: 8.5 },
   );
   w.paragraph(s.notes.ratios, { size: 7.5, color: INK_SOFT });
+}
 
+/** The figures per fleet with an all-fleets row, then the ozone-loss figure with its range. */
+function writePerFleet(w: Writer, s: ReportSummary): void {
+  const units = s.units;
+  const t = s.totals;
   w.heading('Per fleet', 120);
   const perFleetRows = [...s.perFleet.map((r) => figureRow(r, units, r.fleetName)), figureRow(t, units, 'All fleets')];
   w.table(FIGURE_COLUMNS(units), perFleetRows, { strong: new Set([perFleetRows.length - 1]) });
@@ -593,7 +590,11 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
     ozoneRows,
     { strong: new Set([ozoneRows.length - 1]) },
   );
+}
 
+/** How sure: 5-95 % of each total from correlated sampling, when the sampling has run. */
+function writePercentiles(w: Writer, s: ReportSummary): void {
+  const units = s.units;
   const band = s.percentiles;
   if (band) {
     w.paragraph('How sure: 5-95 % of each total from correlated sampling', { size: 8.5, bold: true });
@@ -620,7 +621,11 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
       { size: 7.5, color: INK_SOFT },
     );
   }
+}
 
+/** The flights accepted with a fuel warning, when there are any. */
+function writeFuelWarnings(w: Writer, s: ReportSummary): void {
+  const t = s.totals;
   const warned = s.fuelWarnings;
   if (warned && warned.count > 0) {
     w.heading('Flights with unusual fuel');
@@ -638,7 +643,11 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
       warned.items.map((f) => [f.date, f.flight, `${f.origin}-${f.destination}`, f.warning]),
     );
   }
+}
 
+/** Monthly charts (NOx above the tropopause, its share) and the table per fleet and month. */
+function writeByMonth(w: Writer, s: ReportSummary): void {
+  const units = s.units;
   w.heading('By month', 240);
   const maxMonthly = Math.max(0, ...s.series.flatMap((x) => x.noxAboveKg));
   const axis = massAxisUnit(maxMonthly, units);
@@ -692,7 +701,11 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
   } else {
     w.paragraph('No screened flights of these fleets in this period.', { size: 9, color: INK_SOFT });
   }
+}
 
+/** Fleet-scale context: annualised NOx above the tropopause against published model studies. */
+function writeContext(w: Writer, s: ReportSummary): void {
+  const units = s.units;
   w.heading('Fleet-scale context');
   w.paragraph(s.context.method, { size: 8, color: INK_SOFT });
   for (const c of [...s.context.fleets, s.context.total]) {
@@ -702,6 +715,29 @@ export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Pr
     );
     w.bullets(contextLines(c, units), 8);
   }
+}
+
+/** Renders the stored report summary as a PDF (A4, standard fonts, vector charts). */
+export async function renderReportPdf(s: ReportSummary, text: ReportPdfText): Promise<Uint8Array> {
+  const pdf = await PDFDocument.create();
+  pdf.setTitle(toWinAnsi(s.title));
+  pdf.setSubject(toWinAnsi(`Fleet report ${s.period.from} to ${s.period.to}`));
+  pdf.setProducer('Tropopass');
+  pdf.setCreator('Tropopass');
+  pdf.setCreationDate(new Date(s.generatedAt));
+  const [regular, bold] = await Promise.all([
+    pdf.embedFont(StandardFonts.Helvetica),
+    pdf.embedFont(StandardFonts.HelveticaBold),
+  ]);
+  const w = new Writer(pdf, regular, bold);
+
+  writeTitleBlock(w, s);
+  writeTotals(w, s);
+  writePerFleet(w, s);
+  writePercentiles(w, s);
+  writeFuelWarnings(w, s);
+  writeByMonth(w, s);
+  writeContext(w, s);
 
   w.heading('Method and assumptions');
   w.bullets(text.method);

@@ -290,30 +290,43 @@ function fixIndex(fixes: readonly FlightPlanFix[]): Map<string, FlightPlanWaypoi
   return byName;
 }
 
-/**
- * Reads the route of an ICAO flight plan (Doc 4444 Appendix 2, item 15) into waypoints, a step-climb
- * cruise and speeds.
- *
- * Understood: the initial speed/level group and changes at a point (`POINT/N0480F350`; N knots,
- * M Mach, K km/h; F flight level, S standard metric level in tens of metres, A altitude in hundreds of
- * feet, M altitude in tens of metres, the metric and altitude forms screened at the nearest flight
- * level with a note); cruise climbs (`C/POINT/M082F290F350`, flown at the first level with a note);
- * `VFR`/`IFR` (noted); `DCT`; coordinates (`46N078W`, `4620N07805W`, and seconds with a note); a
- * bearing (magnetic, applied as true with a note) and distance in NM from a known point
- * (`DUB180040`); named points from `fixes` (same-named points: the one making the shortest detour
- * between its neighbours, with a note); airways between two points, through `airways` where the
- * library has the airway and both points, otherwise a great circle with a note; SID and STAR
- * designators and `DCT` at either end (ignored with a note); `T` (truncated route, noted).
- *
- * `from`/`to` (ICAO or IATA) are the first and last waypoints. Level changes become steps at the
- * cumulative great-circle distance (km, mean sphere, as the screening measures it) of their point;
- * the initial level starts at 0 km. Items that cannot be placed are in `unresolved` with their
- * 0-based character offset and a reason; this function never throws on text.
- */
-export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = {}): FlightPlanRoute {
-  const notes: string[] = [];
-  const unresolved: UnresolvedItem[] = [];
-  const items: FlightPlanItem[] = [];
+/** What the parse collects as it reads: notes, items that cannot be placed, and every item's reading. */
+interface ParseOutput {
+  notes: string[];
+  unresolved: UnresolvedItem[];
+  items: FlightPlanItem[];
+}
+
+/** The named points and airways the route is read against, by upper-case name. */
+interface RouteLookup {
+  fixes: readonly FlightPlanFix[];
+  byName: Map<string, FlightPlanWaypoint[]>;
+  airwaysByName: Map<string, readonly string[]>;
+}
+
+/** The aerodromes at the two ends, as given and as placed. */
+interface RouteEnds {
+  origin: FlightPlanWaypoint | null;
+  destination: FlightPlanWaypoint | null;
+  from: string | undefined;
+  to: string | undefined;
+}
+
+/** Where the first pass stands between items. */
+interface ClassifyState {
+  points: PendingPoint[];
+  pendingAirway: AirwayEntry | null;
+  lastWasPoint: boolean;
+}
+
+/** One item of the route body and whether it is the first or last. */
+interface BodyItem {
+  tok: Token;
+  isFirst: boolean;
+  isLast: boolean;
+}
+
+function routeLookupOf(options: FlightPlanOptions): RouteLookup {
   const lib: RouteLibrary = Array.isArray(options.fixes)
     ? { fixes: options.fixes }
     : ((options.fixes as RouteLibrary | undefined) ?? {});
@@ -325,286 +338,326 @@ export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = 
       a.fixes.map((f) => f.trim().toUpperCase()),
     );
   }
-  const tokens = tokenise(typeof text === 'string' ? text : '');
+  return { fixes: lib.fixes ?? [], byName, airwaysByName };
+}
 
-  const airport = (code: string | undefined, role: 'departure' | 'destination'): FlightPlanWaypoint | null => {
-    if (code === undefined || code.trim() === '') return null;
-    const a = findAirport(code);
-    if (a === null) {
-      unresolved.push({
-        item: code.trim().toUpperCase(),
-        position: null,
-        reason: `The ${role} aerodrome ${code.trim().toUpperCase()} is not a known ICAO or IATA code.`,
-      });
-      return null;
-    }
-    return { lat: a.lat, lon: a.lon, name: a.icao ?? a.iata ?? code.trim().toUpperCase() };
-  };
-  const origin = airport(options.from, 'departure');
-  const destination = airport(options.to, 'destination');
-
-  let initial: SpeedLevel | null = null;
-  let start = 0;
-  if (tokens.length === 0) {
+/** An aerodrome given beside the route (departure or destination), or null with the reason recorded. */
+function routeAirport(
+  code: string | undefined,
+  role: 'departure' | 'destination',
+  unresolved: UnresolvedItem[],
+): FlightPlanWaypoint | null {
+  if (code === undefined || code.trim() === '') return null;
+  const a = findAirport(code);
+  if (a === null) {
     unresolved.push({
+      item: code.trim().toUpperCase(),
+      position: null,
+      reason: `The ${role} aerodrome ${code.trim().toUpperCase()} is not a known ICAO or IATA code.`,
+    });
+    return null;
+  }
+  return { lat: a.lat, lon: a.lon, name: a.icao ?? a.iata ?? code.trim().toUpperCase() };
+}
+
+/** The speed and level group the route begins with, and where the body starts after it. */
+function readInitialSpeedLevel(tokens: Token[], out: ParseOutput): { initial: SpeedLevel | null; start: number } {
+  if (tokens.length === 0) {
+    out.unresolved.push({
       item: '',
       position: 0,
       reason: 'The route is empty: it needs at least a speed and level group.',
     });
-  } else {
-    const first = tokens[0];
-    const sl = parseSpeedLevel(first.text);
-    if (typeof sl === 'string') {
-      if (/^[NMK]\d/.test(first.text)) {
-        unresolved.push({ item: first.text, position: first.position, reason: `${first.text} ${sl}` });
-        items.push({
-          item: first.text,
-          position: first.position,
-          kind: 'speed-level',
-          status: 'not-found',
-          detail: sl,
-        });
-        start = 1;
-      } else {
-        unresolved.push({
-          item: first.text,
-          position: first.position,
-          reason:
-            'The route must begin with the cruising speed and level, such as N0480F350: none was found, so no level is taken from the text.',
-        });
-      }
-    } else {
-      initial = sl;
-      notes.push(...sl.notes);
-      items.push({
-        item: first.text,
-        position: first.position,
-        kind: 'speed-level',
-        status: 'read',
-        detail: describeSpeedLevel(sl),
-      });
-      start = 1;
-    }
+    return { initial: null, start: 0 };
   }
+  const first = tokens[0];
+  const sl = parseSpeedLevel(first.text);
+  if (typeof sl !== 'string') {
+    out.notes.push(...sl.notes);
+    out.items.push({
+      item: first.text,
+      position: first.position,
+      kind: 'speed-level',
+      status: 'read',
+      detail: describeSpeedLevel(sl),
+    });
+    return { initial: sl, start: 1 };
+  }
+  if (/^[NMK]\d/.test(first.text)) {
+    out.unresolved.push({ item: first.text, position: first.position, reason: `${first.text} ${sl}` });
+    out.items.push({
+      item: first.text,
+      position: first.position,
+      kind: 'speed-level',
+      status: 'not-found',
+      detail: sl,
+    });
+    return { initial: null, start: 1 };
+  }
+  out.unresolved.push({
+    item: first.text,
+    position: first.position,
+    reason:
+      'The route must begin with the cruising speed and level, such as N0480F350: none was found, so no level is taken from the text.',
+  });
+  return { initial: null, start: 0 };
+}
 
-  // Pass 1: classify every item; points keep their candidates until names are settled.
-  const points: PendingPoint[] = [];
-  let pendingAirway: AirwayEntry | null = null;
-  let lastWasPoint = false;
-  const body = tokens.slice(start);
-  for (let k = 0; k < body.length; k++) {
-    const tok = body[k];
-    const t = tok.text;
-    const isFirst = k === 0;
-    const isLast = k === body.length - 1;
-    const lastPoint = points.length > 0 ? points[points.length - 1] : null;
+/** An airway still waiting for its exit point when something else comes: it cannot be placed. */
+function dropPendingAirway(st: ClassifyState, out: ParseOutput): void {
+  if (st.pendingAirway === null) return;
+  out.unresolved.push({
+    item: st.pendingAirway.token.text,
+    position: st.pendingAirway.token.position,
+    reason: `The airway ${st.pendingAirway.token.text} must be followed by the point where the route leaves it.`,
+  });
+  markAirway(out.items, st.pendingAirway, 'not-found', 'No exit point follows it.');
+  st.pendingAirway = null;
+}
 
-    if (t === 'DCT') {
-      if (isFirst || isLast) {
-        notes.push(
-          `DCT at the ${isFirst ? 'start' : 'end'} of the route is ignored: the route joins the aerodrome directly.`,
-        );
-        items.push({
-          item: t,
-          position: tok.position,
-          kind: 'direct',
-          status: 'ignored',
-          detail: `Direct at the ${isFirst ? 'start' : 'end'} of the route.`,
-        });
-      } else {
-        items.push({
-          item: t,
-          position: tok.position,
-          kind: 'direct',
-          status: 'read',
-          detail: 'Direct to the next point.',
-        });
-      }
-      if (pendingAirway !== null) {
-        unresolved.push({
-          item: pendingAirway.token.text,
-          position: pendingAirway.token.position,
-          reason: `The airway ${pendingAirway.token.text} must be followed by the point where the route leaves it.`,
-        });
-        markAirway(items, pendingAirway, 'not-found', 'No exit point follows it.');
-        pendingAirway = null;
-      }
-      lastWasPoint = false;
-      continue;
-    }
-    if (t === 'VFR' || t === 'IFR') {
-      notes.push(
-        `${t} at offset ${tok.position}: flight rules change to ${t}; the screening keeps the cruise level and route.`,
+/** DCT, a change of flight rules, an aerodrome written at an end, or T for truncated: true when it was one. */
+function readMarker(b: BodyItem, st: ClassifyState, ends: RouteEnds, out: ParseOutput): boolean {
+  const { tok, isFirst, isLast } = b;
+  const t = tok.text;
+  if (t === 'DCT') {
+    if (isFirst || isLast) {
+      out.notes.push(
+        `DCT at the ${isFirst ? 'start' : 'end'} of the route is ignored: the route joins the aerodrome directly.`,
       );
-      items.push({
+      out.items.push({
         item: t,
         position: tok.position,
-        kind: 'flight-rules',
-        status: 'read',
-        detail: `Flight rules change to ${t}.`,
+        kind: 'direct',
+        status: 'ignored',
+        detail: `Direct at the ${isFirst ? 'start' : 'end'} of the route.`,
       });
-      continue;
+    } else {
+      out.items.push({
+        item: t,
+        position: tok.position,
+        kind: 'direct',
+        status: 'read',
+        detail: 'Direct to the next point.',
+      });
     }
-    const endAerodrome = isFirst ? origin : isLast ? destination : null;
-    if (
-      endAerodrome !== null &&
-      (t === endAerodrome.name || t === (isFirst ? options.from : options.to)?.trim().toUpperCase())
-    ) {
-      notes.push(
-        `${t}: the ${isFirst ? 'departure' : 'destination'} aerodrome written in the route is ignored; it is already the ${isFirst ? 'first' : 'last'} point.`,
-      );
-      items.push({
+    dropPendingAirway(st, out);
+    st.lastWasPoint = false;
+    return true;
+  }
+  if (t === 'VFR' || t === 'IFR') {
+    out.notes.push(
+      `${t} at offset ${tok.position}: flight rules change to ${t}; the screening keeps the cruise level and route.`,
+    );
+    out.items.push({
+      item: t,
+      position: tok.position,
+      kind: 'flight-rules',
+      status: 'read',
+      detail: `Flight rules change to ${t}.`,
+    });
+    return true;
+  }
+  const endAerodrome = isFirst ? ends.origin : isLast ? ends.destination : null;
+  if (
+    endAerodrome !== null &&
+    (t === endAerodrome.name || t === (isFirst ? ends.from : ends.to)?.trim().toUpperCase())
+  ) {
+    out.notes.push(
+      `${t}: the ${isFirst ? 'departure' : 'destination'} aerodrome written in the route is ignored; it is already the ${isFirst ? 'first' : 'last'} point.`,
+    );
+    out.items.push({
+      item: t,
+      position: tok.position,
+      kind: 'other',
+      status: 'ignored',
+      detail: `The ${isFirst ? 'departure' : 'destination'} aerodrome.`,
+    });
+    return true;
+  }
+  if (t === 'T' && isLast) {
+    out.notes.push('T: the route is truncated here; the route continues to the destination as a great circle.');
+    out.items.push({ item: t, position: tok.position, kind: 'other', status: 'ignored', detail: 'Truncated route.' });
+    return true;
+  }
+  return false;
+}
+
+/**
+ * Splits POINT/SPEEDLEVEL and the cruise climb C/POINT/SPEED LEVEL LEVEL|PLUS into the point and its
+ * change; null (recorded) when the change cannot be read.
+ */
+function readChange(
+  tok: Token,
+  st: ClassifyState,
+  out: ParseOutput,
+): { pointText: string; changeText: string | null; change: SpeedLevel | null; cruiseClimb: string | null } | null {
+  const t = tok.text;
+  let pointText = t;
+  let changeText: string | null = null;
+  let cruiseClimb: string | null = null;
+  if (t.startsWith('C/')) {
+    const parts = t.split('/');
+    const cc = parts.length === 3 ? CRUISE_CLIMB_RE.exec(parts[2]) : null;
+    if (cc === null) {
+      out.unresolved.push({
+        item: t,
+        position: tok.position,
+        reason: 'A cruise climb is written C/point/speed-level-level, such as C/48N050W/M082F290F350.',
+      });
+      out.items.push({
         item: t,
         position: tok.position,
         kind: 'other',
-        status: 'ignored',
-        detail: `The ${isFirst ? 'departure' : 'destination'} aerodrome.`,
+        status: 'not-found',
+        detail: 'Unreadable cruise climb.',
       });
-      continue;
+      st.lastWasPoint = false;
+      return null;
     }
-    if (t === 'T' && isLast) {
-      notes.push('T: the route is truncated here; the route continues to the destination as a great circle.');
-      items.push({ item: t, position: tok.position, kind: 'other', status: 'ignored', detail: 'Truncated route.' });
-      continue;
-    }
+    pointText = parts[1];
+    changeText = `${cc[1]}${cc[2]}`;
+    cruiseClimb = cc[3];
+  } else if (t.includes('/')) {
+    const slash = t.indexOf('/');
+    pointText = t.slice(0, slash);
+    changeText = t.slice(slash + 1);
+  }
 
-    // Cruise climb: C/POINT/SPEED LEVEL LEVEL|PLUS.
-    let pointText = t;
-    let changeText: string | null = null;
-    let cruiseClimb: string | null = null;
-    if (t.startsWith('C/')) {
-      const parts = t.split('/');
-      const cc = parts.length === 3 ? CRUISE_CLIMB_RE.exec(parts[2]) : null;
-      if (cc === null) {
-        unresolved.push({
-          item: t,
-          position: tok.position,
-          reason: 'A cruise climb is written C/point/speed-level-level, such as C/48N050W/M082F290F350.',
-        });
-        items.push({
-          item: t,
-          position: tok.position,
-          kind: 'other',
-          status: 'not-found',
-          detail: 'Unreadable cruise climb.',
-        });
-        lastWasPoint = false;
-        continue;
-      }
-      pointText = parts[1];
-      changeText = `${cc[1]}${cc[2]}`;
-      cruiseClimb = cc[3];
-    } else if (t.includes('/')) {
-      const slash = t.indexOf('/');
-      pointText = t.slice(0, slash);
-      changeText = t.slice(slash + 1);
-    }
-
-    let change: SpeedLevel | null = null;
-    if (changeText !== null) {
-      const sl = parseSpeedLevel(changeText);
-      if (typeof sl === 'string') {
-        unresolved.push({ item: t, position: tok.position, reason: `The change ${changeText} ${sl}` });
-        items.push({
-          item: t,
-          position: tok.position,
-          kind: 'speed-level',
-          status: 'not-found',
-          detail: `${changeText} ${sl}`,
-        });
-        lastWasPoint = false;
-        continue;
-      }
-      change = sl;
-    }
-
-    const point = classifyPoint(pointText, byName, airwaysByName, changeText !== null);
-    if (point === null) {
-      // Not a point: a procedure at either end, an airway in between, or an item not understood.
-      if ((isFirst || isLast) && PROCEDURE_RE.test(t) && !airwaysByName.has(t) && !byName.has(t)) {
-        const what = isFirst ? 'SID' : 'STAR';
-        notes.push(
-          `${t}: ${what} ignored; the route is taken ${isFirst ? 'from the departure aerodrome to the first point' : 'from the last point to the destination'} as a great circle.`,
-        );
-        items.push({
-          item: t,
-          position: tok.position,
-          kind: 'procedure',
-          status: 'ignored',
-          detail: `${what}: flown as a great circle.`,
-        });
-        continue;
-      }
-      if (AIRWAY_RE.test(t) && !isFirst) {
-        if (!lastWasPoint) {
-          unresolved.push({
-            item: t,
-            position: tok.position,
-            reason: `The airway ${t} does not follow a point, so where the route joins it is not known.`,
-          });
-          items.push({
-            item: t,
-            position: tok.position,
-            kind: 'airway',
-            status: 'not-found',
-            detail: 'No point before it.',
-          });
-          continue;
-        }
-        pendingAirway = { token: tok, from: lastPoint };
-        items.push({ item: t, position: tok.position, kind: 'airway', status: 'read', detail: '' });
-        lastWasPoint = false;
-        continue;
-      }
-      unresolved.push({
+  let change: SpeedLevel | null = null;
+  if (changeText !== null) {
+    const sl = parseSpeedLevel(changeText);
+    if (typeof sl === 'string') {
+      out.unresolved.push({ item: t, position: tok.position, reason: `The change ${changeText} ${sl}` });
+      out.items.push({
         item: t,
         position: tok.position,
-        reason: `${t} is not a speed/level group, point, coordinate, airway or DCT that the route can read.`,
+        kind: 'speed-level',
+        status: 'not-found',
+        detail: `${changeText} ${sl}`,
       });
-      items.push({ item: t, position: tok.position, kind: 'other', status: 'not-found', detail: 'Not understood.' });
-      lastWasPoint = false;
-      continue;
+      st.lastWasPoint = false;
+      return null;
     }
-    if (typeof point === 'string') {
-      unresolved.push({ item: t, position: tok.position, reason: point });
-      items.push({ item: t, position: tok.position, kind: 'point', status: 'not-found', detail: point });
-      if (pendingAirway !== null) {
-        unresolved.push({
-          item: pendingAirway.token.text,
-          position: pendingAirway.token.position,
-          reason: `The airway ${pendingAirway.token.text} leads to ${pointText}, which cannot be placed.`,
-        });
-        markAirway(items, pendingAirway, 'not-found', `Its exit point ${pointText} is not known.`);
-        pendingAirway = null;
-      }
-      // A point that cannot be placed still separates items: what follows joins the last known point.
-      lastWasPoint = false;
-      continue;
-    }
-    const pending: PendingPoint = {
-      token: tok,
-      name: pointText,
-      candidates: point.candidates,
-      viaAirway: pendingAirway,
-      change,
-      cruiseClimb,
-    };
-    for (const n of point.notes) notes.push(n);
-    points.push(pending);
-    items.push({ item: t, position: tok.position, kind: point.kind, status: point.status, detail: point.detail });
-    pendingAirway = null;
-    lastWasPoint = true;
+    change = sl;
   }
-  if (pendingAirway !== null) {
-    unresolved.push({
-      item: pendingAirway.token.text,
-      position: pendingAirway.token.position,
-      reason: `The airway ${pendingAirway.token.text} must be followed by the point where the route leaves it.`,
-    });
-    markAirway(items, pendingAirway, 'not-found', 'No exit point follows it.');
-  }
+  return { pointText, changeText, change, cruiseClimb };
+}
 
-  // Pass 2: settle same-named points (shortest detour between neighbours), bearings, airways.
+/** Not a point: a procedure at either end, an airway in between, or an item not understood. */
+function readNonPoint(b: BodyItem, st: ClassifyState, lookup: RouteLookup, out: ParseOutput): void {
+  const { tok, isFirst, isLast } = b;
+  const t = tok.text;
+  if ((isFirst || isLast) && PROCEDURE_RE.test(t) && !lookup.airwaysByName.has(t) && !lookup.byName.has(t)) {
+    const what = isFirst ? 'SID' : 'STAR';
+    out.notes.push(
+      `${t}: ${what} ignored; the route is taken ${isFirst ? 'from the departure aerodrome to the first point' : 'from the last point to the destination'} as a great circle.`,
+    );
+    out.items.push({
+      item: t,
+      position: tok.position,
+      kind: 'procedure',
+      status: 'ignored',
+      detail: `${what}: flown as a great circle.`,
+    });
+    return;
+  }
+  if (AIRWAY_RE.test(t) && !isFirst) {
+    if (!st.lastWasPoint) {
+      out.unresolved.push({
+        item: t,
+        position: tok.position,
+        reason: `The airway ${t} does not follow a point, so where the route joins it is not known.`,
+      });
+      out.items.push({
+        item: t,
+        position: tok.position,
+        kind: 'airway',
+        status: 'not-found',
+        detail: 'No point before it.',
+      });
+      return;
+    }
+    const lastPoint = st.points.length > 0 ? st.points[st.points.length - 1] : null;
+    st.pendingAirway = { token: tok, from: lastPoint };
+    out.items.push({ item: t, position: tok.position, kind: 'airway', status: 'read', detail: '' });
+    st.lastWasPoint = false;
+    return;
+  }
+  out.unresolved.push({
+    item: t,
+    position: tok.position,
+    reason: `${t} is not a speed/level group, point, coordinate, airway or DCT that the route can read.`,
+  });
+  out.items.push({ item: t, position: tok.position, kind: 'other', status: 'not-found', detail: 'Not understood.' });
+  st.lastWasPoint = false;
+}
+
+/** A point (with any change of speed and level), an airway, a procedure or an item not understood. */
+function readPointItem(b: BodyItem, st: ClassifyState, lookup: RouteLookup, out: ParseOutput): void {
+  const { tok } = b;
+  const t = tok.text;
+  const split = readChange(tok, st, out);
+  if (split === null) return;
+  const { pointText, changeText, change, cruiseClimb } = split;
+  const point = classifyPoint(pointText, lookup.byName, lookup.airwaysByName, changeText !== null);
+  if (point === null) {
+    readNonPoint(b, st, lookup, out);
+    return;
+  }
+  if (typeof point === 'string') {
+    out.unresolved.push({ item: t, position: tok.position, reason: point });
+    out.items.push({ item: t, position: tok.position, kind: 'point', status: 'not-found', detail: point });
+    if (st.pendingAirway !== null) {
+      out.unresolved.push({
+        item: st.pendingAirway.token.text,
+        position: st.pendingAirway.token.position,
+        reason: `The airway ${st.pendingAirway.token.text} leads to ${pointText}, which cannot be placed.`,
+      });
+      markAirway(out.items, st.pendingAirway, 'not-found', `Its exit point ${pointText} is not known.`);
+      st.pendingAirway = null;
+    }
+    // A point that cannot be placed still separates items: what follows joins the last known point.
+    st.lastWasPoint = false;
+    return;
+  }
+  const pending: PendingPoint = {
+    token: tok,
+    name: pointText,
+    candidates: point.candidates,
+    viaAirway: st.pendingAirway,
+    change,
+    cruiseClimb,
+  };
+  for (const n of point.notes) out.notes.push(n);
+  st.points.push(pending);
+  out.items.push({ item: t, position: tok.position, kind: point.kind, status: point.status, detail: point.detail });
+  st.pendingAirway = null;
+  st.lastWasPoint = true;
+}
+
+/** Pass 1: classify every item; points keep their candidates until names are settled. */
+function classifyItems(body: Token[], lookup: RouteLookup, ends: RouteEnds, out: ParseOutput): PendingPoint[] {
+  const st: ClassifyState = { points: [], pendingAirway: null, lastWasPoint: false };
+  for (let k = 0; k < body.length; k++) {
+    const b: BodyItem = { tok: body[k], isFirst: k === 0, isLast: k === body.length - 1 };
+    if (readMarker(b, st, ends, out)) continue;
+    readPointItem(b, st, lookup, out);
+  }
+  dropPendingAirway(st, out);
+  return st.points;
+}
+
+/**
+ * Pass 2: settle same-named points (shortest detour between neighbours), bearings, airways; each
+ * point's cumulative great-circle distance along the placed route.
+ */
+function placePoints(
+  points: PendingPoint[],
+  ends: RouteEnds,
+  lookup: RouteLookup,
+  out: ParseOutput,
+): { waypoints: FlightPlanWaypoint[]; placedKm: (number | null)[] } {
+  const { origin, destination } = ends;
   const waypoints: FlightPlanWaypoint[] = [];
   if (origin !== null) waypoints.push(origin);
   const placedKm: (number | null)[] = [];
@@ -622,11 +675,11 @@ export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = 
     else {
       const next = nextAnchor(points, i + 1) ?? destination;
       chosen = nearestAlong(p.candidates, prev, next);
-      const regions = (lib.fixes ?? [])
+      const regions = lookup.fixes
         .filter((f) => f.name.trim().toUpperCase() === p.name && f.lat === chosen.lat && f.lon === chosen.lon)
         .map((f) => f.region)
         .find((r) => r !== undefined && r !== null && r !== '');
-      notes.push(
+      out.notes.push(
         `${p.name}: ${p.candidates.length} points in the fix library have this name; the one at ${formatFlightPlanCoordinate(chosen.lat, chosen.lon)}${regions ? ` (${regions})` : ''} is nearest along the route.`,
       );
     }
@@ -634,20 +687,28 @@ export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = 
       const via = expandAirway(
         p.viaAirway,
         p,
-        byName,
-        airwaysByName,
+        lookup.byName,
+        lookup.airwaysByName,
         waypoints.length > 0 ? waypoints[waypoints.length - 1] : null,
       );
-      notes.push(via.note);
-      markAirway(items, p.viaAirway, via.points.length > 0 || via.onAirway ? 'looked-up' : 'read', via.note);
+      out.notes.push(via.note);
+      markAirway(out.items, p.viaAirway, via.points.length > 0 || via.onAirway ? 'looked-up' : 'read', via.note);
       for (const w of via.points) push(w);
     }
     push(chosen);
     placedKm[i] = cumKm;
   }
   if (destination !== null) push(destination);
+  return { waypoints, placedKm };
+}
 
-  // Steps and speeds at the cumulative great-circle distance of their point.
+/** Steps and speeds at the cumulative great-circle distance of their point. */
+function stepsAndSpeeds(
+  points: PendingPoint[],
+  placedKm: (number | null)[],
+  initial: SpeedLevel | null,
+  notes: string[],
+): { steps: { fromKm: number; flightLevel: number }[]; speeds: FlightPlanSpeed[] } {
   const steps: { fromKm: number; flightLevel: number }[] = [];
   const speeds: FlightPlanSpeed[] = [];
   const addStep = (fromKm: number, fl: number) => {
@@ -690,7 +751,44 @@ export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = 
       );
     }
   }
-  return { waypoints, cruise: { steps }, speeds, unresolved, notes, items };
+  return { steps, speeds };
+}
+
+/**
+ * Reads the route of an ICAO flight plan (Doc 4444 Appendix 2, item 15) into waypoints, a step-climb
+ * cruise and speeds.
+ *
+ * Understood: the initial speed/level group and changes at a point (`POINT/N0480F350`; N knots,
+ * M Mach, K km/h; F flight level, S standard metric level in tens of metres, A altitude in hundreds of
+ * feet, M altitude in tens of metres, the metric and altitude forms screened at the nearest flight
+ * level with a note); cruise climbs (`C/POINT/M082F290F350`, flown at the first level with a note);
+ * `VFR`/`IFR` (noted); `DCT`; coordinates (`46N078W`, `4620N07805W`, and seconds with a note); a
+ * bearing (magnetic, applied as true with a note) and distance in NM from a known point
+ * (`DUB180040`); named points from `fixes` (same-named points: the one making the shortest detour
+ * between its neighbours, with a note); airways between two points, through `airways` where the
+ * library has the airway and both points, otherwise a great circle with a note; SID and STAR
+ * designators and `DCT` at either end (ignored with a note); `T` (truncated route, noted).
+ *
+ * `from`/`to` (ICAO or IATA) are the first and last waypoints. Level changes become steps at the
+ * cumulative great-circle distance (km, mean sphere, as the screening measures it) of their point;
+ * the initial level starts at 0 km. Items that cannot be placed are in `unresolved` with their
+ * 0-based character offset and a reason; this function never throws on text.
+ */
+export function parseFlightPlanRoute(text: string, options: FlightPlanOptions = {}): FlightPlanRoute {
+  const out: ParseOutput = { notes: [], unresolved: [], items: [] };
+  const lookup = routeLookupOf(options);
+  const tokens = tokenise(typeof text === 'string' ? text : '');
+  const ends: RouteEnds = {
+    origin: routeAirport(options.from, 'departure', out.unresolved),
+    destination: routeAirport(options.to, 'destination', out.unresolved),
+    from: options.from,
+    to: options.to,
+  };
+  const { initial, start } = readInitialSpeedLevel(tokens, out);
+  const points = classifyItems(tokens.slice(start), lookup, ends, out);
+  const { waypoints, placedKm } = placePoints(points, ends, lookup, out);
+  const { steps, speeds } = stepsAndSpeeds(points, placedKm, initial, out.notes);
+  return { waypoints, cruise: { steps }, speeds, unresolved: out.unresolved, notes: out.notes, items: out.items };
 }
 
 function describeSpeedLevel(sl: SpeedLevel): string {

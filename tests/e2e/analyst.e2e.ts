@@ -175,6 +175,22 @@ describe('sustainability analyst: compare fleets, build, download and send a rep
     await context.close();
   });
 
+  it('at phone width the comparison table follows its options with no empty band between them', async () => {
+    const { page, context, errors } = await newPage(browser(), { width: 390, height: 844 });
+    await signIn(page, 'analyst@tropopass.test');
+    await page.goto(`/w/${SLUG}/fleets`);
+    const region = page.getByRole('region', { name: 'Fleet comparison table' });
+    await region.getByRole('cell', { name: 'All fleets' }).waitFor();
+    const columns = await page.getByText(/^Columns \(\d+ of \d+\)$/).boundingBox();
+    const table = await region.boundingBox();
+    if (!columns || !table) throw new Error('the column chooser or the table is not laid out');
+    // Only the card's own spacing (16 px) lies between them, whatever the title's length.
+    expect(table.y - (columns.y + columns.height)).toBeLessThanOrEqual(24);
+    await screenshot(page, 'analyst-fleets-phone');
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
   it('an analyst deletes a report after confirming; the list no longer shows it', async () => {
     const { page, context } = await newPage(browser());
     await signIn(page, 'analyst@tropopass.test');

@@ -188,6 +188,374 @@ function faultConfigFrom(body: Record<string, unknown>): FaultConfig {
   };
 }
 
+/** What every part of a running fake shares. `baseUrl` is known once the server listens. */
+interface FakeCore {
+  store: FakeStore;
+  faults: Faults;
+  dispatcher: WebhookDispatcher;
+  clock: () => number;
+  log: (message: string) => void;
+  apiKey: string | undefined;
+  baseUrl: string;
+}
+
+function defaultApiVersion(core: FakeCore): string {
+  return core.store.getMeta('api_version') ?? Stripe.API_VERSION;
+}
+
+/** Runs `fn` in one transaction with a context whose events are sent only after it commits. */
+function inTransaction<T>(
+  core: FakeCore,
+  request: { requestId: string | null; idempotencyKey: string | null; apiVersion: string },
+  fn: (ctx: ApiContext) => T,
+): T {
+  const emitted: string[] = [];
+  const now = core.clock();
+  const ctx: ApiContext = {
+    store: core.store,
+    now,
+    baseUrl: core.baseUrl,
+    requestId: request.requestId,
+    idempotencyKey: request.idempotencyKey,
+    apiVersion: request.apiVersion,
+    attachedTokens: new Map(),
+    emit(type, object, previous) {
+      const event: FakeEvent = {
+        id: newId('evt'),
+        object: 'event',
+        api_version: request.apiVersion,
+        created: now,
+        data: { object: decorate(clone(object), core.baseUrl) },
+        livemode: false,
+        pending_webhooks: core.dispatcher.enabled ? 1 : 0,
+        request: { id: request.requestId, idempotency_key: request.idempotencyKey },
+        type,
+      };
+      if (previous && Object.keys(previous).length > 0) event.data.previous_attributes = previous;
+      core.store.insertEvent(event, core.dispatcher.enabled ? 'pending' : 'skipped');
+      emitted.push(event.id);
+      return event;
+    },
+  };
+  const result = core.store.tx(() => fn(ctx));
+  core.dispatcher.enqueue(emitted);
+  return result;
+}
+
+function authenticate(core: FakeCore, req: http.IncomingMessage): FakeApiError | null {
+  const auth = header(req, 'authorization');
+  if (!auth) {
+    return authenticationError(
+      'You did not provide an API key. Provide it in the Authorization header, using Bearer auth (Authorization: Bearer YOUR_SECRET_KEY).',
+    );
+  }
+  const bearer = /^Bearer (.+)$/.exec(auth);
+  const basic = /^Basic (.+)$/.exec(auth);
+  const key = bearer?.[1] ?? (basic ? Buffer.from(basic[1], 'base64').toString('utf8').split(':')[0] : '');
+  const ok = core.apiKey ? key === core.apiKey : key.startsWith('sk_test_') && key.length > 'sk_test_'.length;
+  if (!ok) {
+    const shown = key.length > 4 ? `${key.slice(0, 8)}****${key.slice(-4)}` : '****';
+    return authenticationError(`Invalid API Key provided: ${shown}`);
+  }
+  return null;
+}
+
+async function handleApi(
+  core: FakeCore,
+  req: http.IncomingMessage,
+  url: URL,
+  raw: string,
+  requestId: string,
+): Promise<JsonReply> {
+  const method = req.method ?? 'GET';
+  const authError = authenticate(core, req);
+  if (authError) return errorReply(authError);
+
+  const decision = core.faults.decide(url.pathname);
+  if (decision.delayMs > 0) await sleep(decision.delayMs);
+  if (decision.failWith === 500) {
+    return errorReply(
+      new FakeApiError(500, {
+        type: 'api_error',
+        message: 'An unexpected error occurred (injected by the payment fake).',
+      }),
+    );
+  }
+  if (decision.failWith === 429) {
+    return errorReply(
+      new FakeApiError(429, {
+        type: 'rate_limit_error',
+        code: 'rate_limit',
+        message: 'Request rate limit exceeded (injected by the payment fake).',
+      }),
+    );
+  }
+
+  const inQuery = method === 'GET' || method === 'DELETE';
+  let values: ParamObject;
+  const contentType = header(req, 'content-type') ?? '';
+  if (inQuery) {
+    values = parseForm(url.search.slice(1));
+    if (method === 'DELETE' && raw) Object.assign(values, parseForm(raw));
+  } else if (contentType.includes('application/json')) {
+    try {
+      values = fromJson(JSON.parse(raw || '{}'));
+    } catch {
+      return errorReply(invalidRequest('Invalid JSON body.'));
+    }
+  } else {
+    values = parseForm(raw);
+  }
+
+  const match = matchRoute(method, url.pathname);
+  if (match === null || match === 'method') return errorReply(unknownRoute(method, url.pathname));
+
+  const headerVersion = header(req, 'stripe-version');
+  const apiVersion = headerVersion ?? defaultApiVersion(core);
+  const idempotencyKey = method === 'POST' ? (header(req, 'idempotency-key') ?? null) : null;
+  const bodyHash = createHash('sha256')
+    .update(`${method} ${url.pathname}\n${inQuery ? url.search : raw}`)
+    .digest('hex');
+  const common = { 'Stripe-Version': apiVersion, ...(idempotencyKey ? { 'Idempotency-Key': idempotencyKey } : {}) };
+
+  if (idempotencyKey) {
+    const existing = core.store.getIdempotency(idempotencyKey);
+    if (existing) {
+      if (existing.method !== method || existing.path !== url.pathname || existing.bodyHash !== bodyHash) {
+        return errorReply(
+          new FakeApiError(400, {
+            type: 'idempotency_error',
+            message: `Keys for idempotent requests can only be used with the same parameters they were first used with. Try using a key other than '${idempotencyKey}' if you meant to execute a different request.`,
+          }),
+        );
+      }
+      return {
+        status: existing.status,
+        body: decorate(JSON.parse(existing.response) as unknown, core.baseUrl),
+        headers: { ...common, 'Idempotent-Replayed': 'true' },
+      };
+    }
+  }
+
+  try {
+    const reply = inTransaction(core, { requestId, idempotencyKey, apiVersion }, (ctx) => {
+      if (headerVersion) core.store.setMeta('api_version', headerVersion);
+      const params = new Params(values);
+      const result = match.route.handler(ctx, params, match.params);
+      const out = result instanceof Reply ? result : new Reply(200, result);
+      let body = out.body;
+      const expand = params.strList('expand');
+      if (expand && out.status === 200) body = applyExpand(core.store, clone(body), expand);
+      body = decorate(body, core.baseUrl);
+      if (idempotencyKey) {
+        core.store.putIdempotency({
+          key: idempotencyKey,
+          method,
+          path: url.pathname,
+          bodyHash,
+          status: out.status,
+          response: JSON.stringify(body),
+          created: ctx.now,
+        });
+      }
+      return { status: out.status, body };
+    });
+    return { ...reply, headers: common };
+  } catch (err) {
+    if (err instanceof FakeApiError) return { ...errorReply(err), headers: common };
+    core.log(
+      `payment fake: ${method} ${url.pathname} failed: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}`,
+    );
+    return {
+      status: 500,
+      body: { error: { type: 'api_error', message: 'The payment fake failed to handle this request.' } },
+    };
+  }
+}
+
+function fakeState(core: FakeCore): FakeState {
+  return {
+    customers: core.store.all('customer'),
+    paymentMethods: core.store.all('payment_method'),
+    products: core.store.all('product'),
+    prices: core.store.all('price'),
+    meters: core.store.all('meter'),
+    subscriptions: core.store.all('subscription'),
+    invoices: decorate(core.store.all('invoice'), core.baseUrl),
+    meterEvents: core.store
+      .allMeterEvents()
+      .map((m) => ({ ...m.event, meter: m.meter, customer: m.customer, value: m.value, invoice: m.invoice })),
+    events: core.store.allEvents().map((e) => ({
+      id: e.event.id,
+      type: e.event.type,
+      created: e.event.created,
+      deliveryStatus: e.deliveryStatus,
+    })),
+    deliveries: core.store.deliveries(),
+    faults: { ...core.faults.current, matched: core.faults.matched, injected: core.faults.injected },
+    idempotencyKeys: core.store.countIdempotency(),
+    webhookUrl: core.dispatcher.url,
+  };
+}
+
+async function advance(
+  core: FakeCore,
+  subscription: string,
+): Promise<{ subscription: FakeSubscription; invoice: FakeInvoice }> {
+  // Meter timestamps are whole seconds: when usage is already stamped with the current second, close
+  // at the next one so that second's usage lands wholly in the period being closed.
+  const waitUntil = Date.now() + 1_200;
+  for (
+    let t = core.clock();
+    needsSecondBoundary({ store: core.store }, subscription, t) && Date.now() < waitUntil;
+    t = core.clock()
+  ) {
+    while (core.clock() === t && Date.now() < waitUntil) await sleep(15);
+  }
+  return inTransaction(core, { requestId: null, idempotencyKey: null, apiVersion: defaultApiVersion(core) }, (ctx) => {
+    const result = advanceSubscription(ctx, subscription);
+    return decorate(result, core.baseUrl);
+  });
+}
+
+function resetFake(core: FakeCore): void {
+  core.store.reset();
+  core.faults.reset();
+  ensureCatalogue(core.store, core.clock());
+}
+
+async function handleControl(
+  core: FakeCore,
+  req: http.IncomingMessage,
+  res: http.ServerResponse,
+  url: URL,
+  raw: string,
+): Promise<JsonReply | null> {
+  const method = req.method ?? 'GET';
+  const p = url.pathname;
+  const invoicePage = /^\/_fake\/invoices\/([^/]+)(\/pdf)?$/.exec(p);
+  if (method === 'GET' && invoicePage) {
+    const invoice = core.store.get('invoice', decodeURIComponent(invoicePage[1]));
+    if (!invoice) return errorReply(unknownRoute(method, p));
+    const decorated = decorate(clone(invoice), core.baseUrl);
+    if (invoicePage[2]) {
+      const pdf = renderInvoicePdf(decorated);
+      res.writeHead(200, {
+        'Content-Type': 'application/pdf',
+        'Content-Length': String(pdf.length),
+        'Content-Disposition': `inline; filename="${invoice.number ?? invoice.id}.pdf"`,
+      });
+      res.end(pdf);
+    } else {
+      const html = renderInvoiceHtml(decorated);
+      res.writeHead(200, { 'Content-Type': 'text/html; charset=utf-8' });
+      res.end(html);
+    }
+    return null;
+  }
+  const route = `${method} ${p}`;
+  switch (route) {
+    case 'GET /_fake/health':
+      return { status: 200, body: { ok: true, url: core.baseUrl } };
+    case 'GET /_fake/state':
+      return { status: 200, body: fakeState(core) };
+    case 'POST /_fake/reset':
+      resetFake(core);
+      return { status: 200, body: { ok: true } };
+    case 'GET /_fake/faults':
+      return { status: 200, body: core.faults.current };
+    case 'POST /_fake/faults':
+      core.faults.set(faultConfigFrom(jsonObject(raw)));
+      return { status: 200, body: core.faults.current };
+    case 'DELETE /_fake/faults':
+    case 'POST /_fake/faults/reset':
+      core.faults.reset();
+      return { status: 200, body: core.faults.current };
+    case 'POST /_fake/advance': {
+      const body = jsonObject(raw);
+      onlyKeys(body, ['subscription', 'wait']);
+      const result = await advance(core, requiredString(body, 'subscription'));
+      if (body.wait === true) await core.dispatcher.idle();
+      return { status: 200, body: result };
+    }
+    case 'GET /_fake/webhooks':
+      return {
+        status: 200,
+        body: { url: core.dispatcher.url, events: fakeState(core).events, deliveries: core.store.deliveries() },
+      };
+    case 'POST /_fake/webhooks/resend': {
+      const body = jsonObject(raw);
+      onlyKeys(body, ['eventId']);
+      const eventId = requiredString(body, 'eventId');
+      if (!core.store.getEvent(eventId)) throw invalidRequest(`No such event: '${eventId}'`, 'eventId');
+      return { status: 200, body: await core.dispatcher.resend(eventId) };
+    }
+    case 'POST /_fake/webhooks/config': {
+      const body = jsonObject(raw);
+      onlyKeys(body, ['url', 'secret']);
+      const target: Partial<WebhookTarget> = {};
+      if (body.url !== undefined) {
+        if (body.url !== null && typeof body.url !== 'string')
+          throw invalidRequest('url must be a string or null', 'url');
+        target.url = body.url;
+      }
+      if (body.secret !== undefined) target.secret = requiredString(body, 'secret');
+      core.dispatcher.setTarget(target);
+      return { status: 200, body: { url: core.dispatcher.url } };
+    }
+    case 'POST /_fake/webhooks/wait':
+      await core.dispatcher.idle();
+      return { status: 200, body: { ok: true } };
+    default:
+      return errorReply(unknownRoute(method, p));
+  }
+}
+
+/** Answers one request: the `/v1` API, the loopback-only `/_fake` controls, or an error. */
+async function handleRequest(core: FakeCore, req: http.IncomingMessage, res: http.ServerResponse): Promise<void> {
+  const requestId = newId('req', 14);
+  let reply: JsonReply | null;
+  try {
+    const url = new URL(req.url ?? '/', 'http://127.0.0.1');
+    const raw = await readBody(req);
+    if (raw === null) {
+      reply = errorReply(new FakeApiError(413, { type: 'invalid_request_error', message: 'Request body too large.' }));
+    } else if (url.pathname.startsWith('/_fake/')) {
+      reply = isLoopback(req.socket.remoteAddress)
+        ? await handleControl(core, req, res, url, raw)
+        : errorReply(
+            new FakeApiError(403, {
+              type: 'invalid_request_error',
+              message: 'Control endpoints are loopback only.',
+            }),
+          );
+    } else if (url.pathname.startsWith('/v1/')) {
+      reply = await handleApi(core, req, url, raw, requestId);
+    } else {
+      reply = errorReply(unknownRoute(req.method ?? 'GET', url.pathname));
+    }
+  } catch (err) {
+    if (err instanceof FakeApiError) reply = errorReply(err);
+    else {
+      core.log(`payment fake: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}`);
+      reply = {
+        status: 500,
+        body: { error: { type: 'api_error', message: 'The payment fake failed.' } satisfies ApiErrorBody },
+      };
+    }
+  }
+  if (reply === null || res.headersSent) return;
+  const json = JSON.stringify(reply.body);
+  res.writeHead(reply.status, {
+    'Content-Type': 'application/json',
+    'Content-Length': String(Buffer.byteLength(json)),
+    'Request-Id': requestId,
+    'Cache-Control': 'no-store',
+    ...reply.headers,
+  });
+  res.end(json);
+}
+
 /**
  * Starts the local payment fake: the `/v1` API the `stripe` SDK calls (with
  * `host: '127.0.0.1', port, protocol: 'http'`), signed webhooks to `webhookUrl`, and the `/_fake`
@@ -211,349 +579,10 @@ export async function startPaymentFake(options: PaymentFakeOptions = {}): Promis
       log,
     },
   );
-  let baseUrl = '';
-
-  const defaultApiVersion = (): string => store.getMeta('api_version') ?? Stripe.API_VERSION;
-
-  /** Runs `fn` in one transaction with a context whose events are sent only after it commits. */
-  function inTransaction<T>(
-    request: { requestId: string | null; idempotencyKey: string | null; apiVersion: string },
-    fn: (ctx: ApiContext) => T,
-  ): T {
-    const emitted: string[] = [];
-    const now = clock();
-    const ctx: ApiContext = {
-      store,
-      now,
-      baseUrl,
-      requestId: request.requestId,
-      idempotencyKey: request.idempotencyKey,
-      apiVersion: request.apiVersion,
-      attachedTokens: new Map(),
-      emit(type, object, previous) {
-        const event: FakeEvent = {
-          id: newId('evt'),
-          object: 'event',
-          api_version: request.apiVersion,
-          created: now,
-          data: { object: decorate(clone(object), baseUrl) },
-          livemode: false,
-          pending_webhooks: dispatcher.enabled ? 1 : 0,
-          request: { id: request.requestId, idempotency_key: request.idempotencyKey },
-          type,
-        };
-        if (previous && Object.keys(previous).length > 0) event.data.previous_attributes = previous;
-        store.insertEvent(event, dispatcher.enabled ? 'pending' : 'skipped');
-        emitted.push(event.id);
-        return event;
-      },
-    };
-    const result = store.tx(() => fn(ctx));
-    dispatcher.enqueue(emitted);
-    return result;
-  }
-
-  function authenticate(req: http.IncomingMessage): FakeApiError | null {
-    const auth = header(req, 'authorization');
-    if (!auth) {
-      return authenticationError(
-        'You did not provide an API key. Provide it in the Authorization header, using Bearer auth (Authorization: Bearer YOUR_SECRET_KEY).',
-      );
-    }
-    const bearer = /^Bearer (.+)$/.exec(auth);
-    const basic = /^Basic (.+)$/.exec(auth);
-    const key = bearer?.[1] ?? (basic ? Buffer.from(basic[1], 'base64').toString('utf8').split(':')[0] : '');
-    const ok = options.apiKey ? key === options.apiKey : key.startsWith('sk_test_') && key.length > 'sk_test_'.length;
-    if (!ok) {
-      const shown = key.length > 4 ? `${key.slice(0, 8)}****${key.slice(-4)}` : '****';
-      return authenticationError(`Invalid API Key provided: ${shown}`);
-    }
-    return null;
-  }
-
-  async function handleApi(req: http.IncomingMessage, url: URL, raw: string, requestId: string): Promise<JsonReply> {
-    const method = req.method ?? 'GET';
-    const authError = authenticate(req);
-    if (authError) return errorReply(authError);
-
-    const decision = faults.decide(url.pathname);
-    if (decision.delayMs > 0) await sleep(decision.delayMs);
-    if (decision.failWith === 500) {
-      return errorReply(
-        new FakeApiError(500, {
-          type: 'api_error',
-          message: 'An unexpected error occurred (injected by the payment fake).',
-        }),
-      );
-    }
-    if (decision.failWith === 429) {
-      return errorReply(
-        new FakeApiError(429, {
-          type: 'rate_limit_error',
-          code: 'rate_limit',
-          message: 'Request rate limit exceeded (injected by the payment fake).',
-        }),
-      );
-    }
-
-    const inQuery = method === 'GET' || method === 'DELETE';
-    let values: ParamObject;
-    const contentType = header(req, 'content-type') ?? '';
-    if (inQuery) {
-      values = parseForm(url.search.slice(1));
-      if (method === 'DELETE' && raw) Object.assign(values, parseForm(raw));
-    } else if (contentType.includes('application/json')) {
-      try {
-        values = fromJson(JSON.parse(raw || '{}'));
-      } catch {
-        return errorReply(invalidRequest('Invalid JSON body.'));
-      }
-    } else {
-      values = parseForm(raw);
-    }
-
-    const match = matchRoute(method, url.pathname);
-    if (match === null || match === 'method') return errorReply(unknownRoute(method, url.pathname));
-
-    const headerVersion = header(req, 'stripe-version');
-    const apiVersion = headerVersion ?? defaultApiVersion();
-    const idempotencyKey = method === 'POST' ? (header(req, 'idempotency-key') ?? null) : null;
-    const bodyHash = createHash('sha256')
-      .update(`${method} ${url.pathname}\n${inQuery ? url.search : raw}`)
-      .digest('hex');
-    const common = { 'Stripe-Version': apiVersion, ...(idempotencyKey ? { 'Idempotency-Key': idempotencyKey } : {}) };
-
-    if (idempotencyKey) {
-      const existing = store.getIdempotency(idempotencyKey);
-      if (existing) {
-        if (existing.method !== method || existing.path !== url.pathname || existing.bodyHash !== bodyHash) {
-          return errorReply(
-            new FakeApiError(400, {
-              type: 'idempotency_error',
-              message: `Keys for idempotent requests can only be used with the same parameters they were first used with. Try using a key other than '${idempotencyKey}' if you meant to execute a different request.`,
-            }),
-          );
-        }
-        return {
-          status: existing.status,
-          body: decorate(JSON.parse(existing.response) as unknown, baseUrl),
-          headers: { ...common, 'Idempotent-Replayed': 'true' },
-        };
-      }
-    }
-
-    try {
-      const reply = inTransaction({ requestId, idempotencyKey, apiVersion }, (ctx) => {
-        if (headerVersion) store.setMeta('api_version', headerVersion);
-        const params = new Params(values);
-        const result = match.route.handler(ctx, params, match.params);
-        const out = result instanceof Reply ? result : new Reply(200, result);
-        let body = out.body;
-        const expand = params.strList('expand');
-        if (expand && out.status === 200) body = applyExpand(store, clone(body), expand);
-        body = decorate(body, baseUrl);
-        if (idempotencyKey) {
-          store.putIdempotency({
-            key: idempotencyKey,
-            method,
-            path: url.pathname,
-            bodyHash,
-            status: out.status,
-            response: JSON.stringify(body),
-            created: ctx.now,
-          });
-        }
-        return { status: out.status, body };
-      });
-      return { ...reply, headers: common };
-    } catch (err) {
-      if (err instanceof FakeApiError) return { ...errorReply(err), headers: common };
-      log(
-        `payment fake: ${method} ${url.pathname} failed: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}`,
-      );
-      return {
-        status: 500,
-        body: { error: { type: 'api_error', message: 'The payment fake failed to handle this request.' } },
-      };
-    }
-  }
-
-  function state(): FakeState {
-    return {
-      customers: store.all('customer'),
-      paymentMethods: store.all('payment_method'),
-      products: store.all('product'),
-      prices: store.all('price'),
-      meters: store.all('meter'),
-      subscriptions: store.all('subscription'),
-      invoices: decorate(store.all('invoice'), baseUrl),
-      meterEvents: store
-        .allMeterEvents()
-        .map((m) => ({ ...m.event, meter: m.meter, customer: m.customer, value: m.value, invoice: m.invoice })),
-      events: store.allEvents().map((e) => ({
-        id: e.event.id,
-        type: e.event.type,
-        created: e.event.created,
-        deliveryStatus: e.deliveryStatus,
-      })),
-      deliveries: store.deliveries(),
-      faults: { ...faults.current, matched: faults.matched, injected: faults.injected },
-      idempotencyKeys: store.countIdempotency(),
-      webhookUrl: dispatcher.url,
-    };
-  }
-
-  async function advance(subscription: string): Promise<{ subscription: FakeSubscription; invoice: FakeInvoice }> {
-    // Meter timestamps are whole seconds: when usage is already stamped with the current second, close
-    // at the next one so that second's usage lands wholly in the period being closed.
-    const waitUntil = Date.now() + 1_200;
-    for (let t = clock(); needsSecondBoundary({ store }, subscription, t) && Date.now() < waitUntil; t = clock()) {
-      while (clock() === t && Date.now() < waitUntil) await sleep(15);
-    }
-    return inTransaction({ requestId: null, idempotencyKey: null, apiVersion: defaultApiVersion() }, (ctx) => {
-      const result = advanceSubscription(ctx, subscription);
-      return decorate(result, baseUrl);
-    });
-  }
-
-  function reset(): void {
-    store.reset();
-    faults.reset();
-    ensureCatalogue(store, clock());
-  }
-
-  async function handleControl(
-    req: http.IncomingMessage,
-    res: http.ServerResponse,
-    url: URL,
-    raw: string,
-  ): Promise<JsonReply | null> {
-    const method = req.method ?? 'GET';
-    const p = url.pathname;
-    const invoicePage = /^\/_fake\/invoices\/([^/]+)(\/pdf)?$/.exec(p);
-    if (method === 'GET' && invoicePage) {
-      const invoice = store.get('invoice', decodeURIComponent(invoicePage[1]));
-      if (!invoice) return errorReply(unknownRoute(method, p));
-      const decorated = decorate(clone(invoice), baseUrl);
-      if (invoicePage[2]) {
-        const pdf = renderInvoicePdf(decorated);
-        res.writeHead(200, {
-          'Content-Type': 'application/pdf',
-          'Content-Length': String(pdf.length),
-          'Content-Disposition': `inline; filename="${invoice.number ?? invoice.id}.pdf"`,
-        });
-        res.end(pdf);
-      } else {
-        const html = renderInvoiceHtml(decorated);
-        res.writeHead(200, { 'Content-Type': 'text/html; charset=utf-8' });
-        res.end(html);
-      }
-      return null;
-    }
-    const route = `${method} ${p}`;
-    switch (route) {
-      case 'GET /_fake/health':
-        return { status: 200, body: { ok: true, url: baseUrl } };
-      case 'GET /_fake/state':
-        return { status: 200, body: state() };
-      case 'POST /_fake/reset':
-        reset();
-        return { status: 200, body: { ok: true } };
-      case 'GET /_fake/faults':
-        return { status: 200, body: faults.current };
-      case 'POST /_fake/faults':
-        faults.set(faultConfigFrom(jsonObject(raw)));
-        return { status: 200, body: faults.current };
-      case 'DELETE /_fake/faults':
-      case 'POST /_fake/faults/reset':
-        faults.reset();
-        return { status: 200, body: faults.current };
-      case 'POST /_fake/advance': {
-        const body = jsonObject(raw);
-        onlyKeys(body, ['subscription', 'wait']);
-        const result = await advance(requiredString(body, 'subscription'));
-        if (body.wait === true) await dispatcher.idle();
-        return { status: 200, body: result };
-      }
-      case 'GET /_fake/webhooks':
-        return {
-          status: 200,
-          body: { url: dispatcher.url, events: state().events, deliveries: store.deliveries() },
-        };
-      case 'POST /_fake/webhooks/resend': {
-        const body = jsonObject(raw);
-        onlyKeys(body, ['eventId']);
-        const eventId = requiredString(body, 'eventId');
-        if (!store.getEvent(eventId)) throw invalidRequest(`No such event: '${eventId}'`, 'eventId');
-        return { status: 200, body: await dispatcher.resend(eventId) };
-      }
-      case 'POST /_fake/webhooks/config': {
-        const body = jsonObject(raw);
-        onlyKeys(body, ['url', 'secret']);
-        const target: Partial<WebhookTarget> = {};
-        if (body.url !== undefined) {
-          if (body.url !== null && typeof body.url !== 'string')
-            throw invalidRequest('url must be a string or null', 'url');
-          target.url = body.url;
-        }
-        if (body.secret !== undefined) target.secret = requiredString(body, 'secret');
-        dispatcher.setTarget(target);
-        return { status: 200, body: { url: dispatcher.url } };
-      }
-      case 'POST /_fake/webhooks/wait':
-        await dispatcher.idle();
-        return { status: 200, body: { ok: true } };
-      default:
-        return errorReply(unknownRoute(method, p));
-    }
-  }
+  const core: FakeCore = { store, faults, dispatcher, clock, log, apiKey: options.apiKey, baseUrl: '' };
 
   const server = http.createServer((req, res) => {
-    void (async () => {
-      const requestId = newId('req', 14);
-      let reply: JsonReply | null;
-      try {
-        const url = new URL(req.url ?? '/', 'http://127.0.0.1');
-        const raw = await readBody(req);
-        if (raw === null) {
-          reply = errorReply(
-            new FakeApiError(413, { type: 'invalid_request_error', message: 'Request body too large.' }),
-          );
-        } else if (url.pathname.startsWith('/_fake/')) {
-          reply = isLoopback(req.socket.remoteAddress)
-            ? await handleControl(req, res, url, raw)
-            : errorReply(
-                new FakeApiError(403, {
-                  type: 'invalid_request_error',
-                  message: 'Control endpoints are loopback only.',
-                }),
-              );
-        } else if (url.pathname.startsWith('/v1/')) {
-          reply = await handleApi(req, url, raw, requestId);
-        } else {
-          reply = errorReply(unknownRoute(req.method ?? 'GET', url.pathname));
-        }
-      } catch (err) {
-        if (err instanceof FakeApiError) reply = errorReply(err);
-        else {
-          log(`payment fake: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}`);
-          reply = {
-            status: 500,
-            body: { error: { type: 'api_error', message: 'The payment fake failed.' } satisfies ApiErrorBody },
-          };
-        }
-      }
-      if (reply === null || res.headersSent) return;
-      const json = JSON.stringify(reply.body);
-      res.writeHead(reply.status, {
-        'Content-Type': 'application/json',
-        'Content-Length': String(Buffer.byteLength(json)),
-        'Request-Id': requestId,
-        'Cache-Control': 'no-store',
-        ...reply.headers,
-      });
-      res.end(json);
-    })();
+    void handleRequest(core, req, res);
   });
 
   await new Promise<void>((resolve, reject) => {
@@ -564,12 +593,12 @@ export async function startPaymentFake(options: PaymentFakeOptions = {}): Promis
     });
   });
   const port = (server.address() as AddressInfo).port;
-  baseUrl = `http://127.0.0.1:${port}`;
+  core.baseUrl = `http://127.0.0.1:${port}`;
   dispatcher.enqueue(store.eventIdsWithStatus('pending'));
 
   let closing: Promise<void> | null = null;
   return {
-    url: baseUrl,
+    url: core.baseUrl,
     port,
     dbFile,
     close() {
@@ -583,7 +612,7 @@ export async function startPaymentFake(options: PaymentFakeOptions = {}): Promis
       })();
       return closing;
     },
-    reset,
+    reset: () => resetFake(core),
     setFaults(config) {
       faults.set({ ...NO_FAULTS, ...config });
       return faults.current;
@@ -591,11 +620,11 @@ export async function startPaymentFake(options: PaymentFakeOptions = {}): Promis
     clearFaults() {
       faults.reset();
     },
-    advance,
+    advance: (subscription) => advance(core, subscription),
     resendWebhook: (eventId) => dispatcher.resend(eventId),
     setWebhookTarget: (target) => dispatcher.setTarget(target),
     webhooksIdle: () => dispatcher.idle(),
-    state,
+    state: () => fakeState(core),
   };
 }
 

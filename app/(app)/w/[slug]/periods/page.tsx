@@ -9,6 +9,7 @@ import { ScreeningCaution } from '@/components/ui/notice';
 import { CustomPeriodForm } from '@/components/periods/custom-period-form';
 import { StateBadge } from '@/components/periods/state-badge';
 import { createPeriodAction } from './actions';
+import { TableHead } from '@/components/ui/table-head';
 
 export const metadata = { title: 'Periods & sign-off' };
 
@@ -46,22 +47,13 @@ function PeriodRows({ slug, periods }: { slug: string; periods: PeriodInfo[] }) 
 
 function Head() {
   return (
-    <thead className="border-b border-line-strong text-left text-xs uppercase tracking-wide text-ink-soft">
-      <tr>
-        <th scope="col" className="px-2 py-2 font-medium">
-          Period
-        </th>
-        <th scope="col" className="px-2 py-2 font-medium">
-          Dates
-        </th>
-        <th scope="col" className="px-2 py-2 font-medium">
-          State
-        </th>
-        <th scope="col" className="px-2 py-2 font-medium">
-          Sign-off
-        </th>
-      </tr>
-    </thead>
+    <TableHead
+      className="border-b border-line-strong text-left text-xs uppercase tracking-wide text-ink-soft"
+      pad="px-2 py-2"
+      gap=""
+      cellClassName="font-medium"
+      columns={['Period', 'Dates', 'State', 'Sign-off']}
+    />
   );
 }
 

@@ -11,6 +11,7 @@ import { ButtonLink } from '@/components/ui/button';
 import { ScreeningCaution } from '@/components/ui/notice';
 import { ReportBuilder } from '@/components/reports/report-builder';
 import { createReportAction } from './actions';
+import { TableHead } from '@/components/ui/table-head';
 
 export const metadata = { title: 'Reports' };
 
@@ -92,28 +93,13 @@ export default async function ReportsPage({
         ) : (
           <div className="overflow-x-auto">
             <table className="w-full min-w-[720px] text-sm">
-              <thead className="border-b border-line-strong text-left text-xs uppercase tracking-wide text-ink-soft">
-                <tr>
-                  <th scope="col" className="px-2 py-2 font-medium">
-                    Report
-                  </th>
-                  <th scope="col" className="px-2 py-2 font-medium">
-                    Period
-                  </th>
-                  <th scope="col" className="px-2 py-2 font-medium">
-                    Fleets
-                  </th>
-                  <th scope="col" className="px-2 py-2 font-medium">
-                    Built
-                  </th>
-                  <th scope="col" className="px-2 py-2 font-medium">
-                    E-mailed
-                  </th>
-                  <th scope="col" className="px-2 py-2 font-medium">
-                    Download
-                  </th>
-                </tr>
-              </thead>
+              <TableHead
+                className="border-b border-line-strong text-left text-xs uppercase tracking-wide text-ink-soft"
+                pad="px-2 py-2"
+                gap=""
+                cellClassName="font-medium"
+                columns={['Report', 'Period', 'Fleets', 'Built', 'E-mailed', 'Download']}
+              />
               <tbody>
                 {reports.items.map((r) => (
                   <tr key={r.id} className="border-b border-line align-top">

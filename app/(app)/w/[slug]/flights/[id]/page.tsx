@@ -12,6 +12,7 @@ import { Notice } from '@/components/ui/notice';
 import { ScreeningCautions } from '@/components/screening/cautions';
 import { profileSeries, thinSegments } from '@/components/screening/profile-series';
 import { VerticalProfileChart } from '@/components/charts/vertical-profile-chart';
+import { TableHead } from '@/components/ui/table-head';
 
 export const metadata = { title: 'Flight' };
 
@@ -94,22 +95,16 @@ function PlannedVsFlown({ view, units }: { view: FlightView; units: UnitSystem }
       <section aria-label="Planned vs flown" data-testid="planned-vs-flown">
         <table className="w-full text-sm">
           <caption className="sr-only">Planned and flown figures of this flight</caption>
-          <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
-            <tr className="border-b border-line">
-              <th scope="col" className="py-1.5 pr-3">
-                Figure
-              </th>
-              <th scope="col" className="py-1.5 pr-3 text-right">
-                Planned
-              </th>
-              <th scope="col" className="py-1.5 pr-3 text-right">
-                Flown
-              </th>
-              <th scope="col" className="py-1.5 text-right">
-                Flown − planned
-              </th>
-            </tr>
-          </thead>
+          <TableHead
+            pad="py-1.5"
+            rowClassName="border-b border-line"
+            columns={[
+              'Figure',
+              { label: 'Planned', right: true },
+              { label: 'Flown', right: true },
+              { label: 'Flown − planned', right: true },
+            ]}
+          />
           <tbody>
             <tr className="border-b border-line">
               <th scope="row" className="py-1.5 pr-3 text-left font-normal">

@@ -16,6 +16,7 @@ import { DeleteButton } from '@/components/ui/delete-button';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 import { deleteReportAction, sendReportAction } from '../actions';
 import { COUNT_LABELS } from '@/lib/counts';
+import { TableHead } from '@/components/ui/table-head';
 
 export const metadata = { title: 'Fleet report' };
 
@@ -89,28 +90,20 @@ export default async function ReportPage({ params }: { params: Promise<{ slug: s
         <Card title="Per fleet">
           <ScrollRegion label="Per-fleet figures">
             <table className="figure w-full min-w-[640px] text-sm">
-              <thead className="border-b border-line-strong text-left text-xs uppercase tracking-wide text-ink-soft">
-                <tr>
-                  <th scope="col" className="px-2 py-2 font-medium">
-                    Fleet
-                  </th>
-                  <th scope="col" className="px-2 py-2 text-right font-medium">
-                    Flights
-                  </th>
-                  <th scope="col" className="px-2 py-2 text-right font-medium">
-                    CO2
-                  </th>
-                  <th scope="col" className="px-2 py-2 text-right font-medium">
-                    NOx above
-                  </th>
-                  <th scope="col" className="px-2 py-2 text-right font-medium">
-                    Share above
-                  </th>
-                  <th scope="col" className="px-2 py-2 text-right font-medium">
-                    Ozone figure
-                  </th>
-                </tr>
-              </thead>
+              <TableHead
+                className="border-b border-line-strong text-left text-xs uppercase tracking-wide text-ink-soft"
+                pad="px-2 py-2"
+                gap=""
+                cellClassName="font-medium"
+                columns={[
+                  'Fleet',
+                  { label: 'Flights', right: true },
+                  { label: 'CO2', right: true },
+                  { label: 'NOx above', right: true },
+                  { label: 'Share above', right: true },
+                  { label: 'Ozone figure', right: true },
+                ]}
+              />
               <tbody>
                 {[...s.perFleet, t].map((r, i) => (
                   <tr
