@@ -10,6 +10,19 @@ import { ROUTES, download, getView, post } from './support';
 
 useTestDatabase();
 
+/**
+ * The same figures, up to the last bits of a floating-point sum: the running figures add the monthly
+ * roll-ups, the frozen ones the flights, in another order (PostgreSQL showed 1 in the 16th digit).
+ */
+function expectSameFigures(a: Record<string, unknown>, b: Record<string, unknown>) {
+  expect(Object.keys(a).sort()).toEqual(Object.keys(b).sort());
+  for (const k of Object.keys(b)) {
+    const [x, y] = [a[k], b[k]];
+    if (typeof x === 'number' && typeof y === 'number') expect(x, k).toBeCloseTo(y, 6);
+    else expect(x, k).toEqual(y);
+  }
+}
+
 const sha256 = (b: string | Uint8Array) => createHash('sha256').update(b).digest('hex');
 
 async function importRows(slug: string, userId: number, rows: string[], fileName: string): Promise<number> {
@@ -49,7 +62,7 @@ describe('moving a quarter to review freezes it', () => {
 
     const frozen = await getView(ws.slug, '2026-Q4', analyst.id);
     expect(frozen.body.figures.source).toBe('frozen');
-    expect(frozen.body.figures.total).toEqual(before.body.figures.total);
+    expectSameFigures(frozen.body.figures.total, before.body.figures.total);
     expect(frozen.body.frozenFlights).toHaveLength(6);
     expect(frozen.body.snapshot?.engineVersions.reduce((n, v) => n + v.flights, 0)).toBe(6);
     expect(frozen.body.changesAfterFreeze).toEqual([]);
@@ -63,7 +76,7 @@ describe('moving a quarter to review freezes it', () => {
       .update({ nox_above_kg: first.noxAboveKg * 2, screened_at: new Date(Date.now() + 1000).toISOString() });
 
     const after = await getView(ws.slug, '2026-Q4', analyst.id);
-    expect(after.body.figures.total).toEqual(before.body.figures.total);
+    expectSameFigures(after.body.figures.total, before.body.figures.total);
     expect(after.body.frozenFlights).toEqual(frozen.body.frozenFlights);
     const changes = after.body.changesAfterFreeze;
     expect(changes.filter((c) => c.kind === 'added').map((c) => c.flight.slice(0, 4))).toEqual([

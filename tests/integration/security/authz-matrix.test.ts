@@ -15,6 +15,9 @@ import { API_KEY_ROLES, PERMISSIONS, ROLES, can, type Permission, type Role } fr
 import { createApiKey } from '@/lib/auth/api-keys';
 
 // The billing harness gives the file its database and the local payment fake the invoice fixture needs.
+/** Every role over every workspace route: hundreds of handler calls, minutes on a loaded 2-core machine with PostgreSQL. */
+const MATRIX_TIMEOUT_MS = 180_000;
+
 useBillingHarness({ RATE_LIMIT_API_PER_MIN: '1000000', RATE_LIMIT_PREVIEW_PER_MIN: '1000000' });
 
 /**
@@ -146,95 +149,107 @@ function judge(o: Omit<Outcome, 'expected'>, allowed: boolean, other: boolean, r
 }
 
 describe('every role x every workspace route and method x own and other workspace', () => {
-  it('signed-in members: 404 elsewhere, 403 where the policy denies, allowed where it allows', async () => {
-    const failures: Outcome[] = [];
-    const ambiguous = new Set<string>();
-    let calls = 0;
-    for (const r of workspaceRoutes) {
-      for (const method of methodsOf(r)) {
-        const handler = modules.get(r.file)![method]!;
-        const permission = handler.permission as Permission;
-        for (const role of ROLES) {
-          const user = setup.own.members[role];
-          const cookie = await sessionCookie(user.id);
-          for (const [ws, other] of [
-            [setup.own, false],
-            [setup.other, true],
-          ] as const) {
-            const { values, real } = await paramsFor(r, ws);
-            if (!real) ambiguous.add(r.file);
-            const res = await call(handler, request(method, fillPattern(r.pattern, values), { cookie }), values);
-            calls += 1;
-            const f = judge(
-              { route: r.file, method, who: role, permission, status: res.status },
-              can(role, permission),
-              other,
-              real,
-            );
-            if (f) failures.push(f);
-          }
-        }
-      }
-    }
-    expect(
-      [...ambiguous],
-      'routes checked with a missing id, whose 404 proves nothing: add a fixture in fixtures.ts',
-    ).toEqual([]);
-    console.info(`[authz] ${calls} member calls over ${workspaceRoutes.length} workspace route files`);
-    expect(failures).toEqual([]);
-  });
-
-  it('API keys: their own role in their own workspace, 404 in any other', async () => {
-    const failures: Outcome[] = [];
-    for (const role of API_KEY_ROLES) {
-      const key = await createApiKey(
-        { workspaceId: setup.own.id },
-        { name: `matrix-${role}`, role, createdBy: setup.own.owner.id, actor: 'matrix' },
-      );
+  it(
+    'signed-in members: 404 elsewhere, 403 where the policy denies, allowed where it allows',
+    async () => {
+      const failures: Outcome[] = [];
+      const ambiguous = new Set<string>();
+      let calls = 0;
       for (const r of workspaceRoutes) {
         for (const method of methodsOf(r)) {
           const handler = modules.get(r.file)![method]!;
           const permission = handler.permission as Permission;
-          for (const [ws, other] of [
-            [setup.own, false],
-            [setup.other, true],
-          ] as const) {
-            const { values, real } = await paramsFor(r, ws);
-            const res = await call(
-              handler,
-              request(method, fillPattern(r.pattern, values), { bearer: key.key }),
-              values,
-            );
-            // Creating API keys needs a signed-in owner, never a key: 403 is right for every key.
-            const allowed = can(role, permission) && !(r.pattern.endsWith('/api-keys') && method === 'POST');
-            const f = judge(
-              { route: r.file, method, who: `key:${role}`, permission, status: res.status },
-              allowed,
-              other,
-              real,
-            );
-            if (f) failures.push(f);
+          for (const role of ROLES) {
+            const user = setup.own.members[role];
+            const cookie = await sessionCookie(user.id);
+            for (const [ws, other] of [
+              [setup.own, false],
+              [setup.other, true],
+            ] as const) {
+              const { values, real } = await paramsFor(r, ws);
+              if (!real) ambiguous.add(r.file);
+              const res = await call(handler, request(method, fillPattern(r.pattern, values), { cookie }), values);
+              calls += 1;
+              const f = judge(
+                { route: r.file, method, who: role, permission, status: res.status },
+                can(role, permission),
+                other,
+                real,
+              );
+              if (f) failures.push(f);
+            }
           }
         }
       }
-    }
-    expect(failures).toEqual([]);
-  });
+      expect(
+        [...ambiguous],
+        'routes checked with a missing id, whose 404 proves nothing: add a fixture in fixtures.ts',
+      ).toEqual([]);
+      console.info(`[authz] ${calls} member calls over ${workspaceRoutes.length} workspace route files`);
+      expect(failures).toEqual([]);
+    },
+    MATRIX_TIMEOUT_MS,
+  );
 
-  it('a signed-in stranger and an anonymous caller get 404 and 401 on every workspace route', async () => {
-    const stranger = await makeUser('stranger');
-    const cookie = await sessionCookie(stranger.id);
-    const problems: string[] = [];
-    for (const r of workspaceRoutes) {
-      for (const method of methodsOf(r)) {
-        const { values } = await paramsFor(r, setup.own);
-        const url = fillPattern(r.pattern, values);
-        const s = await call(modules.get(r.file)![method], request(method, url, { cookie }), values);
-        if (s.status !== 404) problems.push(`${r.file} ${method} stranger: ${s.status}`);
-        const a = await call(modules.get(r.file)![method], request(method, url, {}), values);
-        if (a.status !== 401) problems.push(`${r.file} ${method} anonymous: ${a.status}`);
+  it(
+    'API keys: their own role in their own workspace, 404 in any other',
+    async () => {
+      const failures: Outcome[] = [];
+      for (const role of API_KEY_ROLES) {
+        const key = await createApiKey(
+          { workspaceId: setup.own.id },
+          { name: `matrix-${role}`, role, createdBy: setup.own.owner.id, actor: 'matrix' },
+        );
+        for (const r of workspaceRoutes) {
+          for (const method of methodsOf(r)) {
+            const handler = modules.get(r.file)![method]!;
+            const permission = handler.permission as Permission;
+            for (const [ws, other] of [
+              [setup.own, false],
+              [setup.other, true],
+            ] as const) {
+              const { values, real } = await paramsFor(r, ws);
+              const res = await call(
+                handler,
+                request(method, fillPattern(r.pattern, values), { bearer: key.key }),
+                values,
+              );
+              // Creating API keys needs a signed-in owner, never a key: 403 is right for every key.
+              const allowed = can(role, permission) && !(r.pattern.endsWith('/api-keys') && method === 'POST');
+              const f = judge(
+                { route: r.file, method, who: `key:${role}`, permission, status: res.status },
+                allowed,
+                other,
+                real,
+              );
+              if (f) failures.push(f);
+            }
+          }
+        }
       }
-    }
-    expect(problems).toEqual([]);
-  });
+      expect(failures).toEqual([]);
+    },
+    MATRIX_TIMEOUT_MS,
+  );
+
+  it(
+    'a signed-in stranger and an anonymous caller get 404 and 401 on every workspace route',
+    async () => {
+      const stranger = await makeUser('stranger');
+      const cookie = await sessionCookie(stranger.id);
+      const problems: string[] = [];
+      for (const r of workspaceRoutes) {
+        for (const method of methodsOf(r)) {
+          const { values } = await paramsFor(r, setup.own);
+          const url = fillPattern(r.pattern, values);
+          const s = await call(modules.get(r.file)![method], request(method, url, { cookie }), values);
+          if (s.status !== 404) problems.push(`${r.file} ${method} stranger: ${s.status}`);
+          const a = await call(modules.get(r.file)![method], request(method, url, {}), values);
+          if (a.status !== 401) problems.push(`${r.file} ${method} anonymous: ${a.status}`);
+        }
+      }
+      expect(problems).toEqual([]);
+    },
+    MATRIX_TIMEOUT_MS,
+  );
 });
