@@ -135,7 +135,10 @@ async function brokenDates(page: Page): Promise<string[]> {
         range.setStart(node, m.index);
         range.setEnd(node, m.index + m[0].length);
         const tops = new Set([...range.getClientRects()].filter((r) => r.width > 1).map((r) => Math.round(r.top)));
-        if (tops.size > 1) out.push(`${m[0]} is broken over ${tops.size} lines`);
+        if (tops.size > 1)
+          out.push(
+            `${m[0]} is broken over ${tops.size} lines (in ${el.tagName.toLowerCase()}.${[...el.classList].slice(0, 3).join('.')})`,
+          );
       }
     }
     return [...new Set(out)].slice(0, 6);
