@@ -69,6 +69,36 @@ export function formatMassRange(lowKg: number, highKg: number, units: UnitSystem
   return `${formatNumber(lowKg, d)}${separator}${formatNumber(highKg, d)} kg`;
 }
 
+/** The one mass unit a table column (or row) shows all its cells in. */
+export type MassUnit = 'kg' | 't' | 'lb';
+
+/**
+ * The unit that suits a column's largest value, so every cell of it reads in one unit ("17.4 t" above
+ * "9.7 t", never "9,733 kg"): tonnes once the largest reaches 10 t (where {@link formatMass} switches),
+ * kg below; pounds in the imperial preference. Non-finite values are ignored.
+ */
+export function massColumnUnit(valuesKg: readonly (number | null | undefined)[], units: UnitSystem): MassUnit {
+  if (units === 'imperial') return 'lb';
+  const top = Math.max(0, ...valuesKg.filter((v): v is number => Number.isFinite(v)).map((v) => Math.abs(v)));
+  return top >= 10_000 ? 't' : 'kg';
+}
+
+/**
+ * A mass in the unit chosen for its column. Tonnes to one decimal (a non-zero mass under 0.05 t reads
+ * "< 0.1 t", not a misleading "0.0 t"); kg and lb as {@link formatMass} shows them.
+ */
+export function formatMassIn(kg: number, unit: MassUnit): string {
+  if (!Number.isFinite(kg)) return '–';
+  if (unit === 'lb') return formatMass(kg, 'imperial');
+  if (unit === 'kg') {
+    const small = kg !== 0 && Math.abs(kg) < 10 ? 2 : 0;
+    return `${formatNumber(kg, small)} kg`;
+  }
+  const t = kg / KG_PER_TONNE;
+  if (kg !== 0 && Math.abs(t) < 0.05) return `${t < 0 ? '> −0.1' : '< 0.1'} t`;
+  return `${formatNumber(t, kg === 0 ? 0 : 1)} t`;
+}
+
 export function formatPercent(fraction: number, digits = 0): string {
   return Number.isFinite(fraction) ? `${formatNumber(fraction * 100, digits)} %` : '–';
 }

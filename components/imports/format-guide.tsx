@@ -89,7 +89,15 @@ export function FormatReference({ example }: { example: string }) {
                   {c.description}
                   <span className="mt-0.5 block lg:hidden">
                     <span className="text-ink-faint">e.g. </span>
-                    <code className="font-mono text-xs">{c.example}</code>
+                    <code className="font-mono text-xs">
+                      {/* Wraps between words only: a date such as 2026-11-03 never breaks at its hyphens. */}
+                      {c.example.split(' ').map((word, k) => (
+                        <span key={k}>
+                          {k ? ' ' : ''}
+                          <span className="whitespace-nowrap">{word}</span>
+                        </span>
+                      ))}
+                    </code>
                   </span>
                 </td>
                 <td className="hidden py-1.5 lg:table-cell">

@@ -266,7 +266,7 @@ function ImportItem({
             <span className="text-sm font-normal text-ink-faint">#{imp.id}</span>
           </p>
           <p className="text-xs text-ink-soft">
-            Uploaded {formatDateTime(imp.createdAt)}
+            Uploaded <span className="whitespace-nowrap">{formatDateTime(imp.createdAt)}</span>
             {imp.createdBy ? ` by ${imp.createdBy}` : ''} · {formatNumber(imp.rows)}
             {imp.kind === 'tracks' ? ' flown' : ''} flight{imp.rows === 1 ? '' : 's'}
           </p>

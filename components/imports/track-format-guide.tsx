@@ -30,7 +30,7 @@ export function TrackFormatGuide({ templateHref, example }: { templateHref: stri
                 <td className="py-1.5 pr-3">{c.required}</td>
                 <td className="py-1.5 pr-3 text-ink-soft">{c.unit}</td>
                 <td className="py-1.5 pr-3">{c.description}</td>
-                <td className="py-1.5 font-mono text-xs">{c.example}</td>
+                <td className="whitespace-nowrap py-1.5 font-mono text-xs">{c.example}</td>
               </tr>
             ))}
           </tbody>

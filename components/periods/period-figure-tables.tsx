@@ -1,6 +1,6 @@
 import Link from 'next/link';
 import type { UnitSystem } from '@/db/users';
-import { formatMass, formatNumber, formatPercent } from '@/lib/format';
+import { formatMassIn, formatNumber, formatPercent, massColumnUnit } from '@/lib/format';
 import type { PeriodFigureSet, TrendPoint } from '@/lib/periods/service';
 import { TARGET_METRIC_LABELS } from '@/lib/validation/periods';
 import { Card } from '@/components/ui/card';
@@ -11,6 +11,15 @@ import { StateBadge } from './state-badge';
 /** The period's figures per fleet; nothing when no fleet has a flight in it. */
 export function PeriodFleetsCard({ fleets, units }: { fleets: PeriodFigureSet['fleets']; units: UnitSystem }) {
   if (!fleets.length) return null;
+  // One unit per column, the one its largest value needs.
+  const noxUnit = massColumnUnit(
+    fleets.map((f) => f.noxAboveKg),
+    units,
+  );
+  const perUnit = massColumnUnit(
+    fleets.map((f) => f.noxAbovePer1000KmKg),
+    units,
+  );
   return (
     <Card title="By fleet" className="mt-6">
       <ScrollRegion label="Figures by fleet">
@@ -30,11 +39,13 @@ export function PeriodFleetsCard({ fleets, units }: { fleets: PeriodFigureSet['f
               <tr key={f.fleetId ?? 'none'} className="border-t border-line">
                 <td className="py-1.5 pr-3">{f.fleetName}</td>
                 <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{formatNumber(f.flights)}</td>
-                <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{formatMass(f.noxAboveKg, units)}</td>
+                <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
+                  {formatMassIn(f.noxAboveKg, noxUnit)}
+                </td>
                 <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
                   {f.shareAbove === null ? '–' : formatPercent(f.shareAbove, 1)}
                 </td>
-                <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{per1000(f, units)}</td>
+                <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{per1000(f, units, perUnit)}</td>
               </tr>
             ))}
           </tbody>
@@ -66,6 +77,15 @@ interface TrendProps {
 /** This period and the ones before it, each against its workspace-wide targets; nothing without a trend. */
 export function PeriodTrendCard({ slug, current, trend, units }: TrendProps) {
   if (!trend.length) return null;
+  // One unit per column, the one its largest value needs.
+  const noxUnit = massColumnUnit(
+    trend.map((r) => r.figures.noxAboveKg),
+    units,
+  );
+  const perUnit = massColumnUnit(
+    trend.map((r) => r.figures.noxAbovePer1000KmKg),
+    units,
+  );
   return (
     <Card title="Trend over past periods" className="mt-6">
       <ScrollRegion label="Trend over past periods">
@@ -97,12 +117,14 @@ export function PeriodTrendCard({ slug, current, trend, units }: TrendProps) {
                 </td>
                 <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{formatNumber(r.figures.flights)}</td>
                 <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
-                  {formatMass(r.figures.noxAboveKg, units)}
+                  {formatMassIn(r.figures.noxAboveKg, noxUnit)}
                 </td>
                 <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
                   {r.figures.shareAbove === null ? '–' : formatPercent(r.figures.shareAbove, 1)}
                 </td>
-                <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">{per1000(r.figures, units)}</td>
+                <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
+                  {per1000(r.figures, units, perUnit)}
+                </td>
                 <td className="py-1.5 pl-3 text-xs">{trendTargetsText(r.targets)}</td>
               </tr>
             ))}

@@ -1,5 +1,5 @@
 import type { UnitSystem } from '@/db/users';
-import { formatMass, formatNumber } from '@/lib/format';
+import { formatMass, formatMassIn, formatNumber, type MassUnit } from '@/lib/format';
 import type { PeriodFigures, TargetStatus } from '@/lib/periods/service';
 
 /** How each target status reads on the period page: in the targets table and in the trend. */
@@ -14,6 +14,8 @@ export const TARGET_STATUS: Record<TargetStatus, { label: string; className: str
 export const metricText = (v: number | null, unit: string) =>
   v === null ? '–' : `${formatNumber(v, unit === 't' ? 2 : unit === '%' ? 1 : 3)} ${unit}`;
 
-/** NOx above the tropopause per 1000 km flown, in the user's units. */
-export const per1000 = (f: PeriodFigures, u: UnitSystem) =>
-  f.noxAbovePer1000KmKg === null ? '–' : `${formatMass(f.noxAbovePer1000KmKg, u)} per 1000 km`;
+/** NOx above the tropopause per 1000 km flown, in the user's units (or in the unit chosen for its column). */
+export const per1000 = (f: PeriodFigures, u: UnitSystem, column?: MassUnit) =>
+  f.noxAbovePer1000KmKg === null
+    ? '–'
+    : `${column ? formatMassIn(f.noxAbovePer1000KmKg, column) : formatMass(f.noxAbovePer1000KmKg, u)} per 1000 km`;

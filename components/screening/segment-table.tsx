@@ -32,6 +32,10 @@ const SORTABLE = [
 
 type Row = ScreeningSegment & { index: number };
 
+/** What the tropopause column holds, for a practitioner who would read it as a geometric height. */
+export const TROPOPAUSE_HEADER_TITLE =
+  'The tropopause as an ISA pressure altitude, the scale flight levels use (not a height above sea level), with its pressure in hPa';
+
 const col = createColumnHelper<Row>();
 
 /** `seg_sort=noxKg.desc` and `seg_page=2` from the URL; anything unknown falls back to route order. */
@@ -82,7 +86,12 @@ export function SegmentTable({ segments, units }: { segments: readonly Screening
           `${formatDistance(c.row.original.startKm, units)} – ${formatDistance(c.row.original.endKm, units)}`,
       }),
       col.accessor('flightLevel', { header: 'Flight level', cell: (c) => `FL${c.getValue()}` }),
-      col.accessor('tropopauseM', { header: 'Tropopause', cell: (c) => formatAltitude(c.getValue(), units) }),
+      col.accessor('tropopauseM', {
+        // A pressure altitude (ISA), comparable with the flight level, not a geometric height.
+        header: () => <span title={TROPOPAUSE_HEADER_TITLE}>Tropopause (pressure alt.)</span>,
+        cell: (c) =>
+          `${formatAltitude(c.getValue(), units)} · ${formatNumber(c.row.original.tropopausePressureHpa, 0)} hPa`,
+      }),
       col.accessor('depthAboveTropopauseKm', {
         header: 'Above / below',
         cell: (c) =>

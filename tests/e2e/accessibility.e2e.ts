@@ -135,7 +135,10 @@ async function brokenDates(page: Page): Promise<string[]> {
         range.setStart(node, m.index);
         range.setEnd(node, m.index + m[0].length);
         const tops = new Set([...range.getClientRects()].filter((r) => r.width > 1).map((r) => Math.round(r.top)));
-        if (tops.size > 1) out.push(`${m[0]} is broken over ${tops.size} lines`);
+        if (tops.size > 1)
+          out.push(
+            `${m[0]} is broken over ${tops.size} lines (in ${el.tagName.toLowerCase()}.${[...el.classList].slice(0, 3).join('.')})`,
+          );
       }
     }
     return [...new Set(out)].slice(0, 6);
@@ -468,18 +471,21 @@ describe('accessibility and CSP on the main pages', () => {
     await context.close();
   });
 
-  it('the portfolio and the billing page keep each date on one line, for a consultant on a phone and a finance admin at desktop width', async () => {
+  it('the portfolio, the billing page and the imports page keep each date on one line, on a phone and at desktop width', async () => {
     const findings: string[] = [];
-    for (const [email, viewport] of [
-      ['consultant@tropopass.test', { width: 390, height: 844 }],
-      ['billing@tropopass.test', { width: 1366, height: 900 }],
+    for (const [email, viewport, paths] of [
+      ['consultant@tropopass.test', { width: 390, height: 844 }, ['/workspaces', '/w/skarn-polar/settings/billing']],
+      ['billing@tropopass.test', { width: 1366, height: 900 }, ['/workspaces', '/w/skarn-polar/settings/billing']],
+      ['planner@tropopass.test', { width: 390, height: 844 }, ['/w/skarn-polar/imports']],
     ] as const) {
       const { page, context } = await newPage(browser(), viewport);
       await signIn(page, email);
-      for (const path of ['/workspaces', '/w/skarn-polar/settings/billing']) {
+      for (const path of paths) {
         await page.goto(path);
         await page.getByRole('heading', { level: 1 }).first().waitFor();
         if (path.endsWith('billing')) await page.getByTestId('reconciliation').waitFor();
+        if (path.endsWith('imports'))
+          expect(await page.getByText(/^Uploaded \d{4}-\d{2}-\d{2}/).count()).toBeGreaterThan(0);
         findings.push(...(await brokenDates(page)).map((f) => `${path}, ${email} at ${viewport.width} px: ${f}`));
       }
       await context.close();

@@ -9,7 +9,7 @@ import type { UnitSystem } from '@/db/users';
 import { can, ROLE_LABELS } from '@/lib/auth/policy';
 import { TopBar } from '@/components/shell/top-bar';
 import { Card, EmptyState, PageHeader } from '@/components/ui/card';
-import { formatDate, formatMass, formatMonth, formatNumber, formatPercent } from '@/lib/format';
+import { formatDate, formatMassIn, formatMonth, formatNumber, formatPercent, massColumnUnit } from '@/lib/format';
 import { monthBounds } from '@/lib/clock';
 import { COUNT_LABELS } from '@/lib/counts';
 import { getBillableUnits } from '@/lib/billing/usage-summary';
@@ -47,6 +47,11 @@ export default async function WorkspacesPage() {
     .filter((m) => can(m.role, 'library:copy'))
     .map((m) => ({ slug: m.workspace.slug, name: m.workspace.name }));
   const { from } = monthBounds();
+  // The portfolio's NOx column shows every workspace in one unit, the one its largest figure needs.
+  const portfolioAboveUnit = massColumnUnit(
+    readable.map((id) => summaries.get(id)?.noxAboveKg ?? 0),
+    user.units,
+  );
   return (
     <div className="min-h-screen">
       <TopBar user={user} />
@@ -111,7 +116,7 @@ export default async function WorkspacesPage() {
                         {flights ? formatNumber(s?.importedFlightsScreened ?? 0) : '—'}
                       </td>
                       <td className="figure px-4 py-2.5 text-right">
-                        {flights ? formatMass(s?.noxAboveKg ?? 0, user.units) : '—'}
+                        {flights ? formatMassIn(s?.noxAboveKg ?? 0, portfolioAboveUnit) : '—'}
                       </td>
                       <td className="figure px-4 py-2.5 text-right" data-testid="portfolio-billable-units">
                         {usage && b ? (
@@ -202,6 +207,8 @@ function ClientCard({
   units: UnitSystem;
 }) {
   if (!status && !billing) return null;
+  // The trend row shows every month in one unit, the one its largest month needs.
+  const aboveUnit = massColumnUnit(status?.trend.map((t) => t.noxAboveKg) ?? [], units);
   return (
     <div className="rounded-card border border-line bg-paper-raised p-4" data-testid={`client-${slug}`}>
       <div className="flex flex-wrap items-baseline justify-between gap-2">
@@ -239,7 +246,7 @@ function ClientCard({
                   </th>
                   {status.trend.map((t) => (
                     <td key={t.month} className="py-1 px-1 text-right whitespace-nowrap">
-                      {formatMass(t.noxAboveKg, units)}
+                      {formatMassIn(t.noxAboveKg, aboveUnit)}
                     </td>
                   ))}
                 </tr>

@@ -40,10 +40,26 @@ export interface TrackedPage {
   errors: string[];
 }
 
+/**
+ * Diagnostics for a journey run (both off by default): `E2E_VIEWPORT=390x844` opens every page at
+ * that size, `E2E_LOG_FAILED=1` prints every answer of 400 or more with what asked for it (a router
+ * prefetch, a client navigation, a document, a fetch) and the page it was asked from.
+ */
+const FORCED_VIEWPORT = /^(\d+)x(\d+)$/.exec(process.env.E2E_VIEWPORT ?? '');
+
 export async function newPage(browser: Browser, viewport = { width: 1280, height: 900 }): Promise<TrackedPage> {
-  const context = await browser.newContext({ baseURL: BASE_URL, viewport });
+  const size = FORCED_VIEWPORT ? { width: Number(FORCED_VIEWPORT[1]), height: Number(FORCED_VIEWPORT[2]) } : viewport;
+  const context = await browser.newContext({ baseURL: BASE_URL, viewport: size });
   const page = await context.newPage();
   const errors: string[] = [];
+  if (process.env.E2E_LOG_FAILED === '1') {
+    page.on('response', (r) => {
+      if (r.status() < 400) return;
+      const h = r.request().headers();
+      const why = h['next-router-prefetch'] ? 'prefetch' : h['rsc'] ? 'client navigation' : r.request().resourceType();
+      console.log(`[http ${r.status()}] ${r.request().method()} ${r.url()} (${why}) from ${page.url()}`);
+    });
+  }
   page.on('console', (m) => {
     // A failed resource names no URL in its text: add the location so a report says which one.
     if (m.type() === 'error') errors.push(m.location().url ? `${m.text()} (${m.location().url})` : m.text());

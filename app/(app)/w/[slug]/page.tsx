@@ -5,7 +5,7 @@ import { Card, PageHeader, Stat } from '@/components/ui/card';
 import { ScreeningCaution } from '@/components/ui/notice';
 import { ButtonLink } from '@/components/ui/button';
 import { can } from '@/lib/auth/policy';
-import { formatMass, formatNumber, formatPercent } from '@/lib/format';
+import { formatMass, formatMassIn, formatNumber, formatPercent, massColumnUnit } from '@/lib/format';
 import { monthBounds } from '@/lib/clock';
 import { COUNT_HINTS, COUNT_LABELS } from '@/lib/counts';
 import { PeriodOverviewCard } from '@/components/periods/period-overview-card';
@@ -28,6 +28,19 @@ export default async function OverviewPage({
   ]);
   const s = summaries.get(workspace.id);
   const peak = Math.max(1, ...trend.map((t) => t.noxTotalKg));
+  // One unit per trend column, the one its largest month needs.
+  const totalUnit = massColumnUnit(
+    trend.map((t) => t.noxTotalKg),
+    user.units,
+  );
+  const aboveUnit = massColumnUnit(
+    trend.map((t) => t.noxAboveKg),
+    user.units,
+  );
+  const ozoneUnit = massColumnUnit(
+    trend.map((t) => t.ozoneCentralKg),
+    user.units,
+  );
   const { from, to } = monthBounds();
   const share = s && s.noxTotalKg > 0 ? s.noxAboveKg / s.noxTotalKg : 0;
   return (
@@ -91,16 +104,16 @@ export default async function OverviewPage({
                     {formatNumber(t.importedFlightsScreened)}
                   </td>
                   <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
-                    {formatMass(t.noxTotalKg, user.units)}
+                    {formatMassIn(t.noxTotalKg, totalUnit)}
                   </td>
                   <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
-                    {formatMass(t.noxAboveKg, user.units)}
+                    {formatMassIn(t.noxAboveKg, aboveUnit)}
                   </td>
                   <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
                     {t.noxTotalKg > 0 ? formatPercent(t.noxAboveKg / t.noxTotalKg, 1) : '–'}
                   </td>
                   <td className="figure py-1.5 pl-3 text-right whitespace-nowrap">
-                    {formatMass(t.ozoneCentralKg, user.units)}
+                    {formatMassIn(t.ozoneCentralKg, ozoneUnit)}
                   </td>
                   <td className="py-1.5 pl-4" aria-hidden="true">
                     <div className="h-3 rounded-sm bg-tropo-soft" style={{ width: `${(100 * t.noxTotalKg) / peak}%` }}>
