@@ -14,10 +14,10 @@ useTestDatabase();
  * The same figures, up to the last bits of a floating-point sum: the running figures add the monthly
  * roll-ups, the frozen ones the flights, in another order (PostgreSQL showed 1 in the 16th digit).
  */
-function expectSameFigures(a: Record<string, unknown>, b: Record<string, unknown>) {
+function expectSameFigures<T extends object>(a: T, b: T) {
   expect(Object.keys(a).sort()).toEqual(Object.keys(b).sort());
   for (const k of Object.keys(b)) {
-    const [x, y] = [a[k], b[k]];
+    const [x, y] = [(a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k]];
     if (typeof x === 'number' && typeof y === 'number') expect(x, k).toBeCloseTo(y, 6);
     else expect(x, k).toEqual(y);
   }
