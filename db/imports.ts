@@ -56,8 +56,8 @@ export interface RescreenDto {
 
 type Row = Record<string, unknown>;
 
-/** A pending flight ready to store: plain data, its screening input already written as JSON. */
-export interface NewFlightRow {
+/** What every checked import row (a schedule flight or a flown track) says of its flight. */
+export interface PendingFlightFields {
   line: number;
   date: string;
   flight: string;
@@ -66,9 +66,14 @@ export interface NewFlightRow {
   aircraftTypeId: number;
   aircraftCode: string;
   fleetId: number | null;
+  /** The first cruise level (the cruise_fl column, the first step, or the level most flown). */
   cruiseFl: number;
   maxFl: number;
   fuelKg: number;
+}
+
+/** A pending flight ready to store: plain data, its screening input already written as JSON. */
+export interface NewFlightRow extends PendingFlightFields {
   inputJson: string;
   /** Set when the fuel is unusual (not impossible) for the distance: kept with the flight. */
   fuelWarning?: string | null;

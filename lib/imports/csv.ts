@@ -182,3 +182,70 @@ export function csvRejection(
     { status: 422, headers: { 'cache-control': 'no-store' } },
   );
 }
+
+/** A CSV header read against the known columns: which column each index is, and what is wrong with it. */
+export interface CsvHeader<C extends string> {
+  /** Column index -> known column, or null for an ignored one. */
+  byIndex: (C | null)[];
+  /** Each known column's first index. */
+  firstAt: Map<C, number>;
+  problems: LineProblem[];
+  warnings: LineProblem[];
+}
+
+/**
+ * Reads a header row (line 1; a byte-order mark before the first name is dropped, names are
+ * case-insensitive): unnamed and unknown columns are ignored with a warning, a repeated column and a
+ * missing required one are problems.
+ */
+export function readCsvHeader<C extends string>(
+  cells: readonly string[],
+  known: readonly C[],
+  required: readonly C[],
+): CsvHeader<C> {
+  const header: CsvHeader<C> = { byIndex: [], firstAt: new Map(), problems: [], warnings: [] };
+  const isKnown = (name: string): name is C => (known as readonly string[]).includes(name);
+  cells.forEach((raw, i) => {
+    const name = (i === 0 ? raw.replace(/^\uFEFF/, '') : raw).trim().toLowerCase();
+    if (name === '' || !isKnown(name)) {
+      header.byIndex.push(null);
+      header.warnings.push({
+        line: 1,
+        column: name === '' ? `(column ${i + 1})` : raw.trim(),
+        message:
+          name === ''
+            ? `Column ${i + 1} has no name; its cells were ignored.`
+            : `Unknown column “${raw.trim()}”: it was ignored. Known columns: ${known.join(', ')}.`,
+      });
+      return;
+    }
+    const earlier = header.firstAt.get(name);
+    if (earlier !== undefined) {
+      header.byIndex.push(null);
+      header.problems.push({
+        line: 1,
+        column: name,
+        message: `The column ${name} appears twice (columns ${earlier + 1} and ${i + 1}); keep one.`,
+      });
+      return;
+    }
+    header.firstAt.set(name, i);
+    header.byIndex.push(name);
+  });
+  for (const column of required) {
+    if (!header.firstAt.has(column))
+      header.problems.push({
+        line: 1,
+        column,
+        message: `The required column ${column} is missing from the header row.`,
+      });
+  }
+  return header;
+}
+
+/** The one problem of a file that is not UTF-8 (line 0: the file as a whole). */
+export const NOT_UTF8_PROBLEM: LineProblem = {
+  line: 0,
+  column: '',
+  message: 'The file is not UTF-8 text. Save it as “CSV UTF-8 (comma delimited)” and upload it again.',
+};

@@ -16,7 +16,6 @@ import {
   IMPORT_LIMITS,
   SCHEDULE_COLUMNS,
   SCHEDULE_REQUIRED_COLUMNS,
-  isScheduleColumn,
   scheduleRowSchema,
   type ImportProblem,
   type ScheduleCells,
@@ -24,6 +23,8 @@ import {
   type ScheduleRow,
 } from '@/lib/validation/imports';
 import type { AircraftForScreening } from '@/db/aircraft-lookup';
+import type { PendingFlightFields } from '@/db/imports';
+import { NOT_UTF8_PROBLEM, readCsvHeader, type CsvHeader } from './csv';
 
 /**
  * Reading a flight-schedule CSV (DESIGN.md "Import formats"): streamed through papaparse, every row
@@ -42,19 +43,7 @@ export interface ScheduleContext {
 }
 
 /** A row that passed every check, ready to be stored as a pending flight. */
-export interface PreparedFlight {
-  line: number;
-  date: string;
-  flight: string;
-  origin: string;
-  destination: string;
-  aircraftTypeId: number;
-  aircraftCode: string;
-  fleetId: number | null;
-  /** The first cruise level (the cruise_fl column, or the first step). */
-  cruiseFl: number;
-  maxFl: number;
-  fuelKg: number;
+export interface PreparedFlight extends PendingFlightFields {
   /** The validated cruise, Mach and emission; the rest of the screening input is in the fields above. */
   cruise: ScreeningInput['cruise'];
   mach: number | undefined;
@@ -346,67 +335,11 @@ function checkRow(
   };
 }
 
-interface HeaderMap {
-  /** Column index -> known column, or null for an ignored one. */
-  byIndex: (ScheduleColumn | null)[];
-  problems: ImportProblem[];
-  warnings: ImportProblem[];
-}
+type HeaderMap = CsvHeader<ScheduleColumn>;
 
 function readHeader(cells: string[]): HeaderMap {
-  const byIndex: (ScheduleColumn | null)[] = [];
-  const problems: ImportProblem[] = [];
-  const warnings: ImportProblem[] = [];
-  const firstAt = new Map<ScheduleColumn, number>();
-  cells.forEach((raw, i) => {
-    const name = (i === 0 ? raw.replace(/^\uFEFF/, '') : raw).trim().toLowerCase();
-    if (name === '') {
-      byIndex.push(null);
-      warnings.push({
-        line: 1,
-        column: `(column ${i + 1})`,
-        message: `Column ${i + 1} has no name; its cells were ignored.`,
-      });
-      return;
-    }
-    if (!isScheduleColumn(name)) {
-      byIndex.push(null);
-      warnings.push({
-        line: 1,
-        column: raw.trim(),
-        message: `Unknown column “${raw.trim()}”: it was ignored. Known columns: ${SCHEDULE_COLUMNS.join(', ')}.`,
-      });
-      return;
-    }
-    const earlier = firstAt.get(name);
-    if (earlier !== undefined) {
-      byIndex.push(null);
-      problems.push({
-        line: 1,
-        column: name,
-        message: `The column ${name} appears twice (columns ${earlier + 1} and ${i + 1}); keep one.`,
-      });
-      return;
-    }
-    firstAt.set(name, i);
-    byIndex.push(name);
-  });
-  for (const required of SCHEDULE_REQUIRED_COLUMNS) {
-    if (!firstAt.has(required))
-      problems.push({
-        line: 1,
-        column: required,
-        message: `The required column ${required} is missing from the header row.`,
-      });
-  }
-  return { byIndex, problems, warnings };
+  return readCsvHeader(cells, SCHEDULE_COLUMNS, SCHEDULE_REQUIRED_COLUMNS);
 }
-
-const NOT_UTF8: ImportProblem = {
-  line: 0,
-  column: '',
-  message: 'The file is not UTF-8 text. Save it as “CSV UTF-8 (comma delimited)” and upload it again.',
-};
 
 /**
  * Streams the CSV through papaparse and checks every row as it is parsed. Throws a 413 AppError past
@@ -498,7 +431,8 @@ export async function parseSchedule(source: ReadableStream<Uint8Array>, ctx: Sch
   });
   text.destroy();
   if (stop) throw stop;
-  if (decodeFailed) return { flights: [], problems: [NOT_UTF8], warnings: out.warnings, dataRows: out.dataRows };
+  if (decodeFailed)
+    return { flights: [], problems: [NOT_UTF8_PROBLEM], warnings: out.warnings, dataRows: out.dataRows };
   if (header === null) {
     out.problems.push({
       line: 1,

@@ -7,12 +7,13 @@ import {
   TRACK_COLUMNS,
   TRACK_IMPORT_LIMITS,
   TRACK_REQUIRED_COLUMNS,
-  isTrackColumn,
   type TrackColumn,
 } from '@/lib/validation/track-import';
 import type { ImportProblem } from '@/lib/validation/imports';
 import type { AircraftForScreening } from '@/db/aircraft-lookup';
 import { tooLarge } from '@/lib/errors';
+import type { PendingFlightFields } from '@/db/imports';
+import { NOT_UTF8_PROBLEM, readCsvHeader } from './csv';
 
 /**
  * Reading a flown-track CSV (DESIGN.md "Import formats", Tracks): streamed through papaparse, one
@@ -109,45 +110,7 @@ interface HeaderMap {
 }
 
 function readHeader(cells: string[]): HeaderMap {
-  const byIndex: (TrackColumn | null)[] = [];
-  const problems: ImportProblem[] = [];
-  const warnings: ImportProblem[] = [];
-  const seen = new Map<string, number>();
-  cells.forEach((raw, i) => {
-    const name = (i === 0 ? raw.replace(/^\uFEFF/, '') : raw).trim().toLowerCase();
-    if (name === '' || !isTrackColumn(name)) {
-      byIndex.push(null);
-      warnings.push({
-        line: 1,
-        column: name === '' ? `(column ${i + 1})` : raw.trim(),
-        message:
-          name === ''
-            ? `Column ${i + 1} has no name; its cells were ignored.`
-            : `Unknown column “${raw.trim()}”: it was ignored. Known columns: ${TRACK_COLUMNS.join(', ')}.`,
-      });
-      return;
-    }
-    const earlier = seen.get(name);
-    if (earlier !== undefined) {
-      byIndex.push(null);
-      problems.push({
-        line: 1,
-        column: name,
-        message: `The column ${name} appears twice (columns ${earlier + 1} and ${i + 1}); keep one.`,
-      });
-      return;
-    }
-    seen.set(name, i);
-    byIndex.push(name);
-  });
-  for (const required of TRACK_REQUIRED_COLUMNS) {
-    if (!seen.has(required))
-      problems.push({
-        line: 1,
-        column: required,
-        message: `The required column ${required} is missing from the header row.`,
-      });
-  }
+  const { byIndex, firstAt: seen, problems, warnings } = readCsvHeader(cells, TRACK_COLUMNS, TRACK_REQUIRED_COLUMNS);
   if (!seen.has('altitude_ft') && !seen.has('flight_level'))
     problems.push({
       line: 1,
@@ -162,12 +125,6 @@ function readHeader(cells: string[]): HeaderMap {
     });
   return { byIndex, problems, warnings };
 }
-
-const NOT_UTF8: ImportProblem = {
-  line: 0,
-  column: '',
-  message: 'The file is not UTF-8 text. Save it as “CSV UTF-8 (comma delimited)” and upload it again.',
-};
 
 type LevelColumn = TrackFlightPoints['levelColumn'];
 type RowCells = Partial<Record<TrackColumn, string>>;
@@ -502,7 +459,7 @@ export async function parseTrackCsv(source: Readable): Promise<ParsedTracks> {
   const streamed = await streamCsvRows(source, (record) => readRow(reader, record));
   if (streamed.stop) throw streamed.stop;
   out.fileHash = streamed.fileHash;
-  if (streamed.decodeFailed) return { ...out, flights: [], problems: [NOT_UTF8] };
+  if (streamed.decodeFailed) return { ...out, flights: [], problems: [NOT_UTF8_PROBLEM] };
   if (reader.header === null) {
     out.problems.push({
       line: 1,
@@ -535,18 +492,7 @@ export interface TrackContext {
 }
 
 /** A track flight that passed every check, ready to be stored as a pending flown flight. */
-export interface PreparedTrackFlight {
-  line: number;
-  date: string;
-  flight: string;
-  origin: string;
-  destination: string;
-  aircraftTypeId: number;
-  aircraftCode: string;
-  fleetId: number | null;
-  cruiseFl: number;
-  maxFl: number;
-  fuelKg: number;
+export interface PreparedTrackFlight extends PendingFlightFields {
   points: number;
   /** The validated screening input, as JSON. */
   inputJson: string;

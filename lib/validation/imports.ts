@@ -29,10 +29,6 @@ export const SCHEDULE_OPTIONAL_COLUMNS = ['steps', 'fleet', 'ei_nox_g_per_kg', '
 export const SCHEDULE_COLUMNS = [...SCHEDULE_REQUIRED_COLUMNS, ...SCHEDULE_OPTIONAL_COLUMNS] as const;
 export type ScheduleColumn = (typeof SCHEDULE_COLUMNS)[number];
 
-export function isScheduleColumn(name: string): name is ScheduleColumn {
-  return (SCHEDULE_COLUMNS as readonly string[]).includes(name);
-}
-
 export interface ScheduleColumnDoc {
   name: ScheduleColumn;
   required: boolean;

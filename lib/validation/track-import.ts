@@ -20,10 +20,6 @@ export const TRACK_OPTIONAL_COLUMNS = ['fuel_flow_kg_h', 'aircraft', 'origin', '
 export const TRACK_COLUMNS = [...TRACK_REQUIRED_COLUMNS, ...TRACK_LEVEL_COLUMNS, ...TRACK_OPTIONAL_COLUMNS] as const;
 export type TrackColumn = (typeof TRACK_COLUMNS)[number];
 
-export function isTrackColumn(name: string): name is TrackColumn {
-  return (TRACK_COLUMNS as readonly string[]).includes(name);
-}
-
 export interface TrackColumnDoc {
   name: TrackColumn;
   required: 'yes' | 'one of two' | 'no';
