@@ -63,6 +63,18 @@ export async function handleStripeEvent(event: Stripe.Event): Promise<WebhookOut
         const creation = event.type === 'customer.subscription.created';
         if (!isCurrent(billing, sub.id, creation)) return { result: 'ignored', reason: 'not the current subscription' };
         const patch: BillingPatch = patchFromSubscription(sub);
+        // Events may arrive out of order: one that describes an earlier period of the same subscription
+        // (the creation event of a backdated start, delivered after the first period closed) must not
+        // move the period back.
+        if (
+          billing.subscriptionId === sub.id &&
+          billing.currentPeriodStart &&
+          patch.currentPeriodStart &&
+          patch.currentPeriodStart < billing.currentPeriodStart
+        ) {
+          delete patch.currentPeriodStart;
+          delete patch.currentPeriodEnd;
+        }
         if (event.type === 'customer.subscription.deleted') patch.status = 'canceled';
         // From when the subscription was made, not its start date: a backdated start must not bill
         // usage recorded before the subscription existed (for any other, the two are the same).

@@ -89,6 +89,49 @@ describe('signature', () => {
   });
 });
 
+describe('order', () => {
+  it('an event about an earlier period of the same subscription, delivered late, does not move the period back', async () => {
+    const { ws, billing } = await subscribedWith('succeeds');
+    const sub = await h.sdk.subscriptions.retrieve(billing.subscriptionId!);
+    const month = 30 * 86_400;
+    const earlier = {
+      ...sub,
+      items: {
+        ...sub.items,
+        data: sub.items.data.map((i) => ({
+          ...i,
+          current_period_start: i.current_period_start - month,
+          current_period_end: i.current_period_start,
+        })),
+      },
+    };
+    const r = await call<{ result: string }>(
+      webhookRoute.POST,
+      signedWebhook(eventFor('customer.subscription.updated', earlier)),
+    );
+    expect(r.status).toBe(200);
+    const after = (await getBilling({ workspaceId: ws.id }))!;
+    expect(after.currentPeriodStart).toBe(billing.currentPeriodStart);
+    expect(after.currentPeriodEnd).toBe(billing.currentPeriodEnd);
+    // A later period still moves it forward.
+    const later = {
+      ...sub,
+      items: {
+        ...sub.items,
+        data: sub.items.data.map((i) => ({
+          ...i,
+          current_period_start: i.current_period_end,
+          current_period_end: i.current_period_end + month,
+        })),
+      },
+    };
+    await call(webhookRoute.POST, signedWebhook(eventFor('customer.subscription.updated', later)));
+    expect(Date.parse((await getBilling({ workspaceId: ws.id }))!.currentPeriodStart!)).toBeGreaterThan(
+      Date.parse(billing.currentPeriodStart!),
+    );
+  });
+});
+
 describe('replays', () => {
   it('the same event delivered 5 times changes the state once: one webhook_events row, one audit row', async () => {
     const { ws, billing } = await subscribedWith('succeeds');
