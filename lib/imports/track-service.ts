@@ -12,7 +12,7 @@ import { TRACK_IMPORT_LIMITS } from '@/lib/validation/track-import';
 import type { ImportProblem } from '@/lib/validation/imports';
 import { parseTrackCsv, prepareTrackFlights, type ParsedTracks } from './tracks';
 import { sortProblems } from './schedule';
-import { wakeImportWorker } from './worker';
+import { queueImportWork } from './jobs';
 
 export type TrackUploadOutcome =
   | { accepted: true; import: ImportDto; points: number; warnings: ImportProblem[] }
@@ -154,6 +154,7 @@ export async function acceptTrackUpload(
     warnings: parsed.warnings,
     points: parsed.points,
   });
-  wakeImportWorker();
+  // Screened by the job runner, like schedule imports (the sweep would find it too, within half a minute).
+  await queueImportWork('screen', { importId: saved.id, workspaceId: scope.workspaceId });
   return { accepted: true, import: saved, points: parsed.points, warnings: parsed.warnings };
 }

@@ -67,6 +67,13 @@ describe('POST /workspaces/{slug}/imports/tracks', () => {
     });
     expect(r.status).toBe(202);
     expect(r.body).toMatchObject({ kind: 'tracks', status: 'queued', rows: 2, points: 9 });
+    // The upload queues its screening job at once, as a schedule upload does (SQLite's in-process queue).
+    if (!onPostgres())
+      expect(await db()('local_jobs').where({ name: 'import.screen' }).select('payload_json')).toEqual(
+        expect.arrayContaining([
+          expect.objectContaining({ payload_json: expect.stringContaining(`"importId":${r.body.id}`) }),
+        ]),
+      );
     expect(await db()('usage_events').where({ workspace_id: ws.id }).count({ n: '*' }).first()).toMatchObject({
       n: 0,
     });
