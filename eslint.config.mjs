@@ -29,5 +29,13 @@ export default defineConfig([
   },
   // Formatting is Prettier's job; this turns off the stylistic rules that would fight it.
   prettier,
-  globalIgnores(['.next/**', 'node_modules/**', '.data/**', 'coverage/**', 'tests/e2e/output/**', 'next-env.d.ts']),
+  globalIgnores([
+    '.next/**',
+    '.next-bench/**',
+    'node_modules/**',
+    '.data/**',
+    'coverage/**',
+    'tests/e2e/output/**',
+    'next-env.d.ts',
+  ]),
 ]);
