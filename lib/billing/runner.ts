@@ -1,18 +1,16 @@
 import 'server-only';
 import { db, usingPostgres } from '@/db/client';
-import { env } from '@/lib/env';
 import { log } from '@/lib/log';
 import { provisionBilling } from './provision';
 import { sendPendingUsage } from './usage-sender';
 
 /**
- * The billing loop started from instrumentation.ts or the worker process (`npm run worker`):
- * provisions customers and the demo subscriptions, then sends due usage, every
- * BILLING_SENDER_INTERVAL_MS. One loop per process (kept on globalThis: instrumentation and route
- * handlers may load separate module copies); a tick never overlaps the previous one, and
- * provisioning backs off while the payment service is unreachable. On PostgreSQL a tick runs under
- * a transaction-scoped advisory lock, so across every process that runs the loop only one ticks at
- * a time; the others skip their turn.
+ * The billing work of the recurring `usage.send` job (jobs.ts): provisions customers and the demo
+ * subscriptions, then sends due usage. A tick never overlaps the previous one in this process (the
+ * state is kept on globalThis: instrumentation and route handlers may load separate module copies),
+ * and provisioning backs off while the payment service is unreachable. On PostgreSQL a tick runs
+ * under a transaction-scoped advisory lock, so across every process only one ticks at a time; the
+ * others skip their turn.
  */
 
 /** The advisory lock key of the billing loop (any fixed 64-bit number no other lock uses). */
@@ -34,13 +32,10 @@ export async function withBillingLock<T>(fn: () => Promise<T>): Promise<{ ran: t
   });
 }
 interface LoopState {
-  timer: NodeJS.Timeout | null;
   running: boolean;
   provisionFailures: number;
   nextProvisionAt: number;
 }
-
-const g = globalThis as unknown as { tropopassBillingLoop?: LoopState };
 
 async function tick(state: LoopState): Promise<void> {
   if (state.running) return;
@@ -48,7 +43,7 @@ async function tick(state: LoopState): Promise<void> {
   try {
     await withBillingLock(() => work(state));
   } catch (err) {
-    log.warn({ event: 'billing.loop_error', err }, 'billing loop tick failed; next tick retries');
+    log.warn({ event: 'billing.loop_error', err }, 'billing tick failed; next tick retries');
   } finally {
     state.running = false;
   }
@@ -68,32 +63,14 @@ async function work(state: LoopState): Promise<void> {
   await sendPendingUsage();
 }
 
-export function startBillingLoop(): boolean {
-  if (g.tropopassBillingLoop) return false;
-  const state: LoopState = { timer: null, running: false, provisionFailures: 0, nextProvisionAt: 0 };
-  g.tropopassBillingLoop = state;
-  const interval = env().BILLING_SENDER_INTERVAL_MS;
-  state.timer = setInterval(() => void tick(state), interval);
-  state.timer.unref();
-  void tick(state);
-  log.info({ event: 'billing.loop_started', intervalMs: interval }, 'billing sender started');
-  return true;
-}
-
-export function stopBillingLoop(): void {
-  const state = g.tropopassBillingLoop;
-  if (state?.timer) clearInterval(state.timer);
-  g.tropopassBillingLoop = undefined;
-}
-
 const gt = globalThis as unknown as { tropopassBillingTick?: LoopState };
 
 /**
  * One tick of the billing work (provisioning with its back-off, then due usage), under the billing
  * lock: what the recurring `usage.send` job runs (lib/billing/jobs.ts). Errors are logged and the
- * next tick retries, as in the loop.
+ * next tick retries.
  */
 export async function runBillingTick(): Promise<void> {
-  gt.tropopassBillingTick ??= { timer: null, running: false, provisionFailures: 0, nextProvisionAt: 0 };
+  gt.tropopassBillingTick ??= { running: false, provisionFailures: 0, nextProvisionAt: 0 };
   await tick(gt.tropopassBillingTick);
 }

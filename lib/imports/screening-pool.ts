@@ -5,6 +5,7 @@ import { Piscina } from 'piscina';
 import type { PendingFlight, ScreenedOutcome } from '@/db/imports';
 import { figuresOf } from './figures';
 import { env } from '@/lib/env';
+import { usingPostgres } from '@/db/client';
 import type { ScreeningTotals } from '@/lib/screening';
 
 /**
@@ -15,9 +16,10 @@ import type { ScreeningTotals } from '@/lib/screening';
 
 type ThreadResult = { id: number; totals: ScreeningTotals } | { id: number; error: string };
 
-const g = globalThis as unknown as {
-  tropopassScreeningPool?: Piscina<{ id: number; inputJson: string }[], ThreadResult[]>;
-};
+/** One pool for the thread's three tasks (screen-thread.mjs): each call below names its task and result type. */
+type Pool = Piscina<unknown, unknown>;
+
+const g = globalThis as unknown as { tropopassScreeningPool?: Pool };
 
 /** Threads for screening: SCREENING_THREADS, else one core short of the machine (1 to 4), none under tests. */
 export function screeningThreads(): number {
@@ -27,11 +29,13 @@ export function screeningThreads(): number {
   return Math.max(1, Math.min(4, os.availableParallelism() - 1));
 }
 
-function pool(threads: number): Piscina<{ id: number; inputJson: string }[], ThreadResult[]> {
+function pool(threads: number): Pool {
   g.tropopassScreeningPool ??= new Piscina({
     filename: path.join(/*turbopackIgnore: true*/ process.cwd(), 'lib/imports/screen-thread.mjs'),
     minThreads: 0,
     maxThreads: threads,
+    // The threads load db/ (screenAndSave), whose modules are marked server-only as the server's are.
+    execArgv: ['--conditions=react-server'],
     idleTimeout: 30_000,
   });
   return g.tropopassScreeningPool;
@@ -50,7 +54,9 @@ export async function screenInThreads(pending: PendingFlight[]): Promise<Screene
   const slices: PendingFlight[][] = [];
   for (let i = 0; i < pending.length; i += size) slices.push(pending.slice(i, i + size));
   const results = (
-    await Promise.all(slices.map((s) => p.run(s.map((f) => ({ id: f.id, inputJson: f.inputJson })))))
+    await Promise.all(
+      slices.map((s) => p.run(s.map((f) => ({ id: f.id, inputJson: f.inputJson }))) as Promise<ThreadResult[]>),
+    )
   ).flat();
   const byId = new Map(results.map((r) => [r.id, r]));
   return pending.map((f) => {
@@ -59,6 +65,34 @@ export async function screenInThreads(pending: PendingFlight[]): Promise<Screene
     if (!r) return { ...base, error: 'the screening thread returned no result for this flight' };
     return 'totals' in r ? { ...base, figures: figuresOf(r.totals) } : { ...base, error: r.error };
   });
+}
+
+/**
+ * On SQLite, screens a chunk of pending flights and saves it from the pool's threads, each thread
+ * its own slice in its own transaction (thread-save.ts), so neither the screening nor the write
+ * blocks the event loop; returns how many flights were saved. Null when screening threads are off
+ * or the database is PostgreSQL (its driver does not block the event loop: the caller saves).
+ */
+export async function screenAndSaveInThreads(importId: number, pending: PendingFlight[]): Promise<number | null> {
+  const threads = screeningThreads();
+  if (threads === 0 || usingPostgres()) return null;
+  if (pending.length === 0) return 0;
+  const p = pool(threads);
+  const sqliteFile = path.resolve(/*turbopackIgnore: true*/ process.cwd(), env().SQLITE_FILE);
+  const size = Math.ceil(pending.length / threads);
+  const runs: Promise<number>[] = [];
+  for (let i = 0; i < pending.length; i += size)
+    runs.push(
+      p.run(
+        { importId, sqliteFile, flights: pending.slice(i, i + size) },
+        { name: 'screenAndSave' },
+      ) as Promise<number>,
+    );
+  // Every slice runs to its end before a failure is reported, so a retry finds no write still going.
+  const settled = await Promise.allSettled(runs);
+  const failed = settled.find((r): r is PromiseRejectedResult => r.status === 'rejected');
+  if (failed) throw failed.reason;
+  return settled.reduce((n, r) => n + (r.status === 'fulfilled' ? r.value : 0), 0);
 }
 
 /** Components built for one flight: bytes, or null when the engine could not build them. */
@@ -82,7 +116,7 @@ export async function componentsInThreads(
   const size = Math.ceil(items.length / threads);
   const runs: Promise<BuiltComponents[]>[] = [];
   for (let i = 0; i < items.length; i += size)
-    runs.push(p.run(items.slice(i, i + size), { name: 'componentsBatch' }) as unknown as Promise<BuiltComponents[]>);
+    runs.push(p.run(items.slice(i, i + size), { name: 'componentsBatch' }) as Promise<BuiltComponents[]>);
   return (await Promise.all(runs)).flat();
 }
 

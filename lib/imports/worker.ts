@@ -1,6 +1,5 @@
 import 'server-only';
 import { setImmediate as yieldToEventLoop } from 'node:timers/promises';
-import { screenTotals, ScreeningInputError, type ScreeningInput } from '@/lib/screening';
 import {
   claimImport,
   failImport,
@@ -13,24 +12,24 @@ import {
   saveRescreenChunk,
   saveScreenedChunk,
   type RescreenJob,
-  type ScreenedOutcome,
 } from '@/db/imports';
 import { log } from '@/lib/log';
-import { figuresOf } from './figures';
 import { leaseImport } from './import-lock';
-import { screenInThreads } from './screening-pool';
+import { screenChunk } from './screen-chunk';
+import { screenAndSaveInThreads, screenInThreads } from './screening-pool';
 import { buildComponentBacklog } from './components';
 import { nextChunkSize } from './chunk-size';
 import { checkBudgetAlerts } from '@/lib/billing/budget';
 import { checkTargetAlerts } from '@/lib/periods/alerts';
 
 /**
- * The background screening of imported flights, in the server process or a standalone worker
- * process (`npm run worker`). It polls for imports that are queued or were left mid-way (status
- * screening: a restart resumes them), screens their pending flights in chunks (in worker threads,
- * see screening-pool.ts), and writes each chunk (figures, status, one usage unit per screened flight) in
- * one transaction. A chunk only touches flights still pending, so a chunk replayed after a crash
- * can neither lose a flight nor bill one twice.
+ * The screening of imported flights, run as job steps (jobs.ts: screenImportStep, rescreenImportStep)
+ * in the server process or a standalone worker process (`npm run worker`), and to the end by
+ * runImportsToCompletion (tests, scripts). It screens an import's pending flights in chunks (in
+ * worker threads, see screening-pool.ts) and writes each chunk (figures, status, roll-ups, one usage
+ * unit per screened flight) in one transaction, on SQLite from the threads themselves so the event
+ * loop stays free. A chunk only touches flights still pending, so a chunk replayed after a crash can
+ * neither lose a flight nor bill one twice.
  *
  * When no import or re-screen is left, it builds the fleet-sampling components that screened flights
  * lack (components.ts), giving way to any import that arrives.
@@ -42,8 +41,6 @@ import { checkTargetAlerts } from '@/lib/periods/alerts';
  */
 
 export const IMPORT_CHUNK_SIZE = 500;
-const IDLE_POLL_MS = 1000;
-const RETRY_MS = 2000;
 const MAX_CONSECUTIVE_ERRORS = 5;
 
 export interface ChunkProgress {
@@ -65,10 +62,7 @@ export interface RunSummary {
 }
 
 interface WorkerState {
-  started: boolean;
-  stopping: boolean;
-  timer: NodeJS.Timeout | null;
-  /** Serialises every pass in this process (the background loop and explicit runs). */
+  /** Serialises every explicit run in this process. */
   chain: Promise<unknown>;
   errors: Map<number, number>;
   /** False until a backlog pass found no flight lacking components since the last import or re-screen. */
@@ -79,33 +73,11 @@ const g = globalThis as unknown as { tropopassImportWorker?: WorkerState };
 
 function state(): WorkerState {
   g.tropopassImportWorker ??= {
-    started: false,
-    stopping: false,
-    timer: null,
     chain: Promise.resolve(),
     errors: new Map(),
     componentsClean: false,
   };
   return g.tropopassImportWorker;
-}
-
-function reasonOf(err: unknown): string {
-  if (err instanceof ScreeningInputError)
-    return err.fields.map((f) => `${f.path}: ${f.message}`).join('; ') || err.message;
-  if (err instanceof Error) return err.message;
-  return 'the screening engine could not screen this flight';
-}
-
-function screenChunk(pending: Awaited<ReturnType<typeof listPendingFlights>>): ScreenedOutcome[] {
-  return pending.map((p) => {
-    try {
-      const input = JSON.parse(p.inputJson) as ScreeningInput;
-      // Only the summary figures leave this function: the full result (its segments) dies young.
-      return { id: p.id, workspaceId: p.workspaceId, line: p.line, figures: figuresOf(screenTotals(input)) };
-    } catch (err) {
-      return { id: p.id, workspaceId: p.workspaceId, line: p.line, error: reasonOf(err) };
-    }
-  });
 }
 
 const pastDeadline = (opts: RunOptions): boolean => opts.deadline !== undefined && Date.now() >= opts.deadline;
@@ -127,7 +99,7 @@ async function screenImport(importId: number, opts: RunOptions): Promise<number>
   let flights = 0;
   let workspaceId: number | null = null;
   for (;;) {
-    if (state().stopping || pastDeadline(opts)) return flights;
+    if (pastDeadline(opts)) return flights;
     const pending = await listPendingFlights(importId, chunkSize);
     if (pending.length === 0) {
       const status = await finishImport(importId);
@@ -141,8 +113,9 @@ async function screenImport(importId: number, opts: RunOptions): Promise<number>
     }
     workspaceId = pending[0].workspaceId;
     chunkSize = nextChunkSize(chunkSize, pending);
-    const outcomes = (await screenInThreads(pending)) ?? screenChunk(pending);
-    const saved = await saveScreenedChunk(importId, outcomes);
+    const saved =
+      (await screenAndSaveInThreads(importId, pending)) ??
+      (await saveScreenedChunk(importId, (await screenInThreads(pending)) ?? screenChunk(pending)));
     flights += saved;
     await checkBudgetAlerts({ workspaceId: pending[0].workspaceId });
     state().errors.delete(importId);
@@ -161,7 +134,7 @@ async function processRescreen(job: RescreenJob, opts: RunOptions): Promise<numb
   let flights = 0;
   let workspaceId: number | null = null;
   for (;;) {
-    if (state().stopping || pastDeadline(opts)) return flights;
+    if (pastDeadline(opts)) return flights;
     const batch = await listRescreenFlights(cursor, chunkSize);
     if (batch.length === 0) {
       await finishRescreen(job.importId);
@@ -185,18 +158,16 @@ async function pass(opts: RunOptions): Promise<RunSummary> {
   const summary: RunSummary = { imports: 0, flights: 0 };
   for (;;) {
     const active = await listActiveImports();
-    if (active.length === 0 && !state().stopping) {
+    if (active.length === 0) {
       const rescreens = await listActiveRescreens();
       if (rescreens.length === 0) {
         if (state().componentsClean) return summary;
         // Idle: build the fleet-sampling components the screened flights lack, giving way to imports.
-        const backlog = await buildComponentBacklog(
-          async () => state().stopping || (await listActiveImports()).length > 0,
-        );
+        const backlog = await buildComponentBacklog(async () => (await listActiveImports()).length > 0);
         if (backlog.built > 0)
           log.info({ event: 'import.components_built', flights: backlog.built }, 'fleet-sampling components built');
         if (!backlog.interrupted) state().componentsClean = true;
-        if (!backlog.interrupted || state().stopping) return summary;
+        if (!backlog.interrupted) return summary;
         continue;
       }
       state().componentsClean = false;
@@ -206,7 +177,6 @@ async function pass(opts: RunOptions): Promise<RunSummary> {
       }
       continue;
     }
-    if (active.length === 0 || state().stopping) return summary;
     let progressed = false;
     let leasedElsewhere = 0;
     for (const imp of active) {
@@ -257,50 +227,6 @@ function enqueue<T>(fn: () => Promise<T>): Promise<T> {
  */
 export function runImportsToCompletion(opts: RunOptions = {}): Promise<RunSummary> {
   return enqueue(() => pass(opts));
-}
-
-function schedule(delayMs: number): void {
-  const s = state();
-  if (!s.started || s.stopping) return;
-  if (s.timer) clearTimeout(s.timer);
-  s.timer = setTimeout(() => {
-    s.timer = null;
-    enqueue(() => pass({})).then(
-      () => schedule(IDLE_POLL_MS),
-      (err: unknown) => {
-        log.error({ err, event: 'import.worker_pass_failed' }, 'import worker pass failed; retrying');
-        schedule(RETRY_MS);
-      },
-    );
-  }, delayMs);
-  s.timer.unref();
-}
-
-/** Starts the in-process worker (idempotent). On start it resumes imports left in screening. */
-export function startImportWorker(): void {
-  const s = state();
-  if (s.started) return;
-  s.started = true;
-  s.stopping = false;
-  log.info({ event: 'import.worker_started' }, 'import worker started');
-  schedule(0);
-}
-
-/** Asks a started worker to look for work now (after an upload), instead of at its next poll. */
-export function wakeImportWorker(): void {
-  const s = state();
-  if (s.started && !s.stopping && s.timer) schedule(0);
-}
-
-/** Stops the background loop after its current chunk. */
-export async function stopImportWorker(): Promise<void> {
-  const s = state();
-  s.stopping = true;
-  if (s.timer) clearTimeout(s.timer);
-  s.timer = null;
-  s.started = false;
-  await s.chain;
-  s.stopping = false;
 }
 
 /** Time a job spends on one import before it queues its next step (lib/imports/jobs.ts). */

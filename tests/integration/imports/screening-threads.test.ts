@@ -10,6 +10,7 @@ import { closeScreeningPool, screeningThreads } from '@/lib/imports/screening-po
 import { runImportsToCompletion } from '@/lib/imports/worker';
 import { screenTotals, screenWithComponents, type ScreeningInput } from '@/lib/screening';
 import { HEADER, addScheduleLibrary, csv, goodRows, uploadRequest } from './support';
+import { expectRollupsMatchRows } from '../../support/rollups';
 
 useTestDatabase({ SCREENING_THREADS: '2' });
 afterAll(() => closeScreeningPool());
@@ -86,6 +87,11 @@ describe('screening in worker threads', () => {
         .countDistinct({ d: 'source_id' })
         .first()) as { n: number | string; d: number | string };
       expect([Number(units.n), Number(units.d)]).toEqual([3000, 3000]);
+      // On SQLite the threads also wrote the chunks (figures, roll-ups, units, progress) in their own
+      // transactions: the roll-ups still equal the rows and the import counted every flight once.
+      await expectRollupsMatchRows(threaded.workspaceId);
+      const imp = (await db()('imports').where({ id: threaded.importId }).first()) as Record<string, unknown>;
+      expect([imp.status, Number(imp.rows_done)]).toEqual(['complete', 3000]);
       // Then the worker built each flight's fleet-sampling components on the threads, as the engine does.
       const comps = (await db()('flight_components')
         .where({ workspace_id: threaded.workspaceId })
@@ -105,7 +111,8 @@ describe('screening in worker threads', () => {
         console.info(
           `[screening-threads] event-loop utilisation during a 3000-row import: ${threadedUtil.toFixed(2)} with 2 threads, ${inlineUtil.toFixed(2)} on the loop`,
         );
-        expect(threadedUtil).toBeLessThan(inlineUtil * 0.8);
+        // Screening and (on SQLite) the chunk writes run on the threads: the loop is left mostly idle.
+        expect(threadedUtil).toBeLessThan(inlineUtil * 0.5);
       } finally {
         process.env.SCREENING_THREADS = '2';
         resetEnvForTests();
