@@ -200,7 +200,15 @@ function sendsOf(k: Knex | Knex.Transaction, workspaceId: number) {
  */
 export async function queueReportSend(
   scope: { workspaceId: number },
-  input: { reportId: number; recipients: string[]; sentBy: number | null; sendKey: string; actor: string },
+  input: {
+    reportId: number;
+    recipients: string[];
+    sentBy: number | null;
+    sendKey: string;
+    actor: string;
+    /** What the job needs beyond the send (sender name, note): kept so the sweep can queue it again. */
+    jobJson: string;
+  },
 ): Promise<ReportSendDto> {
   const id = await writeTx(async (trx) => {
     const report = await trx('reports').where({ workspace_id: scope.workspaceId, id: input.reportId }).first('id');
@@ -216,6 +224,7 @@ export async function queueReportSend(
           message_id: null,
           error: null,
           send_key: input.sendKey,
+          job_json: input.jobJson,
           attempts: 0,
           queued_at: now,
           sent_at: now,
@@ -255,6 +264,35 @@ export async function getReportSendForJob(
     sendKey: (r.send_key as string | null) ?? null,
     attempts: Number(r.attempts ?? 0),
   };
+}
+
+/** A send still queued since before `queuedBefore`, with what its job needs (the sweep's input). */
+export interface StaleReportSend {
+  id: number;
+  workspaceId: number;
+  reportId: number;
+  jobJson: string;
+}
+
+/**
+ * Sends still queued that were recorded before `queuedBefore` and keep their job's input, oldest
+ * first, at most `limit`: the ones whose job may never have been queued (lib/reports/jobs.ts sweep).
+ */
+export async function listStaleQueuedReportSends(queuedBefore: string, limit = 200): Promise<StaleReportSend[]> {
+  const rows = (await db()('report_sends as s')
+    .join('reports as r', 'r.id', 's.report_id')
+    .where('s.status', 'queued')
+    .whereNotNull('s.job_json')
+    .where('s.queued_at', '<', queuedBefore)
+    .orderBy('s.id')
+    .limit(limit)
+    .select('s.id', 'r.workspace_id', 's.report_id', 's.job_json')) as Row[];
+  return rows.map((r) => ({
+    id: Number(r.id),
+    workspaceId: Number(r.workspace_id),
+    reportId: Number(r.report_id),
+    jobJson: String(r.job_json),
+  }));
 }
 
 /**

@@ -5,6 +5,7 @@ import {
   getReport,
   getReportPdf,
   getReportSendForJob,
+  listStaleQueuedReportSends,
   markReportSendAttempt,
   noteReportSendRetry,
   queueReportSend,
@@ -28,6 +29,10 @@ import type { ReportSummary } from './model';
  * sends nothing) and counts the attempt before the mail server is asked. A worker that dies between
  * the mail server's acceptance and the record leaves the send queued: its replay sends the e-mail
  * again, with the same Message-ID, so that one case remains at least once.
+ *
+ * A process that dies after recording the send and before queueing its job leaves a queued send with
+ * no job: the recurring `reports.sweep` queues the job of every send still queued a minute after it was
+ * recorded (the singleton key skips those whose job is waiting, backing off or running).
  */
 export interface ReportSendJob {
   workspaceId: number;
@@ -110,22 +115,21 @@ export async function queueReportSendJob(
     actor: string;
   },
 ): Promise<ReportSendDto> {
+  const rest: SendJobRest = {
+    ...(input.note ? { note: input.note } : {}),
+    senderName: input.senderName,
+    sentBy: input.sentBy,
+    actor: input.actor,
+  };
   const send = await queueReportSend(scope, {
     reportId: input.reportId,
     recipients: input.recipients,
     sentBy: input.sentBy,
     sendKey: `report-send-${randomUUID()}`,
     actor: input.actor,
+    jobJson: JSON.stringify(rest),
   });
-  const job: ReportSendJob = {
-    workspaceId: scope.workspaceId,
-    reportId: input.reportId,
-    sendId: send.id,
-    ...(input.note ? { note: input.note } : {}),
-    senderName: input.senderName,
-    sentBy: input.sentBy,
-    actor: input.actor,
-  };
+  const job: ReportSendJob = { workspaceId: scope.workspaceId, reportId: input.reportId, sendId: send.id, ...rest };
   try {
     await enqueue(REPORT_SEND_JOB, job, { singletonKey: `report-send:${send.id}` });
   } catch (err) {
@@ -140,6 +144,53 @@ export async function queueReportSendJob(
   }
   return send;
 }
+
+/** What a send keeps of its job beyond the send's own ids (report_sends.job_json). */
+type SendJobRest = Pick<ReportSendJob, 'note' | 'senderName' | 'sentBy' | 'actor'>;
+
+function restOf(json: string): SendJobRest | null {
+  try {
+    const v = JSON.parse(json) as Partial<SendJobRest>;
+    if (typeof v.senderName !== 'string' || typeof v.actor !== 'string') return null;
+    return {
+      ...(typeof v.note === 'string' ? { note: v.note } : {}),
+      senderName: v.senderName,
+      sentBy: typeof v.sentBy === 'number' ? v.sentBy : null,
+      actor: v.actor,
+    };
+  } catch {
+    return null;
+  }
+}
+
+export const REPORT_SEND_SWEEP_JOB = 'reports.sweep';
+
+/** How long a send may stay queued before the sweep looks for its job: the request queues it within milliseconds. */
+export const STALE_SEND_MS = 60_000;
+
+/**
+ * Queues the job of every send still queued STALE_SEND_MS after it was recorded, unless its job is
+ * still open; returns how many it queued.
+ */
+export async function sweepQueuedReportSends(now: Date = new Date()): Promise<number> {
+  let queued = 0;
+  for (const s of await listStaleQueuedReportSends(new Date(now.getTime() - STALE_SEND_MS).toISOString())) {
+    const rest = restOf(s.jobJson);
+    if (!rest) continue;
+    const job: ReportSendJob = { workspaceId: s.workspaceId, reportId: s.reportId, sendId: s.id, ...rest };
+    if (await enqueue(REPORT_SEND_JOB, job, { singletonKey: `report-send:${s.id}` })) queued += 1;
+  }
+  if (queued > 0)
+    log.info({ event: 'report.sends_requeued', count: queued }, 'queued report e-mails found without a job');
+  return queued;
+}
+
+defineJob(REPORT_SEND_SWEEP_JOB, async () => void (await sweepQueuedReportSends()), {
+  group: 'mail',
+  maxAttempts: 1,
+  expireInSeconds: 60,
+  everyMs: () => STALE_SEND_MS,
+});
 
 /**
  * `report.redeliver`, the job an earlier release queued for a refused first attempt: kept so such

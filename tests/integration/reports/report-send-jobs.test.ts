@@ -9,7 +9,12 @@ import { startSmtpFake, type SmtpFake } from '@/lib/fakes/smtp/server';
 import { enqueue } from '@/lib/jobs';
 import { runDueLocalJobs } from '@/lib/jobs/local';
 import { listFailedJobs, retryFailedJob } from '@/lib/jobs/failed-jobs';
-import { LEGACY_REPORT_REDELIVERY_JOB, REPORT_SEND_JOB } from '@/lib/reports/jobs';
+import {
+  LEGACY_REPORT_REDELIVERY_JOB,
+  REPORT_SEND_JOB,
+  STALE_SEND_MS,
+  sweepQueuedReportSends,
+} from '@/lib/reports/jobs';
 
 // The mail server's port is free at first: nothing listens there until a test starts the fake on it.
 const smtpPort = await freePort();
@@ -147,6 +152,25 @@ sqliteOnly('report e-mails are report.send jobs', () => {
     expect(mails[0].messageId).toBe(`<${first.send_key}@tropopass.test>`);
     expect(mails[1].messageId, 'a receiving system can tell the copy by its Message-ID').toBe(mails[0].messageId);
     expect(await row(id)).toMatchObject({ status: 'sent', attempts: 2, message_id: mails[0].messageId });
+  });
+
+  it('a send recorded by a process that died before it queued the job is queued again by the sweep, with the same job, and sent once', async () => {
+    await mailUp();
+    const { send } = await reportToSend();
+    const id = await send('lost@example.test');
+    const [lost] = await queuedJobs();
+    // As if the process died between the record and the enqueue: the send is queued, its job is not.
+    await db()('local_jobs').delete();
+    expect(await sweepQueuedReportSends(), 'a send just recorded is left to its request').toBe(0);
+    const afterAMinute = new Date(Date.now() + STALE_SEND_MS + 1_000);
+    expect(await sweepQueuedReportSends(afterAMinute)).toBe(1);
+    const [again] = await queuedJobs();
+    expect(JSON.parse(String(again.payload_json))).toEqual(JSON.parse(String(lost.payload_json)));
+    expect(await sweepQueuedReportSends(afterAMinute), 'its job is waiting: no second one').toBe(0);
+    expect(await runDueLocalJobs()).toBe(1);
+    expect(await row(id)).toMatchObject({ status: 'sent', attempts: 1 });
+    expect(await sweepQueuedReportSends(afterAMinute), 'sent: nothing left to queue').toBe(0);
+    expect(mailsTo('lost@example.test')).toHaveLength(1);
   });
 
   it('a send whose report is deleted before its job runs ends without a mail or a dead letter', async () => {
