@@ -125,8 +125,9 @@ async function screenImport(importId: number, opts: RunOptions): Promise<number>
 }
 
 /**
- * Screens an import's flights again with the current engine, chunk by chunk after its cursor. Figures
- * only: no usage unit is written (db/imports.ts saveRescreenChunk).
+ * Screens an import's flights again with the current engine, chunk by chunk after its cursor, on the
+ * screening threads as a first screening is. Figures only: no usage unit is written (db/imports.ts
+ * saveRescreenChunk).
  */
 async function processRescreen(job: RescreenJob, opts: RunOptions): Promise<number> {
   const chunkSize = opts.chunkSize ?? IMPORT_CHUNK_SIZE;
@@ -146,7 +147,7 @@ async function processRescreen(job: RescreenJob, opts: RunOptions): Promise<numb
       return flights;
     }
     workspaceId = batch[0].workspaceId;
-    const { done } = await saveRescreenChunk(cursor, screenChunk(batch));
+    const { done } = await saveRescreenChunk(cursor, (await screenInThreads(batch)) ?? screenChunk(batch));
     flights += done;
     cursor = { ...cursor, lastFlightId: batch[batch.length - 1].id };
     await opts.onChunk?.({ importId: job.importId, saved: done });

@@ -3,12 +3,13 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { call, makeWorkspace, sessionCookie, useTestDatabase } from '../../support/test-db';
 import * as importsRoute from '@/app/api/v1/workspaces/[slug]/imports/route';
 import { db } from '@/db/client';
-import type { ImportDto } from '@/db/imports';
+import { requestImportRescreen, type ImportDto } from '@/db/imports';
+import { rebuildFlightRollups } from '@/db/flight-rollups';
 import { figuresOf } from '@/lib/imports/figures';
 import { resetEnvForTests } from '@/lib/env';
 import { closeScreeningPool, screeningThreads } from '@/lib/imports/screening-pool';
 import { runImportsToCompletion } from '@/lib/imports/worker';
-import { screenTotals, screenWithComponents, type ScreeningInput } from '@/lib/screening';
+import { ENGINE_VERSION, screenTotals, screenWithComponents, type ScreeningInput } from '@/lib/screening';
 import { HEADER, addScheduleLibrary, csv, goodRows, uploadRequest } from './support';
 import { expectRollupsMatchRows } from '../../support/rollups';
 
@@ -38,7 +39,7 @@ async function importUtilisation(): Promise<number> {
 
 describe('screening in worker threads', () => {
   it(
-    'gives each flight the figures the engine gives on the event loop, one unit each, and leaves the event loop mostly idle',
+    'gives each flight the figures the engine gives on the event loop, one unit each, re-screens with the same figures and no new unit, and leaves the event loop mostly idle',
     { timeout: 180_000 },
     async () => {
       expect(screeningThreads()).toBe(2);
@@ -92,6 +93,29 @@ describe('screening in worker threads', () => {
       await expectRollupsMatchRows(threaded.workspaceId);
       const imp = (await db()('imports').where({ id: threaded.importId }).first()) as Record<string, unknown>;
       expect([imp.status, Number(imp.rows_done)]).toEqual(['complete', 3000]);
+
+      // A re-screen screens on the threads too and restores the engine's figures, with no new units.
+      const stale = rows.filter((_, i) => i % 3 === 0).map((r) => Number(r.id));
+      await db()('flights').whereIn('id', stale).update({ engine_version: '2026.11.0', nox_above_kg: 0 });
+      await rebuildFlightRollups(db(), threaded.workspaceId);
+      await requestImportRescreen({ workspaceId: threaded.workspaceId }, threaded.importId, {
+        engineVersion: ENGINE_VERSION,
+        requestedBy: null,
+        actor: 'test',
+      });
+      await runImportsToCompletion();
+      const after = (await db()('flights')
+        .whereIn('id', stale)
+        .select('id', 'nox_above_kg', 'engine_version')) as Record<string, unknown>[];
+      const before = new Map(rows.map((r) => [Number(r.id), Number(r.nox_above_kg)]));
+      expect(after.every((r) => r.engine_version === ENGINE_VERSION)).toBe(true);
+      expect(after.every((r) => Number(r.nox_above_kg) === before.get(Number(r.id)))).toBe(true);
+      await expectRollupsMatchRows(threaded.workspaceId);
+      const unitsAfter = await db()('usage_events')
+        .where({ workspace_id: threaded.workspaceId, kind: 'imported_flight' })
+        .count({ n: '*' })
+        .first();
+      expect(Number((unitsAfter as { n: number | string }).n)).toBe(3000);
       // Then the worker built each flight's fleet-sampling components on the threads, as the engine does.
       const comps = (await db()('flight_components')
         .where({ workspace_id: threaded.workspaceId })
