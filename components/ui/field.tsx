@@ -72,13 +72,22 @@ export const TextArea = forwardRef<HTMLTextAreaElement, Control<TextareaHTMLAttr
   },
 );
 
-/** A Field holding a TextInput with the same id, marked invalid while it has an error. */
+/**
+ * A Field holding a TextInput with the same id, marked invalid while it has an error; `fieldClassName`
+ * goes on the Field, `className` on the input.
+ */
 export const InputField = forwardRef<
   HTMLInputElement,
-  Omit<InputHTMLAttributes<HTMLInputElement>, 'id'> & { id: string; label: ReactNode; hint?: ReactNode; error?: string }
->(function InputField({ id, label, hint, error, ...input }, ref) {
+  Omit<InputHTMLAttributes<HTMLInputElement>, 'id'> & {
+    id: string;
+    label: ReactNode;
+    hint?: ReactNode;
+    error?: string;
+    fieldClassName?: string;
+  }
+>(function InputField({ id, label, hint, error, fieldClassName, ...input }, ref) {
   return (
-    <Field id={id} label={label} hint={hint} error={error}>
+    <Field id={id} label={label} hint={hint} error={error} className={fieldClassName}>
       <TextInput ref={ref} id={id} invalid={!!error} {...input} />
     </Field>
   );
