@@ -3,12 +3,11 @@ import { requireMember } from '@/lib/auth/guards';
 import { can } from '@/lib/auth/policy';
 import { listRoutes } from '@/db/routes';
 import { routeLengthKm } from '@/lib/library/routes';
-import { Card } from '@/components/ui/card';
 import { ButtonLink } from '@/components/ui/button';
 import { formatDistance } from '@/lib/format';
 import { RouteForm } from '@/components/library/route-form';
 import { routeLine } from '@/components/library/format';
-import { countOf, LibraryList, LibraryPage } from '@/components/library/library-page';
+import { LibraryList, LibraryPage } from '@/components/library/library-page';
 import { saveRouteAction } from './actions';
 
 export const metadata = { title: 'Saved routes' };
@@ -24,23 +23,24 @@ export default async function RoutesPage({ params }: { params: Promise<{ slug: s
       title="Saved routes"
       lead="Named tracks you screen again and again, as airport codes or positions in order. Distances are great-circle lengths through the waypoints."
       asideWidth="narrow"
-      aside={
-        canWrite ? (
-          <Card title="New route">
-            <RouteForm action={saveRouteAction.bind(null, slug, null)} detailBase={`/w/${slug}/routes`} />
-          </Card>
-        ) : null
-      }
+      canWrite={canWrite}
+      forms={[
+        {
+          title: 'New route',
+          body: <RouteForm action={saveRouteAction.bind(null, slug, null)} detailBase={`/w/${slug}/routes`} />,
+        },
+      ]}
     >
       <LibraryList
         count={routes.length}
-        emptyTitle="No saved routes yet"
-        empty={
-          canWrite
-            ? 'Add the tracks you fly often with the form: list the airports (EGLL, KSEA) or positions one per line, then screen them from here in one click.'
-            : 'A planner in this workspace can add routes here; they will show up for you to read.'
-        }
-        title={countOf(routes.length, 'saved route')}
+        noun="saved route"
+        canWrite={canWrite}
+        empty={{
+          title: 'No saved routes yet',
+          writers:
+            'Add the tracks you fly often with the form: list the airports (EGLL, KSEA) or positions one per line, then screen them from here in one click.',
+          readers: 'A planner in this workspace can add routes here; they will show up for you to read.',
+        }}
         columns={[
           { label: 'Route' },
           { label: 'Waypoints' },

@@ -4,11 +4,10 @@ import { requireMember } from '@/lib/auth/guards';
 import { can } from '@/lib/auth/policy';
 import { listSoundings } from '@/db/soundings';
 import { soundingCsvTemplate } from '@/lib/imports/soundings-csv';
-import { Card } from '@/components/ui/card';
 import { formatAltitude, formatDateTime, formatNumber } from '@/lib/format';
 import { Tag } from '@/components/library/badges';
 import { flightLevelAtPressure } from '@/components/library/format';
-import { countOf, LibraryList, LibraryPage } from '@/components/library/library-page';
+import { LibraryList, LibraryPage } from '@/components/library/library-page';
 import { SoundingUploadForm } from '@/components/library/sounding-upload-form';
 
 export const metadata = { title: 'Soundings' };
@@ -23,23 +22,19 @@ export default async function SoundingsPage({ params }: { params: Promise<{ slug
     <LibraryPage
       title="Soundings"
       lead="Temperature profiles from radiosondes or model output. Each one's WMO lapse-rate tropopause is found on upload; use it in a screening instead of the climatology."
-      aside={
-        canWrite ? (
-          <Card title="Upload a sounding">
-            <SoundingUploadForm slug={slug} templateHref={templateHref} />
-          </Card>
-        ) : null
-      }
+      canWrite={canWrite}
+      forms={[{ title: 'Upload a sounding', body: <SoundingUploadForm slug={slug} templateHref={templateHref} /> }]}
     >
       <LibraryList
         count={soundings.length}
-        emptyTitle="No soundings yet"
-        empty={
-          canWrite
-            ? 'Upload a CSV of levels with the form: altitude or pressure, and temperature. You will see its temperature profile and the tropopause found in it.'
-            : 'A planner in this workspace can upload soundings here.'
-        }
-        title={countOf(soundings.length, 'sounding')}
+        noun="sounding"
+        canWrite={canWrite}
+        empty={{
+          title: 'No soundings yet',
+          writers:
+            'Upload a CSV of levels with the form: altitude or pressure, and temperature. You will see its temperature profile and the tropopause found in it.',
+          readers: 'A planner in this workspace can upload soundings here.',
+        }}
         columns={[
           { label: 'Sounding' },
           { label: 'Observed' },
