@@ -1,4 +1,7 @@
 import type { ReactNode } from 'react';
+import Link from 'next/link';
+import { requireMember } from '@/lib/auth/guards';
+import { can } from '@/lib/auth/policy';
 import { Card, EmptyState, PageHeader } from '@/components/ui/card';
 import { TableHead, type HeadColumn } from '@/components/ui/table-head';
 
@@ -6,6 +9,13 @@ const ASIDE_COLUMNS = {
   narrow: 'grid items-start gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(18rem,1fr)]',
   wide: 'grid items-start gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(20rem,1fr)]',
 } as const;
+
+/** The member reading a library page (flights:read, else not found) and whether they may write to the library. */
+export async function libraryMember(params: Promise<{ slug: string }>) {
+  const { slug } = await params;
+  const member = await requireMember(slug, 'flights:read');
+  return { slug, ...member, canWrite: can(member.role, 'library:write') };
+}
 
 /** A form in a library page's side column, in a card with its title. */
 export interface LibraryForm {
@@ -99,5 +109,17 @@ export function LibraryList({
         </table>
       </div>
     </Card>
+  );
+}
+
+/** A list row's first cell: the item's name linking to its page, then what goes under it. */
+export function NameCell({ href, name, children }: { href: string; name: string; children?: ReactNode }) {
+  return (
+    <td className="py-2 pr-3">
+      <Link href={href} className="font-medium text-accent hover:underline">
+        {name}
+      </Link>
+      {children}
+    </td>
   );
 }
