@@ -9,7 +9,7 @@ import {
   type AircraftTypeSave,
 } from '@/lib/validation/library';
 import type { ActionState } from '@/lib/errors';
-import { Field, SelectInput, TextInput } from '@/components/ui/field';
+import { Field, InputField, SelectInput } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
 import { FormNotice, useActionForm } from '@/components/ui/use-action-form';
 
@@ -26,6 +26,7 @@ const KNOWN = [
 const numberOrNull = (v: unknown) => (v === '' || v === null || v === undefined ? null : Number(v));
 
 type Choice = { id: number; name: string };
+type NumberName = 'directEiGPerKg' | 'engineCount' | 'typicalMach' | 'typicalFlightLevel';
 
 /**
  * An aircraft type: code, name, its emission (an engine of the workspace with the engine count,
@@ -81,22 +82,37 @@ export function AircraftTypeForm({
     form.clearErrors(['engineId', 'directEiGPerKg']);
   };
   const p = isNew ? 'new-type' : 'type';
+  const numberField = (name: NumberName, id: string, label: string, hint?: string) => (
+    <InputField
+      id={`${p}-${id}`}
+      label={label}
+      error={errors[name]?.message}
+      hint={hint}
+      inputMode={name === 'engineCount' || name === 'typicalFlightLevel' ? 'numeric' : 'decimal'}
+      className="figure"
+      {...form.register(name, name === 'directEiGPerKg' ? { setValueAs: numberOrNull } : { valueAsNumber: true })}
+    />
+  );
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4">
       <FormNotice message={message} />
       <div className="grid gap-4 sm:grid-cols-[8rem_1fr]">
-        <Field id={`${p}-code`} label="Type code" error={errors.code?.message} hint="Such as SK-LR1; kept in capitals.">
-          <TextInput
-            id={`${p}-code`}
-            autoComplete="off"
-            className="font-mono uppercase"
-            invalid={!!errors.code}
-            {...form.register('code')}
-          />
-        </Field>
-        <Field id={`${p}-name`} label="Name" error={errors.name?.message}>
-          <TextInput id={`${p}-name`} autoComplete="off" invalid={!!errors.name} {...form.register('name')} />
-        </Field>
+        <InputField
+          id={`${p}-code`}
+          label="Type code"
+          error={errors.code?.message}
+          hint="Such as SK-LR1; kept in capitals."
+          autoComplete="off"
+          className="font-mono uppercase"
+          {...form.register('code')}
+        />
+        <InputField
+          id={`${p}-name`}
+          label="Name"
+          error={errors.name?.message}
+          autoComplete="off"
+          {...form.register('name')}
+        />
       </div>
       <fieldset className="space-y-3">
         <legend className="text-sm font-medium text-ink">Emission</legend>
@@ -132,56 +148,19 @@ export function AircraftTypeForm({
               </SelectInput>
             </Field>
           ) : (
-            <Field
-              id={`${p}-direct`}
-              label="Cruise EI NOx (g/kg)"
-              error={errors.directEiGPerKg?.message}
-              hint="For types without certification data, such as a supersonic concept: a measured or published cruise value, 0-200 g/kg."
-            >
-              <TextInput
-                id={`${p}-direct`}
-                inputMode="decimal"
-                className="figure"
-                invalid={!!errors.directEiGPerKg}
-                {...form.register('directEiGPerKg', { setValueAs: numberOrNull })}
-              />
-            </Field>
+            numberField(
+              'directEiGPerKg',
+              'direct',
+              'Cruise EI NOx (g/kg)',
+              'For types without certification data, such as a supersonic concept: a measured or published cruise value, 0-200 g/kg.',
+            )
           )}
-          <Field id={`${p}-count`} label="Engines" error={errors.engineCount?.message} hint="1 to 8">
-            <TextInput
-              id={`${p}-count`}
-              inputMode="numeric"
-              className="figure"
-              invalid={!!errors.engineCount}
-              {...form.register('engineCount', { valueAsNumber: true })}
-            />
-          </Field>
+          {numberField('engineCount', 'count', 'Engines', '1 to 8')}
         </div>
       </fieldset>
       <div className="grid gap-4 sm:grid-cols-2">
-        <Field id={`${p}-mach`} label="Typical cruise Mach" error={errors.typicalMach?.message}>
-          <TextInput
-            id={`${p}-mach`}
-            inputMode="decimal"
-            className="figure"
-            invalid={!!errors.typicalMach}
-            {...form.register('typicalMach', { valueAsNumber: true })}
-          />
-        </Field>
-        <Field
-          id={`${p}-fl`}
-          label="Typical cruise flight level"
-          error={errors.typicalFlightLevel?.message}
-          hint="Hundreds of feet, such as 370"
-        >
-          <TextInput
-            id={`${p}-fl`}
-            inputMode="numeric"
-            className="figure"
-            invalid={!!errors.typicalFlightLevel}
-            {...form.register('typicalFlightLevel', { valueAsNumber: true })}
-          />
-        </Field>
+        {numberField('typicalMach', 'mach', 'Typical cruise Mach')}
+        {numberField('typicalFlightLevel', 'fl', 'Typical cruise flight level', 'Hundreds of feet, such as 370')}
       </div>
       <Field
         id={`${p}-fleet`}

@@ -98,43 +98,34 @@ function EngineFormBody({
           <span className="text-xs font-medium uppercase tracking-wide text-ink-soft">EI NOx, g/kg</span>
           {LTO_MODES.map((mode, n) => {
             const i = n as 0 | 1 | 2 | 3;
-            const ffError = errors.fuelFlowKgS?.[i]?.message;
-            const eiError = errors.eiNoxGPerKg?.[i]?.message;
+            const cell = (key: 'ff' | 'ei', field: 'fuelFlowKgS' | 'eiNoxGPerKg', label: string) => {
+              const id = `${p}-${key}-${i}`;
+              const error = errors[field]?.[i]?.message;
+              return (
+                <div>
+                  <label htmlFor={id} className="sr-only">{`${mode.label} ${label}`}</label>
+                  <TextInput
+                    id={id}
+                    inputMode="decimal"
+                    className="figure"
+                    invalid={!!error}
+                    {...form.register(`${field}.${i}`, { valueAsNumber: true })}
+                  />
+                  {error ? (
+                    <p id={`${id}-error`} role="alert" className="mt-1 text-xs font-medium text-danger">
+                      {error}
+                    </p>
+                  ) : null}
+                </div>
+              );
+            };
             return (
               <div key={mode.key} className="contents">
                 <span className="pt-2 text-sm text-ink">
                   {mode.label} <span className="text-ink-faint">{mode.thrust}</span>
                 </span>
-                <div>
-                  <label htmlFor={`${p}-ff-${i}`} className="sr-only">{`${mode.label} fuel flow (kg/s)`}</label>
-                  <TextInput
-                    id={`${p}-ff-${i}`}
-                    inputMode="decimal"
-                    className="figure"
-                    invalid={!!ffError}
-                    {...form.register(`fuelFlowKgS.${i}`, { valueAsNumber: true })}
-                  />
-                  {ffError ? (
-                    <p id={`${p}-ff-${i}-error`} role="alert" className="mt-1 text-xs font-medium text-danger">
-                      {ffError}
-                    </p>
-                  ) : null}
-                </div>
-                <div>
-                  <label htmlFor={`${p}-ei-${i}`} className="sr-only">{`${mode.label} EI NOx (g/kg)`}</label>
-                  <TextInput
-                    id={`${p}-ei-${i}`}
-                    inputMode="decimal"
-                    className="figure"
-                    invalid={!!eiError}
-                    {...form.register(`eiNoxGPerKg.${i}`, { valueAsNumber: true })}
-                  />
-                  {eiError ? (
-                    <p id={`${p}-ei-${i}-error`} role="alert" className="mt-1 text-xs font-medium text-danger">
-                      {eiError}
-                    </p>
-                  ) : null}
-                </div>
+                {cell('ff', 'fuelFlowKgS', 'fuel flow (kg/s)')}
+                {cell('ei', 'eiNoxGPerKg', 'EI NOx (g/kg)')}
               </div>
             );
           })}

@@ -7,6 +7,7 @@ import { Notice } from '@/components/ui/notice';
 import { ProblemsTable } from '@/components/ui/problems-table';
 import type { LineProblem } from '@/lib/validation/problems';
 import { postUpload } from './upload';
+import { CsvFileInput } from './upload-parts';
 
 /** Imports engines from a CSV through the API: all rows or none, with every problem by line and column. */
 export function EngineImportForm({ slug }: { slug: string }) {
@@ -61,25 +62,7 @@ export function EngineImportForm({ slug }: { slug: string }) {
         </a>
         .
       </p>
-      <div className="space-y-1">
-        <label htmlFor="engines-csv" className="block text-sm font-medium text-ink">
-          Engines CSV
-        </label>
-        <input
-          ref={input}
-          id="engines-csv"
-          type="file"
-          accept=".csv,text/csv"
-          aria-invalid={fileError ? true : undefined}
-          aria-describedby={fileError ? 'engines-csv-error' : undefined}
-          className="block w-full text-sm file:mr-3 file:rounded-md file:border file:border-line-strong file:bg-paper-raised file:px-3 file:py-1.5 file:text-sm"
-        />
-        {fileError ? (
-          <p id="engines-csv-error" role="alert" className="text-xs font-medium text-danger">
-            {fileError}
-          </p>
-        ) : null}
-      </div>
+      <CsvFileInput ref={input} id="engines-csv" label="Engines CSV" error={fileError} />
       <Button type="submit" variant="secondary" disabled={busy}>
         {busy ? 'Importing…' : 'Import engines'}
       </Button>

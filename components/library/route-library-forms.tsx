@@ -3,10 +3,8 @@
 import { useRef, useState, useTransition } from 'react';
 import { useRouter } from 'next/navigation';
 import { Button } from '@/components/ui/button';
-import { Notice } from '@/components/ui/notice';
-import { ProblemsTable } from '@/components/ui/problems-table';
-import type { LineProblem } from '@/lib/validation/problems';
 import { postUpload } from './upload';
+import { CsvFileInput, UploadOutcomeNotice, type LibraryUploadOutcome } from './upload-parts';
 
 const KINDS = {
   fixes: {
@@ -37,14 +35,8 @@ export function RouteLibraryUploadForm({
   const file = useRef<HTMLInputElement>(null);
   const [busy, setBusy] = useState(false);
   const [fileError, setFileError] = useState<string>();
-  const [outcome, setOutcome] = useState<{
-    ok: boolean;
-    text: string;
-    problems: LineProblem[];
-    warnings: LineProblem[];
-  }>();
+  const [outcome, setOutcome] = useState<LibraryUploadOutcome>();
   const k = KINDS[kind];
-  const id = `${kind}-file`;
   return (
     <form
       noValidate
@@ -80,49 +72,25 @@ export function RouteLibraryUploadForm({
         setOutcome({ ok: false, text: out.message, problems: out.problems, warnings: out.warnings });
       }}
     >
-      <div className="space-y-1">
-        <label htmlFor={id} className="block text-sm font-medium text-ink">
-          {k.label}
-        </label>
-        <input
-          ref={file}
-          id={id}
-          type="file"
-          accept=".csv,text/csv"
-          aria-invalid={fileError ? true : undefined}
-          aria-describedby={fileError ? `${id}-error` : `${id}-hint`}
-          className="block w-full text-sm file:mr-3 file:rounded-md file:border file:border-line-strong file:bg-paper-raised file:px-3 file:py-1.5 file:text-sm"
-        />
-        {fileError ? (
-          <p id={`${id}-error`} role="alert" className="text-xs font-medium text-danger">
-            {fileError}
-          </p>
-        ) : (
-          <p id={`${id}-hint`} className="text-xs text-ink-faint">
+      <CsvFileInput
+        ref={file}
+        id={`${kind}-file`}
+        label={k.label}
+        error={fileError}
+        hint={
+          <>
             {k.columns}.{' '}
             <a href={templateHref} download={k.file} className="text-accent underline">
               Download a template
             </a>
             .
-          </p>
-        )}
-      </div>
+          </>
+        }
+      />
       <Button type="submit" disabled={busy}>
         {busy ? 'Uploading…' : k.button}
       </Button>
-      {outcome ? (
-        <div className="space-y-2">
-          <Notice tone={outcome.ok ? 'success' : 'danger'} role={outcome.ok ? 'status' : 'alert'}>
-            {outcome.text}
-          </Notice>
-          {outcome.problems.length ? (
-            <ProblemsTable problems={outcome.problems} caption="Problems in the file" />
-          ) : null}
-          {outcome.warnings.length ? (
-            <ProblemsTable problems={outcome.warnings} caption="Columns that were ignored" />
-          ) : null}
-        </div>
-      ) : null}
+      {outcome ? <UploadOutcomeNotice outcome={outcome} caption="Problems in the file" /> : null}
     </form>
   );
 }

@@ -5,7 +5,6 @@ import Link from 'next/link';
 import { usePathname, useRouter, useSearchParams } from 'next/navigation';
 import {
   createColumnHelper,
-  flexRender,
   getCoreRowModel,
   getSortedRowModel,
   useReactTable,
@@ -14,8 +13,7 @@ import {
 import type { UnitSystem } from '@/lib/units';
 import { formatDate, formatDateTime, formatDistance, formatMass, formatPercent } from '@/lib/format';
 import { ButtonLink } from '@/components/ui/button';
-import { ScrollRegion } from '@/components/ui/scroll-region';
-import { SortableHeader } from '@/components/ui/sortable-header';
+import { SortedTable } from '@/components/ui/sorted-table';
 
 export interface HistoryRow {
   id: number;
@@ -165,36 +163,15 @@ export function HistoryTable({ slug, rows, units }: { slug: string; rows: Histor
           </span>
         )}
       </div>
-      <ScrollRegion label="Saved screenings">
-        <table className="w-full min-w-[840px] text-sm" data-testid="history-table">
-          <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
-            {table.getHeaderGroups().map((hg) => (
-              <tr key={hg.id}>
-                {hg.headers.map((h) => (
-                  <SortableHeader key={h.id} header={h} className="whitespace-nowrap py-2 pr-3" />
-                ))}
-              </tr>
-            ))}
-          </thead>
-          <tbody className="figure">
-            {table.getRowModel().rows.map((row) => (
-              <tr
-                key={row.id}
-                className={`border-t border-line ${picked.includes(row.original.id) ? 'bg-accent-soft' : ''}`}
-              >
-                {row.getVisibleCells().map((cell) => (
-                  <td
-                    key={cell.id}
-                    className={`py-2 pr-3 align-top ${cell.column.id === 'name' ? 'min-w-[12rem]' : 'whitespace-nowrap'}`}
-                  >
-                    {flexRender(cell.column.columnDef.cell, cell.getContext())}
-                  </td>
-                ))}
-              </tr>
-            ))}
-          </tbody>
-        </table>
-      </ScrollRegion>
+      <SortedTable
+        table={table}
+        label="Saved screenings"
+        testId="history-table"
+        className="w-full min-w-[840px] text-sm"
+        headerClass="whitespace-nowrap py-2 pr-3"
+        rowClass={(r) => (picked.includes(r.id) ? 'bg-accent-soft' : '')}
+        cellClass={(id) => `py-2 pr-3 align-top ${id === 'name' ? 'min-w-[12rem]' : 'whitespace-nowrap'}`}
+      />
     </div>
   );
 }

@@ -4,7 +4,6 @@ import { useMemo } from 'react';
 import { usePathname, useRouter, useSearchParams } from 'next/navigation';
 import {
   createColumnHelper,
-  flexRender,
   getCoreRowModel,
   getPaginationRowModel,
   getSortedRowModel,
@@ -15,8 +14,7 @@ import type { ScreeningSegment } from '@/lib/screening';
 import type { UnitSystem } from '@/lib/units';
 import { formatAltitude, formatDistance, formatMass, formatNumber } from '@/lib/format';
 import { Button } from '@/components/ui/button';
-import { ScrollRegion } from '@/components/ui/scroll-region';
-import { SortableHeader } from '@/components/ui/sortable-header';
+import { SortedTable } from '@/components/ui/sorted-table';
 
 export const SEGMENT_PAGE_SIZE = 25;
 const SORTABLE = [
@@ -137,33 +135,15 @@ export function SegmentTable({ segments, units }: { segments: readonly Screening
   const last = Math.min(data.length, first + SEGMENT_PAGE_SIZE - 1);
   return (
     <div>
-      <ScrollRegion label="Segments of the route">
-        <table className="w-full min-w-[760px] text-sm" data-testid="segment-table">
-          <thead className="text-left text-xs uppercase tracking-wide text-ink-soft">
-            {table.getHeaderGroups().map((hg) => (
-              <tr key={hg.id}>
-                {hg.headers.map((h) => (
-                  <SortableHeader key={h.id} header={h} className="whitespace-nowrap py-2 pr-2.5" />
-                ))}
-              </tr>
-            ))}
-          </thead>
-          <tbody className="figure">
-            {table.getRowModel().rows.map((row) => (
-              <tr
-                key={row.id}
-                className={`border-t border-line ${row.original.aboveTropopause ? 'bg-strato-soft/40' : ''}`}
-              >
-                {row.getVisibleCells().map((cell) => (
-                  <td key={cell.id} className="whitespace-nowrap py-1.5 pr-2.5">
-                    {flexRender(cell.column.columnDef.cell, cell.getContext())}
-                  </td>
-                ))}
-              </tr>
-            ))}
-          </tbody>
-        </table>
-      </ScrollRegion>
+      <SortedTable
+        table={table}
+        label="Segments of the route"
+        testId="segment-table"
+        className="w-full min-w-[760px] text-sm"
+        headerClass="whitespace-nowrap py-2 pr-2.5"
+        rowClass={(r) => (r.aboveTropopause ? 'bg-strato-soft/40' : '')}
+        cellClass={() => 'whitespace-nowrap py-1.5 pr-2.5'}
+      />
       <div className="mt-3 flex flex-wrap items-center justify-between gap-3 text-sm">
         <p className="text-ink-soft">
           Segments {first}–{last} of {data.length} (at most 50 km each)

@@ -3,7 +3,7 @@
 import type { UseFormReturn } from 'react-hook-form';
 import { unitLabels, type ScreenFormValues } from '@/components/screening/screen-form-adapter';
 import type { UnitSystem } from '@/lib/units';
-import { Field, SelectInput, TextInput } from '@/components/ui/field';
+import { Field, InputField, SelectInput } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { formatAltitude, formatNumber, MONTH_NAMES } from '@/lib/format';
 import { ModeSwitch, Section } from './screen-form-parts';
@@ -25,17 +25,29 @@ export function TropopauseSection({
   const values = form.watch();
   const u = unitLabels(units);
   const selectedSounding = soundings.find((s) => String(s.id) === values.soundingId);
+  /** A tropopause given by hand, used along the whole route. */
+  const given = (name: 'tropopauseAltitude' | 'tropopausePressure', label: string, hint: string) => (
+    <InputField
+      id={name}
+      label={label}
+      hint={hint}
+      error={errorAt(name)}
+      fieldClassName="max-w-xs"
+      inputMode="decimal"
+      {...register(name)}
+    />
+  );
   return (
     <Section title="Date and tropopause">
       <div className="grid gap-3 sm:grid-cols-2">
-        <Field
+        <InputField
           id="flightDate"
           label="Flight date"
           hint="Its month picks the seasonal tropopause height at each latitude."
           error={errorAt('flightDate')}
-        >
-          <TextInput id="flightDate" type="date" invalid={!!errorAt('flightDate')} {...register('flightDate')} />
-        </Field>
+          type="date"
+          {...register('flightDate')}
+        />
         <Field
           id="month"
           label="Month for the tropopause"
@@ -69,38 +81,16 @@ export function TropopauseSection({
           A climatological tropopause by latitude and season along the whole route (typical error about 0.9 km).
         </p>
       ) : null}
-      {values.tropopauseMode === 'altitude' ? (
-        <Field
-          id="tropopauseAltitude"
-          label={`Tropopause altitude (${u.altitude})`}
-          hint="Taken as a pressure altitude and used along the whole route."
-          error={errorAt('tropopauseAltitude')}
-          className="max-w-xs"
-        >
-          <TextInput
-            id="tropopauseAltitude"
-            inputMode="decimal"
-            invalid={!!errorAt('tropopauseAltitude')}
-            {...register('tropopauseAltitude')}
-          />
-        </Field>
-      ) : null}
-      {values.tropopauseMode === 'pressure' ? (
-        <Field
-          id="tropopausePressure"
-          label="Tropopause pressure (hPa)"
-          hint="Used along the whole route."
-          error={errorAt('tropopausePressure')}
-          className="max-w-xs"
-        >
-          <TextInput
-            id="tropopausePressure"
-            inputMode="decimal"
-            invalid={!!errorAt('tropopausePressure')}
-            {...register('tropopausePressure')}
-          />
-        </Field>
-      ) : null}
+      {values.tropopauseMode === 'altitude'
+        ? given(
+            'tropopauseAltitude',
+            `Tropopause altitude (${u.altitude})`,
+            'Taken as a pressure altitude and used along the whole route.',
+          )
+        : null}
+      {values.tropopauseMode === 'pressure'
+        ? given('tropopausePressure', 'Tropopause pressure (hPa)', 'Used along the whole route.')
+        : null}
       {values.tropopauseMode === 'sounding' ? (
         soundings.length ? (
           <Field

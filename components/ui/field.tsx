@@ -35,49 +35,60 @@ export function Field({ id, label, hint, error, children, className = '' }: Fiel
   );
 }
 
-export const TextInput = forwardRef<HTMLInputElement, InputHTMLAttributes<HTMLInputElement> & { invalid?: boolean }>(
+/**
+ * The state attributes of a control: invalid, and described by its error (or, where the control
+ * shows a hint, by its hint while it is valid).
+ */
+function stateOf(id: string | undefined, invalid: boolean | undefined, describedByHint: boolean) {
+  return {
+    'aria-invalid': invalid || undefined,
+    'aria-describedby': id && invalid ? `${id}-error` : id && describedByHint ? `${id}-hint` : undefined,
+  };
+}
+
+type Control<A> = A & { invalid?: boolean };
+
+export const TextInput = forwardRef<HTMLInputElement, Control<InputHTMLAttributes<HTMLInputElement>>>(
   function TextInput({ invalid, className = '', id, ...rest }, ref) {
     return (
-      <input
-        ref={ref}
-        id={id}
-        aria-invalid={invalid || undefined}
-        aria-describedby={id ? (invalid ? `${id}-error` : `${id}-hint`) : undefined}
-        {...rest}
-        className={`${inputClass} ${className}`}
-      />
+      <input ref={ref} id={id} {...stateOf(id, invalid, true)} {...rest} className={`${inputClass} ${className}`} />
     );
   },
 );
 
-export const SelectInput = forwardRef<
-  HTMLSelectElement,
-  SelectHTMLAttributes<HTMLSelectElement> & { invalid?: boolean }
->(function SelectInput({ invalid, className = '', id, ...rest }, ref) {
-  return (
-    <select
-      ref={ref}
-      id={id}
-      aria-invalid={invalid || undefined}
-      aria-describedby={id && invalid ? `${id}-error` : undefined}
-      {...rest}
-      className={`${inputClass} ${className}`}
-    />
-  );
-});
+export const SelectInput = forwardRef<HTMLSelectElement, Control<SelectHTMLAttributes<HTMLSelectElement>>>(
+  function SelectInput({ invalid, className = '', id, ...rest }, ref) {
+    return (
+      <select ref={ref} id={id} {...stateOf(id, invalid, false)} {...rest} className={`${inputClass} ${className}`} />
+    );
+  },
+);
 
-export const TextArea = forwardRef<
-  HTMLTextAreaElement,
-  TextareaHTMLAttributes<HTMLTextAreaElement> & { invalid?: boolean }
->(function TextArea({ invalid, className = '', id, ...rest }, ref) {
+export const TextArea = forwardRef<HTMLTextAreaElement, Control<TextareaHTMLAttributes<HTMLTextAreaElement>>>(
+  function TextArea({ invalid, className = '', id, ...rest }, ref) {
+    return (
+      <textarea ref={ref} id={id} {...stateOf(id, invalid, false)} {...rest} className={`${inputClass} ${className}`} />
+    );
+  },
+);
+
+/**
+ * A Field holding a TextInput with the same id, marked invalid while it has an error; `fieldClassName`
+ * goes on the Field, `className` on the input.
+ */
+export const InputField = forwardRef<
+  HTMLInputElement,
+  Omit<InputHTMLAttributes<HTMLInputElement>, 'id'> & {
+    id: string;
+    label: ReactNode;
+    hint?: ReactNode;
+    error?: string;
+    fieldClassName?: string;
+  }
+>(function InputField({ id, label, hint, error, fieldClassName, ...input }, ref) {
   return (
-    <textarea
-      ref={ref}
-      id={id}
-      aria-invalid={invalid || undefined}
-      aria-describedby={id && invalid ? `${id}-error` : undefined}
-      {...rest}
-      className={`${inputClass} ${className}`}
-    />
+    <Field id={id} label={label} hint={hint} error={error} className={fieldClassName}>
+      <TextInput ref={ref} id={id} invalid={!!error} {...input} />
+    </Field>
   );
 });

@@ -48,27 +48,26 @@ export default async function FixesPage({
           </Button>
         </form>
       }
-      aside={
-        canWrite ? (
-          <>
-            <Card title="Upload fixes">
-              <RouteLibraryUploadForm slug={slug} kind="fixes" templateHref={csvDataHref(FIX_CSV_TEMPLATE)} />
-            </Card>
-            <Card title="Upload airways">
-              <RouteLibraryUploadForm slug={slug} kind="airways" templateHref={csvDataHref(AIRWAY_CSV_TEMPLATE)} />
-            </Card>
-          </>
-        ) : null
-      }
+      canWrite={canWrite}
+      forms={[
+        {
+          title: 'Upload fixes',
+          body: <RouteLibraryUploadForm slug={slug} kind="fixes" templateHref={csvDataHref(FIX_CSV_TEMPLATE)} />,
+        },
+        {
+          title: 'Upload airways',
+          body: <RouteLibraryUploadForm slug={slug} kind="airways" templateHref={csvDataHref(AIRWAY_CSV_TEMPLATE)} />,
+        },
+      ]}
     >
       <LibraryList
         count={fixes.length}
-        emptyTitle={q ? `No fixes starting with ${q.toUpperCase()}` : 'No fixes yet'}
-        empty={
-          canWrite
-            ? 'Upload a CSV of named points with the form.'
-            : 'A planner in this workspace can upload named points here.'
-        }
+        canWrite={canWrite}
+        empty={{
+          title: q ? `No fixes starting with ${q.toUpperCase()}` : 'No fixes yet',
+          writers: 'Upload a CSV of named points with the form.',
+          readers: 'A planner in this workspace can upload named points here.',
+        }}
         title={fixes.length > LIST_LIMIT ? `First ${LIST_LIMIT} fixes` : countOf(fixes.length, 'fix', 'fixes')}
         columns={[
           { label: 'Name' },

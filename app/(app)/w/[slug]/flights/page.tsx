@@ -2,6 +2,7 @@ import Form from 'next/form';
 import Link from 'next/link';
 import { PagerLinks } from '@/components/ui/pager-links';
 import { requireMember } from '@/lib/auth/guards';
+import { checkDateOrder, firstParam, type ListPageProps, type SearchParams } from '@/lib/search-params';
 import { can } from '@/lib/auth/policy';
 import { listFlightFilterOptions, listFlights, summariseFlights, type FlightFilters } from '@/db/flights';
 import { flightListQuerySchema } from '@/lib/validation/imports';
@@ -19,16 +20,14 @@ export const metadata = { title: 'Flights' };
 const PAGE_SIZE = 50;
 const FILTER_KEYS = ['import', 'from', 'to', 'fleet', 'aircraft'] as const;
 type FilterKey = (typeof FILTER_KEYS)[number];
-type Search = Record<string, string | string[] | undefined>;
-const one = (v: string | string[] | undefined): string => (Array.isArray(v) ? (v[0] ?? '') : (v ?? '')).trim();
 
 /** The URL's filters; a bad one is named beside its field and left out. */
-function readFilters(search: Search): {
+function readFilters(search: SearchParams): {
   text: Record<FilterKey, string>;
   filters: FlightFilters;
   problems: Partial<Record<FilterKey, string>>;
 } {
-  const text = Object.fromEntries(FILTER_KEYS.map((k) => [k, one(search[k])])) as Record<FilterKey, string>;
+  const text = Object.fromEntries(FILTER_KEYS.map((k) => [k, firstParam(search[k])])) as Record<FilterKey, string>;
   const shape = flightListQuerySchema.shape;
   const filters: FlightFilters = {};
   const problems: Partial<Record<FilterKey, string>> = {};
@@ -38,26 +37,17 @@ function readFilters(search: Search): {
     if (!r.success) problems[key] = r.error.issues[0]?.message ?? 'Check this filter.';
     else if (r.data !== undefined) (filters as Record<string, unknown>)[key] = r.data;
   }
-  if (filters.from && filters.to && filters.from > filters.to) {
-    problems.to = 'The end date is before the start date.';
-    delete filters.to;
-  }
+  checkDateOrder(filters, problems);
   return { text, filters, problems };
 }
 
-export default async function FlightsPage({
-  params,
-  searchParams,
-}: {
-  params: Promise<{ slug: string }>;
-  searchParams: Promise<Search>;
-}) {
+export default async function FlightsPage({ params, searchParams }: ListPageProps) {
   const [{ slug }, search] = await Promise.all([params, searchParams]);
   const { workspace, user, role } = await requireMember(slug, 'flights:read');
   const { text, filters, problems } = readFilters(search);
-  const cursorText = one(search.cursor);
+  const cursorText = firstParam(search.cursor);
   const cursor = /^\d{4}-\d{2}-\d{2}~\d{1,12}$/.test(cursorText) ? cursorText : undefined;
-  const trail = one(search.trail)
+  const trail = firstParam(search.trail)
     .split(',')
     .filter((c) => c === '0' || /^\d{4}-\d{2}-\d{2}~\d{1,12}$/.test(c))
     .slice(-40);

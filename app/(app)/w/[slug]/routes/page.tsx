@@ -1,46 +1,37 @@
-import Link from 'next/link';
-import { requireMember } from '@/lib/auth/guards';
 import { can } from '@/lib/auth/policy';
 import { listRoutes } from '@/db/routes';
 import { routeLengthKm } from '@/lib/library/routes';
-import { Card } from '@/components/ui/card';
 import { ButtonLink } from '@/components/ui/button';
 import { formatDistance } from '@/lib/format';
 import { RouteForm } from '@/components/library/route-form';
 import { routeLine } from '@/components/library/format';
-import { countOf, LibraryList, LibraryPage } from '@/components/library/library-page';
+import { libraryMember, LibraryList, LibraryPage, NameCell } from '@/components/library/library-page';
 import { saveRouteAction } from './actions';
 
 export const metadata = { title: 'Saved routes' };
 
 export default async function RoutesPage({ params }: { params: Promise<{ slug: string }> }) {
-  const { slug } = await params;
-  const { workspace, user, role } = await requireMember(slug, 'flights:read');
+  const { slug, workspace, user, role, canWrite } = await libraryMember(params);
   const routes = await listRoutes({ workspaceId: workspace.id });
-  const canWrite = can(role, 'library:write');
   const canScreen = can(role, 'screenings:create');
   return (
     <LibraryPage
       title="Saved routes"
       lead="Named tracks you screen again and again, as airport codes or positions in order. Distances are great-circle lengths through the waypoints."
       asideWidth="narrow"
-      aside={
-        canWrite ? (
-          <Card title="New route">
-            <RouteForm action={saveRouteAction.bind(null, slug, null)} detailBase={`/w/${slug}/routes`} />
-          </Card>
-        ) : null
-      }
+      canWrite={canWrite}
+      forms={[
+        {
+          title: 'New route',
+          body: <RouteForm action={saveRouteAction.bind(null, slug, null)} detailBase={`/w/${slug}/routes`} />,
+        },
+      ]}
     >
       <LibraryList
         count={routes.length}
-        emptyTitle="No saved routes yet"
-        empty={
-          canWrite
-            ? 'Add the tracks you fly often with the form: list the airports (EGLL, KSEA) or positions one per line, then screen them from here in one click.'
-            : 'A planner in this workspace can add routes here; they will show up for you to read.'
-        }
-        title={countOf(routes.length, 'saved route')}
+        noun="saved route"
+        canWrite={canWrite}
+        empty={EMPTY}
         columns={[
           { label: 'Route' },
           { label: 'Waypoints' },
@@ -50,12 +41,9 @@ export default async function RoutesPage({ params }: { params: Promise<{ slug: s
       >
         {routes.map((r) => (
           <tr key={r.id} className="border-t border-line align-top">
-            <td className="py-2 pr-3">
-              <Link href={`/w/${slug}/routes/${r.id}`} className="font-medium text-accent hover:underline">
-                {r.name}
-              </Link>
+            <NameCell href={`/w/${slug}/routes/${r.id}`} name={r.name}>
               {r.notes ? <div className="mt-0.5 line-clamp-2 max-w-xs text-xs text-ink-soft">{r.notes}</div> : null}
-            </td>
+            </NameCell>
             <td className="py-2 pr-3 font-mono text-xs text-ink">{routeLine(r.waypoints)}</td>
             <td className="figure py-2 pr-3 text-right whitespace-nowrap">
               {formatDistance(routeLengthKm(r), user.units)}
@@ -77,3 +65,10 @@ export default async function RoutesPage({ params }: { params: Promise<{ slug: s
     </LibraryPage>
   );
 }
+
+const EMPTY = {
+  title: 'No saved routes yet',
+  writers:
+    'Add the tracks you fly often with the form: list the airports (EGLL, KSEA) or positions one per line, then screen them from here in one click.',
+  readers: 'A planner in this workspace can add routes here; they will show up for you to read.',
+};

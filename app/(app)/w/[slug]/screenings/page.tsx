@@ -2,6 +2,7 @@ import { Suspense } from 'react';
 import Form from 'next/form';
 import { PagerLinks } from '@/components/ui/pager-links';
 import { requireMember } from '@/lib/auth/guards';
+import { checkDateOrder, firstParam, type ListPageProps, type SearchParams } from '@/lib/search-params';
 import { can } from '@/lib/auth/policy';
 import { listScreenings, type ScreeningFilters } from '@/db/screenings';
 import { listAircraftTypes } from '@/db/engines';
@@ -24,9 +25,6 @@ export const metadata = { title: 'Screenings' };
 
 const PAGE_SIZE = 25;
 
-type Search = Record<string, string | string[] | undefined>;
-const one = (v: string | string[] | undefined): string => (Array.isArray(v) ? (v[0] ?? '') : (v ?? '')).trim();
-
 interface FilterText {
   from: string;
   to: string;
@@ -37,18 +35,18 @@ interface FilterText {
 }
 
 /** Filters as typed (share in per cent) -> the list query; a bad filter is named and left out. */
-function readFilters(search: Search): {
+function readFilters(search: SearchParams): {
   text: FilterText;
   filters: ScreeningFilters;
   problems: Partial<Record<keyof FilterText, string>>;
 } {
   const text: FilterText = {
-    from: one(search.from),
-    to: one(search.to),
-    route: one(search.route),
-    aircraft: one(search.aircraft),
-    minAbove: one(search.minAbove),
-    maxAbove: one(search.maxAbove),
+    from: firstParam(search.from),
+    to: firstParam(search.to),
+    route: firstParam(search.route),
+    aircraft: firstParam(search.aircraft),
+    minAbove: firstParam(search.minAbove),
+    maxAbove: firstParam(search.maxAbove),
   };
   const problems: Partial<Record<keyof FilterText, string>> = {};
   const filters: ScreeningFilters = {};
@@ -59,10 +57,7 @@ function readFilters(search: Search): {
     if (r.success && r.data && !Number.isNaN(Date.parse(r.data))) filters[key] = r.data;
     else problems[key] = 'Use a date as YYYY-MM-DD.';
   }
-  if (filters.from && filters.to && filters.from > filters.to) {
-    problems.to = 'The end date is before the start date.';
-    delete filters.to;
-  }
+  checkDateOrder(filters, problems);
   if (text.route) {
     if (text.route.length > 60) problems.route = 'Use at most 60 characters.';
     else filters.route = text.route;
@@ -88,13 +83,7 @@ function readFilters(search: Search): {
   return { text, filters, problems };
 }
 
-export default async function ScreeningsPage({
-  params,
-  searchParams,
-}: {
-  params: Promise<{ slug: string }>;
-  searchParams: Promise<Search>;
-}) {
+export default async function ScreeningsPage({ params, searchParams }: ListPageProps) {
   const [{ slug }, search] = await Promise.all([params, searchParams]);
   const { workspace, user, role } = await requireMember(slug, 'flights:read');
   const { text, filters, problems } = readFilters(search);
@@ -165,7 +154,7 @@ export default async function ScreeningsPage({
         </Form>
       </Card>
       <Suspense
-        key={JSON.stringify([filters, one(search.cursor)])}
+        key={JSON.stringify([filters, firstParam(search.cursor)])}
         fallback={<CardSkeleton label="the screenings" height="h-96" />}
       >
         <HistoryResults
@@ -199,13 +188,13 @@ async function HistoryResults({
   workspaceId: number;
   units: UnitSystem;
   canScreen: boolean;
-  search: Search;
+  search: SearchParams;
   text: FilterText;
   filters: ScreeningFilters;
 }) {
-  const cursorText = one(search.cursor);
+  const cursorText = firstParam(search.cursor);
   const cursor = /^\d{1,12}$/.test(cursorText) ? Number(cursorText) : undefined;
-  const trail = one(search.trail)
+  const trail = firstParam(search.trail)
     .split(',')
     .filter((c) => /^\d{1,12}$/.test(c) || c === '0')
     .slice(-50);
@@ -216,7 +205,7 @@ async function HistoryResults({
   const link = (patch: Record<string, string | undefined>) => {
     const q = new URLSearchParams();
     for (const [k, v] of Object.entries(text)) if (v) q.set(k, v);
-    const sort = one(search.sort);
+    const sort = firstParam(search.sort);
     if (sort) q.set('sort', sort);
     for (const [k, v] of Object.entries(patch)) {
       if (v) q.set(k, v);
@@ -292,7 +281,7 @@ async function HistoryResults({
           <div className="mt-4 flex flex-wrap items-center justify-between gap-3 text-sm">
             <p className="text-ink-soft">
               {rows.length} screening{rows.length === 1 ? '' : 's'} on this page
-              {one(search.sort) ? '; sorting orders this page' : ''}.
+              {firstParam(search.sort) ? '; sorting orders this page' : ''}.
             </p>
             <PagerLinks newerHref={newerHref} olderHref={olderHref} />
           </div>

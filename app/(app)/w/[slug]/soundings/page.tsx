@@ -1,45 +1,30 @@
-import Link from 'next/link';
 import { csvDataHref } from '@/lib/csv/write';
-import { requireMember } from '@/lib/auth/guards';
-import { can } from '@/lib/auth/policy';
 import { listSoundings } from '@/db/soundings';
 import { soundingCsvTemplate } from '@/lib/imports/soundings-csv';
-import { Card } from '@/components/ui/card';
 import { formatAltitude, formatDateTime, formatNumber } from '@/lib/format';
 import { Tag } from '@/components/library/badges';
 import { flightLevelAtPressure } from '@/components/library/format';
-import { countOf, LibraryList, LibraryPage } from '@/components/library/library-page';
+import { libraryMember, LibraryList, LibraryPage, NameCell } from '@/components/library/library-page';
 import { SoundingUploadForm } from '@/components/library/sounding-upload-form';
 
 export const metadata = { title: 'Soundings' };
 
 export default async function SoundingsPage({ params }: { params: Promise<{ slug: string }> }) {
-  const { slug } = await params;
-  const { workspace, user, role } = await requireMember(slug, 'flights:read');
+  const { slug, workspace, user, canWrite } = await libraryMember(params);
   const soundings = await listSoundings({ workspaceId: workspace.id });
-  const canWrite = can(role, 'library:write');
   const templateHref = csvDataHref(soundingCsvTemplate());
   return (
     <LibraryPage
       title="Soundings"
       lead="Temperature profiles from radiosondes or model output. Each one's WMO lapse-rate tropopause is found on upload; use it in a screening instead of the climatology."
-      aside={
-        canWrite ? (
-          <Card title="Upload a sounding">
-            <SoundingUploadForm slug={slug} templateHref={templateHref} />
-          </Card>
-        ) : null
-      }
+      canWrite={canWrite}
+      forms={[{ title: 'Upload a sounding', body: <SoundingUploadForm slug={slug} templateHref={templateHref} /> }]}
     >
       <LibraryList
         count={soundings.length}
-        emptyTitle="No soundings yet"
-        empty={
-          canWrite
-            ? 'Upload a CSV of levels with the form: altitude or pressure, and temperature. You will see its temperature profile and the tropopause found in it.'
-            : 'A planner in this workspace can upload soundings here.'
-        }
-        title={countOf(soundings.length, 'sounding')}
+        noun="sounding"
+        canWrite={canWrite}
+        empty={EMPTY}
         columns={[
           { label: 'Sounding' },
           { label: 'Observed' },
@@ -49,12 +34,9 @@ export default async function SoundingsPage({ params }: { params: Promise<{ slug
       >
         {soundings.map((s) => (
           <tr key={s.id} className="border-t border-line align-top">
-            <td className="py-2 pr-3">
-              <Link href={`/w/${slug}/soundings/${s.id}`} className="font-medium text-accent hover:underline">
-                {s.name}
-              </Link>
+            <NameCell href={`/w/${slug}/soundings/${s.id}`} name={s.name}>
               {s.station ? <div className="text-xs text-ink-soft">{s.station}</div> : null}
-            </td>
+            </NameCell>
             <td className="py-2 pr-3 whitespace-nowrap text-ink-soft">
               {s.observedAt ? formatDateTime(s.observedAt) : '—'}
             </td>
@@ -82,3 +64,10 @@ export default async function SoundingsPage({ params }: { params: Promise<{ slug
     </LibraryPage>
   );
 }
+
+const EMPTY = {
+  title: 'No soundings yet',
+  writers:
+    'Upload a CSV of levels with the form: altitude or pressure, and temperature. You will see its temperature profile and the tropopause found in it.',
+  readers: 'A planner in this workspace can upload soundings here.',
+};

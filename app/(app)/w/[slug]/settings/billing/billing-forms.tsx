@@ -1,7 +1,7 @@
 'use client';
 
 import { useState, useTransition } from 'react';
-import type { useForm } from 'react-hook-form';
+import type { useForm, UseFormRegisterReturn } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useQueryClient } from '@tanstack/react-query';
 import { Button } from '@/components/ui/button';
@@ -87,6 +87,31 @@ function PlanOptions({
   );
 }
 
+/** The card on file, one of the local payment service's test cards. */
+function CardField({
+  id,
+  hint,
+  error,
+  registration,
+}: {
+  id: string;
+  hint: string;
+  error?: string;
+  registration: UseFormRegisterReturn<'card'>;
+}) {
+  return (
+    <Field id={id} label="Card on file" hint={hint} error={error}>
+      <SelectInput id={id} invalid={!!error} {...registration}>
+        {CARD_CHOICES.map((c) => (
+          <option key={c} value={c}>
+            {TEST_CARDS[c].label}
+          </option>
+        ))}
+      </SelectInput>
+    </Field>
+  );
+}
+
 /** Subscribe from a trial or after a cancellation: plan and card together. */
 export function SubscribeForm({
   slug,
@@ -123,20 +148,12 @@ export function SubscribeForm({
           {errors.planId.message}
         </p>
       ) : null}
-      <Field
+      <CardField
         id="subscribe-card"
-        label="Card on file"
         hint="A test card of the local payment service, shown by its label only."
         error={errors.card?.message}
-      >
-        <SelectInput id="subscribe-card" invalid={!!errors.card} {...form.register('card')}>
-          {CARD_CHOICES.map((c) => (
-            <option key={c} value={c}>
-              {TEST_CARDS[c].label}
-            </option>
-          ))}
-        </SelectInput>
-      </Field>
+        registration={form.register('card')}
+      />
       <div className="flex flex-wrap items-center gap-3">
         <Button type="submit" disabled={isSubmitting}>
           {isSubmitting ? 'Subscribing…' : `Subscribe to ${PLANS[selected].name}`}
@@ -247,20 +264,12 @@ export function PaymentCardForm({ slug, card, pastDue }: { slug: string; card: C
     <div className="space-y-4">
       <FormNotice message={message} />
       <form onSubmit={onSubmit} noValidate className="space-y-4">
-        <Field
+        <CardField
           id="card-choice"
-          label="Card on file"
           hint="Used for every invoice from now on."
           error={errors.card?.message}
-        >
-          <SelectInput id="card-choice" invalid={!!errors.card} {...form.register('card')}>
-            {CARD_CHOICES.map((c) => (
-              <option key={c} value={c}>
-                {TEST_CARDS[c].label}
-              </option>
-            ))}
-          </SelectInput>
-        </Field>
+          registration={form.register('card')}
+        />
         <Button type="submit" variant="secondary" disabled={isSubmitting}>
           Save card
         </Button>

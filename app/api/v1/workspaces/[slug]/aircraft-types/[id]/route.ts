@@ -1,33 +1,21 @@
-import { z } from 'zod';
-import { idParam, json, readJson, workspaceRoute } from '@/lib/api/handler';
+import { libraryItemRoutes } from '@/lib/api/library-routes';
 import { aircraftTypeSaveOf, deleteAircraftType, getAircraftType, updateAircraftType } from '@/db/engines';
 import { aircraftTypeSaveSchema } from '@/lib/validation/library';
-import { fromZod } from '@/lib/errors';
 
-type Params = { slug: string; id: string };
+const api = libraryItemRoutes(
+  getAircraftType,
+  aircraftTypeSaveOf,
+  aircraftTypeSaveSchema,
+  updateAircraftType,
+  deleteAircraftType,
+);
 
-export const GET = workspaceRoute<Params>('flights:read', async ({ params, member }) => {
-  return json(await getAircraftType({ workspaceId: member.workspace.id }, idParam(params.id)));
-});
+export const GET = api.GET;
 
 /**
  * Changes any field; the rest is kept. Switching between an engine and a direct EI NOx means sending
  * both (`{ engineId: null, directEiGPerKg: 12 }`).
  */
-export const PATCH = workspaceRoute<Params>('library:write', async ({ req, params, member, userId, actorLabel }) => {
-  const scope = { workspaceId: member.workspace.id };
-  const id = idParam(params.id);
-  const current = await getAircraftType(scope, id);
-  const patch = await readJson(
-    req,
-    z.record(z.string(), z.unknown(), { error: 'Send a JSON object with the fields to change.' }),
-  );
-  const parsed = aircraftTypeSaveSchema.safeParse({ ...aircraftTypeSaveOf(current), ...patch });
-  if (!parsed.success) throw fromZod(parsed.error);
-  return json(await updateAircraftType(scope, id, parsed.data, { userId, actor: actorLabel }));
-});
+export const PATCH = api.PATCH;
 
-export const DELETE = workspaceRoute<Params>('library:write', async ({ params, member, userId, actorLabel }) => {
-  await deleteAircraftType({ workspaceId: member.workspace.id }, idParam(params.id), { userId, actor: actorLabel });
-  return new Response(null, { status: 204 });
-});
+export const DELETE = api.DELETE;
