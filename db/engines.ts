@@ -4,9 +4,7 @@ import { db, insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
 import { clearRollupKey } from './flight-rollups';
 import { conflict, invalidFields, notFound, type FieldProblem } from '@/lib/errors';
-
-/** Four values in the ICAO LTO mode order: idle 7 %, approach 30 %, climb-out 85 %, take-off 100 %. */
-export type LtoQuad = [number, number, number, number];
+import { ltoOf, type LtoQuad } from './aircraft-for-screening';
 
 /** An engine to store, as `engineSaveSchema` gives it. */
 export interface EngineSave {
@@ -63,22 +61,6 @@ export interface LibraryActor {
 
 type Row = Record<string, unknown>;
 type Db = Knex | Knex.Transaction;
-
-/** An engine row's four LTO-mode fuel flows (kg/s) and EI NOx (g/kg), idle first. */
-export const ltoOf = (r: Row): { fuelFlowKgS: LtoQuad; eiNoxGPerKg: LtoQuad } => ({
-  fuelFlowKgS: [
-    Number(r.ff_idle_kg_s),
-    Number(r.ff_approach_kg_s),
-    Number(r.ff_climb_out_kg_s),
-    Number(r.ff_take_off_kg_s),
-  ],
-  eiNoxGPerKg: [
-    Number(r.ei_idle_g_kg),
-    Number(r.ei_approach_g_kg),
-    Number(r.ei_climb_out_g_kg),
-    Number(r.ei_take_off_g_kg),
-  ],
-});
 
 export const engineOf = (r: Row): EngineDto => ({
   id: Number(r.id),
