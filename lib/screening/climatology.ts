@@ -160,83 +160,74 @@ export function bthHeightKm(row: Float64Array, latDeg: number): number {
   return row[i] + f * (row[i + 1] - row[i]);
 }
 
-/** Geometric heights (km) of the embedded AFGL p/T grid (the ozone grid): 0-25 km by 1 km, 27.5-35 km. */
-export const AFGL_COLUMN_KM: readonly number[] = Object.freeze([
-  0, 1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12, 13, 14, 15, 16, 17, 18, 19, 20, 21, 22, 23, 24, 25, 27.5, 30, 32.5, 35,
-]);
-
-// Anderson et al. (1986), AFGL-TR-86-0110, tables 1a-1e, p (mb = hPa) and T (K) at AFGL_COLUMN_KM.
+// Anderson et al. (1986), AFGL-TR-86-0110, tables 1a-1e, p (mb = hPa) and T (K) by geometric height.
 // Checked value by value against the machine-readable transcription of the open-source joseki
 // library (its subarctic-winter surface pressure reads 101.3 there, a slip for the report's 1013).
-/** Pressure (hPa) and temperature (K) of each AFGL atmosphere on AFGL_COLUMN_KM. */
-export const AFGL_PT: Readonly<
-  Record<OzoneProfileName, { pressureHpa: readonly number[]; temperatureK: readonly number[] }>
-> = Object.freeze({
-  tropical: {
-    pressureHpa: [
-      1013.0, 904.0, 805.0, 715.0, 633.0, 559.0, 492.0, 432.0, 378.0, 329.0, 286.0, 247.0, 213.0, 182.0, 156.0, 132.0,
-      111.0, 93.7, 78.9, 66.6, 56.5, 48.0, 40.9, 35.0, 30.0, 25.7, 17.63, 12.2, 8.52, 6.0,
-    ],
-    temperatureK: [
-      299.7, 293.7, 287.7, 283.7, 277.0, 270.3, 263.6, 257.0, 250.3, 243.6, 237.0, 230.1, 223.6, 217.0, 210.3, 203.7,
-      197.0, 194.8, 198.8, 202.7, 206.7, 210.7, 214.6, 217.0, 219.2, 221.4, 227.0, 232.3, 237.7, 243.1,
-    ],
-  },
-  'midlatitude-summer': {
-    pressureHpa: [
-      1013.0, 902.0, 802.0, 710.0, 628.0, 554.0, 487.0, 426.0, 372.0, 324.0, 281.0, 243.0, 209.0, 179.0, 153.0, 130.0,
-      111.0, 95.0, 81.2, 69.5, 59.5, 51.0, 43.7, 37.6, 32.2, 27.7, 19.1, 13.2, 9.3, 6.52,
-    ],
-    temperatureK: [
-      294.2, 289.7, 285.2, 279.2, 273.2, 267.2, 261.2, 254.7, 248.2, 241.7, 235.3, 228.8, 222.3, 215.8, 215.7, 215.7,
-      215.7, 215.7, 216.8, 217.9, 219.2, 220.4, 221.6, 222.8, 223.9, 225.1, 228.5, 233.7, 239.0, 245.2,
-    ],
-  },
-  'midlatitude-winter': {
-    pressureHpa: [
-      1018.0, 897.3, 789.7, 693.8, 608.1, 531.3, 462.7, 401.6, 347.3, 299.3, 256.8, 219.9, 188.2, 161.1, 137.8, 117.8,
-      100.7, 86.1, 73.6, 62.8, 53.7, 45.8, 39.1, 33.4, 28.6, 24.4, 16.46, 11.1, 7.56, 5.18,
-    ],
-    temperatureK: [
-      272.2, 268.7, 265.2, 261.7, 255.7, 249.7, 243.7, 237.7, 231.7, 225.7, 219.7, 219.2, 218.7, 218.2, 217.7, 217.2,
-      216.7, 216.2, 215.7, 215.2, 215.2, 215.2, 215.2, 215.2, 215.2, 215.2, 215.5, 217.4, 220.4, 227.9,
-    ],
-  },
-  'subarctic-summer': {
-    pressureHpa: [
-      1010.0, 896.0, 792.9, 700.0, 616.0, 541.0, 474.0, 413.0, 359.0, 310.8, 267.7, 230.0, 197.7, 170.0, 146.0, 126.0,
-      108.0, 92.8, 79.8, 68.6, 59.0, 50.7, 43.6, 37.5, 32.28, 27.8, 19.23, 13.4, 9.4, 6.61,
-    ],
-    temperatureK: [
-      287.2, 281.7, 276.3, 270.9, 265.5, 260.1, 253.1, 246.1, 239.2, 232.2, 225.2, 225.2, 225.2, 225.2, 225.2, 225.2,
-      225.2, 225.2, 225.2, 225.2, 225.2, 225.2, 225.2, 225.2, 226.6, 228.1, 231.1, 235.1, 240.0, 247.2,
-    ],
-  },
-  'subarctic-winter': {
-    pressureHpa: [
-      1013.0, 887.8, 777.5, 679.8, 593.2, 515.8, 446.7, 385.3, 330.8, 282.9, 241.8, 206.7, 176.6, 151.0, 129.1, 110.3,
-      94.31, 80.58, 68.82, 58.75, 50.14, 42.77, 36.47, 31.09, 26.49, 22.56, 15.13, 10.2, 6.91, 4.701,
-    ],
-    temperatureK: [
-      257.2, 259.1, 255.9, 252.7, 247.7, 240.9, 234.1, 227.3, 220.9, 217.2, 217.2, 217.2, 217.2, 217.2, 217.2, 217.2,
-      216.6, 216.0, 215.4, 214.8, 214.2, 213.6, 213.0, 212.4, 211.8, 211.2, 213.6, 216.0, 218.5, 222.3,
-    ],
-  },
-});
-
-/** A climatological column: ln p (Pa) and T (K) on AFGL_COLUMN_KM. */
-export interface Column {
-  lnPressurePa: Float64Array;
-  temperatureK: Float64Array;
-}
-
-const COLUMN_ORDER: readonly OzoneProfileName[] = [
+/** The AFGL order of the atmospheres in the rows of AFGL_TABLE. */
+const AFGL_ORDER: readonly OzoneProfileName[] = [
   'tropical',
   'midlatitude-summer',
   'midlatitude-winter',
   'subarctic-summer',
   'subarctic-winter',
 ];
+
+/** One row a height: km, then p (hPa) and T (K) of each atmosphere in AFGL_ORDER. */
+const AFGL_TABLE: readonly (readonly number[])[] = [
+  // km, tropical p T, mid-latitude summer p T, mid-latitude winter p T, subarctic summer p T, subarctic winter p T
+  [0, 1013.0, 299.7, 1013.0, 294.2, 1018.0, 272.2, 1010.0, 287.2, 1013.0, 257.2],
+  [1, 904.0, 293.7, 902.0, 289.7, 897.3, 268.7, 896.0, 281.7, 887.8, 259.1],
+  [2, 805.0, 287.7, 802.0, 285.2, 789.7, 265.2, 792.9, 276.3, 777.5, 255.9],
+  [3, 715.0, 283.7, 710.0, 279.2, 693.8, 261.7, 700.0, 270.9, 679.8, 252.7],
+  [4, 633.0, 277.0, 628.0, 273.2, 608.1, 255.7, 616.0, 265.5, 593.2, 247.7],
+  [5, 559.0, 270.3, 554.0, 267.2, 531.3, 249.7, 541.0, 260.1, 515.8, 240.9],
+  [6, 492.0, 263.6, 487.0, 261.2, 462.7, 243.7, 474.0, 253.1, 446.7, 234.1],
+  [7, 432.0, 257.0, 426.0, 254.7, 401.6, 237.7, 413.0, 246.1, 385.3, 227.3],
+  [8, 378.0, 250.3, 372.0, 248.2, 347.3, 231.7, 359.0, 239.2, 330.8, 220.9],
+  [9, 329.0, 243.6, 324.0, 241.7, 299.3, 225.7, 310.8, 232.2, 282.9, 217.2],
+  [10, 286.0, 237.0, 281.0, 235.3, 256.8, 219.7, 267.7, 225.2, 241.8, 217.2],
+  [11, 247.0, 230.1, 243.0, 228.8, 219.9, 219.2, 230.0, 225.2, 206.7, 217.2],
+  [12, 213.0, 223.6, 209.0, 222.3, 188.2, 218.7, 197.7, 225.2, 176.6, 217.2],
+  [13, 182.0, 217.0, 179.0, 215.8, 161.1, 218.2, 170.0, 225.2, 151.0, 217.2],
+  [14, 156.0, 210.3, 153.0, 215.7, 137.8, 217.7, 146.0, 225.2, 129.1, 217.2],
+  [15, 132.0, 203.7, 130.0, 215.7, 117.8, 217.2, 126.0, 225.2, 110.3, 217.2],
+  [16, 111.0, 197.0, 111.0, 215.7, 100.7, 216.7, 108.0, 225.2, 94.31, 216.6],
+  [17, 93.7, 194.8, 95.0, 215.7, 86.1, 216.2, 92.8, 225.2, 80.58, 216.0],
+  [18, 78.9, 198.8, 81.2, 216.8, 73.6, 215.7, 79.8, 225.2, 68.82, 215.4],
+  [19, 66.6, 202.7, 69.5, 217.9, 62.8, 215.2, 68.6, 225.2, 58.75, 214.8],
+  [20, 56.5, 206.7, 59.5, 219.2, 53.7, 215.2, 59.0, 225.2, 50.14, 214.2],
+  [21, 48.0, 210.7, 51.0, 220.4, 45.8, 215.2, 50.7, 225.2, 42.77, 213.6],
+  [22, 40.9, 214.6, 43.7, 221.6, 39.1, 215.2, 43.6, 225.2, 36.47, 213.0],
+  [23, 35.0, 217.0, 37.6, 222.8, 33.4, 215.2, 37.5, 225.2, 31.09, 212.4],
+  [24, 30.0, 219.2, 32.2, 223.9, 28.6, 215.2, 32.28, 226.6, 26.49, 211.8],
+  [25, 25.7, 221.4, 27.7, 225.1, 24.4, 215.2, 27.8, 228.1, 22.56, 211.2],
+  [27.5, 17.63, 227.0, 19.1, 228.5, 16.46, 215.5, 19.23, 231.1, 15.13, 213.6],
+  [30, 12.2, 232.3, 13.2, 233.7, 11.1, 217.4, 13.4, 235.1, 10.2, 216.0],
+  [32.5, 8.52, 237.7, 9.3, 239.0, 7.56, 220.4, 9.4, 240.0, 6.91, 218.5],
+  [35, 6.0, 243.1, 6.52, 245.2, 5.18, 227.9, 6.61, 247.2, 4.701, 222.3],
+];
+
+/** Geometric heights (km) of the embedded AFGL p/T grid (the ozone grid): 0-25 km by 1 km, 27.5-35 km. */
+export const AFGL_COLUMN_KM: readonly number[] = Object.freeze(AFGL_TABLE.map((row) => row[0]));
+
+/** Pressure (hPa) and temperature (K) of one AFGL atmosphere on AFGL_COLUMN_KM. */
+type AfglAtmosphere = { pressureHpa: readonly number[]; temperatureK: readonly number[] };
+
+/** Pressure (hPa) and temperature (K) of each AFGL atmosphere on AFGL_COLUMN_KM. */
+export const AFGL_PT: Readonly<Record<OzoneProfileName, AfglAtmosphere>> = Object.freeze(
+  Object.fromEntries(
+    AFGL_ORDER.map((name, i) => [
+      name,
+      { pressureHpa: AFGL_TABLE.map((row) => row[1 + 2 * i]), temperatureK: AFGL_TABLE.map((row) => row[2 + 2 * i]) },
+    ]),
+  ) as Record<OzoneProfileName, AfglAtmosphere>,
+);
+
+/** A climatological column: ln p (Pa) and T (K) on AFGL_COLUMN_KM. */
+export interface Column {
+  lnPressurePa: Float64Array;
+  temperatureK: Float64Array;
+}
 
 function columnOf(name: OzoneProfileName): Column {
   const t = AFGL_PT[name];
@@ -261,7 +252,7 @@ function meanColumn(a: Column, b: Column): Column {
  * then the mid-latitude and subarctic annual means (mean of summer and winter in ln p and T).
  */
 export const COLUMNS: readonly Column[] = (() => {
-  const five = COLUMN_ORDER.map(columnOf);
+  const five = AFGL_ORDER.map(columnOf);
   return Object.freeze([...five, meanColumn(five[1], five[2]), meanColumn(five[3], five[4])]);
 })();
 
