@@ -216,7 +216,7 @@ type AfglAtmosphere = { pressureHpa: readonly number[]; temperatureK: readonly n
 /** Pressure (hPa) and temperature (K) of each AFGL atmosphere on AFGL_COLUMN_KM. */
 export const AFGL_PT: Readonly<Record<OzoneProfileName, AfglAtmosphere>> = Object.freeze(
   Object.fromEntries(
-    AFGL_ORDER.map((name, i) => [
+    AFGL_ORDER.map((name, i): [OzoneProfileName, AfglAtmosphere] => [
       name,
       { pressureHpa: AFGL_TABLE.map((row) => row[1 + 2 * i]), temperatureK: AFGL_TABLE.map((row) => row[2 + 2 * i]) },
     ]),
