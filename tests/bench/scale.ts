@@ -29,6 +29,7 @@ import { appEnv, build, hasBuild, prepareDatabase, startApp, tempDir, type Runni
 import { freePort } from '../support/free-port';
 import { BENCH_DIST_DIR, benchNextEnv } from './dist-dir';
 import { rebuildFlightRollups } from '../../db/flight-rollups';
+import { PENDING_FLIGHT_COLUMNS } from '../../db/flight-columns';
 import { screenTotals, validateScreeningInput, type ScreeningInput } from '../../lib/screening/index';
 
 const arg = (name: string, fallback: string) => {
@@ -151,24 +152,9 @@ function screenTemplates(): { templates: Template[]; ms: number } {
   return { templates, ms: performance.now() - t0 };
 }
 
+/** The pending-flight columns imports write, then the screened figures the bench copies from templates. */
 const COLUMNS = [
-  'workspace_id',
-  'import_id',
-  'date',
-  'flight',
-  'origin',
-  'destination',
-  'aircraft_type_id',
-  'aircraft_code',
-  'fleet_id',
-  'cruise_fl',
-  'max_fl',
-  'input_json',
-  'status',
-  'fuel_kg',
-  'source_line',
-  'created_at',
-  'fuel_warning',
+  ...PENDING_FLIGHT_COLUMNS,
   'distance_km',
   'nox_total_kg',
   'nox_above_kg',
