@@ -16,7 +16,7 @@
  *   fake's meter events are the ledger's batches, each once, and their units equal the units sent.
  * Builds first when there is no build (under the checkout's e2e lock). SCALE_ROWS sets the import size.
  */
-import { spawn, spawnSync, execFileSync, type ChildProcess } from 'node:child_process';
+import { spawn, execFileSync, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import { randomBytes } from 'node:crypto';
@@ -36,6 +36,7 @@ import {
   type RunningApp,
 } from '../soak/app-process';
 import { freePort } from '../support/free-port';
+import { pgBinDir, startScratchPostgres } from '../support/scratch-postgres';
 
 const ROWS = Number(process.env.SCALE_ROWS ?? 20_000);
 const SLUG = 'skarn-polar';
@@ -55,25 +56,6 @@ const check = (ok: boolean, what: string) => {
   if (!ok) problems.push(what);
 };
 const pause = (ms: number) => new Promise((r) => setTimeout(r, ms));
-
-function pgBinDir(): string {
-  const base = '/usr/lib/postgresql';
-  const versions = fs.existsSync(base)
-    ? fs
-        .readdirSync(base)
-        .filter((v) => fs.existsSync(path.join(base, v, 'bin', 'initdb')))
-        .sort((a, b) => Number(b) - Number(a))
-    : [];
-  if (!versions.length) throw new Error('PostgreSQL is not installed (npm run test:pg installs it when run as root)');
-  return path.join(base, versions[0], 'bin');
-}
-
-function asPostgres(bin: string, args: string[]): void {
-  const asRoot = process.getuid?.() === 0;
-  const [cmd, argv] = asRoot ? ['runuser', ['-u', 'postgres', '--', bin, ...args]] : [bin, args];
-  const r = spawnSync(cmd, argv, { stdio: 'pipe', encoding: 'utf8', cwd: os.tmpdir() });
-  if (r.status !== 0) throw new Error(`${path.basename(bin)} failed:\n${r.stdout ?? ''}${r.stderr ?? ''}`);
-}
 
 function schedule(rows: number): string {
   const lines = ['date,flight,origin,destination,aircraft,cruise_fl,fuel_kg'];
@@ -130,35 +112,10 @@ async function main(): Promise<number> {
   if (process.env.SCALE_BUILD === '1' || !hasBuild()) build();
   const started = Date.now();
   const bin = pgBinDir();
+  if (!bin) throw new Error('PostgreSQL is not installed (npm run test:pg installs it when run as root)');
   const work = tempDir('tropopass-scale-');
-  const data = path.join(work, 'data');
-  const sock = path.join(work, 'sock');
-  fs.mkdirSync(sock);
-  if (process.getuid?.() === 0) execFileSync('chown', ['-R', 'postgres:postgres', work]);
-  const pgPort = await freePort();
-  asPostgres(path.join(bin, 'initdb'), [
-    '-D',
-    data,
-    '-A',
-    'trust',
-    '-U',
-    'postgres',
-    '-E',
-    'UTF8',
-    '--locale=C',
-    '--no-sync',
-  ]);
-  asPostgres(path.join(bin, 'pg_ctl'), [
-    '-D',
-    data,
-    '-l',
-    path.join(work, 'server.log'),
-    '-o',
-    `-p ${pgPort} -c listen_addresses=127.0.0.1 -k ${sock} -c fsync=off -c synchronous_commit=off -c max_connections=200`,
-    '-w',
-    'start',
-  ]);
-  const admin = `postgres://postgres@127.0.0.1:${pgPort}/postgres`;
+  const pg = await startScratchPostgres(bin, work, ['max_connections=200']);
+  const { port: pgPort, adminUrl: admin } = pg;
   execFileSync('psql', [admin, '-q', '-c', 'CREATE DATABASE tropopass_scale']);
   const databaseUrl = `postgres://postgres@127.0.0.1:${pgPort}/tropopass_scale`;
   console.log(
@@ -440,11 +397,7 @@ async function main(): Promise<number> {
     await Promise.all([a?.stop(), b?.stop()]);
     await killGroup(fake, 'SIGTERM');
     await k.destroy();
-    try {
-      asPostgres(path.join(bin, 'pg_ctl'), ['-D', data, '-m', 'fast', '-w', 'stop']);
-    } catch (err) {
-      console.error(`[scale] stopping PostgreSQL: ${(err as Error).message}`);
-    }
+    pg.stop('[scale] stopping PostgreSQL');
     fs.rmSync(work, { recursive: true, force: true });
   }
   console.log(
