@@ -136,6 +136,50 @@ export async function stopBenchApp(app: BenchApp, server: ChildProcess): Promise
   fs.rmSync(app.work, { recursive: true, force: true });
 }
 
+/**
+ * Polls the import every 250 ms until it is complete or failed (an error after 10 minutes from `t0`,
+ * a performance.now() time); `onPoll` sees each answer. Returns the last status.
+ */
+export async function waitForImport(
+  app: BenchApp,
+  importId: number,
+  t0: number,
+  onPoll: (p: { status: string; rowsPerSecond?: number | null }) => void = () => undefined,
+): Promise<string> {
+  let status = '';
+  while (status !== 'complete' && status !== 'failed') {
+    await new Promise((r) => setTimeout(r, 250));
+    const p = (await (
+      await fetch(`${app.baseUrl}/api/v1/workspaces/skarn-polar/imports/${importId}`, {
+        headers: { cookie: app.cookie },
+      })
+    ).json()) as { status: string; rowsPerSecond?: number | null };
+    status = p.status;
+    onPoll(p);
+    if (performance.now() - t0 > 600_000) throw new Error('the import did not finish within 10 minutes');
+  }
+  return status;
+}
+
+/** The import's screened flights (flown ones only with `basis`) and the usage units recorded for its flights. */
+export function importCounts(app: BenchApp, importId: number, basis?: 'flown'): { screened: number; units: number } {
+  const screened = (
+    app.conn
+      .prepare(
+        `select count(*) as n from flights where import_id = ? and status = 'screened'${basis ? ` and basis = '${basis}'` : ''}`,
+      )
+      .get(importId) as { n: number }
+  ).n;
+  const units = (
+    app.conn
+      .prepare(
+        "select count(*) as n from usage_events u join flights f on f.id = u.source_id where u.kind = 'imported_flight' and f.import_id = ? and u.workspace_id = ?",
+      )
+      .get(importId, app.workspaceId) as { n: number }
+  ).n;
+  return { screened, units };
+}
+
 /** Resident memory (kB) of every process in the server's process group. */
 export function groupRssKb(pgid: number): number {
   let total = 0;

@@ -12,7 +12,16 @@
 import { createHash } from 'node:crypto';
 import os from 'node:os';
 import { seededRandom } from '../../lib/random';
-import { groupRssKb, lockAndBuild, prepareBenchApp, spawnServer, stopBenchApp, waitForServer } from './app-bench';
+import {
+  groupRssKb,
+  importCounts,
+  lockAndBuild,
+  prepareBenchApp,
+  spawnServer,
+  stopBenchApp,
+  waitForImport,
+  waitForServer,
+} from './app-bench';
 
 const ROWS = Number(process.argv[2] ?? 100_000);
 
@@ -43,7 +52,7 @@ function schedule(rows: number): string {
 async function main(): Promise<void> {
   lockAndBuild('import.ts');
   const app = await prepareBenchApp('tropopass-bench-');
-  const { baseUrl, conn, cookie } = app;
+  const { baseUrl, cookie } = app;
 
   const csv = schedule(ROWS);
   const bytes = Buffer.byteLength(csv);
@@ -76,33 +85,15 @@ async function main(): Promise<void> {
     if (res.status !== 202 || !accepted.id)
       throw new Error(`upload refused (${res.status}): ${JSON.stringify(accepted).slice(0, 500)}`);
 
-    let status = accepted.status;
     let maxRate = 0;
-    while (status !== 'complete' && status !== 'failed') {
-      await new Promise((r) => setTimeout(r, 250));
-      const p = (await (
-        await fetch(`${baseUrl}/api/v1/workspaces/skarn-polar/imports/${accepted.id}`, { headers: { cookie } })
-      ).json()) as { status: string; rowsPerSecond: number | null };
-      status = p.status;
+    const status = await waitForImport(app, accepted.id, t0, (p) => {
       if (p.rowsPerSecond) maxRate = Math.max(maxRate, p.rowsPerSecond);
-      if (performance.now() - t0 > 600_000) throw new Error('the import did not finish within 10 minutes');
-    }
+    });
     const t2 = performance.now();
     clearInterval(sampler);
     peakKb = Math.max(peakKb, groupRssKb(server.pid ?? 0));
 
-    const screened = (
-      conn
-        .prepare("select count(*) as n from flights where import_id = ? and status = 'screened'")
-        .get(accepted.id) as { n: number }
-    ).n;
-    const units = (
-      conn
-        .prepare(
-          "select count(*) as n from usage_events u join flights f on f.id = u.source_id where u.kind = 'imported_flight' and f.import_id = ? and u.workspace_id = ?",
-        )
-        .get(accepted.id, app.workspaceId) as { n: number }
-    ).n;
+    const { screened, units } = importCounts(app, accepted.id);
     const accept = (t1 - t0) / 1000;
     const screen = (t2 - t1) / 1000;
     const total = (t2 - t0) / 1000;

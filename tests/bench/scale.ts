@@ -24,9 +24,9 @@ import path from 'node:path';
 import { randomBytes } from 'node:crypto';
 import Database from 'better-sqlite3';
 import knexFactory, { type Knex } from 'knex';
-import { encode } from 'next-auth/jwt';
 import { appEnv, build, hasBuild, prepareDatabase, startApp, tempDir, type RunningApp } from '../soak/app-process';
 import { freePort } from '../support/free-port';
+import { sessionCookie } from '../support/session-cookie';
 import { pgBinDir, startScratchPostgres } from '../support/scratch-postgres';
 import { BENCH_DIST_DIR, benchNextEnv } from './dist-dir';
 import { rebuildFlightRollups } from '../../db/flight-rollups';
@@ -387,29 +387,9 @@ function peakRssMb(pid: number): { self: number; all: number } {
   return { self: Math.max(...figures), all: figures.reduce((a, b) => a + b, 0) };
 }
 
-async function sessionCookie(k: Knex): Promise<string> {
-  const owner = (await k('users').where({ email: 'consultant@tropopass.test' }).first()) as {
-    id: number;
-    session_version: number;
-  };
-  const sid = randomBytes(24).toString('base64url');
-  await k('auth_sessions').insert({
-    id: sid,
-    user_id: owner.id,
-    created_at: new Date().toISOString(),
-    expires_at: new Date(Date.now() + 12 * 3_600_000).toISOString(),
-    revoked_at: null,
-  });
-  const token = await encode({
-    token: { uid: owner.id, sv: Number(owner.session_version), authAt: Date.now(), sid },
-    secret: SECRET,
-  });
-  return `next-auth.session-token=${token}`;
-}
-
 async function measureApp(app: RunningApp, k: Knex, ws: Workspace): Promise<Timing[]> {
   const base = app.baseUrl;
-  const cookie = await sessionCookie(k);
+  const cookie = await sessionCookie(k, 'consultant@tropopass.test', SECRET);
   const get = (p: string) => () => fetch(`${base}${p}`, { headers: { cookie } });
   const api = `/api/v1/workspaces/${SLUG}`;
   const year = `from=${YEAR.from}&to=${YEAR.to}`;

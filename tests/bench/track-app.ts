@@ -14,7 +14,16 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { groupRssKb, lockAndBuild, prepareBenchApp, spawnServer, stopBenchApp, waitForServer } from './app-bench';
+import {
+  groupRssKb,
+  importCounts,
+  lockAndBuild,
+  prepareBenchApp,
+  spawnServer,
+  stopBenchApp,
+  waitForImport,
+  waitForServer,
+} from './app-bench';
 import { writeTrackFile } from './track-file';
 
 const FLIGHTS = Number(process.argv[2] ?? 2000);
@@ -27,7 +36,7 @@ const timeline = process.env.BENCH_RSS_TIMELINE === '1';
 async function main(): Promise<void> {
   lockAndBuild('track-app.ts');
   const app = await prepareBenchApp('tropopass-trackbench-');
-  const { baseUrl, conn, cookie } = app;
+  const { baseUrl, cookie } = app;
   const trackFile = path.join(app.work, 'tracks.csv');
 
   const bytes = await writeTrackFile(trackFile, FLIGHTS, PER, 'SK-LR1');
@@ -73,31 +82,12 @@ async function main(): Promise<void> {
     if (res.status !== 202 || !accepted.id)
       throw new Error(`upload refused (${res.status}): ${JSON.stringify(accepted).slice(0, 500)}`);
 
-    let status = accepted.status;
-    while (status !== 'complete' && status !== 'failed') {
-      await new Promise((r) => setTimeout(r, 250));
-      const p = (await (
-        await fetch(`${baseUrl}/api/v1/workspaces/skarn-polar/imports/${accepted.id}`, { headers: { cookie } })
-      ).json()) as { status: string };
-      status = p.status;
-      if (performance.now() - t0 > 600_000) throw new Error('the import did not finish within 10 minutes');
-    }
+    const status = await waitForImport(app, accepted.id, t0);
     const t2 = performance.now();
     clearInterval(sampler);
     peakKb = Math.max(peakKb, groupRssKb(server.pid ?? 0));
 
-    const screened = (
-      conn
-        .prepare("select count(*) as n from flights where import_id = ? and status = 'screened' and basis = 'flown'")
-        .get(accepted.id) as { n: number }
-    ).n;
-    const units = (
-      conn
-        .prepare(
-          "select count(*) as n from usage_events u join flights f on f.id = u.source_id where u.kind = 'imported_flight' and f.import_id = ? and u.workspace_id = ?",
-        )
-        .get(accepted.id, app.workspaceId) as { n: number }
-    ).n;
+    const { screened, units } = importCounts(app, accepted.id, 'flown');
     const accept = (t1 - t0) / 1000;
     const screen = (t2 - t1) / 1000;
     const total = (t2 - t0) / 1000;

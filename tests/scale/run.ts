@@ -19,10 +19,8 @@
 import { spawn, execFileSync, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
-import { randomBytes } from 'node:crypto';
 import path from 'node:path';
 import knexFactory, { type Knex } from 'knex';
-import { encode } from 'next-auth/jwt';
 import Database from 'better-sqlite3';
 import {
   appEnv,
@@ -36,6 +34,7 @@ import {
   type RunningApp,
 } from '../soak/app-process';
 import { freePort } from '../support/free-port';
+import { sessionCookie } from '../support/session-cookie';
 import { pgBinDir, startScratchPostgres } from '../support/scratch-postgres';
 
 const ROWS = Number(process.env.SCALE_ROWS ?? 20_000);
@@ -166,26 +165,10 @@ async function main(): Promise<number> {
     workers.push(startWorker(workerEnv, 'worker-1'));
 
     // An API key created through A (by the workspace owner's session) works on B.
-    const owner = (await k('users').where({ email: 'consultant@tropopass.test' }).first()) as {
-      id: number;
-      session_version: number;
-    };
-    // A session token names a live row of auth_sessions (sign-out revokes it), as a real sign-in makes.
-    const sid = randomBytes(24).toString('base64url');
-    await k('auth_sessions').insert({
-      id: sid,
-      user_id: owner.id,
-      created_at: new Date().toISOString(),
-      expires_at: new Date(Date.now() + 12 * 3_600_000).toISOString(),
-      revoked_at: null,
-    });
-    const token = await encode({
-      token: { uid: owner.id, sv: Number(owner.session_version), authAt: Date.now(), sid },
-      secret: SECRET,
-    });
+    const cookie = await sessionCookie(k, 'consultant@tropopass.test', SECRET);
     const created = await fetch(`${a.baseUrl}/api/v1/workspaces/${SLUG}/api-keys`, {
       method: 'POST',
-      headers: { cookie: `next-auth.session-token=${token}`, origin: a.baseUrl, 'content-type': 'application/json' },
+      headers: { cookie, origin: a.baseUrl, 'content-type': 'application/json' },
       body: JSON.stringify({ name: 'scale', role: 'analyst' }),
     });
     const key = ((await created.json()) as { key?: string }).key ?? '';
@@ -307,7 +290,7 @@ async function main(): Promise<number> {
     while (!listed && Date.now() < dlDeadline) {
       await pause(1000);
       const r = await fetch(`${b.baseUrl}/api/v1/workspaces/${SLUG}/jobs/failed`, {
-        headers: { cookie: `next-auth.session-token=${token}` },
+        headers: { cookie },
       });
       listStatus = r.status;
       const items = r.ok ? ((await r.json()) as { items: FailedJob[] }).items : [];
