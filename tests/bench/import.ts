@@ -12,16 +12,7 @@
 import { createHash } from 'node:crypto';
 import os from 'node:os';
 import { seededRandom } from '../../lib/random';
-import {
-  groupRssKb,
-  importCounts,
-  lockAndBuild,
-  prepareBenchApp,
-  spawnServer,
-  stopBenchApp,
-  waitForImport,
-  waitForServer,
-} from './app-bench';
+import * as bench from './app-bench';
 
 const ROWS = Number(process.argv[2] ?? 100_000);
 
@@ -50,8 +41,8 @@ function schedule(rows: number): string {
 }
 
 async function main(): Promise<void> {
-  lockAndBuild('import.ts');
-  const app = await prepareBenchApp('tropopass-bench-');
+  bench.lockAndBuild('import.ts');
+  const app = await bench.prepareBenchApp('tropopass-bench-');
   const { baseUrl, cookie } = app;
 
   const csv = schedule(ROWS);
@@ -61,14 +52,14 @@ async function main(): Promise<void> {
     `file                       ${ROWS} rows, ${(bytes / 1024 / 1024).toFixed(2)} MB, sha256 ${createHash('sha256').update(csv).digest('hex').slice(0, 12)}…`,
   );
 
-  const server = spawnServer(app);
+  const server = bench.spawnServer(app);
   let peakKb = 0;
   let sampler: NodeJS.Timeout | undefined;
   try {
-    await waitForServer(app, server);
-    const idleKb = groupRssKb(server.pid ?? 0);
+    await bench.waitForServer(app, server);
+    const idleKb = bench.groupRssKb(server.pid ?? 0);
     sampler = setInterval(() => {
-      peakKb = Math.max(peakKb, groupRssKb(server.pid ?? 0));
+      peakKb = Math.max(peakKb, bench.groupRssKb(server.pid ?? 0));
     }, 100);
 
     const form = new FormData();
@@ -80,20 +71,20 @@ async function main(): Promise<void> {
       body: form,
     });
     const t1 = performance.now();
-    const acceptPeakKb = Math.max(peakKb, groupRssKb(server.pid ?? 0));
+    const acceptPeakKb = Math.max(peakKb, bench.groupRssKb(server.pid ?? 0));
     const accepted = (await res.json()) as { id?: number; status?: string; error?: { message: string } };
     if (res.status !== 202 || !accepted.id)
       throw new Error(`upload refused (${res.status}): ${JSON.stringify(accepted).slice(0, 500)}`);
 
     let maxRate = 0;
-    const status = await waitForImport(app, accepted.id, t0, (p) => {
+    const status = await bench.waitForImport(app, accepted.id, t0, (p) => {
       if (p.rowsPerSecond) maxRate = Math.max(maxRate, p.rowsPerSecond);
     });
     const t2 = performance.now();
     clearInterval(sampler);
-    peakKb = Math.max(peakKb, groupRssKb(server.pid ?? 0));
+    peakKb = Math.max(peakKb, bench.groupRssKb(server.pid ?? 0));
 
-    const { screened, units } = importCounts(app, accepted.id);
+    const { screened, units } = bench.importCounts(app, accepted.id);
     const accept = (t1 - t0) / 1000;
     const screen = (t2 - t1) / 1000;
     const total = (t2 - t0) / 1000;
@@ -112,7 +103,7 @@ async function main(): Promise<void> {
       throw new Error('the import did not screen and bill every row exactly once');
   } finally {
     if (sampler) clearInterval(sampler);
-    await stopBenchApp(app, server);
+    await bench.stopBenchApp(app, server);
   }
 }
 

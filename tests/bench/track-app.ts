@@ -14,16 +14,7 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import {
-  groupRssKb,
-  importCounts,
-  lockAndBuild,
-  prepareBenchApp,
-  spawnServer,
-  stopBenchApp,
-  waitForImport,
-  waitForServer,
-} from './app-bench';
+import * as bench from './app-bench';
 import { writeTrackFile } from './track-file';
 
 const FLIGHTS = Number(process.argv[2] ?? 2000);
@@ -34,8 +25,8 @@ const serverFlags = (process.env.BENCH_SERVER_FLAGS ?? '').split(' ').filter(Boo
 const timeline = process.env.BENCH_RSS_TIMELINE === '1';
 
 async function main(): Promise<void> {
-  lockAndBuild('track-app.ts');
-  const app = await prepareBenchApp('tropopass-trackbench-');
+  bench.lockAndBuild('track-app.ts');
+  const app = await bench.prepareBenchApp('tropopass-trackbench-');
   const { baseUrl, cookie } = app;
   const trackFile = path.join(app.work, 'tracks.csv');
 
@@ -51,16 +42,16 @@ async function main(): Promise<void> {
     `file                       ${FLIGHTS} flights x ${PER} points = ${points.toLocaleString('en-GB')} points, ${(bytes / 1024 / 1024).toFixed(1)} MB (streamed from disk)`,
   );
 
-  const server = spawnServer(app, serverFlags);
+  const server = bench.spawnServer(app, serverFlags);
   let peakKb = 0;
   let sampler: NodeJS.Timeout | undefined;
   try {
-    await waitForServer(app, server);
-    const idleKb = groupRssKb(server.pid ?? 0);
+    await bench.waitForServer(app, server);
+    const idleKb = bench.groupRssKb(server.pid ?? 0);
     let ticks = 0;
     const started = performance.now();
     sampler = setInterval(() => {
-      const kb = groupRssKb(server.pid ?? 0);
+      const kb = bench.groupRssKb(server.pid ?? 0);
       peakKb = Math.max(peakKb, kb);
       if (timeline && ++ticks % 10 === 0)
         console.log(
@@ -78,16 +69,16 @@ async function main(): Promise<void> {
     });
     const accepted = (await res.json()) as { id?: number; status?: string; error?: { message: string } };
     const t1 = performance.now();
-    const acceptPeakKb = Math.max(peakKb, groupRssKb(server.pid ?? 0));
+    const acceptPeakKb = Math.max(peakKb, bench.groupRssKb(server.pid ?? 0));
     if (res.status !== 202 || !accepted.id)
       throw new Error(`upload refused (${res.status}): ${JSON.stringify(accepted).slice(0, 500)}`);
 
-    const status = await waitForImport(app, accepted.id, t0);
+    const status = await bench.waitForImport(app, accepted.id, t0);
     const t2 = performance.now();
     clearInterval(sampler);
-    peakKb = Math.max(peakKb, groupRssKb(server.pid ?? 0));
+    peakKb = Math.max(peakKb, bench.groupRssKb(server.pid ?? 0));
 
-    const { screened, units } = importCounts(app, accepted.id, 'flown');
+    const { screened, units } = bench.importCounts(app, accepted.id, 'flown');
     const accept = (t1 - t0) / 1000;
     const screen = (t2 - t1) / 1000;
     const total = (t2 - t0) / 1000;
@@ -109,7 +100,7 @@ async function main(): Promise<void> {
       throw new Error('the import did not screen and bill every flight exactly once');
   } finally {
     if (sampler) clearInterval(sampler);
-    await stopBenchApp(app, server);
+    await bench.stopBenchApp(app, server);
   }
 }
 
