@@ -26,6 +26,19 @@ export async function createAuditEntry(entry: AuditEntry, trx: Knex | Knex.Trans
   });
 }
 
+/**
+ * Appends the audit row of a change `by` made in a workspace, inside the change's transaction:
+ * `await auditChange(trx, scope, by, { action: 'engine.create', target: 'engine:7', detail })`.
+ */
+export async function auditChange(
+  trx: Knex | Knex.Transaction,
+  scope: { workspaceId: number },
+  by: { userId: number | null; actor: string },
+  change: { action: string; target: string | null; detail?: Record<string, unknown> },
+): Promise<void> {
+  await createAuditEntry({ workspaceId: scope.workspaceId, userId: by.userId, actor: by.actor, ...change }, trx);
+}
+
 export interface AuditRow {
   id: number;
   action: string;

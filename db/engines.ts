@@ -1,12 +1,11 @@
 import 'server-only';
 import type { Knex } from 'knex';
 import { db, insertId, nowIso, writeTx } from './client';
-import { createAuditEntry } from './audit';
+import { auditChange } from './audit';
+import { nameTaken, rowInWorkspace, rowsInWorkspace } from './workspace-rows';
 import { clearRollupKey } from './flight-rollups';
 import { conflict, invalidFields, notFound, type FieldProblem } from '@/lib/errors';
-
-/** Four values in the ICAO LTO mode order: idle 7 %, approach 30 %, climb-out 85 %, take-off 100 %. */
-export type LtoQuad = [number, number, number, number];
+import { ltoOf, type LtoQuad } from './aircraft-for-screening';
 
 /** An engine to store, as `engineSaveSchema` gives it. */
 export interface EngineSave {
@@ -64,22 +63,6 @@ export interface LibraryActor {
 type Row = Record<string, unknown>;
 type Db = Knex | Knex.Transaction;
 
-/** An engine row's four LTO-mode fuel flows (kg/s) and EI NOx (g/kg), idle first. */
-export const ltoOf = (r: Row): { fuelFlowKgS: LtoQuad; eiNoxGPerKg: LtoQuad } => ({
-  fuelFlowKgS: [
-    Number(r.ff_idle_kg_s),
-    Number(r.ff_approach_kg_s),
-    Number(r.ff_climb_out_kg_s),
-    Number(r.ff_take_off_kg_s),
-  ],
-  eiNoxGPerKg: [
-    Number(r.ei_idle_g_kg),
-    Number(r.ei_approach_g_kg),
-    Number(r.ei_climb_out_g_kg),
-    Number(r.ei_take_off_g_kg),
-  ],
-});
-
 export const engineOf = (r: Row): EngineDto => ({
   id: Number(r.id),
   name: String(r.name),
@@ -108,17 +91,11 @@ export const aircraftTypeOf = (r: Row): AircraftTypeDto => ({
 
 /** Engines of a workspace, by name. */
 export async function listEngines(scope: { workspaceId: number }, trx: Db = db()): Promise<EngineDto[]> {
-  const rows = await trx('engines')
-    .where({ workspace_id: scope.workspaceId })
-    .orderBy('name', 'asc')
-    .orderBy('id', 'asc');
-  return rows.map(engineOf);
+  return (await rowsInWorkspace(trx, 'engines', scope, 'name', 'asc')).map(engineOf);
 }
 
 export async function getEngine(scope: { workspaceId: number }, id: number, trx: Db = db()): Promise<EngineDto> {
-  const row = await trx('engines').where({ workspace_id: scope.workspaceId, id }).first();
-  if (!row) throw notFound('No engine with that id in this workspace.');
-  return engineOf(row);
+  return engineOf(await rowInWorkspace(trx, 'engines', scope, id, 'No engine with that id in this workspace.'));
 }
 
 const engineColumns = (e: EngineSave) => ({
@@ -141,9 +118,7 @@ export async function engineNamesInUse(scope: { workspaceId: number }, trx: Db =
 }
 
 async function assertEngineNameFree(trx: Db, workspaceId: number, name: string, exceptId?: number): Promise<void> {
-  const q = trx('engines').where({ workspace_id: workspaceId }).whereRaw('lower(name) = ?', [name.toLowerCase()]);
-  if (exceptId !== undefined) q.andWhereNot('id', exceptId);
-  if (await q.first())
+  if (await nameTaken(trx, 'engines', workspaceId, name, exceptId))
     throw conflict(`An engine called “${name}” already exists in this workspace.`, [
       { path: 'name', message: 'Another engine already has this name.' },
     ]);
@@ -163,17 +138,11 @@ export async function createEngine(
         ['id'],
       ),
     );
-    await createAuditEntry(
-      {
-        workspaceId: scope.workspaceId,
-        userId: by.userId,
-        actor: by.actor,
-        action: 'engine.create',
-        target: `engine:${id}`,
-        detail: { name: input.name },
-      },
-      trx,
-    );
+    await auditChange(trx, scope, by, {
+      action: 'engine.create',
+      target: `engine:${id}`,
+      detail: { name: input.name },
+    });
     return getEngine(scope, id, trx);
   });
 }
@@ -207,17 +176,11 @@ export async function createEngines(
         ),
       );
     }
-    await createAuditEntry(
-      {
-        workspaceId: scope.workspaceId,
-        userId: by.userId,
-        actor: by.actor,
-        action: 'engine.import',
-        target: by.fileName ?? null,
-        detail: { engines: inputs.length },
-      },
-      trx,
-    );
+    await auditChange(trx, scope, by, {
+      action: 'engine.import',
+      target: by.fileName ?? null,
+      detail: { engines: inputs.length },
+    });
     const rows = (await trx('engines')
       .where({ workspace_id: scope.workspaceId })
       .whereIn('id', ids)
@@ -239,17 +202,11 @@ export async function updateEngine(
     await trx('engines')
       .where({ workspace_id: scope.workspaceId, id })
       .update({ ...engineColumns(input), is_demo: false, updated_at: nowIso() });
-    await createAuditEntry(
-      {
-        workspaceId: scope.workspaceId,
-        userId: by.userId,
-        actor: by.actor,
-        action: 'engine.update',
-        target: `engine:${id}`,
-        detail: { name: input.name },
-      },
-      trx,
-    );
+    await auditChange(trx, scope, by, {
+      action: 'engine.update',
+      target: `engine:${id}`,
+      detail: { name: input.name },
+    });
     return getEngine(scope, id, trx);
   });
 }
@@ -269,17 +226,11 @@ export async function deleteEngine(scope: { workspaceId: number }, id: number, b
       );
     }
     await trx('engines').where({ workspace_id: scope.workspaceId, id }).delete();
-    await createAuditEntry(
-      {
-        workspaceId: scope.workspaceId,
-        userId: by.userId,
-        actor: by.actor,
-        action: 'engine.delete',
-        target: `engine:${id}`,
-        detail: { name: engine.name },
-      },
-      trx,
-    );
+    await auditChange(trx, scope, by, {
+      action: 'engine.delete',
+      target: `engine:${id}`,
+      detail: { name: engine.name },
+    });
   });
 }
 
@@ -379,17 +330,11 @@ export async function createAircraftType(
         ['id'],
       ),
     );
-    await createAuditEntry(
-      {
-        workspaceId: scope.workspaceId,
-        userId: by.userId,
-        actor: by.actor,
-        action: 'aircraft_type.create',
-        target: `aircraft_type:${id}`,
-        detail: { code: input.code },
-      },
-      trx,
-    );
+    await auditChange(trx, scope, by, {
+      action: 'aircraft_type.create',
+      target: `aircraft_type:${id}`,
+      detail: { code: input.code },
+    });
     return getAircraftType(scope, id, trx);
   });
 }
@@ -407,17 +352,11 @@ export async function updateAircraftType(
     await trx('aircraft_types')
       .where({ workspace_id: scope.workspaceId, id })
       .update({ ...typeColumns(input), updated_at: nowIso() });
-    await createAuditEntry(
-      {
-        workspaceId: scope.workspaceId,
-        userId: by.userId,
-        actor: by.actor,
-        action: 'aircraft_type.update',
-        target: `aircraft_type:${id}`,
-        detail: { code: input.code },
-      },
-      trx,
-    );
+    await auditChange(trx, scope, by, {
+      action: 'aircraft_type.update',
+      target: `aircraft_type:${id}`,
+      detail: { code: input.code },
+    });
     return getAircraftType(scope, id, trx);
   });
 }
@@ -428,17 +367,11 @@ export async function deleteAircraftType(scope: { workspaceId: number }, id: num
     const type = await getAircraftType(scope, id, trx);
     await trx('aircraft_types').where({ workspace_id: scope.workspaceId, id }).delete();
     await clearRollupKey(trx, scope.workspaceId, 'aircraft_type_id', id);
-    await createAuditEntry(
-      {
-        workspaceId: scope.workspaceId,
-        userId: by.userId,
-        actor: by.actor,
-        action: 'aircraft_type.delete',
-        target: `aircraft_type:${id}`,
-        detail: { code: type.code },
-      },
-      trx,
-    );
+    await auditChange(trx, scope, by, {
+      action: 'aircraft_type.delete',
+      target: `aircraft_type:${id}`,
+      detail: { code: type.code },
+    });
   });
 }
 

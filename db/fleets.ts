@@ -2,6 +2,7 @@ import 'server-only';
 import type { Knex } from 'knex';
 import { db, insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
+import { nameTaken } from './workspace-rows';
 import { clearRollupKey, splitByWholeMonths, type RollupSource } from './flight-rollups';
 import { conflict, invalidFields, notFound } from '@/lib/errors';
 
@@ -119,9 +120,7 @@ async function assertNameFree(
   name: string,
   exceptId?: number,
 ): Promise<void> {
-  const q = trx('fleets').where({ workspace_id: workspaceId }).whereRaw('lower(name) = ?', [name.toLowerCase()]);
-  if (exceptId !== undefined) q.andWhereNot('id', exceptId);
-  if (await q.first())
+  if (await nameTaken(trx, 'fleets', workspaceId, name, exceptId))
     throw conflict(`A fleet called “${name}” already exists here.`, [
       { path: 'name', message: 'Another fleet already has this name.' },
     ]);

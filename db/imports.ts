@@ -3,6 +3,7 @@ import type { Knex } from 'knex';
 import { db, insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
 import { adjustFlightRollups, pruneFlightRollups } from './flight-rollups';
+import { PENDING_FLIGHT_COLUMNS } from './flight-columns';
 import { AppError, notFound } from '@/lib/errors';
 import type { LineProblem } from '@/lib/validation/problems';
 
@@ -83,25 +84,6 @@ export interface NewFlightRow extends PendingFlightFields {
 export const FLIGHT_BATCH = 1500;
 /** Flown flights a row: 18 bindings, so 1500 rows stay under both databases' parameter limits. */
 const TRACK_BATCH = 200;
-const FLIGHT_COLUMNS = [
-  'workspace_id',
-  'import_id',
-  'date',
-  'flight',
-  'origin',
-  'destination',
-  'aircraft_type_id',
-  'aircraft_code',
-  'fleet_id',
-  'cruise_fl',
-  'max_fl',
-  'input_json',
-  'status',
-  'fuel_kg',
-  'source_line',
-  'created_at',
-  'fuel_warning',
-] as const;
 
 /**
  * Inserts pending flights inside the caller's transaction: one multi-row INSERT ... VALUES per batch,
@@ -115,7 +97,7 @@ export async function insertPendingFlights(
   flights: NewFlightRow[],
 ): Promise<void> {
   const flown = ctx.basis === 'flown';
-  const columns: string[] = flown ? [...FLIGHT_COLUMNS, 'basis'] : [...FLIGHT_COLUMNS];
+  const columns: string[] = flown ? [...PENDING_FLIGHT_COLUMNS, 'basis'] : [...PENDING_FLIGHT_COLUMNS];
   const size = flown ? TRACK_BATCH : FLIGHT_BATCH;
   const row = `(${columns.map(() => '?').join(', ')})`;
   for (let i = 0; i < flights.length; i += size) {

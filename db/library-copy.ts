@@ -1,4 +1,5 @@
 import 'server-only';
+import type { Knex } from 'knex';
 import { insertId, nowIso, writeTx } from './client';
 import { createAuditEntry } from './audit';
 import { badRequest } from '@/lib/errors';
@@ -30,6 +31,42 @@ const ENGINE_FIELDS = [
   'is_demo',
 ] as const;
 const TYPE_FIELDS = ['name', 'engine_count', 'typical_mach', 'typical_flight_level', 'direct_ei_g_kg'] as const;
+
+/**
+ * Copies `rows` (engines or fleets) into the target workspace `to` unless it has one of the same
+ * name, which is kept and reported as skipped. Returns the target id of every source id handled.
+ */
+async function copyByName(
+  trx: Knex.Transaction,
+  table: 'engines' | 'fleets',
+  to: { workspace_id: number },
+  rows: Row[],
+  valuesOf: (row: Row) => Row,
+  report: { copied: string[]; skipped: string[] },
+): Promise<Map<number, number>> {
+  const byName = new Map(
+    ((await trx(table).where(to).select('id', 'name')) as Row[]).map((r) => [String(r.name), Number(r.id)]),
+  );
+  const idMap = new Map<number, number>();
+  for (const r of rows) {
+    const name = String(r.name);
+    const existing = byName.get(name);
+    if (existing !== undefined) {
+      idMap.set(Number(r.id), existing);
+      report.skipped.push(name);
+      continue;
+    }
+    const id = await insertId(
+      trx(table)
+        .insert({ ...to, name, ...valuesOf(r) })
+        .returning('id'),
+    );
+    idMap.set(Number(r.id), id);
+    byName.set(name, id);
+    report.copied.push(name);
+  }
+  return idMap;
+}
 
 /**
  * Copies engines, aircraft types and fleet definitions (name and description, no flights) from one
@@ -67,49 +104,26 @@ export async function copyLibrary(
         : [],
     );
 
-    const engineByName = new Map(
-      ((await trx('engines').where(to).select('id', 'name')) as Row[]).map((e) => [String(e.name), Number(e.id)]),
+    const engineIdMap = await copyByName(
+      trx,
+      'engines',
+      to,
+      srcEngines.filter((e) => input.include.engines || neededEngines.has(Number(e.id))),
+      (e) => {
+        const values: Row = { created_at: now, updated_at: now };
+        for (const f of ENGINE_FIELDS) values[f] = e[f];
+        return values;
+      },
+      result.engines,
     );
-    const engineIdMap = new Map<number, number>();
-    for (const e of srcEngines) {
-      if (!input.include.engines && !neededEngines.has(Number(e.id))) continue;
-      const name = String(e.name);
-      const existing = engineByName.get(name);
-      if (existing !== undefined) {
-        engineIdMap.set(Number(e.id), existing);
-        result.engines.skipped.push(name);
-        continue;
-      }
-      const values: Row = { ...to, name, created_at: now, updated_at: now };
-      for (const f of ENGINE_FIELDS) values[f] = e[f];
-      const id = await insertId(trx('engines').insert(values).returning('id'));
-      engineIdMap.set(Number(e.id), id);
-      engineByName.set(name, id);
-      result.engines.copied.push(name);
-    }
-
-    const fleetByName = new Map(
-      ((await trx('fleets').where(to).select('id', 'name')) as Row[]).map((f) => [String(f.name), Number(f.id)]),
+    const fleetIdMap = await copyByName(
+      trx,
+      'fleets',
+      to,
+      srcFleets.filter((f) => input.include.fleets || neededFleets.has(Number(f.id))),
+      (f) => ({ description: f.description ?? '', created_at: now }),
+      result.fleets,
     );
-    const fleetIdMap = new Map<number, number>();
-    for (const f of srcFleets) {
-      if (!input.include.fleets && !neededFleets.has(Number(f.id))) continue;
-      const name = String(f.name);
-      const existing = fleetByName.get(name);
-      if (existing !== undefined) {
-        fleetIdMap.set(Number(f.id), existing);
-        result.fleets.skipped.push(name);
-        continue;
-      }
-      const id = await insertId(
-        trx('fleets')
-          .insert({ ...to, name, description: f.description ?? '', created_at: now })
-          .returning('id'),
-      );
-      fleetIdMap.set(Number(f.id), id);
-      fleetByName.set(name, id);
-      result.fleets.copied.push(name);
-    }
 
     if (input.include.aircraftTypes) {
       const codes = new Set(

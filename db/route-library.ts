@@ -1,7 +1,7 @@
 import 'server-only';
 import type { Knex } from 'knex';
 import { db, insertId, nowIso, writeTx } from './client';
-import { createAuditEntry } from './audit';
+import { auditChange } from './audit';
 import type { LibraryActor } from './engines';
 import { notFound } from '@/lib/errors';
 
@@ -143,17 +143,11 @@ export async function saveFixes(
         added++;
       }
     }
-    await createAuditEntry(
-      {
-        workspaceId: scope.workspaceId,
-        userId: by.userId,
-        actor: by.actor,
-        action: 'fix.import',
-        target: by.fileName ?? null,
-        detail: { added, updated },
-      },
-      trx,
-    );
+    await auditChange(trx, scope, by, {
+      action: 'fix.import',
+      target: by.fileName ?? null,
+      detail: { added, updated },
+    });
     return { added, updated };
   });
 }
@@ -190,17 +184,11 @@ export async function saveAirways(
       }
       await trx('airway_fixes').insert(a.fixes.map((fix, i) => ({ airway_id: id, sequence: i + 1, fix_name: fix })));
     }
-    await createAuditEntry(
-      {
-        workspaceId: scope.workspaceId,
-        userId: by.userId,
-        actor: by.actor,
-        action: 'airway.import',
-        target: by.fileName ?? null,
-        detail: { added, updated },
-      },
-      trx,
-    );
+    await auditChange(trx, scope, by, {
+      action: 'airway.import',
+      target: by.fileName ?? null,
+      detail: { added, updated },
+    });
     return { added, updated };
   });
 }
@@ -210,17 +198,11 @@ export async function deleteFix(scope: { workspaceId: number }, id: number, by: 
     const row = (await trx('fixes').where({ workspace_id: scope.workspaceId, id }).first()) as Row | undefined;
     if (!row) throw notFound('No fix with that id in this workspace.');
     await trx('fixes').where({ workspace_id: scope.workspaceId, id }).delete();
-    await createAuditEntry(
-      {
-        workspaceId: scope.workspaceId,
-        userId: by.userId,
-        actor: by.actor,
-        action: 'fix.delete',
-        target: `fix:${id}`,
-        detail: { name: String(row.name) },
-      },
-      trx,
-    );
+    await auditChange(trx, scope, by, {
+      action: 'fix.delete',
+      target: `fix:${id}`,
+      detail: { name: String(row.name) },
+    });
   });
 }
 
@@ -230,16 +212,10 @@ export async function deleteAirway(scope: { workspaceId: number }, id: number, b
     if (!row) throw notFound('No airway with that id in this workspace.');
     await trx('airway_fixes').where({ airway_id: id }).delete();
     await trx('airways').where({ workspace_id: scope.workspaceId, id }).delete();
-    await createAuditEntry(
-      {
-        workspaceId: scope.workspaceId,
-        userId: by.userId,
-        actor: by.actor,
-        action: 'airway.delete',
-        target: `airway:${id}`,
-        detail: { name: String(row.name) },
-      },
-      trx,
-    );
+    await auditChange(trx, scope, by, {
+      action: 'airway.delete',
+      target: `airway:${id}`,
+      detail: { name: String(row.name) },
+    });
   });
 }

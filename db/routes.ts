@@ -1,9 +1,10 @@
 import 'server-only';
 import type { Knex } from 'knex';
 import { db, insertId, nowIso, writeTx } from './client';
-import { createAuditEntry } from './audit';
+import { auditChange } from './audit';
+import { nameTaken, rowInWorkspace, rowsInWorkspace } from './workspace-rows';
 import type { LibraryActor } from './engines';
-import { conflict, notFound } from '@/lib/errors';
+import { conflict } from '@/lib/errors';
 
 /** A route point: coordinates in degrees, or an airport's ICAO or IATA code. */
 export type RouteWaypoint = { lat: number; lon: number } | { airport: string };
@@ -31,17 +32,11 @@ export const routeOf = (r: Row): RouteDto => ({
 
 /** Saved routes of a workspace, by name. */
 export async function listRoutes(scope: { workspaceId: number }, trx: Db = db()): Promise<RouteDto[]> {
-  const rows = await trx('routes')
-    .where({ workspace_id: scope.workspaceId })
-    .orderBy('name', 'asc')
-    .orderBy('id', 'asc');
-  return rows.map(routeOf);
+  return (await rowsInWorkspace(trx, 'routes', scope, 'name', 'asc')).map(routeOf);
 }
 
 export async function getRoute(scope: { workspaceId: number }, id: number, trx: Db = db()): Promise<RouteDto> {
-  const row = await trx('routes').where({ workspace_id: scope.workspaceId, id }).first();
-  if (!row) throw notFound('No saved route with that id in this workspace.');
-  return routeOf(row);
+  return routeOf(await rowInWorkspace(trx, 'routes', scope, id, 'No saved route with that id in this workspace.'));
 }
 
 /** 409 at `name` when another saved route of the workspace has this name (any case). */
@@ -51,9 +46,7 @@ export async function assertRouteNameFree(
   name: string,
   exceptId?: number,
 ): Promise<void> {
-  const q = trx('routes').where({ workspace_id: workspaceId }).whereRaw('lower(name) = ?', [name.toLowerCase()]);
-  if (exceptId !== undefined) q.andWhereNot('id', exceptId);
-  if (await q.first())
+  if (await nameTaken(trx, 'routes', workspaceId, name, exceptId))
     throw conflict(`A saved route called “${name}” already exists in this workspace.`, [
       { path: 'name', message: 'Another saved route already has this name.' },
     ]);
@@ -89,17 +82,7 @@ export async function insertRoute(
       ['id'],
     ),
   );
-  await createAuditEntry(
-    {
-      workspaceId: scope.workspaceId,
-      userId: by.userId,
-      actor: by.actor,
-      action: 'route.create',
-      target: `route:${id}`,
-      detail: { name: route.name },
-    },
-    trx,
-  );
+  await auditChange(trx, scope, by, { action: 'route.create', target: `route:${id}`, detail: { name: route.name } });
   return getRoute(scope, id, trx);
 }
 
@@ -121,17 +104,7 @@ export async function replaceRoute(
       notes: route.notes,
       updated_at: nowIso(),
     });
-  await createAuditEntry(
-    {
-      workspaceId: scope.workspaceId,
-      userId: by.userId,
-      actor: by.actor,
-      action: 'route.update',
-      target: `route:${id}`,
-      detail: { name: route.name },
-    },
-    trx,
-  );
+  await auditChange(trx, scope, by, { action: 'route.update', target: `route:${id}`, detail: { name: route.name } });
   return getRoute(scope, id, trx);
 }
 
@@ -139,16 +112,6 @@ export async function deleteRoute(scope: { workspaceId: number }, id: number, by
   await writeTx(async (trx) => {
     const route = await getRoute(scope, id, trx);
     await trx('routes').where({ workspace_id: scope.workspaceId, id }).delete();
-    await createAuditEntry(
-      {
-        workspaceId: scope.workspaceId,
-        userId: by.userId,
-        actor: by.actor,
-        action: 'route.delete',
-        target: `route:${id}`,
-        detail: { name: route.name },
-      },
-      trx,
-    );
+    await auditChange(trx, scope, by, { action: 'route.delete', target: `route:${id}`, detail: { name: route.name } });
   });
 }

@@ -1,9 +1,9 @@
 import 'server-only';
 import type { Knex } from 'knex';
 import { db, insertId, nowIso, writeTx } from './client';
-import { createAuditEntry } from './audit';
+import { auditChange } from './audit';
+import { rowInWorkspace, rowsInWorkspace } from './workspace-rows';
 import type { LibraryActor } from './engines';
-import { notFound } from '@/lib/errors';
 
 export interface SoundingLevelDto {
   altitudeM?: number;
@@ -44,17 +44,11 @@ export const soundingOf = (r: Row): SoundingDto => ({
 
 /** Soundings of a workspace, newest first. */
 export async function listSoundings(scope: { workspaceId: number }, trx: Db = db()): Promise<SoundingDto[]> {
-  const rows = await trx('soundings')
-    .where({ workspace_id: scope.workspaceId })
-    .orderBy('created_at', 'desc')
-    .orderBy('id', 'desc');
-  return rows.map(soundingOf);
+  return (await rowsInWorkspace(trx, 'soundings', scope, 'created_at', 'desc')).map(soundingOf);
 }
 
 export async function getSounding(scope: { workspaceId: number }, id: number, trx: Db = db()): Promise<SoundingDto> {
-  const row = await trx('soundings').where({ workspace_id: scope.workspaceId, id }).first();
-  if (!row) throw notFound('No sounding with that id in this workspace.');
-  return soundingOf(row);
+  return soundingOf(await rowInWorkspace(trx, 'soundings', scope, id, 'No sounding with that id in this workspace.'));
 }
 
 /** What a stored sounding holds: its levels and the tropopause the service found in them. */
@@ -90,17 +84,11 @@ export async function insertSounding(
       ['id'],
     ),
   );
-  await createAuditEntry(
-    {
-      workspaceId: scope.workspaceId,
-      userId: by.userId,
-      actor: by.actor,
-      action: 'sounding.create',
-      target: `sounding:${id}`,
-      detail: { name: s.name, levels: s.levels.length },
-    },
-    trx,
-  );
+  await auditChange(trx, scope, by, {
+    action: 'sounding.create',
+    target: `sounding:${id}`,
+    detail: { name: s.name, levels: s.levels.length },
+  });
   return getSounding(scope, id, trx);
 }
 
@@ -108,16 +96,10 @@ export async function deleteSounding(scope: { workspaceId: number }, id: number,
   await writeTx(async (trx) => {
     const s = await getSounding(scope, id, trx);
     await trx('soundings').where({ workspace_id: scope.workspaceId, id }).delete();
-    await createAuditEntry(
-      {
-        workspaceId: scope.workspaceId,
-        userId: by.userId,
-        actor: by.actor,
-        action: 'sounding.delete',
-        target: `sounding:${id}`,
-        detail: { name: s.name },
-      },
-      trx,
-    );
+    await auditChange(trx, scope, by, {
+      action: 'sounding.delete',
+      target: `sounding:${id}`,
+      detail: { name: s.name },
+    });
   });
 }

@@ -11,6 +11,7 @@ import {
 import { todayIso } from '../lib/clock';
 import { seededRandom } from '../lib/random';
 import { rebuildFlightRollups } from '../db/flight-rollups';
+import { queryAircraftForScreening, type AircraftForScreening } from '../db/aircraft-for-screening';
 
 /**
  * Demo flights (invented schedules of the invented demo operators) over the three calendar months
@@ -35,213 +36,48 @@ interface RouteSeed {
   fuelKgPerKm: number;
 }
 
+/** A route seed as one table row: flight, origin, destination, aircraft, every, offset, levels, fuel per km. */
+type RouteRow = [string, string, string, string, number, number, number[], number];
+
+const routes = (rows: RouteRow[]): RouteSeed[] =>
+  rows.map(([flight, origin, destination, aircraft, every, offset, levels, fuelKgPerKm]) => ({
+    flight,
+    origin,
+    destination,
+    aircraft,
+    every,
+    offset,
+    levels,
+    fuelKgPerKm,
+  }));
+
 const SCHEDULES: Record<string, RouteSeed[]> = {
-  'skarn-polar': [
-    {
-      flight: 'SKP101',
-      origin: 'EFHK',
-      destination: 'RJAA',
-      aircraft: 'SK-LR1',
-      every: 3,
-      offset: 0,
-      levels: [350, 370, 390],
-      fuelKgPerKm: 6.3,
-    },
-    {
-      flight: 'SKP102',
-      origin: 'RJAA',
-      destination: 'EFHK',
-      aircraft: 'SK-LR1',
-      every: 3,
-      offset: 1,
-      levels: [340, 360, 380],
-      fuelKgPerKm: 6.4,
-    },
-    {
-      flight: 'SKP211',
-      origin: 'EGLL',
-      destination: 'KSEA',
-      aircraft: 'SK-LR2',
-      every: 4,
-      offset: 0,
-      levels: [350, 370, 390, 410],
-      fuelKgPerKm: 7.0,
-    },
-    {
-      flight: 'SKP212',
-      origin: 'KSEA',
-      destination: 'EGLL',
-      aircraft: 'SK-LR2',
-      every: 4,
-      offset: 2,
-      levels: [360, 380, 400],
-      fuelKgPerKm: 7.0,
-    },
-    {
-      flight: 'SKP305',
-      origin: 'ENGM',
-      destination: 'CYVR',
-      aircraft: 'SK-LR1',
-      every: 5,
-      offset: 1,
-      levels: [330, 350, 370],
-      fuelKgPerKm: 6.2,
-    },
-    {
-      flight: 'SKP306',
-      origin: 'CYVR',
-      destination: 'ENGM',
-      aircraft: 'SK-LR1',
-      every: 5,
-      offset: 3,
-      levels: [340, 360, 380],
-      fuelKgPerKm: 6.2,
-    },
-    {
-      flight: 'SKP417',
-      origin: 'BIKF',
-      destination: 'PANC',
-      aircraft: 'SK-LR2',
-      every: 6,
-      offset: 2,
-      levels: [370, 390],
-      fuelKgPerKm: 7.2,
-    },
-    {
-      flight: 'SKP418',
-      origin: 'PANC',
-      destination: 'BIKF',
-      aircraft: 'SK-LR2',
-      every: 6,
-      offset: 5,
-      levels: [380, 400],
-      fuelKgPerKm: 7.2,
-    },
-    {
-      flight: 'SKP521',
-      origin: 'ESSA',
-      destination: 'RJTT',
-      aircraft: 'SK-LR2',
-      every: 7,
-      offset: 4,
-      levels: [350, 370, 390, 410],
-      fuelKgPerKm: 7.1,
-    },
-  ],
-  'velloway-jets': [
-    {
-      flight: 'VWJ10',
-      origin: 'KTEB',
-      destination: 'EGGW',
-      aircraft: 'VJ-50',
-      every: 6,
-      offset: 0,
-      levels: [430, 470, 490],
-      fuelKgPerKm: 1.85,
-    },
-    {
-      flight: 'VWJ11',
-      origin: 'EGGW',
-      destination: 'KTEB',
-      aircraft: 'VJ-50',
-      every: 6,
-      offset: 3,
-      levels: [430, 450, 470],
-      fuelKgPerKm: 1.9,
-    },
-    {
-      flight: 'VWJ22',
-      origin: 'LFPB',
-      destination: 'KVNY',
-      aircraft: 'VJ-50',
-      every: 9,
-      offset: 2,
-      levels: [450, 490, 510],
-      fuelKgPerKm: 1.8,
-    },
-    {
-      flight: 'VWJ23',
-      origin: 'KVNY',
-      destination: 'LFPB',
-      aircraft: 'VJ-50',
-      every: 9,
-      offset: 6,
-      levels: [450, 470, 490],
-      fuelKgPerKm: 1.8,
-    },
-    {
-      flight: 'VWJ31',
-      origin: 'KPBI',
-      destination: 'KTEB',
-      aircraft: 'VJ-50',
-      every: 5,
-      offset: 1,
-      levels: [450],
-      fuelKgPerKm: 2.1,
-    },
-    {
-      flight: 'VWJ40',
-      origin: 'LSGG',
-      destination: 'OMDB',
-      aircraft: 'VJ-50',
-      every: 8,
-      offset: 4,
-      levels: [430, 470],
-      fuelKgPerKm: 1.95,
-    },
-    {
-      flight: 'VWJ41',
-      origin: 'OMDB',
-      destination: 'LSGG',
-      aircraft: 'VJ-50',
-      every: 8,
-      offset: 7,
-      levels: [450, 490],
-      fuelKgPerKm: 1.95,
-    },
-  ],
-  'kestrel-mach': [
-    {
-      flight: 'KMS1',
-      origin: 'EGLL',
-      destination: 'KJFK',
-      aircraft: 'KM-SST',
-      every: 7,
-      offset: 0,
-      levels: [550, 580, 600],
-      fuelKgPerKm: 9.2,
-    },
-    {
-      flight: 'KMS2',
-      origin: 'KJFK',
-      destination: 'EGLL',
-      aircraft: 'KM-SST',
-      every: 7,
-      offset: 2,
-      levels: [550, 570, 590],
-      fuelKgPerKm: 9.2,
-    },
-    {
-      flight: 'KMS5',
-      origin: 'KSFO',
-      destination: 'PHNL',
-      aircraft: 'KM-SST',
-      every: 10,
-      offset: 3,
-      levels: [560, 600],
-      fuelKgPerKm: 9.0,
-    },
-    {
-      flight: 'KMS6',
-      origin: 'PHNL',
-      destination: 'KSFO',
-      aircraft: 'KM-SST',
-      every: 10,
-      offset: 6,
-      levels: [560, 590],
-      fuelKgPerKm: 9.0,
-    },
-  ],
+  'skarn-polar': routes([
+    ['SKP101', 'EFHK', 'RJAA', 'SK-LR1', 3, 0, [350, 370, 390], 6.3],
+    ['SKP102', 'RJAA', 'EFHK', 'SK-LR1', 3, 1, [340, 360, 380], 6.4],
+    ['SKP211', 'EGLL', 'KSEA', 'SK-LR2', 4, 0, [350, 370, 390, 410], 7.0],
+    ['SKP212', 'KSEA', 'EGLL', 'SK-LR2', 4, 2, [360, 380, 400], 7.0],
+    ['SKP305', 'ENGM', 'CYVR', 'SK-LR1', 5, 1, [330, 350, 370], 6.2],
+    ['SKP306', 'CYVR', 'ENGM', 'SK-LR1', 5, 3, [340, 360, 380], 6.2],
+    ['SKP417', 'BIKF', 'PANC', 'SK-LR2', 6, 2, [370, 390], 7.2],
+    ['SKP418', 'PANC', 'BIKF', 'SK-LR2', 6, 5, [380, 400], 7.2],
+    ['SKP521', 'ESSA', 'RJTT', 'SK-LR2', 7, 4, [350, 370, 390, 410], 7.1],
+  ]),
+  'velloway-jets': routes([
+    ['VWJ10', 'KTEB', 'EGGW', 'VJ-50', 6, 0, [430, 470, 490], 1.85],
+    ['VWJ11', 'EGGW', 'KTEB', 'VJ-50', 6, 3, [430, 450, 470], 1.9],
+    ['VWJ22', 'LFPB', 'KVNY', 'VJ-50', 9, 2, [450, 490, 510], 1.8],
+    ['VWJ23', 'KVNY', 'LFPB', 'VJ-50', 9, 6, [450, 470, 490], 1.8],
+    ['VWJ31', 'KPBI', 'KTEB', 'VJ-50', 5, 1, [450], 2.1],
+    ['VWJ40', 'LSGG', 'OMDB', 'VJ-50', 8, 4, [430, 470], 1.95],
+    ['VWJ41', 'OMDB', 'LSGG', 'VJ-50', 8, 7, [450, 490], 1.95],
+  ]),
+  'kestrel-mach': routes([
+    ['KMS1', 'EGLL', 'KJFK', 'KM-SST', 7, 0, [550, 580, 600], 9.2],
+    ['KMS2', 'KJFK', 'EGLL', 'KM-SST', 7, 2, [550, 570, 590], 9.2],
+    ['KMS5', 'KSFO', 'PHNL', 'KM-SST', 10, 3, [560, 600], 9.0],
+    ['KMS6', 'PHNL', 'KSFO', 'KM-SST', 10, 6, [560, 590], 9.0],
+  ]),
 };
 
 const CSV_HEADER = 'date,flight,origin,destination,aircraft,cruise_fl,fuel_kg,steps,fleet,ei_nox_g_per_kg,mach';
@@ -269,76 +105,12 @@ function periodStart(today: string): string {
   return d.toISOString().slice(0, 10);
 }
 
-interface TypeRow {
-  id: number;
-  code: string;
-  typicalMach: number;
-  defaultFleetId: number | null;
-  fleetName: string | null;
-  emission: ScreeningInput['emission'] | null;
-}
-
-async function aircraftTypes(trx: Knex.Transaction, workspaceId: number): Promise<Map<string, TypeRow>> {
-  const rows = await trx('aircraft_types as a')
-    .leftJoin('engines as e', 'e.id', 'a.engine_id')
-    .leftJoin('fleets as f', 'f.id', 'a.default_fleet_id')
-    .where('a.workspace_id', workspaceId)
-    .select(
-      'a.*',
-      'f.name as fleet_name',
-      'e.id as eid',
-      'e.ff_idle_kg_s',
-      'e.ff_approach_kg_s',
-      'e.ff_climb_out_kg_s',
-      'e.ff_take_off_kg_s',
-      'e.ei_idle_g_kg',
-      'e.ei_approach_g_kg',
-      'e.ei_climb_out_g_kg',
-      'e.ei_take_off_g_kg',
-    );
-  const out = new Map<string, TypeRow>();
-  for (const r of rows) {
-    let emission: TypeRow['emission'] = null;
-    if (r.eid) {
-      emission = {
-        engine: {
-          fuelFlowKgS: [
-            Number(r.ff_idle_kg_s),
-            Number(r.ff_approach_kg_s),
-            Number(r.ff_climb_out_kg_s),
-            Number(r.ff_take_off_kg_s),
-          ],
-          eiNoxGPerKg: [
-            Number(r.ei_idle_g_kg),
-            Number(r.ei_approach_g_kg),
-            Number(r.ei_climb_out_g_kg),
-            Number(r.ei_take_off_g_kg),
-          ],
-        },
-        engineCount: Number(r.engine_count),
-        mach: Number(r.typical_mach),
-      };
-    } else if (r.direct_ei_g_kg !== null) {
-      emission = { eiNoxGPerKg: Number(r.direct_ei_g_kg) };
-    }
-    out.set(String(r.code), {
-      id: Number(r.id),
-      code: String(r.code),
-      typicalMach: Number(r.typical_mach),
-      defaultFleetId: r.default_fleet_id === null ? null : Number(r.default_fleet_id),
-      fleetName: r.fleet_name ?? null,
-      emission,
-    });
-  }
-  return out;
-}
-
 interface DemoFlight {
   date: string;
   flight: string;
   origin: string;
   destination: string;
-  type: TypeRow;
+  type: AircraftForScreening;
   cruiseFl: number;
   maxFl: number;
   fuelKg: number;
@@ -346,7 +118,7 @@ interface DemoFlight {
   input: ScreeningInput;
 }
 
-function buildFlights(slug: string, types: Map<string, TypeRow>, from: string, to: string): DemoFlight[] {
+function buildFlights(slug: string, types: Map<string, AircraftForScreening>, from: string, to: string): DemoFlight[] {
   const out: DemoFlight[] = [];
   const epoch = Date.parse('2026-01-01T00:00:00Z');
   for (let day = from; day <= to; day = addDays(day, 1)) {
@@ -425,7 +197,7 @@ export async function seed(knex: Knex): Promise<void> {
         .whereIn('m.role', ['analyst', 'owner'])
         .orderByRaw("case when m.role = 'analyst' then 0 else 1 end")
         .first('u.id');
-      const types = await aircraftTypes(trx, workspaceId);
+      const types = await queryAircraftForScreening(trx, workspaceId);
       const flights = buildFlights(slug, types, from, today);
       const months = [...new Set(flights.map((f) => f.date.slice(0, 7)))].sort();
       for (const month of months) {

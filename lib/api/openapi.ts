@@ -54,6 +54,42 @@ const ERRORS = {
   '429': 'Throttled',
 };
 
+type Responses = Record<string, string>;
+
+/** An operation: the permission it needs (none: public), what it does, what it answers besides ERRORS. */
+const op = (
+  permission: string | undefined,
+  summary: string,
+  responses: Responses,
+  more: Pick<OperationSpec, 'requestBody' | 'query'> = {},
+): OperationSpec => ({ summary, ...(permission ? { permission } : {}), ...more, responses });
+
+/** A read of workspace data (`flights:read`), with its query parameters if any. */
+const read = (summary: string, responses: Responses, query?: Record<string, string>): OperationSpec =>
+  op('flights:read', summary, responses, query ? { query } : {});
+
+/** A write with a JSON body validated by `body`. */
+const write = (permission: string, summary: string, body: z.ZodType, responses: Responses): OperationSpec =>
+  op(permission, summary, responses, { requestBody: body });
+
+/** A delete answering 204 (and any other answers given). */
+const remove = (permission: string, summary: string, responses: Responses = {}): OperationSpec =>
+  op(permission, summary, { '204': 'Deleted', ...responses });
+
+/** A CSV upload (multipart fields): 201 with `created`, or 413 / 422 with the problems table and warnings. */
+const csvUpload = (
+  permission: string,
+  summary: string,
+  multipart: Record<string, string>,
+  created = '{ added, updated, warnings }',
+): OperationSpec =>
+  op(
+    permission,
+    summary,
+    { '201': created, '413': 'File too large', '422': '{ error, problems: { line, column, message }[], warnings }' },
+    { requestBody: { multipart } },
+  );
+
 export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec>>> = {
   '/workspaces': {
     get: { summary: "The caller's workspaces, each { slug, name, role }", responses: { '200': 'List' } },
@@ -361,179 +397,132 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
     },
   },
   '/workspaces/{slug}/routes': {
-    get: {
-      summary: 'Saved routes, by name, each with its great-circle distanceKm',
-      permission: 'flights:read',
-      responses: { '200': '{ items }' },
-    },
-    post: {
-      summary: 'Save a route: name (unique in the workspace), waypoints ({ airport } or { lat, lon }), notes',
-      permission: 'library:write',
-      requestBody: routeSaveSchema,
-      responses: { '201': 'The route with distanceKm', '409': 'Name taken' },
-    },
+    get: read('Saved routes, by name, each with its great-circle distanceKm', { '200': '{ items }' }),
+    post: write(
+      'library:write',
+      'Save a route: name (unique in the workspace), waypoints ({ airport } or { lat, lon }), notes',
+      routeSaveSchema,
+      { '201': 'The route with distanceKm', '409': 'Name taken' },
+    ),
   },
   '/workspaces/{slug}/routes/{id}': {
-    get: { summary: 'One saved route', permission: 'flights:read', responses: { '200': 'The route with distanceKm' } },
-    patch: {
-      summary: 'Change any of name, waypoints, notes',
-      permission: 'library:write',
-      requestBody: routeSaveSchema.partial(),
-      responses: { '200': 'The route', '409': 'Name taken' },
-    },
-    delete: { summary: 'Delete a saved route', permission: 'library:write', responses: { '204': 'Deleted' } },
+    get: read('One saved route', { '200': 'The route with distanceKm' }),
+    patch: write('library:write', 'Change any of name, waypoints, notes', routeSaveSchema.partial(), {
+      '200': 'The route',
+      '409': 'Name taken',
+    }),
+    delete: remove('library:write', 'Delete a saved route'),
   },
   '/workspaces/{slug}/engines': {
-    get: {
-      summary: 'Engines (ICAO LTO certification fuel flows kg/s and EI NOx g/kg, idle, approach, climb-out, take-off)',
-      permission: 'flights:read',
-      responses: { '200': '{ items }' },
-    },
-    post: {
-      summary:
-        'Add an engine: four fuel flows rising idle to take-off, four EI NOx above 0 and at most 200 g/kg, source note',
-      permission: 'library:write',
-      requestBody: engineSaveSchema,
-      responses: { '201': 'The engine', '409': 'Name taken' },
-    },
+    get: read('Engines (ICAO LTO certification fuel flows kg/s and EI NOx g/kg, idle, approach, climb-out, take-off)', {
+      '200': '{ items }',
+    }),
+    post: write(
+      'library:write',
+      'Add an engine: four fuel flows rising idle to take-off, four EI NOx above 0 and at most 200 g/kg, source note',
+      engineSaveSchema,
+      { '201': 'The engine', '409': 'Name taken' },
+    ),
   },
   '/workspaces/{slug}/engines/{id}': {
-    get: { summary: 'One engine', permission: 'flights:read', responses: { '200': 'The engine' } },
-    patch: {
-      summary: 'Change any of name, fuelFlowKgS, eiNoxGPerKg, source',
-      permission: 'library:write',
-      requestBody: engineSaveSchema,
-      responses: { '200': 'The engine', '409': 'Name taken' },
-    },
-    delete: {
-      summary: 'Delete an engine',
-      permission: 'library:write',
-      responses: { '204': 'Deleted', '409': 'An aircraft type uses it' },
-    },
+    get: read('One engine', { '200': 'The engine' }),
+    patch: write('library:write', 'Change any of name, fuelFlowKgS, eiNoxGPerKg, source', engineSaveSchema, {
+      '200': 'The engine',
+      '409': 'Name taken',
+    }),
+    delete: remove('library:write', 'Delete an engine', { '409': 'An aircraft type uses it' }),
   },
   '/workspaces/{slug}/engines/import': {
-    get: { summary: 'The engines CSV template', permission: 'flights:read', responses: { '200': 'text/csv' } },
-    post: {
-      summary:
-        'Import engines from CSV (name, idle_ff_kg_s, approach_ff_kg_s, climb_out_ff_kg_s, take_off_ff_kg_s, idle_ei, approach_ei, climb_out_ei, take_off_ei, source), all or nothing',
-      permission: 'library:write',
-      requestBody: { multipart: { file: 'The CSV, UTF-8, header row first' } },
-      responses: {
-        '201': '{ items, warnings }',
-        '413': 'File too large',
-        '422': '{ error, problems: { line, column, message }[], warnings }',
-      },
-    },
+    get: read('The engines CSV template', { '200': 'text/csv' }),
+    post: csvUpload(
+      'library:write',
+      'Import engines from CSV (name, idle_ff_kg_s, approach_ff_kg_s, climb_out_ff_kg_s, take_off_ff_kg_s, idle_ei, approach_ei, climb_out_ei, take_off_ei, source), all or nothing',
+      { file: 'The CSV, UTF-8, header row first' },
+      '{ items, warnings }',
+    ),
   },
   '/workspaces/{slug}/aircraft-types': {
-    get: { summary: 'Aircraft types, by code', permission: 'flights:read', responses: { '200': '{ items }' } },
-    post: {
-      summary:
-        'Add an aircraft type: code (unique), engine or direct EI NOx, engine count, typical Mach and flight level, default fleet',
-      permission: 'library:write',
-      requestBody: aircraftTypeSaveSchema,
-      responses: { '201': 'The type', '409': 'Code taken' },
-    },
+    get: read('Aircraft types, by code', { '200': '{ items }' }),
+    post: write(
+      'library:write',
+      'Add an aircraft type: code (unique), engine or direct EI NOx, engine count, typical Mach and flight level, default fleet',
+      aircraftTypeSaveSchema,
+      { '201': 'The type', '409': 'Code taken' },
+    ),
   },
   '/workspaces/{slug}/aircraft-types/{id}': {
-    get: { summary: 'One aircraft type', permission: 'flights:read', responses: { '200': 'The type' } },
-    patch: {
-      summary: 'Change any field of a type',
-      permission: 'library:write',
-      requestBody: aircraftTypeSaveSchema,
-      responses: { '200': 'The type', '409': 'Code taken' },
-    },
-    delete: { summary: 'Delete an aircraft type', permission: 'library:write', responses: { '204': 'Deleted' } },
+    get: read('One aircraft type', { '200': 'The type' }),
+    patch: write('library:write', 'Change any field of a type', aircraftTypeSaveSchema, {
+      '200': 'The type',
+      '409': 'Code taken',
+    }),
+    delete: remove('library:write', 'Delete an aircraft type'),
   },
   '/workspaces/{slug}/soundings': {
-    get: {
-      summary: 'Soundings, newest first, each with its levels and WMO tropopause (or null)',
-      permission: 'flights:read',
-      responses: { '200': '{ items }' },
-    },
-    post: {
-      summary:
-        'Store a sounding { name, station?, observedAt?, levels }; its WMO (1957) tropopause is found and stored',
-      permission: 'library:write',
-      requestBody: soundingCreateSchema,
-      responses: { '201': 'The sounding' },
-    },
+    get: read('Soundings, newest first, each with its levels and WMO tropopause (or null)', { '200': '{ items }' }),
+    post: write(
+      'library:write',
+      'Store a sounding { name, station?, observedAt?, levels }; its WMO (1957) tropopause is found and stored',
+      soundingCreateSchema,
+      { '201': 'The sounding' },
+    ),
   },
   '/workspaces/{slug}/soundings/upload': {
-    post: {
-      summary:
-        'A sounding from a CSV of levels (altitude_m and/or pressure_hpa; temperature_k or temperature_c); form fields name, station, observedAt',
-      permission: 'library:write',
-      requestBody: {
-        multipart: {
-          file: 'The CSV of levels',
-          name: 'Sounding name',
-          station: 'Station (optional)',
-          observedAt: 'YYYY-MM-DDTHH:MMZ (optional)',
-        },
+    post: csvUpload(
+      'library:write',
+      'A sounding from a CSV of levels (altitude_m and/or pressure_hpa; temperature_k or temperature_c); form fields name, station, observedAt',
+      {
+        file: 'The CSV of levels',
+        name: 'Sounding name',
+        station: 'Station (optional)',
+        observedAt: 'YYYY-MM-DDTHH:MMZ (optional)',
       },
-      responses: {
-        '201': 'The sounding',
-        '413': 'File too large',
-        '422': '{ error, problems: { line, column, message }[], warnings }',
-      },
-    },
+      'The sounding',
+    ),
   },
   '/workspaces/{slug}/soundings/{id}': {
-    get: { summary: 'One sounding', permission: 'flights:read', responses: { '200': 'The sounding' } },
-    delete: { summary: 'Delete a sounding', permission: 'library:write', responses: { '204': 'Deleted' } },
+    get: read('One sounding', { '200': 'The sounding' }),
+    delete: remove('library:write', 'Delete a sounding'),
   },
   '/workspaces/{slug}/fixes': {
-    get: {
-      summary: "The workspace's named points (fix library) by name",
-      permission: 'flights:read',
-      query: { q: 'name prefix', limit: '1-500 (default 200)' },
-      responses: { '200': '{ items: { id, name, region, lat, lon, createdAt }[] }' },
-    },
-    post: {
-      summary: 'Add named points; one with the same name and region is moved',
-      permission: 'navdata:write',
-      requestBody: z.object({ fixes: z.array(fixRowSchema) }),
-      responses: { '201': '{ added, updated }' },
-    },
+    get: read(
+      "The workspace's named points (fix library) by name",
+      { '200': '{ items: { id, name, region, lat, lon, createdAt }[] }' },
+      { q: 'name prefix', limit: '1-500 (default 200)' },
+    ),
+    post: write(
+      'navdata:write',
+      'Add named points; one with the same name and region is moved',
+      z.object({ fixes: z.array(fixRowSchema) }),
+      { '201': '{ added, updated }' },
+    ),
   },
   '/workspaces/{slug}/fixes/upload': {
-    post: {
-      summary: 'Named points from a CSV: name, lat, lon (degrees), optional region to tell same-named points apart',
-      permission: 'navdata:write',
-      requestBody: { multipart: { file: 'The CSV of fixes' } },
-      responses: {
-        '201': '{ added, updated, warnings }',
-        '413': 'File too large',
-        '422': '{ error, problems: { line, column, message }[], warnings }',
-      },
-    },
+    post: csvUpload(
+      'navdata:write',
+      'Named points from a CSV: name, lat, lon (degrees), optional region to tell same-named points apart',
+      { file: 'The CSV of fixes' },
+    ),
   },
   '/workspaces/{slug}/fixes/{id}': {
-    delete: { summary: 'Delete a named point', permission: 'navdata:write', responses: { '204': 'Deleted' } },
+    delete: remove('navdata:write', 'Delete a named point'),
   },
   '/workspaces/{slug}/airways': {
-    get: {
-      summary: "The workspace's airways by designator, each with its fix names in order",
-      permission: 'flights:read',
-      query: { q: 'designator prefix', limit: '1-500 (default 200)' },
-      responses: { '200': '{ items: { id, name, fixes, createdAt }[] }' },
-    },
+    get: read(
+      "The workspace's airways by designator, each with its fix names in order",
+      { '200': '{ items: { id, name, fixes, createdAt }[] }' },
+      { q: 'designator prefix', limit: '1-500 (default 200)' },
+    ),
   },
   '/workspaces/{slug}/airways/upload': {
-    post: {
-      summary: 'Airways from a CSV: airway, sequence, fix (one row per point); an airway already present is replaced',
-      permission: 'navdata:write',
-      requestBody: { multipart: { file: 'The CSV of airway points' } },
-      responses: {
-        '201': '{ added, updated, warnings }',
-        '413': 'File too large',
-        '422': '{ error, problems: { line, column, message }[], warnings }',
-      },
-    },
+    post: csvUpload(
+      'navdata:write',
+      'Airways from a CSV: airway, sequence, fix (one row per point); an airway already present is replaced',
+      { file: 'The CSV of airway points' },
+    ),
   },
   '/workspaces/{slug}/airways/{id}': {
-    delete: { summary: 'Delete an airway', permission: 'navdata:write', responses: { '204': 'Deleted' } },
+    delete: remove('navdata:write', 'Delete an airway'),
   },
   '/atmosphere': {
     get: {
@@ -557,31 +546,20 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
     },
   },
   '/workspaces/{slug}/fleets': {
-    get: {
-      summary: 'Fleets, each with the aircraft types that default to it and its screened flights',
-      permission: 'flights:read',
-      responses: { '200': '{ items }' },
-    },
-    post: {
-      summary: 'Create a fleet',
-      permission: 'fleets:write',
-      requestBody: fleetCreateSchema,
-      responses: { '201': 'The fleet', '409': 'Name taken' },
-    },
+    get: read('Fleets, each with the aircraft types that default to it and its screened flights', {
+      '200': '{ items }',
+    }),
+    post: write('fleets:write', 'Create a fleet', fleetCreateSchema, { '201': 'The fleet', '409': 'Name taken' }),
   },
   '/workspaces/{slug}/fleets/{id}': {
-    get: { summary: 'One fleet', permission: 'flights:read', responses: { '200': 'The fleet' } },
-    patch: {
-      summary: 'Rename or describe a fleet, or set exactly which aircraft types default to it (aircraftTypeIds)',
-      permission: 'fleets:write',
-      requestBody: fleetUpdateSchema,
-      responses: { '200': 'The fleet', '409': 'Name taken' },
-    },
-    delete: {
-      summary: "Delete a fleet; its flights fall back to their aircraft type's default fleet",
-      permission: 'fleets:write',
-      responses: { '204': 'Deleted' },
-    },
+    get: read('One fleet', { '200': 'The fleet' }),
+    patch: write(
+      'fleets:write',
+      'Rename or describe a fleet, or set exactly which aircraft types default to it (aircraftTypeIds)',
+      fleetUpdateSchema,
+      { '200': 'The fleet', '409': 'Name taken' },
+    ),
+    delete: remove('fleets:write', "Delete a fleet; its flights fall back to their aircraft type's default fleet"),
   },
   '/workspaces/{slug}/fleets/compare': {
     get: {
@@ -607,133 +585,109 @@ export const API_OPERATIONS: Record<string, Partial<Record<Method, OperationSpec
     },
   },
   '/workspaces/{slug}/reports': {
-    get: {
-      summary: 'Stored fleet reports, newest first',
-      permission: 'flights:read',
-      query: { cursor: 'id from nextCursor', limit: '1-200' },
-      responses: { '200': '{ items, nextCursor }' },
-    },
-    post: {
-      summary: "Build and store a fleet report (PDF in the builder's units, CSV in SI units) for a period and fleets",
-      permission: 'reports:create',
-      requestBody: reportCreateSchema,
-      responses: { '201': 'The report with links to pdf and csv' },
-    },
+    get: read(
+      'Stored fleet reports, newest first',
+      { '200': '{ items, nextCursor }' },
+      { cursor: 'id from nextCursor', limit: '1-200' },
+    ),
+    post: write(
+      'reports:create',
+      "Build and store a fleet report (PDF in the builder's units, CSV in SI units) for a period and fleets",
+      reportCreateSchema,
+      { '201': 'The report with links to pdf and csv' },
+    ),
   },
   '/workspaces/{slug}/reports/{id}': {
-    get: {
-      summary:
-        'One report with its summary and e-mail send history (sendHistory: { id, recipients, sentBy, status: queued | sent | failed, messageId, error, attempts, queuedAt, sentAt, failedAt })',
-      permission: 'flights:read',
-      responses: {
+    get: read(
+      'One report with its summary and e-mail send history (sendHistory: { id, recipients, sentBy, status: queued | sent | failed, messageId, error, attempts, queuedAt, sentAt, failedAt })',
+      {
         '200':
           'The report; summary.percentiles (reports built since it was kept) as in fleets/compare: p5/p50/p95 of each fleet total and of all together',
       },
-    },
-    delete: {
-      summary: 'Delete the report, its stored files and its e-mail history (the audit log keeps a record)',
-      permission: 'reports:delete',
-      responses: { '204': 'Deleted' },
-    },
+    ),
+    delete: remove(
+      'reports:delete',
+      'Delete the report, its stored files and its e-mail history (the audit log keeps a record)',
+    ),
   },
   '/workspaces/{slug}/reports/{id}/pdf': {
-    get: {
-      summary: 'The report PDF as an attachment',
-      permission: 'flights:read',
-      responses: { '200': 'application/pdf' },
-    },
+    get: read('The report PDF as an attachment', { '200': 'application/pdf' }),
   },
   '/workspaces/{slug}/reports/{id}/csv': {
-    get: {
-      summary:
-        'The report CSV (RFC 4180, formula cells neutralised) as an attachment; nox_above_tropopause_p5_kg, nox_above_tropopause_p95_kg, ozone_loss_p5_kg, ozone_loss_p95_kg filled on the total rows',
-      permission: 'flights:read',
-      responses: { '200': 'text/csv' },
-    },
+    get: read(
+      'The report CSV (RFC 4180, formula cells neutralised) as an attachment; nox_above_tropopause_p5_kg, nox_above_tropopause_p95_kg, ozone_loss_p5_kg, ozone_loss_p95_kg filled on the total rows',
+      { '200': 'text/csv' },
+    ),
   },
   '/workspaces/{slug}/reports/{id}/send': {
-    post: {
-      summary:
-        "Queue an e-mail of the report PDF to up to 20 recipients; a background job sends it (retried with back-off) and the report's sendHistory shows it queued, then sent or failed",
-      permission: 'reports:send',
-      requestBody: reportSendSchema,
-      responses: {
+    post: write(
+      'reports:send',
+      "Queue an e-mail of the report PDF to up to 20 recipients; a background job sends it (retried with back-off) and the report's sendHistory shows it queued, then sent or failed",
+      reportSendSchema,
+      {
         '202': "{ id, recipients, status: 'queued' }",
         '429': 'Too many report e-mails from this workspace in the last hour; nothing is queued',
         '503': 'The e-mail could not be queued; nothing is sent',
       },
-    },
+    ),
   },
   '/workspaces/{slug}/periods': {
-    get: {
-      summary:
-        'Reporting periods: the calendar years, quarters and months of every year with flights (and this year), then the custom periods, each with its state (open, review, signed)',
-      permission: 'flights:read',
-      responses: { '200': '{ years: [{ year, periods }], custom }' },
-    },
-    post: {
-      summary: 'Define a custom period { name, from, to } (at most 36 months)',
-      permission: 'periods:define',
-      requestBody: periodCreateSchema,
-      responses: { '201': 'The period, its reference c{id}' },
-    },
+    get: read(
+      'Reporting periods: the calendar years, quarters and months of every year with flights (and this year), then the custom periods, each with its state (open, review, signed)',
+      { '200': '{ years: [{ year, periods }], custom }' },
+    ),
+    post: write('periods:define', 'Define a custom period { name, from, to } (at most 36 months)', periodCreateSchema, {
+      '201': 'The period, its reference c{id}',
+    }),
   },
   '/workspaces/{slug}/periods/{id}': {
-    get: {
-      summary:
-        'One period by reference (2026, 2026-Q4, 2026-11 or c12): state and sign-off, figures (frozen in review or signed, else running) against its targets, trend over the four periods before, frozen flights (first 200), changes after the freeze',
-      permission: 'flights:read',
-      responses: { '200': '{ period, figures, targets, trend, snapshot, changesAfterFreeze, frozenFlights }' },
-    },
+    get: read(
+      'One period by reference (2026, 2026-Q4, 2026-11 or c12): state and sign-off, figures (frozen in review or signed, else running) against its targets, trend over the four periods before, frozen flights (first 200), changes after the freeze',
+      { '200': '{ period, figures, targets, trend, snapshot, changesAfterFreeze, frozenFlights }' },
+    ),
   },
   '/workspaces/{slug}/periods/{id}/targets': {
-    put: {
-      summary:
-        'Replace the targets of an open period, per fleet or workspace-wide (fleetId null): noxAboveT (t), shareAbovePct (%), noxAbovePer1000KmKg (kg); analysts are e-mailed once at 90 % and once at 100 % of each',
-      permission: 'targets:write',
-      requestBody: periodTargetsSchema,
-      responses: { '200': '{ targets }', '409': 'The period is frozen' },
-    },
+    put: write(
+      'targets:write',
+      'Replace the targets of an open period, per fleet or workspace-wide (fleetId null): noxAboveT (t), shareAbovePct (%), noxAbovePer1000KmKg (kg); analysts are e-mailed once at 90 % and once at 100 % of each',
+      periodTargetsSchema,
+      { '200': '{ targets }', '409': 'The period is frozen' },
+    ),
   },
   '/workspaces/{slug}/periods/{id}/review': {
-    post: {
-      summary:
-        'Move an open period to review: freezes its flights, figures, engine versions and assumptions, its report PDF and its audit CSV with the CSV SHA-256',
-      permission: 'periods:review',
-      responses: { '200': 'The period', '409': 'Not open, or flights still screening' },
-    },
+    post: op(
+      'periods:review',
+      'Move an open period to review: freezes its flights, figures, engine versions and assumptions, its report PDF and its audit CSV with the CSV SHA-256',
+      { '200': 'The period', '409': 'Not open, or flights still screening' },
+    ),
   },
   '/workspaces/{slug}/periods/{id}/sign': {
-    post: {
-      summary:
-        "Sign a period in review: records the signer's name, the time and the SHA-256 of the frozen audit CSV; an optional hash must match it",
-      permission: 'periods:sign',
-      requestBody: periodSignSchema,
-      responses: { '200': 'The period', '409': 'Not in review, or the hash differs' },
-    },
+    post: write(
+      'periods:sign',
+      "Sign a period in review: records the signer's name, the time and the SHA-256 of the frozen audit CSV; an optional hash must match it",
+      periodSignSchema,
+      { '200': 'The period', '409': 'Not in review, or the hash differs' },
+    ),
   },
   '/workspaces/{slug}/periods/{id}/reopen': {
-    post: {
-      summary: 'Reopen a period in review or signed, with a reason (audit log); its frozen copy is dropped',
-      permission: 'periods:reopen',
-      requestBody: periodReopenSchema,
-      responses: { '200': 'The period', '409': 'Already open' },
-    },
+    post: write(
+      'periods:reopen',
+      'Reopen a period in review or signed, with a reason (audit log); its frozen copy is dropped',
+      periodReopenSchema,
+      { '200': 'The period', '409': 'Already open' },
+    ),
   },
   '/workspaces/{slug}/periods/{id}/report': {
-    get: {
-      summary: 'The frozen report PDF of a period in review or signed',
-      permission: 'flights:read',
-      responses: { '200': 'application/pdf', '409': 'The period is open' },
-    },
+    get: read('The frozen report PDF of a period in review or signed', {
+      '200': 'application/pdf',
+      '409': 'The period is open',
+    }),
   },
   '/workspaces/{slug}/periods/{id}/audit-pack': {
-    get: {
-      summary:
-        'The audit pack of a signed period (zip): report.pdf, flights.csv (the bytes the sign-off hash covers), method-notes.txt, changes-after-sign-off.csv, sign-off.json',
-      permission: 'flights:read',
-      responses: { '200': 'application/zip', '409': 'The period is not signed' },
-    },
+    get: read(
+      'The audit pack of a signed period (zip): report.pdf, flights.csv (the bytes the sign-off hash covers), method-notes.txt, changes-after-sign-off.csv, sign-off.json',
+      { '200': 'application/zip', '409': 'The period is not signed' },
+    ),
   },
   '/openapi.json': {
     get: { summary: 'This document', responses: { '200': 'OpenAPI 3.1' } },

@@ -17,18 +17,20 @@
  * requests per figure, default 5). BENCH_BUILD=1 rebuilds the app (into `.next-bench`, dist-dir.ts);
  * without a build there it builds first.
  */
-import { spawnSync, execFileSync } from 'node:child_process';
+import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { randomBytes } from 'node:crypto';
 import Database from 'better-sqlite3';
 import knexFactory, { type Knex } from 'knex';
-import { encode } from 'next-auth/jwt';
 import { appEnv, build, hasBuild, prepareDatabase, startApp, tempDir, type RunningApp } from '../soak/app-process';
 import { freePort } from '../support/free-port';
+import { sessionCookie } from '../support/session-cookie';
+import { pgBinDir, startScratchPostgres } from '../support/scratch-postgres';
 import { BENCH_DIST_DIR, benchNextEnv } from './dist-dir';
 import { rebuildFlightRollups } from '../../db/flight-rollups';
+import { PENDING_FLIGHT_COLUMNS } from '../../db/flight-columns';
 import { screenTotals, validateScreeningInput, type ScreeningInput } from '../../lib/screening/index';
 
 const arg = (name: string, fallback: string) => {
@@ -151,24 +153,9 @@ function screenTemplates(): { templates: Template[]; ms: number } {
   return { templates, ms: performance.now() - t0 };
 }
 
+/** The pending-flight columns imports write, then the screened figures the bench copies from templates. */
 const COLUMNS = [
-  'workspace_id',
-  'import_id',
-  'date',
-  'flight',
-  'origin',
-  'destination',
-  'aircraft_type_id',
-  'aircraft_code',
-  'fleet_id',
-  'cruise_fl',
-  'max_fl',
-  'input_json',
-  'status',
-  'fuel_kg',
-  'source_line',
-  'created_at',
-  'fuel_warning',
+  ...PENDING_FLIGHT_COLUMNS,
   'distance_km',
   'nox_total_kg',
   'nox_above_kg',
@@ -327,58 +314,19 @@ async function seedPostgres(k: Knex, ws: Workspace, templates: Template[]): Prom
 
 /* PostgreSQL: Debian's server in a temporary directory, as tests/pg/run.ts starts it. */
 
-function pgBinDir(): string | null {
-  const base = '/usr/lib/postgresql';
-  if (!fs.existsSync(base)) return null;
-  const versions = fs
-    .readdirSync(base)
-    .filter((v) => fs.existsSync(path.join(base, v, 'bin', 'initdb')))
-    .sort((a, b) => Number(b) - Number(a));
-  return versions.length ? path.join(base, versions[0], 'bin') : null;
-}
-
-function asPostgres(bin: string, args: string[]): void {
-  const asRoot = process.getuid?.() === 0;
-  const [cmd, argv] = asRoot ? ['runuser', ['-u', 'postgres', '--', bin, ...args]] : [bin, args];
-  const r = spawnSync(cmd, argv, { stdio: 'pipe', encoding: 'utf8', cwd: os.tmpdir() });
-  if (r.status !== 0) throw new Error(`${path.basename(bin)} failed:\n${r.stdout ?? ''}${r.stderr ?? ''}`);
-}
-
 async function startPostgres(bin: string): Promise<{ url: string; stop: () => void }> {
   const work = fs.mkdtempSync(path.join(os.tmpdir(), 'tropopass-bench-pg-'));
-  const data = path.join(work, 'data');
-  const sock = path.join(work, 'sock');
-  fs.mkdirSync(sock);
-  if (process.getuid?.() === 0) execFileSync('chown', ['-R', 'postgres:postgres', work]);
-  const port = await freePort();
-  asPostgres(path.join(bin, 'initdb'), [
-    '-D',
-    data,
-    '-A',
-    'trust',
-    '-U',
-    'postgres',
-    '-E',
-    'UTF8',
-    '--locale=C',
-    '--no-sync',
+  const pg = await startScratchPostgres(bin, work, [
+    'full_page_writes=off',
+    'shared_buffers=256MB',
+    'work_mem=32MB',
+    'max_wal_size=4GB',
   ]);
-  const opts = `-p ${port} -c listen_addresses=127.0.0.1 -k ${sock} -c fsync=off -c synchronous_commit=off -c full_page_writes=off -c shared_buffers=256MB -c work_mem=32MB -c max_wal_size=4GB`;
-  asPostgres(path.join(bin, 'pg_ctl'), ['-D', data, '-l', path.join(work, 'server.log'), '-o', opts, '-w', 'start']);
-  execFileSync('psql', [
-    `postgres://postgres@127.0.0.1:${port}/postgres`,
-    '-q',
-    '-c',
-    'CREATE DATABASE tropopass_bench',
-  ]);
+  execFileSync('psql', [pg.adminUrl, '-q', '-c', 'CREATE DATABASE tropopass_bench']);
   return {
-    url: `postgres://postgres@127.0.0.1:${port}/tropopass_bench`,
+    url: `postgres://postgres@127.0.0.1:${pg.port}/tropopass_bench`,
     stop: () => {
-      try {
-        asPostgres(path.join(bin, 'pg_ctl'), ['-D', data, '-m', 'fast', '-w', 'stop']);
-      } catch (err) {
-        console.error(`stopping PostgreSQL: ${(err as Error).message}`);
-      }
+      pg.stop('stopping PostgreSQL');
       fs.rmSync(work, { recursive: true, force: true });
     },
   };
@@ -439,29 +387,9 @@ function peakRssMb(pid: number): { self: number; all: number } {
   return { self: Math.max(...figures), all: figures.reduce((a, b) => a + b, 0) };
 }
 
-async function sessionCookie(k: Knex): Promise<string> {
-  const owner = (await k('users').where({ email: 'consultant@tropopass.test' }).first()) as {
-    id: number;
-    session_version: number;
-  };
-  const sid = randomBytes(24).toString('base64url');
-  await k('auth_sessions').insert({
-    id: sid,
-    user_id: owner.id,
-    created_at: new Date().toISOString(),
-    expires_at: new Date(Date.now() + 12 * 3_600_000).toISOString(),
-    revoked_at: null,
-  });
-  const token = await encode({
-    token: { uid: owner.id, sv: Number(owner.session_version), authAt: Date.now(), sid },
-    secret: SECRET,
-  });
-  return `next-auth.session-token=${token}`;
-}
-
 async function measureApp(app: RunningApp, k: Knex, ws: Workspace): Promise<Timing[]> {
   const base = app.baseUrl;
-  const cookie = await sessionCookie(k);
+  const cookie = await sessionCookie(k, 'consultant@tropopass.test', SECRET);
   const get = (p: string) => () => fetch(`${base}${p}`, { headers: { cookie } });
   const api = `/api/v1/workspaces/${SLUG}`;
   const year = `from=${YEAR.from}&to=${YEAR.to}`;

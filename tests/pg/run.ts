@@ -10,19 +10,9 @@ import { execFileSync, spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { freePort } from '../support/free-port';
+import { pgBinDir, startScratchPostgres } from '../support/scratch-postgres';
 
 const ROOT = process.cwd();
-
-function pgBinDir(): string | null {
-  const base = '/usr/lib/postgresql';
-  if (!fs.existsSync(base)) return null;
-  const versions = fs
-    .readdirSync(base)
-    .filter((v) => fs.existsSync(path.join(base, v, 'bin', 'initdb')))
-    .sort((a, b) => Number(b) - Number(a));
-  return versions.length ? path.join(base, versions[0], 'bin') : null;
-}
 
 function ensurePostgres(): string {
   const found = pgBinDir();
@@ -39,15 +29,6 @@ function ensurePostgres(): string {
   return bin;
 }
 
-/** Runs a PostgreSQL binary as the postgres user (initdb and the server refuse to run as root). */
-function asPostgres(bin: string, args: string[], opts: { stdio?: 'inherit' | 'pipe' } = {}): void {
-  const asRoot = process.getuid?.() === 0;
-  const [cmd, argv] = asRoot ? ['runuser', ['-u', 'postgres', '--', bin, ...args]] : [bin, args];
-  const r = spawnSync(cmd, argv, { stdio: opts.stdio ?? 'pipe', encoding: 'utf8', cwd: os.tmpdir() });
-  if (r.status !== 0)
-    throw new Error(`${path.basename(bin)} ${args.join(' ')} failed:\n${r.stdout ?? ''}${r.stderr ?? ''}`);
-}
-
 function knex(env: NodeJS.ProcessEnv, ...args: string[]): void {
   const r = spawnSync(
     process.execPath,
@@ -61,35 +42,8 @@ function knex(env: NodeJS.ProcessEnv, ...args: string[]): void {
 async function main(): Promise<number> {
   const bin = ensurePostgres();
   const work = fs.mkdtempSync(path.join(os.tmpdir(), 'tropopass-pg-'));
-  const data = path.join(work, 'data');
-  const sock = path.join(work, 'sock');
-  fs.mkdirSync(sock);
-  if (process.getuid?.() === 0) execFileSync('chown', ['-R', 'postgres:postgres', work]);
-  const port = await freePort();
-  asPostgres(path.join(bin, 'initdb'), [
-    '-D',
-    data,
-    '-A',
-    'trust',
-    '-U',
-    'postgres',
-    '-E',
-    'UTF8',
-    '--locale=C',
-    '--no-sync',
-  ]);
-  const serverOpts = `-p ${port} -c listen_addresses=127.0.0.1 -k ${sock} -c fsync=off -c synchronous_commit=off -c full_page_writes=off -c max_connections=300`;
-  asPostgres(path.join(bin, 'pg_ctl'), [
-    '-D',
-    data,
-    '-l',
-    path.join(work, 'server.log'),
-    '-o',
-    serverOpts,
-    '-w',
-    'start',
-  ]);
-  const admin = `postgres://postgres@127.0.0.1:${port}/postgres`;
+  const pg = await startScratchPostgres(bin, work, ['full_page_writes=off', 'max_connections=300']);
+  const { port, adminUrl: admin } = pg;
   console.log(`[pg] PostgreSQL (${path.basename(path.dirname(bin))}) on 127.0.0.1:${port}`);
   try {
     execFileSync('psql', [admin, '-q', '-c', 'CREATE DATABASE tropopass_migrations']);
@@ -110,11 +64,7 @@ async function main(): Promise<number> {
     );
     return r.status ?? 1;
   } finally {
-    try {
-      asPostgres(path.join(bin, 'pg_ctl'), ['-D', data, '-m', 'fast', '-w', 'stop']);
-    } catch (err) {
-      console.error(`[pg] stopping the server: ${(err as Error).message}`);
-    }
+    pg.stop('[pg] stopping the server');
     fs.rmSync(work, { recursive: true, force: true });
   }
 }

@@ -16,13 +16,11 @@
  *   fake's meter events are the ledger's batches, each once, and their units equal the units sent.
  * Builds first when there is no build (under the checkout's e2e lock). SCALE_ROWS sets the import size.
  */
-import { spawn, spawnSync, execFileSync, type ChildProcess } from 'node:child_process';
+import { spawn, execFileSync, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
-import { randomBytes } from 'node:crypto';
 import path from 'node:path';
 import knexFactory, { type Knex } from 'knex';
-import { encode } from 'next-auth/jwt';
 import Database from 'better-sqlite3';
 import {
   appEnv,
@@ -36,6 +34,8 @@ import {
   type RunningApp,
 } from '../soak/app-process';
 import { freePort } from '../support/free-port';
+import { sessionCookie } from '../support/session-cookie';
+import { pgBinDir, startScratchPostgres } from '../support/scratch-postgres';
 
 const ROWS = Number(process.env.SCALE_ROWS ?? 20_000);
 const SLUG = 'skarn-polar';
@@ -55,25 +55,6 @@ const check = (ok: boolean, what: string) => {
   if (!ok) problems.push(what);
 };
 const pause = (ms: number) => new Promise((r) => setTimeout(r, ms));
-
-function pgBinDir(): string {
-  const base = '/usr/lib/postgresql';
-  const versions = fs.existsSync(base)
-    ? fs
-        .readdirSync(base)
-        .filter((v) => fs.existsSync(path.join(base, v, 'bin', 'initdb')))
-        .sort((a, b) => Number(b) - Number(a))
-    : [];
-  if (!versions.length) throw new Error('PostgreSQL is not installed (npm run test:pg installs it when run as root)');
-  return path.join(base, versions[0], 'bin');
-}
-
-function asPostgres(bin: string, args: string[]): void {
-  const asRoot = process.getuid?.() === 0;
-  const [cmd, argv] = asRoot ? ['runuser', ['-u', 'postgres', '--', bin, ...args]] : [bin, args];
-  const r = spawnSync(cmd, argv, { stdio: 'pipe', encoding: 'utf8', cwd: os.tmpdir() });
-  if (r.status !== 0) throw new Error(`${path.basename(bin)} failed:\n${r.stdout ?? ''}${r.stderr ?? ''}`);
-}
 
 function schedule(rows: number): string {
   const lines = ['date,flight,origin,destination,aircraft,cruise_fl,fuel_kg'];
@@ -130,35 +111,10 @@ async function main(): Promise<number> {
   if (process.env.SCALE_BUILD === '1' || !hasBuild()) build();
   const started = Date.now();
   const bin = pgBinDir();
+  if (!bin) throw new Error('PostgreSQL is not installed (npm run test:pg installs it when run as root)');
   const work = tempDir('tropopass-scale-');
-  const data = path.join(work, 'data');
-  const sock = path.join(work, 'sock');
-  fs.mkdirSync(sock);
-  if (process.getuid?.() === 0) execFileSync('chown', ['-R', 'postgres:postgres', work]);
-  const pgPort = await freePort();
-  asPostgres(path.join(bin, 'initdb'), [
-    '-D',
-    data,
-    '-A',
-    'trust',
-    '-U',
-    'postgres',
-    '-E',
-    'UTF8',
-    '--locale=C',
-    '--no-sync',
-  ]);
-  asPostgres(path.join(bin, 'pg_ctl'), [
-    '-D',
-    data,
-    '-l',
-    path.join(work, 'server.log'),
-    '-o',
-    `-p ${pgPort} -c listen_addresses=127.0.0.1 -k ${sock} -c fsync=off -c synchronous_commit=off -c max_connections=200`,
-    '-w',
-    'start',
-  ]);
-  const admin = `postgres://postgres@127.0.0.1:${pgPort}/postgres`;
+  const pg = await startScratchPostgres(bin, work, ['max_connections=200']);
+  const { port: pgPort, adminUrl: admin } = pg;
   execFileSync('psql', [admin, '-q', '-c', 'CREATE DATABASE tropopass_scale']);
   const databaseUrl = `postgres://postgres@127.0.0.1:${pgPort}/tropopass_scale`;
   console.log(
@@ -209,26 +165,10 @@ async function main(): Promise<number> {
     workers.push(startWorker(workerEnv, 'worker-1'));
 
     // An API key created through A (by the workspace owner's session) works on B.
-    const owner = (await k('users').where({ email: 'consultant@tropopass.test' }).first()) as {
-      id: number;
-      session_version: number;
-    };
-    // A session token names a live row of auth_sessions (sign-out revokes it), as a real sign-in makes.
-    const sid = randomBytes(24).toString('base64url');
-    await k('auth_sessions').insert({
-      id: sid,
-      user_id: owner.id,
-      created_at: new Date().toISOString(),
-      expires_at: new Date(Date.now() + 12 * 3_600_000).toISOString(),
-      revoked_at: null,
-    });
-    const token = await encode({
-      token: { uid: owner.id, sv: Number(owner.session_version), authAt: Date.now(), sid },
-      secret: SECRET,
-    });
+    const cookie = await sessionCookie(k, 'consultant@tropopass.test', SECRET);
     const created = await fetch(`${a.baseUrl}/api/v1/workspaces/${SLUG}/api-keys`, {
       method: 'POST',
-      headers: { cookie: `next-auth.session-token=${token}`, origin: a.baseUrl, 'content-type': 'application/json' },
+      headers: { cookie, origin: a.baseUrl, 'content-type': 'application/json' },
       body: JSON.stringify({ name: 'scale', role: 'analyst' }),
     });
     const key = ((await created.json()) as { key?: string }).key ?? '';
@@ -350,7 +290,7 @@ async function main(): Promise<number> {
     while (!listed && Date.now() < dlDeadline) {
       await pause(1000);
       const r = await fetch(`${b.baseUrl}/api/v1/workspaces/${SLUG}/jobs/failed`, {
-        headers: { cookie: `next-auth.session-token=${token}` },
+        headers: { cookie },
       });
       listStatus = r.status;
       const items = r.ok ? ((await r.json()) as { items: FailedJob[] }).items : [];
@@ -440,11 +380,7 @@ async function main(): Promise<number> {
     await Promise.all([a?.stop(), b?.stop()]);
     await killGroup(fake, 'SIGTERM');
     await k.destroy();
-    try {
-      asPostgres(path.join(bin, 'pg_ctl'), ['-D', data, '-m', 'fast', '-w', 'stop']);
-    } catch (err) {
-      console.error(`[scale] stopping PostgreSQL: ${(err as Error).message}`);
-    }
+    pg.stop('[scale] stopping PostgreSQL');
     fs.rmSync(work, { recursive: true, force: true });
   }
   console.log(

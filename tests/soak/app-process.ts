@@ -111,6 +111,26 @@ export interface RunningApp {
   stop: (signal?: NodeJS.Signals) => Promise<void>;
 }
 
+/** Signals a child's whole process group and waits for the child to exit; SIGKILL after 5 s. */
+export async function stopGroup(child: ChildProcess, signal: NodeJS.Signals): Promise<void> {
+  if (child.exitCode !== null || child.signalCode !== null) return;
+  const exited = new Promise<void>((r) => child.once('exit', () => r()));
+  try {
+    if (child.pid) process.kill(-child.pid, signal);
+  } catch {
+    return;
+  }
+  const t = setTimeout(() => {
+    try {
+      if (child.pid) process.kill(-child.pid, 'SIGKILL');
+    } catch {
+      /* already gone */
+    }
+  }, 5000);
+  await exited;
+  clearTimeout(t);
+}
+
 export async function startApp(
   env: NodeJS.ProcessEnv,
   port: number,
@@ -133,24 +153,7 @@ export async function startApp(
     child,
     baseUrl,
     output: () => out,
-    stop: async (signal = 'SIGTERM') => {
-      if (child.exitCode !== null || child.signalCode !== null) return;
-      const exited = new Promise<void>((r) => child.once('exit', () => r()));
-      try {
-        if (child.pid) process.kill(-child.pid, signal);
-      } catch {
-        return;
-      }
-      const t = setTimeout(() => {
-        try {
-          if (child.pid) process.kill(-child.pid, 'SIGKILL');
-        } catch {
-          /* already gone */
-        }
-      }, 5000);
-      await exited;
-      clearTimeout(t);
-    },
+    stop: async (signal = 'SIGTERM') => stopGroup(child, signal),
   };
   const until = Date.now() + 60_000;
   while (Date.now() < until) {

@@ -10,11 +10,20 @@
  *   count of the ledger rows in it, and every batch marked sent (with its rows) is there exactly once.
  * Requests cut off by a kill are retried after the restart with the same Idempotency-Key.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
+import { spawn } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import Database from 'better-sqlite3';
-import { appEnv, insertApiKey, prepareDatabase, ROOT, startApp, tempDir, type RunningApp } from './app-process';
+import {
+  appEnv,
+  insertApiKey,
+  prepareDatabase,
+  ROOT,
+  startApp,
+  stopGroup,
+  tempDir,
+  type RunningApp,
+} from './app-process';
 import { freePort } from '../support/free-port';
 
 export interface SoakOptions {
@@ -265,25 +274,6 @@ async function startServer(opts: SoakOptions, env: NodeJS.ProcessEnv, port: numb
     }
   }
   throw new Error('plain server did not start');
-}
-
-async function stopGroup(child: ChildProcess, signal: NodeJS.Signals): Promise<void> {
-  if (child.exitCode !== null || child.signalCode !== null) return;
-  const exited = new Promise<void>((r) => child.once('exit', () => r()));
-  try {
-    if (child.pid) process.kill(-child.pid, signal);
-  } catch {
-    return;
-  }
-  const t = setTimeout(() => {
-    try {
-      if (child.pid) process.kill(-child.pid, 'SIGKILL');
-    } catch {
-      /* gone */
-    }
-  }, 5000);
-  await exited;
-  clearTimeout(t);
 }
 
 export async function runCrashSoak(opts: SoakOptions): Promise<SoakReport> {

@@ -24,7 +24,7 @@ describe('benchmark build directory', () => {
     }
   });
 
-  it.each(['import.ts', 'load.ts'])(
+  it.each(['app-bench.ts', 'load.ts'])(
     'tests/bench/%s builds and starts the app with the benchmark environment',
     (file) => {
       const source = fs.readFileSync(path.join('tests/bench', file), 'utf8');
@@ -37,4 +37,11 @@ describe('benchmark build directory', () => {
       });
     },
   );
+
+  it.each(['import.ts', 'track-app.ts'])('tests/bench/%s builds only through app-bench.ts (lockAndBuild)', (file) => {
+    const source = fs.readFileSync(path.join('tests/bench', file), 'utf8');
+    expect(source).toMatch(/lockAndBuild\(/);
+    expect(source).toMatch(/from '\.\/app-bench'/);
+    expect(source).not.toMatch(/'build'\]|\bbuild\(/);
+  });
 });
