@@ -1,7 +1,7 @@
 import type { ReactNode } from 'react';
 import Link from 'next/link';
 import { requireMember } from '@/lib/auth/guards';
-import { can } from '@/lib/auth/policy';
+import { can, type Permission } from '@/lib/auth/policy';
 import { Card, EmptyState, PageHeader } from '@/components/ui/card';
 import { TableHead, type HeadColumn } from '@/components/ui/table-head';
 
@@ -10,10 +10,13 @@ const ASIDE_COLUMNS = {
   wide: 'grid items-start gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(20rem,1fr)]',
 } as const;
 
-/** The member reading a library page (flights:read, else not found) and whether they may write to the library. */
-export async function libraryMember(params: Promise<{ slug: string }>) {
+/**
+ * The member reading a library page (with `permission`, else not found) and whether they may write to
+ * the library. The page names its permission, so the landing table's check can read it there.
+ */
+export async function libraryMember(params: Promise<{ slug: string }>, permission: Permission) {
   const { slug } = await params;
-  const member = await requireMember(slug, 'flights:read');
+  const member = await requireMember(slug, permission);
   return { slug, ...member, canWrite: can(member.role, 'library:write') };
 }
 

@@ -102,7 +102,7 @@ describe('role-aware landing after sign-in', () => {
     expect(pages.length).toBeGreaterThan(10);
     for (const f of pages) {
       const src = fs.readFileSync(path.join(root, f), 'utf8');
-      const asked = /requireMember\(slug, '([a-z:]+)'\)/.exec(src)?.[1];
+      const asked = /(?:requireMember\(slug|libraryMember\(params), '([a-z:]+)'\)/.exec(src)?.[1];
       const dir = path.dirname(f) === '.' ? '' : path.dirname(f).replace(/\[[^\]]+\]/g, 'x');
       expect(workspacePageOf(`/w/s/${dir}`)?.permission, f).toBe(asked);
     }

@@ -11,7 +11,7 @@ import { saveRouteAction } from './actions';
 export const metadata = { title: 'Saved routes' };
 
 export default async function RoutesPage({ params }: { params: Promise<{ slug: string }> }) {
-  const { slug, workspace, user, role, canWrite } = await libraryMember(params);
+  const { slug, workspace, user, role, canWrite } = await libraryMember(params, 'flights:read');
   const routes = await listRoutes({ workspaceId: workspace.id });
   const canScreen = can(role, 'screenings:create');
   return (

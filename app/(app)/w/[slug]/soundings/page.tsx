@@ -10,7 +10,7 @@ import { SoundingUploadForm } from '@/components/library/sounding-upload-form';
 export const metadata = { title: 'Soundings' };
 
 export default async function SoundingsPage({ params }: { params: Promise<{ slug: string }> }) {
-  const { slug, workspace, user, canWrite } = await libraryMember(params);
+  const { slug, workspace, user, canWrite } = await libraryMember(params, 'flights:read');
   const soundings = await listSoundings({ workspaceId: workspace.id });
   const templateHref = csvDataHref(soundingCsvTemplate());
   return (
