@@ -108,8 +108,18 @@ export async function insertTrialBilling(
     .ignore();
 }
 
-export async function getBilling(scope: { workspaceId: number }, trx: Trx = db()): Promise<BillingDto | null> {
-  const r = await trx('workspace_billing').where({ workspace_id: scope.workspaceId }).first();
+/**
+ * A workspace's billing row. `forUpdate` (inside a transaction) locks it on PostgreSQL until the
+ * transaction ends, so a read-check-write of the subscription period cannot interleave with another
+ * (SQLite's write transactions are serial already).
+ */
+export async function getBilling(
+  scope: { workspaceId: number },
+  trx: Trx = db(),
+  opts: { forUpdate?: boolean } = {},
+): Promise<BillingDto | null> {
+  const q = trx('workspace_billing').where({ workspace_id: scope.workspaceId }).first();
+  const r = await (opts.forUpdate ? q.forUpdate() : q);
   return r ? toDto(r) : null;
 }
 
@@ -177,8 +187,14 @@ export async function updateBilling(
   await trx('workspace_billing').where({ workspace_id: scope.workspaceId }).update(values);
 }
 
-export async function findBillingByCustomer(customerId: string, trx: Trx = db()): Promise<BillingDto | null> {
-  const r = await trx('workspace_billing').where({ customer_id: customerId }).first();
+/** The billing row of a payment-service customer; `forUpdate` as for getBilling. */
+export async function findBillingByCustomer(
+  customerId: string,
+  trx: Trx = db(),
+  opts: { forUpdate?: boolean } = {},
+): Promise<BillingDto | null> {
+  const q = trx('workspace_billing').where({ customer_id: customerId }).first();
+  const r = await (opts.forUpdate ? q.forUpdate() : q);
   return r ? toDto(r) : null;
 }
 

@@ -51,12 +51,23 @@ async function subscribeSeeded(billing: BillingDto, workspace: { slug: string },
     { idempotencyKey: `tp-seeded-subscription-ws-${billing.workspaceId}` },
   );
   await writeTx(async (trx) => {
-    const current = await getBilling({ workspaceId: billing.workspaceId }, trx);
+    const current = await getBilling({ workspaceId: billing.workspaceId }, trx, { forUpdate: true });
     if (current?.subscriptionId && current.subscriptionId !== sub.id) return;
+    const patch = patchFromSubscription(sub);
+    // A webhook of this subscription may have recorded a later period already: never move it back.
+    if (
+      current?.subscriptionId === sub.id &&
+      current.currentPeriodStart &&
+      patch.currentPeriodStart &&
+      patch.currentPeriodStart < current.currentPeriodStart
+    ) {
+      delete patch.currentPeriodStart;
+      delete patch.currentPeriodEnd;
+    }
     await updateBilling(
       { workspaceId: billing.workspaceId },
       {
-        ...patchFromSubscription(sub),
+        ...patch,
         meteredSince: current?.meteredSince ?? isoFromSeconds(startedAt),
         paymentMethodLabel: TEST_CARDS.succeeds.label,
       },

@@ -58,7 +58,9 @@ export async function handleStripeEvent(event: Stripe.Event): Promise<WebhookOut
       case 'customer.subscription.deleted': {
         const sub = event.data.object;
         const customerId = customerIdOf(sub.customer);
-        const billing = customerId ? await findBillingByCustomer(customerId, trx) : null;
+        // Locked until this event is recorded: provisioning writing the same subscription meanwhile
+        // (PostgreSQL) would otherwise be overwritten with what this event read before it.
+        const billing = customerId ? await findBillingByCustomer(customerId, trx, { forUpdate: true }) : null;
         if (!billing) return { result: 'ignored', reason: 'unknown customer' };
         const creation = event.type === 'customer.subscription.created';
         if (!isCurrent(billing, sub.id, creation)) return { result: 'ignored', reason: 'not the current subscription' };
