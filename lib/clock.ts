@@ -15,3 +15,14 @@ export function monthBounds(day = todayIso()): { from: string; to: string } {
   const mm = String(m).padStart(2, '0');
   return { from: `${y}-${mm}-01`, to: `${y}-${mm}-${String(last).padStart(2, '0')}` };
 }
+
+/**
+ * A seeded time stamp on `day` at `time` (HH:MM, UTC), but never later than the real now: a demo row
+ * dated today must not be stamped hours ahead (the usage ledger and the payment service count by
+ * when a unit happened, and a stamp in the future falls outside the period's window until then).
+ */
+export function seededStamp(day: string, time: string, now: Date = new Date()): string {
+  const stamp = `${day}T${time}:00.000Z`;
+  const real = now.toISOString();
+  return stamp < real ? stamp : real;
+}

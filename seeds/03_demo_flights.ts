@@ -8,7 +8,7 @@ import {
   validateScreeningInput,
   type ScreeningInput,
 } from '../lib/screening/index';
-import { todayIso } from '../lib/clock';
+import { seededStamp, todayIso } from '../lib/clock';
 import { seededRandom } from '../lib/random';
 import { rebuildFlightRollups } from '../db/flight-rollups';
 import { queryAircraftForScreening, type AircraftForScreening } from '../db/aircraft-for-screening';
@@ -205,7 +205,7 @@ export async function seed(knex: Knex): Promise<void> {
         const csv = csvOf(batch);
         const fileHash = createHash('sha256').update(csv).digest('hex');
         const last = batch[batch.length - 1].date;
-        const stamp = `${last}T18:00:00.000Z`;
+        const stamp = seededStamp(last, '18:00');
         let imp = await trx('imports').where({ workspace_id: workspaceId, file_hash: fileHash }).first('id');
         if (!imp) {
           const [id] = await trx('imports')
@@ -256,7 +256,7 @@ export async function seed(knex: Knex): Promise<void> {
         for (const p of pending) {
           const input = JSON.parse(p.input_json) as ScreeningInput;
           const r = screenValidated(input);
-          const screenedAt = `${p.date}T12:00:00.000Z`;
+          const screenedAt = seededStamp(p.date, '12:00');
           await trx('flights').where({ id: p.id }).update({
             status: 'screened',
             distance_km: r.distanceKm,

@@ -3,6 +3,7 @@ import type { Knex } from 'knex';
 import { screenValidated, validateScreeningInput, type ScreeningInput } from '../lib/screening/index';
 import { planRoute, pointOnLeg } from '../lib/screening/great-circle';
 import { findAirport } from '../lib/screening/airports';
+import { seededStamp } from '../lib/clock';
 
 /**
  * A few invented flown tracks for the polar demo workspace's planned flights, so a flight page shows
@@ -90,7 +91,7 @@ export async function seed(knex: Knex): Promise<void> {
     const fileHash = createHash('sha256')
       .update(JSON.stringify(tracks.map((t) => [t.p.flight, t.p.date, t.input])))
       .digest('hex');
-    const stamp = `${planned[0].date}T20:00:00.000Z`;
+    const stamp = seededStamp(planned[0].date, '20:00');
     let imp = await trx('imports').where({ workspace_id: workspaceId, file_hash: fileHash }).first('id');
     if (!imp) {
       const [id] = await trx('imports')
@@ -115,7 +116,7 @@ export async function seed(knex: Knex): Promise<void> {
     for (const [i, { p, input }] of tracks.entries()) {
       const r = screenValidated(input);
       const levels = r.track?.levels ?? [p.cruise_fl];
-      const screenedAt = `${p.date}T20:00:00.000Z`;
+      const screenedAt = seededStamp(p.date, '20:00');
       await trx('flights')
         .insert({
           workspace_id: workspaceId,

@@ -72,7 +72,7 @@ export function RouteForm({
         id={`${idp}-notes`}
         label="Notes"
         error={errors.notes?.message}
-        hint={`Optional, up to ${ROUTE_NOTES_MAX} characters: when this track is flown, why it matters.`}
+        hint={`Optional, up to ${ROUTE_NOTES_MAX} characters: when this route is flown, why it matters.`}
       >
         <TextArea id={`${idp}-notes`} rows={3} invalid={!!errors.notes} {...form.register('notes')} />
       </Field>

@@ -17,7 +17,7 @@ export default async function RoutesPage({ params }: { params: Promise<{ slug: s
   return (
     <LibraryPage
       title="Saved routes"
-      lead="Named tracks you screen again and again, as airport codes or positions in order. Distances are great-circle lengths through the waypoints."
+      lead="Named routes you screen again and again, as airport codes or positions in order. Distances are great-circle lengths through the waypoints."
       asideWidth="narrow"
       canWrite={canWrite}
       forms={[
@@ -69,6 +69,6 @@ export default async function RoutesPage({ params }: { params: Promise<{ slug: s
 const EMPTY = {
   title: 'No saved routes yet',
   writers:
-    'Add the tracks you fly often with the form: list the airports (EGLL, KSEA) or positions one per line, then screen them from here in one click.',
+    'Add the routes you fly often with the form: list the airports (EGLL, KSEA) or positions one per line, then screen them from here in one click.',
   readers: 'A planner in this workspace can add routes here; they will show up for you to read.',
 };
