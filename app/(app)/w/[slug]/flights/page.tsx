@@ -2,7 +2,13 @@ import Form from 'next/form';
 import Link from 'next/link';
 import { PagerLinks } from '@/components/ui/pager-links';
 import { requireMember } from '@/lib/auth/guards';
-import { checkDateOrder, firstParam, type ListPageProps, type SearchParams } from '@/lib/search-params';
+import {
+  checkDateOrder,
+  firstParam,
+  type ListPageProps,
+  type SearchParams,
+  cursorPageLinks,
+} from '@/lib/search-params';
 import { can } from '@/lib/auth/policy';
 import { listFlightFilterOptions, listFlights, summariseFlights, type FlightFilters } from '@/db/flights';
 import { flightListQuerySchema } from '@/lib/validation/imports';
@@ -60,26 +66,15 @@ export default async function FlightsPage({ params, searchParams }: ListPageProp
   const filtered = Object.keys(filters).length > 0;
   const units = user.units;
 
-  const link = (patch: Record<string, string | undefined>) => {
-    const q = new URLSearchParams();
-    for (const k of FILTER_KEYS) if (text[k]) q.set(k, text[k]);
-    for (const [k, v] of Object.entries(patch)) {
-      if (v) q.set(k, v);
-      else q.delete(k);
-    }
-    const qs = q.toString();
-    return `/w/${slug}/flights${qs ? `?${qs}` : ''}`;
-  };
-  const olderHref = page.nextCursor
-    ? link({ cursor: page.nextCursor, trail: [...trail, cursor ?? '0'].join(',') })
-    : null;
-  const previous = trail.length ? trail[trail.length - 1] : null;
-  const newerHref = cursor
-    ? link({
-        cursor: previous && previous !== '0' ? previous : undefined,
-        trail: trail.slice(0, -1).join(',') || undefined,
-      })
-    : null;
+  const {
+    href: link,
+    olderHref,
+    newerHref,
+  } = cursorPageLinks(`/w/${slug}/flights`, Object.fromEntries(FILTER_KEYS.map((k) => [k, text[k]])), {
+    cursor,
+    nextCursor: page.nextCursor,
+    trail,
+  });
   const share = totals.noxTotalKg > 0 ? totals.noxAboveTropopauseKg / totals.noxTotalKg : 0;
   const importName =
     filters.import !== undefined ? options.imports.find((i) => i.id === filters.import)?.fileName : undefined;

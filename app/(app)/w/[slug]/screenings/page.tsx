@@ -2,7 +2,13 @@ import { Suspense } from 'react';
 import Form from 'next/form';
 import { PagerLinks } from '@/components/ui/pager-links';
 import { requireMember } from '@/lib/auth/guards';
-import { checkDateOrder, firstParam, type ListPageProps, type SearchParams } from '@/lib/search-params';
+import {
+  checkDateOrder,
+  firstParam,
+  type ListPageProps,
+  type SearchParams,
+  cursorPageLinks,
+} from '@/lib/search-params';
 import { can } from '@/lib/auth/policy';
 import { listScreenings, type ScreeningFilters } from '@/db/screenings';
 import { listAircraftTypes } from '@/db/engines';
@@ -202,28 +208,11 @@ async function HistoryResults({
   const imported = page.items.length === 0 ? await countImportedFlightsScreened({ workspaceId }) : 0;
   const filtered = Object.keys(filters).length > 0;
 
-  const link = (patch: Record<string, string | undefined>) => {
-    const q = new URLSearchParams();
-    for (const [k, v] of Object.entries(text)) if (v) q.set(k, v);
-    const sort = firstParam(search.sort);
-    if (sort) q.set('sort', sort);
-    for (const [k, v] of Object.entries(patch)) {
-      if (v) q.set(k, v);
-      else q.delete(k);
-    }
-    const qs = q.toString();
-    return `/w/${slug}/screenings${qs ? `?${qs}` : ''}`;
-  };
-  const olderHref = page.nextCursor
-    ? link({ cursor: page.nextCursor, trail: [...trail, cursor ? String(cursor) : '0'].join(',') })
-    : null;
-  const previous = trail.length ? trail[trail.length - 1] : null;
-  const newerHref = cursor
-    ? link({
-        cursor: previous && previous !== '0' ? previous : undefined,
-        trail: trail.slice(0, -1).join(',') || undefined,
-      })
-    : null;
+  const { olderHref, newerHref } = cursorPageLinks(
+    `/w/${slug}/screenings`,
+    { ...text, sort: firstParam(search.sort) },
+    { cursor: cursor ? String(cursor) : undefined, nextCursor: page.nextCursor, trail },
+  );
 
   const rows: HistoryRow[] = page.items.map((s) => ({
     id: s.id,
