@@ -69,7 +69,7 @@ export async function screenInThreads(pending: PendingFlight[]): Promise<Screene
 
 /**
  * On SQLite, screens a chunk of pending flights and saves it from the pool's threads, each thread
- * its own slice in its own transaction (thread-save.ts), so neither the screening nor the write
+ * its own slice in its own transaction (thread-tasks.ts screenAndSave), so neither the screening nor the write
  * blocks the event loop; returns how many flights were saved. Null when screening threads are off
  * or the database is PostgreSQL (its driver does not block the event loop: the caller saves).
  */
