@@ -1,7 +1,7 @@
 import 'server-only';
 import { nowIso, writeTx } from '@/db/client';
 import { createAuditEntry } from '@/db/audit';
-import { aggregateFlights, listFleets, listFuelWarnings } from '@/db/fleets';
+import { aggregateFlights, listFleets } from '@/db/fleets';
 import {
   countUnscreenedFlights,
   createCustomPeriodRow,
@@ -31,8 +31,7 @@ import type { UnitSystem } from '@/db/users';
 import { todayIso } from '@/lib/clock';
 import { appUrl } from '@/lib/env';
 import { conflict, invalidFields, notFound } from '@/lib/errors';
-import { compareFleets, resolvePeriod, toFlightFilters } from '@/lib/fleets/compare';
-import { reportMethodText } from '@/lib/reports/build';
+import { reportFigures, reportMethodText } from '@/lib/reports/build';
 import type { ReportSummary } from '@/lib/reports/model';
 import { renderReportPdf } from '@/lib/reports/pdf';
 import { TARGET_METRIC_LABELS, type PeriodCreate, type TargetMetric } from '@/lib/validation/periods';
@@ -399,13 +398,7 @@ async function buildPeriodReport(
   info: PeriodInfo,
   ctx: { workspaceName: string; actorName: string; units: UnitSystem; targets: TargetView[]; frozenAt: string },
 ): Promise<{ summary: ReportSummary; pdf: Uint8Array; method: { method: string[]; sources: string[] } }> {
-  const period = resolvePeriod({ from: info.from, to: info.to });
-  const query = { from: period.from, to: period.to, groupBy: 'month' as const };
-  const [monthly, perFleet, fuelWarnings] = await Promise.all([
-    compareFleets(scope, query),
-    compareFleets(scope, { ...query, groupBy: 'fleet' }),
-    listFuelWarnings(scope, toFlightFilters(query, period)),
-  ]);
+  const { period, perFleet, figures } = await reportFigures(scope, { from: info.from, to: info.to });
   const summary: ReportSummary = {
     version: 1,
     title: `${info.name} - reporting period`,
@@ -415,17 +408,7 @@ async function buildPeriodReport(
     generatedAt: ctx.frozenAt,
     generatedBy: ctx.actorName,
     units: ctx.units,
-    engineVersions: perFleet.engineVersions.map((v) => v.engineVersion),
-    engineVersionFlights: perFleet.engineVersions,
-    totals: perFleet.totals,
-    perFleet: perFleet.rows,
-    perFleetMonth: monthly.rows,
-    months: monthly.months,
-    series: monthly.series,
-    context: perFleet.context,
-    notes: perFleet.notes,
-    cautions: perFleet.cautions,
-    fuelWarnings,
+    ...figures,
   };
   const base = reportMethodText();
   const method = {

@@ -3,6 +3,7 @@ import { listFleets, listFuelWarnings } from '@/db/fleets';
 import { createReport, type ReportRecord } from '@/db/reports';
 import type { UnitSystem } from '@/db/users';
 import { compareFleets, resolvePeriod, toFlightFilters } from '@/lib/fleets/compare';
+import type { FleetComparison } from '@/lib/fleets/types';
 import { screenFlight, type OzoneAssumptionsUsed } from '@/lib/screening';
 import { invalidFields } from '@/lib/errors';
 import type { ReportCreate } from '@/lib/validation/reports';
@@ -67,6 +68,60 @@ export function reportMethodText(): ReportPdfText {
  * Builds and stores a fleet report: the comparison for the fleets and period, its PDF (drawn in the
  * builder's unit preference) and CSV (SI units), in one stored row.
  */
+/** The parts of a report summary drawn from the fleet comparisons and the unusual-fuel list. */
+type ReportFigures = Pick<
+  ReportSummary,
+  | 'engineVersions'
+  | 'engineVersionFlights'
+  | 'totals'
+  | 'perFleet'
+  | 'perFleetMonth'
+  | 'months'
+  | 'series'
+  | 'context'
+  | 'notes'
+  | 'cautions'
+  | 'fuelWarnings'
+>;
+
+/**
+ * The figures of a report over `from`-`to` (the given fleets, or all): per fleet, per fleet and month,
+ * and the flights with unusual fuel; shared by fleet reports and a reporting period's frozen report.
+ * `monthlyOptions` go to the month-by-month comparison (a fleet report skips its percentiles).
+ */
+export async function reportFigures(
+  scope: { workspaceId: number },
+  q: { from: string; to: string; fleets?: number[] },
+  monthlyOptions: { percentiles?: boolean } = {},
+): Promise<{ period: ReturnType<typeof resolvePeriod>; perFleet: FleetComparison; figures: ReportFigures }> {
+  const period = resolvePeriod({ from: q.from, to: q.to });
+  const query = {
+    from: period.from,
+    to: period.to,
+    groupBy: 'month' as const,
+    ...(q.fleets ? { fleets: q.fleets } : {}),
+  };
+  const [monthly, perFleet, fuelWarnings] = await Promise.all([
+    compareFleets(scope, query, undefined, monthlyOptions),
+    compareFleets(scope, { ...query, groupBy: 'fleet' }),
+    listFuelWarnings(scope, toFlightFilters(query, period)),
+  ]);
+  const figures: ReportFigures = {
+    engineVersions: perFleet.engineVersions.map((v) => v.engineVersion),
+    engineVersionFlights: perFleet.engineVersions,
+    totals: perFleet.totals,
+    perFleet: perFleet.rows,
+    perFleetMonth: monthly.rows,
+    months: monthly.months,
+    series: monthly.series,
+    context: perFleet.context,
+    notes: perFleet.notes,
+    cautions: perFleet.cautions,
+    fuelWarnings,
+  };
+  return { period, perFleet, figures };
+}
+
 export async function buildFleetReport(
   scope: { workspaceId: number },
   input: ReportCreate & {
@@ -87,13 +142,11 @@ export async function buildFleetReport(
     .map((id) => ({ id, name: byId.get(id)?.name ?? String(id) }))
     .sort((a, b) => a.name.localeCompare(b.name));
 
-  const period = resolvePeriod({ from: input.from, to: input.to });
-  const query = { from: period.from, to: period.to, groupBy: 'month' as const, fleets: input.fleetIds };
-  const [monthly, perFleet, fuelWarnings] = await Promise.all([
-    compareFleets(scope, query, undefined, { percentiles: false }),
-    compareFleets(scope, { ...query, groupBy: 'fleet' }),
-    listFuelWarnings(scope, toFlightFilters(query, period)),
-  ]);
+  const { period, perFleet, figures } = await reportFigures(
+    scope,
+    { from: input.from, to: input.to, fleets: input.fleetIds },
+    { percentiles: false },
+  );
   const title = input.name?.trim() || `Fleet report ${period.from} to ${period.to}`;
   const summary: ReportSummary = {
     version: 1,
@@ -104,18 +157,8 @@ export async function buildFleetReport(
     generatedAt: new Date().toISOString(),
     generatedBy: input.actorName,
     units: input.units,
-    engineVersions: perFleet.engineVersions.map((v) => v.engineVersion),
-    engineVersionFlights: perFleet.engineVersions,
-    totals: perFleet.totals,
-    perFleet: perFleet.rows,
-    perFleetMonth: monthly.rows,
-    months: monthly.months,
-    series: monthly.series,
-    context: perFleet.context,
-    notes: perFleet.notes,
-    cautions: perFleet.cautions,
+    ...figures,
     percentiles: perFleet.percentiles && 'pending' in perFleet.percentiles ? null : perFleet.percentiles,
-    fuelWarnings,
   };
   const [pdf, csv] = [await renderReportPdf(summary, reportMethodText()), reportCsv(summary)];
   return createReport(scope, {

@@ -104,16 +104,19 @@ defineJob<ReportSendJob>(REPORT_SEND_JOB, deliver, {
  * Records the send as queued and queues its job. When the queue refuses, the send is recorded as
  * failed and the caller gets 503 (nothing was sent).
  */
+/** A request to e-mail a report: to whom, with what note, from whom. */
+export interface ReportSendRequest {
+  reportId: number;
+  recipients: string[];
+  note?: string;
+  sentBy: number | null;
+  senderName: string;
+  actor: string;
+}
+
 export async function queueReportSendJob(
   scope: { workspaceId: number },
-  input: {
-    reportId: number;
-    recipients: string[];
-    note?: string;
-    sentBy: number | null;
-    senderName: string;
-    actor: string;
-  },
+  input: ReportSendRequest,
 ): Promise<ReportSendDto> {
   const rest: SendJobRest = {
     ...(input.note ? { note: input.note } : {}),
@@ -196,14 +199,8 @@ defineJob(REPORT_SEND_SWEEP_JOB, async () => void (await sweepQueuedReportSends(
  * `report.redeliver`, the job an earlier release queued for a refused first attempt: kept so such
  * jobs (and their dead letters) still run. It records a new queued send and queues `report.send`.
  */
-interface LegacyRedelivery {
+interface LegacyRedelivery extends ReportSendRequest {
   workspaceId: number;
-  reportId: number;
-  recipients: string[];
-  note?: string;
-  sentBy: number | null;
-  senderName: string;
-  actor: string;
 }
 
 export const LEGACY_REPORT_REDELIVERY_JOB = 'report.redeliver';

@@ -6,7 +6,7 @@ import { limitReportSend } from '@/lib/auth/throttle';
 import type { ReportSummary } from './model';
 import { fileStem } from './text';
 import { COUNT_LABELS } from '@/lib/counts';
-import { queueReportSendJob } from './jobs';
+import { queueReportSendJob, type ReportSendRequest } from './jobs';
 
 const esc = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
 
@@ -48,17 +48,7 @@ export interface QueuedReportSend {
  * recorded as queued with a per-send key and the `report.send` job (lib/reports/jobs.ts) sends it,
  * with retries. When the job cannot be queued the send is recorded as failed and the caller gets 503.
  */
-export async function sendReport(
-  scope: { workspaceId: number },
-  input: {
-    reportId: number;
-    recipients: string[];
-    note?: string;
-    sentBy: number | null;
-    senderName: string;
-    actor: string;
-  },
-): Promise<QueuedReportSend> {
+export async function sendReport(scope: { workspaceId: number }, input: ReportSendRequest): Promise<QueuedReportSend> {
   await getReport(scope, input.reportId);
   await limitReportSend(scope.workspaceId);
   const send = await queueReportSendJob(scope, input);
